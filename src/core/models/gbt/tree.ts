@@ -1,0 +1,24 @@
+/**
+ * The fitted form of one regression tree, as flat arrays (node i's fields at index i; node 0 is the
+ * root). A row goes left when `value <= threshold[i]`; a missing value (NaN) goes left when
+ * `missingGoesLeft[i]` is 1. Leaves have feature -1 and carry `value`, with the learning rate
+ * already folded in. Thresholds are raw feature values, so a tree can be evaluated (or exported
+ * to ONNX TreeEnsemble with BRANCH_LEQ) without the bins it was grown on.
+ */
+export interface Tree {
+  readonly feature: Int32Array
+  readonly threshold: Float64Array
+  readonly left: Int32Array
+  readonly right: Int32Array
+  readonly missingGoesLeft: Uint8Array
+  readonly value: Float64Array
+}
+
+/** A boosted ensemble: raw score = baseScore + sum of tree outputs; binary applies the logistic. */
+export interface BoostedEnsemble {
+  readonly task: 'binary' | 'regression'
+  readonly featureNames: readonly string[]
+  /** Regression: the mean target. Binary: log-odds of the training positive rate. */
+  readonly baseScore: number
+  readonly trees: readonly Tree[]
+}

@@ -1,0 +1,28 @@
+import type { FeatureMatrix, Task } from '../data/dataset.ts'
+
+/**
+ * A fitted model. One batched call over a whole matrix; the result is the regression value, or for
+ * a binary task the positive-class probability, one per row. Async because ONNX sessions are.
+ * The matrix's features must be exactly `featureNames`, in that order (use selectFeatures).
+ */
+export interface Model {
+  readonly kind: string
+  readonly task: Task
+  readonly featureNames: readonly string[]
+  predict(matrix: FeatureMatrix): Promise<Float64Array>
+  /** Built-in learners: gain and split count per feature (impurity importance, in-sample). */
+  readonly splitStatistics?: readonly { feature: string; gain: number; splits: number }[]
+}
+
+/** What one refit is asked for. The seed is already derived; leaveOut is for drop-column refits. */
+export interface FitRequest {
+  readonly side: 'base' | 'head'
+  readonly seed: number
+  /** 0-based refit number within the side. */
+  readonly refit: number
+  /** Features to leave out of the fit (drop-column importance); empty for an ordinary refit. */
+  readonly leaveOut: readonly string[]
+}
+
+/** Trains a model for one side. Built-in learners and the repository's training command both fit this. */
+export type Fit = (request: FitRequest) => Promise<Model>
