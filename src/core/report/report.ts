@@ -1,0 +1,157 @@
+/**
+ * GateReport: the product. One object, rendered as the pull-request comment (markdown), the
+ * terminal text, the job summary, and written as is as JSON (`--json`). Versioned: consumers check
+ * `schemaVersion`; any change to a field's meaning bumps it (docs/report-json.md documents it).
+ */
+
+export type Verdict = 'pass' | 'warn' | 'block' | 'error'
+export type Severity = 'block' | 'warn' | 'info'
+
+export type FindingKind =
+  | 'leakage' // one feature dominates the model, or alone separates the holdout almost perfectly
+  | 'rank-shift' // one feature's importance moved significantly and by enough positions
+  | 'rank-agreement' // the two sides' rankings agree less than reseeded refits of the base agree
+  | 'score-regression' // the holdout score got worse beyond tolerance and noise
+  | 'holdout-rows' // the two sides are not scored on the same holdout rows
+  | 'feature-set' // features added, removed or changed kind
+  | 'floor-drop' // a feature above the floor on the base is indistinguishable from zero on the head
+  | 'unused-feature' // an added feature the candidate model does not use
+  | 'policy-changed' // the pull request changes the policy file itself
+  | 'noise-model' // how much noise the floor covers (loaded models cannot be reseeded)
+  | 'run-error' // the run failed; verdict 'error'
+
+/** Evidence values are plain numbers, strings, booleans or null, so the JSON stays flat and diffable. */
+export type Evidence = Readonly<Record<string, number | string | boolean | null>>
+
+export interface Finding {
+  readonly kind: FindingKind
+  readonly severity: Severity
+  /** The feature (or group) the finding is about, when it is about one. */
+  readonly feature?: string
+  /** One sentence, plain text, no markdown. */
+  readonly title: string
+  /** Longer plain-text explanation with the numbers that decided it. */
+  readonly message: string
+  readonly evidence: Evidence
+}
+
+/** One side's statistics for one feature or group. Importance is "how much worse the metric gets". */
+export interface SideImportance {
+  /** Mean importance over refits (each refit's value is the mean over its draws). */
+  readonly mean: number
+  /** 95% interval for `mean`, combining draw and refit variance (t with refits-1 df). */
+  readonly lower: number
+  readonly upper: number
+  /** SD across refits of the per-refit means: the training-noise floor. */
+  readonly refitSd: number
+  /** Pooled SD of single draws within a refit. */
+  readonly drawSd: number
+  /** 1-based rank by mean importance among this side's features (groups ranked separately). */
+  readonly rank: number
+  /** Share of this side's total positive importance (features only; groups: share of the same total). */
+  readonly share: number
+  /** The interval's lower bound is above zero. */
+  readonly isAboveFloor: boolean
+  /** Per refit, the mean over draws. */
+  readonly perRefit: readonly number[]
+  /** A one-feature built-in model's holdout AUC (binary) or R² (regression), when it was computed. */
+  readonly singleFeatureScore?: number
+}
+
+export interface FeatureRow {
+  readonly name: string
+  readonly isGroup: boolean
+  /** Groups only: member columns. */
+  readonly members?: readonly string[]
+  readonly presence: 'both' | 'added' | 'removed'
+  readonly kind?: 'numeric' | 'categorical' | 'group'
+  readonly base?: SideImportance
+  readonly head?: SideImportance
+  /** Features on both sides: the rank-shift test. */
+  readonly shift?: {
+    readonly meanDifference: number
+    readonly welchT: number
+    readonly welchDf: number
+    readonly pValue: number
+    readonly adjustedPValue: number
+    readonly isSignificant: boolean
+    /** head rank minus base rank among features above the floor on either side; null when not compared. */
+    readonly positionsMoved: number | null
+  }
+}
+
+export interface SideSummary {
+  readonly side: 'base' | 'head'
+  /** The git ref or description the user gave ("working tree" for an uncommitted head). */
+  readonly ref: string
+  readonly commit: string | null
+  readonly trainRows: number
+  readonly holdoutRows: number
+  /** Holdout rows actually used for importance (a cap may sample them). */
+  readonly evaluationRows: number
+  readonly referenceRows: number
+  readonly features: readonly { readonly name: string; readonly kind: 'numeric' | 'categorical' }[]
+  readonly model: { readonly kind: string; readonly description: string }
+  /** Holdout metric per refit, in refit order. */
+  readonly scores: readonly number[]
+  readonly scoreMean: number
+  readonly scoreSd: number
+  /** The derived seed of each refit, so any single refit can be rerun alone. */
+  readonly refitSeeds: readonly number[]
+  /** 'refits-and-draws' when models were refitted; 'draws-only' for a loaded model. */
+  readonly noiseCovers: 'refits-and-draws' | 'draws-only'
+}
+
+export interface RankAgreement {
+  readonly kendallTau: number
+  readonly rankBiasedOverlap: number
+  readonly persistence: number
+  /** The same statistics between pairs of base refits: the reseed null. */
+  readonly nullKendallTau: readonly number[]
+  readonly nullRankBiasedOverlap: readonly number[]
+  readonly kendallTauThreshold: number
+  readonly rankBiasedOverlapThreshold: number
+  /** Features compared (above the floor on either side, present on both). */
+  readonly featuresCompared: number
+}
+
+export interface GateReport {
+  readonly schemaVersion: 1
+  readonly tool: { readonly name: 'plumbline'; readonly version: string }
+  readonly verdict: Verdict
+  /** One sentence: the verdict and its main reason. Plain text. */
+  readonly headline: string
+  /** Sorted: block, then warn, then info. */
+  readonly findings: readonly Finding[]
+  /** Sorted by head importance (removed features after, by base importance). */
+  readonly features: readonly FeatureRow[]
+  readonly featureSet: {
+    readonly added: readonly string[]
+    readonly removed: readonly string[]
+    readonly kindChanged: readonly { readonly name: string; readonly base: string; readonly head: string }[]
+  }
+  readonly agreement: RankAgreement | null
+  readonly sides: { readonly base: SideSummary; readonly head: SideSummary } | null
+  readonly settings: {
+    readonly task: 'binary' | 'regression'
+    readonly target: string
+    readonly metric: string
+    readonly higherIsBetter: boolean
+    readonly draws: number
+    readonly refits: number
+    readonly seed: number
+    readonly policySource: string
+    /** The head's policy governs both sides. */
+    readonly policyFrom: 'head'
+    readonly checks: Readonly<Record<string, Evidence>>
+  }
+  /** Wall-clock seconds per stage, measured by the adapter; not part of the deterministic content. */
+  readonly timings: Readonly<Record<string, number>>
+  /** Always present: a pass is not proof of the absence of leakage. */
+  readonly caution: string
+}
+
+export const reportCaution =
+  'A pass is not proof that the model is free of leakage or fit for use: plumbline only sees what ' +
+  'the data on both sides can show, and a weak leak looks like a weak real signal. Review of the ' +
+  "feature change stays with people and the team's own policies."
