@@ -38,6 +38,14 @@ export interface Dataset extends FeatureMatrix {
   readonly missing: readonly number[]
   readonly target?: Target
   readonly ids?: { readonly name: string; readonly values: readonly string[] }
+  /**
+   * Only for a file read against another file's schema (`parseCsv` with `schema`): per categorical
+   * feature with at least one, how many cells held a category the schema's dictionary lacks. Those
+   * cells are NaN in `columns` but not counted in `missing`.
+   */
+  readonly unseenCategories?: Readonly<Record<string, number>>
+  /** Only with a schema: columns in the file that the schema does not have, left out, in file order. */
+  readonly extraColumns?: readonly string[]
 }
 
 /** The rows `indices` of a dataset, in that order (ids and target follow). */
