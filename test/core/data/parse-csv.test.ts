@@ -1,7 +1,7 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { parseCsv, schemaOf, type ParseCsvOptions } from '../../../src/core/data/parse-csv.ts'
-import { UserError } from '../../../src/core/errors.ts'
+import { userErrorText } from './user-error-text.ts'
 
 // Small invented parcel-courier files (demo scenario); every expected value below is worked by hand.
 const TRAIN = [
@@ -13,17 +13,6 @@ const TRAIN = [
 ].join('\n')
 
 const options: ParseCsvOptions = { source: 'data/train.csv', target: 'late', roles: { parcel_id: 'id' } }
-
-/** The UserError a call throws, as "message | fix", so tests can assert both word for word. */
-function failure(run: () => unknown): string {
-  try {
-    run()
-  } catch (error) {
-    if (error instanceof UserError) return `${error.message} | ${error.fix}`
-    throw error
-  }
-  throw new Error('expected a UserError')
-}
 
 describe('parseCsv(text, options)', () => {
   it('returns one Float64Array per feature, ids and a 0/1 target', () => {
@@ -210,34 +199,34 @@ describe('parseCsv(text, {schema}) with schemaOf(training data)', () => {
   })
 
   it('refuses a file that lacks columns of the schema', () => {
-    expect(failure(() => parseCsv('parcel_id,depot,late\nH1,north,no\n', { source: 'h.csv', schema }))).toBe(
+    expect(userErrorText(() => parseCsv('parcel_id,depot,late\nH1,north,no\n', { source: 'h.csv', schema }))).toBe(
       "h.csv lacks the columns 'distance_km', 'stops' that data/train.csv has. | Add them: a file read alongside data/train.csv needs its feature and id columns.",
     )
   })
 
   it('refuses a target label that the training file does not have', () => {
     const text = 'parcel_id,depot,distance_km,stops,late\nH1,north,1,1,no\nH2,north,1,1,maybe\n'
-    expect(failure(() => parseCsv(text, { source: 'h.csv', schema }))).toBe(
+    expect(userErrorText(() => parseCsv(text, { source: 'h.csv', schema }))).toBe(
       "h.csv, line 3 (the header is line 1), column 'late': 'maybe' is not one of the target's classes in data/train.csv ('no', 'yes'). | Use the same two class labels as data/train.csv.",
     )
   })
 
   it('refuses text in a column that is numeric in the training file', () => {
     const text = 'parcel_id,depot,distance_km,stops,late\nH1,north,far,1,no\n'
-    expect(failure(() => parseCsv(text, { source: 'h.csv', schema }))).toBe(
+    expect(userErrorText(() => parseCsv(text, { source: 'h.csv', schema }))).toBe(
       "h.csv, line 2 (the header is line 1), column 'distance_km': 'far' is not a number, but the column is numeric in data/train.csv. | Correct the value, or write NA or leave the cell empty if it is missing.",
     )
   })
 
   it('refuses a file without the target column by default', () => {
-    expect(failure(() => parseCsv('parcel_id,depot,distance_km,stops\nR1,east,1,1\n', { source: 'ref.csv', schema }))).toBe(
+    expect(userErrorText(() => parseCsv('parcel_id,depot,distance_km,stops\nR1,east,1,1\n', { source: 'ref.csv', schema }))).toBe(
       "ref.csv has no target column 'late'. Its columns are 'parcel_id', 'depot', 'distance_km', 'stops'. | Add the column 'late' to the file, or name one of its columns as the target.",
     )
   })
 })
 
 describe('parseCsv(text, options) refuses, word for word', () => {
-  const read = (text: string, extra: Partial<ParseCsvOptions> = {}) => failure(() => parseCsv(text, { source: 'f.csv', target: 'late', ...extra }))
+  const read = (text: string, extra: Partial<ParseCsvOptions> = {}) => userErrorText(() => parseCsv(text, { source: 'f.csv', target: 'late', ...extra }))
 
   it('an empty file', () => {
     expect(read('')).toBe('f.csv is empty. | Write the column names on the first line and one row per example below it.')
@@ -270,7 +259,7 @@ describe('parseCsv(text, options) refuses, word for word', () => {
     expect(read('km,stops\n1,2\n')).toBe(
       "f.csv has no target column 'late'. Its columns are 'km', 'stops'. | Add the column 'late' to the file, or name one of its columns as the target.",
     )
-    expect(failure(() => parseCsv('km,stops\n1,2\n', { source: 'f.csv' }))).toBe(
+    expect(userErrorText(() => parseCsv('km,stops\n1,2\n', { source: 'f.csv' }))).toBe(
       'f.csv: no target column was named. | Name the column that holds the outcome to predict as the target.',
     )
   })
