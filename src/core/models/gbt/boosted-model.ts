@@ -1,0 +1,71 @@
+import type { FeatureMatrix, Task } from '../../data/dataset.ts'
+import type { Model } from '../model.ts'
+import type { BoostedEnsemble, Tree } from './tree.ts'
+
+/** Gain and split count of one feature over a whole ensemble (in-sample impurity importance). */
+export interface SplitStatistic {
+  readonly feature: string
+  /** Sum over the ensemble's splits on this feature of the loss reduction (Chen & Guestrin 2016, eq. 7). */
+  readonly gain: number
+  readonly splits: number
+}
+
+/**
+ * A boosted tree ensemble as a Model. Evaluates raw feature values with the trees' thresholds, so it
+ * needs no bins: a row goes left when value <= threshold, a NaN follows the node's missing direction.
+ */
+export class BoostedModel implements Model {
+  readonly kind = 'boosted-trees'
+  readonly task: Task
+  readonly featureNames: readonly string[]
+
+  constructor(
+    readonly ensemble: BoostedEnsemble,
+    readonly splitStatistics?: readonly SplitStatistic[],
+  ) {
+    this.task = ensemble.task
+    this.featureNames = ensemble.featureNames
+  }
+
+  /**
+   * Predictions over raw values ("raw" as opposed to bins): the regression value, or for a binary
+   * task the positive-class probability. Features are found by name in `matrix`, in any order; extra
+   * columns are ignored. Throws RangeError naming a feature the matrix lacks. Cost O(rows x trees x depth).
+   */
+  predictRaw(matrix: FeatureMatrix): Float64Array {
+    const position = new Map(matrix.features.map((f, j) => [f.name, j]))
+    const columns = this.featureNames.map((name) => {
+      const j = position.get(name)
+      if (j === undefined) {
+        throw new RangeError(`BoostedModel.predictRaw: the matrix has no feature named '${name}'`)
+      }
+      return matrix.columns[j]
+    })
+    const n = matrix.rows
+    const score = new Float64Array(n).fill(this.ensemble.baseScore)
+    for (const tree of this.ensemble.trees) addTree(tree, columns, n, score)
+    if (this.task === 'binary') {
+      for (let i = 0; i < n; i++) score[i] = 1 / (1 + Math.exp(-score[i]))
+    }
+    return score
+  }
+
+  async predict(matrix: FeatureMatrix): Promise<Float64Array> {
+    return this.predictRaw(matrix)
+  }
+}
+
+function addTree(tree: Tree, columns: readonly Float64Array[], n: number, score: Float64Array): void {
+  const { feature, threshold, left, right, missingGoesLeft, value } = tree
+  for (let i = 0; i < n; i++) {
+    let node = 0
+    let f = feature[0]
+    while (f >= 0) {
+      const v = columns[f][i]
+      const goLeft = v !== v ? missingGoesLeft[node] === 1 : v <= threshold[node]
+      node = goLeft ? left[node] : right[node]
+      f = feature[node]
+    }
+    score[i] += value[node]
+  }
+}

@@ -1,0 +1,689 @@
+import type { Task } from '../../data/dataset.ts'
+import { InternalError } from '../../errors.ts'
+import { createRandom, type Random } from '../../statistics/random.ts'
+import { MISSING_BIN, type BinnedFeatures } from './bin-features.ts'
+import { BoostedModel, type SplitStatistic } from './boosted-model.ts'
+import type { Tree } from './tree.ts'
+
+/** How a boosted ensemble is grown. */
+export interface BoostingSettings {
+  /** Number of boosting rounds (one tree each). */
+  readonly trees: number
+  /** Depth-wise growth stops at this depth (the root is depth 0; depth d gives up to 2^d leaves). */
+  readonly maxDepth: number
+  /** Shrinkage: each tree's leaf values are multiplied by it. */
+  readonly learningRate: number
+  /** A split is allowed only when both children get at least this many (sampled) rows. */
+  readonly minRowsPerLeaf: number
+  /** L2 penalty on leaf values (XGBoost's lambda). */
+  readonly l2: number
+  /** Fraction of the training rows each tree is grown on, drawn without replacement. */
+  readonly rowSubsample: number
+  /** Fraction of the allowed features each tree may split on. */
+  readonly columnSubsample: number
+}
+
+/**
+ * Defaults (common practice, not tuned for any data set): 200 rounds of depth-6 trees at learning
+ * rate 0.1 (XGBoost's default depth), at least 20 rows per leaf (LightGBM's min_data_in_leaf
+ * default), lambda 1 (XGBoost's default), and 0.8 of the rows and features per tree so that reseeded
+ * refits differ, which the noise floor needs.
+ */
+export const defaultBoostingSettings: BoostingSettings = {
+  trees: 200,
+  maxDepth: 6,
+  learningRate: 0.1,
+  minRowsPerLeaf: 20,
+  l2: 1,
+  rowSubsample: 0.8,
+  columnSubsample: 0.8,
+}
+
+/**
+ * The smallest hessian sum a child may have. For squared error every row has hessian 1, so this adds
+ * nothing to minRowsPerLeaf; for log loss it keeps a leaf of confidently predicted rows (hessians
+ * p(1-p) near 0) from taking a huge Newton step. 1 is XGBoost's default min_child_weight.
+ */
+export const MIN_HESSIAN_PER_LEAF = 1
+
+export interface FitBoostedOptions {
+  readonly task: Task
+  readonly settings: BoostingSettings
+  readonly seed: number
+  /** Training row indices into `binned`, in the order to use (default: every row in order). */
+  readonly rows?: ArrayLike<number>
+  /** Column indices of `binned` the trees may split on (default: all). */
+  readonly features?: readonly number[]
+}
+
+/**
+ * Gradient-boosted regression trees on binned features (Friedman 2001, "Greedy function
+ * approximation", Annals of Statistics 29(5)), with XGBoost's second-order objective (Chen & Guestrin
+ * 2016, "XGBoost: A scalable tree boosting system", KDD): each tree fits gradients g and hessians h
+ * of the loss at the current score; a leaf's value is -G/(H + l2) (eq. 5) and a split's gain is
+ * 1/2 [GL^2/(HL+l2) + GR^2/(HR+l2) - G^2/(H+l2)] (eq. 7, no gamma). Losses: squared error
+ * (regression, g = score - y, h = 1) and log loss (binary, g = p - y, h = p(1 - p)).
+ *
+ * Trees grow depth-wise on histograms of (G, H, count) per bin; of two children only the smaller
+ * one's histogram is built, the larger is parent minus smaller. Missing values are routed by a
+ * learned default direction (sparsity-aware split finding, Chen & Guestrin 2016, Algorithm 3): each
+ * candidate tries the missing bin on both sides. When a node has no missing rows, missing values go
+ * to the child with more rows. Each tree draws its rows without replacement (Knuth's Algorithm S,
+ * TAOCP vol. 2, 3.4.2) and its features the same way, from createRandom(seed); with both fractions 1
+ * the seed changes nothing. Same inputs and seed give a bit-identical model.
+ *
+ * The model's features are the allowed ones, in the binned matrix's order; thresholds are raw values
+ * (BinnedFeatures.upperEdges), so the model predicts from unbinned data.
+ * Edges: a node too small to split, or with no split of positive gain, becomes a leaf; a target
+ * with one class gets a base score of log-odds of a rate clamped to [1e-6, 1 - 1e-6].
+ * Cost: O(trees x depth x sampled rows x features) for histograms plus O(trees x nodes x features x bins)
+ * for split search. Memory: 2^(maxDepth-1) histograms of features x 256 x 3 doubles.
+ */
+export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options: FitBoostedOptions): BoostedModel {
+  const { task, settings } = options
+  checkSettings(settings)
+  if (task !== 'regression' && task !== 'binary') throw new RangeError(`fitBoosted: unknown task '${String(task)}'`)
+  if (target.length !== binned.rows) {
+    throw new RangeError(`fitBoosted needs one target per binned row, got ${target.length} targets for ${binned.rows} rows`)
+  }
+  const positions = resolveRows(options.rows, binned.rows)
+  const used = resolveFeatures(options.features, binned.features.length)
+  const n = positions.length
+  const featureCount = used.length
+
+  const rowCodes = gatherRowMajor(binned.codes, used, positions)
+  const binCounts = Int32Array.from(used, (j) => binned.binCounts[j])
+  const y = new Float64Array(n)
+  let targetSum = 0
+  for (let p = 0; p < n; p++) {
+    const value = target[positions[p]]
+    if (!Number.isFinite(value) || (task === 'binary' && value !== 0 && value !== 1)) {
+      throw new RangeError(
+        `fitBoosted: target of row ${positions[p]} is ${value}; ${task === 'binary' ? 'binary targets must be 0 or 1' : 'regression targets must be finite'}`,
+      )
+    }
+    y[p] = value
+    targetSum += value
+  }
+  const baseScore = task === 'regression' ? targetSum / n : logOdds(targetSum / n)
+
+  const grower = new TreeGrower(rowCodes, featureCount, binCounts, n, settings, task === 'regression')
+  const score = new Float64Array(n).fill(baseScore)
+  const random = createRandom(options.seed)
+  const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n))
+  const treeFeatureCount = Math.max(1, Math.round(settings.columnSubsample * featureCount))
+  const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k)
+  const gainByFeature = new Float64Array(featureCount)
+  const splitsByFeature = new Int32Array(featureCount)
+  const trees: Tree[] = []
+
+  for (let t = 0; t < settings.trees; t++) {
+    computeGradients(task, y, score, grower.gradient, grower.hessian)
+    const rowCount = sampleSorted(n, sampleSize, random, grower.order)
+    const treeFeatures =
+      treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random)
+    grower.grow(rowCount, treeFeatures)
+    grower.addToScores(score, rowCount)
+    grower.addSplitStatistics(gainByFeature, splitsByFeature)
+    trees.push(grower.toTree(used.map((j) => binned.upperEdges[j])))
+  }
+
+  const featureNames = used.map((j) => binned.features[j].name)
+  const splitStatistics: SplitStatistic[] = featureNames.map((feature, k) => ({
+    feature,
+    gain: gainByFeature[k],
+    splits: splitsByFeature[k],
+  }))
+  return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics)
+}
+
+function checkSettings(s: BoostingSettings): void {
+  const wholeAtLeast = (name: keyof BoostingSettings, min: number) => {
+    if (!Number.isInteger(s[name]) || s[name] < min) {
+      throw new RangeError(`fitBoosted needs settings.${name} to be a whole number >= ${min}, got ${s[name]}`)
+    }
+  }
+  const fraction = (name: keyof BoostingSettings) => {
+    if (!(s[name] > 0 && s[name] <= 1)) throw new RangeError(`fitBoosted needs settings.${name} in (0, 1], got ${s[name]}`)
+  }
+  wholeAtLeast('trees', 0)
+  wholeAtLeast('maxDepth', 0)
+  wholeAtLeast('minRowsPerLeaf', 1)
+  if (s.maxDepth > 16) throw new RangeError(`fitBoosted needs settings.maxDepth <= 16, got ${s.maxDepth}`)
+  if (!(s.learningRate > 0) || !Number.isFinite(s.learningRate)) {
+    throw new RangeError(`fitBoosted needs settings.learningRate > 0, got ${s.learningRate}`)
+  }
+  if (!(s.l2 >= 0) || !Number.isFinite(s.l2)) throw new RangeError(`fitBoosted needs settings.l2 >= 0, got ${s.l2}`)
+  fraction('rowSubsample')
+  fraction('columnSubsample')
+}
+
+function resolveRows(rows: ArrayLike<number> | undefined, total: number): Int32Array {
+  if (rows === undefined) return Int32Array.from({ length: total }, (_, i) => i)
+  if (rows.length === 0) throw new RangeError('fitBoosted needs at least one training row, got none')
+  const out = new Int32Array(rows.length)
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i]
+    if (!Number.isInteger(r) || r < 0 || r >= total) {
+      throw new RangeError(`fitBoosted: rows[${i}] is ${r}, not a row index from 0 to ${total - 1}`)
+    }
+    out[i] = r
+  }
+  return out
+}
+
+/** The allowed columns, deduplicated and in matrix order. */
+function resolveFeatures(features: readonly number[] | undefined, total: number): number[] {
+  if (features === undefined) return Array.from({ length: total }, (_, j) => j)
+  for (const j of features) {
+    if (!Number.isInteger(j) || j < 0 || j >= total) {
+      throw new RangeError(`fitBoosted: features contains ${j}, not a column index from 0 to ${total - 1}`)
+    }
+  }
+  return [...new Set(features)].sort((a, b) => a - b)
+}
+
+/** The used columns' codes at the training positions, row-major: out[p * used.length + k]. */
+function gatherRowMajor(codes: readonly Uint8Array[], used: readonly number[], positions: Int32Array): Uint8Array {
+  const width = used.length
+  const out = new Uint8Array(positions.length * width)
+  for (let k = 0; k < width; k++) {
+    const column = codes[used[k]]
+    for (let p = 0, at = k; p < positions.length; p++, at += width) out[at] = column[positions[p]]
+  }
+  return out
+}
+
+function logOdds(rate: number): number {
+  const r = Math.min(1 - 1e-6, Math.max(1e-6, rate))
+  return Math.log(r / (1 - r))
+}
+
+function computeGradients(task: Task, y: Float64Array, score: Float64Array, g: Float64Array, h: Float64Array): void {
+  const n = y.length
+  if (task === 'regression') {
+    for (let i = 0; i < n; i++) {
+      g[i] = score[i] - y[i]
+      h[i] = 1
+    }
+    return
+  }
+  for (let i = 0; i < n; i++) {
+    const p = 1 / (1 + Math.exp(-score[i]))
+    g[i] = p - y[i]
+    h[i] = p * (1 - p)
+  }
+}
+
+/** m of 0..n-1 without replacement, ascending, into out (Knuth's Algorithm S). Returns m. */
+function sampleSorted(n: number, m: number, random: Random, out: Int32Array): number {
+  if (m >= n) {
+    for (let i = 0; i < n; i++) out[i] = i
+    return n
+  }
+  let chosen = 0
+  for (let i = 0; i < n && chosen < m; i++) {
+    if ((n - i) * random.next() < m - chosen) out[chosen++] = i
+  }
+  return chosen
+}
+
+function sampleFeatures(total: number, count: number, random: Random): Int32Array {
+  const out = new Int32Array(count)
+  sampleSorted(total, count, random, out)
+  return out
+}
+
+/** Histogram slots per feature: value bins 0..254 and the missing bin 255. */
+const SLOTS_PER_FEATURE = 256
+
+/**
+ * The reusable state of growing one tree at a time, allocated once per fit: row order, gradients,
+ * row-major bin codes, a histogram pool, and the tree in bin space.
+ *
+ * Histograms are flat Float64Arrays, SLOTS_PER_FEATURE slots per tree feature, each slot holding
+ * (gradient sum, hessian sum, row count), or (gradient sum, row count) when every hessian is 1
+ * (squared error), where the count is the hessian sum. Codes are row-major (all of a row's codes in
+ * one cache line) because the histogram loop walks rows and adds each row to every feature.
+ */
+class TreeGrower {
+  readonly gradient: Float64Array
+  readonly hessian: Float64Array
+  /** Sampled row positions, grouped by node: node i's rows are order[begin[i]..end[i]). */
+  readonly order: Int32Array
+  private readonly scratch: Int32Array
+  private readonly slot: number
+  private readonly featureStride: number
+  // The current tree's features: codes[p * width + t] is position p's bin for tree feature t.
+  private treeFeatures: Int32Array = new Int32Array(0)
+  private treeCodes: Uint8Array
+  private readonly packedCodes: Uint8Array
+  private width = 0
+  private readonly treeBins: Int32Array
+  // The tree being grown, node-indexed in creation (breadth-first) order. feature is the tree feature t.
+  private nodeCount = 0
+  private readonly feature: Int32Array
+  private readonly splitBin: Int32Array
+  private readonly missingLeft: Uint8Array
+  private readonly left: Int32Array
+  private readonly right: Int32Array
+  private readonly value: Float64Array
+  private readonly gain: Float64Array
+  private readonly begin: Int32Array
+  private readonly end: Int32Array
+  private readonly sumGradient: Float64Array
+  private readonly sumHessian: Float64Array
+  /** Histogram buffer of a node, -1 when it has none. */
+  private readonly histogramOf: Int32Array
+  private readonly histograms: Float64Array[] = []
+  private readonly freeHistograms: number[] = []
+  // The best split found by findSplit.
+  private bestGain = 0
+  private bestFeature = -1
+  private bestBin = -1
+  private bestMissingLeft = 0
+  private bestLeftGradient = 0
+  private bestLeftHessian = 0
+  private bestLeftCount = 0
+
+  constructor(
+    /** Row-major codes of every allowed feature: rowCodes[p * featureCount + k]. */
+    private readonly rowCodes: Uint8Array,
+    private readonly featureCount: number,
+    private readonly binCounts: Int32Array,
+    n: number,
+    private readonly settings: BoostingSettings,
+    private readonly isUnitHessian: boolean,
+  ) {
+    this.gradient = new Float64Array(n)
+    this.hessian = new Float64Array(n)
+    this.order = new Int32Array(n)
+    this.scratch = new Int32Array(n)
+    this.slot = isUnitHessian ? 2 : 3
+    this.featureStride = this.slot * SLOTS_PER_FEATURE
+    this.treeCodes = rowCodes
+    const treeFeatureCount = Math.max(1, Math.round(settings.columnSubsample * featureCount))
+    this.packedCodes = treeFeatureCount < featureCount ? new Uint8Array(n * treeFeatureCount) : rowCodes
+    this.treeBins = new Int32Array(featureCount)
+    const m = 2 ** (settings.maxDepth + 1) - 1
+    this.feature = new Int32Array(m)
+    this.splitBin = new Int32Array(m)
+    this.missingLeft = new Uint8Array(m)
+    this.left = new Int32Array(m)
+    this.right = new Int32Array(m)
+    this.value = new Float64Array(m)
+    this.gain = new Float64Array(m)
+    this.begin = new Int32Array(m)
+    this.end = new Int32Array(m)
+    this.sumGradient = new Float64Array(m)
+    this.sumHessian = new Float64Array(m)
+    this.histogramOf = new Int32Array(m)
+  }
+
+  /** Grows one tree on order[0..rowCount) with the given features (fit-local indices, ascending). */
+  grow(rowCount: number, treeFeatures: Int32Array): void {
+    this.useFeatures(treeFeatures)
+    const { settings, gradient, hessian, order } = this
+    let g = 0
+    let h = 0
+    for (let i = 0; i < rowCount; i++) {
+      g += gradient[order[i]]
+      h += hessian[order[i]]
+    }
+    this.nodeCount = 1
+    this.begin[0] = 0
+    this.end[0] = rowCount
+    this.sumGradient[0] = g
+    this.sumHessian[0] = h
+    this.histogramOf[0] = -1
+    if (settings.maxDepth > 0 && this.canSplit(0)) {
+      this.histogramOf[0] = this.takeHistogram()
+      this.buildHistogram(this.histograms[this.histogramOf[0]], 0)
+    }
+    let levelStart = 0
+    for (let depth = 0; depth <= settings.maxDepth; depth++) {
+      const levelEnd = this.nodeCount
+      const childrenAreLeaves = depth + 1 >= settings.maxDepth
+      for (let node = levelStart; node < levelEnd; node++) {
+        if (this.histogramOf[node] >= 0 && this.findSplit(node)) this.split(node, childrenAreLeaves)
+        else this.makeLeaf(node)
+        if (this.histogramOf[node] >= 0) {
+          this.freeHistograms.push(this.histogramOf[node])
+          this.histogramOf[node] = -1
+        }
+      }
+      levelStart = levelEnd
+    }
+  }
+
+  /** Points treeCodes at this tree's features, packing them row-major when they are a subset. */
+  private useFeatures(treeFeatures: Int32Array): void {
+    const width = treeFeatures.length
+    this.treeFeatures = treeFeatures
+    this.width = width
+    for (let t = 0; t < width; t++) this.treeBins[t] = this.binCounts[treeFeatures[t]]
+    if (width === this.featureCount) {
+      this.treeCodes = this.rowCodes
+      return
+    }
+    const { rowCodes, packedCodes, featureCount } = this
+    const n = this.order.length
+    for (let p = 0, from = 0, to = 0; p < n; p++, from += featureCount, to += width) {
+      for (let t = 0; t < width; t++) packedCodes[to + t] = rowCodes[from + treeFeatures[t]]
+    }
+    this.treeCodes = packedCodes
+  }
+
+  private canSplit(node: number): boolean {
+    return (
+      this.end[node] - this.begin[node] >= 2 * this.settings.minRowsPerLeaf &&
+      this.sumHessian[node] >= 2 * MIN_HESSIAN_PER_LEAF
+    )
+  }
+
+  private makeLeaf(node: number): void {
+    this.feature[node] = -1
+    this.value[node] = (-this.sumGradient[node] / (this.sumHessian[node] + this.settings.l2)) * this.settings.learningRate
+  }
+
+  private takeHistogram(): number {
+    const free = this.freeHistograms.pop()
+    if (free !== undefined) return free
+    this.histograms.push(new Float64Array(this.featureCount * this.featureStride))
+    return this.histograms.length - 1
+  }
+
+  /** Best split of a node by gain; false when none has positive gain within the leaf constraints. */
+  private findSplit(node: number): boolean {
+    const hist = this.histograms[this.histogramOf[node]]
+    const { l2, minRowsPerLeaf } = this.settings
+    const minHessian = MIN_HESSIAN_PER_LEAF
+    const slot = this.slot
+    const countAt = slot - 1
+    const G = this.sumGradient[node]
+    const H = this.sumHessian[node]
+    const C = this.end[node] - this.begin[node]
+    const parentScore = (G * G) / (H + l2)
+    let bestGain = 0
+    let bestFeature = -1
+    let bestBin = -1
+    let bestMissingLeft = 0
+    let bestLG = 0
+    let bestLH = 0
+    let bestLC = 0
+    for (let t = 0; t < this.width; t++) {
+      const base = t * this.featureStride
+      const bins = this.treeBins[t]
+      const missing = base + MISSING_BIN * slot
+      const mG = hist[missing]
+      const mH = hist[missing + 1]
+      const mC = hist[missing + countAt]
+      const hasMissing = mC > 0
+      let lG = 0
+      let lH = 0
+      let lC = 0
+      for (let b = 0, s = base; b < bins; b++, s += slot) {
+        lG += hist[s]
+        lH += hist[s + 1]
+        lC += hist[s + countAt]
+        // Missing to the right: left = bins 0..b.
+        let rC = C - lC
+        if (lC >= minRowsPerLeaf && rC >= minRowsPerLeaf) {
+          const rH = H - lH
+          if (lH >= minHessian && rH >= minHessian) {
+            const rG = G - lG
+            const gain = 0.5 * ((lG * lG) / (lH + l2) + (rG * rG) / (rH + l2) - parentScore)
+            if (gain > bestGain) {
+              bestGain = gain
+              bestFeature = t
+              bestBin = b
+              // Without missing rows, unseen missing values go to the larger child.
+              bestMissingLeft = !hasMissing && lC > rC ? 1 : 0
+              bestLG = lG
+              bestLH = lH
+              bestLC = lC
+            }
+          }
+        }
+        if (!hasMissing) continue
+        // Missing to the left: left = bins 0..b plus the missing bin.
+        const aC = lC + mC
+        rC = C - aC
+        if (aC >= minRowsPerLeaf && rC >= minRowsPerLeaf) {
+          const aH = lH + mH
+          const rH = H - aH
+          if (aH >= minHessian && rH >= minHessian) {
+            const aG = lG + mG
+            const rG = G - aG
+            const gain = 0.5 * ((aG * aG) / (aH + l2) + (rG * rG) / (rH + l2) - parentScore)
+            if (gain > bestGain) {
+              bestGain = gain
+              bestFeature = t
+              bestBin = b
+              bestMissingLeft = 1
+              bestLG = aG
+              bestLH = aH
+              bestLC = aC
+            }
+          }
+        }
+      }
+    }
+    if (bestFeature < 0) return false
+    this.bestGain = bestGain
+    this.bestFeature = bestFeature
+    this.bestBin = bestBin
+    this.bestMissingLeft = bestMissingLeft
+    this.bestLeftGradient = bestLG
+    this.bestLeftHessian = bestLH
+    this.bestLeftCount = bestLC
+    return true
+  }
+
+  /** Applies the best split found for `node`: partitions its rows, creates children and their histograms. */
+  private split(node: number, childrenAreLeaves: boolean): void {
+    const t = this.bestFeature
+    this.feature[node] = t
+    this.splitBin[node] = this.bestBin
+    this.missingLeft[node] = this.bestMissingLeft
+    this.gain[node] = this.bestGain
+    const from = this.begin[node]
+    const to = this.end[node]
+    const middle = partition(
+      this.order, this.scratch, from, to, this.treeCodes, this.width, t, this.bestBin, this.bestMissingLeft,
+    )
+    if (middle - from !== this.bestLeftCount) {
+      throw new InternalError('fitBoosted: the partition disagrees with the histogram')
+    }
+    const l = this.nodeCount
+    const r = l + 1
+    this.nodeCount += 2
+    this.left[node] = l
+    this.right[node] = r
+    this.begin[l] = from
+    this.end[l] = middle
+    this.begin[r] = middle
+    this.end[r] = to
+    this.sumGradient[l] = this.bestLeftGradient
+    this.sumHessian[l] = this.bestLeftHessian
+    this.sumGradient[r] = this.sumGradient[node] - this.bestLeftGradient
+    this.sumHessian[r] = this.sumHessian[node] - this.bestLeftHessian
+    this.histogramOf[l] = -1
+    this.histogramOf[r] = -1
+    if (childrenAreLeaves) return
+    const leftNeeds = this.canSplit(l)
+    const rightNeeds = this.canSplit(r)
+    if (!leftNeeds && !rightNeeds) return
+    // Build the smaller child's histogram; the larger one's is parent minus smaller, in the parent's buffer.
+    const leftIsSmaller = middle - from <= to - middle
+    const small = leftIsSmaller ? l : r
+    const large = leftIsSmaller ? r : l
+    const smallHist = this.takeHistogram()
+    this.buildHistogram(this.histograms[smallHist], small)
+    if (leftIsSmaller ? rightNeeds : leftNeeds) {
+      const parentHist = this.histogramOf[node]
+      this.subtractHistogram(this.histograms[parentHist], this.histograms[smallHist])
+      this.histogramOf[large] = parentHist
+      this.histogramOf[node] = -1
+    }
+    if (leftIsSmaller ? leftNeeds : rightNeeds) this.histogramOf[small] = smallHist
+    else this.freeHistograms.push(smallHist)
+  }
+
+  private buildHistogram(hist: Float64Array, node: number): void {
+    hist.fill(0, 0, this.width * this.featureStride)
+    const from = this.begin[node]
+    const to = this.end[node]
+    if (this.isUnitHessian) {
+      accumulateUnitHessian(hist, this.treeCodes, this.width, this.order, from, to, this.gradient)
+    } else {
+      accumulate(hist, this.treeCodes, this.width, this.order, from, to, this.gradient, this.hessian)
+    }
+  }
+
+  private subtractHistogram(into: Float64Array, minus: Float64Array): void {
+    const slot = this.slot
+    for (let t = 0; t < this.width; t++) {
+      const base = t * this.featureStride
+      const stop = base + this.treeBins[t] * slot
+      for (let s = base; s < stop; s++) into[s] -= minus[s]
+      const missing = base + MISSING_BIN * slot
+      for (let s = missing; s < missing + slot; s++) into[s] -= minus[s]
+    }
+  }
+
+  /** Adds this tree's leaf values to the training scores of every position (sampled or not). */
+  addToScores(score: Float64Array, rowCount: number): void {
+    const { order, feature, value, begin, end } = this
+    for (let node = 0; node < this.nodeCount; node++) {
+      if (feature[node] >= 0) continue
+      const v = value[node]
+      for (let i = begin[node]; i < end[node]; i++) score[order[i]] += v
+    }
+    if (rowCount === score.length) return
+    // Rows left out of this tree's sample walk the tree in bin space.
+    const sampled = new Uint8Array(score.length)
+    for (let i = 0; i < rowCount; i++) sampled[order[i]] = 1
+    const { treeCodes, width, splitBin, missingLeft, left, right } = this
+    for (let p = 0; p < score.length; p++) {
+      if (sampled[p] === 1) continue
+      let node = 0
+      while (feature[node] >= 0) {
+        const code = treeCodes[p * width + feature[node]]
+        const goLeft = code === MISSING_BIN ? missingLeft[node] === 1 : code <= splitBin[node]
+        node = goLeft ? left[node] : right[node]
+      }
+      score[p] += value[node]
+    }
+  }
+
+  addSplitStatistics(gainByFeature: Float64Array, splitsByFeature: Int32Array): void {
+    for (let node = 0; node < this.nodeCount; node++) {
+      const t = this.feature[node]
+      if (t < 0) continue
+      gainByFeature[this.treeFeatures[t]] += this.gain[node]
+      splitsByFeature[this.treeFeatures[t]]++
+    }
+  }
+
+  /** The grown tree with raw thresholds; feature indices are the fit-local (model) indices. */
+  toTree(upperEdges: readonly Float64Array[]): Tree {
+    const m = this.nodeCount
+    const tree = {
+      feature: new Int32Array(m).fill(-1),
+      threshold: new Float64Array(m),
+      left: new Int32Array(m).fill(-1),
+      right: new Int32Array(m).fill(-1),
+      missingGoesLeft: new Uint8Array(m),
+      value: new Float64Array(m),
+    }
+    for (let node = 0; node < m; node++) {
+      const t = this.feature[node]
+      if (t < 0) {
+        tree.value[node] = this.value[node]
+        continue
+      }
+      const k = this.treeFeatures[t]
+      tree.feature[node] = k
+      tree.threshold[node] = upperEdges[k][this.splitBin[node]]
+      tree.left[node] = this.left[node]
+      tree.right[node] = this.right[node]
+      tree.missingGoesLeft[node] = this.missingLeft[node]
+    }
+    return tree
+  }
+}
+
+/** The hot loop: adds (g, h, 1) of each of a node's rows to every feature's histogram. */
+function accumulate(
+  hist: Float64Array,
+  codes: Uint8Array,
+  width: number,
+  order: Int32Array,
+  from: number,
+  to: number,
+  gradient: Float64Array,
+  hessian: Float64Array,
+): void {
+  const stride = 3 * SLOTS_PER_FEATURE
+  for (let i = from; i < to; i++) {
+    const p = order[i]
+    const g = gradient[p]
+    const h = hessian[p]
+    const row = p * width
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + t] * 3
+      hist[s] += g
+      hist[s + 1] += h
+      hist[s + 2] += 1
+    }
+  }
+}
+
+/** accumulate for unit hessians: adds (g, 1) per row; the count doubles as the hessian sum. */
+function accumulateUnitHessian(
+  hist: Float64Array,
+  codes: Uint8Array,
+  width: number,
+  order: Int32Array,
+  from: number,
+  to: number,
+  gradient: Float64Array,
+): void {
+  const stride = 2 * SLOTS_PER_FEATURE
+  for (let i = from; i < to; i++) {
+    const p = order[i]
+    const g = gradient[p]
+    const row = p * width
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + t] * 2
+      hist[s] += g
+      hist[s + 1] += 1
+    }
+  }
+}
+
+/** Stable partition of order[from..to) into left-goers then right-goers by tree feature t; returns the boundary. */
+function partition(
+  order: Int32Array,
+  scratch: Int32Array,
+  from: number,
+  to: number,
+  codes: Uint8Array,
+  width: number,
+  t: number,
+  bin: number,
+  missingLeft: number,
+): number {
+  let write = from
+  let spill = 0
+  const missingGoesLeft = missingLeft === 1
+  for (let i = from; i < to; i++) {
+    const p = order[i]
+    const code = codes[p * width + t]
+    if (code === MISSING_BIN ? missingGoesLeft : code <= bin) order[write++] = p
+    else scratch[spill++] = p
+  }
+  for (let i = 0; i < spill; i++) order[write + i] = scratch[i]
+  return write
+}
