@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs'
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { parseCsv, schemaOf, type ParseCsvOptions } from '../../../src/core/data/parse-csv.ts'
@@ -314,5 +315,46 @@ describe('parseCsv(text, options) refuses, word for word', () => {
     expect(read('a,late\n1,0\n', { roles: { late: 'numeric' } })).toBe(
       "f.csv: the column 'late' is the target, but it also has the role 'numeric'. | Delete the other role of the target column.",
     )
+  })
+})
+
+describe('parseCsv(text, options) on data files that packages ship', () => {
+  it('reads scikit-learn\'s breast-cancer table as scikit-learn does', () => {
+    // Debian python3-sklearn's breast_cancer.csv starts with "569,30,malignant,benign" instead of
+    // column names; replace that line with names. Expected values computed with scikit-learn 1.2.1:
+    // load_breast_cancer() has shape (569, 30), 357 targets equal to 1 (benign), data[:, 0].mean() =
+    // 14.127291739894552 and data[:, 29].mean() = 0.0839458172231986.
+    const raw = readFileSync('/usr/lib/python3/dist-packages/sklearn/datasets/data/breast_cancer.csv', 'utf8')
+    const header = [...Array.from({ length: 30 }, (_, j) => `x${j}`), 'benign'].join(',')
+    const data = parseCsv(`${header}\n${raw.slice(raw.indexOf('\n') + 1)}`, { source: 'breast_cancer.csv', target: 'benign' })
+    const mean = (values: Float64Array) => values.reduce((a, b) => a + b, 0) / values.length
+    expect(data.rows).toBe(569)
+    expect(data.features.every((f) => f.kind === 'numeric')).toBe(true)
+    expect(data.features).toHaveLength(30)
+    expect(data.missing.every((m) => m === 0)).toBe(true)
+    expect(data.target?.classes).toEqual(['0', '1'])
+    expect(data.target!.values.reduce((a, b) => a + b, 0)).toBe(357)
+    expect(mean(data.columns[0])).toBeCloseTo(14.127291739894552, 10)
+    expect(mean(data.columns[29])).toBeCloseTo(0.0839458172231986, 12)
+  })
+
+  it('reads vega-datasets\' seattle-weather.csv with a categorical column', () => {
+    // Expected values computed with Python's csv module and numpy (/usr/bin/python3): 1461 rows;
+    // weather counts drizzle 53, fog 101, rain 641, snow 26, sun 640; mean precipitation 3.02943189596167.
+    const text = readFileSync(new URL('../../../node_modules/vega-datasets/data/seattle-weather.csv', import.meta.url), 'utf8')
+    const data = parseCsv(text, { source: 'seattle-weather.csv', target: 'precipitation', task: 'regression' })
+    expect(data.rows).toBe(1461)
+    expect(data.features.map((f) => [f.name, f.kind])).toEqual([
+      ['date', 'categorical'],
+      ['temp_max', 'numeric'],
+      ['temp_min', 'numeric'],
+      ['wind', 'numeric'],
+      ['weather', 'categorical'],
+    ])
+    expect(data.features[4].categories).toEqual(['drizzle', 'fog', 'rain', 'snow', 'sun'])
+    const counts = [0, 0, 0, 0, 0]
+    for (const code of data.columns[4]) counts[code]++
+    expect(counts).toEqual([53, 101, 641, 26, 640])
+    expect(data.target!.values.reduce((a, b) => a + b, 0) / data.rows).toBeCloseTo(3.02943189596167, 10)
   })
 })
