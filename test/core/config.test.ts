@@ -1,0 +1,91 @@
+import { describe, expect, it } from 'vitest'
+import {
+  boostingOnlyKeys,
+  defaultBoosting,
+  defaultChecks,
+  defaultData,
+  defaultImportance,
+  defaultMetric,
+  defaultPrepare,
+  defaultReport,
+  defaultTopLevel,
+  defaultTrainCommand,
+  metricTasks,
+  policySchema,
+} from '../../src/core/config.ts'
+import { describePolicyKey } from '../../src/core/policy/describe-policy-key.ts'
+
+describe('the named defaults', () => {
+  it('are the values of the policy spec', () => {
+    // Every literal below is copied from the comments of policy-spec.md, the owner's spec of the policy.
+    expect(defaultTopLevel).toEqual({ seed: 1 })
+    expect(defaultData).toEqual({ reference: { kind: 'train' }, split: { fraction: 0.2 } })
+    expect(defaultPrepare).toEqual({ timeoutSeconds: 600 })
+    expect(defaultBoosting).toEqual({
+      trees: 200,
+      maxDepth: 4,
+      learningRate: 0.1,
+      minRowsPerLeaf: 20,
+      l2: 1.0,
+      rowSubsample: 0.8,
+      columnSubsample: 0.8,
+      maxBins: 255,
+    })
+    expect(defaultTrainCommand).toEqual({ timeoutSeconds: 1800, parallel: 2 })
+    expect(defaultImportance).toEqual({ draws: 5, refits: 5, referenceRows: 10000, evaluationRows: 20000 })
+    expect(defaultMetric).toEqual({ binary: 'log-loss', regression: 'rmse' })
+    expect(defaultChecks).toEqual({
+      leakage: { action: 'block', dominanceShare: 0.5, runnerUpRatio: 3, singleFeaturePower: 0.99, relativePower: 0.8 },
+      rankShift: { action: 'warn', falseDiscoveryRate: 0.05, minPositions: 2, agreementPercentile: 5 },
+      score: { action: 'block', tolerance: 0.0, alpha: 0.05 },
+      holdoutRows: { action: 'block' },
+    })
+    expect(defaultReport).toEqual({ maxTableRows: 50 })
+  })
+
+  it('cannot be changed by the code that reads them', () => {
+    expect(Object.isFrozen(defaultChecks.leakage)).toBe(true)
+    expect(() => {
+      ;(defaultBoosting as { trees: number }).trees = 1
+    }).toThrow(TypeError)
+  })
+
+  it('give each task a default metric of that task', () => {
+    expect(metricTasks[defaultMetric.binary]).toBe('binary')
+    expect(metricTasks[defaultMetric.regression]).toBe('regression')
+  })
+})
+
+describe('policySchema', () => {
+  const document = {
+    version: 1,
+    task: 'regression',
+    target: 'minutes_late',
+    data: { train: 'data/train.csv', split: { fraction: 0.3 } },
+    model: { builtin: { learner: 'gradient-boosting', trees: 50 } },
+    importance: { groups: { route: ['distance_km', 'stop_count'] } },
+  }
+
+  it('takes plain values as well as YAML text and fills every default', () => {
+    const config = policySchema.parse(document)
+    expect(config.seed).toBe(1)
+    expect(config.data.holdout).toEqual({ kind: 'split', fraction: 0.3 })
+    expect(config.model).toMatchObject({ kind: 'builtin', trees: 50, maxDepth: 4 })
+    expect(config.importance.metric).toBe('rmse')
+    expect(config.importance.groups).toEqual({ route: ['distance_km', 'stop_count'] })
+    expect(config.checks.rankShift.action).toBe('warn')
+  })
+
+  it('refuses numbers written in other bases or with separators', () => {
+    for (const l2 of ['0x10', '1_000', '1,000', 'ten', '']) {
+      expect(policySchema.safeParse({ ...document, model: { builtin: { learner: 'linear', l2 } } }).success).toBe(false)
+    }
+    expect(policySchema.safeParse({ ...document, model: { builtin: { learner: 'linear', l2: '1e-3' } } }).success).toBe(true)
+  })
+
+  it('knows the gradient-boosting settings the linear learner refuses', () => {
+    const keys = describePolicyKey(['model', 'builtin'])?.keys ?? []
+    expect(boostingOnlyKeys.every((key) => keys.includes(key))).toBe(true)
+    expect(keys.filter((key) => !(boostingOnlyKeys as readonly string[]).includes(key))).toEqual(['learner', 'l2'])
+  })
+})
