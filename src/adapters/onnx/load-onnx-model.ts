@@ -33,10 +33,10 @@ import ort from 'onnxruntime-node'
 import type { FeatureInfo, FeatureMatrix, Task } from '../../core/data/dataset.ts'
 import { InternalError, UserError } from '../../core/errors.ts'
 import type { Model } from '../../core/models/model.ts'
+import { FEATURES_METADATA_KEY } from '../../core/models/onnx-proto.ts'
 import { readOnnxSummary, type OnnxSummary } from './read-onnx-summary.ts'
 
-/** Our metadata_props key for the column order of a single [N, F] input: a JSON array of names. */
-export const FEATURES_METADATA_KEY = 'plumbline.features'
+export { FEATURES_METADATA_KEY }
 
 export const DEFAULT_BATCH_ROWS = 65536
 

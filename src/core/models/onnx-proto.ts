@@ -13,6 +13,12 @@
  */
 import protobuf from 'protobufjs'
 
+/**
+ * Our metadata_props key naming the column order of a model's single [N, F] input, as a JSON array
+ * of column names. exportOnnx writes it; loadOnnxModel reads it.
+ */
+export const FEATURES_METADATA_KEY = 'plumbline.features'
+
 /** TensorProto.DataType values used here (onnx.proto). */
 export const OnnxDataType = { FLOAT: 1, INT64: 7, STRING: 8, DOUBLE: 11 } as const
 
