@@ -1,0 +1,96 @@
+import type { Finding } from '../report/report.ts'
+import { studentTCdf } from '../statistics/student-t-cdf.ts'
+import { welchTTestFromSummary } from '../statistics/welch-t-test.ts'
+import type { CheckAction } from './leakage.ts'
+import { fmt } from './leakage.ts'
+import { mean } from './side-result.ts'
+
+export interface ScoreRegressionOptions {
+  readonly action: CheckAction
+  readonly metric: string
+  readonly higherIsBetter: boolean
+  /** Worsening allowed, in metric units, before it counts at all. */
+  readonly tolerance: number
+  /** One-sided significance level of the worsening beyond tolerance. */
+  readonly alpha: number
+}
+
+export interface ScoreEvidence {
+  readonly baseScores: readonly number[]
+  readonly headScores: readonly number[]
+  /**
+   * With one refit per side (loaded models), the paired bootstrap replicates of (head − base) metric
+   * over resampled holdout rows; their SD stands in for the reseed spread.
+   */
+  readonly pairedBootstrap?: readonly number[]
+}
+
+/**
+ * Score regression beyond noise: the candidate's holdout metric is worse than the baseline's by more
+ * than `tolerance`, and significantly so.
+ *
+ * With refits on both sides: a one-sided Welch test of H0 "worsening ≤ tolerance" on the per-refit
+ * scores (Welch 1947, Biometrika 34; the same t and Welch–Satterthwaite df as welchTTestFromSummary,
+ * shifted by the tolerance). With one refit per side: the paired bootstrap SE of the difference
+ * (Efron & Tibshirani 1993, ch. 6) and a normal tail. Both sides are scored on the same holdout rows,
+ * so only training noise (or row sampling, for the bootstrap) enters.
+ */
+export function checkScoreRegression(evidence: ScoreEvidence, options: ScoreRegressionOptions): Finding[] {
+  const { baseScores, headScores } = evidence
+  const baseMean = mean(baseScores)
+  const headMean = mean(headScores)
+  const worsening = options.higherIsBetter ? baseMean - headMean : headMean - baseMean
+  let standardError: number
+  let pValue: number
+  let df: number | null = null
+  if (baseScores.length >= 2 && headScores.length >= 2) {
+    const welch = welchTTestFromSummary(summary(baseScores), summary(headScores))
+    standardError = welch.standardError
+    df = welch.df
+    pValue = tailAbove(worsening - options.tolerance, standardError, (t) => 1 - studentTCdf(t, welch.df))
+  } else if (evidence.pairedBootstrap && evidence.pairedBootstrap.length >= 2) {
+    const b = evidence.pairedBootstrap
+    const m = mean(b)
+    standardError = Math.sqrt(b.reduce((s, v) => s + (v - m) ** 2, 0) / (b.length - 1))
+    pValue = tailAbove(worsening - options.tolerance, standardError, (z) => 1 - studentTCdf(z, Infinity))
+  } else {
+    standardError = NaN
+    pValue = worsening > options.tolerance ? 0 : 1
+  }
+  if (options.action === 'off' || !(worsening > options.tolerance) || !(pValue < options.alpha)) return []
+  return [
+    {
+      kind: 'score-regression',
+      severity: options.action,
+      title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (by ${fmt(worsening)}, beyond noise).`,
+      message:
+        `The candidate's mean holdout ${options.metric} is ${fmt(headMean)} against ${fmt(baseMean)} for the baseline ` +
+        `(${options.higherIsBetter ? 'higher' : 'lower'} is better). The worsening of ${fmt(worsening)} exceeds the tolerance of ` +
+        `${options.tolerance} with one-sided p = ${fmt(pValue)} (standard error ${fmt(standardError)}` +
+        (df === null ? ', from a paired bootstrap of holdout rows' : `, Welch df ${fmt(df)} over reseeded refits`) +
+        `; level ${options.alpha}).`,
+      evidence: {
+        baseMean,
+        headMean,
+        worsening,
+        tolerance: options.tolerance,
+        standardError: Number.isFinite(standardError) ? standardError : null,
+        welchDf: df,
+        pValue,
+        alpha: options.alpha,
+      },
+    },
+  ]
+}
+
+function summary(values: readonly number[]) {
+  const m = mean(values)
+  const sd = Math.sqrt(values.reduce((s, v) => s + (v - m) ** 2, 0) / (values.length - 1))
+  return { mean: m, sd, n: values.length }
+}
+
+/** P(statistic > excess / se) under the given upper-tail function; a zero SE decides by the sign. */
+function tailAbove(excess: number, se: number, upperTail: (t: number) => number): number {
+  if (!(se > 0)) return excess > 0 ? 0 : 1
+  return upperTail(excess / se)
+}

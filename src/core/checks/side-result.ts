@@ -1,0 +1,45 @@
+import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
+import type { ImportanceEstimate } from '../importance/permutation-importance.ts'
+
+/** What the checks know about one side after its refits: pure numbers, no models. */
+export interface SideResult {
+  readonly side: 'base' | 'head'
+  /** Feature columns with their kinds, in data order. */
+  readonly features: readonly { readonly name: string; readonly kind: 'numeric' | 'categorical' }[]
+  /** Policy metric on the holdout, per refit. */
+  readonly scores: readonly number[]
+  /** AUC (binary) or R² (regression) of the full model on the holdout, per refit. */
+  readonly separation: readonly number[]
+  /** Features first (data order), then groups. */
+  readonly importances: readonly FlooredImportance[]
+  /** Per refit, the raw estimates (same order as `importances`). */
+  readonly perRefit: readonly (readonly ImportanceEstimate[])[]
+  /** A one-feature built-in model's holdout AUC / R², for the features it was computed for. */
+  readonly singleFeatureSeparation: Readonly<Record<string, number>>
+  /** 'draws-only' when the model was loaded, not refitted. */
+  readonly noiseCovers: 'refits-and-draws' | 'draws-only'
+}
+
+/** Features (not groups) of a side, ranked by mean importance, highest first; ties by name. */
+export function rankFeatures(importances: readonly FlooredImportance[]): FlooredImportance[] {
+  return importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
+}
+
+/** Share of the total positive importance among features (groups excluded from the total). */
+export function positiveShare(importances: readonly FlooredImportance[], name: string): number {
+  let total = 0
+  let own = 0
+  for (const u of importances) {
+    if (u.isGroup && u.name !== name) continue
+    const v = Math.max(0, u.mean)
+    if (!u.isGroup) total += v
+    if (u.name === name) own = v
+  }
+  return total > 0 ? own / total : 0
+}
+
+export function mean(values: readonly number[]): number {
+  let s = 0
+  for (const v of values) s += v
+  return values.length ? s / values.length : NaN
+}

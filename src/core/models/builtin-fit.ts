@@ -1,0 +1,44 @@
+import type { Dataset, Task } from '../data/dataset.ts'
+import { createRandom, deriveSeed, shuffledIndices } from '../statistics/random.ts'
+import { binFeatures, type BinnedFeatures } from './gbt/bin-features.ts'
+import { fitBoosted, type BoostingSettings } from './gbt/fit-boosted.ts'
+import { fitLogistic } from './linear/fit-logistic.ts'
+import { fitRidge } from './linear/fit-ridge.ts'
+import type { Fit, FitRequest, Model } from './model.ts'
+
+export interface BuiltinLearnerSettings {
+  readonly learner: 'gradient-boosting' | 'linear'
+  readonly boosting: BoostingSettings
+  readonly maxBins: number
+  /** The linear learner's L2 penalty (the boosting settings carry their own). */
+  readonly linearL2: number
+}
+
+/**
+ * The built-in learners as a Fit: each request trains on the side's training rows in an order
+ * shuffled by the request's seed, with the columns offered in a shuffled order, minus the columns
+ * left out. So "retrain with another seed" changes row order, column order and the per-tree
+ * subsamples, as a real retrain would. Bins are computed once per dataset and shared by every refit.
+ */
+export function createBuiltinFit(train: Dataset, task: Task, settings: BuiltinLearnerSettings): Fit {
+  const target = train.target?.values
+  if (!target) throw new RangeError('createBuiltinFit needs a training dataset with a target')
+  let binned: BinnedFeatures | undefined
+  const names = train.features.map((f) => f.name)
+  return async (request: FitRequest): Promise<Model> => {
+    const leaveOut = new Set(request.leaveOut)
+    for (const name of leaveOut) {
+      if (!names.includes(name)) throw new RangeError(`createBuiltinFit: cannot leave out unknown feature '${name}'`)
+    }
+    const rows = shuffledIndices(train.rows, createRandom(deriveSeed(request.seed, 'row-order')))
+    const columnOrder = Array.from(shuffledIndices(names.length, createRandom(deriveSeed(request.seed, 'column-order'))))
+    const features = columnOrder.filter((j) => !leaveOut.has(names[j]))
+    if (features.length === 0) throw new RangeError('createBuiltinFit: every feature was left out')
+    if (settings.learner === 'linear') {
+      const options = { l2: settings.linearL2, rows, features }
+      return task === 'binary' ? fitLogistic(train, target, options) : fitRidge(train, target, options)
+    }
+    binned ??= binFeatures(train, { maxBins: settings.maxBins })
+    return fitBoosted(binned, target, { task, settings: settings.boosting, seed: request.seed, rows, features })
+  }
+}
