@@ -1,0 +1,117 @@
+import { parseArgs } from 'node:util'
+import { UserError } from '../../core/errors.ts'
+
+export const usage = {
+  top: `plumbline: a pull-request gate for model features.
+
+Usage:
+  plumbline check [--policy FILE] [--base REF] [--head REF] [--json FILE] [--markdown FILE]
+  plumbline init [--train FILE] [--target COLUMN] [--task binary|regression] [--output FILE] [--force]
+  plumbline --version
+
+Run 'plumbline <command> --help' for a command's options.
+Exit codes: 0 pass or warn, 1 block, 2 a problem you can fix (policy, data, refs), 3 an internal error.`,
+  check: `plumbline check: compare the baseline and the candidate model and decide pass, warn or block.
+
+Options:
+  --policy FILE     policy file, relative to the repository root (default plumbline.yml)
+  --base REF        baseline commit (default: merge base of HEAD with the default branch)
+  --head REF        candidate commit (default: the working tree, uncommitted changes included)
+  --json FILE       also write the report as JSON (the documented contract, docs/report-json.md)
+  --markdown FILE   also write the report as markdown (what the pull-request comment shows)
+  --quiet           print only the verdict line
+  -h, --help        this text
+
+Exit codes: 0 pass or warn, 1 block, 2 a problem you can fix, 3 an internal error.`,
+  init: `plumbline init: write a commented starter policy for this repository.
+
+Options:
+  --train FILE      the training table to read (default: the only .csv under data/, if there is one)
+  --target COLUMN   the column to predict (default: guessed from the names and values, and said so)
+  --task TASK       binary or regression (default: binary when the target has two values)
+  --output FILE     where to write (default plumbline.yml)
+  --force           overwrite an existing file
+  -h, --help        this text`,
+}
+
+export type Command =
+  | { name: 'help'; text: string }
+  | { name: 'version' }
+  | {
+      name: 'check'
+      policy?: string
+      base?: string
+      head?: string
+      json?: string
+      markdown?: string
+      quiet: boolean
+    }
+  | { name: 'init'; train?: string; target?: string; task?: 'binary' | 'regression'; output: string; force: boolean }
+
+/** Strict parsing: an unknown option or a missing value is a UserError naming it. */
+export function parseCommand(argv: readonly string[]): Command {
+  const [first, ...rest] = argv
+  if (first === undefined || first === '-h' || first === '--help' || first === 'help') return { name: 'help', text: usage.top }
+  if (first === '--version' || first === '-v') return { name: 'version' }
+  if (first === 'check') {
+    const values = parse(rest, 'check', {
+      policy: { type: 'string' },
+      base: { type: 'string' },
+      head: { type: 'string' },
+      json: { type: 'string' },
+      markdown: { type: 'string' },
+      quiet: { type: 'boolean' },
+      help: { type: 'boolean', short: 'h' },
+    })
+    if (values.help) return { name: 'help', text: usage.check }
+    return {
+      name: 'check',
+      policy: values.policy as string | undefined,
+      base: values.base as string | undefined,
+      head: values.head as string | undefined,
+      json: values.json as string | undefined,
+      markdown: values.markdown as string | undefined,
+      quiet: Boolean(values.quiet),
+    }
+  }
+  if (first === 'init') {
+    const values = parse(rest, 'init', {
+      train: { type: 'string' },
+      target: { type: 'string' },
+      task: { type: 'string' },
+      output: { type: 'string' },
+      force: { type: 'boolean' },
+      help: { type: 'boolean', short: 'h' },
+    })
+    if (values.help) return { name: 'help', text: usage.init }
+    const task = values.task as string | undefined
+    if (task !== undefined && task !== 'binary' && task !== 'regression') {
+      throw new UserError(`--task must be binary or regression, got '${task}'.`, "Run 'plumbline init --help' for the options.")
+    }
+    return {
+      name: 'init',
+      train: values.train as string | undefined,
+      target: values.target as string | undefined,
+      task,
+      output: (values.output as string | undefined) ?? 'plumbline.yml',
+      force: Boolean(values.force),
+    }
+  }
+  throw new UserError(`Unknown command '${first}'.`, "Run 'plumbline --help' for the commands (check, init).")
+}
+
+type Options = NonNullable<Parameters<typeof parseArgs>[0]>['options']
+
+function parse(args: string[], command: string, options: Options): Record<string, string | boolean | undefined> {
+  try {
+    const { values, positionals } = parseArgs({ args, options, strict: true, allowPositionals: true })
+    if (positionals.length) {
+      throw new UserError(`plumbline ${command} takes no positional arguments, got '${positionals[0]}'.`, `Run 'plumbline ${command} --help' for the options.`)
+    }
+    return values as Record<string, string | boolean | undefined>
+  } catch (error) {
+    if (error instanceof UserError) throw error
+    const message = (error as Error).message.replace(/\.?$/, '.')
+    throw new UserError(`plumbline ${command}: ${message}`, `Run 'plumbline ${command} --help' for the options.`)
+  }
+}
