@@ -46,7 +46,7 @@ export interface OnnxModelOptions {
   readonly task: Task
   /** The data's feature columns. */
   readonly features: readonly FeatureInfo[]
-  /** Column order of a single [N, F] input (the policy's `model.onnx.features`). */
+  /** Column order of a single [N, F] input (the policy's `model.onnx.features`); unused when the model takes one input per column. */
   readonly featureOrder?: readonly string[]
   /** The positive class: a declared label, or a probability column index (see the module comment). */
   readonly positiveClass?: string | number

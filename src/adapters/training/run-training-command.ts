@@ -2,10 +2,12 @@
  * Runs the repository's own training command (`model.train.command`) once and returns the ONNX
  * model it wrote. The command runs under `/bin/sh -c` in the side's checkout, with its stderr
  * merged into stdout (so the log keeps the order the command printed in), in a process group of
- * its own so that a timeout or a stop ends everything it started.
+ * its own so that a timeout or a stop ends everything it started (SIGTERM, then SIGKILL after 2 s;
+ * whatever is still in the group when the command exits is killed too). It inherits the
+ * environment less the action's inputs and tokens, plus the PLUMBLINE_ variables.
  */
 import { spawn } from 'node:child_process'
-import { readFile, rm } from 'node:fs/promises'
+import { readFile, rm, stat } from 'node:fs/promises'
 import { performance } from 'node:perf_hooks'
 import { UserError } from '../../core/errors.ts'
 
@@ -55,6 +57,13 @@ export async function runTrainingCommand(request: TrainingCommandRequest): Promi
   if (!(request.timeoutSeconds > 0)) {
     throw new RangeError(`runTrainingCommand needs timeoutSeconds > 0, got ${request.timeoutSeconds}`)
   }
+  const isDirectory = await stat(request.cwd).then((s) => s.isDirectory(), () => false)
+  if (!isDirectory) {
+    throw new UserError(
+      `The training command for ${request.label} cannot run: its directory ${request.cwd} does not exist.`,
+      `Check that the side's checkout is where plumbline looks for it.`,
+    )
+  }
   await rm(request.outputPath, { force: true })
   const env = { ...request.env, PLUMBLINE_OUTPUT: request.outputPath }
   const started = performance.now()
@@ -74,7 +83,7 @@ export async function runTrainingCommand(request: TrainingCommandRequest): Promi
   if (outcome.startError) {
     throw new UserError(
       `The training command for ${request.label} could not be started in ${request.cwd}: ${outcome.startError.message}`,
-      `Check that the side's checkout exists and that /bin/sh can run there.`,
+      `Check that /bin/sh exists and that the directory can be entered.`,
     )
   }
   if (outcome.stoppedBecause !== undefined) {
@@ -120,7 +129,7 @@ function runInProcessGroup(request: TrainingCommandRequest, env: Record<string, 
     // so the group leader is the command itself). detached: a new process group led by that pid.
     const child = spawn('/bin/sh', ['-c', 'exec 2>&1; exec /bin/sh -c "$1"', 'plumbline-train', request.command], {
       cwd: request.cwd,
-      env: { ...process.env, ...env },
+      env: { ...inheritedEnvironment(), ...env },
       stdio: ['ignore', 'pipe', 'ignore'],
       detached: true,
     })
@@ -162,6 +171,20 @@ function runInProcessGroup(request: TrainingCommandRequest, env: Record<string, 
     child.on('error', (error) => finish({ code: null, signal: null, startError: error }))
     child.on('close', (code, signal) => finish({ code, signal }))
   })
+}
+
+/**
+ * The environment the command inherits: ours, less the action's inputs (INPUT_*, which hold its
+ * token), the runner's ACTIONS_* service tokens and GITHUB_TOKEN. The training command may be the
+ * pull request's own code; it needs none of them.
+ */
+function inheritedEnvironment(): Record<string, string> {
+  const kept: Record<string, string> = {}
+  for (const [name, value] of Object.entries(process.env)) {
+    if (value === undefined || /^(INPUT_|ACTIONS_)/.test(name) || name === 'GITHUB_TOKEN') continue
+    kept[name] = value
+  }
+  return kept
 }
 
 /** The end of a stream of text, bounded in characters while it grows and cut to whole lines at the end. */

@@ -48,6 +48,25 @@ describe('runTrainingCommand(request)', () => {
     expect(result.seconds).toBeGreaterThan(0)
   })
 
+  it('does not pass the action’s inputs or tokens on to the command', async () => {
+    process.env.INPUT_GITHUB_TOKEN = 'secret-input'
+    process.env.ACTIONS_RUNTIME_TOKEN = 'secret-runtime'
+    try {
+      const result = await runTrainingCommand(
+        request(`mkdir -p out && echo "[$INPUT_GITHUB_TOKEN$ACTIONS_RUNTIME_TOKEN] $PLUMBLINE_SIDE" > "$PLUMBLINE_OUTPUT"; cat "$PLUMBLINE_OUTPUT"`),
+      )
+      expect(result.logTail).toBe('[] base')
+    } finally {
+      delete process.env.INPUT_GITHUB_TOKEN
+      delete process.env.ACTIONS_RUNTIME_TOKEN
+    }
+  })
+
+  it('refuses a directory that does not exist', async () => {
+    const error = await rejection(runTrainingCommand(request('true', { cwd: join(directory, 'missing') })))
+    expect(error.message).toBe(`The training command for base refit 2 cannot run: its directory ${directory}/missing does not exist.`)
+  })
+
   it('names every variable with the PLUMBLINE_ prefix', () => {
     expect(TRAINING_VARIABLES.map((v) => v.name)).toEqual([
       'PLUMBLINE_SEED', 'PLUMBLINE_OUTPUT', 'PLUMBLINE_TRAIN', 'PLUMBLINE_HOLDOUT', 'PLUMBLINE_LEAVE_OUT', 'PLUMBLINE_SIDE', 'PLUMBLINE_REFIT',
