@@ -3,6 +3,7 @@ import { InternalError } from '../../errors.ts'
 import { createRandom, type Random } from '../../statistics/random.ts'
 import { MISSING_BIN, type BinnedFeatures } from './bin-features.ts'
 import { BoostedModel, type SplitStatistic } from './boosted-model.ts'
+import { resolveTrainingSubset } from './resolve-training-subset.ts'
 import type { Tree } from './tree.ts'
 
 /** How a boosted ensemble is grown. */
@@ -82,29 +83,15 @@ export interface FitBoostedOptions {
 export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options: FitBoostedOptions): BoostedModel {
   const { task, settings } = options
   checkSettings(settings)
-  if (task !== 'regression' && task !== 'binary') throw new RangeError(`fitBoosted: unknown task '${String(task)}'`)
-  if (target.length !== binned.rows) {
-    throw new RangeError(`fitBoosted needs one target per binned row, got ${target.length} targets for ${binned.rows} rows`)
-  }
-  const positions = resolveRows(options.rows, binned.rows)
-  const used = resolveFeatures(options.features, binned.features.length)
+  const { positions, features: used, y } = resolveTrainingSubset(
+    'fitBoosted', { rows: binned.rows, features: binned.features.length }, target, task, options,
+  )
   const n = positions.length
   const featureCount = used.length
-
   const rowCodes = gatherRowMajor(binned.codes, used, positions)
   const binCounts = Int32Array.from(used, (j) => binned.binCounts[j])
-  const y = new Float64Array(n)
   let targetSum = 0
-  for (let p = 0; p < n; p++) {
-    const value = target[positions[p]]
-    if (!Number.isFinite(value) || (task === 'binary' && value !== 0 && value !== 1)) {
-      throw new RangeError(
-        `fitBoosted: target of row ${positions[p]} is ${value}; ${task === 'binary' ? 'binary targets must be 0 or 1' : 'regression targets must be finite'}`,
-      )
-    }
-    y[p] = value
-    targetSum += value
-  }
+  for (let p = 0; p < n; p++) targetSum += y[p]
   const baseScore = task === 'regression' ? targetSum / n : logOdds(targetSum / n)
 
   const grower = new TreeGrower(rowCodes, featureCount, binCounts, n, settings, task === 'regression')
@@ -156,31 +143,6 @@ function checkSettings(s: BoostingSettings): void {
   if (!(s.l2 >= 0) || !Number.isFinite(s.l2)) throw new RangeError(`fitBoosted needs settings.l2 >= 0, got ${s.l2}`)
   fraction('rowSubsample')
   fraction('columnSubsample')
-}
-
-function resolveRows(rows: ArrayLike<number> | undefined, total: number): Int32Array {
-  if (rows === undefined) return Int32Array.from({ length: total }, (_, i) => i)
-  if (rows.length === 0) throw new RangeError('fitBoosted needs at least one training row, got none')
-  const out = new Int32Array(rows.length)
-  for (let i = 0; i < rows.length; i++) {
-    const r = rows[i]
-    if (!Number.isInteger(r) || r < 0 || r >= total) {
-      throw new RangeError(`fitBoosted: rows[${i}] is ${r}, not a row index from 0 to ${total - 1}`)
-    }
-    out[i] = r
-  }
-  return out
-}
-
-/** The allowed columns, deduplicated and in matrix order. */
-function resolveFeatures(features: readonly number[] | undefined, total: number): number[] {
-  if (features === undefined) return Array.from({ length: total }, (_, j) => j)
-  for (const j of features) {
-    if (!Number.isInteger(j) || j < 0 || j >= total) {
-      throw new RangeError(`fitBoosted: features contains ${j}, not a column index from 0 to ${total - 1}`)
-    }
-  }
-  return [...new Set(features)].sort((a, b) => a - b)
 }
 
 /** The used columns' codes at the training positions, row-major: out[p * used.length + k]. */
