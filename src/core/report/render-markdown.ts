@@ -1,0 +1,277 @@
+/**
+ * The pull-request comment (and the job summary): a GateReport as GitHub-flavored markdown.
+ *
+ * Layout: hidden marker, verdict heading, headline; findings (block, warn, info); feature table;
+ * feature-set diff; rank agreement; collapsed details (models and scores per refit, refit seeds,
+ * settings and check thresholds, timings); a note on anything cut; the caution, always last.
+ * An 'error' report shows the headline, the run error in a code block and the caution.
+ *
+ * Every string from the report goes through escapeMarkdownText / escapeMarkdownCell: a report
+ * may come from an untrusted job. The output never exceeds `maxCharacters` (UTF-16 code units,
+ * which is at least the number of characters GitHub counts): tables are cut first, then the
+ * details, then findings from the end (info first), and the note says what was cut.
+ */
+import { markdownTable } from 'markdown-table'
+
+import { escapeMarkdownCell, escapeMarkdownText, markdownCodeBlock } from './escape.ts'
+import { formatCount } from './format-number.ts'
+import type { GateReport, Severity } from './report.ts'
+import {
+  agreementMissingNote,
+  importanceNote,
+  limitItems,
+  limitRows,
+  noVerdictStatement,
+  sortFindings,
+  tabulateReport,
+  type FindingLines,
+  type TextTable,
+} from './tabulate-report.ts'
+
+export interface MarkdownOptions {
+  /** Rows of the longest tables before the "N more rows" row; default 50. */
+  readonly maxTableRows?: number
+  /** Upper bound on the output's length; default 60,000 (GitHub refuses comments over 65,536). */
+  readonly maxCharacters?: number
+  /** The hidden first line that finds the comment again on a rerun; default `<!-- plumbline -->`. */
+  readonly marker?: string
+  /** Where the reader finds what a cut left out; one sentence of plain text. */
+  readonly fullReportNote?: string
+}
+
+const defaultFullReportNote = "The full report is in the workflow run's job summary and in the JSON report file."
+
+/** A finding's message longer than this is cut in the comment (the JSON keeps all of it). */
+const maxMessageCharacters = 3000
+
+const severityWord: Readonly<Record<Severity, string>> = { block: 'Block', warn: 'Warn', info: 'Info' }
+
+/** What one composition keeps: feature-table rows (0: none), the details, how many findings. */
+interface Layout {
+  readonly rows: number
+  readonly details: boolean
+  readonly findings: number
+}
+
+function renderTable(table: TextTable): string {
+  const cells = [table.header, ...table.rows].map((row) => row.map(escapeMarkdownCell))
+  return markdownTable(cells, {
+    align: table.align.map((side) => (side === 'right' ? 'r' : 'l')),
+    alignDelimiters: false,
+  })
+}
+
+function renderDetails(summary: string, blocks: readonly string[]): string {
+  return ['<details>', `<summary>${summary}</summary>`, '', ...blocks.flatMap((block) => [block, '']), '</details>'].join(
+    '\n',
+  )
+}
+
+/** The message cut to `maxCharacters` before escaping, saying how much was cut. */
+function shortenMessage(message: string, maxCharacters: number): string {
+  if (message.length <= maxCharacters) return message
+  const cut = message.length - maxCharacters
+  return `${message.slice(0, maxCharacters)} … (${formatCount(cut)} more characters in the full report)`
+}
+
+function renderFinding(finding: FindingLines, maxItems: number): string {
+  const lines = [
+    `- **${severityWord[finding.severity]}.** ${escapeMarkdownText(finding.title)} (${escapeMarkdownText(finding.about)})`,
+  ]
+  const message = escapeMarkdownText(shortenMessage(finding.message, maxMessageCharacters))
+  if (message !== '') lines.push(message)
+  if (finding.evidence.length > 0) {
+    lines.push(`Evidence: ${limitItems(finding.evidence, maxItems).map(escapeMarkdownText).join('; ')}`)
+  }
+  return lines.join('\n').replace(/\n/g, '\n  ')
+}
+
+function countBySeverity(findings: readonly { readonly severity: Severity }[]): string {
+  return (['block', 'warn', 'info'] as const)
+    .map((severity) => [severity, findings.filter((finding) => finding.severity === severity).length] as const)
+    .filter(([, count]) => count > 0)
+    .map(([severity, count]) => `${formatCount(count)} ${severity}`)
+    .join(', ')
+}
+
+function checkOptions(options: MarkdownOptions): Required<MarkdownOptions> {
+  const resolved = {
+    maxTableRows: options.maxTableRows ?? 50,
+    maxCharacters: options.maxCharacters ?? 60_000,
+    marker: options.marker ?? '<!-- plumbline -->',
+    fullReportNote: options.fullReportNote ?? defaultFullReportNote,
+  }
+  if (!Number.isInteger(resolved.maxTableRows) || resolved.maxTableRows < 1) {
+    throw new RangeError(`renderMarkdown needs maxTableRows to be a whole number of at least 1, got ${resolved.maxTableRows}`)
+  }
+  if (!Number.isInteger(resolved.maxCharacters) || resolved.maxCharacters < 1000) {
+    throw new RangeError(
+      `renderMarkdown needs maxCharacters to be a whole number of at least 1000, got ${resolved.maxCharacters}`,
+    )
+  }
+  // An HTML comment as CommonMark 0.30 §6.6 defines it, on one line, so the marker stays hidden.
+  if (!/^<!--(?!>|->)(?:(?!--)[^\n])*-->$/.test(resolved.marker)) {
+    throw new RangeError(`renderMarkdown needs the marker to be a one-line HTML comment, got '${resolved.marker}'`)
+  }
+  return resolved
+}
+
+function fitOrThrow(markdown: string, maxCharacters: number): string {
+  if (markdown.length > maxCharacters) {
+    throw new RangeError(
+      `renderMarkdown cannot fit the report into ${maxCharacters} characters: its shortest form takes ${markdown.length}`,
+    )
+  }
+  return markdown
+}
+
+function renderError(report: GateReport, options: Required<MarkdownOptions>): string {
+  const messages = sortFindings(report.findings)
+    .filter((finding) => finding.kind === 'run-error')
+    .map((finding) => finding.message)
+  const compose = (budget: number) => {
+    let left = budget
+    const blocks = messages.map((message) => {
+      const kept = message.slice(0, Math.max(0, left))
+      left -= kept.length
+      const cut = message.length - kept.length
+      return markdownCodeBlock(cut > 0 ? `${kept}\n[${formatCount(cut)} more characters in the full report]` : kept)
+    })
+    const shortened = messages.join('').length > budget
+    return [
+      options.marker,
+      '### plumbline: error, no verdict',
+      escapeMarkdownText(report.headline),
+      escapeMarkdownText(noVerdictStatement),
+      ...(blocks.length > 0 ? blocks : ['The report holds no run-error finding to show.']),
+      ...(shortened
+        ? [escapeMarkdownText(`The error message was shortened to fit this comment. ${options.fullReportNote}`)]
+        : []),
+      escapeMarkdownText(report.caution),
+    ].join('\n\n') + '\n'
+  }
+  const full = compose(Infinity)
+  if (full.length <= options.maxCharacters) return full
+  const overhead = compose(0).length
+  return fitOrThrow(compose(options.maxCharacters - overhead), options.maxCharacters)
+}
+
+/**
+ * The report as one GitHub-flavored markdown comment, at most `maxCharacters` long. Throws a
+ * RangeError for options out of range, or when even the shortest form (marker, heading, headline,
+ * caution) does not fit, which the schema's length caps rule out for 2,000 characters and up.
+ * Cost: linear in the report's size, plus a binary search over findings when they must be cut.
+ */
+export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}): string {
+  const resolved = checkOptions(options)
+  if (report.verdict === 'error') return renderError(report, resolved)
+  const { maxTableRows, maxCharacters } = resolved
+  const tables = tabulateReport(report)
+  const findingItems = tables.findings.map((finding) => renderFinding(finding, maxTableRows))
+  const nameLists = [tables.featureSet.added, tables.featureSet.removed, tables.featureSet.kindChanged]
+  const longestList = Math.max(...nameLists.map((list) => list.length))
+
+  const details = [
+    ...(tables.sides && tables.scores
+      ? [renderDetails('Models and holdout scores per refit', [renderTable(tables.sides), renderTable(limitRows(tables.scores, maxTableRows))])]
+      : []),
+    ...(tables.seeds ? [renderDetails('Refit seeds', [renderTable(limitRows(tables.seeds, maxTableRows))])] : []),
+    renderDetails('Settings and check thresholds', [
+      renderTable(tables.settings),
+      ...(tables.checks.rows.length > 0 ? [renderTable(limitRows(tables.checks, maxTableRows))] : []),
+    ]),
+    renderDetails('Timings', [
+      'Wall-clock seconds per stage; they vary from run to run and are not part of the result.',
+      ...(tables.timings.rows.length > 0 ? [renderTable(limitRows(tables.timings, maxTableRows))] : []),
+    ]),
+  ]
+  const agreement = tables.agreement
+    ? `#### Rank agreement\n\n${renderTable(tables.agreement.table)}\n\n${escapeMarkdownText(tables.agreement.note)}`
+    : `#### Rank agreement\n\n${agreementMissingNote}`
+
+  function renderFindings(shown: number): string {
+    if (findingItems.length === 0) return '#### Findings\n\nNone.'
+    const hidden = findingItems.length - shown
+    const more = hidden > 0 ? [`- ${formatCount(hidden)} more findings are not shown here; see the note below.`] : []
+    return `#### Findings: ${countBySeverity(tables.findings)}\n\n${[...findingItems.slice(0, shown), ...more].join('\n')}`
+  }
+
+  function renderFeatures(rows: number): string {
+    const count = tables.features.rows.length
+    if (count === 0) return '#### Feature importance\n\nNo features were measured.'
+    if (rows === 0) return `#### Feature importance\n\nThe table of ${formatCount(count)} rows is left out; see the note below.`
+    return `#### Feature importance\n\n${escapeMarkdownText(importanceNote)}\n\n${renderTable(limitRows(tables.features, rows))}`
+  }
+
+  function renderFeatureSet(maxItems: number): string {
+    const { added, removed, kindChanged, unchangedCount } = tables.featureSet
+    if (unchangedCount !== null) return `#### Feature set\n\nThe same ${formatCount(unchangedCount)} features on both sides.`
+    const line = (label: string, names: readonly string[]) => {
+      if (names.length === 0) return []
+      if (maxItems === 0) return [`- ${label}: ${formatCount(names.length)} (names left out)`]
+      return [`- ${label} (${formatCount(names.length)}): ${limitItems(names, maxItems).map(escapeMarkdownText).join(', ')}`]
+    }
+    return ['#### Feature set', '', ...line('Added', added), ...line('Removed', removed), ...line('Changed kind', kindChanged)].join('\n')
+  }
+
+  function describeCuts(layout: Layout): string | null {
+    const cuts: string[] = []
+    const count = tables.features.rows.length
+    if (layout.rows < maxTableRows && count > layout.rows) {
+      cuts.push(layout.rows === 0 ? `the feature table (${formatCount(count)} rows) is left out` : `the feature table shows ${layout.rows} of ${formatCount(count)} rows`)
+    }
+    if (layout.rows < maxTableRows && longestList > layout.rows) {
+      cuts.push(layout.rows === 0 ? 'the feature-set lists give counts only' : `the feature-set lists show at most ${layout.rows} names each`)
+    }
+    if (!layout.details) cuts.push('the details (models, scores and seeds per refit, settings, timings) are left out')
+    if (layout.findings < findingItems.length) {
+      const hidden = tables.findings.slice(layout.findings)
+      cuts.push(`${formatCount(layout.findings)} of ${formatCount(findingItems.length)} findings are shown (not shown: ${countBySeverity(hidden)})`)
+    }
+    if (cuts.length === 0) return null
+    return escapeMarkdownText(`This comment was shortened to stay under ${formatCount(maxCharacters)} characters: ${cuts.join('; ')}. ${resolved.fullReportNote}`)
+  }
+
+  function compose(layout: Layout): string {
+    const cutNote = describeCuts(layout)
+    return [
+      resolved.marker,
+      `### ${escapeMarkdownText(tables.heading)}`,
+      escapeMarkdownText(report.headline),
+      renderFindings(layout.findings),
+      renderFeatures(layout.rows),
+      renderFeatureSet(layout.rows),
+      agreement,
+      ...(layout.details ? details : []),
+      ...(cutNote === null ? [] : [cutNote]),
+      escapeMarkdownText(report.caution),
+    ].join('\n\n') + '\n'
+  }
+
+  const rowSteps = [...new Set([maxTableRows, 20, 10, 5, 0].filter((rows) => rows <= maxTableRows))]
+  for (const keepDetails of [true, false]) {
+    for (const rows of rowSteps) {
+      const markdown = compose({ rows, details: keepDetails, findings: findingItems.length })
+      if (markdown.length <= maxCharacters) return markdown
+    }
+  }
+  // Findings must be cut too: as many as fit (binary search; the length grows with each one),
+  // beside a short feature table while at least one finding still fits with it.
+  const mostFindings = (rows: number) => {
+    let low = 0
+    let high = findingItems.length
+    while (low < high) {
+      const middle = Math.ceil((low + high) / 2)
+      if (compose({ rows, details: false, findings: middle }).length <= maxCharacters) low = middle
+      else high = middle - 1
+    }
+    return low
+  }
+  const shortTable = Math.min(10, maxTableRows)
+  const besideShortTable = mostFindings(shortTable)
+  const layout =
+    besideShortTable > 0
+      ? { rows: shortTable, details: false, findings: besideShortTable }
+      : { rows: 0, details: false, findings: mostFindings(0) }
+  return fitOrThrow(compose(layout), maxCharacters)
+}
