@@ -89,10 +89,10 @@ export type ModelConfig =
       /** Column order of a single [N, F] input, for models without input metadata. */
       readonly features?: readonly string[]
       /**
-       * Binary only, as written: matched against the model's class labels first; a whole number
-       * that matches no label is an output index.
+       * Binary only. Text is a class label; a whole number (written as digits) is a label when the
+       * model's labels are whole numbers, otherwise the probability column.
        */
-      readonly positiveClass?: string
+      readonly positiveClass?: string | number
     }
   | {
       readonly kind: 'train'
@@ -378,7 +378,7 @@ const builtinSchema = z.preprocess(
 const onnxSchema = mapping({
   path: text('a file path or glob'),
   features: nameList('a list of column names').optional(),
-  positive_class: text('a class label or output index').optional(),
+  positive_class: text('a class label or probability column').optional(),
 })
 
 const trainSchema = mapping({
@@ -522,7 +522,7 @@ function toModelConfig(model: PolicyDocument['model']): ModelConfig {
       kind: 'onnx',
       path,
       ...(features ? { features } : {}),
-      ...(positive_class !== undefined ? { positiveClass: positive_class } : {}),
+      ...(positive_class !== undefined ? { positiveClass: /^\d+$/.test(positive_class) ? Number(positive_class) : positive_class } : {}),
     }
   }
   // The model rule guarantees exactly one kind, so this is `train`.

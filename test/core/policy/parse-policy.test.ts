@@ -247,6 +247,12 @@ model:
       expect([...written].filter((key) => !schemaKeys.includes(key))).toEqual([])
     })
 
+    it('reads a positive class written as digits as a number, and other text as a label', () => {
+      const onnx = (value: string) => minimal.replace('  builtin:\n    learner: gradient-boosting\n', `  onnx:\n    path: m.onnx\n    positive_class: ${value}\n`)
+      expect(parsePolicy(onnx('1'), { source }).model).toEqual({ kind: 'onnx', path: 'm.onnx', positiveClass: 1 })
+      expect(parsePolicy(onnx('late'), { source }).model).toEqual({ kind: 'onnx', path: 'm.onnx', positiveClass: 'late' })
+    })
+
     it('takes the linear learner with its penalty', () => {
       const config = parsePolicy(minimal.replace('learner: gradient-boosting', 'learner: linear\n    l2: 0.5'), { source })
       expect(config.model).toMatchObject({ kind: 'builtin', learner: 'linear', l2: 0.5 })
