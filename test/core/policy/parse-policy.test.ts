@@ -540,6 +540,12 @@ model:
       expect(failure(`${minimal}extra: &loop\n  again: *loop\n`).message).toBe('plumbline.yml:14:10: the alias *loop refers to itself or to nothing.')
     })
 
+    it('with the same line and column for Windows line endings', () => {
+      expect(failure(`${minimal}checks:\n  score:\n    alpha: 2\n`.replaceAll('\n', '\r\n')).message).toBe(
+        "plumbline.yml:15:12: checks.score.alpha must be a number above 0 and below 1; got '2'.",
+      )
+    })
+
     it('reports the first problem in the file when there are several', () => {
       const text = minimal.replace('seed: 7', 'seed: -1') + 'checks:\n  leakage:\n    action: maybe\n'
       expect(failure(text).message).toBe("plumbline.yml:4:7: seed must be a whole number from 0 to 4294967295; got '-1'.")
