@@ -92,37 +92,44 @@ export async function permutationImportance(
     units.push({ name: group.name, members: [...group.members], isGroup: true, columns: columns as number[] })
   }
 
-  // One stacked buffer: K copies of the evaluation rows, column-major.
+  // Models with a fast path re-evaluate only what a replacement can change; others get one stacked
+  // buffer of K copies of the evaluation rows (column-major, allocated once) per call.
+  const fast = model.createReplacementPredictor?.(data)
   const stackedRows = n * draws
-  const stacked = data.columns.map((column) => {
-    const out = new Float64Array(stackedRows)
-    for (let k = 0; k < draws; k++) out.set(column, k * n)
-    return out
-  })
+  const stacked = fast
+    ? []
+    : data.columns.map((column) => {
+        const out = new Float64Array(stackedRows)
+        for (let k = 0; k < draws; k++) out.set(column, k * n)
+        return out
+      })
   const stackedMatrix: FeatureMatrix = { rows: stackedRows, features: data.features, columns: stacked }
-  const yRepeated = y // scored block by block
   const importances: ImportanceEstimate[] = []
 
   for (const unit of units) {
     const random = createRandom(deriveSeed(options.seed, 'draws', unit.isGroup ? 'group' : 'feature', unit.name))
+    const replaced = new Map<string, Float64Array>()
+    for (const j of unit.columns) replaced.set(names[j], fast ? new Float64Array(stackedRows) : stacked[j])
     for (let k = 0; k < draws; k++) {
       const rows = referenceRows(n, reference.rows, usesOwnRows, random)
       for (const j of unit.columns) {
         const source = reference.columns[j]
-        const target = stacked[j]
+        const target = replaced.get(names[j])!
         const offset = k * n
         for (let i = 0; i < n; i++) target[offset + i] = source[rows[i]]
       }
     }
-    const prediction = await model.predict(stackedMatrix)
+    const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix)
     const values: number[] = []
     for (let k = 0; k < draws; k++) {
-      const permuted = metric.compute(yRepeated, prediction.subarray(k * n, (k + 1) * n))
+      const permuted = metric.compute(y, prediction.subarray(k * n, (k + 1) * n))
       values.push(metric.higherIsBetter ? score - permuted : permuted - score)
     }
-    for (const j of unit.columns) {
-      const column = data.columns[j]
-      for (let k = 0; k < draws; k++) stacked[j].set(column, k * n)
+    if (!fast) {
+      for (const j of unit.columns) {
+        const column = data.columns[j]
+        for (let k = 0; k < draws; k++) stacked[j].set(column, k * n)
+      }
     }
     const interval = summarizeDraws(values)
     importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval })

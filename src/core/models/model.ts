@@ -10,6 +10,11 @@ export interface Model {
   readonly task: Task
   readonly featureNames: readonly string[]
   predict(matrix: FeatureMatrix): Promise<Float64Array>
+  /**
+   * Optional fast path for permutation importance: predictions for `base`'s rows with some columns
+   * replaced, computed without re-running what the replacement cannot change.
+   */
+  createReplacementPredictor?(base: FeatureMatrix): ReplacementPredictor
   /** Built-in learners: gain and split count per feature (impurity importance, in-sample). */
   readonly splitStatistics?: readonly { feature: string; gain: number; splits: number }[]
 }
@@ -26,3 +31,13 @@ export interface FitRequest {
 
 /** Trains a model for one side. Built-in learners and the repository's training command both fit this. */
 export type Fit = (request: FitRequest) => Promise<Model>
+
+/** Predicts a fixed set of rows with some columns replaced (see Model.createReplacementPredictor). */
+export interface ReplacementPredictor {
+  readonly rows: number
+  /**
+   * `replaced` maps a feature name to `draws` stacked copies of its column (draws · rows values,
+   * copy k at offset k · rows). Returns draws · rows predictions in the same layout.
+   */
+  predict(replaced: ReadonlyMap<string, Float64Array>, draws: number): Float64Array
+}

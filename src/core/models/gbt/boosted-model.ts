@@ -1,5 +1,6 @@
 import type { FeatureMatrix, Task } from '../../data/dataset.ts'
-import type { Model } from '../model.ts'
+import type { Model, ReplacementPredictor } from '../model.ts'
+import { createTreeReplacementPredictor } from './replacement-predictor.ts'
 import type { BoostedEnsemble, Tree } from './tree.ts'
 
 /** Gain and split count of one feature over a whole ensemble (in-sample impurity importance). */
@@ -32,6 +33,11 @@ export class BoostedModel implements Model {
    * task the positive-class probability. Features are found by name in `matrix`, in any order; extra
    * columns are ignored. Throws RangeError naming a feature the matrix lacks. Cost O(rows x trees x depth).
    */
+  /** Permutation importance's fast path: see createTreeReplacementPredictor. */
+  createReplacementPredictor(base: FeatureMatrix): ReplacementPredictor {
+    return createTreeReplacementPredictor(this.ensemble, base)
+  }
+
   predictRaw(matrix: FeatureMatrix): Float64Array {
     const position = new Map(matrix.features.map((f, j) => [f.name, j]))
     const columns = this.featureNames.map((name) => {
