@@ -1,0 +1,134 @@
+import { readFileSync } from 'node:fs'
+import { describe, expect, it } from 'vitest'
+import { parse } from 'yaml'
+import { UserError } from '../../../src/core/errors.ts'
+import { inputDefaults, isFailingVerdict, readInputs } from '../../../src/adapters/action/inputs.ts'
+
+const actionYml = parse(readFileSync(new URL('../../../action.yml', import.meta.url), 'utf8')) as {
+  inputs: Record<string, { default?: string }>
+}
+
+/** The runner's behaviour: every input declared in action.yml arrives, with its default unless set. */
+function runnerInputs(set: Record<string, string> = {}) {
+  const values: Record<string, string> = {}
+  for (const [name, input] of Object.entries(actionYml.inputs)) values[name] = input.default ?? ''
+  values.token = 'ghs_exampletoken'
+  Object.assign(values, set)
+  return (name: string) => {
+    if (!(name in actionYml.inputs)) throw new Error(`readInputs asked for '${name}', which action.yml does not declare`)
+    return values[name] ?? ''
+  }
+}
+
+function failure(set: Record<string, string>): UserError {
+  try {
+    readInputs(runnerInputs(set))
+  } catch (error) {
+    if (error instanceof UserError) return error
+    throw error
+  }
+  throw new Error('readInputs accepted the inputs')
+}
+
+describe('readInputs(getInput)', () => {
+  it('reads the defaults action.yml declares', () => {
+    expect(readInputs(runnerInputs())).toEqual({
+      policyPath: 'plumbline.yml',
+      token: 'ghs_exampletoken',
+      baseRef: null,
+      headRef: null,
+      isCommentWanted: true,
+      failOn: 'block',
+      mode: 'check',
+      reportPath: null,
+      isForkCodeAllowed: false,
+      workingDirectory: '.',
+    })
+  })
+
+  it('uses the same default as action.yml for an input that arrives empty', () => {
+    for (const [name, value] of Object.entries(inputDefaults)) expect(actionYml.inputs[name].default).toBe(value)
+    const empty = Object.fromEntries(Object.keys(inputDefaults).map((name) => [name, '']))
+    expect(readInputs(runnerInputs(empty))).toEqual(readInputs(runnerInputs()))
+  })
+
+  it('reads every input as set in the workflow', () => {
+    const inputs = readInputs(
+      runnerInputs({
+        policy: 'ml/plumbline.yml',
+        base: 'origin/main',
+        head: 'HEAD~1',
+        comment: 'False',
+        'fail-on': 'warn',
+        mode: 'publish',
+        report: 'artifacts/report.json',
+        'allow-fork-code': 'TRUE',
+        'working-directory': 'repo',
+      }),
+    )
+    expect(inputs).toMatchObject({
+      policyPath: 'ml/plumbline.yml',
+      baseRef: 'origin/main',
+      headRef: 'HEAD~1',
+      isCommentWanted: false,
+      failOn: 'warn',
+      mode: 'publish',
+      reportPath: 'artifacts/report.json',
+      isForkCodeAllowed: true,
+      workingDirectory: 'repo',
+    })
+  })
+
+  it("names 'fail-on' as typed and lists its choices", () => {
+    const error = failure({ 'fail-on': 'blocker' })
+    expect(error.message).toBe("Input 'fail-on' must be one of block, warn, never; got 'blocker'.")
+    expect(error.fix).toBe("Fix 'fail-on:' in the workflow step, or delete the line to use the default from action.yml.")
+  })
+
+  it('refuses booleans outside the YAML 1.2 core schema', () => {
+    expect(failure({ comment: 'yes' }).message).toBe("Input 'comment' must be true or false; got 'yes'.")
+    expect(failure({ 'allow-fork-code': '1' }).message).toBe("Input 'allow-fork-code' must be true or false; got '1'.")
+    expect(failure({ 'allow-fork-code': '1' }).fix).toBe(
+      "Fix 'allow-fork-code:' in the workflow step, or delete the line to use the default from action.yml.",
+    )
+  })
+
+  it("refuses an unknown 'mode'", () => {
+    expect(failure({ mode: 'post' }).message).toBe("Input 'mode' must be one of check, publish; got 'post'.")
+  })
+
+  it("needs 'report' in publish mode", () => {
+    const error = failure({ mode: 'publish' })
+    expect(error.message).toBe("Input 'report' is required when 'mode' is publish: it is the path of the JSON report to post.")
+    expect(error.fix).toBe(
+      "Set 'report:' to where the download step put the report the pull_request job uploaded (see docs/action.md).",
+    )
+  })
+
+  it('refuses a ref git would read as an option, or one with spaces', () => {
+    const error = failure({ base: '--upload-pack=touch /tmp/x' })
+    expect(error.message).toBe("Input 'base' must be a commit SHA or a git ref such as main or origin/main; got '--upload-pack=touch /tmp/x'.")
+    expect(error.fix).toBe("Fix 'base:' in the workflow step, or delete the line to take it from the event.")
+    expect(failure({ head: 'main feature' }).message).toBe(
+      "Input 'head' must be a commit SHA or a git ref such as main or origin/main; got 'main feature'.",
+    )
+  })
+
+  it('refuses a path of several lines', () => {
+    expect(failure({ policy: 'a.yml\nb.yml' }).message).toBe('Input \'policy\' must be a single path; got "a.yml\\nb.yml".')
+  })
+})
+
+describe('isFailingVerdict(verdict, failOn)', () => {
+  it('fails at or above the level, and always on error', () => {
+    const table = (['pass', 'warn', 'block', 'error'] as const).map((verdict) =>
+      (['block', 'warn', 'never'] as const).map((failOn) => isFailingVerdict(verdict, failOn)),
+    )
+    expect(table).toEqual([
+      [false, false, false],
+      [false, true, false],
+      [true, true, false],
+      [true, true, true],
+    ])
+  })
+})
