@@ -78,7 +78,10 @@ export interface FitBoostedOptions {
  * Edges: a node too small to split, or with no split of positive gain, becomes a leaf; a target
  * with one class gets a base score of log-odds of a rate clamped to [1e-6, 1 - 1e-6].
  * Cost: O(trees x depth x sampled rows x features) for histograms plus O(trees x nodes x features x bins)
- * for split search. Memory: 2^(maxDepth-1) histograms of features x 256 x 3 doubles.
+ * for split search. Memory: up to 2^(maxDepth-1) + 1 histograms of features x 256 x 3 doubles (x 2
+ * for squared error), plus one byte per row and feature for the codes.
+ * Split gains are reported in the eq. 7 form, with the 1/2; XGBoost's own gain statistic leaves it
+ * out (from memory of its source), so ours are half of XGBoost's for the same split.
  */
 export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options: FitBoostedOptions): BoostedModel {
   const { task, settings } = options
@@ -103,6 +106,7 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
   const gainByFeature = new Float64Array(featureCount)
   const splitsByFeature = new Int32Array(featureCount)
   const trees: Tree[] = []
+  const upperEdges = used.map((j) => binned.upperEdges[j])
 
   for (let t = 0; t < settings.trees; t++) {
     computeGradients(task, y, score, grower.gradient, grower.hessian)
@@ -112,7 +116,7 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
     grower.grow(rowCount, treeFeatures)
     grower.addToScores(score, rowCount)
     grower.addSplitStatistics(gainByFeature, splitsByFeature)
-    trees.push(grower.toTree(used.map((j) => binned.upperEdges[j])))
+    trees.push(grower.toTree(upperEdges))
   }
 
   const featureNames = used.map((j) => binned.features[j].name)
