@@ -97,11 +97,11 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
   for (let p = 0; p < n; p++) targetSum += y[p]
   const baseScore = task === 'regression' ? targetSum / n : logOdds(targetSum / n)
 
-  const grower = new TreeGrower(rowCodes, featureCount, binCounts, n, settings, task === 'regression')
+  const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n))
+  const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)))
+  const grower = new TreeGrower(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, task === 'regression')
   const score = new Float64Array(n).fill(baseScore)
   const random = createRandom(options.seed)
-  const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n))
-  const treeFeatureCount = Math.max(1, Math.round(settings.columnSubsample * featureCount))
   const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k)
   const gainByFeature = new Float64Array(featureCount)
   const splitsByFeature = new Int32Array(featureCount)
@@ -256,6 +256,7 @@ class TreeGrower {
     /** Row-major codes of every allowed feature: rowCodes[p * featureCount + k]. */
     private readonly rowCodes: Uint8Array,
     private readonly featureCount: number,
+    treeFeatureCount: number,
     private readonly binCounts: Int32Array,
     n: number,
     private readonly settings: BoostingSettings,
@@ -268,7 +269,6 @@ class TreeGrower {
     this.slot = isUnitHessian ? 2 : 3
     this.featureStride = this.slot * SLOTS_PER_FEATURE
     this.treeCodes = rowCodes
-    const treeFeatureCount = Math.max(1, Math.round(settings.columnSubsample * featureCount))
     this.packedCodes = treeFeatureCount < featureCount ? new Uint8Array(n * treeFeatureCount) : rowCodes
     this.treeBins = new Int32Array(featureCount)
     const m = 2 ** (settings.maxDepth + 1) - 1

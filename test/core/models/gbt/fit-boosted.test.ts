@@ -172,6 +172,12 @@ describe('fitBoosted(binned, target, {task: regression})', () => {
     expect(Math.min(x1.gain, x4.gain)).toBeGreaterThan(x7.gain)
   })
 
+  it('with no allowed features predicts the training mean', () => {
+    const model = fitBoosted(binFeatures(matrix), Float64Array.from(y), { task: 'regression', settings: oneTree(), seed: 1, features: [] })
+    expect(model.featureNames).toEqual([])
+    expect(model.predictRaw(matrix)[0]).toBeCloseTo(4.8, 12)
+  })
+
   it('comes within 0.02 holdout R^2 of XGBoost hist on Friedman #1 (10k rows, noise SD 1)', () => {
     // Reference: XGBoost 1.7.4 (/usr/bin/python3), xgb.train({tree_method: 'hist', max_bin: 255,
     // max_depth: 4, eta: 0.1, lambda: 1, min_child_weight: 1, subsample: 1, colsample_bytree: 1,
