@@ -9,12 +9,15 @@ import type { BuiltinLearnerSettings } from './models/builtin-fit.ts'
  *   move, so a top feature whose importance halves is seen (tuned by `npm run evaluate`).
  * - RBO persistence 0.9: the top 10 ranks carry 86% of the weight (Webber et al. 2010, eq. 21).
  * - one-feature models for the top 3 features of each side plus up to 20 added or changed features.
+ * - slices for the leakage check: each value of a categorical feature with at most 20 values, judged
+ *   when it has at least 30 holdout rows (binary: 30 of each class), so one AUC is not a few rows' luck.
  */
 export const fixedSettings = {
   minRelativeChange: 0.3,
   persistence: 0.9,
   singleFeatureTop: 3,
   singleFeatureMaxExtra: 20,
+  slices: { maxLevels: 20, minRows: 30 },
 } as const
 
 /** The built-in learner settings a policy asks for; loaded models use the defaults for one-feature models. */
@@ -64,6 +67,7 @@ export function gateSettings(config: GateConfig) {
     groups,
     singleFeatureTop: fixedSettings.singleFeatureTop,
     singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
+    slices: fixedSettings.slices,
     // One-feature models always use gradient boosting: a linear one-feature model misses a
     // non-monotone leak.
     singleFeatureLearner: { ...learner, learner: 'gradient-boosting' as const },

@@ -18,7 +18,7 @@ import type { Fit, Model } from './models/model.ts'
 import { describeSides, featureRows, featureSetFindings, changedFeatures, diffFeatureSets } from './assemble-report.ts'
 import { pairedBootstrap } from './statistics/paired-bootstrap.ts'
 import { reportCaution, type Finding, type GateReport } from './report/report.ts'
-import { singleFeatureSeparation } from './single-feature-separation.ts'
+import { singleFeatureSeparation, type SeparationResult } from './single-feature-separation.ts'
 import { gateSettings } from './gate-settings.ts'
 
 export interface SideInputs {
@@ -98,20 +98,27 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     timed(`${side}SingleFeatureSeconds`, async () => {
       inputs.onProgress?.({ stage: 'single-feature', side, features: candidates.size })
       const fit = createBuiltinFit(data.train, task, settings.singleFeatureLearner)
-      return singleFeatureSeparation(data.train, data.holdout, [...candidates], { fit, task, seed: settings.seed, side })
+      return singleFeatureSeparation(data.train, data.holdout, [...candidates], {
+        fit,
+        task,
+        seed: settings.seed,
+        side,
+        slices: settings.slices,
+      })
     })
   const baseSingle = await separationOf('base', inputs.base)
   const headSingle = await separationOf('head', inputs.head)
 
   inputs.onProgress?.({ stage: 'checks' })
-  const sideResult = (side: 'base' | 'head', data: SideInputs, m: SideMeasurement, single: Record<string, number>): SideResult => ({
+  const sideResult = (side: 'base' | 'head', data: SideInputs, m: SideMeasurement, single: SeparationResult): SideResult => ({
     side,
     features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
     scores: m.scores,
     separation: m.separation,
     importances: m.importances,
     perRefit: m.perRefit,
-    singleFeatureSeparation: single,
+    singleFeatureSeparation: single.overall,
+    singleFeatureSlices: single.bestSlice,
     noiseCovers: m.noiseCovers,
   })
   const baseResult = sideResult('base', inputs.base, base, baseSingle)

@@ -5,21 +5,59 @@ import { rSquared } from './metrics/r-squared.ts'
 import type { Fit } from './models/model.ts'
 import { deriveSeed } from './statistics/random.ts'
 
+/** The best slice of one feature's one-feature model. */
+export interface SliceSeparation {
+  /** The categorical column that defines the slice, and its value. */
+  readonly column: string
+  readonly value: string
+  readonly rows: number
+  readonly separation: number
+}
+
+export interface SeparationResult {
+  /** AUC (binary) or R² (regression) on the whole holdout, per feature. */
+  readonly overall: Record<string, number>
+  /** Per feature, its best slice (highest separation among slices large enough to judge). */
+  readonly bestSlice: Record<string, SliceSeparation>
+}
+
+export interface SliceOptions {
+  /** Categorical columns with at most this many values define slices. */
+  readonly maxLevels: number
+  /** A slice is judged only with at least this many holdout rows (binary: of each class). */
+  readonly minRows: number
+}
+
 /**
  * How well each named feature alone separates the holdout: a built-in model trained on that one
  * column, scored by holdout AUC (binary) or R² (regression). This is a property of the data, not of
  * the gated model, so it is computed the same way for built-in, ONNX and externally trained models.
- * Cost: one single-column fit per name (about 1/F of a full fit each).
+ *
+ * The same predictions are also scored within slices: every value of every categorical feature with
+ * at most `maxLevels` values, when the slice has at least `minRows` holdout rows (binary: of each
+ * class). A leak confined to one slice (one depot's system writes the outcome into a field) is
+ * diluted on the whole holdout but shows as near-perfect separation inside its slice.
+ * Cost: one single-column fit per name (about 1/F of a full fit each), plus one AUC per slice.
  */
 export async function singleFeatureSeparation(
   train: Dataset,
   holdout: Dataset,
   names: readonly string[],
-  options: { readonly fit: Fit; readonly task: Task; readonly seed: number; readonly side: 'base' | 'head' },
-): Promise<Record<string, number>> {
+  options: {
+    readonly fit: Fit
+    readonly task: Task
+    readonly seed: number
+    readonly side: 'base' | 'head'
+    readonly slices?: SliceOptions
+  },
+): Promise<SeparationResult> {
   const all = train.features.map((f) => f.name)
   const y = holdout.target!.values
-  const result: Record<string, number> = {}
+  const score = (target: ArrayLike<number>, prediction: ArrayLike<number>) =>
+    options.task === 'binary' ? rocAuc(target, prediction) : rSquared(target, prediction)
+  const slices = options.slices ? sliceRows(holdout, options.slices, options.task) : []
+  const overall: Record<string, number> = {}
+  const bestSlice: Record<string, SliceSeparation> = {}
   for (const name of names) {
     if (!all.includes(name)) continue
     const model = await options.fit({
@@ -29,7 +67,36 @@ export async function singleFeatureSeparation(
       leaveOut: all.filter((other) => other !== name),
     })
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames))
-    result[name] = options.task === 'binary' ? rocAuc(y, prediction) : rSquared(y, prediction)
+    overall[name] = score(y, prediction)
+    for (const slice of slices) {
+      if (slice.column === name) continue
+      const separation = score(
+        Array.from(slice.rows, (i) => y[i]),
+        Array.from(slice.rows, (i) => prediction[i]),
+      )
+      if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
+        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation }
+      }
+    }
   }
-  return result
+  return { overall, bestSlice }
+}
+
+function sliceRows(holdout: Dataset, options: SliceOptions, task: Task) {
+  const y = holdout.target!.values
+  const slices: { column: string; value: string; rows: Uint32Array }[] = []
+  holdout.features.forEach((feature, j) => {
+    const categories = feature.categories
+    if (feature.kind !== 'categorical' || !categories || categories.length < 2 || categories.length > options.maxLevels) return
+    const members: number[][] = categories.map(() => [])
+    const column = holdout.columns[j]
+    for (let i = 0; i < holdout.rows; i++) if (!Number.isNaN(column[i])) members[column[i]].push(i)
+    members.forEach((rows, code) => {
+      let positives = 0
+      for (const i of rows) positives += y[i]
+      const large = task === 'binary' ? Math.min(positives, rows.length - positives) >= options.minRows : rows.length >= options.minRows
+      if (large) slices.push({ column: feature.name, value: categories[code], rows: Uint32Array.from(rows) })
+    })
+  })
+  return slices
 }

@@ -36,6 +36,8 @@ export interface LeakageContext {
  *    New or changed features, or ones that crossed the line in this pull request: the policy action.
  *    Already that strong on the base side and unchanged: a warning, since this pull request did not
  *    introduce it.
+ * 1b. Slices: the same line within one slice (a value of a categorical column with enough holdout
+ *    rows of each class), for a leak confined to part of the data; the same weighing of change.
  * 2. Dominance: the head's top feature has share >= dominanceShare, is >= runnerUpRatio times the
  *    runner-up, and alone earns >= relativePower of the full model's gain over a trivial predictor
  *    (AUC 0.5, R² 0). New or changed: the action. Already dominant on the base side and unchanged:
@@ -83,6 +85,42 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
         fullModelSeparation: fullHead,
         threshold: options.singleFeaturePower,
         share: positiveShare(head.importances, unit.name),
+        isNew: added.has(unit.name),
+        isChanged: changed.has(unit.name),
+      },
+    })
+  }
+
+  // A leak confined to one slice: diluted on the whole holdout, near-perfect inside the slice.
+  for (const unit of ranked) {
+    const slice = head.singleFeatureSlices?.[unit.name]
+    if (flagged.has(unit.name) || !slice || !(slice.separation >= options.singleFeaturePower)) continue
+    const baseSlice = base.singleFeatureSlices?.[unit.name]
+    const isNewOrChanged = added.has(unit.name) || changed.has(unit.name)
+    const crossed = !baseSlice || !(baseSlice.separation >= options.singleFeaturePower)
+    const severity: Severity = isNewOrChanged || crossed ? options.action : 'warn'
+    const overall = head.singleFeatureSeparation[unit.name]
+    flagged.add(unit.name)
+    findings.push({
+      kind: 'leakage',
+      severity,
+      feature: unit.name,
+      title: `${unit.name} alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}); it is ${describeChange(unit.name)}.`,
+      message:
+        `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ` +
+        `${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). ` +
+        `A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` +
+        (severity === 'warn' && !isNewOrChanged && !crossed
+          ? `It was already this strong in a slice on the base side (${baseSlice!.column} = ${baseSlice!.value}, ${metricName} ${fmt(baseSlice!.separation)}).`
+          : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
+      evidence: {
+        sliceColumn: slice.column,
+        sliceValue: slice.value,
+        sliceRows: slice.rows,
+        sliceSeparation: slice.separation,
+        baseSliceSeparation: baseSlice?.separation ?? null,
+        singleFeatureSeparation: overall ?? null,
+        threshold: options.singleFeaturePower,
         isNew: added.has(unit.name),
         isChanged: changed.has(unit.name),
       },

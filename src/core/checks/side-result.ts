@@ -1,5 +1,6 @@
 import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
 import type { ImportanceEstimate } from '../importance/permutation-importance.ts'
+import type { SliceSeparation } from '../single-feature-separation.ts'
 
 /** What the checks know about one side after its refits: pure numbers, no models. */
 export interface SideResult {
@@ -16,6 +17,8 @@ export interface SideResult {
   readonly perRefit: readonly (readonly ImportanceEstimate[])[]
   /** A one-feature built-in model's holdout AUC / R², for the features it was computed for. */
   readonly singleFeatureSeparation: Readonly<Record<string, number>>
+  /** Per feature, the slice (a value of a categorical column) its one-feature model separates best. */
+  readonly singleFeatureSlices?: Readonly<Record<string, SliceSeparation>>
   /** 'draws-only' when the model was loaded, not refitted. */
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
 }
