@@ -1,0 +1,349 @@
+/**
+ * The action: read the inputs and the event, run the check (or, in publish mode, read a report an
+ * earlier job wrote), then write the report files, the pull-request comment, the job summary and
+ * the outputs, and fail the step when the verdict is at or above 'fail-on'. A run that fails still
+ * gets all of these, as an 'error' report that says no verdict was reached.
+ *
+ * Everything outside is passed in (`ActionDependencies`), so tests run it with fakes.
+ */
+import { mkdir, readFile, stat, writeFile } from 'node:fs/promises'
+import { dirname, join, resolve } from 'node:path'
+import { decideVerdict } from '../../core/checks/verdict.ts'
+import { describeFailure, UserError } from '../../core/errors.ts'
+import { errorReport } from '../../core/report/error-report.ts'
+import { escapeMarkdownText } from '../../core/report/escape.ts'
+import { renderMarkdown } from '../../core/report/render-markdown.ts'
+import type { GateReport } from '../../core/report/report.ts'
+import { parseGateReport } from '../../core/report/report-schema.ts'
+import type { GateProgress } from '../../core/run-gate.ts'
+import type { CheckRequest } from '../check/run-check.ts'
+import { commentMarker, upsertComment } from '../github/comment.ts'
+import type { FetchCommitRequest } from '../github/fetch-base.ts'
+import { findPullRequest } from '../github/find-pull-request.ts'
+import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
+import { parsePullRequestEvent, type EventInfo } from '../github/pull-request.ts'
+import { toolVersion } from '../version.ts'
+import { isFailingVerdict, readInputs, type ActionInputs } from './inputs.ts'
+
+/** The part of @actions/core the action uses. */
+export interface ActionCore {
+  getInput(name: string): string
+  info(message: string): void
+  warning(message: string): void
+  setSecret(secret: string): void
+  setOutput(name: string, value: string): void
+  setFailed(message: string): void
+  group<T>(name: string, fn: () => Promise<T>): Promise<T>
+  /** Appends markdown to the job summary (GITHUB_STEP_SUMMARY); throws when there is none. */
+  appendSummary(markdown: string): Promise<void>
+}
+
+export interface ActionDependencies {
+  readonly core: ActionCore
+  readonly env: Readonly<Record<string, string | undefined>>
+  /** The folder relative paths start from when GITHUB_WORKSPACE is not set. */
+  readonly cwd: string
+  readonly createClient: (token: string, options: GitHubClientOptions) => GitHubClient
+  readonly runCheck: (request: CheckRequest) => Promise<GateReport>
+  readonly fetchBase: (request: FetchCommitRequest) => Promise<string>
+}
+
+/** GitHub refuses longer comments; the comment is rendered to stay below this. */
+export const commentCharacterLimit = 65_536
+const commentMaxCharacters = 60_000
+/** Job summaries are limited to 1 MiB a step; UTF-16 units times 3 bytes stays below it. */
+const summaryMaxCharacters = 300_000
+/** A report file larger than this is refused before parsing (the schema's caps fit well inside). */
+const maxReportBytes = 64 * 1024 * 1024
+
+export async function run(deps: ActionDependencies): Promise<void> {
+  const { core, env } = deps
+  const inputs = readInputs((name) => core.getInput(name))
+  if (inputs.token !== '') core.setSecret(inputs.token)
+
+  const workspace = env.GITHUB_WORKSPACE || deps.cwd
+  const repository = readRepository(env)
+  const event = parsePullRequestEvent(env.GITHUB_EVENT_NAME ?? '', await readEventPayload(env.GITHUB_EVENT_PATH), repository?.slug ?? '')
+  const outputDirectory = join(env.RUNNER_TEMP || join(workspace, '.plumbline'), 'plumbline')
+  const apiUrl = env.GITHUB_API_URL || 'https://api.github.com'
+  let client: GitHubClient | null = null
+  const github = () => (client ??= deps.createClient(inputs.token, { baseUrl: apiUrl, log: (line) => core.info(line) }))
+
+  const context: RunContext = { deps, inputs, event, repository, workspace, outputDirectory, github }
+  if (inputs.mode === 'publish') await publish(context)
+  else await check(context)
+}
+
+interface RunContext {
+  readonly deps: ActionDependencies
+  readonly inputs: ActionInputs
+  readonly event: EventInfo
+  readonly repository: { readonly owner: string; readonly repo: string; readonly slug: string } | null
+  readonly workspace: string
+  readonly outputDirectory: string
+  readonly github: () => GitHubClient
+}
+
+/** Where the comment goes, or why there is none. */
+type CommentPlan = { readonly issueNumber: number } | { readonly skipped: string }
+
+async function check(context: RunContext): Promise<void> {
+  const { deps, inputs, event, workspace } = context
+  const { core } = deps
+  const cwd = resolve(workspace, inputs.workingDirectory)
+  const base = inputs.baseRef ?? event.baseSha
+  const head = inputs.headRef ?? event.headSha
+  const origin = (input: string | null, fromEvent: string | null, name: 'base' | 'head') =>
+    input !== null ? `input '${name}'` : fromEvent !== null ? `the ${event.name} event` : null
+  const baseOrigin = origin(inputs.baseRef, event.baseSha, 'base')
+  const headOrigin = origin(inputs.headRef, event.headSha, 'head')
+  const plan = planComment(context)
+
+  await core.group('Configuration', async () => {
+    core.info(`plumbline ${toolVersion}, mode check, event ${event.name || '(none)'}`)
+    core.info(`Repository folder: ${cwd}`)
+    core.info(`Policy: ${inputs.policyPath}`)
+    core.info(`Base: ${base === null ? 'the merge base with the default branch' : `${base} (from ${baseOrigin})`}`)
+    core.info(`Head: ${head === null ? 'the checked-out working tree' : `${head} (from ${headOrigin})`}`)
+    if (event.pullRequest) core.info(`Pull request: #${event.pullRequest.number}${event.isHeadFromFork ? ' (head from a fork)' : ''}`)
+    core.info(`Comment: ${'issueNumber' in plan ? `on #${plan.issueNumber}` : `none (${plan.skipped})`}`)
+    core.info(`Fail the step on: ${inputs.failOn === 'never' ? 'no verdict (a run that fails)' : `${inputs.failOn} or worse`}`)
+    core.info(`Fork code: ${inputs.isForkCodeAllowed ? 'allowed' : 'refused under privileged triggers'}`)
+    core.info(`Token: ${inputs.token ? 'set (masked)' : 'not set'}`)
+    if (inputs.reportPath) core.info(`JSON report copy: ${inputs.reportPath}`)
+    return undefined
+  })
+
+  let report: GateReport
+  let failure: unknown = null
+  try {
+    refuseForkCode(inputs, event)
+    const started = performance.now()
+    const baseRef = base === null ? undefined : await deps.fetchBase({ cwd, ref: base, label: `the base, from ${baseOrigin}`, log: (l) => core.info(l) })
+    const headRef = head === null ? undefined : await deps.fetchBase({ cwd, ref: head, label: `the head, from ${headOrigin}`, log: (l) => core.info(l) })
+    report = await deps.runCheck({
+      cwd,
+      policyPath: inputs.policyPath,
+      baseRef,
+      headRef,
+      log: (line) => core.info(line),
+      onProgress: progressLogger(core, started),
+    })
+    core.info(`Verdict: ${report.verdict} (${((performance.now() - started) / 1000).toFixed(1)} s)`)
+  } catch (error) {
+    failure = error
+    report = failedRunReport(error, inputs.policyPath)
+  }
+  const extraJson = inputs.reportPath === null ? null : resolve(workspace, inputs.reportPath)
+  await finish(context, { report, failure, plan, extraJson })
+}
+
+async function publish(context: RunContext): Promise<void> {
+  const { deps, inputs, event, workspace } = context
+  const { core } = deps
+  const reportFile = resolve(workspace, inputs.reportPath as string)
+  let plan: CommentPlan
+  try {
+    plan = await planPublishedComment(context)
+  } catch (error) {
+    plan = { skipped: `the pull request could not be found: ${describeFailure(error).split('\n')[0]}` }
+  }
+
+  await core.group('Configuration', async () => {
+    core.info(`plumbline ${toolVersion}, mode publish, event ${event.name || '(none)'}`)
+    core.info(`Report: ${reportFile}`)
+    if (event.workflowRun) core.info(`Workflow run: ${event.workflowRun.id} (${event.workflowRun.event}), head ${event.workflowRun.headSha.slice(0, 12)}`)
+    core.info(`Comment: ${'issueNumber' in plan ? `on #${plan.issueNumber}` : `none (${plan.skipped})`}`)
+    core.info(`Fail the step on: ${inputs.failOn === 'never' ? 'no verdict (a report that cannot be used)' : `${inputs.failOn} or worse`}`)
+    core.info(`Token: ${inputs.token ? 'set (masked)' : 'not set'}`)
+    core.info('No repository code and no git run in this mode.')
+    return undefined
+  })
+
+  let report: GateReport
+  let failure: unknown = null
+  try {
+    report = await readPublishedReport(reportFile, inputs.reportPath as string)
+  } catch (error) {
+    failure = error
+    report = failedRunReport(error, 'the published report')
+  }
+  await finish(context, { report, failure, plan, extraJson: null })
+}
+
+/** Reads and validates a report another job wrote. Its text is untrusted: it is never logged raw. */
+async function readPublishedReport(file: string, asTyped: string): Promise<GateReport> {
+  const size = await stat(file).then(
+    (s) => s.size,
+    () => {
+      throw new UserError(
+        `Input 'report': no report file at ${asTyped} (looked for ${file}).`,
+        'Check that the pull_request job uploaded the report and that the download step put it at this path (see docs/action.md).',
+      )
+    },
+  )
+  if (size > maxReportBytes) {
+    throw new UserError(`Input 'report': ${asTyped} is ${size} bytes, more than a plumbline report can be (${maxReportBytes}).`, 'Publish the JSON report file plumbline wrote, unchanged.')
+  }
+  let json: unknown
+  try {
+    json = JSON.parse(await readFile(file, 'utf8'))
+  } catch (error) {
+    throw new UserError(`${asTyped} is not valid JSON (${(error as Error).message.slice(0, 200)}).`, 'Publish the JSON report file plumbline wrote, unchanged.')
+  }
+  const report = parseGateReport(json, asTyped)
+  if (report.verdict !== 'error' && decideVerdict(report.findings) !== report.verdict) {
+    throw new UserError(
+      `${asTyped} is not consistent: its verdict is '${report.verdict}' but its findings give '${decideVerdict(report.findings)}'.`,
+      'The file was changed after plumbline wrote it; publish the report file exactly as the run wrote it.',
+    )
+  }
+  return report
+}
+
+function planComment(context: RunContext): CommentPlan {
+  const { inputs, event } = context
+  if (!event.pullRequest) return { skipped: `a ${event.name || 'run without an event'} is not a pull request` }
+  if (!inputs.isCommentWanted) return { skipped: "input 'comment' is false" }
+  if (event.name === 'pull_request' && event.isHeadFromFork) {
+    return {
+      skipped:
+        "the head is in a fork, so this pull_request job's token is read-only; publish the report from a workflow_run job with 'mode: publish' (docs/action.md)",
+    }
+  }
+  return basicCommentChecks(context, event.pullRequest.number)
+}
+
+async function planPublishedComment(context: RunContext): Promise<CommentPlan> {
+  const { inputs, event, repository } = context
+  if (!inputs.isCommentWanted) return { skipped: "input 'comment' is false" }
+  if (event.pullRequest) return basicCommentChecks(context, event.pullRequest.number)
+  const run = event.workflowRun
+  if (run === null) return { skipped: `a ${event.name || 'run without an event'} names no pull request` }
+  if (run.event !== 'pull_request' && run.event !== 'pull_request_target') {
+    return { skipped: `the workflow run being published was started by '${run.event}', not by a pull request` }
+  }
+  const checked = basicCommentChecks(context, 0)
+  if ('skipped' in checked || repository === null) return checked
+  return { issueNumber: await findPullRequest(context.github(), repository, run) }
+}
+
+function basicCommentChecks(context: RunContext, issueNumber: number): CommentPlan {
+  if (context.repository === null) return { skipped: 'GITHUB_REPOSITORY is not set' }
+  if (context.inputs.token === '') return { skipped: "input 'token' is empty" }
+  return { issueNumber }
+}
+
+function refuseForkCode(inputs: ActionInputs, event: EventInfo) {
+  if (!event.isPrivileged || !event.isHeadFromFork || inputs.isForkCodeAllowed) return
+  throw new UserError(
+    `Refusing to run the check on a head from a fork under ${event.name}: the check runs the repository's ` +
+      'prepare and training commands, and this job holds a write token and the repository secrets, so ' +
+      "code from a stranger's branch would run with them.",
+    "Run the check in a pull_request workflow and publish its report with 'mode: publish' from a workflow_run " +
+      "workflow (docs/action.md), or set 'allow-fork-code: true' on this step if you accept that risk.",
+  )
+}
+
+interface Outcome {
+  readonly report: GateReport
+  readonly failure: unknown
+  readonly plan: CommentPlan
+  /** A second place to write the JSON report (check mode's 'report' input). */
+  readonly extraJson: string | null
+}
+
+async function finish(context: RunContext, outcome: Outcome): Promise<void> {
+  const { deps, outputDirectory } = context
+  const { core } = deps
+  const { report, failure, plan } = outcome
+  const json = `${JSON.stringify(report, null, 2)}\n`
+  const fullMarkdown = renderMarkdown(report, { maxTableRows: 100_000, maxCharacters: summaryMaxCharacters, marker: commentMarker })
+  const jsonPath = join(outputDirectory, 'report.json')
+  const markdownPath = join(outputDirectory, 'report.md')
+  await writeText(jsonPath, json)
+  await writeText(markdownPath, fullMarkdown)
+  if (outcome.extraJson !== null) await writeText(outcome.extraJson, json)
+  core.info(`Wrote ${jsonPath} and ${markdownPath}${outcome.extraJson ? ` and ${outcome.extraJson}` : ''}.`)
+
+  let commentProblem: string | null = null
+  if ('issueNumber' in plan && context.repository) {
+    const body = renderMarkdown(report, { maxCharacters: commentMaxCharacters, marker: commentMarker })
+    try {
+      const posted = await upsertComment(context.github(), { ...context.repository, issueNumber: plan.issueNumber }, body, commentMarker)
+      core.info(`${posted.action === 'created' ? 'Created' : 'Updated'} the comment on #${plan.issueNumber}: ${posted.url}`)
+    } catch (error) {
+      const status = (error as { status?: number }).status
+      commentProblem = `${error instanceof Error ? error.message : String(error)}${status ? ` (HTTP ${status})` : ''}`
+      core.warning(
+        `Could not post the pull-request comment on #${plan.issueNumber}: ${commentProblem}. The verdict (${report.verdict}) is unchanged; the full report is in the job summary and in ${jsonPath}.`,
+      )
+    }
+  } else if ('skipped' in plan) {
+    core.info(`No pull-request comment: ${plan.skipped}.`)
+  }
+
+  const note =
+    commentProblem === null
+      ? ''
+      : `> [!WARNING]\n> The pull-request comment could not be posted: ${escapeMarkdownText(commentProblem)}. The report below is the verdict.\n\n`
+  try {
+    await core.appendSummary(`${note}${fullMarkdown}\n`)
+  } catch (error) {
+    core.info(`No job summary written: ${error instanceof Error ? error.message : String(error)}`)
+  }
+
+  const counts = { block: 0, warn: 0, info: 0 }
+  for (const finding of report.findings) counts[finding.severity] += 1
+  core.setOutput('verdict', report.verdict)
+  core.setOutput('blocking', String(counts.block))
+  core.setOutput('warnings', String(counts.warn))
+  core.setOutput('infos', String(counts.info))
+  core.setOutput('report-json', jsonPath)
+  core.setOutput('report-markdown', markdownPath)
+
+  if (failure !== null) core.setFailed(`${report.headline}\n${describeFailure(failure)}`)
+  else if (report.verdict === 'error') core.setFailed(`${report.headline}\n${report.findings[0]?.message ?? ''}`.trim())
+  else if (isFailingVerdict(report.verdict, context.inputs.failOn)) core.setFailed(report.headline)
+}
+
+/** The 'error' report of a run that reached no verdict. */
+function failedRunReport(error: unknown, policySource: string): GateReport {
+  return errorReport({ message: describeFailure(error), isUserError: error instanceof UserError, toolVersion, policySource })
+}
+
+async function writeText(path: string, text: string) {
+  await mkdir(dirname(path), { recursive: true })
+  await writeFile(path, text)
+}
+
+function readRepository(env: Readonly<Record<string, string | undefined>>) {
+  const slug = env.GITHUB_REPOSITORY ?? ''
+  const match = slug.match(/^([^/\s]+)\/([^/\s]+)$/)
+  return match ? { owner: match[1], repo: match[2], slug } : null
+}
+
+/** The event payload as the runner wrote it; {} when there is none (the action run by hand). */
+async function readEventPayload(path: string | undefined): Promise<unknown> {
+  if (!path) return {}
+  let text: string
+  try {
+    text = await readFile(path, 'utf8')
+  } catch {
+    throw new UserError(`GITHUB_EVENT_PATH names ${path}, which cannot be read.`, 'Run the action on a GitHub Actions runner, or unset GITHUB_EVENT_PATH.')
+  }
+  try {
+    return JSON.parse(text)
+  } catch {
+    throw new UserError(`The event payload at ${path} is not valid JSON.`, 'Run the action on a GitHub Actions runner, or unset GITHUB_EVENT_PATH.')
+  }
+}
+
+function progressLogger(core: ActionCore, started: number) {
+  const elapsed = () => `${((performance.now() - started) / 1000).toFixed(1)} s`
+  return (event: GateProgress) => {
+    if (event.stage === 'refit') core.info(`[${elapsed()}] ${event.side}: refit ${event.refit + 1} of ${event.of}`)
+    else if (event.stage === 'single-feature') core.info(`[${elapsed()}] ${event.side}: one-feature models for ${event.features} features`)
+    else core.info(`[${elapsed()}] checks`)
+  }
+}

@@ -1,0 +1,320 @@
+import { getOctokit } from '@actions/github'
+import { retry } from '@octokit/plugin-retry'
+import { mkdtempSync, readFileSync, rmSync, writeFileSync, existsSync, mkdirSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { afterEach, beforeEach, describe, expect, it } from 'vitest'
+import { parse } from 'yaml'
+import { run, type ActionDependencies } from '../../../src/adapters/action/main.ts'
+import type { CheckRequest } from '../../../src/adapters/check/run-check.ts'
+import { commentMarker } from '../../../src/adapters/github/comment.ts'
+import type { FetchCommitRequest } from '../../../src/adapters/github/fetch-base.ts'
+import { UserError } from '../../../src/core/errors.ts'
+import type { GateReport } from '../../../src/core/report/report.ts'
+import { courierReport, oversizedReport } from '../../core/report/courier-report.ts'
+import { githubCommentLimit, startFakeGitHub, type FakeGitHub } from '../../helpers/fake-github.ts'
+
+const owner = 'northwind-parcel'
+const repo = 'late-deliveries'
+const token = 'ghs_maintesttoken0123456789'
+const baseSha = '1f0c2d3e4b5a69788796a5b4c3d2e1f0a9b8c7d6'
+const headSha = '9a8b7c6d5e4f30211203f4e5d6c7b8a9f0e1d2c3'
+const repository = { id: 4242, full_name: `${owner}/${repo}`, owner: { login: owner } }
+const fork = { id: 9001, full_name: 'stranger/late-deliveries', owner: { login: 'stranger' } }
+const actionInputs = (parse(readFileSync(new URL('../../../action.yml', import.meta.url), 'utf8')) as { inputs: Record<string, { default?: string }> }).inputs
+
+function pullRequestEvent(headRepo: unknown = repository) {
+  return {
+    action: 'opened',
+    number: 17,
+    pull_request: { number: 17, base: { sha: baseSha, repo: repository }, head: { sha: headSha, ref: 'add-roadworks', repo: headRepo } },
+    repository,
+  }
+}
+
+interface Recorded {
+  lines: string[]
+  warnings: string[]
+  failures: string[]
+  secrets: string[]
+  outputs: Record<string, string>
+  summary: string[]
+  checks: CheckRequest[]
+  fetches: FetchCommitRequest[]
+}
+
+let folder: string
+let fake: FakeGitHub
+beforeEach(async () => {
+  folder = mkdtempSync(join(tmpdir(), 'plumbline-action-'))
+  mkdirSync(join(folder, 'workspace'))
+  mkdirSync(join(folder, 'runner-temp'))
+  fake = await startFakeGitHub({ token, owner, repo, maxPerPage: 30 })
+})
+afterEach(async () => {
+  await fake.close()
+  rmSync(folder, { recursive: true, force: true })
+})
+
+/**
+ * Runs the action with a fake core, the fake server behind a retrying client (no throttling
+ * plugin: its process-wide write queue would space these tests' writes seconds apart), and a
+ * `check` that returns `report` or throws.
+ */
+async function runAction(options: {
+  eventName: string
+  event: unknown
+  inputs?: Record<string, string>
+  check?: () => Promise<GateReport>
+  env?: Record<string, string>
+}): Promise<Recorded> {
+  const recorded: Recorded = { lines: [], warnings: [], failures: [], secrets: [], outputs: {}, summary: [], checks: [], fetches: [] }
+  const eventPath = join(folder, 'event.json')
+  writeFileSync(eventPath, JSON.stringify(options.event))
+  const inputs: Record<string, string> = {}
+  for (const [name, input] of Object.entries(actionInputs)) inputs[name] = input.default ?? ''
+  Object.assign(inputs, { token }, options.inputs)
+  const deps: ActionDependencies = {
+    core: {
+      getInput: (name) => inputs[name] ?? '',
+      info: (message) => recorded.lines.push(message),
+      warning: (message) => recorded.warnings.push(message),
+      setSecret: (secret) => recorded.secrets.push(secret),
+      setOutput: (name, value) => {
+        recorded.outputs[name] = value
+      },
+      setFailed: (message) => recorded.failures.push(message),
+      group: async (name, fn) => {
+        recorded.lines.push(`[group] ${name}`)
+        return fn()
+      },
+      appendSummary: async (markdown) => {
+        recorded.summary.push(markdown)
+      },
+    },
+    env: {
+      GITHUB_EVENT_NAME: options.eventName,
+      GITHUB_EVENT_PATH: eventPath,
+      GITHUB_REPOSITORY: `${owner}/${repo}`,
+      GITHUB_API_URL: fake.url,
+      GITHUB_WORKSPACE: join(folder, 'workspace'),
+      RUNNER_TEMP: join(folder, 'runner-temp'),
+      ...options.env,
+    },
+    cwd: folder,
+    createClient: (clientToken, clientOptions) =>
+      getOctokit(clientToken, { baseUrl: clientOptions.baseUrl, retry: { retryAfterBaseValue: 1 } }, retry),
+    runCheck: async (request) => {
+      recorded.checks.push(request)
+      if (!options.check) throw new Error('runCheck must not be called here')
+      return options.check()
+    },
+    fetchBase: async (request) => {
+      recorded.fetches.push(request)
+      return request.ref
+    },
+  }
+  await run(deps)
+  return recorded
+}
+
+describe('run(deps) in check mode', () => {
+  it('on a pull request: checks base against head from the event, comments, writes the summary and outputs, fails on block', async () => {
+    const report = courierReport()
+    const result = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), check: async () => report })
+
+    expect(result.secrets).toEqual([token])
+    expect(result.fetches.map((f) => [f.ref, f.label])).toEqual([
+      [baseSha, 'the base, from the pull_request event'],
+      [headSha, 'the head, from the pull_request event'],
+    ])
+    expect(result.checks).toHaveLength(1)
+    expect(result.checks[0]).toMatchObject({ cwd: join(folder, 'workspace'), policyPath: 'plumbline.yml', baseRef: baseSha, headRef: headSha })
+
+    const comments = fake.comments.get(17) ?? []
+    expect(comments).toHaveLength(1)
+    expect(comments[0].body.startsWith(`${commentMarker}\n`)).toBe(true)
+    expect(comments[0].body).toContain('delivered\\_at\\_hour')
+
+    const jsonPath = join(folder, 'runner-temp', 'plumbline', 'report.json')
+    const markdownPath = join(folder, 'runner-temp', 'plumbline', 'report.md')
+    expect(result.outputs).toEqual({ verdict: 'block', blocking: '1', warnings: '2', infos: '2', 'report-json': jsonPath, 'report-markdown': markdownPath })
+    expect(JSON.parse(readFileSync(jsonPath, 'utf8')).headline).toBe(report.headline)
+    expect(result.summary).toEqual([`${readFileSync(markdownPath, 'utf8')}\n`])
+    expect(result.failures).toEqual([report.headline])
+    expect(result.lines).toContain('[group] Configuration')
+    expect(result.lines).toContain(`Base: ${baseSha} (from the pull_request event)`)
+    expect(result.lines.join('\n')).not.toContain(token)
+  })
+
+  it('updates the same comment on a rerun', async () => {
+    const first = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), check: async () => courierReport() })
+    const id = fake.comments.get(17)?.[0].id
+    await runAction({ eventName: 'pull_request', event: pullRequestEvent(), check: async () => courierReport() })
+    expect(fake.comments.get(17)?.map((c) => c.id)).toEqual([id])
+    expect(first.lines.some((l) => l.startsWith('Created the comment on #17'))).toBe(true)
+  })
+
+  it("does not fail the step on block when 'fail-on' is never, and fails on warn when it is warn", async () => {
+    const blocked = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { 'fail-on': 'never' }, check: async () => courierReport() })
+    expect(blocked.failures).toEqual([])
+    const warned: GateReport = { ...courierReport(), verdict: 'warn', headline: 'Passed with warnings: two ranks moved.', findings: courierReport().findings.filter((f) => f.severity !== 'block') }
+    const warnedRun = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { 'fail-on': 'warn' }, check: async () => warned })
+    expect(warnedRun.failures).toEqual(['Passed with warnings: two ranks moved.'])
+  })
+
+  it('keeps the comment under GitHub’s 65,536 characters for thousands of features and findings', async () => {
+    await runAction({ eventName: 'pull_request', event: pullRequestEvent(), check: async () => oversizedReport(5000, 400) })
+    const body = fake.comments.get(17)?.[0].body ?? ''
+    expect(body.length).toBeGreaterThan(30_000)
+    expect(body.length).toBeLessThanOrEqual(githubCommentLimit)
+  })
+
+  it('turns a failed run into an error report: comment saying no verdict, outputs, failed step', async () => {
+    const result = await runAction({
+      eventName: 'pull_request',
+      event: pullRequestEvent(),
+      check: async () => {
+        throw new UserError('No policy file at plumbline.yml (looked in /checkout).', "Create one with 'plumbline init'.")
+      },
+    })
+    expect(result.outputs.verdict).toBe('error')
+    expect(result.outputs.blocking).toBe('1')
+    const body = fake.comments.get(17)?.[0].body ?? ''
+    expect(body).toContain('No verdict')
+    expect(result.failures).toEqual([
+      "No verdict: the check could not run (No policy file at plumbline.yml (looked in /checkout)).\nNo policy file at plumbline.yml (looked in /checkout).\nCreate one with 'plumbline init'.",
+    ])
+  })
+
+  it('refuses a fork head under pull_request_target without running anything, and says why', async () => {
+    const result = await runAction({ eventName: 'pull_request_target', event: pullRequestEvent(fork), check: async () => courierReport() })
+    expect(result.checks).toEqual([])
+    expect(result.fetches).toEqual([])
+    expect(result.failures).toHaveLength(1)
+    expect(result.failures[0]).toBe(
+      "No verdict: the check could not run (Refusing to run the check on a head from a fork under pull_request_target: the check runs the repository's prepare and training commands, and this job holds a write token and the repository secrets, so code from a stranger's branch would run with them).\n" +
+        "Refusing to run the check on a head from a fork under pull_request_target: the check runs the repository's prepare and training commands, and this job holds a write token and the repository secrets, so code from a stranger's branch would run with them.\n" +
+        "Run the check in a pull_request workflow and publish its report with 'mode: publish' from a workflow_run workflow (docs/action.md), or set 'allow-fork-code: true' on this step if you accept that risk.",
+    )
+    expect(fake.comments.get(17)?.[0].body).toContain('No verdict')
+  })
+
+  it("runs a fork head under pull_request_target when 'allow-fork-code' is true", async () => {
+    const result = await runAction({ eventName: 'pull_request_target', event: pullRequestEvent(fork), inputs: { 'allow-fork-code': 'true' }, check: async () => courierReport() })
+    expect(result.checks).toHaveLength(1)
+  })
+
+  it('posts no comment for a fork under pull_request (read-only token) and points to publish mode', async () => {
+    const result = await runAction({ eventName: 'pull_request', event: pullRequestEvent(fork), check: async () => courierReport() })
+    expect(fake.requests).toEqual([])
+    expect(result.lines).toContain(
+      "No pull-request comment: the head is in a fork, so this pull_request job's token is read-only; publish the report from a workflow_run job with 'mode: publish' (docs/action.md).",
+    )
+    expect(result.failures).toEqual([courierReport().headline])
+  })
+
+  it('outside a pull request: runs, writes summary and outputs, posts no comment', async () => {
+    const push = { ref: 'refs/heads/main', before: baseSha, after: headSha, repository }
+    const result = await runAction({ eventName: 'push', event: push, check: async () => courierReport() })
+    expect(result.checks[0]).toMatchObject({ baseRef: baseSha, headRef: headSha })
+    expect(fake.requests).toEqual([])
+    expect(result.summary).toHaveLength(1)
+    expect(result.outputs.verdict).toBe('block')
+    const dispatch = await runAction({ eventName: 'workflow_dispatch', event: { inputs: {} }, check: async () => courierReport() })
+    expect(dispatch.checks[0]).toMatchObject({ baseRef: undefined, headRef: undefined })
+    expect(dispatch.fetches).toEqual([])
+  })
+
+  it('lets the inputs override the event’s commits', async () => {
+    const result = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { base: 'origin/main' }, check: async () => courierReport() })
+    expect(result.fetches.map((f) => [f.ref, f.label])).toEqual([
+      ['origin/main', "the base, from input 'base'"],
+      [headSha, 'the head, from the pull_request event'],
+    ])
+  })
+
+  it('reports a comment that cannot be posted in the log and the summary, and keeps the verdict', async () => {
+    fake.setDown(true)
+    const result = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), check: async () => courierReport() })
+    expect(result.warnings).toHaveLength(1)
+    expect(result.warnings[0]).toMatch(/^Could not post the pull-request comment on #17: other side closed \(HTTP 500\)\. The verdict \(block\) is unchanged; /)
+    expect(result.summary[0]).toMatch(/^> \[!WARNING\]\n> The pull-request comment could not be posted: other side closed \(HTTP 500\)\./)
+    expect(result.failures).toEqual([courierReport().headline])
+    expect(result.outputs.verdict).toBe('block')
+  })
+
+  it("writes a copy of the JSON report where 'report' says", async () => {
+    await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { report: 'out/plumbline-report.json' }, check: async () => courierReport() })
+    const copy = join(folder, 'workspace', 'out', 'plumbline-report.json')
+    expect(readFileSync(copy, 'utf8')).toBe(readFileSync(join(folder, 'runner-temp', 'plumbline', 'report.json'), 'utf8'))
+  })
+})
+
+describe('run(deps) in publish mode', () => {
+  const reportFile = () => join(folder, 'workspace', 'report', 'report.json')
+  function writeReport(report: unknown) {
+    mkdirSync(join(folder, 'workspace', 'report'), { recursive: true })
+    writeFileSync(reportFile(), typeof report === 'string' ? report : JSON.stringify(report))
+  }
+  function workflowRun(pullRequests: unknown[], headRepository: unknown) {
+    return {
+      action: 'completed',
+      workflow_run: { id: 555001, event: 'pull_request', head_sha: headSha, head_branch: 'add-roadworks', head_repository: headRepository, pull_requests: pullRequests },
+      repository,
+    }
+  }
+  const publishInputs = { mode: 'publish', report: 'report/report.json' }
+
+  it('posts a valid report on the pull request GitHub lists, with outputs and step result, running nothing', async () => {
+    writeReport(courierReport())
+    const listed = { number: 17, head: { sha: headSha, repo: { id: 4242 } }, base: { sha: baseSha, repo: { id: 4242 } } }
+    const result = await runAction({ eventName: 'workflow_run', event: workflowRun([listed], repository), inputs: publishInputs })
+    expect(result.checks).toEqual([])
+    expect(result.fetches).toEqual([])
+    expect(fake.comments.get(17)).toHaveLength(1)
+    expect(result.outputs).toMatchObject({ verdict: 'block', blocking: '1', warnings: '2', infos: '2' })
+    expect(result.failures).toEqual([courierReport().headline])
+    expect(result.lines).toContain('No repository code and no git run in this mode.')
+  })
+
+  it('finds a fork’s pull request by its head owner, branch and commit', async () => {
+    writeReport(courierReport())
+    fake.pulls.push(
+      { number: 16, state: 'open', head: { sha: baseSha, ref: 'add-roadworks', label: 'stranger:add-roadworks' } },
+      { number: 21, state: 'open', head: { sha: headSha, ref: 'add-roadworks', label: 'stranger:add-roadworks' } },
+    )
+    await runAction({ eventName: 'workflow_run', event: workflowRun([], fork), inputs: publishInputs })
+    expect([...fake.comments.keys()]).toEqual([21])
+  })
+
+  it('rejects a report that fails the schema, and says no verdict was reached', async () => {
+    writeReport({ ...courierReport(), verdict: 'approved' })
+    const listed = { number: 17, head: { sha: headSha, repo: { id: 4242 } }, base: { sha: baseSha, repo: { id: 4242 } } }
+    const result = await runAction({ eventName: 'workflow_run', event: workflowRun([listed], repository), inputs: publishInputs })
+    expect(result.outputs.verdict).toBe('error')
+    expect(result.failures).toHaveLength(1)
+    expect(result.failures[0]).toContain('report/report.json is not a valid plumbline report (schema version 1), 1 problem:\n  verdict: ')
+    expect(fake.comments.get(17)?.[0].body).toContain('No verdict')
+  })
+
+  it('rejects a report whose verdict does not follow from its findings', async () => {
+    writeReport({ ...courierReport(), verdict: 'pass' })
+    const listed = { number: 17, head: { sha: headSha, repo: { id: 4242 } }, base: { sha: baseSha, repo: { id: 4242 } } }
+    const result = await runAction({ eventName: 'workflow_run', event: workflowRun([listed], repository), inputs: publishInputs })
+    expect(result.outputs.verdict).toBe('error')
+    expect(result.failures[0].split('\n').slice(1)).toEqual([
+      "report/report.json is not consistent: its verdict is 'pass' but its findings give 'block'.",
+      'The file was changed after plumbline wrote it; publish the report file exactly as the run wrote it.',
+    ])
+  })
+
+  it('names the input when the report file is missing', async () => {
+    const result = await runAction({ eventName: 'workflow_run', event: workflowRun([], fork), inputs: publishInputs })
+    expect(result.failures[0].split('\n').slice(1)).toEqual([
+      `Input 'report': no report file at report/report.json (looked for ${reportFile()}).`,
+      'Check that the pull_request job uploaded the report and that the download step put it at this path (see docs/action.md).',
+    ])
+    expect(existsSync(join(folder, 'runner-temp', 'plumbline', 'report.json'))).toBe(true)
+  })
+})
