@@ -18,7 +18,7 @@ export async function init(command: { train?: string; target?: string; task?: 'b
   const text = await readFile(resolve(root, trainPath), 'utf8').catch(() => {
     throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root}).`, 'Pass --train FILE with a CSV path relative to the repository root.')
   })
-  const data = parseCsv(text, { source: trainPath })
+  const data = parseCsv(text, { source: trainPath, requireTarget: false })
   const columns = summarizeColumns(data)
   const target = command.target ?? proposeTarget(columns)
   if (command.target && !columns.some((c) => c.name === command.target)) {
