@@ -1,7 +1,7 @@
 import type { FeatureMatrix } from '../../data/dataset.ts'
 import { LinearModel } from './linear-model.ts'
 import { solvePositiveDefinite } from './solve-positive-definite.ts'
-import { buildStandardizedDesign, collinearityError, type StandardizedDesign } from './standardized-design.ts'
+import { buildStandardizedDesign, collinearityError, type StandardizedDesign } from './build-standardized-design.ts'
 
 /**
  * L2-regularized logistic regression: minimizes

@@ -1,7 +1,7 @@
 import type { FeatureMatrix } from '../../data/dataset.ts'
 import { LinearModel } from './linear-model.ts'
 import { solvePositiveDefinite } from './solve-positive-definite.ts'
-import { buildStandardizedDesign, collinearityError } from './standardized-design.ts'
+import { buildStandardizedDesign, collinearityError } from './build-standardized-design.ts'
 
 /**
  * Ridge regression (Hoerl & Kennard 1970, Technometrics 12(1)): minimizes
