@@ -13,6 +13,7 @@
  */
 import { markdownTable } from 'markdown-table'
 
+import { sortFindings } from '../checks/verdict.ts'
 import { escapeMarkdownCell, escapeMarkdownText, markdownCodeBlock } from './escape.ts'
 import { formatCount } from './format-number.ts'
 import type { GateReport, Severity } from './report.ts'
@@ -22,7 +23,6 @@ import {
   limitItems,
   limitRows,
   noVerdictStatement,
-  sortFindings,
   tabulateReport,
   type FindingLines,
   type TextTable,

@@ -4,6 +4,7 @@
  * (an ESC in a feature name could otherwise drive the terminal) through escapePlainText. Widths
  * count code points, so wide (CJK) characters and combining marks can misalign a column.
  */
+import { sortFindings } from '../checks/verdict.ts'
 import { escapePlainText } from './escape.ts'
 import { formatCount } from './format-number.ts'
 import type { GateReport } from './report.ts'
@@ -13,7 +14,6 @@ import {
   limitItems,
   limitRows,
   noVerdictStatement,
-  sortFindings,
   tabulateReport,
   type TextTable,
 } from './tabulate-report.ts'

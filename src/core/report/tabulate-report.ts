@@ -3,6 +3,7 @@
  * markdown comment escapes every string and hands the tables to markdown-table, the terminal text
  * aligns them. Nothing here is escaped yet, and nothing is cut: `limitRows` and `limitItems` cut.
  */
+import { sortFindings } from '../checks/verdict.ts'
 import { formatCount, formatNumber, formatPercent, formatPValue } from './format-number.ts'
 import type {
   Evidence,
@@ -68,13 +69,6 @@ export const importanceNote =
   'those on both sides and above the floor on either.'
 
 export const agreementMissingNote = 'Rank agreement was not computed for this run.'
-
-const severityOrder: readonly Severity[] = ['block', 'warn', 'info']
-
-/** The findings sorted block, warn, info, keeping the report's order within a severity. */
-export function sortFindings(findings: readonly Finding[]): Finding[] {
-  return severityOrder.flatMap((severity) => findings.filter((finding) => finding.severity === severity))
-}
 
 function formatEvidenceValue(key: string, value: Evidence[string]): string {
   if (value === null) return 'n/a'
@@ -184,8 +178,9 @@ function tabulateAgreement(agreement: RankAgreement): { table: TextTable; note: 
     },
     note:
       `Ranks of the ${formatCount(agreement.featuresCompared)} features present on both sides and above ` +
-      'the floor on either side. The reseed null is the same statistic between pairs of base refits ' +
-      'that differ only in their seed; the threshold is a low percentile of it.',
+      'the floor on either side, averaged over pairs of one base and one head refit. The reseed null is ' +
+      'the same statistic between two refits of one side that differ only in their seed; the threshold ' +
+      'is a low percentile of it.',
   }
 }
 
