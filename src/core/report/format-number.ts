@@ -50,9 +50,13 @@ export function formatCount(count: number): string {
   return count < 0 ? `-${grouped}` : grouped
 }
 
-/** A share in [0, 1] as a percentage with one decimal: 0.8123 -> `81.2%`. `n/a` for NaN. */
+/**
+ * A share in [0, 1] as a percentage with one decimal: 0.8123 -> `81.2%`; a positive share that would
+ * round to zero is `<0.1%`, so it does not read as none. `n/a` for NaN.
+ */
 export function formatPercent(share: number): string {
   if (!Number.isFinite(share)) return formatNumber(share)
+  if (share > 0 && share < 0.0005) return '<0.1%'
   const percent = trimZeros((share * 100).toFixed(1))
   return `${percent === '-0' ? '0' : percent}%`
 }
