@@ -72,11 +72,21 @@ export function gateSettings(config: GateConfig) {
     // non-monotone leak.
     singleFeatureLearner: { ...learner, learner: 'gradient-boosting' as const },
     checks,
+    // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
+    // policy does not expose are marked fixed.
     evidence: {
-      leakage: { ...config.checks.leakage },
-      rankShift: { ...checks.rankShift, persistence: fixedSettings.persistence },
-      score: { ...config.checks.score },
-      holdoutRows: { ...config.checks.holdoutRows },
+      leakage: snakeKeys(config.checks.leakage),
+      rank_shift: {
+        ...snakeKeys(config.checks.rankShift),
+        'min_relative_change (fixed)': fixedSettings.minRelativeChange,
+        'rbo_persistence (fixed)': fixedSettings.persistence,
+      },
+      score: snakeKeys(config.checks.score),
+      holdout_rows: snakeKeys(config.checks.holdoutRows),
     },
   }
+}
+
+function snakeKeys(values: object): Record<string, number | string> {
+  return Object.fromEntries(Object.entries(values).map(([key, value]) => [key.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value]))
 }
