@@ -173,7 +173,12 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
 
   const details = [
     ...(tables.sides && tables.scores
-      ? [renderDetails('Models and holdout scores per refit', [renderTable(tables.sides), renderTable(limitRows(tables.scores, maxTableRows))])]
+      ? [
+          renderDetails('Models and holdout scores per refit', [
+            renderTable(tables.sides),
+            renderTable(limitRows(tables.scores, maxTableRows)),
+          ]),
+        ]
       : []),
     ...(tables.seeds ? [renderDetails('Refit seeds', [renderTable(limitRows(tables.seeds, maxTableRows))])] : []),
     renderDetails('Settings and check thresholds', [
@@ -193,14 +198,16 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     if (findingItems.length === 0) return '#### Findings\n\nNone.'
     const hidden = findingItems.length - shown
     const more = hidden > 0 ? [`- ${formatCount(hidden)} more findings are not shown here; see the note below.`] : []
-    return `#### Findings: ${countBySeverity(tables.findings)}\n\n${[...findingItems.slice(0, shown), ...more].join('\n')}`
+    const items = [...findingItems.slice(0, shown), ...more].join('\n')
+    return `#### Findings: ${countBySeverity(tables.findings)}\n\n${items}`
   }
 
   function renderFeatures(rows: number): string {
     const count = tables.features.rows.length
-    if (count === 0) return '#### Feature importance\n\nNo features were measured.'
-    if (rows === 0) return `#### Feature importance\n\nThe table of ${formatCount(count)} rows is left out; see the note below.`
-    return `#### Feature importance\n\n${escapeMarkdownText(importanceNote)}\n\n${renderTable(limitRows(tables.features, rows))}`
+    const heading = '#### Feature importance'
+    if (count === 0) return `${heading}\n\nNo features were measured.`
+    if (rows === 0) return `${heading}\n\nThe table of ${formatCount(count)} rows is left out; see the note below.`
+    return `${heading}\n\n${escapeMarkdownText(importanceNote)}\n\n${renderTable(limitRows(tables.features, rows))}`
   }
 
   function renderFeatureSet(maxItems: number): string {
@@ -209,27 +216,39 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     const line = (label: string, names: readonly string[]) => {
       if (names.length === 0) return []
       if (maxItems === 0) return [`- ${label}: ${formatCount(names.length)} (names left out)`]
-      return [`- ${label} (${formatCount(names.length)}): ${limitItems(names, maxItems).map(escapeMarkdownText).join(', ')}`]
+      const shown = limitItems(names, maxItems).map(escapeMarkdownText).join(', ')
+      return [`- ${label} (${formatCount(names.length)}): ${shown}`]
     }
-    return ['#### Feature set', '', ...line('Added', added), ...line('Removed', removed), ...line('Changed kind', kindChanged)].join('\n')
+    const lists = [...line('Added', added), ...line('Removed', removed), ...line('Changed kind', kindChanged)]
+    return ['#### Feature set', '', ...lists].join('\n')
   }
 
   function describeCuts(layout: Layout): string | null {
     const cuts: string[] = []
     const count = tables.features.rows.length
     if (layout.rows < maxTableRows && count > layout.rows) {
-      cuts.push(layout.rows === 0 ? `the feature table (${formatCount(count)} rows) is left out` : `the feature table shows ${layout.rows} of ${formatCount(count)} rows`)
+      cuts.push(
+        layout.rows === 0
+          ? `the feature table (${formatCount(count)} rows) is left out`
+          : `the feature table shows ${layout.rows} of ${formatCount(count)} rows`,
+      )
     }
     if (layout.rows < maxTableRows && longestList > layout.rows) {
-      cuts.push(layout.rows === 0 ? 'the feature-set lists give counts only' : `the feature-set lists show at most ${layout.rows} names each`)
+      cuts.push(
+        layout.rows === 0
+          ? 'the feature-set lists give counts only'
+          : `the feature-set lists show at most ${layout.rows} names each`,
+      )
     }
     if (!layout.details) cuts.push('the details (models, scores and seeds per refit, settings, timings) are left out')
     if (layout.findings < findingItems.length) {
       const hidden = tables.findings.slice(layout.findings)
-      cuts.push(`${formatCount(layout.findings)} of ${formatCount(findingItems.length)} findings are shown (not shown: ${countBySeverity(hidden)})`)
+      const shown = `${formatCount(layout.findings)} of ${formatCount(findingItems.length)} findings are shown`
+      cuts.push(`${shown} (not shown: ${countBySeverity(hidden)})`)
     }
     if (cuts.length === 0) return null
-    return escapeMarkdownText(`This comment was shortened to stay under ${formatCount(maxCharacters)} characters: ${cuts.join('; ')}. ${resolved.fullReportNote}`)
+    const limit = `This comment was shortened to stay under ${formatCount(maxCharacters)} characters`
+    return escapeMarkdownText(`${limit}: ${cuts.join('; ')}. ${resolved.fullReportNote}`)
   }
 
   function compose(layout: Layout): string {

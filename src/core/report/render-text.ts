@@ -146,7 +146,9 @@ export function renderText(report: GateReport, options: TextOptions = {}): strin
 
   const { added, removed, kindChanged, unchangedCount } = tables.featureSet
   const names = (label: string, list: readonly string[]) =>
-    list.length === 0 ? [] : wrap(`${label} (${formatCount(list.length)}): ${limitItems(list, maxTableRows).join(', ')}`, width, '  ')
+    list.length === 0
+      ? []
+      : wrap(`${label} (${formatCount(list.length)}): ${limitItems(list, maxTableRows).join(', ')}`, width, '  ')
   const featureSet = section(
     'Feature set',
     unchangedCount !== null
@@ -170,7 +172,10 @@ export function renderText(report: GateReport, options: TextOptions = {}): strin
       ...table(tables.settings),
       ...(tables.checks.rows.length > 0 ? ['', ...longTable(tables.checks)] : []),
     ]),
-    section('Timings (wall-clock seconds; they vary from run to run)', tables.timings.rows.length > 0 ? longTable(tables.timings) : ['  None recorded.']),
+    section(
+      'Timings (wall-clock seconds; they vary from run to run)',
+      tables.timings.rows.length > 0 ? longTable(tables.timings) : ['  None recorded.'],
+    ),
   ]
 
   return [

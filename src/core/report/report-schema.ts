@@ -228,8 +228,8 @@ const maxIssueLength = 300
  * to the workflow log. Cost: one pass over the value.
  */
 export function parseGateReport(json: unknown, source: string): GateReport {
-  const version =
-    typeof json === 'object' && json !== null && !Array.isArray(json) ? (json as { schemaVersion?: unknown }).schemaVersion : undefined
+  const isObject = typeof json === 'object' && json !== null && !Array.isArray(json)
+  const version = isObject ? (json as { schemaVersion?: unknown }).schemaVersion : undefined
   if (typeof version === 'number' && version !== 1) {
     throw new UserError(
       `${source}: this is a plumbline report of schema version ${version}, and this plumbline reads version 1 only.`,
