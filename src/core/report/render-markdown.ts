@@ -116,6 +116,14 @@ function checkOptions(options: MarkdownOptions): Required<MarkdownOptions> {
   return resolved
 }
 
+function memoize(render: (size: number) => string): (size: number) => string {
+  const rendered = new Map<number, string>()
+  return (size) => {
+    if (!rendered.has(size)) rendered.set(size, render(size))
+    return rendered.get(size)!
+  }
+}
+
 function fitOrThrow(markdown: string, maxCharacters: number): string {
   if (markdown.length > maxCharacters) {
     throw new RangeError(
@@ -251,27 +259,38 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     return escapeMarkdownText(`${limit}: ${cuts.join('; ')}. ${resolved.fullReportNote}`)
   }
 
-  function compose(layout: Layout): string {
+  // The layouts tried share most sections: render each variant once.
+  const findingsSection = memoize(renderFindings)
+  const featuresSection = memoize(renderFeatures)
+  const featureSetSection = memoize(renderFeatureSet)
+
+  /** The paragraphs of one layout; `join` makes the comment, `measure` its length without building it. */
+  function compose(layout: Layout): string[] {
     const cutNote = describeCuts(layout)
     return [
       resolved.marker,
       `### ${escapeMarkdownText(tables.heading)}`,
       escapeMarkdownText(report.headline),
-      renderFindings(layout.findings),
-      renderFeatures(layout.rows),
-      renderFeatureSet(layout.rows),
+      findingsSection(layout.findings),
+      featuresSection(layout.rows),
+      featureSetSection(layout.rows),
       agreement,
       ...(layout.details ? details : []),
       ...(cutNote === null ? [] : [cutNote]),
       escapeMarkdownText(report.caution),
-    ].join('\n\n') + '\n'
+    ]
+  }
+  const join = (paragraphs: readonly string[]) => `${paragraphs.join('\n\n')}\n`
+  const fits = (layout: Layout) => {
+    const paragraphs = compose(layout)
+    return paragraphs.reduce((sum, paragraph) => sum + paragraph.length + 2, -1) <= maxCharacters
   }
 
   const rowSteps = [...new Set([maxTableRows, 20, 10, 5, 0].filter((rows) => rows <= maxTableRows))]
   for (const keepDetails of [true, false]) {
     for (const rows of rowSteps) {
-      const markdown = compose({ rows, details: keepDetails, findings: findingItems.length })
-      if (markdown.length <= maxCharacters) return markdown
+      const layout = { rows, details: keepDetails, findings: findingItems.length }
+      if (fits(layout)) return join(compose(layout))
     }
   }
   // Findings must be cut too: as many as fit (binary search; the length grows with each one),
@@ -281,7 +300,7 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     let high = findingItems.length
     while (low < high) {
       const middle = Math.ceil((low + high) / 2)
-      if (compose({ rows, details: false, findings: middle }).length <= maxCharacters) low = middle
+      if (fits({ rows, details: false, findings: middle })) low = middle
       else high = middle - 1
     }
     return low
@@ -292,5 +311,5 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     besideShortTable > 0
       ? { rows: shortTable, details: false, findings: besideShortTable }
       : { rows: 0, details: false, findings: mostFindings(0) }
-  return fitOrThrow(compose(layout), maxCharacters)
+  return fitOrThrow(join(compose(layout)), maxCharacters)
 }
