@@ -13,6 +13,7 @@
 import { z } from 'zod'
 import type { ColumnRole, Task } from './data/dataset.ts'
 import type { MetricName } from './metrics/metric.ts'
+import type { BoostingSettings } from './models/gbt/fit-boosted.ts'
 import { formatKeyPath } from './policy/format-key-path.ts'
 
 // ---------------------------------------------------------------------------------------------
@@ -69,14 +70,7 @@ export interface PrepareConfig {
 }
 
 /** Settings of the built-in learners (policy `model.builtin`). For `linear` only `l2` (the ridge / logistic penalty) is used. */
-export interface BuiltinSettings {
-  readonly trees: number
-  readonly maxDepth: number
-  readonly learningRate: number
-  readonly minRowsPerLeaf: number
-  readonly l2: number
-  readonly rowSubsample: number
-  readonly columnSubsample: number
+export interface BuiltinSettings extends BoostingSettings {
   readonly maxBins: number
 }
 

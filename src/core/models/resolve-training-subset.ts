@@ -1,4 +1,4 @@
-import type { Task } from '../../data/dataset.ts'
+import type { Task } from '../data/dataset.ts'
 
 /** The training rows and columns of one fit, checked, with the target gathered in row order. */
 export interface TrainingSubset {

@@ -3,7 +3,7 @@ import { InternalError } from '../../errors.ts'
 import { createRandom, type Random } from '../../statistics/random.ts'
 import { MISSING_BIN, type BinnedFeatures } from './bin-features.ts'
 import { BoostedModel, type SplitStatistic } from './boosted-model.ts'
-import { resolveTrainingSubset } from './resolve-training-subset.ts'
+import { resolveTrainingSubset } from '../resolve-training-subset.ts'
 import type { Tree } from './tree.ts'
 
 /** How a boosted ensemble is grown. */

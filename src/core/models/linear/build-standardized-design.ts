@@ -1,6 +1,6 @@
 import type { FeatureMatrix, Task } from '../../data/dataset.ts'
 import { UserError } from '../../errors.ts'
-import { resolveTrainingSubset } from '../gbt/resolve-training-subset.ts'
+import { resolveTrainingSubset } from '../resolve-training-subset.ts'
 import type { LinearModelState, LinearTerm } from './linear-model.ts'
 
 /**
