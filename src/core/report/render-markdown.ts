@@ -16,7 +16,7 @@ import { markdownTable } from 'markdown-table'
 import { sortFindings } from '../checks/verdict.ts'
 import { escapeMarkdownCell, escapeMarkdownText, markdownCodeBlock } from './escape.ts'
 import { formatCount } from './format-number.ts'
-import type { GateReport, Severity } from './report.ts'
+import { reportCaution, type GateReport, type Severity } from './report.ts'
 import {
   agreementMissingNote,
   importanceNote,
@@ -155,7 +155,7 @@ function renderError(report: GateReport, options: Required<MarkdownOptions>): st
       ...(shortened
         ? [escapeMarkdownText(`The error message was shortened to fit this comment. ${options.fullReportNote}`)]
         : []),
-      escapeMarkdownText(report.caution),
+      escapeMarkdownText(reportCaution),
     ].join('\n\n') + '\n'
   }
   const full = compose(Infinity)
@@ -277,7 +277,7 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
       agreement,
       ...(layout.details ? details : []),
       ...(cutNote === null ? [] : [cutNote]),
-      escapeMarkdownText(report.caution),
+      escapeMarkdownText(reportCaution),
     ]
   }
   const join = (paragraphs: readonly string[]) => `${paragraphs.join('\n\n')}\n`

@@ -7,7 +7,7 @@
 import { sortFindings } from '../checks/verdict.ts'
 import { escapePlainText } from './escape.ts'
 import { formatCount } from './format-number.ts'
-import type { GateReport } from './report.ts'
+import { reportCaution, type GateReport } from './report.ts'
 import {
   agreementMissingNote,
   importanceNote,
@@ -103,7 +103,7 @@ function renderError(report: GateReport, width: number): string {
     wrap(report.headline, width, '').join('\n'),
     wrap(noVerdictStatement, width, '').join('\n'),
     ...(blocks.length > 0 ? blocks : ['The report holds no run-error finding to show.']),
-    wrap(report.caution, width, '').join('\n'),
+    wrap(reportCaution, width, '').join('\n'),
   ].join('\n\n')
 }
 
@@ -186,6 +186,6 @@ export function renderText(report: GateReport, options: TextOptions = {}): strin
     featureSet,
     agreement,
     ...details,
-    wrap(report.caution, width, '').join('\n'),
+    wrap(reportCaution, width, '').join('\n'),
   ].join('\n\n')
 }
