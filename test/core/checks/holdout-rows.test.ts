@@ -1,0 +1,52 @@
+import { describe, expect, it } from 'vitest'
+import { checkHoldoutRows, type HoldoutIdentity } from '../../../src/core/checks/holdout-rows.ts'
+
+const fixText = 'Score and importance differences between the sides would then mix the change with a different sample. ' +
+  'Keep the holdout fixed in the pull request (or split by an id column with data.split.by), then rerun.'
+
+function holdout(side: 'base' | 'head', target: number[], ids?: string[]): HoldoutIdentity {
+  return { source: `${side}:data/holdout.csv`, rows: target.length, target: Float64Array.from(target), ...(ids ? { ids, idName: 'parcel_id' } : {}) }
+}
+
+describe('checkHoldoutRows(base, head, action)', () => {
+  it('blocks when the row counts differ, in these words', () => {
+    const findings = checkHoldoutRows(holdout('base', [0, 1, 0, 1]), holdout('head', [0, 1, 0]), 'block')
+    expect(findings).toEqual([
+      {
+        kind: 'holdout-rows',
+        severity: 'block',
+        title: 'The two sides are not scored on the same holdout rows: 4 rows on the base side, 3 on the head.',
+        message: `The base holdout (base:data/holdout.csv) has 4 rows and the head holdout (head:data/holdout.csv) has 3. ${fixText}`,
+        evidence: { baseRows: 4, headRows: 3 },
+      },
+    ])
+  })
+
+  it('compares ids position by position and counts ids only the head has', () => {
+    const base = holdout('base', [0, 1, 0, 1, 1], ['P1', 'P2', 'P3', 'P4', 'P5'])
+    const head = holdout('head', [0, 1, 0, 1, 1], ['P1', 'P3', 'P2', 'P4', 'P9'])
+    const [finding] = checkHoldoutRows(base, head, 'block')
+    // By hand: rows 2, 3 and 5 differ by position; P9 is the one head id the base lacks.
+    expect(finding.title).toBe('The two sides are not scored on the same holdout rows: 3 of 5 ids differ by position (1 ids only on the head).')
+    expect(finding.message).toBe(
+      "Holdout row 2 has parcel_id 'P2' on the base side and 'P3' on the head; 3 of 5 rows differ by position and 1 head ids do not occur on the base side. " +
+        fixText,
+    )
+    expect(finding.evidence).toEqual({ baseRows: 5, headRows: 5, differingRows: 3, idsOnlyOnHead: 1, firstDifferingRow: 2 })
+  })
+
+  it('compares the target row by row when there is no id column, and says so', () => {
+    const [finding] = checkHoldoutRows(holdout('base', [0, 1, 0, 1]), holdout('head', [0, 1, 1, 1]), 'warn')
+    expect(finding.severity).toBe('warn')
+    expect(finding.title).toBe('The two sides are not scored on the same holdout rows: the target differs in 1 of 4 rows.')
+    expect(finding.message).toBe(`Without an id column only the target can be compared row by row; it differs in 1 of 4 rows (first at holdout row 3). ${fixText}`)
+    expect(finding.evidence).toEqual({ baseRows: 4, headRows: 4, differingRows: 1, firstDifferingRow: 3 })
+  })
+
+  it('finds nothing for the same rows (NaN targets equal to NaN), and nothing when the check is off', () => {
+    expect(checkHoldoutRows(holdout('base', [0.5, NaN, 2]), holdout('head', [0.5, NaN, 2]), 'block')).toEqual([])
+    const ids = ['P1', 'P2']
+    expect(checkHoldoutRows(holdout('base', [0, 1], ids), holdout('head', [0, 1], [...ids]), 'block')).toEqual([])
+    expect(checkHoldoutRows(holdout('base', [0, 1, 0]), holdout('head', [1]), 'off')).toEqual([])
+  })
+})

@@ -1,0 +1,102 @@
+import { describe, expect, it } from 'vitest'
+import { checkScoreRegression, type ScoreRegressionOptions } from '../../../src/core/checks/score-regression.ts'
+import { metricByName } from '../../../src/core/metrics/metric-by-name.ts'
+import { pairedBootstrap } from '../../../src/core/statistics/paired-bootstrap.ts'
+import { createRandom } from '../../../src/core/statistics/random.ts'
+
+// Policy defaults (src/core/config.ts defaultChecks.score) for an AUC policy.
+const auc: ScoreRegressionOptions = { action: 'block', metric: 'auc', higherIsBetter: true, tolerance: 0, alpha: 0.05 }
+const base = [0.8, 0.81, 0.79, 0.8, 0.8]
+const worse = [0.7, 0.71, 0.69, 0.7, 0.7]
+
+describe('checkScoreRegression(evidence, options)', () => {
+  it('blocks a worsening beyond tolerance that is significant over reseeded refits, in these words', () => {
+    const findings = checkScoreRegression({ baseScores: base, headScores: worse }, auc)
+    // By hand: both sides have s² = 0.0002 / 4 = 5e-5, so se = sqrt(2 · 5e-5 / 5) = 0.004472136 and
+    // Welch df = 8; one-sided p = P(T_8 > 0.1 / 0.004472136) = 8.462279632556085e-09
+    // (scipy.stats.t.sf, SciPy 1.10.1).
+    expect(findings).toHaveLength(1)
+    expect(findings[0]).toMatchObject({
+      kind: 'score-regression',
+      severity: 'block',
+      title: 'Holdout auc got worse: 0.8 → 0.7 (by 0.1, beyond noise).',
+      message:
+        "The candidate's mean holdout auc is 0.7 against 0.8 for the baseline (higher is better). The worsening of 0.1 exceeds the tolerance of 0 " +
+        'with one-sided p = 8.46e-9 (standard error 0.00447, Welch df 8 over reseeded refits; level 0.05).',
+      evidence: { tolerance: 0, alpha: 0.05 },
+    })
+    const e = findings[0].evidence as Record<string, number>
+    expect(e.worsening).toBeCloseTo(0.1, 12)
+    expect(e.standardError).toBeCloseTo(0.004472135954999583, 12)
+    expect(e.welchDf).toBeCloseTo(8, 9)
+    expect(e.pValue / 8.462279632556085e-9).toBeCloseTo(1, 4)
+  })
+
+  it('finds nothing for a change within reseed noise, an improvement, or a worsening inside the tolerance', () => {
+    // By hand: a 0.0067 drop against refit SDs of 0.02 and 0.0125: t = 0.48, far from significant.
+    expect(checkScoreRegression({ baseScores: [0.8, 0.82, 0.78], headScores: [0.795, 0.815, 0.79] }, auc)).toEqual([])
+    expect(checkScoreRegression({ baseScores: worse, headScores: base }, auc)).toEqual([])
+    // A worsening of 0.1 with tolerance 0.2 does not count at all.
+    expect(checkScoreRegression({ baseScores: base, headScores: worse }, { ...auc, tolerance: 0.2 })).toEqual([])
+    // Tolerance 0.09: 0.01 beyond it, se 0.00447, t = 2.24 with 8 df: p = 0.028 < 0.05, still blocked.
+    expect(checkScoreRegression({ baseScores: base, headScores: worse }, { ...auc, tolerance: 0.09 })).toHaveLength(1)
+    expect(checkScoreRegression({ baseScores: base, headScores: worse }, { ...auc, action: 'off' })).toEqual([])
+  })
+
+  it('reads a rise as worse for a lower-is-better metric and uses the policy action', () => {
+    const [finding] = checkScoreRegression(
+      { baseScores: [0.4, 0.41, 0.39], headScores: [0.5, 0.51, 0.49] },
+      { ...auc, metric: 'log-loss', higherIsBetter: false, action: 'warn' },
+    )
+    expect(finding.severity).toBe('warn')
+    expect(finding.title).toBe('Holdout log-loss got worse: 0.4 → 0.5 (by 0.1, beyond noise).')
+    expect(finding.message).toContain('(lower is better)')
+  })
+
+  it('uses the paired bootstrap standard error and a normal tail with one refit per side', () => {
+    // Replicates with mean −0.05 and SD 0.01 exactly: z = 0.05 / 0.01 = 5, one-sided p =
+    // 2.866515718791933e-07 (scipy.stats.norm.sf(5), SciPy 1.10.1).
+    const replicates = [-0.05, -0.04, -0.06, -0.05, -0.05, -0.05]
+    const sd = Math.sqrt(replicates.reduce((s, v) => s + (v + 0.05) ** 2, 0) / (replicates.length - 1))
+    const scaled = replicates.map((v) => -0.05 + ((v + 0.05) * 0.01) / sd)
+    const [finding] = checkScoreRegression({ baseScores: [0.8], headScores: [0.75], pairedBootstrap: scaled }, auc)
+    expect(finding.message).toBe(
+      "The candidate's mean holdout auc is 0.75 against 0.8 for the baseline (higher is better). The worsening of 0.05 exceeds the tolerance of 0 " +
+        'with one-sided p = 2.87e-7 (standard error 0.01, from a paired bootstrap of holdout rows; level 0.05).',
+    )
+    expect(finding.evidence.welchDf).toBeNull()
+    expect((finding.evidence.pValue as number) / 2.866515718791933e-7).toBeCloseTo(1, 4)
+  })
+
+  it('judges pairedBootstrap replicates of real predictions: identical or slightly jittered predictions are noise, a broken head blocks', () => {
+    const random = createRandom(3)
+    const n = 200
+    const clip = (v: number) => Math.min(0.99, Math.max(0.01, v))
+    const y = Float64Array.from({ length: n }, (_, i) => i % 2)
+    const p = Float64Array.from({ length: n }, (_, i) => clip(0.5 + (y[i] ? 0.1 : -0.1) + 0.25 * random.normal()))
+    const metric = metricByName('auc', 'binary')
+    const judge = (head: Float64Array) =>
+      checkScoreRegression(
+        { baseScores: [metric.compute(y, p)], headScores: [metric.compute(y, head)], pairedBootstrap: pairedBootstrap(y, p, head, { metric, replicates: 200, seed: 7 }) },
+        auc,
+      )
+    // The same predictions: every replicate is exactly 0, so nothing can be worse.
+    expect(pairedBootstrap(y, p, p, { metric, replicates: 50, seed: 7 }).every((v) => v === 0)).toBe(true)
+    expect(judge(p)).toEqual([])
+    // A little jitter: the head's AUC is lower (0.69355 against 0.6941) but the paired bootstrap SE is
+    // about 0.008, so z is under 0.1: noise.
+    const jittered = p.map((v) => clip(v + 0.05 * random.normal()))
+    expect(metric.compute(y, jittered)).toBeLessThan(metric.compute(y, p))
+    expect(judge(jittered)).toEqual([])
+    // Scores reversed on the first 80 rows: AUC falls by far more than the row-sampling spread.
+    const broken = p.map((v, i) => (i < 80 ? 1 - v : v))
+    expect(judge(broken).map((f) => f.kind)).toEqual(['score-regression'])
+  })
+
+  it('decides by the sign alone when there is no spread at all', () => {
+    // Zero SD on both sides: the Welch standard error is 0, so any worsening beyond tolerance is exact (p = 0).
+    const [finding] = checkScoreRegression({ baseScores: [0.8, 0.8], headScores: [0.7, 0.7] }, auc)
+    expect(finding.evidence.pValue).toBe(0)
+    expect(checkScoreRegression({ baseScores: [0.8], headScores: [0.8] }, auc)).toEqual([])
+  })
+})
