@@ -10,10 +10,10 @@ import { checkScoreRegression } from './checks/score-regression.ts'
 import { rankFeatures, type SideResult } from './checks/side-result.ts'
 import { decideVerdict, sortFindings, writeHeadline } from './checks/verdict.ts'
 import type { GateConfig } from './config.ts'
-import type { Dataset, FeatureMatrix } from './data/dataset.ts'
-import { measureSide, type SideMeasurement } from './measure-side.ts'
+import type { Dataset, FeatureMatrix, Task } from './data/dataset.ts'
+import { measureSide, type MeasureSideInputs, type MeasureSideOptions, type SideMeasurement } from './measure-side.ts'
 import { metricByName } from './metrics/metric-by-name.ts'
-import { createBuiltinFit } from './models/builtin-fit.ts'
+import { createBuiltinFit, type BuiltinLearnerSettings } from './models/builtin-fit.ts'
 import type { Fit, Model } from './models/model.ts'
 import { describeSides, featureRows, featureSetFindings, changedFeatures, diffFeatureSets } from './assemble-report.ts'
 import { pairedBootstrap } from './statistics/paired-bootstrap.ts'
@@ -30,7 +30,24 @@ export interface SideInputs {
   /** Exactly one of fit (refits) and model (a loaded model, one "refit"). */
   readonly fit?: Fit
   readonly model?: Model
+  /** With `fit`, when it is the built-in learner: what rebuilds it elsewhere (a worker thread). */
+  readonly builtin?: { readonly task: Task; readonly settings: BuiltinLearnerSettings }
 }
+
+/** One side's measurement request, as measureSide takes it. */
+export interface MeasureJob {
+  readonly inputs: MeasureSideInputs
+  readonly options: MeasureSideOptions
+  readonly builtin?: { readonly task: Task; readonly settings: BuiltinLearnerSettings }
+}
+
+/** Measures both sides; the default does one after the other in this thread. */
+export type MeasureSides = (jobs: readonly [MeasureJob, MeasureJob]) => Promise<readonly [SideMeasurement, SideMeasurement]>
+
+const measureInTurn: MeasureSides = async ([base, head]) => [
+  await measureSide(base.inputs, base.options),
+  await measureSide(head.inputs, head.options),
+]
 
 export type GateProgress =
   | { readonly stage: 'refit'; readonly side: 'base' | 'head'; readonly refit: number; readonly of: number }
@@ -46,6 +63,8 @@ export interface GateInputs {
   readonly head: SideInputs
   readonly toolVersion: string
   readonly onProgress?: (event: GateProgress) => void
+  /** How the two sides are measured (the CLI runs them in two worker threads); default: in turn, here. */
+  readonly measureSides?: MeasureSides
   /** Seconds on some monotonic clock, for timings only; omitted, timings are empty. */
   readonly now?: () => number
 }
@@ -63,25 +82,24 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     return value
   }
 
-  const measure = (side: 'base' | 'head', data: SideInputs): Promise<SideMeasurement> =>
-    timed(`${side}Seconds`, () =>
-      measureSide(
-        { side, train: data.train, holdout: data.holdout, reference: data.reference, fit: data.fit, model: data.model },
-        {
-          task,
-          metric,
-          seed: settings.seed,
-          refits: settings.refits,
-          draws: settings.draws,
-          groups: settings.groups,
-          evaluationRows: settings.evaluationRows,
-          referenceRows: settings.referenceRows,
-          onRefit: (refit, of) => inputs.onProgress?.({ stage: 'refit', side, refit, of }),
-        },
-      ),
-    )
-  const base = await measure('base', inputs.base)
-  const head = await measure('head', inputs.head)
+  const job = (side: 'base' | 'head', data: SideInputs): MeasureJob => ({
+    inputs: { side, train: data.train, holdout: data.holdout, reference: data.reference, fit: data.fit, model: data.model },
+    options: {
+      task,
+      metric,
+      seed: settings.seed,
+      refits: settings.refits,
+      draws: settings.draws,
+      groups: settings.groups,
+      evaluationRows: settings.evaluationRows,
+      referenceRows: settings.referenceRows,
+      onRefit: (refit, of) => inputs.onProgress?.({ stage: 'refit', side, refit, of }),
+    },
+    ...(data.builtin ? { builtin: data.builtin } : {}),
+  })
+  const [base, head] = await timed('measureSeconds', () =>
+    (inputs.measureSides ?? measureInTurn)([job('base', inputs.base), job('head', inputs.head)]),
+  )
 
   const featureSet = diffFeatureSets(inputs.base.train, inputs.head.train)
   const added = new Set(featureSet.added)

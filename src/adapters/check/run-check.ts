@@ -15,6 +15,7 @@ import { addWorktree, defaultBase, readFileAtCommit, repositoryRoot, resolveComm
 import { runPrepare } from './run-prepare.ts'
 import { loadSideModel } from './load-side-model.ts'
 import { toolVersion } from '../version.ts'
+import { createParallelMeasure } from '../parallel/measure-in-worker.ts'
 
 export interface CheckRequest {
   /** Where the user ran plumbline; the repository is found from here. */
@@ -72,6 +73,7 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
       head: headSide,
       toolVersion,
       onProgress: request.onProgress,
+      measureSides: createParallelMeasure(process.env),
       now: () => performance.now() / 1000,
     })
   } finally {
@@ -130,7 +132,8 @@ async function loadSide(
   }
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
   if (config.model.kind === 'builtin') {
-    return { ref, commit, train, holdout, reference, fit: createBuiltinFit(train, config.task, builtinLearnerSettings(config)) }
+    const settings = builtinLearnerSettings(config)
+    return { ref, commit, train, holdout, reference, fit: createBuiltinFit(train, config.task, settings), builtin: { task: config.task, settings } }
   }
   const loaded = await loadSideModel(config, { checkout, side, train, holdout, log })
   return { ref, commit, train, holdout, reference, ...loaded }
