@@ -10,7 +10,7 @@ import type { Model } from '../../../src/core/models/model.ts'
 import { createRandom } from '../../../src/core/statistics/random.ts'
 import { enumeratePermutationDraws, meanAndVariance, meanSquaredError } from './enumerate-permutation-draws.ts'
 
-type Evaluation = FeatureMatrix & { readonly target: { readonly values: Float64Array } }
+type Evaluation = FeatureMatrix & { readonly target: { readonly name: string; readonly values: Float64Array } }
 
 function evaluationOf(columns: Record<string, ArrayLike<number>>, y: ArrayLike<number>): Evaluation {
   const names = Object.keys(columns)
@@ -18,7 +18,7 @@ function evaluationOf(columns: Record<string, ArrayLike<number>>, y: ArrayLike<n
     rows: y.length,
     features: names.map((name) => ({ name, kind: 'numeric' as const })),
     columns: names.map((name) => Float64Array.from(columns[name])),
-    target: { values: Float64Array.from(y) },
+    target: { name: 'y', values: Float64Array.from(y) },
   }
 }
 
