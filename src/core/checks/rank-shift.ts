@@ -24,7 +24,8 @@ export type Shift = NonNullable<FeatureRow['shift']>
  * For each feature (and group) on both sides, Welch's t-test compares the per-refit importances of
  * the base refits with those of the head refits (with one refit per side, a loaded model, the
  * per-draw values of that refit: draw noise only). The p-values are adjusted by Benjamini–Hochberg
- * (1995) over all units tested. A shift is reported when it is significant at the policy's false
+ * (1995) over all units tested; a unit with a single value on a side (one refit of one draw) cannot
+ * be tested and gets NaN t, df and p, never a finding. A shift is reported when it is significant at the policy's false
  * discovery rate, the feature is above the noise floor on at least one side, and it either moves at
  * least `minPositions` ranks among such features or changes by at least `minRelativeChange` of the
  * larger mean (so a top feature that halves but stays first is still seen). Ranks among features
@@ -44,8 +45,15 @@ export function checkRankShift(
     if (b && b.isGroup === h.isGroup) pairs.push({ name: h.name, isGroup: h.isGroup, b, h, bi: base.importances.indexOf(b), hi })
   })
 
-  const tests = pairs.map((p) => welchTTest(samples(base, p.bi), samples(head, p.hi)))
-  const adjusted = benjaminiHochberg(tests.map((t) => t.pValue))
+  // One refit with one draw (refits: 1, draws: 1, or a loaded model with draws: 1) leaves a single
+  // value per side: no test is possible, so t, df and p are NaN and the unit is not significant.
+  const isTestable = pairs.map((p) => samples(base, p.bi).length >= 2 && samples(head, p.hi).length >= 2)
+  const tests = pairs.map((p, index) =>
+    isTestable[index] ? welchTTest(samples(base, p.bi), samples(head, p.hi)) : { t: NaN, df: NaN, pValue: NaN },
+  )
+  const adjustedTestable = benjaminiHochberg(tests.filter((_, index) => isTestable[index]).map((t) => t.pValue))
+  let nextAdjusted = 0
+  const adjusted = isTestable.map((testable) => (testable ? adjustedTestable[nextAdjusted++] : NaN))
 
   const compared = pairs.filter((p) => !p.isGroup && (p.b.isAboveFloor || p.h.isAboveFloor))
   const baseRank = rankWithin(compared.map((p) => p.b))

@@ -176,6 +176,17 @@ describe('plumbline check on pull requests the gate must see', () => {
     expect(result.code).toBe(1)
   })
 
+  it('runs with refits: 1 and draws: 1, where no rank test is possible, and passes a no-op change', async () => {
+    // This ended as an internal error (exit 3) before checkRankShift skipped untestable units.
+    const policy = smallPolicy().replace('draws: 3\n  refits: 3', 'draws: 1\n  refits: 1')
+    const repo = repository({ base: baseFiles({ policy }) })
+    const result = await run(['check', '--base', 'main', '--head', 'pr', '--json', 'report.json'], repo.root)
+    expect(result.code).toBe(0)
+    const report = readReport(repo, 'report.json')
+    expect(report.verdict).toBe('pass')
+    expect(report.features[0].shift).toMatchObject({ welchT: NaN, pValue: NaN, isSignificant: false })
+  })
+
   it('blocks when the pull request changes the holdout rows (exit 1)', async () => {
     const replaced = [...holdout.slice(0, 280), ...makeParcels(20, 99, 900000)]
     const repo = repository({ base: baseFiles(), head: { 'data/holdout.csv': parcelsCsv(replaced) } })

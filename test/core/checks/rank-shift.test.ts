@@ -113,4 +113,21 @@ describe('checkRankShift(base, head, options)', () => {
     expect(shifts.get('stop_count')!.welchT).toBeCloseTo(-10 / Math.sqrt(0.1 / 3), 9)
     expect(findings[0].message.startsWith("Across 3 base and 3 head refits, Welch's t = -54.8")).toBe(true)
   })
+
+  it('leaves a unit untested, not an error, when a side has a single value (one refit of one draw)', () => {
+    // Bug fixed with this test: welchTTest threw a RangeError here, so a policy with refits: 1 and
+    // draws: 1 ended the whole check as an internal error (exit 3).
+    const base = sideResult({ side: 'base', features: { distance_km: [[10]], stop_count: [[5]] } })
+    const head = sideResult({ features: { distance_km: [[10]], stop_count: [[15]] } })
+    const { findings, shifts } = checkRankShift(base, head, options)
+    expect(shifts.get('stop_count')).toMatchObject({ welchT: NaN, welchDf: NaN, pValue: NaN, adjustedPValue: NaN, isSignificant: false })
+    expect(findings.filter((f) => f.kind === 'rank-shift')).toEqual([])
+    // Testable units are still adjusted among themselves only: here the one testable unit keeps its p.
+    const mixed = checkRankShift(
+      sideResult({ side: 'base', features: { distance_km: [[10, 10.2, 9.8]], stop_count: [[5]] } }),
+      sideResult({ features: { distance_km: [[12, 12.2, 11.8]], stop_count: [[15]] } }),
+      options,
+    )
+    expect(mixed.shifts.get('distance_km')!.adjustedPValue).toBe(mixed.shifts.get('distance_km')!.pValue)
+  })
 })
