@@ -74,7 +74,12 @@ export async function defaultBase(root: string): Promise<{ ref: string; commit: 
 export async function addWorktree(root: string, commit: string): Promise<{ path: string; remove: () => Promise<void> }> {
   const parent = await mkdtemp(join(tmpdir(), 'plumbline-side-'))
   const path = join(parent, 'tree')
-  await git(root, ['worktree', 'add', '--detach', '--quiet', path, commit], `check out ${commit.slice(0, 12)} into a worktree`)
+  await git(root, ['worktree', 'add', '--detach', '--quiet', path, commit], `check out ${commit.slice(0, 12)} into a worktree`).catch(
+    async (error: unknown) => {
+      await rm(parent, { recursive: true, force: true })
+      throw error
+    },
+  )
   return {
     path,
     remove: async () => {

@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process'
-import { existsSync, mkdtempSync, readFileSync, realpathSync, rmSync } from 'node:fs'
+import { existsSync, mkdtempSync, readdirSync, readFileSync, realpathSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { dirname, join } from 'node:path'
 import { afterAll, describe, expect, it } from 'vitest'
@@ -65,6 +65,23 @@ describe('addWorktree(root, commit)', () => {
     expect(repo.git('worktree', 'list', '--porcelain').split('\n').filter((l) => l.startsWith('worktree '))).toEqual([`worktree ${repo.root}`])
     // A second remove (a cleanup that runs twice) is harmless.
     await expect(tree.remove()).resolves.toBeUndefined()
+  })
+
+  it('leaves no temporary folder behind when git cannot check the commit out', async () => {
+    // Bug fixed with this test: the folder made for the worktree stayed when `git worktree add` failed.
+    // A private TMPDIR (os.tmpdir() reads it on every call), since other test files make such folders too.
+    const privateTmp = mkdtempSync(join(outside, 'tmp-'))
+    const saved = process.env.TMPDIR
+    process.env.TMPDIR = privateTmp
+    try {
+      const error = await addWorktree(repo.root, '0'.repeat(40)).catch((e: unknown) => e)
+      expect(error).toBeInstanceOf(UserError)
+      expect((error as UserError).message.startsWith('git could not check out 000000000000 into a worktree: ')).toBe(true)
+      expect(readdirSync(privateTmp)).toEqual([])
+    } finally {
+      if (saved === undefined) delete process.env.TMPDIR
+      else process.env.TMPDIR = saved
+    }
   })
 })
 
