@@ -43,11 +43,13 @@ function withGaps(text: string): string {
 }
 
 describe.skipIf(pythonMissing !== undefined)('onnx_export.py models loaded with loadOnnxModel (courier demo data)', () => {
-  const directory = mkdtempSync(join(tmpdir(), 'plumbline-onnx-export-'))
-  const data = join(directory, 'data')
+  let directory = ''
+  let data = ''
   let train: Dataset
 
   beforeAll(async () => {
+    directory = mkdtempSync(join(tmpdir(), 'plumbline-onnx-export-'))
+    data = join(directory, 'data')
     writeCourierData(directory)
     writeFileSync(join(data, 'holdout-gaps.csv'), withGaps(readFileSync(join(data, 'holdout.csv'), 'utf8')))
     train = await readDataset(join(data, 'train.csv'), courier)
@@ -62,7 +64,9 @@ describe.skipIf(pythonMissing !== undefined)('onnx_export.py models loaded with 
       },
     })))
   })
-  afterAll(() => rmSync(directory, { recursive: true, force: true }))
+  afterAll(() => {
+    if (directory) rmSync(directory, { recursive: true, force: true })
+  })
 
   async function largestDifference(run: (typeof runs)[number]) {
     const holdout = await readDataset(join(data, run.holdout), { ...courier, schema: schemaOf(train) })

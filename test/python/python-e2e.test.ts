@@ -9,7 +9,7 @@
  */
 import { readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
-import { afterAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { main } from '../../src/adapters/cli/main.ts'
 import { buildDemoRepository } from '../../scripts/demo.ts'
 import { pythonMissing, reportSkip } from './python-tools.ts'
@@ -24,7 +24,10 @@ interface Report {
 }
 
 describe.skipIf(pythonMissing !== undefined)('plumbline check --policy python/plumbline.yml (training command python/train.py)', () => {
-  const repository = pythonMissing === undefined ? buildDemoRepository() : ''
+  let repository = ''
+  beforeAll(() => {
+    repository = buildDemoRepository()
+  })
   afterAll(() => {
     if (repository) rmSync(repository, { recursive: true, force: true })
   })

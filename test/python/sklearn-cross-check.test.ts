@@ -67,12 +67,13 @@ function readDiabetes(features: readonly string[]): FeatureMatrix & { target: { 
 describe.skipIf(pythonMissing !== undefined)(
   'permutationImportance of the exported model vs sklearn.inspection.permutation_importance (scikit-learn 1.2.1, diabetes data)',
   () => {
-    const directory = mkdtempSync(join(tmpdir(), 'plumbline-cross-check-'))
+    let directory = ''
     let sklearn: SklearnSide
     let model: Model
     let holdout: ReturnType<typeof readDiabetes>
 
     beforeAll(async () => {
+      directory = mkdtempSync(join(tmpdir(), 'plumbline-cross-check-'))
       const script = join(dirname(fileURLToPath(import.meta.url)), 'diabetes-permutation-importance.py')
       await runPython([script, directory], { cwd: directory })
       sklearn = JSON.parse(readFileSync(join(directory, 'sklearn.json'), 'utf8')) as SklearnSide
@@ -84,7 +85,9 @@ describe.skipIf(pythonMissing !== undefined)(
         features: all.features,
       })
     })
-    afterAll(() => rmSync(directory, { recursive: true, force: true }))
+    afterAll(() => {
+      if (directory) rmSync(directory, { recursive: true, force: true })
+    })
 
     it('reads the same 442 rows and scores the holdout as scikit-learn does', async () => {
       expect(sklearn.rows).toBe(442)
