@@ -43,6 +43,11 @@ export const inputDefaults = {
 
 const fixLine = (name: string) => `Fix '${name}:' in the workflow step, or delete the line to use the default from action.yml.`
 
+/** The token alone, so that it can be masked before anything else is read or logged. */
+export function readToken(getInput: GetInput): string {
+  return getInput('token').trim()
+}
+
 export function readInputs(getInput: GetInput): ActionInputs {
   const mode = readChoice(getInput, 'mode', ['check', 'publish'] as const)
   const reportPath = readOptional(getInput, 'report')
@@ -54,7 +59,7 @@ export function readInputs(getInput: GetInput): ActionInputs {
   }
   return {
     policyPath: readPath(getInput, 'policy'),
-    token: getInput('token').trim(),
+    token: readToken(getInput),
     baseRef: readRef(getInput, 'base'),
     headRef: readRef(getInput, 'head'),
     isCommentWanted: readBoolean(getInput, 'comment'),

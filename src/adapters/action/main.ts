@@ -23,7 +23,7 @@ import { findPullRequest } from '../github/find-pull-request.ts'
 import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
 import { parsePullRequestEvent, type EventInfo } from '../github/pull-request.ts'
 import { toolVersion } from '../version.ts'
-import { isFailingVerdict, readInputs, type ActionInputs } from './inputs.ts'
+import { isFailingVerdict, readInputs, readToken, type ActionInputs } from './inputs.ts'
 
 /** The part of @actions/core the action uses. */
 export interface ActionCore {
@@ -58,8 +58,11 @@ const maxReportBytes = 64 * 1024 * 1024
 
 export async function run(deps: ActionDependencies): Promise<void> {
   const { core, env } = deps
-  const inputs = readInputs((name) => core.getInput(name))
-  if (inputs.token !== '') core.setSecret(inputs.token)
+  const getInput = (name: string) => core.getInput(name)
+  // Masked first: a message about another input must not be able to show it.
+  const token = readToken(getInput)
+  if (token !== '') core.setSecret(token)
+  const inputs = readInputs(getInput)
 
   const workspace = env.GITHUB_WORKSPACE || deps.cwd
   const repository = readRepository(env)

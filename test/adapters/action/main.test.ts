@@ -45,6 +45,8 @@ interface Recorded {
 
 let folder: string
 let fake: FakeGitHub
+/** What the last runAction masked, kept when run(deps) throws. */
+let maskedBeforeFailure: string[] = []
 beforeEach(async () => {
   folder = mkdtempSync(join(tmpdir(), 'plumbline-action-'))
   mkdirSync(join(folder, 'workspace'))
@@ -69,6 +71,7 @@ async function runAction(options: {
   env?: Record<string, string>
 }): Promise<Recorded> {
   const recorded: Recorded = { lines: [], warnings: [], failures: [], secrets: [], outputs: {}, summary: [], checks: [], fetches: [] }
+  maskedBeforeFailure = recorded.secrets
   const eventPath = join(folder, 'event.json')
   writeFileSync(eventPath, JSON.stringify(options.event))
   const inputs: Record<string, string> = {}
@@ -248,6 +251,15 @@ describe('run(deps) in check mode', () => {
     await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { report: 'out/plumbline-report.json' }, check: async () => courierReport() })
     const copy = join(folder, 'workspace', 'out', 'plumbline-report.json')
     expect(readFileSync(copy, 'utf8')).toBe(readFileSync(join(folder, 'runner-temp', 'plumbline', 'report.json'), 'utf8'))
+  })
+})
+
+describe('run(deps) with a bad input', () => {
+  it('masks the token before it reads, and refuses, the other inputs', async () => {
+    const error = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { 'fail-on': 'sometimes' } }).catch((e) => e)
+    expect(error).toBeInstanceOf(UserError)
+    expect(error.message).toBe("Input 'fail-on' must be one of block, warn, never; got 'sometimes'.")
+    expect(maskedBeforeFailure).toEqual([token])
   })
 })
 
