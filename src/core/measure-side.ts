@@ -102,7 +102,7 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
     referenceRows: reference.rows,
     model: modelInfo,
     firstPredictions,
-    noiseCovers: inputs.model ? 'draws-only' : 'refits-and-draws',
+    noiseCovers: refits < 2 ? 'draws-only' : 'refits-and-draws',
   }
 }
 

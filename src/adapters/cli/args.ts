@@ -64,6 +64,11 @@ export function parseCommand(argv: readonly string[]): Command {
       help: { type: 'boolean', short: 'h' },
     })
     if (values.help) return { name: 'help', text: usage.check }
+    for (const flag of ['policy', 'base', 'head', 'json', 'markdown'] as const) {
+      if (values[flag] === '') {
+        throw new UserError(`--${flag} needs a value, got an empty string.`, `Leave --${flag} out to use its default, or give it a value.`)
+      }
+    }
     return {
       name: 'check',
       policy: values.policy as string | undefined,

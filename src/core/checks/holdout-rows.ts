@@ -55,10 +55,10 @@ function describeDifference(
     const baseSet = new Set(base.ids)
     const onlyHead = head.ids.filter((id) => !baseSet.has(id)).length
     return {
-      short: `${differing} of ${base.rows} ids differ by position (${onlyHead} ids only on the head)`,
+      short: `${differing} of ${base.rows} ids differ by position (${onlyHead} ${onlyHead === 1 ? 'id' : 'ids'} only on the head)`,
       long:
         `Holdout row ${first + 1} has ${base.idName ?? 'id'} '${base.ids[first]}' on the base side and '${head.ids[first]}' on the head; ` +
-        `${differing} of ${base.rows} rows differ by position and ${onlyHead} head ids do not occur on the base side.`,
+        `${differing} of ${base.rows} rows differ by position and ${onlyHead} head ${onlyHead === 1 ? 'id does' : 'ids do'} not occur on the base side.`,
       evidence: { differingRows: differing, idsOnlyOnHead: onlyHead, firstDifferingRow: first + 1 },
     }
   }

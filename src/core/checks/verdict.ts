@@ -25,9 +25,12 @@ export function writeHeadline(verdict: Exclude<Verdict, 'error'>, findings: read
   const sorted = sortFindings(findings)
   const deciding = sorted.filter((f) => f.severity === verdict)
   const more = deciding.length > 1 ? ` (and ${deciding.length - 1} more ${verdict === 'block' ? 'blocking' : 'warning'} finding${deciding.length > 2 ? 's' : ''})` : ''
-  if (verdict === 'block') return `Blocked: ${lowerFirst(deciding[0].title)}${more}`
-  if (verdict === 'warn') return `Passed with warnings: ${lowerFirst(deciding[0].title)}${more}`
-  return 'Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.'
+  if (verdict === 'pass') {
+    return 'Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.'
+  }
+  const title = lowerFirst(deciding[0].title)
+  const reason = more ? `${title.replace(/\.$/, '')}${more}.` : title
+  return verdict === 'block' ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`
 }
 
 function lowerFirst(text: string): string {

@@ -27,9 +27,9 @@ describe('checkHoldoutRows(base, head, action)', () => {
     const head = holdout('head', [0, 1, 0, 1, 1], ['P1', 'P3', 'P2', 'P4', 'P9'])
     const [finding] = checkHoldoutRows(base, head, 'block')
     // By hand: rows 2, 3 and 5 differ by position; P9 is the one head id the base lacks.
-    expect(finding.title).toBe('The two sides are not scored on the same holdout rows: 3 of 5 ids differ by position (1 ids only on the head).')
+    expect(finding.title).toBe('The two sides are not scored on the same holdout rows: 3 of 5 ids differ by position (1 id only on the head).')
     expect(finding.message).toBe(
-      "Holdout row 2 has parcel_id 'P2' on the base side and 'P3' on the head; 3 of 5 rows differ by position and 1 head ids do not occur on the base side. " +
+      "Holdout row 2 has parcel_id 'P2' on the base side and 'P3' on the head; 3 of 5 rows differ by position and 1 head id does not occur on the base side. " +
         fixText,
     )
     expect(finding.evidence).toEqual({ baseRows: 5, headRows: 5, differingRows: 3, idsOnlyOnHead: 1, firstDifferingRow: 2 })

@@ -32,10 +32,10 @@ describe('decideVerdict(findings) and writeHeadline(verdict, findings)', () => {
     const shift = finding('warn', "Distance_km's importance fell from 10 to 5 (50%) and kept its rank.")
     expect(writeHeadline('block', [shift, leak])).toBe('Blocked: scan_delay_h alone separates the holdout (AUC 1); it is new in this pull request.')
     expect(writeHeadline('block', [shift, score, leak])).toBe(
-      'Blocked: holdout auc got worse: 0.8 → 0.7 (by 0.1, beyond noise). (and 1 more blocking finding)',
+      'Blocked: holdout auc got worse: 0.8 → 0.7 (by 0.1, beyond noise) (and 1 more blocking finding).',
     )
     expect(writeHeadline('block', [rows, score, leak])).toBe(
-      'Blocked: the two sides are not scored on the same holdout rows: 4 rows on the base side, 3 on the head. (and 2 more blocking findings)',
+      'Blocked: the two sides are not scored on the same holdout rows: 4 rows on the base side, 3 on the head (and 2 more blocking findings).',
     )
     // Feature names keep their case.
     expect(writeHeadline('warn', [shift, finding('info', 'x')])).toBe("Passed with warnings: Distance_km's importance fell from 10 to 5 (50%) and kept its rank.")
