@@ -40,7 +40,7 @@ describe('decideVerdict(findings) and writeHeadline(verdict, findings)', () => {
     // Feature names keep their case.
     expect(writeHeadline('warn', [shift, finding('info', 'x')])).toBe("Passed with warnings: Distance_km's importance fell from 10 to 5 (50%) and kept its rank.")
     expect(writeHeadline('warn', [shift, shift])).toBe(
-      "Passed with warnings: Distance_km's importance fell from 10 to 5 (50%) and kept its rank. (and 1 more warning finding)",
+      "Passed with warnings: Distance_km's importance fell from 10 to 5 (50%) and kept its rank (and 1 more warning finding).",
     )
   })
 })
