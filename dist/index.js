@@ -62112,8 +62112,8 @@ function describeDifference(base, head) {
     const baseSet = new Set(base.ids);
     const onlyHead = head.ids.filter((id) => !baseSet.has(id)).length;
     return {
-      short: `${differing2} of ${base.rows} ids differ by position (${onlyHead} ids only on the head)`,
-      long: `Holdout row ${first2 + 1} has ${base.idName ?? "id"} '${base.ids[first2]}' on the base side and '${head.ids[first2]}' on the head; ${differing2} of ${base.rows} rows differ by position and ${onlyHead} head ids do not occur on the base side.`,
+      short: `${differing2} of ${base.rows} ids differ by position (${onlyHead} ${onlyHead === 1 ? "id" : "ids"} only on the head)`,
+      long: `Holdout row ${first2 + 1} has ${base.idName ?? "id"} '${base.ids[first2]}' on the base side and '${head.ids[first2]}' on the head; ${differing2} of ${base.rows} rows differ by position and ${onlyHead} head ${onlyHead === 1 ? "id does" : "ids do"} not occur on the base side.`,
       evidence: { differingRows: differing2, idsOnlyOnHead: onlyHead, firstDifferingRow: first2 + 1 }
     };
   }
@@ -63009,9 +63009,12 @@ function writeHeadline(verdict, findings) {
   const sorted = sortFindings(findings);
   const deciding = sorted.filter((f) => f.severity === verdict);
   const more = deciding.length > 1 ? ` (and ${deciding.length - 1} more ${verdict === "block" ? "blocking" : "warning"} finding${deciding.length > 2 ? "s" : ""})` : "";
-  if (verdict === "block") return `Blocked: ${lowerFirst(deciding[0].title)}${more}`;
-  if (verdict === "warn") return `Passed with warnings: ${lowerFirst(deciding[0].title)}${more}`;
-  return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
+  if (verdict === "pass") {
+    return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
+  }
+  const title = lowerFirst(deciding[0].title);
+  const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
+  return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
 }
 function lowerFirst(text3) {
   return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
@@ -63377,7 +63380,7 @@ async function measureSide(inputs, options) {
     referenceRows: reference.rows,
     model: modelInfo,
     firstPredictions,
-    noiseCovers: inputs.model ? "draws-only" : "refits-and-draws"
+    noiseCovers: refits < 2 ? "draws-only" : "refits-and-draws"
   };
 }
 function canonicalOrder(estimates, featureOrder, groups2, draws) {

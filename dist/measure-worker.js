@@ -797,7 +797,7 @@ async function measureSide(inputs, options) {
     referenceRows: reference.rows,
     model: modelInfo,
     firstPredictions,
-    noiseCovers: inputs.model ? "draws-only" : "refits-and-draws"
+    noiseCovers: refits < 2 ? "draws-only" : "refits-and-draws"
   };
 }
 function canonicalOrder(estimates, featureOrder, groups, draws) {

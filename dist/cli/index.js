@@ -40058,9 +40058,12 @@ function writeHeadline(verdict, findings) {
   const sorted = sortFindings(findings);
   const deciding = sorted.filter((f) => f.severity === verdict);
   const more = deciding.length > 1 ? ` (and ${deciding.length - 1} more ${verdict === "block" ? "blocking" : "warning"} finding${deciding.length > 2 ? "s" : ""})` : "";
-  if (verdict === "block") return `Blocked: ${lowerFirst(deciding[0].title)}${more}`;
-  if (verdict === "warn") return `Passed with warnings: ${lowerFirst(deciding[0].title)}${more}`;
-  return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
+  if (verdict === "pass") {
+    return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
+  }
+  const title = lowerFirst(deciding[0].title);
+  const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
+  return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
 }
 function lowerFirst(text2) {
   return /^(The|Holdout|A|An)\b/.test(text2) ? text2[0].toLowerCase() + text2.slice(1) : text2;
@@ -42368,8 +42371,8 @@ function describeDifference(base, head) {
     const baseSet = new Set(base.ids);
     const onlyHead = head.ids.filter((id) => !baseSet.has(id)).length;
     return {
-      short: `${differing2} of ${base.rows} ids differ by position (${onlyHead} ids only on the head)`,
-      long: `Holdout row ${first2 + 1} has ${base.idName ?? "id"} '${base.ids[first2]}' on the base side and '${head.ids[first2]}' on the head; ${differing2} of ${base.rows} rows differ by position and ${onlyHead} head ids do not occur on the base side.`,
+      short: `${differing2} of ${base.rows} ids differ by position (${onlyHead} ${onlyHead === 1 ? "id" : "ids"} only on the head)`,
+      long: `Holdout row ${first2 + 1} has ${base.idName ?? "id"} '${base.ids[first2]}' on the base side and '${head.ids[first2]}' on the head; ${differing2} of ${base.rows} rows differ by position and ${onlyHead} head ${onlyHead === 1 ? "id does" : "ids do"} not occur on the base side.`,
       evidence: { differingRows: differing2, idsOnlyOnHead: onlyHead, firstDifferingRow: first2 + 1 }
     };
   }
@@ -43619,7 +43622,7 @@ async function measureSide(inputs, options) {
     referenceRows: reference.rows,
     model: modelInfo,
     firstPredictions,
-    noiseCovers: inputs.model ? "draws-only" : "refits-and-draws"
+    noiseCovers: refits < 2 ? "draws-only" : "refits-and-draws"
   };
 }
 function canonicalOrder(estimates, featureOrder, groups, draws) {
@@ -45221,6 +45224,11 @@ function parseCommand(argv) {
       help: { type: "boolean", short: "h" }
     });
     if (values.help) return { name: "help", text: usage.check };
+    for (const flag of ["policy", "base", "head", "json", "markdown"]) {
+      if (values[flag] === "") {
+        throw new UserError(`--${flag} needs a value, got an empty string.`, `Leave --${flag} out to use its default, or give it a value.`);
+      }
+    }
     return {
       name: "check",
       policy: values.policy,
