@@ -43258,9 +43258,6 @@ function tailAbove(excess, se, upperTail) {
   return upperTail(excess / se);
 }
 
-// src/core/statistics/student-t-quantile.ts
-init_errors();
-
 // src/core/statistics/normal-quantile.ts
 init_errors();
 function normalQuantile(p) {
@@ -43293,6 +43290,7 @@ function normalQuantile(p) {
 }
 
 // src/core/statistics/student-t-quantile.ts
+init_errors();
 function studentTQuantile(p, df) {
   if (!(p >= 0 && p <= 1)) throw new RangeError(`studentTQuantile needs p in [0, 1], got ${p}`);
   if (!(df > 0)) throw new RangeError(`studentTQuantile needs degrees of freedom > 0, got ${df}`);
@@ -43395,6 +43393,14 @@ function computeNoiseFloor(refits, options = {}) {
       lower = mean3 - half;
       upper = mean3 + half;
     }
+    const rowVariances = refits.map((r) => r[index].rowSe).filter((v) => v !== void 0 && Number.isFinite(v));
+    if (rowVariances.length === refitCount) {
+      const rowHalf = normalQuantile(0.5 + level / 2) * Math.sqrt(rowVariances.reduce((s, v) => s + v * v, 0) / refitCount);
+      const refitHalf = (upper - lower) / 2;
+      const half = Number.isFinite(refitHalf) ? Math.hypot(refitHalf, rowHalf) : rowHalf;
+      lower = mean3 - half;
+      upper = mean3 + half;
+    }
     return {
       name: unit.name,
       members: unit.members,
@@ -43431,6 +43437,51 @@ function tInterval(values, options = {}) {
   return { mean: center, sd, n, halfWidth, lower: center - halfWidth, upper: center + halfWidth };
 }
 
+// src/core/importance/row-contributions.ts
+var EPSILON = 1e-15;
+function rowContributions(metric, y, base, permuted, out) {
+  const n = y.length;
+  switch (metric.name) {
+    case "log-loss": {
+      const loss = (t, p) => {
+        const q = Math.min(Math.max(p, EPSILON), 1 - EPSILON);
+        return -(t * Math.log(q) + (1 - t) * Math.log(1 - q));
+      };
+      for (let i = 0; i < n; i++) out[i] = loss(y[i], permuted[i]) - loss(y[i], base[i]);
+      return out;
+    }
+    case "brier":
+      for (let i = 0; i < n; i++) out[i] = (permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2;
+      return out;
+    case "accuracy":
+      for (let i = 0; i < n; i++) out[i] = Number(base[i] > 0.5 === (y[i] === 1)) - Number(permuted[i] > 0.5 === (y[i] === 1));
+      return out;
+    case "mae":
+      for (let i = 0; i < n; i++) out[i] = Math.abs(permuted[i] - y[i]) - Math.abs(base[i] - y[i]);
+      return out;
+    case "rmse":
+    case "r2": {
+      let mse = 0;
+      let mean3 = 0;
+      for (let i = 0; i < n; i++) {
+        mse += (base[i] - y[i]) ** 2;
+        mean3 += y[i];
+      }
+      mse /= n;
+      mean3 /= n;
+      let variance = 0;
+      for (let i = 0; i < n; i++) variance += (y[i] - mean3) ** 2;
+      variance /= n;
+      const scale = metric.name === "rmse" ? 1 / (2 * Math.sqrt(mse)) : 1 / variance;
+      if (!Number.isFinite(scale)) return null;
+      for (let i = 0; i < n; i++) out[i] = ((permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2) * scale;
+      return out;
+    }
+    default:
+      return null;
+  }
+}
+
 // src/core/importance/permutation-importance.ts
 async function permutationImportance(model, evaluation, options) {
   const { metric, draws } = options;
@@ -43445,7 +43496,10 @@ async function permutationImportance(model, evaluation, options) {
   const y = evaluation.target.values;
   if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`);
   if (reference.rows < 1) throw new RangeError("permutationImportance needs at least 1 reference row");
-  const score2 = metric.compute(y, await model.predict(data));
+  const basePrediction = await model.predict(data);
+  const score2 = metric.compute(y, basePrediction);
+  const contribution = new Float64Array(n);
+  const rowSum = new Float64Array(n);
   const units = names.map(
     (name, j) => ({ name, members: [name], isGroup: false, columns: [j] })
   );
@@ -43479,10 +43533,17 @@ async function permutationImportance(model, evaluation, options) {
     }
     const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
     const values = [];
+    rowSum.fill(0);
+    let decomposes = true;
     for (let k = 0; k < draws; k++) {
-      const permuted = metric.compute(y, prediction.subarray(k * n, (k + 1) * n));
+      const block = prediction.subarray(k * n, (k + 1) * n);
+      const permuted = metric.compute(y, block);
       values.push(metric.higherIsBetter ? score2 - permuted : permuted - score2);
+      if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {
+        for (let i = 0; i < n; i++) rowSum[i] += contribution[i];
+      } else decomposes = false;
     }
+    const rowSe = decomposes ? standardErrorOfMean(rowSum, draws) : NaN;
     if (!fast) {
       for (const j of unit.columns) {
         const column = data.columns[j];
@@ -43490,7 +43551,7 @@ async function permutationImportance(model, evaluation, options) {
       }
     }
     const interval = summarizeDraws(values);
-    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval });
+    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval, rowSe });
   }
   return { score: score2, importances };
 }
@@ -43499,6 +43560,15 @@ function referenceRows(n, available, usesOwnRows, random) {
   const rows = new Uint32Array(n);
   for (let i = 0; i < n; i++) rows[i] = random.int(available);
   return rows;
+}
+function standardErrorOfMean(sums, draws) {
+  const n = sums.length;
+  let mean3 = 0;
+  for (let i = 0; i < n; i++) mean3 += sums[i] / draws;
+  mean3 /= n;
+  let squares = 0;
+  for (let i = 0; i < n; i++) squares += (sums[i] / draws - mean3) ** 2;
+  return Math.sqrt(squares / (n - 1) / n);
 }
 function summarizeDraws(values) {
   if (values.length === 1) return { mean: values[0], sd: NaN, lower: NaN, upper: NaN };
@@ -43635,7 +43705,8 @@ function canonicalOrder(estimates, featureOrder, groups, draws) {
     mean: 0,
     sd: draws > 1 ? 0 : NaN,
     lower: draws > 1 ? 0 : NaN,
-    upper: draws > 1 ? 0 : NaN
+    upper: draws > 1 ? 0 : NaN,
+    rowSe: 0
   });
   const present = new Set(featureOrder);
   return [
@@ -43678,14 +43749,14 @@ function brierScore(y, p) {
 }
 
 // src/core/metrics/log-loss.ts
-var EPSILON = 1e-15;
+var EPSILON2 = 1e-15;
 function logLoss(y, p) {
   checkPaired("logLoss", y, p, "binary");
   let sum2 = 0;
   for (let i = 0; i < y.length; i++) {
     const probability = p[i];
     if (probability < 0 || probability > 1) throw new RangeError(`logLoss needs probabilities in [0, 1], got ${probability} at index ${i}`);
-    const clipped = Math.min(1 - EPSILON, Math.max(EPSILON, probability));
+    const clipped = Math.min(1 - EPSILON2, Math.max(EPSILON2, probability));
     sum2 -= Math.log(y[i] === 1 ? clipped : 1 - clipped);
   }
   return sum2 / y.length;

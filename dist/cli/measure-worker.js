@@ -244,22 +244,6 @@ PerceptronModel.prototype.train = function train2(features, label) {
   return this;
 };
 
-// src/core/statistics/log-beta.ts
-function logBeta(a, b) {
-  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
-    throw new RangeError(`logBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
-  }
-  const small = Math.min(a, b);
-  const big = Math.max(a, b);
-  if (big < 10) return gammaln(a) + gammaln(b) - gammaln(a + b);
-  const logGammaRatio = (big - 0.5) * Math.log1p(small / big) + small * Math.log(big + small) - small + stirlingRemainder(big + small) - stirlingRemainder(big);
-  return gammaln(small) - logGammaRatio;
-}
-function stirlingRemainder(z2) {
-  const w = 1 / (z2 * z2);
-  return (1 / 12 - w * (1 / 360 - w * (1 / 1260 - w * (1 / 1680 - w * (1 / 1188 - w * (691 / 360360 - w / 156)))))) / z2;
-}
-
 // src/core/statistics/continued-fraction.ts
 function continuedFraction(leading, numerator, denominator, limits) {
   const tiny = 1e-300;
@@ -338,6 +322,22 @@ function normalQuantile(p) {
     if (Math.abs(delta) <= 4e-15 * x) return p < 0.5 ? -x : x;
   }
   throw new InternalError(`normalQuantile: Newton iteration did not converge for p = ${p}`);
+}
+
+// src/core/statistics/log-beta.ts
+function logBeta(a, b) {
+  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
+    throw new RangeError(`logBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
+  }
+  const small = Math.min(a, b);
+  const big = Math.max(a, b);
+  if (big < 10) return gammaln(a) + gammaln(b) - gammaln(a + b);
+  const logGammaRatio = (big - 0.5) * Math.log1p(small / big) + small * Math.log(big + small) - small + stirlingRemainder(big + small) - stirlingRemainder(big);
+  return gammaln(small) - logGammaRatio;
+}
+function stirlingRemainder(z2) {
+  const w = 1 / (z2 * z2);
+  return (1 / 12 - w * (1 / 360 - w * (1 / 1260 - w * (1 / 1680 - w * (1 / 1188 - w * (691 / 360360 - w / 156)))))) / z2;
 }
 
 // src/core/statistics/regularized-incomplete-beta.ts
@@ -491,6 +491,14 @@ function computeNoiseFloor(refits, options = {}) {
       lower = mean2 - half;
       upper = mean2 + half;
     }
+    const rowVariances = refits.map((r) => r[index].rowSe).filter((v) => v !== void 0 && Number.isFinite(v));
+    if (rowVariances.length === refitCount) {
+      const rowHalf = normalQuantile(0.5 + level / 2) * Math.sqrt(rowVariances.reduce((s, v) => s + v * v, 0) / refitCount);
+      const refitHalf = (upper - lower) / 2;
+      const half = Number.isFinite(refitHalf) ? Math.hypot(refitHalf, rowHalf) : rowHalf;
+      lower = mean2 - half;
+      upper = mean2 + half;
+    }
     return {
       name: unit.name,
       members: unit.members,
@@ -606,6 +614,51 @@ function tInterval(values, options = {}) {
   return { mean: center, sd, n, halfWidth, lower: center - halfWidth, upper: center + halfWidth };
 }
 
+// src/core/importance/row-contributions.ts
+var EPSILON = 1e-15;
+function rowContributions(metric, y, base, permuted, out) {
+  const n = y.length;
+  switch (metric.name) {
+    case "log-loss": {
+      const loss = (t, p) => {
+        const q = Math.min(Math.max(p, EPSILON), 1 - EPSILON);
+        return -(t * Math.log(q) + (1 - t) * Math.log(1 - q));
+      };
+      for (let i = 0; i < n; i++) out[i] = loss(y[i], permuted[i]) - loss(y[i], base[i]);
+      return out;
+    }
+    case "brier":
+      for (let i = 0; i < n; i++) out[i] = (permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2;
+      return out;
+    case "accuracy":
+      for (let i = 0; i < n; i++) out[i] = Number(base[i] > 0.5 === (y[i] === 1)) - Number(permuted[i] > 0.5 === (y[i] === 1));
+      return out;
+    case "mae":
+      for (let i = 0; i < n; i++) out[i] = Math.abs(permuted[i] - y[i]) - Math.abs(base[i] - y[i]);
+      return out;
+    case "rmse":
+    case "r2": {
+      let mse = 0;
+      let mean2 = 0;
+      for (let i = 0; i < n; i++) {
+        mse += (base[i] - y[i]) ** 2;
+        mean2 += y[i];
+      }
+      mse /= n;
+      mean2 /= n;
+      let variance = 0;
+      for (let i = 0; i < n; i++) variance += (y[i] - mean2) ** 2;
+      variance /= n;
+      const scale = metric.name === "rmse" ? 1 / (2 * Math.sqrt(mse)) : 1 / variance;
+      if (!Number.isFinite(scale)) return null;
+      for (let i = 0; i < n; i++) out[i] = ((permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2) * scale;
+      return out;
+    }
+    default:
+      return null;
+  }
+}
+
 // src/core/importance/permutation-importance.ts
 async function permutationImportance(model, evaluation, options) {
   const { metric, draws } = options;
@@ -620,7 +673,10 @@ async function permutationImportance(model, evaluation, options) {
   const y = evaluation.target.values;
   if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`);
   if (reference.rows < 1) throw new RangeError("permutationImportance needs at least 1 reference row");
-  const score2 = metric.compute(y, await model.predict(data));
+  const basePrediction = await model.predict(data);
+  const score2 = metric.compute(y, basePrediction);
+  const contribution = new Float64Array(n);
+  const rowSum = new Float64Array(n);
   const units = names.map(
     (name, j) => ({ name, members: [name], isGroup: false, columns: [j] })
   );
@@ -654,10 +710,17 @@ async function permutationImportance(model, evaluation, options) {
     }
     const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
     const values = [];
+    rowSum.fill(0);
+    let decomposes = true;
     for (let k = 0; k < draws; k++) {
-      const permuted = metric.compute(y, prediction.subarray(k * n, (k + 1) * n));
+      const block = prediction.subarray(k * n, (k + 1) * n);
+      const permuted = metric.compute(y, block);
       values.push(metric.higherIsBetter ? score2 - permuted : permuted - score2);
+      if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {
+        for (let i = 0; i < n; i++) rowSum[i] += contribution[i];
+      } else decomposes = false;
     }
+    const rowSe = decomposes ? standardErrorOfMean(rowSum, draws) : NaN;
     if (!fast) {
       for (const j of unit.columns) {
         const column = data.columns[j];
@@ -665,7 +728,7 @@ async function permutationImportance(model, evaluation, options) {
       }
     }
     const interval = summarizeDraws(values);
-    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval });
+    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval, rowSe });
   }
   return { score: score2, importances };
 }
@@ -674,6 +737,15 @@ function referenceRows(n, available, usesOwnRows, random) {
   const rows = new Uint32Array(n);
   for (let i = 0; i < n; i++) rows[i] = random.int(available);
   return rows;
+}
+function standardErrorOfMean(sums, draws) {
+  const n = sums.length;
+  let mean2 = 0;
+  for (let i = 0; i < n; i++) mean2 += sums[i] / draws;
+  mean2 /= n;
+  let squares = 0;
+  for (let i = 0; i < n; i++) squares += (sums[i] / draws - mean2) ** 2;
+  return Math.sqrt(squares / (n - 1) / n);
 }
 function summarizeDraws(values) {
   if (values.length === 1) return { mean: values[0], sd: NaN, lower: NaN, upper: NaN };
@@ -810,7 +882,8 @@ function canonicalOrder(estimates, featureOrder, groups, draws) {
     mean: 0,
     sd: draws > 1 ? 0 : NaN,
     lower: draws > 1 ? 0 : NaN,
-    upper: draws > 1 ? 0 : NaN
+    upper: draws > 1 ? 0 : NaN,
+    rowSe: 0
   });
   const present = new Set(featureOrder);
   return [
@@ -1985,14 +2058,14 @@ function brierScore(y, p) {
 }
 
 // src/core/metrics/log-loss.ts
-var EPSILON = 1e-15;
+var EPSILON2 = 1e-15;
 function logLoss(y, p) {
   checkPaired("logLoss", y, p, "binary");
   let sum2 = 0;
   for (let i = 0; i < y.length; i++) {
     const probability = p[i];
     if (probability < 0 || probability > 1) throw new RangeError(`logLoss needs probabilities in [0, 1], got ${probability} at index ${i}`);
-    const clipped = Math.min(1 - EPSILON, Math.max(EPSILON, probability));
+    const clipped = Math.min(1 - EPSILON2, Math.max(EPSILON2, probability));
     sum2 -= Math.log(y[i] === 1 ? clipped : 1 - clipped);
   }
   return sum2 / y.length;

@@ -126,6 +126,7 @@ function canonicalOrder(
     sd: draws > 1 ? 0 : NaN,
     lower: draws > 1 ? 0 : NaN,
     upper: draws > 1 ? 0 : NaN,
+    rowSe: 0,
   })
   const present = new Set(featureOrder)
   return [

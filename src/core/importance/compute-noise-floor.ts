@@ -1,3 +1,4 @@
+import { normalQuantile } from '../statistics/normal-quantile.ts'
 import { studentTQuantile } from '../statistics/student-t-quantile.ts'
 import type { ImportanceEstimate } from './permutation-importance.ts'
 
@@ -27,7 +28,10 @@ export interface FlooredImportance {
  * so the interval mean ± t(0.975, R−1)·s/√R covers both (a one-way random-effects layout; see e.g.
  * Montgomery, "Design and Analysis of Experiments", ch. 13). With one refit (a loaded model that
  * cannot be retrained) only draw noise is known: the interval is then the draws' t-interval, which
- * the report states. A feature is above the floor when the interval's lower bound is above zero.
+ * the report states. When the estimates carry a holdout-sampling SE (`rowSe`, for metrics that are
+ * means over rows), its 95% normal half-width is added in quadrature, so that a feature the model
+ * touches the same way in every refit but that helps only on these particular rows is not mistaken
+ * for one it relies on. A feature is above the floor when the interval's lower bound is above zero.
  *
  * `refits[r]` are the estimates of refit r, all in the same unit order (as permutationImportance
  * returns them for the same model features and groups). Cost O(R·K) per feature.
@@ -69,6 +73,16 @@ export function computeNoiseFloor(
     } else {
       const draws = first[index].draws.length
       const half = draws >= 2 ? studentTQuantile(0.5 + level / 2, draws - 1) * (drawSd / Math.sqrt(draws)) : NaN
+      lower = mean - half
+      upper = mean + half
+    }
+    // Holdout sampling: the rows are a sample too. Added in quadrature (normal, 95% two-sided) when
+    // the metric is a mean over rows; the mean of the refits' squared SEs (the same rows each time).
+    const rowVariances = refits.map((r) => r[index].rowSe).filter((v): v is number => v !== undefined && Number.isFinite(v))
+    if (rowVariances.length === refitCount) {
+      const rowHalf = normalQuantile(0.5 + level / 2) * Math.sqrt(rowVariances.reduce((s, v) => s + v * v, 0) / refitCount)
+      const refitHalf = (upper - lower) / 2
+      const half = Number.isFinite(refitHalf) ? Math.hypot(refitHalf, rowHalf) : rowHalf
       lower = mean - half
       upper = mean + half
     }

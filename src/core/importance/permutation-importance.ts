@@ -4,6 +4,7 @@ import type { Metric } from '../metrics/metric.ts'
 import type { Model } from '../models/model.ts'
 import { createRandom, deriveSeed, shuffledIndices } from '../statistics/random.ts'
 import { tInterval } from '../statistics/t-interval.ts'
+import { rowContributions } from './row-contributions.ts'
 
 /** Columns permuted together: every member takes its value from the same reference row. */
 export interface FeatureGroup {
@@ -24,6 +25,11 @@ export interface ImportanceEstimate {
   /** 95% t-interval of the mean over draws (NaN bounds for one draw). */
   readonly lower: number
   readonly upper: number
+  /**
+   * Standard error of `mean` from the finite holdout: SD over rows of each row's contribution
+   * (averaged over the draws) / √n; NaN for metrics that are not means over rows (AUC).
+   */
+  readonly rowSe?: number
 }
 
 export interface PermutationImportanceResult {
@@ -80,7 +86,10 @@ export async function permutationImportance(
   if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`)
   if (reference.rows < 1) throw new RangeError('permutationImportance needs at least 1 reference row')
 
-  const score = metric.compute(y, await model.predict(data))
+  const basePrediction = await model.predict(data)
+  const score = metric.compute(y, basePrediction)
+  const contribution = new Float64Array(n)
+  const rowSum = new Float64Array(n)
 
   const units: { name: string; members: string[]; isGroup: boolean; columns: number[] }[] = names.map(
     (name, j) => ({ name, members: [name], isGroup: false, columns: [j] }),
@@ -121,10 +130,17 @@ export async function permutationImportance(
     }
     const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix)
     const values: number[] = []
+    rowSum.fill(0)
+    let decomposes = true
     for (let k = 0; k < draws; k++) {
-      const permuted = metric.compute(y, prediction.subarray(k * n, (k + 1) * n))
+      const block = prediction.subarray(k * n, (k + 1) * n)
+      const permuted = metric.compute(y, block)
       values.push(metric.higherIsBetter ? score - permuted : permuted - score)
+      if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {
+        for (let i = 0; i < n; i++) rowSum[i] += contribution[i]
+      } else decomposes = false
     }
+    const rowSe = decomposes ? standardErrorOfMean(rowSum, draws) : NaN
     if (!fast) {
       for (const j of unit.columns) {
         const column = data.columns[j]
@@ -132,7 +148,7 @@ export async function permutationImportance(
       }
     }
     const interval = summarizeDraws(values)
-    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval })
+    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval, rowSe })
   }
   return { score, importances }
 }
@@ -142,6 +158,17 @@ function referenceRows(n: number, available: number, usesOwnRows: boolean, rando
   const rows = new Uint32Array(n)
   for (let i = 0; i < n; i++) rows[i] = random.int(available)
   return rows
+}
+
+/** SD over rows of the per-row means (sums / draws), divided by √n. */
+function standardErrorOfMean(sums: Float64Array, draws: number): number {
+  const n = sums.length
+  let mean = 0
+  for (let i = 0; i < n; i++) mean += sums[i] / draws
+  mean /= n
+  let squares = 0
+  for (let i = 0; i < n; i++) squares += (sums[i] / draws - mean) ** 2
+  return Math.sqrt(squares / (n - 1) / n)
 }
 
 function summarizeDraws(values: readonly number[]): { mean: number; sd: number; lower: number; upper: number } {
