@@ -840,11 +840,13 @@ async function measureSide(inputs, options) {
   const perRefit = [];
   let firstPredictions = new Float64Array(0);
   let modelInfo = { kind: "", featureNames: [] };
+  for (let r = 0; r < refits; r++) refitSeeds.push(refitSeed(options.seed, r));
+  const fitRefit = (r) => inputs.fit({ side: inputs.side, seed: refitSeeds[r], refit: r, leaveOut: [] });
+  const prefetched = !inputs.model && options.concurrentFits ? refitSeeds.map((_, r) => fitRefit(r)) : void 0;
+  prefetched?.forEach((p) => p.catch(() => void 0));
   for (let r = 0; r < refits; r++) {
     options.onRefit?.(r, refits);
-    const seed = refitSeed(options.seed, r);
-    refitSeeds.push(seed);
-    const model = inputs.model ?? await inputs.fit({ side: inputs.side, seed, refit: r, leaveOut: [] });
+    const model = inputs.model ?? await (prefetched ? prefetched[r] : fitRefit(r));
     modelInfo = { kind: model.kind, featureNames: model.featureNames };
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
     if (r === 0) firstPredictions = prediction;

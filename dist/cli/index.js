@@ -43189,7 +43189,7 @@ function checkRankShift(base, head, options) {
         severity: "info",
         feature: p.name,
         title: `${p.name} fell to the noise floor (importance ${fmt(p.b.mean)} on the base side, ${fmt(p.h.mean)} now).`,
-        message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] includes zero: the candidate model no longer measurably relies on it.`,
+        message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] does not lie above zero: the candidate model no longer measurably relies on it.`,
         evidence: { baseMean: p.b.mean, headMean: p.h.mean, headLower: p.h.lower, headUpper: p.h.upper }
       });
     }
@@ -43663,11 +43663,13 @@ async function measureSide(inputs, options) {
   const perRefit = [];
   let firstPredictions = new Float64Array(0);
   let modelInfo = { kind: "", featureNames: [] };
+  for (let r = 0; r < refits; r++) refitSeeds.push(refitSeed(options.seed, r));
+  const fitRefit = (r) => inputs.fit({ side: inputs.side, seed: refitSeeds[r], refit: r, leaveOut: [] });
+  const prefetched = !inputs.model && options.concurrentFits ? refitSeeds.map((_, r) => fitRefit(r)) : void 0;
+  prefetched?.forEach((p) => p.catch(() => void 0));
   for (let r = 0; r < refits; r++) {
     options.onRefit?.(r, refits);
-    const seed = refitSeed(options.seed, r);
-    refitSeeds.push(seed);
-    const model = inputs.model ?? await inputs.fit({ side: inputs.side, seed, refit: r, leaveOut: [] });
+    const model = inputs.model ?? await (prefetched ? prefetched[r] : fitRefit(r));
     modelInfo = { kind: model.kind, featureNames: model.featureNames };
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
     if (r === 0) firstPredictions = prediction;
@@ -43864,7 +43866,7 @@ function featureSetFindings(featureSet, head, action) {
         severity: "info",
         feature: name,
         title: `The added feature ${name} is not measurably used by the candidate model.`,
-        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that includes zero.`,
+        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that does not lie above zero.`,
         evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper }
       });
     }
@@ -44130,7 +44132,8 @@ async function runGate(inputs) {
       groups: settings.groups,
       evaluationRows: settings.evaluationRows,
       referenceRows: settings.referenceRows,
-      onRefit: (refit, of) => inputs.onProgress?.({ stage: "refit", side: side2, refit, of })
+      onRefit: (refit, of) => inputs.onProgress?.({ stage: "refit", side: side2, refit, of }),
+      concurrentFits: !data.builtin
     },
     ...data.builtin ? { builtin: data.builtin } : {}
   });

@@ -79,7 +79,7 @@ export function featureSetFindings(
         severity: 'info',
         feature: name,
         title: `The added feature ${name} is not measurably used by the candidate model.`,
-        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that includes zero.`,
+        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that does not lie above zero.`,
         evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper },
       })
     }

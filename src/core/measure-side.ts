@@ -31,6 +31,8 @@ export interface MeasureSideOptions {
   /** Cap on reference rows permutation draws come from. */
   readonly referenceRows: number
   readonly onRefit?: (refit: number, of: number) => void
+  /** Ask the fit for every refit at once (training commands, which run up to their own parallel limit). */
+  readonly concurrentFits?: boolean
 }
 
 export interface SideMeasurement {
@@ -73,11 +75,15 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
   const perRefit: ImportanceEstimate[][] = []
   let firstPredictions: Float64Array = new Float64Array(0)
   let modelInfo = { kind: '', featureNames: [] as readonly string[] }
+  for (let r = 0; r < refits; r++) refitSeeds.push(refitSeed(options.seed, r))
+  const fitRefit = (r: number) => inputs.fit!({ side: inputs.side, seed: refitSeeds[r], refit: r, leaveOut: [] })
+  // A fit that waits on something else (a training command) is asked for every refit at once, so that
+  // its own limit on parallel runs decides; a built-in fit computes in this thread, one at a time.
+  const prefetched = !inputs.model && options.concurrentFits ? refitSeeds.map((_, r) => fitRefit(r)) : undefined
+  prefetched?.forEach((p) => p.catch(() => undefined)) // awaited below in order; a failure surfaces there
   for (let r = 0; r < refits; r++) {
     options.onRefit?.(r, refits)
-    const seed = refitSeed(options.seed, r)
-    refitSeeds.push(seed)
-    const model = inputs.model ?? (await inputs.fit!({ side: inputs.side, seed, refit: r, leaveOut: [] }))
+    const model = inputs.model ?? (await (prefetched ? prefetched[r] : fitRefit(r)))
     modelInfo = { kind: model.kind, featureNames: model.featureNames }
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames))
     if (r === 0) firstPredictions = prediction

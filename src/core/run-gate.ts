@@ -94,6 +94,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
       evaluationRows: settings.evaluationRows,
       referenceRows: settings.referenceRows,
       onRefit: (refit, of) => inputs.onProgress?.({ stage: 'refit', side, refit, of }),
+      concurrentFits: !data.builtin,
     },
     ...(data.builtin ? { builtin: data.builtin } : {}),
   })

@@ -117,7 +117,7 @@ export function checkRankShift(
         severity: 'info',
         feature: p.name,
         title: `${p.name} fell to the noise floor (importance ${fmt(p.b.mean)} on the base side, ${fmt(p.h.mean)} now).`,
-        message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] includes zero: the candidate model no longer measurably relies on it.`,
+        message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] does not lie above zero: the candidate model no longer measurably relies on it.`,
         evidence: { baseMean: p.b.mean, headMean: p.h.mean, headLower: p.h.lower, headUpper: p.h.upper },
       })
     }

@@ -99,7 +99,7 @@ describe('checkRankShift(base, head, options)', () => {
         feature: 'stop_count',
         title: 'stop_count fell to the noise floor (importance 5 on the base side, 0 now).',
         message:
-          "On the head side the 95% interval of stop_count's importance [-0.0196, 0.0196] includes zero: the candidate model no longer measurably relies on it.",
+          "On the head side the 95% interval of stop_count's importance [-0.0196, 0.0196] does not lie above zero: the candidate model no longer measurably relies on it.",
         evidence: { baseMean: 5, headMean: 0, headLower: expect.closeTo(-0.0196324316, 9), headUpper: expect.closeTo(0.0196324316, 9) },
       },
     ])
