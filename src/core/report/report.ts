@@ -39,7 +39,7 @@ export interface Finding {
 export interface SideImportance {
   /** Mean importance over refits (each refit's value is the mean over its draws). */
   readonly mean: number
-  /** 95% interval for `mean`, combining draw and refit variance (t with refits-1 df). */
+  /** 95% interval for `mean`: refit and draw variance (t, refits-1 df), plus the holdout rows' SE in quadrature where the metric is a mean over rows. */
   readonly lower: number
   readonly upper: number
   /** SD across refits of the per-refit means: the training-noise floor. */
