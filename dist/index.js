@@ -63020,6 +63020,19 @@ function lowerFirst(text3) {
   return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
 }
 
+// src/core/checks/demote-consequences.ts
+function demoteConsequences(findings) {
+  const leak = findings.find((f) => f.kind === "leakage" && f.severity === "block");
+  if (!leak) return [...findings];
+  return findings.map(
+    (f) => f.kind === "rank-shift" && f.feature !== leak.feature || f.kind === "rank-agreement" ? {
+      ...f,
+      severity: f.severity === "block" ? "block" : "info",
+      message: `${f.message} Likely a consequence of the leakage finding on ${leak.feature}: a feature that takes over the model moves every other feature's importance.`
+    } : f
+  );
+}
+
 // src/core/statistics/normal-quantile.ts
 function normalQuantile(p) {
   if (!(p >= 0 && p <= 1)) throw new RangeError(`normalQuantile needs p in [0, 1], got ${p}`);
@@ -63971,7 +63984,7 @@ async function runGate(inputs) {
       evidence: { baseNoise: base.noiseCovers, headNoise: head.noiseCovers }
     });
   }
-  const findings = sortFindings([
+  const findings = sortFindings(demoteConsequences([
     ...holdoutFindings,
     ...leakage,
     ...score2,
@@ -63979,7 +63992,7 @@ async function runGate(inputs) {
     ...agreement.findings,
     ...featureSetFindings(featureSet, headResult, settings.checks.featureSet),
     ...context3
-  ]);
+  ]));
   const verdict = decideVerdict(findings);
   return {
     schemaVersion: 1,

@@ -43258,6 +43258,19 @@ function tailAbove(excess, se, upperTail) {
   return upperTail(excess / se);
 }
 
+// src/core/checks/demote-consequences.ts
+function demoteConsequences(findings) {
+  const leak = findings.find((f) => f.kind === "leakage" && f.severity === "block");
+  if (!leak) return [...findings];
+  return findings.map(
+    (f) => f.kind === "rank-shift" && f.feature !== leak.feature || f.kind === "rank-agreement" ? {
+      ...f,
+      severity: f.severity === "block" ? "block" : "info",
+      message: `${f.message} Likely a consequence of the leakage finding on ${leak.feature}: a feature that takes over the model moves every other feature's importance.`
+    } : f
+  );
+}
+
 // src/core/statistics/normal-quantile.ts
 init_errors();
 function normalQuantile(p) {
@@ -44212,7 +44225,7 @@ async function runGate(inputs) {
       evidence: { baseNoise: base.noiseCovers, headNoise: head.noiseCovers }
     });
   }
-  const findings = sortFindings([
+  const findings = sortFindings(demoteConsequences([
     ...holdoutFindings,
     ...leakage,
     ...score2,
@@ -44220,7 +44233,7 @@ async function runGate(inputs) {
     ...agreement.findings,
     ...featureSetFindings(featureSet, headResult, settings.checks.featureSet),
     ...context
-  ]);
+  ]));
   const verdict = decideVerdict(findings);
   return {
     schemaVersion: 1,

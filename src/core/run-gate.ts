@@ -9,6 +9,7 @@ import { checkRankShift } from './checks/rank-shift.ts'
 import { checkScoreRegression } from './checks/score-regression.ts'
 import { rankFeatures, type SideResult } from './checks/side-result.ts'
 import { decideVerdict, sortFindings, writeHeadline } from './checks/verdict.ts'
+import { demoteConsequences } from './checks/demote-consequences.ts'
 import type { GateConfig } from './config.ts'
 import type { Dataset, FeatureMatrix, Task } from './data/dataset.ts'
 import { measureSide, type MeasureSideInputs, type MeasureSideOptions, type SideMeasurement } from './measure-side.ts'
@@ -184,7 +185,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
       evidence: { baseNoise: base.noiseCovers, headNoise: head.noiseCovers },
     })
   }
-  const findings = sortFindings([
+  const findings = sortFindings(demoteConsequences([
     ...holdoutFindings,
     ...leakage,
     ...score,
@@ -192,7 +193,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     ...agreement.findings,
     ...featureSetFindings(featureSet, headResult, settings.checks.featureSet),
     ...context,
-  ])
+  ]))
   const verdict = decideVerdict(findings)
   return {
     schemaVersion: 1,
