@@ -451,6 +451,7 @@ export function renderTargets(results: readonly RunResult[]): string {
   for (const name of ['label-noise', 'post-outcome']) line(`  ${name} blocked`, of([name]), blocked, (k, n) => k === n)
   line('noisy-copy flagged, target ≥ 90%', of(['noisy-copy']), flagged, (k, n) => k >= 0.9 * n)
   line('slice-leak flagged, target ≥ 90%', of(['slice-leak']), flagged, (k, n) => k >= 0.9 * n)
+  line('slice-leak-empty flagged, target ≥ 90%', of(['slice-leak-empty']), flagged, (k, n) => k >= 0.9 * n)
   const shiftFamilies = ['signal-removed', 'transform-halved', 'correlated-duplicate']
   line(
     'real shifts of ≥ 2 reseed SDs (focus feature) flagged, target ≥ 90%',

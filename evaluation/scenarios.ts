@@ -31,7 +31,7 @@
  * The families (see `families` for the exact construction of each):
  * - benign: no-op, reseed-only, row-order, irrelevant-added, weak-added, irrelevant-removed, and
  *   data-refresh (a fresh training sample, beyond the issue's list);
- * - leak: label-noise, post-outcome, noisy-copy, slice-leak;
+ * - leak: label-noise, post-outcome, noisy-copy, slice-leak, slice-leak-empty;
  * - shift: signal-removed, transform-halved, correlated-duplicate;
  * - score: score-drop.
  *
@@ -435,6 +435,19 @@ export const families: readonly Family[] = [
         const leaked = y + 0.2 * sd * random.normal()
         return depot.values[i] === 'harbour' ? leaked : p.label[random.int(p.rows)] + 0.2 * sd * random.normal()
       })
+      return { headFeatures: withAdded(p, 'scan_gap_h'), extra: { scan_gap_h: numeric(values, 3) }, focus: 'scan_gap_h', parameters: { slice: 'depot=harbour' } }
+    },
+  },
+  {
+    name: 'slice-leak-empty',
+    kind: 'leak',
+    description:
+      'Adds scan_gap_h at the harbour depot only (the label plus small noise, as in slice-leak) and leaves it empty at every other depot.',
+    expectation: 'flag',
+    build: (p, random) => {
+      const depot = p.columns.depot as { values: readonly string[] }
+      const sd = labelSd(p)
+      const values = Float64Array.from(p.label, (y, i) => (depot.values[i] === 'harbour' ? y + 0.2 * sd * random.normal() : NaN))
       return { headFeatures: withAdded(p, 'scan_gap_h'), extra: { scan_gap_h: numeric(values, 3) }, focus: 'scan_gap_h', parameters: { slice: 'depot=harbour' } }
     },
   },

@@ -19,6 +19,7 @@ const plan: readonly { family: string; run: number }[] = [
   { family: 'label-noise', run: 1 },
   { family: 'post-outcome', run: 0 },
   { family: 'noisy-copy', run: 1 },
+  { family: 'slice-leak-empty', run: 0 },
   { family: 'signal-removed', run: 0 },
   { family: 'transform-halved', run: 1 },
   { family: 'score-drop', run: 0 },
@@ -93,6 +94,12 @@ describe('npm run evaluate, fast subset (runOne through the CLI)', () => {
   it('noisy-copy is flagged', () => {
     const r = result('noisy-copy', 1)
     expect(['warn', 'block']).toContain(r.verdict)
+  })
+
+  it('slice-leak-empty blocks through the leakage check inside the harbour slice', () => {
+    const r = result('slice-leak-empty', 0)
+    expect(r.verdict).toBe('block')
+    expect(fired(r)).toContain('block:leakage(scan_gap_h)')
   })
 
   it('signal-removed blocks on the score and reports distance_km\'s shift', () => {
