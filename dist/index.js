@@ -63803,7 +63803,7 @@ function sliceRows(holdout, options, task) {
 
 // src/core/gate-settings.ts
 var fixedSettings = {
-  minRelativeChange: 0.3,
+  minRelativeChange: 0.2,
   persistence: 0.9,
   singleFeatureTop: 3,
   singleFeatureMaxExtra: 20,

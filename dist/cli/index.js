@@ -44044,7 +44044,7 @@ function sliceRows(holdout, options, task) {
 // src/core/gate-settings.ts
 init_config();
 var fixedSettings = {
-  minRelativeChange: 0.3,
+  minRelativeChange: 0.2,
   persistence: 0.9,
   singleFeatureTop: 3,
   singleFeatureMaxExtra: 20,
