@@ -62966,10 +62966,13 @@ function checkScoreRegression(evidence, options) {
     pValue = worsening > options.tolerance ? 0 : 1;
   }
   if (options.action === "off" || !(worsening > options.tolerance) || !(pValue < options.alpha)) return [];
+  const spread = pooledSd(evidence);
+  const worseningInSds = spread > 0 ? worsening / spread : Infinity;
+  const severity = options.action === "block" && worseningInSds < (options.blockAtSds ?? 0) ? "warn" : options.action;
   return [
     {
       kind: "score-regression",
-      severity: options.action,
+      severity,
       title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (by ${fmt(worsening)}, beyond noise).`,
       message: `The candidate's mean holdout ${options.metric} is ${fmt(headMean)} against ${fmt(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${fmt(worsening)} exceeds the tolerance of ${options.tolerance} with one-sided p = ${fmt(pValue)} (standard error ${fmt(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${fmt(df)} over reseeded refits`) + `; level ${options.alpha}).`,
       evidence: {
@@ -62980,10 +62983,19 @@ function checkScoreRegression(evidence, options) {
         standardError: Number.isFinite(standardError) ? standardError : null,
         welchDf: df,
         pValue,
-        alpha: options.alpha
+        alpha: options.alpha,
+        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null
       }
     }
   ];
+}
+function pooledSd(evidence) {
+  const { baseScores, headScores, pairedBootstrap: pairedBootstrap2 } = evidence;
+  if (baseScores.length >= 2 && headScores.length >= 2) {
+    return Math.sqrt((summary2(baseScores).sd ** 2 + summary2(headScores).sd ** 2) / 2);
+  }
+  if (pairedBootstrap2 && pairedBootstrap2.length >= 2) return summary2(pairedBootstrap2).sd;
+  return NaN;
 }
 function summary2(values) {
   const m = mean(values);
@@ -63807,7 +63819,8 @@ var fixedSettings = {
   persistence: 0.9,
   singleFeatureTop: 3,
   singleFeatureMaxExtra: 20,
-  slices: { maxLevels: 20, minRows: 30 }
+  slices: { maxLevels: 20, minRows: 30 },
+  scoreBlockAtSds: 3
 };
 function builtinLearnerSettings(config2) {
   const m = config2.model.kind === "builtin" ? config2.model : { learner: "gradient-boosting", ...defaultBoosting };
@@ -63837,7 +63850,7 @@ function gateSettings(config2) {
       agreementPercentile: config2.checks.rankShift.agreementPercentile,
       persistence: fixedSettings.persistence
     },
-    score: config2.checks.score,
+    score: { ...config2.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
     holdoutRows: config2.checks.holdoutRows.action,
     featureSet: "warn"
   };
@@ -63867,7 +63880,7 @@ function gateSettings(config2) {
         "min_relative_change (fixed)": fixedSettings.minRelativeChange,
         "rbo_persistence (fixed)": fixedSettings.persistence
       },
-      score: snakeKeys(config2.checks.score),
+      score: { ...snakeKeys(config2.checks.score), "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
       holdout_rows: snakeKeys(config2.checks.holdoutRows)
     }
   };
@@ -63881,7 +63894,8 @@ var measureInTurn = async ([base, head]) => [
   await measureSide(base.inputs, base.options),
   await measureSide(head.inputs, head.options)
 ];
-async function runGate(inputs) {
+async function runGate(gateInputs) {
+  const inputs = { ...gateInputs, head: { ...gateInputs.head, holdout: alignHoldout(gateInputs.base.holdout, gateInputs.head.holdout) } };
   const settings = gateSettings(inputs.config);
   const { task } = settings;
   const metric = metricByName(settings.metric, task);
@@ -64019,6 +64033,20 @@ async function runGate(inputs) {
     timings,
     caution: reportCaution
   };
+}
+function alignHoldout(base, head) {
+  if (!base.ids || !head.ids || base.rows !== head.rows) return head;
+  const position = /* @__PURE__ */ new Map();
+  head.ids.values.forEach((id, i) => position.set(id, i));
+  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return head;
+  const order3 = [];
+  for (const id of base.ids.values) {
+    const i = position.get(id);
+    if (i === void 0) return head;
+    order3.push(i);
+  }
+  if (order3.every((i, k) => i === k)) return head;
+  return selectRows(head, order3);
 }
 function identity(holdout) {
   return {

@@ -11,7 +11,7 @@ import { rankFeatures, type SideResult } from './checks/side-result.ts'
 import { decideVerdict, sortFindings, writeHeadline } from './checks/verdict.ts'
 import { demoteConsequences } from './checks/demote-consequences.ts'
 import type { GateConfig } from './config.ts'
-import type { Dataset, FeatureMatrix, Task } from './data/dataset.ts'
+import { selectRows, type Dataset, type FeatureMatrix, type Task } from './data/dataset.ts'
 import { measureSide, type MeasureSideInputs, type MeasureSideOptions, type SideMeasurement } from './measure-side.ts'
 import { metricByName } from './metrics/metric-by-name.ts'
 import { createBuiltinFit, type BuiltinLearnerSettings } from './models/builtin-fit.ts'
@@ -70,7 +70,8 @@ export interface GateInputs {
   readonly now?: () => number
 }
 
-export async function runGate(inputs: GateInputs): Promise<GateReport> {
+export async function runGate(gateInputs: GateInputs): Promise<GateReport> {
+  const inputs = { ...gateInputs, head: { ...gateInputs.head, holdout: alignHoldout(gateInputs.base.holdout, gateInputs.head.holdout) } }
   const settings = gateSettings(inputs.config)
   const { task } = settings
   const metric = metricByName(settings.metric, task)
@@ -220,6 +221,26 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     timings,
     caution: reportCaution,
   }
+}
+
+/**
+ * The head's holdout in the base's row order when both have ids and hold the same ids (each once) in
+ * another order, so that a pull request that only reorders the holdout file compares row by row.
+ * Anything else is left as it is for the holdout-rows check to judge.
+ */
+function alignHoldout(base: Dataset, head: Dataset): Dataset {
+  if (!base.ids || !head.ids || base.rows !== head.rows) return head
+  const position = new Map<string, number>()
+  head.ids.values.forEach((id, i) => position.set(id, i))
+  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return head
+  const order: number[] = []
+  for (const id of base.ids.values) {
+    const i = position.get(id)
+    if (i === undefined) return head
+    order.push(i)
+  }
+  if (order.every((i, k) => i === k)) return head
+  return selectRows(head, order)
 }
 
 function identity(holdout: Dataset) {

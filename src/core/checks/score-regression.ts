@@ -13,6 +13,11 @@ export interface ScoreRegressionOptions {
   readonly tolerance: number
   /** One-sided significance level of the worsening beyond tolerance. */
   readonly alpha: number
+  /**
+   * A significant worsening blocks only from this many pooled reseed SDs of the score on; below it
+   * the finding warns (a retrain with a changed feature set moves the score a little anyway).
+   */
+  readonly blockAtSds?: number
 }
 
 export interface ScoreEvidence {
@@ -58,10 +63,13 @@ export function checkScoreRegression(evidence: ScoreEvidence, options: ScoreRegr
     pValue = worsening > options.tolerance ? 0 : 1
   }
   if (options.action === 'off' || !(worsening > options.tolerance) || !(pValue < options.alpha)) return []
+  const spread = pooledSd(evidence)
+  const worseningInSds = spread > 0 ? worsening / spread : Infinity
+  const severity = options.action === 'block' && worseningInSds < (options.blockAtSds ?? 0) ? 'warn' : options.action
   return [
     {
       kind: 'score-regression',
-      severity: options.action,
+      severity,
       title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (by ${fmt(worsening)}, beyond noise).`,
       message:
         `The candidate's mean holdout ${options.metric} is ${fmt(headMean)} against ${fmt(baseMean)} for the baseline ` +
@@ -78,9 +86,20 @@ export function checkScoreRegression(evidence: ScoreEvidence, options: ScoreRegr
         welchDf: df,
         pValue,
         alpha: options.alpha,
+        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null,
       },
     },
   ]
+}
+
+/** Pooled SD of the per-refit scores of both sides, or the paired bootstrap SD with one refit. */
+function pooledSd(evidence: ScoreEvidence): number {
+  const { baseScores, headScores, pairedBootstrap } = evidence
+  if (baseScores.length >= 2 && headScores.length >= 2) {
+    return Math.sqrt((summary(baseScores).sd ** 2 + summary(headScores).sd ** 2) / 2)
+  }
+  if (pairedBootstrap && pairedBootstrap.length >= 2) return summary(pairedBootstrap).sd
+  return NaN
 }
 
 function summary(values: readonly number[]) {
