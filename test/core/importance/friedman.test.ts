@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import type { Dataset } from '../../../src/core/data/dataset.ts'
+import type { Metric } from '../../../src/core/metrics/metric.ts'
 import { measureSide } from '../../../src/core/measure-side.ts'
 import { createBuiltinFit } from '../../../src/core/models/builtin-fit.ts'
 import { friedman1 } from '../models/gbt/friedman1.ts'
@@ -15,21 +16,26 @@ function dataset(rows: number, seed: number): Dataset {
 // when x_j of the TRUE function is replaced by an independent draw" (derived; numerical integration).
 const population: Record<string, number> = { x1: 12.972748, x2: 12.972748, x3: 40 / 9, x4: 50 / 3, x5: 25 / 6 }
 
+/** 5000 training rows, 2000 holdout rows, noise SD 1; 200 trees of depth 4; `refits` refits × 5 draws. */
+function measureFriedman(metric: Metric, refits: number) {
+  const train = dataset(5000, 1)
+  const holdout = dataset(2000, 101)
+  const fit = createBuiltinFit(train, 'regression', {
+    learner: 'gradient-boosting',
+    boosting: { trees: 200, maxDepth: 4, learningRate: 0.1, minRowsPerLeaf: 20, l2: 1, rowSubsample: 0.8, columnSubsample: 0.8 },
+    maxBins: 255,
+    linearL2: 1,
+  })
+  return measureSide(
+    { side: 'head', train, holdout, reference: train, fit },
+    { task: 'regression', metric, seed: 8, refits, draws: 5, groups: [], evaluationRows: 2000, referenceRows: 5000 },
+  )
+}
+
 describe('measureSide on Friedman #1 with the built-in gradient-boosted trees', () => {
   it('finds x6..x10 indistinguishable from zero and orders x4 > x1 ≈ x2 > x3 ≈ x5 as the population values predict', async () => {
     // 5000 training rows, 2000 holdout rows, noise SD 1; 200 trees of depth 4; 5 refits × 5 draws.
-    const train = dataset(5000, 1)
-    const holdout = dataset(2000, 101)
-    const fit = createBuiltinFit(train, 'regression', {
-      learner: 'gradient-boosting',
-      boosting: { trees: 200, maxDepth: 4, learningRate: 0.1, minRowsPerLeaf: 20, l2: 1, rowSubsample: 0.8, columnSubsample: 0.8 },
-      maxBins: 255,
-      linearL2: 1,
-    })
-    const side = await measureSide(
-      { side: 'head', train, holdout, reference: train, fit },
-      { task: 'regression', metric: meanSquaredError, seed: 8, refits: 5, draws: 5, groups: [], evaluationRows: 2000, referenceRows: 5000 },
-    )
+    const side = await measureFriedman(meanSquaredError, 5)
     const unit = Object.fromEntries(side.importances.map((u) => [u.name, u]))
     expect(side.noiseCovers).toBe('refits-and-draws')
     expect(new Set(side.refitSeeds).size).toBe(5)
@@ -77,18 +83,7 @@ describe('measureSide on Friedman #1 with the built-in gradient-boosted trees', 
     // The same data; RMSE is a mean over rows to first order, so the interval adds the holdout rows'
     // standard error (row-contributions.ts). Measured over 8 pairs of data and gate seeds at these
     // settings: 0 of 40 noise-feature intervals above zero, 40 of 40 informative ones above it.
-    const train = dataset(5000, 1)
-    const holdout = dataset(2000, 101)
-    const fit = createBuiltinFit(train, 'regression', {
-      learner: 'gradient-boosting',
-      boosting: { trees: 200, maxDepth: 4, learningRate: 0.1, minRowsPerLeaf: 20, l2: 1, rowSubsample: 0.8, columnSubsample: 0.8 },
-      maxBins: 255,
-      linearL2: 1,
-    })
-    const side = await measureSide(
-      { side: 'head', train, holdout, reference: train, fit },
-      { task: 'regression', metric: metricByName('rmse', 'regression'), seed: 8, refits: 3, draws: 5, groups: [], evaluationRows: 2000, referenceRows: 5000 },
-    )
+    const side = await measureFriedman(metricByName('rmse', 'regression'), 3)
     for (const unit of side.importances) {
       expect(unit.isAboveFloor, unit.name).toBe(Number(unit.name.slice(1)) <= 5)
     }
