@@ -19215,13 +19215,13 @@ var require_identity = __commonJS({
 var require_visit = __commonJS({
   "node_modules/yaml/dist/visit.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var BREAK = /* @__PURE__ */ Symbol("break visit");
     var SKIP = /* @__PURE__ */ Symbol("skip children");
     var REMOVE = /* @__PURE__ */ Symbol("remove node");
     function visit2(node2, visitor) {
       const visitor_ = initVisitor(visitor);
-      if (identity2.isDocument(node2)) {
+      if (identity.isDocument(node2)) {
         const cd = visit_(null, node2.contents, visitor_, Object.freeze([node2]));
         if (cd === REMOVE)
           node2.contents = null;
@@ -19233,12 +19233,12 @@ var require_visit = __commonJS({
     visit2.REMOVE = REMOVE;
     function visit_(key, node2, visitor, path) {
       const ctrl = callVisitor(key, node2, visitor, path);
-      if (identity2.isNode(ctrl) || identity2.isPair(ctrl)) {
+      if (identity.isNode(ctrl) || identity.isPair(ctrl)) {
         replaceNode(key, path, ctrl);
         return visit_(key, ctrl, visitor, path);
       }
       if (typeof ctrl !== "symbol") {
-        if (identity2.isCollection(node2)) {
+        if (identity.isCollection(node2)) {
           path = Object.freeze(path.concat(node2));
           for (let i = 0; i < node2.items.length; ++i) {
             const ci = visit_(i, node2.items[i], visitor, path);
@@ -19251,7 +19251,7 @@ var require_visit = __commonJS({
               i -= 1;
             }
           }
-        } else if (identity2.isPair(node2)) {
+        } else if (identity.isPair(node2)) {
           path = Object.freeze(path.concat(node2));
           const ck = visit_("key", node2.key, visitor, path);
           if (ck === BREAK)
@@ -19269,7 +19269,7 @@ var require_visit = __commonJS({
     }
     async function visitAsync(node2, visitor) {
       const visitor_ = initVisitor(visitor);
-      if (identity2.isDocument(node2)) {
+      if (identity.isDocument(node2)) {
         const cd = await visitAsync_(null, node2.contents, visitor_, Object.freeze([node2]));
         if (cd === REMOVE)
           node2.contents = null;
@@ -19281,12 +19281,12 @@ var require_visit = __commonJS({
     visitAsync.REMOVE = REMOVE;
     async function visitAsync_(key, node2, visitor, path) {
       const ctrl = await callVisitor(key, node2, visitor, path);
-      if (identity2.isNode(ctrl) || identity2.isPair(ctrl)) {
+      if (identity.isNode(ctrl) || identity.isPair(ctrl)) {
         replaceNode(key, path, ctrl);
         return visitAsync_(key, ctrl, visitor, path);
       }
       if (typeof ctrl !== "symbol") {
-        if (identity2.isCollection(node2)) {
+        if (identity.isCollection(node2)) {
           path = Object.freeze(path.concat(node2));
           for (let i = 0; i < node2.items.length; ++i) {
             const ci = await visitAsync_(i, node2.items[i], visitor, path);
@@ -19299,7 +19299,7 @@ var require_visit = __commonJS({
               i -= 1;
             }
           }
-        } else if (identity2.isPair(node2)) {
+        } else if (identity.isPair(node2)) {
           path = Object.freeze(path.concat(node2));
           const ck = await visitAsync_("key", node2.key, visitor, path);
           if (ck === BREAK)
@@ -19336,31 +19336,31 @@ var require_visit = __commonJS({
     function callVisitor(key, node2, visitor, path) {
       if (typeof visitor === "function")
         return visitor(key, node2, path);
-      if (identity2.isMap(node2))
+      if (identity.isMap(node2))
         return visitor.Map?.(key, node2, path);
-      if (identity2.isSeq(node2))
+      if (identity.isSeq(node2))
         return visitor.Seq?.(key, node2, path);
-      if (identity2.isPair(node2))
+      if (identity.isPair(node2))
         return visitor.Pair?.(key, node2, path);
-      if (identity2.isScalar(node2))
+      if (identity.isScalar(node2))
         return visitor.Scalar?.(key, node2, path);
-      if (identity2.isAlias(node2))
+      if (identity.isAlias(node2))
         return visitor.Alias?.(key, node2, path);
       return void 0;
     }
     function replaceNode(key, path, node2) {
       const parent = path[path.length - 1];
-      if (identity2.isCollection(parent)) {
+      if (identity.isCollection(parent)) {
         parent.items[key] = node2;
-      } else if (identity2.isPair(parent)) {
+      } else if (identity.isPair(parent)) {
         if (key === "key")
           parent.key = node2;
         else
           parent.value = node2;
-      } else if (identity2.isDocument(parent)) {
+      } else if (identity.isDocument(parent)) {
         parent.contents = node2;
       } else {
-        const pt = identity2.isAlias(parent) ? "alias" : "scalar";
+        const pt = identity.isAlias(parent) ? "alias" : "scalar";
         throw new Error(`Cannot replace node with ${pt} parent`);
       }
     }
@@ -19373,7 +19373,7 @@ var require_visit = __commonJS({
 var require_directives = __commonJS({
   "node_modules/yaml/dist/doc/directives.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var visit2 = require_visit();
     var escapeChars = {
       "!": "%21",
@@ -19516,10 +19516,10 @@ var require_directives = __commonJS({
         const lines = this.yaml.explicit ? [`%YAML ${this.yaml.version || "1.2"}`] : [];
         const tagEntries = Object.entries(this.tags);
         let tagNames;
-        if (doc && tagEntries.length > 0 && identity2.isNode(doc.contents)) {
+        if (doc && tagEntries.length > 0 && identity.isNode(doc.contents)) {
           const tags = {};
           visit2.visit(doc.contents, (_key, node2) => {
-            if (identity2.isNode(node2) && node2.tag)
+            if (identity.isNode(node2) && node2.tag)
               tags[node2.tag] = true;
           });
           tagNames = Object.keys(tags);
@@ -19544,7 +19544,7 @@ var require_directives = __commonJS({
 var require_anchors = __commonJS({
   "node_modules/yaml/dist/doc/anchors.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var visit2 = require_visit();
     function anchorIsValid(anchor2) {
       if (/[\x00-\x19\s,[\]{}]/.test(anchor2)) {
@@ -19591,7 +19591,7 @@ var require_anchors = __commonJS({
         setAnchors: () => {
           for (const source of aliasObjects) {
             const ref = sourceObjects.get(source);
-            if (typeof ref === "object" && ref.anchor && (identity2.isScalar(ref.node) || identity2.isCollection(ref.node))) {
+            if (typeof ref === "object" && ref.anchor && (identity.isScalar(ref.node) || identity.isCollection(ref.node))) {
               ref.node.anchor = ref.anchor;
             } else {
               const error63 = new Error("Failed to resolve repeated object (this should not happen)");
@@ -19664,12 +19664,12 @@ var require_applyReviver = __commonJS({
 var require_toJS = __commonJS({
   "node_modules/yaml/dist/nodes/toJS.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     function toJS(value, arg, ctx) {
       if (Array.isArray(value))
         return value.map((v, i) => toJS(v, String(i), ctx));
       if (value && typeof value.toJSON === "function") {
-        if (!ctx || !identity2.hasAnchor(value))
+        if (!ctx || !identity.hasAnchor(value))
           return value.toJSON(arg, ctx);
         const data = { aliasCount: 0, count: 1, res: void 0 };
         ctx.anchors.set(value, data);
@@ -19695,11 +19695,11 @@ var require_Node = __commonJS({
   "node_modules/yaml/dist/nodes/Node.js"(exports) {
     "use strict";
     var applyReviver = require_applyReviver();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var toJS = require_toJS();
     var NodeBase = class {
       constructor(type) {
-        Object.defineProperty(this, identity2.NODE_TYPE, { value: type });
+        Object.defineProperty(this, identity.NODE_TYPE, { value: type });
       }
       /** Create a copy of this node.  */
       clone() {
@@ -19710,7 +19710,7 @@ var require_Node = __commonJS({
       }
       /** A plain JavaScript representation of this node. */
       toJS(doc, { mapAsMap, maxAliasCount, onAnchor, reviver } = {}) {
-        if (!identity2.isDocument(doc))
+        if (!identity.isDocument(doc))
           throw new TypeError("A document argument is required");
         const ctx = {
           anchors: /* @__PURE__ */ new Map(),
@@ -19737,12 +19737,12 @@ var require_Alias = __commonJS({
     "use strict";
     var anchors = require_anchors();
     var visit2 = require_visit();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Node = require_Node();
     var toJS = require_toJS();
     var Alias = class extends Node.NodeBase {
       constructor(source) {
-        super(identity2.ALIAS);
+        super(identity.ALIAS);
         this.source = source;
         Object.defineProperty(this, "tag", {
           set() {
@@ -19764,7 +19764,7 @@ var require_Alias = __commonJS({
           nodes = [];
           visit2.visit(doc, {
             Node: (_key, node2) => {
-              if (identity2.isAlias(node2) || identity2.hasAnchor(node2))
+              if (identity.isAlias(node2) || identity.hasAnchor(node2))
                 nodes.push(node2);
             }
           });
@@ -19826,11 +19826,11 @@ var require_Alias = __commonJS({
       }
     };
     function getAliasCount(doc, node2, anchors2) {
-      if (identity2.isAlias(node2)) {
+      if (identity.isAlias(node2)) {
         const source = node2.resolve(doc);
         const anchor2 = anchors2 && source && anchors2.get(source);
         return anchor2 ? anchor2.count * anchor2.aliasCount : 0;
-      } else if (identity2.isCollection(node2)) {
+      } else if (identity.isCollection(node2)) {
         let count3 = 0;
         for (const item of node2.items) {
           const c = getAliasCount(doc, item, anchors2);
@@ -19838,7 +19838,7 @@ var require_Alias = __commonJS({
             count3 = c;
         }
         return count3;
-      } else if (identity2.isPair(node2)) {
+      } else if (identity.isPair(node2)) {
         const kc = getAliasCount(doc, node2.key, anchors2);
         const vc = getAliasCount(doc, node2.value, anchors2);
         return Math.max(kc, vc);
@@ -19853,13 +19853,13 @@ var require_Alias = __commonJS({
 var require_Scalar = __commonJS({
   "node_modules/yaml/dist/nodes/Scalar.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Node = require_Node();
     var toJS = require_toJS();
     var isScalarValue = (value) => !value || typeof value !== "function" && typeof value !== "object";
     var Scalar = class extends Node.NodeBase {
       constructor(value) {
-        super(identity2.SCALAR);
+        super(identity.SCALAR);
         this.value = value;
       }
       toJSON(arg, ctx) {
@@ -19884,7 +19884,7 @@ var require_createNode = __commonJS({
   "node_modules/yaml/dist/doc/createNode.js"(exports) {
     "use strict";
     var Alias = require_Alias();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Scalar = require_Scalar();
     var defaultTagPrefix = "tag:yaml.org,2002:";
     function findTagObject(value, tagName, tags) {
@@ -19898,12 +19898,12 @@ var require_createNode = __commonJS({
       return tags.find((t) => t.identify?.(value) && !t.format);
     }
     function createNode(value, tagName, ctx) {
-      if (identity2.isDocument(value))
+      if (identity.isDocument(value))
         value = value.contents;
-      if (identity2.isNode(value))
+      if (identity.isNode(value))
         return value;
-      if (identity2.isPair(value)) {
-        const map2 = ctx.schema[identity2.MAP].createNode?.(ctx.schema, null, ctx);
+      if (identity.isPair(value)) {
+        const map2 = ctx.schema[identity.MAP].createNode?.(ctx.schema, null, ctx);
         map2.items.push(value);
         return map2;
       }
@@ -19935,7 +19935,7 @@ var require_createNode = __commonJS({
             ref.node = node3;
           return node3;
         }
-        tagObj = value instanceof Map ? schema[identity2.MAP] : Symbol.iterator in Object(value) ? schema[identity2.SEQ] : schema[identity2.MAP];
+        tagObj = value instanceof Map ? schema[identity.MAP] : Symbol.iterator in Object(value) ? schema[identity.SEQ] : schema[identity.MAP];
       }
       if (onTagObj) {
         onTagObj(tagObj);
@@ -19959,7 +19959,7 @@ var require_Collection = __commonJS({
   "node_modules/yaml/dist/nodes/Collection.js"(exports) {
     "use strict";
     var createNode = require_createNode();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Node = require_Node();
     function collectionFromPath(schema, path, value) {
       let v = value;
@@ -20003,7 +20003,7 @@ var require_Collection = __commonJS({
         const copy = Object.create(Object.getPrototypeOf(this), Object.getOwnPropertyDescriptors(this));
         if (schema)
           copy.schema = schema;
-        copy.items = copy.items.map((it) => identity2.isNode(it) || identity2.isPair(it) ? it.clone(schema) : it);
+        copy.items = copy.items.map((it) => identity.isNode(it) || identity.isPair(it) ? it.clone(schema) : it);
         if (this.range)
           copy.range = this.range.slice();
         return copy;
@@ -20019,7 +20019,7 @@ var require_Collection = __commonJS({
         else {
           const [key, ...rest] = path;
           const node2 = this.get(key, true);
-          if (identity2.isCollection(node2))
+          if (identity.isCollection(node2))
             node2.addIn(rest, value);
           else if (node2 === void 0 && this.schema)
             this.set(key, collectionFromPath(this.schema, rest, value));
@@ -20036,7 +20036,7 @@ var require_Collection = __commonJS({
         if (rest.length === 0)
           return this.delete(key);
         const node2 = this.get(key, true);
-        if (identity2.isCollection(node2))
+        if (identity.isCollection(node2))
           return node2.deleteIn(rest);
         else
           throw new Error(`Expected YAML collection at ${key}. Remaining path: ${rest}`);
@@ -20050,16 +20050,16 @@ var require_Collection = __commonJS({
         const [key, ...rest] = path;
         const node2 = this.get(key, true);
         if (rest.length === 0)
-          return !keepScalar && identity2.isScalar(node2) ? node2.value : node2;
+          return !keepScalar && identity.isScalar(node2) ? node2.value : node2;
         else
-          return identity2.isCollection(node2) ? node2.getIn(rest, keepScalar) : void 0;
+          return identity.isCollection(node2) ? node2.getIn(rest, keepScalar) : void 0;
       }
       hasAllNullValues(allowScalar) {
         return this.items.every((node2) => {
-          if (!identity2.isPair(node2))
+          if (!identity.isPair(node2))
             return false;
           const n = node2.value;
-          return n == null || allowScalar && identity2.isScalar(n) && n.value == null && !n.commentBefore && !n.comment && !n.tag;
+          return n == null || allowScalar && identity.isScalar(n) && n.value == null && !n.commentBefore && !n.comment && !n.tag;
         });
       }
       /**
@@ -20070,7 +20070,7 @@ var require_Collection = __commonJS({
         if (rest.length === 0)
           return this.has(key);
         const node2 = this.get(key, true);
-        return identity2.isCollection(node2) ? node2.hasIn(rest) : false;
+        return identity.isCollection(node2) ? node2.hasIn(rest) : false;
       }
       /**
        * Sets a value in this collection. For `!!set`, `value` needs to be a
@@ -20082,7 +20082,7 @@ var require_Collection = __commonJS({
           this.set(key, value);
         } else {
           const node2 = this.get(key, true);
-          if (identity2.isCollection(node2))
+          if (identity.isCollection(node2))
             node2.setIn(rest, value);
           else if (node2 === void 0 && this.schema)
             this.set(key, collectionFromPath(this.schema, rest, value));
@@ -20538,7 +20538,7 @@ var require_stringify = __commonJS({
   "node_modules/yaml/dist/stringify/stringify.js"(exports) {
     "use strict";
     var anchors = require_anchors();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var stringifyComment = require_stringifyComment();
     var stringifyString = require_stringifyString();
     function createStringifyContext(doc, options) {
@@ -20591,7 +20591,7 @@ var require_stringify = __commonJS({
       }
       let tagObj = void 0;
       let obj;
-      if (identity2.isScalar(item)) {
+      if (identity.isScalar(item)) {
         obj = item.value;
         let match = tags.filter((t) => t.identify?.(obj));
         if (match.length > 1) {
@@ -20614,7 +20614,7 @@ var require_stringify = __commonJS({
       if (!doc.directives)
         return "";
       const props = [];
-      const anchor2 = (identity2.isScalar(node2) || identity2.isCollection(node2)) && node2.anchor;
+      const anchor2 = (identity.isScalar(node2) || identity.isCollection(node2)) && node2.anchor;
       if (anchor2 && anchors.anchorIsValid(anchor2)) {
         anchors$1.add(anchor2);
         props.push(`&${anchor2}`);
@@ -20625,9 +20625,9 @@ var require_stringify = __commonJS({
       return props.join(" ");
     }
     function stringify(item, ctx, onComment, onChompKeep) {
-      if (identity2.isPair(item))
+      if (identity.isPair(item))
         return item.toString(ctx, onComment, onChompKeep);
-      if (identity2.isAlias(item)) {
+      if (identity.isAlias(item)) {
         if (ctx.doc.directives)
           return item.toString(ctx);
         if (ctx.resolvedAliases?.has(item)) {
@@ -20641,15 +20641,15 @@ var require_stringify = __commonJS({
         }
       }
       let tagObj = void 0;
-      const node2 = identity2.isNode(item) ? item : ctx.doc.createNode(item, { onTagObj: (o) => tagObj = o });
+      const node2 = identity.isNode(item) ? item : ctx.doc.createNode(item, { onTagObj: (o) => tagObj = o });
       tagObj ?? (tagObj = getTagObject(ctx.doc.schema.tags, node2));
       const props = stringifyProps(node2, tagObj, ctx);
       if (props.length > 0)
         ctx.indentAtStart = (ctx.indentAtStart ?? 0) + props.length + 1;
-      const str = typeof tagObj.stringify === "function" ? tagObj.stringify(node2, ctx, onComment, onChompKeep) : identity2.isScalar(node2) ? stringifyString.stringifyString(node2, ctx, onComment, onChompKeep) : node2.toString(ctx, onComment, onChompKeep);
+      const str = typeof tagObj.stringify === "function" ? tagObj.stringify(node2, ctx, onComment, onChompKeep) : identity.isScalar(node2) ? stringifyString.stringifyString(node2, ctx, onComment, onChompKeep) : node2.toString(ctx, onComment, onChompKeep);
       if (!props)
         return str;
-      return identity2.isScalar(node2) || str[0] === "{" || str[0] === "[" ? `${props} ${str}` : `${props}
+      return identity.isScalar(node2) || str[0] === "{" || str[0] === "[" ? `${props} ${str}` : `${props}
 ${ctx.indent}${str}`;
     }
     exports.createStringifyContext = createStringifyContext;
@@ -20661,23 +20661,23 @@ ${ctx.indent}${str}`;
 var require_stringifyPair = __commonJS({
   "node_modules/yaml/dist/stringify/stringifyPair.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Scalar = require_Scalar();
     var stringify = require_stringify();
     var stringifyComment = require_stringifyComment();
     function stringifyPair({ key, value }, ctx, onComment, onChompKeep) {
       const { allNullValues, doc, indent, indentStep, options: { commentString, indentSeq, simpleKeys } } = ctx;
-      let keyComment = identity2.isNode(key) && key.comment || null;
+      let keyComment = identity.isNode(key) && key.comment || null;
       if (simpleKeys) {
         if (keyComment) {
           throw new Error("With simple keys, key nodes cannot have comments");
         }
-        if (identity2.isCollection(key) || !identity2.isNode(key) && typeof key === "object") {
+        if (identity.isCollection(key) || !identity.isNode(key) && typeof key === "object") {
           const msg = "With simple keys, collection cannot be used as a key value";
           throw new Error(msg);
         }
       }
-      let explicitKey = !simpleKeys && (!key || keyComment && value == null && !ctx.inFlow || identity2.isCollection(key) || (identity2.isScalar(key) ? key.type === Scalar.Scalar.BLOCK_FOLDED || key.type === Scalar.Scalar.BLOCK_LITERAL : typeof key === "object"));
+      let explicitKey = !simpleKeys && (!key || keyComment && value == null && !ctx.inFlow || identity.isCollection(key) || (identity.isScalar(key) ? key.type === Scalar.Scalar.BLOCK_FOLDED || key.type === Scalar.Scalar.BLOCK_LITERAL : typeof key === "object"));
       ctx = Object.assign({}, ctx, {
         allNullValues: false,
         implicitKey: !explicitKey && (simpleKeys || !allNullValues),
@@ -20718,7 +20718,7 @@ ${indent}:`;
           str += stringifyComment.lineComment(str, ctx.indent, commentString(keyComment));
       }
       let vsb, vcb, valueComment;
-      if (identity2.isNode(value)) {
+      if (identity.isNode(value)) {
         vsb = !!value.spaceBefore;
         vcb = value.commentBefore;
         valueComment = value.comment;
@@ -20730,10 +20730,10 @@ ${indent}:`;
           value = doc.createNode(value);
       }
       ctx.implicitKey = false;
-      if (!explicitKey && !keyComment && identity2.isScalar(value))
+      if (!explicitKey && !keyComment && identity.isScalar(value))
         ctx.indentAtStart = str.length + 1;
       chompKeep = false;
-      if (!indentSeq && indentStep.length >= 2 && !ctx.inFlow && !explicitKey && identity2.isSeq(value) && !value.flow && !value.tag && !value.anchor) {
+      if (!indentSeq && indentStep.length >= 2 && !ctx.inFlow && !explicitKey && identity.isSeq(value) && !value.flow && !value.tag && !value.anchor) {
         ctx.indent = ctx.indent.substring(2);
       }
       let valueCommentDone = false;
@@ -20753,7 +20753,7 @@ ${stringifyComment.indentComment(cs, ctx.indent)}`;
           ws += `
 ${ctx.indent}`;
         }
-      } else if (!explicitKey && identity2.isCollection(value)) {
+      } else if (!explicitKey && identity.isCollection(value)) {
         const vs0 = valueStr[0];
         const nl0 = valueStr.indexOf("\n");
         const hasNewline = nl0 !== -1;
@@ -20816,7 +20816,7 @@ var require_log = __commonJS({
 var require_merge = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/merge.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Scalar = require_Scalar();
     var MERGE_KEY = "<<";
     var merge3 = {
@@ -20829,10 +20829,10 @@ var require_merge = __commonJS({
       }),
       stringify: () => MERGE_KEY
     };
-    var isMergeKey = (ctx, key) => (merge3.identify(key) || identity2.isScalar(key) && (!key.type || key.type === Scalar.Scalar.PLAIN) && merge3.identify(key.value)) && ctx?.doc.schema.tags.some((tag) => tag.tag === merge3.tag && tag.default);
+    var isMergeKey = (ctx, key) => (merge3.identify(key) || identity.isScalar(key) && (!key.type || key.type === Scalar.Scalar.PLAIN) && merge3.identify(key.value)) && ctx?.doc.schema.tags.some((tag) => tag.tag === merge3.tag && tag.default);
     function addMergeToJSMap(ctx, map2, value) {
       const source = resolveAliasValue(ctx, value);
-      if (identity2.isSeq(source))
+      if (identity.isSeq(source))
         for (const it of source.items)
           mergeValue(ctx, map2, it);
       else if (Array.isArray(source))
@@ -20843,7 +20843,7 @@ var require_merge = __commonJS({
     }
     function mergeValue(ctx, map2, value) {
       const source = resolveAliasValue(ctx, value);
-      if (!identity2.isMap(source))
+      if (!identity.isMap(source))
         throw new Error("Merge sources must be maps or map aliases");
       const srcMap = source.toJSON(null, ctx, Map);
       for (const [key, value2] of srcMap) {
@@ -20864,7 +20864,7 @@ var require_merge = __commonJS({
       return map2;
     }
     function resolveAliasValue(ctx, value) {
-      return ctx && identity2.isAlias(value) ? value.resolve(ctx.doc, ctx) : value;
+      return ctx && identity.isAlias(value) ? value.resolve(ctx.doc, ctx) : value;
     }
     exports.addMergeToJSMap = addMergeToJSMap;
     exports.isMergeKey = isMergeKey;
@@ -20879,10 +20879,10 @@ var require_addPairToJSMap = __commonJS({
     var log = require_log();
     var merge3 = require_merge();
     var stringify = require_stringify();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var toJS = require_toJS();
     function addPairToJSMap(ctx, map2, { key, value }) {
-      if (identity2.isNode(key) && key.addToJSMap)
+      if (identity.isNode(key) && key.addToJSMap)
         key.addToJSMap(ctx, map2, value);
       else if (merge3.isMergeKey(ctx, key))
         merge3.addMergeToJSMap(ctx, map2, value);
@@ -20913,7 +20913,7 @@ var require_addPairToJSMap = __commonJS({
         return "";
       if (typeof jsKey !== "object")
         return String(jsKey);
-      if (identity2.isNode(key) && ctx?.doc) {
+      if (identity.isNode(key) && ctx?.doc) {
         const strCtx = stringify.createStringifyContext(ctx.doc, {});
         strCtx.anchors = /* @__PURE__ */ new Set();
         for (const node2 of ctx.anchors.keys())
@@ -20943,7 +20943,7 @@ var require_Pair = __commonJS({
     var createNode = require_createNode();
     var stringifyPair = require_stringifyPair();
     var addPairToJSMap = require_addPairToJSMap();
-    var identity2 = require_identity();
+    var identity = require_identity();
     function createPair(key, value, ctx) {
       const k = createNode.createNode(key, void 0, ctx);
       const v = createNode.createNode(value, void 0, ctx);
@@ -20951,15 +20951,15 @@ var require_Pair = __commonJS({
     }
     var Pair = class _Pair {
       constructor(key, value = null) {
-        Object.defineProperty(this, identity2.NODE_TYPE, { value: identity2.PAIR });
+        Object.defineProperty(this, identity.NODE_TYPE, { value: identity.PAIR });
         this.key = key;
         this.value = value;
       }
       clone(schema) {
         let { key, value } = this;
-        if (identity2.isNode(key))
+        if (identity.isNode(key))
           key = key.clone(schema);
-        if (identity2.isNode(value))
+        if (identity.isNode(value))
           value = value.clone(schema);
         return new _Pair(key, value);
       }
@@ -20980,7 +20980,7 @@ var require_Pair = __commonJS({
 var require_stringifyCollection = __commonJS({
   "node_modules/yaml/dist/stringify/stringifyCollection.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var stringify = require_stringify();
     var stringifyComment = require_stringifyComment();
     function stringifyCollection(collection, ctx, options) {
@@ -20996,14 +20996,14 @@ var require_stringifyCollection = __commonJS({
       for (let i = 0; i < items.length; ++i) {
         const item = items[i];
         let comment2 = null;
-        if (identity2.isNode(item)) {
+        if (identity.isNode(item)) {
           if (!chompKeep && item.spaceBefore)
             lines.push("");
           addCommentBefore(ctx, lines, item.commentBefore, chompKeep);
           if (item.comment)
             comment2 = item.comment;
-        } else if (identity2.isPair(item)) {
-          const ik = identity2.isNode(item.key) ? item.key : null;
+        } else if (identity.isPair(item)) {
+          const ik = identity.isNode(item.key) ? item.key : null;
           if (ik) {
             if (!chompKeep && ik.spaceBefore)
               lines.push("");
@@ -21051,14 +21051,14 @@ ${indent}${line}` : "\n";
       for (let i = 0; i < items.length; ++i) {
         const item = items[i];
         let comment = null;
-        if (identity2.isNode(item)) {
+        if (identity.isNode(item)) {
           if (item.spaceBefore)
             lines.push("");
           addCommentBefore(ctx, lines, item.commentBefore, false);
           if (item.comment)
             comment = item.comment;
-        } else if (identity2.isPair(item)) {
-          const ik = identity2.isNode(item.key) ? item.key : null;
+        } else if (identity.isPair(item)) {
+          const ik = identity.isNode(item.key) ? item.key : null;
           if (ik) {
             if (ik.spaceBefore)
               lines.push("");
@@ -21066,7 +21066,7 @@ ${indent}${line}` : "\n";
             if (ik.comment)
               reqNewline = true;
           }
-          const iv = identity2.isNode(item.value) ? item.value : null;
+          const iv = identity.isNode(item.value) ? item.value : null;
           if (iv) {
             if (iv.comment)
               comment = iv.comment;
@@ -21134,16 +21134,16 @@ var require_YAMLMap = __commonJS({
     var stringifyCollection = require_stringifyCollection();
     var addPairToJSMap = require_addPairToJSMap();
     var Collection2 = require_Collection();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Pair = require_Pair();
     var Scalar = require_Scalar();
     function findPair(items, key) {
-      const k = identity2.isScalar(key) ? key.value : key;
+      const k = identity.isScalar(key) ? key.value : key;
       for (const it of items) {
-        if (identity2.isPair(it)) {
+        if (identity.isPair(it)) {
           if (it.key === key || it.key === k)
             return it;
-          if (identity2.isScalar(it.key) && it.key.value === k)
+          if (identity.isScalar(it.key) && it.key.value === k)
             return it;
         }
       }
@@ -21154,7 +21154,7 @@ var require_YAMLMap = __commonJS({
         return "tag:yaml.org,2002:map";
       }
       constructor(schema) {
-        super(identity2.MAP, schema);
+        super(identity.MAP, schema);
         this.items = [];
       }
       /**
@@ -21192,7 +21192,7 @@ var require_YAMLMap = __commonJS({
        */
       add(pair, overwrite) {
         let _pair;
-        if (identity2.isPair(pair))
+        if (identity.isPair(pair))
           _pair = pair;
         else if (!pair || typeof pair !== "object" || !("key" in pair)) {
           _pair = new Pair.Pair(pair, pair?.value);
@@ -21203,7 +21203,7 @@ var require_YAMLMap = __commonJS({
         if (prev) {
           if (!overwrite)
             throw new Error(`Key ${_pair.key} already set`);
-          if (identity2.isScalar(prev.value) && Scalar.isScalarValue(_pair.value))
+          if (identity.isScalar(prev.value) && Scalar.isScalarValue(_pair.value))
             prev.value.value = _pair.value;
           else
             prev.value = _pair.value;
@@ -21227,7 +21227,7 @@ var require_YAMLMap = __commonJS({
       get(key, keepScalar) {
         const it = findPair(this.items, key);
         const node2 = it?.value;
-        return (!keepScalar && identity2.isScalar(node2) ? node2.value : node2) ?? void 0;
+        return (!keepScalar && identity.isScalar(node2) ? node2.value : node2) ?? void 0;
       }
       has(key) {
         return !!findPair(this.items, key);
@@ -21252,7 +21252,7 @@ var require_YAMLMap = __commonJS({
         if (!ctx)
           return JSON.stringify(this);
         for (const item of this.items) {
-          if (!identity2.isPair(item))
+          if (!identity.isPair(item))
             throw new Error(`Map items must all be pairs; found ${JSON.stringify(item)} instead`);
         }
         if (!ctx.allNullValues && this.hasAllNullValues(false))
@@ -21275,7 +21275,7 @@ var require_YAMLMap = __commonJS({
 var require_map = __commonJS({
   "node_modules/yaml/dist/schema/common/map.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var YAMLMap = require_YAMLMap();
     var map2 = {
       collection: "map",
@@ -21283,7 +21283,7 @@ var require_map = __commonJS({
       nodeClass: YAMLMap.YAMLMap,
       tag: "tag:yaml.org,2002:map",
       resolve(map3, onError) {
-        if (!identity2.isMap(map3))
+        if (!identity.isMap(map3))
           onError("Expected a mapping for this tag");
         return map3;
       },
@@ -21300,7 +21300,7 @@ var require_YAMLSeq = __commonJS({
     var createNode = require_createNode();
     var stringifyCollection = require_stringifyCollection();
     var Collection2 = require_Collection();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Scalar = require_Scalar();
     var toJS = require_toJS();
     var YAMLSeq = class extends Collection2.Collection {
@@ -21308,7 +21308,7 @@ var require_YAMLSeq = __commonJS({
         return "tag:yaml.org,2002:seq";
       }
       constructor(schema) {
-        super(identity2.SEQ, schema);
+        super(identity.SEQ, schema);
         this.items = [];
       }
       add(value) {
@@ -21334,7 +21334,7 @@ var require_YAMLSeq = __commonJS({
         if (typeof idx !== "number")
           return void 0;
         const it = this.items[idx];
-        return !keepScalar && identity2.isScalar(it) ? it.value : it;
+        return !keepScalar && identity.isScalar(it) ? it.value : it;
       }
       /**
        * Checks if the collection includes a value with the key `key`.
@@ -21358,7 +21358,7 @@ var require_YAMLSeq = __commonJS({
         if (typeof idx !== "number")
           throw new Error(`Expected a valid index, not ${key}.`);
         const prev = this.items[idx];
-        if (identity2.isScalar(prev) && Scalar.isScalarValue(value))
+        if (identity.isScalar(prev) && Scalar.isScalarValue(value))
           prev.value = value;
         else
           this.items[idx] = value;
@@ -21400,7 +21400,7 @@ var require_YAMLSeq = __commonJS({
       }
     };
     function asItemIndex(key) {
-      let idx = identity2.isScalar(key) ? key.value : key;
+      let idx = identity.isScalar(key) ? key.value : key;
       if (idx && typeof idx === "string")
         idx = Number(idx);
       return typeof idx === "number" && Number.isInteger(idx) && idx >= 0 ? idx : null;
@@ -21413,7 +21413,7 @@ var require_YAMLSeq = __commonJS({
 var require_seq = __commonJS({
   "node_modules/yaml/dist/schema/common/seq.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var YAMLSeq = require_YAMLSeq();
     var seq = {
       collection: "seq",
@@ -21421,7 +21421,7 @@ var require_seq = __commonJS({
       nodeClass: YAMLSeq.YAMLSeq,
       tag: "tag:yaml.org,2002:seq",
       resolve(seq2, onError) {
-        if (!identity2.isSeq(seq2))
+        if (!identity.isSeq(seq2))
           onError("Expected a sequence for this tag");
         return seq2;
       },
@@ -21775,17 +21775,17 @@ var require_binary = __commonJS({
 var require_pairs = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/pairs.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Pair = require_Pair();
     var Scalar = require_Scalar();
     var YAMLSeq = require_YAMLSeq();
     function resolvePairs(seq, onError) {
-      if (identity2.isSeq(seq)) {
+      if (identity.isSeq(seq)) {
         for (let i = 0; i < seq.items.length; ++i) {
           let item = seq.items[i];
-          if (identity2.isPair(item))
+          if (identity.isPair(item))
             continue;
-          else if (identity2.isMap(item)) {
+          else if (identity.isMap(item)) {
             if (item.items.length > 1)
               onError("Each pair must have its own sequence indicator");
             const pair = item.items[0] || new Pair.Pair(new Scalar.Scalar(null));
@@ -21799,7 +21799,7 @@ ${cn.comment}` : item.comment;
             }
             item = pair;
           }
-          seq.items[i] = identity2.isPair(item) ? item : new Pair.Pair(item);
+          seq.items[i] = identity.isPair(item) ? item : new Pair.Pair(item);
         }
       } else
         onError("Expected a sequence for this tag");
@@ -21853,7 +21853,7 @@ ${cn.comment}` : item.comment;
 var require_omap = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/omap.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var toJS = require_toJS();
     var YAMLMap = require_YAMLMap();
     var YAMLSeq = require_YAMLSeq();
@@ -21880,7 +21880,7 @@ var require_omap = __commonJS({
           ctx.onCreate(map2);
         for (const pair of this.items) {
           let key, value;
-          if (identity2.isPair(pair)) {
+          if (identity.isPair(pair)) {
             key = toJS.toJS(pair.key, "", ctx);
             value = toJS.toJS(pair.value, key, ctx);
           } else {
@@ -21910,7 +21910,7 @@ var require_omap = __commonJS({
         const pairs$1 = pairs.resolvePairs(seq, onError);
         const seenKeys = [];
         for (const { key } of pairs$1.items) {
-          if (identity2.isScalar(key)) {
+          if (identity.isScalar(key)) {
             if (seenKeys.includes(key.value)) {
               onError(`Ordered maps must not include duplicate keys: ${key.value}`);
             } else {
@@ -22091,7 +22091,7 @@ var require_int2 = __commonJS({
 var require_set = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/set.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Pair = require_Pair();
     var YAMLMap = require_YAMLMap();
     var YAMLSet = class _YAMLSet extends YAMLMap.YAMLMap {
@@ -22101,7 +22101,7 @@ var require_set = __commonJS({
       }
       add(key) {
         let pair;
-        if (identity2.isPair(key))
+        if (identity.isPair(key))
           pair = key;
         else if (key && typeof key === "object" && "key" in key && "value" in key && key.value === null)
           pair = new Pair.Pair(key.key, null);
@@ -22117,7 +22117,7 @@ var require_set = __commonJS({
        */
       get(key, keepPair) {
         const pair = YAMLMap.findPair(this.items, key);
-        return !keepPair && identity2.isPair(pair) ? identity2.isScalar(pair.key) ? pair.key.value : pair.key : pair;
+        return !keepPair && identity.isPair(pair) ? identity.isScalar(pair.key) ? pair.key.value : pair.key : pair;
       }
       set(key, value) {
         if (typeof value !== "boolean")
@@ -22161,7 +22161,7 @@ var require_set = __commonJS({
       tag: "tag:yaml.org,2002:set",
       createNode: (schema, iterable, ctx) => YAMLSet.from(schema, iterable, ctx),
       resolve(map2, onError) {
-        if (identity2.isMap(map2)) {
+        if (identity.isMap(map2)) {
           if (map2.hasAllNullValues(true))
             return Object.assign(new YAMLSet(), map2);
           else
@@ -22406,7 +22406,7 @@ var require_tags = __commonJS({
 var require_Schema = __commonJS({
   "node_modules/yaml/dist/schema/Schema.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var map2 = require_map();
     var seq = require_seq();
     var string4 = require_string();
@@ -22419,9 +22419,9 @@ var require_Schema = __commonJS({
         this.knownTags = resolveKnownTags ? tags.coreKnownTags : {};
         this.tags = tags.getTags(customTags, this.name, merge3);
         this.toStringOptions = toStringDefaults ?? null;
-        Object.defineProperty(this, identity2.MAP, { value: map2.map });
-        Object.defineProperty(this, identity2.SCALAR, { value: string4.string });
-        Object.defineProperty(this, identity2.SEQ, { value: seq.seq });
+        Object.defineProperty(this, identity.MAP, { value: map2.map });
+        Object.defineProperty(this, identity.SCALAR, { value: string4.string });
+        Object.defineProperty(this, identity.SEQ, { value: seq.seq });
         this.sortMapEntries = typeof sortMapEntries === "function" ? sortMapEntries : sortMapEntries === true ? sortMapEntriesByKey : null;
       }
       clone() {
@@ -22438,7 +22438,7 @@ var require_Schema = __commonJS({
 var require_stringifyDocument = __commonJS({
   "node_modules/yaml/dist/stringify/stringifyDocument.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var stringify = require_stringify();
     var stringifyComment = require_stringifyComment();
     function stringifyDocument(doc, options) {
@@ -22465,7 +22465,7 @@ var require_stringifyDocument = __commonJS({
       let chompKeep = false;
       let contentComment = null;
       if (doc.contents) {
-        if (identity2.isNode(doc.contents)) {
+        if (identity.isNode(doc.contents)) {
           if (doc.contents.spaceBefore && hasDirectives)
             lines.push("");
           if (doc.contents.commentBefore) {
@@ -22520,7 +22520,7 @@ var require_Document = __commonJS({
     "use strict";
     var Alias = require_Alias();
     var Collection2 = require_Collection();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Pair = require_Pair();
     var toJS = require_toJS();
     var Schema = require_Schema();
@@ -22535,7 +22535,7 @@ var require_Document = __commonJS({
         this.comment = null;
         this.errors = [];
         this.warnings = [];
-        Object.defineProperty(this, identity2.NODE_TYPE, { value: identity2.DOC });
+        Object.defineProperty(this, identity.NODE_TYPE, { value: identity.DOC });
         let _replacer = null;
         if (typeof replacer === "function" || Array.isArray(replacer)) {
           _replacer = replacer;
@@ -22571,7 +22571,7 @@ var require_Document = __commonJS({
        */
       clone() {
         const copy = Object.create(_Document.prototype, {
-          [identity2.NODE_TYPE]: { value: identity2.DOC }
+          [identity.NODE_TYPE]: { value: identity.DOC }
         });
         copy.commentBefore = this.commentBefore;
         copy.comment = this.comment;
@@ -22581,7 +22581,7 @@ var require_Document = __commonJS({
         if (this.directives)
           copy.directives = this.directives.clone();
         copy.schema = this.schema.clone();
-        copy.contents = identity2.isNode(this.contents) ? this.contents.clone(copy.schema) : this.contents;
+        copy.contents = identity.isNode(this.contents) ? this.contents.clone(copy.schema) : this.contents;
         if (this.range)
           copy.range = this.range.slice();
         return copy;
@@ -22644,7 +22644,7 @@ var require_Document = __commonJS({
           sourceObjects
         };
         const node2 = createNode.createNode(value, tag, ctx);
-        if (flow && identity2.isCollection(node2))
+        if (flow && identity.isCollection(node2))
           node2.flow = true;
         setAnchors();
         return node2;
@@ -22684,7 +22684,7 @@ var require_Document = __commonJS({
        * `true` (collections are always returned intact).
        */
       get(key, keepScalar) {
-        return identity2.isCollection(this.contents) ? this.contents.get(key, keepScalar) : void 0;
+        return identity.isCollection(this.contents) ? this.contents.get(key, keepScalar) : void 0;
       }
       /**
        * Returns item at `path`, or `undefined` if not found. By default unwraps
@@ -22693,14 +22693,14 @@ var require_Document = __commonJS({
        */
       getIn(path, keepScalar) {
         if (Collection2.isEmptyPath(path))
-          return !keepScalar && identity2.isScalar(this.contents) ? this.contents.value : this.contents;
-        return identity2.isCollection(this.contents) ? this.contents.getIn(path, keepScalar) : void 0;
+          return !keepScalar && identity.isScalar(this.contents) ? this.contents.value : this.contents;
+        return identity.isCollection(this.contents) ? this.contents.getIn(path, keepScalar) : void 0;
       }
       /**
        * Checks if the document includes a value with the key `key`.
        */
       has(key) {
-        return identity2.isCollection(this.contents) ? this.contents.has(key) : false;
+        return identity.isCollection(this.contents) ? this.contents.has(key) : false;
       }
       /**
        * Checks if the document includes a value at `path`.
@@ -22708,7 +22708,7 @@ var require_Document = __commonJS({
       hasIn(path) {
         if (Collection2.isEmptyPath(path))
           return this.contents !== void 0;
-        return identity2.isCollection(this.contents) ? this.contents.hasIn(path) : false;
+        return identity.isCollection(this.contents) ? this.contents.hasIn(path) : false;
       }
       /**
        * Sets a value in this document. For `!!set`, `value` needs to be a
@@ -22815,7 +22815,7 @@ var require_Document = __commonJS({
       }
     };
     function assertCollection(contents) {
-      if (identity2.isCollection(contents))
+      if (identity.isCollection(contents))
         return true;
       throw new Error("Expected a YAML collection as document contents");
     }
@@ -23086,12 +23086,12 @@ var require_util_flow_indent_check = __commonJS({
 var require_util_map_includes = __commonJS({
   "node_modules/yaml/dist/compose/util-map-includes.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     function mapIncludes(ctx, items, search) {
       const { uniqueKeys } = ctx.options;
       if (uniqueKeys === false)
         return false;
-      const isEqual = typeof uniqueKeys === "function" ? uniqueKeys : (a, b) => a === b || identity2.isScalar(a) && identity2.isScalar(b) && a.value === b.value;
+      const isEqual = typeof uniqueKeys === "function" ? uniqueKeys : (a, b) => a === b || identity.isScalar(a) && identity.isScalar(b) && a.value === b.value;
       return items.some((pair) => isEqual(pair.key, search));
     }
     exports.mapIncludes = mapIncludes;
@@ -23304,7 +23304,7 @@ var require_resolve_end = __commonJS({
 var require_resolve_flow_collection = __commonJS({
   "node_modules/yaml/dist/compose/resolve-flow-collection.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Pair = require_Pair();
     var YAMLMap = require_YAMLMap();
     var YAMLSeq = require_YAMLSeq();
@@ -23383,7 +23383,7 @@ var require_resolve_flow_collection = __commonJS({
             }
             if (prevItemComment) {
               let prev = coll.items[coll.items.length - 1];
-              if (identity2.isPair(prev))
+              if (identity.isPair(prev))
                 prev = prev.value ?? prev.key;
               if (prev.comment)
                 prev.comment += "\n" + prevItemComment;
@@ -23498,7 +23498,7 @@ var require_resolve_flow_collection = __commonJS({
 var require_compose_collection = __commonJS({
   "node_modules/yaml/dist/compose/compose-collection.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Scalar = require_Scalar();
     var YAMLMap = require_YAMLMap();
     var YAMLSeq = require_YAMLSeq();
@@ -23548,7 +23548,7 @@ var require_compose_collection = __commonJS({
       }
       const coll = resolveCollection(CN, ctx, token, onError, tagName, tag);
       const res = tag.resolve?.(coll, (msg) => onError(tagToken, "TAG_RESOLVE_FAILED", msg), ctx.options) ?? coll;
-      const node2 = identity2.isNode(res) ? res : new Scalar.Scalar(res);
+      const node2 = identity.isNode(res) ? res : new Scalar.Scalar(res);
       node2.range = coll.range;
       node2.tag = tagName;
       if (tag?.format)
@@ -23967,7 +23967,7 @@ var require_resolve_flow_scalar = __commonJS({
 var require_compose_scalar = __commonJS({
   "node_modules/yaml/dist/compose/compose-scalar.js"(exports) {
     "use strict";
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Scalar = require_Scalar();
     var resolveBlockScalar = require_resolve_block_scalar();
     var resolveFlowScalar = require_resolve_flow_scalar();
@@ -23976,17 +23976,17 @@ var require_compose_scalar = __commonJS({
       const tagName = tagToken ? ctx.directives.tagName(tagToken.source, (msg) => onError(tagToken, "TAG_RESOLVE_FAILED", msg)) : null;
       let tag;
       if (ctx.options.stringKeys && ctx.atKey) {
-        tag = ctx.schema[identity2.SCALAR];
+        tag = ctx.schema[identity.SCALAR];
       } else if (tagName)
         tag = findScalarTagByName(ctx.schema, value, tagName, tagToken, onError);
       else if (token.type === "scalar")
         tag = findScalarTagByTest(ctx, value, token, onError);
       else
-        tag = ctx.schema[identity2.SCALAR];
+        tag = ctx.schema[identity.SCALAR];
       let scalar;
       try {
         const res = tag.resolve(value, (msg) => onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg), ctx.options);
-        scalar = identity2.isScalar(res) ? res : new Scalar.Scalar(res);
+        scalar = identity.isScalar(res) ? res : new Scalar.Scalar(res);
       } catch (error63) {
         const msg = error63 instanceof Error ? error63.message : String(error63);
         onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg);
@@ -24006,7 +24006,7 @@ var require_compose_scalar = __commonJS({
     }
     function findScalarTagByName(schema, value, tagName, tagToken, onError) {
       if (tagName === "!")
-        return schema[identity2.SCALAR];
+        return schema[identity.SCALAR];
       const matchWithTest = [];
       for (const tag of schema.tags) {
         if (!tag.collection && tag.tag === tagName) {
@@ -24025,12 +24025,12 @@ var require_compose_scalar = __commonJS({
         return kt;
       }
       onError(tagToken, "TAG_RESOLVE_FAILED", `Unresolved tag: ${tagName}`, tagName !== "tag:yaml.org,2002:str");
-      return schema[identity2.SCALAR];
+      return schema[identity.SCALAR];
     }
     function findScalarTagByTest({ atKey, directives, schema }, value, token, onError) {
-      const tag = schema.tags.find((tag2) => (tag2.default === true || atKey && tag2.default === "key") && tag2.test?.test(value)) || schema[identity2.SCALAR];
+      const tag = schema.tags.find((tag2) => (tag2.default === true || atKey && tag2.default === "key") && tag2.test?.test(value)) || schema[identity.SCALAR];
       if (schema.compat) {
-        const compat = schema.compat.find((tag2) => tag2.default && tag2.test?.test(value)) ?? schema[identity2.SCALAR];
+        const compat = schema.compat.find((tag2) => tag2.default && tag2.test?.test(value)) ?? schema[identity.SCALAR];
         if (tag.tag !== compat.tag) {
           const ts = directives.tagString(tag.tag);
           const cs = directives.tagString(compat.tag);
@@ -24079,7 +24079,7 @@ var require_compose_node = __commonJS({
   "node_modules/yaml/dist/compose/compose-node.js"(exports) {
     "use strict";
     var Alias = require_Alias();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var composeCollection = require_compose_collection();
     var composeScalar = require_compose_scalar();
     var resolveEnd = require_resolve_end();
@@ -24125,7 +24125,7 @@ var require_compose_node = __commonJS({
       node2 ?? (node2 = composeEmptyNode(ctx, token.offset, void 0, null, props, onError));
       if (anchor2 && node2.anchor === "")
         onError(anchor2, "BAD_ALIAS", "Anchor cannot be an empty string");
-      if (atKey && ctx.options.stringKeys && (!identity2.isScalar(node2) || typeof node2.value !== "string" || node2.tag && node2.tag !== "tag:yaml.org,2002:str")) {
+      if (atKey && ctx.options.stringKeys && (!identity.isScalar(node2) || typeof node2.value !== "string" || node2.tag && node2.tag !== "tag:yaml.org,2002:str")) {
         const msg = "With stringKeys, all keys must be strings";
         onError(tag ?? token, "NON_STRING_KEY", msg);
       }
@@ -24231,7 +24231,7 @@ var require_composer = __commonJS({
     var directives = require_directives();
     var Document = require_Document();
     var errors = require_errors2();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var composeDoc = require_compose_doc();
     var resolveEnd = require_resolve_end();
     function getErrorPos(src) {
@@ -24293,9 +24293,9 @@ var require_composer = __commonJS({
 ${comment}` : comment;
           } else if (afterEmptyLine || doc.directives.docStart || !dc) {
             doc.commentBefore = comment;
-          } else if (identity2.isCollection(dc) && !dc.flow && dc.items.length > 0) {
+          } else if (identity.isCollection(dc) && !dc.flow && dc.items.length > 0) {
             let it = dc.items[0];
-            if (identity2.isPair(it))
+            if (identity.isPair(it))
               it = it.key;
             const cb = it.commentBefore;
             it.commentBefore = cb ? `${comment}
@@ -26343,7 +26343,7 @@ var require_public_api = __commonJS({
     var Document = require_Document();
     var errors = require_errors2();
     var log = require_log();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var lineCounter = require_line_counter();
     var parser = require_parser();
     function parseOptions(options) {
@@ -26421,7 +26421,7 @@ var require_public_api = __commonJS({
         if (!keepUndefined)
           return void 0;
       }
-      if (identity2.isDocument(value) && !_replacer)
+      if (identity.isDocument(value) && !_replacer)
         return value.toString(options);
       return new Document.Document(value, _replacer, options).toString(options);
     }
@@ -26441,7 +26441,7 @@ var require_dist = __commonJS({
     var Schema = require_Schema();
     var errors = require_errors2();
     var Alias = require_Alias();
-    var identity2 = require_identity();
+    var identity = require_identity();
     var Pair = require_Pair();
     var Scalar = require_Scalar();
     var YAMLMap = require_YAMLMap();
@@ -26459,14 +26459,14 @@ var require_dist = __commonJS({
     exports.YAMLParseError = errors.YAMLParseError;
     exports.YAMLWarning = errors.YAMLWarning;
     exports.Alias = Alias.Alias;
-    exports.isAlias = identity2.isAlias;
-    exports.isCollection = identity2.isCollection;
-    exports.isDocument = identity2.isDocument;
-    exports.isMap = identity2.isMap;
-    exports.isNode = identity2.isNode;
-    exports.isPair = identity2.isPair;
-    exports.isScalar = identity2.isScalar;
-    exports.isSeq = identity2.isSeq;
+    exports.isAlias = identity.isAlias;
+    exports.isCollection = identity.isCollection;
+    exports.isDocument = identity.isDocument;
+    exports.isMap = identity.isMap;
+    exports.isNode = identity.isNode;
+    exports.isPair = identity.isPair;
+    exports.isScalar = identity.isScalar;
+    exports.isSeq = identity.isSeq;
     exports.Pair = Pair.Pair;
     exports.Scalar = Scalar.Scalar;
     exports.YAMLMap = YAMLMap.YAMLMap;
@@ -40547,1139 +40547,33 @@ function side(dataset, indices) {
   };
 }
 
-// src/core/models/gbt/bin-features.ts
-var MISSING_BIN = 255;
-function binFeatures(matrix, options = {}) {
-  const maxBins = options.maxBins ?? 255;
-  if (!Number.isInteger(maxBins) || maxBins < 2 || maxBins > 255) {
-    throw new RangeError(`binFeatures needs maxBins to be a whole number from 2 to 255, got ${maxBins}`);
+// src/core/data/side-data.ts
+function sideDataFiles(config2) {
+  const files = [{ role: "train", path: config2.data.train, key: "data.train", requireTarget: true, conformToTrain: false }];
+  if (config2.data.holdout.kind === "file") {
+    files.push({ role: "holdout", path: config2.data.holdout.path, key: "data.holdout", requireTarget: true, conformToTrain: true });
   }
-  if (matrix.columns.length !== matrix.features.length) {
-    throw new RangeError(
-      `binFeatures needs one column per feature, got ${matrix.columns.length} columns for ${matrix.features.length} features`
-    );
+  if (config2.data.reference.kind === "file") {
+    files.push({ role: "reference", path: config2.data.reference.path, key: "data.reference", requireTarget: false, conformToTrain: true });
   }
-  const n = matrix.rows;
-  const codes = [];
-  const upperEdges = [];
-  const binCounts = new Int32Array(matrix.columns.length);
-  for (let j = 0; j < matrix.columns.length; j++) {
-    const column = matrix.columns[j];
-    if (column.length !== n) {
-      throw new RangeError(`binFeatures: column '${matrix.features[j].name}' has ${column.length} values, expected ${n}`);
-    }
-    const edges = quantileEdges(column, maxBins);
-    upperEdges.push(edges);
-    binCounts[j] = edges.length;
-    codes.push(assignBins(column, edges));
-  }
-  return { rows: n, features: matrix.features, codes, binCounts, upperEdges };
+  return files;
 }
-function quantileEdges(column, maxBins) {
-  let present = 0;
-  for (let i = 0; i < column.length; i++) if (column[i] === column[i]) present++;
-  const sorted = new Float64Array(present);
-  let k = 0;
-  for (let i = 0; i < column.length; i++) if (column[i] === column[i]) sorted[k++] = column[i];
-  sorted.sort();
-  const values = new Float64Array(present);
-  const counts = new Int32Array(present);
-  let distinct = 0;
-  for (let i = 0; i < present; i++) {
-    if (distinct > 0 && sorted[i] === values[distinct - 1]) counts[distinct - 1]++;
-    else {
-      values[distinct] = sorted[i];
-      counts[distinct] = 1;
-      distinct++;
-    }
+function assembleSideData(config2, tables) {
+  const all = tables.train;
+  if (!all) throw new RangeError("assembleSideData needs the training table");
+  let train3 = all;
+  let holdout;
+  if (config2.data.holdout.kind === "split") {
+    const split = splitRows(all, { fraction: config2.data.holdout.fraction, seed: config2.seed, by: config2.data.holdout.by });
+    train3 = split.train;
+    holdout = split.holdout;
+  } else {
+    if (!tables.holdout) throw new RangeError("assembleSideData needs the holdout table the policy names");
+    holdout = tables.holdout;
   }
-  const edges = [];
-  let rowsLeft = present;
-  let binsLeft = maxBins;
-  let inBin = 0;
-  for (let d = 0; d < distinct; d++) {
-    inBin += counts[d];
-    const isLast = d === distinct - 1;
-    const closes = isLast || distinct <= maxBins || inBin * binsLeft >= rowsLeft;
-    if (!closes) continue;
-    edges.push(isLast ? values[d] : edgeBetween(values[d], values[d + 1]));
-    rowsLeft -= inBin;
-    binsLeft--;
-    inBin = 0;
-  }
-  return Float64Array.from(edges);
-}
-function edgeBetween(below, above) {
-  const mid = below + (above - below) / 2;
-  return mid < above ? mid : below;
-}
-function assignBins(column, edges) {
-  const out = new Uint8Array(column.length);
-  const last = edges.length - 1;
-  for (let i = 0; i < column.length; i++) {
-    const v = column[i];
-    if (v !== v) {
-      out[i] = MISSING_BIN;
-      continue;
-    }
-    let lo = 0;
-    let hi = last;
-    while (lo < hi) {
-      const mid = lo + hi >>> 1;
-      if (v <= edges[mid]) hi = mid;
-      else lo = mid + 1;
-    }
-    out[i] = lo;
-  }
-  return out;
-}
-
-// src/core/models/gbt/replacement-predictor.ts
-function createTreeReplacementPredictor(ensemble, base) {
-  const position = new Map(base.features.map((f, j) => [f.name, j]));
-  const names = ensemble.featureNames;
-  const columns = names.map((name) => {
-    const j = position.get(name);
-    if (j === void 0) throw new RangeError(`createTreeReplacementPredictor: the matrix has no feature named '${name}'`);
-    return base.columns[j];
-  });
-  const n = base.rows;
-  const trees = ensemble.trees;
-  const F = names.length;
-  const raw = new Float64Array(n).fill(ensemble.baseScore);
-  const leaf = [];
-  const touched = [];
-  const seenAt = new Int32Array(F).fill(-1);
-  for (let t = 0; t < trees.length; t++) {
-    const { feature, threshold, left, right, missingGoesLeft, value } = trees[t];
-    const leaves = new Float64Array(n);
-    const lists = Array.from({ length: F }, () => []);
-    for (let i = 0; i < n; i++) {
-      let node2 = 0;
-      let f = feature[0];
-      while (f >= 0) {
-        if (seenAt[f] !== i) {
-          seenAt[f] = i;
-          lists[f].push(i);
-        }
-        const v = columns[f][i];
-        node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
-        f = feature[node2];
-      }
-      leaves[i] = value[node2];
-      raw[i] += value[node2];
-    }
-    seenAt.fill(-1);
-    leaf.push(leaves);
-    touched.push(lists.map((l) => Int32Array.from(l)));
-  }
-  const isBinary = ensemble.task === "binary";
-  return {
-    rows: n,
-    predict(replaced, draws) {
-      const replacedIndex = [];
-      const replacement = [];
-      for (const [name, values] of replaced) {
-        const f = names.indexOf(name);
-        if (f < 0) continue;
-        if (values.length !== n * draws) {
-          throw new RangeError(`ReplacementPredictor.predict: '${name}' has ${values.length} values, expected ${n * draws}`);
-        }
-        replacedIndex.push(f);
-        replacement.push(values);
-      }
-      const out = new Float64Array(n * draws);
-      for (let k = 0; k < draws; k++) out.set(raw, k * n);
-      if (replacedIndex.length > 0) {
-        const isReplaced = new Int32Array(F).fill(-1);
-        replacedIndex.forEach((f, r) => isReplaced[f] = r);
-        const mark = new Uint8Array(n);
-        for (let t = 0; t < trees.length; t++) {
-          const { feature, threshold, left, right, missingGoesLeft, value } = trees[t];
-          const rows = unionRows(touched[t], replacedIndex, mark);
-          const leaves = leaf[t];
-          for (let k = 0; k < draws; k++) {
-            const offset = k * n;
-            for (let p = 0; p < rows.length; p++) {
-              const i = rows[p];
-              let node2 = 0;
-              let f = feature[0];
-              while (f >= 0) {
-                const r = isReplaced[f];
-                const v = r >= 0 ? replacement[r][offset + i] : columns[f][i];
-                node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
-                f = feature[node2];
-              }
-              out[offset + i] += value[node2] - leaves[i];
-            }
-          }
-        }
-      }
-      if (isBinary) for (let i = 0; i < out.length; i++) out[i] = 1 / (1 + Math.exp(-out[i]));
-      return out;
-    }
-  };
-}
-function unionRows(lists, features, mark) {
-  if (features.length === 1) return lists[features[0]];
-  const rows = [];
-  for (const f of features) {
-    for (const i of lists[f]) {
-      if (mark[i] === 0) {
-        mark[i] = 1;
-        rows.push(i);
-      }
-    }
-  }
-  for (const i of rows) mark[i] = 0;
-  rows.sort((a, b) => a - b);
-  return Int32Array.from(rows);
-}
-
-// src/core/models/gbt/boosted-model.ts
-var BoostedModel = class {
-  constructor(ensemble, splitStatistics) {
-    this.ensemble = ensemble;
-    this.splitStatistics = splitStatistics;
-    this.task = ensemble.task;
-    this.featureNames = ensemble.featureNames;
-  }
-  ensemble;
-  splitStatistics;
-  kind = "boosted-trees";
-  task;
-  featureNames;
-  /**
-   * Predictions over raw values ("raw" as opposed to bins): the regression value, or for a binary
-   * task the positive-class probability. Features are found by name in `matrix`, in any order; extra
-   * columns are ignored. Throws RangeError naming a feature the matrix lacks. Cost O(rows x trees x depth).
-   */
-  /** Permutation importance's fast path: see createTreeReplacementPredictor. */
-  createReplacementPredictor(base) {
-    return createTreeReplacementPredictor(this.ensemble, base);
-  }
-  predictRaw(matrix) {
-    const position = new Map(matrix.features.map((f, j) => [f.name, j]));
-    const columns = this.featureNames.map((name) => {
-      const j = position.get(name);
-      if (j === void 0) {
-        throw new RangeError(`BoostedModel.predictRaw: the matrix has no feature named '${name}'`);
-      }
-      return matrix.columns[j];
-    });
-    const n = matrix.rows;
-    const score2 = new Float64Array(n).fill(this.ensemble.baseScore);
-    for (const tree of this.ensemble.trees) addTree(tree, columns, n, score2);
-    if (this.task === "binary") {
-      for (let i = 0; i < n; i++) score2[i] = 1 / (1 + Math.exp(-score2[i]));
-    }
-    return score2;
-  }
-  async predict(matrix) {
-    return this.predictRaw(matrix);
-  }
-};
-function addTree(tree, columns, n, score2) {
-  const { feature, threshold, left, right, missingGoesLeft, value } = tree;
-  for (let i = 0; i < n; i++) {
-    let node2 = 0;
-    let f = feature[0];
-    while (f >= 0) {
-      const v = columns[f][i];
-      const goLeft = v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2];
-      node2 = goLeft ? left[node2] : right[node2];
-      f = feature[node2];
-    }
-    score2[i] += value[node2];
-  }
-}
-
-// src/core/models/resolve-training-subset.ts
-function resolveTrainingSubset(caller, shape, target, task, options) {
-  if (task !== "regression" && task !== "binary") throw new RangeError(`${caller}: unknown task '${String(task)}'`);
-  if (target.length !== shape.rows) {
-    throw new RangeError(`${caller} needs one target per row, got ${target.length} targets for ${shape.rows} rows`);
-  }
-  const { rows, features } = options;
-  let positions;
-  if (rows === void 0) positions = Int32Array.from({ length: shape.rows }, (_, i) => i);
-  else {
-    positions = new Int32Array(rows.length);
-    for (let i = 0; i < rows.length; i++) {
-      const r = rows[i];
-      if (!Number.isInteger(r) || r < 0 || r >= shape.rows) {
-        throw new RangeError(`${caller}: rows[${i}] is ${r}, not a row index from 0 to ${shape.rows - 1}`);
-      }
-      positions[i] = r;
-    }
-  }
-  if (positions.length === 0) throw new RangeError(`${caller} needs at least one training row, got none`);
-  for (const j of features ?? []) {
-    if (!Number.isInteger(j) || j < 0 || j >= shape.features) {
-      throw new RangeError(`${caller}: features contains ${j}, not a column index from 0 to ${shape.features - 1}`);
-    }
-  }
-  const used = features === void 0 ? Array.from({ length: shape.features }, (_, j) => j) : [...new Set(features)].sort((a, b) => a - b);
-  const y = new Float64Array(positions.length);
-  for (let p = 0; p < positions.length; p++) {
-    const value = target[positions[p]];
-    if (!Number.isFinite(value) || task === "binary" && value !== 0 && value !== 1) {
-      const rule2 = task === "binary" ? "binary targets must be 0 or 1" : "regression targets must be finite";
-      throw new RangeError(`${caller}: target of row ${positions[p]} is ${value}; ${rule2}`);
-    }
-    y[p] = value;
-  }
-  return { positions, features: used, y };
-}
-
-// src/core/models/gbt/fit-boosted.ts
-var MIN_HESSIAN_PER_LEAF = 1;
-function fitBoosted(binned, target, options) {
-  const { task, settings } = options;
-  checkSettings(settings);
-  const { positions, features: used, y } = resolveTrainingSubset(
-    "fitBoosted",
-    { rows: binned.rows, features: binned.features.length },
-    target,
-    task,
-    options
-  );
-  const n = positions.length;
-  const featureCount = used.length;
-  const rowCodes = gatherRowMajor(binned.codes, used, positions);
-  const binCounts = Int32Array.from(used, (j) => binned.binCounts[j]);
-  let targetSum = 0;
-  for (let p = 0; p < n; p++) targetSum += y[p];
-  const baseScore = task === "regression" ? targetSum / n : logOdds(targetSum / n);
-  const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n));
-  const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)));
-  const grower = new TreeGrower(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, task === "regression");
-  const score2 = new Float64Array(n).fill(baseScore);
-  const random = createRandom(options.seed);
-  const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k);
-  const gainByFeature = new Float64Array(featureCount);
-  const splitsByFeature = new Int32Array(featureCount);
-  const trees = [];
-  const upperEdges = used.map((j) => binned.upperEdges[j]);
-  for (let t = 0; t < settings.trees; t++) {
-    computeGradients(task, y, score2, grower.gradient, grower.hessian);
-    const rowCount = sampleSorted(n, sampleSize, random, grower.order);
-    const treeFeatures = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
-    grower.grow(rowCount, treeFeatures);
-    grower.addToScores(score2, rowCount);
-    grower.addSplitStatistics(gainByFeature, splitsByFeature);
-    trees.push(grower.toTree(upperEdges));
-  }
-  const featureNames = used.map((j) => binned.features[j].name);
-  const splitStatistics = featureNames.map((feature, k) => ({
-    feature,
-    gain: gainByFeature[k],
-    splits: splitsByFeature[k]
-  }));
-  return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics);
-}
-function checkSettings(s) {
-  const wholeAtLeast = (name, min) => {
-    if (!Number.isInteger(s[name]) || s[name] < min) {
-      throw new RangeError(`fitBoosted needs settings.${name} to be a whole number >= ${min}, got ${s[name]}`);
-    }
-  };
-  const fraction = (name) => {
-    if (!(s[name] > 0 && s[name] <= 1)) throw new RangeError(`fitBoosted needs settings.${name} in (0, 1], got ${s[name]}`);
-  };
-  wholeAtLeast("trees", 0);
-  wholeAtLeast("maxDepth", 0);
-  wholeAtLeast("minRowsPerLeaf", 1);
-  if (s.maxDepth > 16) throw new RangeError(`fitBoosted needs settings.maxDepth <= 16, got ${s.maxDepth}`);
-  if (!(s.learningRate > 0) || !Number.isFinite(s.learningRate)) {
-    throw new RangeError(`fitBoosted needs settings.learningRate > 0, got ${s.learningRate}`);
-  }
-  if (!(s.l2 >= 0) || !Number.isFinite(s.l2)) throw new RangeError(`fitBoosted needs settings.l2 >= 0, got ${s.l2}`);
-  fraction("rowSubsample");
-  fraction("columnSubsample");
-}
-function gatherRowMajor(codes, used, positions) {
-  const width = used.length;
-  const out = new Uint8Array(positions.length * width);
-  for (let k = 0; k < width; k++) {
-    const column = codes[used[k]];
-    for (let p = 0, at3 = k; p < positions.length; p++, at3 += width) out[at3] = column[positions[p]];
-  }
-  return out;
-}
-function logOdds(rate) {
-  const r = Math.min(1 - 1e-6, Math.max(1e-6, rate));
-  return Math.log(r / (1 - r));
-}
-function computeGradients(task, y, score2, g2, h) {
-  const n = y.length;
-  if (task === "regression") {
-    for (let i = 0; i < n; i++) {
-      g2[i] = score2[i] - y[i];
-      h[i] = 1;
-    }
-    return;
-  }
-  for (let i = 0; i < n; i++) {
-    const p = 1 / (1 + Math.exp(-score2[i]));
-    g2[i] = p - y[i];
-    h[i] = p * (1 - p);
-  }
-}
-function sampleSorted(n, m, random, out) {
-  if (m >= n) {
-    for (let i = 0; i < n; i++) out[i] = i;
-    return n;
-  }
-  let chosen = 0;
-  for (let i = 0; i < n && chosen < m; i++) {
-    if ((n - i) * random.next() < m - chosen) out[chosen++] = i;
-  }
-  return chosen;
-}
-function sampleFeatures(total, count3, random) {
-  const out = new Int32Array(count3);
-  sampleSorted(total, count3, random, out);
-  return out;
-}
-var SLOTS_PER_FEATURE = 256;
-var TreeGrower = class {
-  constructor(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, isUnitHessian) {
-    this.rowCodes = rowCodes;
-    this.featureCount = featureCount;
-    this.binCounts = binCounts;
-    this.settings = settings;
-    this.isUnitHessian = isUnitHessian;
-    this.gradient = new Float64Array(n);
-    this.hessian = new Float64Array(n);
-    this.order = new Int32Array(n);
-    this.scratch = new Int32Array(n);
-    this.slot = isUnitHessian ? 2 : 3;
-    this.featureStride = this.slot * SLOTS_PER_FEATURE;
-    this.treeCodes = rowCodes;
-    this.packedCodes = treeFeatureCount < featureCount ? new Uint8Array(n * treeFeatureCount) : rowCodes;
-    this.treeBins = new Int32Array(featureCount);
-    const m = 2 ** (settings.maxDepth + 1) - 1;
-    this.feature = new Int32Array(m);
-    this.splitBin = new Int32Array(m);
-    this.missingLeft = new Uint8Array(m);
-    this.left = new Int32Array(m);
-    this.right = new Int32Array(m);
-    this.value = new Float64Array(m);
-    this.gain = new Float64Array(m);
-    this.begin = new Int32Array(m);
-    this.end = new Int32Array(m);
-    this.sumGradient = new Float64Array(m);
-    this.sumHessian = new Float64Array(m);
-    this.histogramOf = new Int32Array(m);
-  }
-  rowCodes;
-  featureCount;
-  binCounts;
-  settings;
-  isUnitHessian;
-  gradient;
-  hessian;
-  /** Sampled row positions, grouped by node: node i's rows are order[begin[i]..end[i]). */
-  order;
-  scratch;
-  slot;
-  featureStride;
-  // The current tree's features: codes[p * width + t] is position p's bin for tree feature t.
-  treeFeatures = new Int32Array(0);
-  treeCodes;
-  packedCodes;
-  width = 0;
-  treeBins;
-  // The tree being grown, node-indexed in creation (breadth-first) order. feature is the tree feature t.
-  nodeCount = 0;
-  feature;
-  splitBin;
-  missingLeft;
-  left;
-  right;
-  value;
-  gain;
-  begin;
-  end;
-  sumGradient;
-  sumHessian;
-  /** Histogram buffer of a node, -1 when it has none. */
-  histogramOf;
-  histograms = [];
-  freeHistograms = [];
-  // The best split found by findSplit.
-  bestGain = 0;
-  bestFeature = -1;
-  bestBin = -1;
-  bestMissingLeft = 0;
-  bestLeftGradient = 0;
-  bestLeftHessian = 0;
-  bestLeftCount = 0;
-  /** Grows one tree on order[0..rowCount) with the given features (fit-local indices, ascending). */
-  grow(rowCount, treeFeatures) {
-    this.useFeatures(treeFeatures);
-    const { settings, gradient, hessian, order: order3 } = this;
-    let g2 = 0;
-    let h = 0;
-    for (let i = 0; i < rowCount; i++) {
-      g2 += gradient[order3[i]];
-      h += hessian[order3[i]];
-    }
-    this.nodeCount = 1;
-    this.begin[0] = 0;
-    this.end[0] = rowCount;
-    this.sumGradient[0] = g2;
-    this.sumHessian[0] = h;
-    this.histogramOf[0] = -1;
-    if (settings.maxDepth > 0 && this.canSplit(0)) {
-      this.histogramOf[0] = this.takeHistogram();
-      this.buildHistogram(this.histograms[this.histogramOf[0]], 0);
-    }
-    let levelStart = 0;
-    for (let depth = 0; depth <= settings.maxDepth; depth++) {
-      const levelEnd = this.nodeCount;
-      const childrenAreLeaves = depth + 1 >= settings.maxDepth;
-      for (let node2 = levelStart; node2 < levelEnd; node2++) {
-        if (this.histogramOf[node2] >= 0 && this.findSplit(node2)) this.split(node2, childrenAreLeaves);
-        else this.makeLeaf(node2);
-        if (this.histogramOf[node2] >= 0) {
-          this.freeHistograms.push(this.histogramOf[node2]);
-          this.histogramOf[node2] = -1;
-        }
-      }
-      levelStart = levelEnd;
-    }
-  }
-  /** Points treeCodes at this tree's features, packing them row-major when they are a subset. */
-  useFeatures(treeFeatures) {
-    const width = treeFeatures.length;
-    this.treeFeatures = treeFeatures;
-    this.width = width;
-    for (let t = 0; t < width; t++) this.treeBins[t] = this.binCounts[treeFeatures[t]];
-    if (width === this.featureCount) {
-      this.treeCodes = this.rowCodes;
-      return;
-    }
-    const { rowCodes, packedCodes, featureCount } = this;
-    const n = this.order.length;
-    for (let p = 0, from = 0, to = 0; p < n; p++, from += featureCount, to += width) {
-      for (let t = 0; t < width; t++) packedCodes[to + t] = rowCodes[from + treeFeatures[t]];
-    }
-    this.treeCodes = packedCodes;
-  }
-  canSplit(node2) {
-    return this.end[node2] - this.begin[node2] >= 2 * this.settings.minRowsPerLeaf && this.sumHessian[node2] >= 2 * MIN_HESSIAN_PER_LEAF;
-  }
-  makeLeaf(node2) {
-    this.feature[node2] = -1;
-    this.value[node2] = -this.sumGradient[node2] / (this.sumHessian[node2] + this.settings.l2) * this.settings.learningRate;
-  }
-  takeHistogram() {
-    const free = this.freeHistograms.pop();
-    if (free !== void 0) return free;
-    this.histograms.push(new Float64Array(this.featureCount * this.featureStride));
-    return this.histograms.length - 1;
-  }
-  /** Best split of a node by gain; false when none has positive gain within the leaf constraints. */
-  findSplit(node2) {
-    const hist = this.histograms[this.histogramOf[node2]];
-    const { l2, minRowsPerLeaf } = this.settings;
-    const minHessian = MIN_HESSIAN_PER_LEAF;
-    const slot = this.slot;
-    const countAt = slot - 1;
-    const G = this.sumGradient[node2];
-    const H = this.sumHessian[node2];
-    const C = this.end[node2] - this.begin[node2];
-    const parentScore = G * G / (H + l2);
-    let bestGain = 0;
-    let bestFeature = -1;
-    let bestBin = -1;
-    let bestMissingLeft = 0;
-    let bestLG = 0;
-    let bestLH = 0;
-    let bestLC = 0;
-    for (let t = 0; t < this.width; t++) {
-      const base = t * this.featureStride;
-      const bins = this.treeBins[t];
-      const missing = base + MISSING_BIN * slot;
-      const mG = hist[missing];
-      const mH = hist[missing + 1];
-      const mC = hist[missing + countAt];
-      const hasMissing = mC > 0;
-      let lG = 0;
-      let lH = 0;
-      let lC = 0;
-      for (let b = 0, s = base; b < bins; b++, s += slot) {
-        lG += hist[s];
-        lH += hist[s + 1];
-        lC += hist[s + countAt];
-        let rC = C - lC;
-        if (lC >= minRowsPerLeaf && rC >= minRowsPerLeaf) {
-          const rH = H - lH;
-          if (lH >= minHessian && rH >= minHessian) {
-            const rG = G - lG;
-            const gain = 0.5 * (lG * lG / (lH + l2) + rG * rG / (rH + l2) - parentScore);
-            if (gain > bestGain) {
-              bestGain = gain;
-              bestFeature = t;
-              bestBin = b;
-              bestMissingLeft = !hasMissing && lC > rC ? 1 : 0;
-              bestLG = lG;
-              bestLH = lH;
-              bestLC = lC;
-            }
-          }
-        }
-        if (!hasMissing) continue;
-        const aC = lC + mC;
-        rC = C - aC;
-        if (aC >= minRowsPerLeaf && rC >= minRowsPerLeaf) {
-          const aH = lH + mH;
-          const rH = H - aH;
-          if (aH >= minHessian && rH >= minHessian) {
-            const aG = lG + mG;
-            const rG = G - aG;
-            const gain = 0.5 * (aG * aG / (aH + l2) + rG * rG / (rH + l2) - parentScore);
-            if (gain > bestGain) {
-              bestGain = gain;
-              bestFeature = t;
-              bestBin = b;
-              bestMissingLeft = 1;
-              bestLG = aG;
-              bestLH = aH;
-              bestLC = aC;
-            }
-          }
-        }
-      }
-    }
-    if (bestFeature < 0) return false;
-    this.bestGain = bestGain;
-    this.bestFeature = bestFeature;
-    this.bestBin = bestBin;
-    this.bestMissingLeft = bestMissingLeft;
-    this.bestLeftGradient = bestLG;
-    this.bestLeftHessian = bestLH;
-    this.bestLeftCount = bestLC;
-    return true;
-  }
-  /** Applies the best split found for `node`: partitions its rows, creates children and their histograms. */
-  split(node2, childrenAreLeaves) {
-    const t = this.bestFeature;
-    this.feature[node2] = t;
-    this.splitBin[node2] = this.bestBin;
-    this.missingLeft[node2] = this.bestMissingLeft;
-    this.gain[node2] = this.bestGain;
-    const from = this.begin[node2];
-    const to = this.end[node2];
-    const middle = partition(
-      this.order,
-      this.scratch,
-      from,
-      to,
-      this.treeCodes,
-      this.width,
-      t,
-      this.bestBin,
-      this.bestMissingLeft
-    );
-    if (middle - from !== this.bestLeftCount) {
-      throw new InternalError("fitBoosted: the partition disagrees with the histogram");
-    }
-    const l = this.nodeCount;
-    const r = l + 1;
-    this.nodeCount += 2;
-    this.left[node2] = l;
-    this.right[node2] = r;
-    this.begin[l] = from;
-    this.end[l] = middle;
-    this.begin[r] = middle;
-    this.end[r] = to;
-    this.sumGradient[l] = this.bestLeftGradient;
-    this.sumHessian[l] = this.bestLeftHessian;
-    this.sumGradient[r] = this.sumGradient[node2] - this.bestLeftGradient;
-    this.sumHessian[r] = this.sumHessian[node2] - this.bestLeftHessian;
-    this.histogramOf[l] = -1;
-    this.histogramOf[r] = -1;
-    if (childrenAreLeaves) return;
-    const leftNeeds = this.canSplit(l);
-    const rightNeeds = this.canSplit(r);
-    if (!leftNeeds && !rightNeeds) return;
-    const leftIsSmaller = middle - from <= to - middle;
-    const small = leftIsSmaller ? l : r;
-    const large = leftIsSmaller ? r : l;
-    const smallHist = this.takeHistogram();
-    this.buildHistogram(this.histograms[smallHist], small);
-    if (leftIsSmaller ? rightNeeds : leftNeeds) {
-      const parentHist = this.histogramOf[node2];
-      this.subtractHistogram(this.histograms[parentHist], this.histograms[smallHist]);
-      this.histogramOf[large] = parentHist;
-      this.histogramOf[node2] = -1;
-    }
-    if (leftIsSmaller ? leftNeeds : rightNeeds) this.histogramOf[small] = smallHist;
-    else this.freeHistograms.push(smallHist);
-  }
-  buildHistogram(hist, node2) {
-    hist.fill(0, 0, this.width * this.featureStride);
-    const from = this.begin[node2];
-    const to = this.end[node2];
-    if (this.isUnitHessian) {
-      accumulateUnitHessian(hist, this.treeCodes, this.width, this.order, from, to, this.gradient);
-    } else {
-      accumulate(hist, this.treeCodes, this.width, this.order, from, to, this.gradient, this.hessian);
-    }
-  }
-  subtractHistogram(into, minus) {
-    const slot = this.slot;
-    for (let t = 0; t < this.width; t++) {
-      const base = t * this.featureStride;
-      const stop = base + this.treeBins[t] * slot;
-      for (let s = base; s < stop; s++) into[s] -= minus[s];
-      const missing = base + MISSING_BIN * slot;
-      for (let s = missing; s < missing + slot; s++) into[s] -= minus[s];
-    }
-  }
-  /** Adds this tree's leaf values to the training scores of every position (sampled or not). */
-  addToScores(score2, rowCount) {
-    const { order: order3, feature, value, begin, end } = this;
-    for (let node2 = 0; node2 < this.nodeCount; node2++) {
-      if (feature[node2] >= 0) continue;
-      const v = value[node2];
-      for (let i = begin[node2]; i < end[node2]; i++) score2[order3[i]] += v;
-    }
-    if (rowCount === score2.length) return;
-    const sampled = new Uint8Array(score2.length);
-    for (let i = 0; i < rowCount; i++) sampled[order3[i]] = 1;
-    const { treeCodes, width, splitBin, missingLeft, left, right } = this;
-    for (let p = 0; p < score2.length; p++) {
-      if (sampled[p] === 1) continue;
-      let node2 = 0;
-      while (feature[node2] >= 0) {
-        const code = treeCodes[p * width + feature[node2]];
-        const goLeft = code === MISSING_BIN ? missingLeft[node2] === 1 : code <= splitBin[node2];
-        node2 = goLeft ? left[node2] : right[node2];
-      }
-      score2[p] += value[node2];
-    }
-  }
-  addSplitStatistics(gainByFeature, splitsByFeature) {
-    for (let node2 = 0; node2 < this.nodeCount; node2++) {
-      const t = this.feature[node2];
-      if (t < 0) continue;
-      gainByFeature[this.treeFeatures[t]] += this.gain[node2];
-      splitsByFeature[this.treeFeatures[t]]++;
-    }
-  }
-  /** The grown tree with raw thresholds; feature indices are the fit-local (model) indices. */
-  toTree(upperEdges) {
-    const m = this.nodeCount;
-    const tree = {
-      feature: new Int32Array(m).fill(-1),
-      threshold: new Float64Array(m),
-      left: new Int32Array(m).fill(-1),
-      right: new Int32Array(m).fill(-1),
-      missingGoesLeft: new Uint8Array(m),
-      value: new Float64Array(m)
-    };
-    for (let node2 = 0; node2 < m; node2++) {
-      const t = this.feature[node2];
-      if (t < 0) {
-        tree.value[node2] = this.value[node2];
-        continue;
-      }
-      const k = this.treeFeatures[t];
-      tree.feature[node2] = k;
-      tree.threshold[node2] = upperEdges[k][this.splitBin[node2]];
-      tree.left[node2] = this.left[node2];
-      tree.right[node2] = this.right[node2];
-      tree.missingGoesLeft[node2] = this.missingLeft[node2];
-    }
-    return tree;
-  }
-};
-function accumulate(hist, codes, width, order3, from, to, gradient, hessian) {
-  const stride = 3 * SLOTS_PER_FEATURE;
-  for (let i = from; i < to; i++) {
-    const p = order3[i];
-    const g2 = gradient[p];
-    const h = hessian[p];
-    const row = p * width;
-    for (let t = 0, base = 0; t < width; t++, base += stride) {
-      const s = base + codes[row + t] * 3;
-      hist[s] += g2;
-      hist[s + 1] += h;
-      hist[s + 2] += 1;
-    }
-  }
-}
-function accumulateUnitHessian(hist, codes, width, order3, from, to, gradient) {
-  const stride = 2 * SLOTS_PER_FEATURE;
-  for (let i = from; i < to; i++) {
-    const p = order3[i];
-    const g2 = gradient[p];
-    const row = p * width;
-    for (let t = 0, base = 0; t < width; t++, base += stride) {
-      const s = base + codes[row + t] * 2;
-      hist[s] += g2;
-      hist[s + 1] += 1;
-    }
-  }
-}
-function partition(order3, scratch, from, to, codes, width, t, bin, missingLeft) {
-  let write = from;
-  let spill = 0;
-  const missingGoesLeft = missingLeft === 1;
-  for (let i = from; i < to; i++) {
-    const p = order3[i];
-    const code = codes[p * width + t];
-    if (code === MISSING_BIN ? missingGoesLeft : code <= bin) order3[write++] = p;
-    else scratch[spill++] = p;
-  }
-  for (let i = 0; i < spill; i++) order3[write + i] = scratch[i];
-  return write;
-}
-
-// src/core/models/linear/linear-model.ts
-var LinearModel = class {
-  constructor(state, convergence) {
-    this.state = state;
-    this.convergence = convergence;
-    if (state.terms.length !== state.featureNames.length) {
-      throw new RangeError(
-        `LinearModel needs one term per feature, got ${state.terms.length} terms for ${state.featureNames.length} features`
-      );
-    }
-    this.task = state.task;
-    this.featureNames = state.featureNames;
-  }
-  state;
-  convergence;
-  kind = "linear";
-  task;
-  featureNames;
-  /**
-   * Predictions over raw values: the regression value, or for a binary task the positive-class
-   * probability. Throws RangeError naming a feature the matrix lacks. O(rows x features).
-   */
-  predictRaw(matrix) {
-    const position = new Map(matrix.features.map((f, j) => [f.name, j]));
-    const n = matrix.rows;
-    const score2 = new Float64Array(n).fill(this.state.intercept);
-    this.state.terms.forEach((term, k) => {
-      const j = position.get(this.featureNames[k]);
-      if (j === void 0) {
-        throw new RangeError(`LinearModel.predictRaw: the matrix has no feature named '${this.featureNames[k]}'`);
-      }
-      const column = matrix.columns[j];
-      if (term.kind === "numeric") {
-        const { coefficient, fill: fill2 } = term;
-        for (let i = 0; i < n; i++) score2[i] += coefficient * (column[i] !== column[i] ? fill2 : column[i]);
-        return;
-      }
-      const { coefficients, fill } = term;
-      for (let i = 0; i < n; i++) {
-        const code = column[i];
-        score2[i] += Number.isInteger(code) && code >= 0 && code < coefficients.length ? coefficients[code] : fill;
-      }
-    });
-    if (this.task === "binary") {
-      for (let i = 0; i < n; i++) score2[i] = 1 / (1 + Math.exp(-score2[i]));
-    }
-    return score2;
-  }
-  async predict(matrix) {
-    return this.predictRaw(matrix);
-  }
-};
-
-// src/core/models/linear/solve-positive-definite.ts
-function solvePositiveDefinite(matrix, rhs, size) {
-  if (matrix.length !== size * size || rhs.length !== size) {
-    throw new RangeError(
-      `solvePositiveDefinite needs a ${size} x ${size} matrix and ${size} right-hand sides, got ${matrix.length} and ${rhs.length} values`
-    );
-  }
-  const l = new Float64Array(size * size);
-  for (let i = 0; i < size; i++) {
-    for (let j = 0; j <= i; j++) {
-      let sum2 = matrix[i * size + j];
-      for (let k = 0; k < j; k++) sum2 -= l[i * size + k] * l[j * size + k];
-      if (i === j) {
-        const diagonal = matrix[i * size + i];
-        if (!(diagonal > 0) || !(sum2 > 1e-10 * diagonal)) return { singularAt: i };
-        l[i * size + i] = Math.sqrt(sum2);
-      } else {
-        l[i * size + j] = sum2 / l[j * size + j];
-      }
-    }
-  }
-  const x = Float64Array.from(rhs);
-  for (let i = 0; i < size; i++) {
-    let sum2 = x[i];
-    for (let k = 0; k < i; k++) sum2 -= l[i * size + k] * x[k];
-    x[i] = sum2 / l[i * size + i];
-  }
-  for (let i = size - 1; i >= 0; i--) {
-    let sum2 = x[i];
-    for (let k = i + 1; k < size; k++) sum2 -= l[k * size + i] * x[k];
-    x[i] = sum2 / l[i * size + i];
-  }
-  return { solution: x };
-}
-
-// src/core/models/linear/build-standardized-design.ts
-function buildStandardizedDesign(caller, task, matrix, target, options) {
-  const { positions, features, y } = resolveTrainingSubset(
-    caller,
-    { rows: matrix.rows, features: matrix.features.length },
-    target,
-    task,
-    options
-  );
-  const n = positions.length;
-  const specs = [];
-  const columnLabels = [];
-  for (const j of features) {
-    const info2 = matrix.features[j];
-    const values = matrix.columns[j];
-    if (info2.kind === "categorical") {
-      const spec = describeCategorical(caller, info2.name, values, positions, info2.categories?.length, columnLabels.length);
-      for (const level of spec.levels.slice(1)) columnLabels.push(`${info2.name} = ${info2.categories?.[level] ?? level}`);
-      specs.push(spec);
-    } else {
-      const spec = describeNumeric(values, positions, columnLabels.length);
-      if (spec.column >= 0) columnLabels.push(info2.name);
-      specs.push(spec);
-    }
-  }
-  const width = columnLabels.length;
-  const design = new Float64Array(n * width);
-  specs.forEach((spec, s) => {
-    const values = matrix.columns[features[s]];
-    if (spec.kind === "numeric") {
-      if (spec.column < 0) return;
-      for (let p = 0, at3 = spec.column; p < n; p++, at3 += width) {
-        const x = values[positions[p]];
-        design[at3] = x !== x ? 0 : (x - spec.mean) / spec.sd;
-      }
-      return;
-    }
-    for (let l = 1; l < spec.levels.length; l++) {
-      const level = spec.levels[l];
-      const frequency = spec.frequencies[l];
-      for (let p = 0, at3 = spec.firstColumn + l - 1; p < n; p++, at3 += width) {
-        const code = values[positions[p]];
-        design[at3] = code !== code ? 0 : (code === level ? 1 : 0) - frequency;
-      }
-    }
-  });
-  const featureNames = features.map((j) => matrix.features[j].name);
-  function toState(intercept, coefficients) {
-    let rawIntercept = intercept;
-    const terms = specs.map((spec) => {
-      if (spec.kind === "numeric") {
-        if (spec.column < 0) return { kind: "numeric", coefficient: 0, fill: spec.mean };
-        const coefficient = coefficients[spec.column] / spec.sd;
-        rawIntercept -= coefficient * spec.mean;
-        return { kind: "numeric", coefficient, fill: spec.mean };
-      }
-      if (spec.levels.length === 0) return { kind: "categorical", coefficients: [], fill: 0 };
-      let fill = 0;
-      const byLevel = /* @__PURE__ */ new Map([[spec.levels[0], 0]]);
-      for (let l = 1; l < spec.levels.length; l++) {
-        const beta = coefficients[spec.firstColumn + l - 1];
-        byLevel.set(spec.levels[l], beta);
-        fill += spec.frequencies[l] * beta;
-      }
-      rawIntercept -= fill;
-      const size = Math.max(spec.dictionarySize, spec.levels[spec.levels.length - 1] + 1);
-      const perCode = Array.from({ length: size }, (_, code) => byLevel.get(code) ?? fill);
-      return { kind: "categorical", coefficients: perCode, fill };
-    });
-    return { task, featureNames, intercept: rawIntercept, terms };
-  }
-  return { rows: n, width, values: design, y, columnLabels, toState };
-}
-function describeNumeric(values, positions, column) {
-  const n = positions.length;
-  let sum2 = 0;
-  let present = 0;
-  for (let p = 0; p < n; p++) {
-    const x = values[positions[p]];
-    if (x === x) {
-      sum2 += x;
-      present++;
-    }
-  }
-  if (present === 0) return { kind: "numeric", mean: 0, sd: 0, column: -1 };
-  const mean3 = sum2 / present;
-  let squares = 0;
-  for (let p = 0; p < n; p++) {
-    const x = values[positions[p]];
-    if (x === x) squares += (x - mean3) * (x - mean3);
-  }
-  const sd = Math.sqrt(squares / n);
-  return { kind: "numeric", mean: mean3, sd, column: sd > 0 ? column : -1 };
-}
-function describeCategorical(caller, name, values, positions, dictionarySize, firstColumn) {
-  const counts = /* @__PURE__ */ new Map();
-  let present = 0;
-  for (let p = 0; p < positions.length; p++) {
-    const code = values[positions[p]];
-    if (code !== code) continue;
-    if (!Number.isInteger(code) || code < 0) {
-      throw new RangeError(`${caller}: categorical feature '${name}' has code ${code} in row ${positions[p]}; codes are whole numbers >= 0`);
-    }
-    counts.set(code, (counts.get(code) ?? 0) + 1);
-    present++;
-  }
-  const levels = [...counts.keys()].sort((a, b) => a - b);
-  const frequencies = levels.map((level) => counts.get(level) / present);
-  return { kind: "categorical", dictionarySize: dictionarySize ?? 0, levels, frequencies, firstColumn };
-}
-function collinearityError(caller, label) {
-  return new UserError(
-    `${caller}: '${label}' is a linear combination of the features before it on the training rows, so the unpenalized fit has no unique coefficients.`,
-    "Give the linear learner a positive l2 penalty, or drop one of the collinear features."
-  );
-}
-
-// src/core/models/linear/fit-logistic.ts
-function fitLogistic(matrix, target, options) {
-  const { l2 } = options;
-  const maxIterations = options.maxIterations ?? 100;
-  if (!(l2 >= 0) || !Number.isFinite(l2)) throw new RangeError(`fitLogistic needs l2 >= 0, got ${l2}`);
-  if (!Number.isInteger(maxIterations) || maxIterations < 1) {
-    throw new RangeError(`fitLogistic needs maxIterations to be a whole number >= 1, got ${maxIterations}`);
-  }
-  const design = buildStandardizedDesign("fitLogistic", "binary", matrix, target, options);
-  const { rows: n, width: q, y } = design;
-  let positives = 0;
-  for (let i = 0; i < n; i++) positives += y[i];
-  const rate = Math.min(1 - 1e-6, Math.max(1e-6, positives / n));
-  const theta = new Float64Array(q + 1);
-  theta[0] = Math.log(rate / (1 - rate));
-  const finish2 = (iterations, converged) => new LinearModel(design.toState(theta[0], theta.subarray(1)), { iterations, converged });
-  if (positives === 0 || positives === n) return finish2(0, true);
-  const size = q + 1;
-  const eta = new Float64Array(n);
-  const candidate = new Float64Array(size);
-  let objective = computeObjective(design, theta, l2, eta);
-  for (let iteration = 1; iteration <= maxIterations; iteration++) {
-    const { gradient, hessian } = newtonSystem(design, theta, l2, eta);
-    const solved = solvePositiveDefinite(hessian, gradient, size);
-    if ("singularAt" in solved) {
-      if (iteration === 1) throw collinearityError("fitLogistic", design.columnLabels[solved.singularAt - 1]);
-      return finish2(iteration - 1, false);
-    }
-    const direction = solved.solution;
-    let decrementSquared = 0;
-    for (let k = 0; k < size; k++) decrementSquared += gradient[k] * direction[k];
-    const isDone = decrementSquared / 2 <= 1e-12 * (1 + objective);
-    let t = 1;
-    let next = Infinity;
-    for (let halvings = 0; halvings < 60; halvings++, t /= 2) {
-      for (let k = 0; k < size; k++) candidate[k] = theta[k] - t * direction[k];
-      next = computeObjective(design, candidate, l2, eta);
-      if (next <= objective - 0.01 * t * decrementSquared) break;
-    }
-    if (!(next <= objective)) return finish2(iteration, isDone);
-    theta.set(candidate);
-    objective = next;
-    if (isDone) return finish2(iteration, true);
-  }
-  return finish2(maxIterations, false);
-}
-function computeObjective(design, theta, l2, eta) {
-  const { rows: n, width: q, values: z3, y } = design;
-  let sum2 = 0;
-  for (let i = 0, row = 0; i < n; i++, row += q) {
-    let e = theta[0];
-    for (let a = 0; a < q; a++) e += z3[row + a] * theta[a + 1];
-    eta[i] = e;
-    sum2 += (e > 0 ? e + Math.log1p(Math.exp(-e)) : Math.log1p(Math.exp(e))) - y[i] * e;
-  }
-  let penalty = 0;
-  for (let a = 1; a <= q; a++) penalty += theta[a] * theta[a];
-  return sum2 + 0.5 * l2 * penalty;
-}
-function newtonSystem(design, theta, l2, eta) {
-  const { rows: n, width: q, values: z3, y } = design;
-  const size = q + 1;
-  const gradient = new Float64Array(size);
-  const hessian = new Float64Array(size * size);
-  for (let i = 0, row = 0; i < n; i++, row += q) {
-    const p = 1 / (1 + Math.exp(-eta[i]));
-    const residual = p - y[i];
-    const w = p * (1 - p);
-    gradient[0] += residual;
-    hessian[0] += w;
-    for (let a = 0; a < q; a++) {
-      const za = z3[row + a];
-      if (za === 0) continue;
-      const wa = w * za;
-      gradient[a + 1] += residual * za;
-      const at3 = (a + 1) * size;
-      hessian[at3] += wa;
-      for (let b = 0; b <= a; b++) hessian[at3 + b + 1] += wa * z3[row + b];
-    }
-  }
-  for (let a = 1; a <= q; a++) {
-    gradient[a] += l2 * theta[a];
-    hessian[a * size + a] += l2;
-  }
-  return { gradient, hessian };
-}
-
-// src/core/models/linear/fit-ridge.ts
-function fitRidge(matrix, target, options) {
-  const { l2 } = options;
-  if (!(l2 >= 0) || !Number.isFinite(l2)) throw new RangeError(`fitRidge needs l2 >= 0, got ${l2}`);
-  const design = buildStandardizedDesign("fitRidge", "regression", matrix, target, options);
-  const { rows: n, width: q, values: z3, y } = design;
-  let mean3 = 0;
-  for (let i = 0; i < n; i++) mean3 += y[i];
-  mean3 /= n;
-  const gram = new Float64Array(q * q);
-  const rhs = new Float64Array(q);
-  for (let i = 0, row = 0; i < n; i++, row += q) {
-    const residual = y[i] - mean3;
-    for (let a = 0; a < q; a++) {
-      const za = z3[row + a];
-      if (za === 0) continue;
-      rhs[a] += za * residual;
-      for (let b = 0; b <= a; b++) gram[a * q + b] += za * z3[row + b];
-    }
-  }
-  for (let a = 0; a < q; a++) gram[a * q + a] += l2;
-  const solved = solvePositiveDefinite(gram, rhs, q);
-  if ("singularAt" in solved) throw collinearityError("fitRidge", design.columnLabels[solved.singularAt]);
-  return new LinearModel(design.toState(mean3, solved.solution));
-}
-
-// src/core/models/builtin-fit.ts
-function createBuiltinFit(train3, task, settings) {
-  const target = train3.target?.values;
-  if (!target) throw new RangeError("createBuiltinFit needs a training dataset with a target");
-  let binned;
-  const names = train3.features.map((f) => f.name);
-  return async (request2) => {
-    const leaveOut = new Set(request2.leaveOut);
-    for (const name of leaveOut) {
-      if (!names.includes(name)) throw new RangeError(`createBuiltinFit: cannot leave out unknown feature '${name}'`);
-    }
-    const rows = shuffledIndices(train3.rows, createRandom(deriveSeed(request2.seed, "row-order")));
-    const columnOrder = Array.from(shuffledIndices(names.length, createRandom(deriveSeed(request2.seed, "column-order"))));
-    const features = columnOrder.filter((j) => !leaveOut.has(names[j]));
-    if (features.length === 0) throw new RangeError("createBuiltinFit: every feature was left out");
-    if (settings.learner === "linear") {
-      const options = { l2: settings.linearL2, rows, features };
-      return task === "binary" ? fitLogistic(train3, target, options) : fitRidge(train3, target, options);
-    }
-    binned ??= binFeatures(train3, { maxBins: settings.maxBins });
-    return fitBoosted(binned, target, { task, settings: settings.boosting, seed: request2.seed, rows, features });
-  };
+  const reference = config2.data.reference.kind === "train" ? train3 : config2.data.reference.kind === "holdout" ? holdout : tables.reference;
+  if (!reference) throw new RangeError("assembleSideData needs the reference table the policy names");
+  return { train: train3, holdout, reference };
 }
 
 // src/core/policy/parse-policy.ts
@@ -44311,7 +43205,7 @@ var $ZodType = /* @__PURE__ */ $constructor("$ZodType", (inst, def) => {
       inst._zod.run = inst._zod.parse;
     });
   } else {
-    const runChecks = (payload, checks2, ctx) => {
+    const runChecks2 = (payload, checks2, ctx) => {
       if (payload.memo)
         return payload;
       let isAborted = aborted(payload);
@@ -44362,7 +43256,7 @@ var $ZodType = /* @__PURE__ */ $constructor("$ZodType", (inst, def) => {
         canary.aborted = true;
         return canary;
       }
-      const checkResult = runChecks(payload, checks, ctx);
+      const checkResult = runChecks2(payload, checks, ctx);
       if (checkResult instanceof Promise) {
         if (ctx.async === false)
           throw new $ZodAsyncError();
@@ -44387,9 +43281,9 @@ var $ZodType = /* @__PURE__ */ $constructor("$ZodType", (inst, def) => {
       if (result instanceof Promise) {
         if (ctx.async === false)
           throw new $ZodAsyncError();
-        return result.then((result2) => runChecks(result2, checks, ctx));
+        return result.then((result2) => runChecks2(result2, checks, ctx));
       }
-      return runChecks(result, checks, ctx);
+      return runChecks2(result, checks, ctx);
     };
   }
 }, {
@@ -61413,7 +60307,7 @@ function formatKeyPath(path) {
   return text3;
 }
 
-// src/core/config.ts
+// src/core/policy/policy-defaults.ts
 function deepFreeze(value) {
   if (value !== null && typeof value === "object") {
     for (const inner of Object.values(value)) deepFreeze(inner);
@@ -61476,6 +60370,8 @@ var defaultChecks = deepFreeze({
 });
 var defaultReport = deepFreeze({ maxTableRows: 50 });
 var uint32Max = 2 ** 32 - 1;
+
+// src/core/policy/policy-schema.ts
 function rule(ctx, path, message, fix, at3, pointAtValue) {
   const params = { kind: "rule", fix, ...at3 ? { at: at3 } : {}, ...pointAtValue ? { pointAtValue } : {} };
   ctx.addIssue({ code: "custom", message, path, params });
@@ -61832,7 +60728,6 @@ function levenshteinDistance(a, b) {
 }
 
 // src/core/policy/parse-policy.ts
-var positionsByConfig = /* @__PURE__ */ new WeakMap();
 var pathId = (path) => JSON.stringify(path.map(String));
 function at2(source, place) {
   return place ? `${source}:${place.line}:${place.column}` : source;
@@ -62023,17 +60918,15 @@ function readPolicy(text3, source) {
   }
   return { config: result.data, positions };
 }
-function parsePolicy(text3, options) {
-  const { config: config2, positions } = readPolicy(text3, options.source);
-  positionsByConfig.set(config2, positions);
-  return config2;
+function readPolicyFile(text3, options) {
+  return { ...readPolicy(text3, options.source), source: options.source };
 }
 function listColumns(columns, most = 20) {
   const shown = columns.slice(0, most).join(", ");
   return columns.length > most ? `${shown} and ${columns.length - most} more` : shown || "none";
 }
-function checkPolicyAgainstColumns(config2, columns, source) {
-  const positions = positionsByConfig.get(config2) ?? /* @__PURE__ */ new Map();
+function checkPolicyAgainstColumns(policy, columns) {
+  const { config: config2, positions, source } = policy;
   const known = new Set(columns);
   const problems = [];
   const missing = (path, pointAt, verb, name, fix) => {
@@ -62076,247 +60969,170 @@ function checkPolicyAgainstColumns(config2, columns, source) {
   }
 }
 
-// src/core/checks/holdout-rows.ts
-function checkHoldoutRows(base, head, action) {
-  if (action === "off") return [];
-  const problem = describeDifference(base, head);
-  if (!problem) return [];
-  return [
-    {
-      kind: "holdout-rows",
-      severity: action,
-      title: `The two sides are not scored on the same holdout rows: ${problem.short}.`,
-      message: `${problem.long} Score and importance differences between the sides would then mix the change with a different sample. Keep the holdout fixed in the pull request (or split by an id column with data.split.by), then rerun.`,
-      evidence: { baseRows: base.rows, headRows: head.rows, ...problem.evidence }
-    }
-  ];
-}
-function describeDifference(base, head) {
-  if (base.rows !== head.rows) {
-    return {
-      short: `${base.rows} rows on the base side, ${head.rows} on the head`,
-      long: `The base holdout (${base.source}) has ${base.rows} rows and the head holdout (${head.source}) has ${head.rows}.`,
-      evidence: {}
-    };
-  }
-  if (base.ids && head.ids) {
-    let differing2 = 0;
-    let first2 = -1;
-    for (let i = 0; i < base.rows; i++) {
-      if (base.ids[i] !== head.ids[i]) {
-        differing2++;
-        if (first2 < 0) first2 = i;
-      }
-    }
-    if (differing2 === 0) return null;
-    const baseSet = new Set(base.ids);
-    const onlyHead = head.ids.filter((id) => !baseSet.has(id)).length;
-    return {
-      short: `${differing2} of ${base.rows} ids differ by position (${onlyHead} ${onlyHead === 1 ? "id" : "ids"} only on the head)`,
-      long: `Holdout row ${first2 + 1} has ${base.idName ?? "id"} '${base.ids[first2]}' on the base side and '${head.ids[first2]}' on the head; ${differing2} of ${base.rows} rows differ by position and ${onlyHead} head ${onlyHead === 1 ? "id does" : "ids do"} not occur on the base side.`,
-      evidence: { differingRows: differing2, idsOnlyOnHead: onlyHead, firstDifferingRow: first2 + 1 }
-    };
-  }
-  let differing = 0;
-  let first = -1;
-  for (let i = 0; i < base.rows; i++) {
-    const a = base.target[i];
-    const b = head.target[i];
-    if (a !== b && !(Number.isNaN(a) && Number.isNaN(b))) {
-      differing++;
-      if (first < 0) first = i;
-    }
-  }
-  if (differing === 0) return null;
+// src/core/checks/feature-set.ts
+function diffFeatureSets(base, head) {
+  const baseKinds = new Map(base.features.map((f) => [f.name, f.kind]));
+  const headKinds = new Map(head.features.map((f) => [f.name, f.kind]));
   return {
-    short: `the target differs in ${differing} of ${base.rows} rows`,
-    long: `Without an id column only the target can be compared row by row; it differs in ${differing} of ${base.rows} rows (first at holdout row ${first + 1}).`,
-    evidence: { differingRows: differing, firstDifferingRow: first + 1 }
+    added: head.features.filter((f) => !baseKinds.has(f.name)).map((f) => f.name),
+    removed: base.features.filter((f) => !headKinds.has(f.name)).map((f) => f.name),
+    kindChanged: head.features.filter((f) => baseKinds.has(f.name) && baseKinds.get(f.name) !== f.kind).map((f) => ({ name: f.name, base: baseKinds.get(f.name), head: f.kind }))
   };
 }
-
-// src/core/checks/side-result.ts
-function rankFeatures(importances) {
-  return importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+function changedFeatures(base, head) {
+  const pick2 = base.holdout.rows === head.holdout.rows ? [base.holdout, head.holdout] : base.train.rows === head.train.rows ? [base.train, head.train] : null;
+  const changed = /* @__PURE__ */ new Set();
+  if (!pick2) return changed;
+  const [b, h] = pick2;
+  const bIndex = new Map(b.features.map((f, j) => [f.name, j]));
+  h.features.forEach((hf, hj) => {
+    const bj = bIndex.get(hf.name);
+    if (bj === void 0) return;
+    const bf = b.features[bj];
+    const bc = b.columns[bj];
+    const hc = h.columns[hj];
+    const decode3 = (kind, categories, v) => Number.isNaN(v) ? "NaN" : kind === "categorical" ? categories?.[v] ?? String(v) : v;
+    for (let i = 0; i < hc.length; i++) {
+      if (decode3(bf.kind, bf.categories, bc[i]) !== decode3(hf.kind, hf.categories, hc[i])) {
+        changed.add(hf.name);
+        return;
+      }
+    }
+  });
+  return changed;
 }
-function positiveShare(importances, name) {
-  let total = 0;
-  let own2 = 0;
-  for (const u of importances) {
-    if (u.isGroup && u.name !== name) continue;
-    const v = Math.max(0, u.mean);
-    if (!u.isGroup) total += v;
-    if (u.name === name) own2 = v;
-  }
-  return total > 0 ? own2 / total : 0;
-}
-function mean(values) {
-  let s = 0;
-  for (const v of values) s += v;
-  return values.length ? s / values.length : NaN;
-}
-
-// src/core/checks/leakage.ts
-function checkLeakage(context3, options) {
-  if (options.action === "off") return [];
-  const { base, head, added, changed } = context3;
-  const trivial = options.task === "binary" ? 0.5 : 0;
-  const metricName = options.task === "binary" ? "AUC" : "R²";
-  const fullHead = mean(head.separation);
-  const fullBase = mean(base.separation);
+function featureSetFindings(featureSet, head) {
   const findings = [];
-  const ranked = rankFeatures(head.importances);
-  const baseRanked = rankFeatures(base.importances);
-  const flagged = /* @__PURE__ */ new Set();
-  const describeChange = (name) => added.has(name) ? "new in this pull request" : changed.has(name) ? "changed in this pull request" : "unchanged";
-  for (const unit of ranked) {
-    const alone = head.singleFeatureSeparation[unit.name];
-    if (alone === void 0 || !(alone >= options.singleFeaturePower)) continue;
-    const aloneBase = base.singleFeatureSeparation[unit.name];
-    const isNewOrChanged = added.has(unit.name) || changed.has(unit.name);
-    const crossed = aloneBase === void 0 || !(aloneBase >= options.singleFeaturePower);
-    const severity = isNewOrChanged || crossed ? options.action : "warn";
-    flagged.add(unit.name);
+  const { added, removed, kindChanged } = featureSet;
+  if (added.length || removed.length || kindChanged.length) {
+    const parts = [
+      added.length ? `added ${list(added)}` : "",
+      removed.length ? `removed ${list(removed)}` : "",
+      kindChanged.length ? `changed the kind of ${list(kindChanged.map((k) => `${k.name} (${k.base} → ${k.head})`))}` : ""
+    ].filter(Boolean);
     findings.push({
-      kind: "leakage",
-      severity,
-      feature: unit.name,
-      title: `${unit.name} alone separates the holdout (${metricName} ${fmt(alone)}); it is ${describeChange(unit.name)}.`,
-      message: `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)} (the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). A value this predictive on its own usually means it is computed from, or after, the outcome. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong on the base side (${metricName} ${fmt(aloneBase)}), so this pull request did not introduce it.` : `Check that it is known at prediction time.`),
-      evidence: {
-        singleFeatureSeparation: alone,
-        baseSingleFeatureSeparation: aloneBase ?? null,
-        fullModelSeparation: fullHead,
-        threshold: options.singleFeaturePower,
-        share: positiveShare(head.importances, unit.name),
-        isNew: added.has(unit.name),
-        isChanged: changed.has(unit.name)
-      }
+      kind: "feature-set",
+      severity: "info",
+      title: `This pull request ${parts.join("; ")}.`,
+      message: `Features are compared by column name. ${added.length} added, ${removed.length} removed, ${kindChanged.length} changed kind.`,
+      evidence: { added: added.length, removed: removed.length, kindChanged: kindChanged.length }
     });
   }
-  for (const unit of ranked) {
-    const slice = head.singleFeatureSlices?.[unit.name];
-    if (flagged.has(unit.name) || !slice || !(slice.separation >= options.singleFeaturePower)) continue;
-    const baseSlice = base.singleFeatureSlices?.[unit.name];
-    const isNewOrChanged = added.has(unit.name) || changed.has(unit.name);
-    const crossed = !baseSlice || !(baseSlice.separation >= options.singleFeaturePower);
-    const severity = isNewOrChanged || crossed ? options.action : "warn";
-    const overall = head.singleFeatureSeparation[unit.name];
-    flagged.add(unit.name);
-    findings.push({
-      kind: "leakage",
-      severity,
-      feature: unit.name,
-      title: `${unit.name} alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}); it is ${describeChange(unit.name)}.`,
-      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong in a slice on the base side (${baseSlice.column} = ${baseSlice.value}, ${metricName} ${fmt(baseSlice.separation)}).` : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
-      evidence: {
-        sliceColumn: slice.column,
-        sliceValue: slice.value,
-        sliceRows: slice.rows,
-        sliceSeparation: slice.separation,
-        baseSliceSeparation: baseSlice?.separation ?? null,
-        singleFeatureSeparation: overall ?? null,
-        threshold: options.singleFeaturePower,
-        isNew: added.has(unit.name),
-        isChanged: changed.has(unit.name)
-      }
-    });
-  }
-  const top = ranked[0];
-  const runnerUp = ranked[1];
-  if (top && !flagged.has(top.name) && top.mean > 0) {
-    const share = positiveShare(head.importances, top.name);
-    const ratio = runnerUp && runnerUp.mean > 0 ? top.mean / runnerUp.mean : Infinity;
-    const alone = head.singleFeatureSeparation[top.name];
-    const relative2 = alone === void 0 || !(fullHead > trivial) ? NaN : (alone - trivial) / (fullHead - trivial);
-    const dominates = share >= options.dominanceShare && ratio >= options.runnerUpRatio && relative2 >= options.relativePower;
-    if (dominates) {
-      const isNewOrChanged = added.has(top.name) || changed.has(top.name);
-      const baseShare = positiveShare(base.importances, top.name);
-      const wasDominant = baseRanked[0]?.name === top.name && baseShare >= options.dominanceShare;
-      const severity = isNewOrChanged ? options.action : wasDominant ? "info" : "warn";
-      const scoreJump = separationJump(base.separation, head.separation);
+  const byName = new Map(head.importances.map((u) => [u.name, u]));
+  for (const name of added) {
+    const unit = byName.get(name);
+    if (unit && !unit.isAboveFloor) {
       findings.push({
-        kind: "leakage",
-        severity,
-        feature: top.name,
-        title: `${top.name} dominates the model (${pct(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
-        message: `${top.name} carries ${pct(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${pct(relative2)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${pct(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${pct(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
-        evidence: {
-          share,
-          baseShare,
-          runnerUpRatio: Number.isFinite(ratio) ? ratio : null,
-          runnerUp: runnerUp?.name ?? null,
-          singleFeatureSeparation: alone ?? null,
-          relativePower: Number.isFinite(relative2) ? relative2 : null,
-          fullModelSeparation: fullHead,
-          baseFullModelSeparation: fullBase,
-          separationJumpInSds: Number.isFinite(scoreJump) ? scoreJump : null,
-          isNew: added.has(top.name),
-          isChanged: changed.has(top.name),
-          wasDominantOnBase: wasDominant
-        }
+        kind: "unused-feature",
+        severity: "info",
+        feature: name,
+        title: `The added feature ${name} is not measurably used by the candidate model.`,
+        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that does not lie above zero.`,
+        evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper }
       });
     }
   }
   return findings;
 }
-function separationJump(base, head) {
-  if (base.length < 2 || head.length < 2) return NaN;
-  const mb = mean(base);
-  const mh = mean(head);
-  const vb = base.reduce((s, v) => s + (v - mb) ** 2, 0) / (base.length - 1);
-  const vh = head.reduce((s, v) => s + (v - mh) ** 2, 0) / (head.length - 1);
-  const sd = Math.sqrt((vb + vh) / 2);
-  return sd > 0 ? (mh - mb) / sd : NaN;
+function list(names) {
+  return names.length <= 5 ? names.join(", ") : `${names.slice(0, 5).join(", ")} and ${names.length - 5} more`;
 }
-function fmt(value) {
-  if (value === void 0 || !Number.isFinite(value)) return "n/a";
-  if (value === 0) return "0";
-  const abs = Math.abs(value);
-  if (abs >= 1e3 || abs < 1e-3) return value.toExponential(2);
-  return Number(value.toPrecision(3)).toString();
-}
-function pct(value) {
-  return Number.isFinite(value) ? `${Math.round(value * 100)}%` : "n/a";
-}
-function fmtRatio(ratio) {
-  return Number.isFinite(ratio) ? `${fmt(ratio)}×` : "infinitely";
+function fmtPlain(v) {
+  return Number.isFinite(v) ? Number(v.toPrecision(3)).toString() : "n/a";
 }
 
-// src/core/statistics/kendall-tau-b.ts
-function kendallTauB(x, y) {
-  if (x.length !== y.length) {
-    throw new RangeError(`kendallTauB needs paired samples, got ${x.length} and ${y.length} values`);
+// src/core/data/align-holdout.ts
+function alignHoldout(base, head) {
+  if (!base.ids || !head.ids || base.rows !== head.rows) return head;
+  const position = /* @__PURE__ */ new Map();
+  head.ids.values.forEach((id, i) => position.set(id, i));
+  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return head;
+  const order3 = [];
+  for (const id of base.ids.values) {
+    const i = position.get(id);
+    if (i === void 0) return head;
+    order3.push(i);
   }
-  const n = x.length;
-  if (n < 2 || hasNaN(x) || hasNaN(y)) return NaN;
-  let concordant = 0;
-  let discordant = 0;
-  let tiedInX = 0;
-  let tiedInY = 0;
-  for (let i = 0; i < n - 1; i++) {
-    for (let j = i + 1; j < n; j++) {
-      const dx = compare(x[i], x[j]);
-      const dy = compare(y[i], y[j]);
-      if (dx === 0) tiedInX++;
-      if (dy === 0) tiedInY++;
-      if (dx !== 0 && dy !== 0) {
-        if (dx === dy) concordant++;
-        else discordant++;
-      }
+  if (order3.every((i, k) => i === k)) return head;
+  return selectRows(head, order3);
+}
+
+// src/core/gate/gate-settings.ts
+var fixedSettings = {
+  minRelativeChange: 0.2,
+  persistence: 0.9,
+  singleFeatureTop: 3,
+  singleFeatureMaxExtra: 20,
+  slices: { maxLevels: 20, minRows: 30 },
+  scoreBlockAtSds: 3,
+  pairedBootstrapReplicates: 200
+};
+function builtinLearnerSettings(config2) {
+  const m = config2.model.kind === "builtin" ? config2.model : { learner: "gradient-boosting", ...defaultBoosting };
+  return {
+    learner: m.learner,
+    boosting: {
+      trees: m.trees,
+      maxDepth: m.maxDepth,
+      learningRate: m.learningRate,
+      minRowsPerLeaf: m.minRowsPerLeaf,
+      l2: m.l2,
+      rowSubsample: m.rowSubsample,
+      columnSubsample: m.columnSubsample
+    },
+    maxBins: m.maxBins,
+    linearL2: m.l2
+  };
+}
+function gateSettings(config2) {
+  const groups2 = Object.entries(config2.importance.groups).map(([name, members2]) => ({ name, members: members2 }));
+  const learner = builtinLearnerSettings(config2);
+  const checks = {
+    leakage: config2.checks.leakage,
+    rankShift: { ...config2.checks.rankShift, minRelativeChange: fixedSettings.minRelativeChange },
+    rankAgreement: {
+      action: config2.checks.rankShift.action,
+      agreementPercentile: config2.checks.rankShift.agreementPercentile,
+      persistence: fixedSettings.persistence
+    },
+    score: { ...config2.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
+    holdoutRows: config2.checks.holdoutRows.action
+  };
+  return {
+    task: config2.task,
+    target: config2.target,
+    seed: config2.seed,
+    metric: config2.importance.metric,
+    draws: config2.importance.draws,
+    refits: config2.importance.refits,
+    evaluationRows: config2.importance.evaluationRows,
+    referenceRows: config2.importance.referenceRows,
+    groups: groups2,
+    learner,
+    pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
+    singleFeatureTop: fixedSettings.singleFeatureTop,
+    singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
+    slices: fixedSettings.slices,
+    // One-feature models always use gradient boosting: a linear one-feature model misses a
+    // non-monotone leak.
+    singleFeatureLearner: { ...learner, learner: "gradient-boosting" },
+    checks,
+    // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
+    // policy does not expose are marked fixed.
+    evidence: {
+      leakage: snakeKeys(config2.checks.leakage),
+      rank_shift: {
+        ...snakeKeys(config2.checks.rankShift),
+        "min_relative_change (fixed)": fixedSettings.minRelativeChange,
+        "rbo_persistence (fixed)": fixedSettings.persistence
+      },
+      score: { ...snakeKeys(config2.checks.score), "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
+      holdout_rows: snakeKeys(config2.checks.holdoutRows)
     }
-  }
-  const pairs = n * (n - 1) / 2;
-  const denominator = Math.sqrt((pairs - tiedInX) * (pairs - tiedInY));
-  return denominator === 0 ? NaN : (concordant - discordant) / denominator;
+  };
 }
-function compare(a, b) {
-  return a < b ? -1 : a > b ? 1 : 0;
-}
-function hasNaN(values) {
-  for (let i = 0; i < values.length; i++) if (Number.isNaN(values[i])) return true;
-  return false;
+function snakeKeys(values) {
+  return Object.fromEntries(Object.entries(values).map(([key, value]) => [key.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value]));
 }
 
 // node_modules/simple-statistics/dist/simple-statistics.mjs
@@ -62344,14 +61160,14 @@ function sum(x) {
   }
   return sum2 + correction;
 }
-function mean2(x) {
+function mean(x) {
   if (x.length === 0) {
     throw new Error("mean requires at least one data point");
   }
   return sum(x) / x.length;
 }
 function sumNthPowerDeviations(x, n) {
-  var meanValue = mean2(x);
+  var meanValue = mean(x);
   var sum2 = 0;
   var tempValue;
   var i;
@@ -62528,192 +61344,6 @@ PerceptronModel.prototype.train = function train2(features, label) {
   return this;
 };
 
-// src/core/statistics/percentile.ts
-function percentile(values, p) {
-  if (!(p >= 0 && p <= 100)) throw new RangeError(`percentile needs p from 0 to 100, got ${p}`);
-  if (values.length === 0) throw new RangeError("percentile needs at least one value, got none");
-  const sorted = Float64Array.from(values).sort();
-  if (Number.isNaN(sorted[sorted.length - 1])) return NaN;
-  return quantileSorted(Array.from(sorted), p / 100);
-}
-
-// src/core/statistics/rank-biased-overlap.ts
-function rankBiasedOverlap(a, b, options) {
-  const p = options.persistence;
-  if (!(p > 0 && p < 1)) throw new RangeError(`rankBiasedOverlap needs persistence in (0, 1), got ${p}`);
-  const [short, long] = a.length <= b.length ? [a, b] : [b, a];
-  const s = short.length;
-  const l = long.length;
-  const overlap = new Float64Array(l + 1);
-  const seenShort = /* @__PURE__ */ new Set();
-  const seenLong = /* @__PURE__ */ new Set();
-  for (let d = 1; d <= l; d++) {
-    let x = overlap[d - 1];
-    const itemLong = long[d - 1];
-    if (seenLong.has(itemLong)) throw duplicateError(itemLong, long === a ? "first" : "second");
-    seenLong.add(itemLong);
-    if (d <= s) {
-      const itemShort = short[d - 1];
-      if (seenShort.has(itemShort)) throw duplicateError(itemShort, short === a ? "first" : "second");
-      seenShort.add(itemShort);
-      if (itemShort === itemLong) x += 1;
-      else x += Number(seenLong.has(itemShort)) + Number(seenShort.has(itemLong));
-    } else if (seenShort.has(itemLong)) {
-      x += 1;
-    }
-    overlap[d] = x;
-  }
-  if (s === 0) return { extrapolated: NaN, minimum: 0, residual: 1 };
-  const xs = overlap[s];
-  const xl = overlap[l];
-  const scale = (1 - p) / p;
-  const logInverse = -Math.log1p(-p);
-  let seenSum = 0;
-  let tailSum = 0;
-  let minimumSum = 0;
-  let power = 1;
-  for (let d = 1; d <= l; d++) {
-    power *= p;
-    seenSum += overlap[d] * power / d;
-    minimumSum += (overlap[d] - xl) * power / d;
-    if (d > s) tailSum += xs * (d - s) * power / (s * d);
-  }
-  const extrapolated = scale * (seenSum + tailSum) + ((xl - xs) / l + xs / s) * p ** l;
-  const f = s + l - xl;
-  let harmonicToF = 0;
-  let fromS = 0;
-  let fromL = 0;
-  power = 1;
-  for (let d = 1; d <= f; d++) {
-    power *= p;
-    const term = power / d;
-    harmonicToF += term;
-    if (d > s) fromS += term;
-    if (d > l) fromL += term;
-  }
-  const residual = p ** s + p ** l - p ** f - scale * (s * fromS + l * fromL + xl * (logInverse - harmonicToF));
-  return { extrapolated, minimum: scale * (minimumSum + xl * logInverse), residual };
-}
-function duplicateError(item, which2) {
-  return new RangeError(`rankBiasedOverlap needs distinct items in each list; '${item}' appears twice in the ${which2} list`);
-}
-
-// src/core/checks/rank-agreement.ts
-function checkRankAgreement(base, head, options) {
-  const baseIndex = new Map(base.importances.map((u, i) => [u.name, i]));
-  const names = head.importances.filter((h) => {
-    const bi = baseIndex.get(h.name);
-    return !h.isGroup && bi !== void 0 && (h.isAboveFloor || base.importances[bi].isAboveFloor);
-  }).map((h) => h.name);
-  if (names.length < 3 || base.perRefit.length < 2 || head.perRefit.length < 2) {
-    return { findings: [], agreement: null };
-  }
-  const headIndex = new Map(head.importances.map((u, i) => [u.name, i]));
-  const vector = (side2, index, refit) => names.map((name) => side2.perRefit[refit][index.get(name)].mean);
-  const baseVectors = base.perRefit.map((_, r) => vector(base, baseIndex, r));
-  const headVectors = head.perRefit.map((_, r) => vector(head, headIndex, r));
-  const tau = (a, b) => kendallTauB(a, b);
-  const rbo = (a, b) => rankBiasedOverlap(order(names, a), order(names, b), { persistence: options.persistence }).extrapolated;
-  const crossTau = [];
-  const crossRbo = [];
-  for (const a of baseVectors) {
-    for (const b of headVectors) {
-      crossTau.push(tau(a, b));
-      crossRbo.push(rbo(a, b));
-    }
-  }
-  const nullTau = [];
-  const nullRbo = [];
-  for (const vectors of [baseVectors, headVectors]) {
-    for (let i = 0; i < vectors.length; i++) {
-      for (let j = i + 1; j < vectors.length; j++) {
-        nullTau.push(tau(vectors[i], vectors[j]));
-        nullRbo.push(rbo(vectors[i], vectors[j]));
-      }
-    }
-  }
-  const finiteTau = nullTau.filter(Number.isFinite);
-  const kendallTau = mean(crossTau.filter(Number.isFinite));
-  const rankBiased = mean(crossRbo);
-  const tauThreshold = finiteTau.length ? percentile(finiteTau, options.agreementPercentile) : NaN;
-  const rboThreshold = percentile(nullRbo, options.agreementPercentile);
-  const agreement = {
-    kendallTau,
-    rankBiasedOverlap: rankBiased,
-    persistence: options.persistence,
-    nullKendallTau: nullTau,
-    nullRankBiasedOverlap: nullRbo,
-    kendallTauThreshold: tauThreshold,
-    rankBiasedOverlapThreshold: rboThreshold,
-    featuresCompared: names.length
-  };
-  const findings = [];
-  const tauLow = kendallTau < tauThreshold;
-  const rboLow = rankBiased < rboThreshold;
-  if (options.action !== "off" && (tauLow || rboLow)) {
-    findings.push({
-      kind: "rank-agreement",
-      severity: options.action,
-      title: `The feature ranking changed more than reseeding alone changes it (Kendall tau-b ${fmt(kendallTau)}, RBO ${fmt(rankBiased)}).`,
-      message: `Over ${names.length} features above the noise floor, base and head refits agree with Kendall tau-b ${fmt(kendallTau)} and rank-biased overlap ${fmt(rankBiased)} (RBO_EXT, p = ${options.persistence}); two refits with other seeds agree at least ${fmt(tauThreshold)} and ${fmt(rboThreshold)} in ${100 - options.agreementPercentile}% of pairs.`,
-      evidence: {
-        kendallTau,
-        rankBiasedOverlap: rankBiased,
-        kendallTauThreshold: tauThreshold,
-        rankBiasedOverlapThreshold: rboThreshold,
-        featuresCompared: names.length,
-        nullPairs: nullTau.length
-      }
-    });
-  }
-  return { findings, agreement };
-}
-function order(names, values) {
-  return names.map((name, i) => ({ name, value: values[i] })).sort((a, b) => b.value - a.value || (a.name < b.name ? -1 : 1)).map((x) => x.name);
-}
-
-// src/core/statistics/p-value-order.ts
-function pValueOrder(pValues, caller) {
-  const order3 = new Uint32Array(pValues.length);
-  for (let i = 0; i < pValues.length; i++) {
-    if (!(pValues[i] >= 0 && pValues[i] <= 1)) {
-      throw new RangeError(`${caller} needs p-values in [0, 1], got ${pValues[i]} at index ${i}`);
-    }
-    order3[i] = i;
-  }
-  return order3.sort((i, j) => pValues[i] - pValues[j]);
-}
-
-// src/core/statistics/benjamini-hochberg.ts
-function benjaminiHochberg(pValues) {
-  const m = pValues.length;
-  const order3 = pValueOrder(pValues, "benjaminiHochberg");
-  const adjusted = new Float64Array(m);
-  let running = 1;
-  for (let rank = m; rank >= 1; rank--) {
-    const i = order3[rank - 1];
-    running = Math.min(running, pValues[i] * (m / rank));
-    adjusted[i] = running;
-  }
-  return adjusted;
-}
-
-// src/core/statistics/log-beta.ts
-function logBeta(a, b) {
-  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
-    throw new RangeError(`logBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
-  }
-  const small = Math.min(a, b);
-  const big = Math.max(a, b);
-  if (big < 10) return gammaln(a) + gammaln(b) - gammaln(a + b);
-  const logGammaRatio = (big - 0.5) * Math.log1p(small / big) + small * Math.log(big + small) - small + stirlingRemainder(big + small) - stirlingRemainder(big);
-  return gammaln(small) - logGammaRatio;
-}
-function stirlingRemainder(z3) {
-  const w = 1 / (z3 * z3);
-  return (1 / 12 - w * (1 / 360 - w * (1 / 1260 - w * (1 / 1680 - w * (1 / 1188 - w * (691 / 360360 - w / 156)))))) / z3;
-}
-
 // src/core/statistics/continued-fraction.ts
 function continuedFraction(leading, numerator, denominator, limits) {
   const tiny = 1e-300;
@@ -62764,287 +61394,6 @@ function regularizedIncompleteGamma(a, x) {
   return { lower: 1 - upper, upper };
 }
 
-// src/core/statistics/normal-cdf.ts
-function normalCdf(z3) {
-  if (Number.isNaN(z3)) return NaN;
-  const { lower, upper } = regularizedIncompleteGamma(0.5, z3 * z3 / 2);
-  return z3 < 0 ? upper / 2 : 0.5 + lower / 2;
-}
-
-// src/core/statistics/regularized-incomplete-beta.ts
-function regularizedIncompleteBeta(x, a, b) {
-  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
-    throw new RangeError(`regularizedIncompleteBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
-  }
-  if (!(x >= 0 && x <= 1)) throw new RangeError(`regularizedIncompleteBeta needs x in [0, 1], got ${x}`);
-  if (x === 0) return 0;
-  if (x === 1) return 1;
-  const front = Math.exp(a * Math.log(x) + b * Math.log1p(-x) - logBeta(a, b));
-  if (x < (a + 1) / (a + b + 2)) return front * betaContinuedFraction(x, a, b) / a;
-  return 1 - front * betaContinuedFraction(1 - x, b, a) / b;
-}
-function betaContinuedFraction(x, a, b) {
-  const numerator = (j) => {
-    const m = j >> 1;
-    if (j % 2 === 1) return -(a + m) * (a + b + m) * x / ((a + 2 * m) * (a + 2 * m + 1));
-    return m * (b - m) * x / ((a + 2 * m - 1) * (a + 2 * m));
-  };
-  const maxTerms = 2 * (200 + Math.ceil(20 * Math.sqrt(Math.max(a, b))));
-  return 1 / continuedFraction(1, numerator, () => 1, { maxTerms, caller: "regularizedIncompleteBeta" });
-}
-
-// src/core/statistics/student-t-cdf.ts
-function studentTCdf(t, df) {
-  if (!(df > 0)) throw new RangeError(`studentTCdf needs degrees of freedom > 0, got ${df}`);
-  if (Number.isNaN(t)) return NaN;
-  if (df === Infinity) return normalCdf(t);
-  const ratio = t * t / df;
-  const x = 1 / (1 + ratio);
-  let lowerTail;
-  if (ratio > 1e300) {
-    const logX = Math.log(df) - 2 * Math.log(Math.abs(t));
-    lowerTail = Math.exp(df / 2 * logX - Math.log(df / 2) - logBeta(df / 2, 0.5)) / 2;
-  } else if (x < (df / 2 + 1) / (df / 2 + 2.5)) {
-    lowerTail = regularizedIncompleteBeta(x, df / 2, 0.5) / 2;
-  } else {
-    lowerTail = 0.5 - regularizedIncompleteBeta(ratio / (1 + ratio), 0.5, df / 2) / 2;
-  }
-  return t < 0 ? lowerTail : 1 - lowerTail;
-}
-
-// src/core/statistics/welch-t-test.ts
-function welchTTest(x, y) {
-  if (x.length < 2 || y.length < 2) {
-    throw new RangeError(`welchTTest needs at least two values per sample, got ${x.length} and ${y.length}`);
-  }
-  const first = Array.from(x);
-  const second = Array.from(y);
-  const missing = first.findIndex(Number.isNaN);
-  const missingSecond = second.findIndex(Number.isNaN);
-  if (missing >= 0 || missingSecond >= 0) {
-    const [where2, index] = missing >= 0 ? ["x", missing] : ["y", missingSecond];
-    throw new RangeError(`welchTTest cannot use NaN (${where2}[${index}]); drop missing values first`);
-  }
-  return welchTTestFromSummary(
-    { mean: mean2(first), sd: sampleStandardDeviation(first), n: first.length },
-    { mean: mean2(second), sd: sampleStandardDeviation(second), n: second.length }
-  );
-}
-function welchTTestFromSummary(a, b) {
-  checkSummary(a, "first");
-  checkSummary(b, "second");
-  const va = a.sd * a.sd / a.n;
-  const vb = b.sd * b.sd / b.n;
-  const standardError = Math.sqrt(va + vb);
-  const meanDifference = a.mean - b.mean;
-  if (standardError === 0) {
-    const t2 = meanDifference === 0 ? 0 : Math.sign(meanDifference) * Infinity;
-    return { t: t2, df: NaN, pValue: meanDifference === 0 ? 1 : 0, meanDifference, standardError };
-  }
-  const t = meanDifference / standardError;
-  const df = (va + vb) ** 2 / (va * va / (a.n - 1) + vb * vb / (b.n - 1));
-  const pValue = Math.min(1, 2 * studentTCdf(-Math.abs(t), df));
-  return { t, df, pValue, meanDifference, standardError };
-}
-function checkSummary(group2, which2) {
-  if (!(Number.isInteger(group2.n) && group2.n >= 2)) {
-    throw new RangeError(`welchTTestFromSummary needs n >= 2 (a whole number) in the ${which2} group, got ${group2.n}`);
-  }
-  if (!(group2.sd >= 0 && group2.sd < Infinity)) {
-    throw new RangeError(`welchTTestFromSummary needs a finite sd >= 0 in the ${which2} group, got ${group2.sd}`);
-  }
-  if (!Number.isFinite(group2.mean)) {
-    throw new RangeError(`welchTTestFromSummary needs a finite mean in the ${which2} group, got ${group2.mean}`);
-  }
-}
-
-// src/core/checks/rank-shift.ts
-function checkRankShift(base, head, options) {
-  const baseByName = new Map(base.importances.map((u) => [u.name, u]));
-  const pairs = [];
-  head.importances.forEach((h, hi) => {
-    const b = baseByName.get(h.name);
-    if (b && b.isGroup === h.isGroup) pairs.push({ name: h.name, isGroup: h.isGroup, b, h, bi: base.importances.indexOf(b), hi });
-  });
-  const isTestable = pairs.map((p) => samples(base, p.bi).length >= 2 && samples(head, p.hi).length >= 2);
-  const tests = pairs.map(
-    (p, index) => isTestable[index] ? welchTTest(samples(base, p.bi), samples(head, p.hi)) : { t: NaN, df: NaN, pValue: NaN }
-  );
-  const adjustedTestable = benjaminiHochberg(tests.filter((_, index) => isTestable[index]).map((t) => t.pValue));
-  let nextAdjusted = 0;
-  const adjusted = isTestable.map((testable) => testable ? adjustedTestable[nextAdjusted++] : NaN);
-  const compared = pairs.filter((p) => !p.isGroup && (p.b.isAboveFloor || p.h.isAboveFloor));
-  const baseRank = rankWithin(compared.map((p) => p.b));
-  const headRank = rankWithin(compared.map((p) => p.h));
-  const shifts = /* @__PURE__ */ new Map();
-  const findings = [];
-  pairs.forEach((p, index) => {
-    const test = tests[index];
-    const isCompared = baseRank.has(p.name);
-    const positionsMoved = isCompared ? headRank.get(p.name) - baseRank.get(p.name) : null;
-    const difference = p.h.mean - p.b.mean;
-    const larger = Math.max(Math.abs(p.b.mean), Math.abs(p.h.mean));
-    const relativeChange = larger > 0 ? Math.abs(difference) / larger : 0;
-    const isSignificant = adjusted[index] <= options.falseDiscoveryRate;
-    shifts.set(p.name, {
-      meanDifference: difference,
-      welchT: test.t,
-      welchDf: test.df,
-      pValue: test.pValue,
-      adjustedPValue: adjusted[index],
-      isSignificant,
-      positionsMoved
-    });
-    const movesEnough = positionsMoved !== null && Math.abs(positionsMoved) >= options.minPositions || relativeChange >= options.minRelativeChange;
-    if (options.action !== "off" && isSignificant && isCompared && movesEnough) {
-      const direction = difference > 0 ? "rose" : "fell";
-      const moved = positionsMoved === null || positionsMoved === 0 ? "kept its rank" : `moved from rank ${baseRank.get(p.name)} to ${headRank.get(p.name)}`;
-      findings.push({
-        kind: "rank-shift",
-        severity: options.action,
-        feature: p.name,
-        title: `${p.name}'s importance ${direction} from ${fmt(p.b.mean)} to ${fmt(p.h.mean)} (${pct(relativeChange)}) and ${moved}.`,
-        message: `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits, Welch's t = ${fmt(test.t)} (df ${fmt(test.df)}), p = ${fmt(test.pValue)}, Benjamini–Hochberg adjusted p = ${fmt(adjusted[index])} against a false discovery rate of ${options.falseDiscoveryRate}. Reseed noise (refit SD) is ${fmt(p.b.refitSd)} on the base side and ${fmt(p.h.refitSd)} on the head.`,
-        evidence: {
-          baseMean: p.b.mean,
-          headMean: p.h.mean,
-          relativeChange,
-          baseRefitSd: p.b.refitSd,
-          headRefitSd: p.h.refitSd,
-          welchT: test.t,
-          welchDf: test.df,
-          pValue: test.pValue,
-          adjustedPValue: adjusted[index],
-          baseRank: baseRank.get(p.name) ?? null,
-          headRank: headRank.get(p.name) ?? null
-        }
-      });
-    }
-    if (!p.isGroup && p.b.isAboveFloor && !p.h.isAboveFloor) {
-      findings.push({
-        kind: "floor-drop",
-        severity: "info",
-        feature: p.name,
-        title: `${p.name} fell to the noise floor (importance ${fmt(p.b.mean)} on the base side, ${fmt(p.h.mean)} now).`,
-        message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] does not lie above zero: the candidate model no longer measurably relies on it.`,
-        evidence: { baseMean: p.b.mean, headMean: p.h.mean, headLower: p.h.lower, headUpper: p.h.upper }
-      });
-    }
-  });
-  return { findings, shifts };
-}
-function samples(side2, index) {
-  if (side2.perRefit.length >= 2) return side2.perRefit.map((r) => r[index].mean);
-  return side2.perRefit[0][index].draws;
-}
-function rankWithin(units) {
-  const sorted = [...units].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
-  return new Map(sorted.map((u, i) => [u.name, i + 1]));
-}
-
-// src/core/checks/score-regression.ts
-function checkScoreRegression(evidence, options) {
-  const { baseScores, headScores } = evidence;
-  const baseMean = mean(baseScores);
-  const headMean = mean(headScores);
-  const worsening = options.higherIsBetter ? baseMean - headMean : headMean - baseMean;
-  let standardError;
-  let pValue;
-  let df = null;
-  if (baseScores.length >= 2 && headScores.length >= 2) {
-    const welch = welchTTestFromSummary(summary2(baseScores), summary2(headScores));
-    standardError = welch.standardError;
-    df = welch.df;
-    pValue = tailAbove(worsening - options.tolerance, standardError, (t) => 1 - studentTCdf(t, welch.df));
-  } else if (evidence.pairedBootstrap && evidence.pairedBootstrap.length >= 2) {
-    const b = evidence.pairedBootstrap;
-    const m = mean(b);
-    standardError = Math.sqrt(b.reduce((s, v) => s + (v - m) ** 2, 0) / (b.length - 1));
-    pValue = tailAbove(worsening - options.tolerance, standardError, (z3) => 1 - studentTCdf(z3, Infinity));
-  } else {
-    standardError = NaN;
-    pValue = worsening > options.tolerance ? 0 : 1;
-  }
-  if (options.action === "off" || !(worsening > options.tolerance) || !(pValue < options.alpha)) return [];
-  const spread = pooledSd(evidence);
-  const worseningInSds = spread > 0 ? worsening / spread : Infinity;
-  const severity = options.action === "block" && worseningInSds < (options.blockAtSds ?? 0) ? "warn" : options.action;
-  return [
-    {
-      kind: "score-regression",
-      severity,
-      title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (by ${fmt(worsening)}, beyond noise).`,
-      message: `The candidate's mean holdout ${options.metric} is ${fmt(headMean)} against ${fmt(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${fmt(worsening)} exceeds the tolerance of ${options.tolerance} with one-sided p = ${fmt(pValue)} (standard error ${fmt(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${fmt(df)} over reseeded refits`) + `; level ${options.alpha}).`,
-      evidence: {
-        baseMean,
-        headMean,
-        worsening,
-        tolerance: options.tolerance,
-        standardError: Number.isFinite(standardError) ? standardError : null,
-        welchDf: df,
-        pValue,
-        alpha: options.alpha,
-        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null
-      }
-    }
-  ];
-}
-function pooledSd(evidence) {
-  const { baseScores, headScores, pairedBootstrap: pairedBootstrap2 } = evidence;
-  if (baseScores.length >= 2 && headScores.length >= 2) {
-    return Math.sqrt((summary2(baseScores).sd ** 2 + summary2(headScores).sd ** 2) / 2);
-  }
-  if (pairedBootstrap2 && pairedBootstrap2.length >= 2) return summary2(pairedBootstrap2).sd;
-  return NaN;
-}
-function summary2(values) {
-  const m = mean(values);
-  const sd = Math.sqrt(values.reduce((s, v) => s + (v - m) ** 2, 0) / (values.length - 1));
-  return { mean: m, sd, n: values.length };
-}
-function tailAbove(excess, se, upperTail) {
-  if (!(se > 0)) return excess > 0 ? 0 : 1;
-  return upperTail(excess / se);
-}
-
-// src/core/checks/verdict.ts
-var order2 = { block: 0, warn: 1, info: 2 };
-function sortFindings(findings) {
-  return findings.map((finding, index) => ({ finding, index })).sort((a, b) => order2[a.finding.severity] - order2[b.finding.severity] || a.index - b.index).map((x) => x.finding);
-}
-function decideVerdict(findings) {
-  if (findings.some((f) => f.severity === "block")) return "block";
-  if (findings.some((f) => f.severity === "warn")) return "warn";
-  return "pass";
-}
-function writeHeadline(verdict, findings) {
-  const sorted = sortFindings(findings);
-  const deciding = sorted.filter((f) => f.severity === verdict);
-  const more = deciding.length > 1 ? ` (and ${deciding.length - 1} more ${verdict === "block" ? "blocking" : "warning"} finding${deciding.length > 2 ? "s" : ""})` : "";
-  if (verdict === "pass") {
-    return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
-  }
-  const title = lowerFirst(deciding[0].title);
-  const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
-  return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
-}
-function lowerFirst(text3) {
-  return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
-}
-
-// src/core/checks/demote-consequences.ts
-function demoteConsequences(findings) {
-  const leak = findings.find((f) => f.kind === "leakage" && f.severity === "block");
-  if (!leak) return [...findings];
-  return findings.map(
-    (f) => f.kind === "rank-shift" && f.feature !== leak.feature || f.kind === "rank-agreement" ? {
-      ...f,
-      severity: f.severity === "block" ? "block" : "info",
-      message: `${f.message} Likely a consequence of the leakage finding on ${leak.feature}: a feature that takes over the model moves every other feature's importance.`
-    } : f
-  );
-}
-
 // src/core/statistics/normal-quantile.ts
 function normalQuantile(p) {
   if (!(p >= 0 && p <= 1)) throw new RangeError(`normalQuantile needs p in [0, 1], got ${p}`);
@@ -63073,6 +61422,70 @@ function normalQuantile(p) {
     if (Math.abs(delta) <= 4e-15 * x) return p < 0.5 ? -x : x;
   }
   throw new InternalError(`normalQuantile: Newton iteration did not converge for p = ${p}`);
+}
+
+// src/core/statistics/log-beta.ts
+function logBeta(a, b) {
+  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
+    throw new RangeError(`logBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
+  }
+  const small = Math.min(a, b);
+  const big = Math.max(a, b);
+  if (big < 10) return gammaln(a) + gammaln(b) - gammaln(a + b);
+  const logGammaRatio = (big - 0.5) * Math.log1p(small / big) + small * Math.log(big + small) - small + stirlingRemainder(big + small) - stirlingRemainder(big);
+  return gammaln(small) - logGammaRatio;
+}
+function stirlingRemainder(z3) {
+  const w = 1 / (z3 * z3);
+  return (1 / 12 - w * (1 / 360 - w * (1 / 1260 - w * (1 / 1680 - w * (1 / 1188 - w * (691 / 360360 - w / 156)))))) / z3;
+}
+
+// src/core/statistics/regularized-incomplete-beta.ts
+function regularizedIncompleteBeta(x, a, b) {
+  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
+    throw new RangeError(`regularizedIncompleteBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
+  }
+  if (!(x >= 0 && x <= 1)) throw new RangeError(`regularizedIncompleteBeta needs x in [0, 1], got ${x}`);
+  if (x === 0) return 0;
+  if (x === 1) return 1;
+  const front = Math.exp(a * Math.log(x) + b * Math.log1p(-x) - logBeta(a, b));
+  if (x < (a + 1) / (a + b + 2)) return front * betaContinuedFraction(x, a, b) / a;
+  return 1 - front * betaContinuedFraction(1 - x, b, a) / b;
+}
+function betaContinuedFraction(x, a, b) {
+  const numerator = (j) => {
+    const m = j >> 1;
+    if (j % 2 === 1) return -(a + m) * (a + b + m) * x / ((a + 2 * m) * (a + 2 * m + 1));
+    return m * (b - m) * x / ((a + 2 * m - 1) * (a + 2 * m));
+  };
+  const maxTerms = 2 * (200 + Math.ceil(20 * Math.sqrt(Math.max(a, b))));
+  return 1 / continuedFraction(1, numerator, () => 1, { maxTerms, caller: "regularizedIncompleteBeta" });
+}
+
+// src/core/statistics/normal-cdf.ts
+function normalCdf(z3) {
+  if (Number.isNaN(z3)) return NaN;
+  const { lower, upper } = regularizedIncompleteGamma(0.5, z3 * z3 / 2);
+  return z3 < 0 ? upper / 2 : 0.5 + lower / 2;
+}
+
+// src/core/statistics/student-t-cdf.ts
+function studentTCdf(t, df) {
+  if (!(df > 0)) throw new RangeError(`studentTCdf needs degrees of freedom > 0, got ${df}`);
+  if (Number.isNaN(t)) return NaN;
+  if (df === Infinity) return normalCdf(t);
+  const ratio = t * t / df;
+  const x = 1 / (1 + ratio);
+  let lowerTail;
+  if (ratio > 1e300) {
+    const logX = Math.log(df) - 2 * Math.log(Math.abs(t));
+    lowerTail = Math.exp(df / 2 * logX - Math.log(df / 2) - logBeta(df / 2, 0.5)) / 2;
+  } else if (x < (df / 2 + 1) / (df / 2 + 2.5)) {
+    lowerTail = regularizedIncompleteBeta(x, df / 2, 0.5) / 2;
+  } else {
+    lowerTail = 0.5 - regularizedIncompleteBeta(ratio / (1 + ratio), 0.5, df / 2) / 2;
+  }
+  return t < 0 ? lowerTail : 1 - lowerTail;
 }
 
 // src/core/statistics/student-t-quantile.ts
@@ -63215,7 +61628,7 @@ function tInterval(values, options = {}) {
   if (n === 0) throw new RangeError("tInterval needs at least one value, got none");
   const missing = sample.findIndex(Number.isNaN);
   if (missing >= 0) throw new RangeError(`tInterval cannot use NaN (at index ${missing}); drop missing values first`);
-  const center = mean2(sample);
+  const center = mean(sample);
   if (n === 1) return { mean: center, sd: NaN, n, halfWidth: NaN, lower: NaN, upper: NaN };
   const sd = sampleStandardDeviation(sample);
   const halfWidth = -studentTQuantile((1 - level) / 2, n - 1) * sd / Math.sqrt(n);
@@ -63507,6 +61920,2015 @@ function capRows(data, cap, seed) {
   return selectRows(data, picked);
 }
 
+// src/core/models/gbt/bin-features.ts
+var MISSING_BIN = 255;
+function binFeatures(matrix, options = {}) {
+  const maxBins = options.maxBins ?? 255;
+  if (!Number.isInteger(maxBins) || maxBins < 2 || maxBins > 255) {
+    throw new RangeError(`binFeatures needs maxBins to be a whole number from 2 to 255, got ${maxBins}`);
+  }
+  if (matrix.columns.length !== matrix.features.length) {
+    throw new RangeError(
+      `binFeatures needs one column per feature, got ${matrix.columns.length} columns for ${matrix.features.length} features`
+    );
+  }
+  const n = matrix.rows;
+  const codes = [];
+  const upperEdges = [];
+  const binCounts = new Int32Array(matrix.columns.length);
+  for (let j = 0; j < matrix.columns.length; j++) {
+    const column = matrix.columns[j];
+    if (column.length !== n) {
+      throw new RangeError(`binFeatures: column '${matrix.features[j].name}' has ${column.length} values, expected ${n}`);
+    }
+    const edges = quantileEdges(column, maxBins);
+    upperEdges.push(edges);
+    binCounts[j] = edges.length;
+    codes.push(assignBins(column, edges));
+  }
+  return { rows: n, features: matrix.features, codes, binCounts, upperEdges };
+}
+function quantileEdges(column, maxBins) {
+  let present = 0;
+  for (let i = 0; i < column.length; i++) if (column[i] === column[i]) present++;
+  const sorted = new Float64Array(present);
+  let k = 0;
+  for (let i = 0; i < column.length; i++) if (column[i] === column[i]) sorted[k++] = column[i];
+  sorted.sort();
+  const values = new Float64Array(present);
+  const counts = new Int32Array(present);
+  let distinct = 0;
+  for (let i = 0; i < present; i++) {
+    if (distinct > 0 && sorted[i] === values[distinct - 1]) counts[distinct - 1]++;
+    else {
+      values[distinct] = sorted[i];
+      counts[distinct] = 1;
+      distinct++;
+    }
+  }
+  const edges = [];
+  let rowsLeft = present;
+  let binsLeft = maxBins;
+  let inBin = 0;
+  for (let d = 0; d < distinct; d++) {
+    inBin += counts[d];
+    const isLast = d === distinct - 1;
+    const closes = isLast || distinct <= maxBins || inBin * binsLeft >= rowsLeft;
+    if (!closes) continue;
+    edges.push(isLast ? values[d] : edgeBetween(values[d], values[d + 1]));
+    rowsLeft -= inBin;
+    binsLeft--;
+    inBin = 0;
+  }
+  return Float64Array.from(edges);
+}
+function edgeBetween(below, above) {
+  const mid = below + (above - below) / 2;
+  return mid < above ? mid : below;
+}
+function assignBins(column, edges) {
+  const out = new Uint8Array(column.length);
+  const last = edges.length - 1;
+  for (let i = 0; i < column.length; i++) {
+    const v = column[i];
+    if (v !== v) {
+      out[i] = MISSING_BIN;
+      continue;
+    }
+    let lo = 0;
+    let hi = last;
+    while (lo < hi) {
+      const mid = lo + hi >>> 1;
+      if (v <= edges[mid]) hi = mid;
+      else lo = mid + 1;
+    }
+    out[i] = lo;
+  }
+  return out;
+}
+
+// src/core/models/gbt/replacement-predictor.ts
+function createTreeReplacementPredictor(ensemble, base) {
+  const position = new Map(base.features.map((f, j) => [f.name, j]));
+  const names = ensemble.featureNames;
+  const columns = names.map((name) => {
+    const j = position.get(name);
+    if (j === void 0) throw new RangeError(`createTreeReplacementPredictor: the matrix has no feature named '${name}'`);
+    return base.columns[j];
+  });
+  const n = base.rows;
+  const trees = ensemble.trees;
+  const F = names.length;
+  const raw = new Float64Array(n).fill(ensemble.baseScore);
+  const leaf = [];
+  const touched = [];
+  const seenAt = new Int32Array(F).fill(-1);
+  for (let t = 0; t < trees.length; t++) {
+    const { feature, threshold, left, right, missingGoesLeft, value } = trees[t];
+    const leaves = new Float64Array(n);
+    const lists = Array.from({ length: F }, () => []);
+    for (let i = 0; i < n; i++) {
+      let node2 = 0;
+      let f = feature[0];
+      while (f >= 0) {
+        if (seenAt[f] !== i) {
+          seenAt[f] = i;
+          lists[f].push(i);
+        }
+        const v = columns[f][i];
+        node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
+        f = feature[node2];
+      }
+      leaves[i] = value[node2];
+      raw[i] += value[node2];
+    }
+    seenAt.fill(-1);
+    leaf.push(leaves);
+    touched.push(lists.map((l) => Int32Array.from(l)));
+  }
+  const isBinary = ensemble.task === "binary";
+  return {
+    rows: n,
+    predict(replaced, draws) {
+      const replacedIndex = [];
+      const replacement = [];
+      for (const [name, values] of replaced) {
+        const f = names.indexOf(name);
+        if (f < 0) continue;
+        if (values.length !== n * draws) {
+          throw new RangeError(`ReplacementPredictor.predict: '${name}' has ${values.length} values, expected ${n * draws}`);
+        }
+        replacedIndex.push(f);
+        replacement.push(values);
+      }
+      const out = new Float64Array(n * draws);
+      for (let k = 0; k < draws; k++) out.set(raw, k * n);
+      if (replacedIndex.length > 0) {
+        const isReplaced = new Int32Array(F).fill(-1);
+        replacedIndex.forEach((f, r) => isReplaced[f] = r);
+        const mark = new Uint8Array(n);
+        for (let t = 0; t < trees.length; t++) {
+          const { feature, threshold, left, right, missingGoesLeft, value } = trees[t];
+          const rows = unionRows(touched[t], replacedIndex, mark);
+          const leaves = leaf[t];
+          for (let k = 0; k < draws; k++) {
+            const offset = k * n;
+            for (let p = 0; p < rows.length; p++) {
+              const i = rows[p];
+              let node2 = 0;
+              let f = feature[0];
+              while (f >= 0) {
+                const r = isReplaced[f];
+                const v = r >= 0 ? replacement[r][offset + i] : columns[f][i];
+                node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
+                f = feature[node2];
+              }
+              out[offset + i] += value[node2] - leaves[i];
+            }
+          }
+        }
+      }
+      if (isBinary) for (let i = 0; i < out.length; i++) out[i] = 1 / (1 + Math.exp(-out[i]));
+      return out;
+    }
+  };
+}
+function unionRows(lists, features, mark) {
+  if (features.length === 1) return lists[features[0]];
+  const rows = [];
+  for (const f of features) {
+    for (const i of lists[f]) {
+      if (mark[i] === 0) {
+        mark[i] = 1;
+        rows.push(i);
+      }
+    }
+  }
+  for (const i of rows) mark[i] = 0;
+  rows.sort((a, b) => a - b);
+  return Int32Array.from(rows);
+}
+
+// src/core/models/gbt/boosted-model.ts
+var BoostedModel = class {
+  constructor(ensemble, splitStatistics) {
+    this.ensemble = ensemble;
+    this.splitStatistics = splitStatistics;
+    this.task = ensemble.task;
+    this.featureNames = ensemble.featureNames;
+  }
+  ensemble;
+  splitStatistics;
+  kind = "boosted-trees";
+  task;
+  featureNames;
+  /**
+   * Predictions over raw values ("raw" as opposed to bins): the regression value, or for a binary
+   * task the positive-class probability. Features are found by name in `matrix`, in any order; extra
+   * columns are ignored. Throws RangeError naming a feature the matrix lacks. Cost O(rows x trees x depth).
+   */
+  /** Permutation importance's fast path: see createTreeReplacementPredictor. */
+  createReplacementPredictor(base) {
+    return createTreeReplacementPredictor(this.ensemble, base);
+  }
+  predictRaw(matrix) {
+    const position = new Map(matrix.features.map((f, j) => [f.name, j]));
+    const columns = this.featureNames.map((name) => {
+      const j = position.get(name);
+      if (j === void 0) {
+        throw new RangeError(`BoostedModel.predictRaw: the matrix has no feature named '${name}'`);
+      }
+      return matrix.columns[j];
+    });
+    const n = matrix.rows;
+    const score2 = new Float64Array(n).fill(this.ensemble.baseScore);
+    for (const tree of this.ensemble.trees) addTree(tree, columns, n, score2);
+    if (this.task === "binary") {
+      for (let i = 0; i < n; i++) score2[i] = 1 / (1 + Math.exp(-score2[i]));
+    }
+    return score2;
+  }
+  async predict(matrix) {
+    return this.predictRaw(matrix);
+  }
+};
+function addTree(tree, columns, n, score2) {
+  const { feature, threshold, left, right, missingGoesLeft, value } = tree;
+  for (let i = 0; i < n; i++) {
+    let node2 = 0;
+    let f = feature[0];
+    while (f >= 0) {
+      const v = columns[f][i];
+      const goLeft = v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2];
+      node2 = goLeft ? left[node2] : right[node2];
+      f = feature[node2];
+    }
+    score2[i] += value[node2];
+  }
+}
+
+// src/core/models/resolve-training-subset.ts
+function resolveTrainingSubset(caller, shape, target, task, options) {
+  if (task !== "regression" && task !== "binary") throw new RangeError(`${caller}: unknown task '${String(task)}'`);
+  if (target.length !== shape.rows) {
+    throw new RangeError(`${caller} needs one target per row, got ${target.length} targets for ${shape.rows} rows`);
+  }
+  const { rows, features } = options;
+  let positions;
+  if (rows === void 0) positions = Int32Array.from({ length: shape.rows }, (_, i) => i);
+  else {
+    positions = new Int32Array(rows.length);
+    for (let i = 0; i < rows.length; i++) {
+      const r = rows[i];
+      if (!Number.isInteger(r) || r < 0 || r >= shape.rows) {
+        throw new RangeError(`${caller}: rows[${i}] is ${r}, not a row index from 0 to ${shape.rows - 1}`);
+      }
+      positions[i] = r;
+    }
+  }
+  if (positions.length === 0) throw new RangeError(`${caller} needs at least one training row, got none`);
+  for (const j of features ?? []) {
+    if (!Number.isInteger(j) || j < 0 || j >= shape.features) {
+      throw new RangeError(`${caller}: features contains ${j}, not a column index from 0 to ${shape.features - 1}`);
+    }
+  }
+  const used = features === void 0 ? Array.from({ length: shape.features }, (_, j) => j) : [...new Set(features)].sort((a, b) => a - b);
+  const y = new Float64Array(positions.length);
+  for (let p = 0; p < positions.length; p++) {
+    const value = target[positions[p]];
+    if (!Number.isFinite(value) || task === "binary" && value !== 0 && value !== 1) {
+      const rule2 = task === "binary" ? "binary targets must be 0 or 1" : "regression targets must be finite";
+      throw new RangeError(`${caller}: target of row ${positions[p]} is ${value}; ${rule2}`);
+    }
+    y[p] = value;
+  }
+  return { positions, features: used, y };
+}
+
+// src/core/models/gbt/fit-boosted.ts
+var MIN_HESSIAN_PER_LEAF = 1;
+function fitBoosted(binned, target, options) {
+  const { task, settings } = options;
+  checkSettings(settings);
+  const { positions, features: used, y } = resolveTrainingSubset(
+    "fitBoosted",
+    { rows: binned.rows, features: binned.features.length },
+    target,
+    task,
+    options
+  );
+  const n = positions.length;
+  const featureCount = used.length;
+  const rowCodes = gatherRowMajor(binned.codes, used, positions);
+  const binCounts = Int32Array.from(used, (j) => binned.binCounts[j]);
+  let targetSum = 0;
+  for (let p = 0; p < n; p++) targetSum += y[p];
+  const baseScore = task === "regression" ? targetSum / n : logOdds(targetSum / n);
+  const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n));
+  const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)));
+  const grower = new TreeGrower(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, task === "regression");
+  const score2 = new Float64Array(n).fill(baseScore);
+  const random = createRandom(options.seed);
+  const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k);
+  const gainByFeature = new Float64Array(featureCount);
+  const splitsByFeature = new Int32Array(featureCount);
+  const trees = [];
+  const upperEdges = used.map((j) => binned.upperEdges[j]);
+  for (let t = 0; t < settings.trees; t++) {
+    computeGradients(task, y, score2, grower.gradient, grower.hessian);
+    const rowCount = sampleSorted(n, sampleSize, random, grower.order);
+    const treeFeatures = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
+    grower.grow(rowCount, treeFeatures);
+    grower.addToScores(score2, rowCount);
+    grower.addSplitStatistics(gainByFeature, splitsByFeature);
+    trees.push(grower.toTree(upperEdges));
+  }
+  const featureNames = used.map((j) => binned.features[j].name);
+  const splitStatistics = featureNames.map((feature, k) => ({
+    feature,
+    gain: gainByFeature[k],
+    splits: splitsByFeature[k]
+  }));
+  return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics);
+}
+function checkSettings(s) {
+  const wholeAtLeast = (name, min) => {
+    if (!Number.isInteger(s[name]) || s[name] < min) {
+      throw new RangeError(`fitBoosted needs settings.${name} to be a whole number >= ${min}, got ${s[name]}`);
+    }
+  };
+  const fraction = (name) => {
+    if (!(s[name] > 0 && s[name] <= 1)) throw new RangeError(`fitBoosted needs settings.${name} in (0, 1], got ${s[name]}`);
+  };
+  wholeAtLeast("trees", 0);
+  wholeAtLeast("maxDepth", 0);
+  wholeAtLeast("minRowsPerLeaf", 1);
+  if (s.maxDepth > 16) throw new RangeError(`fitBoosted needs settings.maxDepth <= 16, got ${s.maxDepth}`);
+  if (!(s.learningRate > 0) || !Number.isFinite(s.learningRate)) {
+    throw new RangeError(`fitBoosted needs settings.learningRate > 0, got ${s.learningRate}`);
+  }
+  if (!(s.l2 >= 0) || !Number.isFinite(s.l2)) throw new RangeError(`fitBoosted needs settings.l2 >= 0, got ${s.l2}`);
+  fraction("rowSubsample");
+  fraction("columnSubsample");
+}
+function gatherRowMajor(codes, used, positions) {
+  const width = used.length;
+  const out = new Uint8Array(positions.length * width);
+  for (let k = 0; k < width; k++) {
+    const column = codes[used[k]];
+    for (let p = 0, at3 = k; p < positions.length; p++, at3 += width) out[at3] = column[positions[p]];
+  }
+  return out;
+}
+function logOdds(rate) {
+  const r = Math.min(1 - 1e-6, Math.max(1e-6, rate));
+  return Math.log(r / (1 - r));
+}
+function computeGradients(task, y, score2, g2, h) {
+  const n = y.length;
+  if (task === "regression") {
+    for (let i = 0; i < n; i++) {
+      g2[i] = score2[i] - y[i];
+      h[i] = 1;
+    }
+    return;
+  }
+  for (let i = 0; i < n; i++) {
+    const p = 1 / (1 + Math.exp(-score2[i]));
+    g2[i] = p - y[i];
+    h[i] = p * (1 - p);
+  }
+}
+function sampleSorted(n, m, random, out) {
+  if (m >= n) {
+    for (let i = 0; i < n; i++) out[i] = i;
+    return n;
+  }
+  let chosen = 0;
+  for (let i = 0; i < n && chosen < m; i++) {
+    if ((n - i) * random.next() < m - chosen) out[chosen++] = i;
+  }
+  return chosen;
+}
+function sampleFeatures(total, count3, random) {
+  const out = new Int32Array(count3);
+  sampleSorted(total, count3, random, out);
+  return out;
+}
+var SLOTS_PER_FEATURE = 256;
+var TreeGrower = class {
+  constructor(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, isUnitHessian) {
+    this.rowCodes = rowCodes;
+    this.featureCount = featureCount;
+    this.binCounts = binCounts;
+    this.settings = settings;
+    this.isUnitHessian = isUnitHessian;
+    this.gradient = new Float64Array(n);
+    this.hessian = new Float64Array(n);
+    this.order = new Int32Array(n);
+    this.scratch = new Int32Array(n);
+    this.slot = isUnitHessian ? 2 : 3;
+    this.featureStride = this.slot * SLOTS_PER_FEATURE;
+    this.treeCodes = rowCodes;
+    this.packedCodes = treeFeatureCount < featureCount ? new Uint8Array(n * treeFeatureCount) : rowCodes;
+    this.treeBins = new Int32Array(featureCount);
+    const m = 2 ** (settings.maxDepth + 1) - 1;
+    this.feature = new Int32Array(m);
+    this.splitBin = new Int32Array(m);
+    this.missingLeft = new Uint8Array(m);
+    this.left = new Int32Array(m);
+    this.right = new Int32Array(m);
+    this.value = new Float64Array(m);
+    this.gain = new Float64Array(m);
+    this.begin = new Int32Array(m);
+    this.end = new Int32Array(m);
+    this.sumGradient = new Float64Array(m);
+    this.sumHessian = new Float64Array(m);
+    this.histogramOf = new Int32Array(m);
+  }
+  rowCodes;
+  featureCount;
+  binCounts;
+  settings;
+  isUnitHessian;
+  gradient;
+  hessian;
+  /** Sampled row positions, grouped by node: node i's rows are order[begin[i]..end[i]). */
+  order;
+  scratch;
+  slot;
+  featureStride;
+  // The current tree's features: codes[p * width + t] is position p's bin for tree feature t.
+  treeFeatures = new Int32Array(0);
+  treeCodes;
+  packedCodes;
+  width = 0;
+  treeBins;
+  // The tree being grown, node-indexed in creation (breadth-first) order. feature is the tree feature t.
+  nodeCount = 0;
+  feature;
+  splitBin;
+  missingLeft;
+  left;
+  right;
+  value;
+  gain;
+  begin;
+  end;
+  sumGradient;
+  sumHessian;
+  /** Histogram buffer of a node, -1 when it has none. */
+  histogramOf;
+  histograms = [];
+  freeHistograms = [];
+  // The best split found by findSplit.
+  bestGain = 0;
+  bestFeature = -1;
+  bestBin = -1;
+  bestMissingLeft = 0;
+  bestLeftGradient = 0;
+  bestLeftHessian = 0;
+  bestLeftCount = 0;
+  /** Grows one tree on order[0..rowCount) with the given features (fit-local indices, ascending). */
+  grow(rowCount, treeFeatures) {
+    this.useFeatures(treeFeatures);
+    const { settings, gradient, hessian, order: order3 } = this;
+    let g2 = 0;
+    let h = 0;
+    for (let i = 0; i < rowCount; i++) {
+      g2 += gradient[order3[i]];
+      h += hessian[order3[i]];
+    }
+    this.nodeCount = 1;
+    this.begin[0] = 0;
+    this.end[0] = rowCount;
+    this.sumGradient[0] = g2;
+    this.sumHessian[0] = h;
+    this.histogramOf[0] = -1;
+    if (settings.maxDepth > 0 && this.canSplit(0)) {
+      this.histogramOf[0] = this.takeHistogram();
+      this.buildHistogram(this.histograms[this.histogramOf[0]], 0);
+    }
+    let levelStart = 0;
+    for (let depth = 0; depth <= settings.maxDepth; depth++) {
+      const levelEnd = this.nodeCount;
+      const childrenAreLeaves = depth + 1 >= settings.maxDepth;
+      for (let node2 = levelStart; node2 < levelEnd; node2++) {
+        if (this.histogramOf[node2] >= 0 && this.findSplit(node2)) this.split(node2, childrenAreLeaves);
+        else this.makeLeaf(node2);
+        if (this.histogramOf[node2] >= 0) {
+          this.freeHistograms.push(this.histogramOf[node2]);
+          this.histogramOf[node2] = -1;
+        }
+      }
+      levelStart = levelEnd;
+    }
+  }
+  /** Points treeCodes at this tree's features, packing them row-major when they are a subset. */
+  useFeatures(treeFeatures) {
+    const width = treeFeatures.length;
+    this.treeFeatures = treeFeatures;
+    this.width = width;
+    for (let t = 0; t < width; t++) this.treeBins[t] = this.binCounts[treeFeatures[t]];
+    if (width === this.featureCount) {
+      this.treeCodes = this.rowCodes;
+      return;
+    }
+    const { rowCodes, packedCodes, featureCount } = this;
+    const n = this.order.length;
+    for (let p = 0, from = 0, to = 0; p < n; p++, from += featureCount, to += width) {
+      for (let t = 0; t < width; t++) packedCodes[to + t] = rowCodes[from + treeFeatures[t]];
+    }
+    this.treeCodes = packedCodes;
+  }
+  canSplit(node2) {
+    return this.end[node2] - this.begin[node2] >= 2 * this.settings.minRowsPerLeaf && this.sumHessian[node2] >= 2 * MIN_HESSIAN_PER_LEAF;
+  }
+  makeLeaf(node2) {
+    this.feature[node2] = -1;
+    this.value[node2] = -this.sumGradient[node2] / (this.sumHessian[node2] + this.settings.l2) * this.settings.learningRate;
+  }
+  takeHistogram() {
+    const free = this.freeHistograms.pop();
+    if (free !== void 0) return free;
+    this.histograms.push(new Float64Array(this.featureCount * this.featureStride));
+    return this.histograms.length - 1;
+  }
+  /** Best split of a node by gain; false when none has positive gain within the leaf constraints. */
+  findSplit(node2) {
+    const hist = this.histograms[this.histogramOf[node2]];
+    const { l2, minRowsPerLeaf } = this.settings;
+    const minHessian = MIN_HESSIAN_PER_LEAF;
+    const slot = this.slot;
+    const countAt = slot - 1;
+    const G = this.sumGradient[node2];
+    const H = this.sumHessian[node2];
+    const C = this.end[node2] - this.begin[node2];
+    const parentScore = G * G / (H + l2);
+    let bestGain = 0;
+    let bestFeature = -1;
+    let bestBin = -1;
+    let bestMissingLeft = 0;
+    let bestLG = 0;
+    let bestLH = 0;
+    let bestLC = 0;
+    for (let t = 0; t < this.width; t++) {
+      const base = t * this.featureStride;
+      const bins = this.treeBins[t];
+      const missing = base + MISSING_BIN * slot;
+      const mG = hist[missing];
+      const mH = hist[missing + 1];
+      const mC = hist[missing + countAt];
+      const hasMissing = mC > 0;
+      let lG = 0;
+      let lH = 0;
+      let lC = 0;
+      for (let b = 0, s = base; b < bins; b++, s += slot) {
+        lG += hist[s];
+        lH += hist[s + 1];
+        lC += hist[s + countAt];
+        let rC = C - lC;
+        if (lC >= minRowsPerLeaf && rC >= minRowsPerLeaf) {
+          const rH = H - lH;
+          if (lH >= minHessian && rH >= minHessian) {
+            const rG = G - lG;
+            const gain = 0.5 * (lG * lG / (lH + l2) + rG * rG / (rH + l2) - parentScore);
+            if (gain > bestGain) {
+              bestGain = gain;
+              bestFeature = t;
+              bestBin = b;
+              bestMissingLeft = !hasMissing && lC > rC ? 1 : 0;
+              bestLG = lG;
+              bestLH = lH;
+              bestLC = lC;
+            }
+          }
+        }
+        if (!hasMissing) continue;
+        const aC = lC + mC;
+        rC = C - aC;
+        if (aC >= minRowsPerLeaf && rC >= minRowsPerLeaf) {
+          const aH = lH + mH;
+          const rH = H - aH;
+          if (aH >= minHessian && rH >= minHessian) {
+            const aG = lG + mG;
+            const rG = G - aG;
+            const gain = 0.5 * (aG * aG / (aH + l2) + rG * rG / (rH + l2) - parentScore);
+            if (gain > bestGain) {
+              bestGain = gain;
+              bestFeature = t;
+              bestBin = b;
+              bestMissingLeft = 1;
+              bestLG = aG;
+              bestLH = aH;
+              bestLC = aC;
+            }
+          }
+        }
+      }
+    }
+    if (bestFeature < 0) return false;
+    this.bestGain = bestGain;
+    this.bestFeature = bestFeature;
+    this.bestBin = bestBin;
+    this.bestMissingLeft = bestMissingLeft;
+    this.bestLeftGradient = bestLG;
+    this.bestLeftHessian = bestLH;
+    this.bestLeftCount = bestLC;
+    return true;
+  }
+  /** Applies the best split found for `node`: partitions its rows, creates children and their histograms. */
+  split(node2, childrenAreLeaves) {
+    const t = this.bestFeature;
+    this.feature[node2] = t;
+    this.splitBin[node2] = this.bestBin;
+    this.missingLeft[node2] = this.bestMissingLeft;
+    this.gain[node2] = this.bestGain;
+    const from = this.begin[node2];
+    const to = this.end[node2];
+    const middle = partition(
+      this.order,
+      this.scratch,
+      from,
+      to,
+      this.treeCodes,
+      this.width,
+      t,
+      this.bestBin,
+      this.bestMissingLeft
+    );
+    if (middle - from !== this.bestLeftCount) {
+      throw new InternalError("fitBoosted: the partition disagrees with the histogram");
+    }
+    const l = this.nodeCount;
+    const r = l + 1;
+    this.nodeCount += 2;
+    this.left[node2] = l;
+    this.right[node2] = r;
+    this.begin[l] = from;
+    this.end[l] = middle;
+    this.begin[r] = middle;
+    this.end[r] = to;
+    this.sumGradient[l] = this.bestLeftGradient;
+    this.sumHessian[l] = this.bestLeftHessian;
+    this.sumGradient[r] = this.sumGradient[node2] - this.bestLeftGradient;
+    this.sumHessian[r] = this.sumHessian[node2] - this.bestLeftHessian;
+    this.histogramOf[l] = -1;
+    this.histogramOf[r] = -1;
+    if (childrenAreLeaves) return;
+    const leftNeeds = this.canSplit(l);
+    const rightNeeds = this.canSplit(r);
+    if (!leftNeeds && !rightNeeds) return;
+    const leftIsSmaller = middle - from <= to - middle;
+    const small = leftIsSmaller ? l : r;
+    const large = leftIsSmaller ? r : l;
+    const smallHist = this.takeHistogram();
+    this.buildHistogram(this.histograms[smallHist], small);
+    if (leftIsSmaller ? rightNeeds : leftNeeds) {
+      const parentHist = this.histogramOf[node2];
+      this.subtractHistogram(this.histograms[parentHist], this.histograms[smallHist]);
+      this.histogramOf[large] = parentHist;
+      this.histogramOf[node2] = -1;
+    }
+    if (leftIsSmaller ? leftNeeds : rightNeeds) this.histogramOf[small] = smallHist;
+    else this.freeHistograms.push(smallHist);
+  }
+  buildHistogram(hist, node2) {
+    hist.fill(0, 0, this.width * this.featureStride);
+    const from = this.begin[node2];
+    const to = this.end[node2];
+    if (this.isUnitHessian) {
+      accumulateUnitHessian(hist, this.treeCodes, this.width, this.order, from, to, this.gradient);
+    } else {
+      accumulate(hist, this.treeCodes, this.width, this.order, from, to, this.gradient, this.hessian);
+    }
+  }
+  subtractHistogram(into, minus) {
+    const slot = this.slot;
+    for (let t = 0; t < this.width; t++) {
+      const base = t * this.featureStride;
+      const stop = base + this.treeBins[t] * slot;
+      for (let s = base; s < stop; s++) into[s] -= minus[s];
+      const missing = base + MISSING_BIN * slot;
+      for (let s = missing; s < missing + slot; s++) into[s] -= minus[s];
+    }
+  }
+  /** Adds this tree's leaf values to the training scores of every position (sampled or not). */
+  addToScores(score2, rowCount) {
+    const { order: order3, feature, value, begin, end } = this;
+    for (let node2 = 0; node2 < this.nodeCount; node2++) {
+      if (feature[node2] >= 0) continue;
+      const v = value[node2];
+      for (let i = begin[node2]; i < end[node2]; i++) score2[order3[i]] += v;
+    }
+    if (rowCount === score2.length) return;
+    const sampled = new Uint8Array(score2.length);
+    for (let i = 0; i < rowCount; i++) sampled[order3[i]] = 1;
+    const { treeCodes, width, splitBin, missingLeft, left, right } = this;
+    for (let p = 0; p < score2.length; p++) {
+      if (sampled[p] === 1) continue;
+      let node2 = 0;
+      while (feature[node2] >= 0) {
+        const code = treeCodes[p * width + feature[node2]];
+        const goLeft = code === MISSING_BIN ? missingLeft[node2] === 1 : code <= splitBin[node2];
+        node2 = goLeft ? left[node2] : right[node2];
+      }
+      score2[p] += value[node2];
+    }
+  }
+  addSplitStatistics(gainByFeature, splitsByFeature) {
+    for (let node2 = 0; node2 < this.nodeCount; node2++) {
+      const t = this.feature[node2];
+      if (t < 0) continue;
+      gainByFeature[this.treeFeatures[t]] += this.gain[node2];
+      splitsByFeature[this.treeFeatures[t]]++;
+    }
+  }
+  /** The grown tree with raw thresholds; feature indices are the fit-local (model) indices. */
+  toTree(upperEdges) {
+    const m = this.nodeCount;
+    const tree = {
+      feature: new Int32Array(m).fill(-1),
+      threshold: new Float64Array(m),
+      left: new Int32Array(m).fill(-1),
+      right: new Int32Array(m).fill(-1),
+      missingGoesLeft: new Uint8Array(m),
+      value: new Float64Array(m)
+    };
+    for (let node2 = 0; node2 < m; node2++) {
+      const t = this.feature[node2];
+      if (t < 0) {
+        tree.value[node2] = this.value[node2];
+        continue;
+      }
+      const k = this.treeFeatures[t];
+      tree.feature[node2] = k;
+      tree.threshold[node2] = upperEdges[k][this.splitBin[node2]];
+      tree.left[node2] = this.left[node2];
+      tree.right[node2] = this.right[node2];
+      tree.missingGoesLeft[node2] = this.missingLeft[node2];
+    }
+    return tree;
+  }
+};
+function accumulate(hist, codes, width, order3, from, to, gradient, hessian) {
+  const stride = 3 * SLOTS_PER_FEATURE;
+  for (let i = from; i < to; i++) {
+    const p = order3[i];
+    const g2 = gradient[p];
+    const h = hessian[p];
+    const row = p * width;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + t] * 3;
+      hist[s] += g2;
+      hist[s + 1] += h;
+      hist[s + 2] += 1;
+    }
+  }
+}
+function accumulateUnitHessian(hist, codes, width, order3, from, to, gradient) {
+  const stride = 2 * SLOTS_PER_FEATURE;
+  for (let i = from; i < to; i++) {
+    const p = order3[i];
+    const g2 = gradient[p];
+    const row = p * width;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + t] * 2;
+      hist[s] += g2;
+      hist[s + 1] += 1;
+    }
+  }
+}
+function partition(order3, scratch, from, to, codes, width, t, bin, missingLeft) {
+  let write = from;
+  let spill = 0;
+  const missingGoesLeft = missingLeft === 1;
+  for (let i = from; i < to; i++) {
+    const p = order3[i];
+    const code = codes[p * width + t];
+    if (code === MISSING_BIN ? missingGoesLeft : code <= bin) order3[write++] = p;
+    else scratch[spill++] = p;
+  }
+  for (let i = 0; i < spill; i++) order3[write + i] = scratch[i];
+  return write;
+}
+
+// src/core/models/linear/linear-model.ts
+var LinearModel = class {
+  constructor(state, convergence) {
+    this.state = state;
+    this.convergence = convergence;
+    if (state.terms.length !== state.featureNames.length) {
+      throw new RangeError(
+        `LinearModel needs one term per feature, got ${state.terms.length} terms for ${state.featureNames.length} features`
+      );
+    }
+    this.task = state.task;
+    this.featureNames = state.featureNames;
+  }
+  state;
+  convergence;
+  kind = "linear";
+  task;
+  featureNames;
+  /**
+   * Predictions over raw values: the regression value, or for a binary task the positive-class
+   * probability. Throws RangeError naming a feature the matrix lacks. O(rows x features).
+   */
+  predictRaw(matrix) {
+    const position = new Map(matrix.features.map((f, j) => [f.name, j]));
+    const n = matrix.rows;
+    const score2 = new Float64Array(n).fill(this.state.intercept);
+    this.state.terms.forEach((term, k) => {
+      const j = position.get(this.featureNames[k]);
+      if (j === void 0) {
+        throw new RangeError(`LinearModel.predictRaw: the matrix has no feature named '${this.featureNames[k]}'`);
+      }
+      const column = matrix.columns[j];
+      if (term.kind === "numeric") {
+        const { coefficient, fill: fill2 } = term;
+        for (let i = 0; i < n; i++) score2[i] += coefficient * (column[i] !== column[i] ? fill2 : column[i]);
+        return;
+      }
+      const { coefficients, fill } = term;
+      for (let i = 0; i < n; i++) {
+        const code = column[i];
+        score2[i] += Number.isInteger(code) && code >= 0 && code < coefficients.length ? coefficients[code] : fill;
+      }
+    });
+    if (this.task === "binary") {
+      for (let i = 0; i < n; i++) score2[i] = 1 / (1 + Math.exp(-score2[i]));
+    }
+    return score2;
+  }
+  async predict(matrix) {
+    return this.predictRaw(matrix);
+  }
+};
+
+// src/core/models/linear/solve-positive-definite.ts
+function solvePositiveDefinite(matrix, rhs, size) {
+  if (matrix.length !== size * size || rhs.length !== size) {
+    throw new RangeError(
+      `solvePositiveDefinite needs a ${size} x ${size} matrix and ${size} right-hand sides, got ${matrix.length} and ${rhs.length} values`
+    );
+  }
+  const l = new Float64Array(size * size);
+  for (let i = 0; i < size; i++) {
+    for (let j = 0; j <= i; j++) {
+      let sum2 = matrix[i * size + j];
+      for (let k = 0; k < j; k++) sum2 -= l[i * size + k] * l[j * size + k];
+      if (i === j) {
+        const diagonal = matrix[i * size + i];
+        if (!(diagonal > 0) || !(sum2 > 1e-10 * diagonal)) return { singularAt: i };
+        l[i * size + i] = Math.sqrt(sum2);
+      } else {
+        l[i * size + j] = sum2 / l[j * size + j];
+      }
+    }
+  }
+  const x = Float64Array.from(rhs);
+  for (let i = 0; i < size; i++) {
+    let sum2 = x[i];
+    for (let k = 0; k < i; k++) sum2 -= l[i * size + k] * x[k];
+    x[i] = sum2 / l[i * size + i];
+  }
+  for (let i = size - 1; i >= 0; i--) {
+    let sum2 = x[i];
+    for (let k = i + 1; k < size; k++) sum2 -= l[k * size + i] * x[k];
+    x[i] = sum2 / l[i * size + i];
+  }
+  return { solution: x };
+}
+
+// src/core/models/linear/build-standardized-design.ts
+function buildStandardizedDesign(caller, task, matrix, target, options) {
+  const { positions, features, y } = resolveTrainingSubset(
+    caller,
+    { rows: matrix.rows, features: matrix.features.length },
+    target,
+    task,
+    options
+  );
+  const n = positions.length;
+  const specs = [];
+  const columnLabels = [];
+  for (const j of features) {
+    const info2 = matrix.features[j];
+    const values = matrix.columns[j];
+    if (info2.kind === "categorical") {
+      const spec = describeCategorical(caller, info2.name, values, positions, info2.categories?.length, columnLabels.length);
+      for (const level of spec.levels.slice(1)) columnLabels.push(`${info2.name} = ${info2.categories?.[level] ?? level}`);
+      specs.push(spec);
+    } else {
+      const spec = describeNumeric(values, positions, columnLabels.length);
+      if (spec.column >= 0) columnLabels.push(info2.name);
+      specs.push(spec);
+    }
+  }
+  const width = columnLabels.length;
+  const design = new Float64Array(n * width);
+  specs.forEach((spec, s) => {
+    const values = matrix.columns[features[s]];
+    if (spec.kind === "numeric") {
+      if (spec.column < 0) return;
+      for (let p = 0, at3 = spec.column; p < n; p++, at3 += width) {
+        const x = values[positions[p]];
+        design[at3] = x !== x ? 0 : (x - spec.mean) / spec.sd;
+      }
+      return;
+    }
+    for (let l = 1; l < spec.levels.length; l++) {
+      const level = spec.levels[l];
+      const frequency = spec.frequencies[l];
+      for (let p = 0, at3 = spec.firstColumn + l - 1; p < n; p++, at3 += width) {
+        const code = values[positions[p]];
+        design[at3] = code !== code ? 0 : (code === level ? 1 : 0) - frequency;
+      }
+    }
+  });
+  const featureNames = features.map((j) => matrix.features[j].name);
+  function toState(intercept, coefficients) {
+    let rawIntercept = intercept;
+    const terms = specs.map((spec) => {
+      if (spec.kind === "numeric") {
+        if (spec.column < 0) return { kind: "numeric", coefficient: 0, fill: spec.mean };
+        const coefficient = coefficients[spec.column] / spec.sd;
+        rawIntercept -= coefficient * spec.mean;
+        return { kind: "numeric", coefficient, fill: spec.mean };
+      }
+      if (spec.levels.length === 0) return { kind: "categorical", coefficients: [], fill: 0 };
+      let fill = 0;
+      const byLevel = /* @__PURE__ */ new Map([[spec.levels[0], 0]]);
+      for (let l = 1; l < spec.levels.length; l++) {
+        const beta = coefficients[spec.firstColumn + l - 1];
+        byLevel.set(spec.levels[l], beta);
+        fill += spec.frequencies[l] * beta;
+      }
+      rawIntercept -= fill;
+      const size = Math.max(spec.dictionarySize, spec.levels[spec.levels.length - 1] + 1);
+      const perCode = Array.from({ length: size }, (_, code) => byLevel.get(code) ?? fill);
+      return { kind: "categorical", coefficients: perCode, fill };
+    });
+    return { task, featureNames, intercept: rawIntercept, terms };
+  }
+  return { rows: n, width, values: design, y, columnLabels, toState };
+}
+function describeNumeric(values, positions, column) {
+  const n = positions.length;
+  let sum2 = 0;
+  let present = 0;
+  for (let p = 0; p < n; p++) {
+    const x = values[positions[p]];
+    if (x === x) {
+      sum2 += x;
+      present++;
+    }
+  }
+  if (present === 0) return { kind: "numeric", mean: 0, sd: 0, column: -1 };
+  const mean3 = sum2 / present;
+  let squares = 0;
+  for (let p = 0; p < n; p++) {
+    const x = values[positions[p]];
+    if (x === x) squares += (x - mean3) * (x - mean3);
+  }
+  const sd = Math.sqrt(squares / n);
+  return { kind: "numeric", mean: mean3, sd, column: sd > 0 ? column : -1 };
+}
+function describeCategorical(caller, name, values, positions, dictionarySize, firstColumn) {
+  const counts = /* @__PURE__ */ new Map();
+  let present = 0;
+  for (let p = 0; p < positions.length; p++) {
+    const code = values[positions[p]];
+    if (code !== code) continue;
+    if (!Number.isInteger(code) || code < 0) {
+      throw new RangeError(`${caller}: categorical feature '${name}' has code ${code} in row ${positions[p]}; codes are whole numbers >= 0`);
+    }
+    counts.set(code, (counts.get(code) ?? 0) + 1);
+    present++;
+  }
+  const levels = [...counts.keys()].sort((a, b) => a - b);
+  const frequencies = levels.map((level) => counts.get(level) / present);
+  return { kind: "categorical", dictionarySize: dictionarySize ?? 0, levels, frequencies, firstColumn };
+}
+function collinearityError(caller, label) {
+  return new UserError(
+    `${caller}: '${label}' is a linear combination of the features before it on the training rows, so the unpenalized fit has no unique coefficients.`,
+    "Give the linear learner a positive l2 penalty, or drop one of the collinear features."
+  );
+}
+
+// src/core/models/linear/fit-logistic.ts
+function fitLogistic(matrix, target, options) {
+  const { l2 } = options;
+  const maxIterations = options.maxIterations ?? 100;
+  if (!(l2 >= 0) || !Number.isFinite(l2)) throw new RangeError(`fitLogistic needs l2 >= 0, got ${l2}`);
+  if (!Number.isInteger(maxIterations) || maxIterations < 1) {
+    throw new RangeError(`fitLogistic needs maxIterations to be a whole number >= 1, got ${maxIterations}`);
+  }
+  const design = buildStandardizedDesign("fitLogistic", "binary", matrix, target, options);
+  const { rows: n, width: q, y } = design;
+  let positives = 0;
+  for (let i = 0; i < n; i++) positives += y[i];
+  const rate = Math.min(1 - 1e-6, Math.max(1e-6, positives / n));
+  const theta = new Float64Array(q + 1);
+  theta[0] = Math.log(rate / (1 - rate));
+  const finish2 = (iterations, converged) => new LinearModel(design.toState(theta[0], theta.subarray(1)), { iterations, converged });
+  if (positives === 0 || positives === n) return finish2(0, true);
+  const size = q + 1;
+  const eta = new Float64Array(n);
+  const candidate = new Float64Array(size);
+  let objective = computeObjective(design, theta, l2, eta);
+  for (let iteration = 1; iteration <= maxIterations; iteration++) {
+    const { gradient, hessian } = newtonSystem(design, theta, l2, eta);
+    const solved = solvePositiveDefinite(hessian, gradient, size);
+    if ("singularAt" in solved) {
+      if (iteration === 1) throw collinearityError("fitLogistic", design.columnLabels[solved.singularAt - 1]);
+      return finish2(iteration - 1, false);
+    }
+    const direction = solved.solution;
+    let decrementSquared = 0;
+    for (let k = 0; k < size; k++) decrementSquared += gradient[k] * direction[k];
+    const isDone = decrementSquared / 2 <= 1e-12 * (1 + objective);
+    let t = 1;
+    let next = Infinity;
+    for (let halvings = 0; halvings < 60; halvings++, t /= 2) {
+      for (let k = 0; k < size; k++) candidate[k] = theta[k] - t * direction[k];
+      next = computeObjective(design, candidate, l2, eta);
+      if (next <= objective - 0.01 * t * decrementSquared) break;
+    }
+    if (!(next <= objective)) return finish2(iteration, isDone);
+    theta.set(candidate);
+    objective = next;
+    if (isDone) return finish2(iteration, true);
+  }
+  return finish2(maxIterations, false);
+}
+function computeObjective(design, theta, l2, eta) {
+  const { rows: n, width: q, values: z3, y } = design;
+  let sum2 = 0;
+  for (let i = 0, row = 0; i < n; i++, row += q) {
+    let e = theta[0];
+    for (let a = 0; a < q; a++) e += z3[row + a] * theta[a + 1];
+    eta[i] = e;
+    sum2 += (e > 0 ? e + Math.log1p(Math.exp(-e)) : Math.log1p(Math.exp(e))) - y[i] * e;
+  }
+  let penalty = 0;
+  for (let a = 1; a <= q; a++) penalty += theta[a] * theta[a];
+  return sum2 + 0.5 * l2 * penalty;
+}
+function newtonSystem(design, theta, l2, eta) {
+  const { rows: n, width: q, values: z3, y } = design;
+  const size = q + 1;
+  const gradient = new Float64Array(size);
+  const hessian = new Float64Array(size * size);
+  for (let i = 0, row = 0; i < n; i++, row += q) {
+    const p = 1 / (1 + Math.exp(-eta[i]));
+    const residual = p - y[i];
+    const w = p * (1 - p);
+    gradient[0] += residual;
+    hessian[0] += w;
+    for (let a = 0; a < q; a++) {
+      const za = z3[row + a];
+      if (za === 0) continue;
+      const wa = w * za;
+      gradient[a + 1] += residual * za;
+      const at3 = (a + 1) * size;
+      hessian[at3] += wa;
+      for (let b = 0; b <= a; b++) hessian[at3 + b + 1] += wa * z3[row + b];
+    }
+  }
+  for (let a = 1; a <= q; a++) {
+    gradient[a] += l2 * theta[a];
+    hessian[a * size + a] += l2;
+  }
+  return { gradient, hessian };
+}
+
+// src/core/models/linear/fit-ridge.ts
+function fitRidge(matrix, target, options) {
+  const { l2 } = options;
+  if (!(l2 >= 0) || !Number.isFinite(l2)) throw new RangeError(`fitRidge needs l2 >= 0, got ${l2}`);
+  const design = buildStandardizedDesign("fitRidge", "regression", matrix, target, options);
+  const { rows: n, width: q, values: z3, y } = design;
+  let mean3 = 0;
+  for (let i = 0; i < n; i++) mean3 += y[i];
+  mean3 /= n;
+  const gram = new Float64Array(q * q);
+  const rhs = new Float64Array(q);
+  for (let i = 0, row = 0; i < n; i++, row += q) {
+    const residual = y[i] - mean3;
+    for (let a = 0; a < q; a++) {
+      const za = z3[row + a];
+      if (za === 0) continue;
+      rhs[a] += za * residual;
+      for (let b = 0; b <= a; b++) gram[a * q + b] += za * z3[row + b];
+    }
+  }
+  for (let a = 0; a < q; a++) gram[a * q + a] += l2;
+  const solved = solvePositiveDefinite(gram, rhs, q);
+  if ("singularAt" in solved) throw collinearityError("fitRidge", design.columnLabels[solved.singularAt]);
+  return new LinearModel(design.toState(mean3, solved.solution));
+}
+
+// src/core/models/builtin-fit.ts
+function createBuiltinFit(train3, task, settings) {
+  const target = train3.target?.values;
+  if (!target) throw new RangeError("createBuiltinFit needs a training dataset with a target");
+  let binned;
+  const names = train3.features.map((f) => f.name);
+  return async (request2) => {
+    const leaveOut = new Set(request2.leaveOut);
+    for (const name of leaveOut) {
+      if (!names.includes(name)) throw new RangeError(`createBuiltinFit: cannot leave out unknown feature '${name}'`);
+    }
+    const rows = shuffledIndices(train3.rows, createRandom(deriveSeed(request2.seed, "row-order")));
+    const columnOrder = Array.from(shuffledIndices(names.length, createRandom(deriveSeed(request2.seed, "column-order"))));
+    const features = columnOrder.filter((j) => !leaveOut.has(names[j]));
+    if (features.length === 0) throw new RangeError("createBuiltinFit: every feature was left out");
+    if (settings.learner === "linear") {
+      const options = { l2: settings.linearL2, rows, features };
+      return task === "binary" ? fitLogistic(train3, target, options) : fitRidge(train3, target, options);
+    }
+    binned ??= binFeatures(train3, { maxBins: settings.maxBins });
+    return fitBoosted(binned, target, { task, settings: settings.boosting, seed: request2.seed, rows, features });
+  };
+}
+
+// src/core/gate/measure-both-sides.ts
+var measureInTurn = async ([base, head]) => [
+  await measureSide(base.inputs, base.options),
+  await measureSide(head.inputs, head.options)
+];
+function measureJob(side2, data, settings, metric, onProgress) {
+  const { model } = data;
+  const source = model.kind === "builtin" ? { fit: createBuiltinFit(data.train, settings.task, settings.learner) } : model.kind === "command" ? { fit: model.fit } : { model: model.model };
+  return {
+    inputs: { side: side2, train: data.train, holdout: data.holdout, reference: data.reference, ...source },
+    options: {
+      task: settings.task,
+      metric,
+      seed: settings.seed,
+      refits: settings.refits,
+      draws: settings.draws,
+      groups: settings.groups,
+      evaluationRows: settings.evaluationRows,
+      referenceRows: settings.referenceRows,
+      onRefit: (refit, of) => onProgress?.({ stage: "refit", side: side2, refit, of }),
+      concurrentFits: model.kind === "command"
+    },
+    ...model.kind === "builtin" ? { builtin: { task: settings.task, settings: settings.learner } } : {}
+  };
+}
+function measureBothSides(base, head, settings, metric, options) {
+  const jobs = [measureJob("base", base, settings, metric, options.onProgress), measureJob("head", head, settings, metric, options.onProgress)];
+  return (options.measureSides ?? measureInTurn)(jobs);
+}
+
+// src/core/checks/context-findings.ts
+function policyChangedFinding(policySource) {
+  return {
+    kind: "policy-changed",
+    severity: "warn",
+    title: `This pull request changes the policy file ${policySource}.`,
+    message: `The head's policy governs both sides of this comparison. Review the policy change itself: a loosened threshold or a check turned off changes what this gate can see.`,
+    evidence: { policySource }
+  };
+}
+function noiseModelFinding(baseNoise, headNoise) {
+  return {
+    kind: "noise-model",
+    severity: "info",
+    title: "The model was loaded, not retrained: the noise floor covers permutation draws only.",
+    message: "A loaded model cannot be reseeded, so the spread a retrain with another seed would cause is unknown. Rank shifts are tested on per-draw values and the score on a paired bootstrap of holdout rows; both understate training noise. Use model.train to refit.",
+    evidence: { baseNoise, headNoise }
+  };
+}
+function contextFindings(input2) {
+  return [
+    ...input2.policyChanged ? [policyChangedFinding(input2.policySource)] : [],
+    ...input2.baseNoise === "draws-only" || input2.headNoise === "draws-only" ? [noiseModelFinding(input2.baseNoise, input2.headNoise)] : []
+  ];
+}
+
+// src/core/checks/demote-consequences.ts
+function demoteConsequences(findings) {
+  const leak = findings.find((f) => f.kind === "leakage" && f.severity === "block");
+  if (!leak) return [...findings];
+  return findings.map(
+    (f) => f.kind === "rank-shift" && f.feature !== leak.feature || f.kind === "rank-agreement" ? {
+      ...f,
+      severity: f.severity === "block" ? "block" : "info",
+      message: `${f.message} Likely a consequence of the leakage finding on ${leak.feature}: a feature that takes over the model moves every other feature's importance.`
+    } : f
+  );
+}
+
+// src/core/checks/holdout-rows.ts
+function checkHoldoutRows(base, head, action) {
+  if (action === "off") return [];
+  const problem = describeDifference(base, head);
+  if (!problem) return [];
+  return [
+    {
+      kind: "holdout-rows",
+      severity: action,
+      title: `The two sides are not scored on the same holdout rows: ${problem.short}.`,
+      message: `${problem.long} Score and importance differences between the sides would then mix the change with a different sample. Keep the holdout fixed in the pull request (or split by an id column with data.split.by), then rerun.`,
+      evidence: { baseRows: base.rows, headRows: head.rows, ...problem.evidence }
+    }
+  ];
+}
+function describeDifference(base, head) {
+  if (base.rows !== head.rows) {
+    return {
+      short: `${base.rows} rows on the base side, ${head.rows} on the head`,
+      long: `The base holdout (${base.source}) has ${base.rows} rows and the head holdout (${head.source}) has ${head.rows}.`,
+      evidence: {}
+    };
+  }
+  if (base.ids && head.ids) {
+    let differing2 = 0;
+    let first2 = -1;
+    for (let i = 0; i < base.rows; i++) {
+      if (base.ids[i] !== head.ids[i]) {
+        differing2++;
+        if (first2 < 0) first2 = i;
+      }
+    }
+    if (differing2 === 0) return null;
+    const baseSet = new Set(base.ids);
+    const onlyHead = head.ids.filter((id) => !baseSet.has(id)).length;
+    return {
+      short: `${differing2} of ${base.rows} ids differ by position (${onlyHead} ${onlyHead === 1 ? "id" : "ids"} only on the head)`,
+      long: `Holdout row ${first2 + 1} has ${base.idName ?? "id"} '${base.ids[first2]}' on the base side and '${head.ids[first2]}' on the head; ${differing2} of ${base.rows} rows differ by position and ${onlyHead} head ${onlyHead === 1 ? "id does" : "ids do"} not occur on the base side.`,
+      evidence: { differingRows: differing2, idsOnlyOnHead: onlyHead, firstDifferingRow: first2 + 1 }
+    };
+  }
+  let differing = 0;
+  let first = -1;
+  for (let i = 0; i < base.rows; i++) {
+    const a = base.target[i];
+    const b = head.target[i];
+    if (a !== b && !(Number.isNaN(a) && Number.isNaN(b))) {
+      differing++;
+      if (first < 0) first = i;
+    }
+  }
+  if (differing === 0) return null;
+  return {
+    short: `the target differs in ${differing} of ${base.rows} rows`,
+    long: `Without an id column only the target can be compared row by row; it differs in ${differing} of ${base.rows} rows (first at holdout row ${first + 1}).`,
+    evidence: { differingRows: differing, firstDifferingRow: first + 1 }
+  };
+}
+
+// src/core/checks/side-result.ts
+function rankFeatures(importances) {
+  return importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+}
+function positiveShare(importances, name) {
+  let total = 0;
+  let own2 = 0;
+  for (const u of importances) {
+    if (u.isGroup && u.name !== name) continue;
+    const v = Math.max(0, u.mean);
+    if (!u.isGroup) total += v;
+    if (u.name === name) own2 = v;
+  }
+  return total > 0 ? own2 / total : 0;
+}
+function mean2(values) {
+  let s = 0;
+  for (const v of values) s += v;
+  return values.length ? s / values.length : NaN;
+}
+
+// src/core/checks/leakage.ts
+function checkLeakage(context3, options) {
+  if (options.action === "off") return [];
+  const { base, head, added, changed } = context3;
+  const trivial = options.task === "binary" ? 0.5 : 0;
+  const metricName = options.task === "binary" ? "AUC" : "R²";
+  const fullHead = mean2(head.separation);
+  const fullBase = mean2(base.separation);
+  const findings = [];
+  const ranked = rankFeatures(head.importances);
+  const baseRanked = rankFeatures(base.importances);
+  const flagged = /* @__PURE__ */ new Set();
+  const describeChange = (name) => added.has(name) ? "new in this pull request" : changed.has(name) ? "changed in this pull request" : "unchanged";
+  for (const unit of ranked) {
+    const alone = head.singleFeatureSeparation[unit.name];
+    if (alone === void 0 || !(alone >= options.singleFeaturePower)) continue;
+    const aloneBase = base.singleFeatureSeparation[unit.name];
+    const isNewOrChanged = added.has(unit.name) || changed.has(unit.name);
+    const crossed = aloneBase === void 0 || !(aloneBase >= options.singleFeaturePower);
+    const severity = isNewOrChanged || crossed ? options.action : "warn";
+    flagged.add(unit.name);
+    findings.push({
+      kind: "leakage",
+      severity,
+      feature: unit.name,
+      title: `${unit.name} alone separates the holdout (${metricName} ${fmt(alone)}); it is ${describeChange(unit.name)}.`,
+      message: `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)} (the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). A value this predictive on its own usually means it is computed from, or after, the outcome. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong on the base side (${metricName} ${fmt(aloneBase)}), so this pull request did not introduce it.` : `Check that it is known at prediction time.`),
+      evidence: {
+        singleFeatureSeparation: alone,
+        baseSingleFeatureSeparation: aloneBase ?? null,
+        fullModelSeparation: fullHead,
+        threshold: options.singleFeaturePower,
+        share: positiveShare(head.importances, unit.name),
+        isNew: added.has(unit.name),
+        isChanged: changed.has(unit.name)
+      }
+    });
+  }
+  for (const unit of ranked) {
+    const slice = head.singleFeatureSlices?.[unit.name];
+    if (flagged.has(unit.name) || !slice || !(slice.separation >= options.singleFeaturePower)) continue;
+    const baseSlice = base.singleFeatureSlices?.[unit.name];
+    const isNewOrChanged = added.has(unit.name) || changed.has(unit.name);
+    const crossed = !baseSlice || !(baseSlice.separation >= options.singleFeaturePower);
+    const severity = isNewOrChanged || crossed ? options.action : "warn";
+    const overall = head.singleFeatureSeparation[unit.name];
+    flagged.add(unit.name);
+    findings.push({
+      kind: "leakage",
+      severity,
+      feature: unit.name,
+      title: `${unit.name} alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}); it is ${describeChange(unit.name)}.`,
+      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong in a slice on the base side (${baseSlice.column} = ${baseSlice.value}, ${metricName} ${fmt(baseSlice.separation)}).` : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
+      evidence: {
+        sliceColumn: slice.column,
+        sliceValue: slice.value,
+        sliceRows: slice.rows,
+        sliceSeparation: slice.separation,
+        baseSliceSeparation: baseSlice?.separation ?? null,
+        singleFeatureSeparation: overall ?? null,
+        threshold: options.singleFeaturePower,
+        isNew: added.has(unit.name),
+        isChanged: changed.has(unit.name)
+      }
+    });
+  }
+  const top = ranked[0];
+  const runnerUp = ranked[1];
+  if (top && !flagged.has(top.name) && top.mean > 0) {
+    const share = positiveShare(head.importances, top.name);
+    const ratio = runnerUp && runnerUp.mean > 0 ? top.mean / runnerUp.mean : Infinity;
+    const alone = head.singleFeatureSeparation[top.name];
+    const relative2 = alone === void 0 || !(fullHead > trivial) ? NaN : (alone - trivial) / (fullHead - trivial);
+    const dominates = share >= options.dominanceShare && ratio >= options.runnerUpRatio && relative2 >= options.relativePower;
+    if (dominates) {
+      const isNewOrChanged = added.has(top.name) || changed.has(top.name);
+      const baseShare = positiveShare(base.importances, top.name);
+      const wasDominant = baseRanked[0]?.name === top.name && baseShare >= options.dominanceShare;
+      const severity = isNewOrChanged ? options.action : wasDominant ? "info" : "warn";
+      const scoreJump = separationJump(base.separation, head.separation);
+      findings.push({
+        kind: "leakage",
+        severity,
+        feature: top.name,
+        title: `${top.name} dominates the model (${pct(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
+        message: `${top.name} carries ${pct(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${pct(relative2)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${pct(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${pct(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
+        evidence: {
+          share,
+          baseShare,
+          runnerUpRatio: Number.isFinite(ratio) ? ratio : null,
+          runnerUp: runnerUp?.name ?? null,
+          singleFeatureSeparation: alone ?? null,
+          relativePower: Number.isFinite(relative2) ? relative2 : null,
+          fullModelSeparation: fullHead,
+          baseFullModelSeparation: fullBase,
+          separationJumpInSds: Number.isFinite(scoreJump) ? scoreJump : null,
+          isNew: added.has(top.name),
+          isChanged: changed.has(top.name),
+          wasDominantOnBase: wasDominant
+        }
+      });
+    }
+  }
+  return findings;
+}
+function separationJump(base, head) {
+  if (base.length < 2 || head.length < 2) return NaN;
+  const mb = mean2(base);
+  const mh = mean2(head);
+  const vb = base.reduce((s, v) => s + (v - mb) ** 2, 0) / (base.length - 1);
+  const vh = head.reduce((s, v) => s + (v - mh) ** 2, 0) / (head.length - 1);
+  const sd = Math.sqrt((vb + vh) / 2);
+  return sd > 0 ? (mh - mb) / sd : NaN;
+}
+function fmt(value) {
+  if (value === void 0 || !Number.isFinite(value)) return "n/a";
+  if (value === 0) return "0";
+  const abs = Math.abs(value);
+  if (abs >= 1e3 || abs < 1e-3) return value.toExponential(2);
+  return Number(value.toPrecision(3)).toString();
+}
+function pct(value) {
+  return Number.isFinite(value) ? `${Math.round(value * 100)}%` : "n/a";
+}
+function fmtRatio(ratio) {
+  return Number.isFinite(ratio) ? `${fmt(ratio)}×` : "infinitely";
+}
+
+// src/core/statistics/kendall-tau-b.ts
+function kendallTauB(x, y) {
+  if (x.length !== y.length) {
+    throw new RangeError(`kendallTauB needs paired samples, got ${x.length} and ${y.length} values`);
+  }
+  const n = x.length;
+  if (n < 2 || hasNaN(x) || hasNaN(y)) return NaN;
+  let concordant = 0;
+  let discordant = 0;
+  let tiedInX = 0;
+  let tiedInY = 0;
+  for (let i = 0; i < n - 1; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const dx = compare(x[i], x[j]);
+      const dy = compare(y[i], y[j]);
+      if (dx === 0) tiedInX++;
+      if (dy === 0) tiedInY++;
+      if (dx !== 0 && dy !== 0) {
+        if (dx === dy) concordant++;
+        else discordant++;
+      }
+    }
+  }
+  const pairs = n * (n - 1) / 2;
+  const denominator = Math.sqrt((pairs - tiedInX) * (pairs - tiedInY));
+  return denominator === 0 ? NaN : (concordant - discordant) / denominator;
+}
+function compare(a, b) {
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+function hasNaN(values) {
+  for (let i = 0; i < values.length; i++) if (Number.isNaN(values[i])) return true;
+  return false;
+}
+
+// src/core/statistics/percentile.ts
+function percentile(values, p) {
+  if (!(p >= 0 && p <= 100)) throw new RangeError(`percentile needs p from 0 to 100, got ${p}`);
+  if (values.length === 0) throw new RangeError("percentile needs at least one value, got none");
+  const sorted = Float64Array.from(values).sort();
+  if (Number.isNaN(sorted[sorted.length - 1])) return NaN;
+  return quantileSorted(Array.from(sorted), p / 100);
+}
+
+// src/core/statistics/rank-biased-overlap.ts
+function rankBiasedOverlap(a, b, options) {
+  const p = options.persistence;
+  if (!(p > 0 && p < 1)) throw new RangeError(`rankBiasedOverlap needs persistence in (0, 1), got ${p}`);
+  const [short, long] = a.length <= b.length ? [a, b] : [b, a];
+  const s = short.length;
+  const l = long.length;
+  const overlap = new Float64Array(l + 1);
+  const seenShort = /* @__PURE__ */ new Set();
+  const seenLong = /* @__PURE__ */ new Set();
+  for (let d = 1; d <= l; d++) {
+    let x = overlap[d - 1];
+    const itemLong = long[d - 1];
+    if (seenLong.has(itemLong)) throw duplicateError(itemLong, long === a ? "first" : "second");
+    seenLong.add(itemLong);
+    if (d <= s) {
+      const itemShort = short[d - 1];
+      if (seenShort.has(itemShort)) throw duplicateError(itemShort, short === a ? "first" : "second");
+      seenShort.add(itemShort);
+      if (itemShort === itemLong) x += 1;
+      else x += Number(seenLong.has(itemShort)) + Number(seenShort.has(itemLong));
+    } else if (seenShort.has(itemLong)) {
+      x += 1;
+    }
+    overlap[d] = x;
+  }
+  if (s === 0) return { extrapolated: NaN, minimum: 0, residual: 1 };
+  const xs = overlap[s];
+  const xl = overlap[l];
+  const scale = (1 - p) / p;
+  const logInverse = -Math.log1p(-p);
+  let seenSum = 0;
+  let tailSum = 0;
+  let minimumSum = 0;
+  let power = 1;
+  for (let d = 1; d <= l; d++) {
+    power *= p;
+    seenSum += overlap[d] * power / d;
+    minimumSum += (overlap[d] - xl) * power / d;
+    if (d > s) tailSum += xs * (d - s) * power / (s * d);
+  }
+  const extrapolated = scale * (seenSum + tailSum) + ((xl - xs) / l + xs / s) * p ** l;
+  const f = s + l - xl;
+  let harmonicToF = 0;
+  let fromS = 0;
+  let fromL = 0;
+  power = 1;
+  for (let d = 1; d <= f; d++) {
+    power *= p;
+    const term = power / d;
+    harmonicToF += term;
+    if (d > s) fromS += term;
+    if (d > l) fromL += term;
+  }
+  const residual = p ** s + p ** l - p ** f - scale * (s * fromS + l * fromL + xl * (logInverse - harmonicToF));
+  return { extrapolated, minimum: scale * (minimumSum + xl * logInverse), residual };
+}
+function duplicateError(item, which2) {
+  return new RangeError(`rankBiasedOverlap needs distinct items in each list; '${item}' appears twice in the ${which2} list`);
+}
+
+// src/core/checks/rank-agreement.ts
+function checkRankAgreement(base, head, options) {
+  const baseIndex = new Map(base.importances.map((u, i) => [u.name, i]));
+  const names = head.importances.filter((h) => {
+    const bi = baseIndex.get(h.name);
+    return !h.isGroup && bi !== void 0 && (h.isAboveFloor || base.importances[bi].isAboveFloor);
+  }).map((h) => h.name);
+  if (names.length < 3 || base.perRefit.length < 2 || head.perRefit.length < 2) {
+    return { findings: [], agreement: null };
+  }
+  const headIndex = new Map(head.importances.map((u, i) => [u.name, i]));
+  const vector = (side2, index, refit) => names.map((name) => side2.perRefit[refit][index.get(name)].mean);
+  const baseVectors = base.perRefit.map((_, r) => vector(base, baseIndex, r));
+  const headVectors = head.perRefit.map((_, r) => vector(head, headIndex, r));
+  const tau = (a, b) => kendallTauB(a, b);
+  const rbo = (a, b) => rankBiasedOverlap(order(names, a), order(names, b), { persistence: options.persistence }).extrapolated;
+  const crossTau = [];
+  const crossRbo = [];
+  for (const a of baseVectors) {
+    for (const b of headVectors) {
+      crossTau.push(tau(a, b));
+      crossRbo.push(rbo(a, b));
+    }
+  }
+  const nullTau = [];
+  const nullRbo = [];
+  for (const vectors of [baseVectors, headVectors]) {
+    for (let i = 0; i < vectors.length; i++) {
+      for (let j = i + 1; j < vectors.length; j++) {
+        nullTau.push(tau(vectors[i], vectors[j]));
+        nullRbo.push(rbo(vectors[i], vectors[j]));
+      }
+    }
+  }
+  const finiteTau = nullTau.filter(Number.isFinite);
+  const kendallTau = mean2(crossTau.filter(Number.isFinite));
+  const rankBiased = mean2(crossRbo);
+  const tauThreshold = finiteTau.length ? percentile(finiteTau, options.agreementPercentile) : NaN;
+  const rboThreshold = percentile(nullRbo, options.agreementPercentile);
+  const agreement = {
+    kendallTau,
+    rankBiasedOverlap: rankBiased,
+    persistence: options.persistence,
+    nullKendallTau: nullTau,
+    nullRankBiasedOverlap: nullRbo,
+    kendallTauThreshold: tauThreshold,
+    rankBiasedOverlapThreshold: rboThreshold,
+    featuresCompared: names.length
+  };
+  const findings = [];
+  const tauLow = kendallTau < tauThreshold;
+  const rboLow = rankBiased < rboThreshold;
+  if (options.action !== "off" && (tauLow || rboLow)) {
+    findings.push({
+      kind: "rank-agreement",
+      severity: options.action,
+      title: `The feature ranking changed more than reseeding alone changes it (Kendall tau-b ${fmt(kendallTau)}, RBO ${fmt(rankBiased)}).`,
+      message: `Over ${names.length} features above the noise floor, base and head refits agree with Kendall tau-b ${fmt(kendallTau)} and rank-biased overlap ${fmt(rankBiased)} (RBO_EXT, p = ${options.persistence}); two refits with other seeds agree at least ${fmt(tauThreshold)} and ${fmt(rboThreshold)} in ${100 - options.agreementPercentile}% of pairs.`,
+      evidence: {
+        kendallTau,
+        rankBiasedOverlap: rankBiased,
+        kendallTauThreshold: tauThreshold,
+        rankBiasedOverlapThreshold: rboThreshold,
+        featuresCompared: names.length,
+        nullPairs: nullTau.length
+      }
+    });
+  }
+  return { findings, agreement };
+}
+function order(names, values) {
+  return names.map((name, i) => ({ name, value: values[i] })).sort((a, b) => b.value - a.value || (a.name < b.name ? -1 : 1)).map((x) => x.name);
+}
+
+// src/core/statistics/p-value-order.ts
+function pValueOrder(pValues, caller) {
+  const order3 = new Uint32Array(pValues.length);
+  for (let i = 0; i < pValues.length; i++) {
+    if (!(pValues[i] >= 0 && pValues[i] <= 1)) {
+      throw new RangeError(`${caller} needs p-values in [0, 1], got ${pValues[i]} at index ${i}`);
+    }
+    order3[i] = i;
+  }
+  return order3.sort((i, j) => pValues[i] - pValues[j]);
+}
+
+// src/core/statistics/benjamini-hochberg.ts
+function benjaminiHochberg(pValues) {
+  const m = pValues.length;
+  const order3 = pValueOrder(pValues, "benjaminiHochberg");
+  const adjusted = new Float64Array(m);
+  let running = 1;
+  for (let rank = m; rank >= 1; rank--) {
+    const i = order3[rank - 1];
+    running = Math.min(running, pValues[i] * (m / rank));
+    adjusted[i] = running;
+  }
+  return adjusted;
+}
+
+// src/core/statistics/welch-t-test.ts
+function welchTTest(x, y) {
+  if (x.length < 2 || y.length < 2) {
+    throw new RangeError(`welchTTest needs at least two values per sample, got ${x.length} and ${y.length}`);
+  }
+  const first = Array.from(x);
+  const second = Array.from(y);
+  const missing = first.findIndex(Number.isNaN);
+  const missingSecond = second.findIndex(Number.isNaN);
+  if (missing >= 0 || missingSecond >= 0) {
+    const [where2, index] = missing >= 0 ? ["x", missing] : ["y", missingSecond];
+    throw new RangeError(`welchTTest cannot use NaN (${where2}[${index}]); drop missing values first`);
+  }
+  return welchTTestFromSummary(
+    { mean: mean(first), sd: sampleStandardDeviation(first), n: first.length },
+    { mean: mean(second), sd: sampleStandardDeviation(second), n: second.length }
+  );
+}
+function welchTTestFromSummary(a, b) {
+  checkSummary(a, "first");
+  checkSummary(b, "second");
+  const va = a.sd * a.sd / a.n;
+  const vb = b.sd * b.sd / b.n;
+  const standardError = Math.sqrt(va + vb);
+  const meanDifference = a.mean - b.mean;
+  if (standardError === 0) {
+    const t2 = meanDifference === 0 ? 0 : Math.sign(meanDifference) * Infinity;
+    return { t: t2, df: NaN, pValue: meanDifference === 0 ? 1 : 0, meanDifference, standardError };
+  }
+  const t = meanDifference / standardError;
+  const df = (va + vb) ** 2 / (va * va / (a.n - 1) + vb * vb / (b.n - 1));
+  const pValue = Math.min(1, 2 * studentTCdf(-Math.abs(t), df));
+  return { t, df, pValue, meanDifference, standardError };
+}
+function checkSummary(group2, which2) {
+  if (!(Number.isInteger(group2.n) && group2.n >= 2)) {
+    throw new RangeError(`welchTTestFromSummary needs n >= 2 (a whole number) in the ${which2} group, got ${group2.n}`);
+  }
+  if (!(group2.sd >= 0 && group2.sd < Infinity)) {
+    throw new RangeError(`welchTTestFromSummary needs a finite sd >= 0 in the ${which2} group, got ${group2.sd}`);
+  }
+  if (!Number.isFinite(group2.mean)) {
+    throw new RangeError(`welchTTestFromSummary needs a finite mean in the ${which2} group, got ${group2.mean}`);
+  }
+}
+
+// src/core/checks/rank-shift.ts
+function checkRankShift(base, head, options) {
+  const baseByName = new Map(base.importances.map((u) => [u.name, u]));
+  const pairs = [];
+  head.importances.forEach((h, hi) => {
+    const b = baseByName.get(h.name);
+    if (b && b.isGroup === h.isGroup) pairs.push({ name: h.name, isGroup: h.isGroup, b, h, bi: base.importances.indexOf(b), hi });
+  });
+  const isTestable = pairs.map((p) => samples(base, p.bi).length >= 2 && samples(head, p.hi).length >= 2);
+  const tests = pairs.map(
+    (p, index) => isTestable[index] ? welchTTest(samples(base, p.bi), samples(head, p.hi)) : { t: NaN, df: NaN, pValue: NaN }
+  );
+  const adjustedTestable = benjaminiHochberg(tests.filter((_, index) => isTestable[index]).map((t) => t.pValue));
+  let nextAdjusted = 0;
+  const adjusted = isTestable.map((testable) => testable ? adjustedTestable[nextAdjusted++] : NaN);
+  const compared = pairs.filter((p) => !p.isGroup && (p.b.isAboveFloor || p.h.isAboveFloor));
+  const baseRank = rankWithin(compared.map((p) => p.b));
+  const headRank = rankWithin(compared.map((p) => p.h));
+  const shifts = /* @__PURE__ */ new Map();
+  const findings = [];
+  pairs.forEach((p, index) => {
+    const test = tests[index];
+    const isCompared = baseRank.has(p.name);
+    const positionsMoved = isCompared ? headRank.get(p.name) - baseRank.get(p.name) : null;
+    const difference = p.h.mean - p.b.mean;
+    const larger = Math.max(Math.abs(p.b.mean), Math.abs(p.h.mean));
+    const relativeChange = larger > 0 ? Math.abs(difference) / larger : 0;
+    const isSignificant = adjusted[index] <= options.falseDiscoveryRate;
+    shifts.set(p.name, {
+      meanDifference: difference,
+      welchT: test.t,
+      welchDf: test.df,
+      pValue: test.pValue,
+      adjustedPValue: adjusted[index],
+      isSignificant,
+      positionsMoved
+    });
+    const movesEnough = positionsMoved !== null && Math.abs(positionsMoved) >= options.minPositions || relativeChange >= options.minRelativeChange;
+    if (options.action !== "off" && isSignificant && isCompared && movesEnough) {
+      const direction = difference > 0 ? "rose" : "fell";
+      const moved = positionsMoved === null || positionsMoved === 0 ? "kept its rank" : `moved from rank ${baseRank.get(p.name)} to ${headRank.get(p.name)}`;
+      findings.push({
+        kind: "rank-shift",
+        severity: options.action,
+        feature: p.name,
+        title: `${p.name}'s importance ${direction} from ${fmt(p.b.mean)} to ${fmt(p.h.mean)} (${pct(relativeChange)}) and ${moved}.`,
+        message: `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits, Welch's t = ${fmt(test.t)} (df ${fmt(test.df)}), p = ${fmt(test.pValue)}, Benjamini–Hochberg adjusted p = ${fmt(adjusted[index])} against a false discovery rate of ${options.falseDiscoveryRate}. Reseed noise (refit SD) is ${fmt(p.b.refitSd)} on the base side and ${fmt(p.h.refitSd)} on the head.`,
+        evidence: {
+          baseMean: p.b.mean,
+          headMean: p.h.mean,
+          relativeChange,
+          baseRefitSd: p.b.refitSd,
+          headRefitSd: p.h.refitSd,
+          welchT: test.t,
+          welchDf: test.df,
+          pValue: test.pValue,
+          adjustedPValue: adjusted[index],
+          baseRank: baseRank.get(p.name) ?? null,
+          headRank: headRank.get(p.name) ?? null
+        }
+      });
+    }
+    if (!p.isGroup && p.b.isAboveFloor && !p.h.isAboveFloor) {
+      findings.push({
+        kind: "floor-drop",
+        severity: "info",
+        feature: p.name,
+        title: `${p.name} fell to the noise floor (importance ${fmt(p.b.mean)} on the base side, ${fmt(p.h.mean)} now).`,
+        message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] does not lie above zero: the candidate model no longer measurably relies on it.`,
+        evidence: { baseMean: p.b.mean, headMean: p.h.mean, headLower: p.h.lower, headUpper: p.h.upper }
+      });
+    }
+  });
+  return { findings, shifts };
+}
+function samples(side2, index) {
+  if (side2.perRefit.length >= 2) return side2.perRefit.map((r) => r[index].mean);
+  return side2.perRefit[0][index].draws;
+}
+function rankWithin(units) {
+  const sorted = [...units].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+  return new Map(sorted.map((u, i) => [u.name, i + 1]));
+}
+
+// src/core/checks/score-regression.ts
+function checkScoreRegression(evidence, options) {
+  const { baseScores, headScores } = evidence;
+  const baseMean = mean2(baseScores);
+  const headMean = mean2(headScores);
+  const worsening = options.higherIsBetter ? baseMean - headMean : headMean - baseMean;
+  let standardError;
+  let pValue;
+  let df = null;
+  if (baseScores.length >= 2 && headScores.length >= 2) {
+    const welch = welchTTestFromSummary(summary2(baseScores), summary2(headScores));
+    standardError = welch.standardError;
+    df = welch.df;
+    pValue = tailAbove(worsening - options.tolerance, standardError, (t) => 1 - studentTCdf(t, welch.df));
+  } else if (evidence.pairedBootstrap && evidence.pairedBootstrap.length >= 2) {
+    const b = evidence.pairedBootstrap;
+    const m = mean2(b);
+    standardError = Math.sqrt(b.reduce((s, v) => s + (v - m) ** 2, 0) / (b.length - 1));
+    pValue = tailAbove(worsening - options.tolerance, standardError, (z3) => 1 - studentTCdf(z3, Infinity));
+  } else {
+    standardError = NaN;
+    pValue = worsening > options.tolerance ? 0 : 1;
+  }
+  if (options.action === "off" || !(worsening > options.tolerance) || !(pValue < options.alpha)) return [];
+  const spread = pooledSd(evidence);
+  const worseningInSds = spread > 0 ? worsening / spread : Infinity;
+  const severity = options.action === "block" && worseningInSds < (options.blockAtSds ?? 0) ? "warn" : options.action;
+  return [
+    {
+      kind: "score-regression",
+      severity,
+      title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (by ${fmt(worsening)}, beyond noise).`,
+      message: `The candidate's mean holdout ${options.metric} is ${fmt(headMean)} against ${fmt(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${fmt(worsening)} exceeds the tolerance of ${options.tolerance} with one-sided p = ${fmt(pValue)} (standard error ${fmt(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${fmt(df)} over reseeded refits`) + `; level ${options.alpha}).`,
+      evidence: {
+        baseMean,
+        headMean,
+        worsening,
+        tolerance: options.tolerance,
+        standardError: Number.isFinite(standardError) ? standardError : null,
+        welchDf: df,
+        pValue,
+        alpha: options.alpha,
+        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null
+      }
+    }
+  ];
+}
+function pooledSd(evidence) {
+  const { baseScores, headScores, pairedBootstrap: pairedBootstrap2 } = evidence;
+  if (baseScores.length >= 2 && headScores.length >= 2) {
+    return Math.sqrt((summary2(baseScores).sd ** 2 + summary2(headScores).sd ** 2) / 2);
+  }
+  if (pairedBootstrap2 && pairedBootstrap2.length >= 2) return summary2(pairedBootstrap2).sd;
+  return NaN;
+}
+function summary2(values) {
+  const m = mean2(values);
+  const sd = Math.sqrt(values.reduce((s, v) => s + (v - m) ** 2, 0) / (values.length - 1));
+  return { mean: m, sd, n: values.length };
+}
+function tailAbove(excess, se, upperTail) {
+  if (!(se > 0)) return excess > 0 ? 0 : 1;
+  return upperTail(excess / se);
+}
+
+// src/core/checks/verdict.ts
+var order2 = { block: 0, warn: 1, info: 2 };
+function sortFindings(findings) {
+  return findings.map((finding, index) => ({ finding, index })).sort((a, b) => order2[a.finding.severity] - order2[b.finding.severity] || a.index - b.index).map((x) => x.finding);
+}
+function decideVerdict(findings) {
+  if (findings.some((f) => f.severity === "block")) return "block";
+  if (findings.some((f) => f.severity === "warn")) return "warn";
+  return "pass";
+}
+function writeHeadline(verdict, findings) {
+  const sorted = sortFindings(findings);
+  const deciding = sorted.filter((f) => f.severity === verdict);
+  const more = deciding.length > 1 ? ` (and ${deciding.length - 1} more ${verdict === "block" ? "blocking" : "warning"} finding${deciding.length > 2 ? "s" : ""})` : "";
+  if (verdict === "pass") {
+    return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
+  }
+  const title = lowerFirst(deciding[0].title);
+  const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
+  return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
+}
+function lowerFirst(text3) {
+  return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
+}
+
+// src/core/statistics/paired-bootstrap.ts
+function pairedBootstrap(y, basePrediction, headPrediction, options) {
+  const n = y.length;
+  if (basePrediction.length !== n || headPrediction.length !== n) {
+    throw new RangeError(`pairedBootstrap needs predictions for all ${n} rows, got ${basePrediction.length} and ${headPrediction.length}`);
+  }
+  const random = createRandom(deriveSeed(options.seed, "paired-bootstrap"));
+  const ys = new Float64Array(n);
+  const bs = new Float64Array(n);
+  const hs = new Float64Array(n);
+  const out = [];
+  for (let b = 0; b < options.replicates; b++) {
+    for (let i = 0; i < n; i++) {
+      const k = random.int(n);
+      ys[i] = y[k];
+      bs[i] = basePrediction[k];
+      hs[i] = headPrediction[k];
+    }
+    out.push(options.metric.compute(ys, hs) - options.metric.compute(ys, bs));
+  }
+  return out;
+}
+
+// src/core/gate/run-checks.ts
+function runChecks(inputs) {
+  const { settings, metric, holdouts, results, featureSet } = inputs;
+  const [base, head] = inputs.measured;
+  const holdoutFindings = checkHoldoutRows(holdoutIdentity(holdouts.base), holdoutIdentity(holdouts.head), settings.checks.holdoutRows);
+  const sameRows = holdoutFindings.length === 0;
+  const leakage = checkLeakage(
+    { base: results.base, head: results.head, added: new Set(featureSet.added), changed: inputs.changed },
+    { ...settings.checks.leakage, task: settings.task }
+  );
+  const shift = checkRankShift(results.base, results.head, settings.checks.rankShift);
+  const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement);
+  const bootstrap = sameRows && (base.scores.length < 2 || head.scores.length < 2) ? pairedBootstrap(holdouts.base.target.values, base.firstPredictions, head.firstPredictions, {
+    metric,
+    replicates: settings.pairedBootstrapReplicates,
+    seed: settings.seed
+  }) : void 0;
+  const score2 = checkScoreRegression(
+    { baseScores: base.scores, headScores: head.scores, pairedBootstrap: bootstrap },
+    { ...settings.checks.score, metric: metric.name, higherIsBetter: metric.higherIsBetter }
+  );
+  const findings = sortFindings(
+    demoteConsequences([
+      ...holdoutFindings,
+      ...leakage,
+      ...score2,
+      ...shift.findings,
+      ...agreement.findings,
+      ...featureSetFindings(featureSet, results.head),
+      ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers })
+    ])
+  );
+  return { findings, shifts: shift.shifts, agreement: agreement.agreement };
+}
+function holdoutIdentity(holdout) {
+  return {
+    source: holdout.source,
+    rows: holdout.rows,
+    ids: holdout.ids?.values,
+    idName: holdout.ids?.name,
+    target: holdout.target.values
+  };
+}
+
+// src/core/importance/single-feature-separation.ts
+async function singleFeatureSeparation(train3, holdout, names, options) {
+  const all = train3.features.map((f) => f.name);
+  const y = holdout.target.values;
+  const score2 = (target, prediction) => options.task === "binary" ? rocAuc(target, prediction) : rSquared(target, prediction);
+  const slices = options.slices ? sliceRows(holdout, options.slices, options.task) : [];
+  const overall = {};
+  const bestSlice = {};
+  for (const name of names) {
+    if (!all.includes(name)) continue;
+    const model = await options.fit({
+      side: options.side,
+      seed: deriveSeed(options.seed, "single-feature", name),
+      refit: 0,
+      leaveOut: all.filter((other) => other !== name)
+    });
+    const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
+    overall[name] = score2(y, prediction);
+    for (const slice of slices) {
+      if (slice.column === name) continue;
+      const separation = score2(
+        Array.from(slice.rows, (i) => y[i]),
+        Array.from(slice.rows, (i) => prediction[i])
+      );
+      if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
+        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation };
+      }
+    }
+  }
+  return { overall, bestSlice };
+}
+function sliceRows(holdout, options, task) {
+  const y = holdout.target.values;
+  const slices = [];
+  holdout.features.forEach((feature, j) => {
+    const categories = feature.categories;
+    if (feature.kind !== "categorical" || !categories || categories.length < 2 || categories.length > options.maxLevels) return;
+    const members2 = categories.map(() => []);
+    const column = holdout.columns[j];
+    for (let i = 0; i < holdout.rows; i++) if (!Number.isNaN(column[i])) members2[column[i]].push(i);
+    members2.forEach((rows, code) => {
+      let positives = 0;
+      for (const i of rows) positives += y[i];
+      const large = task === "binary" ? Math.min(positives, rows.length - positives) >= options.minRows : rows.length >= options.minRows;
+      if (large) slices.push({ column: feature.name, value: categories[code], rows: Uint32Array.from(rows) });
+    });
+  });
+  return slices;
+}
+
+// src/core/gate/separate-single-features.ts
+async function separateSingleFeatures(sides, measured, touched, settings, context3) {
+  const [base, head] = measured;
+  const candidates = [
+    .../* @__PURE__ */ new Set([
+      ...rankFeatures(head.importances).slice(0, settings.singleFeatureTop).map((u) => u.name),
+      ...rankFeatures(base.importances).slice(0, settings.singleFeatureTop).map((u) => u.name),
+      ...touched.slice(0, settings.singleFeatureMaxExtra)
+    ])
+  ];
+  const separate = (side2) => context3.stopwatch.time(`${side2}SingleFeatureSeconds`, async () => {
+    context3.onProgress?.({ stage: "single-feature", side: side2, features: candidates.length });
+    const data = sides[side2];
+    return singleFeatureSeparation(data.train, data.holdout, candidates, {
+      fit: createBuiltinFit(data.train, settings.task, settings.singleFeatureLearner),
+      task: settings.task,
+      seed: settings.seed,
+      side: side2,
+      slices: settings.slices
+    });
+  });
+  const baseResult = await separate("base");
+  const headResult = await separate("head");
+  return { base: baseResult, head: headResult };
+}
+
+// src/core/gate/side-results.ts
+function sideResult(side2, data, measured, single) {
+  return {
+    side: side2,
+    features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
+    scores: measured.scores,
+    separation: measured.separation,
+    importances: measured.importances,
+    perRefit: measured.perRefit,
+    singleFeatureSeparation: single.overall,
+    singleFeatureSlices: single.bestSlice,
+    noiseCovers: measured.noiseCovers
+  };
+}
+
+// src/core/gate/stopwatch.ts
+function createStopwatch(now) {
+  const timings = {};
+  return {
+    timings,
+    async time(label, work) {
+      const start = now?.();
+      const value = await work();
+      if (now && start !== void 0) timings[label] = now() - start;
+      return value;
+    }
+  };
+}
+
 // src/core/metrics/accuracy.ts
 function accuracy(y, p, options = {}) {
   checkPaired("accuracy", y, p, "binary");
@@ -63590,70 +64012,44 @@ function defaultMetric2(task) {
   return task === "binary" ? "log-loss" : "rmse";
 }
 
-// src/core/assemble-report.ts
-function diffFeatureSets(base, head) {
-  const baseKinds = new Map(base.features.map((f) => [f.name, f.kind]));
-  const headKinds = new Map(head.features.map((f) => [f.name, f.kind]));
+// src/core/statistics/sample-standard-deviation.ts
+function sampleStandardDeviation2(values) {
+  return values.length < 2 ? NaN : sampleStandardDeviation([...values]);
+}
+
+// src/core/report/report.ts
+var reportCaution = "A pass is not proof that the model is free of leakage or fit for use: plumbline only sees what the data on both sides can show, and a weak leak looks like a weak real signal. Review of the feature change stays with people and the team's own policies.";
+
+// src/core/report/assemble-report.ts
+function assembleReport(parts) {
+  const { settings, metric, findings } = parts;
+  const [base, head] = parts.measured;
+  const verdict = decideVerdict(findings);
   return {
-    added: head.features.filter((f) => !baseKinds.has(f.name)).map((f) => f.name),
-    removed: base.features.filter((f) => !headKinds.has(f.name)).map((f) => f.name),
-    kindChanged: head.features.filter((f) => baseKinds.has(f.name) && baseKinds.get(f.name) !== f.kind).map((f) => ({ name: f.name, base: baseKinds.get(f.name), head: f.kind }))
+    schemaVersion: 1,
+    tool: { name: "plumbline", version: parts.toolVersion },
+    verdict,
+    headline: writeHeadline(verdict, findings),
+    findings: [...findings],
+    features: featureRows(parts.results.base, parts.results.head, parts.shifts, parts.sides.base.train, parts.sides.head.train),
+    featureSet: parts.featureSet,
+    agreement: parts.agreement,
+    sides: describeSides(parts.sides, base, head),
+    settings: {
+      task: settings.task,
+      target: settings.target,
+      metric: metric.name,
+      higherIsBetter: metric.higherIsBetter,
+      draws: settings.draws,
+      refits: settings.refits,
+      seed: settings.seed,
+      policySource: parts.policySource,
+      policyFrom: "head",
+      checks: settings.evidence
+    },
+    timings: { ...parts.timings },
+    caution: reportCaution
   };
-}
-function changedFeatures(base, head) {
-  const pick2 = base.holdout.rows === head.holdout.rows ? [base.holdout, head.holdout] : base.train.rows === head.train.rows ? [base.train, head.train] : null;
-  const changed = /* @__PURE__ */ new Set();
-  if (!pick2) return changed;
-  const [b, h] = pick2;
-  const bIndex = new Map(b.features.map((f, j) => [f.name, j]));
-  h.features.forEach((hf, hj) => {
-    const bj = bIndex.get(hf.name);
-    if (bj === void 0) return;
-    const bf = b.features[bj];
-    const bc = b.columns[bj];
-    const hc = h.columns[hj];
-    const decode3 = (kind, categories, v) => Number.isNaN(v) ? "NaN" : kind === "categorical" ? categories?.[v] ?? String(v) : v;
-    for (let i = 0; i < hc.length; i++) {
-      if (decode3(bf.kind, bf.categories, bc[i]) !== decode3(hf.kind, hf.categories, hc[i])) {
-        changed.add(hf.name);
-        return;
-      }
-    }
-  });
-  return changed;
-}
-function featureSetFindings(featureSet, head, action) {
-  const findings = [];
-  const { added, removed, kindChanged } = featureSet;
-  if (action !== "off" && (added.length || removed.length || kindChanged.length)) {
-    const parts = [
-      added.length ? `added ${list(added)}` : "",
-      removed.length ? `removed ${list(removed)}` : "",
-      kindChanged.length ? `changed the kind of ${list(kindChanged.map((k) => `${k.name} (${k.base} → ${k.head})`))}` : ""
-    ].filter(Boolean);
-    findings.push({
-      kind: "feature-set",
-      severity: "info",
-      title: `This pull request ${parts.join("; ")}.`,
-      message: `Features are compared by column name. ${added.length} added, ${removed.length} removed, ${kindChanged.length} changed kind.`,
-      evidence: { added: added.length, removed: removed.length, kindChanged: kindChanged.length }
-    });
-  }
-  const byName = new Map(head.importances.map((u) => [u.name, u]));
-  for (const name of added) {
-    const unit = byName.get(name);
-    if (unit && !unit.isAboveFloor) {
-      findings.push({
-        kind: "unused-feature",
-        severity: "info",
-        feature: name,
-        title: `The added feature ${name} is not measurably used by the candidate model.`,
-        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that does not lie above zero.`,
-        evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper }
-      });
-    }
-  }
-  return findings;
 }
 function featureRows(base, head, shifts, baseTrain, headTrain) {
   const kindOf = /* @__PURE__ */ new Map();
@@ -63709,8 +64105,6 @@ function featureRows(base, head, shifts, baseTrain, headTrain) {
 }
 function describeSides(inputs, base, head) {
   const describe3 = (side2, data, m) => {
-    const meanScore = m.scores.reduce((s, v) => s + v, 0) / m.scores.length;
-    const sd = m.scores.length > 1 ? Math.sqrt(m.scores.reduce((s, v) => s + (v - meanScore) ** 2, 0) / (m.scores.length - 1)) : NaN;
     return {
       side: side2,
       ref: data.ref,
@@ -63722,340 +64116,59 @@ function describeSides(inputs, base, head) {
       features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
       model: { kind: m.model.kind, description: `${m.model.kind} on ${m.model.featureNames.length} features` },
       scores: m.scores,
-      scoreMean: meanScore,
-      scoreSd: sd,
+      scoreMean: mean2(m.scores),
+      scoreSd: sampleStandardDeviation2(m.scores),
       refitSeeds: m.refitSeeds,
       noiseCovers: m.noiseCovers
     };
   };
   return { base: describe3("base", inputs.base, base), head: describe3("head", inputs.head, head) };
 }
-function list(names) {
-  return names.length <= 5 ? names.join(", ") : `${names.slice(0, 5).join(", ")} and ${names.length - 5} more`;
-}
-function fmtPlain(v) {
-  return Number.isFinite(v) ? Number(v.toPrecision(3)).toString() : "n/a";
-}
-
-// src/core/statistics/paired-bootstrap.ts
-function pairedBootstrap(y, basePrediction, headPrediction, options) {
-  const n = y.length;
-  if (basePrediction.length !== n || headPrediction.length !== n) {
-    throw new RangeError(`pairedBootstrap needs predictions for all ${n} rows, got ${basePrediction.length} and ${headPrediction.length}`);
-  }
-  const random = createRandom(deriveSeed(options.seed, "paired-bootstrap"));
-  const ys = new Float64Array(n);
-  const bs = new Float64Array(n);
-  const hs = new Float64Array(n);
-  const out = [];
-  for (let b = 0; b < options.replicates; b++) {
-    for (let i = 0; i < n; i++) {
-      const k = random.int(n);
-      ys[i] = y[k];
-      bs[i] = basePrediction[k];
-      hs[i] = headPrediction[k];
-    }
-    out.push(options.metric.compute(ys, hs) - options.metric.compute(ys, bs));
-  }
-  return out;
-}
-
-// src/core/report/report.ts
-var reportCaution = "A pass is not proof that the model is free of leakage or fit for use: plumbline only sees what the data on both sides can show, and a weak leak looks like a weak real signal. Review of the feature change stays with people and the team's own policies.";
-
-// src/core/single-feature-separation.ts
-async function singleFeatureSeparation(train3, holdout, names, options) {
-  const all = train3.features.map((f) => f.name);
-  const y = holdout.target.values;
-  const score2 = (target, prediction) => options.task === "binary" ? rocAuc(target, prediction) : rSquared(target, prediction);
-  const slices = options.slices ? sliceRows(holdout, options.slices, options.task) : [];
-  const overall = {};
-  const bestSlice = {};
-  for (const name of names) {
-    if (!all.includes(name)) continue;
-    const model = await options.fit({
-      side: options.side,
-      seed: deriveSeed(options.seed, "single-feature", name),
-      refit: 0,
-      leaveOut: all.filter((other) => other !== name)
-    });
-    const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
-    overall[name] = score2(y, prediction);
-    for (const slice of slices) {
-      if (slice.column === name) continue;
-      const separation = score2(
-        Array.from(slice.rows, (i) => y[i]),
-        Array.from(slice.rows, (i) => prediction[i])
-      );
-      if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
-        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation };
-      }
-    }
-  }
-  return { overall, bestSlice };
-}
-function sliceRows(holdout, options, task) {
-  const y = holdout.target.values;
-  const slices = [];
-  holdout.features.forEach((feature, j) => {
-    const categories = feature.categories;
-    if (feature.kind !== "categorical" || !categories || categories.length < 2 || categories.length > options.maxLevels) return;
-    const members2 = categories.map(() => []);
-    const column = holdout.columns[j];
-    for (let i = 0; i < holdout.rows; i++) if (!Number.isNaN(column[i])) members2[column[i]].push(i);
-    members2.forEach((rows, code) => {
-      let positives = 0;
-      for (const i of rows) positives += y[i];
-      const large = task === "binary" ? Math.min(positives, rows.length - positives) >= options.minRows : rows.length >= options.minRows;
-      if (large) slices.push({ column: feature.name, value: categories[code], rows: Uint32Array.from(rows) });
-    });
-  });
-  return slices;
-}
-
-// src/core/gate-settings.ts
-var fixedSettings = {
-  minRelativeChange: 0.2,
-  persistence: 0.9,
-  singleFeatureTop: 3,
-  singleFeatureMaxExtra: 20,
-  slices: { maxLevels: 20, minRows: 30 },
-  scoreBlockAtSds: 3
-};
-function builtinLearnerSettings(config2) {
-  const m = config2.model.kind === "builtin" ? config2.model : { learner: "gradient-boosting", ...defaultBoosting };
-  return {
-    learner: m.learner,
-    boosting: {
-      trees: m.trees,
-      maxDepth: m.maxDepth,
-      learningRate: m.learningRate,
-      minRowsPerLeaf: m.minRowsPerLeaf,
-      l2: m.l2,
-      rowSubsample: m.rowSubsample,
-      columnSubsample: m.columnSubsample
-    },
-    maxBins: m.maxBins,
-    linearL2: m.l2
-  };
-}
-function gateSettings(config2) {
-  const groups2 = Object.entries(config2.importance.groups).map(([name, members2]) => ({ name, members: members2 }));
-  const learner = builtinLearnerSettings(config2);
-  const checks = {
-    leakage: config2.checks.leakage,
-    rankShift: { ...config2.checks.rankShift, minRelativeChange: fixedSettings.minRelativeChange },
-    rankAgreement: {
-      action: config2.checks.rankShift.action,
-      agreementPercentile: config2.checks.rankShift.agreementPercentile,
-      persistence: fixedSettings.persistence
-    },
-    score: { ...config2.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
-    holdoutRows: config2.checks.holdoutRows.action,
-    featureSet: "warn"
-  };
-  return {
-    task: config2.task,
-    target: config2.target,
-    seed: config2.seed,
-    metric: config2.importance.metric,
-    draws: config2.importance.draws,
-    refits: config2.importance.refits,
-    evaluationRows: config2.importance.evaluationRows,
-    referenceRows: config2.importance.referenceRows,
-    groups: groups2,
-    singleFeatureTop: fixedSettings.singleFeatureTop,
-    singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
-    slices: fixedSettings.slices,
-    // One-feature models always use gradient boosting: a linear one-feature model misses a
-    // non-monotone leak.
-    singleFeatureLearner: { ...learner, learner: "gradient-boosting" },
-    checks,
-    // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
-    // policy does not expose are marked fixed.
-    evidence: {
-      leakage: snakeKeys(config2.checks.leakage),
-      rank_shift: {
-        ...snakeKeys(config2.checks.rankShift),
-        "min_relative_change (fixed)": fixedSettings.minRelativeChange,
-        "rbo_persistence (fixed)": fixedSettings.persistence
-      },
-      score: { ...snakeKeys(config2.checks.score), "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
-      holdout_rows: snakeKeys(config2.checks.holdoutRows)
-    }
-  };
-}
-function snakeKeys(values) {
-  return Object.fromEntries(Object.entries(values).map(([key, value]) => [key.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value]));
-}
 
 // src/core/run-gate.ts
-var measureInTurn = async ([base, head]) => [
-  await measureSide(base.inputs, base.options),
-  await measureSide(head.inputs, head.options)
-];
-async function runGate(gateInputs) {
-  const inputs = { ...gateInputs, head: { ...gateInputs.head, holdout: alignHoldout(gateInputs.base.holdout, gateInputs.head.holdout) } };
+async function runGate(inputs) {
   const settings = gateSettings(inputs.config);
-  const { task } = settings;
-  const metric = metricByName(settings.metric, task);
-  const clock = inputs.now;
-  const timings = {};
-  const timed = async (label, work) => {
-    const start = clock?.();
-    const value = await work();
-    if (clock && start !== void 0) timings[label] = clock() - start;
-    return value;
-  };
-  const job = (side2, data) => ({
-    inputs: { side: side2, train: data.train, holdout: data.holdout, reference: data.reference, fit: data.fit, model: data.model },
-    options: {
-      task,
-      metric,
-      seed: settings.seed,
-      refits: settings.refits,
-      draws: settings.draws,
-      groups: settings.groups,
-      evaluationRows: settings.evaluationRows,
-      referenceRows: settings.referenceRows,
-      onRefit: (refit, of) => inputs.onProgress?.({ stage: "refit", side: side2, refit, of }),
-      concurrentFits: !data.builtin
-    },
-    ...data.builtin ? { builtin: data.builtin } : {}
-  });
-  const [base, head] = await timed(
+  const metric = metricByName(settings.metric, settings.task);
+  const stopwatch = createStopwatch(inputs.now);
+  const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } };
+  const measured = await stopwatch.time(
     "measureSeconds",
-    () => (inputs.measureSides ?? measureInTurn)([job("base", inputs.base), job("head", inputs.head)])
+    () => measureBothSides(sides.base, sides.head, settings, metric, { measureSides: inputs.measureSides, onProgress: inputs.onProgress })
   );
-  const featureSet = diffFeatureSets(inputs.base.train, inputs.head.train);
-  const added = new Set(featureSet.added);
-  const changed = changedFeatures(inputs.base, inputs.head);
-  const candidates = /* @__PURE__ */ new Set([
-    ...rankFeatures(head.importances).slice(0, settings.singleFeatureTop).map((u) => u.name),
-    ...rankFeatures(base.importances).slice(0, settings.singleFeatureTop).map((u) => u.name),
-    ...[...added, ...changed].slice(0, settings.singleFeatureMaxExtra)
-  ]);
-  const separationOf = (side2, data) => timed(`${side2}SingleFeatureSeconds`, async () => {
-    inputs.onProgress?.({ stage: "single-feature", side: side2, features: candidates.size });
-    const fit = createBuiltinFit(data.train, task, settings.singleFeatureLearner);
-    return singleFeatureSeparation(data.train, data.holdout, [...candidates], {
-      fit,
-      task,
-      seed: settings.seed,
-      side: side2,
-      slices: settings.slices
-    });
+  const featureSet = diffFeatureSets(sides.base.train, sides.head.train);
+  const changed = changedFeatures(sides.base, sides.head);
+  const single = await separateSingleFeatures(sides, measured, [...featureSet.added, ...changed], settings, {
+    stopwatch,
+    onProgress: inputs.onProgress
   });
-  const baseSingle = await separationOf("base", inputs.base);
-  const headSingle = await separationOf("head", inputs.head);
   inputs.onProgress?.({ stage: "checks" });
-  const sideResult = (side2, data, m, single) => ({
-    side: side2,
-    features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
-    scores: m.scores,
-    separation: m.separation,
-    importances: m.importances,
-    perRefit: m.perRefit,
-    singleFeatureSeparation: single.overall,
-    singleFeatureSlices: single.bestSlice,
-    noiseCovers: m.noiseCovers
-  });
-  const baseResult = sideResult("base", inputs.base, base, baseSingle);
-  const headResult = sideResult("head", inputs.head, head, headSingle);
-  const holdoutFindings = checkHoldoutRows(identity(inputs.base.holdout), identity(inputs.head.holdout), settings.checks.holdoutRows);
-  const sameRows = holdoutFindings.length === 0;
-  const leakage = checkLeakage({ base: baseResult, head: headResult, added, changed }, { ...settings.checks.leakage, task });
-  const shift = checkRankShift(baseResult, headResult, settings.checks.rankShift);
-  const agreement = checkRankAgreement(baseResult, headResult, settings.checks.rankAgreement);
-  const score2 = checkScoreRegression(
-    {
-      baseScores: base.scores,
-      headScores: head.scores,
-      pairedBootstrap: sameRows && (base.scores.length < 2 || head.scores.length < 2) ? pairedBootstrap(inputs.base.holdout.target.values, base.firstPredictions, head.firstPredictions, {
-        metric,
-        replicates: 200,
-        seed: settings.seed
-      }) : void 0
-    },
-    { ...settings.checks.score, metric: metric.name, higherIsBetter: metric.higherIsBetter }
-  );
-  const context3 = [];
-  if (inputs.policyChanged) {
-    context3.push({
-      kind: "policy-changed",
-      severity: "warn",
-      title: `This pull request changes the policy file ${inputs.policySource}.`,
-      message: `The head's policy governs both sides of this comparison. Review the policy change itself: a loosened threshold or a check turned off changes what this gate can see.`,
-      evidence: { policySource: inputs.policySource }
-    });
-  }
-  if (base.noiseCovers === "draws-only" || head.noiseCovers === "draws-only") {
-    context3.push({
-      kind: "noise-model",
-      severity: "info",
-      title: "The model was loaded, not retrained: the noise floor covers permutation draws only.",
-      message: "A loaded model cannot be reseeded, so the spread a retrain with another seed would cause is unknown. Rank shifts are tested on per-draw values and the score on a paired bootstrap of holdout rows; both understate training noise. Use model.train to refit.",
-      evidence: { baseNoise: base.noiseCovers, headNoise: head.noiseCovers }
-    });
-  }
-  const findings = sortFindings(demoteConsequences([
-    ...holdoutFindings,
-    ...leakage,
-    ...score2,
-    ...shift.findings,
-    ...agreement.findings,
-    ...featureSetFindings(featureSet, headResult, settings.checks.featureSet),
-    ...context3
-  ]));
-  const verdict = decideVerdict(findings);
-  return {
-    schemaVersion: 1,
-    tool: { name: "plumbline", version: inputs.toolVersion },
-    verdict,
-    headline: writeHeadline(verdict, findings),
-    findings,
-    features: featureRows(baseResult, headResult, shift.shifts, inputs.base.train, inputs.head.train),
+  const results = {
+    base: sideResult("base", sides.base, measured[0], single.base),
+    head: sideResult("head", sides.head, measured[1], single.head)
+  };
+  const checked = runChecks({
+    settings,
+    metric,
+    holdouts: { base: sides.base.holdout, head: sides.head.holdout },
+    measured,
+    results,
     featureSet,
-    agreement: agreement.agreement,
-    sides: describeSides(inputs, base, head),
-    settings: {
-      task,
-      target: settings.target,
-      metric: metric.name,
-      higherIsBetter: metric.higherIsBetter,
-      draws: settings.draws,
-      refits: settings.refits,
-      seed: settings.seed,
-      policySource: inputs.policySource,
-      policyFrom: "head",
-      checks: settings.evidence
-    },
-    timings,
-    caution: reportCaution
-  };
-}
-function alignHoldout(base, head) {
-  if (!base.ids || !head.ids || base.rows !== head.rows) return head;
-  const position = /* @__PURE__ */ new Map();
-  head.ids.values.forEach((id, i) => position.set(id, i));
-  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return head;
-  const order3 = [];
-  for (const id of base.ids.values) {
-    const i = position.get(id);
-    if (i === void 0) return head;
-    order3.push(i);
-  }
-  if (order3.every((i, k) => i === k)) return head;
-  return selectRows(head, order3);
-}
-function identity(holdout) {
-  return {
-    source: holdout.source,
-    rows: holdout.rows,
-    ids: holdout.ids?.values,
-    idName: holdout.ids?.name,
-    target: holdout.target.values
-  };
+    changed,
+    policyChanged: inputs.policyChanged,
+    policySource: inputs.policySource
+  });
+  return assembleReport({
+    toolVersion: inputs.toolVersion,
+    policySource: inputs.policySource,
+    settings,
+    metric,
+    sides,
+    measured,
+    results,
+    featureSet,
+    ...checked,
+    timings: stopwatch.timings
+  });
 }
 
 // src/adapters/files/read-dataset.ts
@@ -64931,6 +65044,7 @@ async function loadSideModel(config2, side2) {
     });
     side2.log(`${side2.side}: loaded ONNX model ${model.path} (${(bytes.length / 1024).toFixed(0)} KiB)`);
     return {
+      kind: "loaded",
       model: await loadOnnxModel(new Uint8Array(bytes), {
         source: `${side2.side}:${model.path}`,
         task: config2.task,
@@ -64948,6 +65062,7 @@ async function loadSideModel(config2, side2) {
       );
     }
     return {
+      kind: "command",
       fit: createCommandFit({
         command: model.command,
         timeoutSeconds: model.timeoutSeconds,
@@ -65048,7 +65163,8 @@ async function runCheck(request2) {
         "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input)."
       );
     });
-    const config2 = parsePolicy(policyText, { source: policyPath });
+    const policy = readPolicyFile(policyText, { source: policyPath });
+    const { config: config2 } = policy;
     const baseTarget = request2.baseRef ? { ref: request2.baseRef, commit: await resolveCommit(root2, request2.baseRef, "--base") } : await defaultBase(root2);
     const basePolicy = await readFileAtCommit(root2, baseTarget.commit, toRepoPath(policyPath));
     const policyChanged = basePolicy !== policyText;
@@ -65056,8 +65172,8 @@ async function runCheck(request2) {
     log(`Policy: ${policyPath} from the head${policyChanged ? " (changed in this pull request)" : ""}`);
     const baseTree = await addWorktree(root2, baseTarget.commit);
     cleanups.push(baseTree.remove);
-    const baseSide = await loadSide(config2, baseTree.path, "base", baseTarget.ref, baseTarget.commit, policyPath, log);
-    const headSide = await loadSide(config2, head.path, "head", head.ref, head.commit, policyPath, log);
+    const baseSide = await loadSide(policy, baseTree.path, "base", baseTarget.ref, baseTarget.commit, policyPath, log);
+    const headSide = await loadSide(policy, head.path, "head", head.ref, head.commit, policyPath, log);
     return await runGate({
       config: config2,
       policySource: policyPath,
@@ -65079,47 +65195,27 @@ async function checkoutSide(root2, ref, flag, cleanups) {
   cleanups.push(tree.remove);
   return { path: tree.path, ref, commit };
 }
-async function loadSide(config2, checkout, side2, ref, commit, policyPath, log) {
+async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
+  const { config: config2 } = policy;
   if (config2.prepare) {
     log(`${side2}: running prepare: ${config2.prepare.command}`);
     await runPrepare({ command: config2.prepare.command, cwd: checkout, timeoutSeconds: config2.prepare.timeoutSeconds, side: side2 });
   }
-  const roles = config2.data.columns;
-  const readOptions = { target: config2.target, task: config2.task, roles, cwd: checkout };
-  const all = await readDataset(config2.data.train, { ...readOptions, source: `${side2}:${config2.data.train}`, requireTarget: true });
-  let train3;
-  let holdout;
-  if (config2.data.holdout.kind === "split") {
-    const split = splitRows(all, { fraction: config2.data.holdout.fraction, seed: config2.seed, by: config2.data.holdout.by });
-    train3 = split.train;
-    holdout = split.holdout;
-  } else {
-    train3 = all;
-    holdout = await readDataset(config2.data.holdout.path, {
+  const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout };
+  const tables = {};
+  for (const file2 of sideDataFiles(config2)) {
+    tables[file2.role] = await readDataset(file2.path, {
       ...readOptions,
-      source: `${side2}:${config2.data.holdout.path}`,
-      schema: schemaOf(all),
-      requireTarget: true
+      source: `${side2}:${file2.path}`,
+      requireTarget: file2.requireTarget,
+      ...file2.conformToTrain ? { schema: schemaOf(tables.train) } : {}
     });
   }
-  checkPolicyAgainstColumns(config2, [...train3.features.map((f) => f.name), ...train3.ids ? [train3.ids.name] : []], policyPath);
-  let reference = train3;
-  if (config2.data.reference.kind === "holdout") reference = holdout;
-  if (config2.data.reference.kind === "file") {
-    reference = await readDataset(config2.data.reference.path, {
-      ...readOptions,
-      source: `${side2}:${config2.data.reference.path}`,
-      schema: schemaOf(train3),
-      requireTarget: false
-    });
-  }
+  const { train: train3, holdout, reference } = assembleSideData(config2, tables);
+  checkPolicyAgainstColumns(policy, [...train3.features.map((f) => f.name), ...train3.ids ? [train3.ids.name] : []]);
   log(`${side2}: ${train3.rows} training rows, ${holdout.rows} holdout rows, ${train3.features.length} features`);
-  if (config2.model.kind === "builtin") {
-    const settings = builtinLearnerSettings(config2);
-    return { ref, commit, train: train3, holdout, reference, fit: createBuiltinFit(train3, config2.task, settings), builtin: { task: config2.task, settings } };
-  }
-  const loaded = await loadSideModel(config2, { checkout, side: side2, train: train3, holdout, log });
-  return { ref, commit, train: train3, holdout, reference, ...loaded };
+  const model = config2.model.kind === "builtin" ? { kind: "builtin" } : await loadSideModel(config2, { checkout, side: side2, train: train3, holdout, log });
+  return { ref, commit, train: train3, holdout, reference, model };
 }
 function toRepoPath(path) {
   return (isAbsolute(path) ? relative(resolve3("/"), path) : path).split("\\").join("/");

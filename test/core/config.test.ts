@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest'
 import {
-  boostingOnlyKeys,
   defaultBoosting,
   defaultChecks,
   defaultData,
@@ -11,8 +10,8 @@ import {
   defaultTopLevel,
   defaultTrainCommand,
   metricTasks,
-  policySchema,
-} from '../../src/core/config.ts'
+} from '../../src/core/policy/policy-defaults.ts'
+import { boostingOnlyKeys, policySchema } from '../../src/core/policy/policy-schema.ts'
 import { describePolicyKey } from '../../src/core/policy/describe-policy-key.ts'
 
 describe('the named defaults', () => {

@@ -1,7 +1,5 @@
 import { describe, expect, it } from 'vitest'
 import { parseCsv, schemaOf } from '../../src/core/data/parse-csv.ts'
-import { builtinLearnerSettings } from '../../src/core/gate-settings.ts'
-import { createBuiltinFit } from '../../src/core/models/builtin-fit.ts'
 import { parsePolicy } from '../../src/core/policy/parse-policy.ts'
 import { runGate, type SideInputs } from '../../src/core/run-gate.ts'
 import { createRandom } from '../../src/core/statistics/random.ts'
@@ -34,7 +32,7 @@ function side(columns: readonly string[]): SideInputs {
     [keep.map((j) => all[j]).join(','), ...lines.slice(from, to).map((line) => keep.map((j) => line.split(',')[j]).join(','))].join('\n')
   const train = parseCsv(table(0, 1000), { source: 't.csv', target: 'late', task: 'binary', roles: { parcel_id: 'id' } })
   const holdout = parseCsv(table(1000, 1400), { source: 'h.csv', schema: schemaOf(train) })
-  return { ref: 'x', commit: null, train, holdout, reference: train, fit: createBuiltinFit(train, 'binary', builtinLearnerSettings(policy)) }
+  return { ref: 'x', commit: null, train, holdout, reference: train, model: { kind: 'builtin' } }
 }
 
 describe('runGate on a fixed scenario (a leak added, a weak feature removed)', () => {

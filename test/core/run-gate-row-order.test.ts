@@ -1,7 +1,5 @@
 import { describe, expect, it } from 'vitest'
 import { parseCsv, schemaOf } from '../../src/core/data/parse-csv.ts'
-import { builtinLearnerSettings } from '../../src/core/gate-settings.ts'
-import { createBuiltinFit } from '../../src/core/models/builtin-fit.ts'
 import { parsePolicy } from '../../src/core/policy/parse-policy.ts'
 import { runGate, type SideInputs } from '../../src/core/run-gate.ts'
 import { createRandom } from '../../src/core/statistics/random.ts'
@@ -23,7 +21,7 @@ const policy = parsePolicy(
 function side(holdoutRows: string[]): SideInputs {
   const train = parseCsv([rows[0], ...rows.slice(1, 901)].join('\n'), { source: 't.csv', target: 'late', task: 'binary', roles: { parcel_id: 'id' } })
   const holdout = parseCsv([rows[0], ...holdoutRows].join('\n'), { source: 'h.csv', schema: schemaOf(train) })
-  return { ref: 'x', commit: null, train, holdout, reference: train, fit: createBuiltinFit(train, 'binary', builtinLearnerSettings(policy)) }
+  return { ref: 'x', commit: null, train, holdout, reference: train, model: { kind: 'builtin' } }
 }
 
 describe('runGate when the pull request only reorders the holdout file', () => {

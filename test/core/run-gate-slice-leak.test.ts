@@ -1,8 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { parseCsv } from '../../src/core/data/parse-csv.ts'
 import { parsePolicy } from '../../src/core/policy/parse-policy.ts'
-import { createBuiltinFit } from '../../src/core/models/builtin-fit.ts'
-import { builtinLearnerSettings } from '../../src/core/gate-settings.ts'
 import { runGate, type SideInputs } from '../../src/core/run-gate.ts'
 import { createRandom } from '../../src/core/statistics/random.ts'
 import { schemaOf } from '../../src/core/data/parse-csv.ts'
@@ -31,7 +29,7 @@ function side(withLeak: boolean, ref: string): SideInputs {
   const header = rows[0]
   const train = parseCsv([header, ...rows.slice(1, 1501)].join('\n'), { source: `${ref}:train.csv`, target: 'late', task: 'binary', roles: { parcel_id: 'id' } })
   const holdout = parseCsv([header, ...rows.slice(1501)].join('\n'), { source: `${ref}:holdout.csv`, schema: schemaOf(train) })
-  return { ref, commit: null, train, holdout, reference: train, fit: createBuiltinFit(train, 'binary', builtinLearnerSettings(policy)) }
+  return { ref, commit: null, train, holdout, reference: train, model: { kind: 'builtin' } }
 }
 
 const policy = parsePolicy(

@@ -3,7 +3,7 @@ import { basename, dirname, join, resolve } from 'node:path'
 import type { GateConfig } from '../../core/config.ts'
 import type { Dataset } from '../../core/data/dataset.ts'
 import { UserError } from '../../core/errors.ts'
-import type { Fit, Model } from '../../core/models/model.ts'
+import type { SideModel } from '../../core/gate/gate-inputs.ts'
 import { loadOnnxModel } from '../onnx/load-onnx-model.ts'
 import { createCommandFit } from '../training/create-command-fit.ts'
 
@@ -15,7 +15,7 @@ import { createCommandFit } from '../training/create-command-fit.ts'
 export async function loadSideModel(
   config: GateConfig,
   side: { checkout: string; side: 'base' | 'head'; train: Dataset; holdout: Dataset; log: (line: string) => void },
-): Promise<{ model: Model } | { fit: Fit }> {
+): Promise<SideModel> {
   const model = config.model
   if (model.kind === 'onnx') {
     const path = await resolveModelPath(side.checkout, model.path, side.side)
@@ -27,6 +27,7 @@ export async function loadSideModel(
     })
     side.log(`${side.side}: loaded ONNX model ${model.path} (${(bytes.length / 1024).toFixed(0)} KiB)`)
     return {
+      kind: 'loaded',
       model: await loadOnnxModel(new Uint8Array(bytes), {
         source: `${side.side}:${model.path}`,
         task: config.task,
@@ -44,6 +45,7 @@ export async function loadSideModel(
       )
     }
     return {
+      kind: 'command',
       fit: createCommandFit({
         command: model.command,
         timeoutSeconds: model.timeoutSeconds,

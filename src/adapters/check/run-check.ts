@@ -1,15 +1,12 @@
 import { readFile } from 'node:fs/promises'
 import { isAbsolute, join, relative, resolve } from 'node:path'
-import type { GateConfig } from '../../core/config.ts'
 import type { Dataset } from '../../core/data/dataset.ts'
 import { schemaOf } from '../../core/data/parse-csv.ts'
-import { splitRows } from '../../core/data/split-rows.ts'
+import { assembleSideData, sideDataFiles, type DataFileRequest } from '../../core/data/side-data.ts'
 import { UserError } from '../../core/errors.ts'
-import { createBuiltinFit } from '../../core/models/builtin-fit.ts'
-import { parsePolicy, checkPolicyAgainstColumns } from '../../core/policy/parse-policy.ts'
+import { readPolicyFile, checkPolicyAgainstColumns, type PolicyFile } from '../../core/policy/parse-policy.ts'
 import type { GateReport } from '../../core/report/report.ts'
 import { runGate, type GateProgress, type SideInputs } from '../../core/run-gate.ts'
-import { builtinLearnerSettings } from '../../core/gate-settings.ts'
 import { readDataset } from '../files/read-dataset.ts'
 import { addWorktree, defaultBase, readFileAtCommit, repositoryRoot, resolveCommit } from '../git/git.ts'
 import { runPrepare } from './run-prepare.ts'
@@ -52,7 +49,8 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
         "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input).",
       )
     })
-    const config = parsePolicy(policyText, { source: policyPath })
+    const policy = readPolicyFile(policyText, { source: policyPath })
+    const { config } = policy
     const baseTarget = request.baseRef
       ? { ref: request.baseRef, commit: await resolveCommit(root, request.baseRef, '--base') }
       : await defaultBase(root)
@@ -63,8 +61,8 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
 
     const baseTree = await addWorktree(root, baseTarget.commit)
     cleanups.push(baseTree.remove)
-    const baseSide = await loadSide(config, baseTree.path, 'base', baseTarget.ref, baseTarget.commit, policyPath, log)
-    const headSide = await loadSide(config, head.path, 'head', head.ref, head.commit, policyPath, log)
+    const baseSide = await loadSide(policy, baseTree.path, 'base', baseTarget.ref, baseTarget.commit, policyPath, log)
+    const headSide = await loadSide(policy, head.path, 'head', head.ref, head.commit, policyPath, log)
     return await runGate({
       config,
       policySource: policyPath,
@@ -89,7 +87,7 @@ async function checkoutSide(root: string, ref: string, flag: string, cleanups: (
 }
 
 async function loadSide(
-  config: GateConfig,
+  policy: PolicyFile,
   checkout: string,
   side: 'base' | 'head',
   ref: string,
@@ -97,46 +95,26 @@ async function loadSide(
   policyPath: string,
   log: (line: string) => void,
 ): Promise<SideInputs> {
+  const { config } = policy
   if (config.prepare) {
     log(`${side}: running prepare: ${config.prepare.command}`)
     await runPrepare({ command: config.prepare.command, cwd: checkout, timeoutSeconds: config.prepare.timeoutSeconds, side })
   }
-  const roles = config.data.columns
-  const readOptions = { target: config.target, task: config.task, roles, cwd: checkout }
-  const all = await readDataset(config.data.train, { ...readOptions, source: `${side}:${config.data.train}`, requireTarget: true })
-  let train: Dataset
-  let holdout: Dataset
-  if (config.data.holdout.kind === 'split') {
-    const split = splitRows(all, { fraction: config.data.holdout.fraction, seed: config.seed, by: config.data.holdout.by })
-    train = split.train
-    holdout = split.holdout
-  } else {
-    train = all
-    holdout = await readDataset(config.data.holdout.path, {
+  const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout }
+  const tables: Partial<Record<DataFileRequest['role'], Dataset>> = {}
+  for (const file of sideDataFiles(config)) {
+    tables[file.role] = await readDataset(file.path, {
       ...readOptions,
-      source: `${side}:${config.data.holdout.path}`,
-      schema: schemaOf(all),
-      requireTarget: true,
+      source: `${side}:${file.path}`,
+      requireTarget: file.requireTarget,
+      ...(file.conformToTrain ? { schema: schemaOf(tables.train!) } : {}),
     })
   }
-  checkPolicyAgainstColumns(config, [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])], policyPath)
-  let reference = train as Dataset
-  if (config.data.reference.kind === 'holdout') reference = holdout
-  if (config.data.reference.kind === 'file') {
-    reference = await readDataset(config.data.reference.path, {
-      ...readOptions,
-      source: `${side}:${config.data.reference.path}`,
-      schema: schemaOf(train),
-      requireTarget: false,
-    })
-  }
+  const { train, holdout, reference } = assembleSideData(config, tables)
+  checkPolicyAgainstColumns(policy, [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])])
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
-  if (config.model.kind === 'builtin') {
-    const settings = builtinLearnerSettings(config)
-    return { ref, commit, train, holdout, reference, fit: createBuiltinFit(train, config.task, settings), builtin: { task: config.task, settings } }
-  }
-  const loaded = await loadSideModel(config, { checkout, side, train, holdout, log })
-  return { ref, commit, train, holdout, reference, ...loaded }
+  const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
+  return { ref, commit, train, holdout, reference, model }
 }
 
 function toRepoPath(path: string): string {

@@ -2,7 +2,7 @@ import { availableParallelism } from 'node:os'
 import { Worker } from 'node:worker_threads'
 import { InternalError } from '../../core/errors.ts'
 import { measureSide, type SideMeasurement } from '../../core/measure-side.ts'
-import type { MeasureSides } from '../../core/run-gate.ts'
+import type { MeasureSides } from '../../core/gate/gate-inputs.ts'
 
 /**
  * Measures the two sides at once, each in its own worker thread, when the machine has at least two

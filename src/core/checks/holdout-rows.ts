@@ -1,5 +1,5 @@
 import type { Finding } from '../report/report.ts'
-import type { CheckAction } from './leakage.ts'
+import type { CheckAction } from './check-action.ts'
 
 export interface HoldoutIdentity {
   readonly source: string

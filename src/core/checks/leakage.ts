@@ -1,7 +1,7 @@
 import type { Finding, Severity } from '../report/report.ts'
 import { mean, positiveShare, rankFeatures, type SideResult } from './side-result.ts'
 
-export type CheckAction = 'block' | 'warn' | 'off'
+import type { CheckAction } from './check-action.ts'
 
 export interface LeakageOptions {
   readonly action: CheckAction

@@ -2,7 +2,7 @@ import type { Finding, RankAgreement } from '../report/report.ts'
 import { kendallTauB } from '../statistics/kendall-tau-b.ts'
 import { percentile } from '../statistics/percentile.ts'
 import { rankBiasedOverlap } from '../statistics/rank-biased-overlap.ts'
-import type { CheckAction } from './leakage.ts'
+import type { CheckAction } from './check-action.ts'
 import { fmt } from './leakage.ts'
 import { mean, type SideResult } from './side-result.ts'
 

@@ -1,7 +1,7 @@
 import type { Finding, FeatureRow } from '../report/report.ts'
 import { benjaminiHochberg } from '../statistics/benjamini-hochberg.ts'
 import { welchTTest } from '../statistics/welch-t-test.ts'
-import type { CheckAction } from './leakage.ts'
+import type { CheckAction } from './check-action.ts'
 import { fmt, pct } from './leakage.ts'
 import type { SideResult } from './side-result.ts'
 import type { FlooredImportance } from '../importance/compute-noise-floor.ts'

@@ -1,7 +1,7 @@
 import type { Finding } from '../report/report.ts'
 import { studentTCdf } from '../statistics/student-t-cdf.ts'
 import { welchTTestFromSummary } from '../statistics/welch-t-test.ts'
-import type { CheckAction } from './leakage.ts'
+import type { CheckAction } from './check-action.ts'
 import { fmt } from './leakage.ts'
 import { mean } from './side-result.ts'
 

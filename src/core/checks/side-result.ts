@@ -1,6 +1,6 @@
 import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
 import type { ImportanceEstimate } from '../importance/permutation-importance.ts'
-import type { SliceSeparation } from '../single-feature-separation.ts'
+import type { SliceSeparation } from '../importance/single-feature-separation.ts'
 
 /** What the checks know about one side after its refits: pure numbers, no models. */
 export interface SideResult {

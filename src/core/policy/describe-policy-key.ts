@@ -4,7 +4,7 @@
  * default of a setting. Walks zod's schema definitions (`_zod.def`), unwrapping optional, default
  * and the preprocess / transform pipes the schema is built from.
  */
-import { policySchema } from '../config.ts'
+import { policySchema } from './policy-schema.ts'
 
 export type KeyPath = readonly (string | number)[]
 

@@ -6,13 +6,13 @@
  * YAML is read with the failsafe schema (every scalar is text), so `off`, `no`, `1.10` or a column
  * called `2019` reach the policy schema exactly as written; config.ts reads numbers itself.
  *
- * Positions: parsePolicy records where every key and value sits and keeps that record in a WeakMap
- * keyed by the returned (frozen) config, so checkPolicyAgainstColumns can cite line:column without
- * the config carrying it. A copied config loses its positions; the helper then names the file alone.
+ * Positions: readPolicyFile returns, beside the config, where every key and value sits, so that
+ * checkPolicyAgainstColumns can cite line:column once the data has been read.
  */
 import { isAlias, isMap, isScalar, isSeq, LineCounter, parseDocument, type Document, type Node } from 'yaml'
 import type { z } from 'zod'
-import { policySchema, type GateConfig, type PolicyRuleParams } from '../config.ts'
+import type { GateConfig } from '../config.ts'
+import { policySchema, type PolicyRuleParams } from './policy-schema.ts'
 import { UserError } from '../errors.ts'
 import { describePolicyKey, type KeyPath } from './describe-policy-key.ts'
 import { formatKeyPath } from './format-key-path.ts'
@@ -36,7 +36,12 @@ interface Entry {
 /** Entries by path (see `pathId`). */
 type Positions = ReadonlyMap<string, Entry>
 
-const positionsByConfig = new WeakMap<GateConfig, Positions>()
+/** A policy file read: its config, and where each key and value sits in the text. */
+export interface PolicyFile {
+  readonly config: GateConfig
+  readonly source: string
+  readonly positions: Positions
+}
 
 const pathId = (path: readonly PropertyKey[]) => JSON.stringify(path.map(String))
 
@@ -272,9 +277,12 @@ function readPolicy(text: string, source: string): { config: GateConfig; positio
  * rules of policySchema. Linear in the size of the file.
  */
 export function parsePolicy(text: string, options: { source: string }): GateConfig {
-  const { config, positions } = readPolicy(text, options.source)
-  positionsByConfig.set(config, positions)
-  return config
+  return readPolicy(text, options.source).config
+}
+
+/** parsePolicy, with the positions of every key kept beside the config for checkPolicyAgainstColumns. */
+export function readPolicyFile(text: string, options: { source: string }): PolicyFile {
+  return { ...readPolicy(text, options.source), source: options.source }
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -290,12 +298,12 @@ function listColumns(columns: readonly string[], most = 20): string {
  * read the training table: data.columns (roles other than ignore), data.split.by, every member of
  * importance.groups, model.onnx.features, and that no group is named like a column. `columns` is
  * the data's column names; the target and ignored columns may be left out (parseCsv checks those).
- * Throws a UserError for the first problem in file order, citing line:column when `config` came
- * from parsePolicy, naming the policy key, listing the columns and suggesting a close name.
+ * Throws a UserError for the first problem in file order, citing line:column, naming the policy
+ * key, listing the columns and suggesting a close name.
  * Cost O(names · columns) plus the distances for the one name reported.
  */
-export function checkPolicyAgainstColumns(config: GateConfig, columns: readonly string[], source: string): void {
-  const positions = positionsByConfig.get(config) ?? new Map<string, Entry>()
+export function checkPolicyAgainstColumns(policy: PolicyFile, columns: readonly string[]): void {
+  const { config, positions, source } = policy
   const known = new Set(columns)
   const problems: Problem[] = []
   /** `pointAt` is the node holding the name: a key of data.columns, or a value everywhere else. */

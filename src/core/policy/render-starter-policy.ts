@@ -15,7 +15,7 @@ import {
   defaultTopLevel,
   defaultTrainCommand,
   metricTasks,
-} from '../config.ts'
+} from './policy-defaults.ts'
 import type { Task } from '../data/dataset.ts'
 import { UserError } from '../errors.ts'
 

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest'
 import { parseDocument, isMap, type YAMLMap } from 'yaml'
-import { parsePolicy, checkPolicyAgainstColumns } from '../../../src/core/policy/parse-policy.ts'
+import { parsePolicy, readPolicyFile, checkPolicyAgainstColumns } from '../../../src/core/policy/parse-policy.ts'
 import { listPolicyKeys } from '../../../src/core/policy/describe-policy-key.ts'
 import { formatKeyPath } from '../../../src/core/policy/format-key-path.ts'
 import { UserError } from '../../../src/core/errors.ts'
-import { defaultBoosting, defaultChecks, defaultImportance, defaultReport } from '../../../src/core/config.ts'
+import { defaultBoosting, defaultChecks, defaultImportance, defaultReport } from '../../../src/core/policy/policy-defaults.ts'
 
 const source = 'plumbline.yml'
 
@@ -34,9 +34,9 @@ function failure(text: string): { message: string; fix: string | undefined } {
 }
 
 function columnFailure(text: string, columns: readonly string[]): { message: string; fix: string | undefined } {
-  const config = parsePolicy(text, { source })
+  const policy = readPolicyFile(text, { source })
   try {
-    checkPolicyAgainstColumns(config, columns, source)
+    checkPolicyAgainstColumns(policy, columns)
   } catch (error) {
     if (error instanceof UserError) return { message: error.message, fix: error.fix }
     throw error
@@ -553,12 +553,12 @@ model:
   })
 })
 
-describe('checkPolicyAgainstColumns(config, columns, source)', () => {
+describe('checkPolicyAgainstColumns(policy, columns)', () => {
   const columns = ['parcel_id', 'depot', 'distance_km', 'stop_count']
 
   it('accepts a policy whose names are all columns of the data', () => {
-    const config = parsePolicy(`${minimal}importance:\n  groups:\n    route: [distance_km, stop_count]\n`, { source })
-    expect(() => checkPolicyAgainstColumns(config, columns, source)).not.toThrow()
+    const policy = readPolicyFile(`${minimal}importance:\n  groups:\n    route: [distance_km, stop_count]\n`, { source })
+    expect(() => checkPolicyAgainstColumns(policy, columns)).not.toThrow()
   })
 
   it('names the group, the position of the member, the columns and a close name', () => {
@@ -603,9 +603,9 @@ describe('checkPolicyAgainstColumns(config, columns, source)', () => {
     )
   })
 
-  it('names the file alone for a config that did not come from parsePolicy', () => {
-    const copy = structuredClone(parsePolicy(`${minimal}importance:\n  groups:\n    g: [zzz]\n`, { source }))
-    expect(() => checkPolicyAgainstColumns(copy, columns, source)).toThrow(
+  it('names the file alone when it has no positions for the key', () => {
+    const policy = { ...readPolicyFile(`${minimal}importance:\n  groups:\n    g: [zzz]\n`, { source }), positions: new Map() }
+    expect(() => checkPolicyAgainstColumns(policy, columns)).toThrow(
       "plumbline.yml: importance.groups.g lists 'zzz', which is not a column of the data (columns: parcel_id, depot, distance_km, stop_count).",
     )
   })

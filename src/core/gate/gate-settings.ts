@@ -1,7 +1,7 @@
-import type { GateConfig } from './config.ts'
-import { defaultBoosting } from './config.ts'
-import type { FeatureGroup } from './importance/permutation-importance.ts'
-import type { BuiltinLearnerSettings } from './models/builtin-fit.ts'
+import type { GateConfig } from '../config.ts'
+import { defaultBoosting } from '../policy/policy-defaults.ts'
+import type { FeatureGroup } from '../importance/permutation-importance.ts'
+import type { BuiltinLearnerSettings } from '../models/builtin-fit.ts'
 
 /**
  * Settings the policy does not (yet) expose, with the reason for each value.
@@ -14,6 +14,9 @@ import type { BuiltinLearnerSettings } from './models/builtin-fit.ts'
  * - a significant score worsening blocks from 3 pooled reseed SDs on, and warns below: measured by
  *   npm run evaluate (460 runs), benign pull requests that blocked on the score worsened by 1.2 to
  *   6.1 SDs (25 of 29 below 3), every deliberate score drop by 3.1 SDs or more.
+ * - 200 paired bootstrap replicates of the holdout rows for the score of a loaded model (one "refit"
+ *   per side): the SD of the replicates stands in for the reseed spread, and 200 replicates put its
+ *   relative standard error near 1/sqrt(2·199) = 5% (Efron & Tibshirani 1993, ch. 6).
  * - slices for the leakage check: each value of a categorical feature with at most 20 values, judged
  *   when it has at least 30 holdout rows (binary: 30 of each class), so one AUC is not a few rows' luck.
  */
@@ -24,6 +27,7 @@ export const fixedSettings = {
   singleFeatureMaxExtra: 20,
   slices: { maxLevels: 20, minRows: 30 },
   scoreBlockAtSds: 3,
+  pairedBootstrapReplicates: 200,
 } as const
 
 /** The built-in learner settings a policy asks for; loaded models use the defaults for one-feature models. */
@@ -45,6 +49,8 @@ export function builtinLearnerSettings(config: GateConfig): BuiltinLearnerSettin
   }
 }
 
+export type GateSettings = ReturnType<typeof gateSettings>
+
 /** Everything runGate reads from the policy, resolved in one place. */
 export function gateSettings(config: GateConfig) {
   const groups: FeatureGroup[] = Object.entries(config.importance.groups).map(([name, members]) => ({ name, members }))
@@ -59,7 +65,6 @@ export function gateSettings(config: GateConfig) {
     },
     score: { ...config.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
     holdoutRows: config.checks.holdoutRows.action,
-    featureSet: 'warn' as const,
   }
   return {
     task: config.task,
@@ -71,6 +76,8 @@ export function gateSettings(config: GateConfig) {
     evaluationRows: config.importance.evaluationRows,
     referenceRows: config.importance.referenceRows,
     groups,
+    learner,
+    pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
     singleFeatureTop: fixedSettings.singleFeatureTop,
     singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
     slices: fixedSettings.slices,

@@ -1,9 +1,9 @@
-import type { Dataset, Task } from './data/dataset.ts'
-import { selectFeatures } from './data/dataset.ts'
-import { rocAuc } from './metrics/roc-auc.ts'
-import { rSquared } from './metrics/r-squared.ts'
-import type { Fit } from './models/model.ts'
-import { deriveSeed } from './statistics/random.ts'
+import type { Dataset, Task } from '../data/dataset.ts'
+import { selectFeatures } from '../data/dataset.ts'
+import { rocAuc } from '../metrics/roc-auc.ts'
+import { rSquared } from '../metrics/r-squared.ts'
+import type { Fit } from '../models/model.ts'
+import { deriveSeed } from '../statistics/random.ts'
 
 /** The best slice of one feature's one-feature model. */
 export interface SliceSeparation {

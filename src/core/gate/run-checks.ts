@@ -1,0 +1,85 @@
+import { contextFindings } from '../checks/context-findings.ts'
+import { demoteConsequences } from '../checks/demote-consequences.ts'
+import { featureSetFindings, type FeatureSetChange } from '../checks/feature-set.ts'
+import { checkHoldoutRows, type HoldoutIdentity } from '../checks/holdout-rows.ts'
+import { checkLeakage } from '../checks/leakage.ts'
+import { checkRankAgreement } from '../checks/rank-agreement.ts'
+import { checkRankShift, type Shift } from '../checks/rank-shift.ts'
+import { checkScoreRegression } from '../checks/score-regression.ts'
+import type { SideResult } from '../checks/side-result.ts'
+import { sortFindings } from '../checks/verdict.ts'
+import type { Dataset } from '../data/dataset.ts'
+import type { SideMeasurement } from '../measure-side.ts'
+import type { Metric } from '../metrics/metric.ts'
+import type { Finding, RankAgreement } from '../report/report.ts'
+import { pairedBootstrap } from '../statistics/paired-bootstrap.ts'
+import type { GateSettings } from './gate-settings.ts'
+
+export interface CheckInputs {
+  readonly settings: GateSettings
+  readonly metric: Metric
+  readonly holdouts: { readonly base: Dataset; readonly head: Dataset }
+  readonly measured: readonly [SideMeasurement, SideMeasurement]
+  readonly results: { readonly base: SideResult; readonly head: SideResult }
+  readonly featureSet: FeatureSetChange
+  readonly changed: ReadonlySet<string>
+  readonly policyChanged: boolean
+  readonly policySource: string
+}
+
+export interface CheckOutcome {
+  /** Sorted by severity, with consequences of a blocking leak demoted to info. */
+  readonly findings: readonly Finding[]
+  readonly shifts: ReadonlyMap<string, Shift>
+  readonly agreement: RankAgreement | null
+}
+
+/** Every check of the policy over the two measured sides, and their findings in report order. */
+export function runChecks(inputs: CheckInputs): CheckOutcome {
+  const { settings, metric, holdouts, results, featureSet } = inputs
+  const [base, head] = inputs.measured
+  const holdoutFindings = checkHoldoutRows(holdoutIdentity(holdouts.base), holdoutIdentity(holdouts.head), settings.checks.holdoutRows)
+  const sameRows = holdoutFindings.length === 0
+  const leakage = checkLeakage(
+    { base: results.base, head: results.head, added: new Set(featureSet.added), changed: inputs.changed },
+    { ...settings.checks.leakage, task: settings.task },
+  )
+  const shift = checkRankShift(results.base, results.head, settings.checks.rankShift)
+  const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement)
+  // With one refit on a side (a loaded model) the score's noise comes from resampling holdout rows,
+  // which needs the same rows on both sides.
+  const bootstrap =
+    sameRows && (base.scores.length < 2 || head.scores.length < 2)
+      ? pairedBootstrap(holdouts.base.target!.values, base.firstPredictions, head.firstPredictions, {
+          metric,
+          replicates: settings.pairedBootstrapReplicates,
+          seed: settings.seed,
+        })
+      : undefined
+  const score = checkScoreRegression(
+    { baseScores: base.scores, headScores: head.scores, pairedBootstrap: bootstrap },
+    { ...settings.checks.score, metric: metric.name, higherIsBetter: metric.higherIsBetter },
+  )
+  const findings = sortFindings(
+    demoteConsequences([
+      ...holdoutFindings,
+      ...leakage,
+      ...score,
+      ...shift.findings,
+      ...agreement.findings,
+      ...featureSetFindings(featureSet, results.head),
+      ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers }),
+    ]),
+  )
+  return { findings, shifts: shift.shifts, agreement: agreement.agreement }
+}
+
+function holdoutIdentity(holdout: Dataset): HoldoutIdentity {
+  return {
+    source: holdout.source,
+    rows: holdout.rows,
+    ids: holdout.ids?.values,
+    idName: holdout.ids?.name,
+    target: holdout.target!.values,
+  }
+}

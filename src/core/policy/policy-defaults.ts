@@ -1,0 +1,85 @@
+/**
+ * Every default of the policy, declared once (docs/policy.md and the README cite these by value).
+ */
+import type { ChecksConfig, BuiltinSettings, ReportConfig } from '../config.ts'
+import type { Task } from '../data/dataset.ts'
+import type { MetricName } from '../metrics/metric.ts'
+// ---------------------------------------------------------------------------------------------
+
+export function deepFreeze<T>(value: T): T {
+  if (value !== null && typeof value === 'object') {
+    for (const inner of Object.values(value)) deepFreeze(inner)
+    Object.freeze(value)
+  }
+  return value
+}
+
+export const defaultTopLevel = deepFreeze({ seed: 1 })
+
+export const defaultData = deepFreeze({
+  reference: { kind: 'train' } as const,
+  split: { fraction: 0.2 },
+})
+
+export const defaultPrepare = deepFreeze({ timeoutSeconds: 600 })
+
+export const defaultBoosting: BuiltinSettings = deepFreeze({
+  trees: 200,
+  maxDepth: 4,
+  learningRate: 0.1,
+  minRowsPerLeaf: 20,
+  l2: 1,
+  rowSubsample: 0.8,
+  columnSubsample: 0.8,
+  maxBins: 255,
+})
+
+export const defaultTrainCommand = deepFreeze({ timeoutSeconds: 1800, parallel: 2 })
+
+/** The task each metric belongs to; `importance.metric` must match `task`. */
+export const metricTasks: Readonly<Record<MetricName, Task>> = deepFreeze({
+  auc: 'binary',
+  'log-loss': 'binary',
+  accuracy: 'binary',
+  brier: 'binary',
+  rmse: 'regression',
+  mae: 'regression',
+  r2: 'regression',
+})
+
+/** `importance.metric` when the policy names none. */
+export const defaultMetric: Readonly<Record<Task, MetricName>> = deepFreeze({
+  binary: 'log-loss',
+  regression: 'rmse',
+})
+
+export const defaultImportance = deepFreeze({
+  draws: 5,
+  refits: 5,
+  referenceRows: 10_000,
+  evaluationRows: 20_000,
+})
+
+export const defaultChecks: ChecksConfig = deepFreeze({
+  leakage: {
+    action: 'block',
+    dominanceShare: 0.5,
+    runnerUpRatio: 3,
+    singleFeaturePower: 0.99,
+    relativePower: 0.8,
+  },
+  rankShift: {
+    action: 'warn',
+    falseDiscoveryRate: 0.05,
+    minPositions: 2,
+    agreementPercentile: 5,
+  },
+  score: { action: 'block', tolerance: 0, alpha: 0.05 },
+  holdoutRows: { action: 'block' },
+})
+
+export const defaultReport: ReportConfig = deepFreeze({ maxTableRows: 50 })
+
+/** Largest value of an unsigned 32-bit integer: the seed's range is 0..uint32Max. */
+export const uint32Max = 2 ** 32 - 1
+
