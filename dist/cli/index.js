@@ -13,14 +13,6 @@ var __require = /* @__PURE__ */ ((x) => typeof require !== "undefined" ? require
   if (typeof require !== "undefined") return require.apply(this, arguments);
   throw Error('Dynamic require of "' + x + '" is not supported');
 });
-var __esm = (fn, res, err) => function __init() {
-  if (err) throw err[0];
-  try {
-    return fn && (res = (0, fn[__getOwnPropNames(fn)[0]])(fn = 0)), res;
-  } catch (e) {
-    throw err = [e], e;
-  }
-};
 var __commonJS = (cb, mod) => function __require2() {
   try {
     return mod || (0, cb[__getOwnPropNames(cb)[0]])((mod = { exports: {} }).exports, mod), mod.exports;
@@ -48,2148 +40,6 @@ var __toESM = (mod, isNodeMode, target) => (target = mod != null ? __create(__ge
   isNodeMode || !mod || !mod.__esModule ? __defProp(target, "default", { value: mod, enumerable: true }) : target,
   mod
 ));
-
-// src/core/errors.ts
-function describeFailure(error62) {
-  if (error62 instanceof UserError) return error62.fix ? `${error62.message}
-${error62.fix}` : error62.message;
-  const detail = error62 instanceof Error ? error62.stack ?? error62.message : String(error62);
-  return `Internal error (this is a bug, please report it):
-${detail}`;
-}
-var UserError, InternalError;
-var init_errors = __esm({
-  "src/core/errors.ts"() {
-    "use strict";
-    UserError = class extends Error {
-      constructor(message, fix) {
-        super(message);
-        this.fix = fix;
-        this.name = "UserError";
-      }
-      fix;
-    };
-    InternalError = class extends Error {
-      constructor(message) {
-        super(message);
-        this.name = "InternalError";
-      }
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/api/CsvError.js
-var CsvError;
-var init_CsvError = __esm({
-  "node_modules/csv-parse/lib/api/CsvError.js"() {
-    CsvError = class _CsvError extends Error {
-      constructor(code2, message, options, ...contexts) {
-        if (Array.isArray(message)) message = message.join(" ").trim();
-        super(message);
-        if (Error.captureStackTrace !== void 0) {
-          Error.captureStackTrace(this, _CsvError);
-        }
-        this.code = code2;
-        for (const context of contexts) {
-          for (const key2 in context) {
-            const value = context[key2];
-            this[key2] = Buffer.isBuffer(value) ? value.toString(options.encoding) : value == null ? value : JSON.parse(JSON.stringify(value));
-          }
-        }
-      }
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/utils/is_object.js
-var is_object;
-var init_is_object = __esm({
-  "node_modules/csv-parse/lib/utils/is_object.js"() {
-    is_object = function(obj) {
-      return typeof obj === "object" && obj !== null && !Array.isArray(obj);
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/api/normalize_columns_array.js
-var normalize_columns_array;
-var init_normalize_columns_array = __esm({
-  "node_modules/csv-parse/lib/api/normalize_columns_array.js"() {
-    init_CsvError();
-    init_is_object();
-    normalize_columns_array = function(columns) {
-      const normalizedColumns = [];
-      for (let i = 0, l = columns.length; i < l; i++) {
-        const column = columns[i];
-        if (column === void 0 || column === null || column === false) {
-          normalizedColumns[i] = { disabled: true };
-        } else if (typeof column === "string" || typeof column === "number") {
-          normalizedColumns[i] = { name: `${column}` };
-        } else if (is_object(column)) {
-          if (typeof column.name !== "string") {
-            throw new CsvError("CSV_OPTION_COLUMNS_MISSING_NAME", [
-              "Option columns missing name:",
-              `property "name" is required at position ${i}`,
-              "when column is an object literal"
-            ]);
-          }
-          normalizedColumns[i] = column;
-        } else {
-          throw new CsvError("CSV_INVALID_COLUMN_DEFINITION", [
-            "Invalid column definition:",
-            "expect a string or a literal object,",
-            `got ${JSON.stringify(column)} at position ${i}`
-          ]);
-        }
-      }
-      return normalizedColumns;
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/utils/ResizeableBuffer.js
-var ResizeableBuffer, ResizeableBuffer_default;
-var init_ResizeableBuffer = __esm({
-  "node_modules/csv-parse/lib/utils/ResizeableBuffer.js"() {
-    ResizeableBuffer = class {
-      constructor(size = 100) {
-        this.size = size;
-        this.length = 0;
-        this.buf = Buffer.allocUnsafe(size);
-      }
-      prepend(val) {
-        if (Buffer.isBuffer(val)) {
-          const length2 = this.length + val.length;
-          if (length2 >= this.size) {
-            this.resize();
-            if (length2 >= this.size) {
-              throw Error("INVALID_BUFFER_STATE");
-            }
-          }
-          const buf = this.buf;
-          this.buf = Buffer.allocUnsafe(this.size);
-          val.copy(this.buf, 0);
-          buf.copy(this.buf, val.length);
-          this.length += val.length;
-        } else {
-          const length2 = this.length++;
-          if (length2 === this.size) {
-            this.resize();
-          }
-          const buf = this.clone();
-          this.buf[0] = val;
-          buf.copy(this.buf, 1, 0, length2);
-        }
-      }
-      append(val) {
-        const length2 = this.length++;
-        if (length2 === this.size) {
-          this.resize();
-        }
-        this.buf[length2] = val;
-      }
-      clone() {
-        return Buffer.from(this.buf.slice(0, this.length));
-      }
-      resize() {
-        const length2 = this.length;
-        this.size = this.size * 2;
-        const buf = Buffer.allocUnsafe(this.size);
-        this.buf.copy(buf, 0, 0, length2);
-        this.buf = buf;
-      }
-      toString(encoding) {
-        if (encoding) {
-          return this.buf.toString(encoding, 0, this.length);
-        } else {
-          return Uint8Array.prototype.slice.call(this.buf.slice(0, this.length));
-        }
-      }
-      toJSON() {
-        return this.toString("utf8");
-      }
-      reset() {
-        this.length = 0;
-      }
-    };
-    ResizeableBuffer_default = ResizeableBuffer;
-  }
-});
-
-// node_modules/csv-parse/lib/api/init_state.js
-var init_state;
-var init_init_state = __esm({
-  "node_modules/csv-parse/lib/api/init_state.js"() {
-    init_ResizeableBuffer();
-    init_state = function(options) {
-      const timchars = [
-        // Basic Latin
-        32,
-        // [Space](https://www.fileformat.info/info/unicode/char/0020/index.htm)
-        9,
-        // [CHARACTER TABULATION (HT)](https://www.fileformat.info/info/unicode/char/0009/index.htm)
-        10,
-        // [LINE FEED (LF)](https://www.fileformat.info/info/unicode/char/000a/index.htm)
-        13,
-        // [CARRIAGE RETURN (CR)](https://www.fileformat.info/info/unicode/char/000d/index.htm)
-        12,
-        // [FORM FEED (FF)](https://www.fileformat.info/info/unicode/char/000c/index.htm)
-        11,
-        // [LINE TABULATION (VT)](https://www.fileformat.info/info/unicode/char/000b/index.htm)
-        // Latin-1 Supplement
-        160,
-        // [NO-BREAK SPACE (NBSP)](https://www.fileformat.info/info/unicode/char/00a0/index.htm)
-        // Ogham
-        5760,
-        // [OGHAM SPACE MARK](https://www.fileformat.info/info/unicode/char/1680/index.htm)
-        // General Punctuation
-        8192,
-        // [EN QUAD](https://www.fileformat.info/info/unicode/char/2000/index.htm)
-        8193,
-        // [EM QUAD](https://www.fileformat.info/info/unicode/char/2001/index.htm)
-        8194,
-        // [EN SPACE](https://www.fileformat.info/info/unicode/char/2002/index.htm)
-        8195,
-        // [EM SPACE](https://www.fileformat.info/info/unicode/char/2003/index.htm)
-        8196,
-        // [THREE-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2004/index.htm)
-        8197,
-        // [FOUR-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2005/index.htm)
-        8198,
-        // [SIX-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2006/index.htm)
-        8199,
-        // [FIGURE SPACE](https://www.fileformat.info/info/unicode/char/2007/index.htm)
-        8200,
-        // [PUNCTUATION SPACE](https://www.fileformat.info/info/unicode/char/2008/index.htm)
-        8201,
-        // [THIN SPACE](https://www.fileformat.info/info/unicode/char/2009/index.htm)
-        8202,
-        // [HAIR SPACE](https://www.fileformat.info/info/unicode/char/200a/index.htm)
-        8232,
-        // [LINE SEPARATOR](https://www.fileformat.info/info/unicode/char/2028/index.htm)
-        8233,
-        // [PARAGRAPH SEPARATOR](https://www.fileformat.info/info/unicode/char/2029/index.htm)
-        8239,
-        // [NARROW NO-BREAK SPACE (NNBSP)](https://www.fileformat.info/info/unicode/char/202f/index.htm)
-        8287,
-        // [MEDIUM MATHEMATICAL SPACE (MMSP)](https://www.fileformat.info/info/unicode/char/205f/index.htm)
-        12288,
-        // [IDEOGRAPHIC SPACE](https://www.fileformat.info/info/unicode/char/3000/index.htm)
-        65279
-        // [ZERO WIDTH NO-BREAK SPACE (BOM)](https://www.fileformat.info/info/unicode/char/feff/index.htm)
-      ].reduce((acc, codepoint) => {
-        const encoded = Buffer.from(
-          String.fromCharCode(codepoint),
-          options.encoding
-        );
-        if (codepoint !== 63 && encoded.length === 1 && encoded[0] === 63) {
-          return acc;
-        }
-        acc.push(encoded);
-        return acc;
-      }, []);
-      const timcharFirstBytes = new Uint8Array(256);
-      for (const t of timchars) timcharFirstBytes[t[0]] = 1;
-      return {
-        bomSkipped: false,
-        bufBytesStart: 0,
-        castField: options.cast_function,
-        commenting: false,
-        delimiterBufPrevious: void 0,
-        delimiterDiscovered: false,
-        // Current error encountered by a record
-        error: void 0,
-        enabled: options.from_line === 1,
-        escaping: false,
-        escapeIsQuote: Buffer.isBuffer(options.escape) && Buffer.isBuffer(options.quote) && Buffer.compare(options.escape, options.quote) === 0,
-        // columns can be `false`, `true`, `Array`
-        expectedRecordLength: Array.isArray(options.columns) ? options.columns.length : void 0,
-        field: new ResizeableBuffer_default(20),
-        firstLineToHeaders: options.cast_first_line_to_header,
-        needMoreDataSize: Math.max(
-          // Skip if the remaining buffer smaller than comment
-          options.comment !== null ? options.comment.length : 0,
-          ...options.delimiter ? options.delimiter.map((delimiter) => delimiter.length) : [],
-          // Auto discovery of delimiter is limited to 1 character
-          options.delimiter_auto ? 1 : 0,
-          // Skip if the remaining buffer can be escape sequence
-          options.quote !== null ? options.quote.length : 0,
-          ...timchars.map((t) => t.length)
-        ),
-        previousBuf: void 0,
-        quoting: false,
-        stop: false,
-        rawBuffer: new ResizeableBuffer_default(100),
-        record: [],
-        recordHasError: false,
-        record_length: 0,
-        recordDelimiterMaxLength: options.record_delimiter.length === 0 ? 0 : Math.max(...options.record_delimiter.map((v) => v.length)),
-        trimChars: [
-          Buffer.from(" ", options.encoding)[0],
-          Buffer.from("	", options.encoding)[0]
-        ],
-        wasQuoting: false,
-        wasRowDelimiter: false,
-        timchars,
-        timcharFirstBytes
-      };
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/utils/underscore.js
-var underscore;
-var init_underscore = __esm({
-  "node_modules/csv-parse/lib/utils/underscore.js"() {
-    underscore = function(str) {
-      return str.replace(/([A-Z])/g, function(_, match) {
-        return "_" + match.toLowerCase();
-      });
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/api/normalize_options.js
-var normalize_options;
-var init_normalize_options = __esm({
-  "node_modules/csv-parse/lib/api/normalize_options.js"() {
-    init_normalize_columns_array();
-    init_CsvError();
-    init_underscore();
-    init_is_object();
-    normalize_options = function(opts) {
-      const options = {};
-      for (const opt in opts) {
-        options[underscore(opt)] = opts[opt];
-      }
-      if (options.encoding === void 0 || options.encoding === true) {
-        options.encoding = "utf8";
-      } else if (options.encoding === null || options.encoding === false) {
-        options.encoding = null;
-      } else if (typeof options.encoding !== "string" && options.encoding !== null) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_ENCODING",
-          [
-            "Invalid option encoding:",
-            "encoding must be a string or null to return a buffer,",
-            `got ${JSON.stringify(options.encoding)}`
-          ],
-          options
-        );
-      }
-      if (options.bom === void 0 || options.bom === null || options.bom === false) {
-        options.bom = false;
-      } else if (options.bom !== true) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_BOM",
-          [
-            "Invalid option bom:",
-            "bom must be true,",
-            `got ${JSON.stringify(options.bom)}`
-          ],
-          options
-        );
-      }
-      options.cast_function = null;
-      if (options.cast === void 0 || options.cast === null || options.cast === false || options.cast === "") {
-        options.cast = void 0;
-      } else if (typeof options.cast === "function") {
-        options.cast_function = options.cast;
-        options.cast = true;
-      } else if (options.cast !== true) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_CAST",
-          [
-            "Invalid option cast:",
-            "cast must be true or a function,",
-            `got ${JSON.stringify(options.cast)}`
-          ],
-          options
-        );
-      }
-      if (options.cast_date === void 0 || options.cast_date === null || options.cast_date === false || options.cast_date === "") {
-        options.cast_date = false;
-      } else if (options.cast_date === true) {
-        options.cast_date = function(value) {
-          const date5 = Date.parse(value);
-          return !isNaN(date5) ? new Date(date5) : value;
-        };
-      } else if (typeof options.cast_date !== "function") {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_CAST_DATE",
-          [
-            "Invalid option cast_date:",
-            "cast_date must be true or a function,",
-            `got ${JSON.stringify(options.cast_date)}`
-          ],
-          options
-        );
-      }
-      options.cast_first_line_to_header = void 0;
-      if (options.columns === true) {
-        options.cast_first_line_to_header = void 0;
-      } else if (typeof options.columns === "function") {
-        options.cast_first_line_to_header = options.columns;
-        options.columns = true;
-      } else if (Array.isArray(options.columns)) {
-        options.columns = normalize_columns_array(options.columns);
-      } else if (options.columns === void 0 || options.columns === null || options.columns === false) {
-        options.columns = false;
-      } else {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_COLUMNS",
-          [
-            "Invalid option columns:",
-            "expect an array, a function or true,",
-            `got ${JSON.stringify(options.columns)}`
-          ],
-          options
-        );
-      }
-      if (options.group_columns_by_name === void 0 || options.group_columns_by_name === null || options.group_columns_by_name === false) {
-        options.group_columns_by_name = false;
-      } else if (options.group_columns_by_name !== true) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
-          [
-            "Invalid option group_columns_by_name:",
-            "expect an boolean,",
-            `got ${JSON.stringify(options.group_columns_by_name)}`
-          ],
-          options
-        );
-      } else if (options.columns === false) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
-          [
-            "Invalid option group_columns_by_name:",
-            "the `columns` mode must be activated."
-          ],
-          options
-        );
-      }
-      if (options.comment === void 0 || options.comment === null || options.comment === false || options.comment === "") {
-        options.comment = null;
-      } else {
-        if (typeof options.comment === "string") {
-          options.comment = Buffer.from(options.comment, options.encoding);
-        }
-        if (!Buffer.isBuffer(options.comment)) {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_COMMENT",
-            [
-              "Invalid option comment:",
-              "comment must be a buffer or a string,",
-              `got ${JSON.stringify(options.comment)}`
-            ],
-            options
-          );
-        }
-      }
-      if (options.comment_no_infix === void 0 || options.comment_no_infix === null || options.comment_no_infix === false) {
-        options.comment_no_infix = false;
-      } else if (options.comment_no_infix !== true) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_COMMENT",
-          [
-            "Invalid option comment_no_infix:",
-            "value must be a boolean,",
-            `got ${JSON.stringify(options.comment_no_infix)}`
-          ],
-          options
-        );
-      }
-      if (options.delimiter_auto === void 0 || options.delimiter_auto === null || options.delimiter_auto === false) {
-        options.delimiter_auto = false;
-      } else if (options.delimiter_auto === true) {
-        options.delimiter_auto = {};
-      } else if (!is_object(options.delimiter_auto)) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_DELIMITER_AUTO",
-          [
-            "Invalid option delimiter_auto:",
-            "delimiter_auto must be a boolean or a configuration object,",
-            `got ${JSON.stringify(options.delimiter_auto)}`
-          ],
-          options
-        );
-      }
-      if (options.delimiter_auto) {
-        if (options.delimiter_auto.preferred === void 0)
-          options.delimiter_auto.preferred = {
-            [",".charCodeAt(0)]: 1.8,
-            ["	".charCodeAt(0)]: 1.8,
-            [";".charCodeAt(0)]: 1.6,
-            [" ".charCodeAt(0)]: 1.6,
-            [":".charCodeAt(0)]: 1.5,
-            [".".charCodeAt(0)]: 1.4,
-            ["/".charCodeAt(0)]: 1.4
-          };
-        else if (!is_object(options.delimiter_auto.preferred)) {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_DELIMITER_AUTO",
-            [
-              "Invalid option delimiter_auto:",
-              "preferred must be an object,",
-              `got ${JSON.stringify(options.delimiter_auto.preferred)}`
-            ],
-            options
-          );
-        }
-        if (options.delimiter_auto.score === void 0)
-          options.delimiter_auto.score = (info, options2) => {
-            return (info.total - info.std) * (options2.preferred[info.char_code] || 1);
-          };
-        else if (typeof options.delimiter_auto.score !== "function") {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_DELIMITER_AUTO",
-            [
-              "Invalid option delimiter_auto:",
-              "score must be a function,",
-              `got ${JSON.stringify(options.delimiter_auto.score)}`
-            ],
-            options
-          );
-        }
-        if (options.delimiter_auto.size === void 0)
-          options.delimiter_auto.size = 2048;
-        else if (typeof options.delimiter_auto.size !== "number") {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_DELIMITER_AUTO",
-            [
-              "Invalid option delimiter_auto:",
-              "size must be a number,",
-              `got ${JSON.stringify(options.delimiter_auto.size)}`
-            ],
-            options
-          );
-        }
-      }
-      const delimiter_json = JSON.stringify(options.delimiter);
-      if (options.delimiter_auto !== false) {
-        options.delimiter = [];
-      }
-      if (!Array.isArray(options.delimiter)) {
-        if (options.delimiter === void 0 || options.delimiter === null || options.delimiter === false) {
-          options.delimiter = Buffer.from(",", options.encoding);
-        }
-        options.delimiter = [options.delimiter];
-      }
-      options.delimiter = options.delimiter.map(function(delimiter) {
-        if (typeof delimiter === "string") {
-          delimiter = Buffer.from(delimiter, options.encoding);
-        }
-        if (!Buffer.isBuffer(delimiter) || delimiter.length === 0) {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_DELIMITER",
-            [
-              "Invalid option delimiter:",
-              "delimiter must be a non empty string or buffer or array of string|buffer,",
-              `got ${delimiter_json}`
-            ],
-            options
-          );
-        }
-        return delimiter;
-      });
-      if (options.escape === void 0 || options.escape === true) {
-        options.escape = Buffer.from('"', options.encoding);
-      } else if (typeof options.escape === "string") {
-        options.escape = Buffer.from(options.escape, options.encoding);
-      } else if (options.escape === null || options.escape === false) {
-        options.escape = null;
-      }
-      if (options.escape !== null) {
-        if (!Buffer.isBuffer(options.escape)) {
-          throw new Error(
-            `Invalid Option: escape must be a buffer, a string or a boolean, got ${JSON.stringify(options.escape)}`
-          );
-        }
-      }
-      if (options.from === void 0 || options.from === null) {
-        options.from = 1;
-      } else {
-        if (typeof options.from === "string" && /\d+/.test(options.from)) {
-          options.from = parseInt(options.from);
-        }
-        if (Number.isInteger(options.from)) {
-          if (options.from < 0) {
-            throw new Error(
-              `Invalid Option: from must be a positive integer, got ${JSON.stringify(opts.from)}`
-            );
-          }
-        } else {
-          throw new Error(
-            `Invalid Option: from must be an integer, got ${JSON.stringify(options.from)}`
-          );
-        }
-      }
-      if (options.from_line === void 0 || options.from_line === null) {
-        options.from_line = 1;
-      } else {
-        if (typeof options.from_line === "string" && /\d+/.test(options.from_line)) {
-          options.from_line = parseInt(options.from_line);
-        }
-        if (Number.isInteger(options.from_line)) {
-          if (options.from_line <= 0) {
-            throw new Error(
-              `Invalid Option: from_line must be a positive integer greater than 0, got ${JSON.stringify(opts.from_line)}`
-            );
-          }
-        } else {
-          throw new Error(
-            `Invalid Option: from_line must be an integer, got ${JSON.stringify(opts.from_line)}`
-          );
-        }
-      }
-      if (options.ignore_last_delimiters === void 0 || options.ignore_last_delimiters === null) {
-        options.ignore_last_delimiters = false;
-      } else if (typeof options.ignore_last_delimiters === "number") {
-        options.ignore_last_delimiters = Math.floor(options.ignore_last_delimiters);
-        if (options.ignore_last_delimiters === 0) {
-          options.ignore_last_delimiters = false;
-        }
-      } else if (typeof options.ignore_last_delimiters !== "boolean") {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_IGNORE_LAST_DELIMITERS",
-          [
-            "Invalid option `ignore_last_delimiters`:",
-            "the value must be a boolean value or an integer,",
-            `got ${JSON.stringify(options.ignore_last_delimiters)}`
-          ],
-          options
-        );
-      }
-      if (options.ignore_last_delimiters === true && options.columns === false) {
-        throw new CsvError(
-          "CSV_IGNORE_LAST_DELIMITERS_REQUIRES_COLUMNS",
-          [
-            "The option `ignore_last_delimiters`",
-            "requires the activation of the `columns` option"
-          ],
-          options
-        );
-      }
-      if (options.info === void 0 || options.info === null || options.info === false) {
-        options.info = false;
-      } else if (options.info !== true) {
-        throw new Error(
-          `Invalid Option: info must be true, got ${JSON.stringify(options.info)}`
-        );
-      }
-      if (options.max_record_size === void 0 || options.max_record_size === null || options.max_record_size === false) {
-        options.max_record_size = 0;
-      } else if (Number.isInteger(options.max_record_size) && options.max_record_size >= 0) {
-      } else if (typeof options.max_record_size === "string" && /\d+/.test(options.max_record_size)) {
-        options.max_record_size = parseInt(options.max_record_size);
-      } else {
-        throw new Error(
-          `Invalid Option: max_record_size must be a positive integer, got ${JSON.stringify(options.max_record_size)}`
-        );
-      }
-      if (options.objname === void 0 || options.objname === null || options.objname === false) {
-        options.objname = void 0;
-      } else if (Buffer.isBuffer(options.objname)) {
-        if (options.objname.length === 0) {
-          throw new Error(`Invalid Option: objname must be a non empty buffer`);
-        }
-        if (options.encoding === null) {
-        } else {
-          options.objname = options.objname.toString(options.encoding);
-        }
-      } else if (typeof options.objname === "string") {
-        if (options.objname.length === 0) {
-          throw new Error(`Invalid Option: objname must be a non empty string`);
-        }
-      } else if (typeof options.objname === "number") {
-      } else {
-        throw new Error(
-          `Invalid Option: objname must be a string or a buffer, got ${options.objname}`
-        );
-      }
-      if (options.objname !== void 0) {
-        if (typeof options.objname === "number") {
-          if (options.columns !== false) {
-            throw Error(
-              "Invalid Option: objname index cannot be combined with columns or be defined as a field"
-            );
-          }
-        } else {
-          if (options.columns === false) {
-            throw Error(
-              "Invalid Option: objname field must be combined with columns or be defined as an index"
-            );
-          }
-        }
-      }
-      if (options.on_record === void 0 || options.on_record === null) {
-        options.on_record = void 0;
-      } else if (typeof options.on_record !== "function") {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_ON_RECORD",
-          [
-            "Invalid option `on_record`:",
-            "expect a function,",
-            `got ${JSON.stringify(options.on_record)}`
-          ],
-          options
-        );
-      }
-      if (options.on_skip !== void 0 && options.on_skip !== null && typeof options.on_skip !== "function") {
-        throw new Error(
-          `Invalid Option: on_skip must be a function, got ${JSON.stringify(options.on_skip)}`
-        );
-      }
-      if (options.quote === null || options.quote === false || options.quote === "") {
-        options.quote = null;
-      } else {
-        if (options.quote === void 0 || options.quote === true) {
-          options.quote = Buffer.from('"', options.encoding);
-        } else if (typeof options.quote === "string") {
-          options.quote = Buffer.from(options.quote, options.encoding);
-        }
-        if (!Buffer.isBuffer(options.quote)) {
-          throw new Error(
-            `Invalid Option: quote must be a buffer or a string, got ${JSON.stringify(options.quote)}`
-          );
-        }
-      }
-      if (options.raw === void 0 || options.raw === null || options.raw === false) {
-        options.raw = false;
-      } else if (options.raw !== true) {
-        throw new Error(
-          `Invalid Option: raw must be true, got ${JSON.stringify(options.raw)}`
-        );
-      }
-      if (options.record_delimiter === void 0) {
-        options.record_delimiter = [];
-      } else if (typeof options.record_delimiter === "string" || Buffer.isBuffer(options.record_delimiter)) {
-        if (options.record_delimiter.length === 0) {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_RECORD_DELIMITER",
-            [
-              "Invalid option `record_delimiter`:",
-              "value must be a non empty string or buffer,",
-              `got ${JSON.stringify(options.record_delimiter)}`
-            ],
-            options
-          );
-        }
-        options.record_delimiter = [options.record_delimiter];
-      } else if (!Array.isArray(options.record_delimiter)) {
-        throw new CsvError(
-          "CSV_INVALID_OPTION_RECORD_DELIMITER",
-          [
-            "Invalid option `record_delimiter`:",
-            "value must be a string, a buffer or array of string|buffer,",
-            `got ${JSON.stringify(options.record_delimiter)}`
-          ],
-          options
-        );
-      }
-      options.record_delimiter = options.record_delimiter.map(function(rd, i) {
-        if (typeof rd !== "string" && !Buffer.isBuffer(rd)) {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_RECORD_DELIMITER",
-            [
-              "Invalid option `record_delimiter`:",
-              "value must be a string, a buffer or array of string|buffer",
-              `at index ${i},`,
-              `got ${JSON.stringify(rd)}`
-            ],
-            options
-          );
-        } else if (rd.length === 0) {
-          throw new CsvError(
-            "CSV_INVALID_OPTION_RECORD_DELIMITER",
-            [
-              "Invalid option `record_delimiter`:",
-              "value must be a non empty string or buffer",
-              `at index ${i},`,
-              `got ${JSON.stringify(rd)}`
-            ],
-            options
-          );
-        }
-        if (typeof rd === "string") {
-          rd = Buffer.from(rd, options.encoding);
-        }
-        return rd;
-      });
-      if (typeof options.relax_column_count === "boolean") {
-      } else if (options.relax_column_count === void 0 || options.relax_column_count === null) {
-        options.relax_column_count = false;
-      } else {
-        throw new Error(
-          `Invalid Option: relax_column_count must be a boolean, got ${JSON.stringify(options.relax_column_count)}`
-        );
-      }
-      if (typeof options.relax_column_count_less === "boolean") {
-      } else if (options.relax_column_count_less === void 0 || options.relax_column_count_less === null) {
-        options.relax_column_count_less = false;
-      } else {
-        throw new Error(
-          `Invalid Option: relax_column_count_less must be a boolean, got ${JSON.stringify(options.relax_column_count_less)}`
-        );
-      }
-      if (typeof options.relax_column_count_more === "boolean") {
-      } else if (options.relax_column_count_more === void 0 || options.relax_column_count_more === null) {
-        options.relax_column_count_more = false;
-      } else {
-        throw new Error(
-          `Invalid Option: relax_column_count_more must be a boolean, got ${JSON.stringify(options.relax_column_count_more)}`
-        );
-      }
-      if (typeof options.relax_quotes === "boolean") {
-      } else if (options.relax_quotes === void 0 || options.relax_quotes === null) {
-        options.relax_quotes = false;
-      } else {
-        throw new Error(
-          `Invalid Option: relax_quotes must be a boolean, got ${JSON.stringify(options.relax_quotes)}`
-        );
-      }
-      if (typeof options.skip_empty_lines === "boolean") {
-      } else if (options.skip_empty_lines === void 0 || options.skip_empty_lines === null) {
-        options.skip_empty_lines = false;
-      } else {
-        throw new Error(
-          `Invalid Option: skip_empty_lines must be a boolean, got ${JSON.stringify(options.skip_empty_lines)}`
-        );
-      }
-      if (typeof options.skip_records_with_empty_values === "boolean") {
-      } else if (options.skip_records_with_empty_values === void 0 || options.skip_records_with_empty_values === null) {
-        options.skip_records_with_empty_values = false;
-      } else {
-        throw new Error(
-          `Invalid Option: skip_records_with_empty_values must be a boolean, got ${JSON.stringify(options.skip_records_with_empty_values)}`
-        );
-      }
-      if (typeof options.skip_records_with_error === "boolean") {
-      } else if (options.skip_records_with_error === void 0 || options.skip_records_with_error === null) {
-        options.skip_records_with_error = false;
-      } else {
-        throw new Error(
-          `Invalid Option: skip_records_with_error must be a boolean, got ${JSON.stringify(options.skip_records_with_error)}`
-        );
-      }
-      if (options.rtrim === void 0 || options.rtrim === null || options.rtrim === false) {
-        options.rtrim = false;
-      } else if (options.rtrim !== true) {
-        throw new Error(
-          `Invalid Option: rtrim must be a boolean, got ${JSON.stringify(options.rtrim)}`
-        );
-      }
-      if (options.ltrim === void 0 || options.ltrim === null || options.ltrim === false) {
-        options.ltrim = false;
-      } else if (options.ltrim !== true) {
-        throw new Error(
-          `Invalid Option: ltrim must be a boolean, got ${JSON.stringify(options.ltrim)}`
-        );
-      }
-      if (options.trim === void 0 || options.trim === null || options.trim === false) {
-        options.trim = false;
-      } else if (options.trim !== true) {
-        throw new Error(
-          `Invalid Option: trim must be a boolean, got ${JSON.stringify(options.trim)}`
-        );
-      }
-      if (options.trim === true && opts.ltrim !== false) {
-        options.ltrim = true;
-      } else if (options.ltrim !== true) {
-        options.ltrim = false;
-      }
-      if (options.trim === true && opts.rtrim !== false) {
-        options.rtrim = true;
-      } else if (options.rtrim !== true) {
-        options.rtrim = false;
-      }
-      if (options.to === void 0 || options.to === null) {
-        options.to = -1;
-      } else if (options.to !== -1) {
-        if (typeof options.to === "string" && /\d+/.test(options.to)) {
-          options.to = parseInt(options.to);
-        }
-        if (Number.isInteger(options.to)) {
-          if (options.to <= 0) {
-            throw new Error(
-              `Invalid Option: to must be a positive integer greater than 0, got ${JSON.stringify(opts.to)}`
-            );
-          }
-        } else {
-          throw new Error(
-            `Invalid Option: to must be an integer, got ${JSON.stringify(opts.to)}`
-          );
-        }
-      }
-      if (options.to_line === void 0 || options.to_line === null) {
-        options.to_line = -1;
-      } else if (options.to_line !== -1) {
-        if (typeof options.to_line === "string" && /\d+/.test(options.to_line)) {
-          options.to_line = parseInt(options.to_line);
-        }
-        if (Number.isInteger(options.to_line)) {
-          if (options.to_line <= 0) {
-            throw new Error(
-              `Invalid Option: to_line must be a positive integer greater than 0, got ${JSON.stringify(opts.to_line)}`
-            );
-          }
-        } else {
-          throw new Error(
-            `Invalid Option: to_line must be an integer, got ${JSON.stringify(opts.to_line)}`
-          );
-        }
-      }
-      return options;
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/utils/delimiter_discover.js
-var delimiter_discover, std;
-var init_delimiter_discover = __esm({
-  "node_modules/csv-parse/lib/utils/delimiter_discover.js"() {
-    init_normalize_options();
-    init_api();
-    delimiter_discover = function(records, options) {
-      if (!options) {
-        ({ delimiter_auto: options } = normalize_options({ delimiter_auto: true }));
-      }
-      if (typeof records === "string") {
-        records = Buffer.from(records);
-      }
-      if (Buffer.isBuffer(records)) {
-        records = ((data) => {
-          const records2 = [];
-          const parser = transform({ delimiter: [] });
-          const push = (record2) => records2.push(record2);
-          const close = () => {
-          };
-          const error62 = parser.parse(data, true, push, close);
-          if (error62 !== void 0) throw error62;
-          return records2;
-        })(records);
-      }
-      const info = Array(127).fill().map(() => ({ lines: [] }));
-      records.map(([record2], line) => {
-        for (let i = 0, l = record2.length; i < l; i++) {
-          const code2 = record2.charCodeAt(i);
-          if (info[code2].lines[line] === void 0) info[code2].lines[line] = 0;
-          info[code2].lines[line]++;
-        }
-      });
-      info.map((info2, i) => {
-        info2.char_code = i;
-        info2.std = std(info2.lines);
-        info2.total = info2.lines.reduce((acc, val) => acc + val, 0);
-        info2.preferred = !!options.preferred[i];
-        info2.score = options.score(info2, options);
-      });
-      const result = info.reduce(
-        (acc, info2) => acc.score > info2.score ? acc : info2,
-        {}
-      );
-      return String.fromCharCode(result.char_code);
-    };
-    std = function(array2) {
-      const n = array2.length;
-      if (n === 0) return 0;
-      const mean3 = array2.reduce((a, b) => a + b) / n;
-      return Math.sqrt(
-        array2.map((x) => Math.pow(x - mean3, 2)).reduce((a, b) => a + b) / n
-      );
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/api/index.js
-var isRecordEmpty, cr, nl, boms, transform;
-var init_api = __esm({
-  "node_modules/csv-parse/lib/api/index.js"() {
-    init_normalize_columns_array();
-    init_init_state();
-    init_normalize_options();
-    init_CsvError();
-    init_delimiter_discover();
-    isRecordEmpty = function(record2) {
-      return record2.every(
-        (field) => field == null || field.toString && field.toString().trim() === ""
-      );
-    };
-    cr = 13;
-    nl = 10;
-    boms = {
-      // Note, the following are equals:
-      // Buffer.from("\ufeff")
-      // Buffer.from([239, 187, 191])
-      // Buffer.from('EFBBBF', 'hex')
-      utf8: Buffer.from([239, 187, 191]),
-      // Note, the following are equals:
-      // Buffer.from "\ufeff", 'utf16le
-      // Buffer.from([255, 254])
-      utf16le: Buffer.from([255, 254])
-    };
-    transform = function(original_options = {}) {
-      const info = {
-        bytes: 0,
-        bytes_records: 0,
-        comment_lines: 0,
-        empty_lines: 0,
-        invalid_field_length: 0,
-        lines: 1,
-        records: 0
-      };
-      const options = normalize_options(original_options);
-      return {
-        info,
-        original_options,
-        options,
-        state: init_state(options),
-        __needMoreData: function(i, bufLen, end) {
-          if (end) return false;
-          const { encoding, escape, quote } = this.options;
-          const { quoting, needMoreDataSize, recordDelimiterMaxLength } = this.state;
-          const numOfCharLeft = bufLen - i - 1;
-          const requiredLength = Math.max(
-            needMoreDataSize,
-            // Skip if the remaining buffer smaller than record delimiter
-            // If "record_delimiter" is yet to be discovered:
-            // 1. It is equals to `[]` and "recordDelimiterMaxLength" equals `0`
-            // 2. We set the length to windows line ending in the current encoding
-            // Note, that encoding is known from user or bom discovery at that point
-            // recordDelimiterMaxLength,
-            recordDelimiterMaxLength === 0 ? Buffer.from("\r\n", encoding).length : recordDelimiterMaxLength,
-            // Skip if remaining buffer can be an escaped quote
-            quoting ? (escape === null ? 0 : escape.length) + quote.length : 0,
-            // Skip if remaining buffer can be record delimiter following the closing quote
-            quoting ? quote.length + recordDelimiterMaxLength : 0
-          );
-          return numOfCharLeft < requiredLength;
-        },
-        // Central parser implementation
-        parse: function(nextBuf, end, push, close) {
-          const {
-            bom,
-            comment_no_infix,
-            delimiter_auto,
-            encoding,
-            from_line,
-            ltrim,
-            max_record_size,
-            raw,
-            relax_quotes,
-            rtrim,
-            skip_empty_lines,
-            to,
-            to_line
-          } = this.options;
-          let { comment, escape, quote, record_delimiter } = this.options;
-          const {
-            bomSkipped,
-            delimiterDiscovered,
-            delimiterBufPrevious,
-            rawBuffer,
-            escapeIsQuote
-          } = this.state;
-          if (!delimiterDiscovered && delimiter_auto) {
-            let delimiterBuf;
-            if (delimiterBufPrevious === void 0) {
-              delimiterBuf = nextBuf;
-            } else if (delimiterBufPrevious !== void 0 && nextBuf === void 0) {
-              delimiterBuf = delimiterBufPrevious;
-            } else {
-              delimiterBuf = Buffer.concat([delimiterBufPrevious, nextBuf]);
-            }
-            nextBuf = void 0;
-            if (end || delimiterBuf.length > delimiter_auto.size) {
-              this.options.delimiter = [
-                Buffer.from(
-                  delimiter_discover(delimiterBuf, this.options.delimiter_auto)
-                )
-              ];
-              this.state.previousBuf = delimiterBuf;
-              this.state.delimiterBufPrevious = void 0;
-              this.state.delimiterDiscovered = true;
-            } else {
-              this.state.delimiterBufPrevious = delimiterBuf;
-              return;
-            }
-          }
-          const { previousBuf } = this.state;
-          let buf;
-          if (previousBuf === void 0) {
-            if (nextBuf === void 0) {
-              close();
-              return;
-            } else {
-              buf = nextBuf;
-            }
-          } else if (previousBuf !== void 0 && nextBuf === void 0) {
-            buf = previousBuf;
-          } else {
-            buf = Buffer.concat([previousBuf, nextBuf]);
-          }
-          if (bomSkipped === false) {
-            if (bom === false) {
-              this.state.bomSkipped = true;
-            } else if (buf.length < 3) {
-              if (end === false) {
-                this.state.previousBuf = buf;
-                return;
-              }
-            } else {
-              for (const encoding2 in boms) {
-                if (boms[encoding2].compare(buf, 0, boms[encoding2].length) === 0) {
-                  const bomLength = boms[encoding2].length;
-                  this.state.bufBytesStart += bomLength;
-                  buf = buf.slice(bomLength);
-                  const options2 = normalize_options({
-                    ...this.original_options,
-                    encoding: encoding2
-                  });
-                  for (const key2 in options2) {
-                    this.options[key2] = options2[key2];
-                  }
-                  ({ comment, escape, quote } = this.options);
-                  break;
-                }
-              }
-              this.state.bomSkipped = true;
-            }
-          }
-          const bufLen = buf.length;
-          let pos;
-          for (pos = 0; pos < bufLen; pos++) {
-            if (this.__needMoreData(pos, bufLen, end)) {
-              break;
-            }
-            if (this.state.wasRowDelimiter === true) {
-              this.info.lines++;
-              this.state.wasRowDelimiter = false;
-            }
-            if (to_line !== -1 && this.info.lines > to_line) {
-              this.state.stop = true;
-              close();
-              return;
-            }
-            if (this.state.quoting === false && record_delimiter.length === 0) {
-              const record_delimiterCount = this.__autoDiscoverRecordDelimiter(
-                buf,
-                pos
-              );
-              if (record_delimiterCount) {
-                record_delimiter = this.options.record_delimiter;
-              }
-            }
-            const chr = buf[pos];
-            if (raw === true) {
-              rawBuffer.append(chr);
-            }
-            if ((chr === cr || chr === nl) && this.state.wasRowDelimiter === false) {
-              this.state.wasRowDelimiter = true;
-            }
-            if (this.state.escaping === true) {
-              this.state.escaping = false;
-            } else {
-              if (escape !== null && this.state.quoting === true && this.__isEscape(buf, pos, chr) && pos + escape.length < bufLen) {
-                if (escapeIsQuote) {
-                  if (this.__isQuote(buf, pos + escape.length)) {
-                    this.state.escaping = true;
-                    pos += escape.length - 1;
-                    continue;
-                  }
-                } else {
-                  this.state.escaping = true;
-                  pos += escape.length - 1;
-                  continue;
-                }
-              }
-              if (this.state.commenting === false && this.__isQuote(buf, pos)) {
-                if (this.state.quoting === true) {
-                  const nextChr = buf[pos + quote.length];
-                  const isNextChrTrimable = rtrim && this.__isCharTrimable(buf, pos + quote.length);
-                  const isNextChrComment = comment !== null && this.__compareBytes(comment, buf, pos + quote.length, nextChr);
-                  const isNextChrDelimiter = this.__isDelimiter(
-                    buf,
-                    pos + quote.length,
-                    nextChr
-                  );
-                  const isNextChrRecordDelimiter = record_delimiter.length === 0 ? this.__autoDiscoverRecordDelimiter(buf, pos + quote.length) : this.__isRecordDelimiter(nextChr, buf, pos + quote.length);
-                  if (escape !== null && this.__isEscape(buf, pos, chr) && this.__isQuote(buf, pos + escape.length)) {
-                    pos += escape.length - 1;
-                  } else if (!nextChr || isNextChrDelimiter || isNextChrRecordDelimiter || isNextChrComment || isNextChrTrimable) {
-                    this.state.quoting = false;
-                    this.state.wasQuoting = true;
-                    pos += quote.length - 1;
-                    continue;
-                  } else if (relax_quotes === false) {
-                    const err = this.__error(
-                      new CsvError(
-                        "CSV_INVALID_CLOSING_QUOTE",
-                        [
-                          "Invalid Closing Quote:",
-                          `got "${String.fromCharCode(nextChr)}"`,
-                          `at line ${this.info.lines}`,
-                          "instead of delimiter, record delimiter, trimable character",
-                          "(if activated) or comment"
-                        ],
-                        this.options,
-                        this.__infoField()
-                      )
-                    );
-                    if (err !== void 0) return err;
-                  } else {
-                    this.state.quoting = false;
-                    this.state.wasQuoting = true;
-                    this.state.field.prepend(quote);
-                    pos += quote.length - 1;
-                  }
-                } else {
-                  if (this.state.field.length !== 0) {
-                    if (relax_quotes === false) {
-                      const info2 = this.__infoField();
-                      const bom2 = Object.keys(boms).map(
-                        (b) => boms[b].equals(this.state.field.toString()) ? b : false
-                      ).filter(Boolean)[0];
-                      const err = this.__error(
-                        new CsvError(
-                          "INVALID_OPENING_QUOTE",
-                          [
-                            "Invalid Opening Quote:",
-                            `a quote is found on field ${JSON.stringify(info2.column)} at line ${info2.lines}, value is ${JSON.stringify(this.state.field.toString(encoding))}`,
-                            bom2 ? `(${bom2} bom)` : void 0
-                          ],
-                          this.options,
-                          info2,
-                          {
-                            field: this.state.field
-                          }
-                        )
-                      );
-                      if (err !== void 0) return err;
-                    }
-                  } else {
-                    this.state.quoting = true;
-                    pos += quote.length - 1;
-                    continue;
-                  }
-                }
-              }
-              if (this.state.quoting === false) {
-                const recordDelimiterLength = this.__isRecordDelimiter(
-                  chr,
-                  buf,
-                  pos
-                );
-                if (recordDelimiterLength !== 0) {
-                  const skipCommentLine = this.state.commenting && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0;
-                  if (skipCommentLine) {
-                    this.info.comment_lines++;
-                  } else {
-                    if (this.state.enabled === false && this.info.lines + (this.state.wasRowDelimiter === true ? 1 : 0) >= from_line) {
-                      this.state.enabled = true;
-                      this.__resetField();
-                      this.__resetRecord();
-                      pos += recordDelimiterLength - 1;
-                      continue;
-                    }
-                    if (skip_empty_lines === true && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0) {
-                      this.info.empty_lines++;
-                      pos += recordDelimiterLength - 1;
-                      continue;
-                    }
-                    this.info.bytes = this.state.bufBytesStart + pos;
-                    const errField = this.__onField();
-                    if (errField !== void 0) return errField;
-                    this.info.bytes = this.state.bufBytesStart + pos + recordDelimiterLength;
-                    const errRecord = this.__onRecord(push);
-                    if (errRecord !== void 0) return errRecord;
-                    if (to !== -1 && this.info.records >= to) {
-                      this.state.stop = true;
-                      close();
-                      return;
-                    }
-                  }
-                  this.state.commenting = false;
-                  pos += recordDelimiterLength - 1;
-                  continue;
-                }
-                if (this.state.commenting) {
-                  continue;
-                }
-                if (comment !== null && (comment_no_infix === false || this.state.record.length === 0 && this.state.field.length === 0)) {
-                  const commentCount = this.__compareBytes(comment, buf, pos, chr);
-                  if (commentCount !== 0) {
-                    this.state.commenting = true;
-                    continue;
-                  }
-                }
-                const delimiterLength = this.__isDelimiter(buf, pos, chr);
-                if (delimiterLength !== 0) {
-                  this.info.bytes = this.state.bufBytesStart + pos;
-                  const errField = this.__onField();
-                  if (errField !== void 0) return errField;
-                  pos += delimiterLength - 1;
-                  continue;
-                }
-              }
-            }
-            if (this.state.commenting === false) {
-              if (max_record_size !== 0 && this.state.record_length + this.state.field.length > max_record_size) {
-                return this.__error(
-                  new CsvError(
-                    "CSV_MAX_RECORD_SIZE",
-                    [
-                      "Max Record Size:",
-                      "record exceed the maximum number of tolerated bytes",
-                      `of ${max_record_size}`,
-                      `at line ${this.info.lines}`
-                    ],
-                    this.options,
-                    this.__infoField()
-                  )
-                );
-              }
-            }
-            const lappend = ltrim === false || this.state.quoting === true || this.state.field.length !== 0 || !this.__isCharTrimable(buf, pos);
-            const rappend = rtrim === false || this.state.wasQuoting === false;
-            if (lappend === true && rappend === true) {
-              this.state.field.append(chr);
-            } else if (rtrim === true && !this.__isCharTrimable(buf, pos)) {
-              return this.__error(
-                new CsvError(
-                  "CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE",
-                  [
-                    "Invalid Closing Quote:",
-                    "found non trimable byte after quote",
-                    `at line ${this.info.lines}`
-                  ],
-                  this.options,
-                  this.__infoField()
-                )
-              );
-            } else {
-              if (lappend === false) {
-                pos += this.__isCharTrimable(buf, pos) - 1;
-              }
-              continue;
-            }
-          }
-          if (end === true) {
-            if (this.state.quoting === true) {
-              const err = this.__error(
-                new CsvError(
-                  "CSV_QUOTE_NOT_CLOSED",
-                  [
-                    "Quote Not Closed:",
-                    `the parsing is finished with an opening quote at line ${this.info.lines}`
-                  ],
-                  this.options,
-                  this.__infoField()
-                )
-              );
-              if (err !== void 0) return err;
-            } else {
-              if (this.state.wasQuoting === true || this.state.record.length !== 0 || this.state.field.length !== 0) {
-                this.info.bytes = this.state.bufBytesStart + pos;
-                const errField = this.__onField();
-                if (errField !== void 0) return errField;
-                const errRecord = this.__onRecord(push);
-                if (errRecord !== void 0) return errRecord;
-              } else if (this.state.wasRowDelimiter === true) {
-                this.info.empty_lines++;
-              } else if (this.state.commenting === true) {
-                this.info.comment_lines++;
-              }
-            }
-          } else {
-            this.state.bufBytesStart += pos;
-            this.state.previousBuf = buf.slice(pos);
-          }
-          if (this.state.wasRowDelimiter === true) {
-            this.info.lines++;
-            this.state.wasRowDelimiter = false;
-          }
-        },
-        __onRecord: function(push) {
-          const {
-            columns,
-            group_columns_by_name,
-            encoding,
-            info: info2,
-            from,
-            relax_column_count,
-            relax_column_count_less,
-            relax_column_count_more,
-            raw,
-            skip_records_with_empty_values
-          } = this.options;
-          const { enabled, record: record2 } = this.state;
-          if (enabled === false) {
-            return this.__resetRecord();
-          }
-          const recordLength = record2.length;
-          if (columns === true) {
-            if (skip_records_with_empty_values === true && isRecordEmpty(record2)) {
-              this.__resetRecord();
-              return;
-            }
-            return this.__firstLineToColumns(record2);
-          }
-          if (columns === false && this.info.records === 0) {
-            this.state.expectedRecordLength = recordLength;
-          }
-          if (recordLength !== this.state.expectedRecordLength) {
-            const err = columns === false ? new CsvError(
-              "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH",
-              [
-                "Invalid Record Length:",
-                `expect ${this.state.expectedRecordLength},`,
-                `got ${recordLength} on line ${this.info.lines}`
-              ],
-              this.options,
-              this.__infoField(),
-              {
-                record: record2
-              }
-            ) : new CsvError(
-              "CSV_RECORD_INCONSISTENT_COLUMNS",
-              [
-                "Invalid Record Length:",
-                `columns length is ${columns.length},`,
-                // rename columns
-                `got ${recordLength} on line ${this.info.lines}`
-              ],
-              this.options,
-              this.__infoField(),
-              {
-                record: record2
-              }
-            );
-            if (relax_column_count === true || relax_column_count_less === true && recordLength < this.state.expectedRecordLength || relax_column_count_more === true && recordLength > this.state.expectedRecordLength) {
-              this.info.invalid_field_length++;
-              this.state.error = err;
-            } else {
-              const finalErr = this.__error(err);
-              if (finalErr) return finalErr;
-            }
-          }
-          if (skip_records_with_empty_values === true && isRecordEmpty(record2)) {
-            this.__resetRecord();
-            return;
-          }
-          if (this.state.recordHasError === true) {
-            this.__resetRecord();
-            this.state.recordHasError = false;
-            return;
-          }
-          this.info.records++;
-          if (from === 1 || this.info.records >= from) {
-            const { objname } = this.options;
-            if (columns !== false) {
-              const obj = {};
-              for (let i = 0, l = record2.length; i < l; i++) {
-                if (columns[i] === void 0 || columns[i].disabled) continue;
-                if (group_columns_by_name === true && Object.hasOwn(obj, columns[i].name)) {
-                  if (Array.isArray(obj[columns[i].name])) {
-                    obj[columns[i].name] = obj[columns[i].name].concat(record2[i]);
-                  } else {
-                    obj[columns[i].name] = [obj[columns[i].name], record2[i]];
-                  }
-                } else {
-                  Object.defineProperty(obj, columns[i].name, {
-                    value: record2[i],
-                    enumerable: true,
-                    writable: true,
-                    configurable: true
-                  });
-                }
-              }
-              if (raw === true || info2 === true) {
-                const extRecord = Object.assign(
-                  { record: obj },
-                  raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
-                  info2 === true ? { info: this.__infoRecord() } : {}
-                );
-                const err = this.__push(
-                  objname === void 0 ? extRecord : [obj[objname], extRecord],
-                  push
-                );
-                if (err) {
-                  return err;
-                }
-              } else {
-                const err = this.__push(
-                  objname === void 0 ? obj : [obj[objname], obj],
-                  push
-                );
-                if (err) {
-                  return err;
-                }
-              }
-            } else {
-              if (raw === true || info2 === true) {
-                const extRecord = Object.assign(
-                  { record: record2 },
-                  raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
-                  info2 === true ? { info: this.__infoRecord() } : {}
-                );
-                const err = this.__push(
-                  objname === void 0 ? extRecord : [record2[objname], extRecord],
-                  push
-                );
-                if (err) {
-                  return err;
-                }
-              } else {
-                const err = this.__push(
-                  objname === void 0 ? record2 : [record2[objname], record2],
-                  push
-                );
-                if (err) {
-                  return err;
-                }
-              }
-            }
-          }
-          this.__resetRecord();
-        },
-        __firstLineToColumns: function(record2) {
-          const { firstLineToHeaders } = this.state;
-          try {
-            const headers = firstLineToHeaders === void 0 ? record2 : firstLineToHeaders.call(null, record2);
-            if (!Array.isArray(headers)) {
-              return this.__error(
-                new CsvError(
-                  "CSV_INVALID_COLUMN_MAPPING",
-                  [
-                    "Invalid Column Mapping:",
-                    "expect an array from column function,",
-                    `got ${JSON.stringify(headers)}`
-                  ],
-                  this.options,
-                  this.__infoField(),
-                  {
-                    headers
-                  }
-                )
-              );
-            }
-            const normalizedHeaders = normalize_columns_array(headers);
-            this.state.expectedRecordLength = normalizedHeaders.length;
-            this.options.columns = normalizedHeaders;
-            this.__resetRecord();
-            return;
-          } catch (err) {
-            return err;
-          }
-        },
-        __resetRecord: function() {
-          if (this.options.raw === true) {
-            this.state.rawBuffer.reset();
-          }
-          this.state.error = void 0;
-          this.state.record = [];
-          this.state.record_length = 0;
-        },
-        __onField: function() {
-          const { cast, encoding, rtrim, max_record_size } = this.options;
-          const { enabled, wasQuoting } = this.state;
-          if (enabled === false) {
-            return this.__resetField();
-          }
-          let field = this.state.field.toString(encoding);
-          if (rtrim === true && wasQuoting === false) {
-            field = field.trimRight();
-          }
-          if (cast === true) {
-            const [err, f] = this.__cast(field);
-            if (err !== void 0) return err;
-            field = f;
-          }
-          this.state.record.push(field);
-          if (max_record_size !== 0 && typeof field === "string") {
-            this.state.record_length += field.length;
-          }
-          this.__resetField();
-        },
-        __resetField: function() {
-          this.state.field.reset();
-          this.state.wasQuoting = false;
-        },
-        __push: function(record2, push) {
-          const { on_record } = this.options;
-          if (on_record !== void 0) {
-            const info2 = this.__infoRecord();
-            try {
-              record2 = on_record.call(null, record2, info2);
-            } catch (err) {
-              return err;
-            }
-            if (record2 === void 0 || record2 === null) {
-              return;
-            }
-          }
-          this.info.bytes_records += this.info.bytes;
-          push(record2);
-        },
-        // Return a tuple with the error and the casted value
-        __cast: function(field) {
-          const { columns, relax_column_count } = this.options;
-          const isColumns = Array.isArray(columns);
-          if (isColumns === true && relax_column_count && this.options.columns.length <= this.state.record.length) {
-            return [void 0, void 0];
-          }
-          if (this.state.castField !== null) {
-            try {
-              const info2 = this.__infoField();
-              return [void 0, this.state.castField.call(null, field, info2)];
-            } catch (err) {
-              return [err];
-            }
-          }
-          if (this.__isFloat(field)) {
-            return [void 0, parseFloat(field)];
-          } else if (this.options.cast_date !== false) {
-            const info2 = this.__infoField();
-            return [void 0, this.options.cast_date.call(null, field, info2)];
-          }
-          return [void 0, field];
-        },
-        __compareBytes: function(sourceBuf, targetBuf, targetPos, firstByte) {
-          if (sourceBuf[0] !== firstByte) return 0;
-          const sourceLength = sourceBuf.length;
-          for (let i = 1; i < sourceLength; i++) {
-            if (sourceBuf[i] !== targetBuf[targetPos + i]) return 0;
-          }
-          return sourceLength;
-        },
-        // Helper to test if a character is trimable
-        __isCharTrimable: function(buf, pos) {
-          const { timchars, timcharFirstBytes } = this.state;
-          const first = buf[pos];
-          if (first === void 0 || timcharFirstBytes[first] === 0) return 0;
-          loop1: for (let i = 0; i < timchars.length; i++) {
-            const timchar = timchars[i];
-            for (let j = 0; j < timchar.length; j++) {
-              if (timchar[j] !== buf[pos + j]) continue loop1;
-            }
-            return timchar.length;
-          }
-          return 0;
-        },
-        __isDelimiter: function(buf, pos, chr) {
-          const { delimiter, ignore_last_delimiters } = this.options;
-          if (ignore_last_delimiters === true && this.state.record.length === this.options.columns.length - 1) {
-            return 0;
-          } else if (ignore_last_delimiters !== false && typeof ignore_last_delimiters === "number" && this.state.record.length === ignore_last_delimiters - 1) {
-            return 0;
-          }
-          loop1: for (let i = 0; i < delimiter.length; i++) {
-            const del = delimiter[i];
-            if (del[0] === chr) {
-              for (let j = 1; j < del.length; j++) {
-                if (del[j] !== buf[pos + j]) continue loop1;
-              }
-              return del.length;
-            }
-          }
-          return 0;
-        },
-        __isEscape: function(buf, pos, chr) {
-          const { escape } = this.options;
-          if (escape === null) return false;
-          const l = escape.length;
-          if (escape[0] === chr) {
-            for (let i = 0; i < l; i++) {
-              if (escape[i] !== buf[pos + i]) {
-                return false;
-              }
-            }
-            return true;
-          }
-          return false;
-        },
-        __isFloat: function(value) {
-          return value - parseFloat(value) + 1 >= 0;
-        },
-        // Keep it in case we implement the `cast_int` option
-        // __isInt(value){
-        //   // return Number.isInteger(parseInt(value))
-        //   // return !isNaN( parseInt( obj ) );
-        //   return /^(\-|\+)?[1-9][0-9]*$/.test(value)
-        // }
-        __isQuote: function(buf, pos) {
-          const { quote } = this.options;
-          if (quote === null) return false;
-          const l = quote.length;
-          for (let i = 0; i < l; i++) {
-            if (quote[i] !== buf[pos + i]) {
-              return false;
-            }
-          }
-          return true;
-        },
-        __isRecordDelimiter: function(chr, buf, pos) {
-          const { record_delimiter } = this.options;
-          const recordDelimiterLength = record_delimiter.length;
-          loop1: for (let i = 0; i < recordDelimiterLength; i++) {
-            const rd = record_delimiter[i];
-            const rdLength = rd.length;
-            if (rd[0] !== chr) {
-              continue;
-            }
-            for (let j = 1; j < rdLength; j++) {
-              if (rd[j] !== buf[pos + j]) {
-                continue loop1;
-              }
-            }
-            return rd.length;
-          }
-          return 0;
-        },
-        __autoDiscoverRecordDelimiter: function(buf, pos) {
-          const { encoding } = this.options;
-          const rds = [
-            // Important, the windows line ending must be before mac os 9
-            Buffer.from("\r\n", encoding),
-            Buffer.from("\n", encoding),
-            Buffer.from("\r", encoding)
-          ];
-          loop: for (let i = 0; i < rds.length; i++) {
-            const l = rds[i].length;
-            for (let j = 0; j < l; j++) {
-              if (rds[i][j] !== buf[pos + j]) {
-                continue loop;
-              }
-            }
-            this.options.record_delimiter.push(rds[i]);
-            this.state.recordDelimiterMaxLength = rds[i].length;
-            return rds[i].length;
-          }
-          return 0;
-        },
-        __error: function(msg) {
-          const { encoding, raw, skip_records_with_error } = this.options;
-          const err = typeof msg === "string" ? new Error(msg) : msg;
-          if (skip_records_with_error) {
-            this.state.recordHasError = true;
-            if (this.options.on_skip !== void 0) {
-              try {
-                this.options.on_skip(
-                  err,
-                  raw ? this.state.rawBuffer.toString(encoding) : void 0
-                );
-              } catch (err2) {
-                return err2;
-              }
-            }
-            return void 0;
-          } else {
-            return err;
-          }
-        },
-        __infoDataSet: function() {
-          return {
-            ...this.info,
-            columns: this.options.columns
-          };
-        },
-        __infoRecord: function() {
-          const { columns, raw, encoding } = this.options;
-          return {
-            ...this.__infoDataSet(),
-            bytes_records: this.info.bytes,
-            error: this.state.error,
-            header: columns === true,
-            index: this.state.record.length,
-            raw: raw ? this.state.rawBuffer.toString(encoding) : void 0
-          };
-        },
-        __infoField: function() {
-          const { columns } = this.options;
-          const isColumns = Array.isArray(columns);
-          const bytes_records = this.info.bytes_records;
-          return {
-            ...this.__infoRecord(),
-            bytes_records,
-            column: isColumns === true ? columns.length > this.state.record.length ? columns[this.state.record.length].name : null : this.state.record.length,
-            quoting: this.state.wasQuoting
-          };
-        }
-      };
-    };
-  }
-});
-
-// node_modules/csv-parse/lib/sync.js
-var parse;
-var init_sync = __esm({
-  "node_modules/csv-parse/lib/sync.js"() {
-    init_api();
-    init_normalize_options();
-    parse = function(data, opts = {}) {
-      if (typeof data === "string") {
-        data = Buffer.from(data);
-      }
-      const records = opts && opts.objname ? /* @__PURE__ */ Object.create(null) : [];
-      const parser = transform(opts);
-      const push = (record2) => {
-        if (parser.options.objname === void 0) records.push(record2);
-        else {
-          records[record2[0]] = record2[1];
-        }
-      };
-      const close = () => {
-      };
-      const error62 = parser.parse(data, true, push, close);
-      if (error62 !== void 0) throw error62;
-      return records;
-    };
-  }
-});
-
-// src/core/data/parse-csv.ts
-function schemaOf(dataset) {
-  const target = dataset.target;
-  return {
-    source: dataset.source,
-    features: dataset.features,
-    ...dataset.ids ? { idColumn: dataset.ids.name } : {},
-    ...target ? { target: { name: target.name, task: target.classes ? "binary" : "regression", ...target.classes ? { classes: target.classes } : {} } } : {}
-  };
-}
-function parseCsv(text2, options) {
-  const { source } = options;
-  const { header, rows, lineOf } = readRecords(text2, source);
-  const columnIndex = checkHeader(header, source);
-  const plan = options.schema ? planFromSchema(options, header, columnIndex) : planFromRoles(options, header, columnIndex, rows);
-  const cells = (column) => rows.map((row) => row[column].trim());
-  const features = [];
-  const columns = [];
-  const missing = [];
-  const unseen = {};
-  for (const feature of plan.features) {
-    const values = cells(feature.column);
-    const column = new Float64Array(values.length);
-    let missingCount = 0;
-    let unseenCount = 0;
-    let categories = feature.categories;
-    if (feature.kind === "categorical" && !categories) {
-      categories = [...new Set(values.filter((v) => !isMissing(v)))].sort(compareText);
-    }
-    const code2 = new Map(categories?.map((c, i) => [c, i]));
-    for (let i = 0; i < values.length; i++) {
-      const v = values[i];
-      if (isMissing(v)) {
-        column[i] = NaN;
-        missingCount++;
-      } else if (feature.kind === "numeric") {
-        column[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), feature.name, v, plan.numericReason);
-      } else {
-        const c = code2.get(v);
-        if (c === void 0) unseenCount++;
-        column[i] = c ?? NaN;
-      }
-    }
-    features.push(categories ? { name: feature.name, kind: "categorical", categories } : { name: feature.name, kind: "numeric" });
-    columns.push(column);
-    missing.push(missingCount);
-    if (unseenCount > 0) unseen[feature.name] = unseenCount;
-  }
-  const dataset = { source, rows: rows.length, features, columns, missing };
-  if (plan.target) dataset.target = readTarget(source, plan.target, cells(plan.target.column), lineOf, options.schema?.source);
-  if (plan.idColumn !== void 0) dataset.ids = { name: header[plan.idColumn].trim(), values: cells(plan.idColumn) };
-  if (options.schema) {
-    dataset.unseenCategories = unseen;
-    dataset.extraColumns = plan.extraColumns;
-  }
-  return dataset;
-}
-function isMissing(value) {
-  return MISSING_TOKENS.has(value.toLowerCase());
-}
-function parseNumber(value) {
-  if (!NUMBER.test(value)) return void 0;
-  const x = Number(value);
-  return Number.isFinite(x) ? x : void 0;
-}
-function compareText(a, b) {
-  return a < b ? -1 : a > b ? 1 : 0;
-}
-function show(value) {
-  const flat = value.replace(/\r\n|\r|\n/g, "\\n");
-  return `'${flat.length > 40 ? `${flat.slice(0, 40)}…` : flat}'`;
-}
-function listNames(names, limit) {
-  const shown = names.slice(0, limit).map(show).join(", ");
-  return names.length > limit ? `${shown} and ${names.length - limit} more` : shown;
-}
-function count(n, noun) {
-  return `${n} ${noun}${n === 1 ? "" : "s"}`;
-}
-function at(source, line, column) {
-  return `${source}, line ${line} ${LINE_NOTE}${column === void 0 ? "" : `, column ${show(column)}`}`;
-}
-function failNotNumeric(source, line, column, value, reason) {
-  throw new UserError(
-    `${at(source, line, column)}: ${show(value)} is not a number, but ${reason}.`,
-    "Correct the value, or write NA or leave the cell empty if it is missing."
-  );
-}
-function readRecords(text2, source) {
-  if (text2.replace(/^\uFEFF/, "").trim() === "") {
-    throw new UserError(`${source} is empty.`, "Write the column names on the first line and one row per example below it.");
-  }
-  const ends = [];
-  let records;
-  try {
-    records = parse(text2, {
-      bom: true,
-      relax_column_count: true,
-      record_delimiter: ["\r\n", "\n", "\r"],
-      on_record: (record2, context) => {
-        ends.push(context.bytes);
-        return record2;
-      }
-    });
-  } catch (error62) {
-    if (!(error62 instanceof CsvError)) throw error62;
-    const line = lineAtByte(text2, ends.length === 0 ? 0 : ends[ends.length - 1]);
-    throw new UserError(
-      `${at(source, line)}: ${describeCsvError(error62)}.`,
-      'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
-    );
-  }
-  const starts = [0, ...ends.slice(0, -1)];
-  const kept = [];
-  for (let r = 0; r < records.length; r++) {
-    if (!(records[r].length === 1 && records[r][0].trim() === "")) kept.push(r);
-  }
-  const [headerRecord, ...dataRecords] = kept;
-  if (dataRecords.length === 0) {
-    throw new UserError(`${source} has a header line but no data rows.`, "Add data rows below the header, or check that the path names the right file.");
-  }
-  if (headerRecord !== 0) {
-    throw new UserError(`${source} starts with a blank line.`, "Put the column names on the first line.");
-  }
-  const header = records[headerRecord];
-  const rows = dataRecords.map((r) => records[r]);
-  const lineOf = (row) => lineAtByte(text2, starts[dataRecords[row]]);
-  for (let i = 0; i < rows.length; i++) {
-    if (rows[i].length !== header.length) {
-      throw new UserError(
-        `${at(source, lineOf(i))}: the row has ${count(rows[i].length, "field")}, the header has ${header.length}.`,
-        "Give every row one field per header column; enclose a field that holds a comma in double quotes."
-      );
-    }
-  }
-  return { header, rows, lineOf };
-}
-function describeCsvError(error62) {
-  switch (error62.code) {
-    case "CSV_QUOTE_NOT_CLOSED":
-      return "a quoted field that starts in this row is never closed";
-    case "CSV_INVALID_CLOSING_QUOTE":
-      return "a closing quote is followed by other characters";
-    case "INVALID_OPENING_QUOTE":
-      return "a quote appears inside a field that does not start with one";
-    default:
-      return `the CSV cannot be read (${error62.message})`;
-  }
-}
-function lineAtByte(text2, byteOffset) {
-  const bytes = new TextEncoder().encode(text2);
-  let line = 1;
-  for (let b = 0; b < byteOffset && b < bytes.length; b++) {
-    if (bytes[b] === 10 || bytes[b] === 13 && bytes[b + 1] !== 10) line++;
-  }
-  return line;
-}
-function checkHeader(header, source) {
-  const index = /* @__PURE__ */ new Map();
-  header.forEach((raw, j) => {
-    const name = raw.trim();
-    if (name === "") {
-      throw new UserError(`${source}, line 1: column ${j + 1} of the header has no name.`, "Name every column on the first line, or delete the unnamed column.");
-    }
-    const earlier = index.get(name);
-    if (earlier !== void 0) {
-      throw new UserError(
-        `${source}, line 1: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
-        "Give every column its own name."
-      );
-    }
-    index.set(name, j);
-  });
-  return index;
-}
-function failMissingTarget(source, name, header) {
-  throw new UserError(
-    `${source} has no target column ${show(name)}. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
-    `Add the column ${show(name)} to the file, or name one of its columns as the target.`
-  );
-}
-function failNoTargetNamed(source) {
-  throw new UserError(`${source}: no target column was named.`, "Name the column that holds the outcome to predict as the target.");
-}
-function planFromRoles(options, header, columnIndex, rows) {
-  const { source } = options;
-  const roles = options.roles ?? {};
-  const declared = (role) => Object.keys(roles).filter((name) => roles[name] === role);
-  const roleTargets = declared("target");
-  const idNames = declared("id");
-  if (roleTargets.length > 1) {
-    throw new UserError(`${source}: only one column can be the target, but ${listNames(roleTargets, 5)} have the role 'target'.`, "Keep the role 'target' on one column.");
-  }
-  if (idNames.length > 1) {
-    throw new UserError(`${source}: only one column can be the id, but ${listNames(idNames, 5)} have the role 'id'.`, "Keep the role 'id' on one column.");
-  }
-  if (options.target !== void 0 && roleTargets.length === 1 && roleTargets[0] !== options.target) {
-    throw new UserError(
-      `${source}: the target is ${show(options.target)}, but the column ${show(roleTargets[0])} has the role 'target'.`,
-      "Name the same column in both places, or only in one."
-    );
-  }
-  const targetName = options.target ?? roleTargets[0];
-  if (targetName !== void 0 && roles[targetName] !== void 0 && roles[targetName] !== "target") {
-    throw new UserError(
-      `${source}: the column ${show(targetName)} is the target, but it also has the role '${roles[targetName]}'.`,
-      "Delete the other role of the target column."
-    );
-  }
-  for (const name of Object.keys(roles)) {
-    if (name !== targetName && !columnIndex.has(name)) {
-      throw new UserError(
-        `${source} has no column ${show(name)}, which has the role '${roles[name]}'. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
-        "Correct the column name, or delete its role."
-      );
-    }
-  }
-  const targetColumn = targetName === void 0 ? void 0 : columnIndex.get(targetName);
-  if (options.requireTarget ?? true) {
-    if (targetName === void 0) failNoTargetNamed(source);
-    if (targetColumn === void 0) failMissingTarget(source, targetName, header);
-  }
-  const features = [];
-  header.forEach((raw, column) => {
-    const name = raw.trim();
-    const role = roles[name] ?? (name === targetName ? "target" : void 0);
-    if (role === "numeric" || role === "categorical") features.push({ name, column, kind: role });
-    else if (role === void 0) {
-      const isNumeric = rows.every((row) => {
-        const v = row[column].trim();
-        return isMissing(v) || parseNumber(v) !== void 0;
-      });
-      features.push({ name, column, kind: isNumeric ? "numeric" : "categorical" });
-    }
-  });
-  return {
-    features,
-    ...idNames.length === 1 ? { idColumn: columnIndex.get(idNames[0]) } : {},
-    ...targetName !== void 0 && targetColumn !== void 0 ? { target: { name: targetName, column: targetColumn, ...options.task ? { task: options.task } : {} } } : {},
-    extraColumns: [],
-    numericReason: "the column is declared numeric"
-  };
-}
-function planFromSchema(options, header, columnIndex) {
-  const schema = options.schema;
-  const { source } = options;
-  const needed = [...schema.features.map((f) => f.name), ...schema.idColumn === void 0 ? [] : [schema.idColumn]];
-  const absent = needed.filter((name) => !columnIndex.has(name));
-  if (absent.length > 0) {
-    throw new UserError(
-      `${source} lacks the column${absent.length > 1 ? "s" : ""} ${listNames(absent, 20)} that ${schema.source} has.`,
-      `Add ${absent.length > 1 ? "them" : "it"}: a file read alongside ${schema.source} needs its feature and id columns.`
-    );
-  }
-  const target = schema.target;
-  const targetColumn = target === void 0 ? void 0 : columnIndex.get(target.name);
-  if (options.requireTarget ?? true) {
-    if (target === void 0) failNoTargetNamed(source);
-    if (targetColumn === void 0) failMissingTarget(source, target.name, header);
-  }
-  const known = /* @__PURE__ */ new Set([...needed, ...target ? [target.name] : []]);
-  const extraColumns = header.map((h) => h.trim()).filter((name) => !known.has(name) && options.roles?.[name] !== "ignore");
-  return {
-    features: schema.features.map((f) => ({ name: f.name, column: columnIndex.get(f.name), kind: f.kind, ...f.categories ? { categories: f.categories } : {} })),
-    ...schema.idColumn === void 0 ? {} : { idColumn: columnIndex.get(schema.idColumn) },
-    ...target && targetColumn !== void 0 ? { target: { ...target, column: targetColumn } } : {},
-    extraColumns,
-    numericReason: `the column is numeric in ${schema.source}`
-  };
-}
-function orderClasses(a, b) {
-  if (NATURAL_NEGATIVES.get(a.toLowerCase()) === b.toLowerCase()) return [a, b];
-  if (NATURAL_NEGATIVES.get(b.toLowerCase()) === a.toLowerCase()) return [b, a];
-  const x = parseNumber(a);
-  const y = parseNumber(b);
-  if (x !== void 0 && y !== void 0 && x !== y) return x < y ? [a, b] : [b, a];
-  return compareText(a, b) < 0 ? [a, b] : [b, a];
-}
-function readTarget(source, plan, values, lineOf, schemaSource) {
-  const column = plan.name;
-  values.forEach((v, i) => {
-    if (isMissing(v)) {
-      throw new UserError(
-        `${at(source, lineOf(i), column)}: the target is missing (${v === "" ? "the cell is empty" : `the cell is ${show(v)}`}).`,
-        "Fill in the target or delete the row: a row without a target cannot be scored."
-      );
-    }
-  });
-  const distinct = [...new Set(values)];
-  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => parseNumber(v) !== void 0) ? "binary" : "regression");
-  if (task === "regression") {
-    const out2 = new Float64Array(values.length);
-    values.forEach((v, i) => {
-      out2[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), column, v, "the target of a regression must be one");
-    });
-    return { name: column, values: out2 };
-  }
-  let classes = plan.classes;
-  if (classes === void 0) {
-    if (distinct.length === 1) {
-      throw new UserError(
-        `${source}, column ${show(column)}: a binary target needs two classes, but every row has ${show(distinct[0])}.`,
-        "Check that the file holds rows of both outcomes and that the right column is the target."
-      );
-    }
-    if (distinct.length > 2) {
-      throw new UserError(
-        `${source}, column ${show(column)}: a binary target needs exactly two classes, found ${distinct.length}: ${listNames(distinct, 5)}.`,
-        "Write the target with two values, or choose the regression task if it is a number."
-      );
-    }
-    classes = orderClasses(distinct[0], distinct[1]);
-  }
-  const out = new Float64Array(values.length);
-  values.forEach((v, i) => {
-    if (v === classes[1]) out[i] = 1;
-    else if (v === classes[0]) out[i] = 0;
-    else {
-      throw new UserError(
-        `${at(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
-        `Use the same two class labels as ${schemaSource}.`
-      );
-    }
-  });
-  return { name: column, values: out, classes };
-}
-var MISSING_TOKENS, NUMBER, LINE_NOTE, NATURAL_NEGATIVES;
-var init_parse_csv = __esm({
-  "src/core/data/parse-csv.ts"() {
-    "use strict";
-    init_sync();
-    init_errors();
-    MISSING_TOKENS = /* @__PURE__ */ new Set(["", "na", "nan", "null"]);
-    NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
-    LINE_NOTE = "(the header is line 1)";
-    NATURAL_NEGATIVES = /* @__PURE__ */ new Map([
-      ["0", "1"],
-      ["false", "true"],
-      ["no", "yes"]
-    ]);
-  }
-});
 
 // node_modules/yaml/dist/nodes/identity.js
 var require_identity = __commonJS({
@@ -9518,171 +7368,6 @@ var require_dist = __commonJS({
     exports.stringify = publicApi.stringify;
     exports.visit = visit2.visit;
     exports.visitAsync = visit2.visitAsync;
-  }
-});
-
-// src/core/policy/policy-defaults.ts
-function deepFreeze(value) {
-  if (value !== null && typeof value === "object") {
-    for (const inner of Object.values(value)) deepFreeze(inner);
-    Object.freeze(value);
-  }
-  return value;
-}
-var defaultTopLevel, defaultData, defaultPrepare, defaultBoosting, defaultTrainCommand, metricTasks, defaultMetric, defaultImportance, defaultChecks, defaultReport, uint32Max;
-var init_policy_defaults = __esm({
-  "src/core/policy/policy-defaults.ts"() {
-    "use strict";
-    defaultTopLevel = deepFreeze({ seed: 1 });
-    defaultData = deepFreeze({
-      reference: { kind: "train" },
-      split: { fraction: 0.2 }
-    });
-    defaultPrepare = deepFreeze({ timeoutSeconds: 600 });
-    defaultBoosting = deepFreeze({
-      trees: 200,
-      maxDepth: 4,
-      learningRate: 0.1,
-      minRowsPerLeaf: 20,
-      l2: 1,
-      rowSubsample: 0.8,
-      columnSubsample: 0.8,
-      maxBins: 255
-    });
-    defaultTrainCommand = deepFreeze({ timeoutSeconds: 1800, parallel: 2 });
-    metricTasks = deepFreeze({
-      auc: "binary",
-      "log-loss": "binary",
-      accuracy: "binary",
-      brier: "binary",
-      rmse: "regression",
-      mae: "regression",
-      r2: "regression"
-    });
-    defaultMetric = deepFreeze({
-      binary: "log-loss",
-      regression: "rmse"
-    });
-    defaultImportance = deepFreeze({
-      draws: 5,
-      refits: 5,
-      referenceRows: 1e4,
-      evaluationRows: 2e4
-    });
-    defaultChecks = deepFreeze({
-      leakage: {
-        action: "block",
-        dominanceShare: 0.5,
-        runnerUpRatio: 3,
-        singleFeaturePower: 0.99,
-        relativePower: 0.8
-      },
-      rankShift: {
-        action: "warn",
-        falseDiscoveryRate: 0.05,
-        minPositions: 2,
-        agreementPercentile: 5
-      },
-      score: { action: "block", tolerance: 0, alpha: 0.05 },
-      holdoutRows: { action: "block" }
-    });
-    defaultReport = deepFreeze({ maxTableRows: 50 });
-    uint32Max = 2 ** 32 - 1;
-  }
-});
-
-// src/adapters/git/git.ts
-import { execFile } from "node:child_process";
-import { mkdtemp, rm } from "node:fs/promises";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
-import { promisify } from "node:util";
-async function git(cwd, args, what) {
-  try {
-    const { stdout } = await exec("git", args, { cwd, maxBuffer: 64 * 1024 * 1024 });
-    return stdout.trim();
-  } catch (error62) {
-    const detail = error62.stderr?.trim() || error62.message;
-    throw new UserError(`git could not ${what}: ${detail}`, `Run plumbline inside a git repository with the refs you name (git ${args.join(" ")}).`);
-  }
-}
-async function repositoryRoot(cwd) {
-  try {
-    const { stdout } = await exec("git", ["rev-parse", "--show-toplevel"], { cwd });
-    return stdout.trim();
-  } catch {
-    throw new UserError(
-      `${cwd} is not inside a git repository.`,
-      "plumbline compares a base and a head commit: run it from a clone of your repository."
-    );
-  }
-}
-async function resolveCommit(root2, ref, flag) {
-  try {
-    const { stdout } = await exec("git", ["rev-parse", "--verify", "--quiet", `${ref}^{commit}`], { cwd: root2 });
-    return stdout.trim();
-  } catch {
-    throw new UserError(
-      `${flag} '${ref}' does not name a commit in ${root2}.`,
-      `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.`
-    );
-  }
-}
-async function defaultBase(root2) {
-  const candidates = [];
-  try {
-    const { stdout } = await exec("git", ["symbolic-ref", "--quiet", "refs/remotes/origin/HEAD"], { cwd: root2 });
-    candidates.push(stdout.trim().replace(/^refs\/remotes\//, ""));
-  } catch {
-  }
-  candidates.push("origin/main", "origin/master", "main", "master");
-  for (const name of candidates) {
-    try {
-      const { stdout } = await exec("git", ["merge-base", "HEAD", name], { cwd: root2 });
-      return { ref: `merge-base(HEAD, ${name})`, commit: stdout.trim() };
-    } catch {
-    }
-  }
-  throw new UserError(
-    "Could not find the default branch to compare against (tried origin/HEAD, origin/main, origin/master, main, master).",
-    "Name the baseline explicitly with --base REF (for example --base main~1), or the action's 'base' input."
-  );
-}
-async function addWorktree(root2, commit) {
-  const parent = await mkdtemp(join(tmpdir(), "plumbline-side-"));
-  const path = join(parent, "tree");
-  await git(root2, ["worktree", "add", "--detach", "--quiet", path, commit], `check out ${commit.slice(0, 12)} into a worktree`).catch(
-    async (error62) => {
-      await rm(parent, { recursive: true, force: true });
-      throw error62;
-    }
-  );
-  return {
-    path,
-    remove: async () => {
-      try {
-        await exec("git", ["worktree", "remove", "--force", path], { cwd: root2 });
-      } catch {
-      }
-      await rm(parent, { recursive: true, force: true });
-      await exec("git", ["worktree", "prune"], { cwd: root2 }).catch(() => void 0);
-    }
-  };
-}
-async function readFileAtCommit(root2, commit, path) {
-  try {
-    const { stdout } = await exec("git", ["show", `${commit}:${path}`], { cwd: root2, maxBuffer: 16 * 1024 * 1024 });
-    return stdout;
-  } catch {
-    return null;
-  }
-}
-var exec;
-var init_git = __esm({
-  "src/adapters/git/git.ts"() {
-    "use strict";
-    init_errors();
-    exec = promisify(execFile);
   }
 });
 
@@ -18865,278 +16550,32 @@ var require_protobufjs = __commonJS({
   }
 });
 
-// src/core/policy/render-starter-policy.ts
-function nameTokens(name) {
-  return name.replace(/([a-z0-9])([A-Z])/g, "$1 $2").toLowerCase().split(/[^a-z0-9]+/).filter(Boolean);
-}
-function guessTarget(columns) {
-  const candidates = columns.filter((c) => !c.looksLikeId && c.distinct >= 2);
-  for (const label of labelNames) {
-    const exact = candidates.find((c) => c.name.trim().toLowerCase() === label);
-    if (exact) return { name: exact.name, reason: `named '${exact.name}'` };
-  }
-  for (const label of labelNames) {
-    const partial2 = candidates.find((c) => nameTokens(c.name).includes(label));
-    if (partial2) return { name: partial2.name, reason: `its name contains '${label}'` };
-  }
-  const binary = candidates.filter((c) => c.distinct === 2);
-  if (binary.length === 1) return { name: binary[0].name, reason: "the only column with two distinct values" };
-  if (binary.length > 1) {
-    const last = binary[binary.length - 1];
-    const others = binary.slice(0, -1).map((c) => c.name);
-    return { name: last.name, reason: `the last of ${binary.length} columns with two distinct values (the others: ${others.join(", ")})` };
-  }
-  return void 0;
-}
-function proposeTarget(columns) {
-  return guessTarget(columns)?.name;
-}
-function scalar(text2) {
-  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text2) ? text2 : JSON.stringify(text2);
-}
-function withThousands(n) {
-  return String(Math.round(n)).replace(/\B(?=(\d{3})+(?!\d))/g, ",");
-}
-function count2(n, one, many) {
-  return `${withThousands(n)} ${n === 1 ? one : many}`;
-}
-function renderBlock(lines) {
-  const body = lines.map((line) => `${"  ".repeat(line.indent)}${line.isOptional ? "# " : ""}${line.text}`);
-  const width = Math.min(44, Math.max(0, ...body.filter((_, i) => lines[i].note).map((b) => b.length)));
-  return body.map((b, i) => lines[i].note ? `${b.padEnd(width)}  # ${lines[i].note}` : b).join("\n");
-}
-function inferTask(target) {
-  if (!target) return { task: "binary", note: "guessed: set binary or regression once the target is set" };
-  if (target.distinct === 2) return { task: "binary", note: `guessed: '${target.name}' has two distinct values` };
-  if (target.kind === "numeric") {
-    return { task: "regression", note: `guessed: '${target.name}' is numeric with ${withThousands(target.distinct)} distinct values` };
-  }
-  return {
-    task: "binary",
-    note: `'${target.name}' has ${withThousands(target.distinct)} categories; plumbline handles two-class and numeric targets only`
-  };
-}
-function taskNote(task, target) {
-  if (!target) return void 0;
-  if (task === "binary" && target.distinct !== 2) return `check this: '${target.name}' has ${withThousands(target.distinct)} distinct values, binary needs two`;
-  if (task === "regression" && target.kind !== "numeric") return `check this: '${target.name}' is not numeric`;
-  return void 0;
-}
-function describeColumn(column, rows) {
-  const missing = column.missing > 0 ? `, ${withThousands(column.missing)} missing` : "";
-  if (column.looksLikeId) return { role: "id", note: `guessed: a different value in each of the ${withThousands(rows)} rows` };
-  if (column.distinct === 0) return { role: "ignore", note: "guessed: every value is missing" };
-  if (column.distinct === 1) return { role: "ignore", note: `guessed: the same value in every row${missing}` };
-  return { role: column.kind, note: `${count2(column.distinct, "distinct value", "distinct values")}${missing}` };
-}
-function holdoutPathFor(trainPath) {
-  const slash = trainPath.lastIndexOf("/");
-  const dir = trainPath.slice(0, slash + 1);
-  const base = trainPath.slice(slash + 1);
-  return /train/i.test(base) ? dir + base.replace(/train/i, "holdout") : `${dir}holdout.csv`;
-}
-function renderStarterPolicy(input2) {
-  const { trainPath, columns, rows } = input2;
-  const guess = guessTarget(columns);
-  if (input2.suggestedTarget !== void 0 && !columns.some((c) => c.name === input2.suggestedTarget)) {
-    throw new UserError(
-      `The target '${input2.suggestedTarget}' is not a column of ${trainPath} (columns: ${columns.map((c) => c.name).join(", ")}).`,
-      `Name one of the columns of ${trainPath} as the target.`
-    );
-  }
-  const targetName = input2.suggestedTarget ?? guess?.name;
-  const target = columns.find((c) => c.name === targetName);
-  const inferred = inferTask(target);
-  const task = input2.task ?? inferred.task;
-  const features = columns.filter((c) => c !== target);
-  const described = features.map((c) => ({ column: c, ...describeColumn(c, rows) }));
-  const idColumn = described.find((d) => d.role === "id")?.column;
-  const numeric = described.filter((d) => d.role === "numeric").map((d) => d.column.name);
-  const usable = described.filter((d) => d.role === "numeric" || d.role === "categorical").map((d) => d.column.name);
-  const example = (names, fallback) => `[${(names.length >= 2 ? names.slice(0, 2) : fallback).map(scalar).join(", ")}]`;
-  const targetNote = !target ? "no column looked like a label: set the column to predict and delete its line under data.columns" : input2.suggestedTarget !== void 0 && input2.suggestedTarget !== guess?.name ? "the column to predict" : `guessed: ${guess.reason}`;
-  const header = [
-    "# plumbline policy: what the gate measures on each pull request, and when it warns or blocks.",
-    `# Written by 'plumbline init' from ${trainPath} (${count2(rows, "row", "rows")}, ${count2(columns.length, "column", "columns")}).`,
-    '# Lines marked "guessed" come from the data: check them. A line starting with "# key:" is an',
-    "# optional key at its default; remove the '# ' to change it. docs/policy.md describes every key."
-  ].join("\n");
-  const top = renderBlock([
-    key(0, `version: 1`),
-    key(0, `task: ${task}`, input2.task ? taskNote(task, target) : inferred.note),
-    key(0, `target: ${target ? scalar(target.name) : "SET_TARGET_COLUMN"}`, targetNote),
-    key(0, `seed: ${defaultTopLevel.seed}`, "every random choice of a run derives from it")
-  ]);
-  const data = renderBlock([
-    key(0, "data:"),
-    key(1, `train: ${scalar(trainPath)}`),
-    optional3(1, `holdout: ${scalar(holdoutPathFor(trainPath))}`, "a separate holdout file, instead of split"),
-    key(1, "split:", "hold out part of data.train"),
-    key(2, `fraction: ${defaultData.split.fraction}`),
-    idColumn ? key(2, `by: ${scalar(idColumn.name)}`, "guessed: hashing the id holds out the same rows on both sides") : optional3(2, "by: <id column>", "hash an id so both sides hold out the same rows"),
-    optional3(1, `reference: ${defaultData.reference.kind}`, "train, holdout or a file: where permutation draws come from"),
-    optional3(1, `unlabeled: ${scalar(holdoutPathFor(trainPath).replace(/holdout/i, "unlabeled"))}`, "rows without the target"),
-    features.length > 0 ? key(1, "columns:", "numeric, categorical, id or ignore") : key(1, "columns: {}", "numeric, categorical, id or ignore"),
-    ...described.map((d) => key(2, `${scalar(d.column.name)}: ${d.role}`, d.note))
-  ]);
-  const prepare = renderBlock([
-    optional3(0, "prepare:", "a command run in each side's checkout before the data is read"),
-    optional3(1, "command: <shell command>"),
-    optional3(1, `timeout_seconds: ${defaultPrepare.timeoutSeconds}`)
-  ]);
-  const model = renderBlock([
-    key(0, "model:", "exactly one of builtin, onnx, train"),
-    key(1, "builtin:"),
-    key(2, "learner: gradient-boosting", "or linear, which reads l2 only"),
-    optional3(2, `trees: ${defaultBoosting.trees}`),
-    optional3(2, `max_depth: ${defaultBoosting.maxDepth}`),
-    optional3(2, `learning_rate: ${defaultBoosting.learningRate}`),
-    optional3(2, `min_rows_per_leaf: ${defaultBoosting.minRowsPerLeaf}`),
-    optional3(2, `l2: ${defaultBoosting.l2}`),
-    optional3(2, `row_subsample: ${defaultBoosting.rowSubsample}`),
-    optional3(2, `column_subsample: ${defaultBoosting.columnSubsample}`),
-    optional3(2, `max_bins: ${defaultBoosting.maxBins}`),
-    optional3(1, "onnx:", "instead of builtin: a model file in each side's checkout"),
-    optional3(2, "path: <path or glob>"),
-    optional3(2, `features: ${example(usable, ["column_a", "column_b"])}`, "input order, for models without input names"),
-    optional3(2, "positive_class: <label or index>", "binary only"),
-    optional3(1, "train:", "instead of builtin: your command writes an ONNX model to $PLUMBLINE_OUTPUT"),
-    optional3(2, "command: <shell command>"),
-    optional3(2, `timeout_seconds: ${defaultTrainCommand.timeoutSeconds}`),
-    optional3(2, `parallel: ${defaultTrainCommand.parallel}`)
-  ]);
-  const metrics = Object.keys(metricTasks).filter((m) => metricTasks[m] === task);
-  const importance = renderBlock([
-    key(0, "importance:"),
-    optional3(1, `metric: ${defaultMetric[task]}`, metrics.join(", ")),
-    optional3(1, `draws: ${defaultImportance.draws}`, "draws per feature per refit"),
-    optional3(1, `refits: ${defaultImportance.refits}`, "reseeded refits per side"),
-    optional3(1, `reference_rows: ${defaultImportance.referenceRows}`),
-    optional3(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
-    optional3(1, "groups:", "columns permuted together and reported as one"),
-    optional3(2, `group_name: ${example(numeric, ["column_a", "column_b"])}`)
-  ]);
-  const { leakage, rankShift, score: score2, holdoutRows } = defaultChecks;
-  const checks = renderBlock([
-    key(0, "checks:"),
-    key(1, "leakage:", "one feature carries the model"),
-    key(2, `action: ${leakage.action}`, "block, warn or off"),
-    optional3(2, `dominance_share: ${leakage.dominanceShare}`),
-    optional3(2, `runner_up_ratio: ${leakage.runnerUpRatio}`),
-    optional3(2, `single_feature_power: ${leakage.singleFeaturePower}`),
-    optional3(2, `relative_power: ${leakage.relativePower}`),
-    key(1, "rank_shift:", "features change places between base and head"),
-    key(2, `action: ${rankShift.action}`),
-    optional3(2, `false_discovery_rate: ${rankShift.falseDiscoveryRate}`),
-    optional3(2, `min_positions: ${rankShift.minPositions}`),
-    optional3(2, `agreement_percentile: ${rankShift.agreementPercentile}`),
-    key(1, "score:", "the holdout score gets worse"),
-    key(2, `action: ${score2.action}`),
-    optional3(2, `tolerance: ${score2.tolerance}`, "in metric units"),
-    optional3(2, `alpha: ${score2.alpha}`),
-    key(1, "holdout_rows:", "the holdout rows differ between base and head"),
-    key(2, `action: ${holdoutRows.action}`)
-  ]);
-  const report = renderBlock([key(0, "report:"), optional3(1, `max_table_rows: ${defaultReport.maxTableRows}`)]);
-  return `${[header, top, data, prepare, model, importance, checks, report].join("\n\n")}
-`;
-}
-var labelNames, key, optional3;
-var init_render_starter_policy = __esm({
-  "src/core/policy/render-starter-policy.ts"() {
-    "use strict";
-    init_policy_defaults();
-    init_errors();
-    labelNames = ["target", "label", "y", "outcome"];
-    key = (indent, text2, note) => ({ indent, text: text2, ...note ? { note } : {} });
-    optional3 = (indent, text2, note) => ({ indent, text: text2, isOptional: true, ...note ? { note } : {} });
-  }
-});
-
-// src/adapters/cli/summarize-columns.ts
-function summarizeColumns(data) {
-  return data.features.map((feature, j) => {
-    const column = data.columns[j];
-    const distinct = /* @__PURE__ */ new Set();
-    let isInteger = true;
-    for (const v of column) {
-      if (Number.isNaN(v)) continue;
-      distinct.add(v);
-      if (!Number.isInteger(v)) isInteger = false;
-    }
-    const looksLikeId = data.rows > 20 && distinct.size === data.rows && (feature.kind === "categorical" || isInteger);
-    return { name: feature.name, kind: feature.kind, distinct: distinct.size, missing: data.missing[j], looksLikeId };
-  });
-}
-var init_summarize_columns = __esm({
-  "src/adapters/cli/summarize-columns.ts"() {
-    "use strict";
-  }
-});
-
-// src/adapters/cli/init.ts
-var init_exports = {};
-__export(init_exports, {
-  init: () => init
-});
-import { access, mkdir, readFile as readFile5, readdir as readdir2, writeFile } from "node:fs/promises";
-import { dirname as dirname2, join as join5, resolve as resolve4 } from "node:path";
-async function init(command, io) {
-  const root2 = await repositoryRoot(io.cwd).catch(() => io.cwd);
-  const output2 = resolve4(io.cwd, command.output);
-  if (!command.force && await exists(output2)) {
-    throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
-  }
-  const trainPath = command.train ?? await findTrainingTable(root2);
-  const text2 = await readFile5(resolve4(root2, trainPath), "utf8").catch(() => {
-    throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
-  });
-  const data = parseCsv(text2, { source: trainPath, requireTarget: false });
-  const columns = summarizeColumns(data);
-  const target = command.target ?? proposeTarget(columns);
-  if (command.target && !columns.some((c) => c.name === command.target)) {
-    throw new UserError(`--target '${command.target}' is not a column of ${trainPath}.`, `Columns: ${columns.map((c) => c.name).join(", ")}.`);
-  }
-  const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task });
-  await mkdir(dirname2(output2), { recursive: true });
-  await writeFile(output2, policy);
-  io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.
-`);
-  return 0;
-}
-async function findTrainingTable(root2) {
-  const dir = join5(root2, "data");
-  const files = await readdir2(dir).catch(() => []);
-  const csvs = files.filter((f) => f.endsWith(".csv"));
-  const train3 = csvs.filter((f) => /train/i.test(f));
-  if (train3.length === 1) return `data/${train3[0]}`;
-  if (csvs.length === 1) return `data/${csvs[0]}`;
-  throw new UserError(
-    csvs.length ? `Several CSV files under data/ (${csvs.join(", ")}); cannot tell which is the training table.` : "No CSV file found under data/.",
-    "Pass --train FILE with the training table, relative to the repository root."
-  );
-}
-async function exists(path) {
-  return access(path).then(
-    () => true,
-    () => false
-  );
-}
-var init_init = __esm({
-  "src/adapters/cli/init.ts"() {
-    "use strict";
-    init_parse_csv();
-    init_errors();
-    init_render_starter_policy();
-    init_git();
-    init_summarize_columns();
-  }
-});
-
 // src/adapters/cli/main.ts
-init_errors();
 import { mkdir as mkdir2, writeFile as writeFile2 } from "node:fs/promises";
 import { dirname as dirname3, resolve as resolve5 } from "node:path";
+
+// src/core/errors.ts
+var UserError = class extends Error {
+  constructor(message, fix) {
+    super(message);
+    this.fix = fix;
+    this.name = "UserError";
+  }
+  fix;
+};
+var InternalError = class extends Error {
+  constructor(message) {
+    super(message);
+    this.name = "InternalError";
+  }
+};
+function describeFailure(error62) {
+  if (error62 instanceof UserError) return error62.fix ? `${error62.message}
+${error62.fix}` : error62.message;
+  const detail = error62 instanceof Error ? error62.stack ?? error62.message : String(error62);
+  return `Internal error (this is a bug, please report it):
+${detail}`;
+}
 
 // src/core/report/report.ts
 var reportCaution = "A pass is not proof that the model is free of leakage or fit for use: plumbline only sees what the data on both sides can show, and a weak leak looks like a weak real signal. Review of the feature change stays with people and the team's own policies.";
@@ -19972,12 +17411,2047 @@ function renderText(report, options = {}) {
 }
 
 // src/adapters/check/run-check.ts
-init_parse_csv();
 import { readFile as readFile4 } from "node:fs/promises";
 import { isAbsolute, join as join4, relative, resolve as resolve3 } from "node:path";
 
-// src/core/data/split-rows.ts
-init_errors();
+// node_modules/csv-parse/lib/api/CsvError.js
+var CsvError = class _CsvError extends Error {
+  constructor(code2, message, options, ...contexts) {
+    if (Array.isArray(message)) message = message.join(" ").trim();
+    super(message);
+    if (Error.captureStackTrace !== void 0) {
+      Error.captureStackTrace(this, _CsvError);
+    }
+    this.code = code2;
+    for (const context of contexts) {
+      for (const key2 in context) {
+        const value = context[key2];
+        this[key2] = Buffer.isBuffer(value) ? value.toString(options.encoding) : value == null ? value : JSON.parse(JSON.stringify(value));
+      }
+    }
+  }
+};
+
+// node_modules/csv-parse/lib/utils/is_object.js
+var is_object = function(obj) {
+  return typeof obj === "object" && obj !== null && !Array.isArray(obj);
+};
+
+// node_modules/csv-parse/lib/api/normalize_columns_array.js
+var normalize_columns_array = function(columns) {
+  const normalizedColumns = [];
+  for (let i = 0, l = columns.length; i < l; i++) {
+    const column = columns[i];
+    if (column === void 0 || column === null || column === false) {
+      normalizedColumns[i] = { disabled: true };
+    } else if (typeof column === "string" || typeof column === "number") {
+      normalizedColumns[i] = { name: `${column}` };
+    } else if (is_object(column)) {
+      if (typeof column.name !== "string") {
+        throw new CsvError("CSV_OPTION_COLUMNS_MISSING_NAME", [
+          "Option columns missing name:",
+          `property "name" is required at position ${i}`,
+          "when column is an object literal"
+        ]);
+      }
+      normalizedColumns[i] = column;
+    } else {
+      throw new CsvError("CSV_INVALID_COLUMN_DEFINITION", [
+        "Invalid column definition:",
+        "expect a string or a literal object,",
+        `got ${JSON.stringify(column)} at position ${i}`
+      ]);
+    }
+  }
+  return normalizedColumns;
+};
+
+// node_modules/csv-parse/lib/utils/ResizeableBuffer.js
+var ResizeableBuffer = class {
+  constructor(size = 100) {
+    this.size = size;
+    this.length = 0;
+    this.buf = Buffer.allocUnsafe(size);
+  }
+  prepend(val) {
+    if (Buffer.isBuffer(val)) {
+      const length2 = this.length + val.length;
+      if (length2 >= this.size) {
+        this.resize();
+        if (length2 >= this.size) {
+          throw Error("INVALID_BUFFER_STATE");
+        }
+      }
+      const buf = this.buf;
+      this.buf = Buffer.allocUnsafe(this.size);
+      val.copy(this.buf, 0);
+      buf.copy(this.buf, val.length);
+      this.length += val.length;
+    } else {
+      const length2 = this.length++;
+      if (length2 === this.size) {
+        this.resize();
+      }
+      const buf = this.clone();
+      this.buf[0] = val;
+      buf.copy(this.buf, 1, 0, length2);
+    }
+  }
+  append(val) {
+    const length2 = this.length++;
+    if (length2 === this.size) {
+      this.resize();
+    }
+    this.buf[length2] = val;
+  }
+  clone() {
+    return Buffer.from(this.buf.slice(0, this.length));
+  }
+  resize() {
+    const length2 = this.length;
+    this.size = this.size * 2;
+    const buf = Buffer.allocUnsafe(this.size);
+    this.buf.copy(buf, 0, 0, length2);
+    this.buf = buf;
+  }
+  toString(encoding) {
+    if (encoding) {
+      return this.buf.toString(encoding, 0, this.length);
+    } else {
+      return Uint8Array.prototype.slice.call(this.buf.slice(0, this.length));
+    }
+  }
+  toJSON() {
+    return this.toString("utf8");
+  }
+  reset() {
+    this.length = 0;
+  }
+};
+var ResizeableBuffer_default = ResizeableBuffer;
+
+// node_modules/csv-parse/lib/api/init_state.js
+var init_state = function(options) {
+  const timchars = [
+    // Basic Latin
+    32,
+    // [Space](https://www.fileformat.info/info/unicode/char/0020/index.htm)
+    9,
+    // [CHARACTER TABULATION (HT)](https://www.fileformat.info/info/unicode/char/0009/index.htm)
+    10,
+    // [LINE FEED (LF)](https://www.fileformat.info/info/unicode/char/000a/index.htm)
+    13,
+    // [CARRIAGE RETURN (CR)](https://www.fileformat.info/info/unicode/char/000d/index.htm)
+    12,
+    // [FORM FEED (FF)](https://www.fileformat.info/info/unicode/char/000c/index.htm)
+    11,
+    // [LINE TABULATION (VT)](https://www.fileformat.info/info/unicode/char/000b/index.htm)
+    // Latin-1 Supplement
+    160,
+    // [NO-BREAK SPACE (NBSP)](https://www.fileformat.info/info/unicode/char/00a0/index.htm)
+    // Ogham
+    5760,
+    // [OGHAM SPACE MARK](https://www.fileformat.info/info/unicode/char/1680/index.htm)
+    // General Punctuation
+    8192,
+    // [EN QUAD](https://www.fileformat.info/info/unicode/char/2000/index.htm)
+    8193,
+    // [EM QUAD](https://www.fileformat.info/info/unicode/char/2001/index.htm)
+    8194,
+    // [EN SPACE](https://www.fileformat.info/info/unicode/char/2002/index.htm)
+    8195,
+    // [EM SPACE](https://www.fileformat.info/info/unicode/char/2003/index.htm)
+    8196,
+    // [THREE-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2004/index.htm)
+    8197,
+    // [FOUR-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2005/index.htm)
+    8198,
+    // [SIX-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2006/index.htm)
+    8199,
+    // [FIGURE SPACE](https://www.fileformat.info/info/unicode/char/2007/index.htm)
+    8200,
+    // [PUNCTUATION SPACE](https://www.fileformat.info/info/unicode/char/2008/index.htm)
+    8201,
+    // [THIN SPACE](https://www.fileformat.info/info/unicode/char/2009/index.htm)
+    8202,
+    // [HAIR SPACE](https://www.fileformat.info/info/unicode/char/200a/index.htm)
+    8232,
+    // [LINE SEPARATOR](https://www.fileformat.info/info/unicode/char/2028/index.htm)
+    8233,
+    // [PARAGRAPH SEPARATOR](https://www.fileformat.info/info/unicode/char/2029/index.htm)
+    8239,
+    // [NARROW NO-BREAK SPACE (NNBSP)](https://www.fileformat.info/info/unicode/char/202f/index.htm)
+    8287,
+    // [MEDIUM MATHEMATICAL SPACE (MMSP)](https://www.fileformat.info/info/unicode/char/205f/index.htm)
+    12288,
+    // [IDEOGRAPHIC SPACE](https://www.fileformat.info/info/unicode/char/3000/index.htm)
+    65279
+    // [ZERO WIDTH NO-BREAK SPACE (BOM)](https://www.fileformat.info/info/unicode/char/feff/index.htm)
+  ].reduce((acc, codepoint) => {
+    const encoded = Buffer.from(
+      String.fromCharCode(codepoint),
+      options.encoding
+    );
+    if (codepoint !== 63 && encoded.length === 1 && encoded[0] === 63) {
+      return acc;
+    }
+    acc.push(encoded);
+    return acc;
+  }, []);
+  const timcharFirstBytes = new Uint8Array(256);
+  for (const t of timchars) timcharFirstBytes[t[0]] = 1;
+  return {
+    bomSkipped: false,
+    bufBytesStart: 0,
+    castField: options.cast_function,
+    commenting: false,
+    delimiterBufPrevious: void 0,
+    delimiterDiscovered: false,
+    // Current error encountered by a record
+    error: void 0,
+    enabled: options.from_line === 1,
+    escaping: false,
+    escapeIsQuote: Buffer.isBuffer(options.escape) && Buffer.isBuffer(options.quote) && Buffer.compare(options.escape, options.quote) === 0,
+    // columns can be `false`, `true`, `Array`
+    expectedRecordLength: Array.isArray(options.columns) ? options.columns.length : void 0,
+    field: new ResizeableBuffer_default(20),
+    firstLineToHeaders: options.cast_first_line_to_header,
+    needMoreDataSize: Math.max(
+      // Skip if the remaining buffer smaller than comment
+      options.comment !== null ? options.comment.length : 0,
+      ...options.delimiter ? options.delimiter.map((delimiter) => delimiter.length) : [],
+      // Auto discovery of delimiter is limited to 1 character
+      options.delimiter_auto ? 1 : 0,
+      // Skip if the remaining buffer can be escape sequence
+      options.quote !== null ? options.quote.length : 0,
+      ...timchars.map((t) => t.length)
+    ),
+    previousBuf: void 0,
+    quoting: false,
+    stop: false,
+    rawBuffer: new ResizeableBuffer_default(100),
+    record: [],
+    recordHasError: false,
+    record_length: 0,
+    recordDelimiterMaxLength: options.record_delimiter.length === 0 ? 0 : Math.max(...options.record_delimiter.map((v) => v.length)),
+    trimChars: [
+      Buffer.from(" ", options.encoding)[0],
+      Buffer.from("	", options.encoding)[0]
+    ],
+    wasQuoting: false,
+    wasRowDelimiter: false,
+    timchars,
+    timcharFirstBytes
+  };
+};
+
+// node_modules/csv-parse/lib/utils/underscore.js
+var underscore = function(str) {
+  return str.replace(/([A-Z])/g, function(_, match) {
+    return "_" + match.toLowerCase();
+  });
+};
+
+// node_modules/csv-parse/lib/api/normalize_options.js
+var normalize_options = function(opts) {
+  const options = {};
+  for (const opt in opts) {
+    options[underscore(opt)] = opts[opt];
+  }
+  if (options.encoding === void 0 || options.encoding === true) {
+    options.encoding = "utf8";
+  } else if (options.encoding === null || options.encoding === false) {
+    options.encoding = null;
+  } else if (typeof options.encoding !== "string" && options.encoding !== null) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_ENCODING",
+      [
+        "Invalid option encoding:",
+        "encoding must be a string or null to return a buffer,",
+        `got ${JSON.stringify(options.encoding)}`
+      ],
+      options
+    );
+  }
+  if (options.bom === void 0 || options.bom === null || options.bom === false) {
+    options.bom = false;
+  } else if (options.bom !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_BOM",
+      [
+        "Invalid option bom:",
+        "bom must be true,",
+        `got ${JSON.stringify(options.bom)}`
+      ],
+      options
+    );
+  }
+  options.cast_function = null;
+  if (options.cast === void 0 || options.cast === null || options.cast === false || options.cast === "") {
+    options.cast = void 0;
+  } else if (typeof options.cast === "function") {
+    options.cast_function = options.cast;
+    options.cast = true;
+  } else if (options.cast !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_CAST",
+      [
+        "Invalid option cast:",
+        "cast must be true or a function,",
+        `got ${JSON.stringify(options.cast)}`
+      ],
+      options
+    );
+  }
+  if (options.cast_date === void 0 || options.cast_date === null || options.cast_date === false || options.cast_date === "") {
+    options.cast_date = false;
+  } else if (options.cast_date === true) {
+    options.cast_date = function(value) {
+      const date5 = Date.parse(value);
+      return !isNaN(date5) ? new Date(date5) : value;
+    };
+  } else if (typeof options.cast_date !== "function") {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_CAST_DATE",
+      [
+        "Invalid option cast_date:",
+        "cast_date must be true or a function,",
+        `got ${JSON.stringify(options.cast_date)}`
+      ],
+      options
+    );
+  }
+  options.cast_first_line_to_header = void 0;
+  if (options.columns === true) {
+    options.cast_first_line_to_header = void 0;
+  } else if (typeof options.columns === "function") {
+    options.cast_first_line_to_header = options.columns;
+    options.columns = true;
+  } else if (Array.isArray(options.columns)) {
+    options.columns = normalize_columns_array(options.columns);
+  } else if (options.columns === void 0 || options.columns === null || options.columns === false) {
+    options.columns = false;
+  } else {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_COLUMNS",
+      [
+        "Invalid option columns:",
+        "expect an array, a function or true,",
+        `got ${JSON.stringify(options.columns)}`
+      ],
+      options
+    );
+  }
+  if (options.group_columns_by_name === void 0 || options.group_columns_by_name === null || options.group_columns_by_name === false) {
+    options.group_columns_by_name = false;
+  } else if (options.group_columns_by_name !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
+      [
+        "Invalid option group_columns_by_name:",
+        "expect an boolean,",
+        `got ${JSON.stringify(options.group_columns_by_name)}`
+      ],
+      options
+    );
+  } else if (options.columns === false) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
+      [
+        "Invalid option group_columns_by_name:",
+        "the `columns` mode must be activated."
+      ],
+      options
+    );
+  }
+  if (options.comment === void 0 || options.comment === null || options.comment === false || options.comment === "") {
+    options.comment = null;
+  } else {
+    if (typeof options.comment === "string") {
+      options.comment = Buffer.from(options.comment, options.encoding);
+    }
+    if (!Buffer.isBuffer(options.comment)) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_COMMENT",
+        [
+          "Invalid option comment:",
+          "comment must be a buffer or a string,",
+          `got ${JSON.stringify(options.comment)}`
+        ],
+        options
+      );
+    }
+  }
+  if (options.comment_no_infix === void 0 || options.comment_no_infix === null || options.comment_no_infix === false) {
+    options.comment_no_infix = false;
+  } else if (options.comment_no_infix !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_COMMENT",
+      [
+        "Invalid option comment_no_infix:",
+        "value must be a boolean,",
+        `got ${JSON.stringify(options.comment_no_infix)}`
+      ],
+      options
+    );
+  }
+  if (options.delimiter_auto === void 0 || options.delimiter_auto === null || options.delimiter_auto === false) {
+    options.delimiter_auto = false;
+  } else if (options.delimiter_auto === true) {
+    options.delimiter_auto = {};
+  } else if (!is_object(options.delimiter_auto)) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_DELIMITER_AUTO",
+      [
+        "Invalid option delimiter_auto:",
+        "delimiter_auto must be a boolean or a configuration object,",
+        `got ${JSON.stringify(options.delimiter_auto)}`
+      ],
+      options
+    );
+  }
+  if (options.delimiter_auto) {
+    if (options.delimiter_auto.preferred === void 0)
+      options.delimiter_auto.preferred = {
+        [",".charCodeAt(0)]: 1.8,
+        ["	".charCodeAt(0)]: 1.8,
+        [";".charCodeAt(0)]: 1.6,
+        [" ".charCodeAt(0)]: 1.6,
+        [":".charCodeAt(0)]: 1.5,
+        [".".charCodeAt(0)]: 1.4,
+        ["/".charCodeAt(0)]: 1.4
+      };
+    else if (!is_object(options.delimiter_auto.preferred)) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER_AUTO",
+        [
+          "Invalid option delimiter_auto:",
+          "preferred must be an object,",
+          `got ${JSON.stringify(options.delimiter_auto.preferred)}`
+        ],
+        options
+      );
+    }
+    if (options.delimiter_auto.score === void 0)
+      options.delimiter_auto.score = (info, options2) => {
+        return (info.total - info.std) * (options2.preferred[info.char_code] || 1);
+      };
+    else if (typeof options.delimiter_auto.score !== "function") {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER_AUTO",
+        [
+          "Invalid option delimiter_auto:",
+          "score must be a function,",
+          `got ${JSON.stringify(options.delimiter_auto.score)}`
+        ],
+        options
+      );
+    }
+    if (options.delimiter_auto.size === void 0)
+      options.delimiter_auto.size = 2048;
+    else if (typeof options.delimiter_auto.size !== "number") {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER_AUTO",
+        [
+          "Invalid option delimiter_auto:",
+          "size must be a number,",
+          `got ${JSON.stringify(options.delimiter_auto.size)}`
+        ],
+        options
+      );
+    }
+  }
+  const delimiter_json = JSON.stringify(options.delimiter);
+  if (options.delimiter_auto !== false) {
+    options.delimiter = [];
+  }
+  if (!Array.isArray(options.delimiter)) {
+    if (options.delimiter === void 0 || options.delimiter === null || options.delimiter === false) {
+      options.delimiter = Buffer.from(",", options.encoding);
+    }
+    options.delimiter = [options.delimiter];
+  }
+  options.delimiter = options.delimiter.map(function(delimiter) {
+    if (typeof delimiter === "string") {
+      delimiter = Buffer.from(delimiter, options.encoding);
+    }
+    if (!Buffer.isBuffer(delimiter) || delimiter.length === 0) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER",
+        [
+          "Invalid option delimiter:",
+          "delimiter must be a non empty string or buffer or array of string|buffer,",
+          `got ${delimiter_json}`
+        ],
+        options
+      );
+    }
+    return delimiter;
+  });
+  if (options.escape === void 0 || options.escape === true) {
+    options.escape = Buffer.from('"', options.encoding);
+  } else if (typeof options.escape === "string") {
+    options.escape = Buffer.from(options.escape, options.encoding);
+  } else if (options.escape === null || options.escape === false) {
+    options.escape = null;
+  }
+  if (options.escape !== null) {
+    if (!Buffer.isBuffer(options.escape)) {
+      throw new Error(
+        `Invalid Option: escape must be a buffer, a string or a boolean, got ${JSON.stringify(options.escape)}`
+      );
+    }
+  }
+  if (options.from === void 0 || options.from === null) {
+    options.from = 1;
+  } else {
+    if (typeof options.from === "string" && /\d+/.test(options.from)) {
+      options.from = parseInt(options.from);
+    }
+    if (Number.isInteger(options.from)) {
+      if (options.from < 0) {
+        throw new Error(
+          `Invalid Option: from must be a positive integer, got ${JSON.stringify(opts.from)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: from must be an integer, got ${JSON.stringify(options.from)}`
+      );
+    }
+  }
+  if (options.from_line === void 0 || options.from_line === null) {
+    options.from_line = 1;
+  } else {
+    if (typeof options.from_line === "string" && /\d+/.test(options.from_line)) {
+      options.from_line = parseInt(options.from_line);
+    }
+    if (Number.isInteger(options.from_line)) {
+      if (options.from_line <= 0) {
+        throw new Error(
+          `Invalid Option: from_line must be a positive integer greater than 0, got ${JSON.stringify(opts.from_line)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: from_line must be an integer, got ${JSON.stringify(opts.from_line)}`
+      );
+    }
+  }
+  if (options.ignore_last_delimiters === void 0 || options.ignore_last_delimiters === null) {
+    options.ignore_last_delimiters = false;
+  } else if (typeof options.ignore_last_delimiters === "number") {
+    options.ignore_last_delimiters = Math.floor(options.ignore_last_delimiters);
+    if (options.ignore_last_delimiters === 0) {
+      options.ignore_last_delimiters = false;
+    }
+  } else if (typeof options.ignore_last_delimiters !== "boolean") {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_IGNORE_LAST_DELIMITERS",
+      [
+        "Invalid option `ignore_last_delimiters`:",
+        "the value must be a boolean value or an integer,",
+        `got ${JSON.stringify(options.ignore_last_delimiters)}`
+      ],
+      options
+    );
+  }
+  if (options.ignore_last_delimiters === true && options.columns === false) {
+    throw new CsvError(
+      "CSV_IGNORE_LAST_DELIMITERS_REQUIRES_COLUMNS",
+      [
+        "The option `ignore_last_delimiters`",
+        "requires the activation of the `columns` option"
+      ],
+      options
+    );
+  }
+  if (options.info === void 0 || options.info === null || options.info === false) {
+    options.info = false;
+  } else if (options.info !== true) {
+    throw new Error(
+      `Invalid Option: info must be true, got ${JSON.stringify(options.info)}`
+    );
+  }
+  if (options.max_record_size === void 0 || options.max_record_size === null || options.max_record_size === false) {
+    options.max_record_size = 0;
+  } else if (Number.isInteger(options.max_record_size) && options.max_record_size >= 0) {
+  } else if (typeof options.max_record_size === "string" && /\d+/.test(options.max_record_size)) {
+    options.max_record_size = parseInt(options.max_record_size);
+  } else {
+    throw new Error(
+      `Invalid Option: max_record_size must be a positive integer, got ${JSON.stringify(options.max_record_size)}`
+    );
+  }
+  if (options.objname === void 0 || options.objname === null || options.objname === false) {
+    options.objname = void 0;
+  } else if (Buffer.isBuffer(options.objname)) {
+    if (options.objname.length === 0) {
+      throw new Error(`Invalid Option: objname must be a non empty buffer`);
+    }
+    if (options.encoding === null) {
+    } else {
+      options.objname = options.objname.toString(options.encoding);
+    }
+  } else if (typeof options.objname === "string") {
+    if (options.objname.length === 0) {
+      throw new Error(`Invalid Option: objname must be a non empty string`);
+    }
+  } else if (typeof options.objname === "number") {
+  } else {
+    throw new Error(
+      `Invalid Option: objname must be a string or a buffer, got ${options.objname}`
+    );
+  }
+  if (options.objname !== void 0) {
+    if (typeof options.objname === "number") {
+      if (options.columns !== false) {
+        throw Error(
+          "Invalid Option: objname index cannot be combined with columns or be defined as a field"
+        );
+      }
+    } else {
+      if (options.columns === false) {
+        throw Error(
+          "Invalid Option: objname field must be combined with columns or be defined as an index"
+        );
+      }
+    }
+  }
+  if (options.on_record === void 0 || options.on_record === null) {
+    options.on_record = void 0;
+  } else if (typeof options.on_record !== "function") {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_ON_RECORD",
+      [
+        "Invalid option `on_record`:",
+        "expect a function,",
+        `got ${JSON.stringify(options.on_record)}`
+      ],
+      options
+    );
+  }
+  if (options.on_skip !== void 0 && options.on_skip !== null && typeof options.on_skip !== "function") {
+    throw new Error(
+      `Invalid Option: on_skip must be a function, got ${JSON.stringify(options.on_skip)}`
+    );
+  }
+  if (options.quote === null || options.quote === false || options.quote === "") {
+    options.quote = null;
+  } else {
+    if (options.quote === void 0 || options.quote === true) {
+      options.quote = Buffer.from('"', options.encoding);
+    } else if (typeof options.quote === "string") {
+      options.quote = Buffer.from(options.quote, options.encoding);
+    }
+    if (!Buffer.isBuffer(options.quote)) {
+      throw new Error(
+        `Invalid Option: quote must be a buffer or a string, got ${JSON.stringify(options.quote)}`
+      );
+    }
+  }
+  if (options.raw === void 0 || options.raw === null || options.raw === false) {
+    options.raw = false;
+  } else if (options.raw !== true) {
+    throw new Error(
+      `Invalid Option: raw must be true, got ${JSON.stringify(options.raw)}`
+    );
+  }
+  if (options.record_delimiter === void 0) {
+    options.record_delimiter = [];
+  } else if (typeof options.record_delimiter === "string" || Buffer.isBuffer(options.record_delimiter)) {
+    if (options.record_delimiter.length === 0) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_RECORD_DELIMITER",
+        [
+          "Invalid option `record_delimiter`:",
+          "value must be a non empty string or buffer,",
+          `got ${JSON.stringify(options.record_delimiter)}`
+        ],
+        options
+      );
+    }
+    options.record_delimiter = [options.record_delimiter];
+  } else if (!Array.isArray(options.record_delimiter)) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_RECORD_DELIMITER",
+      [
+        "Invalid option `record_delimiter`:",
+        "value must be a string, a buffer or array of string|buffer,",
+        `got ${JSON.stringify(options.record_delimiter)}`
+      ],
+      options
+    );
+  }
+  options.record_delimiter = options.record_delimiter.map(function(rd, i) {
+    if (typeof rd !== "string" && !Buffer.isBuffer(rd)) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_RECORD_DELIMITER",
+        [
+          "Invalid option `record_delimiter`:",
+          "value must be a string, a buffer or array of string|buffer",
+          `at index ${i},`,
+          `got ${JSON.stringify(rd)}`
+        ],
+        options
+      );
+    } else if (rd.length === 0) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_RECORD_DELIMITER",
+        [
+          "Invalid option `record_delimiter`:",
+          "value must be a non empty string or buffer",
+          `at index ${i},`,
+          `got ${JSON.stringify(rd)}`
+        ],
+        options
+      );
+    }
+    if (typeof rd === "string") {
+      rd = Buffer.from(rd, options.encoding);
+    }
+    return rd;
+  });
+  if (typeof options.relax_column_count === "boolean") {
+  } else if (options.relax_column_count === void 0 || options.relax_column_count === null) {
+    options.relax_column_count = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_column_count must be a boolean, got ${JSON.stringify(options.relax_column_count)}`
+    );
+  }
+  if (typeof options.relax_column_count_less === "boolean") {
+  } else if (options.relax_column_count_less === void 0 || options.relax_column_count_less === null) {
+    options.relax_column_count_less = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_column_count_less must be a boolean, got ${JSON.stringify(options.relax_column_count_less)}`
+    );
+  }
+  if (typeof options.relax_column_count_more === "boolean") {
+  } else if (options.relax_column_count_more === void 0 || options.relax_column_count_more === null) {
+    options.relax_column_count_more = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_column_count_more must be a boolean, got ${JSON.stringify(options.relax_column_count_more)}`
+    );
+  }
+  if (typeof options.relax_quotes === "boolean") {
+  } else if (options.relax_quotes === void 0 || options.relax_quotes === null) {
+    options.relax_quotes = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_quotes must be a boolean, got ${JSON.stringify(options.relax_quotes)}`
+    );
+  }
+  if (typeof options.skip_empty_lines === "boolean") {
+  } else if (options.skip_empty_lines === void 0 || options.skip_empty_lines === null) {
+    options.skip_empty_lines = false;
+  } else {
+    throw new Error(
+      `Invalid Option: skip_empty_lines must be a boolean, got ${JSON.stringify(options.skip_empty_lines)}`
+    );
+  }
+  if (typeof options.skip_records_with_empty_values === "boolean") {
+  } else if (options.skip_records_with_empty_values === void 0 || options.skip_records_with_empty_values === null) {
+    options.skip_records_with_empty_values = false;
+  } else {
+    throw new Error(
+      `Invalid Option: skip_records_with_empty_values must be a boolean, got ${JSON.stringify(options.skip_records_with_empty_values)}`
+    );
+  }
+  if (typeof options.skip_records_with_error === "boolean") {
+  } else if (options.skip_records_with_error === void 0 || options.skip_records_with_error === null) {
+    options.skip_records_with_error = false;
+  } else {
+    throw new Error(
+      `Invalid Option: skip_records_with_error must be a boolean, got ${JSON.stringify(options.skip_records_with_error)}`
+    );
+  }
+  if (options.rtrim === void 0 || options.rtrim === null || options.rtrim === false) {
+    options.rtrim = false;
+  } else if (options.rtrim !== true) {
+    throw new Error(
+      `Invalid Option: rtrim must be a boolean, got ${JSON.stringify(options.rtrim)}`
+    );
+  }
+  if (options.ltrim === void 0 || options.ltrim === null || options.ltrim === false) {
+    options.ltrim = false;
+  } else if (options.ltrim !== true) {
+    throw new Error(
+      `Invalid Option: ltrim must be a boolean, got ${JSON.stringify(options.ltrim)}`
+    );
+  }
+  if (options.trim === void 0 || options.trim === null || options.trim === false) {
+    options.trim = false;
+  } else if (options.trim !== true) {
+    throw new Error(
+      `Invalid Option: trim must be a boolean, got ${JSON.stringify(options.trim)}`
+    );
+  }
+  if (options.trim === true && opts.ltrim !== false) {
+    options.ltrim = true;
+  } else if (options.ltrim !== true) {
+    options.ltrim = false;
+  }
+  if (options.trim === true && opts.rtrim !== false) {
+    options.rtrim = true;
+  } else if (options.rtrim !== true) {
+    options.rtrim = false;
+  }
+  if (options.to === void 0 || options.to === null) {
+    options.to = -1;
+  } else if (options.to !== -1) {
+    if (typeof options.to === "string" && /\d+/.test(options.to)) {
+      options.to = parseInt(options.to);
+    }
+    if (Number.isInteger(options.to)) {
+      if (options.to <= 0) {
+        throw new Error(
+          `Invalid Option: to must be a positive integer greater than 0, got ${JSON.stringify(opts.to)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: to must be an integer, got ${JSON.stringify(opts.to)}`
+      );
+    }
+  }
+  if (options.to_line === void 0 || options.to_line === null) {
+    options.to_line = -1;
+  } else if (options.to_line !== -1) {
+    if (typeof options.to_line === "string" && /\d+/.test(options.to_line)) {
+      options.to_line = parseInt(options.to_line);
+    }
+    if (Number.isInteger(options.to_line)) {
+      if (options.to_line <= 0) {
+        throw new Error(
+          `Invalid Option: to_line must be a positive integer greater than 0, got ${JSON.stringify(opts.to_line)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: to_line must be an integer, got ${JSON.stringify(opts.to_line)}`
+      );
+    }
+  }
+  return options;
+};
+
+// node_modules/csv-parse/lib/utils/delimiter_discover.js
+var delimiter_discover = function(records, options) {
+  if (!options) {
+    ({ delimiter_auto: options } = normalize_options({ delimiter_auto: true }));
+  }
+  if (typeof records === "string") {
+    records = Buffer.from(records);
+  }
+  if (Buffer.isBuffer(records)) {
+    records = ((data) => {
+      const records2 = [];
+      const parser = transform({ delimiter: [] });
+      const push = (record2) => records2.push(record2);
+      const close = () => {
+      };
+      const error62 = parser.parse(data, true, push, close);
+      if (error62 !== void 0) throw error62;
+      return records2;
+    })(records);
+  }
+  const info = Array(127).fill().map(() => ({ lines: [] }));
+  records.map(([record2], line) => {
+    for (let i = 0, l = record2.length; i < l; i++) {
+      const code2 = record2.charCodeAt(i);
+      if (info[code2].lines[line] === void 0) info[code2].lines[line] = 0;
+      info[code2].lines[line]++;
+    }
+  });
+  info.map((info2, i) => {
+    info2.char_code = i;
+    info2.std = std(info2.lines);
+    info2.total = info2.lines.reduce((acc, val) => acc + val, 0);
+    info2.preferred = !!options.preferred[i];
+    info2.score = options.score(info2, options);
+  });
+  const result = info.reduce(
+    (acc, info2) => acc.score > info2.score ? acc : info2,
+    {}
+  );
+  return String.fromCharCode(result.char_code);
+};
+var std = function(array2) {
+  const n = array2.length;
+  if (n === 0) return 0;
+  const mean3 = array2.reduce((a, b) => a + b) / n;
+  return Math.sqrt(
+    array2.map((x) => Math.pow(x - mean3, 2)).reduce((a, b) => a + b) / n
+  );
+};
+
+// node_modules/csv-parse/lib/api/index.js
+var isRecordEmpty = function(record2) {
+  return record2.every(
+    (field) => field == null || field.toString && field.toString().trim() === ""
+  );
+};
+var cr = 13;
+var nl = 10;
+var boms = {
+  // Note, the following are equals:
+  // Buffer.from("\ufeff")
+  // Buffer.from([239, 187, 191])
+  // Buffer.from('EFBBBF', 'hex')
+  utf8: Buffer.from([239, 187, 191]),
+  // Note, the following are equals:
+  // Buffer.from "\ufeff", 'utf16le
+  // Buffer.from([255, 254])
+  utf16le: Buffer.from([255, 254])
+};
+var transform = function(original_options = {}) {
+  const info = {
+    bytes: 0,
+    bytes_records: 0,
+    comment_lines: 0,
+    empty_lines: 0,
+    invalid_field_length: 0,
+    lines: 1,
+    records: 0
+  };
+  const options = normalize_options(original_options);
+  return {
+    info,
+    original_options,
+    options,
+    state: init_state(options),
+    __needMoreData: function(i, bufLen, end) {
+      if (end) return false;
+      const { encoding, escape, quote } = this.options;
+      const { quoting, needMoreDataSize, recordDelimiterMaxLength } = this.state;
+      const numOfCharLeft = bufLen - i - 1;
+      const requiredLength = Math.max(
+        needMoreDataSize,
+        // Skip if the remaining buffer smaller than record delimiter
+        // If "record_delimiter" is yet to be discovered:
+        // 1. It is equals to `[]` and "recordDelimiterMaxLength" equals `0`
+        // 2. We set the length to windows line ending in the current encoding
+        // Note, that encoding is known from user or bom discovery at that point
+        // recordDelimiterMaxLength,
+        recordDelimiterMaxLength === 0 ? Buffer.from("\r\n", encoding).length : recordDelimiterMaxLength,
+        // Skip if remaining buffer can be an escaped quote
+        quoting ? (escape === null ? 0 : escape.length) + quote.length : 0,
+        // Skip if remaining buffer can be record delimiter following the closing quote
+        quoting ? quote.length + recordDelimiterMaxLength : 0
+      );
+      return numOfCharLeft < requiredLength;
+    },
+    // Central parser implementation
+    parse: function(nextBuf, end, push, close) {
+      const {
+        bom,
+        comment_no_infix,
+        delimiter_auto,
+        encoding,
+        from_line,
+        ltrim,
+        max_record_size,
+        raw,
+        relax_quotes,
+        rtrim,
+        skip_empty_lines,
+        to,
+        to_line
+      } = this.options;
+      let { comment, escape, quote, record_delimiter } = this.options;
+      const {
+        bomSkipped,
+        delimiterDiscovered,
+        delimiterBufPrevious,
+        rawBuffer,
+        escapeIsQuote
+      } = this.state;
+      if (!delimiterDiscovered && delimiter_auto) {
+        let delimiterBuf;
+        if (delimiterBufPrevious === void 0) {
+          delimiterBuf = nextBuf;
+        } else if (delimiterBufPrevious !== void 0 && nextBuf === void 0) {
+          delimiterBuf = delimiterBufPrevious;
+        } else {
+          delimiterBuf = Buffer.concat([delimiterBufPrevious, nextBuf]);
+        }
+        nextBuf = void 0;
+        if (end || delimiterBuf.length > delimiter_auto.size) {
+          this.options.delimiter = [
+            Buffer.from(
+              delimiter_discover(delimiterBuf, this.options.delimiter_auto)
+            )
+          ];
+          this.state.previousBuf = delimiterBuf;
+          this.state.delimiterBufPrevious = void 0;
+          this.state.delimiterDiscovered = true;
+        } else {
+          this.state.delimiterBufPrevious = delimiterBuf;
+          return;
+        }
+      }
+      const { previousBuf } = this.state;
+      let buf;
+      if (previousBuf === void 0) {
+        if (nextBuf === void 0) {
+          close();
+          return;
+        } else {
+          buf = nextBuf;
+        }
+      } else if (previousBuf !== void 0 && nextBuf === void 0) {
+        buf = previousBuf;
+      } else {
+        buf = Buffer.concat([previousBuf, nextBuf]);
+      }
+      if (bomSkipped === false) {
+        if (bom === false) {
+          this.state.bomSkipped = true;
+        } else if (buf.length < 3) {
+          if (end === false) {
+            this.state.previousBuf = buf;
+            return;
+          }
+        } else {
+          for (const encoding2 in boms) {
+            if (boms[encoding2].compare(buf, 0, boms[encoding2].length) === 0) {
+              const bomLength = boms[encoding2].length;
+              this.state.bufBytesStart += bomLength;
+              buf = buf.slice(bomLength);
+              const options2 = normalize_options({
+                ...this.original_options,
+                encoding: encoding2
+              });
+              for (const key2 in options2) {
+                this.options[key2] = options2[key2];
+              }
+              ({ comment, escape, quote } = this.options);
+              break;
+            }
+          }
+          this.state.bomSkipped = true;
+        }
+      }
+      const bufLen = buf.length;
+      let pos;
+      for (pos = 0; pos < bufLen; pos++) {
+        if (this.__needMoreData(pos, bufLen, end)) {
+          break;
+        }
+        if (this.state.wasRowDelimiter === true) {
+          this.info.lines++;
+          this.state.wasRowDelimiter = false;
+        }
+        if (to_line !== -1 && this.info.lines > to_line) {
+          this.state.stop = true;
+          close();
+          return;
+        }
+        if (this.state.quoting === false && record_delimiter.length === 0) {
+          const record_delimiterCount = this.__autoDiscoverRecordDelimiter(
+            buf,
+            pos
+          );
+          if (record_delimiterCount) {
+            record_delimiter = this.options.record_delimiter;
+          }
+        }
+        const chr = buf[pos];
+        if (raw === true) {
+          rawBuffer.append(chr);
+        }
+        if ((chr === cr || chr === nl) && this.state.wasRowDelimiter === false) {
+          this.state.wasRowDelimiter = true;
+        }
+        if (this.state.escaping === true) {
+          this.state.escaping = false;
+        } else {
+          if (escape !== null && this.state.quoting === true && this.__isEscape(buf, pos, chr) && pos + escape.length < bufLen) {
+            if (escapeIsQuote) {
+              if (this.__isQuote(buf, pos + escape.length)) {
+                this.state.escaping = true;
+                pos += escape.length - 1;
+                continue;
+              }
+            } else {
+              this.state.escaping = true;
+              pos += escape.length - 1;
+              continue;
+            }
+          }
+          if (this.state.commenting === false && this.__isQuote(buf, pos)) {
+            if (this.state.quoting === true) {
+              const nextChr = buf[pos + quote.length];
+              const isNextChrTrimable = rtrim && this.__isCharTrimable(buf, pos + quote.length);
+              const isNextChrComment = comment !== null && this.__compareBytes(comment, buf, pos + quote.length, nextChr);
+              const isNextChrDelimiter = this.__isDelimiter(
+                buf,
+                pos + quote.length,
+                nextChr
+              );
+              const isNextChrRecordDelimiter = record_delimiter.length === 0 ? this.__autoDiscoverRecordDelimiter(buf, pos + quote.length) : this.__isRecordDelimiter(nextChr, buf, pos + quote.length);
+              if (escape !== null && this.__isEscape(buf, pos, chr) && this.__isQuote(buf, pos + escape.length)) {
+                pos += escape.length - 1;
+              } else if (!nextChr || isNextChrDelimiter || isNextChrRecordDelimiter || isNextChrComment || isNextChrTrimable) {
+                this.state.quoting = false;
+                this.state.wasQuoting = true;
+                pos += quote.length - 1;
+                continue;
+              } else if (relax_quotes === false) {
+                const err = this.__error(
+                  new CsvError(
+                    "CSV_INVALID_CLOSING_QUOTE",
+                    [
+                      "Invalid Closing Quote:",
+                      `got "${String.fromCharCode(nextChr)}"`,
+                      `at line ${this.info.lines}`,
+                      "instead of delimiter, record delimiter, trimable character",
+                      "(if activated) or comment"
+                    ],
+                    this.options,
+                    this.__infoField()
+                  )
+                );
+                if (err !== void 0) return err;
+              } else {
+                this.state.quoting = false;
+                this.state.wasQuoting = true;
+                this.state.field.prepend(quote);
+                pos += quote.length - 1;
+              }
+            } else {
+              if (this.state.field.length !== 0) {
+                if (relax_quotes === false) {
+                  const info2 = this.__infoField();
+                  const bom2 = Object.keys(boms).map(
+                    (b) => boms[b].equals(this.state.field.toString()) ? b : false
+                  ).filter(Boolean)[0];
+                  const err = this.__error(
+                    new CsvError(
+                      "INVALID_OPENING_QUOTE",
+                      [
+                        "Invalid Opening Quote:",
+                        `a quote is found on field ${JSON.stringify(info2.column)} at line ${info2.lines}, value is ${JSON.stringify(this.state.field.toString(encoding))}`,
+                        bom2 ? `(${bom2} bom)` : void 0
+                      ],
+                      this.options,
+                      info2,
+                      {
+                        field: this.state.field
+                      }
+                    )
+                  );
+                  if (err !== void 0) return err;
+                }
+              } else {
+                this.state.quoting = true;
+                pos += quote.length - 1;
+                continue;
+              }
+            }
+          }
+          if (this.state.quoting === false) {
+            const recordDelimiterLength = this.__isRecordDelimiter(
+              chr,
+              buf,
+              pos
+            );
+            if (recordDelimiterLength !== 0) {
+              const skipCommentLine = this.state.commenting && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0;
+              if (skipCommentLine) {
+                this.info.comment_lines++;
+              } else {
+                if (this.state.enabled === false && this.info.lines + (this.state.wasRowDelimiter === true ? 1 : 0) >= from_line) {
+                  this.state.enabled = true;
+                  this.__resetField();
+                  this.__resetRecord();
+                  pos += recordDelimiterLength - 1;
+                  continue;
+                }
+                if (skip_empty_lines === true && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0) {
+                  this.info.empty_lines++;
+                  pos += recordDelimiterLength - 1;
+                  continue;
+                }
+                this.info.bytes = this.state.bufBytesStart + pos;
+                const errField = this.__onField();
+                if (errField !== void 0) return errField;
+                this.info.bytes = this.state.bufBytesStart + pos + recordDelimiterLength;
+                const errRecord = this.__onRecord(push);
+                if (errRecord !== void 0) return errRecord;
+                if (to !== -1 && this.info.records >= to) {
+                  this.state.stop = true;
+                  close();
+                  return;
+                }
+              }
+              this.state.commenting = false;
+              pos += recordDelimiterLength - 1;
+              continue;
+            }
+            if (this.state.commenting) {
+              continue;
+            }
+            if (comment !== null && (comment_no_infix === false || this.state.record.length === 0 && this.state.field.length === 0)) {
+              const commentCount = this.__compareBytes(comment, buf, pos, chr);
+              if (commentCount !== 0) {
+                this.state.commenting = true;
+                continue;
+              }
+            }
+            const delimiterLength = this.__isDelimiter(buf, pos, chr);
+            if (delimiterLength !== 0) {
+              this.info.bytes = this.state.bufBytesStart + pos;
+              const errField = this.__onField();
+              if (errField !== void 0) return errField;
+              pos += delimiterLength - 1;
+              continue;
+            }
+          }
+        }
+        if (this.state.commenting === false) {
+          if (max_record_size !== 0 && this.state.record_length + this.state.field.length > max_record_size) {
+            return this.__error(
+              new CsvError(
+                "CSV_MAX_RECORD_SIZE",
+                [
+                  "Max Record Size:",
+                  "record exceed the maximum number of tolerated bytes",
+                  `of ${max_record_size}`,
+                  `at line ${this.info.lines}`
+                ],
+                this.options,
+                this.__infoField()
+              )
+            );
+          }
+        }
+        const lappend = ltrim === false || this.state.quoting === true || this.state.field.length !== 0 || !this.__isCharTrimable(buf, pos);
+        const rappend = rtrim === false || this.state.wasQuoting === false;
+        if (lappend === true && rappend === true) {
+          this.state.field.append(chr);
+        } else if (rtrim === true && !this.__isCharTrimable(buf, pos)) {
+          return this.__error(
+            new CsvError(
+              "CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE",
+              [
+                "Invalid Closing Quote:",
+                "found non trimable byte after quote",
+                `at line ${this.info.lines}`
+              ],
+              this.options,
+              this.__infoField()
+            )
+          );
+        } else {
+          if (lappend === false) {
+            pos += this.__isCharTrimable(buf, pos) - 1;
+          }
+          continue;
+        }
+      }
+      if (end === true) {
+        if (this.state.quoting === true) {
+          const err = this.__error(
+            new CsvError(
+              "CSV_QUOTE_NOT_CLOSED",
+              [
+                "Quote Not Closed:",
+                `the parsing is finished with an opening quote at line ${this.info.lines}`
+              ],
+              this.options,
+              this.__infoField()
+            )
+          );
+          if (err !== void 0) return err;
+        } else {
+          if (this.state.wasQuoting === true || this.state.record.length !== 0 || this.state.field.length !== 0) {
+            this.info.bytes = this.state.bufBytesStart + pos;
+            const errField = this.__onField();
+            if (errField !== void 0) return errField;
+            const errRecord = this.__onRecord(push);
+            if (errRecord !== void 0) return errRecord;
+          } else if (this.state.wasRowDelimiter === true) {
+            this.info.empty_lines++;
+          } else if (this.state.commenting === true) {
+            this.info.comment_lines++;
+          }
+        }
+      } else {
+        this.state.bufBytesStart += pos;
+        this.state.previousBuf = buf.slice(pos);
+      }
+      if (this.state.wasRowDelimiter === true) {
+        this.info.lines++;
+        this.state.wasRowDelimiter = false;
+      }
+    },
+    __onRecord: function(push) {
+      const {
+        columns,
+        group_columns_by_name,
+        encoding,
+        info: info2,
+        from,
+        relax_column_count,
+        relax_column_count_less,
+        relax_column_count_more,
+        raw,
+        skip_records_with_empty_values
+      } = this.options;
+      const { enabled, record: record2 } = this.state;
+      if (enabled === false) {
+        return this.__resetRecord();
+      }
+      const recordLength = record2.length;
+      if (columns === true) {
+        if (skip_records_with_empty_values === true && isRecordEmpty(record2)) {
+          this.__resetRecord();
+          return;
+        }
+        return this.__firstLineToColumns(record2);
+      }
+      if (columns === false && this.info.records === 0) {
+        this.state.expectedRecordLength = recordLength;
+      }
+      if (recordLength !== this.state.expectedRecordLength) {
+        const err = columns === false ? new CsvError(
+          "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH",
+          [
+            "Invalid Record Length:",
+            `expect ${this.state.expectedRecordLength},`,
+            `got ${recordLength} on line ${this.info.lines}`
+          ],
+          this.options,
+          this.__infoField(),
+          {
+            record: record2
+          }
+        ) : new CsvError(
+          "CSV_RECORD_INCONSISTENT_COLUMNS",
+          [
+            "Invalid Record Length:",
+            `columns length is ${columns.length},`,
+            // rename columns
+            `got ${recordLength} on line ${this.info.lines}`
+          ],
+          this.options,
+          this.__infoField(),
+          {
+            record: record2
+          }
+        );
+        if (relax_column_count === true || relax_column_count_less === true && recordLength < this.state.expectedRecordLength || relax_column_count_more === true && recordLength > this.state.expectedRecordLength) {
+          this.info.invalid_field_length++;
+          this.state.error = err;
+        } else {
+          const finalErr = this.__error(err);
+          if (finalErr) return finalErr;
+        }
+      }
+      if (skip_records_with_empty_values === true && isRecordEmpty(record2)) {
+        this.__resetRecord();
+        return;
+      }
+      if (this.state.recordHasError === true) {
+        this.__resetRecord();
+        this.state.recordHasError = false;
+        return;
+      }
+      this.info.records++;
+      if (from === 1 || this.info.records >= from) {
+        const { objname } = this.options;
+        if (columns !== false) {
+          const obj = {};
+          for (let i = 0, l = record2.length; i < l; i++) {
+            if (columns[i] === void 0 || columns[i].disabled) continue;
+            if (group_columns_by_name === true && Object.hasOwn(obj, columns[i].name)) {
+              if (Array.isArray(obj[columns[i].name])) {
+                obj[columns[i].name] = obj[columns[i].name].concat(record2[i]);
+              } else {
+                obj[columns[i].name] = [obj[columns[i].name], record2[i]];
+              }
+            } else {
+              Object.defineProperty(obj, columns[i].name, {
+                value: record2[i],
+                enumerable: true,
+                writable: true,
+                configurable: true
+              });
+            }
+          }
+          if (raw === true || info2 === true) {
+            const extRecord = Object.assign(
+              { record: obj },
+              raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
+              info2 === true ? { info: this.__infoRecord() } : {}
+            );
+            const err = this.__push(
+              objname === void 0 ? extRecord : [obj[objname], extRecord],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          } else {
+            const err = this.__push(
+              objname === void 0 ? obj : [obj[objname], obj],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          }
+        } else {
+          if (raw === true || info2 === true) {
+            const extRecord = Object.assign(
+              { record: record2 },
+              raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
+              info2 === true ? { info: this.__infoRecord() } : {}
+            );
+            const err = this.__push(
+              objname === void 0 ? extRecord : [record2[objname], extRecord],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          } else {
+            const err = this.__push(
+              objname === void 0 ? record2 : [record2[objname], record2],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          }
+        }
+      }
+      this.__resetRecord();
+    },
+    __firstLineToColumns: function(record2) {
+      const { firstLineToHeaders } = this.state;
+      try {
+        const headers = firstLineToHeaders === void 0 ? record2 : firstLineToHeaders.call(null, record2);
+        if (!Array.isArray(headers)) {
+          return this.__error(
+            new CsvError(
+              "CSV_INVALID_COLUMN_MAPPING",
+              [
+                "Invalid Column Mapping:",
+                "expect an array from column function,",
+                `got ${JSON.stringify(headers)}`
+              ],
+              this.options,
+              this.__infoField(),
+              {
+                headers
+              }
+            )
+          );
+        }
+        const normalizedHeaders = normalize_columns_array(headers);
+        this.state.expectedRecordLength = normalizedHeaders.length;
+        this.options.columns = normalizedHeaders;
+        this.__resetRecord();
+        return;
+      } catch (err) {
+        return err;
+      }
+    },
+    __resetRecord: function() {
+      if (this.options.raw === true) {
+        this.state.rawBuffer.reset();
+      }
+      this.state.error = void 0;
+      this.state.record = [];
+      this.state.record_length = 0;
+    },
+    __onField: function() {
+      const { cast, encoding, rtrim, max_record_size } = this.options;
+      const { enabled, wasQuoting } = this.state;
+      if (enabled === false) {
+        return this.__resetField();
+      }
+      let field = this.state.field.toString(encoding);
+      if (rtrim === true && wasQuoting === false) {
+        field = field.trimRight();
+      }
+      if (cast === true) {
+        const [err, f] = this.__cast(field);
+        if (err !== void 0) return err;
+        field = f;
+      }
+      this.state.record.push(field);
+      if (max_record_size !== 0 && typeof field === "string") {
+        this.state.record_length += field.length;
+      }
+      this.__resetField();
+    },
+    __resetField: function() {
+      this.state.field.reset();
+      this.state.wasQuoting = false;
+    },
+    __push: function(record2, push) {
+      const { on_record } = this.options;
+      if (on_record !== void 0) {
+        const info2 = this.__infoRecord();
+        try {
+          record2 = on_record.call(null, record2, info2);
+        } catch (err) {
+          return err;
+        }
+        if (record2 === void 0 || record2 === null) {
+          return;
+        }
+      }
+      this.info.bytes_records += this.info.bytes;
+      push(record2);
+    },
+    // Return a tuple with the error and the casted value
+    __cast: function(field) {
+      const { columns, relax_column_count } = this.options;
+      const isColumns = Array.isArray(columns);
+      if (isColumns === true && relax_column_count && this.options.columns.length <= this.state.record.length) {
+        return [void 0, void 0];
+      }
+      if (this.state.castField !== null) {
+        try {
+          const info2 = this.__infoField();
+          return [void 0, this.state.castField.call(null, field, info2)];
+        } catch (err) {
+          return [err];
+        }
+      }
+      if (this.__isFloat(field)) {
+        return [void 0, parseFloat(field)];
+      } else if (this.options.cast_date !== false) {
+        const info2 = this.__infoField();
+        return [void 0, this.options.cast_date.call(null, field, info2)];
+      }
+      return [void 0, field];
+    },
+    __compareBytes: function(sourceBuf, targetBuf, targetPos, firstByte) {
+      if (sourceBuf[0] !== firstByte) return 0;
+      const sourceLength = sourceBuf.length;
+      for (let i = 1; i < sourceLength; i++) {
+        if (sourceBuf[i] !== targetBuf[targetPos + i]) return 0;
+      }
+      return sourceLength;
+    },
+    // Helper to test if a character is trimable
+    __isCharTrimable: function(buf, pos) {
+      const { timchars, timcharFirstBytes } = this.state;
+      const first = buf[pos];
+      if (first === void 0 || timcharFirstBytes[first] === 0) return 0;
+      loop1: for (let i = 0; i < timchars.length; i++) {
+        const timchar = timchars[i];
+        for (let j = 0; j < timchar.length; j++) {
+          if (timchar[j] !== buf[pos + j]) continue loop1;
+        }
+        return timchar.length;
+      }
+      return 0;
+    },
+    __isDelimiter: function(buf, pos, chr) {
+      const { delimiter, ignore_last_delimiters } = this.options;
+      if (ignore_last_delimiters === true && this.state.record.length === this.options.columns.length - 1) {
+        return 0;
+      } else if (ignore_last_delimiters !== false && typeof ignore_last_delimiters === "number" && this.state.record.length === ignore_last_delimiters - 1) {
+        return 0;
+      }
+      loop1: for (let i = 0; i < delimiter.length; i++) {
+        const del = delimiter[i];
+        if (del[0] === chr) {
+          for (let j = 1; j < del.length; j++) {
+            if (del[j] !== buf[pos + j]) continue loop1;
+          }
+          return del.length;
+        }
+      }
+      return 0;
+    },
+    __isEscape: function(buf, pos, chr) {
+      const { escape } = this.options;
+      if (escape === null) return false;
+      const l = escape.length;
+      if (escape[0] === chr) {
+        for (let i = 0; i < l; i++) {
+          if (escape[i] !== buf[pos + i]) {
+            return false;
+          }
+        }
+        return true;
+      }
+      return false;
+    },
+    __isFloat: function(value) {
+      return value - parseFloat(value) + 1 >= 0;
+    },
+    // Keep it in case we implement the `cast_int` option
+    // __isInt(value){
+    //   // return Number.isInteger(parseInt(value))
+    //   // return !isNaN( parseInt( obj ) );
+    //   return /^(\-|\+)?[1-9][0-9]*$/.test(value)
+    // }
+    __isQuote: function(buf, pos) {
+      const { quote } = this.options;
+      if (quote === null) return false;
+      const l = quote.length;
+      for (let i = 0; i < l; i++) {
+        if (quote[i] !== buf[pos + i]) {
+          return false;
+        }
+      }
+      return true;
+    },
+    __isRecordDelimiter: function(chr, buf, pos) {
+      const { record_delimiter } = this.options;
+      const recordDelimiterLength = record_delimiter.length;
+      loop1: for (let i = 0; i < recordDelimiterLength; i++) {
+        const rd = record_delimiter[i];
+        const rdLength = rd.length;
+        if (rd[0] !== chr) {
+          continue;
+        }
+        for (let j = 1; j < rdLength; j++) {
+          if (rd[j] !== buf[pos + j]) {
+            continue loop1;
+          }
+        }
+        return rd.length;
+      }
+      return 0;
+    },
+    __autoDiscoverRecordDelimiter: function(buf, pos) {
+      const { encoding } = this.options;
+      const rds = [
+        // Important, the windows line ending must be before mac os 9
+        Buffer.from("\r\n", encoding),
+        Buffer.from("\n", encoding),
+        Buffer.from("\r", encoding)
+      ];
+      loop: for (let i = 0; i < rds.length; i++) {
+        const l = rds[i].length;
+        for (let j = 0; j < l; j++) {
+          if (rds[i][j] !== buf[pos + j]) {
+            continue loop;
+          }
+        }
+        this.options.record_delimiter.push(rds[i]);
+        this.state.recordDelimiterMaxLength = rds[i].length;
+        return rds[i].length;
+      }
+      return 0;
+    },
+    __error: function(msg) {
+      const { encoding, raw, skip_records_with_error } = this.options;
+      const err = typeof msg === "string" ? new Error(msg) : msg;
+      if (skip_records_with_error) {
+        this.state.recordHasError = true;
+        if (this.options.on_skip !== void 0) {
+          try {
+            this.options.on_skip(
+              err,
+              raw ? this.state.rawBuffer.toString(encoding) : void 0
+            );
+          } catch (err2) {
+            return err2;
+          }
+        }
+        return void 0;
+      } else {
+        return err;
+      }
+    },
+    __infoDataSet: function() {
+      return {
+        ...this.info,
+        columns: this.options.columns
+      };
+    },
+    __infoRecord: function() {
+      const { columns, raw, encoding } = this.options;
+      return {
+        ...this.__infoDataSet(),
+        bytes_records: this.info.bytes,
+        error: this.state.error,
+        header: columns === true,
+        index: this.state.record.length,
+        raw: raw ? this.state.rawBuffer.toString(encoding) : void 0
+      };
+    },
+    __infoField: function() {
+      const { columns } = this.options;
+      const isColumns = Array.isArray(columns);
+      const bytes_records = this.info.bytes_records;
+      return {
+        ...this.__infoRecord(),
+        bytes_records,
+        column: isColumns === true ? columns.length > this.state.record.length ? columns[this.state.record.length].name : null : this.state.record.length,
+        quoting: this.state.wasQuoting
+      };
+    }
+  };
+};
+
+// node_modules/csv-parse/lib/sync.js
+var parse = function(data, opts = {}) {
+  if (typeof data === "string") {
+    data = Buffer.from(data);
+  }
+  const records = opts && opts.objname ? /* @__PURE__ */ Object.create(null) : [];
+  const parser = transform(opts);
+  const push = (record2) => {
+    if (parser.options.objname === void 0) records.push(record2);
+    else {
+      records[record2[0]] = record2[1];
+    }
+  };
+  const close = () => {
+  };
+  const error62 = parser.parse(data, true, push, close);
+  if (error62 !== void 0) throw error62;
+  return records;
+};
+
+// src/core/data/parse-csv.ts
+function schemaOf(dataset) {
+  const target = dataset.target;
+  return {
+    source: dataset.source,
+    features: dataset.features,
+    ...dataset.ids ? { idColumn: dataset.ids.name } : {},
+    ...target ? { target: { name: target.name, task: target.classes ? "binary" : "regression", ...target.classes ? { classes: target.classes } : {} } } : {}
+  };
+}
+var MISSING_TOKENS = /* @__PURE__ */ new Set(["", "na", "nan", "null"]);
+var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+var LINE_NOTE = "(the header is line 1)";
+function parseCsv(text2, options) {
+  const { source } = options;
+  const { header, rows, lineOf } = readRecords(text2, source);
+  const columnIndex = checkHeader(header, source);
+  const plan = options.schema ? planFromSchema(options, header, columnIndex) : planFromRoles(options, header, columnIndex, rows);
+  const cells = (column) => rows.map((row) => row[column].trim());
+  const features = [];
+  const columns = [];
+  const missing = [];
+  const unseen = {};
+  for (const feature of plan.features) {
+    const values = cells(feature.column);
+    const column = new Float64Array(values.length);
+    let missingCount = 0;
+    let unseenCount = 0;
+    let categories = feature.categories;
+    if (feature.kind === "categorical" && !categories) {
+      categories = [...new Set(values.filter((v) => !isMissing(v)))].sort(compareText);
+    }
+    const code2 = new Map(categories?.map((c, i) => [c, i]));
+    for (let i = 0; i < values.length; i++) {
+      const v = values[i];
+      if (isMissing(v)) {
+        column[i] = NaN;
+        missingCount++;
+      } else if (feature.kind === "numeric") {
+        column[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), feature.name, v, plan.numericReason);
+      } else {
+        const c = code2.get(v);
+        if (c === void 0) unseenCount++;
+        column[i] = c ?? NaN;
+      }
+    }
+    features.push(categories ? { name: feature.name, kind: "categorical", categories } : { name: feature.name, kind: "numeric" });
+    columns.push(column);
+    missing.push(missingCount);
+    if (unseenCount > 0) unseen[feature.name] = unseenCount;
+  }
+  const dataset = { source, rows: rows.length, features, columns, missing };
+  if (plan.target) dataset.target = readTarget(source, plan.target, cells(plan.target.column), lineOf, options.schema?.source);
+  if (plan.idColumn !== void 0) dataset.ids = { name: header[plan.idColumn].trim(), values: cells(plan.idColumn) };
+  if (options.schema) {
+    dataset.unseenCategories = unseen;
+    dataset.extraColumns = plan.extraColumns;
+  }
+  return dataset;
+}
+function isMissing(value) {
+  return MISSING_TOKENS.has(value.toLowerCase());
+}
+function parseNumber(value) {
+  if (!NUMBER.test(value)) return void 0;
+  const x = Number(value);
+  return Number.isFinite(x) ? x : void 0;
+}
+function compareText(a, b) {
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+function show(value) {
+  const flat = value.replace(/\r\n|\r|\n/g, "\\n");
+  return `'${flat.length > 40 ? `${flat.slice(0, 40)}…` : flat}'`;
+}
+function listNames(names, limit) {
+  const shown = names.slice(0, limit).map(show).join(", ");
+  return names.length > limit ? `${shown} and ${names.length - limit} more` : shown;
+}
+function count(n, noun) {
+  return `${n} ${noun}${n === 1 ? "" : "s"}`;
+}
+function at(source, line, column) {
+  return `${source}, line ${line} ${LINE_NOTE}${column === void 0 ? "" : `, column ${show(column)}`}`;
+}
+function failNotNumeric(source, line, column, value, reason) {
+  throw new UserError(
+    `${at(source, line, column)}: ${show(value)} is not a number, but ${reason}.`,
+    "Correct the value, or write NA or leave the cell empty if it is missing."
+  );
+}
+function readRecords(text2, source) {
+  if (text2.replace(/^\uFEFF/, "").trim() === "") {
+    throw new UserError(`${source} is empty.`, "Write the column names on the first line and one row per example below it.");
+  }
+  const ends = [];
+  let records;
+  try {
+    records = parse(text2, {
+      bom: true,
+      relax_column_count: true,
+      record_delimiter: ["\r\n", "\n", "\r"],
+      on_record: (record2, context) => {
+        ends.push(context.bytes);
+        return record2;
+      }
+    });
+  } catch (error62) {
+    if (!(error62 instanceof CsvError)) throw error62;
+    const line = lineAtByte(text2, ends.length === 0 ? 0 : ends[ends.length - 1]);
+    throw new UserError(
+      `${at(source, line)}: ${describeCsvError(error62)}.`,
+      'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
+    );
+  }
+  const starts = [0, ...ends.slice(0, -1)];
+  const kept = [];
+  for (let r = 0; r < records.length; r++) {
+    if (!(records[r].length === 1 && records[r][0].trim() === "")) kept.push(r);
+  }
+  const [headerRecord, ...dataRecords] = kept;
+  if (dataRecords.length === 0) {
+    throw new UserError(`${source} has a header line but no data rows.`, "Add data rows below the header, or check that the path names the right file.");
+  }
+  if (headerRecord !== 0) {
+    throw new UserError(`${source} starts with a blank line.`, "Put the column names on the first line.");
+  }
+  const header = records[headerRecord];
+  const rows = dataRecords.map((r) => records[r]);
+  const lineOf = (row) => lineAtByte(text2, starts[dataRecords[row]]);
+  for (let i = 0; i < rows.length; i++) {
+    if (rows[i].length !== header.length) {
+      throw new UserError(
+        `${at(source, lineOf(i))}: the row has ${count(rows[i].length, "field")}, the header has ${header.length}.`,
+        "Give every row one field per header column; enclose a field that holds a comma in double quotes."
+      );
+    }
+  }
+  return { header, rows, lineOf };
+}
+function describeCsvError(error62) {
+  switch (error62.code) {
+    case "CSV_QUOTE_NOT_CLOSED":
+      return "a quoted field that starts in this row is never closed";
+    case "CSV_INVALID_CLOSING_QUOTE":
+      return "a closing quote is followed by other characters";
+    case "INVALID_OPENING_QUOTE":
+      return "a quote appears inside a field that does not start with one";
+    default:
+      return `the CSV cannot be read (${error62.message})`;
+  }
+}
+function lineAtByte(text2, byteOffset) {
+  const bytes = new TextEncoder().encode(text2);
+  let line = 1;
+  for (let b = 0; b < byteOffset && b < bytes.length; b++) {
+    if (bytes[b] === 10 || bytes[b] === 13 && bytes[b + 1] !== 10) line++;
+  }
+  return line;
+}
+function checkHeader(header, source) {
+  const index = /* @__PURE__ */ new Map();
+  header.forEach((raw, j) => {
+    const name = raw.trim();
+    if (name === "") {
+      throw new UserError(`${source}, line 1: column ${j + 1} of the header has no name.`, "Name every column on the first line, or delete the unnamed column.");
+    }
+    const earlier = index.get(name);
+    if (earlier !== void 0) {
+      throw new UserError(
+        `${source}, line 1: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
+        "Give every column its own name."
+      );
+    }
+    index.set(name, j);
+  });
+  return index;
+}
+function failMissingTarget(source, name, header) {
+  throw new UserError(
+    `${source} has no target column ${show(name)}. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
+    `Add the column ${show(name)} to the file, or name one of its columns as the target.`
+  );
+}
+function failNoTargetNamed(source) {
+  throw new UserError(`${source}: no target column was named.`, "Name the column that holds the outcome to predict as the target.");
+}
+function planFromRoles(options, header, columnIndex, rows) {
+  const { source } = options;
+  const roles = options.roles ?? {};
+  const declared = (role) => Object.keys(roles).filter((name) => roles[name] === role);
+  const roleTargets = declared("target");
+  const idNames = declared("id");
+  if (roleTargets.length > 1) {
+    throw new UserError(`${source}: only one column can be the target, but ${listNames(roleTargets, 5)} have the role 'target'.`, "Keep the role 'target' on one column.");
+  }
+  if (idNames.length > 1) {
+    throw new UserError(`${source}: only one column can be the id, but ${listNames(idNames, 5)} have the role 'id'.`, "Keep the role 'id' on one column.");
+  }
+  if (options.target !== void 0 && roleTargets.length === 1 && roleTargets[0] !== options.target) {
+    throw new UserError(
+      `${source}: the target is ${show(options.target)}, but the column ${show(roleTargets[0])} has the role 'target'.`,
+      "Name the same column in both places, or only in one."
+    );
+  }
+  const targetName = options.target ?? roleTargets[0];
+  if (targetName !== void 0 && roles[targetName] !== void 0 && roles[targetName] !== "target") {
+    throw new UserError(
+      `${source}: the column ${show(targetName)} is the target, but it also has the role '${roles[targetName]}'.`,
+      "Delete the other role of the target column."
+    );
+  }
+  for (const name of Object.keys(roles)) {
+    if (name !== targetName && !columnIndex.has(name)) {
+      throw new UserError(
+        `${source} has no column ${show(name)}, which has the role '${roles[name]}'. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
+        "Correct the column name, or delete its role."
+      );
+    }
+  }
+  const targetColumn = targetName === void 0 ? void 0 : columnIndex.get(targetName);
+  if (options.requireTarget ?? true) {
+    if (targetName === void 0) failNoTargetNamed(source);
+    if (targetColumn === void 0) failMissingTarget(source, targetName, header);
+  }
+  const features = [];
+  header.forEach((raw, column) => {
+    const name = raw.trim();
+    const role = roles[name] ?? (name === targetName ? "target" : void 0);
+    if (role === "numeric" || role === "categorical") features.push({ name, column, kind: role });
+    else if (role === void 0) {
+      const isNumeric = rows.every((row) => {
+        const v = row[column].trim();
+        return isMissing(v) || parseNumber(v) !== void 0;
+      });
+      features.push({ name, column, kind: isNumeric ? "numeric" : "categorical" });
+    }
+  });
+  return {
+    features,
+    ...idNames.length === 1 ? { idColumn: columnIndex.get(idNames[0]) } : {},
+    ...targetName !== void 0 && targetColumn !== void 0 ? { target: { name: targetName, column: targetColumn, ...options.task ? { task: options.task } : {} } } : {},
+    extraColumns: [],
+    numericReason: "the column is declared numeric"
+  };
+}
+function planFromSchema(options, header, columnIndex) {
+  const schema = options.schema;
+  const { source } = options;
+  const needed = [...schema.features.map((f) => f.name), ...schema.idColumn === void 0 ? [] : [schema.idColumn]];
+  const absent = needed.filter((name) => !columnIndex.has(name));
+  if (absent.length > 0) {
+    throw new UserError(
+      `${source} lacks the column${absent.length > 1 ? "s" : ""} ${listNames(absent, 20)} that ${schema.source} has.`,
+      `Add ${absent.length > 1 ? "them" : "it"}: a file read alongside ${schema.source} needs its feature and id columns.`
+    );
+  }
+  const target = schema.target;
+  const targetColumn = target === void 0 ? void 0 : columnIndex.get(target.name);
+  if (options.requireTarget ?? true) {
+    if (target === void 0) failNoTargetNamed(source);
+    if (targetColumn === void 0) failMissingTarget(source, target.name, header);
+  }
+  const known = /* @__PURE__ */ new Set([...needed, ...target ? [target.name] : []]);
+  const extraColumns = header.map((h) => h.trim()).filter((name) => !known.has(name) && options.roles?.[name] !== "ignore");
+  return {
+    features: schema.features.map((f) => ({ name: f.name, column: columnIndex.get(f.name), kind: f.kind, ...f.categories ? { categories: f.categories } : {} })),
+    ...schema.idColumn === void 0 ? {} : { idColumn: columnIndex.get(schema.idColumn) },
+    ...target && targetColumn !== void 0 ? { target: { ...target, column: targetColumn } } : {},
+    extraColumns,
+    numericReason: `the column is numeric in ${schema.source}`
+  };
+}
+var NATURAL_NEGATIVES = /* @__PURE__ */ new Map([
+  ["0", "1"],
+  ["false", "true"],
+  ["no", "yes"]
+]);
+function orderClasses(a, b) {
+  if (NATURAL_NEGATIVES.get(a.toLowerCase()) === b.toLowerCase()) return [a, b];
+  if (NATURAL_NEGATIVES.get(b.toLowerCase()) === a.toLowerCase()) return [b, a];
+  const x = parseNumber(a);
+  const y = parseNumber(b);
+  if (x !== void 0 && y !== void 0 && x !== y) return x < y ? [a, b] : [b, a];
+  return compareText(a, b) < 0 ? [a, b] : [b, a];
+}
+function readTarget(source, plan, values, lineOf, schemaSource) {
+  const column = plan.name;
+  values.forEach((v, i) => {
+    if (isMissing(v)) {
+      throw new UserError(
+        `${at(source, lineOf(i), column)}: the target is missing (${v === "" ? "the cell is empty" : `the cell is ${show(v)}`}).`,
+        "Fill in the target or delete the row: a row without a target cannot be scored."
+      );
+    }
+  });
+  const distinct = [...new Set(values)];
+  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => parseNumber(v) !== void 0) ? "binary" : "regression");
+  if (task === "regression") {
+    const out2 = new Float64Array(values.length);
+    values.forEach((v, i) => {
+      out2[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), column, v, "the target of a regression must be one");
+    });
+    return { name: column, values: out2 };
+  }
+  let classes = plan.classes;
+  if (classes === void 0) {
+    if (distinct.length === 1) {
+      throw new UserError(
+        `${source}, column ${show(column)}: a binary target needs two classes, but every row has ${show(distinct[0])}.`,
+        "Check that the file holds rows of both outcomes and that the right column is the target."
+      );
+    }
+    if (distinct.length > 2) {
+      throw new UserError(
+        `${source}, column ${show(column)}: a binary target needs exactly two classes, found ${distinct.length}: ${listNames(distinct, 5)}.`,
+        "Write the target with two values, or choose the regression task if it is a number."
+      );
+    }
+    classes = orderClasses(distinct[0], distinct[1]);
+  }
+  const out = new Float64Array(values.length);
+  values.forEach((v, i) => {
+    if (v === classes[1]) out[i] = 1;
+    else if (v === classes[0]) out[i] = 0;
+    else {
+      throw new UserError(
+        `${at(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
+        `Use the same two class labels as ${schemaSource}.`
+      );
+    }
+  });
+  return { name: column, values: out, classes };
+}
 
 // src/core/statistics/random.ts
 function splitmix32(state) {
@@ -20187,9 +19661,6 @@ function assembleSideData(config2, tables) {
   if (!reference) throw new RangeError("assembleSideData needs the reference table the policy names");
   return { train: train3, holdout, reference };
 }
-
-// src/adapters/check/run-check.ts
-init_errors();
 
 // src/core/policy/parse-policy.ts
 var import_yaml = __toESM(require_dist(), 1);
@@ -39922,8 +39393,71 @@ function formatKeyPath(path) {
   return text2;
 }
 
+// src/core/policy/policy-defaults.ts
+function deepFreeze(value) {
+  if (value !== null && typeof value === "object") {
+    for (const inner of Object.values(value)) deepFreeze(inner);
+    Object.freeze(value);
+  }
+  return value;
+}
+var defaultTopLevel = deepFreeze({ seed: 1 });
+var defaultData = deepFreeze({
+  reference: { kind: "train" },
+  split: { fraction: 0.2 }
+});
+var defaultPrepare = deepFreeze({ timeoutSeconds: 600 });
+var defaultBoosting = deepFreeze({
+  trees: 200,
+  maxDepth: 4,
+  learningRate: 0.1,
+  minRowsPerLeaf: 20,
+  l2: 1,
+  rowSubsample: 0.8,
+  columnSubsample: 0.8,
+  maxBins: 255
+});
+var defaultTrainCommand = deepFreeze({ timeoutSeconds: 1800, parallel: 2 });
+var metricTasks = deepFreeze({
+  auc: "binary",
+  "log-loss": "binary",
+  accuracy: "binary",
+  brier: "binary",
+  rmse: "regression",
+  mae: "regression",
+  r2: "regression"
+});
+var defaultMetric = deepFreeze({
+  binary: "log-loss",
+  regression: "rmse"
+});
+var defaultImportance = deepFreeze({
+  draws: 5,
+  refits: 5,
+  referenceRows: 1e4,
+  evaluationRows: 2e4
+});
+var defaultChecks = deepFreeze({
+  leakage: {
+    action: "block",
+    dominanceShare: 0.5,
+    runnerUpRatio: 3,
+    singleFeaturePower: 0.99,
+    relativePower: 0.8
+  },
+  rankShift: {
+    action: "warn",
+    falseDiscoveryRate: 0.05,
+    minPositions: 2,
+    agreementPercentile: 5
+  },
+  score: { action: "block", tolerance: 0, alpha: 0.05 },
+  holdoutRows: { action: "block" }
+});
+var defaultReport = deepFreeze({ maxTableRows: 50 });
+var uint32Max = 2 ** 32 - 1;
+
 // src/core/policy/policy-schema.ts
-init_policy_defaults();
 function rule(ctx, path, message, fix, at3, pointAtValue) {
   const params = { kind: "rule", fix, ...at3 ? { at: at3 } : {}, ...pointAtValue ? { pointAtValue } : {} };
   ctx.addIssue({ code: "custom", message, path, params });
@@ -40220,9 +39754,6 @@ function toGateConfig(policy) {
   });
 }
 var policySchema = documentSchema.superRefine(checkAcrossSections).transform(toGateConfig);
-
-// src/core/policy/parse-policy.ts
-init_errors();
 
 // src/core/policy/describe-policy-key.ts
 function unwrap(schema) {
@@ -40613,7 +40144,6 @@ function alignHoldout(base, head) {
 }
 
 // src/core/gate/gate-settings.ts
-init_policy_defaults();
 var fixedSettings = {
   minRelativeChange: 0.2,
   persistence: 0.9,
@@ -40690,9 +40220,6 @@ function gateSettings(config2) {
 function snakeKeys(values) {
   return Object.fromEntries(Object.entries(values).map(([key2, value]) => [key2.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value]));
 }
-
-// src/core/statistics/normal-quantile.ts
-init_errors();
 
 // node_modules/simple-statistics/dist/simple-statistics.mjs
 function sum(x) {
@@ -40903,11 +40430,7 @@ PerceptronModel.prototype.train = function train2(features, label) {
   return this;
 };
 
-// src/core/statistics/regularized-incomplete-gamma.ts
-init_errors();
-
 // src/core/statistics/continued-fraction.ts
-init_errors();
 function continuedFraction(leading, numerator, denominator, limits) {
   const tiny = 1e-300;
   let value = leading === 0 ? tiny : leading;
@@ -40986,9 +40509,6 @@ function normalQuantile(p) {
   }
   throw new InternalError(`normalQuantile: Newton iteration did not converge for p = ${p}`);
 }
-
-// src/core/statistics/student-t-quantile.ts
-init_errors();
 
 // src/core/statistics/log-beta.ts
 function logBeta(a, b) {
@@ -41572,9 +41092,6 @@ function assignBins(column, edges) {
   }
   return out;
 }
-
-// src/core/models/gbt/fit-boosted.ts
-init_errors();
 
 // src/core/models/gbt/replacement-predictor.ts
 function createTreeReplacementPredictor(ensemble, base) {
@@ -42371,7 +41888,6 @@ function solvePositiveDefinite(matrix, rhs, size) {
 }
 
 // src/core/models/linear/build-standardized-design.ts
-init_errors();
 function buildStandardizedDesign(caller, task, matrix, target, options) {
   const { positions, features, y } = resolveTrainingSubset(
     caller,
@@ -43474,9 +42990,6 @@ function createStopwatch(now) {
   };
 }
 
-// src/core/metrics/metric-by-name.ts
-init_errors();
-
 // src/core/metrics/accuracy.ts
 function accuracy(y, p, options = {}) {
   checkPaired("accuracy", y, p, "binary");
@@ -43717,8 +43230,6 @@ async function runGate(inputs) {
 }
 
 // src/adapters/files/read-dataset.ts
-init_parse_csv();
-init_errors();
 import { readFile } from "node:fs/promises";
 import { resolve } from "node:path";
 async function readDataset(path, options = {}) {
@@ -43739,11 +43250,95 @@ async function readDataset(path, options = {}) {
   return parseCsv(text2, { ...parseOptions, source });
 }
 
-// src/adapters/check/run-check.ts
-init_git();
+// src/adapters/git/git.ts
+import { execFile } from "node:child_process";
+import { mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { promisify } from "node:util";
+var exec = promisify(execFile);
+async function git(cwd, args, what) {
+  try {
+    const { stdout } = await exec("git", args, { cwd, maxBuffer: 64 * 1024 * 1024 });
+    return stdout.trim();
+  } catch (error62) {
+    const detail = error62.stderr?.trim() || error62.message;
+    throw new UserError(`git could not ${what}: ${detail}`, `Run plumbline inside a git repository with the refs you name (git ${args.join(" ")}).`);
+  }
+}
+async function repositoryRoot(cwd) {
+  try {
+    const { stdout } = await exec("git", ["rev-parse", "--show-toplevel"], { cwd });
+    return stdout.trim();
+  } catch {
+    throw new UserError(
+      `${cwd} is not inside a git repository.`,
+      "plumbline compares a base and a head commit: run it from a clone of your repository."
+    );
+  }
+}
+async function resolveCommit(root2, ref, flag) {
+  try {
+    const { stdout } = await exec("git", ["rev-parse", "--verify", "--quiet", `${ref}^{commit}`], { cwd: root2 });
+    return stdout.trim();
+  } catch {
+    throw new UserError(
+      `${flag} '${ref}' does not name a commit in ${root2}.`,
+      `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.`
+    );
+  }
+}
+async function defaultBase(root2) {
+  const candidates = [];
+  try {
+    const { stdout } = await exec("git", ["symbolic-ref", "--quiet", "refs/remotes/origin/HEAD"], { cwd: root2 });
+    candidates.push(stdout.trim().replace(/^refs\/remotes\//, ""));
+  } catch {
+  }
+  candidates.push("origin/main", "origin/master", "main", "master");
+  for (const name of candidates) {
+    try {
+      const { stdout } = await exec("git", ["merge-base", "HEAD", name], { cwd: root2 });
+      return { ref: `merge-base(HEAD, ${name})`, commit: stdout.trim() };
+    } catch {
+    }
+  }
+  throw new UserError(
+    "Could not find the default branch to compare against (tried origin/HEAD, origin/main, origin/master, main, master).",
+    "Name the baseline explicitly with --base REF (for example --base main~1), or the action's 'base' input."
+  );
+}
+async function addWorktree(root2, commit) {
+  const parent = await mkdtemp(join(tmpdir(), "plumbline-side-"));
+  const path = join(parent, "tree");
+  await git(root2, ["worktree", "add", "--detach", "--quiet", path, commit], `check out ${commit.slice(0, 12)} into a worktree`).catch(
+    async (error62) => {
+      await rm(parent, { recursive: true, force: true });
+      throw error62;
+    }
+  );
+  return {
+    path,
+    remove: async () => {
+      try {
+        await exec("git", ["worktree", "remove", "--force", path], { cwd: root2 });
+      } catch {
+      }
+      await rm(parent, { recursive: true, force: true });
+      await exec("git", ["worktree", "prune"], { cwd: root2 }).catch(() => void 0);
+    }
+  };
+}
+async function readFileAtCommit(root2, commit, path) {
+  try {
+    const { stdout } = await exec("git", ["show", `${commit}:${path}`], { cwd: root2, maxBuffer: 16 * 1024 * 1024 });
+    return stdout;
+  } catch {
+    return null;
+  }
+}
 
 // src/adapters/check/run-prepare.ts
-init_errors();
 import { spawn } from "node:child_process";
 var TAIL_LINES = 40;
 async function runPrepare(options) {
@@ -43784,13 +43379,11 @@ ${tail || "(no output)"}`,
 }
 
 // src/adapters/check/load-side-model.ts
-init_errors();
 import { readdir, readFile as readFile3 } from "node:fs/promises";
 import { basename, dirname, join as join3, resolve as resolve2 } from "node:path";
 
 // src/adapters/onnx/load-onnx-model.ts
 var import_onnxruntime_node = __toESM(require_dist2(), 1);
-init_errors();
 
 // src/core/models/onnx-proto.ts
 var import_protobufjs = __toESM(require_protobufjs(), 1);
@@ -44249,7 +43842,6 @@ function describeColumns(features) {
 }
 
 // src/adapters/training/create-command-fit.ts
-init_errors();
 import { mkdtemp as mkdtemp2, rm as rm3 } from "node:fs/promises";
 import { tmpdir as tmpdir2 } from "node:os";
 import { join as join2 } from "node:path";
@@ -44282,7 +43874,6 @@ function createSemaphore(limit) {
 }
 
 // src/adapters/training/run-training-command.ts
-init_errors();
 import { spawn as spawn2 } from "node:child_process";
 import { readFile as readFile2, rm as rm2, stat } from "node:fs/promises";
 import { performance as performance2 } from "node:perf_hooks";
@@ -44571,7 +44162,6 @@ async function resolveModelPath(checkout, pattern, sideName) {
 var toolVersion = "0.1.0";
 
 // src/adapters/parallel/measure-in-worker.ts
-init_errors();
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
 function createParallelMeasure(environment) {
@@ -44690,7 +44280,6 @@ function toRepoPath(path) {
 }
 
 // src/adapters/cli/args.ts
-init_errors();
 import { parseArgs } from "node:util";
 var usage = {
   top: `plumbline: a pull-request gate for model features.
@@ -44793,6 +44382,249 @@ function parse4(args, command, options) {
   }
 }
 
+// src/adapters/cli/init.ts
+import { access, mkdir, readFile as readFile5, readdir as readdir2, writeFile } from "node:fs/promises";
+import { dirname as dirname2, join as join5, resolve as resolve4 } from "node:path";
+
+// src/core/policy/render-starter-policy.ts
+var labelNames = ["target", "label", "y", "outcome"];
+function nameTokens(name) {
+  return name.replace(/([a-z0-9])([A-Z])/g, "$1 $2").toLowerCase().split(/[^a-z0-9]+/).filter(Boolean);
+}
+function guessTarget(columns) {
+  const candidates = columns.filter((c) => !c.looksLikeId && c.distinct >= 2);
+  for (const label of labelNames) {
+    const exact = candidates.find((c) => c.name.trim().toLowerCase() === label);
+    if (exact) return { name: exact.name, reason: `named '${exact.name}'` };
+  }
+  for (const label of labelNames) {
+    const partial2 = candidates.find((c) => nameTokens(c.name).includes(label));
+    if (partial2) return { name: partial2.name, reason: `its name contains '${label}'` };
+  }
+  const binary = candidates.filter((c) => c.distinct === 2);
+  if (binary.length === 1) return { name: binary[0].name, reason: "the only column with two distinct values" };
+  if (binary.length > 1) {
+    const last = binary[binary.length - 1];
+    const others = binary.slice(0, -1).map((c) => c.name);
+    return { name: last.name, reason: `the last of ${binary.length} columns with two distinct values (the others: ${others.join(", ")})` };
+  }
+  return void 0;
+}
+function proposeTarget(columns) {
+  return guessTarget(columns)?.name;
+}
+function scalar(text2) {
+  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text2) ? text2 : JSON.stringify(text2);
+}
+function withThousands(n) {
+  return String(Math.round(n)).replace(/\B(?=(\d{3})+(?!\d))/g, ",");
+}
+function count2(n, one, many) {
+  return `${withThousands(n)} ${n === 1 ? one : many}`;
+}
+var key = (indent, text2, note) => ({ indent, text: text2, ...note ? { note } : {} });
+var optional3 = (indent, text2, note) => ({ indent, text: text2, isOptional: true, ...note ? { note } : {} });
+function renderBlock(lines) {
+  const body = lines.map((line) => `${"  ".repeat(line.indent)}${line.isOptional ? "# " : ""}${line.text}`);
+  const width = Math.min(44, Math.max(0, ...body.filter((_, i) => lines[i].note).map((b) => b.length)));
+  return body.map((b, i) => lines[i].note ? `${b.padEnd(width)}  # ${lines[i].note}` : b).join("\n");
+}
+function inferTask(target) {
+  if (!target) return { task: "binary", note: "guessed: set binary or regression once the target is set" };
+  if (target.distinct === 2) return { task: "binary", note: `guessed: '${target.name}' has two distinct values` };
+  if (target.kind === "numeric") {
+    return { task: "regression", note: `guessed: '${target.name}' is numeric with ${withThousands(target.distinct)} distinct values` };
+  }
+  return {
+    task: "binary",
+    note: `'${target.name}' has ${withThousands(target.distinct)} categories; plumbline handles two-class and numeric targets only`
+  };
+}
+function taskNote(task, target) {
+  if (!target) return void 0;
+  if (task === "binary" && target.distinct !== 2) return `check this: '${target.name}' has ${withThousands(target.distinct)} distinct values, binary needs two`;
+  if (task === "regression" && target.kind !== "numeric") return `check this: '${target.name}' is not numeric`;
+  return void 0;
+}
+function describeColumn(column, rows) {
+  const missing = column.missing > 0 ? `, ${withThousands(column.missing)} missing` : "";
+  if (column.looksLikeId) return { role: "id", note: `guessed: a different value in each of the ${withThousands(rows)} rows` };
+  if (column.distinct === 0) return { role: "ignore", note: "guessed: every value is missing" };
+  if (column.distinct === 1) return { role: "ignore", note: `guessed: the same value in every row${missing}` };
+  return { role: column.kind, note: `${count2(column.distinct, "distinct value", "distinct values")}${missing}` };
+}
+function holdoutPathFor(trainPath) {
+  const slash = trainPath.lastIndexOf("/");
+  const dir = trainPath.slice(0, slash + 1);
+  const base = trainPath.slice(slash + 1);
+  return /train/i.test(base) ? dir + base.replace(/train/i, "holdout") : `${dir}holdout.csv`;
+}
+function renderStarterPolicy(input2) {
+  const { trainPath, columns, rows } = input2;
+  const guess = guessTarget(columns);
+  if (input2.suggestedTarget !== void 0 && !columns.some((c) => c.name === input2.suggestedTarget)) {
+    throw new UserError(
+      `The target '${input2.suggestedTarget}' is not a column of ${trainPath} (columns: ${columns.map((c) => c.name).join(", ")}).`,
+      `Name one of the columns of ${trainPath} as the target.`
+    );
+  }
+  const targetName = input2.suggestedTarget ?? guess?.name;
+  const target = columns.find((c) => c.name === targetName);
+  const inferred = inferTask(target);
+  const task = input2.task ?? inferred.task;
+  const features = columns.filter((c) => c !== target);
+  const described = features.map((c) => ({ column: c, ...describeColumn(c, rows) }));
+  const idColumn = described.find((d) => d.role === "id")?.column;
+  const numeric = described.filter((d) => d.role === "numeric").map((d) => d.column.name);
+  const usable = described.filter((d) => d.role === "numeric" || d.role === "categorical").map((d) => d.column.name);
+  const example = (names, fallback) => `[${(names.length >= 2 ? names.slice(0, 2) : fallback).map(scalar).join(", ")}]`;
+  const targetNote = !target ? "no column looked like a label: set the column to predict and delete its line under data.columns" : input2.suggestedTarget !== void 0 && input2.suggestedTarget !== guess?.name ? "the column to predict" : `guessed: ${guess.reason}`;
+  const header = [
+    "# plumbline policy: what the gate measures on each pull request, and when it warns or blocks.",
+    `# Written by 'plumbline init' from ${trainPath} (${count2(rows, "row", "rows")}, ${count2(columns.length, "column", "columns")}).`,
+    '# Lines marked "guessed" come from the data: check them. A line starting with "# key:" is an',
+    "# optional key at its default; remove the '# ' to change it. docs/policy.md describes every key."
+  ].join("\n");
+  const top = renderBlock([
+    key(0, `version: 1`),
+    key(0, `task: ${task}`, input2.task ? taskNote(task, target) : inferred.note),
+    key(0, `target: ${target ? scalar(target.name) : "SET_TARGET_COLUMN"}`, targetNote),
+    key(0, `seed: ${defaultTopLevel.seed}`, "every random choice of a run derives from it")
+  ]);
+  const data = renderBlock([
+    key(0, "data:"),
+    key(1, `train: ${scalar(trainPath)}`),
+    optional3(1, `holdout: ${scalar(holdoutPathFor(trainPath))}`, "a separate holdout file, instead of split"),
+    key(1, "split:", "hold out part of data.train"),
+    key(2, `fraction: ${defaultData.split.fraction}`),
+    idColumn ? key(2, `by: ${scalar(idColumn.name)}`, "guessed: hashing the id holds out the same rows on both sides") : optional3(2, "by: <id column>", "hash an id so both sides hold out the same rows"),
+    optional3(1, `reference: ${defaultData.reference.kind}`, "train, holdout or a file: where permutation draws come from"),
+    optional3(1, `unlabeled: ${scalar(holdoutPathFor(trainPath).replace(/holdout/i, "unlabeled"))}`, "rows without the target"),
+    features.length > 0 ? key(1, "columns:", "numeric, categorical, id or ignore") : key(1, "columns: {}", "numeric, categorical, id or ignore"),
+    ...described.map((d) => key(2, `${scalar(d.column.name)}: ${d.role}`, d.note))
+  ]);
+  const prepare = renderBlock([
+    optional3(0, "prepare:", "a command run in each side's checkout before the data is read"),
+    optional3(1, "command: <shell command>"),
+    optional3(1, `timeout_seconds: ${defaultPrepare.timeoutSeconds}`)
+  ]);
+  const model = renderBlock([
+    key(0, "model:", "exactly one of builtin, onnx, train"),
+    key(1, "builtin:"),
+    key(2, "learner: gradient-boosting", "or linear, which reads l2 only"),
+    optional3(2, `trees: ${defaultBoosting.trees}`),
+    optional3(2, `max_depth: ${defaultBoosting.maxDepth}`),
+    optional3(2, `learning_rate: ${defaultBoosting.learningRate}`),
+    optional3(2, `min_rows_per_leaf: ${defaultBoosting.minRowsPerLeaf}`),
+    optional3(2, `l2: ${defaultBoosting.l2}`),
+    optional3(2, `row_subsample: ${defaultBoosting.rowSubsample}`),
+    optional3(2, `column_subsample: ${defaultBoosting.columnSubsample}`),
+    optional3(2, `max_bins: ${defaultBoosting.maxBins}`),
+    optional3(1, "onnx:", "instead of builtin: a model file in each side's checkout"),
+    optional3(2, "path: <path or glob>"),
+    optional3(2, `features: ${example(usable, ["column_a", "column_b"])}`, "input order, for models without input names"),
+    optional3(2, "positive_class: <label or index>", "binary only"),
+    optional3(1, "train:", "instead of builtin: your command writes an ONNX model to $PLUMBLINE_OUTPUT"),
+    optional3(2, "command: <shell command>"),
+    optional3(2, `timeout_seconds: ${defaultTrainCommand.timeoutSeconds}`),
+    optional3(2, `parallel: ${defaultTrainCommand.parallel}`)
+  ]);
+  const metrics = Object.keys(metricTasks).filter((m) => metricTasks[m] === task);
+  const importance = renderBlock([
+    key(0, "importance:"),
+    optional3(1, `metric: ${defaultMetric[task]}`, metrics.join(", ")),
+    optional3(1, `draws: ${defaultImportance.draws}`, "draws per feature per refit"),
+    optional3(1, `refits: ${defaultImportance.refits}`, "reseeded refits per side"),
+    optional3(1, `reference_rows: ${defaultImportance.referenceRows}`),
+    optional3(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
+    optional3(1, "groups:", "columns permuted together and reported as one"),
+    optional3(2, `group_name: ${example(numeric, ["column_a", "column_b"])}`)
+  ]);
+  const { leakage, rankShift, score: score2, holdoutRows } = defaultChecks;
+  const checks = renderBlock([
+    key(0, "checks:"),
+    key(1, "leakage:", "one feature carries the model"),
+    key(2, `action: ${leakage.action}`, "block, warn or off"),
+    optional3(2, `dominance_share: ${leakage.dominanceShare}`),
+    optional3(2, `runner_up_ratio: ${leakage.runnerUpRatio}`),
+    optional3(2, `single_feature_power: ${leakage.singleFeaturePower}`),
+    optional3(2, `relative_power: ${leakage.relativePower}`),
+    key(1, "rank_shift:", "features change places between base and head"),
+    key(2, `action: ${rankShift.action}`),
+    optional3(2, `false_discovery_rate: ${rankShift.falseDiscoveryRate}`),
+    optional3(2, `min_positions: ${rankShift.minPositions}`),
+    optional3(2, `agreement_percentile: ${rankShift.agreementPercentile}`),
+    key(1, "score:", "the holdout score gets worse"),
+    key(2, `action: ${score2.action}`),
+    optional3(2, `tolerance: ${score2.tolerance}`, "in metric units"),
+    optional3(2, `alpha: ${score2.alpha}`),
+    key(1, "holdout_rows:", "the holdout rows differ between base and head"),
+    key(2, `action: ${holdoutRows.action}`)
+  ]);
+  const report = renderBlock([key(0, "report:"), optional3(1, `max_table_rows: ${defaultReport.maxTableRows}`)]);
+  return `${[header, top, data, prepare, model, importance, checks, report].join("\n\n")}
+`;
+}
+
+// src/adapters/cli/summarize-columns.ts
+function summarizeColumns(data) {
+  return data.features.map((feature, j) => {
+    const column = data.columns[j];
+    const distinct = /* @__PURE__ */ new Set();
+    let isInteger = true;
+    for (const v of column) {
+      if (Number.isNaN(v)) continue;
+      distinct.add(v);
+      if (!Number.isInteger(v)) isInteger = false;
+    }
+    const looksLikeId = data.rows > 20 && distinct.size === data.rows && (feature.kind === "categorical" || isInteger);
+    return { name: feature.name, kind: feature.kind, distinct: distinct.size, missing: data.missing[j], looksLikeId };
+  });
+}
+
+// src/adapters/cli/init.ts
+async function init(command, io) {
+  const root2 = await repositoryRoot(io.cwd).catch(() => io.cwd);
+  const output2 = resolve4(io.cwd, command.output);
+  if (!command.force && await exists(output2)) {
+    throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
+  }
+  const trainPath = command.train ?? await findTrainingTable(root2);
+  const text2 = await readFile5(resolve4(root2, trainPath), "utf8").catch(() => {
+    throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
+  });
+  const data = parseCsv(text2, { source: trainPath, requireTarget: false });
+  const columns = summarizeColumns(data);
+  const target = command.target ?? proposeTarget(columns);
+  if (command.target && !columns.some((c) => c.name === command.target)) {
+    throw new UserError(`--target '${command.target}' is not a column of ${trainPath}.`, `Columns: ${columns.map((c) => c.name).join(", ")}.`);
+  }
+  const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task });
+  await mkdir(dirname2(output2), { recursive: true });
+  await writeFile(output2, policy);
+  io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.
+`);
+  return 0;
+}
+async function findTrainingTable(root2) {
+  const dir = join5(root2, "data");
+  const files = await readdir2(dir).catch(() => []);
+  const csvs = files.filter((f) => f.endsWith(".csv"));
+  const train3 = csvs.filter((f) => /train/i.test(f));
+  if (train3.length === 1) return `data/${train3[0]}`;
+  if (csvs.length === 1) return `data/${csvs[0]}`;
+  throw new UserError(
+    csvs.length ? `Several CSV files under data/ (${csvs.join(", ")}); cannot tell which is the training table.` : "No CSV file found under data/.",
+    "Pass --train FILE with the training table, relative to the repository root."
+  );
+}
+async function exists(path) {
+  return access(path).then(
+    () => true,
+    () => false
+  );
+}
+
 // src/adapters/cli/main.ts
 async function main(argv, io) {
   let command;
@@ -44814,7 +44646,7 @@ async function main(argv, io) {
     return 0;
   }
   try {
-    if (command.name === "init") return await (await Promise.resolve().then(() => (init_init(), init_exports))).init(command, io);
+    if (command.name === "init") return await init(command, io);
     const started = performance.now();
     const progress = createProgress(io, started);
     let report;

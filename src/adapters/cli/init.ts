@@ -4,7 +4,7 @@ import { parseCsv } from '../../core/data/parse-csv.ts'
 import { UserError } from '../../core/errors.ts'
 import { proposeTarget, renderStarterPolicy } from '../../core/policy/render-starter-policy.ts'
 import { repositoryRoot } from '../git/git.ts'
-import type { CliIo } from './main.ts'
+import type { CliIo } from './cli-io.ts'
 import { summarizeColumns } from './summarize-columns.ts'
 
 /** plumbline init: read the training table and write a commented starter policy. */

@@ -9,14 +9,10 @@ import type { GateProgress } from '../../core/run-gate.ts'
 import { runCheck } from '../check/run-check.ts'
 import { toolVersion } from '../version.ts'
 import { parseCommand } from './args.ts'
+import type { CliIo } from './cli-io.ts'
+import { init } from './init.ts'
 
-export interface CliIo {
-  readonly cwd: string
-  readonly stdout: (text: string) => void
-  readonly stderr: (text: string) => void
-  /** stderr is a terminal: progress redraws one line instead of printing many. */
-  readonly isTty: boolean
-}
+export type { CliIo }
 
 /** Runs one CLI invocation and returns the exit code: 0 pass/warn, 1 block, 2 user error, 3 internal. */
 export async function main(argv: readonly string[], io: CliIo): Promise<number> {
@@ -36,7 +32,7 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
     return 0
   }
   try {
-    if (command.name === 'init') return await (await import('./init.ts')).init(command, io)
+    if (command.name === 'init') return await init(command, io)
     const started = performance.now()
     const progress = createProgress(io, started)
     let report: GateReport
