@@ -16,7 +16,7 @@ import { describePolicyKey } from '../../src/core/policy/describe-policy-key.ts'
 
 describe('the named defaults', () => {
   it('are the values of the policy spec', () => {
-    // Every literal below is copied from the comments of policy-spec.md, the owner's spec of the policy.
+    // Every literal below is the documented default in docs/policy.md of this repository.
     expect(defaultTopLevel).toEqual({ seed: 1 })
     expect(defaultData).toEqual({ reference: { kind: 'train' }, split: { fraction: 0.2 } })
     expect(defaultPrepare).toEqual({ timeoutSeconds: 600 })

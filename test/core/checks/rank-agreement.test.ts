@@ -24,8 +24,8 @@ describe('checkRankAgreement(base, head, options)', () => {
       [0.9, 1.9, 2.9, 3.9, 4.9],
     ])
     const { findings, agreement } = checkRankAgreement(base, head, options)
-    // Every cross pair is a full reversal: tau-b −1, and RBO_EXT 0.737775 (CHECK-VALUES.md, "abcde vs
-    // edcba, p = 0.9", computed). Within a side every pair agrees completely: the null is all ones.
+    // Every cross pair is a full reversal: tau-b −1, and RBO_EXT 0.737775 for abcde vs edcba, p = 0.9
+    // (computed from the RBO_EXT definition of Webber, Moffat & Zobel 2010, ACM TOIS 28(4)). Within a side every pair agrees completely: the null is all ones.
     expect(agreement!.kendallTau).toBe(-1)
     expect(agreement!.rankBiasedOverlap).toBeCloseTo(0.737775, 6)
     expect(agreement!.nullKendallTau).toEqual([1, 1, 1, 1, 1, 1])

@@ -89,7 +89,8 @@ describe('checkRankShift(base, head, options)', () => {
   it('reports, as information, a feature that fell to the noise floor, in these words', () => {
     const base = sideResult({ side: 'base', features: steadyFeatures })
     // Head refit means [0.01, −0.01, 0.02, −0.02, 0]: mean 0, s = 0.0158114, half-width
-    // t(0.975, 4) · s / √5 = 0.0196324 (CHECK-VALUES.md: t = 2.7764451052).
+    // t(0.975, 4) · s / √5 = 0.0196324 (t = 2.7764451052: SciPy 1.10.1 scipy.stats.t.ppf(0.975, 4);
+    // NIST/SEMATECH e-Handbook §1.3.6.7.2 tabulates 2.776445).
     const head = sideResult({ features: { ...steadyFeatures, stop_count: [0.01, -0.01, 0.02, -0.02, 0] } })
     const drops = checkRankShift(base, head, options).findings.filter((f) => f.kind === 'floor-drop')
     expect(drops).toEqual([

@@ -10,8 +10,8 @@ function estimate(name: string, draws: number[], group?: string[]): ImportanceEs
 
 describe('computeNoiseFloor(refits)', () => {
   it('gives mean ± t(0.975, R−1)·s/√R over the refit means: the worked one-sample interval for R = 5', () => {
-    // CHECK-VALUES.md, "one-sample 95% t interval" of [0.10, 0.12, 0.08, 0.11, 0.09]: half-width
-    // 0.0196324316 (s = 0.0158113883, t(0.975, 4) = 2.7764451052; NIST/SEMATECH e-Handbook §1.3.6.7.2
+    // One-sample 95% t interval of [0.10, 0.12, 0.08, 0.11, 0.09], computed with SciPy 1.10.1: half-width
+    // 0.0196324316 (s = 0.0158113883, t.ppf(0.975, 4) = 2.7764451052; NIST/SEMATECH e-Handbook §1.3.6.7.2
     // gives 2.776445). Each refit has two draws at its mean ± 0.01.
     const means = [0.1, 0.12, 0.08, 0.11, 0.09]
     const refits = means.map((m) => [estimate('distance_km', [m - 0.01, m + 0.01])])
@@ -56,7 +56,7 @@ describe('computeNoiseFloor(refits)', () => {
   })
 
   it('falls back to the draws’ own t-interval with one refit (a loaded model), leaving the refit SD undefined', () => {
-    // The same worked interval (CHECK-VALUES.md), now as five draws of one refit.
+    // The same worked interval (computed with SciPy 1.10.1, above), now as five draws of one refit.
     const [unit] = computeNoiseFloor([[estimate('depot', [0.1, 0.12, 0.08, 0.11, 0.09])]])
     expect(unit.refitSd).toBeNaN()
     expect(unit.drawSd).toBeCloseTo(0.0158113883, 10)

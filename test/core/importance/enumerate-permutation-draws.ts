@@ -5,7 +5,7 @@ import type { Model } from '../../../src/core/models/model.ts'
 import { permutationImportance, type FeatureGroup } from '../../../src/core/importance/permutation-importance.ts'
 
 /**
- * Mean squared error, for the ΔMSE values of CHECK-VALUES.md. The Metric type names only the
+ * Mean squared error, for the derived, enumerated ΔMSE values of the permutation tests. The Metric type names only the
  * policy's metrics; permutationImportance never reads `name`, so the label is cast.
  */
 export const meanSquaredError: Metric = {

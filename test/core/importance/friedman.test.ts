@@ -12,8 +12,9 @@ function dataset(rows: number, seed: number): Dataset {
   return { ...matrix, source: `friedman1(${rows}, seed ${seed})`, missing: matrix.features.map(() => 0), target: { name: 'y', values: y } }
 }
 
-// CHECK-VALUES.md, Friedman #1 (Friedman 1991, Annals of Statistics 19(1)), "population MSE increase
-// when x_j of the TRUE function is replaced by an independent draw" (derived; numerical integration).
+// Friedman #1 (Friedman 1991, Annals of Statistics 19(1); as in scikit-learn's make_friedman1): population
+// MSE increase when x_j of the TRUE function is replaced by an independent draw (derived; computed by
+// numerical integration).
 const population: Record<string, number> = { x1: 12.972748, x2: 12.972748, x3: 40 / 9, x4: 50 / 3, x5: 25 / 6 }
 
 /** 5000 training rows, 2000 holdout rows, noise SD 1; 200 trees of depth 4; `refits` refits × 5 draws. */

@@ -71,7 +71,7 @@ function covarianceN(a: ArrayLike<number>, b: ArrayLike<number>): number {
   return s / n
 }
 
-/** The identity of CHECK-VALUES.md for f = g(x_j) + h(rest), r = y − h: ΔMSE(π) = (2/n) Σ r_i (g_i − g_π(i)). */
+/** The linear permutation statistic (derived) for f = g(x_j) + h(rest), r = y − h: ΔMSE(π) = (2/n) Σ r_i (g_i − g_π(i)). */
 function linearPermutationStatistic(r: ArrayLike<number>, g: ArrayLike<number>, gPermuted: ArrayLike<number>): number {
   let s = 0
   for (let i = 0; i < r.length; i++) s += r[i] * (g[i] - gPermuted[i])
@@ -79,7 +79,7 @@ function linearPermutationStatistic(r: ArrayLike<number>, g: ArrayLike<number>, 
 }
 
 describe('permutationImportance(model, evaluation, {metric, draws, seed}): exact permutation distributions', () => {
-  // CHECK-VALUES.md, "ΔMSE over all 24 permutations (exact)": x = [1,2,3,4], f = 2x, y = f.
+  // ΔMSE over all 24 permutations (exact; derived, enumerated): x = [1,2,3,4], f = 2x, y = f.
   const x = [1, 2, 3, 4]
   const doubling = new LinearModel({ task: 'regression', featureNames: ['x'], intercept: 0, terms: [{ kind: 'numeric', coefficient: 2, fill: 2.5 }] })
   const evaluation = evaluationOf({ x }, x.map((v) => 2 * v))
@@ -90,7 +90,7 @@ describe('permutationImportance(model, evaluation, {metric, draws, seed}): exact
       const draws = (await enumeratePermutationDraws(doubling, evaluation, { metric: meanSquaredError, reference, drawsPerCall: 50 })).get('x')!
       expect(draws).toHaveLength(24)
       const { mean, variance } = meanAndVariance(draws.map((d) => d.importance))
-      // CHECK-VALUES.md (derived; enumerated): mean 10 = 2·b²·var_n(x) = 2·4·1.25, variance 33.3333…, SD 5.7735027.
+      // Derived; enumerated: mean 10 = 2·b²·var_n(x) = 2·4·1.25, variance 33.3333…, SD 5.7735027.
       expect(mean).toBeCloseTo(10, 12)
       expect(variance).toBeCloseTo(100 / 3, 12)
       expect(Math.sqrt(variance)).toBeCloseTo(5.7735027, 7)
@@ -98,7 +98,7 @@ describe('permutationImportance(model, evaluation, {metric, draws, seed}): exact
   }
 
   it('gives every single draw the value of the linear permutation statistic (2/n) Σ r_i (g_i − g_π(i))', async () => {
-    // CHECK-VALUES.md, "identity behind the two rows above" (derived): here h = 0, so r = y = 2x and g = 2x.
+    // The linear permutation statistic identity (derived): here h = 0, so r = y = 2x and g = 2x.
     const draws = (await enumeratePermutationDraws(doubling, evaluation, { metric: meanSquaredError, drawsPerCall: 50 })).get('x')!
     const g = x.map((v) => 2 * v)
     for (const draw of draws) {
@@ -108,12 +108,13 @@ describe('permutationImportance(model, evaluation, {metric, draws, seed}): exact
   })
 
   it('gives mean ΔMSE 22.848318 and variance 104.603623 for x1 of the 6-row least-squares example over all 720 permutations', async () => {
-    // CHECK-VALUES.md, "ΔMSE over all 720 permutations of x1 (exact)" (derived; enumerated);
+    // ΔMSE over all 720 permutations of x1 (exact; derived, enumerated);
     // recomputed with NumPy (numpy.linalg.lstsq and itertools.permutations) for /usr/bin/python3:
     // mean 22.848318110937836, variance 104.60362298672605.
     const data = evaluationOf({ x1: [0, 1, 2, 3, 4, 5], x2: [1, 0, 1, 0, 1, 1] }, [1.2, 2.9, 5.1, 7.2, 8.8, 11.1])
     const model = fitRidge(data, data.target.values, { l2: 0 })
-    // CHECK-VALUES.md: (b0, b1, b2) = (1.091791, 1.979104, 0.015672).
+    // Ordinary least squares, derived: (b0, b1, b2) = (1.091791, 1.979104, 0.015672)
+    // (scikit-learn 1.2.1 LinearRegression agrees; see test/core/models/linear/fit-ridge.test.ts).
     expect(model.state.intercept).toBeCloseTo(1.091791, 6)
     expect(coefficient(model.state.terms[0])).toBeCloseTo(1.979104, 6)
     expect(coefficient(model.state.terms[1])).toBeCloseTo(0.015672, 6)
@@ -125,7 +126,7 @@ describe('permutationImportance(model, evaluation, {metric, draws, seed}): exact
     expect(mean).toBeCloseTo(22.848318, 6)
     expect(variance).toBeCloseTo(104.603623, 6)
 
-    // The same two numbers from the identity's closed forms (CHECK-VALUES.md, derived):
+    // The same two numbers from the identity's closed forms (derived, linear permutation statistic):
     // E = 2·cov_n(r, g) and Var = 4·SS(r)·SS(g) / (n²(n − 1)), with g = b1·x1 and r = y − b0 − b2·x2.
     const b1 = coefficient(model.state.terms[0])
     const b2 = coefficient(model.state.terms[1])
@@ -169,12 +170,12 @@ describe('permutationImportance(model, evaluation, {metric, draws, seed}): known
     for (let j = 0; j < 3; j++) {
       const bj = coefficient(model.state.terms[j])
       const xj = columns[j]
-      // Fisher, Rudin & Dominici (2019), JMLR 20(177), model reliance of a linear model; CHECK-VALUES.md
-      // "linear closed form": 2·b²·Var(x) + 2·b·Cov(residual, x), here with the evaluation rows' own
+      // Fisher, Rudin & Dominici (2019), JMLR 20(177), model reliance of a linear model
+      // (closed form): 2·b²·Var(x) + 2·b·Cov(residual, x), here with the evaluation rows' own
       // var_n and cov_n, which is exactly the mean over all permutations (E = 2·cov_n(r, g) with
       // r = b·x + residual, g = b·x). Ridge's shrinkage makes the Cov term small but not zero.
       const expected = 2 * bj * bj * covarianceN(xj, xj) + 2 * bj * covarianceN(residual, xj)
-      // Tolerance from CHECK-VALUES.md's variance formula: one draw has variance
+      // Tolerance from the linear permutation statistic's variance (derived): one draw has variance
       // Var = 4·SS(r)·SS(g) / (n²(n − 1)) around that mean, so the mean of K draws has standard error
       // sqrt(Var / K); 4 standard errors (a normal tail of 6e-5) is the bound.
       const g = Array.from(xj, (v) => bj * v)
@@ -193,7 +194,7 @@ describe('permutationImportance(model, evaluation, {metric, draws, seed}): known
   })
 
   it('gives accuracy importance 0.5 with SD 0.2236 for the hypergeometric example, and exactly 0 for constant columns', async () => {
-    // CHECK-VALUES.md, "accuracy PFI, analytic" (derived): after a shuffle of column 1 the accuracy is
+    // Accuracy permutation importance, analytic (derived): after a shuffle of column 1 the accuracy is
     // k/3 with k ~ Hypergeometric(6, 3, 3), so the importance is 1 − k/3: mean 0.5, SD 0.2236068.
     const data = evaluationOf({ x1: [1, 1, 1, 0, 0, 0], x2: [9, 9, 9, 9, 9, 9], x3: [9, 9, 9, 9, 9, 9] }, [1, 1, 1, 0, 0, 0])
     const model = functionModel(['x1', 'x2', 'x3'], (row) => row.x1, 'binary')
@@ -212,7 +213,7 @@ describe('permutationImportance(model, evaluation, {metric, draws, seed}): known
   })
 
   it('gives a constant model exactly zero for every feature and group, with or without a reference', async () => {
-    // CHECK-VALUES.md, "a model that ignores its inputs": every importance exactly 0 (scikit-learn's test suite).
+    // A model that ignores its inputs: every importance exactly 0 (as in scikit-learn's test suite, dummy classifier case).
     const random = createRandom(8)
     const column = () => Array.from({ length: 50 }, () => random.normal())
     const data = evaluationOf({ a: column(), b: column(), c: column() }, Array.from({ length: 50 }, (_, i) => i % 2))

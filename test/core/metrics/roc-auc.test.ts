@@ -20,7 +20,8 @@ function pairwiseAuc(y: number[], s: number[]): number {
 
 describe('rocAuc(y, score)', () => {
   it('matches the scikit-learn roc_auc_score docstring example', () => {
-    // /work/shared/CHECK-VALUES.md, Metrics: scikit-learn roc_auc_score docstring; computed.
+    // scikit-learn roc_auc_score docstring example; computed with scikit-learn 1.2.1 (Debian python3-sklearn):
+    // roc_auc_score([0,0,1,1], [0.1,0.4,0.35,0.8]) = 0.75.
     expect(rocAuc([0, 0, 1, 1], [0.1, 0.4, 0.35, 0.8])).toBeCloseTo(0.75, 12)
   })
 

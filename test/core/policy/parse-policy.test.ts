@@ -8,7 +8,7 @@ import { defaultBoosting, defaultChecks, defaultImportance, defaultReport } from
 
 const source = 'plumbline.yml'
 
-/** The minimal policy of /work/notes/policy-spec.md, verbatim. */
+/** The small policy of docs/policy.md ("A small policy") in this repository, verbatim. */
 const minimal = `version: 1
 task: binary
 target: late
@@ -46,7 +46,7 @@ function columnFailure(text: string, columns: readonly string[]): { message: str
 
 describe('parsePolicy(text, {source})', () => {
   it('resolves the minimal policy of the spec to the documented defaults', () => {
-    // test/core/config.test.ts pins each named default to the value written in policy-spec.md.
+    // test/core/config.test.ts pins each named default to the documented default in docs/policy.md.
     expect(parsePolicy(minimal, { source })).toEqual({
       version: 1,
       task: 'binary',

@@ -3,14 +3,14 @@ import { describe, expect, it } from 'vitest'
 import { holm } from '../../../src/core/statistics/holm.ts'
 import { isMonotoneAdjustment } from './adjusted-p-values.ts'
 
-// The 15 p-values of Benjamini & Hochberg (1995), as listed (from memory) in CHECK-VALUES.md.
+// The 15 p-values of Benjamini & Hochberg (1995), JRSS-B 57(1), sorted (list from memory).
 const paper = [
   0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.324, 0.4262, 0.5719, 0.6528, 0.759, 1,
 ]
 
 describe('holm(pValues)', () => {
   it('reproduces the Holm row of the check values, with 3 rejections at 0.05', () => {
-    // CHECK-VALUES.md "Holm (1979)" row, computed from the list above.
+    // Holm (1979) step-down adjusted p-values, computed from the list above.
     const expected = [0.0015, 0.0056, 0.0247, 0.114, 0.2211, 0.278, 0.278, 0.278, 0.3213, 1, 1, 1, 1, 1, 1]
     const adjusted = holm(paper)
     expected.forEach((value, i) => expect(adjusted[i]).toBeCloseTo(value, 12))

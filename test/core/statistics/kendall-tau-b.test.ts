@@ -4,9 +4,9 @@ import { kendallTauB } from '../../../src/core/statistics/kendall-tau-b.ts'
 
 describe('kendallTauB(x, y)', () => {
   it('matches scipy.stats.kendalltau on tied data', () => {
-    // CHECK-VALUES.md "Kendall tau-b": scipy.stats.kendalltau([12,2,1,12,2], [1,4,7,1,0]).
+    // Computed with SciPy 1.10.1: scipy.stats.kendalltau([12,2,1,12,2], [1,4,7,1,0]).
     expect(kendallTauB([12, 2, 1, 12, 2], [1, 4, 7, 1, 0])).toBeCloseTo(-0.4714045207910316, 14)
-    // CHECK-VALUES.md "ties both sides"; SciPy 1.10.1 gives 0.7894736842105262.
+    // Ties on both sides: SciPy 1.10.1 and 1.17.1 kendalltau both give 0.7894736842105262.
     expect(kendallTauB([1, 2, 2, 3, 4, 4, 5], [1, 3, 2, 2, 4, 5, 5])).toBeCloseTo(0.7894736842105263, 14)
     // Computed with SciPy 1.10.1: kendalltau([0.3,1.7,1.7,2.2,5,5,5,0.1], [2,2,3,1,4,4,0,1]).
     expect(kendallTauB([0.3, 1.7, 1.7, 2.2, 5, 5, 5, 0.1], [2, 2, 3, 1, 4, 4, 0, 1])).toBeCloseTo(
@@ -20,7 +20,7 @@ describe('kendallTauB(x, y)', () => {
     expect(kendallTauB([1, 2, 2, 3], [1, 2, 3, 3])).toBeCloseTo(0.8, 14)
   })
   it('gives 0.7142857142857143 for adjacent swaps', () => {
-    // CHECK-VALUES.md "exact p" row: [1..8] vs [2,1,4,3,6,5,8,7]; by hand C = 24, D = 4 -> 20 / 28.
+    // [1..8] vs [2,1,4,3,6,5,8,7]: SciPy 1.10.1 kendalltau gives 0.7142857142857142; by hand C = 24, D = 4 -> 20 / 28.
     expect(kendallTauB([1, 2, 3, 4, 5, 6, 7, 8], [2, 1, 4, 3, 6, 5, 8, 7])).toBeCloseTo(20 / 28, 15)
   })
   it('returns NaN when the correlation is undefined', () => {

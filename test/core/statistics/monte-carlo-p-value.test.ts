@@ -3,7 +3,8 @@ import { monteCarloPValue } from '../../../src/core/statistics/monte-carlo-p-val
 
 describe('monteCarloPValue(extreme, draws)', () => {
   it('adds one to both counts', () => {
-    // CHECK-VALUES.md "Monte Carlo p with +1 correction": 1 of 10 -> 2/11 (Phipson & Smyth 2010).
+    // Monte Carlo p with the +1 correction, Phipson & Smyth (2010), "Permutation p-values should
+    // never be zero" (from memory): 1 exceedance in 10 draws -> 2/11.
     expect(monteCarloPValue(1, 10)).toBeCloseTo(0.181818, 6)
     expect(monteCarloPValue(1, 10)).toBe(2 / 11)
   })

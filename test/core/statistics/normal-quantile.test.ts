@@ -4,7 +4,7 @@ import { normalQuantile } from '../../../src/core/statistics/normal-quantile.ts'
 
 describe('normalQuantile(p)', () => {
   it('gives the tabulated critical value 1.959964 at 0.975', () => {
-    // CHECK-VALUES.md "t critical, df ∞, 0.975" (NIST/SEMATECH e-Handbook §1.3.6.7.2);
+    // t critical, df ∞, 0.975: NIST/SEMATECH e-Handbook §1.3.6.7.2;
     // SciPy 1.10.1: norm.ppf(0.975) = 1.959963984540054.
     expect(normalQuantile(0.975)).toBeCloseTo(1.959964, 6)
     expect(normalQuantile(0.975)).toBeCloseTo(1.959963984540054, 14)

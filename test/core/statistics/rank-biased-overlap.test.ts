@@ -19,12 +19,13 @@ function prefixAgreement(a: readonly string[], b: readonly string[], d: number):
 
 describe('rankBiasedOverlap(a, b, {persistence})', () => {
   it('reproduces the check values for equal-length lists', () => {
-    // CHECK-VALUES.md "rank-biased overlap": [1..5] vs [2,3,4,1,5], p = 0.9 (Webber et al. 2010).
+    // RBO_EXT, RBO_MIN and residual of Webber, Moffat & Zobel (2010), ACM TOIS 28(4), for [1..5] vs
+    // [2,3,4,1,5], p = 0.9; computed from the paper's definitions.
     const result = rankBiasedOverlap(letters('12345'), letters('23415'), { persistence: 0.9 })
     expect(result.extrapolated).toBeCloseTo(0.828, 12)
     expect(result.minimum).toBeCloseTo(0.4999889406, 10)
     expect(result.residual).toBeCloseTo(0.3280110594, 10)
-    // CHECK-VALUES.md "RBO_EXT": abcde vs bacde / abced / edcba.
+    // RBO_EXT (Webber, Moffat & Zobel 2010), abcde vs bacde / abced / edcba, p = 0.9; computed from the definition.
     expect(rankBiasedOverlap(letters('abcde'), letters('bacde'), { persistence: 0.9 }).extrapolated).toBeCloseTo(0.9, 12)
     expect(rankBiasedOverlap(letters('abcde'), letters('abced'), { persistence: 0.9 }).extrapolated).toBeCloseTo(
       0.981775,

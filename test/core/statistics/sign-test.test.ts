@@ -3,7 +3,8 @@ import { signTest } from '../../../src/core/statistics/sign-test.ts'
 
 describe('signTest(differences, {alternative})', () => {
   it('gives the exact binomial p-value of the check values', () => {
-    // CHECK-VALUES.md "sign test": Δ = [0.5, 1.2, −0.3, 0.8, 2.1, 0.9, −0.1, 1.5] -> 0.14453125.
+    // One-sided sign test, Δ = [0.5, 1.2, −0.3, 0.8, 2.1, 0.9, −0.1, 1.5] -> 0.14453125
+    // (computed; SciPy 1.10.1 binomtest(6, 8, alternative='greater') agrees).
     // By hand: 6 of 8 positive, P(X >= 6) = (28 + 8 + 1) / 256.
     const result = signTest([0.5, 1.2, -0.3, 0.8, 2.1, 0.9, -0.1, 1.5], { alternative: 'greater' })
     expect(result.positive).toBe(6)

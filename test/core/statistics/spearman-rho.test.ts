@@ -4,9 +4,9 @@ import { spearmanRho } from '../../../src/core/statistics/spearman-rho.ts'
 
 describe('spearmanRho(x, y)', () => {
   it('matches scipy.stats.spearmanr', () => {
-    // CHECK-VALUES.md "Spearman rho (mid-ranks)": spearmanr([1,2,3,4,5], [5,6,7,8,7]).
+    // Computed with SciPy 1.10.1: scipy.stats.spearmanr([1,2,3,4,5], [5,6,7,8,7]) (mid-ranks).
     expect(spearmanRho([1, 2, 3, 4, 5], [5, 6, 7, 8, 7])).toBeCloseTo(0.8207826816681233, 14)
-    // CHECK-VALUES.md "Spearman rho with ties".
+    // Ties, computed with SciPy 1.10.1: spearmanr([1,2,2,3,4,4,5], [1,3,2,2,4,5,5]).
     expect(spearmanRho([1, 2, 2, 3, 4, 4, 5], [1, 3, 2, 2, 4, 5, 5])).toBeCloseTo(0.8888888888888891, 14)
     // Computed with SciPy 1.10.1: spearmanr([0.3,1.7,1.7,2.2,5,5,5,0.1], [2,2,3,1,4,4,0,1]).
     expect(spearmanRho([0.3, 1.7, 1.7, 2.2, 5, 5, 5, 0.1], [2, 2, 3, 1, 4, 4, 0, 1])).toBeCloseTo(

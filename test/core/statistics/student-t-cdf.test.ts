@@ -4,14 +4,15 @@ import { studentTCdf } from '../../../src/core/statistics/student-t-cdf.ts'
 
 describe('studentTCdf(t, df)', () => {
   it('matches the closed-form tails for df 1 and 2', () => {
-    // CHECK-VALUES.md "closed-form tails": P(T1 > 1) = 0.25, P(T2 > 2) = 0.0917517095361369.
+    // Closed-form tails (derived): P(T1 > 1) = 1/2 − arctan(1)/π = 0.25,
+    // P(T2 > 2) = (1 − 2/√6)/2 = 0.0917517095361369.
     expect(studentTCdf(-1, 1)).toBeCloseTo(0.25, 15)
     expect(1 - studentTCdf(1, 1)).toBeCloseTo(0.25, 15)
     expect(studentTCdf(-2, 2)).toBeCloseTo(0.0917517095361369, 15)
   })
   it('takes a fractional df, as Welch’s test needs', () => {
     // Computed with SciPy 1.10.1: t.cdf(-1.8973665961010275, 5.882352941176471) — the Welch row
-    // of CHECK-VALUES.md, whose two-sided p is 0.10753119493062728.
+    // example (x = 1..5 vs 2, 4, 6, 8, 10), whose two-sided p is 0.10753119493062728 (SciPy 1.17.1).
     expect(studentTCdf(-1.8973665961010275, 5.882352941176471)).toBeCloseTo(0.05376559746531359, 14)
     expect(2 * studentTCdf(-1.8973665961010275, 5.882352941176471)).toBeCloseTo(0.10753119493062728, 14)
     // Computed with SciPy 1.10.1: t.cdf(0.7, 2.5), t.cdf(-3.2, 0.5), t.cdf(1e-9, 7.3).

@@ -4,7 +4,7 @@ import { studentTQuantile } from '../../../src/core/statistics/student-t-quantil
 
 describe('studentTQuantile(p, df)', () => {
   it('reproduces the NIST table of critical values', () => {
-    // NIST/SEMATECH e-Handbook §1.3.6.7.2, via CHECK-VALUES.md "t critical".
+    // NIST/SEMATECH e-Handbook §1.3.6.7.2, table of critical values of the t distribution.
     expect(studentTQuantile(0.975, 10)).toBeCloseTo(2.228139, 6)
     expect(studentTQuantile(0.995, 10)).toBeCloseTo(3.169273, 6)
     expect(studentTQuantile(0.975, 4)).toBeCloseTo(2.776445, 6)

@@ -3,7 +3,7 @@ import { tInterval } from '../../../src/core/statistics/t-interval.ts'
 
 describe('tInterval(values, {level})', () => {
   it('reproduces the one-sample 95% interval of the check values', () => {
-    // CHECK-VALUES.md "one-sample 95% t interval": half-width 0.0196324316, s = 0.0158113883,
+    // One-sample 95% t interval, computed: half-width 0.0196324316, s = 0.0158113883,
     // t = 2.7764451052. SciPy 1.10.1: t.ppf(0.975, 4) * s / sqrt(5) = 0.019632431614775604.
     const result = tInterval([0.1, 0.12, 0.08, 0.11, 0.09])
     expect(result.mean).toBeCloseTo(0.1, 15)

@@ -3,9 +3,9 @@ import { welchTTest, welchTTestFromSummary } from '../../../src/core/statistics/
 
 describe('welchTTest(x, y)', () => {
   it('reproduces the Welch row of the check values', () => {
-    // CHECK-VALUES.md "Welch test": x = 1..5, y = 2..10, where y is 2, 4, 6, 8, 10 (step 2; the
+    // Welch test, computed: x = 1..5, y = 2..10, where y is 2, 4, 6, 8, 10 (step 2; the
     // nine values 2..10 give t = −2.598 instead). SciPy 1.10.1 ttest_ind(equal_var=False) gives
-    // p = 0.10753119493062718, CHECK-VALUES (SciPy 1.17.1) 0.10753119493062728.
+    // p = 0.10753119493062718, SciPy 1.17.1 gives 0.10753119493062728.
     const result = welchTTest([1, 2, 3, 4, 5], [2, 4, 6, 8, 10])
     expect(result.t).toBeCloseTo(-1.8973665961010275, 14)
     expect(result.df).toBeCloseTo(5.882352941176471, 14)
@@ -35,7 +35,7 @@ describe('welchTTest(x, y)', () => {
 
 describe('welchTTestFromSummary(a, b)', () => {
   it('reproduces the NIST car-mileage example', () => {
-    // CHECK-VALUES.md "Welch from summary statistics" (NIST e-Handbook §1.3.5.3, from memory):
+    // NIST/SEMATECH e-Handbook §1.3.5.3 car-mileage example (summary statistics from memory):
     // t = −12.946268, ν = 136.875. SciPy 1.10.1 ttest_ind_from_stats(..., equal_var=False):
     // t = −12.946267565658848, p = 1.5709046154648287e-25; ν computed 136.8749900936937.
     const result = welchTTestFromSummary({ mean: 20.14458, sd: 6.4147, n: 249 }, { mean: 30.48101, sd: 6.10771, n: 79 })

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { wilcoxonSignedRank } from '../../../src/core/statistics/wilcoxon-signed-rank.ts'
 
-// CHECK-VALUES.md "sign test and Wilcoxon signed-rank, one-sided".
+// One-sided sign test / Wilcoxon signed-rank example, computed with SciPy 1.10.1 scipy.stats.wilcoxon
+// (the paired test used for LOCO by Lei et al. 2018).
 const deltas = [0.5, 1.2, -0.3, 0.8, 2.1, 0.9, -0.1, 1.5]
 
 // sin(1.7 i) + 0.25 rounded to 4 decimals, i = 1..60: no zeros, no tied absolute values.
@@ -23,8 +24,8 @@ const fifty = [
 
 describe('wilcoxonSignedRank(differences, {alternative})', () => {
   it('gives the exact one-sided p-value of the check values', () => {
-    // CHECK-VALUES.md: p = 0.01953125 (= 5/256); SciPy 1.10.1 wilcoxon(Δ, alternative='greater')
-    // agrees, with statistic W+ = 33. By hand: W+ >= 33 means the negative ranks sum to <= 3,
+    // p = 0.01953125 (= 5/256), computed with SciPy 1.10.1 wilcoxon(Δ, alternative='greater'),
+    // with statistic W+ = 33. By hand: W+ >= 33 means the negative ranks sum to <= 3,
     // {}, {1}, {2}, {3}, {1,2}: 5 of 2^8 sign patterns.
     const result = wilcoxonSignedRank(deltas, { alternative: 'greater' })
     expect(result).toEqual({ statistic: 33, pValue: 0.01953125, exact: true })

@@ -17,7 +17,7 @@ function coefficient(term: LinearTerm): number {
   return term.coefficient
 }
 
-// CHECK-VALUES.md, permutation importance: X = [[0,1],[1,0],[2,1],[3,0],[4,1],[5,1]].
+// The 6-row least-squares example of the permutation-importance tests: X = [[0,1],[1,0],[2,1],[3,0],[4,1],[5,1]].
 const checkX = matrixOf([
   [0, 1, 2, 3, 4, 5],
   [1, 0, 1, 0, 1, 1],
@@ -26,7 +26,7 @@ const checkY = Float64Array.of(1.2, 2.9, 5.1, 7.2, 8.8, 11.1)
 
 describe('fitRidge(matrix, target, {l2})', () => {
   it('is ordinary least squares when l2 = 0', () => {
-    // CHECK-VALUES.md (derived): (b0, b1, b2) = (1.091791, 1.979104, 0.015672);
+    // Derived: (b0, b1, b2) = (1.091791, 1.979104, 0.015672);
     // scikit-learn 1.2.1 LinearRegression gives 1.0917910447761185, 1.9791044776119406, 0.015671641791044653.
     const { state } = fitRidge(checkX, checkY, { l2: 0 })
     expect(state.intercept).toBeCloseTo(1.0917910447761185, 10)
