@@ -1,5 +1,4 @@
-import { readFile } from 'node:fs/promises'
-import { isAbsolute, join, relative, resolve } from 'node:path'
+import { isAbsolute, relative, resolve } from 'node:path'
 import type { GateConfig } from '../../core/config.ts'
 import type { Dataset } from '../../core/data/dataset.ts'
 import { schemaOf } from '../../core/data/parse-csv.ts'
@@ -11,6 +10,7 @@ import type { GateReport } from '../../core/report/report.ts'
 import { runGate, type GateProgress, type SideInputs } from '../../core/run-gate.ts'
 import { builtinLearnerSettings } from '../../core/gate-settings.ts'
 import { readDataset } from '../files/read-dataset.ts'
+import { readConfinedFile, readLimits } from '../files/confined-file.ts'
 import { addWorktree, defaultBase, readFileAtCommit, repositoryRoot, resolveCommit } from '../git/git.ts'
 import { runPrepare } from './run-prepare.ts'
 import { loadSideModel } from './load-side-model.ts'
@@ -45,13 +45,21 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
     const head = request.headRef
       ? await checkoutSide(root, request.headRef, '--head', cleanups)
       : { path: root, ref: 'working tree', commit: null as string | null }
-    const policyFile = join(head.path, policyPath)
-    const policyText = await readFile(policyFile, 'utf8').catch(() => {
-      throw new UserError(
-        `No policy file at ${policyPath} (looked in ${head.path}).`,
-        "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input).",
+    const policyText = (
+      await readConfinedFile(
+        { key: 'The policy file', path: policyPath, root: head.path, rootName: `the head checkout (${head.path})` },
+        {
+          maxBytes: readLimits.policy,
+          what: 'policy',
+          missing: () =>
+            new UserError(
+              `No policy file at ${policyPath} (looked in ${head.path}).`,
+              "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input).",
+            ),
+          limitFix: 'A plumbline.yml is a few dozen lines; check that --policy (the action\'s \'policy\' input) names it.',
+        },
       )
-    })
+    ).toString('utf8')
     const config = parsePolicy(policyText, { source: policyPath })
     const baseTarget = request.baseRef
       ? { ref: request.baseRef, commit: await resolveCommit(root, request.baseRef, '--base') }
@@ -102,8 +110,8 @@ async function loadSide(
     await runPrepare({ command: config.prepare.command, cwd: checkout, timeoutSeconds: config.prepare.timeoutSeconds, side })
   }
   const roles = config.data.columns
-  const readOptions = { target: config.target, task: config.task, roles, cwd: checkout }
-  const all = await readDataset(config.data.train, { ...readOptions, source: `${side}:${config.data.train}`, requireTarget: true })
+  const readOptions = { target: config.target, task: config.task, roles, cwd: checkout, rootName: `the ${side} checkout` }
+  const all = await readDataset(config.data.train, { ...readOptions, key: 'data.train', source: `${side}:${config.data.train}`, requireTarget: true })
   let train: Dataset
   let holdout: Dataset
   if (config.data.holdout.kind === 'split') {
@@ -114,6 +122,7 @@ async function loadSide(
     train = all
     holdout = await readDataset(config.data.holdout.path, {
       ...readOptions,
+      key: 'data.holdout',
       source: `${side}:${config.data.holdout.path}`,
       schema: schemaOf(all),
       requireTarget: true,
@@ -125,6 +134,7 @@ async function loadSide(
   if (config.data.reference.kind === 'file') {
     reference = await readDataset(config.data.reference.path, {
       ...readOptions,
+      key: 'data.reference',
       source: `${side}:${config.data.reference.path}`,
       schema: schemaOf(train),
       requireTarget: false,
