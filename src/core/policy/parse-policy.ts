@@ -107,7 +107,7 @@ function readDocument(text: string, source: string): { value: unknown; positions
   if (tagWarning) {
     const tag = tagWarning.message.replace(/^Unresolved tag: /, '')
     throw new UserError(
-      `${at(source, place(tagWarning.pos[0]))}: the YAML tag '${excerpt(tag)}' is not allowed; a policy holds plain text, lists and mappings.`,
+      `${at(source, place(tagWarning.pos[0]))}: the YAML tag '${excerpt(tag, 80)}' is not allowed; a policy holds plain text, lists and mappings.`,
       'Delete the tag (the part starting with !) and write the value itself.',
     )
   }
