@@ -140,6 +140,7 @@ async function loadSide(
       requireTarget: false,
     })
   }
+  checkSizes(side, config, train, holdout, log)
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
   if (config.model.kind === 'builtin') {
     const settings = builtinLearnerSettings(config)
@@ -147,6 +148,32 @@ async function loadSide(
   }
   const loaded = await loadSideModel(config, { checkout, side, train, holdout, log })
   return { ref, commit, train, holdout, reference, ...loaded }
+}
+
+/** Fewer rows than this cannot give a noise floor worth reading (common practice, not a published bound). */
+const minimumRows = { train: 20, holdout: 10 } as const
+/** Below these, the gate runs but says that its numbers rest on few rows. */
+const smallRows = { train: 200, holdout: 100 } as const
+
+function checkSizes(side: string, config: GateConfig, train: Dataset, holdout: Dataset, log: (line: string) => void) {
+  if (train.features.length === 0) {
+    throw new UserError(
+      `${side}:${config.data.train} has no feature column: every column is the target, the id or ignored.`,
+      "Add the feature columns to the file, or change their roles under 'data.columns' in the policy.",
+    )
+  }
+  const holdoutName = config.data.holdout.kind === 'file' ? config.data.holdout.path : `the split of ${config.data.train}`
+  for (const [which, data, name] of [['train', train, config.data.train], ['holdout', holdout, holdoutName]] as const) {
+    if (data.rows < minimumRows[which]) {
+      throw new UserError(
+        `${side}:${name} has ${data.rows} ${which === 'train' ? 'training' : 'holdout'} row${data.rows === 1 ? '' : 's'}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
+        which === 'train' ? 'Point data.train at the full training table.' : "Give the holdout more rows (data.holdout), or a larger 'fraction' for a split.",
+      )
+    }
+    if (data.rows < smallRows[which]) {
+      log(`${side}: note: only ${data.rows} ${which === 'train' ? 'training' : 'holdout'} rows; with so few, the noise floor is wide and small changes cannot be told from noise.`)
+    }
+  }
 }
 
 function toRepoPath(path: string): string {
