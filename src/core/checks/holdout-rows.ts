@@ -63,16 +63,7 @@ function describeDifference(
       evidence: { differingRows: differing, idsOnlyOnHead: onlyHead, firstDifferingRow: first + 1 },
     }
   }
-  let differing = 0
-  let first = -1
-  for (let i = 0; i < base.rows; i++) {
-    const a = base.target[i]
-    const b = head.target[i]
-    if (a !== b && !(Number.isNaN(a) && Number.isNaN(b))) {
-      differing++
-      if (first < 0) first = i
-    }
-  }
+  const { differing, first } = differingTargets(base, head)
   if (differing === 0) return null
   return {
     short: `the target differs in ${differing} of ${base.rows} rows`,
@@ -85,6 +76,19 @@ function describeDifference(
 
 /** Same ids in the same order: the labels must match too. */
 function describeLabelChange(base: HoldoutIdentity, head: HoldoutIdentity): { short: string; long: string; evidence: Record<string, number> } | null {
+  const { differing, first } = differingTargets(base, head)
+  if (differing === 0) return null
+  return {
+    short: `the same ids carry another label in ${differing} of ${base.rows} rows`,
+    long:
+      `The ids match row by row, but the target differs in ${differing} of ${base.rows} rows ` +
+      `(first at holdout row ${first + 1}, ${base.idName ?? 'id'} '${base.ids![first]}'): the pull request relabelled the holdout.`,
+    evidence: { relabelledRows: differing, firstDifferingRow: first + 1 },
+  }
+}
+
+/** Rows whose target differs between the sides (NaN equal to NaN), and the first of them (-1 for none). */
+function differingTargets(base: HoldoutIdentity, head: HoldoutIdentity): { differing: number; first: number } {
   let differing = 0
   let first = -1
   for (let i = 0; i < base.rows; i++) {
@@ -95,12 +99,5 @@ function describeLabelChange(base: HoldoutIdentity, head: HoldoutIdentity): { sh
       if (first < 0) first = i
     }
   }
-  if (differing === 0) return null
-  return {
-    short: `the same ids carry another label in ${differing} of ${base.rows} rows`,
-    long:
-      `The ids match row by row, but the target differs in ${differing} of ${base.rows} rows ` +
-      `(first at holdout row ${first + 1}, ${base.idName ?? 'id'} '${base.ids![first]}'): the pull request relabelled the holdout.`,
-    evidence: { relabelledRows: differing, firstDifferingRow: first + 1 },
-  }
+  return { differing, first }
 }
