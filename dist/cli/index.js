@@ -4004,10 +4004,10 @@ var require_resolve_block_map = __commonJS({
       let offset = bm.offset;
       let commentEnd = null;
       for (const collItem of bm.items) {
-        const { start, key: key2, sep, value } = collItem;
+        const { start, key: key2, sep: sep2, value } = collItem;
         const keyProps = resolveProps.resolveProps(start, {
           indicator: "explicit-key-ind",
-          next: key2 ?? sep?.[0],
+          next: key2 ?? sep2?.[0],
           offset,
           onError,
           parentIndent: bm.indent,
@@ -4021,7 +4021,7 @@ var require_resolve_block_map = __commonJS({
             else if ("indent" in key2 && key2.indent !== bm.indent)
               onError(offset, "BAD_INDENT", startColMsg);
           }
-          if (!keyProps.anchor && !keyProps.tag && !sep) {
+          if (!keyProps.anchor && !keyProps.tag && !sep2) {
             commentEnd = keyProps.end;
             if (keyProps.comment) {
               if (map2.comment)
@@ -4045,7 +4045,7 @@ var require_resolve_block_map = __commonJS({
         ctx.atKey = false;
         if (utilMapIncludes.mapIncludes(ctx, map2.items, keyNode))
           onError(keyStart, "DUPLICATE_KEY", "Map keys must be unique");
-        const valueProps = resolveProps.resolveProps(sep ?? [], {
+        const valueProps = resolveProps.resolveProps(sep2 ?? [], {
           indicator: "map-value-ind",
           next: value,
           offset: keyNode.range[2],
@@ -4061,7 +4061,7 @@ var require_resolve_block_map = __commonJS({
             if (ctx.options.strict && keyProps.start < valueProps.found.offset - 1024)
               onError(keyNode.range, "KEY_OVER_1024_CHARS", "The : indicator must be at most 1024 chars after the start of an implicit block mapping key");
           }
-          const valueNode = value ? composeNode(ctx, value, valueProps, onError) : composeEmptyNode(ctx, offset, sep, null, valueProps, onError);
+          const valueNode = value ? composeNode(ctx, value, valueProps, onError) : composeEmptyNode(ctx, offset, sep2, null, valueProps, onError);
           if (ctx.schema.compat)
             utilFlowIndentCheck.flowIndentCheck(bm.indent, value, onError);
           offset = valueNode.range[2];
@@ -4152,7 +4152,7 @@ var require_resolve_end = __commonJS({
       let comment = "";
       if (end) {
         let hasSpace = false;
-        let sep = "";
+        let sep2 = "";
         for (const token of end) {
           const { source, type } = token;
           switch (type) {
@@ -4166,13 +4166,13 @@ var require_resolve_end = __commonJS({
               if (!comment)
                 comment = cb;
               else
-                comment += sep + cb;
-              sep = "";
+                comment += sep2 + cb;
+              sep2 = "";
               break;
             }
             case "newline":
               if (comment)
-                sep += source;
+                sep2 += source;
               hasSpace = true;
               break;
             default:
@@ -4215,18 +4215,18 @@ var require_resolve_flow_collection = __commonJS({
       let offset = fc.offset + fc.start.source.length;
       for (let i = 0; i < fc.items.length; ++i) {
         const collItem = fc.items[i];
-        const { start, key: key2, sep, value } = collItem;
+        const { start, key: key2, sep: sep2, value } = collItem;
         const props = resolveProps.resolveProps(start, {
           flow: fcName,
           indicator: "explicit-key-ind",
-          next: key2 ?? sep?.[0],
+          next: key2 ?? sep2?.[0],
           offset,
           onError,
           parentIndent: fc.indent,
           startOnNewline: false
         });
         if (!props.found) {
-          if (!props.anchor && !props.tag && !sep && !value) {
+          if (!props.anchor && !props.tag && !sep2 && !value) {
             if (i === 0 && props.comma)
               onError(props.comma, "UNEXPECTED_TOKEN", `Unexpected , in ${fcName}`);
             else if (i < fc.items.length - 1)
@@ -4280,8 +4280,8 @@ var require_resolve_flow_collection = __commonJS({
             }
           }
         }
-        if (!isMap2 && !sep && !props.found) {
-          const valueNode = value ? composeNode(ctx, value, props, onError) : composeEmptyNode(ctx, props.end, sep, null, props, onError);
+        if (!isMap2 && !sep2 && !props.found) {
+          const valueNode = value ? composeNode(ctx, value, props, onError) : composeEmptyNode(ctx, props.end, sep2, null, props, onError);
           coll.items.push(valueNode);
           offset = valueNode.range[2];
           if (isBlock(value))
@@ -4293,7 +4293,7 @@ var require_resolve_flow_collection = __commonJS({
           if (isBlock(key2))
             onError(keyNode.range, "BLOCK_IN_FLOW", blockMsg);
           ctx.atKey = false;
-          const valueProps = resolveProps.resolveProps(sep ?? [], {
+          const valueProps = resolveProps.resolveProps(sep2 ?? [], {
             flow: fcName,
             indicator: "map-value-ind",
             next: value,
@@ -4304,8 +4304,8 @@ var require_resolve_flow_collection = __commonJS({
           });
           if (valueProps.found) {
             if (!isMap2 && !props.found && ctx.options.strict) {
-              if (sep)
-                for (const st of sep) {
+              if (sep2)
+                for (const st of sep2) {
                   if (st === valueProps.found)
                     break;
                   if (st.type === "newline") {
@@ -4322,7 +4322,7 @@ var require_resolve_flow_collection = __commonJS({
             else
               onError(valueProps.start, "MISSING_CHAR", `Missing , or : between ${fcName} items`);
           }
-          const valueNode = value ? composeNode(ctx, value, valueProps, onError) : valueProps.found ? composeEmptyNode(ctx, valueProps.end, sep, null, valueProps, onError) : null;
+          const valueNode = value ? composeNode(ctx, value, valueProps, onError) : valueProps.found ? composeEmptyNode(ctx, valueProps.end, sep2, null, valueProps, onError) : null;
           if (valueNode) {
             if (isBlock(value))
               onError(valueNode.range, "BLOCK_IN_FLOW", blockMsg);
@@ -4502,7 +4502,7 @@ var require_resolve_block_scalar = __commonJS({
           chompStart = i + 1;
       }
       let value = "";
-      let sep = "";
+      let sep2 = "";
       let prevMoreIndented = false;
       for (let i = 0; i < contentStart; ++i)
         value += lines[i][0].slice(trimIndent) + "\n";
@@ -4519,24 +4519,24 @@ var require_resolve_block_scalar = __commonJS({
           indent = "";
         }
         if (type === Scalar.Scalar.BLOCK_LITERAL) {
-          value += sep + indent.slice(trimIndent) + content;
-          sep = "\n";
+          value += sep2 + indent.slice(trimIndent) + content;
+          sep2 = "\n";
         } else if (indent.length > trimIndent || content[0] === "	") {
-          if (sep === " ")
-            sep = "\n";
-          else if (!prevMoreIndented && sep === "\n")
-            sep = "\n\n";
-          value += sep + indent.slice(trimIndent) + content;
-          sep = "\n";
+          if (sep2 === " ")
+            sep2 = "\n";
+          else if (!prevMoreIndented && sep2 === "\n")
+            sep2 = "\n\n";
+          value += sep2 + indent.slice(trimIndent) + content;
+          sep2 = "\n";
           prevMoreIndented = true;
         } else if (content === "") {
-          if (sep === "\n")
+          if (sep2 === "\n")
             value += "\n";
           else
-            sep = "\n";
+            sep2 = "\n";
         } else {
-          value += sep + content;
-          sep = " ";
+          value += sep2 + content;
+          sep2 = " ";
           prevMoreIndented = false;
         }
       }
@@ -4719,25 +4719,25 @@ var require_resolve_flow_scalar = __commonJS({
         trimBoth = /^[ \t]+|[ \t]+$/g;
       }
       let res = match[1].replace(trimEnd, "");
-      let sep = " ";
+      let sep2 = " ";
       let pos = line.lastIndex;
       while (match = line.exec(source)) {
         const lm = match[1].replace(trimBoth, "");
         if (lm === "") {
-          if (sep === "\n")
-            res += sep;
+          if (sep2 === "\n")
+            res += sep2;
           else
-            sep = "\n";
+            sep2 = "\n";
         } else {
-          res += sep + lm;
-          sep = " ";
+          res += sep2 + lm;
+          sep2 = " ";
         }
         pos = line.lastIndex;
       }
       const last = /[ \t]*(.*)/sy;
       last.lastIndex = pos;
       match = last.exec(source);
-      return res + sep + (match?.[1] ?? "");
+      return res + sep2 + (match?.[1] ?? "");
     }
     function doubleQuotedValue(source, onError) {
       let res = "";
@@ -5547,14 +5547,14 @@ var require_cst_stringify = __commonJS({
         }
       }
     }
-    function stringifyItem({ start, key: key2, sep, value }) {
+    function stringifyItem({ start, key: key2, sep: sep2, value }) {
       let res = "";
       for (const st of start)
         res += st.source;
       if (key2)
         res += stringifyToken(key2);
-      if (sep)
-        for (const st of sep)
+      if (sep2)
+        for (const st of sep2)
           res += st.source;
       if (value)
         res += stringifyToken(value);
@@ -6721,18 +6721,18 @@ var require_parser = __commonJS({
         if (this.type === "map-value-ind") {
           const prev = getPrevProps(this.peek(2));
           const start = getFirstKeyStartProps(prev);
-          let sep;
+          let sep2;
           if (scalar2.end) {
-            sep = scalar2.end;
-            sep.push(this.sourceToken);
+            sep2 = scalar2.end;
+            sep2.push(this.sourceToken);
             delete scalar2.end;
           } else
-            sep = [this.sourceToken];
+            sep2 = [this.sourceToken];
           const map2 = {
             type: "block-map",
             offset: scalar2.offset,
             indent: scalar2.indent,
-            items: [{ start, key: scalar2, sep }]
+            items: [{ start, key: scalar2, sep: sep2 }]
           };
           this.onKeyLine = true;
           this.stack[this.stack.length - 1] = map2;
@@ -6885,15 +6885,15 @@ var require_parser = __commonJS({
                 } else if (isFlowToken(it.key) && !includesToken(it.sep, "newline")) {
                   const start2 = getFirstKeyStartProps(it.start);
                   const key2 = it.key;
-                  const sep = it.sep;
-                  sep.push(this.sourceToken);
+                  const sep2 = it.sep;
+                  sep2.push(this.sourceToken);
                   delete it.key;
                   delete it.sep;
                   this.stack.push({
                     type: "block-map",
                     offset: this.offset,
                     indent: this.indent,
-                    items: [{ start: start2, key: key2, sep }]
+                    items: [{ start: start2, key: key2, sep: sep2 }]
                   });
                 } else if (start.length > 0) {
                   it.sep = it.sep.concat(start, this.sourceToken);
@@ -7087,13 +7087,13 @@ var require_parser = __commonJS({
             const prev = getPrevProps(parent);
             const start = getFirstKeyStartProps(prev);
             fixFlowSeqItems(fc);
-            const sep = fc.end.splice(1, fc.end.length);
-            sep.push(this.sourceToken);
+            const sep2 = fc.end.splice(1, fc.end.length);
+            sep2.push(this.sourceToken);
             const map2 = {
               type: "block-map",
               offset: fc.offset,
               indent: fc.indent,
-              items: [{ start, key: fc, sep }]
+              items: [{ start, key: fc, sep: sep2 }]
             };
             this.onKeyLine = true;
             this.stack[this.stack.length - 1] = map2;
@@ -12114,13 +12114,13 @@ var require_path = __commonJS({
         return null;
       }
     }
-    var isAbsolute2 = (
+    var isAbsolute3 = (
       /**
        * Tests if the specified path is absolute.
        * @param {string} path Path to test
        * @returns {boolean} `true` if path is absolute
        */
-      path.isAbsolute = function isAbsolute3(path2) {
+      path.isAbsolute = function isAbsolute4(path2) {
         return /^(?:\/|\w+:|\\\\\w+)/.test(path2);
       }
     );
@@ -12141,7 +12141,7 @@ var require_path = __commonJS({
           path2 = path2.substring(2);
         }
         path2 = path2.replace(/\\/g, "/").replace(/\/{2,}/g, "/");
-        var parts = path2.split("/"), absolute = isAbsolute2(path2), prefix = "";
+        var parts = path2.split("/"), absolute = isAbsolute3(path2), prefix = "";
         if (absolute)
           prefix = parts.shift() + "/";
         for (var i = 0; i < parts.length; ) {
@@ -12166,7 +12166,7 @@ var require_path = __commonJS({
         return resolvedUrl;
       if (!alreadyNormalized)
         includePath = normalize(includePath);
-      if (isAbsolute2(includePath))
+      if (isAbsolute3(includePath))
         return includePath;
       if (!alreadyNormalized)
         originPath = normalize(originPath);
@@ -16551,8 +16551,8 @@ var require_protobufjs = __commonJS({
 });
 
 // src/adapters/cli/main.ts
-import { mkdir as mkdir2, writeFile as writeFile2 } from "node:fs/promises";
-import { dirname as dirname3, resolve as resolve5 } from "node:path";
+import { mkdir as mkdir2, rename, rm as rm4, stat as stat3, writeFile as writeFile2 } from "node:fs/promises";
+import { basename as basename3, dirname as dirname4, join as join6 } from "node:path";
 
 // src/core/errors.ts
 var UserError = class extends Error {
@@ -17265,7 +17265,7 @@ The same ${formatCount(unchangedCount)} features on both sides.`;
       escapeMarkdownText(reportCaution)
     ];
   }
-  const join6 = (paragraphs) => `${paragraphs.join("\n\n")}
+  const join7 = (paragraphs) => `${paragraphs.join("\n\n")}
 `;
   const fits = (layout2) => {
     const paragraphs = compose(layout2);
@@ -17275,7 +17275,7 @@ The same ${formatCount(unchangedCount)} features on both sides.`;
   for (const keepDetails of [true, false]) {
     for (const rows of rowSteps) {
       const layout2 = { rows, details: keepDetails, findings: findingItems.length };
-      if (fits(layout2)) return join6(compose(layout2));
+      if (fits(layout2)) return join7(compose(layout2));
     }
   }
   const mostFindings = (rows) => {
@@ -17291,7 +17291,7 @@ The same ${formatCount(unchangedCount)} features on both sides.`;
   const shortTable = Math.min(10, maxTableRows);
   const besideShortTable = mostFindings(shortTable);
   const layout = besideShortTable > 0 ? { rows: shortTable, details: false, findings: besideShortTable } : { rows: 0, details: false, findings: mostFindings(0) };
-  return fitOrThrow(join6(compose(layout)), maxCharacters);
+  return fitOrThrow(join7(compose(layout)), maxCharacters);
 }
 
 // src/core/report/render-text.ts
@@ -17411,8 +17411,7 @@ function renderText(report, options = {}) {
 }
 
 // src/adapters/check/run-check.ts
-import { readFile as readFile4 } from "node:fs/promises";
-import { isAbsolute, join as join4, relative, resolve as resolve3 } from "node:path";
+import { isAbsolute as isAbsolute2, relative as relative2, resolve as resolve4 } from "node:path";
 
 // node_modules/csv-parse/lib/api/CsvError.js
 var CsvError = class _CsvError extends Error {
@@ -19131,6 +19130,8 @@ function schemaOf(dataset) {
 var MISSING_TOKENS = /* @__PURE__ */ new Set(["", "na", "nan", "null"]);
 var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 var LINE_NOTE = "(the header is line 1)";
+var INFINITY_WORD = /^[+-]?(?:inf|infinity)$/i;
+var MAX_MAGNITUDE = 1e100;
 function parseCsv(text2, options) {
   const { source } = options;
   const { header, rows, lineOf } = readRecords(text2, source);
@@ -19157,7 +19158,7 @@ function parseCsv(text2, options) {
         column[i] = NaN;
         missingCount++;
       } else if (feature.kind === "numeric") {
-        column[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), feature.name, v, plan.numericReason);
+        column[i] = parseNumber(v) ?? failNumber(source, lineOf(i), feature.name, v, plan.numericReason);
       } else {
         const c = code2.get(v);
         if (c === void 0) unseenCount++;
@@ -19184,7 +19185,17 @@ function isMissing(value) {
 function parseNumber(value) {
   if (!NUMBER.test(value)) return void 0;
   const x = Number(value);
-  return Number.isFinite(x) ? x : void 0;
+  return Number.isFinite(x) && Math.abs(x) <= MAX_MAGNITUDE ? x : void 0;
+}
+function looksNumeric(value) {
+  return NUMBER.test(value) || INFINITY_WORD.test(value);
+}
+function failNumber(source, line, column, value, reason) {
+  if (!looksNumeric(value)) failNotNumeric(source, line, column, value, reason);
+  throw new UserError(
+    `${at(source, line, column)}: ${show(value)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
+    "Correct the value, write NA or leave the cell empty if it is missing, or rescale the column (for example to thousands or a logarithm)."
+  );
 }
 function compareText(a, b) {
   return a < b ? -1 : a > b ? 1 : 0;
@@ -19351,7 +19362,7 @@ function planFromRoles(options, header, columnIndex, rows) {
     else if (role === void 0) {
       const isNumeric = rows.every((row) => {
         const v = row[column].trim();
-        return isMissing(v) || parseNumber(v) !== void 0;
+        return isMissing(v) || looksNumeric(v);
       });
       features.push({ name, column, kind: isNumeric ? "numeric" : "categorical" });
     }
@@ -19415,11 +19426,11 @@ function readTarget(source, plan, values, lineOf, schemaSource) {
     }
   });
   const distinct = [...new Set(values)];
-  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => parseNumber(v) !== void 0) ? "binary" : "regression");
+  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => looksNumeric(v)) ? "binary" : "regression");
   if (task === "regression") {
     const out2 = new Float64Array(values.length);
     values.forEach((v, i) => {
-      out2[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), column, v, "the target of a regression must be one");
+      out2[i] = parseNumber(v) ?? failNumber(source, lineOf(i), column, v, "the target of a regression must be one");
     });
     return { name: column, values: out2 };
   }
@@ -39576,7 +39587,7 @@ var importanceSchema = mapping({
   draws: wholeNumber(1, 1e3).default(defaultImportance.draws),
   refits: wholeNumber(1, 100).default(defaultImportance.refits),
   reference_rows: wholeNumber(1).default(defaultImportance.referenceRows),
-  evaluation_rows: wholeNumber(1).default(defaultImportance.evaluationRows),
+  evaluation_rows: wholeNumber(2).default(defaultImportance.evaluationRows),
   groups: external_exports.preprocess(
     (raw) => raw === null ? {} : raw,
     external_exports.record(external_exports.string(), nameList("a list of column names, such as [distance_km, stop_count]"), { error: "a mapping of group names to lists of columns" })
@@ -39794,6 +39805,13 @@ function describePolicyKey(path) {
   };
 }
 
+// src/core/policy/excerpt.ts
+var unsafe = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g;
+function excerpt(text2, max = 40) {
+  const cut = [...text2].length > max ? `${[...text2].slice(0, max).join("")}…` : text2;
+  return cut.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
+}
+
 // src/core/policy/levenshtein-distance.ts
 function levenshteinDistance(a, b) {
   if (a === b) return 0;
@@ -39814,6 +39832,9 @@ function levenshteinDistance(a, b) {
 }
 
 // src/core/policy/parse-policy.ts
+var maxPolicyCharacters = 1024 * 1024;
+var maxPolicyValues = 1e5;
+var maxPolicyDepth = 64;
 var pathId = (path) => JSON.stringify(path.map(String));
 function at2(source, place) {
   return place ? `${source}:${place.line}:${place.column}` : source;
@@ -39834,7 +39855,7 @@ function entryAt(positions, path) {
 function describeNode(node2) {
   if ((0, import_yaml.isMap)(node2)) return "a mapping";
   if ((0, import_yaml.isSeq)(node2)) return "a list";
-  if ((0, import_yaml.isScalar)(node2)) return `'${String(node2.value)}'`;
+  if ((0, import_yaml.isScalar)(node2)) return `'${excerpt(String(node2.value))}'`;
   return "something else";
 }
 function readDocument(text2, source) {
@@ -39843,6 +39864,12 @@ function readDocument(text2, source) {
     "Run 'plumbline init' to write a starter policy, or see docs/policy.md."
   );
   if (text2.trim() === "") throw empty;
+  if (text2.length > maxPolicyCharacters) {
+    throw new UserError(
+      `${source} is ${text2.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
+      "Check that the policy path names plumbline.yml; a policy is a few dozen lines (docs/policy.md)."
+    );
+  }
   const lines = new import_yaml.LineCounter();
   const doc = (0, import_yaml.parseDocument)(text2, { schema: "failsafe", uniqueKeys: false, lineCounter: lines, prettyErrors: false });
   const place = (offset) => {
@@ -39857,6 +39884,14 @@ function readDocument(text2, source) {
       'Fix the YAML at that line: nested keys are indented with spaces (no tabs), and a value holding ": " or starting with one of [ ] { } # & * ! | > \' " % @ ` is put in quotes.'
     );
   }
+  const tagWarning = doc.warnings.find((warning) => warning.code === "TAG_RESOLVE_FAILED");
+  if (tagWarning) {
+    const tag = tagWarning.message.replace(/^Unresolved tag: /, "");
+    throw new UserError(
+      `${at2(source, place(tagWarning.pos[0]))}: the YAML tag '${excerpt(tag, 80)}' is not allowed; a policy holds plain text, lists and mappings.`,
+      "Delete the tag (the part starting with !) and write the value itself."
+    );
+  }
   const root2 = doc.contents;
   if (root2 === null || (0, import_yaml.isScalar)(root2) && root2.value === "" && root2.type === "PLAIN") throw empty;
   if (!(0, import_yaml.isMap)(root2)) {
@@ -39868,7 +39903,14 @@ function readDocument(text2, source) {
   const positions = /* @__PURE__ */ new Map();
   positions.set(pathId([]), { value: place(root2.range?.[0] ?? 0), end: text2.length });
   const expanding = /* @__PURE__ */ new Set();
+  let budget = maxPolicyValues;
   const toPlain = (node2, path) => {
+    if (--budget < 0 || path.length > maxPolicyDepth) {
+      throw new UserError(
+        `${source}: the policy expands to more than ${budget < 0 ? `${maxPolicyValues} values` : `${maxPolicyDepth} levels`} (through YAML aliases or nesting); a policy is far smaller.`,
+        "Write the values out instead of repeating them through aliases (*name), and keep the nesting as docs/policy.md shows."
+      );
+    }
     if (node2 === null || node2 === void 0) return null;
     if ((0, import_yaml.isAlias)(node2)) {
       const target = node2.resolve(doc);
@@ -39904,8 +39946,8 @@ function readDocument(text2, source) {
         const earlier = seen.get(key2);
         if (earlier) {
           throw new UserError(
-            `${at2(source, keyPlace)}: key '${key2}' appears twice ${where(path)} (first at line ${earlier.line}).`,
-            `Keep one '${key2}:' line ${under(path)} and delete the other.`
+            `${at2(source, keyPlace)}: key '${excerpt(key2)}' appears twice ${where(path)} (first at line ${earlier.line}).`,
+            `Keep one '${excerpt(key2)}:' line ${under(path)} and delete the other.`
           );
         }
         seen.set(key2, keyPlace);
@@ -39932,8 +39974,7 @@ function describeValue(value) {
   if (value === null || value === void 0) return "an empty value";
   if (Array.isArray(value)) return value.length === 0 ? "an empty list" : "a list";
   if (typeof value === "object") return "a mapping";
-  const text2 = String(value);
-  return `'${text2.length > 60 ? `${text2.slice(0, 57)}...` : text2}'`;
+  return `'${excerpt(String(value), 60)}'`;
 }
 function closestName(name, candidates) {
   const snake = name.replace(/([a-z0-9])([A-Z])/g, "$1_$2").toLowerCase();
@@ -39964,8 +40005,8 @@ function describeIssue(issue2, raw, positions, source) {
       const suggestion = closestName(key3, allowed);
       return {
         offset: place?.offset ?? Infinity,
-        message: `${at2(source, place)}: unknown key '${key3}' ${where(path)} (allowed: ${allowed.join(", ")}).${suggestion ? ` Did you mean '${suggestion}'?` : ""}`,
-        fix: suggestion ? `Rename '${key3}' to '${suggestion}', or delete it.` : `Delete '${key3}', or rename it to one of the allowed keys (docs/policy.md describes each).`
+        message: `${at2(source, place)}: unknown key '${excerpt(key3)}' ${where(path)} (allowed: ${allowed.join(", ")}).${suggestion ? ` Did you mean '${suggestion}'?` : ""}`,
+        fix: suggestion ? `Rename '${excerpt(key3)}' to '${suggestion}', or delete it.` : `Delete '${excerpt(key3)}', or rename it to one of the allowed keys (docs/policy.md describes each).`
       };
     });
   }
@@ -42242,7 +42283,7 @@ function describeDifference(base, head) {
         if (first2 < 0) first2 = i;
       }
     }
-    if (differing2 === 0) return null;
+    if (differing2 === 0) return describeLabelChange(base, head);
     const baseSet = new Set(base.ids);
     const onlyHead = head.ids.filter((id) => !baseSet.has(id)).length;
     return {
@@ -42251,6 +42292,24 @@ function describeDifference(base, head) {
       evidence: { differingRows: differing2, idsOnlyOnHead: onlyHead, firstDifferingRow: first2 + 1 }
     };
   }
+  const { differing, first } = differingTargets(base, head);
+  if (differing === 0) return null;
+  return {
+    short: `the target differs in ${differing} of ${base.rows} rows`,
+    long: `Without an id column only the target can be compared row by row; it differs in ${differing} of ${base.rows} rows (first at holdout row ${first + 1}).`,
+    evidence: { differingRows: differing, firstDifferingRow: first + 1 }
+  };
+}
+function describeLabelChange(base, head) {
+  const { differing, first } = differingTargets(base, head);
+  if (differing === 0) return null;
+  return {
+    short: `the same ids carry another label in ${differing} of ${base.rows} rows`,
+    long: `The ids match row by row, but the target differs in ${differing} of ${base.rows} rows (first at holdout row ${first + 1}, ${base.idName ?? "id"} '${base.ids[first]}'): the pull request relabelled the holdout.`,
+    evidence: { relabelledRows: differing, firstDifferingRow: first + 1 }
+  };
+}
+function differingTargets(base, head) {
   let differing = 0;
   let first = -1;
   for (let i = 0; i < base.rows; i++) {
@@ -42261,12 +42320,7 @@ function describeDifference(base, head) {
       if (first < 0) first = i;
     }
   }
-  if (differing === 0) return null;
-  return {
-    short: `the target differs in ${differing} of ${base.rows} rows`,
-    long: `Without an id column only the target can be compared row by row; it differs in ${differing} of ${base.rows} rows (first at holdout row ${first + 1}).`,
-    evidence: { differingRows: differing, firstDifferingRow: first + 1 }
-  };
+  return { differing, first };
 }
 
 // src/core/checks/side-result.ts
@@ -42291,6 +42345,23 @@ function mean2(values) {
 }
 
 // src/core/checks/leakage.ts
+function unevaluated(head, options, metricName) {
+  if (options.action === "off") return [];
+  const undefinedFor = Object.entries(head.singleFeatureSeparation).filter(([, value]) => !Number.isFinite(value)).map(([name]) => name).sort();
+  const fullUndefined = head.separation.length > 0 && !head.separation.some((value) => Number.isFinite(value));
+  if (undefinedFor.length === 0 && !fullUndefined) return [];
+  const why = options.task === "binary" ? "the holdout holds one class only, so AUC is undefined" : "the holdout target is constant, so R² is undefined";
+  const shown = undefinedFor.slice(0, 5).join(", ") + (undefinedFor.length > 5 ? ` and ${undefinedFor.length - 5} more` : "");
+  return [
+    {
+      kind: "leakage",
+      severity: options.action,
+      title: `The leakage check could not be evaluated on the head side: ${why}.`,
+      message: `No holdout ${metricName} could be computed for ${fullUndefined ? "the full model" : ""}${fullUndefined && undefinedFor.length ? " and " : ""}${undefinedFor.length ? `the one-feature models of ${shown}` : ""}. A feature that encodes the label cannot be told from a harmless one on this holdout, so this check neither passes nor clears the pull request. Give the holdout rows of both classes (or varied target values), then rerun; or set checks.leakage.action to warn if you accept not checking for leaks.`,
+      evidence: { unevaluatedFeatures: undefinedFor.length, fullModelUndefined: fullUndefined }
+    }
+  ];
+}
 function checkLeakage(context, options) {
   if (options.action === "off") return [];
   const { base, head, added, changed } = context;
@@ -42302,6 +42373,7 @@ function checkLeakage(context, options) {
   const ranked = rankFeatures(head.importances);
   const baseRanked = rankFeatures(base.importances);
   const flagged = /* @__PURE__ */ new Set();
+  findings.push(...unevaluated(head, options, metricName));
   const describeChange = (name) => added.has(name) ? "new in this pull request" : changed.has(name) ? "changed in this pull request" : "unchanged";
   for (const unit of ranked) {
     const alone = head.singleFeatureSeparation[unit.name];
@@ -42362,8 +42434,8 @@ function checkLeakage(context, options) {
     const share = positiveShare(head.importances, top.name);
     const ratio = runnerUp && runnerUp.mean > 0 ? top.mean / runnerUp.mean : Infinity;
     const alone = head.singleFeatureSeparation[top.name];
-    const relative2 = alone === void 0 || !(fullHead > trivial) ? NaN : (alone - trivial) / (fullHead - trivial);
-    const dominates = share >= options.dominanceShare && ratio >= options.runnerUpRatio && relative2 >= options.relativePower;
+    const relative3 = alone === void 0 || !(fullHead > trivial) ? NaN : (alone - trivial) / (fullHead - trivial);
+    const dominates = share >= options.dominanceShare && ratio >= options.runnerUpRatio && relative3 >= options.relativePower;
     if (dominates) {
       const isNewOrChanged = added.has(top.name) || changed.has(top.name);
       const baseShare = positiveShare(base.importances, top.name);
@@ -42375,14 +42447,14 @@ function checkLeakage(context, options) {
         severity,
         feature: top.name,
         title: `${top.name} dominates the model (${pct(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
-        message: `${top.name} carries ${pct(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${pct(relative2)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${pct(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${pct(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
+        message: `${top.name} carries ${pct(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${pct(relative3)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${pct(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${pct(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
         evidence: {
           share,
           baseShare,
           runnerUpRatio: Number.isFinite(ratio) ? ratio : null,
           runnerUp: runnerUp?.name ?? null,
           singleFeatureSeparation: alone ?? null,
-          relativePower: Number.isFinite(relative2) ? relative2 : null,
+          relativePower: Number.isFinite(relative3) ? relative3 : null,
           fullModelSeparation: fullHead,
           baseFullModelSeparation: fullBase,
           separationJumpInSds: Number.isFinite(scoreJump) ? scoreJump : null,
@@ -43230,39 +43302,234 @@ async function runGate(inputs) {
 }
 
 // src/adapters/files/read-dataset.ts
-import { readFile } from "node:fs/promises";
-import { resolve } from "node:path";
-async function readDataset(path, options = {}) {
-  const { cwd = process.cwd(), source = path, ...parseOptions } = options;
-  const fullPath = resolve(cwd, path);
-  let text2;
+import { resolve as resolve2 } from "node:path";
+
+// src/adapters/files/confined-file.ts
+import { constants } from "node:fs";
+import { open as open2, realpath, stat } from "node:fs/promises";
+import { basename, dirname, isAbsolute, join, relative, resolve, sep } from "node:path";
+var readLimits = {
+  /** A CSV file: its text must fit one JavaScript string with room to spare. */
+  data: 256 * 1024 * 1024,
+  /** An ONNX model. */
+  model: 512 * 1024 * 1024,
+  /** plumbline.yml. */
+  policy: 1024 * 1024,
+  /** A published JSON report. */
+  report: 64 * 1024 * 1024,
+  /** The event payload the runner writes. */
+  event: 32 * 1024 * 1024
+};
+function mebibytes(bytes) {
+  return `${(bytes / (1024 * 1024)).toFixed(bytes % (1024 * 1024) === 0 ? 0 : 1)} MiB`;
+}
+function isInside(root2, path) {
+  const rel = relative(root2, path);
+  return rel === "" || !rel.startsWith(`..${sep}`) && rel !== ".." && !isAbsolute(rel);
+}
+function outside(target, how) {
+  return new UserError(
+    `${target.key} '${target.path}' ${how} outside ${target.rootName}; plumbline reads and writes only inside it.`,
+    `Give a path relative to ${target.rootName}, without '..' climbing out of it and without a symlink that points outside.`
+  );
+}
+async function resolveConfined(target, missing) {
+  const root2 = await realpath(target.root);
+  const lexical = resolve(root2, target.path);
+  if (!isInside(root2, lexical)) throw outside(target, "lies");
+  let real;
   try {
-    text2 = await readFile(fullPath, "utf8");
+    real = await realpath(lexical);
   } catch (error62) {
     const code2 = error62.code;
-    const problem = code2 === "ENOENT" ? "there is no such file" : code2 === "EISDIR" ? "it is a directory" : code2 === "EACCES" ? "permission denied" : void 0;
-    if (problem === void 0) throw error62;
-    throw new UserError(
-      `Cannot read the data file '${path}' (resolved against ${cwd}): ${problem}.`,
-      "Check the path: a relative path is read from that directory."
-    );
+    if (code2 === "ENOENT" || code2 === "ENOTDIR") {
+      await refuseEscapingParent(target, root2, lexical);
+      throw missing();
+    }
+    if (code2 === "ELOOP") throw new UserError(`${target.key} '${target.path}' is a symlink loop.`, "Point the path at a regular file.");
+    if (code2 === "EACCES") throw new UserError(`${target.key} '${target.path}': permission denied.`, "Make the file readable by the user that runs plumbline.");
+    throw error62;
   }
-  return parseCsv(text2, { ...parseOptions, source });
+  if (!isInside(root2, real)) throw outside(target, "points (through a symlink)");
+  return real;
+}
+async function refuseEscapingParent(target, root2, lexical) {
+  let folder = dirname(lexical);
+  while (isInside(root2, folder) && folder !== root2) {
+    const real = await realpath(folder).catch(() => null);
+    if (real !== null) {
+      if (!isInside(root2, real)) throw outside(target, "points (through a symlinked folder)");
+      return;
+    }
+    folder = dirname(folder);
+  }
+}
+async function readConfinedFile(target, options) {
+  const real = await resolveConfined(target, options.missing);
+  return readRegularFile(real, { ...options, name: `${target.key} '${target.path}'` });
+}
+async function readRegularFile(path, options) {
+  let handle;
+  try {
+    handle = await open2(path, constants.O_RDONLY | constants.O_NONBLOCK | (options.noFollow ? constants.O_NOFOLLOW : 0));
+  } catch (error62) {
+    const code2 = error62.code;
+    if (code2 === "ENOENT" || code2 === "ENOTDIR") throw options.missing();
+    if (code2 === "ELOOP") throw new UserError(`${options.name} is a symlink; plumbline reads only a regular file there.`, `Write the ${options.what} itself at that path, not a link to it.`);
+    if (code2 === "EACCES") throw new UserError(`${options.name}: permission denied.`, "Make the file readable by the user that runs plumbline.");
+    if (code2 === "EISDIR") throw notRegular(options.name, options.what, "a directory");
+    throw error62;
+  }
+  try {
+    const info = await handle.stat();
+    if (!info.isFile()) {
+      const kind = info.isDirectory() ? "a directory" : info.isFIFO() ? "a FIFO (named pipe)" : info.isCharacterDevice() || info.isBlockDevice() ? "a device" : info.isSocket() ? "a socket" : "not a regular file";
+      throw notRegular(options.name, options.what, kind);
+    }
+    const tooLarge = () => new UserError(
+      `${options.name} is larger than plumbline reads for a ${options.what} (${mebibytes(options.maxBytes)}).`,
+      options.limitFix ?? `Use a smaller ${options.what}: sample the rows, or check that the path names the right file.`
+    );
+    if (info.size > options.maxBytes) throw tooLarge();
+    const chunks = [];
+    let total = 0;
+    for (; ; ) {
+      const chunk = Buffer.allocUnsafe(Math.min(1024 * 1024, options.maxBytes + 1 - total));
+      const { bytesRead } = await handle.read(chunk, 0, chunk.length, null);
+      if (bytesRead === 0) break;
+      total += bytesRead;
+      if (total > options.maxBytes) throw tooLarge();
+      chunks.push(chunk.subarray(0, bytesRead));
+    }
+    return Buffer.concat(chunks, total);
+  } finally {
+    await handle.close();
+  }
+}
+function notRegular(name, what, kind) {
+  return new UserError(`${name} is ${kind}, not a regular file; plumbline reads a ${what} only from a regular file.`, `Point it at the ${what} file itself.`);
+}
+async function resolveConfinedOutput(target, options) {
+  const root2 = await realpath(target.root);
+  const lexical = resolve(root2, target.path);
+  if (options.confine && !isInside(root2, lexical)) throw outside(target, "lies");
+  let folder = dirname(lexical);
+  while (!await stat(folder).then(() => true, () => false) && dirname(folder) !== folder) folder = dirname(folder);
+  const realFolder = await realpath(folder);
+  if (options.confine && !isInside(root2, realFolder)) throw outside(target, "points (through a symlinked folder)");
+  const full = join(realFolder, relative(folder, dirname(lexical)), basename(lexical));
+  const existing = await stat(full).catch(() => null);
+  if (existing?.isDirectory()) {
+    throw new UserError(`${target.key} '${target.path}' is a directory; plumbline writes a report file there.`, "Name a file, for example report.json inside that folder.");
+  }
+  if (existing && !existing.isFile() && !existing.isCharacterDevice()) {
+    throw new UserError(`${target.key} '${target.path}' is not a regular file.`, "Name a new or regular file to write the report to.");
+  }
+  if (options.confine) {
+    const realFull = await realpath(full).catch(() => null);
+    if (realFull !== null && !isInside(root2, realFull)) throw outside(target, "points (through a symlink)");
+  }
+  return full;
+}
+
+// src/adapters/files/read-dataset.ts
+async function readDataset(path, options = {}) {
+  const { cwd = process.cwd(), source = path, key: key2, rootName, ...parseOptions } = options;
+  const problem = (what) => new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, "Check the path: a relative path is read from that directory.");
+  const limits = {
+    maxBytes: readLimits.data,
+    what: "data file",
+    missing: () => problem("there is no such file"),
+    limitFix: "Sample the rows into a smaller file in prepare (a gate needs thousands of rows, not millions), or check that the path names the right file."
+  };
+  let bytes;
+  try {
+    bytes = key2 === void 0 ? await readRegularFile(resolve2(cwd, path), { ...limits, name: `The data file '${path}'` }) : await readConfinedFile({ key: key2, path, root: cwd, rootName: rootName ?? cwd }, limits);
+  } catch (error62) {
+    if (error62.code === "EACCES") throw problem("permission denied");
+    if (error62 instanceof UserError && / is a directory, not a regular file/.test(error62.message)) throw problem("it is a directory");
+    throw error62;
+  }
+  return parseCsv(bytes.toString("utf8"), { ...parseOptions, source });
 }
 
 // src/adapters/git/git.ts
 import { execFile } from "node:child_process";
 import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { join as join2 } from "node:path";
 import { promisify } from "node:util";
-var exec = promisify(execFile);
+
+// src/adapters/security/child-environment.ts
+var commonNames = ["PATH", "HOME", "USER", "LOGNAME", "SHELL", "LANG", "LANGUAGE", "TZ", "TMPDIR", "TMP", "TEMP", "TERM", "PWD"];
+var gitNames = ["SSH_AUTH_SOCK", "GIT_SSH", "GIT_SSH_COMMAND", "HTTP_PROXY", "HTTPS_PROXY", "NO_PROXY", "http_proxy", "https_proxy", "no_proxy", "GIT_CONFIG_NOSYSTEM", "GIT_CONFIG_GLOBAL", "GIT_CONFIG_SYSTEM", "XDG_CONFIG_HOME"];
+var secretLookingName = /TOKEN|SECRET|PASSW|(^|_)KEY($|_)|API_?KEY|PRIVATE|CREDENTIAL|AUTH|COOKIE|SESSION/i;
+function childEnvironment(extra = {}, options = {}) {
+  const source = options.source ?? process.env;
+  const allowed = /* @__PURE__ */ new Set([...commonNames, ...options.purpose === "git" ? gitNames : []]);
+  const kept = {};
+  for (const [name, value] of Object.entries(source)) {
+    if (value === void 0) continue;
+    const isListed = allowed.has(name) || name.startsWith("PLUMBLINE_") || name.startsWith("LC_");
+    if (isListed && (name === "SSH_AUTH_SOCK" || !secretLookingName.test(name))) kept[name] = value;
+  }
+  for (const [name, value] of Object.entries(extra)) {
+    if (!secretLookingName.test(name)) kept[name] = value;
+  }
+  return kept;
+}
+
+// src/adapters/security/secrets.ts
+var secrets = /* @__PURE__ */ new Set();
+var redactedMark = "***";
+function registerSecret(value) {
+  if (value === void 0) return;
+  const trimmed = value.trim();
+  for (const candidate of [value, trimmed]) {
+    if (candidate.length < 4) continue;
+    secrets.add(candidate);
+    secrets.add(JSON.stringify(candidate).slice(1, -1));
+    secrets.add(encodeURIComponent(candidate));
+    secrets.add(Buffer.from(candidate, "utf8").toString("base64").replace(/=+$/, ""));
+    for (const line of candidate.split(/\r?\n/)) if (line.trim().length >= 4) secrets.add(line.trim());
+  }
+}
+function registerEnvironmentSecrets(env = process.env) {
+  for (const name of ["GITHUB_TOKEN", "GH_TOKEN", "INPUT_TOKEN", "ACTIONS_RUNTIME_TOKEN", "ACTIONS_ID_TOKEN_REQUEST_TOKEN"]) registerSecret(env[name]);
+}
+function redactSecrets(text2) {
+  if (secrets.size === 0 || text2 === "") return text2;
+  let result = text2;
+  for (const secret of [...secrets].sort((a, b) => b.length - a.length)) {
+    if (result.includes(secret)) result = result.split(secret).join(redactedMark);
+  }
+  return result;
+}
+function redactDeep(value, depth = 0) {
+  if (typeof value === "string") return redactSecrets(value);
+  if (secrets.size === 0 || depth > 64 || value === null || typeof value !== "object") return value;
+  if (Array.isArray(value)) return value.map((item) => redactDeep(item, depth + 1));
+  const copy = {};
+  for (const [key2, item] of Object.entries(value)) copy[redactSecrets(key2)] = redactDeep(item, depth + 1);
+  return copy;
+}
+
+// src/adapters/security/terminal-text.ts
+var escapeSequences = /\u001b\[[0-?]*[ -/]*[@-~]|\u001b\][^\u0007\u001b]*(?:\u0007|\u001b\\)?|\u009b[0-?]*[ -/]*[@-~]|\u001b[@-Z\\-_]/g;
+var otherControls = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/g;
+function cleanOutsideText(text2) {
+  return redactSecrets(text2.replace(/\r\n/g, "\n").replace(escapeSequences, "").replace(otherControls, "�"));
+}
+
+// src/adapters/git/git.ts
+var execFileAsync = promisify(execFile);
+var exec = (file2, args, options) => execFileAsync(file2, args, { ...options, env: childEnvironment({ GIT_TERMINAL_PROMPT: "0" }, { purpose: "git" }) });
 async function git(cwd, args, what) {
   try {
     const { stdout } = await exec("git", args, { cwd, maxBuffer: 64 * 1024 * 1024 });
     return stdout.trim();
   } catch (error62) {
-    const detail = error62.stderr?.trim() || error62.message;
+    const detail = cleanOutsideText(error62.stderr?.trim() || error62.message);
     throw new UserError(`git could not ${what}: ${detail}`, `Run plumbline inside a git repository with the refs you name (git ${args.join(" ")}).`);
   }
 }
@@ -43309,8 +43576,8 @@ async function defaultBase(root2) {
   );
 }
 async function addWorktree(root2, commit) {
-  const parent = await mkdtemp(join(tmpdir(), "plumbline-side-"));
-  const path = join(parent, "tree");
+  const parent = await mkdtemp(join2(tmpdir(), "plumbline-side-"));
+  const path = join2(parent, "tree");
   await git(root2, ["worktree", "add", "--detach", "--quiet", path, commit], `check out ${commit.slice(0, 12)} into a worktree`).catch(
     async (error62) => {
       await rm(parent, { recursive: true, force: true });
@@ -43340,6 +43607,38 @@ async function readFileAtCommit(root2, commit, path) {
 
 // src/adapters/check/run-prepare.ts
 import { spawn } from "node:child_process";
+
+// src/adapters/security/finish-child.ts
+var PIPE_GRACE_MILLISECONDS = 1e3;
+function waitForChild(child2) {
+  return new Promise((resolve6) => {
+    let graceTimer;
+    let exited;
+    let done = false;
+    const finish = (outcome) => {
+      if (done) return;
+      done = true;
+      clearTimeout(graceTimer);
+      resolve6(outcome);
+    };
+    child2.on("error", (error62) => finish({ code: null, signal: null, startError: error62 }));
+    child2.on("exit", (code2, signal) => {
+      exited = { code: code2, signal };
+      graceTimer = setTimeout(() => {
+        for (const stream of [child2.stdout, child2.stderr]) stream?.destroy();
+        finish(exited);
+      }, PIPE_GRACE_MILLISECONDS);
+      graceTimer.unref?.();
+    });
+    child2.on("close", (code2, signal) => finish(exited ?? { code: code2, signal }));
+  });
+}
+function describeExit(code2, signal) {
+  if (code2 !== null) return `exited with code ${code2}`;
+  return signal ? `was killed by signal ${signal}` : "ended without an exit code";
+}
+
+// src/adapters/check/run-prepare.ts
 var TAIL_LINES = 40;
 async function runPrepare(options) {
   const { command, cwd, timeoutSeconds, side: side2 } = options;
@@ -43347,7 +43646,7 @@ async function runPrepare(options) {
     cwd,
     detached: true,
     stdio: ["ignore", "pipe", "pipe"],
-    env: { ...process.env, PLUMBLINE_SIDE: side2 }
+    env: childEnvironment({ PLUMBLINE_SIDE: side2 })
   });
   let output2 = "";
   const keep = (chunk) => {
@@ -43355,23 +43654,25 @@ async function runPrepare(options) {
   };
   child2.stdout.on("data", keep);
   child2.stderr.on("data", keep);
-  let timedOut = false;
-  const timer = setTimeout(() => {
-    timedOut = true;
+  const killGroup = () => {
     try {
       process.kill(-child2.pid, "SIGKILL");
     } catch {
     }
+  };
+  let timedOut = false;
+  const timer = setTimeout(() => {
+    timedOut = true;
+    killGroup();
   }, timeoutSeconds * 1e3);
-  const code2 = await new Promise((done, fail) => {
-    child2.on("error", fail);
-    child2.on("close", (exitCode) => done(exitCode));
-  }).finally(() => clearTimeout(timer));
+  child2.on("exit", killGroup);
+  const { code: code2, signal, startError } = await waitForChild(child2).finally(() => clearTimeout(timer));
+  if (startError) throw new UserError(`prepare on the ${side2} side could not be started in ${cwd}: ${startError.message}`, "Check that /bin/sh exists and that the checkout can be entered.");
   if (code2 === 0 && !timedOut) return;
-  const tail = output2.split("\n").slice(-TAIL_LINES).join("\n").trimEnd();
-  const why = timedOut ? `timed out after ${timeoutSeconds} s` : `exited with code ${code2}`;
+  const tail = cleanOutsideText(output2.split("\n").slice(-TAIL_LINES).join("\n").trimEnd());
+  const why = timedOut ? `timed out after ${timeoutSeconds} s` : describeExit(code2, signal);
   throw new UserError(
-    `prepare on the ${side2} side ${why}: ${command}
+    `prepare on the ${side2} side ${why}: ${cleanOutsideText(command)}
 --- last lines of its output ---
 ${tail || "(no output)"}`,
     timedOut ? "Make the command faster or raise 'prepare.timeout_seconds' in the policy." : `Run the command yourself in the ${side2} checkout to see the problem.`
@@ -43379,8 +43680,8 @@ ${tail || "(no output)"}`,
 }
 
 // src/adapters/check/load-side-model.ts
-import { readdir, readFile as readFile3 } from "node:fs/promises";
-import { basename, dirname, join as join3, resolve as resolve2 } from "node:path";
+import { readdir } from "node:fs/promises";
+import { basename as basename2, dirname as dirname2, join as join4, resolve as resolve3 } from "node:path";
 
 // src/adapters/onnx/load-onnx-model.ts
 var import_onnxruntime_node = __toESM(require_dist2(), 1);
@@ -43785,9 +44086,11 @@ function planProbabilityOutput(outputs, options, summary2) {
         throw outputError(`The ONNX model '${source}' output '${output2.name}' came back with shape [${tensor.dims.join(", ")}] for ${rows} rows; a binary model's probabilities must be [N, 2].`, outputs, fix);
       }
       const data = tensor.data;
+      const slack = probabilitySlack(data);
       for (let i = 0; i < rows; i++) {
-        const p = data[2 * i + positive];
-        if (p < 0 || p > 1) {
+        const raw = data[2 * i + positive];
+        const p = raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw;
+        if (!(p >= 0 && p <= 1)) {
           throw new UserError(
             `The ONNX model '${source}' output '${output2.name}' is not a probability: row ${start + i + 1} of the rows scored has ${p}.`,
             `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`
@@ -43797,6 +44100,9 @@ function planProbabilityOutput(outputs, options, summary2) {
       }
     }
   };
+}
+function probabilitySlack(data) {
+  return 16 * (data instanceof Float32Array ? 2 ** -23 : Number.EPSILON);
 }
 function positiveColumn(positiveClass, labels, source, outputName) {
   const listed = labels?.map((l) => `'${l}'`).join(", ");
@@ -43844,7 +44150,7 @@ function describeColumns(features) {
 // src/adapters/training/create-command-fit.ts
 import { mkdtemp as mkdtemp2, rm as rm3 } from "node:fs/promises";
 import { tmpdir as tmpdir2 } from "node:os";
-import { join as join2 } from "node:path";
+import { join as join3 } from "node:path";
 
 // src/adapters/training/create-semaphore.ts
 function createSemaphore(limit) {
@@ -43875,7 +44181,7 @@ function createSemaphore(limit) {
 
 // src/adapters/training/run-training-command.ts
 import { spawn as spawn2 } from "node:child_process";
-import { readFile as readFile2, rm as rm2, stat } from "node:fs/promises";
+import { rm as rm2, stat as stat2 } from "node:fs/promises";
 import { performance as performance2 } from "node:perf_hooks";
 var LOG_TAIL_LINES = 60;
 var LOG_TAIL_CHARACTERS = 16384;
@@ -43884,7 +44190,7 @@ async function runTrainingCommand(request) {
   if (!(request.timeoutSeconds > 0)) {
     throw new RangeError(`runTrainingCommand needs timeoutSeconds > 0, got ${request.timeoutSeconds}`);
   }
-  const isDirectory = await stat(request.cwd).then((s) => s.isDirectory(), () => false);
+  const isDirectory = await stat2(request.cwd).then((s) => s.isDirectory(), () => false);
   if (!isDirectory) {
     throw new UserError(
       `The training command for ${request.label} cannot run: its directory ${request.cwd} does not exist.`,
@@ -43896,10 +44202,10 @@ async function runTrainingCommand(request) {
   const started = performance2.now();
   const outcome = await runInProcessGroup(request, env);
   const seconds = (performance2.now() - started) / 1e3;
-  const logTail = outcome.log.text();
+  const logTail = cleanOutsideText(outcome.log.text());
   const failure2 = (what, fix) => new UserError(
     `The training command for ${request.label} ${what}.
-Command: ${request.command}
+Command: ${cleanOutsideText(request.command)}
 ${describeLog(logTail)}`,
     fix
   );
@@ -43920,20 +44226,23 @@ ${describeLog(logTail)}`,
     );
   }
   if (outcome.code !== 0) {
-    throw failure2(outcome.code === null ? `was killed by signal ${outcome.signal}` : `exited with code ${outcome.code}`, reproduce);
+    throw failure2(describeExit(outcome.code, outcome.signal), reproduce);
   }
-  let bytes;
-  try {
-    bytes = new Uint8Array(await readFile2(request.outputPath));
-  } catch {
-    bytes = new Uint8Array(0);
-  }
-  if (bytes.length === 0) {
-    throw failure2(
-      "finished but wrote no model to $PLUMBLINE_OUTPUT",
-      `Make the command write its ONNX model to the path it is given in $PLUMBLINE_OUTPUT (this time ${request.outputPath}).`
-    );
-  }
+  const noModel = () => failure2(
+    "finished but wrote no model to $PLUMBLINE_OUTPUT",
+    `Make the command write its ONNX model to the path it is given in $PLUMBLINE_OUTPUT (this time ${request.outputPath}).`
+  );
+  const bytes = new Uint8Array(
+    await readRegularFile(request.outputPath, {
+      maxBytes: readLimits.model,
+      what: "ONNX model",
+      name: `The model the training command for ${request.label} wrote to $PLUMBLINE_OUTPUT`,
+      missing: noModel,
+      noFollow: true,
+      limitFix: "Write a smaller model (fewer or shallower trees), or check what the command writes to $PLUMBLINE_OUTPUT."
+    })
+  );
+  if (bytes.length === 0) throw noModel();
   return { bytes, seconds, logTail };
 }
 function runInProcessGroup(request, env) {
@@ -43941,7 +44250,7 @@ function runInProcessGroup(request, env) {
   return new Promise((resolve6) => {
     const child2 = spawn2("/bin/sh", ["-c", 'exec 2>&1; exec /bin/sh -c "$1"', "plumbline-train", request.command], {
       cwd: request.cwd,
-      env: { ...inheritedEnvironment(), ...env },
+      env: childEnvironment(env),
       stdio: ["ignore", "pipe", "ignore"],
       detached: true
     });
@@ -43971,23 +44280,13 @@ function runInProcessGroup(request, env) {
     child2.stdout.setEncoding("utf8");
     child2.stdout.on("data", (chunk) => log.add(chunk));
     child2.on("exit", () => signalGroup("SIGKILL"));
-    const finish = (outcome) => {
+    void waitForChild(child2).then((outcome) => {
       clearTimeout(timeout);
       clearTimeout(killTimer);
       request.signal?.removeEventListener("abort", onAbort);
       resolve6({ log, timedOut, stoppedBecause, ...outcome });
-    };
-    child2.on("error", (error62) => finish({ code: null, signal: null, startError: error62 }));
-    child2.on("close", (code2, signal) => finish({ code: code2, signal }));
+    });
   });
-}
-function inheritedEnvironment() {
-  const kept = {};
-  for (const [name, value] of Object.entries(process.env)) {
-    if (value === void 0 || /^(INPUT_|ACTIONS_)/.test(name) || name === "GITHUB_TOKEN") continue;
-    kept[name] = value;
-  }
-  return kept;
 }
 var LogTail = class {
   kept = "";
@@ -44055,14 +44354,14 @@ function createCommandFit(options) {
       if (firstFailure !== void 0) {
         throw new UserError(`The training command for ${label} was not run, because ${firstFailure}.`);
       }
-      const directory = await mkdtemp2(join2(options.temporaryRoot ?? tmpdir2(), "plumbline-train-"));
+      const directory = await mkdtemp2(join3(options.temporaryRoot ?? tmpdir2(), "plumbline-train-"));
       try {
         const result = await runTrainingCommand({
           command: options.command,
           cwd: side2.cwd,
           timeoutSeconds: options.timeoutSeconds,
           env: trainingEnvironment(request, side2),
-          outputPath: join2(directory, "model.onnx"),
+          outputPath: join3(directory, "model.onnx"),
           label,
           signal: stop.signal
         });
@@ -44094,12 +44393,18 @@ async function loadSideModel(config2, side2) {
   const model = config2.model;
   if (model.kind === "onnx") {
     const path = await resolveModelPath(side2.checkout, model.path, side2.side);
-    const bytes = await readFile3(path).catch(() => {
-      throw new UserError(
-        `No ONNX model at ${model.path} on the ${side2.side} side (looked for ${path}).`,
-        "Commit the model file on both sides, build it in 'prepare', or fix 'model.onnx.path' in the policy."
-      );
-    });
+    const bytes = await readConfinedFile(
+      { key: "model.onnx.path", path, root: side2.checkout, rootName: `the ${side2.side} checkout` },
+      {
+        maxBytes: readLimits.model,
+        what: "ONNX model",
+        missing: () => new UserError(
+          `No ONNX model at ${model.path} on the ${side2.side} side (looked for ${resolve3(side2.checkout, path)}).`,
+          "Commit the model file on both sides, build it in 'prepare', or fix 'model.onnx.path' in the policy."
+        ),
+        limitFix: "Export a smaller model (fewer or shallower trees), or check that model.onnx.path names the model file."
+      }
+    );
     side2.log(`${side2.side}: loaded ONNX model ${model.path} (${(bytes.length / 1024).toFixed(0)} KiB)`);
     return {
       kind: "loaded",
@@ -44128,8 +44433,8 @@ async function loadSideModel(config2, side2) {
         sides: {
           [side2.side]: {
             cwd: side2.checkout,
-            train: resolve2(side2.checkout, config2.data.train),
-            holdout: resolve2(side2.checkout, config2.data.holdout.path)
+            train: resolve3(side2.checkout, config2.data.train),
+            holdout: resolve3(side2.checkout, config2.data.holdout.path)
           }
         },
         task: config2.task,
@@ -44141,12 +44446,15 @@ async function loadSideModel(config2, side2) {
   throw new Error(`loadSideModel: a built-in model needs no loading (model kind ${model.kind})`);
 }
 async function resolveModelPath(checkout, pattern, sideName) {
-  if (!pattern.includes("*")) return resolve2(checkout, pattern);
-  const dir = resolve2(checkout, dirname(pattern));
-  const glob = basename(pattern);
-  if (dirname(pattern).includes("*")) {
+  if (!pattern.includes("*")) return pattern;
+  const glob = basename2(pattern);
+  if (dirname2(pattern).includes("*")) {
     throw new UserError(`model.onnx.path '${pattern}': '*' is allowed in the file name only.`, "Name the folder exactly, e.g. 'models/*.onnx'.");
   }
+  const dir = await resolveConfined(
+    { key: "model.onnx.path", path: dirname2(pattern), root: checkout, rootName: `the ${sideName} checkout` },
+    () => new UserError(`model.onnx.path '${pattern}': there is no folder ${dirname2(pattern)} on the ${sideName} side.`, "Fix 'model.onnx.path' in the policy, or create the folder in 'prepare'.")
+  );
   const matcher = new RegExp(`^${glob.split("*").map((p) => p.replace(/[.+?^${}()|[\]\\]/g, "\\$&")).join(".*")}$`);
   const names = (await readdir(dir).catch(() => [])).filter((n) => matcher.test(n)).sort();
   if (names.length !== 1) {
@@ -44155,7 +44463,7 @@ async function resolveModelPath(checkout, pattern, sideName) {
       "Make the pattern match one model file, or name the file exactly."
     );
   }
-  return join3(dir, names[0]);
+  return join4(dirname2(pattern), names[0]);
 }
 
 // src/adapters/version.ts
@@ -44214,13 +44522,18 @@ async function runCheck(request) {
   const cleanups = [];
   try {
     const head = request.headRef ? await checkoutSide(root2, request.headRef, "--head", cleanups) : { path: root2, ref: "working tree", commit: null };
-    const policyFile = join4(head.path, policyPath);
-    const policyText = await readFile4(policyFile, "utf8").catch(() => {
-      throw new UserError(
-        `No policy file at ${policyPath} (looked in ${head.path}).`,
-        "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input)."
-      );
-    });
+    const policyText = (await readConfinedFile(
+      { key: "The policy file", path: policyPath, root: head.path, rootName: `the head checkout (${head.path})` },
+      {
+        maxBytes: readLimits.policy,
+        what: "policy",
+        missing: () => new UserError(
+          `No policy file at ${policyPath} (looked in ${head.path}).`,
+          "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input)."
+        ),
+        limitFix: "A plumbline.yml is a few dozen lines; check that --policy (the action's 'policy' input) names it."
+      }
+    )).toString("utf8");
     const policy = readPolicyFile(policyText, { source: policyPath });
     const { config: config2 } = policy;
     const baseTarget = request.baseRef ? { ref: request.baseRef, commit: await resolveCommit(root2, request.baseRef, "--base") } : await defaultBase(root2);
@@ -44259,11 +44572,12 @@ async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
     log(`${side2}: running prepare: ${config2.prepare.command}`);
     await runPrepare({ command: config2.prepare.command, cwd: checkout, timeoutSeconds: config2.prepare.timeoutSeconds, side: side2 });
   }
-  const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout };
+  const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout, rootName: `the ${side2} checkout` };
   const tables = {};
   for (const file2 of sideDataFiles(config2)) {
     tables[file2.role] = await readDataset(file2.path, {
       ...readOptions,
+      key: file2.key,
       source: `${side2}:${file2.path}`,
       requireTarget: file2.requireTarget,
       ...file2.conformToTrain ? { schema: schemaOf(tables.train) } : {}
@@ -44271,12 +44585,35 @@ async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
   }
   const { train: train3, holdout, reference } = assembleSideData(config2, tables);
   checkPolicyAgainstColumns(policy, [...train3.features.map((f) => f.name), ...train3.ids ? [train3.ids.name] : []]);
+  checkSizes(side2, config2, train3, holdout, log);
   log(`${side2}: ${train3.rows} training rows, ${holdout.rows} holdout rows, ${train3.features.length} features`);
   const model = config2.model.kind === "builtin" ? { kind: "builtin" } : await loadSideModel(config2, { checkout, side: side2, train: train3, holdout, log });
   return { ref, commit, train: train3, holdout, reference, model };
 }
+var minimumRows = { train: 20, holdout: 10 };
+var smallRows = { train: 200, holdout: 100 };
+function checkSizes(side2, config2, train3, holdout, log) {
+  if (train3.features.length === 0) {
+    throw new UserError(
+      `${side2}:${config2.data.train} has no feature column: every column is the target, the id or ignored.`,
+      "Add the feature columns to the file, or change their roles under 'data.columns' in the policy."
+    );
+  }
+  const holdoutName = config2.data.holdout.kind === "file" ? config2.data.holdout.path : `the split of ${config2.data.train}`;
+  for (const [which, data, name] of [["train", train3, config2.data.train], ["holdout", holdout, holdoutName]]) {
+    if (data.rows < minimumRows[which]) {
+      throw new UserError(
+        `${side2}:${name} has ${data.rows} ${which === "train" ? "training" : "holdout"} row${data.rows === 1 ? "" : "s"}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
+        which === "train" ? "Point data.train at the full training table." : "Give the holdout more rows (data.holdout), or a larger 'fraction' for a split."
+      );
+    }
+    if (data.rows < smallRows[which]) {
+      log(`${side2}: note: only ${data.rows} ${which === "train" ? "training" : "holdout"} rows; with so few, the noise floor is wide and small changes cannot be told from noise.`);
+    }
+  }
+}
 function toRepoPath(path) {
-  return (isAbsolute(path) ? relative(resolve3("/"), path) : path).split("\\").join("/");
+  return (isAbsolute2(path) ? relative2(resolve4("/"), path) : path).split("\\").join("/");
 }
 
 // src/adapters/cli/args.ts
@@ -44383,8 +44720,8 @@ function parse4(args, command, options) {
 }
 
 // src/adapters/cli/init.ts
-import { access, mkdir, readFile as readFile5, readdir as readdir2, writeFile } from "node:fs/promises";
-import { dirname as dirname2, join as join5, resolve as resolve4 } from "node:path";
+import { access, mkdir, readFile, readdir as readdir2, writeFile } from "node:fs/promises";
+import { dirname as dirname3, join as join5, resolve as resolve5 } from "node:path";
 
 // src/core/policy/render-starter-policy.ts
 var labelNames = ["target", "label", "y", "outcome"];
@@ -44585,12 +44922,12 @@ function summarizeColumns(data) {
 // src/adapters/cli/init.ts
 async function init(command, io) {
   const root2 = await repositoryRoot(io.cwd).catch(() => io.cwd);
-  const output2 = resolve4(io.cwd, command.output);
+  const output2 = resolve5(io.cwd, command.output);
   if (!command.force && await exists(output2)) {
     throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
   }
   const trainPath = command.train ?? await findTrainingTable(root2);
-  const text2 = await readFile5(resolve4(root2, trainPath), "utf8").catch(() => {
+  const text2 = await readFile(resolve5(root2, trainPath), "utf8").catch(() => {
     throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
   });
   const data = parseCsv(text2, { source: trainPath, requireTarget: false });
@@ -44600,7 +44937,7 @@ async function init(command, io) {
     throw new UserError(`--target '${command.target}' is not a column of ${trainPath}.`, `Columns: ${columns.map((c) => c.name).join(", ")}.`);
   }
   const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task });
-  await mkdir(dirname2(output2), { recursive: true });
+  await mkdir(dirname3(output2), { recursive: true });
   await writeFile(output2, policy);
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.
 `);
@@ -44627,11 +44964,12 @@ async function exists(path) {
 
 // src/adapters/cli/main.ts
 async function main(argv, io) {
+  registerEnvironmentSecrets();
   let command;
   try {
     command = parseCommand(argv);
   } catch (error62) {
-    io.stderr(`${describeFailure(error62)}
+    io.stderr(`${cleanOutsideText(describeFailure(error62))}
 `);
     return error62 instanceof UserError ? 2 : 3;
   }
@@ -44650,13 +44988,14 @@ async function main(argv, io) {
     const started = performance.now();
     const progress = createProgress(io, started);
     let report;
+    await planOutputs(command, io.cwd);
     try {
       report = await runCheck({
         cwd: io.cwd,
         policyPath: command.policy,
         baseRef: command.base,
         headRef: command.head,
-        log: (line) => progress.line(line),
+        log: (line) => progress.line(cleanOutsideText(line)),
         onProgress: (event) => progress.event(event)
       });
     } catch (error62) {
@@ -44671,44 +45010,74 @@ async function main(argv, io) {
       throw error62;
     }
     progress.done();
+    report = redactDeep(report);
     await writeOutputs(command, report, io.cwd);
-    if (command.quiet) io.stdout(`plumbline: ${report.verdict}: ${report.headline}
-`);
-    else io.stdout(`${renderText(report)}
+    if (command.quiet) io.stdout(cleanOutsideText(`plumbline: ${report.verdict}: ${report.headline}
+`));
+    else io.stdout(`${cleanOutsideText(renderText(report))}
 `);
     io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1e3).toFixed(1)} s
 `);
     return report.verdict === "block" ? 1 : 0;
   } catch (error62) {
-    io.stderr(`${describeFailure(error62)}
+    io.stderr(`${cleanOutsideText(describeFailure(error62))}
 `);
     return error62 instanceof UserError ? 2 : 3;
   }
 }
+async function planOutputs(command, cwd) {
+  const planned = [];
+  for (const [flag, path] of [["--json", command.json], ["--markdown", command.markdown]]) {
+    if (path) planned.push({ flag, path: await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false }) });
+  }
+  return planned;
+}
 async function writeOutputs(command, report, cwd) {
-  const write = async (path, text2) => {
-    const full = resolve5(cwd, path);
-    await mkdir2(dirname3(full), { recursive: true });
-    await writeFile2(full, text2);
+  const texts = {
+    "--json": `${JSON.stringify(report, null, 2)}
+`,
+    "--markdown": renderMarkdown(report)
   };
-  if (command.json) await write(command.json, `${JSON.stringify(report, null, 2)}
-`);
-  if (command.markdown) await write(command.markdown, renderMarkdown(report));
+  const staged = [];
+  try {
+    for (const { flag, path } of await planOutputs(command, cwd)) {
+      const existing = await stat3(path).catch(() => null);
+      try {
+        if (existing && !existing.isFile()) {
+          await writeFile2(path, texts[flag]);
+          continue;
+        }
+        await mkdir2(dirname4(path), { recursive: true });
+        const temporary = join6(dirname4(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
+        staged.push({ temporary, path });
+        await writeFile2(temporary, texts[flag]);
+      } catch (error62) {
+        throw new UserError(
+          `Could not write ${flag} ${path}: ${error62.code ?? error62.message}. No report file was written.`,
+          `Name a file in a folder you can write to, on a disk with room (${flag} FILE).`
+        );
+      }
+    }
+    for (const { temporary, path } of staged) await rename(temporary, path);
+    staged.length = 0;
+  } finally {
+    for (const { temporary } of staged) await rm4(temporary, { force: true });
+  }
 }
 function createProgress(io, started) {
-  let open2 = false;
+  let open3 = false;
   const elapsed = () => `${((performance.now() - started) / 1e3).toFixed(1)} s`;
   const show2 = (text2) => {
     if (io.isTty) {
       io.stderr(`\r\x1B[2K${text2}`);
-      open2 = true;
+      open3 = true;
     } else io.stderr(`${text2}
 `);
   };
   return {
     line(text2) {
-      if (open2) io.stderr("\n");
-      open2 = false;
+      if (open3) io.stderr("\n");
+      open3 = false;
       io.stderr(`${text2}
 `);
     },
@@ -44718,8 +45087,8 @@ function createProgress(io, started) {
       else show2(`[${elapsed()}] checks`);
     },
     done() {
-      if (open2) io.stderr("\n");
-      open2 = false;
+      if (open3) io.stderr("\n");
+      open3 = false;
     }
   };
 }

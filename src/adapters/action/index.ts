@@ -1,34 +1,51 @@
 /**
  * The action's entry point (bundled to dist/index.js). One handler turns anything thrown, Error or
  * not, into a failed step, so that no failure can end as a success.
+ *
+ * @actions/github reads and parses the event file when it is first imported; it is imported only
+ * once plumbline has read the event itself, so a malformed or binary event file is plumbline's
+ * UserError (with the 'error' verdict output), not a throw at import time.
  */
 import * as core from '@actions/core'
 import { describeFailure } from '../../core/errors.ts'
 import { runCheck } from '../check/run-check.ts'
 import { fetchBase } from '../github/fetch-base.ts'
-import { createGitHubClient } from '../github/github-client.ts'
+import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
+import { redactSecrets, registerSecret } from '../security/secrets.ts'
 import { run } from './main.ts'
+
+let clientModule: typeof import('../github/github-client.ts') | null = null
+const apiTimeout = Number(process.env.PLUMBLINE_API_TIMEOUT_SECONDS)
 
 try {
   await run({
     core: {
       getInput: (name) => core.getInput(name),
-      info: (message) => core.info(message),
-      warning: (message) => core.warning(message),
-      setSecret: (secret) => core.setSecret(secret),
-      setOutput: (name, value) => core.setOutput(name, value),
-      setFailed: (message) => core.setFailed(message),
+      info: (message) => core.info(redactSecrets(message)),
+      warning: (message) => core.warning(redactSecrets(message)),
+      setSecret: (secret) => {
+        core.setSecret(secret)
+        registerSecret(secret)
+      },
+      setOutput: (name, value) => core.setOutput(name, redactSecrets(value)),
+      setFailed: (message) => core.setFailed(redactSecrets(message)),
       group: (name, fn) => core.group(name, fn),
       appendSummary: async (markdown) => {
-        await core.summary.addRaw(markdown).write()
+        await core.summary.addRaw(redactSecrets(markdown)).write()
       },
     },
     env: process.env,
     cwd: process.cwd(),
-    createClient: createGitHubClient,
+    createClient: (token: string, options: GitHubClientOptions): GitHubClient => {
+      if (clientModule === null) throw new Error('the GitHub client was asked for before it was loaded')
+      return clientModule.createGitHubClient(token, apiTimeout > 0 ? { ...options, requestTimeoutMilliseconds: apiTimeout * 1000 } : options)
+    },
+    loadClient: async () => {
+      clientModule ??= await import('../github/github-client.ts')
+    },
     runCheck,
     fetchBase,
   })
 } catch (error) {
-  core.setFailed(describeFailure(error))
+  core.setFailed(redactSecrets(describeFailure(error)))
 }

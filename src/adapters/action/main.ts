@@ -6,7 +6,7 @@
  *
  * Everything outside is passed in (`ActionDependencies`), so tests run it with fakes.
  */
-import { mkdir, readFile, stat, writeFile } from 'node:fs/promises'
+import { mkdir, writeFile } from 'node:fs/promises'
 import { dirname, join, resolve } from 'node:path'
 import { decideVerdict } from '../../core/checks/verdict.ts'
 import { describeFailure, UserError } from '../../core/errors.ts'
@@ -23,7 +23,10 @@ import { findPullRequest } from '../github/find-pull-request.ts'
 import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
 import { parsePullRequestEvent, type EventInfo } from '../github/pull-request.ts'
 import { toolVersion } from '../version.ts'
-import { isFailingVerdict, readInputs, readToken, type ActionInputs } from './inputs.ts'
+import { readConfinedFile, readLimits, readRegularFile, resolveConfinedOutput } from '../files/confined-file.ts'
+import { boundNesting } from '../security/bound-nesting.ts'
+import { redactDeep, redactSecrets, registerSecret } from '../security/secrets.ts'
+import { inputDefaults, isFailingVerdict, readInputs, readToken, type ActionInputs } from './inputs.ts'
 
 /** The part of @actions/core the action uses. */
 export interface ActionCore {
@@ -44,6 +47,8 @@ export interface ActionDependencies {
   /** The folder relative paths start from when GITHUB_WORKSPACE is not set. */
   readonly cwd: string
   readonly createClient: (token: string, options: GitHubClientOptions) => GitHubClient
+  /** Loads what createClient needs; called once the event file is known to parse (index.ts). */
+  readonly loadClient?: () => Promise<void>
   readonly runCheck: (request: CheckRequest) => Promise<GateReport>
   readonly fetchBase: (request: FetchCommitRequest) => Promise<string>
 }
@@ -53,8 +58,8 @@ export const commentCharacterLimit = 65_536
 const commentMaxCharacters = 60_000
 /** Job summaries are limited to 1 MiB a step; UTF-16 units times 3 bytes stays below it. */
 const summaryMaxCharacters = 300_000
-/** A report file larger than this is refused before parsing (the schema's caps fit well inside). */
-const maxReportBytes = 64 * 1024 * 1024
+/** A published report nesting deeper than this is refused before it is parsed (plumbline's own reach about 8). */
+const maxReportNesting = 64
 
 export async function run(deps: ActionDependencies): Promise<void> {
   const { core, env } = deps
@@ -62,19 +67,58 @@ export async function run(deps: ActionDependencies): Promise<void> {
   // Masked first: a message about another input must not be able to show it.
   const token = readToken(getInput)
   if (token !== '') core.setSecret(token)
-  const inputs = readInputs(getInput)
+  registerSecret(token)
 
   const workspace = env.GITHUB_WORKSPACE || deps.cwd
   const repository = readRepository(env)
-  const event = parsePullRequestEvent(env.GITHUB_EVENT_NAME ?? '', await readEventPayload(env.GITHUB_EVENT_PATH), repository?.slug ?? '')
   const outputDirectory = join(env.RUNNER_TEMP || join(workspace, '.plumbline'), 'plumbline')
   const apiUrl = env.GITHUB_API_URL || 'https://api.github.com'
   let client: GitHubClient | null = null
-  const github = () => (client ??= deps.createClient(inputs.token, { baseUrl: apiUrl, log: (line) => core.info(line) }))
+  const github = () => (client ??= deps.createClient(token, { baseUrl: apiUrl, log: (line) => core.info(line) }))
 
+  // Each early step on its own, so that a failure in one still leaves what the others found: a bad
+  // input with a known pull request still comments; a broken event still sets the outputs.
+  let event: EventInfo = parsePullRequestEvent('', {}, '')
+  let early: unknown = null
+  try {
+    const payload = await readEventPayload(env.GITHUB_EVENT_PATH)
+    await deps.loadClient?.()
+    event = parsePullRequestEvent(env.GITHUB_EVENT_NAME ?? '', payload, repository?.slug ?? '')
+  } catch (error) {
+    early = error
+  }
+  let inputs: ActionInputs
+  try {
+    inputs = readInputs(getInput)
+  } catch (error) {
+    early ??= error
+    inputs = fallbackInputs(getInput, token)
+  }
   const context: RunContext = { deps, inputs, event, repository, workspace, outputDirectory, github }
+  if (early !== null) {
+    const plan = event.pullRequest && inputs.isCommentWanted ? basicCommentChecks(context, event.pullRequest.number) : { skipped: 'the run failed before the pull request was known' }
+    await finish(context, { report: failedRunReport(early, inputs.policyPath), failure: early, plan, extraJson: null })
+    return
+  }
   if (inputs.mode === 'publish') await publish(context)
   else await check(context)
+}
+
+/** The inputs to finish a run whose inputs could not be read: the defaults, the comment as asked when readable. */
+function fallbackInputs(getInput: (name: string) => string, token: string): ActionInputs {
+  const comment = getInput('comment').trim()
+  return {
+    policyPath: inputDefaults.policy,
+    token,
+    baseRef: null,
+    headRef: null,
+    isCommentWanted: !['false', 'False', 'FALSE'].includes(comment),
+    failOn: 'block',
+    mode: 'check',
+    reportPath: null,
+    isForkCodeAllowed: false,
+    workingDirectory: inputDefaults['working-directory'],
+  }
 }
 
 interface RunContext {
@@ -137,14 +181,23 @@ async function check(context: RunContext): Promise<void> {
     failure = error
     report = failedRunReport(error, inputs.policyPath)
   }
-  const extraJson = inputs.reportPath === null ? null : resolve(workspace, inputs.reportPath)
+  let extraJson: string | null = null
+  if (inputs.reportPath !== null) {
+    try {
+      extraJson = await resolveConfinedOutput({ key: "Input 'report'", path: inputs.reportPath, root: workspace, rootName: 'the workspace' }, { confine: true })
+    } catch (error) {
+      // The verdict stands, but the step fails: the copy the workflow asked for was not written.
+      if (failure === null) failure = error
+      if (report.verdict !== 'error') report = failedRunReport(error, inputs.policyPath)
+    }
+  }
   await finish(context, { report, failure, plan, extraJson })
 }
 
 async function publish(context: RunContext): Promise<void> {
   const { deps, inputs, event, workspace } = context
   const { core } = deps
-  const reportFile = resolve(workspace, inputs.reportPath as string)
+  const reportFile = join(workspace, inputs.reportPath as string)
   let plan: CommentPlan
   try {
     plan = await planPublishedComment(context)
@@ -166,7 +219,7 @@ async function publish(context: RunContext): Promise<void> {
   let report: GateReport
   let failure: unknown = null
   try {
-    report = await readPublishedReport(reportFile, inputs.reportPath as string)
+    report = await readPublishedReport(workspace, inputs.reportPath as string)
   } catch (error) {
     failure = error
     report = failedRunReport(error, 'the published report')
@@ -174,25 +227,37 @@ async function publish(context: RunContext): Promise<void> {
   await finish(context, { report, failure, plan, extraJson: null })
 }
 
-/** Reads and validates a report another job wrote. Its text is untrusted: it is never logged raw. */
-async function readPublishedReport(file: string, asTyped: string): Promise<GateReport> {
-  const size = await stat(file).then(
-    (s) => s.size,
-    () => {
-      throw new UserError(
-        `Input 'report': no report file at ${asTyped} (looked for ${file}).`,
-        'Check that the pull_request job uploaded the report and that the download step put it at this path (see docs/action.md).',
-      )
+/**
+ * Reads and validates a report another job wrote. Its text is untrusted: it is never logged raw, it
+ * must be a regular file inside the workspace of at most readLimits.report bytes, and its nesting is
+ * bounded before the schema walks it.
+ */
+async function readPublishedReport(workspace: string, asTyped: string): Promise<GateReport> {
+  const bytes = await readConfinedFile(
+    { key: "Input 'report'", path: asTyped, root: workspace, rootName: 'the workspace' },
+    {
+      maxBytes: readLimits.report,
+      what: 'plumbline report',
+      missing: () =>
+        new UserError(
+          `Input 'report': no report file at ${asTyped} (looked for ${join(workspace, asTyped)}).`,
+          'Check that the pull_request job uploaded the report and that the download step put it at this path (see docs/action.md).',
+        ),
+      limitFix: 'Publish the JSON report file plumbline wrote, unchanged.',
     },
   )
-  if (size > maxReportBytes) {
-    throw new UserError(`Input 'report': ${asTyped} is ${size} bytes, more than a plumbline report can be (${maxReportBytes}).`, 'Publish the JSON report file plumbline wrote, unchanged.')
+  const text = bytes.toString('utf8')
+  const tooDeep = boundNesting(text, maxReportNesting)
+  if (tooDeep !== null) {
+    throw new UserError(`${asTyped} nests arrays or objects ${tooDeep}; a plumbline report nests at most ${maxReportNesting} levels.`, 'Publish the JSON report file plumbline wrote, unchanged.')
   }
   let json: unknown
   try {
-    json = JSON.parse(await readFile(file, 'utf8'))
+    json = JSON.parse(text)
   } catch (error) {
-    throw new UserError(`${asTyped} is not valid JSON (${(error as Error).message.slice(0, 200)}).`, 'Publish the JSON report file plumbline wrote, unchanged.')
+    // The parser's message quotes the file; say only where it stopped.
+    const position = /position (\d+)/.exec((error as Error).message)?.[1]
+    throw new UserError(`${asTyped} is not valid JSON${position ? ` (stopped at character ${position})` : ''}.`, 'Publish the JSON report file plumbline wrote, unchanged.')
   }
   const report = parseGateReport(json, asTyped)
   if (report.verdict !== 'error' && decideVerdict(report.findings) !== report.verdict) {
@@ -259,7 +324,10 @@ interface Outcome {
 async function finish(context: RunContext, outcome: Outcome): Promise<void> {
   const { deps, outputDirectory } = context
   const { core } = deps
-  const { report, failure, plan } = outcome
+  const { plan } = outcome
+  // Nothing written or posted may hold a secret, whatever a command or a file put into the report.
+  const report = redactDeep(outcome.report)
+  const failure = outcome.failure
   const json = `${JSON.stringify(report, null, 2)}\n`
   const fullMarkdown = renderMarkdown(report, { maxTableRows: 100_000, maxCharacters: summaryMaxCharacters, marker: commentMarker })
   const jsonPath = join(outputDirectory, 'report.json')
@@ -277,7 +345,7 @@ async function finish(context: RunContext, outcome: Outcome): Promise<void> {
       core.info(`${posted.action === 'created' ? 'Created' : 'Updated'} the comment on #${plan.issueNumber}: ${posted.url}`)
     } catch (error) {
       const status = (error as { status?: number }).status
-      commentProblem = `${error instanceof Error ? error.message : String(error)}${status ? ` (HTTP ${status})` : ''}`
+      commentProblem = redactSecrets(`${error instanceof Error ? error.message : String(error)}${status ? ` (HTTP ${status})` : ''}`)
       core.warning(
         `Could not post the pull-request comment on #${plan.issueNumber}: ${commentProblem}. The verdict (${report.verdict}) is unchanged; the full report is in the job summary and in ${jsonPath}.`,
       )
@@ -305,7 +373,7 @@ async function finish(context: RunContext, outcome: Outcome): Promise<void> {
   core.setOutput('report-json', jsonPath)
   core.setOutput('report-markdown', markdownPath)
 
-  if (failure !== null) core.setFailed(`${report.headline}\n${describeFailure(failure)}`)
+  if (failure !== null) core.setFailed(redactSecrets(`${report.headline}\n${describeFailure(failure)}`))
   else if (report.verdict === 'error') core.setFailed(`${report.headline}\n${report.findings[0]?.message ?? ''}`.trim())
   else if (isFailingVerdict(report.verdict, context.inputs.failOn)) core.setFailed(report.headline)
 }
@@ -329,16 +397,20 @@ function readRepository(env: Readonly<Record<string, string | undefined>>) {
 /** The event payload as the runner wrote it; {} when there is none (the action run by hand). */
 async function readEventPayload(path: string | undefined): Promise<unknown> {
   if (!path) return {}
-  let text: string
-  try {
-    text = await readFile(path, 'utf8')
-  } catch {
-    throw new UserError(`GITHUB_EVENT_PATH names ${path}, which cannot be read.`, 'Run the action on a GitHub Actions runner, or unset GITHUB_EVENT_PATH.')
-  }
+  const fix = 'Run the action on a GitHub Actions runner, or unset GITHUB_EVENT_PATH.'
+  const bytes = await readRegularFile(path, {
+    maxBytes: readLimits.event,
+    what: 'event payload',
+    name: `GITHUB_EVENT_PATH (${path})`,
+    missing: () => new UserError(`GITHUB_EVENT_PATH names ${path}, which cannot be read.`, fix),
+    limitFix: fix,
+  })
+  const text = bytes.toString('utf8')
+  if (boundNesting(text, maxReportNesting) !== null) throw new UserError(`The event payload at ${path} nests deeper than ${maxReportNesting} levels.`, fix)
   try {
     return JSON.parse(text)
   } catch {
-    throw new UserError(`The event payload at ${path} is not valid JSON.`, 'Run the action on a GitHub Actions runner, or unset GITHUB_EVENT_PATH.')
+    throw new UserError(`The event payload at ${path} is not valid JSON.`, fix)
   }
 }
 

@@ -1,9 +1,10 @@
-import { readdir, readFile } from 'node:fs/promises'
+import { readdir } from 'node:fs/promises'
 import { basename, dirname, join, resolve } from 'node:path'
 import type { GateConfig } from '../../core/config.ts'
 import type { Dataset } from '../../core/data/dataset.ts'
 import { UserError } from '../../core/errors.ts'
 import type { SideModel } from '../../core/gate/gate-inputs.ts'
+import { readConfinedFile, readLimits, resolveConfined } from '../files/confined-file.ts'
 import { loadOnnxModel } from '../onnx/load-onnx-model.ts'
 import { createCommandFit } from '../training/create-command-fit.ts'
 
@@ -19,12 +20,19 @@ export async function loadSideModel(
   const model = config.model
   if (model.kind === 'onnx') {
     const path = await resolveModelPath(side.checkout, model.path, side.side)
-    const bytes = await readFile(path).catch(() => {
-      throw new UserError(
-        `No ONNX model at ${model.path} on the ${side.side} side (looked for ${path}).`,
-        "Commit the model file on both sides, build it in 'prepare', or fix 'model.onnx.path' in the policy.",
-      )
-    })
+    const bytes = await readConfinedFile(
+      { key: 'model.onnx.path', path: path, root: side.checkout, rootName: `the ${side.side} checkout` },
+      {
+        maxBytes: readLimits.model,
+        what: 'ONNX model',
+        missing: () =>
+          new UserError(
+            `No ONNX model at ${model.path} on the ${side.side} side (looked for ${resolve(side.checkout, path)}).`,
+            "Commit the model file on both sides, build it in 'prepare', or fix 'model.onnx.path' in the policy.",
+          ),
+        limitFix: 'Export a smaller model (fewer or shallower trees), or check that model.onnx.path names the model file.',
+      },
+    )
     side.log(`${side.side}: loaded ONNX model ${model.path} (${(bytes.length / 1024).toFixed(0)} KiB)`)
     return {
       kind: 'loaded',
@@ -66,14 +74,18 @@ export async function loadSideModel(
   throw new Error(`loadSideModel: a built-in model needs no loading (model kind ${model.kind})`)
 }
 
-/** A path, or a glob whose last segment has `*`: exactly one file must match. */
+/** A path, or a glob whose last segment has `*`: exactly one file must match. Returns the path relative to the checkout, as written. */
 async function resolveModelPath(checkout: string, pattern: string, sideName: string): Promise<string> {
-  if (!pattern.includes('*')) return resolve(checkout, pattern)
-  const dir = resolve(checkout, dirname(pattern))
+  if (!pattern.includes('*')) return pattern
   const glob = basename(pattern)
   if (dirname(pattern).includes('*')) {
     throw new UserError(`model.onnx.path '${pattern}': '*' is allowed in the file name only.`, "Name the folder exactly, e.g. 'models/*.onnx'.")
   }
+  // The folder is confined like the file: a symlinked folder pointing outside is refused here.
+  const dir = await resolveConfined(
+    { key: 'model.onnx.path', path: dirname(pattern), root: checkout, rootName: `the ${sideName} checkout` },
+    () => new UserError(`model.onnx.path '${pattern}': there is no folder ${dirname(pattern)} on the ${sideName} side.`, "Fix 'model.onnx.path' in the policy, or create the folder in 'prepare'."),
+  )
   const matcher = new RegExp(`^${glob.split('*').map((p) => p.replace(/[.+?^${}()|[\]\\]/g, '\\$&')).join('.*')}$`)
   const names = (await readdir(dir).catch(() => [] as string[])).filter((n) => matcher.test(n)).sort()
   if (names.length !== 1) {
@@ -82,5 +94,5 @@ async function resolveModelPath(checkout: string, pattern: string, sideName: str
       'Make the pattern match one model file, or name the file exactly.',
     )
   }
-  return join(dir, names[0])
+  return join(dirname(pattern), names[0])
 }

@@ -1,5 +1,5 @@
-import { readFile } from 'node:fs/promises'
-import { isAbsolute, join, relative, resolve } from 'node:path'
+import { isAbsolute, relative, resolve } from 'node:path'
+import type { GateConfig } from '../../core/config.ts'
 import type { Dataset } from '../../core/data/dataset.ts'
 import { schemaOf } from '../../core/data/parse-csv.ts'
 import { assembleSideData, sideDataFiles, type DataFileRequest } from '../../core/data/side-data.ts'
@@ -8,6 +8,7 @@ import { readPolicyFile, checkPolicyAgainstColumns, type PolicyFile } from '../.
 import type { GateReport } from '../../core/report/report.ts'
 import { runGate, type GateProgress, type SideInputs } from '../../core/run-gate.ts'
 import { readDataset } from '../files/read-dataset.ts'
+import { readConfinedFile, readLimits } from '../files/confined-file.ts'
 import { addWorktree, defaultBase, readFileAtCommit, repositoryRoot, resolveCommit } from '../git/git.ts'
 import { runPrepare } from './run-prepare.ts'
 import { loadSideModel } from './load-side-model.ts'
@@ -42,13 +43,21 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
     const head = request.headRef
       ? await checkoutSide(root, request.headRef, '--head', cleanups)
       : { path: root, ref: 'working tree', commit: null as string | null }
-    const policyFile = join(head.path, policyPath)
-    const policyText = await readFile(policyFile, 'utf8').catch(() => {
-      throw new UserError(
-        `No policy file at ${policyPath} (looked in ${head.path}).`,
-        "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input).",
+    const policyText = (
+      await readConfinedFile(
+        { key: 'The policy file', path: policyPath, root: head.path, rootName: `the head checkout (${head.path})` },
+        {
+          maxBytes: readLimits.policy,
+          what: 'policy',
+          missing: () =>
+            new UserError(
+              `No policy file at ${policyPath} (looked in ${head.path}).`,
+              "Create one with 'plumbline init', or pass --policy PATH (the action's 'policy' input).",
+            ),
+          limitFix: 'A plumbline.yml is a few dozen lines; check that --policy (the action\'s \'policy\' input) names it.',
+        },
       )
-    })
+    ).toString('utf8')
     const policy = readPolicyFile(policyText, { source: policyPath })
     const { config } = policy
     const baseTarget = request.baseRef
@@ -100,11 +109,12 @@ async function loadSide(
     log(`${side}: running prepare: ${config.prepare.command}`)
     await runPrepare({ command: config.prepare.command, cwd: checkout, timeoutSeconds: config.prepare.timeoutSeconds, side })
   }
-  const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout }
+  const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout, rootName: `the ${side} checkout` }
   const tables: Partial<Record<DataFileRequest['role'], Dataset>> = {}
   for (const file of sideDataFiles(config)) {
     tables[file.role] = await readDataset(file.path, {
       ...readOptions,
+      key: file.key,
       source: `${side}:${file.path}`,
       requireTarget: file.requireTarget,
       ...(file.conformToTrain ? { schema: schemaOf(tables.train!) } : {}),
@@ -112,9 +122,36 @@ async function loadSide(
   }
   const { train, holdout, reference } = assembleSideData(config, tables)
   checkPolicyAgainstColumns(policy, [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])])
+  checkSizes(side, config, train, holdout, log)
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
   const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
   return { ref, commit, train, holdout, reference, model }
+}
+
+/** Fewer rows than this cannot give a noise floor worth reading (common practice, not a published bound). */
+const minimumRows = { train: 20, holdout: 10 } as const
+/** Below these, the gate runs but says that its numbers rest on few rows. */
+const smallRows = { train: 200, holdout: 100 } as const
+
+function checkSizes(side: string, config: GateConfig, train: Dataset, holdout: Dataset, log: (line: string) => void) {
+  if (train.features.length === 0) {
+    throw new UserError(
+      `${side}:${config.data.train} has no feature column: every column is the target, the id or ignored.`,
+      "Add the feature columns to the file, or change their roles under 'data.columns' in the policy.",
+    )
+  }
+  const holdoutName = config.data.holdout.kind === 'file' ? config.data.holdout.path : `the split of ${config.data.train}`
+  for (const [which, data, name] of [['train', train, config.data.train], ['holdout', holdout, holdoutName]] as const) {
+    if (data.rows < minimumRows[which]) {
+      throw new UserError(
+        `${side}:${name} has ${data.rows} ${which === 'train' ? 'training' : 'holdout'} row${data.rows === 1 ? '' : 's'}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
+        which === 'train' ? 'Point data.train at the full training table.' : "Give the holdout more rows (data.holdout), or a larger 'fraction' for a split.",
+      )
+    }
+    if (data.rows < smallRows[which]) {
+      log(`${side}: note: only ${data.rows} ${which === 'train' ? 'training' : 'holdout'} rows; with so few, the noise floor is wide and small changes cannot be told from noise.`)
+    }
+  }
 }
 
 function toRepoPath(path: string): string {

@@ -1,5 +1,5 @@
-import { mkdir, writeFile } from 'node:fs/promises'
-import { dirname, resolve } from 'node:path'
+import { mkdir, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { basename, dirname, join } from 'node:path'
 import { describeFailure, UserError } from '../../core/errors.ts'
 import { errorReport } from '../../core/report/error-report.ts'
 import { renderMarkdown } from '../../core/report/render-markdown.ts'
@@ -8,6 +8,9 @@ import type { GateReport } from '../../core/report/report.ts'
 import type { GateProgress } from '../../core/run-gate.ts'
 import { runCheck } from '../check/run-check.ts'
 import { toolVersion } from '../version.ts'
+import { resolveConfinedOutput } from '../files/confined-file.ts'
+import { redactDeep, registerEnvironmentSecrets } from '../security/secrets.ts'
+import { cleanOutsideText } from '../security/terminal-text.ts'
 import { parseCommand } from './args.ts'
 import type { CliIo } from './cli-io.ts'
 import { init } from './init.ts'
@@ -16,11 +19,12 @@ export type { CliIo }
 
 /** Runs one CLI invocation and returns the exit code: 0 pass/warn, 1 block, 2 user error, 3 internal. */
 export async function main(argv: readonly string[], io: CliIo): Promise<number> {
+  registerEnvironmentSecrets()
   let command
   try {
     command = parseCommand(argv)
   } catch (error) {
-    io.stderr(`${describeFailure(error)}\n`)
+    io.stderr(`${cleanOutsideText(describeFailure(error))}\n`)
     return error instanceof UserError ? 2 : 3
   }
   if (command.name === 'help') {
@@ -36,13 +40,15 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
     const started = performance.now()
     const progress = createProgress(io, started)
     let report: GateReport
+    // Checked before the run: a --json naming a directory fails in a second, not after the gate.
+    await planOutputs(command, io.cwd)
     try {
       report = await runCheck({
         cwd: io.cwd,
         policyPath: command.policy,
         baseRef: command.base,
         headRef: command.head,
-        log: (line) => progress.line(line),
+        log: (line) => progress.line(cleanOutsideText(line)),
         onProgress: (event) => progress.event(event),
       })
     } catch (error) {
@@ -57,25 +63,63 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
       throw error
     }
     progress.done()
+    report = redactDeep(report)
     await writeOutputs(command, report, io.cwd)
-    if (command.quiet) io.stdout(`plumbline: ${report.verdict}: ${report.headline}\n`)
-    else io.stdout(`${renderText(report)}\n`)
+    if (command.quiet) io.stdout(cleanOutsideText(`plumbline: ${report.verdict}: ${report.headline}\n`))
+    else io.stdout(`${cleanOutsideText(renderText(report))}\n`)
     io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1000).toFixed(1)} s\n`)
     return report.verdict === 'block' ? 1 : 0
   } catch (error) {
-    io.stderr(`${describeFailure(error)}\n`)
+    io.stderr(`${cleanOutsideText(describeFailure(error))}\n`)
     return error instanceof UserError ? 2 : 3
   }
 }
 
-async function writeOutputs(command: { json?: string; markdown?: string }, report: GateReport, cwd: string) {
-  const write = async (path: string, text: string) => {
-    const full = resolve(cwd, path)
-    await mkdir(dirname(full), { recursive: true })
-    await writeFile(full, text)
+/** Where --json and --markdown go; a directory or a non-file is refused before anything runs. */
+async function planOutputs(command: { json?: string; markdown?: string }, cwd: string) {
+  const planned: { flag: string; path: string }[] = []
+  for (const [flag, path] of [['--json', command.json], ['--markdown', command.markdown]] as const) {
+    if (path) planned.push({ flag, path: await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false }) })
   }
-  if (command.json) await write(command.json, `${JSON.stringify(report, null, 2)}\n`)
-  if (command.markdown) await write(command.markdown, renderMarkdown(report))
+  return planned
+}
+
+/**
+ * Writes --json and --markdown all or nothing: each regular file is written beside its target first
+ * and renamed into place only when every output was written (a device such as /dev/stdout is written
+ * directly, before the renames). So a run whose markdown cannot be written (/dev/full, a full disk)
+ * leaves no report file claiming a verdict, and exits 2 saying which output failed.
+ */
+async function writeOutputs(command: { json?: string; markdown?: string }, report: GateReport, cwd: string) {
+  const texts: Record<string, string> = {
+    '--json': `${JSON.stringify(report, null, 2)}\n`,
+    '--markdown': renderMarkdown(report),
+  }
+  const staged: { temporary: string; path: string }[] = []
+  try {
+    for (const { flag, path } of await planOutputs(command, cwd)) {
+      const existing = await stat(path).catch(() => null)
+      try {
+        if (existing && !existing.isFile()) {
+          await writeFile(path, texts[flag])
+          continue
+        }
+        await mkdir(dirname(path), { recursive: true })
+        const temporary = join(dirname(path), `.${basename(path)}.plumbline-${process.pid}.tmp`)
+        staged.push({ temporary, path })
+        await writeFile(temporary, texts[flag])
+      } catch (error) {
+        throw new UserError(
+          `Could not write ${flag} ${path}: ${(error as NodeJS.ErrnoException).code ?? (error as Error).message}. No report file was written.`,
+          `Name a file in a folder you can write to, on a disk with room (${flag} FILE).`,
+        )
+      }
+    }
+    for (const { temporary, path } of staged) await rename(temporary, path)
+    staged.length = 0
+  } finally {
+    for (const { temporary } of staged) await rm(temporary, { force: true })
+  }
 }
 
 function createProgress(io: CliIo, started: number) {

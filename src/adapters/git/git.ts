@@ -4,8 +4,14 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { promisify } from 'node:util'
 import { UserError } from '../../core/errors.ts'
+import { childEnvironment } from '../security/child-environment.ts'
+import { cleanOutsideText } from '../security/terminal-text.ts'
 
-const exec = promisify(execFile)
+const execFileAsync = promisify(execFile)
+
+/** git with the allowlisted environment (no token variables; credentials stay in git's own config). */
+const exec = (file: string, args: readonly string[], options: { cwd: string; maxBuffer?: number }) =>
+  execFileAsync(file, args, { ...options, env: childEnvironment({ GIT_TERMINAL_PROMPT: '0' }, { purpose: 'git' }) })
 
 /** Runs git in `cwd`; a failure becomes a UserError quoting git's own message. */
 export async function git(cwd: string, args: readonly string[], what: string): Promise<string> {
@@ -13,7 +19,7 @@ export async function git(cwd: string, args: readonly string[], what: string): P
     const { stdout } = await exec('git', args, { cwd, maxBuffer: 64 * 1024 * 1024 })
     return stdout.trim()
   } catch (error) {
-    const detail = (error as { stderr?: string }).stderr?.trim() || (error as Error).message
+    const detail = cleanOutsideText((error as { stderr?: string }).stderr?.trim() || (error as Error).message)
     throw new UserError(`git could not ${what}: ${detail}`, `Run plumbline inside a git repository with the refs you name (git ${args.join(' ')}).`)
   }
 }

@@ -8,8 +8,14 @@
 import { execFile } from 'node:child_process'
 import { promisify } from 'node:util'
 import { UserError } from '../../core/errors.ts'
+import { childEnvironment } from '../security/child-environment.ts'
+import { cleanOutsideText } from '../security/terminal-text.ts'
 
-const exec = promisify(execFile)
+const execFileAsync = promisify(execFile)
+
+/** git with the allowlisted environment (the fetch authenticates with what actions/checkout put in the clone's config). */
+const exec = (file: string, args: readonly string[], options: { cwd: string; maxBuffer?: number }) =>
+  execFileAsync(file, args, { ...options, env: childEnvironment({ GIT_TERMINAL_PROMPT: '0' }, { purpose: 'git' }) })
 
 export interface FetchCommitRequest {
   /** A folder inside the clone. */
@@ -37,7 +43,7 @@ export async function fetchBase(request: FetchCommitRequest): Promise<string> {
       maxBuffer: 16 * 1024 * 1024,
     })
   } catch (error) {
-    const detail = (error as { stderr?: string }).stderr?.trim() || (error as Error).message
+    const detail = cleanOutsideText((error as { stderr?: string }).stderr?.trim() || (error as Error).message)
     throw new UserError(
       `${shortRef} (${request.label}) is not in the checkout, and 'git fetch --depth=1 ${remote} ${shortRef}' failed: ${detail}`,
       "Check the ref's spelling; if it is right, check out with history instead: set 'fetch-depth: 0' on the actions/checkout step.",

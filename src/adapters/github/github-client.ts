@@ -2,7 +2,10 @@
  * The GitHub REST client the action uses: @actions/github's Octokit (REST methods, pagination,
  * proxy support) with @octokit/plugin-retry (5xx and network failures are retried, 3 times by
  * default, waiting 1, 4 and 9 times the base delay) and @octokit/plugin-throttling (primary and
- * secondary rate limits wait for the time GitHub names and retry, at most twice).
+ * secondary rate limits wait for the time GitHub names and retry, at most twice). Every request
+ * attempt is aborted after `requestTimeoutMilliseconds` (default 30 s), so an API that accepts the
+ * connection and never answers fails the request (and, after the retries, the comment) instead of
+ * hanging the step.
  */
 import { getOctokit } from '@actions/github'
 import { retry } from '@octokit/plugin-retry'
@@ -19,7 +22,11 @@ export interface GitHubClientOptions {
   readonly retryBaseMilliseconds?: number
   /** Rate-limit waits above this are not waited for; default 600 s. */
   readonly maxRateLimitWaitSeconds?: number
+  /** Each attempt of a request is aborted after this; default 30 000 ms. */
+  readonly requestTimeoutMilliseconds?: number
 }
+
+export const defaultRequestTimeoutMilliseconds = 30_000
 
 const maxRateLimitRetries = 2
 
@@ -45,6 +52,13 @@ export function createGitHubClient(token: string, options: GitHubClientOptions):
       throw error
     })
   }
+  const timeout = options.requestTimeoutMilliseconds ?? defaultRequestTimeoutMilliseconds
+  // Listed first, so that every attempt the retry plugin makes gets a fresh deadline.
+  const deadline = (octokit: { hook: { before: (name: 'request', hook: (request: { request?: Record<string, unknown> }) => void) => void } }) => {
+    octokit.hook.before('request', (request) => {
+      request.request = { ...request.request, signal: AbortSignal.timeout(timeout) }
+    })
+  }
   return getOctokit(
     token,
     {
@@ -53,6 +67,7 @@ export function createGitHubClient(token: string, options: GitHubClientOptions):
       retry: { retryAfterBaseValue: options.retryBaseMilliseconds ?? 1000 },
       throttle: { onRateLimit: onLimit('primary'), onSecondaryRateLimit: onLimit('secondary') },
     },
+    deadline as never,
     logFailures as never,
     retry,
     throttling,

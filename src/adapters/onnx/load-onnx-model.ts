@@ -365,9 +365,13 @@ function planProbabilityOutput(outputs: readonly ValueMetadata[], options: OnnxM
         throw outputError(`The ONNX model '${source}' output '${output.name}' came back with shape [${tensor.dims.join(', ')}] for ${rows} rows; a binary model's probabilities must be [N, 2].`, outputs, fix)
       }
       const data = tensor.data as Float32Array | Float64Array
+      // Class fractions averaged over trees in float32 can land a few units in the last place beyond
+      // [0, 1] (1.0000003576 is 1 + 3 float32 ulps); that is rounding, clamped. A real score is refused.
+      const slack = probabilitySlack(data)
       for (let i = 0; i < rows; i++) {
-        const p = data[2 * i + positive]
-        if (p < 0 || p > 1) {
+        const raw = data[2 * i + positive]
+        const p = raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw
+        if (!(p >= 0 && p <= 1)) {
           throw new UserError(
             `The ONNX model '${source}' output '${output.name}' is not a probability: row ${start + i + 1} of the rows scored has ${p}.`,
             `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`,
@@ -377,6 +381,11 @@ function planProbabilityOutput(outputs: readonly ValueMetadata[], options: OnnxM
       }
     },
   }
+}
+
+/** 16 machine epsilons of the tensor's float type: float32 sums of up to a few hundred terms stay within it. */
+export function probabilitySlack(data: Float32Array | Float64Array): number {
+  return 16 * (data instanceof Float32Array ? 2 ** -23 : Number.EPSILON)
 }
 
 /** The probability column of the positive class (see the module comment for the rules). */

@@ -3,13 +3,19 @@
  * model it wrote. The command runs under `/bin/sh -c` in the side's checkout, with its stderr
  * merged into stdout (so the log keeps the order the command printed in), in a process group of
  * its own so that a timeout or a stop ends everything it started (SIGTERM, then SIGKILL after 2 s;
- * whatever is still in the group when the command exits is killed too). It inherits the
- * environment less the action's inputs and tokens, plus the PLUMBLINE_ variables.
+ * whatever is still in the group when the command exits is killed too; a grandchild that left the
+ * group with setsid and holds the output open is not waited for). It gets an allowlisted environment
+ * (childEnvironment: no token, no INPUT_* or ACTIONS_*) plus the PLUMBLINE_ variables. The model is
+ * read only from a regular file (not a symlink, FIFO or device) of at most readLimits.model bytes.
  */
 import { spawn } from 'node:child_process'
-import { readFile, rm, stat } from 'node:fs/promises'
+import { rm, stat } from 'node:fs/promises'
 import { performance } from 'node:perf_hooks'
 import { UserError } from '../../core/errors.ts'
+import { readLimits, readRegularFile } from '../files/confined-file.ts'
+import { childEnvironment } from '../security/child-environment.ts'
+import { describeExit, waitForChild } from '../security/finish-child.ts'
+import { cleanOutsideText } from '../security/terminal-text.ts'
 
 /** The environment variables a training command is given (our names; documentation cites this list). */
 export const TRAINING_VARIABLES = [
@@ -69,11 +75,11 @@ export async function runTrainingCommand(request: TrainingCommandRequest): Promi
   const started = performance.now()
   const outcome = await runInProcessGroup(request, env)
   const seconds = (performance.now() - started) / 1000
-  const logTail = outcome.log.text()
+  const logTail = cleanOutsideText(outcome.log.text())
 
   const failure = (what: string, fix: string) =>
     new UserError(
-      `The training command for ${request.label} ${what}.\nCommand: ${request.command}\n${describeLog(logTail)}`,
+      `The training command for ${request.label} ${what}.\nCommand: ${cleanOutsideText(request.command)}\n${describeLog(logTail)}`,
       fix,
     )
   const reproduce = `To reproduce it, run the command in ${request.cwd} with ${Object.entries(env)
@@ -96,20 +102,24 @@ export async function runTrainingCommand(request: TrainingCommandRequest): Promi
     )
   }
   if (outcome.code !== 0) {
-    throw failure(outcome.code === null ? `was killed by signal ${outcome.signal}` : `exited with code ${outcome.code}`, reproduce)
+    throw failure(describeExit(outcome.code, outcome.signal), reproduce)
   }
-  let bytes: Uint8Array
-  try {
-    bytes = new Uint8Array(await readFile(request.outputPath))
-  } catch {
-    bytes = new Uint8Array(0)
-  }
-  if (bytes.length === 0) {
-    throw failure(
+  const noModel = () =>
+    failure(
       'finished but wrote no model to $PLUMBLINE_OUTPUT',
       `Make the command write its ONNX model to the path it is given in $PLUMBLINE_OUTPUT (this time ${request.outputPath}).`,
     )
-  }
+  const bytes = new Uint8Array(
+    await readRegularFile(request.outputPath, {
+      maxBytes: readLimits.model,
+      what: 'ONNX model',
+      name: `The model the training command for ${request.label} wrote to $PLUMBLINE_OUTPUT`,
+      missing: noModel,
+      noFollow: true,
+      limitFix: 'Write a smaller model (fewer or shallower trees), or check what the command writes to $PLUMBLINE_OUTPUT.',
+    }),
+  )
+  if (bytes.length === 0) throw noModel()
   return { bytes, seconds, logTail }
 }
 
@@ -129,7 +139,7 @@ function runInProcessGroup(request: TrainingCommandRequest, env: Record<string, 
     // so the group leader is the command itself). detached: a new process group led by that pid.
     const child = spawn('/bin/sh', ['-c', 'exec 2>&1; exec /bin/sh -c "$1"', 'plumbline-train', request.command], {
       cwd: request.cwd,
-      env: { ...inheritedEnvironment(), ...env },
+      env: childEnvironment(env),
       stdio: ['ignore', 'pipe', 'ignore'],
       detached: true,
     })
@@ -162,29 +172,13 @@ function runInProcessGroup(request: TrainingCommandRequest, env: Record<string, 
     child.stdout.on('data', (chunk: string) => log.add(chunk))
     // The command has exited; anything it left running in its group would hold the pipe open.
     child.on('exit', () => signalGroup('SIGKILL'))
-    const finish = (outcome: Omit<Outcome, 'log' | 'timedOut' | 'stoppedBecause'>) => {
+    void waitForChild(child).then((outcome) => {
       clearTimeout(timeout)
       clearTimeout(killTimer)
       request.signal?.removeEventListener('abort', onAbort)
       resolve({ log, timedOut, stoppedBecause, ...outcome })
-    }
-    child.on('error', (error) => finish({ code: null, signal: null, startError: error }))
-    child.on('close', (code, signal) => finish({ code, signal }))
+    })
   })
-}
-
-/**
- * The environment the command inherits: ours, less the action's inputs (INPUT_*, which hold its
- * token), the runner's ACTIONS_* service tokens and GITHUB_TOKEN. The training command may be the
- * pull request's own code; it needs none of them.
- */
-function inheritedEnvironment(): Record<string, string> {
-  const kept: Record<string, string> = {}
-  for (const [name, value] of Object.entries(process.env)) {
-    if (value === undefined || /^(INPUT_|ACTIONS_)/.test(name) || name === 'GITHUB_TOKEN') continue
-    kept[name] = value
-  }
-  return kept
 }
 
 /** The end of a stream of text, bounded in characters while it grows and cut to whole lines at the end. */

@@ -12,7 +12,8 @@ export interface HoldoutIdentity {
 /**
  * The two sides must be scored on the same holdout rows, or a score or importance difference may be
  * nothing but a different sample. Same count, and then the same ids in the same order where an id
- * column exists; without ids, the same target values row by row (a weaker check, said in the message).
+ * column exists, and then the same label under each id (a relabelled row is a changed holdout);
+ * without ids, the same target values row by row (a weaker check, said in the message).
  */
 export function checkHoldoutRows(base: HoldoutIdentity, head: HoldoutIdentity, action: CheckAction): Finding[] {
   if (action === 'off') return []
@@ -51,7 +52,7 @@ function describeDifference(
         if (first < 0) first = i
       }
     }
-    if (differing === 0) return null
+    if (differing === 0) return describeLabelChange(base, head)
     const baseSet = new Set(base.ids)
     const onlyHead = head.ids.filter((id) => !baseSet.has(id)).length
     return {
@@ -62,6 +63,32 @@ function describeDifference(
       evidence: { differingRows: differing, idsOnlyOnHead: onlyHead, firstDifferingRow: first + 1 },
     }
   }
+  const { differing, first } = differingTargets(base, head)
+  if (differing === 0) return null
+  return {
+    short: `the target differs in ${differing} of ${base.rows} rows`,
+    long:
+      `Without an id column only the target can be compared row by row; it differs in ${differing} of ${base.rows} rows ` +
+      `(first at holdout row ${first + 1}).`,
+    evidence: { differingRows: differing, firstDifferingRow: first + 1 },
+  }
+}
+
+/** Same ids in the same order: the labels must match too. */
+function describeLabelChange(base: HoldoutIdentity, head: HoldoutIdentity): { short: string; long: string; evidence: Record<string, number> } | null {
+  const { differing, first } = differingTargets(base, head)
+  if (differing === 0) return null
+  return {
+    short: `the same ids carry another label in ${differing} of ${base.rows} rows`,
+    long:
+      `The ids match row by row, but the target differs in ${differing} of ${base.rows} rows ` +
+      `(first at holdout row ${first + 1}, ${base.idName ?? 'id'} '${base.ids![first]}'): the pull request relabelled the holdout.`,
+    evidence: { relabelledRows: differing, firstDifferingRow: first + 1 },
+  }
+}
+
+/** Rows whose target differs between the sides (NaN equal to NaN), and the first of them (-1 for none). */
+function differingTargets(base: HoldoutIdentity, head: HoldoutIdentity): { differing: number; first: number } {
   let differing = 0
   let first = -1
   for (let i = 0; i < base.rows; i++) {
@@ -72,12 +99,5 @@ function describeDifference(
       if (first < 0) first = i
     }
   }
-  if (differing === 0) return null
-  return {
-    short: `the target differs in ${differing} of ${base.rows} rows`,
-    long:
-      `Without an id column only the target can be compared row by row; it differs in ${differing} of ${base.rows} rows ` +
-      `(first at holdout row ${first + 1}).`,
-    evidence: { differingRows: differing, firstDifferingRow: first + 1 },
-  }
+  return { differing, first }
 }

@@ -26,6 +26,37 @@ export interface LeakageContext {
 }
 
 /**
+ * A leak must not pass because the holdout cannot show it: when the head's full model or a one-feature
+ * model has no defined AUC / R² on the holdout (one class only, or a constant target), the check
+ * could not be evaluated, and that is itself a finding with the policy's action (block by default),
+ * never silence.
+ */
+function unevaluated(head: SideResult, options: LeakageOptions, metricName: string): Finding[] {
+  if (options.action === 'off') return []
+  const undefinedFor = Object.entries(head.singleFeatureSeparation)
+    .filter(([, value]) => !Number.isFinite(value))
+    .map(([name]) => name)
+    .sort()
+  const fullUndefined = head.separation.length > 0 && !head.separation.some((value) => Number.isFinite(value))
+  if (undefinedFor.length === 0 && !fullUndefined) return []
+  const why = options.task === 'binary' ? 'the holdout holds one class only, so AUC is undefined' : 'the holdout target is constant, so R² is undefined'
+  const shown = undefinedFor.slice(0, 5).join(', ') + (undefinedFor.length > 5 ? ` and ${undefinedFor.length - 5} more` : '')
+  return [
+    {
+      kind: 'leakage',
+      severity: options.action,
+      title: `The leakage check could not be evaluated on the head side: ${why}.`,
+      message:
+        `No holdout ${metricName} could be computed for ${fullUndefined ? 'the full model' : ''}${fullUndefined && undefinedFor.length ? ' and ' : ''}` +
+        `${undefinedFor.length ? `the one-feature models of ${shown}` : ''}. A feature that encodes the label cannot be told from a harmless one ` +
+        `on this holdout, so this check neither passes nor clears the pull request. Give the holdout rows of both classes ` +
+        `(or varied target values), then rerun; or set checks.leakage.action to warn if you accept not checking for leaks.`,
+      evidence: { unevaluatedFeatures: undefinedFor.length, fullModelUndefined: fullUndefined },
+    },
+  ]
+}
+
+/**
  * Leakage-like dominance (common practice, no single source: a feature that alone predicts the
  * label almost perfectly, or that takes most of the model's reliance while alone matching the whole
  * model, is the classic sign of a label leak; Kaufman, Rosset & Perlich 2012, ACM TKDD 6(4), give the
@@ -55,6 +86,8 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
   const ranked = rankFeatures(head.importances)
   const baseRanked = rankFeatures(base.importances)
   const flagged = new Set<string>()
+
+  findings.push(...unevaluated(head, options, metricName))
 
   const describeChange = (name: string) =>
     added.has(name) ? 'new in this pull request' : changed.has(name) ? 'changed in this pull request' : 'unchanged'

@@ -47,6 +47,14 @@ const MISSING_TOKENS = new Set(['', 'na', 'nan', 'null'])
 /** Decimal numbers only: "1e3", "-2.5", ".5" and "5." pass; "1,5", "12abc", "0x1F", "Infinity" do not. */
 const NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/
 const LINE_NOTE = '(the header is line 1)'
+/** Spellings of infinity: a column holding them is numeric, and the cell is refused (no statistic survives it). */
+const INFINITY_WORD = /^[+-]?(?:inf|infinity)$/i
+/**
+ * The largest magnitude a number may have: beyond it squares and sums overflow to Infinity and every
+ * interval becomes NaN (a ±1e308 target). Far above any measured quantity (timestamps in
+ * nanoseconds are about 1.7e18).
+ */
+export const MAX_MAGNITUDE = 1e100
 
 /**
  * Reads CSV text (RFC 4180 quoting; comma delimiter; UTF-8 BOM, CRLF, LF or CR line ends, quoted
@@ -96,7 +104,7 @@ export function parseCsv(text: string, options: ParseCsvOptions): Dataset {
         column[i] = NaN
         missingCount++
       } else if (feature.kind === 'numeric') {
-        column[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), feature.name, v, plan.numericReason)
+        column[i] = parseNumber(v) ?? failNumber(source, lineOf(i), feature.name, v, plan.numericReason)
       } else {
         const c = code.get(v)
         if (c === undefined) unseenCount++
@@ -142,7 +150,20 @@ function isMissing(value: string): boolean {
 function parseNumber(value: string): number | undefined {
   if (!NUMBER.test(value)) return undefined
   const x = Number(value)
-  return Number.isFinite(x) ? x : undefined
+  return Number.isFinite(x) && Math.abs(x) <= MAX_MAGNITUDE ? x : undefined
+}
+
+/** Written as a number, in range or not (1e309, inf): such a column is numeric, and out-of-range cells are refused. */
+function looksNumeric(value: string): boolean {
+  return NUMBER.test(value) || INFINITY_WORD.test(value)
+}
+
+function failNumber(source: string, line: number, column: string, value: string, reason: string): never {
+  if (!looksNumeric(value)) failNotNumeric(source, line, column, value, reason)
+  throw new UserError(
+    `${at(source, line, column)}: ${show(value)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
+    'Correct the value, write NA or leave the cell empty if it is missing, or rescale the column (for example to thousands or a logarithm).',
+  )
 }
 
 function compareText(a: string, b: string): number {
@@ -327,7 +348,7 @@ function planFromRoles(options: ParseCsvOptions, header: readonly string[], colu
     else if (role === undefined) {
       const isNumeric = rows.every((row) => {
         const v = row[column].trim()
-        return isMissing(v) || parseNumber(v) !== undefined
+        return isMissing(v) || looksNumeric(v)
       })
       features.push({ name, column, kind: isNumeric ? 'numeric' : 'categorical' })
     }
@@ -398,11 +419,11 @@ function readTarget(source: string, plan: TargetPlan, values: string[], lineOf: 
     }
   })
   const distinct = [...new Set(values)]
-  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => parseNumber(v) !== undefined) ? 'binary' : 'regression')
+  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => looksNumeric(v)) ? 'binary' : 'regression')
   if (task === 'regression') {
     const out = new Float64Array(values.length)
     values.forEach((v, i) => {
-      out[i] = parseNumber(v) ?? failNotNumeric(source, lineOf(i), column, v, 'the target of a regression must be one')
+      out[i] = parseNumber(v) ?? failNumber(source, lineOf(i), column, v, 'the target of a regression must be one')
     })
     return { name: column, values: out }
   }

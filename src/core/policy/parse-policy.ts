@@ -15,6 +15,7 @@ import type { GateConfig } from '../config.ts'
 import { policySchema, type PolicyRuleParams } from './policy-schema.ts'
 import { UserError } from '../errors.ts'
 import { describePolicyKey, type KeyPath } from './describe-policy-key.ts'
+import { excerpt } from './excerpt.ts'
 import { formatKeyPath } from './format-key-path.ts'
 import { levenshteinDistance } from './levenshtein-distance.ts'
 
@@ -42,6 +43,11 @@ export interface PolicyFile {
   readonly source: string
   readonly positions: Positions
 }
+
+/** Limits on a policy's text and on what it expands to (a real policy has a few hundred values at most). */
+export const maxPolicyCharacters = 1024 * 1024
+const maxPolicyValues = 100_000
+const maxPolicyDepth = 64
 
 const pathId = (path: readonly PropertyKey[]) => JSON.stringify(path.map(String))
 
@@ -72,7 +78,7 @@ function entryAt(positions: Positions, path: readonly PropertyKey[]): Entry | un
 function describeNode(node: unknown): string {
   if (isMap(node)) return 'a mapping'
   if (isSeq(node)) return 'a list'
-  if (isScalar(node)) return `'${String(node.value)}'`
+  if (isScalar(node)) return `'${excerpt(String(node.value))}'`
   return 'something else'
 }
 
@@ -82,6 +88,12 @@ function readDocument(text: string, source: string): { value: unknown; positions
     "Run 'plumbline init' to write a starter policy, or see docs/policy.md.",
   )
   if (text.trim() === '') throw empty
+  if (text.length > maxPolicyCharacters) {
+    throw new UserError(
+      `${source} is ${text.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
+      'Check that the policy path names plumbline.yml; a policy is a few dozen lines (docs/policy.md).',
+    )
+  }
   const lines = new LineCounter()
   const doc = parseDocument(text, { schema: 'failsafe', uniqueKeys: false, lineCounter: lines, prettyErrors: false })
   const place = (offset: number): Place => {
@@ -96,6 +108,14 @@ function readDocument(text: string, source: string): { value: unknown; positions
       'Fix the YAML at that line: nested keys are indented with spaces (no tabs), and a value holding ": " or starting with one of [ ] { } # & * ! | > \' " % @ ` is put in quotes.',
     )
   }
+  const tagWarning = doc.warnings.find((warning) => warning.code === 'TAG_RESOLVE_FAILED')
+  if (tagWarning) {
+    const tag = tagWarning.message.replace(/^Unresolved tag: /, '')
+    throw new UserError(
+      `${at(source, place(tagWarning.pos[0]))}: the YAML tag '${excerpt(tag, 80)}' is not allowed; a policy holds plain text, lists and mappings.`,
+      'Delete the tag (the part starting with !) and write the value itself.',
+    )
+  }
   const root = doc.contents
   if (root === null || (isScalar(root) && root.value === '' && root.type === 'PLAIN')) throw empty
   if (!isMap(root)) {
@@ -107,7 +127,16 @@ function readDocument(text: string, source: string): { value: unknown; positions
   const positions = new Map<string, Entry>()
   positions.set(pathId([]), { value: place(root.range?.[0] ?? 0), end: text.length })
   const expanding = new Set<Node>()
+  // Aliases can repeat a subtree exponentially (a "billion laughs" file); the expanded policy is
+  // bounded before it is built, and so is its depth.
+  let budget = maxPolicyValues
   const toPlain = (node: unknown, path: (string | number)[]): unknown => {
+    if (--budget < 0 || path.length > maxPolicyDepth) {
+      throw new UserError(
+        `${source}: the policy expands to more than ${budget < 0 ? `${maxPolicyValues} values` : `${maxPolicyDepth} levels`} (through YAML aliases or nesting); a policy is far smaller.`,
+        'Write the values out instead of repeating them through aliases (*name), and keep the nesting as docs/policy.md shows.',
+      )
+    }
     if (node === null || node === undefined) return null
     if (isAlias(node)) {
       const target = node.resolve(doc as Document)
@@ -143,8 +172,8 @@ function readDocument(text: string, source: string): { value: unknown; positions
         const earlier = seen.get(key)
         if (earlier) {
           throw new UserError(
-            `${at(source, keyPlace)}: key '${key}' appears twice ${where(path)} (first at line ${earlier.line}).`,
-            `Keep one '${key}:' line ${under(path)} and delete the other.`,
+            `${at(source, keyPlace)}: key '${excerpt(key)}' appears twice ${where(path)} (first at line ${earlier.line}).`,
+            `Keep one '${excerpt(key)}:' line ${under(path)} and delete the other.`,
           )
         }
         seen.set(key, keyPlace)
@@ -182,8 +211,7 @@ function describeValue(value: unknown): string {
   if (value === null || value === undefined) return 'an empty value'
   if (Array.isArray(value)) return value.length === 0 ? 'an empty list' : 'a list'
   if (typeof value === 'object') return 'a mapping'
-  const text = String(value)
-  return `'${text.length > 60 ? `${text.slice(0, 57)}...` : text}'`
+  return `'${excerpt(String(value), 60)}'`
 }
 
 /** The closest name within Levenshtein distance 2 (and nearer than the name is long), or a snake_case spelling of a camelCase key. */
@@ -217,10 +245,10 @@ function describeIssue(issue: z.core.$ZodIssue, raw: unknown, positions: Positio
       const suggestion = closestName(key, allowed)
       return {
         offset: place?.offset ?? Infinity,
-        message: `${at(source, place)}: unknown key '${key}' ${where(path)} (allowed: ${allowed.join(', ')}).${suggestion ? ` Did you mean '${suggestion}'?` : ''}`,
+        message: `${at(source, place)}: unknown key '${excerpt(key)}' ${where(path)} (allowed: ${allowed.join(', ')}).${suggestion ? ` Did you mean '${suggestion}'?` : ''}`,
         fix: suggestion
-          ? `Rename '${key}' to '${suggestion}', or delete it.`
-          : `Delete '${key}', or rename it to one of the allowed keys (docs/policy.md describes each).`,
+          ? `Rename '${excerpt(key)}' to '${suggestion}', or delete it.`
+          : `Delete '${excerpt(key)}', or rename it to one of the allowed keys (docs/policy.md describes each).`,
       }
     })
   }

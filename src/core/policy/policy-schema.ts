@@ -191,7 +191,7 @@ const importanceSchema = mapping({
   draws: wholeNumber(1, 1000).default(defaultImportance.draws),
   refits: wholeNumber(1, 100).default(defaultImportance.refits),
   reference_rows: wholeNumber(1).default(defaultImportance.referenceRows),
-  evaluation_rows: wholeNumber(1).default(defaultImportance.evaluationRows),
+  evaluation_rows: wholeNumber(2).default(defaultImportance.evaluationRows),
   groups: z.preprocess(
     (raw) => (raw === null ? {} : raw),
     z.record(z.string(), nameList('a list of column names, such as [distance_km, stop_count]'), { error: 'a mapping of group names to lists of columns' }),

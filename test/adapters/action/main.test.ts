@@ -255,11 +255,22 @@ describe('run(deps) in check mode', () => {
 })
 
 describe('run(deps) with a bad input', () => {
-  it('masks the token before it reads, and refuses, the other inputs', async () => {
-    const error = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { 'fail-on': 'sometimes' } }).catch((e) => e)
-    expect(error).toBeInstanceOf(UserError)
-    expect(error.message).toBe("Input 'fail-on' must be one of block, warn, never; got 'sometimes'.")
-    expect(maskedBeforeFailure).toEqual([token])
+  it('masks the token first, then refuses the input with an error verdict, the outputs and the comment on the known pull request', async () => {
+    const result = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { 'fail-on': 'sometimes' } })
+    expect(result.secrets).toEqual([token])
+    expect(result.outputs.verdict).toBe('error')
+    expect(result.checks).toHaveLength(0)
+    expect(result.failures).toHaveLength(1)
+    expect(result.failures[0]).toContain("Input 'fail-on' must be one of block, warn, never; got 'sometimes'.")
+    const comments = fake.comments.get(17) ?? []
+    expect(comments).toHaveLength(1)
+    expect(comments[0].body).toContain('No verdict')
+  })
+
+  it('a malformed event file still sets the error verdict and fails the step, naming the file', async () => {
+    const result = await runAction({ eventName: 'pull_request', event: pullRequestEvent() , env: { GITHUB_EVENT_PATH: join(folder, 'workspace') } })
+    expect(result.outputs.verdict).toBe('error')
+    expect(result.failures[0]).toContain(`GITHUB_EVENT_PATH (${join(folder, 'workspace')}) is a directory, not a regular file`)
   })
 })
 

@@ -50,3 +50,18 @@ describe('checkHoldoutRows(base, head, action)', () => {
     expect(checkHoldoutRows(holdout('base', [0, 1, 0]), holdout('head', [1]), 'off')).toEqual([])
   })
 })
+
+describe('checkHoldoutRows with the same ids and other labels', () => {
+  it('blocks a relabelled holdout: a changed label under the same id is a changed holdout', () => {
+    const ids = ['P1', 'P2', 'P3', 'P4']
+    const [finding] = checkHoldoutRows(holdout('base', [0, 1, 0, 1], ids), holdout('head', [0, 0, 0, 0], ids), 'block')
+    expect(finding).toMatchObject({
+      kind: 'holdout-rows',
+      severity: 'block',
+      title: 'The two sides are not scored on the same holdout rows: the same ids carry another label in 2 of 4 rows.',
+      evidence: { baseRows: 4, headRows: 4, relabelledRows: 2, firstDifferingRow: 2 },
+    })
+    expect(finding.message).toBe(`The ids match row by row, but the target differs in 2 of 4 rows (first at holdout row 2, parcel_id 'P2'): the pull request relabelled the holdout. ${fixText}`)
+    expect(checkHoldoutRows(holdout('base', [0, 1], ['A', 'B']), holdout('head', [0, 1], ['A', 'B']), 'block')).toEqual([])
+  })
+})

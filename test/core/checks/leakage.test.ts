@@ -153,3 +153,20 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
     expect(check(base, unknown, {}, { task: 'regression' })).toEqual([])
   })
 })
+
+describe('checkLeakage(context, options) on a holdout that cannot show a leak', () => {
+  it('blocks when the one-class holdout leaves AUC undefined, and says the check could not be evaluated', () => {
+    const base = sideResult({ side: 'base', features: baseFeatures, separation: steady(NaN, 0), single: { distance_km: NaN } })
+    const head = sideResult({ features: { ...baseFeatures, leak: steady(0.4) }, separation: steady(NaN, 0), single: { distance_km: NaN, leak: NaN } })
+    const findings = check(base, head, { added: ['leak'] })
+    expect(findings[0]).toMatchObject({
+      kind: 'leakage',
+      severity: 'block',
+      title: 'The leakage check could not be evaluated on the head side: the holdout holds one class only, so AUC is undefined.',
+      evidence: { unevaluatedFeatures: 2, fullModelUndefined: true },
+    })
+    expect(findings[0].message).toMatch(/^No holdout AUC could be computed for the full model and the one-feature models of distance_km, leak\. /)
+    expect(check(base, head, { added: ['leak'] }, { action: 'warn' })[0].severity).toBe('warn')
+    expect(check(base, head, { added: ['leak'] }, { action: 'off' })).toEqual([])
+  })
+})

@@ -3,6 +3,7 @@ import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { parseCsv, schemaOf, type ParseCsvOptions } from '../../../src/core/data/parse-csv.ts'
 import { userErrorText } from './user-error-text.ts'
+import { breastCancerCsv, missingReference } from '../../helpers/reference-packages.ts'
 
 // Small invented parcel-courier files (demo scenario); every expected value below is worked by hand.
 const TRAIN = [
@@ -319,12 +320,12 @@ describe('parseCsv(text, options) refuses, word for word', () => {
 })
 
 describe('parseCsv(text, options) on data files that packages ship', () => {
-  it('reads scikit-learn\'s breast-cancer table as scikit-learn does', () => {
+  it.skipIf(missingReference('python3-sklearn', 'test/core/data/parse-csv.test.ts', "the breast-cancer table") !== undefined)('reads scikit-learn\'s breast-cancer table as scikit-learn does', () => {
     // Debian python3-sklearn's breast_cancer.csv starts with "569,30,malignant,benign" instead of
     // column names; replace that line with names. Expected values computed with scikit-learn 1.2.1:
     // load_breast_cancer() has shape (569, 30), 357 targets equal to 1 (benign), data[:, 0].mean() =
     // 14.127291739894552 and data[:, 29].mean() = 0.0839458172231986.
-    const raw = readFileSync('/usr/lib/python3/dist-packages/sklearn/datasets/data/breast_cancer.csv', 'utf8')
+    const raw = readFileSync(breastCancerCsv, 'utf8')
     const header = [...Array.from({ length: 30 }, (_, j) => `x${j}`), 'benign'].join(',')
     const data = parseCsv(`${header}\n${raw.slice(raw.indexOf('\n') + 1)}`, { source: 'breast_cancer.csv', target: 'benign' })
     const mean = (values: Float64Array) => values.reduce((a, b) => a + b, 0) / values.length

@@ -24,9 +24,9 @@ describe('describeSides', () => {
     // Scores 0.40, 0.42, 0.44, 0.46, 0.48 (computed by hand): mean 0.44, squared deviations sum to
     // 0.004, sample SD sqrt(0.004 / 4) = 0.0316227766; divided by n it would be 0.0282842712.
     const sides = describeSides({ base: side, head: side }, measured([0.4, 0.42, 0.44, 0.46, 0.48]), measured([0.5]))
-    expect(sides.base.scoreMean).toBeCloseTo(0.44, 12)
-    expect(sides.base.scoreSd).toBeCloseTo(0.0316227766, 9)
-    expect(sides.head.scoreSd).toBeNaN()
-    expect(sides.base.model.description).toBe('boosted on 1 features')
+    expect(sides!.base.scoreMean).toBeCloseTo(0.44, 12)
+    expect(sides!.base.scoreSd).toBeCloseTo(0.0316227766, 9)
+    expect(sides!.head.scoreSd).toBeNaN()
+    expect(sides!.base.model.description).toBe('boosted on 1 features')
   })
 })

@@ -2,6 +2,7 @@ import { execFileSync } from 'node:child_process'
 
 import { describe, expect, it } from 'vitest'
 
+import { missingReference } from '../../helpers/reference-packages.ts'
 import {
   escapeMarkdownCell,
   escapeMarkdownText,
@@ -91,15 +92,6 @@ describe('markdownCodeBlock(text)', () => {
   })
 })
 
-function hasCmarkGfm(): boolean {
-  try {
-    execFileSync('cmark-gfm', ['--version'], { stdio: 'ignore' })
-    return true
-  } catch {
-    return false
-  }
-}
-
 const nastyNames = [
   '<img src=x onerror=alert(1)>',
   '<script>alert(1)</script>',
@@ -129,7 +121,7 @@ function decodeEntities(html: string): string {
 // GitHub's own markdown library (cmark-gfm, Debian package cmark-gfm 0.29.0.gfm.6) as the judge:
 // each escaped name must come back as exactly its own characters, with no element inside.
 // Skipped where cmark-gfm is not installed (apt-get install cmark-gfm).
-describe.skipIf(!hasCmarkGfm())('escaped names rendered by cmark-gfm', () => {
+describe.skipIf(missingReference('cmark-gfm', 'test/core/report/escape.test.ts', 'the rendering checks') !== undefined)('escaped names rendered by cmark-gfm', () => {
   const render = (markdown: string) =>
     execFileSync('cmark-gfm', ['-e', 'table', '-e', 'autolink', '-e', 'strikethrough'], { input: markdown }).toString()
 

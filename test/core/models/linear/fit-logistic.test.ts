@@ -1,14 +1,15 @@
-import { existsSync, readFileSync } from 'node:fs'
+import { readFileSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
 import type { FeatureMatrix } from '../../../../src/core/data/dataset.ts'
 import { UserError } from '../../../../src/core/errors.ts'
 import { fitLogistic } from '../../../../src/core/models/linear/fit-logistic.ts'
 import type { LinearModel } from '../../../../src/core/models/linear/linear-model.ts'
+import { breastCancerCsv, missingReference } from '../../../helpers/reference-packages.ts'
 
 // Debian's python3-sklearn ships the Wisconsin breast-cancer data (569 rows, 30 features). Its first
 // line is "569,30,malignant,benign"; then 30 feature values and the target (0 malignant, 1 benign).
-const BREAST_CANCER = '/usr/lib/python3/dist-packages/sklearn/datasets/data/breast_cancer.csv'
-const hasBreastCancer = existsSync(BREAST_CANCER)
+const BREAST_CANCER = breastCancerCsv
+const hasBreastCancer = missingReference('python3-sklearn', 'test/core/models/linear/fit-logistic.test.ts', 'the breast-cancer fits') === undefined
 
 function readBreastCancer(): { matrix: FeatureMatrix; y: Float64Array } {
   const lines = readFileSync(BREAST_CANCER, 'utf8').trim().split('\n').slice(1)
