@@ -51,7 +51,7 @@ corpus = buildCorpus({
 
 type Observed = 'user-error' | 'accepted' | 'crash' | 'hang'
 const counts = new Map<string, number>()
-const tally = (family: Family, outcome: Observed) => counts.set(`${family} ${outcome}`, (counts.get(`${family} ${outcome}`) ?? 0) + 1)
+const tally = (family: Family | 'cli', outcome: Observed) => counts.set(`${family} ${outcome}`, (counts.get(`${family} ${outcome}`) ?? 0) + 1)
 
 async function observe(corpusCase: CorpusCase): Promise<{ outcome: Observed; value?: unknown; error?: unknown }> {
   let timer: NodeJS.Timeout | undefined
@@ -121,7 +121,7 @@ describe('a sample of hostile repositories through the real CLI process', () => 
     repositories.push(repo)
     item.edit(repo.root)
     const run = await runSource('cli', ['check', '--base', 'main', '--json', 'r.json'], { cwd: repo.root, env, limitSeconds: 90 })
-    tally('path', run.code === 2 ? 'user-error' : 'crash')
+    tally('cli', run.code === 2 ? 'user-error' : 'crash')
     expect(run.timedOut).toBe(false)
     expect(run.code).toBe(item.code)
     expect(run.stderr).toMatch(item.stderr)
