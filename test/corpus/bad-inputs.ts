@@ -10,7 +10,7 @@
  * fixtures (test/fixtures/onnx, test/core/report/courier-report.ts).
  */
 import { execFileSync } from 'node:child_process'
-import { mkdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs'
+import { mkdirSync, readFileSync, symlinkSync, truncateSync, writeFileSync } from 'node:fs'
 import { join } from 'node:path'
 import { runPrepare } from '../../src/adapters/check/run-prepare.ts'
 import { readDataset } from '../../src/adapters/files/read-dataset.ts'
@@ -368,6 +368,10 @@ function pathCases(root: string, outside: string): CorpusCase[] {
   add('data//train.csv', accepted())
   add('data/deep/../train.csv', accepted())
   add('data/in-link.csv', accepted())
+  // A sparse 300 MiB data file (no disk used): refused by its size before a byte is read.
+  writeFileSync(join(root, 'data', 'huge.csv'), '')
+  truncateSync(join(root, 'data', 'huge.csv'), 300 * 1024 * 1024)
+  add('data/huge.csv', userError(/^data\.train 'data\/huge\.csv' is larger than plumbline reads for a data file \(256 MiB\)\.$/))
   // The byte cap: a policy file read with the policy limit.
   writeFileSync(join(root, 'big.yml'), 'x'.repeat(2 * 1024 * 1024))
   cases.push({
