@@ -12,6 +12,7 @@ import { runCheck } from '../check/run-check.ts'
 import { fetchBase } from '../github/fetch-base.ts'
 import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
 import { redactSecrets, registerSecret } from '../security/secrets.ts'
+import { cleanOutsideText } from '../security/terminal-text.ts'
 import { run } from './main.ts'
 
 let clientModule: typeof import('../github/github-client.ts') | null = null
@@ -21,8 +22,8 @@ try {
   await run({
     core: {
       getInput: (name) => core.getInput(name),
-      info: (message) => core.info(redactSecrets(message)),
-      warning: (message) => core.warning(redactSecrets(message)),
+      info: (message) => core.info(cleanOutsideText(message)),
+      warning: (message) => core.warning(cleanOutsideText(message)),
       setSecret: (secret) => {
         core.setSecret(secret)
         registerSecret(secret)

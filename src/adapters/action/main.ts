@@ -15,6 +15,7 @@ import { escapeMarkdownText } from '../../core/report/escape.ts'
 import { renderMarkdown } from '../../core/report/render-markdown.ts'
 import type { GateReport } from '../../core/report/report.ts'
 import { parseGateReport } from '../../core/report/report-schema.ts'
+import { fitReportLimits } from '../../core/report/fit-report-limits.ts'
 import type { GateProgress } from '../../core/run-gate.ts'
 import type { CheckRequest } from '../check/run-check.ts'
 import { commentMarker, upsertComment } from '../github/comment.ts'
@@ -326,7 +327,7 @@ async function finish(context: RunContext, outcome: Outcome): Promise<void> {
   const { core } = deps
   const { plan } = outcome
   // Nothing written or posted may hold a secret, whatever a command or a file put into the report.
-  const report = redactDeep(outcome.report)
+  const report = fitReportLimits(redactDeep(outcome.report))
   const failure = outcome.failure
   const json = `${JSON.stringify(report, null, 2)}\n`
   const fullMarkdown = renderMarkdown(report, { maxTableRows: 100_000, maxCharacters: summaryMaxCharacters, marker: commentMarker })

@@ -3,6 +3,7 @@ import { basename, dirname, join } from 'node:path'
 import { describeFailure, UserError } from '../../core/errors.ts'
 import { errorReport } from '../../core/report/error-report.ts'
 import { renderMarkdown } from '../../core/report/render-markdown.ts'
+import { fitReportLimits } from '../../core/report/fit-report-limits.ts'
 import { renderText } from '../../core/report/render-text.ts'
 import type { GateReport } from '../../core/report/report.ts'
 import type { GateProgress } from '../../core/run-gate.ts'
@@ -90,7 +91,9 @@ async function planOutputs(command: { json?: string; markdown?: string }, cwd: s
  * directly, before the renames). So a run whose markdown cannot be written (/dev/full, a full disk)
  * leaves no report file claiming a verdict, and exits 2 saying which output failed.
  */
-async function writeOutputs(command: { json?: string; markdown?: string }, report: GateReport, cwd: string) {
+async function writeOutputs(command: { json?: string; markdown?: string }, full: GateReport, cwd: string) {
+  // Within the limits the action's publish mode reads, and without secrets (the error path too).
+  const report = fitReportLimits(redactDeep(full))
   const texts: Record<string, string> = {
     '--json': `${JSON.stringify(report, null, 2)}\n`,
     '--markdown': renderMarkdown(report),

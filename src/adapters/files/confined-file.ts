@@ -69,6 +69,7 @@ export async function resolveConfined(target: ConfinedPath, missing: () => UserE
       throw missing()
     }
     if (code === 'ELOOP') throw new UserError(`${target.key} '${target.path}' is a symlink loop.`, 'Point the path at a regular file.')
+    if (code === 'ENAMETOOLONG') throw new UserError(`${target.key} '${target.path.slice(0, 80)}…' is longer than the system allows for a path.`, 'Give a shorter path.')
     if (code === 'EACCES') throw new UserError(`${target.key} '${target.path}': permission denied.`, 'Make the file readable by the user that runs plumbline.')
     throw error
   }

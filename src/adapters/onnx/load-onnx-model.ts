@@ -82,7 +82,16 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
       `Check that '${options.source}' is a complete .onnx file: export it again, and if it is stored with Git LFS, check it out with LFS so that the file is not a pointer.`,
     )
   }
-  const summary = readOnnxSummary(bytes)
+  let summary: OnnxSummary
+  try {
+    summary = readOnnxSummary(bytes)
+  } catch (error) {
+    // onnxruntime accepted the graph, but its metadata or labels are not valid protobuf / UTF-8.
+    throw new UserError(
+      `The ONNX model '${options.source}' has metadata or class labels that cannot be read (${error instanceof Error ? error.message.slice(0, 120) : 'unreadable'}).`,
+      `Export '${options.source}' again; a file changed after export (or stored as a Git LFS pointer) reads this way.`,
+    )
+  }
   const inputs = planInputs(session.inputMetadata, options, summary)
   const output = options.task === 'regression'
     ? planRegressionOutput(session.outputMetadata, options.source)

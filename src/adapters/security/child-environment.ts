@@ -8,7 +8,10 @@
  */
 
 /** Names a command may need to find programs, write temporary files and read text as UTF-8. */
-const commonNames = ['PATH', 'HOME', 'USER', 'LOGNAME', 'SHELL', 'LANG', 'LANGUAGE', 'TZ', 'TMPDIR', 'TMP', 'TEMP', 'TERM', 'PWD'] as const
+const commonNames = ['PATH', 'HOME', 'USER', 'LOGNAME', 'SHELL', 'LANG', 'LANGUAGE', 'TZ', 'TMPDIR', 'TMP', 'TEMP', 'TERM', 'PWD', 'CI'] as const
+
+/** What training tools read to find their libraries and size their thread pools (no credentials). */
+const toolNames = ['PYTHONPATH', 'PYTHONHOME', 'VIRTUAL_ENV', 'CONDA_PREFIX', 'CONDA_DEFAULT_ENV', 'LD_LIBRARY_PATH', 'JAVA_HOME', 'OMP_NUM_THREADS', 'MKL_NUM_THREADS', 'OPENBLAS_NUM_THREADS'] as const
 
 /** Extra names git needs to fetch through a proxy or ssh (git is ours, not the pull request's code). */
 const gitNames = ['SSH_AUTH_SOCK', 'GIT_SSH', 'GIT_SSH_COMMAND', 'HTTP_PROXY', 'HTTPS_PROXY', 'NO_PROXY', 'http_proxy', 'https_proxy', 'no_proxy', 'GIT_CONFIG_NOSYSTEM', 'GIT_CONFIG_GLOBAL', 'GIT_CONFIG_SYSTEM', 'XDG_CONFIG_HOME'] as const
@@ -27,7 +30,7 @@ export function childEnvironment(
   options: { readonly purpose?: ChildPurpose; readonly source?: Readonly<Record<string, string | undefined>> } = {},
 ): Record<string, string> {
   const source = options.source ?? process.env
-  const allowed = new Set<string>([...commonNames, ...(options.purpose === 'git' ? gitNames : [])])
+  const allowed = new Set<string>([...commonNames, ...(options.purpose === 'git' ? gitNames : toolNames)])
   const kept: Record<string, string> = {}
   for (const [name, value] of Object.entries(source)) {
     if (value === undefined) continue

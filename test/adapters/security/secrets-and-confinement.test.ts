@@ -313,6 +313,17 @@ describe('the real action on hostile inputs', () => {
     expect(everything(deepEnv, deep)).not.toContain(token)
   })
 
+  it('a binary event file: the error verdict output and a failed step naming the file, no throw at import', async () => {
+    const workspace = mkdtempSync(join(folder, 'ws-'))
+    const env = actionEnv(workspace, {})
+    writeFileSync(env.GITHUB_EVENT_PATH, Buffer.from([0xff, 0xfe, 0x00, 0x7b, 0x22, 0x01]))
+    const run = await runSource('action', [], { cwd: workspace, env })
+    expect(run.code).toBe(1)
+    expect(readFileSync(env.GITHUB_OUTPUT, 'utf8')).toMatch(/verdict<<(\S+)\nerror\n/)
+    expect(run.stdout).toContain(`::error::No verdict: the check could not run (The event payload at ${env.GITHUB_EVENT_PATH} is not valid JSON)`)
+    expect(everything(env, run)).not.toContain(token)
+  })
+
   it('check mode: a report copy outside the workspace is refused; an API that never answers does not hang the step', async () => {
     const workspace = mkdtempSync(join(folder, 'ws-'))
     const env = actionEnv(workspace, { report: '../escaped.json' }, silentUrl)
