@@ -37034,192 +37034,142 @@ var init_dist_bundle = __esm({
   }
 });
 
-// node_modules/content-type/dist/index.js
-function parse5(header, options) {
-  const stopFlags = SEMI_FLAG | (options?.comma === true ? COMMA_FLAG : 0);
-  const len = header.length;
-  let valueStart = options?.start ?? 0;
-  while ((CHAR_MAP[header.charCodeAt(valueStart)] & OWS) !== 0) {
-    valueStart++;
-  }
-  let index = valueStart;
-  let typeFlags = 0;
-  let whitespace = -1;
-  let stop = options?.parameters === false ? COMMA_FLAG : 0;
-  while (index < len) {
-    const code = header.charCodeAt(index);
-    const flags = CHAR_MAP[code];
-    if ((flags & stopFlags) !== 0) {
-      stop |= flags & COMMA_FLAG;
-      break;
-    }
-    if ((flags & OWS) !== 0) {
-      if (whitespace === -1)
-        whitespace = index;
-    } else {
-      whitespace = -1;
-    }
-    typeFlags |= code & NON_ASCII | flags;
-    index++;
-  }
-  const valueEnd = whitespace === -1 ? index : whitespace;
-  const value = header.slice(valueStart, valueEnd);
-  const type = (typeFlags & CASE_FLAGS) === 0 ? value : value.toLowerCase();
-  if (index === len || stop !== 0) {
-    return { type, index, parameters: new NullObject() };
-  }
-  return parseParameters(header, type, index, len, stopFlags);
-}
-function parseParameters(header, type, index, len, stopFlags) {
-  const parameters = new NullObject();
-  parameter: while (index < len) {
-    index++;
-    while ((CHAR_MAP[header.charCodeAt(index)] & OWS) !== 0) {
-      index++;
-    }
-    const keyStart = index;
-    let keyFlags = 0;
-    let keyWhitespace = -1;
-    while (index < len) {
-      const code = header.charCodeAt(index);
-      const flags = CHAR_MAP[code];
-      if ((flags & stopFlags) !== 0) {
-        if ((flags & COMMA_FLAG) !== 0)
-          break parameter;
-        continue parameter;
-      }
-      if (code === EQ) {
-        const keyEnd = keyWhitespace === -1 ? index : keyWhitespace;
-        const value = header.slice(keyStart, keyEnd);
-        const key = (keyFlags & CASE_FLAGS) === 0 ? value : value.toLowerCase();
-        index++;
-        while ((CHAR_MAP[header.charCodeAt(index)] & OWS) !== 0) {
-          index++;
-        }
-        if (index < len && header.charCodeAt(index) === DQUOTE) {
-          const quotedStart = ++index;
-          let escaped = false;
-          while (index < len) {
-            const code2 = header.charCodeAt(index);
-            if (code2 === DQUOTE) {
-              if (parameters[key] === void 0) {
-                parameters[key] = escaped ? unescapeQuotedPairs(header, quotedStart, index) : header.slice(quotedStart, index);
-              }
-              index++;
-              let stop2 = 0;
-              while (index < len) {
-                const code3 = header.charCodeAt(index);
-                const flags2 = CHAR_MAP[code3];
-                if ((flags2 & stopFlags) !== 0) {
-                  stop2 = flags2 & COMMA_FLAG;
-                  break;
-                }
-                index++;
-              }
-              if (stop2 !== 0)
-                break parameter;
-              continue parameter;
-            }
-            if (code2 === BSLASH && index + 1 < len) {
-              escaped = true;
-              index += 2;
-              continue;
-            }
-            index++;
-          }
-          continue parameter;
-        }
-        const valueStart = index;
-        let stop = 0;
-        let valueWhitespace = -1;
-        while (index < len) {
-          const code2 = header.charCodeAt(index);
-          const flags2 = CHAR_MAP[code2];
-          if ((flags2 & stopFlags) !== 0) {
-            stop = flags2 & COMMA_FLAG;
-            break;
-          }
-          if ((flags2 & OWS) !== 0) {
-            if (valueWhitespace === -1)
-              valueWhitespace = index;
-          } else {
-            valueWhitespace = -1;
-          }
-          index++;
-        }
-        if (parameters[key] === void 0) {
-          const valueEnd = valueWhitespace === -1 ? index : valueWhitespace;
-          parameters[key] = header.slice(valueStart, valueEnd);
-        }
-        if (stop !== 0)
-          break parameter;
-        continue parameter;
-      }
-      if ((flags & OWS) !== 0) {
-        if (keyWhitespace === -1)
-          keyWhitespace = index;
-      } else {
-        keyWhitespace = -1;
-      }
-      keyFlags |= code & NON_ASCII | flags;
-      index++;
-    }
-  }
-  return { type, index, parameters };
-}
-function unescapeQuotedPairs(str, start, end) {
-  let result = "";
-  for (let index = start; index < end; index++) {
-    if (str.charCodeAt(index) === BSLASH) {
-      result += str.slice(start, index);
-      start = ++index;
-    }
-  }
-  return result + str.slice(start, end);
-}
-var SP, HTAB, SEMI, EQ, DQUOTE, BSLASH, COMMA, LOWER_CASE, OWS, SEMI_FLAG, COMMA_FLAG, TOKEN_FLAG, NON_ASCII, CASE_FLAGS, CHAR_MAP, NullObject;
-var init_dist = __esm({
-  "node_modules/content-type/dist/index.js"() {
-    SP = 32;
-    HTAB = 9;
-    SEMI = 59;
-    EQ = 61;
-    DQUOTE = 34;
-    BSLASH = 92;
-    COMMA = 44;
-    LOWER_CASE = 1;
-    OWS = 2;
-    SEMI_FLAG = 4;
-    COMMA_FLAG = 8;
-    TOKEN_FLAG = 16;
-    NON_ASCII = 65280;
-    CASE_FLAGS = LOWER_CASE | NON_ASCII;
-    CHAR_MAP = new Uint8Array(256);
-    CHAR_MAP[HTAB] |= OWS;
-    CHAR_MAP[SP] |= OWS;
-    CHAR_MAP[SEMI] |= SEMI_FLAG;
-    CHAR_MAP[COMMA] |= COMMA_FLAG;
-    for (let code = 128; code <= 255; code++) {
-      CHAR_MAP[code] |= LOWER_CASE;
-    }
-    for (const char of "!#$%&'*+-.^_`|~") {
-      CHAR_MAP[char.charCodeAt(0)] |= TOKEN_FLAG;
-    }
-    for (let code = 48; code <= 57; code++) {
-      CHAR_MAP[code] |= TOKEN_FLAG;
-    }
-    for (let code = 65; code <= 90; code++) {
-      CHAR_MAP[code] |= LOWER_CASE | TOKEN_FLAG;
-    }
-    for (let code = 97; code <= 122; code++) {
-      CHAR_MAP[code] |= TOKEN_FLAG;
-    }
-    NullObject = /* @__PURE__ */ (() => {
+// node_modules/@octokit/request/node_modules/content-type/dist/index.js
+var require_dist3 = __commonJS({
+  "node_modules/@octokit/request/node_modules/content-type/dist/index.js"(exports) {
+    "use strict";
+    Object.defineProperty(exports, "__esModule", { value: true });
+    exports.format = format;
+    exports.parse = parse6;
+    var TEXT_REGEXP = /^[\u0009\u0020-\u007e\u0080-\u00ff]*$/;
+    var TOKEN_REGEXP = /^[!#$%&'*+.^_`|~0-9A-Za-z-]+$/;
+    var QUOTE_REGEXP = /[\\"]/g;
+    var TYPE_REGEXP = /^[!#$%&'*+.^_`|~0-9A-Za-z-]+\/[!#$%&'*+.^_`|~0-9A-Za-z-]+$/;
+    var NullObject = /* @__PURE__ */ (() => {
       const C = function() {
       };
       C.prototype = /* @__PURE__ */ Object.create(null);
       return C;
     })();
+    function format(obj) {
+      const { type, parameters } = obj;
+      if (!type || !TYPE_REGEXP.test(type)) {
+        throw new TypeError(`Invalid type: ${type}`);
+      }
+      let result = type;
+      if (parameters) {
+        for (const param of Object.keys(parameters)) {
+          if (!TOKEN_REGEXP.test(param)) {
+            throw new TypeError(`Invalid parameter name: ${param}`);
+          }
+          result += `; ${param}=${qstring(parameters[param])}`;
+        }
+      }
+      return result;
+    }
+    function parse6(header, options) {
+      const stopChar = options?.comma === true ? COMMA : 65536;
+      const len = header.length;
+      let index = skipOWS(header, options?.start ?? 0, len);
+      const valueStart = index;
+      index = skipValue(header, index, len, stopChar);
+      const valueEnd = trailingOWS(header, valueStart, index);
+      const type = header.slice(valueStart, valueEnd).toLowerCase();
+      if (options?.parameters === false) {
+        return { type, index, parameters: new NullObject() };
+      }
+      return parseParameters(header, type, index, len, stopChar);
+    }
+    var SP = 32;
+    var HTAB = 9;
+    var SEMI = 59;
+    var EQ = 61;
+    var DQUOTE = 34;
+    var BSLASH = 92;
+    var COMMA = 44;
+    function parseParameters(header, type, index, len, stopChar) {
+      const parameters = new NullObject();
+      parameter: while (index < len) {
+        if (header.charCodeAt(index) === stopChar)
+          break;
+        index = skipOWS(header, index + 1, len);
+        const keyStart = index;
+        while (index < len) {
+          const code = header.charCodeAt(index);
+          if (code === stopChar)
+            break parameter;
+          if (code === SEMI)
+            continue parameter;
+          if (code === EQ) {
+            const keyEnd = trailingOWS(header, keyStart, index);
+            const key = header.slice(keyStart, keyEnd).toLowerCase();
+            index = skipOWS(header, index + 1, len);
+            if (index < len && header.charCodeAt(index) === DQUOTE) {
+              index++;
+              let value = "";
+              while (index < len) {
+                const code2 = header.charCodeAt(index++);
+                if (code2 === DQUOTE) {
+                  index = skipValue(header, index, len, stopChar);
+                  if (parameters[key] === void 0)
+                    parameters[key] = value;
+                  break;
+                }
+                if (code2 === BSLASH && index < len) {
+                  value += header[index++];
+                  continue;
+                }
+                value += String.fromCharCode(code2);
+              }
+              continue parameter;
+            }
+            const valueStart = index;
+            index = skipValue(header, index, len, stopChar);
+            if (parameters[key] === void 0) {
+              const valueEnd = trailingOWS(header, valueStart, index);
+              parameters[key] = header.slice(valueStart, valueEnd);
+            }
+            continue parameter;
+          }
+          index++;
+        }
+      }
+      return { type, index, parameters };
+    }
+    function skipValue(str, index, len, stopChar) {
+      while (index < len) {
+        const code = str.charCodeAt(index);
+        if (code === SEMI || code === stopChar)
+          break;
+        index++;
+      }
+      return index;
+    }
+    function skipOWS(header, index, len) {
+      while (index < len) {
+        const char = header.charCodeAt(index);
+        if (char !== SP && char !== HTAB)
+          break;
+        index++;
+      }
+      return index;
+    }
+    function trailingOWS(header, start, end) {
+      while (end > start) {
+        const char = header.charCodeAt(end - 1);
+        if (char !== SP && char !== HTAB)
+          break;
+        end--;
+      }
+      return end;
+    }
+    function qstring(str) {
+      if (TOKEN_REGEXP.test(str))
+        return str;
+      if (TEXT_REGEXP.test(str))
+        return `"${str.replace(QUOTE_REGEXP, "\\$&")}"`;
+      throw new TypeError(`Invalid parameter value: ${str}`);
+    }
   }
 });
 
@@ -37719,7 +37669,7 @@ async function getResponseData(response) {
   if (!contentType) {
     return response.text().catch(noop);
   }
-  const mimetype = parse5(contentType);
+  const mimetype = (0, import_content_type.parse)(contentType);
   if (isJSONResponse(mimetype)) {
     let text3 = "";
     try {
@@ -37780,12 +37730,12 @@ function withDefaults2(oldEndpoint, newDefaults) {
     defaults: withDefaults2.bind(null, endpoint2)
   });
 }
-var VERSION2, defaults_default, noop, request;
+var import_content_type, VERSION2, defaults_default, noop, request;
 var init_dist_bundle2 = __esm({
   "node_modules/@octokit/request/dist-bundle/index.js"() {
     init_dist_bundle();
     init_universal_user_agent();
-    init_dist();
+    import_content_type = __toESM(require_dist3(), 1);
     init_json_with_bigint();
     init_dist_src();
     VERSION2 = "10.0.16";
@@ -65415,8 +65365,8 @@ function describePolicyKey(path) {
 // src/core/policy/excerpt.ts
 var unsafe = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g;
 function excerpt(text3, max = 40) {
-  const cut = [...text3].length > max ? `${[...text3].slice(0, max).join("")}…` : text3;
-  return cut.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
+  const cut2 = [...text3].length > max ? `${[...text3].slice(0, max).join("")}…` : text3;
+  return cut2.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
 }
 
 // src/core/policy/levenshtein-distance.ts
@@ -68982,6 +68932,7 @@ async function resolveConfined(target, missing) {
       throw missing();
     }
     if (code === "ELOOP") throw new UserError(`${target.key} '${target.path}' is a symlink loop.`, "Point the path at a regular file.");
+    if (code === "ENAMETOOLONG") throw new UserError(`${target.key} '${target.path.slice(0, 80)}…' is longer than the system allows for a path.`, "Give a shorter path.");
     if (code === "EACCES") throw new UserError(`${target.key} '${target.path}': permission denied.`, "Make the file readable by the user that runs plumbline.");
     throw error63;
   }
@@ -69096,12 +69047,13 @@ import { join as join2 } from "node:path";
 import { promisify } from "node:util";
 
 // src/adapters/security/child-environment.ts
-var commonNames = ["PATH", "HOME", "USER", "LOGNAME", "SHELL", "LANG", "LANGUAGE", "TZ", "TMPDIR", "TMP", "TEMP", "TERM", "PWD"];
+var commonNames = ["PATH", "HOME", "USER", "LOGNAME", "SHELL", "LANG", "LANGUAGE", "TZ", "TMPDIR", "TMP", "TEMP", "TERM", "PWD", "CI"];
+var toolNames = ["PYTHONPATH", "PYTHONHOME", "VIRTUAL_ENV", "CONDA_PREFIX", "CONDA_DEFAULT_ENV", "LD_LIBRARY_PATH", "JAVA_HOME", "OMP_NUM_THREADS", "MKL_NUM_THREADS", "OPENBLAS_NUM_THREADS"];
 var gitNames = ["SSH_AUTH_SOCK", "GIT_SSH", "GIT_SSH_COMMAND", "HTTP_PROXY", "HTTPS_PROXY", "NO_PROXY", "http_proxy", "https_proxy", "no_proxy", "GIT_CONFIG_NOSYSTEM", "GIT_CONFIG_GLOBAL", "GIT_CONFIG_SYSTEM", "XDG_CONFIG_HOME"];
 var secretLookingName = /TOKEN|SECRET|PASSW|(^|_)KEY($|_)|API_?KEY|PRIVATE|CREDENTIAL|AUTH|COOKIE|SESSION/i;
 function childEnvironment(extra = {}, options = {}) {
   const source = options.source ?? process.env;
-  const allowed = /* @__PURE__ */ new Set([...commonNames, ...options.purpose === "git" ? gitNames : []]);
+  const allowed = /* @__PURE__ */ new Set([...commonNames, ...options.purpose === "git" ? gitNames : toolNames]);
   const kept = {};
   for (const [name, value] of Object.entries(source)) {
     if (value === void 0) continue;
@@ -69465,7 +69417,15 @@ async function loadOnnxModel(bytes, options) {
       `Check that '${options.source}' is a complete .onnx file: export it again, and if it is stored with Git LFS, check it out with LFS so that the file is not a pointer.`
     );
   }
-  const summary3 = readOnnxSummary(bytes);
+  let summary3;
+  try {
+    summary3 = readOnnxSummary(bytes);
+  } catch (error63) {
+    throw new UserError(
+      `The ONNX model '${options.source}' has metadata or class labels that cannot be read (${error63 instanceof Error ? error63.message.slice(0, 120) : "unreadable"}).`,
+      `Export '${options.source}' again; a file changed after export (or stored as a Git LFS pointer) reads this way.`
+    );
+  }
   const inputs = planInputs(session.inputMetadata, options, summary3);
   const output2 = options.task === "regression" ? planRegressionOutput(session.outputMetadata, options.source) : planProbabilityOutput(session.outputMetadata, options, summary3);
   const { source } = options;
@@ -70740,8 +70700,8 @@ function tabulateReport(report) {
 }
 function limitRows(table, maxRows) {
   if (table.rows.length <= maxRows) return table;
-  const cut = table.rows.length - maxRows;
-  const more = [`${formatCount(cut)} more ${cut === 1 ? "row" : "rows"}`, ...table.header.slice(1).map(() => "")];
+  const cut2 = table.rows.length - maxRows;
+  const more = [`${formatCount(cut2)} more ${cut2 === 1 ? "row" : "rows"}`, ...table.header.slice(1).map(() => "")];
   return { ...table, rows: [...table.rows.slice(0, maxRows), more] };
 }
 function limitItems(items, maxItems) {
@@ -70767,8 +70727,8 @@ function renderDetails(summary3, blocks) {
 }
 function shortenMessage(message, maxCharacters) {
   if (message.length <= maxCharacters) return message;
-  const cut = message.length - maxCharacters;
-  return `${message.slice(0, maxCharacters)} … (${formatCount(cut)} more characters in the full report)`;
+  const cut2 = message.length - maxCharacters;
+  return `${message.slice(0, maxCharacters)} … (${formatCount(cut2)} more characters in the full report)`;
 }
 function renderFinding(finding, maxItems) {
   const lines = [
@@ -70826,9 +70786,9 @@ function renderError(report, options) {
     const blocks = messages.map((message) => {
       const kept = message.slice(0, Math.max(0, left));
       left -= kept.length;
-      const cut = message.length - kept.length;
-      return markdownCodeBlock(cut > 0 ? `${kept}
-[${formatCount(cut)} more characters in the full report]` : kept);
+      const cut2 = message.length - kept.length;
+      return markdownCodeBlock(cut2 > 0 ? `${kept}
+[${formatCount(cut2)} more characters in the full report]` : kept);
     });
     const shortened = messages.join("").length > budget;
     return [
@@ -71167,6 +71127,22 @@ function parseGateReport(json2, source) {
 ${lines.join("\n")}`,
     "Publish the report file exactly as the plumbline run wrote it, with the same plumbline version in both jobs."
   );
+}
+
+// src/core/report/fit-report-limits.ts
+function fitReportLimits(report) {
+  return fit(report, null);
+}
+function cut(text3, max) {
+  return text3.length <= max ? text3 : `${text3.slice(0, max - 1)}…`;
+}
+function fit(value, key) {
+  if (typeof value === "string") return cut(value, key === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
+  if (Array.isArray(value)) return value.slice(0, reportLimits.maxItems).map((item) => fit(item, null));
+  if (value === null || typeof value !== "object" || ArrayBuffer.isView(value)) return value;
+  const out = {};
+  for (const [name, item] of Object.entries(value).slice(0, reportLimits.maxKeys)) out[cut(name, reportLimits.maxKeyLength)] = fit(item, name);
+  return out;
 }
 
 // src/adapters/github/comment.ts
@@ -71660,7 +71636,7 @@ async function finish(context3, outcome) {
   const { deps, outputDirectory } = context3;
   const { core } = deps;
   const { plan } = outcome;
-  const report = redactDeep(outcome.report);
+  const report = fitReportLimits(redactDeep(outcome.report));
   const failure2 = outcome.failure;
   const json2 = `${JSON.stringify(report, null, 2)}
 `;
@@ -71757,8 +71733,8 @@ try {
   await run({
     core: {
       getInput: (name) => getInput(name),
-      info: (message) => info(redactSecrets(message)),
-      warning: (message) => warning(redactSecrets(message)),
+      info: (message) => info(cleanOutsideText(message)),
+      warning: (message) => warning(cleanOutsideText(message)),
       setSecret: (secret) => {
         setSecret(secret);
         registerSecret(secret);

@@ -609,8 +609,8 @@ var require_Node = __commonJS({
         };
         const res = toJS.toJS(this, "", ctx);
         if (typeof onAnchor === "function")
-          for (const { count: count3, res: res2 } of ctx.anchors.values())
-            onAnchor(res2, count3);
+          for (const { count: count4, res: res2 } of ctx.anchors.values())
+            onAnchor(res2, count4);
         return typeof reviver === "function" ? applyReviver.applyReviver(reviver, { "": res }, "", res) : res;
       }
     };
@@ -718,13 +718,13 @@ var require_Alias = __commonJS({
         const anchor2 = anchors2 && source && anchors2.get(source);
         return anchor2 ? anchor2.count * anchor2.aliasCount : 0;
       } else if (identity.isCollection(node2)) {
-        let count3 = 0;
+        let count4 = 0;
         for (const item of node2.items) {
           const c = getAliasCount(doc, item, anchors2);
-          if (c > count3)
-            count3 = c;
+          if (c > count4)
+            count4 = c;
         }
-        return count3;
+        return count4;
       } else if (identity.isPair(node2)) {
         const kc = getAliasCount(doc, node2.key, anchors2);
         const vc = getAliasCount(doc, node2.value, anchors2);
@@ -1008,14 +1008,14 @@ var require_foldFlowLines = __commonJS({
     var FOLD_FLOW = "flow";
     var FOLD_BLOCK = "block";
     var FOLD_QUOTED = "quoted";
-    function foldFlowLines(text2, indent, mode = "flow", { indentAtStart, lineWidth = 80, minContentWidth = 20, onFold, onOverflow } = {}) {
+    function foldFlowLines(text3, indent, mode = "flow", { indentAtStart, lineWidth = 80, minContentWidth = 20, onFold, onOverflow } = {}) {
       if (!lineWidth || lineWidth < 0)
-        return text2;
+        return text3;
       if (lineWidth < minContentWidth)
         minContentWidth = 0;
       const endStep = Math.max(1 + minContentWidth, 1 + lineWidth - indent.length);
-      if (text2.length <= endStep)
-        return text2;
+      if (text3.length <= endStep)
+        return text3;
       const folds = [];
       const escapedFolds = {};
       let end = lineWidth - indent.length;
@@ -1032,14 +1032,14 @@ var require_foldFlowLines = __commonJS({
       let escStart = -1;
       let escEnd = -1;
       if (mode === FOLD_BLOCK) {
-        i = consumeMoreIndentedLines(text2, i, indent.length);
+        i = consumeMoreIndentedLines(text3, i, indent.length);
         if (i !== -1)
           end = i + endStep;
       }
-      for (let ch; ch = text2[i += 1]; ) {
+      for (let ch; ch = text3[i += 1]; ) {
         if (mode === FOLD_QUOTED && ch === "\\") {
           escStart = i;
-          switch (text2[i + 1]) {
+          switch (text3[i + 1]) {
             case "x":
               i += 3;
               break;
@@ -1056,12 +1056,12 @@ var require_foldFlowLines = __commonJS({
         }
         if (ch === "\n") {
           if (mode === FOLD_BLOCK)
-            i = consumeMoreIndentedLines(text2, i, indent.length);
+            i = consumeMoreIndentedLines(text3, i, indent.length);
           end = i + indent.length + endStep;
           split = void 0;
         } else {
           if (ch === " " && prev && prev !== " " && prev !== "\n" && prev !== "	") {
-            const next = text2[i + 1];
+            const next = text3[i + 1];
             if (next && next !== " " && next !== "\n" && next !== "	")
               split = i;
           }
@@ -1073,12 +1073,12 @@ var require_foldFlowLines = __commonJS({
             } else if (mode === FOLD_QUOTED) {
               while (prev === " " || prev === "	") {
                 prev = ch;
-                ch = text2[i += 1];
+                ch = text3[i += 1];
                 overflow = true;
               }
               const j = i > escEnd + 1 ? i - 2 : escStart - 1;
               if (escapedFolds[j])
-                return text2;
+                return text3;
               folds.push(j);
               escapedFolds[j] = true;
               end = j + endStep;
@@ -1093,39 +1093,39 @@ var require_foldFlowLines = __commonJS({
       if (overflow && onOverflow)
         onOverflow();
       if (folds.length === 0)
-        return text2;
+        return text3;
       if (onFold)
         onFold();
-      let res = text2.slice(0, folds[0]);
+      let res = text3.slice(0, folds[0]);
       for (let i2 = 0; i2 < folds.length; ++i2) {
         const fold = folds[i2];
-        const end2 = folds[i2 + 1] || text2.length;
+        const end2 = folds[i2 + 1] || text3.length;
         if (fold === 0)
           res = `
-${indent}${text2.slice(0, end2)}`;
+${indent}${text3.slice(0, end2)}`;
         else {
           if (mode === FOLD_QUOTED && escapedFolds[fold])
-            res += `${text2[fold]}\\`;
+            res += `${text3[fold]}\\`;
           res += `
-${indent}${text2.slice(fold + 1, end2)}`;
+${indent}${text3.slice(fold + 1, end2)}`;
         }
       }
       return res;
     }
-    function consumeMoreIndentedLines(text2, i, indent) {
+    function consumeMoreIndentedLines(text3, i, indent) {
       let end = i;
       let start = i + 1;
-      let ch = text2[start];
+      let ch = text3[start];
       while (ch === " " || ch === "	") {
         if (i < start + indent) {
-          ch = text2[++i];
+          ch = text3[++i];
         } else {
           do {
-            ch = text2[++i];
+            ch = text3[++i];
           } while (ch && ch !== "\n");
           end = i;
           start = i + 1;
-          ch = text2[start];
+          ch = text3[start];
         }
       }
       return end;
@@ -3677,8 +3677,8 @@ var require_Document = __commonJS({
         };
         const res = toJS.toJS(this.contents, jsonArg ?? "", ctx);
         if (typeof onAnchor === "function")
-          for (const { count: count3, res: res2 } of ctx.anchors.values())
-            onAnchor(res2, count3);
+          for (const { count: count4, res: res2 } of ctx.anchors.values())
+            onAnchor(res2, count4);
         return typeof reviver === "function" ? applyReviver.applyReviver(reviver, { "": res }, "", res) : res;
       }
       /**
@@ -3755,12 +3755,12 @@ var require_errors = __commonJS({
         lineStr = prev + lineStr;
       }
       if (/[^ ]/.test(lineStr)) {
-        let count3 = 1;
+        let count4 = 1;
         const end = error62.linePos[1];
         if (end?.line === line && end.col > col) {
-          count3 = Math.max(1, Math.min(end.col - col, 80 - ci));
+          count4 = Math.max(1, Math.min(end.col - col, 80 - ci));
         }
-        const pointer = " ".repeat(ci) + "^".repeat(count3);
+        const pointer = " ".repeat(ci) + "^".repeat(count4);
         error62.message += `:
 
 ${lineStr}
@@ -6355,15 +6355,15 @@ var require_parser = __commonJS({
     var node_process = __require("process");
     var cst = require_cst();
     var lexer = require_lexer();
-    function includesToken(list2, type) {
-      for (let i = 0; i < list2.length; ++i)
-        if (list2[i].type === type)
+    function includesToken(list3, type) {
+      for (let i = 0; i < list3.length; ++i)
+        if (list3[i].type === type)
           return true;
       return false;
     }
-    function findNonEmptyIndex(list2) {
-      for (let i = 0; i < list2.length; ++i) {
-        switch (list2[i].type) {
+    function findNonEmptyIndex(list3) {
+      for (let i = 0; i < list3.length; ++i) {
+        switch (list3[i].type) {
           case "space":
           case "comment":
           case "newline":
@@ -10994,9 +10994,9 @@ var require_writer = __commonJS({
     };
     var VIEW_THRESHOLD_FLOAT = 16;
     var VIEW_THRESHOLD_INT = 128;
-    function getLazyView(writer, count3, threshold) {
+    function getLazyView(writer, count4, threshold) {
       var view = writer.view;
-      if (view || count3 < threshold)
+      if (view || count4 < threshold)
         return view;
       var buf = writer.buf;
       return writer.view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
@@ -11539,9 +11539,9 @@ var require_reader = __commonJS({
     };
     var VIEW_THRESHOLD_FLOAT = 8;
     var VIEW_THRESHOLD_INT = 128;
-    function getLazyView(reader, count3, threshold) {
+    function getLazyView(reader, count4, threshold) {
       var view = reader.view;
-      if (view || count3 < threshold)
+      if (view || count4 < threshold)
         return view;
       var buf = reader.buf;
       return reader.view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
@@ -11550,14 +11550,14 @@ var require_reader = __commonJS({
       if (array2 === void 0) array2 = [];
       var len = this.size(), end = this.pos + len;
       if (end > this.len) throw indexOutOfRange(this, len);
-      var count3 = len >>> 2, i = array2.length, pos = this.pos;
-      array2.length = i + count3;
-      var dv = getLazyView(this, count3, VIEW_THRESHOLD_INT);
+      var count4 = len >>> 2, i = array2.length, pos = this.pos;
+      array2.length = i + count4;
+      var dv = getLazyView(this, count4, VIEW_THRESHOLD_INT);
       if (dv)
-        for (var k = 0; k < count3; ++k, pos += 4) array2[i++] = dv.getUint32(pos, true);
+        for (var k = 0; k < count4; ++k, pos += 4) array2[i++] = dv.getUint32(pos, true);
       else {
         var buf = this.buf;
-        for (var j = 0; j < count3; ++j, pos += 4) array2[i++] = readFixed32_end(buf, pos + 4);
+        for (var j = 0; j < count4; ++j, pos += 4) array2[i++] = readFixed32_end(buf, pos + 4);
       }
       this.pos = pos;
       if (pos !== end) throw indexOutOfRange(this, 4);
@@ -11567,14 +11567,14 @@ var require_reader = __commonJS({
       if (array2 === void 0) array2 = [];
       var len = this.size(), end = this.pos + len;
       if (end > this.len) throw indexOutOfRange(this, len);
-      var count3 = len >>> 2, i = array2.length, pos = this.pos;
-      array2.length = i + count3;
-      var dv = getLazyView(this, count3, VIEW_THRESHOLD_INT);
+      var count4 = len >>> 2, i = array2.length, pos = this.pos;
+      array2.length = i + count4;
+      var dv = getLazyView(this, count4, VIEW_THRESHOLD_INT);
       if (dv)
-        for (var k = 0; k < count3; ++k, pos += 4) array2[i++] = dv.getInt32(pos, true);
+        for (var k = 0; k < count4; ++k, pos += 4) array2[i++] = dv.getInt32(pos, true);
       else {
         var buf = this.buf;
-        for (var j = 0; j < count3; ++j, pos += 4) array2[i++] = readFixed32_end(buf, pos + 4) | 0;
+        for (var j = 0; j < count4; ++j, pos += 4) array2[i++] = readFixed32_end(buf, pos + 4) | 0;
       }
       this.pos = pos;
       if (pos !== end) throw indexOutOfRange(this, 4);
@@ -11584,14 +11584,14 @@ var require_reader = __commonJS({
       if (array2 === void 0) array2 = [];
       var len = this.size(), end = this.pos + len;
       if (end > this.len) throw indexOutOfRange(this, len);
-      var count3 = len >>> 2, i = array2.length, pos = this.pos;
-      array2.length = i + count3;
-      var dv = getLazyView(this, count3, VIEW_THRESHOLD_FLOAT);
+      var count4 = len >>> 2, i = array2.length, pos = this.pos;
+      array2.length = i + count4;
+      var dv = getLazyView(this, count4, VIEW_THRESHOLD_FLOAT);
       if (dv)
-        for (var k = 0; k < count3; ++k, pos += 4) array2[i++] = dv.getFloat32(pos, true);
+        for (var k = 0; k < count4; ++k, pos += 4) array2[i++] = dv.getFloat32(pos, true);
       else {
         var buf = this.buf;
-        for (var j = 0; j < count3; ++j, pos += 4) array2[i++] = util.float.readFloatLE(buf, pos);
+        for (var j = 0; j < count4; ++j, pos += 4) array2[i++] = util.float.readFloatLE(buf, pos);
       }
       this.pos = pos;
       if (pos !== end) throw indexOutOfRange(this, 4);
@@ -11601,14 +11601,14 @@ var require_reader = __commonJS({
       if (array2 === void 0) array2 = [];
       var len = this.size(), end = this.pos + len;
       if (end > this.len) throw indexOutOfRange(this, len);
-      var count3 = len >>> 3, i = array2.length, pos = this.pos;
-      array2.length = i + count3;
-      var dv = getLazyView(this, count3, VIEW_THRESHOLD_FLOAT);
+      var count4 = len >>> 3, i = array2.length, pos = this.pos;
+      array2.length = i + count4;
+      var dv = getLazyView(this, count4, VIEW_THRESHOLD_FLOAT);
       if (dv)
-        for (var k = 0; k < count3; ++k, pos += 8) array2[i++] = dv.getFloat64(pos, true);
+        for (var k = 0; k < count4; ++k, pos += 8) array2[i++] = dv.getFloat64(pos, true);
       else {
         var buf = this.buf;
-        for (var j = 0; j < count3; ++j, pos += 8) array2[i++] = util.float.readDoubleLE(buf, pos);
+        for (var j = 0; j < count4; ++j, pos += 8) array2[i++] = util.float.readDoubleLE(buf, pos);
       }
       this.pos = pos;
       if (pos !== end) throw indexOutOfRange(this, 8);
@@ -11651,9 +11651,9 @@ var require_reader = __commonJS({
       if (array2 === void 0) array2 = [];
       var len = this.size(), end = this.pos + len, i = array2.length;
       if (end > this.len) throw indexOutOfRange(this, len);
-      var count3 = len >>> 3;
-      array2.length = i + count3;
-      for (var j = 0; j < count3; ++j)
+      var count4 = len >>> 3;
+      array2.length = i + count4;
+      for (var j = 0; j < count4; ++j)
         array2[i++] = this.fixed64();
       if (this.pos !== end) throw indexOutOfRange(this, 8);
       return array2;
@@ -11662,9 +11662,9 @@ var require_reader = __commonJS({
       if (array2 === void 0) array2 = [];
       var len = this.size(), end = this.pos + len, i = array2.length;
       if (end > this.len) throw indexOutOfRange(this, len);
-      var count3 = len >>> 3;
-      array2.length = i + count3;
-      for (var j = 0; j < count3; ++j)
+      var count4 = len >>> 3;
+      array2.length = i + count4;
+      for (var j = 0; j < count4; ++j)
         array2[i++] = this.sfixed64();
       if (this.pos !== end) throw indexOutOfRange(this, 8);
       return array2;
@@ -16782,8 +16782,8 @@ function writeHeadline(verdict, findings) {
   const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
   return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
 }
-function lowerFirst(text2) {
-  return /^(The|Holdout|A|An)\b/.test(text2) ? text2[0].toLowerCase() + text2.slice(1) : text2;
+function lowerFirst(text3) {
+  return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
 }
 
 // src/core/report/escape.ts
@@ -16793,29 +16793,29 @@ var unsafeCharacters = (
   /[\u0000-\u0008\u000e-\u001f\u007f-\u0084\u0086-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g
 );
 var lineBreaks = /\r\n|[\n\r\v\f\u0085\u2028\u2029]/g;
-function neutralize(text2) {
-  return text2.replace(/\t/g, " ").replace(unsafeCharacters, "�");
+function neutralize(text3) {
+  return text3.replace(/\t/g, " ").replace(unsafeCharacters, "�");
 }
 var entities = { "&": "&amp;", "<": "&lt;", ">": "&gt;" };
 function escapeInline(line) {
   return line.replace(/[&<>]/g, (c) => entities[c]).replace(/[\\`*_[\]~|$]/g, "\\$&").replace(/@/g, `@${wordJoiner}`).replace(/#(?=\d)/g, `#${wordJoiner}`).replace(/\b(GH-)(?=\d)/gi, `$1${wordJoiner}`).replace(/:\/\//g, `:${wordJoiner}//`).replace(/\b(www)\./gi, `$1${wordJoiner}.`);
 }
-function escapeStart(text2, isLine) {
-  const trimmed = text2.trimStart();
+function escapeStart(text3, isLine) {
+  const trimmed = text3.trimStart();
   if (/^[#+\-=]/.test(trimmed)) return `\\${trimmed}`;
   return isLine ? trimmed.replace(/^(\d+)([.)])/, "$1\\$2") : trimmed;
 }
-function escapeMarkdownCell(text2) {
-  return escapeStart(escapeInline(neutralize(text2).replace(lineBreaks, " ").trim()), false);
+function escapeMarkdownCell(text3) {
+  return escapeStart(escapeInline(neutralize(text3).replace(lineBreaks, " ").trim()), false);
 }
-function escapeMarkdownText(text2) {
-  return neutralize(text2).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
+function escapeMarkdownText(text3) {
+  return neutralize(text3).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
 }
-function escapePlainText(text2) {
-  return neutralize(text2).replace(lineBreaks, " ");
+function escapePlainText(text3) {
+  return neutralize(text3).replace(lineBreaks, " ");
 }
-function markdownCodeBlock(text2) {
-  const body = neutralize(text2).replace(lineBreaks, "\n");
+function markdownCodeBlock(text3) {
+  const body = neutralize(text3).replace(lineBreaks, "\n");
   const longestRun = (body.match(/`+/g) ?? []).reduce((longest, run) => Math.max(longest, run.length), 0);
   const fence = "`".repeat(Math.max(3, longestRun + 1));
   return `${fence}text
@@ -16847,11 +16847,11 @@ function formatPValue(p) {
   if (p < 1e-3) return exponential(p, 1);
   return trimZeros(p.toPrecision(2));
 }
-function formatCount(count3) {
-  if (!Number.isInteger(count3)) return formatNumber(count3);
-  const digits = String(Math.abs(count3));
+function formatCount(count4) {
+  if (!Number.isInteger(count4)) return formatNumber(count4);
+  const digits = String(Math.abs(count4));
   const grouped = digits.replace(/\B(?=(\d{3})+(?!\d))/g, ",");
-  return count3 < 0 ? `-${grouped}` : grouped;
+  return count4 < 0 ? `-${grouped}` : grouped;
 }
 function formatPercent(share) {
   if (!Number.isFinite(share)) return formatNumber(share);
@@ -16928,12 +16928,12 @@ function tabulateFeatures(features) {
   };
 }
 function describeNull(values) {
-  const finite = values.filter(Number.isFinite);
-  if (finite.length === 0) return "no pairs";
-  const lowest = finite.reduce((a, b) => Math.min(a, b));
-  const highest = finite.reduce((a, b) => Math.max(a, b));
-  const pairs = finite.length === 1 ? "pair" : "pairs";
-  return `${formatNumber(lowest)} to ${formatNumber(highest)} over ${formatCount(finite.length)} ${pairs}`;
+  const finite2 = values.filter(Number.isFinite);
+  if (finite2.length === 0) return "no pairs";
+  const lowest = finite2.reduce((a, b) => Math.min(a, b));
+  const highest = finite2.reduce((a, b) => Math.max(a, b));
+  const pairs = finite2.length === 1 ? "pair" : "pairs";
+  return `${formatNumber(lowest)} to ${formatNumber(highest)} over ${formatCount(finite2.length)} ${pairs}`;
 }
 function readAgreement(value, threshold) {
   if (Number.isNaN(value) || Number.isNaN(threshold)) return "undefined";
@@ -17048,8 +17048,8 @@ function tabulateReport(report) {
 }
 function limitRows(table, maxRows) {
   if (table.rows.length <= maxRows) return table;
-  const cut = table.rows.length - maxRows;
-  const more = [`${formatCount(cut)} more ${cut === 1 ? "row" : "rows"}`, ...table.header.slice(1).map(() => "")];
+  const cut2 = table.rows.length - maxRows;
+  const more = [`${formatCount(cut2)} more ${cut2 === 1 ? "row" : "rows"}`, ...table.header.slice(1).map(() => "")];
   return { ...table, rows: [...table.rows.slice(0, maxRows), more] };
 }
 function limitItems(items, maxItems) {
@@ -17075,8 +17075,8 @@ function renderDetails(summary2, blocks) {
 }
 function shortenMessage(message, maxCharacters) {
   if (message.length <= maxCharacters) return message;
-  const cut = message.length - maxCharacters;
-  return `${message.slice(0, maxCharacters)} … (${formatCount(cut)} more characters in the full report)`;
+  const cut2 = message.length - maxCharacters;
+  return `${message.slice(0, maxCharacters)} … (${formatCount(cut2)} more characters in the full report)`;
 }
 function renderFinding(finding, maxItems) {
   const lines = [
@@ -17090,7 +17090,7 @@ function renderFinding(finding, maxItems) {
   return lines.join("\n").replace(/\n/g, "\n  ");
 }
 function countBySeverity(findings) {
-  return ["block", "warn", "info"].map((severity) => [severity, findings.filter((finding) => finding.severity === severity).length]).filter(([, count3]) => count3 > 0).map(([severity, count3]) => `${formatCount(count3)} ${severity}`).join(", ");
+  return ["block", "warn", "info"].map((severity) => [severity, findings.filter((finding) => finding.severity === severity).length]).filter(([, count4]) => count4 > 0).map(([severity, count4]) => `${formatCount(count4)} ${severity}`).join(", ");
 }
 function checkOptions(options) {
   const resolved = {
@@ -17134,9 +17134,9 @@ function renderError(report, options) {
     const blocks = messages.map((message) => {
       const kept = message.slice(0, Math.max(0, left));
       left -= kept.length;
-      const cut = message.length - kept.length;
-      return markdownCodeBlock(cut > 0 ? `${kept}
-[${formatCount(cut)} more characters in the full report]` : kept);
+      const cut2 = message.length - kept.length;
+      return markdownCodeBlock(cut2 > 0 ? `${kept}
+[${formatCount(cut2)} more characters in the full report]` : kept);
     });
     const shortened = messages.join("").length > budget;
     return [
@@ -17161,7 +17161,7 @@ function renderMarkdown(report, options = {}) {
   const tables = tabulateReport(report);
   const findingItems = tables.findings.map((finding) => renderFinding(finding, maxTableRows));
   const nameLists = [tables.featureSet.added, tables.featureSet.removed, tables.featureSet.kindChanged];
-  const longestList = Math.max(...nameLists.map((list2) => list2.length));
+  const longestList = Math.max(...nameLists.map((list3) => list3.length));
   const details = [
     ...tables.sides && tables.scores ? [
       renderDetails("Models and holdout scores per refit", [
@@ -17196,14 +17196,14 @@ ${agreementMissingNote}`;
 ${items}`;
   }
   function renderFeatures(rows) {
-    const count3 = tables.features.rows.length;
+    const count4 = tables.features.rows.length;
     const heading = "#### Feature importance";
-    if (count3 === 0) return `${heading}
+    if (count4 === 0) return `${heading}
 
 No features were measured.`;
     if (rows === 0) return `${heading}
 
-The table of ${formatCount(count3)} rows is left out; see the note below.`;
+The table of ${formatCount(count4)} rows is left out; see the note below.`;
     return `${heading}
 
 ${escapeMarkdownText(importanceNote)}
@@ -17226,10 +17226,10 @@ The same ${formatCount(unchangedCount)} features on both sides.`;
   }
   function describeCuts(layout2) {
     const cuts = [];
-    const count3 = tables.features.rows.length;
-    if (layout2.rows < maxTableRows && count3 > layout2.rows) {
+    const count4 = tables.features.rows.length;
+    if (layout2.rows < maxTableRows && count4 > layout2.rows) {
       cuts.push(
-        layout2.rows === 0 ? `the feature table (${formatCount(count3)} rows) is left out` : `the feature table shows ${layout2.rows} of ${formatCount(count3)} rows`
+        layout2.rows === 0 ? `the feature table (${formatCount(count4)} rows) is left out` : `the feature table shows ${layout2.rows} of ${formatCount(count4)} rows`
       );
     }
     if (layout2.rows < maxTableRows && longestList > layout2.rows) {
@@ -17293,2388 +17293,6 @@ The same ${formatCount(unchangedCount)} features on both sides.`;
   const layout = besideShortTable > 0 ? { rows: shortTable, details: false, findings: besideShortTable } : { rows: 0, details: false, findings: mostFindings(0) };
   return fitOrThrow(join7(compose(layout)), maxCharacters);
 }
-
-// src/core/report/render-text.ts
-var length = (text2) => [...text2].length;
-function wrap(text2, width, indent, hangingIndent = indent) {
-  const lines = [];
-  let line = "";
-  for (const word of escapePlainText(text2).split(" ").filter((w) => w !== "")) {
-    const lead = lines.length === 0 ? indent : hangingIndent;
-    if (line !== "" && length(lead) + length(line) + 1 + length(word) > width) {
-      lines.push(lead + line);
-      line = word;
-    } else {
-      line = line === "" ? word : `${line} ${word}`;
-    }
-  }
-  if (line !== "") lines.push((lines.length === 0 ? indent : hangingIndent) + line);
-  return lines;
-}
-function renderTable2(table, width, indent) {
-  const gap = "  ";
-  const body = table.rows.map((row) => row.map(escapePlainText));
-  const header = table.header.map(escapePlainText);
-  const widest = (j) => Math.max(0, ...body.map((row) => length(row[j] ?? "")));
-  const span = (widths2) => length(indent) + widths2.reduce((sum2, w) => sum2 + w, 0) + gap.length * (widths2.length - 1);
-  let widths = header.map((name, j) => Math.max(widest(j), length(name)));
-  let headerLines = header.map((name) => [name]);
-  if (span(widths) > width) {
-    widths = header.map((name, j) => {
-      let w = Math.max(widest(j), ...name.split(" ").map(length));
-      while (wrap(name, w, "").length > 2) w++;
-      return w;
-    });
-    headerLines = header.map((name, j) => wrap(name, widths[j], ""));
-  }
-  const depth = Math.max(...headerLines.map((lines) => lines.length));
-  const line = (row) => (indent + row.map((cell, j) => {
-    const pad = " ".repeat(Math.max(0, widths[j] - length(cell)));
-    return table.align[j] === "right" ? pad + cell : cell + pad;
-  }).join(gap)).trimEnd();
-  const headerRows = Array.from(
-    { length: depth },
-    (_, k) => headerLines.map((lines) => lines[k - (depth - lines.length)] ?? "")
-  );
-  return [...headerRows.map(line), indent + widths.map((w) => "-".repeat(w)).join(gap), ...body.map(line)];
-}
-function section(title, body) {
-  return [title, ...body].join("\n");
-}
-function renderError2(report, width) {
-  const messages = sortFindings(report.findings).filter((finding) => finding.kind === "run-error");
-  const blocks = messages.map(
-    (finding) => finding.message.split(/\r\n|\n|\r/).map((line) => `    ${escapePlainText(line)}`.trimEnd()).join("\n")
-  );
-  return [
-    "plumbline: error, no verdict",
-    wrap(report.headline, width, "").join("\n"),
-    wrap(noVerdictStatement, width, "").join("\n"),
-    ...blocks.length > 0 ? blocks : ["The report holds no run-error finding to show."],
-    wrap(reportCaution, width, "").join("\n")
-  ].join("\n\n");
-}
-function renderText(report, options = {}) {
-  const width = options.width ?? 100;
-  const maxTableRows = options.maxTableRows ?? 50;
-  if (!Number.isInteger(width) || width < 40) {
-    throw new RangeError(`renderText needs width to be a whole number of at least 40, got ${width}`);
-  }
-  if (!Number.isInteger(maxTableRows) || maxTableRows < 1) {
-    throw new RangeError(`renderText needs maxTableRows to be a whole number of at least 1, got ${maxTableRows}`);
-  }
-  if (report.verdict === "error") return renderError2(report, width);
-  const tables = tabulateReport(report);
-  const table = (t) => renderTable2(t, width, "  ");
-  const longTable = (t) => table(limitRows(t, maxTableRows));
-  const findings = tables.findings.length === 0 ? section("Findings", ["  None."]) : section(
-    `Findings (${formatCount(tables.findings.length)})`,
-    tables.findings.flatMap((finding) => [
-      ...wrap(`${finding.severity}: ${finding.title} (${finding.about})`, width, "  ", "      "),
-      ...wrap(finding.message, width, "      "),
-      ...finding.evidence.length > 0 ? wrap(`evidence: ${limitItems(finding.evidence, maxTableRows).join("; ")}`, width, "      ") : []
-    ])
-  );
-  const features = tables.features.rows.length === 0 ? section("Feature importance", ["  No features were measured."]) : section("Feature importance", [...wrap(importanceNote, width, "  "), "", ...longTable(tables.features)]);
-  const { added, removed, kindChanged, unchangedCount } = tables.featureSet;
-  const names = (label, list2) => list2.length === 0 ? [] : wrap(`${label} (${formatCount(list2.length)}): ${limitItems(list2, maxTableRows).join(", ")}`, width, "  ");
-  const featureSet = section(
-    "Feature set",
-    unchangedCount !== null ? [`  The same ${formatCount(unchangedCount)} features on both sides.`] : [...names("Added", added), ...names("Removed", removed), ...names("Changed kind", kindChanged)]
-  );
-  const agreement = section(
-    "Rank agreement",
-    tables.agreement ? [...table(tables.agreement.table), "", ...wrap(tables.agreement.note, width, "  ")] : wrap(agreementMissingNote, width, "  ")
-  );
-  const details = [
-    ...tables.sides && tables.scores ? [section("Models and holdout scores per refit", [...table(tables.sides), "", ...longTable(tables.scores)])] : [],
-    ...tables.seeds ? [section("Refit seeds", longTable(tables.seeds))] : [],
-    section("Settings and check thresholds", [
-      ...table(tables.settings),
-      ...tables.checks.rows.length > 0 ? ["", ...longTable(tables.checks)] : []
-    ]),
-    section(
-      "Timings (wall-clock seconds; they vary from run to run)",
-      tables.timings.rows.length > 0 ? longTable(tables.timings) : ["  None recorded."]
-    )
-  ];
-  return [
-    tables.heading,
-    wrap(report.headline, width, "").join("\n"),
-    findings,
-    features,
-    featureSet,
-    agreement,
-    ...details,
-    wrap(reportCaution, width, "").join("\n")
-  ].join("\n\n");
-}
-
-// src/adapters/check/run-check.ts
-import { isAbsolute as isAbsolute2, relative as relative2, resolve as resolve4 } from "node:path";
-
-// node_modules/csv-parse/lib/api/CsvError.js
-var CsvError = class _CsvError extends Error {
-  constructor(code2, message, options, ...contexts) {
-    if (Array.isArray(message)) message = message.join(" ").trim();
-    super(message);
-    if (Error.captureStackTrace !== void 0) {
-      Error.captureStackTrace(this, _CsvError);
-    }
-    this.code = code2;
-    for (const context of contexts) {
-      for (const key2 in context) {
-        const value = context[key2];
-        this[key2] = Buffer.isBuffer(value) ? value.toString(options.encoding) : value == null ? value : JSON.parse(JSON.stringify(value));
-      }
-    }
-  }
-};
-
-// node_modules/csv-parse/lib/utils/is_object.js
-var is_object = function(obj) {
-  return typeof obj === "object" && obj !== null && !Array.isArray(obj);
-};
-
-// node_modules/csv-parse/lib/api/normalize_columns_array.js
-var normalize_columns_array = function(columns) {
-  const normalizedColumns = [];
-  for (let i = 0, l = columns.length; i < l; i++) {
-    const column = columns[i];
-    if (column === void 0 || column === null || column === false) {
-      normalizedColumns[i] = { disabled: true };
-    } else if (typeof column === "string" || typeof column === "number") {
-      normalizedColumns[i] = { name: `${column}` };
-    } else if (is_object(column)) {
-      if (typeof column.name !== "string") {
-        throw new CsvError("CSV_OPTION_COLUMNS_MISSING_NAME", [
-          "Option columns missing name:",
-          `property "name" is required at position ${i}`,
-          "when column is an object literal"
-        ]);
-      }
-      normalizedColumns[i] = column;
-    } else {
-      throw new CsvError("CSV_INVALID_COLUMN_DEFINITION", [
-        "Invalid column definition:",
-        "expect a string or a literal object,",
-        `got ${JSON.stringify(column)} at position ${i}`
-      ]);
-    }
-  }
-  return normalizedColumns;
-};
-
-// node_modules/csv-parse/lib/utils/ResizeableBuffer.js
-var ResizeableBuffer = class {
-  constructor(size = 100) {
-    this.size = size;
-    this.length = 0;
-    this.buf = Buffer.allocUnsafe(size);
-  }
-  prepend(val) {
-    if (Buffer.isBuffer(val)) {
-      const length2 = this.length + val.length;
-      if (length2 >= this.size) {
-        this.resize();
-        if (length2 >= this.size) {
-          throw Error("INVALID_BUFFER_STATE");
-        }
-      }
-      const buf = this.buf;
-      this.buf = Buffer.allocUnsafe(this.size);
-      val.copy(this.buf, 0);
-      buf.copy(this.buf, val.length);
-      this.length += val.length;
-    } else {
-      const length2 = this.length++;
-      if (length2 === this.size) {
-        this.resize();
-      }
-      const buf = this.clone();
-      this.buf[0] = val;
-      buf.copy(this.buf, 1, 0, length2);
-    }
-  }
-  append(val) {
-    const length2 = this.length++;
-    if (length2 === this.size) {
-      this.resize();
-    }
-    this.buf[length2] = val;
-  }
-  clone() {
-    return Buffer.from(this.buf.slice(0, this.length));
-  }
-  resize() {
-    const length2 = this.length;
-    this.size = this.size * 2;
-    const buf = Buffer.allocUnsafe(this.size);
-    this.buf.copy(buf, 0, 0, length2);
-    this.buf = buf;
-  }
-  toString(encoding) {
-    if (encoding) {
-      return this.buf.toString(encoding, 0, this.length);
-    } else {
-      return Uint8Array.prototype.slice.call(this.buf.slice(0, this.length));
-    }
-  }
-  toJSON() {
-    return this.toString("utf8");
-  }
-  reset() {
-    this.length = 0;
-  }
-};
-var ResizeableBuffer_default = ResizeableBuffer;
-
-// node_modules/csv-parse/lib/api/init_state.js
-var init_state = function(options) {
-  const timchars = [
-    // Basic Latin
-    32,
-    // [Space](https://www.fileformat.info/info/unicode/char/0020/index.htm)
-    9,
-    // [CHARACTER TABULATION (HT)](https://www.fileformat.info/info/unicode/char/0009/index.htm)
-    10,
-    // [LINE FEED (LF)](https://www.fileformat.info/info/unicode/char/000a/index.htm)
-    13,
-    // [CARRIAGE RETURN (CR)](https://www.fileformat.info/info/unicode/char/000d/index.htm)
-    12,
-    // [FORM FEED (FF)](https://www.fileformat.info/info/unicode/char/000c/index.htm)
-    11,
-    // [LINE TABULATION (VT)](https://www.fileformat.info/info/unicode/char/000b/index.htm)
-    // Latin-1 Supplement
-    160,
-    // [NO-BREAK SPACE (NBSP)](https://www.fileformat.info/info/unicode/char/00a0/index.htm)
-    // Ogham
-    5760,
-    // [OGHAM SPACE MARK](https://www.fileformat.info/info/unicode/char/1680/index.htm)
-    // General Punctuation
-    8192,
-    // [EN QUAD](https://www.fileformat.info/info/unicode/char/2000/index.htm)
-    8193,
-    // [EM QUAD](https://www.fileformat.info/info/unicode/char/2001/index.htm)
-    8194,
-    // [EN SPACE](https://www.fileformat.info/info/unicode/char/2002/index.htm)
-    8195,
-    // [EM SPACE](https://www.fileformat.info/info/unicode/char/2003/index.htm)
-    8196,
-    // [THREE-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2004/index.htm)
-    8197,
-    // [FOUR-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2005/index.htm)
-    8198,
-    // [SIX-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2006/index.htm)
-    8199,
-    // [FIGURE SPACE](https://www.fileformat.info/info/unicode/char/2007/index.htm)
-    8200,
-    // [PUNCTUATION SPACE](https://www.fileformat.info/info/unicode/char/2008/index.htm)
-    8201,
-    // [THIN SPACE](https://www.fileformat.info/info/unicode/char/2009/index.htm)
-    8202,
-    // [HAIR SPACE](https://www.fileformat.info/info/unicode/char/200a/index.htm)
-    8232,
-    // [LINE SEPARATOR](https://www.fileformat.info/info/unicode/char/2028/index.htm)
-    8233,
-    // [PARAGRAPH SEPARATOR](https://www.fileformat.info/info/unicode/char/2029/index.htm)
-    8239,
-    // [NARROW NO-BREAK SPACE (NNBSP)](https://www.fileformat.info/info/unicode/char/202f/index.htm)
-    8287,
-    // [MEDIUM MATHEMATICAL SPACE (MMSP)](https://www.fileformat.info/info/unicode/char/205f/index.htm)
-    12288,
-    // [IDEOGRAPHIC SPACE](https://www.fileformat.info/info/unicode/char/3000/index.htm)
-    65279
-    // [ZERO WIDTH NO-BREAK SPACE (BOM)](https://www.fileformat.info/info/unicode/char/feff/index.htm)
-  ].reduce((acc, codepoint) => {
-    const encoded = Buffer.from(
-      String.fromCharCode(codepoint),
-      options.encoding
-    );
-    if (codepoint !== 63 && encoded.length === 1 && encoded[0] === 63) {
-      return acc;
-    }
-    acc.push(encoded);
-    return acc;
-  }, []);
-  const timcharFirstBytes = new Uint8Array(256);
-  for (const t of timchars) timcharFirstBytes[t[0]] = 1;
-  return {
-    bomSkipped: false,
-    bufBytesStart: 0,
-    castField: options.cast_function,
-    commenting: false,
-    delimiterBufPrevious: void 0,
-    delimiterDiscovered: false,
-    // Current error encountered by a record
-    error: void 0,
-    enabled: options.from_line === 1,
-    escaping: false,
-    escapeIsQuote: Buffer.isBuffer(options.escape) && Buffer.isBuffer(options.quote) && Buffer.compare(options.escape, options.quote) === 0,
-    // columns can be `false`, `true`, `Array`
-    expectedRecordLength: Array.isArray(options.columns) ? options.columns.length : void 0,
-    field: new ResizeableBuffer_default(20),
-    firstLineToHeaders: options.cast_first_line_to_header,
-    needMoreDataSize: Math.max(
-      // Skip if the remaining buffer smaller than comment
-      options.comment !== null ? options.comment.length : 0,
-      ...options.delimiter ? options.delimiter.map((delimiter) => delimiter.length) : [],
-      // Auto discovery of delimiter is limited to 1 character
-      options.delimiter_auto ? 1 : 0,
-      // Skip if the remaining buffer can be escape sequence
-      options.quote !== null ? options.quote.length : 0,
-      ...timchars.map((t) => t.length)
-    ),
-    previousBuf: void 0,
-    quoting: false,
-    stop: false,
-    rawBuffer: new ResizeableBuffer_default(100),
-    record: [],
-    recordHasError: false,
-    record_length: 0,
-    recordDelimiterMaxLength: options.record_delimiter.length === 0 ? 0 : Math.max(...options.record_delimiter.map((v) => v.length)),
-    trimChars: [
-      Buffer.from(" ", options.encoding)[0],
-      Buffer.from("	", options.encoding)[0]
-    ],
-    wasQuoting: false,
-    wasRowDelimiter: false,
-    timchars,
-    timcharFirstBytes
-  };
-};
-
-// node_modules/csv-parse/lib/utils/underscore.js
-var underscore = function(str) {
-  return str.replace(/([A-Z])/g, function(_, match) {
-    return "_" + match.toLowerCase();
-  });
-};
-
-// node_modules/csv-parse/lib/api/normalize_options.js
-var normalize_options = function(opts) {
-  const options = {};
-  for (const opt in opts) {
-    options[underscore(opt)] = opts[opt];
-  }
-  if (options.encoding === void 0 || options.encoding === true) {
-    options.encoding = "utf8";
-  } else if (options.encoding === null || options.encoding === false) {
-    options.encoding = null;
-  } else if (typeof options.encoding !== "string" && options.encoding !== null) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_ENCODING",
-      [
-        "Invalid option encoding:",
-        "encoding must be a string or null to return a buffer,",
-        `got ${JSON.stringify(options.encoding)}`
-      ],
-      options
-    );
-  }
-  if (options.bom === void 0 || options.bom === null || options.bom === false) {
-    options.bom = false;
-  } else if (options.bom !== true) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_BOM",
-      [
-        "Invalid option bom:",
-        "bom must be true,",
-        `got ${JSON.stringify(options.bom)}`
-      ],
-      options
-    );
-  }
-  options.cast_function = null;
-  if (options.cast === void 0 || options.cast === null || options.cast === false || options.cast === "") {
-    options.cast = void 0;
-  } else if (typeof options.cast === "function") {
-    options.cast_function = options.cast;
-    options.cast = true;
-  } else if (options.cast !== true) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_CAST",
-      [
-        "Invalid option cast:",
-        "cast must be true or a function,",
-        `got ${JSON.stringify(options.cast)}`
-      ],
-      options
-    );
-  }
-  if (options.cast_date === void 0 || options.cast_date === null || options.cast_date === false || options.cast_date === "") {
-    options.cast_date = false;
-  } else if (options.cast_date === true) {
-    options.cast_date = function(value) {
-      const date5 = Date.parse(value);
-      return !isNaN(date5) ? new Date(date5) : value;
-    };
-  } else if (typeof options.cast_date !== "function") {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_CAST_DATE",
-      [
-        "Invalid option cast_date:",
-        "cast_date must be true or a function,",
-        `got ${JSON.stringify(options.cast_date)}`
-      ],
-      options
-    );
-  }
-  options.cast_first_line_to_header = void 0;
-  if (options.columns === true) {
-    options.cast_first_line_to_header = void 0;
-  } else if (typeof options.columns === "function") {
-    options.cast_first_line_to_header = options.columns;
-    options.columns = true;
-  } else if (Array.isArray(options.columns)) {
-    options.columns = normalize_columns_array(options.columns);
-  } else if (options.columns === void 0 || options.columns === null || options.columns === false) {
-    options.columns = false;
-  } else {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_COLUMNS",
-      [
-        "Invalid option columns:",
-        "expect an array, a function or true,",
-        `got ${JSON.stringify(options.columns)}`
-      ],
-      options
-    );
-  }
-  if (options.group_columns_by_name === void 0 || options.group_columns_by_name === null || options.group_columns_by_name === false) {
-    options.group_columns_by_name = false;
-  } else if (options.group_columns_by_name !== true) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
-      [
-        "Invalid option group_columns_by_name:",
-        "expect an boolean,",
-        `got ${JSON.stringify(options.group_columns_by_name)}`
-      ],
-      options
-    );
-  } else if (options.columns === false) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
-      [
-        "Invalid option group_columns_by_name:",
-        "the `columns` mode must be activated."
-      ],
-      options
-    );
-  }
-  if (options.comment === void 0 || options.comment === null || options.comment === false || options.comment === "") {
-    options.comment = null;
-  } else {
-    if (typeof options.comment === "string") {
-      options.comment = Buffer.from(options.comment, options.encoding);
-    }
-    if (!Buffer.isBuffer(options.comment)) {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_COMMENT",
-        [
-          "Invalid option comment:",
-          "comment must be a buffer or a string,",
-          `got ${JSON.stringify(options.comment)}`
-        ],
-        options
-      );
-    }
-  }
-  if (options.comment_no_infix === void 0 || options.comment_no_infix === null || options.comment_no_infix === false) {
-    options.comment_no_infix = false;
-  } else if (options.comment_no_infix !== true) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_COMMENT",
-      [
-        "Invalid option comment_no_infix:",
-        "value must be a boolean,",
-        `got ${JSON.stringify(options.comment_no_infix)}`
-      ],
-      options
-    );
-  }
-  if (options.delimiter_auto === void 0 || options.delimiter_auto === null || options.delimiter_auto === false) {
-    options.delimiter_auto = false;
-  } else if (options.delimiter_auto === true) {
-    options.delimiter_auto = {};
-  } else if (!is_object(options.delimiter_auto)) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_DELIMITER_AUTO",
-      [
-        "Invalid option delimiter_auto:",
-        "delimiter_auto must be a boolean or a configuration object,",
-        `got ${JSON.stringify(options.delimiter_auto)}`
-      ],
-      options
-    );
-  }
-  if (options.delimiter_auto) {
-    if (options.delimiter_auto.preferred === void 0)
-      options.delimiter_auto.preferred = {
-        [",".charCodeAt(0)]: 1.8,
-        ["	".charCodeAt(0)]: 1.8,
-        [";".charCodeAt(0)]: 1.6,
-        [" ".charCodeAt(0)]: 1.6,
-        [":".charCodeAt(0)]: 1.5,
-        [".".charCodeAt(0)]: 1.4,
-        ["/".charCodeAt(0)]: 1.4
-      };
-    else if (!is_object(options.delimiter_auto.preferred)) {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_DELIMITER_AUTO",
-        [
-          "Invalid option delimiter_auto:",
-          "preferred must be an object,",
-          `got ${JSON.stringify(options.delimiter_auto.preferred)}`
-        ],
-        options
-      );
-    }
-    if (options.delimiter_auto.score === void 0)
-      options.delimiter_auto.score = (info, options2) => {
-        return (info.total - info.std) * (options2.preferred[info.char_code] || 1);
-      };
-    else if (typeof options.delimiter_auto.score !== "function") {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_DELIMITER_AUTO",
-        [
-          "Invalid option delimiter_auto:",
-          "score must be a function,",
-          `got ${JSON.stringify(options.delimiter_auto.score)}`
-        ],
-        options
-      );
-    }
-    if (options.delimiter_auto.size === void 0)
-      options.delimiter_auto.size = 2048;
-    else if (typeof options.delimiter_auto.size !== "number") {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_DELIMITER_AUTO",
-        [
-          "Invalid option delimiter_auto:",
-          "size must be a number,",
-          `got ${JSON.stringify(options.delimiter_auto.size)}`
-        ],
-        options
-      );
-    }
-  }
-  const delimiter_json = JSON.stringify(options.delimiter);
-  if (options.delimiter_auto !== false) {
-    options.delimiter = [];
-  }
-  if (!Array.isArray(options.delimiter)) {
-    if (options.delimiter === void 0 || options.delimiter === null || options.delimiter === false) {
-      options.delimiter = Buffer.from(",", options.encoding);
-    }
-    options.delimiter = [options.delimiter];
-  }
-  options.delimiter = options.delimiter.map(function(delimiter) {
-    if (typeof delimiter === "string") {
-      delimiter = Buffer.from(delimiter, options.encoding);
-    }
-    if (!Buffer.isBuffer(delimiter) || delimiter.length === 0) {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_DELIMITER",
-        [
-          "Invalid option delimiter:",
-          "delimiter must be a non empty string or buffer or array of string|buffer,",
-          `got ${delimiter_json}`
-        ],
-        options
-      );
-    }
-    return delimiter;
-  });
-  if (options.escape === void 0 || options.escape === true) {
-    options.escape = Buffer.from('"', options.encoding);
-  } else if (typeof options.escape === "string") {
-    options.escape = Buffer.from(options.escape, options.encoding);
-  } else if (options.escape === null || options.escape === false) {
-    options.escape = null;
-  }
-  if (options.escape !== null) {
-    if (!Buffer.isBuffer(options.escape)) {
-      throw new Error(
-        `Invalid Option: escape must be a buffer, a string or a boolean, got ${JSON.stringify(options.escape)}`
-      );
-    }
-  }
-  if (options.from === void 0 || options.from === null) {
-    options.from = 1;
-  } else {
-    if (typeof options.from === "string" && /\d+/.test(options.from)) {
-      options.from = parseInt(options.from);
-    }
-    if (Number.isInteger(options.from)) {
-      if (options.from < 0) {
-        throw new Error(
-          `Invalid Option: from must be a positive integer, got ${JSON.stringify(opts.from)}`
-        );
-      }
-    } else {
-      throw new Error(
-        `Invalid Option: from must be an integer, got ${JSON.stringify(options.from)}`
-      );
-    }
-  }
-  if (options.from_line === void 0 || options.from_line === null) {
-    options.from_line = 1;
-  } else {
-    if (typeof options.from_line === "string" && /\d+/.test(options.from_line)) {
-      options.from_line = parseInt(options.from_line);
-    }
-    if (Number.isInteger(options.from_line)) {
-      if (options.from_line <= 0) {
-        throw new Error(
-          `Invalid Option: from_line must be a positive integer greater than 0, got ${JSON.stringify(opts.from_line)}`
-        );
-      }
-    } else {
-      throw new Error(
-        `Invalid Option: from_line must be an integer, got ${JSON.stringify(opts.from_line)}`
-      );
-    }
-  }
-  if (options.ignore_last_delimiters === void 0 || options.ignore_last_delimiters === null) {
-    options.ignore_last_delimiters = false;
-  } else if (typeof options.ignore_last_delimiters === "number") {
-    options.ignore_last_delimiters = Math.floor(options.ignore_last_delimiters);
-    if (options.ignore_last_delimiters === 0) {
-      options.ignore_last_delimiters = false;
-    }
-  } else if (typeof options.ignore_last_delimiters !== "boolean") {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_IGNORE_LAST_DELIMITERS",
-      [
-        "Invalid option `ignore_last_delimiters`:",
-        "the value must be a boolean value or an integer,",
-        `got ${JSON.stringify(options.ignore_last_delimiters)}`
-      ],
-      options
-    );
-  }
-  if (options.ignore_last_delimiters === true && options.columns === false) {
-    throw new CsvError(
-      "CSV_IGNORE_LAST_DELIMITERS_REQUIRES_COLUMNS",
-      [
-        "The option `ignore_last_delimiters`",
-        "requires the activation of the `columns` option"
-      ],
-      options
-    );
-  }
-  if (options.info === void 0 || options.info === null || options.info === false) {
-    options.info = false;
-  } else if (options.info !== true) {
-    throw new Error(
-      `Invalid Option: info must be true, got ${JSON.stringify(options.info)}`
-    );
-  }
-  if (options.max_record_size === void 0 || options.max_record_size === null || options.max_record_size === false) {
-    options.max_record_size = 0;
-  } else if (Number.isInteger(options.max_record_size) && options.max_record_size >= 0) {
-  } else if (typeof options.max_record_size === "string" && /\d+/.test(options.max_record_size)) {
-    options.max_record_size = parseInt(options.max_record_size);
-  } else {
-    throw new Error(
-      `Invalid Option: max_record_size must be a positive integer, got ${JSON.stringify(options.max_record_size)}`
-    );
-  }
-  if (options.objname === void 0 || options.objname === null || options.objname === false) {
-    options.objname = void 0;
-  } else if (Buffer.isBuffer(options.objname)) {
-    if (options.objname.length === 0) {
-      throw new Error(`Invalid Option: objname must be a non empty buffer`);
-    }
-    if (options.encoding === null) {
-    } else {
-      options.objname = options.objname.toString(options.encoding);
-    }
-  } else if (typeof options.objname === "string") {
-    if (options.objname.length === 0) {
-      throw new Error(`Invalid Option: objname must be a non empty string`);
-    }
-  } else if (typeof options.objname === "number") {
-  } else {
-    throw new Error(
-      `Invalid Option: objname must be a string or a buffer, got ${options.objname}`
-    );
-  }
-  if (options.objname !== void 0) {
-    if (typeof options.objname === "number") {
-      if (options.columns !== false) {
-        throw Error(
-          "Invalid Option: objname index cannot be combined with columns or be defined as a field"
-        );
-      }
-    } else {
-      if (options.columns === false) {
-        throw Error(
-          "Invalid Option: objname field must be combined with columns or be defined as an index"
-        );
-      }
-    }
-  }
-  if (options.on_record === void 0 || options.on_record === null) {
-    options.on_record = void 0;
-  } else if (typeof options.on_record !== "function") {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_ON_RECORD",
-      [
-        "Invalid option `on_record`:",
-        "expect a function,",
-        `got ${JSON.stringify(options.on_record)}`
-      ],
-      options
-    );
-  }
-  if (options.on_skip !== void 0 && options.on_skip !== null && typeof options.on_skip !== "function") {
-    throw new Error(
-      `Invalid Option: on_skip must be a function, got ${JSON.stringify(options.on_skip)}`
-    );
-  }
-  if (options.quote === null || options.quote === false || options.quote === "") {
-    options.quote = null;
-  } else {
-    if (options.quote === void 0 || options.quote === true) {
-      options.quote = Buffer.from('"', options.encoding);
-    } else if (typeof options.quote === "string") {
-      options.quote = Buffer.from(options.quote, options.encoding);
-    }
-    if (!Buffer.isBuffer(options.quote)) {
-      throw new Error(
-        `Invalid Option: quote must be a buffer or a string, got ${JSON.stringify(options.quote)}`
-      );
-    }
-  }
-  if (options.raw === void 0 || options.raw === null || options.raw === false) {
-    options.raw = false;
-  } else if (options.raw !== true) {
-    throw new Error(
-      `Invalid Option: raw must be true, got ${JSON.stringify(options.raw)}`
-    );
-  }
-  if (options.record_delimiter === void 0) {
-    options.record_delimiter = [];
-  } else if (typeof options.record_delimiter === "string" || Buffer.isBuffer(options.record_delimiter)) {
-    if (options.record_delimiter.length === 0) {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_RECORD_DELIMITER",
-        [
-          "Invalid option `record_delimiter`:",
-          "value must be a non empty string or buffer,",
-          `got ${JSON.stringify(options.record_delimiter)}`
-        ],
-        options
-      );
-    }
-    options.record_delimiter = [options.record_delimiter];
-  } else if (!Array.isArray(options.record_delimiter)) {
-    throw new CsvError(
-      "CSV_INVALID_OPTION_RECORD_DELIMITER",
-      [
-        "Invalid option `record_delimiter`:",
-        "value must be a string, a buffer or array of string|buffer,",
-        `got ${JSON.stringify(options.record_delimiter)}`
-      ],
-      options
-    );
-  }
-  options.record_delimiter = options.record_delimiter.map(function(rd, i) {
-    if (typeof rd !== "string" && !Buffer.isBuffer(rd)) {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_RECORD_DELIMITER",
-        [
-          "Invalid option `record_delimiter`:",
-          "value must be a string, a buffer or array of string|buffer",
-          `at index ${i},`,
-          `got ${JSON.stringify(rd)}`
-        ],
-        options
-      );
-    } else if (rd.length === 0) {
-      throw new CsvError(
-        "CSV_INVALID_OPTION_RECORD_DELIMITER",
-        [
-          "Invalid option `record_delimiter`:",
-          "value must be a non empty string or buffer",
-          `at index ${i},`,
-          `got ${JSON.stringify(rd)}`
-        ],
-        options
-      );
-    }
-    if (typeof rd === "string") {
-      rd = Buffer.from(rd, options.encoding);
-    }
-    return rd;
-  });
-  if (typeof options.relax_column_count === "boolean") {
-  } else if (options.relax_column_count === void 0 || options.relax_column_count === null) {
-    options.relax_column_count = false;
-  } else {
-    throw new Error(
-      `Invalid Option: relax_column_count must be a boolean, got ${JSON.stringify(options.relax_column_count)}`
-    );
-  }
-  if (typeof options.relax_column_count_less === "boolean") {
-  } else if (options.relax_column_count_less === void 0 || options.relax_column_count_less === null) {
-    options.relax_column_count_less = false;
-  } else {
-    throw new Error(
-      `Invalid Option: relax_column_count_less must be a boolean, got ${JSON.stringify(options.relax_column_count_less)}`
-    );
-  }
-  if (typeof options.relax_column_count_more === "boolean") {
-  } else if (options.relax_column_count_more === void 0 || options.relax_column_count_more === null) {
-    options.relax_column_count_more = false;
-  } else {
-    throw new Error(
-      `Invalid Option: relax_column_count_more must be a boolean, got ${JSON.stringify(options.relax_column_count_more)}`
-    );
-  }
-  if (typeof options.relax_quotes === "boolean") {
-  } else if (options.relax_quotes === void 0 || options.relax_quotes === null) {
-    options.relax_quotes = false;
-  } else {
-    throw new Error(
-      `Invalid Option: relax_quotes must be a boolean, got ${JSON.stringify(options.relax_quotes)}`
-    );
-  }
-  if (typeof options.skip_empty_lines === "boolean") {
-  } else if (options.skip_empty_lines === void 0 || options.skip_empty_lines === null) {
-    options.skip_empty_lines = false;
-  } else {
-    throw new Error(
-      `Invalid Option: skip_empty_lines must be a boolean, got ${JSON.stringify(options.skip_empty_lines)}`
-    );
-  }
-  if (typeof options.skip_records_with_empty_values === "boolean") {
-  } else if (options.skip_records_with_empty_values === void 0 || options.skip_records_with_empty_values === null) {
-    options.skip_records_with_empty_values = false;
-  } else {
-    throw new Error(
-      `Invalid Option: skip_records_with_empty_values must be a boolean, got ${JSON.stringify(options.skip_records_with_empty_values)}`
-    );
-  }
-  if (typeof options.skip_records_with_error === "boolean") {
-  } else if (options.skip_records_with_error === void 0 || options.skip_records_with_error === null) {
-    options.skip_records_with_error = false;
-  } else {
-    throw new Error(
-      `Invalid Option: skip_records_with_error must be a boolean, got ${JSON.stringify(options.skip_records_with_error)}`
-    );
-  }
-  if (options.rtrim === void 0 || options.rtrim === null || options.rtrim === false) {
-    options.rtrim = false;
-  } else if (options.rtrim !== true) {
-    throw new Error(
-      `Invalid Option: rtrim must be a boolean, got ${JSON.stringify(options.rtrim)}`
-    );
-  }
-  if (options.ltrim === void 0 || options.ltrim === null || options.ltrim === false) {
-    options.ltrim = false;
-  } else if (options.ltrim !== true) {
-    throw new Error(
-      `Invalid Option: ltrim must be a boolean, got ${JSON.stringify(options.ltrim)}`
-    );
-  }
-  if (options.trim === void 0 || options.trim === null || options.trim === false) {
-    options.trim = false;
-  } else if (options.trim !== true) {
-    throw new Error(
-      `Invalid Option: trim must be a boolean, got ${JSON.stringify(options.trim)}`
-    );
-  }
-  if (options.trim === true && opts.ltrim !== false) {
-    options.ltrim = true;
-  } else if (options.ltrim !== true) {
-    options.ltrim = false;
-  }
-  if (options.trim === true && opts.rtrim !== false) {
-    options.rtrim = true;
-  } else if (options.rtrim !== true) {
-    options.rtrim = false;
-  }
-  if (options.to === void 0 || options.to === null) {
-    options.to = -1;
-  } else if (options.to !== -1) {
-    if (typeof options.to === "string" && /\d+/.test(options.to)) {
-      options.to = parseInt(options.to);
-    }
-    if (Number.isInteger(options.to)) {
-      if (options.to <= 0) {
-        throw new Error(
-          `Invalid Option: to must be a positive integer greater than 0, got ${JSON.stringify(opts.to)}`
-        );
-      }
-    } else {
-      throw new Error(
-        `Invalid Option: to must be an integer, got ${JSON.stringify(opts.to)}`
-      );
-    }
-  }
-  if (options.to_line === void 0 || options.to_line === null) {
-    options.to_line = -1;
-  } else if (options.to_line !== -1) {
-    if (typeof options.to_line === "string" && /\d+/.test(options.to_line)) {
-      options.to_line = parseInt(options.to_line);
-    }
-    if (Number.isInteger(options.to_line)) {
-      if (options.to_line <= 0) {
-        throw new Error(
-          `Invalid Option: to_line must be a positive integer greater than 0, got ${JSON.stringify(opts.to_line)}`
-        );
-      }
-    } else {
-      throw new Error(
-        `Invalid Option: to_line must be an integer, got ${JSON.stringify(opts.to_line)}`
-      );
-    }
-  }
-  return options;
-};
-
-// node_modules/csv-parse/lib/utils/delimiter_discover.js
-var delimiter_discover = function(records, options) {
-  if (!options) {
-    ({ delimiter_auto: options } = normalize_options({ delimiter_auto: true }));
-  }
-  if (typeof records === "string") {
-    records = Buffer.from(records);
-  }
-  if (Buffer.isBuffer(records)) {
-    records = ((data) => {
-      const records2 = [];
-      const parser = transform({ delimiter: [] });
-      const push = (record2) => records2.push(record2);
-      const close = () => {
-      };
-      const error62 = parser.parse(data, true, push, close);
-      if (error62 !== void 0) throw error62;
-      return records2;
-    })(records);
-  }
-  const info = Array(127).fill().map(() => ({ lines: [] }));
-  records.map(([record2], line) => {
-    for (let i = 0, l = record2.length; i < l; i++) {
-      const code2 = record2.charCodeAt(i);
-      if (info[code2].lines[line] === void 0) info[code2].lines[line] = 0;
-      info[code2].lines[line]++;
-    }
-  });
-  info.map((info2, i) => {
-    info2.char_code = i;
-    info2.std = std(info2.lines);
-    info2.total = info2.lines.reduce((acc, val) => acc + val, 0);
-    info2.preferred = !!options.preferred[i];
-    info2.score = options.score(info2, options);
-  });
-  const result = info.reduce(
-    (acc, info2) => acc.score > info2.score ? acc : info2,
-    {}
-  );
-  return String.fromCharCode(result.char_code);
-};
-var std = function(array2) {
-  const n = array2.length;
-  if (n === 0) return 0;
-  const mean3 = array2.reduce((a, b) => a + b) / n;
-  return Math.sqrt(
-    array2.map((x) => Math.pow(x - mean3, 2)).reduce((a, b) => a + b) / n
-  );
-};
-
-// node_modules/csv-parse/lib/api/index.js
-var isRecordEmpty = function(record2) {
-  return record2.every(
-    (field) => field == null || field.toString && field.toString().trim() === ""
-  );
-};
-var cr = 13;
-var nl = 10;
-var boms = {
-  // Note, the following are equals:
-  // Buffer.from("\ufeff")
-  // Buffer.from([239, 187, 191])
-  // Buffer.from('EFBBBF', 'hex')
-  utf8: Buffer.from([239, 187, 191]),
-  // Note, the following are equals:
-  // Buffer.from "\ufeff", 'utf16le
-  // Buffer.from([255, 254])
-  utf16le: Buffer.from([255, 254])
-};
-var transform = function(original_options = {}) {
-  const info = {
-    bytes: 0,
-    bytes_records: 0,
-    comment_lines: 0,
-    empty_lines: 0,
-    invalid_field_length: 0,
-    lines: 1,
-    records: 0
-  };
-  const options = normalize_options(original_options);
-  return {
-    info,
-    original_options,
-    options,
-    state: init_state(options),
-    __needMoreData: function(i, bufLen, end) {
-      if (end) return false;
-      const { encoding, escape, quote } = this.options;
-      const { quoting, needMoreDataSize, recordDelimiterMaxLength } = this.state;
-      const numOfCharLeft = bufLen - i - 1;
-      const requiredLength = Math.max(
-        needMoreDataSize,
-        // Skip if the remaining buffer smaller than record delimiter
-        // If "record_delimiter" is yet to be discovered:
-        // 1. It is equals to `[]` and "recordDelimiterMaxLength" equals `0`
-        // 2. We set the length to windows line ending in the current encoding
-        // Note, that encoding is known from user or bom discovery at that point
-        // recordDelimiterMaxLength,
-        recordDelimiterMaxLength === 0 ? Buffer.from("\r\n", encoding).length : recordDelimiterMaxLength,
-        // Skip if remaining buffer can be an escaped quote
-        quoting ? (escape === null ? 0 : escape.length) + quote.length : 0,
-        // Skip if remaining buffer can be record delimiter following the closing quote
-        quoting ? quote.length + recordDelimiterMaxLength : 0
-      );
-      return numOfCharLeft < requiredLength;
-    },
-    // Central parser implementation
-    parse: function(nextBuf, end, push, close) {
-      const {
-        bom,
-        comment_no_infix,
-        delimiter_auto,
-        encoding,
-        from_line,
-        ltrim,
-        max_record_size,
-        raw,
-        relax_quotes,
-        rtrim,
-        skip_empty_lines,
-        to,
-        to_line
-      } = this.options;
-      let { comment, escape, quote, record_delimiter } = this.options;
-      const {
-        bomSkipped,
-        delimiterDiscovered,
-        delimiterBufPrevious,
-        rawBuffer,
-        escapeIsQuote
-      } = this.state;
-      if (!delimiterDiscovered && delimiter_auto) {
-        let delimiterBuf;
-        if (delimiterBufPrevious === void 0) {
-          delimiterBuf = nextBuf;
-        } else if (delimiterBufPrevious !== void 0 && nextBuf === void 0) {
-          delimiterBuf = delimiterBufPrevious;
-        } else {
-          delimiterBuf = Buffer.concat([delimiterBufPrevious, nextBuf]);
-        }
-        nextBuf = void 0;
-        if (end || delimiterBuf.length > delimiter_auto.size) {
-          this.options.delimiter = [
-            Buffer.from(
-              delimiter_discover(delimiterBuf, this.options.delimiter_auto)
-            )
-          ];
-          this.state.previousBuf = delimiterBuf;
-          this.state.delimiterBufPrevious = void 0;
-          this.state.delimiterDiscovered = true;
-        } else {
-          this.state.delimiterBufPrevious = delimiterBuf;
-          return;
-        }
-      }
-      const { previousBuf } = this.state;
-      let buf;
-      if (previousBuf === void 0) {
-        if (nextBuf === void 0) {
-          close();
-          return;
-        } else {
-          buf = nextBuf;
-        }
-      } else if (previousBuf !== void 0 && nextBuf === void 0) {
-        buf = previousBuf;
-      } else {
-        buf = Buffer.concat([previousBuf, nextBuf]);
-      }
-      if (bomSkipped === false) {
-        if (bom === false) {
-          this.state.bomSkipped = true;
-        } else if (buf.length < 3) {
-          if (end === false) {
-            this.state.previousBuf = buf;
-            return;
-          }
-        } else {
-          for (const encoding2 in boms) {
-            if (boms[encoding2].compare(buf, 0, boms[encoding2].length) === 0) {
-              const bomLength = boms[encoding2].length;
-              this.state.bufBytesStart += bomLength;
-              buf = buf.slice(bomLength);
-              const options2 = normalize_options({
-                ...this.original_options,
-                encoding: encoding2
-              });
-              for (const key2 in options2) {
-                this.options[key2] = options2[key2];
-              }
-              ({ comment, escape, quote } = this.options);
-              break;
-            }
-          }
-          this.state.bomSkipped = true;
-        }
-      }
-      const bufLen = buf.length;
-      let pos;
-      for (pos = 0; pos < bufLen; pos++) {
-        if (this.__needMoreData(pos, bufLen, end)) {
-          break;
-        }
-        if (this.state.wasRowDelimiter === true) {
-          this.info.lines++;
-          this.state.wasRowDelimiter = false;
-        }
-        if (to_line !== -1 && this.info.lines > to_line) {
-          this.state.stop = true;
-          close();
-          return;
-        }
-        if (this.state.quoting === false && record_delimiter.length === 0) {
-          const record_delimiterCount = this.__autoDiscoverRecordDelimiter(
-            buf,
-            pos
-          );
-          if (record_delimiterCount) {
-            record_delimiter = this.options.record_delimiter;
-          }
-        }
-        const chr = buf[pos];
-        if (raw === true) {
-          rawBuffer.append(chr);
-        }
-        if ((chr === cr || chr === nl) && this.state.wasRowDelimiter === false) {
-          this.state.wasRowDelimiter = true;
-        }
-        if (this.state.escaping === true) {
-          this.state.escaping = false;
-        } else {
-          if (escape !== null && this.state.quoting === true && this.__isEscape(buf, pos, chr) && pos + escape.length < bufLen) {
-            if (escapeIsQuote) {
-              if (this.__isQuote(buf, pos + escape.length)) {
-                this.state.escaping = true;
-                pos += escape.length - 1;
-                continue;
-              }
-            } else {
-              this.state.escaping = true;
-              pos += escape.length - 1;
-              continue;
-            }
-          }
-          if (this.state.commenting === false && this.__isQuote(buf, pos)) {
-            if (this.state.quoting === true) {
-              const nextChr = buf[pos + quote.length];
-              const isNextChrTrimable = rtrim && this.__isCharTrimable(buf, pos + quote.length);
-              const isNextChrComment = comment !== null && this.__compareBytes(comment, buf, pos + quote.length, nextChr);
-              const isNextChrDelimiter = this.__isDelimiter(
-                buf,
-                pos + quote.length,
-                nextChr
-              );
-              const isNextChrRecordDelimiter = record_delimiter.length === 0 ? this.__autoDiscoverRecordDelimiter(buf, pos + quote.length) : this.__isRecordDelimiter(nextChr, buf, pos + quote.length);
-              if (escape !== null && this.__isEscape(buf, pos, chr) && this.__isQuote(buf, pos + escape.length)) {
-                pos += escape.length - 1;
-              } else if (!nextChr || isNextChrDelimiter || isNextChrRecordDelimiter || isNextChrComment || isNextChrTrimable) {
-                this.state.quoting = false;
-                this.state.wasQuoting = true;
-                pos += quote.length - 1;
-                continue;
-              } else if (relax_quotes === false) {
-                const err = this.__error(
-                  new CsvError(
-                    "CSV_INVALID_CLOSING_QUOTE",
-                    [
-                      "Invalid Closing Quote:",
-                      `got "${String.fromCharCode(nextChr)}"`,
-                      `at line ${this.info.lines}`,
-                      "instead of delimiter, record delimiter, trimable character",
-                      "(if activated) or comment"
-                    ],
-                    this.options,
-                    this.__infoField()
-                  )
-                );
-                if (err !== void 0) return err;
-              } else {
-                this.state.quoting = false;
-                this.state.wasQuoting = true;
-                this.state.field.prepend(quote);
-                pos += quote.length - 1;
-              }
-            } else {
-              if (this.state.field.length !== 0) {
-                if (relax_quotes === false) {
-                  const info2 = this.__infoField();
-                  const bom2 = Object.keys(boms).map(
-                    (b) => boms[b].equals(this.state.field.toString()) ? b : false
-                  ).filter(Boolean)[0];
-                  const err = this.__error(
-                    new CsvError(
-                      "INVALID_OPENING_QUOTE",
-                      [
-                        "Invalid Opening Quote:",
-                        `a quote is found on field ${JSON.stringify(info2.column)} at line ${info2.lines}, value is ${JSON.stringify(this.state.field.toString(encoding))}`,
-                        bom2 ? `(${bom2} bom)` : void 0
-                      ],
-                      this.options,
-                      info2,
-                      {
-                        field: this.state.field
-                      }
-                    )
-                  );
-                  if (err !== void 0) return err;
-                }
-              } else {
-                this.state.quoting = true;
-                pos += quote.length - 1;
-                continue;
-              }
-            }
-          }
-          if (this.state.quoting === false) {
-            const recordDelimiterLength = this.__isRecordDelimiter(
-              chr,
-              buf,
-              pos
-            );
-            if (recordDelimiterLength !== 0) {
-              const skipCommentLine = this.state.commenting && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0;
-              if (skipCommentLine) {
-                this.info.comment_lines++;
-              } else {
-                if (this.state.enabled === false && this.info.lines + (this.state.wasRowDelimiter === true ? 1 : 0) >= from_line) {
-                  this.state.enabled = true;
-                  this.__resetField();
-                  this.__resetRecord();
-                  pos += recordDelimiterLength - 1;
-                  continue;
-                }
-                if (skip_empty_lines === true && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0) {
-                  this.info.empty_lines++;
-                  pos += recordDelimiterLength - 1;
-                  continue;
-                }
-                this.info.bytes = this.state.bufBytesStart + pos;
-                const errField = this.__onField();
-                if (errField !== void 0) return errField;
-                this.info.bytes = this.state.bufBytesStart + pos + recordDelimiterLength;
-                const errRecord = this.__onRecord(push);
-                if (errRecord !== void 0) return errRecord;
-                if (to !== -1 && this.info.records >= to) {
-                  this.state.stop = true;
-                  close();
-                  return;
-                }
-              }
-              this.state.commenting = false;
-              pos += recordDelimiterLength - 1;
-              continue;
-            }
-            if (this.state.commenting) {
-              continue;
-            }
-            if (comment !== null && (comment_no_infix === false || this.state.record.length === 0 && this.state.field.length === 0)) {
-              const commentCount = this.__compareBytes(comment, buf, pos, chr);
-              if (commentCount !== 0) {
-                this.state.commenting = true;
-                continue;
-              }
-            }
-            const delimiterLength = this.__isDelimiter(buf, pos, chr);
-            if (delimiterLength !== 0) {
-              this.info.bytes = this.state.bufBytesStart + pos;
-              const errField = this.__onField();
-              if (errField !== void 0) return errField;
-              pos += delimiterLength - 1;
-              continue;
-            }
-          }
-        }
-        if (this.state.commenting === false) {
-          if (max_record_size !== 0 && this.state.record_length + this.state.field.length > max_record_size) {
-            return this.__error(
-              new CsvError(
-                "CSV_MAX_RECORD_SIZE",
-                [
-                  "Max Record Size:",
-                  "record exceed the maximum number of tolerated bytes",
-                  `of ${max_record_size}`,
-                  `at line ${this.info.lines}`
-                ],
-                this.options,
-                this.__infoField()
-              )
-            );
-          }
-        }
-        const lappend = ltrim === false || this.state.quoting === true || this.state.field.length !== 0 || !this.__isCharTrimable(buf, pos);
-        const rappend = rtrim === false || this.state.wasQuoting === false;
-        if (lappend === true && rappend === true) {
-          this.state.field.append(chr);
-        } else if (rtrim === true && !this.__isCharTrimable(buf, pos)) {
-          return this.__error(
-            new CsvError(
-              "CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE",
-              [
-                "Invalid Closing Quote:",
-                "found non trimable byte after quote",
-                `at line ${this.info.lines}`
-              ],
-              this.options,
-              this.__infoField()
-            )
-          );
-        } else {
-          if (lappend === false) {
-            pos += this.__isCharTrimable(buf, pos) - 1;
-          }
-          continue;
-        }
-      }
-      if (end === true) {
-        if (this.state.quoting === true) {
-          const err = this.__error(
-            new CsvError(
-              "CSV_QUOTE_NOT_CLOSED",
-              [
-                "Quote Not Closed:",
-                `the parsing is finished with an opening quote at line ${this.info.lines}`
-              ],
-              this.options,
-              this.__infoField()
-            )
-          );
-          if (err !== void 0) return err;
-        } else {
-          if (this.state.wasQuoting === true || this.state.record.length !== 0 || this.state.field.length !== 0) {
-            this.info.bytes = this.state.bufBytesStart + pos;
-            const errField = this.__onField();
-            if (errField !== void 0) return errField;
-            const errRecord = this.__onRecord(push);
-            if (errRecord !== void 0) return errRecord;
-          } else if (this.state.wasRowDelimiter === true) {
-            this.info.empty_lines++;
-          } else if (this.state.commenting === true) {
-            this.info.comment_lines++;
-          }
-        }
-      } else {
-        this.state.bufBytesStart += pos;
-        this.state.previousBuf = buf.slice(pos);
-      }
-      if (this.state.wasRowDelimiter === true) {
-        this.info.lines++;
-        this.state.wasRowDelimiter = false;
-      }
-    },
-    __onRecord: function(push) {
-      const {
-        columns,
-        group_columns_by_name,
-        encoding,
-        info: info2,
-        from,
-        relax_column_count,
-        relax_column_count_less,
-        relax_column_count_more,
-        raw,
-        skip_records_with_empty_values
-      } = this.options;
-      const { enabled, record: record2 } = this.state;
-      if (enabled === false) {
-        return this.__resetRecord();
-      }
-      const recordLength = record2.length;
-      if (columns === true) {
-        if (skip_records_with_empty_values === true && isRecordEmpty(record2)) {
-          this.__resetRecord();
-          return;
-        }
-        return this.__firstLineToColumns(record2);
-      }
-      if (columns === false && this.info.records === 0) {
-        this.state.expectedRecordLength = recordLength;
-      }
-      if (recordLength !== this.state.expectedRecordLength) {
-        const err = columns === false ? new CsvError(
-          "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH",
-          [
-            "Invalid Record Length:",
-            `expect ${this.state.expectedRecordLength},`,
-            `got ${recordLength} on line ${this.info.lines}`
-          ],
-          this.options,
-          this.__infoField(),
-          {
-            record: record2
-          }
-        ) : new CsvError(
-          "CSV_RECORD_INCONSISTENT_COLUMNS",
-          [
-            "Invalid Record Length:",
-            `columns length is ${columns.length},`,
-            // rename columns
-            `got ${recordLength} on line ${this.info.lines}`
-          ],
-          this.options,
-          this.__infoField(),
-          {
-            record: record2
-          }
-        );
-        if (relax_column_count === true || relax_column_count_less === true && recordLength < this.state.expectedRecordLength || relax_column_count_more === true && recordLength > this.state.expectedRecordLength) {
-          this.info.invalid_field_length++;
-          this.state.error = err;
-        } else {
-          const finalErr = this.__error(err);
-          if (finalErr) return finalErr;
-        }
-      }
-      if (skip_records_with_empty_values === true && isRecordEmpty(record2)) {
-        this.__resetRecord();
-        return;
-      }
-      if (this.state.recordHasError === true) {
-        this.__resetRecord();
-        this.state.recordHasError = false;
-        return;
-      }
-      this.info.records++;
-      if (from === 1 || this.info.records >= from) {
-        const { objname } = this.options;
-        if (columns !== false) {
-          const obj = {};
-          for (let i = 0, l = record2.length; i < l; i++) {
-            if (columns[i] === void 0 || columns[i].disabled) continue;
-            if (group_columns_by_name === true && Object.hasOwn(obj, columns[i].name)) {
-              if (Array.isArray(obj[columns[i].name])) {
-                obj[columns[i].name] = obj[columns[i].name].concat(record2[i]);
-              } else {
-                obj[columns[i].name] = [obj[columns[i].name], record2[i]];
-              }
-            } else {
-              Object.defineProperty(obj, columns[i].name, {
-                value: record2[i],
-                enumerable: true,
-                writable: true,
-                configurable: true
-              });
-            }
-          }
-          if (raw === true || info2 === true) {
-            const extRecord = Object.assign(
-              { record: obj },
-              raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
-              info2 === true ? { info: this.__infoRecord() } : {}
-            );
-            const err = this.__push(
-              objname === void 0 ? extRecord : [obj[objname], extRecord],
-              push
-            );
-            if (err) {
-              return err;
-            }
-          } else {
-            const err = this.__push(
-              objname === void 0 ? obj : [obj[objname], obj],
-              push
-            );
-            if (err) {
-              return err;
-            }
-          }
-        } else {
-          if (raw === true || info2 === true) {
-            const extRecord = Object.assign(
-              { record: record2 },
-              raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
-              info2 === true ? { info: this.__infoRecord() } : {}
-            );
-            const err = this.__push(
-              objname === void 0 ? extRecord : [record2[objname], extRecord],
-              push
-            );
-            if (err) {
-              return err;
-            }
-          } else {
-            const err = this.__push(
-              objname === void 0 ? record2 : [record2[objname], record2],
-              push
-            );
-            if (err) {
-              return err;
-            }
-          }
-        }
-      }
-      this.__resetRecord();
-    },
-    __firstLineToColumns: function(record2) {
-      const { firstLineToHeaders } = this.state;
-      try {
-        const headers = firstLineToHeaders === void 0 ? record2 : firstLineToHeaders.call(null, record2);
-        if (!Array.isArray(headers)) {
-          return this.__error(
-            new CsvError(
-              "CSV_INVALID_COLUMN_MAPPING",
-              [
-                "Invalid Column Mapping:",
-                "expect an array from column function,",
-                `got ${JSON.stringify(headers)}`
-              ],
-              this.options,
-              this.__infoField(),
-              {
-                headers
-              }
-            )
-          );
-        }
-        const normalizedHeaders = normalize_columns_array(headers);
-        this.state.expectedRecordLength = normalizedHeaders.length;
-        this.options.columns = normalizedHeaders;
-        this.__resetRecord();
-        return;
-      } catch (err) {
-        return err;
-      }
-    },
-    __resetRecord: function() {
-      if (this.options.raw === true) {
-        this.state.rawBuffer.reset();
-      }
-      this.state.error = void 0;
-      this.state.record = [];
-      this.state.record_length = 0;
-    },
-    __onField: function() {
-      const { cast, encoding, rtrim, max_record_size } = this.options;
-      const { enabled, wasQuoting } = this.state;
-      if (enabled === false) {
-        return this.__resetField();
-      }
-      let field = this.state.field.toString(encoding);
-      if (rtrim === true && wasQuoting === false) {
-        field = field.trimRight();
-      }
-      if (cast === true) {
-        const [err, f] = this.__cast(field);
-        if (err !== void 0) return err;
-        field = f;
-      }
-      this.state.record.push(field);
-      if (max_record_size !== 0 && typeof field === "string") {
-        this.state.record_length += field.length;
-      }
-      this.__resetField();
-    },
-    __resetField: function() {
-      this.state.field.reset();
-      this.state.wasQuoting = false;
-    },
-    __push: function(record2, push) {
-      const { on_record } = this.options;
-      if (on_record !== void 0) {
-        const info2 = this.__infoRecord();
-        try {
-          record2 = on_record.call(null, record2, info2);
-        } catch (err) {
-          return err;
-        }
-        if (record2 === void 0 || record2 === null) {
-          return;
-        }
-      }
-      this.info.bytes_records += this.info.bytes;
-      push(record2);
-    },
-    // Return a tuple with the error and the casted value
-    __cast: function(field) {
-      const { columns, relax_column_count } = this.options;
-      const isColumns = Array.isArray(columns);
-      if (isColumns === true && relax_column_count && this.options.columns.length <= this.state.record.length) {
-        return [void 0, void 0];
-      }
-      if (this.state.castField !== null) {
-        try {
-          const info2 = this.__infoField();
-          return [void 0, this.state.castField.call(null, field, info2)];
-        } catch (err) {
-          return [err];
-        }
-      }
-      if (this.__isFloat(field)) {
-        return [void 0, parseFloat(field)];
-      } else if (this.options.cast_date !== false) {
-        const info2 = this.__infoField();
-        return [void 0, this.options.cast_date.call(null, field, info2)];
-      }
-      return [void 0, field];
-    },
-    __compareBytes: function(sourceBuf, targetBuf, targetPos, firstByte) {
-      if (sourceBuf[0] !== firstByte) return 0;
-      const sourceLength = sourceBuf.length;
-      for (let i = 1; i < sourceLength; i++) {
-        if (sourceBuf[i] !== targetBuf[targetPos + i]) return 0;
-      }
-      return sourceLength;
-    },
-    // Helper to test if a character is trimable
-    __isCharTrimable: function(buf, pos) {
-      const { timchars, timcharFirstBytes } = this.state;
-      const first = buf[pos];
-      if (first === void 0 || timcharFirstBytes[first] === 0) return 0;
-      loop1: for (let i = 0; i < timchars.length; i++) {
-        const timchar = timchars[i];
-        for (let j = 0; j < timchar.length; j++) {
-          if (timchar[j] !== buf[pos + j]) continue loop1;
-        }
-        return timchar.length;
-      }
-      return 0;
-    },
-    __isDelimiter: function(buf, pos, chr) {
-      const { delimiter, ignore_last_delimiters } = this.options;
-      if (ignore_last_delimiters === true && this.state.record.length === this.options.columns.length - 1) {
-        return 0;
-      } else if (ignore_last_delimiters !== false && typeof ignore_last_delimiters === "number" && this.state.record.length === ignore_last_delimiters - 1) {
-        return 0;
-      }
-      loop1: for (let i = 0; i < delimiter.length; i++) {
-        const del = delimiter[i];
-        if (del[0] === chr) {
-          for (let j = 1; j < del.length; j++) {
-            if (del[j] !== buf[pos + j]) continue loop1;
-          }
-          return del.length;
-        }
-      }
-      return 0;
-    },
-    __isEscape: function(buf, pos, chr) {
-      const { escape } = this.options;
-      if (escape === null) return false;
-      const l = escape.length;
-      if (escape[0] === chr) {
-        for (let i = 0; i < l; i++) {
-          if (escape[i] !== buf[pos + i]) {
-            return false;
-          }
-        }
-        return true;
-      }
-      return false;
-    },
-    __isFloat: function(value) {
-      return value - parseFloat(value) + 1 >= 0;
-    },
-    // Keep it in case we implement the `cast_int` option
-    // __isInt(value){
-    //   // return Number.isInteger(parseInt(value))
-    //   // return !isNaN( parseInt( obj ) );
-    //   return /^(\-|\+)?[1-9][0-9]*$/.test(value)
-    // }
-    __isQuote: function(buf, pos) {
-      const { quote } = this.options;
-      if (quote === null) return false;
-      const l = quote.length;
-      for (let i = 0; i < l; i++) {
-        if (quote[i] !== buf[pos + i]) {
-          return false;
-        }
-      }
-      return true;
-    },
-    __isRecordDelimiter: function(chr, buf, pos) {
-      const { record_delimiter } = this.options;
-      const recordDelimiterLength = record_delimiter.length;
-      loop1: for (let i = 0; i < recordDelimiterLength; i++) {
-        const rd = record_delimiter[i];
-        const rdLength = rd.length;
-        if (rd[0] !== chr) {
-          continue;
-        }
-        for (let j = 1; j < rdLength; j++) {
-          if (rd[j] !== buf[pos + j]) {
-            continue loop1;
-          }
-        }
-        return rd.length;
-      }
-      return 0;
-    },
-    __autoDiscoverRecordDelimiter: function(buf, pos) {
-      const { encoding } = this.options;
-      const rds = [
-        // Important, the windows line ending must be before mac os 9
-        Buffer.from("\r\n", encoding),
-        Buffer.from("\n", encoding),
-        Buffer.from("\r", encoding)
-      ];
-      loop: for (let i = 0; i < rds.length; i++) {
-        const l = rds[i].length;
-        for (let j = 0; j < l; j++) {
-          if (rds[i][j] !== buf[pos + j]) {
-            continue loop;
-          }
-        }
-        this.options.record_delimiter.push(rds[i]);
-        this.state.recordDelimiterMaxLength = rds[i].length;
-        return rds[i].length;
-      }
-      return 0;
-    },
-    __error: function(msg) {
-      const { encoding, raw, skip_records_with_error } = this.options;
-      const err = typeof msg === "string" ? new Error(msg) : msg;
-      if (skip_records_with_error) {
-        this.state.recordHasError = true;
-        if (this.options.on_skip !== void 0) {
-          try {
-            this.options.on_skip(
-              err,
-              raw ? this.state.rawBuffer.toString(encoding) : void 0
-            );
-          } catch (err2) {
-            return err2;
-          }
-        }
-        return void 0;
-      } else {
-        return err;
-      }
-    },
-    __infoDataSet: function() {
-      return {
-        ...this.info,
-        columns: this.options.columns
-      };
-    },
-    __infoRecord: function() {
-      const { columns, raw, encoding } = this.options;
-      return {
-        ...this.__infoDataSet(),
-        bytes_records: this.info.bytes,
-        error: this.state.error,
-        header: columns === true,
-        index: this.state.record.length,
-        raw: raw ? this.state.rawBuffer.toString(encoding) : void 0
-      };
-    },
-    __infoField: function() {
-      const { columns } = this.options;
-      const isColumns = Array.isArray(columns);
-      const bytes_records = this.info.bytes_records;
-      return {
-        ...this.__infoRecord(),
-        bytes_records,
-        column: isColumns === true ? columns.length > this.state.record.length ? columns[this.state.record.length].name : null : this.state.record.length,
-        quoting: this.state.wasQuoting
-      };
-    }
-  };
-};
-
-// node_modules/csv-parse/lib/sync.js
-var parse = function(data, opts = {}) {
-  if (typeof data === "string") {
-    data = Buffer.from(data);
-  }
-  const records = opts && opts.objname ? /* @__PURE__ */ Object.create(null) : [];
-  const parser = transform(opts);
-  const push = (record2) => {
-    if (parser.options.objname === void 0) records.push(record2);
-    else {
-      records[record2[0]] = record2[1];
-    }
-  };
-  const close = () => {
-  };
-  const error62 = parser.parse(data, true, push, close);
-  if (error62 !== void 0) throw error62;
-  return records;
-};
-
-// src/core/data/parse-csv.ts
-function schemaOf(dataset) {
-  const target = dataset.target;
-  return {
-    source: dataset.source,
-    features: dataset.features,
-    ...dataset.ids ? { idColumn: dataset.ids.name } : {},
-    ...target ? { target: { name: target.name, task: target.classes ? "binary" : "regression", ...target.classes ? { classes: target.classes } : {} } } : {}
-  };
-}
-var MISSING_TOKENS = /* @__PURE__ */ new Set(["", "na", "nan", "null"]);
-var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
-var LINE_NOTE = "(the header is line 1)";
-var INFINITY_WORD = /^[+-]?(?:inf|infinity)$/i;
-var MAX_MAGNITUDE = 1e100;
-function parseCsv(text2, options) {
-  const { source } = options;
-  const { header, rows, lineOf } = readRecords(text2, source);
-  const columnIndex = checkHeader(header, source);
-  const plan = options.schema ? planFromSchema(options, header, columnIndex) : planFromRoles(options, header, columnIndex, rows);
-  const cells = (column) => rows.map((row) => row[column].trim());
-  const features = [];
-  const columns = [];
-  const missing = [];
-  const unseen = {};
-  for (const feature of plan.features) {
-    const values = cells(feature.column);
-    const column = new Float64Array(values.length);
-    let missingCount = 0;
-    let unseenCount = 0;
-    let categories = feature.categories;
-    if (feature.kind === "categorical" && !categories) {
-      categories = [...new Set(values.filter((v) => !isMissing(v)))].sort(compareText);
-    }
-    const code2 = new Map(categories?.map((c, i) => [c, i]));
-    for (let i = 0; i < values.length; i++) {
-      const v = values[i];
-      if (isMissing(v)) {
-        column[i] = NaN;
-        missingCount++;
-      } else if (feature.kind === "numeric") {
-        column[i] = parseNumber(v) ?? failNumber(source, lineOf(i), feature.name, v, plan.numericReason);
-      } else {
-        const c = code2.get(v);
-        if (c === void 0) unseenCount++;
-        column[i] = c ?? NaN;
-      }
-    }
-    features.push(categories ? { name: feature.name, kind: "categorical", categories } : { name: feature.name, kind: "numeric" });
-    columns.push(column);
-    missing.push(missingCount);
-    if (unseenCount > 0) unseen[feature.name] = unseenCount;
-  }
-  const dataset = { source, rows: rows.length, features, columns, missing };
-  if (plan.target) dataset.target = readTarget(source, plan.target, cells(plan.target.column), lineOf, options.schema?.source);
-  if (plan.idColumn !== void 0) dataset.ids = { name: header[plan.idColumn].trim(), values: cells(plan.idColumn) };
-  if (options.schema) {
-    dataset.unseenCategories = unseen;
-    dataset.extraColumns = plan.extraColumns;
-  }
-  return dataset;
-}
-function isMissing(value) {
-  return MISSING_TOKENS.has(value.toLowerCase());
-}
-function parseNumber(value) {
-  if (!NUMBER.test(value)) return void 0;
-  const x = Number(value);
-  return Number.isFinite(x) && Math.abs(x) <= MAX_MAGNITUDE ? x : void 0;
-}
-function looksNumeric(value) {
-  return NUMBER.test(value) || INFINITY_WORD.test(value);
-}
-function failNumber(source, line, column, value, reason) {
-  if (!looksNumeric(value)) failNotNumeric(source, line, column, value, reason);
-  throw new UserError(
-    `${at(source, line, column)}: ${show(value)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
-    "Correct the value, write NA or leave the cell empty if it is missing, or rescale the column (for example to thousands or a logarithm)."
-  );
-}
-function compareText(a, b) {
-  return a < b ? -1 : a > b ? 1 : 0;
-}
-function show(value) {
-  const flat = value.replace(/\r\n|\r|\n/g, "\\n");
-  return `'${flat.length > 40 ? `${flat.slice(0, 40)}…` : flat}'`;
-}
-function listNames(names, limit) {
-  const shown = names.slice(0, limit).map(show).join(", ");
-  return names.length > limit ? `${shown} and ${names.length - limit} more` : shown;
-}
-function count(n, noun) {
-  return `${n} ${noun}${n === 1 ? "" : "s"}`;
-}
-function at(source, line, column) {
-  return `${source}, line ${line} ${LINE_NOTE}${column === void 0 ? "" : `, column ${show(column)}`}`;
-}
-function failNotNumeric(source, line, column, value, reason) {
-  throw new UserError(
-    `${at(source, line, column)}: ${show(value)} is not a number, but ${reason}.`,
-    "Correct the value, or write NA or leave the cell empty if it is missing."
-  );
-}
-function readRecords(text2, source) {
-  if (text2.replace(/^\uFEFF/, "").trim() === "") {
-    throw new UserError(`${source} is empty.`, "Write the column names on the first line and one row per example below it.");
-  }
-  const ends = [];
-  let records;
-  try {
-    records = parse(text2, {
-      bom: true,
-      relax_column_count: true,
-      record_delimiter: ["\r\n", "\n", "\r"],
-      on_record: (record2, context) => {
-        ends.push(context.bytes);
-        return record2;
-      }
-    });
-  } catch (error62) {
-    if (!(error62 instanceof CsvError)) throw error62;
-    const line = lineAtByte(text2, ends.length === 0 ? 0 : ends[ends.length - 1]);
-    throw new UserError(
-      `${at(source, line)}: ${describeCsvError(error62)}.`,
-      'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
-    );
-  }
-  const starts = [0, ...ends.slice(0, -1)];
-  const kept = [];
-  for (let r = 0; r < records.length; r++) {
-    if (!(records[r].length === 1 && records[r][0].trim() === "")) kept.push(r);
-  }
-  const [headerRecord, ...dataRecords] = kept;
-  if (dataRecords.length === 0) {
-    throw new UserError(`${source} has a header line but no data rows.`, "Add data rows below the header, or check that the path names the right file.");
-  }
-  if (headerRecord !== 0) {
-    throw new UserError(`${source} starts with a blank line.`, "Put the column names on the first line.");
-  }
-  const header = records[headerRecord];
-  const rows = dataRecords.map((r) => records[r]);
-  const lineOf = (row) => lineAtByte(text2, starts[dataRecords[row]]);
-  for (let i = 0; i < rows.length; i++) {
-    if (rows[i].length !== header.length) {
-      throw new UserError(
-        `${at(source, lineOf(i))}: the row has ${count(rows[i].length, "field")}, the header has ${header.length}.`,
-        "Give every row one field per header column; enclose a field that holds a comma in double quotes."
-      );
-    }
-  }
-  return { header, rows, lineOf };
-}
-function describeCsvError(error62) {
-  switch (error62.code) {
-    case "CSV_QUOTE_NOT_CLOSED":
-      return "a quoted field that starts in this row is never closed";
-    case "CSV_INVALID_CLOSING_QUOTE":
-      return "a closing quote is followed by other characters";
-    case "INVALID_OPENING_QUOTE":
-      return "a quote appears inside a field that does not start with one";
-    default:
-      return `the CSV cannot be read (${error62.message})`;
-  }
-}
-function lineAtByte(text2, byteOffset) {
-  const bytes = new TextEncoder().encode(text2);
-  let line = 1;
-  for (let b = 0; b < byteOffset && b < bytes.length; b++) {
-    if (bytes[b] === 10 || bytes[b] === 13 && bytes[b + 1] !== 10) line++;
-  }
-  return line;
-}
-function checkHeader(header, source) {
-  const index = /* @__PURE__ */ new Map();
-  header.forEach((raw, j) => {
-    const name = raw.trim();
-    if (name === "") {
-      throw new UserError(`${source}, line 1: column ${j + 1} of the header has no name.`, "Name every column on the first line, or delete the unnamed column.");
-    }
-    const earlier = index.get(name);
-    if (earlier !== void 0) {
-      throw new UserError(
-        `${source}, line 1: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
-        "Give every column its own name."
-      );
-    }
-    index.set(name, j);
-  });
-  return index;
-}
-function failMissingTarget(source, name, header) {
-  throw new UserError(
-    `${source} has no target column ${show(name)}. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
-    `Add the column ${show(name)} to the file, or name one of its columns as the target.`
-  );
-}
-function failNoTargetNamed(source) {
-  throw new UserError(`${source}: no target column was named.`, "Name the column that holds the outcome to predict as the target.");
-}
-function planFromRoles(options, header, columnIndex, rows) {
-  const { source } = options;
-  const roles = options.roles ?? {};
-  const declared = (role) => Object.keys(roles).filter((name) => roles[name] === role);
-  const roleTargets = declared("target");
-  const idNames = declared("id");
-  if (roleTargets.length > 1) {
-    throw new UserError(`${source}: only one column can be the target, but ${listNames(roleTargets, 5)} have the role 'target'.`, "Keep the role 'target' on one column.");
-  }
-  if (idNames.length > 1) {
-    throw new UserError(`${source}: only one column can be the id, but ${listNames(idNames, 5)} have the role 'id'.`, "Keep the role 'id' on one column.");
-  }
-  if (options.target !== void 0 && roleTargets.length === 1 && roleTargets[0] !== options.target) {
-    throw new UserError(
-      `${source}: the target is ${show(options.target)}, but the column ${show(roleTargets[0])} has the role 'target'.`,
-      "Name the same column in both places, or only in one."
-    );
-  }
-  const targetName = options.target ?? roleTargets[0];
-  if (targetName !== void 0 && roles[targetName] !== void 0 && roles[targetName] !== "target") {
-    throw new UserError(
-      `${source}: the column ${show(targetName)} is the target, but it also has the role '${roles[targetName]}'.`,
-      "Delete the other role of the target column."
-    );
-  }
-  for (const name of Object.keys(roles)) {
-    if (name !== targetName && !columnIndex.has(name)) {
-      throw new UserError(
-        `${source} has no column ${show(name)}, which has the role '${roles[name]}'. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
-        "Correct the column name, or delete its role."
-      );
-    }
-  }
-  const targetColumn = targetName === void 0 ? void 0 : columnIndex.get(targetName);
-  if (options.requireTarget ?? true) {
-    if (targetName === void 0) failNoTargetNamed(source);
-    if (targetColumn === void 0) failMissingTarget(source, targetName, header);
-  }
-  const features = [];
-  header.forEach((raw, column) => {
-    const name = raw.trim();
-    const role = roles[name] ?? (name === targetName ? "target" : void 0);
-    if (role === "numeric" || role === "categorical") features.push({ name, column, kind: role });
-    else if (role === void 0) {
-      const isNumeric = rows.every((row) => {
-        const v = row[column].trim();
-        return isMissing(v) || looksNumeric(v);
-      });
-      features.push({ name, column, kind: isNumeric ? "numeric" : "categorical" });
-    }
-  });
-  return {
-    features,
-    ...idNames.length === 1 ? { idColumn: columnIndex.get(idNames[0]) } : {},
-    ...targetName !== void 0 && targetColumn !== void 0 ? { target: { name: targetName, column: targetColumn, ...options.task ? { task: options.task } : {} } } : {},
-    extraColumns: [],
-    numericReason: "the column is declared numeric"
-  };
-}
-function planFromSchema(options, header, columnIndex) {
-  const schema = options.schema;
-  const { source } = options;
-  const needed = [...schema.features.map((f) => f.name), ...schema.idColumn === void 0 ? [] : [schema.idColumn]];
-  const absent = needed.filter((name) => !columnIndex.has(name));
-  if (absent.length > 0) {
-    throw new UserError(
-      `${source} lacks the column${absent.length > 1 ? "s" : ""} ${listNames(absent, 20)} that ${schema.source} has.`,
-      `Add ${absent.length > 1 ? "them" : "it"}: a file read alongside ${schema.source} needs its feature and id columns.`
-    );
-  }
-  const target = schema.target;
-  const targetColumn = target === void 0 ? void 0 : columnIndex.get(target.name);
-  if (options.requireTarget ?? true) {
-    if (target === void 0) failNoTargetNamed(source);
-    if (targetColumn === void 0) failMissingTarget(source, target.name, header);
-  }
-  const known = /* @__PURE__ */ new Set([...needed, ...target ? [target.name] : []]);
-  const extraColumns = header.map((h) => h.trim()).filter((name) => !known.has(name) && options.roles?.[name] !== "ignore");
-  return {
-    features: schema.features.map((f) => ({ name: f.name, column: columnIndex.get(f.name), kind: f.kind, ...f.categories ? { categories: f.categories } : {} })),
-    ...schema.idColumn === void 0 ? {} : { idColumn: columnIndex.get(schema.idColumn) },
-    ...target && targetColumn !== void 0 ? { target: { ...target, column: targetColumn } } : {},
-    extraColumns,
-    numericReason: `the column is numeric in ${schema.source}`
-  };
-}
-var NATURAL_NEGATIVES = /* @__PURE__ */ new Map([
-  ["0", "1"],
-  ["false", "true"],
-  ["no", "yes"]
-]);
-function orderClasses(a, b) {
-  if (NATURAL_NEGATIVES.get(a.toLowerCase()) === b.toLowerCase()) return [a, b];
-  if (NATURAL_NEGATIVES.get(b.toLowerCase()) === a.toLowerCase()) return [b, a];
-  const x = parseNumber(a);
-  const y = parseNumber(b);
-  if (x !== void 0 && y !== void 0 && x !== y) return x < y ? [a, b] : [b, a];
-  return compareText(a, b) < 0 ? [a, b] : [b, a];
-}
-function readTarget(source, plan, values, lineOf, schemaSource) {
-  const column = plan.name;
-  values.forEach((v, i) => {
-    if (isMissing(v)) {
-      throw new UserError(
-        `${at(source, lineOf(i), column)}: the target is missing (${v === "" ? "the cell is empty" : `the cell is ${show(v)}`}).`,
-        "Fill in the target or delete the row: a row without a target cannot be scored."
-      );
-    }
-  });
-  const distinct = [...new Set(values)];
-  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => looksNumeric(v)) ? "binary" : "regression");
-  if (task === "regression") {
-    const out2 = new Float64Array(values.length);
-    values.forEach((v, i) => {
-      out2[i] = parseNumber(v) ?? failNumber(source, lineOf(i), column, v, "the target of a regression must be one");
-    });
-    return { name: column, values: out2 };
-  }
-  let classes = plan.classes;
-  if (classes === void 0) {
-    if (distinct.length === 1) {
-      throw new UserError(
-        `${source}, column ${show(column)}: a binary target needs two classes, but every row has ${show(distinct[0])}.`,
-        "Check that the file holds rows of both outcomes and that the right column is the target."
-      );
-    }
-    if (distinct.length > 2) {
-      throw new UserError(
-        `${source}, column ${show(column)}: a binary target needs exactly two classes, found ${distinct.length}: ${listNames(distinct, 5)}.`,
-        "Write the target with two values, or choose the regression task if it is a number."
-      );
-    }
-    classes = orderClasses(distinct[0], distinct[1]);
-  }
-  const out = new Float64Array(values.length);
-  values.forEach((v, i) => {
-    if (v === classes[1]) out[i] = 1;
-    else if (v === classes[0]) out[i] = 0;
-    else {
-      throw new UserError(
-        `${at(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
-        `Use the same two class labels as ${schemaSource}.`
-      );
-    }
-  });
-  return { name: column, values: out, classes };
-}
-
-// src/core/statistics/random.ts
-function splitmix32(state) {
-  let z3 = state + 2654435769 | 0;
-  z3 = Math.imul(z3 ^ z3 >>> 16, 2246822507);
-  z3 = Math.imul(z3 ^ z3 >>> 13, 3266489909);
-  return (z3 ^ z3 >>> 16) >>> 0;
-}
-function deriveSeed(seed, ...labels) {
-  let h = 2166136261 ^ seed >>> 0;
-  for (const ch of labels.join("\0")) {
-    h ^= ch.codePointAt(0);
-    h = Math.imul(h, 16777619);
-  }
-  return splitmix32(h ^ Math.imul(seed >>> 0, 2654435761));
-}
-function createRandom(seed) {
-  if (!Number.isFinite(seed)) throw new RangeError(`createRandom needs a finite seed, got ${seed}`);
-  const seed32 = Math.trunc(seed) >>> 0;
-  let s = seed32;
-  const state = new Uint32Array(4);
-  for (let i = 0; i < 4; i++) {
-    s = s + 2654435769 >>> 0;
-    state[i] = splitmix32(s);
-  }
-  if ((state[0] | state[1] | state[2] | state[3]) === 0) state[0] = 1;
-  let spareNormal = NaN;
-  function nextUint32() {
-    const result = Math.imul(rotl(Math.imul(state[1], 5), 7), 9) >>> 0;
-    const t = state[1] << 9;
-    state[2] ^= state[0];
-    state[3] ^= state[1];
-    state[1] ^= state[2];
-    state[0] ^= state[3];
-    state[2] ^= t;
-    state[3] = rotl(state[3], 11);
-    return result;
-  }
-  return {
-    seed: seed32,
-    next: () => nextUint32() / 4294967296,
-    int(n) {
-      if (!(n >= 1) || n > 4294967296 || !Number.isInteger(n)) {
-        throw new RangeError(`int needs a whole number from 1 to 2^32, got ${n}`);
-      }
-      const limit = 4294967296 - 4294967296 % n;
-      let x = nextUint32();
-      while (x >= limit) x = nextUint32();
-      return x % n;
-    },
-    normal() {
-      if (!Number.isNaN(spareNormal)) {
-        const value = spareNormal;
-        spareNormal = NaN;
-        return value;
-      }
-      let u = 0;
-      while (u === 0) u = nextUint32() / 4294967296;
-      const v = nextUint32() / 4294967296;
-      const radius = Math.sqrt(-2 * Math.log(u));
-      spareNormal = radius * Math.sin(2 * Math.PI * v);
-      return radius * Math.cos(2 * Math.PI * v);
-    }
-  };
-}
-function rotl(x, k) {
-  return (x << k | x >>> 32 - k) >>> 0;
-}
-function shuffledIndices(n, random) {
-  const order3 = new Uint32Array(n);
-  for (let i = 0; i < n; i++) order3[i] = i;
-  for (let i = n - 1; i > 0; i--) {
-    const j = random.int(i + 1);
-    const tmp = order3[i];
-    order3[i] = order3[j];
-    order3[j] = tmp;
-  }
-  return order3;
-}
-
-// src/core/data/dataset.ts
-function selectRows(data, indices) {
-  const take = (values) => {
-    const out = new Float64Array(indices.length);
-    for (let i = 0; i < indices.length; i++) out[i] = values[indices[i]];
-    return out;
-  };
-  const result = {
-    ...data,
-    rows: indices.length,
-    columns: data.columns.map(take)
-  };
-  if (data.target) result.target = { ...data.target, values: take(data.target.values) };
-  if (data.ids) result.ids = { ...data.ids, values: Array.from(indices, (i) => data.ids.values[i]) };
-  return result;
-}
-function selectFeatures(data, names) {
-  const index = new Map(data.features.map((f, j) => [f.name, j]));
-  const picked = names.map((name) => {
-    const j = index.get(name);
-    if (j === void 0) throw new RangeError(`selectFeatures: no feature named '${name}'`);
-    return j;
-  });
-  const result = {
-    ...data,
-    features: picked.map((j) => data.features[j]),
-    columns: picked.map((j) => data.columns[j])
-  };
-  if ("missing" in data && Array.isArray(data.missing)) {
-    result.missing = picked.map((j) => data.missing[j]);
-  }
-  return result;
-}
-
-// src/core/data/fnv1a32.ts
-function fnv1a32(bytes, basis = 2166136261) {
-  let h = basis >>> 0;
-  for (let i = 0; i < bytes.length; i++) {
-    h ^= bytes[i];
-    h = Math.imul(h, 16777619);
-  }
-  return h >>> 0;
-}
-
-// src/core/data/split-rows.ts
-function splitRows(dataset, options) {
-  const { fraction, seed, by } = options;
-  if (!(fraction > 0 && fraction < 1)) throw new RangeError(`splitRows needs a fraction between 0 and 1 (exclusive), got ${fraction}`);
-  if (!Number.isFinite(seed)) throw new RangeError(`splitRows needs a finite seed, got ${seed}`);
-  const isHoldout = new Uint8Array(dataset.rows);
-  if (by === void 0) {
-    const order3 = shuffledIndices(dataset.rows, createRandom(seed));
-    const holdoutRows = Math.round(fraction * dataset.rows);
-    for (let k = 0; k < holdoutRows; k++) isHoldout[order3[k]] = 1;
-  } else {
-    if (dataset.ids?.name !== by) {
-      throw new UserError(
-        `Cannot split ${dataset.source} by '${by}': ${dataset.ids ? `the id column is '${dataset.ids.name}'` : "it has no id column"}.`,
-        `Give the column '${by}' the role 'id', or split without naming a column.`
-      );
-    }
-    const threshold = fraction * 4294967296;
-    const encoder = new TextEncoder();
-    const s = seed >>> 0;
-    const seedBytes = Uint8Array.of(s & 255, s >>> 8 & 255, s >>> 16 & 255, s >>> 24);
-    const seedState = fnv1a32(seedBytes);
-    dataset.ids.values.forEach((id, i) => {
-      isHoldout[i] = fmix32(fnv1a32(encoder.encode(id), seedState)) < threshold ? 1 : 0;
-    });
-  }
-  const holdoutIndices = [];
-  const trainIndices = [];
-  for (let i = 0; i < dataset.rows; i++) (isHoldout[i] ? holdoutIndices : trainIndices).push(i);
-  for (const [side2, indices] of [["training part", trainIndices], ["holdout", holdoutIndices]]) {
-    if (indices.length === 0) {
-      const count3 = by === void 0 ? dataset.rows : new Set(dataset.ids.values).size;
-      const what = `its ${count3} ${by === void 0 ? "row" : "distinct id"}${count3 === 1 ? "" : "s"}`;
-      throw new UserError(
-        `Splitting ${dataset.source} with a holdout fraction of ${fraction} leaves the ${side2} empty (${what}).`,
-        "Use a fraction further from 0 and 1, or more data."
-      );
-    }
-  }
-  return { train: side(dataset, trainIndices), holdout: side(dataset, holdoutIndices) };
-}
-function fmix32(h) {
-  h ^= h >>> 16;
-  h = Math.imul(h, 2246822507);
-  h ^= h >>> 13;
-  h = Math.imul(h, 3266489909);
-  h ^= h >>> 16;
-  return h >>> 0;
-}
-function side(dataset, indices) {
-  const { unseenCategories: _dropped, ...rest } = selectRows(dataset, indices);
-  return {
-    ...rest,
-    missing: rest.columns.map((column) => column.reduce((n, v) => Number.isNaN(v) ? n + 1 : n, 0))
-  };
-}
-
-// src/core/data/side-data.ts
-function sideDataFiles(config2) {
-  const files = [{ role: "train", path: config2.data.train, key: "data.train", requireTarget: true, conformToTrain: false }];
-  if (config2.data.holdout.kind === "file") {
-    files.push({ role: "holdout", path: config2.data.holdout.path, key: "data.holdout", requireTarget: true, conformToTrain: true });
-  }
-  if (config2.data.reference.kind === "file") {
-    files.push({ role: "reference", path: config2.data.reference.path, key: "data.reference", requireTarget: false, conformToTrain: true });
-  }
-  return files;
-}
-function assembleSideData(config2, tables) {
-  const all = tables.train;
-  if (!all) throw new RangeError("assembleSideData needs the training table");
-  let train3 = all;
-  let holdout;
-  if (config2.data.holdout.kind === "split") {
-    const split = splitRows(all, { fraction: config2.data.holdout.fraction, seed: config2.seed, by: config2.data.holdout.by });
-    train3 = split.train;
-    holdout = split.holdout;
-  } else {
-    if (!tables.holdout) throw new RangeError("assembleSideData needs the holdout table the policy names");
-    holdout = tables.holdout;
-  }
-  const reference = config2.data.reference.kind === "train" ? train3 : config2.data.reference.kind === "holdout" ? holdout : tables.reference;
-  if (!reference) throw new RangeError("assembleSideData needs the reference table the policy names");
-  return { train: train3, holdout, reference };
-}
-
-// src/core/policy/parse-policy.ts
-var import_yaml = __toESM(require_dist(), 1);
 
 // node_modules/zod/v4/classic/external.js
 var external_exports = {};
@@ -19874,7 +17492,7 @@ __export(external_exports, {
   optional: () => optional,
   output: () => output,
   overwrite: () => _overwrite,
-  parse: () => parse3,
+  parse: () => parse2,
   parseAsync: () => parseAsync2,
   partialRecord: () => partialRecord,
   pipe: () => pipe,
@@ -19914,7 +17532,7 @@ __export(external_exports, {
   toLowerCase: () => _toLowerCase,
   toUpperCase: () => _toUpperCase,
   toZod: () => toZod,
-  transform: () => transform2,
+  transform: () => transform,
   treeifyError: () => treeifyError,
   trim: () => _trim,
   tuple: () => tuple,
@@ -20226,7 +17844,7 @@ __export(core_exports2, {
   memoizer: () => memoizer,
   mergeValues: () => mergeValues,
   meta: () => meta,
-  parse: () => parse2,
+  parse: () => parse,
   parseAsync: () => parseAsync,
   parseURLObject: () => parseURLObject,
   prettifyError: () => prettifyError,
@@ -20903,14 +18521,14 @@ function codePointLength(str) {
   const units = str.length;
   if (!highSurrogate.test(str))
     return units;
-  let count3 = units;
+  let count4 = units;
   for (let i = 0; i < units - 1; i++) {
     if ((str.charCodeAt(i) & 64512) === 55296 && (str.charCodeAt(i + 1) & 64512) === 56320) {
-      count3--;
+      count4--;
       i++;
     }
   }
-  return count3;
+  return count4;
 }
 function getLengthableOrigin(input2) {
   if (Array.isArray(input2))
@@ -21446,7 +19064,7 @@ var _parse = (_Err) => {
   };
   return fn;
 };
-var parse2 = /* @__PURE__ */ _parse($ZodRealError);
+var parse = /* @__PURE__ */ _parse($ZodRealError);
 var _parseAsync = (_Err) => {
   const fn = async (schema, value, _ctx, params) => {
     const ctx = _ctx ? { ..._ctx, async: true } : { async: true };
@@ -24599,10 +22217,10 @@ var $ZodFunction = /* @__PURE__ */ $constructor("$ZodFunction", (inst, def) => {
       throw new Error("implement() must be called with a function");
     }
     return Object.defineProperty(function(...args) {
-      const parsedArgs = inst._def.input ? parse2(inst._def.input, args) : args;
+      const parsedArgs = inst._def.input ? parse(inst._def.input, args) : args;
       const result = Reflect.apply(func, this, parsedArgs);
       if (inst._def.output) {
-        return parse2(inst._def.output, result);
+        return parse(inst._def.output, result);
       }
       return result;
     }, "_zod", { value: inst._zod, enumerable: false });
@@ -25293,8 +22911,8 @@ function az_default() {
 }
 
 // node_modules/zod/v4/locales/be.js
-function getBelarusianPlural(count3, one, few, many) {
-  const absCount = Math.abs(count3);
+function getBelarusianPlural(count4, one, few, many) {
+  const absCount = Math.abs(count4);
   const lastDigit = absCount % 10;
   const lastTwoDigits = absCount % 100;
   if (lastTwoDigits >= 11 && lastTwoDigits <= 19) {
@@ -27941,8 +25559,8 @@ function hu_default() {
 }
 
 // node_modules/zod/v4/locales/hy.js
-function getArmenianPlural(count3, one, many) {
-  return Math.abs(count3) === 1 ? one : many;
+function getArmenianPlural(count4, one, many) {
+  return Math.abs(count4) === 1 ? one : many;
 }
 function withDefiniteArticle(word) {
   if (!word)
@@ -29026,8 +26644,8 @@ function ko_default() {
 }
 
 // node_modules/zod/v4/locales/lt.js
-var capitalizeFirstCharacter = (text2) => {
-  return text2.charAt(0).toUpperCase() + text2.slice(1);
+var capitalizeFirstCharacter = (text3) => {
+  return text3.charAt(0).toUpperCase() + text3.slice(1);
 };
 function getUnitTypeFromNumber(number4) {
   const abs = Math.abs(number4);
@@ -30680,8 +28298,8 @@ function ro_default() {
 }
 
 // node_modules/zod/v4/locales/ru.js
-function getRussianPlural(count3, one, few, many) {
-  const absCount = Math.abs(count3);
+function getRussianPlural(count4, one, few, many) {
+  const absCount = Math.abs(count4);
   const lastDigit = absCount % 10;
   const lastTwoDigits = absCount % 100;
   if (lastTwoDigits >= 11 && lastTwoDigits <= 19) {
@@ -35881,8 +33499,8 @@ var contributors = {
 function aggregateChecks(schema) {
   const agg = {};
   const def = schema._zod.def;
-  const list2 = schema._zod.traits.has("$ZodCheck") ? [schema, ...def.checks ?? []] : def.checks ?? [];
-  for (const ch of list2)
+  const list3 = schema._zod.traits.has("$ZodCheck") ? [schema, ...def.checks ?? []] : def.checks ?? [];
+  for (const ch of list3)
     contributors[ch._zod.def.check]?.(agg, ch._zod.def);
   const bag = schema._zod.bag;
   if (bag.minimum !== void 0)
@@ -36329,8 +33947,8 @@ function rewriteKeyNames(ctx) {
       bySchema.set(entry.schema, entry);
   }
   const rewrites = /* @__PURE__ */ new Map();
-  for (const record2 of pendingRecords.get(ctx) ?? []) {
-    const seen = ctx.seen.get(record2);
+  for (const record3 of pendingRecords.get(ctx) ?? []) {
+    const seen = ctx.seen.get(record3);
     const names = (seen?.def ?? seen?.schema)?.propertyNames;
     if (!names || names === true || rewrites.has(names))
       continue;
@@ -36809,7 +34427,7 @@ __export(schemas_exports2, {
   superRefine: () => superRefine,
   symbol: () => symbol,
   templateLiteral: () => templateLiteral,
-  transform: () => transform2,
+  transform: () => transform,
   tuple: () => tuple,
   uint32: () => uint32,
   uint64: () => uint64,
@@ -36909,7 +34527,7 @@ var ZodRealError = /* @__PURE__ */ $constructor("ZodError", initializer2, void 0
 });
 
 // node_modules/zod/v4/classic/parse.js
-var parse3 = /* @__PURE__ */ _parse(ZodRealError);
+var parse2 = /* @__PURE__ */ _parse(ZodRealError);
 var parseAsync2 = /* @__PURE__ */ _parseAsync(ZodRealError);
 var safeParse2 = /* @__PURE__ */ _safeParse(ZodRealError);
 var safeParseAsync2 = /* @__PURE__ */ _safeParseAsync(ZodRealError);
@@ -36994,7 +34612,7 @@ var ZodType = /* @__PURE__ */ $constructor("ZodType", (inst, def) => {
     return intersection(this, arg);
   },
   transform(tx) {
-    return pipe(this, transform2(tx));
+    return pipe(this, transform(tx));
   },
   default(d) {
     return _default2(this, d);
@@ -37046,7 +34664,7 @@ var ZodType = /* @__PURE__ */ $constructor("ZodType", (inst, def) => {
     util_exports.own(this, "~standard", value);
   },
   parse: function _parse2(data, params) {
-    return parse3(this, data, params, { callee: _parse2 });
+    return parse2(this, data, params, { callee: _parse2 });
   },
   parseAsync: async function _parseAsync2(data, params) {
     return await parseAsync2(this, data, params, { callee: _parseAsync2 });
@@ -38090,7 +35708,7 @@ var ZodTransform = /* @__PURE__ */ $constructor("ZodTransform", (inst, def) => {
     return payload;
   };
 });
-function transform2(fn) {
+function transform(fn) {
   return new ZodTransform({
     type: "transform",
     transform: fn
@@ -38382,7 +36000,7 @@ function json(params) {
 function preprocess(fn, schema) {
   return new ZodPreprocess({
     type: "pipe",
-    in: transform2(fn),
+    in: transform(fn),
     out: schema
   });
 }
@@ -39393,15 +37011,2545 @@ function date4(params) {
   return _coercedDate(ZodDate, params);
 }
 
+// src/core/report/report-schema.ts
+var reportLimits = {
+  /** Feature and group names, titles, headline, refs, descriptions, every short string. */
+  maxTextLength: 2e3,
+  /** A finding's message: a run error's message may carry a stack trace. */
+  maxMessageLength: 1e4,
+  /** Any array: features, findings, per-refit values, the reseed null. */
+  maxItems: 1e5,
+  /** Keys of one record (evidence, checks, one check's settings, timings). */
+  maxKeys: 1e3,
+  maxKeyLength: 200
+};
+var text = external_exports.string().max(reportLimits.maxTextLength);
+var finite = external_exports.number();
+var undefinedNumber = external_exports.number().nullable().transform((value) => value ?? NaN).meta({ description: "null when the statistic is undefined; read as NaN" });
+var count = external_exports.int().min(0);
+var uint322 = external_exports.int().min(0).max(4294967295);
+var list = (item) => external_exports.array(item).max(reportLimits.maxItems);
+var recordKey = external_exports.string().max(reportLimits.maxKeyLength).meta({ not: { const: "__proto__" } });
+var record2 = (value) => external_exports.record(recordKey, value).refine((entries) => Object.keys(entries).length <= reportLimits.maxKeys, {
+  message: `at most ${reportLimits.maxKeys} keys are allowed`
+}).meta({ maxProperties: reportLimits.maxKeys });
+var evidenceSchema = record2(external_exports.union([finite, text, external_exports.boolean(), external_exports.null()])).meta({ id: "Evidence" });
+var findingSchema = external_exports.strictObject({
+  kind: external_exports.enum([
+    "leakage",
+    "rank-shift",
+    "rank-agreement",
+    "score-regression",
+    "holdout-rows",
+    "feature-set",
+    "floor-drop",
+    "unused-feature",
+    "policy-changed",
+    "noise-model",
+    "run-error"
+  ]),
+  severity: external_exports.enum(["block", "warn", "info"]),
+  feature: text.optional(),
+  title: text,
+  message: external_exports.string().max(reportLimits.maxMessageLength),
+  evidence: evidenceSchema
+}).meta({ id: "Finding" });
+var sideImportanceSchema = external_exports.strictObject({
+  mean: finite,
+  lower: undefinedNumber,
+  upper: undefinedNumber,
+  refitSd: undefinedNumber,
+  drawSd: undefinedNumber,
+  rank: external_exports.int().min(1),
+  share: undefinedNumber,
+  isAboveFloor: external_exports.boolean(),
+  perRefit: list(finite),
+  singleFeatureScore: undefinedNumber.optional()
+}).meta({ id: "SideImportance" });
+var featureRowSchema = external_exports.strictObject({
+  name: text,
+  isGroup: external_exports.boolean(),
+  members: list(text).optional(),
+  presence: external_exports.enum(["both", "added", "removed"]),
+  kind: external_exports.enum(["numeric", "categorical", "group"]).optional(),
+  base: sideImportanceSchema.optional(),
+  head: sideImportanceSchema.optional(),
+  shift: external_exports.strictObject({
+    meanDifference: finite,
+    welchT: undefinedNumber,
+    welchDf: undefinedNumber,
+    pValue: undefinedNumber,
+    adjustedPValue: undefinedNumber,
+    isSignificant: external_exports.boolean(),
+    positionsMoved: external_exports.int().nullable()
+  }).optional()
+}).meta({ id: "FeatureRow" });
+var sideSummarySchema = external_exports.strictObject({
+  side: external_exports.enum(["base", "head"]),
+  ref: text,
+  commit: text.nullable(),
+  trainRows: count,
+  holdoutRows: count,
+  evaluationRows: count,
+  referenceRows: count,
+  features: list(external_exports.strictObject({ name: text, kind: external_exports.enum(["numeric", "categorical"]) })),
+  model: external_exports.strictObject({ kind: text, description: text }),
+  scores: list(finite),
+  scoreMean: finite,
+  scoreSd: undefinedNumber,
+  refitSeeds: list(uint322),
+  noiseCovers: external_exports.enum(["refits-and-draws", "draws-only"])
+}).meta({ id: "SideSummary" });
+var rankAgreementSchema = external_exports.strictObject({
+  kendallTau: undefinedNumber,
+  rankBiasedOverlap: undefinedNumber,
+  persistence: finite,
+  nullKendallTau: list(undefinedNumber),
+  nullRankBiasedOverlap: list(undefinedNumber),
+  kendallTauThreshold: undefinedNumber,
+  rankBiasedOverlapThreshold: undefinedNumber,
+  featuresCompared: count
+}).meta({ id: "RankAgreement" });
+var gateReportSchema = external_exports.strictObject({
+  schemaVersion: external_exports.literal(1),
+  tool: external_exports.strictObject({ name: external_exports.literal("plumbline"), version: text }),
+  verdict: external_exports.enum(["pass", "warn", "block", "error"]),
+  headline: text,
+  findings: list(findingSchema),
+  features: list(featureRowSchema),
+  featureSet: external_exports.strictObject({
+    added: list(text),
+    removed: list(text),
+    kindChanged: list(external_exports.strictObject({ name: text, base: text, head: text }))
+  }),
+  agreement: rankAgreementSchema.nullable(),
+  sides: external_exports.strictObject({ base: sideSummarySchema, head: sideSummarySchema }).nullable(),
+  settings: external_exports.strictObject({
+    task: external_exports.enum(["binary", "regression"]),
+    target: text,
+    metric: text,
+    higherIsBetter: external_exports.boolean(),
+    draws: count,
+    refits: count,
+    seed: uint322,
+    policySource: text,
+    policyFrom: external_exports.literal("head"),
+    checks: record2(evidenceSchema)
+  }),
+  timings: record2(external_exports.number().min(0)),
+  caution: text.min(1)
+}).meta({
+  title: "plumbline GateReport, schema version 1",
+  description: "The JSON report plumbline writes; docs/report-json.md describes every field."
+});
+
+// src/core/report/fit-report-limits.ts
+function fitReportLimits(report) {
+  return fit(report, null);
+}
+function cut(text3, max) {
+  return text3.length <= max ? text3 : `${text3.slice(0, max - 1)}…`;
+}
+function fit(value, key2) {
+  if (typeof value === "string") return cut(value, key2 === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
+  if (Array.isArray(value)) return value.slice(0, reportLimits.maxItems).map((item) => fit(item, null));
+  if (value === null || typeof value !== "object" || ArrayBuffer.isView(value)) return value;
+  const out = {};
+  for (const [name, item] of Object.entries(value).slice(0, reportLimits.maxKeys)) out[cut(name, reportLimits.maxKeyLength)] = fit(item, name);
+  return out;
+}
+
+// src/core/report/render-text.ts
+var length = (text3) => [...text3].length;
+function wrap(text3, width, indent, hangingIndent = indent) {
+  const lines = [];
+  let line = "";
+  for (const word of escapePlainText(text3).split(" ").filter((w) => w !== "")) {
+    const lead = lines.length === 0 ? indent : hangingIndent;
+    if (line !== "" && length(lead) + length(line) + 1 + length(word) > width) {
+      lines.push(lead + line);
+      line = word;
+    } else {
+      line = line === "" ? word : `${line} ${word}`;
+    }
+  }
+  if (line !== "") lines.push((lines.length === 0 ? indent : hangingIndent) + line);
+  return lines;
+}
+function renderTable2(table, width, indent) {
+  const gap = "  ";
+  const body = table.rows.map((row) => row.map(escapePlainText));
+  const header = table.header.map(escapePlainText);
+  const widest = (j) => Math.max(0, ...body.map((row) => length(row[j] ?? "")));
+  const span = (widths2) => length(indent) + widths2.reduce((sum2, w) => sum2 + w, 0) + gap.length * (widths2.length - 1);
+  let widths = header.map((name, j) => Math.max(widest(j), length(name)));
+  let headerLines = header.map((name) => [name]);
+  if (span(widths) > width) {
+    widths = header.map((name, j) => {
+      let w = Math.max(widest(j), ...name.split(" ").map(length));
+      while (wrap(name, w, "").length > 2) w++;
+      return w;
+    });
+    headerLines = header.map((name, j) => wrap(name, widths[j], ""));
+  }
+  const depth = Math.max(...headerLines.map((lines) => lines.length));
+  const line = (row) => (indent + row.map((cell, j) => {
+    const pad = " ".repeat(Math.max(0, widths[j] - length(cell)));
+    return table.align[j] === "right" ? pad + cell : cell + pad;
+  }).join(gap)).trimEnd();
+  const headerRows = Array.from(
+    { length: depth },
+    (_, k) => headerLines.map((lines) => lines[k - (depth - lines.length)] ?? "")
+  );
+  return [...headerRows.map(line), indent + widths.map((w) => "-".repeat(w)).join(gap), ...body.map(line)];
+}
+function section(title, body) {
+  return [title, ...body].join("\n");
+}
+function renderError2(report, width) {
+  const messages = sortFindings(report.findings).filter((finding) => finding.kind === "run-error");
+  const blocks = messages.map(
+    (finding) => finding.message.split(/\r\n|\n|\r/).map((line) => `    ${escapePlainText(line)}`.trimEnd()).join("\n")
+  );
+  return [
+    "plumbline: error, no verdict",
+    wrap(report.headline, width, "").join("\n"),
+    wrap(noVerdictStatement, width, "").join("\n"),
+    ...blocks.length > 0 ? blocks : ["The report holds no run-error finding to show."],
+    wrap(reportCaution, width, "").join("\n")
+  ].join("\n\n");
+}
+function renderText(report, options = {}) {
+  const width = options.width ?? 100;
+  const maxTableRows = options.maxTableRows ?? 50;
+  if (!Number.isInteger(width) || width < 40) {
+    throw new RangeError(`renderText needs width to be a whole number of at least 40, got ${width}`);
+  }
+  if (!Number.isInteger(maxTableRows) || maxTableRows < 1) {
+    throw new RangeError(`renderText needs maxTableRows to be a whole number of at least 1, got ${maxTableRows}`);
+  }
+  if (report.verdict === "error") return renderError2(report, width);
+  const tables = tabulateReport(report);
+  const table = (t) => renderTable2(t, width, "  ");
+  const longTable = (t) => table(limitRows(t, maxTableRows));
+  const findings = tables.findings.length === 0 ? section("Findings", ["  None."]) : section(
+    `Findings (${formatCount(tables.findings.length)})`,
+    tables.findings.flatMap((finding) => [
+      ...wrap(`${finding.severity}: ${finding.title} (${finding.about})`, width, "  ", "      "),
+      ...wrap(finding.message, width, "      "),
+      ...finding.evidence.length > 0 ? wrap(`evidence: ${limitItems(finding.evidence, maxTableRows).join("; ")}`, width, "      ") : []
+    ])
+  );
+  const features = tables.features.rows.length === 0 ? section("Feature importance", ["  No features were measured."]) : section("Feature importance", [...wrap(importanceNote, width, "  "), "", ...longTable(tables.features)]);
+  const { added, removed, kindChanged, unchangedCount } = tables.featureSet;
+  const names = (label, list3) => list3.length === 0 ? [] : wrap(`${label} (${formatCount(list3.length)}): ${limitItems(list3, maxTableRows).join(", ")}`, width, "  ");
+  const featureSet = section(
+    "Feature set",
+    unchangedCount !== null ? [`  The same ${formatCount(unchangedCount)} features on both sides.`] : [...names("Added", added), ...names("Removed", removed), ...names("Changed kind", kindChanged)]
+  );
+  const agreement = section(
+    "Rank agreement",
+    tables.agreement ? [...table(tables.agreement.table), "", ...wrap(tables.agreement.note, width, "  ")] : wrap(agreementMissingNote, width, "  ")
+  );
+  const details = [
+    ...tables.sides && tables.scores ? [section("Models and holdout scores per refit", [...table(tables.sides), "", ...longTable(tables.scores)])] : [],
+    ...tables.seeds ? [section("Refit seeds", longTable(tables.seeds))] : [],
+    section("Settings and check thresholds", [
+      ...table(tables.settings),
+      ...tables.checks.rows.length > 0 ? ["", ...longTable(tables.checks)] : []
+    ]),
+    section(
+      "Timings (wall-clock seconds; they vary from run to run)",
+      tables.timings.rows.length > 0 ? longTable(tables.timings) : ["  None recorded."]
+    )
+  ];
+  return [
+    tables.heading,
+    wrap(report.headline, width, "").join("\n"),
+    findings,
+    features,
+    featureSet,
+    agreement,
+    ...details,
+    wrap(reportCaution, width, "").join("\n")
+  ].join("\n\n");
+}
+
+// src/adapters/check/run-check.ts
+import { isAbsolute as isAbsolute2, relative as relative2, resolve as resolve4 } from "node:path";
+
+// node_modules/csv-parse/lib/api/CsvError.js
+var CsvError = class _CsvError extends Error {
+  constructor(code2, message, options, ...contexts) {
+    if (Array.isArray(message)) message = message.join(" ").trim();
+    super(message);
+    if (Error.captureStackTrace !== void 0) {
+      Error.captureStackTrace(this, _CsvError);
+    }
+    this.code = code2;
+    for (const context of contexts) {
+      for (const key2 in context) {
+        const value = context[key2];
+        this[key2] = Buffer.isBuffer(value) ? value.toString(options.encoding) : value == null ? value : JSON.parse(JSON.stringify(value));
+      }
+    }
+  }
+};
+
+// node_modules/csv-parse/lib/utils/is_object.js
+var is_object = function(obj) {
+  return typeof obj === "object" && obj !== null && !Array.isArray(obj);
+};
+
+// node_modules/csv-parse/lib/api/normalize_columns_array.js
+var normalize_columns_array = function(columns) {
+  const normalizedColumns = [];
+  for (let i = 0, l = columns.length; i < l; i++) {
+    const column = columns[i];
+    if (column === void 0 || column === null || column === false) {
+      normalizedColumns[i] = { disabled: true };
+    } else if (typeof column === "string" || typeof column === "number") {
+      normalizedColumns[i] = { name: `${column}` };
+    } else if (is_object(column)) {
+      if (typeof column.name !== "string") {
+        throw new CsvError("CSV_OPTION_COLUMNS_MISSING_NAME", [
+          "Option columns missing name:",
+          `property "name" is required at position ${i}`,
+          "when column is an object literal"
+        ]);
+      }
+      normalizedColumns[i] = column;
+    } else {
+      throw new CsvError("CSV_INVALID_COLUMN_DEFINITION", [
+        "Invalid column definition:",
+        "expect a string or a literal object,",
+        `got ${JSON.stringify(column)} at position ${i}`
+      ]);
+    }
+  }
+  return normalizedColumns;
+};
+
+// node_modules/csv-parse/lib/utils/ResizeableBuffer.js
+var ResizeableBuffer = class {
+  constructor(size = 100) {
+    this.size = size;
+    this.length = 0;
+    this.buf = Buffer.allocUnsafe(size);
+  }
+  prepend(val) {
+    if (Buffer.isBuffer(val)) {
+      const length2 = this.length + val.length;
+      if (length2 >= this.size) {
+        this.resize();
+        if (length2 >= this.size) {
+          throw Error("INVALID_BUFFER_STATE");
+        }
+      }
+      const buf = this.buf;
+      this.buf = Buffer.allocUnsafe(this.size);
+      val.copy(this.buf, 0);
+      buf.copy(this.buf, val.length);
+      this.length += val.length;
+    } else {
+      const length2 = this.length++;
+      if (length2 === this.size) {
+        this.resize();
+      }
+      const buf = this.clone();
+      this.buf[0] = val;
+      buf.copy(this.buf, 1, 0, length2);
+    }
+  }
+  append(val) {
+    const length2 = this.length++;
+    if (length2 === this.size) {
+      this.resize();
+    }
+    this.buf[length2] = val;
+  }
+  clone() {
+    return Buffer.from(this.buf.slice(0, this.length));
+  }
+  resize() {
+    const length2 = this.length;
+    this.size = this.size * 2;
+    const buf = Buffer.allocUnsafe(this.size);
+    this.buf.copy(buf, 0, 0, length2);
+    this.buf = buf;
+  }
+  toString(encoding) {
+    if (encoding) {
+      return this.buf.toString(encoding, 0, this.length);
+    } else {
+      return Uint8Array.prototype.slice.call(this.buf.slice(0, this.length));
+    }
+  }
+  toJSON() {
+    return this.toString("utf8");
+  }
+  reset() {
+    this.length = 0;
+  }
+};
+var ResizeableBuffer_default = ResizeableBuffer;
+
+// node_modules/csv-parse/lib/api/init_state.js
+var init_state = function(options) {
+  const timchars = [
+    // Basic Latin
+    32,
+    // [Space](https://www.fileformat.info/info/unicode/char/0020/index.htm)
+    9,
+    // [CHARACTER TABULATION (HT)](https://www.fileformat.info/info/unicode/char/0009/index.htm)
+    10,
+    // [LINE FEED (LF)](https://www.fileformat.info/info/unicode/char/000a/index.htm)
+    13,
+    // [CARRIAGE RETURN (CR)](https://www.fileformat.info/info/unicode/char/000d/index.htm)
+    12,
+    // [FORM FEED (FF)](https://www.fileformat.info/info/unicode/char/000c/index.htm)
+    11,
+    // [LINE TABULATION (VT)](https://www.fileformat.info/info/unicode/char/000b/index.htm)
+    // Latin-1 Supplement
+    160,
+    // [NO-BREAK SPACE (NBSP)](https://www.fileformat.info/info/unicode/char/00a0/index.htm)
+    // Ogham
+    5760,
+    // [OGHAM SPACE MARK](https://www.fileformat.info/info/unicode/char/1680/index.htm)
+    // General Punctuation
+    8192,
+    // [EN QUAD](https://www.fileformat.info/info/unicode/char/2000/index.htm)
+    8193,
+    // [EM QUAD](https://www.fileformat.info/info/unicode/char/2001/index.htm)
+    8194,
+    // [EN SPACE](https://www.fileformat.info/info/unicode/char/2002/index.htm)
+    8195,
+    // [EM SPACE](https://www.fileformat.info/info/unicode/char/2003/index.htm)
+    8196,
+    // [THREE-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2004/index.htm)
+    8197,
+    // [FOUR-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2005/index.htm)
+    8198,
+    // [SIX-PER-EM SPACE](https://www.fileformat.info/info/unicode/char/2006/index.htm)
+    8199,
+    // [FIGURE SPACE](https://www.fileformat.info/info/unicode/char/2007/index.htm)
+    8200,
+    // [PUNCTUATION SPACE](https://www.fileformat.info/info/unicode/char/2008/index.htm)
+    8201,
+    // [THIN SPACE](https://www.fileformat.info/info/unicode/char/2009/index.htm)
+    8202,
+    // [HAIR SPACE](https://www.fileformat.info/info/unicode/char/200a/index.htm)
+    8232,
+    // [LINE SEPARATOR](https://www.fileformat.info/info/unicode/char/2028/index.htm)
+    8233,
+    // [PARAGRAPH SEPARATOR](https://www.fileformat.info/info/unicode/char/2029/index.htm)
+    8239,
+    // [NARROW NO-BREAK SPACE (NNBSP)](https://www.fileformat.info/info/unicode/char/202f/index.htm)
+    8287,
+    // [MEDIUM MATHEMATICAL SPACE (MMSP)](https://www.fileformat.info/info/unicode/char/205f/index.htm)
+    12288,
+    // [IDEOGRAPHIC SPACE](https://www.fileformat.info/info/unicode/char/3000/index.htm)
+    65279
+    // [ZERO WIDTH NO-BREAK SPACE (BOM)](https://www.fileformat.info/info/unicode/char/feff/index.htm)
+  ].reduce((acc, codepoint) => {
+    const encoded = Buffer.from(
+      String.fromCharCode(codepoint),
+      options.encoding
+    );
+    if (codepoint !== 63 && encoded.length === 1 && encoded[0] === 63) {
+      return acc;
+    }
+    acc.push(encoded);
+    return acc;
+  }, []);
+  const timcharFirstBytes = new Uint8Array(256);
+  for (const t of timchars) timcharFirstBytes[t[0]] = 1;
+  return {
+    bomSkipped: false,
+    bufBytesStart: 0,
+    castField: options.cast_function,
+    commenting: false,
+    delimiterBufPrevious: void 0,
+    delimiterDiscovered: false,
+    // Current error encountered by a record
+    error: void 0,
+    enabled: options.from_line === 1,
+    escaping: false,
+    escapeIsQuote: Buffer.isBuffer(options.escape) && Buffer.isBuffer(options.quote) && Buffer.compare(options.escape, options.quote) === 0,
+    // columns can be `false`, `true`, `Array`
+    expectedRecordLength: Array.isArray(options.columns) ? options.columns.length : void 0,
+    field: new ResizeableBuffer_default(20),
+    firstLineToHeaders: options.cast_first_line_to_header,
+    needMoreDataSize: Math.max(
+      // Skip if the remaining buffer smaller than comment
+      options.comment !== null ? options.comment.length : 0,
+      ...options.delimiter ? options.delimiter.map((delimiter) => delimiter.length) : [],
+      // Auto discovery of delimiter is limited to 1 character
+      options.delimiter_auto ? 1 : 0,
+      // Skip if the remaining buffer can be escape sequence
+      options.quote !== null ? options.quote.length : 0,
+      ...timchars.map((t) => t.length)
+    ),
+    previousBuf: void 0,
+    quoting: false,
+    stop: false,
+    rawBuffer: new ResizeableBuffer_default(100),
+    record: [],
+    recordHasError: false,
+    record_length: 0,
+    recordDelimiterMaxLength: options.record_delimiter.length === 0 ? 0 : Math.max(...options.record_delimiter.map((v) => v.length)),
+    trimChars: [
+      Buffer.from(" ", options.encoding)[0],
+      Buffer.from("	", options.encoding)[0]
+    ],
+    wasQuoting: false,
+    wasRowDelimiter: false,
+    timchars,
+    timcharFirstBytes
+  };
+};
+
+// node_modules/csv-parse/lib/utils/underscore.js
+var underscore = function(str) {
+  return str.replace(/([A-Z])/g, function(_, match) {
+    return "_" + match.toLowerCase();
+  });
+};
+
+// node_modules/csv-parse/lib/api/normalize_options.js
+var normalize_options = function(opts) {
+  const options = {};
+  for (const opt in opts) {
+    options[underscore(opt)] = opts[opt];
+  }
+  if (options.encoding === void 0 || options.encoding === true) {
+    options.encoding = "utf8";
+  } else if (options.encoding === null || options.encoding === false) {
+    options.encoding = null;
+  } else if (typeof options.encoding !== "string" && options.encoding !== null) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_ENCODING",
+      [
+        "Invalid option encoding:",
+        "encoding must be a string or null to return a buffer,",
+        `got ${JSON.stringify(options.encoding)}`
+      ],
+      options
+    );
+  }
+  if (options.bom === void 0 || options.bom === null || options.bom === false) {
+    options.bom = false;
+  } else if (options.bom !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_BOM",
+      [
+        "Invalid option bom:",
+        "bom must be true,",
+        `got ${JSON.stringify(options.bom)}`
+      ],
+      options
+    );
+  }
+  options.cast_function = null;
+  if (options.cast === void 0 || options.cast === null || options.cast === false || options.cast === "") {
+    options.cast = void 0;
+  } else if (typeof options.cast === "function") {
+    options.cast_function = options.cast;
+    options.cast = true;
+  } else if (options.cast !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_CAST",
+      [
+        "Invalid option cast:",
+        "cast must be true or a function,",
+        `got ${JSON.stringify(options.cast)}`
+      ],
+      options
+    );
+  }
+  if (options.cast_date === void 0 || options.cast_date === null || options.cast_date === false || options.cast_date === "") {
+    options.cast_date = false;
+  } else if (options.cast_date === true) {
+    options.cast_date = function(value) {
+      const date5 = Date.parse(value);
+      return !isNaN(date5) ? new Date(date5) : value;
+    };
+  } else if (typeof options.cast_date !== "function") {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_CAST_DATE",
+      [
+        "Invalid option cast_date:",
+        "cast_date must be true or a function,",
+        `got ${JSON.stringify(options.cast_date)}`
+      ],
+      options
+    );
+  }
+  options.cast_first_line_to_header = void 0;
+  if (options.columns === true) {
+    options.cast_first_line_to_header = void 0;
+  } else if (typeof options.columns === "function") {
+    options.cast_first_line_to_header = options.columns;
+    options.columns = true;
+  } else if (Array.isArray(options.columns)) {
+    options.columns = normalize_columns_array(options.columns);
+  } else if (options.columns === void 0 || options.columns === null || options.columns === false) {
+    options.columns = false;
+  } else {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_COLUMNS",
+      [
+        "Invalid option columns:",
+        "expect an array, a function or true,",
+        `got ${JSON.stringify(options.columns)}`
+      ],
+      options
+    );
+  }
+  if (options.group_columns_by_name === void 0 || options.group_columns_by_name === null || options.group_columns_by_name === false) {
+    options.group_columns_by_name = false;
+  } else if (options.group_columns_by_name !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
+      [
+        "Invalid option group_columns_by_name:",
+        "expect an boolean,",
+        `got ${JSON.stringify(options.group_columns_by_name)}`
+      ],
+      options
+    );
+  } else if (options.columns === false) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_GROUP_COLUMNS_BY_NAME",
+      [
+        "Invalid option group_columns_by_name:",
+        "the `columns` mode must be activated."
+      ],
+      options
+    );
+  }
+  if (options.comment === void 0 || options.comment === null || options.comment === false || options.comment === "") {
+    options.comment = null;
+  } else {
+    if (typeof options.comment === "string") {
+      options.comment = Buffer.from(options.comment, options.encoding);
+    }
+    if (!Buffer.isBuffer(options.comment)) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_COMMENT",
+        [
+          "Invalid option comment:",
+          "comment must be a buffer or a string,",
+          `got ${JSON.stringify(options.comment)}`
+        ],
+        options
+      );
+    }
+  }
+  if (options.comment_no_infix === void 0 || options.comment_no_infix === null || options.comment_no_infix === false) {
+    options.comment_no_infix = false;
+  } else if (options.comment_no_infix !== true) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_COMMENT",
+      [
+        "Invalid option comment_no_infix:",
+        "value must be a boolean,",
+        `got ${JSON.stringify(options.comment_no_infix)}`
+      ],
+      options
+    );
+  }
+  if (options.delimiter_auto === void 0 || options.delimiter_auto === null || options.delimiter_auto === false) {
+    options.delimiter_auto = false;
+  } else if (options.delimiter_auto === true) {
+    options.delimiter_auto = {};
+  } else if (!is_object(options.delimiter_auto)) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_DELIMITER_AUTO",
+      [
+        "Invalid option delimiter_auto:",
+        "delimiter_auto must be a boolean or a configuration object,",
+        `got ${JSON.stringify(options.delimiter_auto)}`
+      ],
+      options
+    );
+  }
+  if (options.delimiter_auto) {
+    if (options.delimiter_auto.preferred === void 0)
+      options.delimiter_auto.preferred = {
+        [",".charCodeAt(0)]: 1.8,
+        ["	".charCodeAt(0)]: 1.8,
+        [";".charCodeAt(0)]: 1.6,
+        [" ".charCodeAt(0)]: 1.6,
+        [":".charCodeAt(0)]: 1.5,
+        [".".charCodeAt(0)]: 1.4,
+        ["/".charCodeAt(0)]: 1.4
+      };
+    else if (!is_object(options.delimiter_auto.preferred)) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER_AUTO",
+        [
+          "Invalid option delimiter_auto:",
+          "preferred must be an object,",
+          `got ${JSON.stringify(options.delimiter_auto.preferred)}`
+        ],
+        options
+      );
+    }
+    if (options.delimiter_auto.score === void 0)
+      options.delimiter_auto.score = (info, options2) => {
+        return (info.total - info.std) * (options2.preferred[info.char_code] || 1);
+      };
+    else if (typeof options.delimiter_auto.score !== "function") {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER_AUTO",
+        [
+          "Invalid option delimiter_auto:",
+          "score must be a function,",
+          `got ${JSON.stringify(options.delimiter_auto.score)}`
+        ],
+        options
+      );
+    }
+    if (options.delimiter_auto.size === void 0)
+      options.delimiter_auto.size = 2048;
+    else if (typeof options.delimiter_auto.size !== "number") {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER_AUTO",
+        [
+          "Invalid option delimiter_auto:",
+          "size must be a number,",
+          `got ${JSON.stringify(options.delimiter_auto.size)}`
+        ],
+        options
+      );
+    }
+  }
+  const delimiter_json = JSON.stringify(options.delimiter);
+  if (options.delimiter_auto !== false) {
+    options.delimiter = [];
+  }
+  if (!Array.isArray(options.delimiter)) {
+    if (options.delimiter === void 0 || options.delimiter === null || options.delimiter === false) {
+      options.delimiter = Buffer.from(",", options.encoding);
+    }
+    options.delimiter = [options.delimiter];
+  }
+  options.delimiter = options.delimiter.map(function(delimiter) {
+    if (typeof delimiter === "string") {
+      delimiter = Buffer.from(delimiter, options.encoding);
+    }
+    if (!Buffer.isBuffer(delimiter) || delimiter.length === 0) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_DELIMITER",
+        [
+          "Invalid option delimiter:",
+          "delimiter must be a non empty string or buffer or array of string|buffer,",
+          `got ${delimiter_json}`
+        ],
+        options
+      );
+    }
+    return delimiter;
+  });
+  if (options.escape === void 0 || options.escape === true) {
+    options.escape = Buffer.from('"', options.encoding);
+  } else if (typeof options.escape === "string") {
+    options.escape = Buffer.from(options.escape, options.encoding);
+  } else if (options.escape === null || options.escape === false) {
+    options.escape = null;
+  }
+  if (options.escape !== null) {
+    if (!Buffer.isBuffer(options.escape)) {
+      throw new Error(
+        `Invalid Option: escape must be a buffer, a string or a boolean, got ${JSON.stringify(options.escape)}`
+      );
+    }
+  }
+  if (options.from === void 0 || options.from === null) {
+    options.from = 1;
+  } else {
+    if (typeof options.from === "string" && /\d+/.test(options.from)) {
+      options.from = parseInt(options.from);
+    }
+    if (Number.isInteger(options.from)) {
+      if (options.from < 0) {
+        throw new Error(
+          `Invalid Option: from must be a positive integer, got ${JSON.stringify(opts.from)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: from must be an integer, got ${JSON.stringify(options.from)}`
+      );
+    }
+  }
+  if (options.from_line === void 0 || options.from_line === null) {
+    options.from_line = 1;
+  } else {
+    if (typeof options.from_line === "string" && /\d+/.test(options.from_line)) {
+      options.from_line = parseInt(options.from_line);
+    }
+    if (Number.isInteger(options.from_line)) {
+      if (options.from_line <= 0) {
+        throw new Error(
+          `Invalid Option: from_line must be a positive integer greater than 0, got ${JSON.stringify(opts.from_line)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: from_line must be an integer, got ${JSON.stringify(opts.from_line)}`
+      );
+    }
+  }
+  if (options.ignore_last_delimiters === void 0 || options.ignore_last_delimiters === null) {
+    options.ignore_last_delimiters = false;
+  } else if (typeof options.ignore_last_delimiters === "number") {
+    options.ignore_last_delimiters = Math.floor(options.ignore_last_delimiters);
+    if (options.ignore_last_delimiters === 0) {
+      options.ignore_last_delimiters = false;
+    }
+  } else if (typeof options.ignore_last_delimiters !== "boolean") {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_IGNORE_LAST_DELIMITERS",
+      [
+        "Invalid option `ignore_last_delimiters`:",
+        "the value must be a boolean value or an integer,",
+        `got ${JSON.stringify(options.ignore_last_delimiters)}`
+      ],
+      options
+    );
+  }
+  if (options.ignore_last_delimiters === true && options.columns === false) {
+    throw new CsvError(
+      "CSV_IGNORE_LAST_DELIMITERS_REQUIRES_COLUMNS",
+      [
+        "The option `ignore_last_delimiters`",
+        "requires the activation of the `columns` option"
+      ],
+      options
+    );
+  }
+  if (options.info === void 0 || options.info === null || options.info === false) {
+    options.info = false;
+  } else if (options.info !== true) {
+    throw new Error(
+      `Invalid Option: info must be true, got ${JSON.stringify(options.info)}`
+    );
+  }
+  if (options.max_record_size === void 0 || options.max_record_size === null || options.max_record_size === false) {
+    options.max_record_size = 0;
+  } else if (Number.isInteger(options.max_record_size) && options.max_record_size >= 0) {
+  } else if (typeof options.max_record_size === "string" && /\d+/.test(options.max_record_size)) {
+    options.max_record_size = parseInt(options.max_record_size);
+  } else {
+    throw new Error(
+      `Invalid Option: max_record_size must be a positive integer, got ${JSON.stringify(options.max_record_size)}`
+    );
+  }
+  if (options.objname === void 0 || options.objname === null || options.objname === false) {
+    options.objname = void 0;
+  } else if (Buffer.isBuffer(options.objname)) {
+    if (options.objname.length === 0) {
+      throw new Error(`Invalid Option: objname must be a non empty buffer`);
+    }
+    if (options.encoding === null) {
+    } else {
+      options.objname = options.objname.toString(options.encoding);
+    }
+  } else if (typeof options.objname === "string") {
+    if (options.objname.length === 0) {
+      throw new Error(`Invalid Option: objname must be a non empty string`);
+    }
+  } else if (typeof options.objname === "number") {
+  } else {
+    throw new Error(
+      `Invalid Option: objname must be a string or a buffer, got ${options.objname}`
+    );
+  }
+  if (options.objname !== void 0) {
+    if (typeof options.objname === "number") {
+      if (options.columns !== false) {
+        throw Error(
+          "Invalid Option: objname index cannot be combined with columns or be defined as a field"
+        );
+      }
+    } else {
+      if (options.columns === false) {
+        throw Error(
+          "Invalid Option: objname field must be combined with columns or be defined as an index"
+        );
+      }
+    }
+  }
+  if (options.on_record === void 0 || options.on_record === null) {
+    options.on_record = void 0;
+  } else if (typeof options.on_record !== "function") {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_ON_RECORD",
+      [
+        "Invalid option `on_record`:",
+        "expect a function,",
+        `got ${JSON.stringify(options.on_record)}`
+      ],
+      options
+    );
+  }
+  if (options.on_skip !== void 0 && options.on_skip !== null && typeof options.on_skip !== "function") {
+    throw new Error(
+      `Invalid Option: on_skip must be a function, got ${JSON.stringify(options.on_skip)}`
+    );
+  }
+  if (options.quote === null || options.quote === false || options.quote === "") {
+    options.quote = null;
+  } else {
+    if (options.quote === void 0 || options.quote === true) {
+      options.quote = Buffer.from('"', options.encoding);
+    } else if (typeof options.quote === "string") {
+      options.quote = Buffer.from(options.quote, options.encoding);
+    }
+    if (!Buffer.isBuffer(options.quote)) {
+      throw new Error(
+        `Invalid Option: quote must be a buffer or a string, got ${JSON.stringify(options.quote)}`
+      );
+    }
+  }
+  if (options.raw === void 0 || options.raw === null || options.raw === false) {
+    options.raw = false;
+  } else if (options.raw !== true) {
+    throw new Error(
+      `Invalid Option: raw must be true, got ${JSON.stringify(options.raw)}`
+    );
+  }
+  if (options.record_delimiter === void 0) {
+    options.record_delimiter = [];
+  } else if (typeof options.record_delimiter === "string" || Buffer.isBuffer(options.record_delimiter)) {
+    if (options.record_delimiter.length === 0) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_RECORD_DELIMITER",
+        [
+          "Invalid option `record_delimiter`:",
+          "value must be a non empty string or buffer,",
+          `got ${JSON.stringify(options.record_delimiter)}`
+        ],
+        options
+      );
+    }
+    options.record_delimiter = [options.record_delimiter];
+  } else if (!Array.isArray(options.record_delimiter)) {
+    throw new CsvError(
+      "CSV_INVALID_OPTION_RECORD_DELIMITER",
+      [
+        "Invalid option `record_delimiter`:",
+        "value must be a string, a buffer or array of string|buffer,",
+        `got ${JSON.stringify(options.record_delimiter)}`
+      ],
+      options
+    );
+  }
+  options.record_delimiter = options.record_delimiter.map(function(rd, i) {
+    if (typeof rd !== "string" && !Buffer.isBuffer(rd)) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_RECORD_DELIMITER",
+        [
+          "Invalid option `record_delimiter`:",
+          "value must be a string, a buffer or array of string|buffer",
+          `at index ${i},`,
+          `got ${JSON.stringify(rd)}`
+        ],
+        options
+      );
+    } else if (rd.length === 0) {
+      throw new CsvError(
+        "CSV_INVALID_OPTION_RECORD_DELIMITER",
+        [
+          "Invalid option `record_delimiter`:",
+          "value must be a non empty string or buffer",
+          `at index ${i},`,
+          `got ${JSON.stringify(rd)}`
+        ],
+        options
+      );
+    }
+    if (typeof rd === "string") {
+      rd = Buffer.from(rd, options.encoding);
+    }
+    return rd;
+  });
+  if (typeof options.relax_column_count === "boolean") {
+  } else if (options.relax_column_count === void 0 || options.relax_column_count === null) {
+    options.relax_column_count = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_column_count must be a boolean, got ${JSON.stringify(options.relax_column_count)}`
+    );
+  }
+  if (typeof options.relax_column_count_less === "boolean") {
+  } else if (options.relax_column_count_less === void 0 || options.relax_column_count_less === null) {
+    options.relax_column_count_less = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_column_count_less must be a boolean, got ${JSON.stringify(options.relax_column_count_less)}`
+    );
+  }
+  if (typeof options.relax_column_count_more === "boolean") {
+  } else if (options.relax_column_count_more === void 0 || options.relax_column_count_more === null) {
+    options.relax_column_count_more = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_column_count_more must be a boolean, got ${JSON.stringify(options.relax_column_count_more)}`
+    );
+  }
+  if (typeof options.relax_quotes === "boolean") {
+  } else if (options.relax_quotes === void 0 || options.relax_quotes === null) {
+    options.relax_quotes = false;
+  } else {
+    throw new Error(
+      `Invalid Option: relax_quotes must be a boolean, got ${JSON.stringify(options.relax_quotes)}`
+    );
+  }
+  if (typeof options.skip_empty_lines === "boolean") {
+  } else if (options.skip_empty_lines === void 0 || options.skip_empty_lines === null) {
+    options.skip_empty_lines = false;
+  } else {
+    throw new Error(
+      `Invalid Option: skip_empty_lines must be a boolean, got ${JSON.stringify(options.skip_empty_lines)}`
+    );
+  }
+  if (typeof options.skip_records_with_empty_values === "boolean") {
+  } else if (options.skip_records_with_empty_values === void 0 || options.skip_records_with_empty_values === null) {
+    options.skip_records_with_empty_values = false;
+  } else {
+    throw new Error(
+      `Invalid Option: skip_records_with_empty_values must be a boolean, got ${JSON.stringify(options.skip_records_with_empty_values)}`
+    );
+  }
+  if (typeof options.skip_records_with_error === "boolean") {
+  } else if (options.skip_records_with_error === void 0 || options.skip_records_with_error === null) {
+    options.skip_records_with_error = false;
+  } else {
+    throw new Error(
+      `Invalid Option: skip_records_with_error must be a boolean, got ${JSON.stringify(options.skip_records_with_error)}`
+    );
+  }
+  if (options.rtrim === void 0 || options.rtrim === null || options.rtrim === false) {
+    options.rtrim = false;
+  } else if (options.rtrim !== true) {
+    throw new Error(
+      `Invalid Option: rtrim must be a boolean, got ${JSON.stringify(options.rtrim)}`
+    );
+  }
+  if (options.ltrim === void 0 || options.ltrim === null || options.ltrim === false) {
+    options.ltrim = false;
+  } else if (options.ltrim !== true) {
+    throw new Error(
+      `Invalid Option: ltrim must be a boolean, got ${JSON.stringify(options.ltrim)}`
+    );
+  }
+  if (options.trim === void 0 || options.trim === null || options.trim === false) {
+    options.trim = false;
+  } else if (options.trim !== true) {
+    throw new Error(
+      `Invalid Option: trim must be a boolean, got ${JSON.stringify(options.trim)}`
+    );
+  }
+  if (options.trim === true && opts.ltrim !== false) {
+    options.ltrim = true;
+  } else if (options.ltrim !== true) {
+    options.ltrim = false;
+  }
+  if (options.trim === true && opts.rtrim !== false) {
+    options.rtrim = true;
+  } else if (options.rtrim !== true) {
+    options.rtrim = false;
+  }
+  if (options.to === void 0 || options.to === null) {
+    options.to = -1;
+  } else if (options.to !== -1) {
+    if (typeof options.to === "string" && /\d+/.test(options.to)) {
+      options.to = parseInt(options.to);
+    }
+    if (Number.isInteger(options.to)) {
+      if (options.to <= 0) {
+        throw new Error(
+          `Invalid Option: to must be a positive integer greater than 0, got ${JSON.stringify(opts.to)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: to must be an integer, got ${JSON.stringify(opts.to)}`
+      );
+    }
+  }
+  if (options.to_line === void 0 || options.to_line === null) {
+    options.to_line = -1;
+  } else if (options.to_line !== -1) {
+    if (typeof options.to_line === "string" && /\d+/.test(options.to_line)) {
+      options.to_line = parseInt(options.to_line);
+    }
+    if (Number.isInteger(options.to_line)) {
+      if (options.to_line <= 0) {
+        throw new Error(
+          `Invalid Option: to_line must be a positive integer greater than 0, got ${JSON.stringify(opts.to_line)}`
+        );
+      }
+    } else {
+      throw new Error(
+        `Invalid Option: to_line must be an integer, got ${JSON.stringify(opts.to_line)}`
+      );
+    }
+  }
+  return options;
+};
+
+// node_modules/csv-parse/lib/utils/delimiter_discover.js
+var delimiter_discover = function(records, options) {
+  if (!options) {
+    ({ delimiter_auto: options } = normalize_options({ delimiter_auto: true }));
+  }
+  if (typeof records === "string") {
+    records = Buffer.from(records);
+  }
+  if (Buffer.isBuffer(records)) {
+    records = ((data) => {
+      const records2 = [];
+      const parser = transform2({ delimiter: [] });
+      const push = (record3) => records2.push(record3);
+      const close = () => {
+      };
+      const error62 = parser.parse(data, true, push, close);
+      if (error62 !== void 0) throw error62;
+      return records2;
+    })(records);
+  }
+  const info = Array(127).fill().map(() => ({ lines: [] }));
+  records.map(([record3], line) => {
+    for (let i = 0, l = record3.length; i < l; i++) {
+      const code2 = record3.charCodeAt(i);
+      if (info[code2].lines[line] === void 0) info[code2].lines[line] = 0;
+      info[code2].lines[line]++;
+    }
+  });
+  info.map((info2, i) => {
+    info2.char_code = i;
+    info2.std = std(info2.lines);
+    info2.total = info2.lines.reduce((acc, val) => acc + val, 0);
+    info2.preferred = !!options.preferred[i];
+    info2.score = options.score(info2, options);
+  });
+  const result = info.reduce(
+    (acc, info2) => acc.score > info2.score ? acc : info2,
+    {}
+  );
+  return String.fromCharCode(result.char_code);
+};
+var std = function(array2) {
+  const n = array2.length;
+  if (n === 0) return 0;
+  const mean3 = array2.reduce((a, b) => a + b) / n;
+  return Math.sqrt(
+    array2.map((x) => Math.pow(x - mean3, 2)).reduce((a, b) => a + b) / n
+  );
+};
+
+// node_modules/csv-parse/lib/api/index.js
+var isRecordEmpty = function(record3) {
+  return record3.every(
+    (field) => field == null || field.toString && field.toString().trim() === ""
+  );
+};
+var cr = 13;
+var nl = 10;
+var boms = {
+  // Note, the following are equals:
+  // Buffer.from("\ufeff")
+  // Buffer.from([239, 187, 191])
+  // Buffer.from('EFBBBF', 'hex')
+  utf8: Buffer.from([239, 187, 191]),
+  // Note, the following are equals:
+  // Buffer.from "\ufeff", 'utf16le
+  // Buffer.from([255, 254])
+  utf16le: Buffer.from([255, 254])
+};
+var transform2 = function(original_options = {}) {
+  const info = {
+    bytes: 0,
+    bytes_records: 0,
+    comment_lines: 0,
+    empty_lines: 0,
+    invalid_field_length: 0,
+    lines: 1,
+    records: 0
+  };
+  const options = normalize_options(original_options);
+  return {
+    info,
+    original_options,
+    options,
+    state: init_state(options),
+    __needMoreData: function(i, bufLen, end) {
+      if (end) return false;
+      const { encoding, escape, quote } = this.options;
+      const { quoting, needMoreDataSize, recordDelimiterMaxLength } = this.state;
+      const numOfCharLeft = bufLen - i - 1;
+      const requiredLength = Math.max(
+        needMoreDataSize,
+        // Skip if the remaining buffer smaller than record delimiter
+        // If "record_delimiter" is yet to be discovered:
+        // 1. It is equals to `[]` and "recordDelimiterMaxLength" equals `0`
+        // 2. We set the length to windows line ending in the current encoding
+        // Note, that encoding is known from user or bom discovery at that point
+        // recordDelimiterMaxLength,
+        recordDelimiterMaxLength === 0 ? Buffer.from("\r\n", encoding).length : recordDelimiterMaxLength,
+        // Skip if remaining buffer can be an escaped quote
+        quoting ? (escape === null ? 0 : escape.length) + quote.length : 0,
+        // Skip if remaining buffer can be record delimiter following the closing quote
+        quoting ? quote.length + recordDelimiterMaxLength : 0
+      );
+      return numOfCharLeft < requiredLength;
+    },
+    // Central parser implementation
+    parse: function(nextBuf, end, push, close) {
+      const {
+        bom,
+        comment_no_infix,
+        delimiter_auto,
+        encoding,
+        from_line,
+        ltrim,
+        max_record_size,
+        raw,
+        relax_quotes,
+        rtrim,
+        skip_empty_lines,
+        to,
+        to_line
+      } = this.options;
+      let { comment, escape, quote, record_delimiter } = this.options;
+      const {
+        bomSkipped,
+        delimiterDiscovered,
+        delimiterBufPrevious,
+        rawBuffer,
+        escapeIsQuote
+      } = this.state;
+      if (!delimiterDiscovered && delimiter_auto) {
+        let delimiterBuf;
+        if (delimiterBufPrevious === void 0) {
+          delimiterBuf = nextBuf;
+        } else if (delimiterBufPrevious !== void 0 && nextBuf === void 0) {
+          delimiterBuf = delimiterBufPrevious;
+        } else {
+          delimiterBuf = Buffer.concat([delimiterBufPrevious, nextBuf]);
+        }
+        nextBuf = void 0;
+        if (end || delimiterBuf.length > delimiter_auto.size) {
+          this.options.delimiter = [
+            Buffer.from(
+              delimiter_discover(delimiterBuf, this.options.delimiter_auto)
+            )
+          ];
+          this.state.previousBuf = delimiterBuf;
+          this.state.delimiterBufPrevious = void 0;
+          this.state.delimiterDiscovered = true;
+        } else {
+          this.state.delimiterBufPrevious = delimiterBuf;
+          return;
+        }
+      }
+      const { previousBuf } = this.state;
+      let buf;
+      if (previousBuf === void 0) {
+        if (nextBuf === void 0) {
+          close();
+          return;
+        } else {
+          buf = nextBuf;
+        }
+      } else if (previousBuf !== void 0 && nextBuf === void 0) {
+        buf = previousBuf;
+      } else {
+        buf = Buffer.concat([previousBuf, nextBuf]);
+      }
+      if (bomSkipped === false) {
+        if (bom === false) {
+          this.state.bomSkipped = true;
+        } else if (buf.length < 3) {
+          if (end === false) {
+            this.state.previousBuf = buf;
+            return;
+          }
+        } else {
+          for (const encoding2 in boms) {
+            if (boms[encoding2].compare(buf, 0, boms[encoding2].length) === 0) {
+              const bomLength = boms[encoding2].length;
+              this.state.bufBytesStart += bomLength;
+              buf = buf.slice(bomLength);
+              const options2 = normalize_options({
+                ...this.original_options,
+                encoding: encoding2
+              });
+              for (const key2 in options2) {
+                this.options[key2] = options2[key2];
+              }
+              ({ comment, escape, quote } = this.options);
+              break;
+            }
+          }
+          this.state.bomSkipped = true;
+        }
+      }
+      const bufLen = buf.length;
+      let pos;
+      for (pos = 0; pos < bufLen; pos++) {
+        if (this.__needMoreData(pos, bufLen, end)) {
+          break;
+        }
+        if (this.state.wasRowDelimiter === true) {
+          this.info.lines++;
+          this.state.wasRowDelimiter = false;
+        }
+        if (to_line !== -1 && this.info.lines > to_line) {
+          this.state.stop = true;
+          close();
+          return;
+        }
+        if (this.state.quoting === false && record_delimiter.length === 0) {
+          const record_delimiterCount = this.__autoDiscoverRecordDelimiter(
+            buf,
+            pos
+          );
+          if (record_delimiterCount) {
+            record_delimiter = this.options.record_delimiter;
+          }
+        }
+        const chr = buf[pos];
+        if (raw === true) {
+          rawBuffer.append(chr);
+        }
+        if ((chr === cr || chr === nl) && this.state.wasRowDelimiter === false) {
+          this.state.wasRowDelimiter = true;
+        }
+        if (this.state.escaping === true) {
+          this.state.escaping = false;
+        } else {
+          if (escape !== null && this.state.quoting === true && this.__isEscape(buf, pos, chr) && pos + escape.length < bufLen) {
+            if (escapeIsQuote) {
+              if (this.__isQuote(buf, pos + escape.length)) {
+                this.state.escaping = true;
+                pos += escape.length - 1;
+                continue;
+              }
+            } else {
+              this.state.escaping = true;
+              pos += escape.length - 1;
+              continue;
+            }
+          }
+          if (this.state.commenting === false && this.__isQuote(buf, pos)) {
+            if (this.state.quoting === true) {
+              const nextChr = buf[pos + quote.length];
+              const isNextChrTrimable = rtrim && this.__isCharTrimable(buf, pos + quote.length);
+              const isNextChrComment = comment !== null && this.__compareBytes(comment, buf, pos + quote.length, nextChr);
+              const isNextChrDelimiter = this.__isDelimiter(
+                buf,
+                pos + quote.length,
+                nextChr
+              );
+              const isNextChrRecordDelimiter = record_delimiter.length === 0 ? this.__autoDiscoverRecordDelimiter(buf, pos + quote.length) : this.__isRecordDelimiter(nextChr, buf, pos + quote.length);
+              if (escape !== null && this.__isEscape(buf, pos, chr) && this.__isQuote(buf, pos + escape.length)) {
+                pos += escape.length - 1;
+              } else if (!nextChr || isNextChrDelimiter || isNextChrRecordDelimiter || isNextChrComment || isNextChrTrimable) {
+                this.state.quoting = false;
+                this.state.wasQuoting = true;
+                pos += quote.length - 1;
+                continue;
+              } else if (relax_quotes === false) {
+                const err = this.__error(
+                  new CsvError(
+                    "CSV_INVALID_CLOSING_QUOTE",
+                    [
+                      "Invalid Closing Quote:",
+                      `got "${String.fromCharCode(nextChr)}"`,
+                      `at line ${this.info.lines}`,
+                      "instead of delimiter, record delimiter, trimable character",
+                      "(if activated) or comment"
+                    ],
+                    this.options,
+                    this.__infoField()
+                  )
+                );
+                if (err !== void 0) return err;
+              } else {
+                this.state.quoting = false;
+                this.state.wasQuoting = true;
+                this.state.field.prepend(quote);
+                pos += quote.length - 1;
+              }
+            } else {
+              if (this.state.field.length !== 0) {
+                if (relax_quotes === false) {
+                  const info2 = this.__infoField();
+                  const bom2 = Object.keys(boms).map(
+                    (b) => boms[b].equals(this.state.field.toString()) ? b : false
+                  ).filter(Boolean)[0];
+                  const err = this.__error(
+                    new CsvError(
+                      "INVALID_OPENING_QUOTE",
+                      [
+                        "Invalid Opening Quote:",
+                        `a quote is found on field ${JSON.stringify(info2.column)} at line ${info2.lines}, value is ${JSON.stringify(this.state.field.toString(encoding))}`,
+                        bom2 ? `(${bom2} bom)` : void 0
+                      ],
+                      this.options,
+                      info2,
+                      {
+                        field: this.state.field
+                      }
+                    )
+                  );
+                  if (err !== void 0) return err;
+                }
+              } else {
+                this.state.quoting = true;
+                pos += quote.length - 1;
+                continue;
+              }
+            }
+          }
+          if (this.state.quoting === false) {
+            const recordDelimiterLength = this.__isRecordDelimiter(
+              chr,
+              buf,
+              pos
+            );
+            if (recordDelimiterLength !== 0) {
+              const skipCommentLine = this.state.commenting && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0;
+              if (skipCommentLine) {
+                this.info.comment_lines++;
+              } else {
+                if (this.state.enabled === false && this.info.lines + (this.state.wasRowDelimiter === true ? 1 : 0) >= from_line) {
+                  this.state.enabled = true;
+                  this.__resetField();
+                  this.__resetRecord();
+                  pos += recordDelimiterLength - 1;
+                  continue;
+                }
+                if (skip_empty_lines === true && this.state.wasQuoting === false && this.state.record.length === 0 && this.state.field.length === 0) {
+                  this.info.empty_lines++;
+                  pos += recordDelimiterLength - 1;
+                  continue;
+                }
+                this.info.bytes = this.state.bufBytesStart + pos;
+                const errField = this.__onField();
+                if (errField !== void 0) return errField;
+                this.info.bytes = this.state.bufBytesStart + pos + recordDelimiterLength;
+                const errRecord = this.__onRecord(push);
+                if (errRecord !== void 0) return errRecord;
+                if (to !== -1 && this.info.records >= to) {
+                  this.state.stop = true;
+                  close();
+                  return;
+                }
+              }
+              this.state.commenting = false;
+              pos += recordDelimiterLength - 1;
+              continue;
+            }
+            if (this.state.commenting) {
+              continue;
+            }
+            if (comment !== null && (comment_no_infix === false || this.state.record.length === 0 && this.state.field.length === 0)) {
+              const commentCount = this.__compareBytes(comment, buf, pos, chr);
+              if (commentCount !== 0) {
+                this.state.commenting = true;
+                continue;
+              }
+            }
+            const delimiterLength = this.__isDelimiter(buf, pos, chr);
+            if (delimiterLength !== 0) {
+              this.info.bytes = this.state.bufBytesStart + pos;
+              const errField = this.__onField();
+              if (errField !== void 0) return errField;
+              pos += delimiterLength - 1;
+              continue;
+            }
+          }
+        }
+        if (this.state.commenting === false) {
+          if (max_record_size !== 0 && this.state.record_length + this.state.field.length > max_record_size) {
+            return this.__error(
+              new CsvError(
+                "CSV_MAX_RECORD_SIZE",
+                [
+                  "Max Record Size:",
+                  "record exceed the maximum number of tolerated bytes",
+                  `of ${max_record_size}`,
+                  `at line ${this.info.lines}`
+                ],
+                this.options,
+                this.__infoField()
+              )
+            );
+          }
+        }
+        const lappend = ltrim === false || this.state.quoting === true || this.state.field.length !== 0 || !this.__isCharTrimable(buf, pos);
+        const rappend = rtrim === false || this.state.wasQuoting === false;
+        if (lappend === true && rappend === true) {
+          this.state.field.append(chr);
+        } else if (rtrim === true && !this.__isCharTrimable(buf, pos)) {
+          return this.__error(
+            new CsvError(
+              "CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE",
+              [
+                "Invalid Closing Quote:",
+                "found non trimable byte after quote",
+                `at line ${this.info.lines}`
+              ],
+              this.options,
+              this.__infoField()
+            )
+          );
+        } else {
+          if (lappend === false) {
+            pos += this.__isCharTrimable(buf, pos) - 1;
+          }
+          continue;
+        }
+      }
+      if (end === true) {
+        if (this.state.quoting === true) {
+          const err = this.__error(
+            new CsvError(
+              "CSV_QUOTE_NOT_CLOSED",
+              [
+                "Quote Not Closed:",
+                `the parsing is finished with an opening quote at line ${this.info.lines}`
+              ],
+              this.options,
+              this.__infoField()
+            )
+          );
+          if (err !== void 0) return err;
+        } else {
+          if (this.state.wasQuoting === true || this.state.record.length !== 0 || this.state.field.length !== 0) {
+            this.info.bytes = this.state.bufBytesStart + pos;
+            const errField = this.__onField();
+            if (errField !== void 0) return errField;
+            const errRecord = this.__onRecord(push);
+            if (errRecord !== void 0) return errRecord;
+          } else if (this.state.wasRowDelimiter === true) {
+            this.info.empty_lines++;
+          } else if (this.state.commenting === true) {
+            this.info.comment_lines++;
+          }
+        }
+      } else {
+        this.state.bufBytesStart += pos;
+        this.state.previousBuf = buf.slice(pos);
+      }
+      if (this.state.wasRowDelimiter === true) {
+        this.info.lines++;
+        this.state.wasRowDelimiter = false;
+      }
+    },
+    __onRecord: function(push) {
+      const {
+        columns,
+        group_columns_by_name,
+        encoding,
+        info: info2,
+        from,
+        relax_column_count,
+        relax_column_count_less,
+        relax_column_count_more,
+        raw,
+        skip_records_with_empty_values
+      } = this.options;
+      const { enabled, record: record3 } = this.state;
+      if (enabled === false) {
+        return this.__resetRecord();
+      }
+      const recordLength = record3.length;
+      if (columns === true) {
+        if (skip_records_with_empty_values === true && isRecordEmpty(record3)) {
+          this.__resetRecord();
+          return;
+        }
+        return this.__firstLineToColumns(record3);
+      }
+      if (columns === false && this.info.records === 0) {
+        this.state.expectedRecordLength = recordLength;
+      }
+      if (recordLength !== this.state.expectedRecordLength) {
+        const err = columns === false ? new CsvError(
+          "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH",
+          [
+            "Invalid Record Length:",
+            `expect ${this.state.expectedRecordLength},`,
+            `got ${recordLength} on line ${this.info.lines}`
+          ],
+          this.options,
+          this.__infoField(),
+          {
+            record: record3
+          }
+        ) : new CsvError(
+          "CSV_RECORD_INCONSISTENT_COLUMNS",
+          [
+            "Invalid Record Length:",
+            `columns length is ${columns.length},`,
+            // rename columns
+            `got ${recordLength} on line ${this.info.lines}`
+          ],
+          this.options,
+          this.__infoField(),
+          {
+            record: record3
+          }
+        );
+        if (relax_column_count === true || relax_column_count_less === true && recordLength < this.state.expectedRecordLength || relax_column_count_more === true && recordLength > this.state.expectedRecordLength) {
+          this.info.invalid_field_length++;
+          this.state.error = err;
+        } else {
+          const finalErr = this.__error(err);
+          if (finalErr) return finalErr;
+        }
+      }
+      if (skip_records_with_empty_values === true && isRecordEmpty(record3)) {
+        this.__resetRecord();
+        return;
+      }
+      if (this.state.recordHasError === true) {
+        this.__resetRecord();
+        this.state.recordHasError = false;
+        return;
+      }
+      this.info.records++;
+      if (from === 1 || this.info.records >= from) {
+        const { objname } = this.options;
+        if (columns !== false) {
+          const obj = {};
+          for (let i = 0, l = record3.length; i < l; i++) {
+            if (columns[i] === void 0 || columns[i].disabled) continue;
+            if (group_columns_by_name === true && Object.hasOwn(obj, columns[i].name)) {
+              if (Array.isArray(obj[columns[i].name])) {
+                obj[columns[i].name] = obj[columns[i].name].concat(record3[i]);
+              } else {
+                obj[columns[i].name] = [obj[columns[i].name], record3[i]];
+              }
+            } else {
+              Object.defineProperty(obj, columns[i].name, {
+                value: record3[i],
+                enumerable: true,
+                writable: true,
+                configurable: true
+              });
+            }
+          }
+          if (raw === true || info2 === true) {
+            const extRecord = Object.assign(
+              { record: obj },
+              raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
+              info2 === true ? { info: this.__infoRecord() } : {}
+            );
+            const err = this.__push(
+              objname === void 0 ? extRecord : [obj[objname], extRecord],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          } else {
+            const err = this.__push(
+              objname === void 0 ? obj : [obj[objname], obj],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          }
+        } else {
+          if (raw === true || info2 === true) {
+            const extRecord = Object.assign(
+              { record: record3 },
+              raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
+              info2 === true ? { info: this.__infoRecord() } : {}
+            );
+            const err = this.__push(
+              objname === void 0 ? extRecord : [record3[objname], extRecord],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          } else {
+            const err = this.__push(
+              objname === void 0 ? record3 : [record3[objname], record3],
+              push
+            );
+            if (err) {
+              return err;
+            }
+          }
+        }
+      }
+      this.__resetRecord();
+    },
+    __firstLineToColumns: function(record3) {
+      const { firstLineToHeaders } = this.state;
+      try {
+        const headers = firstLineToHeaders === void 0 ? record3 : firstLineToHeaders.call(null, record3);
+        if (!Array.isArray(headers)) {
+          return this.__error(
+            new CsvError(
+              "CSV_INVALID_COLUMN_MAPPING",
+              [
+                "Invalid Column Mapping:",
+                "expect an array from column function,",
+                `got ${JSON.stringify(headers)}`
+              ],
+              this.options,
+              this.__infoField(),
+              {
+                headers
+              }
+            )
+          );
+        }
+        const normalizedHeaders = normalize_columns_array(headers);
+        this.state.expectedRecordLength = normalizedHeaders.length;
+        this.options.columns = normalizedHeaders;
+        this.__resetRecord();
+        return;
+      } catch (err) {
+        return err;
+      }
+    },
+    __resetRecord: function() {
+      if (this.options.raw === true) {
+        this.state.rawBuffer.reset();
+      }
+      this.state.error = void 0;
+      this.state.record = [];
+      this.state.record_length = 0;
+    },
+    __onField: function() {
+      const { cast, encoding, rtrim, max_record_size } = this.options;
+      const { enabled, wasQuoting } = this.state;
+      if (enabled === false) {
+        return this.__resetField();
+      }
+      let field = this.state.field.toString(encoding);
+      if (rtrim === true && wasQuoting === false) {
+        field = field.trimRight();
+      }
+      if (cast === true) {
+        const [err, f] = this.__cast(field);
+        if (err !== void 0) return err;
+        field = f;
+      }
+      this.state.record.push(field);
+      if (max_record_size !== 0 && typeof field === "string") {
+        this.state.record_length += field.length;
+      }
+      this.__resetField();
+    },
+    __resetField: function() {
+      this.state.field.reset();
+      this.state.wasQuoting = false;
+    },
+    __push: function(record3, push) {
+      const { on_record } = this.options;
+      if (on_record !== void 0) {
+        const info2 = this.__infoRecord();
+        try {
+          record3 = on_record.call(null, record3, info2);
+        } catch (err) {
+          return err;
+        }
+        if (record3 === void 0 || record3 === null) {
+          return;
+        }
+      }
+      this.info.bytes_records += this.info.bytes;
+      push(record3);
+    },
+    // Return a tuple with the error and the casted value
+    __cast: function(field) {
+      const { columns, relax_column_count } = this.options;
+      const isColumns = Array.isArray(columns);
+      if (isColumns === true && relax_column_count && this.options.columns.length <= this.state.record.length) {
+        return [void 0, void 0];
+      }
+      if (this.state.castField !== null) {
+        try {
+          const info2 = this.__infoField();
+          return [void 0, this.state.castField.call(null, field, info2)];
+        } catch (err) {
+          return [err];
+        }
+      }
+      if (this.__isFloat(field)) {
+        return [void 0, parseFloat(field)];
+      } else if (this.options.cast_date !== false) {
+        const info2 = this.__infoField();
+        return [void 0, this.options.cast_date.call(null, field, info2)];
+      }
+      return [void 0, field];
+    },
+    __compareBytes: function(sourceBuf, targetBuf, targetPos, firstByte) {
+      if (sourceBuf[0] !== firstByte) return 0;
+      const sourceLength = sourceBuf.length;
+      for (let i = 1; i < sourceLength; i++) {
+        if (sourceBuf[i] !== targetBuf[targetPos + i]) return 0;
+      }
+      return sourceLength;
+    },
+    // Helper to test if a character is trimable
+    __isCharTrimable: function(buf, pos) {
+      const { timchars, timcharFirstBytes } = this.state;
+      const first = buf[pos];
+      if (first === void 0 || timcharFirstBytes[first] === 0) return 0;
+      loop1: for (let i = 0; i < timchars.length; i++) {
+        const timchar = timchars[i];
+        for (let j = 0; j < timchar.length; j++) {
+          if (timchar[j] !== buf[pos + j]) continue loop1;
+        }
+        return timchar.length;
+      }
+      return 0;
+    },
+    __isDelimiter: function(buf, pos, chr) {
+      const { delimiter, ignore_last_delimiters } = this.options;
+      if (ignore_last_delimiters === true && this.state.record.length === this.options.columns.length - 1) {
+        return 0;
+      } else if (ignore_last_delimiters !== false && typeof ignore_last_delimiters === "number" && this.state.record.length === ignore_last_delimiters - 1) {
+        return 0;
+      }
+      loop1: for (let i = 0; i < delimiter.length; i++) {
+        const del = delimiter[i];
+        if (del[0] === chr) {
+          for (let j = 1; j < del.length; j++) {
+            if (del[j] !== buf[pos + j]) continue loop1;
+          }
+          return del.length;
+        }
+      }
+      return 0;
+    },
+    __isEscape: function(buf, pos, chr) {
+      const { escape } = this.options;
+      if (escape === null) return false;
+      const l = escape.length;
+      if (escape[0] === chr) {
+        for (let i = 0; i < l; i++) {
+          if (escape[i] !== buf[pos + i]) {
+            return false;
+          }
+        }
+        return true;
+      }
+      return false;
+    },
+    __isFloat: function(value) {
+      return value - parseFloat(value) + 1 >= 0;
+    },
+    // Keep it in case we implement the `cast_int` option
+    // __isInt(value){
+    //   // return Number.isInteger(parseInt(value))
+    //   // return !isNaN( parseInt( obj ) );
+    //   return /^(\-|\+)?[1-9][0-9]*$/.test(value)
+    // }
+    __isQuote: function(buf, pos) {
+      const { quote } = this.options;
+      if (quote === null) return false;
+      const l = quote.length;
+      for (let i = 0; i < l; i++) {
+        if (quote[i] !== buf[pos + i]) {
+          return false;
+        }
+      }
+      return true;
+    },
+    __isRecordDelimiter: function(chr, buf, pos) {
+      const { record_delimiter } = this.options;
+      const recordDelimiterLength = record_delimiter.length;
+      loop1: for (let i = 0; i < recordDelimiterLength; i++) {
+        const rd = record_delimiter[i];
+        const rdLength = rd.length;
+        if (rd[0] !== chr) {
+          continue;
+        }
+        for (let j = 1; j < rdLength; j++) {
+          if (rd[j] !== buf[pos + j]) {
+            continue loop1;
+          }
+        }
+        return rd.length;
+      }
+      return 0;
+    },
+    __autoDiscoverRecordDelimiter: function(buf, pos) {
+      const { encoding } = this.options;
+      const rds = [
+        // Important, the windows line ending must be before mac os 9
+        Buffer.from("\r\n", encoding),
+        Buffer.from("\n", encoding),
+        Buffer.from("\r", encoding)
+      ];
+      loop: for (let i = 0; i < rds.length; i++) {
+        const l = rds[i].length;
+        for (let j = 0; j < l; j++) {
+          if (rds[i][j] !== buf[pos + j]) {
+            continue loop;
+          }
+        }
+        this.options.record_delimiter.push(rds[i]);
+        this.state.recordDelimiterMaxLength = rds[i].length;
+        return rds[i].length;
+      }
+      return 0;
+    },
+    __error: function(msg) {
+      const { encoding, raw, skip_records_with_error } = this.options;
+      const err = typeof msg === "string" ? new Error(msg) : msg;
+      if (skip_records_with_error) {
+        this.state.recordHasError = true;
+        if (this.options.on_skip !== void 0) {
+          try {
+            this.options.on_skip(
+              err,
+              raw ? this.state.rawBuffer.toString(encoding) : void 0
+            );
+          } catch (err2) {
+            return err2;
+          }
+        }
+        return void 0;
+      } else {
+        return err;
+      }
+    },
+    __infoDataSet: function() {
+      return {
+        ...this.info,
+        columns: this.options.columns
+      };
+    },
+    __infoRecord: function() {
+      const { columns, raw, encoding } = this.options;
+      return {
+        ...this.__infoDataSet(),
+        bytes_records: this.info.bytes,
+        error: this.state.error,
+        header: columns === true,
+        index: this.state.record.length,
+        raw: raw ? this.state.rawBuffer.toString(encoding) : void 0
+      };
+    },
+    __infoField: function() {
+      const { columns } = this.options;
+      const isColumns = Array.isArray(columns);
+      const bytes_records = this.info.bytes_records;
+      return {
+        ...this.__infoRecord(),
+        bytes_records,
+        column: isColumns === true ? columns.length > this.state.record.length ? columns[this.state.record.length].name : null : this.state.record.length,
+        quoting: this.state.wasQuoting
+      };
+    }
+  };
+};
+
+// node_modules/csv-parse/lib/sync.js
+var parse3 = function(data, opts = {}) {
+  if (typeof data === "string") {
+    data = Buffer.from(data);
+  }
+  const records = opts && opts.objname ? /* @__PURE__ */ Object.create(null) : [];
+  const parser = transform2(opts);
+  const push = (record3) => {
+    if (parser.options.objname === void 0) records.push(record3);
+    else {
+      records[record3[0]] = record3[1];
+    }
+  };
+  const close = () => {
+  };
+  const error62 = parser.parse(data, true, push, close);
+  if (error62 !== void 0) throw error62;
+  return records;
+};
+
+// src/core/data/parse-csv.ts
+function schemaOf(dataset) {
+  const target = dataset.target;
+  return {
+    source: dataset.source,
+    features: dataset.features,
+    ...dataset.ids ? { idColumn: dataset.ids.name } : {},
+    ...target ? { target: { name: target.name, task: target.classes ? "binary" : "regression", ...target.classes ? { classes: target.classes } : {} } } : {}
+  };
+}
+var MISSING_TOKENS = /* @__PURE__ */ new Set(["", "na", "nan", "null"]);
+var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+var LINE_NOTE = "(the header is line 1)";
+var INFINITY_WORD = /^[+-]?(?:inf|infinity)$/i;
+var MAX_MAGNITUDE = 1e100;
+function parseCsv(text3, options) {
+  const { source } = options;
+  const { header, rows, lineOf } = readRecords(text3, source);
+  const columnIndex = checkHeader(header, source);
+  const plan = options.schema ? planFromSchema(options, header, columnIndex) : planFromRoles(options, header, columnIndex, rows);
+  const cells = (column) => rows.map((row) => row[column].trim());
+  const features = [];
+  const columns = [];
+  const missing = [];
+  const unseen = {};
+  for (const feature of plan.features) {
+    const values = cells(feature.column);
+    const column = new Float64Array(values.length);
+    let missingCount = 0;
+    let unseenCount = 0;
+    let categories = feature.categories;
+    if (feature.kind === "categorical" && !categories) {
+      categories = [...new Set(values.filter((v) => !isMissing(v)))].sort(compareText);
+    }
+    const code2 = new Map(categories?.map((c, i) => [c, i]));
+    for (let i = 0; i < values.length; i++) {
+      const v = values[i];
+      if (isMissing(v)) {
+        column[i] = NaN;
+        missingCount++;
+      } else if (feature.kind === "numeric") {
+        column[i] = parseNumber(v) ?? failNumber(source, lineOf(i), feature.name, v, plan.numericReason);
+      } else {
+        const c = code2.get(v);
+        if (c === void 0) unseenCount++;
+        column[i] = c ?? NaN;
+      }
+    }
+    features.push(categories ? { name: feature.name, kind: "categorical", categories } : { name: feature.name, kind: "numeric" });
+    columns.push(column);
+    missing.push(missingCount);
+    if (unseenCount > 0) unseen[feature.name] = unseenCount;
+  }
+  const dataset = { source, rows: rows.length, features, columns, missing };
+  if (plan.target) dataset.target = readTarget(source, plan.target, cells(plan.target.column), lineOf, options.schema?.source);
+  if (plan.idColumn !== void 0) dataset.ids = { name: header[plan.idColumn].trim(), values: cells(plan.idColumn) };
+  if (options.schema) {
+    dataset.unseenCategories = unseen;
+    dataset.extraColumns = plan.extraColumns;
+  }
+  return dataset;
+}
+function isMissing(value) {
+  return MISSING_TOKENS.has(value.toLowerCase());
+}
+function parseNumber(value) {
+  if (!NUMBER.test(value)) return void 0;
+  const x = Number(value);
+  return Number.isFinite(x) && Math.abs(x) <= MAX_MAGNITUDE ? x : void 0;
+}
+function looksNumeric(value) {
+  return NUMBER.test(value) || INFINITY_WORD.test(value);
+}
+function failNumber(source, line, column, value, reason) {
+  if (!looksNumeric(value)) failNotNumeric(source, line, column, value, reason);
+  throw new UserError(
+    `${at(source, line, column)}: ${show(value)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
+    "Correct the value, write NA or leave the cell empty if it is missing, or rescale the column (for example to thousands or a logarithm)."
+  );
+}
+function compareText(a, b) {
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+function show(value) {
+  const flat = value.replace(/\r\n|\r|\n/g, "\\n");
+  return `'${flat.length > 40 ? `${flat.slice(0, 40)}…` : flat}'`;
+}
+function listNames(names, limit) {
+  const shown = names.slice(0, limit).map(show).join(", ");
+  return names.length > limit ? `${shown} and ${names.length - limit} more` : shown;
+}
+function count2(n, noun) {
+  return `${n} ${noun}${n === 1 ? "" : "s"}`;
+}
+function at(source, line, column) {
+  return `${source}, line ${line} ${LINE_NOTE}${column === void 0 ? "" : `, column ${show(column)}`}`;
+}
+function failNotNumeric(source, line, column, value, reason) {
+  throw new UserError(
+    `${at(source, line, column)}: ${show(value)} is not a number, but ${reason}.`,
+    "Correct the value, or write NA or leave the cell empty if it is missing."
+  );
+}
+function readRecords(text3, source) {
+  if (text3.replace(/^\uFEFF/, "").trim() === "") {
+    throw new UserError(`${source} is empty.`, "Write the column names on the first line and one row per example below it.");
+  }
+  const ends = [];
+  let records;
+  try {
+    records = parse3(text3, {
+      bom: true,
+      relax_column_count: true,
+      record_delimiter: ["\r\n", "\n", "\r"],
+      on_record: (record3, context) => {
+        ends.push(context.bytes);
+        return record3;
+      }
+    });
+  } catch (error62) {
+    if (!(error62 instanceof CsvError)) throw error62;
+    const line = lineAtByte(text3, ends.length === 0 ? 0 : ends[ends.length - 1]);
+    throw new UserError(
+      `${at(source, line)}: ${describeCsvError(error62)}.`,
+      'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
+    );
+  }
+  const starts = [0, ...ends.slice(0, -1)];
+  const kept = [];
+  for (let r = 0; r < records.length; r++) {
+    if (!(records[r].length === 1 && records[r][0].trim() === "")) kept.push(r);
+  }
+  const [headerRecord, ...dataRecords] = kept;
+  if (dataRecords.length === 0) {
+    throw new UserError(`${source} has a header line but no data rows.`, "Add data rows below the header, or check that the path names the right file.");
+  }
+  if (headerRecord !== 0) {
+    throw new UserError(`${source} starts with a blank line.`, "Put the column names on the first line.");
+  }
+  const header = records[headerRecord];
+  const rows = dataRecords.map((r) => records[r]);
+  const lineOf = (row) => lineAtByte(text3, starts[dataRecords[row]]);
+  for (let i = 0; i < rows.length; i++) {
+    if (rows[i].length !== header.length) {
+      throw new UserError(
+        `${at(source, lineOf(i))}: the row has ${count2(rows[i].length, "field")}, the header has ${header.length}.`,
+        "Give every row one field per header column; enclose a field that holds a comma in double quotes."
+      );
+    }
+  }
+  return { header, rows, lineOf };
+}
+function describeCsvError(error62) {
+  switch (error62.code) {
+    case "CSV_QUOTE_NOT_CLOSED":
+      return "a quoted field that starts in this row is never closed";
+    case "CSV_INVALID_CLOSING_QUOTE":
+      return "a closing quote is followed by other characters";
+    case "INVALID_OPENING_QUOTE":
+      return "a quote appears inside a field that does not start with one";
+    default:
+      return `the CSV cannot be read (${error62.message})`;
+  }
+}
+function lineAtByte(text3, byteOffset) {
+  const bytes = new TextEncoder().encode(text3);
+  let line = 1;
+  for (let b = 0; b < byteOffset && b < bytes.length; b++) {
+    if (bytes[b] === 10 || bytes[b] === 13 && bytes[b + 1] !== 10) line++;
+  }
+  return line;
+}
+function checkHeader(header, source) {
+  const index = /* @__PURE__ */ new Map();
+  header.forEach((raw, j) => {
+    const name = raw.trim();
+    if (name === "") {
+      throw new UserError(`${source}, line 1: column ${j + 1} of the header has no name.`, "Name every column on the first line, or delete the unnamed column.");
+    }
+    const earlier = index.get(name);
+    if (earlier !== void 0) {
+      throw new UserError(
+        `${source}, line 1: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
+        "Give every column its own name."
+      );
+    }
+    index.set(name, j);
+  });
+  return index;
+}
+function failMissingTarget(source, name, header) {
+  throw new UserError(
+    `${source} has no target column ${show(name)}. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
+    `Add the column ${show(name)} to the file, or name one of its columns as the target.`
+  );
+}
+function failNoTargetNamed(source) {
+  throw new UserError(`${source}: no target column was named.`, "Name the column that holds the outcome to predict as the target.");
+}
+function planFromRoles(options, header, columnIndex, rows) {
+  const { source } = options;
+  const roles = options.roles ?? {};
+  const declared = (role) => Object.keys(roles).filter((name) => roles[name] === role);
+  const roleTargets = declared("target");
+  const idNames = declared("id");
+  if (roleTargets.length > 1) {
+    throw new UserError(`${source}: only one column can be the target, but ${listNames(roleTargets, 5)} have the role 'target'.`, "Keep the role 'target' on one column.");
+  }
+  if (idNames.length > 1) {
+    throw new UserError(`${source}: only one column can be the id, but ${listNames(idNames, 5)} have the role 'id'.`, "Keep the role 'id' on one column.");
+  }
+  if (options.target !== void 0 && roleTargets.length === 1 && roleTargets[0] !== options.target) {
+    throw new UserError(
+      `${source}: the target is ${show(options.target)}, but the column ${show(roleTargets[0])} has the role 'target'.`,
+      "Name the same column in both places, or only in one."
+    );
+  }
+  const targetName = options.target ?? roleTargets[0];
+  if (targetName !== void 0 && roles[targetName] !== void 0 && roles[targetName] !== "target") {
+    throw new UserError(
+      `${source}: the column ${show(targetName)} is the target, but it also has the role '${roles[targetName]}'.`,
+      "Delete the other role of the target column."
+    );
+  }
+  for (const name of Object.keys(roles)) {
+    if (name !== targetName && !columnIndex.has(name)) {
+      throw new UserError(
+        `${source} has no column ${show(name)}, which has the role '${roles[name]}'. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
+        "Correct the column name, or delete its role."
+      );
+    }
+  }
+  const targetColumn = targetName === void 0 ? void 0 : columnIndex.get(targetName);
+  if (options.requireTarget ?? true) {
+    if (targetName === void 0) failNoTargetNamed(source);
+    if (targetColumn === void 0) failMissingTarget(source, targetName, header);
+  }
+  const features = [];
+  header.forEach((raw, column) => {
+    const name = raw.trim();
+    const role = roles[name] ?? (name === targetName ? "target" : void 0);
+    if (role === "numeric" || role === "categorical") features.push({ name, column, kind: role });
+    else if (role === void 0) {
+      const isNumeric = rows.every((row) => {
+        const v = row[column].trim();
+        return isMissing(v) || looksNumeric(v);
+      });
+      features.push({ name, column, kind: isNumeric ? "numeric" : "categorical" });
+    }
+  });
+  return {
+    features,
+    ...idNames.length === 1 ? { idColumn: columnIndex.get(idNames[0]) } : {},
+    ...targetName !== void 0 && targetColumn !== void 0 ? { target: { name: targetName, column: targetColumn, ...options.task ? { task: options.task } : {} } } : {},
+    extraColumns: [],
+    numericReason: "the column is declared numeric"
+  };
+}
+function planFromSchema(options, header, columnIndex) {
+  const schema = options.schema;
+  const { source } = options;
+  const needed = [...schema.features.map((f) => f.name), ...schema.idColumn === void 0 ? [] : [schema.idColumn]];
+  const absent = needed.filter((name) => !columnIndex.has(name));
+  if (absent.length > 0) {
+    throw new UserError(
+      `${source} lacks the column${absent.length > 1 ? "s" : ""} ${listNames(absent, 20)} that ${schema.source} has.`,
+      `Add ${absent.length > 1 ? "them" : "it"}: a file read alongside ${schema.source} needs its feature and id columns.`
+    );
+  }
+  const target = schema.target;
+  const targetColumn = target === void 0 ? void 0 : columnIndex.get(target.name);
+  if (options.requireTarget ?? true) {
+    if (target === void 0) failNoTargetNamed(source);
+    if (targetColumn === void 0) failMissingTarget(source, target.name, header);
+  }
+  const known = /* @__PURE__ */ new Set([...needed, ...target ? [target.name] : []]);
+  const extraColumns = header.map((h) => h.trim()).filter((name) => !known.has(name) && options.roles?.[name] !== "ignore");
+  return {
+    features: schema.features.map((f) => ({ name: f.name, column: columnIndex.get(f.name), kind: f.kind, ...f.categories ? { categories: f.categories } : {} })),
+    ...schema.idColumn === void 0 ? {} : { idColumn: columnIndex.get(schema.idColumn) },
+    ...target && targetColumn !== void 0 ? { target: { ...target, column: targetColumn } } : {},
+    extraColumns,
+    numericReason: `the column is numeric in ${schema.source}`
+  };
+}
+var NATURAL_NEGATIVES = /* @__PURE__ */ new Map([
+  ["0", "1"],
+  ["false", "true"],
+  ["no", "yes"]
+]);
+function orderClasses(a, b) {
+  if (NATURAL_NEGATIVES.get(a.toLowerCase()) === b.toLowerCase()) return [a, b];
+  if (NATURAL_NEGATIVES.get(b.toLowerCase()) === a.toLowerCase()) return [b, a];
+  const x = parseNumber(a);
+  const y = parseNumber(b);
+  if (x !== void 0 && y !== void 0 && x !== y) return x < y ? [a, b] : [b, a];
+  return compareText(a, b) < 0 ? [a, b] : [b, a];
+}
+function readTarget(source, plan, values, lineOf, schemaSource) {
+  const column = plan.name;
+  values.forEach((v, i) => {
+    if (isMissing(v)) {
+      throw new UserError(
+        `${at(source, lineOf(i), column)}: the target is missing (${v === "" ? "the cell is empty" : `the cell is ${show(v)}`}).`,
+        "Fill in the target or delete the row: a row without a target cannot be scored."
+      );
+    }
+  });
+  const distinct = [...new Set(values)];
+  const task = plan.task ?? (distinct.length === 2 || !values.every((v) => looksNumeric(v)) ? "binary" : "regression");
+  if (task === "regression") {
+    const out2 = new Float64Array(values.length);
+    values.forEach((v, i) => {
+      out2[i] = parseNumber(v) ?? failNumber(source, lineOf(i), column, v, "the target of a regression must be one");
+    });
+    return { name: column, values: out2 };
+  }
+  let classes = plan.classes;
+  if (classes === void 0) {
+    if (distinct.length === 1) {
+      throw new UserError(
+        `${source}, column ${show(column)}: a binary target needs two classes, but every row has ${show(distinct[0])}.`,
+        "Check that the file holds rows of both outcomes and that the right column is the target."
+      );
+    }
+    if (distinct.length > 2) {
+      throw new UserError(
+        `${source}, column ${show(column)}: a binary target needs exactly two classes, found ${distinct.length}: ${listNames(distinct, 5)}.`,
+        "Write the target with two values, or choose the regression task if it is a number."
+      );
+    }
+    classes = orderClasses(distinct[0], distinct[1]);
+  }
+  const out = new Float64Array(values.length);
+  values.forEach((v, i) => {
+    if (v === classes[1]) out[i] = 1;
+    else if (v === classes[0]) out[i] = 0;
+    else {
+      throw new UserError(
+        `${at(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
+        `Use the same two class labels as ${schemaSource}.`
+      );
+    }
+  });
+  return { name: column, values: out, classes };
+}
+
+// src/core/statistics/random.ts
+function splitmix32(state) {
+  let z3 = state + 2654435769 | 0;
+  z3 = Math.imul(z3 ^ z3 >>> 16, 2246822507);
+  z3 = Math.imul(z3 ^ z3 >>> 13, 3266489909);
+  return (z3 ^ z3 >>> 16) >>> 0;
+}
+function deriveSeed(seed, ...labels) {
+  let h = 2166136261 ^ seed >>> 0;
+  for (const ch of labels.join("\0")) {
+    h ^= ch.codePointAt(0);
+    h = Math.imul(h, 16777619);
+  }
+  return splitmix32(h ^ Math.imul(seed >>> 0, 2654435761));
+}
+function createRandom(seed) {
+  if (!Number.isFinite(seed)) throw new RangeError(`createRandom needs a finite seed, got ${seed}`);
+  const seed32 = Math.trunc(seed) >>> 0;
+  let s = seed32;
+  const state = new Uint32Array(4);
+  for (let i = 0; i < 4; i++) {
+    s = s + 2654435769 >>> 0;
+    state[i] = splitmix32(s);
+  }
+  if ((state[0] | state[1] | state[2] | state[3]) === 0) state[0] = 1;
+  let spareNormal = NaN;
+  function nextUint32() {
+    const result = Math.imul(rotl(Math.imul(state[1], 5), 7), 9) >>> 0;
+    const t = state[1] << 9;
+    state[2] ^= state[0];
+    state[3] ^= state[1];
+    state[1] ^= state[2];
+    state[0] ^= state[3];
+    state[2] ^= t;
+    state[3] = rotl(state[3], 11);
+    return result;
+  }
+  return {
+    seed: seed32,
+    next: () => nextUint32() / 4294967296,
+    int(n) {
+      if (!(n >= 1) || n > 4294967296 || !Number.isInteger(n)) {
+        throw new RangeError(`int needs a whole number from 1 to 2^32, got ${n}`);
+      }
+      const limit = 4294967296 - 4294967296 % n;
+      let x = nextUint32();
+      while (x >= limit) x = nextUint32();
+      return x % n;
+    },
+    normal() {
+      if (!Number.isNaN(spareNormal)) {
+        const value = spareNormal;
+        spareNormal = NaN;
+        return value;
+      }
+      let u = 0;
+      while (u === 0) u = nextUint32() / 4294967296;
+      const v = nextUint32() / 4294967296;
+      const radius = Math.sqrt(-2 * Math.log(u));
+      spareNormal = radius * Math.sin(2 * Math.PI * v);
+      return radius * Math.cos(2 * Math.PI * v);
+    }
+  };
+}
+function rotl(x, k) {
+  return (x << k | x >>> 32 - k) >>> 0;
+}
+function shuffledIndices(n, random) {
+  const order3 = new Uint32Array(n);
+  for (let i = 0; i < n; i++) order3[i] = i;
+  for (let i = n - 1; i > 0; i--) {
+    const j = random.int(i + 1);
+    const tmp = order3[i];
+    order3[i] = order3[j];
+    order3[j] = tmp;
+  }
+  return order3;
+}
+
+// src/core/data/dataset.ts
+function selectRows(data, indices) {
+  const take = (values) => {
+    const out = new Float64Array(indices.length);
+    for (let i = 0; i < indices.length; i++) out[i] = values[indices[i]];
+    return out;
+  };
+  const result = {
+    ...data,
+    rows: indices.length,
+    columns: data.columns.map(take)
+  };
+  if (data.target) result.target = { ...data.target, values: take(data.target.values) };
+  if (data.ids) result.ids = { ...data.ids, values: Array.from(indices, (i) => data.ids.values[i]) };
+  return result;
+}
+function selectFeatures(data, names) {
+  const index = new Map(data.features.map((f, j) => [f.name, j]));
+  const picked = names.map((name) => {
+    const j = index.get(name);
+    if (j === void 0) throw new RangeError(`selectFeatures: no feature named '${name}'`);
+    return j;
+  });
+  const result = {
+    ...data,
+    features: picked.map((j) => data.features[j]),
+    columns: picked.map((j) => data.columns[j])
+  };
+  if ("missing" in data && Array.isArray(data.missing)) {
+    result.missing = picked.map((j) => data.missing[j]);
+  }
+  return result;
+}
+
+// src/core/data/fnv1a32.ts
+function fnv1a32(bytes, basis = 2166136261) {
+  let h = basis >>> 0;
+  for (let i = 0; i < bytes.length; i++) {
+    h ^= bytes[i];
+    h = Math.imul(h, 16777619);
+  }
+  return h >>> 0;
+}
+
+// src/core/data/split-rows.ts
+function splitRows(dataset, options) {
+  const { fraction, seed, by } = options;
+  if (!(fraction > 0 && fraction < 1)) throw new RangeError(`splitRows needs a fraction between 0 and 1 (exclusive), got ${fraction}`);
+  if (!Number.isFinite(seed)) throw new RangeError(`splitRows needs a finite seed, got ${seed}`);
+  const isHoldout = new Uint8Array(dataset.rows);
+  if (by === void 0) {
+    const order3 = shuffledIndices(dataset.rows, createRandom(seed));
+    const holdoutRows = Math.round(fraction * dataset.rows);
+    for (let k = 0; k < holdoutRows; k++) isHoldout[order3[k]] = 1;
+  } else {
+    if (dataset.ids?.name !== by) {
+      throw new UserError(
+        `Cannot split ${dataset.source} by '${by}': ${dataset.ids ? `the id column is '${dataset.ids.name}'` : "it has no id column"}.`,
+        `Give the column '${by}' the role 'id', or split without naming a column.`
+      );
+    }
+    const threshold = fraction * 4294967296;
+    const encoder = new TextEncoder();
+    const s = seed >>> 0;
+    const seedBytes = Uint8Array.of(s & 255, s >>> 8 & 255, s >>> 16 & 255, s >>> 24);
+    const seedState = fnv1a32(seedBytes);
+    dataset.ids.values.forEach((id, i) => {
+      isHoldout[i] = fmix32(fnv1a32(encoder.encode(id), seedState)) < threshold ? 1 : 0;
+    });
+  }
+  const holdoutIndices = [];
+  const trainIndices = [];
+  for (let i = 0; i < dataset.rows; i++) (isHoldout[i] ? holdoutIndices : trainIndices).push(i);
+  for (const [side2, indices] of [["training part", trainIndices], ["holdout", holdoutIndices]]) {
+    if (indices.length === 0) {
+      const count4 = by === void 0 ? dataset.rows : new Set(dataset.ids.values).size;
+      const what = `its ${count4} ${by === void 0 ? "row" : "distinct id"}${count4 === 1 ? "" : "s"}`;
+      throw new UserError(
+        `Splitting ${dataset.source} with a holdout fraction of ${fraction} leaves the ${side2} empty (${what}).`,
+        "Use a fraction further from 0 and 1, or more data."
+      );
+    }
+  }
+  return { train: side(dataset, trainIndices), holdout: side(dataset, holdoutIndices) };
+}
+function fmix32(h) {
+  h ^= h >>> 16;
+  h = Math.imul(h, 2246822507);
+  h ^= h >>> 13;
+  h = Math.imul(h, 3266489909);
+  h ^= h >>> 16;
+  return h >>> 0;
+}
+function side(dataset, indices) {
+  const { unseenCategories: _dropped, ...rest } = selectRows(dataset, indices);
+  return {
+    ...rest,
+    missing: rest.columns.map((column) => column.reduce((n, v) => Number.isNaN(v) ? n + 1 : n, 0))
+  };
+}
+
+// src/core/data/side-data.ts
+function sideDataFiles(config2) {
+  const files = [{ role: "train", path: config2.data.train, key: "data.train", requireTarget: true, conformToTrain: false }];
+  if (config2.data.holdout.kind === "file") {
+    files.push({ role: "holdout", path: config2.data.holdout.path, key: "data.holdout", requireTarget: true, conformToTrain: true });
+  }
+  if (config2.data.reference.kind === "file") {
+    files.push({ role: "reference", path: config2.data.reference.path, key: "data.reference", requireTarget: false, conformToTrain: true });
+  }
+  return files;
+}
+function assembleSideData(config2, tables) {
+  const all = tables.train;
+  if (!all) throw new RangeError("assembleSideData needs the training table");
+  let train3 = all;
+  let holdout;
+  if (config2.data.holdout.kind === "split") {
+    const split = splitRows(all, { fraction: config2.data.holdout.fraction, seed: config2.seed, by: config2.data.holdout.by });
+    train3 = split.train;
+    holdout = split.holdout;
+  } else {
+    if (!tables.holdout) throw new RangeError("assembleSideData needs the holdout table the policy names");
+    holdout = tables.holdout;
+  }
+  const reference = config2.data.reference.kind === "train" ? train3 : config2.data.reference.kind === "holdout" ? holdout : tables.reference;
+  if (!reference) throw new RangeError("assembleSideData needs the reference table the policy names");
+  return { train: train3, holdout, reference };
+}
+
+// src/core/policy/parse-policy.ts
+var import_yaml = __toESM(require_dist(), 1);
+
 // src/core/policy/format-key-path.ts
 function formatKeyPath(path) {
-  let text2 = "";
+  let text3 = "";
   for (const segment of path) {
-    if (typeof segment === "number") text2 += `[${segment}]`;
-    else if (/^[A-Za-z_][A-Za-z0-9_-]*$/.test(String(segment))) text2 += text2 ? `.${String(segment)}` : String(segment);
-    else text2 += `['${String(segment).replaceAll("\\", "\\\\").replaceAll("'", "\\'")}']`;
+    if (typeof segment === "number") text3 += `[${segment}]`;
+    else if (/^[A-Za-z_][A-Za-z0-9_-]*$/.test(String(segment))) text3 += text3 ? `.${String(segment)}` : String(segment);
+    else text3 += `['${String(segment).replaceAll("\\", "\\\\").replaceAll("'", "\\'")}']`;
   }
-  return text2;
+  return text3;
 }
 
 // src/core/policy/policy-defaults.ts
@@ -39495,7 +39643,7 @@ function realNumber(bounds) {
   if (bounds.atMost !== void 0) schema = schema.lte(bounds.atMost, { error: phrase });
   return external_exports.preprocess(numberFromText, schema);
 }
-function text(phrase) {
+function text2(phrase) {
   return external_exports.string({ error: phrase }).min(1, { error: phrase });
 }
 function oneOf(values) {
@@ -39505,21 +39653,21 @@ function mapping(shape, phrase = "a mapping of keys") {
   return external_exports.preprocess((raw) => raw === null ? {} : raw, external_exports.strictObject(shape, { error: phrase }));
 }
 function nameList(phrase) {
-  return external_exports.array(text("a column name"), { error: phrase }).min(1, { error: phrase });
+  return external_exports.array(text2("a column name"), { error: phrase }).min(1, { error: phrase });
 }
 var checkAction = oneOf(["block", "warn", "off"]);
 var columnRoles = ["numeric", "categorical", "id", "ignore"];
 var metricNames = Object.keys(metricTasks);
 var splitSchema = mapping({
   fraction: realNumber({ above: 0, below: 1 }).default(defaultData.split.fraction),
-  by: text("a column name").optional()
+  by: text2("a column name").optional()
 });
 var dataSchema = mapping({
-  train: text("a file path"),
-  holdout: text("a file path").optional(),
+  train: text2("a file path"),
+  holdout: text2("a file path").optional(),
   split: splitSchema.optional(),
-  reference: text("train, holdout or a file path").default(defaultData.reference.kind),
-  unlabeled: text("a file path").optional(),
+  reference: text2("train, holdout or a file path").default(defaultData.reference.kind),
+  unlabeled: text2("a file path").optional(),
   columns: external_exports.preprocess((raw) => raw === null ? {} : raw, external_exports.record(external_exports.string(), oneOf(columnRoles), { error: "a mapping of column names to roles" })).default({})
 }, "a mapping with train and one of holdout, split").superRefine((data, ctx) => {
   if (data.holdout !== void 0 && data.split !== void 0) {
@@ -39529,7 +39677,7 @@ var dataSchema = mapping({
   }
 });
 var prepareSchema = mapping({
-  command: text("a shell command"),
+  command: text2("a shell command"),
   timeout_seconds: wholeNumber(1, 86400).default(defaultPrepare.timeoutSeconds)
 });
 var boostingOnlyKeys = ["trees", "max_depth", "learning_rate", "min_rows_per_leaf", "row_subsample", "column_subsample", "max_bins"];
@@ -39560,12 +39708,12 @@ var builtinSchema = external_exports.preprocess(
   )
 );
 var onnxSchema = mapping({
-  path: text("a file path or glob"),
+  path: text2("a file path or glob"),
   features: nameList("a list of column names").optional(),
-  positive_class: text("a class label or probability column").optional()
+  positive_class: text2("a class label or probability column").optional()
 });
 var trainSchema = mapping({
-  command: text("a shell command"),
+  command: text2("a shell command"),
   timeout_seconds: wholeNumber(1, 86400).default(defaultTrainCommand.timeoutSeconds),
   parallel: wholeNumber(1, 64).default(defaultTrainCommand.parallel)
 });
@@ -39622,7 +39770,7 @@ var reportSchema = mapping({
 var documentSchema = mapping({
   version: external_exports.preprocess(numberFromText, external_exports.literal(1, { error: "1" })),
   task: oneOf(["binary", "regression"]),
-  target: text("a column name"),
+  target: text2("a column name"),
   seed: wholeNumber(0, uint32Max).default(defaultTopLevel.seed),
   data: dataSchema,
   prepare: prepareSchema.optional(),
@@ -39807,9 +39955,9 @@ function describePolicyKey(path) {
 
 // src/core/policy/excerpt.ts
 var unsafe = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g;
-function excerpt(text2, max = 40) {
-  const cut = [...text2].length > max ? `${[...text2].slice(0, max).join("")}…` : text2;
-  return cut.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
+function excerpt(text3, max = 40) {
+  const cut2 = [...text3].length > max ? `${[...text3].slice(0, max).join("")}…` : text3;
+  return cut2.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
 }
 
 // src/core/policy/levenshtein-distance.ts
@@ -39858,20 +40006,20 @@ function describeNode(node2) {
   if ((0, import_yaml.isScalar)(node2)) return `'${excerpt(String(node2.value))}'`;
   return "something else";
 }
-function readDocument(text2, source) {
+function readDocument(text3, source) {
   const empty = new UserError(
     `${source}: the file is empty; a policy needs at least version, task, target, data and model.`,
     "Run 'plumbline init' to write a starter policy, or see docs/policy.md."
   );
-  if (text2.trim() === "") throw empty;
-  if (text2.length > maxPolicyCharacters) {
+  if (text3.trim() === "") throw empty;
+  if (text3.length > maxPolicyCharacters) {
     throw new UserError(
-      `${source} is ${text2.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
+      `${source} is ${text3.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
       "Check that the policy path names plumbline.yml; a policy is a few dozen lines (docs/policy.md)."
     );
   }
   const lines = new import_yaml.LineCounter();
-  const doc = (0, import_yaml.parseDocument)(text2, { schema: "failsafe", uniqueKeys: false, lineCounter: lines, prettyErrors: false });
+  const doc = (0, import_yaml.parseDocument)(text3, { schema: "failsafe", uniqueKeys: false, lineCounter: lines, prettyErrors: false });
   const place = (offset) => {
     const { line, col } = lines.linePos(offset);
     return { line, column: col, offset };
@@ -39901,7 +40049,7 @@ function readDocument(text2, source) {
     );
   }
   const positions = /* @__PURE__ */ new Map();
-  positions.set(pathId([]), { value: place(root2.range?.[0] ?? 0), end: text2.length });
+  positions.set(pathId([]), { value: place(root2.range?.[0] ?? 0), end: text3.length });
   const expanding = /* @__PURE__ */ new Set();
   let budget = maxPolicyValues;
   const toPlain = (node2, path) => {
@@ -39953,7 +40101,7 @@ function readDocument(text2, source) {
         seen.set(key2, keyPlace);
         const valueNode = pair.value;
         const valueRange = valueNode?.range ?? [keyNode.range[1] + 1, keyNode.range[1] + 1];
-        positions.set(pathId([...path, key2]), { key: keyPlace, value: place(Math.min(valueRange[0], text2.length)), end: valueRange[1] });
+        positions.set(pathId([...path, key2]), { key: keyPlace, value: place(Math.min(valueRange[0], text3.length)), end: valueRange[1] });
         result[key2] = toPlain(valueNode, [...path, key2]);
       }
       return result;
@@ -40034,8 +40182,8 @@ function describeIssue(issue2, raw, positions, source) {
     fix
   }];
 }
-function readPolicy(text2, source) {
-  const { value, positions } = readDocument(text2, source);
+function readPolicy(text3, source) {
+  const { value, positions } = readDocument(text3, source);
   const result = policySchema.safeParse(value);
   if (!result.success) {
     const problems = result.error.issues.flatMap((issue2) => describeIssue(issue2, value, positions, source));
@@ -40045,8 +40193,8 @@ function readPolicy(text2, source) {
   }
   return { config: result.data, positions };
 }
-function readPolicyFile(text2, options) {
-  return { ...readPolicy(text2, options.source), source: options.source };
+function readPolicyFile(text3, options) {
+  return { ...readPolicy(text3, options.source), source: options.source };
 }
 function listColumns(columns, most = 20) {
   const shown = columns.slice(0, most).join(", ");
@@ -40133,9 +40281,9 @@ function featureSetFindings(featureSet, head) {
   const { added, removed, kindChanged } = featureSet;
   if (added.length || removed.length || kindChanged.length) {
     const parts = [
-      added.length ? `added ${list(added)}` : "",
-      removed.length ? `removed ${list(removed)}` : "",
-      kindChanged.length ? `changed the kind of ${list(kindChanged.map((k) => `${k.name} (${k.base} → ${k.head})`))}` : ""
+      added.length ? `added ${list2(added)}` : "",
+      removed.length ? `removed ${list2(removed)}` : "",
+      kindChanged.length ? `changed the kind of ${list2(kindChanged.map((k) => `${k.name} (${k.base} → ${k.head})`))}` : ""
     ].filter(Boolean);
     findings.push({
       kind: "feature-set",
@@ -40161,7 +40309,7 @@ function featureSetFindings(featureSet, head) {
   }
   return findings;
 }
-function list(names) {
+function list2(names) {
   return names.length <= 5 ? names.join(", ") : `${names.slice(0, 5).join(", ")} and ${names.length - 5} more`;
 }
 function fmtPlain(v) {
@@ -41437,9 +41585,9 @@ function sampleSorted(n, m, random, out) {
   }
   return chosen;
 }
-function sampleFeatures(total, count3, random) {
-  const out = new Int32Array(count3);
-  sampleSorted(total, count3, random, out);
+function sampleFeatures(total, count4, random) {
+  const out = new Int32Array(count4);
+  sampleSorted(total, count4, random, out);
   return out;
 }
 var SLOTS_PER_FEATURE = 256;
@@ -43347,6 +43495,7 @@ async function resolveConfined(target, missing) {
       throw missing();
     }
     if (code2 === "ELOOP") throw new UserError(`${target.key} '${target.path}' is a symlink loop.`, "Point the path at a regular file.");
+    if (code2 === "ENAMETOOLONG") throw new UserError(`${target.key} '${target.path.slice(0, 80)}…' is longer than the system allows for a path.`, "Give a shorter path.");
     if (code2 === "EACCES") throw new UserError(`${target.key} '${target.path}': permission denied.`, "Make the file readable by the user that runs plumbline.");
     throw error62;
   }
@@ -43461,12 +43610,13 @@ import { join as join2 } from "node:path";
 import { promisify } from "node:util";
 
 // src/adapters/security/child-environment.ts
-var commonNames = ["PATH", "HOME", "USER", "LOGNAME", "SHELL", "LANG", "LANGUAGE", "TZ", "TMPDIR", "TMP", "TEMP", "TERM", "PWD"];
+var commonNames = ["PATH", "HOME", "USER", "LOGNAME", "SHELL", "LANG", "LANGUAGE", "TZ", "TMPDIR", "TMP", "TEMP", "TERM", "PWD", "CI"];
+var toolNames = ["PYTHONPATH", "PYTHONHOME", "VIRTUAL_ENV", "CONDA_PREFIX", "CONDA_DEFAULT_ENV", "LD_LIBRARY_PATH", "JAVA_HOME", "OMP_NUM_THREADS", "MKL_NUM_THREADS", "OPENBLAS_NUM_THREADS"];
 var gitNames = ["SSH_AUTH_SOCK", "GIT_SSH", "GIT_SSH_COMMAND", "HTTP_PROXY", "HTTPS_PROXY", "NO_PROXY", "http_proxy", "https_proxy", "no_proxy", "GIT_CONFIG_NOSYSTEM", "GIT_CONFIG_GLOBAL", "GIT_CONFIG_SYSTEM", "XDG_CONFIG_HOME"];
 var secretLookingName = /TOKEN|SECRET|PASSW|(^|_)KEY($|_)|API_?KEY|PRIVATE|CREDENTIAL|AUTH|COOKIE|SESSION/i;
 function childEnvironment(extra = {}, options = {}) {
   const source = options.source ?? process.env;
-  const allowed = /* @__PURE__ */ new Set([...commonNames, ...options.purpose === "git" ? gitNames : []]);
+  const allowed = /* @__PURE__ */ new Set([...commonNames, ...options.purpose === "git" ? gitNames : toolNames]);
   const kept = {};
   for (const [name, value] of Object.entries(source)) {
     if (value === void 0) continue;
@@ -43497,9 +43647,9 @@ function registerSecret(value) {
 function registerEnvironmentSecrets(env = process.env) {
   for (const name of ["GITHUB_TOKEN", "GH_TOKEN", "INPUT_TOKEN", "ACTIONS_RUNTIME_TOKEN", "ACTIONS_ID_TOKEN_REQUEST_TOKEN"]) registerSecret(env[name]);
 }
-function redactSecrets(text2) {
-  if (secrets.size === 0 || text2 === "") return text2;
-  let result = text2;
+function redactSecrets(text3) {
+  if (secrets.size === 0 || text3 === "") return text3;
+  let result = text3;
   for (const secret of [...secrets].sort((a, b) => b.length - a.length)) {
     if (result.includes(secret)) result = result.split(secret).join(redactedMark);
   }
@@ -43517,8 +43667,8 @@ function redactDeep(value, depth = 0) {
 // src/adapters/security/terminal-text.ts
 var escapeSequences = /\u001b\[[0-?]*[ -/]*[@-~]|\u001b\][^\u0007\u001b]*(?:\u0007|\u001b\\)?|\u009b[0-?]*[ -/]*[@-~]|\u001b[@-Z\\-_]/g;
 var otherControls = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/g;
-function cleanOutsideText(text2) {
-  return redactSecrets(text2.replace(/\r\n/g, "\n").replace(escapeSequences, "").replace(otherControls, "�"));
+function cleanOutsideText(text3) {
+  return redactSecrets(text3.replace(/\r\n/g, "\n").replace(escapeSequences, "").replace(otherControls, "�"));
 }
 
 // src/adapters/git/git.ts
@@ -43800,12 +43950,12 @@ function readOnnxSummary(bytes) {
   for (const entry of decoded.metadataProps) metadata.set(entry.key ?? "", entry.value ?? "");
   const classLabelsByOutput = /* @__PURE__ */ new Map();
   const classLabelSets = [];
-  const text2 = new TextDecoder();
+  const text3 = new TextDecoder();
   for (const node2 of decoded.graph?.node ?? []) {
     if (node2.domain !== "ai.onnx.ml") continue;
     let labels;
     for (const attribute of node2.attribute ?? []) {
-      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text2.decode(s));
+      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text3.decode(s));
       if (attribute.name === "classlabels_int64s") labels = attribute.ints ?? [];
     }
     if (!labels) continue;
@@ -43833,7 +43983,15 @@ async function loadOnnxModel(bytes, options) {
       `Check that '${options.source}' is a complete .onnx file: export it again, and if it is stored with Git LFS, check it out with LFS so that the file is not a pointer.`
     );
   }
-  const summary2 = readOnnxSummary(bytes);
+  let summary2;
+  try {
+    summary2 = readOnnxSummary(bytes);
+  } catch (error62) {
+    throw new UserError(
+      `The ONNX model '${options.source}' has metadata or class labels that cannot be read (${error62 instanceof Error ? error62.message.slice(0, 120) : "unreadable"}).`,
+      `Export '${options.source}' again; a file changed after export (or stored as a Git LFS pointer) reads this way.`
+    );
+  }
   const inputs = planInputs(session.inputMetadata, options, summary2);
   const output2 = options.task === "regression" ? planRegressionOutput(session.outputMetadata, options.source) : planProbabilityOutput(session.outputMetadata, options, summary2);
   const { source } = options;
@@ -43962,16 +44120,16 @@ function planMatrixInput(input2, options, summary2, mismatch) {
     }
   };
 }
-function parseStoredOrder(text2, source) {
+function parseStoredOrder(text3, source) {
   let parsed;
   try {
-    parsed = JSON.parse(text2);
+    parsed = JSON.parse(text3);
   } catch {
     parsed = void 0;
   }
   if (!Array.isArray(parsed) || !parsed.every((name) => typeof name === "string")) {
     throw new UserError(
-      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text2.slice(0, 200)}`,
+      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text3.slice(0, 200)}`,
       `Store the column order as a JSON array such as ["distance_km", "stop_count"], or list it under 'model.onnx.features' in plumbline.yml.`
     );
   }
@@ -44302,8 +44460,8 @@ var LogTail = class {
 };
 function describeLog(logTail) {
   if (logTail === "") return "It printed nothing.";
-  const count3 = logTail.split("\n").length;
-  return `${count3 === 1 ? "The last line" : `The last ${count3} lines`} of its output:
+  const count4 = logTail.split("\n").length;
+  return `${count4 === 1 ? "The last line" : `The last ${count4} lines`} of its output:
 ${logTail}`;
 }
 function shellQuote(value) {
@@ -44750,17 +44908,17 @@ function guessTarget(columns) {
 function proposeTarget(columns) {
   return guessTarget(columns)?.name;
 }
-function scalar(text2) {
-  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text2) ? text2 : JSON.stringify(text2);
+function scalar(text3) {
+  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text3) ? text3 : JSON.stringify(text3);
 }
 function withThousands(n) {
   return String(Math.round(n)).replace(/\B(?=(\d{3})+(?!\d))/g, ",");
 }
-function count2(n, one, many) {
+function count3(n, one, many) {
   return `${withThousands(n)} ${n === 1 ? one : many}`;
 }
-var key = (indent, text2, note) => ({ indent, text: text2, ...note ? { note } : {} });
-var optional3 = (indent, text2, note) => ({ indent, text: text2, isOptional: true, ...note ? { note } : {} });
+var key = (indent, text3, note) => ({ indent, text: text3, ...note ? { note } : {} });
+var optional3 = (indent, text3, note) => ({ indent, text: text3, isOptional: true, ...note ? { note } : {} });
 function renderBlock(lines) {
   const body = lines.map((line) => `${"  ".repeat(line.indent)}${line.isOptional ? "# " : ""}${line.text}`);
   const width = Math.min(44, Math.max(0, ...body.filter((_, i) => lines[i].note).map((b) => b.length)));
@@ -44788,7 +44946,7 @@ function describeColumn(column, rows) {
   if (column.looksLikeId) return { role: "id", note: `guessed: a different value in each of the ${withThousands(rows)} rows` };
   if (column.distinct === 0) return { role: "ignore", note: "guessed: every value is missing" };
   if (column.distinct === 1) return { role: "ignore", note: `guessed: the same value in every row${missing}` };
-  return { role: column.kind, note: `${count2(column.distinct, "distinct value", "distinct values")}${missing}` };
+  return { role: column.kind, note: `${count3(column.distinct, "distinct value", "distinct values")}${missing}` };
 }
 function holdoutPathFor(trainPath) {
   const slash = trainPath.lastIndexOf("/");
@@ -44818,7 +44976,7 @@ function renderStarterPolicy(input2) {
   const targetNote = !target ? "no column looked like a label: set the column to predict and delete its line under data.columns" : input2.suggestedTarget !== void 0 && input2.suggestedTarget !== guess?.name ? "the column to predict" : `guessed: ${guess.reason}`;
   const header = [
     "# plumbline policy: what the gate measures on each pull request, and when it warns or blocks.",
-    `# Written by 'plumbline init' from ${trainPath} (${count2(rows, "row", "rows")}, ${count2(columns.length, "column", "columns")}).`,
+    `# Written by 'plumbline init' from ${trainPath} (${count3(rows, "row", "rows")}, ${count3(columns.length, "column", "columns")}).`,
     '# Lines marked "guessed" come from the data: check them. A line starting with "# key:" is an',
     "# optional key at its default; remove the '# ' to change it. docs/policy.md describes every key."
   ].join("\n");
@@ -44927,10 +45085,10 @@ async function init(command, io) {
     throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
   }
   const trainPath = command.train ?? await findTrainingTable(root2);
-  const text2 = await readFile(resolve5(root2, trainPath), "utf8").catch(() => {
+  const text3 = await readFile(resolve5(root2, trainPath), "utf8").catch(() => {
     throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
   });
-  const data = parseCsv(text2, { source: trainPath, requireTarget: false });
+  const data = parseCsv(text3, { source: trainPath, requireTarget: false });
   const columns = summarizeColumns(data);
   const target = command.target ?? proposeTarget(columns);
   if (command.target && !columns.some((c) => c.name === command.target)) {
@@ -45032,7 +45190,8 @@ async function planOutputs(command, cwd) {
   }
   return planned;
 }
-async function writeOutputs(command, report, cwd) {
+async function writeOutputs(command, full, cwd) {
+  const report = fitReportLimits(redactDeep(full));
   const texts = {
     "--json": `${JSON.stringify(report, null, 2)}
 `,
@@ -45067,18 +45226,18 @@ async function writeOutputs(command, report, cwd) {
 function createProgress(io, started) {
   let open3 = false;
   const elapsed = () => `${((performance.now() - started) / 1e3).toFixed(1)} s`;
-  const show2 = (text2) => {
+  const show2 = (text3) => {
     if (io.isTty) {
-      io.stderr(`\r\x1B[2K${text2}`);
+      io.stderr(`\r\x1B[2K${text3}`);
       open3 = true;
-    } else io.stderr(`${text2}
+    } else io.stderr(`${text3}
 `);
   };
   return {
-    line(text2) {
+    line(text3) {
       if (open3) io.stderr("\n");
       open3 = false;
-      io.stderr(`${text2}
+      io.stderr(`${text3}
 `);
     },
     event(event) {
@@ -45096,8 +45255,8 @@ function createProgress(io, started) {
 // src/adapters/cli/index.ts
 var code = await main(process.argv.slice(2), {
   cwd: process.cwd(),
-  stdout: (text2) => process.stdout.write(text2),
-  stderr: (text2) => process.stderr.write(text2),
+  stdout: (text3) => process.stdout.write(text3),
+  stderr: (text3) => process.stderr.write(text3),
   isTty: Boolean(process.stderr.isTTY)
 });
 process.exitCode = code;
