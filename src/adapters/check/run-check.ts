@@ -105,7 +105,7 @@ async function loadSide(
   for (const file of sideDataFiles(config)) {
     tables[file.role] = await readDataset(file.path, {
       ...readOptions,
-      source: `${side}:${file.path}`,
+      source: `${side}: ${file.path}`,
       requireTarget: file.requireTarget,
       ...(file.conformToTrain ? { schema: schemaOf(tables.train!) } : {}),
     })

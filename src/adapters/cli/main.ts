@@ -2,6 +2,7 @@ import { mkdir, writeFile } from 'node:fs/promises'
 import { dirname, resolve } from 'node:path'
 import { describeFailure, UserError } from '../../core/errors.ts'
 import { errorReport } from '../../core/report/error-report.ts'
+import { renderHtml } from '../../core/report/render-html.ts'
 import { renderMarkdown } from '../../core/report/render-markdown.ts'
 import { renderText } from '../../core/report/render-text.ts'
 import type { GateReport } from '../../core/report/report.ts'
@@ -34,7 +35,8 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
   try {
     if (command.name === 'init') return await init(command, io)
     const started = performance.now()
-    const progress = createProgress(io, started)
+    // --quiet: the verdict line and nothing else (errors still reach stderr).
+    const progress = command.quiet ? silentProgress : createProgress(io, started)
     let report: GateReport
     try {
       report = await runCheck({
@@ -58,9 +60,12 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
     }
     progress.done()
     await writeOutputs(command, report, io.cwd)
-    if (command.quiet) io.stdout(`plumbline: ${report.verdict}: ${report.headline}\n`)
-    else io.stdout(`${renderText(report)}\n`)
-    io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1000).toFixed(1)} s\n`)
+    if (command.quiet) {
+      io.stdout(`plumbline: ${report.headline}\n`)
+    } else {
+      io.stdout(`${renderText(report)}\n`)
+      io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1000).toFixed(1)} s\n`)
+    }
     return report.verdict === 'block' ? 1 : 0
   } catch (error) {
     io.stderr(`${describeFailure(error)}\n`)
@@ -68,7 +73,7 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
   }
 }
 
-async function writeOutputs(command: { json?: string; markdown?: string }, report: GateReport, cwd: string) {
+async function writeOutputs(command: { json?: string; markdown?: string; html?: string }, report: GateReport, cwd: string) {
   const write = async (path: string, text: string) => {
     const full = resolve(cwd, path)
     await mkdir(dirname(full), { recursive: true })
@@ -76,7 +81,10 @@ async function writeOutputs(command: { json?: string; markdown?: string }, repor
   }
   if (command.json) await write(command.json, `${JSON.stringify(report, null, 2)}\n`)
   if (command.markdown) await write(command.markdown, renderMarkdown(report))
+  if (command.html) await write(command.html, renderHtml(report))
 }
+
+const silentProgress = { line: () => undefined, event: () => undefined, done: () => undefined }
 
 function createProgress(io: CliIo, started: number) {
   let open = false

@@ -26,10 +26,17 @@ export async function readDataset(path: string, options: ReadDatasetOptions = {}
     const code = (error as NodeJS.ErrnoException).code
     const problem = code === 'ENOENT' ? 'there is no such file' : code === 'EISDIR' ? 'it is a directory' : code === 'EACCES' ? 'permission denied' : undefined
     if (problem === undefined) throw error
-    throw new UserError(
-      `Cannot read the data file '${path}' (resolved against ${cwd}): ${problem}.`,
-      'Check the path: a relative path is read from that directory.',
-    )
+    // With a source ("head: data/train.csv") the side and the path in the repository say where; the
+    // folder it was resolved against may be a temporary checkout that is gone by the time one reads this.
+    throw options.source === undefined
+      ? new UserError(
+          `Cannot read the data file '${path}' (resolved against ${cwd}): ${problem}.`,
+          'Check the path: a relative path is read from that directory.',
+        )
+      : new UserError(
+          `Cannot read the data file ${source}: ${problem} in that side's commit.`,
+          "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'.",
+        )
   }
   return parseCsv(text, { ...parseOptions, source })
 }
