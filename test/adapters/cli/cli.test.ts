@@ -241,6 +241,51 @@ describe('plumbline check on problems the user can fix', () => {
   })
 })
 
+describe('plumbline check, what it says', () => {
+  it('prints only the verdict line with --quiet, and writes the HTML report', async () => {
+    const repo = repository({ base: baseFiles() })
+    const result = await run(['check', '--base', 'main', '--head', 'pr', '--quiet', '--html', 'out/report.html'], repo.root)
+    expect(result).toEqual({
+      code: 0,
+      stdout: 'plumbline: Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.\n',
+      stderr: '',
+    })
+    const html = readFileSync(join(repo.root, 'out/report.html'), 'utf8')
+    expect(html.startsWith('<!DOCTYPE html>')).toBe(true)
+    expect(html).toContain('<span class="verdict v-pass">PASS</span>')
+  })
+
+  it('names the side and the path in the repository for a missing data file, and shows no caution without a verdict', async () => {
+    const policy = smallPolicy().replace('train: data/train.csv', 'train: data/parcels.csv')
+    const repo = repository({ base: baseFiles({ policy }), head: { 'plumbline.yml': policy } })
+    const result = await run(['check', '--base', 'main', '--head', 'pr'], repo.root)
+    expect(result.code).toBe(2)
+    expect(result.stderr).toContain(
+      "Cannot read the data file base: data/parcels.csv: there is no such file in that side's commit.\n" +
+        "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'.\n",
+    )
+    expect(result.stderr).not.toMatch(/plumbline-[A-Za-z0-9]{6}|\/tmp\//)
+    expect(result.stdout + result.stderr).not.toContain('A pass is not proof')
+  })
+
+  it('lists the closest column names when the target is misspelt', async () => {
+    const policy = smallPolicy().replace('target: late', 'target: lates')
+    const repo = repository({ base: baseFiles({ policy }), head: { 'plumbline.yml': policy } })
+    const result = await run(['check', '--base', 'main', '--head', 'pr'], repo.root)
+    expect(result.code).toBe(2)
+    expect(result.stderr).toMatch(/\nbase: data\/train\.csv has no target column 'lates'\. The closest of its \d+ columns: 'late', /)
+  })
+
+  it('suggests the closest option for an unknown one', async () => {
+    expect(await run(['check', '--jsn', 'out.json'], '/')).toEqual({
+      code: 2,
+      stdout: '',
+      stderr: "plumbline check: unknown option '--jsn'. Did you mean '--json'?\nRun 'plumbline check --help' for the options.\n",
+    })
+    expect((await run(['check', '--html'], '/')).stderr).toBe("plumbline check: --html needs a value.\nRun 'plumbline check --help' for the options.\n")
+  })
+})
+
 describe('plumbline init', () => {
   it('writes a starter policy from the training table that plumbline check then accepts', async () => {
     const { 'plumbline.yml': _policy, ...data } = baseFiles()
