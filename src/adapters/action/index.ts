@@ -2,6 +2,7 @@
  * The action's entry point (bundled to dist/index.js). One handler turns anything thrown, Error or
  * not, into a failed step, so that no failure can end as a success.
  */
+import { DefaultArtifactClient } from '@actions/artifact'
 import * as core from '@actions/core'
 import { describeFailure } from '../../core/errors.ts'
 import { runCheck } from '../check/run-check.ts'
@@ -28,6 +29,7 @@ try {
     createClient: createGitHubClient,
     runCheck,
     fetchBase,
+    uploadArtifact: (name, file, rootDirectory) => new DefaultArtifactClient().uploadArtifact(name, [file], rootDirectory, { retentionDays: 30 }),
   })
 } catch (error) {
   core.setFailed(describeFailure(error))
