@@ -100,10 +100,10 @@ const evidenceLabels: Readonly<Record<string, string>> = {
   baseShare: 'base share of the importance',
   runnerUpRatio: 'times the runner-up',
   runnerUp: 'runner-up',
-  singleFeatureSeparation: 'alone, holdout score',
-  baseSingleFeatureSeparation: 'alone on the base, holdout score',
-  fullModelSeparation: 'full model, holdout score',
-  baseFullModelSeparation: 'base full model, holdout score',
+  singleFeatureSeparation: 'a model on it alone, holdout score',
+  baseSingleFeatureSeparation: 'a model on it alone on the base, holdout score',
+  fullModelSeparation: 'the full model, holdout score',
+  baseFullModelSeparation: 'the base full model, holdout score',
   separationJumpInSds: 'full model moved, reseed SDs',
   relativePower: "share of the full model's gain alone",
   threshold: 'policy line',
@@ -153,8 +153,8 @@ const evidenceLabels: Readonly<Record<string, string>> = {
   sliceColumn: 'slice column',
   sliceValue: 'slice value',
   sliceRows: 'slice rows',
-  sliceSeparation: 'alone in the slice, holdout score',
-  baseSliceSeparation: 'alone in the slice on the base, holdout score',
+  sliceSeparation: 'a model on it alone in the slice, holdout score',
+  baseSliceSeparation: 'a model on it alone in the slice on the base, holdout score',
   baseRows: 'base rows',
   headRows: 'head rows',
   differingRows: 'rows that differ',
@@ -178,15 +178,17 @@ export function formatEvidenceValue(key: string, value: Evidence[string]): strin
   return formatNumber(value)
 }
 
-function describeFinding(finding: Finding): FindingLines {
+function describeFinding(finding: Finding, task: GateReport['settings']['task']): FindingLines {
   const kind = finding.kind.replace(/-/g, ' ')
+  // A one-feature model's and the full model's "separation" is AUC for a binary task, R² for regression.
+  const label = (key: string) => evidenceLabel(key).replace('holdout score', task === 'binary' ? 'holdout AUC' : 'holdout R²')
   return {
     severity: finding.severity,
     title: finding.title,
     about: finding.feature === undefined ? kind : `${kind}; feature: ${finding.feature}`,
     message: finding.message,
-    evidence: Object.entries(finding.evidence).map(([key, value]) => `${evidenceLabel(key)} ${formatEvidenceValue(key, value)}`),
-    evidencePairs: Object.entries(finding.evidence).map(([key, value]) => [evidenceLabel(key), formatEvidenceValue(key, value)] as const),
+    evidence: Object.entries(finding.evidence).map(([key, value]) => `${label(key)} ${formatEvidenceValue(key, value)}`),
+    evidencePairs: Object.entries(finding.evidence).map(([key, value]) => [label(key), formatEvidenceValue(key, value)] as const),
   }
 }
 
@@ -348,7 +350,7 @@ export function tabulateReport(report: GateReport): ReportTables {
   const headCount = sides ? sides.head.features.length : report.features.filter((row) => !row.isGroup).length
   return {
     heading: report.verdict === 'error' ? 'plumbline: error, no verdict' : `plumbline: ${report.verdict}`,
-    findings: sortFindings(report.findings).map(describeFinding),
+    findings: sortFindings(report.findings).map((finding) => describeFinding(finding, settings.task)),
     features: tabulateFeatures(report.features),
     featureSet: {
       added: featureSet.added,
