@@ -235,13 +235,14 @@ function scoreStrips(report: GateReport): string {
 function dropColumnChart(report: GateReport, maxRows: number): string {
   const rows = report.features.map((row) => ({ row, drop: readDropColumn(row) })).filter((x) => x.drop !== null).slice(0, maxRows)
   if (rows.length === 0) return ''
-  const scale = scaleOf(rows.flatMap((x) => [x.drop!.lower, x.drop!.upper]))
+  const scale = scaleOf(rows.flatMap((x) => [x.drop!.mean, x.drop!.lower, x.drop!.upper]))
   const cells = rows.map(({ row, drop }) => {
     const title = `${row.name}: drop-column loss ${formatNumber(drop!.mean)} [${formatNumber(drop!.lower)}, ${formatNumber(drop!.upper)}]`
     return (
       `<div class="name" data-feature="${e(row.name)}">${e(row.name)}</div>` +
       `<svg height="20" data-feature="${e(row.name)}" role="img" aria-label="${e(title)}"><line class="zero" x1="${at(scale, 0)}" x2="${at(scale, 0)}" y1="0" y2="20"/>` +
-      `<line class="whisker drop" x1="${at(scale, drop!.lower)}" x2="${at(scale, drop!.upper)}" y1="10" y2="10"/><circle class="drop" cx="${at(scale, drop!.mean)}" cy="10" r="4.5"><title>${e(title)}</title></circle></svg>`
+      (Number.isFinite(drop!.lower) && Number.isFinite(drop!.upper) ? `<line class="whisker drop" x1="${at(scale, drop!.lower)}" x2="${at(scale, drop!.upper)}" y1="10" y2="10"/>` : '') +
+      `<circle class="drop" cx="${at(scale, drop!.mean)}" cy="10" r="4.5"><title>${e(title)}</title></circle></svg>`
     )
   })
   return `<h2>Drop-column results</h2><p class="note">How much the head's holdout loss grows when the model is refitted without the feature, with its 95% interval.</p><div class="chart">${cells.join('')}${axis(scale, 'loss growth')}</div>`

@@ -215,6 +215,11 @@ function describeStatus(row: FeatureRow): string {
 }
 
 function tabulateFeatures(features: readonly FeatureRow[]): TextTable {
+  // A drop-column column only when some feature was refitted without (the leakage check's refits).
+  const drops = features.map(readDropColumn)
+  const hasDrop = drops.some((drop) => drop !== null)
+  const describeDrop = (drop: ReturnType<typeof readDropColumn>) =>
+    drop === null ? '-' : `${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]${drop.isAboveNoise === false ? ' (noise)' : ''}`
   return {
     header: [
       'feature',
@@ -224,10 +229,11 @@ function tabulateFeatures(features: readonly FeatureRow[]): TextTable {
       'floor base (refit SD)',
       'floor head (refit SD)',
       'share of head',
+      ...(hasDrop ? ['drop-column loss, head [95% CI]'] : []),
       'status',
     ],
-    align: ['left', 'right', 'right', 'right', 'right', 'right', 'right', 'left'],
-    rows: features.map((row) => [
+    align: ['left', 'right', 'right', 'right', 'right', 'right', 'right', ...(hasDrop ? (['right'] as const) : []), 'left'],
+    rows: features.map((row, i) => [
       describeName(row),
       `${row.base?.rank ?? '-'} → ${row.head?.rank ?? '-'}`,
       describeImportance(row.base),
@@ -235,6 +241,7 @@ function tabulateFeatures(features: readonly FeatureRow[]): TextTable {
       row.base ? formatNumber(row.base.refitSd) : '-',
       row.head ? formatNumber(row.head.refitSd) : '-',
       row.head ? formatPercent(row.head.share) : '-',
+      ...(hasDrop ? [describeDrop(drops[i])] : []),
       describeStatus(row),
     ]),
   }
@@ -434,17 +441,22 @@ function liftLines(report: GateReport): string[] {
   return lines
 }
 
-/** A drop-column result on a feature row, in whatever field the report holds it: mean, lower, upper. */
+/**
+ * A feature's drop-column (LOCO) result on the head, as the leakage check's refits without the
+ * feature leave it in `head.dropColumn` (`loss`, `lower`, `upper`, `isAboveNoise`); read loosely so
+ * a report without the field, or from an older writer, renders without it.
+ */
 export function readDropColumn(row: FeatureRow): { mean: number; lower: number; upper: number; isAboveNoise?: boolean } | null {
-  const candidates = [row as unknown as Record<string, unknown>, (row.head ?? {}) as unknown as Record<string, unknown>]
-  for (const holder of candidates) {
-    for (const [key, value] of Object.entries(holder)) {
-      if (!/drop/i.test(key) || typeof value !== 'object' || value === null) continue
-      const v = value as Record<string, unknown>
-      if (typeof v.mean === 'number' && typeof v.lower === 'number' && typeof v.upper === 'number') {
-        return { mean: v.mean, lower: v.lower, upper: v.upper, ...(typeof v.isAboveNoise === 'boolean' ? { isAboveNoise: v.isAboveNoise } : {}) }
-      }
-    }
+  const holders = [(row.head ?? {}) as unknown as Record<string, unknown>, row as unknown as Record<string, unknown>]
+  for (const holder of holders) {
+    const value = holder.dropColumn
+    if (typeof value !== 'object' || value === null) continue
+    const v = value as Record<string, unknown>
+    const mean = typeof v.loss === 'number' ? v.loss : v.mean
+    if (typeof mean !== 'number' || !Number.isFinite(mean)) continue
+    const lower = typeof v.lower === 'number' ? v.lower : NaN
+    const upper = typeof v.upper === 'number' ? v.upper : NaN
+    return { mean, lower, upper, ...(typeof v.isAboveNoise === 'boolean' ? { isAboveNoise: v.isAboveNoise } : {}) }
   }
   return null
 }

@@ -23,7 +23,8 @@ const hostileName = '<img src=x onerror=alert(1)> "quoted" & a very_long_feature
 function richReport(): GateReport {
   const report = courierReport()
   const features = report.features.map((row, i) =>
-    i < 2 ? { ...row, dropColumn: { mean: 0.05 / (i + 1), lower: 0.04 / (i + 1), upper: 0.06 / (i + 1), isAboveNoise: true } } : row,
+    // The field the leakage check's refits without a feature fill in (SideImportance.dropColumn).
+    i < 2 ? { ...row, head: { ...row.head!, dropColumn: { loss: 0.05 / (i + 1), lower: 0.04 / (i + 1), upper: 0.06 / (i + 1), pValue: 0.001, isAboveNoise: true, perRefit: [0.05] } } } : row,
   )
   const hostile = { ...report.features[2], name: hostileName }
   return { ...report, features: [...features, hostile] as unknown as GateReport['features'] }

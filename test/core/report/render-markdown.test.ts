@@ -72,6 +72,24 @@ describe('renderMarkdown(report)', () => {
     )
   })
 
+  it('shows lift evidence and drop-column results under the score when the report has them', () => {
+    const report = courierReport()
+    const [leak, ...rest] = report.findings
+    const withLift = { ...leak, evidence: { ...leak.evidence, liftShare: 0.31, dropColumnLoss: 0.05, dropColumnLower: 0.04, dropColumnUpper: 0.06, dropColumnInReseedSds: 4.2 } }
+    const features = report.features.map((row) =>
+      row.name === 'delivered_at_hour'
+        ? { ...row, head: { ...row.head!, dropColumn: { loss: 0.05, lower: 0.04, upper: 0.06, pValue: 0.001, isAboveNoise: true, perRefit: [0.05] } } }
+        : row,
+    )
+    const rendered = renderMarkdown({ ...report, findings: [withLift, ...rest], features } as GateReport)
+    expect(lines(visible(rendered))).toContain(
+      "Lift of delivered\\_at\\_hour: 31% of the loss the base model left; without it the head's loss grows by 0.05 \\[0.04, 0.06\\], 4.2 reseed SDs.",
+    )
+    expect(lines(visible(rendered))).toContain('Drop-column loss (refitted without the feature), largest: delivered\\_at\\_hour 0.05 \\[0.04, 0.06\\].')
+    expect(rendered).toContain('| share of head | drop-column loss, head \\[95% CI\\] | status |')
+    expect(rendered).toContain('| 68.1% | 0.05 \\[0.04, 0.06\\] | added, above floor |')
+  })
+
   it('links the HTML report when given an https address, and refuses anything else', () => {
     const url = 'https://github.com/northwind/parcels/actions/runs/7/artifacts/9'
     expect(renderMarkdown(courierReport(), { htmlReportUrl: url })).toContain(
