@@ -124,11 +124,18 @@ describe('plumbline check on a pull request that changes nothing the model sees'
 describe('plumbline check on pull requests the gate must see', () => {
   it('blocks a label leak with exit 1, comparing the working tree with the merge base by default', async () => {
     const repo = repository({ base: baseFiles(), head: withColumns([...dispatchColumns, 'scan_delay_h']) })
-    const result = await run(['check', '--json', 'report.json'], repo.root)
+    const result = await run(['check', '--json', 'report.json', '--markdown', 'comment.md'], repo.root)
     expect(result.code).toBe(1)
     const report = readReport(repo, 'report.json')
     expect(report.verdict).toBe('block')
     expect(report.headline).toBe('Blocked: scan_delay_h alone separates the holdout (AUC 1); it is new in this pull request.')
+    // A one-feature pull request: what a reviewer sees before the first collapsed section fits one screen.
+    const comment = readFileSync(join(repo.root, 'comment.md'), 'utf8')
+    const visible = comment.split('\n<details>')[0].split('\n')
+    expect(visible.length).toBeLessThanOrEqual(45)
+    expect(visible[4]).toBe('Blocked: scan\\_delay\\_h alone separates the holdout (AUC 1); it is new in this pull request.')
+    expect(visible[6]).toMatch(/^Holdout log-loss \(lower is better\): base [\d.]+ \\\[[\d.]+, [\d.]+\\\] → head /)
+    expect(visible).toContain('```mermaid')
     expect(report.findings[0]).toMatchObject({ kind: 'leakage', severity: 'block', feature: 'scan_delay_h' })
     expect(report.featureSet).toEqual({ added: ['scan_delay_h'], removed: [], kindChanged: [] })
     expect(report.sides!.base).toMatchObject({ ref: 'merge-base(HEAD, main)', commit: repo.baseCommit })
