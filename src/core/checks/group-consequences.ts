@@ -14,8 +14,10 @@
  * whichever is larger (again a rule of thumb). Everything else (a rank change, a feature gaining
  * while the new one takes credit, a move beyond the proportional one) keeps its own finding.
  *
- * The grouped finding keeps the most severe severity of the findings it replaces, so grouping never
- * changes the verdict; after a blocking leak those are already info (demoteConsequences).
+ * The grouped finding takes the most severe severity of the findings it replaces and of the shifts
+ * left standing (which such a feature usually causes too), so that the comment leads with the cause;
+ * it never raises the verdict, since that severity is already in the report. After a blocking leak
+ * those are info already (demoteConsequences).
  */
 import { formatChange, formatNumber, formatPercent } from '../report/format-number.ts'
 import type { Finding, Severity } from '../report/report.ts'
@@ -81,27 +83,41 @@ export function groupConsequences(
       explained.push({ finding, change: `${b.name} ${formatChange(b.mean, h.mean)}` })
     } else kept.push(finding)
   }
-  if (explained.length === 0) return [...findings]
+  // The shifts that usually follow such a feature, explained or not: the cause finding leads them.
+  const consequences = kept.filter((f) => f.kind === 'rank-shift' || f.kind === 'rank-agreement' || f.kind === 'floor-drop')
+  if (explained.length === 0 && !consequences.some((f) => f.severity !== 'info')) return [...findings]
   const features = [...new Map(explained.map((x) => [x.finding.feature!, x.change])).entries()]
   const atFloor = explained.filter((x) => x.finding.kind === 'floor-drop').length
 
-  const severity = explained
-    .map((x) => x.finding.severity)
+  const severity = [...explained.map((x) => x.finding), ...consequences]
+    .map((f) => f.severity)
     .reduce((worst, s) => (severityOrder[s] < severityOrder[worst] ? s : worst), 'info' as Severity)
   const count = `${features.length} ${features.length === 1 ? 'feature' : 'features'}`
   const cause = added.length > 0 ? added : removed
   const names = cause.map((x) => x.name).join(', ')
   const shares = cause.map((x) => formatPercent(x.share)).join(', ')
+  const them = cause.length === 1 ? 'it' : 'them'
+  const effect =
+    features.length === 0
+      ? `no other feature moved in proportion to ${them}`
+      : added.length > 0
+        ? `${count} lost share to ${them} in proportion`
+        : `${count} gained ${cause.length === 1 ? 'its' : 'their'} share in proportion`
   const title =
     added.length > 0
-      ? `${names}, new in this pull request, took ${shares} of the head model's importance; ${count} lost share to ${cause.length === 1 ? 'it' : 'them'} in proportion.`
-      : `${names}, removed in this pull request, held ${shares} of the base model's importance; ${count} gained its share in proportion.`
+      ? `${names}, new in this pull request, took ${shares} of the head model's importance; ${effect}.`
+      : `${names}, removed in this pull request, held ${shares} of the base model's importance; ${effect}.`
   const message =
     `The shared features' total importance went from ${formatNumber(baseTotal)} to ${formatNumber(headTotal)} ` +
-    `(${formatChange(baseTotal, headTotal)}), and these moved with it, each within ${toleranceSds} reseed SDs or ` +
-    `${formatPercent(toleranceRelative)} of its proportional value and in the same order: ${features.map(([, change]) => change).join(', ')}. ` +
+    `(${formatChange(baseTotal, headTotal)})` +
+    (features.length === 0
+      ? '. '
+      : `, and these moved with it, each within ${toleranceSds} reseed SDs or ${formatPercent(toleranceRelative)} of its proportional value and in the same order: ` +
+        `${features.map(([, change]) => change).join(', ')}. `) +
     (atFloor > 0 ? `${atFloor} of them fell to the noise floor on the way. ` : '') +
-    'Shifts that the redistribution does not explain are reported on their own.'
+    (consequences.length > 0
+      ? `${consequences.length} other ${consequences.length === 1 ? 'shift is' : 'shifts are'} not explained by the redistribution and ${consequences.length === 1 ? 'is' : 'are'} reported on ${consequences.length === 1 ? 'its' : 'their'} own.`
+      : 'No other shift is reported.')
   const grouped: Finding = {
     kind: 'share-redistribution',
     severity,

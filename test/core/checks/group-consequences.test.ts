@@ -39,12 +39,26 @@ describe('groupConsequences(findings, sides, featureSet)', () => {
       title: "scan_delay_h, new in this pull request, took 43.9% of the head model's importance; 3 features lost share to it in proportion.",
       message:
         "The shared features' total importance went from 20 to 12.8 (-36%), and these moved with it, each within 2 reseed SDs or 20% of its proportional value and in the same order: " +
-        'distance_km -40%, promised_window_h -40%, depot -40%. Shifts that the redistribution does not explain are reported on their own.',
+        'distance_km -40%, promised_window_h -40%, depot -40%. 1 other shift is not explained by the redistribution and is reported on its own.',
     })
   })
 
   it('keeps a feature that gains while the new one takes credit as its own finding', () => {
     expect(grouped.filter((f) => f.kind === 'rank-shift').map((f) => f.feature)).toEqual(['stop_count'])
+  })
+
+  it('leads the shifts it does not explain when none is in proportion, so the headline names the cause', () => {
+    // distance_km keeps its value while the others fall unevenly: no common factor explains them. The
+    // new feature's share: 10 / (10 + 1 + 2.5 + 0.3 + 10) = 42.02%.
+    const uneven = sideResult({
+      features: { distance_km: steady(10, 0.1), promised_window_h: steady(1, 0.1), depot: steady(2.5, 0.1), stop_count: steady(0.3, 0.05), scan_delay_h: steady(10, 0.1) },
+    })
+    const shifts = checkRankShift(base, uneven, shiftOptions).findings
+    const out = groupConsequences(shifts, { base, head: uneven }, featureSet)
+    const cause = out.find((f) => f.kind === 'share-redistribution')!
+    expect(cause.severity).toBe('warn')
+    expect(cause.title).toBe("scan_delay_h, new in this pull request, took 42% of the head model's importance; no other feature moved in proportion to it.")
+    expect(orderFindings(out, { added: ['scan_delay_h'], removed: [], changed: [] })[0]).toBe(cause)
   })
 
   it('changes nothing without a strong added or removed feature', () => {
