@@ -111,7 +111,6 @@ export function checkRankShift(
           adjustedPValue: adjusted[index],
           baseRank: fromRank,
           headRank: toRank,
-          positionsMoved,
         },
       })
     }

@@ -30,7 +30,7 @@ describe('checkRankShift(base, head, options)', () => {
       message:
         "Across 5 base and 5 head refits the change is beyond reseed noise: Welch's t = -103.7 (df 4.985), p < 1e-6, Benjamini–Hochberg adjusted p < 1e-6 against a false discovery rate of 0.05. " +
         'Reseed noise (refit SD) is 0.07906 on the base side and 0.2236 on the head.',
-      evidence: { baseRank: 4, headRank: 1, positionsMoved: -3 },
+      evidence: { baseRank: 4, headRank: 1 },
     })
     const shift = shifts.get('roadworks_km')!
     expect(shift.welchT).toBeCloseTo(-103.7089945740268, 9)
