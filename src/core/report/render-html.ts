@@ -28,6 +28,11 @@ export interface HtmlOptions {
 
 const e = escapeHtml
 
+/** A name with break opportunities after `_ . - /`, so a narrow column wraps between its parts. */
+function nameHtml(name: string): string {
+  return e(name).replace(/([_./-])(?=[^\s])/g, '$1<wbr>')
+}
+
 const style = `
 :root { color-scheme: light dark; --fg: #1b1b1b; --bg: #ffffff; --muted: #5d5d5d; --rule: #c9c9c9;
   --band: #e4e4e4; --base: #0072b2; --head: #d55e00; --emph: #cc79a7; --grey: #9a9a9a;
@@ -97,7 +102,9 @@ function at(scale: Scale, value: number): string {
 
 /** Tick labels below a chart: low, zero (when inside), high; edge labels anchored inward. */
 function axis(scale: Scale, label: string): string {
-  const ticks = [scale.low, ...(scale.low < 0 && scale.high > 0 ? [0] : []), scale.high]
+  // Zero gets a label of its own only away from the ends, where it would run into theirs.
+  const zeroAt = (0 - scale.low) / (scale.high - scale.low)
+  const ticks = [scale.low, ...(zeroAt > 0.3 && zeroAt < 0.7 ? [0] : []), scale.high]
   const texts = ticks.map((value, i) => {
     const anchor = i === 0 ? 'start' : i === ticks.length - 1 ? 'end' : 'middle'
     return `<text x="${at(scale, value)}" y="12" text-anchor="${anchor}">${e(formatNumber(Number(value.toPrecision(3))))}</text>`
@@ -155,7 +162,7 @@ function importanceChart(report: GateReport, maxRows: number): string {
     const presence = row.presence === 'added' ? ' (new)' : row.presence === 'removed' ? ' (removed)' : ''
     const label = `${row.name}${row.isGroup ? ' (group)' : ''}${presence}`
     return (
-      `<div class="name${isAtFloor(row) ? ' floorish' : ''}" data-feature="${e(row.name)}">${e(label)}</div>` +
+      `<div class="name${isAtFloor(row) ? ' floorish' : ''}" data-feature="${e(row.name)}">${nameHtml(label)}</div>` +
       `<svg class="${isAtFloor(row) ? 'floorish' : ''}" height="30" data-feature="${e(row.name)}" role="img" aria-label="${e(label)} importance">${parts.join('')}</svg>`
     )
   })
@@ -185,7 +192,7 @@ function rankChart(report: GateReport, maxRows: number): string {
     const ranks = `${row.base?.rank ?? 'none'} → ${row.head?.rank ?? 'none'}`
     const cls = isAtFloor(row) ? 'floorish' : ''
     return (
-      `<div class="name ${cls}" data-feature="${e(row.name)}">${e(row.name)} <span class="muted">${e(ranks)}${shifted ? ', shifted' : ''}</span></div>` +
+      `<div class="name ${cls}" data-feature="${e(row.name)}">${nameHtml(row.name)} <span class="muted">${e(ranks)}${shifted ? ', shifted' : ''}</span></div>` +
       `<svg class="${cls}" height="24" data-feature="${e(row.name)}" role="img" aria-label="${e(row.name)} rank ${e(ranks)}">${parts.join('')}</svg>`
     )
   })
@@ -239,7 +246,7 @@ function dropColumnChart(report: GateReport, maxRows: number): string {
   const cells = rows.map(({ row, drop }) => {
     const title = `${row.name}: drop-column loss ${formatNumber(drop!.mean)} [${formatNumber(drop!.lower)}, ${formatNumber(drop!.upper)}]`
     return (
-      `<div class="name" data-feature="${e(row.name)}">${e(row.name)}</div>` +
+      `<div class="name" data-feature="${e(row.name)}">${nameHtml(row.name)}</div>` +
       `<svg height="20" data-feature="${e(row.name)}" role="img" aria-label="${e(title)}"><line class="zero" x1="${at(scale, 0)}" x2="${at(scale, 0)}" y1="0" y2="20"/>` +
       (Number.isFinite(drop!.lower) && Number.isFinite(drop!.upper) ? `<line class="whisker drop" x1="${at(scale, drop!.lower)}" x2="${at(scale, drop!.upper)}" y1="10" y2="10"/>` : '') +
       `<circle class="drop" cx="${at(scale, drop!.mean)}" cy="10" r="4.5"><title>${e(title)}</title></circle></svg>`
