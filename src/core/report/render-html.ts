@@ -205,7 +205,12 @@ function rankChart(report: GateReport, maxRows: number): string {
 
 function nullStrip(name: string, values: readonly number[], observed: number, threshold: number): string {
   const finite = values.filter(Number.isFinite)
-  const scale = scaleOf([...finite, observed, threshold, 1].filter(Number.isFinite))
+  // A tight scale: these statistics sit near 1, and zero would squeeze them into a corner.
+  const shown = [...finite, observed, threshold].filter(Number.isFinite)
+  const low = Math.min(...shown, 1)
+  const high = Math.max(...shown, 1)
+  const pad = Math.max((high - low) * 0.08, 0.01)
+  const scale: Scale = { low: low - pad, high: high + pad }
   const dots = finite.map((v, i) => `<circle class="null" cx="${at(scale, v)}" cy="${8 + (i % 3) * 6}" r="3"/>`).join('')
   const lines =
     (Number.isFinite(threshold) ? `<line class="threshold" x1="${at(scale, threshold)}" x2="${at(scale, threshold)}" y1="0" y2="28"><title>threshold ${e(formatNumber(threshold))}</title></line>` : '') +
