@@ -188,3 +188,24 @@ describe('the comment\'s mermaid chart in Chromium', () => {
     }
   }, 60_000)
 })
+
+describe('renderHtml(report), pure', () => {
+  it('gives the same bytes twice, and an error page with the message, no charts and no caution', () => {
+    expect(renderHtml(courierReport())).toBe(renderHtml(courierReport()))
+    const report = courierReport()
+    const failed: GateReport = {
+      ...report,
+      verdict: 'error',
+      headline: 'No verdict: the check could not run (head: data/train.csv has no target column).',
+      findings: [{ kind: 'run-error', severity: 'block', title: 'The check could not run because of a problem in the inputs.', message: 'head: data/train.csv has no target column <late>.', evidence: { isUserError: true } }],
+      features: [],
+      sides: null,
+      agreement: null,
+    }
+    const html = renderHtml(failed)
+    expect(html).toContain('<span class="verdict v-error">NO VERDICT</span>')
+    expect(html).toContain('head: data/train.csv has no target column &lt;late&gt;.')
+    expect(html).not.toContain('<svg')
+    expect(html).not.toContain('A pass is not proof')
+  })
+})

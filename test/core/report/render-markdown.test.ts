@@ -341,3 +341,17 @@ describe('renderMarkdown(report, options) misuse', () => {
     )
   })
 })
+
+describe('the mermaid chart with hostile names', () => {
+  it('keeps every label inside its quotes and the fence unbroken', () => {
+    const report = courierReport()
+    const names = ['a"b', 'x```y', 'line\nbreak', '[x](javascript:alert(1))', 'ünïcode_name_that_is_far_too_long_for_a_label']
+    const features = report.features.slice(0, names.length).map((row, i) => ({ ...row, name: names[i] }))
+    const markdown = renderMarkdown({ ...report, features })
+    const chart = markdown.split('```mermaid\n')[1].split('\n```')[0]
+    expect(chart.split('\n')[2]).toBe(
+      '  x-axis ["a?b (new)", "x???y", "line?break", "?x??javascript:alert?1??", "?n?code_name_that_is_fa…"]',
+    )
+    expect(chart).not.toContain('`')
+  })
+})
