@@ -77,8 +77,8 @@ export const importanceNote =
   'Importance is how much the holdout metric worsens when a feature is replaced by draws from the ' +
   'reference data, averaged over reseeded refits. The floor is the standard deviation of that ' +
   'importance across refits; a feature is above the floor when its 95% interval lies above zero. ' +
-  'A shift is a significant change of importance; places moved count among the compared features, ' +
-  'those on both sides and above the floor on either.'
+  'A shift is a significant change of importance, given as a signed percentage of the base value; ' +
+  "ranks are each side's own, by mean importance."
 
 export const agreementMissingNote = 'Rank agreement was not computed for this run.'
 
