@@ -178,8 +178,18 @@ export function formatEvidenceValue(key: string, value: Evidence[string]): strin
   return formatNumber(value)
 }
 
-function describeFinding(finding: Finding, task: GateReport['settings']['task']): FindingLines {
+/**
+ * The evidence worth words: nothing about a side that does not have the finding's feature (a base
+ * share of an added feature is no measurement), and no "not computed" entry.
+ */
+function evidenceInWords(finding: Finding, featureSet: GateReport['featureSet']): [string, Evidence[string]][] {
+  const missing = finding.feature === undefined ? null : featureSet.added.includes(finding.feature) ? 'base' : featureSet.removed.includes(finding.feature) ? 'head' : null
+  return Object.entries(finding.evidence).filter(([key, value]) => value !== null && !(missing !== null && key.startsWith(missing)))
+}
+
+function describeFinding(finding: Finding, task: GateReport['settings']['task'], featureSet: GateReport['featureSet']): FindingLines {
   const kind = finding.kind.replace(/-/g, ' ')
+  const entries = evidenceInWords(finding, featureSet)
   // A one-feature model's and the full model's "separation" is AUC for a binary task, R² for regression.
   const label = (key: string) => evidenceLabel(key).replace('holdout score', task === 'binary' ? 'holdout AUC' : 'holdout R²')
   return {
@@ -187,8 +197,8 @@ function describeFinding(finding: Finding, task: GateReport['settings']['task'])
     title: finding.title,
     about: finding.feature === undefined ? kind : `${kind}; feature: ${finding.feature}`,
     message: finding.message,
-    evidence: Object.entries(finding.evidence).map(([key, value]) => `${label(key)} ${formatEvidenceValue(key, value)}`),
-    evidencePairs: Object.entries(finding.evidence).map(([key, value]) => [label(key), formatEvidenceValue(key, value)] as const),
+    evidence: entries.map(([key, value]) => `${label(key)} ${formatEvidenceValue(key, value)}`),
+    evidencePairs: entries.map(([key, value]) => [label(key), formatEvidenceValue(key, value)] as const),
   }
 }
 
@@ -357,7 +367,7 @@ export function tabulateReport(report: GateReport): ReportTables {
   const headCount = sides ? sides.head.features.length : report.features.filter((row) => !row.isGroup).length
   return {
     heading: report.verdict === 'error' ? 'plumbline: error, no verdict' : `plumbline: ${report.verdict}`,
-    findings: sortFindings(report.findings).map((finding) => describeFinding(finding, settings.task)),
+    findings: sortFindings(report.findings).map((finding) => describeFinding(finding, settings.task, featureSet)),
     features: tabulateFeatures(report.features),
     featureSet: {
       added: featureSet.added,

@@ -355,3 +355,13 @@ describe('the mermaid chart with hostile names', () => {
     expect(chart).not.toContain('`')
   })
 })
+
+describe('evidence in words', () => {
+  it('says nothing of a side that does not have the feature, and leaves out what was not computed', () => {
+    const report = courierReport()
+    const [leak, ...rest] = report.findings
+    const finding = { ...leak, evidence: { share: 0.681, baseShare: 0, baseSingleFeatureSeparation: null, singleFeatureSeparation: 0.9931, runnerUp: null } }
+    const rendered = renderMarkdown({ ...report, findings: [finding, ...rest] })
+    expect(lines(rendered)).toContain('  Evidence: share of the importance 68.1%; a model on it alone, holdout AUC 0.9931.')
+  })
+})
