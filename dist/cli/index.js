@@ -16,8 +16,8 @@ var __require = /* @__PURE__ */ ((x) => typeof require !== "undefined" ? require
 var __commonJS = (cb, mod) => function __require2() {
   try {
     return mod || (0, cb[__getOwnPropNames(cb)[0]])((mod = { exports: {} }).exports, mod), mod.exports;
-  } catch (e) {
-    throw mod = 0, e;
+  } catch (e2) {
+    throw mod = 0, e2;
   }
 };
 var __export = (target, all) => {
@@ -552,26 +552,26 @@ var require_toJS = __commonJS({
   "node_modules/yaml/dist/nodes/toJS.js"(exports) {
     "use strict";
     var identity = require_identity();
-    function toJS(value, arg, ctx) {
-      if (Array.isArray(value))
-        return value.map((v, i) => toJS(v, String(i), ctx));
-      if (value && typeof value.toJSON === "function") {
-        if (!ctx || !identity.hasAnchor(value))
-          return value.toJSON(arg, ctx);
+    function toJS(value2, arg, ctx) {
+      if (Array.isArray(value2))
+        return value2.map((v, i) => toJS(v, String(i), ctx));
+      if (value2 && typeof value2.toJSON === "function") {
+        if (!ctx || !identity.hasAnchor(value2))
+          return value2.toJSON(arg, ctx);
         const data = { aliasCount: 0, count: 1, res: void 0 };
-        ctx.anchors.set(value, data);
+        ctx.anchors.set(value2, data);
         ctx.onCreate = (res2) => {
           data.res = res2;
           delete ctx.onCreate;
         };
-        const res = value.toJSON(arg, ctx);
+        const res = value2.toJSON(arg, ctx);
         if (ctx.onCreate)
           ctx.onCreate(res);
         return res;
       }
-      if (typeof value === "bigint" && !ctx?.keep)
-        return Number(value);
-      return value;
+      if (typeof value2 === "bigint" && !ctx?.keep)
+        return Number(value2);
+      return value2;
     }
     exports.toJS = toJS;
   }
@@ -743,11 +743,11 @@ var require_Scalar = __commonJS({
     var identity = require_identity();
     var Node = require_Node();
     var toJS = require_toJS();
-    var isScalarValue = (value) => !value || typeof value !== "function" && typeof value !== "object";
+    var isScalarValue = (value2) => !value2 || typeof value2 !== "function" && typeof value2 !== "object";
     var Scalar = class extends Node.NodeBase {
-      constructor(value) {
+      constructor(value2) {
         super(identity.SCALAR);
-        this.value = value;
+        this.value = value2;
       }
       toJSON(arg, ctx) {
         return ctx?.keep ? this.value : toJS.toJS(this.value, arg, ctx);
@@ -774,7 +774,7 @@ var require_createNode = __commonJS({
     var identity = require_identity();
     var Scalar = require_Scalar();
     var defaultTagPrefix = "tag:yaml.org,2002:";
-    function findTagObject(value, tagName, tags) {
+    function findTagObject(value2, tagName, tags) {
       if (tagName) {
         const match = tags.filter((t) => t.tag === tagName);
         const tagObj = match.find((t) => !t.format) ?? match[0];
@@ -782,53 +782,53 @@ var require_createNode = __commonJS({
           throw new Error(`Tag ${tagName} not found`);
         return tagObj;
       }
-      return tags.find((t) => t.identify?.(value) && !t.format);
+      return tags.find((t) => t.identify?.(value2) && !t.format);
     }
-    function createNode(value, tagName, ctx) {
-      if (identity.isDocument(value))
-        value = value.contents;
-      if (identity.isNode(value))
-        return value;
-      if (identity.isPair(value)) {
+    function createNode(value2, tagName, ctx) {
+      if (identity.isDocument(value2))
+        value2 = value2.contents;
+      if (identity.isNode(value2))
+        return value2;
+      if (identity.isPair(value2)) {
         const map2 = ctx.schema[identity.MAP].createNode?.(ctx.schema, null, ctx);
-        map2.items.push(value);
+        map2.items.push(value2);
         return map2;
       }
-      if (value instanceof String || value instanceof Number || value instanceof Boolean || typeof BigInt !== "undefined" && value instanceof BigInt) {
-        value = value.valueOf();
+      if (value2 instanceof String || value2 instanceof Number || value2 instanceof Boolean || typeof BigInt !== "undefined" && value2 instanceof BigInt) {
+        value2 = value2.valueOf();
       }
       const { aliasDuplicateObjects, onAnchor, onTagObj, schema, sourceObjects } = ctx;
       let ref = void 0;
-      if (aliasDuplicateObjects && value && typeof value === "object") {
-        ref = sourceObjects.get(value);
+      if (aliasDuplicateObjects && value2 && typeof value2 === "object") {
+        ref = sourceObjects.get(value2);
         if (ref) {
-          ref.anchor ?? (ref.anchor = onAnchor(value));
+          ref.anchor ?? (ref.anchor = onAnchor(value2));
           return new Alias.Alias(ref.anchor);
         } else {
           ref = { anchor: null, node: null };
-          sourceObjects.set(value, ref);
+          sourceObjects.set(value2, ref);
         }
       }
       if (tagName?.startsWith("!!"))
         tagName = defaultTagPrefix + tagName.slice(2);
-      let tagObj = findTagObject(value, tagName, schema.tags);
+      let tagObj = findTagObject(value2, tagName, schema.tags);
       if (!tagObj) {
-        if (value && typeof value.toJSON === "function") {
-          value = value.toJSON();
+        if (value2 && typeof value2.toJSON === "function") {
+          value2 = value2.toJSON();
         }
-        if (!value || typeof value !== "object") {
-          const node3 = new Scalar.Scalar(value);
+        if (!value2 || typeof value2 !== "object") {
+          const node3 = new Scalar.Scalar(value2);
           if (ref)
             ref.node = node3;
           return node3;
         }
-        tagObj = value instanceof Map ? schema[identity.MAP] : Symbol.iterator in Object(value) ? schema[identity.SEQ] : schema[identity.MAP];
+        tagObj = value2 instanceof Map ? schema[identity.MAP] : Symbol.iterator in Object(value2) ? schema[identity.SEQ] : schema[identity.MAP];
       }
       if (onTagObj) {
         onTagObj(tagObj);
         delete ctx.onTagObj;
       }
-      const node2 = tagObj?.createNode ? tagObj.createNode(ctx.schema, value, ctx) : typeof tagObj?.nodeClass?.from === "function" ? tagObj.nodeClass.from(ctx.schema, value, ctx) : new Scalar.Scalar(value);
+      const node2 = tagObj?.createNode ? tagObj.createNode(ctx.schema, value2, ctx) : typeof tagObj?.nodeClass?.from === "function" ? tagObj.nodeClass.from(ctx.schema, value2, ctx) : new Scalar.Scalar(value2);
       if (tagName)
         node2.tag = tagName;
       else if (!tagObj.default)
@@ -848,8 +848,8 @@ var require_Collection = __commonJS({
     var createNode = require_createNode();
     var identity = require_identity();
     var Node = require_Node();
-    function collectionFromPath(schema, path, value) {
-      let v = value;
+    function collectionFromPath(schema, path, value2) {
+      let v = value2;
       for (let i = path.length - 1; i >= 0; --i) {
         const k = path[i];
         if (typeof k === "number" && Number.isInteger(k) && k >= 0) {
@@ -900,16 +900,16 @@ var require_Collection = __commonJS({
        * be a Pair instance or a `{ key, value }` object, which may not have a key
        * that already exists in the map.
        */
-      addIn(path, value) {
+      addIn(path, value2) {
         if (isEmptyPath(path))
-          this.add(value);
+          this.add(value2);
         else {
           const [key2, ...rest] = path;
           const node2 = this.get(key2, true);
           if (identity.isCollection(node2))
-            node2.addIn(rest, value);
+            node2.addIn(rest, value2);
           else if (node2 === void 0 && this.schema)
-            this.set(key2, collectionFromPath(this.schema, rest, value));
+            this.set(key2, collectionFromPath(this.schema, rest, value2));
           else
             throw new Error(`Expected YAML collection at ${key2}. Remaining path: ${rest}`);
         }
@@ -963,16 +963,16 @@ var require_Collection = __commonJS({
        * Sets a value in this collection. For `!!set`, `value` needs to be a
        * boolean to add/remove the item from the set.
        */
-      setIn(path, value) {
+      setIn(path, value2) {
         const [key2, ...rest] = path;
         if (rest.length === 0) {
-          this.set(key2, value);
+          this.set(key2, value2);
         } else {
           const node2 = this.get(key2, true);
           if (identity.isCollection(node2))
-            node2.setIn(rest, value);
+            node2.setIn(rest, value2);
           else if (node2 === void 0 && this.schema)
-            this.set(key2, collectionFromPath(this.schema, rest, value));
+            this.set(key2, collectionFromPath(this.schema, rest, value2));
           else
             throw new Error(`Expected YAML collection at ${key2}. Remaining path: ${rest}`);
         }
@@ -1167,13 +1167,13 @@ var require_stringifyString = __commonJS({
       }
       return true;
     }
-    function doubleQuotedString(value, ctx) {
-      const json2 = JSON.stringify(value);
+    function doubleQuotedString(value2, ctx) {
+      const json2 = JSON.stringify(value2);
       if (ctx.options.doubleQuotedAsJSON)
         return json2;
       const { implicitKey } = ctx;
       const minMultiLineLength = ctx.options.doubleQuotedMinMultiLineLength;
-      const indent = ctx.indent || (containsDocumentMarker(value) ? "  " : "");
+      const indent = ctx.indent || (containsDocumentMarker(value2) ? "  " : "");
       let str = "";
       let start = 0;
       for (let i = 0, ch = json2[i]; ch; ch = json2[++i]) {
@@ -1247,22 +1247,22 @@ var require_stringifyString = __commonJS({
       str = start ? str + json2.slice(start) : json2;
       return implicitKey ? str : foldFlowLines.foldFlowLines(str, indent, foldFlowLines.FOLD_QUOTED, getFoldOptions(ctx, false));
     }
-    function singleQuotedString(value, ctx) {
-      if (ctx.options.singleQuote === false || ctx.implicitKey && value.includes("\n") || /[ \t]\n|\n[ \t]/.test(value))
-        return doubleQuotedString(value, ctx);
-      const indent = ctx.indent || (containsDocumentMarker(value) ? "  " : "");
-      const res = "'" + value.replace(/'/g, "''").replace(/\n+/g, `$&
+    function singleQuotedString(value2, ctx) {
+      if (ctx.options.singleQuote === false || ctx.implicitKey && value2.includes("\n") || /[ \t]\n|\n[ \t]/.test(value2))
+        return doubleQuotedString(value2, ctx);
+      const indent = ctx.indent || (containsDocumentMarker(value2) ? "  " : "");
+      const res = "'" + value2.replace(/'/g, "''").replace(/\n+/g, `$&
 ${indent}`) + "'";
       return ctx.implicitKey ? res : foldFlowLines.foldFlowLines(res, indent, foldFlowLines.FOLD_FLOW, getFoldOptions(ctx, false));
     }
-    function quotedString(value, ctx) {
+    function quotedString(value2, ctx) {
       const { singleQuote } = ctx.options;
       let qs;
       if (singleQuote === false)
         qs = doubleQuotedString;
       else {
-        const hasDouble = value.includes('"');
-        const hasSingle = value.includes("'");
+        const hasDouble = value2.includes('"');
+        const hasSingle = value2.includes("'");
         if (hasDouble && !hasSingle)
           qs = singleQuotedString;
         else if (hasSingle && !hasDouble)
@@ -1270,7 +1270,7 @@ ${indent}`) + "'";
         else
           qs = singleQuote ? singleQuotedString : doubleQuotedString;
       }
-      return qs(value, ctx);
+      return qs(value2, ctx);
     }
     var blockEndNewlines;
     try {
@@ -1278,27 +1278,27 @@ ${indent}`) + "'";
     } catch {
       blockEndNewlines = /\n+(?!\n|$)/g;
     }
-    function blockString({ comment, type, value }, ctx, onComment, onChompKeep) {
+    function blockString({ comment, type, value: value2 }, ctx, onComment, onChompKeep) {
       const { blockQuote, commentString, lineWidth } = ctx.options;
-      if (!blockQuote || /\n[\t ]+$/.test(value)) {
-        return quotedString(value, ctx);
+      if (!blockQuote || /\n[\t ]+$/.test(value2)) {
+        return quotedString(value2, ctx);
       }
-      const indent = ctx.indent || (ctx.forceBlockIndent || containsDocumentMarker(value) ? "  " : "");
-      const literal2 = blockQuote === "literal" ? true : blockQuote === "folded" || type === Scalar.Scalar.BLOCK_FOLDED ? false : type === Scalar.Scalar.BLOCK_LITERAL ? true : !lineLengthOverLimit(value, lineWidth, indent.length);
-      if (!value)
+      const indent = ctx.indent || (ctx.forceBlockIndent || containsDocumentMarker(value2) ? "  " : "");
+      const literal2 = blockQuote === "literal" ? true : blockQuote === "folded" || type === Scalar.Scalar.BLOCK_FOLDED ? false : type === Scalar.Scalar.BLOCK_LITERAL ? true : !lineLengthOverLimit(value2, lineWidth, indent.length);
+      if (!value2)
         return literal2 ? "|\n" : ">\n";
       let chomp;
       let endStart;
-      for (endStart = value.length; endStart > 0; --endStart) {
-        const ch = value[endStart - 1];
+      for (endStart = value2.length; endStart > 0; --endStart) {
+        const ch = value2[endStart - 1];
         if (ch !== "\n" && ch !== "	" && ch !== " ")
           break;
       }
-      let end = value.substring(endStart);
+      let end = value2.substring(endStart);
       const endNlPos = end.indexOf("\n");
       if (endNlPos === -1) {
         chomp = "-";
-      } else if (value === end || endNlPos !== end.length - 1) {
+      } else if (value2 === end || endNlPos !== end.length - 1) {
         chomp = "+";
         if (onChompKeep)
           onChompKeep();
@@ -1306,7 +1306,7 @@ ${indent}`) + "'";
         chomp = "";
       }
       if (end) {
-        value = value.slice(0, -end.length);
+        value2 = value2.slice(0, -end.length);
         if (end[end.length - 1] === "\n")
           end = end.slice(0, -1);
         end = end.replace(blockEndNewlines, `$&${indent}`);
@@ -1314,8 +1314,8 @@ ${indent}`) + "'";
       let startWithSpace = false;
       let startEnd;
       let startNlPos = -1;
-      for (startEnd = 0; startEnd < value.length; ++startEnd) {
-        const ch = value[startEnd];
+      for (startEnd = 0; startEnd < value2.length; ++startEnd) {
+        const ch = value2[startEnd];
         if (ch === " ")
           startWithSpace = true;
         else if (ch === "\n")
@@ -1323,9 +1323,9 @@ ${indent}`) + "'";
         else
           break;
       }
-      let start = value.substring(0, startNlPos < startEnd ? startNlPos + 1 : startEnd);
+      let start = value2.substring(0, startNlPos < startEnd ? startNlPos + 1 : startEnd);
       if (start) {
-        value = value.substring(start.length);
+        value2 = value2.substring(start.length);
         start = start.replace(/\n+/g, `$&${indent}`);
       }
       const indentSize = indent ? "2" : "1";
@@ -1336,7 +1336,7 @@ ${indent}`) + "'";
           onComment();
       }
       if (!literal2) {
-        const foldedValue = value.replace(/\n+/g, "\n$&").replace(/(?:^|\n)([\t ].*)(?:([\n\t ]*)\n(?![\n\t ]))?/g, "$1$2").replace(/\n+/g, `$&${indent}`);
+        const foldedValue = value2.replace(/\n+/g, "\n$&").replace(/(?:^|\n)([\t ].*)(?:([\n\t ]*)\n(?![\n\t ]))?/g, "$1$2").replace(/\n+/g, `$&${indent}`);
         let literalFallback = false;
         const foldOptions = getFoldOptions(ctx, true);
         if (blockQuote !== "folded" && type !== Scalar.Scalar.BLOCK_FOLDED) {
@@ -1349,37 +1349,37 @@ ${indent}`) + "'";
           return `>${header}
 ${indent}${body}`;
       }
-      value = value.replace(/\n+/g, `$&${indent}`);
+      value2 = value2.replace(/\n+/g, `$&${indent}`);
       return `|${header}
-${indent}${start}${value}${end}`;
+${indent}${start}${value2}${end}`;
     }
     function plainString(item, ctx, onComment, onChompKeep) {
-      const { type, value } = item;
+      const { type, value: value2 } = item;
       const { actualString, implicitKey, indent, indentStep, inFlow } = ctx;
-      if (implicitKey && value.includes("\n") || inFlow && /[[\]{},]/.test(value)) {
-        return quotedString(value, ctx);
+      if (implicitKey && value2.includes("\n") || inFlow && /[[\]{},]/.test(value2)) {
+        return quotedString(value2, ctx);
       }
-      if (/^[\n\t ,[\]{}#&*!|>'"%@`]|^[?-]$|^[?-][ \t]|[\n:][ \t]|[ \t]\n|[\n\t ]#|[\n\t :]$/.test(value)) {
-        return implicitKey || inFlow || !value.includes("\n") ? quotedString(value, ctx) : blockString(item, ctx, onComment, onChompKeep);
+      if (/^[\n\t ,[\]{}#&*!|>'"%@`]|^[?-]$|^[?-][ \t]|[\n:][ \t]|[ \t]\n|[\n\t ]#|[\n\t :]$/.test(value2)) {
+        return implicitKey || inFlow || !value2.includes("\n") ? quotedString(value2, ctx) : blockString(item, ctx, onComment, onChompKeep);
       }
-      if (!implicitKey && !inFlow && type !== Scalar.Scalar.PLAIN && value.includes("\n")) {
+      if (!implicitKey && !inFlow && type !== Scalar.Scalar.PLAIN && value2.includes("\n")) {
         return blockString(item, ctx, onComment, onChompKeep);
       }
-      if (containsDocumentMarker(value)) {
+      if (containsDocumentMarker(value2)) {
         if (indent === "") {
           ctx.forceBlockIndent = true;
           return blockString(item, ctx, onComment, onChompKeep);
         } else if (implicitKey && indent === indentStep) {
-          return quotedString(value, ctx);
+          return quotedString(value2, ctx);
         }
       }
-      const str = value.replace(/\n+/g, `$&
+      const str = value2.replace(/\n+/g, `$&
 ${indent}`);
       if (actualString) {
         const test = (tag) => tag.default && tag.tag !== "tag:yaml.org,2002:str" && tag.test?.test(str);
         const { compat, tags } = ctx.doc.schema;
         if (tags.some(test) || compat?.some(test))
-          return quotedString(value, ctx);
+          return quotedString(value2, ctx);
       }
       return implicitKey ? str : foldFlowLines.foldFlowLines(str, indent, foldFlowLines.FOLD_FLOW, getFoldOptions(ctx, false));
     }
@@ -1552,7 +1552,7 @@ var require_stringifyPair = __commonJS({
     var Scalar = require_Scalar();
     var stringify = require_stringify();
     var stringifyComment = require_stringifyComment();
-    function stringifyPair({ key: key2, value }, ctx, onComment, onChompKeep) {
+    function stringifyPair({ key: key2, value: value2 }, ctx, onComment, onChompKeep) {
       const { allNullValues, doc, indent, indentStep, options: { commentString, indentSeq, simpleKeys } } = ctx;
       let keyComment = identity.isNode(key2) && key2.comment || null;
       if (simpleKeys) {
@@ -1564,7 +1564,7 @@ var require_stringifyPair = __commonJS({
           throw new Error(msg);
         }
       }
-      let explicitKey = !simpleKeys && (!key2 || keyComment && value == null && !ctx.inFlow || identity.isCollection(key2) || (identity.isScalar(key2) ? key2.type === Scalar.Scalar.BLOCK_FOLDED || key2.type === Scalar.Scalar.BLOCK_LITERAL : typeof key2 === "object"));
+      let explicitKey = !simpleKeys && (!key2 || keyComment && value2 == null && !ctx.inFlow || identity.isCollection(key2) || (identity.isScalar(key2) ? key2.type === Scalar.Scalar.BLOCK_FOLDED || key2.type === Scalar.Scalar.BLOCK_LITERAL : typeof key2 === "object"));
       ctx = Object.assign({}, ctx, {
         allNullValues: false,
         implicitKey: !explicitKey && (simpleKeys || !allNullValues),
@@ -1579,12 +1579,12 @@ var require_stringifyPair = __commonJS({
         explicitKey = true;
       }
       if (ctx.inFlow) {
-        if (allNullValues || value == null) {
+        if (allNullValues || value2 == null) {
           if (keyCommentDone && onComment)
             onComment();
           return str === "" ? "?" : explicitKey ? `? ${str}` : str;
         }
-      } else if (allNullValues && !simpleKeys || value == null && explicitKey) {
+      } else if (allNullValues && !simpleKeys || value2 == null && explicitKey) {
         str = `? ${str}`;
         if (keyComment && !keyCommentDone) {
           str += stringifyComment.lineComment(str, ctx.indent, commentString(keyComment));
@@ -1605,26 +1605,26 @@ ${indent}:`;
           str += stringifyComment.lineComment(str, ctx.indent, commentString(keyComment));
       }
       let vsb, vcb, valueComment;
-      if (identity.isNode(value)) {
-        vsb = !!value.spaceBefore;
-        vcb = value.commentBefore;
-        valueComment = value.comment;
+      if (identity.isNode(value2)) {
+        vsb = !!value2.spaceBefore;
+        vcb = value2.commentBefore;
+        valueComment = value2.comment;
       } else {
         vsb = false;
         vcb = null;
         valueComment = null;
-        if (value && typeof value === "object")
-          value = doc.createNode(value);
+        if (value2 && typeof value2 === "object")
+          value2 = doc.createNode(value2);
       }
       ctx.implicitKey = false;
-      if (!explicitKey && !keyComment && identity.isScalar(value))
+      if (!explicitKey && !keyComment && identity.isScalar(value2))
         ctx.indentAtStart = str.length + 1;
       chompKeep = false;
-      if (!indentSeq && indentStep.length >= 2 && !ctx.inFlow && !explicitKey && identity.isSeq(value) && !value.flow && !value.tag && !value.anchor) {
+      if (!indentSeq && indentStep.length >= 2 && !ctx.inFlow && !explicitKey && identity.isSeq(value2) && !value2.flow && !value2.tag && !value2.anchor) {
         ctx.indent = ctx.indent.substring(2);
       }
       let valueCommentDone = false;
-      const valueStr = stringify.stringify(value, ctx, () => valueCommentDone = true, () => chompKeep = true);
+      const valueStr = stringify.stringify(value2, ctx, () => valueCommentDone = true, () => chompKeep = true);
       let ws = " ";
       if (keyComment || vsb || vcb) {
         ws = vsb ? "\n" : "";
@@ -1640,11 +1640,11 @@ ${stringifyComment.indentComment(cs, ctx.indent)}`;
           ws += `
 ${ctx.indent}`;
         }
-      } else if (!explicitKey && identity.isCollection(value)) {
+      } else if (!explicitKey && identity.isCollection(value2)) {
         const vs0 = valueStr[0];
         const nl0 = valueStr.indexOf("\n");
         const hasNewline = nl0 !== -1;
-        const flow = ctx.inFlow ?? value.flow ?? value.items.length === 0;
+        const flow = ctx.inFlow ?? value2.flow ?? value2.items.length === 0;
         if (hasNewline || !flow) {
           let hasPropsLine = false;
           if (hasNewline && (vs0 === "&" || vs0 === "!")) {
@@ -1707,7 +1707,7 @@ var require_merge = __commonJS({
     var Scalar = require_Scalar();
     var MERGE_KEY = "<<";
     var merge2 = {
-      identify: (value) => value === MERGE_KEY || typeof value === "symbol" && value.description === MERGE_KEY,
+      identify: (value2) => value2 === MERGE_KEY || typeof value2 === "symbol" && value2.description === MERGE_KEY,
       default: "key",
       tag: "tag:yaml.org,2002:merge",
       test: /^<<$/,
@@ -1717,8 +1717,8 @@ var require_merge = __commonJS({
       stringify: () => MERGE_KEY
     };
     var isMergeKey = (ctx, key2) => (merge2.identify(key2) || identity.isScalar(key2) && (!key2.type || key2.type === Scalar.Scalar.PLAIN) && merge2.identify(key2.value)) && ctx?.doc.schema.tags.some((tag) => tag.tag === merge2.tag && tag.default);
-    function addMergeToJSMap(ctx, map2, value) {
-      const source = resolveAliasValue(ctx, value);
+    function addMergeToJSMap(ctx, map2, value2) {
+      const source = resolveAliasValue(ctx, value2);
       if (identity.isSeq(source))
         for (const it of source.items)
           mergeValue(ctx, map2, it);
@@ -1728,20 +1728,20 @@ var require_merge = __commonJS({
       else
         mergeValue(ctx, map2, source);
     }
-    function mergeValue(ctx, map2, value) {
-      const source = resolveAliasValue(ctx, value);
+    function mergeValue(ctx, map2, value2) {
+      const source = resolveAliasValue(ctx, value2);
       if (!identity.isMap(source))
         throw new Error("Merge sources must be maps or map aliases");
       const srcMap = source.toJSON(null, ctx, Map);
-      for (const [key2, value2] of srcMap) {
+      for (const [key2, value3] of srcMap) {
         if (map2 instanceof Map) {
           if (!map2.has(key2))
-            map2.set(key2, value2);
+            map2.set(key2, value3);
         } else if (map2 instanceof Set) {
           map2.add(key2);
         } else if (!Object.prototype.hasOwnProperty.call(map2, key2)) {
           Object.defineProperty(map2, key2, {
-            value: value2,
+            value: value3,
             writable: true,
             enumerable: true,
             configurable: true
@@ -1750,8 +1750,8 @@ var require_merge = __commonJS({
       }
       return map2;
     }
-    function resolveAliasValue(ctx, value) {
-      return ctx && identity.isAlias(value) ? value.resolve(ctx.doc, ctx) : value;
+    function resolveAliasValue(ctx, value2) {
+      return ctx && identity.isAlias(value2) ? value2.resolve(ctx.doc, ctx) : value2;
     }
     exports.addMergeToJSMap = addMergeToJSMap;
     exports.isMergeKey = isMergeKey;
@@ -1768,20 +1768,20 @@ var require_addPairToJSMap = __commonJS({
     var stringify = require_stringify();
     var identity = require_identity();
     var toJS = require_toJS();
-    function addPairToJSMap(ctx, map2, { key: key2, value }) {
+    function addPairToJSMap(ctx, map2, { key: key2, value: value2 }) {
       if (identity.isNode(key2) && key2.addToJSMap)
-        key2.addToJSMap(ctx, map2, value);
+        key2.addToJSMap(ctx, map2, value2);
       else if (merge2.isMergeKey(ctx, key2))
-        merge2.addMergeToJSMap(ctx, map2, value);
+        merge2.addMergeToJSMap(ctx, map2, value2);
       else {
         const jsKey = toJS.toJS(key2, "", ctx);
         if (map2 instanceof Map) {
-          map2.set(jsKey, toJS.toJS(value, jsKey, ctx));
+          map2.set(jsKey, toJS.toJS(value2, jsKey, ctx));
         } else if (map2 instanceof Set) {
           map2.add(jsKey);
         } else {
           const stringKey = stringifyKey(key2, jsKey, ctx);
-          const jsValue = toJS.toJS(value, stringKey, ctx);
+          const jsValue = toJS.toJS(value2, stringKey, ctx);
           if (stringKey in map2)
             Object.defineProperty(map2, stringKey, {
               value: jsValue,
@@ -1831,24 +1831,24 @@ var require_Pair = __commonJS({
     var stringifyPair = require_stringifyPair();
     var addPairToJSMap = require_addPairToJSMap();
     var identity = require_identity();
-    function createPair(key2, value, ctx) {
+    function createPair(key2, value2, ctx) {
       const k = createNode.createNode(key2, void 0, ctx);
-      const v = createNode.createNode(value, void 0, ctx);
+      const v = createNode.createNode(value2, void 0, ctx);
       return new Pair(k, v);
     }
     var Pair = class _Pair {
-      constructor(key2, value = null) {
+      constructor(key2, value2 = null) {
         Object.defineProperty(this, identity.NODE_TYPE, { value: identity.PAIR });
         this.key = key2;
-        this.value = value;
+        this.value = value2;
       }
       clone(schema) {
-        let { key: key2, value } = this;
+        let { key: key2, value: value2 } = this;
         if (identity.isNode(key2))
           key2 = key2.clone(schema);
-        if (identity.isNode(value))
-          value = value.clone(schema);
-        return new _Pair(key2, value);
+        if (identity.isNode(value2))
+          value2 = value2.clone(schema);
+        return new _Pair(key2, value2);
       }
       toJSON(_, ctx) {
         const pair = ctx?.mapAsMap ? /* @__PURE__ */ new Map() : {};
@@ -2051,17 +2051,17 @@ var require_YAMLMap = __commonJS({
       static from(schema, obj, ctx) {
         const { keepUndefined, replacer } = ctx;
         const map2 = new this(schema);
-        const add = (key2, value) => {
+        const add = (key2, value2) => {
           if (typeof replacer === "function")
-            value = replacer.call(obj, key2, value);
+            value2 = replacer.call(obj, key2, value2);
           else if (Array.isArray(replacer) && !replacer.includes(key2))
             return;
-          if (value !== void 0 || keepUndefined)
-            map2.items.push(Pair.createPair(key2, value, ctx));
+          if (value2 !== void 0 || keepUndefined)
+            map2.items.push(Pair.createPair(key2, value2, ctx));
         };
         if (obj instanceof Map) {
-          for (const [key2, value] of obj)
-            add(key2, value);
+          for (const [key2, value2] of obj)
+            add(key2, value2);
         } else if (obj && typeof obj === "object") {
           for (const key2 of Object.keys(obj))
             add(key2, obj[key2]);
@@ -2119,8 +2119,8 @@ var require_YAMLMap = __commonJS({
       has(key2) {
         return !!findPair(this.items, key2);
       }
-      set(key2, value) {
-        this.add(new Pair.Pair(key2, value), true);
+      set(key2, value2) {
+        this.add(new Pair.Pair(key2, value2), true);
       }
       /**
        * @param ctx - Conversion context, originally set in Document#toJS()
@@ -2198,8 +2198,8 @@ var require_YAMLSeq = __commonJS({
         super(identity.SEQ, schema);
         this.items = [];
       }
-      add(value) {
-        this.items.push(value);
+      add(value2) {
+        this.items.push(value2);
       }
       /**
        * Removes a value from the collection.
@@ -2240,15 +2240,15 @@ var require_YAMLSeq = __commonJS({
        * If `key` does not contain a representation of an integer, this will throw.
        * It may be wrapped in a `Scalar`.
        */
-      set(key2, value) {
+      set(key2, value2) {
         const idx = asItemIndex(key2);
         if (typeof idx !== "number")
           throw new Error(`Expected a valid index, not ${key2}.`);
         const prev = this.items[idx];
-        if (identity.isScalar(prev) && Scalar.isScalarValue(value))
-          prev.value = value;
+        if (identity.isScalar(prev) && Scalar.isScalarValue(value2))
+          prev.value = value2;
         else
-          this.items[idx] = value;
+          this.items[idx] = value2;
       }
       toJSON(_, ctx) {
         const seq = [];
@@ -2324,7 +2324,7 @@ var require_string = __commonJS({
     "use strict";
     var stringifyString = require_stringifyString();
     var string4 = {
-      identify: (value) => typeof value === "string",
+      identify: (value2) => typeof value2 === "string",
       default: true,
       tag: "tag:yaml.org,2002:str",
       resolve: (str) => str,
@@ -2343,7 +2343,7 @@ var require_null = __commonJS({
     "use strict";
     var Scalar = require_Scalar();
     var nullTag = {
-      identify: (value) => value == null,
+      identify: (value2) => value2 == null,
       createNode: () => new Scalar.Scalar(null),
       default: true,
       tag: "tag:yaml.org,2002:null",
@@ -2361,18 +2361,18 @@ var require_bool = __commonJS({
     "use strict";
     var Scalar = require_Scalar();
     var boolTag = {
-      identify: (value) => typeof value === "boolean",
+      identify: (value2) => typeof value2 === "boolean",
       default: true,
       tag: "tag:yaml.org,2002:bool",
       test: /^(?:[Tt]rue|TRUE|[Ff]alse|FALSE)$/,
       resolve: (str) => new Scalar.Scalar(str[0] === "t" || str[0] === "T"),
-      stringify({ source, value }, ctx) {
+      stringify({ source, value: value2 }, ctx) {
         if (source && boolTag.test.test(source)) {
           const sv = source[0] === "t" || source[0] === "T";
-          if (value === sv)
+          if (value2 === sv)
             return source;
         }
-        return value ? ctx.options.trueStr : ctx.options.falseStr;
+        return value2 ? ctx.options.trueStr : ctx.options.falseStr;
       }
     };
     exports.boolTag = boolTag;
@@ -2383,13 +2383,13 @@ var require_bool = __commonJS({
 var require_stringifyNumber = __commonJS({
   "node_modules/yaml/dist/stringify/stringifyNumber.js"(exports) {
     "use strict";
-    function stringifyNumber({ format, minFractionDigits, tag, value }) {
-      if (typeof value === "bigint")
-        return String(value);
-      const num = typeof value === "number" ? value : Number(value);
+    function stringifyNumber({ format, minFractionDigits, tag, value: value2 }) {
+      if (typeof value2 === "bigint")
+        return String(value2);
+      const num = typeof value2 === "number" ? value2 : Number(value2);
       if (!isFinite(num))
         return isNaN(num) ? ".nan" : num < 0 ? "-.inf" : ".inf";
-      let n = Object.is(value, -0) ? "-0" : JSON.stringify(value);
+      let n = Object.is(value2, -0) ? "-0" : JSON.stringify(value2);
       if (!format && minFractionDigits && (!tag || tag === "tag:yaml.org,2002:float") && /^-?\d/.test(n) && !n.includes("e")) {
         let i = n.indexOf(".");
         if (i < 0) {
@@ -2413,7 +2413,7 @@ var require_float = __commonJS({
     var Scalar = require_Scalar();
     var stringifyNumber = require_stringifyNumber();
     var floatNaN = {
-      identify: (value) => typeof value === "number",
+      identify: (value2) => typeof value2 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^(?:[-+]?\.(?:inf|Inf|INF)|\.nan|\.NaN|\.NAN)$/,
@@ -2421,7 +2421,7 @@ var require_float = __commonJS({
       stringify: stringifyNumber.stringifyNumber
     };
     var floatExp = {
-      identify: (value) => typeof value === "number",
+      identify: (value2) => typeof value2 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       format: "EXP",
@@ -2433,7 +2433,7 @@ var require_float = __commonJS({
       }
     };
     var float = {
-      identify: (value) => typeof value === "number",
+      identify: (value2) => typeof value2 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^[-+]?(?:\.[0-9]+|[0-9]+\.[0-9]*)$/,
@@ -2457,16 +2457,16 @@ var require_int = __commonJS({
   "node_modules/yaml/dist/schema/core/int.js"(exports) {
     "use strict";
     var stringifyNumber = require_stringifyNumber();
-    var intIdentify = (value) => typeof value === "bigint" || Number.isInteger(value);
+    var intIdentify = (value2) => typeof value2 === "bigint" || Number.isInteger(value2);
     var intResolve = (str, offset, radix, { intAsBigInt }) => intAsBigInt ? BigInt(str) : parseInt(str.substring(offset), radix);
     function intStringify(node2, radix, prefix) {
-      const { value } = node2;
-      if (intIdentify(value) && value >= 0)
-        return prefix + value.toString(radix);
+      const { value: value2 } = node2;
+      if (intIdentify(value2) && value2 >= 0)
+        return prefix + value2.toString(radix);
       return stringifyNumber.stringifyNumber(node2);
     }
     var intOct = {
-      identify: (value) => intIdentify(value) && value >= 0,
+      identify: (value2) => intIdentify(value2) && value2 >= 0,
       default: true,
       tag: "tag:yaml.org,2002:int",
       format: "OCT",
@@ -2483,7 +2483,7 @@ var require_int = __commonJS({
       stringify: stringifyNumber.stringifyNumber
     };
     var intHex = {
-      identify: (value) => intIdentify(value) && value >= 0,
+      identify: (value2) => intIdentify(value2) && value2 >= 0,
       default: true,
       tag: "tag:yaml.org,2002:int",
       format: "HEX",
@@ -2532,20 +2532,20 @@ var require_schema2 = __commonJS({
     var Scalar = require_Scalar();
     var map2 = require_map();
     var seq = require_seq();
-    function intIdentify(value) {
-      return typeof value === "bigint" || Number.isInteger(value);
+    function intIdentify(value2) {
+      return typeof value2 === "bigint" || Number.isInteger(value2);
     }
-    var stringifyJSON = ({ value }) => JSON.stringify(value);
+    var stringifyJSON = ({ value: value2 }) => JSON.stringify(value2);
     var jsonScalars = [
       {
-        identify: (value) => typeof value === "string",
+        identify: (value2) => typeof value2 === "string",
         default: true,
         tag: "tag:yaml.org,2002:str",
         resolve: (str) => str,
         stringify: stringifyJSON
       },
       {
-        identify: (value) => value == null,
+        identify: (value2) => value2 == null,
         createNode: () => new Scalar.Scalar(null),
         default: true,
         tag: "tag:yaml.org,2002:null",
@@ -2554,7 +2554,7 @@ var require_schema2 = __commonJS({
         stringify: stringifyJSON
       },
       {
-        identify: (value) => typeof value === "boolean",
+        identify: (value2) => typeof value2 === "boolean",
         default: true,
         tag: "tag:yaml.org,2002:bool",
         test: /^true$|^false$/,
@@ -2567,10 +2567,10 @@ var require_schema2 = __commonJS({
         tag: "tag:yaml.org,2002:int",
         test: /^-?(?:0|[1-9][0-9]*)$/,
         resolve: (str, _onError, { intAsBigInt }) => intAsBigInt ? BigInt(str) : parseInt(str, 10),
-        stringify: ({ value }) => intIdentify(value) ? value.toString() : JSON.stringify(value)
+        stringify: ({ value: value2 }) => intIdentify(value2) ? value2.toString() : JSON.stringify(value2)
       },
       {
-        identify: (value) => typeof value === "number",
+        identify: (value2) => typeof value2 === "number",
         default: true,
         tag: "tag:yaml.org,2002:float",
         test: /^-?(?:0|[1-9][0-9]*)(?:\.[0-9]*)?(?:[eE][-+]?[0-9]+)?$/,
@@ -2600,7 +2600,7 @@ var require_binary = __commonJS({
     var Scalar = require_Scalar();
     var stringifyString = require_stringifyString();
     var binary = {
-      identify: (value) => value instanceof Uint8Array,
+      identify: (value2) => value2 instanceof Uint8Array,
       // Buffer inherits from Uint8Array
       default: false,
       tag: "tag:yaml.org,2002:binary",
@@ -2626,10 +2626,10 @@ var require_binary = __commonJS({
           return src;
         }
       },
-      stringify({ comment, type, value }, ctx, onComment, onChompKeep) {
-        if (!value)
+      stringify({ comment, type, value: value2 }, ctx, onComment, onChompKeep) {
+        if (!value2)
           return "";
-        const buf = value;
+        const buf = value2;
         let str;
         if (typeof node_buffer.Buffer === "function") {
           str = buf instanceof node_buffer.Buffer ? buf.toString("base64") : node_buffer.Buffer.from(buf.buffer).toString("base64");
@@ -2701,25 +2701,25 @@ ${cn.comment}` : item.comment;
         for (let it of iterable) {
           if (typeof replacer === "function")
             it = replacer.call(iterable, String(i++), it);
-          let key2, value;
+          let key2, value2;
           if (Array.isArray(it)) {
             if (it.length === 2) {
               key2 = it[0];
-              value = it[1];
+              value2 = it[1];
             } else
               throw new TypeError(`Expected [key, value] tuple: ${it}`);
           } else if (it && it instanceof Object) {
             const keys = Object.keys(it);
             if (keys.length === 1) {
               key2 = keys[0];
-              value = it[key2];
+              value2 = it[key2];
             } else {
               throw new TypeError(`Expected tuple with one key, not ${keys.length} keys`);
             }
           } else {
             key2 = it;
           }
-          pairs2.items.push(Pair.createPair(key2, value, ctx));
+          pairs2.items.push(Pair.createPair(key2, value2, ctx));
         }
       return pairs2;
     }
@@ -2766,16 +2766,16 @@ var require_omap = __commonJS({
         if (ctx?.onCreate)
           ctx.onCreate(map2);
         for (const pair of this.items) {
-          let key2, value;
+          let key2, value2;
           if (identity.isPair(pair)) {
             key2 = toJS.toJS(pair.key, "", ctx);
-            value = toJS.toJS(pair.value, key2, ctx);
+            value2 = toJS.toJS(pair.value, key2, ctx);
           } else {
             key2 = toJS.toJS(pair, "", ctx);
           }
           if (map2.has(key2))
             throw new Error("Ordered maps must not include duplicate keys");
-          map2.set(key2, value);
+          map2.set(key2, value2);
         }
         return map2;
       }
@@ -2789,7 +2789,7 @@ var require_omap = __commonJS({
     YAMLOMap.tag = "tag:yaml.org,2002:omap";
     var omap = {
       collection: "seq",
-      identify: (value) => value instanceof Map,
+      identify: (value2) => value2 instanceof Map,
       nodeClass: YAMLOMap,
       default: false,
       tag: "tag:yaml.org,2002:omap",
@@ -2819,14 +2819,14 @@ var require_bool2 = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/bool.js"(exports) {
     "use strict";
     var Scalar = require_Scalar();
-    function boolStringify({ value, source }, ctx) {
-      const boolObj = value ? trueTag : falseTag;
+    function boolStringify({ value: value2, source }, ctx) {
+      const boolObj = value2 ? trueTag : falseTag;
       if (source && boolObj.test.test(source))
         return source;
-      return value ? ctx.options.trueStr : ctx.options.falseStr;
+      return value2 ? ctx.options.trueStr : ctx.options.falseStr;
     }
     var trueTag = {
-      identify: (value) => value === true,
+      identify: (value2) => value2 === true,
       default: true,
       tag: "tag:yaml.org,2002:bool",
       test: /^(?:Y|y|[Yy]es|YES|[Tt]rue|TRUE|[Oo]n|ON)$/,
@@ -2834,7 +2834,7 @@ var require_bool2 = __commonJS({
       stringify: boolStringify
     };
     var falseTag = {
-      identify: (value) => value === false,
+      identify: (value2) => value2 === false,
       default: true,
       tag: "tag:yaml.org,2002:bool",
       test: /^(?:N|n|[Nn]o|NO|[Ff]alse|FALSE|[Oo]ff|OFF)$/,
@@ -2853,7 +2853,7 @@ var require_float2 = __commonJS({
     var Scalar = require_Scalar();
     var stringifyNumber = require_stringifyNumber();
     var floatNaN = {
-      identify: (value) => typeof value === "number",
+      identify: (value2) => typeof value2 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^(?:[-+]?\.(?:inf|Inf|INF)|\.nan|\.NaN|\.NAN)$/,
@@ -2861,7 +2861,7 @@ var require_float2 = __commonJS({
       stringify: stringifyNumber.stringifyNumber
     };
     var floatExp = {
-      identify: (value) => typeof value === "number",
+      identify: (value2) => typeof value2 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       format: "EXP",
@@ -2873,7 +2873,7 @@ var require_float2 = __commonJS({
       }
     };
     var float = {
-      identify: (value) => typeof value === "number",
+      identify: (value2) => typeof value2 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^[-+]?(?:[0-9][0-9_]*)?\.[0-9_]*$/,
@@ -2900,7 +2900,7 @@ var require_int2 = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/int.js"(exports) {
     "use strict";
     var stringifyNumber = require_stringifyNumber();
-    var intIdentify = (value) => typeof value === "bigint" || Number.isInteger(value);
+    var intIdentify = (value2) => typeof value2 === "bigint" || Number.isInteger(value2);
     function intResolve(str, offset, radix, { intAsBigInt }) {
       const sign = str[0];
       if (sign === "-" || sign === "+")
@@ -2925,10 +2925,10 @@ var require_int2 = __commonJS({
       return sign === "-" ? -1 * n : n;
     }
     function intStringify(node2, radix, prefix) {
-      const { value } = node2;
-      if (intIdentify(value)) {
-        const str = value.toString(radix);
-        return value < 0 ? "-" + prefix + str.substr(1) : prefix + str;
+      const { value: value2 } = node2;
+      if (intIdentify(value2)) {
+        const str = value2.toString(radix);
+        return value2 < 0 ? "-" + prefix + str.substr(1) : prefix + str;
       }
       return stringifyNumber.stringifyNumber(node2);
     }
@@ -3006,13 +3006,13 @@ var require_set = __commonJS({
         const pair = YAMLMap.findPair(this.items, key2);
         return !keepPair && identity.isPair(pair) ? identity.isScalar(pair.key) ? pair.key.value : pair.key : pair;
       }
-      set(key2, value) {
-        if (typeof value !== "boolean")
-          throw new Error(`Expected boolean value for set(key, value) in a YAML set, not ${typeof value}`);
+      set(key2, value2) {
+        if (typeof value2 !== "boolean")
+          throw new Error(`Expected boolean value for set(key, value) in a YAML set, not ${typeof value2}`);
         const prev = YAMLMap.findPair(this.items, key2);
-        if (prev && !value) {
+        if (prev && !value2) {
           this.items.splice(this.items.indexOf(prev), 1);
-        } else if (!prev && value) {
+        } else if (!prev && value2) {
           this.items.push(new Pair.Pair(key2));
         }
       }
@@ -3031,10 +3031,10 @@ var require_set = __commonJS({
         const { replacer } = ctx;
         const set3 = new this(schema);
         if (iterable && Symbol.iterator in Object(iterable))
-          for (let value of iterable) {
+          for (let value2 of iterable) {
             if (typeof replacer === "function")
-              value = replacer.call(iterable, value, value);
-            set3.items.push(Pair.createPair(value, null, ctx));
+              value2 = replacer.call(iterable, value2, value2);
+            set3.items.push(Pair.createPair(value2, null, ctx));
           }
         return set3;
       }
@@ -3042,7 +3042,7 @@ var require_set = __commonJS({
     YAMLSet.tag = "tag:yaml.org,2002:set";
     var set2 = {
       collection: "map",
-      identify: (value) => value instanceof Set,
+      identify: (value2) => value2 instanceof Set,
       nodeClass: YAMLSet,
       default: false,
       tag: "tag:yaml.org,2002:set",
@@ -3076,33 +3076,33 @@ var require_timestamp = __commonJS({
       return sign === "-" ? num(-1) * res : res;
     }
     function stringifySexagesimal(node2) {
-      let { value } = node2;
+      let { value: value2 } = node2;
       let num = (n) => n;
-      if (typeof value === "bigint")
+      if (typeof value2 === "bigint")
         num = (n) => BigInt(n);
-      else if (isNaN(value) || !isFinite(value))
+      else if (isNaN(value2) || !isFinite(value2))
         return stringifyNumber.stringifyNumber(node2);
       let sign = "";
-      if (value < 0) {
+      if (value2 < 0) {
         sign = "-";
-        value *= num(-1);
+        value2 *= num(-1);
       }
       const _60 = num(60);
-      const parts = [value % _60];
-      if (value < 60) {
+      const parts = [value2 % _60];
+      if (value2 < 60) {
         parts.unshift(0);
       } else {
-        value = (value - parts[0]) / _60;
-        parts.unshift(value % _60);
-        if (value >= 60) {
-          value = (value - parts[0]) / _60;
-          parts.unshift(value);
+        value2 = (value2 - parts[0]) / _60;
+        parts.unshift(value2 % _60);
+        if (value2 >= 60) {
+          value2 = (value2 - parts[0]) / _60;
+          parts.unshift(value2);
         }
       }
       return sign + parts.map((n) => String(n).padStart(2, "0")).join(":").replace(/000000\d*$/, "");
     }
     var intTime = {
-      identify: (value) => typeof value === "bigint" || Number.isInteger(value),
+      identify: (value2) => typeof value2 === "bigint" || Number.isInteger(value2),
       default: true,
       tag: "tag:yaml.org,2002:int",
       format: "TIME",
@@ -3111,7 +3111,7 @@ var require_timestamp = __commonJS({
       stringify: stringifySexagesimal
     };
     var floatTime = {
-      identify: (value) => typeof value === "number",
+      identify: (value2) => typeof value2 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       format: "TIME",
@@ -3120,7 +3120,7 @@ var require_timestamp = __commonJS({
       stringify: stringifySexagesimal
     };
     var timestamp = {
-      identify: (value) => value instanceof Date,
+      identify: (value2) => value2 instanceof Date,
       default: true,
       tag: "tag:yaml.org,2002:timestamp",
       // If the time zone is omitted, the timestamp is assumed to be specified in UTC. The time part
@@ -3143,7 +3143,7 @@ var require_timestamp = __commonJS({
         }
         return new Date(date5);
       },
-      stringify: ({ value }) => value?.toISOString().replace(/(T00:00:00)?\.000Z$/, "") ?? ""
+      stringify: ({ value: value2 }) => value2?.toISOString().replace(/(T00:00:00)?\.000Z$/, "") ?? ""
     };
     exports.floatTime = floatTime;
     exports.intTime = intTime;
@@ -3417,7 +3417,7 @@ var require_Document = __commonJS({
     var createNode = require_createNode();
     var directives = require_directives();
     var Document = class _Document {
-      constructor(value, replacer, options) {
+      constructor(value2, replacer, options) {
         this.commentBefore = null;
         this.comment = null;
         this.errors = [];
@@ -3449,7 +3449,7 @@ var require_Document = __commonJS({
         } else
           this.directives = new directives.Directives({ version: version2 });
         this.setSchema(version2, options);
-        this.contents = value === void 0 ? null : this.createNode(value, _replacer, options);
+        this.contents = value2 === void 0 ? null : this.createNode(value2, _replacer, options);
       }
       /**
        * Create a deep copy of this Document and its contents.
@@ -3474,14 +3474,14 @@ var require_Document = __commonJS({
         return copy;
       }
       /** Adds a value to the document. */
-      add(value) {
+      add(value2) {
         if (assertCollection(this.contents))
-          this.contents.add(value);
+          this.contents.add(value2);
       }
       /** Adds a value to the document. */
-      addIn(path, value) {
+      addIn(path, value2) {
         if (assertCollection(this.contents))
-          this.contents.addIn(path, value);
+          this.contents.addIn(path, value2);
       }
       /**
        * Create a new `Alias` node, ensuring that the target `node` has the required anchor.
@@ -3500,10 +3500,10 @@ var require_Document = __commonJS({
         }
         return new Alias.Alias(node2.anchor);
       }
-      createNode(value, replacer, options) {
+      createNode(value2, replacer, options) {
         let _replacer = void 0;
         if (typeof replacer === "function") {
-          value = replacer.call({ "": value }, "", value);
+          value2 = replacer.call({ "": value2 }, "", value2);
           _replacer = replacer;
         } else if (Array.isArray(replacer)) {
           const keyToStr = (v) => typeof v === "number" || v instanceof String || v instanceof Number;
@@ -3530,7 +3530,7 @@ var require_Document = __commonJS({
           schema: this.schema,
           sourceObjects
         };
-        const node2 = createNode.createNode(value, tag, ctx);
+        const node2 = createNode.createNode(value2, tag, ctx);
         if (flow && identity.isCollection(node2))
           node2.flow = true;
         setAnchors();
@@ -3540,9 +3540,9 @@ var require_Document = __commonJS({
        * Convert a key and a value into a `Pair` using the current schema,
        * recursively wrapping all values as `Scalar` or `Collection` nodes.
        */
-      createPair(key2, value, options = {}) {
+      createPair(key2, value2, options = {}) {
         const k = this.createNode(key2, null, options);
-        const v = this.createNode(value, null, options);
+        const v = this.createNode(value2, null, options);
         return new Pair.Pair(k, v);
       }
       /**
@@ -3601,24 +3601,24 @@ var require_Document = __commonJS({
        * Sets a value in this document. For `!!set`, `value` needs to be a
        * boolean to add/remove the item from the set.
        */
-      set(key2, value) {
+      set(key2, value2) {
         if (this.contents == null) {
-          this.contents = Collection.collectionFromPath(this.schema, [key2], value);
+          this.contents = Collection.collectionFromPath(this.schema, [key2], value2);
         } else if (assertCollection(this.contents)) {
-          this.contents.set(key2, value);
+          this.contents.set(key2, value2);
         }
       }
       /**
        * Sets a value in this document. For `!!set`, `value` needs to be a
        * boolean to add/remove the item from the set.
        */
-      setIn(path, value) {
+      setIn(path, value2) {
         if (Collection.isEmptyPath(path)) {
-          this.contents = value;
+          this.contents = value2;
         } else if (this.contents == null) {
-          this.contents = Collection.collectionFromPath(this.schema, Array.from(path), value);
+          this.contents = Collection.collectionFromPath(this.schema, Array.from(path), value2);
         } else if (assertCollection(this.contents)) {
-          this.contents.setIn(path, value);
+          this.contents.setIn(path, value2);
         }
       }
       /**
@@ -4004,7 +4004,7 @@ var require_resolve_block_map = __commonJS({
       let offset = bm.offset;
       let commentEnd = null;
       for (const collItem of bm.items) {
-        const { start, key: key2, sep: sep2, value } = collItem;
+        const { start, key: key2, sep: sep2, value: value2 } = collItem;
         const keyProps = resolveProps.resolveProps(start, {
           indicator: "explicit-key-ind",
           next: key2 ?? sep2?.[0],
@@ -4047,7 +4047,7 @@ var require_resolve_block_map = __commonJS({
           onError(keyStart, "DUPLICATE_KEY", "Map keys must be unique");
         const valueProps = resolveProps.resolveProps(sep2 ?? [], {
           indicator: "map-value-ind",
-          next: value,
+          next: value2,
           offset: keyNode.range[2],
           onError,
           parentIndent: bm.indent,
@@ -4056,14 +4056,14 @@ var require_resolve_block_map = __commonJS({
         offset = valueProps.end;
         if (valueProps.found) {
           if (implicitKey) {
-            if (value?.type === "block-map" && !valueProps.hasNewline)
+            if (value2?.type === "block-map" && !valueProps.hasNewline)
               onError(offset, "BLOCK_AS_IMPLICIT_KEY", "Nested mappings are not allowed in compact mappings");
             if (ctx.options.strict && keyProps.start < valueProps.found.offset - 1024)
               onError(keyNode.range, "KEY_OVER_1024_CHARS", "The : indicator must be at most 1024 chars after the start of an implicit block mapping key");
           }
-          const valueNode = value ? composeNode(ctx, value, valueProps, onError) : composeEmptyNode(ctx, offset, sep2, null, valueProps, onError);
+          const valueNode = value2 ? composeNode(ctx, value2, valueProps, onError) : composeEmptyNode(ctx, offset, sep2, null, valueProps, onError);
           if (ctx.schema.compat)
-            utilFlowIndentCheck.flowIndentCheck(bm.indent, value, onError);
+            utilFlowIndentCheck.flowIndentCheck(bm.indent, value2, onError);
           offset = valueNode.range[2];
           const pair = new Pair.Pair(keyNode, valueNode);
           if (ctx.options.keepSourceTokens)
@@ -4109,18 +4109,18 @@ var require_resolve_block_seq = __commonJS({
         ctx.atKey = false;
       let offset = bs.offset;
       let commentEnd = null;
-      for (const { start, value } of bs.items) {
+      for (const { start, value: value2 } of bs.items) {
         const props = resolveProps.resolveProps(start, {
           indicator: "seq-item-ind",
-          next: value,
+          next: value2,
           offset,
           onError,
           parentIndent: bs.indent,
           startOnNewline: true
         });
         if (!props.found) {
-          if (props.anchor || props.tag || value) {
-            if (value?.type === "block-seq")
+          if (props.anchor || props.tag || value2) {
+            if (value2?.type === "block-seq")
               onError(props.end, "BAD_INDENT", "All sequence items must start at the same column");
             else
               onError(offset, "MISSING_CHAR", "Sequence item without - indicator");
@@ -4131,9 +4131,9 @@ var require_resolve_block_seq = __commonJS({
             continue;
           }
         }
-        const node2 = value ? composeNode(ctx, value, props, onError) : composeEmptyNode(ctx, props.end, start, null, props, onError);
+        const node2 = value2 ? composeNode(ctx, value2, props, onError) : composeEmptyNode(ctx, props.end, start, null, props, onError);
         if (ctx.schema.compat)
-          utilFlowIndentCheck.flowIndentCheck(bs.indent, value, onError);
+          utilFlowIndentCheck.flowIndentCheck(bs.indent, value2, onError);
         offset = node2.range[2];
         seq.items.push(node2);
       }
@@ -4215,7 +4215,7 @@ var require_resolve_flow_collection = __commonJS({
       let offset = fc.offset + fc.start.source.length;
       for (let i = 0; i < fc.items.length; ++i) {
         const collItem = fc.items[i];
-        const { start, key: key2, sep: sep2, value } = collItem;
+        const { start, key: key2, sep: sep2, value: value2 } = collItem;
         const props = resolveProps.resolveProps(start, {
           flow: fcName,
           indicator: "explicit-key-ind",
@@ -4226,7 +4226,7 @@ var require_resolve_flow_collection = __commonJS({
           startOnNewline: false
         });
         if (!props.found) {
-          if (!props.anchor && !props.tag && !sep2 && !value) {
+          if (!props.anchor && !props.tag && !sep2 && !value2) {
             if (i === 0 && props.comma)
               onError(props.comma, "UNEXPECTED_TOKEN", `Unexpected , in ${fcName}`);
             else if (i < fc.items.length - 1)
@@ -4281,10 +4281,10 @@ var require_resolve_flow_collection = __commonJS({
           }
         }
         if (!isMap2 && !sep2 && !props.found) {
-          const valueNode = value ? composeNode(ctx, value, props, onError) : composeEmptyNode(ctx, props.end, sep2, null, props, onError);
+          const valueNode = value2 ? composeNode(ctx, value2, props, onError) : composeEmptyNode(ctx, props.end, sep2, null, props, onError);
           coll.items.push(valueNode);
           offset = valueNode.range[2];
-          if (isBlock(value))
+          if (isBlock(value2))
             onError(valueNode.range, "BLOCK_IN_FLOW", blockMsg);
         } else {
           ctx.atKey = true;
@@ -4296,7 +4296,7 @@ var require_resolve_flow_collection = __commonJS({
           const valueProps = resolveProps.resolveProps(sep2 ?? [], {
             flow: fcName,
             indicator: "map-value-ind",
-            next: value,
+            next: value2,
             offset: keyNode.range[2],
             onError,
             parentIndent: fc.indent,
@@ -4316,15 +4316,15 @@ var require_resolve_flow_collection = __commonJS({
               if (props.start < valueProps.found.offset - 1024)
                 onError(valueProps.found, "KEY_OVER_1024_CHARS", "The : indicator must be at most 1024 chars after the start of an implicit flow sequence key");
             }
-          } else if (value) {
-            if ("source" in value && value.source?.[0] === ":")
-              onError(value, "MISSING_CHAR", `Missing space after : in ${fcName}`);
+          } else if (value2) {
+            if ("source" in value2 && value2.source?.[0] === ":")
+              onError(value2, "MISSING_CHAR", `Missing space after : in ${fcName}`);
             else
               onError(valueProps.start, "MISSING_CHAR", `Missing , or : between ${fcName} items`);
           }
-          const valueNode = value ? composeNode(ctx, value, valueProps, onError) : valueProps.found ? composeEmptyNode(ctx, valueProps.end, sep2, null, valueProps, onError) : null;
+          const valueNode = value2 ? composeNode(ctx, value2, valueProps, onError) : valueProps.found ? composeEmptyNode(ctx, valueProps.end, sep2, null, valueProps, onError) : null;
           if (valueNode) {
-            if (isBlock(value))
+            if (isBlock(value2))
               onError(valueNode.range, "BLOCK_IN_FLOW", blockMsg);
           } else if (valueProps.comment) {
             if (keyNode.comment)
@@ -4467,11 +4467,11 @@ var require_resolve_block_scalar = __commonJS({
           break;
       }
       if (chompStart === 0) {
-        const value2 = header.chomp === "+" && lines.length > 0 ? "\n".repeat(Math.max(1, lines.length - 1)) : "";
+        const value3 = header.chomp === "+" && lines.length > 0 ? "\n".repeat(Math.max(1, lines.length - 1)) : "";
         let end2 = start + header.length;
         if (scalar2.source)
           end2 += scalar2.source.length;
-        return { value: value2, type, comment: header.comment, range: [start, end2, end2] };
+        return { value: value3, type, comment: header.comment, range: [start, end2, end2] };
       }
       let trimIndent = scalar2.indent + header.indent;
       let offset = scalar2.offset + header.length;
@@ -4501,11 +4501,11 @@ var require_resolve_block_scalar = __commonJS({
         if (lines[i][0].length > trimIndent)
           chompStart = i + 1;
       }
-      let value = "";
+      let value2 = "";
       let sep2 = "";
       let prevMoreIndented = false;
       for (let i = 0; i < contentStart; ++i)
-        value += lines[i][0].slice(trimIndent) + "\n";
+        value2 += lines[i][0].slice(trimIndent) + "\n";
       for (let i = contentStart; i < chompStart; ++i) {
         let [indent, content] = lines[i];
         offset += indent.length + content.length + 1;
@@ -4519,23 +4519,23 @@ var require_resolve_block_scalar = __commonJS({
           indent = "";
         }
         if (type === Scalar.Scalar.BLOCK_LITERAL) {
-          value += sep2 + indent.slice(trimIndent) + content;
+          value2 += sep2 + indent.slice(trimIndent) + content;
           sep2 = "\n";
         } else if (indent.length > trimIndent || content[0] === "	") {
           if (sep2 === " ")
             sep2 = "\n";
           else if (!prevMoreIndented && sep2 === "\n")
             sep2 = "\n\n";
-          value += sep2 + indent.slice(trimIndent) + content;
+          value2 += sep2 + indent.slice(trimIndent) + content;
           sep2 = "\n";
           prevMoreIndented = true;
         } else if (content === "") {
           if (sep2 === "\n")
-            value += "\n";
+            value2 += "\n";
           else
             sep2 = "\n";
         } else {
-          value += sep2 + content;
+          value2 += sep2 + content;
           sep2 = " ";
           prevMoreIndented = false;
         }
@@ -4545,15 +4545,15 @@ var require_resolve_block_scalar = __commonJS({
           break;
         case "+":
           for (let i = chompStart; i < lines.length; ++i)
-            value += "\n" + lines[i][0].slice(trimIndent);
-          if (value[value.length - 1] !== "\n")
-            value += "\n";
+            value2 += "\n" + lines[i][0].slice(trimIndent);
+          if (value2[value2.length - 1] !== "\n")
+            value2 += "\n";
           break;
         default:
-          value += "\n";
+          value2 += "\n";
       }
       const end = start + header.length + scalar2.source.length;
-      return { value, type, comment: header.comment, range: [start, end, end] };
+      return { value: value2, type, comment: header.comment, range: [start, end, end] };
     }
     function parseBlockScalarHeader({ offset, props }, strict, onError) {
       if (props[0].type !== "block-scalar-header") {
@@ -4638,20 +4638,20 @@ var require_resolve_flow_scalar = __commonJS({
     function resolveFlowScalar(scalar2, strict, onError) {
       const { offset, type, source, end } = scalar2;
       let _type;
-      let value;
+      let value2;
       const _onError = (rel, code2, msg) => onError(offset + rel, code2, msg);
       switch (type) {
         case "scalar":
           _type = Scalar.Scalar.PLAIN;
-          value = plainValue(source, _onError);
+          value2 = plainValue(source, _onError);
           break;
         case "single-quoted-scalar":
           _type = Scalar.Scalar.QUOTE_SINGLE;
-          value = singleQuotedValue(source, _onError);
+          value2 = singleQuotedValue(source, _onError);
           break;
         case "double-quoted-scalar":
           _type = Scalar.Scalar.QUOTE_DOUBLE;
-          value = doubleQuotedValue(source, _onError);
+          value2 = doubleQuotedValue(source, _onError);
           break;
         /* istanbul ignore next should not happen */
         default:
@@ -4666,7 +4666,7 @@ var require_resolve_flow_scalar = __commonJS({
       const valueEnd = offset + source.length;
       const re = resolveEnd.resolveEnd(end, valueEnd, strict, onError);
       return {
-        value,
+        value: value2,
         type: _type,
         comment: re.comment,
         range: [offset, valueEnd, re.offset]
@@ -4859,28 +4859,28 @@ var require_compose_scalar = __commonJS({
     var resolveBlockScalar = require_resolve_block_scalar();
     var resolveFlowScalar = require_resolve_flow_scalar();
     function composeScalar(ctx, token, tagToken, onError) {
-      const { value, type, comment, range } = token.type === "block-scalar" ? resolveBlockScalar.resolveBlockScalar(ctx, token, onError) : resolveFlowScalar.resolveFlowScalar(token, ctx.options.strict, onError);
+      const { value: value2, type, comment, range } = token.type === "block-scalar" ? resolveBlockScalar.resolveBlockScalar(ctx, token, onError) : resolveFlowScalar.resolveFlowScalar(token, ctx.options.strict, onError);
       const tagName = tagToken ? ctx.directives.tagName(tagToken.source, (msg) => onError(tagToken, "TAG_RESOLVE_FAILED", msg)) : null;
       let tag;
       if (ctx.options.stringKeys && ctx.atKey) {
         tag = ctx.schema[identity.SCALAR];
       } else if (tagName)
-        tag = findScalarTagByName(ctx.schema, value, tagName, tagToken, onError);
+        tag = findScalarTagByName(ctx.schema, value2, tagName, tagToken, onError);
       else if (token.type === "scalar")
-        tag = findScalarTagByTest(ctx, value, token, onError);
+        tag = findScalarTagByTest(ctx, value2, token, onError);
       else
         tag = ctx.schema[identity.SCALAR];
       let scalar2;
       try {
-        const res = tag.resolve(value, (msg) => onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg), ctx.options);
+        const res = tag.resolve(value2, (msg) => onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg), ctx.options);
         scalar2 = identity.isScalar(res) ? res : new Scalar.Scalar(res);
       } catch (error62) {
         const msg = error62 instanceof Error ? error62.message : String(error62);
         onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg);
-        scalar2 = new Scalar.Scalar(value);
+        scalar2 = new Scalar.Scalar(value2);
       }
       scalar2.range = range;
-      scalar2.source = value;
+      scalar2.source = value2;
       if (type)
         scalar2.type = type;
       if (tagName)
@@ -4891,7 +4891,7 @@ var require_compose_scalar = __commonJS({
         scalar2.comment = comment;
       return scalar2;
     }
-    function findScalarTagByName(schema, value, tagName, tagToken, onError) {
+    function findScalarTagByName(schema, value2, tagName, tagToken, onError) {
       if (tagName === "!")
         return schema[identity.SCALAR];
       const matchWithTest = [];
@@ -4904,7 +4904,7 @@ var require_compose_scalar = __commonJS({
         }
       }
       for (const tag of matchWithTest)
-        if (tag.test?.test(value))
+        if (tag.test?.test(value2))
           return tag;
       const kt = schema.knownTags[tagName];
       if (kt && !kt.collection) {
@@ -4914,10 +4914,10 @@ var require_compose_scalar = __commonJS({
       onError(tagToken, "TAG_RESOLVE_FAILED", `Unresolved tag: ${tagName}`, tagName !== "tag:yaml.org,2002:str");
       return schema[identity.SCALAR];
     }
-    function findScalarTagByTest({ atKey, directives, schema }, value, token, onError) {
-      const tag = schema.tags.find((tag2) => (tag2.default === true || atKey && tag2.default === "key") && tag2.test?.test(value)) || schema[identity.SCALAR];
+    function findScalarTagByTest({ atKey, directives, schema }, value2, token, onError) {
+      const tag = schema.tags.find((tag2) => (tag2.default === true || atKey && tag2.default === "key") && tag2.test?.test(value2)) || schema[identity.SCALAR];
       if (schema.compat) {
-        const compat = schema.compat.find((tag2) => tag2.default && tag2.test?.test(value)) ?? schema[identity.SCALAR];
+        const compat = schema.compat.find((tag2) => tag2.default && tag2.test?.test(value2)) ?? schema[identity.SCALAR];
         if (tag.tag !== compat.tag) {
           const ts = directives.tagString(tag.tag);
           const cs = directives.tagString(compat.tag);
@@ -5075,7 +5075,7 @@ var require_compose_doc = __commonJS({
     var composeNode = require_compose_node();
     var resolveEnd = require_resolve_end();
     var resolveProps = require_resolve_props();
-    function composeDoc(options, directives, { offset, start, value, end }, onError) {
+    function composeDoc(options, directives, { offset, start, value: value2, end }, onError) {
       const opts = Object.assign({ _directives: directives }, options);
       const doc = new Document.Document(void 0, opts);
       const ctx = {
@@ -5087,7 +5087,7 @@ var require_compose_doc = __commonJS({
       };
       const props = resolveProps.resolveProps(start, {
         indicator: "doc-start",
-        next: value ?? end?.[0],
+        next: value2 ?? end?.[0],
         offset,
         onError,
         parentIndent: 0,
@@ -5095,10 +5095,10 @@ var require_compose_doc = __commonJS({
       });
       if (props.found) {
         doc.directives.docStart = true;
-        if (value && (value.type === "block-map" || value.type === "block-seq") && !props.hasNewline)
+        if (value2 && (value2.type === "block-map" || value2.type === "block-seq") && !props.hasNewline)
           onError(props.end, "MISSING_CHAR", "Block collection cannot start on same line with directives-end marker");
       }
-      doc.contents = value ? composeNode.composeNode(ctx, value, props, onError) : composeNode.composeEmptyNode(ctx, props.end, start, null, props, onError);
+      doc.contents = value2 ? composeNode.composeNode(ctx, value2, props, onError) : composeNode.composeEmptyNode(ctx, props.end, start, null, props, onError);
       const contentEnd = doc.contents.range[2];
       const re = resolveEnd.resolveEnd(end, contentEnd, false, onError);
       if (re.comment)
@@ -5346,9 +5346,9 @@ var require_cst_scalar = __commonJS({
       }
       return null;
     }
-    function createScalarToken(value, context) {
+    function createScalarToken(value2, context) {
       const { implicitKey = false, indent, inFlow = false, offset = -1, type = "PLAIN" } = context;
-      const source = stringifyString.stringifyString({ type, value }, {
+      const source = stringifyString.stringifyString({ type, value: value2 }, {
         implicitKey,
         indent: indent > 0 ? " ".repeat(indent) : "",
         inFlow,
@@ -5378,7 +5378,7 @@ var require_cst_scalar = __commonJS({
           return { type: "scalar", offset, indent, source, end };
       }
     }
-    function setScalarValue(token, value, context = {}) {
+    function setScalarValue(token, value2, context = {}) {
       let { afterKey = false, implicitKey = false, inFlow = false, type } = context;
       let indent = "indent" in token ? token.indent : null;
       if (afterKey && typeof indent === "number")
@@ -5401,7 +5401,7 @@ var require_cst_scalar = __commonJS({
           default:
             type = "PLAIN";
         }
-      const source = stringifyString.stringifyString({ type, value }, {
+      const source = stringifyString.stringifyString({ type, value: value2 }, {
         implicitKey: implicitKey || indent === null,
         indent: indent !== null && indent > 0 ? " ".repeat(indent) : "",
         inFlow,
@@ -5547,7 +5547,7 @@ var require_cst_stringify = __commonJS({
         }
       }
     }
-    function stringifyItem({ start, key: key2, sep: sep2, value }) {
+    function stringifyItem({ start, key: key2, sep: sep2, value: value2 }) {
       let res = "";
       for (const st of start)
         res += st.source;
@@ -5556,8 +5556,8 @@ var require_cst_stringify = __commonJS({
       if (sep2)
         for (const st of sep2)
           res += st.source;
-      if (value)
-        res += stringifyToken(value);
+      if (value2)
+        res += stringifyToken(value2);
       return res;
     }
     exports.stringify = stringify;
@@ -7290,7 +7290,7 @@ var require_public_api = __commonJS({
       }
       return doc.toJS(Object.assign({ reviver: _reviver }, options));
     }
-    function stringify(value, replacer, options) {
+    function stringify(value2, replacer, options) {
       let _replacer = null;
       if (typeof replacer === "function" || Array.isArray(replacer)) {
         _replacer = replacer;
@@ -7303,14 +7303,14 @@ var require_public_api = __commonJS({
         const indent = Math.round(options);
         options = indent < 1 ? void 0 : indent > 8 ? { indent: 8 } : { indent };
       }
-      if (value === void 0) {
+      if (value2 === void 0) {
         const { keepUndefined } = options ?? replacer ?? {};
         if (!keepUndefined)
           return void 0;
       }
-      if (identity.isDocument(value) && !_replacer)
-        return value.toString(options);
-      return new Document.Document(value, _replacer, options).toString(options);
+      if (identity.isDocument(value2) && !_replacer)
+        return value2.toString(options);
+      return new Document.Document(value2, _replacer, options).toString(options);
     }
     exports.parse = parse5;
     exports.parseAllDocuments = parseAllDocuments;
@@ -7427,9 +7427,9 @@ var require_backend_impl = __commonJS({
           await backendInfo.initPromise;
           backendInfo.initialized = true;
           return backendInfo.backend;
-        } catch (e) {
+        } catch (e2) {
           if (!isInitializing) {
-            backendInfo.error = `${e}`;
+            backendInfo.error = `${e2}`;
             backendInfo.aborted = true;
           }
           return backendInfo.error;
@@ -7459,7 +7459,7 @@ var require_backend_impl = __commonJS({
         }
       }
       if (!backend) {
-        throw new Error(`no available backend found. ERR: ${errors.map((e) => `[${e.name}] ${e.err}`).join(", ")}`);
+        throw new Error(`no available backend found. ERR: ${errors.map((e2) => `[${e2.name}] ${e2.err}`).join(", ")}`);
       }
       for (const { name, err } of errors) {
         if (backendHints.includes(name)) {
@@ -7519,14 +7519,14 @@ var require_env_impl = __commonJS({
       webgl: {},
       webgpu: {},
       versions: { common: version_js_1.version },
-      set logLevel(value) {
-        if (value === void 0) {
+      set logLevel(value2) {
+        if (value2 === void 0) {
           return;
         }
-        if (typeof value !== "string" || ["verbose", "info", "warning", "error", "fatal"].indexOf(value) === -1) {
-          throw new Error(`Unsupported logging level: ${value}`);
+        if (typeof value2 !== "string" || ["verbose", "info", "warning", "error", "fatal"].indexOf(value2) === -1) {
+          throw new Error(`Unsupported logging level: ${value2}`);
         }
-        logLevelValue = value;
+        logLevelValue = value2;
       },
       get logLevel() {
         return logLevelValue;
@@ -8354,11 +8354,11 @@ var require_trace = __commonJS({
     Object.defineProperty(exports, "__esModule", { value: true });
     exports.TRACE_EVENT_END = exports.TRACE_EVENT_BEGIN = exports.TRACE_FUNC_END = exports.TRACE_FUNC_BEGIN = exports.TRACE = void 0;
     var env_impl_js_1 = require_env_impl();
-    var TRACE = (deviceType, label) => {
+    var TRACE = (deviceType, label2) => {
       if (typeof env_impl_js_1.env.trace === "undefined" ? !env_impl_js_1.env.wasm.trace : !env_impl_js_1.env.trace) {
         return;
       }
-      console.timeStamp(`${deviceType}::ORT::${label}`);
+      console.timeStamp(`${deviceType}::ORT::${label2}`);
     };
     exports.TRACE = TRACE;
     var TRACE_FUNC = (msg, extraMsg) => {
@@ -8366,11 +8366,11 @@ var require_trace = __commonJS({
       let hasTraceFunc = false;
       for (let i = 0; i < stack.length; i++) {
         if (hasTraceFunc && !stack[i].includes("TRACE_FUNC")) {
-          let label = `FUNC_${msg}::${stack[i].trim().split(" ")[1]}`;
+          let label2 = `FUNC_${msg}::${stack[i].trim().split(" ")[1]}`;
           if (extraMsg) {
-            label += `::${extraMsg}`;
+            label2 += `::${extraMsg}`;
           }
-          (0, exports.TRACE)("CPU", label);
+          (0, exports.TRACE)("CPU", label2);
           return;
         }
         if (stack[i].includes("TRACE_FUNC")) {
@@ -8727,11 +8727,11 @@ var require_binding = __commonJS({
 var require_backend2 = __commonJS({
   "node_modules/onnxruntime-node/dist/backend.js"(exports) {
     "use strict";
-    var __classPrivateFieldSet = exports && exports.__classPrivateFieldSet || function(receiver, state, value, kind, f) {
+    var __classPrivateFieldSet = exports && exports.__classPrivateFieldSet || function(receiver, state, value2, kind, f) {
       if (kind === "m") throw new TypeError("Private method is not writable");
       if (kind === "a" && !f) throw new TypeError("Private accessor was defined without a setter");
       if (typeof state === "function" ? receiver !== state || !f : !state.has(receiver)) throw new TypeError("Cannot write private member to an object whose class did not declare it");
-      return kind === "a" ? f.call(receiver, value) : f ? f.value = value : state.set(receiver, value), value;
+      return kind === "a" ? f.call(receiver, value2) : f ? f.value = value2 : state.set(receiver, value2), value2;
     };
     var __classPrivateFieldGet = exports && exports.__classPrivateFieldGet || function(receiver, state, kind, f) {
       if (kind === "a" && !f) throw new TypeError("Private accessor was defined without a getter");
@@ -8838,8 +8838,8 @@ var require_backend2 = __commonJS({
           setImmediate(() => {
             try {
               resolve6(__classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").run(feeds, fetches, options));
-            } catch (e) {
-              reject(e);
+            } catch (e2) {
+              reject(e2);
             }
           });
         });
@@ -8855,8 +8855,8 @@ var require_backend2 = __commonJS({
           setImmediate(() => {
             try {
               resolve6(new OnnxruntimeSessionHandler(pathOrBuffer, options || {}));
-            } catch (e) {
-              reject(e);
+            } catch (e2) {
+              reject(e2);
             }
           });
         });
@@ -9458,13 +9458,13 @@ var require_longbits = __commonJS({
       return 1;
     };
     var zeroHash = LongBits.zeroHash = "\0\0\0\0\0\0\0\0";
-    LongBits.fromNumber = function fromNumber(value) {
-      if (value === 0)
+    LongBits.fromNumber = function fromNumber(value2) {
+      if (value2 === 0)
         return zero;
-      var sign = value < 0;
+      var sign = value2 < 0;
       if (sign)
-        value = -value;
-      var lo = value >>> 0, hi = (value - lo) / 4294967296 >>> 0;
+        value2 = -value2;
+      var lo = value2 >>> 0, hi = (value2 - lo) / 4294967296 >>> 0;
       if (sign) {
         hi = ~hi >>> 0;
         lo = ~lo >>> 0;
@@ -9476,16 +9476,16 @@ var require_longbits = __commonJS({
       }
       return new LongBits(lo, hi);
     };
-    LongBits.from = function from(value) {
-      if (typeof value === "number")
-        return LongBits.fromNumber(value);
-      if (typeof value === "string" || value instanceof String) {
+    LongBits.from = function from(value2) {
+      if (typeof value2 === "number")
+        return LongBits.fromNumber(value2);
+      if (typeof value2 === "string" || value2 instanceof String) {
         if (Long)
-          value = Long.fromString(value);
+          value2 = Long.fromString(value2);
         else
-          return LongBits.fromNumber(parseInt(value, 10));
+          return LongBits.fromNumber(parseInt(value2, 10));
       }
-      return value.low || value.high ? new LongBits(value.low >>> 0, value.high >>> 0) : zero;
+      return value2.low || value2.high ? new LongBits(value2.low >>> 0, value2.high >>> 0) : zero;
     };
     LongBits.prototype.toNumber = function toNumber(unsigned) {
       if (!unsigned && this.hi >>> 31) {
@@ -9910,49 +9910,49 @@ var require_umd = __commonJS({
         function isLong(obj) {
           return (obj && obj["__isLong__"]) === true;
         }
-        function ctz32(value) {
-          var c = Math.clz32(value & -value);
-          return value ? 31 - c : c;
+        function ctz32(value2) {
+          var c = Math.clz32(value2 & -value2);
+          return value2 ? 31 - c : c;
         }
         Long.isLong = isLong;
         var INT_CACHE = {};
         var UINT_CACHE = {};
-        function fromInt(value, unsigned) {
+        function fromInt(value2, unsigned) {
           var obj, cachedObj, cache;
           if (unsigned) {
-            value >>>= 0;
-            if (cache = 0 <= value && value < 256) {
-              cachedObj = UINT_CACHE[value];
+            value2 >>>= 0;
+            if (cache = 0 <= value2 && value2 < 256) {
+              cachedObj = UINT_CACHE[value2];
               if (cachedObj) return cachedObj;
             }
-            obj = fromBits(value, 0, true);
-            if (cache) UINT_CACHE[value] = obj;
+            obj = fromBits(value2, 0, true);
+            if (cache) UINT_CACHE[value2] = obj;
             return obj;
           } else {
-            value |= 0;
-            if (cache = -128 <= value && value < 128) {
-              cachedObj = INT_CACHE[value];
+            value2 |= 0;
+            if (cache = -128 <= value2 && value2 < 128) {
+              cachedObj = INT_CACHE[value2];
               if (cachedObj) return cachedObj;
             }
-            obj = fromBits(value, value < 0 ? -1 : 0, false);
-            if (cache) INT_CACHE[value] = obj;
+            obj = fromBits(value2, value2 < 0 ? -1 : 0, false);
+            if (cache) INT_CACHE[value2] = obj;
             return obj;
           }
         }
         Long.fromInt = fromInt;
-        function fromNumber(value, unsigned) {
-          if (isNaN(value)) return unsigned ? UZERO : ZERO;
+        function fromNumber(value2, unsigned) {
+          if (isNaN(value2)) return unsigned ? UZERO : ZERO;
           if (unsigned) {
-            if (value < 0) return UZERO;
-            if (value >= TWO_PWR_64_DBL) return MAX_UNSIGNED_VALUE;
+            if (value2 < 0) return UZERO;
+            if (value2 >= TWO_PWR_64_DBL) return MAX_UNSIGNED_VALUE;
           } else {
-            if (value <= -TWO_PWR_63_DBL) return MIN_VALUE;
-            if (value + 1 >= TWO_PWR_63_DBL) return MAX_VALUE;
+            if (value2 <= -TWO_PWR_63_DBL) return MIN_VALUE;
+            if (value2 + 1 >= TWO_PWR_63_DBL) return MAX_VALUE;
           }
-          if (value < 0) return fromNumber(-value, unsigned).neg();
+          if (value2 < 0) return fromNumber(-value2, unsigned).neg();
           return fromBits(
-            value % TWO_PWR_32_DBL | 0,
-            value / TWO_PWR_32_DBL | 0,
+            value2 % TWO_PWR_32_DBL | 0,
+            value2 / TWO_PWR_32_DBL | 0,
             unsigned
           );
         }
@@ -9982,13 +9982,13 @@ var require_umd = __commonJS({
           var radixToPower = fromNumber(pow_dbl(radix, 8));
           var result = ZERO;
           for (var i = 0; i < str.length; i += 8) {
-            var size = Math.min(8, str.length - i), value = parseInt(str.substring(i, i + size), radix);
+            var size = Math.min(8, str.length - i), value2 = parseInt(str.substring(i, i + size), radix);
             if (size < 8) {
               var power = fromNumber(pow_dbl(radix, size));
-              result = result.mul(power).add(fromNumber(value));
+              result = result.mul(power).add(fromNumber(value2));
             } else {
               result = result.mul(radixToPower);
-              result = result.add(fromNumber(value));
+              result = result.add(fromNumber(value2));
             }
           }
           result.unsigned = unsigned;
@@ -10499,14 +10499,14 @@ var require_umd = __commonJS({
           );
         };
         if (typeof BigInt === "function") {
-          Long.fromBigInt = function fromBigInt(value, unsigned) {
-            var lowBits = Number(BigInt.asIntN(32, value));
-            var highBits = Number(BigInt.asIntN(32, value >> BigInt(32)));
+          Long.fromBigInt = function fromBigInt(value2, unsigned) {
+            var lowBits = Number(BigInt.asIntN(32, value2));
+            var highBits = Number(BigInt.asIntN(32, value2 >> BigInt(32)));
             return fromBits(lowBits, highBits, unsigned);
           };
-          Long.fromValue = function fromValueWithBigInt(value, unsigned) {
-            if (typeof value === "bigint") return Long.fromBigInt(value, unsigned);
-            return fromValue(value, unsigned);
+          Long.fromValue = function fromValueWithBigInt(value2, unsigned) {
+            if (typeof value2 === "bigint") return Long.fromBigInt(value2, unsigned);
+            return fromValue(value2, unsigned);
           };
           LongPrototype.toBigInt = function toBigInt() {
             var lowBigInt = BigInt(this.low >>> 0);
@@ -10547,14 +10547,14 @@ var require_minimal = __commonJS({
       {}
     );
     util.isInteger = Number.isInteger || /* istanbul ignore next */
-    function isInteger(value) {
-      return typeof value === "number" && isFinite(value) && Math.floor(value) === value;
+    function isInteger(value2) {
+      return typeof value2 === "number" && isFinite(value2) && Math.floor(value2) === value2;
     };
-    util.isString = function isString(value) {
-      return typeof value === "string" || value instanceof String;
+    util.isString = function isString(value2) {
+      return typeof value2 === "string" || value2 instanceof String;
     };
-    util.isObject = function isObject2(value) {
-      return value && typeof value === "object";
+    util.isObject = function isObject2(value2) {
+      return value2 && typeof value2 === "object";
     };
     util.isset = /**
      * Checks if a property on a message is considered to be present.
@@ -10563,9 +10563,9 @@ var require_minimal = __commonJS({
      * @returns {boolean} `true` if considered to be present, otherwise `false`
      */
     util.isSet = function isSet(obj, prop) {
-      var value = obj[prop];
-      if (value != null && Object.hasOwnProperty.call(obj, prop))
-        return typeof value !== "object" || (Array.isArray(value) ? value.length : Object.keys(value).length) > 0;
+      var value2 = obj[prop];
+      if (value2 != null && Object.hasOwnProperty.call(obj, prop))
+        return typeof value2 !== "object" || (Array.isArray(value2) ? value2.length : Object.keys(value2).length) > 0;
       return false;
     };
     util.Buffer = (function() {
@@ -10575,7 +10575,7 @@ var require_minimal = __commonJS({
           /* istanbul ignore next */
           null
         );
-      } catch (e) {
+      } catch (e2) {
         return null;
       }
     })();
@@ -10603,15 +10603,15 @@ var require_minimal = __commonJS({
       try {
         var Long = require_umd();
         return Long && Long.isLong ? Long : null;
-      } catch (e) {
+      } catch (e2) {
         return null;
       }
     })();
     util.key2Re = /^(?:true|false|0|1)$/;
     util.key32Re = /^-?(?:0|[1-9][0-9]*)$/;
     util.key64Re = /^(?:[\x00-\xff]{8}|-?(?:0|[1-9][0-9]*))$/;
-    util.longToHash = function longToHash(value) {
-      return value ? util.LongBits.from(value).toHash() : util.LongBits.zeroHash;
+    util.longToHash = function longToHash(value2) {
+      return value2 ? util.LongBits.from(value2).toHash() : util.LongBits.zeroHash;
     };
     util.longFromHash = function longFromHash(hash2, unsigned) {
       var bits = util.LongBits.fromHash(hash2);
@@ -10687,7 +10687,7 @@ var require_minimal = __commonJS({
           configurable: true
         },
         toString: {
-          value: function value() {
+          value: function value2() {
             return this.name + ": " + this.message;
           },
           writable: true,
@@ -10763,8 +10763,8 @@ var require_writer = __commonJS({
       return new Uint8Array(size);
     };
     Writer.alloc = util.pool(Writer.alloc, Uint8Array.prototype.subarray);
-    function sizeVarint32(value) {
-      return value < 128 ? 1 : value < 16384 ? 2 : value < 2097152 ? 3 : value < 268435456 ? 4 : 5;
+    function sizeVarint32(value2) {
+      return value2 < 128 ? 1 : value2 < 16384 ? 2 : value2 < 2097152 ? 3 : value2 < 268435456 ? 4 : 5;
     }
     Writer.prototype._reserve = function _reserve(n) {
       var need = this.pos + n;
@@ -10790,24 +10790,24 @@ var require_writer = __commonJS({
       buf[pos] = val;
       return pos + 1;
     }
-    Writer.prototype.uint32 = function write_uint32(value) {
-      value = value >>> 0;
+    Writer.prototype.uint32 = function write_uint32(value2) {
+      value2 = value2 >>> 0;
       this._reserve(5);
       var pos = this.pos;
-      this.pos = writeVarint32(value, this.buf, pos);
+      this.pos = writeVarint32(value2, this.buf, pos);
       return this;
     };
-    Writer.prototype.int32 = function write_int32(value) {
-      if ((value |= 0) < 0) {
+    Writer.prototype.int32 = function write_int32(value2) {
+      if ((value2 |= 0) < 0) {
         this._reserve(10);
-        writeVarint64(LongBits.fromNumber(value), this.buf, this.pos);
+        writeVarint64(LongBits.fromNumber(value2), this.buf, this.pos);
         this.pos += 10;
         return this;
       }
-      return this.uint32(value);
+      return this.uint32(value2);
     };
-    Writer.prototype.sint32 = function write_sint32(value) {
-      return this.uint32((value << 1 ^ value >> 31) >>> 0);
+    Writer.prototype.sint32 = function write_sint32(value2) {
+      return this.uint32((value2 << 1 ^ value2 >> 31) >>> 0);
     };
     function writeVarint64(val, buf, pos) {
       var lo = val.lo, hi = val.hi;
@@ -10823,24 +10823,24 @@ var require_writer = __commonJS({
       buf[pos] = lo;
       return pos + 1;
     }
-    Writer.prototype.uint64 = function write_uint64(value) {
-      var bits = LongBits.from(value);
+    Writer.prototype.uint64 = function write_uint64(value2) {
+      var bits = LongBits.from(value2);
       this._reserve(10);
       var pos = this.pos;
       this.pos = writeVarint64(bits, this.buf, pos);
       return this;
     };
     Writer.prototype.int64 = Writer.prototype.uint64;
-    Writer.prototype.sint64 = function write_sint64(value) {
-      var bits = LongBits.from(value).zzEncode();
+    Writer.prototype.sint64 = function write_sint64(value2) {
+      var bits = LongBits.from(value2).zzEncode();
       this._reserve(10);
       var pos = this.pos;
       this.pos = writeVarint64(bits, this.buf, pos);
       return this;
     };
-    Writer.prototype.bool = function write_bool(value) {
+    Writer.prototype.bool = function write_bool(value2) {
       this._reserve(1);
-      this.buf[this.pos++] = value ? 1 : 0;
+      this.buf[this.pos++] = value2 ? 1 : 0;
       return this;
     };
     function writeFixed32(val, buf, pos) {
@@ -10849,15 +10849,15 @@ var require_writer = __commonJS({
       buf[pos + 2] = val >>> 16 & 255;
       buf[pos + 3] = val >>> 24;
     }
-    Writer.prototype.fixed32 = function write_fixed32(value) {
+    Writer.prototype.fixed32 = function write_fixed32(value2) {
       this._reserve(4);
-      writeFixed32(value >>> 0, this.buf, this.pos);
+      writeFixed32(value2 >>> 0, this.buf, this.pos);
       this.pos += 4;
       return this;
     };
     Writer.prototype.sfixed32 = Writer.prototype.fixed32;
-    Writer.prototype.fixed64 = function write_fixed64(value) {
-      var bits = LongBits.from(value);
+    Writer.prototype.fixed64 = function write_fixed64(value2) {
+      var bits = LongBits.from(value2);
       this._reserve(8);
       writeFixed32(bits.lo, this.buf, this.pos);
       writeFixed32(bits.hi, this.buf, this.pos + 4);
@@ -10865,42 +10865,42 @@ var require_writer = __commonJS({
       return this;
     };
     Writer.prototype.sfixed64 = Writer.prototype.fixed64;
-    Writer.prototype.float = function write_float(value) {
+    Writer.prototype.float = function write_float(value2) {
       this._reserve(4);
-      util.float.writeFloatLE(value, this.buf, this.pos);
+      util.float.writeFloatLE(value2, this.buf, this.pos);
       this.pos += 4;
       return this;
     };
-    Writer.prototype.double = function write_double(value) {
+    Writer.prototype.double = function write_double(value2) {
       this._reserve(8);
-      util.float.writeDoubleLE(value, this.buf, this.pos);
+      util.float.writeDoubleLE(value2, this.buf, this.pos);
       this.pos += 8;
       return this;
     };
-    Writer.prototype.bytes = function write_bytes(value) {
-      var len = value.length >>> 0;
+    Writer.prototype.bytes = function write_bytes(value2) {
+      var len = value2.length >>> 0;
       if (!len) {
         this._reserve(1);
         this.buf[this.pos++] = 0;
         return this;
       }
-      if (util.isString(value)) {
-        var buf = Writer.alloc(len = base643.length(value));
-        base643.decode(value, buf, 0);
-        value = buf;
+      if (util.isString(value2)) {
+        var buf = Writer.alloc(len = base643.length(value2));
+        base643.decode(value2, buf, 0);
+        value2 = buf;
       }
       this.uint32(len);
       this._reserve(len);
-      this.buf.set(value, this.pos);
+      this.buf.set(value2, this.pos);
       this.pos += len;
       return this;
     };
-    Writer.prototype.raw = function write_raw(value) {
-      var len = value.length >>> 0;
+    Writer.prototype.raw = function write_raw(value2) {
+      var len = value2.length >>> 0;
       if (!len)
         return this;
       this._reserve(len);
-      this.buf.set(value, this.pos);
+      this.buf.set(value2, this.pos);
       this.pos += len;
       return this;
     };
@@ -10912,8 +10912,8 @@ var require_writer = __commonJS({
       this.pos = pos + n + len;
       return this;
     };
-    Writer.prototype.string = function write_string(value) {
-      var n = value.length;
+    Writer.prototype.string = function write_string(value2) {
+      var n = value2.length;
       if (!n) {
         this._reserve(1);
         this.buf[this.pos++] = 0;
@@ -10922,32 +10922,32 @@ var require_writer = __commonJS({
       if (n < 128) {
         this._reserve(n * 3 + 5);
         var lenPos = this.pos;
-        return this._delim(lenPos, utf8.write(value, this.buf, lenPos + 1));
+        return this._delim(lenPos, utf8.write(value2, this.buf, lenPos + 1));
       }
-      var len = utf8.length(value);
+      var len = utf8.length(value2);
       this.uint32(len);
       this._reserve(len);
-      if (len === value.length)
-        writeStringAscii(value, this.buf, this.pos);
+      if (len === value2.length)
+        writeStringAscii(value2, this.buf, this.pos);
       else
-        utf8.write(value, this.buf, this.pos);
+        utf8.write(value2, this.buf, this.pos);
       this.pos += len;
       return this;
     };
-    Writer.prototype.uint32s = function write_uint32s(value) {
-      var n = value.length;
+    Writer.prototype.uint32s = function write_uint32s(value2) {
+      var n = value2.length;
       this._reserve(n * 5 + 5);
       var buf = this.buf, lenPos = this.pos, p = lenPos + 1;
       for (var i = 0; i < n; ++i)
-        p = writeVarint32(value[i] >>> 0, buf, p);
+        p = writeVarint32(value2[i] >>> 0, buf, p);
       return this._delim(lenPos, p - lenPos - 1);
     };
-    Writer.prototype.int32s = function write_int32s(value) {
-      var n = value.length;
+    Writer.prototype.int32s = function write_int32s(value2) {
+      var n = value2.length;
       this._reserve(n * 10 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1, val;
       for (var i = 0; i < n; ++i) {
-        if ((val = value[i] | 0) < 0) {
+        if ((val = value2[i] | 0) < 0) {
           pos = writeVarint64(LongBits.fromNumber(val), buf, pos);
         } else {
           pos = writeVarint32(val, buf, pos);
@@ -10955,40 +10955,40 @@ var require_writer = __commonJS({
       }
       return this._delim(lenPos, pos - lenPos - 1);
     };
-    Writer.prototype.sint32s = function write_sint32s(value) {
-      var n = value.length;
+    Writer.prototype.sint32s = function write_sint32s(value2) {
+      var n = value2.length;
       this._reserve(n * 5 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1;
       for (var i = 0; i < n; ++i)
-        pos = writeVarint32((value[i] << 1 ^ value[i] >> 31) >>> 0, buf, pos);
+        pos = writeVarint32((value2[i] << 1 ^ value2[i] >> 31) >>> 0, buf, pos);
       return this._delim(lenPos, pos - lenPos - 1);
     };
-    Writer.prototype.uint64s = function write_uint64s(value) {
-      var n = value.length;
+    Writer.prototype.uint64s = function write_uint64s(value2) {
+      var n = value2.length;
       this._reserve(n * 10 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1;
       for (var i = 0; i < n; ++i) {
-        pos = writeVarint64(LongBits.from(value[i]), buf, pos);
+        pos = writeVarint64(LongBits.from(value2[i]), buf, pos);
       }
       return this._delim(lenPos, pos - lenPos - 1);
     };
     Writer.prototype.int64s = Writer.prototype.uint64s;
-    Writer.prototype.sint64s = function write_sint64s(value) {
-      var n = value.length;
+    Writer.prototype.sint64s = function write_sint64s(value2) {
+      var n = value2.length;
       this._reserve(n * 10 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1;
       for (var i = 0; i < n; ++i) {
-        pos = writeVarint64(LongBits.from(value[i]).zzEncode(), buf, pos);
+        pos = writeVarint64(LongBits.from(value2[i]).zzEncode(), buf, pos);
       }
       return this._delim(lenPos, pos - lenPos - 1);
     };
-    Writer.prototype.bools = function write_bools(value) {
-      var n = value.length;
+    Writer.prototype.bools = function write_bools(value2) {
+      var n = value2.length;
       this.uint32(n);
       this._reserve(n);
       var buf = this.buf, p = this.pos;
       for (var i = 0; i < n; ++i)
-        buf[p++] = value[i] ? 1 : 0;
+        buf[p++] = value2[i] ? 1 : 0;
       this.pos += n;
       return this;
     };
@@ -11001,20 +11001,20 @@ var require_writer = __commonJS({
       var buf = writer.buf;
       return writer.view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
     }
-    Writer.prototype.fixed32s = function write_fixed32s(value) {
-      var n = value.length, bytes = n * 4;
+    Writer.prototype.fixed32s = function write_fixed32s(value2) {
+      var n = value2.length, bytes = n * 4;
       this.uint32(bytes);
       this._reserve(bytes);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_INT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          dv.setUint32(p, value[i] >>> 0, true);
+          dv.setUint32(p, value2[i] >>> 0, true);
           p += 4;
         }
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          writeFixed32(value[i] >>> 0, buf, p);
+          writeFixed32(value2[i] >>> 0, buf, p);
           p += 4;
         }
       }
@@ -11022,14 +11022,14 @@ var require_writer = __commonJS({
       return this;
     };
     Writer.prototype.sfixed32s = Writer.prototype.fixed32s;
-    Writer.prototype.fixed64s = function write_fixed64s(value) {
-      var n = value.length, bytes = n * 8;
+    Writer.prototype.fixed64s = function write_fixed64s(value2) {
+      var n = value2.length, bytes = n * 8;
       this.uint32(bytes);
       this._reserve(bytes);
       var p = this.pos, i, bits, dv = getLazyView(this, n, VIEW_THRESHOLD_INT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          bits = LongBits.from(value[i]);
+          bits = LongBits.from(value2[i]);
           dv.setUint32(p, bits.lo, true);
           dv.setUint32(p + 4, bits.hi, true);
           p += 8;
@@ -11037,7 +11037,7 @@ var require_writer = __commonJS({
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          bits = LongBits.from(value[i]);
+          bits = LongBits.from(value2[i]);
           writeFixed32(bits.lo, buf, p);
           writeFixed32(bits.hi, buf, p + 4);
           p += 8;
@@ -11047,40 +11047,40 @@ var require_writer = __commonJS({
       return this;
     };
     Writer.prototype.sfixed64s = Writer.prototype.fixed64s;
-    Writer.prototype.floats = function write_floats(value) {
-      var n = value.length, bytes = n * 4;
+    Writer.prototype.floats = function write_floats(value2) {
+      var n = value2.length, bytes = n * 4;
       this.uint32(bytes);
       this._reserve(bytes);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_FLOAT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          dv.setFloat32(p, value[i], true);
+          dv.setFloat32(p, value2[i], true);
           p += 4;
         }
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          util.float.writeFloatLE(value[i], buf, p);
+          util.float.writeFloatLE(value2[i], buf, p);
           p += 4;
         }
       }
       this.pos += bytes;
       return this;
     };
-    Writer.prototype.doubles = function write_doubles(value) {
-      var n = value.length, bytes = n * 8;
+    Writer.prototype.doubles = function write_doubles(value2) {
+      var n = value2.length, bytes = n * 8;
       this.uint32(bytes);
       this._reserve(bytes);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_FLOAT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          dv.setFloat64(p, value[i], true);
+          dv.setFloat64(p, value2[i], true);
           p += 8;
         }
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          util.float.writeDoubleLE(value[i], buf, p);
+          util.float.writeDoubleLE(value2[i], buf, p);
           p += 8;
         }
       }
@@ -11174,20 +11174,20 @@ var require_writer_buffer = __commonJS({
         return buf.write(val, pos);
       };
     };
-    BufferWriter.prototype.bytes = function write_bytes_buffer(value) {
-      if (util.isString(value))
-        value = util.Buffer.from(value, "base64");
-      var len = value.length >>> 0;
+    BufferWriter.prototype.bytes = function write_bytes_buffer(value2) {
+      if (util.isString(value2))
+        value2 = util.Buffer.from(value2, "base64");
+      var len = value2.length >>> 0;
       this.uint32(len);
       if (len) {
         this._reserve(len);
-        this.buf.set(value, this.pos);
+        this.buf.set(value2, this.pos);
         this.pos += len;
       }
       return this;
     };
-    BufferWriter.prototype.string = function write_string_buffer(value) {
-      var n = value.length;
+    BufferWriter.prototype.string = function write_string_buffer(value2) {
+      var n = value2.length;
       if (!n) {
         this._reserve(1);
         this.buf[this.pos++] = 0;
@@ -11198,13 +11198,13 @@ var require_writer_buffer = __commonJS({
         var pos = this.pos, buf = this.buf;
         return this._delim(
           pos,
-          n < 40 ? util.utf8.write(value, buf, pos + 1) : writeStringBuffer(value, buf, pos + 1)
+          n < 40 ? util.utf8.write(value2, buf, pos + 1) : writeStringBuffer(value2, buf, pos + 1)
         );
       }
-      var len = util.Buffer.byteLength(value);
+      var len = util.Buffer.byteLength(value2);
       this.uint32(len);
       this._reserve(len);
-      writeStringBuffer(value, this.buf, this.pos);
+      writeStringBuffer(value2, this.buf, this.pos);
       this.pos += len;
       return this;
     };
@@ -11250,14 +11250,14 @@ var require_reader = __commonJS({
       return this.buf.subarray(start, end);
     };
     function readVarint32NearEnd(reader) {
-      var value = 0;
+      var value2 = 0;
       for (var i = 0; i < 4; ++i) {
         if (reader.pos >= reader.len)
           throw indexOutOfRange(reader);
         var b = reader.buf[reader.pos++];
-        value = (value | (b & 127) << i * 7) >>> 0;
+        value2 = (value2 | (b & 127) << i * 7) >>> 0;
         if (b < 128)
-          return value;
+          return value2;
       }
       throw indexOutOfRange(reader);
     }
@@ -11268,30 +11268,30 @@ var require_reader = __commonJS({
         if (this.buf[this.pos] >= 128)
           return readVarint32NearEnd(this);
       }
-      var buf = this.buf, pos = this.pos, value = (buf[pos] & 127) >>> 0;
+      var buf = this.buf, pos = this.pos, value2 = (buf[pos] & 127) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 7) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 7) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 14) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 14) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 21) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 21) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 15) << 28) >>> 0;
+      value2 = (value2 | (buf[pos] & 15) << 28) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
       for (var i = 0; i < 5; ++i) {
         if (pos >= this.len) {
@@ -11300,7 +11300,7 @@ var require_reader = __commonJS({
         }
         if (buf[pos++] < 128) {
           this.pos = pos;
-          return value;
+          return value2;
         }
       }
       this.pos = pos;
@@ -11313,30 +11313,30 @@ var require_reader = __commonJS({
         if (this.buf[this.pos] >= 128)
           return readVarint32NearEnd(this);
       }
-      var buf = this.buf, pos = this.pos, value = (buf[pos] & 127) >>> 0;
+      var buf = this.buf, pos = this.pos, value2 = (buf[pos] & 127) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 7) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 7) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 14) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 14) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 21) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 21) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 15) << 28) >>> 0;
+      value2 = (value2 | (buf[pos] & 15) << 28) >>> 0;
       if (buf[pos] < 128 && (buf[pos] & 112) === 0) {
         this.pos = pos + 1;
-        return value;
+        return value2;
       }
       this.pos = pos + 1;
       throw Error("invalid tag encoding");
@@ -11348,37 +11348,37 @@ var require_reader = __commonJS({
         if (this.buf[this.pos] >= 128)
           return readVarint32NearEnd(this);
       }
-      var buf = this.buf, pos = this.pos, value = (buf[pos] & 127) >>> 0;
+      var buf = this.buf, pos = this.pos, value2 = (buf[pos] & 127) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 7) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 7) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 14) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 14) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
-      value = (value | (buf[pos] & 127) << 21) >>> 0;
+      value2 = (value2 | (buf[pos] & 127) << 21) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value;
+        return value2;
       }
       this.pos = pos + 1;
       if (buf[pos] > 7)
         throw Error("invalid length encoding");
-      return (value | buf[pos] << 28) >>> 0;
+      return (value2 | buf[pos] << 28) >>> 0;
     };
     Reader.prototype.int32 = function read_int32() {
       return this.uint32() | 0;
     };
     Reader.prototype.sint32 = function read_sint32() {
-      var value = this.uint32();
-      return value >>> 1 ^ -(value & 1) | 0;
+      var value2 = this.uint32();
+      return value2 >>> 1 ^ -(value2 & 1) | 0;
     };
     function readLongVarint() {
       var bits = new LongBits(0, 0);
@@ -11422,15 +11422,15 @@ var require_reader = __commonJS({
       throw Error("invalid varint encoding");
     }
     Reader.prototype.bool = function read_bool() {
-      var value = false, b;
+      var value2 = false, b;
       for (var i = 0; i < 10; ++i) {
         if (this.pos >= this.len)
           throw indexOutOfRange(this);
         b = this.buf[this.pos++];
         if (b & 127)
-          value = true;
+          value2 = true;
         if (b < 128)
-          return value;
+          return value2;
       }
       throw Error("invalid varint encoding");
     };
@@ -11455,26 +11455,26 @@ var require_reader = __commonJS({
     Reader.prototype.float = function read_float() {
       if (this.pos + 4 > this.len)
         throw indexOutOfRange(this, 4);
-      var value = util.float.readFloatLE(this.buf, this.pos);
+      var value2 = util.float.readFloatLE(this.buf, this.pos);
       this.pos += 4;
-      return value;
+      return value2;
     };
     Reader.prototype.double = function read_double() {
       if (this.pos + 8 > this.len)
         throw indexOutOfRange(this, 4);
-      var value = util.float.readDoubleLE(this.buf, this.pos);
+      var value2 = util.float.readDoubleLE(this.buf, this.pos);
       this.pos += 8;
-      return value;
+      return value2;
     };
     Reader.prototype.uint32s = function read_uint32s(array2) {
       if (array2 === void 0) array2 = [];
-      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value;
+      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value2;
       if (end > len) throw indexOutOfRange(this, end - this.pos);
       this.len = end;
       while (pos < end) {
-        value = buf[pos++];
-        if (value < 128)
-          array2.push(value);
+        value2 = buf[pos++];
+        if (value2 < 128)
+          array2.push(value2);
         else {
           this.pos = pos - 1;
           array2.push(this.uint32());
@@ -11488,13 +11488,13 @@ var require_reader = __commonJS({
     };
     Reader.prototype.int32s = function read_int32s(array2) {
       if (array2 === void 0) array2 = [];
-      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value;
+      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value2;
       if (end > len) throw indexOutOfRange(this, end - this.pos);
       this.len = end;
       while (pos < end) {
-        value = buf[pos++];
-        if (value < 128)
-          array2.push(value);
+        value2 = buf[pos++];
+        if (value2 < 128)
+          array2.push(value2);
         else {
           this.pos = pos - 1;
           array2.push(this.int32());
@@ -11519,13 +11519,13 @@ var require_reader = __commonJS({
     };
     Reader.prototype.bools = function read_bools(array2) {
       if (array2 === void 0) array2 = [];
-      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value;
+      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value2;
       if (end > len) throw indexOutOfRange(this, end - this.pos);
       this.len = end;
       while (pos < end) {
-        value = buf[pos++];
-        if (value < 128)
-          array2.push(value !== 0);
+        value2 = buf[pos++];
+        if (value2 < 128)
+          array2.push(value2 !== 0);
         else {
           this.pos = pos - 1;
           array2.push(this.bool());
@@ -11977,18 +11977,18 @@ var require_codegen = __commonJS({
           formatParams[formatOffset] = arguments[++formatOffset];
         formatOffset = 0;
         formatStringOrScope = formatStringOrScope.replace(/%([%dfijs])/g, function replace($0, $1) {
-          var value = formatParams[formatOffset++];
+          var value2 = formatParams[formatOffset++];
           switch ($1) {
             case "d":
             case "f":
-              value = Number(value);
-              return Object.is(value, -0) ? "-0" : String(value);
+              value2 = Number(value2);
+              return Object.is(value2, -0) ? "-0" : String(value2);
             case "i":
-              return String(Math.floor(value));
+              return String(Math.floor(value2));
             case "j":
-              return JSON.stringify(value);
+              return JSON.stringify(value2);
             case "s":
-              return String(value);
+              return String(value2);
           }
           return "%";
         });
@@ -12034,7 +12034,7 @@ var require_fs = __commonJS({
       );
       if (!fs || !fs.readFile || !fs.readFileSync)
         fs = null;
-    } catch (e) {
+    } catch (e2) {
     }
     module.exports = fs;
   }
@@ -12101,7 +12101,7 @@ var require_path = __commonJS({
         return null;
       try {
         return new URL(path2).href;
-      } catch (e) {
+      } catch (e2) {
         return null;
       }
     }
@@ -12110,7 +12110,7 @@ var require_path = __commonJS({
         return null;
       try {
         return new URL(includePath, originPath).href;
-      } catch (e) {
+      } catch (e2) {
         return null;
       }
     }
@@ -13999,15 +13999,15 @@ var require_util = __commonJS({
       }
       return object2;
     };
-    util.remove = function remove(object2, value, key2) {
+    util.remove = function remove(object2, value2, key2) {
       if (!object2)
         return false;
-      if (key2 !== void 0 && Object.prototype.hasOwnProperty.call(object2, key2) && object2[key2] === value) {
+      if (key2 !== void 0 && Object.prototype.hasOwnProperty.call(object2, key2) && object2[key2] === value2) {
         delete object2[key2];
         return true;
       }
       for (var names = Object.keys(object2), i = 0; i < names.length; ++i)
-        if (object2[names[i]] === value) {
+        if (object2[names[i]] === value2) {
           delete object2[names[i]];
           return true;
         }
@@ -14076,20 +14076,20 @@ var require_util = __commonJS({
       Object.defineProperty(object2, "$type", { value: enm, enumerable: false });
       return enm;
     };
-    util.setProperty = function setProperty(dst, path, value, ifNotSet) {
-      function setProp(dst2, path2, value2) {
+    util.setProperty = function setProperty(dst, path, value2, ifNotSet) {
+      function setProp(dst2, path2, value3) {
         var part = path2.shift();
         if (util.isUnsafeProperty(part))
           return dst2;
         if (path2.length > 0) {
-          dst2[part] = setProp(dst2[part] || {}, path2, value2);
+          dst2[part] = setProp(dst2[part] || {}, path2, value3);
         } else {
           var prevValue = dst2[part];
           if (prevValue && ifNotSet)
             return dst2;
           if (prevValue)
-            value2 = [].concat(prevValue).concat(value2);
-          dst2[part] = value2;
+            value3 = [].concat(prevValue).concat(value3);
+          dst2[part] = value3;
         }
         return dst2;
       }
@@ -14100,7 +14100,7 @@ var require_util = __commonJS({
       path = path.split(".");
       if (path.length > util.recursionLimit)
         throw Error("max depth exceeded");
-      return setProp(dst, path, value);
+      return setProp(dst, path, value2);
     };
     Object.defineProperty(util, "decorateRoot", {
       get: function() {
@@ -14393,8 +14393,8 @@ var require_field = __commonJS({
         this._features.field_presence !== "IMPLICIT";
       }
     });
-    Field.prototype.setOption = function setOption(name, value, ifNotSet) {
-      return ReflectionObject.prototype.setOption.call(this, name, value, ifNotSet);
+    Field.prototype.setOption = function setOption(name, value2, ifNotSet) {
+      return ReflectionObject.prototype.setOption.call(this, name, value2, ifNotSet);
     };
     Field.prototype.toJSON = function toJSON(toJSONOptions) {
       var keepComments = toJSONOptions ? Boolean(toJSONOptions.keepComments) : false;
@@ -14772,23 +14772,23 @@ var require_object = __commonJS({
         return this.options[name];
       return void 0;
     };
-    ReflectionObject.prototype.setOption = function setOption(name, value, ifNotSet) {
+    ReflectionObject.prototype.setOption = function setOption(name, value2, ifNotSet) {
       if (name === "__proto__")
         return this;
       if (!this.options)
         this.options = {};
       if (/^features\./.test(name)) {
-        util.setProperty(this.options, name, value, ifNotSet);
+        util.setProperty(this.options, name, value2, ifNotSet);
       } else {
         var prev = this.getOption(name);
         if (!ifNotSet || prev === void 0) {
-          if (prev !== value) this.resolved = false;
-          this.options[name] = value;
+          if (prev !== value2) this.resolved = false;
+          this.options[name] = value2;
         }
       }
       return this;
     };
-    ReflectionObject.prototype.setParsedOption = function setParsedOption(name, value, propName) {
+    ReflectionObject.prototype.setParsedOption = function setParsedOption(name, value2, propName) {
       if (name === "__proto__")
         return this;
       if (!this.parsedOptions) {
@@ -14801,15 +14801,15 @@ var require_object = __commonJS({
         });
         if (opt) {
           var newValue = opt[name];
-          util.setProperty(newValue, propName, value);
+          util.setProperty(newValue, propName, value2);
         } else {
           opt = {};
-          opt[name] = util.setProperty({}, propName, value);
+          opt[name] = util.setProperty({}, propName, value2);
           parsedOptions.push(opt);
         }
       } else {
         var newOpt = {};
-        newOpt[name] = value;
+        newOpt[name] = value2;
         parsedOptions.push(newOpt);
       }
       return this;
@@ -15432,7 +15432,7 @@ var require_parse = __commonJS({
             /* insideTryCatch */
             true
           );
-        } catch (e) {
+        } catch (e2) {
           if (acceptTypeRef && typeRefRe.test(token2))
             return token2;
           throw illegal(token2, "value");
@@ -15460,9 +15460,9 @@ var require_parse = __commonJS({
           }
         } while (skip(",", true));
         var dummy = { options: void 0 };
-        dummy.setOption = function(name, value) {
+        dummy.setOption = function(name, value2) {
           if (this.options === void 0) this.options = {};
-          this.options[name] = value;
+          this.options[name] = value2;
         };
         ifBlock(
           dummy,
@@ -15514,16 +15514,16 @@ var require_parse = __commonJS({
           throw illegal(token2, name || "integer");
         if (token2 === "0" || token2 === "-0")
           return 0;
-        var value;
+        var value2;
         if (base10NegRe.test(token2))
-          value = parseInt(token2, 10);
+          value2 = parseInt(token2, 10);
         else if (base16NegRe.test(token2))
-          value = parseInt(token2, 16);
+          value2 = parseInt(token2, 16);
         else if (base8NegRe.test(token2))
-          value = parseInt(token2, 8);
+          value2 = parseInt(token2, 8);
         else
           throw illegal(token2, name || "integer");
-        return value || 0;
+        return value2 || 0;
       }
       function parseId(token2, acceptNegative, max) {
         switch (token2) {
@@ -15908,14 +15908,14 @@ var require_parse = __commonJS({
         if (!nameRe.test(token2))
           throw illegal(token2, "name");
         skip("=");
-        var value = parseId(next(), true), dummy = {
+        var value2 = parseId(next(), true), dummy = {
           options: void 0
         };
         dummy.getOption = function(name) {
           return this.options[name];
         };
-        dummy.setOption = function(name, value2) {
-          ReflectionObject.prototype.setOption.call(dummy, name, value2);
+        dummy.setOption = function(name, value3) {
+          ReflectionObject.prototype.setOption.call(dummy, name, value3);
         };
         dummy.setParsedOption = function() {
           return void 0;
@@ -15931,7 +15931,7 @@ var require_parse = __commonJS({
         });
         return {
           name: token2,
-          id: value,
+          id: value2,
           comment: dummy.comment,
           options: dummy.parsedOptions || dummy.options
         };
@@ -15997,19 +15997,19 @@ var require_parse = __commonJS({
               }
               propName = token;
             }
-            var value;
+            var value2;
             skip(":", true);
             if (peek() === "{") {
-              value = parseOptionValue(parent, name + "." + propName, depth + 1);
+              value2 = parseOptionValue(parent, name + "." + propName, depth + 1);
             } else if (peek() === "[") {
-              value = [];
+              value2 = [];
               var lastValue, lastValueIsAggregate;
               if (skip("[", true)) {
                 if (!skip("]", true)) {
                   do {
                     lastValueIsAggregate = peek() === "{";
                     lastValue = lastValueIsAggregate ? parseOptionValue(parent, name + "." + propName, depth + 1) : readValue(true);
-                    value.push(lastValue);
+                    value2.push(lastValue);
                   } while (skip(",", true));
                   skip("]");
                   if (typeof lastValue !== "undefined") {
@@ -16019,14 +16019,14 @@ var require_parse = __commonJS({
                 }
               }
             } else {
-              value = readValue(true);
-              setOption(parent, name + "." + propName, value);
+              value2 = readValue(true);
+              setOption(parent, name + "." + propName, value2);
             }
             var prevValue = Object.prototype.hasOwnProperty.call(objectResult, propName) ? objectResult[propName] : void 0;
             if (prevValue)
-              value = [].concat(prevValue).concat(value);
+              value2 = [].concat(prevValue).concat(value2);
             if (propName !== "__proto__")
-              objectResult[propName] = value;
+              objectResult[propName] = value2;
             skip(",", true);
             skip(";", true);
           }
@@ -16036,20 +16036,20 @@ var require_parse = __commonJS({
         setOption(parent, name, simpleValue);
         return simpleValue;
       }
-      function setOption(parent, name, value) {
+      function setOption(parent, name, value2) {
         if (ptr === parent && /^features\./.test(name)) {
-          topLevelOptions[name] = value;
+          topLevelOptions[name] = value2;
           return;
         }
         if (name === "json_name" && parent instanceof Field) {
-          parent.jsonName = value;
+          parent.jsonName = value2;
         }
         if (parent.setOption)
-          parent.setOption(name, value);
+          parent.setOption(name, value2);
       }
-      function setParsedOption(parent, name, value, propName) {
+      function setParsedOption(parent, name, value2, propName) {
         if (parent.setParsedOption)
-          parent.setParsedOption(name, value, propName);
+          parent.setParsedOption(name, value2, propName);
       }
       function parseInlineOptions(parent) {
         if (skip("[", true)) {
@@ -16618,11 +16618,1152 @@ function errorReport(input2) {
   };
 }
 
-// node_modules/markdown-table/index.js
-function defaultStringLength(value) {
-  return value.length;
+// src/core/report/escape.ts
+var wordJoiner = "⁠";
+var unsafeCharacters = (
+  // eslint-disable-next-line no-control-regex
+  /[\u0000-\u0008\u000e-\u001f\u007f-\u0084\u0086-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g
+);
+var lineBreaks = /\r\n|[\n\r\v\f\u0085\u2028\u2029]/g;
+function neutralize(text3) {
+  return text3.replace(/\t/g, " ").replace(unsafeCharacters, "�");
 }
-function markdownTable(table, options) {
+var entities = { "&": "&amp;", "<": "&lt;", ">": "&gt;" };
+function escapeInline(line) {
+  return line.replace(/[&<>]/g, (c) => entities[c]).replace(/[\\`*_[\]~|$]/g, "\\$&").replace(/@/g, `@${wordJoiner}`).replace(/#(?=\d)/g, `#${wordJoiner}`).replace(/\b(GH-)(?=\d)/gi, `$1${wordJoiner}`).replace(/:\/\//g, `:${wordJoiner}//`).replace(/\b(www)\./gi, `$1${wordJoiner}.`);
+}
+function escapeStart(text3, isLine) {
+  const trimmed = text3.trimStart();
+  if (/^[#+\-=]/.test(trimmed)) return `\\${trimmed}`;
+  return isLine ? trimmed.replace(/^(\d+)([.)])/, "$1\\$2") : trimmed;
+}
+function escapeMarkdownCell(text3) {
+  return escapeStart(escapeInline(neutralize(text3).replace(lineBreaks, " ").trim()), false);
+}
+function escapeMarkdownText(text3) {
+  return neutralize(text3).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
+}
+function escapePlainText(text3) {
+  return neutralize(text3).replace(lineBreaks, " ");
+}
+function markdownCodeBlock(text3) {
+  const body = neutralize(text3).replace(lineBreaks, "\n");
+  const longestRun = (body.match(/`+/g) ?? []).reduce((longest, run) => Math.max(longest, run.length), 0);
+  const fence = "`".repeat(Math.max(3, longestRun + 1));
+  return `${fence}text
+${body}
+${fence}`;
+}
+var htmlEntities = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
+function escapeHtml(text3) {
+  return neutralize(text3).replace(/[&<>"']/g, (c) => htmlEntities[c]);
+}
+
+// src/core/report/format-number.ts
+function trimZeros(fixed) {
+  return fixed.includes(".") ? fixed.replace(/0+$/, "").replace(/\.$/, "") : fixed;
+}
+function exponential(value2, digits) {
+  const [mantissa, exponent] = value2.toExponential(digits).split("e");
+  return `${trimZeros(mantissa)}e${exponent.replace("+", "")}`;
+}
+function formatNumber(value2) {
+  if (Number.isNaN(value2)) return "n/a";
+  if (!Number.isFinite(value2)) return value2 > 0 ? "inf" : "-inf";
+  if (value2 === 0) return "0";
+  const size = Math.abs(value2);
+  if (Number.isInteger(value2) && size < 1e15) return String(value2);
+  if (size < 1e-4 || size >= 1e6) return exponential(value2, 3);
+  if (size >= 1e3) return value2.toFixed(0);
+  return trimZeros(value2.toPrecision(4));
+}
+function formatPValue(p) {
+  if (Number.isNaN(p) || p < 0 || p > 1) return formatNumber(p);
+  if (p < 1e-6) return "<1e-6";
+  if (p < 1e-3) return exponential(p, 1);
+  return trimZeros(p.toPrecision(2));
+}
+function formatCount(count4) {
+  if (!Number.isInteger(count4)) return formatNumber(count4);
+  const digits = String(Math.abs(count4));
+  const grouped = digits.replace(/\B(?=(\d{3})+(?!\d))/g, ",");
+  return count4 < 0 ? `-${grouped}` : grouped;
+}
+function formatPercent(share) {
+  if (!Number.isFinite(share)) return formatNumber(share);
+  if (share > 0 && share < 5e-4) return "<0.1%";
+  const percent = trimZeros((share * 100).toFixed(1));
+  return `${percent === "-0" ? "0" : percent}%`;
+}
+function formatChange(from, to) {
+  if (!Number.isFinite(from) || !Number.isFinite(to) || from === 0) return "n/a";
+  const change = (to - from) / Math.abs(from);
+  if (change === 0) return "0%";
+  const size = Math.abs(change * 100);
+  const digits = size < 10 ? trimZeros(size.toFixed(1)) : size.toFixed(0);
+  if (digits === "0") return change > 0 ? "+<0.1%" : "-<0.1%";
+  return `${change > 0 ? "+" : "-"}${digits}%`;
+}
+function formatRatio(ratio) {
+  return Number.isFinite(ratio) ? `${formatNumber(ratio)}×` : "n/a";
+}
+function formatPStatement(label2, p) {
+  const text3 = formatPValue(p);
+  return text3.startsWith("<") ? `${label2} < ${text3.slice(1)}` : `${label2} = ${text3}`;
+}
+
+// src/core/checks/verdict.ts
+var order = { block: 0, warn: 1, info: 2 };
+function sortFindings(findings) {
+  return findings.map((finding, index) => ({ finding, index })).sort((a, b) => order[a.finding.severity] - order[b.finding.severity] || a.index - b.index).map((x) => x.finding);
+}
+var kindOrder = {
+  "run-error": 0,
+  leakage: 1,
+  "holdout-rows": 2,
+  "score-regression": 3,
+  "share-redistribution": 4,
+  "rank-shift": 5,
+  "rank-agreement": 6,
+  "floor-drop": 7,
+  "unused-feature": 8,
+  "feature-set": 9,
+  "policy-changed": 10,
+  "noise-model": 11
+};
+function strength(finding) {
+  const e2 = finding.evidence;
+  const num = (key2) => typeof e2[key2] === "number" && Number.isFinite(e2[key2]) ? e2[key2] : 0;
+  switch (finding.kind) {
+    case "leakage":
+      return Math.max(num("singleFeatureSeparation"), num("sliceSeparation"), num("share"));
+    case "score-regression":
+      return num("worseningInReseedSds");
+    case "share-redistribution":
+      return num("causeShare");
+    case "rank-shift": {
+      const sd = Math.sqrt((num("baseRefitSd") ** 2 + num("headRefitSd") ** 2) / 2);
+      const difference = Math.abs(num("headMean") - num("baseMean"));
+      return sd > 0 ? difference / sd : difference > 0 ? Infinity : 0;
+    }
+    case "rank-agreement":
+      return num("kendallTauThreshold") - num("kendallTau");
+    default:
+      return 0;
+  }
+}
+function orderFindings(findings, change) {
+  const touched = /* @__PURE__ */ new Set([...change.added, ...change.removed, ...change.changed]);
+  const isAboutChange = (f) => f.kind === "feature-set" || f.feature !== void 0 && touched.has(f.feature);
+  return findings.map((finding, index) => ({ finding, index, about: isAboutChange(finding) ? 0 : 1, strength: strength(finding) })).sort(
+    (a, b) => order[a.finding.severity] - order[b.finding.severity] || a.about - b.about || (kindOrder[a.finding.kind] ?? 99) - (kindOrder[b.finding.kind] ?? 99) || b.strength - a.strength || a.index - b.index
+  ).map((x) => x.finding);
+}
+function decideVerdict(findings) {
+  if (findings.some((f) => f.severity === "block")) return "block";
+  if (findings.some((f) => f.severity === "warn")) return "warn";
+  return "pass";
+}
+function writeHeadline(verdict, findings) {
+  const sorted = sortFindings(findings);
+  const deciding = sorted.filter((f) => f.severity === verdict);
+  const more = deciding.length > 1 ? ` (and ${deciding.length - 1} more ${verdict === "block" ? "blocking" : "warning"} finding${deciding.length > 2 ? "s" : ""})` : "";
+  if (verdict === "pass") {
+    return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
+  }
+  const title = lowerFirst(deciding[0].title);
+  const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
+  return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
+}
+function lowerFirst(text3) {
+  return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
+}
+
+// node_modules/simple-statistics/dist/simple-statistics.mjs
+function sum(x) {
+  if (x.length === 0) {
+    return 0;
+  }
+  var sum2 = x[0];
+  var correction = 0;
+  var transition;
+  if (typeof sum2 !== "number") {
+    return Number.NaN;
+  }
+  for (var i = 1; i < x.length; i++) {
+    if (typeof x[i] !== "number") {
+      return Number.NaN;
+    }
+    transition = sum2 + x[i];
+    if (Math.abs(sum2) >= Math.abs(x[i])) {
+      correction += sum2 - transition + x[i];
+    } else {
+      correction += x[i] - transition + sum2;
+    }
+    sum2 = transition;
+  }
+  return sum2 + correction;
+}
+function mean(x) {
+  if (x.length === 0) {
+    throw new Error("mean requires at least one data point");
+  }
+  return sum(x) / x.length;
+}
+function sumNthPowerDeviations(x, n) {
+  var meanValue = mean(x);
+  var sum2 = 0;
+  var tempValue;
+  var i;
+  if (n === 2) {
+    for (i = 0; i < x.length; i++) {
+      tempValue = x[i] - meanValue;
+      sum2 += tempValue * tempValue;
+    }
+  } else {
+    for (i = 0; i < x.length; i++) {
+      sum2 += Math.pow(x[i] - meanValue, n);
+    }
+  }
+  return sum2;
+}
+function sampleVariance(x) {
+  if (x.length < 2) {
+    throw new Error("sampleVariance requires at least two data points");
+  }
+  var sumSquaredDeviationsValue = sumNthPowerDeviations(x, 2);
+  var besselsCorrection = x.length - 1;
+  return sumSquaredDeviationsValue / besselsCorrection;
+}
+function sampleStandardDeviation(x) {
+  var sampleVarianceX = sampleVariance(x);
+  return Math.sqrt(sampleVarianceX);
+}
+function quantileSorted(x, p) {
+  var idx = (x.length - 1) * p;
+  if (x.length === 0) {
+    throw new Error("quantile requires at least one data point.");
+  } else if (p < 0 || p > 1) {
+    throw new Error("quantiles must be between 0 and 1");
+  } else if (p === 1) {
+    return x[x.length - 1];
+  } else if (p === 0) {
+    return x[0];
+  } else if (idx % 1 !== 0) {
+    var lower = Math.floor(idx);
+    var upper = Math.ceil(idx);
+    var fraction = idx - lower;
+    return x[lower] + fraction * (x[upper] - x[lower]);
+  } else {
+    return x[idx];
+  }
+}
+var BayesianClassifier = function BayesianClassifier2() {
+  this.totalCount = 0;
+  this.data = {};
+};
+BayesianClassifier.prototype.train = function train(item, category) {
+  if (!this.data[category]) {
+    this.data[category] = {};
+  }
+  for (var k in item) {
+    var v = item[k];
+    if (this.data[category][k] === void 0) {
+      this.data[category][k] = {};
+    }
+    if (this.data[category][k][v] === void 0) {
+      this.data[category][k][v] = 0;
+    }
+    this.data[category][k][v]++;
+  }
+  this.totalCount++;
+};
+BayesianClassifier.prototype.score = function score(item) {
+  var odds = {};
+  var category;
+  for (var k in item) {
+    var v = item[k];
+    for (category in this.data) {
+      if (odds[category] === void 0) {
+        odds[category] = {};
+      }
+      if (this.data[category][k]) {
+        odds[category][k + "_" + v] = (this.data[category][k][v] || 0) / this.totalCount;
+      } else {
+        odds[category][k + "_" + v] = 0;
+      }
+    }
+  }
+  var oddsSums = {};
+  for (category in odds) {
+    oddsSums[category] = 0;
+    for (var combination in odds[category]) {
+      oddsSums[category] += odds[category][combination];
+    }
+  }
+  return oddsSums;
+};
+var COEFFICIENTS = [
+  0.9999999999999971,
+  57.15623566586292,
+  -59.59796035547549,
+  14.136097974741746,
+  -0.4919138160976202,
+  3399464998481189e-20,
+  4652362892704858e-20,
+  -9837447530487956e-20,
+  1580887032249125e-19,
+  -21026444172410488e-20,
+  21743961811521265e-20,
+  -1643181065367639e-19,
+  8441822398385275e-20,
+  -26190838401581408e-21,
+  36899182659531625e-22
+];
+var g = 607 / 128;
+var LOGSQRT2PI = Math.log(Math.sqrt(2 * Math.PI));
+function gammaln(n) {
+  if (n <= 0) {
+    return Number.POSITIVE_INFINITY;
+  }
+  n--;
+  var a = COEFFICIENTS[0];
+  for (var i = 1; i < 15; i++) {
+    a += COEFFICIENTS[i] / (n + i);
+  }
+  var tmp = g + 0.5 + n;
+  return LOGSQRT2PI + Math.log(a) - tmp + (n + 0.5) * Math.log(tmp);
+}
+var SQRT_2PI$1 = Math.sqrt(2 * Math.PI);
+function cumulativeDistribution(z3) {
+  var sum2 = z3;
+  var tmp = z3;
+  for (var i = 1; i < 30; i++) {
+    tmp *= z3 * z3 / (2 * i + 1);
+    sum2 += tmp;
+  }
+  return Math.round((0.5 + sum2 / SQRT_2PI$1 * Math.exp(-z3 * z3 / 2)) * 1e4) / 1e4;
+}
+var standardNormalTable = [];
+for (z = 0; z <= 3.09; z += 0.01) {
+  standardNormalTable.push(cumulativeDistribution(z));
+}
+var z;
+var SQRT_2PI = Math.sqrt(2 * Math.PI);
+var PerceptronModel = function PerceptronModel2() {
+  this.weights = [];
+  this.bias = 0;
+};
+PerceptronModel.prototype.predict = function predict(features) {
+  if (features.length !== this.weights.length) {
+    return null;
+  }
+  var score2 = 0;
+  for (var i = 0; i < this.weights.length; i++) {
+    score2 += this.weights[i] * features[i];
+  }
+  score2 += this.bias;
+  if (score2 > 0) {
+    return 1;
+  } else {
+    return 0;
+  }
+};
+PerceptronModel.prototype.train = function train2(features, label2) {
+  if (label2 !== 0 && label2 !== 1) {
+    return null;
+  }
+  if (features.length !== this.weights.length) {
+    this.weights = features.slice();
+    this.bias = 1;
+  }
+  var prediction = this.predict(features);
+  if (typeof prediction === "number" && prediction !== label2) {
+    var gradient = label2 - prediction;
+    for (var i = 0; i < this.weights.length; i++) {
+      this.weights[i] += gradient * features[i];
+    }
+    this.bias += gradient;
+  }
+  return this;
+};
+
+// src/core/statistics/log-beta.ts
+function logBeta(a, b) {
+  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
+    throw new RangeError(`logBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
+  }
+  const small = Math.min(a, b);
+  const big = Math.max(a, b);
+  if (big < 10) return gammaln(a) + gammaln(b) - gammaln(a + b);
+  const logGammaRatio = (big - 0.5) * Math.log1p(small / big) + small * Math.log(big + small) - small + stirlingRemainder(big + small) - stirlingRemainder(big);
+  return gammaln(small) - logGammaRatio;
+}
+function stirlingRemainder(z3) {
+  const w = 1 / (z3 * z3);
+  return (1 / 12 - w * (1 / 360 - w * (1 / 1260 - w * (1 / 1680 - w * (1 / 1188 - w * (691 / 360360 - w / 156)))))) / z3;
+}
+
+// src/core/statistics/continued-fraction.ts
+function continuedFraction(leading, numerator, denominator, limits) {
+  const tiny = 1e-300;
+  let value2 = leading === 0 ? tiny : leading;
+  let c = value2;
+  let d = 0;
+  for (let j = 1; j <= limits.maxTerms; j++) {
+    const a = numerator(j);
+    const b = denominator(j);
+    d = b + a * d;
+    if (Math.abs(d) < tiny) d = tiny;
+    c = b + a / c;
+    if (Math.abs(c) < tiny) c = tiny;
+    d = 1 / d;
+    const step = c * d;
+    value2 *= step;
+    if (Math.abs(step - 1) < 1e-15) return value2;
+  }
+  throw new InternalError(`${limits.caller}: continued fraction did not converge in ${limits.maxTerms} terms`);
+}
+
+// src/core/statistics/regularized-incomplete-gamma.ts
+function regularizedIncompleteGamma(a, x) {
+  if (!(a > 0 && a < Infinity)) throw new RangeError(`regularizedIncompleteGamma needs a finite a > 0, got ${a}`);
+  if (!(x >= 0)) throw new RangeError(`regularizedIncompleteGamma needs x >= 0, got ${x}`);
+  if (x === 0) return { lower: 0, upper: 1 };
+  if (x === Infinity) return { lower: 1, upper: 0 };
+  const front = Math.exp(a * Math.log(x) - x - gammaln(a));
+  const maxTerms = 200 + Math.ceil(20 * Math.sqrt(a));
+  if (x < a + 1) {
+    let term = 1 / a;
+    let sum2 = term;
+    for (let n = 1; ; n++) {
+      term *= x / (a + n);
+      sum2 += term;
+      if (term < sum2 * 1e-16) break;
+      if (n > maxTerms) throw new InternalError(`regularizedIncompleteGamma: series did not converge for a = ${a}, x = ${x}`);
+    }
+    const lower = front * sum2;
+    return { lower, upper: 1 - lower };
+  }
+  const upper = front / continuedFraction(
+    x + 1 - a,
+    (j) => -j * (j - a),
+    (j) => x + 1 - a + 2 * j,
+    { maxTerms, caller: "regularizedIncompleteGamma" }
+  );
+  return { lower: 1 - upper, upper };
+}
+
+// src/core/statistics/normal-quantile.ts
+function normalQuantile(p) {
+  if (!(p >= 0 && p <= 1)) throw new RangeError(`normalQuantile needs p in [0, 1], got ${p}`);
+  if (p === 0) return -Infinity;
+  if (p === 1) return Infinity;
+  if (p === 0.5) return 0;
+  const q = Math.min(p, 1 - p);
+  const density = (x2) => Math.exp(-x2 * x2 / 2) / Math.sqrt(2 * Math.PI);
+  let x;
+  let step;
+  if (q < 0.25) {
+    const logQ = Math.log(q);
+    x = Math.sqrt(-2 * logQ);
+    step = (x2) => {
+      const tail = regularizedIncompleteGamma(0.5, x2 * x2 / 2).upper / 2;
+      return (Math.log(tail) - logQ) * tail / density(x2);
+    };
+  } else {
+    const central = Math.abs(2 * p - 1);
+    x = 0;
+    step = (x2) => -(regularizedIncompleteGamma(0.5, x2 * x2 / 2).lower - central) / (2 * density(x2));
+  }
+  for (let iteration = 0; iteration < 100; iteration++) {
+    const delta = step(x);
+    x += delta;
+    if (Math.abs(delta) <= 4e-15 * x) return p < 0.5 ? -x : x;
+  }
+  throw new InternalError(`normalQuantile: Newton iteration did not converge for p = ${p}`);
+}
+
+// src/core/statistics/regularized-incomplete-beta.ts
+function regularizedIncompleteBeta(x, a, b) {
+  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
+    throw new RangeError(`regularizedIncompleteBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
+  }
+  if (!(x >= 0 && x <= 1)) throw new RangeError(`regularizedIncompleteBeta needs x in [0, 1], got ${x}`);
+  if (x === 0) return 0;
+  if (x === 1) return 1;
+  const front = Math.exp(a * Math.log(x) + b * Math.log1p(-x) - logBeta(a, b));
+  if (x < (a + 1) / (a + b + 2)) return front * betaContinuedFraction(x, a, b) / a;
+  return 1 - front * betaContinuedFraction(1 - x, b, a) / b;
+}
+function betaContinuedFraction(x, a, b) {
+  const numerator = (j) => {
+    const m = j >> 1;
+    if (j % 2 === 1) return -(a + m) * (a + b + m) * x / ((a + 2 * m) * (a + 2 * m + 1));
+    return m * (b - m) * x / ((a + 2 * m - 1) * (a + 2 * m));
+  };
+  const maxTerms = 2 * (200 + Math.ceil(20 * Math.sqrt(Math.max(a, b))));
+  return 1 / continuedFraction(1, numerator, () => 1, { maxTerms, caller: "regularizedIncompleteBeta" });
+}
+
+// src/core/statistics/normal-cdf.ts
+function normalCdf(z3) {
+  if (Number.isNaN(z3)) return NaN;
+  const { lower, upper } = regularizedIncompleteGamma(0.5, z3 * z3 / 2);
+  return z3 < 0 ? upper / 2 : 0.5 + lower / 2;
+}
+
+// src/core/statistics/student-t-cdf.ts
+function studentTCdf(t, df) {
+  if (!(df > 0)) throw new RangeError(`studentTCdf needs degrees of freedom > 0, got ${df}`);
+  if (Number.isNaN(t)) return NaN;
+  if (df === Infinity) return normalCdf(t);
+  const ratio = t * t / df;
+  const x = 1 / (1 + ratio);
+  let lowerTail;
+  if (ratio > 1e300) {
+    const logX = Math.log(df) - 2 * Math.log(Math.abs(t));
+    lowerTail = Math.exp(df / 2 * logX - Math.log(df / 2) - logBeta(df / 2, 0.5)) / 2;
+  } else if (x < (df / 2 + 1) / (df / 2 + 2.5)) {
+    lowerTail = regularizedIncompleteBeta(x, df / 2, 0.5) / 2;
+  } else {
+    lowerTail = 0.5 - regularizedIncompleteBeta(ratio / (1 + ratio), 0.5, df / 2) / 2;
+  }
+  return t < 0 ? lowerTail : 1 - lowerTail;
+}
+
+// src/core/statistics/student-t-quantile.ts
+function studentTQuantile(p, df) {
+  if (!(p >= 0 && p <= 1)) throw new RangeError(`studentTQuantile needs p in [0, 1], got ${p}`);
+  if (!(df > 0)) throw new RangeError(`studentTQuantile needs degrees of freedom > 0, got ${df}`);
+  if (df === Infinity) return normalQuantile(p);
+  if (p === 0) return -Infinity;
+  if (p === 1) return Infinity;
+  if (p === 0.5) return 0;
+  const sign = p < 0.5 ? -1 : 1;
+  const q = Math.min(p, 1 - p);
+  if (df === 1) return q < 0.25 ? sign / Math.tan(Math.PI * q) : Math.tan(Math.PI * (p - 0.5));
+  if (df === 2) return sign * Math.abs(2 * p - 1) / Math.sqrt(2 * q * (1 - q));
+  return sign * upperQuantile(q, Math.abs(2 * p - 1), df);
+}
+function upperQuantile(q, central, df) {
+  const logDensityConstant = -0.5 * Math.log(df) - logBeta(df / 2, 0.5);
+  const isTail = q < 0.25;
+  const logTarget = Math.log(isTail ? q : central);
+  const evaluate = (u2) => {
+    const t = Math.exp(u2);
+    const r = t / Math.sqrt(df);
+    const logOnePlusR2 = r > 1e150 ? 2 * Math.log(r) : Math.log1p(r * r);
+    const logTimesDensity = u2 + logDensityConstant - (df + 1) / 2 * logOnePlusR2;
+    if (isTail) {
+      const logTail = Math.log(studentTCdf(-t, df));
+      return { g: logTarget - logTail, slope: Math.exp(logTimesDensity - logTail) };
+    }
+    const logCentral = Math.log(regularizedIncompleteBeta(1 / (1 + 1 / (r * r)), 0.5, df / 2));
+    return { g: logCentral - logTarget, slope: 2 * Math.exp(logTimesDensity - logCentral) };
+  };
+  const z3 = normalQuantile(1 - q);
+  const start = z3 + (z3 ** 3 + z3) / (4 * df) + (5 * z3 ** 5 + 16 * z3 ** 3 + 3 * z3) / (96 * df * df);
+  const maxU = Math.log(Number.MAX_VALUE);
+  let u = Math.min(Math.log(start), maxU);
+  let { g: g2, slope } = evaluate(u);
+  let lower = -Infinity;
+  let upper = Infinity;
+  for (let width = 1; g2 !== 0; width *= 2) {
+    if (g2 < 0) {
+      lower = u;
+      if (upper < Infinity) break;
+      if (u === maxU) return Infinity;
+      u = Math.min(u + width, maxU);
+    } else {
+      upper = u;
+      if (lower > -Infinity) break;
+      u -= width;
+    }
+    ;
+    ({ g: g2, slope } = evaluate(u));
+  }
+  for (let iteration = 0; iteration < 200; iteration++) {
+    if (g2 === 0) return Math.exp(u);
+    if (g2 < 0) lower = u;
+    else upper = u;
+    let next = u - g2 / slope;
+    if (!(next > lower && next < upper)) next = (lower + upper) / 2;
+    const change = Math.abs(next - u);
+    u = next;
+    if (change <= 1e-14 || upper - lower <= 1e-14) return Math.exp(u);
+    ({ g: g2, slope } = evaluate(u));
+  }
+  throw new InternalError(`studentTQuantile: did not converge for q = ${q}, df = ${df}`);
+}
+
+// src/core/report/tabulate-report.ts
+var noVerdictStatement = "No verdict was reached: the run failed before the models could be compared. An error is not a pass; fix the problem below and run the gate again.";
+var importanceNote = "Importance is how much the holdout metric worsens when a feature is replaced by draws from the reference data, averaged over reseeded refits. The floor is the standard deviation of that importance across refits; a feature is above the floor when its 95% interval lies above zero. A shift is a significant change of importance, given as a signed percentage of the base value; ranks are each side's own, by mean importance.";
+var agreementMissingNote = "Rank agreement was not computed for this run.";
+var evidenceLabels = {
+  baseMean: "base mean",
+  headMean: "head mean",
+  relativeChange: "change against the larger mean",
+  baseRefitSd: "base reseed SD",
+  headRefitSd: "head reseed SD",
+  welchT: "Welch's t",
+  welchDf: "Welch df",
+  pValue: "p",
+  adjustedPValue: "adjusted p",
+  baseRank: "base rank",
+  headRank: "head rank",
+  positionsMoved: "places moved among shared features",
+  share: "share of the importance",
+  baseShare: "base share of the importance",
+  runnerUpRatio: "times the runner-up",
+  runnerUp: "runner-up",
+  singleFeatureSeparation: "a model on it alone, holdout score",
+  baseSingleFeatureSeparation: "a model on it alone on the base, holdout score",
+  fullModelSeparation: "the full model, holdout score",
+  baseFullModelSeparation: "the base full model, holdout score",
+  separationJumpInSds: "full model moved, reseed SDs",
+  relativePower: "share of the full model's gain alone",
+  threshold: "policy line",
+  isNew: "new in this pull request",
+  isChanged: "changed in this pull request",
+  wasDominantOnBase: "dominant on the base already",
+  worsening: "worsening",
+  tolerance: "tolerance",
+  standardError: "standard error",
+  alpha: "level",
+  worseningInReseedSds: "worsening in reseed SDs",
+  kendallTau: "Kendall tau-b",
+  rankBiasedOverlap: "rank-biased overlap",
+  kendallTauThreshold: "Kendall tau-b reseed threshold",
+  rankBiasedOverlapThreshold: "rank-biased overlap reseed threshold",
+  featuresCompared: "features compared",
+  nullPairs: "reseed pairs",
+  headLower: "head interval low",
+  headUpper: "head interval high",
+  mean: "mean",
+  lower: "interval low",
+  upper: "interval high",
+  added: "added",
+  removed: "removed",
+  kindChanged: "changed kind",
+  cause: "cause",
+  causeShare: "cause's share of the importance",
+  featuresExplained: "features explained",
+  fellToFloor: "fell to the floor",
+  sharedTotalBase: "shared features, base total",
+  sharedTotalHead: "shared features, head total",
+  proportionalFactor: "proportional factor",
+  explained: "explained",
+  liftShare: "lift (share of the loss the base model left)",
+  removedShare: "share of the loss removed",
+  dropColumnLoss: "drop-column loss",
+  dropColumnLower: "drop-column interval low",
+  dropColumnUpper: "drop-column interval high",
+  dropColumnPValue: "drop-column p",
+  dropColumnInReseedSds: "drop-column loss in reseed SDs",
+  dropColumnAboveNoise: "drop-column loss above noise",
+  baseLoss: "base loss",
+  headLoss: "head loss",
+  powerAgainstBaseModel: "power against the base model",
+  powerAgainstBestFeature: "power against the best existing feature",
+  bestExistingFeature: "best existing feature",
+  sliceColumn: "slice column",
+  sliceValue: "slice value",
+  sliceRows: "slice rows",
+  sliceSeparation: "a model on it alone in the slice, holdout score",
+  baseSliceSeparation: "a model on it alone in the slice on the base, holdout score",
+  baseRows: "base rows",
+  headRows: "head rows",
+  differingRows: "rows that differ",
+  idsOnlyOnHead: "ids only on the head",
+  firstDifferingRow: "first differing row",
+  isUserError: "a problem in the inputs"
+};
+function evidenceLabel(key2) {
+  return evidenceLabels[key2] ?? key2.replace(/([a-z0-9])([A-Z])/g, "$1 $2").replace(/[_-]+/g, " ").toLowerCase();
+}
+function formatEvidenceValue(key2, value2) {
+  if (value2 === null) return "n/a";
+  if (typeof value2 === "boolean") return value2 ? "yes" : "no";
+  if (typeof value2 === "string") return value2;
+  if (/p-?value$/i.test(key2) || key2 === "alpha") return formatPValue(value2);
+  if (/(^s|S)hare$|^relativeChange$|^relativePower$/.test(key2)) return formatPercent(value2);
+  return formatNumber(value2);
+}
+function evidenceInWords(finding, featureSet) {
+  const missing = finding.feature === void 0 ? null : featureSet.added.includes(finding.feature) ? "base" : featureSet.removed.includes(finding.feature) ? "head" : null;
+  return Object.entries(finding.evidence).filter(([key2, value2]) => value2 !== null && !(missing !== null && key2.startsWith(missing)));
+}
+function describeFinding(finding, task, featureSet) {
+  const kind = finding.kind.replace(/-/g, " ");
+  const entries = evidenceInWords(finding, featureSet);
+  const label2 = (key2) => evidenceLabel(key2).replace("holdout score", task === "binary" ? "holdout AUC" : "holdout R²");
+  return {
+    severity: finding.severity,
+    title: finding.title,
+    about: finding.feature === void 0 ? kind : `${kind}; feature: ${finding.feature}`,
+    message: finding.message,
+    evidence: entries.map(([key2, value2]) => `${label2(key2)} ${formatEvidenceValue(key2, value2)}`),
+    evidencePairs: entries.map(([key2, value2]) => [label2(key2), formatEvidenceValue(key2, value2)])
+  };
+}
+function describeImportance(side2) {
+  if (!side2) return "-";
+  return `${formatNumber(side2.mean)} [${formatNumber(side2.lower)}, ${formatNumber(side2.upper)}]`;
+}
+function describeName(row) {
+  if (!row.isGroup) return row.name;
+  const members2 = row.members ?? [];
+  if (members2.length === 0) return `${row.name} (group)`;
+  return `${row.name} (group of ${limitItems(members2, 5).join(", ")})`;
+}
+function describeStatus(row) {
+  if (row.presence === "removed") return "removed";
+  const floor = row.head?.isAboveFloor ? "above floor" : "indistinguishable from zero";
+  if (row.presence === "added") return row.head ? `added, ${floor}` : "added";
+  if (row.shift?.isSignificant && row.base && row.head) {
+    return `shifted ${formatChange(row.base.mean, row.head.mean)}${row.head.isAboveFloor ? "" : ", now indistinguishable from zero"}`;
+  }
+  return floor;
+}
+function tabulateFeatures(features) {
+  const drops = features.map(readDropColumn);
+  const hasDrop = drops.some((drop) => drop !== null);
+  const describeDrop = (drop) => drop === null ? "-" : `${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]${drop.isAboveNoise === false ? " (noise)" : ""}`;
+  return {
+    header: [
+      "feature",
+      "rank base → head",
+      "importance base [95% CI]",
+      "importance head [95% CI]",
+      "floor base (refit SD)",
+      "floor head (refit SD)",
+      "share of head",
+      ...hasDrop ? ["drop-column loss, head [95% CI]"] : [],
+      "status"
+    ],
+    align: ["left", "right", "right", "right", "right", "right", "right", ...hasDrop ? ["right"] : [], "left"],
+    rows: features.map((row, i) => [
+      describeName(row),
+      `${row.base?.rank ?? "-"} → ${row.head?.rank ?? "-"}`,
+      describeImportance(row.base),
+      describeImportance(row.head),
+      row.base ? formatNumber(row.base.refitSd) : "-",
+      row.head ? formatNumber(row.head.refitSd) : "-",
+      row.head ? formatPercent(row.head.share) : "-",
+      ...hasDrop ? [describeDrop(drops[i])] : [],
+      describeStatus(row)
+    ])
+  };
+}
+function describeNull(values) {
+  const finite2 = values.filter(Number.isFinite);
+  if (finite2.length === 0) return "no pairs";
+  const lowest = finite2.reduce((a, b) => Math.min(a, b));
+  const highest = finite2.reduce((a, b) => Math.max(a, b));
+  const pairs = finite2.length === 1 ? "pair" : "pairs";
+  return `${formatNumber(lowest)} to ${formatNumber(highest)} over ${formatCount(finite2.length)} ${pairs}`;
+}
+function readAgreement(value2, threshold) {
+  if (Number.isNaN(value2) || Number.isNaN(threshold)) return "undefined";
+  return value2 < threshold ? "below the reseed threshold" : "within reseed agreement";
+}
+function tabulateAgreement(agreement) {
+  const { kendallTau, rankBiasedOverlap: rankBiasedOverlap2, kendallTauThreshold, rankBiasedOverlapThreshold } = agreement;
+  return {
+    table: {
+      header: ["statistic", "base vs head", "reseed threshold", "reseed null", "reading"],
+      align: ["left", "right", "right", "left", "left"],
+      rows: [
+        [
+          "Kendall tau-b",
+          formatNumber(kendallTau),
+          formatNumber(kendallTauThreshold),
+          describeNull(agreement.nullKendallTau),
+          readAgreement(kendallTau, kendallTauThreshold)
+        ],
+        [
+          `rank-biased overlap, persistence ${formatNumber(agreement.persistence)}`,
+          formatNumber(rankBiasedOverlap2),
+          formatNumber(rankBiasedOverlapThreshold),
+          describeNull(agreement.nullRankBiasedOverlap),
+          readAgreement(rankBiasedOverlap2, rankBiasedOverlapThreshold)
+        ]
+      ]
+    },
+    note: `Ranks of the ${formatCount(agreement.featuresCompared)} features present on both sides and above the floor on either side, averaged over pairs of one base and one head refit. The reseed null is the same statistic between two refits of one side that differ only in their seed; the threshold is a low percentile of it.`
+  };
+}
+function tabulateSides(base, head, metric) {
+  const both = (describe3) => [describe3(base), describe3(head)];
+  return {
+    header: ["", "base", "head"],
+    align: ["left", "left", "left"],
+    rows: [
+      ["ref", ...both((side2) => side2.ref)],
+      ["commit", ...both((side2) => side2.commit ?? "-")],
+      ["model", ...both(describeModel)],
+      ["features", ...both((side2) => formatCount(side2.features.length))],
+      ["train rows", ...both((side2) => formatCount(side2.trainRows))],
+      ["holdout rows", ...both((side2) => formatCount(side2.holdoutRows))],
+      ["holdout rows used for importance", ...both((side2) => formatCount(side2.evaluationRows))],
+      ["reference rows for draws", ...both((side2) => formatCount(side2.referenceRows))],
+      [`holdout ${metric}, mean over refits`, ...both((side2) => formatNumber(side2.scoreMean))],
+      [`holdout ${metric}, SD over refits`, ...both((side2) => formatNumber(side2.scoreSd))],
+      ["refits", ...both((side2) => formatCount(side2.scores.length))],
+      ["noise covers", ...both((side2) => side2.noiseCovers.replace(/-/g, " "))]
+    ]
+  };
+}
+function describeModel({ model }) {
+  return model.description.includes(model.kind) ? model.description : `${model.kind}: ${model.description}`;
+}
+function tabulatePerRefit(header, base, head, format) {
+  const rows = [];
+  for (let i = 0; i < Math.max(base.length, head.length); i++) {
+    rows.push([String(i + 1), i < base.length ? format(base[i]) : "-", i < head.length ? format(head[i]) : "-"]);
+  }
+  return { header, align: ["right", "right", "right"], rows };
+}
+function tabulateSettings(settings) {
+  const direction = settings.higherIsBetter ? "higher is better" : "lower is better";
+  return {
+    header: ["setting", "value"],
+    align: ["left", "left"],
+    rows: [
+      ["task", settings.task],
+      ["target", settings.target],
+      ["metric", `${settings.metric} (${direction})`],
+      ["draws per feature and refit", formatCount(settings.draws)],
+      ["refits per side", formatCount(settings.refits)],
+      ["seed", String(settings.seed)],
+      ["policy file", settings.policySource],
+      ["policy applied", `the ${settings.policyFrom} side's, to both sides`]
+    ]
+  };
+}
+function tabulateReport(report) {
+  const { settings, sides, featureSet } = report;
+  const changed = featureSet.added.length + featureSet.removed.length + featureSet.kindChanged.length;
+  const headCount = sides ? sides.head.features.length : report.features.filter((row) => !row.isGroup).length;
+  return {
+    heading: report.verdict === "error" ? "plumbline: error, no verdict" : `plumbline: ${report.verdict}`,
+    findings: sortFindings(report.findings).map((finding) => describeFinding(finding, settings.task, featureSet)),
+    features: tabulateFeatures(report.features),
+    featureSet: {
+      added: featureSet.added,
+      removed: featureSet.removed,
+      kindChanged: featureSet.kindChanged.map((change) => `${change.name}: ${change.base} → ${change.head}`),
+      unchangedCount: changed === 0 ? headCount : null
+    },
+    agreement: report.agreement ? tabulateAgreement(report.agreement) : null,
+    score: sides ? summarizeScore(report) : null,
+    sides: sides ? tabulateSides(sides.base, sides.head, settings.metric) : null,
+    scores: sides ? tabulatePerRefit(["refit", `base ${settings.metric}`, `head ${settings.metric}`], sides.base.scores, sides.head.scores, formatNumber) : null,
+    seeds: sides ? tabulatePerRefit(["refit", "base seed", "head seed"], sides.base.refitSeeds, sides.head.refitSeeds, String) : null,
+    settings: tabulateSettings(settings),
+    checks: {
+      header: ["check", "setting", "value"],
+      align: ["left", "left", "right"],
+      rows: Object.entries(settings.checks).flatMap(
+        ([check2, values]) => (
+          // Policy settings as the policy file writes them: 0.5, not 50%.
+          Object.entries(values).map(([key2, value2]) => [check2, key2, typeof value2 === "number" ? formatNumber(value2) : formatEvidenceValue(key2, value2)])
+        )
+      )
+    },
+    timings: {
+      header: ["stage", "seconds"],
+      align: ["left", "right"],
+      rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)])
+    }
+  };
+}
+function scoreInterval(side2) {
+  const n = side2.scores.length;
+  if (n < 2 || !Number.isFinite(side2.scoreSd)) return formatNumber(side2.scoreMean);
+  const half = studentTQuantile(0.975, n - 1) * side2.scoreSd / Math.sqrt(n);
+  return `${formatNumber(side2.scoreMean)} [${formatNumber(side2.scoreMean - half)}, ${formatNumber(side2.scoreMean + half)}]`;
+}
+function summarizeScore(report) {
+  const { base, head } = report.sides;
+  const { metric, higherIsBetter } = report.settings;
+  const pooled = Math.sqrt((base.scoreSd ** 2 + head.scoreSd ** 2) / 2);
+  const moved = head.scoreMean - base.scoreMean;
+  const better = higherIsBetter ? moved > 0 : moved < 0;
+  const sds = moved === 0 ? "unchanged" : pooled > 0 && Number.isFinite(pooled) ? `${formatNumber(Math.abs(moved) / pooled)} reseed SDs ${better ? "better" : "worse"}` : `${better ? "better" : "worse"}; no reseed spread to compare with`;
+  const interval = base.scores.length >= 2 && head.scores.length >= 2 ? " (95% intervals over refits)" : "";
+  return {
+    sentence: `Holdout ${metric} (${higherIsBetter ? "higher" : "lower"} is better): base ${scoreInterval(base)} → head ${scoreInterval(head)}, ${formatChange(base.scoreMean, head.scoreMean)}, ${sds}${interval}.`,
+    evidenceLines: [...liftLines(report), ...dropColumnLines(report)]
+  };
+}
+function liftLines(report) {
+  const seen = /* @__PURE__ */ new Set();
+  const lines = [];
+  for (const finding of sortFindings(report.findings)) {
+    const e2 = finding.evidence;
+    if (typeof e2.liftShare !== "number" || finding.feature === void 0 || seen.has(finding.feature)) continue;
+    seen.add(finding.feature);
+    const drop = typeof e2.dropColumnLoss === "number" ? `; without it the head's loss grows by ${formatNumber(e2.dropColumnLoss)}` + (typeof e2.dropColumnLower === "number" && typeof e2.dropColumnUpper === "number" ? ` [${formatNumber(e2.dropColumnLower)}, ${formatNumber(e2.dropColumnUpper)}]` : "") + (typeof e2.dropColumnInReseedSds === "number" ? `, ${formatNumber(e2.dropColumnInReseedSds)} reseed SDs` : "") : "";
+    lines.push(`Lift of ${finding.feature}: ${formatPercent(e2.liftShare)} of the loss the base model left${drop}.`);
+  }
+  return lines;
+}
+function readDropColumn(row) {
+  const holders = [row.head ?? {}, row];
+  for (const holder of holders) {
+    const value2 = holder.dropColumn;
+    if (typeof value2 !== "object" || value2 === null) continue;
+    const v = value2;
+    const mean3 = typeof v.loss === "number" ? v.loss : v.mean;
+    if (typeof mean3 !== "number" || !Number.isFinite(mean3)) continue;
+    const lower = typeof v.lower === "number" ? v.lower : NaN;
+    const upper = typeof v.upper === "number" ? v.upper : NaN;
+    return { mean: mean3, lower, upper, ...typeof v.isAboveNoise === "boolean" ? { isAboveNoise: v.isAboveNoise } : {} };
+  }
+  return null;
+}
+function dropColumnLines(report) {
+  const rows = report.features.map((row) => ({ row, drop: readDropColumn(row) })).filter((x) => x.drop !== null);
+  if (rows.length === 0) return [];
+  const shown = rows.sort((a, b) => b.drop.mean - a.drop.mean).slice(0, 3).map(({ row, drop }) => `${row.name} ${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]`);
+  return [`Drop-column loss (refitted without the feature), largest: ${shown.join("; ")}.`];
+}
+function limitRows(table2, maxRows) {
+  if (table2.rows.length <= maxRows) return table2;
+  const cut2 = table2.rows.length - maxRows;
+  const more = [`${formatCount(cut2)} more ${cut2 === 1 ? "row" : "rows"}`, ...table2.header.slice(1).map(() => "")];
+  return { ...table2, rows: [...table2.rows.slice(0, maxRows), more] };
+}
+function limitItems(items, maxItems) {
+  if (items.length <= maxItems) return [...items];
+  return [...items.slice(0, maxItems), `and ${formatCount(items.length - maxItems)} more`];
+}
+
+// src/core/report/render-html.ts
+var e = escapeHtml;
+function nameHtml(name) {
+  return e(name).replace(/([_./-])(?=[^\s])/g, "$1<wbr>");
+}
+var style = `
+:root { color-scheme: light dark; --fg: #1b1b1b; --bg: #ffffff; --muted: #5d5d5d; --rule: #c9c9c9;
+  --band: #e4e4e4; --base: #0072b2; --head: #d55e00; --emph: #cc79a7; --grey: #9a9a9a;
+  --block: #d55e00; --warn: #b8860b; --pass: #009e73; --info: #0072b2; }
+@media (prefers-color-scheme: dark) {
+  :root { --fg: #ececec; --bg: #161616; --muted: #b0b0b0; --rule: #444; --band: #333;
+    --base: #56b4e9; --head: #f0a35e; --emph: #e3a6c9; --grey: #7a7a7a;
+    --block: #f08a4b; --warn: #f0e442; --pass: #3fc39a; --info: #56b4e9; }
+}
+* { box-sizing: border-box; }
+body { margin: 0 auto; padding: 16px; max-width: 1100px; font: 15px/1.45 system-ui, sans-serif; color: var(--fg); background: var(--bg); }
+h1 { font-size: 1.35em; margin: 0 0 4px; } h2 { font-size: 1.1em; margin: 28px 0 8px; border-bottom: 1px solid var(--rule); padding-bottom: 2px; }
+p, li, dd, dt, td, th, .name { overflow-wrap: anywhere; }
+.verdict { display: inline-block; padding: 1px 8px; border: 2px solid currentColor; border-radius: 3px; font-weight: 700; letter-spacing: .04em; }
+.v-block { color: var(--block); } .v-warn { color: var(--warn); } .v-pass { color: var(--pass); } .v-error { color: var(--block); }
+.muted, .note { color: var(--muted); font-size: .92em; }
+.finding { border-left: 5px solid var(--rule); padding: 4px 10px; margin: 10px 0; break-inside: avoid; }
+.finding.s-block { border-color: var(--block); } .finding.s-warn { border-color: var(--warn); } .finding.s-info { border-color: var(--info); border-left-style: dotted; }
+.finding h3 { font-size: 1em; margin: 0; } .finding p { margin: 4px 0; }
+.sev { font-weight: 700; text-transform: uppercase; font-size: .8em; margin-right: 6px; }
+dl.evidence { display: grid; grid-template-columns: minmax(8em, max-content) 1fr; gap: 0 12px; margin: 4px 0; font-size: .9em; }
+dl.evidence dt { color: var(--muted); } dl.evidence dd { margin: 0; font-variant-numeric: tabular-nums; }
+.legend { display: flex; flex-wrap: wrap; gap: 4px 16px; font-size: .9em; color: var(--muted); margin: 4px 0 8px; }
+.legend svg { vertical-align: middle; }
+.chart { display: grid; grid-template-columns: minmax(6em, 28%) 1fr; gap: 2px 10px; align-items: center; }
+.chart .name { font-size: .9em; text-align: right; }
+.chart svg { width: 100%; display: block; overflow: visible; }
+.axis text, svg text { font-size: 11px; fill: var(--muted); }
+.band { fill: var(--band); } .zero { stroke: var(--muted); stroke-width: 1; }
+.whisker { stroke-width: 1.5; } .whisker.base, .mark.base { stroke: var(--base); } .whisker.head { stroke: var(--head); }
+.mark.base { fill: var(--bg); stroke-width: 2; } .mark.head { fill: var(--head); }
+.floorish .name { color: var(--grey); } .floorish .mark.head { fill: var(--grey); } .floorish .mark.base { stroke: var(--grey); } .floorish .whisker { stroke: var(--grey); }
+.join { stroke: var(--grey); stroke-width: 1.5; } .join.shifted { stroke: var(--emph); stroke-width: 4; }
+.null { fill: var(--grey); } .observed { stroke: var(--head); stroke-width: 3; } .threshold { stroke: var(--muted); stroke-dasharray: 4 3; }
+.dot.base { fill: none; stroke: var(--base); stroke-width: 2; } .dot.head { fill: var(--head); }
+.drop { fill: var(--emph); } .whisker.drop { stroke: var(--emph); }
+.tables { overflow-x: auto; }
+table { border-collapse: collapse; font-size: .88em; margin: 6px 0 14px; }
+th, td { border-bottom: 1px solid var(--rule); padding: 3px 8px; vertical-align: top; }
+td.r, th.r { text-align: right; font-variant-numeric: tabular-nums; }
+footer { margin-top: 28px; color: var(--muted); font-size: .9em; }
+@media (max-width: 600px) { body { padding: 10px; font-size: 14px; } .chart { grid-template-columns: minmax(5em, 36%) 1fr; } dl.evidence { grid-template-columns: 1fr; } dl.evidence dd { margin-bottom: 4px; } }
+@media print { :root { --fg: #000; --bg: #fff; --muted: #333; --band: #e8e8e8; } body { max-width: none; } h2 { break-after: avoid; } .chart > * { break-inside: avoid; } }
+`;
+function scaleOf(values) {
+  const finite2 = values.filter(Number.isFinite);
+  let low = Math.min(0, ...finite2);
+  let high = Math.max(0, ...finite2);
+  if (!(high > low)) high = low + 1;
+  const pad = (high - low) * 0.04;
+  low -= low < 0 ? pad : 0;
+  high += pad;
+  return { low, high };
+}
+function at(scale, value2) {
+  const p = (value2 - scale.low) / (scale.high - scale.low) * 100;
+  return `${Math.min(100, Math.max(0, Number.isFinite(p) ? p : 0)).toFixed(2)}%`;
+}
+function axis(scale, label2) {
+  const zeroAt = (0 - scale.low) / (scale.high - scale.low);
+  const ticks = [scale.low, ...zeroAt > 0.3 && zeroAt < 0.7 ? [0] : [], scale.high];
+  const texts = ticks.map((value2, i) => {
+    const anchor2 = i === 0 ? "start" : i === ticks.length - 1 ? "end" : "middle";
+    return `<text x="${at(scale, value2)}" y="12" text-anchor="${anchor2}">${e(formatNumber(Number(value2.toPrecision(3))))}</text>`;
+  });
+  return `<div class="name muted">${e(label2)}</div><svg class="axis" height="16" role="img" aria-label="${e(label2)} axis">${texts.join("")}</svg>`;
+}
+function whisker(scale, side2, y, lower, upper) {
+  return `<line class="whisker ${side2}" x1="${at(scale, lower)}" x2="${at(scale, upper)}" y1="${y}" y2="${y}"/>`;
+}
+function mark(scale, side2, y, value2, title) {
+  const tip = `<title>${e(title)}</title>`;
+  return side2 === "base" ? `<circle class="mark base" cx="${at(scale, value2)}" cy="${y}" r="4.5">${tip}</circle>` : `<svg x="${at(scale, value2)}" y="${y - 5}" width="1" height="1" overflow="visible"><rect class="mark head" x="-5" y="0" width="10" height="10">${tip}</rect></svg>`;
+}
+function legend() {
+  return '<div class="legend"><span><svg width="14" height="14"><circle class="mark base" cx="7" cy="7" r="4.5"/></svg> base</span><span><svg width="14" height="14"><rect class="mark head" x="2" y="2" width="10" height="10"/></svg> head</span><span><svg width="22" height="14"><rect class="band" x="0" y="2" width="22" height="10"/></svg> reseed floor (a mark inside the band is indistinguishable from zero)</span><span>lines: 95% interval</span></div>';
+}
+function isAtFloor(row) {
+  return !(row.base?.isAboveFloor ?? false) && !(row.head?.isAboveFloor ?? false);
+}
+function limitNote(total, shown) {
+  return total > shown ? `<p class="note">${formatCount(total - shown)} more features are in the table below.</p>` : "";
+}
+function importanceChart(report, maxRows) {
+  const rows = report.features.slice(0, maxRows);
+  if (rows.length === 0) return "<p>No features were measured.</p>";
+  const scale = scaleOf(rows.flatMap((row) => [row.base?.lower, row.base?.upper, row.head?.lower, row.head?.upper].filter((v) => v !== void 0)));
+  const cells = rows.map((row) => {
+    const parts = [];
+    const sides = [["base", row.base, 8], ["head", row.head, 22]];
+    for (const [side2, stats, y] of sides) {
+      if (!stats) continue;
+      const half = Math.max(0, stats.upper - stats.mean);
+      parts.push(`<rect class="band" x="${at(scale, -half)}" y="${y - 6}" width="${widthBetween(scale, -half, half)}" height="12"/>`);
+    }
+    parts.push(`<line class="zero" x1="${at(scale, 0)}" x2="${at(scale, 0)}" y1="0" y2="30"/>`);
+    for (const [side2, stats, y] of sides) {
+      if (!stats) continue;
+      const title = `${row.name}, ${side2}: ${formatNumber(stats.mean)} [${formatNumber(stats.lower)}, ${formatNumber(stats.upper)}], rank ${stats.rank}${stats.isAboveFloor ? "" : ", indistinguishable from zero"}`;
+      parts.push(whisker(scale, side2, y, stats.lower, stats.upper), mark(scale, side2, y, stats.mean, title));
+    }
+    const presence = row.presence === "added" ? " (new)" : row.presence === "removed" ? " (removed)" : "";
+    const label2 = `${row.name}${row.isGroup ? " (group)" : ""}${presence}`;
+    return `<div class="name${isAtFloor(row) ? " floorish" : ""}" data-feature="${e(row.name)}">${nameHtml(label2)}</div><svg class="${isAtFloor(row) ? "floorish" : ""}" height="30" data-feature="${e(row.name)}" role="img" aria-label="${e(label2)} importance">${parts.join("")}</svg>`;
+  });
+  return `${legend()}<div class="chart">${cells.join("")}${axis(scale, `${report.settings.metric} worsening`)}</div>${limitNote(report.features.length, rows.length)}`;
+}
+function widthBetween(scale, from, to) {
+  const a = Number.parseFloat(at(scale, from));
+  const b = Number.parseFloat(at(scale, to));
+  return `${Math.max(0, b - a).toFixed(2)}%`;
+}
+function rankChart(report, maxRows) {
+  const rows = report.features.filter((row) => !row.isGroup).slice(0, maxRows);
+  if (rows.length === 0) return "<p>No features were measured.</p>";
+  const most = Math.max(...rows.map((row) => Math.max(row.base?.rank ?? 0, row.head?.rank ?? 0)));
+  const scale = { low: 0.5, high: Math.max(1.5, most + 0.5) };
+  const cells = rows.map((row) => {
+    const parts = [];
+    const shifted = row.shift?.isSignificant === true && row.base?.rank !== row.head?.rank;
+    if (row.base && row.head) {
+      parts.push(`<line class="join${shifted ? " shifted" : ""}" x1="${at(scale, row.base.rank)}" x2="${at(scale, row.head.rank)}" y1="12" y2="12"/>`);
+    }
+    if (row.base) parts.push(mark(scale, "base", 12, row.base.rank, `${row.name}: base rank ${row.base.rank}`));
+    if (row.head) parts.push(mark(scale, "head", 12, row.head.rank, `${row.name}: head rank ${row.head.rank}`));
+    const ranks = `${row.base?.rank ?? "none"} → ${row.head?.rank ?? "none"}`;
+    const cls = isAtFloor(row) ? "floorish" : "";
+    return `<div class="name ${cls}" data-feature="${e(row.name)}">${nameHtml(row.name)} <span class="muted">${e(ranks)}${shifted ? ", shifted" : ""}</span></div><svg class="${cls}" height="24" data-feature="${e(row.name)}" role="img" aria-label="${e(row.name)} rank ${e(ranks)}">${parts.join("")}</svg>`;
+  });
+  const ticks = `<div class="name muted">rank</div><svg class="axis" height="16"><text x="${at(scale, 1)}" y="12" text-anchor="start">1</text><text x="${at(scale, most)}" y="12" text-anchor="end">${most}</text></svg>`;
+  return `<div class="legend"><span>each row joins the base rank (circle) to the head rank (square); heavy: a shift beyond reseed noise; grey: at the floor on both sides</span></div><div class="chart">${cells.join("")}${ticks}</div>${limitNote(rows.length, rows.length)}`;
+}
+function nullStrip(name, values, observed, threshold) {
+  const finite2 = values.filter(Number.isFinite);
+  const shown = [...finite2, observed, threshold].filter(Number.isFinite);
+  const low = Math.min(...shown, 1);
+  const high = Math.max(...shown, 1);
+  const pad = Math.max((high - low) * 0.08, 0.01);
+  const scale = { low: low - pad, high: high + pad };
+  const dots = finite2.map((v, i) => `<circle class="null" cx="${at(scale, v)}" cy="${8 + i % 3 * 6}" r="3"/>`).join("");
+  const lines = (Number.isFinite(threshold) ? `<line class="threshold" x1="${at(scale, threshold)}" x2="${at(scale, threshold)}" y1="0" y2="28"><title>threshold ${e(formatNumber(threshold))}</title></line>` : "") + (Number.isFinite(observed) ? `<line class="observed" x1="${at(scale, observed)}" x2="${at(scale, observed)}" y1="0" y2="28"><title>base vs head ${e(formatNumber(observed))}</title></line>` : "");
+  const label2 = `${name}: base vs head ${formatNumber(observed)}, reseed threshold ${formatNumber(threshold)}`;
+  return `<div class="name">${e(label2)}</div><svg height="30" role="img" aria-label="${e(label2)}">${dots}${lines}</svg>${axis(scale, "")}`;
+}
+function agreementChart(agreement) {
+  if (!agreement) return "<p>Rank agreement was not computed for this run.</p>";
+  return '<div class="legend"><span>grey dots: two refits of one side (the reseed null); heavy line: base against head; dashed: the threshold</span></div><div class="chart">' + nullStrip("Kendall tau-b", agreement.nullKendallTau, agreement.kendallTau, agreement.kendallTauThreshold) + nullStrip("rank-biased overlap", agreement.nullRankBiasedOverlap, agreement.rankBiasedOverlap, agreement.rankBiasedOverlapThreshold) + "</div>";
+}
+function scoreStrips(report) {
+  if (!report.sides) return "";
+  const { base, head } = report.sides;
+  const scale = scaleOf([...base.scores, ...head.scores]);
+  const tight = { low: Math.min(...base.scores, ...head.scores), high: Math.max(...base.scores, ...head.scores) };
+  const pad = (tight.high - tight.low) * 0.08 || Math.abs(tight.high) * 0.01 || 1;
+  const s = Number.isFinite(tight.low) ? { low: tight.low - pad, high: tight.high + pad } : scale;
+  const strip = (side2) => {
+    const dots = side2.scores.map((v, i) => `<circle class="dot ${side2.side}" cx="${at(s, v)}" cy="12" r="5"><title>refit ${i + 1}: ${e(formatNumber(v))}</title></circle>`).join("");
+    return `<div class="name">${side2.side}, mean ${e(formatNumber(side2.scoreMean))}</div><svg height="24" role="img" aria-label="${side2.side} holdout scores">${dots}</svg>`;
+  };
+  return `<div class="chart">${strip(base)}${strip(head)}${axis(s, `holdout ${report.settings.metric}`)}</div>`;
+}
+function dropColumnChart(report, maxRows) {
+  const rows = report.features.map((row) => ({ row, drop: readDropColumn(row) })).filter((x) => x.drop !== null).slice(0, maxRows);
+  if (rows.length === 0) return "";
+  const scale = scaleOf(rows.flatMap((x) => [x.drop.mean, x.drop.lower, x.drop.upper]));
+  const cells = rows.map(({ row, drop }) => {
+    const title = `${row.name}: drop-column loss ${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]`;
+    return `<div class="name" data-feature="${e(row.name)}">${nameHtml(row.name)}</div><svg height="20" data-feature="${e(row.name)}" role="img" aria-label="${e(title)}"><line class="zero" x1="${at(scale, 0)}" x2="${at(scale, 0)}" y1="0" y2="20"/>` + (Number.isFinite(drop.lower) && Number.isFinite(drop.upper) ? `<line class="whisker drop" x1="${at(scale, drop.lower)}" x2="${at(scale, drop.upper)}" y1="10" y2="10"/>` : "") + `<circle class="drop" cx="${at(scale, drop.mean)}" cy="10" r="4.5"><title>${e(title)}</title></circle></svg>`;
+  });
+  return `<h2>Drop-column results</h2><p class="note">How much the head's holdout loss grows when the model is refitted without the feature, with its 95% interval.</p><div class="chart">${cells.join("")}${axis(scale, "loss growth")}</div>`;
+}
+function table(t) {
+  const head = t.header.map((h, j) => `<th class="${t.align[j] === "right" ? "r" : ""}">${e(h)}</th>`).join("");
+  const body = t.rows.map((row) => `<tr>${row.map((c, j) => `<td class="${t.align[j] === "right" ? "r" : ""}">${e(c)}</td>`).join("")}</tr>`).join("");
+  return `<div class="tables"><table><thead><tr>${head}</tr></thead><tbody>${body}</tbody></table></div>`;
+}
+function page(title, body) {
+  return `<!DOCTYPE html>
+<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:"><title>${e(title)}</title><style>${style}</style></head><body>${body}</body></html>
+`;
+}
+function renderHtml(report, options = {}) {
+  const maxRows = options.maxChartRows ?? 300;
+  if (!Number.isInteger(maxRows) || maxRows < 1) throw new RangeError(`renderHtml needs maxChartRows to be a whole number of at least 1, got ${maxRows}`);
+  const tables = tabulateReport(report);
+  const verdictWord = report.verdict === "error" ? "no verdict" : report.verdict;
+  const header = `<header><h1>plumbline report <span class="verdict v-${report.verdict}">${e(verdictWord.toUpperCase())}</span></h1><p><strong>${e(report.headline)}</strong></p>` + (tables.score ? `<p>${[tables.score.sentence, ...tables.score.evidenceLines].map(e).join("<br>")}</p>` : "") + (report.sides ? `<p class="muted">base ${e(report.sides.base.ref)}${report.sides.base.commit ? ` (${e(report.sides.base.commit.slice(0, 12))})` : ""} · head ${e(report.sides.head.ref)}${report.sides.head.commit ? ` (${e(report.sides.head.commit.slice(0, 12))})` : ""} · plumbline ${e(report.tool.version)}</p>` : "") + "</header>";
+  const findings = tables.findings.length === 0 ? "<p>None.</p>" : tables.findings.map((f) => {
+    const items = f.evidencePairs.map(([label2, value2]) => `<dt>${e(label2)}</dt><dd>${e(value2)}</dd>`);
+    return `<article class="finding s-${f.severity}"><h3><span class="sev">${f.severity}</span>${e(f.title)}</h3>` + (f.message ? `<p>${e(f.message)}</p>` : "") + (items.length ? `<dl class="evidence">${items.join("")}</dl>` : "") + "</article>";
+  }).join("");
+  if (report.verdict === "error") {
+    return page("plumbline: no verdict", `${header}<p>${e(noVerdictStatement)}</p><h2>What failed</h2>${findings}`);
+  }
+  const body = [
+    header,
+    `<h2>Findings</h2>${findings}`,
+    `<h2>Importance per feature</h2><p class="note">How much the holdout ${e(report.settings.metric)} worsens when the feature is replaced by draws from the reference data, mean over ${formatCount(report.settings.refits)} reseeded refits.</p>${importanceChart(report, maxRows)}`,
+    `<h2>Ranks, base to head</h2>${rankChart(report, maxRows)}`,
+    `<h2>Rank agreement against the reseed null</h2>${agreementChart(report.agreement)}`,
+    `<h2>Holdout score per refit</h2>${scoreStrips(report)}`,
+    dropColumnChart(report, maxRows),
+    `<h2>Tables</h2><h3>Features</h3>${table(tables.features)}`,
+    ...tables.agreement ? [`<h3>Rank agreement</h3>${table(tables.agreement.table)}<p class="note">${e(tables.agreement.note)}</p>`] : [],
+    ...tables.sides ? [`<h3>Models</h3>${table(tables.sides)}`] : [],
+    ...tables.scores ? [`<h3>Scores per refit</h3>${table(limitRows(tables.scores, 1e3))}`] : [],
+    `<h3>Settings</h3>${table(tables.settings)}${tables.checks.rows.length ? table(tables.checks) : ""}`,
+    `<footer><p>${e(reportCaution)}</p></footer>`
+  ];
+  return page(`plumbline: ${verdictWord}`, body.join("\n"));
+}
+
+// node_modules/markdown-table/index.js
+function defaultStringLength(value2) {
+  return value2.length;
+}
+function markdownTable(table2, options) {
   const settings = options || {};
   const align = (settings.align || []).concat();
   const stringLength = settings.stringLength || defaultStringLength;
@@ -16632,15 +17773,15 @@ function markdownTable(table, options) {
   const longestCellByColumn = [];
   let mostCellsPerRow = 0;
   let rowIndex = -1;
-  while (++rowIndex < table.length) {
+  while (++rowIndex < table2.length) {
     const row2 = [];
     const sizes2 = [];
     let columnIndex2 = -1;
-    if (table[rowIndex].length > mostCellsPerRow) {
-      mostCellsPerRow = table[rowIndex].length;
+    if (table2[rowIndex].length > mostCellsPerRow) {
+      mostCellsPerRow = table2[rowIndex].length;
     }
-    while (++columnIndex2 < table[rowIndex].length) {
-      const cell = serialize(table[rowIndex][columnIndex2]);
+    while (++columnIndex2 < table2[rowIndex].length) {
+      const cell = serialize(table2[rowIndex][columnIndex2]);
       if (settings.alignDelimiters !== false) {
         const size = stringLength(cell);
         sizes2[columnIndex2] = size;
@@ -16753,318 +17894,57 @@ function markdownTable(table, options) {
   }
   return lines.join("\n");
 }
-function serialize(value) {
-  return value === null || value === void 0 ? "" : String(value);
+function serialize(value2) {
+  return value2 === null || value2 === void 0 ? "" : String(value2);
 }
-function toAlignment(value) {
-  const code2 = typeof value === "string" ? value.codePointAt(0) : 0;
+function toAlignment(value2) {
+  const code2 = typeof value2 === "string" ? value2.codePointAt(0) : 0;
   return code2 === 67 || code2 === 99 ? 99 : code2 === 76 || code2 === 108 ? 108 : code2 === 82 || code2 === 114 ? 114 : 0;
 }
 
-// src/core/checks/verdict.ts
-var order = { block: 0, warn: 1, info: 2 };
-function sortFindings(findings) {
-  return findings.map((finding, index) => ({ finding, index })).sort((a, b) => order[a.finding.severity] - order[b.finding.severity] || a.index - b.index).map((x) => x.finding);
+// src/core/report/render-mermaid.ts
+var chartFeatures = 8;
+function label(name) {
+  const safe = name.replace(/[^A-Za-z0-9_.:/ -]/g, "?").replace(/\s+/g, " ").trim() || "?";
+  return safe.length > 24 ? `${safe.slice(0, 23)}…` : safe;
 }
-function decideVerdict(findings) {
-  if (findings.some((f) => f.severity === "block")) return "block";
-  if (findings.some((f) => f.severity === "warn")) return "warn";
-  return "pass";
+function value(v) {
+  if (!Number.isFinite(v)) return "0";
+  const fixed = v.toFixed(6).replace(/0+$/, "").replace(/\.$/, "");
+  return fixed === "-0" ? "0" : fixed;
 }
-function writeHeadline(verdict, findings) {
-  const sorted = sortFindings(findings);
-  const deciding = sorted.filter((f) => f.severity === verdict);
-  const more = deciding.length > 1 ? ` (and ${deciding.length - 1} more ${verdict === "block" ? "blocking" : "warning"} finding${deciding.length > 2 ? "s" : ""})` : "";
-  if (verdict === "pass") {
-    return "Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.";
-  }
-  const title = lowerFirst(deciding[0].title);
-  const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
-  return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
-}
-function lowerFirst(text3) {
-  return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
-}
-
-// src/core/report/escape.ts
-var wordJoiner = "⁠";
-var unsafeCharacters = (
-  // eslint-disable-next-line no-control-regex
-  /[\u0000-\u0008\u000e-\u001f\u007f-\u0084\u0086-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g
-);
-var lineBreaks = /\r\n|[\n\r\v\f\u0085\u2028\u2029]/g;
-function neutralize(text3) {
-  return text3.replace(/\t/g, " ").replace(unsafeCharacters, "�");
-}
-var entities = { "&": "&amp;", "<": "&lt;", ">": "&gt;" };
-function escapeInline(line) {
-  return line.replace(/[&<>]/g, (c) => entities[c]).replace(/[\\`*_[\]~|$]/g, "\\$&").replace(/@/g, `@${wordJoiner}`).replace(/#(?=\d)/g, `#${wordJoiner}`).replace(/\b(GH-)(?=\d)/gi, `$1${wordJoiner}`).replace(/:\/\//g, `:${wordJoiner}//`).replace(/\b(www)\./gi, `$1${wordJoiner}.`);
-}
-function escapeStart(text3, isLine) {
-  const trimmed = text3.trimStart();
-  if (/^[#+\-=]/.test(trimmed)) return `\\${trimmed}`;
-  return isLine ? trimmed.replace(/^(\d+)([.)])/, "$1\\$2") : trimmed;
-}
-function escapeMarkdownCell(text3) {
-  return escapeStart(escapeInline(neutralize(text3).replace(lineBreaks, " ").trim()), false);
-}
-function escapeMarkdownText(text3) {
-  return neutralize(text3).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
-}
-function escapePlainText(text3) {
-  return neutralize(text3).replace(lineBreaks, " ");
-}
-function markdownCodeBlock(text3) {
-  const body = neutralize(text3).replace(lineBreaks, "\n");
-  const longestRun = (body.match(/`+/g) ?? []).reduce((longest, run) => Math.max(longest, run.length), 0);
-  const fence = "`".repeat(Math.max(3, longestRun + 1));
-  return `${fence}text
-${body}
-${fence}`;
-}
-
-// src/core/report/format-number.ts
-function trimZeros(fixed) {
-  return fixed.includes(".") ? fixed.replace(/0+$/, "").replace(/\.$/, "") : fixed;
-}
-function exponential(value, digits) {
-  const [mantissa, exponent] = value.toExponential(digits).split("e");
-  return `${trimZeros(mantissa)}e${exponent.replace("+", "")}`;
-}
-function formatNumber(value) {
-  if (Number.isNaN(value)) return "n/a";
-  if (!Number.isFinite(value)) return value > 0 ? "inf" : "-inf";
-  if (value === 0) return "0";
-  const size = Math.abs(value);
-  if (Number.isInteger(value) && size < 1e15) return String(value);
-  if (size < 1e-4 || size >= 1e6) return exponential(value, 3);
-  if (size >= 1e3) return value.toFixed(0);
-  return trimZeros(value.toPrecision(4));
-}
-function formatPValue(p) {
-  if (Number.isNaN(p) || p < 0 || p > 1) return formatNumber(p);
-  if (p < 1e-6) return "<1e-6";
-  if (p < 1e-3) return exponential(p, 1);
-  return trimZeros(p.toPrecision(2));
-}
-function formatCount(count4) {
-  if (!Number.isInteger(count4)) return formatNumber(count4);
-  const digits = String(Math.abs(count4));
-  const grouped = digits.replace(/\B(?=(\d{3})+(?!\d))/g, ",");
-  return count4 < 0 ? `-${grouped}` : grouped;
-}
-function formatPercent(share) {
-  if (!Number.isFinite(share)) return formatNumber(share);
-  if (share > 0 && share < 5e-4) return "<0.1%";
-  const percent = trimZeros((share * 100).toFixed(1));
-  return `${percent === "-0" ? "0" : percent}%`;
-}
-
-// src/core/report/tabulate-report.ts
-var noVerdictStatement = "No verdict was reached: the run failed before the models could be compared. An error is not a pass; fix the problem below and run the gate again.";
-var importanceNote = "Importance is how much the holdout metric worsens when a feature is replaced by draws from the reference data, averaged over reseeded refits. The floor is the standard deviation of that importance across refits; a feature is above the floor when its 95% interval lies above zero. A shift is a significant change of importance; places moved count among the compared features, those on both sides and above the floor on either.";
-var agreementMissingNote = "Rank agreement was not computed for this run.";
-function formatEvidenceValue(key2, value) {
-  if (value === null) return "n/a";
-  if (typeof value === "boolean") return value ? "yes" : "no";
-  if (typeof value === "string") return value;
-  return /p-?value$/i.test(key2) ? formatPValue(value) : formatNumber(value);
-}
-function describeFinding(finding) {
-  const kind = finding.kind.replace(/-/g, " ");
-  return {
-    severity: finding.severity,
-    title: finding.title,
-    about: finding.feature === void 0 ? kind : `${kind}; feature: ${finding.feature}`,
-    message: finding.message,
-    evidence: Object.entries(finding.evidence).map(([key2, value]) => `${key2} = ${formatEvidenceValue(key2, value)}`)
-  };
-}
-function describeImportance(side2) {
-  if (!side2) return "-";
-  return `${formatNumber(side2.mean)} [${formatNumber(side2.lower)}, ${formatNumber(side2.upper)}]`;
-}
-function describeName(row) {
-  if (!row.isGroup) return row.name;
-  const members2 = row.members ?? [];
-  if (members2.length === 0) return `${row.name} (group)`;
-  return `${row.name} (group of ${limitItems(members2, 5).join(", ")})`;
-}
-function describeStatus(row) {
-  if (row.presence === "removed") return "removed";
-  const floor = row.head?.isAboveFloor ? "above floor" : "indistinguishable from zero";
-  if (row.presence === "added") return row.head ? `added, ${floor}` : "added";
-  if (row.shift?.isSignificant) {
-    const moved = row.shift.positionsMoved;
-    if (moved === null || moved === 0) return "shifted";
-    const places = Math.abs(moved) === 1 ? "place" : "places";
-    return `shifted ${Math.abs(moved)} ${places} ${moved < 0 ? "up" : "down"} among compared`;
-  }
-  return floor;
-}
-function tabulateFeatures(features) {
-  return {
-    header: [
-      "feature",
-      "rank base → head",
-      "importance base [95% CI]",
-      "importance head [95% CI]",
-      "floor base (refit SD)",
-      "floor head (refit SD)",
-      "share of head",
-      "status"
-    ],
-    align: ["left", "right", "right", "right", "right", "right", "right", "left"],
-    rows: features.map((row) => [
-      describeName(row),
-      `${row.base?.rank ?? "-"} → ${row.head?.rank ?? "-"}`,
-      describeImportance(row.base),
-      describeImportance(row.head),
-      row.base ? formatNumber(row.base.refitSd) : "-",
-      row.head ? formatNumber(row.head.refitSd) : "-",
-      row.head ? formatPercent(row.head.share) : "-",
-      describeStatus(row)
-    ])
-  };
-}
-function describeNull(values) {
-  const finite2 = values.filter(Number.isFinite);
-  if (finite2.length === 0) return "no pairs";
-  const lowest = finite2.reduce((a, b) => Math.min(a, b));
-  const highest = finite2.reduce((a, b) => Math.max(a, b));
-  const pairs = finite2.length === 1 ? "pair" : "pairs";
-  return `${formatNumber(lowest)} to ${formatNumber(highest)} over ${formatCount(finite2.length)} ${pairs}`;
-}
-function readAgreement(value, threshold) {
-  if (Number.isNaN(value) || Number.isNaN(threshold)) return "undefined";
-  return value < threshold ? "below the reseed threshold" : "within reseed agreement";
-}
-function tabulateAgreement(agreement) {
-  const { kendallTau, rankBiasedOverlap: rankBiasedOverlap2, kendallTauThreshold, rankBiasedOverlapThreshold } = agreement;
-  return {
-    table: {
-      header: ["statistic", "base vs head", "reseed threshold", "reseed null", "reading"],
-      align: ["left", "right", "right", "left", "left"],
-      rows: [
-        [
-          "Kendall tau-b",
-          formatNumber(kendallTau),
-          formatNumber(kendallTauThreshold),
-          describeNull(agreement.nullKendallTau),
-          readAgreement(kendallTau, kendallTauThreshold)
-        ],
-        [
-          `rank-biased overlap, persistence ${formatNumber(agreement.persistence)}`,
-          formatNumber(rankBiasedOverlap2),
-          formatNumber(rankBiasedOverlapThreshold),
-          describeNull(agreement.nullRankBiasedOverlap),
-          readAgreement(rankBiasedOverlap2, rankBiasedOverlapThreshold)
-        ]
-      ]
-    },
-    note: `Ranks of the ${formatCount(agreement.featuresCompared)} features present on both sides and above the floor on either side, averaged over pairs of one base and one head refit. The reseed null is the same statistic between two refits of one side that differ only in their seed; the threshold is a low percentile of it.`
-  };
-}
-function tabulateSides(base, head, metric) {
-  const both = (describe3) => [describe3(base), describe3(head)];
-  return {
-    header: ["", "base", "head"],
-    align: ["left", "left", "left"],
-    rows: [
-      ["ref", ...both((side2) => side2.ref)],
-      ["commit", ...both((side2) => side2.commit ?? "-")],
-      ["model", ...both(describeModel)],
-      ["features", ...both((side2) => formatCount(side2.features.length))],
-      ["train rows", ...both((side2) => formatCount(side2.trainRows))],
-      ["holdout rows", ...both((side2) => formatCount(side2.holdoutRows))],
-      ["holdout rows used for importance", ...both((side2) => formatCount(side2.evaluationRows))],
-      ["reference rows for draws", ...both((side2) => formatCount(side2.referenceRows))],
-      [`holdout ${metric}, mean over refits`, ...both((side2) => formatNumber(side2.scoreMean))],
-      [`holdout ${metric}, SD over refits`, ...both((side2) => formatNumber(side2.scoreSd))],
-      ["refits", ...both((side2) => formatCount(side2.scores.length))],
-      ["noise covers", ...both((side2) => side2.noiseCovers.replace(/-/g, " "))]
-    ]
-  };
-}
-function describeModel({ model }) {
-  return model.description.includes(model.kind) ? model.description : `${model.kind}: ${model.description}`;
-}
-function tabulatePerRefit(header, base, head, format) {
-  const rows = [];
-  for (let i = 0; i < Math.max(base.length, head.length); i++) {
-    rows.push([String(i + 1), i < base.length ? format(base[i]) : "-", i < head.length ? format(head[i]) : "-"]);
-  }
-  return { header, align: ["right", "right", "right"], rows };
-}
-function tabulateSettings(settings) {
-  const direction = settings.higherIsBetter ? "higher is better" : "lower is better";
-  return {
-    header: ["setting", "value"],
-    align: ["left", "left"],
-    rows: [
-      ["task", settings.task],
-      ["target", settings.target],
-      ["metric", `${settings.metric} (${direction})`],
-      ["draws per feature and refit", formatCount(settings.draws)],
-      ["refits per side", formatCount(settings.refits)],
-      ["seed", String(settings.seed)],
-      ["policy file", settings.policySource],
-      ["policy applied", `the ${settings.policyFrom} side's, to both sides`]
-    ]
-  };
-}
-function tabulateReport(report) {
-  const { settings, sides, featureSet } = report;
-  const changed = featureSet.added.length + featureSet.removed.length + featureSet.kindChanged.length;
-  const headCount = sides ? sides.head.features.length : report.features.filter((row) => !row.isGroup).length;
-  return {
-    heading: report.verdict === "error" ? "plumbline: error, no verdict" : `plumbline: ${report.verdict}`,
-    findings: sortFindings(report.findings).map(describeFinding),
-    features: tabulateFeatures(report.features),
-    featureSet: {
-      added: featureSet.added,
-      removed: featureSet.removed,
-      kindChanged: featureSet.kindChanged.map((change) => `${change.name}: ${change.base} → ${change.head}`),
-      unchangedCount: changed === 0 ? headCount : null
-    },
-    agreement: report.agreement ? tabulateAgreement(report.agreement) : null,
-    sides: sides ? tabulateSides(sides.base, sides.head, settings.metric) : null,
-    scores: sides ? tabulatePerRefit(["refit", `base ${settings.metric}`, `head ${settings.metric}`], sides.base.scores, sides.head.scores, formatNumber) : null,
-    seeds: sides ? tabulatePerRefit(["refit", "base seed", "head seed"], sides.base.refitSeeds, sides.head.refitSeeds, String) : null,
-    settings: tabulateSettings(settings),
-    checks: {
-      header: ["check", "setting", "value"],
-      align: ["left", "left", "right"],
-      rows: Object.entries(settings.checks).flatMap(
-        ([check2, values]) => Object.entries(values).map(([key2, value]) => [check2, key2, formatEvidenceValue(key2, value)])
-      )
-    },
-    timings: {
-      header: ["stage", "seconds"],
-      align: ["left", "right"],
-      rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)])
-    }
-  };
-}
-function limitRows(table, maxRows) {
-  if (table.rows.length <= maxRows) return table;
-  const cut2 = table.rows.length - maxRows;
-  const more = [`${formatCount(cut2)} more ${cut2 === 1 ? "row" : "rows"}`, ...table.header.slice(1).map(() => "")];
-  return { ...table, rows: [...table.rows.slice(0, maxRows), more] };
-}
-function limitItems(items, maxItems) {
-  if (items.length <= maxItems) return [...items];
-  return [...items.slice(0, maxItems), `and ${formatCount(items.length - maxItems)} more`];
+function mermaidChart(report) {
+  const rows = report.features.filter((row) => !row.isGroup).map((row) => ({ row, size: Math.max(row.base?.mean ?? -Infinity, row.head?.mean ?? -Infinity) })).sort((a, b) => b.size - a.size).slice(0, chartFeatures).map((x) => x.row);
+  if (rows.length < 2) return null;
+  const names = rows.map((row) => {
+    const suffix = row.presence === "added" ? " (new)" : row.presence === "removed" ? " (removed)" : "";
+    return `"${label(row.name)}${suffix}"`;
+  });
+  const head = rows.map((row) => row.head?.mean ?? 0);
+  const base = rows.map((row) => row.base?.mean ?? 0);
+  const all = [...head, ...base];
+  const top = Math.max(...all);
+  const low = Math.min(0, ...all);
+  const metric = label(report.settings.metric || "metric");
+  return [
+    "xychart-beta horizontal",
+    `  title "Importance (bars: head, line: base), top ${rows.length}"`,
+    `  x-axis [${names.join(", ")}]`,
+    `  y-axis "${metric} worsening" ${value(low)} --> ${value(top > low ? top * 1.05 : low + 1)}`,
+    `  bar [${head.map(value).join(", ")}]`,
+    `  line [${base.map(value).join(", ")}]`
+  ].join("\n");
 }
 
 // src/core/report/render-markdown.ts
 var defaultFullReportNote = "The full report is in the workflow run's job summary and in the JSON report file.";
 var maxMessageCharacters = 3e3;
 var severityWord = { block: "Block", warn: "Warn", info: "Info" };
-function renderTable(table) {
-  const cells = [table.header, ...table.rows].map((row) => row.map(escapeMarkdownCell));
+var fenceOpen = "```mermaid";
+function renderTable(table2) {
+  const cells = [table2.header, ...table2.rows].map((row) => row.map(escapeMarkdownCell));
   return markdownTable(cells, {
-    align: table.align.map((side2) => side2 === "right" ? "r" : "l"),
+    align: table2.align.map((side2) => side2 === "right" ? "r" : "l"),
     alignDelimiters: false
   });
 }
@@ -17078,14 +17958,14 @@ function shortenMessage(message, maxCharacters) {
   const cut2 = message.length - maxCharacters;
   return `${message.slice(0, maxCharacters)} … (${formatCount(cut2)} more characters in the full report)`;
 }
-function renderFinding(finding, maxItems) {
-  const lines = [
-    `- **${severityWord[finding.severity]}.** ${escapeMarkdownText(finding.title)} (${escapeMarkdownText(finding.about)})`
-  ];
-  const message = escapeMarkdownText(shortenMessage(finding.message, maxMessageCharacters));
-  if (message !== "") lines.push(message);
-  if (finding.evidence.length > 0) {
-    lines.push(`Evidence: ${limitItems(finding.evidence, maxItems).map(escapeMarkdownText).join("; ")}`);
+function renderFinding(finding, maxItems, isFull) {
+  const lines = [`- **${severityWord[finding.severity]}:** ${escapeMarkdownText(finding.title)}`];
+  if (isFull) {
+    const message = escapeMarkdownText(shortenMessage(finding.message, maxMessageCharacters));
+    if (message !== "") lines.push(message);
+    if (finding.evidence.length > 0) {
+      lines.push(`Evidence: ${limitItems(finding.evidence, maxItems).map(escapeMarkdownText).join("; ")}.`);
+    }
   }
   return lines.join("\n").replace(/\n/g, "\n  ");
 }
@@ -17097,8 +17977,12 @@ function checkOptions(options) {
     maxTableRows: options.maxTableRows ?? 50,
     maxCharacters: options.maxCharacters ?? 6e4,
     marker: options.marker ?? "<!-- plumbline -->",
-    fullReportNote: options.fullReportNote ?? defaultFullReportNote
+    fullReportNote: options.fullReportNote ?? defaultFullReportNote,
+    htmlReportUrl: options.htmlReportUrl ?? ""
   };
+  if (resolved.htmlReportUrl !== "" && !/^https:\/\/[^\s<>()"'`\\]+$/.test(resolved.htmlReportUrl)) {
+    throw new RangeError(`renderMarkdown needs htmlReportUrl to be an https address without spaces or brackets, got '${resolved.htmlReportUrl}'`);
+  }
   if (!Number.isInteger(resolved.maxTableRows) || resolved.maxTableRows < 1) {
     throw new RangeError(`renderMarkdown needs maxTableRows to be a whole number of at least 1, got ${resolved.maxTableRows}`);
   }
@@ -17145,8 +18029,7 @@ function renderError(report, options) {
       escapeMarkdownText(report.headline),
       escapeMarkdownText(noVerdictStatement),
       ...blocks.length > 0 ? blocks : ["The report holds no run-error finding to show."],
-      ...shortened ? [escapeMarkdownText(`The error message was shortened to fit this comment. ${options.fullReportNote}`)] : [],
-      escapeMarkdownText(reportCaution)
+      ...shortened ? [escapeMarkdownText(`The error message was shortened to fit this comment. ${options.fullReportNote}`)] : []
     ].join("\n\n") + "\n";
   };
   const full = compose(Infinity);
@@ -17159,10 +18042,12 @@ function renderMarkdown(report, options = {}) {
   if (report.verdict === "error") return renderError(report, resolved);
   const { maxTableRows, maxCharacters } = resolved;
   const tables = tabulateReport(report);
-  const findingItems = tables.findings.map((finding) => renderFinding(finding, maxTableRows));
+  const findingItems = tables.findings.map((finding) => renderFinding(finding, maxTableRows, finding.severity !== "info"));
   const nameLists = [tables.featureSet.added, tables.featureSet.removed, tables.featureSet.kindChanged];
   const longestList = Math.max(...nameLists.map((list3) => list3.length));
+  const agreement = tables.agreement ? renderDetails("Rank agreement against the reseed null", [renderTable(tables.agreement.table), escapeMarkdownText(tables.agreement.note)]) : renderDetails("Rank agreement", [agreementMissingNote]);
   const details = [
+    agreement,
     ...tables.sides && tables.scores ? [
       renderDetails("Models and holdout scores per refit", [
         renderTable(tables.sides),
@@ -17179,13 +18064,12 @@ function renderMarkdown(report, options = {}) {
       ...tables.timings.rows.length > 0 ? [renderTable(limitRows(tables.timings, maxTableRows))] : []
     ])
   ];
-  const agreement = tables.agreement ? `#### Rank agreement
-
-${renderTable(tables.agreement.table)}
-
-${escapeMarkdownText(tables.agreement.note)}` : `#### Rank agreement
-
-${agreementMissingNote}`;
+  const score2 = tables.score ? [tables.score.sentence, ...tables.score.evidenceLines].map(escapeMarkdownText).join("\n") : null;
+  const chart = mermaidChart(report);
+  const chartBlock = chart === null ? null : `${fenceOpen}
+${chart}
+\`\`\``;
+  const htmlLink = resolved.htmlReportUrl === "" ? null : `The HTML report, with charts of every feature: [download it from the workflow run](${resolved.htmlReportUrl}).`;
   function renderFindings(shown) {
     if (findingItems.length === 0) return "#### Findings\n\nNone.";
     const hidden = findingItems.length - shown;
@@ -17195,34 +18079,29 @@ ${agreementMissingNote}`;
 
 ${items}`;
   }
+  function renderInfoDetails(shown) {
+    const kept = tables.findings.slice(0, shown).filter((finding) => finding.severity === "info");
+    if (kept.length === 0) return [];
+    const items = kept.map((finding) => renderFinding(finding, maxTableRows, true).replace(/^- \*\*Info:\*\* /, "- "));
+    return [renderDetails(`The ${formatCount(kept.length)} info ${kept.length === 1 ? "finding" : "findings"} in full`, [items.join("\n")])];
+  }
   function renderFeatures(rows) {
     const count4 = tables.features.rows.length;
-    const heading = "#### Feature importance";
-    if (count4 === 0) return `${heading}
-
-No features were measured.`;
-    if (rows === 0) return `${heading}
-
-The table of ${formatCount(count4)} rows is left out; see the note below.`;
-    return `${heading}
-
-${escapeMarkdownText(importanceNote)}
-
-${renderTable(limitRows(tables.features, rows))}`;
+    const summary2 = `Feature importance, ${formatCount(count4)} ${count4 === 1 ? "row" : "rows"}`;
+    if (count4 === 0) return renderDetails("Feature importance", ["No features were measured."]);
+    if (rows === 0) return renderDetails(summary2, [`The table of ${formatCount(count4)} rows is left out; see the note below.`]);
+    return renderDetails(summary2, [escapeMarkdownText(importanceNote), renderTable(limitRows(tables.features, rows))]);
   }
   function renderFeatureSet(maxItems) {
     const { added, removed, kindChanged, unchangedCount } = tables.featureSet;
-    if (unchangedCount !== null) return `#### Feature set
-
-The same ${formatCount(unchangedCount)} features on both sides.`;
-    const line = (label, names) => {
+    if (unchangedCount !== null) return `Feature set: the same ${formatCount(unchangedCount)} features on both sides.`;
+    const part = (label2, names) => {
       if (names.length === 0) return [];
-      if (maxItems === 0) return [`- ${label}: ${formatCount(names.length)} (names left out)`];
-      const shown = limitItems(names, maxItems).map(escapeMarkdownText).join(", ");
-      return [`- ${label} (${formatCount(names.length)}): ${shown}`];
+      if (maxItems === 0) return [`${label2} ${formatCount(names.length)} (names left out)`];
+      return [`${label2} ${limitItems(names, maxItems).map(escapeMarkdownText).join(", ")}`];
     };
-    const lists = [...line("Added", added), ...line("Removed", removed), ...line("Changed kind", kindChanged)];
-    return ["#### Feature set", "", ...lists].join("\n");
+    const parts = [...part("added", added), ...part("removed", removed), ...part("changed kind:", kindChanged)];
+    return `Feature set: ${parts.join("; ")}.`;
   }
   function describeCuts(layout2) {
     const cuts = [];
@@ -17237,7 +18116,7 @@ The same ${formatCount(unchangedCount)} features on both sides.`;
         layout2.rows === 0 ? "the feature-set lists give counts only" : `the feature-set lists show at most ${layout2.rows} names each`
       );
     }
-    if (!layout2.details) cuts.push("the details (models, scores and seeds per refit, settings, timings) are left out");
+    if (!layout2.details) cuts.push("the details (info findings in full, rank agreement, models, scores and seeds per refit, settings, timings) are left out");
     if (layout2.findings < findingItems.length) {
       const hidden = tables.findings.slice(layout2.findings);
       const shown = `${formatCount(layout2.findings)} of ${formatCount(findingItems.length)} findings are shown`;
@@ -17256,13 +18135,16 @@ The same ${formatCount(unchangedCount)} features on both sides.`;
       resolved.marker,
       `### ${escapeMarkdownText(tables.heading)}`,
       escapeMarkdownText(report.headline),
+      ...score2 === null ? [] : [score2],
       findingsSection(layout2.findings),
-      featuresSection(layout2.rows),
+      ...chartBlock === null ? [] : [chartBlock],
       featureSetSection(layout2.rows),
-      agreement,
-      ...layout2.details ? details : [],
+      escapeMarkdownText(reportCaution),
+      ...htmlLink === null ? [] : [htmlLink],
       ...cutNote === null ? [] : [cutNote],
-      escapeMarkdownText(reportCaution)
+      ...layout2.details ? renderInfoDetails(layout2.findings) : [],
+      featuresSection(layout2.rows),
+      ...layout2.details ? details : []
     ];
   }
   const join7 = (paragraphs) => `${paragraphs.join("\n\n")}
@@ -17978,10 +18860,10 @@ function getEnumValues(entries) {
 function joinValues(array2, separator = "|") {
   return array2.map((val) => stringifyPrimitive(val)).join(separator);
 }
-function jsonStringifyReplacer(_, value) {
-  if (typeof value === "bigint")
-    return value.toString();
-  return value;
+function jsonStringifyReplacer(_, value2) {
+  if (typeof value2 === "bigint")
+    return value2.toString();
+  return value2;
 }
 var Cached = class {
   constructor(getter) {
@@ -18018,17 +18900,17 @@ function floatSafeRemainder(val, step) {
 }
 var EVALUATING = /* @__PURE__ */ Symbol("evaluating");
 function defineLazy(object2, key2, getter) {
-  let value = void 0;
+  let value2 = void 0;
   Object.defineProperty(object2, key2, {
     get() {
-      if (value === EVALUATING) {
+      if (value2 === EVALUATING) {
         return void 0;
       }
-      if (value === void 0) {
-        value = EVALUATING;
-        value = getter();
+      if (value2 === void 0) {
+        value2 = EVALUATING;
+        value2 = getter();
       }
-      return value;
+      return value2;
     },
     set(v) {
       Object.defineProperty(object2, key2, {
@@ -18042,9 +18924,9 @@ function defineLazy(object2, key2, getter) {
 function objectClone(obj) {
   return Object.create(Object.getPrototypeOf(obj), Object.getOwnPropertyDescriptors(obj));
 }
-function assignProp(target, prop, value) {
+function assignProp(target, prop, value2) {
   Object.defineProperty(target, prop, {
-    value,
+    value: value2,
     writable: true,
     enumerable: true,
     configurable: true
@@ -18060,19 +18942,19 @@ function sourceShape(schema) {
 function deferProp(target, key2, getter) {
   Object.defineProperty(target, key2, {
     get() {
-      const value = getter();
-      assignProp(this, key2, value);
-      return value;
+      const value2 = getter();
+      assignProp(this, key2, value2);
+      return value2;
     },
     enumerable: true,
     configurable: true
   });
 }
-function putProp(target, key2, value) {
+function putProp(target, key2, value2) {
   if (key2 in target)
-    assignProp(target, key2, value);
+    assignProp(target, key2, value2);
   else
-    target[key2] = value;
+    target[key2] = value2;
 }
 function mirrorShape(target, source, keys, wrap2) {
   const raw = sourceShape(source);
@@ -18082,8 +18964,8 @@ function mirrorShape(target, source, keys, wrap2) {
       continue;
     if (desc.get) {
       deferProp(target, key2, () => {
-        const value = source._zod.def.shape[key2];
-        return wrap2 ? wrap2(value, key2) : value;
+        const value2 = source._zod.def.shape[key2];
+        return wrap2 ? wrap2(value2, key2) : value2;
       });
     } else
       putProp(target, key2, wrap2 ? wrap2(desc.value, key2) : desc.value);
@@ -18282,9 +19164,9 @@ function createTransparentProxy(getter) {
       target ?? (target = getter());
       return Reflect.get(target, prop, receiver);
     },
-    set(_, prop, value, receiver) {
+    set(_, prop, value2, receiver) {
       target ?? (target = getter());
-      return Reflect.set(target, prop, value, receiver);
+      return Reflect.set(target, prop, value2, receiver);
     },
     has(_, prop) {
       target ?? (target = getter());
@@ -18308,12 +19190,12 @@ function createTransparentProxy(getter) {
     }
   });
 }
-function stringifyPrimitive(value) {
-  if (typeof value === "bigint")
-    return value.toString() + "n";
-  if (typeof value === "string")
-    return `"${value}"`;
-  return `${value}`;
+function stringifyPrimitive(value2) {
+  if (typeof value2 === "bigint")
+    return value2.toString() + "n";
+  if (typeof value2 === "string")
+    return `"${value2}"`;
+  return `${value2}`;
 }
 function optionalKeys(shape) {
   return Object.keys(shape).filter((k) => {
@@ -18422,15 +19304,15 @@ function partial(Class2, schema, mask, name = "partial") {
   }
   const selected = mask ? new Set(maskedKeys(schema, mask)) : void 0;
   const newShape = {};
-  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), Class2 && ((value, key2) => selected && !selected.has(key2) ? value : new Class2({ type: "optional", innerType: value })));
+  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), Class2 && ((value2, key2) => selected && !selected.has(key2) ? value2 : new Class2({ type: "optional", innerType: value2 })));
   return clone(schema, mergeDefs(schema._zod.def, { shape: newShape, checks: [] }));
 }
 function required(Class2, schema, mask) {
   const selected = mask ? new Set(maskedKeys(schema, mask)) : void 0;
   const newShape = {};
-  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), (value, key2) => (
+  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), (value2, key2) => (
     // overwrite with non-optional
-    selected && !selected.has(key2) ? value : new Class2({ type: "nonoptional", innerType: value })
+    selected && !selected.has(key2) ? value2 : new Class2({ type: "nonoptional", innerType: value2 })
   ));
   return clone(schema, mergeDefs(schema._zod.def, { shape: newShape }));
 }
@@ -18616,38 +19498,38 @@ var Class = class {
   constructor(..._args) {
   }
 };
-function members(proto, table) {
-  for (const key2 in table) {
-    const desc = Object.getOwnPropertyDescriptor(table, key2);
+function members(proto, table2) {
+  for (const key2 in table2) {
+    const desc = Object.getOwnPropertyDescriptor(table2, key2);
     if (desc.get)
       Object.defineProperty(proto, key2, { ...desc, enumerable: false });
     else
       defineBound(proto, key2, desc.value);
   }
 }
-function own(inst, key2, value, enumerable = true) {
-  Object.defineProperty(inst, key2, { configurable: true, writable: true, enumerable, value });
-  return value;
+function own(inst, key2, value2, enumerable = true) {
+  Object.defineProperty(inst, key2, { configurable: true, writable: true, enumerable, value: value2 });
+  return value2;
 }
-function hide(inst, key2, value) {
-  return own(inst, key2, value, false);
+function hide(inst, key2, value2) {
+  return own(inst, key2, value2, false);
 }
 // @__NO_SIDE_EFFECTS__
-function derived(computes, table) {
+function derived(computes, table2) {
   for (const key2 in computes) {
     const compute = computes[key2];
-    Object.defineProperty(table, key2, {
+    Object.defineProperty(table2, key2, {
       configurable: true,
       enumerable: true,
       get() {
         return own(this, key2, compute(this));
       },
-      set(value) {
-        own(this, key2, value);
+      set(value2) {
+        own(this, key2, value2);
       }
     });
   }
-  return table;
+  return table2;
 }
 function defineBound(proto, key2, fn) {
   Object.defineProperty(proto, key2, {
@@ -18655,8 +19537,8 @@ function defineBound(proto, key2, fn) {
     get() {
       return this == null ? fn : own(this, key2, fn.bind(this));
     },
-    set(value) {
-      own(this, key2, value);
+    set(value2) {
+      own(this, key2, value2);
     }
   });
 }
@@ -18687,21 +19569,21 @@ function defineLazyInternal(inst, key2, compute) {
       const outer = broke;
       broke = false;
       try {
-        const value = compute(this);
+        const value2 = compute(this);
         if (broke)
           delete this[key2];
         else
-          Object.defineProperty(this, key2, { configurable: true, writable: true, value });
+          Object.defineProperty(this, key2, { configurable: true, writable: true, value: value2 });
         broke = broke || outer;
-        return value;
+        return value2;
       } catch (err) {
         delete this[key2];
         broke = broke || outer;
         throw err;
       }
     },
-    set(value) {
-      Object.defineProperty(this, key2, { configurable: true, writable: true, value });
+    set(value2) {
+      Object.defineProperty(this, key2, { configurable: true, writable: true, value: value2 });
     }
   });
 }
@@ -18718,14 +19600,14 @@ function installLazyProp(inst, key2, make, enumerable) {
       Object.defineProperty(this, key2, desc);
       return desc.value;
     },
-    set(value) {
-      Object.defineProperty(this, key2, { configurable: true, writable: true, enumerable, value });
+    set(value2) {
+      Object.defineProperty(this, key2, { configurable: true, writable: true, enumerable, value: value2 });
     }
   });
 }
 var CONSTANT_CATCH = "~constantCatch";
-function constantCatch(value) {
-  const fn = () => value;
+function constantCatch(value2) {
+  const fn = () => value2;
   fn[CONSTANT_CATCH] = true;
   return fn;
 }
@@ -18858,8 +19740,8 @@ function _getMessage() {
   internals.message ?? (internals.message = JSON.stringify(internals.def, jsonStringifyReplacer, 2));
   return internals.message;
 }
-function _setMessage(value) {
-  this._zod.message = value;
+function _setMessage(value2) {
+  this._zod.message = value2;
 }
 var _messageDesc = {
   get: _getMessage,
@@ -18882,12 +19764,12 @@ var initializer = (inst, def) => {
       configurable: true,
       enumerable: false,
       get() {
-        const value = () => this.message;
-        Object.defineProperty(this, "toString", { value, configurable: true, writable: true });
-        return value;
+        const value2 = () => this.message;
+        Object.defineProperty(this, "toString", { value: value2, configurable: true, writable: true });
+        return value2;
       },
-      set(value) {
-        Object.defineProperty(this, "toString", { value, configurable: true, writable: true });
+      set(value2) {
+        Object.defineProperty(this, "toString", { value: value2, configurable: true, writable: true });
       }
     });
   }
@@ -19049,16 +19931,16 @@ function finalizeParams(callee, params) {
   return { callee: params?.callee ?? callee, Err: params?.Err };
 }
 var _parse = (_Err) => {
-  const fn = (schema, value, _ctx, _params) => {
+  const fn = (schema, value2, _ctx, _params) => {
     const ctx = _ctx ? { ..._ctx, async: false } : { async: false };
-    const result = schema._zod.run({ value, issues: [] }, ctx);
+    const result = schema._zod.run({ value: value2, issues: [] }, ctx);
     if (result instanceof Promise) {
       throw new $ZodAsyncError();
     }
     if (result.issues.length) {
-      const e = new (_params?.Err ?? _Err)(result.issues.map((iss) => finalizeIssue(iss, ctx, config())));
-      captureStackTrace(e, _params?.callee ?? fn);
-      throw e;
+      const e2 = new (_params?.Err ?? _Err)(result.issues.map((iss) => finalizeIssue(iss, ctx, config())));
+      captureStackTrace(e2, _params?.callee ?? fn);
+      throw e2;
     }
     return result.value;
   };
@@ -19066,24 +19948,24 @@ var _parse = (_Err) => {
 };
 var parse = /* @__PURE__ */ _parse($ZodRealError);
 var _parseAsync = (_Err) => {
-  const fn = async (schema, value, _ctx, params) => {
+  const fn = async (schema, value2, _ctx, params) => {
     const ctx = _ctx ? { ..._ctx, async: true } : { async: true };
-    let result = schema._zod.run({ value, issues: [] }, ctx);
+    let result = schema._zod.run({ value: value2, issues: [] }, ctx);
     if (result instanceof Promise)
       result = await result;
     if (result.issues.length) {
-      const e = new (params?.Err ?? _Err)(result.issues.map((iss) => finalizeIssue(iss, ctx, config())));
-      captureStackTrace(e, params?.callee ?? fn);
-      throw e;
+      const e2 = new (params?.Err ?? _Err)(result.issues.map((iss) => finalizeIssue(iss, ctx, config())));
+      captureStackTrace(e2, params?.callee ?? fn);
+      throw e2;
     }
     return result.value;
   };
   return fn;
 };
 var parseAsync = /* @__PURE__ */ _parseAsync($ZodRealError);
-var _safeParse = (_Err) => (schema, value, _ctx) => {
+var _safeParse = (_Err) => (schema, value2, _ctx) => {
   const ctx = _ctx ? { ..._ctx, async: false } : { async: false };
-  const result = schema._zod.run({ value, issues: [] }, ctx);
+  const result = schema._zod.run({ value: value2, issues: [] }, ctx);
   if (result instanceof Promise) {
     throw new $ZodAsyncError();
   }
@@ -19102,16 +19984,16 @@ function failure(Err, issues, ctx) {
       }
       return error62;
     },
-    set error(e) {
-      error62 = e;
+    set error(e2) {
+      error62 = e2;
       issues = void 0;
       ctx = void 0;
     }
   };
 }
-var _safeParseAsync = (_Err) => async (schema, value, _ctx) => {
+var _safeParseAsync = (_Err) => async (schema, value2, _ctx) => {
   const ctx = _ctx ? { ..._ctx, async: true } : { async: true };
-  let result = schema._zod.run({ value, issues: [] }, ctx);
+  let result = schema._zod.run({ value: value2, issues: [] }, ctx);
   if (result instanceof Promise)
     result = await result;
   return result.issues.length ? failure(_Err, result.issues, ctx) : { success: true, data: result.value };
@@ -19119,88 +20001,88 @@ var _safeParseAsync = (_Err) => async (schema, value, _ctx) => {
 var safeParseAsync = /* @__PURE__ */ _safeParseAsync($ZodRealError);
 var COMPILE_INVALID = /* @__PURE__ */ Symbol.for("zod.compile.invalid");
 var COMPILE_FALLBACK = /* @__PURE__ */ Symbol.for("zod.compile.fallback");
-var validate = ((schema, value, _ctx) => {
+var validate = ((schema, value2, _ctx) => {
   const validator = schema._zod.bag.validator;
   if (validator !== void 0) {
-    if (validator(value) !== COMPILE_INVALID)
+    if (validator(value2) !== COMPILE_INVALID)
       return true;
     if (validator.definite === true && _ctx === void 0)
       return false;
   }
-  return validateFallback(schema, value, _ctx);
+  return validateFallback(schema, value2, _ctx);
 });
-function validateFallback(schema, value, _ctx) {
+function validateFallback(schema, value2, _ctx) {
   const ctx = _ctx ? { ..._ctx, async: false, abortEarly: true } : { async: false, abortEarly: true };
   const fallbackRun = schema._zod.bag.fallbackRun;
   let result;
   if (fallbackRun) {
     ctx[COMPILE_FALLBACK] = true;
-    result = fallbackRun({ value, issues: [] }, ctx);
+    result = fallbackRun({ value: value2, issues: [] }, ctx);
   } else {
-    result = schema._zod.run({ value, issues: [] }, ctx);
+    result = schema._zod.run({ value: value2, issues: [] }, ctx);
   }
   if (result instanceof Promise) {
     throw new $ZodAsyncError();
   }
   return result.issues.length === 0;
 }
-var validateAsync = async (schema, value, _ctx) => {
+var validateAsync = async (schema, value2, _ctx) => {
   const ctx = _ctx ? { ..._ctx, async: true, abortEarly: true } : { async: true, abortEarly: true };
-  let result = schema._zod.run({ value, issues: [] }, ctx);
+  let result = schema._zod.run({ value: value2, issues: [] }, ctx);
   if (result instanceof Promise)
     result = await result;
   return result.issues.length === 0;
 };
 var _encode = (_Err) => {
   const parse5 = _parse(_Err);
-  const fn = (schema, value, _ctx, _params) => {
+  const fn = (schema, value2, _ctx, _params) => {
     const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-    return parse5(schema, value, ctx, finalizeParams(fn, _params));
+    return parse5(schema, value2, ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var encode = /* @__PURE__ */ _encode($ZodRealError);
 var _decode = (_Err) => {
   const parse5 = _parse(_Err);
-  const fn = (schema, value, _ctx, _params) => {
-    return parse5(schema, value, _ctx, finalizeParams(fn, _params));
+  const fn = (schema, value2, _ctx, _params) => {
+    return parse5(schema, value2, _ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var decode = /* @__PURE__ */ _decode($ZodRealError);
 var _encodeAsync = (_Err) => {
   const parseAsync3 = _parseAsync(_Err);
-  const fn = async (schema, value, _ctx, _params) => {
+  const fn = async (schema, value2, _ctx, _params) => {
     const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-    return await parseAsync3(schema, value, ctx, finalizeParams(fn, _params));
+    return await parseAsync3(schema, value2, ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var encodeAsync = /* @__PURE__ */ _encodeAsync($ZodRealError);
 var _decodeAsync = (_Err) => {
   const parseAsync3 = _parseAsync(_Err);
-  const fn = async (schema, value, _ctx, _params) => {
-    return await parseAsync3(schema, value, _ctx, finalizeParams(fn, _params));
+  const fn = async (schema, value2, _ctx, _params) => {
+    return await parseAsync3(schema, value2, _ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var decodeAsync = /* @__PURE__ */ _decodeAsync($ZodRealError);
-var _safeEncode = (_Err) => (schema, value, _ctx) => {
+var _safeEncode = (_Err) => (schema, value2, _ctx) => {
   const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-  return _safeParse(_Err)(schema, value, ctx);
+  return _safeParse(_Err)(schema, value2, ctx);
 };
 var safeEncode = /* @__PURE__ */ _safeEncode($ZodRealError);
-var _safeDecode = (_Err) => (schema, value, _ctx) => {
-  return _safeParse(_Err)(schema, value, _ctx);
+var _safeDecode = (_Err) => (schema, value2, _ctx) => {
+  return _safeParse(_Err)(schema, value2, _ctx);
 };
 var safeDecode = /* @__PURE__ */ _safeDecode($ZodRealError);
-var _safeEncodeAsync = (_Err) => async (schema, value, _ctx) => {
+var _safeEncodeAsync = (_Err) => async (schema, value2, _ctx) => {
   const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-  return _safeParseAsync(_Err)(schema, value, ctx);
+  return _safeParseAsync(_Err)(schema, value2, ctx);
 };
 var safeEncodeAsync = /* @__PURE__ */ _safeEncodeAsync($ZodRealError);
-var _safeDecodeAsync = (_Err) => async (schema, value, _ctx) => {
-  return _safeParseAsync(_Err)(schema, value, _ctx);
+var _safeDecodeAsync = (_Err) => async (schema, value2, _ctx) => {
+  return _safeParseAsync(_Err)(schema, value2, _ctx);
 };
 var safeDecodeAsync = /* @__PURE__ */ _safeDecodeAsync($ZodRealError);
 
@@ -20006,26 +20888,26 @@ var $ZodType = /* @__PURE__ */ $constructor("$ZodType", (inst, def) => {
   get "~standard"() {
     return hide(this, "~standard", standardProps(this));
   },
-  set "~standard"(value) {
-    own(this, "~standard", value);
+  set "~standard"(value2) {
+    own(this, "~standard", value2);
   }
 });
 var toStandardResult = (r, ctx) => r.issues.length ? { issues: r.issues.map((iss) => finalizeIssue(iss, ctx, config())) } : { value: r.value };
-async function validateAsync2(inst, value) {
+async function validateAsync2(inst, value2) {
   const ctx = { async: true };
-  return toStandardResult(await inst._zod.run({ value, issues: [] }, ctx), ctx);
+  return toStandardResult(await inst._zod.run({ value: value2, issues: [] }, ctx), ctx);
 }
 function standardProps(inst) {
   return {
-    validate: (value) => {
+    validate: (value2) => {
       const ctx = { async: false };
       try {
-        const r = inst._zod.run({ value, issues: [] }, ctx);
+        const r = inst._zod.run({ value: value2, issues: [] }, ctx);
         if (!(r instanceof Promise))
           return toStandardResult(r, ctx);
       } catch (_) {
       }
-      return validateAsync2(inst, value);
+      return validateAsync2(inst, value2);
     },
     vendor: "zod",
     version: 1
@@ -20117,8 +20999,8 @@ function parseURLObject(trimmed, def) {
   }
 }
 var asciiTabOrNewline = /[\t\n\r]/g;
-function stripTabAndNewline(value) {
-  return value.replace(asciiTabOrNewline, "");
+function stripTabAndNewline(value2) {
+  return value2.replace(asciiTabOrNewline, "");
 }
 function urlHostnameOk(url2, hostname3) {
   hostname3.lastIndex = 0;
@@ -20245,10 +21127,10 @@ var $ZodIPv4 = /* @__PURE__ */ $constructor("$ZodIPv4", (inst, def) => {
   $ZodStringFormat.init(inst, def);
 });
 var ipv6Alphabet = /^[0-9a-fA-F:.]+$/;
-function isValidIPv6(value) {
-  if (!ipv6Alphabet.test(value))
+function isValidIPv6(value2) {
+  if (!ipv6Alphabet.test(value2))
     return false;
-  return canParseURL(`http://[${value}]`);
+  return canParseURL(`http://[${value2}]`);
 }
 var $ZodIPv6 = /* @__PURE__ */ $constructor("$ZodIPv6", (inst, def) => {
   def.pattern ?? (def.pattern = ipv6);
@@ -20273,8 +21155,8 @@ var $ZodCIDRv4 = /* @__PURE__ */ $constructor("$ZodCIDRv4", (inst, def) => {
   def.pattern ?? (def.pattern = cidrv4);
   $ZodStringFormat.init(inst, def);
 });
-function isValidCIDRv6(value) {
-  const parts = value.split("/");
+function isValidCIDRv6(value2) {
+  const parts = value2.split("/");
   if (parts.length !== 2)
     return false;
   const [address, prefix] = parts;
@@ -20365,9 +21247,9 @@ function isLuhnAlgo(digits) {
   let bit = 1;
   let sum2 = 0;
   while (length2) {
-    const value = digits.charCodeAt(--length2) - 48;
+    const value2 = digits.charCodeAt(--length2) - 48;
     bit ^= 1;
-    sum2 += bit ? [0, 2, 4, 6, 8, 1, 3, 5, 7, 9][value] : value;
+    sum2 += bit ? [0, 2, 4, 6, 8, 1, 3, 5, 7, 9][value2] : value2;
   }
   return sum2 % 10 === 0;
 }
@@ -20858,11 +21740,11 @@ var $ZodObject = /* @__PURE__ */ $constructor("$ZodObject", (inst, def) => {
   });
   const isObject2 = isObject;
   const catchall = def.catchall;
-  let value;
+  let value2;
   const memo2 = globalConfig.memoizer;
   memo2?.attach(inst);
   inst._zod.parse = (payload, ctx) => {
-    value ?? (value = _normalized.value);
+    value2 ?? (value2 = _normalized.value);
     const input2 = payload.value;
     if (!isObject2(input2)) {
       payload.issues.push({
@@ -20875,10 +21757,10 @@ var $ZodObject = /* @__PURE__ */ $constructor("$ZodObject", (inst, def) => {
     }
     payload.value = memo2 ? memo2.alloc(inst, payload, {}, ctx) : {};
     const proms = [];
-    const shape = value.shape;
+    const shape = value2.shape;
     const abortEarly = ctx?.abortEarly;
     let seen = payload.issues.length;
-    for (const key2 of value.allKeys) {
+    for (const key2 of value2.allKeys) {
       if (abortEarly && payload.issues.length !== seen) {
         if (aborted(payload, seen))
           break;
@@ -21005,9 +21887,9 @@ var $ZodObjectJIT = /* @__PURE__ */ $constructor("$ZodObjectJIT", (inst, def) =>
   const allowsEval2 = allowsEval;
   const fastEnabled = jit && allowsEval2.value;
   const catchall = def.catchall;
-  let value;
+  let value2;
   inst._zod.parse = (payload, ctx) => {
-    value ?? (value = _normalized.value);
+    value2 ?? (value2 = _normalized.value);
     const input2 = payload.value;
     if (!isObject2(input2)) {
       payload.issues.push({
@@ -21024,7 +21906,7 @@ var $ZodObjectJIT = /* @__PURE__ */ $constructor("$ZodObjectJIT", (inst, def) =>
       payload = fastpass(payload, ctx);
       if (!catchall)
         return payload;
-      return handleCatchall([], input2, payload, ctx, value, inst, ctx?.abortEarly === true);
+      return handleCatchall([], input2, payload, ctx, value2, inst, ctx?.abortEarly === true);
     }
     return superParse(payload, ctx);
   };
@@ -21152,16 +22034,16 @@ var $ZodXor = /* @__PURE__ */ $constructor("$ZodXor", (inst, def) => {
     });
   };
 });
-function getDiscriminatedOption(union2, value) {
+function getDiscriminatedOption(union2, value2) {
   const internals = union2._zod;
   let map2 = internals.bag.optionsMap;
   if (!map2) {
     map2 = discriminatorMap(internals.def);
     internals.bag.optionsMap = map2;
   }
-  const option = map2.get(value);
+  const option = map2.get(value2);
   if (option === null)
-    throw new Error(`Ambiguous discriminator value "${String(value)}"`);
+    throw new Error(`Ambiguous discriminator value "${String(value2)}"`);
   return option;
 }
 function discriminatorMap(def) {
@@ -21170,13 +22052,13 @@ function discriminatorMap(def) {
     const values = option._zod.propValues?.[def.discriminator];
     if (!values || values.size === 0)
       throw new Error(`Invalid discriminated union option at index "${def.options.indexOf(option)}"`);
-    for (const value of values) {
-      if (map2.has(value)) {
-        if (value !== void 0)
-          throw new Error(`Duplicate discriminator value "${String(value)}"`);
-        map2.set(value, null);
+    for (const value2 of values) {
+      if (map2.has(value2)) {
+        if (value2 !== void 0)
+          throw new Error(`Duplicate discriminator value "${String(value2)}"`);
+        map2.set(value2, null);
       } else {
-        map2.set(value, option);
+        map2.set(value2, option);
       }
     }
   }
@@ -21226,9 +22108,9 @@ var $ZodDiscriminatedUnion = /* @__PURE__ */ $constructor("$ZodDiscriminatedUnio
       });
       return payload;
     }
-    const value = input2?.[def.discriminator];
-    const opt = disc.value.get(value);
-    if (opt && (value !== void 0 || ctx.direction !== "backward")) {
+    const value2 = input2?.[def.discriminator];
+    const opt = disc.value.get(value2);
+    if (opt && (value2 !== void 0 || ctx.direction !== "backward")) {
       return opt._zod.run(payload, ctx);
     }
     if (def.unionFallback || ctx.direction === "backward") {
@@ -21239,7 +22121,7 @@ var $ZodDiscriminatedUnion = /* @__PURE__ */ $constructor("$ZodDiscriminatedUnio
       errors: [],
       note: "No matching discriminator",
       discriminator: def.discriminator,
-      options: Array.from(disc.value.keys()).filter((value2) => disc.value.get(value2) !== null),
+      options: Array.from(disc.value.keys()).filter((value3) => disc.value.get(value3) !== null),
       input: input2,
       path: [def.discriminator],
       inst
@@ -21658,14 +22540,14 @@ var $ZodMap = /* @__PURE__ */ $constructor("$ZodMap", (inst, def) => {
     payload.value = memo2 ? memo2.alloc(inst, payload, /* @__PURE__ */ new Map(), ctx) : /* @__PURE__ */ new Map();
     const abortEarly = ctx?.abortEarly;
     let seen = payload.issues.length;
-    for (const [key2, value] of input2) {
+    for (const [key2, value2] of input2) {
       if (abortEarly && payload.issues.length !== seen) {
         if (aborted(payload, seen))
           break;
         seen = payload.issues.length;
       }
       const keyResult = def.keyType._zod.run({ value: key2, issues: [] }, ctx);
-      const valueResult = def.valueType._zod.run({ value, issues: [] }, ctx);
+      const valueResult = def.valueType._zod.run({ value: value2, issues: [] }, ctx);
       if (keyResult instanceof Promise || valueResult instanceof Promise) {
         proms.push(Promise.all([keyResult, valueResult]).then(([keyResult2, valueResult2]) => {
           handleMapResult(keyResult2, valueResult2, payload, key2, input2, inst, ctx);
@@ -22078,23 +22960,23 @@ function handleCodecAResult(result, def, ctx) {
   if (direction === "forward") {
     const transformed = def.transform(result.value, result);
     if (transformed instanceof Promise) {
-      return transformed.then((value) => handleCodecTxResult(result, value, def.out, ctx));
+      return transformed.then((value2) => handleCodecTxResult(result, value2, def.out, ctx));
     }
     return handleCodecTxResult(result, transformed, def.out, ctx);
   } else {
     const transformed = def.reverseTransform(result.value, result);
     if (transformed instanceof Promise) {
-      return transformed.then((value) => handleCodecTxResult(result, value, def.in, ctx));
+      return transformed.then((value2) => handleCodecTxResult(result, value2, def.in, ctx));
     }
     return handleCodecTxResult(result, transformed, def.in, ctx);
   }
 }
-function handleCodecTxResult(left, value, nextSchema, ctx) {
+function handleCodecTxResult(left, value2, nextSchema, ctx) {
   if (left.issues.length) {
     left.aborted = true;
     return left;
   }
-  return nextSchema._zod.run({ value, issues: left.issues }, ctx);
+  return nextSchema._zod.run({ value: value2, issues: left.issues }, ctx);
 }
 var $ZodPreprocess = /* @__PURE__ */ $constructor("$ZodPreprocess", (inst, def) => {
   $ZodPipe.init(inst, def);
@@ -22351,8 +23233,8 @@ var $ZodCyclicError = class extends Error {
 };
 var STATE = "~memo";
 var NO_ISSUES = [];
-function isRef(value) {
-  return value !== null && typeof value === "object";
+function isRef(value2) {
+  return value2 !== null && typeof value2 === "object";
 }
 function cloneIssues(issues) {
   return issues.map((iss) => iss.path ? { ...iss, path: iss.path.slice() } : { ...iss });
@@ -22479,13 +23361,13 @@ function isRecursive(inst, stack, resolve6) {
         const desc = Object.getOwnPropertyDescriptor(def, key2);
         if (!desc || desc.get)
           continue;
-        const value = desc.value;
-        if (!value || typeof value !== "object")
+        const value2 = desc.value;
+        if (!value2 || typeof value2 !== "object")
           continue;
-        if (value._zod)
-          check2(value);
-        else if (Array.isArray(value))
-          for (const el of value)
+        if (value2._zod)
+          check2(value2);
+        else if (Array.isArray(value2))
+          for (const el of value2)
             check2(el);
       }
     }
@@ -22614,9 +23496,9 @@ var memo = {
 function memoizer() {
   return memo;
 }
-function isBackEdge(ctx, value) {
+function isBackEdge(ctx, value2) {
   const backEdges = ctx[STATE]?.backEdges;
-  return backEdges !== void 0 && isRef(value) && backEdges.has(value);
+  return backEdges !== void 0 && isRef(value2) && backEdges.has(value2);
 }
 
 // node_modules/zod/v4/locales/index.js
@@ -25035,15 +25917,15 @@ var error20 = () => {
   };
   const typeEntry = (t) => t ? TypeNames[t] : void 0;
   const typeLabel = (t) => {
-    const e = typeEntry(t);
-    if (e)
-      return e.label;
+    const e2 = typeEntry(t);
+    if (e2)
+      return e2.label;
     return t ?? TypeNames.unknown.label;
   };
   const withDefinite = (t) => `ה${typeLabel(t)}`;
   const verbFor = (t) => {
-    const e = typeEntry(t);
-    const gender = e?.gender ?? "m";
+    const e2 = typeEntry(t);
+    const gender = e2?.gender ?? "m";
     return gender === "f" ? "צריכה להיות" : "צריך להיות";
   };
   const getSizing = (origin) => {
@@ -30366,13 +31248,13 @@ ${code2}
   fn.definite = ctx.definite;
   return fn;
 }
-function addConstant(ctx, value) {
+function addConstant(ctx, value2) {
   for (const [name2, v] of ctx.constants) {
-    if (v === value)
+    if (v === value2)
       return name2;
   }
   const name = `c${ctx.constantCounter++}`;
-  ctx.constants.set(name, value);
+  ctx.constants.set(name, value2);
   return name;
 }
 function addUserConstant(ctx, fn) {
@@ -30382,8 +31264,8 @@ function addUserConstant(ctx, fn) {
 function newVar(ctx) {
   return `v${ctx.varCounter++}`;
 }
-function runtimeRun(schema, value) {
-  const result = schema._zod.run({ value, issues: [] }, {});
+function runtimeRun(schema, value2) {
+  const result = schema._zod.run({ value: value2, issues: [] }, {});
   if (result && typeof result.then === "function")
     return INVALID;
   const r = result;
@@ -30515,27 +31397,27 @@ function codePointLengthVar(doc, ctx, accessor, inDoubt) {
   doc.write(`const ${v} = typeof ${accessor} === "string" && ${inDoubt} ? ${cpLen}(${accessor}) : ${accessor}.length;`);
   return v;
 }
-function numericOperand(value, label) {
-  if (typeof value !== "number" || !Number.isFinite(value)) {
-    throw new ZodCompileUnsupportedError(`${label} bound of type ${typeof value}`);
+function numericOperand(value2, label2) {
+  if (typeof value2 !== "number" || !Number.isFinite(value2)) {
+    throw new ZodCompileUnsupportedError(`${label2} bound of type ${typeof value2}`);
   }
-  return `${value}`;
+  return `${value2}`;
 }
-function comparisonOperand(ctx, value) {
-  if (typeof value === "bigint")
-    return `${value}n`;
-  if (typeof value === "number") {
-    if (Number.isNaN(value))
+function comparisonOperand(ctx, value2) {
+  if (typeof value2 === "bigint")
+    return `${value2}n`;
+  if (typeof value2 === "number") {
+    if (Number.isNaN(value2))
       throw new ZodCompileUnsupportedError("comparison check with NaN bound");
-    return `${value}`;
+    return `${value2}`;
   }
-  if (value instanceof Date) {
-    if (Number.isNaN(value.getTime())) {
+  if (value2 instanceof Date) {
+    if (Number.isNaN(value2.getTime())) {
       throw new ZodCompileUnsupportedError("comparison check with Invalid Date bound");
     }
-    return addConstant(ctx, value);
+    return addConstant(ctx, value2);
   }
-  throw new ZodCompileUnsupportedError(`comparison check bound of type ${typeof value}`);
+  throw new ZodCompileUnsupportedError(`comparison check bound of type ${typeof value2}`);
 }
 function generateGreaterThanCheck(doc, ctx, def, accessor) {
   const op = def.inclusive ? "<" : "<=";
@@ -30656,8 +31538,8 @@ function generateCustomRefineCheck(doc, ctx, check2, accessor) {
       throw new ZodCompileAsyncError("z.compile: async .superRefine() / check functions are not supported");
     }
     const checkFn = check2._zod.check;
-    const helperFn = (value) => {
-      const fakePayload = { value, issues: [], addIssue: pushIssue };
+    const helperFn = (value2) => {
+      const fakePayload = { value: value2, issues: [], addIssue: pushIssue };
       const result = checkFn(fakePayload);
       if (result instanceof Promise)
         throwAsync();
@@ -31308,24 +32190,24 @@ function generateLiteralCheck(doc, ctx, schema, accessor) {
     doc.write(`if (!${literalSet}.has(${accessor})) return INVALID;`);
     return accessor;
   }
-  const value = values[0];
-  if (typeof value === "number" && Number.isNaN(value)) {
+  const value2 = values[0];
+  if (typeof value2 === "number" && Number.isNaN(value2)) {
     const literalSet = addConstant(ctx, new Set(values));
     doc.write(`if (!${literalSet}.has(${accessor})) return INVALID;`);
     return accessor;
   }
-  if (typeof value === "string") {
-    doc.write(`if (${accessor} !== ${esc(value)}) return INVALID;`);
-  } else if (typeof value === "number" || typeof value === "boolean") {
-    doc.write(`if (${accessor} !== ${value}) return INVALID;`);
-  } else if (value === null) {
+  if (typeof value2 === "string") {
+    doc.write(`if (${accessor} !== ${esc(value2)}) return INVALID;`);
+  } else if (typeof value2 === "number" || typeof value2 === "boolean") {
+    doc.write(`if (${accessor} !== ${value2}) return INVALID;`);
+  } else if (value2 === null) {
     doc.write(`if (${accessor} !== null) return INVALID;`);
-  } else if (value === void 0) {
+  } else if (value2 === void 0) {
     doc.write(`if (${accessor} !== undefined) return INVALID;`);
-  } else if (typeof value === "bigint") {
-    doc.write(`if (${accessor} !== ${value}n) return INVALID;`);
+  } else if (typeof value2 === "bigint") {
+    doc.write(`if (${accessor} !== ${value2}n) return INVALID;`);
   } else {
-    throw new ZodCompileUnsupportedError(`literal type ${typeof value}`);
+    throw new ZodCompileUnsupportedError(`literal type ${typeof value2}`);
   }
   return accessor;
 }
@@ -31525,13 +32407,13 @@ function generateDiscriminatedUnionCheck(doc, ctx, def, accessor) {
     if (!values || values.size === 0) {
       throw new ZodCompileUnsupportedError("discriminated union option without static discriminator values");
     }
-    for (const value of values) {
-      if (claimed.has(value)) {
-        throw new ZodCompileUnsupportedError(`duplicate discriminator value ${String(value)}`);
+    for (const value2 of values) {
+      if (claimed.has(value2)) {
+        throw new ZodCompileUnsupportedError(`duplicate discriminator value ${String(value2)}`);
       }
-      claimed.add(value);
+      claimed.add(value2);
     }
-    const conditions = Array.from(values, (value) => literalEquality(ctx, discVar, value));
+    const conditions = Array.from(values, (value2) => literalEquality(ctx, discVar, value2));
     const prefix = firstBranch ? "if" : "else if";
     doc.write(`${prefix} (${conditions.join(" || ")}) {`);
     doc.indented((d) => {
@@ -31544,27 +32426,27 @@ function generateDiscriminatedUnionCheck(doc, ctx, def, accessor) {
   doc.write(`else { return INVALID; }`);
   return outputVar;
 }
-function literalEquality(ctx, accessor, value) {
-  if (typeof value === "string")
-    return `${accessor} === ${esc(value)}`;
-  if (typeof value === "number") {
-    if (Number.isNaN(value))
+function literalEquality(ctx, accessor, value2) {
+  if (typeof value2 === "string")
+    return `${accessor} === ${esc(value2)}`;
+  if (typeof value2 === "number") {
+    if (Number.isNaN(value2))
       return `Number.isNaN(${accessor})`;
-    return `${accessor} === ${value}`;
+    return `${accessor} === ${value2}`;
   }
-  if (typeof value === "boolean")
-    return `${accessor} === ${value}`;
-  if (value === null)
+  if (typeof value2 === "boolean")
+    return `${accessor} === ${value2}`;
+  if (value2 === null)
     return `${accessor} === null`;
-  if (value === void 0)
+  if (value2 === void 0)
     return `${accessor} === undefined`;
-  if (typeof value === "bigint")
-    return `${accessor} === ${value}n`;
-  if (typeof value === "symbol") {
-    const symbolConst = addConstant(ctx, value);
+  if (typeof value2 === "bigint")
+    return `${accessor} === ${value2}n`;
+  if (typeof value2 === "symbol") {
+    const symbolConst = addConstant(ctx, value2);
     return `${accessor} === ${symbolConst}`;
   }
-  throw new ZodCompileUnsupportedError(`literal discriminator value ${String(value)}`);
+  throw new ZodCompileUnsupportedError(`literal discriminator value ${String(value2)}`);
 }
 function generateIntersectionCheck(doc, ctx, schema, accessor) {
   const def = schema._zod.def;
@@ -31755,9 +32637,9 @@ function generatePipeCheck(doc, ctx, schema, accessor) {
       throw new ZodCompileAsyncError("z.compile: async transforms in pipes are not supported");
     }
     const transformFn = def.transform;
-    const helperFn = (value) => {
-      const fakePayload = { value, issues: [], addIssue: pushIssue };
-      const result = transformFn(value, fakePayload);
+    const helperFn = (value2) => {
+      const fakePayload = { value: value2, issues: [], addIssue: pushIssue };
+      const result = transformFn(value2, fakePayload);
       if (result instanceof Promise)
         return INVALID;
       return fakePayload.issues.length === 0 ? result : INVALID;
@@ -31791,8 +32673,8 @@ function generateCustomCheck(doc, ctx, schema, accessor) {
   }
   return accessor;
 }
-function runtimeCatch(innerSchema, catchValue, value) {
-  const result = innerSchema._zod.run({ value, issues: [] }, {});
+function runtimeCatch(innerSchema, catchValue, value2) {
+  const result = innerSchema._zod.run({ value: value2, issues: [] }, {});
   if (result && typeof result.then === "function")
     return INVALID;
   const r = result;
@@ -31830,9 +32712,9 @@ function generateTransformCheck(doc, ctx, schema, accessor) {
       throw new ZodCompileAsyncError("z.compile: async transforms are not supported");
     }
     const transformFn = def.transform;
-    const helperFn = (value) => {
-      const fakePayload = { value, issues: [], addIssue: pushIssue };
-      const result = transformFn(value, fakePayload);
+    const helperFn = (value2) => {
+      const fakePayload = { value: value2, issues: [], addIssue: pushIssue };
+      const result = transformFn(value2, fakePayload);
       if (result instanceof Promise)
         return INVALID;
       return fakePayload.issues.length === 0 ? result : INVALID;
@@ -32338,38 +33220,38 @@ function _nan(Class2, params) {
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _lt(value, params) {
+function _lt(value2, params) {
   return new $ZodCheckLessThan({
     check: "less_than",
     ...normalizeParams(params),
-    value,
+    value: value2,
     inclusive: false
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _lte(value, params) {
+function _lte(value2, params) {
   return new $ZodCheckLessThan({
     check: "less_than",
     ...normalizeParams(params),
-    value,
+    value: value2,
     inclusive: true
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _gt(value, params) {
+function _gt(value2, params) {
   return new $ZodCheckGreaterThan({
     check: "greater_than",
     ...normalizeParams(params),
-    value,
+    value: value2,
     inclusive: false
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _gte(value, params) {
+function _gte(value2, params) {
   return new $ZodCheckGreaterThan({
     check: "greater_than",
     ...normalizeParams(params),
-    value,
+    value: value2,
     inclusive: true
   });
 }
@@ -32390,11 +33272,11 @@ function _nonnegative(params) {
   return /* @__PURE__ */ _gte(0, params);
 }
 // @__NO_SIDE_EFFECTS__
-function _multipleOf(value, params) {
+function _multipleOf(value2, params) {
   return new $ZodCheckMultipleOf({
     check: "multiple_of",
     ...normalizeParams(params),
-    value
+    value: value2
   });
 }
 // @__NO_SIDE_EFFECTS__
@@ -32650,10 +33532,10 @@ function _nativeEnum(Class2, entries, params) {
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _literal(Class2, value, params) {
+function _literal(Class2, value2, params) {
   return new Class2({
     type: "literal",
-    values: Array.isArray(value) ? value : [value],
+    values: Array.isArray(value2) ? value2 : [value2],
     ...normalizeParams(params)
   });
 }
@@ -33436,22 +34318,22 @@ var createStandardJSONSchemaMethod = (schema, io, processors = {}) => (params) =
 };
 
 // node_modules/zod/v4/core/json-schema-processors.js
-var narrowMin = (agg, key2, value) => {
-  if (agg[key2] === void 0 || value > agg[key2])
-    agg[key2] = value;
+var narrowMin = (agg, key2, value2) => {
+  if (agg[key2] === void 0 || value2 > agg[key2])
+    agg[key2] = value2;
 };
-var narrowMax = (agg, key2, value) => {
-  if (agg[key2] === void 0 || value < agg[key2])
-    agg[key2] = value;
+var narrowMax = (agg, key2, value2) => {
+  if (agg[key2] === void 0 || value2 < agg[key2])
+    agg[key2] = value2;
 };
-var narrowBoth = (agg, value) => {
-  narrowMin(agg, "minimum", value);
-  narrowMax(agg, "maximum", value);
+var narrowBoth = (agg, value2) => {
+  narrowMin(agg, "minimum", value2);
+  narrowMax(agg, "maximum", value2);
 };
-var addDivisor = (agg, value) => {
+var addDivisor = (agg, value2) => {
   agg.multipleOf ?? (agg.multipleOf = []);
-  if (!agg.multipleOf.includes(value))
-    agg.multipleOf.push(value);
+  if (!agg.multipleOf.includes(value2))
+    agg.multipleOf.push(value2);
 };
 var addPattern = (agg, pattern) => {
   agg.patterns ?? (agg.patterns = /* @__PURE__ */ new Set());
@@ -34027,9 +34909,9 @@ var nonoptionalProcessor = (schema, ctx, _json, params) => {
   seen.ref = def.innerType;
 };
 var UNREPRESENTABLE_DEFAULT = /* @__PURE__ */ Symbol();
-function serializeDefaultValue(value, schema, ctx, json2, params) {
+function serializeDefaultValue(value2, schema, ctx, json2, params) {
   let unrepresentable = false;
-  const serialized = JSON.stringify(value, (_, val) => {
+  const serialized = JSON.stringify(value2, (_, val) => {
     if (typeof val !== "bigint")
       return val;
     unrepresentable = true;
@@ -34045,9 +34927,9 @@ var defaultProcessor = (schema, ctx, json2, params) => {
   processSchema(def.innerType, ctx, params);
   const seen = ctx.seen.get(schema);
   seen.ref = def.innerType;
-  const value = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
-  if (value !== UNREPRESENTABLE_DEFAULT)
-    json2.default = value;
+  const value2 = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
+  if (value2 !== UNREPRESENTABLE_DEFAULT)
+    json2.default = value2;
 };
 var prefaultProcessor = (schema, ctx, json2, params) => {
   const def = schema._zod.def;
@@ -34056,9 +34938,9 @@ var prefaultProcessor = (schema, ctx, json2, params) => {
   seen.ref = def.innerType;
   if (ctx.io !== "input")
     return;
-  const value = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
-  if (value !== UNREPRESENTABLE_DEFAULT)
-    json2._prefault = value;
+  const value2 = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
+  if (value2 !== UNREPRESENTABLE_DEFAULT)
+    json2._prefault = value2;
 };
 var catchProcessor = (schema, ctx, json2, params) => {
   const def = schema._zod.def;
@@ -34210,8 +35092,8 @@ var JSONSchemaGenerator = class {
   get counter() {
     return this.ctx.counter;
   }
-  set counter(value) {
-    this.ctx.counter = value;
+  set counter(value2) {
+    this.ctx.counter = value2;
   }
   /** @deprecated Access via ctx instead */
   get seen() {
@@ -34487,12 +35369,12 @@ function _lazyMethod(proto, key2, make) {
     configurable: true,
     enumerable: false,
     get() {
-      const value = make(this);
-      Object.defineProperty(this, key2, { value, configurable: true, writable: true });
-      return value;
+      const value2 = make(this);
+      Object.defineProperty(this, key2, { value: value2, configurable: true, writable: true });
+      return value2;
     },
-    set(value) {
-      Object.defineProperty(this, key2, { value, configurable: true, writable: true });
+    set(value2) {
+      Object.defineProperty(this, key2, { value: value2, configurable: true, writable: true });
     }
   });
 }
@@ -34660,8 +35542,8 @@ var ZodType = /* @__PURE__ */ $constructor("ZodType", (inst, def) => {
       }
     });
   },
-  set "~standard"(value) {
-    util_exports.own(this, "~standard", value);
+  set "~standard"(value2) {
+    util_exports.own(this, "~standard", value2);
   },
   parse: function _parse2(data, params) {
     return parse2(this, data, params, { callee: _parse2 });
@@ -34679,8 +35561,8 @@ var ZodType = /* @__PURE__ */ $constructor("ZodType", (inst, def) => {
   get spa() {
     return this?.safeParseAsync;
   },
-  set spa(value) {
-    util_exports.own(this, "spa", value);
+  set spa(value2) {
+    util_exports.own(this, "spa", value2);
   },
   validate(data, params) {
     return validate(this, data, params);
@@ -35106,23 +35988,23 @@ var ZodNumber = /* @__PURE__ */ $constructor(
     },
     format: (inst) => aggregateChecks(inst).format ?? null
   }, {
-    gt(value, params) {
-      return this.check(_gt(value, params));
+    gt(value2, params) {
+      return this.check(_gt(value2, params));
     },
-    gte(value, params) {
-      return this.check(_gte(value, params));
+    gte(value2, params) {
+      return this.check(_gte(value2, params));
     },
-    min(value, params) {
-      return this.check(_gte(value, params));
+    min(value2, params) {
+      return this.check(_gte(value2, params));
     },
-    lt(value, params) {
-      return this.check(_lt(value, params));
+    lt(value2, params) {
+      return this.check(_lt(value2, params));
     },
-    lte(value, params) {
-      return this.check(_lte(value, params));
+    lte(value2, params) {
+      return this.check(_lte(value2, params));
     },
-    max(value, params) {
-      return this.check(_lte(value, params));
+    max(value2, params) {
+      return this.check(_lte(value2, params));
     },
     int(params) {
       return this.check(int(params));
@@ -35142,11 +36024,11 @@ var ZodNumber = /* @__PURE__ */ $constructor(
     nonpositive(params) {
       return this.check(_lte(0, params));
     },
-    multipleOf(value, params) {
-      return this.check(_multipleOf(value, params));
+    multipleOf(value2, params) {
+      return this.check(_multipleOf(value2, params));
     },
-    step(value, params) {
-      return this.check(_multipleOf(value, params));
+    step(value2, params) {
+      return this.check(_multipleOf(value2, params));
     },
     finite() {
       return this;
@@ -35195,23 +36077,23 @@ var ZodBigInt = /* @__PURE__ */ $constructor(
     maxValue: (inst) => aggregateChecks(inst).maximum ?? null,
     format: (inst) => aggregateChecks(inst).format ?? null
   }, {
-    gte(value, params) {
-      return this.check(_gte(value, params));
+    gte(value2, params) {
+      return this.check(_gte(value2, params));
     },
-    min(value, params) {
-      return this.check(_gte(value, params));
+    min(value2, params) {
+      return this.check(_gte(value2, params));
     },
-    gt(value, params) {
-      return this.check(_gt(value, params));
+    gt(value2, params) {
+      return this.check(_gt(value2, params));
     },
-    lt(value, params) {
-      return this.check(_lt(value, params));
+    lt(value2, params) {
+      return this.check(_lt(value2, params));
     },
-    lte(value, params) {
-      return this.check(_lte(value, params));
+    lte(value2, params) {
+      return this.check(_lte(value2, params));
     },
-    max(value, params) {
-      return this.check(_lte(value, params));
+    max(value2, params) {
+      return this.check(_lte(value2, params));
     },
     positive(params) {
       return this.check(_gt(BigInt(0), params));
@@ -35225,8 +36107,8 @@ var ZodBigInt = /* @__PURE__ */ $constructor(
     nonnegative(params) {
       return this.check(_gte(BigInt(0), params));
     },
-    multipleOf(value, params) {
-      return this.check(_multipleOf(value, params));
+    multipleOf(value2, params) {
+      return this.check(_multipleOf(value2, params));
     }
   })
 );
@@ -35305,8 +36187,8 @@ var ZodDate = /* @__PURE__ */ $constructor(
     $ZodDate.init(inst, def);
     ZodType.init(inst, def);
     inst._zod.processJSONSchema = (ctx, json2, params) => dateProcessor(inst, ctx, json2, params);
-    inst.min = (value, params) => inst.check(_gte(value, params));
-    inst.max = (value, params) => inst.check(_lte(value, params));
+    inst.min = (value2, params) => inst.check(_gte(value2, params));
+    inst.max = (value2, params) => inst.check(_lte(value2, params));
   },
   /* @__PURE__ */ util_exports.derived({
     minDate: (inst) => {
@@ -35598,11 +36480,11 @@ var ZodEnum = /* @__PURE__ */ $constructor("ZodEnum", (inst, def) => {
   const keys = new Set(Object.keys(def.entries));
   inst.extract = (values, params) => {
     const newEntries = {};
-    for (const value of values) {
-      if (keys.has(value)) {
-        newEntries[value] = def.entries[value];
+    for (const value2 of values) {
+      if (keys.has(value2)) {
+        newEntries[value2] = def.entries[value2];
       } else
-        throw new Error(`Key ${value} not found in enum`);
+        throw new Error(`Key ${value2} not found in enum`);
     }
     return new ZodEnum({
       ...def,
@@ -35613,11 +36495,11 @@ var ZodEnum = /* @__PURE__ */ $constructor("ZodEnum", (inst, def) => {
   };
   inst.exclude = (values, params) => {
     const newEntries = { ...def.entries };
-    for (const value of values) {
-      if (keys.has(value)) {
-        delete newEntries[value];
+    for (const value2 of values) {
+      if (keys.has(value2)) {
+        delete newEntries[value2];
       } else
-        throw new Error(`Key ${value} not found in enum`);
+        throw new Error(`Key ${value2} not found in enum`);
     }
     return new ZodEnum({
       ...def,
@@ -35656,10 +36538,10 @@ var ZodLiteral = /* @__PURE__ */ $constructor("ZodLiteral", (inst, def) => {
     }
   });
 });
-function literal(value, params) {
+function literal(value2, params) {
   return new ZodLiteral({
     type: "literal",
-    values: Array.isArray(value) ? value : [value],
+    values: Array.isArray(value2) ? value2 : [value2],
     ...util_exports.normalizeParams(params)
   });
 }
@@ -36057,7 +36939,7 @@ function duration2(params) {
 }
 
 // node_modules/zod/v4/classic/from-json-schema.js
-var z = {
+var z2 = {
   ...schemas_exports2,
   ...checks_exports2,
   iso: iso_exports
@@ -36171,11 +37053,11 @@ function resolveRef(ref, ctx) {
   throw new Error(`Reference not found: ${ref}`);
 }
 function checkObjectGuards(objectSchema, guards) {
-  const guard = z.transform((value) => value).check((payload) => {
-    const value = payload.value;
-    if (typeof value !== "object" || value === null || Array.isArray(value))
+  const guard = z2.transform((value2) => value2).check((payload) => {
+    const value2 = payload.value;
+    if (typeof value2 !== "object" || value2 === null || Array.isArray(value2))
       return;
-    const keys = Object.getOwnPropertyNames(value);
+    const keys = Object.getOwnPropertyNames(value2);
     if (guards.minProperties !== void 0 && keys.length < guards.minProperties) {
       payload.issues.push({
         origin: "object",
@@ -36183,7 +37065,7 @@ function checkObjectGuards(objectSchema, guards) {
         minimum: guards.minProperties,
         inclusive: true,
         message: `Too small: expected object to have >=${guards.minProperties} properties`,
-        input: value,
+        input: value2,
         inst: objectSchema,
         continue: true
       });
@@ -36195,7 +37077,7 @@ function checkObjectGuards(objectSchema, guards) {
         maximum: guards.maxProperties,
         inclusive: true,
         message: `Too big: expected object to have <=${guards.maxProperties} properties`,
-        input: value,
+        input: value2,
         inst: objectSchema,
         continue: true
       });
@@ -36218,23 +37100,23 @@ function checkObjectGuards(objectSchema, guards) {
   });
   return guard.pipe(objectSchema);
 }
-function canonicalKey(value, seen) {
-  if (value === null)
+function canonicalKey(value2, seen) {
+  if (value2 === null)
     return "z";
-  const type = typeof value;
+  const type = typeof value2;
   if (type !== "object") {
-    if (type === "number" && Number.isNaN(value))
+    if (type === "number" && Number.isNaN(value2))
       return null;
-    const raw = String(value);
+    const raw = String(value2);
     return `${type[0]}${raw.length}:${raw}`;
   }
-  if (seen.has(value))
+  if (seen.has(value2))
     return null;
-  seen.add(value);
+  seen.add(value2);
   try {
-    if (Array.isArray(value)) {
+    if (Array.isArray(value2)) {
       const parts2 = [];
-      for (const item of value) {
+      for (const item of value2) {
         const key2 = canonicalKey(item, seen);
         if (key2 === null)
           return null;
@@ -36242,17 +37124,17 @@ function canonicalKey(value, seen) {
       }
       return `a${parts2.length}:[${parts2.join(",")}]`;
     }
-    const keys = Object.keys(value).sort();
+    const keys = Object.keys(value2).sort();
     const parts = [];
     for (const k of keys) {
-      const key2 = canonicalKey(value[k], seen);
+      const key2 = canonicalKey(value2[k], seen);
       if (key2 === null)
         return null;
       parts.push(`${k.length}:${k}=${key2}`);
     }
     return `o${parts.length}:{${parts.join(",")}}`;
   } finally {
-    seen.delete(value);
+    seen.delete(value2);
   }
 }
 var SCHEMA_KEYWORDS = /* @__PURE__ */ new Set([
@@ -36281,14 +37163,14 @@ var SCHEMA_MAP_KEYWORDS = /* @__PURE__ */ new Set([
   "$defs",
   "definitions"
 ]);
-function containsRef(value) {
-  if (typeof value !== "object" || value === null)
+function containsRef(value2) {
+  if (typeof value2 !== "object" || value2 === null)
     return false;
-  if (Array.isArray(value))
-    return value.some(containsRef);
-  if (typeof value.$ref === "string")
+  if (Array.isArray(value2))
+    return value2.some(containsRef);
+  if (typeof value2.$ref === "string")
     return true;
-  return Object.entries(value).some(([key2, sub]) => {
+  return Object.entries(value2).some(([key2, sub]) => {
     if (SCHEMA_KEYWORDS.has(key2))
       return containsRef(sub);
     if (!SCHEMA_MAP_KEYWORDS.has(key2) || typeof sub !== "object" || sub === null)
@@ -36300,7 +37182,7 @@ function plural(n) {
   return n === 1 ? "element" : "elements";
 }
 function checkArrayGuards(arraySchema, guards) {
-  const guard = z.transform((value) => value).check((payload) => {
+  const guard = z2.transform((value2) => value2).check((payload) => {
     const items = payload.value;
     if (!Array.isArray(items))
       return;
@@ -36357,7 +37239,7 @@ function getTupleRest(restSchema, ctx) {
     return void 0;
   }
   if (restSchema === void 0 || restSchema === true) {
-    return z.any();
+    return z2.any();
   }
   return convertSchema(restSchema, ctx);
 }
@@ -36365,7 +37247,7 @@ var fullTime = /^(?:[01]\d|2[0-3]):[0-5]\d:[0-5]\d(?:\.\d+)?(?:Z|[+-](?:[01]\d|2
 function convertBaseSchema(schema, ctx) {
   if (schema.not !== void 0) {
     if (typeof schema.not === "object" && Object.keys(schema.not).length === 0) {
-      return z.never();
+      return z2.never();
     }
     throw new Error("not is not supported in Zod (except { not: {} } for never)");
   }
@@ -36387,7 +37269,7 @@ function convertBaseSchema(schema, ctx) {
       return ctx.refs.get(refPath);
     }
     if (ctx.processing.has(refPath)) {
-      return z.lazy(() => {
+      return z2.lazy(() => {
         if (!ctx.refs.has(refPath)) {
           throw new Error(`Circular reference not resolved: ${refPath}`);
         }
@@ -36404,25 +37286,25 @@ function convertBaseSchema(schema, ctx) {
   if (schema.enum !== void 0) {
     const enumValues = schema.enum;
     if (ctx.version === "openapi-3.0" && schema.nullable === true && enumValues.length === 1 && enumValues[0] === null) {
-      return z.null();
+      return z2.null();
     }
     if (enumValues.length === 0) {
-      return z.never();
+      return z2.never();
     }
     if (enumValues.length === 1) {
-      return z.literal(enumValues[0]);
+      return z2.literal(enumValues[0]);
     }
     if (enumValues.every((v) => typeof v === "string")) {
-      return z.enum(enumValues);
+      return z2.enum(enumValues);
     }
-    const literalSchemas = enumValues.map((v) => z.literal(v));
+    const literalSchemas = enumValues.map((v) => z2.literal(v));
     if (literalSchemas.length < 2) {
       return literalSchemas[0];
     }
-    return z.union([literalSchemas[0], literalSchemas[1], ...literalSchemas.slice(2)]);
+    return z2.union([literalSchemas[0], literalSchemas[1], ...literalSchemas.slice(2)]);
   }
   if (schema.const !== void 0) {
-    return z.literal(schema.const);
+    return z2.literal(schema.const);
   }
   const type = schema.type;
   if (Array.isArray(type)) {
@@ -36431,74 +37313,74 @@ function convertBaseSchema(schema, ctx) {
       return convertBaseSchema(typeSchema, ctx);
     });
     if (typeSchemas.length === 0) {
-      return z.never();
+      return z2.never();
     }
     if (typeSchemas.length === 1) {
       return typeSchemas[0];
     }
-    return z.union(typeSchemas);
+    return z2.union(typeSchemas);
   }
   if (!type) {
-    return z.any();
+    return z2.any();
   }
   let zodSchema;
   switch (type) {
     case "string": {
-      let stringSchema = z.string();
+      let stringSchema = z2.string();
       if (schema.format) {
         const format = schema.format;
         if (format === "email") {
-          stringSchema = stringSchema.check(z.email());
+          stringSchema = stringSchema.check(z2.email());
         } else if (format === "uri" || format === "uri-reference") {
-          stringSchema = stringSchema.check(z.url());
+          stringSchema = stringSchema.check(z2.url());
         } else if (format === "uuid" || format === "guid") {
-          stringSchema = stringSchema.check(z.uuid());
+          stringSchema = stringSchema.check(z2.uuid());
         } else if (format === "date-time") {
-          stringSchema = stringSchema.check(z.iso.datetime({ offset: true }));
+          stringSchema = stringSchema.check(z2.iso.datetime({ offset: true }));
         } else if (format === "date") {
-          stringSchema = stringSchema.check(z.iso.date());
+          stringSchema = stringSchema.check(z2.iso.date());
         } else if (format === "time") {
-          stringSchema = stringSchema.check(z.regex(fullTime));
+          stringSchema = stringSchema.check(z2.regex(fullTime));
         } else if (format === "duration") {
-          stringSchema = stringSchema.check(z.iso.duration());
+          stringSchema = stringSchema.check(z2.iso.duration());
         } else if (format === "hostname") {
-          stringSchema = stringSchema.check(z.hostname());
+          stringSchema = stringSchema.check(z2.hostname());
         } else if (format === "ipv4") {
-          stringSchema = stringSchema.check(z.ipv4());
+          stringSchema = stringSchema.check(z2.ipv4());
         } else if (format === "ipv6") {
-          stringSchema = stringSchema.check(z.ipv6());
+          stringSchema = stringSchema.check(z2.ipv6());
         } else if (format === "mac") {
-          stringSchema = stringSchema.check(z.mac());
+          stringSchema = stringSchema.check(z2.mac());
         } else if (format === "cidr") {
-          stringSchema = stringSchema.check(z.cidrv4());
+          stringSchema = stringSchema.check(z2.cidrv4());
         } else if (format === "cidr-v6") {
-          stringSchema = stringSchema.check(z.cidrv6());
+          stringSchema = stringSchema.check(z2.cidrv6());
         } else if (format === "base64") {
-          stringSchema = stringSchema.check(z.base64());
+          stringSchema = stringSchema.check(z2.base64());
         } else if (format === "base64url") {
-          stringSchema = stringSchema.check(z.base64url());
+          stringSchema = stringSchema.check(z2.base64url());
         } else if (format === "e164") {
-          stringSchema = stringSchema.check(z.e164());
+          stringSchema = stringSchema.check(z2.e164());
         } else if (format === "credit_card") {
-          stringSchema = stringSchema.check(z.creditCard());
+          stringSchema = stringSchema.check(z2.creditCard());
         } else if (format === "iban") {
-          stringSchema = stringSchema.check(z.iban());
+          stringSchema = stringSchema.check(z2.iban());
         } else if (format === "jwt") {
-          stringSchema = stringSchema.check(z.jwt());
+          stringSchema = stringSchema.check(z2.jwt());
         } else if (format === "emoji") {
-          stringSchema = stringSchema.check(z.emoji());
+          stringSchema = stringSchema.check(z2.emoji());
         } else if (format === "nanoid") {
-          stringSchema = stringSchema.check(z.nanoid());
+          stringSchema = stringSchema.check(z2.nanoid());
         } else if (format === "cuid") {
-          stringSchema = stringSchema.check(z.cuid());
+          stringSchema = stringSchema.check(z2.cuid());
         } else if (format === "cuid2") {
-          stringSchema = stringSchema.check(z.cuid2());
+          stringSchema = stringSchema.check(z2.cuid2());
         } else if (format === "ulid") {
-          stringSchema = stringSchema.check(z.ulid());
+          stringSchema = stringSchema.check(z2.ulid());
         } else if (format === "xid") {
-          stringSchema = stringSchema.check(z.xid());
+          stringSchema = stringSchema.check(z2.xid());
         } else if (format === "ksuid") {
-          stringSchema = stringSchema.check(z.ksuid());
+          stringSchema = stringSchema.check(z2.ksuid());
         }
       }
       if (typeof schema.minLength === "number") {
@@ -36515,7 +37397,7 @@ function convertBaseSchema(schema, ctx) {
     }
     case "number":
     case "integer": {
-      let numberSchema = type === "integer" ? z.number().int() : z.number();
+      let numberSchema = type === "integer" ? z2.number().int() : z2.number();
       if (typeof schema.minimum === "number" && schema.exclusiveMinimum !== true) {
         numberSchema = numberSchema.min(schema.minimum);
       }
@@ -36539,11 +37421,11 @@ function convertBaseSchema(schema, ctx) {
       break;
     }
     case "boolean": {
-      zodSchema = z.boolean();
+      zodSchema = z2.boolean();
       break;
     }
     case "null": {
-      zodSchema = z.null();
+      zodSchema = z2.null();
       break;
     }
     case "object": {
@@ -36561,22 +37443,22 @@ function convertBaseSchema(schema, ctx) {
         const looseRecords = [];
         for (const pattern of patternKeys) {
           const patternValue = convertSchema(patternProps[pattern], ctx);
-          const keySchema = z.string().regex(new RegExp(pattern));
-          looseRecords.push(z.looseRecord(keySchema, patternValue));
+          const keySchema = z2.string().regex(new RegExp(pattern));
+          looseRecords.push(z2.looseRecord(keySchema, patternValue));
         }
         const schemasToIntersect = [];
         if (Object.keys(shape).length > 0) {
-          schemasToIntersect.push(z.object(shape).passthrough());
+          schemasToIntersect.push(z2.object(shape).passthrough());
         }
         schemasToIntersect.push(...looseRecords);
         if (schemasToIntersect.length === 0) {
-          zodSchema = z.object({}).passthrough();
+          zodSchema = z2.object({}).passthrough();
         } else if (schemasToIntersect.length === 1) {
           zodSchema = schemasToIntersect[0];
         } else {
-          let result = z.intersection(schemasToIntersect[0], schemasToIntersect[1]);
+          let result = z2.intersection(schemasToIntersect[0], schemasToIntersect[1]);
           for (let i = 2; i < schemasToIntersect.length; i++) {
-            result = z.intersection(result, schemasToIntersect[i]);
+            result = z2.intersection(result, schemasToIntersect[i]);
           }
           zodSchema = result;
         }
@@ -36606,7 +37488,7 @@ function convertBaseSchema(schema, ctx) {
           });
         }
       } else {
-        const objectSchema = z.object(shape);
+        const objectSchema = z2.object(shape);
         if (schema.additionalProperties === false) {
           zodSchema = objectSchema.strict();
         } else if (additionalSchema) {
@@ -36636,30 +37518,30 @@ function convertBaseSchema(schema, ctx) {
         const tupleItems = prefixItems.map((item) => convertSchema(item, ctx));
         const positionalItems = applyMinItems(tupleItems, minItems);
         const rest = !Array.isArray(items) ? getTupleRest(items, ctx) : void 0;
-        const tupleSchema = z.tuple(positionalItems);
+        const tupleSchema = z2.tuple(positionalItems);
         zodSchema = rest ? tupleSchema.rest(rest) : tupleSchema;
         if (typeof schema.minItems === "number") {
-          zodSchema = zodSchema.check(z.minLength(schema.minItems));
+          zodSchema = zodSchema.check(z2.minLength(schema.minItems));
         }
         if (typeof schema.maxItems === "number") {
-          zodSchema = zodSchema.check(z.maxLength(schema.maxItems));
+          zodSchema = zodSchema.check(z2.maxLength(schema.maxItems));
         }
       } else if (Array.isArray(items)) {
         const minItems = typeof schema.minItems === "number" ? schema.minItems : 0;
         const tupleItems = items.map((item) => convertSchema(item, ctx));
         const positionalItems = applyMinItems(tupleItems, minItems);
         const rest = getTupleRest(schema.additionalItems, ctx);
-        const tupleSchema = z.tuple(positionalItems);
+        const tupleSchema = z2.tuple(positionalItems);
         zodSchema = rest ? tupleSchema.rest(rest) : tupleSchema;
         if (typeof schema.minItems === "number") {
-          zodSchema = zodSchema.check(z.minLength(schema.minItems));
+          zodSchema = zodSchema.check(z2.minLength(schema.minItems));
         }
         if (typeof schema.maxItems === "number") {
-          zodSchema = zodSchema.check(z.maxLength(schema.maxItems));
+          zodSchema = zodSchema.check(z2.maxLength(schema.maxItems));
         }
       } else if (items !== void 0) {
         const element = convertSchema(items, ctx);
-        let arraySchema = z.array(element);
+        let arraySchema = z2.array(element);
         if (typeof schema.minItems === "number") {
           arraySchema = arraySchema.min(schema.minItems);
         }
@@ -36668,7 +37550,7 @@ function convertBaseSchema(schema, ctx) {
         }
         zodSchema = arraySchema;
       } else {
-        zodSchema = z.array(z.any());
+        zodSchema = z2.array(z2.any());
       }
       if (schema.uniqueItems === true || schema.contains !== void 0) {
         zodSchema = checkArrayGuards(zodSchema, {
@@ -36687,37 +37569,37 @@ function convertBaseSchema(schema, ctx) {
 }
 function convertSchema(schema, ctx) {
   if (typeof schema === "boolean") {
-    return schema ? z.any() : z.never();
+    return schema ? z2.any() : z2.never();
   }
   let baseSchema = convertBaseSchema(schema, ctx);
   const hasExplicitType = schema.type || schema.enum !== void 0 || schema.const !== void 0;
   if (schema.anyOf && Array.isArray(schema.anyOf)) {
     const options = schema.anyOf.map((s) => convertSchema(s, ctx));
-    const anyOfUnion = z.union(options);
-    baseSchema = hasExplicitType ? z.intersection(baseSchema, anyOfUnion) : anyOfUnion;
+    const anyOfUnion = z2.union(options);
+    baseSchema = hasExplicitType ? z2.intersection(baseSchema, anyOfUnion) : anyOfUnion;
   }
   if (schema.oneOf && Array.isArray(schema.oneOf)) {
     const options = schema.oneOf.map((s) => convertSchema(s, ctx));
-    const oneOfUnion = z.xor(options);
-    baseSchema = hasExplicitType ? z.intersection(baseSchema, oneOfUnion) : oneOfUnion;
+    const oneOfUnion = z2.xor(options);
+    baseSchema = hasExplicitType ? z2.intersection(baseSchema, oneOfUnion) : oneOfUnion;
   }
   if (schema.allOf && Array.isArray(schema.allOf)) {
     if (schema.allOf.length === 0) {
-      baseSchema = hasExplicitType ? baseSchema : z.any();
+      baseSchema = hasExplicitType ? baseSchema : z2.any();
     } else {
       let result = hasExplicitType ? baseSchema : convertSchema(schema.allOf[0], ctx);
       const startIdx = hasExplicitType ? 0 : 1;
       for (let i = startIdx; i < schema.allOf.length; i++) {
-        result = z.intersection(result, convertSchema(schema.allOf[i], ctx));
+        result = z2.intersection(result, convertSchema(schema.allOf[i], ctx));
       }
       baseSchema = result;
     }
   }
   if (schema.nullable === true && ctx.version === "openapi-3.0") {
-    baseSchema = z.nullable(baseSchema);
+    baseSchema = z2.nullable(baseSchema);
   }
   if (schema.readOnly === true) {
-    baseSchema = z.readonly(baseSchema);
+    baseSchema = z2.readonly(baseSchema);
   }
   if (schema.default !== void 0) {
     baseSchema = baseSchema.default(schema.default);
@@ -36768,7 +37650,7 @@ function convertSchema(schema, ctx) {
 }
 function fromJSONSchema(schema, params) {
   if (typeof schema === "boolean") {
-    return schema ? z.any() : z.never();
+    return schema ? z2.any() : z2.never();
   }
   let normalized;
   try {
@@ -37025,12 +37907,12 @@ var reportLimits = {
 };
 var text = external_exports.string().max(reportLimits.maxTextLength);
 var finite = external_exports.number();
-var undefinedNumber = external_exports.number().nullable().transform((value) => value ?? NaN).meta({ description: "null when the statistic is undefined; read as NaN" });
+var undefinedNumber = external_exports.number().nullable().transform((value2) => value2 ?? NaN).meta({ description: "null when the statistic is undefined; read as NaN" });
 var count = external_exports.int().min(0);
 var uint322 = external_exports.int().min(0).max(4294967295);
 var list = (item) => external_exports.array(item).max(reportLimits.maxItems);
 var recordKey = external_exports.string().max(reportLimits.maxKeyLength).meta({ not: { const: "__proto__" } });
-var record2 = (value) => external_exports.record(recordKey, value).refine((entries) => Object.keys(entries).length <= reportLimits.maxKeys, {
+var record2 = (value2) => external_exports.record(recordKey, value2).refine((entries) => Object.keys(entries).length <= reportLimits.maxKeys, {
   message: `at most ${reportLimits.maxKeys} keys are allowed`
 }).meta({ maxProperties: reportLimits.maxKeys });
 var evidenceSchema = record2(external_exports.union([finite, text, external_exports.boolean(), external_exports.null()])).meta({ id: "Evidence" });
@@ -37043,6 +37925,7 @@ var findingSchema = external_exports.strictObject({
     "holdout-rows",
     "feature-set",
     "floor-drop",
+    "share-redistribution",
     "unused-feature",
     "policy-changed",
     "noise-model",
@@ -37150,12 +38033,12 @@ function fitReportLimits(report) {
 function cut(text3, max) {
   return text3.length <= max ? text3 : `${text3.slice(0, max - 1)}…`;
 }
-function fit(value, key2) {
-  if (typeof value === "string") return cut(value, key2 === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
-  if (Array.isArray(value)) return value.slice(0, reportLimits.maxItems).map((item) => fit(item, null));
-  if (value === null || typeof value !== "object" || ArrayBuffer.isView(value)) return value;
+function fit(value2, key2) {
+  if (typeof value2 === "string") return cut(value2, key2 === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
+  if (Array.isArray(value2)) return value2.slice(0, reportLimits.maxItems).map((item) => fit(item, null));
+  if (value2 === null || typeof value2 !== "object" || ArrayBuffer.isView(value2)) return value2;
   const out = {};
-  for (const [name, item] of Object.entries(value).slice(0, reportLimits.maxKeys)) out[cut(name, reportLimits.maxKeyLength)] = fit(item, name);
+  for (const [name, item] of Object.entries(value2).slice(0, reportLimits.maxKeys)) out[cut(name, reportLimits.maxKeyLength)] = fit(item, name);
   return out;
 }
 
@@ -37176,10 +38059,10 @@ function wrap(text3, width, indent, hangingIndent = indent) {
   if (line !== "") lines.push((lines.length === 0 ? indent : hangingIndent) + line);
   return lines;
 }
-function renderTable2(table, width, indent) {
+function renderTable2(table2, width, indent) {
   const gap = "  ";
-  const body = table.rows.map((row) => row.map(escapePlainText));
-  const header = table.header.map(escapePlainText);
+  const body = table2.rows.map((row) => row.map(escapePlainText));
+  const header = table2.header.map(escapePlainText);
   const widest = (j) => Math.max(0, ...body.map((row) => length(row[j] ?? "")));
   const span = (widths2) => length(indent) + widths2.reduce((sum2, w) => sum2 + w, 0) + gap.length * (widths2.length - 1);
   let widths = header.map((name, j) => Math.max(widest(j), length(name)));
@@ -37195,7 +38078,7 @@ function renderTable2(table, width, indent) {
   const depth = Math.max(...headerLines.map((lines) => lines.length));
   const line = (row) => (indent + row.map((cell, j) => {
     const pad = " ".repeat(Math.max(0, widths[j] - length(cell)));
-    return table.align[j] === "right" ? pad + cell : cell + pad;
+    return table2.align[j] === "right" ? pad + cell : cell + pad;
   }).join(gap)).trimEnd();
   const headerRows = Array.from(
     { length: depth },
@@ -37215,8 +38098,7 @@ function renderError2(report, width) {
     "plumbline: error, no verdict",
     wrap(report.headline, width, "").join("\n"),
     wrap(noVerdictStatement, width, "").join("\n"),
-    ...blocks.length > 0 ? blocks : ["The report holds no run-error finding to show."],
-    wrap(reportCaution, width, "").join("\n")
+    ...blocks.length > 0 ? blocks : ["The report holds no run-error finding to show."]
   ].join("\n\n");
 }
 function renderText(report, options = {}) {
@@ -37230,8 +38112,8 @@ function renderText(report, options = {}) {
   }
   if (report.verdict === "error") return renderError2(report, width);
   const tables = tabulateReport(report);
-  const table = (t) => renderTable2(t, width, "  ");
-  const longTable = (t) => table(limitRows(t, maxTableRows));
+  const table2 = (t) => renderTable2(t, width, "  ");
+  const longTable = (t) => table2(limitRows(t, maxTableRows));
   const findings = tables.findings.length === 0 ? section("Findings", ["  None."]) : section(
     `Findings (${formatCount(tables.findings.length)})`,
     tables.findings.flatMap((finding) => [
@@ -37242,20 +38124,20 @@ function renderText(report, options = {}) {
   );
   const features = tables.features.rows.length === 0 ? section("Feature importance", ["  No features were measured."]) : section("Feature importance", [...wrap(importanceNote, width, "  "), "", ...longTable(tables.features)]);
   const { added, removed, kindChanged, unchangedCount } = tables.featureSet;
-  const names = (label, list3) => list3.length === 0 ? [] : wrap(`${label} (${formatCount(list3.length)}): ${limitItems(list3, maxTableRows).join(", ")}`, width, "  ");
+  const names = (label2, list3) => list3.length === 0 ? [] : wrap(`${label2} (${formatCount(list3.length)}): ${limitItems(list3, maxTableRows).join(", ")}`, width, "  ");
   const featureSet = section(
     "Feature set",
     unchangedCount !== null ? [`  The same ${formatCount(unchangedCount)} features on both sides.`] : [...names("Added", added), ...names("Removed", removed), ...names("Changed kind", kindChanged)]
   );
   const agreement = section(
     "Rank agreement",
-    tables.agreement ? [...table(tables.agreement.table), "", ...wrap(tables.agreement.note, width, "  ")] : wrap(agreementMissingNote, width, "  ")
+    tables.agreement ? [...table2(tables.agreement.table), "", ...wrap(tables.agreement.note, width, "  ")] : wrap(agreementMissingNote, width, "  ")
   );
   const details = [
-    ...tables.sides && tables.scores ? [section("Models and holdout scores per refit", [...table(tables.sides), "", ...longTable(tables.scores)])] : [],
+    ...tables.sides && tables.scores ? [section("Models and holdout scores per refit", [...table2(tables.sides), "", ...longTable(tables.scores)])] : [],
     ...tables.seeds ? [section("Refit seeds", longTable(tables.seeds))] : [],
     section("Settings and check thresholds", [
-      ...table(tables.settings),
+      ...table2(tables.settings),
       ...tables.checks.rows.length > 0 ? ["", ...longTable(tables.checks)] : []
     ]),
     section(
@@ -37266,6 +38148,7 @@ function renderText(report, options = {}) {
   return [
     tables.heading,
     wrap(report.headline, width, "").join("\n"),
+    ...tables.score ? [[tables.score.sentence, ...tables.score.evidenceLines].flatMap((line) => wrap(line, width, "")).join("\n")] : [],
     findings,
     features,
     featureSet,
@@ -37289,8 +38172,8 @@ var CsvError = class _CsvError extends Error {
     this.code = code2;
     for (const context of contexts) {
       for (const key2 in context) {
-        const value = context[key2];
-        this[key2] = Buffer.isBuffer(value) ? value.toString(options.encoding) : value == null ? value : JSON.parse(JSON.stringify(value));
+        const value2 = context[key2];
+        this[key2] = Buffer.isBuffer(value2) ? value2.toString(options.encoding) : value2 == null ? value2 : JSON.parse(JSON.stringify(value2));
       }
     }
   }
@@ -37570,9 +38453,9 @@ var normalize_options = function(opts) {
   if (options.cast_date === void 0 || options.cast_date === null || options.cast_date === false || options.cast_date === "") {
     options.cast_date = false;
   } else if (options.cast_date === true) {
-    options.cast_date = function(value) {
-      const date5 = Date.parse(value);
-      return !isNaN(date5) ? new Date(date5) : value;
+    options.cast_date = function(value2) {
+      const date5 = Date.parse(value2);
+      return !isNaN(date5) ? new Date(date5) : value2;
     };
   } else if (typeof options.cast_date !== "function") {
     throw new CsvError(
@@ -38852,8 +39735,8 @@ var transform2 = function(original_options = {}) {
       }
       return false;
     },
-    __isFloat: function(value) {
-      return value - parseFloat(value) + 1 >= 0;
+    __isFloat: function(value2) {
+      return value2 - parseFloat(value2) + 1 >= 0;
     },
     // Keep it in case we implement the `cast_int` option
     // __isInt(value){
@@ -38982,6 +39865,25 @@ var parse3 = function(data, opts = {}) {
   return records;
 };
 
+// src/core/policy/levenshtein-distance.ts
+function levenshteinDistance(a, b) {
+  if (a === b) return 0;
+  if (a.length === 0) return b.length;
+  if (b.length === 0) return a.length;
+  const row = Array.from({ length: b.length + 1 }, (_, j) => j);
+  for (let i = 1; i <= a.length; i++) {
+    let diagonal = row[0];
+    row[0] = i;
+    for (let j = 1; j <= b.length; j++) {
+      const above = row[j];
+      const substitution = diagonal + (a.charCodeAt(i - 1) === b.charCodeAt(j - 1) ? 0 : 1);
+      row[j] = Math.min(above + 1, row[j - 1] + 1, substitution);
+      diagonal = above;
+    }
+  }
+  return row[b.length];
+}
+
 // src/core/data/parse-csv.ts
 function schemaOf(dataset) {
   const target = dataset.target;
@@ -39044,29 +39946,29 @@ function parseCsv(text3, options) {
   }
   return dataset;
 }
-function isMissing(value) {
-  return MISSING_TOKENS.has(value.toLowerCase());
+function isMissing(value2) {
+  return MISSING_TOKENS.has(value2.toLowerCase());
 }
-function parseNumber(value) {
-  if (!NUMBER.test(value)) return void 0;
-  const x = Number(value);
+function parseNumber(value2) {
+  if (!NUMBER.test(value2)) return void 0;
+  const x = Number(value2);
   return Number.isFinite(x) && Math.abs(x) <= MAX_MAGNITUDE ? x : void 0;
 }
-function looksNumeric(value) {
-  return NUMBER.test(value) || INFINITY_WORD.test(value);
+function looksNumeric(value2) {
+  return NUMBER.test(value2) || INFINITY_WORD.test(value2);
 }
-function failNumber(source, line, column, value, reason) {
-  if (!looksNumeric(value)) failNotNumeric(source, line, column, value, reason);
+function failNumber(source, line, column, value2, reason) {
+  if (!looksNumeric(value2)) failNotNumeric(source, line, column, value2, reason);
   throw new UserError(
-    `${at(source, line, column)}: ${show(value)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
+    `${at2(source, line, column)}: ${show(value2)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
     "Correct the value, write NA or leave the cell empty if it is missing, or rescale the column (for example to thousands or a logarithm)."
   );
 }
 function compareText(a, b) {
   return a < b ? -1 : a > b ? 1 : 0;
 }
-function show(value) {
-  const flat = value.replace(/\r\n|\r|\n/g, "\\n");
+function show(value2) {
+  const flat = value2.replace(/\r\n|\r|\n/g, "\\n");
   return `'${flat.length > 40 ? `${flat.slice(0, 40)}…` : flat}'`;
 }
 function listNames(names, limit) {
@@ -39076,12 +39978,12 @@ function listNames(names, limit) {
 function count2(n, noun) {
   return `${n} ${noun}${n === 1 ? "" : "s"}`;
 }
-function at(source, line, column) {
+function at2(source, line, column) {
   return `${source}, line ${line} ${LINE_NOTE}${column === void 0 ? "" : `, column ${show(column)}`}`;
 }
-function failNotNumeric(source, line, column, value, reason) {
+function failNotNumeric(source, line, column, value2, reason) {
   throw new UserError(
-    `${at(source, line, column)}: ${show(value)} is not a number, but ${reason}.`,
+    `${at2(source, line, column)}: ${show(value2)} is not a number, but ${reason}.`,
     "Correct the value, or write NA or leave the cell empty if it is missing."
   );
 }
@@ -39105,7 +40007,7 @@ function readRecords(text3, source) {
     if (!(error62 instanceof CsvError)) throw error62;
     const line = lineAtByte(text3, ends.length === 0 ? 0 : ends[ends.length - 1]);
     throw new UserError(
-      `${at(source, line)}: ${describeCsvError(error62)}.`,
+      `${at2(source, line)}: ${describeCsvError(error62)}.`,
       'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
     );
   }
@@ -39127,7 +40029,7 @@ function readRecords(text3, source) {
   for (let i = 0; i < rows.length; i++) {
     if (rows[i].length !== header.length) {
       throw new UserError(
-        `${at(source, lineOf(i))}: the row has ${count2(rows[i].length, "field")}, the header has ${header.length}.`,
+        `${at2(source, lineOf(i))}: the row has ${count2(rows[i].length, "field")}, the header has ${header.length}.`,
         "Give every row one field per header column; enclose a field that holds a comma in double quotes."
       );
     }
@@ -39172,9 +40074,19 @@ function checkHeader(header, source) {
   });
   return index;
 }
+function closestColumns(name, columns, limit = 5) {
+  const wanted = name.toLowerCase();
+  return columns.map((column, index) => {
+    const lower = column.toLowerCase();
+    const contains = lower.includes(wanted) || wanted.includes(lower) ? 0 : 1;
+    return { column, index, distance: levenshteinDistance(wanted, lower), contains };
+  }).sort((a, b) => a.distance - b.distance || a.contains - b.contains || a.index - b.index).slice(0, limit).map((x) => x.column);
+}
 function failMissingTarget(source, name, header) {
+  const columns = header.map((h) => h.trim());
+  const closest = closestColumns(name, columns);
   throw new UserError(
-    `${source} has no target column ${show(name)}. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
+    `${source} has no target column ${show(name)}. ` + (columns.length <= closest.length ? `Its columns are ${listNames(columns, closest.length)}.` : `The closest of its ${columns.length} columns: ${listNames(closest, closest.length)}.`),
     `Add the column ${show(name)} to the file, or name one of its columns as the target.`
   );
 }
@@ -39285,7 +40197,7 @@ function readTarget(source, plan, values, lineOf, schemaSource) {
   values.forEach((v, i) => {
     if (isMissing(v)) {
       throw new UserError(
-        `${at(source, lineOf(i), column)}: the target is missing (${v === "" ? "the cell is empty" : `the cell is ${show(v)}`}).`,
+        `${at2(source, lineOf(i), column)}: the target is missing (${v === "" ? "the cell is empty" : `the cell is ${show(v)}`}).`,
         "Fill in the target or delete the row: a row without a target cannot be scored."
       );
     }
@@ -39321,7 +40233,7 @@ function readTarget(source, plan, values, lineOf, schemaSource) {
     else if (v === classes[0]) out[i] = 0;
     else {
       throw new UserError(
-        `${at(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
+        `${at2(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
         `Use the same two class labels as ${schemaSource}.`
       );
     }
@@ -39380,9 +40292,9 @@ function createRandom(seed) {
     },
     normal() {
       if (!Number.isNaN(spareNormal)) {
-        const value = spareNormal;
+        const value2 = spareNormal;
         spareNormal = NaN;
-        return value;
+        return value2;
       }
       let u = 0;
       while (u === 0) u = nextUint32() / 4294967296;
@@ -39553,12 +40465,12 @@ function formatKeyPath(path) {
 }
 
 // src/core/policy/policy-defaults.ts
-function deepFreeze(value) {
-  if (value !== null && typeof value === "object") {
-    for (const inner of Object.values(value)) deepFreeze(inner);
-    Object.freeze(value);
+function deepFreeze(value2) {
+  if (value2 !== null && typeof value2 === "object") {
+    for (const inner of Object.values(value2)) deepFreeze(inner);
+    Object.freeze(value2);
   }
-  return value;
+  return value2;
 }
 var defaultTopLevel = deepFreeze({ seed: 1 });
 var defaultData = deepFreeze({
@@ -39617,8 +40529,8 @@ var defaultReport = deepFreeze({ maxTableRows: 50 });
 var uint32Max = 2 ** 32 - 1;
 
 // src/core/policy/policy-schema.ts
-function rule(ctx, path, message, fix, at3, pointAtValue) {
-  const params = { kind: "rule", fix, ...at3 ? { at: at3 } : {}, ...pointAtValue ? { pointAtValue } : {} };
+function rule(ctx, path, message, fix, at4, pointAtValue) {
+  const params = { kind: "rule", fix, ...at4 ? { at: at4 } : {}, ...pointAtValue ? { pointAtValue } : {} };
   ctx.addIssue({ code: "custom", message, path, params });
 }
 var numberText = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
@@ -39835,7 +40747,7 @@ function checkAcrossSections(policy, ctx) {
 }
 function nullPrototype(entries) {
   const result = /* @__PURE__ */ Object.create(null);
-  for (const [key2, value] of entries) result[key2] = value;
+  for (const [key2, value2] of entries) result[key2] = value2;
   return result;
 }
 function toModelConfig(model) {
@@ -39960,31 +40872,12 @@ function excerpt(text3, max = 40) {
   return cut2.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
 }
 
-// src/core/policy/levenshtein-distance.ts
-function levenshteinDistance(a, b) {
-  if (a === b) return 0;
-  if (a.length === 0) return b.length;
-  if (b.length === 0) return a.length;
-  const row = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let diagonal = row[0];
-    row[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const above = row[j];
-      const substitution = diagonal + (a.charCodeAt(i - 1) === b.charCodeAt(j - 1) ? 0 : 1);
-      row[j] = Math.min(above + 1, row[j - 1] + 1, substitution);
-      diagonal = above;
-    }
-  }
-  return row[b.length];
-}
-
 // src/core/policy/parse-policy.ts
 var maxPolicyCharacters = 1024 * 1024;
 var maxPolicyValues = 1e5;
 var maxPolicyDepth = 64;
 var pathId = (path) => JSON.stringify(path.map(String));
-function at2(source, place) {
+function at3(source, place) {
   return place ? `${source}:${place.line}:${place.column}` : source;
 }
 function where(path) {
@@ -40028,7 +40921,7 @@ function readDocument(text3, source) {
   if (syntax) {
     const reason = syntax.message.split("\n")[0].replace(/ at line \d+, column \d+.*$/, "").replace(/\.$/, "");
     throw new UserError(
-      `${at2(source, place(syntax.pos[0]))}: not valid YAML: ${reason}.`,
+      `${at3(source, place(syntax.pos[0]))}: not valid YAML: ${reason}.`,
       'Fix the YAML at that line: nested keys are indented with spaces (no tabs), and a value holding ": " or starting with one of [ ] { } # & * ! | > \' " % @ ` is put in quotes.'
     );
   }
@@ -40036,7 +40929,7 @@ function readDocument(text3, source) {
   if (tagWarning) {
     const tag = tagWarning.message.replace(/^Unresolved tag: /, "");
     throw new UserError(
-      `${at2(source, place(tagWarning.pos[0]))}: the YAML tag '${excerpt(tag, 80)}' is not allowed; a policy holds plain text, lists and mappings.`,
+      `${at3(source, place(tagWarning.pos[0]))}: the YAML tag '${excerpt(tag, 80)}' is not allowed; a policy holds plain text, lists and mappings.`,
       "Delete the tag (the part starting with !) and write the value itself."
     );
   }
@@ -40044,7 +40937,7 @@ function readDocument(text3, source) {
   if (root2 === null || (0, import_yaml.isScalar)(root2) && root2.value === "" && root2.type === "PLAIN") throw empty;
   if (!(0, import_yaml.isMap)(root2)) {
     throw new UserError(
-      `${at2(source, place(root2.range?.[0] ?? 0))}: the top level must be a mapping of keys such as 'version: 1'; got ${describeNode(root2)}.`,
+      `${at3(source, place(root2.range?.[0] ?? 0))}: the top level must be a mapping of keys such as 'version: 1'; got ${describeNode(root2)}.`,
       "Write one 'key: value' per line, starting with 'version: 1' (docs/policy.md); 'plumbline init' writes a starter policy."
     );
   }
@@ -40063,12 +40956,12 @@ function readDocument(text3, source) {
     if ((0, import_yaml.isAlias)(node2)) {
       const target = node2.resolve(doc);
       if (!target || expanding.has(target)) {
-        throw new UserError(`${at2(source, place(node2.range?.[0] ?? 0))}: the alias *${node2.source} refers to itself or to nothing.`, "Replace the alias with the value it should stand for.");
+        throw new UserError(`${at3(source, place(node2.range?.[0] ?? 0))}: the alias *${node2.source} refers to itself or to nothing.`, "Replace the alias with the value it should stand for.");
       }
       expanding.add(target);
-      const value = toPlain(target, path);
+      const value2 = toPlain(target, path);
       expanding.delete(target);
-      return value;
+      return value2;
     }
     if ((0, import_yaml.isScalar)(node2)) return node2.type === "PLAIN" && node2.value === "" ? null : String(node2.value);
     if ((0, import_yaml.isSeq)(node2)) {
@@ -40085,7 +40978,7 @@ function readDocument(text3, source) {
         const keyNode = pair.key;
         if (!(0, import_yaml.isScalar)(keyNode)) {
           throw new UserError(
-            `${at2(source, place(keyNode?.range?.[0] ?? node2.range?.[0] ?? 0))}: ${keyNode ? "a key must be plain text" : "a value has no key"} ${where(path)}.`,
+            `${at3(source, place(keyNode?.range?.[0] ?? node2.range?.[0] ?? 0))}: ${keyNode ? "a key must be plain text" : "a value has no key"} ${where(path)}.`,
             "Write each setting as 'key: value', with the key as a plain word."
           );
         }
@@ -40094,7 +40987,7 @@ function readDocument(text3, source) {
         const earlier = seen.get(key2);
         if (earlier) {
           throw new UserError(
-            `${at2(source, keyPlace)}: key '${excerpt(key2)}' appears twice ${where(path)} (first at line ${earlier.line}).`,
+            `${at3(source, keyPlace)}: key '${excerpt(key2)}' appears twice ${where(path)} (first at line ${earlier.line}).`,
             `Keep one '${excerpt(key2)}:' line ${under(path)} and delete the other.`
           );
         }
@@ -40106,23 +40999,23 @@ function readDocument(text3, source) {
       }
       return result;
     }
-    throw new UserError(`${at2(source, place(node2.range?.[0] ?? 0))}: unsupported YAML content ${where(path)}.`, "Use plain mappings, lists and text.");
+    throw new UserError(`${at3(source, place(node2.range?.[0] ?? 0))}: unsupported YAML content ${where(path)}.`, "Use plain mappings, lists and text.");
   };
   return { value: toPlain(root2, []), positions };
 }
 function valueAt(root2, path) {
-  let value = root2;
+  let value2 = root2;
   for (const segment of path) {
-    if (value === null || typeof value !== "object") return void 0;
-    value = value[segment];
+    if (value2 === null || typeof value2 !== "object") return void 0;
+    value2 = value2[segment];
   }
-  return value;
+  return value2;
 }
-function describeValue(value) {
-  if (value === null || value === void 0) return "an empty value";
-  if (Array.isArray(value)) return value.length === 0 ? "an empty list" : "a list";
-  if (typeof value === "object") return "a mapping";
-  return `'${excerpt(String(value), 60)}'`;
+function describeValue(value2) {
+  if (value2 === null || value2 === void 0) return "an empty value";
+  if (Array.isArray(value2)) return value2.length === 0 ? "an empty list" : "a list";
+  if (typeof value2 === "object") return "a mapping";
+  return `'${excerpt(String(value2), 60)}'`;
 }
 function closestName(name, candidates) {
   const snake = name.replace(/([a-z0-9])([A-Z])/g, "$1_$2").toLowerCase();
@@ -40144,7 +41037,7 @@ function describeIssue(issue2, raw, positions, source) {
   if (issue2.code === "custom" && params?.kind === "rule") {
     const entry2 = entryAt(positions, params.at ? [...path, ...params.at] : path);
     const place = params.pointAtValue ? entry2?.value : entry2?.key ?? entry2?.value;
-    return [{ offset: place?.offset ?? Infinity, message: `${at2(source, place)}: ${formatKeyPath(path)} ${issue2.message}`, fix: params.fix }];
+    return [{ offset: place?.offset ?? Infinity, message: `${at3(source, place)}: ${formatKeyPath(path)} ${issue2.message}`, fix: params.fix }];
   }
   if (issue2.code === "unrecognized_keys") {
     const allowed = describePolicyKey(path)?.keys ?? [];
@@ -40153,7 +41046,7 @@ function describeIssue(issue2, raw, positions, source) {
       const suggestion = closestName(key3, allowed);
       return {
         offset: place?.offset ?? Infinity,
-        message: `${at2(source, place)}: unknown key '${excerpt(key3)}' ${where(path)} (allowed: ${allowed.join(", ")}).${suggestion ? ` Did you mean '${suggestion}'?` : ""}`,
+        message: `${at3(source, place)}: unknown key '${excerpt(key3)}' ${where(path)} (allowed: ${allowed.join(", ")}).${suggestion ? ` Did you mean '${suggestion}'?` : ""}`,
         fix: suggestion ? `Rename '${excerpt(key3)}' to '${suggestion}', or delete it.` : `Delete '${excerpt(key3)}', or rename it to one of the allowed keys (docs/policy.md describes each).`
       };
     });
@@ -40169,7 +41062,7 @@ function describeIssue(issue2, raw, positions, source) {
     const place = parentPath.length === 0 ? void 0 : entry2?.key;
     return [{
       offset: entry2?.end ?? Infinity,
-      message: `${at2(source, place)}: missing required key '${key2}' ${where(parentPath)}.`,
+      message: `${at3(source, place)}: missing required key '${key2}' ${where(parentPath)}.`,
       fix: isSection ? `Add a '${key2}:' section ${under(parentPath)}, ${issue2.message} (docs/policy.md lists its keys).` : `Add '${key2}:' ${under(parentPath)}, set to ${issue2.message}.`
     }];
   }
@@ -40178,15 +41071,15 @@ function describeIssue(issue2, raw, positions, source) {
   const fix = keyPath === "version" ? "Set 'version: 1'; this release of plumbline reads policy version 1 only." : isSection ? `Write ${keyPath} as ${issue2.message}, one 'key: value' per line indented below it (docs/policy.md).` : `Set ${keyPath} to ${issue2.message}${described && "default" in described ? `, or delete the line to use the default (${String(described.default)})` : ""}.`;
   return [{
     offset: entry?.value.offset ?? Infinity,
-    message: `${at2(source, entry?.value)}: ${keyPath} must be ${issue2.message}; got ${describeValue(valueAt(raw, path))}.`,
+    message: `${at3(source, entry?.value)}: ${keyPath} must be ${issue2.message}; got ${describeValue(valueAt(raw, path))}.`,
     fix
   }];
 }
 function readPolicy(text3, source) {
-  const { value, positions } = readDocument(text3, source);
-  const result = policySchema.safeParse(value);
+  const { value: value2, positions } = readDocument(text3, source);
+  const result = policySchema.safeParse(value2);
   if (!result.success) {
-    const problems = result.error.issues.flatMap((issue2) => describeIssue(issue2, value, positions, source));
+    const problems = result.error.issues.flatMap((issue2) => describeIssue(issue2, value2, positions, source));
     problems.sort((a, b) => a.offset - b.offset);
     const first = problems[0];
     throw new UserError(first.message, first.fix);
@@ -40211,7 +41104,7 @@ function checkPolicyAgainstColumns(policy, columns) {
     const suggestion = closestName(name, columns);
     problems.push({
       offset: place?.offset ?? Infinity,
-      message: `${at2(source, place)}: ${formatKeyPath(path)} ${verb} '${name}', which is not a column of the data (columns: ${listColumns(columns)}).${suggestion ? ` Did you mean '${suggestion}'?` : ""}`,
+      message: `${at3(source, place)}: ${formatKeyPath(path)} ${verb} '${name}', which is not a column of the data (columns: ${listColumns(columns)}).${suggestion ? ` Did you mean '${suggestion}'?` : ""}`,
       fix
     });
   };
@@ -40228,7 +41121,7 @@ function checkPolicyAgainstColumns(policy, columns) {
       const entry = entryAt(positions, path);
       problems.push({
         offset: entry?.key?.offset ?? Infinity,
-        message: `${at2(source, entry?.key)}: ${formatKeyPath(path)} has the name of a column of the data; the report would show two rows called '${group}'.`,
+        message: `${at3(source, entry?.key)}: ${formatKeyPath(path)} has the name of a column of the data; the report would show two rows called '${group}'.`,
         fix: `Rename the group, for example to '${group}_group'.`
       });
     }
@@ -40302,7 +41195,7 @@ function featureSetFindings(featureSet, head) {
         severity: "info",
         feature: name,
         title: `The added feature ${name} is not measurably used by the candidate model.`,
-        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that does not lie above zero.`,
+        message: `Its importance ${formatNumber(unit.mean)} has a 95% interval [${formatNumber(unit.lower)}, ${formatNumber(unit.upper)}] that does not lie above zero.`,
         evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper }
       });
     }
@@ -40311,9 +41204,6 @@ function featureSetFindings(featureSet, head) {
 }
 function list2(names) {
   return names.length <= 5 ? names.join(", ") : `${names.slice(0, 5).join(", ")} and ${names.length - 5} more`;
-}
-function fmtPlain(v) {
-  return Number.isFinite(v) ? Number(v.toPrecision(3)).toString() : "n/a";
 }
 
 // src/core/data/align-holdout.ts
@@ -40407,425 +41297,7 @@ function gateSettings(config2) {
   };
 }
 function snakeKeys(values) {
-  return Object.fromEntries(Object.entries(values).map(([key2, value]) => [key2.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value]));
-}
-
-// node_modules/simple-statistics/dist/simple-statistics.mjs
-function sum(x) {
-  if (x.length === 0) {
-    return 0;
-  }
-  var sum2 = x[0];
-  var correction = 0;
-  var transition;
-  if (typeof sum2 !== "number") {
-    return Number.NaN;
-  }
-  for (var i = 1; i < x.length; i++) {
-    if (typeof x[i] !== "number") {
-      return Number.NaN;
-    }
-    transition = sum2 + x[i];
-    if (Math.abs(sum2) >= Math.abs(x[i])) {
-      correction += sum2 - transition + x[i];
-    } else {
-      correction += x[i] - transition + sum2;
-    }
-    sum2 = transition;
-  }
-  return sum2 + correction;
-}
-function mean(x) {
-  if (x.length === 0) {
-    throw new Error("mean requires at least one data point");
-  }
-  return sum(x) / x.length;
-}
-function sumNthPowerDeviations(x, n) {
-  var meanValue = mean(x);
-  var sum2 = 0;
-  var tempValue;
-  var i;
-  if (n === 2) {
-    for (i = 0; i < x.length; i++) {
-      tempValue = x[i] - meanValue;
-      sum2 += tempValue * tempValue;
-    }
-  } else {
-    for (i = 0; i < x.length; i++) {
-      sum2 += Math.pow(x[i] - meanValue, n);
-    }
-  }
-  return sum2;
-}
-function sampleVariance(x) {
-  if (x.length < 2) {
-    throw new Error("sampleVariance requires at least two data points");
-  }
-  var sumSquaredDeviationsValue = sumNthPowerDeviations(x, 2);
-  var besselsCorrection = x.length - 1;
-  return sumSquaredDeviationsValue / besselsCorrection;
-}
-function sampleStandardDeviation(x) {
-  var sampleVarianceX = sampleVariance(x);
-  return Math.sqrt(sampleVarianceX);
-}
-function quantileSorted(x, p) {
-  var idx = (x.length - 1) * p;
-  if (x.length === 0) {
-    throw new Error("quantile requires at least one data point.");
-  } else if (p < 0 || p > 1) {
-    throw new Error("quantiles must be between 0 and 1");
-  } else if (p === 1) {
-    return x[x.length - 1];
-  } else if (p === 0) {
-    return x[0];
-  } else if (idx % 1 !== 0) {
-    var lower = Math.floor(idx);
-    var upper = Math.ceil(idx);
-    var fraction = idx - lower;
-    return x[lower] + fraction * (x[upper] - x[lower]);
-  } else {
-    return x[idx];
-  }
-}
-var BayesianClassifier = function BayesianClassifier2() {
-  this.totalCount = 0;
-  this.data = {};
-};
-BayesianClassifier.prototype.train = function train(item, category) {
-  if (!this.data[category]) {
-    this.data[category] = {};
-  }
-  for (var k in item) {
-    var v = item[k];
-    if (this.data[category][k] === void 0) {
-      this.data[category][k] = {};
-    }
-    if (this.data[category][k][v] === void 0) {
-      this.data[category][k][v] = 0;
-    }
-    this.data[category][k][v]++;
-  }
-  this.totalCount++;
-};
-BayesianClassifier.prototype.score = function score(item) {
-  var odds = {};
-  var category;
-  for (var k in item) {
-    var v = item[k];
-    for (category in this.data) {
-      if (odds[category] === void 0) {
-        odds[category] = {};
-      }
-      if (this.data[category][k]) {
-        odds[category][k + "_" + v] = (this.data[category][k][v] || 0) / this.totalCount;
-      } else {
-        odds[category][k + "_" + v] = 0;
-      }
-    }
-  }
-  var oddsSums = {};
-  for (category in odds) {
-    oddsSums[category] = 0;
-    for (var combination in odds[category]) {
-      oddsSums[category] += odds[category][combination];
-    }
-  }
-  return oddsSums;
-};
-var COEFFICIENTS = [
-  0.9999999999999971,
-  57.15623566586292,
-  -59.59796035547549,
-  14.136097974741746,
-  -0.4919138160976202,
-  3399464998481189e-20,
-  4652362892704858e-20,
-  -9837447530487956e-20,
-  1580887032249125e-19,
-  -21026444172410488e-20,
-  21743961811521265e-20,
-  -1643181065367639e-19,
-  8441822398385275e-20,
-  -26190838401581408e-21,
-  36899182659531625e-22
-];
-var g = 607 / 128;
-var LOGSQRT2PI = Math.log(Math.sqrt(2 * Math.PI));
-function gammaln(n) {
-  if (n <= 0) {
-    return Number.POSITIVE_INFINITY;
-  }
-  n--;
-  var a = COEFFICIENTS[0];
-  for (var i = 1; i < 15; i++) {
-    a += COEFFICIENTS[i] / (n + i);
-  }
-  var tmp = g + 0.5 + n;
-  return LOGSQRT2PI + Math.log(a) - tmp + (n + 0.5) * Math.log(tmp);
-}
-var SQRT_2PI$1 = Math.sqrt(2 * Math.PI);
-function cumulativeDistribution(z3) {
-  var sum2 = z3;
-  var tmp = z3;
-  for (var i = 1; i < 30; i++) {
-    tmp *= z3 * z3 / (2 * i + 1);
-    sum2 += tmp;
-  }
-  return Math.round((0.5 + sum2 / SQRT_2PI$1 * Math.exp(-z3 * z3 / 2)) * 1e4) / 1e4;
-}
-var standardNormalTable = [];
-for (z2 = 0; z2 <= 3.09; z2 += 0.01) {
-  standardNormalTable.push(cumulativeDistribution(z2));
-}
-var z2;
-var SQRT_2PI = Math.sqrt(2 * Math.PI);
-var PerceptronModel = function PerceptronModel2() {
-  this.weights = [];
-  this.bias = 0;
-};
-PerceptronModel.prototype.predict = function predict(features) {
-  if (features.length !== this.weights.length) {
-    return null;
-  }
-  var score2 = 0;
-  for (var i = 0; i < this.weights.length; i++) {
-    score2 += this.weights[i] * features[i];
-  }
-  score2 += this.bias;
-  if (score2 > 0) {
-    return 1;
-  } else {
-    return 0;
-  }
-};
-PerceptronModel.prototype.train = function train2(features, label) {
-  if (label !== 0 && label !== 1) {
-    return null;
-  }
-  if (features.length !== this.weights.length) {
-    this.weights = features.slice();
-    this.bias = 1;
-  }
-  var prediction = this.predict(features);
-  if (typeof prediction === "number" && prediction !== label) {
-    var gradient = label - prediction;
-    for (var i = 0; i < this.weights.length; i++) {
-      this.weights[i] += gradient * features[i];
-    }
-    this.bias += gradient;
-  }
-  return this;
-};
-
-// src/core/statistics/continued-fraction.ts
-function continuedFraction(leading, numerator, denominator, limits) {
-  const tiny = 1e-300;
-  let value = leading === 0 ? tiny : leading;
-  let c = value;
-  let d = 0;
-  for (let j = 1; j <= limits.maxTerms; j++) {
-    const a = numerator(j);
-    const b = denominator(j);
-    d = b + a * d;
-    if (Math.abs(d) < tiny) d = tiny;
-    c = b + a / c;
-    if (Math.abs(c) < tiny) c = tiny;
-    d = 1 / d;
-    const step = c * d;
-    value *= step;
-    if (Math.abs(step - 1) < 1e-15) return value;
-  }
-  throw new InternalError(`${limits.caller}: continued fraction did not converge in ${limits.maxTerms} terms`);
-}
-
-// src/core/statistics/regularized-incomplete-gamma.ts
-function regularizedIncompleteGamma(a, x) {
-  if (!(a > 0 && a < Infinity)) throw new RangeError(`regularizedIncompleteGamma needs a finite a > 0, got ${a}`);
-  if (!(x >= 0)) throw new RangeError(`regularizedIncompleteGamma needs x >= 0, got ${x}`);
-  if (x === 0) return { lower: 0, upper: 1 };
-  if (x === Infinity) return { lower: 1, upper: 0 };
-  const front = Math.exp(a * Math.log(x) - x - gammaln(a));
-  const maxTerms = 200 + Math.ceil(20 * Math.sqrt(a));
-  if (x < a + 1) {
-    let term = 1 / a;
-    let sum2 = term;
-    for (let n = 1; ; n++) {
-      term *= x / (a + n);
-      sum2 += term;
-      if (term < sum2 * 1e-16) break;
-      if (n > maxTerms) throw new InternalError(`regularizedIncompleteGamma: series did not converge for a = ${a}, x = ${x}`);
-    }
-    const lower = front * sum2;
-    return { lower, upper: 1 - lower };
-  }
-  const upper = front / continuedFraction(
-    x + 1 - a,
-    (j) => -j * (j - a),
-    (j) => x + 1 - a + 2 * j,
-    { maxTerms, caller: "regularizedIncompleteGamma" }
-  );
-  return { lower: 1 - upper, upper };
-}
-
-// src/core/statistics/normal-quantile.ts
-function normalQuantile(p) {
-  if (!(p >= 0 && p <= 1)) throw new RangeError(`normalQuantile needs p in [0, 1], got ${p}`);
-  if (p === 0) return -Infinity;
-  if (p === 1) return Infinity;
-  if (p === 0.5) return 0;
-  const q = Math.min(p, 1 - p);
-  const density = (x2) => Math.exp(-x2 * x2 / 2) / Math.sqrt(2 * Math.PI);
-  let x;
-  let step;
-  if (q < 0.25) {
-    const logQ = Math.log(q);
-    x = Math.sqrt(-2 * logQ);
-    step = (x2) => {
-      const tail = regularizedIncompleteGamma(0.5, x2 * x2 / 2).upper / 2;
-      return (Math.log(tail) - logQ) * tail / density(x2);
-    };
-  } else {
-    const central = Math.abs(2 * p - 1);
-    x = 0;
-    step = (x2) => -(regularizedIncompleteGamma(0.5, x2 * x2 / 2).lower - central) / (2 * density(x2));
-  }
-  for (let iteration = 0; iteration < 100; iteration++) {
-    const delta = step(x);
-    x += delta;
-    if (Math.abs(delta) <= 4e-15 * x) return p < 0.5 ? -x : x;
-  }
-  throw new InternalError(`normalQuantile: Newton iteration did not converge for p = ${p}`);
-}
-
-// src/core/statistics/log-beta.ts
-function logBeta(a, b) {
-  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
-    throw new RangeError(`logBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
-  }
-  const small = Math.min(a, b);
-  const big = Math.max(a, b);
-  if (big < 10) return gammaln(a) + gammaln(b) - gammaln(a + b);
-  const logGammaRatio = (big - 0.5) * Math.log1p(small / big) + small * Math.log(big + small) - small + stirlingRemainder(big + small) - stirlingRemainder(big);
-  return gammaln(small) - logGammaRatio;
-}
-function stirlingRemainder(z3) {
-  const w = 1 / (z3 * z3);
-  return (1 / 12 - w * (1 / 360 - w * (1 / 1260 - w * (1 / 1680 - w * (1 / 1188 - w * (691 / 360360 - w / 156)))))) / z3;
-}
-
-// src/core/statistics/regularized-incomplete-beta.ts
-function regularizedIncompleteBeta(x, a, b) {
-  if (!(a > 0 && a < Infinity && b > 0 && b < Infinity)) {
-    throw new RangeError(`regularizedIncompleteBeta needs finite a > 0 and b > 0, got a = ${a}, b = ${b}`);
-  }
-  if (!(x >= 0 && x <= 1)) throw new RangeError(`regularizedIncompleteBeta needs x in [0, 1], got ${x}`);
-  if (x === 0) return 0;
-  if (x === 1) return 1;
-  const front = Math.exp(a * Math.log(x) + b * Math.log1p(-x) - logBeta(a, b));
-  if (x < (a + 1) / (a + b + 2)) return front * betaContinuedFraction(x, a, b) / a;
-  return 1 - front * betaContinuedFraction(1 - x, b, a) / b;
-}
-function betaContinuedFraction(x, a, b) {
-  const numerator = (j) => {
-    const m = j >> 1;
-    if (j % 2 === 1) return -(a + m) * (a + b + m) * x / ((a + 2 * m) * (a + 2 * m + 1));
-    return m * (b - m) * x / ((a + 2 * m - 1) * (a + 2 * m));
-  };
-  const maxTerms = 2 * (200 + Math.ceil(20 * Math.sqrt(Math.max(a, b))));
-  return 1 / continuedFraction(1, numerator, () => 1, { maxTerms, caller: "regularizedIncompleteBeta" });
-}
-
-// src/core/statistics/normal-cdf.ts
-function normalCdf(z3) {
-  if (Number.isNaN(z3)) return NaN;
-  const { lower, upper } = regularizedIncompleteGamma(0.5, z3 * z3 / 2);
-  return z3 < 0 ? upper / 2 : 0.5 + lower / 2;
-}
-
-// src/core/statistics/student-t-cdf.ts
-function studentTCdf(t, df) {
-  if (!(df > 0)) throw new RangeError(`studentTCdf needs degrees of freedom > 0, got ${df}`);
-  if (Number.isNaN(t)) return NaN;
-  if (df === Infinity) return normalCdf(t);
-  const ratio = t * t / df;
-  const x = 1 / (1 + ratio);
-  let lowerTail;
-  if (ratio > 1e300) {
-    const logX = Math.log(df) - 2 * Math.log(Math.abs(t));
-    lowerTail = Math.exp(df / 2 * logX - Math.log(df / 2) - logBeta(df / 2, 0.5)) / 2;
-  } else if (x < (df / 2 + 1) / (df / 2 + 2.5)) {
-    lowerTail = regularizedIncompleteBeta(x, df / 2, 0.5) / 2;
-  } else {
-    lowerTail = 0.5 - regularizedIncompleteBeta(ratio / (1 + ratio), 0.5, df / 2) / 2;
-  }
-  return t < 0 ? lowerTail : 1 - lowerTail;
-}
-
-// src/core/statistics/student-t-quantile.ts
-function studentTQuantile(p, df) {
-  if (!(p >= 0 && p <= 1)) throw new RangeError(`studentTQuantile needs p in [0, 1], got ${p}`);
-  if (!(df > 0)) throw new RangeError(`studentTQuantile needs degrees of freedom > 0, got ${df}`);
-  if (df === Infinity) return normalQuantile(p);
-  if (p === 0) return -Infinity;
-  if (p === 1) return Infinity;
-  if (p === 0.5) return 0;
-  const sign = p < 0.5 ? -1 : 1;
-  const q = Math.min(p, 1 - p);
-  if (df === 1) return q < 0.25 ? sign / Math.tan(Math.PI * q) : Math.tan(Math.PI * (p - 0.5));
-  if (df === 2) return sign * Math.abs(2 * p - 1) / Math.sqrt(2 * q * (1 - q));
-  return sign * upperQuantile(q, Math.abs(2 * p - 1), df);
-}
-function upperQuantile(q, central, df) {
-  const logDensityConstant = -0.5 * Math.log(df) - logBeta(df / 2, 0.5);
-  const isTail = q < 0.25;
-  const logTarget = Math.log(isTail ? q : central);
-  const evaluate = (u2) => {
-    const t = Math.exp(u2);
-    const r = t / Math.sqrt(df);
-    const logOnePlusR2 = r > 1e150 ? 2 * Math.log(r) : Math.log1p(r * r);
-    const logTimesDensity = u2 + logDensityConstant - (df + 1) / 2 * logOnePlusR2;
-    if (isTail) {
-      const logTail = Math.log(studentTCdf(-t, df));
-      return { g: logTarget - logTail, slope: Math.exp(logTimesDensity - logTail) };
-    }
-    const logCentral = Math.log(regularizedIncompleteBeta(1 / (1 + 1 / (r * r)), 0.5, df / 2));
-    return { g: logCentral - logTarget, slope: 2 * Math.exp(logTimesDensity - logCentral) };
-  };
-  const z3 = normalQuantile(1 - q);
-  const start = z3 + (z3 ** 3 + z3) / (4 * df) + (5 * z3 ** 5 + 16 * z3 ** 3 + 3 * z3) / (96 * df * df);
-  const maxU = Math.log(Number.MAX_VALUE);
-  let u = Math.min(Math.log(start), maxU);
-  let { g: g2, slope } = evaluate(u);
-  let lower = -Infinity;
-  let upper = Infinity;
-  for (let width = 1; g2 !== 0; width *= 2) {
-    if (g2 < 0) {
-      lower = u;
-      if (upper < Infinity) break;
-      if (u === maxU) return Infinity;
-      u = Math.min(u + width, maxU);
-    } else {
-      upper = u;
-      if (lower > -Infinity) break;
-      u -= width;
-    }
-    ;
-    ({ g: g2, slope } = evaluate(u));
-  }
-  for (let iteration = 0; iteration < 200; iteration++) {
-    if (g2 === 0) return Math.exp(u);
-    if (g2 < 0) lower = u;
-    else upper = u;
-    let next = u - g2 / slope;
-    if (!(next > lower && next < upper)) next = (lower + upper) / 2;
-    const change = Math.abs(next - u);
-    u = next;
-    if (change <= 1e-14 || upper - lower <= 1e-14) return Math.exp(u);
-    ({ g: g2, slope } = evaluate(u));
-  }
-  throw new InternalError(`studentTQuantile: did not converge for q = ${q}, df = ${df}`);
+  return Object.fromEntries(Object.entries(values).map(([key2, value2]) => [key2.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value2]));
 }
 
 // src/core/importance/compute-noise-floor.ts
@@ -41083,12 +41555,12 @@ function rocAuc(y, score2) {
   let pairs = 0;
   let below = 0;
   for (let i = 0; i < positives; ) {
-    const value = pos[i];
+    const value2 = pos[i];
     let runEnd = i + 1;
-    while (runEnd < positives && pos[runEnd] === value) runEnd++;
-    while (below < negatives && neg[below] < value) below++;
+    while (runEnd < positives && pos[runEnd] === value2) runEnd++;
+    while (below < negatives && neg[below] < value2) below++;
     let tied = below;
-    while (tied < negatives && neg[tied] === value) tied++;
+    while (tied < negatives && neg[tied] === value2) tied++;
     pairs += (runEnd - i) * (below + (tied - below) / 2);
     i = runEnd;
   }
@@ -41171,7 +41643,7 @@ async function measureSide(inputs, options) {
   };
 }
 function canonicalOrder(estimates, featureOrder, groups, draws) {
-  const byKey = new Map(estimates.map((e) => [`${e.isGroup ? "g" : "f"}:${e.name}`, e]));
+  const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
   const zero = (name, members2, isGroup) => ({
     name,
     members: members2,
@@ -41299,7 +41771,7 @@ function createTreeReplacementPredictor(ensemble, base) {
   const touched = [];
   const seenAt = new Int32Array(F).fill(-1);
   for (let t = 0; t < trees.length; t++) {
-    const { feature, threshold, left, right, missingGoesLeft, value } = trees[t];
+    const { feature, threshold, left, right, missingGoesLeft, value: value2 } = trees[t];
     const leaves = new Float64Array(n);
     const lists = Array.from({ length: F }, () => []);
     for (let i = 0; i < n; i++) {
@@ -41314,8 +41786,8 @@ function createTreeReplacementPredictor(ensemble, base) {
         node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
         f = feature[node2];
       }
-      leaves[i] = value[node2];
-      raw[i] += value[node2];
+      leaves[i] = value2[node2];
+      raw[i] += value2[node2];
     }
     seenAt.fill(-1);
     leaf.push(leaves);
@@ -41341,10 +41813,10 @@ function createTreeReplacementPredictor(ensemble, base) {
       if (replacedIndex.length > 0) {
         const isReplaced = new Int32Array(F).fill(-1);
         replacedIndex.forEach((f, r) => isReplaced[f] = r);
-        const mark = new Uint8Array(n);
+        const mark2 = new Uint8Array(n);
         for (let t = 0; t < trees.length; t++) {
-          const { feature, threshold, left, right, missingGoesLeft, value } = trees[t];
-          const rows = unionRows(touched[t], replacedIndex, mark);
+          const { feature, threshold, left, right, missingGoesLeft, value: value2 } = trees[t];
+          const rows = unionRows(touched[t], replacedIndex, mark2);
           const leaves = leaf[t];
           for (let k = 0; k < draws; k++) {
             const offset = k * n;
@@ -41358,7 +41830,7 @@ function createTreeReplacementPredictor(ensemble, base) {
                 node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
                 f = feature[node2];
               }
-              out[offset + i] += value[node2] - leaves[i];
+              out[offset + i] += value2[node2] - leaves[i];
             }
           }
         }
@@ -41368,18 +41840,18 @@ function createTreeReplacementPredictor(ensemble, base) {
     }
   };
 }
-function unionRows(lists, features, mark) {
+function unionRows(lists, features, mark2) {
   if (features.length === 1) return lists[features[0]];
   const rows = [];
   for (const f of features) {
     for (const i of lists[f]) {
-      if (mark[i] === 0) {
-        mark[i] = 1;
+      if (mark2[i] === 0) {
+        mark2[i] = 1;
         rows.push(i);
       }
     }
   }
-  for (const i of rows) mark[i] = 0;
+  for (const i of rows) mark2[i] = 0;
   rows.sort((a, b) => a - b);
   return Int32Array.from(rows);
 }
@@ -41428,7 +41900,7 @@ var BoostedModel = class {
   }
 };
 function addTree(tree, columns, n, score2) {
-  const { feature, threshold, left, right, missingGoesLeft, value } = tree;
+  const { feature, threshold, left, right, missingGoesLeft, value: value2 } = tree;
   for (let i = 0; i < n; i++) {
     let node2 = 0;
     let f = feature[0];
@@ -41438,7 +41910,7 @@ function addTree(tree, columns, n, score2) {
       node2 = goLeft ? left[node2] : right[node2];
       f = feature[node2];
     }
-    score2[i] += value[node2];
+    score2[i] += value2[node2];
   }
 }
 
@@ -41470,12 +41942,12 @@ function resolveTrainingSubset(caller, shape, target, task, options) {
   const used = features === void 0 ? Array.from({ length: shape.features }, (_, j) => j) : [...new Set(features)].sort((a, b) => a - b);
   const y = new Float64Array(positions.length);
   for (let p = 0; p < positions.length; p++) {
-    const value = target[positions[p]];
-    if (!Number.isFinite(value) || task === "binary" && value !== 0 && value !== 1) {
+    const value2 = target[positions[p]];
+    if (!Number.isFinite(value2) || task === "binary" && value2 !== 0 && value2 !== 1) {
       const rule2 = task === "binary" ? "binary targets must be 0 or 1" : "regression targets must be finite";
-      throw new RangeError(`${caller}: target of row ${positions[p]} is ${value}; ${rule2}`);
+      throw new RangeError(`${caller}: target of row ${positions[p]} is ${value2}; ${rule2}`);
     }
-    y[p] = value;
+    y[p] = value2;
   }
   return { positions, features: used, y };
 }
@@ -41551,7 +42023,7 @@ function gatherRowMajor(codes, used, positions) {
   const out = new Uint8Array(positions.length * width);
   for (let k = 0; k < width; k++) {
     const column = codes[used[k]];
-    for (let p = 0, at3 = k; p < positions.length; p++, at3 += width) out[at3] = column[positions[p]];
+    for (let p = 0, at4 = k; p < positions.length; p++, at4 += width) out[at4] = column[positions[p]];
   }
   return out;
 }
@@ -41890,10 +42362,10 @@ var TreeGrower = class {
   }
   /** Adds this tree's leaf values to the training scores of every position (sampled or not). */
   addToScores(score2, rowCount) {
-    const { order: order3, feature, value, begin, end } = this;
+    const { order: order3, feature, value: value2, begin, end } = this;
     for (let node2 = 0; node2 < this.nodeCount; node2++) {
       if (feature[node2] >= 0) continue;
-      const v = value[node2];
+      const v = value2[node2];
       for (let i = begin[node2]; i < end[node2]; i++) score2[order3[i]] += v;
     }
     if (rowCount === score2.length) return;
@@ -41908,7 +42380,7 @@ var TreeGrower = class {
         const goLeft = code2 === MISSING_BIN ? missingLeft[node2] === 1 : code2 <= splitBin[node2];
         node2 = goLeft ? left[node2] : right[node2];
       }
-      score2[p] += value[node2];
+      score2[p] += value2[node2];
     }
   }
   addSplitStatistics(gainByFeature, splitsByFeature) {
@@ -42107,18 +42579,18 @@ function buildStandardizedDesign(caller, task, matrix, target, options) {
     const values = matrix.columns[features[s]];
     if (spec.kind === "numeric") {
       if (spec.column < 0) return;
-      for (let p = 0, at3 = spec.column; p < n; p++, at3 += width) {
+      for (let p = 0, at4 = spec.column; p < n; p++, at4 += width) {
         const x = values[positions[p]];
-        design[at3] = x !== x ? 0 : (x - spec.mean) / spec.sd;
+        design[at4] = x !== x ? 0 : (x - spec.mean) / spec.sd;
       }
       return;
     }
     for (let l = 1; l < spec.levels.length; l++) {
       const level = spec.levels[l];
       const frequency = spec.frequencies[l];
-      for (let p = 0, at3 = spec.firstColumn + l - 1; p < n; p++, at3 += width) {
+      for (let p = 0, at4 = spec.firstColumn + l - 1; p < n; p++, at4 += width) {
         const code2 = values[positions[p]];
-        design[at3] = code2 !== code2 ? 0 : (code2 === level ? 1 : 0) - frequency;
+        design[at4] = code2 !== code2 ? 0 : (code2 === level ? 1 : 0) - frequency;
       }
     }
   });
@@ -42186,9 +42658,9 @@ function describeCategorical(caller, name, values, positions, dictionarySize, fi
   const frequencies = levels.map((level) => counts.get(level) / present);
   return { kind: "categorical", dictionarySize: dictionarySize ?? 0, levels, frequencies, firstColumn };
 }
-function collinearityError(caller, label) {
+function collinearityError(caller, label2) {
   return new UserError(
-    `${caller}: '${label}' is a linear combination of the features before it on the training rows, so the unpenalized fit has no unique coefficients.`,
+    `${caller}: '${label2}' is a linear combination of the features before it on the training rows, so the unpenalized fit has no unique coefficients.`,
     "Give the linear learner a positive l2 penalty, or drop one of the collinear features."
   );
 }
@@ -42243,10 +42715,10 @@ function computeObjective(design, theta, l2, eta) {
   const { rows: n, width: q, values: z3, y } = design;
   let sum2 = 0;
   for (let i = 0, row = 0; i < n; i++, row += q) {
-    let e = theta[0];
-    for (let a = 0; a < q; a++) e += z3[row + a] * theta[a + 1];
-    eta[i] = e;
-    sum2 += (e > 0 ? e + Math.log1p(Math.exp(-e)) : Math.log1p(Math.exp(e))) - y[i] * e;
+    let e2 = theta[0];
+    for (let a = 0; a < q; a++) e2 += z3[row + a] * theta[a + 1];
+    eta[i] = e2;
+    sum2 += (e2 > 0 ? e2 + Math.log1p(Math.exp(-e2)) : Math.log1p(Math.exp(e2))) - y[i] * e2;
   }
   let penalty = 0;
   for (let a = 1; a <= q; a++) penalty += theta[a] * theta[a];
@@ -42268,9 +42740,9 @@ function newtonSystem(design, theta, l2, eta) {
       if (za === 0) continue;
       const wa = w * za;
       gradient[a + 1] += residual * za;
-      const at3 = (a + 1) * size;
-      hessian[at3] += wa;
-      for (let b = 0; b <= a; b++) hessian[at3 + b + 1] += wa * z3[row + b];
+      const at4 = (a + 1) * size;
+      hessian[at4] += wa;
+      for (let b = 0; b <= a; b++) hessian[at4 + b + 1] += wa * z3[row + b];
     }
   }
   for (let a = 1; a <= q; a++) {
@@ -42475,6 +42947,16 @@ function differingTargets(base, head) {
 function rankFeatures(importances) {
   return importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
 }
+function sideRanks(importances) {
+  const ranks = /* @__PURE__ */ new Map();
+  for (const isGroup of [false, true]) {
+    importances.filter((u) => u.isGroup === isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).forEach((u, i) => ranks.set(rankKey(u), i + 1));
+  }
+  return ranks;
+}
+function rankKey(unit) {
+  return `${unit.isGroup}:${unit.name}`;
+}
 function positiveShare(importances, name) {
   let total = 0;
   let own2 = 0;
@@ -42495,8 +42977,8 @@ function mean2(values) {
 // src/core/checks/leakage.ts
 function unevaluated(head, options, metricName) {
   if (options.action === "off") return [];
-  const undefinedFor = Object.entries(head.singleFeatureSeparation).filter(([, value]) => !Number.isFinite(value)).map(([name]) => name).sort();
-  const fullUndefined = head.separation.length > 0 && !head.separation.some((value) => Number.isFinite(value));
+  const undefinedFor = Object.entries(head.singleFeatureSeparation).filter(([, value2]) => !Number.isFinite(value2)).map(([name]) => name).sort();
+  const fullUndefined = head.separation.length > 0 && !head.separation.some((value2) => Number.isFinite(value2));
   if (undefinedFor.length === 0 && !fullUndefined) return [];
   const why = options.task === "binary" ? "the holdout holds one class only, so AUC is undefined" : "the holdout target is constant, so R² is undefined";
   const shown = undefinedFor.slice(0, 5).join(", ") + (undefinedFor.length > 5 ? ` and ${undefinedFor.length - 5} more` : "");
@@ -42594,8 +43076,8 @@ function checkLeakage(context, options) {
         kind: "leakage",
         severity,
         feature: top.name,
-        title: `${top.name} dominates the model (${pct(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
-        message: `${top.name} carries ${pct(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${pct(relative3)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${pct(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${pct(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
+        title: `${top.name} dominates the model (${formatPercent(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
+        message: `${top.name} carries ${formatPercent(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${formatPercent(relative3)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${formatPercent(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${formatPercent(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
         evidence: {
           share,
           baseShare,
@@ -42624,18 +43106,11 @@ function separationJump(base, head) {
   const sd = Math.sqrt((vb + vh) / 2);
   return sd > 0 ? (mh - mb) / sd : NaN;
 }
-function fmt(value) {
-  if (value === void 0 || !Number.isFinite(value)) return "n/a";
-  if (value === 0) return "0";
-  const abs = Math.abs(value);
-  if (abs >= 1e3 || abs < 1e-3) return value.toExponential(2);
-  return Number(value.toPrecision(3)).toString();
-}
-function pct(value) {
-  return Number.isFinite(value) ? `${Math.round(value * 100)}%` : "n/a";
+function fmt(value2) {
+  return value2 === void 0 ? "n/a" : formatNumber(value2);
 }
 function fmtRatio(ratio) {
-  return Number.isFinite(ratio) ? `${fmt(ratio)}×` : "infinitely";
+  return Number.isFinite(ratio) ? formatRatio(ratio) : "infinitely";
 }
 
 // src/core/statistics/kendall-tau-b.ts
@@ -42799,8 +43274,8 @@ function checkRankAgreement(base, head, options) {
     findings.push({
       kind: "rank-agreement",
       severity: options.action,
-      title: `The feature ranking changed more than reseeding alone changes it (Kendall tau-b ${fmt(kendallTau)}, RBO ${fmt(rankBiased)}).`,
-      message: `Over ${names.length} features above the noise floor, base and head refits agree with Kendall tau-b ${fmt(kendallTau)} and rank-biased overlap ${fmt(rankBiased)} (RBO_EXT, p = ${options.persistence}); two refits with other seeds agree at least ${fmt(tauThreshold)} and ${fmt(rboThreshold)} in ${100 - options.agreementPercentile}% of pairs.`,
+      title: `The feature ranking changed more than reseeding alone changes it (Kendall tau-b ${formatNumber(kendallTau)}, RBO ${formatNumber(rankBiased)}).`,
+      message: `Over ${names.length} features above the noise floor, base and head refits agree with Kendall tau-b ${formatNumber(kendallTau)} and rank-biased overlap ${formatNumber(rankBiased)} (RBO_EXT, p = ${options.persistence}); two refits with other seeds agree at least ${formatNumber(tauThreshold)} and ${formatNumber(rboThreshold)} in ${100 - options.agreementPercentile}% of pairs.`,
       evidence: {
         kendallTau,
         rankBiasedOverlap: rankBiased,
@@ -42907,6 +43382,8 @@ function checkRankShift(base, head, options) {
   const compared = pairs.filter((p) => !p.isGroup && (p.b.isAboveFloor || p.h.isAboveFloor));
   const baseRank = rankWithin(compared.map((p) => p.b));
   const headRank = rankWithin(compared.map((p) => p.h));
+  const baseSideRank = sideRanks(base.importances);
+  const headSideRank = sideRanks(head.importances);
   const shifts = /* @__PURE__ */ new Map();
   const findings = [];
   pairs.forEach((p, index) => {
@@ -42929,13 +43406,15 @@ function checkRankShift(base, head, options) {
     const movesEnough = positionsMoved !== null && Math.abs(positionsMoved) >= options.minPositions || relativeChange >= options.minRelativeChange;
     if (options.action !== "off" && isSignificant && isCompared && movesEnough) {
       const direction = difference > 0 ? "rose" : "fell";
-      const moved = positionsMoved === null || positionsMoved === 0 ? "kept its rank" : `moved from rank ${baseRank.get(p.name)} to ${headRank.get(p.name)}`;
+      const fromRank = baseSideRank.get(rankKey(p));
+      const toRank = headSideRank.get(rankKey(p));
+      const rank = fromRank === toRank ? `still rank ${fromRank}` : `rank ${fromRank} → ${toRank}`;
       findings.push({
         kind: "rank-shift",
         severity: options.action,
         feature: p.name,
-        title: `${p.name}'s importance ${direction} from ${fmt(p.b.mean)} to ${fmt(p.h.mean)} (${pct(relativeChange)}) and ${moved}.`,
-        message: `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits, Welch's t = ${fmt(test.t)} (df ${fmt(test.df)}), p = ${fmt(test.pValue)}, Benjamini–Hochberg adjusted p = ${fmt(adjusted[index])} against a false discovery rate of ${options.falseDiscoveryRate}. Reseed noise (refit SD) is ${fmt(p.b.refitSd)} on the base side and ${fmt(p.h.refitSd)} on the head.`,
+        title: `${p.name}'s importance ${direction} from ${formatNumber(p.b.mean)} to ${formatNumber(p.h.mean)} (${formatChange(p.b.mean, p.h.mean)}; ${rank}).`,
+        message: `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits the change is beyond reseed noise: Welch's t = ${formatNumber(test.t)} (df ${formatNumber(test.df)}), ${formatPStatement("p", test.pValue)}, ${formatPStatement("Benjamini–Hochberg adjusted p", adjusted[index])} against a false discovery rate of ${options.falseDiscoveryRate}. Reseed noise (refit SD) is ${formatNumber(p.b.refitSd)} on the base side and ${formatNumber(p.h.refitSd)} on the head.`,
         evidence: {
           baseMean: p.b.mean,
           headMean: p.h.mean,
@@ -42946,18 +43425,18 @@ function checkRankShift(base, head, options) {
           welchDf: test.df,
           pValue: test.pValue,
           adjustedPValue: adjusted[index],
-          baseRank: baseRank.get(p.name) ?? null,
-          headRank: headRank.get(p.name) ?? null
+          baseRank: fromRank,
+          headRank: toRank
         }
       });
     }
-    if (!p.isGroup && p.b.isAboveFloor && !p.h.isAboveFloor) {
+    if (!p.isGroup && p.b.isAboveFloor && !p.h.isAboveFloor && difference < 0) {
       findings.push({
         kind: "floor-drop",
         severity: "info",
         feature: p.name,
-        title: `${p.name} fell to the noise floor (importance ${fmt(p.b.mean)} on the base side, ${fmt(p.h.mean)} now).`,
-        message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] does not lie above zero: the candidate model no longer measurably relies on it.`,
+        title: `${p.name} fell to the noise floor: importance ${formatNumber(p.b.mean)} on the base side, ${formatNumber(p.h.mean)} on the head (${formatChange(p.b.mean, p.h.mean)}).`,
+        message: `On the head side the 95% interval of ${p.name}'s importance [${formatNumber(p.h.lower)}, ${formatNumber(p.h.upper)}] does not lie above zero: the candidate model no longer measurably relies on it.`,
         evidence: { baseMean: p.b.mean, headMean: p.h.mean, headLower: p.h.lower, headUpper: p.h.upper }
       });
     }
@@ -43004,8 +43483,8 @@ function checkScoreRegression(evidence, options) {
     {
       kind: "score-regression",
       severity,
-      title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (by ${fmt(worsening)}, beyond noise).`,
-      message: `The candidate's mean holdout ${options.metric} is ${fmt(headMean)} against ${fmt(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${fmt(worsening)} exceeds the tolerance of ${options.tolerance} with one-sided p = ${fmt(pValue)} (standard error ${fmt(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${fmt(df)} over reseeded refits`) + `; level ${options.alpha}).`,
+      title: `Holdout ${options.metric} got worse: ${formatNumber(baseMean)} → ${formatNumber(headMean)} (${formatChange(baseMean, headMean)}, beyond reseed noise).`,
+      message: `The candidate's mean holdout ${options.metric} is ${formatNumber(headMean)} against ${formatNumber(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${formatNumber(worsening)} exceeds the tolerance of ${options.tolerance} with ${formatPStatement("one-sided p", pValue)} (standard error ${formatNumber(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${formatNumber(df)} over reseeded refits`) + `; level ${options.alpha}).`,
       evidence: {
         baseMean,
         headMean,
@@ -43036,6 +43515,83 @@ function summary(values) {
 function tailAbove(excess, se, upperTail) {
   if (!(se > 0)) return excess > 0 ? 0 : 1;
   return upperTail(excess / se);
+}
+
+// src/core/checks/group-consequences.ts
+var strongShare = 0.1;
+var toleranceSds = 2;
+var toleranceRelative = 0.2;
+var severityOrder = { block: 0, warn: 1, info: 2 };
+function groupConsequences(findings, sides, featureSet) {
+  const { base, head } = sides;
+  const unit = (side2, name) => side2.importances.find((u) => !u.isGroup && u.name === name);
+  const strong = (side2, names2) => names2.map((name) => ({ name, unit: unit(side2, name), share: positiveShare(side2.importances, name) })).filter((x) => x.unit?.isAboveFloor && x.share >= strongShare);
+  const added = strong(head, featureSet.added);
+  const removed = strong(base, featureSet.removed);
+  if (added.length === 0 && removed.length === 0) return [...findings];
+  const headNames = new Set(head.importances.filter((u) => !u.isGroup).map((u) => u.name));
+  const shared = base.importances.filter((u) => !u.isGroup && headNames.has(u.name));
+  const total = (side2) => shared.reduce((sum2, b) => sum2 + Math.max(0, unit(side2, b.name).mean), 0);
+  const baseTotal = total(base);
+  const headTotal = total(head);
+  if (!(baseTotal > 0)) return [...findings];
+  const factor = headTotal / baseTotal;
+  const order3 = (side2) => new Map(
+    shared.map((b) => unit(side2, b.name)).sort((x, y) => y.mean - x.mean || (x.name < y.name ? -1 : 1)).map((u, i) => [u.name, i])
+  );
+  const baseOrder = order3(base);
+  const headOrder = order3(head);
+  const explained = [];
+  const kept = [];
+  for (const finding of findings) {
+    const isShift = finding.kind === "rank-shift" || finding.kind === "floor-drop";
+    const b = isShift && finding.feature !== void 0 ? unit(base, finding.feature) : void 0;
+    const h = b ? unit(head, b.name) : void 0;
+    if (!b || !h || !baseOrder.has(b.name)) {
+      kept.push(finding);
+      continue;
+    }
+    const expected = b.mean * factor;
+    const pooledSd2 = Math.sqrt((b.refitSd ** 2 + h.refitSd ** 2) / 2);
+    const tolerance = Math.max(toleranceSds * pooledSd2, toleranceRelative * Math.abs(expected));
+    const sameDirection = Math.sign(h.mean - b.mean) === Math.sign(factor - 1);
+    const sameOrder = baseOrder.get(b.name) === headOrder.get(b.name) || !h.isAboveFloor;
+    if (sameDirection && sameOrder && Math.abs(h.mean - expected) <= tolerance) {
+      explained.push({ finding, change: `${b.name} ${formatChange(b.mean, h.mean)}` });
+    } else kept.push(finding);
+  }
+  const consequences = kept.filter((f) => f.kind === "rank-shift" || f.kind === "rank-agreement" || f.kind === "floor-drop");
+  if (explained.length === 0 && !consequences.some((f) => f.severity !== "info")) return [...findings];
+  const features = [...new Map(explained.map((x) => [x.finding.feature, x.change])).entries()];
+  const atFloor = explained.filter((x) => x.finding.kind === "floor-drop").length;
+  const severity = [...explained.map((x) => x.finding), ...consequences].map((f) => f.severity).reduce((worst, s) => severityOrder[s] < severityOrder[worst] ? s : worst, "info");
+  const count4 = `${features.length} ${features.length === 1 ? "feature" : "features"}`;
+  const cause = added.length > 0 ? added : removed;
+  const names = cause.map((x) => x.name).join(", ");
+  const shares = cause.map((x) => formatPercent(x.share)).join(", ");
+  const them = cause.length === 1 ? "it" : "them";
+  const effect = features.length === 0 ? `no other feature moved in proportion to ${them}` : added.length > 0 ? `${count4} lost share to ${them} in proportion` : `${count4} gained ${cause.length === 1 ? "its" : "their"} share in proportion`;
+  const title = added.length > 0 ? `${names}, new in this pull request, took ${shares} of the head model's importance; ${effect}.` : `${names}, removed in this pull request, held ${shares} of the base model's importance; ${effect}.`;
+  const message = `The shared features' total importance went from ${formatNumber(baseTotal)} to ${formatNumber(headTotal)} (${formatChange(baseTotal, headTotal)})` + (features.length === 0 ? ". " : `, and these moved with it, each within ${toleranceSds} reseed SDs or ${formatPercent(toleranceRelative)} of its proportional value and in the same order: ${features.map(([, change]) => change).join(", ")}. `) + (atFloor > 0 ? `${atFloor} of them fell to the noise floor on the way. ` : "") + (consequences.length > 0 ? `${consequences.length} other ${consequences.length === 1 ? "shift is" : "shifts are"} not explained by the redistribution and ${consequences.length === 1 ? "is" : "are"} reported on ${consequences.length === 1 ? "its" : "their"} own.` : "No other shift is reported.");
+  const grouped = {
+    kind: "share-redistribution",
+    severity,
+    feature: cause[0].name,
+    title,
+    message,
+    evidence: {
+      cause: names,
+      causeShare: cause[0].share,
+      direction: added.length > 0 ? "added" : "removed",
+      featuresExplained: features.length,
+      fellToFloor: atFloor,
+      sharedTotalBase: baseTotal,
+      sharedTotalHead: headTotal,
+      proportionalFactor: factor,
+      explained: features.map(([name]) => name).join(", ")
+    }
+  };
+  return [...kept, grouped];
 }
 
 // src/core/statistics/paired-bootstrap.ts
@@ -43082,17 +43638,20 @@ function runChecks(inputs) {
     { baseScores: base.scores, headScores: head.scores, pairedBootstrap: bootstrap },
     { ...settings.checks.score, metric: metric.name, higherIsBetter: metric.higherIsBetter }
   );
-  const findings = sortFindings(
-    demoteConsequences([
-      ...holdoutFindings,
-      ...leakage,
-      ...score2,
-      ...shift.findings,
-      ...agreement.findings,
-      ...featureSetFindings(featureSet, results.head),
-      ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers })
-    ])
-  );
+  const demoted = demoteConsequences([
+    ...holdoutFindings,
+    ...leakage,
+    ...score2,
+    ...shift.findings,
+    ...agreement.findings,
+    ...featureSetFindings(featureSet, results.head),
+    ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers })
+  ]);
+  const findings = orderFindings(groupConsequences(demoted, results, featureSet), {
+    added: featureSet.added,
+    removed: featureSet.removed,
+    changed: inputs.changed
+  });
   return { findings, shifts: shift.shifts, agreement: agreement.agreement };
 }
 function holdoutIdentity(holdout) {
@@ -43201,11 +43760,11 @@ function createStopwatch(now) {
   const timings = {};
   return {
     timings,
-    async time(label, work) {
+    async time(label2, work) {
       const start = now?.();
-      const value = await work();
-      if (now && start !== void 0) timings[label] = now() - start;
-      return value;
+      const value2 = await work();
+      if (now && start !== void 0) timings[label2] = now() - start;
+      return value2;
     }
   };
 }
@@ -43333,10 +43892,7 @@ function featureRows(base, head, shifts, baseTrain, headTrain) {
   const kindOf = /* @__PURE__ */ new Map();
   for (const f of [...baseTrain.features, ...headTrain.features]) kindOf.set(f.name, f.kind);
   const stats = (side2) => {
-    const ranks = /* @__PURE__ */ new Map();
-    const order3 = (units) => units.sort((a, b2) => b2.mean - a.mean || (a.name < b2.name ? -1 : 1)).forEach((u, i) => ranks.set(`${u.isGroup}:${u.name}`, i + 1));
-    order3(side2.importances.filter((u) => !u.isGroup));
-    order3(side2.importances.filter((u) => u.isGroup));
+    const ranks = sideRanks(side2.importances);
     return new Map(
       side2.importances.map((u) => [
         `${u.isGroup}:${u.name}`,
@@ -43584,7 +44140,10 @@ async function resolveConfinedOutput(target, options) {
 // src/adapters/files/read-dataset.ts
 async function readDataset(path, options = {}) {
   const { cwd = process.cwd(), source = path, key: key2, rootName, ...parseOptions } = options;
-  const problem = (what) => new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, "Check the path: a relative path is read from that directory.");
+  const problem = (what) => options.source === void 0 ? new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, "Check the path: a relative path is read from that directory.") : new UserError(
+    `Cannot read the data file ${source}: ${what} in that side's commit.`,
+    "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'."
+  );
   const limits = {
     maxBytes: readLimits.data,
     what: "data file",
@@ -43618,13 +44177,13 @@ function childEnvironment(extra = {}, options = {}) {
   const source = options.source ?? process.env;
   const allowed = /* @__PURE__ */ new Set([...commonNames, ...options.purpose === "git" ? gitNames : toolNames]);
   const kept = {};
-  for (const [name, value] of Object.entries(source)) {
-    if (value === void 0) continue;
+  for (const [name, value2] of Object.entries(source)) {
+    if (value2 === void 0) continue;
     const isListed = allowed.has(name) || name.startsWith("PLUMBLINE_") || name.startsWith("LC_");
-    if (isListed && (name === "SSH_AUTH_SOCK" || !secretLookingName.test(name))) kept[name] = value;
+    if (isListed && (name === "SSH_AUTH_SOCK" || !secretLookingName.test(name))) kept[name] = value2;
   }
-  for (const [name, value] of Object.entries(extra)) {
-    if (!secretLookingName.test(name)) kept[name] = value;
+  for (const [name, value2] of Object.entries(extra)) {
+    if (!secretLookingName.test(name)) kept[name] = value2;
   }
   return kept;
 }
@@ -43632,10 +44191,10 @@ function childEnvironment(extra = {}, options = {}) {
 // src/adapters/security/secrets.ts
 var secrets = /* @__PURE__ */ new Set();
 var redactedMark = "***";
-function registerSecret(value) {
-  if (value === void 0) return;
-  const trimmed = value.trim();
-  for (const candidate of [value, trimmed]) {
+function registerSecret(value2) {
+  if (value2 === void 0) return;
+  const trimmed = value2.trim();
+  for (const candidate of [value2, trimmed]) {
     if (candidate.length < 4) continue;
     secrets.add(candidate);
     secrets.add(JSON.stringify(candidate).slice(1, -1));
@@ -43655,12 +44214,12 @@ function redactSecrets(text3) {
   }
   return result;
 }
-function redactDeep(value, depth = 0) {
-  if (typeof value === "string") return redactSecrets(value);
-  if (secrets.size === 0 || depth > 64 || value === null || typeof value !== "object") return value;
-  if (Array.isArray(value)) return value.map((item) => redactDeep(item, depth + 1));
+function redactDeep(value2, depth = 0) {
+  if (typeof value2 === "string") return redactSecrets(value2);
+  if (secrets.size === 0 || depth > 64 || value2 === null || typeof value2 !== "object") return value2;
+  if (Array.isArray(value2)) return value2.map((item) => redactDeep(item, depth + 1));
   const copy = {};
-  for (const [key2, item] of Object.entries(value)) copy[redactSecrets(key2)] = redactDeep(item, depth + 1);
+  for (const [key2, item] of Object.entries(value2)) copy[redactSecrets(key2)] = redactDeep(item, depth + 1);
   return copy;
 }
 
@@ -44150,15 +44709,15 @@ function columnTensor(input2, feature, column, start, end, source) {
     case "int64": {
       const data = new BigInt64Array(rows);
       for (let i = 0; i < rows; i++) {
-        const value = column[start + i];
-        if (!Number.isInteger(value)) {
-          const what = Number.isNaN(value) ? "a missing value" : `the value ${value}`;
+        const value2 = column[start + i];
+        if (!Number.isInteger(value2)) {
+          const what = Number.isNaN(value2) ? "a missing value" : `the value ${value2}`;
           throw new UserError(
             `The ONNX model '${source}' takes column '${input2.name}' as int64, but the data has ${what} there (row ${start + i + 1} of the rows scored).`,
             `Export the model with a float input for '${input2.name}' (float inputs take missing values as NaN), or fill in the column before training and scoring.`
           );
         }
-        data[i] = BigInt(value);
+        data[i] = BigInt(value2);
       }
       return new import_onnxruntime_node.default.Tensor("int64", data, dims);
     }
@@ -44173,9 +44732,9 @@ function columnTensor(input2, feature, column, start, end, source) {
         if (Number.isNaN(code2)) {
           data[i] = "";
         } else {
-          const label = categories[code2];
-          if (label === void 0) throw new InternalError(`column '${input2.name}' has code ${code2} outside its ${categories.length} categories`);
-          data[i] = label;
+          const label2 = categories[code2];
+          if (label2 === void 0) throw new InternalError(`column '${input2.name}' has code ${code2} outside its ${categories.length} categories`);
+          data[i] = label2;
         }
       }
       return new import_onnxruntime_node.default.Tensor("string", data, dims);
@@ -44184,7 +44743,7 @@ function columnTensor(input2, feature, column, start, end, source) {
       throw new InternalError(`unplanned input type ${input2.type}`);
   }
 }
-var isFloatTensor = (value) => value.isTensor && (value.type === "float32" || value.type === "float64");
+var isFloatTensor = (value2) => value2.isTensor && (value2.type === "float32" || value2.type === "float64");
 function outputError(problem, outputs, fix) {
   return new UserError(`${problem}
 Model outputs: ${describeValues(outputs)}`, fix);
@@ -44201,8 +44760,8 @@ function planRegressionOutput(outputs, source) {
   }
   return {
     name: output2.name,
-    copy(value, start, end, out) {
-      const tensor = value;
+    copy(value2, start, end, out) {
+      const tensor = value2;
       const rows = end - start;
       const dims = tensor.dims;
       if (!(dims[0] === rows && (dims.length === 1 || dims.length === 2 && dims[1] === 1))) {
@@ -44237,8 +44796,8 @@ function planProbabilityOutput(outputs, options, summary2) {
   const positive = positiveColumn(options.positiveClass, labels, source, output2.name);
   return {
     name: output2.name,
-    copy(value, start, end, out) {
-      const tensor = value;
+    copy(value2, start, end, out) {
+      const tensor = value2;
       const rows = end - start;
       if (!(tensor.dims.length === 2 && tensor.dims[0] === rows && tensor.dims[1] === 2)) {
         throw outputError(`The ONNX model '${source}' output '${output2.name}' came back with shape [${tensor.dims.join(", ")}] for ${rows} rows; a binary model's probabilities must be [N, 2].`, outputs, fix);
@@ -44367,7 +44926,7 @@ Command: ${cleanOutsideText(request.command)}
 ${describeLog(logTail)}`,
     fix
   );
-  const reproduce = `To reproduce it, run the command in ${request.cwd} with ${Object.entries(env).map(([name, value]) => `${name}=${shellQuote(value)}`).join(" ")}`;
+  const reproduce = `To reproduce it, run the command in ${request.cwd} with ${Object.entries(env).map(([name, value2]) => `${name}=${shellQuote(value2)}`).join(" ")}`;
   if (outcome.startError) {
     throw new UserError(
       `The training command for ${request.label} could not be started in ${request.cwd}: ${outcome.startError.message}`,
@@ -44464,8 +45023,8 @@ function describeLog(logTail) {
   return `${count4 === 1 ? "The last line" : `The last ${count4} lines`} of its output:
 ${logTail}`;
 }
-function shellQuote(value) {
-  return /^[\w@%+=:,./-]+$/.test(value) ? value : `'${value.replace(/'/g, `'\\''`)}'`;
+function shellQuote(value2) {
+  return /^[\w@%+=:,./-]+$/.test(value2) ? value2 : `'${value2.replace(/'/g, `'\\''`)}'`;
 }
 
 // src/adapters/training/create-command-fit.ts
@@ -44497,9 +45056,9 @@ function createCommandFit(options) {
   const limit = createSemaphore(options.parallel);
   const stop = new AbortController();
   let firstFailure;
-  const fail = (label, error62) => {
+  const fail = (label2, error62) => {
     if (firstFailure === void 0) {
-      firstFailure = `the training command for ${label} failed`;
+      firstFailure = `the training command for ${label2} failed`;
       stop.abort(firstFailure);
     }
     throw error62;
@@ -44507,10 +45066,10 @@ function createCommandFit(options) {
   return async (request) => {
     const side2 = options.sides[request.side];
     if (!side2) throw new RangeError(`createCommandFit has no checkout for side '${request.side}'`);
-    const label = describeFit(request);
+    const label2 = describeFit(request);
     const bytes = await limit(async () => {
       if (firstFailure !== void 0) {
-        throw new UserError(`The training command for ${label} was not run, because ${firstFailure}.`);
+        throw new UserError(`The training command for ${label2} was not run, because ${firstFailure}.`);
       }
       const directory = await mkdtemp2(join3(options.temporaryRoot ?? tmpdir2(), "plumbline-train-"));
       try {
@@ -44520,13 +45079,13 @@ function createCommandFit(options) {
           timeoutSeconds: options.timeoutSeconds,
           env: trainingEnvironment(request, side2),
           outputPath: join3(directory, "model.onnx"),
-          label,
+          label: label2,
           signal: stop.signal
         });
-        options.onTrained?.({ label, seconds: result.seconds, logTail: result.logTail });
+        options.onTrained?.({ label: label2, seconds: result.seconds, logTail: result.logTail });
         return result.bytes;
       } catch (error62) {
-        return fail(label, error62);
+        return fail(label2, error62);
       } finally {
         await rm3(directory, { recursive: true, force: true });
       }
@@ -44534,14 +45093,14 @@ function createCommandFit(options) {
     const leftOut = new Set(request.leaveOut);
     try {
       return await loadOnnxModel(bytes, {
-        source: `$PLUMBLINE_OUTPUT of ${label}`,
+        source: `$PLUMBLINE_OUTPUT of ${label2}`,
         task: options.task,
         features: options.features.filter((f) => !leftOut.has(f.name)),
         positiveClass: options.positiveClass,
         batchRows: options.batchRows
       });
     } catch (error62) {
-      return fail(label, error62);
+      return fail(label2, error62);
     }
   };
 }
@@ -44736,7 +45295,7 @@ async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
     tables[file2.role] = await readDataset(file2.path, {
       ...readOptions,
       key: file2.key,
-      source: `${side2}:${file2.path}`,
+      source: `${side2}: ${file2.path}`,
       requireTarget: file2.requireTarget,
       ...file2.conformToTrain ? { schema: schemaOf(tables.train) } : {}
     });
@@ -44753,7 +45312,7 @@ var smallRows = { train: 200, holdout: 100 };
 function checkSizes(side2, config2, train3, holdout, log) {
   if (train3.features.length === 0) {
     throw new UserError(
-      `${side2}:${config2.data.train} has no feature column: every column is the target, the id or ignored.`,
+      `${side2}: ${config2.data.train} has no feature column: every column is the target, the id or ignored.`,
       "Add the feature columns to the file, or change their roles under 'data.columns' in the policy."
     );
   }
@@ -44761,7 +45320,7 @@ function checkSizes(side2, config2, train3, holdout, log) {
   for (const [which, data, name] of [["train", train3, config2.data.train], ["holdout", holdout, holdoutName]]) {
     if (data.rows < minimumRows[which]) {
       throw new UserError(
-        `${side2}:${name} has ${data.rows} ${which === "train" ? "training" : "holdout"} row${data.rows === 1 ? "" : "s"}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
+        `${side2}: ${name} has ${data.rows} ${which === "train" ? "training" : "holdout"} row${data.rows === 1 ? "" : "s"}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
         which === "train" ? "Point data.train at the full training table." : "Give the holdout more rows (data.holdout), or a larger 'fraction' for a split."
       );
     }
@@ -44780,7 +45339,7 @@ var usage = {
   top: `plumbline: a pull-request gate for model features.
 
 Usage:
-  plumbline check [--policy FILE] [--base REF] [--head REF] [--json FILE] [--markdown FILE]
+  plumbline check [--policy FILE] [--base REF] [--head REF] [--json FILE] [--markdown FILE] [--html FILE] [--quiet]
   plumbline init [--train FILE] [--target COLUMN] [--task binary|regression] [--output FILE] [--force]
   plumbline --version
 
@@ -44794,7 +45353,8 @@ Options:
   --head REF        candidate commit (default: the working tree, uncommitted changes included)
   --json FILE       also write the report as JSON (the documented contract, docs/report-json.md)
   --markdown FILE   also write the report as markdown (what the pull-request comment shows)
-  --quiet           print only the verdict line
+  --html FILE       also write the report as one self-contained HTML file with charts
+  --quiet           print only the verdict line (errors still go to stderr)
   -h, --help        this text
 
 Exit codes: 0 pass or warn, 1 block, 2 a problem you can fix, 3 an internal error.`,
@@ -44819,11 +45379,12 @@ function parseCommand(argv) {
       head: { type: "string" },
       json: { type: "string" },
       markdown: { type: "string" },
+      html: { type: "string" },
       quiet: { type: "boolean" },
       help: { type: "boolean", short: "h" }
     });
     if (values.help) return { name: "help", text: usage.check };
-    for (const flag of ["policy", "base", "head", "json", "markdown"]) {
+    for (const flag of ["policy", "base", "head", "json", "markdown", "html"]) {
       if (values[flag] === "") {
         throw new UserError(`--${flag} needs a value, got an empty string.`, `Leave --${flag} out to use its default, or give it a value.`);
       }
@@ -44835,6 +45396,7 @@ function parseCommand(argv) {
       head: values.head,
       json: values.json,
       markdown: values.markdown,
+      html: values.html,
       quiet: Boolean(values.quiet)
     };
   }
@@ -44872,9 +45434,32 @@ function parse4(args, command, options) {
     return values;
   } catch (error62) {
     if (error62 instanceof UserError) throw error62;
+    const code2 = error62.code;
+    const fix = `Run 'plumbline ${command} --help' for the options.`;
+    const unknown2 = error62.message.match(/^Unknown option '([^']+)'/);
+    if (code2 === "ERR_PARSE_ARGS_UNKNOWN_OPTION" && unknown2) {
+      const suggestion = closestOption(unknown2[1], options);
+      throw new UserError(
+        `plumbline ${command}: unknown option '${unknown2[1]}'.${suggestion ? ` Did you mean '${suggestion}'?` : ""}`,
+        fix
+      );
+    }
+    const missing = error62.message.match(/^Option '(?:-\w, )?(--[\w-]+) <value>' argument missing/);
+    if (code2 === "ERR_PARSE_ARGS_INVALID_OPTION_VALUE" && missing) {
+      throw new UserError(`plumbline ${command}: ${missing[1]} needs a value.`, fix);
+    }
     const message = error62.message.replace(/\.?$/, ".");
-    throw new UserError(`plumbline ${command}: ${message}`, `Run 'plumbline ${command} --help' for the options.`);
+    throw new UserError(`plumbline ${command}: ${message}`, fix);
   }
+}
+function closestOption(typed, options) {
+  const bare = typed.replace(/^-+/, "").split("=")[0].toLowerCase();
+  let best;
+  for (const name of Object.keys(options ?? {})) {
+    const distance = levenshteinDistance(bare, name);
+    if (distance <= 3 && distance < Math.max(bare.length, 2) && (!best || distance < best.distance)) best = { name, distance };
+  }
+  return best && `--${best.name}`;
 }
 
 // src/adapters/cli/init.ts
@@ -44888,13 +45473,13 @@ function nameTokens(name) {
 }
 function guessTarget(columns) {
   const candidates = columns.filter((c) => !c.looksLikeId && c.distinct >= 2);
-  for (const label of labelNames) {
-    const exact = candidates.find((c) => c.name.trim().toLowerCase() === label);
+  for (const label2 of labelNames) {
+    const exact = candidates.find((c) => c.name.trim().toLowerCase() === label2);
     if (exact) return { name: exact.name, reason: `named '${exact.name}'` };
   }
-  for (const label of labelNames) {
-    const partial2 = candidates.find((c) => nameTokens(c.name).includes(label));
-    if (partial2) return { name: partial2.name, reason: `its name contains '${label}'` };
+  for (const label2 of labelNames) {
+    const partial2 = candidates.find((c) => nameTokens(c.name).includes(label2));
+    if (partial2) return { name: partial2.name, reason: `its name contains '${label2}'` };
   }
   const binary = candidates.filter((c) => c.distinct === 2);
   if (binary.length === 1) return { name: binary[0].name, reason: "the only column with two distinct values" };
@@ -45144,7 +45729,7 @@ async function main(argv, io) {
   try {
     if (command.name === "init") return await init(command, io);
     const started = performance.now();
-    const progress = createProgress(io, started);
+    const progress = command.quiet ? silentProgress : createProgress(io, started);
     let report;
     await planOutputs(command, io.cwd);
     try {
@@ -45170,12 +45755,15 @@ async function main(argv, io) {
     progress.done();
     report = redactDeep(report);
     await writeOutputs(command, report, io.cwd);
-    if (command.quiet) io.stdout(cleanOutsideText(`plumbline: ${report.verdict}: ${report.headline}
+    if (command.quiet) {
+      io.stdout(cleanOutsideText(`plumbline: ${report.headline}
 `));
-    else io.stdout(`${cleanOutsideText(renderText(report))}
+    } else {
+      io.stdout(`${cleanOutsideText(renderText(report))}
 `);
-    io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1e3).toFixed(1)} s
+      io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1e3).toFixed(1)} s
 `);
+    }
     return report.verdict === "block" ? 1 : 0;
   } catch (error62) {
     io.stderr(`${cleanOutsideText(describeFailure(error62))}
@@ -45185,7 +45773,7 @@ async function main(argv, io) {
 }
 async function planOutputs(command, cwd) {
   const planned = [];
-  for (const [flag, path] of [["--json", command.json], ["--markdown", command.markdown]]) {
+  for (const [flag, path] of [["--json", command.json], ["--markdown", command.markdown], ["--html", command.html]]) {
     if (path) planned.push({ flag, path: await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false }) });
   }
   return planned;
@@ -45195,7 +45783,8 @@ async function writeOutputs(command, full, cwd) {
   const texts = {
     "--json": `${JSON.stringify(report, null, 2)}
 `,
-    "--markdown": renderMarkdown(report)
+    "--markdown": renderMarkdown(report),
+    "--html": renderHtml(report)
   };
   const staged = [];
   try {
@@ -45223,6 +45812,7 @@ async function writeOutputs(command, full, cwd) {
     for (const { temporary } of staged) await rm4(temporary, { force: true });
   }
 }
+var silentProgress = { line: () => void 0, event: () => void 0, done: () => void 0 };
 function createProgress(io, started) {
   let open3 = false;
   const elapsed = () => `${((performance.now() - started) / 1e3).toFixed(1)} s`;

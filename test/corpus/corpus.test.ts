@@ -100,7 +100,7 @@ describe(`the bad-input corpus (${corpus.length} cases)`, () => {
 describe('a sample of hostile repositories through the real CLI process', () => {
   const env = baseEnvironment({ GITHUB_TOKEN: corpusToken, INPUT_TOKEN: corpusToken })
   const sample: { name: string; edit: (root: string) => void; code: number; stderr: RegExp }[] = [
-    { name: 'one-row holdout', edit: (root) => writeFileSync(join(root, 'data', 'holdout.csv'), readFileSync(join(root, 'data', 'holdout.csv'), 'utf8').split('\n').slice(0, 2).join('\n')), code: 2, stderr: /head:data\/holdout\.csv has 1 holdout row; the gate needs at least 10/ },
+    { name: 'one-row holdout', edit: (root) => writeFileSync(join(root, 'data', 'holdout.csv'), readFileSync(join(root, 'data', 'holdout.csv'), 'utf8').split('\n').slice(0, 2).join('\n')), code: 2, stderr: /head: data\/holdout\.csv has 1 holdout row; the gate needs at least 10/ },
     {
       name: 'no feature column',
       edit: (root) => {
@@ -110,7 +110,7 @@ describe('a sample of hostile repositories through the real CLI process', () => 
         }
       },
       code: 2,
-      stderr: /head:data\/train\.csv has no feature column/,
+      stderr: /head: data\/train\.csv has no feature column/,
     },
     { name: 'policy alias bomb', edit: (root) => writeFileSync(join(root, 'plumbline.yml'), `${smallPolicy()}x: &x [1,1,1,1,1,1,1,1,1,1]\ny: &y [*x,*x,*x,*x,*x,*x,*x,*x,*x,*x]\nz: &z [*y,*y,*y,*y,*y,*y,*y,*y,*y,*y]\nw: &w [*z,*z,*z,*z,*z,*z,*z,*z,*z,*z]\nv: [*w,*w,*w,*w,*w,*w,*w,*w,*w,*w,*w,*w]\n`), code: 2, stderr: /the policy expands to more than 100000 values/ },
     { name: 'policy symlinked to /etc/passwd', edit: (root) => (rmSync(join(root, 'plumbline.yml')), symlinkSync('/etc/passwd', join(root, 'plumbline.yml'))), code: 2, stderr: /The policy file 'plumbline\.yml' points \(through a symlink\) outside the head checkout/ },

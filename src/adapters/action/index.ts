@@ -46,6 +46,11 @@ try {
     },
     runCheck,
     fetchBase,
+    // Loaded when used: @actions/artifact reads the event file through @actions/github at import.
+    uploadArtifact: async (name, file, rootDirectory) => {
+      const { DefaultArtifactClient } = await import('@actions/artifact')
+      return new DefaultArtifactClient().uploadArtifact(name, [file], rootDirectory, { retentionDays: 30 })
+    },
   })
 } catch (error) {
   core.setFailed(redactSecrets(describeFailure(error)))

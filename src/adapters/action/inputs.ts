@@ -29,6 +29,8 @@ export interface ActionInputs {
   readonly isForkCodeAllowed: boolean
   /** Relative to the workspace. */
   readonly workingDirectory: string
+  /** Name of the artifact for the HTML report; null: no upload. */
+  readonly htmlArtifact: string | null
 }
 
 /** The defaults action.yml declares, used when an input arrives empty. */
@@ -68,7 +70,22 @@ export function readInputs(getInput: GetInput): ActionInputs {
     reportPath,
     isForkCodeAllowed: readBoolean(getInput, 'allow-fork-code'),
     workingDirectory: readPath(getInput, 'working-directory'),
+    htmlArtifact: readArtifactName(getInput, 'html-report'),
   }
+}
+
+/** An artifact name as GitHub accepts it: no `" : < > | * ? \\ /`, control characters or line breaks. */
+function readArtifactName(getInput: GetInput, name: string): string | null {
+  const raw = getInput(name).trim()
+  if (raw === '') return null
+  // eslint-disable-next-line no-control-regex
+  if (/[":<>|*?\\/\u0000-\u001f]/.test(raw) || raw.length > 200) {
+    throw new UserError(
+      `Input '${name}' must be an artifact name without " : < > | * ? \\ / or line breaks, at most 200 characters; got ${JSON.stringify(raw.slice(0, 220))}.`,
+      `${fixLine(name)} Set it empty to upload no HTML report.`,
+    )
+  }
+  return raw
 }
 
 /** Whether a verdict fails the step under `failOn`. 'error' always does. */

@@ -12,6 +12,7 @@ import { decideVerdict } from '../../core/checks/verdict.ts'
 import { describeFailure, UserError } from '../../core/errors.ts'
 import { errorReport } from '../../core/report/error-report.ts'
 import { escapeMarkdownText } from '../../core/report/escape.ts'
+import { renderHtml } from '../../core/report/render-html.ts'
 import { renderMarkdown } from '../../core/report/render-markdown.ts'
 import type { GateReport } from '../../core/report/report.ts'
 import { parseGateReport } from '../../core/report/report-schema.ts'
@@ -52,6 +53,11 @@ export interface ActionDependencies {
   readonly loadClient?: () => Promise<void>
   readonly runCheck: (request: CheckRequest) => Promise<GateReport>
   readonly fetchBase: (request: FetchCommitRequest) => Promise<string>
+  /**
+   * Uploads one file as a workflow artifact (@actions/artifact) and returns its id. Optional: without
+   * it, or when it throws, the HTML report stays a file on the runner and the comment has no link.
+   */
+  readonly uploadArtifact?: (name: string, file: string, rootDirectory: string) => Promise<{ readonly id?: number }>
 }
 
 /** GitHub refuses longer comments; the comment is rendered to stay below this. */
@@ -119,6 +125,8 @@ function fallbackInputs(getInput: (name: string) => string, token: string): Acti
     reportPath: null,
     isForkCodeAllowed: false,
     workingDirectory: inputDefaults['working-directory'],
+    // No upload after an early failure: the comment and the summary carry the error.
+    htmlArtifact: null,
   }
 }
 
@@ -333,14 +341,17 @@ async function finish(context: RunContext, outcome: Outcome): Promise<void> {
   const fullMarkdown = renderMarkdown(report, { maxTableRows: 100_000, maxCharacters: summaryMaxCharacters, marker: commentMarker })
   const jsonPath = join(outputDirectory, 'report.json')
   const markdownPath = join(outputDirectory, 'report.md')
+  const htmlPath = join(outputDirectory, 'report.html')
   await writeText(jsonPath, json)
   await writeText(markdownPath, fullMarkdown)
+  await writeText(htmlPath, renderHtml(report))
   if (outcome.extraJson !== null) await writeText(outcome.extraJson, json)
-  core.info(`Wrote ${jsonPath} and ${markdownPath}${outcome.extraJson ? ` and ${outcome.extraJson}` : ''}.`)
+  core.info(`Wrote ${jsonPath}, ${markdownPath} and ${htmlPath}${outcome.extraJson ? ` and ${outcome.extraJson}` : ''}.`)
+  const htmlReportUrl = await uploadHtmlReport(context, htmlPath)
 
   let commentProblem: string | null = null
   if ('issueNumber' in plan && context.repository) {
-    const body = renderMarkdown(report, { maxCharacters: commentMaxCharacters, marker: commentMarker })
+    const body = renderMarkdown(report, { maxCharacters: commentMaxCharacters, marker: commentMarker, ...(htmlReportUrl ? { htmlReportUrl } : {}) })
     try {
       const posted = await upsertComment(context.github(), { ...context.repository, issueNumber: plan.issueNumber }, body, commentMarker)
       core.info(`${posted.action === 'created' ? 'Created' : 'Updated'} the comment on #${plan.issueNumber}: ${posted.url}`)
@@ -373,10 +384,40 @@ async function finish(context: RunContext, outcome: Outcome): Promise<void> {
   core.setOutput('infos', String(counts.info))
   core.setOutput('report-json', jsonPath)
   core.setOutput('report-markdown', markdownPath)
+  core.setOutput('report-html', htmlPath)
 
   if (failure !== null) core.setFailed(redactSecrets(`${report.headline}\n${describeFailure(failure)}`))
   else if (report.verdict === 'error') core.setFailed(`${report.headline}\n${report.findings[0]?.message ?? ''}`.trim())
   else if (isFailingVerdict(report.verdict, context.inputs.failOn)) core.setFailed(report.headline)
+}
+
+/**
+ * Uploads the HTML report as the `html-report` artifact and returns the address of the artifact on
+ * the run's page, or null: no name, no uploader, no runtime (a run outside Actions), or a failed
+ * upload, which only warns. The address is https only (the comment links nothing else).
+ */
+async function uploadHtmlReport(context: RunContext, htmlPath: string): Promise<string | null> {
+  const { deps, inputs, repository } = context
+  const { core, env } = deps
+  if (inputs.htmlArtifact === null || !deps.uploadArtifact) return null
+  if (!env.ACTIONS_RUNTIME_TOKEN || !env.ACTIONS_RESULTS_URL) {
+    core.info(`No HTML report artifact: this run has no Actions runtime (ACTIONS_RUNTIME_TOKEN, ACTIONS_RESULTS_URL). The report is at ${htmlPath}.`)
+    return null
+  }
+  try {
+    const uploaded = await deps.uploadArtifact(inputs.htmlArtifact, htmlPath, dirname(htmlPath))
+    core.info(`Uploaded the HTML report as the artifact '${inputs.htmlArtifact}'${uploaded.id === undefined ? '' : ` (id ${uploaded.id})`}.`)
+    const server = (env.GITHUB_SERVER_URL || 'https://github.com').replace(/\/+$/, '')
+    const runId = env.GITHUB_RUN_ID ?? ''
+    if (uploaded.id === undefined || repository === null || !/^\d+$/.test(runId) || !server.startsWith('https://')) return null
+    return `${server}/${repository.owner}/${repository.repo}/actions/runs/${runId}/artifacts/${uploaded.id}`
+  } catch (error) {
+    core.warning(
+      `Could not upload the HTML report as the artifact '${inputs.htmlArtifact}': ${error instanceof Error ? error.message : String(error)}. ` +
+        `The verdict is unchanged; the comment has no link to it, and the file is at ${htmlPath}.`,
+    )
+    return null
+  }
 }
 
 /** The 'error' report of a run that reached no verdict. */

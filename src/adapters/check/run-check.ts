@@ -115,7 +115,7 @@ async function loadSide(
     tables[file.role] = await readDataset(file.path, {
       ...readOptions,
       key: file.key,
-      source: `${side}:${file.path}`,
+      source: `${side}: ${file.path}`,
       requireTarget: file.requireTarget,
       ...(file.conformToTrain ? { schema: schemaOf(tables.train!) } : {}),
     })
@@ -136,7 +136,7 @@ const smallRows = { train: 200, holdout: 100 } as const
 function checkSizes(side: string, config: GateConfig, train: Dataset, holdout: Dataset, log: (line: string) => void) {
   if (train.features.length === 0) {
     throw new UserError(
-      `${side}:${config.data.train} has no feature column: every column is the target, the id or ignored.`,
+      `${side}: ${config.data.train} has no feature column: every column is the target, the id or ignored.`,
       "Add the feature columns to the file, or change their roles under 'data.columns' in the policy.",
     )
   }
@@ -144,7 +144,7 @@ function checkSizes(side: string, config: GateConfig, train: Dataset, holdout: D
   for (const [which, data, name] of [['train', train, config.data.train], ['holdout', holdout, holdoutName]] as const) {
     if (data.rows < minimumRows[which]) {
       throw new UserError(
-        `${side}:${name} has ${data.rows} ${which === 'train' ? 'training' : 'holdout'} row${data.rows === 1 ? '' : 's'}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
+        `${side}: ${name} has ${data.rows} ${which === 'train' ? 'training' : 'holdout'} row${data.rows === 1 ? '' : 's'}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
         which === 'train' ? 'Point data.train at the full training table.' : "Give the holdout more rows (data.holdout), or a larger 'fraction' for a split.",
       )
     }

@@ -1,11 +1,12 @@
 import { parseArgs } from 'node:util'
 import { UserError } from '../../core/errors.ts'
+import { levenshteinDistance } from '../../core/policy/levenshtein-distance.ts'
 
 export const usage = {
   top: `plumbline: a pull-request gate for model features.
 
 Usage:
-  plumbline check [--policy FILE] [--base REF] [--head REF] [--json FILE] [--markdown FILE]
+  plumbline check [--policy FILE] [--base REF] [--head REF] [--json FILE] [--markdown FILE] [--html FILE] [--quiet]
   plumbline init [--train FILE] [--target COLUMN] [--task binary|regression] [--output FILE] [--force]
   plumbline --version
 
@@ -19,7 +20,8 @@ Options:
   --head REF        candidate commit (default: the working tree, uncommitted changes included)
   --json FILE       also write the report as JSON (the documented contract, docs/report-json.md)
   --markdown FILE   also write the report as markdown (what the pull-request comment shows)
-  --quiet           print only the verdict line
+  --html FILE       also write the report as one self-contained HTML file with charts
+  --quiet           print only the verdict line (errors still go to stderr)
   -h, --help        this text
 
 Exit codes: 0 pass or warn, 1 block, 2 a problem you can fix, 3 an internal error.`,
@@ -44,6 +46,7 @@ export type Command =
       head?: string
       json?: string
       markdown?: string
+      html?: string
       quiet: boolean
     }
   | { name: 'init'; train?: string; target?: string; task?: 'binary' | 'regression'; output: string; force: boolean }
@@ -60,11 +63,12 @@ export function parseCommand(argv: readonly string[]): Command {
       head: { type: 'string' },
       json: { type: 'string' },
       markdown: { type: 'string' },
+      html: { type: 'string' },
       quiet: { type: 'boolean' },
       help: { type: 'boolean', short: 'h' },
     })
     if (values.help) return { name: 'help', text: usage.check }
-    for (const flag of ['policy', 'base', 'head', 'json', 'markdown'] as const) {
+    for (const flag of ['policy', 'base', 'head', 'json', 'markdown', 'html'] as const) {
       if (values[flag] === '') {
         throw new UserError(`--${flag} needs a value, got an empty string.`, `Leave --${flag} out to use its default, or give it a value.`)
       }
@@ -76,6 +80,7 @@ export function parseCommand(argv: readonly string[]): Command {
       head: values.head as string | undefined,
       json: values.json as string | undefined,
       markdown: values.markdown as string | undefined,
+      html: values.html as string | undefined,
       quiet: Boolean(values.quiet),
     }
   }
@@ -116,7 +121,32 @@ function parse(args: string[], command: string, options: Options): Record<string
     return values as Record<string, string | boolean | undefined>
   } catch (error) {
     if (error instanceof UserError) throw error
+    const code = (error as { code?: string }).code
+    const fix = `Run 'plumbline ${command} --help' for the options.`
+    const unknown = (error as Error).message.match(/^Unknown option '([^']+)'/)
+    if (code === 'ERR_PARSE_ARGS_UNKNOWN_OPTION' && unknown) {
+      const suggestion = closestOption(unknown[1], options)
+      throw new UserError(
+        `plumbline ${command}: unknown option '${unknown[1]}'.${suggestion ? ` Did you mean '${suggestion}'?` : ''}`,
+        fix,
+      )
+    }
+    const missing = (error as Error).message.match(/^Option '(?:-\w, )?(--[\w-]+) <value>' argument missing/)
+    if (code === 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE' && missing) {
+      throw new UserError(`plumbline ${command}: ${missing[1]} needs a value.`, fix)
+    }
     const message = (error as Error).message.replace(/\.?$/, '.')
-    throw new UserError(`plumbline ${command}: ${message}`, `Run 'plumbline ${command} --help' for the options.`)
+    throw new UserError(`plumbline ${command}: ${message}`, fix)
   }
+}
+
+/** The option nearest to what was typed (Levenshtein distance at most 3, and less than its length). */
+function closestOption(typed: string, options: Options): string | undefined {
+  const bare = typed.replace(/^-+/, '').split('=')[0].toLowerCase()
+  let best: { name: string; distance: number } | undefined
+  for (const name of Object.keys(options ?? {})) {
+    const distance = levenshteinDistance(bare, name)
+    if (distance <= 3 && distance < Math.max(bare.length, 2) && (!best || distance < best.distance)) best = { name, distance }
+  }
+  return best && `--${best.name}`
 }

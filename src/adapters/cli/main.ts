@@ -2,6 +2,7 @@ import { mkdir, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { basename, dirname, join } from 'node:path'
 import { describeFailure, UserError } from '../../core/errors.ts'
 import { errorReport } from '../../core/report/error-report.ts'
+import { renderHtml } from '../../core/report/render-html.ts'
 import { renderMarkdown } from '../../core/report/render-markdown.ts'
 import { fitReportLimits } from '../../core/report/fit-report-limits.ts'
 import { renderText } from '../../core/report/render-text.ts'
@@ -39,7 +40,8 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
   try {
     if (command.name === 'init') return await init(command, io)
     const started = performance.now()
-    const progress = createProgress(io, started)
+    // --quiet: the verdict line and nothing else (errors still reach stderr).
+    const progress = command.quiet ? silentProgress : createProgress(io, started)
     let report: GateReport
     // Checked before the run: a --json naming a directory fails in a second, not after the gate.
     await planOutputs(command, io.cwd)
@@ -66,9 +68,12 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
     progress.done()
     report = redactDeep(report)
     await writeOutputs(command, report, io.cwd)
-    if (command.quiet) io.stdout(cleanOutsideText(`plumbline: ${report.verdict}: ${report.headline}\n`))
-    else io.stdout(`${cleanOutsideText(renderText(report))}\n`)
-    io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1000).toFixed(1)} s\n`)
+    if (command.quiet) {
+      io.stdout(cleanOutsideText(`plumbline: ${report.headline}\n`))
+    } else {
+      io.stdout(`${cleanOutsideText(renderText(report))}\n`)
+      io.stderr(`plumbline: ${report.verdict} in ${((performance.now() - started) / 1000).toFixed(1)} s\n`)
+    }
     return report.verdict === 'block' ? 1 : 0
   } catch (error) {
     io.stderr(`${cleanOutsideText(describeFailure(error))}\n`)
@@ -76,27 +81,28 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
   }
 }
 
-/** Where --json and --markdown go; a directory or a non-file is refused before anything runs. */
-async function planOutputs(command: { json?: string; markdown?: string }, cwd: string) {
+/** Where --json, --markdown and --html go; a directory or a non-file is refused before anything runs. */
+async function planOutputs(command: { json?: string; markdown?: string; html?: string }, cwd: string) {
   const planned: { flag: string; path: string }[] = []
-  for (const [flag, path] of [['--json', command.json], ['--markdown', command.markdown]] as const) {
+  for (const [flag, path] of [['--json', command.json], ['--markdown', command.markdown], ['--html', command.html]] as const) {
     if (path) planned.push({ flag, path: await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false }) })
   }
   return planned
 }
 
 /**
- * Writes --json and --markdown all or nothing: each regular file is written beside its target first
+ * Writes --json, --markdown and --html all or nothing: each regular file is written beside its target first
  * and renamed into place only when every output was written (a device such as /dev/stdout is written
  * directly, before the renames). So a run whose markdown cannot be written (/dev/full, a full disk)
  * leaves no report file claiming a verdict, and exits 2 saying which output failed.
  */
-async function writeOutputs(command: { json?: string; markdown?: string }, full: GateReport, cwd: string) {
+async function writeOutputs(command: { json?: string; markdown?: string; html?: string }, full: GateReport, cwd: string) {
   // Within the limits the action's publish mode reads, and without secrets (the error path too).
   const report = fitReportLimits(redactDeep(full))
   const texts: Record<string, string> = {
     '--json': `${JSON.stringify(report, null, 2)}\n`,
     '--markdown': renderMarkdown(report),
+    '--html': renderHtml(report),
   }
   const staged: { temporary: string; path: string }[] = []
   try {
@@ -124,6 +130,8 @@ async function writeOutputs(command: { json?: string; markdown?: string }, full:
     for (const { temporary } of staged) await rm(temporary, { force: true })
   }
 }
+
+const silentProgress = { line: () => undefined, event: () => undefined, done: () => undefined }
 
 function createProgress(io: CliIo, started: number) {
   let open = false

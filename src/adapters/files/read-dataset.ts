@@ -26,8 +26,15 @@ export type ReadDatasetOptions = Omit<ParseCsvOptions, 'source'> & {
  */
 export async function readDataset(path: string, options: ReadDatasetOptions = {}): Promise<Dataset> {
   const { cwd = process.cwd(), source = path, key, rootName, ...parseOptions } = options
+  // With a source ("head: data/train.csv") the side and the path in the repository say where; the
+  // folder it was resolved against may be a temporary checkout that is gone by the time one reads this.
   const problem = (what: string) =>
-    new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, 'Check the path: a relative path is read from that directory.')
+    options.source === undefined
+      ? new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, 'Check the path: a relative path is read from that directory.')
+      : new UserError(
+          `Cannot read the data file ${source}: ${what} in that side's commit.`,
+          "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'.",
+        )
   const limits = {
     maxBytes: readLimits.data,
     what: 'data file',

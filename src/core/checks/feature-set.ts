@@ -5,6 +5,7 @@
  */
 import type { Dataset } from '../data/dataset.ts'
 import type { Finding, GateReport } from '../report/report.ts'
+import { formatNumber } from '../report/format-number.ts'
 import type { SideResult } from './side-result.ts'
 
 export type FeatureSetChange = GateReport['featureSet']
@@ -89,7 +90,7 @@ export function featureSetFindings(featureSet: FeatureSetChange, head: SideResul
         severity: 'info',
         feature: name,
         title: `The added feature ${name} is not measurably used by the candidate model.`,
-        message: `Its importance ${fmtPlain(unit.mean)} has a 95% interval [${fmtPlain(unit.lower)}, ${fmtPlain(unit.upper)}] that does not lie above zero.`,
+        message: `Its importance ${formatNumber(unit.mean)} has a 95% interval [${formatNumber(unit.lower)}, ${formatNumber(unit.upper)}] that does not lie above zero.`,
         evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper },
       })
     }
@@ -99,8 +100,4 @@ export function featureSetFindings(featureSet: FeatureSetChange, head: SideResul
 
 function list(names: readonly string[]): string {
   return names.length <= 5 ? names.join(', ') : `${names.slice(0, 5).join(', ')} and ${names.length - 5} more`
-}
-
-function fmtPlain(v: number): string {
-  return Number.isFinite(v) ? Number(v.toPrecision(3)).toString() : 'n/a'
 }

@@ -2,6 +2,7 @@ import type { Finding, Severity } from '../report/report.ts'
 import { mean, positiveShare, rankFeatures, type SideResult } from './side-result.ts'
 
 import type { CheckAction } from './check-action.ts'
+import { formatNumber, formatPercent as pct, formatRatio } from '../report/format-number.ts'
 
 export interface LeakageOptions {
   readonly action: CheckAction
@@ -219,18 +220,11 @@ function separationJump(base: readonly number[], head: readonly number[]): numbe
   return sd > 0 ? (mh - mb) / sd : NaN
 }
 
-export function fmt(value: number | undefined): string {
-  if (value === undefined || !Number.isFinite(value)) return 'n/a'
-  if (value === 0) return '0'
-  const abs = Math.abs(value)
-  if (abs >= 1000 || abs < 0.001) return value.toExponential(2)
-  return Number(value.toPrecision(3)).toString()
-}
-
-export function pct(value: number): string {
-  return Number.isFinite(value) ? `${Math.round(value * 100)}%` : 'n/a'
+/** The one number formatter, for values a side may lack. */
+function fmt(value: number | undefined): string {
+  return value === undefined ? 'n/a' : formatNumber(value)
 }
 
 function fmtRatio(ratio: number): string {
-  return Number.isFinite(ratio) ? `${fmt(ratio)}×` : 'infinitely'
+  return Number.isFinite(ratio) ? formatRatio(ratio) : 'infinitely'
 }

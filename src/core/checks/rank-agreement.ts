@@ -3,7 +3,7 @@ import { kendallTauB } from '../statistics/kendall-tau-b.ts'
 import { percentile } from '../statistics/percentile.ts'
 import { rankBiasedOverlap } from '../statistics/rank-biased-overlap.ts'
 import type { CheckAction } from './check-action.ts'
-import { fmt } from './leakage.ts'
+import { formatNumber as fmt } from '../report/format-number.ts'
 import { mean, type SideResult } from './side-result.ts'
 
 export interface RankAgreementOptions {

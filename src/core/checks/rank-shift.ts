@@ -2,8 +2,8 @@ import type { Finding, FeatureRow } from '../report/report.ts'
 import { benjaminiHochberg } from '../statistics/benjamini-hochberg.ts'
 import { welchTTest } from '../statistics/welch-t-test.ts'
 import type { CheckAction } from './check-action.ts'
-import { fmt, pct } from './leakage.ts'
-import type { SideResult } from './side-result.ts'
+import { formatChange, formatNumber as fmt, formatPStatement } from '../report/format-number.ts'
+import { rankKey, sideRanks, type SideResult } from './side-result.ts'
 import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
 
 export interface RankShiftOptions {
@@ -59,6 +59,10 @@ export function checkRankShift(
   const baseRank = rankWithin(compared.map((p) => p.b))
   const headRank = rankWithin(compared.map((p) => p.h))
 
+  // Words use each side's own rank, the one the report's table shows.
+  const baseSideRank = sideRanks(base.importances)
+  const headSideRank = sideRanks(head.importances)
+
   const shifts = new Map<string, Shift>()
   const findings: Finding[] = []
   pairs.forEach((p, index) => {
@@ -83,18 +87,17 @@ export function checkRankShift(
       relativeChange >= options.minRelativeChange
     if (options.action !== 'off' && isSignificant && isCompared && movesEnough) {
       const direction = difference > 0 ? 'rose' : 'fell'
-      const moved =
-        positionsMoved === null || positionsMoved === 0
-          ? 'kept its rank'
-          : `moved from rank ${baseRank.get(p.name)} to ${headRank.get(p.name)}`
+      const fromRank = baseSideRank.get(rankKey(p))!
+      const toRank = headSideRank.get(rankKey(p))!
+      const rank = fromRank === toRank ? `still rank ${fromRank}` : `rank ${fromRank} → ${toRank}`
       findings.push({
         kind: 'rank-shift',
         severity: options.action,
         feature: p.name,
-        title: `${p.name}'s importance ${direction} from ${fmt(p.b.mean)} to ${fmt(p.h.mean)} (${pct(relativeChange)}) and ${moved}.`,
+        title: `${p.name}'s importance ${direction} from ${fmt(p.b.mean)} to ${fmt(p.h.mean)} (${formatChange(p.b.mean, p.h.mean)}; ${rank}).`,
         message:
-          `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits, Welch's t = ${fmt(test.t)} ` +
-          `(df ${fmt(test.df)}), p = ${fmt(test.pValue)}, Benjamini–Hochberg adjusted p = ${fmt(adjusted[index])} ` +
+          `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits the change is beyond reseed noise: ` +
+          `Welch's t = ${fmt(test.t)} (df ${fmt(test.df)}), ${formatPStatement('p', test.pValue)}, ${formatPStatement('Benjamini–Hochberg adjusted p', adjusted[index])} ` +
           `against a false discovery rate of ${options.falseDiscoveryRate}. Reseed noise (refit SD) is ${fmt(p.b.refitSd)} on the base side and ${fmt(p.h.refitSd)} on the head.`,
         evidence: {
           baseMean: p.b.mean,
@@ -106,17 +109,18 @@ export function checkRankShift(
           welchDf: test.df,
           pValue: test.pValue,
           adjustedPValue: adjusted[index],
-          baseRank: baseRank.get(p.name) ?? null,
-          headRank: headRank.get(p.name) ?? null,
+          baseRank: fromRank,
+          headRank: toRank,
         },
       })
     }
-    if (!p.isGroup && p.b.isAboveFloor && !p.h.isAboveFloor) {
+    // Only a fall is a fall to the floor: a rise with a wider interval is not.
+    if (!p.isGroup && p.b.isAboveFloor && !p.h.isAboveFloor && difference < 0) {
       findings.push({
         kind: 'floor-drop',
         severity: 'info',
         feature: p.name,
-        title: `${p.name} fell to the noise floor (importance ${fmt(p.b.mean)} on the base side, ${fmt(p.h.mean)} now).`,
+        title: `${p.name} fell to the noise floor: importance ${fmt(p.b.mean)} on the base side, ${fmt(p.h.mean)} on the head (${formatChange(p.b.mean, p.h.mean)}).`,
         message: `On the head side the 95% interval of ${p.name}'s importance [${fmt(p.h.lower)}, ${fmt(p.h.upper)}] does not lie above zero: the candidate model no longer measurably relies on it.`,
         evidence: { baseMean: p.b.mean, headMean: p.h.mean, headLower: p.h.lower, headUpper: p.h.upper },
       })

@@ -2,7 +2,7 @@ import type { Finding } from '../report/report.ts'
 import { studentTCdf } from '../statistics/student-t-cdf.ts'
 import { welchTTestFromSummary } from '../statistics/welch-t-test.ts'
 import type { CheckAction } from './check-action.ts'
-import { fmt } from './leakage.ts'
+import { formatChange, formatNumber as fmt, formatPStatement } from '../report/format-number.ts'
 import { mean } from './side-result.ts'
 
 export interface ScoreRegressionOptions {
@@ -70,11 +70,11 @@ export function checkScoreRegression(evidence: ScoreEvidence, options: ScoreRegr
     {
       kind: 'score-regression',
       severity,
-      title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (by ${fmt(worsening)}, beyond noise).`,
+      title: `Holdout ${options.metric} got worse: ${fmt(baseMean)} → ${fmt(headMean)} (${formatChange(baseMean, headMean)}, beyond reseed noise).`,
       message:
         `The candidate's mean holdout ${options.metric} is ${fmt(headMean)} against ${fmt(baseMean)} for the baseline ` +
         `(${options.higherIsBetter ? 'higher' : 'lower'} is better). The worsening of ${fmt(worsening)} exceeds the tolerance of ` +
-        `${options.tolerance} with one-sided p = ${fmt(pValue)} (standard error ${fmt(standardError)}` +
+        `${options.tolerance} with ${formatPStatement('one-sided p', pValue)} (standard error ${fmt(standardError)}` +
         (df === null ? ', from a paired bootstrap of holdout rows' : `, Welch df ${fmt(df)} over reseeded refits`) +
         `; level ${options.alpha}).`,
       evidence: {

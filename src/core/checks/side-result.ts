@@ -28,6 +28,26 @@ export function rankFeatures(importances: readonly FlooredImportance[]): Floored
   return importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
 }
 
+/**
+ * The one rank the report uses, in the table, the status and the findings: 1-based by mean
+ * importance among this side's features, highest first, ties by name; groups are ranked among
+ * groups. Keyed by `rankKey`.
+ */
+export function sideRanks(importances: readonly FlooredImportance[]): Map<string, number> {
+  const ranks = new Map<string, number>()
+  for (const isGroup of [false, true]) {
+    importances
+      .filter((u) => u.isGroup === isGroup)
+      .sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
+      .forEach((u, i) => ranks.set(rankKey(u), i + 1))
+  }
+  return ranks
+}
+
+export function rankKey(unit: { readonly name: string; readonly isGroup: boolean }): string {
+  return `${unit.isGroup}:${unit.name}`
+}
+
 /** Share of the total positive importance among features (groups excluded from the total). */
 export function positiveShare(importances: readonly FlooredImportance[], name: string): number {
   let total = 0

@@ -2,11 +2,79 @@ import type { Finding, Severity, Verdict } from '../report/report.ts'
 
 const order: Record<Severity, number> = { block: 0, warn: 1, info: 2 }
 
-/** Findings sorted block, warn, info; within a severity, the order the checks produced them. */
+/** Findings sorted block, warn, info; within a severity, the order they came in (renderers keep the report's order). */
 export function sortFindings(findings: readonly Finding[]): Finding[] {
   return findings
     .map((finding, index) => ({ finding, index }))
     .sort((a, b) => order[a.finding.severity] - order[b.finding.severity] || a.index - b.index)
+    .map((x) => x.finding)
+}
+
+/** What the pull request changed, for ordering: added, removed and changed (other values) features. */
+export interface ChangedFeatures {
+  readonly added: readonly string[]
+  readonly removed: readonly string[]
+  readonly changed: Iterable<string>
+}
+
+/** Within one severity and one closeness to the change: the cause before its effects. */
+const kindOrder: Readonly<Record<Finding['kind'], number>> = {
+  'run-error': 0,
+  leakage: 1,
+  'holdout-rows': 2,
+  'score-regression': 3,
+  'share-redistribution': 4,
+  'rank-shift': 5,
+  'rank-agreement': 6,
+  'floor-drop': 7,
+  'unused-feature': 8,
+  'feature-set': 9,
+  'policy-changed': 10,
+  'noise-model': 11,
+}
+
+/** How strong a finding's evidence is, in its kind's own unit (larger first); 0 when unknown. */
+function strength(finding: Finding): number {
+  const e = finding.evidence
+  const num = (key: string) => (typeof e[key] === 'number' && Number.isFinite(e[key]) ? (e[key] as number) : 0)
+  switch (finding.kind) {
+    case 'leakage':
+      return Math.max(num('singleFeatureSeparation'), num('sliceSeparation'), num('share'))
+    case 'score-regression':
+      return num('worseningInReseedSds')
+    case 'share-redistribution':
+      return num('causeShare')
+    case 'rank-shift': {
+      const sd = Math.sqrt((num('baseRefitSd') ** 2 + num('headRefitSd') ** 2) / 2)
+      const difference = Math.abs(num('headMean') - num('baseMean'))
+      return sd > 0 ? difference / sd : difference > 0 ? Infinity : 0
+    }
+    case 'rank-agreement':
+      return num('kendallTauThreshold') - num('kendallTau')
+    default:
+      return 0
+  }
+}
+
+/**
+ * The report's order: block, warn, info; within a severity, findings about a feature the pull
+ * request added, removed or changed (and the feature-set finding itself) first; then the cause
+ * before its effects (leakage, holdout rows, score, redistribution, shifts, ranking, floor, the
+ * rest); then by strength of evidence, largest first; then the checks' order. Never column order.
+ */
+export function orderFindings(findings: readonly Finding[], change: ChangedFeatures): Finding[] {
+  const touched = new Set([...change.added, ...change.removed, ...change.changed])
+  const isAboutChange = (f: Finding) => f.kind === 'feature-set' || (f.feature !== undefined && touched.has(f.feature))
+  return findings
+    .map((finding, index) => ({ finding, index, about: isAboutChange(finding) ? 0 : 1, strength: strength(finding) }))
+    .sort(
+      (a, b) =>
+        order[a.finding.severity] - order[b.finding.severity] ||
+        a.about - b.about ||
+        (kindOrder[a.finding.kind] ?? 99) - (kindOrder[b.finding.kind] ?? 99) ||
+        b.strength - a.strength ||
+        a.index - b.index,
+    )
     .map((x) => x.finding)
 }
 

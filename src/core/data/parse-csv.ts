@@ -1,4 +1,5 @@
 import { CsvError, parse } from 'csv-parse/sync'
+import { levenshteinDistance } from '../policy/levenshtein-distance.ts'
 import { UserError } from '../errors.ts'
 import type { ColumnRole, Dataset, FeatureInfo, Target, Task } from './dataset.ts'
 
@@ -290,9 +291,29 @@ function checkHeader(header: readonly string[], source: string): Map<string, num
   return index
 }
 
+/**
+ * The columns nearest to `name` by Levenshtein distance, case-insensitive (then a column containing
+ * the name or contained in it), at most `limit`: what the user probably meant, not the first few.
+ */
+export function closestColumns(name: string, columns: readonly string[], limit = 5): string[] {
+  const wanted = name.toLowerCase()
+  return columns
+    .map((column, index) => {
+      const lower = column.toLowerCase()
+      const contains = lower.includes(wanted) || wanted.includes(lower) ? 0 : 1
+      return { column, index, distance: levenshteinDistance(wanted, lower), contains }
+    })
+    .sort((a, b) => a.distance - b.distance || a.contains - b.contains || a.index - b.index)
+    .slice(0, limit)
+    .map((x) => x.column)
+}
+
 function failMissingTarget(source: string, name: string, header: readonly string[]): never {
+  const columns = header.map((h) => h.trim())
+  const closest = closestColumns(name, columns)
   throw new UserError(
-    `${source} has no target column ${show(name)}. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
+    `${source} has no target column ${show(name)}. ` +
+      (columns.length <= closest.length ? `Its columns are ${listNames(columns, closest.length)}.` : `The closest of its ${columns.length} columns: ${listNames(closest, closest.length)}.`),
     `Add the column ${show(name)} to the file, or name one of its columns as the target.`,
   )
 }

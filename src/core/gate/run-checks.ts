@@ -7,7 +7,8 @@ import { checkRankAgreement } from '../checks/rank-agreement.ts'
 import { checkRankShift, type Shift } from '../checks/rank-shift.ts'
 import { checkScoreRegression } from '../checks/score-regression.ts'
 import type { SideResult } from '../checks/side-result.ts'
-import { sortFindings } from '../checks/verdict.ts'
+import { groupConsequences } from '../checks/group-consequences.ts'
+import { orderFindings } from '../checks/verdict.ts'
 import type { Dataset } from '../data/dataset.ts'
 import type { SideMeasurement } from '../measure-side.ts'
 import type { Metric } from '../metrics/metric.ts'
@@ -28,7 +29,7 @@ export interface CheckInputs {
 }
 
 export interface CheckOutcome {
-  /** Sorted by severity, with consequences of a blocking leak demoted to info. */
+  /** In report order (orderFindings), consequences of a blocking leak demoted to info and redistributions grouped. */
   readonly findings: readonly Finding[]
   readonly shifts: ReadonlyMap<string, Shift>
   readonly agreement: RankAgreement | null
@@ -60,17 +61,20 @@ export function runChecks(inputs: CheckInputs): CheckOutcome {
     { baseScores: base.scores, headScores: head.scores, pairedBootstrap: bootstrap },
     { ...settings.checks.score, metric: metric.name, higherIsBetter: metric.higherIsBetter },
   )
-  const findings = sortFindings(
-    demoteConsequences([
+  const demoted = demoteConsequences([
       ...holdoutFindings,
       ...leakage,
       ...score,
       ...shift.findings,
       ...agreement.findings,
       ...featureSetFindings(featureSet, results.head),
-      ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers }),
-    ]),
-  )
+    ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers }),
+  ])
+  const findings = orderFindings(groupConsequences(demoted, results, featureSet), {
+    added: featureSet.added,
+    removed: featureSet.removed,
+    changed: inputs.changed,
+  })
   return { findings, shifts: shift.shifts, agreement: agreement.agreement }
 }
 

@@ -4,7 +4,7 @@
  */
 import type { RankAgreement } from './report.ts'
 import type { Shift } from '../checks/rank-shift.ts'
-import { mean, positiveShare, type SideResult } from '../checks/side-result.ts'
+import { mean, positiveShare, sideRanks, type SideResult } from '../checks/side-result.ts'
 import { decideVerdict, writeHeadline } from '../checks/verdict.ts'
 import type { FeatureSetChange } from '../checks/feature-set.ts'
 import type { Dataset } from '../data/dataset.ts'
@@ -74,11 +74,7 @@ export function featureRows(
   const kindOf = new Map<string, 'numeric' | 'categorical'>()
   for (const f of [...baseTrain.features, ...headTrain.features]) kindOf.set(f.name, f.kind)
   const stats = (side: SideResult) => {
-    const ranks = new Map<string, number>()
-    const order = (units: FlooredImportance[]) =>
-      units.sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).forEach((u, i) => ranks.set(`${u.isGroup}:${u.name}`, i + 1))
-    order(side.importances.filter((u) => !u.isGroup))
-    order(side.importances.filter((u) => u.isGroup))
+    const ranks = sideRanks(side.importances)
     return new Map(
       side.importances.map((u): [string, SideImportance] => [
         `${u.isGroup}:${u.name}`,

@@ -91,3 +91,14 @@ export function markdownCodeBlock(text: string): string {
   const fence = '`'.repeat(Math.max(3, longestRun + 1))
   return `${fence}text\n${body}\n${fence}`
 }
+
+const htmlEntities: Readonly<Record<string, string>> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' }
+
+/**
+ * Text for HTML element content or a quoted attribute (HTML Living Standard, 13.1.2.6: `&`, `<`,
+ * `>` and both quotes as character references cannot open markup or end an attribute). Controls and
+ * bidirectional overrides become U+FFFD and tabs spaces, as in the markdown; line breaks stay.
+ */
+export function escapeHtml(text: string): string {
+  return neutralize(text).replace(/[&<>"']/g, (c) => htmlEntities[c])
+}

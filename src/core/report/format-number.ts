@@ -60,3 +60,29 @@ export function formatPercent(share: number): string {
   const percent = trimZeros((share * 100).toFixed(1))
   return `${percent === '-0' ? '0' : percent}%`
 }
+
+/**
+ * A change as a signed percentage of the value it started from: (to − from) / |from|, one decimal
+ * under 10% and whole percents above: 0.0203 → 0.089 is `+338%`, 0.655 → 0.475 is `-27%`, no change
+ * is `0%`. From zero there is no percentage: `n/a` (the caller should say "new" or give both values).
+ */
+export function formatChange(from: number, to: number): string {
+  if (!Number.isFinite(from) || !Number.isFinite(to) || from === 0) return 'n/a'
+  const change = (to - from) / Math.abs(from)
+  if (change === 0) return '0%'
+  const size = Math.abs(change * 100)
+  const digits = size < 10 ? trimZeros(size.toFixed(1)) : size.toFixed(0)
+  if (digits === '0') return change > 0 ? '+<0.1%' : '-<0.1%'
+  return `${change > 0 ? '+' : '-'}${digits}%`
+}
+
+/** A ratio with a times sign: `3.2×`; `n/a` when undefined. */
+export function formatRatio(ratio: number): string {
+  return Number.isFinite(ratio) ? `${formatNumber(ratio)}×` : 'n/a'
+}
+
+/** "p = 0.012", or "p < 1e-6" for a p-value too small to print: a comparison that reads as one. */
+export function formatPStatement(label: string, p: number): string {
+  const text = formatPValue(p)
+  return text.startsWith('<') ? `${label} < ${text.slice(1)}` : `${label} = ${text}`
+}

@@ -1,10 +1,14 @@
 /**
  * The pull-request comment (and the job summary): a GateReport as GitHub-flavored markdown.
  *
- * Layout: hidden marker, verdict heading, headline; findings (block, warn, info); feature table;
- * feature-set diff; rank agreement; collapsed details (models and scores per refit, refit seeds,
- * settings and check thresholds, timings); a note on anything cut; the caution, always last.
- * An 'error' report shows the headline, the run error in a code block and the caution.
+ * Layout, for a reader with ten seconds: hidden marker, verdict heading, the headline (the cause in
+ * plain words); the holdout score of both sides with its change in reseed SDs, and lift and
+ * drop-column evidence when the report has them; the findings (block and warn in full, info as one
+ * line each); a mermaid chart of the top features' importance; the feature-set change; the caution;
+ * a link to the HTML report when there is one. Then, collapsed: the info findings in full, the
+ * feature table, rank agreement, models and scores per refit, refit seeds, settings, timings.
+ * An 'error' report shows the headline, the run error in a code block and no caution (no verdict
+ * was reached, so there is nothing to caution about).
  *
  * Every string from the report goes through escapeMarkdownText / escapeMarkdownCell: a report
  * may come from an untrusted job. The output never exceeds `maxCharacters` (UTF-16 code units,
@@ -16,6 +20,7 @@ import { markdownTable } from 'markdown-table'
 import { sortFindings } from '../checks/verdict.ts'
 import { escapeMarkdownCell, escapeMarkdownText, markdownCodeBlock } from './escape.ts'
 import { formatCount } from './format-number.ts'
+import { mermaidChart } from './render-mermaid.ts'
 import { reportCaution, type GateReport, type Severity } from './report.ts'
 import {
   agreementMissingNote,
@@ -37,6 +42,8 @@ export interface MarkdownOptions {
   readonly marker?: string
   /** Where the reader finds what a cut left out; one sentence of plain text. */
   readonly fullReportNote?: string
+  /** The HTML report's address (an artifact), linked below the caution; https only. */
+  readonly htmlReportUrl?: string
 }
 
 const defaultFullReportNote = "The full report is in the workflow run's job summary and in the JSON report file."
@@ -45,6 +52,8 @@ const defaultFullReportNote = "The full report is in the workflow run's job summ
 const maxMessageCharacters = 3000
 
 const severityWord: Readonly<Record<Severity, string>> = { block: 'Block', warn: 'Warn', info: 'Info' }
+
+const fenceOpen = '```mermaid'
 
 /** What one composition keeps: feature-table rows (0: none), the details, how many findings. */
 interface Layout {
@@ -74,14 +83,15 @@ function shortenMessage(message: string, maxCharacters: number): string {
   return `${message.slice(0, maxCharacters)} … (${formatCount(cut)} more characters in the full report)`
 }
 
-function renderFinding(finding: FindingLines, maxItems: number): string {
-  const lines = [
-    `- **${severityWord[finding.severity]}.** ${escapeMarkdownText(finding.title)} (${escapeMarkdownText(finding.about)})`,
-  ]
-  const message = escapeMarkdownText(shortenMessage(finding.message, maxMessageCharacters))
-  if (message !== '') lines.push(message)
-  if (finding.evidence.length > 0) {
-    lines.push(`Evidence: ${limitItems(finding.evidence, maxItems).map(escapeMarkdownText).join('; ')}`)
+/** A block or warn finding in full; an info finding as its title only (in full in the details). */
+function renderFinding(finding: FindingLines, maxItems: number, isFull: boolean): string {
+  const lines = [`- **${severityWord[finding.severity]}:** ${escapeMarkdownText(finding.title)}`]
+  if (isFull) {
+    const message = escapeMarkdownText(shortenMessage(finding.message, maxMessageCharacters))
+    if (message !== '') lines.push(message)
+    if (finding.evidence.length > 0) {
+      lines.push(`Evidence: ${limitItems(finding.evidence, maxItems).map(escapeMarkdownText).join('; ')}.`)
+    }
   }
   return lines.join('\n').replace(/\n/g, '\n  ')
 }
@@ -100,6 +110,10 @@ function checkOptions(options: MarkdownOptions): Required<MarkdownOptions> {
     maxCharacters: options.maxCharacters ?? 60_000,
     marker: options.marker ?? '<!-- plumbline -->',
     fullReportNote: options.fullReportNote ?? defaultFullReportNote,
+    htmlReportUrl: options.htmlReportUrl ?? '',
+  }
+  if (resolved.htmlReportUrl !== '' && !/^https:\/\/[^\s<>()"'`\\]+$/.test(resolved.htmlReportUrl)) {
+    throw new RangeError(`renderMarkdown needs htmlReportUrl to be an https address without spaces or brackets, got '${resolved.htmlReportUrl}'`)
   }
   if (!Number.isInteger(resolved.maxTableRows) || resolved.maxTableRows < 1) {
     throw new RangeError(`renderMarkdown needs maxTableRows to be a whole number of at least 1, got ${resolved.maxTableRows}`)
@@ -155,7 +169,6 @@ function renderError(report: GateReport, options: Required<MarkdownOptions>): st
       ...(shortened
         ? [escapeMarkdownText(`The error message was shortened to fit this comment. ${options.fullReportNote}`)]
         : []),
-      escapeMarkdownText(reportCaution),
     ].join('\n\n') + '\n'
   }
   const full = compose(Infinity)
@@ -175,11 +188,15 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
   if (report.verdict === 'error') return renderError(report, resolved)
   const { maxTableRows, maxCharacters } = resolved
   const tables = tabulateReport(report)
-  const findingItems = tables.findings.map((finding) => renderFinding(finding, maxTableRows))
+  const findingItems = tables.findings.map((finding) => renderFinding(finding, maxTableRows, finding.severity !== 'info'))
   const nameLists = [tables.featureSet.added, tables.featureSet.removed, tables.featureSet.kindChanged]
   const longestList = Math.max(...nameLists.map((list) => list.length))
 
+  const agreement = tables.agreement
+    ? renderDetails('Rank agreement against the reseed null', [renderTable(tables.agreement.table), escapeMarkdownText(tables.agreement.note)])
+    : renderDetails('Rank agreement', [agreementMissingNote])
   const details = [
+    agreement,
     ...(tables.sides && tables.scores
       ? [
           renderDetails('Models and holdout scores per refit', [
@@ -198,9 +215,15 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
       ...(tables.timings.rows.length > 0 ? [renderTable(limitRows(tables.timings, maxTableRows))] : []),
     ]),
   ]
-  const agreement = tables.agreement
-    ? `#### Rank agreement\n\n${renderTable(tables.agreement.table)}\n\n${escapeMarkdownText(tables.agreement.note)}`
-    : `#### Rank agreement\n\n${agreementMissingNote}`
+  const score = tables.score
+    ? [tables.score.sentence, ...tables.score.evidenceLines].map(escapeMarkdownText).join('\n')
+    : null
+  const chart = mermaidChart(report)
+  const chartBlock = chart === null ? null : `${fenceOpen}\n${chart}\n\`\`\``
+  const htmlLink =
+    resolved.htmlReportUrl === ''
+      ? null
+      : `The HTML report, with charts of every feature: [download it from the workflow run](${resolved.htmlReportUrl}).`
 
   function renderFindings(shown: number): string {
     if (findingItems.length === 0) return '#### Findings\n\nNone.'
@@ -210,25 +233,32 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     return `#### Findings: ${countBySeverity(tables.findings)}\n\n${items}`
   }
 
+  /** The info findings shown, with their messages and evidence, collapsed. */
+  function renderInfoDetails(shown: number): string[] {
+    const kept = tables.findings.slice(0, shown).filter((finding) => finding.severity === 'info')
+    if (kept.length === 0) return []
+    const items = kept.map((finding) => renderFinding(finding, maxTableRows, true).replace(/^- \*\*Info:\*\* /, '- '))
+    return [renderDetails(`The ${formatCount(kept.length)} info ${kept.length === 1 ? 'finding' : 'findings'} in full`, [items.join('\n')])]
+  }
+
   function renderFeatures(rows: number): string {
     const count = tables.features.rows.length
-    const heading = '#### Feature importance'
-    if (count === 0) return `${heading}\n\nNo features were measured.`
-    if (rows === 0) return `${heading}\n\nThe table of ${formatCount(count)} rows is left out; see the note below.`
-    return `${heading}\n\n${escapeMarkdownText(importanceNote)}\n\n${renderTable(limitRows(tables.features, rows))}`
+    const summary = `Feature importance, ${formatCount(count)} ${count === 1 ? 'row' : 'rows'}`
+    if (count === 0) return renderDetails('Feature importance', ['No features were measured.'])
+    if (rows === 0) return renderDetails(summary, [`The table of ${formatCount(count)} rows is left out; see the note below.`])
+    return renderDetails(summary, [escapeMarkdownText(importanceNote), renderTable(limitRows(tables.features, rows))])
   }
 
   function renderFeatureSet(maxItems: number): string {
     const { added, removed, kindChanged, unchangedCount } = tables.featureSet
-    if (unchangedCount !== null) return `#### Feature set\n\nThe same ${formatCount(unchangedCount)} features on both sides.`
-    const line = (label: string, names: readonly string[]) => {
+    if (unchangedCount !== null) return `Feature set: the same ${formatCount(unchangedCount)} features on both sides.`
+    const part = (label: string, names: readonly string[]) => {
       if (names.length === 0) return []
-      if (maxItems === 0) return [`- ${label}: ${formatCount(names.length)} (names left out)`]
-      const shown = limitItems(names, maxItems).map(escapeMarkdownText).join(', ')
-      return [`- ${label} (${formatCount(names.length)}): ${shown}`]
+      if (maxItems === 0) return [`${label} ${formatCount(names.length)} (names left out)`]
+      return [`${label} ${limitItems(names, maxItems).map(escapeMarkdownText).join(', ')}`]
     }
-    const lists = [...line('Added', added), ...line('Removed', removed), ...line('Changed kind', kindChanged)]
-    return ['#### Feature set', '', ...lists].join('\n')
+    const parts = [...part('added', added), ...part('removed', removed), ...part('changed kind:', kindChanged)]
+    return `Feature set: ${parts.join('; ')}.`
   }
 
   function describeCuts(layout: Layout): string | null {
@@ -248,7 +278,7 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
           : `the feature-set lists show at most ${layout.rows} names each`,
       )
     }
-    if (!layout.details) cuts.push('the details (models, scores and seeds per refit, settings, timings) are left out')
+    if (!layout.details) cuts.push('the details (info findings in full, rank agreement, models, scores and seeds per refit, settings, timings) are left out')
     if (layout.findings < findingItems.length) {
       const hidden = tables.findings.slice(layout.findings)
       const shown = `${formatCount(layout.findings)} of ${formatCount(findingItems.length)} findings are shown`
@@ -271,13 +301,16 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
       resolved.marker,
       `### ${escapeMarkdownText(tables.heading)}`,
       escapeMarkdownText(report.headline),
+      ...(score === null ? [] : [score]),
       findingsSection(layout.findings),
-      featuresSection(layout.rows),
+      ...(chartBlock === null ? [] : [chartBlock]),
       featureSetSection(layout.rows),
-      agreement,
-      ...(layout.details ? details : []),
-      ...(cutNote === null ? [] : [cutNote]),
       escapeMarkdownText(reportCaution),
+      ...(htmlLink === null ? [] : [htmlLink]),
+      ...(cutNote === null ? [] : [cutNote]),
+      ...(layout.details ? renderInfoDetails(layout.findings) : []),
+      featuresSection(layout.rows),
+      ...(layout.details ? details : []),
     ]
   }
   const join = (paragraphs: readonly string[]) => `${paragraphs.join('\n\n')}\n`

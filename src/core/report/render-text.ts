@@ -103,7 +103,6 @@ function renderError(report: GateReport, width: number): string {
     wrap(report.headline, width, '').join('\n'),
     wrap(noVerdictStatement, width, '').join('\n'),
     ...(blocks.length > 0 ? blocks : ['The report holds no run-error finding to show.']),
-    wrap(reportCaution, width, '').join('\n'),
   ].join('\n\n')
 }
 
@@ -181,6 +180,7 @@ export function renderText(report: GateReport, options: TextOptions = {}): strin
   return [
     tables.heading,
     wrap(report.headline, width, '').join('\n'),
+    ...(tables.score ? [[tables.score.sentence, ...tables.score.evidenceLines].flatMap((line) => wrap(line, width, '')).join('\n')] : []),
     findings,
     features,
     featureSet,

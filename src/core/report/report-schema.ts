@@ -65,6 +65,7 @@ const findingSchema = z.strictObject({
     'holdout-rows',
     'feature-set',
     'floor-drop',
+    'share-redistribution',
     'unused-feature',
     'policy-changed',
     'noise-model',

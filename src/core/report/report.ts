@@ -15,6 +15,7 @@ export type FindingKind =
   | 'holdout-rows' // the two sides are not scored on the same holdout rows
   | 'feature-set' // features added, removed or changed kind
   | 'floor-drop' // a feature above the floor on the base is indistinguishable from zero on the head
+  | 'share-redistribution' // a strong feature added or removed moved the others' importance in proportion (their shifts, grouped)
   | 'unused-feature' // an added feature the candidate model does not use
   | 'policy-changed' // the pull request changes the policy file itself
   | 'noise-model' // how much noise the floor covers (loaded models cannot be reseeded)

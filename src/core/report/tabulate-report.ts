@@ -4,7 +4,8 @@
  * aligns them. Nothing here is escaped yet, and nothing is cut: `limitRows` and `limitItems` cut.
  */
 import { sortFindings } from '../checks/verdict.ts'
-import { formatCount, formatNumber, formatPercent, formatPValue } from './format-number.ts'
+import { studentTQuantile } from '../statistics/student-t-quantile.ts'
+import { formatChange, formatCount, formatNumber, formatPercent, formatPValue } from './format-number.ts'
 import type {
   Evidence,
   FeatureRow,
@@ -28,8 +29,18 @@ export interface FindingLines {
   /** What the finding is about: "leakage; feature: delivered_at_hour". */
   readonly about: string
   readonly message: string
-  /** "name = value", one per evidence entry, in the report's order. */
+  /** "label value" in words, one per evidence entry, in the report's order (machine keys stay in the JSON). */
   readonly evidence: readonly string[]
+  /** The same as [label, value] pairs. */
+  readonly evidencePairs: readonly (readonly [string, string])[]
+}
+
+/** The holdout score of both sides, the change and how many reseed SDs it moved; null without sides. */
+export interface ScoreSummary {
+  /** "Holdout log-loss (lower is better): base 0.6395 [0.6378, 0.6412] → head 0.5695 [...], -11%, 29.3 reseed SDs better (95% intervals over refits)." */
+  readonly sentence: string
+  /** Per-feature lines of drop-column results and lift evidence, when the report has them. */
+  readonly evidenceLines: readonly string[]
 }
 
 export interface ReportTables {
@@ -47,6 +58,7 @@ export interface ReportTables {
     readonly unchangedCount: number | null
   }
   readonly agreement: { readonly table: TextTable; readonly note: string } | null
+  readonly score: ScoreSummary | null
   /** Base and head side by side: ref, commit, model, rows, score. Null when the run had no sides. */
   readonly sides: TextTable | null
   readonly scores: TextTable | null
@@ -65,26 +77,128 @@ export const importanceNote =
   'Importance is how much the holdout metric worsens when a feature is replaced by draws from the ' +
   'reference data, averaged over reseeded refits. The floor is the standard deviation of that ' +
   'importance across refits; a feature is above the floor when its 95% interval lies above zero. ' +
-  'A shift is a significant change of importance; places moved count among the compared features, ' +
-  'those on both sides and above the floor on either.'
+  'A shift is a significant change of importance, given as a signed percentage of the base value; ' +
+  "ranks are each side's own, by mean importance."
 
 export const agreementMissingNote = 'Rank agreement was not computed for this run.'
 
-function formatEvidenceValue(key: string, value: Evidence[string]): string {
+/** Words for the evidence keys the checks write; any other key is spelled out from its camelCase. */
+const evidenceLabels: Readonly<Record<string, string>> = {
+  baseMean: 'base mean',
+  headMean: 'head mean',
+  relativeChange: 'change against the larger mean',
+  baseRefitSd: 'base reseed SD',
+  headRefitSd: 'head reseed SD',
+  welchT: "Welch's t",
+  welchDf: 'Welch df',
+  pValue: 'p',
+  adjustedPValue: 'adjusted p',
+  baseRank: 'base rank',
+  headRank: 'head rank',
+  positionsMoved: 'places moved among shared features',
+  share: 'share of the importance',
+  baseShare: 'base share of the importance',
+  runnerUpRatio: 'times the runner-up',
+  runnerUp: 'runner-up',
+  singleFeatureSeparation: 'a model on it alone, holdout score',
+  baseSingleFeatureSeparation: 'a model on it alone on the base, holdout score',
+  fullModelSeparation: 'the full model, holdout score',
+  baseFullModelSeparation: 'the base full model, holdout score',
+  separationJumpInSds: 'full model moved, reseed SDs',
+  relativePower: "share of the full model's gain alone",
+  threshold: 'policy line',
+  isNew: 'new in this pull request',
+  isChanged: 'changed in this pull request',
+  wasDominantOnBase: 'dominant on the base already',
+  worsening: 'worsening',
+  tolerance: 'tolerance',
+  standardError: 'standard error',
+  alpha: 'level',
+  worseningInReseedSds: 'worsening in reseed SDs',
+  kendallTau: 'Kendall tau-b',
+  rankBiasedOverlap: 'rank-biased overlap',
+  kendallTauThreshold: 'Kendall tau-b reseed threshold',
+  rankBiasedOverlapThreshold: 'rank-biased overlap reseed threshold',
+  featuresCompared: 'features compared',
+  nullPairs: 'reseed pairs',
+  headLower: 'head interval low',
+  headUpper: 'head interval high',
+  mean: 'mean',
+  lower: 'interval low',
+  upper: 'interval high',
+  added: 'added',
+  removed: 'removed',
+  kindChanged: 'changed kind',
+  cause: 'cause',
+  causeShare: "cause's share of the importance",
+  featuresExplained: 'features explained',
+  fellToFloor: 'fell to the floor',
+  sharedTotalBase: 'shared features, base total',
+  sharedTotalHead: 'shared features, head total',
+  proportionalFactor: 'proportional factor',
+  explained: 'explained',
+  liftShare: 'lift (share of the loss the base model left)',
+  removedShare: 'share of the loss removed',
+  dropColumnLoss: 'drop-column loss',
+  dropColumnLower: 'drop-column interval low',
+  dropColumnUpper: 'drop-column interval high',
+  dropColumnPValue: 'drop-column p',
+  dropColumnInReseedSds: 'drop-column loss in reseed SDs',
+  dropColumnAboveNoise: 'drop-column loss above noise',
+  baseLoss: 'base loss',
+  headLoss: 'head loss',
+  powerAgainstBaseModel: 'power against the base model',
+  powerAgainstBestFeature: 'power against the best existing feature',
+  bestExistingFeature: 'best existing feature',
+  sliceColumn: 'slice column',
+  sliceValue: 'slice value',
+  sliceRows: 'slice rows',
+  sliceSeparation: 'a model on it alone in the slice, holdout score',
+  baseSliceSeparation: 'a model on it alone in the slice on the base, holdout score',
+  baseRows: 'base rows',
+  headRows: 'head rows',
+  differingRows: 'rows that differ',
+  idsOnlyOnHead: 'ids only on the head',
+  firstDifferingRow: 'first differing row',
+  isUserError: 'a problem in the inputs',
+}
+
+/** A camelCase machine key in words: "dropColumnLoss" → "drop column loss". */
+export function evidenceLabel(key: string): string {
+  return evidenceLabels[key] ?? key.replace(/([a-z0-9])([A-Z])/g, '$1 $2').replace(/[_-]+/g, ' ').toLowerCase()
+}
+
+/** Shares print as percentages, p-values with two digits, booleans as yes / no. */
+export function formatEvidenceValue(key: string, value: Evidence[string]): string {
   if (value === null) return 'n/a'
   if (typeof value === 'boolean') return value ? 'yes' : 'no'
   if (typeof value === 'string') return value
-  return /p-?value$/i.test(key) ? formatPValue(value) : formatNumber(value)
+  if (/p-?value$/i.test(key) || key === 'alpha') return formatPValue(value)
+  if (/(^s|S)hare$|^relativeChange$|^relativePower$/.test(key)) return formatPercent(value)
+  return formatNumber(value)
 }
 
-function describeFinding(finding: Finding): FindingLines {
+/**
+ * The evidence worth words: nothing about a side that does not have the finding's feature (a base
+ * share of an added feature is no measurement), and no "not computed" entry.
+ */
+function evidenceInWords(finding: Finding, featureSet: GateReport['featureSet']): [string, Evidence[string]][] {
+  const missing = finding.feature === undefined ? null : featureSet.added.includes(finding.feature) ? 'base' : featureSet.removed.includes(finding.feature) ? 'head' : null
+  return Object.entries(finding.evidence).filter(([key, value]) => value !== null && !(missing !== null && key.startsWith(missing)))
+}
+
+function describeFinding(finding: Finding, task: GateReport['settings']['task'], featureSet: GateReport['featureSet']): FindingLines {
   const kind = finding.kind.replace(/-/g, ' ')
+  const entries = evidenceInWords(finding, featureSet)
+  // A one-feature model's and the full model's "separation" is AUC for a binary task, R² for regression.
+  const label = (key: string) => evidenceLabel(key).replace('holdout score', task === 'binary' ? 'holdout AUC' : 'holdout R²')
   return {
     severity: finding.severity,
     title: finding.title,
     about: finding.feature === undefined ? kind : `${kind}; feature: ${finding.feature}`,
     message: finding.message,
-    evidence: Object.entries(finding.evidence).map(([key, value]) => `${key} = ${formatEvidenceValue(key, value)}`),
+    evidence: entries.map(([key, value]) => `${label(key)} ${formatEvidenceValue(key, value)}`),
+    evidencePairs: entries.map(([key, value]) => [label(key), formatEvidenceValue(key, value)] as const),
   }
 }
 
@@ -104,16 +218,18 @@ function describeStatus(row: FeatureRow): string {
   if (row.presence === 'removed') return 'removed'
   const floor = row.head?.isAboveFloor ? 'above floor' : 'indistinguishable from zero'
   if (row.presence === 'added') return row.head ? `added, ${floor}` : 'added'
-  if (row.shift?.isSignificant) {
-    const moved = row.shift.positionsMoved
-    if (moved === null || moved === 0) return 'shifted'
-    const places = Math.abs(moved) === 1 ? 'place' : 'places'
-    return `shifted ${Math.abs(moved)} ${places} ${moved < 0 ? 'up' : 'down'} among compared`
+  if (row.shift?.isSignificant && row.base && row.head) {
+    return `shifted ${formatChange(row.base.mean, row.head.mean)}${row.head.isAboveFloor ? '' : ', now indistinguishable from zero'}`
   }
   return floor
 }
 
 function tabulateFeatures(features: readonly FeatureRow[]): TextTable {
+  // A drop-column column only when some feature was refitted without (the leakage check's refits).
+  const drops = features.map(readDropColumn)
+  const hasDrop = drops.some((drop) => drop !== null)
+  const describeDrop = (drop: ReturnType<typeof readDropColumn>) =>
+    drop === null ? '-' : `${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]${drop.isAboveNoise === false ? ' (noise)' : ''}`
   return {
     header: [
       'feature',
@@ -123,10 +239,11 @@ function tabulateFeatures(features: readonly FeatureRow[]): TextTable {
       'floor base (refit SD)',
       'floor head (refit SD)',
       'share of head',
+      ...(hasDrop ? ['drop-column loss, head [95% CI]'] : []),
       'status',
     ],
-    align: ['left', 'right', 'right', 'right', 'right', 'right', 'right', 'left'],
-    rows: features.map((row) => [
+    align: ['left', 'right', 'right', 'right', 'right', 'right', 'right', ...(hasDrop ? (['right'] as const) : []), 'left'],
+    rows: features.map((row, i) => [
       describeName(row),
       `${row.base?.rank ?? '-'} → ${row.head?.rank ?? '-'}`,
       describeImportance(row.base),
@@ -134,6 +251,7 @@ function tabulateFeatures(features: readonly FeatureRow[]): TextTable {
       row.base ? formatNumber(row.base.refitSd) : '-',
       row.head ? formatNumber(row.head.refitSd) : '-',
       row.head ? formatPercent(row.head.share) : '-',
+      ...(hasDrop ? [describeDrop(drops[i])] : []),
       describeStatus(row),
     ]),
   }
@@ -249,7 +367,7 @@ export function tabulateReport(report: GateReport): ReportTables {
   const headCount = sides ? sides.head.features.length : report.features.filter((row) => !row.isGroup).length
   return {
     heading: report.verdict === 'error' ? 'plumbline: error, no verdict' : `plumbline: ${report.verdict}`,
-    findings: sortFindings(report.findings).map(describeFinding),
+    findings: sortFindings(report.findings).map((finding) => describeFinding(finding, settings.task, featureSet)),
     features: tabulateFeatures(report.features),
     featureSet: {
       added: featureSet.added,
@@ -258,6 +376,7 @@ export function tabulateReport(report: GateReport): ReportTables {
       unchangedCount: changed === 0 ? headCount : null,
     },
     agreement: report.agreement ? tabulateAgreement(report.agreement) : null,
+    score: sides ? summarizeScore(report) : null,
     sides: sides ? tabulateSides(sides.base, sides.head, settings.metric) : null,
     scores: sides
       ? tabulatePerRefit(['refit', `base ${settings.metric}`, `head ${settings.metric}`], sides.base.scores, sides.head.scores, formatNumber)
@@ -270,7 +389,8 @@ export function tabulateReport(report: GateReport): ReportTables {
       header: ['check', 'setting', 'value'],
       align: ['left', 'left', 'right'],
       rows: Object.entries(settings.checks).flatMap(([check, values]) =>
-        Object.entries(values).map(([key, value]) => [check, key, formatEvidenceValue(key, value)]),
+        // Policy settings as the policy file writes them: 0.5, not 50%.
+        Object.entries(values).map(([key, value]) => [check, key, typeof value === 'number' ? formatNumber(value) : formatEvidenceValue(key, value)]),
       ),
     },
     timings: {
@@ -279,6 +399,86 @@ export function tabulateReport(report: GateReport): ReportTables {
       rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)]),
     },
   }
+}
+
+/** mean ± t(0.975, n−1)·SD/√n over refits, or the single value with one refit. */
+function scoreInterval(side: SideSummary): string {
+  const n = side.scores.length
+  if (n < 2 || !Number.isFinite(side.scoreSd)) return formatNumber(side.scoreMean)
+  const half = (studentTQuantile(0.975, n - 1) * side.scoreSd) / Math.sqrt(n)
+  return `${formatNumber(side.scoreMean)} [${formatNumber(side.scoreMean - half)}, ${formatNumber(side.scoreMean + half)}]`
+}
+
+function summarizeScore(report: GateReport): ScoreSummary {
+  const { base, head } = report.sides!
+  const { metric, higherIsBetter } = report.settings
+  const pooled = Math.sqrt((base.scoreSd ** 2 + head.scoreSd ** 2) / 2)
+  const moved = head.scoreMean - base.scoreMean
+  const better = higherIsBetter ? moved > 0 : moved < 0
+  const sds =
+    moved === 0
+      ? 'unchanged'
+      : pooled > 0 && Number.isFinite(pooled)
+        ? `${formatNumber(Math.abs(moved) / pooled)} reseed SDs ${better ? 'better' : 'worse'}`
+        : `${better ? 'better' : 'worse'}; no reseed spread to compare with`
+  const interval = base.scores.length >= 2 && head.scores.length >= 2 ? ' (95% intervals over refits)' : ''
+  return {
+    sentence:
+      `Holdout ${metric} (${higherIsBetter ? 'higher' : 'lower'} is better): base ${scoreInterval(base)} → ` +
+      `head ${scoreInterval(head)}, ${formatChange(base.scoreMean, head.scoreMean)}, ${sds}${interval}.`,
+    evidenceLines: [...liftLines(report), ...dropColumnLines(report)],
+  }
+}
+
+/** Lift evidence the leakage check attached to its findings, one line per feature. */
+function liftLines(report: GateReport): string[] {
+  const seen = new Set<string>()
+  const lines: string[] = []
+  for (const finding of sortFindings(report.findings)) {
+    const e = finding.evidence
+    if (typeof e.liftShare !== 'number' || finding.feature === undefined || seen.has(finding.feature)) continue
+    seen.add(finding.feature)
+    const drop =
+      typeof e.dropColumnLoss === 'number'
+        ? `; without it the head's loss grows by ${formatNumber(e.dropColumnLoss)}` +
+          (typeof e.dropColumnLower === 'number' && typeof e.dropColumnUpper === 'number'
+            ? ` [${formatNumber(e.dropColumnLower)}, ${formatNumber(e.dropColumnUpper)}]`
+            : '') +
+          (typeof e.dropColumnInReseedSds === 'number' ? `, ${formatNumber(e.dropColumnInReseedSds)} reseed SDs` : '')
+        : ''
+    lines.push(`Lift of ${finding.feature}: ${formatPercent(e.liftShare)} of the loss the base model left${drop}.`)
+  }
+  return lines
+}
+
+/**
+ * A feature's drop-column (LOCO) result on the head, as the leakage check's refits without the
+ * feature leave it in `head.dropColumn` (`loss`, `lower`, `upper`, `isAboveNoise`); read loosely so
+ * a report without the field, or from an older writer, renders without it.
+ */
+export function readDropColumn(row: FeatureRow): { mean: number; lower: number; upper: number; isAboveNoise?: boolean } | null {
+  const holders = [(row.head ?? {}) as unknown as Record<string, unknown>, row as unknown as Record<string, unknown>]
+  for (const holder of holders) {
+    const value = holder.dropColumn
+    if (typeof value !== 'object' || value === null) continue
+    const v = value as Record<string, unknown>
+    const mean = typeof v.loss === 'number' ? v.loss : v.mean
+    if (typeof mean !== 'number' || !Number.isFinite(mean)) continue
+    const lower = typeof v.lower === 'number' ? v.lower : NaN
+    const upper = typeof v.upper === 'number' ? v.upper : NaN
+    return { mean, lower, upper, ...(typeof v.isAboveNoise === 'boolean' ? { isAboveNoise: v.isAboveNoise } : {}) }
+  }
+  return null
+}
+
+function dropColumnLines(report: GateReport): string[] {
+  const rows = report.features.map((row) => ({ row, drop: readDropColumn(row) })).filter((x) => x.drop !== null)
+  if (rows.length === 0) return []
+  const shown = rows
+    .sort((a, b) => b.drop!.mean - a.drop!.mean)
+    .slice(0, 3)
+    .map(({ row, drop }) => `${row.name} ${formatNumber(drop!.mean)} [${formatNumber(drop!.lower)}, ${formatNumber(drop!.upper)}]`)
+  return [`Drop-column loss (refitted without the feature), largest: ${shown.join('; ')}.`]
 }
 
 /** The first `maxRows` rows, then one "N more rows" row when rows were cut. */

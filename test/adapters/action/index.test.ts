@@ -103,6 +103,7 @@ function runAction(options: {
   inputs?: Record<string, string>
   workspace?: string
   path?: string
+  env?: Record<string, string>
 }): Promise<ActionRun> {
   const run = join(folder, `run-${++runCount}`)
   mkdirSync(join(run, 'temp'), { recursive: true })
@@ -123,6 +124,7 @@ function runAction(options: {
     GITHUB_OUTPUT: files.output,
     GITHUB_WORKSPACE: workspace,
     RUNNER_TEMP: join(run, 'temp'),
+    ...options.env,
   }
   // As the runner does (and @actions/core's getInput reads): INPUT_ + the name upper-cased, spaces
   // as underscores, dashes kept.
@@ -167,12 +169,24 @@ describe('node dist/index.js (the action, end to end)', () => {
     expect(firstRun.summary).toContain(commentMarker)
     expect(firstRun.summary).toContain('final\\_scan\\_delay\\_h')
     expect(firstRun.stdout).toContain(`::error::${report.headline}`)
+    expect(readFileSync(firstRun.outputs['report-html'], 'utf8').startsWith('<!DOCTYPE html>')).toBe(true)
+    expect(firstRun.stdout).toContain('No HTML report artifact: this run has no Actions runtime')
   })
 
   it('updates the same comment on the second run', async () => {
     const id = fake.comments.get(17)?.[0].id
-    const second = await runAction({ eventName: 'pull_request', event: pullRequestEvent(17) })
+    // With an Actions runtime whose results service refuses the upload (the fake answers 401 to the
+    // artifact client's CreateArtifact): a warning, and the same verdict, comment and outputs.
+    const claims = Buffer.from(JSON.stringify({ scp: 'Actions.Results:ce7f54c7-61c7-4aae-887f-30da475f5f1a:ca395085-040a-526b-2ce8-bdc85f692774' })).toString('base64url')
+    const second = await runAction({
+      eventName: 'pull_request',
+      event: pullRequestEvent(17),
+      env: { ACTIONS_RUNTIME_TOKEN: `e30.${claims}.c2ln`, ACTIONS_RESULTS_URL: `${fake.url}/`, GITHUB_RUN_ID: '555' },
+    })
     expect(second.exitCode).toBe(1)
+    expect(second.stdout).toMatch(/::warning::Could not upload the HTML report as the artifact 'plumbline-report': .*401/)
+    expect(second.outputs.verdict).toBe('block')
+    expect(fake.requests).toContainEqual({ method: 'POST', path: '/twirp/github.actions.results.api.v1.ArtifactService/CreateArtifact', status: 401 })
     expect(fake.comments.get(17)?.map((c) => c.id)).toEqual([id])
     expect(second.stdout).toContain(`Updated the comment on #17: https://github.example/${owner}/${repo}/pull/17#issuecomment-${id}`)
   })

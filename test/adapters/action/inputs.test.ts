@@ -43,7 +43,19 @@ describe('readInputs(getInput)', () => {
       reportPath: null,
       isForkCodeAllowed: false,
       workingDirectory: '.',
+      htmlArtifact: 'plumbline-report',
     })
+  })
+
+  it("reads 'html-report' as an artifact name, empty as no upload, and refuses a name GitHub would refuse", () => {
+    expect(readInputs(runnerInputs({ 'html-report': '' })).htmlArtifact).toBeNull()
+    expect(readInputs(runnerInputs({ 'html-report': 'gate report 7' })).htmlArtifact).toBe('gate report 7')
+    expect(() => readInputs(runnerInputs({ 'html-report': 'reports/gate' }))).toThrow(
+      new UserError(
+        'Input \'html-report\' must be an artifact name without " : < > | * ? \\ / or line breaks, at most 200 characters; got "reports/gate".',
+        "Fix 'html-report:' in the workflow step, or delete the line to use the default from action.yml. Set it empty to upload no HTML report.",
+      ),
+    )
   })
 
   it('uses the same default as action.yml for an input that arrives empty', () => {

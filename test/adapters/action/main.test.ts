@@ -1,3 +1,4 @@
+import { DefaultArtifactClient } from '@actions/artifact'
 import { getOctokit } from '@actions/github'
 import { retry } from '@octokit/plugin-retry'
 import { mkdtempSync, readFileSync, rmSync, writeFileSync, existsSync, mkdirSync } from 'node:fs'
@@ -69,6 +70,7 @@ async function runAction(options: {
   inputs?: Record<string, string>
   check?: () => Promise<GateReport>
   env?: Record<string, string>
+  upload?: ActionDependencies['uploadArtifact']
 }): Promise<Recorded> {
   const recorded: Recorded = { lines: [], warnings: [], failures: [], secrets: [], outputs: {}, summary: [], checks: [], fetches: [] }
   maskedBeforeFailure = recorded.secrets
@@ -116,6 +118,7 @@ async function runAction(options: {
       recorded.fetches.push(request)
       return request.ref
     },
+    ...(options.upload ? { uploadArtifact: options.upload } : {}),
   }
   await run(deps)
   return recorded
@@ -141,13 +144,67 @@ describe('run(deps) in check mode', () => {
 
     const jsonPath = join(folder, 'runner-temp', 'plumbline', 'report.json')
     const markdownPath = join(folder, 'runner-temp', 'plumbline', 'report.md')
-    expect(result.outputs).toEqual({ verdict: 'block', blocking: '1', warnings: '2', infos: '2', 'report-json': jsonPath, 'report-markdown': markdownPath })
+    const htmlPath = join(folder, 'runner-temp', 'plumbline', 'report.html')
+    expect(result.outputs).toEqual({ verdict: 'block', blocking: '1', warnings: '2', infos: '2', 'report-json': jsonPath, 'report-markdown': markdownPath, 'report-html': htmlPath })
+    expect(readFileSync(htmlPath, 'utf8').startsWith('<!DOCTYPE html>')).toBe(true)
     expect(JSON.parse(readFileSync(jsonPath, 'utf8')).headline).toBe(report.headline)
     expect(result.summary).toEqual([`${readFileSync(markdownPath, 'utf8')}\n`])
     expect(result.failures).toEqual([report.headline])
     expect(result.lines).toContain('[group] Configuration')
     expect(result.lines).toContain(`Base: ${baseSha} (from the pull_request event)`)
     expect(result.lines.join('\n')).not.toContain(token)
+  })
+
+  it('uploads the HTML report as an artifact and links it from the comment', async () => {
+    const uploads: string[][] = []
+    const result = await runAction({
+      eventName: 'pull_request',
+      event: pullRequestEvent(),
+      check: async () => courierReport(),
+      env: { ACTIONS_RUNTIME_TOKEN: 'runtime', ACTIONS_RESULTS_URL: 'http://127.0.0.1:9/', GITHUB_SERVER_URL: 'https://github.com', GITHUB_RUN_ID: '555' },
+      upload: async (name, file, rootDirectory) => {
+        uploads.push([name, file, rootDirectory])
+        return { id: 77 }
+      },
+    })
+    const htmlPath = join(folder, 'runner-temp', 'plumbline', 'report.html')
+    expect(uploads).toEqual([['plumbline-report', htmlPath, join(folder, 'runner-temp', 'plumbline')]])
+    expect(fake.comments.get(17)?.[0].body).toContain(
+      `[download it from the workflow run](https://github.com/${owner}/${repo}/actions/runs/555/artifacts/77)`,
+    )
+    expect(result.warnings).toEqual([])
+  })
+
+  it('keeps the verdict, the comment and the outputs when the artifact upload fails (the real client against a refusing server)', async () => {
+    // @actions/artifact 6.2.1 reads its runtime from process.env; a JWT with the Actions.Results
+    // scope it parses for the run's backend ids (unsigned: the fake server never checks it).
+    const claims = Buffer.from(JSON.stringify({ scp: 'Actions.Results:ce7f54c7-61c7-4aae-887f-30da475f5f1a:ca395085-040a-526b-2ce8-bdc85f692774' })).toString('base64url')
+    const runtime = { ACTIONS_RUNTIME_TOKEN: `e30.${claims}.c2ln`, ACTIONS_RESULTS_URL: `${fake.url}/`, GITHUB_SERVER_URL: 'https://github.com', GITHUB_RUN_ID: '555' }
+    const saved = Object.fromEntries(Object.keys(runtime).map((k) => [k, process.env[k]]))
+    Object.assign(process.env, runtime)
+    try {
+      const result = await runAction({
+        eventName: 'pull_request',
+        event: pullRequestEvent(),
+        check: async () => courierReport(),
+        env: runtime,
+        upload: (name, file, rootDirectory) => new DefaultArtifactClient().uploadArtifact(name, [file], rootDirectory),
+      })
+      expect(result.warnings).toHaveLength(1)
+      expect(result.warnings[0]).toMatch(/^Could not upload the HTML report as the artifact 'plumbline-report': .+\. The verdict is unchanged; the comment has no link to it, and the file is at .+report\.html\.$/)
+      expect(result.outputs.verdict).toBe('block')
+      expect(result.failures).toEqual([courierReport().headline])
+      const body = fake.comments.get(17)?.[0].body ?? ''
+      expect(body).toContain('### plumbline: block')
+      expect(body).not.toContain('download it from the workflow run')
+      // The upload reached the results service and was refused there.
+      expect(fake.requests).toContainEqual({ method: 'POST', path: '/twirp/github.actions.results.api.v1.ArtifactService/CreateArtifact', status: 401 })
+    } finally {
+      for (const [k, v] of Object.entries(saved)) {
+        if (v === undefined) delete process.env[k]
+        else process.env[k] = v
+      }
+    }
   })
 
   it('updates the same comment on a rerun', async () => {

@@ -124,11 +124,18 @@ describe('plumbline check on a pull request that changes nothing the model sees'
 describe('plumbline check on pull requests the gate must see', () => {
   it('blocks a label leak with exit 1, comparing the working tree with the merge base by default', async () => {
     const repo = repository({ base: baseFiles(), head: withColumns([...dispatchColumns, 'scan_delay_h']) })
-    const result = await run(['check', '--json', 'report.json'], repo.root)
+    const result = await run(['check', '--json', 'report.json', '--markdown', 'comment.md'], repo.root)
     expect(result.code).toBe(1)
     const report = readReport(repo, 'report.json')
     expect(report.verdict).toBe('block')
     expect(report.headline).toBe('Blocked: scan_delay_h alone separates the holdout (AUC 1); it is new in this pull request.')
+    // A one-feature pull request: what a reviewer sees before the first collapsed section fits one screen.
+    const comment = readFileSync(join(repo.root, 'comment.md'), 'utf8')
+    const visible = comment.split('\n<details>')[0].split('\n')
+    expect(visible.length).toBeLessThanOrEqual(45)
+    expect(visible[4]).toBe('Blocked: scan\\_delay\\_h alone separates the holdout (AUC 1); it is new in this pull request.')
+    expect(visible[6]).toMatch(/^Holdout log-loss \(lower is better\): base [\d.]+ \\\[[\d.]+, [\d.]+\\\] → head /)
+    expect(visible).toContain('```mermaid')
     expect(report.findings[0]).toMatchObject({ kind: 'leakage', severity: 'block', feature: 'scan_delay_h' })
     expect(report.featureSet).toEqual({ added: ['scan_delay_h'], removed: [], kindChanged: [] })
     expect(report.sides!.base).toMatchObject({ ref: 'merge-base(HEAD, main)', commit: repo.baseCommit })
@@ -238,6 +245,51 @@ describe('plumbline check on problems the user can fix', () => {
     expect(worktrees(repo)).toEqual([`worktree ${repo.root}`])
     const report = readReport(repo, 'report.json')
     expect(report.verdict).toBe('error')
+  })
+})
+
+describe('plumbline check, what it says', () => {
+  it('prints only the verdict line with --quiet, and writes the HTML report', async () => {
+    const repo = repository({ base: baseFiles() })
+    const result = await run(['check', '--base', 'main', '--head', 'pr', '--quiet', '--html', 'out/report.html'], repo.root)
+    expect(result).toEqual({
+      code: 0,
+      stdout: 'plumbline: Passed: no leakage-like dominance, rank shift or score regression beyond reseed noise was found.\n',
+      stderr: '',
+    })
+    const html = readFileSync(join(repo.root, 'out/report.html'), 'utf8')
+    expect(html.startsWith('<!DOCTYPE html>')).toBe(true)
+    expect(html).toContain('<span class="verdict v-pass">PASS</span>')
+  })
+
+  it('names the side and the path in the repository for a missing data file, and shows no caution without a verdict', async () => {
+    const policy = smallPolicy().replace('train: data/train.csv', 'train: data/parcels.csv')
+    const repo = repository({ base: baseFiles({ policy }), head: { 'plumbline.yml': policy } })
+    const result = await run(['check', '--base', 'main', '--head', 'pr'], repo.root)
+    expect(result.code).toBe(2)
+    expect(result.stderr).toContain(
+      "Cannot read the data file base: data/parcels.csv: there is no such file in that side's commit.\n" +
+        "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'.\n",
+    )
+    expect(result.stderr).not.toMatch(/plumbline-[A-Za-z0-9]{6}|\/tmp\//)
+    expect(result.stdout + result.stderr).not.toContain('A pass is not proof')
+  })
+
+  it('lists the closest column names when the target is misspelt', async () => {
+    const policy = smallPolicy().replace('target: late', 'target: lates')
+    const repo = repository({ base: baseFiles({ policy }), head: { 'plumbline.yml': policy } })
+    const result = await run(['check', '--base', 'main', '--head', 'pr'], repo.root)
+    expect(result.code).toBe(2)
+    expect(result.stderr).toMatch(/\nbase: data\/train\.csv has no target column 'lates'\. The closest of its \d+ columns: 'late', /)
+  })
+
+  it('suggests the closest option for an unknown one', async () => {
+    expect(await run(['check', '--jsn', 'out.json'], '/')).toEqual({
+      code: 2,
+      stdout: '',
+      stderr: "plumbline check: unknown option '--jsn'. Did you mean '--json'?\nRun 'plumbline check --help' for the options.\n",
+    })
+    expect((await run(['check', '--html'], '/')).stderr).toBe("plumbline check: --html needs a value.\nRun 'plumbline check --help' for the options.\n")
   })
 })
 

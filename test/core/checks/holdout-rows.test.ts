@@ -5,7 +5,7 @@ const fixText = 'Score and importance differences between the sides would then m
   'Keep the holdout fixed in the pull request (or split by an id column with data.split.by), then rerun.'
 
 function holdout(side: 'base' | 'head', target: number[], ids?: string[]): HoldoutIdentity {
-  return { source: `${side}:data/holdout.csv`, rows: target.length, target: Float64Array.from(target), ...(ids ? { ids, idName: 'parcel_id' } : {}) }
+  return { source: `${side}: data/holdout.csv`, rows: target.length, target: Float64Array.from(target), ...(ids ? { ids, idName: 'parcel_id' } : {}) }
 }
 
 describe('checkHoldoutRows(base, head, action)', () => {
@@ -16,7 +16,7 @@ describe('checkHoldoutRows(base, head, action)', () => {
         kind: 'holdout-rows',
         severity: 'block',
         title: 'The two sides are not scored on the same holdout rows: 4 rows on the base side, 3 on the head.',
-        message: `The base holdout (base:data/holdout.csv) has 4 rows and the head holdout (head:data/holdout.csv) has 3. ${fixText}`,
+        message: `The base holdout (base: data/holdout.csv) has 4 rows and the head holdout (head: data/holdout.csv) has 3. ${fixText}`,
         evidence: { baseRows: 4, headRows: 3 },
       },
     ])

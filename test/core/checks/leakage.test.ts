@@ -91,9 +91,9 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
       kind: 'leakage',
       severity: 'info',
       feature: 'distance_km',
-      title: 'distance_km dominates the model (80% of the importance, 6.67× the runner-up); it is unchanged.',
+      title: 'distance_km dominates the model (80% of the importance, 6.667× the runner-up); it is unchanged.',
       message:
-        "distance_km carries 80% of the total positive importance, 6.67× as much as stop_count, and a model that sees only it earns 95% of the full model's gain over a trivial predictor " +
+        "distance_km carries 80% of the total positive importance, 6.667× as much as stop_count, and a model that sees only it earns 95.2% of the full model's gain over a trivial predictor " +
         '(AUC 0.9 alone vs 0.92 for the full model). It already dominated the base model (80%) and did not change, so this is reported for information.',
       evidence: { runnerUp: 'stop_count', isNew: false, isChanged: false, wasDominantOnBase: true },
     })
@@ -106,10 +106,10 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
     const [finding] = check(base, head, { changed: ['distance_km'] })
     // By hand: steady(·, 0.005) has SD sqrt(6.25e-5 / 4) = 0.00395 on both sides; (0.95 − 0.92) / 0.00395 = 7.59.
     expect(finding.severity).toBe('block')
-    expect(finding.title).toBe('distance_km dominates the model (80% of the importance, 6.67× the runner-up); it is changed in this pull request.')
+    expect(finding.title).toBe('distance_km dominates the model (80% of the importance, 6.667× the runner-up); it is changed in this pull request.')
     expect(finding.message).toBe(
-      "distance_km carries 80% of the total positive importance, 6.67× as much as stop_count, and a model that sees only it earns 89% of the full model's gain over a trivial predictor " +
-        '(AUC 0.9 alone vs 0.95 for the full model). On the base side its share was 80%; the full model\'s AUC went from 0.92 to 0.95 (7.59 reseed SDs).',
+      "distance_km carries 80% of the total positive importance, 6.667× as much as stop_count, and a model that sees only it earns 88.9% of the full model's gain over a trivial predictor " +
+        '(AUC 0.9 alone vs 0.95 for the full model). On the base side its share was 80%; the full model\'s AUC went from 0.92 to 0.95 (7.589 reseed SDs).',
     )
     expect(finding.evidence.separationJumpInSds).toBeCloseTo(0.03 / Math.sqrt(6.25e-5 / 4), 6)
   })

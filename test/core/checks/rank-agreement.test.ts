@@ -34,9 +34,9 @@ describe('checkRankAgreement(base, head, options)', () => {
     expect(findings[0]).toMatchObject({
       kind: 'rank-agreement',
       severity: 'warn',
-      title: 'The feature ranking changed more than reseeding alone changes it (Kendall tau-b -1, RBO 0.738).',
+      title: 'The feature ranking changed more than reseeding alone changes it (Kendall tau-b -1, RBO 0.7378).',
       message:
-        'Over 5 features above the noise floor, base and head refits agree with Kendall tau-b -1 and rank-biased overlap 0.738 (RBO_EXT, p = 0.9); ' +
+        'Over 5 features above the noise floor, base and head refits agree with Kendall tau-b -1 and rank-biased overlap 0.7378 (RBO_EXT, p = 0.9); ' +
         'two refits with other seeds agree at least 1 and 1 in 95% of pairs.',
       evidence: { kendallTau: -1, kendallTauThreshold: 1, featuresCompared: 5, nullPairs: 6 },
     })

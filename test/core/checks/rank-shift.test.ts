@@ -25,10 +25,11 @@ describe('checkRankShift(base, head, options)', () => {
       kind: 'rank-shift',
       severity: 'warn',
       feature: 'roadworks_km',
-      title: "roadworks_km's importance rose from 1 to 12 (92%) and moved from rank 4 to 1.",
+      // The change is against the base value, signed: (12 − 1) / 1 = +1100%; ranks are each side's own.
+      title: "roadworks_km's importance rose from 1 to 12 (+1100%; rank 4 → 1).",
       message:
-        "Across 5 base and 5 head refits, Welch's t = -104 (df 4.98), p = 1.67e-9, Benjamini–Hochberg adjusted p = 6.66e-9 against a false discovery rate of 0.05. " +
-        'Reseed noise (refit SD) is 0.0791 on the base side and 0.224 on the head.',
+        "Across 5 base and 5 head refits the change is beyond reseed noise: Welch's t = -103.7 (df 4.985), p < 1e-6, Benjamini–Hochberg adjusted p < 1e-6 against a false discovery rate of 0.05. " +
+        'Reseed noise (refit SD) is 0.07906 on the base side and 0.2236 on the head.',
       evidence: { baseRank: 4, headRank: 1 },
     })
     const shift = shifts.get('roadworks_km')!
@@ -47,7 +48,7 @@ describe('checkRankShift(base, head, options)', () => {
     const alone = checkRankShift(sideResult({ side: 'base', features: { roadworks_km: before } }), sideResult({ features: { roadworks_km: after } }), options)
     expect(alone.shifts.get('roadworks_km')!.adjustedPValue).toBeCloseTo(0.03694203771362403, 9)
     // One feature: it keeps rank 1 but changes by 0.5 / 1.5 = 33% of the larger mean (>= 30%).
-    expect(alone.findings.map((f) => f.title)).toEqual(["roadworks_km's importance rose from 1 to 1.5 (33%) and kept its rank."])
+    expect(alone.findings.map((f) => f.title)).toEqual(["roadworks_km's importance rose from 1 to 1.5 (+50%; still rank 1)."])
 
     const base = sideResult({ side: 'base', features: { ...steadyFeatures, roadworks_km: before } })
     const head = sideResult({ features: { ...steadyFeatures, roadworks_km: after } })
@@ -79,7 +80,7 @@ describe('checkRankShift(base, head, options)', () => {
     expect(findings).toEqual([])
     // A top feature that halves but stays first: reported by the relative change.
     const halved = checkRankShift(base, sideResult({ features: { ...steadyFeatures, distance_km: [5.5, 5.6, 5.4, 5.55, 5.45] } }), options)
-    expect(halved.findings.map((f) => f.title)).toEqual(["distance_km's importance fell from 10 to 5.5 (45%) and kept its rank."])
+    expect(halved.findings.map((f) => f.title)).toEqual(["distance_km's importance fell from 10 to 5.5 (-45%; still rank 1)."])
     // The same with the check off: the shifts are still computed for the table, no finding.
     const off = checkRankShift(base, sideResult({ features: { ...steadyFeatures, distance_km: [5.5, 5.6, 5.4, 5.55, 5.45] } }), { ...options, action: 'off' })
     expect(off.findings).toEqual([])
@@ -98,12 +99,19 @@ describe('checkRankShift(base, head, options)', () => {
         kind: 'floor-drop',
         severity: 'info',
         feature: 'stop_count',
-        title: 'stop_count fell to the noise floor (importance 5 on the base side, 0 now).',
+        title: 'stop_count fell to the noise floor: importance 5 on the base side, 0 on the head (-100%).',
         message:
-          "On the head side the 95% interval of stop_count's importance [-0.0196, 0.0196] does not lie above zero: the candidate model no longer measurably relies on it.",
+          "On the head side the 95% interval of stop_count's importance [-0.01963, 0.01963] does not lie above zero: the candidate model no longer measurably relies on it.",
         evidence: { baseMean: 5, headMean: 0, headLower: expect.closeTo(-0.0196324316, 9), headUpper: expect.closeTo(0.0196324316, 9) },
       },
     ])
+  })
+
+  it('says nothing of the floor when the importance rose and only its interval widened', () => {
+    const base = sideResult({ side: 'base', features: { ...steadyFeatures, stop_count: [0.1, 0.11, 0.09, 0.1, 0.1] } })
+    // Mean 0.2 but wide: the interval reaches below zero on the head.
+    const head = sideResult({ features: { ...steadyFeatures, stop_count: [0.9, -0.5, 0.8, -0.4, 0.2] } })
+    expect(checkRankShift(base, head, options).findings.filter((f) => f.kind === 'floor-drop')).toEqual([])
   })
 
   it('tests the per-draw values when each side has a single refit (a loaded model)', () => {
@@ -112,7 +120,7 @@ describe('checkRankShift(base, head, options)', () => {
     const { findings, shifts } = checkRankShift(base, head, options)
     // By hand: draws [5, 5.1, 4.9] and [15, 15.3, 14.7]: s² = 0.01 and 0.09, se = sqrt(0.1 / 3), t = −10 / 0.18257 = −54.77.
     expect(shifts.get('stop_count')!.welchT).toBeCloseTo(-10 / Math.sqrt(0.1 / 3), 9)
-    expect(findings[0].message.startsWith("Across 3 base and 3 head refits, Welch's t = -54.8")).toBe(true)
+    expect(findings[0].message.startsWith("Across 3 base and 3 head refits the change is beyond reseed noise: Welch's t = -54.77")).toBe(true)
   })
 
   it('leaves a unit untested, not an error, when a side has a single value (one refit of one draw)', () => {

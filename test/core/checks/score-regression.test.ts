@@ -19,10 +19,10 @@ describe('checkScoreRegression(evidence, options)', () => {
     expect(findings[0]).toMatchObject({
       kind: 'score-regression',
       severity: 'block',
-      title: 'Holdout auc got worse: 0.8 → 0.7 (by 0.1, beyond noise).',
+      title: 'Holdout auc got worse: 0.8 → 0.7 (-13%, beyond reseed noise).',
       message:
         "The candidate's mean holdout auc is 0.7 against 0.8 for the baseline (higher is better). The worsening of 0.1 exceeds the tolerance of 0 " +
-        'with one-sided p = 8.46e-9 (standard error 0.00447, Welch df 8 over reseeded refits; level 0.05).',
+        'with one-sided p < 1e-6 (standard error 0.004472, Welch df 8 over reseeded refits; level 0.05).',
       evidence: { tolerance: 0, alpha: 0.05 },
     })
     const e = findings[0].evidence as Record<string, number>
@@ -49,7 +49,7 @@ describe('checkScoreRegression(evidence, options)', () => {
       { ...auc, metric: 'log-loss', higherIsBetter: false, action: 'warn' },
     )
     expect(finding.severity).toBe('warn')
-    expect(finding.title).toBe('Holdout log-loss got worse: 0.4 → 0.5 (by 0.1, beyond noise).')
+    expect(finding.title).toBe('Holdout log-loss got worse: 0.4 → 0.5 (+25%, beyond reseed noise).')
     expect(finding.message).toContain('(lower is better)')
   })
 
@@ -62,7 +62,7 @@ describe('checkScoreRegression(evidence, options)', () => {
     const [finding] = checkScoreRegression({ baseScores: [0.8], headScores: [0.75], pairedBootstrap: scaled }, auc)
     expect(finding.message).toBe(
       "The candidate's mean holdout auc is 0.75 against 0.8 for the baseline (higher is better). The worsening of 0.05 exceeds the tolerance of 0 " +
-        'with one-sided p = 2.87e-7 (standard error 0.01, from a paired bootstrap of holdout rows; level 0.05).',
+        'with one-sided p < 1e-6 (standard error 0.01, from a paired bootstrap of holdout rows; level 0.05).',
     )
     expect(finding.evidence.welchDf).toBeNull()
     expect((finding.evidence.pValue as number) / 2.866515718791933e-7).toBeCloseTo(1, 4)

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 
-import { formatCount, formatNumber, formatPercent, formatPValue } from '../../../src/core/report/format-number.ts'
+import { formatChange, formatCount, formatNumber, formatPercent, formatPStatement, formatPValue } from '../../../src/core/report/format-number.ts'
 
 describe('formatNumber(value)', () => {
   it("prints 4 significant digits like C's %.4g between 1e-4 and 1000", () => {
@@ -80,5 +80,21 @@ describe('formatPercent(share)', () => {
     expect(formatPercent(0.0005)).toBe('0.1%')
     expect(formatPercent(0)).toBe('0%')
     expect(formatPercent(NaN)).toBe('n/a')
+  })
+})
+
+describe('formatChange(from, to) and formatPStatement(label, p)', () => {
+  it('gives the change against the base value, signed', () => {
+    // The example: 0.0203 → 0.089 is (0.089 − 0.0203) / 0.0203 = +338.4%, not 77%.
+    expect(formatChange(0.0203, 0.089)).toBe('+338%')
+    expect(formatChange(0.655, 0.475)).toBe('-27%')
+    expect(formatChange(2, 2.1)).toBe('+5%')
+    expect(formatChange(-0.5, 0.5)).toBe('+200%')
+    expect(formatChange(1, 1)).toBe('0%')
+    expect(formatChange(0, 1)).toBe('n/a')
+  })
+  it('reads a tiny p-value as a comparison', () => {
+    expect(formatPStatement('p', 0.0123)).toBe('p = 0.012')
+    expect(formatPStatement('p', 1e-9)).toBe('p < 1e-6')
   })
 })

@@ -6,6 +6,8 @@ import { courierReport, oversizedReport } from './courier-report.ts'
 
 const lines = (markdown: string) => markdown.split('\n')
 const paragraphs = (markdown: string) => markdown.trimEnd().split('\n\n')
+/** Everything a reader sees before the first collapsed section. */
+const visible = (markdown: string) => markdown.split('\n<details>')[0]
 
 function errorReport(message: string): GateReport {
   return {
@@ -43,27 +45,79 @@ describe('renderMarkdown(report)', () => {
     ])
   })
 
-  it('ends with the caution as its last paragraph', () => {
-    expect(paragraphs(markdown).at(-1)).toBe(reportCaution)
-    expect(markdown.endsWith(`${reportCaution}\n`)).toBe(true)
+  it('puts the score change right under the headline, and the caution last before the collapsed sections', () => {
+    expect(lines(markdown)[6]).toBe(
+      'Holdout log-loss (lower is better): base 0.3412 \\[0.3398, 0.3425\\] → head 0.1874 \\[0.186, 0.1889\\], -45%, 136.2 reseed SDs better (95% intervals over refits).',
+    )
+    expect(paragraphs(visible(markdown)).at(-1)).toBe(reportCaution)
+    expect(markdown.endsWith('</details>\n')).toBe(true)
   })
 
-  it('lists the findings block first, then warn, then info, with their evidence', () => {
+  it('keeps what is visible before the first collapsed section to at most 45 lines', () => {
+    expect(lines(visible(markdown)).length).toBeLessThanOrEqual(45)
+  })
+
+  it('draws the top features of both sides as a mermaid xychart, head as bars and base as a line', () => {
+    expect(markdown).toContain(
+      [
+        '```mermaid',
+        'xychart-beta horizontal',
+        '  title "Importance (bars: head, line: base), top 8"',
+        '  x-axis ["delivered_at_hour (new)", "distance_km", "stop_count", "promised_window_h", "driver_shift", "depot", "weather_score", "legacy_zone (removed)"]',
+        '  y-axis "log-loss worsening" 0 --> 0.253596',
+        '  bar [0.24152, 0.06116, 0.0347, 0.00352, 0.0086, 0.0046, 0.00036, 0]',
+        '  line [0, 0.0755, 0.04022, 0.0301, 0.01104, 0.00612, 0.00572, 0.00028]',
+        '```',
+      ].join('\n'),
+    )
+  })
+
+  it('shows lift evidence and drop-column results under the score when the report has them', () => {
+    const report = courierReport()
+    const [leak, ...rest] = report.findings
+    const withLift = { ...leak, evidence: { ...leak.evidence, liftShare: 0.31, dropColumnLoss: 0.05, dropColumnLower: 0.04, dropColumnUpper: 0.06, dropColumnInReseedSds: 4.2 } }
+    const features = report.features.map((row) =>
+      row.name === 'delivered_at_hour'
+        ? { ...row, head: { ...row.head!, dropColumn: { loss: 0.05, lower: 0.04, upper: 0.06, pValue: 0.001, isAboveNoise: true, perRefit: [0.05] } } }
+        : row,
+    )
+    const rendered = renderMarkdown({ ...report, findings: [withLift, ...rest], features } as GateReport)
+    expect(lines(visible(rendered))).toContain(
+      "Lift of delivered\\_at\\_hour: 31% of the loss the base model left; without it the head's loss grows by 0.05 \\[0.04, 0.06\\], 4.2 reseed SDs.",
+    )
+    expect(lines(visible(rendered))).toContain('Drop-column loss (refitted without the feature), largest: delivered\\_at\\_hour 0.05 \\[0.04, 0.06\\].')
+    expect(rendered).toContain('| share of head | drop-column loss, head \\[95% CI\\] | status |')
+    expect(rendered).toContain('| 68.1% | 0.05 \\[0.04, 0.06\\] | added, above floor |')
+  })
+
+  it('links the HTML report when given an https address, and refuses anything else', () => {
+    const url = 'https://github.com/northwind/parcels/actions/runs/7/artifacts/9'
+    expect(renderMarkdown(courierReport(), { htmlReportUrl: url })).toContain(
+      `The HTML report, with charts of every feature: [download it from the workflow run](${url}).`,
+    )
+    expect(() => renderMarkdown(courierReport(), { htmlReportUrl: 'javascript:alert(1)' })).toThrow(RangeError)
+    expect(() => renderMarkdown(courierReport(), { htmlReportUrl: 'https://x.example/a) [b](c' })).toThrow(RangeError)
+  })
+
+  it('lists the findings block first, then warn, then info; block and warn with their evidence in words, info as a title', () => {
     const findingLines = lines(markdown).filter((line) => line.startsWith('- **'))
     expect(findingLines.map((line) => line.slice(0, 12))).toEqual([
-      '- **Block.**',
-      '- **Warn.** ',
-      '- **Warn.** ',
-      '- **Info.** ',
-      '- **Info.** ',
+      '- **Block:**',
+      '- **Warn:** ',
+      '- **Warn:** ',
+      '- **Info:** ',
+      '- **Info:** ',
     ])
     expect(markdown).toContain('#### Findings: 1 block, 2 warn, 2 info')
     expect(lines(markdown)).toContain(
-      '- **Block.** delivered\\_at\\_hour dominates the head model and alone separates late deliveries. (leakage; feature: delivered\\_at\\_hour)',
+      '- **Block:** delivered\\_at\\_hour dominates the head model and alone separates late deliveries.',
     )
     expect(lines(markdown)).toContain(
-      '  Evidence: baseRank = 3; headRank = 5; positionsMoved = 2; meanDifference = -0.02658; pValue = &lt;1e-6; adjustedPValue = &lt;1e-6',
+      '  Evidence: base rank 3; head rank 5; places moved among shared features 2; mean difference -0.02658; p &lt;1e-6; adjusted p &lt;1e-6.',
     )
+    expect(visible(markdown)).not.toContain('Features are compared by column name')
+    expect(markdown).toContain('<summary>The 2 info findings in full</summary>')
+    expect(markdown).toContain('- This pull request added delivered\\_at\\_hour; removed legacy\\_zone; changed the kind of driver\\_shift (numeric → categorical).\n  Features are compared by column name.')
   })
 
   it('sorts findings by severity even when the report does not', () => {
@@ -72,7 +126,7 @@ describe('renderMarkdown(report)', () => {
     const severities = lines(shuffled)
       .filter((line) => line.startsWith('- **'))
       .map((line) => line.slice(4, 9))
-    expect(severities).toEqual(['Block', 'Warn.', 'Warn.', 'Info.', 'Info.'])
+    expect(severities).toEqual(['Block', 'Warn:', 'Warn:', 'Info:', 'Info:'])
   })
 
   it('writes the feature table with ranks, intervals, floors, head share and status', () => {
@@ -83,10 +137,10 @@ describe('renderMarkdown(report)', () => {
       '| delivered\\_at\\_hour | \\- → 1 | \\- | 0.2415 \\[0.2383, 0.2447\\] | \\- | 0.002588 | 68.1% | added, above floor |',
     )
     expect(lines(markdown)).toContain(
-      '| promised\\_window\\_h | 3 → 6 | 0.0301 \\[0.02873, 0.03147\\] | 0.00352 \\[0.002948, 0.004092\\] | 0.001107 | 0.0004604 | 1% | shifted 2 places down among compared |',
+      '| promised\\_window\\_h | 3 → 6 | 0.0301 \\[0.02873, 0.03147\\] | 0.00352 \\[0.002948, 0.004092\\] | 0.001107 | 0.0004604 | 1% | shifted -88% |',
     )
     expect(lines(markdown)).toContain(
-      '| route (group of distance\\_km, stop\\_count) | 1 → 1 | 0.1289 \\[0.1263, 0.1315\\] | 0.101 \\[0.09807, 0.1039\\] | 0.002058 | 0.002329 | 28.5% | shifted |',
+      '| route (group of distance\\_km, stop\\_count) | 1 → 1 | 0.1289 \\[0.1263, 0.1315\\] | 0.101 \\[0.09807, 0.1039\\] | 0.002058 | 0.002329 | 28.5% | shifted -22% |',
     )
     expect(lines(markdown)).toContain(
       '| legacy\\_zone | 7 → - | 0.00028 \\[-0.0007341, 0.001294\\] | \\- | 0.0008167 | \\- | \\- | removed |',
@@ -102,14 +156,8 @@ describe('renderMarkdown(report)', () => {
   })
 
   it('writes the feature-set diff and the rank agreement against the reseed null', () => {
-    expect(markdown).toContain(
-      [
-        '#### Feature set',
-        '',
-        '- Added (1): delivered\\_at\\_hour',
-        '- Removed (1): legacy\\_zone',
-        '- Changed kind (1): driver\\_shift: numeric → categorical',
-      ].join('\n'),
+    expect(lines(markdown)).toContain(
+      'Feature set: added delivered\\_at\\_hour; removed legacy\\_zone; changed kind: driver\\_shift: numeric → categorical.',
     )
     expect(lines(markdown)).toContain('| Kendall tau-b | 0.7333 | 0.8667 | 0.8667 to 1 over 20 pairs | below the reseed threshold |')
     expect(lines(markdown)).toContain(
@@ -117,15 +165,18 @@ describe('renderMarkdown(report)', () => {
     )
   })
 
-  it('collapses scores per refit, seeds, settings and timings into <details> blocks', () => {
+  it('collapses the info findings, the tables, scores per refit, seeds, settings and timings into <details> blocks', () => {
     expect(lines(markdown).filter((line) => line.startsWith('<summary>'))).toEqual([
+      '<summary>The 2 info findings in full</summary>',
+      '<summary>Feature importance, 9 rows</summary>',
+      '<summary>Rank agreement against the reseed null</summary>',
       '<summary>Models and holdout scores per refit</summary>',
       '<summary>Refit seeds</summary>',
       '<summary>Settings and check thresholds</summary>',
       '<summary>Timings</summary>',
     ])
-    expect(lines(markdown).filter((line) => line === '<details>')).toHaveLength(4)
-    expect(lines(markdown).filter((line) => line === '</details>')).toHaveLength(4)
+    expect(lines(markdown).filter((line) => line === '<details>')).toHaveLength(7)
+    expect(lines(markdown).filter((line) => line === '</details>')).toHaveLength(7)
     expect(lines(markdown)).toContain('| 1 | 2890135721 | 4011392857 |')
     expect(lines(markdown)).toContain('| metric | log-loss (lower is better) |')
     expect(lines(markdown)).toContain('| leakage | dominanceShare | 0.5 |')
@@ -152,9 +203,9 @@ describe('renderMarkdown(report)', () => {
       agreement: null,
     })
     expect(quiet).toContain('#### Findings\n\nNone.')
-    expect(quiet).toContain('#### Feature set\n\nThe same 7 features on both sides.')
-    expect(quiet).toContain('#### Rank agreement\n\nRank agreement was not computed for this run.')
-    expect(paragraphs(quiet).at(-1)).toBe(reportCaution)
+    expect(quiet).toContain('Feature set: the same 7 features on both sides.')
+    expect(quiet).toContain('<summary>Rank agreement</summary>\n\nRank agreement was not computed for this run.')
+    expect(paragraphs(visible(quiet)).at(-1)).toBe(reportCaution)
   })
 
   it('prints undefined statistics (NaN, null in JSON) as n/a', () => {
@@ -192,7 +243,7 @@ describe('renderMarkdown(report) with hostile names', () => {
     expect(rendered).not.toMatch(/@(?!\u2060)/)
     expect(rendered).not.toMatch(/#(?=\d)/)
     expect(rendered.split('<!-- plumbline -->')).toHaveLength(2)
-    expect(rendered.split('</details>')).toHaveLength(5)
+    expect(rendered.split('</details>')).toHaveLength(8)
     expect(lines(rendered)[4]).toBe('Blocked by @\u2060dispatch-leads, see #\u20604 &lt;b&gt;now&lt;/b&gt;')
   })
 })
@@ -202,14 +253,14 @@ describe('renderMarkdown(report) size limit', () => {
     const markdown = renderMarkdown(oversizedReport(5000, 2000))
     expect(markdown.length).toBeLessThanOrEqual(60_000)
     expect(lines(markdown)[0]).toBe('<!-- plumbline -->')
-    expect(paragraphs(markdown).at(-1)).toBe(reportCaution)
+    expect(paragraphs(visible(markdown)).at(-2)).toBe(reportCaution)
     expect(markdown).toContain('| 4,990 more rows | | | | | | | |')
-    const note = paragraphs(markdown).at(-2)!
+    const note = paragraphs(visible(markdown)).at(-1)!
     expect(note).toMatch(
-      /^This comment was shortened to stay under 60,000 characters: the feature table shows 10 of 5,000 rows; the details \(models, scores and seeds per refit, settings, timings\) are left out; [\d,]+ of 2,000 findings are shown \(not shown: [\d,]+ warn, 1,000 info\)\. The full report is in the workflow run's job summary and in the JSON report file\.$/,
+      /^This comment was shortened to stay under 60,000 characters: the feature table shows 10 of 5,000 rows; the details \(info findings in full, rank agreement, models, scores and seeds per refit, settings, timings\) are left out; [\d,]+ of 2,000 findings are shown \(not shown: [\d,]+ warn, 1,000 info\)\. The full report is in the workflow run's job summary and in the JSON report file\.$/,
     )
     const shown = lines(markdown).filter((line) => line.startsWith('- **'))
-    expect(shown.slice(0, 10).every((line) => line.startsWith('- **Block.**'))).toBe(true)
+    expect(shown.slice(0, 10).every((line) => line.startsWith('- **Block:**'))).toBe(true)
     expect(markdown).toMatch(/\n- [\d,]+ more findings are not shown here; see the note below\.\n/)
   })
 
@@ -230,7 +281,7 @@ describe('renderMarkdown(report) size limit', () => {
     for (const maxCharacters of [2_000, 5_000, 20_000, 65_536]) {
       const markdown = renderMarkdown(report, { maxCharacters })
       expect(markdown.length).toBeLessThanOrEqual(maxCharacters)
-      expect(paragraphs(markdown).at(-1)).toBe(reportCaution)
+      expect(visible(markdown)).toContain(reportCaution)
     }
   })
 
@@ -249,9 +300,10 @@ describe("renderMarkdown(report) for an 'error' verdict", () => {
         'No verdict: the check could not run (data/holdout.csv row 12 has text in a numeric column).',
         'No verdict was reached: the run failed before the models could be compared. An error is not a pass; fix the problem below and run the gate again.',
         '```text\ndata/holdout.csv row 12, column distance_km: "12,5" is not a number.\nUse a dot as the decimal point.\n```',
-        reportCaution,
       ].join('\n\n') + '\n',
     )
+    // No verdict, so no caution about what a pass means.
+    expect(renderMarkdown(errorReport(message))).not.toContain(reportCaution)
   })
 
   it('keeps a message with backtick fences inside its code block', () => {
@@ -263,10 +315,9 @@ describe("renderMarkdown(report) for an 'error' verdict", () => {
     const rendered = renderMarkdown(errorReport('x'.repeat(100_000)), { maxCharacters: 10_000 })
     expect(rendered.length).toBeLessThanOrEqual(10_000)
     expect(rendered).toMatch(/\n\[9\d,\d{3} more characters in the full report\]\n```\n/)
-    expect(paragraphs(rendered).at(-2)).toBe(
+    expect(paragraphs(rendered).at(-1)).toBe(
       "The error message was shortened to fit this comment. The full report is in the workflow run's job summary and in the JSON report file.",
     )
-    expect(paragraphs(rendered).at(-1)).toBe(reportCaution)
   })
 })
 
@@ -288,5 +339,29 @@ describe('renderMarkdown(report, options) misuse', () => {
     expect(lines(renderMarkdown(courierReport(), { marker: '<!-- plumbline: late-risk -->' }))[0]).toBe(
       '<!-- plumbline: late-risk -->',
     )
+  })
+})
+
+describe('the mermaid chart with hostile names', () => {
+  it('keeps every label inside its quotes and the fence unbroken', () => {
+    const report = courierReport()
+    const names = ['a"b', 'x```y', 'line\nbreak', '[x](javascript:alert(1))', 'ünïcode_name_that_is_far_too_long_for_a_label']
+    const features = report.features.slice(0, names.length).map((row, i) => ({ ...row, name: names[i] }))
+    const markdown = renderMarkdown({ ...report, features })
+    const chart = markdown.split('```mermaid\n')[1].split('\n```')[0]
+    expect(chart.split('\n')[2]).toBe(
+      '  x-axis ["a?b (new)", "x???y", "line?break", "?x??javascript:alert?1??", "?n?code_name_that_is_fa…"]',
+    )
+    expect(chart).not.toContain('`')
+  })
+})
+
+describe('evidence in words', () => {
+  it('says nothing of a side that does not have the feature, and leaves out what was not computed', () => {
+    const report = courierReport()
+    const [leak, ...rest] = report.findings
+    const finding = { ...leak, evidence: { share: 0.681, baseShare: 0, baseSingleFeatureSeparation: null, singleFeatureSeparation: 0.9931, runnerUp: null } }
+    const rendered = renderMarkdown({ ...report, findings: [finding, ...rest] })
+    expect(lines(rendered)).toContain('  Evidence: share of the importance 68.1%; a model on it alone, holdout AUC 0.9931.')
   })
 })

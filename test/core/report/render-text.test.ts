@@ -10,13 +10,16 @@ const lines = (text: string) => text.split('\n')
 describe('renderText(report)', () => {
   const text = renderText(courierReport())
 
-  it('opens with the verdict in words and the wrapped headline, and ends with the caution', () => {
+  it('opens with the verdict in words, the wrapped headline and the score change, and ends with the caution', () => {
     expect(lines(text).slice(0, 4)).toEqual([
       'plumbline: block',
       '',
       'Blocked: delivered_at_hour carries 68.1% of the head model’s importance and alone separates late',
       'deliveries, a leakage-like pattern.',
     ])
+    expect(text.split('\n\n')[2]).toBe(
+      'Holdout log-loss (lower is better): base 0.3412 [0.3398, 0.3425] → head 0.1874 [0.186, 0.1889],\n-45%, 136.2 reseed SDs better (95% intervals over refits).',
+    )
     expect(text.split('\n\n').at(-1)!.replace(/\n/g, ' ')).toBe(reportCaution)
     expect(text.endsWith('\n')).toBe(false)
   })
@@ -29,8 +32,8 @@ describe('renderText(report)', () => {
         '      feature: delivered_at_hour)',
         '      Its share of the positive importance is 0.6814 (policy: 0.5) and it is 3.949 times the next',
         '      feature (policy: 3). A one-feature model on it reaches holdout AUC 0.9931 (policy: 0.99).',
-        '      evidence: dominanceShare = 0.6814; dominanceShareLimit = 0.5; runnerUpRatio = 3.949;',
-        '      runnerUpRatioLimit = 3; singleFeatureScore = 0.9931; singleFeaturePower = 0.99',
+        '      evidence: dominance share 68.1%; dominance share limit 0.5; times the runner-up 3.949; runner',
+        '      up ratio limit 3; single feature score 0.9931; single feature power 0.99',
         '  warn: promised_window_h fell from rank 3 to rank 5 among features above the floor. (rank shift;',
       ].join('\n'),
     )
@@ -41,9 +44,9 @@ describe('renderText(report)', () => {
       [
         '                                            rank base                                                                 floor base  floor head    share',
         '  feature                                      → head        importance base [95% CI]       importance head [95% CI]  (refit SD)  (refit SD)  of head  status',
-        '  ----------------------------------------  ---------  ------------------------------  -----------------------------  ----------  ----------  -------  ------------------------------------',
+        '  ----------------------------------------  ---------  ------------------------------  -----------------------------  ----------  ----------  -------  ---------------------------------------------',
         '  delivered_at_hour                             - → 1                               -        0.2415 [0.2383, 0.2447]           -    0.002588    68.1%  added, above floor',
-        '  distance_km                                   1 → 2       0.0755 [0.07331, 0.07769]     0.06116 [0.05861, 0.06371]    0.001768    0.002053    17.3%  shifted',
+        '  distance_km                                   1 → 2       0.0755 [0.07331, 0.07769]     0.06116 [0.05861, 0.06371]    0.001768    0.002053    17.3%  shifted -19%',
       ].join('\n'),
     )
     expect(lines(text)).toContain(
@@ -62,7 +65,7 @@ describe('renderText(report)', () => {
   })
 
   it('has the same sections as the comment, in plain text', () => {
-    const headings = lines(text).filter((line) => /^[A-Z]/.test(line) && !line.startsWith('Blocked') && !line.startsWith('A pass'))
+    const headings = lines(text).filter((line) => /^[A-Z]/.test(line) && !/^(Blocked|A pass|Holdout)/.test(line))
     expect(headings).toEqual([
       'Findings (5)',
       'Feature importance',
@@ -104,7 +107,7 @@ describe('renderText(report)', () => {
     expect(lines(rendered)[2]).toBe('bell\uFFFD and break')
   })
 
-  it("shows an 'error' report as the headline, no verdict, the message indented, and the caution", () => {
+  it("shows an 'error' report as the headline, no verdict and the message indented, without the caution", () => {
     const error: GateReport = {
       ...courierReport(),
       verdict: 'error',
@@ -128,7 +131,6 @@ describe('renderText(report)', () => {
         'No verdict: plumbline failed with an internal error (a bug; please report it).',
         'No verdict was reached: the run failed before the models could be compared. An\nerror is not a pass; fix the problem below and run the gate again.',
         '    Internal error (this is a bug, please report it):\n    TypeError: x is undefined\n        at runGate (run-gate.ts:12:3)',
-        'A pass is not proof that the model is free of leakage or fit for use: plumbline\nonly sees what the data on both sides can show, and a weak leak looks like a\nweak real signal. Review of the feature change stays with people and the team\'s\nown policies.',
       ].join('\n\n'),
     )
   })
