@@ -12,9 +12,10 @@ export interface Model {
   predict(matrix: FeatureMatrix): Promise<Float64Array>
   /**
    * Optional fast path for permutation importance: predictions for `base`'s rows with some columns
-   * replaced, computed without re-running what the replacement cannot change.
+   * replaced, computed without re-running what the replacement cannot change; undefined when this
+   * model has none for these rows.
    */
-  createReplacementPredictor?(base: FeatureMatrix): ReplacementPredictor
+  createReplacementPredictor?(base: FeatureMatrix): ReplacementPredictor | undefined
   /** Built-in learners: gain and split count per feature (impurity importance, in-sample). */
   readonly splitStatistics?: readonly { feature: string; gain: number; splits: number }[]
 }
@@ -40,4 +41,6 @@ export interface ReplacementPredictor {
    * copy k at offset k · rows). Returns draws · rows predictions in the same layout.
    */
   predict(replaced: ReadonlyMap<string, Float64Array>, draws: number): Float64Array
+  /** predict for several replacements in one pass (one per unit, e.g. every feature of a model). */
+  predictMany?(units: readonly ReadonlyMap<string, Float64Array>[], draws: number): Float64Array[]
 }
