@@ -5,7 +5,7 @@ import { permutationImportance, type FeatureGroup, type ImportanceEstimate } fro
 import type { Metric } from './metrics/metric.ts'
 import { rocAuc } from './metrics/roc-auc.ts'
 import { rSquared } from './metrics/r-squared.ts'
-import type { Fit, Model } from './models/model.ts'
+import type { Fit, Model, ModelEngine } from './models/model.ts'
 import { createRandom, deriveSeed, shuffledIndices } from './statistics/random.ts'
 
 export interface MeasureSideInputs {
@@ -43,7 +43,8 @@ export interface SideMeasurement {
   readonly perRefit: readonly (readonly ImportanceEstimate[])[]
   readonly evaluationRows: number
   readonly referenceRows: number
-  readonly model: { readonly kind: string; readonly featureNames: readonly string[] }
+  /** engine: what computed the predictions (Model.engine; 'onnxruntime' when a model does not say). */
+  readonly model: { readonly kind: string; readonly featureNames: readonly string[]; readonly engine: ModelEngine }
   /** Holdout predictions of the first refit, for a paired bootstrap when there is one refit. */
   readonly firstPredictions: Float64Array
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
@@ -74,7 +75,7 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
   const separation: number[] = []
   const perRefit: ImportanceEstimate[][] = []
   let firstPredictions: Float64Array = new Float64Array(0)
-  let modelInfo = { kind: '', featureNames: [] as readonly string[] }
+  let modelInfo: SideMeasurement['model'] = { kind: '', featureNames: [], engine: 'onnxruntime' }
   for (let r = 0; r < refits; r++) refitSeeds.push(refitSeed(options.seed, r))
   const fitRefit = (r: number) => inputs.fit!({ side: inputs.side, seed: refitSeeds[r], refit: r, leaveOut: [] })
   // A fit that waits on something else (a training command) is asked for every refit at once, so that
@@ -84,8 +85,8 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
   for (let r = 0; r < refits; r++) {
     options.onRefit?.(r, refits)
     const model = inputs.model ?? (await (prefetched ? prefetched[r] : fitRefit(r)))
-    modelInfo = { kind: model.kind, featureNames: model.featureNames }
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames))
+    modelInfo = { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? 'onnxruntime' }
     if (r === 0) firstPredictions = prediction
     scores.push(options.metric.compute(target.values, prediction))
     separation.push(options.task === 'binary' ? rocAuc(target.values, prediction) : rSquared(target.values, prediction))

@@ -9,6 +9,12 @@ export interface Model {
   readonly kind: string
   readonly task: Task
   readonly featureNames: readonly string[]
+  /**
+   * What computes the predictions: plumbline's own tree evaluator (built-in boosted trees, and ONNX
+   * tree ensembles it could read), its linear evaluator, or onnxruntime. Read it after the first
+   * predict call: a loaded model may fall back to onnxruntime then.
+   */
+  readonly engine?: ModelEngine
   predict(matrix: FeatureMatrix): Promise<Float64Array>
   /**
    * Optional fast path for permutation importance: predictions for `base`'s rows with some columns
@@ -19,6 +25,8 @@ export interface Model {
   /** Built-in learners: gain and split count per feature (impurity importance, in-sample). */
   readonly splitStatistics?: readonly { feature: string; gain: number; splits: number }[]
 }
+
+export type ModelEngine = 'plumbline-trees' | 'plumbline-linear' | 'onnxruntime'
 
 /** What one refit is asked for. The seed is already derived; leaveOut is for drop-column refits. */
 export interface FitRequest {

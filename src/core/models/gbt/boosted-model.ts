@@ -17,6 +17,7 @@ export interface SplitStatistic {
  */
 export class BoostedModel implements Model {
   readonly kind = 'boosted-trees'
+  readonly engine = 'plumbline-trees'
   readonly task: Task
   readonly featureNames: readonly string[]
 
