@@ -81,6 +81,9 @@ await rm(dist, { recursive: true, force: true })
 // Each entry point looks for the worker thread's script beside itself (src/adapters/parallel/measure-in-worker.ts).
 for (const folder of [dist, join(dist, 'cli')]) await bundle('src/adapters/parallel/measure-worker.ts', join(folder, 'measure-worker.js'))
 for (const folder of [dist, join(dist, 'cli')]) await bundle('src/adapters/parallel/refit-worker.ts', join(folder, 'refit-worker.js'))
+// tinypool starts its threads from `${its module URL}/../entry/worker.js`; inside a bundle that URL is
+// the bundle's own, so its thread entry goes to entry/worker.js beside each bundle.
+for (const folder of [dist, join(dist, 'cli')]) await bundle('node_modules/tinypool/dist/entry/worker.js', join(folder, 'entry', 'worker.js'))
 await bundle('src/adapters/action/index.ts', join(dist, 'index.js'))
 await bundle('src/adapters/cli/index.ts', join(dist, 'cli', 'index.js'))
 await mkdir(join(dist, 'native'), { recursive: true })
