@@ -33,13 +33,13 @@ export function createPoolMeasure(environment: Readonly<Record<string, string | 
   const threads = options.threads ?? (environment.PLUMBLINE_THREADS === undefined ? availableParallelism() : Number(environment.PLUMBLINE_THREADS))
   if (!(threads >= 2)) return undefined
   const isSource = import.meta.url.endsWith('.ts')
-  // From the TypeScript sources (tests, npm run demo) each worker loads tsx first; the bundle's
-  // worker is plain JavaScript beside it (scripts/build.mjs builds refit-worker.js).
+  // From the TypeScript sources (tests, npm run demo) each worker registers tsx first
+  // (refit-worker-source.mjs); the bundle's worker is plain JavaScript beside it (scripts/build.mjs
+  // builds refit-worker.js).
   const pool = new Tinypool({
-    filename: new URL(isSource ? './refit-worker.ts' : './refit-worker.js', import.meta.url).href,
+    filename: new URL(isSource ? './refit-worker-source.mjs' : './refit-worker.js', import.meta.url).href,
     minThreads: 0,
     maxThreads: Math.floor(threads),
-    ...(isSource ? { execArgv: ['--import', 'tsx'] } : {}),
   })
   const measureSides: MeasureSides = async (jobs) => {
     const results = await Promise.all(jobs.map((job) => (job.builtin ? inPool(pool, job) : measureSide({ ...job.inputs }, job.options))))
