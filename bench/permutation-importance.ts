@@ -54,18 +54,25 @@ evaluation = np.loadtxt(sys.argv[2], delimiter=',')
 model = xgb.XGBRegressor(tree_method='hist', max_bin=255, n_jobs=1, max_depth=6, n_estimators=300,
                          learning_rate=0.1, reg_lambda=1, min_child_weight=1, base_score=float(train[:, -1].mean()))
 model.fit(train[:, :-1], train[:, -1])
-start = time.perf_counter()
+start, cpu = time.perf_counter(), time.process_time()
 result = permutation_importance(model, evaluation[:, :-1], evaluation[:, -1], n_repeats=5, n_jobs=1,
                                 random_state=0, scoring='neg_root_mean_squared_error')
-seconds = time.perf_counter() - start
-print(json.dumps({'seconds': seconds, 'top': int(np.argmax(result.importances_mean)) + 1, 'sklearn': sklearn.__version__}))
+seconds, cpu = time.perf_counter() - start, time.process_time() - cpu
+import resource
+print(json.dumps({'seconds': seconds, 'cpuSeconds': cpu, 'top': int(np.argmax(result.importances_mean)) + 1, 'sklearn': sklearn.__version__,
+                  'peakRssKiB': resource.getrusage(resource.RUSAGE_SELF).ru_maxrss}))
 `
 
 export interface ImportanceBenchRow {
   readonly tool: string
   readonly seconds: number
   readonly ratio: number
+  /** CPU seconds of the computation (steadier than wall time on a shared machine) and their ratio. */
+  readonly cpuSeconds: number
+  readonly cpuRatio: number
   readonly topFeature: string
+  /** Peak resident set of the measuring process (ours: the node process; scikit-learn: its python process). */
+  readonly peakRssMiB: number
 }
 
 export async function benchPermutationImportance(): Promise<ImportanceBenchRow[]> {
@@ -79,10 +86,15 @@ export async function benchPermutationImportance(): Promise<ImportanceBenchRow[]
   })
   const data = { ...evaluation.matrix, target: { name: 'y', values: evaluation.y } }
   const start = performance.now()
+  const cpuStart = process.cpuUsage()
   const result = await permutationImportance(model, data, { metric: metricByName('rmse', 'regression'), draws: 5, seed: 1 })
   const ours = (performance.now() - start) / 1000
+  const cpuUsed = process.cpuUsage(cpuStart)
+  const ourCpu = (cpuUsed.user + cpuUsed.system) / 1e6
   const top = [...result.importances].sort((a, b) => b.mean - a.mean)[0].name
-  const rows: ImportanceBenchRow[] = [{ tool: 'plumbline permutationImportance', seconds: ours, ratio: NaN, topFeature: top }]
+  const rows: ImportanceBenchRow[] = [
+    { tool: 'plumbline permutationImportance', seconds: ours, ratio: NaN, cpuSeconds: ourCpu, cpuRatio: NaN, topFeature: top, peakRssMiB: process.resourceUsage().maxRSS / 1024 },
+  ]
   const probe = spawnSync(PYTHON, ['-c', 'import xgboost, sklearn'], { encoding: 'utf8' })
   if (probe.status === 0) {
     const dir = mkdtempSync(join(tmpdir(), 'plumbline-bench-'))
@@ -95,8 +107,16 @@ export async function benchPermutationImportance(): Promise<ImportanceBenchRow[]
       })
       if (run.status !== 0) throw new Error(`scikit-learn run failed:\n${run.stderr}`)
       const reference = JSON.parse(run.stdout.trim().split('\n').pop()!)
-      rows[0] = { ...rows[0], ratio: ours / reference.seconds }
-      rows.push({ tool: `scikit-learn ${reference.sklearn} permutation_importance (XGBoost model)`, seconds: reference.seconds, ratio: 1, topFeature: `x${reference.top}` })
+      rows[0] = { ...rows[0], ratio: ours / reference.seconds, cpuRatio: ourCpu / reference.cpuSeconds }
+      rows.push({
+        tool: `scikit-learn ${reference.sklearn} permutation_importance (XGBoost model)`,
+        seconds: reference.seconds,
+        ratio: 1,
+        cpuSeconds: reference.cpuSeconds,
+        cpuRatio: 1,
+        topFeature: `x${reference.top}`,
+        peakRssMiB: reference.peakRssKiB / 1024,
+      })
     } finally {
       rmSync(dir, { recursive: true, force: true })
     }
@@ -106,6 +126,12 @@ export async function benchPermutationImportance(): Promise<ImportanceBenchRow[]
 
 if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
   const rows = await benchPermutationImportance()
-  console.log('| tool | seconds | ratio to reference | top feature |\n|---|---:|---:|---|')
-  for (const r of rows) console.log(`| ${r.tool} | ${r.seconds.toFixed(2)} | ${Number.isFinite(r.ratio) ? r.ratio.toFixed(2) : 'n/a'} | ${r.topFeature} |`)
+  console.log('10,000 evaluation rows x 30 features x 5 draws, 300 trees of depth 6, one thread\n')
+  console.log('| tool | seconds | ratio to reference | CPU seconds | CPU ratio | top feature | peak RSS MiB |\n|---|---:|---:|---:|---:|---|---:|')
+  const ratio = (value: number) => (Number.isFinite(value) ? value.toFixed(2) : 'n/a')
+  for (const r of rows) {
+    console.log(
+      `| ${r.tool} | ${r.seconds.toFixed(2)} | ${ratio(r.ratio)} | ${r.cpuSeconds.toFixed(2)} | ${ratio(r.cpuRatio)} | ${r.topFeature} | ${r.peakRssMiB.toFixed(0)} |`,
+    )
+  }
 }

@@ -1,6 +1,6 @@
 // npm run build (after tsc --noEmit): bundles the action (src/adapters/action/index.ts ->
-// dist/index.js) and the CLI (src/adapters/cli/index.ts -> dist/cli/index.js), each with the worker
-// thread that measures one side (measure-worker.js beside it), with esbuild, as ESM
+// dist/index.js) and the CLI (src/adapters/cli/index.ts -> dist/cli/index.js), each with the
+// refit pool's worker (refit-worker.js, and tinypool's entry/worker.js, beside it), with esbuild, as ESM
 // for Node 20 and later, with every dependency inside, so that `node dist/index.js` runs from a bare
 // copy of dist/ with no node_modules.
 //
@@ -77,8 +77,11 @@ async function bundle(entry, outfile) {
 }
 
 await rm(dist, { recursive: true, force: true })
-// Each entry point looks for the worker thread's script beside itself (src/adapters/parallel/measure-in-worker.ts).
-for (const folder of [dist, join(dist, 'cli')]) await bundle('src/adapters/parallel/measure-worker.ts', join(folder, 'measure-worker.js'))
+// Each entry point looks for the refit pool's worker script beside itself (src/adapters/parallel/create-pool-measure.ts).
+for (const folder of [dist, join(dist, 'cli')]) await bundle('src/adapters/parallel/refit-worker.ts', join(folder, 'refit-worker.js'))
+// tinypool starts its threads from `${its module URL}/../entry/worker.js`; inside a bundle that URL is
+// the bundle's own, so its thread entry goes to entry/worker.js beside each bundle.
+for (const folder of [dist, join(dist, 'cli')]) await bundle('node_modules/tinypool/dist/entry/worker.js', join(folder, 'entry', 'worker.js'))
 await bundle('src/adapters/action/index.ts', join(dist, 'index.js'))
 await bundle('src/adapters/cli/index.ts', join(dist, 'cli', 'index.js'))
 await mkdir(join(dist, 'native'), { recursive: true })

@@ -1008,14 +1008,14 @@ var require_foldFlowLines = __commonJS({
     var FOLD_FLOW = "flow";
     var FOLD_BLOCK = "block";
     var FOLD_QUOTED = "quoted";
-    function foldFlowLines(text3, indent, mode = "flow", { indentAtStart, lineWidth = 80, minContentWidth = 20, onFold, onOverflow } = {}) {
+    function foldFlowLines(text4, indent, mode = "flow", { indentAtStart, lineWidth = 80, minContentWidth = 20, onFold, onOverflow } = {}) {
       if (!lineWidth || lineWidth < 0)
-        return text3;
+        return text4;
       if (lineWidth < minContentWidth)
         minContentWidth = 0;
       const endStep = Math.max(1 + minContentWidth, 1 + lineWidth - indent.length);
-      if (text3.length <= endStep)
-        return text3;
+      if (text4.length <= endStep)
+        return text4;
       const folds = [];
       const escapedFolds = {};
       let end = lineWidth - indent.length;
@@ -1032,14 +1032,14 @@ var require_foldFlowLines = __commonJS({
       let escStart = -1;
       let escEnd = -1;
       if (mode === FOLD_BLOCK) {
-        i = consumeMoreIndentedLines(text3, i, indent.length);
+        i = consumeMoreIndentedLines(text4, i, indent.length);
         if (i !== -1)
           end = i + endStep;
       }
-      for (let ch; ch = text3[i += 1]; ) {
+      for (let ch; ch = text4[i += 1]; ) {
         if (mode === FOLD_QUOTED && ch === "\\") {
           escStart = i;
-          switch (text3[i + 1]) {
+          switch (text4[i + 1]) {
             case "x":
               i += 3;
               break;
@@ -1056,12 +1056,12 @@ var require_foldFlowLines = __commonJS({
         }
         if (ch === "\n") {
           if (mode === FOLD_BLOCK)
-            i = consumeMoreIndentedLines(text3, i, indent.length);
+            i = consumeMoreIndentedLines(text4, i, indent.length);
           end = i + indent.length + endStep;
           split = void 0;
         } else {
           if (ch === " " && prev && prev !== " " && prev !== "\n" && prev !== "	") {
-            const next = text3[i + 1];
+            const next = text4[i + 1];
             if (next && next !== " " && next !== "\n" && next !== "	")
               split = i;
           }
@@ -1073,12 +1073,12 @@ var require_foldFlowLines = __commonJS({
             } else if (mode === FOLD_QUOTED) {
               while (prev === " " || prev === "	") {
                 prev = ch;
-                ch = text3[i += 1];
+                ch = text4[i += 1];
                 overflow = true;
               }
               const j = i > escEnd + 1 ? i - 2 : escStart - 1;
               if (escapedFolds[j])
-                return text3;
+                return text4;
               folds.push(j);
               escapedFolds[j] = true;
               end = j + endStep;
@@ -1093,39 +1093,39 @@ var require_foldFlowLines = __commonJS({
       if (overflow && onOverflow)
         onOverflow();
       if (folds.length === 0)
-        return text3;
+        return text4;
       if (onFold)
         onFold();
-      let res = text3.slice(0, folds[0]);
+      let res = text4.slice(0, folds[0]);
       for (let i2 = 0; i2 < folds.length; ++i2) {
         const fold = folds[i2];
-        const end2 = folds[i2 + 1] || text3.length;
+        const end2 = folds[i2 + 1] || text4.length;
         if (fold === 0)
           res = `
-${indent}${text3.slice(0, end2)}`;
+${indent}${text4.slice(0, end2)}`;
         else {
           if (mode === FOLD_QUOTED && escapedFolds[fold])
-            res += `${text3[fold]}\\`;
+            res += `${text4[fold]}\\`;
           res += `
-${indent}${text3.slice(fold + 1, end2)}`;
+${indent}${text4.slice(fold + 1, end2)}`;
         }
       }
       return res;
     }
-    function consumeMoreIndentedLines(text3, i, indent) {
+    function consumeMoreIndentedLines(text4, i, indent) {
       let end = i;
       let start = i + 1;
-      let ch = text3[start];
+      let ch = text4[start];
       while (ch === " " || ch === "	") {
         if (i < start + indent) {
-          ch = text3[++i];
+          ch = text4[++i];
         } else {
           do {
-            ch = text3[++i];
+            ch = text4[++i];
           } while (ch && ch !== "\n");
           end = i;
           start = i + 1;
-          ch = text3[start];
+          ch = text4[start];
         }
       }
       return end;
@@ -11087,7 +11087,7 @@ var require_writer = __commonJS({
       this.pos += bytes;
       return this;
     };
-    Writer.prototype.fork = function fork() {
+    Writer.prototype.fork = function fork2() {
       this._reserve(1);
       (this.states || (this.states = [])).push(this.pos);
       this.pos += 1;
@@ -11126,8 +11126,8 @@ var require_writer = __commonJS({
       }
       return this;
     };
-    Writer.prototype.finish = function finish(shared) {
-      if (shared)
+    Writer.prototype.finish = function finish(shared2) {
+      if (shared2)
         return this.buf.subarray(0, this.pos);
       var buf = this.constructor.alloc(this.pos);
       buf.set(this.buf.subarray(0, this.pos), 0);
@@ -12485,7 +12485,7 @@ var require_mapfield = __commonJS({
       }
     });
     MapField.className = "MapField";
-    var types = require_types();
+    var types2 = require_types();
     var util = require_util();
     function MapField(name, id, keyType, type, options, comment) {
       Field.call(this, name, id, type, void 0, void 0, options, comment);
@@ -12529,7 +12529,7 @@ var require_mapfield = __commonJS({
     MapField.prototype.resolve = function resolve6() {
       if (this.resolved)
         return this;
-      if (types.mapKey[this.keyType] === void 0)
+      if (types2.mapKey[this.keyType] === void 0)
         throw Error("invalid key type: " + this.keyType);
       return Field.prototype.resolve.call(this);
     };
@@ -12802,7 +12802,7 @@ var require_decoder = __commonJS({
     "use strict";
     module.exports = decoder;
     var Enum = require_enum();
-    var types = require_types();
+    var types2 = require_types();
     var util = require_util();
     function missing(field) {
       return "missing required '" + field.name + "'";
@@ -12831,13 +12831,13 @@ var require_decoder = __commonJS({
           gen("case %i:{", field.id)("if(u!==2)")("break");
           if (!closed) gen("if(%s===util.emptyObject)", ref)("%s={}", ref);
           gen("var c2=r.size()+r.pos")("if(c2>r.len)")('throw RangeError("index out of range")')("r.len=c2");
-          if (types.defaults[field.keyType] !== void 0) gen("k=%j", types.defaults[field.keyType]);
+          if (types2.defaults[field.keyType] !== void 0) gen("k=%j", types2.defaults[field.keyType]);
           else gen("k=null");
-          if (types.long[type] !== void 0) gen("v=util.Long?util.Long.fromNumber(0,%j):0", type === "uint64" || type === "fixed64");
-          else if (types.defaults[type] !== void 0) gen("v=%j", types.defaults[type]);
+          if (types2.long[type] !== void 0) gen("v=util.Long?util.Long.fromNumber(0,%j):0", type === "uint64" || type === "fixed64");
+          else if (types2.defaults[type] !== void 0) gen("v=%j", types2.defaults[type]);
           else gen("v=null");
-          gen("while(r.pos<c2){")("var t2=r.tag()")("u=t2&7")("switch(t2>>>=3){")("case 1:")("if(u!==%i)", types.mapKey[field.keyType])("break")("k=r.%s()", field.keyType === "string" ? stringMethod(field) : field.keyType)("continue")("case 2:")("if(u!==%i)", types.basic[type] === void 0 ? 2 : types.basic[type])("break");
-          if (types.basic[type] === void 0) gen("v=types[%i].decode(r,r.size(),undefined,q+1,v)", i);
+          gen("while(r.pos<c2){")("var t2=r.tag()")("u=t2&7")("switch(t2>>>=3){")("case 1:")("if(u!==%i)", types2.mapKey[field.keyType])("break")("k=r.%s()", field.keyType === "string" ? stringMethod(field) : field.keyType)("continue")("case 2:")("if(u!==%i)", types2.basic[type] === void 0 ? 2 : types2.basic[type])("break");
+          if (types2.basic[type] === void 0) gen("v=types[%i].decode(r,r.size(),undefined,q+1,v)", i);
           else gen("v=r.%s()", type === "string" ? stringMethod(field) : type);
           gen("continue")("}")("r.skipType(u,q,t2)")("}");
           gen("if(r.pos!==c2)")('throw RangeError("index out of range")')("r.len=c");
@@ -12845,15 +12845,15 @@ var require_decoder = __commonJS({
             gen("if(types[%i].valuesById[v]===undefined){", i);
             genPreserveUnknown(gen, "r.raw(s,r.pos)")("continue")("}")("if(%s===util.emptyObject)", ref)("%s={}", ref);
           }
-          var val = types.basic[type] === void 0 ? "v||new types[" + i + "].ctor" : "v";
-          if (types.long[field.keyType] !== void 0) gen('%s[typeof k==="object"?util.longToHash(k):k]=%s', ref, val);
+          var val = types2.basic[type] === void 0 ? "v||new types[" + i + "].ctor" : "v";
+          if (types2.long[field.keyType] !== void 0) gen('%s[typeof k==="object"?util.longToHash(k):k]=%s', ref, val);
           else {
             if (field.keyType === "string") gen('if(k==="__proto__")')("util.makeProp(%s,k)", ref);
             gen("%s[k]=%s", ref, val);
           }
         } else if (field.repeated) {
           gen("case %i:", field.id)("{");
-          if (types.packed[type] !== void 0) {
+          if (types2.packed[type] !== void 0) {
             gen("if(u===2){");
             if (closed) {
               gen("var c2=r.size()+r.pos")("if(c2>r.len)")('throw RangeError("index out of range")')("r.len=c2")("while(r.pos<c2){")("s=r.pos")("v=r.%s()", type)("if(types[%i].valuesById[v]!==undefined){", i)("if(!(%s&&%s.length))", ref, ref)("%s=[]", ref)("%s.push(v)", ref)("}else");
@@ -12862,21 +12862,21 @@ var require_decoder = __commonJS({
             } else gen("if(!(%s&&%s.length))", ref, ref)("%s=[]", ref)("r.%ss(%s)", type, ref);
             gen("continue")("}");
           }
-          gen("if(u!==%i)", types.basic[type] === void 0 ? field.delimited ? 3 : 2 : types.basic[type])("break");
+          gen("if(u!==%i)", types2.basic[type] === void 0 ? field.delimited ? 3 : 2 : types2.basic[type])("break");
           if (!closed) gen("if(!(%s&&%s.length))", ref, ref)("%s=[]", ref);
-          if (types.basic[type] === void 0) {
+          if (types2.basic[type] === void 0) {
             if (field.delimited) gen("%s.push(types[%i].decode(r,undefined,%i,q+1))", ref, i, field.id * 8 + 4);
             else gen("%s.push(types[%i].decode(r,r.size(),undefined,q+1))", ref, i);
           } else if (closed) {
             gen("v=r.%s()", type)("if(types[%i].valuesById[v]!==undefined){", i)("if(!(%s&&%s.length))", ref, ref)("%s=[]", ref)("%s.push(v)", ref)("}else");
             genPreserveUnknown(gen, "r.raw(s,r.pos)");
           } else gen("%s.push(r.%s())", ref, type === "string" ? stringMethod(field) : type);
-        } else if (types.basic[type] === void 0) {
+        } else if (types2.basic[type] === void 0) {
           gen("case %i:{", field.id)("if(u!==%i)", field.delimited ? 3 : 2)("break");
           if (field.delimited) gen("%s=types[%i].decode(r,undefined,%i,q+1,%s)", ref, i, field.id * 8 + 4, ref);
           else gen("%s=types[%i].decode(r,r.size(),undefined,q+1,%s)", ref, i, ref);
         } else if (field.hasPresence) {
-          gen("case %i:{", field.id)("if(u!==%i)", types.basic[type])("break");
+          gen("case %i:{", field.id)("if(u!==%i)", types2.basic[type])("break");
           if (closed) {
             gen("v=r.%s()", type)("if(types[%i].valuesById[v]!==undefined){", i)("%s=v", ref);
             if (field.partOf) gen("m%s=%j", util.safeProp(field.partOf.name), field.name);
@@ -12884,7 +12884,7 @@ var require_decoder = __commonJS({
             genPreserveUnknown(gen, "r.raw(s,r.pos)");
           } else gen("%s=r.%s()", ref, type === "string" ? stringMethod(field) : type);
         } else {
-          gen("case %i:{", field.id)("if(u!==%i)", types.basic[type])("break");
+          gen("case %i:{", field.id)("if(u!==%i)", types2.basic[type])("break");
           if (closed) {
             gen("v=r.%s()", type)("if(types[%i].valuesById[v]!==undefined){", i)("if(v!==%j)", field.typeDefault)("%s=v", ref)("else")("delete %s", ref)("}else{");
             genPreserveUnknown(gen, "r.raw(s,r.pos)")("}");
@@ -12892,7 +12892,7 @@ var require_decoder = __commonJS({
             if (field.resolvedType instanceof Enum && field.typeDefault !== 0) gen("if((v=r.%s())!==%j)", type, field.typeDefault);
             else if (type === "string") gen("if((v=r.%s()).length)", stringMethod(field));
             else if (type === "bytes") gen("if((v=r.%s()).length)", type);
-            else if (types.long[type] !== void 0) gen('if(typeof(v=r.%s())==="object"?v.low||v.high:v!==0)', type);
+            else if (types2.long[type] !== void 0) gen('if(typeof(v=r.%s())==="object"?v.low||v.high:v!==0)', type);
             else if (type === "double" || type === "float") gen("if(!Object.is(v=r.%s(),0))", type);
             else gen("if(v=r.%s())", type);
             gen("%s=v", ref)("else")("delete %s", ref);
@@ -13027,7 +13027,7 @@ var require_converter = __commonJS({
     "use strict";
     var converter = exports;
     var Enum = require_enum();
-    var types = require_types();
+    var types2 = require_types();
     var util = require_util();
     function genValuePartial_fromObject(gen, field, fieldIndex, prop, dstProp) {
       if (field.resolvedType) {
@@ -13087,7 +13087,7 @@ var require_converter = __commonJS({
       if (!fields.length) return gen("return new C");
       gen("var m=new C");
       for (var i = 0; i < fields.length; ++i) {
-        var field = fields[i].resolve(), prop = util.safeProp(field.name), implicitPresence = !field.hasPresence && !field.repeated && !field.map && (field.resolvedType instanceof Enum || types.basic[field.type] !== void 0);
+        var field = fields[i].resolve(), prop = util.safeProp(field.name), implicitPresence = !field.hasPresence && !field.repeated && !field.map && (field.resolvedType instanceof Enum || types2.basic[field.type] !== void 0);
         if (field.map) {
           gen("if(d%s){", prop)("if(!util.isObject(d%s))", prop)("throw TypeError(%j)", field.fullName + ": object expected")("m%s={}", prop)("for(var ks=Object.keys(d%s),i=0;i<ks.length;++i){", prop);
           gen('if(ks[i]==="__proto__")')("util.makeProp(m%s,ks[i])", prop);
@@ -13119,7 +13119,7 @@ var require_converter = __commonJS({
             else if (field.type === "bytes") gen("if(d%s.length){", prop);
             else if (field.type === "bool") gen("if(d%s){", prop);
             else if (field.type === "double" || field.type === "float") gen("if(!Object.is(Number(d%s),0)){", prop);
-            else if (types.long[field.type] !== void 0) gen('if(typeof d%s==="object"?d%s.low||d%s.high:Number(d%s)!==0){', prop, prop, prop, prop);
+            else if (types2.long[field.type] !== void 0) gen('if(typeof d%s==="object"?d%s.low||d%s.high:Number(d%s)!==0){', prop, prop, prop, prop);
             else gen("if(Number(d%s)!==0){", prop);
           }
           genValuePartial_fromObject(
@@ -13209,7 +13209,7 @@ var require_converter = __commonJS({
             gen("var ks2");
           }
           gen("if(m%s&&(ks2=Object.keys(m%s)).length){", prop, prop)("d%s={}", prop);
-          var longKey = types.long[field.keyType] !== void 0, srcProp = prop + "[ks2[j]]";
+          var longKey = types2.long[field.keyType] !== void 0, srcProp = prop + "[ks2[j]]";
           gen("for(var j=0;j<ks2.length;++j){");
           if (longKey) gen("var k2=util.longFromKey(ks2[j],%j).toString()", field.keyType === "uint64" || field.keyType === "fixed64");
           gen('if(ks2[j]==="__proto__")')("util.makeProp(d%s,ks2[j])", prop);
@@ -13623,32 +13623,32 @@ var require_type = __commonJS({
         if (edition)
           root2._resolveFeaturesRecursive(edition);
       }
-      var fullName = this.fullName, types = [];
+      var fullName = this.fullName, types2 = [];
       for (var i = 0; i < /* initializes */
       this.fieldsArray.length; ++i)
-        types.push(this._fieldsArray[i].resolve().resolvedType);
+        types2.push(this._fieldsArray[i].resolve().resolvedType);
       this.encode = encoder(this)({
         Writer,
-        types,
+        types: types2,
         util
       });
       this.decode = decoder(this)({
         Reader,
-        types,
+        types: types2,
         util,
         C: this.ctor
       });
       this.verify = verifier(this)({
-        types,
+        types: types2,
         util
       });
       this.fromObject = converter.fromObject(this)({
-        types,
+        types: types2,
         util,
         C: this.ctor
       });
       this.toObject = converter.toObject(this)({
-        types,
+        types: types2,
         util
       });
       var wrapper = wrappers[fullName];
@@ -14114,7 +14114,7 @@ var require_util = __commonJS({
 var require_types = __commonJS({
   "node_modules/protobufjs/src/types.js"(exports) {
     "use strict";
-    var types = exports;
+    var types2 = exports;
     var util = require_util();
     var s = [
       "double",
@@ -14154,7 +14154,7 @@ var require_types = __commonJS({
       while (i < values.length) o[s[i + offset]] = values[i++];
       return o;
     }
-    types.basic = bake([
+    types2.basic = bake([
       /* double   */
       1,
       /* float    */
@@ -14186,7 +14186,7 @@ var require_types = __commonJS({
       /* bytes    */
       2
     ]);
-    types.defaults = bake([
+    types2.defaults = bake([
       /* double   */
       0,
       /* float    */
@@ -14220,7 +14220,7 @@ var require_types = __commonJS({
       /* message  */
       null
     ]);
-    types.long = bake([
+    types2.long = bake([
       /* int64    */
       0,
       /* uint64   */
@@ -14232,7 +14232,7 @@ var require_types = __commonJS({
       /* sfixed64 */
       1
     ], 7);
-    types.mapKey = bake([
+    types2.mapKey = bake([
       /* int32    */
       0,
       /* uint32   */
@@ -14258,7 +14258,7 @@ var require_types = __commonJS({
       /* string   */
       2
     ], 2);
-    types.packed = bake([
+    types2.packed = bake([
       /* double   */
       1,
       /* float    */
@@ -14305,7 +14305,7 @@ var require_field = __commonJS({
     });
     Field.className = "Field";
     var Enum = require_enum();
-    var types = require_types();
+    var types2 = require_types();
     var util = require_util();
     var Type;
     var ruleRe = /^(?:required|optional|repeated)$/;
@@ -14351,7 +14351,7 @@ var require_field = __commonJS({
       this.partOf = null;
       this.typeDefault = null;
       this.defaultValue = null;
-      this.long = util.Long ? types.long[type] !== void 0 : (
+      this.long = util.Long ? types2.long[type] !== void 0 : (
         /* istanbul ignore next */
         false
       );
@@ -14422,7 +14422,7 @@ var require_field = __commonJS({
     Field.prototype.resolve = function resolve6() {
       if (this.resolved)
         return this;
-      if ((this.typeDefault = types.defaults[this.type]) === void 0) {
+      if ((this.typeDefault = types2.defaults[this.type]) === void 0) {
         this.resolvedType = (this.declaringField ? this.declaringField.parent : this.parent).lookupTypeOrEnum(this.type);
         if (this.resolvedType instanceof Type)
           this.typeDefault = null;
@@ -14447,7 +14447,7 @@ var require_field = __commonJS({
         this.typeDefault = typeof this.typeDefault === "string" ? util.Long.fromString(this.typeDefault, unsigned) : util.Long.fromNumber(this.typeDefault, unsigned);
         if (Object.freeze)
           Object.freeze(this.typeDefault);
-      } else if (types.long[this.type] !== void 0 && typeof this.typeDefault === "string") {
+      } else if (types2.long[this.type] !== void 0 && typeof this.typeDefault === "string") {
         this.typeDefault = parseInt(this.typeDefault, 10);
       } else if (this.bytes && typeof this.typeDefault === "string") {
         var buf;
@@ -14479,7 +14479,7 @@ var require_field = __commonJS({
       if (this.rule === "required") {
         features.field_presence = "LEGACY_REQUIRED";
       }
-      if (this.parent && types.defaults[this.type] === void 0) {
+      if (this.parent && types2.defaults[this.type] === void 0) {
         var type = this.parent.get(this.type.split(".").pop());
         if (type && type instanceof Type && type.group) {
           features.message_encoding = "DELIMITED";
@@ -14976,7 +14976,7 @@ var require_encoder = __commonJS({
     "use strict";
     module.exports = encoder;
     var Enum = require_enum();
-    var types = require_types();
+    var types2 = require_types();
     var util = require_util();
     function genTypePartial(gen, field, fieldIndex, ref) {
       return field.delimited ? gen("types[%i].encode(%s,w.uint32(%i),q+1).uint32(%i)", fieldIndex, ref, (field.id << 3 | 3) >>> 0, (field.id << 3 | 4) >>> 0) : gen("types[%i].encode(%s,w.uint32(%i).fork(),q+1).ldelim()", fieldIndex, ref, (field.id << 3 | 2) >>> 0);
@@ -14989,19 +14989,19 @@ var require_encoder = __commonJS({
         mtype.fieldsArray.slice().sort(util.compareFieldsById)
       );
       for (var i = 0; i < fields.length; ++i) {
-        var field = fields[i].resolve(), index = mtype._fieldsArray.indexOf(field), type = field.resolvedType instanceof Enum ? "int32" : field.type, wireType = types.basic[type];
+        var field = fields[i].resolve(), index = mtype._fieldsArray.indexOf(field), type = field.resolvedType instanceof Enum ? "int32" : field.type, wireType = types2.basic[type];
         ref = "m" + util.safeProp(field.name);
         if (field.map) {
           gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)){", ref, field.name)("for(var ks=Object.keys(%s),i=0;i<ks.length;++i){", ref);
-          if (field.keyType === "bool") gen("w.uint32(%i).fork().uint32(%i).bool(util.boolFromKey(ks[i]))", (field.id << 3 | 2) >>> 0, 8 | types.mapKey[field.keyType]);
-          else if (types.long[field.keyType] !== void 0) gen("w.uint32(%i).fork().uint32(%i).%s(util.longFromKey(ks[i],%j))", (field.id << 3 | 2) >>> 0, 8 | types.mapKey[field.keyType], field.keyType, field.keyType === "uint64" || field.keyType === "fixed64");
-          else gen("w.uint32(%i).fork().uint32(%i).%s(ks[i])", (field.id << 3 | 2) >>> 0, 8 | types.mapKey[field.keyType], field.keyType);
+          if (field.keyType === "bool") gen("w.uint32(%i).fork().uint32(%i).bool(util.boolFromKey(ks[i]))", (field.id << 3 | 2) >>> 0, 8 | types2.mapKey[field.keyType]);
+          else if (types2.long[field.keyType] !== void 0) gen("w.uint32(%i).fork().uint32(%i).%s(util.longFromKey(ks[i],%j))", (field.id << 3 | 2) >>> 0, 8 | types2.mapKey[field.keyType], field.keyType, field.keyType === "uint64" || field.keyType === "fixed64");
+          else gen("w.uint32(%i).fork().uint32(%i).%s(ks[i])", (field.id << 3 | 2) >>> 0, 8 | types2.mapKey[field.keyType], field.keyType);
           if (wireType === void 0) gen("types[%i].encode(%s[ks[i]],w.uint32(18).fork(),q+1).ldelim().ldelim()", index, ref);
           else gen(".uint32(%i).%s(%s[ks[i]]).ldelim()", 16 | wireType, type, ref);
           gen("}")("}");
         } else if (field.repeated) {
           gen("if(%s!=null&&%s.length){", ref, ref);
-          if (field.packed && types.packed[type] !== void 0) {
+          if (field.packed && types2.packed[type] !== void 0) {
             gen("w.uint32(%i).%ss(%s)", (field.id << 3 | 2) >>> 0, type, ref);
           } else {
             gen("for(var i=0;i<%s.length;++i)", ref);
@@ -15012,13 +15012,13 @@ var require_encoder = __commonJS({
           gen("}");
         } else {
           if (!field.required)
-            if (field.hasPresence || !(field.resolvedType instanceof Enum || types.basic[type] !== void 0)) gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j))", ref, field.name);
+            if (field.hasPresence || !(field.resolvedType instanceof Enum || types2.basic[type] !== void 0)) gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j))", ref, field.name);
             else if (field.resolvedType instanceof Enum) gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&%s!==%j)", ref, field.name, ref, field.typeDefault);
             else if (type === "bool") gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&%s!==false)", ref, field.name, ref);
             else if (type === "string") gen('if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&%s!=="")', ref, field.name, ref);
             else if (type === "bytes") gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&%s.length)", ref, field.name, ref);
             else if (type === "double" || type === "float") gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&!Object.is(%s,0))", ref, field.name, ref);
-            else if (types.long[type] !== void 0) gen('if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&(typeof %s==="object"?%s.low||%s.high:%s!==0))', ref, field.name, ref, ref, ref, ref);
+            else if (types2.long[type] !== void 0) gen('if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&(typeof %s==="object"?%s.low||%s.high:%s!==0))', ref, field.name, ref, ref, ref, ref);
             else gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&%s!==0)", ref, field.name, ref);
           if (wireType === void 0)
             genTypePartial(gen, field, index, ref);
@@ -15355,7 +15355,7 @@ var require_parse = __commonJS({
     var Service = require_service2();
     var Method = require_method();
     var ReflectionObject = require_object();
-    var types = require_types();
+    var types2 = require_types();
     var util = require_util();
     var base10Re = /^[1-9][0-9]*$/;
     var base10NegRe = /^-?[1-9][0-9]*$/;
@@ -15834,7 +15834,7 @@ var require_parse = __commonJS({
       function parseMapField(parent) {
         skip("<");
         var keyType = next();
-        if (types.mapKey[keyType] === void 0)
+        if (types2.mapKey[keyType] === void 0)
           throw illegal(keyType, "type");
         skip(",");
         var valueType = next();
@@ -16625,29 +16625,29 @@ var unsafeCharacters = (
   /[\u0000-\u0008\u000e-\u001f\u007f-\u0084\u0086-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g
 );
 var lineBreaks = /\r\n|[\n\r\v\f\u0085\u2028\u2029]/g;
-function neutralize(text3) {
-  return text3.replace(/\t/g, " ").replace(unsafeCharacters, "�");
+function neutralize(text4) {
+  return text4.replace(/\t/g, " ").replace(unsafeCharacters, "�");
 }
 var entities = { "&": "&amp;", "<": "&lt;", ">": "&gt;" };
 function escapeInline(line) {
   return line.replace(/[&<>]/g, (c) => entities[c]).replace(/[\\`*_[\]~|$]/g, "\\$&").replace(/@/g, `@${wordJoiner}`).replace(/#(?=\d)/g, `#${wordJoiner}`).replace(/\b(GH-)(?=\d)/gi, `$1${wordJoiner}`).replace(/:\/\//g, `:${wordJoiner}//`).replace(/\b(www)\./gi, `$1${wordJoiner}.`);
 }
-function escapeStart(text3, isLine) {
-  const trimmed = text3.trimStart();
+function escapeStart(text4, isLine) {
+  const trimmed = text4.trimStart();
   if (/^[#+\-=]/.test(trimmed)) return `\\${trimmed}`;
   return isLine ? trimmed.replace(/^(\d+)([.)])/, "$1\\$2") : trimmed;
 }
-function escapeMarkdownCell(text3) {
-  return escapeStart(escapeInline(neutralize(text3).replace(lineBreaks, " ").trim()), false);
+function escapeMarkdownCell(text4) {
+  return escapeStart(escapeInline(neutralize(text4).replace(lineBreaks, " ").trim()), false);
 }
-function escapeMarkdownText(text3) {
-  return neutralize(text3).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
+function escapeMarkdownText(text4) {
+  return neutralize(text4).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
 }
-function escapePlainText(text3) {
-  return neutralize(text3).replace(lineBreaks, " ");
+function escapePlainText(text4) {
+  return neutralize(text4).replace(lineBreaks, " ");
 }
-function markdownCodeBlock(text3) {
-  const body = neutralize(text3).replace(lineBreaks, "\n");
+function markdownCodeBlock(text4) {
+  const body = neutralize(text4).replace(lineBreaks, "\n");
   const longestRun = (body.match(/`+/g) ?? []).reduce((longest, run) => Math.max(longest, run.length), 0);
   const fence = "`".repeat(Math.max(3, longestRun + 1));
   return `${fence}text
@@ -16655,8 +16655,8 @@ ${body}
 ${fence}`;
 }
 var htmlEntities = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
-function escapeHtml(text3) {
-  return neutralize(text3).replace(/[&<>"']/g, (c) => htmlEntities[c]);
+function escapeHtml(text4) {
+  return neutralize(text4).replace(/[&<>"']/g, (c) => htmlEntities[c]);
 }
 
 // src/core/report/format-number.ts
@@ -16708,8 +16708,8 @@ function formatRatio(ratio) {
   return Number.isFinite(ratio) ? `${formatNumber(ratio)}×` : "n/a";
 }
 function formatPStatement(label2, p) {
-  const text3 = formatPValue(p);
-  return text3.startsWith("<") ? `${label2} < ${text3.slice(1)}` : `${label2} = ${text3}`;
+  const text4 = formatPValue(p);
+  return text4.startsWith("<") ? `${label2} < ${text4.slice(1)}` : `${label2} = ${text4}`;
 }
 
 // src/core/checks/verdict.ts
@@ -16775,8 +16775,8 @@ function writeHeadline(verdict, findings) {
   const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
   return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
 }
-function lowerFirst(text3) {
-  return /^(The|Holdout|A|An)\b/.test(text3) ? text3[0].toLowerCase() + text3.slice(1) : text3;
+function lowerFirst(text4) {
+  return /^(The|Holdout|A|An)\b/.test(text4) ? text4[0].toLowerCase() + text4.slice(1) : text4;
 }
 
 // node_modules/simple-statistics/dist/simple-statistics.mjs
@@ -27526,8 +27526,8 @@ function ko_default() {
 }
 
 // node_modules/zod/v4/locales/lt.js
-var capitalizeFirstCharacter = (text3) => {
-  return text3.charAt(0).toUpperCase() + text3.slice(1);
+var capitalizeFirstCharacter = (text4) => {
+  return text4.charAt(0).toUpperCase() + text4.slice(1);
 };
 function getUnitTypeFromNumber(number4) {
   const abs = Math.abs(number4);
@@ -33398,10 +33398,10 @@ function _properties(shape, params) {
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _mime(types, params) {
+function _mime(types2, params) {
   return new $ZodCheckMimeType({
     check: "mime_type",
-    mime: types,
+    mime: types2,
     ...normalizeParams(params)
   });
 }
@@ -33988,7 +33988,7 @@ function compactTypeUnion(schema) {
   const options = schema.anyOf;
   if (!Array.isArray(options) || options.length === 0 || schema.type !== void 0)
     return;
-  const types = [];
+  const types2 = [];
   for (const option of options) {
     if (!option || typeof option !== "object")
       return;
@@ -34000,12 +34000,12 @@ function compactTypeUnion(schema) {
     for (const member of Array.isArray(type) ? type : [type]) {
       if (typeof member !== "string")
         return;
-      if (!types.includes(member))
-        types.push(member);
+      if (!types2.includes(member))
+        types2.push(member);
     }
   }
   delete schema.anyOf;
-  schema.type = types.length === 1 ? types[0] : types;
+  schema.type = types2.length === 1 ? types2[0] : types2;
 }
 var FOLDABLE_KEYS = /* @__PURE__ */ new Set(["type", "properties", "required", "additionalProperties"]);
 var UNION_KEYS = ["oneOf", "anyOf"];
@@ -34804,8 +34804,8 @@ function stringifyKeyNames(bySchema, json2, visited) {
     if (mapped.some((branch, i) => branch !== branches[i]))
       json2 = { ...json2, [keyword]: mapped };
   }
-  const types = Array.isArray(json2.type) ? json2.type : [json2.type];
-  const numericType = !types.includes("string") && types.some((t) => t === "number" || t === "integer");
+  const types2 = Array.isArray(json2.type) ? json2.type : [json2.type];
+  const numericType = !types2.includes("string") && types2.some((t) => t === "number" || t === "integer");
   const values = json2.enum ?? (json2.const !== void 0 ? [json2.const] : void 0);
   if (!numericType && !values?.some((v) => typeof v === "number"))
     return json2;
@@ -34818,7 +34818,7 @@ function stringifyKeyNames(bySchema, json2, visited) {
     return rest;
   rest.type = "string";
   if (!values)
-    rest.pattern = (types.includes("number") ? number : integer).source;
+    rest.pattern = (types2.includes("number") ? number : integer).source;
   return rest;
 }
 var pendingRecords = /* @__PURE__ */ new WeakMap();
@@ -36551,7 +36551,7 @@ var ZodFile = /* @__PURE__ */ $constructor("ZodFile", (inst, def) => {
   inst._zod.processJSONSchema = (ctx, json2, params) => fileProcessor(inst, ctx, json2, params);
   inst.min = (size, params) => inst.check(_minSize(size, params));
   inst.max = (size, params) => inst.check(_maxSize(size, params));
-  inst.mime = (types, params) => inst.check(_mime(Array.isArray(types) ? types : [types], params));
+  inst.mime = (types2, params) => inst.check(_mime(Array.isArray(types2) ? types2 : [types2], params));
 });
 function file(params) {
   return _file(ZodFile, params);
@@ -37976,7 +37976,7 @@ var sideSummarySchema = external_exports.strictObject({
   evaluationRows: count,
   referenceRows: count,
   features: list(external_exports.strictObject({ name: text, kind: external_exports.enum(["numeric", "categorical"]) })),
-  model: external_exports.strictObject({ kind: text, description: text }),
+  model: external_exports.strictObject({ kind: text, description: text, engine: external_exports.enum(["plumbline-trees", "plumbline-linear", "onnxruntime"]).optional() }),
   scores: list(finite),
   scoreMean: finite,
   scoreSd: undefinedNumber,
@@ -38030,8 +38030,8 @@ var gateReportSchema = external_exports.strictObject({
 function fitReportLimits(report) {
   return fit(report, null);
 }
-function cut(text3, max) {
-  return text3.length <= max ? text3 : `${text3.slice(0, max - 1)}…`;
+function cut(text4, max) {
+  return text4.length <= max ? text4 : `${text4.slice(0, max - 1)}…`;
 }
 function fit(value2, key2) {
   if (typeof value2 === "string") return cut(value2, key2 === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
@@ -38043,11 +38043,11 @@ function fit(value2, key2) {
 }
 
 // src/core/report/render-text.ts
-var length = (text3) => [...text3].length;
-function wrap(text3, width, indent, hangingIndent = indent) {
+var length = (text4) => [...text4].length;
+function wrap(text4, width, indent, hangingIndent = indent) {
   const lines = [];
   let line = "";
-  for (const word of escapePlainText(text3).split(" ").filter((w) => w !== "")) {
+  for (const word of escapePlainText(text4).split(" ").filter((w) => w !== "")) {
     const lead = lines.length === 0 ? indent : hangingIndent;
     if (line !== "" && length(lead) + length(line) + 1 + length(word) > width) {
       lines.push(lead + line);
@@ -39899,9 +39899,9 @@ var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 var LINE_NOTE = "(the header is line 1)";
 var INFINITY_WORD = /^[+-]?(?:inf|infinity)$/i;
 var MAX_MAGNITUDE = 1e100;
-function parseCsv(text3, options) {
+function parseCsv(text4, options) {
   const { source } = options;
-  const { header, rows, lineOf } = readRecords(text3, source);
+  const { header, rows, lineOf } = readRecords(text4, source);
   const columnIndex = checkHeader(header, source);
   const plan = options.schema ? planFromSchema(options, header, columnIndex) : planFromRoles(options, header, columnIndex, rows);
   const cells = (column) => rows.map((row) => row[column].trim());
@@ -39987,14 +39987,14 @@ function failNotNumeric(source, line, column, value2, reason) {
     "Correct the value, or write NA or leave the cell empty if it is missing."
   );
 }
-function readRecords(text3, source) {
-  if (text3.replace(/^\uFEFF/, "").trim() === "") {
+function readRecords(text4, source) {
+  if (text4.replace(/^\uFEFF/, "").trim() === "") {
     throw new UserError(`${source} is empty.`, "Write the column names on the first line and one row per example below it.");
   }
   const ends = [];
   let records;
   try {
-    records = parse3(text3, {
+    records = parse3(text4, {
       bom: true,
       relax_column_count: true,
       record_delimiter: ["\r\n", "\n", "\r"],
@@ -40005,7 +40005,7 @@ function readRecords(text3, source) {
     });
   } catch (error62) {
     if (!(error62 instanceof CsvError)) throw error62;
-    const line = lineAtByte(text3, ends.length === 0 ? 0 : ends[ends.length - 1]);
+    const line = lineAtByte(text4, ends.length === 0 ? 0 : ends[ends.length - 1]);
     throw new UserError(
       `${at2(source, line)}: ${describeCsvError(error62)}.`,
       'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
@@ -40025,7 +40025,7 @@ function readRecords(text3, source) {
   }
   const header = records[headerRecord];
   const rows = dataRecords.map((r) => records[r]);
-  const lineOf = (row) => lineAtByte(text3, starts[dataRecords[row]]);
+  const lineOf = (row) => lineAtByte(text4, starts[dataRecords[row]]);
   for (let i = 0; i < rows.length; i++) {
     if (rows[i].length !== header.length) {
       throw new UserError(
@@ -40048,8 +40048,8 @@ function describeCsvError(error62) {
       return `the CSV cannot be read (${error62.message})`;
   }
 }
-function lineAtByte(text3, byteOffset) {
-  const bytes = new TextEncoder().encode(text3);
+function lineAtByte(text4, byteOffset) {
+  const bytes = new TextEncoder().encode(text4);
   let line = 1;
   for (let b = 0; b < byteOffset && b < bytes.length; b++) {
     if (bytes[b] === 10 || bytes[b] === 13 && bytes[b + 1] !== 10) line++;
@@ -40455,13 +40455,13 @@ var import_yaml = __toESM(require_dist(), 1);
 
 // src/core/policy/format-key-path.ts
 function formatKeyPath(path) {
-  let text3 = "";
+  let text4 = "";
   for (const segment of path) {
-    if (typeof segment === "number") text3 += `[${segment}]`;
-    else if (/^[A-Za-z_][A-Za-z0-9_-]*$/.test(String(segment))) text3 += text3 ? `.${String(segment)}` : String(segment);
-    else text3 += `['${String(segment).replaceAll("\\", "\\\\").replaceAll("'", "\\'")}']`;
+    if (typeof segment === "number") text4 += `[${segment}]`;
+    else if (/^[A-Za-z_][A-Za-z0-9_-]*$/.test(String(segment))) text4 += text4 ? `.${String(segment)}` : String(segment);
+    else text4 += `['${String(segment).replaceAll("\\", "\\\\").replaceAll("'", "\\'")}']`;
   }
-  return text3;
+  return text4;
 }
 
 // src/core/policy/policy-defaults.ts
@@ -40867,8 +40867,8 @@ function describePolicyKey(path) {
 
 // src/core/policy/excerpt.ts
 var unsafe = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g;
-function excerpt(text3, max = 40) {
-  const cut2 = [...text3].length > max ? `${[...text3].slice(0, max).join("")}…` : text3;
+function excerpt(text4, max = 40) {
+  const cut2 = [...text4].length > max ? `${[...text4].slice(0, max).join("")}…` : text4;
   return cut2.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
 }
 
@@ -40899,20 +40899,20 @@ function describeNode(node2) {
   if ((0, import_yaml.isScalar)(node2)) return `'${excerpt(String(node2.value))}'`;
   return "something else";
 }
-function readDocument(text3, source) {
+function readDocument(text4, source) {
   const empty = new UserError(
     `${source}: the file is empty; a policy needs at least version, task, target, data and model.`,
     "Run 'plumbline init' to write a starter policy, or see docs/policy.md."
   );
-  if (text3.trim() === "") throw empty;
-  if (text3.length > maxPolicyCharacters) {
+  if (text4.trim() === "") throw empty;
+  if (text4.length > maxPolicyCharacters) {
     throw new UserError(
-      `${source} is ${text3.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
+      `${source} is ${text4.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
       "Check that the policy path names plumbline.yml; a policy is a few dozen lines (docs/policy.md)."
     );
   }
   const lines = new import_yaml.LineCounter();
-  const doc = (0, import_yaml.parseDocument)(text3, { schema: "failsafe", uniqueKeys: false, lineCounter: lines, prettyErrors: false });
+  const doc = (0, import_yaml.parseDocument)(text4, { schema: "failsafe", uniqueKeys: false, lineCounter: lines, prettyErrors: false });
   const place = (offset) => {
     const { line, col } = lines.linePos(offset);
     return { line, column: col, offset };
@@ -40942,7 +40942,7 @@ function readDocument(text3, source) {
     );
   }
   const positions = /* @__PURE__ */ new Map();
-  positions.set(pathId([]), { value: place(root2.range?.[0] ?? 0), end: text3.length });
+  positions.set(pathId([]), { value: place(root2.range?.[0] ?? 0), end: text4.length });
   const expanding = /* @__PURE__ */ new Set();
   let budget = maxPolicyValues;
   const toPlain = (node2, path) => {
@@ -40994,7 +40994,7 @@ function readDocument(text3, source) {
         seen.set(key2, keyPlace);
         const valueNode = pair.value;
         const valueRange = valueNode?.range ?? [keyNode.range[1] + 1, keyNode.range[1] + 1];
-        positions.set(pathId([...path, key2]), { key: keyPlace, value: place(Math.min(valueRange[0], text3.length)), end: valueRange[1] });
+        positions.set(pathId([...path, key2]), { key: keyPlace, value: place(Math.min(valueRange[0], text4.length)), end: valueRange[1] });
         result[key2] = toPlain(valueNode, [...path, key2]);
       }
       return result;
@@ -41075,8 +41075,8 @@ function describeIssue(issue2, raw, positions, source) {
     fix
   }];
 }
-function readPolicy(text3, source) {
-  const { value: value2, positions } = readDocument(text3, source);
+function readPolicy(text4, source) {
+  const { value: value2, positions } = readDocument(text4, source);
   const result = policySchema.safeParse(value2);
   if (!result.success) {
     const problems = result.error.issues.flatMap((issue2) => describeIssue(issue2, value2, positions, source));
@@ -41086,8 +41086,8 @@ function readPolicy(text3, source) {
   }
   return { config: result.data, positions };
 }
-function readPolicyFile(text3, options) {
-  return { ...readPolicy(text3, options.source), source: options.source };
+function readPolicyFile(text4, options) {
+  return { ...readPolicy(text4, options.source), source: options.source };
 }
 function listColumns(columns, most = 20) {
   const shown = columns.slice(0, most).join(", ");
@@ -41463,10 +41463,10 @@ async function permutationImportance(model, evaluation, options) {
   });
   const stackedMatrix = { rows: stackedRows, features: data.features, columns: stacked };
   const importances = [];
-  for (const unit of units) {
+  const drawReplacement = (unit, into) => {
     const random = createRandom(deriveSeed(options.seed, "draws", unit.isGroup ? "group" : "feature", unit.name));
     const replaced = /* @__PURE__ */ new Map();
-    for (const j of unit.columns) replaced.set(names[j], fast ? new Float64Array(stackedRows) : stacked[j]);
+    unit.columns.forEach((j, m) => replaced.set(names[j], into ? into[m] : new Float64Array(stackedRows)));
     for (let k = 0; k < draws; k++) {
       const rows = referenceRows(n, reference.rows, usesOwnRows, random);
       for (const j of unit.columns) {
@@ -41476,7 +41476,17 @@ async function permutationImportance(model, evaluation, options) {
         for (let i = 0; i < n; i++) target[offset + i] = source[rows[i]];
       }
     }
-    const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
+    return replaced;
+  };
+  const batched = fast?.predictMany ? fast.predictMany(units.map((unit) => drawReplacement(unit)), draws) : void 0;
+  for (const [u, unit] of units.entries()) {
+    let prediction;
+    if (batched) prediction = batched[u];
+    else if (fast) prediction = fast.predict(drawReplacement(unit), draws);
+    else {
+      drawReplacement(unit, unit.columns.map((j) => stacked[j]));
+      prediction = await model.predict(stackedMatrix);
+    }
     const values = [];
     rowSum.fill(0);
     let decomposes = true;
@@ -41594,53 +41604,70 @@ function rSquared(y, prediction) {
 function refitSeed(seed, refit) {
   return deriveSeed(seed, "refit", refit);
 }
-async function measureSide(inputs, options) {
+function sideRows(inputs, options) {
+  if (!inputs.holdout.target) throw new RangeError("measureSide needs a holdout with a target");
+  return {
+    evaluation: capRows(inputs.holdout, options.evaluationRows, deriveSeed(options.seed, "evaluation-rows")),
+    reference: capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, "reference-rows"))
+  };
+}
+function sideRefitSeeds(inputs, options) {
+  const refits = inputs.model ? 1 : options.refits;
+  return Array.from({ length: refits }, (_, r) => refitSeed(options.seed, r));
+}
+async function measureRefit(model, inputs, options, rows, refit) {
   const { holdout, train: train3 } = inputs;
   const target = holdout.target;
   if (!target) throw new RangeError("measureSide needs a holdout with a target");
-  const refits = inputs.model ? 1 : options.refits;
-  const evaluation = capRows(holdout, options.evaluationRows, deriveSeed(options.seed, "evaluation-rows"));
-  const reference = capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, "reference-rows"));
+  const predictions = await model.predict(selectFeatures(holdout, model.featureNames));
+  const score2 = options.metric.compute(target.values, predictions);
+  const separation = options.task === "binary" ? rocAuc(target.values, predictions) : rSquared(target.values, predictions);
+  const result = await permutationImportance(model, rows.evaluation, {
+    metric: options.metric,
+    draws: options.draws,
+    seed: deriveSeed(options.seed, "draws", refit),
+    reference: rows.reference,
+    groups: options.groups
+  });
   const featureOrder = train3.features.map((f) => f.name);
-  const refitSeeds = [];
-  const scores = [];
-  const separation = [];
-  const perRefit = [];
-  let firstPredictions = new Float64Array(0);
-  let modelInfo = { kind: "", featureNames: [] };
-  for (let r = 0; r < refits; r++) refitSeeds.push(refitSeed(options.seed, r));
+  return {
+    score: score2,
+    separation,
+    importances: canonicalOrder(result.importances, featureOrder, options.groups, options.draws),
+    predictions,
+    model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? "onnxruntime" }
+  };
+}
+function combineRefits(seeds, rows, refits) {
+  if (refits.length === 0 || refits.length !== seeds.length) throw new RangeError("combineRefits needs one part per refit seed");
+  const perRefit = refits.map((r) => [...r.importances]);
+  return {
+    refitSeeds: [...seeds],
+    scores: refits.map((r) => r.score),
+    separation: refits.map((r) => r.separation),
+    importances: computeNoiseFloor(perRefit),
+    perRefit,
+    evaluationRows: rows.evaluation.rows,
+    referenceRows: rows.reference.rows,
+    model: refits[refits.length - 1].model,
+    firstPredictions: refits[0].predictions,
+    noiseCovers: refits.length < 2 ? "draws-only" : "refits-and-draws"
+  };
+}
+async function measureSide(inputs, options) {
+  const rows = sideRows(inputs, options);
+  const refitSeeds = sideRefitSeeds(inputs, options);
+  const refits = refitSeeds.length;
   const fitRefit = (r) => inputs.fit({ side: inputs.side, seed: refitSeeds[r], refit: r, leaveOut: [] });
   const prefetched = !inputs.model && options.concurrentFits ? refitSeeds.map((_, r) => fitRefit(r)) : void 0;
   prefetched?.forEach((p) => p.catch(() => void 0));
+  const parts = [];
   for (let r = 0; r < refits; r++) {
     options.onRefit?.(r, refits);
     const model = inputs.model ?? await (prefetched ? prefetched[r] : fitRefit(r));
-    modelInfo = { kind: model.kind, featureNames: model.featureNames };
-    const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
-    if (r === 0) firstPredictions = prediction;
-    scores.push(options.metric.compute(target.values, prediction));
-    separation.push(options.task === "binary" ? rocAuc(target.values, prediction) : rSquared(target.values, prediction));
-    const result = await permutationImportance(model, evaluation, {
-      metric: options.metric,
-      draws: options.draws,
-      seed: deriveSeed(options.seed, "draws", r),
-      reference,
-      groups: options.groups
-    });
-    perRefit.push(canonicalOrder(result.importances, featureOrder, options.groups, options.draws));
+    parts.push(await measureRefit(model, inputs, options, rows, r));
   }
-  return {
-    refitSeeds,
-    scores,
-    separation,
-    importances: computeNoiseFloor(perRefit),
-    perRefit,
-    evaluationRows: evaluation.rows,
-    referenceRows: reference.rows,
-    model: modelInfo,
-    firstPredictions,
-    noiseCovers: refits < 2 ? "draws-only" : "refits-and-draws"
-  };
+  return combineRefits(refitSeeds, rows, parts);
 }
 function canonicalOrder(estimates, featureOrder, groups, draws) {
   const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
@@ -41680,6 +41707,8 @@ function binFeatures(matrix, options = {}) {
     );
   }
   const n = matrix.rows;
+  const width = matrix.columns.length;
+  const block = new Uint8Array(options.shared ? new SharedArrayBuffer(n * width) : new ArrayBuffer(n * width));
   const codes = [];
   const upperEdges = [];
   const binCounts = new Int32Array(matrix.columns.length);
@@ -41691,9 +41720,11 @@ function binFeatures(matrix, options = {}) {
     const edges = quantileEdges(column, maxBins);
     upperEdges.push(edges);
     binCounts[j] = edges.length;
-    codes.push(assignBins(column, edges));
+    const out = block.subarray(j * n, (j + 1) * n);
+    assignBins(column, edges, out);
+    codes.push(out);
   }
-  return { rows: n, features: matrix.features, codes, binCounts, upperEdges };
+  return { rows: n, features: matrix.features, codes, matrix: block, binCounts, upperEdges };
 }
 function quantileEdges(column, maxBins) {
   let present = 0;
@@ -41733,8 +41764,7 @@ function edgeBetween(below, above) {
   const mid = below + (above - below) / 2;
   return mid < above ? mid : below;
 }
-function assignBins(column, edges) {
-  const out = new Uint8Array(column.length);
+function assignBins(column, edges, out) {
   const last = edges.length - 1;
   for (let i = 0; i < column.length; i++) {
     const v = column[i];
@@ -41751,109 +41781,191 @@ function assignBins(column, edges) {
     }
     out[i] = lo;
   }
-  return out;
 }
 
 // src/core/models/gbt/replacement-predictor.ts
+var BLOCK_ROWS = 128;
 function createTreeReplacementPredictor(ensemble, base) {
+  const trees = ensemble.trees.map(compileTree);
   const position = new Map(base.features.map((f, j) => [f.name, j]));
   const names = ensemble.featureNames;
-  const columns = names.map((name) => {
+  const F = names.length;
+  const n = base.rows;
+  const round = ensemble.float32Inputs === true;
+  const x = new Float64Array(n * F);
+  names.forEach((name, f) => {
     const j = position.get(name);
     if (j === void 0) throw new RangeError(`createTreeReplacementPredictor: the matrix has no feature named '${name}'`);
-    return base.columns[j];
+    const column = base.columns[j];
+    for (let i = 0, at4 = f; i < n; i++, at4 += F) x[at4] = round ? Math.fround(column[i]) : column[i];
   });
-  const n = base.rows;
-  const trees = ensemble.trees;
-  const F = names.length;
   const raw = new Float64Array(n).fill(ensemble.baseScore);
-  const leaf = [];
-  const touched = [];
-  const seenAt = new Int32Array(F).fill(-1);
-  for (let t = 0; t < trees.length; t++) {
-    const { feature, threshold, left, right, missingGoesLeft, value: value2 } = trees[t];
-    const leaves = new Float64Array(n);
-    const lists = Array.from({ length: F }, () => []);
-    for (let i = 0; i < n; i++) {
-      let node2 = 0;
-      let f = feature[0];
-      while (f >= 0) {
-        if (seenAt[f] !== i) {
-          seenAt[f] = i;
-          lists[f].push(i);
-        }
-        const v = columns[f][i];
-        node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
-        f = feature[node2];
-      }
-      leaves[i] = value2[node2];
-      raw[i] += value2[node2];
-    }
-    seenAt.fill(-1);
-    leaf.push(leaves);
-    touched.push(lists.map((l) => Int32Array.from(l)));
-  }
-  const isBinary = ensemble.task === "binary";
-  return {
-    rows: n,
-    predict(replaced, draws) {
-      const replacedIndex = [];
-      const replacement = [];
-      for (const [name, values] of replaced) {
-        const f = names.indexOf(name);
-        if (f < 0) continue;
-        if (values.length !== n * draws) {
-          throw new RangeError(`ReplacementPredictor.predict: '${name}' has ${values.length} values, expected ${n * draws}`);
-        }
-        replacedIndex.push(f);
-        replacement.push(values);
-      }
+  for (const tree of trees) addTree(tree, x, F, n, raw);
+  const isLogistic = ensemble.link === "logistic";
+  const byName = new Map(names.map((name, f) => [name, f]));
+  const maxDepth = Math.max(1, ...trees.map(treeDepth));
+  const predictMany = (units, draws) => {
+    if (!Number.isInteger(draws) || draws < 1) throw new RangeError(`ReplacementPredictor.predict needs draws >= 1, got ${draws}`);
+    const singleOf = new Int32Array(F).fill(-1);
+    const groups = [];
+    const singleValues = new Array(F);
+    const outputs = units.map(() => {
       const out = new Float64Array(n * draws);
       for (let k = 0; k < draws; k++) out.set(raw, k * n);
-      if (replacedIndex.length > 0) {
-        const isReplaced = new Int32Array(F).fill(-1);
-        replacedIndex.forEach((f, r) => isReplaced[f] = r);
-        const mark2 = new Uint8Array(n);
-        for (let t = 0; t < trees.length; t++) {
-          const { feature, threshold, left, right, missingGoesLeft, value: value2 } = trees[t];
-          const rows = unionRows(touched[t], replacedIndex, mark2);
-          const leaves = leaf[t];
-          for (let k = 0; k < draws; k++) {
-            const offset = k * n;
-            for (let p = 0; p < rows.length; p++) {
-              const i = rows[p];
-              let node2 = 0;
-              let f = feature[0];
-              while (f >= 0) {
-                const r = isReplaced[f];
-                const v = r >= 0 ? replacement[r][offset + i] : columns[f][i];
-                node2 = (v !== v ? missingGoesLeft[node2] === 1 : v <= threshold[node2]) ? left[node2] : right[node2];
-                f = feature[node2];
-              }
-              out[offset + i] += value2[node2] - leaves[i];
+      return out;
+    });
+    units.forEach((replaced, u) => {
+      const features = [];
+      const values = [];
+      for (const [name, column] of replaced) {
+        const f = byName.get(name);
+        if (f === void 0) continue;
+        if (column.length !== n * draws) {
+          throw new RangeError(`ReplacementPredictor.predict: '${name}' has ${column.length} values, expected ${n * draws}`);
+        }
+        features.push(f);
+        values.push(round ? column.map(Math.fround) : column);
+      }
+      if (features.length === 1 && singleOf[features[0]] < 0) {
+        singleOf[features[0]] = u;
+        singleValues[features[0]] = values[0];
+      } else if (features.length > 0) groups.push({ unit: u, features, values });
+    });
+    const groupSlot = groups.map(() => new Int32Array(F).fill(-1));
+    groups.forEach((g2, q) => g2.features.forEach((f, r) => groupSlot[q][f] = r));
+    const pathFeature = new Int32Array(maxDepth);
+    const pathNode = new Int32Array(maxDepth);
+    const seen = new Uint8Array(F);
+    const kept = new Float64Array(F);
+    for (let start = 0; start < n; start += BLOCK_ROWS) {
+      const stop = Math.min(n, start + BLOCK_ROWS);
+      for (const tree of trees) {
+        const { feature, threshold, left, missingRight, value: value2 } = tree;
+        for (let i = start; i < stop; i++) {
+          const row = i * F;
+          let node2 = 0;
+          let f = feature[0];
+          let found = 0;
+          while (f >= 0) {
+            if (seen[f] === 0) {
+              seen[f] = 1;
+              pathFeature[found] = f;
+              pathNode[found++] = node2;
             }
+            const v = x[row + f];
+            node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
+            f = feature[node2];
+          }
+          const own2 = value2[node2];
+          for (let p = 0; p < found; p++) {
+            const g2 = pathFeature[p];
+            seen[g2] = 0;
+            const u = singleOf[g2];
+            if (u >= 0) walkOne(tree, pathNode[p], x, row, g2, singleValues[g2], i, n, draws, own2, outputs[u]);
+          }
+          for (let q = 0; q < groups.length; q++) {
+            const slot = groupSlot[q];
+            let from = -1;
+            for (let p = 0; p < found && from < 0; p++) if (slot[pathFeature[p]] >= 0) from = pathNode[p];
+            if (from < 0) continue;
+            const { features, values } = groups[q];
+            for (let m = 0; m < features.length; m++) kept[m] = x[row + features[m]];
+            walkReplaced(tree, from, x, row, features, values, i, n, draws, own2, outputs[groups[q].unit]);
+            for (let m = 0; m < features.length; m++) x[row + features[m]] = kept[m];
           }
         }
       }
-      if (isBinary) for (let i = 0; i < out.length; i++) out[i] = 1 / (1 + Math.exp(-out[i]));
-      return out;
     }
+    if (isLogistic) for (const out of outputs) for (let i = 0; i < out.length; i++) out[i] = 1 / (1 + Math.exp(-out[i]));
+    return outputs;
+  };
+  return {
+    rows: n,
+    predict: (replaced, draws) => predictMany([replaced], draws)[0],
+    predictMany
   };
 }
-function unionRows(lists, features, mark2) {
-  if (features.length === 1) return lists[features[0]];
-  const rows = [];
-  for (const f of features) {
-    for (const i of lists[f]) {
-      if (mark2[i] === 0) {
-        mark2[i] = 1;
-        rows.push(i);
-      }
+function walkReplaced(tree, from, x, row, features, values, i, n, draws, own2, out) {
+  const { feature, threshold, left, missingRight, value: value2 } = tree;
+  const members2 = features.length;
+  for (let k = 0, at4 = i; k < draws; k++, at4 += n) {
+    for (let m = 0; m < members2; m++) x[row + features[m]] = values[m][at4];
+    let node2 = from;
+    let f = feature[node2];
+    while (f >= 0) {
+      const v = x[row + f];
+      node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
+      f = feature[node2];
     }
+    out[at4] += value2[node2] - own2;
   }
-  for (const i of rows) mark2[i] = 0;
-  rows.sort((a, b) => a - b);
-  return Int32Array.from(rows);
+}
+function walkOne(tree, from, x, row, target, values, i, n, draws, own2, out) {
+  const { feature, threshold, left, missingRight, value: value2 } = tree;
+  for (let k = 0, at4 = i; k < draws; k++, at4 += n) {
+    const replaced = values[at4];
+    let node2 = from;
+    let f = feature[node2];
+    while (f >= 0) {
+      const v = f === target ? replaced : x[row + f];
+      node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
+      f = feature[node2];
+    }
+    out[at4] += value2[node2] - own2;
+  }
+}
+function addTree(tree, x, F, n, score2) {
+  const { feature, threshold, left, missingRight, value: value2 } = tree;
+  for (let i = 0, row = 0; i < n; i++, row += F) {
+    let node2 = 0;
+    let f = feature[0];
+    while (f >= 0) {
+      const v = x[row + f];
+      node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
+      f = feature[node2];
+    }
+    score2[i] += value2[node2];
+  }
+}
+function compileTree(tree) {
+  const m = tree.feature.length;
+  const feature = new Int32Array(m);
+  const threshold = new Float64Array(m);
+  const left = new Int32Array(m);
+  const missingRight = new Uint8Array(m);
+  const value2 = new Float64Array(m);
+  const queue = new Int32Array(m);
+  queue[0] = 0;
+  let head = 0;
+  let tail = 1;
+  while (head < tail) {
+    const at4 = head;
+    const old = queue[head++];
+    feature[at4] = tree.feature[old];
+    if (tree.feature[old] < 0) {
+      value2[at4] = tree.value[old];
+      continue;
+    }
+    threshold[at4] = tree.threshold[old];
+    missingRight[at4] = tree.missingGoesLeft[old] === 1 ? 0 : 1;
+    if (tail + 2 > m) throw new RangeError("createTreeReplacementPredictor: a tree reaches more nodes than it has (a cycle)");
+    left[at4] = tail;
+    queue[tail++] = tree.left[old];
+    queue[tail++] = tree.right[old];
+  }
+  return { feature: feature.subarray(0, tail), threshold, left, missingRight, value: value2 };
+}
+function treeDepth(tree) {
+  const depth = new Int32Array(tree.feature.length);
+  let most = 0;
+  for (let node2 = 0; node2 < tree.feature.length; node2++) {
+    if (tree.feature[node2] < 0) continue;
+    const d = depth[node2] + 1;
+    most = Math.max(most, d);
+    depth[tree.left[node2]] = d;
+    depth[tree.left[node2] + 1] = d;
+  }
+  return most;
 }
 
 // src/core/models/gbt/boosted-model.ts
@@ -41867,6 +41979,7 @@ var BoostedModel = class {
   ensemble;
   splitStatistics;
   kind = "boosted-trees";
+  engine = "plumbline-trees";
   task;
   featureNames;
   /**
@@ -41876,7 +41989,7 @@ var BoostedModel = class {
    */
   /** Permutation importance's fast path: see createTreeReplacementPredictor. */
   createReplacementPredictor(base) {
-    return createTreeReplacementPredictor(this.ensemble, base);
+    return createTreeReplacementPredictor({ ...this.ensemble, link: this.task === "binary" ? "logistic" : "identity" }, base);
   }
   predictRaw(matrix) {
     const position = new Map(matrix.features.map((f, j) => [f.name, j]));
@@ -41889,7 +42002,7 @@ var BoostedModel = class {
     });
     const n = matrix.rows;
     const score2 = new Float64Array(n).fill(this.ensemble.baseScore);
-    for (const tree of this.ensemble.trees) addTree(tree, columns, n, score2);
+    for (const tree of this.ensemble.trees) addTree2(tree, columns, n, score2);
     if (this.task === "binary") {
       for (let i = 0; i < n; i++) score2[i] = 1 / (1 + Math.exp(-score2[i]));
     }
@@ -41899,7 +42012,7 @@ var BoostedModel = class {
     return this.predictRaw(matrix);
   }
 };
-function addTree(tree, columns, n, score2) {
+function addTree2(tree, columns, n, score2) {
   const { feature, threshold, left, right, missingGoesLeft, value: value2 } = tree;
   for (let i = 0; i < n; i++) {
     let node2 = 0;
@@ -41957,23 +42070,25 @@ var MIN_HESSIAN_PER_LEAF = 1;
 function fitBoosted(binned, target, options) {
   const { task, settings } = options;
   checkSettings(settings);
-  const { positions, features: used, y } = resolveTrainingSubset(
+  const { positions, features: allowed, y } = resolveTrainingSubset(
     "fitBoosted",
     { rows: binned.rows, features: binned.features.length },
     target,
     task,
     options
   );
+  const used = leaveOut(allowed, options.excludeFeatures, binned.features.length);
   const n = positions.length;
   const featureCount = used.length;
   const rowCodes = gatherRowMajor(binned.codes, used, positions);
+  const columnCodes = gatherColumns(binned.codes, used, positions);
   const binCounts = Int32Array.from(used, (j) => binned.binCounts[j]);
   let targetSum = 0;
   for (let p = 0; p < n; p++) targetSum += y[p];
   const baseScore = task === "regression" ? targetSum / n : logOdds(targetSum / n);
   const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n));
   const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)));
-  const grower = new TreeGrower(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, task === "regression");
+  const grower = new TreeGrower(rowCodes, columnCodes, binCounts, n, settings, task === "regression");
   const score2 = new Float64Array(n).fill(baseScore);
   const random = createRandom(options.seed);
   const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k);
@@ -41997,6 +42112,18 @@ function fitBoosted(binned, target, options) {
     splits: splitsByFeature[k]
   }));
   return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics);
+}
+function leaveOut(allowed, excluded, width) {
+  if (!excluded || excluded.length === 0) return allowed;
+  for (const j of excluded) {
+    if (!Number.isInteger(j) || j < 0 || j >= width) {
+      throw new RangeError(`fitBoosted: excludeFeatures contains ${j}, not a column index from 0 to ${width - 1}`);
+    }
+  }
+  const drop = new Set(excluded);
+  const kept = allowed.filter((j) => !drop.has(j));
+  if (kept.length === 0) throw new RangeError("fitBoosted: excludeFeatures leaves no feature to split on");
+  return kept;
 }
 function checkSettings(s) {
   const wholeAtLeast = (name, min) => {
@@ -42026,6 +42153,14 @@ function gatherRowMajor(codes, used, positions) {
     for (let p = 0, at4 = k; p < positions.length; p++, at4 += width) out[at4] = column[positions[p]];
   }
   return out;
+}
+function gatherColumns(codes, used, positions) {
+  return used.map((j) => {
+    const column = codes[j];
+    const out = new Uint8Array(positions.length);
+    for (let p = 0; p < positions.length; p++) out[p] = column[positions[p]];
+    return out;
+  });
 }
 function logOdds(rate) {
   const r = Math.min(1 - 1e-6, Math.max(1e-6, rate));
@@ -42064,9 +42199,9 @@ function sampleFeatures(total, count4, random) {
 }
 var SLOTS_PER_FEATURE = 256;
 var TreeGrower = class {
-  constructor(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, isUnitHessian) {
+  constructor(rowCodes, columnCodes, binCounts, n, settings, isUnitHessian) {
     this.rowCodes = rowCodes;
-    this.featureCount = featureCount;
+    this.columnCodes = columnCodes;
     this.binCounts = binCounts;
     this.settings = settings;
     this.isUnitHessian = isUnitHessian;
@@ -42076,9 +42211,13 @@ var TreeGrower = class {
     this.scratch = new Int32Array(n);
     this.slot = isUnitHessian ? 2 : 3;
     this.featureStride = this.slot * SLOTS_PER_FEATURE;
-    this.treeCodes = rowCodes;
-    this.packedCodes = treeFeatureCount < featureCount ? new Uint8Array(n * treeFeatureCount) : rowCodes;
-    this.treeBins = new Int32Array(featureCount);
+    this.featureCount = columnCodes.length;
+    this.treeBins = new Int32Array(this.featureCount);
+    this.allRowCounts = new Float64Array(this.featureCount * SLOTS_PER_FEATURE);
+    columnCodes.forEach((column, k) => {
+      const base = k * SLOTS_PER_FEATURE;
+      for (let p = 0; p < n; p++) this.allRowCounts[base + column[p]]++;
+    });
     const m = 2 ** (settings.maxDepth + 1) - 1;
     this.feature = new Int32Array(m);
     this.splitBin = new Int32Array(m);
@@ -42094,7 +42233,7 @@ var TreeGrower = class {
     this.histogramOf = new Int32Array(m);
   }
   rowCodes;
-  featureCount;
+  columnCodes;
   binCounts;
   settings;
   isUnitHessian;
@@ -42105,11 +42244,12 @@ var TreeGrower = class {
   scratch;
   slot;
   featureStride;
-  // The current tree's features: codes[p * width + t] is position p's bin for tree feature t.
+  featureCount;
+  // The current tree's features: tree feature t is fit-local feature treeFeatures[t].
   treeFeatures = new Int32Array(0);
-  treeCodes;
-  packedCodes;
   width = 0;
+  /** Row counts per bin of every feature over all positions (the root's counts when a tree uses every row). */
+  allRowCounts;
   treeBins;
   // The tree being grown, node-indexed in creation (breadth-first) order. feature is the tree feature t.
   nodeCount = 0;
@@ -42171,22 +42311,12 @@ var TreeGrower = class {
       levelStart = levelEnd;
     }
   }
-  /** Points treeCodes at this tree's features, packing them row-major when they are a subset. */
+  /** Records this tree's features; the codes are read through treeFeatures, never copied per tree. */
   useFeatures(treeFeatures) {
     const width = treeFeatures.length;
     this.treeFeatures = treeFeatures;
     this.width = width;
     for (let t = 0; t < width; t++) this.treeBins[t] = this.binCounts[treeFeatures[t]];
-    if (width === this.featureCount) {
-      this.treeCodes = this.rowCodes;
-      return;
-    }
-    const { rowCodes, packedCodes, featureCount } = this;
-    const n = this.order.length;
-    for (let p = 0, from = 0, to = 0; p < n; p++, from += featureCount, to += width) {
-      for (let t = 0; t < width; t++) packedCodes[to + t] = rowCodes[from + treeFeatures[t]];
-    }
-    this.treeCodes = packedCodes;
   }
   canSplit(node2) {
     return this.end[node2] - this.begin[node2] >= 2 * this.settings.minRowsPerLeaf && this.sumHessian[node2] >= 2 * MIN_HESSIAN_PER_LEAF;
@@ -42298,9 +42428,9 @@ var TreeGrower = class {
       this.scratch,
       from,
       to,
-      this.treeCodes,
-      this.width,
-      t,
+      this.rowCodes,
+      this.featureCount,
+      this.treeFeatures[t],
       this.bestBin,
       this.bestMissingLeft
     );
@@ -42340,14 +42470,39 @@ var TreeGrower = class {
     if (leftIsSmaller ? leftNeeds : rightNeeds) this.histogramOf[small] = smallHist;
     else this.freeHistograms.push(smallHist);
   }
+  /**
+   * A node's histogram. The root of a tree grown on every row reads the codes column by column in
+   * row order (sequential, one feature's histogram hot in cache at a time) and copies the fixed row
+   * counts; every other node walks its rows once and adds each to every feature (row-major codes).
+   */
   buildHistogram(hist, node2) {
     hist.fill(0, 0, this.width * this.featureStride);
     const from = this.begin[node2];
     const to = this.end[node2];
+    const { rowCodes, featureCount, treeFeatures, width, order: order3, gradient, hessian } = this;
+    if (from === 0 && to === order3.length) {
+      this.buildFullHistogram(hist);
+      return;
+    }
     if (this.isUnitHessian) {
-      accumulateUnitHessian(hist, this.treeCodes, this.width, this.order, from, to, this.gradient);
-    } else {
-      accumulate(hist, this.treeCodes, this.width, this.order, from, to, this.gradient, this.hessian);
+      if (width === featureCount) accumulateUnitHessian(hist, rowCodes, width, order3, from, to, gradient);
+      else accumulateUnitHessianSubset(hist, rowCodes, featureCount, treeFeatures, width, order3, from, to, gradient);
+    } else if (width === featureCount) accumulate(hist, rowCodes, width, order3, from, to, gradient, hessian);
+    else accumulateSubset(hist, rowCodes, featureCount, treeFeatures, width, order3, from, to, gradient, hessian);
+  }
+  /** The histogram of every row: order is 0..n-1, so columns are read in order. */
+  buildFullHistogram(hist) {
+    const { slot, featureStride, treeFeatures, width, columnCodes, gradient, hessian, allRowCounts } = this;
+    const countAt = slot - 1;
+    for (let t = 0; t < width; t++) {
+      const k = treeFeatures[t];
+      const base = t * featureStride;
+      if (this.isUnitHessian) accumulateColumnUnitHessian(hist, base, columnCodes[k], gradient);
+      else accumulateColumn(hist, base, columnCodes[k], gradient, hessian);
+      const counts = k * SLOTS_PER_FEATURE;
+      const bins = this.treeBins[t];
+      for (let b = 0; b < bins; b++) hist[base + b * slot + countAt] = allRowCounts[counts + b];
+      hist[base + MISSING_BIN * slot + countAt] = allRowCounts[counts + MISSING_BIN];
     }
   }
   subtractHistogram(into, minus) {
@@ -42371,12 +42526,12 @@ var TreeGrower = class {
     if (rowCount === score2.length) return;
     const sampled = new Uint8Array(score2.length);
     for (let i = 0; i < rowCount; i++) sampled[order3[i]] = 1;
-    const { treeCodes, width, splitBin, missingLeft, left, right } = this;
+    const { rowCodes, featureCount, treeFeatures, splitBin, missingLeft, left, right } = this;
     for (let p = 0; p < score2.length; p++) {
       if (sampled[p] === 1) continue;
       let node2 = 0;
       while (feature[node2] >= 0) {
-        const code2 = treeCodes[p * width + feature[node2]];
+        const code2 = rowCodes[p * featureCount + treeFeatures[feature[node2]]];
         const goLeft = code2 === MISSING_BIN ? missingLeft[node2] === 1 : code2 <= splitBin[node2];
         node2 = goLeft ? left[node2] : right[node2];
       }
@@ -42446,18 +42601,56 @@ function accumulateUnitHessian(hist, codes, width, order3, from, to, gradient) {
     }
   }
 }
-function partition(order3, scratch, from, to, codes, width, t, bin, missingLeft) {
+function partition(order3, scratch, from, to, codes, width, k, bin, missingLeft) {
   let write = from;
   let spill = 0;
   const missingGoesLeft = missingLeft === 1;
   for (let i = from; i < to; i++) {
     const p = order3[i];
-    const code2 = codes[p * width + t];
+    const code2 = codes[p * width + k];
     if (code2 === MISSING_BIN ? missingGoesLeft : code2 <= bin) order3[write++] = p;
     else scratch[spill++] = p;
   }
   for (let i = 0; i < spill; i++) order3[write + i] = scratch[i];
   return write;
+}
+function accumulateSubset(hist, codes, featureCount, treeFeatures, width, order3, from, to, gradient, hessian) {
+  const stride = 3 * SLOTS_PER_FEATURE;
+  for (let i = from; i < to; i++) {
+    const p = order3[i];
+    const g2 = gradient[p];
+    const h = hessian[p];
+    const row = p * featureCount;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + treeFeatures[t]] * 3;
+      hist[s] += g2;
+      hist[s + 1] += h;
+      hist[s + 2] += 1;
+    }
+  }
+}
+function accumulateUnitHessianSubset(hist, codes, featureCount, treeFeatures, width, order3, from, to, gradient) {
+  const stride = 2 * SLOTS_PER_FEATURE;
+  for (let i = from; i < to; i++) {
+    const p = order3[i];
+    const g2 = gradient[p];
+    const row = p * featureCount;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + treeFeatures[t]] * 2;
+      hist[s] += g2;
+      hist[s + 1] += 1;
+    }
+  }
+}
+function accumulateColumn(hist, base, column, gradient, hessian) {
+  for (let p = 0; p < column.length; p++) {
+    const s = base + column[p] * 3;
+    hist[s] += gradient[p];
+    hist[s + 1] += hessian[p];
+  }
+}
+function accumulateColumnUnitHessian(hist, base, column, gradient) {
+  for (let p = 0; p < column.length; p++) hist[base + column[p] * 2] += gradient[p];
 }
 
 // src/core/models/linear/linear-model.ts
@@ -42476,6 +42669,7 @@ var LinearModel = class {
   state;
   convergence;
   kind = "linear";
+  engine = "plumbline-linear";
   task;
   featureNames;
   /**
@@ -42779,26 +42973,34 @@ function fitRidge(matrix, target, options) {
 }
 
 // src/core/models/builtin-fit.ts
-function createBuiltinFit(train3, task, settings) {
+function createBuiltinFit(train3, task, settings, options = {}) {
   const target = train3.target?.values;
   if (!target) throw new RangeError("createBuiltinFit needs a training dataset with a target");
   let binned;
   const names = train3.features.map((f) => f.name);
   return async (request) => {
-    const leaveOut = new Set(request.leaveOut);
-    for (const name of leaveOut) {
+    const leaveOut2 = new Set(request.leaveOut);
+    for (const name of leaveOut2) {
       if (!names.includes(name)) throw new RangeError(`createBuiltinFit: cannot leave out unknown feature '${name}'`);
     }
     const rows = shuffledIndices(train3.rows, createRandom(deriveSeed(request.seed, "row-order")));
     const columnOrder = Array.from(shuffledIndices(names.length, createRandom(deriveSeed(request.seed, "column-order"))));
-    const features = columnOrder.filter((j) => !leaveOut.has(names[j]));
-    if (features.length === 0) throw new RangeError("createBuiltinFit: every feature was left out");
+    const excluded = names.flatMap((name, j) => leaveOut2.has(name) ? [j] : []);
+    if (excluded.length === names.length) throw new RangeError("createBuiltinFit: every feature was left out");
     if (settings.learner === "linear") {
-      const options = { l2: settings.linearL2, rows, features };
-      return task === "binary" ? fitLogistic(train3, target, options) : fitRidge(train3, target, options);
+      const features = columnOrder.filter((j) => !leaveOut2.has(names[j]));
+      const options2 = { l2: settings.linearL2, rows, features };
+      return task === "binary" ? fitLogistic(train3, target, options2) : fitRidge(train3, target, options2);
     }
-    binned ??= binFeatures(train3, { maxBins: settings.maxBins });
-    return fitBoosted(binned, target, { task, settings: settings.boosting, seed: request.seed, rows, features });
+    binned ??= options.binned ?? binFeatures(train3, { maxBins: settings.maxBins });
+    return fitBoosted(binned, target, {
+      task,
+      settings: settings.boosting,
+      seed: request.seed,
+      rows,
+      features: columnOrder,
+      excludeFeatures: excluded
+    });
   };
 }
 
@@ -43530,14 +43732,14 @@ function groupConsequences(findings, sides, featureSet) {
   const removed = strong(base, featureSet.removed);
   if (added.length === 0 && removed.length === 0) return [...findings];
   const headNames = new Set(head.importances.filter((u) => !u.isGroup).map((u) => u.name));
-  const shared = base.importances.filter((u) => !u.isGroup && headNames.has(u.name));
-  const total = (side2) => shared.reduce((sum2, b) => sum2 + Math.max(0, unit(side2, b.name).mean), 0);
+  const shared2 = base.importances.filter((u) => !u.isGroup && headNames.has(u.name));
+  const total = (side2) => shared2.reduce((sum2, b) => sum2 + Math.max(0, unit(side2, b.name).mean), 0);
   const baseTotal = total(base);
   const headTotal = total(head);
   if (!(baseTotal > 0)) return [...findings];
   const factor = headTotal / baseTotal;
   const order3 = (side2) => new Map(
-    shared.map((b) => unit(side2, b.name)).sort((x, y) => y.mean - x.mean || (x.name < y.name ? -1 : 1)).map((u, i) => [u.name, i])
+    shared2.map((b) => unit(side2, b.name)).sort((x, y) => y.mean - x.mean || (x.name < y.name ? -1 : 1)).map((u, i) => [u.name, i])
   );
   const baseOrder = order3(base);
   const headOrder = order3(head);
@@ -43948,7 +44150,7 @@ function describeSides(inputs, base, head) {
       evaluationRows: m.evaluationRows,
       referenceRows: m.referenceRows,
       features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
-      model: { kind: m.model.kind, description: `${m.model.kind} on ${m.model.featureNames.length} features` },
+      model: { kind: m.model.kind, description: describeModel2(m.model), engine: m.model.engine },
       scores: m.scores,
       scoreMean: mean2(m.scores),
       scoreSd: sampleStandardDeviation2(m.scores),
@@ -43957,6 +44159,16 @@ function describeSides(inputs, base, head) {
     };
   };
   return { base: describe3("base", inputs.base, base), head: describe3("head", inputs.head, head) };
+}
+var engineNames = {
+  "plumbline-trees": "plumbline's tree evaluator",
+  "plumbline-linear": "plumbline's linear evaluator",
+  onnxruntime: "onnxruntime"
+};
+function describeModel2(model) {
+  const count4 = model.featureNames.length;
+  const engine = model.engine ? `, evaluated by ${engineNames[model.engine]}` : "";
+  return `${model.kind} on ${count4} feature${count4 === 1 ? "" : "s"}${engine}`;
 }
 
 // src/core/run-gate.ts
@@ -44206,9 +44418,9 @@ function registerSecret(value2) {
 function registerEnvironmentSecrets(env = process.env) {
   for (const name of ["GITHUB_TOKEN", "GH_TOKEN", "INPUT_TOKEN", "ACTIONS_RUNTIME_TOKEN", "ACTIONS_ID_TOKEN_REQUEST_TOKEN"]) registerSecret(env[name]);
 }
-function redactSecrets(text3) {
-  if (secrets.size === 0 || text3 === "") return text3;
-  let result = text3;
+function redactSecrets(text4) {
+  if (secrets.size === 0 || text4 === "") return text4;
+  let result = text4;
   for (const secret of [...secrets].sort((a, b) => b.length - a.length)) {
     if (result.includes(secret)) result = result.split(secret).join(redactedMark);
   }
@@ -44226,8 +44438,8 @@ function redactDeep(value2, depth = 0) {
 // src/adapters/security/terminal-text.ts
 var escapeSequences = /\u001b\[[0-?]*[ -/]*[@-~]|\u001b\][^\u0007\u001b]*(?:\u0007|\u001b\\)?|\u009b[0-?]*[ -/]*[@-~]|\u001b[@-Z\\-_]/g;
 var otherControls = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/g;
-function cleanOutsideText(text3) {
-  return redactSecrets(text3.replace(/\r\n/g, "\n").replace(escapeSequences, "").replace(otherControls, "�"));
+function cleanOutsideText(text4) {
+  return redactSecrets(text4.replace(/\r\n/g, "\n").replace(escapeSequences, "").replace(otherControls, "�"));
 }
 
 // src/adapters/git/git.ts
@@ -44398,6 +44610,7 @@ var import_onnxruntime_node = __toESM(require_dist2(), 1);
 // src/core/models/onnx-proto.ts
 var import_protobufjs = __toESM(require_protobufjs(), 1);
 var FEATURES_METADATA_KEY = "plumbline.features";
+var OnnxDataType = { FLOAT: 1, INT64: 7, STRING: 8, DOUBLE: 11 };
 var repeated = (type, id) => ({ rule: "repeated", type, id });
 var optional2 = (type, id) => ({ type, id });
 var descriptor = {
@@ -44499,6 +44712,241 @@ var onnxProto = {
   ModelSummary: root.lookupType("onnx.ModelSummary")
 };
 
+// src/core/models/parse-onnx-tree-ensemble.ts
+var text3 = new TextDecoder();
+var no = (reason) => ({ ok: false, reason });
+function parseOnnxTreeEnsemble(bytes, target) {
+  const decoded = onnxProto.ModelProto.toObject(onnxProto.ModelProto.decode(bytes), { longs: Number, arrays: true, bytes: Uint8Array });
+  const graph = decoded.graph;
+  if (!graph) return no("the file has no graph");
+  const initialized = new Set((graph.initializer ?? []).map((t) => t.name));
+  const inputs = (graph.input ?? []).filter((v) => !initialized.has(v.name));
+  if (inputs.length !== 1) return no(`the graph has ${inputs.length} inputs, not one [N, F] matrix`);
+  const input2 = inputs[0];
+  const elemType = input2.type?.tensorType?.elemType;
+  if (elemType !== OnnxDataType.FLOAT && elemType !== OnnxDataType.DOUBLE) return no("the input is not a float or double tensor");
+  const nodes = graph.node ?? [];
+  const producer = /* @__PURE__ */ new Map();
+  for (const node2 of nodes) for (const out of node2.output ?? []) producer.set(out, node2);
+  const source = (name) => {
+    let node2 = producer.get(name);
+    while (node2 && node2.domain !== "ai.onnx.ml" && (node2.opType === "Identity" || isFloatCast(node2))) {
+      name = node2.input[0];
+      node2 = producer.get(name);
+    }
+    return { name, node: node2 };
+  };
+  const end = source(target.outputName);
+  let operator;
+  let link = "identity";
+  if (target.task === "regression") {
+    if (end.node?.opType !== "TreeEnsembleRegressor") return no(`the output '${target.outputName}' does not come from a TreeEnsembleRegressor`);
+    operator = end.node;
+  } else if (end.node?.opType === "Concat") {
+    const parts = end.node.input ?? [];
+    const positive = parts[target.positiveColumn ?? 1];
+    const sigmoid = producer.get(positive);
+    if (parts.length !== 2 || sigmoid?.opType !== "Sigmoid" || (target.positiveColumn ?? 1) !== 1) {
+      return no("the probabilities are a Concat this reader does not know");
+    }
+    const complement = producer.get(parts[0]);
+    if (complement?.opType !== "Sub" || complement.input?.[1] !== positive) return no("the probabilities are a Concat this reader does not know");
+    const score2 = source(sigmoid.input[0]);
+    if (score2.node?.opType !== "TreeEnsembleRegressor") return no("the Sigmoid does not read a TreeEnsembleRegressor");
+    operator = score2.node;
+    link = "logistic";
+  } else if (end.node?.opType === "TreeEnsembleClassifier" && end.node.output?.[1] === end.name) {
+    operator = end.node;
+  } else return no(`the output '${target.outputName}' does not come from a tree ensemble this reader knows`);
+  if (operator.domain !== "ai.onnx.ml") return no(`${operator.opType} is not in the ai.onnx.ml domain`);
+  const reaches = source(operator.input?.[0] ?? "");
+  if (reaches.node !== void 0 || reaches.name !== input2.name) return no(`${operator.opType} does not read the graph input directly`);
+  const attributes = new Map((operator.attribute ?? []).map((a) => [a.name ?? "", a]));
+  const float32Inputs = elemType === OnnxDataType.FLOAT;
+  const parsed = operator.opType === "TreeEnsembleRegressor" ? regressorTrees(attributes, float32Inputs) : classifierTrees(attributes, target.positiveColumn ?? 1, float32Inputs);
+  if (!parsed.ok) return parsed;
+  if (operator.opType === "TreeEnsembleClassifier") link = parsed.link;
+  return {
+    ok: true,
+    operator: operator.opType,
+    width: parsed.width,
+    ensemble: { baseScore: parsed.baseScore, trees: parsed.trees, link, float32Inputs }
+  };
+}
+function isFloatCast(node2) {
+  if (node2.opType !== "Cast") return false;
+  const to = node2.attribute?.find((a) => a.name === "to")?.i;
+  return to === OnnxDataType.FLOAT || to === OnnxDataType.DOUBLE;
+}
+function regressorTrees(attributes, round) {
+  const post = stringOf(attributes, "post_transform") ?? "NONE";
+  if (post !== "NONE") return { ok: false, reason: `TreeEnsembleRegressor post_transform ${post}` };
+  const targets = attributes.get("n_targets")?.i ?? 1;
+  if (targets !== 1) return { ok: false, reason: `TreeEnsembleRegressor with ${targets} targets` };
+  const base = numbersOf(attributes, "base_values") ?? [0];
+  const leaves = leafWeights(attributes, "target", (id) => id === 0);
+  if (!leaves.ok) return leaves;
+  return buildTrees(attributes, leaves.weights, base[0] ?? 0, stringOf(attributes, "aggregate_function") ?? "SUM", "identity", round);
+}
+function classifierTrees(attributes, positive, round) {
+  const labels = attributes.get("classlabels_strings")?.strings?.length ?? attributes.get("classlabels_int64s")?.ints?.length ?? 0;
+  if (labels !== 2) return { ok: false, reason: `TreeEnsembleClassifier with ${labels} classes` };
+  const ids = attributes.get("class_ids")?.ints ?? [];
+  if (!(ids.includes(0) && ids.includes(1))) return { ok: false, reason: "TreeEnsembleClassifier with weights for one class only" };
+  const post = stringOf(attributes, "post_transform") ?? "NONE";
+  if (post !== "NONE") return { ok: false, reason: `TreeEnsembleClassifier post_transform ${post}` };
+  const base = numbersOf(attributes, "base_values") ?? [0, 0];
+  const leaves = leafWeights(attributes, "class", (id) => id === positive);
+  if (!leaves.ok) return leaves;
+  return buildTrees(attributes, leaves.weights, base[positive] ?? 0, "SUM", "identity", round);
+}
+function leafWeights(attributes, prefix, keep, sign = () => 1) {
+  const treeIds = attributes.get(`${prefix}_treeids`)?.ints ?? [];
+  const nodeIds = attributes.get(`${prefix}_nodeids`)?.ints ?? [];
+  const ids = attributes.get(`${prefix}_ids`)?.ints ?? [];
+  const weights = numbersOf(attributes, `${prefix}_weights`) ?? [];
+  if (treeIds.length !== nodeIds.length || treeIds.length !== ids.length || treeIds.length !== weights.length) {
+    return { ok: false, reason: `the ${prefix}_* attributes differ in length` };
+  }
+  const out = /* @__PURE__ */ new Map();
+  for (let k = 0; k < treeIds.length; k++) {
+    if (!keep(ids[k])) continue;
+    const key2 = `${treeIds[k]}:${nodeIds[k]}`;
+    out.set(key2, (out.get(key2) ?? 0) + sign(ids[k]) * weights[k]);
+  }
+  return { ok: true, weights: out };
+}
+function buildTrees(attributes, weights, baseScore, aggregate, link, round) {
+  if (aggregate !== "SUM" && aggregate !== "AVERAGE") return { ok: false, reason: `aggregate_function ${aggregate}` };
+  const treeIds = attributes.get("nodes_treeids")?.ints ?? [];
+  const nodeIds = attributes.get("nodes_nodeids")?.ints ?? [];
+  const featureIds = attributes.get("nodes_featureids")?.ints ?? [];
+  const modes = (attributes.get("nodes_modes")?.strings ?? []).map((s) => text3.decode(s));
+  const values = numbersOf(attributes, "nodes_values") ?? [];
+  const trueIds = attributes.get("nodes_truenodeids")?.ints ?? [];
+  const falseIds = attributes.get("nodes_falsenodeids")?.ints ?? [];
+  const tracks = attributes.get("nodes_missing_value_tracks_true")?.ints ?? [];
+  const count4 = treeIds.length;
+  if ([nodeIds, featureIds, modes, values, trueIds, falseIds].some((list3) => list3.length !== count4)) {
+    return { ok: false, reason: "the nodes_* attributes differ in length" };
+  }
+  const byTree = /* @__PURE__ */ new Map();
+  for (let k = 0; k < count4; k++) {
+    const list3 = byTree.get(treeIds[k]) ?? [];
+    list3.push(k);
+    byTree.set(treeIds[k], list3);
+  }
+  const scale = aggregate === "AVERAGE" ? 1 / byTree.size : 1;
+  const trees = [];
+  let width = 0;
+  for (const [treeId, rows] of [...byTree].sort((a, b) => a[0] - b[0])) {
+    const index = /* @__PURE__ */ new Map();
+    rows.forEach((k, at4) => index.set(nodeIds[k], at4));
+    const m = rows.length;
+    const tree = {
+      feature: new Int32Array(m).fill(-1),
+      threshold: new Float64Array(m),
+      left: new Int32Array(m).fill(-1),
+      right: new Int32Array(m).fill(-1),
+      missingGoesLeft: new Uint8Array(m),
+      value: new Float64Array(m)
+    };
+    for (let at4 = 0; at4 < m; at4++) {
+      const k = rows[at4];
+      const mode = modes[k];
+      if (mode === "LEAF") {
+        tree.value[at4] = (weights.get(`${treeId}:${nodeIds[k]}`) ?? 0) * scale;
+        continue;
+      }
+      const yes = index.get(trueIds[k]);
+      const no2 = index.get(falseIds[k]);
+      if (yes === void 0 || no2 === void 0) return { ok: false, reason: `tree ${treeId} node ${nodeIds[k]} points at a node it does not have` };
+      const missingTrue = (tracks[k] ?? 0) === 1;
+      const t = round ? Math.fround(values[k]) : values[k];
+      let lessEqual;
+      let trueIsLeft;
+      if (mode === "BRANCH_LEQ") [lessEqual, trueIsLeft] = [t, true];
+      else if (mode === "BRANCH_LT") [lessEqual, trueIsLeft] = [nextDown(t), true];
+      else if (mode === "BRANCH_GT") [lessEqual, trueIsLeft] = [t, false];
+      else if (mode === "BRANCH_GTE") [lessEqual, trueIsLeft] = [nextDown(t), false];
+      else return { ok: false, reason: `node mode ${mode}` };
+      tree.feature[at4] = featureIds[k];
+      width = Math.max(width, featureIds[k] + 1);
+      tree.threshold[at4] = lessEqual;
+      tree.left[at4] = trueIsLeft ? yes : no2;
+      tree.right[at4] = trueIsLeft ? no2 : yes;
+      tree.missingGoesLeft[at4] = missingTrue === trueIsLeft ? 1 : 0;
+    }
+    if (!isTree(tree)) return { ok: false, reason: `tree ${treeId} is not a tree rooted at its first node` };
+    trees.push(reorderRootFirst(tree));
+  }
+  return { ok: true, trees, baseScore, width, link };
+}
+function isTree(tree) {
+  const m = tree.feature.length;
+  const parents = new Int32Array(m);
+  for (let i = 0; i < m; i++) {
+    if (tree.feature[i] < 0) continue;
+    parents[tree.left[i]]++;
+    parents[tree.right[i]]++;
+  }
+  let roots = 0;
+  for (let i = 0; i < m; i++) {
+    if (parents[i] > 1) return false;
+    if (parents[i] === 0) roots++;
+  }
+  return roots === 1;
+}
+function reorderRootFirst(tree) {
+  const m = tree.feature.length;
+  const pointed = new Uint8Array(m);
+  for (let i = 0; i < m; i++) {
+    if (tree.feature[i] < 0) continue;
+    pointed[tree.left[i]] = 1;
+    pointed[tree.right[i]] = 1;
+  }
+  const root2 = pointed.indexOf(0);
+  if (root2 === 0) return tree;
+  const swap = (i) => i === root2 ? 0 : i === 0 ? root2 : i;
+  const out = {
+    feature: Int32Array.from({ length: m }, (_, i) => tree.feature[swap(i)]),
+    threshold: Float64Array.from({ length: m }, (_, i) => tree.threshold[swap(i)]),
+    left: Int32Array.from({ length: m }, (_, i) => tree.left[swap(i)] < 0 ? -1 : swap(tree.left[swap(i)])),
+    right: Int32Array.from({ length: m }, (_, i) => tree.right[swap(i)] < 0 ? -1 : swap(tree.right[swap(i)])),
+    missingGoesLeft: Uint8Array.from({ length: m }, (_, i) => tree.missingGoesLeft[swap(i)]),
+    value: Float64Array.from({ length: m }, (_, i) => tree.value[swap(i)])
+  };
+  return out;
+}
+function nextDown(x) {
+  if (x !== x || x === -Infinity) return x;
+  if (x === 0) return -Number.MIN_VALUE;
+  const buffer = new Float64Array([x]);
+  const bits = new BigInt64Array(buffer.buffer);
+  bits[0] += x > 0 ? -1n : 1n;
+  return buffer[0];
+}
+function stringOf(attributes, name) {
+  const s = attributes.get(name)?.s;
+  return s ? text3.decode(s) : void 0;
+}
+function numbersOf(attributes, name) {
+  const tensor = attributes.get(`${name}_as_tensor`)?.t;
+  if (tensor) {
+    if (tensor.doubleData && tensor.doubleData.length > 0) return tensor.doubleData;
+    if (tensor.floatData && tensor.floatData.length > 0) return tensor.floatData;
+    if (tensor.rawData && tensor.rawData.length > 0) {
+      const raw = tensor.rawData;
+      const view = new DataView(raw.buffer, raw.byteOffset, raw.byteLength);
+      const isDouble = tensor.dataType === OnnxDataType.DOUBLE;
+      const size = isDouble ? 8 : 4;
+      return Array.from({ length: raw.byteLength / size }, (_, k) => isDouble ? view.getFloat64(k * size, true) : view.getFloat32(k * size, true));
+    }
+    return [];
+  }
+  return attributes.get(name)?.floats;
+}
+
 // src/adapters/onnx/read-onnx-summary.ts
 function readOnnxSummary(bytes) {
   const decoded = onnxProto.ModelSummary.toObject(onnxProto.ModelSummary.decode(bytes), {
@@ -44509,12 +44957,12 @@ function readOnnxSummary(bytes) {
   for (const entry of decoded.metadataProps) metadata.set(entry.key ?? "", entry.value ?? "");
   const classLabelsByOutput = /* @__PURE__ */ new Map();
   const classLabelSets = [];
-  const text3 = new TextDecoder();
+  const text4 = new TextDecoder();
   for (const node2 of decoded.graph?.node ?? []) {
     if (node2.domain !== "ai.onnx.ml") continue;
     let labels;
     for (const attribute of node2.attribute ?? []) {
-      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text3.decode(s));
+      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text4.decode(s));
       if (attribute.name === "classlabels_int64s") labels = attribute.ints ?? [];
     }
     if (!labels) continue;
@@ -44555,34 +45003,61 @@ async function loadOnnxModel(bytes, options) {
   const output2 = options.task === "regression" ? planRegressionOutput(session.outputMetadata, options.source) : planProbabilityOutput(session.outputMetadata, options, summary2);
   const { source } = options;
   const featureNames = inputs.featureNames;
+  const parsed = inputs.isMatrix && options.evaluator !== "onnxruntime" ? readTrees(bytes, options.task, output2) : void 0;
+  let trees = parsed?.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : void 0;
+  let checked = false;
+  let engine = trees ? "plumbline-trees" : "onnxruntime";
+  const evaluate = (matrix, ensemble) => createTreeReplacementPredictor(ensemble, matrix)?.predict(/* @__PURE__ */ new Map(), 1);
+  const runSession = async (matrix) => {
+    const out = new Float64Array(matrix.rows);
+    for (let start = 0; start < matrix.rows; start += batchRows) {
+      const end = Math.min(matrix.rows, start + batchRows);
+      const feeds = inputs.build(matrix, start, end);
+      let result;
+      try {
+        result = await session.run(feeds, [output2.name]);
+      } catch (error62) {
+        throw new UserError(
+          `The ONNX model '${source}' failed on rows ${start + 1} to ${end} of the data: ${error62 instanceof Error ? error62.message : String(error62)}`
+        );
+      }
+      output2.copy(result[output2.name], start, end, out);
+    }
+    return out;
+  };
   return {
     kind: "onnx",
     task: options.task,
     featureNames,
+    get engine() {
+      return engine;
+    },
     async predict(matrix) {
       if (matrix.features.length !== featureNames.length || matrix.features.some((f, j) => f.name !== featureNames[j])) {
         throw new RangeError(
           `predict needs the features ${JSON.stringify(featureNames)} in that order, got ${JSON.stringify(matrix.features.map((f) => f.name))}`
         );
       }
-      const out = new Float64Array(matrix.rows);
-      for (let start = 0; start < matrix.rows; start += batchRows) {
-        const end = Math.min(matrix.rows, start + batchRows);
-        const feeds = inputs.build(matrix, start, end);
-        let result;
-        try {
-          result = await session.run(feeds, [output2.name]);
-        } catch (error62) {
-          throw new UserError(
-            `The ONNX model '${source}' failed on rows ${start + 1} to ${end} of the data: ${error62 instanceof Error ? error62.message : String(error62)}`
-          );
+      if (trees && !checked) {
+        checked = true;
+        const sample = selectRows(matrix, Array.from({ length: Math.min(CHECK_ROWS, matrix.rows) }, (_, i) => i));
+        const ours = evaluate(sample, trees);
+        const theirs = await runSession(sample);
+        if (!ours || ours.some((p, i) => !(Math.abs(p - theirs[i]) <= AGREEMENT * Math.max(1, Math.abs(theirs[i]))))) {
+          trees = void 0;
+          engine = "onnxruntime";
         }
-        output2.copy(result[output2.name], start, end, out);
       }
-      return out;
+      if (trees) return evaluate(matrix, trees);
+      return runSession(matrix);
+    },
+    createReplacementPredictor(base) {
+      return trees && checked ? createTreeReplacementPredictor(trees, base) : void 0;
     }
   };
 }
+var CHECK_ROWS = 2048;
+var AGREEMENT = 1e-5;
 function planInputs(inputs, options, summary2) {
   const byName = new Map(options.features.map((f) => [f.name, f]));
   const mismatch = (problem, fix) => new UserError(`${problem}
@@ -44616,6 +45091,7 @@ Data columns: ${describeColumns(options.features)}`, fix);
   }
   const columns = inputs;
   return {
+    isMatrix: false,
     featureNames: columns.map((input2) => input2.name),
     build(matrix, start, end) {
       const feeds = {};
@@ -44666,6 +45142,7 @@ function planMatrixInput(input2, options, summary2, mismatch) {
   }
   const type = input2.type;
   return {
+    isMatrix: true,
     featureNames: order3,
     build(matrix, start, end) {
       const rows = end - start;
@@ -44679,16 +45156,16 @@ function planMatrixInput(input2, options, summary2, mismatch) {
     }
   };
 }
-function parseStoredOrder(text3, source) {
+function parseStoredOrder(text4, source) {
   let parsed;
   try {
-    parsed = JSON.parse(text3);
+    parsed = JSON.parse(text4);
   } catch {
     parsed = void 0;
   }
   if (!Array.isArray(parsed) || !parsed.every((name) => typeof name === "string")) {
     throw new UserError(
-      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text3.slice(0, 200)}`,
+      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text4.slice(0, 200)}`,
       `Store the column order as a JSON array such as ["distance_km", "stop_count"], or list it under 'model.onnx.features' in plumbline.yml.`
     );
   }
@@ -44796,6 +45273,7 @@ function planProbabilityOutput(outputs, options, summary2) {
   const positive = positiveColumn(options.positiveClass, labels, source, output2.name);
   return {
     name: output2.name,
+    positive,
     copy(value2, start, end, out) {
       const tensor = value2;
       const rows = end - start;
@@ -44862,6 +45340,13 @@ function describeValues(values) {
 function describeColumns(features) {
   if (features.length === 0) return "(none)";
   return features.map((f) => `${f.name} (${f.kind})`).join(", ");
+}
+function readTrees(bytes, task, output2) {
+  try {
+    return parseOnnxTreeEnsemble(bytes, { task, outputName: output2.name, positiveColumn: output2.positive });
+  } catch {
+    return void 0;
+  }
 }
 
 // src/adapters/training/create-command-fit.ts
@@ -45186,49 +45671,855 @@ async function resolveModelPath(checkout, pattern, sideName) {
 // src/adapters/version.ts
 var toolVersion = "0.1.0";
 
-// src/adapters/parallel/measure-in-worker.ts
-import { availableParallelism } from "node:os";
-import { Worker } from "node:worker_threads";
-function createParallelMeasure(environment) {
-  const threads = environment.PLUMBLINE_THREADS === void 0 ? availableParallelism() : Number(environment.PLUMBLINE_THREADS);
-  if (!(threads >= 2)) return void 0;
-  return async (jobs) => Promise.all(
-    jobs.map(
-      (job) => job.builtin ? inWorker(job) : measureSide({ ...job.inputs }, job.options)
-    )
-  );
+// src/adapters/parallel/create-pool-measure.ts
+import { availableParallelism as availableParallelism2 } from "node:os";
+
+// node_modules/tinypool/dist/common-Bo3KCGim.js
+var kMovable = /* @__PURE__ */ Symbol("Tinypool.kMovable");
+var kTransferable = /* @__PURE__ */ Symbol.for("Tinypool.transferable");
+var kValue = /* @__PURE__ */ Symbol.for("Tinypool.valueOf");
+var kQueueOptions = /* @__PURE__ */ Symbol.for("Tinypool.queueOptions");
+function isTransferable(value2) {
+  return value2 != null && typeof value2 === "object" && kTransferable in value2 && kValue in value2;
 }
-function inWorker(job) {
-  const isSource = import.meta.url.endsWith(".ts");
-  const script = new URL(isSource ? "./measure-worker.ts" : "./measure-worker.js", import.meta.url);
-  const { fit: _fit, model: _model, ...inputs } = job.inputs;
-  const { onRefit, metric, ...options } = job.options;
-  const workerData = { inputs, options: { ...options, metricName: metric.name }, builtin: job.builtin };
-  const worker = isSource ? new Worker(
-    `import(${JSON.stringify(import.meta.resolve("tsx/esm/api"))}).then((tsx) => { tsx.register(); return import(${JSON.stringify(script.href)}) })`,
-    { eval: true, workerData }
-  ) : new Worker(script, { workerData });
-  return new Promise((resolve6, reject) => {
-    let settled = false;
-    worker.on("message", (message) => {
-      if (message.type === "progress") onRefit?.(message.refit, message.of);
-      else if (message.type === "done") {
-        settled = true;
-        resolve6(message.result);
-      } else if (message.type === "failed") {
-        settled = true;
-        reject(new InternalError(`measuring the ${job.inputs.side} side failed in its worker thread:
-${message.message}`));
+function isMovable(value2) {
+  return isTransferable(value2) && value2[kMovable] === true;
+}
+function markMovable(value2) {
+  Object.defineProperty(value2, kMovable, {
+    enumerable: false,
+    configurable: true,
+    writable: true,
+    value: true
+  });
+}
+function withNullPrototype(source) {
+  return Object.assign(/* @__PURE__ */ Object.create(null), source);
+}
+var kRequestCountField = 0;
+var kResponseCountField = 1;
+var kFieldCount = 2;
+
+// node_modules/tinypool/dist/index.js
+import { MessageChannel, MessagePort, Worker, receiveMessageOnPort } from "node:worker_threads";
+import { EventEmitterAsyncResource, once } from "node:events";
+import { AsyncResource } from "node:async_hooks";
+import { URL as URL2, fileURLToPath } from "node:url";
+import { inspect, types } from "node:util";
+import assert2 from "node:assert";
+import { performance as performance3 } from "node:perf_hooks";
+import { readFileSync } from "node:fs";
+import { availableParallelism } from "node:os";
+import { fork } from "node:child_process";
+var ThreadWorker = class {
+  name = "ThreadWorker";
+  runtime = "worker_threads";
+  initialize(options) {
+    this.thread = new Worker(fileURLToPath(import.meta.url + "/../entry/worker.js"), options);
+    this.threadId = this.thread.threadId;
+  }
+  async terminate() {
+    const output2 = await this.thread.terminate();
+    this.channel?.onClose?.();
+    return output2;
+  }
+  postMessage(message, transferListItem) {
+    return this.thread.postMessage(message, transferListItem);
+  }
+  on(event, callback) {
+    return this.thread.on(event, callback);
+  }
+  once(event, callback) {
+    return this.thread.once(event, callback);
+  }
+  emit(event, ...data) {
+    return this.thread.emit(event, ...data);
+  }
+  ref() {
+    return this.thread.ref();
+  }
+  unref() {
+    return this.thread.unref();
+  }
+  setChannel(channel) {
+    if (channel.onMessage) throw new Error("{ runtime: 'worker_threads' } doesn't support channel.onMessage. Use transferListItem for listening to messages instead.");
+    if (channel.postMessage) throw new Error("{ runtime: 'worker_threads' } doesn't support channel.postMessage. Use transferListItem for sending to messages instead.");
+    if (this.channel && this.channel !== channel) this.channel.onClose?.();
+    this.channel = channel;
+  }
+};
+var __tinypool_worker_message__ = true;
+var SIGKILL_TIMEOUT = 1e3;
+var ProcessWorker = class {
+  name = "ProcessWorker";
+  runtime = "child_process";
+  isTerminating = false;
+  initialize(options) {
+    this.process = fork(fileURLToPath(import.meta.url + "/../entry/process.js"), options.argv, {
+      ...options,
+      stdio: "pipe",
+      env: {
+        ...options.env,
+        TINYPOOL_WORKER_ID: options.workerData[0].workerId.toString()
       }
     });
-    worker.on("error", (error62) => {
-      settled = true;
-      reject(error62);
+    process.stdout.setMaxListeners(1 + process.stdout.getMaxListeners());
+    process.stderr.setMaxListeners(1 + process.stderr.getMaxListeners());
+    this.process.stdout?.pipe(process.stdout);
+    this.process.stderr?.pipe(process.stderr);
+    this.threadId = this.process.pid;
+    this.process.on("exit", this.onUnexpectedExit);
+    this.waitForExit = new Promise((r) => this.process.on("exit", r));
+  }
+  onUnexpectedExit = () => {
+    this.process.emit("error", new Error("Worker exited unexpectedly"));
+  };
+  async terminate() {
+    this.isTerminating = true;
+    this.process.off("exit", this.onUnexpectedExit);
+    const sigkillTimeout = setTimeout(() => this.process.kill("SIGKILL"), SIGKILL_TIMEOUT);
+    this.process.kill();
+    await this.waitForExit;
+    this.process.stdout?.unpipe(process.stdout);
+    this.process.stderr?.unpipe(process.stderr);
+    this.port?.close();
+    this.channel?.onClose?.();
+    clearTimeout(sigkillTimeout);
+  }
+  setChannel(channel) {
+    if (this.channel && this.channel !== channel) this.channel.onClose?.();
+    this.channel = channel;
+    this.channel.onMessage?.((message) => {
+      this.send(message);
     });
-    worker.on("exit", (code2) => {
-      if (!settled) reject(new InternalError(`the worker thread measuring the ${job.inputs.side} side exited with code ${code2}`));
+  }
+  send(message) {
+    if (!this.isTerminating) this.process.send(message);
+  }
+  postMessage(message, transferListItem) {
+    transferListItem?.forEach((item) => {
+      if (item instanceof MessagePort) {
+        this.port = item;
+        this.port.start();
+      }
     });
-  }).finally(() => worker.terminate());
+    if (this.port) this.port.on("message", (message$1) => this.send({
+      ...message$1,
+      source: "port",
+      __tinypool_worker_message__
+    }));
+    return this.send({
+      ...message,
+      source: "pool",
+      __tinypool_worker_message__
+    });
+  }
+  on(event, callback) {
+    return this.process.on(event, (data) => {
+      if (event === "error") return callback(data);
+      if (!data || !data.__tinypool_worker_message__) return this.channel?.postMessage?.(data);
+      if (data.source === "pool") callback(data);
+      else if (data.source === "port") this.port.postMessage(data);
+    });
+  }
+  once(event, callback) {
+    return this.process.once(event, callback);
+  }
+  emit(event, ...data) {
+    return this.process.emit(event, ...data);
+  }
+  ref() {
+    return this.process.ref();
+  }
+  unref() {
+    this.port?.unref();
+    this.process.channel?.unref?.();
+    if (hasUnref(this.process.stdout)) this.process.stdout.unref();
+    if (hasUnref(this.process.stderr)) this.process.stderr.unref();
+    return this.process.unref();
+  }
+};
+function hasUnref(stream) {
+  return stream != null && "unref" in stream && typeof stream.unref === "function";
+}
+var cpuCount = availableParallelism();
+function onabort(abortSignal, listener) {
+  if ("addEventListener" in abortSignal) abortSignal.addEventListener("abort", listener, { once: true });
+  else abortSignal.once("abort", listener);
+}
+var AbortError = class extends Error {
+  constructor() {
+    super("The task has been aborted");
+  }
+  get name() {
+    return "AbortError";
+  }
+};
+var CancelError = class extends Error {
+  constructor() {
+    super("The task has been cancelled");
+  }
+  get name() {
+    return "CancelError";
+  }
+};
+var ArrayTaskQueue = class {
+  tasks = [];
+  get size() {
+    return this.tasks.length;
+  }
+  shift() {
+    return this.tasks.shift();
+  }
+  push(task) {
+    this.tasks.push(task);
+  }
+  remove(task) {
+    const index = this.tasks.indexOf(task);
+    assert2.notStrictEqual(index, -1);
+    this.tasks.splice(index, 1);
+  }
+  cancel() {
+    while (this.tasks.length > 0) {
+      const task = this.tasks.pop();
+      task?.cancel();
+    }
+  }
+};
+var kDefaultOptions = {
+  filename: null,
+  name: "default",
+  runtime: "worker_threads",
+  minThreads: Math.max(cpuCount / 2, 1),
+  maxThreads: cpuCount,
+  idleTimeout: 0,
+  maxQueue: Infinity,
+  concurrentTasksPerWorker: 1,
+  useAtomics: true,
+  taskQueue: new ArrayTaskQueue(),
+  trackUnmanagedFds: true
+};
+var kDefaultRunOptions = {
+  transferList: void 0,
+  filename: null,
+  signal: null,
+  name: null
+};
+var DirectlyTransferable = class {
+  #value;
+  constructor(value2) {
+    this.#value = value2;
+  }
+  get [kTransferable]() {
+    return this.#value;
+  }
+  get [kValue]() {
+    return this.#value;
+  }
+};
+var ArrayBufferViewTransferable = class {
+  #view;
+  constructor(view) {
+    this.#view = view;
+  }
+  get [kTransferable]() {
+    return this.#view.buffer;
+  }
+  get [kValue]() {
+    return this.#view;
+  }
+};
+var taskIdCounter = 0;
+function maybeFileURLToPath(filename) {
+  if (typeof filename !== "string") return filename.protocol === "file:" ? fileURLToPath(filename) : filename.href;
+  return filename.startsWith("file:") ? fileURLToPath(new URL2(filename)) : filename;
+}
+var TaskInfo = class extends AsyncResource {
+  abortListener = null;
+  workerInfo = null;
+  constructor(task, transferList, filename, name, callback, abortSignal, triggerAsyncId, channel) {
+    super("Tinypool.Task", {
+      requireManualDestroy: true,
+      triggerAsyncId
+    });
+    this.callback = callback;
+    this.task = task;
+    this.transferList = transferList;
+    this.cancel = () => this.callback(new CancelError(), null);
+    this.channel = channel;
+    if (isMovable(task)) {
+      if (this.transferList == null) this.transferList = [];
+      this.transferList = this.transferList.concat(task[kTransferable]);
+      this.task = task[kValue];
+    }
+    this.filename = filename;
+    this.name = name;
+    this.taskId = taskIdCounter++;
+    this.abortSignal = abortSignal;
+    this.created = performance3.now();
+    this.started = 0;
+  }
+  releaseTask() {
+    const ret = this.task;
+    this.task = null;
+    return ret;
+  }
+  done(err, result) {
+    this.emitDestroy();
+    this.runInAsyncScope(this.callback, null, err, result);
+    if (this.abortSignal && this.abortListener) if ("removeEventListener" in this.abortSignal && this.abortListener) this.abortSignal.removeEventListener("abort", this.abortListener);
+    else this.abortSignal.off("abort", this.abortListener);
+  }
+  get [kQueueOptions]() {
+    return kQueueOptions in this.task ? this.task[kQueueOptions] : null;
+  }
+};
+var AsynchronouslyCreatedResource = class {
+  onreadyListeners = [];
+  markAsReady() {
+    const listeners = this.onreadyListeners;
+    assert2(listeners !== null);
+    this.onreadyListeners = null;
+    for (const listener of listeners) listener();
+  }
+  isReady() {
+    return this.onreadyListeners === null;
+  }
+  onReady(fn) {
+    if (this.onreadyListeners === null) {
+      fn();
+      return;
+    }
+    this.onreadyListeners.push(fn);
+  }
+};
+var AsynchronouslyCreatedResourcePool = class {
+  pendingItems = /* @__PURE__ */ new Set();
+  readyItems = /* @__PURE__ */ new Set();
+  constructor(maximumUsage) {
+    this.maximumUsage = maximumUsage;
+    this.onAvailableListeners = [];
+  }
+  add(item) {
+    this.pendingItems.add(item);
+    item.onReady(() => {
+      if (this.pendingItems.has(item)) {
+        this.pendingItems.delete(item);
+        this.readyItems.add(item);
+        this.maybeAvailable(item);
+      }
+    });
+  }
+  delete(item) {
+    this.pendingItems.delete(item);
+    this.readyItems.delete(item);
+  }
+  findAvailable() {
+    let minUsage = this.maximumUsage;
+    let candidate = null;
+    for (const item of this.readyItems) {
+      const usage2 = item.currentUsage();
+      if (usage2 === 0) return item;
+      if (usage2 < minUsage) {
+        candidate = item;
+        minUsage = usage2;
+      }
+    }
+    return candidate;
+  }
+  *[Symbol.iterator]() {
+    yield* this.pendingItems;
+    yield* this.readyItems;
+  }
+  get size() {
+    return this.pendingItems.size + this.readyItems.size;
+  }
+  maybeAvailable(item) {
+    if (item.currentUsage() < this.maximumUsage) for (const listener of this.onAvailableListeners) listener(item);
+  }
+  onAvailable(fn) {
+    this.onAvailableListeners.push(fn);
+  }
+};
+var Errors = {
+  ThreadTermination: () => new Error("Terminating worker thread"),
+  FilenameNotProvided: () => new Error("filename must be provided to run() or in options object"),
+  TaskQueueAtLimit: () => new Error("Task queue is at limit"),
+  NoTaskQueueAvailable: () => new Error("No task queue available and all Workers are busy")
+};
+var WorkerInfo = class extends AsynchronouslyCreatedResource {
+  idleTimeout = null;
+  lastSeenResponseCount = 0;
+  constructor(worker, port, workerId, freeWorkerId, onMessage, filename, teardown) {
+    super();
+    this.worker = worker;
+    this.workerId = workerId;
+    this.freeWorkerId = freeWorkerId;
+    this.teardown = teardown;
+    this.filename = filename;
+    this.port = port;
+    this.port.on("message", (message) => this._handleResponse(message));
+    this.onMessage = onMessage;
+    this.taskInfos = /* @__PURE__ */ new Map();
+    this.sharedBuffer = new Int32Array(new SharedArrayBuffer(kFieldCount * Int32Array.BYTES_PER_ELEMENT));
+  }
+  async destroy(timeout) {
+    let resolve6;
+    let reject;
+    const ret = new Promise((res, rej) => {
+      resolve6 = res;
+      reject = rej;
+    });
+    if (this.teardown && this.filename) {
+      const { teardown, filename } = this;
+      await new Promise((resolve$1, reject$1) => {
+        this.postTask(new TaskInfo({}, [], filename, teardown, (error62, result) => error62 ? reject$1(error62) : resolve$1(result), null, 1, void 0));
+      });
+    }
+    const timer = timeout ? setTimeout(() => reject(new Error("Failed to terminate worker")), timeout) : null;
+    this.worker.terminate().then(() => {
+      if (timer !== null) clearTimeout(timer);
+      this.port.close();
+      this.clearIdleTimeout();
+      for (const taskInfo of this.taskInfos.values()) taskInfo.done(Errors.ThreadTermination());
+      this.taskInfos.clear();
+      resolve6();
+    });
+    return ret;
+  }
+  clearIdleTimeout() {
+    if (this.idleTimeout !== null) {
+      clearTimeout(this.idleTimeout);
+      this.idleTimeout = null;
+    }
+  }
+  ref() {
+    this.port.ref();
+    return this;
+  }
+  unref() {
+    this.port.unref();
+    return this;
+  }
+  _handleResponse(message) {
+    this.usedMemory = message.usedMemory;
+    this.onMessage(message);
+    if (this.taskInfos.size === 0) this.unref();
+  }
+  postTask(taskInfo) {
+    assert2(!this.taskInfos.has(taskInfo.taskId));
+    const message = {
+      task: taskInfo.releaseTask(),
+      taskId: taskInfo.taskId,
+      filename: taskInfo.filename,
+      name: taskInfo.name
+    };
+    try {
+      if (taskInfo.channel) this.worker.setChannel?.(taskInfo.channel);
+      this.port.postMessage(message, taskInfo.transferList);
+    } catch (err) {
+      taskInfo.done(err);
+      return;
+    }
+    taskInfo.workerInfo = this;
+    this.taskInfos.set(taskInfo.taskId, taskInfo);
+    this.ref();
+    this.clearIdleTimeout();
+    Atomics.add(this.sharedBuffer, kRequestCountField, 1);
+    Atomics.notify(this.sharedBuffer, kRequestCountField, 1);
+  }
+  processPendingMessages() {
+    const actualResponseCount = Atomics.load(this.sharedBuffer, kResponseCountField);
+    if (actualResponseCount !== this.lastSeenResponseCount) {
+      this.lastSeenResponseCount = actualResponseCount;
+      let entry;
+      while ((entry = receiveMessageOnPort(this.port)) !== void 0) this._handleResponse(entry.message);
+    }
+  }
+  isRunningAbortableTask() {
+    if (this.taskInfos.size !== 1) return false;
+    const [first] = this.taskInfos;
+    const [, task] = first || [];
+    return task?.abortSignal !== null;
+  }
+  currentUsage() {
+    if (this.isRunningAbortableTask()) return Infinity;
+    return this.taskInfos.size;
+  }
+};
+var ThreadPool = class {
+  skipQueue = [];
+  completed = 0;
+  start = performance3.now();
+  inProcessPendingMessages = false;
+  startingUp = false;
+  workerFailsDuringBootstrap = false;
+  constructor(publicInterface, options) {
+    this.publicInterface = publicInterface;
+    this.taskQueue = options.taskQueue || new ArrayTaskQueue();
+    const filename = options.filename ? maybeFileURLToPath(options.filename) : null;
+    this.options = withNullPrototype({
+      ...kDefaultOptions,
+      ...options,
+      filename,
+      maxQueue: 0
+    });
+    if (options.maxThreads !== void 0 && this.options.minThreads >= options.maxThreads) this.options.minThreads = options.maxThreads;
+    if (options.minThreads !== void 0 && this.options.maxThreads <= options.minThreads) this.options.maxThreads = options.minThreads;
+    if (options.maxQueue === "auto") this.options.maxQueue = this.options.maxThreads ** 2;
+    else this.options.maxQueue = options.maxQueue ?? kDefaultOptions.maxQueue;
+    this.workerIds = new Map(new Array(this.options.maxThreads).fill(0).map((_, i) => [i + 1, true]));
+    this.workers = new AsynchronouslyCreatedResourcePool(this.options.concurrentTasksPerWorker);
+    this.workers.onAvailable((w) => this._onWorkerAvailable(w));
+    this.startingUp = true;
+    this._ensureMinimumWorkers();
+    this.startingUp = false;
+  }
+  _ensureEnoughWorkersForTaskQueue() {
+    while (this.workers.size < this.taskQueue.size && this.workers.size < this.options.maxThreads) this._addNewWorker();
+  }
+  _ensureMaximumWorkers() {
+    while (this.workers.size < this.options.maxThreads) this._addNewWorker();
+  }
+  _ensureMinimumWorkers() {
+    while (this.workers.size < this.options.minThreads) this._addNewWorker();
+  }
+  _addNewWorker() {
+    const workerIds = this.workerIds;
+    let workerId;
+    workerIds.forEach((isIdAvailable, _workerId$1) => {
+      if (isIdAvailable && !workerId) {
+        workerId = _workerId$1;
+        workerIds.set(_workerId$1, false);
+      }
+    });
+    const tinypoolPrivateData = { workerId };
+    const worker = this.options.runtime === "child_process" ? new ProcessWorker() : new ThreadWorker();
+    worker.initialize({
+      env: this.options.env,
+      argv: this.options.argv,
+      execArgv: this.options.execArgv,
+      resourceLimits: this.options.resourceLimits,
+      workerData: [tinypoolPrivateData, this.options.workerData],
+      trackUnmanagedFds: this.options.trackUnmanagedFds,
+      serialization: this.options.serialization
+    });
+    const onMessage = (message$1) => {
+      const { taskId, result } = message$1;
+      const taskInfo = workerInfo.taskInfos.get(taskId);
+      workerInfo.taskInfos.delete(taskId);
+      if (!this.shouldRecycleWorker(taskInfo)) this.workers.maybeAvailable(workerInfo);
+      if (taskInfo === void 0) {
+        const err = new Error(`Unexpected message from Worker: ${inspect(message$1)}`);
+        this.publicInterface.emit("error", err);
+      } else taskInfo.done(message$1.error, result);
+      this._processPendingMessages();
+    };
+    const { port1, port2 } = new MessageChannel();
+    const workerInfo = new WorkerInfo(worker, port1, workerId, () => workerIds.set(workerId, true), onMessage, this.options.filename, this.options.teardown);
+    if (this.startingUp) workerInfo.markAsReady();
+    const message = {
+      filename: this.options.filename,
+      name: this.options.name,
+      port: port2,
+      sharedBuffer: workerInfo.sharedBuffer,
+      useAtomics: this.options.useAtomics
+    };
+    worker.postMessage(message, [port2]);
+    worker.on("message", (message$1) => {
+      if (message$1.ready === true) {
+        port1.start();
+        if (workerInfo.currentUsage() === 0) workerInfo.unref();
+        if (!workerInfo.isReady()) workerInfo.markAsReady();
+        return;
+      }
+      worker.emit("error", new Error(`Unexpected message on Worker: ${inspect(message$1)}`));
+    });
+    worker.on("error", (err) => {
+      worker.ref = () => {
+      };
+      const taskInfos = [...workerInfo.taskInfos.values()];
+      workerInfo.taskInfos.clear();
+      this._removeWorker(workerInfo);
+      if (workerInfo.isReady() && !this.workerFailsDuringBootstrap) this._ensureMinimumWorkers();
+      else this.workerFailsDuringBootstrap = true;
+      if (taskInfos.length > 0) for (const taskInfo of taskInfos) taskInfo.done(err, null);
+      else this.publicInterface.emit("error", err);
+    });
+    worker.unref();
+    port1.on("close", () => {
+      worker.ref();
+    });
+    this.workers.add(workerInfo);
+  }
+  _processPendingMessages() {
+    if (this.inProcessPendingMessages || !this.options.useAtomics) return;
+    this.inProcessPendingMessages = true;
+    try {
+      for (const workerInfo of this.workers) workerInfo.processPendingMessages();
+    } finally {
+      this.inProcessPendingMessages = false;
+    }
+  }
+  _removeWorker(workerInfo) {
+    workerInfo.freeWorkerId();
+    this.workers.delete(workerInfo);
+    return workerInfo.destroy(this.options.terminateTimeout);
+  }
+  _onWorkerAvailable(workerInfo) {
+    while ((this.taskQueue.size > 0 || this.skipQueue.length > 0) && workerInfo.currentUsage() < this.options.concurrentTasksPerWorker) {
+      const taskInfo = this.skipQueue.shift() || this.taskQueue.shift();
+      if (taskInfo.abortSignal && workerInfo.taskInfos.size > 0) {
+        this.skipQueue.push(taskInfo);
+        break;
+      }
+      const now = performance3.now();
+      taskInfo.started = now;
+      workerInfo.postTask(taskInfo);
+      this._maybeDrain();
+      return;
+    }
+    if (workerInfo.taskInfos.size === 0 && this.workers.size > this.options.minThreads) workerInfo.idleTimeout = setTimeout(() => {
+      assert2.strictEqual(workerInfo.taskInfos.size, 0);
+      if (this.workers.size > this.options.minThreads) this._removeWorker(workerInfo);
+    }, this.options.idleTimeout).unref();
+  }
+  runTask(task, options) {
+    let { filename, name } = options;
+    const { transferList = [], signal = null, channel } = options;
+    if (filename == null) filename = this.options.filename;
+    if (name == null) name = this.options.name;
+    if (typeof filename !== "string" && !(filename instanceof URL2)) return Promise.reject(Errors.FilenameNotProvided());
+    filename = maybeFileURLToPath(filename);
+    let resolve6;
+    let reject;
+    const ret = new Promise((res, rej) => {
+      resolve6 = res;
+      reject = rej;
+    });
+    const taskInfo = new TaskInfo(task, transferList, filename, name, (err, result) => {
+      this.completed++;
+      if (err !== null) reject(err);
+      if (this.shouldRecycleWorker(taskInfo)) this._removeWorker(taskInfo.workerInfo).then(() => this._ensureMinimumWorkers()).then(() => this._ensureEnoughWorkersForTaskQueue()).then(() => resolve6(result)).catch(reject);
+      else resolve6(result);
+    }, signal, this.publicInterface.asyncResource.asyncId(), channel);
+    if (signal !== null) {
+      if (signal.aborted) return Promise.reject(new AbortError());
+      taskInfo.abortListener = () => {
+        reject(new AbortError());
+        if (taskInfo.workerInfo !== null) {
+          this._removeWorker(taskInfo.workerInfo);
+          this._ensureMinimumWorkers();
+        } else this.taskQueue.remove(taskInfo);
+      };
+      onabort(signal, taskInfo.abortListener);
+    }
+    if (this.taskQueue.size > 0) {
+      const totalCapacity = this.options.maxQueue + this.pendingCapacity();
+      if (this.taskQueue.size >= totalCapacity) if (this.options.maxQueue === 0) return Promise.reject(Errors.NoTaskQueueAvailable());
+      else return Promise.reject(Errors.TaskQueueAtLimit());
+      else {
+        if (this.workers.size < this.options.maxThreads) this._addNewWorker();
+        this.taskQueue.push(taskInfo);
+      }
+      return ret;
+    }
+    let workerInfo = this.workers.findAvailable();
+    if (workerInfo !== null && workerInfo.currentUsage() > 0 && signal) workerInfo = null;
+    let waitingForNewWorker = false;
+    if ((workerInfo === null || workerInfo.currentUsage() > 0) && this.workers.size < this.options.maxThreads) {
+      this._addNewWorker();
+      waitingForNewWorker = true;
+    }
+    if (workerInfo === null) {
+      if (this.options.maxQueue <= 0 && !waitingForNewWorker) return Promise.reject(Errors.NoTaskQueueAvailable());
+      else this.taskQueue.push(taskInfo);
+      return ret;
+    }
+    const now = performance3.now();
+    taskInfo.started = now;
+    workerInfo.postTask(taskInfo);
+    this._maybeDrain();
+    return ret;
+  }
+  shouldRecycleWorker(taskInfo) {
+    if (taskInfo?.workerInfo?.shouldRecycle) return true;
+    if (this.options.isolateWorkers && taskInfo?.workerInfo) return true;
+    if (!this.options.isolateWorkers && this.options.maxMemoryLimitBeforeRecycle !== void 0 && (taskInfo?.workerInfo?.usedMemory || 0) > this.options.maxMemoryLimitBeforeRecycle) return true;
+    return false;
+  }
+  pendingCapacity() {
+    return this.workers.pendingItems.size * this.options.concurrentTasksPerWorker;
+  }
+  _maybeDrain() {
+    if (this.taskQueue.size === 0 && this.skipQueue.length === 0) this.publicInterface.emit("drain");
+  }
+  async destroy() {
+    while (this.skipQueue.length > 0) {
+      const taskInfo = this.skipQueue.shift();
+      taskInfo.done(new Error("Terminating worker thread"));
+    }
+    while (this.taskQueue.size > 0) {
+      const taskInfo = this.taskQueue.shift();
+      taskInfo.done(new Error("Terminating worker thread"));
+    }
+    const exitEvents = [];
+    while (this.workers.size > 0) {
+      const [workerInfo] = this.workers;
+      exitEvents.push(once(workerInfo.worker, "exit"));
+      this._removeWorker(workerInfo);
+    }
+    await Promise.all(exitEvents);
+  }
+  async recycleWorkers(_options = {}) {
+    const options = withNullPrototype(_options);
+    const runtimeChanged = options?.runtime && options.runtime !== this.options.runtime;
+    if (options?.runtime) this.options.runtime = options.runtime;
+    if (this.options.isolateWorkers && !runtimeChanged) return;
+    const exitEvents = [];
+    Array.from(this.workers).filter((workerInfo) => {
+      if (workerInfo.currentUsage() === 0) {
+        exitEvents.push(once(workerInfo.worker, "exit"));
+        this._removeWorker(workerInfo);
+      } else workerInfo.shouldRecycle = true;
+    });
+    await Promise.all(exitEvents);
+    this._ensureMinimumWorkers();
+  }
+};
+var Tinypool = class extends EventEmitterAsyncResource {
+  #pool;
+  constructor(_options = {}) {
+    const options = withNullPrototype(_options);
+    if (options.minThreads !== void 0 && options.minThreads > 0 && options.minThreads < 1) options.minThreads = Math.max(1, Math.floor(options.minThreads * cpuCount));
+    if (options.maxThreads !== void 0 && options.maxThreads > 0 && options.maxThreads < 1) options.maxThreads = Math.max(1, Math.floor(options.maxThreads * cpuCount));
+    super({
+      ...options,
+      name: "Tinypool"
+    });
+    if (options.minThreads !== void 0 && options.maxThreads !== void 0 && options.minThreads > options.maxThreads) throw new RangeError("options.minThreads and options.maxThreads must not conflict");
+    this.#pool = new ThreadPool(this, options);
+  }
+  run(task, options = kDefaultRunOptions) {
+    const { transferList, filename, name, signal, runtime, channel } = withNullPrototype(options);
+    return this.#pool.runTask(task, {
+      transferList,
+      filename,
+      name,
+      signal,
+      runtime,
+      channel
+    });
+  }
+  async destroy() {
+    await this.#pool.destroy();
+    this.emitDestroy();
+  }
+  get options() {
+    return this.#pool.options;
+  }
+  get threads() {
+    const ret = [];
+    for (const workerInfo of this.#pool.workers) ret.push(workerInfo.worker);
+    return ret;
+  }
+  get queueSize() {
+    const pool = this.#pool;
+    return Math.max(pool.taskQueue.size - pool.pendingCapacity(), 0);
+  }
+  cancelPendingTasks() {
+    const pool = this.#pool;
+    pool.taskQueue.cancel();
+  }
+  async recycleWorkers(options = {}) {
+    await this.#pool.recycleWorkers(options);
+  }
+  get completed() {
+    return this.#pool.completed;
+  }
+  get duration() {
+    return performance3.now() - this.#pool.start;
+  }
+  static get isWorkerThread() {
+    return process.__tinypool_state__?.isWorkerThread || false;
+  }
+  static get workerData() {
+    return process.__tinypool_state__?.workerData || void 0;
+  }
+  static get version() {
+    const { version: version2 } = JSON.parse(readFileSync(new URL2("../package.json", import.meta.url), "utf-8"));
+    return version2;
+  }
+  static move(val) {
+    if (val != null && typeof val === "object" && typeof val !== "function") {
+      if (!isTransferable(val)) if (types.isArrayBufferView(val)) val = new ArrayBufferViewTransferable(val);
+      else val = new DirectlyTransferable(val);
+      markMovable(val);
+    }
+    return val;
+  }
+  static get transferableSymbol() {
+    return kTransferable;
+  }
+  static get valueSymbol() {
+    return kValue;
+  }
+  static get queueOptionsSymbol() {
+    return kQueueOptions;
+  }
+};
+var _workerId = process.__tinypool_state__?.workerId;
+var src_default = Tinypool;
+
+// src/adapters/parallel/create-pool-measure.ts
+function createPoolMeasure(environment, options = {}) {
+  const threads = options.threads ?? (environment.PLUMBLINE_THREADS === void 0 ? availableParallelism2() : Number(environment.PLUMBLINE_THREADS));
+  if (!(threads >= 2)) return void 0;
+  const isSource = import.meta.url.endsWith(".ts");
+  const pool = new src_default({
+    filename: new URL(isSource ? "./refit-worker-source.mjs" : "./refit-worker.js", import.meta.url).href,
+    minThreads: 0,
+    maxThreads: Math.floor(threads)
+  });
+  const measureSides = async (jobs) => {
+    const results = await Promise.all(jobs.map((job) => job.builtin ? inPool(pool, job) : measureSide({ ...job.inputs }, job.options)));
+    return results;
+  };
+  return { measureSides, close: () => pool.destroy() };
+}
+async function inPool(pool, job) {
+  const builtin = job.builtin;
+  const { onRefit, metric, ...options } = job.options;
+  const train3 = shareDataset(job.inputs.train);
+  const holdout = shareDataset(job.inputs.holdout);
+  const capped = sideRows({ holdout, reference: shareMatrix(job.inputs.reference) }, options);
+  const rows = { evaluation: shareDataset(capped.evaluation), reference: shareMatrix(capped.reference) };
+  const binned = builtin.settings.learner === "gradient-boosting" ? binFeatures(train3, { maxBins: builtin.settings.maxBins, shared: true }) : void 0;
+  const seeds = sideRefitSeeds(job.inputs, options);
+  const parts = await Promise.all(
+    seeds.map((seed, refit) => {
+      const task = { side: job.inputs.side, refit, seed, train: train3, holdout, rows, binned, options: { ...options, metricName: metric.name }, builtin };
+      onRefit?.(refit, seeds.length);
+      return pool.run(task).catch((error62) => {
+        throw new InternalError(`refit ${refit + 1} of the ${job.inputs.side} side failed in a worker thread:
+${error62 instanceof Error ? error62.stack ?? error62.message : String(error62)}`);
+      });
+    })
+  );
+  return combineRefits(seeds, rows, parts);
+}
+function shareMatrix(matrix) {
+  return { ...matrix, columns: matrix.columns.map(shared) };
+}
+function shareDataset(data) {
+  const out = shareMatrix(data);
+  return data.target ? { ...out, target: { ...data.target, values: shared(data.target.values) } } : out;
+}
+function shared(values) {
+  if (values.buffer instanceof SharedArrayBuffer) return values;
+  const out = new Float64Array(new SharedArrayBuffer(values.byteLength));
+  out.set(values);
+  return out;
 }
 
 // src/adapters/check/run-check.ts
@@ -45262,6 +46553,8 @@ async function runCheck(request) {
     cleanups.push(baseTree.remove);
     const baseSide = await loadSide(policy, baseTree.path, "base", baseTarget.ref, baseTarget.commit, policyPath, log);
     const headSide = await loadSide(policy, head.path, "head", head.ref, head.commit, policyPath, log);
+    const pool = createPoolMeasure(process.env);
+    if (pool) cleanups.push(pool.close);
     return await runGate({
       config: config2,
       policySource: policyPath,
@@ -45270,7 +46563,7 @@ async function runCheck(request) {
       head: headSide,
       toolVersion,
       onProgress: request.onProgress,
-      measureSides: createParallelMeasure(process.env),
+      measureSides: pool?.measureSides,
       now: () => performance.now() / 1e3
     });
   } finally {
@@ -45493,8 +46786,8 @@ function guessTarget(columns) {
 function proposeTarget(columns) {
   return guessTarget(columns)?.name;
 }
-function scalar(text3) {
-  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text3) ? text3 : JSON.stringify(text3);
+function scalar(text4) {
+  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text4) ? text4 : JSON.stringify(text4);
 }
 function withThousands(n) {
   return String(Math.round(n)).replace(/\B(?=(\d{3})+(?!\d))/g, ",");
@@ -45502,8 +46795,8 @@ function withThousands(n) {
 function count3(n, one, many) {
   return `${withThousands(n)} ${n === 1 ? one : many}`;
 }
-var key = (indent, text3, note) => ({ indent, text: text3, ...note ? { note } : {} });
-var optional3 = (indent, text3, note) => ({ indent, text: text3, isOptional: true, ...note ? { note } : {} });
+var key = (indent, text4, note) => ({ indent, text: text4, ...note ? { note } : {} });
+var optional3 = (indent, text4, note) => ({ indent, text: text4, isOptional: true, ...note ? { note } : {} });
 function renderBlock(lines) {
   const body = lines.map((line) => `${"  ".repeat(line.indent)}${line.isOptional ? "# " : ""}${line.text}`);
   const width = Math.min(44, Math.max(0, ...body.filter((_, i) => lines[i].note).map((b) => b.length)));
@@ -45670,10 +46963,10 @@ async function init(command, io) {
     throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
   }
   const trainPath = command.train ?? await findTrainingTable(root2);
-  const text3 = await readFile(resolve5(root2, trainPath), "utf8").catch(() => {
+  const text4 = await readFile(resolve5(root2, trainPath), "utf8").catch(() => {
     throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
   });
-  const data = parseCsv(text3, { source: trainPath, requireTarget: false });
+  const data = parseCsv(text4, { source: trainPath, requireTarget: false });
   const columns = summarizeColumns(data);
   const target = command.target ?? proposeTarget(columns);
   if (command.target && !columns.some((c) => c.name === command.target)) {
@@ -45816,18 +47109,18 @@ var silentProgress = { line: () => void 0, event: () => void 0, done: () => void
 function createProgress(io, started) {
   let open3 = false;
   const elapsed = () => `${((performance.now() - started) / 1e3).toFixed(1)} s`;
-  const show2 = (text3) => {
+  const show2 = (text4) => {
     if (io.isTty) {
-      io.stderr(`\r\x1B[2K${text3}`);
+      io.stderr(`\r\x1B[2K${text4}`);
       open3 = true;
-    } else io.stderr(`${text3}
+    } else io.stderr(`${text4}
 `);
   };
   return {
-    line(text3) {
+    line(text4) {
       if (open3) io.stderr("\n");
       open3 = false;
-      io.stderr(`${text3}
+      io.stderr(`${text4}
 `);
     },
     event(event) {
@@ -45845,8 +47138,8 @@ function createProgress(io, started) {
 // src/adapters/cli/index.ts
 var code = await main(process.argv.slice(2), {
   cwd: process.cwd(),
-  stdout: (text3) => process.stdout.write(text3),
-  stderr: (text3) => process.stderr.write(text3),
+  stdout: (text4) => process.stdout.write(text4),
+  stderr: (text4) => process.stderr.write(text4),
   isTty: Boolean(process.stderr.isTTY)
 });
 process.exitCode = code;

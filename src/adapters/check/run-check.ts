@@ -13,7 +13,7 @@ import { addWorktree, defaultBase, readFileAtCommit, repositoryRoot, resolveComm
 import { runPrepare } from './run-prepare.ts'
 import { loadSideModel } from './load-side-model.ts'
 import { toolVersion } from '../version.ts'
-import { createParallelMeasure } from '../parallel/measure-in-worker.ts'
+import { createPoolMeasure } from '../parallel/create-pool-measure.ts'
 
 export interface CheckRequest {
   /** Where the user ran plumbline; the repository is found from here. */
@@ -72,6 +72,9 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
     cleanups.push(baseTree.remove)
     const baseSide = await loadSide(policy, baseTree.path, 'base', baseTarget.ref, baseTarget.commit, policyPath, log)
     const headSide = await loadSide(policy, head.path, 'head', head.ref, head.commit, policyPath, log)
+    // Every built-in refit of both sides runs on a pool of worker threads sized to the cores.
+    const pool = createPoolMeasure(process.env)
+    if (pool) cleanups.push(pool.close)
     return await runGate({
       config,
       policySource: policyPath,
@@ -80,7 +83,7 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
       head: headSide,
       toolVersion,
       onProgress: request.onProgress,
-      measureSides: createParallelMeasure(process.env),
+      measureSides: pool?.measureSides,
       now: () => performance.now() / 1000,
     })
   } finally {

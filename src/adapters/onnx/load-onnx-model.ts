@@ -28,12 +28,20 @@
  *
  * predict runs the session over chunks of `batchRows` rows (default 65536), so the input and output
  * tensors stay bounded whatever the number of rows, and concatenates into one Float64Array.
+ *
+ * Tree ensembles (see parseOnnxTreeEnsemble for the graphs it reads) are evaluated by plumbline's
+ * own tree evaluator instead, which also gives permutation importance its fast path; the Model's
+ * `engine` says which ran ('plumbline-trees' or 'onnxruntime'). The first predict call compares the
+ * two on up to 2048 rows and keeps onnxruntime for good if they differ by more than 1e-5 relative.
  */
 import ort from 'onnxruntime-node'
 import type { FeatureInfo, FeatureMatrix, Task } from '../../core/data/dataset.ts'
 import { InternalError, UserError } from '../../core/errors.ts'
-import type { Model } from '../../core/models/model.ts'
+import type { Model, ModelEngine } from '../../core/models/model.ts'
 import { FEATURES_METADATA_KEY } from '../../core/models/onnx-proto.ts'
+import { parseOnnxTreeEnsemble } from '../../core/models/parse-onnx-tree-ensemble.ts'
+import { createTreeReplacementPredictor, type EvaluableEnsemble } from '../../core/models/gbt/replacement-predictor.ts'
+import { selectRows } from '../../core/data/dataset.ts'
 import { readOnnxSummary, type OnnxSummary } from './read-onnx-summary.ts'
 
 export { FEATURES_METADATA_KEY }
@@ -52,6 +60,8 @@ export interface OnnxModelOptions {
   readonly positiveClass?: string | number
   /** Rows per session run; default DEFAULT_BATCH_ROWS. */
   readonly batchRows?: number
+  /** 'onnxruntime' keeps every prediction with onnxruntime even for a tree ensemble plumbline can read (default 'auto'). */
+  readonly evaluator?: 'auto' | 'onnxruntime'
 }
 
 type ValueMetadata = ort.InferenceSession.ValueMetadata
@@ -60,11 +70,15 @@ type Feeds = Record<string, Tensor>
 
 interface InputPlan {
   readonly featureNames: readonly string[]
+  /** The model takes one [N, F] matrix (the only form whose trees plumbline can evaluate itself). */
+  readonly isMatrix: boolean
   build(matrix: FeatureMatrix, start: number, end: number): Feeds
 }
 
 interface OutputPlan {
   readonly name: string
+  /** Binary: the probability column of the positive class. */
+  readonly positive?: number
   copy(value: ort.OnnxValue, start: number, end: number, out: Float64Array): void
 }
 
@@ -98,18 +112,18 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
     : planProbabilityOutput(session.outputMetadata, options, summary)
   const { source } = options
   const featureNames = inputs.featureNames
+  // A tree ensemble plumbline can read is evaluated by its own tree evaluator (exact routing, double
+  // sums) and gets the permutation fast path; the first predict call checks it against onnxruntime
+  // on up to CHECK_ROWS rows and falls back to onnxruntime for good on any disagreement.
+  const parsed = inputs.isMatrix && options.evaluator !== 'onnxruntime' ? readTrees(bytes, options.task, output) : undefined
+  let trees: EvaluableEnsemble | undefined =
+    parsed?.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : undefined
+  let checked = false
+  let engine: ModelEngine = trees ? 'plumbline-trees' : 'onnxruntime'
+  const evaluate = (matrix: FeatureMatrix, ensemble: EvaluableEnsemble) => createTreeReplacementPredictor(ensemble, matrix)?.predict(new Map(), 1)
 
-  return {
-    kind: 'onnx',
-    task: options.task,
-    featureNames,
-    async predict(matrix: FeatureMatrix): Promise<Float64Array> {
-      if (matrix.features.length !== featureNames.length || matrix.features.some((f, j) => f.name !== featureNames[j])) {
-        throw new RangeError(
-          `predict needs the features ${JSON.stringify(featureNames)} in that order, got ${JSON.stringify(matrix.features.map((f) => f.name))}`,
-        )
-      }
-      const out = new Float64Array(matrix.rows)
+  const runSession = async (matrix: FeatureMatrix): Promise<Float64Array> => {
+    const out = new Float64Array(matrix.rows)
       for (let start = 0; start < matrix.rows; start += batchRows) {
         const end = Math.min(matrix.rows, start + batchRows)
         const feeds = inputs.build(matrix, start, end)
@@ -124,9 +138,44 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
         output.copy(result[output.name], start, end, out)
       }
       return out
+  }
+
+  return {
+    kind: 'onnx',
+    task: options.task,
+    featureNames,
+    get engine() {
+      return engine
+    },
+    async predict(matrix: FeatureMatrix): Promise<Float64Array> {
+      if (matrix.features.length !== featureNames.length || matrix.features.some((f, j) => f.name !== featureNames[j])) {
+        throw new RangeError(
+          `predict needs the features ${JSON.stringify(featureNames)} in that order, got ${JSON.stringify(matrix.features.map((f) => f.name))}`,
+        )
+      }
+      if (trees && !checked) {
+        checked = true
+        const sample = selectRows(matrix, Array.from({ length: Math.min(CHECK_ROWS, matrix.rows) }, (_, i) => i))
+        const ours = evaluate(sample, trees)
+        const theirs = await runSession(sample)
+        if (!ours || ours.some((p, i) => !(Math.abs(p - theirs[i]) <= AGREEMENT * Math.max(1, Math.abs(theirs[i]))))) {
+          trees = undefined
+          engine = 'onnxruntime'
+        }
+      }
+      if (trees) return evaluate(matrix, trees)!
+      return runSession(matrix)
+    },
+    createReplacementPredictor(base: FeatureMatrix) {
+      return trees && checked ? createTreeReplacementPredictor(trees, base) : undefined
     },
   }
 }
+
+/** Rows the tree evaluator is checked on against onnxruntime at the first prediction. */
+const CHECK_ROWS = 2048
+/** Largest difference allowed in that check, relative (onnxruntime's tree outputs are float32: ~6e-8). */
+const AGREEMENT = 1e-5
 
 // ---- inputs -------------------------------------------------------------------------------------
 
@@ -165,6 +214,7 @@ function planInputs(inputs: readonly ValueMetadata[], options: OnnxModelOptions,
   }
   const columns = inputs as readonly ort.InferenceSession.TensorValueMetadata[]
   return {
+    isMatrix: false,
     featureNames: columns.map((input) => input.name),
     build(matrix, start, end) {
       const feeds: Feeds = {}
@@ -221,6 +271,7 @@ function planMatrixInput(
   }
   const type = input.type
   return {
+    isMatrix: true,
     featureNames: order,
     build(matrix, start, end) {
       const rows = end - start
@@ -367,6 +418,7 @@ function planProbabilityOutput(outputs: readonly ValueMetadata[], options: OnnxM
   const positive = positiveColumn(options.positiveClass, labels, source, output.name)
   return {
     name: output.name,
+    positive,
     copy(value, start, end, out) {
       const tensor = value as Tensor
       const rows = end - start
@@ -444,4 +496,13 @@ function describeValues(values: readonly ValueMetadata[]): string {
 function describeColumns(features: readonly FeatureInfo[]): string {
   if (features.length === 0) return '(none)'
   return features.map((f) => `${f.name} (${f.kind})`).join(', ')
+}
+
+/** parseOnnxTreeEnsemble, with any decoding trouble meaning "not readable" (onnxruntime has accepted the file). */
+function readTrees(bytes: Uint8Array, task: Task, output: OutputPlan) {
+  try {
+    return parseOnnxTreeEnsemble(bytes, { task, outputName: output.name, positiveColumn: output.positive })
+  } catch {
+    return undefined
+  }
 }

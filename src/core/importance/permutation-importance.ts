@@ -66,7 +66,8 @@ export interface PermutationImportanceOptions {
  * a random permutation of the reference rows when it has at least n rows, else draws with
  * replacement. A constant model gets exactly zero for every feature.
  *
- * Cost: one model call of K·n rows per unit, on one stacked buffer of K·n·F values allocated once.
+ * Cost: one model call of K·n rows per unit, on one stacked buffer of K·n·F values allocated once;
+ * a model with a batched fast path (tree ensembles) gets every unit's draws in one call instead.
  */
 export async function permutationImportance(
   model: Model,
@@ -115,10 +116,11 @@ export async function permutationImportance(
   const stackedMatrix: FeatureMatrix = { rows: stackedRows, features: data.features, columns: stacked }
   const importances: ImportanceEstimate[] = []
 
-  for (const unit of units) {
+  /** The unit's K draws of replacement values, stacked (copy k at offset k·n), into `into` or new arrays. */
+  const drawReplacement = (unit: (typeof units)[number], into?: readonly Float64Array[]) => {
     const random = createRandom(deriveSeed(options.seed, 'draws', unit.isGroup ? 'group' : 'feature', unit.name))
     const replaced = new Map<string, Float64Array>()
-    for (const j of unit.columns) replaced.set(names[j], fast ? new Float64Array(stackedRows) : stacked[j])
+    unit.columns.forEach((j, m) => replaced.set(names[j], into ? into[m] : new Float64Array(stackedRows)))
     for (let k = 0; k < draws; k++) {
       const rows = referenceRows(n, reference.rows, usesOwnRows, random)
       for (const j of unit.columns) {
@@ -128,7 +130,19 @@ export async function permutationImportance(
         for (let i = 0; i < n; i++) target[offset + i] = source[rows[i]]
       }
     }
-    const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix)
+    return replaced
+  }
+  // A fast path that takes every unit at once walks each tree once per block of rows for all of them.
+  const batched = fast?.predictMany ? fast.predictMany(units.map((unit) => drawReplacement(unit)), draws) : undefined
+
+  for (const [u, unit] of units.entries()) {
+    let prediction: Float64Array
+    if (batched) prediction = batched[u]
+    else if (fast) prediction = fast.predict(drawReplacement(unit), draws)
+    else {
+      drawReplacement(unit, unit.columns.map((j) => stacked[j]))
+      prediction = await model.predict(stackedMatrix)
+    }
     const values: number[] = []
     rowSum.fill(0)
     let decomposes = true

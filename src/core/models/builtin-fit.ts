@@ -18,9 +18,16 @@ export interface BuiltinLearnerSettings {
  * The built-in learners as a Fit: each request trains on the side's training rows in an order
  * shuffled by the request's seed, with the columns offered in a shuffled order, minus the columns
  * left out. So "retrain with another seed" changes row order, column order and the per-tree
- * subsamples, as a real retrain would. Bins are computed once per dataset and shared by every refit.
+ * subsamples, as a real retrain would. Bins are computed once per dataset and shared by every refit
+ * (or passed in as `options.binned`, binFeatures of `train` with `settings.maxBins`, e.g. a matrix
+ * in shared memory that worker threads read).
  */
-export function createBuiltinFit(train: Dataset, task: Task, settings: BuiltinLearnerSettings): Fit {
+export function createBuiltinFit(
+  train: Dataset,
+  task: Task,
+  settings: BuiltinLearnerSettings,
+  options: { readonly binned?: BinnedFeatures } = {},
+): Fit {
   const target = train.target?.values
   if (!target) throw new RangeError('createBuiltinFit needs a training dataset with a target')
   let binned: BinnedFeatures | undefined
@@ -32,13 +39,22 @@ export function createBuiltinFit(train: Dataset, task: Task, settings: BuiltinLe
     }
     const rows = shuffledIndices(train.rows, createRandom(deriveSeed(request.seed, 'row-order')))
     const columnOrder = Array.from(shuffledIndices(names.length, createRandom(deriveSeed(request.seed, 'column-order'))))
-    const features = columnOrder.filter((j) => !leaveOut.has(names[j]))
-    if (features.length === 0) throw new RangeError('createBuiltinFit: every feature was left out')
+    const excluded = names.flatMap((name, j) => (leaveOut.has(name) ? [j] : []))
+    if (excluded.length === names.length) throw new RangeError('createBuiltinFit: every feature was left out')
     if (settings.learner === 'linear') {
+      const features = columnOrder.filter((j) => !leaveOut.has(names[j]))
       const options = { l2: settings.linearL2, rows, features }
       return task === 'binary' ? fitLogistic(train, target, options) : fitRidge(train, target, options)
     }
-    binned ??= binFeatures(train, { maxBins: settings.maxBins })
-    return fitBoosted(binned, target, { task, settings: settings.boosting, seed: request.seed, rows, features })
+    // One binned matrix per side, shared by every refit; a left-out column is masked, not re-binned.
+    binned ??= options.binned ?? binFeatures(train, { maxBins: settings.maxBins })
+    return fitBoosted(binned, target, {
+      task,
+      settings: settings.boosting,
+      seed: request.seed,
+      rows,
+      features: columnOrder,
+      excludeFeatures: excluded,
+    })
   }
 }

@@ -9,15 +9,24 @@ export interface Model {
   readonly kind: string
   readonly task: Task
   readonly featureNames: readonly string[]
+  /**
+   * What computes the predictions: plumbline's own tree evaluator (built-in boosted trees, and ONNX
+   * tree ensembles it could read), its linear evaluator, or onnxruntime. Read it after the first
+   * predict call: a loaded model may fall back to onnxruntime then.
+   */
+  readonly engine?: ModelEngine
   predict(matrix: FeatureMatrix): Promise<Float64Array>
   /**
    * Optional fast path for permutation importance: predictions for `base`'s rows with some columns
-   * replaced, computed without re-running what the replacement cannot change.
+   * replaced, computed without re-running what the replacement cannot change; undefined when this
+   * model has none for these rows.
    */
-  createReplacementPredictor?(base: FeatureMatrix): ReplacementPredictor
+  createReplacementPredictor?(base: FeatureMatrix): ReplacementPredictor | undefined
   /** Built-in learners: gain and split count per feature (impurity importance, in-sample). */
   readonly splitStatistics?: readonly { feature: string; gain: number; splits: number }[]
 }
+
+export type ModelEngine = 'plumbline-trees' | 'plumbline-linear' | 'onnxruntime'
 
 /** What one refit is asked for. The seed is already derived; leaveOut is for drop-column refits. */
 export interface FitRequest {
@@ -40,4 +49,6 @@ export interface ReplacementPredictor {
    * copy k at offset k · rows). Returns draws · rows predictions in the same layout.
    */
   predict(replaced: ReadonlyMap<string, Float64Array>, draws: number): Float64Array
+  /** predict for several replacements in one pass (one per unit, e.g. every feature of a model). */
+  predictMany?(units: readonly ReadonlyMap<string, Float64Array>[], draws: number): Float64Array[]
 }

@@ -139,7 +139,7 @@ export function describeSides(
       evaluationRows: m.evaluationRows,
       referenceRows: m.referenceRows,
       features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
-      model: { kind: m.model.kind, description: `${m.model.kind} on ${m.model.featureNames.length} features` },
+      model: { kind: m.model.kind, description: describeModel(m.model), engine: m.model.engine },
       scores: m.scores,
       scoreMean: mean(m.scores),
       scoreSd: sampleStandardDeviation(m.scores),
@@ -150,3 +150,16 @@ export function describeSides(
   return { base: describe('base', inputs.base, base), head: describe('head', inputs.head, head) }
 }
 
+
+const engineNames = {
+  'plumbline-trees': "plumbline's tree evaluator",
+  'plumbline-linear': "plumbline's linear evaluator",
+  onnxruntime: 'onnxruntime',
+} as const
+
+/** "boosted on 12 features, evaluated by plumbline's tree evaluator". */
+function describeModel(model: SideMeasurement['model']): string {
+  const count = model.featureNames.length
+  const engine = model.engine ? `, evaluated by ${engineNames[model.engine]}` : ''
+  return `${model.kind} on ${count} feature${count === 1 ? '' : 's'}${engine}`
+}

@@ -121,7 +121,7 @@ const sideSummarySchema = z.strictObject({
   evaluationRows: count,
   referenceRows: count,
   features: list(z.strictObject({ name: text, kind: z.enum(['numeric', 'categorical']) })),
-  model: z.strictObject({ kind: text, description: text }),
+  model: z.strictObject({ kind: text, description: text, engine: z.enum(['plumbline-trees', 'plumbline-linear', 'onnxruntime']).optional() }),
   scores: list(finite),
   scoreMean: finite,
   scoreSd: undefinedNumber,

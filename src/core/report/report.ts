@@ -1,3 +1,4 @@
+import type { ModelEngine } from '../models/model.ts'
 /**
  * GateReport: the product. One object, rendered as the pull-request comment (markdown), the
  * terminal text, the job summary, and written as is as JSON (`--json`). Versioned: consumers check
@@ -92,7 +93,12 @@ export interface SideSummary {
   readonly evaluationRows: number
   readonly referenceRows: number
   readonly features: readonly { readonly name: string; readonly kind: 'numeric' | 'categorical' }[]
-  readonly model: { readonly kind: string; readonly description: string }
+  /**
+   * engine: what computed the model's predictions: plumbline's tree evaluator (built-in boosted
+   * trees, and ONNX tree ensembles it reads, which get the permutation fast path), its linear
+   * evaluator, or onnxruntime. Optional: reports written before it existed lack it.
+   */
+  readonly model: { readonly kind: string; readonly description: string; readonly engine?: ModelEngine }
   /** Holdout metric per refit, in refit order. */
   readonly scores: readonly number[]
   readonly scoreMean: number

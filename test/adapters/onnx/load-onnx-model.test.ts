@@ -27,7 +27,7 @@ async function rejection(promise: Promise<unknown>): Promise<UserError> {
 }
 
 const load = (name: string, options: Partial<OnnxModelOptions> & Pick<OnnxModelOptions, 'features'>) =>
-  loadOnnxModel(fixture(name), { source: `models/${name}`, task: 'regression', ...options })
+  loadOnnxModel(fixture(name), { source: `models/${name}`, task: 'regression', evaluator: 'onnxruntime', ...options })
 
 describe('loadOnnxModel(bytes, options) with one [N, F] input', () => {
   // Data columns in another order than the model's, plus one the model does not read.

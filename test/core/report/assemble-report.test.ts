@@ -14,7 +14,7 @@ const measured = (scores: number[]): SideMeasurement => ({
   perRefit: [],
   evaluationRows: 3,
   referenceRows: 3,
-  model: { kind: 'boosted', featureNames: ['distance_km'] },
+  model: { kind: 'boosted', featureNames: ['distance_km'], engine: 'plumbline-trees' },
   firstPredictions: new Float64Array(3),
   noiseCovers: scores.length > 1 ? 'refits-and-draws' : 'draws-only',
 })
@@ -27,6 +27,6 @@ describe('describeSides', () => {
     expect(sides!.base.scoreMean).toBeCloseTo(0.44, 12)
     expect(sides!.base.scoreSd).toBeCloseTo(0.0316227766, 9)
     expect(sides!.head.scoreSd).toBeNaN()
-    expect(sides!.base.model.description).toBe('boosted on 1 features')
+    expect(sides!.base.model.description).toBe("boosted on 1 feature, evaluated by plumbline's tree evaluator")
   })
 })

@@ -10,8 +10,14 @@ export const MISSING_BIN = 255
 export interface BinnedFeatures {
   readonly rows: number
   readonly features: readonly FeatureInfo[]
-  /** codes[j][i]: the bin of row i in column j, 0..binCounts[j]-1, or MISSING_BIN for NaN. */
+  /**
+   * codes[j][i]: the bin of row i in column j, 0..binCounts[j]-1, or MISSING_BIN for NaN. Every
+   * column is a view of one feature-major block (`matrix`), so the whole binned table is one buffer
+   * that worker threads can share.
+   */
   readonly codes: readonly Uint8Array[]
+  /** The block behind `codes`: column j is matrix[j * rows, (j + 1) * rows). */
+  readonly matrix: Uint8Array
   /** Number of value bins per column (0 when the column is all missing). */
   readonly binCounts: Int32Array
   /**
@@ -19,6 +25,13 @@ export interface BinnedFeatures {
    * bins above b is greater, so the split "bin <= b" is the raw split "value <= upperEdges[j][b]".
    */
   readonly upperEdges: readonly Float64Array[]
+}
+
+export interface BinFeaturesOptions {
+  /** At most this many value bins per column, 2..255 (default 255). */
+  readonly maxBins?: number
+  /** Put the codes in a SharedArrayBuffer, so worker threads can read them without a copy. */
+  readonly shared?: boolean
 }
 
 /**
@@ -37,7 +50,7 @@ export interface BinnedFeatures {
  * Edges: an all-missing column has no value bins; a constant column has one (it can never split).
  * Cost: O(n log n) per column for the sort, O(n log bins) for the codes.
  */
-export function binFeatures(matrix: FeatureMatrix, options: { maxBins?: number } = {}): BinnedFeatures {
+export function binFeatures(matrix: FeatureMatrix, options: BinFeaturesOptions = {}): BinnedFeatures {
   const maxBins = options.maxBins ?? 255
   if (!Number.isInteger(maxBins) || maxBins < 2 || maxBins > 255) {
     throw new RangeError(`binFeatures needs maxBins to be a whole number from 2 to 255, got ${maxBins}`)
@@ -48,6 +61,8 @@ export function binFeatures(matrix: FeatureMatrix, options: { maxBins?: number }
     )
   }
   const n = matrix.rows
+  const width = matrix.columns.length
+  const block = new Uint8Array(options.shared ? new SharedArrayBuffer(n * width) : new ArrayBuffer(n * width))
   const codes: Uint8Array[] = []
   const upperEdges: Float64Array[] = []
   const binCounts = new Int32Array(matrix.columns.length)
@@ -59,9 +74,11 @@ export function binFeatures(matrix: FeatureMatrix, options: { maxBins?: number }
     const edges = quantileEdges(column, maxBins)
     upperEdges.push(edges)
     binCounts[j] = edges.length
-    codes.push(assignBins(column, edges))
+    const out = block.subarray(j * n, (j + 1) * n)
+    assignBins(column, edges, out)
+    codes.push(out)
   }
-  return { rows: n, features: matrix.features, codes, binCounts, upperEdges }
+  return { rows: n, features: matrix.features, codes, matrix: block, binCounts, upperEdges }
 }
 
 function quantileEdges(column: Float64Array, maxBins: number): Float64Array {
@@ -106,8 +123,7 @@ function edgeBetween(below: number, above: number): number {
 }
 
 /** Smallest b with value <= edges[b] (binary search); NaN gets MISSING_BIN. */
-function assignBins(column: Float64Array, edges: Float64Array): Uint8Array {
-  const out = new Uint8Array(column.length)
+function assignBins(column: Float64Array, edges: Float64Array, out: Uint8Array): void {
   const last = edges.length - 1
   for (let i = 0; i < column.length; i++) {
     const v = column[i]
@@ -124,5 +140,4 @@ function assignBins(column: Float64Array, edges: Float64Array): Uint8Array {
     }
     out[i] = lo
   }
-  return out
 }

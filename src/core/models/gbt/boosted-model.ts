@@ -17,6 +17,7 @@ export interface SplitStatistic {
  */
 export class BoostedModel implements Model {
   readonly kind = 'boosted-trees'
+  readonly engine = 'plumbline-trees'
   readonly task: Task
   readonly featureNames: readonly string[]
 
@@ -34,8 +35,8 @@ export class BoostedModel implements Model {
    * columns are ignored. Throws RangeError naming a feature the matrix lacks. Cost O(rows x trees x depth).
    */
   /** Permutation importance's fast path: see createTreeReplacementPredictor. */
-  createReplacementPredictor(base: FeatureMatrix): ReplacementPredictor {
-    return createTreeReplacementPredictor(this.ensemble, base)
+  createReplacementPredictor(base: FeatureMatrix): ReplacementPredictor | undefined {
+    return createTreeReplacementPredictor({ ...this.ensemble, link: this.task === 'binary' ? 'logistic' : 'identity' }, base)
   }
 
   predictRaw(matrix: FeatureMatrix): Float64Array {

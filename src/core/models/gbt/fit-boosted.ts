@@ -55,6 +55,11 @@ export interface FitBoostedOptions {
   readonly rows?: ArrayLike<number>
   /** Column indices of `binned` the trees may split on (default: all). */
   readonly features?: readonly number[]
+  /**
+   * Column indices of `binned` to leave out (drop-column / LOCO refits): the fit is the one on the
+   * table without those columns, from the same bins, with no re-binning. Applied after `features`.
+   */
+  readonly excludeFeatures?: readonly number[]
 }
 
 /**
@@ -86,12 +91,14 @@ export interface FitBoostedOptions {
 export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options: FitBoostedOptions): BoostedModel {
   const { task, settings } = options
   checkSettings(settings)
-  const { positions, features: used, y } = resolveTrainingSubset(
+  const { positions, features: allowed, y } = resolveTrainingSubset(
     'fitBoosted', { rows: binned.rows, features: binned.features.length }, target, task, options,
   )
+  const used = leaveOut(allowed, options.excludeFeatures, binned.features.length)
   const n = positions.length
   const featureCount = used.length
   const rowCodes = gatherRowMajor(binned.codes, used, positions)
+  const columnCodes = gatherColumns(binned.codes, used, positions)
   const binCounts = Int32Array.from(used, (j) => binned.binCounts[j])
   let targetSum = 0
   for (let p = 0; p < n; p++) targetSum += y[p]
@@ -99,7 +106,7 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
 
   const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n))
   const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)))
-  const grower = new TreeGrower(rowCodes, featureCount, treeFeatureCount, binCounts, n, settings, task === 'regression')
+  const grower = new TreeGrower(rowCodes, columnCodes, binCounts, n, settings, task === 'regression')
   const score = new Float64Array(n).fill(baseScore)
   const random = createRandom(options.seed)
   const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k)
@@ -126,6 +133,20 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
     splits: splitsByFeature[k],
   }))
   return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics)
+}
+
+/** `allowed` without the excluded column indices; throws RangeError on a bad index or when none is left. */
+function leaveOut(allowed: readonly number[], excluded: readonly number[] | undefined, width: number): readonly number[] {
+  if (!excluded || excluded.length === 0) return allowed
+  for (const j of excluded) {
+    if (!Number.isInteger(j) || j < 0 || j >= width) {
+      throw new RangeError(`fitBoosted: excludeFeatures contains ${j}, not a column index from 0 to ${width - 1}`)
+    }
+  }
+  const drop = new Set(excluded)
+  const kept = allowed.filter((j) => !drop.has(j))
+  if (kept.length === 0) throw new RangeError('fitBoosted: excludeFeatures leaves no feature to split on')
+  return kept
 }
 
 function checkSettings(s: BoostingSettings): void {
@@ -158,6 +179,16 @@ function gatherRowMajor(codes: readonly Uint8Array[], used: readonly number[], p
     for (let p = 0, at = k; p < positions.length; p++, at += width) out[at] = column[positions[p]]
   }
   return out
+}
+
+/** The used columns' codes at the training positions, one array per used column: out[k][p]. */
+function gatherColumns(codes: readonly Uint8Array[], used: readonly number[], positions: Int32Array): Uint8Array[] {
+  return used.map((j) => {
+    const column = codes[j]
+    const out = new Uint8Array(positions.length)
+    for (let p = 0; p < positions.length; p++) out[p] = column[positions[p]]
+    return out
+  })
 }
 
 function logOdds(rate: number): number {
@@ -220,11 +251,12 @@ class TreeGrower {
   private readonly scratch: Int32Array
   private readonly slot: number
   private readonly featureStride: number
-  // The current tree's features: codes[p * width + t] is position p's bin for tree feature t.
+  private readonly featureCount: number
+  // The current tree's features: tree feature t is fit-local feature treeFeatures[t].
   private treeFeatures: Int32Array = new Int32Array(0)
-  private treeCodes: Uint8Array
-  private readonly packedCodes: Uint8Array
   private width = 0
+  /** Row counts per bin of every feature over all positions (the root's counts when a tree uses every row). */
+  private readonly allRowCounts: Float64Array
   private readonly treeBins: Int32Array
   // The tree being grown, node-indexed in creation (breadth-first) order. feature is the tree feature t.
   private nodeCount = 0
@@ -255,8 +287,8 @@ class TreeGrower {
   constructor(
     /** Row-major codes of every allowed feature: rowCodes[p * featureCount + k]. */
     private readonly rowCodes: Uint8Array,
-    private readonly featureCount: number,
-    treeFeatureCount: number,
+    /** The same codes column by column: columnCodes[k][p]. */
+    private readonly columnCodes: readonly Uint8Array[],
     private readonly binCounts: Int32Array,
     n: number,
     private readonly settings: BoostingSettings,
@@ -268,9 +300,13 @@ class TreeGrower {
     this.scratch = new Int32Array(n)
     this.slot = isUnitHessian ? 2 : 3
     this.featureStride = this.slot * SLOTS_PER_FEATURE
-    this.treeCodes = rowCodes
-    this.packedCodes = treeFeatureCount < featureCount ? new Uint8Array(n * treeFeatureCount) : rowCodes
-    this.treeBins = new Int32Array(featureCount)
+    this.featureCount = columnCodes.length
+    this.treeBins = new Int32Array(this.featureCount)
+    this.allRowCounts = new Float64Array(this.featureCount * SLOTS_PER_FEATURE)
+    columnCodes.forEach((column, k) => {
+      const base = k * SLOTS_PER_FEATURE
+      for (let p = 0; p < n; p++) this.allRowCounts[base + column[p]]++
+    })
     const m = 2 ** (settings.maxDepth + 1) - 1
     this.feature = new Int32Array(m)
     this.splitBin = new Int32Array(m)
@@ -322,22 +358,12 @@ class TreeGrower {
     }
   }
 
-  /** Points treeCodes at this tree's features, packing them row-major when they are a subset. */
+  /** Records this tree's features; the codes are read through treeFeatures, never copied per tree. */
   private useFeatures(treeFeatures: Int32Array): void {
     const width = treeFeatures.length
     this.treeFeatures = treeFeatures
     this.width = width
     for (let t = 0; t < width; t++) this.treeBins[t] = this.binCounts[treeFeatures[t]]
-    if (width === this.featureCount) {
-      this.treeCodes = this.rowCodes
-      return
-    }
-    const { rowCodes, packedCodes, featureCount } = this
-    const n = this.order.length
-    for (let p = 0, from = 0, to = 0; p < n; p++, from += featureCount, to += width) {
-      for (let t = 0; t < width; t++) packedCodes[to + t] = rowCodes[from + treeFeatures[t]]
-    }
-    this.treeCodes = packedCodes
   }
 
   private canSplit(node: number): boolean {
@@ -456,7 +482,7 @@ class TreeGrower {
     const from = this.begin[node]
     const to = this.end[node]
     const middle = partition(
-      this.order, this.scratch, from, to, this.treeCodes, this.width, t, this.bestBin, this.bestMissingLeft,
+      this.order, this.scratch, from, to, this.rowCodes, this.featureCount, this.treeFeatures[t], this.bestBin, this.bestMissingLeft,
     )
     if (middle - from !== this.bestLeftCount) {
       throw new InternalError('fitBoosted: the partition disagrees with the histogram')
@@ -496,14 +522,40 @@ class TreeGrower {
     else this.freeHistograms.push(smallHist)
   }
 
+  /**
+   * A node's histogram. The root of a tree grown on every row reads the codes column by column in
+   * row order (sequential, one feature's histogram hot in cache at a time) and copies the fixed row
+   * counts; every other node walks its rows once and adds each to every feature (row-major codes).
+   */
   private buildHistogram(hist: Float64Array, node: number): void {
     hist.fill(0, 0, this.width * this.featureStride)
     const from = this.begin[node]
     const to = this.end[node]
+    const { rowCodes, featureCount, treeFeatures, width, order, gradient, hessian } = this
+    if (from === 0 && to === order.length) {
+      this.buildFullHistogram(hist)
+      return
+    }
     if (this.isUnitHessian) {
-      accumulateUnitHessian(hist, this.treeCodes, this.width, this.order, from, to, this.gradient)
-    } else {
-      accumulate(hist, this.treeCodes, this.width, this.order, from, to, this.gradient, this.hessian)
+      if (width === featureCount) accumulateUnitHessian(hist, rowCodes, width, order, from, to, gradient)
+      else accumulateUnitHessianSubset(hist, rowCodes, featureCount, treeFeatures, width, order, from, to, gradient)
+    } else if (width === featureCount) accumulate(hist, rowCodes, width, order, from, to, gradient, hessian)
+    else accumulateSubset(hist, rowCodes, featureCount, treeFeatures, width, order, from, to, gradient, hessian)
+  }
+
+  /** The histogram of every row: order is 0..n-1, so columns are read in order. */
+  private buildFullHistogram(hist: Float64Array): void {
+    const { slot, featureStride, treeFeatures, width, columnCodes, gradient, hessian, allRowCounts } = this
+    const countAt = slot - 1
+    for (let t = 0; t < width; t++) {
+      const k = treeFeatures[t]
+      const base = t * featureStride
+      if (this.isUnitHessian) accumulateColumnUnitHessian(hist, base, columnCodes[k], gradient)
+      else accumulateColumn(hist, base, columnCodes[k], gradient, hessian)
+      const counts = k * SLOTS_PER_FEATURE
+      const bins = this.treeBins[t]
+      for (let b = 0; b < bins; b++) hist[base + b * slot + countAt] = allRowCounts[counts + b]
+      hist[base + MISSING_BIN * slot + countAt] = allRowCounts[counts + MISSING_BIN]
     }
   }
 
@@ -530,12 +582,12 @@ class TreeGrower {
     // Rows left out of this tree's sample walk the tree in bin space.
     const sampled = new Uint8Array(score.length)
     for (let i = 0; i < rowCount; i++) sampled[order[i]] = 1
-    const { treeCodes, width, splitBin, missingLeft, left, right } = this
+    const { rowCodes, featureCount, treeFeatures, splitBin, missingLeft, left, right } = this
     for (let p = 0; p < score.length; p++) {
       if (sampled[p] === 1) continue
       let node = 0
       while (feature[node] >= 0) {
-        const code = treeCodes[p * width + feature[node]]
+        const code = rowCodes[p * featureCount + treeFeatures[feature[node]]]
         const goLeft = code === MISSING_BIN ? missingLeft[node] === 1 : code <= splitBin[node]
         node = goLeft ? left[node] : right[node]
       }
@@ -629,7 +681,7 @@ function accumulateUnitHessian(
   }
 }
 
-/** Stable partition of order[from..to) into left-goers then right-goers by tree feature t; returns the boundary. */
+/** Stable partition of order[from..to) into left-goers then right-goers by fit-local feature k; returns the boundary. */
 function partition(
   order: Int32Array,
   scratch: Int32Array,
@@ -637,7 +689,7 @@ function partition(
   to: number,
   codes: Uint8Array,
   width: number,
-  t: number,
+  k: number,
   bin: number,
   missingLeft: number,
 ): number {
@@ -646,10 +698,82 @@ function partition(
   const missingGoesLeft = missingLeft === 1
   for (let i = from; i < to; i++) {
     const p = order[i]
-    const code = codes[p * width + t]
+    const code = codes[p * width + k]
     if (code === MISSING_BIN ? missingGoesLeft : code <= bin) order[write++] = p
     else scratch[spill++] = p
   }
   for (let i = 0; i < spill; i++) order[write + i] = scratch[i]
   return write
 }
+
+/**
+ * accumulate when the tree uses a subset of the fit's features: codes[p * featureCount + treeFeatures[t]].
+ * Kept apart from accumulate on purpose: the extra treeFeatures load costs about 8% of a full fit
+ * (npm run bench), so the full-width loops stay without it.
+ */
+function accumulateSubset(
+  hist: Float64Array,
+  codes: Uint8Array,
+  featureCount: number,
+  treeFeatures: Int32Array,
+  width: number,
+  order: Int32Array,
+  from: number,
+  to: number,
+  gradient: Float64Array,
+  hessian: Float64Array,
+): void {
+  const stride = 3 * SLOTS_PER_FEATURE
+  for (let i = from; i < to; i++) {
+    const p = order[i]
+    const g = gradient[p]
+    const h = hessian[p]
+    const row = p * featureCount
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + treeFeatures[t]] * 3
+      hist[s] += g
+      hist[s + 1] += h
+      hist[s + 2] += 1
+    }
+  }
+}
+
+/** accumulateUnitHessian when the tree uses a subset of the fit's features. */
+function accumulateUnitHessianSubset(
+  hist: Float64Array,
+  codes: Uint8Array,
+  featureCount: number,
+  treeFeatures: Int32Array,
+  width: number,
+  order: Int32Array,
+  from: number,
+  to: number,
+  gradient: Float64Array,
+): void {
+  const stride = 2 * SLOTS_PER_FEATURE
+  for (let i = from; i < to; i++) {
+    const p = order[i]
+    const g = gradient[p]
+    const row = p * featureCount
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s = base + codes[row + treeFeatures[t]] * 2
+      hist[s] += g
+      hist[s + 1] += 1
+    }
+  }
+}
+
+/** One feature's (g, h) sums over every row, reading its column in order; counts are filled in by the caller. */
+function accumulateColumn(hist: Float64Array, base: number, column: Uint8Array, gradient: Float64Array, hessian: Float64Array): void {
+  for (let p = 0; p < column.length; p++) {
+    const s = base + column[p] * 3
+    hist[s] += gradient[p]
+    hist[s + 1] += hessian[p]
+  }
+}
+
+/** One feature's gradient sums over every row, reading its column in order. */
+function accumulateColumnUnitHessian(hist: Float64Array, base: number, column: Uint8Array, gradient: Float64Array): void {
+  for (let p = 0; p < column.length; p++) hist[base + column[p] * 2] += gradient[p]
+}
+

@@ -37,6 +37,7 @@ export interface LinearConvergence {
 /** A LinearModelState as a Model. Features are found by name in the matrix, in any order. */
 export class LinearModel implements Model {
   readonly kind = 'linear'
+  readonly engine = 'plumbline-linear'
   readonly task: Task
   readonly featureNames: readonly string[]
 

@@ -20,6 +20,17 @@ describe('binFeatures(matrix, {maxBins})', () => {
     expect(binned.binCounts[0]).toBe(4)
   })
 
+  it('keeps every column in one feature-major block, in shared memory when asked', () => {
+    const matrix = matrixOf([4, 1, 8, 2], [NaN, 5, 5, 6])
+    const plain = binFeatures(matrix)
+    const shared = binFeatures(matrix, { shared: true })
+    expect(Array.from(plain.matrix)).toEqual([2, 0, 3, 1, MISSING_BIN, 0, 0, 1])
+    expect(plain.codes[1].buffer).toBe(plain.matrix.buffer)
+    expect(shared.matrix.buffer).toBeInstanceOf(SharedArrayBuffer)
+    expect(Array.from(shared.matrix)).toEqual(Array.from(plain.matrix))
+    expect(Array.from(shared.codes[1])).toEqual([MISSING_BIN, 0, 0, 1])
+  })
+
   it('closes quantile bins greedily at (rows left) / (bins left)', () => {
     // By hand, 1..10 into 5 bins: {1,2} {3,4} {5,6} {7,8} {9,10}.
     const binned = binFeatures(matrixOf([10, 9, 8, 7, 6, 5, 4, 3, 2, 1]), { maxBins: 5 })

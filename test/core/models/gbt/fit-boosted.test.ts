@@ -172,6 +172,58 @@ describe('fitBoosted(binned, target, {task: regression})', () => {
     expect(Math.min(x1.gain, x4.gain)).toBeGreaterThan(x7.gain)
   })
 
+  describe('excludeFeatures (drop-column refits from one binned matrix)', () => {
+    /** Friedman #1 with 5% missing in x2 and x7, so the excluded and the kept columns route NaN. */
+    function withMissing(seed: number) {
+      const data = friedman1(800, { seed, noiseSd: 1 })
+      const random = createRandom(seed + 1)
+      for (const j of [1, 6]) for (let i = 0; i < data.matrix.rows; i++) if (random.next() < 0.05) data.matrix.columns[j][i] = NaN
+      return data
+    }
+    const without = (matrix: FeatureMatrix, drop: readonly number[]): FeatureMatrix => ({
+      rows: matrix.rows,
+      features: matrix.features.filter((_, j) => !drop.includes(j)),
+      columns: matrix.columns.filter((_, j) => !drop.includes(j)),
+    })
+
+    for (const task of ['regression', 'binary'] as const) {
+      it(`gives the model of the table without the column, bit for bit, for the same seed (${task}, subsampled)`, () => {
+        const data = withMissing(task === 'binary' ? 21 : 22)
+        const y = task === 'binary' ? data.y.map((v) => (v > 14 ? 1 : 0)) : data.y
+        const settings = { ...defaultBoostingSettings, trees: 25, rowSubsample: 0.7, columnSubsample: 0.6, minRowsPerLeaf: 5 }
+        const rows = Array.from({ length: 800 }, (_, i) => (i * 337) % 800)
+        for (const drop of [[1], [0, 6], [9]]) {
+          const masked = fitBoosted(binFeatures(data.matrix), y, { task, settings, seed: 9, rows, excludeFeatures: drop })
+          const reference = fitBoosted(binFeatures(without(data.matrix, drop)), y, { task, settings, seed: 9, rows })
+          expect(masked.featureNames).toEqual(reference.featureNames)
+          expect(modelBytes(masked).equals(modelBytes(reference))).toBe(true)
+        }
+      })
+    }
+
+    it('never splits on an excluded column, also combined with features', () => {
+      const data = withMissing(23)
+      const settings = { ...defaultBoostingSettings, trees: 10 }
+      const model = fitBoosted(binFeatures(data.matrix), data.y, {
+        task: 'regression', settings, seed: 1, features: [0, 1, 2, 3, 4], excludeFeatures: [3, 8],
+      })
+      expect(model.featureNames).toEqual(['x1', 'x2', 'x3', 'x5'])
+      const splitOn = new Set(model.ensemble.trees.flatMap((t) => Array.from(t.feature).filter((f) => f >= 0).map((f) => model.featureNames[f])))
+      expect(splitOn.has('x4')).toBe(false)
+      expect(model.splitStatistics!.map((s) => s.feature)).not.toContain('x4')
+    })
+
+    it('names a bad index and refuses to exclude every column', () => {
+      const binned = binFeatures(matrix)
+      expect(() => fitBoosted(binned, Float64Array.from(y), { task: 'regression', settings: oneTree(), seed: 1, excludeFeatures: [1] })).toThrow(
+        'fitBoosted: excludeFeatures contains 1, not a column index from 0 to 0',
+      )
+      expect(() => fitBoosted(binned, Float64Array.from(y), { task: 'regression', settings: oneTree(), seed: 1, excludeFeatures: [0] })).toThrow(
+        'fitBoosted: excludeFeatures leaves no feature to split on',
+      )
+    })
+  })
+
   it('with no allowed features predicts the training mean', () => {
     const model = fitBoosted(binFeatures(matrix), Float64Array.from(y), { task: 'regression', settings: oneTree(), seed: 1, features: [] })
     expect(model.featureNames).toEqual([])

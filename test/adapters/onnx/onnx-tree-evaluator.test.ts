@@ -1,0 +1,193 @@
+import { readFileSync } from 'node:fs'
+import ort from 'onnxruntime-node'
+import { describe, expect, it } from 'vitest'
+import type { FeatureInfo, FeatureMatrix } from '../../../src/core/data/dataset.ts'
+import { loadOnnxModel } from '../../../src/adapters/onnx/load-onnx-model.ts'
+import { exportOnnx } from '../../../src/core/models/export-onnx.ts'
+import { binFeatures } from '../../../src/core/models/gbt/bin-features.ts'
+import { fitBoosted } from '../../../src/core/models/gbt/fit-boosted.ts'
+import { encodeOnnxModel, FEATURES_METADATA_KEY, OnnxAttributeType, OnnxDataType, type OnnxAttribute } from '../../../src/core/models/onnx-proto.ts'
+import { createRandom, type Random } from '../../../src/core/statistics/random.ts'
+
+// The reference outside the project: onnxruntime 1.30 (onnxruntime-node) running the same bytes.
+// plumbline's tree evaluator (loadOnnxModel's engine 'plumbline-trees') must predict what
+// onnxruntime predicts on random rows, rows set exactly on thresholds, and missing values, to the
+// float32 rounding of onnxruntime's tree outputs.
+
+const F = 4
+const features: FeatureInfo[] = Array.from({ length: F }, (_, j) => ({ name: `x${j}`, kind: 'numeric' as const }))
+
+function rows(random: Random, n: number, thresholds: readonly number[][]): FeatureMatrix {
+  const columns = Array.from({ length: F }, (_, j) =>
+    Float64Array.from({ length: n }, (_, i) => {
+      if (random.next() < 0.1) return NaN
+      // A third of the values sit exactly on some threshold of the feature, to test the equality case.
+      if (i % 3 === 0 && thresholds[j].length > 0) return thresholds[j][random.int(thresholds[j].length)]
+      return 4 * random.normal()
+    }),
+  )
+  return { rows: n, features, columns }
+}
+
+async function onnxruntimePredict(bytes: Uint8Array, output: string, x: FeatureMatrix, type: 'float32' | 'float64', column: number) {
+  const session = await ort.InferenceSession.create(bytes)
+  const data = type === 'float32' ? new Float32Array(x.rows * F) : new Float64Array(x.rows * F)
+  for (let i = 0; i < x.rows; i++) for (let j = 0; j < F; j++) data[i * F + j] = x.columns[j][i]
+  const result = await session.run({ X: new ort.Tensor(type, data, [x.rows, F]) }, [output])
+  const values = result[output].data as Float32Array
+  const width = result[output].dims[1] ?? 1
+  return Float64Array.from({ length: x.rows }, (_, i) => values[i * width + column])
+}
+
+async function expectAgreement(
+  bytes: Uint8Array, task: 'binary' | 'regression', output: string, type: 'float32' | 'float64', thresholds: number[][], seed: number,
+  engine: 'plumbline-trees' | 'onnxruntime' = 'plumbline-trees',
+) {
+  const model = await loadOnnxModel(bytes, { source: 'trees.onnx', task, features, featureOrder: features.map((f) => f.name) })
+  const x = rows(createRandom(seed), 3000, thresholds)
+  const ours = await model.predict(x)
+  expect(model.engine).toBe(engine)
+  if (engine === 'onnxruntime') return
+  expect(model.createReplacementPredictor?.(x)).toBeDefined()
+  const reference = await onnxruntimePredict(bytes, output, x, type, task === 'binary' ? 1 : 0)
+  for (let i = 0; i < x.rows; i++) expect(Math.abs(ours[i] - reference[i])).toBeLessThanOrEqual(1e-6 * Math.max(1, Math.abs(reference[i])))
+}
+
+const ints = (name: string, values: number[]): OnnxAttribute => ({ name, type: OnnxAttributeType.INTS, ints: values })
+const floats = (name: string, values: number[]): OnnxAttribute => ({ name, type: OnnxAttributeType.FLOATS, floats: values })
+const text = (name: string, value: string): OnnxAttribute => ({ name, type: OnnxAttributeType.STRING, s: new TextEncoder().encode(value) })
+const texts = (name: string, values: string[]): OnnxAttribute => ({ name, type: OnnxAttributeType.STRINGS, strings: values.map((v) => new TextEncoder().encode(v)) })
+
+/**
+ * Random trees in ONNX attribute form: every branch mode but EQ/NEQ, random missing directions,
+ * node ids shuffled within each tree (not root-first), float32 thresholds. Leaves carry one
+ * weight per class id in `classes`.
+ */
+function randomTrees(random: Random, count: number, classes: number, leafWeight: () => number) {
+  const a = { treeIds: [] as number[], nodeIds: [] as number[], featureIds: [] as number[], modes: [] as string[], values: [] as number[], trueIds: [] as number[], falseIds: [] as number[], tracks: [] as number[] }
+  const leaves = { treeIds: [] as number[], nodeIds: [] as number[], ids: [] as number[], weights: [] as number[] }
+  const thresholds: number[][] = Array.from({ length: F }, () => [])
+  const modes = ['BRANCH_LEQ', 'BRANCH_LT', 'BRANCH_GTE', 'BRANCH_GT']
+  for (let t = 0; t < count; t++) {
+    const size = 2 ** (1 + random.int(4)) - 1 // a full tree of 1..4 levels of branches
+    const ids = Array.from({ length: size }, (_, k) => k * 7 + 3)
+    for (let k = ids.length - 1; k > 0; k--) {
+      const j = random.int(k + 1)
+      ;[ids[k], ids[j]] = [ids[j], ids[k]]
+    }
+    for (let k = 0; k < size; k++) {
+      a.treeIds.push(t)
+      a.nodeIds.push(ids[k])
+      const isLeaf = 2 * k + 1 >= size
+      if (isLeaf) {
+        a.featureIds.push(0)
+        a.modes.push('LEAF')
+        a.values.push(0)
+        a.trueIds.push(0)
+        a.falseIds.push(0)
+        a.tracks.push(0)
+        for (let c = 0; c < classes; c++) {
+          leaves.treeIds.push(t)
+          leaves.nodeIds.push(ids[k])
+          leaves.ids.push(c)
+          leaves.weights.push(Math.fround(leafWeight()))
+        }
+      } else {
+        const f = random.int(F)
+        const threshold = Math.fround(4 * random.normal())
+        thresholds[f].push(threshold)
+        a.featureIds.push(f)
+        a.modes.push(modes[random.int(modes.length)])
+        a.values.push(threshold)
+        a.trueIds.push(ids[2 * k + 1])
+        a.falseIds.push(ids[2 * k + 2])
+        a.tracks.push(random.next() < 0.5 ? 1 : 0)
+      }
+    }
+  }
+  const attributes = (prefix: string): OnnxAttribute[] => [
+    ints('nodes_treeids', a.treeIds), ints('nodes_nodeids', a.nodeIds), ints('nodes_featureids', a.featureIds), texts('nodes_modes', a.modes),
+    floats('nodes_values', a.values), ints('nodes_truenodeids', a.trueIds), ints('nodes_falsenodeids', a.falseIds),
+    ints('nodes_missing_value_tracks_true', a.tracks), ints(`${prefix}_treeids`, leaves.treeIds), ints(`${prefix}_nodeids`, leaves.nodeIds),
+    ints(`${prefix}_ids`, leaves.ids), floats(`${prefix}_weights`, leaves.weights),
+  ]
+  return { attributes, thresholds }
+}
+
+function treeModel(node: { opType: string; attribute: OnnxAttribute[]; output: string[] }, elemType: number, outputs: { name: string; elemType: number; dims: (number | string)[] }[]) {
+  return encodeOnnxModel({
+    irVersion: 8,
+    producerName: 'plumbline-test',
+    opsetImport: [{ domain: '', version: 15 }, { domain: 'ai.onnx.ml', version: 3 }],
+    metadataProps: [{ key: FEATURES_METADATA_KEY, value: JSON.stringify(features.map((f) => f.name)) }],
+    graph: {
+      name: 'trees',
+      node: [{ ...node, input: ['X'], domain: 'ai.onnx.ml', name: 'trees' }],
+      input: [{ name: 'X', type: { tensorType: { elemType, shape: { dim: [{ dimParam: 'N' }, { dimValue: F }] } } } }],
+      output: outputs.map((o) => ({
+        name: o.name,
+        type: { tensorType: { elemType: o.elemType, shape: { dim: o.dims.map((d) => (typeof d === 'number' ? { dimValue: d } : { dimParam: d })) } } },
+      })),
+    },
+  })
+}
+
+describe('loadOnnxModel on tree ensembles: plumbline evaluates them, as onnxruntime 1.30 does', () => {
+  for (const [input, elemType] of [['float32', OnnxDataType.FLOAT], ['float64', OnnxDataType.DOUBLE]] as const) {
+    for (const aggregate of ['SUM', 'AVERAGE']) {
+      it(`TreeEnsembleRegressor, every branch mode, ${aggregate}, ${input} input`, async () => {
+        const random = createRandom(elemType * 10 + aggregate.length)
+        const { attributes, thresholds } = randomTrees(random, 25, 1, () => random.normal())
+        const bytes = treeModel(
+          { opType: 'TreeEnsembleRegressor', output: ['prediction'], attribute: [...attributes('target'), { name: 'n_targets', type: OnnxAttributeType.INT, i: 1 }, text('aggregate_function', aggregate), text('post_transform', 'NONE'), floats('base_values', [0.75])] },
+          elemType,
+          [{ name: 'prediction', elemType: OnnxDataType.FLOAT, dims: ['N', 1] }],
+        )
+        await expectAgreement(bytes, 'regression', 'prediction', input, thresholds, 7)
+      })
+    }
+    for (const post of ['NONE', 'LOGISTIC', 'SOFTMAX']) {
+      // LOGISTIC and SOFTMAX over two classes stay with onnxruntime (see parseOnnxTreeEnsemble).
+      it(`TreeEnsembleClassifier, two classes, post_transform ${post}, ${input} input${post === 'NONE' ? '' : ': left to onnxruntime'}`, async () => {
+        const random = createRandom(elemType * 100 + post.length)
+        const count = 20
+        // NONE sums the weights as probabilities, so they stay in [0, 1 / count] there.
+        const { attributes, thresholds } = randomTrees(random, count, 2, post === 'NONE' ? () => random.next() / count : () => random.normal())
+        const bytes = treeModel(
+          { opType: 'TreeEnsembleClassifier', output: ['label', 'probabilities'], attribute: [...attributes('class'), ints('classlabels_int64s', [0, 1]), text('post_transform', post), ...(post === 'NONE' ? [] : [floats('base_values', [0.2, -0.1])])] },
+          elemType,
+          [{ name: 'label', elemType: OnnxDataType.INT64, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', 2] }],
+        )
+        await expectAgreement(bytes, 'binary', 'probabilities', input, thresholds, 8, post === 'NONE' ? 'plumbline-trees' : 'onnxruntime')
+      })
+    }
+  }
+
+  for (const task of ['regression', 'binary'] as const) {
+    it(`a ${task} model from plumbline's own exporter (exportOnnx), with NaN and values on thresholds`, async () => {
+      const random = createRandom(task === 'binary' ? 31 : 32)
+      const x = rows(random, 1500, Array.from({ length: F }, () => []))
+      const y = Float64Array.from({ length: x.rows }, (_, i) => {
+        const s = (x.columns[0][i] || 0) - 0.5 * (x.columns[1][i] || 0) * (x.columns[2][i] || 0) + random.normal()
+        return task === 'binary' ? (s > 0 ? 1 : 0) : s
+      })
+      const fitted = fitBoosted(binFeatures(x), y, { task, seed: 2, settings: { trees: 40, maxDepth: 5, learningRate: 0.2, minRowsPerLeaf: 5, l2: 1, rowSubsample: 0.8, columnSubsample: 0.8 } })
+      const thresholds = Array.from({ length: F }, (_, j) => fitted.ensemble.trees.flatMap((t) => Array.from(t.feature).flatMap((f, node) => (f === j ? [t.threshold[node]] : []))))
+      await expectAgreement(exportOnnx(fitted), task, task === 'binary' ? 'probabilities' : 'prediction', 'float64', thresholds, 33)
+    })
+  }
+
+  it('keeps onnxruntime for a graph it cannot read (per-column inputs), and says so', async () => {
+    const bytes = new Uint8Array(readFileSync(new URL('../../fixtures/onnx/per-column-regressor.onnx', import.meta.url)))
+    const columns: FeatureInfo[] = [
+      { name: 'distance_km', kind: 'numeric' },
+      { name: 'weight_kg', kind: 'numeric' },
+      { name: 'stop_count', kind: 'numeric' },
+      { name: 'region', kind: 'categorical', categories: ['east', 'north', 'south'] },
+    ]
+    const model = await loadOnnxModel(bytes, { source: 'per-column.onnx', task: 'regression', features: columns })
+    await model.predict({ rows: 1, features: columns, columns: [Float64Array.of(12), Float64Array.of(2), Float64Array.of(3), Float64Array.of(1)] })
+    expect(model.engine).toBe('onnxruntime')
+    expect(model.createReplacementPredictor?.({ rows: 0, features: columns, columns: columns.map(() => new Float64Array(0)) })).toBeUndefined()
+  })
+})
