@@ -23,6 +23,12 @@ export const defaultData = deepFreeze({
 
 export const defaultPrepare = deepFreeze({ timeoutSeconds: 600 })
 
+/**
+ * The built-in learner's defaults, the one set every fit uses (common practice, not tuned for any
+ * data set): 200 rounds of depth-4 trees at learning rate 0.1, at least 20 rows per leaf (LightGBM's
+ * min_data_in_leaf default), lambda 1 (XGBoost's default), and 0.8 of the rows and features per tree
+ * so that reseeded refits differ, which the noise floor needs; 255 bins (XGBoost hist's default).
+ */
 export const defaultBoosting: BuiltinSettings = deepFreeze({
   trees: 200,
   maxDepth: 4,

@@ -25,22 +25,6 @@ export interface BoostingSettings {
 }
 
 /**
- * Defaults (common practice, not tuned for any data set): 200 rounds of depth-6 trees at learning
- * rate 0.1 (XGBoost's default depth), at least 20 rows per leaf (LightGBM's min_data_in_leaf
- * default), lambda 1 (XGBoost's default), and 0.8 of the rows and features per tree so that reseeded
- * refits differ, which the noise floor needs.
- */
-export const defaultBoostingSettings: BoostingSettings = {
-  trees: 200,
-  maxDepth: 6,
-  learningRate: 0.1,
-  minRowsPerLeaf: 20,
-  l2: 1,
-  rowSubsample: 0.8,
-  columnSubsample: 0.8,
-}
-
-/**
  * The smallest hessian sum a child may have. For squared error every row has hessian 1, so this adds
  * nothing to minRowsPerLeaf; for log loss it keeps a leaf of confidently predicted rows (hessians
  * p(1-p) near 0) from taking a huge Newton step. 1 is XGBoost's default min_child_weight.

@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest'
 import type { FeatureMatrix } from '../../../../src/core/data/dataset.ts'
 import { binFeatures } from '../../../../src/core/models/gbt/bin-features.ts'
-import { defaultBoostingSettings, fitBoosted, type BoostingSettings } from '../../../../src/core/models/gbt/fit-boosted.ts'
+import { fitBoosted, type BoostingSettings } from '../../../../src/core/models/gbt/fit-boosted.ts'
+import { defaultBoosting } from '../../../../src/core/policy/policy-defaults.ts'
+
+// The policy's defaults (docs/policy.md), without the binning setting the fit does not read.
+const { maxBins: _maxBins, ...defaultBoostingSettings } = defaultBoosting
 import type { BoostedModel } from '../../../../src/core/models/gbt/boosted-model.ts'
 import { createRandom } from '../../../../src/core/statistics/random.ts'
 import { friedman1 } from './friedman1.ts'
