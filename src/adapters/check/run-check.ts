@@ -7,7 +7,7 @@ import { UserError } from '../../core/errors.ts'
 import { readPolicyFile, checkPolicyAgainstColumns, type PolicyFile } from '../../core/policy/parse-policy.ts'
 import type { GateReport } from '../../core/report/report.ts'
 import { runGate, type GateProgress, type SideInputs } from '../../core/run-gate.ts'
-import { readDataset } from '../files/read-dataset.ts'
+import { readTable } from '../files/read-table.ts'
 import { addWorktree, defaultBase, readFileAtCommit, repositoryRoot, resolveCommit } from '../git/git.ts'
 import { runPrepare } from './run-prepare.ts'
 import { loadSideModel } from './load-side-model.ts'
@@ -103,7 +103,7 @@ async function loadSide(
   const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout }
   const tables: Partial<Record<DataFileRequest['role'], Dataset>> = {}
   for (const file of sideDataFiles(config)) {
-    tables[file.role] = await readDataset(file.path, {
+    tables[file.role] = await readTable(file.path, {
       ...readOptions,
       source: `${side}:${file.path}`,
       requireTarget: file.requireTarget,
