@@ -118,7 +118,33 @@ export type RankShiftCheckConfig = Omit<RankShiftOptions, 'minRelativeChange'> &
 
 export type ScoreCheckConfig = Omit<ScoreRegressionOptions, 'metric' | 'higherIsBetter' | 'blockAtSds'>
 
+/** Prediction sensitivity (policy `checks.sensitivity`): changes between the sides, and unlabeled rows against the holdout. */
+export interface SensitivityCheckConfig {
+  readonly action: CheckAction
+  /** Benjamini–Hochberg level over features for "this feature's sensitivity changed". */
+  readonly falseDiscoveryRate: number
+  /** A significant change counts when it is at least this share of the larger side's value. */
+  readonly minRelativeChange: number
+  /** Unlabeled rows against the holdout: flagged at this ratio (or its inverse) and beyond noise. */
+  readonly unlabeledRatio: number
+  /** Only features whose sensitivity is at least this share of the side's largest one are judged. */
+  readonly minShare: number
+}
+
+/** Built-in gain importance (policy `checks.gain`): a feature the trees split on much that does not help on the holdout. */
+export interface GainCheckConfig {
+  readonly action: CheckAction
+  /** Judged when among this many top features by gain. */
+  readonly topRanks: number
+  /** ... and with at least this share of the model's total gain. */
+  readonly minGainShare: number
+  /** ... and with at least this many distinct values in the training rows (high cardinality). */
+  readonly minDistinct: number
+}
+
 export interface ChecksConfig {
+  readonly sensitivity: SensitivityCheckConfig
+  readonly gain: GainCheckConfig
   readonly leakage: LeakageCheckConfig
   readonly rankShift: RankShiftCheckConfig
   readonly score: ScoreCheckConfig

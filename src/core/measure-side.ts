@@ -2,6 +2,7 @@ import type { Dataset, FeatureMatrix, Task } from './data/dataset.ts'
 import { selectFeatures, selectRows } from './data/dataset.ts'
 import { computeNoiseFloor, type FlooredImportance } from './importance/compute-noise-floor.ts'
 import { permutationImportance, type FeatureGroup, type ImportanceEstimate } from './importance/permutation-importance.ts'
+import { predictionSensitivity, type SensitivityEstimate } from './importance/prediction-sensitivity.ts'
 import type { Metric } from './metrics/metric.ts'
 import { rocAuc } from './metrics/roc-auc.ts'
 import { rSquared } from './metrics/r-squared.ts'
@@ -17,6 +18,8 @@ export interface MeasureSideInputs {
   /** Refits the model; or, for a loaded model, `model` is given and there is one "refit". */
   readonly fit?: Fit
   readonly model?: Model
+  /** Rows without labels, for prediction sensitivity (capped like the holdout). */
+  readonly unlabeled?: FeatureMatrix
 }
 
 export interface MeasureSideOptions {
@@ -33,6 +36,15 @@ export interface MeasureSideOptions {
   readonly onRefit?: (refit: number, of: number) => void
   /** Ask the fit for every refit at once (training commands, which run up to their own parallel limit). */
   readonly concurrentFits?: boolean
+  /** Measure prediction sensitivity in every refit (on the capped holdout, and on `unlabeled`). */
+  readonly sensitivity?: { readonly threshold?: number }
+}
+
+/** Per refit, in refit order: each unit's prediction sensitivity (feature order, then groups). */
+export interface SideSensitivity {
+  readonly holdout: readonly (readonly SensitivityEstimate[])[]
+  readonly unlabeled?: readonly (readonly SensitivityEstimate[])[]
+  readonly unlabeledRows: number
 }
 
 export interface SideMeasurement {
@@ -47,6 +59,9 @@ export interface SideMeasurement {
   /** Holdout predictions of the first refit, for a paired bootstrap when there is one refit. */
   readonly firstPredictions: Float64Array
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
+  readonly sensitivity?: SideSensitivity
+  /** Built-in gradient boosting only: gain and split count per feature, per refit (in-sample). */
+  readonly splitStatistics?: readonly (readonly { readonly feature: string; readonly gain: number; readonly splits: number }[])[]
 }
 
 /** The seed of refit r. The same on both sides, so a change that alters nothing alters no number. */
@@ -68,6 +83,9 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
   const evaluation = capRows(holdout, options.evaluationRows, deriveSeed(options.seed, 'evaluation-rows'))
   const reference = capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, 'reference-rows'))
   const featureOrder = train.features.map((f) => f.name)
+  const unlabeled = inputs.unlabeled && options.sensitivity ? capRows(inputs.unlabeled, options.evaluationRows, deriveSeed(options.seed, 'unlabeled-rows')) : undefined
+  const sensitivity = { holdout: [] as SensitivityEstimate[][], unlabeled: [] as SensitivityEstimate[][] }
+  const splitStatistics: { feature: string; gain: number; splits: number }[][] = []
 
   const refitSeeds: number[] = []
   const scores: number[] = []
@@ -97,6 +115,14 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
       groups: options.groups,
     })
     perRefit.push(canonicalOrder(result.importances, featureOrder, options.groups, options.draws))
+    if (model.splitStatistics) splitStatistics.push(model.splitStatistics.map((s) => ({ feature: s.feature, gain: s.gain, splits: s.splits })))
+    if (options.sensitivity) {
+      // The same draw seed on both sides and in every refit: common random numbers, as for importance.
+      const settings = { draws: options.draws, seed: deriveSeed(options.seed, 'sensitivity'), reference, groups: options.groups, threshold: options.sensitivity.threshold }
+      const order = (units: SensitivityEstimate[]) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, options.sensitivity!.threshold)
+      sensitivity.holdout.push(order(await predictionSensitivity(model, evaluation, settings)))
+      if (unlabeled) sensitivity.unlabeled.push(order(await predictionSensitivity(model, unlabeled, settings)))
+    }
   }
   return {
     refitSeeds,
@@ -109,7 +135,42 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
     model: modelInfo,
     firstPredictions,
     noiseCovers: refits < 2 ? 'draws-only' : 'refits-and-draws',
+    ...(options.sensitivity
+      ? {
+          sensitivity: {
+            holdout: sensitivity.holdout,
+            ...(unlabeled ? { unlabeled: sensitivity.unlabeled } : {}),
+            unlabeledRows: unlabeled?.rows ?? 0,
+          },
+        }
+      : {}),
+    ...(splitStatistics.length === refits ? { splitStatistics } : {}),
   }
+}
+
+/** Sensitivity estimates in the side's feature order then group order; an unused feature gets exact zeros. */
+function canonicalSensitivity(
+  estimates: readonly SensitivityEstimate[],
+  featureOrder: readonly string[],
+  groups: readonly FeatureGroup[],
+  draws: number,
+  threshold: number | undefined,
+): SensitivityEstimate[] {
+  const byKey = new Map(estimates.map((e) => [`${e.isGroup ? 'g' : 'f'}:${e.name}`, e]))
+  const zeros = new Array<number>(draws).fill(0)
+  const zero = (name: string, members: readonly string[], isGroup: boolean): SensitivityEstimate => ({
+    name,
+    members,
+    isGroup,
+    draws: zeros,
+    mean: 0,
+    ...(threshold !== undefined ? { flipDraws: zeros, flipShare: 0 } : {}),
+  })
+  const present = new Set(featureOrder)
+  return [
+    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
+    ...groups.filter((g) => g.members.every((m) => present.has(m))).map((g) => byKey.get(`g:${g.name}`) ?? zero(g.name, g.members, true)),
+  ]
 }
 
 /**

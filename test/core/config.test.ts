@@ -38,6 +38,8 @@ describe('the named defaults', () => {
       rankShift: { action: 'warn', falseDiscoveryRate: 0.05, minPositions: 2, agreementPercentile: 5 },
       score: { action: 'block', tolerance: 0.0, alpha: 0.05 },
       holdoutRows: { action: 'block' },
+      sensitivity: { action: 'warn', falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
+      gain: { action: 'warn', topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
     })
     expect(defaultReport).toEqual({ maxTableRows: 50 })
   })

@@ -110,11 +110,11 @@ async function loadSide(
       ...(file.conformToTrain ? { schema: schemaOf(tables.train!) } : {}),
     })
   }
-  const { train, holdout, reference } = assembleSideData(config, tables)
+  const { train, holdout, reference, unlabeled } = assembleSideData(config, tables)
   checkPolicyAgainstColumns(policy, [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])])
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
   const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
-  return { ref, commit, train, holdout, reference, model }
+  return { ref, commit, train, holdout, reference, ...(unlabeled ? { unlabeled } : {}), model }
 }
 
 function toRepoPath(path: string): string {

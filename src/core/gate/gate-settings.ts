@@ -65,6 +65,8 @@ export function gateSettings(config: GateConfig) {
     },
     score: { ...config.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
     holdoutRows: config.checks.holdoutRows.action,
+    sensitivity: config.checks.sensitivity,
+    gain: config.checks.gain,
   }
   return {
     task: config.task,
@@ -76,6 +78,8 @@ export function gateSettings(config: GateConfig) {
     evaluationRows: config.importance.evaluationRows,
     referenceRows: config.importance.referenceRows,
     groups,
+    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
+    sensitivity: config.checks.sensitivity.action === 'off' ? undefined : config.task === 'binary' ? { threshold: 0.5 } : {},
     learner,
     pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
     singleFeatureTop: fixedSettings.singleFeatureTop,
@@ -96,6 +100,8 @@ export function gateSettings(config: GateConfig) {
       },
       score: { ...snakeKeys(config.checks.score), 'block_at_reseed_sds (fixed)': fixedSettings.scoreBlockAtSds },
       holdout_rows: snakeKeys(config.checks.holdoutRows),
+      sensitivity: snakeKeys(config.checks.sensitivity),
+      gain: snakeKeys(config.checks.gain),
     },
   }
 }

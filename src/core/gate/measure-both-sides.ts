@@ -28,7 +28,7 @@ export function measureJob(
         ? { fit: model.fit }
         : { model: model.model }
   return {
-    inputs: { side, train: data.train, holdout: data.holdout, reference: data.reference, ...source },
+    inputs: { side, train: data.train, holdout: data.holdout, reference: data.reference, ...(data.unlabeled ? { unlabeled: data.unlabeled } : {}), ...source },
     options: {
       task: settings.task,
       metric,
@@ -40,6 +40,7 @@ export function measureJob(
       referenceRows: settings.referenceRows,
       onRefit: (refit, of) => onProgress?.({ stage: 'refit', side, refit, of }),
       concurrentFits: model.kind === 'command',
+      ...(settings.sensitivity ? { sensitivity: settings.sensitivity } : {}),
     },
     ...(model.kind === 'builtin' ? { builtin: { task: settings.task, settings: settings.learner } } : {}),
   }

@@ -76,6 +76,8 @@ export const defaultChecks: ChecksConfig = deepFreeze({
   },
   score: { action: 'block', tolerance: 0, alpha: 0.05 },
   holdoutRows: { action: 'block' },
+  sensitivity: { action: 'warn', falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
+  gain: { action: 'warn', topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
 })
 
 export const defaultReport: ReportConfig = deepFreeze({ maxTableRows: 50 })

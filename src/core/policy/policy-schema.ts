@@ -220,6 +220,19 @@ const checksSchema = mapping({
   holdout_rows: mapping({
     action: checkAction.default(defaultChecks.holdoutRows.action),
   }).prefault({}),
+  sensitivity: mapping({
+    action: checkAction.default(defaultChecks.sensitivity.action),
+    false_discovery_rate: realNumber({ above: 0, below: 1 }).default(defaultChecks.sensitivity.falseDiscoveryRate),
+    min_relative_change: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.sensitivity.minRelativeChange),
+    unlabeled_ratio: realNumber({ above: 1 }).default(defaultChecks.sensitivity.unlabeledRatio),
+    min_share: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.sensitivity.minShare),
+  }).prefault({}),
+  gain: mapping({
+    action: checkAction.default(defaultChecks.gain.action),
+    top_ranks: wholeNumber(1).default(defaultChecks.gain.topRanks),
+    min_gain_share: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.gain.minGainShare),
+    min_distinct: wholeNumber(2).default(defaultChecks.gain.minDistinct),
+  }).prefault({}),
 })
 
 const reportSchema = mapping({
@@ -359,6 +372,19 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       },
       score: { action: checks.score.action, tolerance: checks.score.tolerance, alpha: checks.score.alpha },
       holdoutRows: { action: checks.holdout_rows.action },
+      sensitivity: {
+        action: checks.sensitivity.action,
+        falseDiscoveryRate: checks.sensitivity.false_discovery_rate,
+        minRelativeChange: checks.sensitivity.min_relative_change,
+        unlabeledRatio: checks.sensitivity.unlabeled_ratio,
+        minShare: checks.sensitivity.min_share,
+      },
+      gain: {
+        action: checks.gain.action,
+        topRanks: checks.gain.top_ranks,
+        minGainShare: checks.gain.min_gain_share,
+        minDistinct: checks.gain.min_distinct,
+      },
     },
     report: { maxTableRows: policy.report.max_table_rows },
   })

@@ -254,7 +254,7 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `group_name: ${example(numeric, ['column_a', 'column_b'])}`),
   ])
 
-  const { leakage, rankShift, score, holdoutRows } = defaultChecks
+  const { leakage, rankShift, score, holdoutRows, sensitivity, gain } = defaultChecks
   const checks = renderBlock([
     key(0, 'checks:'),
     key(1, 'leakage:', 'one feature carries the model'),
@@ -274,6 +274,17 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `alpha: ${score.alpha}`),
     key(1, 'holdout_rows:', 'the holdout rows differ between base and head'),
     key(2, `action: ${holdoutRows.action}`),
+    key(1, 'sensitivity:', 'how much predictions move when a feature is replaced (no labels needed)'),
+    key(2, `action: ${sensitivity.action}`),
+    optional(2, `false_discovery_rate: ${sensitivity.falseDiscoveryRate}`),
+    optional(2, `min_relative_change: ${sensitivity.minRelativeChange}`),
+    optional(2, `unlabeled_ratio: ${sensitivity.unlabeledRatio}`, 'data.unlabeled against the holdout'),
+    optional(2, `min_share: ${sensitivity.minShare}`),
+    key(1, 'gain:', 'the built-in trees split on a feature that does not help on the holdout'),
+    key(2, `action: ${gain.action}`),
+    optional(2, `top_ranks: ${gain.topRanks}`),
+    optional(2, `min_gain_share: ${gain.minGainShare}`),
+    optional(2, `min_distinct: ${gain.minDistinct}`),
   ])
 
   const report = renderBlock([key(0, 'report:'), optional(1, `max_table_rows: ${defaultReport.maxTableRows}`)])

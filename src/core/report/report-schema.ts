@@ -69,6 +69,9 @@ const findingSchema = z.strictObject({
     'policy-changed',
     'noise-model',
     'run-error',
+    'sensitivity-shift',
+    'sensitivity-unlabeled',
+    'gain-noise',
   ]),
   severity: z.enum(['block', 'warn', 'info']),
   feature: text.optional(),
@@ -139,6 +142,36 @@ const rankAgreementSchema = z.strictObject({
   featuresCompared: count,
 }).meta({ id: 'RankAgreement' })
 
+const sensitivityValueSchema = z.strictObject({
+  mean: finite,
+  refitSd: undefinedNumber,
+  flipShare: finite.nullable(),
+  perRefit: list(finite),
+}).meta({ id: 'SensitivityValue' })
+
+const sensitivitySideSchema = z.strictObject({ holdout: sensitivityValueSchema, unlabeled: sensitivityValueSchema.optional() })
+
+const sensitivityReportSchema = z.strictObject({
+  threshold: finite.nullable(),
+  unlabeledRows: z.strictObject({ base: count, head: count }),
+  features: list(
+    z.strictObject({
+      name: text,
+      isGroup: z.boolean(),
+      base: sensitivitySideSchema.optional(),
+      head: sensitivitySideSchema.optional(),
+      change: z.strictObject({ pValue: undefinedNumber, adjustedPValue: undefinedNumber, isSignificant: z.boolean() }).optional(),
+    }),
+  ),
+}).meta({ id: 'SensitivityReport' })
+
+const gainValueSchema = z.strictObject({ gain: finite, splits: finite, share: undefinedNumber, rank: z.int().min(1) })
+
+const gainReportSchema = z.strictObject({
+  caution: text,
+  features: list(z.strictObject({ name: text, base: gainValueSchema.optional(), head: gainValueSchema.optional() })),
+}).meta({ id: 'GainReport' })
+
 export const gateReportSchema = z
   .strictObject({
     schemaVersion: z.literal(1),
@@ -167,6 +200,8 @@ export const gateReportSchema = z
       checks: record(evidenceSchema),
     }),
     timings: record(z.number().min(0)),
+    sensitivity: sensitivityReportSchema.optional(),
+    gain: gainReportSchema.optional(),
     caution: text.min(1),
   })
   .meta({

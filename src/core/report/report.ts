@@ -19,6 +19,9 @@ export type FindingKind =
   | 'policy-changed' // the pull request changes the policy file itself
   | 'noise-model' // how much noise the floor covers (loaded models cannot be reseeded)
   | 'run-error' // the run failed; verdict 'error'
+  | 'sensitivity-shift' // how much predictions move with a feature changed between the sides beyond reseed noise
+  | 'sensitivity-unlabeled' // on the unlabeled rows a feature moves predictions much more or less than on the holdout
+  | 'gain-noise' // ranked high by the trees' gain, indistinguishable from zero on the holdout
 
 /** Evidence values are plain numbers, strings, booleans or null, so the JSON stays flat and diffable. */
 export type Evidence = Readonly<Record<string, number | string | boolean | null>>
@@ -115,6 +118,65 @@ export interface RankAgreement {
   readonly featuresCompared: number
 }
 
+/** Prediction sensitivity of one feature or group on one side and one set of rows, over refits. */
+export interface SensitivityValue {
+  /** Mean over refits of the mean absolute change of the output (binary: of the probability). */
+  readonly mean: number
+  /** SD across refits of the per-refit values (NaN for one refit). */
+  readonly refitSd: number
+  /** Binary only: mean share of rows whose decision flips at the threshold; null for regression. */
+  readonly flipShare: number | null
+  /** Per refit, the mean over draws. */
+  readonly perRefit: readonly number[]
+}
+
+export interface SensitivitySide {
+  readonly holdout: SensitivityValue
+  /** On `data.unlabeled`, when the policy names it. */
+  readonly unlabeled?: SensitivityValue
+}
+
+export interface SensitivityRow {
+  readonly name: string
+  readonly isGroup: boolean
+  readonly base?: SensitivitySide
+  readonly head?: SensitivitySide
+  /** Both sides: Welch's test of the holdout values, Benjamini–Hochberg over the units compared. */
+  readonly change?: { readonly pValue: number; readonly adjustedPValue: number; readonly isSignificant: boolean }
+}
+
+/** Prediction sensitivity (Datta, Sen & Zick 2016, unary influence), measured without labels. */
+export interface SensitivityReport {
+  /** Binary: the decision threshold on the probability (0.5); null for regression. */
+  readonly threshold: number | null
+  /** Rows of `data.unlabeled` measured per side (0 without it). */
+  readonly unlabeledRows: { readonly base: number; readonly head: number }
+  /** Head's holdout value first. */
+  readonly features: readonly SensitivityRow[]
+}
+
+export interface GainValue {
+  /** Mean over refits of the summed split gain (in-sample loss reduction). */
+  readonly gain: number
+  /** Mean over refits of the number of splits. */
+  readonly splits: number
+  /** Share of the side's total gain. */
+  readonly share: number
+  /** 1-based rank by gain among the side's features. */
+  readonly rank: number
+}
+
+/** The built-in gradient boosting's gain and split counts, beside permutation importance. */
+export interface GainReport {
+  readonly caution: string
+  /** Head's gain first. */
+  readonly features: readonly { readonly name: string; readonly base?: GainValue; readonly head?: GainValue }[]
+}
+
+export const gainCaution =
+  'Gain is measured on the training rows (in-sample) and favours continuous and high-cardinality ' +
+  'features (Strobl, Boulesteix, Zeileis & Hothorn 2007); permutation importance on the holdout is the measure to judge by.'
+
 export interface GateReport {
   readonly schemaVersion: 1
   readonly tool: { readonly name: 'plumbline'; readonly version: string }
@@ -147,6 +209,10 @@ export interface GateReport {
   }
   /** Wall-clock seconds per stage, measured by the adapter; not part of the deterministic content. */
   readonly timings: Readonly<Record<string, number>>
+  /** Prediction sensitivity per feature; absent when checks.sensitivity is off. */
+  readonly sensitivity?: SensitivityReport
+  /** Built-in gradient boosting only. */
+  readonly gain?: GainReport
   /** Always present: a pass is not proof of the absence of leakage. */
   readonly caution: string
 }

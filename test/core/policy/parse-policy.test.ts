@@ -152,6 +152,17 @@ checks:
     alpha: 0.01
   holdout_rows:
     action: warn
+  sensitivity:
+    action: block
+    false_discovery_rate: 0.1
+    min_relative_change: 0.3
+    unlabeled_ratio: 3
+    min_share: 0.01
+  gain:
+    action: off
+    top_ranks: 5
+    min_gain_share: 0.2
+    min_distinct: 50
 report:
   max_table_rows: 1000
 `
@@ -218,6 +229,8 @@ model:
           rankShift: { action: 'block', falseDiscoveryRate: 0.1, minPositions: 3, agreementPercentile: 2.5 },
           score: { action: 'off', tolerance: 0.002, alpha: 0.01 },
           holdoutRows: { action: 'warn' },
+          sensitivity: { action: 'block', falseDiscoveryRate: 0.1, minRelativeChange: 0.3, unlabeledRatio: 3, minShare: 0.01 },
+          gain: { action: 'off', topRanks: 5, minGainShare: 0.2, minDistinct: 50 },
         },
         report: { maxTableRows: 1000 },
       })
