@@ -39,7 +39,39 @@ export interface GateConfig {
   readonly model: ModelConfig
   readonly importance: ImportanceConfig
   readonly checks: ChecksConfig
+  /** Named subsets of the holdout rows, each scored and measured on its own (policy `slices`). */
+  readonly slices: readonly SliceConfig[]
   readonly report: ReportConfig
+}
+
+/**
+ * A row filter, as data (no formula language): one comparison of a column, or all / any of several
+ * filters. `equals` and `in` hold text as written (a number for a numeric column); `between` is
+ * [low, high): low included, high excluded.
+ */
+export type SliceFilter =
+  | {
+      readonly column: string
+      readonly equals?: string
+      readonly in?: readonly string[]
+      readonly atLeast?: number
+      readonly below?: number
+      readonly between?: readonly [number, number]
+      readonly isMissing?: boolean
+    }
+  | { readonly allOf: readonly SliceFilter[] }
+  | { readonly anyOf: readonly SliceFilter[] }
+
+export interface SliceConfig {
+  readonly name: string
+  readonly where: SliceFilter
+}
+
+/** Per-slice checks (policy `checks.slices`). */
+export interface SlicesCheckConfig {
+  readonly action: CheckAction
+  /** Slices with fewer holdout rows on the head side are reported as too small and not judged. */
+  readonly minRows: number
 }
 
 export interface DataConfig {
@@ -145,6 +177,7 @@ export interface GainCheckConfig {
 export interface ChecksConfig {
   readonly sensitivity: SensitivityCheckConfig
   readonly gain: GainCheckConfig
+  readonly slices: SlicesCheckConfig
   readonly leakage: LeakageCheckConfig
   readonly rankShift: RankShiftCheckConfig
   readonly score: ScoreCheckConfig

@@ -38,6 +38,16 @@ export interface MeasureSideOptions {
   readonly concurrentFits?: boolean
   /** Measure prediction sensitivity in every refit (on the capped holdout, and on `unlabeled`). */
   readonly sensitivity?: { readonly threshold?: number }
+  /** Policy slices of the holdout (row indices) to score and measure importance on, in every refit. */
+  readonly slices?: readonly { readonly name: string; readonly rows: Uint32Array }[]
+}
+
+/** One policy slice on one side: per-refit scores on its rows, and importance measured on them. */
+export interface SliceMeasurement {
+  readonly name: string
+  readonly rows: number
+  readonly scores: readonly number[]
+  readonly importances: readonly FlooredImportance[]
 }
 
 /** Per refit, in refit order: each unit's prediction sensitivity (feature order, then groups). */
@@ -62,6 +72,7 @@ export interface SideMeasurement {
   readonly sensitivity?: SideSensitivity
   /** Built-in gradient boosting only: gain and split count per feature, per refit (in-sample). */
   readonly splitStatistics?: readonly (readonly { readonly feature: string; readonly gain: number; readonly splits: number }[])[]
+  readonly slices?: readonly SliceMeasurement[]
 }
 
 /** The seed of refit r. The same on both sides, so a change that alters nothing alters no number. */
@@ -86,6 +97,7 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
   const unlabeled = inputs.unlabeled && options.sensitivity ? capRows(inputs.unlabeled, options.evaluationRows, deriveSeed(options.seed, 'unlabeled-rows')) : undefined
   const sensitivity = { holdout: [] as SensitivityEstimate[][], unlabeled: [] as SensitivityEstimate[][] }
   const splitStatistics: { feature: string; gain: number; splits: number }[][] = []
+  const slices = (options.slices ?? []).map((s) => ({ ...s, data: selectRows(holdout, s.rows), scores: [] as number[], perRefit: [] as ImportanceEstimate[][] }))
 
   const refitSeeds: number[] = []
   const scores: number[] = []
@@ -115,6 +127,20 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
       groups: options.groups,
     })
     perRefit.push(canonicalOrder(result.importances, featureOrder, options.groups, options.draws))
+    for (const slice of slices) {
+      const y = slice.data.target!.values
+      const slicePrediction = new Float64Array(slice.rows.length)
+      for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = prediction[slice.rows[k]]
+      slice.scores.push(options.metric.compute(y, slicePrediction))
+      const sliced = await permutationImportance(model, slice.data as typeof evaluation & { target: { values: Float64Array } }, {
+        metric: options.metric,
+        draws: options.draws,
+        seed: deriveSeed(options.seed, 'slice-draws', slice.name, r),
+        reference,
+        groups: options.groups,
+      })
+      slice.perRefit.push(canonicalOrder(sliced.importances, featureOrder, options.groups, options.draws))
+    }
     if (model.splitStatistics) splitStatistics.push(model.splitStatistics.map((s) => ({ feature: s.feature, gain: s.gain, splits: s.splits })))
     if (options.sensitivity) {
       // The same draw seed on both sides and in every refit: common random numbers, as for importance.
@@ -145,6 +171,9 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
         }
       : {}),
     ...(splitStatistics.length === refits ? { splitStatistics } : {}),
+    ...(slices.length > 0
+      ? { slices: slices.map((s) => ({ name: s.name, rows: s.rows.length, scores: s.scores, importances: computeNoiseFloor(s.perRefit) })) }
+      : {}),
   }
 }
 

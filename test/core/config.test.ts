@@ -40,6 +40,7 @@ describe('the named defaults', () => {
       holdoutRows: { action: 'block' },
       sensitivity: { action: 'warn', falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
       gain: { action: 'warn', topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
+      slices: { action: 'warn', minRows: 200 },
     })
     expect(defaultReport).toEqual({ maxTableRows: 50 })
   })

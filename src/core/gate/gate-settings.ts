@@ -67,6 +67,7 @@ export function gateSettings(config: GateConfig) {
     holdoutRows: config.checks.holdoutRows.action,
     sensitivity: config.checks.sensitivity,
     gain: config.checks.gain,
+    slices: config.checks.slices,
   }
   return {
     task: config.task,
@@ -81,6 +82,7 @@ export function gateSettings(config: GateConfig) {
     // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
     sensitivity: config.checks.sensitivity.action === 'off' ? undefined : config.task === 'binary' ? { threshold: 0.5 } : {},
     learner,
+    policySlices: config.slices,
     pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
     singleFeatureTop: fixedSettings.singleFeatureTop,
     singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
@@ -102,6 +104,7 @@ export function gateSettings(config: GateConfig) {
       holdout_rows: snakeKeys(config.checks.holdoutRows),
       sensitivity: snakeKeys(config.checks.sensitivity),
       gain: snakeKeys(config.checks.gain),
+      slices: snakeKeys(config.checks.slices),
     },
   }
 }

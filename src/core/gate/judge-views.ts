@@ -1,7 +1,7 @@
 /**
  * The views beside permutation importance, as one stage: prediction sensitivity (holdout and
- * unlabeled rows) and the built-in trees' gain, each summarized over refits for the report and
- * judged by its check. Pure: reads the measured sides only.
+ * unlabeled rows), the built-in trees' gain and the policy's slices (judge-slices.ts), each
+ * summarized over refits for the report and judged by its check. Pure: reads the measured sides only.
  */
 import { checkGainNoise, type GainFeature } from '../checks/gain-noise.ts'
 import { checkSensitivity, type SensitivitySample, type SensitivitySideSamples } from '../checks/sensitivity-change.ts'
@@ -9,15 +9,17 @@ import type { SideResult } from '../checks/side-result.ts'
 import type { FeatureMatrix } from '../data/dataset.ts'
 import type { SensitivityEstimate } from '../importance/prediction-sensitivity.ts'
 import type { SideMeasurement } from '../measure-side.ts'
-import { gainCaution, type Finding, type GainReport, type GainValue, type SensitivityReport, type SensitivitySide, type SensitivityValue } from '../report/report.ts'
+import { gainCaution, type Finding, type GainReport, type SliceRow, type GainValue, type SensitivityReport, type SensitivitySide, type SensitivityValue } from '../report/report.ts'
 import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
 import type { SideInputs } from './gate-inputs.ts'
 import type { GateSettings } from './gate-settings.ts'
+import { judgeSlices } from './judge-slices.ts'
 
 export interface ViewsOutcome {
   readonly findings: readonly Finding[]
   readonly sensitivity?: SensitivityReport
   readonly gain?: GainReport
+  readonly slices?: readonly SliceRow[]
 }
 
 export function judgeViews(inputs: {
@@ -57,7 +59,9 @@ export function judgeViews(inputs: {
     findings.push(...checkGainNoise(features, inputs.touched, inputs.settings.checks.gain))
     gain = { caution: gainCaution, features: gainRows(rankGain(meanGain(base.splitStatistics)), rankGain(headGain)) }
   }
-  return { findings, ...(sensitivity ? { sensitivity } : {}), ...(gain ? { gain } : {}) }
+  const sliced = judgeSlices(inputs)
+  findings.push(...sliced.findings)
+  return { findings, ...(sensitivity ? { sensitivity } : {}), ...(gain ? { gain } : {}), ...(sliced.slices ? { slices: sliced.slices } : {}) }
 }
 
 type PerRefit = readonly (readonly SensitivityEstimate[])[]

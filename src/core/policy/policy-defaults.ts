@@ -78,6 +78,7 @@ export const defaultChecks: ChecksConfig = deepFreeze({
   holdoutRows: { action: 'block' },
   sensitivity: { action: 'warn', falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
   gain: { action: 'warn', topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
+  slices: { action: 'warn', minRows: 200 },
 })
 
 export const defaultReport: ReportConfig = deepFreeze({ maxTableRows: 50 })

@@ -254,7 +254,7 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `group_name: ${example(numeric, ['column_a', 'column_b'])}`),
   ])
 
-  const { leakage, rankShift, score, holdoutRows, sensitivity, gain } = defaultChecks
+  const { leakage, rankShift, score, holdoutRows, sensitivity, gain, slices } = defaultChecks
   const checks = renderBlock([
     key(0, 'checks:'),
     key(1, 'leakage:', 'one feature carries the model'),
@@ -285,9 +285,18 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `top_ranks: ${gain.topRanks}`),
     optional(2, `min_gain_share: ${gain.minGainShare}`),
     optional(2, `min_distinct: ${gain.minDistinct}`),
+    key(1, 'slices:', 'the policy slices below: score and importance on their rows'),
+    key(2, `action: ${slices.action}`),
+    optional(2, `min_rows: ${slices.minRows}`, 'smaller slices are reported as too small'),
+  ])
+
+  const sliceBlock = renderBlock([
+    optional(0, 'slices:', 'named parts of the holdout, judged on their own'),
+    optional(1, '- name: one depot'),
+    optional(2, 'where: { column: a_column, equals: a_value }', 'also in, at_least, below, between, is_missing; all_of / any_of'),
   ])
 
   const report = renderBlock([key(0, 'report:'), optional(1, `max_table_rows: ${defaultReport.maxTableRows}`)])
 
-  return `${[header, top, data, prepare, model, importance, checks, report].join('\n\n')}\n`
+  return `${[header, top, data, prepare, model, importance, checks, sliceBlock, report].join('\n\n')}\n`
 }

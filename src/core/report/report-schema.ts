@@ -72,6 +72,10 @@ const findingSchema = z.strictObject({
     'sensitivity-shift',
     'sensitivity-unlabeled',
     'gain-noise',
+    'slice-score',
+    'slice-dominance',
+    'slice-top-features',
+    'slice-too-small',
   ]),
   severity: z.enum(['block', 'warn', 'info']),
   feature: text.optional(),
@@ -172,6 +176,23 @@ const gainReportSchema = z.strictObject({
   features: list(z.strictObject({ name: text, base: gainValueSchema.optional(), head: gainValueSchema.optional() })),
 }).meta({ id: 'GainReport' })
 
+const sliceSideSchema = z.strictObject({
+  rows: count,
+  scores: list(undefinedNumber),
+  scoreMean: undefinedNumber,
+  top: list(z.strictObject({ name: text, mean: finite, share: undefinedNumber, isAboveFloor: z.boolean() })),
+})
+
+const sliceRowSchema = z.strictObject({
+  name: text,
+  definition: text,
+  status: z.enum(['measured', 'too-small', 'one-class']),
+  rows: z.strictObject({ base: count.nullable(), head: count }),
+  base: sliceSideSchema.optional(),
+  head: sliceSideSchema.optional(),
+  scoreChange: z.strictObject({ worsening: finite, pValue: undefinedNumber, adjustedPValue: undefinedNumber }).optional(),
+}).meta({ id: 'SliceRow' })
+
 export const gateReportSchema = z
   .strictObject({
     schemaVersion: z.literal(1),
@@ -202,6 +223,7 @@ export const gateReportSchema = z
     timings: record(z.number().min(0)),
     sensitivity: sensitivityReportSchema.optional(),
     gain: gainReportSchema.optional(),
+    slices: list(sliceRowSchema).optional(),
     caution: text.min(1),
   })
   .meta({

@@ -22,6 +22,10 @@ export type FindingKind =
   | 'sensitivity-shift' // how much predictions move with a feature changed between the sides beyond reseed noise
   | 'sensitivity-unlabeled' // on the unlabeled rows a feature moves predictions much more or less than on the holdout
   | 'gain-noise' // ranked high by the trees' gain, indistinguishable from zero on the holdout
+  | 'slice-score' // a policy slice's holdout score got worse beyond reseed noise
+  | 'slice-dominance' // inside a policy slice one feature carries the model
+  | 'slice-top-features' // a policy slice's top feature is not among the overall top
+  | 'slice-too-small' // a policy slice has too few holdout rows (or one class) to judge
 
 /** Evidence values are plain numbers, strings, booleans or null, so the JSON stays flat and diffable. */
 export type Evidence = Readonly<Record<string, number | string | boolean | null>>
@@ -177,6 +181,29 @@ export const gainCaution =
   'Gain is measured on the training rows (in-sample) and favours continuous and high-cardinality ' +
   'features (Strobl, Boulesteix, Zeileis & Hothorn 2007); permutation importance on the holdout is the measure to judge by.'
 
+/** One side of a policy slice: its rows, per-refit scores and top features by importance on them. */
+export interface SliceSideSummary {
+  readonly rows: number
+  readonly scores: readonly number[]
+  readonly scoreMean: number
+  /** Up to five features by mean importance on the slice's rows. */
+  readonly top: readonly { readonly name: string; readonly mean: number; readonly share: number; readonly isAboveFloor: boolean }[]
+}
+
+export interface SliceRow {
+  readonly name: string
+  /** The filter in words. */
+  readonly definition: string
+  /** measured: scored and judged; too-small / one-class: not judged; the base may lack a column the head adds. */
+  readonly status: 'measured' | 'too-small' | 'one-class'
+  /** Holdout rows the filter keeps on each side (null: the base lacks a column the filter names). */
+  readonly rows: { readonly base: number | null; readonly head: number }
+  readonly base?: SliceSideSummary
+  readonly head?: SliceSideSummary
+  /** Both sides measured with two refits or more: the one-sided Welch test of the slice's score. */
+  readonly scoreChange?: { readonly worsening: number; readonly pValue: number; readonly adjustedPValue: number }
+}
+
 export interface GateReport {
   readonly schemaVersion: 1
   readonly tool: { readonly name: 'plumbline'; readonly version: string }
@@ -213,6 +240,8 @@ export interface GateReport {
   readonly sensitivity?: SensitivityReport
   /** Built-in gradient boosting only. */
   readonly gain?: GainReport
+  /** Policy slices, in policy order; absent without slices or with checks.slices off. */
+  readonly slices?: readonly SliceRow[]
   /** Always present: a pass is not proof of the absence of leakage. */
   readonly caution: string
 }

@@ -45,3 +45,19 @@ export function tabulateViews(report: GateReport): { readonly table: TextTable; 
   ]
   return { table: { header, align: header.map((_, i) => (i === 0 ? 'left' : 'right')), rows }, note: notes.join(' ') }
 }
+
+/** The policy's slices as one compact table: rows, score per side, top feature on the head. */
+export function tabulateSlices(report: GateReport): TextTable | null {
+  if (!report.slices || report.slices.length === 0) return null
+  const worse = new Set(report.findings.filter((f) => f.kind === 'slice-score').map((f) => f.feature))
+  const header = ['slice', 'rows (head)', `${report.settings.metric} base → head`, 'top feature (head)']
+  const rows = report.slices.map((s) => [
+    `${s.name}: ${s.definition}`,
+    `${s.rows.head}${s.status === 'measured' ? '' : s.status === 'too-small' ? ' (too small)' : ' (one class)'}`,
+    s.base || s.head
+      ? `${s.base ? formatNumber(s.base.scoreMean) : '—'} → ${s.head ? formatNumber(s.head.scoreMean) : '—'}${worse.has(s.name) ? ' *' : ''}`
+      : '—',
+    s.head?.top[0] ? `${s.head.top[0].name} (${formatPercent(s.head.top[0].share)})` : '—',
+  ])
+  return { header, align: ['left', 'right', 'right', 'left'], rows }
+}

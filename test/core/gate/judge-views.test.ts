@@ -1,32 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import { parseCsv, schemaOf } from '../../../src/core/data/parse-csv.ts'
-import { parsePolicy } from '../../../src/core/policy/parse-policy.ts'
+import { testPolicy } from './test-policy.ts'
 import { parseGateReport } from '../../../src/core/report/report-schema.ts'
 import { renderMarkdown } from '../../../src/core/report/render-markdown.ts'
 import { runGate, type SideInputs } from '../../../src/core/run-gate.ts'
 import { createRandom } from '../../../src/core/statistics/random.ts'
 
-const policy = (extra = '') =>
-  parsePolicy(
-    `version: 1
-task: binary
-target: late
-seed: 3
-data:
-  train: train.csv
-  holdout: holdout.csv
-  columns:
-    parcel_id: id
-model:
-  builtin:
-    learner: gradient-boosting
-    trees: 60
-importance:
-  refits: 3
-  draws: 3
-${extra}`,
-    { source: 'plumbline.yml' },
-  )
+const policy = testPolicy
 
 function side(ref: string, csv: string[], trainRows: number, unlabeled?: string[]): SideInputs {
   const [header, ...rows] = csv
