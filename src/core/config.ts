@@ -141,6 +141,8 @@ export interface ImportanceConfig {
   readonly evaluationRows: number
   /** Group name -> member columns, permuted jointly (null-prototype object). */
   readonly groups: Readonly<Record<string, readonly string[]>>
+  /** Automatic groups: numeric features linked by |Spearman rho| at or above this (single linkage). */
+  readonly groupThreshold: number
 }
 
 /** The policy's settings of each check are the check's own options, less what the gate fills in. */
@@ -174,7 +176,14 @@ export interface GainCheckConfig {
   readonly minDistinct: number
 }
 
+/** Correlated groups (policy `checks.correlated_groups`): a member that looks unimportant alone while its group matters. */
+export interface GroupsCheckConfig {
+  /** off also skips the automatic groups. */
+  readonly action: 'warn' | 'info' | 'off'
+}
+
 export interface ChecksConfig {
+  readonly correlatedGroups: GroupsCheckConfig
   readonly sensitivity: SensitivityCheckConfig
   readonly gain: GainCheckConfig
   readonly slices: SlicesCheckConfig

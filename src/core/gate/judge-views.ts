@@ -4,12 +4,13 @@
  * summarized over refits for the report and judged by its check. Pure: reads the measured sides only.
  */
 import { checkGainNoise, type GainFeature } from '../checks/gain-noise.ts'
+import { checkGroupCarried } from '../checks/group-carried.ts'
 import { checkSensitivity, type SensitivitySample, type SensitivitySideSamples } from '../checks/sensitivity-change.ts'
 import type { SideResult } from '../checks/side-result.ts'
 import type { FeatureMatrix } from '../data/dataset.ts'
 import type { SensitivityEstimate } from '../importance/prediction-sensitivity.ts'
 import type { SideMeasurement } from '../measure-side.ts'
-import { gainCaution, type Finding, type GainReport, type SliceRow, type GainValue, type SensitivityReport, type SensitivitySide, type SensitivityValue } from '../report/report.ts'
+import { gainCaution, type Finding, type GainReport, type GateReport, type SliceRow, type GainValue, type SensitivityReport, type SensitivitySide, type SensitivityValue } from '../report/report.ts'
 import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
 import type { SideInputs } from './gate-inputs.ts'
 import type { GateSettings } from './gate-settings.ts'
@@ -20,6 +21,7 @@ export interface ViewsOutcome {
   readonly sensitivity?: SensitivityReport
   readonly gain?: GainReport
   readonly slices?: readonly SliceRow[]
+  readonly groups?: GateReport['groups']
 }
 
 export function judgeViews(inputs: {
@@ -61,7 +63,25 @@ export function judgeViews(inputs: {
   }
   const sliced = judgeSlices(inputs)
   findings.push(...sliced.findings)
-  return { findings, ...(sensitivity ? { sensitivity } : {}), ...(gain ? { gain } : {}), ...(sliced.slices ? { slices: sliced.slices } : {}) }
+  const carried = checkGroupCarried(inputs.results.head.importances, inputs.touched, inputs.settings.checks.correlatedGroups)
+  // A member of a group that carries it shares its work with the others: its own sensitivity falling
+  // or rising is the redundancy the group finding reports, not a change of its own.
+  const members = new Map(carried.flatMap((f) => inputs.results.head.importances.filter((u) => u.isGroup && u.name === f.evidence.group).flatMap((g) => g.members.map((m) => [m, g.name] as const))))
+  findings.forEach((f, i) => {
+    if (f.kind === 'sensitivity-shift' && f.feature !== undefined && members.has(f.feature)) {
+      findings[i] = { ...f, severity: 'info', message: `${f.message} ${f.feature} is in the correlated group ${members.get(f.feature)}, which carries it: the change is likely the group sharing the work.` }
+    }
+  })
+  findings.push(...carried)
+  const automatic = new Map(inputs.settings.automaticGroups.map((g) => [g.name, g]))
+  const groups = inputs.settings.groups.map((g) => ({ name: g.name, members: g.members, automatic: automatic.has(g.name), weakestLink: automatic.get(g.name)?.weakestLink ?? null }))
+  return {
+    findings,
+    ...(sensitivity ? { sensitivity } : {}),
+    ...(gain ? { gain } : {}),
+    ...(sliced.slices ? { slices: sliced.slices } : {}),
+    ...(groups.length > 0 ? { groups } : {}),
+  }
 }
 
 type PerRefit = readonly (readonly SensitivityEstimate[])[]

@@ -58,6 +58,7 @@ export const defaultImportance = deepFreeze({
   refits: 5,
   referenceRows: 10_000,
   evaluationRows: 20_000,
+  groupThreshold: 0.9,
 })
 
 export const defaultChecks: ChecksConfig = deepFreeze({
@@ -79,6 +80,7 @@ export const defaultChecks: ChecksConfig = deepFreeze({
   sensitivity: { action: 'warn', falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
   gain: { action: 'warn', topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
   slices: { action: 'warn', minRows: 200 },
+  correlatedGroups: { action: 'info' },
 })
 
 export const defaultReport: ReportConfig = deepFreeze({ maxTableRows: 50 })

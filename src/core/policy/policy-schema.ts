@@ -196,6 +196,7 @@ const importanceSchema = mapping({
     (raw) => (raw === null ? {} : raw),
     z.record(z.string(), nameList('a list of column names, such as [distance_km, stop_count]'), { error: 'a mapping of group names to lists of columns' }),
   ).default({}),
+  group_threshold: realNumber({ above: 0, atMost: 1 }).default(defaultImportance.groupThreshold),
 })
 
 const checksSchema = mapping({
@@ -232,6 +233,9 @@ const checksSchema = mapping({
     top_ranks: wholeNumber(1).default(defaultChecks.gain.topRanks),
     min_gain_share: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.gain.minGainShare),
     min_distinct: wholeNumber(2).default(defaultChecks.gain.minDistinct),
+  }).prefault({}),
+  correlated_groups: mapping({
+    action: oneOf(['warn', 'info', 'off']).default(defaultChecks.correlatedGroups.action),
   }).prefault({}),
   slices: mapping({
     action: checkAction.default(defaultChecks.slices.action),
@@ -446,6 +450,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       referenceRows: importance.reference_rows,
       evaluationRows: importance.evaluation_rows,
       groups: nullPrototype(Object.entries(importance.groups)),
+      groupThreshold: importance.group_threshold,
     },
     checks: {
       leakage: {
@@ -477,6 +482,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
         minDistinct: checks.gain.min_distinct,
       },
       slices: { action: checks.slices.action, minRows: checks.slices.min_rows },
+      correlatedGroups: { action: checks.correlated_groups.action },
     },
     slices: policy.slices.map((s) => ({ name: s.name, where: toSliceFilter(s.where) })),
     report: { maxTableRows: policy.report.max_table_rows },

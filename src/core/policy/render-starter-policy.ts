@@ -252,9 +252,10 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
     optional(1, 'groups:', 'columns permuted together and reported as one'),
     optional(2, `group_name: ${example(numeric, ['column_a', 'column_b'])}`),
+    optional(1, `group_threshold: ${defaultImportance.groupThreshold}`, 'automatic groups: numeric columns with |Spearman| at or above this'),
   ])
 
-  const { leakage, rankShift, score, holdoutRows, sensitivity, gain, slices } = defaultChecks
+  const { leakage, rankShift, score, holdoutRows, sensitivity, gain, slices, correlatedGroups } = defaultChecks
   const checks = renderBlock([
     key(0, 'checks:'),
     key(1, 'leakage:', 'one feature carries the model'),
@@ -285,6 +286,8 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `top_ranks: ${gain.topRanks}`),
     optional(2, `min_gain_share: ${gain.minGainShare}`),
     optional(2, `min_distinct: ${gain.minDistinct}`),
+    key(1, 'correlated_groups:', 'a feature that looks unimportant alone while its correlated group matters'),
+    key(2, `action: ${correlatedGroups.action}`, 'warn, info or off (off: no automatic groups)'),
     key(1, 'slices:', 'the policy slices below: score and importance on their rows'),
     key(2, `action: ${slices.action}`),
     optional(2, `min_rows: ${slices.minRows}`, 'smaller slices are reported as too small'),

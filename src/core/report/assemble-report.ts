@@ -64,6 +64,7 @@ export function assembleReport(parts: ReportParts): GateReport {
     timings: { ...parts.timings },
     ...(views?.sensitivity ? { sensitivity: views.sensitivity } : {}),
     ...(views?.gain ? { gain: views.gain } : {}),
+    ...(views?.groups ? { groups: views.groups } : {}),
     ...(views?.slices ? { slices: views.slices } : {}),
     caution: reportCaution,
   }

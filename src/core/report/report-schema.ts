@@ -76,6 +76,7 @@ const findingSchema = z.strictObject({
     'slice-dominance',
     'slice-top-features',
     'slice-too-small',
+    'group-carried',
   ]),
   severity: z.enum(['block', 'warn', 'info']),
   feature: text.optional(),
@@ -223,6 +224,7 @@ export const gateReportSchema = z
     timings: record(z.number().min(0)),
     sensitivity: sensitivityReportSchema.optional(),
     gain: gainReportSchema.optional(),
+    groups: list(z.strictObject({ name: text, members: list(text), automatic: z.boolean(), weakestLink: finite.nullable() })).optional(),
     slices: list(sliceRowSchema).optional(),
     caution: text.min(1),
   })

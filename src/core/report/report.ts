@@ -26,6 +26,7 @@ export type FindingKind =
   | 'slice-dominance' // inside a policy slice one feature carries the model
   | 'slice-top-features' // a policy slice's top feature is not among the overall top
   | 'slice-too-small' // a policy slice has too few holdout rows (or one class) to judge
+  | 'group-carried' // a feature looks unimportant alone while its correlated group matters
 
 /** Evidence values are plain numbers, strings, booleans or null, so the JSON stays flat and diffable. */
 export type Evidence = Readonly<Record<string, number | string | boolean | null>>
@@ -240,6 +241,8 @@ export interface GateReport {
   readonly sensitivity?: SensitivityReport
   /** Built-in gradient boosting only. */
   readonly gain?: GainReport
+  /** Feature groups permuted jointly: the policy's and the automatic ones (|Spearman| at or above the threshold). */
+  readonly groups?: readonly { readonly name: string; readonly members: readonly string[]; readonly automatic: boolean; readonly weakestLink: number | null }[]
   /** Policy slices, in policy order; absent without slices or with checks.slices off. */
   readonly slices?: readonly SliceRow[]
   /** Always present: a pass is not proof of the absence of leakage. */

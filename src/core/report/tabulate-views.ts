@@ -42,6 +42,9 @@ export function tabulateViews(report: GateReport): { readonly table: TextTable; 
         ]
       : []),
     ...(gain ? [gain.caution] : []),
+    ...((automatic) => (automatic.length > 0 ? [`Correlated groups (permuted jointly): ${automatic.map((g) => `${g.members.join(', ')} (|Spearman| ≥ ${formatNumber(g.weakestLink ?? NaN)})`).join('; ')}.`] : []))(
+      (report.groups ?? []).filter((g) => g.automatic),
+    ),
   ]
   return { table: { header, align: header.map((_, i) => (i === 0 ? 'left' : 'right')), rows }, note: notes.join(' ') }
 }

@@ -135,6 +135,7 @@ importance:
   evaluation_rows: 700
   groups:
     route: [distance_km, stop_count]
+  group_threshold: 0.8
 checks:
   leakage:
     action: warn
@@ -152,6 +153,8 @@ checks:
     tolerance: 0.002
     alpha: 0.01
   holdout_rows:
+    action: warn
+  correlated_groups:
     action: warn
   sensitivity:
     action: block
@@ -230,7 +233,7 @@ model:
           columnSubsample: 0.25,
           maxBins: 2,
         },
-        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, groups: { route: ['distance_km', 'stop_count'] } },
+        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, groups: { route: ['distance_km', 'stop_count'] }, groupThreshold: 0.8 },
         checks: {
           leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7 },
           rankShift: { action: 'block', falseDiscoveryRate: 0.1, minPositions: 3, agreementPercentile: 2.5 },
@@ -239,6 +242,7 @@ model:
           sensitivity: { action: 'block', falseDiscoveryRate: 0.1, minRelativeChange: 0.3, unlabeledRatio: 3, minShare: 0.01 },
           gain: { action: 'off', topRanks: 5, minGainShare: 0.2, minDistinct: 50 },
           slices: { action: 'off', minRows: 50 },
+          correlatedGroups: { action: 'warn' },
         },
         slices: [{ name: 'harbour', where: { column: 'depot', equals: 'harbour' } }],
         report: { maxTableRows: 1000 },
@@ -342,7 +346,7 @@ model:
 `
       expect(failure(text)).toEqual({
         message:
-          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, groups). Did you mean 'refits'?",
+          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, groups, group_threshold). Did you mean 'refits'?",
         fix: "Rename 'refts' to 'refits', or delete it.",
       })
     })
