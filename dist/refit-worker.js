@@ -679,6 +679,85 @@ function summarizeDraws(values) {
   return { mean: t.mean, sd: t.sd, lower: t.lower, upper: t.upper };
 }
 
+// src/core/importance/prediction-sensitivity.ts
+async function predictionSensitivity(model, rows, options) {
+  const { draws, threshold } = options;
+  if (!Number.isInteger(draws) || draws < 1) {
+    throw new RangeError(`predictionSensitivity needs a whole number of draws >= 1, got ${draws}`);
+  }
+  const names = model.featureNames;
+  const data = selectFeatures(rows, names);
+  const reference = selectFeatures(options.reference, names);
+  const n = data.rows;
+  if (n < 1) throw new RangeError("predictionSensitivity needs at least 1 row");
+  if (reference.rows < 1) throw new RangeError("predictionSensitivity needs at least 1 reference row");
+  const original = await model.predict(data);
+  const position = new Map(names.map((name, j) => [name, j]));
+  const units = [
+    ...names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] })),
+    ...(options.groups ?? []).filter((g2) => g2.members.every((m) => position.has(m))).map((g2) => ({ name: g2.name, members: [...g2.members], isGroup: true, columns: g2.members.map((m) => position.get(m)) }))
+  ];
+  const fast = model.createReplacementPredictor?.(data);
+  const stackedRows = n * draws;
+  const stacked = fast ? [] : data.columns.map((column) => {
+    const out = new Float64Array(stackedRows);
+    for (let k = 0; k < draws; k++) out.set(column, k * n);
+    return out;
+  });
+  const stackedMatrix = { rows: stackedRows, features: data.features, columns: stacked };
+  const estimates = [];
+  for (const unit of units) {
+    const random = createRandom(deriveSeed(options.seed, "sensitivity", unit.isGroup ? "group" : "feature", unit.name));
+    const replaced = /* @__PURE__ */ new Map();
+    for (const j of unit.columns) replaced.set(names[j], fast ? new Float64Array(stackedRows) : stacked[j]);
+    for (let k = 0; k < draws; k++) {
+      const picked = reference.rows >= n ? shuffledIndices(reference.rows, random).subarray(0, n) : drawWithReplacement(n, reference.rows, random);
+      for (const j of unit.columns) {
+        const source = reference.columns[j];
+        const target = replaced.get(names[j]);
+        for (let i = 0; i < n; i++) target[k * n + i] = source[picked[i]];
+      }
+    }
+    const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
+    const changes = [];
+    const flips = [];
+    for (let k = 0; k < draws; k++) {
+      let change = 0;
+      let flipped = 0;
+      for (let i = 0; i < n; i++) {
+        const before = original[i];
+        const after = prediction[k * n + i];
+        change += Math.abs(after - before);
+        if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
+      }
+      changes.push(change / n);
+      flips.push(flipped / n);
+    }
+    if (!fast) {
+      for (const j of unit.columns) for (let k = 0; k < draws; k++) stacked[j].set(data.columns[j], k * n);
+    }
+    estimates.push({
+      name: unit.name,
+      members: unit.members,
+      isGroup: unit.isGroup,
+      draws: changes,
+      mean: average(changes),
+      ...threshold !== void 0 ? { flipDraws: flips, flipShare: average(flips) } : {}
+    });
+  }
+  return estimates;
+}
+function drawWithReplacement(n, available, random) {
+  const rows = new Uint32Array(n);
+  for (let i = 0; i < n; i++) rows[i] = random.int(available);
+  return rows;
+}
+function average(values) {
+  let s = 0;
+  for (const v of values) s += v;
+  return s / values.length;
+}
+
 // src/core/metrics/check-paired.ts
 function checkPaired(name, y, prediction, labels) {
   if (y.length !== prediction.length) {
@@ -764,13 +843,59 @@ async function measureRefit(model, inputs, options, rows, refit) {
     groups: options.groups
   });
   const featureOrder = train3.features.map((f) => f.name);
+  const slices = [];
+  for (const slice of rows.slices) {
+    const slicePrediction = new Float64Array(slice.rows.length);
+    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]];
+    const sliced = await permutationImportance(model, slice.data, {
+      metric: options.metric,
+      draws: options.draws,
+      seed: deriveSeed(options.seed, "slice-draws", slice.name, refit),
+      reference: rows.reference,
+      groups: options.groups
+    });
+    slices.push({
+      score: options.metric.compute(slice.data.target.values, slicePrediction),
+      importances: canonicalOrder(sliced.importances, featureOrder, options.groups, options.draws)
+    });
+  }
+  let sensitivity;
+  if (options.sensitivity) {
+    const threshold = options.sensitivity.threshold;
+    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold };
+    const order = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold);
+    sensitivity = {
+      holdout: order(await predictionSensitivity(model, rows.evaluation, settings)),
+      ...rows.unlabeled ? { unlabeled: order(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}
+    };
+  }
   return {
     score: score2,
     separation,
     importances: canonicalOrder(result.importances, featureOrder, options.groups, options.draws),
     predictions,
-    model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? "onnxruntime" }
+    model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? "onnxruntime" },
+    slices,
+    ...model.splitStatistics ? { splitStatistics: model.splitStatistics.map((x) => ({ feature: x.feature, gain: x.gain, splits: x.splits })) } : {},
+    ...sensitivity ? { sensitivity } : {}
   };
+}
+function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold) {
+  const byKey = new Map(estimates.map((e) => [`${e.isGroup ? "g" : "f"}:${e.name}`, e]));
+  const zeros = new Array(draws).fill(0);
+  const zero = (name, members, isGroup) => ({
+    name,
+    members,
+    isGroup,
+    draws: zeros,
+    mean: 0,
+    ...threshold !== void 0 ? { flipDraws: zeros, flipShare: 0 } : {}
+  });
+  const present = new Set(featureOrder);
+  return [
+    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
+    ...groups.filter((g2) => g2.members.every((m) => present.has(m))).map((g2) => byKey.get(`g:${g2.name}`) ?? zero(g2.name, g2.members, true))
+  ];
 }
 function canonicalOrder(estimates, featureOrder, groups, draws) {
   const byKey = new Map(estimates.map((e) => [`${e.isGroup ? "g" : "f"}:${e.name}`, e]));

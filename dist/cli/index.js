@@ -323,8 +323,8 @@ var require_directives = __commonJS({
               if (parts.length < 2)
                 return false;
             }
-            const [handle, prefix] = parts;
-            this.tags[handle] = prefix;
+            const [handle, prefix2] = parts;
+            this.tags[handle] = prefix2;
             return true;
           }
           case "%YAML": {
@@ -374,10 +374,10 @@ var require_directives = __commonJS({
         const [, handle, suffix] = source.match(/^(.*!)([^!]*)$/s);
         if (!suffix)
           onError(`The ${source} tag has no suffix`);
-        const prefix = this.tags[handle];
-        if (prefix) {
+        const prefix2 = this.tags[handle];
+        if (prefix2) {
           try {
-            return prefix + decodeURIComponent(suffix);
+            return prefix2 + decodeURIComponent(suffix);
           } catch (error62) {
             onError(String(error62));
             return null;
@@ -393,9 +393,9 @@ var require_directives = __commonJS({
        * taking into account current tag prefixes and defaults.
        */
       tagString(tag) {
-        for (const [handle, prefix] of Object.entries(this.tags)) {
-          if (tag.startsWith(prefix))
-            return handle + escapeTagName(tag.substring(prefix.length));
+        for (const [handle, prefix2] of Object.entries(this.tags)) {
+          if (tag.startsWith(prefix2))
+            return handle + escapeTagName(tag.substring(prefix2.length));
         }
         return tag[0] === "!" ? tag : `!<${tag}>`;
       }
@@ -412,11 +412,11 @@ var require_directives = __commonJS({
           tagNames = Object.keys(tags);
         } else
           tagNames = [];
-        for (const [handle, prefix] of tagEntries) {
-          if (handle === "!!" && prefix === "tag:yaml.org,2002:")
+        for (const [handle, prefix2] of tagEntries) {
+          if (handle === "!!" && prefix2 === "tag:yaml.org,2002:")
             continue;
-          if (!doc || tagNames.some((tn) => tn.startsWith(prefix)))
-            lines.push(`%TAG ${handle} ${prefix}`);
+          if (!doc || tagNames.some((tn) => tn.startsWith(prefix2)))
+            lines.push(`%TAG ${handle} ${prefix2}`);
         }
         return lines.join("\n");
       }
@@ -451,14 +451,14 @@ var require_anchors = __commonJS({
       });
       return anchors;
     }
-    function findNewAnchor(prefix, exclude) {
+    function findNewAnchor(prefix2, exclude) {
       for (let i = 1; true; ++i) {
-        const name = `${prefix}${i}`;
+        const name = `${prefix2}${i}`;
         if (!exclude.has(name))
           return name;
       }
     }
-    function createNodeAnchors(doc, prefix) {
+    function createNodeAnchors(doc, prefix2) {
       const aliasObjects = [];
       const sourceObjects = /* @__PURE__ */ new Map();
       let prevAnchors = null;
@@ -466,7 +466,7 @@ var require_anchors = __commonJS({
         onAnchor: (source) => {
           aliasObjects.push(source);
           prevAnchors ?? (prevAnchors = anchorNames(doc));
-          const anchor2 = findNewAnchor(prefix, prevAnchors);
+          const anchor2 = findNewAnchor(prefix2, prevAnchors);
           prevAnchors.add(anchor2);
           return anchor2;
         },
@@ -552,26 +552,26 @@ var require_toJS = __commonJS({
   "node_modules/yaml/dist/nodes/toJS.js"(exports) {
     "use strict";
     var identity = require_identity();
-    function toJS(value2, arg, ctx) {
-      if (Array.isArray(value2))
-        return value2.map((v, i) => toJS(v, String(i), ctx));
-      if (value2 && typeof value2.toJSON === "function") {
-        if (!ctx || !identity.hasAnchor(value2))
-          return value2.toJSON(arg, ctx);
+    function toJS(value3, arg, ctx) {
+      if (Array.isArray(value3))
+        return value3.map((v, i) => toJS(v, String(i), ctx));
+      if (value3 && typeof value3.toJSON === "function") {
+        if (!ctx || !identity.hasAnchor(value3))
+          return value3.toJSON(arg, ctx);
         const data = { aliasCount: 0, count: 1, res: void 0 };
-        ctx.anchors.set(value2, data);
+        ctx.anchors.set(value3, data);
         ctx.onCreate = (res2) => {
           data.res = res2;
           delete ctx.onCreate;
         };
-        const res = value2.toJSON(arg, ctx);
+        const res = value3.toJSON(arg, ctx);
         if (ctx.onCreate)
           ctx.onCreate(res);
         return res;
       }
-      if (typeof value2 === "bigint" && !ctx?.keep)
-        return Number(value2);
-      return value2;
+      if (typeof value3 === "bigint" && !ctx?.keep)
+        return Number(value3);
+      return value3;
     }
     exports.toJS = toJS;
   }
@@ -743,11 +743,11 @@ var require_Scalar = __commonJS({
     var identity = require_identity();
     var Node = require_Node();
     var toJS = require_toJS();
-    var isScalarValue = (value2) => !value2 || typeof value2 !== "function" && typeof value2 !== "object";
+    var isScalarValue = (value3) => !value3 || typeof value3 !== "function" && typeof value3 !== "object";
     var Scalar = class extends Node.NodeBase {
-      constructor(value2) {
+      constructor(value3) {
         super(identity.SCALAR);
-        this.value = value2;
+        this.value = value3;
       }
       toJSON(arg, ctx) {
         return ctx?.keep ? this.value : toJS.toJS(this.value, arg, ctx);
@@ -774,7 +774,7 @@ var require_createNode = __commonJS({
     var identity = require_identity();
     var Scalar = require_Scalar();
     var defaultTagPrefix = "tag:yaml.org,2002:";
-    function findTagObject(value2, tagName, tags) {
+    function findTagObject(value3, tagName, tags) {
       if (tagName) {
         const match = tags.filter((t) => t.tag === tagName);
         const tagObj = match.find((t) => !t.format) ?? match[0];
@@ -782,53 +782,53 @@ var require_createNode = __commonJS({
           throw new Error(`Tag ${tagName} not found`);
         return tagObj;
       }
-      return tags.find((t) => t.identify?.(value2) && !t.format);
+      return tags.find((t) => t.identify?.(value3) && !t.format);
     }
-    function createNode(value2, tagName, ctx) {
-      if (identity.isDocument(value2))
-        value2 = value2.contents;
-      if (identity.isNode(value2))
-        return value2;
-      if (identity.isPair(value2)) {
+    function createNode(value3, tagName, ctx) {
+      if (identity.isDocument(value3))
+        value3 = value3.contents;
+      if (identity.isNode(value3))
+        return value3;
+      if (identity.isPair(value3)) {
         const map2 = ctx.schema[identity.MAP].createNode?.(ctx.schema, null, ctx);
-        map2.items.push(value2);
+        map2.items.push(value3);
         return map2;
       }
-      if (value2 instanceof String || value2 instanceof Number || value2 instanceof Boolean || typeof BigInt !== "undefined" && value2 instanceof BigInt) {
-        value2 = value2.valueOf();
+      if (value3 instanceof String || value3 instanceof Number || value3 instanceof Boolean || typeof BigInt !== "undefined" && value3 instanceof BigInt) {
+        value3 = value3.valueOf();
       }
       const { aliasDuplicateObjects, onAnchor, onTagObj, schema, sourceObjects } = ctx;
       let ref = void 0;
-      if (aliasDuplicateObjects && value2 && typeof value2 === "object") {
-        ref = sourceObjects.get(value2);
+      if (aliasDuplicateObjects && value3 && typeof value3 === "object") {
+        ref = sourceObjects.get(value3);
         if (ref) {
-          ref.anchor ?? (ref.anchor = onAnchor(value2));
+          ref.anchor ?? (ref.anchor = onAnchor(value3));
           return new Alias.Alias(ref.anchor);
         } else {
           ref = { anchor: null, node: null };
-          sourceObjects.set(value2, ref);
+          sourceObjects.set(value3, ref);
         }
       }
       if (tagName?.startsWith("!!"))
         tagName = defaultTagPrefix + tagName.slice(2);
-      let tagObj = findTagObject(value2, tagName, schema.tags);
+      let tagObj = findTagObject(value3, tagName, schema.tags);
       if (!tagObj) {
-        if (value2 && typeof value2.toJSON === "function") {
-          value2 = value2.toJSON();
+        if (value3 && typeof value3.toJSON === "function") {
+          value3 = value3.toJSON();
         }
-        if (!value2 || typeof value2 !== "object") {
-          const node3 = new Scalar.Scalar(value2);
+        if (!value3 || typeof value3 !== "object") {
+          const node3 = new Scalar.Scalar(value3);
           if (ref)
             ref.node = node3;
           return node3;
         }
-        tagObj = value2 instanceof Map ? schema[identity.MAP] : Symbol.iterator in Object(value2) ? schema[identity.SEQ] : schema[identity.MAP];
+        tagObj = value3 instanceof Map ? schema[identity.MAP] : Symbol.iterator in Object(value3) ? schema[identity.SEQ] : schema[identity.MAP];
       }
       if (onTagObj) {
         onTagObj(tagObj);
         delete ctx.onTagObj;
       }
-      const node2 = tagObj?.createNode ? tagObj.createNode(ctx.schema, value2, ctx) : typeof tagObj?.nodeClass?.from === "function" ? tagObj.nodeClass.from(ctx.schema, value2, ctx) : new Scalar.Scalar(value2);
+      const node2 = tagObj?.createNode ? tagObj.createNode(ctx.schema, value3, ctx) : typeof tagObj?.nodeClass?.from === "function" ? tagObj.nodeClass.from(ctx.schema, value3, ctx) : new Scalar.Scalar(value3);
       if (tagName)
         node2.tag = tagName;
       else if (!tagObj.default)
@@ -848,8 +848,8 @@ var require_Collection = __commonJS({
     var createNode = require_createNode();
     var identity = require_identity();
     var Node = require_Node();
-    function collectionFromPath(schema, path, value2) {
-      let v = value2;
+    function collectionFromPath(schema, path, value3) {
+      let v = value3;
       for (let i = path.length - 1; i >= 0; --i) {
         const k = path[i];
         if (typeof k === "number" && Number.isInteger(k) && k >= 0) {
@@ -900,16 +900,16 @@ var require_Collection = __commonJS({
        * be a Pair instance or a `{ key, value }` object, which may not have a key
        * that already exists in the map.
        */
-      addIn(path, value2) {
+      addIn(path, value3) {
         if (isEmptyPath(path))
-          this.add(value2);
+          this.add(value3);
         else {
           const [key2, ...rest] = path;
           const node2 = this.get(key2, true);
           if (identity.isCollection(node2))
-            node2.addIn(rest, value2);
+            node2.addIn(rest, value3);
           else if (node2 === void 0 && this.schema)
-            this.set(key2, collectionFromPath(this.schema, rest, value2));
+            this.set(key2, collectionFromPath(this.schema, rest, value3));
           else
             throw new Error(`Expected YAML collection at ${key2}. Remaining path: ${rest}`);
         }
@@ -963,16 +963,16 @@ var require_Collection = __commonJS({
        * Sets a value in this collection. For `!!set`, `value` needs to be a
        * boolean to add/remove the item from the set.
        */
-      setIn(path, value2) {
+      setIn(path, value3) {
         const [key2, ...rest] = path;
         if (rest.length === 0) {
-          this.set(key2, value2);
+          this.set(key2, value3);
         } else {
           const node2 = this.get(key2, true);
           if (identity.isCollection(node2))
-            node2.setIn(rest, value2);
+            node2.setIn(rest, value3);
           else if (node2 === void 0 && this.schema)
-            this.set(key2, collectionFromPath(this.schema, rest, value2));
+            this.set(key2, collectionFromPath(this.schema, rest, value3));
           else
             throw new Error(`Expected YAML collection at ${key2}. Remaining path: ${rest}`);
         }
@@ -1167,13 +1167,13 @@ var require_stringifyString = __commonJS({
       }
       return true;
     }
-    function doubleQuotedString(value2, ctx) {
-      const json2 = JSON.stringify(value2);
+    function doubleQuotedString(value3, ctx) {
+      const json2 = JSON.stringify(value3);
       if (ctx.options.doubleQuotedAsJSON)
         return json2;
       const { implicitKey } = ctx;
       const minMultiLineLength = ctx.options.doubleQuotedMinMultiLineLength;
-      const indent = ctx.indent || (containsDocumentMarker(value2) ? "  " : "");
+      const indent = ctx.indent || (containsDocumentMarker(value3) ? "  " : "");
       let str = "";
       let start = 0;
       for (let i = 0, ch = json2[i]; ch; ch = json2[++i]) {
@@ -1247,22 +1247,22 @@ var require_stringifyString = __commonJS({
       str = start ? str + json2.slice(start) : json2;
       return implicitKey ? str : foldFlowLines.foldFlowLines(str, indent, foldFlowLines.FOLD_QUOTED, getFoldOptions(ctx, false));
     }
-    function singleQuotedString(value2, ctx) {
-      if (ctx.options.singleQuote === false || ctx.implicitKey && value2.includes("\n") || /[ \t]\n|\n[ \t]/.test(value2))
-        return doubleQuotedString(value2, ctx);
-      const indent = ctx.indent || (containsDocumentMarker(value2) ? "  " : "");
-      const res = "'" + value2.replace(/'/g, "''").replace(/\n+/g, `$&
+    function singleQuotedString(value3, ctx) {
+      if (ctx.options.singleQuote === false || ctx.implicitKey && value3.includes("\n") || /[ \t]\n|\n[ \t]/.test(value3))
+        return doubleQuotedString(value3, ctx);
+      const indent = ctx.indent || (containsDocumentMarker(value3) ? "  " : "");
+      const res = "'" + value3.replace(/'/g, "''").replace(/\n+/g, `$&
 ${indent}`) + "'";
       return ctx.implicitKey ? res : foldFlowLines.foldFlowLines(res, indent, foldFlowLines.FOLD_FLOW, getFoldOptions(ctx, false));
     }
-    function quotedString(value2, ctx) {
+    function quotedString(value3, ctx) {
       const { singleQuote } = ctx.options;
       let qs;
       if (singleQuote === false)
         qs = doubleQuotedString;
       else {
-        const hasDouble = value2.includes('"');
-        const hasSingle = value2.includes("'");
+        const hasDouble = value3.includes('"');
+        const hasSingle = value3.includes("'");
         if (hasDouble && !hasSingle)
           qs = singleQuotedString;
         else if (hasSingle && !hasDouble)
@@ -1270,7 +1270,7 @@ ${indent}`) + "'";
         else
           qs = singleQuote ? singleQuotedString : doubleQuotedString;
       }
-      return qs(value2, ctx);
+      return qs(value3, ctx);
     }
     var blockEndNewlines;
     try {
@@ -1278,27 +1278,27 @@ ${indent}`) + "'";
     } catch {
       blockEndNewlines = /\n+(?!\n|$)/g;
     }
-    function blockString({ comment, type, value: value2 }, ctx, onComment, onChompKeep) {
+    function blockString({ comment, type, value: value3 }, ctx, onComment, onChompKeep) {
       const { blockQuote, commentString, lineWidth } = ctx.options;
-      if (!blockQuote || /\n[\t ]+$/.test(value2)) {
-        return quotedString(value2, ctx);
+      if (!blockQuote || /\n[\t ]+$/.test(value3)) {
+        return quotedString(value3, ctx);
       }
-      const indent = ctx.indent || (ctx.forceBlockIndent || containsDocumentMarker(value2) ? "  " : "");
-      const literal2 = blockQuote === "literal" ? true : blockQuote === "folded" || type === Scalar.Scalar.BLOCK_FOLDED ? false : type === Scalar.Scalar.BLOCK_LITERAL ? true : !lineLengthOverLimit(value2, lineWidth, indent.length);
-      if (!value2)
+      const indent = ctx.indent || (ctx.forceBlockIndent || containsDocumentMarker(value3) ? "  " : "");
+      const literal2 = blockQuote === "literal" ? true : blockQuote === "folded" || type === Scalar.Scalar.BLOCK_FOLDED ? false : type === Scalar.Scalar.BLOCK_LITERAL ? true : !lineLengthOverLimit(value3, lineWidth, indent.length);
+      if (!value3)
         return literal2 ? "|\n" : ">\n";
       let chomp;
       let endStart;
-      for (endStart = value2.length; endStart > 0; --endStart) {
-        const ch = value2[endStart - 1];
+      for (endStart = value3.length; endStart > 0; --endStart) {
+        const ch = value3[endStart - 1];
         if (ch !== "\n" && ch !== "	" && ch !== " ")
           break;
       }
-      let end = value2.substring(endStart);
+      let end = value3.substring(endStart);
       const endNlPos = end.indexOf("\n");
       if (endNlPos === -1) {
         chomp = "-";
-      } else if (value2 === end || endNlPos !== end.length - 1) {
+      } else if (value3 === end || endNlPos !== end.length - 1) {
         chomp = "+";
         if (onChompKeep)
           onChompKeep();
@@ -1306,7 +1306,7 @@ ${indent}`) + "'";
         chomp = "";
       }
       if (end) {
-        value2 = value2.slice(0, -end.length);
+        value3 = value3.slice(0, -end.length);
         if (end[end.length - 1] === "\n")
           end = end.slice(0, -1);
         end = end.replace(blockEndNewlines, `$&${indent}`);
@@ -1314,8 +1314,8 @@ ${indent}`) + "'";
       let startWithSpace = false;
       let startEnd;
       let startNlPos = -1;
-      for (startEnd = 0; startEnd < value2.length; ++startEnd) {
-        const ch = value2[startEnd];
+      for (startEnd = 0; startEnd < value3.length; ++startEnd) {
+        const ch = value3[startEnd];
         if (ch === " ")
           startWithSpace = true;
         else if (ch === "\n")
@@ -1323,9 +1323,9 @@ ${indent}`) + "'";
         else
           break;
       }
-      let start = value2.substring(0, startNlPos < startEnd ? startNlPos + 1 : startEnd);
+      let start = value3.substring(0, startNlPos < startEnd ? startNlPos + 1 : startEnd);
       if (start) {
-        value2 = value2.substring(start.length);
+        value3 = value3.substring(start.length);
         start = start.replace(/\n+/g, `$&${indent}`);
       }
       const indentSize = indent ? "2" : "1";
@@ -1336,7 +1336,7 @@ ${indent}`) + "'";
           onComment();
       }
       if (!literal2) {
-        const foldedValue = value2.replace(/\n+/g, "\n$&").replace(/(?:^|\n)([\t ].*)(?:([\n\t ]*)\n(?![\n\t ]))?/g, "$1$2").replace(/\n+/g, `$&${indent}`);
+        const foldedValue = value3.replace(/\n+/g, "\n$&").replace(/(?:^|\n)([\t ].*)(?:([\n\t ]*)\n(?![\n\t ]))?/g, "$1$2").replace(/\n+/g, `$&${indent}`);
         let literalFallback = false;
         const foldOptions = getFoldOptions(ctx, true);
         if (blockQuote !== "folded" && type !== Scalar.Scalar.BLOCK_FOLDED) {
@@ -1349,37 +1349,37 @@ ${indent}`) + "'";
           return `>${header}
 ${indent}${body}`;
       }
-      value2 = value2.replace(/\n+/g, `$&${indent}`);
+      value3 = value3.replace(/\n+/g, `$&${indent}`);
       return `|${header}
-${indent}${start}${value2}${end}`;
+${indent}${start}${value3}${end}`;
     }
     function plainString(item, ctx, onComment, onChompKeep) {
-      const { type, value: value2 } = item;
+      const { type, value: value3 } = item;
       const { actualString, implicitKey, indent, indentStep, inFlow } = ctx;
-      if (implicitKey && value2.includes("\n") || inFlow && /[[\]{},]/.test(value2)) {
-        return quotedString(value2, ctx);
+      if (implicitKey && value3.includes("\n") || inFlow && /[[\]{},]/.test(value3)) {
+        return quotedString(value3, ctx);
       }
-      if (/^[\n\t ,[\]{}#&*!|>'"%@`]|^[?-]$|^[?-][ \t]|[\n:][ \t]|[ \t]\n|[\n\t ]#|[\n\t :]$/.test(value2)) {
-        return implicitKey || inFlow || !value2.includes("\n") ? quotedString(value2, ctx) : blockString(item, ctx, onComment, onChompKeep);
+      if (/^[\n\t ,[\]{}#&*!|>'"%@`]|^[?-]$|^[?-][ \t]|[\n:][ \t]|[ \t]\n|[\n\t ]#|[\n\t :]$/.test(value3)) {
+        return implicitKey || inFlow || !value3.includes("\n") ? quotedString(value3, ctx) : blockString(item, ctx, onComment, onChompKeep);
       }
-      if (!implicitKey && !inFlow && type !== Scalar.Scalar.PLAIN && value2.includes("\n")) {
+      if (!implicitKey && !inFlow && type !== Scalar.Scalar.PLAIN && value3.includes("\n")) {
         return blockString(item, ctx, onComment, onChompKeep);
       }
-      if (containsDocumentMarker(value2)) {
+      if (containsDocumentMarker(value3)) {
         if (indent === "") {
           ctx.forceBlockIndent = true;
           return blockString(item, ctx, onComment, onChompKeep);
         } else if (implicitKey && indent === indentStep) {
-          return quotedString(value2, ctx);
+          return quotedString(value3, ctx);
         }
       }
-      const str = value2.replace(/\n+/g, `$&
+      const str = value3.replace(/\n+/g, `$&
 ${indent}`);
       if (actualString) {
         const test = (tag) => tag.default && tag.tag !== "tag:yaml.org,2002:str" && tag.test?.test(str);
         const { compat, tags } = ctx.doc.schema;
         if (tags.some(test) || compat?.some(test))
-          return quotedString(value2, ctx);
+          return quotedString(value3, ctx);
       }
       return implicitKey ? str : foldFlowLines.foldFlowLines(str, indent, foldFlowLines.FOLD_FLOW, getFoldOptions(ctx, false));
     }
@@ -1552,7 +1552,7 @@ var require_stringifyPair = __commonJS({
     var Scalar = require_Scalar();
     var stringify = require_stringify();
     var stringifyComment = require_stringifyComment();
-    function stringifyPair({ key: key2, value: value2 }, ctx, onComment, onChompKeep) {
+    function stringifyPair({ key: key2, value: value3 }, ctx, onComment, onChompKeep) {
       const { allNullValues, doc, indent, indentStep, options: { commentString, indentSeq, simpleKeys } } = ctx;
       let keyComment = identity.isNode(key2) && key2.comment || null;
       if (simpleKeys) {
@@ -1564,7 +1564,7 @@ var require_stringifyPair = __commonJS({
           throw new Error(msg);
         }
       }
-      let explicitKey = !simpleKeys && (!key2 || keyComment && value2 == null && !ctx.inFlow || identity.isCollection(key2) || (identity.isScalar(key2) ? key2.type === Scalar.Scalar.BLOCK_FOLDED || key2.type === Scalar.Scalar.BLOCK_LITERAL : typeof key2 === "object"));
+      let explicitKey = !simpleKeys && (!key2 || keyComment && value3 == null && !ctx.inFlow || identity.isCollection(key2) || (identity.isScalar(key2) ? key2.type === Scalar.Scalar.BLOCK_FOLDED || key2.type === Scalar.Scalar.BLOCK_LITERAL : typeof key2 === "object"));
       ctx = Object.assign({}, ctx, {
         allNullValues: false,
         implicitKey: !explicitKey && (simpleKeys || !allNullValues),
@@ -1579,12 +1579,12 @@ var require_stringifyPair = __commonJS({
         explicitKey = true;
       }
       if (ctx.inFlow) {
-        if (allNullValues || value2 == null) {
+        if (allNullValues || value3 == null) {
           if (keyCommentDone && onComment)
             onComment();
           return str === "" ? "?" : explicitKey ? `? ${str}` : str;
         }
-      } else if (allNullValues && !simpleKeys || value2 == null && explicitKey) {
+      } else if (allNullValues && !simpleKeys || value3 == null && explicitKey) {
         str = `? ${str}`;
         if (keyComment && !keyCommentDone) {
           str += stringifyComment.lineComment(str, ctx.indent, commentString(keyComment));
@@ -1605,26 +1605,26 @@ ${indent}:`;
           str += stringifyComment.lineComment(str, ctx.indent, commentString(keyComment));
       }
       let vsb, vcb, valueComment;
-      if (identity.isNode(value2)) {
-        vsb = !!value2.spaceBefore;
-        vcb = value2.commentBefore;
-        valueComment = value2.comment;
+      if (identity.isNode(value3)) {
+        vsb = !!value3.spaceBefore;
+        vcb = value3.commentBefore;
+        valueComment = value3.comment;
       } else {
         vsb = false;
         vcb = null;
         valueComment = null;
-        if (value2 && typeof value2 === "object")
-          value2 = doc.createNode(value2);
+        if (value3 && typeof value3 === "object")
+          value3 = doc.createNode(value3);
       }
       ctx.implicitKey = false;
-      if (!explicitKey && !keyComment && identity.isScalar(value2))
+      if (!explicitKey && !keyComment && identity.isScalar(value3))
         ctx.indentAtStart = str.length + 1;
       chompKeep = false;
-      if (!indentSeq && indentStep.length >= 2 && !ctx.inFlow && !explicitKey && identity.isSeq(value2) && !value2.flow && !value2.tag && !value2.anchor) {
+      if (!indentSeq && indentStep.length >= 2 && !ctx.inFlow && !explicitKey && identity.isSeq(value3) && !value3.flow && !value3.tag && !value3.anchor) {
         ctx.indent = ctx.indent.substring(2);
       }
       let valueCommentDone = false;
-      const valueStr = stringify.stringify(value2, ctx, () => valueCommentDone = true, () => chompKeep = true);
+      const valueStr = stringify.stringify(value3, ctx, () => valueCommentDone = true, () => chompKeep = true);
       let ws = " ";
       if (keyComment || vsb || vcb) {
         ws = vsb ? "\n" : "";
@@ -1640,11 +1640,11 @@ ${stringifyComment.indentComment(cs, ctx.indent)}`;
           ws += `
 ${ctx.indent}`;
         }
-      } else if (!explicitKey && identity.isCollection(value2)) {
+      } else if (!explicitKey && identity.isCollection(value3)) {
         const vs0 = valueStr[0];
         const nl0 = valueStr.indexOf("\n");
         const hasNewline = nl0 !== -1;
-        const flow = ctx.inFlow ?? value2.flow ?? value2.items.length === 0;
+        const flow = ctx.inFlow ?? value3.flow ?? value3.items.length === 0;
         if (hasNewline || !flow) {
           let hasPropsLine = false;
           if (hasNewline && (vs0 === "&" || vs0 === "!")) {
@@ -1707,7 +1707,7 @@ var require_merge = __commonJS({
     var Scalar = require_Scalar();
     var MERGE_KEY = "<<";
     var merge2 = {
-      identify: (value2) => value2 === MERGE_KEY || typeof value2 === "symbol" && value2.description === MERGE_KEY,
+      identify: (value3) => value3 === MERGE_KEY || typeof value3 === "symbol" && value3.description === MERGE_KEY,
       default: "key",
       tag: "tag:yaml.org,2002:merge",
       test: /^<<$/,
@@ -1717,8 +1717,8 @@ var require_merge = __commonJS({
       stringify: () => MERGE_KEY
     };
     var isMergeKey = (ctx, key2) => (merge2.identify(key2) || identity.isScalar(key2) && (!key2.type || key2.type === Scalar.Scalar.PLAIN) && merge2.identify(key2.value)) && ctx?.doc.schema.tags.some((tag) => tag.tag === merge2.tag && tag.default);
-    function addMergeToJSMap(ctx, map2, value2) {
-      const source = resolveAliasValue(ctx, value2);
+    function addMergeToJSMap(ctx, map2, value3) {
+      const source = resolveAliasValue(ctx, value3);
       if (identity.isSeq(source))
         for (const it of source.items)
           mergeValue(ctx, map2, it);
@@ -1728,20 +1728,20 @@ var require_merge = __commonJS({
       else
         mergeValue(ctx, map2, source);
     }
-    function mergeValue(ctx, map2, value2) {
-      const source = resolveAliasValue(ctx, value2);
+    function mergeValue(ctx, map2, value3) {
+      const source = resolveAliasValue(ctx, value3);
       if (!identity.isMap(source))
         throw new Error("Merge sources must be maps or map aliases");
       const srcMap = source.toJSON(null, ctx, Map);
-      for (const [key2, value3] of srcMap) {
+      for (const [key2, value4] of srcMap) {
         if (map2 instanceof Map) {
           if (!map2.has(key2))
-            map2.set(key2, value3);
+            map2.set(key2, value4);
         } else if (map2 instanceof Set) {
           map2.add(key2);
         } else if (!Object.prototype.hasOwnProperty.call(map2, key2)) {
           Object.defineProperty(map2, key2, {
-            value: value3,
+            value: value4,
             writable: true,
             enumerable: true,
             configurable: true
@@ -1750,8 +1750,8 @@ var require_merge = __commonJS({
       }
       return map2;
     }
-    function resolveAliasValue(ctx, value2) {
-      return ctx && identity.isAlias(value2) ? value2.resolve(ctx.doc, ctx) : value2;
+    function resolveAliasValue(ctx, value3) {
+      return ctx && identity.isAlias(value3) ? value3.resolve(ctx.doc, ctx) : value3;
     }
     exports.addMergeToJSMap = addMergeToJSMap;
     exports.isMergeKey = isMergeKey;
@@ -1768,20 +1768,20 @@ var require_addPairToJSMap = __commonJS({
     var stringify = require_stringify();
     var identity = require_identity();
     var toJS = require_toJS();
-    function addPairToJSMap(ctx, map2, { key: key2, value: value2 }) {
+    function addPairToJSMap(ctx, map2, { key: key2, value: value3 }) {
       if (identity.isNode(key2) && key2.addToJSMap)
-        key2.addToJSMap(ctx, map2, value2);
+        key2.addToJSMap(ctx, map2, value3);
       else if (merge2.isMergeKey(ctx, key2))
-        merge2.addMergeToJSMap(ctx, map2, value2);
+        merge2.addMergeToJSMap(ctx, map2, value3);
       else {
         const jsKey = toJS.toJS(key2, "", ctx);
         if (map2 instanceof Map) {
-          map2.set(jsKey, toJS.toJS(value2, jsKey, ctx));
+          map2.set(jsKey, toJS.toJS(value3, jsKey, ctx));
         } else if (map2 instanceof Set) {
           map2.add(jsKey);
         } else {
           const stringKey = stringifyKey(key2, jsKey, ctx);
-          const jsValue = toJS.toJS(value2, stringKey, ctx);
+          const jsValue = toJS.toJS(value3, stringKey, ctx);
           if (stringKey in map2)
             Object.defineProperty(map2, stringKey, {
               value: jsValue,
@@ -1831,24 +1831,24 @@ var require_Pair = __commonJS({
     var stringifyPair = require_stringifyPair();
     var addPairToJSMap = require_addPairToJSMap();
     var identity = require_identity();
-    function createPair(key2, value2, ctx) {
+    function createPair(key2, value3, ctx) {
       const k = createNode.createNode(key2, void 0, ctx);
-      const v = createNode.createNode(value2, void 0, ctx);
+      const v = createNode.createNode(value3, void 0, ctx);
       return new Pair(k, v);
     }
     var Pair = class _Pair {
-      constructor(key2, value2 = null) {
+      constructor(key2, value3 = null) {
         Object.defineProperty(this, identity.NODE_TYPE, { value: identity.PAIR });
         this.key = key2;
-        this.value = value2;
+        this.value = value3;
       }
       clone(schema) {
-        let { key: key2, value: value2 } = this;
+        let { key: key2, value: value3 } = this;
         if (identity.isNode(key2))
           key2 = key2.clone(schema);
-        if (identity.isNode(value2))
-          value2 = value2.clone(schema);
-        return new _Pair(key2, value2);
+        if (identity.isNode(value3))
+          value3 = value3.clone(schema);
+        return new _Pair(key2, value3);
       }
       toJSON(_, ctx) {
         const pair = ctx?.mapAsMap ? /* @__PURE__ */ new Map() : {};
@@ -2051,17 +2051,17 @@ var require_YAMLMap = __commonJS({
       static from(schema, obj, ctx) {
         const { keepUndefined, replacer } = ctx;
         const map2 = new this(schema);
-        const add = (key2, value2) => {
+        const add = (key2, value3) => {
           if (typeof replacer === "function")
-            value2 = replacer.call(obj, key2, value2);
+            value3 = replacer.call(obj, key2, value3);
           else if (Array.isArray(replacer) && !replacer.includes(key2))
             return;
-          if (value2 !== void 0 || keepUndefined)
-            map2.items.push(Pair.createPair(key2, value2, ctx));
+          if (value3 !== void 0 || keepUndefined)
+            map2.items.push(Pair.createPair(key2, value3, ctx));
         };
         if (obj instanceof Map) {
-          for (const [key2, value2] of obj)
-            add(key2, value2);
+          for (const [key2, value3] of obj)
+            add(key2, value3);
         } else if (obj && typeof obj === "object") {
           for (const key2 of Object.keys(obj))
             add(key2, obj[key2]);
@@ -2119,8 +2119,8 @@ var require_YAMLMap = __commonJS({
       has(key2) {
         return !!findPair(this.items, key2);
       }
-      set(key2, value2) {
-        this.add(new Pair.Pair(key2, value2), true);
+      set(key2, value3) {
+        this.add(new Pair.Pair(key2, value3), true);
       }
       /**
        * @param ctx - Conversion context, originally set in Document#toJS()
@@ -2198,8 +2198,8 @@ var require_YAMLSeq = __commonJS({
         super(identity.SEQ, schema);
         this.items = [];
       }
-      add(value2) {
-        this.items.push(value2);
+      add(value3) {
+        this.items.push(value3);
       }
       /**
        * Removes a value from the collection.
@@ -2240,15 +2240,15 @@ var require_YAMLSeq = __commonJS({
        * If `key` does not contain a representation of an integer, this will throw.
        * It may be wrapped in a `Scalar`.
        */
-      set(key2, value2) {
+      set(key2, value3) {
         const idx = asItemIndex(key2);
         if (typeof idx !== "number")
           throw new Error(`Expected a valid index, not ${key2}.`);
         const prev = this.items[idx];
-        if (identity.isScalar(prev) && Scalar.isScalarValue(value2))
-          prev.value = value2;
+        if (identity.isScalar(prev) && Scalar.isScalarValue(value3))
+          prev.value = value3;
         else
-          this.items[idx] = value2;
+          this.items[idx] = value3;
       }
       toJSON(_, ctx) {
         const seq = [];
@@ -2324,7 +2324,7 @@ var require_string = __commonJS({
     "use strict";
     var stringifyString = require_stringifyString();
     var string4 = {
-      identify: (value2) => typeof value2 === "string",
+      identify: (value3) => typeof value3 === "string",
       default: true,
       tag: "tag:yaml.org,2002:str",
       resolve: (str) => str,
@@ -2343,7 +2343,7 @@ var require_null = __commonJS({
     "use strict";
     var Scalar = require_Scalar();
     var nullTag = {
-      identify: (value2) => value2 == null,
+      identify: (value3) => value3 == null,
       createNode: () => new Scalar.Scalar(null),
       default: true,
       tag: "tag:yaml.org,2002:null",
@@ -2361,18 +2361,18 @@ var require_bool = __commonJS({
     "use strict";
     var Scalar = require_Scalar();
     var boolTag = {
-      identify: (value2) => typeof value2 === "boolean",
+      identify: (value3) => typeof value3 === "boolean",
       default: true,
       tag: "tag:yaml.org,2002:bool",
       test: /^(?:[Tt]rue|TRUE|[Ff]alse|FALSE)$/,
       resolve: (str) => new Scalar.Scalar(str[0] === "t" || str[0] === "T"),
-      stringify({ source, value: value2 }, ctx) {
+      stringify({ source, value: value3 }, ctx) {
         if (source && boolTag.test.test(source)) {
           const sv = source[0] === "t" || source[0] === "T";
-          if (value2 === sv)
+          if (value3 === sv)
             return source;
         }
-        return value2 ? ctx.options.trueStr : ctx.options.falseStr;
+        return value3 ? ctx.options.trueStr : ctx.options.falseStr;
       }
     };
     exports.boolTag = boolTag;
@@ -2383,13 +2383,13 @@ var require_bool = __commonJS({
 var require_stringifyNumber = __commonJS({
   "node_modules/yaml/dist/stringify/stringifyNumber.js"(exports) {
     "use strict";
-    function stringifyNumber({ format, minFractionDigits, tag, value: value2 }) {
-      if (typeof value2 === "bigint")
-        return String(value2);
-      const num = typeof value2 === "number" ? value2 : Number(value2);
+    function stringifyNumber({ format, minFractionDigits, tag, value: value3 }) {
+      if (typeof value3 === "bigint")
+        return String(value3);
+      const num = typeof value3 === "number" ? value3 : Number(value3);
       if (!isFinite(num))
         return isNaN(num) ? ".nan" : num < 0 ? "-.inf" : ".inf";
-      let n = Object.is(value2, -0) ? "-0" : JSON.stringify(value2);
+      let n = Object.is(value3, -0) ? "-0" : JSON.stringify(value3);
       if (!format && minFractionDigits && (!tag || tag === "tag:yaml.org,2002:float") && /^-?\d/.test(n) && !n.includes("e")) {
         let i = n.indexOf(".");
         if (i < 0) {
@@ -2413,7 +2413,7 @@ var require_float = __commonJS({
     var Scalar = require_Scalar();
     var stringifyNumber = require_stringifyNumber();
     var floatNaN = {
-      identify: (value2) => typeof value2 === "number",
+      identify: (value3) => typeof value3 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^(?:[-+]?\.(?:inf|Inf|INF)|\.nan|\.NaN|\.NAN)$/,
@@ -2421,7 +2421,7 @@ var require_float = __commonJS({
       stringify: stringifyNumber.stringifyNumber
     };
     var floatExp = {
-      identify: (value2) => typeof value2 === "number",
+      identify: (value3) => typeof value3 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       format: "EXP",
@@ -2433,7 +2433,7 @@ var require_float = __commonJS({
       }
     };
     var float = {
-      identify: (value2) => typeof value2 === "number",
+      identify: (value3) => typeof value3 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^[-+]?(?:\.[0-9]+|[0-9]+\.[0-9]*)$/,
@@ -2457,16 +2457,16 @@ var require_int = __commonJS({
   "node_modules/yaml/dist/schema/core/int.js"(exports) {
     "use strict";
     var stringifyNumber = require_stringifyNumber();
-    var intIdentify = (value2) => typeof value2 === "bigint" || Number.isInteger(value2);
+    var intIdentify = (value3) => typeof value3 === "bigint" || Number.isInteger(value3);
     var intResolve = (str, offset, radix, { intAsBigInt }) => intAsBigInt ? BigInt(str) : parseInt(str.substring(offset), radix);
-    function intStringify(node2, radix, prefix) {
-      const { value: value2 } = node2;
-      if (intIdentify(value2) && value2 >= 0)
-        return prefix + value2.toString(radix);
+    function intStringify(node2, radix, prefix2) {
+      const { value: value3 } = node2;
+      if (intIdentify(value3) && value3 >= 0)
+        return prefix2 + value3.toString(radix);
       return stringifyNumber.stringifyNumber(node2);
     }
     var intOct = {
-      identify: (value2) => intIdentify(value2) && value2 >= 0,
+      identify: (value3) => intIdentify(value3) && value3 >= 0,
       default: true,
       tag: "tag:yaml.org,2002:int",
       format: "OCT",
@@ -2483,7 +2483,7 @@ var require_int = __commonJS({
       stringify: stringifyNumber.stringifyNumber
     };
     var intHex = {
-      identify: (value2) => intIdentify(value2) && value2 >= 0,
+      identify: (value3) => intIdentify(value3) && value3 >= 0,
       default: true,
       tag: "tag:yaml.org,2002:int",
       format: "HEX",
@@ -2532,20 +2532,20 @@ var require_schema2 = __commonJS({
     var Scalar = require_Scalar();
     var map2 = require_map();
     var seq = require_seq();
-    function intIdentify(value2) {
-      return typeof value2 === "bigint" || Number.isInteger(value2);
+    function intIdentify(value3) {
+      return typeof value3 === "bigint" || Number.isInteger(value3);
     }
-    var stringifyJSON = ({ value: value2 }) => JSON.stringify(value2);
+    var stringifyJSON = ({ value: value3 }) => JSON.stringify(value3);
     var jsonScalars = [
       {
-        identify: (value2) => typeof value2 === "string",
+        identify: (value3) => typeof value3 === "string",
         default: true,
         tag: "tag:yaml.org,2002:str",
         resolve: (str) => str,
         stringify: stringifyJSON
       },
       {
-        identify: (value2) => value2 == null,
+        identify: (value3) => value3 == null,
         createNode: () => new Scalar.Scalar(null),
         default: true,
         tag: "tag:yaml.org,2002:null",
@@ -2554,7 +2554,7 @@ var require_schema2 = __commonJS({
         stringify: stringifyJSON
       },
       {
-        identify: (value2) => typeof value2 === "boolean",
+        identify: (value3) => typeof value3 === "boolean",
         default: true,
         tag: "tag:yaml.org,2002:bool",
         test: /^true$|^false$/,
@@ -2567,10 +2567,10 @@ var require_schema2 = __commonJS({
         tag: "tag:yaml.org,2002:int",
         test: /^-?(?:0|[1-9][0-9]*)$/,
         resolve: (str, _onError, { intAsBigInt }) => intAsBigInt ? BigInt(str) : parseInt(str, 10),
-        stringify: ({ value: value2 }) => intIdentify(value2) ? value2.toString() : JSON.stringify(value2)
+        stringify: ({ value: value3 }) => intIdentify(value3) ? value3.toString() : JSON.stringify(value3)
       },
       {
-        identify: (value2) => typeof value2 === "number",
+        identify: (value3) => typeof value3 === "number",
         default: true,
         tag: "tag:yaml.org,2002:float",
         test: /^-?(?:0|[1-9][0-9]*)(?:\.[0-9]*)?(?:[eE][-+]?[0-9]+)?$/,
@@ -2600,7 +2600,7 @@ var require_binary = __commonJS({
     var Scalar = require_Scalar();
     var stringifyString = require_stringifyString();
     var binary = {
-      identify: (value2) => value2 instanceof Uint8Array,
+      identify: (value3) => value3 instanceof Uint8Array,
       // Buffer inherits from Uint8Array
       default: false,
       tag: "tag:yaml.org,2002:binary",
@@ -2626,10 +2626,10 @@ var require_binary = __commonJS({
           return src;
         }
       },
-      stringify({ comment, type, value: value2 }, ctx, onComment, onChompKeep) {
-        if (!value2)
+      stringify({ comment, type, value: value3 }, ctx, onComment, onChompKeep) {
+        if (!value3)
           return "";
-        const buf = value2;
+        const buf = value3;
         let str;
         if (typeof node_buffer.Buffer === "function") {
           str = buf instanceof node_buffer.Buffer ? buf.toString("base64") : node_buffer.Buffer.from(buf.buffer).toString("base64");
@@ -2701,25 +2701,25 @@ ${cn.comment}` : item.comment;
         for (let it of iterable) {
           if (typeof replacer === "function")
             it = replacer.call(iterable, String(i++), it);
-          let key2, value2;
+          let key2, value3;
           if (Array.isArray(it)) {
             if (it.length === 2) {
               key2 = it[0];
-              value2 = it[1];
+              value3 = it[1];
             } else
               throw new TypeError(`Expected [key, value] tuple: ${it}`);
           } else if (it && it instanceof Object) {
             const keys = Object.keys(it);
             if (keys.length === 1) {
               key2 = keys[0];
-              value2 = it[key2];
+              value3 = it[key2];
             } else {
               throw new TypeError(`Expected tuple with one key, not ${keys.length} keys`);
             }
           } else {
             key2 = it;
           }
-          pairs2.items.push(Pair.createPair(key2, value2, ctx));
+          pairs2.items.push(Pair.createPair(key2, value3, ctx));
         }
       return pairs2;
     }
@@ -2766,16 +2766,16 @@ var require_omap = __commonJS({
         if (ctx?.onCreate)
           ctx.onCreate(map2);
         for (const pair of this.items) {
-          let key2, value2;
+          let key2, value3;
           if (identity.isPair(pair)) {
             key2 = toJS.toJS(pair.key, "", ctx);
-            value2 = toJS.toJS(pair.value, key2, ctx);
+            value3 = toJS.toJS(pair.value, key2, ctx);
           } else {
             key2 = toJS.toJS(pair, "", ctx);
           }
           if (map2.has(key2))
             throw new Error("Ordered maps must not include duplicate keys");
-          map2.set(key2, value2);
+          map2.set(key2, value3);
         }
         return map2;
       }
@@ -2789,7 +2789,7 @@ var require_omap = __commonJS({
     YAMLOMap.tag = "tag:yaml.org,2002:omap";
     var omap = {
       collection: "seq",
-      identify: (value2) => value2 instanceof Map,
+      identify: (value3) => value3 instanceof Map,
       nodeClass: YAMLOMap,
       default: false,
       tag: "tag:yaml.org,2002:omap",
@@ -2819,14 +2819,14 @@ var require_bool2 = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/bool.js"(exports) {
     "use strict";
     var Scalar = require_Scalar();
-    function boolStringify({ value: value2, source }, ctx) {
-      const boolObj = value2 ? trueTag : falseTag;
+    function boolStringify({ value: value3, source }, ctx) {
+      const boolObj = value3 ? trueTag : falseTag;
       if (source && boolObj.test.test(source))
         return source;
-      return value2 ? ctx.options.trueStr : ctx.options.falseStr;
+      return value3 ? ctx.options.trueStr : ctx.options.falseStr;
     }
     var trueTag = {
-      identify: (value2) => value2 === true,
+      identify: (value3) => value3 === true,
       default: true,
       tag: "tag:yaml.org,2002:bool",
       test: /^(?:Y|y|[Yy]es|YES|[Tt]rue|TRUE|[Oo]n|ON)$/,
@@ -2834,7 +2834,7 @@ var require_bool2 = __commonJS({
       stringify: boolStringify
     };
     var falseTag = {
-      identify: (value2) => value2 === false,
+      identify: (value3) => value3 === false,
       default: true,
       tag: "tag:yaml.org,2002:bool",
       test: /^(?:N|n|[Nn]o|NO|[Ff]alse|FALSE|[Oo]ff|OFF)$/,
@@ -2853,7 +2853,7 @@ var require_float2 = __commonJS({
     var Scalar = require_Scalar();
     var stringifyNumber = require_stringifyNumber();
     var floatNaN = {
-      identify: (value2) => typeof value2 === "number",
+      identify: (value3) => typeof value3 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^(?:[-+]?\.(?:inf|Inf|INF)|\.nan|\.NaN|\.NAN)$/,
@@ -2861,7 +2861,7 @@ var require_float2 = __commonJS({
       stringify: stringifyNumber.stringifyNumber
     };
     var floatExp = {
-      identify: (value2) => typeof value2 === "number",
+      identify: (value3) => typeof value3 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       format: "EXP",
@@ -2873,7 +2873,7 @@ var require_float2 = __commonJS({
       }
     };
     var float = {
-      identify: (value2) => typeof value2 === "number",
+      identify: (value3) => typeof value3 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       test: /^[-+]?(?:[0-9][0-9_]*)?\.[0-9_]*$/,
@@ -2900,7 +2900,7 @@ var require_int2 = __commonJS({
   "node_modules/yaml/dist/schema/yaml-1.1/int.js"(exports) {
     "use strict";
     var stringifyNumber = require_stringifyNumber();
-    var intIdentify = (value2) => typeof value2 === "bigint" || Number.isInteger(value2);
+    var intIdentify = (value3) => typeof value3 === "bigint" || Number.isInteger(value3);
     function intResolve(str, offset, radix, { intAsBigInt }) {
       const sign = str[0];
       if (sign === "-" || sign === "+")
@@ -2924,11 +2924,11 @@ var require_int2 = __commonJS({
       const n = parseInt(str, radix);
       return sign === "-" ? -1 * n : n;
     }
-    function intStringify(node2, radix, prefix) {
-      const { value: value2 } = node2;
-      if (intIdentify(value2)) {
-        const str = value2.toString(radix);
-        return value2 < 0 ? "-" + prefix + str.substr(1) : prefix + str;
+    function intStringify(node2, radix, prefix2) {
+      const { value: value3 } = node2;
+      if (intIdentify(value3)) {
+        const str = value3.toString(radix);
+        return value3 < 0 ? "-" + prefix2 + str.substr(1) : prefix2 + str;
       }
       return stringifyNumber.stringifyNumber(node2);
     }
@@ -3006,13 +3006,13 @@ var require_set = __commonJS({
         const pair = YAMLMap.findPair(this.items, key2);
         return !keepPair && identity.isPair(pair) ? identity.isScalar(pair.key) ? pair.key.value : pair.key : pair;
       }
-      set(key2, value2) {
-        if (typeof value2 !== "boolean")
-          throw new Error(`Expected boolean value for set(key, value) in a YAML set, not ${typeof value2}`);
+      set(key2, value3) {
+        if (typeof value3 !== "boolean")
+          throw new Error(`Expected boolean value for set(key, value) in a YAML set, not ${typeof value3}`);
         const prev = YAMLMap.findPair(this.items, key2);
-        if (prev && !value2) {
+        if (prev && !value3) {
           this.items.splice(this.items.indexOf(prev), 1);
-        } else if (!prev && value2) {
+        } else if (!prev && value3) {
           this.items.push(new Pair.Pair(key2));
         }
       }
@@ -3031,10 +3031,10 @@ var require_set = __commonJS({
         const { replacer } = ctx;
         const set3 = new this(schema);
         if (iterable && Symbol.iterator in Object(iterable))
-          for (let value2 of iterable) {
+          for (let value3 of iterable) {
             if (typeof replacer === "function")
-              value2 = replacer.call(iterable, value2, value2);
-            set3.items.push(Pair.createPair(value2, null, ctx));
+              value3 = replacer.call(iterable, value3, value3);
+            set3.items.push(Pair.createPair(value3, null, ctx));
           }
         return set3;
       }
@@ -3042,7 +3042,7 @@ var require_set = __commonJS({
     YAMLSet.tag = "tag:yaml.org,2002:set";
     var set2 = {
       collection: "map",
-      identify: (value2) => value2 instanceof Set,
+      identify: (value3) => value3 instanceof Set,
       nodeClass: YAMLSet,
       default: false,
       tag: "tag:yaml.org,2002:set",
@@ -3076,33 +3076,33 @@ var require_timestamp = __commonJS({
       return sign === "-" ? num(-1) * res : res;
     }
     function stringifySexagesimal(node2) {
-      let { value: value2 } = node2;
+      let { value: value3 } = node2;
       let num = (n) => n;
-      if (typeof value2 === "bigint")
+      if (typeof value3 === "bigint")
         num = (n) => BigInt(n);
-      else if (isNaN(value2) || !isFinite(value2))
+      else if (isNaN(value3) || !isFinite(value3))
         return stringifyNumber.stringifyNumber(node2);
       let sign = "";
-      if (value2 < 0) {
+      if (value3 < 0) {
         sign = "-";
-        value2 *= num(-1);
+        value3 *= num(-1);
       }
       const _60 = num(60);
-      const parts = [value2 % _60];
-      if (value2 < 60) {
+      const parts = [value3 % _60];
+      if (value3 < 60) {
         parts.unshift(0);
       } else {
-        value2 = (value2 - parts[0]) / _60;
-        parts.unshift(value2 % _60);
-        if (value2 >= 60) {
-          value2 = (value2 - parts[0]) / _60;
-          parts.unshift(value2);
+        value3 = (value3 - parts[0]) / _60;
+        parts.unshift(value3 % _60);
+        if (value3 >= 60) {
+          value3 = (value3 - parts[0]) / _60;
+          parts.unshift(value3);
         }
       }
       return sign + parts.map((n) => String(n).padStart(2, "0")).join(":").replace(/000000\d*$/, "");
     }
     var intTime = {
-      identify: (value2) => typeof value2 === "bigint" || Number.isInteger(value2),
+      identify: (value3) => typeof value3 === "bigint" || Number.isInteger(value3),
       default: true,
       tag: "tag:yaml.org,2002:int",
       format: "TIME",
@@ -3111,7 +3111,7 @@ var require_timestamp = __commonJS({
       stringify: stringifySexagesimal
     };
     var floatTime = {
-      identify: (value2) => typeof value2 === "number",
+      identify: (value3) => typeof value3 === "number",
       default: true,
       tag: "tag:yaml.org,2002:float",
       format: "TIME",
@@ -3120,7 +3120,7 @@ var require_timestamp = __commonJS({
       stringify: stringifySexagesimal
     };
     var timestamp = {
-      identify: (value2) => value2 instanceof Date,
+      identify: (value3) => value3 instanceof Date,
       default: true,
       tag: "tag:yaml.org,2002:timestamp",
       // If the time zone is omitted, the timestamp is assumed to be specified in UTC. The time part
@@ -3143,7 +3143,7 @@ var require_timestamp = __commonJS({
         }
         return new Date(date5);
       },
-      stringify: ({ value: value2 }) => value2?.toISOString().replace(/(T00:00:00)?\.000Z$/, "") ?? ""
+      stringify: ({ value: value3 }) => value3?.toISOString().replace(/(T00:00:00)?\.000Z$/, "") ?? ""
     };
     exports.floatTime = floatTime;
     exports.intTime = intTime;
@@ -3417,7 +3417,7 @@ var require_Document = __commonJS({
     var createNode = require_createNode();
     var directives = require_directives();
     var Document = class _Document {
-      constructor(value2, replacer, options) {
+      constructor(value3, replacer, options) {
         this.commentBefore = null;
         this.comment = null;
         this.errors = [];
@@ -3449,7 +3449,7 @@ var require_Document = __commonJS({
         } else
           this.directives = new directives.Directives({ version: version2 });
         this.setSchema(version2, options);
-        this.contents = value2 === void 0 ? null : this.createNode(value2, _replacer, options);
+        this.contents = value3 === void 0 ? null : this.createNode(value3, _replacer, options);
       }
       /**
        * Create a deep copy of this Document and its contents.
@@ -3474,14 +3474,14 @@ var require_Document = __commonJS({
         return copy;
       }
       /** Adds a value to the document. */
-      add(value2) {
+      add(value3) {
         if (assertCollection(this.contents))
-          this.contents.add(value2);
+          this.contents.add(value3);
       }
       /** Adds a value to the document. */
-      addIn(path, value2) {
+      addIn(path, value3) {
         if (assertCollection(this.contents))
-          this.contents.addIn(path, value2);
+          this.contents.addIn(path, value3);
       }
       /**
        * Create a new `Alias` node, ensuring that the target `node` has the required anchor.
@@ -3500,10 +3500,10 @@ var require_Document = __commonJS({
         }
         return new Alias.Alias(node2.anchor);
       }
-      createNode(value2, replacer, options) {
+      createNode(value3, replacer, options) {
         let _replacer = void 0;
         if (typeof replacer === "function") {
-          value2 = replacer.call({ "": value2 }, "", value2);
+          value3 = replacer.call({ "": value3 }, "", value3);
           _replacer = replacer;
         } else if (Array.isArray(replacer)) {
           const keyToStr = (v) => typeof v === "number" || v instanceof String || v instanceof Number;
@@ -3530,7 +3530,7 @@ var require_Document = __commonJS({
           schema: this.schema,
           sourceObjects
         };
-        const node2 = createNode.createNode(value2, tag, ctx);
+        const node2 = createNode.createNode(value3, tag, ctx);
         if (flow && identity.isCollection(node2))
           node2.flow = true;
         setAnchors();
@@ -3540,9 +3540,9 @@ var require_Document = __commonJS({
        * Convert a key and a value into a `Pair` using the current schema,
        * recursively wrapping all values as `Scalar` or `Collection` nodes.
        */
-      createPair(key2, value2, options = {}) {
+      createPair(key2, value3, options = {}) {
         const k = this.createNode(key2, null, options);
-        const v = this.createNode(value2, null, options);
+        const v = this.createNode(value3, null, options);
         return new Pair.Pair(k, v);
       }
       /**
@@ -3601,24 +3601,24 @@ var require_Document = __commonJS({
        * Sets a value in this document. For `!!set`, `value` needs to be a
        * boolean to add/remove the item from the set.
        */
-      set(key2, value2) {
+      set(key2, value3) {
         if (this.contents == null) {
-          this.contents = Collection.collectionFromPath(this.schema, [key2], value2);
+          this.contents = Collection.collectionFromPath(this.schema, [key2], value3);
         } else if (assertCollection(this.contents)) {
-          this.contents.set(key2, value2);
+          this.contents.set(key2, value3);
         }
       }
       /**
        * Sets a value in this document. For `!!set`, `value` needs to be a
        * boolean to add/remove the item from the set.
        */
-      setIn(path, value2) {
+      setIn(path, value3) {
         if (Collection.isEmptyPath(path)) {
-          this.contents = value2;
+          this.contents = value3;
         } else if (this.contents == null) {
-          this.contents = Collection.collectionFromPath(this.schema, Array.from(path), value2);
+          this.contents = Collection.collectionFromPath(this.schema, Array.from(path), value3);
         } else if (assertCollection(this.contents)) {
-          this.contents.setIn(path, value2);
+          this.contents.setIn(path, value3);
         }
       }
       /**
@@ -4004,7 +4004,7 @@ var require_resolve_block_map = __commonJS({
       let offset = bm.offset;
       let commentEnd = null;
       for (const collItem of bm.items) {
-        const { start, key: key2, sep: sep2, value: value2 } = collItem;
+        const { start, key: key2, sep: sep2, value: value3 } = collItem;
         const keyProps = resolveProps.resolveProps(start, {
           indicator: "explicit-key-ind",
           next: key2 ?? sep2?.[0],
@@ -4047,7 +4047,7 @@ var require_resolve_block_map = __commonJS({
           onError(keyStart, "DUPLICATE_KEY", "Map keys must be unique");
         const valueProps = resolveProps.resolveProps(sep2 ?? [], {
           indicator: "map-value-ind",
-          next: value2,
+          next: value3,
           offset: keyNode.range[2],
           onError,
           parentIndent: bm.indent,
@@ -4056,14 +4056,14 @@ var require_resolve_block_map = __commonJS({
         offset = valueProps.end;
         if (valueProps.found) {
           if (implicitKey) {
-            if (value2?.type === "block-map" && !valueProps.hasNewline)
+            if (value3?.type === "block-map" && !valueProps.hasNewline)
               onError(offset, "BLOCK_AS_IMPLICIT_KEY", "Nested mappings are not allowed in compact mappings");
             if (ctx.options.strict && keyProps.start < valueProps.found.offset - 1024)
               onError(keyNode.range, "KEY_OVER_1024_CHARS", "The : indicator must be at most 1024 chars after the start of an implicit block mapping key");
           }
-          const valueNode = value2 ? composeNode(ctx, value2, valueProps, onError) : composeEmptyNode(ctx, offset, sep2, null, valueProps, onError);
+          const valueNode = value3 ? composeNode(ctx, value3, valueProps, onError) : composeEmptyNode(ctx, offset, sep2, null, valueProps, onError);
           if (ctx.schema.compat)
-            utilFlowIndentCheck.flowIndentCheck(bm.indent, value2, onError);
+            utilFlowIndentCheck.flowIndentCheck(bm.indent, value3, onError);
           offset = valueNode.range[2];
           const pair = new Pair.Pair(keyNode, valueNode);
           if (ctx.options.keepSourceTokens)
@@ -4109,18 +4109,18 @@ var require_resolve_block_seq = __commonJS({
         ctx.atKey = false;
       let offset = bs.offset;
       let commentEnd = null;
-      for (const { start, value: value2 } of bs.items) {
+      for (const { start, value: value3 } of bs.items) {
         const props = resolveProps.resolveProps(start, {
           indicator: "seq-item-ind",
-          next: value2,
+          next: value3,
           offset,
           onError,
           parentIndent: bs.indent,
           startOnNewline: true
         });
         if (!props.found) {
-          if (props.anchor || props.tag || value2) {
-            if (value2?.type === "block-seq")
+          if (props.anchor || props.tag || value3) {
+            if (value3?.type === "block-seq")
               onError(props.end, "BAD_INDENT", "All sequence items must start at the same column");
             else
               onError(offset, "MISSING_CHAR", "Sequence item without - indicator");
@@ -4131,9 +4131,9 @@ var require_resolve_block_seq = __commonJS({
             continue;
           }
         }
-        const node2 = value2 ? composeNode(ctx, value2, props, onError) : composeEmptyNode(ctx, props.end, start, null, props, onError);
+        const node2 = value3 ? composeNode(ctx, value3, props, onError) : composeEmptyNode(ctx, props.end, start, null, props, onError);
         if (ctx.schema.compat)
-          utilFlowIndentCheck.flowIndentCheck(bs.indent, value2, onError);
+          utilFlowIndentCheck.flowIndentCheck(bs.indent, value3, onError);
         offset = node2.range[2];
         seq.items.push(node2);
       }
@@ -4215,7 +4215,7 @@ var require_resolve_flow_collection = __commonJS({
       let offset = fc.offset + fc.start.source.length;
       for (let i = 0; i < fc.items.length; ++i) {
         const collItem = fc.items[i];
-        const { start, key: key2, sep: sep2, value: value2 } = collItem;
+        const { start, key: key2, sep: sep2, value: value3 } = collItem;
         const props = resolveProps.resolveProps(start, {
           flow: fcName,
           indicator: "explicit-key-ind",
@@ -4226,7 +4226,7 @@ var require_resolve_flow_collection = __commonJS({
           startOnNewline: false
         });
         if (!props.found) {
-          if (!props.anchor && !props.tag && !sep2 && !value2) {
+          if (!props.anchor && !props.tag && !sep2 && !value3) {
             if (i === 0 && props.comma)
               onError(props.comma, "UNEXPECTED_TOKEN", `Unexpected , in ${fcName}`);
             else if (i < fc.items.length - 1)
@@ -4281,10 +4281,10 @@ var require_resolve_flow_collection = __commonJS({
           }
         }
         if (!isMap2 && !sep2 && !props.found) {
-          const valueNode = value2 ? composeNode(ctx, value2, props, onError) : composeEmptyNode(ctx, props.end, sep2, null, props, onError);
+          const valueNode = value3 ? composeNode(ctx, value3, props, onError) : composeEmptyNode(ctx, props.end, sep2, null, props, onError);
           coll.items.push(valueNode);
           offset = valueNode.range[2];
-          if (isBlock(value2))
+          if (isBlock(value3))
             onError(valueNode.range, "BLOCK_IN_FLOW", blockMsg);
         } else {
           ctx.atKey = true;
@@ -4296,7 +4296,7 @@ var require_resolve_flow_collection = __commonJS({
           const valueProps = resolveProps.resolveProps(sep2 ?? [], {
             flow: fcName,
             indicator: "map-value-ind",
-            next: value2,
+            next: value3,
             offset: keyNode.range[2],
             onError,
             parentIndent: fc.indent,
@@ -4316,15 +4316,15 @@ var require_resolve_flow_collection = __commonJS({
               if (props.start < valueProps.found.offset - 1024)
                 onError(valueProps.found, "KEY_OVER_1024_CHARS", "The : indicator must be at most 1024 chars after the start of an implicit flow sequence key");
             }
-          } else if (value2) {
-            if ("source" in value2 && value2.source?.[0] === ":")
-              onError(value2, "MISSING_CHAR", `Missing space after : in ${fcName}`);
+          } else if (value3) {
+            if ("source" in value3 && value3.source?.[0] === ":")
+              onError(value3, "MISSING_CHAR", `Missing space after : in ${fcName}`);
             else
               onError(valueProps.start, "MISSING_CHAR", `Missing , or : between ${fcName} items`);
           }
-          const valueNode = value2 ? composeNode(ctx, value2, valueProps, onError) : valueProps.found ? composeEmptyNode(ctx, valueProps.end, sep2, null, valueProps, onError) : null;
+          const valueNode = value3 ? composeNode(ctx, value3, valueProps, onError) : valueProps.found ? composeEmptyNode(ctx, valueProps.end, sep2, null, valueProps, onError) : null;
           if (valueNode) {
-            if (isBlock(value2))
+            if (isBlock(value3))
               onError(valueNode.range, "BLOCK_IN_FLOW", blockMsg);
           } else if (valueProps.comment) {
             if (keyNode.comment)
@@ -4467,11 +4467,11 @@ var require_resolve_block_scalar = __commonJS({
           break;
       }
       if (chompStart === 0) {
-        const value3 = header.chomp === "+" && lines.length > 0 ? "\n".repeat(Math.max(1, lines.length - 1)) : "";
+        const value4 = header.chomp === "+" && lines.length > 0 ? "\n".repeat(Math.max(1, lines.length - 1)) : "";
         let end2 = start + header.length;
         if (scalar2.source)
           end2 += scalar2.source.length;
-        return { value: value3, type, comment: header.comment, range: [start, end2, end2] };
+        return { value: value4, type, comment: header.comment, range: [start, end2, end2] };
       }
       let trimIndent = scalar2.indent + header.indent;
       let offset = scalar2.offset + header.length;
@@ -4501,11 +4501,11 @@ var require_resolve_block_scalar = __commonJS({
         if (lines[i][0].length > trimIndent)
           chompStart = i + 1;
       }
-      let value2 = "";
+      let value3 = "";
       let sep2 = "";
       let prevMoreIndented = false;
       for (let i = 0; i < contentStart; ++i)
-        value2 += lines[i][0].slice(trimIndent) + "\n";
+        value3 += lines[i][0].slice(trimIndent) + "\n";
       for (let i = contentStart; i < chompStart; ++i) {
         let [indent, content] = lines[i];
         offset += indent.length + content.length + 1;
@@ -4519,23 +4519,23 @@ var require_resolve_block_scalar = __commonJS({
           indent = "";
         }
         if (type === Scalar.Scalar.BLOCK_LITERAL) {
-          value2 += sep2 + indent.slice(trimIndent) + content;
+          value3 += sep2 + indent.slice(trimIndent) + content;
           sep2 = "\n";
         } else if (indent.length > trimIndent || content[0] === "	") {
           if (sep2 === " ")
             sep2 = "\n";
           else if (!prevMoreIndented && sep2 === "\n")
             sep2 = "\n\n";
-          value2 += sep2 + indent.slice(trimIndent) + content;
+          value3 += sep2 + indent.slice(trimIndent) + content;
           sep2 = "\n";
           prevMoreIndented = true;
         } else if (content === "") {
           if (sep2 === "\n")
-            value2 += "\n";
+            value3 += "\n";
           else
             sep2 = "\n";
         } else {
-          value2 += sep2 + content;
+          value3 += sep2 + content;
           sep2 = " ";
           prevMoreIndented = false;
         }
@@ -4545,15 +4545,15 @@ var require_resolve_block_scalar = __commonJS({
           break;
         case "+":
           for (let i = chompStart; i < lines.length; ++i)
-            value2 += "\n" + lines[i][0].slice(trimIndent);
-          if (value2[value2.length - 1] !== "\n")
-            value2 += "\n";
+            value3 += "\n" + lines[i][0].slice(trimIndent);
+          if (value3[value3.length - 1] !== "\n")
+            value3 += "\n";
           break;
         default:
-          value2 += "\n";
+          value3 += "\n";
       }
       const end = start + header.length + scalar2.source.length;
-      return { value: value2, type, comment: header.comment, range: [start, end, end] };
+      return { value: value3, type, comment: header.comment, range: [start, end, end] };
     }
     function parseBlockScalarHeader({ offset, props }, strict, onError) {
       if (props[0].type !== "block-scalar-header") {
@@ -4638,20 +4638,20 @@ var require_resolve_flow_scalar = __commonJS({
     function resolveFlowScalar(scalar2, strict, onError) {
       const { offset, type, source, end } = scalar2;
       let _type;
-      let value2;
+      let value3;
       const _onError = (rel, code2, msg) => onError(offset + rel, code2, msg);
       switch (type) {
         case "scalar":
           _type = Scalar.Scalar.PLAIN;
-          value2 = plainValue(source, _onError);
+          value3 = plainValue(source, _onError);
           break;
         case "single-quoted-scalar":
           _type = Scalar.Scalar.QUOTE_SINGLE;
-          value2 = singleQuotedValue(source, _onError);
+          value3 = singleQuotedValue(source, _onError);
           break;
         case "double-quoted-scalar":
           _type = Scalar.Scalar.QUOTE_DOUBLE;
-          value2 = doubleQuotedValue(source, _onError);
+          value3 = doubleQuotedValue(source, _onError);
           break;
         /* istanbul ignore next should not happen */
         default:
@@ -4666,7 +4666,7 @@ var require_resolve_flow_scalar = __commonJS({
       const valueEnd = offset + source.length;
       const re = resolveEnd.resolveEnd(end, valueEnd, strict, onError);
       return {
-        value: value2,
+        value: value3,
         type: _type,
         comment: re.comment,
         range: [offset, valueEnd, re.offset]
@@ -4859,28 +4859,28 @@ var require_compose_scalar = __commonJS({
     var resolveBlockScalar = require_resolve_block_scalar();
     var resolveFlowScalar = require_resolve_flow_scalar();
     function composeScalar(ctx, token, tagToken, onError) {
-      const { value: value2, type, comment, range } = token.type === "block-scalar" ? resolveBlockScalar.resolveBlockScalar(ctx, token, onError) : resolveFlowScalar.resolveFlowScalar(token, ctx.options.strict, onError);
+      const { value: value3, type, comment, range } = token.type === "block-scalar" ? resolveBlockScalar.resolveBlockScalar(ctx, token, onError) : resolveFlowScalar.resolveFlowScalar(token, ctx.options.strict, onError);
       const tagName = tagToken ? ctx.directives.tagName(tagToken.source, (msg) => onError(tagToken, "TAG_RESOLVE_FAILED", msg)) : null;
       let tag;
       if (ctx.options.stringKeys && ctx.atKey) {
         tag = ctx.schema[identity.SCALAR];
       } else if (tagName)
-        tag = findScalarTagByName(ctx.schema, value2, tagName, tagToken, onError);
+        tag = findScalarTagByName(ctx.schema, value3, tagName, tagToken, onError);
       else if (token.type === "scalar")
-        tag = findScalarTagByTest(ctx, value2, token, onError);
+        tag = findScalarTagByTest(ctx, value3, token, onError);
       else
         tag = ctx.schema[identity.SCALAR];
       let scalar2;
       try {
-        const res = tag.resolve(value2, (msg) => onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg), ctx.options);
+        const res = tag.resolve(value3, (msg) => onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg), ctx.options);
         scalar2 = identity.isScalar(res) ? res : new Scalar.Scalar(res);
       } catch (error62) {
         const msg = error62 instanceof Error ? error62.message : String(error62);
         onError(tagToken ?? token, "TAG_RESOLVE_FAILED", msg);
-        scalar2 = new Scalar.Scalar(value2);
+        scalar2 = new Scalar.Scalar(value3);
       }
       scalar2.range = range;
-      scalar2.source = value2;
+      scalar2.source = value3;
       if (type)
         scalar2.type = type;
       if (tagName)
@@ -4891,7 +4891,7 @@ var require_compose_scalar = __commonJS({
         scalar2.comment = comment;
       return scalar2;
     }
-    function findScalarTagByName(schema, value2, tagName, tagToken, onError) {
+    function findScalarTagByName(schema, value3, tagName, tagToken, onError) {
       if (tagName === "!")
         return schema[identity.SCALAR];
       const matchWithTest = [];
@@ -4904,7 +4904,7 @@ var require_compose_scalar = __commonJS({
         }
       }
       for (const tag of matchWithTest)
-        if (tag.test?.test(value2))
+        if (tag.test?.test(value3))
           return tag;
       const kt = schema.knownTags[tagName];
       if (kt && !kt.collection) {
@@ -4914,10 +4914,10 @@ var require_compose_scalar = __commonJS({
       onError(tagToken, "TAG_RESOLVE_FAILED", `Unresolved tag: ${tagName}`, tagName !== "tag:yaml.org,2002:str");
       return schema[identity.SCALAR];
     }
-    function findScalarTagByTest({ atKey, directives, schema }, value2, token, onError) {
-      const tag = schema.tags.find((tag2) => (tag2.default === true || atKey && tag2.default === "key") && tag2.test?.test(value2)) || schema[identity.SCALAR];
+    function findScalarTagByTest({ atKey, directives, schema }, value3, token, onError) {
+      const tag = schema.tags.find((tag2) => (tag2.default === true || atKey && tag2.default === "key") && tag2.test?.test(value3)) || schema[identity.SCALAR];
       if (schema.compat) {
-        const compat = schema.compat.find((tag2) => tag2.default && tag2.test?.test(value2)) ?? schema[identity.SCALAR];
+        const compat = schema.compat.find((tag2) => tag2.default && tag2.test?.test(value3)) ?? schema[identity.SCALAR];
         if (tag.tag !== compat.tag) {
           const ts = directives.tagString(tag.tag);
           const cs = directives.tagString(compat.tag);
@@ -5075,7 +5075,7 @@ var require_compose_doc = __commonJS({
     var composeNode = require_compose_node();
     var resolveEnd = require_resolve_end();
     var resolveProps = require_resolve_props();
-    function composeDoc(options, directives, { offset, start, value: value2, end }, onError) {
+    function composeDoc(options, directives, { offset, start, value: value3, end }, onError) {
       const opts = Object.assign({ _directives: directives }, options);
       const doc = new Document.Document(void 0, opts);
       const ctx = {
@@ -5087,7 +5087,7 @@ var require_compose_doc = __commonJS({
       };
       const props = resolveProps.resolveProps(start, {
         indicator: "doc-start",
-        next: value2 ?? end?.[0],
+        next: value3 ?? end?.[0],
         offset,
         onError,
         parentIndent: 0,
@@ -5095,10 +5095,10 @@ var require_compose_doc = __commonJS({
       });
       if (props.found) {
         doc.directives.docStart = true;
-        if (value2 && (value2.type === "block-map" || value2.type === "block-seq") && !props.hasNewline)
+        if (value3 && (value3.type === "block-map" || value3.type === "block-seq") && !props.hasNewline)
           onError(props.end, "MISSING_CHAR", "Block collection cannot start on same line with directives-end marker");
       }
-      doc.contents = value2 ? composeNode.composeNode(ctx, value2, props, onError) : composeNode.composeEmptyNode(ctx, props.end, start, null, props, onError);
+      doc.contents = value3 ? composeNode.composeNode(ctx, value3, props, onError) : composeNode.composeEmptyNode(ctx, props.end, start, null, props, onError);
       const contentEnd = doc.contents.range[2];
       const re = resolveEnd.resolveEnd(end, contentEnd, false, onError);
       if (re.comment)
@@ -5346,9 +5346,9 @@ var require_cst_scalar = __commonJS({
       }
       return null;
     }
-    function createScalarToken(value2, context) {
+    function createScalarToken(value3, context) {
       const { implicitKey = false, indent, inFlow = false, offset = -1, type = "PLAIN" } = context;
-      const source = stringifyString.stringifyString({ type, value: value2 }, {
+      const source = stringifyString.stringifyString({ type, value: value3 }, {
         implicitKey,
         indent: indent > 0 ? " ".repeat(indent) : "",
         inFlow,
@@ -5378,7 +5378,7 @@ var require_cst_scalar = __commonJS({
           return { type: "scalar", offset, indent, source, end };
       }
     }
-    function setScalarValue(token, value2, context = {}) {
+    function setScalarValue(token, value3, context = {}) {
       let { afterKey = false, implicitKey = false, inFlow = false, type } = context;
       let indent = "indent" in token ? token.indent : null;
       if (afterKey && typeof indent === "number")
@@ -5401,7 +5401,7 @@ var require_cst_scalar = __commonJS({
           default:
             type = "PLAIN";
         }
-      const source = stringifyString.stringifyString({ type, value: value2 }, {
+      const source = stringifyString.stringifyString({ type, value: value3 }, {
         implicitKey: implicitKey || indent === null,
         indent: indent !== null && indent > 0 ? " ".repeat(indent) : "",
         inFlow,
@@ -5547,7 +5547,7 @@ var require_cst_stringify = __commonJS({
         }
       }
     }
-    function stringifyItem({ start, key: key2, sep: sep2, value: value2 }) {
+    function stringifyItem({ start, key: key2, sep: sep2, value: value3 }) {
       let res = "";
       for (const st of start)
         res += st.source;
@@ -5556,8 +5556,8 @@ var require_cst_stringify = __commonJS({
       if (sep2)
         for (const st of sep2)
           res += st.source;
-      if (value2)
-        res += stringifyToken(value2);
+      if (value3)
+        res += stringifyToken(value3);
       return res;
     }
     exports.stringify = stringify;
@@ -7290,7 +7290,7 @@ var require_public_api = __commonJS({
       }
       return doc.toJS(Object.assign({ reviver: _reviver }, options));
     }
-    function stringify(value2, replacer, options) {
+    function stringify(value3, replacer, options) {
       let _replacer = null;
       if (typeof replacer === "function" || Array.isArray(replacer)) {
         _replacer = replacer;
@@ -7303,14 +7303,14 @@ var require_public_api = __commonJS({
         const indent = Math.round(options);
         options = indent < 1 ? void 0 : indent > 8 ? { indent: 8 } : { indent };
       }
-      if (value2 === void 0) {
+      if (value3 === void 0) {
         const { keepUndefined } = options ?? replacer ?? {};
         if (!keepUndefined)
           return void 0;
       }
-      if (identity.isDocument(value2) && !_replacer)
-        return value2.toString(options);
-      return new Document.Document(value2, _replacer, options).toString(options);
+      if (identity.isDocument(value3) && !_replacer)
+        return value3.toString(options);
+      return new Document.Document(value3, _replacer, options).toString(options);
     }
     exports.parse = parse5;
     exports.parseAllDocuments = parseAllDocuments;
@@ -7461,9 +7461,9 @@ var require_backend_impl = __commonJS({
       if (!backend) {
         throw new Error(`no available backend found. ERR: ${errors.map((e2) => `[${e2.name}] ${e2.err}`).join(", ")}`);
       }
-      for (const { name, err } of errors) {
+      for (const { name, err: err2 } of errors) {
         if (backendHints.includes(name)) {
-          console.warn(`removing requested execution provider "${name}" from session options because it is not available: ${err}`);
+          console.warn(`removing requested execution provider "${name}" from session options because it is not available: ${err2}`);
         }
       }
       const filteredEps = eps.filter((i) => availableBackendNames.has(typeof i === "string" ? i : i.name));
@@ -7519,14 +7519,14 @@ var require_env_impl = __commonJS({
       webgl: {},
       webgpu: {},
       versions: { common: version_js_1.version },
-      set logLevel(value2) {
-        if (value2 === void 0) {
+      set logLevel(value3) {
+        if (value3 === void 0) {
           return;
         }
-        if (typeof value2 !== "string" || ["verbose", "info", "warning", "error", "fatal"].indexOf(value2) === -1) {
-          throw new Error(`Unsupported logging level: ${value2}`);
+        if (typeof value3 !== "string" || ["verbose", "info", "warning", "error", "fatal"].indexOf(value3) === -1) {
+          throw new Error(`Unsupported logging level: ${value3}`);
         }
-        logLevelValue = value2;
+        logLevelValue = value3;
       },
       get logLevel() {
         return logLevelValue;
@@ -7888,7 +7888,7 @@ var require_tensor_factory_impl = __commonJS({
           throw new Error("Can not access image data");
         }
       } else if (isString) {
-        return new Promise((resolve6, reject) => {
+        return new Promise((resolve8, reject) => {
           const canvas = createCanvas();
           const context = createCanvasContext(canvas);
           if (!image || !context) {
@@ -7904,7 +7904,7 @@ var require_tensor_factory_impl = __commonJS({
             const img = context.getImageData(0, 0, canvas.width, canvas.height);
             bufferToTensorOptions.height = canvas.height;
             bufferToTensorOptions.width = canvas.width;
-            resolve6((0, exports.bufferToTensor)(img.data, bufferToTensorOptions));
+            resolve8((0, exports.bufferToTensor)(img.data, bufferToTensorOptions));
           };
         });
       } else {
@@ -8727,11 +8727,11 @@ var require_binding = __commonJS({
 var require_backend2 = __commonJS({
   "node_modules/onnxruntime-node/dist/backend.js"(exports) {
     "use strict";
-    var __classPrivateFieldSet = exports && exports.__classPrivateFieldSet || function(receiver, state, value2, kind, f) {
+    var __classPrivateFieldSet = exports && exports.__classPrivateFieldSet || function(receiver, state, value3, kind, f) {
       if (kind === "m") throw new TypeError("Private method is not writable");
       if (kind === "a" && !f) throw new TypeError("Private accessor was defined without a setter");
       if (typeof state === "function" ? receiver !== state || !f : !state.has(receiver)) throw new TypeError("Cannot write private member to an object whose class did not declare it");
-      return kind === "a" ? f.call(receiver, value2) : f ? f.value = value2 : state.set(receiver, value2), value2;
+      return kind === "a" ? f.call(receiver, value3) : f ? f.value = value3 : state.set(receiver, value3), value3;
     };
     var __classPrivateFieldGet = exports && exports.__classPrivateFieldGet || function(receiver, state, kind, f) {
       if (kind === "a" && !f) throw new TypeError("Private accessor was defined without a getter");
@@ -8834,10 +8834,10 @@ var require_backend2 = __commonJS({
         __classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").endProfiling();
       }
       async run(feeds, fetches, options) {
-        return new Promise((resolve6, reject) => {
+        return new Promise((resolve8, reject) => {
           setImmediate(() => {
             try {
-              resolve6(__classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").run(feeds, fetches, options));
+              resolve8(__classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").run(feeds, fetches, options));
             } catch (e2) {
               reject(e2);
             }
@@ -8851,10 +8851,10 @@ var require_backend2 = __commonJS({
         return Promise.resolve();
       }
       async createInferenceSessionHandler(pathOrBuffer, options) {
-        return new Promise((resolve6, reject) => {
+        return new Promise((resolve8, reject) => {
           setImmediate(() => {
             try {
-              resolve6(new OnnxruntimeSessionHandler(pathOrBuffer, options || {}));
+              resolve8(new OnnxruntimeSessionHandler(pathOrBuffer, options || {}));
             } catch (e2) {
               reject(e2);
             }
@@ -8924,26 +8924,26 @@ var require_aspromise = __commonJS({
       var params = new Array(arguments.length - 1), offset = 0, index = 2, pending = true;
       while (index < arguments.length)
         params[offset++] = arguments[index++];
-      return new Promise(function executor(resolve6, reject) {
-        params[offset] = function callback(err) {
+      return new Promise(function executor(resolve8, reject) {
+        params[offset] = function callback(err2) {
           if (pending) {
             pending = false;
-            if (err)
-              reject(err);
+            if (err2)
+              reject(err2);
             else {
               var params2 = new Array(arguments.length - 1), offset2 = 0;
               while (offset2 < params2.length)
                 params2[offset2++] = arguments[offset2];
-              resolve6.apply(null, params2);
+              resolve8.apply(null, params2);
             }
           }
         };
         try {
           fn.apply(ctx || null, params);
-        } catch (err) {
+        } catch (err2) {
           if (pending) {
             pending = false;
-            reject(err);
+            reject(err2);
           }
         }
       });
@@ -9012,7 +9012,7 @@ var require_base64 = __commonJS({
       return String.fromCharCode.apply(String, chunk.slice(0, i2));
     };
     var invalidEncoding = "invalid encoding";
-    base643.decode = function decode3(string4, buffer, offset) {
+    base643.decode = function decode4(string4, buffer, offset) {
       var start = offset;
       var j = 0, t;
       for (var i2 = 0; i2 < string4.length; ) {
@@ -9307,7 +9307,7 @@ var require_utf8 = __commonJS({
     var TEXT_DECODER_MIN_LENGTH = 64;
     try {
       strictDecoder = new TextDecoder("utf-8", { fatal: true, ignoreBOM: true });
-    } catch (err) {
+    } catch (err2) {
       strictDecoder = looseDecoder;
     }
     utf8.length = function utf8_length(string4) {
@@ -9326,9 +9326,9 @@ var require_utf8 = __commonJS({
       }
       return len;
     };
-    function utf8_read_decoder(decoder, buffer, start, end) {
+    function utf8_read_decoder(decoder4, buffer, start, end) {
       var source = start === 0 && end === buffer.length ? buffer : buffer.subarray(start, end);
-      return decoder.decode(source);
+      return decoder4.decode(source);
     }
     utf8.read = function utf8_read_loose(buffer, start, end) {
       if (end - start < 1)
@@ -9458,13 +9458,13 @@ var require_longbits = __commonJS({
       return 1;
     };
     var zeroHash = LongBits.zeroHash = "\0\0\0\0\0\0\0\0";
-    LongBits.fromNumber = function fromNumber(value2) {
-      if (value2 === 0)
+    LongBits.fromNumber = function fromNumber(value3) {
+      if (value3 === 0)
         return zero;
-      var sign = value2 < 0;
+      var sign = value3 < 0;
       if (sign)
-        value2 = -value2;
-      var lo = value2 >>> 0, hi = (value2 - lo) / 4294967296 >>> 0;
+        value3 = -value3;
+      var lo = value3 >>> 0, hi = (value3 - lo) / 4294967296 >>> 0;
       if (sign) {
         hi = ~hi >>> 0;
         lo = ~lo >>> 0;
@@ -9476,16 +9476,16 @@ var require_longbits = __commonJS({
       }
       return new LongBits(lo, hi);
     };
-    LongBits.from = function from(value2) {
-      if (typeof value2 === "number")
-        return LongBits.fromNumber(value2);
-      if (typeof value2 === "string" || value2 instanceof String) {
+    LongBits.from = function from(value3) {
+      if (typeof value3 === "number")
+        return LongBits.fromNumber(value3);
+      if (typeof value3 === "string" || value3 instanceof String) {
         if (Long)
-          value2 = Long.fromString(value2);
+          value3 = Long.fromString(value3);
         else
-          return LongBits.fromNumber(parseInt(value2, 10));
+          return LongBits.fromNumber(parseInt(value3, 10));
       }
-      return value2.low || value2.high ? new LongBits(value2.low >>> 0, value2.high >>> 0) : zero;
+      return value3.low || value3.high ? new LongBits(value3.low >>> 0, value3.high >>> 0) : zero;
     };
     LongBits.prototype.toNumber = function toNumber(unsigned) {
       if (!unsigned && this.hi >>> 31) {
@@ -9910,49 +9910,49 @@ var require_umd = __commonJS({
         function isLong(obj) {
           return (obj && obj["__isLong__"]) === true;
         }
-        function ctz32(value2) {
-          var c = Math.clz32(value2 & -value2);
-          return value2 ? 31 - c : c;
+        function ctz32(value3) {
+          var c = Math.clz32(value3 & -value3);
+          return value3 ? 31 - c : c;
         }
         Long.isLong = isLong;
         var INT_CACHE = {};
         var UINT_CACHE = {};
-        function fromInt(value2, unsigned) {
+        function fromInt(value3, unsigned) {
           var obj, cachedObj, cache;
           if (unsigned) {
-            value2 >>>= 0;
-            if (cache = 0 <= value2 && value2 < 256) {
-              cachedObj = UINT_CACHE[value2];
+            value3 >>>= 0;
+            if (cache = 0 <= value3 && value3 < 256) {
+              cachedObj = UINT_CACHE[value3];
               if (cachedObj) return cachedObj;
             }
-            obj = fromBits(value2, 0, true);
-            if (cache) UINT_CACHE[value2] = obj;
+            obj = fromBits(value3, 0, true);
+            if (cache) UINT_CACHE[value3] = obj;
             return obj;
           } else {
-            value2 |= 0;
-            if (cache = -128 <= value2 && value2 < 128) {
-              cachedObj = INT_CACHE[value2];
+            value3 |= 0;
+            if (cache = -128 <= value3 && value3 < 128) {
+              cachedObj = INT_CACHE[value3];
               if (cachedObj) return cachedObj;
             }
-            obj = fromBits(value2, value2 < 0 ? -1 : 0, false);
-            if (cache) INT_CACHE[value2] = obj;
+            obj = fromBits(value3, value3 < 0 ? -1 : 0, false);
+            if (cache) INT_CACHE[value3] = obj;
             return obj;
           }
         }
         Long.fromInt = fromInt;
-        function fromNumber(value2, unsigned) {
-          if (isNaN(value2)) return unsigned ? UZERO : ZERO;
+        function fromNumber(value3, unsigned) {
+          if (isNaN(value3)) return unsigned ? UZERO : ZERO;
           if (unsigned) {
-            if (value2 < 0) return UZERO;
-            if (value2 >= TWO_PWR_64_DBL) return MAX_UNSIGNED_VALUE;
+            if (value3 < 0) return UZERO;
+            if (value3 >= TWO_PWR_64_DBL) return MAX_UNSIGNED_VALUE;
           } else {
-            if (value2 <= -TWO_PWR_63_DBL) return MIN_VALUE;
-            if (value2 + 1 >= TWO_PWR_63_DBL) return MAX_VALUE;
+            if (value3 <= -TWO_PWR_63_DBL) return MIN_VALUE;
+            if (value3 + 1 >= TWO_PWR_63_DBL) return MAX_VALUE;
           }
-          if (value2 < 0) return fromNumber(-value2, unsigned).neg();
+          if (value3 < 0) return fromNumber(-value3, unsigned).neg();
           return fromBits(
-            value2 % TWO_PWR_32_DBL | 0,
-            value2 / TWO_PWR_32_DBL | 0,
+            value3 % TWO_PWR_32_DBL | 0,
+            value3 / TWO_PWR_32_DBL | 0,
             unsigned
           );
         }
@@ -9982,13 +9982,13 @@ var require_umd = __commonJS({
           var radixToPower = fromNumber(pow_dbl(radix, 8));
           var result = ZERO;
           for (var i = 0; i < str.length; i += 8) {
-            var size = Math.min(8, str.length - i), value2 = parseInt(str.substring(i, i + size), radix);
+            var size = Math.min(8, str.length - i), value3 = parseInt(str.substring(i, i + size), radix);
             if (size < 8) {
               var power = fromNumber(pow_dbl(radix, size));
-              result = result.mul(power).add(fromNumber(value2));
+              result = result.mul(power).add(fromNumber(value3));
             } else {
               result = result.mul(radixToPower);
-              result = result.add(fromNumber(value2));
+              result = result.add(fromNumber(value3));
             }
           }
           result.unsigned = unsigned;
@@ -10099,7 +10099,7 @@ var require_umd = __commonJS({
         LongPrototype.isEven = function isEven() {
           return (this.low & 1) === 0;
         };
-        LongPrototype.equals = function equals(other) {
+        LongPrototype.equals = function equals2(other) {
           if (!isLong(other)) other = fromValue(other);
           if (this.unsigned !== other.unsigned && this.high >>> 31 === 1 && other.high >>> 31 === 1)
             return false;
@@ -10499,14 +10499,14 @@ var require_umd = __commonJS({
           );
         };
         if (typeof BigInt === "function") {
-          Long.fromBigInt = function fromBigInt(value2, unsigned) {
-            var lowBits = Number(BigInt.asIntN(32, value2));
-            var highBits = Number(BigInt.asIntN(32, value2 >> BigInt(32)));
+          Long.fromBigInt = function fromBigInt(value3, unsigned) {
+            var lowBits = Number(BigInt.asIntN(32, value3));
+            var highBits = Number(BigInt.asIntN(32, value3 >> BigInt(32)));
             return fromBits(lowBits, highBits, unsigned);
           };
-          Long.fromValue = function fromValueWithBigInt(value2, unsigned) {
-            if (typeof value2 === "bigint") return Long.fromBigInt(value2, unsigned);
-            return fromValue(value2, unsigned);
+          Long.fromValue = function fromValueWithBigInt(value3, unsigned) {
+            if (typeof value3 === "bigint") return Long.fromBigInt(value3, unsigned);
+            return fromValue(value3, unsigned);
           };
           LongPrototype.toBigInt = function toBigInt() {
             var lowBigInt = BigInt(this.low >>> 0);
@@ -10547,14 +10547,14 @@ var require_minimal = __commonJS({
       {}
     );
     util.isInteger = Number.isInteger || /* istanbul ignore next */
-    function isInteger(value2) {
-      return typeof value2 === "number" && isFinite(value2) && Math.floor(value2) === value2;
+    function isInteger(value3) {
+      return typeof value3 === "number" && isFinite(value3) && Math.floor(value3) === value3;
     };
-    util.isString = function isString(value2) {
-      return typeof value2 === "string" || value2 instanceof String;
+    util.isString = function isString(value3) {
+      return typeof value3 === "string" || value3 instanceof String;
     };
-    util.isObject = function isObject2(value2) {
-      return value2 && typeof value2 === "object";
+    util.isObject = function isObject2(value3) {
+      return value3 && typeof value3 === "object";
     };
     util.isset = /**
      * Checks if a property on a message is considered to be present.
@@ -10563,9 +10563,9 @@ var require_minimal = __commonJS({
      * @returns {boolean} `true` if considered to be present, otherwise `false`
      */
     util.isSet = function isSet(obj, prop) {
-      var value2 = obj[prop];
-      if (value2 != null && Object.hasOwnProperty.call(obj, prop))
-        return typeof value2 !== "object" || (Array.isArray(value2) ? value2.length : Object.keys(value2).length) > 0;
+      var value3 = obj[prop];
+      if (value3 != null && Object.hasOwnProperty.call(obj, prop))
+        return typeof value3 !== "object" || (Array.isArray(value3) ? value3.length : Object.keys(value3).length) > 0;
       return false;
     };
     util.Buffer = (function() {
@@ -10610,14 +10610,14 @@ var require_minimal = __commonJS({
     util.key2Re = /^(?:true|false|0|1)$/;
     util.key32Re = /^-?(?:0|[1-9][0-9]*)$/;
     util.key64Re = /^(?:[\x00-\xff]{8}|-?(?:0|[1-9][0-9]*))$/;
-    util.longToHash = function longToHash(value2) {
-      return value2 ? util.LongBits.from(value2).toHash() : util.LongBits.zeroHash;
+    util.longToHash = function longToHash(value3) {
+      return value3 ? util.LongBits.from(value3).toHash() : util.LongBits.zeroHash;
     };
     util.longFromHash = function longFromHash(hash2, unsigned) {
-      var bits = util.LongBits.fromHash(hash2);
+      var bits2 = util.LongBits.fromHash(hash2);
       if (util.Long)
-        return util.Long.fromBits(bits.lo, bits.hi, unsigned);
-      return bits.toNumber(Boolean(unsigned));
+        return util.Long.fromBits(bits2.lo, bits2.hi, unsigned);
+      return bits2.toNumber(Boolean(unsigned));
     };
     util.longFromKey = function longFromKey(key2, unsigned) {
       return util.key64Re.test(key2) && !util.key32Re.test(key2) ? util.longFromHash(key2, unsigned) : key2;
@@ -10687,7 +10687,7 @@ var require_minimal = __commonJS({
           configurable: true
         },
         toString: {
-          value: function value2() {
+          value: function value3() {
             return this.name + ": " + this.message;
           },
           writable: true,
@@ -10763,8 +10763,8 @@ var require_writer = __commonJS({
       return new Uint8Array(size);
     };
     Writer.alloc = util.pool(Writer.alloc, Uint8Array.prototype.subarray);
-    function sizeVarint32(value2) {
-      return value2 < 128 ? 1 : value2 < 16384 ? 2 : value2 < 2097152 ? 3 : value2 < 268435456 ? 4 : 5;
+    function sizeVarint32(value3) {
+      return value3 < 128 ? 1 : value3 < 16384 ? 2 : value3 < 2097152 ? 3 : value3 < 268435456 ? 4 : 5;
     }
     Writer.prototype._reserve = function _reserve(n) {
       var need = this.pos + n;
@@ -10790,24 +10790,24 @@ var require_writer = __commonJS({
       buf[pos] = val;
       return pos + 1;
     }
-    Writer.prototype.uint32 = function write_uint32(value2) {
-      value2 = value2 >>> 0;
+    Writer.prototype.uint32 = function write_uint32(value3) {
+      value3 = value3 >>> 0;
       this._reserve(5);
       var pos = this.pos;
-      this.pos = writeVarint32(value2, this.buf, pos);
+      this.pos = writeVarint32(value3, this.buf, pos);
       return this;
     };
-    Writer.prototype.int32 = function write_int32(value2) {
-      if ((value2 |= 0) < 0) {
+    Writer.prototype.int32 = function write_int32(value3) {
+      if ((value3 |= 0) < 0) {
         this._reserve(10);
-        writeVarint64(LongBits.fromNumber(value2), this.buf, this.pos);
+        writeVarint64(LongBits.fromNumber(value3), this.buf, this.pos);
         this.pos += 10;
         return this;
       }
-      return this.uint32(value2);
+      return this.uint32(value3);
     };
-    Writer.prototype.sint32 = function write_sint32(value2) {
-      return this.uint32((value2 << 1 ^ value2 >> 31) >>> 0);
+    Writer.prototype.sint32 = function write_sint32(value3) {
+      return this.uint32((value3 << 1 ^ value3 >> 31) >>> 0);
     };
     function writeVarint64(val, buf, pos) {
       var lo = val.lo, hi = val.hi;
@@ -10823,24 +10823,24 @@ var require_writer = __commonJS({
       buf[pos] = lo;
       return pos + 1;
     }
-    Writer.prototype.uint64 = function write_uint64(value2) {
-      var bits = LongBits.from(value2);
+    Writer.prototype.uint64 = function write_uint64(value3) {
+      var bits2 = LongBits.from(value3);
       this._reserve(10);
       var pos = this.pos;
-      this.pos = writeVarint64(bits, this.buf, pos);
+      this.pos = writeVarint64(bits2, this.buf, pos);
       return this;
     };
     Writer.prototype.int64 = Writer.prototype.uint64;
-    Writer.prototype.sint64 = function write_sint64(value2) {
-      var bits = LongBits.from(value2).zzEncode();
+    Writer.prototype.sint64 = function write_sint64(value3) {
+      var bits2 = LongBits.from(value3).zzEncode();
       this._reserve(10);
       var pos = this.pos;
-      this.pos = writeVarint64(bits, this.buf, pos);
+      this.pos = writeVarint64(bits2, this.buf, pos);
       return this;
     };
-    Writer.prototype.bool = function write_bool(value2) {
+    Writer.prototype.bool = function write_bool(value3) {
       this._reserve(1);
-      this.buf[this.pos++] = value2 ? 1 : 0;
+      this.buf[this.pos++] = value3 ? 1 : 0;
       return this;
     };
     function writeFixed32(val, buf, pos) {
@@ -10849,58 +10849,58 @@ var require_writer = __commonJS({
       buf[pos + 2] = val >>> 16 & 255;
       buf[pos + 3] = val >>> 24;
     }
-    Writer.prototype.fixed32 = function write_fixed32(value2) {
+    Writer.prototype.fixed32 = function write_fixed32(value3) {
       this._reserve(4);
-      writeFixed32(value2 >>> 0, this.buf, this.pos);
+      writeFixed32(value3 >>> 0, this.buf, this.pos);
       this.pos += 4;
       return this;
     };
     Writer.prototype.sfixed32 = Writer.prototype.fixed32;
-    Writer.prototype.fixed64 = function write_fixed64(value2) {
-      var bits = LongBits.from(value2);
+    Writer.prototype.fixed64 = function write_fixed64(value3) {
+      var bits2 = LongBits.from(value3);
       this._reserve(8);
-      writeFixed32(bits.lo, this.buf, this.pos);
-      writeFixed32(bits.hi, this.buf, this.pos + 4);
+      writeFixed32(bits2.lo, this.buf, this.pos);
+      writeFixed32(bits2.hi, this.buf, this.pos + 4);
       this.pos += 8;
       return this;
     };
     Writer.prototype.sfixed64 = Writer.prototype.fixed64;
-    Writer.prototype.float = function write_float(value2) {
+    Writer.prototype.float = function write_float(value3) {
       this._reserve(4);
-      util.float.writeFloatLE(value2, this.buf, this.pos);
+      util.float.writeFloatLE(value3, this.buf, this.pos);
       this.pos += 4;
       return this;
     };
-    Writer.prototype.double = function write_double(value2) {
+    Writer.prototype.double = function write_double(value3) {
       this._reserve(8);
-      util.float.writeDoubleLE(value2, this.buf, this.pos);
+      util.float.writeDoubleLE(value3, this.buf, this.pos);
       this.pos += 8;
       return this;
     };
-    Writer.prototype.bytes = function write_bytes(value2) {
-      var len = value2.length >>> 0;
+    Writer.prototype.bytes = function write_bytes(value3) {
+      var len = value3.length >>> 0;
       if (!len) {
         this._reserve(1);
         this.buf[this.pos++] = 0;
         return this;
       }
-      if (util.isString(value2)) {
-        var buf = Writer.alloc(len = base643.length(value2));
-        base643.decode(value2, buf, 0);
-        value2 = buf;
+      if (util.isString(value3)) {
+        var buf = Writer.alloc(len = base643.length(value3));
+        base643.decode(value3, buf, 0);
+        value3 = buf;
       }
       this.uint32(len);
       this._reserve(len);
-      this.buf.set(value2, this.pos);
+      this.buf.set(value3, this.pos);
       this.pos += len;
       return this;
     };
-    Writer.prototype.raw = function write_raw(value2) {
-      var len = value2.length >>> 0;
+    Writer.prototype.raw = function write_raw(value3) {
+      var len = value3.length >>> 0;
       if (!len)
         return this;
       this._reserve(len);
-      this.buf.set(value2, this.pos);
+      this.buf.set(value3, this.pos);
       this.pos += len;
       return this;
     };
@@ -10912,8 +10912,8 @@ var require_writer = __commonJS({
       this.pos = pos + n + len;
       return this;
     };
-    Writer.prototype.string = function write_string(value2) {
-      var n = value2.length;
+    Writer.prototype.string = function write_string(value3) {
+      var n = value3.length;
       if (!n) {
         this._reserve(1);
         this.buf[this.pos++] = 0;
@@ -10922,32 +10922,32 @@ var require_writer = __commonJS({
       if (n < 128) {
         this._reserve(n * 3 + 5);
         var lenPos = this.pos;
-        return this._delim(lenPos, utf8.write(value2, this.buf, lenPos + 1));
+        return this._delim(lenPos, utf8.write(value3, this.buf, lenPos + 1));
       }
-      var len = utf8.length(value2);
+      var len = utf8.length(value3);
       this.uint32(len);
       this._reserve(len);
-      if (len === value2.length)
-        writeStringAscii(value2, this.buf, this.pos);
+      if (len === value3.length)
+        writeStringAscii(value3, this.buf, this.pos);
       else
-        utf8.write(value2, this.buf, this.pos);
+        utf8.write(value3, this.buf, this.pos);
       this.pos += len;
       return this;
     };
-    Writer.prototype.uint32s = function write_uint32s(value2) {
-      var n = value2.length;
+    Writer.prototype.uint32s = function write_uint32s(value3) {
+      var n = value3.length;
       this._reserve(n * 5 + 5);
       var buf = this.buf, lenPos = this.pos, p = lenPos + 1;
       for (var i = 0; i < n; ++i)
-        p = writeVarint32(value2[i] >>> 0, buf, p);
+        p = writeVarint32(value3[i] >>> 0, buf, p);
       return this._delim(lenPos, p - lenPos - 1);
     };
-    Writer.prototype.int32s = function write_int32s(value2) {
-      var n = value2.length;
+    Writer.prototype.int32s = function write_int32s(value3) {
+      var n = value3.length;
       this._reserve(n * 10 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1, val;
       for (var i = 0; i < n; ++i) {
-        if ((val = value2[i] | 0) < 0) {
+        if ((val = value3[i] | 0) < 0) {
           pos = writeVarint64(LongBits.fromNumber(val), buf, pos);
         } else {
           pos = writeVarint32(val, buf, pos);
@@ -10955,40 +10955,40 @@ var require_writer = __commonJS({
       }
       return this._delim(lenPos, pos - lenPos - 1);
     };
-    Writer.prototype.sint32s = function write_sint32s(value2) {
-      var n = value2.length;
+    Writer.prototype.sint32s = function write_sint32s(value3) {
+      var n = value3.length;
       this._reserve(n * 5 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1;
       for (var i = 0; i < n; ++i)
-        pos = writeVarint32((value2[i] << 1 ^ value2[i] >> 31) >>> 0, buf, pos);
+        pos = writeVarint32((value3[i] << 1 ^ value3[i] >> 31) >>> 0, buf, pos);
       return this._delim(lenPos, pos - lenPos - 1);
     };
-    Writer.prototype.uint64s = function write_uint64s(value2) {
-      var n = value2.length;
+    Writer.prototype.uint64s = function write_uint64s(value3) {
+      var n = value3.length;
       this._reserve(n * 10 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1;
       for (var i = 0; i < n; ++i) {
-        pos = writeVarint64(LongBits.from(value2[i]), buf, pos);
+        pos = writeVarint64(LongBits.from(value3[i]), buf, pos);
       }
       return this._delim(lenPos, pos - lenPos - 1);
     };
     Writer.prototype.int64s = Writer.prototype.uint64s;
-    Writer.prototype.sint64s = function write_sint64s(value2) {
-      var n = value2.length;
+    Writer.prototype.sint64s = function write_sint64s(value3) {
+      var n = value3.length;
       this._reserve(n * 10 + 5);
       var buf = this.buf, lenPos = this.pos, pos = lenPos + 1;
       for (var i = 0; i < n; ++i) {
-        pos = writeVarint64(LongBits.from(value2[i]).zzEncode(), buf, pos);
+        pos = writeVarint64(LongBits.from(value3[i]).zzEncode(), buf, pos);
       }
       return this._delim(lenPos, pos - lenPos - 1);
     };
-    Writer.prototype.bools = function write_bools(value2) {
-      var n = value2.length;
+    Writer.prototype.bools = function write_bools(value3) {
+      var n = value3.length;
       this.uint32(n);
       this._reserve(n);
       var buf = this.buf, p = this.pos;
       for (var i = 0; i < n; ++i)
-        buf[p++] = value2[i] ? 1 : 0;
+        buf[p++] = value3[i] ? 1 : 0;
       this.pos += n;
       return this;
     };
@@ -11001,20 +11001,20 @@ var require_writer = __commonJS({
       var buf = writer.buf;
       return writer.view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
     }
-    Writer.prototype.fixed32s = function write_fixed32s(value2) {
-      var n = value2.length, bytes = n * 4;
+    Writer.prototype.fixed32s = function write_fixed32s(value3) {
+      var n = value3.length, bytes = n * 4;
       this.uint32(bytes);
       this._reserve(bytes);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_INT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          dv.setUint32(p, value2[i] >>> 0, true);
+          dv.setUint32(p, value3[i] >>> 0, true);
           p += 4;
         }
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          writeFixed32(value2[i] >>> 0, buf, p);
+          writeFixed32(value3[i] >>> 0, buf, p);
           p += 4;
         }
       }
@@ -11022,24 +11022,24 @@ var require_writer = __commonJS({
       return this;
     };
     Writer.prototype.sfixed32s = Writer.prototype.fixed32s;
-    Writer.prototype.fixed64s = function write_fixed64s(value2) {
-      var n = value2.length, bytes = n * 8;
+    Writer.prototype.fixed64s = function write_fixed64s(value3) {
+      var n = value3.length, bytes = n * 8;
       this.uint32(bytes);
       this._reserve(bytes);
-      var p = this.pos, i, bits, dv = getLazyView(this, n, VIEW_THRESHOLD_INT);
+      var p = this.pos, i, bits2, dv = getLazyView(this, n, VIEW_THRESHOLD_INT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          bits = LongBits.from(value2[i]);
-          dv.setUint32(p, bits.lo, true);
-          dv.setUint32(p + 4, bits.hi, true);
+          bits2 = LongBits.from(value3[i]);
+          dv.setUint32(p, bits2.lo, true);
+          dv.setUint32(p + 4, bits2.hi, true);
           p += 8;
         }
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          bits = LongBits.from(value2[i]);
-          writeFixed32(bits.lo, buf, p);
-          writeFixed32(bits.hi, buf, p + 4);
+          bits2 = LongBits.from(value3[i]);
+          writeFixed32(bits2.lo, buf, p);
+          writeFixed32(bits2.hi, buf, p + 4);
           p += 8;
         }
       }
@@ -11047,40 +11047,40 @@ var require_writer = __commonJS({
       return this;
     };
     Writer.prototype.sfixed64s = Writer.prototype.fixed64s;
-    Writer.prototype.floats = function write_floats(value2) {
-      var n = value2.length, bytes = n * 4;
+    Writer.prototype.floats = function write_floats(value3) {
+      var n = value3.length, bytes = n * 4;
       this.uint32(bytes);
       this._reserve(bytes);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_FLOAT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          dv.setFloat32(p, value2[i], true);
+          dv.setFloat32(p, value3[i], true);
           p += 4;
         }
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          util.float.writeFloatLE(value2[i], buf, p);
+          util.float.writeFloatLE(value3[i], buf, p);
           p += 4;
         }
       }
       this.pos += bytes;
       return this;
     };
-    Writer.prototype.doubles = function write_doubles(value2) {
-      var n = value2.length, bytes = n * 8;
+    Writer.prototype.doubles = function write_doubles(value3) {
+      var n = value3.length, bytes = n * 8;
       this.uint32(bytes);
       this._reserve(bytes);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_FLOAT);
       if (dv)
         for (i = 0; i < n; ++i) {
-          dv.setFloat64(p, value2[i], true);
+          dv.setFloat64(p, value3[i], true);
           p += 8;
         }
       else {
         var buf = this.buf;
         for (i = 0; i < n; ++i) {
-          util.float.writeDoubleLE(value2[i], buf, p);
+          util.float.writeDoubleLE(value3[i], buf, p);
           p += 8;
         }
       }
@@ -11174,20 +11174,20 @@ var require_writer_buffer = __commonJS({
         return buf.write(val, pos);
       };
     };
-    BufferWriter.prototype.bytes = function write_bytes_buffer(value2) {
-      if (util.isString(value2))
-        value2 = util.Buffer.from(value2, "base64");
-      var len = value2.length >>> 0;
+    BufferWriter.prototype.bytes = function write_bytes_buffer(value3) {
+      if (util.isString(value3))
+        value3 = util.Buffer.from(value3, "base64");
+      var len = value3.length >>> 0;
       this.uint32(len);
       if (len) {
         this._reserve(len);
-        this.buf.set(value2, this.pos);
+        this.buf.set(value3, this.pos);
         this.pos += len;
       }
       return this;
     };
-    BufferWriter.prototype.string = function write_string_buffer(value2) {
-      var n = value2.length;
+    BufferWriter.prototype.string = function write_string_buffer(value3) {
+      var n = value3.length;
       if (!n) {
         this._reserve(1);
         this.buf[this.pos++] = 0;
@@ -11198,13 +11198,13 @@ var require_writer_buffer = __commonJS({
         var pos = this.pos, buf = this.buf;
         return this._delim(
           pos,
-          n < 40 ? util.utf8.write(value2, buf, pos + 1) : writeStringBuffer(value2, buf, pos + 1)
+          n < 40 ? util.utf8.write(value3, buf, pos + 1) : writeStringBuffer(value3, buf, pos + 1)
         );
       }
-      var len = util.Buffer.byteLength(value2);
+      var len = util.Buffer.byteLength(value3);
       this.uint32(len);
       this._reserve(len);
-      writeStringBuffer(value2, this.buf, this.pos);
+      writeStringBuffer(value3, this.buf, this.pos);
       this.pos += len;
       return this;
     };
@@ -11250,14 +11250,14 @@ var require_reader = __commonJS({
       return this.buf.subarray(start, end);
     };
     function readVarint32NearEnd(reader) {
-      var value2 = 0;
+      var value3 = 0;
       for (var i = 0; i < 4; ++i) {
         if (reader.pos >= reader.len)
           throw indexOutOfRange(reader);
         var b = reader.buf[reader.pos++];
-        value2 = (value2 | (b & 127) << i * 7) >>> 0;
+        value3 = (value3 | (b & 127) << i * 7) >>> 0;
         if (b < 128)
-          return value2;
+          return value3;
       }
       throw indexOutOfRange(reader);
     }
@@ -11268,30 +11268,30 @@ var require_reader = __commonJS({
         if (this.buf[this.pos] >= 128)
           return readVarint32NearEnd(this);
       }
-      var buf = this.buf, pos = this.pos, value2 = (buf[pos] & 127) >>> 0;
+      var buf = this.buf, pos = this.pos, value3 = (buf[pos] & 127) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 7) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 7) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 14) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 14) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 21) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 21) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 15) << 28) >>> 0;
+      value3 = (value3 | (buf[pos] & 15) << 28) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
       for (var i = 0; i < 5; ++i) {
         if (pos >= this.len) {
@@ -11300,7 +11300,7 @@ var require_reader = __commonJS({
         }
         if (buf[pos++] < 128) {
           this.pos = pos;
-          return value2;
+          return value3;
         }
       }
       this.pos = pos;
@@ -11313,30 +11313,30 @@ var require_reader = __commonJS({
         if (this.buf[this.pos] >= 128)
           return readVarint32NearEnd(this);
       }
-      var buf = this.buf, pos = this.pos, value2 = (buf[pos] & 127) >>> 0;
+      var buf = this.buf, pos = this.pos, value3 = (buf[pos] & 127) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 7) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 7) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 14) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 14) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 21) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 21) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 15) << 28) >>> 0;
+      value3 = (value3 | (buf[pos] & 15) << 28) >>> 0;
       if (buf[pos] < 128 && (buf[pos] & 112) === 0) {
         this.pos = pos + 1;
-        return value2;
+        return value3;
       }
       this.pos = pos + 1;
       throw Error("invalid tag encoding");
@@ -11348,89 +11348,89 @@ var require_reader = __commonJS({
         if (this.buf[this.pos] >= 128)
           return readVarint32NearEnd(this);
       }
-      var buf = this.buf, pos = this.pos, value2 = (buf[pos] & 127) >>> 0;
+      var buf = this.buf, pos = this.pos, value3 = (buf[pos] & 127) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 7) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 7) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 14) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 14) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
-      value2 = (value2 | (buf[pos] & 127) << 21) >>> 0;
+      value3 = (value3 | (buf[pos] & 127) << 21) >>> 0;
       if (buf[pos++] < 128) {
         this.pos = pos;
-        return value2;
+        return value3;
       }
       this.pos = pos + 1;
       if (buf[pos] > 7)
         throw Error("invalid length encoding");
-      return (value2 | buf[pos] << 28) >>> 0;
+      return (value3 | buf[pos] << 28) >>> 0;
     };
     Reader.prototype.int32 = function read_int32() {
       return this.uint32() | 0;
     };
     Reader.prototype.sint32 = function read_sint32() {
-      var value2 = this.uint32();
-      return value2 >>> 1 ^ -(value2 & 1) | 0;
+      var value3 = this.uint32();
+      return value3 >>> 1 ^ -(value3 & 1) | 0;
     };
     function readLongVarint() {
-      var bits = new LongBits(0, 0);
+      var bits2 = new LongBits(0, 0);
       var i = 0;
       if (this.len - this.pos > 4) {
         for (; i < 4; ++i) {
-          bits.lo = (bits.lo | (this.buf[this.pos] & 127) << i * 7) >>> 0;
+          bits2.lo = (bits2.lo | (this.buf[this.pos] & 127) << i * 7) >>> 0;
           if (this.buf[this.pos++] < 128)
-            return bits;
+            return bits2;
         }
-        bits.lo = (bits.lo | (this.buf[this.pos] & 127) << 28) >>> 0;
-        bits.hi = (bits.hi | (this.buf[this.pos] & 127) >> 4) >>> 0;
+        bits2.lo = (bits2.lo | (this.buf[this.pos] & 127) << 28) >>> 0;
+        bits2.hi = (bits2.hi | (this.buf[this.pos] & 127) >> 4) >>> 0;
         if (this.buf[this.pos++] < 128)
-          return bits;
+          return bits2;
         i = 0;
       } else {
         for (; i < 4; ++i) {
           if (this.pos >= this.len)
             throw indexOutOfRange(this);
-          bits.lo = (bits.lo | (this.buf[this.pos] & 127) << i * 7) >>> 0;
+          bits2.lo = (bits2.lo | (this.buf[this.pos] & 127) << i * 7) >>> 0;
           if (this.buf[this.pos++] < 128)
-            return bits;
+            return bits2;
         }
         throw indexOutOfRange(this);
       }
       if (this.len - this.pos > 4) {
         for (; i < 5; ++i) {
-          bits.hi = (bits.hi | (this.buf[this.pos] & 127) << i * 7 + 3) >>> 0;
+          bits2.hi = (bits2.hi | (this.buf[this.pos] & 127) << i * 7 + 3) >>> 0;
           if (this.buf[this.pos++] < 128)
-            return bits;
+            return bits2;
         }
       } else {
         for (; i < 5; ++i) {
           if (this.pos >= this.len)
             throw indexOutOfRange(this);
-          bits.hi = (bits.hi | (this.buf[this.pos] & 127) << i * 7 + 3) >>> 0;
+          bits2.hi = (bits2.hi | (this.buf[this.pos] & 127) << i * 7 + 3) >>> 0;
           if (this.buf[this.pos++] < 128)
-            return bits;
+            return bits2;
         }
       }
       throw Error("invalid varint encoding");
     }
     Reader.prototype.bool = function read_bool() {
-      var value2 = false, b;
+      var value3 = false, b;
       for (var i = 0; i < 10; ++i) {
         if (this.pos >= this.len)
           throw indexOutOfRange(this);
         b = this.buf[this.pos++];
         if (b & 127)
-          value2 = true;
+          value3 = true;
         if (b < 128)
-          return value2;
+          return value3;
       }
       throw Error("invalid varint encoding");
     };
@@ -11455,26 +11455,26 @@ var require_reader = __commonJS({
     Reader.prototype.float = function read_float() {
       if (this.pos + 4 > this.len)
         throw indexOutOfRange(this, 4);
-      var value2 = util.float.readFloatLE(this.buf, this.pos);
+      var value3 = util.float.readFloatLE(this.buf, this.pos);
       this.pos += 4;
-      return value2;
+      return value3;
     };
     Reader.prototype.double = function read_double() {
       if (this.pos + 8 > this.len)
         throw indexOutOfRange(this, 4);
-      var value2 = util.float.readDoubleLE(this.buf, this.pos);
+      var value3 = util.float.readDoubleLE(this.buf, this.pos);
       this.pos += 8;
-      return value2;
+      return value3;
     };
     Reader.prototype.uint32s = function read_uint32s(array2) {
       if (array2 === void 0) array2 = [];
-      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value2;
+      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value3;
       if (end > len) throw indexOutOfRange(this, end - this.pos);
       this.len = end;
       while (pos < end) {
-        value2 = buf[pos++];
-        if (value2 < 128)
-          array2.push(value2);
+        value3 = buf[pos++];
+        if (value3 < 128)
+          array2.push(value3);
         else {
           this.pos = pos - 1;
           array2.push(this.uint32());
@@ -11488,13 +11488,13 @@ var require_reader = __commonJS({
     };
     Reader.prototype.int32s = function read_int32s(array2) {
       if (array2 === void 0) array2 = [];
-      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value2;
+      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value3;
       if (end > len) throw indexOutOfRange(this, end - this.pos);
       this.len = end;
       while (pos < end) {
-        value2 = buf[pos++];
-        if (value2 < 128)
-          array2.push(value2);
+        value3 = buf[pos++];
+        if (value3 < 128)
+          array2.push(value3);
         else {
           this.pos = pos - 1;
           array2.push(this.int32());
@@ -11519,13 +11519,13 @@ var require_reader = __commonJS({
     };
     Reader.prototype.bools = function read_bools(array2) {
       if (array2 === void 0) array2 = [];
-      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value2;
+      var end = this.size() + this.pos, len = this.len, buf = this.buf, pos = this.pos, value3;
       if (end > len) throw indexOutOfRange(this, end - this.pos);
       this.len = end;
       while (pos < end) {
-        value2 = buf[pos++];
-        if (value2 < 128)
-          array2.push(value2 !== 0);
+        value3 = buf[pos++];
+        if (value3 < 128)
+          array2.push(value3 !== 0);
         else {
           this.pos = pos - 1;
           array2.push(this.bool());
@@ -11848,10 +11848,10 @@ var require_service = __commonJS({
         return self2.rpcImpl(
           method,
           requestCtor[self2.requestDelimited ? "encodeDelimited" : "encode"](request).finish(),
-          function rpcCallback(err, response) {
-            if (err) {
-              self2.emit("error", err, method);
-              return callback(err);
+          function rpcCallback(err2, response) {
+            if (err2) {
+              self2.emit("error", err2, method);
+              return callback(err2);
             }
             if (response === null) {
               self2.end(
@@ -11863,19 +11863,19 @@ var require_service = __commonJS({
             if (!(response instanceof responseCtor)) {
               try {
                 response = responseCtor[self2.responseDelimited ? "decodeDelimited" : "decode"](response);
-              } catch (err2) {
-                self2.emit("error", err2, method);
-                return callback(err2);
+              } catch (err3) {
+                self2.emit("error", err3, method);
+                return callback(err3);
               }
             }
             self2.emit("data", response, method);
             return callback(null, response);
           }
         );
-      } catch (err) {
-        self2.emit("error", err, method);
+      } catch (err2) {
+        self2.emit("error", err2, method);
         setTimeout(function() {
-          callback(err);
+          callback(err2);
         }, 0);
         return void 0;
       }
@@ -11977,18 +11977,18 @@ var require_codegen = __commonJS({
           formatParams[formatOffset] = arguments[++formatOffset];
         formatOffset = 0;
         formatStringOrScope = formatStringOrScope.replace(/%([%dfijs])/g, function replace($0, $1) {
-          var value2 = formatParams[formatOffset++];
+          var value3 = formatParams[formatOffset++];
           switch ($1) {
             case "d":
             case "f":
-              value2 = Number(value2);
-              return Object.is(value2, -0) ? "-0" : String(value2);
+              value3 = Number(value3);
+              return Object.is(value3, -0) ? "-0" : String(value3);
             case "i":
-              return String(Math.floor(value2));
+              return String(Math.floor(value3));
             case "j":
-              return JSON.stringify(value2);
+              return JSON.stringify(value3);
             case "s":
-              return String(value2);
+              return String(value3);
           }
           return "%";
         });
@@ -12056,8 +12056,8 @@ var require_fetch = __commonJS({
       if (!callback)
         return asPromise(fetch, this, filename, options);
       if (!options.xhr && fs && fs.readFile)
-        return fs.readFile(filename, function fetchReadFileCallback(err, contents) {
-          return err && typeof XMLHttpRequest !== "undefined" ? fetch.xhr(filename, options, callback) : err ? callback(err) : callback(null, options.binary ? contents : contents.toString("utf8"));
+        return fs.readFile(filename, function fetchReadFileCallback(err2, contents) {
+          return err2 && typeof XMLHttpRequest !== "undefined" ? fetch.xhr(filename, options, callback) : err2 ? callback(err2) : callback(null, options.binary ? contents : contents.toString("utf8"));
         });
       return fetch.xhr(filename, options, callback);
     }
@@ -12114,13 +12114,13 @@ var require_path = __commonJS({
         return null;
       }
     }
-    var isAbsolute3 = (
+    var isAbsolute4 = (
       /**
        * Tests if the specified path is absolute.
        * @param {string} path Path to test
        * @returns {boolean} `true` if path is absolute
        */
-      path.isAbsolute = function isAbsolute4(path2) {
+      path.isAbsolute = function isAbsolute5(path2) {
         return /^(?:\/|\w+:|\\\\\w+)/.test(path2);
       }
     );
@@ -12141,9 +12141,9 @@ var require_path = __commonJS({
           path2 = path2.substring(2);
         }
         path2 = path2.replace(/\\/g, "/").replace(/\/{2,}/g, "/");
-        var parts = path2.split("/"), absolute = isAbsolute3(path2), prefix = "";
+        var parts = path2.split("/"), absolute = isAbsolute4(path2), prefix2 = "";
         if (absolute)
-          prefix = parts.shift() + "/";
+          prefix2 = parts.shift() + "/";
         for (var i = 0; i < parts.length; ) {
           if (parts[i] === "..") {
             if (i > 0 && parts[i - 1] !== "..")
@@ -12157,16 +12157,16 @@ var require_path = __commonJS({
           else
             ++i;
         }
-        return uncPrefix + prefix + parts.join("/");
+        return uncPrefix + prefix2 + parts.join("/");
       }
     );
-    path.resolve = function resolve6(originPath, includePath, alreadyNormalized) {
+    path.resolve = function resolve8(originPath, includePath, alreadyNormalized) {
       var resolvedUrl = resolveUrl(originPath, includePath);
       if (resolvedUrl)
         return resolvedUrl;
       if (!alreadyNormalized)
         includePath = normalize(includePath);
-      if (isAbsolute3(includePath))
+      if (isAbsolute4(includePath))
         return includePath;
       if (!alreadyNormalized)
         originPath = normalize(originPath);
@@ -12380,7 +12380,7 @@ var require_namespace = __commonJS({
       });
       return this;
     };
-    Namespace.prototype.lookup = function lookup(path, filterTypes, parentAlreadyChecked) {
+    Namespace.prototype.lookup = function lookup2(path, filterTypes, parentAlreadyChecked) {
       if (typeof filterTypes === "boolean") {
         parentAlreadyChecked = filterTypes;
         filterTypes = void 0;
@@ -12415,7 +12415,7 @@ var require_namespace = __commonJS({
       }
       return null;
     };
-    Namespace.prototype._lookupImpl = function lookup(path, flatPath) {
+    Namespace.prototype._lookupImpl = function lookup2(path, flatPath) {
       if (Object.prototype.hasOwnProperty.call(this._lookupCache, flatPath)) {
         return this._lookupCache[flatPath];
       }
@@ -12526,7 +12526,7 @@ var require_mapfield = __commonJS({
         keepComments ? this.comment : void 0
       ]);
     };
-    MapField.prototype.resolve = function resolve6() {
+    MapField.prototype.resolve = function resolve8() {
       if (this.resolved)
         return this;
       if (types2.mapKey[this.keyType] === void 0)
@@ -12612,7 +12612,7 @@ var require_method = __commonJS({
         this.parsedOptions
       ]);
     };
-    Method.prototype.resolve = function resolve6() {
+    Method.prototype.resolve = function resolve8() {
       if (this.resolved)
         return this;
       if (this.parent) {
@@ -12775,7 +12775,7 @@ var require_message = __commonJS({
     Message.encodeDelimited = function encodeDelimited(message, writer) {
       return this.$type.encodeDelimited(message, writer);
     };
-    Message.decode = function decode3(reader) {
+    Message.decode = function decode4(reader) {
       return this.$type.decode(reader);
     };
     Message.decodeDelimited = function decodeDelimited(reader) {
@@ -12800,7 +12800,7 @@ var require_message = __commonJS({
 var require_decoder = __commonJS({
   "node_modules/protobufjs/src/decoder.js"(exports, module) {
     "use strict";
-    module.exports = decoder;
+    module.exports = decoder4;
     var Enum = require_enum();
     var types2 = require_types();
     var util = require_util();
@@ -12813,7 +12813,7 @@ var require_decoder = __commonJS({
     function genPreserveUnknown(gen, ref) {
       return gen("if(!r.discardUnknown){")('util.makeProp(m,"$unknowns",false);')("(m.$unknowns||(m.$unknowns=[])).push(%s)", ref)("}");
     }
-    function decoder(mtype) {
+    function decoder4(mtype) {
       var hasMapField = false, needsValueVar = false, i = 0;
       for (; i < mtype.fieldsArray.length; ++i) {
         var pfield = mtype._fieldsArray[i];
@@ -13283,11 +13283,11 @@ var require_wrappers = __commonJS({
         if (depth > util.recursionLimit)
           throw Error("max depth exceeded");
         var googleApi = "type.googleapis.com/";
-        var prefix = "";
+        var prefix2 = "";
         var name = "";
         if (options && options.json && message.type_url && message.value) {
           name = message.type_url.substring(message.type_url.lastIndexOf("/") + 1);
-          prefix = message.type_url.substring(0, message.type_url.lastIndexOf("/") + 1);
+          prefix2 = message.type_url.substring(0, message.type_url.lastIndexOf("/") + 1);
           var type = this.lookup(name, [this.constructor]);
           if (type)
             message = type.decode(message.value, void 0, void 0, depth + 1);
@@ -13295,10 +13295,10 @@ var require_wrappers = __commonJS({
         if (!(message instanceof this.ctor) && message instanceof Message) {
           var object2 = message.$type.toObject(message, options, depth + 1);
           var messageName = message.$type.fullName[0] === "." ? message.$type.fullName.slice(1) : message.$type.fullName;
-          if (prefix === "") {
-            prefix = googleApi;
+          if (prefix2 === "") {
+            prefix2 = googleApi;
           }
-          name = prefix + messageName;
+          name = prefix2 + messageName;
           object2["@type"] = name;
           return object2;
         }
@@ -13332,8 +13332,8 @@ var require_type = __commonJS({
     var Reader = require_reader();
     var Writer = require_writer();
     var util = require_util();
-    var encoder = require_encoder();
-    var decoder = require_decoder();
+    var encoder2 = require_encoder();
+    var decoder4 = require_decoder();
     var verifier = require_verifier();
     var converter = require_converter();
     var wrappers = require_wrappers();
@@ -13627,12 +13627,12 @@ var require_type = __commonJS({
       for (var i = 0; i < /* initializes */
       this.fieldsArray.length; ++i)
         types2.push(this._fieldsArray[i].resolve().resolvedType);
-      this.encode = encoder(this)({
+      this.encode = encoder2(this)({
         Writer,
         types: types2,
         util
       });
-      this.decode = decoder(this)({
+      this.decode = decoder4(this)({
         Reader,
         types: types2,
         util,
@@ -13685,11 +13685,11 @@ var require_type = __commonJS({
     Type.prototype.toObject = function toObject(message, options) {
       return this.setup().toObject.apply(this, arguments);
     };
-    Type.prototype.getTypeUrl = function getTypeUrl(prefix) {
-      if (prefix === void 0)
-        prefix = "type.googleapis.com";
+    Type.prototype.getTypeUrl = function getTypeUrl(prefix2) {
+      if (prefix2 === void 0)
+        prefix2 = "type.googleapis.com";
       var fullName = this.fullName;
-      return prefix + "/" + (fullName.charAt(0) === "." ? fullName.substring(1) : fullName);
+      return prefix2 + "/" + (fullName.charAt(0) === "." ? fullName.substring(1) : fullName);
     };
     Type.d = function decorateType(typeName) {
       return function typeDecorator(target) {
@@ -13753,19 +13753,19 @@ var require_root = __commonJS({
         return util.asPromise(load, self2, filename, options);
       }
       var sync = callback === SYNC;
-      function finish(err, root2) {
+      function finish(err2, root2) {
         if (!callback) {
           return;
         }
         if (sync) {
-          throw err;
+          throw err2;
         }
         if (root2) {
           root2.resolveAll();
         }
         var cb = callback;
         callback = null;
-        cb(err, root2);
+        cb(err2, root2);
       }
       function getBundledFileName(filename2) {
         var idx = filename2.lastIndexOf("google/protobuf/");
@@ -13800,8 +13800,8 @@ var require_root = __commonJS({
                   fetch(resolved2, true, depth + 1);
             }
           }
-        } catch (err) {
-          finish(err);
+        } catch (err2) {
+          finish(err2);
         }
         if (!sync && !queued) {
           finish(null, self2);
@@ -13831,22 +13831,22 @@ var require_root = __commonJS({
           var source;
           try {
             source = util.fs.readFileSync(filename2).toString("utf8");
-          } catch (err) {
+          } catch (err2) {
             if (!weak)
-              finish(err);
+              finish(err2);
             return;
           }
           process2(filename2, source, depth);
         } else {
           ++queued;
-          self2.fetch(filename2, function(err, source2) {
+          self2.fetch(filename2, function(err2, source2) {
             --queued;
             if (!callback) {
               return;
             }
-            if (err) {
+            if (err2) {
               if (!weak)
-                finish(err);
+                finish(err2);
               else if (!queued)
                 finish(null, self2);
               return;
@@ -13999,15 +13999,15 @@ var require_util = __commonJS({
       }
       return object2;
     };
-    util.remove = function remove(object2, value2, key2) {
+    util.remove = function remove(object2, value3, key2) {
       if (!object2)
         return false;
-      if (key2 !== void 0 && Object.prototype.hasOwnProperty.call(object2, key2) && object2[key2] === value2) {
+      if (key2 !== void 0 && Object.prototype.hasOwnProperty.call(object2, key2) && object2[key2] === value3) {
         delete object2[key2];
         return true;
       }
       for (var names = Object.keys(object2), i = 0; i < names.length; ++i)
-        if (object2[names[i]] === value2) {
+        if (object2[names[i]] === value3) {
           delete object2[names[i]];
           return true;
         }
@@ -14076,20 +14076,20 @@ var require_util = __commonJS({
       Object.defineProperty(object2, "$type", { value: enm, enumerable: false });
       return enm;
     };
-    util.setProperty = function setProperty(dst, path, value2, ifNotSet) {
-      function setProp(dst2, path2, value3) {
+    util.setProperty = function setProperty(dst, path, value3, ifNotSet) {
+      function setProp(dst2, path2, value4) {
         var part = path2.shift();
         if (util.isUnsafeProperty(part))
           return dst2;
         if (path2.length > 0) {
-          dst2[part] = setProp(dst2[part] || {}, path2, value3);
+          dst2[part] = setProp(dst2[part] || {}, path2, value4);
         } else {
           var prevValue = dst2[part];
           if (prevValue && ifNotSet)
             return dst2;
           if (prevValue)
-            value3 = [].concat(prevValue).concat(value3);
-          dst2[part] = value3;
+            value4 = [].concat(prevValue).concat(value4);
+          dst2[part] = value4;
         }
         return dst2;
       }
@@ -14100,7 +14100,7 @@ var require_util = __commonJS({
       path = path.split(".");
       if (path.length > util.recursionLimit)
         throw Error("max depth exceeded");
-      return setProp(dst, path, value2);
+      return setProp(dst, path, value3);
     };
     Object.defineProperty(util, "decorateRoot", {
       get: function() {
@@ -14393,8 +14393,8 @@ var require_field = __commonJS({
         this._features.field_presence !== "IMPLICIT";
       }
     });
-    Field.prototype.setOption = function setOption(name, value2, ifNotSet) {
-      return ReflectionObject.prototype.setOption.call(this, name, value2, ifNotSet);
+    Field.prototype.setOption = function setOption(name, value3, ifNotSet) {
+      return ReflectionObject.prototype.setOption.call(this, name, value3, ifNotSet);
     };
     Field.prototype.toJSON = function toJSON(toJSONOptions) {
       var keepComments = toJSONOptions ? Boolean(toJSONOptions.keepComments) : false;
@@ -14419,7 +14419,7 @@ var require_field = __commonJS({
         keepComments ? this.comment : void 0
       ]);
     };
-    Field.prototype.resolve = function resolve6() {
+    Field.prototype.resolve = function resolve8() {
       if (this.resolved)
         return this;
       if ((this.typeDefault = types2.defaults[this.type]) === void 0) {
@@ -14709,7 +14709,7 @@ var require_object = __commonJS({
       this.parent = null;
       this.resolved = false;
     };
-    ReflectionObject.prototype.resolve = function resolve6() {
+    ReflectionObject.prototype.resolve = function resolve8() {
       if (this.resolved)
         return this;
       if (this.root instanceof Root)
@@ -14772,23 +14772,23 @@ var require_object = __commonJS({
         return this.options[name];
       return void 0;
     };
-    ReflectionObject.prototype.setOption = function setOption(name, value2, ifNotSet) {
+    ReflectionObject.prototype.setOption = function setOption(name, value3, ifNotSet) {
       if (name === "__proto__")
         return this;
       if (!this.options)
         this.options = {};
       if (/^features\./.test(name)) {
-        util.setProperty(this.options, name, value2, ifNotSet);
+        util.setProperty(this.options, name, value3, ifNotSet);
       } else {
         var prev = this.getOption(name);
         if (!ifNotSet || prev === void 0) {
-          if (prev !== value2) this.resolved = false;
-          this.options[name] = value2;
+          if (prev !== value3) this.resolved = false;
+          this.options[name] = value3;
         }
       }
       return this;
     };
-    ReflectionObject.prototype.setParsedOption = function setParsedOption(name, value2, propName) {
+    ReflectionObject.prototype.setParsedOption = function setParsedOption(name, value3, propName) {
       if (name === "__proto__")
         return this;
       if (!this.parsedOptions) {
@@ -14801,15 +14801,15 @@ var require_object = __commonJS({
         });
         if (opt) {
           var newValue = opt[name];
-          util.setProperty(newValue, propName, value2);
+          util.setProperty(newValue, propName, value3);
         } else {
           opt = {};
-          opt[name] = util.setProperty({}, propName, value2);
+          opt[name] = util.setProperty({}, propName, value3);
           parsedOptions.push(opt);
         }
       } else {
         var newOpt = {};
-        newOpt[name] = value2;
+        newOpt[name] = value3;
         parsedOptions.push(newOpt);
       }
       return this;
@@ -14974,14 +14974,14 @@ var require_enum = __commonJS({
 var require_encoder = __commonJS({
   "node_modules/protobufjs/src/encoder.js"(exports, module) {
     "use strict";
-    module.exports = encoder;
+    module.exports = encoder2;
     var Enum = require_enum();
     var types2 = require_types();
     var util = require_util();
     function genTypePartial(gen, field, fieldIndex, ref) {
       return field.delimited ? gen("types[%i].encode(%s,w.uint32(%i),q+1).uint32(%i)", fieldIndex, ref, (field.id << 3 | 3) >>> 0, (field.id << 3 | 4) >>> 0) : gen("types[%i].encode(%s,w.uint32(%i).fork(),q+1).ldelim()", fieldIndex, ref, (field.id << 3 | 2) >>> 0);
     }
-    function encoder(mtype) {
+    function encoder2(mtype) {
       var gen = util.codegen(["m", "w", "q"])("if(!w)")("w=Writer.create()")("if(q===undefined)q=0")("if(q>util.recursionLimit)")('throw Error("max depth exceeded")');
       var i, ref;
       var fields = (
@@ -15293,8 +15293,8 @@ var require_tokenize = __commonJS({
         return stack[0];
       }
       function skip(expected, optional4) {
-        var actual = peek(), equals = actual === expected;
-        if (equals) {
+        var actual = peek(), equals2 = actual === expected;
+        if (equals2) {
           next();
           return true;
         }
@@ -15450,19 +15450,19 @@ var require_parse = __commonJS({
           } else {
             try {
               target.push([start = parseId(next(), acceptNegative, max), skip("to", true) ? parseId(next(), acceptNegative, max) : start]);
-            } catch (err) {
+            } catch (err2) {
               if (acceptStrings && typeRefRe.test(token2) && edition >= 2023) {
                 target.push(token2);
               } else {
-                throw err;
+                throw err2;
               }
             }
           }
         } while (skip(",", true));
         var dummy = { options: void 0 };
-        dummy.setOption = function(name, value2) {
+        dummy.setOption = function(name, value3) {
           if (this.options === void 0) this.options = {};
-          this.options[name] = value2;
+          this.options[name] = value3;
         };
         ifBlock(
           dummy,
@@ -15514,16 +15514,16 @@ var require_parse = __commonJS({
           throw illegal(token2, name || "integer");
         if (token2 === "0" || token2 === "-0")
           return 0;
-        var value2;
+        var value3;
         if (base10NegRe.test(token2))
-          value2 = parseInt(token2, 10);
+          value3 = parseInt(token2, 10);
         else if (base16NegRe.test(token2))
-          value2 = parseInt(token2, 16);
+          value3 = parseInt(token2, 16);
         else if (base8NegRe.test(token2))
-          value2 = parseInt(token2, 8);
+          value3 = parseInt(token2, 8);
         else
           throw illegal(token2, name || "integer");
-        return value2 || 0;
+        return value3 || 0;
       }
       function parseId(token2, acceptNegative, max) {
         switch (token2) {
@@ -15908,14 +15908,14 @@ var require_parse = __commonJS({
         if (!nameRe.test(token2))
           throw illegal(token2, "name");
         skip("=");
-        var value2 = parseId(next(), true), dummy = {
+        var value3 = parseId(next(), true), dummy = {
           options: void 0
         };
         dummy.getOption = function(name) {
           return this.options[name];
         };
-        dummy.setOption = function(name, value3) {
-          ReflectionObject.prototype.setOption.call(dummy, name, value3);
+        dummy.setOption = function(name, value4) {
+          ReflectionObject.prototype.setOption.call(dummy, name, value4);
         };
         dummy.setParsedOption = function() {
           return void 0;
@@ -15931,7 +15931,7 @@ var require_parse = __commonJS({
         });
         return {
           name: token2,
-          id: value2,
+          id: value3,
           comment: dummy.comment,
           options: dummy.parsedOptions || dummy.options
         };
@@ -15997,19 +15997,19 @@ var require_parse = __commonJS({
               }
               propName = token;
             }
-            var value2;
+            var value3;
             skip(":", true);
             if (peek() === "{") {
-              value2 = parseOptionValue(parent, name + "." + propName, depth + 1);
+              value3 = parseOptionValue(parent, name + "." + propName, depth + 1);
             } else if (peek() === "[") {
-              value2 = [];
+              value3 = [];
               var lastValue, lastValueIsAggregate;
               if (skip("[", true)) {
                 if (!skip("]", true)) {
                   do {
                     lastValueIsAggregate = peek() === "{";
                     lastValue = lastValueIsAggregate ? parseOptionValue(parent, name + "." + propName, depth + 1) : readValue(true);
-                    value2.push(lastValue);
+                    value3.push(lastValue);
                   } while (skip(",", true));
                   skip("]");
                   if (typeof lastValue !== "undefined") {
@@ -16019,14 +16019,14 @@ var require_parse = __commonJS({
                 }
               }
             } else {
-              value2 = readValue(true);
-              setOption(parent, name + "." + propName, value2);
+              value3 = readValue(true);
+              setOption(parent, name + "." + propName, value3);
             }
             var prevValue = Object.prototype.hasOwnProperty.call(objectResult, propName) ? objectResult[propName] : void 0;
             if (prevValue)
-              value2 = [].concat(prevValue).concat(value2);
+              value3 = [].concat(prevValue).concat(value3);
             if (propName !== "__proto__")
-              objectResult[propName] = value2;
+              objectResult[propName] = value3;
             skip(",", true);
             skip(";", true);
           }
@@ -16036,20 +16036,20 @@ var require_parse = __commonJS({
         setOption(parent, name, simpleValue);
         return simpleValue;
       }
-      function setOption(parent, name, value2) {
+      function setOption(parent, name, value3) {
         if (ptr === parent && /^features\./.test(name)) {
-          topLevelOptions[name] = value2;
+          topLevelOptions[name] = value3;
           return;
         }
         if (name === "json_name" && parent instanceof Field) {
-          parent.jsonName = value2;
+          parent.jsonName = value3;
         }
         if (parent.setOption)
-          parent.setOption(name, value2);
+          parent.setOption(name, value3);
       }
-      function setParsedOption(parent, name, value2, propName) {
+      function setParsedOption(parent, name, value3, propName) {
         if (parent.setParsedOption)
-          parent.setParsedOption(name, value2, propName);
+          parent.setParsedOption(name, value3, propName);
       }
       function parseInlineOptions(parent) {
         if (skip("[", true)) {
@@ -16578,6 +16578,7 @@ ${detail}`;
 }
 
 // src/core/report/report.ts
+var gainCaution = "Gain is measured on the training rows (in-sample) and favours continuous and high-cardinality features (Strobl, Boulesteix, Zeileis & Hothorn 2007); permutation importance on the holdout is the measure to judge by.";
 var reportCaution = "A pass is not proof that the model is free of leakage or fit for use: plumbline only sees what the data on both sides can show, and a weak leak looks like a weak real signal. Review of the feature change stays with people and the team's own policies.";
 
 // src/core/report/error-report.ts
@@ -16663,19 +16664,19 @@ function escapeHtml(text4) {
 function trimZeros(fixed) {
   return fixed.includes(".") ? fixed.replace(/0+$/, "").replace(/\.$/, "") : fixed;
 }
-function exponential(value2, digits) {
-  const [mantissa, exponent] = value2.toExponential(digits).split("e");
+function exponential(value3, digits) {
+  const [mantissa, exponent] = value3.toExponential(digits).split("e");
   return `${trimZeros(mantissa)}e${exponent.replace("+", "")}`;
 }
-function formatNumber(value2) {
-  if (Number.isNaN(value2)) return "n/a";
-  if (!Number.isFinite(value2)) return value2 > 0 ? "inf" : "-inf";
-  if (value2 === 0) return "0";
-  const size = Math.abs(value2);
-  if (Number.isInteger(value2) && size < 1e15) return String(value2);
-  if (size < 1e-4 || size >= 1e6) return exponential(value2, 3);
-  if (size >= 1e3) return value2.toFixed(0);
-  return trimZeros(value2.toPrecision(4));
+function formatNumber(value3) {
+  if (Number.isNaN(value3)) return "n/a";
+  if (!Number.isFinite(value3)) return value3 > 0 ? "inf" : "-inf";
+  if (value3 === 0) return "0";
+  const size = Math.abs(value3);
+  if (Number.isInteger(value3) && size < 1e15) return String(value3);
+  if (size < 1e-4 || size >= 1e6) return exponential(value3, 3);
+  if (size >= 1e3) return value3.toFixed(0);
+  return trimZeros(value3.toPrecision(4));
 }
 function formatPValue(p) {
   if (Number.isNaN(p) || p < 0 || p > 1) return formatNumber(p);
@@ -16723,13 +16724,21 @@ var kindOrder = {
   "holdout-rows": 2,
   "score-regression": 3,
   "share-redistribution": 4,
-  "rank-shift": 5,
-  "rank-agreement": 6,
-  "floor-drop": 7,
-  "unused-feature": 8,
-  "feature-set": 9,
-  "policy-changed": 10,
-  "noise-model": 11
+  "slice-dominance": 5,
+  "slice-score": 6,
+  "rank-shift": 7,
+  "rank-agreement": 8,
+  "sensitivity-shift": 9,
+  "sensitivity-unlabeled": 10,
+  "gain-noise": 11,
+  "group-carried": 12,
+  "floor-drop": 13,
+  "unused-feature": 14,
+  "slice-top-features": 15,
+  "slice-too-small": 16,
+  "feature-set": 17,
+  "policy-changed": 18,
+  "noise-model": 19
 };
 function strength(finding) {
   const e2 = finding.evidence;
@@ -16857,6 +16866,30 @@ function quantileSorted(x, p) {
   } else {
     return x[idx];
   }
+}
+function sampleCovariance(x, y) {
+  if (x.length !== y.length) {
+    throw new Error("sampleCovariance requires samples with equal lengths");
+  }
+  if (x.length < 2) {
+    throw new Error(
+      "sampleCovariance requires at least two data points in each sample"
+    );
+  }
+  var xmean = mean(x);
+  var ymean = mean(y);
+  var sum2 = 0;
+  for (var i = 0; i < x.length; i++) {
+    sum2 += (x[i] - xmean) * (y[i] - ymean);
+  }
+  var besselsCorrection = x.length - 1;
+  return sum2 / besselsCorrection;
+}
+function sampleCorrelation(x, y) {
+  var cov = sampleCovariance(x, y);
+  var xstd = sampleStandardDeviation(x);
+  var ystd = sampleStandardDeviation(y);
+  return cov / xstd / ystd;
 }
 var BayesianClassifier = function BayesianClassifier2() {
   this.totalCount = 0;
@@ -17007,8 +17040,8 @@ function stirlingRemainder(z3) {
 // src/core/statistics/continued-fraction.ts
 function continuedFraction(leading, numerator, denominator, limits) {
   const tiny = 1e-300;
-  let value2 = leading === 0 ? tiny : leading;
-  let c = value2;
+  let value3 = leading === 0 ? tiny : leading;
+  let c = value3;
   let d = 0;
   for (let j = 1; j <= limits.maxTerms; j++) {
     const a = numerator(j);
@@ -17019,8 +17052,8 @@ function continuedFraction(leading, numerator, denominator, limits) {
     if (Math.abs(c) < tiny) c = tiny;
     d = 1 / d;
     const step = c * d;
-    value2 *= step;
-    if (Math.abs(step - 1) < 1e-15) return value2;
+    value3 *= step;
+    if (Math.abs(step - 1) < 1e-15) return value3;
   }
   throw new InternalError(`${limits.caller}: continued fraction did not converge in ${limits.maxTerms} terms`);
 }
@@ -17150,7 +17183,7 @@ function upperQuantile(q, central, df) {
   const logDensityConstant = -0.5 * Math.log(df) - logBeta(df / 2, 0.5);
   const isTail = q < 0.25;
   const logTarget = Math.log(isTail ? q : central);
-  const evaluate = (u2) => {
+  const evaluate2 = (u2) => {
     const t = Math.exp(u2);
     const r = t / Math.sqrt(df);
     const logOnePlusR2 = r > 1e150 ? 2 * Math.log(r) : Math.log1p(r * r);
@@ -17166,7 +17199,7 @@ function upperQuantile(q, central, df) {
   const start = z3 + (z3 ** 3 + z3) / (4 * df) + (5 * z3 ** 5 + 16 * z3 ** 3 + 3 * z3) / (96 * df * df);
   const maxU = Math.log(Number.MAX_VALUE);
   let u = Math.min(Math.log(start), maxU);
-  let { g: g2, slope } = evaluate(u);
+  let { g: g2, slope } = evaluate2(u);
   let lower = -Infinity;
   let upper = Infinity;
   for (let width = 1; g2 !== 0; width *= 2) {
@@ -17181,7 +17214,7 @@ function upperQuantile(q, central, df) {
       u -= width;
     }
     ;
-    ({ g: g2, slope } = evaluate(u));
+    ({ g: g2, slope } = evaluate2(u));
   }
   for (let iteration = 0; iteration < 200; iteration++) {
     if (g2 === 0) return Math.exp(u);
@@ -17192,7 +17225,7 @@ function upperQuantile(q, central, df) {
     const change = Math.abs(next - u);
     u = next;
     if (change <= 1e-14 || upper - lower <= 1e-14) return Math.exp(u);
-    ({ g: g2, slope } = evaluate(u));
+    ({ g: g2, slope } = evaluate2(u));
   }
   throw new InternalError(`studentTQuantile: did not converge for q = ${q}, df = ${df}`);
 }
@@ -17283,17 +17316,17 @@ var evidenceLabels = {
 function evidenceLabel(key2) {
   return evidenceLabels[key2] ?? key2.replace(/([a-z0-9])([A-Z])/g, "$1 $2").replace(/[_-]+/g, " ").toLowerCase();
 }
-function formatEvidenceValue(key2, value2) {
-  if (value2 === null) return "n/a";
-  if (typeof value2 === "boolean") return value2 ? "yes" : "no";
-  if (typeof value2 === "string") return value2;
-  if (/p-?value$/i.test(key2) || key2 === "alpha") return formatPValue(value2);
-  if (/(^s|S)hare$|^relativeChange$|^relativePower$/.test(key2)) return formatPercent(value2);
-  return formatNumber(value2);
+function formatEvidenceValue(key2, value3) {
+  if (value3 === null) return "n/a";
+  if (typeof value3 === "boolean") return value3 ? "yes" : "no";
+  if (typeof value3 === "string") return value3;
+  if (/p-?value$/i.test(key2) || key2 === "alpha") return formatPValue(value3);
+  if (/(^s|S)hare$|^relativeChange$|^relativePower$/.test(key2)) return formatPercent(value3);
+  return formatNumber(value3);
 }
 function evidenceInWords(finding, featureSet) {
   const missing = finding.feature === void 0 ? null : featureSet.added.includes(finding.feature) ? "base" : featureSet.removed.includes(finding.feature) ? "head" : null;
-  return Object.entries(finding.evidence).filter(([key2, value2]) => value2 !== null && !(missing !== null && key2.startsWith(missing)));
+  return Object.entries(finding.evidence).filter(([key2, value3]) => value3 !== null && !(missing !== null && key2.startsWith(missing)));
 }
 function describeFinding(finding, task, featureSet) {
   const kind = finding.kind.replace(/-/g, " ");
@@ -17304,8 +17337,8 @@ function describeFinding(finding, task, featureSet) {
     title: finding.title,
     about: finding.feature === void 0 ? kind : `${kind}; feature: ${finding.feature}`,
     message: finding.message,
-    evidence: entries.map(([key2, value2]) => `${label2(key2)} ${formatEvidenceValue(key2, value2)}`),
-    evidencePairs: entries.map(([key2, value2]) => [label2(key2), formatEvidenceValue(key2, value2)])
+    evidence: entries.map(([key2, value3]) => `${label2(key2)} ${formatEvidenceValue(key2, value3)}`),
+    evidencePairs: entries.map(([key2, value3]) => [label2(key2), formatEvidenceValue(key2, value3)])
   };
 }
 function describeImportance(side2) {
@@ -17365,9 +17398,9 @@ function describeNull(values) {
   const pairs = finite2.length === 1 ? "pair" : "pairs";
   return `${formatNumber(lowest)} to ${formatNumber(highest)} over ${formatCount(finite2.length)} ${pairs}`;
 }
-function readAgreement(value2, threshold) {
-  if (Number.isNaN(value2) || Number.isNaN(threshold)) return "undefined";
-  return value2 < threshold ? "below the reseed threshold" : "within reseed agreement";
+function readAgreement(value3, threshold) {
+  if (Number.isNaN(value3) || Number.isNaN(threshold)) return "undefined";
+  return value3 < threshold ? "below the reseed threshold" : "within reseed agreement";
 }
 function tabulateAgreement(agreement) {
   const { kendallTau, rankBiasedOverlap: rankBiasedOverlap2, kendallTauThreshold, rankBiasedOverlapThreshold } = agreement;
@@ -17469,7 +17502,7 @@ function tabulateReport(report) {
       rows: Object.entries(settings.checks).flatMap(
         ([check2, values]) => (
           // Policy settings as the policy file writes them: 0.5, not 50%.
-          Object.entries(values).map(([key2, value2]) => [check2, key2, typeof value2 === "number" ? formatNumber(value2) : formatEvidenceValue(key2, value2)])
+          Object.entries(values).map(([key2, value3]) => [check2, key2, typeof value3 === "number" ? formatNumber(value3) : formatEvidenceValue(key2, value3)])
         )
       )
     },
@@ -17514,9 +17547,9 @@ function liftLines(report) {
 function readDropColumn(row) {
   const holders = [row.head ?? {}, row];
   for (const holder of holders) {
-    const value2 = holder.dropColumn;
-    if (typeof value2 !== "object" || value2 === null) continue;
-    const v = value2;
+    const value3 = holder.dropColumn;
+    if (typeof value3 !== "object" || value3 === null) continue;
+    const v = value3;
     const mean3 = typeof v.loss === "number" ? v.loss : v.mean;
     if (typeof mean3 !== "number" || !Number.isFinite(mean3)) continue;
     const lower = typeof v.lower === "number" ? v.lower : NaN;
@@ -17601,25 +17634,25 @@ function scaleOf(values) {
   high += pad;
   return { low, high };
 }
-function at(scale, value2) {
-  const p = (value2 - scale.low) / (scale.high - scale.low) * 100;
+function at(scale, value3) {
+  const p = (value3 - scale.low) / (scale.high - scale.low) * 100;
   return `${Math.min(100, Math.max(0, Number.isFinite(p) ? p : 0)).toFixed(2)}%`;
 }
 function axis(scale, label2) {
   const zeroAt = (0 - scale.low) / (scale.high - scale.low);
   const ticks = [scale.low, ...zeroAt > 0.3 && zeroAt < 0.7 ? [0] : [], scale.high];
-  const texts = ticks.map((value2, i) => {
+  const texts = ticks.map((value3, i) => {
     const anchor2 = i === 0 ? "start" : i === ticks.length - 1 ? "end" : "middle";
-    return `<text x="${at(scale, value2)}" y="12" text-anchor="${anchor2}">${e(formatNumber(Number(value2.toPrecision(3))))}</text>`;
+    return `<text x="${at(scale, value3)}" y="12" text-anchor="${anchor2}">${e(formatNumber(Number(value3.toPrecision(3))))}</text>`;
   });
   return `<div class="name muted">${e(label2)}</div><svg class="axis" height="16" role="img" aria-label="${e(label2)} axis">${texts.join("")}</svg>`;
 }
 function whisker(scale, side2, y, lower, upper) {
   return `<line class="whisker ${side2}" x1="${at(scale, lower)}" x2="${at(scale, upper)}" y1="${y}" y2="${y}"/>`;
 }
-function mark(scale, side2, y, value2, title) {
+function mark(scale, side2, y, value3, title) {
   const tip = `<title>${e(title)}</title>`;
-  return side2 === "base" ? `<circle class="mark base" cx="${at(scale, value2)}" cy="${y}" r="4.5">${tip}</circle>` : `<svg x="${at(scale, value2)}" y="${y - 5}" width="1" height="1" overflow="visible"><rect class="mark head" x="-5" y="0" width="10" height="10">${tip}</rect></svg>`;
+  return side2 === "base" ? `<circle class="mark base" cx="${at(scale, value3)}" cy="${y}" r="4.5">${tip}</circle>` : `<svg x="${at(scale, value3)}" y="${y - 5}" width="1" height="1" overflow="visible"><rect class="mark head" x="-5" y="0" width="10" height="10">${tip}</rect></svg>`;
 }
 function legend() {
   return '<div class="legend"><span><svg width="14" height="14"><circle class="mark base" cx="7" cy="7" r="4.5"/></svg> base</span><span><svg width="14" height="14"><rect class="mark head" x="2" y="2" width="10" height="10"/></svg> head</span><span><svg width="22" height="14"><rect class="band" x="0" y="2" width="22" height="10"/></svg> reseed floor (a mark inside the band is indistinguishable from zero)</span><span>lines: 95% interval</span></div>';
@@ -17735,7 +17768,7 @@ function renderHtml(report, options = {}) {
   const verdictWord = report.verdict === "error" ? "no verdict" : report.verdict;
   const header = `<header><h1>plumbline report <span class="verdict v-${report.verdict}">${e(verdictWord.toUpperCase())}</span></h1><p><strong>${e(report.headline)}</strong></p>` + (tables.score ? `<p>${[tables.score.sentence, ...tables.score.evidenceLines].map(e).join("<br>")}</p>` : "") + (report.sides ? `<p class="muted">base ${e(report.sides.base.ref)}${report.sides.base.commit ? ` (${e(report.sides.base.commit.slice(0, 12))})` : ""} · head ${e(report.sides.head.ref)}${report.sides.head.commit ? ` (${e(report.sides.head.commit.slice(0, 12))})` : ""} · plumbline ${e(report.tool.version)}</p>` : "") + "</header>";
   const findings = tables.findings.length === 0 ? "<p>None.</p>" : tables.findings.map((f) => {
-    const items = f.evidencePairs.map(([label2, value2]) => `<dt>${e(label2)}</dt><dd>${e(value2)}</dd>`);
+    const items = f.evidencePairs.map(([label2, value3]) => `<dt>${e(label2)}</dt><dd>${e(value3)}</dd>`);
     return `<article class="finding s-${f.severity}"><h3><span class="sev">${f.severity}</span>${e(f.title)}</h3>` + (f.message ? `<p>${e(f.message)}</p>` : "") + (items.length ? `<dl class="evidence">${items.join("")}</dl>` : "") + "</article>";
   }).join("");
   if (report.verdict === "error") {
@@ -17760,28 +17793,28 @@ function renderHtml(report, options = {}) {
 }
 
 // node_modules/markdown-table/index.js
-function defaultStringLength(value2) {
-  return value2.length;
+function defaultStringLength(value3) {
+  return value3.length;
 }
 function markdownTable(table2, options) {
   const settings = options || {};
-  const align = (settings.align || []).concat();
+  const align2 = (settings.align || []).concat();
   const stringLength = settings.stringLength || defaultStringLength;
   const alignments = [];
   const cellMatrix = [];
   const sizeMatrix = [];
   const longestCellByColumn = [];
   let mostCellsPerRow = 0;
-  let rowIndex = -1;
-  while (++rowIndex < table2.length) {
+  let rowIndex2 = -1;
+  while (++rowIndex2 < table2.length) {
     const row2 = [];
     const sizes2 = [];
     let columnIndex2 = -1;
-    if (table2[rowIndex].length > mostCellsPerRow) {
-      mostCellsPerRow = table2[rowIndex].length;
+    if (table2[rowIndex2].length > mostCellsPerRow) {
+      mostCellsPerRow = table2[rowIndex2].length;
     }
-    while (++columnIndex2 < table2[rowIndex].length) {
-      const cell = serialize(table2[rowIndex][columnIndex2]);
+    while (++columnIndex2 < table2[rowIndex2].length) {
+      const cell = serialize(table2[rowIndex2][columnIndex2]);
       if (settings.alignDelimiters !== false) {
         const size = stringLength(cell);
         sizes2[columnIndex2] = size;
@@ -17791,16 +17824,16 @@ function markdownTable(table2, options) {
       }
       row2.push(cell);
     }
-    cellMatrix[rowIndex] = row2;
-    sizeMatrix[rowIndex] = sizes2;
+    cellMatrix[rowIndex2] = row2;
+    sizeMatrix[rowIndex2] = sizes2;
   }
   let columnIndex = -1;
-  if (typeof align === "object" && "length" in align) {
+  if (typeof align2 === "object" && "length" in align2) {
     while (++columnIndex < mostCellsPerRow) {
-      alignments[columnIndex] = toAlignment(align[columnIndex]);
+      alignments[columnIndex] = toAlignment(align2[columnIndex]);
     }
   } else {
-    const code2 = toAlignment(align);
+    const code2 = toAlignment(align2);
     while (++columnIndex < mostCellsPerRow) {
       alignments[columnIndex] = code2;
     }
@@ -17836,12 +17869,12 @@ function markdownTable(table2, options) {
   }
   cellMatrix.splice(1, 0, row);
   sizeMatrix.splice(1, 0, sizes);
-  rowIndex = -1;
+  rowIndex2 = -1;
   const lines = [];
-  while (++rowIndex < cellMatrix.length) {
-    const row2 = cellMatrix[rowIndex];
-    const sizes2 = sizeMatrix[rowIndex];
-    const cellsInRow = settings.fillRows === false ? Math.max(1, cellMatrix[rowIndex === 1 ? 0 : rowIndex].length) : mostCellsPerRow;
+  while (++rowIndex2 < cellMatrix.length) {
+    const row2 = cellMatrix[rowIndex2];
+    const sizes2 = sizeMatrix[rowIndex2];
+    const cellsInRow = settings.fillRows === false ? Math.max(1, cellMatrix[rowIndex2 === 1 ? 0 : rowIndex2].length) : mostCellsPerRow;
     columnIndex = -1;
     const line = [];
     while (++columnIndex < cellsInRow) {
@@ -17894,11 +17927,11 @@ function markdownTable(table2, options) {
   }
   return lines.join("\n");
 }
-function serialize(value2) {
-  return value2 === null || value2 === void 0 ? "" : String(value2);
+function serialize(value3) {
+  return value3 === null || value3 === void 0 ? "" : String(value3);
 }
-function toAlignment(value2) {
-  const code2 = typeof value2 === "string" ? value2.codePointAt(0) : 0;
+function toAlignment(value3) {
+  const code2 = typeof value3 === "string" ? value3.codePointAt(0) : 0;
   return code2 === 67 || code2 === 99 ? 99 : code2 === 76 || code2 === 108 ? 108 : code2 === 82 || code2 === 114 ? 114 : 0;
 }
 
@@ -17936,6 +17969,58 @@ function mermaidChart(report) {
   ].join("\n");
 }
 
+// src/core/report/tabulate-views.ts
+function tabulateViews(report) {
+  const { sensitivity, gain } = report;
+  if (!sensitivity && !gain) return null;
+  const gainBy = new Map((gain?.features ?? []).map((f) => [f.name, f]));
+  const names = sensitivity ? sensitivity.features.filter((f) => !f.isGroup).map((f) => f.name) : (gain?.features ?? []).map((f) => f.name);
+  const byName = new Map((sensitivity?.features ?? []).filter((f) => !f.isGroup).map((f) => [f.name, f]));
+  const binary = sensitivity?.threshold !== null && sensitivity?.threshold !== void 0;
+  const unlabeled = (sensitivity?.unlabeledRows.head ?? 0) > 0;
+  const header = [
+    "feature",
+    ...sensitivity ? ["moves predictions (base → head)", ...binary ? ["decisions flipped (head)"] : [], ...unlabeled ? ["on unlabeled (head)"] : []] : [],
+    ...gain ? ["gain rank (share), head"] : []
+  ];
+  const rows = names.map((name) => {
+    const s = byName.get(name);
+    const g2 = gainBy.get(name)?.head;
+    const num = (v) => v === void 0 ? "—" : formatNumber(v);
+    return [
+      name,
+      ...sensitivity ? [
+        `${num(s?.base?.holdout.mean)} → ${num(s?.head?.holdout.mean)}${s?.change?.isSignificant ? " *" : ""}`,
+        ...binary ? [s?.head?.holdout.flipShare == null ? "—" : formatPercent(s.head.holdout.flipShare)] : [],
+        ...unlabeled ? [num(s?.head?.unlabeled?.mean)] : []
+      ] : [],
+      ...gain ? [g2 ? `${g2.rank} (${formatPercent(g2.share)})` : "—"] : []
+    ];
+  });
+  const notes = [
+    ...sensitivity ? [
+      `"Moves predictions" is the mean absolute change of the model's output${binary ? " (probability)" : ""} when the feature takes reference values (no labels needed); * marks a change beyond reseed noise.`
+    ] : [],
+    ...gain ? [gain.caution] : [],
+    ...((automatic) => automatic.length > 0 ? [`Correlated groups (permuted jointly): ${automatic.map((g2) => `${g2.members.join(", ")} (|Spearman| ≥ ${formatNumber(g2.weakestLink ?? NaN)})`).join("; ")}.`] : [])(
+      (report.groups ?? []).filter((g2) => g2.automatic)
+    )
+  ];
+  return { table: { header, align: header.map((_, i) => i === 0 ? "left" : "right"), rows }, note: notes.join(" ") };
+}
+function tabulateSlices(report) {
+  if (!report.slices || report.slices.length === 0) return null;
+  const worse = new Set(report.findings.filter((f) => f.kind === "slice-score").map((f) => f.feature));
+  const header = ["slice", "rows (head)", `${report.settings.metric} base → head`, "top feature (head)"];
+  const rows = report.slices.map((s) => [
+    `${s.name}: ${s.definition}`,
+    `${s.rows.head}${s.status === "measured" ? "" : s.status === "too-small" ? " (too small)" : " (one class)"}`,
+    s.base || s.head ? `${s.base ? formatNumber(s.base.scoreMean) : "—"} → ${s.head ? formatNumber(s.head.scoreMean) : "—"}${worse.has(s.name) ? " *" : ""}` : "—",
+    s.head?.top[0] ? `${s.head.top[0].name} (${formatPercent(s.head.top[0].share)})` : "—"
+  ]);
+  return { header, align: ["left", "right", "right", "left"], rows };
+}
+
 // src/core/report/render-markdown.ts
 var defaultFullReportNote = "The full report is in the workflow run's job summary and in the JSON report file.";
 var maxMessageCharacters = 3e3;
@@ -17948,8 +18033,8 @@ function renderTable(table2) {
     alignDelimiters: false
   });
 }
-function renderDetails(summary2, blocks) {
-  return ["<details>", `<summary>${summary2}</summary>`, "", ...blocks.flatMap((block) => [block, ""]), "</details>"].join(
+function renderDetails(summary3, blocks) {
+  return ["<details>", `<summary>${summary3}</summary>`, "", ...blocks.flatMap((block) => [block, ""]), "</details>"].join(
     "\n"
   );
 }
@@ -18054,6 +18139,8 @@ function renderMarkdown(report, options = {}) {
         renderTable(limitRows(tables.scores, maxTableRows))
       ])
     ] : [],
+    ...((views) => views ? [renderDetails("Prediction sensitivity and gain", [escapeMarkdownText(views.note), renderTable(limitRows(views.table, maxTableRows))])] : [])(tabulateViews(report)),
+    ...((slices) => slices ? [renderDetails("Slices", ["* marks a score worse beyond reseed noise.", renderTable(limitRows(slices, maxTableRows))])] : [])(tabulateSlices(report)),
     ...tables.seeds ? [renderDetails("Refit seeds", [renderTable(limitRows(tables.seeds, maxTableRows))])] : [],
     renderDetails("Settings and check thresholds", [
       renderTable(tables.settings),
@@ -18087,10 +18174,10 @@ ${items}`;
   }
   function renderFeatures(rows) {
     const count4 = tables.features.rows.length;
-    const summary2 = `Feature importance, ${formatCount(count4)} ${count4 === 1 ? "row" : "rows"}`;
+    const summary3 = `Feature importance, ${formatCount(count4)} ${count4 === 1 ? "row" : "rows"}`;
     if (count4 === 0) return renderDetails("Feature importance", ["No features were measured."]);
-    if (rows === 0) return renderDetails(summary2, [`The table of ${formatCount(count4)} rows is left out; see the note below.`]);
-    return renderDetails(summary2, [escapeMarkdownText(importanceNote), renderTable(limitRows(tables.features, rows))]);
+    if (rows === 0) return renderDetails(summary3, [`The table of ${formatCount(count4)} rows is left out; see the note below.`]);
+    return renderDetails(summary3, [escapeMarkdownText(importanceNote), renderTable(limitRows(tables.features, rows))]);
   }
   function renderFeatureSet(maxItems) {
     const { added, removed, kindChanged, unchangedCount } = tables.featureSet;
@@ -18860,10 +18947,10 @@ function getEnumValues(entries) {
 function joinValues(array2, separator = "|") {
   return array2.map((val) => stringifyPrimitive(val)).join(separator);
 }
-function jsonStringifyReplacer(_, value2) {
-  if (typeof value2 === "bigint")
-    return value2.toString();
-  return value2;
+function jsonStringifyReplacer(_, value3) {
+  if (typeof value3 === "bigint")
+    return value3.toString();
+  return value3;
 }
 var Cached = class {
   constructor(getter) {
@@ -18900,17 +18987,17 @@ function floatSafeRemainder(val, step) {
 }
 var EVALUATING = /* @__PURE__ */ Symbol("evaluating");
 function defineLazy(object2, key2, getter) {
-  let value2 = void 0;
+  let value3 = void 0;
   Object.defineProperty(object2, key2, {
     get() {
-      if (value2 === EVALUATING) {
+      if (value3 === EVALUATING) {
         return void 0;
       }
-      if (value2 === void 0) {
-        value2 = EVALUATING;
-        value2 = getter();
+      if (value3 === void 0) {
+        value3 = EVALUATING;
+        value3 = getter();
       }
-      return value2;
+      return value3;
     },
     set(v) {
       Object.defineProperty(object2, key2, {
@@ -18924,9 +19011,9 @@ function defineLazy(object2, key2, getter) {
 function objectClone(obj) {
   return Object.create(Object.getPrototypeOf(obj), Object.getOwnPropertyDescriptors(obj));
 }
-function assignProp(target, prop, value2) {
+function assignProp(target, prop, value3) {
   Object.defineProperty(target, prop, {
-    value: value2,
+    value: value3,
     writable: true,
     enumerable: true,
     configurable: true
@@ -18942,19 +19029,19 @@ function sourceShape(schema) {
 function deferProp(target, key2, getter) {
   Object.defineProperty(target, key2, {
     get() {
-      const value2 = getter();
-      assignProp(this, key2, value2);
-      return value2;
+      const value3 = getter();
+      assignProp(this, key2, value3);
+      return value3;
     },
     enumerable: true,
     configurable: true
   });
 }
-function putProp(target, key2, value2) {
+function putProp(target, key2, value3) {
   if (key2 in target)
-    assignProp(target, key2, value2);
+    assignProp(target, key2, value3);
   else
-    target[key2] = value2;
+    target[key2] = value3;
 }
 function mirrorShape(target, source, keys, wrap2) {
   const raw = sourceShape(source);
@@ -18964,8 +19051,8 @@ function mirrorShape(target, source, keys, wrap2) {
       continue;
     if (desc.get) {
       deferProp(target, key2, () => {
-        const value2 = source._zod.def.shape[key2];
-        return wrap2 ? wrap2(value2, key2) : value2;
+        const value3 = source._zod.def.shape[key2];
+        return wrap2 ? wrap2(value3, key2) : value3;
       });
     } else
       putProp(target, key2, wrap2 ? wrap2(desc.value, key2) : desc.value);
@@ -19164,9 +19251,9 @@ function createTransparentProxy(getter) {
       target ?? (target = getter());
       return Reflect.get(target, prop, receiver);
     },
-    set(_, prop, value2, receiver) {
+    set(_, prop, value3, receiver) {
       target ?? (target = getter());
-      return Reflect.set(target, prop, value2, receiver);
+      return Reflect.set(target, prop, value3, receiver);
     },
     has(_, prop) {
       target ?? (target = getter());
@@ -19190,12 +19277,12 @@ function createTransparentProxy(getter) {
     }
   });
 }
-function stringifyPrimitive(value2) {
-  if (typeof value2 === "bigint")
-    return value2.toString() + "n";
-  if (typeof value2 === "string")
-    return `"${value2}"`;
-  return `${value2}`;
+function stringifyPrimitive(value3) {
+  if (typeof value3 === "bigint")
+    return value3.toString() + "n";
+  if (typeof value3 === "string")
+    return `"${value3}"`;
+  return `${value3}`;
 }
 function optionalKeys(shape) {
   return Object.keys(shape).filter((k) => {
@@ -19304,15 +19391,15 @@ function partial(Class2, schema, mask, name = "partial") {
   }
   const selected = mask ? new Set(maskedKeys(schema, mask)) : void 0;
   const newShape = {};
-  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), Class2 && ((value2, key2) => selected && !selected.has(key2) ? value2 : new Class2({ type: "optional", innerType: value2 })));
+  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), Class2 && ((value3, key2) => selected && !selected.has(key2) ? value3 : new Class2({ type: "optional", innerType: value3 })));
   return clone(schema, mergeDefs(schema._zod.def, { shape: newShape, checks: [] }));
 }
 function required(Class2, schema, mask) {
   const selected = mask ? new Set(maskedKeys(schema, mask)) : void 0;
   const newShape = {};
-  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), (value2, key2) => (
+  mirrorShape(newShape, schema, Reflect.ownKeys(sourceShape(schema)), (value3, key2) => (
     // overwrite with non-optional
-    selected && !selected.has(key2) ? value2 : new Class2({ type: "nonoptional", innerType: value2 })
+    selected && !selected.has(key2) ? value3 : new Class2({ type: "nonoptional", innerType: value3 })
   ));
   return clone(schema, mergeDefs(schema._zod.def, { shape: newShape }));
 }
@@ -19507,12 +19594,12 @@ function members(proto, table2) {
       defineBound(proto, key2, desc.value);
   }
 }
-function own(inst, key2, value2, enumerable = true) {
-  Object.defineProperty(inst, key2, { configurable: true, writable: true, enumerable, value: value2 });
-  return value2;
+function own(inst, key2, value3, enumerable = true) {
+  Object.defineProperty(inst, key2, { configurable: true, writable: true, enumerable, value: value3 });
+  return value3;
 }
-function hide(inst, key2, value2) {
-  return own(inst, key2, value2, false);
+function hide(inst, key2, value3) {
+  return own(inst, key2, value3, false);
 }
 // @__NO_SIDE_EFFECTS__
 function derived(computes, table2) {
@@ -19524,8 +19611,8 @@ function derived(computes, table2) {
       get() {
         return own(this, key2, compute(this));
       },
-      set(value2) {
-        own(this, key2, value2);
+      set(value3) {
+        own(this, key2, value3);
       }
     });
   }
@@ -19537,8 +19624,8 @@ function defineBound(proto, key2, fn) {
     get() {
       return this == null ? fn : own(this, key2, fn.bind(this));
     },
-    set(value2) {
-      own(this, key2, value2);
+    set(value3) {
+      own(this, key2, value3);
     }
   });
 }
@@ -19569,21 +19656,21 @@ function defineLazyInternal(inst, key2, compute) {
       const outer = broke;
       broke = false;
       try {
-        const value2 = compute(this);
+        const value3 = compute(this);
         if (broke)
           delete this[key2];
         else
-          Object.defineProperty(this, key2, { configurable: true, writable: true, value: value2 });
+          Object.defineProperty(this, key2, { configurable: true, writable: true, value: value3 });
         broke = broke || outer;
-        return value2;
-      } catch (err) {
+        return value3;
+      } catch (err2) {
         delete this[key2];
         broke = broke || outer;
-        throw err;
+        throw err2;
       }
     },
-    set(value2) {
-      Object.defineProperty(this, key2, { configurable: true, writable: true, value: value2 });
+    set(value3) {
+      Object.defineProperty(this, key2, { configurable: true, writable: true, value: value3 });
     }
   });
 }
@@ -19600,14 +19687,14 @@ function installLazyProp(inst, key2, make, enumerable) {
       Object.defineProperty(this, key2, desc);
       return desc.value;
     },
-    set(value2) {
-      Object.defineProperty(this, key2, { configurable: true, writable: true, enumerable, value: value2 });
+    set(value3) {
+      Object.defineProperty(this, key2, { configurable: true, writable: true, enumerable, value: value3 });
     }
   });
 }
 var CONSTANT_CATCH = "~constantCatch";
-function constantCatch(value2) {
-  const fn = () => value2;
+function constantCatch(value3) {
+  const fn = () => value3;
   fn[CONSTANT_CATCH] = true;
   return fn;
 }
@@ -19740,8 +19827,8 @@ function _getMessage() {
   internals.message ?? (internals.message = JSON.stringify(internals.def, jsonStringifyReplacer, 2));
   return internals.message;
 }
-function _setMessage(value2) {
-  this._zod.message = value2;
+function _setMessage(value3) {
+  this._zod.message = value3;
 }
 var _messageDesc = {
   get: _getMessage,
@@ -19764,12 +19851,12 @@ var initializer = (inst, def) => {
       configurable: true,
       enumerable: false,
       get() {
-        const value2 = () => this.message;
-        Object.defineProperty(this, "toString", { value: value2, configurable: true, writable: true });
-        return value2;
+        const value3 = () => this.message;
+        Object.defineProperty(this, "toString", { value: value3, configurable: true, writable: true });
+        return value3;
       },
-      set(value2) {
-        Object.defineProperty(this, "toString", { value: value2, configurable: true, writable: true });
+      set(value3) {
+        Object.defineProperty(this, "toString", { value: value3, configurable: true, writable: true });
       }
     });
   }
@@ -19931,9 +20018,9 @@ function finalizeParams(callee, params) {
   return { callee: params?.callee ?? callee, Err: params?.Err };
 }
 var _parse = (_Err) => {
-  const fn = (schema, value2, _ctx, _params) => {
+  const fn = (schema, value3, _ctx, _params) => {
     const ctx = _ctx ? { ..._ctx, async: false } : { async: false };
-    const result = schema._zod.run({ value: value2, issues: [] }, ctx);
+    const result = schema._zod.run({ value: value3, issues: [] }, ctx);
     if (result instanceof Promise) {
       throw new $ZodAsyncError();
     }
@@ -19948,9 +20035,9 @@ var _parse = (_Err) => {
 };
 var parse = /* @__PURE__ */ _parse($ZodRealError);
 var _parseAsync = (_Err) => {
-  const fn = async (schema, value2, _ctx, params) => {
+  const fn = async (schema, value3, _ctx, params) => {
     const ctx = _ctx ? { ..._ctx, async: true } : { async: true };
-    let result = schema._zod.run({ value: value2, issues: [] }, ctx);
+    let result = schema._zod.run({ value: value3, issues: [] }, ctx);
     if (result instanceof Promise)
       result = await result;
     if (result.issues.length) {
@@ -19963,9 +20050,9 @@ var _parseAsync = (_Err) => {
   return fn;
 };
 var parseAsync = /* @__PURE__ */ _parseAsync($ZodRealError);
-var _safeParse = (_Err) => (schema, value2, _ctx) => {
+var _safeParse = (_Err) => (schema, value3, _ctx) => {
   const ctx = _ctx ? { ..._ctx, async: false } : { async: false };
-  const result = schema._zod.run({ value: value2, issues: [] }, ctx);
+  const result = schema._zod.run({ value: value3, issues: [] }, ctx);
   if (result instanceof Promise) {
     throw new $ZodAsyncError();
   }
@@ -19991,9 +20078,9 @@ function failure(Err, issues, ctx) {
     }
   };
 }
-var _safeParseAsync = (_Err) => async (schema, value2, _ctx) => {
+var _safeParseAsync = (_Err) => async (schema, value3, _ctx) => {
   const ctx = _ctx ? { ..._ctx, async: true } : { async: true };
-  let result = schema._zod.run({ value: value2, issues: [] }, ctx);
+  let result = schema._zod.run({ value: value3, issues: [] }, ctx);
   if (result instanceof Promise)
     result = await result;
   return result.issues.length ? failure(_Err, result.issues, ctx) : { success: true, data: result.value };
@@ -20001,88 +20088,88 @@ var _safeParseAsync = (_Err) => async (schema, value2, _ctx) => {
 var safeParseAsync = /* @__PURE__ */ _safeParseAsync($ZodRealError);
 var COMPILE_INVALID = /* @__PURE__ */ Symbol.for("zod.compile.invalid");
 var COMPILE_FALLBACK = /* @__PURE__ */ Symbol.for("zod.compile.fallback");
-var validate = ((schema, value2, _ctx) => {
+var validate = ((schema, value3, _ctx) => {
   const validator = schema._zod.bag.validator;
   if (validator !== void 0) {
-    if (validator(value2) !== COMPILE_INVALID)
+    if (validator(value3) !== COMPILE_INVALID)
       return true;
     if (validator.definite === true && _ctx === void 0)
       return false;
   }
-  return validateFallback(schema, value2, _ctx);
+  return validateFallback(schema, value3, _ctx);
 });
-function validateFallback(schema, value2, _ctx) {
+function validateFallback(schema, value3, _ctx) {
   const ctx = _ctx ? { ..._ctx, async: false, abortEarly: true } : { async: false, abortEarly: true };
   const fallbackRun = schema._zod.bag.fallbackRun;
   let result;
   if (fallbackRun) {
     ctx[COMPILE_FALLBACK] = true;
-    result = fallbackRun({ value: value2, issues: [] }, ctx);
+    result = fallbackRun({ value: value3, issues: [] }, ctx);
   } else {
-    result = schema._zod.run({ value: value2, issues: [] }, ctx);
+    result = schema._zod.run({ value: value3, issues: [] }, ctx);
   }
   if (result instanceof Promise) {
     throw new $ZodAsyncError();
   }
   return result.issues.length === 0;
 }
-var validateAsync = async (schema, value2, _ctx) => {
+var validateAsync = async (schema, value3, _ctx) => {
   const ctx = _ctx ? { ..._ctx, async: true, abortEarly: true } : { async: true, abortEarly: true };
-  let result = schema._zod.run({ value: value2, issues: [] }, ctx);
+  let result = schema._zod.run({ value: value3, issues: [] }, ctx);
   if (result instanceof Promise)
     result = await result;
   return result.issues.length === 0;
 };
 var _encode = (_Err) => {
   const parse5 = _parse(_Err);
-  const fn = (schema, value2, _ctx, _params) => {
+  const fn = (schema, value3, _ctx, _params) => {
     const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-    return parse5(schema, value2, ctx, finalizeParams(fn, _params));
+    return parse5(schema, value3, ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var encode = /* @__PURE__ */ _encode($ZodRealError);
 var _decode = (_Err) => {
   const parse5 = _parse(_Err);
-  const fn = (schema, value2, _ctx, _params) => {
-    return parse5(schema, value2, _ctx, finalizeParams(fn, _params));
+  const fn = (schema, value3, _ctx, _params) => {
+    return parse5(schema, value3, _ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var decode = /* @__PURE__ */ _decode($ZodRealError);
 var _encodeAsync = (_Err) => {
   const parseAsync3 = _parseAsync(_Err);
-  const fn = async (schema, value2, _ctx, _params) => {
+  const fn = async (schema, value3, _ctx, _params) => {
     const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-    return await parseAsync3(schema, value2, ctx, finalizeParams(fn, _params));
+    return await parseAsync3(schema, value3, ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var encodeAsync = /* @__PURE__ */ _encodeAsync($ZodRealError);
 var _decodeAsync = (_Err) => {
   const parseAsync3 = _parseAsync(_Err);
-  const fn = async (schema, value2, _ctx, _params) => {
-    return await parseAsync3(schema, value2, _ctx, finalizeParams(fn, _params));
+  const fn = async (schema, value3, _ctx, _params) => {
+    return await parseAsync3(schema, value3, _ctx, finalizeParams(fn, _params));
   };
   return fn;
 };
 var decodeAsync = /* @__PURE__ */ _decodeAsync($ZodRealError);
-var _safeEncode = (_Err) => (schema, value2, _ctx) => {
+var _safeEncode = (_Err) => (schema, value3, _ctx) => {
   const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-  return _safeParse(_Err)(schema, value2, ctx);
+  return _safeParse(_Err)(schema, value3, ctx);
 };
 var safeEncode = /* @__PURE__ */ _safeEncode($ZodRealError);
-var _safeDecode = (_Err) => (schema, value2, _ctx) => {
-  return _safeParse(_Err)(schema, value2, _ctx);
+var _safeDecode = (_Err) => (schema, value3, _ctx) => {
+  return _safeParse(_Err)(schema, value3, _ctx);
 };
 var safeDecode = /* @__PURE__ */ _safeDecode($ZodRealError);
-var _safeEncodeAsync = (_Err) => async (schema, value2, _ctx) => {
+var _safeEncodeAsync = (_Err) => async (schema, value3, _ctx) => {
   const ctx = _ctx ? { ..._ctx, direction: "backward" } : { direction: "backward" };
-  return _safeParseAsync(_Err)(schema, value2, ctx);
+  return _safeParseAsync(_Err)(schema, value3, ctx);
 };
 var safeEncodeAsync = /* @__PURE__ */ _safeEncodeAsync($ZodRealError);
-var _safeDecodeAsync = (_Err) => async (schema, value2, _ctx) => {
-  return _safeParseAsync(_Err)(schema, value2, _ctx);
+var _safeDecodeAsync = (_Err) => async (schema, value3, _ctx) => {
+  return _safeParseAsync(_Err)(schema, value3, _ctx);
 };
 var safeDecodeAsync = /* @__PURE__ */ _safeDecodeAsync($ZodRealError);
 
@@ -20888,26 +20975,26 @@ var $ZodType = /* @__PURE__ */ $constructor("$ZodType", (inst, def) => {
   get "~standard"() {
     return hide(this, "~standard", standardProps(this));
   },
-  set "~standard"(value2) {
-    own(this, "~standard", value2);
+  set "~standard"(value3) {
+    own(this, "~standard", value3);
   }
 });
 var toStandardResult = (r, ctx) => r.issues.length ? { issues: r.issues.map((iss) => finalizeIssue(iss, ctx, config())) } : { value: r.value };
-async function validateAsync2(inst, value2) {
+async function validateAsync2(inst, value3) {
   const ctx = { async: true };
-  return toStandardResult(await inst._zod.run({ value: value2, issues: [] }, ctx), ctx);
+  return toStandardResult(await inst._zod.run({ value: value3, issues: [] }, ctx), ctx);
 }
 function standardProps(inst) {
   return {
-    validate: (value2) => {
+    validate: (value3) => {
       const ctx = { async: false };
       try {
-        const r = inst._zod.run({ value: value2, issues: [] }, ctx);
+        const r = inst._zod.run({ value: value3, issues: [] }, ctx);
         if (!(r instanceof Promise))
           return toStandardResult(r, ctx);
       } catch (_) {
       }
-      return validateAsync2(inst, value2);
+      return validateAsync2(inst, value3);
     },
     vendor: "zod",
     version: 1
@@ -20999,8 +21086,8 @@ function parseURLObject(trimmed, def) {
   }
 }
 var asciiTabOrNewline = /[\t\n\r]/g;
-function stripTabAndNewline(value2) {
-  return value2.replace(asciiTabOrNewline, "");
+function stripTabAndNewline(value3) {
+  return value3.replace(asciiTabOrNewline, "");
 }
 function urlHostnameOk(url2, hostname3) {
   hostname3.lastIndex = 0;
@@ -21127,10 +21214,10 @@ var $ZodIPv4 = /* @__PURE__ */ $constructor("$ZodIPv4", (inst, def) => {
   $ZodStringFormat.init(inst, def);
 });
 var ipv6Alphabet = /^[0-9a-fA-F:.]+$/;
-function isValidIPv6(value2) {
-  if (!ipv6Alphabet.test(value2))
+function isValidIPv6(value3) {
+  if (!ipv6Alphabet.test(value3))
     return false;
-  return canParseURL(`http://[${value2}]`);
+  return canParseURL(`http://[${value3}]`);
 }
 var $ZodIPv6 = /* @__PURE__ */ $constructor("$ZodIPv6", (inst, def) => {
   def.pattern ?? (def.pattern = ipv6);
@@ -21155,15 +21242,15 @@ var $ZodCIDRv4 = /* @__PURE__ */ $constructor("$ZodCIDRv4", (inst, def) => {
   def.pattern ?? (def.pattern = cidrv4);
   $ZodStringFormat.init(inst, def);
 });
-function isValidCIDRv6(value2) {
-  const parts = value2.split("/");
+function isValidCIDRv6(value3) {
+  const parts = value3.split("/");
   if (parts.length !== 2)
     return false;
-  const [address, prefix] = parts;
-  if (!prefix)
+  const [address, prefix2] = parts;
+  if (!prefix2)
     return false;
-  const prefixNum = Number(prefix);
-  if (`${prefixNum}` !== prefix)
+  const prefixNum = Number(prefix2);
+  if (`${prefixNum}` !== prefix2)
     return false;
   if (prefixNum < 0 || prefixNum > 128)
     return false;
@@ -21247,9 +21334,9 @@ function isLuhnAlgo(digits) {
   let bit = 1;
   let sum2 = 0;
   while (length2) {
-    const value2 = digits.charCodeAt(--length2) - 48;
+    const value3 = digits.charCodeAt(--length2) - 48;
     bit ^= 1;
-    sum2 += bit ? [0, 2, 4, 6, 8, 1, 3, 5, 7, 9][value2] : value2;
+    sum2 += bit ? [0, 2, 4, 6, 8, 1, 3, 5, 7, 9][value3] : value3;
   }
   return sum2 % 10 === 0;
 }
@@ -21740,11 +21827,11 @@ var $ZodObject = /* @__PURE__ */ $constructor("$ZodObject", (inst, def) => {
   });
   const isObject2 = isObject;
   const catchall = def.catchall;
-  let value2;
+  let value3;
   const memo2 = globalConfig.memoizer;
   memo2?.attach(inst);
   inst._zod.parse = (payload, ctx) => {
-    value2 ?? (value2 = _normalized.value);
+    value3 ?? (value3 = _normalized.value);
     const input2 = payload.value;
     if (!isObject2(input2)) {
       payload.issues.push({
@@ -21757,10 +21844,10 @@ var $ZodObject = /* @__PURE__ */ $constructor("$ZodObject", (inst, def) => {
     }
     payload.value = memo2 ? memo2.alloc(inst, payload, {}, ctx) : {};
     const proms = [];
-    const shape = value2.shape;
+    const shape = value3.shape;
     const abortEarly = ctx?.abortEarly;
     let seen = payload.issues.length;
-    for (const key2 of value2.allKeys) {
+    for (const key2 of value3.allKeys) {
       if (abortEarly && payload.issues.length !== seen) {
         if (aborted(payload, seen))
           break;
@@ -21887,9 +21974,9 @@ var $ZodObjectJIT = /* @__PURE__ */ $constructor("$ZodObjectJIT", (inst, def) =>
   const allowsEval2 = allowsEval;
   const fastEnabled = jit && allowsEval2.value;
   const catchall = def.catchall;
-  let value2;
+  let value3;
   inst._zod.parse = (payload, ctx) => {
-    value2 ?? (value2 = _normalized.value);
+    value3 ?? (value3 = _normalized.value);
     const input2 = payload.value;
     if (!isObject2(input2)) {
       payload.issues.push({
@@ -21906,7 +21993,7 @@ var $ZodObjectJIT = /* @__PURE__ */ $constructor("$ZodObjectJIT", (inst, def) =>
       payload = fastpass(payload, ctx);
       if (!catchall)
         return payload;
-      return handleCatchall([], input2, payload, ctx, value2, inst, ctx?.abortEarly === true);
+      return handleCatchall([], input2, payload, ctx, value3, inst, ctx?.abortEarly === true);
     }
     return superParse(payload, ctx);
   };
@@ -22034,16 +22121,16 @@ var $ZodXor = /* @__PURE__ */ $constructor("$ZodXor", (inst, def) => {
     });
   };
 });
-function getDiscriminatedOption(union2, value2) {
+function getDiscriminatedOption(union2, value3) {
   const internals = union2._zod;
   let map2 = internals.bag.optionsMap;
   if (!map2) {
     map2 = discriminatorMap(internals.def);
     internals.bag.optionsMap = map2;
   }
-  const option = map2.get(value2);
+  const option = map2.get(value3);
   if (option === null)
-    throw new Error(`Ambiguous discriminator value "${String(value2)}"`);
+    throw new Error(`Ambiguous discriminator value "${String(value3)}"`);
   return option;
 }
 function discriminatorMap(def) {
@@ -22052,13 +22139,13 @@ function discriminatorMap(def) {
     const values = option._zod.propValues?.[def.discriminator];
     if (!values || values.size === 0)
       throw new Error(`Invalid discriminated union option at index "${def.options.indexOf(option)}"`);
-    for (const value2 of values) {
-      if (map2.has(value2)) {
-        if (value2 !== void 0)
-          throw new Error(`Duplicate discriminator value "${String(value2)}"`);
-        map2.set(value2, null);
+    for (const value3 of values) {
+      if (map2.has(value3)) {
+        if (value3 !== void 0)
+          throw new Error(`Duplicate discriminator value "${String(value3)}"`);
+        map2.set(value3, null);
       } else {
-        map2.set(value2, option);
+        map2.set(value3, option);
       }
     }
   }
@@ -22108,9 +22195,9 @@ var $ZodDiscriminatedUnion = /* @__PURE__ */ $constructor("$ZodDiscriminatedUnio
       });
       return payload;
     }
-    const value2 = input2?.[def.discriminator];
-    const opt = disc.value.get(value2);
-    if (opt && (value2 !== void 0 || ctx.direction !== "backward")) {
+    const value3 = input2?.[def.discriminator];
+    const opt = disc.value.get(value3);
+    if (opt && (value3 !== void 0 || ctx.direction !== "backward")) {
       return opt._zod.run(payload, ctx);
     }
     if (def.unionFallback || ctx.direction === "backward") {
@@ -22121,7 +22208,7 @@ var $ZodDiscriminatedUnion = /* @__PURE__ */ $constructor("$ZodDiscriminatedUnio
       errors: [],
       note: "No matching discriminator",
       discriminator: def.discriminator,
-      options: Array.from(disc.value.keys()).filter((value3) => disc.value.get(value3) !== null),
+      options: Array.from(disc.value.keys()).filter((value4) => disc.value.get(value4) !== null),
       input: input2,
       path: [def.discriminator],
       inst
@@ -22540,14 +22627,14 @@ var $ZodMap = /* @__PURE__ */ $constructor("$ZodMap", (inst, def) => {
     payload.value = memo2 ? memo2.alloc(inst, payload, /* @__PURE__ */ new Map(), ctx) : /* @__PURE__ */ new Map();
     const abortEarly = ctx?.abortEarly;
     let seen = payload.issues.length;
-    for (const [key2, value2] of input2) {
+    for (const [key2, value3] of input2) {
       if (abortEarly && payload.issues.length !== seen) {
         if (aborted(payload, seen))
           break;
         seen = payload.issues.length;
       }
       const keyResult = def.keyType._zod.run({ value: key2, issues: [] }, ctx);
-      const valueResult = def.valueType._zod.run({ value: value2, issues: [] }, ctx);
+      const valueResult = def.valueType._zod.run({ value: value3, issues: [] }, ctx);
       if (keyResult instanceof Promise || valueResult instanceof Promise) {
         proms.push(Promise.all([keyResult, valueResult]).then(([keyResult2, valueResult2]) => {
           handleMapResult(keyResult2, valueResult2, payload, key2, input2, inst, ctx);
@@ -22960,23 +23047,23 @@ function handleCodecAResult(result, def, ctx) {
   if (direction === "forward") {
     const transformed = def.transform(result.value, result);
     if (transformed instanceof Promise) {
-      return transformed.then((value2) => handleCodecTxResult(result, value2, def.out, ctx));
+      return transformed.then((value3) => handleCodecTxResult(result, value3, def.out, ctx));
     }
     return handleCodecTxResult(result, transformed, def.out, ctx);
   } else {
     const transformed = def.reverseTransform(result.value, result);
     if (transformed instanceof Promise) {
-      return transformed.then((value2) => handleCodecTxResult(result, value2, def.in, ctx));
+      return transformed.then((value3) => handleCodecTxResult(result, value3, def.in, ctx));
     }
     return handleCodecTxResult(result, transformed, def.in, ctx);
   }
 }
-function handleCodecTxResult(left, value2, nextSchema, ctx) {
+function handleCodecTxResult(left, value3, nextSchema, ctx) {
   if (left.issues.length) {
     left.aborted = true;
     return left;
   }
-  return nextSchema._zod.run({ value: value2, issues: left.issues }, ctx);
+  return nextSchema._zod.run({ value: value3, issues: left.issues }, ctx);
 }
 var $ZodPreprocess = /* @__PURE__ */ $constructor("$ZodPreprocess", (inst, def) => {
   $ZodPipe.init(inst, def);
@@ -23233,8 +23320,8 @@ var $ZodCyclicError = class extends Error {
 };
 var STATE = "~memo";
 var NO_ISSUES = [];
-function isRef(value2) {
-  return value2 !== null && typeof value2 === "object";
+function isRef(value3) {
+  return value3 !== null && typeof value3 === "object";
 }
 function cloneIssues(issues) {
   return issues.map((iss) => iss.path ? { ...iss, path: iss.path.slice() } : { ...iss });
@@ -23243,7 +23330,7 @@ var recursive = /* @__PURE__ */ new WeakMap();
 var NONE = 0;
 var ASSUMED = 1;
 var PROVEN = 2;
-function isRecursive(inst, stack, resolve6) {
+function isRecursive(inst, stack, resolve8) {
   const cached2 = recursive.get(inst);
   if (cached2 !== void 0)
     return cached2 ? PROVEN : NONE;
@@ -23253,7 +23340,7 @@ function isRecursive(inst, stack, resolve6) {
   let result = NONE;
   const check2 = (child2) => {
     if (result !== PROVEN && child2?._zod) {
-      const answer = isRecursive(child2, stack, resolve6);
+      const answer = isRecursive(child2, stack, resolve8);
       if (answer > result)
         result = answer;
     }
@@ -23264,7 +23351,7 @@ function isRecursive(inst, stack, resolve6) {
       const desc = Object.getOwnPropertyDescriptor(sh, key2);
       if (spread && !desc.enumerable)
         continue;
-      const child2 = desc.get ? ASSUMED : desc.value?._zod ? isRecursive(desc.value, stack, resolve6) : NONE;
+      const child2 = desc.get ? ASSUMED : desc.value?._zod ? isRecursive(desc.value, stack, resolve8) : NONE;
       if (child2 > answer)
         answer = child2;
     }
@@ -23328,7 +23415,7 @@ function isRecursive(inst, stack, resolve6) {
       break;
     // `$ZodLazy` caches its inner on the def, so a resolved edge is followed exactly
     case "lazy": {
-      const inner = def._cachedInner ?? (resolve6 ? inst._zod.innerType : void 0);
+      const inner = def._cachedInner ?? (resolve8 ? inst._zod.innerType : void 0);
       merge2(inner ? isRecursive(inner, stack, false) : ASSUMED);
       break;
     }
@@ -23361,13 +23448,13 @@ function isRecursive(inst, stack, resolve6) {
         const desc = Object.getOwnPropertyDescriptor(def, key2);
         if (!desc || desc.get)
           continue;
-        const value2 = desc.value;
-        if (!value2 || typeof value2 !== "object")
+        const value3 = desc.value;
+        if (!value3 || typeof value3 !== "object")
           continue;
-        if (value2._zod)
-          check2(value2);
-        else if (Array.isArray(value2))
-          for (const el of value2)
+        if (value3._zod)
+          check2(value3);
+        else if (Array.isArray(value3))
+          for (const el of value3)
             check2(el);
       }
     }
@@ -23496,9 +23583,9 @@ var memo = {
 function memoizer() {
   return memo;
 }
-function isBackEdge(ctx, value2) {
+function isBackEdge(ctx, value3) {
   const backEdges = ctx[STATE]?.backEdges;
-  return backEdges !== void 0 && isRef(value2) && backEdges.has(value2);
+  return backEdges !== void 0 && isRef(value3) && backEdges.has(value3);
 }
 
 // node_modules/zod/v4/locales/index.js
@@ -31147,9 +31234,9 @@ function compile(schema, options) {
     const clone2 = withParser(schema, parser);
     clone2._zod.bag.validator = compileValidator(schema, parser);
     return clone2;
-  } catch (err) {
+  } catch (err2) {
     if (options?.strict)
-      throw err;
+      throw err2;
     return schema;
   }
 }
@@ -31239,8 +31326,8 @@ ${code2}
   try {
     const factory = new F(...constantNames, factoryCode);
     fn = factory(...constantValues);
-  } catch (err) {
-    throw new ZodCompileUnsupportedError(`this schema (generated code failed to evaluate: ${err.message})`);
+  } catch (err2) {
+    throw new ZodCompileUnsupportedError(`this schema (generated code failed to evaluate: ${err2.message})`);
   }
   if (options?.debug) {
     fn.code = fullCode;
@@ -31248,13 +31335,13 @@ ${code2}
   fn.definite = ctx.definite;
   return fn;
 }
-function addConstant(ctx, value2) {
+function addConstant(ctx, value3) {
   for (const [name2, v] of ctx.constants) {
-    if (v === value2)
+    if (v === value3)
       return name2;
   }
   const name = `c${ctx.constantCounter++}`;
-  ctx.constants.set(name, value2);
+  ctx.constants.set(name, value3);
   return name;
 }
 function addUserConstant(ctx, fn) {
@@ -31264,8 +31351,8 @@ function addUserConstant(ctx, fn) {
 function newVar(ctx) {
   return `v${ctx.varCounter++}`;
 }
-function runtimeRun(schema, value2) {
-  const result = schema._zod.run({ value: value2, issues: [] }, {});
+function runtimeRun(schema, value3) {
+  const result = schema._zod.run({ value: value3, issues: [] }, {});
   if (result && typeof result.then === "function")
     return INVALID;
   const r = result;
@@ -31278,9 +31365,9 @@ function compileChild(doc, ctx, schema, accessor, needsValue = true) {
   const varCounter = ctx.varCounter;
   try {
     return generateCheck(doc, ctx, schema, accessor, needsValue);
-  } catch (err) {
-    if (!(err instanceof ZodCompileUnsupportedError) || !err.islandable)
-      throw err;
+  } catch (err2) {
+    if (!(err2 instanceof ZodCompileUnsupportedError) || !err2.islandable)
+      throw err2;
     doc.content.length = contentLen;
     if (ctx.constants.size > constantCount) {
       const trailing = Array.from(ctx.constants.keys()).slice(constantCount);
@@ -31397,27 +31484,27 @@ function codePointLengthVar(doc, ctx, accessor, inDoubt) {
   doc.write(`const ${v} = typeof ${accessor} === "string" && ${inDoubt} ? ${cpLen}(${accessor}) : ${accessor}.length;`);
   return v;
 }
-function numericOperand(value2, label2) {
-  if (typeof value2 !== "number" || !Number.isFinite(value2)) {
-    throw new ZodCompileUnsupportedError(`${label2} bound of type ${typeof value2}`);
+function numericOperand(value3, label2) {
+  if (typeof value3 !== "number" || !Number.isFinite(value3)) {
+    throw new ZodCompileUnsupportedError(`${label2} bound of type ${typeof value3}`);
   }
-  return `${value2}`;
+  return `${value3}`;
 }
-function comparisonOperand(ctx, value2) {
-  if (typeof value2 === "bigint")
-    return `${value2}n`;
-  if (typeof value2 === "number") {
-    if (Number.isNaN(value2))
+function comparisonOperand(ctx, value3) {
+  if (typeof value3 === "bigint")
+    return `${value3}n`;
+  if (typeof value3 === "number") {
+    if (Number.isNaN(value3))
       throw new ZodCompileUnsupportedError("comparison check with NaN bound");
-    return `${value2}`;
+    return `${value3}`;
   }
-  if (value2 instanceof Date) {
-    if (Number.isNaN(value2.getTime())) {
+  if (value3 instanceof Date) {
+    if (Number.isNaN(value3.getTime())) {
       throw new ZodCompileUnsupportedError("comparison check with Invalid Date bound");
     }
-    return addConstant(ctx, value2);
+    return addConstant(ctx, value3);
   }
-  throw new ZodCompileUnsupportedError(`comparison check bound of type ${typeof value2}`);
+  throw new ZodCompileUnsupportedError(`comparison check bound of type ${typeof value3}`);
 }
 function generateGreaterThanCheck(doc, ctx, def, accessor) {
   const op = def.inclusive ? "<" : "<=";
@@ -31538,8 +31625,8 @@ function generateCustomRefineCheck(doc, ctx, check2, accessor) {
       throw new ZodCompileAsyncError("z.compile: async .superRefine() / check functions are not supported");
     }
     const checkFn = check2._zod.check;
-    const helperFn = (value2) => {
-      const fakePayload = { value: value2, issues: [], addIssue: pushIssue };
+    const helperFn = (value3) => {
+      const fakePayload = { value: value3, issues: [], addIssue: pushIssue };
       const result = checkFn(fakePayload);
       if (result instanceof Promise)
         throwAsync();
@@ -31669,8 +31756,8 @@ function generateStringFormatCheck(doc, ctx, def, accessor, needsValue = true) {
       doc.write(`if (!${accessor}.includes(${esc(def.includes)})) return INVALID;`);
       break;
     case "starts_with": {
-      const prefix = def.prefix;
-      doc.write(`if (${accessor}.slice(0, ${prefix.length}) !== ${esc(prefix)}) return INVALID;`);
+      const prefix2 = def.prefix;
+      doc.write(`if (${accessor}.slice(0, ${prefix2.length}) !== ${esc(prefix2)}) return INVALID;`);
       break;
     }
     case "ends_with": {
@@ -32190,24 +32277,24 @@ function generateLiteralCheck(doc, ctx, schema, accessor) {
     doc.write(`if (!${literalSet}.has(${accessor})) return INVALID;`);
     return accessor;
   }
-  const value2 = values[0];
-  if (typeof value2 === "number" && Number.isNaN(value2)) {
+  const value3 = values[0];
+  if (typeof value3 === "number" && Number.isNaN(value3)) {
     const literalSet = addConstant(ctx, new Set(values));
     doc.write(`if (!${literalSet}.has(${accessor})) return INVALID;`);
     return accessor;
   }
-  if (typeof value2 === "string") {
-    doc.write(`if (${accessor} !== ${esc(value2)}) return INVALID;`);
-  } else if (typeof value2 === "number" || typeof value2 === "boolean") {
-    doc.write(`if (${accessor} !== ${value2}) return INVALID;`);
-  } else if (value2 === null) {
+  if (typeof value3 === "string") {
+    doc.write(`if (${accessor} !== ${esc(value3)}) return INVALID;`);
+  } else if (typeof value3 === "number" || typeof value3 === "boolean") {
+    doc.write(`if (${accessor} !== ${value3}) return INVALID;`);
+  } else if (value3 === null) {
     doc.write(`if (${accessor} !== null) return INVALID;`);
-  } else if (value2 === void 0) {
+  } else if (value3 === void 0) {
     doc.write(`if (${accessor} !== undefined) return INVALID;`);
-  } else if (typeof value2 === "bigint") {
-    doc.write(`if (${accessor} !== ${value2}n) return INVALID;`);
+  } else if (typeof value3 === "bigint") {
+    doc.write(`if (${accessor} !== ${value3}n) return INVALID;`);
   } else {
-    throw new ZodCompileUnsupportedError(`literal type ${typeof value2}`);
+    throw new ZodCompileUnsupportedError(`literal type ${typeof value3}`);
   }
   return accessor;
 }
@@ -32407,15 +32494,15 @@ function generateDiscriminatedUnionCheck(doc, ctx, def, accessor) {
     if (!values || values.size === 0) {
       throw new ZodCompileUnsupportedError("discriminated union option without static discriminator values");
     }
-    for (const value2 of values) {
-      if (claimed.has(value2)) {
-        throw new ZodCompileUnsupportedError(`duplicate discriminator value ${String(value2)}`);
+    for (const value3 of values) {
+      if (claimed.has(value3)) {
+        throw new ZodCompileUnsupportedError(`duplicate discriminator value ${String(value3)}`);
       }
-      claimed.add(value2);
+      claimed.add(value3);
     }
-    const conditions = Array.from(values, (value2) => literalEquality(ctx, discVar, value2));
-    const prefix = firstBranch ? "if" : "else if";
-    doc.write(`${prefix} (${conditions.join(" || ")}) {`);
+    const conditions = Array.from(values, (value3) => literalEquality(ctx, discVar, value3));
+    const prefix2 = firstBranch ? "if" : "else if";
+    doc.write(`${prefix2} (${conditions.join(" || ")}) {`);
     doc.indented((d) => {
       const branchOutput = generateCheck(d, ctx, option, accessor);
       d.write(`${outputVar} = ${branchOutput};`);
@@ -32426,27 +32513,27 @@ function generateDiscriminatedUnionCheck(doc, ctx, def, accessor) {
   doc.write(`else { return INVALID; }`);
   return outputVar;
 }
-function literalEquality(ctx, accessor, value2) {
-  if (typeof value2 === "string")
-    return `${accessor} === ${esc(value2)}`;
-  if (typeof value2 === "number") {
-    if (Number.isNaN(value2))
+function literalEquality(ctx, accessor, value3) {
+  if (typeof value3 === "string")
+    return `${accessor} === ${esc(value3)}`;
+  if (typeof value3 === "number") {
+    if (Number.isNaN(value3))
       return `Number.isNaN(${accessor})`;
-    return `${accessor} === ${value2}`;
+    return `${accessor} === ${value3}`;
   }
-  if (typeof value2 === "boolean")
-    return `${accessor} === ${value2}`;
-  if (value2 === null)
+  if (typeof value3 === "boolean")
+    return `${accessor} === ${value3}`;
+  if (value3 === null)
     return `${accessor} === null`;
-  if (value2 === void 0)
+  if (value3 === void 0)
     return `${accessor} === undefined`;
-  if (typeof value2 === "bigint")
-    return `${accessor} === ${value2}n`;
-  if (typeof value2 === "symbol") {
-    const symbolConst = addConstant(ctx, value2);
+  if (typeof value3 === "bigint")
+    return `${accessor} === ${value3}n`;
+  if (typeof value3 === "symbol") {
+    const symbolConst = addConstant(ctx, value3);
     return `${accessor} === ${symbolConst}`;
   }
-  throw new ZodCompileUnsupportedError(`literal discriminator value ${String(value2)}`);
+  throw new ZodCompileUnsupportedError(`literal discriminator value ${String(value3)}`);
 }
 function generateIntersectionCheck(doc, ctx, schema, accessor) {
   const def = schema._zod.def;
@@ -32637,9 +32724,9 @@ function generatePipeCheck(doc, ctx, schema, accessor) {
       throw new ZodCompileAsyncError("z.compile: async transforms in pipes are not supported");
     }
     const transformFn = def.transform;
-    const helperFn = (value2) => {
-      const fakePayload = { value: value2, issues: [], addIssue: pushIssue };
-      const result = transformFn(value2, fakePayload);
+    const helperFn = (value3) => {
+      const fakePayload = { value: value3, issues: [], addIssue: pushIssue };
+      const result = transformFn(value3, fakePayload);
       if (result instanceof Promise)
         return INVALID;
       return fakePayload.issues.length === 0 ? result : INVALID;
@@ -32673,8 +32760,8 @@ function generateCustomCheck(doc, ctx, schema, accessor) {
   }
   return accessor;
 }
-function runtimeCatch(innerSchema, catchValue, value2) {
-  const result = innerSchema._zod.run({ value: value2, issues: [] }, {});
+function runtimeCatch(innerSchema, catchValue, value3) {
+  const result = innerSchema._zod.run({ value: value3, issues: [] }, {});
   if (result && typeof result.then === "function")
     return INVALID;
   const r = result;
@@ -32712,9 +32799,9 @@ function generateTransformCheck(doc, ctx, schema, accessor) {
       throw new ZodCompileAsyncError("z.compile: async transforms are not supported");
     }
     const transformFn = def.transform;
-    const helperFn = (value2) => {
-      const fakePayload = { value: value2, issues: [], addIssue: pushIssue };
-      const result = transformFn(value2, fakePayload);
+    const helperFn = (value3) => {
+      const fakePayload = { value: value3, issues: [], addIssue: pushIssue };
+      const result = transformFn(value3, fakePayload);
       if (result instanceof Promise)
         return INVALID;
       return fakePayload.issues.length === 0 ? result : INVALID;
@@ -33220,38 +33307,38 @@ function _nan(Class2, params) {
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _lt(value2, params) {
+function _lt(value3, params) {
   return new $ZodCheckLessThan({
     check: "less_than",
     ...normalizeParams(params),
-    value: value2,
+    value: value3,
     inclusive: false
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _lte(value2, params) {
+function _lte(value3, params) {
   return new $ZodCheckLessThan({
     check: "less_than",
     ...normalizeParams(params),
-    value: value2,
+    value: value3,
     inclusive: true
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _gt(value2, params) {
+function _gt(value3, params) {
   return new $ZodCheckGreaterThan({
     check: "greater_than",
     ...normalizeParams(params),
-    value: value2,
+    value: value3,
     inclusive: false
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _gte(value2, params) {
+function _gte(value3, params) {
   return new $ZodCheckGreaterThan({
     check: "greater_than",
     ...normalizeParams(params),
-    value: value2,
+    value: value3,
     inclusive: true
   });
 }
@@ -33272,11 +33359,11 @@ function _nonnegative(params) {
   return /* @__PURE__ */ _gte(0, params);
 }
 // @__NO_SIDE_EFFECTS__
-function _multipleOf(value2, params) {
+function _multipleOf(value3, params) {
   return new $ZodCheckMultipleOf({
     check: "multiple_of",
     ...normalizeParams(params),
-    value: value2
+    value: value3
   });
 }
 // @__NO_SIDE_EFFECTS__
@@ -33363,12 +33450,12 @@ function _includes(includes, params) {
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _startsWith(prefix, params) {
+function _startsWith(prefix2, params) {
   return new $ZodCheckStartsWith({
     check: "string_format",
     format: "starts_with",
     ...normalizeParams(params),
-    prefix
+    prefix: prefix2
   });
 }
 // @__NO_SIDE_EFFECTS__
@@ -33532,10 +33619,10 @@ function _nativeEnum(Class2, entries, params) {
   });
 }
 // @__NO_SIDE_EFFECTS__
-function _literal(Class2, value2, params) {
+function _literal(Class2, value3, params) {
   return new Class2({
     type: "literal",
-    values: Array.isArray(value2) ? value2 : [value2],
+    values: Array.isArray(value3) ? value3 : [value3],
     ...normalizeParams(params)
   });
 }
@@ -34318,22 +34405,22 @@ var createStandardJSONSchemaMethod = (schema, io, processors = {}) => (params) =
 };
 
 // node_modules/zod/v4/core/json-schema-processors.js
-var narrowMin = (agg, key2, value2) => {
-  if (agg[key2] === void 0 || value2 > agg[key2])
-    agg[key2] = value2;
+var narrowMin = (agg, key2, value3) => {
+  if (agg[key2] === void 0 || value3 > agg[key2])
+    agg[key2] = value3;
 };
-var narrowMax = (agg, key2, value2) => {
-  if (agg[key2] === void 0 || value2 < agg[key2])
-    agg[key2] = value2;
+var narrowMax = (agg, key2, value3) => {
+  if (agg[key2] === void 0 || value3 < agg[key2])
+    agg[key2] = value3;
 };
-var narrowBoth = (agg, value2) => {
-  narrowMin(agg, "minimum", value2);
-  narrowMax(agg, "maximum", value2);
+var narrowBoth = (agg, value3) => {
+  narrowMin(agg, "minimum", value3);
+  narrowMax(agg, "maximum", value3);
 };
-var addDivisor = (agg, value2) => {
+var addDivisor = (agg, value3) => {
   agg.multipleOf ?? (agg.multipleOf = []);
-  if (!agg.multipleOf.includes(value2))
-    agg.multipleOf.push(value2);
+  if (!agg.multipleOf.includes(value3))
+    agg.multipleOf.push(value3);
 };
 var addPattern = (agg, pattern) => {
   agg.patterns ?? (agg.patterns = /* @__PURE__ */ new Set());
@@ -34909,9 +34996,9 @@ var nonoptionalProcessor = (schema, ctx, _json, params) => {
   seen.ref = def.innerType;
 };
 var UNREPRESENTABLE_DEFAULT = /* @__PURE__ */ Symbol();
-function serializeDefaultValue(value2, schema, ctx, json2, params) {
+function serializeDefaultValue(value3, schema, ctx, json2, params) {
   let unrepresentable = false;
-  const serialized = JSON.stringify(value2, (_, val) => {
+  const serialized = JSON.stringify(value3, (_, val) => {
     if (typeof val !== "bigint")
       return val;
     unrepresentable = true;
@@ -34927,9 +35014,9 @@ var defaultProcessor = (schema, ctx, json2, params) => {
   processSchema(def.innerType, ctx, params);
   const seen = ctx.seen.get(schema);
   seen.ref = def.innerType;
-  const value2 = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
-  if (value2 !== UNREPRESENTABLE_DEFAULT)
-    json2.default = value2;
+  const value3 = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
+  if (value3 !== UNREPRESENTABLE_DEFAULT)
+    json2.default = value3;
 };
 var prefaultProcessor = (schema, ctx, json2, params) => {
   const def = schema._zod.def;
@@ -34938,9 +35025,9 @@ var prefaultProcessor = (schema, ctx, json2, params) => {
   seen.ref = def.innerType;
   if (ctx.io !== "input")
     return;
-  const value2 = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
-  if (value2 !== UNREPRESENTABLE_DEFAULT)
-    json2._prefault = value2;
+  const value3 = serializeDefaultValue(def.defaultValue, schema, ctx, json2, params);
+  if (value3 !== UNREPRESENTABLE_DEFAULT)
+    json2._prefault = value3;
 };
 var catchProcessor = (schema, ctx, json2, params) => {
   const def = schema._zod.def;
@@ -35092,8 +35179,8 @@ var JSONSchemaGenerator = class {
   get counter() {
     return this.ctx.counter;
   }
-  set counter(value2) {
-    this.ctx.counter = value2;
+  set counter(value3) {
+    this.ctx.counter = value3;
   }
   /** @deprecated Access via ctx instead */
   get seen() {
@@ -35369,12 +35456,12 @@ function _lazyMethod(proto, key2, make) {
     configurable: true,
     enumerable: false,
     get() {
-      const value2 = make(this);
-      Object.defineProperty(this, key2, { value: value2, configurable: true, writable: true });
-      return value2;
+      const value3 = make(this);
+      Object.defineProperty(this, key2, { value: value3, configurable: true, writable: true });
+      return value3;
     },
-    set(value2) {
-      Object.defineProperty(this, key2, { value: value2, configurable: true, writable: true });
+    set(value3) {
+      Object.defineProperty(this, key2, { value: value3, configurable: true, writable: true });
     }
   });
 }
@@ -35542,8 +35629,8 @@ var ZodType = /* @__PURE__ */ $constructor("ZodType", (inst, def) => {
       }
     });
   },
-  set "~standard"(value2) {
-    util_exports.own(this, "~standard", value2);
+  set "~standard"(value3) {
+    util_exports.own(this, "~standard", value3);
   },
   parse: function _parse2(data, params) {
     return parse2(this, data, params, { callee: _parse2 });
@@ -35561,8 +35648,8 @@ var ZodType = /* @__PURE__ */ $constructor("ZodType", (inst, def) => {
   get spa() {
     return this?.safeParseAsync;
   },
-  set spa(value2) {
-    util_exports.own(this, "spa", value2);
+  set spa(value3) {
+    util_exports.own(this, "spa", value3);
   },
   validate(data, params) {
     return validate(this, data, params);
@@ -35988,23 +36075,23 @@ var ZodNumber = /* @__PURE__ */ $constructor(
     },
     format: (inst) => aggregateChecks(inst).format ?? null
   }, {
-    gt(value2, params) {
-      return this.check(_gt(value2, params));
+    gt(value3, params) {
+      return this.check(_gt(value3, params));
     },
-    gte(value2, params) {
-      return this.check(_gte(value2, params));
+    gte(value3, params) {
+      return this.check(_gte(value3, params));
     },
-    min(value2, params) {
-      return this.check(_gte(value2, params));
+    min(value3, params) {
+      return this.check(_gte(value3, params));
     },
-    lt(value2, params) {
-      return this.check(_lt(value2, params));
+    lt(value3, params) {
+      return this.check(_lt(value3, params));
     },
-    lte(value2, params) {
-      return this.check(_lte(value2, params));
+    lte(value3, params) {
+      return this.check(_lte(value3, params));
     },
-    max(value2, params) {
-      return this.check(_lte(value2, params));
+    max(value3, params) {
+      return this.check(_lte(value3, params));
     },
     int(params) {
       return this.check(int(params));
@@ -36024,11 +36111,11 @@ var ZodNumber = /* @__PURE__ */ $constructor(
     nonpositive(params) {
       return this.check(_lte(0, params));
     },
-    multipleOf(value2, params) {
-      return this.check(_multipleOf(value2, params));
+    multipleOf(value3, params) {
+      return this.check(_multipleOf(value3, params));
     },
-    step(value2, params) {
-      return this.check(_multipleOf(value2, params));
+    step(value3, params) {
+      return this.check(_multipleOf(value3, params));
     },
     finite() {
       return this;
@@ -36077,23 +36164,23 @@ var ZodBigInt = /* @__PURE__ */ $constructor(
     maxValue: (inst) => aggregateChecks(inst).maximum ?? null,
     format: (inst) => aggregateChecks(inst).format ?? null
   }, {
-    gte(value2, params) {
-      return this.check(_gte(value2, params));
+    gte(value3, params) {
+      return this.check(_gte(value3, params));
     },
-    min(value2, params) {
-      return this.check(_gte(value2, params));
+    min(value3, params) {
+      return this.check(_gte(value3, params));
     },
-    gt(value2, params) {
-      return this.check(_gt(value2, params));
+    gt(value3, params) {
+      return this.check(_gt(value3, params));
     },
-    lt(value2, params) {
-      return this.check(_lt(value2, params));
+    lt(value3, params) {
+      return this.check(_lt(value3, params));
     },
-    lte(value2, params) {
-      return this.check(_lte(value2, params));
+    lte(value3, params) {
+      return this.check(_lte(value3, params));
     },
-    max(value2, params) {
-      return this.check(_lte(value2, params));
+    max(value3, params) {
+      return this.check(_lte(value3, params));
     },
     positive(params) {
       return this.check(_gt(BigInt(0), params));
@@ -36107,8 +36194,8 @@ var ZodBigInt = /* @__PURE__ */ $constructor(
     nonnegative(params) {
       return this.check(_gte(BigInt(0), params));
     },
-    multipleOf(value2, params) {
-      return this.check(_multipleOf(value2, params));
+    multipleOf(value3, params) {
+      return this.check(_multipleOf(value3, params));
     }
   })
 );
@@ -36187,8 +36274,8 @@ var ZodDate = /* @__PURE__ */ $constructor(
     $ZodDate.init(inst, def);
     ZodType.init(inst, def);
     inst._zod.processJSONSchema = (ctx, json2, params) => dateProcessor(inst, ctx, json2, params);
-    inst.min = (value2, params) => inst.check(_gte(value2, params));
-    inst.max = (value2, params) => inst.check(_lte(value2, params));
+    inst.min = (value3, params) => inst.check(_gte(value3, params));
+    inst.max = (value3, params) => inst.check(_lte(value3, params));
   },
   /* @__PURE__ */ util_exports.derived({
     minDate: (inst) => {
@@ -36480,11 +36567,11 @@ var ZodEnum = /* @__PURE__ */ $constructor("ZodEnum", (inst, def) => {
   const keys = new Set(Object.keys(def.entries));
   inst.extract = (values, params) => {
     const newEntries = {};
-    for (const value2 of values) {
-      if (keys.has(value2)) {
-        newEntries[value2] = def.entries[value2];
+    for (const value3 of values) {
+      if (keys.has(value3)) {
+        newEntries[value3] = def.entries[value3];
       } else
-        throw new Error(`Key ${value2} not found in enum`);
+        throw new Error(`Key ${value3} not found in enum`);
     }
     return new ZodEnum({
       ...def,
@@ -36495,11 +36582,11 @@ var ZodEnum = /* @__PURE__ */ $constructor("ZodEnum", (inst, def) => {
   };
   inst.exclude = (values, params) => {
     const newEntries = { ...def.entries };
-    for (const value2 of values) {
-      if (keys.has(value2)) {
-        delete newEntries[value2];
+    for (const value3 of values) {
+      if (keys.has(value3)) {
+        delete newEntries[value3];
       } else
-        throw new Error(`Key ${value2} not found in enum`);
+        throw new Error(`Key ${value3} not found in enum`);
     }
     return new ZodEnum({
       ...def,
@@ -36538,10 +36625,10 @@ var ZodLiteral = /* @__PURE__ */ $constructor("ZodLiteral", (inst, def) => {
     }
   });
 });
-function literal(value2, params) {
+function literal(value3, params) {
   return new ZodLiteral({
     type: "literal",
-    values: Array.isArray(value2) ? value2 : [value2],
+    values: Array.isArray(value3) ? value3 : [value3],
     ...util_exports.normalizeParams(params)
   });
 }
@@ -37053,11 +37140,11 @@ function resolveRef(ref, ctx) {
   throw new Error(`Reference not found: ${ref}`);
 }
 function checkObjectGuards(objectSchema, guards) {
-  const guard = z2.transform((value2) => value2).check((payload) => {
-    const value2 = payload.value;
-    if (typeof value2 !== "object" || value2 === null || Array.isArray(value2))
+  const guard = z2.transform((value3) => value3).check((payload) => {
+    const value3 = payload.value;
+    if (typeof value3 !== "object" || value3 === null || Array.isArray(value3))
       return;
-    const keys = Object.getOwnPropertyNames(value2);
+    const keys = Object.getOwnPropertyNames(value3);
     if (guards.minProperties !== void 0 && keys.length < guards.minProperties) {
       payload.issues.push({
         origin: "object",
@@ -37065,7 +37152,7 @@ function checkObjectGuards(objectSchema, guards) {
         minimum: guards.minProperties,
         inclusive: true,
         message: `Too small: expected object to have >=${guards.minProperties} properties`,
-        input: value2,
+        input: value3,
         inst: objectSchema,
         continue: true
       });
@@ -37077,7 +37164,7 @@ function checkObjectGuards(objectSchema, guards) {
         maximum: guards.maxProperties,
         inclusive: true,
         message: `Too big: expected object to have <=${guards.maxProperties} properties`,
-        input: value2,
+        input: value3,
         inst: objectSchema,
         continue: true
       });
@@ -37100,23 +37187,23 @@ function checkObjectGuards(objectSchema, guards) {
   });
   return guard.pipe(objectSchema);
 }
-function canonicalKey(value2, seen) {
-  if (value2 === null)
+function canonicalKey(value3, seen) {
+  if (value3 === null)
     return "z";
-  const type = typeof value2;
+  const type = typeof value3;
   if (type !== "object") {
-    if (type === "number" && Number.isNaN(value2))
+    if (type === "number" && Number.isNaN(value3))
       return null;
-    const raw = String(value2);
+    const raw = String(value3);
     return `${type[0]}${raw.length}:${raw}`;
   }
-  if (seen.has(value2))
+  if (seen.has(value3))
     return null;
-  seen.add(value2);
+  seen.add(value3);
   try {
-    if (Array.isArray(value2)) {
+    if (Array.isArray(value3)) {
       const parts2 = [];
-      for (const item of value2) {
+      for (const item of value3) {
         const key2 = canonicalKey(item, seen);
         if (key2 === null)
           return null;
@@ -37124,17 +37211,17 @@ function canonicalKey(value2, seen) {
       }
       return `a${parts2.length}:[${parts2.join(",")}]`;
     }
-    const keys = Object.keys(value2).sort();
+    const keys = Object.keys(value3).sort();
     const parts = [];
     for (const k of keys) {
-      const key2 = canonicalKey(value2[k], seen);
+      const key2 = canonicalKey(value3[k], seen);
       if (key2 === null)
         return null;
       parts.push(`${k.length}:${k}=${key2}`);
     }
     return `o${parts.length}:{${parts.join(",")}}`;
   } finally {
-    seen.delete(value2);
+    seen.delete(value3);
   }
 }
 var SCHEMA_KEYWORDS = /* @__PURE__ */ new Set([
@@ -37163,14 +37250,14 @@ var SCHEMA_MAP_KEYWORDS = /* @__PURE__ */ new Set([
   "$defs",
   "definitions"
 ]);
-function containsRef(value2) {
-  if (typeof value2 !== "object" || value2 === null)
+function containsRef(value3) {
+  if (typeof value3 !== "object" || value3 === null)
     return false;
-  if (Array.isArray(value2))
-    return value2.some(containsRef);
-  if (typeof value2.$ref === "string")
+  if (Array.isArray(value3))
+    return value3.some(containsRef);
+  if (typeof value3.$ref === "string")
     return true;
-  return Object.entries(value2).some(([key2, sub]) => {
+  return Object.entries(value3).some(([key2, sub]) => {
     if (SCHEMA_KEYWORDS.has(key2))
       return containsRef(sub);
     if (!SCHEMA_MAP_KEYWORDS.has(key2) || typeof sub !== "object" || sub === null)
@@ -37182,7 +37269,7 @@ function plural(n) {
   return n === 1 ? "element" : "elements";
 }
 function checkArrayGuards(arraySchema, guards) {
-  const guard = z2.transform((value2) => value2).check((payload) => {
+  const guard = z2.transform((value3) => value3).check((payload) => {
     const items = payload.value;
     if (!Array.isArray(items))
       return;
@@ -37907,12 +37994,12 @@ var reportLimits = {
 };
 var text = external_exports.string().max(reportLimits.maxTextLength);
 var finite = external_exports.number();
-var undefinedNumber = external_exports.number().nullable().transform((value2) => value2 ?? NaN).meta({ description: "null when the statistic is undefined; read as NaN" });
+var undefinedNumber = external_exports.number().nullable().transform((value3) => value3 ?? NaN).meta({ description: "null when the statistic is undefined; read as NaN" });
 var count = external_exports.int().min(0);
 var uint322 = external_exports.int().min(0).max(4294967295);
 var list = (item) => external_exports.array(item).max(reportLimits.maxItems);
 var recordKey = external_exports.string().max(reportLimits.maxKeyLength).meta({ not: { const: "__proto__" } });
-var record2 = (value2) => external_exports.record(recordKey, value2).refine((entries) => Object.keys(entries).length <= reportLimits.maxKeys, {
+var record2 = (value3) => external_exports.record(recordKey, value3).refine((entries) => Object.keys(entries).length <= reportLimits.maxKeys, {
   message: `at most ${reportLimits.maxKeys} keys are allowed`
 }).meta({ maxProperties: reportLimits.maxKeys });
 var evidenceSchema = record2(external_exports.union([finite, text, external_exports.boolean(), external_exports.null()])).meta({ id: "Evidence" });
@@ -37929,7 +38016,15 @@ var findingSchema = external_exports.strictObject({
     "unused-feature",
     "policy-changed",
     "noise-model",
-    "run-error"
+    "run-error",
+    "sensitivity-shift",
+    "sensitivity-unlabeled",
+    "gain-noise",
+    "slice-score",
+    "slice-dominance",
+    "slice-top-features",
+    "slice-too-small",
+    "group-carried"
   ]),
   severity: external_exports.enum(["block", "warn", "info"]),
   feature: text.optional(),
@@ -37993,6 +38088,46 @@ var rankAgreementSchema = external_exports.strictObject({
   rankBiasedOverlapThreshold: undefinedNumber,
   featuresCompared: count
 }).meta({ id: "RankAgreement" });
+var sensitivityValueSchema = external_exports.strictObject({
+  mean: finite,
+  refitSd: undefinedNumber,
+  flipShare: finite.nullable(),
+  perRefit: list(finite)
+}).meta({ id: "SensitivityValue" });
+var sensitivitySideSchema = external_exports.strictObject({ holdout: sensitivityValueSchema, unlabeled: sensitivityValueSchema.optional() });
+var sensitivityReportSchema = external_exports.strictObject({
+  threshold: finite.nullable(),
+  unlabeledRows: external_exports.strictObject({ base: count, head: count }),
+  features: list(
+    external_exports.strictObject({
+      name: text,
+      isGroup: external_exports.boolean(),
+      base: sensitivitySideSchema.optional(),
+      head: sensitivitySideSchema.optional(),
+      change: external_exports.strictObject({ pValue: undefinedNumber, adjustedPValue: undefinedNumber, isSignificant: external_exports.boolean() }).optional()
+    })
+  )
+}).meta({ id: "SensitivityReport" });
+var gainValueSchema = external_exports.strictObject({ gain: finite, splits: finite, share: undefinedNumber, rank: external_exports.int().min(1) });
+var gainReportSchema = external_exports.strictObject({
+  caution: text,
+  features: list(external_exports.strictObject({ name: text, base: gainValueSchema.optional(), head: gainValueSchema.optional() }))
+}).meta({ id: "GainReport" });
+var sliceSideSchema = external_exports.strictObject({
+  rows: count,
+  scores: list(undefinedNumber),
+  scoreMean: undefinedNumber,
+  top: list(external_exports.strictObject({ name: text, mean: finite, share: undefinedNumber, isAboveFloor: external_exports.boolean() }))
+});
+var sliceRowSchema = external_exports.strictObject({
+  name: text,
+  definition: text,
+  status: external_exports.enum(["measured", "too-small", "one-class"]),
+  rows: external_exports.strictObject({ base: count.nullable(), head: count }),
+  base: sliceSideSchema.optional(),
+  head: sliceSideSchema.optional(),
+  scoreChange: external_exports.strictObject({ worsening: finite, pValue: undefinedNumber, adjustedPValue: undefinedNumber }).optional()
+}).meta({ id: "SliceRow" });
 var gateReportSchema = external_exports.strictObject({
   schemaVersion: external_exports.literal(1),
   tool: external_exports.strictObject({ name: external_exports.literal("plumbline"), version: text }),
@@ -38020,6 +38155,10 @@ var gateReportSchema = external_exports.strictObject({
     checks: record2(evidenceSchema)
   }),
   timings: record2(external_exports.number().min(0)),
+  sensitivity: sensitivityReportSchema.optional(),
+  gain: gainReportSchema.optional(),
+  groups: list(external_exports.strictObject({ name: text, members: list(text), automatic: external_exports.boolean(), weakestLink: finite.nullable() })).optional(),
+  slices: list(sliceRowSchema).optional(),
   caution: text.min(1)
 }).meta({
   title: "plumbline GateReport, schema version 1",
@@ -38033,12 +38172,12 @@ function fitReportLimits(report) {
 function cut(text4, max) {
   return text4.length <= max ? text4 : `${text4.slice(0, max - 1)}…`;
 }
-function fit(value2, key2) {
-  if (typeof value2 === "string") return cut(value2, key2 === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
-  if (Array.isArray(value2)) return value2.slice(0, reportLimits.maxItems).map((item) => fit(item, null));
-  if (value2 === null || typeof value2 !== "object" || ArrayBuffer.isView(value2)) return value2;
+function fit(value3, key2) {
+  if (typeof value3 === "string") return cut(value3, key2 === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
+  if (Array.isArray(value3)) return value3.slice(0, reportLimits.maxItems).map((item) => fit(item, null));
+  if (value3 === null || typeof value3 !== "object" || ArrayBuffer.isView(value3)) return value3;
   const out = {};
-  for (const [name, item] of Object.entries(value2).slice(0, reportLimits.maxKeys)) out[cut(name, reportLimits.maxKeyLength)] = fit(item, name);
+  for (const [name, item] of Object.entries(value3).slice(0, reportLimits.maxKeys)) out[cut(name, reportLimits.maxKeyLength)] = fit(item, name);
   return out;
 }
 
@@ -38159,7 +38298,7 @@ function renderText(report, options = {}) {
 }
 
 // src/adapters/check/run-check.ts
-import { isAbsolute as isAbsolute2, relative as relative2, resolve as resolve4 } from "node:path";
+import { isAbsolute as isAbsolute3, relative as relative3, resolve as resolve6 } from "node:path";
 
 // node_modules/csv-parse/lib/api/CsvError.js
 var CsvError = class _CsvError extends Error {
@@ -38172,8 +38311,8 @@ var CsvError = class _CsvError extends Error {
     this.code = code2;
     for (const context of contexts) {
       for (const key2 in context) {
-        const value2 = context[key2];
-        this[key2] = Buffer.isBuffer(value2) ? value2.toString(options.encoding) : value2 == null ? value2 : JSON.parse(JSON.stringify(value2));
+        const value3 = context[key2];
+        this[key2] = Buffer.isBuffer(value3) ? value3.toString(options.encoding) : value3 == null ? value3 : JSON.parse(JSON.stringify(value3));
       }
     }
   }
@@ -38453,9 +38592,9 @@ var normalize_options = function(opts) {
   if (options.cast_date === void 0 || options.cast_date === null || options.cast_date === false || options.cast_date === "") {
     options.cast_date = false;
   } else if (options.cast_date === true) {
-    options.cast_date = function(value2) {
-      const date5 = Date.parse(value2);
-      return !isNaN(date5) ? new Date(date5) : value2;
+    options.cast_date = function(value3) {
+      const date5 = Date.parse(value3);
+      return !isNaN(date5) ? new Date(date5) : value3;
     };
   } else if (typeof options.cast_date !== "function") {
     throw new CsvError(
@@ -39248,7 +39387,7 @@ var transform2 = function(original_options = {}) {
                 pos += quote.length - 1;
                 continue;
               } else if (relax_quotes === false) {
-                const err = this.__error(
+                const err2 = this.__error(
                   new CsvError(
                     "CSV_INVALID_CLOSING_QUOTE",
                     [
@@ -39262,7 +39401,7 @@ var transform2 = function(original_options = {}) {
                     this.__infoField()
                   )
                 );
-                if (err !== void 0) return err;
+                if (err2 !== void 0) return err2;
               } else {
                 this.state.quoting = false;
                 this.state.wasQuoting = true;
@@ -39276,7 +39415,7 @@ var transform2 = function(original_options = {}) {
                   const bom2 = Object.keys(boms).map(
                     (b) => boms[b].equals(this.state.field.toString()) ? b : false
                   ).filter(Boolean)[0];
-                  const err = this.__error(
+                  const err2 = this.__error(
                     new CsvError(
                       "INVALID_OPENING_QUOTE",
                       [
@@ -39291,7 +39430,7 @@ var transform2 = function(original_options = {}) {
                       }
                     )
                   );
-                  if (err !== void 0) return err;
+                  if (err2 !== void 0) return err2;
                 }
               } else {
                 this.state.quoting = true;
@@ -39402,7 +39541,7 @@ var transform2 = function(original_options = {}) {
       }
       if (end === true) {
         if (this.state.quoting === true) {
-          const err = this.__error(
+          const err2 = this.__error(
             new CsvError(
               "CSV_QUOTE_NOT_CLOSED",
               [
@@ -39413,7 +39552,7 @@ var transform2 = function(original_options = {}) {
               this.__infoField()
             )
           );
-          if (err !== void 0) return err;
+          if (err2 !== void 0) return err2;
         } else {
           if (this.state.wasQuoting === true || this.state.record.length !== 0 || this.state.field.length !== 0) {
             this.info.bytes = this.state.bufBytesStart + pos;
@@ -39465,7 +39604,7 @@ var transform2 = function(original_options = {}) {
         this.state.expectedRecordLength = recordLength;
       }
       if (recordLength !== this.state.expectedRecordLength) {
-        const err = columns === false ? new CsvError(
+        const err2 = columns === false ? new CsvError(
           "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH",
           [
             "Invalid Record Length:",
@@ -39493,9 +39632,9 @@ var transform2 = function(original_options = {}) {
         );
         if (relax_column_count === true || relax_column_count_less === true && recordLength < this.state.expectedRecordLength || relax_column_count_more === true && recordLength > this.state.expectedRecordLength) {
           this.info.invalid_field_length++;
-          this.state.error = err;
+          this.state.error = err2;
         } else {
-          const finalErr = this.__error(err);
+          const finalErr = this.__error(err2);
           if (finalErr) return finalErr;
         }
       }
@@ -39536,20 +39675,20 @@ var transform2 = function(original_options = {}) {
               raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
               info2 === true ? { info: this.__infoRecord() } : {}
             );
-            const err = this.__push(
+            const err2 = this.__push(
               objname === void 0 ? extRecord : [obj[objname], extRecord],
               push
             );
-            if (err) {
-              return err;
+            if (err2) {
+              return err2;
             }
           } else {
-            const err = this.__push(
+            const err2 = this.__push(
               objname === void 0 ? obj : [obj[objname], obj],
               push
             );
-            if (err) {
-              return err;
+            if (err2) {
+              return err2;
             }
           }
         } else {
@@ -39559,20 +39698,20 @@ var transform2 = function(original_options = {}) {
               raw === true ? { raw: this.state.rawBuffer.toString(encoding) } : {},
               info2 === true ? { info: this.__infoRecord() } : {}
             );
-            const err = this.__push(
+            const err2 = this.__push(
               objname === void 0 ? extRecord : [record3[objname], extRecord],
               push
             );
-            if (err) {
-              return err;
+            if (err2) {
+              return err2;
             }
           } else {
-            const err = this.__push(
+            const err2 = this.__push(
               objname === void 0 ? record3 : [record3[objname], record3],
               push
             );
-            if (err) {
-              return err;
+            if (err2) {
+              return err2;
             }
           }
         }
@@ -39605,8 +39744,8 @@ var transform2 = function(original_options = {}) {
         this.options.columns = normalizedHeaders;
         this.__resetRecord();
         return;
-      } catch (err) {
-        return err;
+      } catch (err2) {
+        return err2;
       }
     },
     __resetRecord: function() {
@@ -39628,8 +39767,8 @@ var transform2 = function(original_options = {}) {
         field = field.trimRight();
       }
       if (cast === true) {
-        const [err, f] = this.__cast(field);
-        if (err !== void 0) return err;
+        const [err2, f] = this.__cast(field);
+        if (err2 !== void 0) return err2;
         field = f;
       }
       this.state.record.push(field);
@@ -39648,8 +39787,8 @@ var transform2 = function(original_options = {}) {
         const info2 = this.__infoRecord();
         try {
           record3 = on_record.call(null, record3, info2);
-        } catch (err) {
-          return err;
+        } catch (err2) {
+          return err2;
         }
         if (record3 === void 0 || record3 === null) {
           return;
@@ -39669,8 +39808,8 @@ var transform2 = function(original_options = {}) {
         try {
           const info2 = this.__infoField();
           return [void 0, this.state.castField.call(null, field, info2)];
-        } catch (err) {
-          return [err];
+        } catch (err2) {
+          return [err2];
         }
       }
       if (this.__isFloat(field)) {
@@ -39735,8 +39874,8 @@ var transform2 = function(original_options = {}) {
       }
       return false;
     },
-    __isFloat: function(value2) {
-      return value2 - parseFloat(value2) + 1 >= 0;
+    __isFloat: function(value3) {
+      return value3 - parseFloat(value3) + 1 >= 0;
     },
     // Keep it in case we implement the `cast_int` option
     // __isInt(value){
@@ -39796,22 +39935,22 @@ var transform2 = function(original_options = {}) {
     },
     __error: function(msg) {
       const { encoding, raw, skip_records_with_error } = this.options;
-      const err = typeof msg === "string" ? new Error(msg) : msg;
+      const err2 = typeof msg === "string" ? new Error(msg) : msg;
       if (skip_records_with_error) {
         this.state.recordHasError = true;
         if (this.options.on_skip !== void 0) {
           try {
             this.options.on_skip(
-              err,
+              err2,
               raw ? this.state.rawBuffer.toString(encoding) : void 0
             );
-          } catch (err2) {
-            return err2;
+          } catch (err3) {
+            return err3;
           }
         }
         return void 0;
       } else {
-        return err;
+        return err2;
       }
     },
     __infoDataSet: function() {
@@ -39900,9 +40039,14 @@ var LINE_NOTE = "(the header is line 1)";
 var INFINITY_WORD = /^[+-]?(?:inf|infinity)$/i;
 var MAX_MAGNITUDE = 1e100;
 function parseCsv(text4, options) {
+  const { header, rows, lineOf } = readRecords(text4, options.source);
+  return tableToDataset({ header, rows, place: (row) => `line ${lineOf(row)} ${LINE_NOTE}`, headerPlace: "line 1" }, options);
+}
+function tableToDataset(table2, options) {
   const { source } = options;
-  const { header, rows, lineOf } = readRecords(text4, source);
-  const columnIndex = checkHeader(header, source);
+  const { header, rows } = table2;
+  const lineOf = table2.place;
+  const columnIndex = checkHeader(header, source, table2.headerPlace);
   const plan = options.schema ? planFromSchema(options, header, columnIndex) : planFromRoles(options, header, columnIndex, rows);
   const cells = (column) => rows.map((row) => row[column].trim());
   const features = [];
@@ -39946,29 +40090,29 @@ function parseCsv(text4, options) {
   }
   return dataset;
 }
-function isMissing(value2) {
-  return MISSING_TOKENS.has(value2.toLowerCase());
+function isMissing(value3) {
+  return MISSING_TOKENS.has(value3.toLowerCase());
 }
-function parseNumber(value2) {
-  if (!NUMBER.test(value2)) return void 0;
-  const x = Number(value2);
+function parseNumber(value3) {
+  if (!NUMBER.test(value3)) return void 0;
+  const x = Number(value3);
   return Number.isFinite(x) && Math.abs(x) <= MAX_MAGNITUDE ? x : void 0;
 }
-function looksNumeric(value2) {
-  return NUMBER.test(value2) || INFINITY_WORD.test(value2);
+function looksNumeric(value3) {
+  return NUMBER.test(value3) || INFINITY_WORD.test(value3);
 }
-function failNumber(source, line, column, value2, reason) {
-  if (!looksNumeric(value2)) failNotNumeric(source, line, column, value2, reason);
+function failNumber(source, line, column, value3, reason) {
+  if (!looksNumeric(value3)) failNotNumeric(source, line, column, value3, reason);
   throw new UserError(
-    `${at2(source, line, column)}: ${show(value2)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
+    `${at2(source, line, column)}: ${show(value3)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
     "Correct the value, write NA or leave the cell empty if it is missing, or rescale the column (for example to thousands or a logarithm)."
   );
 }
 function compareText(a, b) {
   return a < b ? -1 : a > b ? 1 : 0;
 }
-function show(value2) {
-  const flat = value2.replace(/\r\n|\r|\n/g, "\\n");
+function show(value3) {
+  const flat = value3.replace(/\r\n|\r|\n/g, "\\n");
   return `'${flat.length > 40 ? `${flat.slice(0, 40)}…` : flat}'`;
 }
 function listNames(names, limit) {
@@ -39978,12 +40122,12 @@ function listNames(names, limit) {
 function count2(n, noun) {
   return `${n} ${noun}${n === 1 ? "" : "s"}`;
 }
-function at2(source, line, column) {
-  return `${source}, line ${line} ${LINE_NOTE}${column === void 0 ? "" : `, column ${show(column)}`}`;
+function at2(source, place, column) {
+  return `${source}, ${place}${column === void 0 ? "" : `, column ${show(column)}`}`;
 }
-function failNotNumeric(source, line, column, value2, reason) {
+function failNotNumeric(source, line, column, value3, reason) {
   throw new UserError(
-    `${at2(source, line, column)}: ${show(value2)} is not a number, but ${reason}.`,
+    `${at2(source, line, column)}: ${show(value3)} is not a number, but ${reason}.`,
     "Correct the value, or write NA or leave the cell empty if it is missing."
   );
 }
@@ -40007,7 +40151,7 @@ function readRecords(text4, source) {
     if (!(error62 instanceof CsvError)) throw error62;
     const line = lineAtByte(text4, ends.length === 0 ? 0 : ends[ends.length - 1]);
     throw new UserError(
-      `${at2(source, line)}: ${describeCsvError(error62)}.`,
+      `${at2(source, `line ${line} ${LINE_NOTE}`)}: ${describeCsvError(error62)}.`,
       'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
     );
   }
@@ -40029,7 +40173,7 @@ function readRecords(text4, source) {
   for (let i = 0; i < rows.length; i++) {
     if (rows[i].length !== header.length) {
       throw new UserError(
-        `${at2(source, lineOf(i))}: the row has ${count2(rows[i].length, "field")}, the header has ${header.length}.`,
+        `${at2(source, `line ${lineOf(i)} ${LINE_NOTE}`)}: the row has ${count2(rows[i].length, "field")}, the header has ${header.length}.`,
         "Give every row one field per header column; enclose a field that holds a comma in double quotes."
       );
     }
@@ -40056,17 +40200,17 @@ function lineAtByte(text4, byteOffset) {
   }
   return line;
 }
-function checkHeader(header, source) {
+function checkHeader(header, source, place) {
   const index = /* @__PURE__ */ new Map();
   header.forEach((raw, j) => {
     const name = raw.trim();
     if (name === "") {
-      throw new UserError(`${source}, line 1: column ${j + 1} of the header has no name.`, "Name every column on the first line, or delete the unnamed column.");
+      throw new UserError(`${source}, ${place}: column ${j + 1} of the header has no name.`, "Name every column on the first line, or delete the unnamed column.");
     }
     const earlier = index.get(name);
     if (earlier !== void 0) {
       throw new UserError(
-        `${source}, line 1: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
+        `${source}, ${place}: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
         "Give every column its own name."
       );
     }
@@ -40292,9 +40436,9 @@ function createRandom(seed) {
     },
     normal() {
       if (!Number.isNaN(spareNormal)) {
-        const value2 = spareNormal;
+        const value3 = spareNormal;
         spareNormal = NaN;
-        return value2;
+        return value3;
       }
       let u = 0;
       while (u === 0) u = nextUint32() / 4294967296;
@@ -40382,12 +40526,12 @@ function splitRows(dataset, options) {
       );
     }
     const threshold = fraction * 4294967296;
-    const encoder = new TextEncoder();
+    const encoder2 = new TextEncoder();
     const s = seed >>> 0;
     const seedBytes = Uint8Array.of(s & 255, s >>> 8 & 255, s >>> 16 & 255, s >>> 24);
     const seedState = fnv1a32(seedBytes);
     dataset.ids.values.forEach((id, i) => {
-      isHoldout[i] = fmix32(fnv1a32(encoder.encode(id), seedState)) < threshold ? 1 : 0;
+      isHoldout[i] = fmix32(fnv1a32(encoder2.encode(id), seedState)) < threshold ? 1 : 0;
     });
   }
   const holdoutIndices = [];
@@ -40430,6 +40574,9 @@ function sideDataFiles(config2) {
   if (config2.data.reference.kind === "file") {
     files.push({ role: "reference", path: config2.data.reference.path, key: "data.reference", requireTarget: false, conformToTrain: true });
   }
+  if (config2.data.unlabeled !== void 0 && config2.checks.sensitivity.action !== "off") {
+    files.push({ role: "unlabeled", path: config2.data.unlabeled, key: "data.unlabeled", requireTarget: false, conformToTrain: true });
+  }
   return files;
 }
 function assembleSideData(config2, tables) {
@@ -40447,7 +40594,7 @@ function assembleSideData(config2, tables) {
   }
   const reference = config2.data.reference.kind === "train" ? train3 : config2.data.reference.kind === "holdout" ? holdout : tables.reference;
   if (!reference) throw new RangeError("assembleSideData needs the reference table the policy names");
-  return { train: train3, holdout, reference };
+  return { train: train3, holdout, reference, ...tables.unlabeled ? { unlabeled: tables.unlabeled } : {} };
 }
 
 // src/core/policy/parse-policy.ts
@@ -40465,12 +40612,12 @@ function formatKeyPath(path) {
 }
 
 // src/core/policy/policy-defaults.ts
-function deepFreeze(value2) {
-  if (value2 !== null && typeof value2 === "object") {
-    for (const inner of Object.values(value2)) deepFreeze(inner);
-    Object.freeze(value2);
+function deepFreeze(value3) {
+  if (value3 !== null && typeof value3 === "object") {
+    for (const inner of Object.values(value3)) deepFreeze(inner);
+    Object.freeze(value3);
   }
-  return value2;
+  return value3;
 }
 var defaultTopLevel = deepFreeze({ seed: 1 });
 var defaultData = deepFreeze({
@@ -40506,7 +40653,8 @@ var defaultImportance = deepFreeze({
   draws: 5,
   refits: 5,
   referenceRows: 1e4,
-  evaluationRows: 2e4
+  evaluationRows: 2e4,
+  groupThreshold: 0.9
 });
 var defaultChecks = deepFreeze({
   leakage: {
@@ -40523,7 +40671,11 @@ var defaultChecks = deepFreeze({
     agreementPercentile: 5
   },
   score: { action: "block", tolerance: 0, alpha: 0.05 },
-  holdoutRows: { action: "block" }
+  holdoutRows: { action: "block" },
+  sensitivity: { action: "warn", falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
+  gain: { action: "warn", topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
+  slices: { action: "warn", minRows: 200 },
+  correlatedGroups: { action: "info" }
 });
 var defaultReport = deepFreeze({ maxTableRows: 50 });
 var uint32Max = 2 ** 32 - 1;
@@ -40547,7 +40699,7 @@ function realNumber(bounds) {
     bounds.above !== void 0 ? `above ${bounds.above}` : bounds.atLeast !== void 0 ? `at least ${bounds.atLeast}` : "",
     bounds.below !== void 0 ? `below ${bounds.below}` : bounds.atMost !== void 0 ? `at most ${bounds.atMost}` : ""
   ].filter(Boolean);
-  const phrase = parts.length === 1 && bounds.atLeast !== void 0 ? `a number of at least ${bounds.atLeast}` : `a number ${parts.join(" and ")}`;
+  const phrase = parts.length === 0 ? "a number" : parts.length === 1 && bounds.atLeast !== void 0 ? `a number of at least ${bounds.atLeast}` : `a number ${parts.join(" and ")}`;
   let schema = external_exports.number({ error: phrase });
   if (bounds.above !== void 0) schema = schema.gt(bounds.above, { error: phrase });
   if (bounds.atLeast !== void 0) schema = schema.gte(bounds.atLeast, { error: phrase });
@@ -40651,7 +40803,8 @@ var importanceSchema = mapping({
   groups: external_exports.preprocess(
     (raw) => raw === null ? {} : raw,
     external_exports.record(external_exports.string(), nameList("a list of column names, such as [distance_km, stop_count]"), { error: "a mapping of group names to lists of columns" })
-  ).default({})
+  ).default({}),
+  group_threshold: realNumber({ above: 0, atMost: 1 }).default(defaultImportance.groupThreshold)
 });
 var checksSchema = mapping({
   leakage: mapping({
@@ -40674,7 +40827,86 @@ var checksSchema = mapping({
   }).prefault({}),
   holdout_rows: mapping({
     action: checkAction.default(defaultChecks.holdoutRows.action)
+  }).prefault({}),
+  sensitivity: mapping({
+    action: checkAction.default(defaultChecks.sensitivity.action),
+    false_discovery_rate: realNumber({ above: 0, below: 1 }).default(defaultChecks.sensitivity.falseDiscoveryRate),
+    min_relative_change: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.sensitivity.minRelativeChange),
+    unlabeled_ratio: realNumber({ above: 1 }).default(defaultChecks.sensitivity.unlabeledRatio),
+    min_share: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.sensitivity.minShare)
+  }).prefault({}),
+  gain: mapping({
+    action: checkAction.default(defaultChecks.gain.action),
+    top_ranks: wholeNumber(1).default(defaultChecks.gain.topRanks),
+    min_gain_share: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.gain.minGainShare),
+    min_distinct: wholeNumber(2).default(defaultChecks.gain.minDistinct)
+  }).prefault({}),
+  correlated_groups: mapping({
+    action: oneOf(["warn", "info", "off"]).default(defaultChecks.correlatedGroups.action)
+  }).prefault({}),
+  slices: mapping({
+    action: checkAction.default(defaultChecks.slices.action),
+    min_rows: wholeNumber(1).default(defaultChecks.slices.minRows)
   }).prefault({})
+});
+var comparisons = ["equals", "in", "at_least", "below", "between", "is_missing"];
+var filterKeys = ["column", ...comparisons, "all_of", "any_of"];
+function checkFilterShape(raw, ctx) {
+  const given = comparisons.filter((c) => raw[c] !== void 0);
+  const lists = ["all_of", "any_of"].filter((c) => raw[c] !== void 0);
+  const hasColumn = raw.column !== void 0;
+  const allowed = `column with one of ${comparisons.join(", ")}; or all_of or any_of with a list of filters`;
+  if (lists.length > 0 && (hasColumn || given.length > 0 || lists.length > 1)) {
+    rule(ctx, [], `mixes ${[...lists, ...hasColumn ? ["column"] : [], ...given].join(", ")}; a filter is ${allowed}.`, "Put each comparison in its own filter under all_of or any_of.");
+  } else if (lists.length === 0 && !hasColumn) {
+    rule(ctx, [], `names no column; a filter is ${allowed}.`, "Add 'column: <name>' and one comparison, such as 'equals: harbour'.");
+  } else if (lists.length === 0 && given.length !== 1) {
+    rule(
+      ctx,
+      [],
+      `has ${given.length === 0 ? "no comparison" : `${given.length} comparisons (${given.join(", ")})`}; a filter is ${allowed}.`,
+      given.length === 0 ? "Add one comparison, such as 'equals: harbour' or 'at_least: 10'." : "Keep one comparison here and put the others in their own filters under all_of."
+    );
+  } else if (Array.isArray(raw.between) && raw.between.length === 2) {
+    const [low, high] = raw.between.map(numberFromText);
+    if (typeof low === "number" && typeof high === "number" && !(low < high)) {
+      rule(ctx, ["between"], `needs low below high; got [${low}, ${high}].`, "Write between: [low, high] with low < high (low included, high excluded).", void 0, true);
+    }
+  }
+}
+var filterSchema = external_exports.lazy(
+  () => external_exports.preprocess(
+    (raw, ctx) => {
+      if (raw !== null && typeof raw === "object" && !Array.isArray(raw) && Object.keys(raw).every((key2) => filterKeys.includes(key2))) {
+        checkFilterShape(raw, ctx);
+      }
+      return raw === null ? {} : raw;
+    },
+    external_exports.strictObject(
+      {
+        column: text2("a column name").optional(),
+        equals: text2("a value").optional(),
+        in: external_exports.array(text2("a value"), { error: "a list of values" }).min(1, { error: "a list of values" }).optional(),
+        at_least: realNumber({}).optional(),
+        below: realNumber({}).optional(),
+        between: external_exports.array(realNumber({}), { error: "a list of two numbers [low, high]" }).length(2, { error: "a list of two numbers [low, high]" }).optional(),
+        is_missing: oneOf(["true", "false"]).optional(),
+        all_of: external_exports.array(filterSchema, { error: "a list of filters" }).min(1, { error: "a list of filters" }).optional(),
+        any_of: external_exports.array(filterSchema, { error: "a list of filters" }).min(1, { error: "a list of filters" }).optional()
+      },
+      { error: "a mapping with column and one comparison, or all_of or any_of" }
+    )
+  )
+);
+var slicesSchema = external_exports.preprocess(
+  (raw) => raw === null ? [] : raw,
+  external_exports.array(mapping({ name: text2("a slice name"), where: filterSchema }, "a mapping with name and where"), { error: "a list of slices, each with name and where" })
+).superRefine((slices, ctx) => {
+  slices.forEach((slice, index) => {
+    if (slices.findIndex((s) => s.name === slice.name) !== index) {
+      rule(ctx, [index, "name"], `repeats the slice name '${slice.name}'; each slice needs its own name.`, "Rename one of the two slices.", void 0, true);
+    }
+  });
 });
 var reportSchema = mapping({
   max_table_rows: wholeNumber(1, 1e3).default(defaultReport.maxTableRows)
@@ -40689,6 +40921,7 @@ var documentSchema = mapping({
   model: modelSchema,
   importance: importanceSchema.prefault({}),
   checks: checksSchema.prefault({}),
+  slices: slicesSchema.default([]),
   report: reportSchema.prefault({})
 }, "a mapping of keys such as version, task, target");
 function checkAcrossSections(policy, ctx) {
@@ -40747,7 +40980,7 @@ function checkAcrossSections(policy, ctx) {
 }
 function nullPrototype(entries) {
   const result = /* @__PURE__ */ Object.create(null);
-  for (const [key2, value2] of entries) result[key2] = value2;
+  for (const [key2, value3] of entries) result[key2] = value3;
   return result;
 }
 function toModelConfig(model) {
@@ -40778,6 +41011,19 @@ function toModelConfig(model) {
   const t = model.train;
   return { kind: "train", command: t.command, timeoutSeconds: t.timeout_seconds, parallel: t.parallel };
 }
+function toSliceFilter(f) {
+  if (f.all_of) return { allOf: f.all_of.map(toSliceFilter) };
+  if (f.any_of) return { anyOf: f.any_of.map(toSliceFilter) };
+  return {
+    column: f.column,
+    ...f.equals !== void 0 ? { equals: f.equals } : {},
+    ...f.in !== void 0 ? { in: f.in } : {},
+    ...f.at_least !== void 0 ? { atLeast: f.at_least } : {},
+    ...f.below !== void 0 ? { below: f.below } : {},
+    ...f.between !== void 0 ? { between: [f.between[0], f.between[1]] } : {},
+    ...f.is_missing !== void 0 ? { isMissing: f.is_missing === "true" } : {}
+  };
+}
 function toGateConfig(policy) {
   const { data, importance, checks } = policy;
   const reference = data.reference === "train" || data.reference === "holdout" ? { kind: data.reference } : { kind: "file", path: data.reference };
@@ -40802,7 +41048,8 @@ function toGateConfig(policy) {
       refits: importance.refits,
       referenceRows: importance.reference_rows,
       evaluationRows: importance.evaluation_rows,
-      groups: nullPrototype(Object.entries(importance.groups))
+      groups: nullPrototype(Object.entries(importance.groups)),
+      groupThreshold: importance.group_threshold
     },
     checks: {
       leakage: {
@@ -40819,8 +41066,24 @@ function toGateConfig(policy) {
         agreementPercentile: checks.rank_shift.agreement_percentile
       },
       score: { action: checks.score.action, tolerance: checks.score.tolerance, alpha: checks.score.alpha },
-      holdoutRows: { action: checks.holdout_rows.action }
+      holdoutRows: { action: checks.holdout_rows.action },
+      sensitivity: {
+        action: checks.sensitivity.action,
+        falseDiscoveryRate: checks.sensitivity.false_discovery_rate,
+        minRelativeChange: checks.sensitivity.min_relative_change,
+        unlabeledRatio: checks.sensitivity.unlabeled_ratio,
+        minShare: checks.sensitivity.min_share
+      },
+      gain: {
+        action: checks.gain.action,
+        topRanks: checks.gain.top_ranks,
+        minGainShare: checks.gain.min_gain_share,
+        minDistinct: checks.gain.min_distinct
+      },
+      slices: { action: checks.slices.action, minRows: checks.slices.min_rows },
+      correlatedGroups: { action: checks.correlated_groups.action }
     },
+    slices: policy.slices.map((s) => ({ name: s.name, where: toSliceFilter(s.where) })),
     report: { maxTableRows: policy.report.max_table_rows }
   });
 }
@@ -40835,6 +41098,8 @@ function unwrap(schema) {
     if (def.type === "default" && !found) found = { value: def.defaultValue };
     if (def.innerType && ["optional", "default", "prefault", "nullable", "readonly", "catch"].includes(def.type)) {
       current = def.innerType;
+    } else if (def.type === "lazy" && def.getter) {
+      current = def.getter();
     } else if (def.type === "pipe" && def.in && def.out) {
       current = def.in._zod.def.type === "transform" ? def.out : def.in;
     } else {
@@ -40959,9 +41224,9 @@ function readDocument(text4, source) {
         throw new UserError(`${at3(source, place(node2.range?.[0] ?? 0))}: the alias *${node2.source} refers to itself or to nothing.`, "Replace the alias with the value it should stand for.");
       }
       expanding.add(target);
-      const value2 = toPlain(target, path);
+      const value3 = toPlain(target, path);
       expanding.delete(target);
-      return value2;
+      return value3;
     }
     if ((0, import_yaml.isScalar)(node2)) return node2.type === "PLAIN" && node2.value === "" ? null : String(node2.value);
     if ((0, import_yaml.isSeq)(node2)) {
@@ -41004,18 +41269,18 @@ function readDocument(text4, source) {
   return { value: toPlain(root2, []), positions };
 }
 function valueAt(root2, path) {
-  let value2 = root2;
+  let value3 = root2;
   for (const segment of path) {
-    if (value2 === null || typeof value2 !== "object") return void 0;
-    value2 = value2[segment];
+    if (value3 === null || typeof value3 !== "object") return void 0;
+    value3 = value3[segment];
   }
-  return value2;
+  return value3;
 }
-function describeValue(value2) {
-  if (value2 === null || value2 === void 0) return "an empty value";
-  if (Array.isArray(value2)) return value2.length === 0 ? "an empty list" : "a list";
-  if (typeof value2 === "object") return "a mapping";
-  return `'${excerpt(String(value2), 60)}'`;
+function describeValue(value3) {
+  if (value3 === null || value3 === void 0) return "an empty value";
+  if (Array.isArray(value3)) return value3.length === 0 ? "an empty list" : "a list";
+  if (typeof value3 === "object") return "a mapping";
+  return `'${excerpt(String(value3), 60)}'`;
 }
 function closestName(name, candidates) {
   const snake = name.replace(/([a-z0-9])([A-Z])/g, "$1_$2").toLowerCase();
@@ -41076,10 +41341,10 @@ function describeIssue(issue2, raw, positions, source) {
   }];
 }
 function readPolicy(text4, source) {
-  const { value: value2, positions } = readDocument(text4, source);
-  const result = policySchema.safeParse(value2);
+  const { value: value3, positions } = readDocument(text4, source);
+  const result = policySchema.safeParse(value3);
   if (!result.success) {
-    const problems = result.error.issues.flatMap((issue2) => describeIssue(issue2, value2, positions, source));
+    const problems = result.error.issues.flatMap((issue2) => describeIssue(issue2, value3, positions, source));
     problems.sort((a, b) => a.offset - b.offset);
     const first = problems[0];
     throw new UserError(first.message, first.fix);
@@ -41159,9 +41424,9 @@ function changedFeatures(base, head) {
     const bf = b.features[bj];
     const bc = b.columns[bj];
     const hc = h.columns[hj];
-    const decode3 = (kind, categories, v) => Number.isNaN(v) ? "NaN" : kind === "categorical" ? categories?.[v] ?? String(v) : v;
+    const decode4 = (kind, categories, v) => Number.isNaN(v) ? "NaN" : kind === "categorical" ? categories?.[v] ?? String(v) : v;
     for (let i = 0; i < hc.length; i++) {
-      if (decode3(bf.kind, bf.categories, bc[i]) !== decode3(hf.kind, hf.categories, hc[i])) {
+      if (decode4(bf.kind, bf.categories, bc[i]) !== decode4(hf.kind, hf.categories, hc[i])) {
         changed.add(hf.name);
         return;
       }
@@ -41229,6 +41494,7 @@ var fixedSettings = {
   singleFeatureTop: 3,
   singleFeatureMaxExtra: 20,
   slices: { maxLevels: 20, minRows: 30 },
+  correlationRows: 5e3,
   scoreBlockAtSds: 3,
   pairedBootstrapReplicates: 200
 };
@@ -41261,7 +41527,11 @@ function gateSettings(config2) {
       persistence: fixedSettings.persistence
     },
     score: { ...config2.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
-    holdoutRows: config2.checks.holdoutRows.action
+    holdoutRows: config2.checks.holdoutRows.action,
+    sensitivity: config2.checks.sensitivity,
+    gain: config2.checks.gain,
+    slices: config2.checks.slices,
+    correlatedGroups: config2.checks.correlatedGroups
   };
   return {
     task: config2.task,
@@ -41273,7 +41543,13 @@ function gateSettings(config2) {
     evaluationRows: config2.importance.evaluationRows,
     referenceRows: config2.importance.referenceRows,
     groups,
+    groupThreshold: config2.importance.groupThreshold,
+    /** Filled by withCorrelatedGroups once the head's training data is known. */
+    automaticGroups: [],
+    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
+    sensitivity: config2.checks.sensitivity.action === "off" ? void 0 : config2.task === "binary" ? { threshold: 0.5 } : {},
     learner,
+    policySlices: config2.slices,
     pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
     singleFeatureTop: fixedSettings.singleFeatureTop,
     singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
@@ -41292,12 +41568,16 @@ function gateSettings(config2) {
         "rbo_persistence (fixed)": fixedSettings.persistence
       },
       score: { ...snakeKeys(config2.checks.score), "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
-      holdout_rows: snakeKeys(config2.checks.holdoutRows)
+      holdout_rows: snakeKeys(config2.checks.holdoutRows),
+      sensitivity: snakeKeys(config2.checks.sensitivity),
+      gain: snakeKeys(config2.checks.gain),
+      slices: snakeKeys(config2.checks.slices),
+      correlated_groups: { ...snakeKeys(config2.checks.correlatedGroups), group_threshold: config2.importance.groupThreshold }
     }
   };
 }
 function snakeKeys(values) {
-  return Object.fromEntries(Object.entries(values).map(([key2, value2]) => [key2.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value2]));
+  return Object.fromEntries(Object.entries(values).map(([key2, value3]) => [key2.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value3]));
 }
 
 // src/core/importance/compute-noise-floor.ts
@@ -41370,14 +41650,14 @@ function average(values) {
 function tInterval(values, options = {}) {
   const level = options.level ?? 0.95;
   if (!(level > 0 && level < 1)) throw new RangeError(`tInterval needs a level in (0, 1), got ${level}`);
-  const sample = Array.from(values);
-  const n = sample.length;
+  const sample2 = Array.from(values);
+  const n = sample2.length;
   if (n === 0) throw new RangeError("tInterval needs at least one value, got none");
-  const missing = sample.findIndex(Number.isNaN);
+  const missing = sample2.findIndex(Number.isNaN);
   if (missing >= 0) throw new RangeError(`tInterval cannot use NaN (at index ${missing}); drop missing values first`);
-  const center = mean(sample);
+  const center = mean(sample2);
   if (n === 1) return { mean: center, sd: NaN, n, halfWidth: NaN, lower: NaN, upper: NaN };
-  const sd = sampleStandardDeviation(sample);
+  const sd = sampleStandardDeviation(sample2);
   const halfWidth = -studentTQuantile((1 - level) / 2, n - 1) * sd / Math.sqrt(n);
   return { mean: center, sd, n, halfWidth, lower: center - halfWidth, upper: center + halfWidth };
 }
@@ -41531,6 +41811,85 @@ function summarizeDraws(values) {
   return { mean: t.mean, sd: t.sd, lower: t.lower, upper: t.upper };
 }
 
+// src/core/importance/prediction-sensitivity.ts
+async function predictionSensitivity(model, rows, options) {
+  const { draws, threshold } = options;
+  if (!Number.isInteger(draws) || draws < 1) {
+    throw new RangeError(`predictionSensitivity needs a whole number of draws >= 1, got ${draws}`);
+  }
+  const names = model.featureNames;
+  const data = selectFeatures(rows, names);
+  const reference = selectFeatures(options.reference, names);
+  const n = data.rows;
+  if (n < 1) throw new RangeError("predictionSensitivity needs at least 1 row");
+  if (reference.rows < 1) throw new RangeError("predictionSensitivity needs at least 1 reference row");
+  const original = await model.predict(data);
+  const position = new Map(names.map((name, j) => [name, j]));
+  const units = [
+    ...names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] })),
+    ...(options.groups ?? []).filter((g2) => g2.members.every((m) => position.has(m))).map((g2) => ({ name: g2.name, members: [...g2.members], isGroup: true, columns: g2.members.map((m) => position.get(m)) }))
+  ];
+  const fast = model.createReplacementPredictor?.(data);
+  const stackedRows = n * draws;
+  const stacked = fast ? [] : data.columns.map((column) => {
+    const out = new Float64Array(stackedRows);
+    for (let k = 0; k < draws; k++) out.set(column, k * n);
+    return out;
+  });
+  const stackedMatrix = { rows: stackedRows, features: data.features, columns: stacked };
+  const estimates = [];
+  for (const unit of units) {
+    const random = createRandom(deriveSeed(options.seed, "sensitivity", unit.isGroup ? "group" : "feature", unit.name));
+    const replaced = /* @__PURE__ */ new Map();
+    for (const j of unit.columns) replaced.set(names[j], fast ? new Float64Array(stackedRows) : stacked[j]);
+    for (let k = 0; k < draws; k++) {
+      const picked = reference.rows >= n ? shuffledIndices(reference.rows, random).subarray(0, n) : drawWithReplacement(n, reference.rows, random);
+      for (const j of unit.columns) {
+        const source = reference.columns[j];
+        const target = replaced.get(names[j]);
+        for (let i = 0; i < n; i++) target[k * n + i] = source[picked[i]];
+      }
+    }
+    const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
+    const changes = [];
+    const flips = [];
+    for (let k = 0; k < draws; k++) {
+      let change = 0;
+      let flipped = 0;
+      for (let i = 0; i < n; i++) {
+        const before = original[i];
+        const after = prediction[k * n + i];
+        change += Math.abs(after - before);
+        if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
+      }
+      changes.push(change / n);
+      flips.push(flipped / n);
+    }
+    if (!fast) {
+      for (const j of unit.columns) for (let k = 0; k < draws; k++) stacked[j].set(data.columns[j], k * n);
+    }
+    estimates.push({
+      name: unit.name,
+      members: unit.members,
+      isGroup: unit.isGroup,
+      draws: changes,
+      mean: average2(changes),
+      ...threshold !== void 0 ? { flipDraws: flips, flipShare: average2(flips) } : {}
+    });
+  }
+  return estimates;
+}
+function drawWithReplacement(n, available, random) {
+  const rows = new Uint32Array(n);
+  for (let i = 0; i < n; i++) rows[i] = random.int(available);
+  return rows;
+}
+function average2(values) {
+  let s = 0;
+  for (const v of values) s += v;
+  return s / values.length;
+}
+
 // src/core/metrics/check-paired.ts
 function checkPaired(name, y, prediction, labels) {
   if (y.length !== prediction.length) {
@@ -41565,12 +41924,12 @@ function rocAuc(y, score2) {
   let pairs = 0;
   let below = 0;
   for (let i = 0; i < positives; ) {
-    const value2 = pos[i];
+    const value3 = pos[i];
     let runEnd = i + 1;
-    while (runEnd < positives && pos[runEnd] === value2) runEnd++;
-    while (below < negatives && neg[below] < value2) below++;
+    while (runEnd < positives && pos[runEnd] === value3) runEnd++;
+    while (below < negatives && neg[below] < value3) below++;
     let tied = below;
-    while (tied < negatives && neg[tied] === value2) tied++;
+    while (tied < negatives && neg[tied] === value3) tied++;
     pairs += (runEnd - i) * (below + (tied - below) / 2);
     i = runEnd;
   }
@@ -41606,9 +41965,12 @@ function refitSeed(seed, refit) {
 }
 function sideRows(inputs, options) {
   if (!inputs.holdout.target) throw new RangeError("measureSide needs a holdout with a target");
+  const unlabeled = inputs.unlabeled && options.sensitivity ? capRows(inputs.unlabeled, options.evaluationRows, deriveSeed(options.seed, "unlabeled-rows")) : void 0;
   return {
     evaluation: capRows(inputs.holdout, options.evaluationRows, deriveSeed(options.seed, "evaluation-rows")),
-    reference: capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, "reference-rows"))
+    reference: capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, "reference-rows")),
+    ...unlabeled ? { unlabeled } : {},
+    slices: (options.slices ?? []).map((slice) => ({ ...slice, data: selectRows(inputs.holdout, slice.rows) }))
   };
 }
 function sideRefitSeeds(inputs, options) {
@@ -41630,12 +41992,41 @@ async function measureRefit(model, inputs, options, rows, refit) {
     groups: options.groups
   });
   const featureOrder = train3.features.map((f) => f.name);
+  const slices = [];
+  for (const slice of rows.slices) {
+    const slicePrediction = new Float64Array(slice.rows.length);
+    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]];
+    const sliced = await permutationImportance(model, slice.data, {
+      metric: options.metric,
+      draws: options.draws,
+      seed: deriveSeed(options.seed, "slice-draws", slice.name, refit),
+      reference: rows.reference,
+      groups: options.groups
+    });
+    slices.push({
+      score: options.metric.compute(slice.data.target.values, slicePrediction),
+      importances: canonicalOrder(sliced.importances, featureOrder, options.groups, options.draws)
+    });
+  }
+  let sensitivity;
+  if (options.sensitivity) {
+    const threshold = options.sensitivity.threshold;
+    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold };
+    const order3 = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold);
+    sensitivity = {
+      holdout: order3(await predictionSensitivity(model, rows.evaluation, settings)),
+      ...rows.unlabeled ? { unlabeled: order3(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}
+    };
+  }
   return {
     score: score2,
     separation,
     importances: canonicalOrder(result.importances, featureOrder, options.groups, options.draws),
     predictions,
-    model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? "onnxruntime" }
+    model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? "onnxruntime" },
+    slices,
+    ...model.splitStatistics ? { splitStatistics: model.splitStatistics.map((x) => ({ feature: x.feature, gain: x.gain, splits: x.splits })) } : {},
+    ...sensitivity ? { sensitivity } : {}
   };
 }
 function combineRefits(seeds, rows, refits) {
@@ -41651,7 +42042,23 @@ function combineRefits(seeds, rows, refits) {
     referenceRows: rows.reference.rows,
     model: refits[refits.length - 1].model,
     firstPredictions: refits[0].predictions,
-    noiseCovers: refits.length < 2 ? "draws-only" : "refits-and-draws"
+    noiseCovers: refits.length < 2 ? "draws-only" : "refits-and-draws",
+    ...refits.every((r) => r.sensitivity) ? {
+      sensitivity: {
+        holdout: refits.map((r) => r.sensitivity.holdout),
+        ...rows.unlabeled ? { unlabeled: refits.map((r) => r.sensitivity.unlabeled ?? []) } : {},
+        unlabeledRows: rows.unlabeled?.rows ?? 0
+      }
+    } : {},
+    ...refits.every((r) => r.splitStatistics) ? { splitStatistics: refits.map((r) => r.splitStatistics) } : {},
+    ...rows.slices.length > 0 ? {
+      slices: rows.slices.map((slice, k) => ({
+        name: slice.name,
+        rows: slice.rows.length,
+        scores: refits.map((r) => r.slices[k].score),
+        importances: computeNoiseFloor(refits.map((r) => [...r.slices[k].importances]))
+      }))
+    } : {}
   };
 }
 async function measureSide(inputs, options) {
@@ -41668,6 +42075,23 @@ async function measureSide(inputs, options) {
     parts.push(await measureRefit(model, inputs, options, rows, r));
   }
   return combineRefits(refitSeeds, rows, parts);
+}
+function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold) {
+  const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
+  const zeros = new Array(draws).fill(0);
+  const zero = (name, members2, isGroup) => ({
+    name,
+    members: members2,
+    isGroup,
+    draws: zeros,
+    mean: 0,
+    ...threshold !== void 0 ? { flipDraws: zeros, flipShare: 0 } : {}
+  });
+  const present = new Set(featureOrder);
+  return [
+    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
+    ...groups.filter((g2) => g2.members.every((m) => present.has(m))).map((g2) => byKey.get(`g:${g2.name}`) ?? zero(g2.name, g2.members, true))
+  ];
 }
 function canonicalOrder(estimates, featureOrder, groups, draws) {
   const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
@@ -41791,13 +42215,13 @@ function createTreeReplacementPredictor(ensemble, base) {
   const names = ensemble.featureNames;
   const F = names.length;
   const n = base.rows;
-  const round = ensemble.float32Inputs === true;
+  const round2 = ensemble.float32Inputs === true;
   const x = new Float64Array(n * F);
   names.forEach((name, f) => {
     const j = position.get(name);
     if (j === void 0) throw new RangeError(`createTreeReplacementPredictor: the matrix has no feature named '${name}'`);
     const column = base.columns[j];
-    for (let i = 0, at4 = f; i < n; i++, at4 += F) x[at4] = round ? Math.fround(column[i]) : column[i];
+    for (let i = 0, at4 = f; i < n; i++, at4 += F) x[at4] = round2 ? Math.fround(column[i]) : column[i];
   });
   const raw = new Float64Array(n).fill(ensemble.baseScore);
   for (const tree of trees) addTree(tree, x, F, n, raw);
@@ -41824,7 +42248,7 @@ function createTreeReplacementPredictor(ensemble, base) {
           throw new RangeError(`ReplacementPredictor.predict: '${name}' has ${column.length} values, expected ${n * draws}`);
         }
         features.push(f);
-        values.push(round ? column.map(Math.fround) : column);
+        values.push(round2 ? column.map(Math.fround) : column);
       }
       if (features.length === 1 && singleOf[features[0]] < 0) {
         singleOf[features[0]] = u;
@@ -41840,7 +42264,7 @@ function createTreeReplacementPredictor(ensemble, base) {
     for (let start = 0; start < n; start += BLOCK_ROWS) {
       const stop = Math.min(n, start + BLOCK_ROWS);
       for (const tree of trees) {
-        const { feature, threshold, left, missingRight, value: value2 } = tree;
+        const { feature, threshold, left, missingRight, value: value3 } = tree;
         for (let i = start; i < stop; i++) {
           const row = i * F;
           let node2 = 0;
@@ -41856,7 +42280,7 @@ function createTreeReplacementPredictor(ensemble, base) {
             node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
             f = feature[node2];
           }
-          const own2 = value2[node2];
+          const own2 = value3[node2];
           for (let p = 0; p < found; p++) {
             const g2 = pathFeature[p];
             seen[g2] = 0;
@@ -41886,7 +42310,7 @@ function createTreeReplacementPredictor(ensemble, base) {
   };
 }
 function walkReplaced(tree, from, x, row, features, values, i, n, draws, own2, out) {
-  const { feature, threshold, left, missingRight, value: value2 } = tree;
+  const { feature, threshold, left, missingRight, value: value3 } = tree;
   const members2 = features.length;
   for (let k = 0, at4 = i; k < draws; k++, at4 += n) {
     for (let m = 0; m < members2; m++) x[row + features[m]] = values[m][at4];
@@ -41897,11 +42321,11 @@ function walkReplaced(tree, from, x, row, features, values, i, n, draws, own2, o
       node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
       f = feature[node2];
     }
-    out[at4] += value2[node2] - own2;
+    out[at4] += value3[node2] - own2;
   }
 }
 function walkOne(tree, from, x, row, target, values, i, n, draws, own2, out) {
-  const { feature, threshold, left, missingRight, value: value2 } = tree;
+  const { feature, threshold, left, missingRight, value: value3 } = tree;
   for (let k = 0, at4 = i; k < draws; k++, at4 += n) {
     const replaced = values[at4];
     let node2 = from;
@@ -41911,11 +42335,11 @@ function walkOne(tree, from, x, row, target, values, i, n, draws, own2, out) {
       node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
       f = feature[node2];
     }
-    out[at4] += value2[node2] - own2;
+    out[at4] += value3[node2] - own2;
   }
 }
 function addTree(tree, x, F, n, score2) {
-  const { feature, threshold, left, missingRight, value: value2 } = tree;
+  const { feature, threshold, left, missingRight, value: value3 } = tree;
   for (let i = 0, row = 0; i < n; i++, row += F) {
     let node2 = 0;
     let f = feature[0];
@@ -41924,7 +42348,7 @@ function addTree(tree, x, F, n, score2) {
       node2 = left[node2] + (+(v > threshold[node2]) | +(v !== v) & missingRight[node2]);
       f = feature[node2];
     }
-    score2[i] += value2[node2];
+    score2[i] += value3[node2];
   }
 }
 function compileTree(tree) {
@@ -41933,7 +42357,7 @@ function compileTree(tree) {
   const threshold = new Float64Array(m);
   const left = new Int32Array(m);
   const missingRight = new Uint8Array(m);
-  const value2 = new Float64Array(m);
+  const value3 = new Float64Array(m);
   const queue = new Int32Array(m);
   queue[0] = 0;
   let head = 0;
@@ -41943,7 +42367,7 @@ function compileTree(tree) {
     const old = queue[head++];
     feature[at4] = tree.feature[old];
     if (tree.feature[old] < 0) {
-      value2[at4] = tree.value[old];
+      value3[at4] = tree.value[old];
       continue;
     }
     threshold[at4] = tree.threshold[old];
@@ -41953,7 +42377,7 @@ function compileTree(tree) {
     queue[tail++] = tree.left[old];
     queue[tail++] = tree.right[old];
   }
-  return { feature: feature.subarray(0, tail), threshold, left, missingRight, value: value2 };
+  return { feature: feature.subarray(0, tail), threshold, left, missingRight, value: value3 };
 }
 function treeDepth(tree) {
   const depth = new Int32Array(tree.feature.length);
@@ -42013,7 +42437,7 @@ var BoostedModel = class {
   }
 };
 function addTree2(tree, columns, n, score2) {
-  const { feature, threshold, left, right, missingGoesLeft, value: value2 } = tree;
+  const { feature, threshold, left, right, missingGoesLeft, value: value3 } = tree;
   for (let i = 0; i < n; i++) {
     let node2 = 0;
     let f = feature[0];
@@ -42023,7 +42447,7 @@ function addTree2(tree, columns, n, score2) {
       node2 = goLeft ? left[node2] : right[node2];
       f = feature[node2];
     }
-    score2[i] += value2[node2];
+    score2[i] += value3[node2];
   }
 }
 
@@ -42055,12 +42479,12 @@ function resolveTrainingSubset(caller, shape, target, task, options) {
   const used = features === void 0 ? Array.from({ length: shape.features }, (_, j) => j) : [...new Set(features)].sort((a, b) => a - b);
   const y = new Float64Array(positions.length);
   for (let p = 0; p < positions.length; p++) {
-    const value2 = target[positions[p]];
-    if (!Number.isFinite(value2) || task === "binary" && value2 !== 0 && value2 !== 1) {
+    const value3 = target[positions[p]];
+    if (!Number.isFinite(value3) || task === "binary" && value3 !== 0 && value3 !== 1) {
       const rule2 = task === "binary" ? "binary targets must be 0 or 1" : "regression targets must be finite";
-      throw new RangeError(`${caller}: target of row ${positions[p]} is ${value2}; ${rule2}`);
+      throw new RangeError(`${caller}: target of row ${positions[p]} is ${value3}; ${rule2}`);
     }
-    y[p] = value2;
+    y[p] = value3;
   }
   return { positions, features: used, y };
 }
@@ -42517,10 +42941,10 @@ var TreeGrower = class {
   }
   /** Adds this tree's leaf values to the training scores of every position (sampled or not). */
   addToScores(score2, rowCount) {
-    const { order: order3, feature, value: value2, begin, end } = this;
+    const { order: order3, feature, value: value3, begin, end } = this;
     for (let node2 = 0; node2 < this.nodeCount; node2++) {
       if (feature[node2] >= 0) continue;
-      const v = value2[node2];
+      const v = value3[node2];
       for (let i = begin[node2]; i < end[node2]; i++) score2[order3[i]] += v;
     }
     if (rowCount === score2.length) return;
@@ -42535,7 +42959,7 @@ var TreeGrower = class {
         const goLeft = code2 === MISSING_BIN ? missingLeft[node2] === 1 : code2 <= splitBin[node2];
         node2 = goLeft ? left[node2] : right[node2];
       }
-      score2[p] += value2[node2];
+      score2[p] += value3[node2];
     }
   }
   addSplitStatistics(gainByFeature, splitsByFeature) {
@@ -42687,14 +43111,14 @@ var LinearModel = class {
       }
       const column = matrix.columns[j];
       if (term.kind === "numeric") {
-        const { coefficient, fill: fill2 } = term;
-        for (let i = 0; i < n; i++) score2[i] += coefficient * (column[i] !== column[i] ? fill2 : column[i]);
+        const { coefficient, fill: fill3 } = term;
+        for (let i = 0; i < n; i++) score2[i] += coefficient * (column[i] !== column[i] ? fill3 : column[i]);
         return;
       }
-      const { coefficients, fill } = term;
+      const { coefficients, fill: fill2 } = term;
       for (let i = 0; i < n; i++) {
         const code2 = column[i];
-        score2[i] += Number.isInteger(code2) && code2 >= 0 && code2 < coefficients.length ? coefficients[code2] : fill;
+        score2[i] += Number.isInteger(code2) && code2 >= 0 && code2 < coefficients.length ? coefficients[code2] : fill2;
       }
     });
     if (this.task === "binary") {
@@ -42799,17 +43223,17 @@ function buildStandardizedDesign(caller, task, matrix, target, options) {
         return { kind: "numeric", coefficient, fill: spec.mean };
       }
       if (spec.levels.length === 0) return { kind: "categorical", coefficients: [], fill: 0 };
-      let fill = 0;
+      let fill2 = 0;
       const byLevel = /* @__PURE__ */ new Map([[spec.levels[0], 0]]);
       for (let l = 1; l < spec.levels.length; l++) {
         const beta = coefficients[spec.firstColumn + l - 1];
         byLevel.set(spec.levels[l], beta);
-        fill += spec.frequencies[l] * beta;
+        fill2 += spec.frequencies[l] * beta;
       }
-      rawIntercept -= fill;
+      rawIntercept -= fill2;
       const size = Math.max(spec.dictionarySize, spec.levels[spec.levels.length - 1] + 1);
-      const perCode = Array.from({ length: size }, (_, code2) => byLevel.get(code2) ?? fill);
-      return { kind: "categorical", coefficients: perCode, fill };
+      const perCode = Array.from({ length: size }, (_, code2) => byLevel.get(code2) ?? fill2);
+      return { kind: "categorical", coefficients: perCode, fill: fill2 };
     });
     return { task, featureNames, intercept: rawIntercept, terms };
   }
@@ -43004,6 +43428,117 @@ function createBuiltinFit(train3, task, settings, options = {}) {
   };
 }
 
+// src/core/data/slice-rows.ts
+function sliceRows(data, filter, slice) {
+  const keep = evaluate(data, filter, slice, `slices[${slice.index}].where`);
+  if (!keep) return null;
+  let count4 = 0;
+  for (let i = 0; i < data.rows; i++) if (keep[i]) count4++;
+  const rows = new Uint32Array(count4);
+  for (let i = 0, k = 0; i < data.rows; i++) if (keep[i]) rows[k++] = i;
+  return rows;
+}
+function sliceColumns(filter) {
+  if ("allOf" in filter) return filter.allOf.flatMap(sliceColumns);
+  if ("anyOf" in filter) return filter.anyOf.flatMap(sliceColumns);
+  return [filter.column];
+}
+function describeSliceFilter(filter) {
+  const part = (f, nested) => {
+    if ("allOf" in f || "anyOf" in f) {
+      const items = "allOf" in f ? f.allOf : f.anyOf;
+      const text4 = items.map((g2) => part(g2, true)).join("allOf" in f ? " and " : " or ");
+      return nested && items.length > 1 ? `(${text4})` : text4;
+    }
+    if (f.equals !== void 0) return `${f.column} = ${f.equals}`;
+    if (f.in !== void 0) return `${f.column} in {${f.in.join(", ")}}`;
+    if (f.atLeast !== void 0) return `${f.column} ≥ ${f.atLeast}`;
+    if (f.below !== void 0) return `${f.column} < ${f.below}`;
+    if (f.between !== void 0) return `${f.between[0]} ≤ ${f.column} < ${f.between[1]}`;
+    return `${f.column} is ${f.isMissing ? "" : "not "}missing`;
+  };
+  return part(filter, false);
+}
+function evaluate(data, filter, slice, key2) {
+  if ("allOf" in filter || "anyOf" in filter) {
+    const all = "allOf" in filter;
+    const items = all ? filter.allOf : filter.anyOf;
+    const out2 = new Uint8Array(data.rows).fill(all ? 1 : 0);
+    for (let k = 0; k < items.length; k++) {
+      const part = evaluate(data, items[k], slice, `${key2}.${all ? "all_of" : "any_of"}[${k}]`);
+      if (!part) return null;
+      for (let i = 0; i < data.rows; i++) out2[i] = all ? out2[i] & part[i] : out2[i] | part[i];
+    }
+    return out2;
+  }
+  const j = data.features.findIndex((f) => f.name === filter.column);
+  if (j < 0) return null;
+  const feature = data.features[j];
+  const column = data.columns[j];
+  const out = new Uint8Array(data.rows);
+  if (filter.isMissing !== void 0) {
+    for (let i = 0; i < data.rows; i++) out[i] = Number.isNaN(column[i]) === filter.isMissing ? 1 : 0;
+    return out;
+  }
+  const refuse = (which2, problem, fix) => {
+    throw new UserError(`The slice '${slice.name}': ${key2}.${which2} ${problem}`, fix);
+  };
+  if (filter.equals !== void 0 || filter.in !== void 0) {
+    const which2 = filter.equals !== void 0 ? "equals" : "in";
+    const values = filter.equals !== void 0 ? [filter.equals] : filter.in;
+    const codes = /* @__PURE__ */ new Set();
+    for (const v of values) {
+      if (feature.kind === "categorical") {
+        const code2 = feature.categories.indexOf(v);
+        if (code2 >= 0) codes.add(code2);
+      } else {
+        const x = Number(v);
+        if (v.trim() === "" || !Number.isFinite(x)) {
+          refuse(which2, `compares the numeric column '${feature.name}' with '${v}', which is not a number.`, `Write a number, or give '${feature.name}' the role categorical in data.columns.`);
+        }
+        codes.add(x);
+      }
+    }
+    for (let i = 0; i < data.rows; i++) out[i] = codes.has(column[i]) ? 1 : 0;
+    return out;
+  }
+  const which = filter.atLeast !== void 0 ? "at_least" : filter.below !== void 0 ? "below" : "between";
+  if (feature.kind === "categorical") {
+    refuse(which, `compares the categorical column '${feature.name}' by size; categories have no order.`, `Use equals or in with its categories (${(feature.categories ?? []).slice(0, 10).join(", ")}).`);
+  }
+  const [low, high] = filter.atLeast !== void 0 ? [filter.atLeast, Infinity] : filter.below !== void 0 ? [-Infinity, filter.below] : [filter.between[0], filter.between[1]];
+  const includeHigh = high === Infinity;
+  for (let i = 0; i < data.rows; i++) {
+    const v = column[i];
+    out[i] = v >= low && (v < high || includeHigh && v === Infinity) ? 1 : 0;
+  }
+  return out;
+}
+
+// src/core/gate/plan-slices.ts
+function planSlices(slices, holdout, side2, options) {
+  return slices.map((slice, index) => {
+    const rows = sliceRows(holdout, slice.where, { name: slice.name, index });
+    if (!rows) {
+      if (side2 === "base") return { name: slice.name, status: "no-column" };
+      const known = new Set(holdout.features.map((f) => f.name));
+      const missing = sliceColumns(slice.where).find((c) => !known.has(c));
+      throw new UserError(
+        `The slice '${slice.name}' (slices[${index}].where) names the column '${missing}', which is not a feature of ${holdout.source} (features: ${holdout.features.map((f) => f.name).slice(0, 20).join(", ")}).`,
+        "Correct the column name in the slice, or delete the slice."
+      );
+    }
+    if (rows.length < options.minRows) return { name: slice.name, status: "too-small", rowCount: rows.length };
+    if (options.task === "binary") {
+      const y = holdout.target.values;
+      let positives = 0;
+      for (const i of rows) positives += y[i];
+      if (positives === 0 || positives === rows.length) return { name: slice.name, status: "one-class", rowCount: rows.length };
+    }
+    return { name: slice.name, status: "measured", rows };
+  });
+}
+
 // src/core/gate/measure-both-sides.ts
 var measureInTurn = async ([base, head]) => [
   await measureSide(base.inputs, base.options),
@@ -43011,9 +43546,10 @@ var measureInTurn = async ([base, head]) => [
 ];
 function measureJob(side2, data, settings, metric, onProgress) {
   const { model } = data;
+  const measuredSlices = planSlices(settings.policySlices, data.holdout, side2, { task: settings.task, minRows: settings.checks.slices.minRows }).flatMap((s) => s.status === "measured" ? [{ name: s.name, rows: s.rows }] : []);
   const source = model.kind === "builtin" ? { fit: createBuiltinFit(data.train, settings.task, settings.learner) } : model.kind === "command" ? { fit: model.fit } : { model: model.model };
   return {
-    inputs: { side: side2, train: data.train, holdout: data.holdout, reference: data.reference, ...source },
+    inputs: { side: side2, train: data.train, holdout: data.holdout, reference: data.reference, ...data.unlabeled ? { unlabeled: data.unlabeled } : {}, ...source },
     options: {
       task: settings.task,
       metric,
@@ -43024,7 +43560,9 @@ function measureJob(side2, data, settings, metric, onProgress) {
       evaluationRows: settings.evaluationRows,
       referenceRows: settings.referenceRows,
       onRefit: (refit, of) => onProgress?.({ stage: "refit", side: side2, refit, of }),
-      concurrentFits: model.kind === "command"
+      concurrentFits: model.kind === "command",
+      ...settings.sensitivity ? { sensitivity: settings.sensitivity } : {},
+      ...measuredSlices.length > 0 && settings.checks.slices.action !== "off" ? { slices: measuredSlices } : {}
     },
     ...model.kind === "builtin" ? { builtin: { task: settings.task, settings: settings.learner } } : {}
   };
@@ -43065,7 +43603,7 @@ function demoteConsequences(findings) {
   const leak = findings.find((f) => f.kind === "leakage" && f.severity === "block");
   if (!leak) return [...findings];
   return findings.map(
-    (f) => f.kind === "rank-shift" && f.feature !== leak.feature || f.kind === "rank-agreement" ? {
+    (f) => (f.kind === "rank-shift" || f.kind === "sensitivity-shift") && f.feature !== leak.feature || f.kind === "rank-agreement" ? {
       ...f,
       severity: f.severity === "block" ? "block" : "info",
       message: `${f.message} Likely a consequence of the leakage finding on ${leak.feature}: a feature that takes over the model moves every other feature's importance.`
@@ -43179,8 +43717,8 @@ function mean2(values) {
 // src/core/checks/leakage.ts
 function unevaluated(head, options, metricName) {
   if (options.action === "off") return [];
-  const undefinedFor = Object.entries(head.singleFeatureSeparation).filter(([, value2]) => !Number.isFinite(value2)).map(([name]) => name).sort();
-  const fullUndefined = head.separation.length > 0 && !head.separation.some((value2) => Number.isFinite(value2));
+  const undefinedFor = Object.entries(head.singleFeatureSeparation).filter(([, value3]) => !Number.isFinite(value3)).map(([name]) => name).sort();
+  const fullUndefined = head.separation.length > 0 && !head.separation.some((value3) => Number.isFinite(value3));
   if (undefinedFor.length === 0 && !fullUndefined) return [];
   const why = options.task === "binary" ? "the holdout holds one class only, so AUC is undefined" : "the holdout target is constant, so R² is undefined";
   const shown = undefinedFor.slice(0, 5).join(", ") + (undefinedFor.length > 5 ? ` and ${undefinedFor.length - 5} more` : "");
@@ -43266,8 +43804,8 @@ function checkLeakage(context, options) {
     const share = positiveShare(head.importances, top.name);
     const ratio = runnerUp && runnerUp.mean > 0 ? top.mean / runnerUp.mean : Infinity;
     const alone = head.singleFeatureSeparation[top.name];
-    const relative3 = alone === void 0 || !(fullHead > trivial) ? NaN : (alone - trivial) / (fullHead - trivial);
-    const dominates = share >= options.dominanceShare && ratio >= options.runnerUpRatio && relative3 >= options.relativePower;
+    const relative4 = alone === void 0 || !(fullHead > trivial) ? NaN : (alone - trivial) / (fullHead - trivial);
+    const dominates = share >= options.dominanceShare && ratio >= options.runnerUpRatio && relative4 >= options.relativePower;
     if (dominates) {
       const isNewOrChanged = added.has(top.name) || changed.has(top.name);
       const baseShare = positiveShare(base.importances, top.name);
@@ -43279,14 +43817,14 @@ function checkLeakage(context, options) {
         severity,
         feature: top.name,
         title: `${top.name} dominates the model (${formatPercent(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
-        message: `${top.name} carries ${formatPercent(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${formatPercent(relative3)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${formatPercent(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${formatPercent(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
+        message: `${top.name} carries ${formatPercent(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${formatPercent(relative4)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${formatPercent(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${formatPercent(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
         evidence: {
           share,
           baseShare,
           runnerUpRatio: Number.isFinite(ratio) ? ratio : null,
           runnerUp: runnerUp?.name ?? null,
           singleFeatureSeparation: alone ?? null,
-          relativePower: Number.isFinite(relative3) ? relative3 : null,
+          relativePower: Number.isFinite(relative4) ? relative4 : null,
           fullModelSeparation: fullHead,
           baseFullModelSeparation: fullBase,
           separationJumpInSds: Number.isFinite(scoreJump) ? scoreJump : null,
@@ -43308,8 +43846,8 @@ function separationJump(base, head) {
   const sd = Math.sqrt((vb + vh) / 2);
   return sd > 0 ? (mh - mb) / sd : NaN;
 }
-function fmt(value2) {
-  return value2 === void 0 ? "n/a" : formatNumber(value2);
+function fmt(value3) {
+  return value3 === void 0 ? "n/a" : formatNumber(value3);
 }
 function fmtRatio(ratio) {
   return Number.isFinite(ratio) ? formatRatio(ratio) : "infinitely";
@@ -43847,6 +44385,7 @@ function runChecks(inputs) {
     ...shift.findings,
     ...agreement.findings,
     ...featureSetFindings(featureSet, results.head),
+    ...inputs.viewFindings ?? [],
     ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers })
   ]);
   const findings = orderFindings(groupConsequences(demoted, results, featureSet), {
@@ -43871,7 +44410,7 @@ async function singleFeatureSeparation(train3, holdout, names, options) {
   const all = train3.features.map((f) => f.name);
   const y = holdout.target.values;
   const score2 = (target, prediction) => options.task === "binary" ? rocAuc(target, prediction) : rSquared(target, prediction);
-  const slices = options.slices ? sliceRows(holdout, options.slices, options.task) : [];
+  const slices = options.slices ? sliceRows2(holdout, options.slices, options.task) : [];
   const overall = {};
   const bestSlice = {};
   for (const name of names) {
@@ -43897,7 +44436,7 @@ async function singleFeatureSeparation(train3, holdout, names, options) {
   }
   return { overall, bestSlice };
 }
-function sliceRows(holdout, options, task) {
+function sliceRows2(holdout, options, task) {
   const y = holdout.target.values;
   const slices = [];
   holdout.features.forEach((feature, j) => {
@@ -43964,11 +44503,213 @@ function createStopwatch(now) {
     timings,
     async time(label2, work) {
       const start = now?.();
-      const value2 = await work();
+      const value3 = await work();
       if (now && start !== void 0) timings[label2] = now() - start;
-      return value2;
+      return value3;
     }
   };
+}
+
+// src/core/checks/gain-noise.ts
+function checkGainNoise(features, touched, options) {
+  const action = options.action;
+  if (action === "off") return [];
+  const total = features.reduce((s, f) => s + Math.max(0, f.gain), 0);
+  if (!(total > 0)) return [];
+  const ranked = [...features].sort((a, b) => b.gain - a.gain || (a.name < b.name ? -1 : 1));
+  const findings = [];
+  ranked.slice(0, options.topRanks).forEach((f, i) => {
+    const share = Math.max(0, f.gain) / total;
+    if (share < options.minGainShare || f.distinct < options.minDistinct || f.isAboveFloor) return;
+    findings.push({
+      kind: "gain-noise",
+      severity: touched.has(f.name) ? action : "info",
+      feature: f.name,
+      title: `${f.name} ranks ${i + 1} by the trees' gain (${formatPercent(share)}) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).`,
+      message: `${f.name} has ${f.distinct} distinct values in the training rows and takes ${formatPercent(share)} of the ensemble's split gain (${formatNumber(f.splits)} splits per model on average), yet replacing it on the holdout changes the score by ${formatNumber(f.importance)}, within reseed noise of zero. Gain is measured on the training rows and favours features with many distinct values (Strobl et al. 2007); if this column identifies rows or encodes when or where a row was recorded, drop it or give it the role id.`,
+      evidence: { gainRank: i + 1, gainShare: share, splits: f.splits, distinct: f.distinct, importance: f.importance, touched: touched.has(f.name) }
+    });
+  });
+  return findings;
+}
+
+// src/core/checks/group-carried.ts
+function checkGroupCarried(importances, touched, options) {
+  const action = options.action;
+  if (action === "off") return [];
+  const byName = new Map(importances.filter((u) => !u.isGroup).map((u) => [u.name, u]));
+  const findings = [];
+  for (const group of importances.filter((u) => u.isGroup && u.isAboveFloor && u.mean > 0)) {
+    const members2 = group.members.map((m) => byName.get(m)).filter((u) => u !== void 0);
+    const low = members2.filter((u) => u.mean < group.mean / 2);
+    if (low.length === 0) continue;
+    const names = low.map((u) => u.name);
+    const newOnes = names.filter((n) => touched.has(n));
+    findings.push({
+      kind: "group-carried",
+      severity: action,
+      feature: names[0],
+      title: `${names.join(" and ")} ${names.length > 1 ? "are" : "is"} carried by ${names.length > 1 ? "their" : "its"} correlated group: ${group.members.join(", ")}.`,
+      message: `Permuted together, ${group.members.join(", ")} change the score by ${formatNumber(group.mean)} (95% interval [${formatNumber(group.lower)}, ${formatNumber(group.upper)}]); alone, ${low.map((u) => `${u.name} by ${formatNumber(u.mean)}`).join(", ")}: the other members stand in for ${names.length > 1 ? "them" : "it"} when ${names.length > 1 ? "they are" : "it is"} permuted. ` + (newOnes.length > 0 ? `${newOnes.join(", ")} ${newOnes.length > 1 ? "are" : "is"} new or changed here: redundant with the rest of the group, not harmless. ` : "") + "Judge the group as one.",
+      evidence: { group: group.name, groupMean: group.mean, groupLower: group.lower, lowestMemberMean: Math.min(...low.map((u) => u.mean)), touched: newOnes.length > 0 }
+    });
+  }
+  return findings;
+}
+
+// src/core/checks/sensitivity-change.ts
+function checkSensitivity(base, head, options) {
+  const findings = [];
+  const changes = /* @__PURE__ */ new Map();
+  const action = options.action;
+  if (action === "off") return { findings, changes };
+  const largest = (units) => Math.max(0, ...units.filter((u) => !u.isGroup).map((u) => u.mean));
+  if (base) {
+    const baseBy = new Map(base.holdout.map((u) => [`${u.isGroup}:${u.name}`, u]));
+    const pairs = head.holdout.map((h) => ({ h, b: baseBy.get(`${h.isGroup}:${h.name}`) })).filter((p) => p.b !== void 0 && p.b.samples.length >= 2 && p.h.samples.length >= 2);
+    const tests = pairs.map((p) => welchTTest(p.b.samples, p.h.samples));
+    const adjusted = benjaminiHochberg(tests.map((t) => Number.isNaN(t.pValue) ? 1 : t.pValue));
+    const floor = options.minShare * Math.max(largest(base.holdout), largest(head.holdout));
+    pairs.forEach(({ b, h }, i) => {
+      const test = tests[i];
+      const isSignificant = !Number.isNaN(test.pValue) && adjusted[i] <= options.falseDiscoveryRate;
+      changes.set(h.name, { pValue: test.pValue, adjustedPValue: Number.isNaN(test.pValue) ? NaN : adjusted[i], isSignificant });
+      const larger = Math.max(b.mean, h.mean);
+      const relativeChange = larger > 0 ? Math.abs(h.mean - b.mean) / larger : 0;
+      if (!isSignificant || relativeChange < options.minRelativeChange || larger < floor || larger <= 0) return;
+      const direction = h.mean > b.mean ? "rose" : "fell";
+      findings.push({
+        kind: "sensitivity-shift",
+        severity: action,
+        feature: h.name,
+        title: `How much ${h.name} moves the predictions ${direction}: from ${formatNumber(b.mean)} to ${formatNumber(h.mean)} (${formatChange(b.mean, h.mean)}).`,
+        message: `Mean absolute change of the model's output when ${h.name} takes reference values, on the holdout: ${formatNumber(b.mean)} on the base side, ${formatNumber(h.mean)} on the head. Over ${b.samples.length} and ${h.samples.length} values, Welch's t = ${formatNumber(test.t)} (df ${formatNumber(test.df)}), p = ${formatNumber(test.pValue)}, Benjamini–Hochberg adjusted p = ${formatNumber(adjusted[i])} against a false discovery rate of ${options.falseDiscoveryRate}. This needs no labels: it is what the model does, not how well.`,
+        evidence: {
+          baseMean: b.mean,
+          headMean: h.mean,
+          relativeChange,
+          ...b.flipShare !== void 0 ? { baseFlipShare: b.flipShare } : {},
+          ...h.flipShare !== void 0 ? { headFlipShare: h.flipShare } : {},
+          welchT: test.t,
+          welchDf: test.df,
+          pValue: test.pValue,
+          adjustedPValue: adjusted[i]
+        }
+      });
+    });
+  }
+  if (head.unlabeled) {
+    const floor = options.minShare * largest(head.holdout);
+    head.holdout.forEach((h, i) => {
+      const u = head.unlabeled[i];
+      if (u.samples.length < 2 || u.samples.length !== h.samples.length) return;
+      const larger = Math.max(u.mean, h.mean);
+      if (larger <= 0 || larger < floor) return;
+      const ratio = h.mean > 0 ? u.mean / h.mean : Infinity;
+      if (ratio < options.unlabeledRatio && ratio > 1 / options.unlabeledRatio) return;
+      const interval = tInterval(u.samples.map((v, k) => v - h.samples[k]));
+      if (!(interval.lower > 0 || interval.upper < 0)) return;
+      const more = u.mean > h.mean;
+      findings.push({
+        kind: "sensitivity-unlabeled",
+        severity: action,
+        feature: h.name,
+        title: `On the unlabeled rows ${h.name} moves the candidate's predictions ${more ? "more" : "less"} than on the holdout (${formatNumber(u.mean)} against ${formatNumber(h.mean)}).`,
+        message: `Mean absolute change of the head model's output when ${h.name} takes reference values: ${formatNumber(u.mean)} on data.unlabeled, ${formatNumber(h.mean)} on the holdout (ratio ${formatNumber(ratio)}; the paired difference's 95% interval is [${formatNumber(interval.lower)}, ${formatNumber(interval.upper)}] over ${u.samples.length} values). The inputs the model meets now differ from those it was judged on, so the holdout score may not describe them.`,
+        evidence: {
+          unlabeledMean: u.mean,
+          holdoutMean: h.mean,
+          ratio: Number.isFinite(ratio) ? ratio : null,
+          differenceLower: interval.lower,
+          differenceUpper: interval.upper,
+          ...u.flipShare !== void 0 ? { unlabeledFlipShare: u.flipShare } : {},
+          ...h.flipShare !== void 0 ? { holdoutFlipShare: h.flipShare } : {}
+        }
+      });
+    });
+  }
+  return { findings, changes };
+}
+
+// src/core/statistics/sample-standard-deviation.ts
+function sampleStandardDeviation2(values) {
+  return values.length < 2 ? NaN : sampleStandardDeviation([...values]);
+}
+
+// src/core/checks/slice-findings.ts
+function checkSlices(slices, overall, touched, options) {
+  const action = options.action;
+  const findings = [];
+  const changes = /* @__PURE__ */ new Map();
+  if (action === "off") return { findings, changes };
+  const features = (units) => [...units.filter((u) => !u.isGroup)].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+  const overallSorted = features(overall);
+  const overallTop = overallSorted[0]?.name;
+  const overallTotal = overallSorted.reduce((s, u) => s + Math.max(0, u.mean), 0);
+  const compared = slices.filter((s) => s.base && s.head && s.base.scores.length >= 2 && s.head.scores.length >= 2);
+  const tests = compared.map((s) => {
+    const t = welchTTest(s.base.scores, s.head.scores);
+    const worsening = options.higherIsBetter ? t.meanDifference : -t.meanDifference;
+    const p = Number.isNaN(t.pValue) ? NaN : worsening > 0 ? t.pValue / 2 : 1 - t.pValue / 2;
+    return { t, worsening, p };
+  });
+  const adjusted = benjaminiHochberg(tests.map((t) => Number.isNaN(t.p) ? 1 : t.p));
+  compared.forEach((s, i) => {
+    const { t, worsening, p } = tests[i];
+    changes.set(s.name, { worsening, pValue: p, adjustedPValue: Number.isNaN(p) ? NaN : adjusted[i] });
+    if (Number.isNaN(p) || adjusted[i] > options.alpha || !(worsening > 0)) return;
+    const mean3 = (v) => v.reduce((a, b) => a + b, 0) / v.length;
+    findings.push({
+      kind: "slice-score",
+      severity: action,
+      feature: s.name,
+      title: `In the slice ${s.name} the holdout ${options.metric} got worse: ${formatNumber(mean3(s.base.scores))} → ${formatNumber(mean3(s.head.scores))}.`,
+      message: `On the ${s.headRows} holdout rows where ${s.definition}, the ${options.metric} of the head's refits is worse than the base's by ${formatNumber(worsening)} (one-sided Welch t = ${formatNumber(t.t)}, df ${formatNumber(t.df)}, p = ${formatNumber(p)}, Benjamini–Hochberg adjusted over ${compared.length} slices p = ${formatNumber(adjusted[i])}, against ${options.alpha}).`,
+      evidence: { slice: s.name, rows: s.headRows, worsening, welchT: t.t, welchDf: t.df, pValue: p, adjustedPValue: adjusted[i] }
+    });
+  });
+  for (const s of slices) {
+    if (s.status !== "measured") {
+      findings.push({
+        kind: "slice-too-small",
+        severity: "info",
+        feature: s.name,
+        title: `The slice ${s.name} was not judged: ${s.status === "too-small" ? `${s.headRows} holdout rows, fewer than ${options.minRows}` : `its ${s.headRows} holdout rows hold one class only`}.`,
+        message: `Slice ${s.name} (${s.definition}). ${s.status === "too-small" ? "A score and importances on so few rows would be mostly noise; lower checks.slices.min_rows or widen the filter." : "Scores and importances need rows of both classes."}`,
+        evidence: { slice: s.name, rows: s.headRows, minRows: options.minRows }
+      });
+      continue;
+    }
+    if (!s.head) continue;
+    const ranked = features(s.head.importances).filter((u) => !s.filterColumns.includes(u.name));
+    const total = ranked.reduce((sum2, u) => sum2 + Math.max(0, u.mean), 0);
+    const [top, runnerUp] = ranked;
+    if (!top || !(total > 0) || !top.isAboveFloor) continue;
+    const share = Math.max(0, top.mean) / total;
+    const ratio = runnerUp && runnerUp.mean > 0 ? top.mean / runnerUp.mean : Infinity;
+    const overallUnit = overallSorted.find((u) => u.name === top.name);
+    const overallShare = overallUnit && overallTotal > 0 ? Math.max(0, overallUnit.mean) / overallTotal : 0;
+    if (share >= options.dominanceShare && ratio >= options.runnerUpRatio && overallShare < options.dominanceShare) {
+      findings.push({
+        kind: "slice-dominance",
+        severity: touched.has(top.name) ? action : "info",
+        feature: top.name,
+        title: `Inside the slice ${s.name}, ${top.name} carries the model: ${formatPercent(share)} of the importance there, ${formatPercent(overallShare)} overall.`,
+        message: `On the ${s.headRows} holdout rows where ${s.definition}, ${top.name}'s importance is ${formatNumber(top.mean)} (${Number.isFinite(ratio) ? `${formatNumber(ratio)} times` : "far above"} the runner-up${runnerUp ? ` ${runnerUp.name}` : ""}). A feature that matters this much in one part of the data only can be a leak or a shortcut confined to it; check how it is computed there.`,
+        evidence: { slice: s.name, rows: s.headRows, share, runnerUpRatio: Number.isFinite(ratio) ? ratio : null, overallShare, touched: touched.has(top.name) }
+      });
+    } else if (top.name !== overallTop) {
+      findings.push({
+        kind: "slice-top-features",
+        severity: "info",
+        feature: top.name,
+        title: `Inside the slice ${s.name} the model leans most on ${top.name}; overall it leans most on ${overallTop}.`,
+        message: `On the ${s.headRows} holdout rows where ${s.definition} the head model's top feature is ${top.name} (importance ${formatNumber(top.mean)}); over the whole holdout it is ${overallTop}. Not a problem in itself: it says where the model works differently.`,
+        evidence: { slice: s.name, rows: s.headRows, importance: top.mean }
+      });
+    }
+  }
+  return { findings, changes };
 }
 
 // src/core/metrics/accuracy.ts
@@ -44054,14 +44795,282 @@ function defaultMetric2(task) {
   return task === "binary" ? "log-loss" : "rmse";
 }
 
-// src/core/statistics/sample-standard-deviation.ts
-function sampleStandardDeviation2(values) {
-  return values.length < 2 ? NaN : sampleStandardDeviation([...values]);
+// src/core/gate/judge-slices.ts
+function judgeSlices(inputs) {
+  const { settings } = inputs;
+  if (settings.policySlices.length === 0 || settings.checks.slices.action === "off") return { findings: [] };
+  const plan = (side2) => planSlices(settings.policySlices, inputs.sides[side2].holdout, side2, { task: settings.task, minRows: settings.checks.slices.minRows });
+  const basePlan = plan("base");
+  const headPlan = plan("head");
+  const measuredOn = (m) => new Map((m.slices ?? []).map((s) => [s.name, s]));
+  const baseMeasured = measuredOn(inputs.measured[0]);
+  const headMeasured = measuredOn(inputs.measured[1]);
+  const metric = metricByName(settings.metric, settings.task);
+  const sides = settings.policySlices.map((slice, i) => {
+    const head = headPlan[i];
+    const b = baseMeasured.get(slice.name);
+    const h = headMeasured.get(slice.name);
+    return {
+      name: slice.name,
+      definition: describeSliceFilter(slice.where),
+      filterColumns: sliceColumns(slice.where),
+      status: head.status === "no-column" ? "measured" : head.status,
+      headRows: head.status === "measured" ? head.rows.length : head.status === "no-column" ? 0 : head.rowCount,
+      ...b ? { base: b } : {},
+      ...h ? { head: h } : {}
+    };
+  });
+  const overall = inputs.measured[1].importances;
+  const judged = checkSlices(sides, overall, inputs.touched, {
+    ...settings.checks.slices,
+    metric: metric.name,
+    higherIsBetter: metric.higherIsBetter,
+    alpha: settings.checks.score.alpha,
+    dominanceShare: settings.checks.leakage.dominanceShare,
+    runnerUpRatio: settings.checks.leakage.runnerUpRatio
+  });
+  const rows = sides.map((s, i) => {
+    const base = basePlan[i];
+    const change = judged.changes.get(s.name);
+    return {
+      name: s.name,
+      definition: s.definition,
+      status: s.status,
+      rows: { base: base.status === "no-column" ? null : base.status === "measured" ? base.rows.length : base.rowCount, head: s.headRows },
+      ...baseMeasured.has(s.name) ? { base: summary2(baseMeasured.get(s.name), s.filterColumns) } : {},
+      ...headMeasured.has(s.name) ? { head: summary2(headMeasured.get(s.name), s.filterColumns) } : {},
+      ...change ? { scoreChange: change } : {}
+    };
+  });
+  return { findings: judged.findings, slices: rows };
+}
+function summary2(m, filterColumns) {
+  const features = m.importances.filter((u) => !u.isGroup && !filterColumns.includes(u.name)).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+  const total = features.reduce((s, u) => s + Math.max(0, u.mean), 0);
+  const top = (u) => ({ name: u.name, mean: u.mean, share: total > 0 ? Math.max(0, u.mean) / total : NaN, isAboveFloor: u.isAboveFloor });
+  return { rows: m.rows, scores: m.scores, scoreMean: m.scores.reduce((a, b) => a + b, 0) / m.scores.length, top: features.slice(0, 5).map(top) };
+}
+
+// src/core/gate/judge-views.ts
+function judgeViews(inputs) {
+  const [base, head] = inputs.measured;
+  const findings = [];
+  let sensitivity;
+  if (head.sensitivity) {
+    const baseSamples = base.sensitivity ? sideSamples(base.sensitivity) : void 0;
+    const headSamples = sideSamples(head.sensitivity);
+    const judged = checkSensitivity(baseSamples, headSamples, inputs.settings.checks.sensitivity);
+    findings.push(...judged.findings);
+    sensitivity = {
+      threshold: inputs.settings.task === "binary" ? 0.5 : null,
+      unlabeledRows: { base: base.sensitivity?.unlabeledRows ?? 0, head: head.sensitivity.unlabeledRows },
+      features: sensitivityRows(base.sensitivity, head.sensitivity, judged.changes)
+    };
+  }
+  let gain;
+  if (head.splitStatistics || base.splitStatistics) {
+    const headGain = meanGain(head.splitStatistics);
+    const importance = new Map(inputs.results.head.importances.filter((u) => !u.isGroup).map((u) => [u.name, u]));
+    const features = [...headGain.entries()].map(([name, g2]) => ({
+      name,
+      gain: g2.gain,
+      splits: g2.splits,
+      distinct: distinctValues(inputs.sides.head.train, name),
+      importance: importance.get(name)?.mean ?? 0,
+      isAboveFloor: importance.get(name)?.isAboveFloor ?? false
+    }));
+    findings.push(...checkGainNoise(features, inputs.touched, inputs.settings.checks.gain));
+    gain = { caution: gainCaution, features: gainRows(rankGain(meanGain(base.splitStatistics)), rankGain(headGain)) };
+  }
+  const sliced = judgeSlices(inputs);
+  findings.push(...sliced.findings);
+  const carried = checkGroupCarried(inputs.results.head.importances, inputs.touched, inputs.settings.checks.correlatedGroups);
+  const members2 = new Map(carried.flatMap((f) => inputs.results.head.importances.filter((u) => u.isGroup && u.name === f.evidence.group).flatMap((g2) => g2.members.map((m) => [m, g2.name]))));
+  findings.forEach((f, i) => {
+    if (f.kind === "sensitivity-shift" && f.feature !== void 0 && members2.has(f.feature)) {
+      findings[i] = { ...f, severity: "info", message: `${f.message} ${f.feature} is in the correlated group ${members2.get(f.feature)}, which carries it: the change is likely the group sharing the work.` };
+    }
+  });
+  findings.push(...carried);
+  const automatic = new Map(inputs.settings.automaticGroups.map((g2) => [g2.name, g2]));
+  const groups = inputs.settings.groups.map((g2) => ({ name: g2.name, members: g2.members, automatic: automatic.has(g2.name), weakestLink: automatic.get(g2.name)?.weakestLink ?? null }));
+  return {
+    findings,
+    ...sensitivity ? { sensitivity } : {},
+    ...gain ? { gain } : {},
+    ...sliced.slices ? { slices: sliced.slices } : {},
+    ...groups.length > 0 ? { groups } : {}
+  };
+}
+function sample(refits, index) {
+  const unit = refits[0][index];
+  const perRefit = refits.map((r) => r[index].mean);
+  const flips = refits.map((r) => r[index].flipShare);
+  return {
+    name: unit.name,
+    isGroup: unit.isGroup,
+    mean: average3(perRefit),
+    samples: refits.length >= 2 ? perRefit : unit.draws,
+    ...flips.every((f) => f !== void 0) ? { flipShare: average3(flips) } : {}
+  };
+}
+function sideSamples(s) {
+  return {
+    holdout: s.holdout[0].map((_, i) => sample(s.holdout, i)),
+    ...s.unlabeled && s.unlabeled.length > 0 ? { unlabeled: s.unlabeled[0].map((_, i) => sample(s.unlabeled, i)) } : {}
+  };
+}
+function value2(refits, index) {
+  const s = sample(refits, index);
+  const perRefit = refits.map((r) => r[index].mean);
+  return { mean: s.mean, refitSd: perRefit.length >= 2 ? sampleStandardDeviation2(perRefit) : NaN, flipShare: s.flipShare ?? null, perRefit };
+}
+function sensitivityRows(base, head, changes) {
+  const side2 = (s) => {
+    const out = /* @__PURE__ */ new Map();
+    if (!s || s.holdout.length === 0) return out;
+    s.holdout[0].forEach((unit, i) => {
+      out.set(`${unit.isGroup}:${unit.name}`, {
+        holdout: value2(s.holdout, i),
+        ...s.unlabeled && s.unlabeled.length > 0 ? { unlabeled: value2(s.unlabeled, i) } : {}
+      });
+    });
+    return out;
+  };
+  const b = side2(base);
+  const h = side2(head);
+  const units = [...head.holdout[0] ?? [], ...base?.holdout[0] ?? []];
+  const seen = /* @__PURE__ */ new Set();
+  const rows = units.filter((u) => {
+    const key2 = `${u.isGroup}:${u.name}`;
+    if (seen.has(key2)) return false;
+    seen.add(key2);
+    return true;
+  }).map((u) => {
+    const key2 = `${u.isGroup}:${u.name}`;
+    const change = b.has(key2) && h.has(key2) ? changes.get(u.name) : void 0;
+    return { name: u.name, isGroup: u.isGroup, ...b.has(key2) ? { base: b.get(key2) } : {}, ...h.has(key2) ? { head: h.get(key2) } : {}, ...change ? { change } : {} };
+  });
+  const order3 = (r) => r.head?.holdout.mean ?? -Infinity;
+  return rows.sort((x, y) => Number(x.isGroup) - Number(y.isGroup) || order3(y) - order3(x) || (x.base?.holdout.mean ?? 0) - (y.base?.holdout.mean ?? 0) || (x.name < y.name ? -1 : 1));
+}
+function meanGain(perRefit) {
+  const out = /* @__PURE__ */ new Map();
+  if (!perRefit || perRefit.length === 0) return out;
+  for (const refit of perRefit) {
+    for (const s of refit) {
+      const entry = out.get(s.feature) ?? { gain: 0, splits: 0 };
+      entry.gain += s.gain / perRefit.length;
+      entry.splits += s.splits / perRefit.length;
+      out.set(s.feature, entry);
+    }
+  }
+  return out;
+}
+function rankGain(gains) {
+  const total = [...gains.values()].reduce((s, g2) => s + Math.max(0, g2.gain), 0);
+  const sorted = [...gains.entries()].sort((a, b) => b[1].gain - a[1].gain || (a[0] < b[0] ? -1 : 1));
+  return new Map(sorted.map(([name, g2], i) => [name, { gain: g2.gain, splits: g2.splits, share: total > 0 ? Math.max(0, g2.gain) / total : NaN, rank: i + 1 }]));
+}
+function gainRows(base, head) {
+  const names = [.../* @__PURE__ */ new Set([...head.keys(), ...base.keys()])];
+  return names.map((name) => ({ name, ...base.has(name) ? { base: base.get(name) } : {}, ...head.has(name) ? { head: head.get(name) } : {} }));
+}
+function distinctValues(data, name) {
+  const j = data.features.findIndex((f) => f.name === name);
+  if (j < 0) return 0;
+  const seen = /* @__PURE__ */ new Set();
+  for (const v of data.columns[j]) if (!Number.isNaN(v)) seen.add(v);
+  return seen.size;
+}
+function average3(values) {
+  let s = 0;
+  for (const v of values) s += v;
+  return s / values.length;
+}
+
+// src/core/statistics/midranks.ts
+function midranks(values) {
+  const n = values.length;
+  const order3 = new Uint32Array(n);
+  for (let i = 0; i < n; i++) {
+    if (Number.isNaN(values[i])) throw new RangeError(`midranks cannot rank NaN (at index ${i})`);
+    order3[i] = i;
+  }
+  order3.sort((i, j) => values[i] < values[j] ? -1 : values[i] > values[j] ? 1 : 0);
+  const ranks = new Float64Array(n);
+  for (let start = 0; start < n; ) {
+    let end = start;
+    while (end + 1 < n && values[order3[end + 1]] === values[order3[start]]) end++;
+    const rank = (start + end) / 2 + 1;
+    for (let k = start; k <= end; k++) ranks[order3[k]] = rank;
+    start = end + 1;
+  }
+  return ranks;
+}
+
+// src/core/statistics/spearman-rho.ts
+function spearmanRho(x, y) {
+  if (x.length !== y.length) {
+    throw new RangeError(`spearmanRho needs paired samples, got ${x.length} and ${y.length} values`);
+  }
+  if (x.length < 2) return NaN;
+  for (let i = 0; i < x.length; i++) if (Number.isNaN(x[i]) || Number.isNaN(y[i])) return NaN;
+  const rho = sampleCorrelation(Array.from(midranks(x)), Array.from(midranks(y)));
+  return Math.max(-1, Math.min(1, rho));
+}
+
+// src/core/importance/correlated-groups.ts
+function correlatedGroups(data, options) {
+  const numeric = data.features.map((f, j) => ({ name: f.name, j, kind: f.kind })).filter((f) => f.kind === "numeric");
+  const rows = data.rows <= options.maxRows ? null : shuffledIndices(data.rows, createRandom(options.seed)).slice(0, options.maxRows).sort();
+  const column = (j) => rows ? Float64Array.from(rows, (i) => data.columns[j][i]) : data.columns[j];
+  const columns = numeric.map((f) => column(f.j));
+  const parent = numeric.map((_, k) => k);
+  const find = (k) => parent[k] === k ? k : parent[k] = find(parent[k]);
+  const weakest = /* @__PURE__ */ new Map();
+  for (let a = 0; a < numeric.length; a++) {
+    for (let b = a + 1; b < numeric.length; b++) {
+      const x = [];
+      const y = [];
+      for (let i = 0; i < columns[a].length; i++) {
+        if (!Number.isNaN(columns[a][i]) && !Number.isNaN(columns[b][i])) {
+          x.push(columns[a][i]);
+          y.push(columns[b][i]);
+        }
+      }
+      if (x.length < 3) continue;
+      const rho = Math.abs(spearmanRho(x, y));
+      if (!(rho >= options.threshold)) continue;
+      const ra = find(a);
+      const rb2 = find(b);
+      if (ra === rb2) continue;
+      parent[rb2] = ra;
+      weakest.set(ra, Math.min(rho, weakest.get(ra) ?? 1, weakest.get(rb2) ?? 1));
+    }
+  }
+  const clusters = /* @__PURE__ */ new Map();
+  numeric.forEach((_, k) => clusters.set(find(k), [...clusters.get(find(k)) ?? [], k]));
+  return [...clusters.entries()].filter(([, members2]) => members2.length > 1).map(([root2, members2]) => ({ name: members2.map((k) => numeric[k].name).join(" ~ "), members: members2.map((k) => numeric[k].name), weakestLink: weakest.get(root2) }));
+}
+
+// src/core/gate/with-correlated-groups.ts
+function withCorrelatedGroups(settings, headTrain) {
+  if (settings.checks.correlatedGroups.action === "off") return settings;
+  const taken = /* @__PURE__ */ new Set([...headTrain.features.map((f) => f.name), ...settings.groups.map((g2) => g2.name)]);
+  const explicit = new Set(settings.groups.map((g2) => [...g2.members].sort().join("\0")));
+  const automatic = correlatedGroups(headTrain, {
+    threshold: settings.groupThreshold,
+    maxRows: fixedSettings.correlationRows,
+    seed: deriveSeed(settings.seed, "correlated-groups")
+  }).filter((g2) => !taken.has(g2.name) && !explicit.has([...g2.members].sort().join("\0")));
+  if (automatic.length === 0) return settings;
+  return { ...settings, groups: [...settings.groups, ...automatic.map((g2) => ({ name: g2.name, members: g2.members }))], automaticGroups: automatic };
 }
 
 // src/core/report/assemble-report.ts
 function assembleReport(parts) {
-  const { settings, metric, findings } = parts;
+  const { settings, metric, views, findings } = parts;
   const [base, head] = parts.measured;
   const verdict = decideVerdict(findings);
   return {
@@ -44087,6 +45096,10 @@ function assembleReport(parts) {
       checks: settings.evidence
     },
     timings: { ...parts.timings },
+    ...views?.sensitivity ? { sensitivity: views.sensitivity } : {},
+    ...views?.gain ? { gain: views.gain } : {},
+    ...views?.groups ? { groups: views.groups } : {},
+    ...views?.slices ? { slices: views.slices } : {},
     caution: reportCaution
   };
 }
@@ -44173,7 +45186,7 @@ function describeModel2(model) {
 
 // src/core/run-gate.ts
 async function runGate(inputs) {
-  const settings = gateSettings(inputs.config);
+  const settings = withCorrelatedGroups(gateSettings(inputs.config), inputs.head.train);
   const metric = metricByName(settings.metric, settings.task);
   const stopwatch = createStopwatch(inputs.now);
   const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } };
@@ -44192,7 +45205,9 @@ async function runGate(inputs) {
     base: sideResult("base", sides.base, measured[0], single.base),
     head: sideResult("head", sides.head, measured[1], single.head)
   };
+  const views = judgeViews({ settings, sides, measured, results, touched: /* @__PURE__ */ new Set([...featureSet.added, ...changed]) });
   const checked = runChecks({
+    viewFindings: views.findings,
     settings,
     metric,
     holdouts: { base: sides.base.holdout, head: sides.head.holdout },
@@ -44213,12 +45228,10 @@ async function runGate(inputs) {
     results,
     featureSet,
     ...checked,
+    views,
     timings: stopwatch.timings
   });
 }
-
-// src/adapters/files/read-dataset.ts
-import { resolve as resolve2 } from "node:path";
 
 // src/adapters/files/confined-file.ts
 import { constants } from "node:fs";
@@ -44350,6 +45363,7 @@ async function resolveConfinedOutput(target, options) {
 }
 
 // src/adapters/files/read-dataset.ts
+import { resolve as resolve2 } from "node:path";
 async function readDataset(path, options = {}) {
   const { cwd = process.cwd(), source = path, key: key2, rootName, ...parseOptions } = options;
   const problem = (what) => options.source === void 0 ? new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, "Check the path: a relative path is read from that directory.") : new UserError(
@@ -44373,6 +45387,8380 @@ async function readDataset(path, options = {}) {
   return parseCsv(bytes.toString("utf8"), { ...parseOptions, source });
 }
 
+// src/adapters/files/read-parquet-dataset.ts
+import { readFile, realpath as realpath2 } from "node:fs/promises";
+import { isAbsolute as isAbsolute2, relative as relative2, resolve as resolve4 } from "node:path";
+
+// node_modules/hyparquet/src/constants.js
+var ParquetTypes = [
+  "BOOLEAN",
+  "INT32",
+  "INT64",
+  "INT96",
+  // deprecated
+  "FLOAT",
+  "DOUBLE",
+  "BYTE_ARRAY",
+  "FIXED_LEN_BYTE_ARRAY"
+];
+var Encodings = [
+  "PLAIN",
+  "GROUP_VAR_INT",
+  // deprecated
+  "PLAIN_DICTIONARY",
+  "RLE",
+  "BIT_PACKED",
+  // deprecated
+  "DELTA_BINARY_PACKED",
+  "DELTA_LENGTH_BYTE_ARRAY",
+  "DELTA_BYTE_ARRAY",
+  "RLE_DICTIONARY",
+  "BYTE_STREAM_SPLIT"
+];
+var FieldRepetitionTypes = [
+  "REQUIRED",
+  "OPTIONAL",
+  "REPEATED"
+];
+var ConvertedTypes = [
+  "UTF8",
+  "MAP",
+  "MAP_KEY_VALUE",
+  "LIST",
+  "ENUM",
+  "DECIMAL",
+  "DATE",
+  "TIME_MILLIS",
+  "TIME_MICROS",
+  "TIMESTAMP_MILLIS",
+  "TIMESTAMP_MICROS",
+  "UINT_8",
+  "UINT_16",
+  "UINT_32",
+  "UINT_64",
+  "INT_8",
+  "INT_16",
+  "INT_32",
+  "INT_64",
+  "JSON",
+  "BSON",
+  "INTERVAL"
+];
+var CompressionCodecs = [
+  "UNCOMPRESSED",
+  "SNAPPY",
+  "GZIP",
+  "LZO",
+  "BROTLI",
+  "LZ4",
+  "ZSTD",
+  "LZ4_RAW"
+];
+var PageTypes = [
+  "DATA_PAGE",
+  "INDEX_PAGE",
+  "DICTIONARY_PAGE",
+  "DATA_PAGE_V2"
+];
+var BoundaryOrders = [
+  "UNORDERED",
+  "ASCENDING",
+  "DESCENDING"
+];
+var EdgeInterpolationAlgorithms = [
+  "SPHERICAL",
+  "VINCENTY",
+  "THOMAS",
+  "ANDOYER",
+  "KARNEY"
+];
+
+// node_modules/hyparquet/src/wkb.js
+function wkbToGeojson(reader) {
+  const flags = getFlags(reader);
+  if (flags.type === 1) {
+    return { type: "Point", coordinates: readPosition(reader, flags) };
+  } else if (flags.type === 2) {
+    return { type: "LineString", coordinates: readLine(reader, flags) };
+  } else if (flags.type === 3) {
+    return { type: "Polygon", coordinates: readPolygon(reader, flags) };
+  } else if (flags.type === 4) {
+    const points = [];
+    for (let i = 0; i < flags.count; i++) {
+      points.push(readPosition(reader, getFlags(reader)));
+    }
+    return { type: "MultiPoint", coordinates: points };
+  } else if (flags.type === 5) {
+    const lines = [];
+    for (let i = 0; i < flags.count; i++) {
+      lines.push(readLine(reader, getFlags(reader)));
+    }
+    return { type: "MultiLineString", coordinates: lines };
+  } else if (flags.type === 6) {
+    const polygons = [];
+    for (let i = 0; i < flags.count; i++) {
+      polygons.push(readPolygon(reader, getFlags(reader)));
+    }
+    return { type: "MultiPolygon", coordinates: polygons };
+  } else if (flags.type === 7) {
+    const geometries = [];
+    for (let i = 0; i < flags.count; i++) {
+      geometries.push(wkbToGeojson(reader));
+    }
+    return { type: "GeometryCollection", geometries };
+  } else {
+    throw new Error(`Unsupported geometry type: ${flags.type}`);
+  }
+}
+function getFlags(reader) {
+  const { view } = reader;
+  const littleEndian = view.getUint8(reader.offset++) === 1;
+  const rawType = view.getUint32(reader.offset, littleEndian);
+  reader.offset += 4;
+  const type = rawType % 1e3;
+  const flags = Math.floor(rawType / 1e3);
+  let count4 = 0;
+  if (type > 1 && type <= 7) {
+    count4 = view.getUint32(reader.offset, littleEndian);
+    reader.offset += 4;
+  }
+  let dim = 2;
+  if (flags) dim++;
+  if (flags === 3) dim++;
+  return { littleEndian, type, dim, count: count4 };
+}
+function readPosition(reader, flags) {
+  const points = [];
+  for (let i = 0; i < flags.dim; i++) {
+    const coord = reader.view.getFloat64(reader.offset, flags.littleEndian);
+    reader.offset += 8;
+    points.push(coord);
+  }
+  return points;
+}
+function readLine(reader, flags) {
+  const points = [];
+  for (let i = 0; i < flags.count; i++) {
+    points.push(readPosition(reader, flags));
+  }
+  return points;
+}
+function readPolygon(reader, flags) {
+  const { view } = reader;
+  const rings = [];
+  for (let r = 0; r < flags.count; r++) {
+    const count4 = view.getUint32(reader.offset, flags.littleEndian);
+    reader.offset += 4;
+    rings.push(readLine(reader, { ...flags, count: count4 }));
+  }
+  return rings;
+}
+
+// node_modules/hyparquet/src/convert.js
+var decoder = new TextDecoder();
+var DEFAULT_PARSERS = {
+  timestampFromMilliseconds(millis) {
+    return new Date(Number(millis));
+  },
+  timestampFromMicroseconds(micros) {
+    return new Date(Number(micros / 1000n));
+  },
+  timestampFromNanoseconds(nanos) {
+    return new Date(Number(nanos / 1000000n));
+  },
+  dateFromDays(days) {
+    return new Date(days * 864e5);
+  },
+  stringFromBytes(bytes) {
+    return bytes && decoder.decode(bytes);
+  },
+  jsonFromBytes(bytes) {
+    return bytes && JSON.parse(decoder.decode(bytes));
+  },
+  geometryFromBytes(bytes) {
+    return bytes && wkbToGeojson({ view: new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength), offset: 0 });
+  },
+  geographyFromBytes(bytes) {
+    return bytes && wkbToGeojson({ view: new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength), offset: 0 });
+  },
+  uuidFromBytes(bytes) {
+    if (!bytes) return void 0;
+    const hex3 = Array.from(bytes, (b) => b.toString(16).padStart(2, "0")).join("");
+    return hex3.slice(0, 8) + "-" + hex3.slice(8, 12) + "-" + hex3.slice(12, 16) + "-" + hex3.slice(16, 20) + "-" + hex3.slice(20, 32);
+  }
+};
+function convertWithDictionary(data, dictionary2, encoding, columnDecoder) {
+  if (dictionary2 && encoding.endsWith("_DICTIONARY")) {
+    let output2 = data;
+    if (data instanceof Uint8Array && !(dictionary2 instanceof Uint8Array)) {
+      output2 = new dictionary2.constructor(data.length);
+    }
+    for (let i = 0; i < data.length; i++) {
+      output2[i] = dictionary2[data[i]];
+    }
+    return output2;
+  } else {
+    return convert(data, columnDecoder);
+  }
+}
+function convert(data, columnDecoder) {
+  const { element, parsers, utf8 = true, schemaPath } = columnDecoder;
+  const { type, converted_type: ctype, logical_type: ltype } = element;
+  const nullable2 = element.repetition_type !== "REQUIRED";
+  const isVariant = schemaPath?.some((s) => s.element.logical_type?.type === "VARIANT");
+  if (isVariant && type === "BYTE_ARRAY" && ctype !== "UTF8" && ltype?.type !== "STRING") {
+    return data;
+  }
+  if (ctype === "DECIMAL") {
+    const scale = element.scale || 0;
+    const factor = 10 ** -scale;
+    const arr = new Array(data.length);
+    for (let i = 0; i < arr.length; i++) {
+      if (data[i] instanceof Uint8Array) {
+        arr[i] = parseDecimal(data[i]) * factor;
+      } else {
+        arr[i] = Number(data[i]) * factor;
+      }
+    }
+    return arr;
+  }
+  if (!ctype && type === "INT96") {
+    return Array.from(data).map((v) => parsers.timestampFromNanoseconds(parseInt96Nanos(v)));
+  }
+  if (ctype === "DATE") {
+    return Array.from(data).map((v) => parsers.dateFromDays(v));
+  }
+  if (ctype === "TIMESTAMP_MILLIS") {
+    return Array.from(data).map((v) => parsers.timestampFromMilliseconds(v));
+  }
+  if (ctype === "TIMESTAMP_MICROS") {
+    return Array.from(data).map((v) => parsers.timestampFromMicroseconds(v));
+  }
+  if (ctype === "JSON") {
+    return data.map((v) => parsers.jsonFromBytes(v));
+  }
+  if (ctype === "BSON") {
+    throw new Error("parquet bson not supported");
+  }
+  if (ctype === "INTERVAL") {
+    throw new Error("parquet interval not supported");
+  }
+  if (ltype?.type === "GEOMETRY") {
+    return data.map((v) => parsers.geometryFromBytes(v));
+  }
+  if (ltype?.type === "GEOGRAPHY") {
+    return data.map((v) => parsers.geographyFromBytes(v));
+  }
+  if (ltype?.type === "UUID") {
+    return data.map((v) => parsers.uuidFromBytes(v));
+  }
+  if (ctype === "UTF8" || ltype?.type === "STRING" || utf8 && type === "BYTE_ARRAY") {
+    return data.map((v) => parsers.stringFromBytes(v));
+  }
+  if (ctype === "UINT_64" || ltype?.type === "INTEGER" && ltype.bitWidth === 64 && !ltype.isSigned) {
+    if (data instanceof BigInt64Array) return new BigUint64Array(data.buffer, data.byteOffset, data.length);
+    const arr = nullable2 ? new Array(data.length) : new BigUint64Array(data.length);
+    for (let i = 0; i < arr.length; i++) arr[i] = data[i];
+    return arr;
+  }
+  if (ctype === "UINT_32" || ltype?.type === "INTEGER" && ltype.bitWidth === 32 && !ltype.isSigned) {
+    if (data instanceof Int32Array) return new Uint32Array(data.buffer, data.byteOffset, data.length);
+    const arr = nullable2 ? new Array(data.length) : new Uint32Array(data.length);
+    for (let i = 0; i < arr.length; i++) {
+      arr[i] = data[i] < 0 ? 4294967296 + data[i] : data[i];
+    }
+    return arr;
+  }
+  if (ltype?.type === "FLOAT16") {
+    return Array.from(data).map(parseFloat16);
+  }
+  if (ltype?.type === "TIMESTAMP") {
+    const { unit } = ltype;
+    let parser = parsers.timestampFromMilliseconds;
+    if (unit === "MICROS") parser = parsers.timestampFromMicroseconds;
+    if (unit === "NANOS") parser = parsers.timestampFromNanoseconds;
+    const arr = new Array(data.length);
+    for (let i = 0; i < arr.length; i++) {
+      arr[i] = parser(data[i]);
+    }
+    return arr;
+  }
+  return data;
+}
+function parseDecimal(bytes) {
+  if (!bytes.length) return 0;
+  let value3 = 0n;
+  for (const byte of bytes) {
+    value3 = value3 * 256n + BigInt(byte);
+  }
+  const bits2 = bytes.length * 8;
+  if (value3 >= 2n ** BigInt(bits2 - 1)) {
+    value3 -= 2n ** BigInt(bits2);
+  }
+  return Number(value3);
+}
+function parseInt96Nanos(value3) {
+  const days = (value3 >> 64n) - 2440588n;
+  const nano = value3 & 0xffffffffffffffffn;
+  return days * 86400000000000n + nano;
+}
+function parseFloat16(bytes) {
+  if (!bytes) return void 0;
+  const int16 = bytes[1] << 8 | bytes[0];
+  const sign = int16 >> 15 ? -1 : 1;
+  const exp = int16 >> 10 & 31;
+  const frac = int16 & 1023;
+  if (exp === 0) return sign * 2 ** -14 * (frac / 1024);
+  if (exp === 31) return frac ? NaN : sign * Infinity;
+  return sign * 2 ** (exp - 15) * (1 + frac / 1024);
+}
+
+// node_modules/hyparquet/src/schema.js
+function schemaTree(schema, rootIndex, path) {
+  const element = schema[rootIndex];
+  const children = [];
+  let count4 = 1;
+  if (element.num_children) {
+    while (children.length < element.num_children) {
+      const childElement = schema[rootIndex + count4];
+      const child2 = schemaTree(schema, rootIndex + count4, [...path, childElement.name]);
+      count4 += child2.count;
+      children.push(child2);
+    }
+  }
+  return { count: count4, element, children, path };
+}
+function getSchemaPath(schema, name) {
+  return getTreePath(schemaTree(schema, 0, []), name);
+}
+function getTreePath(tree, name) {
+  const path = [tree];
+  for (const part of name) {
+    const child2 = tree.children.find((child3) => child3.element.name === part);
+    if (!child2) throw new Error(`parquet schema element not found: ${name}`);
+    path.push(child2);
+    tree = child2;
+  }
+  return path;
+}
+function getPhysicalColumns(schemaTree2) {
+  const columns = [];
+  function traverse(node2) {
+    if (node2.children.length) {
+      for (const child2 of node2.children) {
+        traverse(child2);
+      }
+    } else {
+      columns.push(node2.path.join("."));
+    }
+  }
+  traverse(schemaTree2);
+  return columns;
+}
+function getMaxRepetitionLevel(schemaPath) {
+  let maxLevel = 0;
+  for (const { element } of schemaPath) {
+    if (element.repetition_type === "REPEATED") {
+      maxLevel++;
+    }
+  }
+  return maxLevel;
+}
+function getMaxDefinitionLevel(schemaPath) {
+  let maxLevel = 0;
+  for (const { element } of schemaPath.slice(1)) {
+    if (element.repetition_type !== "REQUIRED") {
+      maxLevel++;
+    }
+  }
+  return maxLevel;
+}
+function isListLike(schema) {
+  if (!schema) return false;
+  if (schema.element.converted_type !== "LIST") return false;
+  if (schema.children.length > 1) return false;
+  const firstChild = schema.children[0];
+  if (firstChild.children.length > 1) return false;
+  if (firstChild.element.repetition_type !== "REPEATED") return false;
+  return true;
+}
+function isMapLike(schema) {
+  if (!schema) return false;
+  if (schema.element.converted_type !== "MAP") return false;
+  if (schema.children.length > 1) return false;
+  const firstChild = schema.children[0];
+  if (firstChild.children.length !== 2) return false;
+  if (firstChild.element.repetition_type !== "REPEATED") return false;
+  const keyChild = firstChild.children.find((child2) => child2.element.name === "key");
+  if (keyChild?.element.repetition_type === "REPEATED") return false;
+  const valueChild = firstChild.children.find((child2) => child2.element.name === "value");
+  if (valueChild?.element.repetition_type === "REPEATED") return false;
+  return true;
+}
+function isFlatColumn(schemaPath) {
+  if (schemaPath.length !== 2) return false;
+  const [, column] = schemaPath;
+  if (column.element.repetition_type === "REPEATED") return false;
+  if (column.children.length) return false;
+  return true;
+}
+
+// node_modules/hyparquet/src/thrift.js
+var STOP = 0;
+var TRUE = 1;
+var FALSE = 2;
+var BYTE = 3;
+var I16 = 4;
+var I32 = 5;
+var I64 = 6;
+var DOUBLE = 7;
+var BINARY = 8;
+var LIST = 9;
+var STRUCT = 12;
+function deserializeTCompactProtocol(reader) {
+  const value3 = {};
+  let fid = 0;
+  while (true) {
+    if (reader.offset >= reader.view.byteLength) throw new Error("thrift struct ended without STOP");
+    const byte = reader.view.getUint8(reader.offset++);
+    const type = byte & 15;
+    if (type === STOP) break;
+    const delta = byte >> 4;
+    fid = delta ? fid + delta : readZigZag(reader);
+    value3[`field_${fid}`] = readElement(reader, type);
+  }
+  return value3;
+}
+function readElement(reader, type) {
+  switch (type) {
+    case TRUE:
+      return true;
+    case FALSE:
+      return false;
+    case BYTE:
+      return reader.view.getInt8(reader.offset++);
+    case I16:
+    case I32:
+      return readZigZag(reader);
+    case I64:
+      return readZigZagBigInt(reader);
+    case DOUBLE: {
+      const value3 = reader.view.getFloat64(reader.offset, true);
+      reader.offset += 8;
+      return value3;
+    }
+    case BINARY: {
+      const stringLength = readVarInt(reader);
+      if (reader.offset + stringLength > reader.view.byteLength) {
+        throw new Error(`thrift binary length ${stringLength} exceeds remaining ${reader.view.byteLength - reader.offset} bytes`);
+      }
+      const strBytes = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, stringLength);
+      reader.offset += stringLength;
+      return strBytes;
+    }
+    case LIST: {
+      const byte = reader.view.getUint8(reader.offset++);
+      const elemType = byte & 15;
+      let listSize = byte >> 4;
+      if (listSize === 15) {
+        listSize = readVarInt(reader);
+      }
+      const boolType = elemType === TRUE || elemType === FALSE;
+      const values = new Array(listSize);
+      for (let i = 0; i < listSize; i++) {
+        values[i] = boolType ? readElement(reader, BYTE) === 1 : readElement(reader, elemType);
+      }
+      return values;
+    }
+    case STRUCT:
+      return deserializeTCompactProtocol(reader);
+    default:
+      throw new Error(`thrift unhandled type: ${type}`);
+  }
+}
+function readVarInt(reader) {
+  let result = 0;
+  let shift = 0;
+  while (true) {
+    const byte = reader.view.getUint8(reader.offset++);
+    result |= (byte & 127) << shift;
+    if (!(byte & 128)) {
+      return result;
+    }
+    shift += 7;
+  }
+}
+function readVarBigInt(reader) {
+  let result = 0n;
+  let shift = 0n;
+  while (true) {
+    const byte = reader.view.getUint8(reader.offset++);
+    result |= BigInt(byte & 127) << shift;
+    if (!(byte & 128)) {
+      return result;
+    }
+    shift += 7n;
+  }
+}
+function readZigZag(reader) {
+  const zigzag = readVarInt(reader);
+  return zigzag >>> 1 ^ -(zigzag & 1);
+}
+function readZigZagBigInt(reader) {
+  const zigzag = readVarBigInt(reader);
+  return zigzag >> 1n ^ -(zigzag & 1n);
+}
+
+// node_modules/hyparquet/src/geoparquet.js
+function markGeoColumns(schema, key_value_metadata) {
+  const columns = /* @__PURE__ */ new Map();
+  const geo = key_value_metadata?.find(({ key: key2 }) => key2 === "geo")?.value;
+  const decodedColumns = (geo && JSON.parse(geo)?.columns) ?? {};
+  for (const [name, column] of Object.entries(decodedColumns)) {
+    if (column.encoding !== "WKB") continue;
+    const type = column.edges === "spherical" ? "GEOGRAPHY" : "GEOMETRY";
+    const id = column.crs?.id ?? column.crs?.ids?.[0];
+    const crs = id ? `${id.authority}:${id.code.toString()}` : void 0;
+    columns.set(name, { type, crs });
+  }
+  for (let i = 1; i < schema.length; i++) {
+    const { logical_type, name, num_children, type } = schema[i];
+    if (num_children) {
+      i += num_children;
+      continue;
+    }
+    if (type === "BYTE_ARRAY" && !logical_type) {
+      schema[i].logical_type = columns.get(name);
+    }
+  }
+}
+
+// node_modules/hyparquet/src/metadata.js
+var defaultInitialFetchSize = 1 << 19;
+var decoder2 = new TextDecoder();
+function decode3(value3) {
+  return value3 && decoder2.decode(value3);
+}
+async function parquetMetadataAsync(asyncBuffer, { parsers, initialFetchSize = defaultInitialFetchSize, geoparquet = true } = {}) {
+  if (!asyncBuffer || !(asyncBuffer.byteLength >= 0)) throw new Error("parquet expected AsyncBuffer");
+  const footerOffset = Math.max(0, asyncBuffer.byteLength - initialFetchSize);
+  const footerBuffer = await asyncBuffer.slice(footerOffset, asyncBuffer.byteLength);
+  const footerView = new DataView(footerBuffer);
+  if (footerView.getUint32(footerBuffer.byteLength - 4, true) !== 827474256) {
+    throw new Error("parquet file invalid (footer != PAR1)");
+  }
+  const metadataLength = footerView.getUint32(footerBuffer.byteLength - 8, true);
+  if (metadataLength > asyncBuffer.byteLength - 8) {
+    throw new Error(`parquet metadata length ${metadataLength} exceeds available buffer ${asyncBuffer.byteLength - 8}`);
+  }
+  if (metadataLength + 8 > initialFetchSize) {
+    const metadataOffset = asyncBuffer.byteLength - metadataLength - 8;
+    const metadataBuffer = await asyncBuffer.slice(metadataOffset, footerOffset);
+    const combinedBuffer = new ArrayBuffer(metadataLength + 8);
+    const combinedView = new Uint8Array(combinedBuffer);
+    combinedView.set(new Uint8Array(metadataBuffer));
+    combinedView.set(new Uint8Array(footerBuffer), footerOffset - metadataOffset);
+    return parquetMetadata(combinedBuffer, { parsers, geoparquet });
+  } else {
+    return parquetMetadata(footerBuffer, { parsers, geoparquet });
+  }
+}
+function parquetMetadata(arrayBuffer, { parsers, geoparquet = true } = {}) {
+  let view;
+  if (arrayBuffer instanceof ArrayBuffer) {
+    view = new DataView(arrayBuffer);
+  } else if (arrayBuffer instanceof Uint8Array) {
+    view = new DataView(arrayBuffer.buffer, arrayBuffer.byteOffset, arrayBuffer.byteLength);
+  } else {
+    throw new Error("parquet expected ArrayBuffer or Uint8Array");
+  }
+  const allParsers = { ...DEFAULT_PARSERS, ...parsers };
+  if (view.byteLength < 8) {
+    throw new Error("parquet file is too short");
+  }
+  if (view.getUint32(view.byteLength - 4, true) !== 827474256) {
+    throw new Error("parquet file invalid (footer != PAR1)");
+  }
+  const metadataLengthOffset = view.byteLength - 8;
+  const metadataLength = view.getUint32(metadataLengthOffset, true);
+  if (metadataLength > view.byteLength - 8) {
+    throw new Error(`parquet metadata length ${metadataLength} exceeds available buffer ${view.byteLength - 8}`);
+  }
+  const metadataOffset = metadataLengthOffset - metadataLength;
+  const reader = { view, offset: metadataOffset };
+  const metadata = deserializeTCompactProtocol(reader);
+  const version2 = metadata.field_1;
+  const schema = metadata.field_2.map((field) => ({
+    type: ParquetTypes[field.field_1],
+    type_length: field.field_2,
+    repetition_type: FieldRepetitionTypes[field.field_3],
+    name: decode3(field.field_4),
+    num_children: field.field_5,
+    converted_type: ConvertedTypes[field.field_6],
+    scale: field.field_7,
+    precision: field.field_8,
+    field_id: field.field_9,
+    logical_type: logicalType(field.field_10)
+  }));
+  const columnSchema = schema.filter((e2) => e2.type);
+  const num_rows = metadata.field_3;
+  const row_groups = metadata.field_4.map((rowGroup) => ({
+    columns: rowGroup.field_1.map((column, columnIndex) => ({
+      file_path: decode3(column.field_1),
+      file_offset: column.field_2,
+      meta_data: column.field_3 && {
+        type: ParquetTypes[column.field_3.field_1],
+        encodings: column.field_3.field_2?.map((e2) => Encodings[e2]),
+        path_in_schema: column.field_3.field_3.map(decode3),
+        codec: CompressionCodecs[column.field_3.field_4],
+        num_values: column.field_3.field_5,
+        total_uncompressed_size: column.field_3.field_6,
+        total_compressed_size: column.field_3.field_7,
+        key_value_metadata: column.field_3.field_8?.map((kv) => ({
+          key: decode3(kv.field_1),
+          value: decode3(kv.field_2)
+        })),
+        data_page_offset: column.field_3.field_9,
+        index_page_offset: column.field_3.field_10,
+        dictionary_page_offset: column.field_3.field_11,
+        statistics: convertStats(column.field_3.field_12, columnSchema[columnIndex], allParsers),
+        encoding_stats: column.field_3.field_13?.map((encodingStat) => ({
+          page_type: PageTypes[encodingStat.field_1],
+          encoding: Encodings[encodingStat.field_2],
+          count: encodingStat.field_3
+        })),
+        bloom_filter_offset: column.field_3.field_14,
+        bloom_filter_length: column.field_3.field_15,
+        size_statistics: column.field_3.field_16 && {
+          unencoded_byte_array_data_bytes: column.field_3.field_16.field_1,
+          repetition_level_histogram: column.field_3.field_16.field_2,
+          definition_level_histogram: column.field_3.field_16.field_3
+        },
+        geospatial_statistics: column.field_3.field_17 && {
+          bbox: column.field_3.field_17.field_1 && {
+            xmin: column.field_3.field_17.field_1.field_1,
+            xmax: column.field_3.field_17.field_1.field_2,
+            ymin: column.field_3.field_17.field_1.field_3,
+            ymax: column.field_3.field_17.field_1.field_4,
+            zmin: column.field_3.field_17.field_1.field_5,
+            zmax: column.field_3.field_17.field_1.field_6,
+            mmin: column.field_3.field_17.field_1.field_7,
+            mmax: column.field_3.field_17.field_1.field_8
+          },
+          geospatial_types: column.field_3.field_17.field_2
+        }
+      },
+      offset_index_offset: column.field_4,
+      offset_index_length: column.field_5,
+      column_index_offset: column.field_6,
+      column_index_length: column.field_7,
+      crypto_metadata: column.field_8,
+      encrypted_column_metadata: column.field_9
+    })),
+    total_byte_size: rowGroup.field_2,
+    num_rows: rowGroup.field_3,
+    sorting_columns: rowGroup.field_4?.map((sortingColumn) => ({
+      column_idx: sortingColumn.field_1,
+      descending: sortingColumn.field_2,
+      nulls_first: sortingColumn.field_3
+    })),
+    file_offset: rowGroup.field_5,
+    total_compressed_size: rowGroup.field_6,
+    ordinal: rowGroup.field_7
+  }));
+  const key_value_metadata = metadata.field_5?.map((kv) => ({
+    key: decode3(kv.field_1),
+    value: decode3(kv.field_2)
+  }));
+  const created_by = decode3(metadata.field_6);
+  if (geoparquet) {
+    markGeoColumns(schema, key_value_metadata);
+  }
+  return {
+    version: version2,
+    schema,
+    num_rows,
+    row_groups,
+    key_value_metadata,
+    created_by,
+    metadata_length: metadataLength
+  };
+}
+function parquetSchema({ schema }) {
+  return getSchemaPath(schema, [])[0];
+}
+function logicalType(logicalType2) {
+  if (logicalType2?.field_1) return { type: "STRING" };
+  if (logicalType2?.field_2) return { type: "MAP" };
+  if (logicalType2?.field_3) return { type: "LIST" };
+  if (logicalType2?.field_4) return { type: "ENUM" };
+  if (logicalType2?.field_5) return {
+    type: "DECIMAL",
+    scale: logicalType2.field_5.field_1,
+    precision: logicalType2.field_5.field_2
+  };
+  if (logicalType2?.field_6) return { type: "DATE" };
+  if (logicalType2?.field_7) return {
+    type: "TIME",
+    isAdjustedToUTC: logicalType2.field_7.field_1,
+    unit: timeUnit(logicalType2.field_7.field_2)
+  };
+  if (logicalType2?.field_8) return {
+    type: "TIMESTAMP",
+    isAdjustedToUTC: logicalType2.field_8.field_1,
+    unit: timeUnit(logicalType2.field_8.field_2)
+  };
+  if (logicalType2?.field_10) return {
+    type: "INTEGER",
+    bitWidth: logicalType2.field_10.field_1,
+    isSigned: logicalType2.field_10.field_2
+  };
+  if (logicalType2?.field_11) return { type: "NULL" };
+  if (logicalType2?.field_12) return { type: "JSON" };
+  if (logicalType2?.field_13) return { type: "BSON" };
+  if (logicalType2?.field_14) return { type: "UUID" };
+  if (logicalType2?.field_15) return { type: "FLOAT16" };
+  if (logicalType2?.field_16) return {
+    type: "VARIANT",
+    specification_version: logicalType2.field_16.field_1
+  };
+  if (logicalType2?.field_17) return {
+    type: "GEOMETRY",
+    crs: decode3(logicalType2.field_17.field_1)
+  };
+  if (logicalType2?.field_18) return {
+    type: "GEOGRAPHY",
+    crs: decode3(logicalType2.field_18.field_1),
+    algorithm: EdgeInterpolationAlgorithms[logicalType2.field_18.field_2]
+  };
+  return logicalType2;
+}
+function timeUnit(unit) {
+  if (unit.field_1) return "MILLIS";
+  if (unit.field_2) return "MICROS";
+  if (unit.field_3) return "NANOS";
+  throw new Error("parquet time unit required");
+}
+function convertStats(stats, schema, parsers) {
+  return stats && {
+    max: convertMetadata(stats.field_1, schema, parsers),
+    min: convertMetadata(stats.field_2, schema, parsers),
+    null_count: stats.field_3,
+    distinct_count: stats.field_4,
+    max_value: convertMetadata(stats.field_5, schema, parsers),
+    min_value: convertMetadata(stats.field_6, schema, parsers),
+    is_max_value_exact: stats.field_7,
+    is_min_value_exact: stats.field_8
+  };
+}
+function convertMetadata(value3, schema, parsers) {
+  const { type, converted_type, logical_type } = schema;
+  if (value3 === void 0) return value3;
+  if (type === "BOOLEAN") return value3[0] === 1;
+  if (type === "BYTE_ARRAY") return parsers.stringFromBytes(value3);
+  const view = new DataView(value3.buffer, value3.byteOffset, value3.byteLength);
+  if (type === "FLOAT" && view.byteLength === 4) return view.getFloat32(0, true);
+  if (type === "DOUBLE" && view.byteLength === 8) return view.getFloat64(0, true);
+  if (type === "INT32" && converted_type === "DECIMAL" && view.byteLength === 4) {
+    return view.getInt32(0, true) * 10 ** -(schema.scale || 0);
+  }
+  if (type === "INT64" && converted_type === "DECIMAL" && view.byteLength === 8) {
+    return Number(view.getBigInt64(0, true)) * 10 ** -(schema.scale || 0);
+  }
+  if (type === "INT32" && converted_type === "DATE") return parsers.dateFromDays(view.getInt32(0, true));
+  if (type === "INT64" && converted_type === "TIMESTAMP_MILLIS") return parsers.timestampFromMilliseconds(view.getBigInt64(0, true));
+  if (type === "INT64" && converted_type === "TIMESTAMP_MICROS") return parsers.timestampFromMicroseconds(view.getBigInt64(0, true));
+  if (type === "INT64" && logical_type?.type === "TIMESTAMP" && logical_type?.unit === "NANOS") return parsers.timestampFromNanoseconds(view.getBigInt64(0, true));
+  if (type === "INT64" && logical_type?.type === "TIMESTAMP" && logical_type?.unit === "MICROS") return parsers.timestampFromMicroseconds(view.getBigInt64(0, true));
+  if (type === "INT64" && logical_type?.type === "TIMESTAMP") return parsers.timestampFromMilliseconds(view.getBigInt64(0, true));
+  const unsigned = converted_type?.startsWith("UINT_") || logical_type?.type === "INTEGER" && !logical_type.isSigned;
+  if (type === "INT32" && unsigned && view.byteLength === 4) return view.getUint32(0, true);
+  if (type === "INT64" && unsigned && view.byteLength === 8) return view.getBigUint64(0, true);
+  if (type === "INT32" && view.byteLength === 4) return view.getInt32(0, true);
+  if (type === "INT64" && view.byteLength === 8) return view.getBigInt64(0, true);
+  if (converted_type === "DECIMAL") return parseDecimal(value3) * 10 ** -(schema.scale || 0);
+  if (logical_type?.type === "FLOAT16") return parseFloat16(value3);
+  if (logical_type?.type === "UUID") return parsers.uuidFromBytes(value3);
+  if (type === "FIXED_LEN_BYTE_ARRAY") return value3;
+  return value3;
+}
+
+// node_modules/hyparquet/src/indexes.js
+function readColumnIndex(reader, schema, parsers = void 0) {
+  const allParsers = { ...DEFAULT_PARSERS, ...parsers };
+  const thrift = deserializeTCompactProtocol(reader);
+  return {
+    null_pages: thrift.field_1,
+    min_values: thrift.field_2.map((m) => convertMetadata(m, schema, allParsers)),
+    max_values: thrift.field_3.map((m) => convertMetadata(m, schema, allParsers)),
+    boundary_order: BoundaryOrders[thrift.field_4],
+    null_counts: thrift.field_5,
+    repetition_level_histograms: thrift.field_6,
+    definition_level_histograms: thrift.field_7
+  };
+}
+function readOffsetIndex(reader) {
+  const thrift = deserializeTCompactProtocol(reader);
+  return {
+    // @ts-ignore
+    page_locations: thrift.field_1.map((loc) => ({
+      offset: loc.field_1,
+      compressed_page_size: loc.field_2,
+      first_row_index: loc.field_3
+    })),
+    unencoded_byte_array_data_bytes: thrift.field_2
+  };
+}
+
+// node_modules/hyparquet/src/xxhash.js
+var MASK = 0xffffffffffffffffn;
+var PRIME1 = 0x9e3779b185ebca87n;
+var PRIME2 = 0xc2b2ae3d27d4eb4fn;
+var PRIME3 = 0x165667b19e3779f9n;
+var PRIME4 = 0x85ebca77c2b2ae63n;
+var PRIME5 = 0x27d4eb2f165667c5n;
+function rotl64(x, r) {
+  return (x << r | x >> 64n - r) & MASK;
+}
+function round(acc, val) {
+  acc = acc + val * PRIME2 & MASK;
+  acc = rotl64(acc, 31n);
+  return acc * PRIME1 & MASK;
+}
+function mergeRound(acc, val) {
+  acc ^= round(0n, val);
+  return acc * PRIME1 + PRIME4 & MASK;
+}
+function xxhash64(input2, seed = 0n) {
+  const view = new DataView(input2.buffer, input2.byteOffset, input2.byteLength);
+  const len = input2.byteLength;
+  let offset = 0;
+  let h64;
+  if (len >= 32) {
+    let v1 = seed + PRIME1 + PRIME2 & MASK;
+    let v2 = seed + PRIME2 & MASK;
+    let v3 = seed;
+    let v4 = seed - PRIME1 & MASK;
+    while (offset + 32 <= len) {
+      v1 = round(v1, view.getBigUint64(offset, true));
+      offset += 8;
+      v2 = round(v2, view.getBigUint64(offset, true));
+      offset += 8;
+      v3 = round(v3, view.getBigUint64(offset, true));
+      offset += 8;
+      v4 = round(v4, view.getBigUint64(offset, true));
+      offset += 8;
+    }
+    h64 = rotl64(v1, 1n) + rotl64(v2, 7n) + rotl64(v3, 12n) + rotl64(v4, 18n) & MASK;
+    h64 = mergeRound(h64, v1);
+    h64 = mergeRound(h64, v2);
+    h64 = mergeRound(h64, v3);
+    h64 = mergeRound(h64, v4);
+  } else {
+    h64 = seed + PRIME5 & MASK;
+  }
+  h64 = h64 + BigInt(len) & MASK;
+  while (offset + 8 <= len) {
+    h64 ^= round(0n, view.getBigUint64(offset, true));
+    h64 = rotl64(h64, 27n) * PRIME1 + PRIME4 & MASK;
+    offset += 8;
+  }
+  if (offset + 4 <= len) {
+    h64 ^= BigInt(view.getUint32(offset, true)) * PRIME1 & MASK;
+    h64 = rotl64(h64, 23n) * PRIME2 + PRIME3 & MASK;
+    offset += 4;
+  }
+  while (offset < len) {
+    h64 ^= BigInt(view.getUint8(offset)) * PRIME5 & MASK;
+    h64 = rotl64(h64, 11n) * PRIME1 & MASK;
+    offset += 1;
+  }
+  h64 ^= h64 >> 33n;
+  h64 = h64 * PRIME2 & MASK;
+  h64 ^= h64 >> 29n;
+  h64 = h64 * PRIME3 & MASK;
+  h64 ^= h64 >> 32n;
+  return h64;
+}
+
+// node_modules/hyparquet/src/bloom.js
+var textEncoder = new TextEncoder();
+var SALT = new Uint32Array([
+  1203114875,
+  1150766481,
+  2284105051,
+  2729912477,
+  1884591559,
+  770785867,
+  2667333959,
+  1550580529
+]);
+function blockIndex(hash2, numBlocks) {
+  return Number((hash2 >> 32n) * BigInt(numBlocks) >> 32n);
+}
+function blockMask(hash2) {
+  const m = new Uint32Array(8);
+  const low = Number(hash2 & 0xffffffffn) | 0;
+  for (let i = 0; i < 8; i++) {
+    m[i] = 1 << (Math.imul(low, SALT[i]) >>> 27);
+  }
+  return m;
+}
+function sbbfContains(blocks, hash2) {
+  const offset = blockIndex(hash2, blocks.length >> 3) << 3;
+  const m = blockMask(hash2);
+  for (let i = 0; i < 8; i++) {
+    if ((blocks[offset + i] & m[i]) === 0) return false;
+  }
+  return true;
+}
+function readBloomFilter(reader) {
+  const header = deserializeTCompactProtocol(reader);
+  const numBytes = header.field_1;
+  if (typeof numBytes !== "number" || numBytes <= 0 || numBytes % 32 !== 0) return void 0;
+  if (!header.field_2?.field_1) return void 0;
+  if (!header.field_3?.field_1) return void 0;
+  if (!header.field_4?.field_1) return void 0;
+  const { view, offset } = reader;
+  if (offset + numBytes > view.byteLength) {
+    throw new Error(`parquet bloom filter truncated: need ${numBytes} bytes, have ${view.byteLength - offset}`);
+  }
+  const blocks = new Uint32Array(numBytes >> 2);
+  for (let i = 0; i < blocks.length; i++) {
+    blocks[i] = view.getUint32(offset + i * 4, true);
+  }
+  reader.offset = offset + numBytes;
+  return { numBytes, blocks };
+}
+function hashParquetValue(value3, element) {
+  if (value3 === null || value3 === void 0) return void 0;
+  const { type, converted_type, logical_type } = element;
+  if (type === "BOOLEAN") {
+    if (typeof value3 !== "boolean") return void 0;
+    return xxhash64(new Uint8Array([value3 ? 1 : 0]));
+  }
+  if (type === "FLOAT") {
+    if (typeof value3 !== "number") return void 0;
+    const buf = new ArrayBuffer(4);
+    new DataView(buf).setFloat32(0, value3, true);
+    return xxhash64(new Uint8Array(buf));
+  }
+  if (type === "DOUBLE") {
+    if (typeof value3 !== "number") return void 0;
+    const buf = new ArrayBuffer(8);
+    new DataView(buf).setFloat64(0, value3, true);
+    return xxhash64(new Uint8Array(buf));
+  }
+  if (type === "INT32") {
+    if (converted_type === "DATE" || converted_type === "DECIMAL" || converted_type === "TIME_MILLIS") return void 0;
+    if (logical_type?.type === "DATE" || logical_type?.type === "TIME" || logical_type?.type === "DECIMAL") return void 0;
+    if (typeof value3 !== "number" || !Number.isInteger(value3)) return void 0;
+    const buf = new ArrayBuffer(4);
+    new DataView(buf).setInt32(0, value3 | 0, true);
+    return xxhash64(new Uint8Array(buf));
+  }
+  if (type === "INT64") {
+    if (converted_type === "TIMESTAMP_MILLIS" || converted_type === "TIMESTAMP_MICROS") return void 0;
+    if (converted_type === "TIME_MICROS" || converted_type === "DECIMAL") return void 0;
+    if (logical_type?.type === "TIMESTAMP" || logical_type?.type === "TIME" || logical_type?.type === "DECIMAL") return void 0;
+    let bigValue;
+    if (typeof value3 === "bigint") bigValue = value3;
+    else if (typeof value3 === "number" && Number.isSafeInteger(value3)) bigValue = BigInt(value3);
+    else return void 0;
+    const buf = new ArrayBuffer(8);
+    new DataView(buf).setBigUint64(0, BigInt.asUintN(64, bigValue), true);
+    return xxhash64(new Uint8Array(buf));
+  }
+  if (type === "BYTE_ARRAY") {
+    if (converted_type === "JSON" || converted_type === "BSON" || converted_type === "DECIMAL") return void 0;
+    if (logical_type?.type === "JSON" || logical_type?.type === "BSON" || logical_type?.type === "VARIANT") return void 0;
+    if (logical_type?.type === "GEOMETRY" || logical_type?.type === "GEOGRAPHY") return void 0;
+    if (typeof value3 === "string") return xxhash64(textEncoder.encode(value3));
+    if (value3 instanceof Uint8Array) return xxhash64(value3);
+    return void 0;
+  }
+  if (type === "FIXED_LEN_BYTE_ARRAY") {
+    if (converted_type === "DECIMAL" || converted_type === "INTERVAL") return void 0;
+    if (logical_type?.type === "DECIMAL" || logical_type?.type === "UUID" || logical_type?.type === "FLOAT16") return void 0;
+    if (logical_type?.type === "GEOMETRY" || logical_type?.type === "GEOGRAPHY") return void 0;
+    if (value3 instanceof Uint8Array) return xxhash64(value3);
+    return void 0;
+  }
+  return void 0;
+}
+function bloomEligibleColumns(filter) {
+  const out = /* @__PURE__ */ new Set();
+  walkBloomEligible(filter, out);
+  return out;
+}
+function walkBloomEligible(filter, out) {
+  if (!filter) return;
+  if ("$and" in filter && Array.isArray(filter.$and)) {
+    for (const sub of filter.$and) walkBloomEligible(sub, out);
+    return;
+  }
+  if ("$or" in filter && Array.isArray(filter.$or)) {
+    for (const sub of filter.$or) walkBloomEligible(sub, out);
+    return;
+  }
+  if ("$nor" in filter) return;
+  for (const [field, condition] of Object.entries(filter)) {
+    if (field.startsWith("$")) continue;
+    if (typeof condition === "object" && condition !== null && !Array.isArray(condition)) {
+      if ("$eq" in condition || "$in" in condition) out.add(field);
+    } else {
+      out.add(field);
+    }
+  }
+}
+
+// node_modules/hyparquet/src/utils.js
+function concat(aaa, bbb) {
+  const chunk = 1e4;
+  for (let i = 0; i < bbb.length; i += chunk) {
+    aaa.push(...bbb.slice(i, i + chunk));
+  }
+}
+function equals(a, b, strict = true) {
+  if (strict ? a === b : a == b) return true;
+  if (!a || !b || typeof a !== "object" || typeof b !== "object") return false;
+  if (a instanceof Uint8Array && b instanceof Uint8Array) {
+    if (a.length !== b.length) return false;
+    for (let i = 0; i < a.length; i++) {
+      if (a[i] !== b[i]) return false;
+    }
+    return true;
+  }
+  if (a instanceof Date || b instanceof Date) {
+    return a instanceof Date && b instanceof Date && a.getTime() === b.getTime();
+  }
+  if (Array.isArray(a) && Array.isArray(b)) {
+    if (a.length !== b.length) return false;
+    for (let i = 0; i < a.length; i++) {
+      if (!equals(a[i], b[i], strict)) return false;
+    }
+    return true;
+  }
+  const aKeys = Object.keys(a);
+  if (aKeys.length !== Object.keys(b).length) return false;
+  for (const k of aKeys) {
+    if (!equals(a[k], b[k], strict)) return false;
+  }
+  return true;
+}
+function flatten(chunks) {
+  if (!chunks) return [];
+  if (chunks.length === 1) return chunks[0];
+  const output2 = [];
+  for (const chunk of chunks) {
+    concat(output2, chunk);
+  }
+  return output2;
+}
+
+// node_modules/hyparquet/src/filter.js
+var encoder = new TextEncoder();
+function pathsNeededForFilter(filter) {
+  if (!filter) return [];
+  const paths = [];
+  if ("$and" in filter && Array.isArray(filter.$and)) {
+    paths.push(...filter.$and.flatMap(pathsNeededForFilter));
+  } else if ("$or" in filter && Array.isArray(filter.$or)) {
+    paths.push(...filter.$or.flatMap(pathsNeededForFilter));
+  } else if ("$nor" in filter && Array.isArray(filter.$nor)) {
+    paths.push(...filter.$nor.flatMap(pathsNeededForFilter));
+  } else {
+    paths.push(...Object.keys(filter));
+  }
+  return [...new Set(paths)];
+}
+function columnsNeededForFilter(filter) {
+  return [...new Set(pathsNeededForFilter(filter).map((path) => path.split(".")[0]))];
+}
+function matchFilter(record3, filter, strict = true) {
+  if ("$and" in filter && Array.isArray(filter.$and)) {
+    return filter.$and.every((subQuery) => matchFilter(record3, subQuery, strict));
+  }
+  if ("$or" in filter && Array.isArray(filter.$or)) {
+    return filter.$or.some((subQuery) => matchFilter(record3, subQuery, strict));
+  }
+  if ("$nor" in filter && Array.isArray(filter.$nor)) {
+    return !filter.$nor.some((subQuery) => matchFilter(record3, subQuery, strict));
+  }
+  return Object.entries(filter).every(([field, condition]) => {
+    const value3 = resolve3(record3, field);
+    if (typeof condition !== "object" || condition === null || Array.isArray(condition)) {
+      return equals(value3, condition, strict);
+    }
+    return Object.entries(condition || {}).every(([operator, target]) => {
+      if (operator === "$gt") return value3 !== null && value3 !== void 0 && value3 > target;
+      if (operator === "$gte") return value3 !== null && value3 !== void 0 && value3 >= target;
+      if (operator === "$lt") return value3 !== null && value3 !== void 0 && value3 < target;
+      if (operator === "$lte") return value3 !== null && value3 !== void 0 && value3 <= target;
+      if (operator === "$eq") return equals(value3, target, strict);
+      if (operator === "$ne") return !equals(value3, target, strict);
+      if (operator === "$in") return Array.isArray(target) && matchesIn(value3, target, strict);
+      if (operator === "$nin") return Array.isArray(target) && !matchesIn(value3, target, strict);
+      if (operator === "$not") return !matchFilter({ value: value3 }, { value: target }, strict);
+      return true;
+    });
+  });
+}
+function matchesIn(value3, targets, strict) {
+  return targets.some((target) => equals(value3, target, strict) || Array.isArray(value3) && value3.some((element) => equals(element, target, strict)));
+}
+function canSkipRowGroup({ rowGroup, physicalColumns, filter, strict = true, bloomFilters, schemaElements }) {
+  if (!filter) return false;
+  if ("$and" in filter && Array.isArray(filter.$and)) {
+    return filter.$and.some((subFilter) => canSkipRowGroup({ rowGroup, physicalColumns, filter: subFilter, strict, bloomFilters, schemaElements }));
+  }
+  if ("$or" in filter && Array.isArray(filter.$or)) {
+    return filter.$or.every((subFilter) => canSkipRowGroup({ rowGroup, physicalColumns, filter: subFilter, strict, bloomFilters, schemaElements }));
+  }
+  if ("$nor" in filter && Array.isArray(filter.$nor)) {
+    return false;
+  }
+  for (const [field, condition] of Object.entries(filter)) {
+    const columnIndex = physicalColumns.indexOf(field);
+    if (columnIndex === -1) continue;
+    const stats = rowGroup.columns[columnIndex].meta_data?.statistics;
+    const { min, max, min_value, max_value, null_count: nullCount } = stats || {};
+    const minVal = min_value !== void 0 ? min_value : min;
+    const maxVal = max_value !== void 0 ? max_value : max;
+    const haveStats = minVal !== void 0 && maxVal !== void 0;
+    const bloom = bloomFilters?.[field];
+    const element = schemaElements?.[field];
+    const matchingNulls = matchFilter({ value: null }, { value: condition }, strict) && (nullCount === void 0 || nullCount > 0);
+    if (haveStats && !matchingNulls && canSkipStats(condition, minVal, maxVal, strict, element)) {
+      return true;
+    }
+    for (const [operator, target] of Object.entries(condition || {})) {
+      if (bloom && element) {
+        if (operator === "$eq") {
+          const hash2 = hashParquetValue(target, element);
+          if (hash2 !== void 0 && !sbbfContains(bloom.blocks, hash2)) return true;
+        }
+        if (operator === "$in" && Array.isArray(target) && target.length > 0) {
+          let allAbsent = true;
+          for (const v of target) {
+            const h = hashParquetValue(v, element);
+            if (h === void 0 || sbbfContains(bloom.blocks, h)) {
+              allAbsent = false;
+              break;
+            }
+          }
+          if (allAbsent) return true;
+        }
+      }
+    }
+  }
+  return false;
+}
+function canSkipStats(condition, minVal, maxVal, strict, element) {
+  if (minVal === void 0 || maxVal === void 0) return false;
+  const mayContainNaN = element?.type === "FLOAT" || element?.type === "DOUBLE" || element?.logical_type?.type === "FLOAT16";
+  for (const [operator, target] of Object.entries(condition || {})) {
+    const minComparison = compareParquetValues(minVal, target, strict, element);
+    const maxComparison = compareParquetValues(maxVal, target, strict, element);
+    const binaryBounds = minVal instanceof Uint8Array || maxVal instanceof Uint8Array;
+    const relationalBoundsAreSafe = !binaryBounds && (element?.type !== "BYTE_ARRAY" || typeof target === "string" && [...target].every((character) => character.charCodeAt(0) <= 127));
+    if (operator === "$gt" && relationalBoundsAreSafe && maxComparison !== void 0 && maxComparison <= 0) return true;
+    if (operator === "$gte" && relationalBoundsAreSafe && maxComparison !== void 0 && maxComparison < 0) return true;
+    if (operator === "$lt" && relationalBoundsAreSafe && minComparison !== void 0 && minComparison >= 0) return true;
+    if (operator === "$lte" && relationalBoundsAreSafe && minComparison !== void 0 && minComparison > 0) return true;
+    if (operator === "$eq") {
+      const targetMinComparison = compareParquetValues(target, minVal, strict, element);
+      const targetMaxComparison = compareParquetValues(target, maxVal, strict, element);
+      if (targetMinComparison !== void 0 && targetMinComparison < 0 || targetMaxComparison !== void 0 && targetMaxComparison > 0) return true;
+    }
+    if (operator === "$ne" && !mayContainNaN && equals(minVal, maxVal, strict) && equals(minVal, target, strict)) return true;
+    if (operator === "$in" && Array.isArray(target) && target.every((value3) => {
+      const valueMinComparison = compareParquetValues(value3, minVal, strict, element);
+      const valueMaxComparison = compareParquetValues(value3, maxVal, strict, element);
+      return valueMinComparison !== void 0 && valueMinComparison < 0 || valueMaxComparison !== void 0 && valueMaxComparison > 0;
+    })) return true;
+    if (operator === "$nin" && !mayContainNaN && Array.isArray(target) && equals(minVal, maxVal, strict) && target.some((value3) => equals(minVal, value3, strict))) return true;
+  }
+  return false;
+}
+function compareParquetValues(a, b, strict, element) {
+  if (element?.type === "BYTE_ARRAY") {
+    if (typeof a !== "string" || typeof b !== "string") return void 0;
+    return compareBytes(encoder.encode(a), encoder.encode(b));
+  }
+  if (a instanceof Uint8Array || b instanceof Uint8Array) {
+    if (!(a instanceof Uint8Array) || !(b instanceof Uint8Array)) return void 0;
+    return compareBytes(a, b);
+  }
+  if (a < b) return -1;
+  if (a > b) return 1;
+  if (equals(a, b, strict)) return 0;
+  return void 0;
+}
+function compareBytes(a, b) {
+  const length2 = Math.min(a.length, b.length);
+  for (let i = 0; i < length2; i++) {
+    if (a[i] < b[i]) return -1;
+    if (a[i] > b[i]) return 1;
+  }
+  if (a.length < b.length) return -1;
+  if (a.length > b.length) return 1;
+  return 0;
+}
+function matchesNull(condition, strict) {
+  return matchFilter({ value: null }, { value: condition }, strict);
+}
+function filterPageRanges(filter, columnPages, groupRows, strict = true) {
+  if (!filter) return void 0;
+  if ("$and" in filter && Array.isArray(filter.$and)) {
+    let ranges;
+    for (const subFilter of filter.$and) {
+      ranges = intersectRanges(ranges, filterPageRanges(subFilter, columnPages, groupRows, strict));
+    }
+    return ranges;
+  }
+  if ("$or" in filter && Array.isArray(filter.$or)) {
+    let ranges = [];
+    for (const subFilter of filter.$or) {
+      const subRanges = filterPageRanges(subFilter, columnPages, groupRows, strict);
+      if (!subRanges) return void 0;
+      ranges = unionRanges(ranges, subRanges);
+    }
+    return ranges;
+  }
+  if ("$nor" in filter && Array.isArray(filter.$nor)) {
+    return void 0;
+  }
+  let result;
+  for (const [field, condition] of Object.entries(filter)) {
+    const pages = columnPages[field];
+    if (!pages) continue;
+    const nullCanMatch = matchesNull(condition, strict);
+    const keep = [];
+    for (let i = 0; i < pages.pageStarts.length; i++) {
+      const start = pages.pageStarts[i];
+      const end = i + 1 < pages.pageStarts.length ? pages.pageStarts[i + 1] : groupRows;
+      const nullCount = pages.nullCounts?.[i];
+      const matchingNulls = nullCanMatch && (nullCount === void 0 || nullCount > 0);
+      const skip = !pages.nullPages[i] && !matchingNulls && canSkipStats(condition, pages.minValues[i], pages.maxValues[i], strict, pages.element);
+      if (!skip) {
+        const last = keep[keep.length - 1];
+        if (last && last[1] === start) last[1] = end;
+        else keep.push([start, end]);
+      }
+    }
+    result = intersectRanges(result, keep);
+  }
+  return result;
+}
+function intersectRanges(a, b) {
+  if (!a) return b;
+  if (!b) return a;
+  const out = [];
+  let i = 0;
+  let j = 0;
+  while (i < a.length && j < b.length) {
+    const start = Math.max(a[i][0], b[j][0]);
+    const end = Math.min(a[i][1], b[j][1]);
+    if (start < end) out.push([start, end]);
+    if (a[i][1] < b[j][1]) i++;
+    else j++;
+  }
+  return out;
+}
+function unionRanges(a, b) {
+  const out = [];
+  let i = 0;
+  let j = 0;
+  while (i < a.length || j < b.length) {
+    const next = j >= b.length || i < a.length && a[i][0] <= b[j][0] ? a[i++] : b[j++];
+    const last = out[out.length - 1];
+    if (last && next[0] <= last[1]) last[1] = Math.max(last[1], next[1]);
+    else out.push([next[0], next[1]]);
+  }
+  return out;
+}
+function resolve3(record3, path) {
+  let value3 = record3;
+  for (const part of path.split(".")) {
+    value3 = value3?.[part];
+  }
+  return value3;
+}
+
+// node_modules/hyparquet/src/plan.js
+var runLimit = 1 << 21;
+var columnGapLimit = 1 << 13;
+function parquetPlan(options) {
+  const { metadata, rowStart = 0, columns, useOffsetIndex = false } = options;
+  if (!metadata) throw new Error("parquetPlan requires metadata");
+  const groups = [];
+  const fetches = [];
+  const indexes = [];
+  const scanPlan = parquetPlanGroups(options);
+  for (const group of scanPlan.groups) {
+    const groupPlan = parquetPlanGroup({ ...group, columns, useOffsetIndex });
+    groups.push(...groupPlan.groups);
+    fetches.push(...groupPlan.fetches);
+    indexes.push(...groupPlan.indexes);
+  }
+  fetches.push(...indexes);
+  return { metadata, rowStart, rowEnd: scanPlan.rowEnd, columns, fetches, groups };
+}
+function parquetPlanGroups({ metadata, rowStart = 0, rowEnd = Infinity, columns, filter, filterStrict = true, bloomFiltersByGroup, schemaElements, pageRangesByGroup, pageLocationsByGroup }) {
+  if (!metadata) throw new Error("parquetPlan requires metadata");
+  const schemaTree2 = parquetSchema(metadata);
+  const physicalColumns = getPhysicalColumns(schemaTree2);
+  const elementsByPath = filter ? {
+    ...physicalSchemaElements(schemaTree2),
+    ...schemaElements
+  } : schemaElements;
+  const groups = [];
+  let groupStart = 0;
+  for (let groupIndex = 0; groupIndex < metadata.row_groups.length; groupIndex++) {
+    const rowGroup = metadata.row_groups[groupIndex];
+    const groupRows = Number(rowGroup.num_rows);
+    const groupEnd = groupStart + groupRows;
+    if (groupRows > 0 && groupEnd > rowStart && groupStart < rowEnd && !canSkipRowGroup({
+      rowGroup,
+      physicalColumns,
+      filter,
+      strict: filterStrict,
+      bloomFilters: bloomFiltersByGroup?.[groupIndex],
+      schemaElements: elementsByPath
+    })) {
+      const selectStart = Math.max(rowStart - groupStart, 0);
+      const selectEnd = Math.min(rowEnd - groupStart, groupRows);
+      const pageRanges = pageRangesByGroup?.[groupIndex];
+      const pageLocations = pageLocationsByGroup?.[groupIndex];
+      let ranges = pageRanges ? pageRanges.map(([start, end]) => {
+        const range = [Math.max(start, selectStart), Math.min(end, selectEnd)];
+        return range;
+      }).filter(([start, end]) => start < end) : [[selectStart, selectEnd]];
+      if (ranges.length > 1) {
+        const canSplit = rowGroup.columns.every((chunk) => {
+          const columnName = chunk.meta_data?.path_in_schema[0];
+          const columnPath = chunk.meta_data?.path_in_schema.join(".");
+          if (columns && columnName && !columns.includes(columnName)) return true;
+          return !!(chunk.offset_index_offset && chunk.offset_index_length) || !!(columnPath && pageLocations?.[columnPath]);
+        });
+        ranges = canSplit ? coalesceOverlappingPageRanges(ranges, rowGroup, columns, pageLocations) : [[ranges[0][0], ranges[ranges.length - 1][1]]];
+      }
+      if (ranges.length) {
+        groups.push({ rowGroup, groupIndex, groupStart, groupRows, ranges, pageRanges, pageLocations });
+      }
+    }
+    groupStart = groupEnd;
+  }
+  return { groups, rowEnd: isFinite(rowEnd) ? rowEnd : groupStart };
+}
+function parquetPlanGroup({ rowGroup, groupStart, groupRows, ranges, columns, useOffsetIndex = false, pageRanges, pageLocations }) {
+  const chunks = [];
+  const fetches = [];
+  const indexes = [];
+  const narrowed = ranges.length > 1 || ranges[0][0] > 0 || ranges[0][1] < groupRows;
+  for (const chunk of rowGroup.columns) {
+    const meta3 = chunk.meta_data;
+    if (chunk.file_path) throw new Error("parquet file_path not supported");
+    if (!meta3) throw new Error("parquet column metadata is undefined");
+    if (columns && !columns.includes(meta3.path_in_schema[0])) continue;
+    const columnOffset = meta3.dictionary_page_offset || meta3.data_page_offset;
+    const startByte = Number(columnOffset);
+    const endByte = Number(columnOffset + meta3.total_compressed_size);
+    const chunkPageLocations = pageLocations?.[meta3.path_in_schema.join(".")];
+    if (chunkPageLocations && narrowed) {
+      chunks.push({ columnMetadata: meta3, pageLocations: chunkPageLocations, range: { startByte, endByte } });
+    } else if ((useOffsetIndex || pageRanges) && chunk.offset_index_offset && chunk.offset_index_length && narrowed) {
+      const startByte2 = Number(chunk.offset_index_offset);
+      chunks.push({
+        columnMetadata: meta3,
+        offsetIndex: { startByte: startByte2, endByte: startByte2 + chunk.offset_index_length },
+        range: { startByte: Number(columnOffset), endByte }
+      });
+    } else {
+      chunks.push({ columnMetadata: meta3, range: { startByte, endByte } });
+    }
+  }
+  const columnRanges = [];
+  let run;
+  for (const chunk of chunks) {
+    if ("pageLocations" in chunk) continue;
+    if ("offsetIndex" in chunk) {
+      indexes.push(chunk.offsetIndex);
+    } else if (columns) {
+      columnRanges.push(chunk.range);
+    } else if (run && chunk.range.endByte - run.startByte <= runLimit) {
+      run.endByte = chunk.range.endByte;
+    } else {
+      if (run) fetches.push(run);
+      run = { ...chunk.range };
+    }
+  }
+  if (run) fetches.push(run);
+  fetches.push(...coalesceByteRanges(columnRanges, columnGapLimit, runLimit));
+  const groups = ranges.map(([selectStart, selectEnd]) => ({
+    chunks,
+    rowGroup,
+    groupStart,
+    groupRows,
+    selectStart,
+    selectEnd
+  }));
+  return { groups, fetches, indexes };
+}
+function coalesceOverlappingPageRanges(ranges, rowGroup, columns, pageLocations) {
+  const selectedPageLayouts = rowGroup.columns.filter((chunk) => !columns || columns.includes(chunk.meta_data?.path_in_schema[0] || "")).map((chunk) => pageLocations?.[chunk.meta_data?.path_in_schema.join(".") || ""]);
+  const merged = [];
+  for (const range of ranges) {
+    const last = merged[merged.length - 1];
+    const overlapsPage = last && selectedPageLayouts.some((pages) => {
+      if (!pages) return true;
+      const lastPages = pagesForRange(last, pages, Number(rowGroup.num_rows));
+      const rangePages = pagesForRange(range, pages, Number(rowGroup.num_rows));
+      return lastPages[0] <= rangePages[1] && rangePages[0] <= lastPages[1];
+    });
+    if (last && overlapsPage) last[1] = range[1];
+    else merged.push([...range]);
+  }
+  return merged;
+}
+function pagesForRange([rangeStart, rangeEnd], pages, groupRows) {
+  let first = Infinity;
+  let last = -Infinity;
+  for (let i = 0; i < pages.length; i++) {
+    const pageStart = Number(pages[i].first_row_index);
+    const pageEnd = i + 1 < pages.length ? Number(pages[i + 1].first_row_index) : groupRows;
+    if (pageEnd > rangeStart && pageStart < rangeEnd) {
+      first = Math.min(first, i);
+      last = i;
+    }
+  }
+  return [first, last];
+}
+async function prefetchBloomFilters({ file: file2, metadata, filter, filterStrict = true }) {
+  const result = metadata.row_groups.map(() => (
+    /** @type {Record<string, BloomFilter>} */
+    {}
+  ));
+  const eligibleCols = bloomEligibleColumns(filter);
+  if (eligibleCols.size === 0) return result;
+  const physicalColumns = getPhysicalColumns(parquetSchema(metadata));
+  const tasks = [];
+  metadata.row_groups.forEach((rowGroup, rgIdx) => {
+    if (canSkipRowGroup({ rowGroup, physicalColumns, filter, strict: filterStrict })) return;
+    for (const colName of eligibleCols) {
+      const columnIdx = physicalColumns.indexOf(colName);
+      if (columnIdx === -1) continue;
+      const meta3 = rowGroup.columns[columnIdx]?.meta_data;
+      if (!meta3?.bloom_filter_offset || !meta3.bloom_filter_length) continue;
+      const start = Number(meta3.bloom_filter_offset);
+      const end = start + meta3.bloom_filter_length;
+      tasks.push((async () => {
+        const buffer = await file2.slice(start, end);
+        const bloom = readBloomFilter({ view: new DataView(buffer), offset: 0 });
+        if (bloom) result[rgIdx][colName] = bloom;
+      })());
+    }
+  });
+  if (tasks.length) await Promise.all(tasks);
+  return result;
+}
+async function prefetchPageIndexes({ file: file2, metadata, filter, filterStrict = true, rowStart = 0, rowEnd = Infinity, columns, bloomFiltersByGroup, schemaElements, parsers }) {
+  const pageRangesByGroup = metadata.row_groups.map(() => void 0);
+  const pageLocationsByGroup = metadata.row_groups.map(() => (
+    /** @type {Record<string, PageLocation[]>} */
+    {}
+  ));
+  if (filter && "$nor" in filter && Array.isArray(filter.$nor)) {
+    return { pageRangesByGroup, pageLocationsByGroup };
+  }
+  const filterColumns = pathsNeededForFilter(filter);
+  if (!filterColumns.length) return { pageRangesByGroup, pageLocationsByGroup };
+  const schemaTree2 = parquetSchema(metadata);
+  const physicalColumns = getPhysicalColumns(schemaTree2);
+  const elementsByPath = {
+    ...physicalSchemaElements(schemaTree2),
+    ...schemaElements
+  };
+  const indexRanges = [];
+  const indexTasks = [];
+  const candidateGroups = [];
+  let groupStart = 0;
+  metadata.row_groups.forEach((rowGroup, rgIdx) => {
+    const groupRows = Number(rowGroup.num_rows);
+    const groupEnd = groupStart + groupRows;
+    const overlaps = groupRows > 0 && groupEnd > rowStart && groupStart < rowEnd;
+    groupStart = groupEnd;
+    if (!overlaps) return;
+    if (canSkipRowGroup({ rowGroup, physicalColumns, filter, strict: filterStrict, bloomFilters: bloomFiltersByGroup?.[rgIdx], schemaElements: elementsByPath })) return;
+    const columnPages = {};
+    let columnTaskCount = 0;
+    const scheduledOffsetPaths = /* @__PURE__ */ new Set();
+    let hasFilterIndex = false;
+    for (const columnName of filterColumns) {
+      const columnIdx = physicalColumns.indexOf(columnName);
+      if (columnIdx === -1) continue;
+      const chunk = rowGroup.columns[columnIdx];
+      const meta3 = chunk?.meta_data;
+      if (!meta3) continue;
+      if (!chunk.column_index_offset || !chunk.column_index_length) continue;
+      if (!chunk.offset_index_offset || !chunk.offset_index_length) continue;
+      const element = elementsByPath[columnName];
+      if (!element) continue;
+      hasFilterIndex = true;
+      scheduledOffsetPaths.add(columnName);
+      const columnIndexStart = Number(chunk.column_index_offset);
+      const offsetIndexStart = Number(chunk.offset_index_offset);
+      const columnIndexEnd = columnIndexStart + chunk.column_index_length;
+      const offsetIndexEnd = offsetIndexStart + chunk.offset_index_length;
+      indexRanges.push(
+        { startByte: columnIndexStart, endByte: columnIndexEnd },
+        { startByte: offsetIndexStart, endByte: offsetIndexEnd }
+      );
+      columnTaskCount++;
+      indexTasks.push(async (prefetchedFile) => {
+        const [columnIndexBuffer, offsetIndexBuffer] = await Promise.all([
+          prefetchedFile.slice(columnIndexStart, columnIndexEnd),
+          prefetchedFile.slice(offsetIndexStart, offsetIndexEnd)
+        ]);
+        const columnIndex = readColumnIndex({ view: new DataView(columnIndexBuffer), offset: 0 }, element, parsers);
+        const offsetIndex = readOffsetIndex({ view: new DataView(offsetIndexBuffer), offset: 0 });
+        pageLocationsByGroup[rgIdx][columnName] = offsetIndex.page_locations;
+        columnPages[columnName] = {
+          minValues: columnIndex.min_values,
+          maxValues: columnIndex.max_values,
+          nullPages: columnIndex.null_pages,
+          nullCounts: columnIndex.null_counts,
+          pageStarts: offsetIndex.page_locations.map((page2) => Number(page2.first_row_index)),
+          element
+        };
+      });
+    }
+    if (hasFilterIndex) {
+      for (const chunk of rowGroup.columns) {
+        const meta3 = chunk.meta_data;
+        if (!meta3) continue;
+        const columnName = meta3.path_in_schema[0];
+        const columnPath = meta3.path_in_schema.join(".");
+        if (columns && !columns.includes(columnName)) continue;
+        if (scheduledOffsetPaths.has(columnPath)) continue;
+        if (!chunk.offset_index_offset || !chunk.offset_index_length) continue;
+        scheduledOffsetPaths.add(columnPath);
+        const offsetIndexStart = Number(chunk.offset_index_offset);
+        const offsetIndexEnd = offsetIndexStart + chunk.offset_index_length;
+        indexRanges.push({ startByte: offsetIndexStart, endByte: offsetIndexEnd });
+        columnTaskCount++;
+        indexTasks.push(async (prefetchedFile) => {
+          const offsetIndexBuffer = await prefetchedFile.slice(offsetIndexStart, offsetIndexEnd);
+          const offsetIndex = readOffsetIndex({ view: new DataView(offsetIndexBuffer), offset: 0 });
+          pageLocationsByGroup[rgIdx][columnPath] = offsetIndex.page_locations;
+        });
+      }
+    }
+    if (columnTaskCount) {
+      candidateGroups.push({ rgIdx, groupRows, columnPages });
+    }
+  });
+  if (indexTasks.length) {
+    const prefetchedFile = prefetchAsyncBuffer(file2, { fetches: coalesceByteRanges(indexRanges) });
+    await Promise.all(indexTasks.map((task) => task(prefetchedFile)));
+    for (const { rgIdx, groupRows, columnPages } of candidateGroups) {
+      pageRangesByGroup[rgIdx] = filterPageRanges(filter, columnPages, groupRows, filterStrict);
+    }
+  }
+  return { pageRangesByGroup, pageLocationsByGroup };
+}
+function coalesceByteRanges(ranges, maxGap = 0, maxSize = Infinity) {
+  const sorted = ranges.map((range) => ({ ...range })).sort((a, b) => a.startByte - b.startByte || a.endByte - b.endByte);
+  const merged = [];
+  for (const range of sorted) {
+    const last = merged[merged.length - 1];
+    if (last && range.startByte <= last.endByte + maxGap && Math.max(last.endByte, range.endByte) - last.startByte <= maxSize) {
+      last.endByte = Math.max(last.endByte, range.endByte);
+    } else {
+      merged.push(range);
+    }
+  }
+  return merged;
+}
+function physicalSchemaElements(schemaTree2) {
+  const elements = {};
+  function traverse(node2) {
+    if (node2.children.length) {
+      for (const child2 of node2.children) traverse(child2);
+    } else {
+      elements[node2.path.join(".")] = node2.element;
+    }
+  }
+  traverse(schemaTree2);
+  return elements;
+}
+function prefetchAsyncBuffer(file2, { fetches }) {
+  const promises = fetches.map(({ startByte, endByte }) => file2.slice(startByte, endByte));
+  return {
+    byteLength: file2.byteLength,
+    slice(start, end = file2.byteLength) {
+      const index = fetches.findIndex(({ startByte, endByte }) => startByte <= start && end <= endByte);
+      if (index < 0) {
+        return file2.slice(start, end);
+      }
+      if (fetches[index].startByte !== start || fetches[index].endByte !== end) {
+        const startOffset = start - fetches[index].startByte;
+        const endOffset = end - fetches[index].startByte;
+        if (promises[index] instanceof Promise) {
+          return promises[index].then((buffer) => buffer.slice(startOffset, endOffset));
+        } else {
+          return promises[index].slice(startOffset, endOffset);
+        }
+      } else {
+        return promises[index];
+      }
+    }
+  };
+}
+
+// node_modules/hyparquet/src/variant.js
+var decoder3 = new TextDecoder();
+var metadataCache = /* @__PURE__ */ new WeakMap();
+function decodeVariantColumn(value3, parsers = DEFAULT_PARSERS) {
+  if (Array.isArray(value3)) {
+    return value3.map((entry) => decodeVariantColumn(entry, parsers));
+  }
+  if (typeof value3 !== "object") return value3;
+  if ("metadata" in value3) {
+    const metadata = parseVariantMetadata(value3.metadata);
+    const shreddedFields = value3.typed_value && decodeTypedValue(value3.typed_value, metadata, parsers);
+    const binaryValue = value3.value && readVariant(makeReader(value3.value), metadata, parsers);
+    if (shreddedFields && binaryValue) {
+      return { ...binaryValue, ...shreddedFields };
+    }
+    return shreddedFields ?? binaryValue;
+  }
+  return value3;
+}
+function decodeTypedValue(typedValue, metadata, parsers) {
+  if (typedValue instanceof Date) return typedValue;
+  if (typedValue && typeof typedValue === "object" && !Array.isArray(typedValue) && !(typedValue instanceof Uint8Array)) {
+    if ("typed_value" in typedValue && typedValue.typed_value !== null && typedValue.typed_value !== void 0) {
+      return decodeTypedValue(typedValue.typed_value, metadata, parsers);
+    }
+    if ("value" in typedValue && typedValue.value instanceof Uint8Array) {
+      return readVariant(makeReader(typedValue.value), metadata, parsers);
+    }
+    if ("typed_value" in typedValue || "value" in typedValue) {
+      return null;
+    }
+    const result = {};
+    for (const [key2, field] of Object.entries(typedValue)) {
+      if (!metadata.dictionary.includes(key2)) continue;
+      result[key2] = decodeTypedValue(field, metadata, parsers);
+    }
+    return result;
+  }
+  if (typedValue instanceof Uint8Array) {
+    return readVariant(makeReader(typedValue), metadata, parsers);
+  }
+  if (Array.isArray(typedValue)) {
+    return typedValue.map((element) => decodeTypedValue(element, metadata, parsers));
+  }
+  return typedValue;
+}
+function makeReader(bytes) {
+  return { view: new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength), offset: 0 };
+}
+function parseVariantMetadata(bytes) {
+  let bufferCache = metadataCache.get(bytes.buffer);
+  if (!bufferCache) {
+    bufferCache = /* @__PURE__ */ new Map();
+    metadataCache.set(bytes.buffer, bufferCache);
+  }
+  const key2 = `${bytes.byteOffset}:${bytes.byteLength}`;
+  const cached2 = bufferCache.get(key2);
+  if (cached2) return cached2;
+  const reader = makeReader(bytes);
+  const header = reader.view.getUint8(reader.offset++);
+  const version2 = header & 15;
+  if (version2 !== 1) throw new Error(`parquet unsupported variant metadata version: ${version2}`);
+  const sorted = (header >> 4 & 1) === 1;
+  const offsetSize = (header >> 6 & 3) + 1;
+  const dictionarySize = readUnsigned(reader, offsetSize);
+  const offsets = new Array(dictionarySize + 1);
+  for (let i = 0; i < offsets.length; i++) {
+    offsets[i] = readUnsigned(reader, offsetSize);
+  }
+  const base = reader.offset;
+  const dictionary2 = new Array(dictionarySize);
+  for (let i = 0; i < dictionarySize; i++) {
+    const start = offsets[i];
+    const end = offsets[i + 1];
+    const strBytes = new Uint8Array(bytes.buffer, bytes.byteOffset + base + start, end - start);
+    dictionary2[i] = decoder3.decode(strBytes);
+  }
+  const metadata = { dictionary: dictionary2, sorted };
+  bufferCache.set(key2, metadata);
+  return metadata;
+}
+function readUnsigned(reader, byteWidth2) {
+  let value3 = 0;
+  for (let i = 0; i < byteWidth2; i++) {
+    value3 |= reader.view.getUint8(reader.offset + i) << i * 8;
+  }
+  reader.offset += byteWidth2;
+  return value3;
+}
+function readVariant(reader, metadata, parsers) {
+  const typeByte = reader.view.getUint8(reader.offset++);
+  const basicType = typeByte & 3;
+  const header = typeByte >> 2;
+  if (basicType === 0) return readVariantPrimitive(reader, header, parsers);
+  if (basicType === 2) return readVariantObject(reader, header, metadata, parsers);
+  if (basicType === 3) return readVariantArray(reader, header, metadata, parsers);
+  const bytes = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, header);
+  reader.offset += header;
+  return decoder3.decode(bytes);
+}
+function readVariantPrimitive(reader, typeId, parsers) {
+  switch (typeId) {
+    case 0:
+      return null;
+    case 1:
+      return true;
+    case 2:
+      return false;
+    case 3: {
+      const value3 = reader.view.getInt8(reader.offset);
+      reader.offset += 1;
+      return value3;
+    }
+    case 4: {
+      const value3 = reader.view.getInt16(reader.offset, true);
+      reader.offset += 2;
+      return value3;
+    }
+    case 5: {
+      const value3 = reader.view.getInt32(reader.offset, true);
+      reader.offset += 4;
+      return value3;
+    }
+    case 6: {
+      const value3 = reader.view.getBigInt64(reader.offset, true);
+      reader.offset += 8;
+      return value3;
+    }
+    case 7: {
+      const value3 = reader.view.getFloat64(reader.offset, true);
+      reader.offset += 8;
+      return value3;
+    }
+    case 8:
+      return readVariantDecimal(reader, 4);
+    case 9:
+      return readVariantDecimal(reader, 8);
+    case 10:
+      return readVariantDecimal(reader, 16);
+    case 11: {
+      const value3 = reader.view.getInt32(reader.offset, true);
+      reader.offset += 4;
+      return parsers.dateFromDays(value3);
+    }
+    case 12:
+    // timestamp_micros (utc)
+    case 13: {
+      const value3 = reader.view.getBigInt64(reader.offset, true);
+      reader.offset += 8;
+      return parsers.timestampFromMicroseconds(value3);
+    }
+    case 14: {
+      const value3 = reader.view.getFloat32(reader.offset, true);
+      reader.offset += 4;
+      return value3;
+    }
+    case 15:
+      return readVariantBinary(reader);
+    case 16: {
+      const bytes = readVariantBinary(reader);
+      return decoder3.decode(bytes);
+    }
+    case 17: {
+      const value3 = reader.view.getBigInt64(reader.offset, true);
+      reader.offset += 8;
+      return value3;
+    }
+    case 18:
+    // timestamp_nanos (utc)
+    case 19: {
+      const value3 = reader.view.getBigInt64(reader.offset, true);
+      reader.offset += 8;
+      return parsers.timestampFromNanoseconds(value3);
+    }
+    case 20: {
+      const bytes = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, 16);
+      reader.offset += 16;
+      const hex3 = Array.from(bytes, (b) => b.toString(16).padStart(2, "0")).join("");
+      return `${hex3.slice(0, 8)}-${hex3.slice(8, 12)}-${hex3.slice(12, 16)}-${hex3.slice(16, 20)}-${hex3.slice(20)}`;
+    }
+    default:
+      throw new Error(`parquet unsupported variant primitive type: ${typeId}`);
+  }
+}
+function readVariantObject(reader, header, metadata, parsers) {
+  const offsetWidth = (header & 3) + 1;
+  const idWidth = (header >> 2 & 3) + 1;
+  const isLarge = header >> 4 & 1;
+  const numElements = isLarge ? readUnsigned(reader, 4) : reader.view.getUint8(reader.offset++);
+  const fieldIds = new Array(numElements);
+  for (let i = 0; i < numElements; i++) {
+    fieldIds[i] = readUnsigned(reader, idWidth);
+  }
+  const offsets = new Array(numElements + 1);
+  for (let i = 0; i < offsets.length; i++) {
+    offsets[i] = readUnsigned(reader, offsetWidth);
+  }
+  const out = {};
+  for (let i = 0; i < numElements; i++) {
+    const key2 = metadata.dictionary[fieldIds[i]];
+    const valueReader = {
+      view: reader.view,
+      offset: reader.offset + offsets[i]
+    };
+    out[key2] = readVariant(valueReader, metadata, parsers);
+  }
+  reader.offset += offsets[offsets.length - 1];
+  return out;
+}
+function readVariantArray(reader, header, metadata, parsers) {
+  const fieldOffsetSize = header & 3;
+  const isLarge = header >> 2 & 1;
+  const offsetWidth = fieldOffsetSize + 1;
+  const numElements = readUnsigned(reader, isLarge ? 4 : 1);
+  const offsets = new Array(numElements + 1);
+  for (let i = 0; i < offsets.length; i++) {
+    offsets[i] = readUnsigned(reader, offsetWidth);
+  }
+  const valuesStart = reader.offset;
+  const result = new Array(numElements);
+  for (let i = 0; i < numElements; i++) {
+    const valueReader = {
+      view: reader.view,
+      offset: valuesStart + offsets[i]
+    };
+    result[i] = readVariant(valueReader, metadata, parsers);
+  }
+  reader.offset = valuesStart + offsets[offsets.length - 1];
+  return result;
+}
+function readVariantDecimal(reader, width) {
+  const scale = reader.view.getUint8(reader.offset);
+  reader.offset += 1;
+  let unscaled;
+  if (width === 4) {
+    unscaled = BigInt(reader.view.getInt32(reader.offset, true));
+    reader.offset += 4;
+  } else if (width === 8) {
+    unscaled = reader.view.getBigInt64(reader.offset, true);
+    reader.offset += 8;
+  } else {
+    const low = reader.view.getBigUint64(reader.offset, true);
+    const high = reader.view.getBigInt64(reader.offset + 8, true);
+    unscaled = high << 64n | low;
+    reader.offset += 16;
+  }
+  return Number(unscaled) * 10 ** -scale;
+}
+function readVariantBinary(reader) {
+  const length2 = reader.view.getUint32(reader.offset, true);
+  reader.offset += 4;
+  const bytes = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, length2);
+  reader.offset += length2;
+  return bytes;
+}
+
+// node_modules/hyparquet/src/assemble.js
+function assembleLists(output2, definitionLevels, repetitionLevels, values, schemaPath) {
+  const maxDefinitionLevel = getMaxDefinitionLevel(schemaPath);
+  if (!definitionLevels?.length && !repetitionLevels.length) {
+    if (!maxDefinitionLevel || !values.length) return values;
+    definitionLevels = new Array(values.length).fill(maxDefinitionLevel);
+  }
+  const n = definitionLevels?.length || repetitionLevels.length;
+  const repetitionPath = schemaPath.map(({ element }) => element.repetition_type);
+  let valueIndex = 0;
+  const containerStack = [output2];
+  let currentContainer = output2;
+  let currentDepth = 0;
+  let currentDefLevel = 0;
+  let currentRepLevel = 0;
+  if (repetitionLevels[0]) {
+    while (currentDepth < repetitionPath.length - 2 && currentRepLevel < repetitionLevels[0]) {
+      currentDepth++;
+      if (repetitionPath[currentDepth] !== "REQUIRED") {
+        currentContainer = currentContainer.at(-1);
+        containerStack.push(currentContainer);
+        currentDefLevel++;
+      }
+      if (repetitionPath[currentDepth] === "REPEATED") currentRepLevel++;
+    }
+  }
+  for (let i = 0; i < n; i++) {
+    const def = definitionLevels?.length ? definitionLevels[i] : maxDefinitionLevel;
+    const rep = repetitionLevels[i];
+    while (currentDepth && (rep < currentRepLevel || repetitionPath[currentDepth] !== "REPEATED")) {
+      if (repetitionPath[currentDepth] !== "REQUIRED") {
+        containerStack.pop();
+        currentDefLevel--;
+      }
+      if (repetitionPath[currentDepth] === "REPEATED") currentRepLevel--;
+      currentDepth--;
+    }
+    currentContainer = containerStack.at(-1);
+    while ((currentDepth < repetitionPath.length - 2 || repetitionPath[currentDepth + 1] === "REPEATED") && (currentDefLevel < def || repetitionPath[currentDepth + 1] === "REQUIRED")) {
+      currentDepth++;
+      if (repetitionPath[currentDepth] !== "REQUIRED") {
+        const newList = [];
+        currentContainer.push(newList);
+        currentContainer = newList;
+        containerStack.push(newList);
+        currentDefLevel++;
+      }
+      if (repetitionPath[currentDepth] === "REPEATED") currentRepLevel++;
+    }
+    if (def === maxDefinitionLevel) {
+      currentContainer.push(values[valueIndex++]);
+    } else if (currentDepth === repetitionPath.length - 2) {
+      currentContainer.push(null);
+    } else {
+      currentContainer.push([]);
+    }
+  }
+  if (!output2.length) {
+    for (let i = 0; i < maxDefinitionLevel; i++) {
+      const newList = [];
+      currentContainer.push(newList);
+      currentContainer = newList;
+    }
+  }
+  return output2;
+}
+function assembleNested(subcolumnData, schema, parsers, depth = 0) {
+  const path = schema.path.join(".");
+  const optional4 = schema.element.repetition_type === "OPTIONAL";
+  const nextDepth = optional4 ? depth + 1 : depth;
+  if (isListLike(schema)) {
+    let sublist = schema.children[0];
+    let subDepth = nextDepth;
+    if (sublist.children.length === 1) {
+      sublist = sublist.children[0];
+      subDepth++;
+    }
+    assembleNested(subcolumnData, sublist, parsers, subDepth);
+    const subcolumn = sublist.path.join(".");
+    const values = subcolumnData.get(subcolumn);
+    if (!values) throw new Error("parquet list column missing values");
+    if (optional4) flattenAtDepth(values, depth);
+    subcolumnData.set(path, values);
+    subcolumnData.delete(subcolumn);
+    return;
+  }
+  if (isMapLike(schema)) {
+    const mapName = schema.children[0].element.name;
+    assembleNested(subcolumnData, schema.children[0].children[0], parsers, nextDepth + 1);
+    assembleNested(subcolumnData, schema.children[0].children[1], parsers, nextDepth + 1);
+    const keys = subcolumnData.get(`${path}.${mapName}.key`);
+    const values = subcolumnData.get(`${path}.${mapName}.value`);
+    if (!keys) throw new Error("parquet map column missing keys");
+    if (!values) throw new Error("parquet map column missing values");
+    if (keys.length !== values.length) {
+      throw new Error("parquet map column key/value length mismatch");
+    }
+    const out = assembleMaps(keys, values, nextDepth);
+    if (optional4) flattenAtDepth(out, depth);
+    subcolumnData.delete(`${path}.${mapName}.key`);
+    subcolumnData.delete(`${path}.${mapName}.value`);
+    subcolumnData.set(path, out);
+    return;
+  }
+  if (schema.children.length) {
+    const invertDepth = schema.element.repetition_type === "REQUIRED" ? depth : depth + 1;
+    const struct = {};
+    for (const child2 of schema.children) {
+      assembleNested(subcolumnData, child2, parsers, invertDepth);
+      const childData = subcolumnData.get(child2.path.join("."));
+      if (!childData) throw new Error("parquet struct missing child data");
+      struct[child2.element.name] = childData;
+    }
+    for (const child2 of schema.children) {
+      subcolumnData.delete(child2.path.join("."));
+    }
+    let inverted = invertStruct(struct, invertDepth);
+    if (schema.element.logical_type?.type === "VARIANT") {
+      inverted = decodeVariantColumn(inverted, parsers);
+    }
+    if (optional4) flattenAtDepth(inverted, depth);
+    subcolumnData.set(path, inverted);
+  }
+}
+function flattenAtDepth(arr, depth) {
+  for (let i = 0; i < arr.length; i++) {
+    if (depth) {
+      flattenAtDepth(arr[i], depth - 1);
+    } else {
+      arr[i] = arr[i][0];
+    }
+  }
+}
+function assembleMaps(keys, values, depth) {
+  const out = [];
+  for (let i = 0; i < keys.length; i++) {
+    if (depth) {
+      out.push(assembleMaps(keys[i], values[i], depth - 1));
+    } else {
+      if (keys[i]) {
+        const obj = {};
+        for (let j = 0; j < keys[i].length; j++) {
+          const value3 = values[i][j];
+          obj[keys[i][j]] = value3 === void 0 ? null : value3;
+        }
+        out.push(obj);
+      } else {
+        out.push(void 0);
+      }
+    }
+  }
+  return out;
+}
+function invertStruct(struct, depth) {
+  const keys = Object.keys(struct);
+  const length2 = struct[keys[0]]?.length;
+  const out = [];
+  for (let i = 0; i < length2; i++) {
+    const obj = {};
+    for (const key2 of keys) {
+      if (struct[key2].length !== length2) throw new Error("parquet struct parsing error");
+      obj[key2] = struct[key2][i];
+    }
+    if (depth) {
+      out.push(invertStruct(obj, depth - 1));
+    } else {
+      out.push(obj);
+    }
+  }
+  return out;
+}
+
+// node_modules/hyparquet/src/delta.js
+function deltaBinaryUnpack(reader, count4, output2) {
+  if (output2 instanceof Int32Array) {
+    deltaBinaryUnpackInt32(reader, count4, output2);
+    return;
+  }
+  const blockSize = readVarInt(reader);
+  const miniblockPerBlock = readVarInt(reader);
+  readVarInt(reader);
+  let value3 = readZigZagBigInt(reader);
+  let outputIndex = 0;
+  output2[outputIndex++] = value3;
+  const valuesPerMiniblock = blockSize / miniblockPerBlock;
+  while (outputIndex < count4) {
+    const minDelta = readZigZagBigInt(reader);
+    const bitWidths = new Uint8Array(miniblockPerBlock);
+    for (let i = 0; i < miniblockPerBlock; i++) {
+      bitWidths[i] = reader.view.getUint8(reader.offset++);
+    }
+    for (let i = 0; i < miniblockPerBlock && outputIndex < count4; i++) {
+      const bitWidth2 = bitWidths[i];
+      if (bitWidth2) {
+        let bitpackPos = 0;
+        let miniblockCount = valuesPerMiniblock;
+        const mask = (1n << BigInt(bitWidth2)) - 1n;
+        while (miniblockCount && outputIndex < count4) {
+          let bits2 = BigInt(reader.view.getUint32(reader.offset, true) >>> bitpackPos) & mask;
+          bitpackPos += bitWidth2;
+          while (bitpackPos >= 32) {
+            bitpackPos -= 32;
+            reader.offset += 4;
+            if (bitpackPos) {
+              bits2 |= BigInt(reader.view.getUint32(reader.offset, true)) << BigInt(bitWidth2 - bitpackPos) & mask;
+            }
+          }
+          const delta = minDelta + bits2;
+          value3 += delta;
+          output2[outputIndex++] = value3;
+          miniblockCount--;
+        }
+        if (miniblockCount) {
+          reader.offset += Math.ceil((miniblockCount * bitWidth2 + bitpackPos) / 8);
+        }
+      } else {
+        for (let j = 0; j < valuesPerMiniblock && outputIndex < count4; j++) {
+          value3 += minDelta;
+          output2[outputIndex++] = value3;
+        }
+      }
+    }
+  }
+}
+function deltaBinaryUnpackInt32(reader, count4, output2) {
+  const blockSize = readVarInt(reader);
+  const miniblockPerBlock = readVarInt(reader);
+  readVarInt(reader);
+  let value3 = readZigZag(reader);
+  let outputIndex = 0;
+  output2[outputIndex++] = value3;
+  const valuesPerMiniblock = blockSize / miniblockPerBlock;
+  const { view } = reader;
+  while (outputIndex < count4) {
+    const minDelta = readZigZagInt33(reader);
+    const bitWidthsOffset = reader.offset;
+    let offset = bitWidthsOffset + miniblockPerBlock;
+    for (let i = 0; i < miniblockPerBlock && outputIndex < count4; i++) {
+      const bitWidth2 = view.getUint8(bitWidthsOffset + i);
+      const end = offset + valuesPerMiniblock * bitWidth2 / 8;
+      let bitOffset = 0;
+      for (let j = 0; j < valuesPerMiniblock && outputIndex < count4; j++) {
+        let residual = 0;
+        let bitsRead = 0;
+        while (bitsRead < bitWidth2) {
+          const bitsToRead = Math.min(8 - bitOffset, bitWidth2 - bitsRead);
+          if (bitsRead < 32) {
+            residual |= (view.getUint8(offset) >>> bitOffset & (1 << bitsToRead) - 1) << bitsRead;
+          }
+          bitsRead += bitsToRead;
+          bitOffset += bitsToRead;
+          if (bitOffset === 8) {
+            bitOffset = 0;
+            offset++;
+          }
+        }
+        value3 = value3 + minDelta + residual | 0;
+        output2[outputIndex++] = value3;
+      }
+      offset = end;
+    }
+    reader.offset = offset;
+  }
+}
+function readZigZagInt33(reader) {
+  const start = reader.offset;
+  const low = readVarInt(reader);
+  const high = reader.offset - start === 5 ? reader.view.getUint8(start + 4) >>> 4 & 1 : 0;
+  return (low >>> 1 | high << 31) ^ -(low & 1);
+}
+function deltaLengthByteArray(reader, count4, output2) {
+  const lengths = new Int32Array(count4);
+  deltaBinaryUnpack(reader, count4, lengths);
+  for (let i = 0; i < count4; i++) {
+    output2[i] = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, lengths[i]);
+    reader.offset += lengths[i];
+  }
+}
+function deltaByteArray(reader, count4, output2) {
+  const prefixData = new Int32Array(count4);
+  deltaBinaryUnpack(reader, count4, prefixData);
+  const suffixData = new Int32Array(count4);
+  deltaBinaryUnpack(reader, count4, suffixData);
+  for (let i = 0; i < count4; i++) {
+    const suffix = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, suffixData[i]);
+    if (prefixData[i]) {
+      output2[i] = new Uint8Array(prefixData[i] + suffixData[i]);
+      output2[i].set(output2[i - 1].subarray(0, prefixData[i]));
+      output2[i].set(suffix, prefixData[i]);
+    } else {
+      output2[i] = suffix;
+    }
+    reader.offset += suffixData[i];
+  }
+}
+
+// node_modules/hyparquet/src/encoding.js
+function readRleBitPackedHybrid(reader, width, output2, length2) {
+  if (length2 === void 0) {
+    length2 = reader.view.getUint32(reader.offset, true);
+    reader.offset += 4;
+  }
+  const startOffset = reader.offset;
+  let seen = 0;
+  while (seen < output2.length) {
+    const header = readVarInt(reader);
+    if (header & 1) {
+      seen = readBitPacked(reader, header, width, output2, seen);
+    } else {
+      const count4 = header >>> 1;
+      readRle(reader, count4, width, output2, seen);
+      seen += count4;
+    }
+  }
+  reader.offset = startOffset + length2;
+}
+function readRle(reader, count4, bitWidth2, output2, seen) {
+  const width = bitWidth2 + 7 >> 3;
+  let value3 = 0;
+  for (let i = 0; i < width; i++) {
+    value3 |= reader.view.getUint8(reader.offset++) << (i << 3);
+  }
+  for (let i = 0; i < count4; i++) {
+    output2[seen + i] = value3;
+  }
+}
+function readBitPacked(reader, header, bitWidth2, output2, seen) {
+  let count4 = header >> 1 << 3;
+  const mask = (1 << bitWidth2) - 1;
+  let data = 0;
+  if (reader.offset < reader.view.byteLength) {
+    data = reader.view.getUint8(reader.offset++);
+  } else if (mask) {
+    throw new Error(`parquet bitpack offset ${reader.offset} out of range`);
+  }
+  let left = 8;
+  let right = 0;
+  while (count4) {
+    if (right > 8) {
+      right -= 8;
+      left -= 8;
+      data >>>= 8;
+    } else if (left - right < bitWidth2) {
+      data |= reader.view.getUint8(reader.offset) << left;
+      reader.offset++;
+      left += 8;
+    } else {
+      if (seen < output2.length) {
+        output2[seen++] = data >> right & mask;
+      }
+      count4--;
+      right += bitWidth2;
+    }
+  }
+  return seen;
+}
+function byteStreamSplit(reader, count4, type, typeLength) {
+  const width = byteWidth(type, typeLength);
+  const bytes = new Uint8Array(count4 * width);
+  for (let b = 0; b < width; b++) {
+    for (let i = 0; i < count4; i++) {
+      bytes[i * width + b] = reader.view.getUint8(reader.offset++);
+    }
+  }
+  if (type === "FLOAT") return new Float32Array(bytes.buffer);
+  else if (type === "DOUBLE") return new Float64Array(bytes.buffer);
+  else if (type === "INT32") return new Int32Array(bytes.buffer);
+  else if (type === "INT64") return new BigInt64Array(bytes.buffer);
+  else if (type === "FIXED_LEN_BYTE_ARRAY") {
+    const split = new Array(count4);
+    for (let i = 0; i < count4; i++) {
+      split[i] = bytes.subarray(i * width, (i + 1) * width);
+    }
+    return split;
+  }
+  throw new Error(`parquet byte_stream_split unsupported type: ${type}`);
+}
+function byteWidth(type, typeLength) {
+  switch (type) {
+    case "INT32":
+    case "FLOAT":
+      return 4;
+    case "INT64":
+    case "DOUBLE":
+      return 8;
+    case "FIXED_LEN_BYTE_ARRAY":
+      if (!typeLength) throw new Error("parquet byteWidth missing type_length");
+      return typeLength;
+    default:
+      throw new Error(`parquet unsupported type: ${type}`);
+  }
+}
+
+// node_modules/hyparquet/src/plain.js
+function readPlain(reader, type, count4, fixedLength2) {
+  if (count4 === 0) return [];
+  if (type === "BOOLEAN") {
+    return readPlainBoolean(reader, count4);
+  } else if (type === "INT32") {
+    return readPlainInt32(reader, count4);
+  } else if (type === "INT64") {
+    return readPlainInt64(reader, count4);
+  } else if (type === "INT96") {
+    return readPlainInt96(reader, count4);
+  } else if (type === "FLOAT") {
+    return readPlainFloat(reader, count4);
+  } else if (type === "DOUBLE") {
+    return readPlainDouble(reader, count4);
+  } else if (type === "BYTE_ARRAY") {
+    return readPlainByteArray(reader, count4);
+  } else if (type === "FIXED_LEN_BYTE_ARRAY") {
+    if (!fixedLength2) throw new Error("parquet missing fixed length");
+    return readPlainByteArrayFixed(reader, count4, fixedLength2);
+  } else {
+    throw new Error(`parquet unhandled type: ${type}`);
+  }
+}
+function readPlainBoolean(reader, count4) {
+  const values = new Array(count4);
+  for (let i = 0; i < count4; i++) {
+    const byteOffset = reader.offset + (i / 8 | 0);
+    const bitOffset = i % 8;
+    const byte = reader.view.getUint8(byteOffset);
+    values[i] = (byte & 1 << bitOffset) !== 0;
+  }
+  reader.offset += Math.ceil(count4 / 8);
+  return values;
+}
+function readPlainInt32(reader, count4) {
+  const values = (reader.view.byteOffset + reader.offset) % 4 ? new Int32Array(align(reader.view.buffer, reader.view.byteOffset + reader.offset, count4 * 4)) : new Int32Array(reader.view.buffer, reader.view.byteOffset + reader.offset, count4);
+  reader.offset += count4 * 4;
+  return values;
+}
+function readPlainInt64(reader, count4) {
+  const values = (reader.view.byteOffset + reader.offset) % 8 ? new BigInt64Array(align(reader.view.buffer, reader.view.byteOffset + reader.offset, count4 * 8)) : new BigInt64Array(reader.view.buffer, reader.view.byteOffset + reader.offset, count4);
+  reader.offset += count4 * 8;
+  return values;
+}
+function readPlainInt96(reader, count4) {
+  const values = new Array(count4);
+  for (let i = 0; i < count4; i++) {
+    const low = reader.view.getBigInt64(reader.offset + i * 12, true);
+    const high = reader.view.getInt32(reader.offset + i * 12 + 8, true);
+    values[i] = BigInt(high) << 64n | low;
+  }
+  reader.offset += count4 * 12;
+  return values;
+}
+function readPlainFloat(reader, count4) {
+  const values = (reader.view.byteOffset + reader.offset) % 4 ? new Float32Array(align(reader.view.buffer, reader.view.byteOffset + reader.offset, count4 * 4)) : new Float32Array(reader.view.buffer, reader.view.byteOffset + reader.offset, count4);
+  reader.offset += count4 * 4;
+  return values;
+}
+function readPlainDouble(reader, count4) {
+  const values = (reader.view.byteOffset + reader.offset) % 8 ? new Float64Array(align(reader.view.buffer, reader.view.byteOffset + reader.offset, count4 * 8)) : new Float64Array(reader.view.buffer, reader.view.byteOffset + reader.offset, count4);
+  reader.offset += count4 * 8;
+  return values;
+}
+function readPlainByteArray(reader, count4) {
+  const values = new Array(count4);
+  for (let i = 0; i < count4; i++) {
+    const length2 = reader.view.getUint32(reader.offset, true);
+    reader.offset += 4;
+    values[i] = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, length2);
+    reader.offset += length2;
+  }
+  return values;
+}
+function readPlainByteArrayFixed(reader, count4, fixedLength2) {
+  const values = new Array(count4);
+  for (let i = 0; i < count4; i++) {
+    values[i] = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, fixedLength2);
+    reader.offset += fixedLength2;
+  }
+  return values;
+}
+function align(buffer, offset, size) {
+  const aligned = new ArrayBuffer(size);
+  new Uint8Array(aligned).set(new Uint8Array(buffer, offset, size));
+  return aligned;
+}
+
+// node_modules/hyparquet/src/snappy.js
+var WORD_MASK = [0, 255, 65535, 16777215, 4294967295];
+function copyBytes(fromArray, fromPos, toArray, toPos, length2) {
+  for (let i = 0; i < length2; i++) {
+    toArray[toPos + i] = fromArray[fromPos + i];
+  }
+}
+function snappyUncompress(input2, output2) {
+  const inputLength = input2.byteLength;
+  const outputLength = output2.byteLength;
+  let pos = 0;
+  let outPos = 0;
+  while (pos < inputLength) {
+    const c = input2[pos];
+    pos++;
+    if (c < 128) {
+      break;
+    }
+  }
+  if (outputLength && pos >= inputLength) {
+    throw new Error("invalid snappy length header");
+  }
+  while (pos < inputLength) {
+    const c = input2[pos];
+    let len = 0;
+    pos++;
+    if (pos >= inputLength) {
+      throw new Error("missing eof marker");
+    }
+    if ((c & 3) === 0) {
+      let len2 = (c >>> 2) + 1;
+      if (len2 > 60) {
+        if (pos + 3 >= inputLength) {
+          throw new Error("snappy error literal pos + 3 >= inputLength");
+        }
+        const lengthSize = len2 - 60;
+        len2 = input2[pos] + (input2[pos + 1] << 8) + (input2[pos + 2] << 16) + (input2[pos + 3] << 24);
+        len2 = (len2 & WORD_MASK[lengthSize]) + 1;
+        pos += lengthSize;
+      }
+      if (pos + len2 > inputLength) {
+        throw new Error("snappy error literal exceeds input length");
+      }
+      copyBytes(input2, pos, output2, outPos, len2);
+      pos += len2;
+      outPos += len2;
+    } else {
+      let offset = 0;
+      switch (c & 3) {
+        case 1:
+          len = (c >>> 2 & 7) + 4;
+          offset = input2[pos] + (c >>> 5 << 8);
+          pos++;
+          break;
+        case 2:
+          if (inputLength <= pos + 1) {
+            throw new Error("snappy error end of input");
+          }
+          len = (c >>> 2) + 1;
+          offset = input2[pos] + (input2[pos + 1] << 8);
+          pos += 2;
+          break;
+        case 3:
+          if (inputLength <= pos + 3) {
+            throw new Error("snappy error end of input");
+          }
+          len = (c >>> 2) + 1;
+          offset = input2[pos] + (input2[pos + 1] << 8) + (input2[pos + 2] << 16) + (input2[pos + 3] << 24);
+          pos += 4;
+          break;
+        default:
+          break;
+      }
+      if (offset === 0 || isNaN(offset)) {
+        throw new Error(`invalid offset ${offset} pos ${pos} inputLength ${inputLength}`);
+      }
+      if (offset > outPos) {
+        throw new Error("cannot copy from before start of buffer");
+      }
+      copyBytes(output2, outPos - offset, output2, outPos, len);
+      outPos += len;
+    }
+  }
+  if (outPos !== outputLength) throw new Error("premature end of input");
+}
+
+// node_modules/hyparquet/src/datapage.js
+function readDataPage(bytes, daph, { type, element, schemaPath }) {
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const reader = { view, offset: 0 };
+  let dataPage;
+  const repetitionLevels = readRepetitionLevels(reader, daph, schemaPath);
+  const { definitionLevels, numNulls } = readDefinitionLevels(reader, daph, schemaPath);
+  const nValues = daph.num_values - numNulls;
+  if (daph.encoding === "PLAIN") {
+    dataPage = readPlain(reader, type, nValues, element.type_length);
+  } else if (daph.encoding === "PLAIN_DICTIONARY" || daph.encoding === "RLE_DICTIONARY" || daph.encoding === "RLE") {
+    const bitWidth2 = type === "BOOLEAN" ? 1 : view.getUint8(reader.offset++);
+    if (bitWidth2) {
+      dataPage = new Array(nValues);
+      if (type === "BOOLEAN") {
+        readRleBitPackedHybrid(reader, bitWidth2, dataPage);
+        dataPage = dataPage.map((x) => !!x);
+      } else {
+        readRleBitPackedHybrid(reader, bitWidth2, dataPage, view.byteLength - reader.offset);
+      }
+    } else {
+      dataPage = new Uint8Array(nValues);
+    }
+  } else if (daph.encoding === "BYTE_STREAM_SPLIT") {
+    dataPage = byteStreamSplit(reader, nValues, type, element.type_length);
+  } else if (daph.encoding === "DELTA_BINARY_PACKED") {
+    const int322 = type === "INT32";
+    dataPage = int322 ? new Int32Array(nValues) : new BigInt64Array(nValues);
+    deltaBinaryUnpack(reader, nValues, dataPage);
+  } else if (daph.encoding === "DELTA_LENGTH_BYTE_ARRAY") {
+    dataPage = new Array(nValues);
+    deltaLengthByteArray(reader, nValues, dataPage);
+  } else if (daph.encoding === "DELTA_BYTE_ARRAY") {
+    dataPage = new Array(nValues);
+    deltaByteArray(reader, nValues, dataPage);
+  } else {
+    throw new Error(`parquet unsupported encoding: ${daph.encoding}`);
+  }
+  return { definitionLevels, repetitionLevels, dataPage };
+}
+function readRepetitionLevels(reader, daph, schemaPath) {
+  if (schemaPath.length > 1) {
+    const maxRepetitionLevel = getMaxRepetitionLevel(schemaPath);
+    if (maxRepetitionLevel) {
+      const values = new Array(daph.num_values);
+      readRleBitPackedHybrid(reader, bitWidth(maxRepetitionLevel), values);
+      return values;
+    }
+  }
+  return [];
+}
+function readDefinitionLevels(reader, daph, schemaPath) {
+  const maxDefinitionLevel = getMaxDefinitionLevel(schemaPath);
+  if (!maxDefinitionLevel) return { definitionLevels: [], numNulls: 0 };
+  const definitionLevels = new Array(daph.num_values);
+  readRleBitPackedHybrid(reader, bitWidth(maxDefinitionLevel), definitionLevels);
+  let numNulls = daph.num_values;
+  for (const def of definitionLevels) {
+    if (def === maxDefinitionLevel) numNulls--;
+  }
+  if (numNulls === 0) definitionLevels.length = 0;
+  return { definitionLevels, numNulls };
+}
+function decompressPage(compressedBytes, uncompressed_page_size, codec2, compressors2) {
+  let page2;
+  const customDecompressor = compressors2?.[codec2];
+  if (codec2 === "UNCOMPRESSED") {
+    page2 = compressedBytes;
+  } else if (customDecompressor) {
+    page2 = customDecompressor(compressedBytes, uncompressed_page_size);
+  } else if (codec2 === "SNAPPY") {
+    page2 = new Uint8Array(uncompressed_page_size);
+    snappyUncompress(compressedBytes, page2);
+  } else {
+    throw new Error(`parquet unsupported compression codec: ${codec2}`);
+  }
+  if (page2?.length !== uncompressed_page_size) {
+    throw new Error(`parquet decompressed page length ${page2?.length} does not match header ${uncompressed_page_size}`);
+  }
+  return page2;
+}
+function readDataPageV2(compressedBytes, ph, columnDecoder) {
+  const view = new DataView(compressedBytes.buffer, compressedBytes.byteOffset, compressedBytes.byteLength);
+  const reader = { view, offset: 0 };
+  const { type, element, schemaPath, codec: codec2, compressors: compressors2 } = columnDecoder;
+  const daph2 = ph.data_page_header_v2;
+  if (!daph2) throw new Error("parquet data page header v2 is undefined");
+  const repetitionLevels = readRepetitionLevelsV2(reader, daph2, schemaPath);
+  reader.offset = daph2.repetition_levels_byte_length;
+  const definitionLevels = readDefinitionLevelsV2(reader, daph2, schemaPath);
+  const uncompressedPageSize = ph.uncompressed_page_size - daph2.definition_levels_byte_length - daph2.repetition_levels_byte_length;
+  let page2 = compressedBytes.subarray(reader.offset);
+  if (daph2.is_compressed !== false) {
+    page2 = decompressPage(page2, uncompressedPageSize, codec2, compressors2);
+  }
+  const pageView = new DataView(page2.buffer, page2.byteOffset, page2.byteLength);
+  const pageReader = { view: pageView, offset: 0 };
+  let dataPage;
+  const nValues = daph2.num_values - daph2.num_nulls;
+  if (daph2.encoding === "PLAIN") {
+    dataPage = readPlain(pageReader, type, nValues, element.type_length);
+  } else if (daph2.encoding === "RLE") {
+    dataPage = new Array(nValues);
+    readRleBitPackedHybrid(pageReader, 1, dataPage);
+    dataPage = dataPage.map((x) => !!x);
+  } else if (daph2.encoding === "PLAIN_DICTIONARY" || daph2.encoding === "RLE_DICTIONARY") {
+    const bitWidth2 = pageView.getUint8(pageReader.offset++);
+    dataPage = new Array(nValues);
+    readRleBitPackedHybrid(pageReader, bitWidth2, dataPage, uncompressedPageSize - 1);
+  } else if (daph2.encoding === "DELTA_BINARY_PACKED") {
+    const int322 = type === "INT32";
+    dataPage = int322 ? new Int32Array(nValues) : new BigInt64Array(nValues);
+    deltaBinaryUnpack(pageReader, nValues, dataPage);
+  } else if (daph2.encoding === "DELTA_LENGTH_BYTE_ARRAY") {
+    dataPage = new Array(nValues);
+    deltaLengthByteArray(pageReader, nValues, dataPage);
+  } else if (daph2.encoding === "DELTA_BYTE_ARRAY") {
+    dataPage = new Array(nValues);
+    deltaByteArray(pageReader, nValues, dataPage);
+  } else if (daph2.encoding === "BYTE_STREAM_SPLIT") {
+    dataPage = byteStreamSplit(pageReader, nValues, type, element.type_length);
+  } else {
+    throw new Error(`parquet unsupported encoding: ${daph2.encoding}`);
+  }
+  return { definitionLevels, repetitionLevels, dataPage };
+}
+function readRepetitionLevelsV2(reader, daph2, schemaPath) {
+  const maxRepetitionLevel = getMaxRepetitionLevel(schemaPath);
+  if (!maxRepetitionLevel) return [];
+  const values = new Array(daph2.num_values);
+  readRleBitPackedHybrid(reader, bitWidth(maxRepetitionLevel), values, daph2.repetition_levels_byte_length);
+  return values;
+}
+function readDefinitionLevelsV2(reader, daph2, schemaPath) {
+  const maxDefinitionLevel = getMaxDefinitionLevel(schemaPath);
+  if (maxDefinitionLevel) {
+    const values = new Array(daph2.num_values);
+    readRleBitPackedHybrid(reader, bitWidth(maxDefinitionLevel), values, daph2.definition_levels_byte_length);
+    return values;
+  }
+}
+function bitWidth(value3) {
+  return 32 - Math.clz32(value3);
+}
+
+// node_modules/hyparquet/src/column.js
+function readColumn(reader, { groupStart, selectStart, selectEnd }, columnDecoder, onPage) {
+  const { pathInSchema, schemaPath } = columnDecoder;
+  const isFlat = isFlatColumn(schemaPath);
+  const chunks = [];
+  let dictionary2 = void 0;
+  let lastChunk = void 0;
+  let rowCount = 0;
+  let skipped = 0;
+  const emitLastChunk = onPage && (() => {
+    lastChunk && onPage({
+      pathInSchema,
+      columnData: lastChunk,
+      rowStart: groupStart + rowCount - lastChunk.length,
+      rowEnd: groupStart + rowCount
+    });
+  });
+  while (isFlat ? rowCount < selectEnd : reader.offset < reader.view.byteLength - 1) {
+    if (reader.offset >= reader.view.byteLength - 1) break;
+    const header = parquetHeader(reader);
+    if (header.type === "DICTIONARY_PAGE") {
+      const { data } = readPage(reader, header, columnDecoder, dictionary2, void 0, 0);
+      if (data) dictionary2 = convert(data, columnDecoder);
+    } else {
+      const lastChunkLength = lastChunk?.length || 0;
+      const result = readPage(reader, header, columnDecoder, dictionary2, lastChunk, selectStart - rowCount);
+      if (result.skipped) {
+        if (!chunks.length) {
+          skipped += result.skipped;
+        }
+        rowCount += result.skipped;
+      } else if (result.data && lastChunk === result.data) {
+        rowCount += result.data.length - lastChunkLength;
+      } else if (result.data && result.data.length) {
+        emitLastChunk?.();
+        chunks.push(result.data);
+        rowCount += result.data.length;
+        lastChunk = result.data;
+      }
+    }
+  }
+  emitLastChunk?.();
+  return { data: chunks, skipped };
+}
+function readPage(reader, header, columnDecoder, dictionary2, previousChunk, pageStart) {
+  const { type, element, schemaPath, codec: codec2, compressors: compressors2 } = columnDecoder;
+  const compressedBytes = new Uint8Array(
+    reader.view.buffer,
+    reader.view.byteOffset + reader.offset,
+    header.compressed_page_size
+  );
+  reader.offset += header.compressed_page_size;
+  if (header.type === "DATA_PAGE") {
+    const daph = header.data_page_header;
+    if (!daph) throw new Error("parquet data page header is undefined");
+    if (pageStart > daph.num_values && isFlatColumn(schemaPath)) {
+      return { skipped: daph.num_values };
+    }
+    const page2 = decompressPage(compressedBytes, Number(header.uncompressed_page_size), codec2, compressors2);
+    const { definitionLevels, repetitionLevels, dataPage } = readDataPage(page2, daph, columnDecoder);
+    const values = convertWithDictionary(dataPage, dictionary2, daph.encoding, columnDecoder);
+    const output2 = Array.isArray(previousChunk) ? previousChunk : [];
+    const assembled = assembleLists(output2, definitionLevels, repetitionLevels, values, schemaPath);
+    return { skipped: 0, data: assembled };
+  } else if (header.type === "DATA_PAGE_V2") {
+    const daph2 = header.data_page_header_v2;
+    if (!daph2) throw new Error("parquet data page header v2 is undefined");
+    if (pageStart > daph2.num_rows) {
+      return { skipped: daph2.num_rows };
+    }
+    const { definitionLevels, repetitionLevels, dataPage } = readDataPageV2(compressedBytes, header, columnDecoder);
+    const values = convertWithDictionary(dataPage, dictionary2, daph2.encoding, columnDecoder);
+    const output2 = Array.isArray(previousChunk) ? previousChunk : [];
+    const assembled = assembleLists(output2, definitionLevels, repetitionLevels, values, schemaPath);
+    return { skipped: 0, data: assembled };
+  } else if (header.type === "DICTIONARY_PAGE") {
+    const diph = header.dictionary_page_header;
+    if (!diph) throw new Error("parquet dictionary page header is undefined");
+    const page2 = decompressPage(
+      compressedBytes,
+      Number(header.uncompressed_page_size),
+      codec2,
+      compressors2
+    );
+    const reader2 = { view: new DataView(page2.buffer, page2.byteOffset, page2.byteLength), offset: 0 };
+    const dictArray = readPlain(reader2, type, diph.num_values, element.type_length);
+    return { skipped: 0, data: dictArray };
+  } else {
+    throw new Error(`parquet unsupported page type: ${header.type}`);
+  }
+}
+function parquetHeader(reader) {
+  const header = deserializeTCompactProtocol(reader);
+  const type = PageTypes[header.field_1];
+  const uncompressed_page_size = header.field_2;
+  const compressed_page_size = header.field_3;
+  const crc = header.field_4;
+  const data_page_header = header.field_5 && {
+    num_values: header.field_5.field_1,
+    encoding: Encodings[header.field_5.field_2],
+    definition_level_encoding: Encodings[header.field_5.field_3],
+    repetition_level_encoding: Encodings[header.field_5.field_4],
+    statistics: pageStatistics(header.field_5.field_5)
+  };
+  const index_page_header = header.field_6;
+  const dictionary_page_header = header.field_7 && {
+    num_values: header.field_7.field_1,
+    encoding: Encodings[header.field_7.field_2],
+    is_sorted: header.field_7.field_3
+  };
+  const data_page_header_v2 = header.field_8 && {
+    num_values: header.field_8.field_1,
+    num_nulls: header.field_8.field_2,
+    num_rows: header.field_8.field_3,
+    encoding: Encodings[header.field_8.field_4],
+    definition_levels_byte_length: header.field_8.field_5,
+    repetition_levels_byte_length: header.field_8.field_6,
+    is_compressed: header.field_8.field_7 === void 0 ? true : header.field_8.field_7,
+    // default true
+    statistics: pageStatistics(header.field_8.field_8)
+  };
+  return {
+    type,
+    uncompressed_page_size,
+    compressed_page_size,
+    crc,
+    data_page_header,
+    index_page_header,
+    dictionary_page_header,
+    data_page_header_v2
+  };
+}
+function pageStatistics(stats) {
+  return stats && {
+    max: stats.field_1,
+    min: stats.field_2,
+    null_count: stats.field_3,
+    distinct_count: stats.field_4,
+    max_value: stats.field_5,
+    min_value: stats.field_6,
+    is_max_value_exact: stats.field_7,
+    is_min_value_exact: stats.field_8
+  };
+}
+
+// node_modules/hyparquet/src/rowgroup.js
+function readRowGroup(options, { metadata }, groupPlan) {
+  const asyncColumns = [];
+  const schemaTree2 = parquetSchema(metadata);
+  for (const chunk of groupPlan.chunks) {
+    const { path_in_schema: pathInSchema } = chunk.columnMetadata;
+    const schemaPath = getTreePath(schemaTree2, pathInSchema);
+    const columnDecoder = {
+      pathInSchema,
+      element: schemaPath[schemaPath.length - 1].element,
+      schemaPath,
+      ...options,
+      ...chunk.columnMetadata,
+      // merge after options, so a partial parsers object keeps the defaults
+      parsers: { ...DEFAULT_PARSERS, ...options.parsers }
+    };
+    const { startByte, endByte } = chunk.range;
+    if ("pageLocations" in chunk) {
+      asyncColumns.push({
+        pathInSchema,
+        data: readSelectedPages(options, groupPlan, chunk, chunk.pageLocations, columnDecoder)
+      });
+    } else if ("offsetIndex" in chunk) {
+      asyncColumns.push({
+        pathInSchema,
+        // fetch offset index
+        data: Promise.resolve(options.file.slice(chunk.offsetIndex.startByte, chunk.offsetIndex.endByte)).then((arrayBuffer) => {
+          const pages = readOffsetIndex({ view: new DataView(arrayBuffer), offset: 0 }).page_locations;
+          return readSelectedPages(options, groupPlan, chunk, pages, columnDecoder);
+        })
+      });
+    } else {
+      asyncColumns.push({
+        pathInSchema,
+        data: Promise.resolve(options.file.slice(startByte, endByte)).then((buffer) => {
+          const reader = { view: new DataView(buffer), offset: 0 };
+          return readColumn(reader, groupPlan, columnDecoder, options.onPage);
+        })
+      });
+    }
+  }
+  return {
+    groupStart: groupPlan.groupStart,
+    groupRows: groupPlan.groupRows,
+    selectStart: groupPlan.selectStart,
+    selectEnd: groupPlan.selectEnd,
+    asyncColumns
+  };
+}
+async function readSelectedPages(options, groupPlan, chunk, pages, columnDecoder) {
+  const { data_page_offset, dictionary_page_offset } = chunk.columnMetadata;
+  const { selectStart, selectEnd } = groupPlan;
+  let { startByte, endByte } = chunk.range;
+  let skipped = -1;
+  const hasDict = dictionary_page_offset || data_page_offset < pages[0].offset;
+  for (let i = 0; i < pages.length; i++) {
+    const page2 = pages[i];
+    const pageStart = Number(page2.first_row_index);
+    const pageEnd = i + 1 < pages.length ? Number(pages[i + 1].first_row_index) : groupPlan.groupRows;
+    if (skipped < 0 && pageEnd > selectStart) {
+      startByte = Number(page2.offset);
+      skipped = pageStart;
+    }
+    if (pageStart < selectEnd) {
+      endByte = Number(page2.offset) + page2.compressed_page_size;
+    }
+  }
+  if (skipped < 0) skipped = 0;
+  let view;
+  if (hasDict && skipped) {
+    const dictLength = Number(pages[0].offset) - chunk.range.startByte;
+    const [dictBuffer, dataBuffer] = await Promise.all([
+      options.file.slice(chunk.range.startByte, Number(pages[0].offset)),
+      options.file.slice(startByte, endByte)
+    ]);
+    const combined = new Uint8Array(dictLength + dataBuffer.byteLength);
+    combined.set(new Uint8Array(dictBuffer, 0, dictLength));
+    combined.set(new Uint8Array(dataBuffer), dictLength);
+    view = new DataView(combined.buffer);
+  } else if (hasDict) {
+    view = new DataView(await options.file.slice(chunk.range.startByte, endByte));
+  } else {
+    view = new DataView(await options.file.slice(startByte, endByte));
+  }
+  const reader = { view, offset: 0 };
+  const adjustedGroupPlan = skipped ? {
+    ...groupPlan,
+    groupStart: groupPlan.groupStart + skipped,
+    selectStart: groupPlan.selectStart - skipped,
+    selectEnd: groupPlan.selectEnd - skipped
+  } : groupPlan;
+  const { data, skipped: columnSkipped } = readColumn(reader, adjustedGroupPlan, columnDecoder, options.onPage);
+  return {
+    data,
+    skipped: skipped + columnSkipped
+  };
+}
+async function asyncGroupToRows({ asyncColumns }, selectStart, selectEnd, columns, rowFormat) {
+  const asyncPages = await Promise.all(asyncColumns.map(
+    (column) => column.data.then(({ skipped, data }) => ({ skipped, data: flatten(data) }))
+  ));
+  const selectCount = selectEnd - selectStart;
+  if (rowFormat === "object") {
+    const groupData2 = Array(selectCount);
+    for (let selectRow = 0; selectRow < selectCount; selectRow++) {
+      const rowData = {};
+      for (let i = 0; i < asyncColumns.length; i++) {
+        const { data, skipped } = asyncPages[i];
+        rowData[asyncColumns[i].pathInSchema[0]] = data[selectStart + selectRow - skipped];
+      }
+      groupData2[selectRow] = rowData;
+    }
+    return groupData2;
+  }
+  const includedColumnNames = asyncColumns.map((child2) => child2.pathInSchema[0]).filter((name) => !columns || columns.includes(name));
+  const columnOrder = columns ?? includedColumnNames;
+  const columnIndexes = columnOrder.map((name) => asyncColumns.findIndex((column) => column.pathInSchema[0] === name));
+  const groupData = Array(selectCount);
+  for (let selectRow = 0; selectRow < selectCount; selectRow++) {
+    const rowData = Array(asyncColumns.length);
+    for (let i = 0; i < columnOrder.length; i++) {
+      const colIdx = columnIndexes[i];
+      if (colIdx < 0) throw new Error(`parquet column not found: ${columnOrder[i]}`);
+      const { data, skipped } = asyncPages[colIdx];
+      rowData[i] = data[selectStart + selectRow - skipped];
+    }
+    groupData[selectRow] = rowData;
+  }
+  return groupData;
+}
+function assembleAsync(asyncRowGroup, schemaTree2, parsers) {
+  const { asyncColumns } = asyncRowGroup;
+  const allParsers = { ...DEFAULT_PARSERS, ...parsers };
+  const assembled = [];
+  for (const child2 of schemaTree2.children) {
+    if (child2.children.length) {
+      const childColumns = asyncColumns.filter((column) => column.pathInSchema[0] === child2.element.name);
+      if (!childColumns.length) continue;
+      assembled.push({
+        pathInSchema: child2.path,
+        data: (async () => {
+          const resolved = await Promise.all(childColumns.map((c) => c.data));
+          const subcolumnData = /* @__PURE__ */ new Map();
+          const flattened = resolved.map(({ data }) => flatten(data));
+          const skipped = Math.max(asyncRowGroup.selectStart ?? 0, ...resolved.map((result) => result.skipped));
+          const end = Math.min(asyncRowGroup.selectEnd ?? Infinity, ...resolved.map((result, i) => result.skipped + flattened[i].length));
+          for (let i = 0; i < childColumns.length; i++) {
+            const start = skipped - resolved[i].skipped;
+            const length2 = Math.max(0, end - skipped);
+            subcolumnData.set(
+              childColumns[i].pathInSchema.join("."),
+              flattened[i].slice(start, start + length2)
+            );
+          }
+          assembleNested(subcolumnData, child2, allParsers);
+          const assembled2 = subcolumnData.get(child2.element.name);
+          if (!assembled2) throw new Error("parquet column data not assembled");
+          return { data: [assembled2], skipped };
+        })()
+      });
+    } else {
+      const asyncColumn = asyncColumns.find((column) => column.pathInSchema[0] === child2.element.name);
+      if (asyncColumn) assembled.push(asyncColumn);
+    }
+  }
+  return { ...asyncRowGroup, asyncColumns: assembled };
+}
+
+// node_modules/hyparquet/src/scan.js
+async function prepareParquetRead(options) {
+  const prepared = await prepareParquetOptions(options);
+  return {
+    options: prepared,
+    plan: parquetPlan(prepared)
+  };
+}
+async function prepareParquetOptions(options) {
+  const metadata = options.metadata ?? await parquetMetadataAsync(options.file, options);
+  const schemaColumns = parquetSchema(metadata).children.map((child2) => child2.element.name);
+  const filterColumns = columnsNeededForFilter(options.filter);
+  const missingFilterColumns = filterColumns.filter((column) => !schemaColumns.includes(column));
+  if (missingFilterColumns.length) {
+    throw new Error(`parquet filter columns not found: ${missingFilterColumns.join(", ")}`);
+  }
+  if (options.columns) {
+    const missingColumns = options.columns.filter((column) => !schemaColumns.includes(column));
+    if (missingColumns.length) throw new Error(`parquet column not found: ${missingColumns[0]}`);
+  }
+  let prepared = { ...options, metadata };
+  prepared = await withBloomFilters(prepared);
+  prepared = await withPageIndexes(prepared);
+  return prepared;
+}
+function readParquetPlan(options, plan) {
+  const readOptions = { ...options, file: prefetchAsyncBuffer(options.file, plan) };
+  return plan.groups.map((group) => readRowGroup(readOptions, plan, group));
+}
+async function withBloomFilters(options) {
+  if (!options.useBloomFilters || !options.filter || !options.metadata) return options;
+  const schemaTree2 = parquetSchema(options.metadata);
+  const schemaElements = {};
+  for (const child2 of schemaTree2.children) schemaElements[child2.element.name] = child2.element;
+  const bloomFiltersByGroup = await prefetchBloomFilters({
+    file: options.file,
+    metadata: options.metadata,
+    filter: options.filter,
+    filterStrict: options.filterStrict
+  });
+  return { ...options, bloomFiltersByGroup, schemaElements };
+}
+async function withPageIndexes(options) {
+  if (!options.usePageIndex || !options.filter || !options.metadata) return options;
+  const { pageRangesByGroup, pageLocationsByGroup } = await prefetchPageIndexes({
+    file: options.file,
+    metadata: options.metadata,
+    filter: options.filter,
+    filterStrict: options.filterStrict,
+    rowStart: options.rowStart,
+    rowEnd: options.rowEnd,
+    columns: options.columns,
+    bloomFiltersByGroup: options.bloomFiltersByGroup,
+    schemaElements: options.schemaElements,
+    parsers: options.parsers
+  });
+  return { ...options, pageRangesByGroup, pageLocationsByGroup };
+}
+
+// node_modules/hyparquet/src/read.js
+var rowIndex = (
+  /** @type {typeof import('../src/types.js').rowIndex} */
+  /* @__PURE__ */ Symbol("rowIndex")
+);
+async function parquetRead(options) {
+  options.metadata ??= await parquetMetadataAsync(options.file, options);
+  const { rowStart = 0, rowEnd, columns, onChunk, onComplete, rowFormat, filter, filterStrict = true } = options;
+  if (filter && rowFormat !== "object") {
+    throw new Error('parquet filter requires rowFormat: "object"');
+  }
+  if (options.includeRowIndex && rowFormat !== "object") {
+    throw new Error('parquet includeRowIndex requires rowFormat: "object"');
+  }
+  const filterColumns = columnsNeededForFilter(filter);
+  let readColumns = columns;
+  if (columns && filterColumns.length) {
+    const selectedColumns = new Set(columns);
+    const extraColumns = filterColumns.filter((column) => !selectedColumns.has(column));
+    if (extraColumns.length) readColumns = [...columns, ...extraColumns];
+  }
+  const readOptions = readColumns === columns ? options : { ...options, columns: readColumns };
+  const prepared = await prepareParquetRead(readOptions);
+  const preparedOptions = prepared.options;
+  const requiresProjection = readColumns !== columns;
+  const asyncGroups = readParquetPlan(preparedOptions, prepared.plan);
+  if (!onComplete && !onChunk) {
+    await awaitAllColumns(asyncGroups);
+    return;
+  }
+  if (!preparedOptions.metadata) throw new Error("parquet requires metadata");
+  const schemaTree2 = parquetSchema(preparedOptions.metadata);
+  const assembled = asyncGroups.map((arg) => assembleAsync(arg, schemaTree2, options.parsers));
+  if (onChunk) {
+    for (const asyncGroup of assembled) {
+      for (const asyncColumn of asyncGroup.asyncColumns) {
+        asyncColumn.data.then(({ data, skipped }) => {
+          let rowStart2 = asyncGroup.groupStart + skipped;
+          for (const columnData of data) {
+            onChunk({
+              columnName: asyncColumn.pathInSchema[0],
+              columnData,
+              rowStart: rowStart2,
+              rowEnd: rowStart2 + columnData.length
+            });
+            rowStart2 += columnData.length;
+          }
+        }, () => {
+        });
+      }
+    }
+  }
+  if (onComplete) {
+    await awaitAllColumns(assembled);
+    const rows = [];
+    for (const asyncGroup of assembled) {
+      const selectStart = asyncGroup.selectStart ?? Math.max(rowStart - asyncGroup.groupStart, 0);
+      const selectEnd = asyncGroup.selectEnd ?? Math.min((rowEnd ?? Infinity) - asyncGroup.groupStart, asyncGroup.groupRows);
+      const groupData = rowFormat === "object" ? await asyncGroupToRows(asyncGroup, selectStart, selectEnd, readColumns, "object") : await asyncGroupToRows(asyncGroup, selectStart, selectEnd, columns, "array");
+      if (options.includeRowIndex) {
+        for (let i = 0; i < groupData.length; i++) {
+          Object.defineProperty(groupData[i], rowIndex, {
+            value: asyncGroup.groupStart + selectStart + i
+          });
+        }
+      }
+      if (filter) {
+        for (
+          const row of
+          /** @type {Record<string, any>[]} */
+          groupData
+        ) {
+          if (matchFilter(row, filter, filterStrict)) {
+            if (requiresProjection && columns) {
+              for (const col of filterColumns) {
+                if (!columns.includes(col)) delete row[col];
+              }
+            }
+            rows.push(row);
+          }
+        }
+      } else {
+        concat(rows, groupData);
+      }
+    }
+    onComplete(rows);
+  } else {
+    await awaitAllColumns(assembled);
+  }
+}
+async function awaitAllColumns(asyncGroups) {
+  const all = asyncGroups.flatMap((g2) => g2.asyncColumns.map((c) => c.data));
+  const results = await Promise.allSettled(all);
+  const failed = results.find((r) => r.status === "rejected");
+  if (failed) throw failed.reason;
+}
+function parquetReadObjects(options) {
+  return new Promise((onComplete, reject) => {
+    parquetRead({
+      ...options,
+      rowFormat: "object",
+      // force object output
+      onComplete
+    }).catch(reject);
+  });
+}
+
+// node_modules/fzstd/esm/index.mjs
+var ab = ArrayBuffer;
+var u8 = Uint8Array;
+var u16 = Uint16Array;
+var i16 = Int16Array;
+var i32 = Int32Array;
+var slc = function(v, s, e2) {
+  if (u8.prototype.slice)
+    return u8.prototype.slice.call(v, s, e2);
+  if (s == null || s < 0)
+    s = 0;
+  if (e2 == null || e2 > v.length)
+    e2 = v.length;
+  var n = new u8(e2 - s);
+  n.set(v.subarray(s, e2));
+  return n;
+};
+var fill = function(v, n, s, e2) {
+  if (u8.prototype.fill)
+    return u8.prototype.fill.call(v, n, s, e2);
+  if (s == null || s < 0)
+    s = 0;
+  if (e2 == null || e2 > v.length)
+    e2 = v.length;
+  for (; s < e2; ++s)
+    v[s] = n;
+  return v;
+};
+var cpw = function(v, t, s, e2) {
+  if (u8.prototype.copyWithin)
+    return u8.prototype.copyWithin.call(v, t, s, e2);
+  if (s == null || s < 0)
+    s = 0;
+  if (e2 == null || e2 > v.length)
+    e2 = v.length;
+  while (s < e2) {
+    v[t++] = v[s++];
+  }
+};
+var ec = [
+  "invalid zstd data",
+  "window size too large (>2046MB)",
+  "invalid block type",
+  "FSE accuracy too high",
+  "match distance too far back",
+  "unexpected EOF"
+];
+var err = function(ind, msg, nt) {
+  var e2 = new Error(msg || ec[ind]);
+  e2.code = ind;
+  if (Error.captureStackTrace)
+    Error.captureStackTrace(e2, err);
+  if (!nt)
+    throw e2;
+  return e2;
+};
+var rb = function(d, b, n) {
+  var i = 0, o = 0;
+  for (; i < n; ++i)
+    o |= d[b++] << (i << 3);
+  return o;
+};
+var b4 = function(d, b) {
+  return (d[b] | d[b + 1] << 8 | d[b + 2] << 16 | d[b + 3] << 24) >>> 0;
+};
+var rzfh = function(dat, w) {
+  var n3 = dat[0] | dat[1] << 8 | dat[2] << 16;
+  if (n3 == 3126568 && dat[3] == 253) {
+    var flg = dat[4];
+    var ss = flg >> 5 & 1, cc = flg >> 2 & 1, df = flg & 3, fcf = flg >> 6;
+    if (flg & 8)
+      err(0);
+    var bt = 6 - ss;
+    var db = df == 3 ? 4 : df;
+    var di = rb(dat, bt, db);
+    bt += db;
+    var fsb = fcf ? 1 << fcf : ss;
+    var fss = rb(dat, bt, fsb) + (fcf == 1 && 256);
+    var ws = fss;
+    if (!ss) {
+      var wb = 1 << 10 + (dat[5] >> 3);
+      ws = wb + (wb >> 3) * (dat[5] & 7);
+    }
+    if (ws > 2145386496)
+      err(1);
+    var buf = new u8((w == 1 ? fss || ws : w ? 0 : ws) + 12);
+    buf[0] = 1, buf[4] = 4, buf[8] = 8;
+    return {
+      b: bt + fsb,
+      y: 0,
+      l: 0,
+      d: di,
+      w: w && w != 1 ? w : buf.subarray(12),
+      e: ws,
+      o: new i32(buf.buffer, 0, 3),
+      u: fss,
+      c: cc,
+      m: Math.min(131072, ws)
+    };
+  } else if ((n3 >> 4 | dat[3] << 20) == 25481893) {
+    return b4(dat, 4) + 8;
+  }
+  err(0);
+};
+var msb = function(val) {
+  var bits2 = 0;
+  for (; 1 << bits2 <= val; ++bits2)
+    ;
+  return bits2 - 1;
+};
+var rfse = function(dat, bt, mal) {
+  var tpos = (bt << 3) + 4;
+  var al = (dat[bt] & 15) + 5;
+  if (al > mal)
+    err(3);
+  var sz = 1 << al;
+  var probs = sz, sym = -1, re = -1, i = -1, ht = sz;
+  var buf = new ab(512 + (sz << 2));
+  var freq = new i16(buf, 0, 256);
+  var dstate = new u16(buf, 0, 256);
+  var nstate = new u16(buf, 512, sz);
+  var bb1 = 512 + (sz << 1);
+  var syms = new u8(buf, bb1, sz);
+  var nbits = new u8(buf, bb1 + sz);
+  while (sym < 255 && probs > 0) {
+    var bits2 = msb(probs + 1);
+    var cbt = tpos >> 3;
+    var msk = (1 << bits2 + 1) - 1;
+    var val = (dat[cbt] | dat[cbt + 1] << 8 | dat[cbt + 2] << 16) >> (tpos & 7) & msk;
+    var msk1fb = (1 << bits2) - 1;
+    var msv = msk - probs - 1;
+    var sval = val & msk1fb;
+    if (sval < msv)
+      tpos += bits2, val = sval;
+    else {
+      tpos += bits2 + 1;
+      if (val > msk1fb)
+        val -= msv;
+    }
+    freq[++sym] = --val;
+    if (val == -1) {
+      probs += val;
+      syms[--ht] = sym;
+    } else
+      probs -= val;
+    if (!val) {
+      do {
+        var rbt = tpos >> 3;
+        re = (dat[rbt] | dat[rbt + 1] << 8) >> (tpos & 7) & 3;
+        tpos += 2;
+        sym += re;
+      } while (re == 3);
+    }
+  }
+  if (sym > 255 || probs)
+    err(0);
+  var sympos = 0;
+  var sstep = (sz >> 1) + (sz >> 3) + 3;
+  var smask = sz - 1;
+  for (var s = 0; s <= sym; ++s) {
+    var sf = freq[s];
+    if (sf < 1) {
+      dstate[s] = -sf;
+      continue;
+    }
+    for (i = 0; i < sf; ++i) {
+      syms[sympos] = s;
+      do {
+        sympos = sympos + sstep & smask;
+      } while (sympos >= ht);
+    }
+  }
+  if (sympos)
+    err(0);
+  for (i = 0; i < sz; ++i) {
+    var ns = dstate[syms[i]]++;
+    var nb = nbits[i] = al - msb(ns);
+    nstate[i] = (ns << nb) - sz;
+  }
+  return [tpos + 7 >> 3, {
+    b: al,
+    s: syms,
+    n: nbits,
+    t: nstate
+  }];
+};
+var rhu = function(dat, bt) {
+  var i = 0, wc = -1;
+  var buf = new u8(292), hb = dat[bt];
+  var hw = buf.subarray(0, 256);
+  var rc = buf.subarray(256, 268);
+  var ri = new u16(buf.buffer, 268);
+  if (hb < 128) {
+    var _a3 = rfse(dat, bt + 1, 6), ebt = _a3[0], fdt = _a3[1];
+    bt += hb;
+    var epos = ebt << 3;
+    var lb = dat[bt];
+    if (!lb)
+      err(0);
+    var st1 = 0, st2 = 0, btr1 = fdt.b, btr2 = btr1;
+    var fpos = (++bt << 3) - 8 + msb(lb);
+    for (; ; ) {
+      fpos -= btr1;
+      if (fpos < epos)
+        break;
+      var cbt = fpos >> 3;
+      st1 += (dat[cbt] | dat[cbt + 1] << 8) >> (fpos & 7) & (1 << btr1) - 1;
+      hw[++wc] = fdt.s[st1];
+      fpos -= btr2;
+      if (fpos < epos)
+        break;
+      cbt = fpos >> 3;
+      st2 += (dat[cbt] | dat[cbt + 1] << 8) >> (fpos & 7) & (1 << btr2) - 1;
+      hw[++wc] = fdt.s[st2];
+      btr1 = fdt.n[st1];
+      st1 = fdt.t[st1];
+      btr2 = fdt.n[st2];
+      st2 = fdt.t[st2];
+    }
+    if (++wc > 255)
+      err(0);
+  } else {
+    wc = hb - 127;
+    for (; i < wc; i += 2) {
+      var byte = dat[++bt];
+      hw[i] = byte >> 4;
+      hw[i + 1] = byte & 15;
+    }
+    ++bt;
+  }
+  var wes = 0;
+  for (i = 0; i < wc; ++i) {
+    var wt = hw[i];
+    if (wt > 11)
+      err(0);
+    wes += wt && 1 << wt - 1;
+  }
+  var mb = msb(wes) + 1;
+  var ts = 1 << mb;
+  var rem = ts - wes;
+  if (rem & rem - 1)
+    err(0);
+  hw[wc++] = msb(rem) + 1;
+  for (i = 0; i < wc; ++i) {
+    var wt = hw[i];
+    ++rc[hw[i] = wt && mb + 1 - wt];
+  }
+  var hbuf = new u8(ts << 1);
+  var syms = hbuf.subarray(0, ts), nb = hbuf.subarray(ts);
+  ri[mb] = 0;
+  for (i = mb; i > 0; --i) {
+    var pv = ri[i];
+    fill(nb, i, pv, ri[i - 1] = pv + rc[i] * (1 << mb - i));
+  }
+  if (ri[0] != ts)
+    err(0);
+  for (i = 0; i < wc; ++i) {
+    var bits2 = hw[i];
+    if (bits2) {
+      var code2 = ri[bits2];
+      fill(syms, i, code2, ri[bits2] = code2 + (1 << mb - bits2));
+    }
+  }
+  return [bt, {
+    n: nb,
+    b: mb,
+    s: syms
+  }];
+};
+var dllt = rfse(/* @__PURE__ */ new u8([
+  81,
+  16,
+  99,
+  140,
+  49,
+  198,
+  24,
+  99,
+  12,
+  33,
+  196,
+  24,
+  99,
+  102,
+  102,
+  134,
+  70,
+  146,
+  4
+]), 0, 6)[1];
+var dmlt = rfse(/* @__PURE__ */ new u8([
+  33,
+  20,
+  196,
+  24,
+  99,
+  140,
+  33,
+  132,
+  16,
+  66,
+  8,
+  33,
+  132,
+  16,
+  66,
+  8,
+  33,
+  68,
+  68,
+  68,
+  68,
+  68,
+  68,
+  68,
+  68,
+  36,
+  9
+]), 0, 6)[1];
+var doct = rfse(/* @__PURE__ */ new u8([
+  32,
+  132,
+  16,
+  66,
+  102,
+  70,
+  68,
+  68,
+  68,
+  68,
+  36,
+  73,
+  2
+]), 0, 5)[1];
+var b2bl = function(b, s) {
+  var len = b.length, bl = new i32(len);
+  for (var i = 0; i < len; ++i) {
+    bl[i] = s;
+    s += 1 << b[i];
+  }
+  return bl;
+};
+var llb = /* @__PURE__ */ new u8((/* @__PURE__ */ new i32([
+  0,
+  0,
+  0,
+  0,
+  16843009,
+  50528770,
+  134678020,
+  202050057,
+  269422093
+])).buffer, 0, 36);
+var llbl = /* @__PURE__ */ b2bl(llb, 0);
+var mlb = /* @__PURE__ */ new u8((/* @__PURE__ */ new i32([
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  16843009,
+  50528770,
+  117769220,
+  185207048,
+  252579084,
+  16
+])).buffer, 0, 53);
+var mlbl = /* @__PURE__ */ b2bl(mlb, 3);
+var dhu = function(dat, out, hu) {
+  var len = dat.length, ss = out.length, lb = dat[len - 1], msk = (1 << hu.b) - 1, eb = -hu.b;
+  if (!lb)
+    err(0);
+  var st = 0, btr = hu.b, pos = (len << 3) - 8 + msb(lb) - btr, i = -1;
+  for (; pos > eb && i < ss; ) {
+    var cbt = pos >> 3;
+    var val = (dat[cbt] | dat[cbt + 1] << 8 | dat[cbt + 2] << 16) >> (pos & 7);
+    st = (st << btr | val) & msk;
+    out[++i] = hu.s[st];
+    pos -= btr = hu.n[st];
+  }
+  if (pos != eb || i + 1 != ss)
+    err(0);
+};
+var dhu4 = function(dat, out, hu) {
+  var bt = 6;
+  var ss = out.length, sz1 = ss + 3 >> 2, sz2 = sz1 << 1, sz3 = sz1 + sz2;
+  dhu(dat.subarray(bt, bt += dat[0] | dat[1] << 8), out.subarray(0, sz1), hu);
+  dhu(dat.subarray(bt, bt += dat[2] | dat[3] << 8), out.subarray(sz1, sz2), hu);
+  dhu(dat.subarray(bt, bt += dat[4] | dat[5] << 8), out.subarray(sz2, sz3), hu);
+  dhu(dat.subarray(bt), out.subarray(sz3), hu);
+};
+var rzb = function(dat, st, out) {
+  var _a3;
+  var bt = st.b;
+  var b0 = dat[bt], btype = b0 >> 1 & 3;
+  st.l = b0 & 1;
+  var sz = b0 >> 3 | dat[bt + 1] << 5 | dat[bt + 2] << 13;
+  var ebt = (bt += 3) + sz;
+  if (btype == 1) {
+    if (bt >= dat.length)
+      return;
+    st.b = bt + 1;
+    if (out) {
+      fill(out, dat[bt], st.y, st.y += sz);
+      return out;
+    }
+    return fill(new u8(sz), dat[bt]);
+  }
+  if (ebt > dat.length)
+    return;
+  if (btype == 0) {
+    st.b = ebt;
+    if (out) {
+      out.set(dat.subarray(bt, ebt), st.y);
+      st.y += sz;
+      return out;
+    }
+    return slc(dat, bt, ebt);
+  }
+  if (btype == 2) {
+    var b3 = dat[bt], lbt = b3 & 3, sf = b3 >> 2 & 3;
+    var lss = b3 >> 4, lcs = 0, s4 = 0;
+    if (lbt < 2) {
+      if (sf & 1)
+        lss |= dat[++bt] << 4 | (sf & 2 && dat[++bt] << 12);
+      else
+        lss = b3 >> 3;
+    } else {
+      s4 = sf;
+      if (sf < 2)
+        lss |= (dat[++bt] & 63) << 4, lcs = dat[bt] >> 6 | dat[++bt] << 2;
+      else if (sf == 2)
+        lss |= dat[++bt] << 4 | (dat[++bt] & 3) << 12, lcs = dat[bt] >> 2 | dat[++bt] << 6;
+      else
+        lss |= dat[++bt] << 4 | (dat[++bt] & 63) << 12, lcs = dat[bt] >> 6 | dat[++bt] << 2 | dat[++bt] << 10;
+    }
+    ++bt;
+    var buf = out ? out.subarray(st.y, st.y + st.m) : new u8(st.m);
+    var spl = buf.length - lss;
+    if (lbt == 0)
+      buf.set(dat.subarray(bt, bt += lss), spl);
+    else if (lbt == 1)
+      fill(buf, dat[bt++], spl);
+    else {
+      var hu = st.h;
+      if (lbt == 2) {
+        var hud = rhu(dat, bt);
+        lcs += bt - (bt = hud[0]);
+        st.h = hu = hud[1];
+      } else if (!hu)
+        err(0);
+      (s4 ? dhu4 : dhu)(dat.subarray(bt, bt += lcs), buf.subarray(spl), hu);
+    }
+    var ns = dat[bt++];
+    if (ns) {
+      if (ns == 255)
+        ns = (dat[bt++] | dat[bt++] << 8) + 32512;
+      else if (ns > 127)
+        ns = ns - 128 << 8 | dat[bt++];
+      var scm = dat[bt++];
+      if (scm & 3)
+        err(0);
+      var dts = [dmlt, doct, dllt];
+      for (var i = 2; i > -1; --i) {
+        var md = scm >> (i << 1) + 2 & 3;
+        if (md == 1) {
+          var rbuf = new u8([0, 0, dat[bt++]]);
+          dts[i] = {
+            s: rbuf.subarray(2, 3),
+            n: rbuf.subarray(0, 1),
+            t: new u16(rbuf.buffer, 0, 1),
+            b: 0
+          };
+        } else if (md == 2) {
+          _a3 = rfse(dat, bt, 9 - (i & 1)), bt = _a3[0], dts[i] = _a3[1];
+        } else if (md == 3) {
+          if (!st.t)
+            err(0);
+          dts[i] = st.t[i];
+        }
+      }
+      var _b = st.t = dts, mlt = _b[0], oct = _b[1], llt = _b[2];
+      var lb = dat[ebt - 1];
+      if (!lb)
+        err(0);
+      var spos = (ebt << 3) - 8 + msb(lb) - llt.b, cbt = spos >> 3, oubt = 0;
+      var lst = (dat[cbt] | dat[cbt + 1] << 8) >> (spos & 7) & (1 << llt.b) - 1;
+      cbt = (spos -= oct.b) >> 3;
+      var ost = (dat[cbt] | dat[cbt + 1] << 8) >> (spos & 7) & (1 << oct.b) - 1;
+      cbt = (spos -= mlt.b) >> 3;
+      var mst = (dat[cbt] | dat[cbt + 1] << 8) >> (spos & 7) & (1 << mlt.b) - 1;
+      for (++ns; --ns; ) {
+        var llc = llt.s[lst];
+        var lbtr = llt.n[lst];
+        var mlc = mlt.s[mst];
+        var mbtr = mlt.n[mst];
+        var ofc = oct.s[ost];
+        var obtr = oct.n[ost];
+        cbt = (spos -= ofc) >> 3;
+        var ofp = 1 << ofc;
+        var off = ofp + ((dat[cbt] | dat[cbt + 1] << 8 | dat[cbt + 2] << 16 | dat[cbt + 3] << 24) >>> (spos & 7) & ofp - 1);
+        cbt = (spos -= mlb[mlc]) >> 3;
+        var ml = mlbl[mlc] + ((dat[cbt] | dat[cbt + 1] << 8 | dat[cbt + 2] << 16) >> (spos & 7) & (1 << mlb[mlc]) - 1);
+        cbt = (spos -= llb[llc]) >> 3;
+        var ll = llbl[llc] + ((dat[cbt] | dat[cbt + 1] << 8 | dat[cbt + 2] << 16) >> (spos & 7) & (1 << llb[llc]) - 1);
+        cbt = (spos -= lbtr) >> 3;
+        lst = llt.t[lst] + ((dat[cbt] | dat[cbt + 1] << 8) >> (spos & 7) & (1 << lbtr) - 1);
+        cbt = (spos -= mbtr) >> 3;
+        mst = mlt.t[mst] + ((dat[cbt] | dat[cbt + 1] << 8) >> (spos & 7) & (1 << mbtr) - 1);
+        cbt = (spos -= obtr) >> 3;
+        ost = oct.t[ost] + ((dat[cbt] | dat[cbt + 1] << 8) >> (spos & 7) & (1 << obtr) - 1);
+        if (off > 3) {
+          st.o[2] = st.o[1];
+          st.o[1] = st.o[0];
+          st.o[0] = off -= 3;
+        } else {
+          var idx = off - (ll != 0);
+          if (idx) {
+            off = idx == 3 ? st.o[0] - 1 : st.o[idx];
+            if (idx > 1)
+              st.o[2] = st.o[1];
+            st.o[1] = st.o[0];
+            st.o[0] = off;
+          } else
+            off = st.o[0];
+        }
+        for (var i = 0; i < ll; ++i) {
+          buf[oubt + i] = buf[spl + i];
+        }
+        oubt += ll, spl += ll;
+        var stin = oubt - off;
+        if (stin < 0) {
+          var len = -stin;
+          var bs = st.e + stin;
+          if (len > ml)
+            len = ml;
+          for (var i = 0; i < len; ++i) {
+            buf[oubt + i] = st.w[bs + i];
+          }
+          oubt += len, ml -= len, stin = 0;
+        }
+        for (var i = 0; i < ml; ++i) {
+          buf[oubt + i] = buf[stin + i];
+        }
+        oubt += ml;
+      }
+      if (oubt != spl) {
+        while (spl < buf.length) {
+          buf[oubt++] = buf[spl++];
+        }
+      } else
+        oubt = buf.length;
+      if (out)
+        st.y += oubt;
+      else
+        buf = slc(buf, 0, oubt);
+    } else if (out) {
+      st.y += lss;
+      if (spl) {
+        for (var i = 0; i < lss; ++i) {
+          buf[i] = buf[spl + i];
+        }
+      }
+    } else if (spl)
+      buf = slc(buf, spl);
+    st.b = ebt;
+    return buf;
+  }
+  err(2);
+};
+var cct = function(bufs, ol) {
+  if (bufs.length == 1)
+    return bufs[0];
+  var buf = new u8(ol);
+  for (var i = 0, b = 0; i < bufs.length; ++i) {
+    var chk = bufs[i];
+    buf.set(chk, b);
+    b += chk.length;
+  }
+  return buf;
+};
+function decompress(dat, buf) {
+  var bufs = [], nb = +!buf;
+  var bt = 0, ol = 0;
+  for (; dat.length; ) {
+    var st = rzfh(dat, nb || buf);
+    if (typeof st == "object") {
+      if (nb) {
+        buf = null;
+        if (st.w.length == st.u) {
+          bufs.push(buf = st.w);
+          ol += st.u;
+        }
+      } else {
+        bufs.push(buf);
+        st.e = 0;
+      }
+      for (; !st.l; ) {
+        var blk = rzb(dat, st, buf);
+        if (!blk)
+          err(5);
+        if (buf)
+          st.e = st.y;
+        else {
+          bufs.push(blk);
+          ol += blk.length;
+          cpw(st.w, 0, blk.length);
+          st.w.set(blk, st.w.length - blk.length);
+        }
+      }
+      bt = st.b + st.c * 4;
+    } else
+      bt = st;
+    dat = dat.subarray(bt);
+  }
+  return cct(bufs, ol);
+}
+
+// node_modules/hysnappy/js/uncompress.js
+function snappyUncompressor() {
+  const wasm = instantiateWasm();
+  return (input2, outputLength) => {
+    const { memory, uncompress } = wasm.exports;
+    const inputStart = 68e3;
+    const outputStart = inputStart + input2.byteLength;
+    const totalSize = inputStart + input2.byteLength + outputLength;
+    if (memory.buffer.byteLength < totalSize) {
+      const pageSize = 64 * 1024;
+      const currentPages = memory.buffer.byteLength / pageSize;
+      const requiredPages = Math.ceil(totalSize / pageSize);
+      const pagesToGrow = requiredPages - currentPages;
+      memory.grow(pagesToGrow);
+    }
+    const byteArray = new Uint8Array(memory.buffer);
+    byteArray.set(input2, inputStart);
+    const result = uncompress(inputStart, input2.byteLength, outputStart);
+    if (result === -1) throw new Error("invalid snappy length header");
+    if (result === -2) throw new Error("missing eof marker");
+    if (result === -3) throw new Error("premature end of input");
+    if (result) throw new Error(`failed to uncompress data ${result}`);
+    return byteArray.slice(outputStart, outputStart + outputLength);
+  };
+}
+function instantiateWasm() {
+  const binaryString = atob(wasm64);
+  const byteArray = new Uint8Array(binaryString.length);
+  for (let i = 0; i < binaryString.length; i += 1) {
+    byteArray[i] = binaryString.charCodeAt(i);
+  }
+  const mod = new WebAssembly.Module(byteArray);
+  return new WebAssembly.Instance(mod);
+}
+var wasm64 = "AGFzbQEAAAABEANgAABgA39/fwF/YAF/AX8DBgUAAQEBAgUDAQACBj8KfwFBoIwEC38AQYAIC38AQaAMC38AQaAMC38AQaCMBAt/AEGACAt/AEGgjAQLfwBBgIAIC38AQQALfwBBAQsHwQEOBm1lbW9yeQIAEV9fd2FzbV9jYWxsX2N0b3JzAAAGbWVtY3B5AAEHbWVtbW92ZQACCnVuY29tcHJlc3MAAwxfX2Rzb19oYW5kbGUDAQpfX2RhdGFfZW5kAwILX19zdGFja19sb3cDAwxfX3N0YWNrX2hpZ2gDBA1fX2dsb2JhbF9iYXNlAwULX19oZWFwX2Jhc2UDBgpfX2hlYXBfZW5kAwcNX19tZW1vcnlfYmFzZQMIDF9fdGFibGVfYmFzZQMJCuASBQIAC8sBAQN/AkAgAkUNAAJAAkAgAkEHcSIDDQAgACEEIAIhBQwBCyAAIQQgAiEFA0AgBCABLQAAOgAAIARBAWohBCABQQFqIQEgBUF/aiEFIANBf2oiAw0ACwsgAkEISQ0AA0AgBCABLQAAOgAAIAQgAS0AAToAASAEIAEtAAI6AAIgBCABLQADOgADIAQgAS0ABDoABCAEIAEtAAU6AAUgBCABLQAGOgAGIAQgAS0ABzoAByAEQQhqIQQgAUEIaiEBIAVBeGoiBQ0ACwsgAAugAwEEfwJAIAAgAUYNAAJAAkAgACABSQ0AIAEgAmoiAyAASw0BCyACRQ0BAkACQCACQQdxIgMNACAAIQQgAiEFDAELIAAhBCACIQUDQCAEIAEtAAA6AAAgBEEBaiEEIAFBAWohASAFQX9qIQUgA0F/aiIDDQALCyACQQhJDQEDQCAEIAEtAAA6AAAgBCABLQABOgABIAQgAS0AAjoAAiAEIAEtAAM6AAMgBCABLQAEOgAEIAQgAS0ABToABSAEIAEtAAY6AAYgBCABLQAHOgAHIARBCGohBCABQQhqIQEgBUF4aiIFDQAMAgsLIAJFDQACQAJAIAJBA3EiBA0AIAAgAmohBiACIQUMAQsgAiEFA0AgBUF/aiIFIABqIgYgBSABaiIDLQAAOgAAIARBf2oiBA0ACwsgAkEESQ0AIAZBfGohASADQXxqIQQDQCABQQNqIARBA2otAAA6AAAgAUECaiAEQQJqLQAAOgAAIAFBAWogBEEBai0AADoAACABIAQtAAA6AAAgAUF8aiEBIARBfGohBCAFQXxqIgUNAAsLIAALswoBCX8jgICAgABBIGsiAySAgICAACADQQlqQgA3AAAgA0IANwIEIAMgA0EYajYCAEF/IQQCQCABRQ0AIAMgAUF/aiIFNgIcIAMgAEEBajYCGCAALAAAIgZB/wBxIQcCQCAGQX9KDQAgBUUNASADIAFBfmoiBTYCHCADIABBAmo2AhggACwAASIGQf8AcUEHdCAHciEHQX8hBCAGQX9KDQAgBUUNASADIAFBfWoiBTYCHCADIABBA2o2AhggACwAAiIGQf8AcUEOdCAHciEHQX8hBCAGQX9KDQAgBUUNASADIAFBfGoiBTYCHCADIABBBGo2AhggACwAAyIGQf8AcUEVdCAHciEHQX8hBCAGQX9KDQAgBUUNASADIAFBe2o2AhwgAyAAQQVqNgIYIAAsAAQiAUEASA0BIAFBHHQgB3IhBwsgAiAHaiEIAkACQCADEISAgIAADQAgAiEADAELIAMoAgQhASACIQADQAJAIAMoAgggAWtBBEoNACADIAE2AgQgAxCEgICAAEUNAiADKAIEIQELIAFBAWohBQJAAkAgAS0AACIGQQNxDQAgCCAAayEJIAMoAggiCiAFayEEIAZBAnYiC0EBaiEHAkAgBkE/Sw0AIARBEEkNACAJQRBIDQAgACABKAIBNgIAIAAgASgCBTYCBCAAIAEoAgk2AgggACABKAINNgIMIAAgB2ohACADKAIIIAUgB2oiAWtBBEoNAyADIAE2AgQgAxCEgICAAEUNBAwCCwJAAkAgBkHwAU8NACAFIQYMAQsgCiAFIAtBRWoiAWoiBmshBCABQQJ0QYCIgIAAaigCACAFKAIAcUEBaiEHCwJAIAcgBE0NAANAIAggAGsgBEkNBSAAIAYgBBCBgICAACEAIAMoAgAiASABKAIAIgkgAygCDCIFaiIGNgIAIAFBBGoiASABKAIAIgogBWsiATYCACADIAE2AgwgACAEaiEAIAFFDQUgAyAJIApqNgIIIAcgBGshByABIQQgByABSw0ACyAIIABrIQkLIAkgB0kNAyAAIAYgBxCBgICAACAHaiEAIAMoAgggBiAHaiIBa0EESg0CIAMgATYCBCADEISAgIAADQEMAwsgACACayAGQQF0QaCIgIAAai8BACIBQQt2IgpBAnRBgIiAgABqKAIAIAUoAgBxIAFBgA5xaiIHQX9qTQ0CIAggAGshBAJAAkAgAUH/AXEiCUEQSw0AIAdBCEkNACAEQRBJDQAgACAAIAdrIgEoAgA2AgAgACABKAIENgIEIAAgASgCCDYCCCAAIAFBDGooAgA2AgwMAQsCQAJAAkAgBCAJQQpqSQ0AIAAgB2shBCAAIQEgCSEGIAdBB0wNAQwCCyAEIAlJDQUgCUEBaiEEQQAgB2shByAAIQEDQCABIAEgB2otAAA6AAAgAUEBaiEBIARBf2oiBEEBSw0ADAMLCwNAIAEgBCgCADYCACABIAQoAgQ2AgQgBiAHayEGIAEgB2oiASAEayIHQQhIDQALCyAGQQFIDQAgBkEIaiEHA0AgASAEKAIANgIAIAEgBCgCBDYCBCABQQhqIQEgBEEIaiEEIAdBeGoiB0EISw0ACwsgACAJaiEAIAMoAgggBSAKaiIBa0EESg0BIAMgATYCBCADEISAgIAARQ0CCyADKAIEIQEMAAsLIAMoAgAiASABKAIEIAMoAgwiBGs2AgQgASAEIAEoAgBqNgIAAkAgAy0AEA0AQX4hBAwBC0EAQX0gCCAARhshBAsgA0EgaiSAgICAACAEC7YDAQd/AkAgACgCBCIBIAAoAggiAkcNACAAKAIAIgIgAigCACIDIAAoAgwiBGoiATYCACACQQRqIgIgAigCACICIARrIgU2AgAgACAFNgIMAkAgAiAERw0AIABBAToAEEEADwsgACADIAJqIgI2AggLAkACQAJAIAIgAWsiAiABLQAAQQF0QaCIgIAAai8BAEELdkEBaiIFTw0AIABBEWogASACEIKAgIAAIQYgACgCDCEEQQAhByAAQQA2AgwgACgCACIBIAEoAgQgBGs2AgQgASAEIAEoAgBqIgM2AgADQCABQQRqKAIAIgFFDQMgBiACaiADIAUgAmsiBCABIAQgAUkbIgQQgYCAgAAaIAAoAgAiASABKAIEIARrNgIEIAEgASgCACAEaiIDNgIAIAQgAmoiAiAFSQ0ACyAAIAY2AgQgACAGIAVqNgIIDAELAkAgAkEESw0AIAAgAEERaiABIAIQgoCAgAAiASACajYCCCAAIAE2AgQgACgCDCECIABBADYCDCAAKAIAIgEgASgCBCACazYCBCABIAIgASgCAGo2AgAMAQsgACABNgIEC0EBIQcLIAcLC6gEAQBBgAgLoAQAAAAA/wAAAP//AAD///8A/////wAAAAAAAAAAAAAAAAEABAgBEAEgAgAFCAIQAiADAAYIAxADIAQABwgEEAQgBQAICAUQBSAGAAkIBhAGIAcACggHEAcgCAALCAgQCCAJAAQJCRAJIAoABQkKEAogCwAGCQsQCyAMAAcJDBAMIA0ACAkNEA0gDgAJCQ4QDiAPAAoJDxAPIBAACwkQEBAgEQAEChEQESASAAUKEhASIBMABgoTEBMgFAAHChQQFCAVAAgKFRAVIBYACQoWEBYgFwAKChcQFyAYAAsKGBAYIBkABAsZEBkgGgAFCxoQGiAbAAYLGxAbIBwABwscEBwgHQAICx0QHSAeAAkLHhAeIB8ACgsfEB8gIAALCyAQICAhAAQMIRAhICIABQwiECIgIwAGDCMQIyAkAAcMJBAkICUACAwlECUgJgAJDCYQJiAnAAoMJxAnICgACwwoECggKQAEDSkQKSAqAAUNKhAqICsABg0rECsgLAAHDSwQLCAtAAgNLRAtIC4ACQ0uEC4gLwAKDS8QLyAwAAsNMBAwIDEABA4xEDEgMgAFDjIQMiAzAAYOMxAzIDQABw40EDQgNQAIDjUQNSA2AAkONhA2IDcACg43EDcgOAALDjgQOCA5AAQPORA5IDoABQ86EDogOwAGDzsQOyA8AAcPPBA8IAEICA89ED0gARAJDz4QPiABGAoPPxA/IAEgCw9AEEAgAGQEbmFtZQE9BQARX193YXNtX2NhbGxfY3RvcnMBBm1lbWNweQIHbWVtbW92ZQMKdW5jb21wcmVzcwQKcmVmaWxsX3RhZwcSAQAPX19zdGFja19wb2ludGVyCQoBAAcucm9kYXRhADIJcHJvZHVjZXJzAQxwcm9jZXNzZWQtYnkBDFVidW50dSBjbGFuZwsxNi4wLjYgKDE1KQAsD3RhcmdldF9mZWF0dXJlcwIrD211dGFibGUtZ2xvYmFscysIc2lnbi1leHQ=";
+
+// node_modules/hyparquet-compressors/src/brotli.bitreader.js
+var BROTLI_READ_SIZE = 4096;
+var BROTLI_IBUF_SIZE = 2 * BROTLI_READ_SIZE + 32;
+var BROTLI_IBUF_MASK = 2 * BROTLI_READ_SIZE - 1;
+var kBitMask = new Uint32Array([
+  0,
+  1,
+  3,
+  7,
+  15,
+  31,
+  63,
+  127,
+  255,
+  511,
+  1023,
+  2047,
+  4095,
+  8191,
+  16383,
+  32767,
+  65535,
+  131071,
+  262143,
+  524287,
+  1048575,
+  2097151,
+  4194303,
+  8388607,
+  16777215
+]);
+var BrotliBitReader = class {
+  /**
+   * Input byte buffer, consist of a ringbuffer and a "slack" region where
+   * bytes from the start of the ringbuffer are copied.
+   *
+   * @typedef {import('./brotli.streams.js').BrotliInput} BrotliInput
+   * @param {BrotliInput} input
+   */
+  constructor(input2) {
+    this.buf_ = new Uint8Array(BROTLI_IBUF_SIZE);
+    this.input_ = input2;
+    this.buf_ptr_ = 0;
+    this.val_ = 0;
+    this.pos_ = 0;
+    this.bit_pos_ = 0;
+    this.bit_end_pos_ = 0;
+    this.eos_ = 0;
+    this.reset();
+  }
+  static READ_SIZE = BROTLI_READ_SIZE;
+  static IBUF_MASK = BROTLI_IBUF_MASK;
+  reset() {
+    this.buf_ptr_ = 0;
+    this.val_ = 0;
+    this.pos_ = 0;
+    this.bit_pos_ = 0;
+    this.bit_end_pos_ = 0;
+    this.eos_ = 0;
+    this.readMoreInput();
+    for (let i = 0; i < 4; i++) {
+      this.val_ |= this.buf_[this.pos_] << 8 * i;
+      this.pos_++;
+    }
+    return this.bit_end_pos_ > 0;
+  }
+  /**
+   * Fills up the input ringbuffer by calling the input callback.
+   *
+   * Does nothing if there are at least 32 bytes present after current position.
+   *
+   * Returns 0 if either:
+   *  - the input callback returned an error, or
+   *  - there is no more input and the position is past the end of the stream.
+   *
+   * After encountering the end of the input stream, 32 additional zero bytes are
+   * copied to the ringbuffer, therefore it is safe to call this function after
+   * every 32 bytes of input is read.
+   */
+  readMoreInput() {
+    if (this.bit_end_pos_ > 256) {
+    } else if (this.eos_) {
+      if (this.bit_pos_ > this.bit_end_pos_)
+        throw new Error("Unexpected end of input " + this.bit_pos_ + " " + this.bit_end_pos_);
+    } else {
+      const dst = this.buf_ptr_;
+      const bytes_read = this.input_.read(this.buf_, dst, BROTLI_READ_SIZE);
+      if (bytes_read < 0) {
+        throw new Error("Unexpected end of input");
+      }
+      if (bytes_read < BROTLI_READ_SIZE) {
+        this.eos_ = 1;
+        for (let p = 0; p < 32; p++)
+          this.buf_[dst + bytes_read + p] = 0;
+      }
+      if (dst === 0) {
+        for (let p = 0; p < 32; p++)
+          this.buf_[(BROTLI_READ_SIZE << 1) + p] = this.buf_[p];
+        this.buf_ptr_ = BROTLI_READ_SIZE;
+      } else {
+        this.buf_ptr_ = 0;
+      }
+      this.bit_end_pos_ += bytes_read << 3;
+    }
+  }
+  /* Guarantees that there are at least 24 bits in the buffer. */
+  fillBitWindow() {
+    while (this.bit_pos_ >= 8) {
+      this.val_ >>>= 8;
+      this.val_ |= this.buf_[this.pos_ & BROTLI_IBUF_MASK] << 24;
+      this.pos_++;
+      this.bit_pos_ = this.bit_pos_ - 8 >>> 0;
+      this.bit_end_pos_ = this.bit_end_pos_ - 8 >>> 0;
+    }
+  }
+  /**
+   * Reads the specified number of bits from Read Buffer.
+   *
+   * @param {number} n_bits
+   * @returns {number}
+   */
+  readBits(n_bits) {
+    if (32 - this.bit_pos_ < n_bits) this.fillBitWindow();
+    const val = this.val_ >>> this.bit_pos_ & kBitMask[n_bits];
+    this.bit_pos_ += n_bits;
+    return val;
+  }
+};
+
+// node_modules/hyparquet-compressors/src/brotli.huffman.js
+var kDefaultCodeLength = 8;
+var HUFFMAN_TABLE_BITS = 8;
+var HUFFMAN_TABLE_MASK = 255;
+var CODE_LENGTH_CODES = 18;
+var kCodeLengthCodeOrder = new Uint8Array([
+  1,
+  2,
+  3,
+  4,
+  0,
+  5,
+  17,
+  6,
+  16,
+  7,
+  8,
+  9,
+  10,
+  11,
+  12,
+  13,
+  14,
+  15
+]);
+var kMaxHuffmanTableSize = new Uint16Array([
+  256,
+  402,
+  436,
+  468,
+  500,
+  534,
+  566,
+  598,
+  630,
+  662,
+  694,
+  726,
+  758,
+  790,
+  822,
+  854,
+  886,
+  920,
+  952,
+  984,
+  1016,
+  1048,
+  1080
+]);
+var HuffmanCode = class {
+  /**
+   * @param {number} bits
+   * @param {number} value
+   */
+  constructor(bits2, value3) {
+    this.bits = bits2;
+    this.value = value3;
+  }
+};
+var kCodeLengthRepeatCode = 16;
+var MAX_LENGTH = 15;
+function getNextKey(key2, len) {
+  let step = 1 << len - 1;
+  while (key2 & step) {
+    step >>= 1;
+  }
+  return (key2 & step - 1) + step;
+}
+function replicateValue(table2, i, step, end, code2) {
+  do {
+    end -= step;
+    table2[i + end] = new HuffmanCode(code2.bits, code2.value);
+  } while (end > 0);
+}
+function nextTableBitSize(count4, len, root_bits) {
+  let left = 1 << len - root_bits;
+  while (len < MAX_LENGTH) {
+    left -= count4[len];
+    if (left <= 0) break;
+    ++len;
+    left <<= 1;
+  }
+  return len - root_bits;
+}
+function buildHuffmanTable(root_table, table2, root_bits, code_lengths, code_lengths_size) {
+  const start_table = table2;
+  const count4 = new Int32Array(MAX_LENGTH + 1);
+  const offset = new Int32Array(MAX_LENGTH + 1);
+  const sorted = new Int32Array(code_lengths_size);
+  for (let i = 0; i < code_lengths_size; i++) {
+    count4[code_lengths[i]]++;
+  }
+  offset[1] = 0;
+  for (let i = 1; i < MAX_LENGTH; i++) {
+    offset[i + 1] = offset[i] + count4[i];
+  }
+  for (let i = 0; i < code_lengths_size; i++) {
+    if (code_lengths[i] !== 0) {
+      sorted[offset[code_lengths[i]]++] = i;
+    }
+  }
+  let table_bits = root_bits;
+  let table_size = 1 << table_bits;
+  let total_size = table_size;
+  if (offset[MAX_LENGTH] === 1) {
+    for (let key3 = 0; key3 < total_size; ++key3) {
+      root_table[table2 + key3] = new HuffmanCode(0, sorted[0] & 65535);
+    }
+    return total_size;
+  }
+  let key2 = 0;
+  let symbol2 = 0;
+  for (let len = 1, step = 2; len <= root_bits; ++len, step <<= 1) {
+    for (; count4[len] > 0; --count4[len]) {
+      const code2 = new HuffmanCode(len & 255, sorted[symbol2++] & 65535);
+      replicateValue(root_table, table2 + key2, step, table_size, code2);
+      key2 = getNextKey(key2, len);
+    }
+  }
+  const mask = total_size - 1;
+  let low = -1;
+  for (let len = root_bits + 1, step = 2; len <= MAX_LENGTH; ++len, step <<= 1) {
+    for (; count4[len] > 0; --count4[len]) {
+      if ((key2 & mask) !== low) {
+        table2 += table_size;
+        table_bits = nextTableBitSize(count4, len, root_bits);
+        table_size = 1 << table_bits;
+        total_size += table_size;
+        low = key2 & mask;
+        root_table[start_table + low] = new HuffmanCode(table_bits + root_bits & 255, table2 - start_table - low & 65535);
+      }
+      const code2 = new HuffmanCode(len - root_bits & 255, sorted[symbol2++] & 65535);
+      replicateValue(root_table, table2 + (key2 >> root_bits), step, table_size, code2);
+      key2 = getNextKey(key2, len);
+    }
+  }
+  return total_size;
+}
+function readHuffmanCode(alphabet_size, tables, table2, br) {
+  const code_lengths = new Uint8Array(alphabet_size);
+  br.readMoreInput();
+  const simple_code_or_skip = br.readBits(2);
+  if (simple_code_or_skip === 1) {
+    let max_bits_counter = alphabet_size - 1;
+    let max_bits = 0;
+    const symbols = new Int32Array(4);
+    const num_symbols = br.readBits(2) + 1;
+    while (max_bits_counter) {
+      max_bits_counter >>= 1;
+      max_bits++;
+    }
+    for (let i = 0; i < num_symbols; i++) {
+      symbols[i] = br.readBits(max_bits) % alphabet_size;
+      code_lengths[symbols[i]] = 2;
+    }
+    code_lengths[symbols[0]] = 1;
+    switch (num_symbols) {
+      case 1:
+        break;
+      case 3:
+        if (symbols[0] === symbols[1] || symbols[0] === symbols[2] || symbols[1] === symbols[2]) {
+          throw new Error("[ReadHuffmanCode] invalid symbols");
+        }
+        break;
+      case 2:
+        if (symbols[0] === symbols[1]) {
+          throw new Error("[ReadHuffmanCode] invalid symbols");
+        }
+        code_lengths[symbols[1]] = 1;
+        break;
+      case 4:
+        if (symbols[0] === symbols[1] || symbols[0] === symbols[2] || symbols[0] === symbols[3] || symbols[1] === symbols[2] || symbols[1] === symbols[3] || symbols[2] === symbols[3]) {
+          throw new Error("[ReadHuffmanCode] invalid symbols");
+        }
+        if (br.readBits(1)) {
+          code_lengths[symbols[2]] = 3;
+          code_lengths[symbols[3]] = 3;
+        } else {
+          code_lengths[symbols[0]] = 2;
+        }
+        break;
+    }
+  } else {
+    const code_length_code_lengths = new Uint8Array(CODE_LENGTH_CODES);
+    let space = 32;
+    let num_codes = 0;
+    const huff = [
+      new HuffmanCode(2, 0),
+      new HuffmanCode(2, 4),
+      new HuffmanCode(2, 3),
+      new HuffmanCode(3, 2),
+      new HuffmanCode(2, 0),
+      new HuffmanCode(2, 4),
+      new HuffmanCode(2, 3),
+      new HuffmanCode(4, 1),
+      new HuffmanCode(2, 0),
+      new HuffmanCode(2, 4),
+      new HuffmanCode(2, 3),
+      new HuffmanCode(3, 2),
+      new HuffmanCode(2, 0),
+      new HuffmanCode(2, 4),
+      new HuffmanCode(2, 3),
+      new HuffmanCode(4, 5)
+    ];
+    for (let i = simple_code_or_skip; i < CODE_LENGTH_CODES && space > 0; i++) {
+      const code_len_idx = kCodeLengthCodeOrder[i];
+      let p = 0;
+      br.fillBitWindow();
+      p += br.val_ >>> br.bit_pos_ & 15;
+      br.bit_pos_ += huff[p].bits;
+      const v = huff[p].value;
+      code_length_code_lengths[code_len_idx] = v;
+      if (v !== 0) {
+        space -= 32 >> v;
+        num_codes++;
+      }
+    }
+    if (!(num_codes === 1 || space === 0))
+      throw new Error("[ReadHuffmanCode] invalid num_codes or space");
+    readHuffmanCodeLengths(code_length_code_lengths, alphabet_size, code_lengths, br);
+  }
+  const table_size = buildHuffmanTable(tables, table2, HUFFMAN_TABLE_BITS, code_lengths, alphabet_size);
+  if (!table_size) throw new Error("brotli BuildHuffmanTable failed");
+  return table_size;
+}
+function readSymbol(table2, index, br) {
+  br.fillBitWindow();
+  index += br.val_ >>> br.bit_pos_ & HUFFMAN_TABLE_MASK;
+  const nbits = table2[index].bits - HUFFMAN_TABLE_BITS;
+  if (nbits > 0) {
+    br.bit_pos_ += HUFFMAN_TABLE_BITS;
+    index += table2[index].value;
+    index += br.val_ >>> br.bit_pos_ & (1 << nbits) - 1;
+  }
+  br.bit_pos_ += table2[index].bits;
+  return table2[index].value;
+}
+function readHuffmanCodeLengths(code_length_code_lengths, num_symbols, code_lengths, br) {
+  let symbol2 = 0;
+  let prev_code_len = kDefaultCodeLength;
+  let repeat = 0;
+  let repeat_code_len = 0;
+  let space = 32768;
+  const table2 = [];
+  for (let i = 0; i < 32; i++)
+    table2.push(new HuffmanCode(0, 0));
+  buildHuffmanTable(table2, 0, 5, code_length_code_lengths, CODE_LENGTH_CODES);
+  while (symbol2 < num_symbols && space > 0) {
+    let p = 0;
+    br.readMoreInput();
+    br.fillBitWindow();
+    p += br.val_ >>> br.bit_pos_ & 31;
+    br.bit_pos_ += table2[p].bits;
+    const code_len = table2[p].value & 255;
+    if (code_len < kCodeLengthRepeatCode) {
+      repeat = 0;
+      code_lengths[symbol2++] = code_len;
+      if (code_len !== 0) {
+        prev_code_len = code_len;
+        space -= 32768 >> code_len;
+      }
+    } else {
+      const extra_bits = code_len - 14;
+      let new_len = 0;
+      if (code_len === kCodeLengthRepeatCode) {
+        new_len = prev_code_len;
+      }
+      if (repeat_code_len !== new_len) {
+        repeat = 0;
+        repeat_code_len = new_len;
+      }
+      const old_repeat = repeat;
+      if (repeat > 0) {
+        repeat -= 2;
+        repeat <<= extra_bits;
+      }
+      repeat += br.readBits(extra_bits) + 3;
+      const repeat_delta = repeat - old_repeat;
+      if (symbol2 + repeat_delta > num_symbols) {
+        throw new Error("[ReadHuffmanCodeLengths] symbol + repeat_delta > num_symbols");
+      }
+      for (let x = 0; x < repeat_delta; x++)
+        code_lengths[symbol2 + x] = repeat_code_len;
+      symbol2 += repeat_delta;
+      if (repeat_code_len !== 0) {
+        space -= repeat_delta << 15 - repeat_code_len;
+      }
+    }
+  }
+  if (space !== 0) {
+    throw new Error("[ReadHuffmanCodeLengths] space = " + space);
+  }
+  for (; symbol2 < num_symbols; symbol2++)
+    code_lengths[symbol2] = 0;
+}
+var HuffmanTreeGroup = class {
+  /**
+   * Contains a collection of huffman trees with the same alphabet size.
+   *
+   * @param {number} alphabet_size
+   * @param {number} num_htrees
+   */
+  constructor(alphabet_size, num_htrees) {
+    this.alphabet_size = alphabet_size;
+    this.num_htrees = num_htrees;
+    this.codes = new Array(num_htrees + num_htrees * kMaxHuffmanTableSize[alphabet_size + 31 >>> 5]);
+    this.htrees = new Uint32Array(num_htrees);
+  }
+  /**
+   * @param {BrotliBitReader} br
+   */
+  decode(br) {
+    let next = 0;
+    for (let i = 0; i < this.num_htrees; i++) {
+      this.htrees[i] = next;
+      next += readHuffmanCode(this.alphabet_size, this.codes, next, br);
+    }
+  }
+};
+
+// node_modules/hyparquet-compressors/src/brotli.prefix.js
+function prefix([offset, nbits]) {
+  return { offset, nbits };
+}
+var kBlockLengthPrefixCode = [
+  [1, 2],
+  [5, 2],
+  [9, 2],
+  [13, 2],
+  [17, 3],
+  [25, 3],
+  [33, 3],
+  [41, 3],
+  [49, 4],
+  [65, 4],
+  [81, 4],
+  [97, 4],
+  [113, 5],
+  [145, 5],
+  [177, 5],
+  [209, 5],
+  [241, 6],
+  [305, 6],
+  [369, 7],
+  [497, 8],
+  [753, 9],
+  [1265, 10],
+  [2289, 11],
+  [4337, 12],
+  [8433, 13],
+  [16625, 24]
+].map(prefix);
+var kInsertLengthPrefixCode = [
+  [0, 0],
+  [1, 0],
+  [2, 0],
+  [3, 0],
+  [4, 0],
+  [5, 0],
+  [6, 1],
+  [8, 1],
+  [10, 2],
+  [14, 2],
+  [18, 3],
+  [26, 3],
+  [34, 4],
+  [50, 4],
+  [66, 5],
+  [98, 5],
+  [130, 6],
+  [194, 7],
+  [322, 8],
+  [578, 9],
+  [1090, 10],
+  [2114, 12],
+  [6210, 14],
+  [22594, 24]
+].map(prefix);
+var kCopyLengthPrefixCode = [
+  [2, 0],
+  [3, 0],
+  [4, 0],
+  [5, 0],
+  [6, 0],
+  [7, 0],
+  [8, 0],
+  [9, 0],
+  [10, 1],
+  [12, 1],
+  [14, 2],
+  [18, 2],
+  [22, 3],
+  [30, 3],
+  [38, 4],
+  [54, 4],
+  [70, 5],
+  [102, 5],
+  [134, 6],
+  [198, 7],
+  [326, 8],
+  [582, 9],
+  [1094, 10],
+  [2118, 24]
+].map(prefix);
+var kInsertRangeLut = [
+  0,
+  0,
+  8,
+  8,
+  0,
+  16,
+  8,
+  16,
+  16
+];
+var kCopyRangeLut = [
+  0,
+  8,
+  0,
+  8,
+  16,
+  0,
+  16,
+  8,
+  16
+];
+
+// node_modules/hyparquet-compressors/src/gzip.huffman.js
+var HUFFMAN_MAX_TABLE_SIZE = 1080;
+var fixedLengthExtraBits = new Uint8Array([
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  1,
+  1,
+  1,
+  1,
+  2,
+  2,
+  2,
+  2,
+  3,
+  3,
+  3,
+  3,
+  4,
+  4,
+  4,
+  4,
+  5,
+  5,
+  5,
+  5,
+  0,
+  /* unused */
+  0,
+  0,
+  /* impossible */
+  0
+]);
+var fixedDistanceExtraBits = new Uint8Array([
+  0,
+  0,
+  0,
+  0,
+  1,
+  1,
+  2,
+  2,
+  3,
+  3,
+  4,
+  4,
+  5,
+  5,
+  6,
+  6,
+  7,
+  7,
+  8,
+  8,
+  9,
+  9,
+  10,
+  10,
+  11,
+  11,
+  12,
+  12,
+  13,
+  13,
+  /* unused */
+  0,
+  0
+]);
+function freb(eb, start) {
+  const base = new Uint16Array(31);
+  for (let i = 0; i < 31; i++) {
+    base[i] = start += 1 << eb[i - 1];
+  }
+  const rev2 = new Int32Array(base[30]);
+  for (let i = 1; i < 30; i++) {
+    for (let j = base[i]; j < base[i + 1]; ++j) {
+      rev2[j] = j - base[i] << 5 | i;
+    }
+  }
+  return { base, rev: rev2 };
+}
+var { base: fixedLength, rev: revfl } = freb(fixedLengthExtraBits, 2);
+fixedLength[28] = 258;
+revfl[258] = 28;
+var { base: fixedDistance } = freb(fixedDistanceExtraBits, 0);
+var rev = new Uint16Array(32768);
+for (let i = 0; i < 32768; i++) {
+  let x = (i & 43690) >> 1 | (i & 21845) << 1;
+  x = (x & 52428) >> 2 | (x & 13107) << 2;
+  x = (x & 61680) >> 4 | (x & 3855) << 4;
+  rev[i] = ((x & 65280) >> 8 | (x & 255) << 8) >> 1;
+}
+function huffMap(cd, maxBits, r) {
+  const l = new Uint16Array(maxBits);
+  for (let i = 0; i < cd.length; i++) {
+    if (cd[i]) ++l[cd[i] - 1];
+  }
+  const le = new Uint16Array(maxBits);
+  for (let i = 1; i < maxBits; i++) {
+    le[i] = le[i - 1] + l[i - 1] << 1;
+  }
+  let co;
+  if (r) {
+    co = new Uint16Array(1 << maxBits);
+    const rvb = 15 - maxBits;
+    for (let i = 0; i < cd.length; i++) {
+      if (cd[i]) {
+        const sv = i << 4 | cd[i];
+        const freeBits = maxBits - cd[i];
+        let startValue = le[cd[i] - 1]++ << freeBits;
+        for (const endValue = startValue | (1 << freeBits) - 1; startValue <= endValue; startValue++) {
+          co[rev[startValue] >> rvb] = sv;
+        }
+      }
+    }
+  } else {
+    co = new Uint16Array(cd.length);
+    for (let i = 0; i < cd.length; i++) {
+      if (cd[i]) {
+        co[i] = rev[le[cd[i] - 1]++] >> 15 - cd[i];
+      }
+    }
+  }
+  return co;
+}
+var fixedLengthTree = new Uint8Array(288);
+for (let i = 0; i < 144; i++) fixedLengthTree[i] = 8;
+for (let i = 144; i < 256; i++) fixedLengthTree[i] = 9;
+for (let i = 256; i < 280; i++) fixedLengthTree[i] = 7;
+for (let i = 280; i < 288; i++) fixedLengthTree[i] = 8;
+var fixedDistanceTree = new Uint8Array(32);
+for (let i = 0; i < 32; i++) fixedDistanceTree[i] = 5;
+var fixedLengthMap = /* @__PURE__ */ huffMap(fixedLengthTree, 9, 1);
+var fixedDistanceMap = /* @__PURE__ */ huffMap(fixedDistanceTree, 5, 1);
+
+// node_modules/hyparquet-compressors/src/brotli.blocks.js
+function decodeBlockType(max_block_type, trees, tree_type, block_types, ringbuffers, indexes, br) {
+  const ringbuffer = tree_type * 2;
+  const index = tree_type;
+  const type_code = readSymbol(trees, tree_type * HUFFMAN_MAX_TABLE_SIZE, br);
+  let block_type;
+  if (type_code === 0) {
+    block_type = ringbuffers[ringbuffer + (indexes[index] & 1)];
+  } else if (type_code === 1) {
+    block_type = ringbuffers[ringbuffer + (indexes[index] - 1 & 1)] + 1;
+  } else {
+    block_type = type_code - 2;
+  }
+  if (block_type >= max_block_type) {
+    block_type -= max_block_type;
+  }
+  block_types[tree_type] = block_type;
+  ringbuffers[ringbuffer + (indexes[index] & 1)] = block_type;
+  indexes[index]++;
+}
+function decodeMetaBlockLength(br) {
+  const out = {
+    meta_block_length: 0,
+    input_end: 0,
+    is_uncompressed: 0,
+    is_metadata: false
+  };
+  out.input_end = br.readBits(1);
+  if (out.input_end && br.readBits(1)) {
+    return out;
+  }
+  const size_nibbles = br.readBits(2) + 4;
+  if (size_nibbles === 7) {
+    out.is_metadata = true;
+    if (br.readBits(1) !== 0)
+      throw new Error("Invalid reserved bit");
+    const size_bytes = br.readBits(2);
+    if (size_bytes === 0)
+      return out;
+    for (let i = 0; i < size_bytes; i++) {
+      const next_byte = br.readBits(8);
+      if (i + 1 === size_bytes && size_bytes > 1 && next_byte === 0)
+        throw new Error("Invalid size byte");
+      out.meta_block_length |= next_byte << i * 8;
+    }
+  } else {
+    for (let i = 0; i < size_nibbles; i++) {
+      const next_nibble = br.readBits(4);
+      if (i + 1 === size_nibbles && size_nibbles > 4 && next_nibble === 0)
+        throw new Error("Invalid size nibble");
+      out.meta_block_length |= next_nibble << i * 4;
+    }
+  }
+  out.meta_block_length++;
+  if (!out.input_end && !out.is_metadata) {
+    out.is_uncompressed = br.readBits(1);
+  }
+  return out;
+}
+function copyUncompressedBlockToOutput(output2, len, pos, ringbuffer, ringbuffer_mask, br) {
+  const rb_size = ringbuffer_mask + 1;
+  let rb_pos = pos & ringbuffer_mask;
+  let br_pos = br.pos_ & BrotliBitReader.IBUF_MASK;
+  if (len < 8 || br.bit_pos_ + (len << 3) < br.bit_end_pos_) {
+    while (len-- > 0) {
+      br.readMoreInput();
+      ringbuffer[rb_pos++] = br.readBits(8);
+      if (rb_pos === rb_size) {
+        output2.write(ringbuffer, rb_size);
+        rb_pos = 0;
+      }
+    }
+    return;
+  }
+  if (br.bit_end_pos_ < 32) {
+    throw new Error("copyUncompressedBlockToOutput: br.bit_end_pos_ < 32");
+  }
+  while (br.bit_pos_ < 32) {
+    ringbuffer[rb_pos] = br.val_ >>> br.bit_pos_;
+    br.bit_pos_ += 8;
+    rb_pos++;
+    len--;
+  }
+  let nbytes = br.bit_end_pos_ - br.bit_pos_ >> 3;
+  if (br_pos + nbytes > BrotliBitReader.IBUF_MASK) {
+    const tail = BrotliBitReader.IBUF_MASK + 1 - br_pos;
+    for (let x = 0; x < tail; x++)
+      ringbuffer[rb_pos + x] = br.buf_[br_pos + x];
+    nbytes -= tail;
+    rb_pos += tail;
+    len -= tail;
+    br_pos = 0;
+  }
+  for (let x = 0; x < nbytes; x++)
+    ringbuffer[rb_pos + x] = br.buf_[br_pos + x];
+  rb_pos += nbytes;
+  len -= nbytes;
+  if (rb_pos >= rb_size) {
+    output2.write(ringbuffer, rb_size);
+    rb_pos -= rb_size;
+    for (let x = 0; x < rb_pos; x++)
+      ringbuffer[x] = ringbuffer[rb_size + x];
+  }
+  while (rb_pos + len >= rb_size) {
+    nbytes = rb_size - rb_pos;
+    if (br.input_.read(ringbuffer, rb_pos, nbytes) < nbytes) {
+      throw new Error("copyUncompressedBlockToOutput: not enough bytes");
+    }
+    output2.write(ringbuffer, rb_size);
+    len -= nbytes;
+    rb_pos = 0;
+  }
+  if (br.input_.read(ringbuffer, rb_pos, len) < len) {
+    throw new Error("copyUncompressedBlockToOutput: not enough bytes");
+  }
+  br.reset();
+}
+function decodeVarLenUint8(br) {
+  if (br.readBits(1)) {
+    const nbits = br.readBits(3);
+    if (nbits === 0) {
+      return 1;
+    } else {
+      return br.readBits(nbits) + (1 << nbits);
+    }
+  }
+  return 0;
+}
+function decodeWindowBits(br) {
+  if (br.readBits(1) === 0) return 16;
+  let n = br.readBits(3);
+  if (n > 0) return 17 + n;
+  n = br.readBits(3);
+  if (n > 0) return 8 + n;
+  return 17;
+}
+function jumpToByteBoundary(br) {
+  const new_bit_pos = br.bit_pos_ + 7 & ~7;
+  return !br.readBits(new_bit_pos - br.bit_pos_);
+}
+function readBlockLength(table2, index, br) {
+  const code2 = readSymbol(table2, index, br);
+  const { offset, nbits } = kBlockLengthPrefixCode[code2];
+  return offset + br.readBits(nbits);
+}
+
+// node_modules/hyparquet-compressors/src/brotli.context.js
+var lookup = new Uint8Array([
+  /* CONTEXT_UTF8, last byte. */
+  /* ASCII range. */
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  4,
+  4,
+  0,
+  0,
+  4,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  8,
+  12,
+  16,
+  12,
+  12,
+  20,
+  12,
+  16,
+  24,
+  28,
+  12,
+  12,
+  32,
+  12,
+  36,
+  12,
+  44,
+  44,
+  44,
+  44,
+  44,
+  44,
+  44,
+  44,
+  44,
+  44,
+  32,
+  32,
+  24,
+  40,
+  28,
+  12,
+  12,
+  48,
+  52,
+  52,
+  52,
+  48,
+  52,
+  52,
+  52,
+  48,
+  52,
+  52,
+  52,
+  52,
+  52,
+  48,
+  52,
+  52,
+  52,
+  52,
+  52,
+  48,
+  52,
+  52,
+  52,
+  52,
+  52,
+  24,
+  12,
+  28,
+  12,
+  12,
+  12,
+  56,
+  60,
+  60,
+  60,
+  56,
+  60,
+  60,
+  60,
+  56,
+  60,
+  60,
+  60,
+  60,
+  60,
+  56,
+  60,
+  60,
+  60,
+  60,
+  60,
+  56,
+  60,
+  60,
+  60,
+  60,
+  60,
+  24,
+  12,
+  28,
+  12,
+  0,
+  /* UTF8 continuation byte range. */
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  0,
+  1,
+  /* UTF8 lead byte range. */
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  2,
+  3,
+  /* CONTEXT_UTF8 second last byte. */
+  /* ASCII range. */
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  1,
+  1,
+  1,
+  1,
+  0,
+  /* UTF8 continuation byte range. */
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  /* UTF8 lead byte range. */
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  /* CONTEXT_SIGNED, second last byte. */
+  0,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  1,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  4,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  5,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  6,
+  7,
+  /* CONTEXT_SIGNED, last byte, same as the above values shifted by 3 bits. */
+  0,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  8,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  16,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  24,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  32,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  40,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  48,
+  56,
+  /* CONTEXT_LSB6, last byte. */
+  0,
+  1,
+  2,
+  3,
+  4,
+  5,
+  6,
+  7,
+  8,
+  9,
+  10,
+  11,
+  12,
+  13,
+  14,
+  15,
+  16,
+  17,
+  18,
+  19,
+  20,
+  21,
+  22,
+  23,
+  24,
+  25,
+  26,
+  27,
+  28,
+  29,
+  30,
+  31,
+  32,
+  33,
+  34,
+  35,
+  36,
+  37,
+  38,
+  39,
+  40,
+  41,
+  42,
+  43,
+  44,
+  45,
+  46,
+  47,
+  48,
+  49,
+  50,
+  51,
+  52,
+  53,
+  54,
+  55,
+  56,
+  57,
+  58,
+  59,
+  60,
+  61,
+  62,
+  63,
+  0,
+  1,
+  2,
+  3,
+  4,
+  5,
+  6,
+  7,
+  8,
+  9,
+  10,
+  11,
+  12,
+  13,
+  14,
+  15,
+  16,
+  17,
+  18,
+  19,
+  20,
+  21,
+  22,
+  23,
+  24,
+  25,
+  26,
+  27,
+  28,
+  29,
+  30,
+  31,
+  32,
+  33,
+  34,
+  35,
+  36,
+  37,
+  38,
+  39,
+  40,
+  41,
+  42,
+  43,
+  44,
+  45,
+  46,
+  47,
+  48,
+  49,
+  50,
+  51,
+  52,
+  53,
+  54,
+  55,
+  56,
+  57,
+  58,
+  59,
+  60,
+  61,
+  62,
+  63,
+  0,
+  1,
+  2,
+  3,
+  4,
+  5,
+  6,
+  7,
+  8,
+  9,
+  10,
+  11,
+  12,
+  13,
+  14,
+  15,
+  16,
+  17,
+  18,
+  19,
+  20,
+  21,
+  22,
+  23,
+  24,
+  25,
+  26,
+  27,
+  28,
+  29,
+  30,
+  31,
+  32,
+  33,
+  34,
+  35,
+  36,
+  37,
+  38,
+  39,
+  40,
+  41,
+  42,
+  43,
+  44,
+  45,
+  46,
+  47,
+  48,
+  49,
+  50,
+  51,
+  52,
+  53,
+  54,
+  55,
+  56,
+  57,
+  58,
+  59,
+  60,
+  61,
+  62,
+  63,
+  0,
+  1,
+  2,
+  3,
+  4,
+  5,
+  6,
+  7,
+  8,
+  9,
+  10,
+  11,
+  12,
+  13,
+  14,
+  15,
+  16,
+  17,
+  18,
+  19,
+  20,
+  21,
+  22,
+  23,
+  24,
+  25,
+  26,
+  27,
+  28,
+  29,
+  30,
+  31,
+  32,
+  33,
+  34,
+  35,
+  36,
+  37,
+  38,
+  39,
+  40,
+  41,
+  42,
+  43,
+  44,
+  45,
+  46,
+  47,
+  48,
+  49,
+  50,
+  51,
+  52,
+  53,
+  54,
+  55,
+  56,
+  57,
+  58,
+  59,
+  60,
+  61,
+  62,
+  63,
+  /* CONTEXT_MSB6, last byte. */
+  0,
+  0,
+  0,
+  0,
+  1,
+  1,
+  1,
+  1,
+  2,
+  2,
+  2,
+  2,
+  3,
+  3,
+  3,
+  3,
+  4,
+  4,
+  4,
+  4,
+  5,
+  5,
+  5,
+  5,
+  6,
+  6,
+  6,
+  6,
+  7,
+  7,
+  7,
+  7,
+  8,
+  8,
+  8,
+  8,
+  9,
+  9,
+  9,
+  9,
+  10,
+  10,
+  10,
+  10,
+  11,
+  11,
+  11,
+  11,
+  12,
+  12,
+  12,
+  12,
+  13,
+  13,
+  13,
+  13,
+  14,
+  14,
+  14,
+  14,
+  15,
+  15,
+  15,
+  15,
+  16,
+  16,
+  16,
+  16,
+  17,
+  17,
+  17,
+  17,
+  18,
+  18,
+  18,
+  18,
+  19,
+  19,
+  19,
+  19,
+  20,
+  20,
+  20,
+  20,
+  21,
+  21,
+  21,
+  21,
+  22,
+  22,
+  22,
+  22,
+  23,
+  23,
+  23,
+  23,
+  24,
+  24,
+  24,
+  24,
+  25,
+  25,
+  25,
+  25,
+  26,
+  26,
+  26,
+  26,
+  27,
+  27,
+  27,
+  27,
+  28,
+  28,
+  28,
+  28,
+  29,
+  29,
+  29,
+  29,
+  30,
+  30,
+  30,
+  30,
+  31,
+  31,
+  31,
+  31,
+  32,
+  32,
+  32,
+  32,
+  33,
+  33,
+  33,
+  33,
+  34,
+  34,
+  34,
+  34,
+  35,
+  35,
+  35,
+  35,
+  36,
+  36,
+  36,
+  36,
+  37,
+  37,
+  37,
+  37,
+  38,
+  38,
+  38,
+  38,
+  39,
+  39,
+  39,
+  39,
+  40,
+  40,
+  40,
+  40,
+  41,
+  41,
+  41,
+  41,
+  42,
+  42,
+  42,
+  42,
+  43,
+  43,
+  43,
+  43,
+  44,
+  44,
+  44,
+  44,
+  45,
+  45,
+  45,
+  45,
+  46,
+  46,
+  46,
+  46,
+  47,
+  47,
+  47,
+  47,
+  48,
+  48,
+  48,
+  48,
+  49,
+  49,
+  49,
+  49,
+  50,
+  50,
+  50,
+  50,
+  51,
+  51,
+  51,
+  51,
+  52,
+  52,
+  52,
+  52,
+  53,
+  53,
+  53,
+  53,
+  54,
+  54,
+  54,
+  54,
+  55,
+  55,
+  55,
+  55,
+  56,
+  56,
+  56,
+  56,
+  57,
+  57,
+  57,
+  57,
+  58,
+  58,
+  58,
+  58,
+  59,
+  59,
+  59,
+  59,
+  60,
+  60,
+  60,
+  60,
+  61,
+  61,
+  61,
+  61,
+  62,
+  62,
+  62,
+  62,
+  63,
+  63,
+  63,
+  63,
+  /* CONTEXT_{M,L}SB6, second last byte, */
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0,
+  0
+]);
+var lookupOffsets = new Uint16Array([
+  /* CONTEXT_LSB6 */
+  1024,
+  1536,
+  /* CONTEXT_MSB6 */
+  1280,
+  1536,
+  /* CONTEXT_UTF8 */
+  0,
+  256,
+  /* CONTEXT_SIGNED */
+  768,
+  512
+]);
+
+// node_modules/hyparquet-compressors/src/brotli.contextmap.js
+function decodeContextMap(context_map_size, br) {
+  let max_run_length_prefix = 0;
+  br.readMoreInput();
+  const num_htrees = decodeVarLenUint8(br) + 1;
+  const context_map = new Uint8Array(context_map_size);
+  if (num_htrees <= 1) {
+    return [num_htrees, context_map];
+  }
+  const use_rle_for_zeros = br.readBits(1);
+  if (use_rle_for_zeros) {
+    max_run_length_prefix = br.readBits(4) + 1;
+  }
+  const table2 = [];
+  for (let i = 0; i < HUFFMAN_MAX_TABLE_SIZE; i++) {
+    table2[i] = new HuffmanCode(0, 0);
+  }
+  readHuffmanCode(num_htrees + max_run_length_prefix, table2, 0, br);
+  for (let i = 0; i < context_map_size; ) {
+    br.readMoreInput();
+    const code2 = readSymbol(table2, 0, br);
+    if (code2 === 0) {
+      context_map[i] = 0;
+      i++;
+    } else if (code2 <= max_run_length_prefix) {
+      let reps = 1 + (1 << code2) + br.readBits(code2);
+      while (--reps) {
+        if (i >= context_map_size) {
+          throw new Error("[DecodeContextMap] i >= context_map_size");
+        }
+        context_map[i] = 0;
+        i++;
+      }
+    } else {
+      context_map[i] = code2 - max_run_length_prefix;
+      i++;
+    }
+  }
+  if (br.readBits(1)) {
+    inverseMoveToFrontTransform(context_map, context_map_size);
+  }
+  return [num_htrees, context_map];
+}
+function moveToFront(v, index) {
+  const value3 = v[index];
+  for (let i = index; i; i--) v[i] = v[i - 1];
+  v[0] = value3;
+}
+function inverseMoveToFrontTransform(v, v_len) {
+  const mtf = new Uint8Array(256);
+  for (let i = 0; i < 256; i++) {
+    mtf[i] = i;
+  }
+  for (let i = 0; i < v_len; i++) {
+    const index = v[i];
+    v[i] = mtf[index];
+    if (index) moveToFront(mtf, index);
+  }
+}
+
+// node_modules/hyparquet-compressors/src/brotli.streams.js
+var BrotliInput = class {
+  /**
+   * @param {Uint8Array} buffer
+   */
+  constructor(buffer) {
+    this.buffer = buffer;
+    this.pos = 0;
+  }
+  /**
+   * @param {Uint8Array} buf
+   * @param {number} i
+   * @param {number} count
+   * @returns {number}
+   */
+  read(buf, i, count4) {
+    if (this.pos + count4 > this.buffer.length) {
+      count4 = this.buffer.length - this.pos;
+    }
+    for (let p = 0; p < count4; p++)
+      buf[i + p] = this.buffer[this.pos + p];
+    this.pos += count4;
+    return count4;
+  }
+};
+var BrotliOutput = class {
+  /**
+   * @param {Uint8Array} buf
+   */
+  constructor(buf) {
+    this.buffer = buf;
+    this.pos = 0;
+  }
+  /**
+   * @param {Uint8Array} buf
+   * @param {number} count
+   * @returns {number}
+   */
+  write(buf, count4) {
+    if (this.pos + count4 > this.buffer.length) throw new Error("brotli output buffer is not large enough");
+    this.buffer.set(buf.subarray(0, count4), this.pos);
+    this.pos += count4;
+    return count4;
+  }
+};
+
+// node_modules/hyparquet-compressors/src/gzip.js
+var codeLengthIndexMap = new Uint8Array([16, 17, 18, 0, 8, 7, 9, 6, 10, 5, 11, 4, 12, 3, 13, 2, 14, 1, 15]);
+function bits(input2, pos, mask) {
+  const o = pos / 8 | 0;
+  return (input2[o] | input2[o + 1] << 8) >> (pos & 7) & mask;
+}
+function bits16(d, p) {
+  const o = p / 8 | 0;
+  return (d[o] | d[o + 1] << 8 | d[o + 2] << 16) >> (p & 7);
+}
+function shft(p) {
+  return (p + 7) / 8 | 0;
+}
+function gzipStart(input2, i) {
+  if (input2[i++] !== 31 || input2[i++] !== 139 || input2[i++] !== 8) return 0;
+  const flag = input2[i++];
+  i += 6;
+  if (flag & 4) i += (input2[i + 10] | input2[i + 11] << 8) + 2;
+  for (let zs = (flag >> 3 & 1) + (flag >> 4 & 1); zs > 0; zs -= Number(!input2[i++])) ;
+  return i + (flag & 2);
+}
+function gunzip(input2, output2, inputIndex = 0, outputIndex = 0) {
+  let out = output2 ?? new Uint8Array(1024);
+  if (!(input2.length - inputIndex)) return out;
+  const payloadStart = gzipStart(input2, inputIndex);
+  if (payloadStart === input2.length - 8) return out;
+  if (payloadStart > input2.length - 8) throw new Error("unexpected EOF");
+  let pos = payloadStart * 8;
+  let final = 0;
+  let lengthBits = 0;
+  let distBits = 0;
+  let lengthMap;
+  let distMap;
+  const totalBits = input2.length * 8;
+  function ensureSize(length2) {
+    if (!output2 && length2 > out.length) {
+      const old = out;
+      out = new Uint8Array(Math.max(old.length * 2, length2));
+      out.set(old);
+    }
+  }
+  do {
+    if (!lengthMap) {
+      final = bits(input2, pos, 1);
+      const type = bits(input2, pos + 1, 3);
+      pos += 3;
+      if (!type) {
+        const s = shft(pos) + 4;
+        const l = input2[s - 4] | input2[s - 3] << 8;
+        const t = s + l;
+        if (t > input2.length) throw new Error("unexpected EOF");
+        ensureSize(outputIndex + l);
+        out.set(input2.subarray(s, t), outputIndex);
+        outputIndex += l;
+        pos = t * 8;
+        continue;
+      } else if (type === 1) {
+        lengthMap = fixedLengthMap;
+        distMap = fixedDistanceMap;
+        lengthBits = 9;
+        distBits = 5;
+      } else if (type === 2) {
+        const hLiteral = bits(input2, pos, 31) + 257;
+        const hcLengths = bits(input2, pos + 10, 15) + 4;
+        const tl = hLiteral + bits(input2, pos + 5, 31) + 1;
+        pos += 14;
+        const lengthDistanceTree = new Uint8Array(tl);
+        const codeLengthTree = new Uint8Array(19);
+        for (let i = 0; i < hcLengths; ++i) {
+          codeLengthTree[codeLengthIndexMap[i]] = bits(input2, pos + i * 3, 7);
+        }
+        pos += hcLengths * 3;
+        const codeLengthBits = Math.max(...codeLengthTree);
+        const clbMask = (1 << codeLengthBits) - 1;
+        const codeLengthMap = huffMap(codeLengthTree, codeLengthBits, 1);
+        for (let i = 0; i < tl; ) {
+          const r = codeLengthMap[bits(input2, pos, clbMask)];
+          pos += r & 15;
+          const symbol2 = r >> 4;
+          if (symbol2 < 16) {
+            lengthDistanceTree[i++] = symbol2;
+          } else {
+            let copy = 0;
+            let n = 0;
+            if (symbol2 === 16) {
+              n = 3 + bits(input2, pos, 3);
+              pos += 2;
+              copy = lengthDistanceTree[i - 1];
+            } else if (symbol2 === 17) {
+              n = 3 + bits(input2, pos, 7);
+              pos += 3;
+            } else if (symbol2 === 18) {
+              n = 11 + bits(input2, pos, 127);
+              pos += 7;
+            }
+            while (n--) lengthDistanceTree[i++] = copy;
+          }
+        }
+        const lengthTree = lengthDistanceTree.subarray(0, hLiteral);
+        const distanceTree = lengthDistanceTree.subarray(hLiteral);
+        lengthBits = Math.max(...lengthTree);
+        distBits = Math.max(...distanceTree);
+        lengthMap = huffMap(lengthTree, lengthBits, 1);
+        distMap = huffMap(distanceTree, distBits, 1);
+      } else throw new Error("invalid block type");
+      if (pos > totalBits) throw new Error("unexpected EOF");
+    }
+    ensureSize(outputIndex + 131072);
+    const lms = (1 << lengthBits) - 1;
+    const dms = (1 << distBits) - 1;
+    for (; ; ) {
+      const code2 = lengthMap[bits16(input2, pos) & lms];
+      const sym = code2 >> 4;
+      pos += code2 & 15;
+      if (pos > totalBits) throw new Error("unexpected EOF");
+      if (!code2) throw new Error("invalid length/literal");
+      if (sym < 256) out[outputIndex++] = sym;
+      else if (sym === 256) {
+        lengthMap = void 0;
+        break;
+      } else {
+        let add = sym - 254;
+        if (sym > 264) {
+          const index = sym - 257;
+          const b = fixedLengthExtraBits[index];
+          add = bits(input2, pos, (1 << b) - 1) + fixedLength[index];
+          pos += b;
+        }
+        if (!distMap) throw new Error("invalid distance map");
+        const d = distMap[bits16(input2, pos) & dms];
+        const dsym = d >> 4;
+        if (!d) throw new Error("invalid distance");
+        pos += d & 15;
+        let dt = fixedDistance[dsym];
+        if (dsym > 3) {
+          const b = fixedDistanceExtraBits[dsym];
+          dt += bits16(input2, pos) & (1 << b) - 1;
+          pos += b;
+        }
+        if (pos > totalBits) throw new Error("unexpected EOF");
+        const end = outputIndex + add;
+        if (outputIndex < dt) throw new Error("unexpected dictionary case");
+        ensureSize(end);
+        for (; outputIndex < end; outputIndex++) out[outputIndex] = out[outputIndex - dt];
+      }
+    }
+    if (lengthMap) final = 1;
+  } while (!final);
+  if (outputIndex < out.length) {
+    const nextBlock = Math.ceil(pos / 8) + 8;
+    gunzip(input2, out, nextBlock, outputIndex);
+  }
+  if (!output2) return out.subarray(0, outputIndex);
+  return out;
+}
+
+// node_modules/hyparquet-compressors/src/brotli.dictionary.js
+var dictionaryGz64 = `
+H4sIAAAAAAAAAzy96XIcx7Uu+tuI4DuU2meLxDbRAElNJgYHR0neGrgFyr7bPg5FdlV2dwHVVa3KKoBN
+SRHggIHgAFKcBc4zJQIgOGIggYjDF6D+kf8U56K6GxH3Ie73rYRsGRLQnZWVwxq+tXKtlYlf0V40GAZ+
+UQe6mBSU2+9GnvZUokw5GozCoGb8RLt+UouqOuxLTRL4/boYaz0Yxf2J3pfUtIqjAR0XIq8W4JdiFFcK
+UdRfDVQt8Ad04Ie6rINqOapo43u6EsV81guisJSUdWXA14NFP/SqqoT31kwxDYKyVl6i44pWblnFWhXj
+qJLEqa6ouF8VAp1Wo7Dsl8oYpw5U6IV60OgBHYYYj6uMLkRJuRqZJDXaqyhPl9GmrPHeskpCVdGf+WF/
+IYhKxt+vC2iP8aFdP/r3QzwTr291/lSOAk+Hnhn0k/IX6B/D8AbRh/FLYYK2ZTWgS+jLaB26KgiqKikP
+avw3SE1Fh2nRDypVFSd9kR8mZd8EvklKUYSxam8Q8xzUBt8VTAVzV4GJMJwo9t0y3m8CZZJEK0y3Uivi
+mX4/LA36QaDx+aCKvQKeLfqx3oM16w+jQYUO89WwVMH6J5hsECmvhLU3OiiGUaIrqVsuaq5FWIsjt993
+ozAKXR1gn8rYE8/X3ifYnzgNdBnrpvrUPj8sRm6QFgI1aAJtTFkFRcM9RF/7o1Bv6uj4D/zHuNigvaCj
+WLm6EKTY/zQe1Lq/iL/LIJoS1gmbiP3G2Ms6xJr09+tqUlUGnfrVOIoqn+z9/DPQS7i3VgU9olM80691
+tRioEuinH6vjFTGfBOONsecJaLYvrVQTrJaH/jAGfA8KBi1i9LV+rBXWISliX1SaRKCNOO+ChlTQD7qu
+DmBNPPRfAa1jR5MkjcNChB/QCTghiCOj0zjYYLDwcRRoPApSTAyWG3ursY+Bl++rlsAalQEV1/BMAloO
+DQjGi6Pq30DTblStbcp35LraVY9JsBABdsPHy7A+VfBZvuQXsQaJa8xfSrGq4Q3hu6WkM8Z+YIxJgHka
+5aM75eEdDvYv6IvKIWikvxrFmJtJ1n+9rc0DXXa1F3qqURQXOG+s4df53vwg6KYCft1c3df5KfYyVmH/
+IPoeVCFoKCAxef/s+FdnVaXBINbbpLH+XxvW/3FQ+UkFewPaM6VImxJ4AltTqmIs77S1OQHoJw39BPvG
+fvpBh5VByI99lSBnyNOY4uaO6j4sHcY+iPlGQTEK0acfGFXEt+hZVY0LORCj72IQDRZUoWaqKjTgi/cw
+3g/wA9YxoP0EfBcM+v0+ZEJiEhBO7GP6pfYAPDioVX+CvdgNmQO+x5qEBnvYj+2uxWlo+tKgBknWvwn9
+lSIVlCACDN6nvZL2ve6c0Yl5H9/l+8xf3sOY/aKzwUQR9hFyAnSYpAW9X5MaQoxDe6DpBNwcYetAXnFl
+00fVfS5kQBnrXsA49oOWByIssjK1GDwLmgyqGKOP9XJB/1vwrj7sfaJKpuAnBrQVgPmSfgiwELTbhQUu
+YdH+2vvlF16a1L6gfFGBrkUp1j3BEvlhn9q/36VsqmlT9E15cHAwH/sGfRZMNdYDmzAP/K03Y2LbwY8e
+xrGlo2NjAXsOKsDY4hCyxCtE+/JF5ccBxoP1Yt9xX4o5a7fsFze8UwWd6QE/+F8bcqCJuBLgWQ/0UIV8
+3tjR0cFZerEaLKdgimqUFNPQK4CPyrEuQrIE/bpmEvRRBr2D9yHXdbAJxGhSP8GjwVe9vTmKfOxJ7eNd
+e3NYM6180ByH5HsGS9sZqoFaCQyR+FXzxz//+c8YB2SjVwO/m9ZO54dqufoXyO4AfB0MQsHsL2/N/rN9
+XYsD4QR5FeRbWrZ9iH6qqSlDkyRYmk4XNPCf7V3tZWi4D7FGkDFJDBnmvPuuA20SYD+hXUBVGETFh4zq
+96sJ9h86Cvoh0CXQTBWb8R7WdF3LuhaX9A2ZkMdgugpxjwaDVrDXpdSHnA6wUQavBpMoSqSo0u5XSu/+
+8aPNQQpdi36xlJ0gqloJ9FZOKpQSgRenpd1f7doVQj6FWMO/gFgDUiHWfoA6ALyF9XNA/3Gsg1oBOsiA
+Vry0X4fKKFdV9SBoo5QGxb2bt2wtg9ZA90kJMgXCH7ovjSGvapsw//XrWztbO3M9FQOh5YN//NgzkC8F
+Dc6BHN+76aOt2HpDBsD8gw+wiEXQw/8dumgKUc1AhuTRRW7Pl717CxhPP/autfOHH6C8alg3b8PX/9X6
+bao87E29DQq3Df+D0K/imXXAHcneTX/eOuC7kH5ezdOFpAcTgywLQs1xRoN7N32w1YNs0wMq2Lvpw60B
+1h90C3JUQRX8E0YDCvxgSjrUzv8dOmOiImRTRSe+yHHTVd4C2ZjGReCAKnRJVxL3QOf6rd+/swH/1RhX
+swB6gnyJOzpaOyt+0O+0tfX4cRQC53geeGsQ+2QiP6imiWnvM+3ABrW9mzdv/bR3+xd7N3dsVZ6qYK3w
+rs09fRCC6zc666Fik72bN211MB/oWYh6X1UgW7raqz0mSoPPPv1iF/gReCXGGry3tau8qecjrC1EQNef
+Qad7O97bWgHW2vreB/8ADWg/dMv/A8wF8uKYV9a3toKuY+xJSUOngrRC4J7Q27rlw398ExW/Wf+v1k7Q
+1ka0bSSQiTXihmgwKIAXtr7/wT/+qgbUFryv5fsfWv5jx5b/2LrlvX/06WJx1/+z51PI0vKAD3UH0jbA
+F+hj9duUOhT8APqBrkqwdvkC6NADvZaBRSAvgJHCZOuWD/7xyd69e9o2d2wqRtDU6GPXFzudfRA4W99/
+7x/bv9z5Px766Gz5oUXv89H+/X9AvxnQTrL+h9ZOYJEErN6pgOZ++KGr/Z/+v/KfQf/0V/7Po0G8JwHN
+Kc8zkBYB2HFfZ8sffoDIikLsZR6KoaPj/VasRa0Pot6AqMCxkLNREWvR6mzu6ACNg4exGIB/wKngibjm
+Yl+TGihLA1P4UZiHMnOh50p4L3Ri/n2s055yfifkAaCe4KsQfN0PWoGmUSH04T7QiQu6b/Ggc93Ar7ZC
++HyI57AOHTv/ttN8+K+ergR8SQTs/+lPrYPYN4CMqArlEVUTqPxA79723wZ0ErZt/mBvQHkOWv/6q8+c
+QhoAl0f9nT+sa/lk17ad4LlWVShAXqtww6Y/fwR8VqZQ6Gr3QVuQJSlxNHCCX9Xft7W809GxuTUE0P/n
+pn91/vNfnS2fRSUHeiVZ1/KHP0BflqBTKwXIp9bv1rV0kCawD/3R1v8Pcg1r3bPObG1vd/AgpCLxbWlD
+63ctaOpAb67H9KpeqqD/VJL/656PW7Gx36ZRgv+2gMchIX9YB1J4Dz/v4+cD/HyIn4/w8+fNHfLPJvxs
+xs8W/KDdZrTbjHab0W4z2m1Guy1otwXttqDdFrTbgnZb0G4L2m1hf/hsE77bhDab0LYDz3Tg2Q5814E2
+HWjbgWfQARYDP2iHf4HQ8PMRfj7Ezwf4eR8/7+FnC34242cTftDuI7T7CO0+QruP0O4jtPsI7T5Cu4/Q
+7iO0+wjtPkS7D9HuQ7T7EO0+RLsP0e5DtPsQ7T5Euw/R7gO0+wDtPkC7D9DuA7T7AO0+QLsP0O4DtPsA
+7d5Hu/fR7n20ex/t3ke799HufbR7H+3eR7v3MeMOzvq9TVv+DLWEyeN/wKxR5dV1WBOJJuiqAsckkReV
+gctdCCz1ajYq+BDQr6aUMq+mBnwPesMQcUWQSxEtEvyuXOyt5/dFsN0i4NQQupgWBaQpODYoRd+mr+4T
+1YboEzoCUACcAx1UUH18H8k5UqVUVVNAzDACSwJ7Q4YFqU9VByOnFsGeUBCOcdXH+wt4Z8AGQeT5Efgi
+5rj8189fP3z9Ej9Lr1/8OvT64a9Dvx769aB89vT1Mj5dwl9zaPUSvz+Rv5ZeP8N3S/hk7tfh15fR9in+
+mf31KHo4+vrHX4/+egDfPsLvj/Dfy+zj9ezrq/j3InrCU6+vvb6Fz5++voS2B9Huinz6Av0/fH0eP2fw
+c/nXQ/h8Fu97+voC3v/09fzrl/jsBf65gecOvX729sDb8Tc33468HX5zFz/zbw+9PYy/x97MvpnBN3fx
+/ZG3o2/H3h5+O4yfQ/iEv4++uffmMX4//OY2nh2VPsbfHsQzo/jsF/R0j79J23H8fhht+d9Db55Ir8No
+P/x25M3P+GwcbUbeTMkTw/jmCd7+BNjdJNh4HQWwphOY5bCDsTtAdbT6CTkKxIcxvzXU/rTsAX9AQ7At
+fLfow3ImqIyrNHOhooHyYG0BkcFMh0iIPeA/owFq0yo9BobuAgNypBEHc38Qv9Bki60ABjCk5Q47uwqJ
+DuyD9+o4hmEcQveqQpQm9AsAWCYBrcFAzP4ENgmkGYxQoMO4JO4FI7Y5qYew2YVZ6qbGhdET0+gLCjRj
+CNFggwiVKXolYLcr2jsVvLvmU7PSW2AAv0PaoewerwfagJ4BHAI+gJJ/F4CxE/OAiR3Frq5SQdOQhkYr
++aEq4gnoUj8Blkw1vRn4ArgGqlPvSyJAVyJk9IxP8WyYAMQbU0j9IBHTF0pAA32lXg3M6NG8Dj1DUxP/
+xdKVYQrT5WLAmlBrUMdoDOhDV4BHP0WIVRvQQLmmXPT3wbzGgMII6C+m5wXYFDgLOlIFMQzsmBat+TaF
+fsaSVHU5ragQWpquC1/8C9DO0PZeARzpwrRxKVqw4sDo5QB2USjGzyBEjaZDx9CbYjx2DRER6wKmD2s+
+Tcowk/AsXmew2El5kO4ZTtoD6bnEYgmXM60ksCcoVOKEzpTaDkiGflpwMX1L2FBYqoGqaSKPuMZ31FIx
+07lMLhY2webFDkAt6aqaVmkeG1WtBrVPub8F4KpSWoVwpJ+E1IResKaG5rjBBsUQUNhaCsJ+ulpophFw
+AxqYFI9VlTyL7klbIb0uIYmGviPt7SWxcuDmY3IARFsIfEBvToSFLSrQL/1KNZWCCLlbBtMPNH0V7Zyg
+R2+W8QB3a7DKAhpLKulLYb4mZfooYFeakIMu0E3gRvQn0BnHCWp6RIxbc/lvgGM6WAwla/8gtxl4TodV
+X7uE9X5QxEQ1zUpyHvS8X4HJqkgdPoxAwh40BynTZadJPWC/1C0XuM5xVAMqMv0amwcUg/mRLMBgDlcC
+YD0py44SXdWiYhEk4UZVzcWEiQUWB3rgTluvHMRCTH8I9EecxERTCrY4phqF2FARMjAxCHd7KTI+I9WB
+Vqu1yHVhaupishW43ZRBxQnXACYlGYd+N5PGgDtFvpIEjI3mWqVJ1IndSXSe9leFTAJjTwX/Q8oxeBmm
+CnSLJR7Ep3gvzd4QUtCnc8Itf8X+6IqEhIzdMsGPpqfP0M1ovCgtwJKqhW4CbqIVHg1iL3WxRjaA9QKz
+mHYpKGEAGwrepbfS7CBf9lJyEXjX+sTTCDsqAM5zdQct8F6KzSr4M6DfBSCXEkEkNQx4CnPrBDX09Bi6
+5IyicwKbZzSRK+V4KIPGBlSxhPgzoYvV0MfGb2tkMNjk2HxDXy8Fd0zuDkswoLf0cMtKBN3tlRTyl5vs
+7SFzol3oJRGkD2CE722gA7RAjwg9fuylCCPNJ3kHgXh8a8U1/xqMJrR12tthgimPBlqpVk12UcrTWu3c
+RWKlLzjn0rqDdAwTceXCvMj1kImB+NUAnRiwhP392pQAPBIM972eOKJjGN/W2MFG0R2ENJ4bU3f4JRjR
+g5DQngIBY0GM7qFHRofffN377h+3/LmTWHffNyRqKAIMLewD5fepfXlFq8GAZcp0vTn0HRO8Q56G0Kah
+Gsj10AkQiteL3kSQBVYD8j6Ke6l7iDKxgxAK9BObPlUV8RDA7PZBc+CUWFHlYB6bexRsOGAvMCO4KFa5
+tvb2v9MFauiHMnQcmz1kYswyKVPnhXRO/MVgAAmYlyQI8EUJl9D9WsTOaKiywVwP1h+MHaeUsVD0f6M+
+303JkA91wi1pgflcc75roUeSHnNDtxZJBavtgQa+5WInsfgMC1FMxz9kB4YLYUu/SEKq1H68mSaV+LPp
+0zM7yNjgbkg4SnSeExg6lOgIxVrT510hu1CrUZ76RtzbXkrRrPcpU4zB7XSPbPz+ezFUqjmMFZtHt0Qu
+onuhqxC39xQxr9jQJ+fpalJ27AkA2NSllOdpgzgvOyFjSiHdVGaQo+JoOyFcunN0X0NlYUafY+ZOPp/v
+agd0DUsFTpqHIA49h508VgB5x3EN0gLErovUFSX9Dc9B8hXSBmCIwrfYripPUOSgoKs9iXvo/jEcvKNA
+IRRANHUDiLB94BI6Dco8pTFUuC59zY6BEDeAaqG4ho2zAZRKJ7r3DTEEXZ9GsDtJqF9OYoQZyecenQCd
+g1QnmJvRG1o7c852wiM8mu7rozu+CpkY0MnT09rpFze0Uch6CsAR8Mro3YRWmD3PXfZps5eqEkqCk9GV
+noKKcz15E7vdCSUDBFh3ziU6LIPWapvfE9GXpFUfdFkjDquC6TEJkIb4qg1lRx4CXfP4QAf0D5p215h2
+nkB08ogCAiUtFgs+OqVn39D919EPTlOwY9e10KsPTKNT3e1890PnR+IF5JHKd7R/FQ+bXM7XB1mVebzl
+xORnglRDz3KupspR1Epn+TYiUJ5WGTDiph7YQGmJDmax0rtps5gfWrGCdHR2VilV6FI0PF8wHfs+6Ojg
+qUFO/LgFqo5EYcEqPkQZ0VsAButqp3MZM4JwauPmkaTymEfLHypkEgf2/p93b/vvrvY4Kum4SLf+DvLM
+ZjpMechj6EnqAmMmCX3xZjPHAggW9rc633/vBPQM8jQn+GMHRJoDcnJ4bucNcsUp4Dr71Nb/96DxQdVd
+9NzHgA41HnvAfiP8xYJVE+qZ7ZSdrc473Y5HzEqvB10tFaijfl2rwLwMeKKWpxvbqRI7g6fDGj2Jhggn
+t4nLMUhATg9WpXfvtq/2krYcHzg23OjAlqc7oYUANz/gAwyIKxXyJQRfQsvwAIzQOgqr5F/yTEvUBtzC
+Uwk5ajHUlA6dbyG9Lt8pLyro9dxM3+ve1EGF0MnjOie/OV/xeYiWo9sbUAPbs4OYqwBxqDdzpNjk1j/x
+l+/pxAb/QROXyeKbNnfkHKpYiL6edS1UEN2eDxBAjscXWHDKzpY/FotFMBEgCxFejvAByhqPtdL7vEl4
+ATirGlqHM+whbsUhHlW4XMQcJy2nQ6YNvNbm0dBqeTdIOul5NVvf++gfXTy7bYtTMBpPnhwqSKD1fjEV
+qqbbyeU6oQygj7hqm3giAfGvQrrRI0rD7qj7PzbvdiiNYJoXdJdfKTn4yfVsdIp9hr85Oa7f53uj6nae
+2OVCPRjUdmJP+t39WrCyHxArk0ne7ymqb3M9+8ttbripA7vZtinX2kkU3s3TQui3NKhRlhg6kzqxel3v
+0GMRODz0gLJbJ7vv9NGWIMc73K08OHddyyBxCc8+TEpx4/GoowCm6U/IW+CjnMMzWuBnDI1OEPD3t6DR
+NKr4JoItAhnqaTnboWfEVFMaoK9mIzpNXl1PfEhcoIBE0SciMJ6nk6DMFHKGfpSYQ1PorAKRCrhagcqK
+1Lfpqyl6VYx59TiIVC31VFHz+IHeEACjhHZmhFElkaGHxQgF84w2UvR2BGmJR2S1iEeT1gGCFSECAF0Y
++lQ5PoUBvZoyHIsCQEs9cdrQeo+AfHVIvAi7ySPDEuzp+NV1wCLO2PXjvsiI20bFRFaAFmk1KtONKmSA
+t0FnAJpHUO/KhDzGJzTTnKoCB2oerfniB4IocX1VBLTk8ZEPuIeFrUJSRIUU0yS6jhVILOCfiigSKCfe
+j34LNOIwBJABXvTqcSXiJKM+/glc82qhzCZcgxrgv6sqaR8wMtBQXEypSPCiqAT7QPkl4OIBrgsdWAB8
+WHzuJZa3gveAtqCvsXd0WYVhBAEGAOVizOAeumANFsenU6oMTRabCKAXK4VVBTO+ehxCcu2P6FgQ35QZ
+4JhVNaphpCFBFhiOn0Uu2DmW4yPYSBgLhYjLx+jWMvSShCSa8NV12ny+2ECwnUBGrgxX0ZYMSBuYO+wA
+DAOrAXStCZN1FZoYapHd4GnGQtAtBnRLLxpoqBTQ88ZXYyEqCiKZ1rFdwNAHVX9r32EUjSA3KtOpN+Cr
+PghfIOhX96lzSPIxbGLQTZ8CeYOeYX6pgBpZB5pmMNCckj0EWI1MkPK4HpuMrgKuG56ghR3TTyiExDAG
+lwedA3g5RgUi8aIBYCZDt59RlULEQ1uP7XxFbCu8oEwKqx0AuQ+rC9lPIw7T812FxXg11RfxVdgypYWn
+KArABn5sUh1wBJEpiseGHkZut0yQ6wjLnf4o7qqCRRYRlinSbkLdEGif4ReFKKALE6sGIgT44oBeHZB9
+cxkHgydga4AY2CMHdJ07jQ54LkXXJyXIfVInmZ18gplQKSkCZvzmir2VgOHRFSULaK2GdcMmBRWgy4gA
+UpypNCuAUHxMi9OH7AJlYxIQ+JQlwPNVccaKwaZEqBmfx7jcMtobAOYQPPhY033TR+SoFV2y5l3aqp1e
+RC2NjqHwCXpS61QDDRk652qGwxd1UeChTBxrgeEuT6/TKg1fkB4MW8qetAK1hadCmLqUPIQ1oEBYBtW0
+AH2JpxgvAzxlSOcVsGCsGCRE55gBn8YuJhTLIWssHidYFVqghGYojlsW9wT2h07HWJcwKj9hnAvYFpYS
+xwnejYK0EtLSiiEWaXGLw7BH+/RcAEiXknIR8g1mZ0wXOBYOuA5UDFlLLsYEtHjH0koFK0DLPObqaq9q
+nU37YJ55Vcg6tyYqIKGVTxYFhLfSBHoXkgTWHLBEyRPjUhxdRpyEQFI+dnpQzPWqBjFqMl6pBgmZEuvS
+kVAEc8eMM0IPrlBSVCwCBoMNMUA6EKFi00KFbgj6AsXJatIqo3+A0QKYS3QTeeLgBTwr86Q6lf7LoNRB
+EA1mKj5b82WhT7uJuAWN9faCrCFb3HIscVsVjBAET59dWWgspLLFODFHiHuQGucKfvs2VXTkJZQ5dLAZ
+OiC5g5yFxLTwoArjh1lJKxtrFfFwGRYU+sHSf0aZg+kkdEphbSm2K0TwGrJZM2pIe0lUKgVa3NCga54e
+k25914UiBRURV1Vq1GSDKklgjcjhdVIUJ3dZsCWjm3I9jGnTHui9mAbCyTWxVcVjwn0HLYC2XAyH0qlk
+/ZBG73MZhkIPQIn7ivGUZTGKUPOJuMSth9tgvzA2KAfoJ8Z5RPEAKVN/JStGNgeBkSkJLqiHXczEMHoA
+gFs2I+cQ/NEpo5OSeHjIUyQg0CTQWZEgoQYRGlRE0NBb7MJMJrf6ocTbKVLLDnHeRbLL4s+FVPG8QO/i
+CSTF4SAdmCXl1irC49jstFRmbJcWsK3pgy/5IcetoJl8vgsKwSUWhwCRswJP/GSE9ox9URx/JOepQj81
+MREZDgE159LehBwAv5c9TUkdCy2BY4kBUoiLpMJYwZovnknhNS2ue/OFyBYvpXyw3kQ5OzCM+tIeIYV1
+LMEU8gNwLlavRG87z3cLwjt05TEaC6xjPhbZRZ8sLSN6Vl1Zq4J4WYFiY1UFHWD3rC8MwoN0DkiX1DAL
+0l4VlmPSZgdRpbytMOSnRI8jFHwKcQxZz/gWgB/03evGfjXBGOicJ5HSqoHI83xyKh1hJHvOsU28CFhH
+rAOoEAJBCQ3wJEV7dK5ob4esIRaYDrQynRUqYHwh4wlzDuwbyA2uCWz37+i1wQCL/r5Ijgs+ETrPMzxm
+gwvhQQogvgBcw+QDBdRV/kokYSIz4jkG+TyBDPKE/rcLp8P6SJOauIYp30pR0isSTFHSA6kJRUMqcbRW
+I4hFnHAHY81vPhcJL1oItE33fK/oAhHzhiPQ3rthwVQ76dQ3Wgxxh6o69LrotnV4Pu7LeU13DswKbCHR
+fcBKAxI9QWtoq7O3rB2PHrWSnEuZ7bs+/vQL53OwBPUyHfWu2ANlkcxKTIpP5S0UPInZVcFm616RpeB3
+cIOHv93EHguAd8DpvcIX+ZaWL0Nx6miPJkuuZw9wuF8VZ5YpS2QCdg09fClSIpa1FyI2ofgTe0XaeJpO
+G7pvg5qzQedL+YIuM+4iIp1gIiAcngNoiQLED0+dxLWbGMJCmZVv7PGTt4UG/veEdJ6it9Wt8QQISk5i
+X2HQ72eUHqW90E9PQdcg/drE/0/pVE1EG3rEM6HeHUV0CChGf4pDpOUbiuyceGBFDhuTc9phw+XFGosk
+MlUoIf5yH6PROD5sMKSZPyCcGxYlymqndcfSHs2papXaDMyT65HDRcMY137DCGAxwVx6bKFtMGeMVm+D
+UgdK5LIRBGM/94iG7SrEGMsglUssp3Til9He99/TLcT553p8q8XAY6pGzs/1MNYI8kSHsD8h11LKEIC4
+UNz8ZhM9g9+L+uEa4iM5TcnRc4O3k4g6ORMlukwFm+SMgZ+AyGMelBSxHMlWcTw4cuKV3yZaQA6WjLHH
+fZQb3ifWuU9/YPz13t1tH+Xk6NHZLlog7/wd6IYHhX4k/mLgt5CxQTHQZtL336lEqpA+xdcCBAUBnwAF
+gQ9g2ZS442RNekmc73wTKyy0qgl6cfFKeg1zPWWRGFwMHuaRv+UIych5aqcsgyfO1y5YCsLd3MO2Nka2
+QkL5SQ2TYbQInlepeMOcTXKaERUS+qeJ04wSV9dG59PQpaNEezXhIAc6BPpFDo7zlOjakxOh2jck1vxu
+QXR0XGvvc9GYgdGOX9wjmA173a9rrZ0SSyumdUmwmRwvm52CgX9gkO53YB80344+u9qLQuFyspkvCh6W
+MwrTJZ5eHtw4HVV8VlEgOgxLTOAYZgBsN8EnnpzHGUbN+OH74oyiUwicRTsgzBMQbVADKhEbAKv3jUxJ
+KMEIbyo5Kd5YFO0m6Eti0WkBY5gbhDviXsGBpF327NVyPS3/SWG3t8xthubBTPsIaWqMZe9q51FvsQYc
+iy582DNxTY5wu3eIFBVHnKPkhOUbgXE8hlUe5dIAdLGLtZXzlpZesQ6cnXQGuwQmsZz8G/Foe9vovnYY
+wRvUvH+fL+d6mAPAcVLgyWm6odmcGolHoJPyn//qlDiEfCmF8RMDHzDSlSPcytNZ7X1JcOHwWCPnQMql
+PJHBJsNE4GGYnDVjlQBTisAu0Gg7rCUGgxlSVI6Ee0X7tLT8HVI5USCbWKIDtuJBRlfHRCeJrF6u1fmT
+k5Md7ymk5Ag5xzWfi46mxiGSrAoEpEzmMVWuZ0DCDsQGjuUsExoKYIWWYELXWiLYHpsHzRSqgZ5+hj8b
+yo1cjxxNm245H5YDYacsvXVYhm9p+TR0HAmT2AM7td9vk0XEOyAHt4vGl7NBp01oabPIHOZI5Ho6xOX6
+pUi5NhFPFdIVCIN0y3hGp0PY0ZHgCCPWQasW64/o248ZG5dzHGskSM9twvzQX7v2VbfKkSpzJvyQRjsQ
+IwM5jJxrrJOjb6flD+TBHgaH/QGfez0t8m1LQZUZNxRzk0qMtAVPlmDRVmWOJq7i3xIxM7YyN1U/N9qY
+Hlp5eboxf2D1lzMry9frB2bweTb5sj52amXxwcrc0Mrcz9nwg2xirjF9vXFypDm9kF2ezCZmVhZv1y8d
+z8av188/Wz3/BM1WFhZWFu5mpw80R3/Ons+uvDiwMvdT/ertxqWj2fPbKy8vNQ+caTxerD+6Xr90pPHy
+VOOXi/UjQ/i9OXMY3fK9y4c4pF+uNc7cq489X71zbvX6Uz44NFwfR8uZ1fPTqzcuNCbnsuHHK3NHmy9f
+1k9eajy5sfJyGY80X2JUz7JL9xoLyytzi2jZfHq4fu5i8+7I6o1T2eSV7Nbx+uN72cgxvn3xUv3Ms+b5
+iWxkOJuer5+41zx+Mps7mF1aqD8bwzo07i9gXtnEqWzu0Mri0Mr8WHb7ZTZxtHHmav3JYja51Dgyym9n
+z2Z3DtavXKofOVrHs+cerp5frF8awi/1c/PZi4ns2PmVhQf1iZMrS5Mc9sKJ+uST7NZPzeWLWDQsSGPx
+auPq7dUDp+tzc/WxiWx+OTs1ng0/W1k8h/6b1+9l00ey4XuNB7IdL37KTl1oLk82rx9rHJzPRhcbR8bq
+lw81zjzNpk6uzJ1rnD3WnF5qTl/Pho83n8zXz15sHnyUjV/Lhm9z2OP30C12Njs7gp3Kjv+UTd9onHiI
+RVuZG68/fY65rLw8mz1/1FicaODZe0PNmTuNxZHGraXs2ELj4mL28mz90gPs3eqloeadAyuLz+vXXtTP
+zNSPHQDZrF4cXj29VD9xG79n08+yxQUMpg4CmDi6emG4ObNYf3w2Wzq68vJ44+U0XlF/emJ16Ej96H2s
+Rv3a8+zl6ezI8WxspDG7WD/xI+aYTV5bmQNd3apfOI1VzU6eWL36eGUeMz3ePPRydQjLOIpmoLTG3VMg
+ElAmPsdLs1uj2ckxEE926y5GgvFj6RrXzjTuP1uZO432WNLVQ/dWr883Jqfx9tXRY83lC/ULM9mLoezu
+0fqh4WzkKVa1efgUaJJ0dfpA48ixbG46G7+PT7Jj50hdCyfZ/9Qd/H9l/lp26WF2eaj+dKJ5d6w+fhYN
+QPmNe0exUPXZg/WhE6Ai8Es2dDEbv4pxgkrxFQaAWaNxc3omu3oCRAjKwUJxT1/O1o9ONg9cyG4+rF84
+sbK4yN05cDtbeF4/+7B+fLqxdILcOvuy+fLOyuLRxuLxlZcjmAVX7OkB0CpYElwGbuVcZi7XLyw1bi2Q
+kBYms+NnsRFgW1AU1rx+5STHP7lUPz8MUsTIs+HnmBc6AZVmY+fBNdjHbO4cKC2bGWlcOwC2It2euJuN
+PeOzxxayqwsgD6wtRoX2IKrV0eOcI6h34Vh27lL9wQ1QL6gRXWGRyQULk82hQ82Zs6B2kuLV+eb0FAZM
+gjyznC1cqo9huxcaJ2ayG4dW71ysz81kJ49xGe/NghLw1OoQRM1QNv0T927iFDf99IH6tdFsdERed6J5
+92Y28hgjxMKKTDuK/rOJ8eaTm1jS+tg5SBgwAmTOyuJNcFzj7gwWJLsNbl3AOnOmZ4ayM9PZKIbxsHFn
+ERImWzgDmYNlQXtQI4bUeHGuuQTBchXcB7nXnLlBKsXWXwL/PqZwuHI4WxoD79d/nKqfWWosHm4sjmKO
+jalzjckn4BqQRDY+Wb98G3RVv3hw9dxpCs+xh41DU6vn76GT1TPToF6s8+rlK9ncXPPobHNmqnFxKVu4
+k80dq1+aJD3cflyfOdNcOtTgGEaadw9zZciJ0yT48/fqh0GfBxqPlrKX9+vnIcYpnVZ/uUBpcw+Ca371
+8g3s4+roqezWYch8iJfViydBipB4q6efgd3IKZjU2MjKwi+NI/fJGosTzZO3688hYa5xhNPPsLONu8dB
+ciKHn2NSZLrx69Qmp8ab0w8hSah9Fo82n9xbHZ1onHlOUnw5m50+nr04SxUwfhstMWbuxfIvq0NXsx/v
+YVW59Q9/giTHRBpnHjdnSKX1a9exI82Z29mJkWziUTbxM7iguXwGYr/5ZGpl/mF28njj7kMRJiOgKDLg
+zBPyFMTywpls6r7Iz9PUL/eOZgsToJPm2IP6pUPZ6evsjZv4LJs+tLJ8uT5+qzkEmXNmZXE8u3W/8fP5
+bOImRGt96EBj/Bn/fWQ+G/ulOX0Lr8uWh1evL0LmQyNkDyf40rFT2RCplN/+/CP0b3ZsuH70werBm5AP
+eC8lIeTnyDDF0UlMbZ6cDv69O4KZrl68Acak3lwexVAbZ2ahU0iokJyjC7LOx/FVfeompDomWL9wtX52
+eGXhKOiH+vfaKOZI+T9+vbl0GpyIN4L8sOON60PQFxRlCyNkmcWFxhTo+TS0GxXQyUOQtyQqKJexH7OZ
+eby3eQT8PkONPHKM/AtZcelq46fDfPaXo42pI42FuxDm2RWIponVn49l01fI42PPMH0MFVAB42lMLQm/
+H81OXM3GJuvnr1FNQAMCEgwdJa4Ad4+N1o+NZsfPkwvOT61OjmSTN0QnCnNBrU9eq0/dagzfBZXWn89m
+lx5jjiQ56NPnV4TOr4LIMR7okeYy5vUCCoLMTnl4GpwreoS6hmpl5jBUW/PukWzpPDnl+Amqs4WpbPoY
+iKd++Cq/mj7SvDmMBuDQ1YPT1BEQgwt3Vm9eJQq6+LJx+Fnz5QOilPHb7G36IZEMZPt1vPcYGJ+79vAU
+xchpSLBLzdvL4ERs4urwj9nCeTwOfbeyeKH+YAkSAOqeUgu7PH2MApbI5Bw0HTTp6o2RbOYFURbme2wR
+FAK5wf8vTmTDc1zVyWvZ/ONsAlxwGFyZ3bgCPq1fPgl0RLK8cWVl/ije1TxATVo/O4YdJ23PPwEwg7Ij
+xYIgwbYzR4A3oLZWlqfrZ+aziYMrcyfqR05nxx+CQyGNKeVuPGzePUhwMnWBYOzRUuP2leaJ57JQ9zHZ
+xuLdxuLUystrwCGU/9CJ964DKUGUEW9ABt66ujo53Lx4on4a6uzS6s0TwBjkx6fPoeVJny9PA9U0rk4R
+sl6+jpWvP1psnDvfXD5JhLNwF7OAuofEw7I0x4Bgx0CZxJ+TV4EQyFZnJ1aBoEjbh/EKoseHhyi0H48S
+MQLBjt9rPrkKBZGNgE/R1TLAJ6i3fu4l4c3E+eb0PSwOeRYIeeL46p0xoqwXCxS/Q3ebxw5lYHkg5KMX
+V16cWj3/COsJIqSWuXS8eXeIgn3iIB4Bs0BIkgexv8uXmzPAUUsr83fA4NyIp0ehGRt3idzA4FwcKLLp
+n5oHrzduU+/Uz00BiQFdUAdhhcevgHewm8Cuq6OjnNfJ21BeRCPYu8lpstvYLDRv/dRhootLR6h/b402
+b74kqoEgvbSApYPWy6bOg7yx0ZCfFPIjYNhTRE2Xb5AjgB4pD69AsLC3h09AYKBe4aZxYJjmwxv4f/3i
+NLiJUmUOZDO+8uIapcHYL/WpY/XJR/Wjt0WPTBI2Dx8nB038TI15/hkV8ePR5r3x5tIS+Aucwh2cvkEY
+OXQAvQF4410wGWiVPHkC6d149gi4lMgfGmr0Z7APmB3vgpYB1AG5rl6+z/1aoIalHAbdvoACugn9no1d
+W714i4s/NtccP4iFAm7BjtQfXK+fnYPKzh6eoiYd+xE4DZqxfkRGBX48eYIIcPievPcpZMvKy8dQOo2p
+M1ANRBrLl1d/ugShhxfVbw6BxrAX2DvoAkyz/uhHbjRk9dxc48xPzdHHHM/JEWJCID3oSkCaW4DEz/DS
+5pXj2fxc484EMT9Q1ssbVGSjI8C6lCeArLBxxh7Why7XD4EIT1CPHJ8AF0ATYWrEz7dfgjtowhw7AlFJ
+UoQEm4e5dIkE9uIX0Ay2m8bLEUiPwyBFbHf98jJoFSANIguMRnPpwmnMjpBvHJwySRENm+L4KBacanrh
+DvfryH3y1NknAKIY3urQNUpO0tj51av3IU+aT+bYDyaIrZycWz1/idIY2uHlLDUdrCrIc+CZ6XmuMJZr
+XKyky9chD2kqAj1Oc2tA8AJynmWzw2AcSM7m8hUwKRRQdhx24hIepGnw/G52+zZEBK0YaD0YsJdvW5MW
+NAzaI81AmULpQNqPX+Hig6nvjEGjYYPAX6tnLmKjOYWTY8B7EOnZ0AsQGCc7eapx+Sb0MkQTrbCFn6Ge
+Vi9QnVGiHlmuHx2GmF09uywct0AUAYsJWhi2yeITcBmEc31+KXt+J5t4DO5eWXwJEoKmAIvBqoL2h6yj
+UQbaOHM1OwXz6ia4CfCVNjjo5wWoYr555BFIDvPCvtNUBDdBYsDAPwz6OU5RP3yX2wdNCsG4fJJkA6G0
+fL75+CYx2zMA8tHs0lVC5acX67NXYdlRAZ24R+gLow/jvzxFfXrkLq0zkOXQNUgbgha0mV8WW3KhPjHR
+XH6YTVyAlUSWX7xKfj8ivHDxfnNmiRDrGCU2cSMsOLz0xCJ10JHjsMppHcw/ARXVLx/E2EADK3MvQb1U
+3xeh3Ubql37mHCFvaaTAzr0JCUMsdGQsu3y+ufALdgHzzRZGMGzgdhKe8Avt8UtXm7Py+SHYApcIdw9O
+N6ZnAS1op88ehBLMJs5BllIbwlCdnMPKg7WJisdGVn+8CrsGfzauTxNXQ1YvHaVldHkIVkP9CiyFi80Z
+IKJpoqDpy80nlyFRCVpunsDc6yfEWoeFNfNjNn0NPAKxQ7h1/2zzl3ONc0v4CoYJJQNGAsH7y0Vq0sPL
+jV9u12cmRKRMZbcsR4/gE2qfW/frT26DrYgkJx42DtwERQGjYsr0n8z9DH2UTV+gOwImA5D/5BzV9NiF
+xtnbhL54aglm3RiNo6VlAunJKVAg7dCx5Wz2aP3aBMURjESsNshm9Enj5wOkqAOnBYg+EHfKaTBF/fpN
+Uuz4YwiTbOJOdusc+Xf4EPA8TQAChgvAbNnkpGjn682fgdJPrP50snH3ANaKy3X3MFRn/dlY88l8NjwL
+LsuWLwA40UkFI3TuDvf95HFMtnHxBX0jL4ZgSVGNUrOfF01BSoPEgE1By1EsOPyO3mCtiIl6FTqagJ9o
+kz4oohQggctXoaqw1+ACyrFh+iiwOFRGLy407g5hGQH8sCYQoasHxutjj0hFEzfp21m4lT2cJepYvgzz
+XCwIMPJBvJqyhZiKLrJsdpYkB3V5+Cq4tT49Toq6fqV+8lL28Gg2C2V6ggba2PPmkxu0lW4+XL0K2EZ3
+ED4hnLv8E+XG/COYRZgdRRww1eQ4LeiLp/DJKvj92DCkuvjQntESfDpJCAdD4OikCJxjGAxl2oWZxqUX
+jcvYC0CUJ9k9KIhJIkmsz/Ff6Dp4caF+6BrIMrs5SmE4PNs8MkMn2PAwXTQP7mDHVy8CJz/DXIhegEAm
+ZmCT4nXQkvQ8wHKBdUkbZIkegxsv0M/Ki/MAvfXzE/SDwVrEpmDjsNFT6HAGlLM6dJAC9sRV7DVAF8Ug
+Ojk3CloCtG4sLkPKNe4RBTUWx7BiNDqO3IcdRx/LyUuNowCBk9jxlbnbFHoP55rLl7KRi5zypSOwZBu/
+YJ2PwH5pzl4HmWGhOPLbLxuLl/FhdvwADdvlQ83lSUwKhgD0EZ1OLy5k48tsicE/uNl8OpHNw0I5Q2cm
+cAKY6+Qp0Q4PKaiBu6aXgBUhc/iWp4eBYMk1156s/jTRuDxE6XTrLp2BF2bqM2dJIRcXKKuPnSOXTR8j
+42Czrp6A8KT5A/ELpX/kNORt48wN+jfuHBQP1T1af8uXG4BYk9caT65RPgBbAnsfvEdcNLlEb+ThSVE9
+4JGbUFsCmWjjU4NPH6mf+LEO4Dd7ZHX0mEi5SZhvNGzvL6zeOQfwTIvj3OHV+7NE13NH0YbrMALrnvwC
+M3xl/sjqhcfZ8BHsPv1RLw6uLExnIwAGRxsn7lPHLd3CvhNDPjwFpQw6oT1+b5Zae/g5um2cWQRoIXp5
+TKMV6p5YFED60EvQNh131x9QR8OyuHS0Pjdcv/1T/eSVxoNT9BJfO7C6SFQGyiHZz15tHp3AdhOdzi02
+pq+vXnhWn37avLeYjYw3lhebM6cghME42YGfiIhevFiZP0Gjb3qGW/b8duPoUH346Mo8AOdc48QMmfoq
+xNEi13z5KdHIFTp7geK4krCUjy1jOm7KMA4dDviM6/Ni35MQydgPfdePEl9XqlE1ir9NtZsyUIUnnl4k
+AbOhBGwa1juIlQTOhmFUKcRa4mfDqo6ZhKUYvyohpcb1U095cs4eqTREn9KP8eQTiZqPq7HGe40uvVoI
+JY7UDESM5ZDAUsN0klCVVYG5yyU5SGNIrpHQQg6b0Sjfpn7VBj4aia01KiiloXKjONaRTe5kSK8fqzj2
+C4w+RG9lGbnmATgPMjhOVSn4axGJjDtlqLlhoN+rqVArxu242gbhSuyohOYWFENwY4mFxXhSxulJbE9U
+YcBmMMBoQH6O+coqGQnANRKkG0pVACWRvIbnUIxm5im7p5nPHRV5xiaRnkbiYSJmTvhKgjM5R6yYG1Wq
+NnNbG4n24a7FeIEv4Zk8v7WRkLHEfxqP8TeYY+z6qhp5GASztZPI8zlQ/F4IJKiYUQKYa8D6HX7kxr7x
+sZvMQ8JOpewBv+siKQSrEmNlJb1KawZGRRJALRHKnpIeVFTk6mEF0FS38eCcK6OMnJUbiVWLGLNk+2c0
+KFYqkrhBI1HXBpP1GWXLnBEJozax2v/qMd5Z8DnTlDFuUaC9KNEh9heTfbVgJDqP0bJ+qBjXhPFyZZTL
+sKbIfXXd8/dL3Cdj//CUZHsp7v5+UrgfRNhFjpkkH7+6v8/HO149rur9pCpPDbya8nSkB3h2WVXMAq5o
+hpAzlJVpQEyXKL667vqBqwp4SCKCJXzVQ594OupTVcxCgmFNQShEIqeNhNHGEi0cFmW1sdfccYb6GknX
+5Uwx94IfFFREjgDhkCsNY5iUxDd60esnrxd/nfh1VLLkF14/xM8cs95/PS6fPPr1gOTKP8bvy78O4fOD
+0ubpr0fwc0jy6n+ST2bx23PJqV+0mfavf5RnlyULf4q9SY8vfh3Fpy+YrY+/F/lvZvHj2SXJ6n+M1mvf
+vz7Dsb2+yvfyO/QnGfySYf/i9YL091j6f8TeZWwvXl9/fe/1Sfz3IZ69a2chzz6Sb/Ekxn1DxvxEPuNb
+X8h8Zdb49kf5BG/5dVhmzb5ZY4Atn+Cfl+j5R/vGtbEx1//H30eIZw+s9cA2Q+hx9t8VA+bwxEtZ0yvy
+D9d6RN7+UNrYOgasLLAklQOW0DPHaesXLP16AL09+e3W2d9uj/52a/6322Py+9Bvt+bkk7O/3VqST47+
+duvMb7ce/nbrZ/n3Pfl2Qhrg/8u/3ZqSp0b5ID9Bm1vy1Lz8e0QenJc2M/yF/15iGza+jd/7FHlaWl7i
+//nU8G+3Hvx26478fv63W2Py1ZL8PiGdTMsb7/126+lanxzV7d//jXddkJFc+r2fIXmd9MPfn0rLe/LJ
+vd/7RPsjMovp31dgWlpiDI/kkznpbVqeuiOfnJanRuTDB9JgSj55IN3+xAf51T1pc17Wdkh6G3oz//bw
+2yNvbvPfb0ffPHxz982NN9NvZt/Mv5nBP3d//xw/T6Wuw8Lb8TezUslhhPUZ0J41GEbQfvbNM7Q7/PbQ
+21H8fRefjr0dfntQ6jzMSyWHu/I5W7Biw8/o+SCrO6DfqTf30RPe+/YAPnuO3u7h7bPS8jZHhd+G0eIu
+Ws5wtFJbYlwqScy/eYZvx98ewO9Tb36Rt3Jso+j3Jt/45sHaTEbx+2PWosB4Rt7MyJgey7tmMTvOlFUl
+HrKWBFrelNoUw+jRjvhnmQlGgKdYo+IpnnqCnyl8MibVKlgN466Mlk/wPbOc1+/PYoQ30fcY5nkXT99c
++3yEb5OxcCZj+Ocgx4uWI2+mudry28/S5zDeePfNdZnduLRh66fcG1mf2bcHWR2Dq8Q1ln2ZkXHclPZY
+Z+zdz1xdPDGCzx6gj2EZw8/ckzcP8Nt9rNIIWo7jrcNoz1ksvHmET0Ywh8fccRnPYanSwRW2ozuI9bkn
+877LFUZPN4VGWLXjOvdExjG8tneHWNED35LmfsY3HNW9f6/6Y1mZQ/KueaGKGYwP45K3ch3mpbdR6X+U
+MwfdzL55zjFIbJjkBjFGkrGnaZCUGeQaFG0EtsA6BjylVYlGlDAlj5U1pLqDRKoVlSn7UdhlY+wl5CSu
+Ae5ITq9E0zNdn7rbZgKYOA1DyX6O+DirETCSV2KTmV3DPM5BHUjRReAzN9BpKKUXQs2s9n6iGxXWvBrU
+qk3LNxLQN6DcGvpktHmvnRHL0aBTz5fciFhLdnIs88UbCiw/UfalaITNAzBr4cp8C8Nddcx4V0bIsPhA
+mZHRgY27zytPch6lsof2BrVEOwu2dJlU7aUuy9zwL4AZhnwync1VoU2e8Ewq0xXQzNwit8y0hTSWOhbM
+MmHBkQLARU2ilKV0p2K+pxRui5mYgO8qimnu2oYlGlkCAoKQWAGDKDHODyBHJzWbjyFrzVQyicn3EkCf
+EtMUGGlrGJbJeLhAcncJ1kJCd4Yo1wjiMVymjDPMSYK+mFJXldSEgLFMNpdkYx86wyN4u2wn666hb/ul
+3sfgWbOWW1FgvKard3GmprzD0llSjhlytUfCpR1gRFv2gaHxiRqQ6DsaCJi7pBuVdC9IgZXuiGfjmqdd
+RjYxWZXJI77h/rHuB5aYxRP8hHU2GbxYkoS6gPTBlAEtLY0NdJL6GKxRIfmuLN4IeG2zHIxNyjA2PptF
+u7hmJDDsAGOAfckOIWl4fonIvOq7XJ5ttuZKhcYGV14x6DewO23TZKxFpAIQLinSZk+027B4I3GdAI1a
+4sYYKcv5pSZxCtpmdpi/WWpNmWwQ1DSTzjzmSDBgjQH+wmMDfgRIiYXE5xylJB0IzXe1p0HPuhYGvbKo
+QCB1SSSezw8ZwcfQTabylbSyU2EBNIB6icDXXlXSDMLUvn+nnburJK3775bVGEmbMikHbOSCysEj2tvG
+8iFMyaB9A9IocascG+dmg3oZx0dq2JYy6ywp6UTmLqkthkPBX3vsFrtK+NcmyDDPQJJdiOpdzfwBbrCs
+tSHVwTLp3iRv+sQKAafbCfWgs8Pug01t8npJISr4wsoeyhBfSjiQScDX5IcdzG4rST2iAgsyMmTTFLTk
+kkgsuPZ26jQxTOkJSfMSvx/bOjssJpMM6rXk/qBm7PxAUpx0r2VfyJcqyXNf2S/4CRN+32lr22GFh9TA
+YUL1APchSiUKdC3vZS05ZoMVWtWUNqAWOd2dsyH3DgPOpTCHUMinYktyT0AFzCICm9VsYotp28Sagi2S
+iBBXdlhhxeK0oc0KIoFVmVpTYoEUhklawSkx/Nr7mNQfQgozC8hjaG1c6fFhuaSeHixrS1LMBPF67Y65
+KmGg/jarA2xOkS3wBG4IfT4v0kbXmOeCld/B7MBSVGbJEVX72HI4M4ZAtButCBKSAilq1qUukRkHSLuG
+gYmSewXCpwAKavmWFiYL4LUOiMwD7YADtkMyYHN3UOpCSWKJHZab9NFKfxpLLeqcIxnYNo3D0L71pSgz
+sxU+syK9nErCox86bAVJoPzY7MAKMp2ZGYYqKMQ2PNuXPKtAWpe2sg5vd85mTzhrSUqM9MeagZkrfsos
+kH7MdluFZUjVLk9y4/9l5/651dpMS3GSSCI7u3NUpoHex6hpUkEimQcFRs4OaKn4peM2m35n0+kMazLg
+cZb3xdx3gxmK0T4qNwYmQ1fRaBZhBZW1z6+klbIVcpArvhfUIJ8rUoUUVAIFj3Gy7LfEexupbYWpYATa
+5lanrPYaKpPUQJ54q9NrcUjMDMVUU5ZEldpXFlZgzUQ3UiZTwKFnvE8JeeftEmyzqGSXR43sGF0iF38V
+QZQnjk3nMHuU61vRzNyAtOoMSvkihrtuHdQOy35vEy25lqVhvrHZeiy5hEkrVwQEKyhj36Xohva2OhLK
+m1gwVKDWNUkBO1H0E8ZFY4C9VsCzMinWDBIYHZpKJPKFdfLwH984LGjOucdGi6cEW8H61N05UXUgaFYW
+GmDMP1MRuA9SubSiuaL78P6KzQeOtU0M2qrFreZhkRzWBWJ4tgIPi0oeVDUuubMtZR6rzTIzOyz4slll
+RorAQY+zaJqR1BAMQipgrGupsqY1NHosqZEu641XE8FuDCSOJVnNBm3bNE4WAmOKnLN+PRkPAoRzhzIN
+JIcVwhwyxKp5C7C0AlmCKZlWLeKCyWqmNS9JPpJx7K7lIUGTiGvH+sI8G9Tv2BycWIquMU6ftYr0Lgny
+hzAWbb+WZLnDQj9ffGZBCFlO6JDKNn5jUyKY0kE6Y0B0rodCPCAslM6oCPBdGyBn/1oamfb+mrI8MvVR
+VSrEQQtXzN4yVJxxKtF+ohtuoy9lWZjWqC0zQ8BT3G0VitpYZvkt7X0Z1CoAGt9YIWkTWY0Up8LEAKlC
+313LorTpjIzPB1IUH24iwkN2xObHSpGxoFayibBSIgv0Z4vUUPGxG6sULeXnWZWi7FdZsMdnaq2ILsnO
+IUxhQSIvTWSrmB3KbEQLGRP5viS8FjAZgTmE2y2eB/rle39wpDDPHgsnoSIprViyHiS2G4QBQW/TE41k
+0mlvF3mHGqdIbc9UXAAe3lcAadOrZS5tdpV2WyjNPLKoyCImLB8kpYuorkPmXLJc1oaO1naWku6T6toU
+F9aM6E10taxDJhDo0IkKYlRIeaZ1LZ9L5pnDFcNQc44UvbEpywZ6ZTeIvKXlc7CRY3OzjMTyYx+s1Cv6
+AslYJANDo8NUyhsy6wIWiqwSCya5PowRgHRj+iwtfaxZLMDZziI5acWWJupJBn1BZhETM2qs7s7ycwq4
+PNaOTaNgDRnaY+WYTkQyLdlRcrIEXEKUsmrxuhZnhzXuQOvgSZb0Nxgg3+4oI2/3wT6SWthFtujpYuV7
+AAlBDutabL6esWPRdkG2EsyiF9ci4002/UDKi7U4xu5YwdbMsgmnzqCWtLyODluvDfQOIgQMpQSTyh8Q
+nj5VuFPwea1CjddbOCxq6nADWRwdf70bK6iETl7XwMrbrLwWljZY4t2JfwFVMXmP9OkzNYSlgPiGbVaU
+/A2wDPbnAIiRX6YUMsZlCUIViGp1uv9uhYdUCYOIdUSd2mQVr0tJYi8TkbCYzjbI39gXHVfWO383VxMo
+Eo/pLgOcEdOWOwuKgsWwMDdHBglIoxgiA2tKHe4o2pS0PoFH2dlfmZIIyCGZJpLwRjVh0zRsGoizW3Jd
+HKIZsm+tSnKT0ocubcWKL3URQ8cvWqMpsQlhHgkIr223UqBgs23axG7ZyoqcYvczLTsv+VO5HowMb01g
+gwRarD3SvOT84Dsscuonu+WyAY95T+QL6gFlpD5ergez5DrbNFkASN4Y0MNrMZyC3DKCTVWOSK0KDdS4
+1i6ZU/mihQAe9gTqjMVpoNlci9ml5IHYMrS+/ES0fZiKSPqr1FB3RFSahNAPfxal+CRlAbiSZb1Ye9MK
+FGewHHG4JNKURTSkMIUByMd4ZelYMlPy3W1Ct+mVmgUOy/hzN6MKt5NICURF/YcX2aTFrkKNm+l8YSHq
+HuvssCmvLKdJ9mDiEnR5L9gD/UlNt6C2h5oJEjJyeIJFyyallUyj1NgqCcwZpnYykpVseIUKlon1hGhl
+KclrosUOoWOTCDe02UQsMSNyPbR6Er/aa01nW+nA7E3jfgxCCqfqOC8lNDcILmhpKVgalNJ1vIaDeZpr
+lR+6v2JdjNiTbPKgVuU9KL6Yxf7vKUQtkuq09Y9pIAwkh2ZGLlIQCQZTwJXy8AIdtJuu+UOMFFPFxHZa
+J5dd1patjlQClLpvPMZKIRwqYlBhq+iewvj2SXU7SW9d12KrHOT/sq8SOANyr43YaqwAxzoC3CTeqYA2
+Gvi4ra2nNQ+OjTfYjD3Dy1XwAOtA4X9iVu/Xf2MaKAhF0kRB47HbnWvfY31IHrPL6UkSzJdYILhHSmk4
+vLXG8cO/snJbWd5MgGlttS7JRu9RjsBg3tsQrpcrReKNzi7r4SnCtiMqI8NE8ScpzaHaNj+2NQ5kKiAb
+Wi6fS5mVwOb6mT1rjqWNQFWe49i8wTX3D0vUSiZ9ESzdYktgmI/lJh1nm7Vz+GxFiZ6zlTEAEGsscSc6
+QEQz2xtKLyBe37B2HCxz1smPmIQGHJzEO2y1ks9TA2Ri/m7NKxhUFcGm4r2jtsZ6fip5ohuldmZQa6ed
++40Cy8idAlKLYMO2VMoskkVBbta7tfHTUDgOkJg79ol2eEmPTQU32+Qwttbyhz+w4thOGJUaQsjaapIM
+l+thajdYRnDPfr0Ndl9ZVTbY0hHfWQaqptJ1q6ixDTbrsWXntr3b/un8J3EicIXYRTQqEoxeEtfphWN1
+xZrzjdT7Wy9iBrJMUjmNX9xA2PBpIsN9l5fQdDq5HqlDyxtuQC9fWh+ntkCXV+KI7GHuZlgS9ONEoZT7
+FVhRrLmUfOQq65dKoPMHQ1rVrPkZDpA8hVHDEjcM3/EKEJBwzoFF3J3zmLIdVe0bEsyBFGAzZA2Mf46C
+1SnBzSpwaby3doqksMmCChiCcn5A1L/4DqFet1nvK2vz6jRW1ockR9pglSAgJhpcm5ioGSPOv2JNBJFU
+Xyn6ZG0M2k12WqxIkxXL0yJ76tiCK5KPiV4+k5IHznZq2KhIbSjuxZAXx1ANglL66aTsTyQ5eb1NjMw5
+tpRN96CVptTyX/mlzhaZH8thcIbbsFEbHTdOpX4N6xrkeujHRL9ScNOwmB2NbBoG6e+GprFZwQ7YkC4K
+wYrdTss6KXqZRFJk4Ctrse+xfuHdFmvsoaOApXmkdMXf/JiktVaQYYd1a+2xaNTmwndWCRVY60LR5fmZ
+WKuOrWNitoUATGHN6nfnK+va2WWtcmt+GNdSOTYdlGKhGB0oYvW02UI0X1g8KLmgAJm/V4dQLCdkS3IY
+3rJEcCLFgoxIvkKN+lbqdsf96BP0CYKsAXzSFcjv0Lmy8owXRmHjWlp6oSid9VIFeb2tumH6dY0Fw0X3
+BwFT1NFSKta2dtI7qQcdW63HkVrZEKaxwwRmKaXQuTbaTvG9Qh9JnrexCbAOvRE6KPZar8puLUnbA6KE
+tdRDMmV6YKGWEvqXgGRdqZlAde6wShS1p9mZ9lMq2jJBG8Ug9pNBK/J4CxE2QDmSYpzbmisnSZVvBifa
+qhMtUnYoqNlaNLFrDQcyOnsXXBf22uME+jvxooDlnJNa0doWFPIANdraVSalo0n3ihXplC1dfyUlTkKp
+H2CSbQHdKUqUjXg9aF4J9s315AWGel4kOKtoF4T1V9GG/hCVlHdajbfDuo5tzRvTapUNhrAG03gjHFGC
+FV30yX1qDc2iX0w0L8FxeBlbXkp35uVagtAr2nLysNVYSgg8FUi+dgny2+12PsfL82JkQ/pZZFy1BUCU
+I3WtWX8NS8AK9hQC4v9yCmK2xLzZzKH1TDXvsFaCw+AWwfqxVCVZK3LECgqJaKdE6gEHUeoVY7pa0Nnn
+4qzYxMMu+ntgQULpbbfuYaL+SB5giNGA5VupEA/wLDXsPF6zApFhazo4UmhEe59Zv/cnUhDKkRufarw4
+CH/VxNsEaSoFMyRqiBCDlehzPUZGUOJVP6DB7ZKV3cqqddjs2NZe+hjKmGdn2AAHmiZl7TXP1iMwLA7s
+gFisS49lNrnF1I1YCSV2jqVIKQCAR6G5vMhNZSHLrK0vxfRZmaaYWg+UY4te9OxmuTdTo7YXONWHzfS+
+tsceHK64FCIe8tgzRUecAa5OBVw4n1t72ubzt2gaE2FS0OJbgyzYwfpo/j4SEbV9xXf/2CH/I+HF9Et5
+gKaOLTTmiLYFYgGxyAoCmzrdUl+Y50Cs2mH2WFDKewyIIxN5bzEV5/SA3LlUsrWYoAPExmdsFCxZqeKt
+1+q8GPKYppdONIq40VzyB6tw2NJnbbwlhv4CFZJZbGY9ltIhGmvNQ2tuaBWnUWunFA62jEetbaUNT1Op
+jmKfdflsySPD8qv4sZ5Z8LpDYbdD0Lax1aec7akYmms1jPZaqwDsK/Rd1axaUYo8VqXbq0qkz23CVFup
+tiBYvpIKLaB0hmDJDZQQSLb0wbufsSBQEA5qhyyxw57H/TWFVDcVa6/QtUJdJScTDiS+4Vgg4mjASdXw
+9RuF+GBNRWwdtIiGZDla1iehtUGrcA0mQFUQhtryVrZqmNnOGg+x1P/hATj5HqLZ0iAvz3RYfj6G3o53
+WzdTH0+vYX2KLs/nrXlMaBKy3I3Dq1NsaSLWwwHfh/KfxMYk5hw5vokd1gimBMXrwkhuKBOqgwypVUCB
+YhDwdgsdd9iyEIQHQL8Wj+fa/9PpeuefO8RIc7ojcY44tF3BR3K1m+dY9EuzxfxbvRjHGhcQhnhgUA4H
+XWOrn/HaSpZO4Y2QFICYP5duzUcq0s1xbKm4H8Rrt8EWEiyz2Foh2jdoVZ2dmMdabfvBY44XwTSJrXM8
+74iCHhzM57CfBTGIS1LxPdrKdcNa5x1xnFl3kfn+++9+6Bz0BQJERVML7fLwnNRITVJNDyeJnVVX9sYq
+FUHqGFvAzhoqXWCnXkClbdYLbs3cvLUGkx3WGhSCzDl/9wOAj4pJYcUWeOdYit0q+FJbNy9XAmywxRAd
+W3fQSJ2YqBiyJpoKdtiTbNayC5TcVYAFkdsAglqbdfG02SKLXe2B39PSknfEvQjGIxVD/NLRv2vNJy51
+vpwBX4mtVmW1ygCkR89enAaCnmNxxrmWGwkKWK8vDSgIy2T6qN9WT9zYbYlow1rhNPGzAgFLkXfWasby
+fS6VS5z/4j2rXm2tGhSL97Mz8aV72+WKVyPV+7vaCeqIbWw9RwJ4SOGyXyHV0IwoYBvFjsuzzj9Lg8Pe
+5LWOnFYSmby959ET50OVxdKSmqWvrb4QdO0ze9KrHGGFT3RcEB6N/X5Qsq2HmF8r9yjF/9aOvqu8BBLs
+JJ602LHy06GPEyYd0AXveKRTFEwSW0wkZ+OOw1OPCu8u9WORtNBxfvJfFvkDC0ehH9l6jc5aecA1PWFL
+EtI1Sm9orpUXqW0QZ0DAw21KFFtVbW3QG/fYqAEsI+8YdOgT7845Vp/5oTgDuuwxhq1s87eerv/dDpFI
+FxBPpC1YNyzIGgPeihKWO1aUeafbWY+/6Q6Va2vjBCtha8Fs3RarApAcpTDm7lp3EauLcbZyCthmKwZu
+BClRb7D6Mr6jygSr7Qi4ciFLqdEZVxJ9a523UhWfYmbtLNJqPEydtbh3WAvTFq8yPdZslZWg1w/YsxDY
+knqORFZgKmIV5Ktma875i2NvjklATjzqYsl2bKqtt2ikyD5GxjtE6MbwSDeEFYIS0Hl3jorInkkxzmO7
+KsCeCe352JqYEXcDz2ATOYLbZgS+2kp0htznx2Rd+glpdoN+PmHF4SjcvOa5dF2iC1sk1GE5fh6dWpjW
+KrfobahSmqF765MFm/01DWpYxj85OSJcHnDS7Qq0RqcT6FEsYbr6HLntdP2f1kMdWkTs2BpqVDYcjq2z
+Z3i5MneFZ95qrRCo02VJimBLDiHZcgNLtoERSC4wMcC0vBI678i5mlxgIiU68Xut3fJvoSTIB4qBG/6p
+vfNCLhsB9LPwYHN1n7Oluq9PbjPJy61IjrIVVPMwVIhYLD23dYtPrpP0SdUkBWPztk9HVKTTbWu3bqSt
+w5vpbGFAW2CKTjIGIPE6TEcZW7PUkwKCsa3N3+JQCUdSZZWIumjphfoxpMfXoduDS051Zc8PBy2sGCyL
+F5ZnXeDiQtzD+z6tL8exJ8TdoqSAIFLa9to34j9TskXONq/ix+Lu3ae9Tlv91vncxijtIV1vdChJYj8i
+luIRYiwKFvzO0ondObn2hIWg7GEw0a+SmYiQFfQrwlhuPXCwWBUif96L5bCmGXgyTQzkkinW0G1RiggC
+v0D2RGKk2UJpRogvpMMM7F8hbOLBii8g0fPFqb2bh7MwXsUzt8EWz6Q/sopubJyHQ2KgUqA1wSNXnjsb
+dy3MgMWsfi8m10ZDDVsFKxm6uWZrT5p2q0Z3xBEGrBxb75FXMHBiiZiDIiCwD1o0Xet3jB2DjBOAFVhT
+j5dVQaPtlv/lLE/n5IoH5TDJI6oZIimHd8XwEo3QHgbHFSvB0oJcwRBriWUjFANFWpjWI8GPmJiWG3a/
+sEcGfmjLAUeyGH9nSdb15gt7rCpFJlUoxwm0A0Q7QmYRtNlyvTUiK7keVzSercv5HWE/KwFKDVXwoESG
+5K3v35FKYRvk3qZcT8oa+rkep5cOZTotBkQFQPtCW0F/Yv8IfVnwGMIGk7anco5jjyPoMgFZbcjt/PLz
+HZENOBQ+Z1yEmDnOf9mwDVtTkIfIEk8UUf0OWgjdaWFa4q0JapEhYQUGFX0ezOohHhbPl6We9aJFocGl
+vq+3nSFcsG+jxJYKk1ph1i7eXBJfTHWHDSHJr9WhtmVfJVihzANYnjsy6JCyzpVeRLfxpMKxIVyMHTA0
+FcpSzJDxWZwAZIONhesuWD8fDSlozO5uh26VLkuuLVJulGdZclQrzLhWfDQvGD0KqdihPvPWh8gzLFo2
+oN9iFNsCsY6tVYhpyz1jkZWRtuhfnnJQSEwitHZYb72xlYA5aMyGRAqOJsrCjlpxz70jCZNOfMzInv9h
+YVmUkbQL+CclDBl6IjDNHlt9U7DwADiYVz18asG6LQG+UTlyhsPHsRRfSP0/R24A0TFvfWfZbHatfq+L
+OxiJ33yDLWJsUYWIGsy1zTLgHql7KUsrsCLmVlkr6Rtb/3qjxFlI2KkfeRvpc7fnt9avJoGDcri+FuPJ
+2pUErrVtNhAlkXPDWr/FGqKC17WQm7AriqFXURimLFoa7LABjuLsZ0KRUGsUC5Cg1waLiuYb8aEby31l
+tkRem41rNl+6PCrjZQ000iwHOPR84YGd1uug6dQjYjFlnqvxnraAJ3eBdTPhz24/kZgVBlgNUE7Y0FJR
+KGvFDY0luhZrpOV9mo7Qg9b0snrzG+Xw0jGAoX6WvLehUBuJqDGxbyyBymVhvH+EK7DRRttBwcrCFITx
+KnKHHNSn1IF37BmfQz4TNWGIjW0NZcfSmRE0EddskXTj2EOiPTZ+CUKGW2djyL2i3HrIg3VyhxzD+yGj
+9ABUqKDpMbMucV5nxMViiV9YPvZgWmKCgkBu2HOULd7p2IrfeXZNDfaZElzBI+E0+QQLCCoQ67pQ4/Ga
+tXp4Gub5Uji6IGFMNTF9AmX1mJFal4khj5VIHvS+hrEupub3utJO99e9fKbXHpPZsphGzmhBjrICeUoL
+vM+etG/kdZA8h02lXqSwUxBY8NRu5co339i6rJ+oGCLPa5c7l6yME0xJ7ypjvRhwwTLzQIf9NWye+poZ
+cJ6WA811LdsSVv5VcoSd2nu1aht5T3RAYwt/5XrWqmDKbYuOAlynNxzUw4WVCvbYvLWAbRECDquiOt+1
+2Pgj3gfNSW8UZqT2oneUltrfef+05o67SmjiE9ZapiSSoIW1upLfWaJlHB19HkWJTeWC8I5yzA8jq9i3
+MyBpkLE4ScwcR16yhZUVXcoBVOi45tpH8deGkS5d1E4E1qxL65s2GyVWtp49lsPEW2h9yh2MmgcIvI6N
+/t1EbBlqbdpLcophfBtcVrQqYXtaBLiKbHnOLnG+Q17H3P9ohz0yECvHD20N0LXgcVGfAN6wbgcA9m11
+fOcHXqLFEzaHHcmNOirg0VnI8F/KwfYk5bWPLGbLg/BesF5F4n95DNjmdCmnHNvrFqCsnS++3OvYcvob
+ZU8UhF/s2Jr5dNMnVsOKKbmuxSr7fNlyh4yQp2A+j2dyZM5cT1QAfmL5Yp5oRzmqh6Ivih1rtIvBWjDE
+pJq7H4olT9kM0lcsIp/ov/I2Lx3/D33v7ziEU1hthiBI+C/ltGNslB5GSqDxFxuMavMl1tS1U/Dl7kpR
+sN05LIbMKBG7+itJt9hoK0A7toC2Y+NRBuUeWFAn/SbKqVqfVWQFfJvdwE4bemSLqTu2KrKNr9CDVauL
+5YImR8qeY9LKkXiKDb4otzXHQqc9+9bh/hqDk8QxQXlF8vnOHgtxlKpawzDIV/TsiFedPvsWuWiNOlB8
+6f877ejYskOJz9BREunwhz/YaFXhTEjSrt4dX326Z+9XNoDFVltvl6DzaN/22qfehtw+SQA1GwftMSfG
+YoQoiw64zJbldyxANc7XdOjK2WFZSTly7JFscaHG8to8ULMHHdaw9dptIX57PVc4EAXEKHgDT/mUZdiC
+Pb7/1B7Di8e4FPHAHgO1bOTYOLIu67NQnSwL3dVuy6Abia9SiUUONgUg1o6tAS783V5WjtjsVRtd+wn1
+UTc9ZFxn5kUDCfxNSchf9z//1bmhmNra5Ka9R9zhdL1Bo35q10X4oesdewBkHBsSsl37fRJZBSX46ppn
+w/YlI1unEKj9kNElpf0AJgqEI/62jjdFU0v1aWY/4P2JvQSmwtRgN6q+ul6S2yhhcjBIWi5Uidwk5RVU
+qYQIswuSvzRQ9i4HJrWbf2fEK559vrrP+AnXV8Z+p2wOVWTT8Vmlnem+Nu5Cha8W8FykmPvtMUuYsboV
+DKLASx+p2WxKfGRvkoI93Cc2kWDicrSWby5ZRV7EcuolxojKpRtMJecVfrydkTh/wIarcpzRqwVexRyJ
+7oiMTW2KbJKQvcJJsk5iFqDntU5+hAHxlqSK5LhHNmPcaOsMkmu1mPeCpYppfepXs1EiYTq8MsrzS5Fc
+SeHJPqAzcQ34SllnHFaC2VOllA782BYAMGu1BfiXr8XM54VETOSC8Hs1laS8SCnkvUzMOucNSBS9fVFR
+9IqSbCuet/E7JRFyENKS4W6wYAyGxuj9V49DCZtKJF8WA7RJ+fbKA8Nbf1xWL3BdtoTtg6nHcnGX3J/L
+qERe6hO/uk5bJ/bXKhOYytq+M0t/CjgPdBMqu+RSlAFj4e1CPu+2qjBznBLn1UIoV4RFciFYhdeEYVmV
+VASQeH/GWsht2RV7bTNtMZ7W8zCdfxPkMy4LPKmAo9bSkHhpppwA8qSLThe5ozjmHaL2loDfb7LR+2za
+jXjksR90olJKcqsSOdn3GIJTW0tENGtTDtYS6cz+Nol22LqWdgOcUGTujbbJCwnvx2LaPSuuJyLfbMqI
+WcvW8Yhf+aAE7sp8fcnbov+JjkdGkZGemVnFUHQbR6YCGvdEnzboSMdruVxAj0YS6GjLgzoCXt9MrL+W
+uyPCjup0LZfOSDIBgUZYk3QlVTASXSk5ejzXHbC3ccOYV/sZOyYRFIwvtMf04vXEiwesbHO61s6SaYAz
+NoPHDwxES6KSiMK1pByvILcHsR79oFgaa/smnjY68sxadtJna/tsvTvMm7T5bXLrNd8PecsYiQo4kIEz
+vycWWIUd1ORgnRk0crtrTLZQVAZFLvcAs1m0uG8lKlRuppEY+4RpRv8/W2/aJNd5XgnKu1Hd6H1fr1Pt
+ZmFcqALk6Qk3qlAOECRFyNxCgKye8fQoblXeqrpEVmZ13kwASUkRAEhwEynKtkjJMm2KIkhCEAGCAAEC
+IAl+gP2d/GQw5os7goSoiZnfMPOcc57nvW+yRwuqKpd73/uuz3LOedA2iFUgTqdk7CrKRPK4IFuuZAUp
+0p+c3dn0bSuiEr1D0VChzEYsmGJdpVA6y1sojWIvMM5I/ilG1+YpDHz7vm07rBwIfx9mEau0DlnichPj
+D6gponOw+jEPiMW3uRnsRgQB7MojZBExH/lc9syen5sQvmVDqNoGVXeveCCIbc4irqEcCrwK1UbAfB5j
+6neJcpiU9XAV1WMVquJ8I6oMzBkgI5091TjQvLsxaIiaAGAH7QfIFW5YubWFc2DDSZ2qDbO8ZJvSmGEy
+EQY6he/SPW2iZl04CdFj8BPC1NfsQxWJp+vS5QccGzHm1ZGQYnbf9XrnSt1fcMJZrENNN/KLZIx4u229
+4LCxCXDM+h4BIuLdUHS0i4fEclCRt9VVds39vk4AGOACY42T/roH+JYdjd/dUwTxdMRy7EDwYwEdjP1D
+VQGGiKyT/4lKWuujDXGfbZ4zjEggKvdR8GoRthBRd3XCcvGQt8dCtU+yMOla5fsq5ydjFRsofICeRORY
+63/Qw0CLHdbFvLUVO1JAplMIIY2ixRMmbZwq1KgiT1Q16U0AAMF6Va7R9jkg8rbAlTMvdYStg/Ojy8ro
+RHRpn/4PgjfNOwppdXnJDM6lETgw3I9E9apQ0JmhNrYWFG9H3bJ4oT37vdZ5sMycS904QbtBMBNRSkEm
+MI6bA+znwRtHQMBO0UrJsc4yrDG4QqK+1uXXxZspCqcq3uf7hjSGVkc8rFm1Q/savB7YzR7om3GOb0P7
+3CxEcqVQ2q8vupMqE1jXMQbfc3Q8cJY0uBued2IEcr/4auz/4sl0nbbdIK+D/WCltn0P+RVUBavWhbWq
+gV4ilBtQBaZ//ZyZMKFj8+4hGWo9AkbsfixtX2p12dzqqj7KwrLzvBvSS2aKwiFrjVevmwTzzRHkXdXq
+wvoXChXgUOzztsrMA7X9y+6GZ9S8sflmxoEQeAzXL9MFtpFhyXb+DzumWTwYdOs0R7kt3CfqRqE6Up3l
+TqH6S8Ws1h1qNuJ+HpWd4fk9XEW40jqrLnV+YBBq7pOLzrODyY26f7QasK6BCgFKw9w+bOVONlbtkD3F
+F0VVaqhSwJiU7b96nnEPmawlZ4445gAgKp7D9JPs51Kv5rwmrcmGjnW7SbxD4Gq1WlJkb1nzD/FFwUKF
+cqh2IICLc8+B0sWmSh+OVuFh2r0dR7aH68/OY0cKdHr1I5xhHkYsdrjb6GSrrurmzMxwsdnCYfXjTZRz
+73NeuIpA47B5hhOwJ+GcBNvHI4oTnMU47x8ed8l4dAr2PNLQuE7hC1gcd1TcI0i+A7epNDdJhd5Y2m1E
+egbPT9RAKnlOzRcKi3ZrglUKUR9Wq50y/3Z2CjFXHRhFEiG2P4fuuZMg9iOBUpXcRe4ztiCdlQzFKRqG
+Mn96kz3FHcwB3iEw0B182tqrwmGfJRYNnDJyNwqdq2uTe8yHwZnPILCNULB4HAXdOH22T1QDAf5HOD++
+DkJzuRnEruE3XB1D+8DqxPUDEKjgyl7rVcdgV+53O7lXHh1yPqm9y6o7yQpXHO8io8xiPZnTimm87HIW
+5qZvAgrTd6GIgnW8cAKIn9gseFBgwQ1gyVlg3xmOxutOTNrb6XAe2h9HsTsTl8GNtsuKYLZ+lPXsFL6P
+drG7NqL9cV/8j6gWXW8tgi1/lz1bx710+A6oUy08W6fA3MIMErIFtEizwFX1kfsehguhW9d5aEhFH9SN
+wxpntrmmiAtx2OFhq8P2WYSUsL+BrkobmLkHVmxkiFIsFK6DLTh6ezuC79ztIBm3ExtVz+wU1dDZ4V2P
+cU42t4D+hmgJonhw2MBP8fNlidX8cMAI2Nu4iMg86p4hxlIovrQ3xFO0fXSW5x2ArH0PKiC1mHDj3jqO
+qHlPQ3n7u05hL5w829wt/iOqHGEeNg/6Pt9xkLyWG+taDhEXdcWTpnQ7iBxJa+BdbjfRQbUHmC9Edp8Q
+0dBbc5hSYSbZRm1ei2t0FGQMrdTw9OHHTZgtxfoYaj9ENgxBU+1iYCny+QvHHjcOFC6cR1bt/L3f+0//
+eefuDpgT8CXdeR8WodXByo17dnkGYQQfCXPZBUGanc5BYgjA+tGxPgXduPa8t2mDoDjYLsy3dHx/m/fz
+outU5WYdjEbzR2dm9hGggBpI2McYPFqCCMDqoJvwmp1lRJdwLrnADIDbI2w0D9vkRhCNoGx7Dgexz0Oc
+hFxO28exjzpbsRFZcmabyDuYF1Lb8Wj84mggZMbSAnHUy4PDPcQDSie/IR5HVvcup5q6AkLzVZ+3rn3R
+LWaP2ka3UcwXej7YIdjHaE/ViWw9dImVwudT4QSLjgtWFK6vgiAN7cNFlyRYdHJWoCG0r5W9OZ9/gaCf
+F3WiY94FKTfLHt4DSmDVdneg3qBNMdqw+WgP0qVD01T/Eaa33c58OsLyWLzW7s/VxvZLGMXBpIGmKdis
+sjtw6ksHcQyzc3pLng53LuHSkidRvgHJmK3mWy4d0rh4REzLwpmdBctu92HfK8+5tKL4ZM/pUIVvuIWz
+5p2/3CwpllqEzoIrsYAWaHu8QFmwq+Tf9yY7XIxiVB4jtQI0ELzv7Z5xzYkGu/z45tlGtZkPDQp3VDW/
+ts+Y2YT6qhPbNa0L64ZetdnRazbJJ0BoDoa97h1AN/W6YGr4cO0NeRz3tze3ji0C9L2zcF62i/40/jzd
+I6XsdTs3NrdYBVnxAaR5SKoSfTy2yV28D+e30NFLTqjcH/EdBFDW6mMzvlD8eCuWfMN3mYyG+THA5iUH
+UxRuWLl5U5Bibvs20z+QNnA1mOAiMhOGeSTdn/VguwvWYd9xGaXCet5sgmXZQcjjqv4eFg3tI5FLFZdA
+UzUtG9+35lW18wBrk1r/T+AUxPt2747rJe1glqRuClf1aNhPNk4uPYB5Yz5KH06vbfY2I4UN2oudDjbi
+wyUyvsgCQR+lcQ2VzvJ6uakbirZcIFuC9ebzqUBSnehX7EKMK23t2b11rJj3DzhbpXGs8Zd65SMT7Kx9
+xNmsg9i/5L9wG+jQ2rHzXECtpQV3N/39PV9a8ECfa4cV7rcWymx3Che88XS07RQOI3MRmZlZlYLbMati
+cDs2zLgZNYfr2u3G4WDz5k/6f/Xo6OZ7w8M3X6+gAAdlN4ZIb/60T5SYmZUexPfa3aiZzkh400dkGROc
+dlg98HEceLQ/1kW5Plip4SB5GL/xADeq6MGwKrEP4fxEyGZ886d2fdrb+P6ECqnqhsHWzetwy22tNwPo
+hsq+wLnLfQJx0x7CDqyR2Ec8CsHoEaLe9C8Q2YAWrcfL0JBRba3zhEJDe+vmJfoZ5pmaMcWIfFNu3vwp
+DN8jjJbYxgD1oS7lSrfoqJGwWg6dhDnYAmENzBDc156HSQuEQX2Be7Kh4fegpXvz0rBrrskjyKIMHikj
+MSIALquI2sBK4QftK3t24gD8pJSJtmMbJ4/7srImPud/l540aLz/SmrH1kcGJf6wNlLT2J4Lf1AXVXkI
++PHQnIlkhdmFRJ4A1zFAmL1EJ/brEnFJ3M9THLZXr1JRt7RW91gBu+b7a4iy4HVG4GHXhL/BUFEjggHH
+HdmbZqVkeKsKRS75YeXQ4zEDRWnwNzxLzT8YeA/fvHQECQPF30aD0c2frsLAsPcfhlAya8pb+5WOKuG6
+juE+IQGCBoidCvKC9d7Nc0gSHGH/SMfOv4d5xMwO4q4DzGeKc6A6ckXqKfYE/GLz8+Ylc2AGiPSw30gv
+QlF4rDL4V1LntR2J/cTxsH4abKn/mUeocX/auwOQKY/YdVANEtcDWKVeqYceFyxp13BdESBblpqm9qmb
+5xCI7N68BBql62Ng3TGjAk3qm+cGSH2vQvPGVi72XbN7YC+bg4D+WUEkBspOgJ2TvG/nYanxh9+FfmQx
+8+F6KXr2gMYZZhfjnUAfajw8k3POnIMj1BmmDNgjkJGGZNSI8W6y/5RoAjrl5jmoA1Mpu+LyXR/b54/g
+a9YuW6ZQPA5138aeyc6GR5ifuflWifwI4M6egFK8reJJwMqonl9sRJm0dWmLF3BpPQcgR9J/FuW38lyX
+zQP1T+nquxc+vPzRCSjZ4udHJz96JukA20/87WrC7334vD6XlHuhxws1XeoMf3TKP3eN14S2sK5zVfeB
+8i0/79ez/+v9C1Qafsuug9ZctU/wb3yWir03qMd7zVrymKsQvy9NY6oC37D26Oc13Omj42iz/YX7S//4
+Pb3/0XfZ9if9/lehDuyqyW+7BrBUey+4zu8Ftv0t3pO6w/YNKAI/B0Vf/MWnPgnFZbs2Wo7ne5fXwPcv
+83v2XN4+a48+Qw1ltJ/tQPvwChWQcZ/vfPQ4++k7GA22AvrBb1u7pZx8mVd7m8+pfrpovz/p/fUex+eq
+PdsFV2x+lCrIF+xbVCu2327wiS/4uHznw3eoz/xd6hVfwjhR9fiS9981b/VJqku/b5/R92/4817wn5g9
+x9mjV+1anBd87RnMG84jKUVTs9nae5U6sI9JD/bWWaizfnyKurBSjP0pX79ARdTHqH77hp32T0vd9tZP
+pK4LCwBarlSLvfzxCdd8bVVo8c2n7d0n7ZW3ocFq70tLV5qzr/PbT0Jn9tYr9u7P7Irnqbir/5+jeiyu
+8hg1ep+EVuutK7eu33rH2szrugLwo3wH98dV36QC8GP2qTPe/kdvvU11WWgFn4LGrivRvg5dXbTL3nsN
+Gr1oqf18h8qy0Iulmq7aj1Zbi6Xi+5a1/JQ/7wko2H58ktq8p3i9i67K+1Mo5NrPN12x9mn2KNRwpXH8
+UyjJ4rtU28U330B/2GdfoUbxU64g/Drvfc566Br74Yr99bbf45J95zH1J3R8+e03qb37unRv7W4/DR1e
+qvNekWYyx/SE7u9avWft/RO3rvC66L3z7FuMyxlv3+t6n+rE0DGmTi/1d9Hnp2QV2mi94v37JjWbX/cx
+fRzPQ/3msxyZU9QfPo/fNC5f8P/8kv/3l/2/v+r//cIv/fKv/Oqv/fpv/Mav/9qv/sov/9IXfnPbzN/5
+u9v/3t//+39v+9/9OzPbfvMf/MN/9I//yT/9Z//8n/+zf/pP/vE/+of/4F/8y3/1r//Nv/13//7f/7t/
++2/+9b/6l//i/7X/xD3w+y/Zz1/2//+S//9X+F786b/9pv/3C2zUr1hTfu0Lv/6F34i4lqKsYKBEhlzl
+ExQr3twEA2hih0/dQ5SF4kow3O86dNfCMWowEVJmjgJomuB7otJBNdpo2dnVUDEvCkut8Bg3T87degSv
+AZIddsJhNj+DMedlSnPAiO8Uztax83qstAyTloDoDTyspbBF3ZvIn5Nmbw8xocpFKCCbD4YgNME8x1zE
+L410haEGOxqOmegH6IUZ/E5korbA1AdNCCByNcNzyK6sZh4g2EuMFCb4RHUMgA4o/CKmzUyaPJftM0Rn
+4/tIaVB46856wLzR5NsBvIz0W0NMGxzofe5YNoGkaLpwZBHLbkqqxIza5KgrDZgFQ5yVGRPELQDSb45t
+jxFZV8NaWpDWJ6QLFXu02zCpaa21EbNmIP2LV3ApQaceqbpxiy4l6/rgjdmzEFM32jCfuW9T5wFPphXz
+a9ayZnbHIux3Ps5mva7xKvswalZDos9cRimmUNS1IZsG0nxwP49UQrLB/UcwBYlHpA6QGJwonlinSDl0
+J232IDatHHXdbFKrBp+pWGXdzLV9veoYQ/flliJv3QCiNMRtIzTl6mg2kdbWEKtEckth9mUyWPG+wMX2
+y0IEGkHvYfLB0bZ7OysxyszcHYXMH3kz9hlAOW++XtbNvTaxJ0cHA+TvSnncDsRpbIFQ4GeGbAbc/i6z
+ZeF7gyJHFEN3v7kfJNNAMw4Xbu50nA8Cf2tjXHB5xkPs4VqG3hFABhVlxQpGhUB7p5u3pqr2jgWuEHPY
+Al1VmYqZgDw0ZNlgcD2/UPYkfkvZQMcBON2is+Cg/Kp7dyyrLTCgDvRHsyinwqDyuO98UrsXmzyjNKU1
+4wGbLMQOVky8Qr5aSnpVd3R0UECxoREpZiSsIJnrLnXcWSaHvF+ClqM8Z/dOIpbJih4qRT9iQhA0efgM
+CBJThxTcwnia5m44Uyt2gyUHSy5Hoty+24yJ0A0+6qII4XadL1c+E+AKMf1rbpJdnHn3TRKvmgBGzdd9
+YgkofyYM0P7Ynx28NG4CZUM5F4j/VYF3akiMwHD2BSgHYXZdQpucNZLdJVV+BfBmpmsmLgnXm4DdyTGN
+BPGikAIOUVJ6TXLZtm/Yvk7dFHyBs7xmxsquLB1OSDJgtSFES60nPCoAhVsbA0hRVpvWeVtVgIMaopoA
+o9gR8WZI8vHKSshRT2pzsIpUHEn/nH7HRtoumrFnBT26jjS+0pBNOgP8XqAP1l3OKGsz2B0roVNuG7dt
+cYpiepa6G/CqJvLnM824UcbdMxjFrmarHuLk6kUufGazhmyHeWrKkluPuboG4slgzdoEkoSZNd4DXg9T
+ra2C7LjLMGPvFcipi02fO7aLalG9VgNGAAQeUOLUSOlDPSZIK2Mc/V/xYGFBpD0lHTz82i176zhpNzYD
+4NQAk0JxZ2HD+xVzI+OhwFpYBpF9URpdeBinpBHYp8zTbEBFBE2TwSDx/B2MSq5uFIEW6e6MvOg91coQ
+qoZFJHCLyCTuIeQBm50tQOa6cfiCQQdLpodIxd6OZuYqlFxLHUD7HDBXyB6CusExpxrfi874A/wTWeNA
+2RSbBCjYUUL4DsVZ19Y02SIyuc1D7NTx4HE8b3PWxdJIsC1BUhxYtx/dGARO0QNDjXgqNZx0pSqZixQK
+EhPgCPa0rtR+a0ACPCA77wItsy5lByQIMhfWQqwzSi4mzBM+wfBTZOG6EAWmwbEztsiqjzECEL7nc8Mh
+bsAoLEt0KpLmhWvLVt0HPBxcxGm1tAZwAyyrA44ALIpBf6U3HppdN2Z2mQ9Yb0kLpKEWWXG/9R9ZNOXK
+QGaGq/s6vxCw9QpdAPNCktK2a/UhfkCUX/cI1SibrWMO/F/1jbFrRunejtkzHUfYsUSFRG2LAEd6lYvB
+MNBijaf7qu5BoPfwhGW3y4TUbMyRwkP0Fakt1EJyoxTa0fYc2N4PxvYO7SLrFhbNGlHdLVTdug7tGjZf
+QVgdjwfdAxJVtH1BW8vTqc6Js9YC8IzAkj3KSg3xEEJB1mGrHaUiNXQ4ji26kONGBfF7KDARLjoeRvat
+igRf146Jsi/dBt+akLurgQNlFQK0R0xkWxF3Oaxn4nsvCytA8MgMMwlYmolOSBoxT8JmNSJ2gZ3vKN75
+2E6X1ojGg1QGVjcEoSA/3lBYigL5NYj34AfZEVQEaoaoHAie8MSCQQ6LrxSwVF1YjPuuAWjr9DCFNjqF
+y9dFsquSPAs1pTcrKk8Fbmmygp0TqY6ycO1zjg5mJXaA/mh5aeGBwfCoHbIwmYku4jDZFue4Wngnw9lA
+UsCeBzJ74hrAEGcayUomdIvoBj9u5r1aAjZ8eTdDm1hHOHBAUGiUzWUgl1FcSsjVS7ATDOYVwXRKVVaw
+xctTyz6zrz0CiBRCeT6HAu6rhzh3bZKR5wZeplQpjlQgnKODKxdrqEfUevHMFk4wicZC9qLHLa6LShzD
+wVGqQ3F3By1LEhM23wJ/22wOepBMqRpi8G0Poy1KSxzymmRYEny+YdYy6XLUW6h8Q6M0+hZ2YaqNAo9A
+AhFZW4LwikEGBRAm9THK3FtwnX6Yl8Jr2sXujnOZAmqY+Czv12iKbtKJeEjg8rJHkXSMP/bMVVho5qhC
+dHgIk0b4CElbAS7zW3+0nxqQnWVHYRx0cFnhKgu2VVY4r+1b88UBaigh16ZOE+FhhBSsoITzwkAJFEVQ
+YuOi2L3JznBQZbPR+B+5MI6N/07BbNbcyEauEJ2wXo32k01Krx/jtbSgxOIyKVCbTnauJckpi7qR0gBN
+R2CBaapxv++PqHKI9J5gSXV19Ou1G29m/+lJpcdgZwSelmoff2ib3iNj20tnJeDQm9Amgzut9B38OuEx
+od5zxLa1Aop6RzRtvl4frrcwW2VdEFwiSbWJrI6jIIpY83HSRx7aAWSwD6XVXI6YQOMpQ3WkISidPcn7
+ONuddh2lebviXMEeq1wvcDlSogdoj+ERDkn2lGRXblJOUNpsSObCgXEPdh07bClMwdOcNjb2KYTs2TD0
+iiRyMWsxpofC7BG9ATlFbMKYPX3b99eBGPKEum0OW+CAARNJNXdKAvfE/JQyuF3w23Guo8VdiPdpKmLf
+KJ1i6aoqkHdXEryQrifkNOzT3PTLwjXAe9jHGsolMTQzWHvQJ23h0ke2lunf1arjtImDw8zcHtc54SsN
+zRKvhkI9DGras3CAzaVvBhZTVGqq9K3rXl7SCYlbJiTNH9xcF6CGWnOQ7IL9De3JSvVn+PVIkuMkH5Wb
+Wyiwwb0Xg/LlIWV510t6SSA2q/oGBEm6RQnWIEZs0KcELgYO3/o6fDRngNMWFR750Abt82FUigICCcRk
+QOUdQttIh82+tT9sv3iurotWV1iLFSX7lwLZ6Mi27TPuxq0CIaejJEAJyyWJ+vZ7UUSJB8eZAgeyRhtp
+Z0DYXXIRUlITqaBQe2dgXUfTFIemNIexM4ptDhWAIamOzdfCU3APyPb5dTLQRhV1ALBEwVDUIYlNHRd3
+rfS5AIB0lv1ehI4rrFdJ9NGWMAtacE8A2oAuML1Ks3KRB4YNu38DEmA1VDvEHLCZSoQfNNqaGosZSXs9
++0zAFBRDo4CEh+koIFOagcE4E6MQlJg4Agccuul2QagwHkY1A6xpkEOi4IBZuZA3A8i9DOjMktkRPWg8
+qIWb0NFDANc2mZkZly52Lb3RQLQcBK+cN9EsB4MoLGGHdtcsFTXe4lgg9YdhYkVb2N2lA/d6pPz6tgMl
+rKNeY4vmrqtU7beRXVmp0AW+bwRLpDmKqIjZhf2IVASVdg+19FYQ35A0un3DBeyL3TCoEBRcdkurN5GG
+LeYkdn4c2wHgLoLRRpYxmxpxl0JaVdCyqWxfQa82ERqyPWu4b10AaYV9pCC/tWGWWnBJbM6uA2UUJIy5
+NbPdGGKiwQDrI3BKSxCh4jaItcMadhIsgMVIg+FwBTKAGdGIKMJuwYYf0Z456RzZAx5kiS+dgwiam01C
+Jhcs4DjEAzxtloxGYHnkCk6gQWtBBAC3CZ+oeyjsVYjqcauMQdkrNQtAinH0w8hxyVSorTSE+iemgd3C
+o0QRo54kUO4qt0yIGHqIyDqq2ye/HQNH9awiqH4x3F8ixx7XKYu2CpnibO4dD4aSkQI6BuKGNsGLSDdA
+zYQQrRnZdaPusuyNgtLXRMnOmG2x6tYFlE/BK48g2AgidyizIGMAB1uc2QGSWlpy5YZl8bOtDYHT6QfQ
+ejlOm10UuOD27hy9OQa+wWDmIU6vxgxyyuWqehd2LSdUzjEeLZlGQaeLiMHucdnr3mQ/j087KXBBye+C
+3Y4+wvTjUYu3aH4LIkgzzJUxoMPTpOFGuD08etQskRviYtMb1f22VMabFAuG1JWt8tmIi22icEEzGJVb
+QcMsCx+xu5AcwBUlH83T00tSqGCLNRGqyt/CcUQyugwquxm2p05Bc8NsElh56A3Hs9aJUdS4+MPqIGKe
+RZCDSmojiGoEJSCblCXZ8Kwb4ZBL1zStR1yswMYVAb6PdVFIjcZmiODxjmukuctYOPZdTgC0cHsE2Pe6
+UOZ8t5JdXQXqvFAwAbuEXYe1cJYWnHHinaoZDmGSihw8tMGWvr7PQhH3Hrr/PspCwHed7HHt7v0bCA76
+DsnDhEpkyOCFO1DsDPSqH/Tm+gZ/D5QbUmvKOJuIjQO5ei2SFD3Qtqq/fnlsx9hofKT+60t/9Yz9iYLZ
+f/Ws//K31x7726s/+NurP7n9g1dvv/jGZ2f/UoC9T8/9QIg9++X/ef7F/+vyuf/7hbc/uXr9k3ePf3Lt
+yc/Ov/zz8z9Arfo3vv/Z+Qv44pnvfvazFz599vjtF5/99OmXP/2zM59c/5PPTnz/5+//8e0nP/j0xQuf
+XH/9kw/e+uTa937x6JlPn7j+86ee/PnpG7e/+yefvfzM7ddetBc/+977t3/83mcf/PknV4/fPvfq7e+/
++cm7P/z0/F/84uwzn7154uc/PvHp69//9I9/+Ml7P7r9/IXbz57/9Pqf3r7y5GdvX/vs+KlPn/7LT0+9
+8en505+dP/PZ+eufPnP99jtvffripU+vnrz9J+duf/+GtefTZ37wyfU37JVPT7/+6bnXfv79lz678vTt
+v3jV/v25Pc73HsfFP3j59ok3rc0BJ2xs7t08Zz7DAKYbJnK5UgK2jQzJmCC4augYsG4CCZp91RPMCbYW
+8rY2w92psSU9JsJr5eZ15HTJPhdaiJXaqRIg7wbBWKEHHX5adwdhvA2PhJOVkIQAXgHUR5kUgqH6MGbJ
+Tde53MIZEy6yqT3ANRAzmtC71THhd+I63zxX1ps3X4Z9ESjZchjwqiFzLkBagm7Pm5oZd/Ona2Dpo0SW
+Y7IEIhOZVrcgTg4z9eUeatU7/9w2XQdQNR4xq0vb/pGqKBvnbA8aB2VF1VrreWvMzZdXR+KVEBjpfVg7
+ksxeQS+zV7Fw2NR4Ckd5E65GGF/Zc94LlRfsBWghULUSXnoJFac+6hn2H7HmV49EANm8/B5nSxkwvsbN
+MkyBIZCVfSDxXmYmA5BcYsTQZk6SrdK/FWjBJmCS0fODJopqn2RJ7A+85DaKjp9kYWwVBb/Kf1/lu5f5
+1gV+7ImoRK4i5Sf+9vSf+1v4/Bv89zVW7L4W11FV8mv88HNxneNshm76GptxJr5+ultDqWKw2ngJcDTp
+wt++epL1y8/wM+f5+2n+/jN+/QKLo1/li6ejSRejbLnu/njc4kJUDb8Sb1lLXuArF3k7Nen5uJeKlL/B
+eurHvan45Ud8imd4R/XYxahQ/gILnD8Vdcpf4/9Oq846r6BOuBL1zk/xuz/gTc/FXX4Q5d7Vkxeyeu0a
+uKeiSDwHzvvZOuqElznHWy95b+MBv8NC7M9HJ5yKe/0gCrefZm+kausvRUed5IfVnu/FTc9Hj6nlN2LQ
+7c+no0r9j+Je34su0gVVEv4Dvqjevsi+0nx4IwZaj6O5eiN69Tg74Q027wxbq68/EQ17HK97XXnNZ81V
+jc5TbO25KGN/IZ7iRZ8q3s/n/bnw7ln++2I84Ktxr+Ns/7Woaq9G/jj+1IdP8JG1gk7zxTRbTkfzXmOb
+9ftZbzDa/Awf4Uq057WYWm/GTdXUNzm4vJG3+bjrd6DAF8rHkOwS2fXtM/sDx1I8XB4pRVlMABZWZpOa
+xdJWYHOYWGPJNdhAqt2wVMa7UpTEFuZ1ab60azeufFBXDhBQA7WI7upwvLkCa9I2ZLOugfR5BLtTT44q
+rrIfJV1QIbN0vY2aSGgP/TygkFbNI6AvW9mj2fZbP72r+GiZPfnSZvAsOkVKYkfFRH2jFKjEq0yYmTiG
+0Hxxx9f27RwmtnxCITUIOiiSzbbQUf56SQ3i0aANvs0XyUisySDANxBUWBkio6H8LnU05W3XSXl3b+eL
+gbmnzpsbcm4q4Hmro43KIrtmCPoKidta2BpVp6q3DqURfAjFrEtHgG2VjFiPezGW83SMH1yb7cBV7hFL
+4ulr9rMnYRtV4INf+NWUVfxGwoQx/W8u06DbHzgldokRbF4F5Di5pBSF2qI3C9lNu8vezlIW4KRzgc40
+Q3meprenxOwq+wd99+noXsH/HWHQdtLCT4lx1LQYi84ZKRM9kZ0z1lQoZoh1PRvn8Bx1M0tfPcOoIA7g
+CN6+M60ArzCJFE6fA1A31SwLtUC+OmWgOqGy0ikcxWDndzLpFxJaZSZqj7NlZucB2751bNFdzS1zGcHw
+2JhEYnc18u6SswOYhhx5Twh2txL0A0JhUnqNcGLFOMEKjI3JxmQLo9GgJBez0bM7FqnSxRA2USNePRga
+nXjee9hD7NPAoHUoaLnlKjCujwG+wVjcvIjuok+RLRkpFyoxxW696flEmwf7BaQKDiPSPXDiaCKtro63
+NKwDOGxrpHOBI8nS9sOBo8ycD15LIQEkB2iLxC617sCcerWTmEysIseyVinHvtCtYvRX01zbGkMZBVep
+etR+EIvYx4PVbAUY2Ao/nhsJ5yRZqWxBchW7G7tj5UFRXKgShx+sSq2T06BB3HaFueAvp31yZuYueqnF
+KOUJ4XHU8v+QjiE/aeSxnBF4u5u+BhmJ4HMspYyAwkqIGT2AAj6siLZSTQYa89BKqrrOCrS/HEkkxRJf
+C1IEqPqdhA7YPhO6KIuFY3TI6WTZYrBOqe0KIf0Efoq4FrSWmMFnSx2Ltn2mSJCPwGMUhSJofLYV192l
+Kp3CRRT9ZP+FZkHVf4js+TFoTciYMlEPrIT5MeCDboZ6FHEhzICWPQZ2wOQ8VjQg4xZfZDiE8QxXbYD6
+Zb9wWJGjEh/BTATgEYEJsI9Z2LKJKBsUHZB1w+Mx5klA6caXYm7YbuE41dkU1KaqKOYRTjCWj4cOUce1
+07ueZh5OiHTbEkYoduq1dv0eS9ocgkOsjXuBoxo24KNBaWy8SXgJc6ton+IT/YEdinbIjhZd/wOBXSl+
+1STGCTfkVcAxPcb9iE4EoG91kkJzEBFHMgWDZPszqykPsX5lmPgcpzpHb1VBaWozcp33bHZ6IhtjSbn7
+XQlbHIAn23N6vbGyh2tQPGZ4l7OPW/9D2s3sy7vTd7caxKNxchKZxRyK6KJ4IpvZeAGZ5wFrAdgGBhnX
+imsmAY6byDP0JssJRDigWjKUjRF8G7J3601iZlHce61QIYK5UsUj7B73JUvha/3AYSIOqmTjTII+1wo+
+2rv7B5EYJRiApR4eUuFTYu4oC4QsZ6ARioMRhZ+TygP5sILl2FW2p5vA7hGAcyQpVmsf5hfQKbYPKXvv
+QDJdWfq70OP5n1I2PKDLq5CcdHdXQV/YNLG6lxaSXXJHbcbUrsWiLpYCjrtKZJPALwn82ygajPUWake9
+yWggnV6issEBGyHcvNPFf789EzuW889hq4hR/Qg1hCrtBwCx89GWfc0QzzHwkOT9Vdkn63Yu1kIlDAI5
+6Ag4q3CGMBkIJR5KViSgjMK5rpTN4YpabgQ8UtbbY6GMSxYeg11KqUxBDjDXWCOO9hUCDRuVFI485d0o
+eovN1VX3bI9QYquhKChLAEMdNuWS0hnffEU7P09sx6+F5UF1I2w0xPygFylCs62dkwgosU+XkwOSMP8N
+w7ZMkkSGp2ruSntYAtM3ylOOWTdG9FH0SeHZBUoxUmo6YYm3MaBAFIybp9g7q6hT2iKZXOubo0OWIpZ3
+gnUrjY9MTkI7F46GsY6+b3zMbDfrnPVQGikRxSk0sZRZQsatI2O4s2PRgRRHS6HRWMmdFAozv/Z2BJu4
+G1FjV+ix+eU7Z2/iEDR4HYMtP3XHaT9IzIr+g9npEnvsjMNUkRCmnUitXyJ7bZLDpNE6csi8beQqV43O
+35dm2BpAF9w7Z1Jy1BEhDPmDD0pQ4u/GLqqTriGqqOcemmBO9N+Y0sY+PhvzZTahghsVgsCukPIwzRI1
+aWFC6whCnoTqKcRyy7OhlCOzIHhflZp4+vktcFoRWEbr5oiDzr3+H3Zvyh/jvk5JeQS23pqLDFB8mZYi
+dla7uu3unH8IXFZbARIqqCZDMVhA1nXlhHP9UihPDNaaow64mnfvybq/z6QB7I2jQ2Rz+8XKJIFpmgQL
+3Y19pzssj5a9td6gHO2BmG+NkjbEvST8eQvrb1RJGyfSXcm6XkENMVqqW8lHhC0gkAHtqz4J5a4iCZil
+EyIKgcawyrDDCdQHj7REDqV0XbUe5poTUxqqUdq0J2hYp333oeSL9+qYOQflOUC9Sy+Y2YFdngZTk7CJ
+rN+nIgz3gcWsCAGS8YIKqBAj0+VEyAuiIbxWd19atSnDu3mfwJyD4STBXb+USCuoPux2DjzNiiOovkdZ
+vrDLcTdobKAnCUtcMVcRiJqeKg0dTPa9K/lZx0DazE9dV8foIOFbKE8AAWZPSgvNVAlCS/jQnNdJ40x0
+cMfMFqtVAs0hGw6Z55QPt7kWGnLJsCxaclVZIJg+JEnD4eAdwIVQAEsroE/L13ZgV+RI2ctCSHvgQhKB
+oVClVB4HUrUwC57oprJYq45CP18YJ80f9J9QyECzJGTE8j5UpWdptiJNCe0RFIR3TcyKCsc19TpSFGJG
+MX/k6YX+xz3uZsXkolpfT8BvKBsgHWs7yEMpJrM/WUEBIe4spytvX2ghBarEZDNi58NN0z18x44di151
+hb5Bq26L9Qmf3V/BPQKY0iQMclESog89nYStNMsc8TvMqYdSLMjOEy/S+VCKFUhJkDGFiiW8rQVeYoFg
+laOsk7hRJWBxwrMTjA3Rn127dkEUbVCsg2WVPEjHDMAep9iKz3YBrLqNPcFOABLXBv3D1YR7yGLUXd1z
+bxX2qYgiLAEcZJRCNWHpBw1Xvah5WFpHqgTqKBJmq3B9SlhGUnpE/ERVQeGRMrOKTQLoPoGWQmFn2zb2
+PaIiYV/ZRHX9O6CPaQMhr4MCE5LB644rr3Snks0YVVhk0vIzWwoSTw4TUzkuLy9nrx0KktIc0lmyn7/q
+ap1lX4gBkD/uTlbBYRtK+XlpXQbzj5GxSt8YwnNdB56/aRmZ8IVq81uHVKbcqkGgkQYqK4b1u47qK9Hm
+Li23wA77CsDFV5MPAe4O4khmbbpHD2tki1qU8mHp+ZRh/R+pVNiZmjSusdubyFNCqMdzctY+9uQqWkDf
+lGNEK9Lszmpkq2esdcZjUQdzcj9nE51qf+aHFo5y4AzjVoUiDSO6bTZaLtkUsAtMQV++v59grzNel9hG
+FWejIouhDVSUnSJoBvfVlfUFFHtmEvJOgHGiETTMhGJ0UTxXQMhKT8ldXuXEhuvjyrEktgRowQdQ5I7G
+NXfpaQ435f+KSTHegiITELjr9CEUhRisJRQ6dbDlp8wnFNmdQkRw9K1XWFg8sSpZkJS8zKppz99gpM2v
+qogzoJv9QnXBZNDvPOpzUvbAQYL48eRuD9UwRXx27mHdUBRwGHg1FKzXB6qjxf8KWFwZZklTJ9ZnN52r
+4+CNBjbHtg4AEXnAlhEBP1IR/QcRb/Fwqfq2XwAoe/xgtcIWKbuTg4SfOLaYZZRifTSBIyHcUJQOmCw6
+rZKlQLtzBB8RzAbhuOaKUGMS1wLnfoLKYh9x0UnX8Mb4AhvC430hRSHWq4i3M0EjH6zqydKpEgG4AINM
+OxzkHJNYmdnAe80gI3CVw4WKcTVL2kH7RSBx2AcAHUBvkWsVKx5I4VQrT/6M9pzxEP58KIZysnKPdXAj
+Ip/BNikSqXouMjXcqcfaDwivI/Yb91DZr8TQbhJIrbhL+y4QxgIV7t61i9Bp3txLmAUmhgrFXjEbG/Kg
+8FsnVgOhN/fA5tpwzDBqFbqSemcZVbdkwkQUp+y5H9Udb3ohOSz6InY2wN21+osEb04c23kkJHaS90Jr
+rlfaoeX4InvsbqLI91RKryhHUofGZUqWryIIC5vwQMUGRHYUPl4oZj8Ei4HAmTyZEjI1eeBHKmHnYGM2
+2G0pB69RRpFNL4VcwKZC1RTMAWhx8soofk60J9AHgy1HQQqJrLXPiVr2BaTGOcNcDAOAybpR4USWsFNc
+iqrEE+JjmRiCQYF1wOLjLFMqwhTeXRkGdN3jrHAxyP/gLrrqcTgW7ml0FZ+TUnwV2AyzHdVtoIaPmdaF
+doAKPWudrwo3u6vYXW3i/4t3ppjMQgpw4CSBs0QH0jMSC0lVAMVmZBeOUqzAds6RbS3D9Y1ko28P3djZ
+NelroqCj15tlhI+2yvaZwryEUtGmFSHxYYRAI90pQapuwBgjMZKFw7wwRvtjb59rCSegYKN1VP6mqTNu
+kgRB4bhV+2U5nWqJn77kQTOUvkMchdC1eZX+6ywsQOncc6QUugPMMdTe7ayFD7ZaOutRCPpuEUDDfso+
+SN8Wyod/85O/+eO/OfM3f/Y3Zz8+QZW3S//nMxBQGsKthL9fqcImdxrCcxp4ao5ooqqZTVeePXx3vFL7
+52R71a6GRiRNiwxq0s5aqfYFXkuoLrA46f5i7jswC/lGVyljdIv3CAhvPWDVFd4tuGb1gHoHastgxcFX
+iXZdJfBWwwgkvtAoH48dOuyXVLODalrKGDNrbrYBziMp7+spFQuqUcurZ89jr65ApxCudyn0l+BWqr1h
+bQ48WhM6dKD9OGipceZf9UgZogpV9AvgV9b8m5dQdCGJS6DeizXTbJ1HFIusmXZ32Jhnm1k8JW28a0hX
+SIENHAlprIWsQsUiqXRZqFd0hUpEb0ld6qOT/hp+uwgNpg/f++g5qihd56tPUBMJulNv2c937f3LH96g
+HlPSpaIq0nX+hI7VB9SZejepSV1q9aik5MS7vBPaSR+dTO9CA+sqtZWuUrXpCjWw2FJ87sOXXLvqun3m
+bVdKcoUoaVt99Jy9Az2sR/WUSUfqmitO4Te07zj74D3+K00vaU9dSwpZp5IG1AXvDehlvSfFL3yCLcS3
+vM3WllB5wt0etZ6DwtQH/rxv25Nf4Hevxm+u7yS9LHwPqlTtfdH6G+x1tVmKYlQQ452fYF+8y7/5XXvt
+UbxCJSqNyLvU/pKG1NvpOS77qMVoPUH9q5di3PxzV7MrX4unpuYW34Wal/Sp7H4vU6PquiuOQQvrvQ9/
+lO5xnSN6ydt7A33qilYYj/d99EOV7Kr0xzCW1qcYN/ZB6r8bvO9l6of9iPpZ6JPTcV/omaEtPlLSJPsg
+Zo61ECphz9nVNJbPffS4q4edtG+e5DXepsLaBSqLnUrXu/DhX6TeYFv4JDEjLtiTQ9fsGY7RBVzLR/k4
+nzY+p3l2nb+7qpeN+XuatVI3Y79f1W8ffdfnxnucR5c4d6FBxvZRrezZpFqGsX0fT5Pm/Xtst+bu96xN
+p+yqF6GidevsrTc/furWqzgpXBVMP6Uhdg2qUFKXku4XVbhO3XqDylpPf/wklLbsc9LDCpWx+O4Ve/VV
+6lWd0Gsfn7x1yb9xzfW4zkG5jApSj/HEOovf7N+T1iqodb1J/TB8421qT0FZi2pW9u47dv+n7TdXCbMr
+23PgKnafd6CqRY0yapndum4tOItv2TfO8DXoWulZoRl2PvXG096+t/xzJ29dtv/aM7Adp5KmGvXP+Pmf
+hR5bPBufxvuN6mJSLXtUuma4EpTU+GzooTf5PD+l5tdbaIv6FIpo9hoUwrwP7HlPUnvrcfvuKbZGCl34
+3GX25CnrobfwROwHqsDZ+3waKYlRse0MtM3SKOBzl6gldgpKZlAdY9/jjk9JzwzqaP453O0N9YSPtLXU
+78bWuLKZ971r0r2exvgVzAyoxoXKmV/lPMeS8+/Wa/68JzWKVFR709p+yp7/9VvvoIcxE601j3Hc3rHX
+NcPU55rJb1Dp7G2Mu/rePvWmK+W9gxnT3Dk5VK5DFWlWpUaYIdzdghbm1+s1f1XnMoFvUeVaWLieO92d
+NguWGGMw/iXyZaab8FO8WNU/Ug8HRKd4jo2wGIRktwDIqogr2uyWzcZiYpWDFuGpxqUFpcHpSSJm5ulu
+T/4Haq0aMcjMyP4Gi2S32eg9Saars7yrBfhUEiGA5+AAHwFxwF316K7EeWqVw3G/e59HNAlrCmgIdYS3
+3IusRl4veXY87M06/GITT8F0SCNMz05ILdMJYUoGZDWa/HbdHW0kq82zN/NfeejL36LG1reSlTSqlLxb
+gph2m+lZXGqzJRtmKVl3we2ambk3aJOqFyOoJMJNe5BUXlwdJCSj6i8Xyrybiwqzfm9HohpsOsIy/1tV
+wipPQiVVd2tjMHKRo1CQQdihN1psxluANirxA1zO5AGyo2jWhy6Tdd9meUz8vb2dxhrxiD5xVzvcSWWq
+B/V+F5UplhaiZNPyaIMRvpV62B1WSe1K+DXOM4xU5Bk9glVXDQAjjWf8Uqy1mdmWPJ0WKdINxhv8W1ci
+Q2jYderq0OkFnKD7v7RTro2BLzLYS1YyCM9RvoR9pjhpeP1ruKLChuZ/71tbZz5ipNCwO3P32+RCZeTB
+cLYxpw4ePFExfXlsK5XKZLkgBgUVShasVu1au/FSCy1iZEWUx5olQxlCq/tH6Ghag3fMr2uKz+6gGU5P
+q3dXhYpkjCt0Wu+wVpCZnXqsjHyrqiv5qwh8aJG1wQWFI+jkRkUQ0ncDltOspFhlgcryvsjuatdQ6FbZ
+yppvAUACmgqhmXCAjacgmfJ2VBg7qj8pFAfqpjhTocJLij0OCA9AyuV+lokokDdaagGu7b5j12GZbFwi
+GDLcQIoQcwOdoy80IiNJClSFM4eKcR5XAxMPSXn50klvsDdhbUGbaP3RZGeb7IP4ug+syrRydqD3bWPp
+gRs7AJygj5lIMGXN2IDQiAQ5fdUmS424hm3bRcI5OSQM01O1JDyBTwiBj3G3EnmTkJRmuLq3s7DUwhs9
+xREiLT5T3VNFZn1pISX4onwi9oeaalTiLZMcSDk4HFSrnjvwfEFVqEg1g4HzOtAeABd4fVir/l21r913
+UgVLwJQZ+yb7UVE9BtoSb7aYbSHY6F9PurvIzu5du34bMRTXvFhqIQ+keWKU93Z2zCchobTmB/0H+5Gh
+KqJgH3ITrkqEAPRQ+B3RDbPEgiJn1HrqlTEWAaZoDrTHeMDSOX/lsbMsZ8GdnSiflPFuN67dbfS/UKkc
+XmHHoi1STfYkCIIah1B+Q2n3vgNIETEC0rmv7TOhwjvLLU6fwVcv34QvOL7ht1K8ZXHr2GLhZ2eUwUOk
+0XMpjOduuj5Et80LFA6gUza/GXjIemnjf45h6VKuYlV95jICK5OWfdDyQbEFFZH8PyqBQcXjtgBJQ4St
+XP1v49oPVsXDGNxlxaKxUIvCn9iv32RpDWDJ9sQBUACNhEg0EDFVy9XoclMAogeoli62NereJCB+cM44
+gRJyfT5p4vUmB7LNfFSE5qMT5yaMnZKRD6ihlyXj0wPrWBKErmJ2juhWKIbQ0WHkzrDe7C+cIBgsT+5y
+21SsEaFxV7QpKblD2yeKeSAWmlCRBQq9KDjdRLVQKWR4l6gmHKT5qMaRsmeVAM/U6yxT3DMS9GYQ2ZSG
+ot8A1aFUbVQAoTWvLcQotoabPFyhK7T5s2qFNTXwOs2AN2XTlTIA5TiqdEIxh6hcUuij5g8hOyyWzn6Q
+Aim6+sDBB6NOEsVvBkOA5Np0ViF1EaqJeMEuipTaR0NAjYxlTss9SepwFhOOXWK2sqPGYyeQhNDCw00U
+2rCLBSEakXtgvXDnNi4MaUc3RtqjbsZj05hc22eiCM2Sw4IP6dzcqrXvALblibkomwn5mEAosFicK3jQ
+IOoLfiixQuVAieYS6GpQNOWEg3B3a5SVRQIihUYqjroED21ci4O6PslkbaJqnF3hXhX6wmqKbDxTY5IE
+rXsTKaII7hpyO71J1AVDmhT+QElc5Zrv75i/Dt+zr22I6iCwWUDCmqjcaustivfYwHL5yyhrNrB0RHEv
+JVUKESAmyfhy1BTDkiZIkVmpTgszJqYAG2izhxJ6+prNdUn/bVQtertweVzkHwY88ZnvpcZBNJ0VX6WG
+K9AqsrsuqWbN25A1CY0NO8oPeEG6Tth31qp+yvG2YElOGCdbzMxk9mSSTG3PniVxF+4+QsiaSnXZXTsF
+EuiVHV/fQJnHWk/BsmwO51PRJywaZl5rvrO/PZ2CG2NPoUQVp+f942RE4pBCqsL+bA/LL2FH9w+49Yq/
+NutjIeSxUo2OVhLPiEJvmBpJaLqXXNojMGICBBoJAqJt/cw6Ui3cdeiu4r9AFcDFWgnp4bLpr06EuqNW
+oH3NIWJYv93WXm8T+kU4QdbQ+aQ2UFB4QqbEvtZ4wh7l9X8CYsVThKrUwJJx35Q+xVzr+gTVxdr50FRE
+wMl5TaiB1i6WoRuXKys4G5SWXo+IQJNyREXrjRdRDTXsVOEzmZ+XuRhgbx5fcQbvjiLe9rV7200X2Sov
+u6qNnhMFZYKpWzR0S4GbGAdAULUWY54BnRstSOpywEwi1G2lavl5dtcv339INeD2tdY2DGi3Vu5OIYM5
+eoA0KFPdX9wL03CFGWHNEhDHNijWskFbLNhY7rxWQi3eT/NWgEjATryjEmqmL2E/msMtspJwQ8/Q22ok
+1sKOoAOtPRloQsrwoD5iF7sctjBP+CW/+0jG5WuKllfKvU+nq2YUc6qjkLyhfU+hiyrnH1FRppCPxgdy
+CNGGsuAUdENqt2ZZrY2EpliZpDEOwhlWuDn2o50QQk0l5My4cEsXi0Dp6xqcwEFrxeOcA0ig7CocYreU
+GjHFA8A5EboAU641OOeWFtLJWsk/p1uddpjfPdD6Fy1DtKEPsJN5uvkiRUaiRNdog9qObrWJysTjK2pq
+Q0EKgGQZcBnT0faf4OHwFlp6XgoT452E0UEldpE9a4Tz4ezSVLgTlj5EnmVM2+olDoBF24I6CcMmUE+K
+cBQlMYb2v62tOinz91BTNSo4r5DzypZRUIgz46j4BOyAzcrMT1UtPhScEHMIEnS+OdS6RgGio0KPM1KR
+Ek6zpOV3NkE+Qs67TN6inYiYWBTyUQ1llExtIaG/n7BxdT/p7lddx0HCUdFPzp3E+iOMjdoWdt37mUOm
+jRJywhkWDEZ64xqMNmlbOmOoDpIOl0inQa97BDaXamdjX3ddTOIZu4UjjQha0zqBzF0jaIicE47bQ1So
+YN1takc5L3OU7D4uaSwDILILmmjQHSRJj62jCqSEN0Mo1WyuA4kRNNdCEJsR5YzouNlMDSMkxeXKXgpq
+lr2UIzY3itpJNp05jUBFP6w5SYfNRjJVmyjK4thmr9/sGazvNbsl0dwTF/7YaH/iGrqIOLsNKEXINALw
+SToVQcktinsminBgT7XmuI/C7qQEbRmoDurfbla+DSqqxhOnJelBmAsWDHZ6xvDUvzSbGx5cOHAchtSG
+KhZbKv+cHHVieKwNh6tqS2McTOcGG2DBGuiNZjJqgnT2uxNv4xV1Mm00GXAlCHPRMbhYUkKeMSrm4TSU
+y7QGQTwQUyMqytKU4EQkx9r7ARBlwkeocRtVyP9bh3UORLIblIXQGgQaSZ2rWAB6S5CH3uTuNiexvaW/
++BDadJhbbg3OXS2nArd1GUSH7mOMgsngjq7L50T98SmgIxC0UJJ3AKFTOZo9fTsxFikRuEQHtICMOWVd
+BRKV3Ye1NYAngJllHppgXDQoeLgLNuaUcUyYKJqALiFUc8CK84mXVhyI+P6IHFMnqCbtWrAMtFXYzq1n
+Yyy9XtPZimC7bQprYhSVNvFHClhtn9kmt3v7DPrXT7I1gerzarnYXrkuaPA5R4drflAk21uhCPbZUXm/
+OCSGCQhJn0aJiSFr43puRohw+N3ALzXyg6hiSJXAlpFRrLZnVsjmYaGE+7wji9MUFGgc9B2F5d7vEmsr
+iMHRKmjsCWgodAhC+c3OYFQ6rFeG9XiTDHkddbUrpNqShqqo76ktAZbxB+DmUJ97WAX6lAaknjVKYmMT
+gxCgb69w4hVxCcWMutU9RQC+u578IXOWWVUZk1YxLLu2j/rObjlJqv4gTuqABPpurDrw0PJoU2byybSO
+G28MEOHAkAuunbTxvVYE1d25Ban6h7wAjB+Bt461H/Tvxwp4ECcRYGRiYEZdV+s+6EQhb2J+gSYtKxyH
+Z6kTMk4ynbyMD5RF0s1G/3obks5oPXJyAfXPqZtHUwhT3adBoB8ZxqL0Rrt42bJUcUeHj6MWA9Btn32o
+9ZpVs8NXS8K6H4Va6DrZ8SsTdY3D9h1+6spcjiLeAhHJHj74/l69YyTyDW9FMfBeG1Wb59ITcdAlp2GM
+hC9WiKwC35QwP66fr80fDI2EKTQmxIF7kWlbawUB8B0/x1MZDsDtiw0ImBJRyqrtXWpvelSGmUYdgoM1
+YVrd0PLYymiw27rgbttUgdaUiwrjNKmfIavsHNBCO5jmHdVTld7xy8PniwrCFImtQvTdjULuRt3uPVIZ
+q2K336i3uC49lukBQWVSw+4V7pgShkp92292QrJ+NmcJu5RbVJEwuxvaaUU+jI0Jo9mLCFDSosGkdTfB
+zi50KvxXFLNIxLjSoz8cIYeDKvaqCHLdD63qUXe575ZTLelpihdDRjGp+NADZPYlZZpWRn0UJfeOCgQ1
+NokNGVRMgyk9zIi3rDds0JDlbWeJh8jus13QX000ShzCDZYlRGnvbkMnUYkci6EN9bQKM3Ne+2DoC8ct
+LApoKlWUYvHKZ/HIqfvAYR7WlgULzwsXj6LMzh2ob1ogeEz2whrOYJA2vPA1xqJ18KD90/d+kK0iF63F
+x7eaQVQPdQoHooY+uZbjhN22zXlX7DNPgpjR7IEwirmatyM9Prvbw7EbJbXM/qTVcpiLQixj1J3ZiogA
+yE1eMwQKsz4EbtaFartYEBC2OewhRfD1EYLv1ctaVAVqjdMYYf21rsrjfh0GliOycbf72ohACuPixJGc
+KpWDm9jBsSZ83GCHx5TTUcuRl63DuevxKkxWhU1IHFESgpOLs5CGFf8RI225dZNo/evXUVKsmovKNgUm
+bRmlj0atk8kERyKbhn1Kjku1H9t/CtnasFTJhzzYWvytvtOcszSEiw6tp8ZF2OnlU4Cf+5kI+HyHpruT
+V0Q+wwQN1gf6zItAmXmQYCI4/b02BhQcML+5YrnIjjG+lR6+ppHjdgmWk1srkqfhesMguEyBG/kQrW77
+dAEfkEzkxD1UnGvSzmXWSziIJHnraXX44f7ELnQPi1g6E25ahpjZPFcsFRBkG03C/IpcBA0SGadaklAF
+hqPb9+7jBwhN7iXpWTC5FD+zWQ7D2EfInwKmz+bnU8lpl/u6mnOojWipOgONp4Ot7x8aN18qvsV4VMEA
+TJhATIZsRYBCMjPcBoMXQtcoES6iKpDsM5Qc6SlWDPeFIhRi//Qpgc8FYwYkNdn9SfqDIhJzrsjSKMGh
+IKqdItwtUdm+Iu1hE9z9BTfr4LS7wwQHVuEQ9larfjZHQ1YuDT+rIAWnUV/V36K9qD6SdntxpzjtAYyK
+pVck/e7NNoTvOzh8/1Zmbo7y9MizmbmVtu1514Fo8ohL3d+WQYRGLWvHxbqxGJrkMKWEF2I3KXXolfjY
+dNvUPWfpq5BdonMFv27LhMJQVoEk3a7bGioWROuC9S24TyIm22C1eHQaT+w7EmzEgXYOj1iC1tgelvP7
+naFh7pHfQlVxyp7LgzB8o4gL7mZbNQI+ZVteS6F5VYorx326BNxWjvi+48AarMnETJJn6TZXypYcHbji
+BhMn8lZh4bWre4496jIafRp7Xp7B9+p5J/JiTiSY4+okXEVkPQcF5HqUBmO6V/mhFDTjuuj5cko6JMqj
+I84ygDz5AYnTRE5tA5q0RezyjC9X0LRrtO8wWeyyg9zX19O5eahNnrORipM6KZflSZPpPufm+NdVCGni
+dOimZ1O1/1fPQog+sWKaEIrrluo+UTxa0d5WJxIpl1UGiG6eKzV/nSbTDzZLSdiFCqarH1A7vOWfNEG4
+AY+QRRR4LAIMUm7WFCSr7OpCh0QFKd7NTfcQZeQtWgZOIuNYI+GxIp7dLbtuWuITq1DO1S2ScK/tNmMv
+L9/AHYVOL+V7EzemkdzPqnNOxt26FJGHcAG4htJ+5AdslXfNFnq4hPZ68IqagedK2b+eTIVMClPNa/Zs
+YLkN1RxEjs0awhOHfiR7En4WB4DerUZIgFto8pCK5JgbRbb4a9+2gPU0FhS1sZtAXCzkvxnNkOzDnk6x
+JymEZQjfBuHiqI8VpRawoywsJKGmmQdVE1ZYosA72u/QrfNUxZ5UuNNco24FdfWdDKdxxwwtswxgGj1I
+PGCbBZlZyMKNLpwJAuJskeGDsvYvtACs1Wph4ejRo/Prg8F6zyvsqM0YgbCWsyy2Ys9D50XS4VOUUZnN
+Sl0tHBLAtnt2/57ZlyquOIFwXjQoA/q12UviHNtsnlf8ERYV4hTett3/Obtm1CixEzHLf3e/tKv9zM4M
+U8XjGVmvFRuv5RYEg1I7a95BdyT5jjt23DNmMg2ewhxxEUc8JJXyv3sRRRkM/QTqQujbfTChK2qvlyre
+MIfbDixn1zcsa1Wg6Am4923A+qGq328mvSPWAeW+1iyeW8IouyYfkMMLDh2GSkrI/AMtYkunZz/LFiDT
+m2SItBmHHwlondCeZc/ciH0h9pXhmJoUCK+liRVJvL1ZJNBLWqtO8Xx31EUlHWtwqyBZ9vYP2oG/Yy6D
+4UQ1UqDWUhodZl3biAwU2WRRx91l0arKLLWU1c7ddnitstx1XQrdIaBlhrbryt8SSD/pg9oz3mWf8UY3
+Wb8tpWJqNqapzDcOHRiia4q2tJphiKq0RkucyrNfO7gDfnS/S/9m1sFGyifOF5mDEWiB1aqToYyEZWea
+YHE/Y4dH6WkAJBvRvWSd06Vx3wTF1jJvqcr6ZzFL9T88NjM4JBFHbojZ/MjTOwegGyDDYi5D5/+O60o6
+fpw66gryNEUqpT3stNq8CYTuSHhQATCf/VWx5ROP1/oT+4MnHVr1YmAlN1EPW/fdKDe3fF8laWJvx75q
+xmewbGn3O9qJEQkVPBqOq8WDZGsvLNz9gPU4xsWLrUhHSkk1hIljr8jQo0VSebP5sz9rQ9Iugbbdb/0R
+Ssut/dedO5e/3cb/Z5LrwUruCTQ45yWl5Ck7l1xpZ6ZmOTiyLRUVnA35BBqK9KEJpB33W2VQrNtU1CQ0
+F61PsnOkSKXMC2Zn+zHumZO/EFgJNEg6R64nJnkqto3nhVfbWcqyzF8e08KVW3qEgNEeQrsewI3Ug1xJ
+W25zM/N95EPpm7SAfWoFOrp0Jsd2KrRkm8PWsSJLUexO1cnteTO+y+5NAODSmLbnI2Ez7ouvMxyouLN5
+ATgLVFo3eD7W/q8kJe9O0ccypoPSNC3McLW6M6qo2+eXs2hidkzNZMNYJBWwIkq0aHfBZhbo/mwtmKPT
+W4v9OTOGi7gVobihF5flPiZK7ARpwXzLEVygHmGvcNSl0mt70bHN3h6dQa2qBlRtkb5UyZYknkpHqkoD
+loNnU9Fte8Kv2PHWuAP+ULbPg/8R4haIYe3kTfYMs6Njh7tCXF9waW27xRxGVjNJtKDcH4qSEybQFEkD
+R/o89L4XsshDwSrKG3XXJsGiDaldf4U4XO11UsJK9bsxLgjgu0OK70dl320ZO8qr2fLBAojESp0ANyhK
+3LCQfZ2qjqqaj62TBwaoDs6pNJcxvZqZba3Pa3t5CvVULXSOUowh8jtrLm/BGoY75jtFq1eyle0z+Hw8
+Msfd8+Lb2nTOzEzm2COQ1gsNuRYoWdzrWY174PW2Z0STwey1r6atGINxB4Z5QXDOUJwtUiiZ09RDHd9s
+YVB7soBikYW2Q8aE5zW5GE4OifrIVR6ftdf3FS24NYMGFxlaoSvUltq/nFNalKljfHWlzckTWS58TxXj
+zvxqBJkZsul2qzaK0TLUWlpP2TuIEjOj4msolmJPHtZH18PSvHufZVuVC6GGTyS527BmkdEDmwN91sqc
+Y862vW1Zb7b+DiRFOP0Jn0nBIchKD8Jf2MpyUdzkeneOV/Cd7IDMgnyFPH4upe6wjepKusaa36NASpFk
+3Q5kthCNON/3MneqnbQFCvmm8RpujO0vlT6m7xbnl3+eOC8Ge4aaQFnctwhFMyom8TqEqTTsZ29zOaxS
+AhC/B+C82WS5TZ0XhehKgMCzkKUjX4G+C5iyDWjClzv8gDAIrhFnfxL4X0n94yClKrHzl/3Wk9k+E9A8
+h7Wk6tW44AOeCUqLdwvbK1wL7cOtYh2KGJYQ/B83nuYLvBQ0F+PMZa7WnzcyRggV6azRv23cr1NIF2mL
+66g/KFLebVgFRbQ3iX0Pc3U5Q8wzmeY5OX4x6jBmNljkMJRFS0BAduYBbJu1AMSsy6AQHd5ibUhPW/GF
+/ZnfkSUVnGuo1YzbcE+nHrMbhwx/CmBk+++x4KjiubLtqsjOMuXpXH0WdkbhuSOBeRQCpgab01VS3l1n
+DWOnKizo+SumLomraZCQdb4Pt4lUq3TkYCFPOcxmftyBUSsWiIxonL/WLC5x2OHKPQlhvC/zwR1pyGmc
+0faazIbpS1tM7UylhKEcRV/YU5klGVU8TMzaSBpBR7XWVwa97mLSlmNomMXoCRdKRCXsaS29rlatCUU8
+WFq2+Ho5LA4cGHGFUFy1iXUs+1nznblKV9ljDr9FqHM+R+iS665h5LeINYi+bm3pFQZTI/q9P8VSVJgV
+1kQ3fBM/C7L8ewGF6MIdmofagHO27w36niknQCaDb5IzE3uLvGXhXgKY6Kg6ojYTNHw48vPLq8wr7LsV
+XAo/W9k3bm8TrZVx2YOLyk2TmSnfITLwg6tUixGWimNiHdnsi71xOTucEuPJ+ZVOkW0yOn3TyWI7Oh+J
+F7B9tfVZog4EYw7MoRWcsANs8m5EuxpcZzTY6iRVcCJf2TXUkc1icdtDxxXJBrdbCFdQ9pp5g8YriIxU
+hDoxexrVNIx+9sIjyAeoP50c1XL6uB86FZA+msc9RBWWn4UGBJAy8YXsatortF/xrK9CB0+1dsOOJYK4
+HLKYZuwdPEN9EaSyv8wIJrJmwxyyr03zpyBi9uBq1fqRyAOE/hrmUvgxWJsCsmvmMKFwNPzZ4Pk6xtiv
+n9G9fJ9UqQweOgm+1QatMrd7Bp+nBKm0ZlmlPUu8cEtqUCsOzs6uznKrOS8lOdWbJwFAFWnp/9oDuMyB
+A7Mi+dQEAj+0svvY1UNVHRnCVVkbWFQpe4xzfFilJCzWW+Tt60wFPzBy/ryjWDuwV5EEgr+QAfRndHXF
+EAZRLNl2ISAsPT64l55RQhN5lVL2VTpz50LRj+uoAX5OZSmaLM4T9P8Jc6N22HqaOcrTwhzpJAuG9Uko
+Kqa90ZU0PWOWUDfZOZVUH7B1+JpFABqfl9+OYjq9NOdtfyO5GTHG1kogLHxTBznLpidEzlHWdNfaCIwG
+0EWOtyURvd2HocY6TrlV71su/lTI2967l/bkV2mXBuNRMIgEQGyCeY35wOhwJepkyuKOHP7kTB8vTEub
+AP1WMs/vdHC/vtYXynGs+xpXWzNXtRHaQzuYMo867LJteI3P48aH9ljt7SG/jSPPmRIeQWljkpmdOWR4
+xg/2QKajPW21gc7yV2HRF3dvAtod+XjtLUVkF+eSXcRsfJEkktE/3EbqtWo2ozkvZw+cwQ+LKkH8zSYx
+0yf288S80t7o5O3+gHsOFo1so9hxquTg2HgdaEFucytZ/Ed16rWeU11pWJUCNXE/2WTFCM+1al8S83A1
+PJPeBMIqJPQhhoZRcTj3kXpVvWkdM5sFslv1ZuQp3M7Bhhtxm5L5mtQtXLP+ZMFBI27XOSqc50PN8aNg
+fgw2E0sExIbwf53F5GdZ2kPmWe9sNArNb9jhjdAKyVedC7oPxmUkyDX50GE7Mc4TFcbF0S2oksB9QzMC
+a0D7pHpSh/io53GAUeAswq6XtEbrI7RqFzXLSbe2XwL3qsy924ot36mp6BdECfK0lut+kotQ3D7BukTA
+Gvl6dxCUdZk9nTiwjiVykMskzmpVXhB7+5AtIu1dOvuDber7zDjitCUBXW57ExVcEzydDoW2H8zOaqoE
+b4MUNuLSA6/dHLkGO91lG0NzAf3T+k0HPYlNiDvxhLI/M+2f3Qv/x//e/M637P//YWG92vFNeAJHi+rb
+i26T8CwHISvpZAeiBIW/NwaJTJPoLfCDbMfcSGeZbSGiEDbbMgJQYqcn+0d7UaajBJVoz+P8wY4qy+l8
++CL19S5Rae/lj45/+AHVCa9Soe5//P1G6ItBkev2uVd+8bPvf3L13O0XnlBVaP/92on0++0Xn/rFn30P
+xZefu/rJ9eu3L/zx7e9/8On1F3/xww9+8cQzn77ztv3v56dvfPLejz65+u4n1566/afPfvL+iz+/9O7P
+333JPvnzcy/cvvT8Z68/5uuOaXDriaFgBlFbBSCC1YHH65Qqty2ScbAua+MOAjTg+Th+JpQwyy44lLj+
+zZdVlDleHzSqTMfoMioPrZQPlyyyLBR4qWT9BDWYdX0gA+wT99UrQ9rDrDpspraUGFx3cwzjNXASQRR3
+Lc+mjlR/Qx1MKGy2z1gGMgPXUcEgNKM7UJw2ngt6K/rd9sX0Oy4WubMK5e42K4crRLxukKNEovSzwCEp
+gg+0xUqUHy2p3AfNQCj0/ZjKhieg/NfqQobu5kfPSE0S6n+uxdjqdkJd8jhVH6nKKPVJu8Jl6m+GWmGo
+cUKRMd3ro+cwhzk7L+bXcd1Oag1KjTLuzb/f//B9alW+zZl/BX8l5UKoFaZr2qdwxbeoU3ktu1emjUh9
+xavUFNU9QxPzcrr+ZaojhrblVb5HZU3ru7+k6qZUDpNOpn267cNHoXNJzch37XnxLFA0fQqqoa7YeSnT
+Cr3kPXwBCp1QF/U+gQZlq2552Z6e/WPjEn0D9caL6Fd7onddefECVUy/Y89+0V5zBdAPL/EqH9j3vpNp
+SF7Onv0C+0nKne+6iii1J6li+q637m3psHLE9JmrfKa3XEcVMwBPRh1P6kFKLfN9u8N1tuCqX8fHEcqV
+VJa0e9sT4u8n2ALMz9S2D3/SzlvpYHJuvWc/T/qsuZZ9F8/yAfU3b0D5kqN4BZqynIF8cvvuB9Q0vcD+
+UXulzfqB5rqN19WkFIt3P3Ad2vf4HP6ZqWe5kY3FVd2Pc+5GO4d5Z82Aq7G+qM958sOXs7XznjRioSWa
+VFQvcR69j+fj07br5TL62kaY6yvTAL3caoRaWx7lpy9aK56TjqqvKSncanzf5xrAvP2uzdz3uW6O22/v
+uf7uk3n7uR4v+Aq8xvG/QJXYk7wO7vuO3audwxjHdh0lPVTNOvY39p8/dy1b65+sNvdJVmG+ELWkT3n9
+cdVAR8npKC3tJaRVI9s+8Czfej5+uRHVse0zL7clyNvrqJD0a9k1z0b5cpaZxusn+cq5qKZ9OmvPcZZo
+v9F+Hv9ebtuGot6pWrfue43Vvc/E9Z+Pz7wR9dBTiWoWEPfP6yle9ArmuqaXbn+pvVd7X5Xwfoq/PM/P
+v5kVxb7K26m1eq53+O/jfK7noyr3B1Ga/AobpkLw0Wy8/kN2zkvTz3i8fS7Vzvaa46mXno8C6K9HqfdT
+WX151Z3Xw57nff8ivqX+fyX6JD2vjex7vG96xpPxmZf4IFdYNf7ZKNKdxvrFGMEz0bdxzVefzAqan427
+p7E+HgXBz0SN8pPx7GdjjI57jXjvqxhHvP4Gr/9jXjb1uVpyge18J0b8JF9Mn/lOlG6/ODUfvN+usetO
++y++LtIcOB5PrcLur8W9XuSTnkS9eG//1agFf7V95DRv/Qrsf3z+xayvLscKusrLnon+POMF7ts2q69+
+GCXUL7bP5b16nO15Ij7P5uHKp9nmC+zJk+yli+3Y+Tq6EaXkH8/2jcvx+pl2DqvfMMfeiK9ci8/rM1dj
+nV5j807zk5pvmv8vRZ+cjkG5EnNAbb7iDda4t3M19eETsd6f5NWuRJ+8lu0Px7NnzPYcf6LoUtw3tecC
+q9WnfYb3xdXOZ/Mnzc/jMUsv8y0WsvfxeiGbY6dizrzKm6a1prXwwvT+eZzf0lo7z2f/IK6j+a9N/vnp
+Pf9afOa1bM5oYl/M9oGfRZ+8ETv5ad+j8JXz0bAf8InS9S/ECnqv7Qe89Xi8dTZG/EyMAluibmnX+wtT
+e0U7uLHWfJ5f9odN+4P/qbHQ3HuG1+e08V36QnvG+fOmfj7FP6/yM29EI5/zZ/TPXI0Bupg94xPx7wu8
+wmW+/k52Vl7w72Lf0Hn3ahp3qkVDF/tpKiS/TT3pR5Pq86Vb74Ri88cnoC798Sm+foWKyK1Ws5SUT926
+SDXvpAOeFJZfzzSW37QrvAldcOhphzI4Xp3SEH9Myti438cn/V7hAVNVmrrXev0NtMnVpi+46jh+P4fP
++jXPfXySV1J73qLudVzzdXvvFBSp7TpX/fNQ6H6cn4K+9ROhUU4V6VeSNvlbt37Cp4DW+Jnsvk9Sn5tt
+c4VzKVJfomq3FL+hzX0Kz88+DWXst6hv/rj0xqVdTR3xS9Sf1uuPUsX8rPfb43zKM1KsvnUWz4/r8NUr
+1Et/mq9Dxfws+iB9lxrdrtd9ht94068v3XK1B9d+x5/xvM2Dp29d4hXfSnrdP8v+vUwFbe/zVuvcZkbb
+J+ehh+7j/oara7fa8U/E62lMoe99DXMvxiKe8dZraI36wa7qiuPWX49TuTzUvWNcMPPe8vnzpv32JK+M
++X/d/oJO+mW2IObGGSq+n/W2XcXrjCsi8ge3vS0nisj/3gxmJm1wx55SUmN9PPToZb99h3LTEVam+DDY
+eIPN2R1MhkivZQIUDyJ7KqK1Wg9Xx5secZzPscE5Jr9Z+hwSs81tZ2JWwHlAB8Fztq2eUu1y1p1U5D20
+NMlAP4KSuvP2TyeERIdKtYd8IsJh9yO/s7oxhuyJyBae+d3L5F9kZhhkjzDs1hBlrT2hkWEgvrgWIHQy
+Be7JUK/FprJQZb+yRyHOPQGDo8C4C/5kwRTkSToCkXUYelZRpb0dRDaT0tnB8RbSg8V+1OTKocVFW9e0
+N5l7gAFvh8luHVtsG95K/dVVc3c+d+ZHg/uQld1vXTbbIpCoLNDC61wm2YP+92QgkjmPZIs0iXFIct+O
+UV6DCgd0whuqkKDy8/3gFyKK169KZBOHpWQxhlkurqZOXko+FqrY513F2HaIqY0kYkssissMbgh10vK2
+AavIMUAph81UhOvBziOdwaxxpIIO2ty9Byp2gJvmeJNWUIY0R1yInE7AfJIyvDUnxGi4whzcoEh7Uut1
+KIXDhuuQuhYOm0WrU2HZ2RxmfSiDwiDrxfSFTQ2RHSIwXrRadPbKl5FWpCov6Il50hT5lCPMUYM12sru
+7+0sFhlx4eFx05JOnFziQmxjpgCU1nPonlAdIDu2IAHhjLUFZD1afJMpoEhHzuQB7iJHDYfOQCXtisAw
+WV97hQIVtS9brJWUBVyP2rWqPKVh02WotAMF1oecly6fSVyCY0Qy/fKlBZVWiK0zZ2m42k/AIEnSWrHZ
+dZiKSUOvzlok5jvuk1Gve5O2LLOtBeZepAUynAILLWbIUQiXJtm73kTotW/lUDZvN0c7YAFLOd5ikJMb
+Wj1/1W2m7Il9Zn3PwrGdzYY9y1GbjTtbPgrXqTTqmU15IEOQzzkKQniSDF9UtXJ2jsr0Eouc9lnepcU4
+ItmbI0Ziq1Z+B/RpiC9BfSjHuM21CU376IILYfO4SzJ5EvSI2uY9F+woV4UyaCWZAe+RLrznvPuZRmUi
+UlCqBalOfAq6qhuDTcTVVQZcBP5SIN40o7Al5ejPRttZwtVIa4dAwcSQJAq+amueNzlU74u9EP5RQlIK
+nTrpigwj3ClaPYvlqURqAg65/lAMXtVVisxhSAfsbNkZgJIj417fh1e1wYlYDHHohF8n5jvAYqka6H6A
+JTQhBR8ITU/hU+zkS+V+2x22LvsusKKi7g5x0h/5wxUtGcy25fmcZiIN9tAVCZwWhj7jvWyfORCCGISn
+E/JYcL5UOQ503gsbqwSwr586OtEVMjE7He/NrPShEArAHhVIUkH4kooqPpyVvEhI5MaRV1pZToPcGMR2
+m+FJexPs8VtboSrsguE8Xbi/JUy+mVbEpOJjS1PoYwd+iwWvNKgyrIeQLA4RFclas3wrspBewpmX1OKV
+kEDUOeWkSKQqIkLAiJhxSkSC/GD7btUxC4paueZlzWpxXsm3CIn9EM2wbSKVZ26pZPYxaWS7VDZSsymP
+LW5QEBOCLLNJ/WmcjgHhbCkCnSKWmbTNErDGJsK+fPdvQXvWgm05cTZT+etNciZpE+ck9xDikZ3n2i2y
+ejtFW0emluZlEvUpW+4bJXUIp2GPpo0uoNcyL6a5BNYcCdXhZLBTsWUKQPBu0kdNSHLRkn4D5k4Sk8QU
+G1E32nX8ihwPT+pyXeo4bAsZF61kWwH7YDQYHC4C4xPaUZw7GWGoN1nyPZU/QixbWye0bGMqEGBVgIJq
+n8gEBKEgGoRW23Ltda/nY//kBN253DxuQkd8Iq6CzwNXL2PBYAIg25qettrvcraiC362XK7mENVKHckF
+AzDQtXv2Z3C8uQPT7oufp+wVDGeUmHE5Iz+DMdPsTjwPVwZmUof81WxOAc3QaJ0iE/cEILypm6RcleSc
+HYoSlPEm5EcJgBO9KvQ5IDABTCD+yGmbTWsJ8YI+4cZmlOCQOIRVKGWGXouJy7CBFB7HLJObulb3NotQ
+2N4pFqIIvlE1gZMiiJTaKVqjpG686H2I8XlNZuztDlgTkGwMHslqxUqegHC1im1tURG7iGPFCqLA6yi0
+7Me72WKBD3RVJq7IthCvXW1bTkXEeZqwYtive7WTVu/NgPbFvnw5J5F9fMxlM3QyZRW5ipLMoipRvmJe
+E38bujMw90NEgEyaUJCCuTpleybOaiPZDqlyAM335VY9a7DWCkUTe3WkSuCr6HgCAInAExXSOiTnqR2p
+ofr0/0O2nxOEjehIFH2whRGUCOwh6bRlrZxUFaQpnE1vq4SOWZgePP42KX46WFvOmduZAwV6op8j4L+E
+fh4JbbnQQMHKyEG9j3MOIMcmV7WvZvJDQpa7/5FoA85XbqFbSXyeyMJgMkjTPKab3WdmalYlVdF6kFCu
+/EFtxNCCai0hgJCJON7p0zmnwpIOxJneVFKi3fLiA4lsi/Mnm7C2J1ZRE979eskIQVCDqD6P6eRblfbw
+wBbP5ENS9rh1SYwWSyZRK1sxbJgREQsgmdTlsrkacgWHxsNJUDLrd6P8CHVhQGPzo63uZ8ShhWXBsYKu
+nIs3ZPLsjU6FkPtyv127WB4923SyHop5c6tp1emdwqThx/6cZNN79RGxpHz2RgWQ3uSeQYYV/mpu+2fC
+dpQ1ag804Th9sQeX2gGBAel2Yfgwi5ZbaasaqNooFFZIRwn4WjrD8ufou40awf8kMjQJ15eeNKzktKsJ
+UemaMjmVpfTCVY9wBS/kDNsy5xcTpBW1SaJ+B3HHIHXIhbQ2eqWtsgvt8UMJQmwWo714pI7N28GV8jeJ
+XgwfvZWfwobvhfwYFnGCshiPGZPZHjtBKR0vnQDZ9m7NlmHWS4mWao2EkyVXZE44yzRYRWA2bcaLiaNJ
+kVs1dF9S9Ks3KLv7zYI0a5ja7W2cWRJe6qmcw1L2JHTpTBQJLuGQIcozUa5Q3TzzKJOVivFivDeqigQE
+n9ot91Td9pCgFFYAUpPTRQ3jIiPwo88eCoIOQ0Duo3RRCb4Aj+coMG2y+QJzGRwbB9EnsGhpG0mCrS9m
+nIylnPcwyapZ4bAggvZoNTSLMheHLL8W2h3YCNI2CEa3I4XV6vQOLDsiucMfss6te+Hwcoft9+1F0C3g
+T4ZuTf7YzbKHfhhHHbnynYyzux4sHnjwULHvvkN3f9VF4mV5jliSaeH3G7veXh2hDlVtobY2BTfywEAA
+b8esPNMqQfcmbUQGe1/SDBg0mYtguxL0uTZDC8+lBzX9c/2ZPo2FMCxa6LeouMEybqrFnL3Y7sg2cRaz
+yhR75LmGAmvSdxlR+K/NEPj5orNcPevfWSmtF8riftuZJ+P+YNgcNovv8ObNV3v6oz/hT2l4/fXLVPHy
+NAQhpz0s1bVWfEt5kAQJRcP5h5dkbCuelZsr9fqYq+OuAc5M1Ia9Y664o+yqNr0H1+pNUFSYozCTIyq2
+u4ZE5k9EQkU+wh7HZrsfkyuC2CpYzo2IJGLlst1r4Dl4fycnX+FjFR/1OyzlwbnlvfANf/t39/32l+6x
+/y1NpUbip00O804WptJA396RL8v5JpMGmt031RN7i755FfuGw3ICksFUrGfqxFn8GrDBozHLZUzmOsu5
+JsXU3Zf33sGZYXtnNbqj8OpTbiPPFXnwfqlXZ6okLOyZKhdmkqLYq0csreRPpPSHCgh1ipmpAHoq26rs
+GLpMzDYIcUZJCs8w5BpF82z0vD90MRWskJxE6PJnWvMIfrTCJd3J/FQcu9ifp/AajVQ0JjiSigLt3Jn3
+/UMQdSpUCYMilX4wILkC46lIcj5Y8xttUa+p+ATea40YdXJi0pYtc1mKiq0dE97xqvdSO1uPkM3WHllT
+K2BGMbbGrdOpfR07faYlWEylVnyTxAYVXMS0/nKFB9t58nTEzqwWnI37nW1NCbvalKs7szSVksiUesF7
+8CoO+t6SpphnZkgzSwxynkfJZqjbWBIY0DsWi4eb+bpb7LUZ31ZX2LXrtztT22khPtR+czYHALEzeh7B
+ybXcGC2mMiy7R3k4BNV1raEpmo05kqq4bHH2bPrsmX+4yZZOVugVj6XtLTLjZNvdrX1r9uh8Vn9sVib7
+qIt/hsspboWpVB7Ic7lzxVTUZP8jlZ09UWvOU+d/gCJOg8026wQbBck/miR0rKWJF9zx2akQGJQH2wpZ
+mT5eSo4EF65NzTHpxee6Qz1xh+sP2Q40swQVYVtAyV9dnrqM1010h2Z2KkW+bWoLW57KKLXsSrQ1q9iH
+oz6nJy9L2DliQx6b871ntRyuUKLKtpVuNTPlBcdzMlOwc2EqYJzVtVMhyGwnWppKyIajqOoph+r/fv0D
+u/Uf1v/93SdGCv80biT7wmOJyj1f3DWVWphK4yzRYHR1oqobuX1YH51i6nCamXJ2i2rVLN+mLiUNLGs2
+IlWt2gX6c2nKn6FSC3VlwyCTCY7IaE2/NEpiTkUbCvfvPZGtmHLsbh5L91HpTDmuU+G3wkuA+Ug37Ruj
+EKveiU0c2AtMxCJyC+5A+P4SoAqhNzKtndgVUWdLL3C6Jea1l2y1g7U/GLWOGSZq8gdoUZvXB2UTBw2o
+omakyVszE7Muad4Tb9BmbNDQTOjOfbK24Pu+PPVUZHV+zJ1NJwn9v6Wpo7mYMmdUTy7aQ98hyR1wx3S6
+dy3DNyW12x2FyifhB4gnp/WmytXLVIxKjhnDHXiF8TVIt9RQtuEiz6LVNj2m7JDtU6u4yCrNMoQSezUu
+un1q3Xq1Zz9NppLN0k4bho4+a7ylxEQWkoArWeRaeFnRjxR7WImjxFe4Fm7upUH3I54UplnYVNrBYCXX
+aXttSy0gwpIVxS5QXhJAoWDQVqkqCe9e5JbxFO6mmPIli8Up/FKm1MAVkIGemlYdiugBwANSIetMu92m
+UatVRottamfPSvd9/uyoi6kJM2WXAxrlQtFoIXX7WYoSczDSwFJ7GlY8h30fYQ+mHPkfol5ccstV3TH6
+DSoqnLiMmvJ7yZPNRPF2bx3LdDQ8Wuh63ggPSGLC1+226QfM46TYIG0v6nmkx4N8cgebKJ4gju2Uo5cC
+xAraZTqfhVRAMj6tazN5tC9FYbgXTIVzp5o5mp1C4gm2QroteLZthI1zMFS9saqosZGCOPnqa6pI/alf
+dmdqgp7nSX3tzHEPG7hsvrv9Wd1B7/k2LzszldLMyhIWKuDBjB1TLy2PFnuZh2BS3joJ5hMFotSw52J8
+SSNQtGclq0gFvaW2LhMLkSCMhNq2WAHfgHnaAl3KrXpUxrrdPpPhjRpXpgxusdAcY6VJj91/3712+ny1
+okQJ85AJptZgR+tG7XZaVqk/pxImTTMerqlCSrLkkpYakAO2ABm7W518w87O1qNPqeiQnM8MvQNTdnl4
+WaluQVa5T9WEQp2ckWTv4qp7V1txPtZtFaHd/VP+kU5RHGYYNS6lVOptaiavZuo69skpp3V7vaYi1yx8
+tQa9aNUdQMuAHKtTGj7h4jiablE/4P2pOeGyaoM2n4V43FaVjfu+VqnC7jIztb3Faa9dgP2SzpXZqeU/
+Bdgja7+FAqmw9WhDxS6UVYsdemE5n2jFFESS62g8BOjTV1Wrm7Polufa2tq3Z+ZnpjeKjVRQhtHLVHsW
+Kaqpic3ES9qXaEGkgJ17iuERtXXF7SpTqQKmuFvs7lRTVrLajdYjsu1H1D+xQ28QyUO8tDzlQk9F1HZ6
+9bF2L4g8g2fgXGCMZ2PgthiRaAuC292TiBzvmWVj7ZOy1QPDyVqNyZLzowcLHgGGjarIrsvseqjU5FAD
++5HjJYrMWJrZPjMVI1c1r1QeJ8E7uStm7bQ104bcfUYiheJIh6NeXEEGv1cm8b2nvSaKsHWm8BZZ5doC
+hy33rIjYe+nDvZ3+oFOo0FuUXj5wYM7sX2sXHXm0pS0FHGHYeojyTW3ylCOWoxUFZk3+ZskgQyA0rF+y
+arFJxC2Uu7x0t6zDKkty5Wp6drR7yrt2BaZWKbAoUx0GooGTLMxg4AVo2t6X3yYvIPPx+GPqbMTmkVl5
+rRfFfaItVG6WQiuTLfuMSTvPqtJXSwUeA5+aVahJ5xUjWK5varPAT+Ym+X+tGmgWVIRlHJ2uWnqDIhNM
+c2iyr5UomurLrMhPdEVjAveR+TkbrPK6qtLZKkBfFUmffNKi2dMTYUtmiaepPWRLvnJUAt227fN3b8ub
+Z8eW9e4ULDAStG6fedbCF8VU8Hw1dgEl5Kbw+XOtRhYgf1P++9IUhtxW2FZzeLABbbzmsE33PJbw4Y/B
+/ZeaxofXwF1u/0rWfaazUG/pL7LTyUcnz/sGVQiCgZ+/d4088nedI389Z6Xbu38hLvr/+D0oALTX/OiZ
+Dy9SY0AqCNkn7f3nXHuBegP867rY8c7yzu/wirUAfPCr5Kdnygv2V3tNqBGcmNICyDjwH32XqiPQc8A1
+L1LvQBxzaCOcSNd4nzz0J1KvUE2CvfE++fB/Snb7RTLJn/NeuUGVgatT3H2oBlwmG/19akq8PPV8YOo/
+m3QZTlAL4u2PHsXdWpUDfNKZ/RecGX+d/Hq0533eNd0Bo5T1xGX+vETuu38vvffehz/mp9+lqsEFZ6M9
+fuvsrTc/fir99nQwhMjiukIml/OpWnabWHOJx/YWeUevkU0WjLvgGb1in7lif708xeISn+rsrcsZO+n1
+/JNsjV3TWVWviE3lvCdw/N6w7z3m750kZ0pXuXLrOthd/gwnwAGzTz7p33uL7LEzU0y2aAsYbNGWV26d
+J//tLedsncgYZK9M/XWWz/s0eIP46+OTLVcrOGB+v/NkjL2ja7Inz9q/15zJ9TRYcH4/8dHO2VWu2XfF
+YXvMOWJnQzXH+/PJjM/2CniI7d3zZ7A7nQV/Lb13XXxAFEUze1CAmuFiKoSpkygqvfiB35mO6mYlhbGd
+evmVIMFgu8OG5rlS5Fy+1RbMW/qt7mCVmlQMPrqyp22JFbJES9MB46nMnFm+01v5dHKnaQNh6xXSelMh
+3RmCSFZRmHaVUNtIPcHPB3RR8cOUrMwTN01EdrxVHt1Q3rtTZNZeOlyg0ylQ4sz04ReXivh4G0ag8zwV
+2qYvmvlrOxanXNUp07+zvGM6C7cyldNpn3d1MDhcfy6CuPBt9NU3ZTvv2bWY1xCxC0Qdc7/U/HSyA8ds
+5h1Nob5mZvLksZ2dS9OjkqXfcOXOFLag0/I2+G5bS5B/ehI15pU8thSW7CxPRQ2nra8lc3T1+aODYbeZ
+i2xtoXStF/COG+UVH+y1hWlrzVp1tOr12rIFRa7ivn06mOG94sWwZ7Kq7WHSePRX1o2Av14x1o29xFqZ
+cnj2TKeqlorpVHwkA9x6+TJr3idJ3ukQ5xc982qz8SHr7kkrNKdmtGkL8IE8DRZBIE7ktpZ3p5haKy3c
+TDMeTm1rUz44xOodHCv2b4yHqxtZ4WJ8eNrvJb4rWzwCsmwQamZG3Ld3zOaWlsY6HrdJOFZd2qdZbGe4
+3APMChCml5am8MsZ1GM87M0yxty6pM3nvJ9Iy8kcnmJX9pNXmwWs2jQF75v5PZkkID7fei4KhBVTSRXG
+jdr+C3aVez4toLcAYnJ6N1s+mmpac6pQCvUbEC/HpfdmNbwzoz+82dD+9ZLIZpiGpqT7nrmQexZNwru5
+RrFwaKnsC6IpU3m2KA8+bt2BIlRyGXLKw5BF7tvZiOYIKsZher1yK22U5ES20ddUu1LvquiMI2ZXJlkd
+eY0glrNuRLTzuqrTa2tgq1pqQFrHAjGU07zTe6c3RonAJ78wC5OFK5vFmb7WV6lFe0IM3vL0FpSDHBkK
+HWw9NBxsleuOtkk1mHnlrFhAEYSdRMiQrJy58ut9QEKrPuI/BxEvtWds88660QHmpdKotFsVt8KMGHvE
+5qz82COhOjmNZ5Fn2cb7pzjU1u5pdI/iuQlOl5NdfLFnWfCpTXT7jDn4eSmrNFe1yTAn4nhJrDLNULck
+9tRNkYOM44gRp3OxmIbhYGlkNXekfFjMShNxR6oyqGKG7ZGq4oc5+AubW+KjYkVT7uMsZTok0JRUgJ4N
+RY7zmd7UxdD/+Y4rw0Cu5EzICiVtE2mkXA0ZkNB1wYcvumLV6RdcxsQVfn4UGikfUAzknMvm+LtXXIXJ
+VV/yViVVmR+EsFISFQmtLdw3Pu8aStbUp/iV86FC80EIy1zLtGWszY9CYwRf+TGv/BPKnpzOVKdeDKmc
+5/3KfqmXQjNHSiwvZJf9GZVhngk1lTPRjKQPIwWk1+LdN6ZEh1z5JJR/klBYGhTvydMu6+SSXCf41hsh
++fJmfP1kaLy8lmnghCQUbvTn0SrdVxov70TjXwyZsqdC1+g035Ls1Une8UleWYph3wlBp7MhovUKf/9J
+6BHl8i9SK/pZKMA8y57RlV+I+57iPHyW7byBf1+lnJerDF11CR38fjr68LlQptITnYv580M0BpeSGthr
+vNTVGMTXfGL7I1yL542e9Mn2LL+SlK9eD7GjD0JG6XJ03el43tcoJfRSfPdMXOdKjJHmRtKRey0m7emQ
+JHoxVIDOZipn78Rk1i2OxwpK8lNJRed0rKYTsRs8kY3CjVAEkr7Qyy49hA8/HyP+ZqgSnYm18KhfytfR
+d+KCL7Gf035yst0ivDPVpB/FbA9dL7+ytH0uxodjxnpPJtGw6Dp87Hn/Ct6SZFNoeeHPN+NGL8bWBBWp
+YdP8Tl5jY+doOsvDl3Mtd/fuYLAhAzltcM8sfQ6GUUzxynr18ue84pFzRudtL+el5lftEDrcZraK6fNk
+5+dM2pm4fvKry2mXfcfi53JDQC93zdyRgbKn+Jyt2uKTaA7tCT12D8UWdwqXDLp2HyijqOsYVvUSI7Go
+kQaJgGqvEHitt/A5z28GcIy83liSdYnas90u4XP30feohgk/LEJs0XxuABY+FytwDWSzTJuJXWGzM21C
+7h5ROHxv5xvI3B/uLFOTpmiRlxnaG3C8xZnPRQzmiulsfkkTW9Ya+JKfc9aX0v09w7j4uQ4QTqE1VYnV
+yemZxTTiKXN+xMvM6nDBCgpXM3zN5ONS/6Gz3PmcRzVTFFNpVVx493/KiB2eb7qrWivNDpsVoStJqBR3
+Th5RVXDXq4dw0LdGG/b+t9B/3zoC+GrmGma/CujyOT8kw8AC59HkuuD4wkFlnVJJm7zesDg4Wj5uJ+5x
+pEYyIKcoI7gme6E/kK3YWZar0mIlc4ojx7uYxoNOz65du3x97DTzsETBD5E0QXlRfCjzoyk6Quc/q62H
+WqyrmMGrcsM70w7/zntIoGWGuWwG/bnPLYdtzZ2TQ+U6Mv6zzY4/2vVfP2faLs1/7oV2JihAdgeb9f/V
+dXW/TZ5X/LqW+B/euqqSaHEMo5pW4rgKga5MbUFdUDvtYnJsJxicOPPrkETVpIUApe0orVRGhaaWrrSk
+GdAUmuFQQqTtHpE7LuFm0v6LPefrec7zgZBCYr+fz+c5v/M7vzMwwH7DgIqPYQMyKGRBQMfvY177PPoe
+WVahXwIfpMdwhh2/U8H6YjXGqaj10KPLj342/+492n609ej+o5u750ANGDFzioPcR6R7BxHwPiLwd1Dr
+GBF28//nGKkAJB/1fv14B2v+3qNv8ewvUCEY9IS3MSbwJUYRNvFbiliQojJqPuP//vEagWc9ZdbA7e+e
+xzgGRAc2OTqxyVGBh/gEl3bPsQ4vqUZDDGYH9YZXSc3WPD+/3+4n/H7bGC9BpWxzxqbfHnj0Nj4rtc9m
+EB2RqICvice6ZArXPg9IN+PKCvGHnxa//lFFElZBqe3JGp9/98kWaObR9Z7cApUyvIPTJqOzPrJafRdQ
+702+x/uj3t66xBE8nbNvzROcpU+CZ3Sad3y/bmeq09PFWmwsn2K5RUy99ATLKuEehWscktx4pQsnVcUK
+QwFbpmM2V9T6UXM/p3VYAYrhRKroSiGY/E2IAZJe6FciwSNXZ46RNUZyxRstBsub485Zhv4ihESbbsHH
+qvOdOZzCOJmlumd2GEpKds2KOOIpN+wpeEgL5CpX/Mgo7DqCOXMTemYLUOLtKdwxRSmPY//XIBItPdIv
+wur1tZLMEYXQ+uC11NEBOXdBrJmx4jgUzRvO3mi2T2O+6zD2i46COAiDT3ZJ7Oj5m82GOf/mB0Aj1Ypn
+oUHVp4CbDGXQAN20OUBRoGKgwmzoseJCb7r062K14FialpB4ullrK1gSYCzqzSxvIjoe7nZZaA4h0Udw
+PeSY6HQqeHRgcExTySXaBvzMGyQkqKRxxNqEet+sdadbS8Vq0LV7CpBq0yw1oC47CWMQFgxvBhsqMBmn
+M8JRJ4zFZTatWg5V5ZvZqVYbmDVdkBIMTEfiGtV7dsRYPSQB4Y6d6CCElY1zxVyp4GFfn2MCbfsuB5tz
+J2tQuQTU3U6ZBzHfNktgYkGrzdRmm7x+uEwec/C7VACKK2hJDaVMjINj3Q6SsH5j/pibgoxhLYRDVB+W
+nkB1JGS8KCkwokUhO0VXU2VlN4mNiMvh8HHB1ISCKeQQZ93bpQ8xxbwsqWm2PbisFNhYiD7mfioUMIPI
+QnUwJkpILEBaHqRKtOq5p/yFmCmTval4U22mw/N4j0zkPaFZUAD+WKYLPZsxM5zpFcGThYK7vNUyrhAk
+8mbvYiQzt0aJrIWOhsbjQBkztLR5+mHYHh2iw0GRJATPoawTdSILVYowhaIy+S7EiDHt6kgVk2JIrbzT
+tlkxcKCX/C2A5lFjEVuxE85ydbXPW1B/UfgoCAFzro29qC6BjfnQs8jJa/VsWoEuxEtMq64ZJlxhk0iL
+NmmlDBUcoe5a0w9KjYeLtHcC7Ip1KIoEvGcZ2r3FTsnYvF1bmPHQApfDA6YWVCVsyAdwuW6r0/ATGTJq
+IN+xYn08jtu1lz1RQp77TnkStl0sTNhV64enXwen0OghvByb2tPchLiFdUxqUzkIJxifLFyELch9QPDw
+UeWVkqM0erK2ZOb7VM54QnnfiAtRSbYRdYbCucs8rbX5gyYIrPIlFCIZK5r1/HStbtwvZBHD9tccLL68
+f0Kl+Q1Ez1w9quq+YRHNYeUJkq30y4ojT8peqkQ3jFNc6x0wG5rZt4CPJpMwmvuFyCDL4wbS1hNp52TR
+yHPsTKnwWMxCQ60YeZRK14xvD4/1SrndMesyZ0821AClAekyAcUqQDW79rIS45A6iS4PazQyAnWgnPhu
+nrghHg85FLXGMoosUDaaHwqCfdjaF9ZUzbyACvm6KDlGJVTRY6+8eOjoxOTvjx3OpCu0aA/9LFZDTMrr
+YERVfL4f3GwsMjSATydimwttyCoNFhezVvhZT9Cvb9S65nkbGtFxRhVnTZOpDPm1AgYcXYLSXnrbZqv8
+VHMZuQJmxvBbqJGmPAXOz5xGpYm2yiHWI5zM8ywy2/2cDPioEm00I9Hu7edS4IrehnHSVsF1YK7iqLeq
+H2AT+pmNohzl8k5kU0P6AO5sniIVPrPN2bHmhc5wowQ6b4qCwVj32aJwpM8whn6vZSHGNBk9c+TX9By/
+GICoZrfTZREfsxG3F3IUkPCSLxF90dXZyNszQ41ShK32zcSRcYabXjdjZarTOWW5AU4pY45GTs3GbiXv
+2i3KmPbanFXZ+3Cd8V4b8LM6VYyl4Ld5E4GPhqUvuLZwz3HVaRXImfF/tNdTVSOr0RI5PpcFoXYldpKJ
+3Cc4MAtdZxJMdOZoSBszgZxhGC0zxspZyDkVLz8GZF/Q7ZhxAXHNqmbzBFV8FMGASAKzLjtHR0IzdAhq
+jZM15NTYMYa4lwcIGyM/ZwGiTFRPlSYsKd2Y6+JCawPzJ0iYVBTKMZ+RmRIWbj0EyCPaUJKLbWWBM8pQ
+FVkjnakkWaROkZiMSK2bAHhkp6tRNbgOX50SsOooG0ID2AyPLkr8gsCh0M48p8BOK4s2gnUDzdkhzo8Z
+X5YGk0Vuss/v1isATv5F02p5oIVg5inznRRD5WAHVl4QhGH1vDzIITMunaIE8sgMcuHBMKccSujfTg+S
+P3KptikSTKDPo3Tf0U/ws39xFY38THtvUBBYGpk/MR9w7czoixbaglPHFOmjGohzdXCJYF/XR2mhrKPP
+MYezRAjK2fGTOsMB313odUW6eXFo1Mn4tEhftulR7bCJcVPNtEQcp2khJEPaantHsyAY5euT4DjEHRZ9
+vfJSCRBhdRPuxyxy5/W3hKLZ8IP9hdZMfJ75Fmq6PP5s96PHPwN3GeuFUZ2y8JPrVAUMmeTnAd/lym73
+gypsUtWOMU7/k91LjKre5QpvgKsCrruDfzMy/PhHPHOHWOXIp36AvxHKu2HuR2jsPWSVM8aMDG/mdfPd
+CVH+Gev6UV0zujvwvu/zWwTPA5gyIrjbjBj/dfcTZJ6fQ958n7FeqGz3I6PJ28j+3sYabZt4f3pTOIZ4
++PLJfXoLrtIGd/8Uj7+PNeW2ocofxlsvCmFgQwKyFzCiuoKx6TsY7aX4siUwqLpjXMLpnJzynYRrtyS8
+flGi1RTS/VrVuvpOMQEo3q0rcAk7Aj6XsyDufBV//4pZHFxLiBgXV1Xw94wKu6/hM6yo6j8P1XtZtox9
+i75c5zM85Y7UPlsTcsiG8Ar+gtff4Lg5cwmIV0NlcW4JReSBvOYFPEWfRS2j2pnbcF1OUVV4HMfgosTT
+NbliRzE31qWRP5SO2FL8HNWGjkBiuQSaCvJQul7YCI6N83dHIfBq3q0oFoqtNvUB8jGoxXakd+4JKUKR
+izymx0WpgbWOv+wgw+Qh129yT3tGqukRe+SqT025IwffwBPPuDd191qXHrmMZ91mggoX46MBdkPa5LZU
+4KKmuy5ltqSmG9/9tjd64ZjzyJ9Zx88vCY3hYyEFUZE7ep6/qfY/L4/3gYxn2843mZfiaEUPZPSuyfRZ
+kxJUdowJ68Z9Qt20ptp5012HyCE8L9ZkxtnCW2v4hD+oYnBYMRD+vG2vE8eRvNwUl5Gyao5aw2yOdZvV
+INWM4Jgt8/8PXnUe94nUaQrjQ99znsgFjFD9hFEqujLktKxhxSJ+HqlxpD65i9GuszYydROfawWyObiO
+z43wXnjspvymHEqBYBb3j3S6M+V9r776ankJRXzARwhBIXR74dvRzIYCIhRGVJtUfY4iqLeI6vdYsTM9
+XdSSdizjNwrlNiBUL6R/Y7FEgFL2UpAfAmagDllxDMdaWS9ZY6EYeyS6oAd/VKhE8Zhy+fDbxUzfcBFE
+SxrN4+8cmYAU0zm0lviGJ43VTZc4EAaeQfsgjKnkdYvqZBaP03JWfNsstu5if9wzyPjGcddmYIUGiJYE
+KrDdCYgqJ/o2Bp6wJbCTKSj0WrWwGIVBXgtCb4itYKzfu1YWeawHYrylgGihV92jV4khqSyNlQRkdgXM
+yMn++MaX8kpIkKqDl3COemGZL2HgIHsP8Nfp2NLQ4TMBXO1TluFkJb4kQzSLYon7bJ4JInJmIsxMQT1v
+BgWMLz0DjJZoIrRmhVSlXJjxeq3RnCVcgpgjuUKShNWjvUp+/BEzaNiJOLh8pDHYagyRktxJIWaDSyxu
+hkh7DY2y4ozXt7GJXvD6mTCyaowYC1e56bJcmCaOhS9YA0PXdODQtRcBp5/xytHyqkEQrBhohWFouwNp
+z17hBwjFgfc/N9MDYcVDIxMj8bgvkQ6DaEEAsDGsS5OJuofzChsq3TpIG1IBM4E6OUMM4n+CP2YxADnb
+yv3ybJ3pSQHWhrMT7BTmMbo5YZax2alWTV2suWQGJIuicHLKQk7VCVS7MRDoRX8BrvFBu9r0NBRd6KkX
+Qu45tzFPKwfeKYW4CAIXYAWOOwKXmGtoqiPPNBeFs962LhnAk/uoxC4Xm1PmnZuoLFKDYGO355IWabcD
+DMgG3YBnJLiijbaKCIJVuXidkV31yExl0hWAWBVeD5O3jT/s+gub0EtxquG6U6/N16QgiWi7+MCtN+Qg
+NYWG3PRCF8epWsdce1EVA8jvkHIWbikFCGzZtMEMCMCRsFncQRU/NPRe6fh4af7Eck5sB1ukBniAZkuF
+JUxGn8Wm6vBFHdh2g/IaLjiKywA2PPJG6B1zVuWwOBfnnFmLBqryaPiHgEgoddVFjSmYJhjOwH6sQ23B
+LghFQLu8vP/wy/sneIyZP4pDQ6MhIgU7pCdSKBi2GVZ/DPIeQ34t0CyDRRqpl3Gc7b0S6MgeMjNpcAgW
+7cnWrPktiyGYoretsGXhLCRn8wQJuViVzr6DMo1QqlZmF6/nctyAagM/dZb5xpaOo6J4CZOJEXq9PvXE
+QNJ3ZmlW3xSBynqLk6gxXIPtepmH3oRNjcQe0PXuZOHxyLd8I1+7g5N6Ap5zj2QrZrq1WeS/WAaELnAk
+5CV7Pce28BJr5bjEjh1vn38qVhIGjdqOrI3qxS/4aGrloKd+Va3Ai+ohLIpyegSiURdkYod8a2gXsc90
+JLmY2DcT1luR+rLn9WWesPz2FOLnq6YGPi8GUpAO6o+NJjYNpxjmCqbYylVSnaQFxQy4bIPmYBPn3yNY
+BZHPCvz0qklwXIzex1c/VlPvdKfVGNw7NFr0FMdtqnPsqrmYg1u6qwmT2+cf0m9BhjqSS4gDhTVHSfMO
+3lcpW8lkqMQgc52j2rBztFvT2LzDXh1EIaPES1jmNCjhODIPGq35NgmLWgWb3On6uPfFgRHw37JEG3Dw
+OhcbB+OLCfPRq3alTDevXBdpfEUeHZVSw2i3/U2XbpKqFGYE98LIirFxT9FIdGOrIcUieP2ypDMpiMRt
+amv1qOM4ruW5R0GCNFIJsE9PA48IZJCboI6Uk2U3D/FOq3Q1aB1k50OotrIRUaeC7eyjRBdVs4QDiRwc
+IiUgcQiejcqX+XQIHJFYFsjxK1V1KrRXFls5cOkwmo7TUNKTYX0Jbu4nXtK8pPphTYwpthr0fvxC8IeN
+OtqomtogoEM6s2bkKsPLK5fIPTCdWF+Qj8lloZgfhGL6CzML/1nPs0GKrS8MiR7O7pXH27srGO3YwBhC
+8Nnjaxg1WEGNIIqNbIWxC2KYm3POYhTggcRTzPUkCuJiCNukGSTRB9DWic9lrnz42TWKopjrAoe9bzn6
+FA/ZtKo88fU+oeeFJ3ZaO+b+pA60gZ+hHo7omyDmdxMrr59nfO0nRgpXFXf8DH325BZ85u9Rxydfh7Uk
+J+vLLJQqF8ZP3eVyrN6qI6MJZU3GsgEca7LYR8sOWFQBkkXoULh7435dTG0GiiPuliRrjRSUOYLTLZx+
+lZSRIl96Fo7LChElMGNxRTYjXDgDDfJW/ZS3yw2KZasM2z8rwVCxdIrZMTTdB3LtV2WRQQiNFRraaM1H
+23QPU1K8rYv+C9d2dWTw8yXQ/YTp+L6ZyiVO2yqkbFwSran64jW0eQVwhBxa0McGJkWh8mKp9AdfwGO8
+1YUnqRYSLZKyTBef9q897d952v8efm6dfdq/8rT/j2er3z5b/fTZ6rVnq1eerX7zbPXqs9Uv/nvrm//9
+83Obcr61Yv4akrjYhgQvKMrwNeL2H3IIjAM9ErXhjMuLEm6zWaVBBMeGJ2xQwGahrksSaJ+jkHCWDfz1
+Ve6wzSy2ybNXVPgmCAh+LEnQOxLD+lIe75zkk26oIKPNGrbxyjVJ+NWBm5UoNfsyZ5hyUEzHs4I07euS
+zHuRk9a5TdYwf3ZHvlqXANllOXJHQn5fqdOpfc7gM+sP1yV718+C56fdUFHI6ypCZPudzvpGTrwtrWru
+/rVXuNR6wTGbEPgHyoxQaWnRsIf/2DsJLQgQW1G3kfwbXLBC/zK16xer4RpI0yWByy/NttWxbjEL5KVk
+9VSaNMqbMbtAwoZK2cPlaghpkFczkl65lcfpJr1eSN3qGvMvYfkM3FDOBlWru3LxSuXyu/snyuVDk4ey
+996YfOvNbN/I3sx3ugSRCRwelsoyj8s6Tei6QY6EaaiCt3vKKQ7J+K1p9N9xo6faMT84k/L/sqCx2KPF
+uwwEvTkQY1BIIPKvwP2aJbessYFfJCJQleSWWYBAz3DWA+VOePVhDL2prC+Vjubnkcs4Sy796Qngb2fW
+QEghRabnu61aibrAvHl3wThK/75XobYP50F7bO8o5aEr8+h95fjj0D6QgTJScqCeeOGFFJ5W60EF+fBJ
+YjwI3jj5Ful9tZlshrFu8nbNsZSxoq3xRic72DVGentIaS32UbeRuDx3kBMENvK/HH/H0528I9mYmHt5
+l9QjFacpcQXzKVzhEulDAsOHck/91TM7dvzgm0cmsuJcrzQZCBlA98WYygR8D2gM0850fJVWYrMQzuW6
+7dPLwaT5k9bOfaWed0Fl2k6+w4eUExaymY2jOgNSbS0IFfXeNpNshPJWDiL9Nbl+zNVO5vGYNVey7uzQ
+CPLhefDGNiyegGM43mti1BG/TiFdxrtVu4I26ivp3SJGrfCh1B6iJfcSnACcJemVMkZHsJFrI0lnJdms
+s6lwLLwmV4gKR4seJzhMXhnZuy+b9Hd/G3B8zj0TLgY+ZDEEUnkHS7w8hj3Hkm3YGxzI0vvCc9qr2Egb
+MTkwg9sJOkT8/jQ3KmnzBOLJyS9wLo3ELR3NZZ75gRlhN8fndGHhOc1ZSa3T8F7PabYqsjMvqRWKVy/i
+YEruPHv9jvnYZxalzUMH9iWulTvIaLTXEa5ZX8xVa61fFraX9QCIAKg5bh8rVRiy7m8o4pJl5O0ogZ8d
+vmbCnCfH5TJKTBFva0O4Wl+l/Ix13xO6KCJPD5H51fete+aO/R8EyzZRoN8BAA==`;
+var dictionary;
+function getDictionary() {
+  if (!dictionary) {
+    dictionary = new Uint8Array(122784);
+    const gzipString = atob(dictionaryGz64);
+    const gzipBytes = new Uint8Array(gzipString.length);
+    for (let i = 0; i < gzipString.length; i++) {
+      gzipBytes[i] = gzipString.charCodeAt(i);
+    }
+    gunzip(gzipBytes, dictionary);
+  }
+  return dictionary;
+}
+
+// node_modules/hyparquet-compressors/src/brotli.transform.js
+var kIdentity = 0;
+var kOmitLast1 = 1;
+var kOmitLast2 = 2;
+var kOmitLast3 = 3;
+var kOmitLast4 = 4;
+var kOmitLast5 = 5;
+var kOmitLast6 = 6;
+var kOmitLast7 = 7;
+var kOmitLast8 = 8;
+var kOmitLast9 = 9;
+var kUppercaseFirst = 10;
+var kUppercaseAll = 11;
+var kOmitFirst1 = 12;
+var kOmitFirst2 = 13;
+var kOmitFirst3 = 14;
+var kOmitFirst4 = 15;
+var kOmitFirst5 = 16;
+var kOmitFirst6 = 17;
+var kOmitFirst7 = 18;
+var kOmitFirst9 = 20;
+var Transform = class {
+  /**
+   * @param {string} prefix
+   * @param {number} transform
+   * @param {string} suffix
+   */
+  constructor(prefix2, transform3, suffix) {
+    this.prefix = new Uint8Array(prefix2.length);
+    this.transform = transform3;
+    this.suffix = new Uint8Array(suffix.length);
+    for (let i = 0; i < prefix2.length; i++) this.prefix[i] = prefix2.charCodeAt(i);
+    for (let i = 0; i < suffix.length; i++) this.suffix[i] = suffix.charCodeAt(i);
+  }
+};
+var kTransforms = [
+  new Transform("", kIdentity, ""),
+  new Transform("", kIdentity, " "),
+  new Transform(" ", kIdentity, " "),
+  new Transform("", kOmitFirst1, ""),
+  new Transform("", kUppercaseFirst, " "),
+  new Transform("", kIdentity, " the "),
+  new Transform(" ", kIdentity, ""),
+  new Transform("s ", kIdentity, " "),
+  new Transform("", kIdentity, " of "),
+  new Transform("", kUppercaseFirst, ""),
+  new Transform("", kIdentity, " and "),
+  new Transform("", kOmitFirst2, ""),
+  new Transform("", kOmitLast1, ""),
+  new Transform(", ", kIdentity, " "),
+  new Transform("", kIdentity, ", "),
+  new Transform(" ", kUppercaseFirst, " "),
+  new Transform("", kIdentity, " in "),
+  new Transform("", kIdentity, " to "),
+  new Transform("e ", kIdentity, " "),
+  new Transform("", kIdentity, '"'),
+  new Transform("", kIdentity, "."),
+  new Transform("", kIdentity, '">'),
+  new Transform("", kIdentity, "\n"),
+  new Transform("", kOmitLast3, ""),
+  new Transform("", kIdentity, "]"),
+  new Transform("", kIdentity, " for "),
+  new Transform("", kOmitFirst3, ""),
+  new Transform("", kOmitLast2, ""),
+  new Transform("", kIdentity, " a "),
+  new Transform("", kIdentity, " that "),
+  new Transform(" ", kUppercaseFirst, ""),
+  new Transform("", kIdentity, ". "),
+  new Transform(".", kIdentity, ""),
+  new Transform(" ", kIdentity, ", "),
+  new Transform("", kOmitFirst4, ""),
+  new Transform("", kIdentity, " with "),
+  new Transform("", kIdentity, "'"),
+  new Transform("", kIdentity, " from "),
+  new Transform("", kIdentity, " by "),
+  new Transform("", kOmitFirst5, ""),
+  new Transform("", kOmitFirst6, ""),
+  new Transform(" the ", kIdentity, ""),
+  new Transform("", kOmitLast4, ""),
+  new Transform("", kIdentity, ". The "),
+  new Transform("", kUppercaseAll, ""),
+  new Transform("", kIdentity, " on "),
+  new Transform("", kIdentity, " as "),
+  new Transform("", kIdentity, " is "),
+  new Transform("", kOmitLast7, ""),
+  new Transform("", kOmitLast1, "ing "),
+  new Transform("", kIdentity, "\n	"),
+  new Transform("", kIdentity, ":"),
+  new Transform(" ", kIdentity, ". "),
+  new Transform("", kIdentity, "ed "),
+  new Transform("", kOmitFirst9, ""),
+  new Transform("", kOmitFirst7, ""),
+  new Transform("", kOmitLast6, ""),
+  new Transform("", kIdentity, "("),
+  new Transform("", kUppercaseFirst, ", "),
+  new Transform("", kOmitLast8, ""),
+  new Transform("", kIdentity, " at "),
+  new Transform("", kIdentity, "ly "),
+  new Transform(" the ", kIdentity, " of "),
+  new Transform("", kOmitLast5, ""),
+  new Transform("", kOmitLast9, ""),
+  new Transform(" ", kUppercaseFirst, ", "),
+  new Transform("", kUppercaseFirst, '"'),
+  new Transform(".", kIdentity, "("),
+  new Transform("", kUppercaseAll, " "),
+  new Transform("", kUppercaseFirst, '">'),
+  new Transform("", kIdentity, '="'),
+  new Transform(" ", kIdentity, "."),
+  new Transform(".com/", kIdentity, ""),
+  new Transform(" the ", kIdentity, " of the "),
+  new Transform("", kUppercaseFirst, "'"),
+  new Transform("", kIdentity, ". This "),
+  new Transform("", kIdentity, ","),
+  new Transform(".", kIdentity, " "),
+  new Transform("", kUppercaseFirst, "("),
+  new Transform("", kUppercaseFirst, "."),
+  new Transform("", kIdentity, " not "),
+  new Transform(" ", kIdentity, '="'),
+  new Transform("", kIdentity, "er "),
+  new Transform(" ", kUppercaseAll, " "),
+  new Transform("", kIdentity, "al "),
+  new Transform(" ", kUppercaseAll, ""),
+  new Transform("", kIdentity, "='"),
+  new Transform("", kUppercaseAll, '"'),
+  new Transform("", kUppercaseFirst, ". "),
+  new Transform(" ", kIdentity, "("),
+  new Transform("", kIdentity, "ful "),
+  new Transform(" ", kUppercaseFirst, ". "),
+  new Transform("", kIdentity, "ive "),
+  new Transform("", kIdentity, "less "),
+  new Transform("", kUppercaseAll, "'"),
+  new Transform("", kIdentity, "est "),
+  new Transform(" ", kUppercaseFirst, "."),
+  new Transform("", kUppercaseAll, '">'),
+  new Transform(" ", kIdentity, "='"),
+  new Transform("", kUppercaseFirst, ","),
+  new Transform("", kIdentity, "ize "),
+  new Transform("", kUppercaseAll, "."),
+  new Transform("Â ", kIdentity, ""),
+  new Transform(" ", kIdentity, ","),
+  new Transform("", kUppercaseFirst, '="'),
+  new Transform("", kUppercaseAll, '="'),
+  new Transform("", kIdentity, "ous "),
+  new Transform("", kUppercaseAll, ", "),
+  new Transform("", kUppercaseFirst, "='"),
+  new Transform(" ", kUppercaseFirst, ","),
+  new Transform(" ", kUppercaseAll, '="'),
+  new Transform(" ", kUppercaseAll, ", "),
+  new Transform("", kUppercaseAll, ","),
+  new Transform("", kUppercaseAll, "("),
+  new Transform("", kUppercaseAll, ". "),
+  new Transform(" ", kUppercaseAll, "."),
+  new Transform("", kUppercaseAll, "='"),
+  new Transform(" ", kUppercaseAll, ". "),
+  new Transform(" ", kUppercaseFirst, '="'),
+  new Transform(" ", kUppercaseAll, "='"),
+  new Transform(" ", kUppercaseFirst, "='")
+];
+var kNumTransforms = kTransforms.length;
+function ToUpperCase(p, i) {
+  if (p[i] < 192) {
+    if (p[i] >= 97 && p[i] <= 122) {
+      p[i] ^= 32;
+    }
+    return 1;
+  }
+  if (p[i] < 224) {
+    p[i + 1] ^= 32;
+    return 2;
+  }
+  p[i + 2] ^= 5;
+  return 3;
+}
+function transformDictionaryWord(dst, idx, word, len, transform3) {
+  const dictionary2 = getDictionary();
+  const { prefix: prefix2 } = kTransforms[transform3];
+  const { suffix } = kTransforms[transform3];
+  const t = kTransforms[transform3].transform;
+  let skip = t < kOmitFirst1 ? 0 : t - (kOmitFirst1 - 1);
+  const start_idx = idx;
+  if (skip > len) skip = len;
+  let prefix_pos = 0;
+  while (prefix_pos < prefix2.length) {
+    dst[idx++] = prefix2[prefix_pos++];
+  }
+  word += skip;
+  len -= skip;
+  if (t <= kOmitLast9) len -= t;
+  for (let i = 0; i < len; i++) {
+    dst[idx++] = dictionary2[word + i];
+  }
+  let uppercase2 = idx - len;
+  if (t === kUppercaseFirst) {
+    ToUpperCase(dst, uppercase2);
+  } else if (t === kUppercaseAll) {
+    while (len > 0) {
+      const step = ToUpperCase(dst, uppercase2);
+      uppercase2 += step;
+      len -= step;
+    }
+  }
+  let suffix_pos = 0;
+  while (suffix_pos < suffix.length) {
+    dst[idx++] = suffix[suffix_pos++];
+  }
+  return idx - start_idx;
+}
+
+// node_modules/hyparquet-compressors/src/brotli.js
+var kNumLiteralCodes = 256;
+var kNumInsertAndCopyCodes = 704;
+var kNumBlockLengthCodes = 26;
+var kLiteralContextBits = 6;
+var kDistanceContextBits = 2;
+var NUM_DISTANCE_SHORT_CODES = 16;
+var kDistanceShortCodeIndexOffset = new Uint8Array([
+  3,
+  2,
+  1,
+  0,
+  3,
+  3,
+  3,
+  3,
+  3,
+  3,
+  2,
+  2,
+  2,
+  2,
+  2,
+  2
+]);
+var kDistanceShortCodeValueOffset = new Int8Array([
+  0,
+  0,
+  0,
+  0,
+  -1,
+  1,
+  -2,
+  2,
+  -3,
+  3,
+  -1,
+  1,
+  -2,
+  2,
+  -3,
+  3
+]);
+var offsetsByLength = new Uint32Array([
+  0,
+  0,
+  0,
+  0,
+  0,
+  4096,
+  9216,
+  21504,
+  35840,
+  44032,
+  53248,
+  63488,
+  74752,
+  87040,
+  93696,
+  100864,
+  104704,
+  106752,
+  108928,
+  113536,
+  115968,
+  118528,
+  119872,
+  121280,
+  122016
+]);
+var sizeBitsByLength = new Uint8Array([
+  0,
+  0,
+  0,
+  0,
+  10,
+  10,
+  11,
+  11,
+  10,
+  10,
+  10,
+  10,
+  10,
+  9,
+  9,
+  8,
+  7,
+  7,
+  8,
+  7,
+  7,
+  6,
+  6,
+  5,
+  5
+]);
+var minDictionaryWordLength = 4;
+var maxDictionaryWordLength = 24;
+function decompressBrotli(input2, outputLength) {
+  const output2 = new Uint8Array(outputLength);
+  const brotliInput = new BrotliInput(input2);
+  const brotliOutput = new BrotliOutput(output2);
+  brotli(brotliInput, brotliOutput);
+  return output2;
+}
+function brotli(input2, output2) {
+  let pos = 0;
+  let input_end = 0;
+  let max_distance = 0;
+  const dist_rb = [16, 15, 11, 4];
+  let dist_rb_idx = 0;
+  const hgroup = [new HuffmanTreeGroup(0, 0), new HuffmanTreeGroup(0, 0), new HuffmanTreeGroup(0, 0)];
+  const kRingBufferWriteAheadSlack = 128 + BrotliBitReader.READ_SIZE;
+  const br = new BrotliBitReader(input2);
+  const window_bits = decodeWindowBits(br);
+  const max_backward_distance = (1 << window_bits) - 16;
+  const ringbuffer_size = 1 << window_bits;
+  const ringbuffer_mask = ringbuffer_size - 1;
+  const ringbuffer = new Uint8Array(ringbuffer_size + kRingBufferWriteAheadSlack + maxDictionaryWordLength);
+  const ringbuffer_end = ringbuffer_size;
+  const block_type_trees = [];
+  const block_len_trees = [];
+  for (let x = 0; x < 3 * HUFFMAN_MAX_TABLE_SIZE; x++) {
+    block_type_trees[x] = new HuffmanCode(0, 0);
+    block_len_trees[x] = new HuffmanCode(0, 0);
+  }
+  while (!input_end) {
+    const block_length = [1 << 28, 1 << 28, 1 << 28];
+    const block_type = [0];
+    const num_block_types = [1, 1, 1];
+    const block_type_rb = [0, 1, 0, 1, 0, 1];
+    const block_type_rb_index = [0];
+    for (let i = 0; i < 3; i++) {
+      hgroup[i].codes = [];
+      hgroup[i].htrees = new Uint32Array();
+    }
+    br.readMoreInput();
+    const _out = decodeMetaBlockLength(br);
+    let meta_block_remaining_len = _out.meta_block_length;
+    if (pos + meta_block_remaining_len > output2.buffer.length) {
+      const tmp = new Uint8Array(pos + meta_block_remaining_len);
+      tmp.set(output2.buffer);
+      output2.buffer = tmp;
+    }
+    input_end = _out.input_end;
+    if (_out.is_metadata) {
+      jumpToByteBoundary(br);
+      for (; meta_block_remaining_len > 0; --meta_block_remaining_len) {
+        br.readMoreInput();
+        br.readBits(8);
+      }
+      continue;
+    }
+    if (meta_block_remaining_len === 0) continue;
+    if (_out.is_uncompressed) {
+      br.bit_pos_ = br.bit_pos_ + 7 & ~7;
+      copyUncompressedBlockToOutput(output2, meta_block_remaining_len, pos, ringbuffer, ringbuffer_mask, br);
+      pos += meta_block_remaining_len;
+      continue;
+    }
+    for (let i = 0; i < 3; i++) {
+      num_block_types[i] = decodeVarLenUint8(br) + 1;
+      if (num_block_types[i] >= 2) {
+        readHuffmanCode(num_block_types[i] + 2, block_type_trees, i * HUFFMAN_MAX_TABLE_SIZE, br);
+        readHuffmanCode(kNumBlockLengthCodes, block_len_trees, i * HUFFMAN_MAX_TABLE_SIZE, br);
+        block_length[i] = readBlockLength(block_len_trees, i * HUFFMAN_MAX_TABLE_SIZE, br);
+        block_type_rb_index[i] = 1;
+      }
+    }
+    br.readMoreInput();
+    const distance_postfix_bits = br.readBits(2);
+    const num_direct_distance_codes = NUM_DISTANCE_SHORT_CODES + (br.readBits(4) << distance_postfix_bits);
+    const distance_postfix_mask = (1 << distance_postfix_bits) - 1;
+    const num_distance_codes = num_direct_distance_codes + (48 << distance_postfix_bits);
+    const context_modes = new Uint8Array(num_block_types[0]);
+    for (let i = 0; i < num_block_types[0]; i++) {
+      br.readMoreInput();
+      context_modes[i] = br.readBits(2) << 1;
+    }
+    const [num_literal_htrees, context_map] = decodeContextMap(num_block_types[0] << kLiteralContextBits, br);
+    const [num_dist_htrees, dist_context_map] = decodeContextMap(num_block_types[2] << kDistanceContextBits, br);
+    hgroup[0] = new HuffmanTreeGroup(kNumLiteralCodes, num_literal_htrees);
+    hgroup[1] = new HuffmanTreeGroup(kNumInsertAndCopyCodes, num_block_types[1]);
+    hgroup[2] = new HuffmanTreeGroup(num_distance_codes, num_dist_htrees);
+    for (let i = 0; i < 3; ++i) {
+      hgroup[i].decode(br);
+    }
+    let context_map_slice = 0;
+    let dist_context_map_slice = 0;
+    let context_mode = context_modes[block_type[0]];
+    let context_lookup_offset1 = lookupOffsets[context_mode];
+    let context_lookup_offset2 = lookupOffsets[context_mode + 1];
+    let htree_command = hgroup[1].htrees[0];
+    while (meta_block_remaining_len > 0) {
+      let distance_code;
+      br.readMoreInput();
+      if (block_length[1] === 0) {
+        decodeBlockType(
+          num_block_types[1],
+          block_type_trees,
+          1,
+          block_type,
+          block_type_rb,
+          block_type_rb_index,
+          br
+        );
+        block_length[1] = readBlockLength(block_len_trees, HUFFMAN_MAX_TABLE_SIZE, br);
+        htree_command = hgroup[1].htrees[block_type[1]];
+      }
+      block_length[1]--;
+      const cmd_code = readSymbol(hgroup[1].codes, htree_command, br);
+      let range_idx = cmd_code >> 6;
+      if (range_idx >= 2) {
+        range_idx -= 2;
+        distance_code = -1;
+      } else {
+        distance_code = 0;
+      }
+      const insertIndex = kInsertRangeLut[range_idx] + (cmd_code >> 3 & 7);
+      const insertPrefix = kInsertLengthPrefixCode[insertIndex];
+      const insertLength = insertPrefix.offset + br.readBits(insertPrefix.nbits);
+      const copyIndex = kCopyRangeLut[range_idx] + (cmd_code & 7);
+      const copyCode = kCopyLengthPrefixCode[copyIndex];
+      const copyLength = copyCode.offset + br.readBits(copyCode.nbits);
+      let prev_byte1 = ringbuffer[pos - 1 & ringbuffer_mask];
+      let prev_byte2 = ringbuffer[pos - 2 & ringbuffer_mask];
+      for (let j = 0; j < insertLength; j++) {
+        br.readMoreInput();
+        if (block_length[0] === 0) {
+          decodeBlockType(
+            num_block_types[0],
+            block_type_trees,
+            0,
+            block_type,
+            block_type_rb,
+            block_type_rb_index,
+            br
+          );
+          block_length[0] = readBlockLength(block_len_trees, 0, br);
+          const context_offset = block_type[0] << kLiteralContextBits;
+          context_map_slice = context_offset;
+          context_mode = context_modes[block_type[0]];
+          context_lookup_offset1 = lookupOffsets[context_mode];
+          context_lookup_offset2 = lookupOffsets[context_mode + 1];
+        }
+        const context = lookup[context_lookup_offset1 + prev_byte1] | lookup[context_lookup_offset2 + prev_byte2];
+        const literal_htree_index = context_map[context_map_slice + context];
+        block_length[0]--;
+        prev_byte2 = prev_byte1;
+        prev_byte1 = readSymbol(hgroup[0].codes, hgroup[0].htrees[literal_htree_index], br);
+        ringbuffer[pos & ringbuffer_mask] = prev_byte1;
+        if ((pos & ringbuffer_mask) === ringbuffer_mask) {
+          output2.write(ringbuffer, ringbuffer_size);
+        }
+        pos++;
+      }
+      meta_block_remaining_len -= insertLength;
+      if (meta_block_remaining_len <= 0) break;
+      if (distance_code < 0) {
+        br.readMoreInput();
+        if (block_length[2] === 0) {
+          decodeBlockType(
+            num_block_types[2],
+            block_type_trees,
+            2,
+            block_type,
+            block_type_rb,
+            block_type_rb_index,
+            br
+          );
+          block_length[2] = readBlockLength(block_len_trees, 2 * HUFFMAN_MAX_TABLE_SIZE, br);
+          dist_context_map_slice = block_type[2] << kDistanceContextBits;
+        }
+        block_length[2]--;
+        const context = (copyLength > 4 ? 3 : copyLength - 2) & 255;
+        const dist_htree_index = dist_context_map[dist_context_map_slice + context];
+        distance_code = readSymbol(hgroup[2].codes, hgroup[2].htrees[dist_htree_index], br);
+        if (distance_code >= num_direct_distance_codes) {
+          distance_code -= num_direct_distance_codes;
+          const postfix = distance_code & distance_postfix_mask;
+          distance_code >>= distance_postfix_bits;
+          const nbits = (distance_code >> 1) + 1;
+          const offset = (2 + (distance_code & 1) << nbits) - 4;
+          distance_code = num_direct_distance_codes + (offset + br.readBits(nbits) << distance_postfix_bits) + postfix;
+        }
+      }
+      const distance = translateShortCodes(distance_code, dist_rb, dist_rb_idx);
+      if (distance < 0) throw new Error("[BrotliDecompress] invalid distance");
+      if (pos < max_backward_distance && max_distance !== max_backward_distance) {
+        max_distance = pos;
+      } else {
+        max_distance = max_backward_distance;
+      }
+      let copy_dst = pos & ringbuffer_mask;
+      if (distance > max_distance) {
+        if (copyLength >= minDictionaryWordLength && copyLength <= maxDictionaryWordLength) {
+          let offset = offsetsByLength[copyLength];
+          const word_id = distance - max_distance - 1;
+          const shift = sizeBitsByLength[copyLength];
+          const mask = (1 << shift) - 1;
+          const word_idx = word_id & mask;
+          const transform_idx = word_id >> shift;
+          offset += word_idx * copyLength;
+          if (transform_idx < kNumTransforms) {
+            const len = transformDictionaryWord(ringbuffer, copy_dst, offset, copyLength, transform_idx);
+            copy_dst += len;
+            pos += len;
+            meta_block_remaining_len -= len;
+            if (copy_dst >= ringbuffer_end) {
+              output2.write(ringbuffer, ringbuffer_size);
+              for (let _x = 0; _x < copy_dst - ringbuffer_end; _x++)
+                ringbuffer[_x] = ringbuffer[ringbuffer_end + _x];
+            }
+          } else {
+            throw new Error("Invalid backward reference");
+          }
+        } else {
+          throw new Error("Invalid backward reference");
+        }
+      } else {
+        if (distance_code > 0) {
+          dist_rb[dist_rb_idx & 3] = distance;
+          dist_rb_idx++;
+        }
+        if (copyLength > meta_block_remaining_len) {
+          throw new Error("Invalid backward reference");
+        }
+        for (let j = 0; j < copyLength; j++) {
+          ringbuffer[pos & ringbuffer_mask] = ringbuffer[pos - distance & ringbuffer_mask];
+          if ((pos & ringbuffer_mask) === ringbuffer_mask) {
+            output2.write(ringbuffer, ringbuffer_size);
+          }
+          pos++;
+          meta_block_remaining_len--;
+        }
+      }
+    }
+    pos &= 1073741823;
+  }
+  output2.write(ringbuffer, pos & ringbuffer_mask);
+}
+function translateShortCodes(code2, ringbuffer, index) {
+  if (code2 < NUM_DISTANCE_SHORT_CODES) {
+    index += kDistanceShortCodeIndexOffset[code2];
+    index &= 3;
+    return ringbuffer[index] + kDistanceShortCodeValueOffset[code2];
+  } else {
+    return code2 - NUM_DISTANCE_SHORT_CODES + 1;
+  }
+}
+
+// node_modules/hyparquet-compressors/src/lz4.js
+function decompressLz4(input2, outputLength) {
+  const output2 = new Uint8Array(outputLength);
+  try {
+    let i = 0;
+    let o = 0;
+    while (i < input2.length - 8) {
+      const expectedOutputLength = input2[i++] << 24 | input2[i++] << 16 | input2[i++] << 8 | input2[i++];
+      const expectedInputLength = input2[i++] << 24 | input2[i++] << 16 | input2[i++] << 8 | input2[i++];
+      if (input2.length - i < expectedInputLength) throw new Error("lz4 not hadoop");
+      if (output2.length < expectedOutputLength) throw new Error("lz4 not hadoop");
+      const chunk = lz4basic(input2.subarray(i, i + expectedInputLength), output2, o);
+      if (chunk !== expectedOutputLength) throw new Error("lz4 not hadoop");
+      i += expectedInputLength;
+      o += expectedOutputLength;
+      if (i === input2.length) return output2;
+    }
+    if (i < input2.length) throw new Error("lz4 not hadoop");
+  } catch (error62) {
+    if (error62 instanceof Error && error62.message !== "lz4 not hadoop") throw error62;
+    lz4basic(input2, output2, 0);
+  }
+  return output2;
+}
+function decompressLz4Raw(input2, outputLength) {
+  const output2 = new Uint8Array(outputLength);
+  lz4basic(input2, output2, 0);
+  return output2;
+}
+function lz4basic(input2, output2, outputIndex) {
+  let len = outputIndex;
+  for (let i = 0; i < input2.length; ) {
+    const token = input2[i++];
+    let literals = token >> 4;
+    if (literals) {
+      let byte2 = literals + 240;
+      while (byte2 === 255) literals += byte2 = input2[i++];
+      output2.set(input2.subarray(i, i + literals), len);
+      len += literals;
+      i += literals;
+      if (i >= input2.length) return len - outputIndex;
+    }
+    const offset = input2[i++] | input2[i++] << 8;
+    if (!offset || offset > len) {
+      throw new Error(`lz4 offset out of range ${offset}`);
+    }
+    let matchLength = token & 15;
+    let byte = matchLength + 240;
+    while (byte === 255) matchLength += byte = input2[i++];
+    matchLength += 4;
+    let pos = len - offset;
+    const end = len + matchLength;
+    while (len < end) output2[len++] = output2[pos++];
+  }
+  return len - outputIndex;
+}
+
+// node_modules/hyparquet-compressors/src/compressors.js
+var compressors = {
+  SNAPPY: snappyUncompressor(),
+  // loads wasm
+  GZIP: (input2, length2) => gunzip(input2, new Uint8Array(length2)),
+  BROTLI: decompressBrotli,
+  ZSTD: (input2) => decompress(input2),
+  LZ4: decompressLz4,
+  LZ4_RAW: decompressLz4Raw
+};
+
+// src/core/data/parse-parquet.ts
+async function parseParquet(bytes, options) {
+  const { source } = options;
+  let metadata;
+  try {
+    metadata = parquetMetadata(bytes);
+  } catch (error62) {
+    throw new UserError(
+      `${source} is not a readable Parquet file (${error62 instanceof Error ? error62.message : String(error62)}).`,
+      "Check that the path names a Parquet file and that it was written completely, or save the table as CSV instead."
+    );
+  }
+  const columns = parquetSchema(metadata).children;
+  for (const column of columns) {
+    if (column.children.length > 0 || column.element.repetition_type === "REPEATED") {
+      throw new UserError(
+        `${source}, column '${column.element.name}': the column is nested (a list, map or struct); plumbline reads flat columns.`,
+        "Write one flat column per feature (numbers, text, booleans or timestamps)."
+      );
+    }
+  }
+  const header = columns.map((c) => c.element.name);
+  if (Number(metadata.num_rows) === 0) {
+    throw new UserError(`${source} has a schema but no data rows.`, "Write the table with its rows, or check that the path names the right file.");
+  }
+  let records;
+  try {
+    records = await parquetReadObjects({ file: bytes, metadata, compressors });
+  } catch (error62) {
+    throw new UserError(
+      `${source}: the Parquet data cannot be decoded (${error62 instanceof Error ? error62.message : String(error62)}).`,
+      "Write the file again (Snappy, gzip, Brotli, LZ4 and Zstandard compression can be read), or save the table as CSV."
+    );
+  }
+  const rows = records.map((record3, i) => header.map((name) => cellText(record3[name], source, name, i)));
+  return tableToDataset({ header, rows, place: (row) => `row ${row + 1}`, headerPlace: "the schema" }, options);
+}
+function cellText(value3, source, column, row) {
+  if (value3 === null || value3 === void 0) return "";
+  switch (typeof value3) {
+    case "string":
+      return value3;
+    case "number":
+    case "bigint":
+      return String(value3);
+    case "boolean":
+      return value3 ? "true" : "false";
+  }
+  const iso = value3.toISOString;
+  if (typeof iso === "function") return iso.call(value3);
+  throw new UserError(
+    `${source}, row ${row + 1}, column '${column}': the value is ${value3 instanceof Uint8Array ? "binary data that is not UTF-8 text" : "not a number, text, boolean or timestamp"}.`,
+    "Write the column as numbers or text."
+  );
+}
+
+// src/adapters/files/read-parquet-dataset.ts
+async function readParquetDataset(path, options = {}) {
+  const { cwd = process.cwd(), source = path, ...parseOptions } = options;
+  const fullPath = resolve4(cwd, path);
+  const outside2 = (from, to) => {
+    const r = relative2(from, to);
+    return r === ".." || r.startsWith(`..${"/"}`) || r.startsWith("..\\") || isAbsolute2(r);
+  };
+  const refuseOutside = () => {
+    throw new UserError(
+      `The data file '${path}' is outside the repository (resolved against ${cwd}).`,
+      "Name a file inside the repository, with a path relative to its root."
+    );
+  };
+  if (outside2(cwd, fullPath)) refuseOutside();
+  let bytes;
+  try {
+    const [realRoot, realFile] = await Promise.all([realpath2(cwd), realpath2(fullPath)]);
+    if (outside2(realRoot, realFile)) refuseOutside();
+    bytes = await readFile(realFile);
+  } catch (error62) {
+    if (error62 instanceof UserError) throw error62;
+    const code2 = error62.code;
+    const problem = code2 === "ENOENT" ? "there is no such file" : code2 === "EISDIR" ? "it is a directory" : code2 === "EACCES" ? "permission denied" : void 0;
+    if (problem === void 0) throw error62;
+    throw new UserError(
+      `Cannot read the data file '${path}' (resolved against ${cwd}): ${problem}.`,
+      "Check the path: a relative path is read from that directory."
+    );
+  }
+  const buffer = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength);
+  return parseParquet(buffer, { ...parseOptions, source });
+}
+
+// src/adapters/files/read-table.ts
+function readTable(path, options = {}) {
+  return /\.parquet$/i.test(path) ? readParquetDataset(path, options) : readDataset(path, options);
+}
+
 // src/adapters/git/git.ts
 import { execFile } from "node:child_process";
 import { mkdtemp, rm } from "node:fs/promises";
@@ -44389,13 +53777,13 @@ function childEnvironment(extra = {}, options = {}) {
   const source = options.source ?? process.env;
   const allowed = /* @__PURE__ */ new Set([...commonNames, ...options.purpose === "git" ? gitNames : toolNames]);
   const kept = {};
-  for (const [name, value2] of Object.entries(source)) {
-    if (value2 === void 0) continue;
+  for (const [name, value3] of Object.entries(source)) {
+    if (value3 === void 0) continue;
     const isListed = allowed.has(name) || name.startsWith("PLUMBLINE_") || name.startsWith("LC_");
-    if (isListed && (name === "SSH_AUTH_SOCK" || !secretLookingName.test(name))) kept[name] = value2;
+    if (isListed && (name === "SSH_AUTH_SOCK" || !secretLookingName.test(name))) kept[name] = value3;
   }
-  for (const [name, value2] of Object.entries(extra)) {
-    if (!secretLookingName.test(name)) kept[name] = value2;
+  for (const [name, value3] of Object.entries(extra)) {
+    if (!secretLookingName.test(name)) kept[name] = value3;
   }
   return kept;
 }
@@ -44403,10 +53791,10 @@ function childEnvironment(extra = {}, options = {}) {
 // src/adapters/security/secrets.ts
 var secrets = /* @__PURE__ */ new Set();
 var redactedMark = "***";
-function registerSecret(value2) {
-  if (value2 === void 0) return;
-  const trimmed = value2.trim();
-  for (const candidate of [value2, trimmed]) {
+function registerSecret(value3) {
+  if (value3 === void 0) return;
+  const trimmed = value3.trim();
+  for (const candidate of [value3, trimmed]) {
     if (candidate.length < 4) continue;
     secrets.add(candidate);
     secrets.add(JSON.stringify(candidate).slice(1, -1));
@@ -44426,12 +53814,12 @@ function redactSecrets(text4) {
   }
   return result;
 }
-function redactDeep(value2, depth = 0) {
-  if (typeof value2 === "string") return redactSecrets(value2);
-  if (secrets.size === 0 || depth > 64 || value2 === null || typeof value2 !== "object") return value2;
-  if (Array.isArray(value2)) return value2.map((item) => redactDeep(item, depth + 1));
+function redactDeep(value3, depth = 0) {
+  if (typeof value3 === "string") return redactSecrets(value3);
+  if (secrets.size === 0 || depth > 64 || value3 === null || typeof value3 !== "object") return value3;
+  if (Array.isArray(value3)) return value3.map((item) => redactDeep(item, depth + 1));
   const copy = {};
-  for (const [key2, item] of Object.entries(value2)) copy[redactSecrets(key2)] = redactDeep(item, depth + 1);
+  for (const [key2, item] of Object.entries(value3)) copy[redactSecrets(key2)] = redactDeep(item, depth + 1);
   return copy;
 }
 
@@ -44532,7 +53920,7 @@ import { spawn } from "node:child_process";
 // src/adapters/security/finish-child.ts
 var PIPE_GRACE_MILLISECONDS = 1e3;
 function waitForChild(child2) {
-  return new Promise((resolve6) => {
+  return new Promise((resolve8) => {
     let graceTimer;
     let exited;
     let done = false;
@@ -44540,7 +53928,7 @@ function waitForChild(child2) {
       if (done) return;
       done = true;
       clearTimeout(graceTimer);
-      resolve6(outcome);
+      resolve8(outcome);
     };
     child2.on("error", (error62) => finish({ code: null, signal: null, startError: error62 }));
     child2.on("exit", (code2, signal) => {
@@ -44602,7 +53990,7 @@ ${tail || "(no output)"}`,
 
 // src/adapters/check/load-side-model.ts
 import { readdir } from "node:fs/promises";
-import { basename as basename2, dirname as dirname2, join as join4, resolve as resolve3 } from "node:path";
+import { basename as basename2, dirname as dirname2, join as join4, resolve as resolve5 } from "node:path";
 
 // src/adapters/onnx/load-onnx-model.ts
 var import_onnxruntime_node = __toESM(require_dist2(), 1);
@@ -44778,7 +54166,7 @@ function isFloatCast(node2) {
   const to = node2.attribute?.find((a) => a.name === "to")?.i;
   return to === OnnxDataType.FLOAT || to === OnnxDataType.DOUBLE;
 }
-function regressorTrees(attributes, round) {
+function regressorTrees(attributes, round2) {
   const post = stringOf(attributes, "post_transform") ?? "NONE";
   if (post !== "NONE") return { ok: false, reason: `TreeEnsembleRegressor post_transform ${post}` };
   const targets = attributes.get("n_targets")?.i ?? 1;
@@ -44786,9 +54174,9 @@ function regressorTrees(attributes, round) {
   const base = numbersOf(attributes, "base_values") ?? [0];
   const leaves = leafWeights(attributes, "target", (id) => id === 0);
   if (!leaves.ok) return leaves;
-  return buildTrees(attributes, leaves.weights, base[0] ?? 0, stringOf(attributes, "aggregate_function") ?? "SUM", "identity", round);
+  return buildTrees(attributes, leaves.weights, base[0] ?? 0, stringOf(attributes, "aggregate_function") ?? "SUM", "identity", round2);
 }
-function classifierTrees(attributes, positive, round) {
+function classifierTrees(attributes, positive, round2) {
   const labels = attributes.get("classlabels_strings")?.strings?.length ?? attributes.get("classlabels_int64s")?.ints?.length ?? 0;
   if (labels !== 2) return { ok: false, reason: `TreeEnsembleClassifier with ${labels} classes` };
   const ids = attributes.get("class_ids")?.ints ?? [];
@@ -44798,15 +54186,15 @@ function classifierTrees(attributes, positive, round) {
   const base = numbersOf(attributes, "base_values") ?? [0, 0];
   const leaves = leafWeights(attributes, "class", (id) => id === positive);
   if (!leaves.ok) return leaves;
-  return buildTrees(attributes, leaves.weights, base[positive] ?? 0, "SUM", "identity", round);
+  return buildTrees(attributes, leaves.weights, base[positive] ?? 0, "SUM", "identity", round2);
 }
-function leafWeights(attributes, prefix, keep, sign = () => 1) {
-  const treeIds = attributes.get(`${prefix}_treeids`)?.ints ?? [];
-  const nodeIds = attributes.get(`${prefix}_nodeids`)?.ints ?? [];
-  const ids = attributes.get(`${prefix}_ids`)?.ints ?? [];
-  const weights = numbersOf(attributes, `${prefix}_weights`) ?? [];
+function leafWeights(attributes, prefix2, keep, sign = () => 1) {
+  const treeIds = attributes.get(`${prefix2}_treeids`)?.ints ?? [];
+  const nodeIds = attributes.get(`${prefix2}_nodeids`)?.ints ?? [];
+  const ids = attributes.get(`${prefix2}_ids`)?.ints ?? [];
+  const weights = numbersOf(attributes, `${prefix2}_weights`) ?? [];
   if (treeIds.length !== nodeIds.length || treeIds.length !== ids.length || treeIds.length !== weights.length) {
-    return { ok: false, reason: `the ${prefix}_* attributes differ in length` };
+    return { ok: false, reason: `the ${prefix2}_* attributes differ in length` };
   }
   const out = /* @__PURE__ */ new Map();
   for (let k = 0; k < treeIds.length; k++) {
@@ -44816,7 +54204,7 @@ function leafWeights(attributes, prefix, keep, sign = () => 1) {
   }
   return { ok: true, weights: out };
 }
-function buildTrees(attributes, weights, baseScore, aggregate, link, round) {
+function buildTrees(attributes, weights, baseScore, aggregate, link, round2) {
   if (aggregate !== "SUM" && aggregate !== "AVERAGE") return { ok: false, reason: `aggregate_function ${aggregate}` };
   const treeIds = attributes.get("nodes_treeids")?.ints ?? [];
   const nodeIds = attributes.get("nodes_nodeids")?.ints ?? [];
@@ -44862,7 +54250,7 @@ function buildTrees(attributes, weights, baseScore, aggregate, link, round) {
       const no2 = index.get(falseIds[k]);
       if (yes === void 0 || no2 === void 0) return { ok: false, reason: `tree ${treeId} node ${nodeIds[k]} points at a node it does not have` };
       const missingTrue = (tracks[k] ?? 0) === 1;
-      const t = round ? Math.fround(values[k]) : values[k];
+      const t = round2 ? Math.fround(values[k]) : values[k];
       let lessEqual;
       let trueIsLeft;
       if (mode === "BRANCH_LEQ") [lessEqual, trueIsLeft] = [t, true];
@@ -44922,8 +54310,8 @@ function nextDown(x) {
   if (x !== x || x === -Infinity) return x;
   if (x === 0) return -Number.MIN_VALUE;
   const buffer = new Float64Array([x]);
-  const bits = new BigInt64Array(buffer.buffer);
-  bits[0] += x > 0 ? -1n : 1n;
+  const bits2 = new BigInt64Array(buffer.buffer);
+  bits2[0] += x > 0 ? -1n : 1n;
   return buffer[0];
 }
 function stringOf(attributes, name) {
@@ -44990,24 +54378,24 @@ async function loadOnnxModel(bytes, options) {
       `Check that '${options.source}' is a complete .onnx file: export it again, and if it is stored with Git LFS, check it out with LFS so that the file is not a pointer.`
     );
   }
-  let summary2;
+  let summary3;
   try {
-    summary2 = readOnnxSummary(bytes);
+    summary3 = readOnnxSummary(bytes);
   } catch (error62) {
     throw new UserError(
       `The ONNX model '${options.source}' has metadata or class labels that cannot be read (${error62 instanceof Error ? error62.message.slice(0, 120) : "unreadable"}).`,
       `Export '${options.source}' again; a file changed after export (or stored as a Git LFS pointer) reads this way.`
     );
   }
-  const inputs = planInputs(session.inputMetadata, options, summary2);
-  const output2 = options.task === "regression" ? planRegressionOutput(session.outputMetadata, options.source) : planProbabilityOutput(session.outputMetadata, options, summary2);
+  const inputs = planInputs(session.inputMetadata, options, summary3);
+  const output2 = options.task === "regression" ? planRegressionOutput(session.outputMetadata, options.source) : planProbabilityOutput(session.outputMetadata, options, summary3);
   const { source } = options;
   const featureNames = inputs.featureNames;
   const parsed = inputs.isMatrix && options.evaluator !== "onnxruntime" ? readTrees(bytes, options.task, output2) : void 0;
   let trees = parsed?.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : void 0;
   let checked = false;
   let engine = trees ? "plumbline-trees" : "onnxruntime";
-  const evaluate = (matrix, ensemble) => createTreeReplacementPredictor(ensemble, matrix)?.predict(/* @__PURE__ */ new Map(), 1);
+  const evaluate2 = (matrix, ensemble) => createTreeReplacementPredictor(ensemble, matrix)?.predict(/* @__PURE__ */ new Map(), 1);
   const runSession = async (matrix) => {
     const out = new Float64Array(matrix.rows);
     for (let start = 0; start < matrix.rows; start += batchRows) {
@@ -45040,15 +54428,15 @@ async function loadOnnxModel(bytes, options) {
       }
       if (trees && !checked) {
         checked = true;
-        const sample = selectRows(matrix, Array.from({ length: Math.min(CHECK_ROWS, matrix.rows) }, (_, i) => i));
-        const ours = evaluate(sample, trees);
-        const theirs = await runSession(sample);
+        const sample2 = selectRows(matrix, Array.from({ length: Math.min(CHECK_ROWS, matrix.rows) }, (_, i) => i));
+        const ours = evaluate2(sample2, trees);
+        const theirs = await runSession(sample2);
         if (!ours || ours.some((p, i) => !(Math.abs(p - theirs[i]) <= AGREEMENT * Math.max(1, Math.abs(theirs[i]))))) {
           trees = void 0;
           engine = "onnxruntime";
         }
       }
-      if (trees) return evaluate(matrix, trees);
+      if (trees) return evaluate2(matrix, trees);
       return runSession(matrix);
     },
     createReplacementPredictor(base) {
@@ -45058,14 +54446,14 @@ async function loadOnnxModel(bytes, options) {
 }
 var CHECK_ROWS = 2048;
 var AGREEMENT = 1e-5;
-function planInputs(inputs, options, summary2) {
+function planInputs(inputs, options, summary3) {
   const byName = new Map(options.features.map((f) => [f.name, f]));
   const mismatch = (problem, fix) => new UserError(`${problem}
 Model inputs: ${describeValues(inputs)}
 Data columns: ${describeColumns(options.features)}`, fix);
   const perColumnFix = `Name each model input after the data column it reads, or export one float input [N, F] and list its columns in order under 'model.onnx.features'.`;
   if (inputs.length === 0) throw mismatch(`The ONNX model '${options.source}' has no inputs.`, perColumnFix);
-  if (inputs.length === 1 && !byName.has(inputs[0].name)) return planMatrixInput(inputs[0], options, summary2, mismatch);
+  if (inputs.length === 1 && !byName.has(inputs[0].name)) return planMatrixInput(inputs[0], options, summary3, mismatch);
   for (const input2 of inputs) {
     const feature = byName.get(input2.name);
     if (!feature) throw mismatch(`The ONNX model '${options.source}' has an input '${input2.name}' that matches no data column.`, perColumnFix);
@@ -45102,7 +54490,7 @@ Data columns: ${describeColumns(options.features)}`, fix);
     }
   };
 }
-function planMatrixInput(input2, options, summary2, mismatch) {
+function planMatrixInput(input2, options, summary3, mismatch) {
   const { source } = options;
   const orderFix = `List the columns in order under 'model.onnx.features' in plumbline.yml, or store them in the model as metadata '${FEATURES_METADATA_KEY}' (a JSON array of column names).`;
   if (!input2.isTensor || input2.type !== "float32" && input2.type !== "float64") {
@@ -45116,7 +54504,7 @@ function planMatrixInput(input2, options, summary2, mismatch) {
   }
   let order3;
   let origin;
-  const stored = summary2.metadata.get(FEATURES_METADATA_KEY);
+  const stored = summary3.metadata.get(FEATURES_METADATA_KEY);
   if (options.featureOrder) {
     order3 = options.featureOrder;
     origin = `'model.onnx.features'`;
@@ -45186,15 +54574,15 @@ function columnTensor(input2, feature, column, start, end, source) {
     case "int64": {
       const data = new BigInt64Array(rows);
       for (let i = 0; i < rows; i++) {
-        const value2 = column[start + i];
-        if (!Number.isInteger(value2)) {
-          const what = Number.isNaN(value2) ? "a missing value" : `the value ${value2}`;
+        const value3 = column[start + i];
+        if (!Number.isInteger(value3)) {
+          const what = Number.isNaN(value3) ? "a missing value" : `the value ${value3}`;
           throw new UserError(
             `The ONNX model '${source}' takes column '${input2.name}' as int64, but the data has ${what} there (row ${start + i + 1} of the rows scored).`,
             `Export the model with a float input for '${input2.name}' (float inputs take missing values as NaN), or fill in the column before training and scoring.`
           );
         }
-        data[i] = BigInt(value2);
+        data[i] = BigInt(value3);
       }
       return new import_onnxruntime_node.default.Tensor("int64", data, dims);
     }
@@ -45220,7 +54608,7 @@ function columnTensor(input2, feature, column, start, end, source) {
       throw new InternalError(`unplanned input type ${input2.type}`);
   }
 }
-var isFloatTensor = (value2) => value2.isTensor && (value2.type === "float32" || value2.type === "float64");
+var isFloatTensor = (value3) => value3.isTensor && (value3.type === "float32" || value3.type === "float64");
 function outputError(problem, outputs, fix) {
   return new UserError(`${problem}
 Model outputs: ${describeValues(outputs)}`, fix);
@@ -45237,8 +54625,8 @@ function planRegressionOutput(outputs, source) {
   }
   return {
     name: output2.name,
-    copy(value2, start, end, out) {
-      const tensor = value2;
+    copy(value3, start, end, out) {
+      const tensor = value3;
       const rows = end - start;
       const dims = tensor.dims;
       if (!(dims[0] === rows && (dims.length === 1 || dims.length === 2 && dims[1] === 1))) {
@@ -45248,7 +54636,7 @@ function planRegressionOutput(outputs, source) {
     }
   };
 }
-function planProbabilityOutput(outputs, options, summary2) {
+function planProbabilityOutput(outputs, options, summary3) {
   const { source } = options;
   const fix = `Export the classifier with an output holding the class probabilities as a float tensor [N, 2] (name it 'probabilities' if it has several float outputs).`;
   const floats = outputs.filter(isFloatTensor);
@@ -45269,13 +54657,13 @@ function planProbabilityOutput(outputs, options, summary2) {
   if (output2.shape.length !== 2 || typeof width === "number" && width >= 0 && width !== 2) {
     throw outputError(`The ONNX model '${source}' output '${output2.name}' has shape ${describeShape(output2.shape)}; a binary model's probabilities must be [N, 2].`, outputs, fix);
   }
-  const labels = summary2.classLabelsByOutput.get(output2.name) ?? (summary2.classLabelSets.length === 1 ? summary2.classLabelSets[0] : void 0);
+  const labels = summary3.classLabelsByOutput.get(output2.name) ?? (summary3.classLabelSets.length === 1 ? summary3.classLabelSets[0] : void 0);
   const positive = positiveColumn(options.positiveClass, labels, source, output2.name);
   return {
     name: output2.name,
     positive,
-    copy(value2, start, end, out) {
-      const tensor = value2;
+    copy(value3, start, end, out) {
+      const tensor = value3;
       const rows = end - start;
       if (!(tensor.dims.length === 2 && tensor.dims[0] === rows && tensor.dims[1] === 2)) {
         throw outputError(`The ONNX model '${source}' output '${output2.name}' came back with shape [${tensor.dims.join(", ")}] for ${rows} rows; a binary model's probabilities must be [N, 2].`, outputs, fix);
@@ -45364,7 +54752,7 @@ function createSemaphore(limit) {
       running++;
       return Promise.resolve();
     }
-    return new Promise((resolve6) => waiting.push(resolve6));
+    return new Promise((resolve8) => waiting.push(resolve8));
   };
   const release = () => {
     const next = waiting.shift();
@@ -45411,7 +54799,7 @@ Command: ${cleanOutsideText(request.command)}
 ${describeLog(logTail)}`,
     fix
   );
-  const reproduce = `To reproduce it, run the command in ${request.cwd} with ${Object.entries(env).map(([name, value2]) => `${name}=${shellQuote(value2)}`).join(" ")}`;
+  const reproduce = `To reproduce it, run the command in ${request.cwd} with ${Object.entries(env).map(([name, value3]) => `${name}=${shellQuote(value3)}`).join(" ")}`;
   if (outcome.startError) {
     throw new UserError(
       `The training command for ${request.label} could not be started in ${request.cwd}: ${outcome.startError.message}`,
@@ -45449,7 +54837,7 @@ ${describeLog(logTail)}`,
 }
 function runInProcessGroup(request, env) {
   const log = new LogTail();
-  return new Promise((resolve6) => {
+  return new Promise((resolve8) => {
     const child2 = spawn2("/bin/sh", ["-c", 'exec 2>&1; exec /bin/sh -c "$1"', "plumbline-train", request.command], {
       cwd: request.cwd,
       env: childEnvironment(env),
@@ -45486,7 +54874,7 @@ function runInProcessGroup(request, env) {
       clearTimeout(timeout);
       clearTimeout(killTimer);
       request.signal?.removeEventListener("abort", onAbort);
-      resolve6({ log, timedOut, stoppedBecause, ...outcome });
+      resolve8({ log, timedOut, stoppedBecause, ...outcome });
     });
   });
 }
@@ -45508,8 +54896,8 @@ function describeLog(logTail) {
   return `${count4 === 1 ? "The last line" : `The last ${count4} lines`} of its output:
 ${logTail}`;
 }
-function shellQuote(value2) {
-  return /^[\w@%+=:,./-]+$/.test(value2) ? value2 : `'${value2.replace(/'/g, `'\\''`)}'`;
+function shellQuote(value3) {
+  return /^[\w@%+=:,./-]+$/.test(value3) ? value3 : `'${value3.replace(/'/g, `'\\''`)}'`;
 }
 
 // src/adapters/training/create-command-fit.ts
@@ -45601,7 +54989,7 @@ async function loadSideModel(config2, side2) {
         maxBytes: readLimits.model,
         what: "ONNX model",
         missing: () => new UserError(
-          `No ONNX model at ${model.path} on the ${side2.side} side (looked for ${resolve3(side2.checkout, path)}).`,
+          `No ONNX model at ${model.path} on the ${side2.side} side (looked for ${resolve5(side2.checkout, path)}).`,
           "Commit the model file on both sides, build it in 'prepare', or fix 'model.onnx.path' in the policy."
         ),
         limitFix: "Export a smaller model (fewer or shallower trees), or check that model.onnx.path names the model file."
@@ -45635,8 +55023,8 @@ async function loadSideModel(config2, side2) {
         sides: {
           [side2.side]: {
             cwd: side2.checkout,
-            train: resolve3(side2.checkout, config2.data.train),
-            holdout: resolve3(side2.checkout, config2.data.holdout.path)
+            train: resolve5(side2.checkout, config2.data.train),
+            holdout: resolve5(side2.checkout, config2.data.holdout.path)
           }
         },
         task: config2.task,
@@ -45679,14 +55067,14 @@ var kMovable = /* @__PURE__ */ Symbol("Tinypool.kMovable");
 var kTransferable = /* @__PURE__ */ Symbol.for("Tinypool.transferable");
 var kValue = /* @__PURE__ */ Symbol.for("Tinypool.valueOf");
 var kQueueOptions = /* @__PURE__ */ Symbol.for("Tinypool.queueOptions");
-function isTransferable(value2) {
-  return value2 != null && typeof value2 === "object" && kTransferable in value2 && kValue in value2;
+function isTransferable(value3) {
+  return value3 != null && typeof value3 === "object" && kTransferable in value3 && kValue in value3;
 }
-function isMovable(value2) {
-  return isTransferable(value2) && value2[kMovable] === true;
+function isMovable(value3) {
+  return isTransferable(value3) && value3[kMovable] === true;
 }
-function markMovable(value2) {
-  Object.defineProperty(value2, kMovable, {
+function markMovable(value3) {
+  Object.defineProperty(value3, kMovable, {
     enumerable: false,
     configurable: true,
     writable: true,
@@ -45907,8 +55295,8 @@ var kDefaultRunOptions = {
 };
 var DirectlyTransferable = class {
   #value;
-  constructor(value2) {
-    this.#value = value2;
+  constructor(value3) {
+    this.#value = value3;
   }
   get [kTransferable]() {
     return this.#value;
@@ -45964,9 +55352,9 @@ var TaskInfo = class extends AsyncResource {
     this.task = null;
     return ret;
   }
-  done(err, result) {
+  done(err2, result) {
     this.emitDestroy();
-    this.runInAsyncScope(this.callback, null, err, result);
+    this.runInAsyncScope(this.callback, null, err2, result);
     if (this.abortSignal && this.abortListener) if ("removeEventListener" in this.abortSignal && this.abortListener) this.abortSignal.removeEventListener("abort", this.abortListener);
     else this.abortSignal.off("abort", this.abortListener);
   }
@@ -46064,10 +55452,10 @@ var WorkerInfo = class extends AsynchronouslyCreatedResource {
     this.sharedBuffer = new Int32Array(new SharedArrayBuffer(kFieldCount * Int32Array.BYTES_PER_ELEMENT));
   }
   async destroy(timeout) {
-    let resolve6;
+    let resolve8;
     let reject;
     const ret = new Promise((res, rej) => {
-      resolve6 = res;
+      resolve8 = res;
       reject = rej;
     });
     if (this.teardown && this.filename) {
@@ -46083,7 +55471,7 @@ var WorkerInfo = class extends AsynchronouslyCreatedResource {
       this.clearIdleTimeout();
       for (const taskInfo of this.taskInfos.values()) taskInfo.done(Errors.ThreadTermination());
       this.taskInfos.clear();
-      resolve6();
+      resolve8();
     });
     return ret;
   }
@@ -46117,8 +55505,8 @@ var WorkerInfo = class extends AsynchronouslyCreatedResource {
     try {
       if (taskInfo.channel) this.worker.setChannel?.(taskInfo.channel);
       this.port.postMessage(message, taskInfo.transferList);
-    } catch (err) {
-      taskInfo.done(err);
+    } catch (err2) {
+      taskInfo.done(err2);
       return;
     }
     taskInfo.workerInfo = this;
@@ -46210,8 +55598,8 @@ var ThreadPool = class {
       workerInfo.taskInfos.delete(taskId);
       if (!this.shouldRecycleWorker(taskInfo)) this.workers.maybeAvailable(workerInfo);
       if (taskInfo === void 0) {
-        const err = new Error(`Unexpected message from Worker: ${inspect(message$1)}`);
-        this.publicInterface.emit("error", err);
+        const err2 = new Error(`Unexpected message from Worker: ${inspect(message$1)}`);
+        this.publicInterface.emit("error", err2);
       } else taskInfo.done(message$1.error, result);
       this._processPendingMessages();
     };
@@ -46235,7 +55623,7 @@ var ThreadPool = class {
       }
       worker.emit("error", new Error(`Unexpected message on Worker: ${inspect(message$1)}`));
     });
-    worker.on("error", (err) => {
+    worker.on("error", (err2) => {
       worker.ref = () => {
       };
       const taskInfos = [...workerInfo.taskInfos.values()];
@@ -46243,8 +55631,8 @@ var ThreadPool = class {
       this._removeWorker(workerInfo);
       if (workerInfo.isReady() && !this.workerFailsDuringBootstrap) this._ensureMinimumWorkers();
       else this.workerFailsDuringBootstrap = true;
-      if (taskInfos.length > 0) for (const taskInfo of taskInfos) taskInfo.done(err, null);
-      else this.publicInterface.emit("error", err);
+      if (taskInfos.length > 0) for (const taskInfo of taskInfos) taskInfo.done(err2, null);
+      else this.publicInterface.emit("error", err2);
     });
     worker.unref();
     port1.on("close", () => {
@@ -46291,17 +55679,17 @@ var ThreadPool = class {
     if (name == null) name = this.options.name;
     if (typeof filename !== "string" && !(filename instanceof URL2)) return Promise.reject(Errors.FilenameNotProvided());
     filename = maybeFileURLToPath(filename);
-    let resolve6;
+    let resolve8;
     let reject;
     const ret = new Promise((res, rej) => {
-      resolve6 = res;
+      resolve8 = res;
       reject = rej;
     });
-    const taskInfo = new TaskInfo(task, transferList, filename, name, (err, result) => {
+    const taskInfo = new TaskInfo(task, transferList, filename, name, (err2, result) => {
       this.completed++;
-      if (err !== null) reject(err);
-      if (this.shouldRecycleWorker(taskInfo)) this._removeWorker(taskInfo.workerInfo).then(() => this._ensureMinimumWorkers()).then(() => this._ensureEnoughWorkersForTaskQueue()).then(() => resolve6(result)).catch(reject);
-      else resolve6(result);
+      if (err2 !== null) reject(err2);
+      if (this.shouldRecycleWorker(taskInfo)) this._removeWorker(taskInfo.workerInfo).then(() => this._ensureMinimumWorkers()).then(() => this._ensureEnoughWorkersForTaskQueue()).then(() => resolve8(result)).catch(reject);
+      else resolve8(result);
     }, signal, this.publicInterface.asyncResource.asyncId(), channel);
     if (signal !== null) {
       if (signal.aborted) return Promise.reject(new AbortError());
@@ -46492,8 +55880,13 @@ async function inPool(pool, job) {
   const { onRefit, metric, ...options } = job.options;
   const train3 = shareDataset(job.inputs.train);
   const holdout = shareDataset(job.inputs.holdout);
-  const capped = sideRows({ holdout, reference: shareMatrix(job.inputs.reference) }, options);
-  const rows = { evaluation: shareDataset(capped.evaluation), reference: shareMatrix(capped.reference) };
+  const capped = sideRows({ holdout, reference: shareMatrix(job.inputs.reference), unlabeled: job.inputs.unlabeled }, options);
+  const rows = {
+    evaluation: shareDataset(capped.evaluation),
+    reference: shareMatrix(capped.reference),
+    ...capped.unlabeled ? { unlabeled: shareMatrix(capped.unlabeled) } : {},
+    slices: capped.slices.map((slice) => ({ ...slice, data: shareDataset(slice.data) }))
+  };
   const binned = builtin.settings.learner === "gradient-boosting" ? binFeatures(train3, { maxBins: builtin.settings.maxBins, shared: true }) : void 0;
   const seeds = sideRefitSeeds(job.inputs, options);
   const parts = await Promise.all(
@@ -46585,7 +55978,7 @@ async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
   const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout, rootName: `the ${side2} checkout` };
   const tables = {};
   for (const file2 of sideDataFiles(config2)) {
-    tables[file2.role] = await readDataset(file2.path, {
+    tables[file2.role] = await readTable(file2.path, {
       ...readOptions,
       key: file2.key,
       source: `${side2}: ${file2.path}`,
@@ -46593,12 +55986,12 @@ async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
       ...file2.conformToTrain ? { schema: schemaOf(tables.train) } : {}
     });
   }
-  const { train: train3, holdout, reference } = assembleSideData(config2, tables);
+  const { train: train3, holdout, reference, unlabeled } = assembleSideData(config2, tables);
   checkPolicyAgainstColumns(policy, [...train3.features.map((f) => f.name), ...train3.ids ? [train3.ids.name] : []]);
   checkSizes(side2, config2, train3, holdout, log);
   log(`${side2}: ${train3.rows} training rows, ${holdout.rows} holdout rows, ${train3.features.length} features`);
   const model = config2.model.kind === "builtin" ? { kind: "builtin" } : await loadSideModel(config2, { checkout, side: side2, train: train3, holdout, log });
-  return { ref, commit, train: train3, holdout, reference, model };
+  return { ref, commit, train: train3, holdout, reference, ...unlabeled ? { unlabeled } : {}, model };
 }
 var minimumRows = { train: 20, holdout: 10 };
 var smallRows = { train: 200, holdout: 100 };
@@ -46623,7 +56016,7 @@ function checkSizes(side2, config2, train3, holdout, log) {
   }
 }
 function toRepoPath(path) {
-  return (isAbsolute2(path) ? relative2(resolve4("/"), path) : path).split("\\").join("/");
+  return (isAbsolute3(path) ? relative3(resolve6("/"), path) : path).split("\\").join("/");
 }
 
 // src/adapters/cli/args.ts
@@ -46756,8 +56149,8 @@ function closestOption(typed, options) {
 }
 
 // src/adapters/cli/init.ts
-import { access, mkdir, readFile, readdir as readdir2, writeFile } from "node:fs/promises";
-import { dirname as dirname3, join as join5, resolve as resolve5 } from "node:path";
+import { access, mkdir, readFile as readFile2, readdir as readdir2, writeFile } from "node:fs/promises";
+import { dirname as dirname3, join as join5, resolve as resolve7 } from "node:path";
 
 // src/core/policy/render-starter-policy.ts
 var labelNames = ["target", "label", "y", "outcome"];
@@ -46911,9 +56304,10 @@ function renderStarterPolicy(input2) {
     optional3(1, `reference_rows: ${defaultImportance.referenceRows}`),
     optional3(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
     optional3(1, "groups:", "columns permuted together and reported as one"),
-    optional3(2, `group_name: ${example(numeric, ["column_a", "column_b"])}`)
+    optional3(2, `group_name: ${example(numeric, ["column_a", "column_b"])}`),
+    optional3(1, `group_threshold: ${defaultImportance.groupThreshold}`, "automatic groups: numeric columns with |Spearman| at or above this")
   ]);
-  const { leakage, rankShift, score: score2, holdoutRows } = defaultChecks;
+  const { leakage, rankShift, score: score2, holdoutRows, sensitivity, gain, slices, correlatedGroups: correlatedGroups2 } = defaultChecks;
   const checks = renderBlock([
     key(0, "checks:"),
     key(1, "leakage:", "one feature carries the model"),
@@ -46932,10 +56326,31 @@ function renderStarterPolicy(input2) {
     optional3(2, `tolerance: ${score2.tolerance}`, "in metric units"),
     optional3(2, `alpha: ${score2.alpha}`),
     key(1, "holdout_rows:", "the holdout rows differ between base and head"),
-    key(2, `action: ${holdoutRows.action}`)
+    key(2, `action: ${holdoutRows.action}`),
+    key(1, "sensitivity:", "how much predictions move when a feature is replaced (no labels needed)"),
+    key(2, `action: ${sensitivity.action}`),
+    optional3(2, `false_discovery_rate: ${sensitivity.falseDiscoveryRate}`),
+    optional3(2, `min_relative_change: ${sensitivity.minRelativeChange}`),
+    optional3(2, `unlabeled_ratio: ${sensitivity.unlabeledRatio}`, "data.unlabeled against the holdout"),
+    optional3(2, `min_share: ${sensitivity.minShare}`),
+    key(1, "gain:", "the built-in trees split on a feature that does not help on the holdout"),
+    key(2, `action: ${gain.action}`),
+    optional3(2, `top_ranks: ${gain.topRanks}`),
+    optional3(2, `min_gain_share: ${gain.minGainShare}`),
+    optional3(2, `min_distinct: ${gain.minDistinct}`),
+    key(1, "correlated_groups:", "a feature that looks unimportant alone while its correlated group matters"),
+    key(2, `action: ${correlatedGroups2.action}`, "warn, info or off (off: no automatic groups)"),
+    key(1, "slices:", "the policy slices below: score and importance on their rows"),
+    key(2, `action: ${slices.action}`),
+    optional3(2, `min_rows: ${slices.minRows}`, "smaller slices are reported as too small")
+  ]);
+  const sliceBlock = renderBlock([
+    optional3(0, "slices:", "named parts of the holdout, judged on their own"),
+    optional3(1, "- name: one depot"),
+    optional3(2, "where: { column: a_column, equals: a_value }", "also in, at_least, below, between, is_missing; all_of / any_of")
   ]);
   const report = renderBlock([key(0, "report:"), optional3(1, `max_table_rows: ${defaultReport.maxTableRows}`)]);
-  return `${[header, top, data, prepare, model, importance, checks, report].join("\n\n")}
+  return `${[header, top, data, prepare, model, importance, checks, sliceBlock, report].join("\n\n")}
 `;
 }
 
@@ -46958,12 +56373,12 @@ function summarizeColumns(data) {
 // src/adapters/cli/init.ts
 async function init(command, io) {
   const root2 = await repositoryRoot(io.cwd).catch(() => io.cwd);
-  const output2 = resolve5(io.cwd, command.output);
+  const output2 = resolve7(io.cwd, command.output);
   if (!command.force && await exists(output2)) {
     throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
   }
   const trainPath = command.train ?? await findTrainingTable(root2);
-  const text4 = await readFile(resolve5(root2, trainPath), "utf8").catch(() => {
+  const text4 = await readFile2(resolve7(root2, trainPath), "utf8").catch(() => {
     throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
   });
   const data = parseCsv(text4, { source: trainPath, requireTarget: false });

@@ -39,7 +39,39 @@ export interface GateConfig {
   readonly model: ModelConfig
   readonly importance: ImportanceConfig
   readonly checks: ChecksConfig
+  /** Named subsets of the holdout rows, each scored and measured on its own (policy `slices`). */
+  readonly slices: readonly SliceConfig[]
   readonly report: ReportConfig
+}
+
+/**
+ * A row filter, as data (no formula language): one comparison of a column, or all / any of several
+ * filters. `equals` and `in` hold text as written (a number for a numeric column); `between` is
+ * [low, high): low included, high excluded.
+ */
+export type SliceFilter =
+  | {
+      readonly column: string
+      readonly equals?: string
+      readonly in?: readonly string[]
+      readonly atLeast?: number
+      readonly below?: number
+      readonly between?: readonly [number, number]
+      readonly isMissing?: boolean
+    }
+  | { readonly allOf: readonly SliceFilter[] }
+  | { readonly anyOf: readonly SliceFilter[] }
+
+export interface SliceConfig {
+  readonly name: string
+  readonly where: SliceFilter
+}
+
+/** Per-slice checks (policy `checks.slices`). */
+export interface SlicesCheckConfig {
+  readonly action: CheckAction
+  /** Slices with fewer holdout rows on the head side are reported as too small and not judged. */
+  readonly minRows: number
 }
 
 export interface DataConfig {
@@ -109,6 +141,8 @@ export interface ImportanceConfig {
   readonly evaluationRows: number
   /** Group name -> member columns, permuted jointly (null-prototype object). */
   readonly groups: Readonly<Record<string, readonly string[]>>
+  /** Automatic groups: numeric features linked by |Spearman rho| at or above this (single linkage). */
+  readonly groupThreshold: number
 }
 
 /** The policy's settings of each check are the check's own options, less what the gate fills in. */
@@ -118,7 +152,41 @@ export type RankShiftCheckConfig = Omit<RankShiftOptions, 'minRelativeChange'> &
 
 export type ScoreCheckConfig = Omit<ScoreRegressionOptions, 'metric' | 'higherIsBetter' | 'blockAtSds'>
 
+/** Prediction sensitivity (policy `checks.sensitivity`): changes between the sides, and unlabeled rows against the holdout. */
+export interface SensitivityCheckConfig {
+  readonly action: CheckAction
+  /** Benjamini–Hochberg level over features for "this feature's sensitivity changed". */
+  readonly falseDiscoveryRate: number
+  /** A significant change counts when it is at least this share of the larger side's value. */
+  readonly minRelativeChange: number
+  /** Unlabeled rows against the holdout: flagged at this ratio (or its inverse) and beyond noise. */
+  readonly unlabeledRatio: number
+  /** Only features whose sensitivity is at least this share of the side's largest one are judged. */
+  readonly minShare: number
+}
+
+/** Built-in gain importance (policy `checks.gain`): a feature the trees split on much that does not help on the holdout. */
+export interface GainCheckConfig {
+  readonly action: CheckAction
+  /** Judged when among this many top features by gain. */
+  readonly topRanks: number
+  /** ... and with at least this share of the model's total gain. */
+  readonly minGainShare: number
+  /** ... and with at least this many distinct values in the training rows (high cardinality). */
+  readonly minDistinct: number
+}
+
+/** Correlated groups (policy `checks.correlated_groups`): a member that looks unimportant alone while its group matters. */
+export interface GroupsCheckConfig {
+  /** off also skips the automatic groups. */
+  readonly action: 'warn' | 'info' | 'off'
+}
+
 export interface ChecksConfig {
+  readonly correlatedGroups: GroupsCheckConfig
+  readonly sensitivity: SensitivityCheckConfig
+  readonly gain: GainCheckConfig
+  readonly slices: SlicesCheckConfig
   readonly leakage: LeakageCheckConfig
   readonly rankShift: RankShiftCheckConfig
   readonly score: ScoreCheckConfig

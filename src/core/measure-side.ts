@@ -2,6 +2,7 @@ import type { Dataset, FeatureMatrix, Task } from './data/dataset.ts'
 import { selectFeatures, selectRows } from './data/dataset.ts'
 import { computeNoiseFloor, type FlooredImportance } from './importance/compute-noise-floor.ts'
 import { permutationImportance, type FeatureGroup, type ImportanceEstimate } from './importance/permutation-importance.ts'
+import { predictionSensitivity, type SensitivityEstimate } from './importance/prediction-sensitivity.ts'
 import type { Metric } from './metrics/metric.ts'
 import { rocAuc } from './metrics/roc-auc.ts'
 import { rSquared } from './metrics/r-squared.ts'
@@ -17,6 +18,8 @@ export interface MeasureSideInputs {
   /** Refits the model; or, for a loaded model, `model` is given and there is one "refit". */
   readonly fit?: Fit
   readonly model?: Model
+  /** Rows without labels, for prediction sensitivity (capped like the holdout). */
+  readonly unlabeled?: FeatureMatrix
 }
 
 export interface MeasureSideOptions {
@@ -33,6 +36,32 @@ export interface MeasureSideOptions {
   readonly onRefit?: (refit: number, of: number) => void
   /** Ask the fit for every refit at once (training commands, which run up to their own parallel limit). */
   readonly concurrentFits?: boolean
+  /** Measure prediction sensitivity in every refit (on the capped holdout, and on `unlabeled`). */
+  readonly sensitivity?: { readonly threshold?: number }
+  /** Policy slices of the holdout (row indices) to score and measure importance on, in every refit. */
+  readonly slices?: readonly { readonly name: string; readonly rows: Uint32Array }[]
+}
+
+/** One policy slice on one side: per-refit scores on its rows, and importance measured on them. */
+export interface SliceMeasurement {
+  readonly name: string
+  readonly rows: number
+  readonly scores: readonly number[]
+  readonly importances: readonly FlooredImportance[]
+}
+
+/** Per refit, in refit order: each unit's prediction sensitivity (feature order, then groups). */
+export interface SideSensitivity {
+  readonly holdout: readonly (readonly SensitivityEstimate[])[]
+  readonly unlabeled?: readonly (readonly SensitivityEstimate[])[]
+  readonly unlabeledRows: number
+}
+
+/** Gain and split count of one feature in one refit's model (in-sample). */
+export interface SplitStatistic {
+  readonly feature: string
+  readonly gain: number
+  readonly splits: number
 }
 
 export interface SideMeasurement {
@@ -48,6 +77,10 @@ export interface SideMeasurement {
   /** Holdout predictions of the first refit, for a paired bootstrap when there is one refit. */
   readonly firstPredictions: Float64Array
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
+  readonly sensitivity?: SideSensitivity
+  /** Built-in gradient boosting only: gain and split count per feature, per refit (in-sample). */
+  readonly splitStatistics?: readonly (readonly SplitStatistic[])[]
+  readonly slices?: readonly SliceMeasurement[]
 }
 
 /** The seed of refit r. The same on both sides, so a change that alters nothing alters no number. */
@@ -55,10 +88,17 @@ export function refitSeed(seed: number, refit: number): number {
   return deriveSeed(seed, 'refit', refit)
 }
 
-/** The rows one side's importances are measured on: the capped holdout and the capped reference rows. */
+type Labelled = Dataset & { readonly target: { readonly values: Float64Array } }
+
+/**
+ * The rows one side's importances are measured on: the capped holdout and reference rows, the capped
+ * unlabeled rows (when sensitivity is measured), and each policy slice of the holdout.
+ */
 export interface SideRows {
-  readonly evaluation: Dataset & { readonly target: { readonly values: Float64Array } }
+  readonly evaluation: Labelled
   readonly reference: FeatureMatrix
+  readonly unlabeled?: FeatureMatrix
+  readonly slices: readonly { readonly name: string; readonly rows: Uint32Array; readonly data: Labelled }[]
 }
 
 /** What one refit contributes to a side's measurement (see measureRefit). */
@@ -70,6 +110,10 @@ export interface RefitMeasurement {
   /** Holdout predictions (the first refit's feed a paired bootstrap). */
   readonly predictions: Float64Array
   readonly model: SideMeasurement['model']
+  /** Per policy slice (in options.slices order): the score on its rows and importance measured on them. */
+  readonly slices: readonly { readonly score: number; readonly importances: readonly ImportanceEstimate[] }[]
+  readonly splitStatistics?: readonly SplitStatistic[]
+  readonly sensitivity?: { readonly holdout: readonly SensitivityEstimate[]; readonly unlabeled?: readonly SensitivityEstimate[] }
 }
 
 /**
@@ -77,11 +121,18 @@ export interface RefitMeasurement {
  * counts, so both sides use the same rows when their holdouts match, and any thread that calls
  * this with the same inputs gets the same rows.
  */
-export function sideRows(inputs: Pick<MeasureSideInputs, 'holdout' | 'reference'>, options: Pick<MeasureSideOptions, 'seed' | 'evaluationRows' | 'referenceRows'>): SideRows {
+export function sideRows(
+  inputs: Pick<MeasureSideInputs, 'holdout' | 'reference' | 'unlabeled'>,
+  options: Pick<MeasureSideOptions, 'seed' | 'evaluationRows' | 'referenceRows' | 'sensitivity' | 'slices'>,
+): SideRows {
   if (!inputs.holdout.target) throw new RangeError('measureSide needs a holdout with a target')
+  const unlabeled =
+    inputs.unlabeled && options.sensitivity ? capRows(inputs.unlabeled, options.evaluationRows, deriveSeed(options.seed, 'unlabeled-rows')) : undefined
   return {
-    evaluation: capRows(inputs.holdout, options.evaluationRows, deriveSeed(options.seed, 'evaluation-rows')) as SideRows['evaluation'],
+    evaluation: capRows(inputs.holdout, options.evaluationRows, deriveSeed(options.seed, 'evaluation-rows')) as Labelled,
     reference: capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, 'reference-rows')),
+    ...(unlabeled ? { unlabeled } : {}),
+    slices: (options.slices ?? []).map((slice) => ({ ...slice, data: selectRows(inputs.holdout, slice.rows) as Labelled })),
   }
 }
 
@@ -117,12 +168,42 @@ export async function measureRefit(
     groups: options.groups,
   })
   const featureOrder = train.features.map((f) => f.name)
+  const slices: RefitMeasurement['slices'][number][] = []
+  for (const slice of rows.slices) {
+    const slicePrediction = new Float64Array(slice.rows.length)
+    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]]
+    const sliced = await permutationImportance(model, slice.data, {
+      metric: options.metric,
+      draws: options.draws,
+      seed: deriveSeed(options.seed, 'slice-draws', slice.name, refit),
+      reference: rows.reference,
+      groups: options.groups,
+    })
+    slices.push({
+      score: options.metric.compute(slice.data.target.values, slicePrediction),
+      importances: canonicalOrder(sliced.importances, featureOrder, options.groups, options.draws),
+    })
+  }
+  let sensitivity: RefitMeasurement['sensitivity']
+  if (options.sensitivity) {
+    // The same draw seed on both sides and in every refit: common random numbers, as for importance.
+    const threshold = options.sensitivity.threshold
+    const settings = { draws: options.draws, seed: deriveSeed(options.seed, 'sensitivity'), reference: rows.reference, groups: options.groups, threshold }
+    const order = (units: SensitivityEstimate[]) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold)
+    sensitivity = {
+      holdout: order(await predictionSensitivity(model, rows.evaluation, settings)),
+      ...(rows.unlabeled ? { unlabeled: order(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}),
+    }
+  }
   return {
     score,
     separation,
     importances: canonicalOrder(result.importances, featureOrder, options.groups, options.draws),
     predictions,
     model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? 'onnxruntime' },
+    slices,
+    ...(model.splitStatistics ? { splitStatistics: model.splitStatistics.map((x) => ({ feature: x.feature, gain: x.gain, splits: x.splits })) } : {}),
+    ...(sensitivity ? { sensitivity } : {}),
   }
 }
 
@@ -141,6 +222,26 @@ export function combineRefits(seeds: readonly number[], rows: SideRows, refits: 
     model: refits[refits.length - 1].model,
     firstPredictions: refits[0].predictions,
     noiseCovers: refits.length < 2 ? 'draws-only' : 'refits-and-draws',
+    ...(refits.every((r) => r.sensitivity)
+      ? {
+          sensitivity: {
+            holdout: refits.map((r) => r.sensitivity!.holdout),
+            ...(rows.unlabeled ? { unlabeled: refits.map((r) => r.sensitivity!.unlabeled ?? []) } : {}),
+            unlabeledRows: rows.unlabeled?.rows ?? 0,
+          },
+        }
+      : {}),
+    ...(refits.every((r) => r.splitStatistics) ? { splitStatistics: refits.map((r) => r.splitStatistics!) } : {}),
+    ...(rows.slices.length > 0
+      ? {
+          slices: rows.slices.map((slice, k) => ({
+            name: slice.name,
+            rows: slice.rows.length,
+            scores: refits.map((r) => r.slices[k].score),
+            importances: computeNoiseFloor(refits.map((r) => [...r.slices[k].importances])),
+          })),
+        }
+      : {}),
   }
 }
 
@@ -167,6 +268,31 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
     parts.push(await measureRefit(model, inputs, options, rows, r))
   }
   return combineRefits(refitSeeds, rows, parts)
+}
+
+/** Sensitivity estimates in the side's feature order then group order; an unused feature gets exact zeros. */
+function canonicalSensitivity(
+  estimates: readonly SensitivityEstimate[],
+  featureOrder: readonly string[],
+  groups: readonly FeatureGroup[],
+  draws: number,
+  threshold: number | undefined,
+): SensitivityEstimate[] {
+  const byKey = new Map(estimates.map((e) => [`${e.isGroup ? 'g' : 'f'}:${e.name}`, e]))
+  const zeros = new Array<number>(draws).fill(0)
+  const zero = (name: string, members: readonly string[], isGroup: boolean): SensitivityEstimate => ({
+    name,
+    members,
+    isGroup,
+    draws: zeros,
+    mean: 0,
+    ...(threshold !== undefined ? { flipDraws: zeros, flipShare: 0 } : {}),
+  })
+  const present = new Set(featureOrder)
+  return [
+    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
+    ...groups.filter((g) => g.members.every((m) => present.has(m))).map((g) => byKey.get(`g:${g.name}`) ?? zero(g.name, g.members, true)),
+  ]
 }
 
 /**

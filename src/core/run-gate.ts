@@ -12,6 +12,8 @@ import { runChecks } from './gate/run-checks.ts'
 import { separateSingleFeatures } from './gate/separate-single-features.ts'
 import { sideResult } from './gate/side-results.ts'
 import { createStopwatch } from './gate/stopwatch.ts'
+import { judgeViews } from './gate/judge-views.ts'
+import { withCorrelatedGroups } from './gate/with-correlated-groups.ts'
 import { metricByName } from './metrics/metric-by-name.ts'
 import { assembleReport } from './report/assemble-report.ts'
 import type { GateReport } from './report/report.ts'
@@ -19,7 +21,7 @@ import type { GateReport } from './report/report.ts'
 export type { GateInputs, GateProgress, MeasureJob, MeasureSides, SideInputs, SideModel } from './gate/gate-inputs.ts'
 
 export async function runGate(inputs: GateInputs): Promise<GateReport> {
-  const settings = gateSettings(inputs.config)
+  const settings = withCorrelatedGroups(gateSettings(inputs.config), inputs.head.train)
   const metric = metricByName(settings.metric, settings.task)
   const stopwatch = createStopwatch(inputs.now)
   const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } }
@@ -39,7 +41,9 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     base: sideResult('base', sides.base, measured[0], single.base),
     head: sideResult('head', sides.head, measured[1], single.head),
   }
+  const views = judgeViews({ settings, sides, measured, results, touched: new Set([...featureSet.added, ...changed]) })
   const checked = runChecks({
+    viewFindings: views.findings,
     settings,
     metric,
     holdouts: { base: sides.base.holdout, head: sides.head.holdout },
@@ -60,6 +64,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     results,
     featureSet,
     ...checked,
+    views,
     timings: stopwatch.timings,
   })
 }

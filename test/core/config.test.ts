@@ -31,13 +31,17 @@ describe('the named defaults', () => {
       maxBins: 255,
     })
     expect(defaultTrainCommand).toEqual({ timeoutSeconds: 1800, parallel: 2 })
-    expect(defaultImportance).toEqual({ draws: 5, refits: 5, referenceRows: 10000, evaluationRows: 20000 })
+    expect(defaultImportance).toEqual({ draws: 5, refits: 5, referenceRows: 10000, evaluationRows: 20000, groupThreshold: 0.9 })
     expect(defaultMetric).toEqual({ binary: 'log-loss', regression: 'rmse' })
     expect(defaultChecks).toEqual({
       leakage: { action: 'block', dominanceShare: 0.5, runnerUpRatio: 3, singleFeaturePower: 0.99, relativePower: 0.8 },
       rankShift: { action: 'warn', falseDiscoveryRate: 0.05, minPositions: 2, agreementPercentile: 5 },
       score: { action: 'block', tolerance: 0.0, alpha: 0.05 },
       holdoutRows: { action: 'block' },
+      sensitivity: { action: 'warn', falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
+      gain: { action: 'warn', topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
+      slices: { action: 'warn', minRows: 200 },
+      correlatedGroups: { action: 'info' },
     })
     expect(defaultReport).toEqual({ maxTableRows: 50 })
   })

@@ -9,6 +9,7 @@ import type { GateReport } from '../../core/report/report.ts'
 import { runGate, type GateProgress, type SideInputs } from '../../core/run-gate.ts'
 import { readDataset } from '../files/read-dataset.ts'
 import { readConfinedFile, readLimits } from '../files/confined-file.ts'
+import { readTable } from '../files/read-table.ts'
 import { addWorktree, defaultBase, readFileAtCommit, repositoryRoot, resolveCommit } from '../git/git.ts'
 import { runPrepare } from './run-prepare.ts'
 import { loadSideModel } from './load-side-model.ts'
@@ -115,7 +116,7 @@ async function loadSide(
   const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout, rootName: `the ${side} checkout` }
   const tables: Partial<Record<DataFileRequest['role'], Dataset>> = {}
   for (const file of sideDataFiles(config)) {
-    tables[file.role] = await readDataset(file.path, {
+    tables[file.role] = await readTable(file.path, {
       ...readOptions,
       key: file.key,
       source: `${side}: ${file.path}`,
@@ -123,12 +124,12 @@ async function loadSide(
       ...(file.conformToTrain ? { schema: schemaOf(tables.train!) } : {}),
     })
   }
-  const { train, holdout, reference } = assembleSideData(config, tables)
+  const { train, holdout, reference, unlabeled } = assembleSideData(config, tables)
   checkPolicyAgainstColumns(policy, [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])])
   checkSizes(side, config, train, holdout, log)
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
   const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
-  return { ref, commit, train, holdout, reference, model }
+  return { ref, commit, train, holdout, reference, ...(unlabeled ? { unlabeled } : {}), model }
 }
 
 /** Fewer rows than this cannot give a noise floor worth reading (common practice, not a published bound). */

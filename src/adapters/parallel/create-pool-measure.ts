@@ -18,7 +18,7 @@ import { availableParallelism } from 'node:os'
 import Tinypool from 'tinypool'
 import type { Dataset, FeatureMatrix } from '../../core/data/dataset.ts'
 import { InternalError } from '../../core/errors.ts'
-import { combineRefits, measureSide, sideRefitSeeds, sideRows, type SideMeasurement } from '../../core/measure-side.ts'
+import { combineRefits, measureSide, sideRefitSeeds, sideRows, type SideMeasurement, type SideRows } from '../../core/measure-side.ts'
 import { binFeatures } from '../../core/models/gbt/bin-features.ts'
 import type { MeasureJob, MeasureSides } from '../../core/run-gate.ts'
 import type { RefitTask } from './refit-worker.ts'
@@ -53,8 +53,13 @@ async function inPool(pool: Tinypool, job: MeasureJob): Promise<SideMeasurement>
   const { onRefit, metric, ...options } = job.options
   const train = shareDataset(job.inputs.train)
   const holdout = shareDataset(job.inputs.holdout)
-  const capped = sideRows({ holdout, reference: shareMatrix(job.inputs.reference) }, options)
-  const rows = { evaluation: shareDataset(capped.evaluation) as typeof capped.evaluation, reference: shareMatrix(capped.reference) }
+  const capped = sideRows({ holdout, reference: shareMatrix(job.inputs.reference), unlabeled: job.inputs.unlabeled }, options)
+  const rows: SideRows = {
+    evaluation: shareDataset(capped.evaluation) as SideRows['evaluation'],
+    reference: shareMatrix(capped.reference),
+    ...(capped.unlabeled ? { unlabeled: shareMatrix(capped.unlabeled) } : {}),
+    slices: capped.slices.map((slice) => ({ ...slice, data: shareDataset(slice.data) as SideRows['evaluation'] })),
+  }
   const binned = builtin.settings.learner === 'gradient-boosting' ? binFeatures(train, { maxBins: builtin.settings.maxBins, shared: true }) : undefined
   const seeds = sideRefitSeeds(job.inputs, options)
   const parts = await Promise.all(

@@ -3,7 +3,7 @@
  * learner, from data in shared memory. Fits on the side's shared bin matrix (no re-binning) and
  * returns measureRefit's part, the same pure code on the same data and seeds as in the main thread.
  */
-import type { Dataset, FeatureMatrix, Task } from '../../core/data/dataset.ts'
+import type { Dataset, Task } from '../../core/data/dataset.ts'
 import { measureRefit, type MeasureSideOptions, type RefitMeasurement, type SideRows } from '../../core/measure-side.ts'
 import { createBuiltinFit, type BuiltinLearnerSettings } from '../../core/models/builtin-fit.ts'
 import type { BinnedFeatures } from '../../core/models/gbt/bin-features.ts'
@@ -16,7 +16,7 @@ export interface RefitTask {
   readonly seed: number
   readonly train: Dataset
   readonly holdout: Dataset
-  readonly rows: { readonly evaluation: SideRows['evaluation']; readonly reference: FeatureMatrix }
+  readonly rows: SideRows
   readonly binned?: BinnedFeatures
   readonly options: Omit<MeasureSideOptions, 'onRefit' | 'metric'> & { readonly metricName: MetricName }
   readonly builtin: { readonly task: Task; readonly settings: BuiltinLearnerSettings }

@@ -79,9 +79,32 @@ export const MAX_MAGNITUDE = 1e100
  * exactly two classes. Cost: O(cells) time and memory.
  */
 export function parseCsv(text: string, options: ParseCsvOptions): Dataset {
+  const { header, rows, lineOf } = readRecords(text, options.source)
+  return tableToDataset({ header, rows, place: (row) => `line ${lineOf(row)} ${LINE_NOTE}`, headerPlace: 'line 1' }, options)
+}
+
+/**
+ * A table already split into cells, as a reader of any file format hands it over: the header, the
+ * data rows as trimmed-or-untrimmed text cells, and how a message names where a data row is (for a
+ * CSV "line 5 (the header is line 1)", for a Parquet file "row 4").
+ */
+export interface TextTable {
+  readonly header: readonly string[]
+  readonly rows: readonly (readonly string[])[]
+  readonly place: (row: number) => string
+  /** Where the column names are, for messages ("line 1", or "the schema"). */
+  readonly headerPlace: string
+}
+
+/**
+ * The text cells of a table into a `Dataset`, with every rule and message of `parseCsv` (missing
+ * tokens, kind inference, dictionaries, schema, target classes); positions are named by `place`.
+ */
+export function tableToDataset(table: TextTable, options: ParseCsvOptions): Dataset {
   const { source } = options
-  const { header, rows, lineOf } = readRecords(text, source)
-  const columnIndex = checkHeader(header, source)
+  const { header, rows } = table
+  const lineOf = table.place
+  const columnIndex = checkHeader(header, source, table.headerPlace)
   const plan = options.schema ? planFromSchema(options, header, columnIndex) : planFromRoles(options, header, columnIndex, rows)
   const cells = (column: number) => rows.map((row) => row[column].trim())
 
@@ -159,7 +182,7 @@ function looksNumeric(value: string): boolean {
   return NUMBER.test(value) || INFINITY_WORD.test(value)
 }
 
-function failNumber(source: string, line: number, column: string, value: string, reason: string): never {
+function failNumber(source: string, line: string, column: string, value: string, reason: string): never {
   if (!looksNumeric(value)) failNotNumeric(source, line, column, value, reason)
   throw new UserError(
     `${at(source, line, column)}: ${show(value)} is not a finite number within ±1e100 (plumbline computes squares and sums of every value).`,
@@ -186,11 +209,11 @@ function count(n: number, noun: string): string {
   return `${n} ${noun}${n === 1 ? '' : 's'}`
 }
 
-function at(source: string, line: number, column?: string): string {
-  return `${source}, line ${line} ${LINE_NOTE}${column === undefined ? '' : `, column ${show(column)}`}`
+function at(source: string, place: string, column?: string): string {
+  return `${source}, ${place}${column === undefined ? '' : `, column ${show(column)}`}`
 }
 
-function failNotNumeric(source: string, line: number, column: string, value: string, reason: string): never {
+function failNotNumeric(source: string, line: string, column: string, value: string, reason: string): never {
   throw new UserError(
     `${at(source, line, column)}: ${show(value)} is not a number, but ${reason}.`,
     'Correct the value, or write NA or leave the cell empty if it is missing.',
@@ -219,7 +242,7 @@ function readRecords(text: string, source: string): { header: string[]; rows: st
     if (!(error instanceof CsvError)) throw error
     const line = lineAtByte(text, ends.length === 0 ? 0 : ends[ends.length - 1])
     throw new UserError(
-      `${at(source, line)}: ${describeCsvError(error)}.`,
+      `${at(source, `line ${line} ${LINE_NOTE}`)}: ${describeCsvError(error)}.`,
       'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").',
     )
   }
@@ -241,7 +264,7 @@ function readRecords(text: string, source: string): { header: string[]; rows: st
   for (let i = 0; i < rows.length; i++) {
     if (rows[i].length !== header.length) {
       throw new UserError(
-        `${at(source, lineOf(i))}: the row has ${count(rows[i].length, 'field')}, the header has ${header.length}.`,
+        `${at(source, `line ${lineOf(i)} ${LINE_NOTE}`)}: the row has ${count(rows[i].length, 'field')}, the header has ${header.length}.`,
         'Give every row one field per header column; enclose a field that holds a comma in double quotes.',
       )
     }
@@ -272,17 +295,17 @@ function lineAtByte(text: string, byteOffset: number): number {
   return line
 }
 
-function checkHeader(header: readonly string[], source: string): Map<string, number> {
+function checkHeader(header: readonly string[], source: string, place: string): Map<string, number> {
   const index = new Map<string, number>()
   header.forEach((raw, j) => {
     const name = raw.trim()
     if (name === '') {
-      throw new UserError(`${source}, line 1: column ${j + 1} of the header has no name.`, 'Name every column on the first line, or delete the unnamed column.')
+      throw new UserError(`${source}, ${place}: column ${j + 1} of the header has no name.`, 'Name every column on the first line, or delete the unnamed column.')
     }
     const earlier = index.get(name)
     if (earlier !== undefined) {
       throw new UserError(
-        `${source}, line 1: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
+        `${source}, ${place}: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
         'Give every column its own name.',
       )
     }
@@ -322,7 +345,7 @@ function failNoTargetNamed(source: string): never {
   throw new UserError(`${source}: no target column was named.`, 'Name the column that holds the outcome to predict as the target.')
 }
 
-function planFromRoles(options: ParseCsvOptions, header: readonly string[], columnIndex: Map<string, number>, rows: string[][]): Plan {
+function planFromRoles(options: ParseCsvOptions, header: readonly string[], columnIndex: Map<string, number>, rows: readonly (readonly string[])[]): Plan {
   const { source } = options
   const roles = options.roles ?? {}
   const declared = (role: ColumnRole) => Object.keys(roles).filter((name) => roles[name] === role)
@@ -429,7 +452,7 @@ function orderClasses(a: string, b: string): [string, string] {
   return compareText(a, b) < 0 ? [a, b] : [b, a]
 }
 
-function readTarget(source: string, plan: TargetPlan, values: string[], lineOf: (row: number) => number, schemaSource?: string): Target {
+function readTarget(source: string, plan: TargetPlan, values: string[], lineOf: (row: number) => string, schemaSource?: string): Target {
   const column = plan.name
   values.forEach((v, i) => {
     if (isMissing(v)) {

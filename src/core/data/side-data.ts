@@ -9,7 +9,7 @@ import type { Dataset } from './dataset.ts'
 import { splitRows } from './split-rows.ts'
 
 export interface DataFileRequest {
-  readonly role: 'train' | 'holdout' | 'reference'
+  readonly role: 'train' | 'holdout' | 'reference' | 'unlabeled'
   /** The path as the policy writes it, relative to the side's checkout. */
   readonly path: string
   /** The policy key that names the file, for messages. */
@@ -29,6 +29,10 @@ export function sideDataFiles(config: GateConfig): DataFileRequest[] {
   if (config.data.reference.kind === 'file') {
     files.push({ role: 'reference', path: config.data.reference.path, key: 'data.reference', requireTarget: false, conformToTrain: true })
   }
+  // Rows without labels are read only where something measures them (prediction sensitivity).
+  if (config.data.unlabeled !== undefined && config.checks.sensitivity.action !== 'off') {
+    files.push({ role: 'unlabeled', path: config.data.unlabeled, key: 'data.unlabeled', requireTarget: false, conformToTrain: true })
+  }
   return files
 }
 
@@ -36,6 +40,8 @@ export interface SideData {
   readonly train: Dataset
   readonly holdout: Dataset
   readonly reference: Dataset
+  /** `data.unlabeled`, when the policy names it and prediction sensitivity is on. */
+  readonly unlabeled?: Dataset
 }
 
 /** The side's training rows, holdout and reference rows from the tables read for sideDataFiles. */
@@ -55,5 +61,5 @@ export function assembleSideData(config: GateConfig, tables: Readonly<Partial<Re
   const reference =
     config.data.reference.kind === 'train' ? train : config.data.reference.kind === 'holdout' ? holdout : tables.reference
   if (!reference) throw new RangeError('assembleSideData needs the reference table the policy names')
-  return { train, holdout, reference }
+  return { train, holdout, reference, ...(tables.unlabeled ? { unlabeled: tables.unlabeled } : {}) }
 }

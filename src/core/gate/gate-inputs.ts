@@ -26,6 +26,8 @@ export interface SideInputs {
   readonly train: Dataset
   readonly holdout: Dataset
   readonly reference: FeatureMatrix
+  /** Rows without labels (`data.unlabeled`), for prediction sensitivity. */
+  readonly unlabeled?: FeatureMatrix
   readonly model: SideModel
 }
 

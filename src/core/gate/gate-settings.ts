@@ -1,6 +1,7 @@
 import type { GateConfig } from '../config.ts'
 import { defaultBoosting } from '../policy/policy-defaults.ts'
 import type { FeatureGroup } from '../importance/permutation-importance.ts'
+import type { CorrelatedGroup } from '../importance/correlated-groups.ts'
 import type { BuiltinLearnerSettings } from '../models/builtin-fit.ts'
 
 /**
@@ -19,6 +20,8 @@ import type { BuiltinLearnerSettings } from '../models/builtin-fit.ts'
  *   relative standard error near 1/sqrt(2·199) = 5% (Efron & Tibshirani 1993, ch. 6).
  * - slices for the leakage check: each value of a categorical feature with at most 20 values, judged
  *   when it has at least 30 holdout rows (binary: 30 of each class), so one AUC is not a few rows' luck.
+ * - automatic groups: Spearman's rho on at most 5000 training rows; its standard error near rho = 0.9
+ *   is about (1 − rho²)/sqrt(n) = 0.003 (Fisher's z, common practice), far below the threshold's scale.
  */
 export const fixedSettings = {
   minRelativeChange: 0.2,
@@ -26,6 +29,7 @@ export const fixedSettings = {
   singleFeatureTop: 3,
   singleFeatureMaxExtra: 20,
   slices: { maxLevels: 20, minRows: 30 },
+  correlationRows: 5000,
   scoreBlockAtSds: 3,
   pairedBootstrapReplicates: 200,
 } as const
@@ -65,6 +69,10 @@ export function gateSettings(config: GateConfig) {
     },
     score: { ...config.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
     holdoutRows: config.checks.holdoutRows.action,
+    sensitivity: config.checks.sensitivity,
+    gain: config.checks.gain,
+    slices: config.checks.slices,
+    correlatedGroups: config.checks.correlatedGroups,
   }
   return {
     task: config.task,
@@ -76,7 +84,13 @@ export function gateSettings(config: GateConfig) {
     evaluationRows: config.importance.evaluationRows,
     referenceRows: config.importance.referenceRows,
     groups,
+    groupThreshold: config.importance.groupThreshold,
+    /** Filled by withCorrelatedGroups once the head's training data is known. */
+    automaticGroups: [] as readonly CorrelatedGroup[],
+    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
+    sensitivity: config.checks.sensitivity.action === 'off' ? undefined : config.task === 'binary' ? { threshold: 0.5 } : {},
     learner,
+    policySlices: config.slices,
     pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
     singleFeatureTop: fixedSettings.singleFeatureTop,
     singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
@@ -96,6 +110,10 @@ export function gateSettings(config: GateConfig) {
       },
       score: { ...snakeKeys(config.checks.score), 'block_at_reseed_sds (fixed)': fixedSettings.scoreBlockAtSds },
       holdout_rows: snakeKeys(config.checks.holdoutRows),
+      sensitivity: snakeKeys(config.checks.sensitivity),
+      gain: snakeKeys(config.checks.gain),
+      slices: snakeKeys(config.checks.slices),
+      correlated_groups: { ...snakeKeys(config.checks.correlatedGroups), group_threshold: config.importance.groupThreshold },
     },
   }
 }

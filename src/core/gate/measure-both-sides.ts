@@ -3,6 +3,7 @@ import type { Metric } from '../metrics/metric.ts'
 import { createBuiltinFit } from '../models/builtin-fit.ts'
 import type { GateProgress, MeasureJob, MeasureSides, SideInputs } from './gate-inputs.ts'
 import type { GateSettings } from './gate-settings.ts'
+import { planSlices } from './plan-slices.ts'
 
 const measureInTurn: MeasureSides = async ([base, head]) => [
   await measureSide(base.inputs, base.options),
@@ -21,6 +22,8 @@ export function measureJob(
   onProgress?: (event: GateProgress) => void,
 ): MeasureJob {
   const { model } = data
+  const measuredSlices = planSlices(settings.policySlices, data.holdout, side, { task: settings.task, minRows: settings.checks.slices.minRows })
+    .flatMap((s) => (s.status === 'measured' ? [{ name: s.name, rows: s.rows }] : []))
   const source =
     model.kind === 'builtin'
       ? { fit: createBuiltinFit(data.train, settings.task, settings.learner) }
@@ -28,7 +31,7 @@ export function measureJob(
         ? { fit: model.fit }
         : { model: model.model }
   return {
-    inputs: { side, train: data.train, holdout: data.holdout, reference: data.reference, ...source },
+    inputs: { side, train: data.train, holdout: data.holdout, reference: data.reference, ...(data.unlabeled ? { unlabeled: data.unlabeled } : {}), ...source },
     options: {
       task: settings.task,
       metric,
@@ -40,6 +43,8 @@ export function measureJob(
       referenceRows: settings.referenceRows,
       onRefit: (refit, of) => onProgress?.({ stage: 'refit', side, refit, of }),
       concurrentFits: model.kind === 'command',
+      ...(settings.sensitivity ? { sensitivity: settings.sensitivity } : {}),
+      ...(measuredSlices.length > 0 && settings.checks.slices.action !== 'off' ? { slices: measuredSlices } : {}),
     },
     ...(model.kind === 'builtin' ? { builtin: { task: settings.task, settings: settings.learner } } : {}),
   }

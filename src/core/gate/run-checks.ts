@@ -26,6 +26,8 @@ export interface CheckInputs {
   readonly changed: ReadonlySet<string>
   readonly policyChanged: boolean
   readonly policySource: string
+  /** Findings of the views beside permutation importance (judge-views.ts), sorted and demoted with the rest. */
+  readonly viewFindings?: readonly Finding[]
 }
 
 export interface CheckOutcome {
@@ -68,6 +70,7 @@ export function runChecks(inputs: CheckInputs): CheckOutcome {
       ...shift.findings,
       ...agreement.findings,
       ...featureSetFindings(featureSet, results.head),
+    ...(inputs.viewFindings ?? []),
     ...contextFindings({ policyChanged: inputs.policyChanged, policySource: inputs.policySource, baseNoise: base.noiseCovers, headNoise: head.noiseCovers }),
   ])
   const findings = orderFindings(groupConsequences(demoted, results, featureSet), {

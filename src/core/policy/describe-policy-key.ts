@@ -17,6 +17,8 @@ interface Definition {
   readonly valueType?: Schema
   readonly element?: Schema
   readonly defaultValue?: unknown
+  /** z.lazy (the recursive slice filter). */
+  readonly getter?: () => Schema
 }
 interface Schema {
   readonly _zod: { readonly def: Definition }
@@ -41,6 +43,8 @@ function unwrap(schema: Schema): { schema: Schema; default?: unknown; hasDefault
     if (def.type === 'default' && !found) found = { value: def.defaultValue }
     if (def.innerType && ['optional', 'default', 'prefault', 'nullable', 'readonly', 'catch'].includes(def.type)) {
       current = def.innerType
+    } else if (def.type === 'lazy' && def.getter) {
+      current = def.getter()
     } else if (def.type === 'pipe' && def.in && def.out) {
       current = def.in._zod.def.type === 'transform' ? def.out : def.in
     } else {

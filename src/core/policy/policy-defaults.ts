@@ -64,6 +64,7 @@ export const defaultImportance = deepFreeze({
   refits: 5,
   referenceRows: 10_000,
   evaluationRows: 20_000,
+  groupThreshold: 0.9,
 })
 
 export const defaultChecks: ChecksConfig = deepFreeze({
@@ -82,6 +83,10 @@ export const defaultChecks: ChecksConfig = deepFreeze({
   },
   score: { action: 'block', tolerance: 0, alpha: 0.05 },
   holdoutRows: { action: 'block' },
+  sensitivity: { action: 'warn', falseDiscoveryRate: 0.05, minRelativeChange: 0.2, unlabeledRatio: 2, minShare: 0.05 },
+  gain: { action: 'warn', topRanks: 3, minGainShare: 0.1, minDistinct: 10 },
+  slices: { action: 'warn', minRows: 200 },
+  correlatedGroups: { action: 'info' },
 })
 
 export const defaultReport: ReportConfig = deepFreeze({ maxTableRows: 50 })

@@ -6,7 +6,7 @@
  * named column exist?) are in `checkPolicyAgainstColumns` (parse-policy.ts).
  */
 import { z } from 'zod'
-import type { DeclaredColumnRole, GateConfig, HoldoutConfig, ModelConfig, ReferenceConfig } from '../config.ts'
+import type { DeclaredColumnRole, GateConfig, HoldoutConfig, ModelConfig, ReferenceConfig, SliceFilter } from '../config.ts'
 import type { MetricName } from '../metrics/metric.ts'
 import { formatKeyPath } from './format-key-path.ts'
 import {
@@ -71,7 +71,7 @@ function realNumber(bounds: Bounds) {
     bounds.above !== undefined ? `above ${bounds.above}` : bounds.atLeast !== undefined ? `at least ${bounds.atLeast}` : '',
     bounds.below !== undefined ? `below ${bounds.below}` : bounds.atMost !== undefined ? `at most ${bounds.atMost}` : '',
   ].filter(Boolean)
-  const phrase = parts.length === 1 && bounds.atLeast !== undefined ? `a number of at least ${bounds.atLeast}` : `a number ${parts.join(' and ')}`
+  const phrase = parts.length === 0 ? 'a number' : parts.length === 1 && bounds.atLeast !== undefined ? `a number of at least ${bounds.atLeast}` : `a number ${parts.join(' and ')}`
   let schema = z.number({ error: phrase })
   if (bounds.above !== undefined) schema = schema.gt(bounds.above, { error: phrase })
   if (bounds.atLeast !== undefined) schema = schema.gte(bounds.atLeast, { error: phrase })
@@ -196,6 +196,7 @@ const importanceSchema = mapping({
     (raw) => (raw === null ? {} : raw),
     z.record(z.string(), nameList('a list of column names, such as [distance_km, stop_count]'), { error: 'a mapping of group names to lists of columns' }),
   ).default({}),
+  group_threshold: realNumber({ above: 0, atMost: 1 }).default(defaultImportance.groupThreshold),
 })
 
 const checksSchema = mapping({
@@ -220,6 +221,98 @@ const checksSchema = mapping({
   holdout_rows: mapping({
     action: checkAction.default(defaultChecks.holdoutRows.action),
   }).prefault({}),
+  sensitivity: mapping({
+    action: checkAction.default(defaultChecks.sensitivity.action),
+    false_discovery_rate: realNumber({ above: 0, below: 1 }).default(defaultChecks.sensitivity.falseDiscoveryRate),
+    min_relative_change: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.sensitivity.minRelativeChange),
+    unlabeled_ratio: realNumber({ above: 1 }).default(defaultChecks.sensitivity.unlabeledRatio),
+    min_share: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.sensitivity.minShare),
+  }).prefault({}),
+  gain: mapping({
+    action: checkAction.default(defaultChecks.gain.action),
+    top_ranks: wholeNumber(1).default(defaultChecks.gain.topRanks),
+    min_gain_share: realNumber({ atLeast: 0, below: 1 }).default(defaultChecks.gain.minGainShare),
+    min_distinct: wholeNumber(2).default(defaultChecks.gain.minDistinct),
+  }).prefault({}),
+  correlated_groups: mapping({
+    action: oneOf(['warn', 'info', 'off']).default(defaultChecks.correlatedGroups.action),
+  }).prefault({}),
+  slices: mapping({
+    action: checkAction.default(defaultChecks.slices.action),
+    min_rows: wholeNumber(1).default(defaultChecks.slices.minRows),
+  }).prefault({}),
+})
+
+// A slice's filter: data, not a formula. One column comparison, or all_of / any_of a list of filters.
+const comparisons = ['equals', 'in', 'at_least', 'below', 'between', 'is_missing'] as const
+interface FilterDocument {
+  column?: string
+  equals?: string
+  in?: string[]
+  at_least?: number
+  below?: number
+  between?: number[]
+  is_missing?: 'true' | 'false'
+  all_of?: FilterDocument[]
+  any_of?: FilterDocument[]
+}
+const filterKeys: readonly string[] = ['column', ...comparisons, 'all_of', 'any_of']
+
+/** The shape rules of one filter, on the raw mapping; skipped when it has unknown keys (those are reported instead). */
+function checkFilterShape(raw: Record<string, unknown>, ctx: RuleContext): void {
+  const given = comparisons.filter((c) => raw[c] !== undefined)
+  const lists = (['all_of', 'any_of'] as const).filter((c) => raw[c] !== undefined)
+  const hasColumn = raw.column !== undefined
+  const allowed = `column with one of ${comparisons.join(', ')}; or all_of or any_of with a list of filters`
+  if (lists.length > 0 && (hasColumn || given.length > 0 || lists.length > 1)) {
+    rule(ctx, [], `mixes ${[...lists, ...(hasColumn ? ['column'] : []), ...given].join(', ')}; a filter is ${allowed}.`, 'Put each comparison in its own filter under all_of or any_of.')
+  } else if (lists.length === 0 && !hasColumn) {
+    rule(ctx, [], `names no column; a filter is ${allowed}.`, "Add 'column: <name>' and one comparison, such as 'equals: harbour'.")
+  } else if (lists.length === 0 && given.length !== 1) {
+    rule(ctx, [], `has ${given.length === 0 ? 'no comparison' : `${given.length} comparisons (${given.join(', ')})`}; a filter is ${allowed}.`,
+      given.length === 0 ? "Add one comparison, such as 'equals: harbour' or 'at_least: 10'." : 'Keep one comparison here and put the others in their own filters under all_of.')
+  } else if (Array.isArray(raw.between) && raw.between.length === 2) {
+    const [low, high] = raw.between.map(numberFromText)
+    if (typeof low === 'number' && typeof high === 'number' && !(low < high)) {
+      rule(ctx, ['between'], `needs low below high; got [${low}, ${high}].`, 'Write between: [low, high] with low < high (low included, high excluded).', undefined, true)
+    }
+  }
+}
+
+const filterSchema: z.ZodType<FilterDocument> = z.lazy(() =>
+  z.preprocess(
+    (raw, ctx) => {
+      if (raw !== null && typeof raw === 'object' && !Array.isArray(raw) && Object.keys(raw).every((key) => filterKeys.includes(key))) {
+        checkFilterShape(raw as Record<string, unknown>, ctx)
+      }
+      return raw === null ? {} : raw
+    },
+    z.strictObject(
+      {
+        column: text('a column name').optional(),
+        equals: text('a value').optional(),
+        in: z.array(text('a value'), { error: 'a list of values' }).min(1, { error: 'a list of values' }).optional(),
+        at_least: realNumber({}).optional(),
+        below: realNumber({}).optional(),
+        between: z.array(realNumber({}), { error: 'a list of two numbers [low, high]' }).length(2, { error: 'a list of two numbers [low, high]' }).optional(),
+        is_missing: oneOf(['true', 'false']).optional(),
+        all_of: z.array(filterSchema, { error: 'a list of filters' }).min(1, { error: 'a list of filters' }).optional(),
+        any_of: z.array(filterSchema, { error: 'a list of filters' }).min(1, { error: 'a list of filters' }).optional(),
+      },
+      { error: 'a mapping with column and one comparison, or all_of or any_of' },
+    ),
+  ),
+)
+
+const slicesSchema = z.preprocess(
+  (raw) => (raw === null ? [] : raw),
+  z.array(mapping({ name: text('a slice name'), where: filterSchema }, 'a mapping with name and where'), { error: 'a list of slices, each with name and where' }),
+).superRefine((slices, ctx) => {
+  slices.forEach((slice, index) => {
+    if (slices.findIndex((s) => s.name === slice.name) !== index) {
+      rule(ctx, [index, 'name'], `repeats the slice name '${slice.name}'; each slice needs its own name.`, 'Rename one of the two slices.', undefined, true)
+    }
+  })
 })
 
 const reportSchema = mapping({
@@ -236,6 +329,7 @@ const documentSchema = mapping({
   model: modelSchema,
   importance: importanceSchema.prefault({}),
   checks: checksSchema.prefault({}),
+  slices: slicesSchema.default([]),
   report: reportSchema.prefault({}),
 }, 'a mapping of keys such as version, task, target')
 
@@ -314,6 +408,20 @@ function toModelConfig(model: PolicyDocument['model']): ModelConfig {
   return { kind: 'train', command: t.command, timeoutSeconds: t.timeout_seconds, parallel: t.parallel }
 }
 
+function toSliceFilter(f: FilterDocument): SliceFilter {
+  if (f.all_of) return { allOf: f.all_of.map(toSliceFilter) }
+  if (f.any_of) return { anyOf: f.any_of.map(toSliceFilter) }
+  return {
+    column: f.column!,
+    ...(f.equals !== undefined ? { equals: f.equals } : {}),
+    ...(f.in !== undefined ? { in: f.in } : {}),
+    ...(f.at_least !== undefined ? { atLeast: f.at_least } : {}),
+    ...(f.below !== undefined ? { below: f.below } : {}),
+    ...(f.between !== undefined ? { between: [f.between[0], f.between[1]] as const } : {}),
+    ...(f.is_missing !== undefined ? { isMissing: f.is_missing === 'true' } : {}),
+  }
+}
+
 function toGateConfig(policy: PolicyDocument): GateConfig {
   const { data, importance, checks } = policy
   const reference: ReferenceConfig =
@@ -342,6 +450,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       referenceRows: importance.reference_rows,
       evaluationRows: importance.evaluation_rows,
       groups: nullPrototype(Object.entries(importance.groups)),
+      groupThreshold: importance.group_threshold,
     },
     checks: {
       leakage: {
@@ -359,7 +468,23 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       },
       score: { action: checks.score.action, tolerance: checks.score.tolerance, alpha: checks.score.alpha },
       holdoutRows: { action: checks.holdout_rows.action },
+      sensitivity: {
+        action: checks.sensitivity.action,
+        falseDiscoveryRate: checks.sensitivity.false_discovery_rate,
+        minRelativeChange: checks.sensitivity.min_relative_change,
+        unlabeledRatio: checks.sensitivity.unlabeled_ratio,
+        minShare: checks.sensitivity.min_share,
+      },
+      gain: {
+        action: checks.gain.action,
+        topRanks: checks.gain.top_ranks,
+        minGainShare: checks.gain.min_gain_share,
+        minDistinct: checks.gain.min_distinct,
+      },
+      slices: { action: checks.slices.action, minRows: checks.slices.min_rows },
+      correlatedGroups: { action: checks.correlated_groups.action },
     },
+    slices: policy.slices.map((s) => ({ name: s.name, where: toSliceFilter(s.where) })),
     report: { maxTableRows: policy.report.max_table_rows },
   })
 }

@@ -252,9 +252,10 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
     optional(1, 'groups:', 'columns permuted together and reported as one'),
     optional(2, `group_name: ${example(numeric, ['column_a', 'column_b'])}`),
+    optional(1, `group_threshold: ${defaultImportance.groupThreshold}`, 'automatic groups: numeric columns with |Spearman| at or above this'),
   ])
 
-  const { leakage, rankShift, score, holdoutRows } = defaultChecks
+  const { leakage, rankShift, score, holdoutRows, sensitivity, gain, slices, correlatedGroups } = defaultChecks
   const checks = renderBlock([
     key(0, 'checks:'),
     key(1, 'leakage:', 'one feature carries the model'),
@@ -274,9 +275,31 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `alpha: ${score.alpha}`),
     key(1, 'holdout_rows:', 'the holdout rows differ between base and head'),
     key(2, `action: ${holdoutRows.action}`),
+    key(1, 'sensitivity:', 'how much predictions move when a feature is replaced (no labels needed)'),
+    key(2, `action: ${sensitivity.action}`),
+    optional(2, `false_discovery_rate: ${sensitivity.falseDiscoveryRate}`),
+    optional(2, `min_relative_change: ${sensitivity.minRelativeChange}`),
+    optional(2, `unlabeled_ratio: ${sensitivity.unlabeledRatio}`, 'data.unlabeled against the holdout'),
+    optional(2, `min_share: ${sensitivity.minShare}`),
+    key(1, 'gain:', 'the built-in trees split on a feature that does not help on the holdout'),
+    key(2, `action: ${gain.action}`),
+    optional(2, `top_ranks: ${gain.topRanks}`),
+    optional(2, `min_gain_share: ${gain.minGainShare}`),
+    optional(2, `min_distinct: ${gain.minDistinct}`),
+    key(1, 'correlated_groups:', 'a feature that looks unimportant alone while its correlated group matters'),
+    key(2, `action: ${correlatedGroups.action}`, 'warn, info or off (off: no automatic groups)'),
+    key(1, 'slices:', 'the policy slices below: score and importance on their rows'),
+    key(2, `action: ${slices.action}`),
+    optional(2, `min_rows: ${slices.minRows}`, 'smaller slices are reported as too small'),
+  ])
+
+  const sliceBlock = renderBlock([
+    optional(0, 'slices:', 'named parts of the holdout, judged on their own'),
+    optional(1, '- name: one depot'),
+    optional(2, 'where: { column: a_column, equals: a_value }', 'also in, at_least, below, between, is_missing; all_of / any_of'),
   ])
 
   const report = renderBlock([key(0, 'report:'), optional(1, `max_table_rows: ${defaultReport.maxTableRows}`)])
 
-  return `${[header, top, data, prepare, model, importance, checks, report].join('\n\n')}\n`
+  return `${[header, top, data, prepare, model, importance, checks, sliceBlock, report].join('\n\n')}\n`
 }

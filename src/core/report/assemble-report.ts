@@ -6,6 +6,7 @@ import type { RankAgreement } from './report.ts'
 import type { Shift } from '../checks/rank-shift.ts'
 import { mean, positiveShare, sideRanks, type SideResult } from '../checks/side-result.ts'
 import { decideVerdict, writeHeadline } from '../checks/verdict.ts'
+import type { ViewsOutcome } from '../gate/judge-views.ts'
 import type { FeatureSetChange } from '../checks/feature-set.ts'
 import type { Dataset } from '../data/dataset.ts'
 import type { SideInputs } from '../gate/gate-inputs.ts'
@@ -29,11 +30,13 @@ export interface ReportParts {
   readonly findings: readonly Finding[]
   readonly shifts: ReadonlyMap<string, Shift>
   readonly agreement: RankAgreement | null
+  /** Prediction sensitivity and gain (their findings are already in `findings`). */
+  readonly views?: ViewsOutcome
   readonly timings: Readonly<Record<string, number>>
 }
 
 export function assembleReport(parts: ReportParts): GateReport {
-  const { settings, metric, findings } = parts
+  const { settings, metric, views, findings } = parts
   const [base, head] = parts.measured
   const verdict = decideVerdict(findings)
   return {
@@ -59,6 +62,10 @@ export function assembleReport(parts: ReportParts): GateReport {
       checks: settings.evidence,
     },
     timings: { ...parts.timings },
+    ...(views?.sensitivity ? { sensitivity: views.sensitivity } : {}),
+    ...(views?.gain ? { gain: views.gain } : {}),
+    ...(views?.groups ? { groups: views.groups } : {}),
+    ...(views?.slices ? { slices: views.slices } : {}),
     caution: reportCaution,
   }
 }

@@ -32,6 +32,7 @@ import {
   type FindingLines,
   type TextTable,
 } from './tabulate-report.ts'
+import { tabulateSlices, tabulateViews } from './tabulate-views.ts'
 
 export interface MarkdownOptions {
   /** Rows of the longest tables before the "N more rows" row; default 50. */
@@ -205,6 +206,8 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
           ]),
         ]
       : []),
+    ...((views) => (views ? [renderDetails('Prediction sensitivity and gain', [escapeMarkdownText(views.note), renderTable(limitRows(views.table, maxTableRows))])] : []))(tabulateViews(report)),
+    ...((slices) => (slices ? [renderDetails('Slices', ['* marks a score worse beyond reseed noise.', renderTable(limitRows(slices, maxTableRows))])] : []))(tabulateSlices(report)),
     ...(tables.seeds ? [renderDetails('Refit seeds', [renderTable(limitRows(tables.seeds, maxTableRows))])] : []),
     renderDetails('Settings and check thresholds', [
       renderTable(tables.settings),

@@ -70,6 +70,14 @@ const findingSchema = z.strictObject({
     'policy-changed',
     'noise-model',
     'run-error',
+    'sensitivity-shift',
+    'sensitivity-unlabeled',
+    'gain-noise',
+    'slice-score',
+    'slice-dominance',
+    'slice-top-features',
+    'slice-too-small',
+    'group-carried',
   ]),
   severity: z.enum(['block', 'warn', 'info']),
   feature: text.optional(),
@@ -140,6 +148,53 @@ const rankAgreementSchema = z.strictObject({
   featuresCompared: count,
 }).meta({ id: 'RankAgreement' })
 
+const sensitivityValueSchema = z.strictObject({
+  mean: finite,
+  refitSd: undefinedNumber,
+  flipShare: finite.nullable(),
+  perRefit: list(finite),
+}).meta({ id: 'SensitivityValue' })
+
+const sensitivitySideSchema = z.strictObject({ holdout: sensitivityValueSchema, unlabeled: sensitivityValueSchema.optional() })
+
+const sensitivityReportSchema = z.strictObject({
+  threshold: finite.nullable(),
+  unlabeledRows: z.strictObject({ base: count, head: count }),
+  features: list(
+    z.strictObject({
+      name: text,
+      isGroup: z.boolean(),
+      base: sensitivitySideSchema.optional(),
+      head: sensitivitySideSchema.optional(),
+      change: z.strictObject({ pValue: undefinedNumber, adjustedPValue: undefinedNumber, isSignificant: z.boolean() }).optional(),
+    }),
+  ),
+}).meta({ id: 'SensitivityReport' })
+
+const gainValueSchema = z.strictObject({ gain: finite, splits: finite, share: undefinedNumber, rank: z.int().min(1) })
+
+const gainReportSchema = z.strictObject({
+  caution: text,
+  features: list(z.strictObject({ name: text, base: gainValueSchema.optional(), head: gainValueSchema.optional() })),
+}).meta({ id: 'GainReport' })
+
+const sliceSideSchema = z.strictObject({
+  rows: count,
+  scores: list(undefinedNumber),
+  scoreMean: undefinedNumber,
+  top: list(z.strictObject({ name: text, mean: finite, share: undefinedNumber, isAboveFloor: z.boolean() })),
+})
+
+const sliceRowSchema = z.strictObject({
+  name: text,
+  definition: text,
+  status: z.enum(['measured', 'too-small', 'one-class']),
+  rows: z.strictObject({ base: count.nullable(), head: count }),
+  base: sliceSideSchema.optional(),
+  head: sliceSideSchema.optional(),
+  scoreChange: z.strictObject({ worsening: finite, pValue: undefinedNumber, adjustedPValue: undefinedNumber }).optional(),
+}).meta({ id: 'SliceRow' })
+
 export const gateReportSchema = z
   .strictObject({
     schemaVersion: z.literal(1),
@@ -168,6 +223,10 @@ export const gateReportSchema = z
       checks: record(evidenceSchema),
     }),
     timings: record(z.number().min(0)),
+    sensitivity: sensitivityReportSchema.optional(),
+    gain: gainReportSchema.optional(),
+    groups: list(z.strictObject({ name: text, members: list(text), automatic: z.boolean(), weakestLink: finite.nullable() })).optional(),
+    slices: list(sliceRowSchema).optional(),
     caution: text.min(1),
   })
   .meta({

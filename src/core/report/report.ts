@@ -21,6 +21,14 @@ export type FindingKind =
   | 'policy-changed' // the pull request changes the policy file itself
   | 'noise-model' // how much noise the floor covers (loaded models cannot be reseeded)
   | 'run-error' // the run failed; verdict 'error'
+  | 'sensitivity-shift' // how much predictions move with a feature changed between the sides beyond reseed noise
+  | 'sensitivity-unlabeled' // on the unlabeled rows a feature moves predictions much more or less than on the holdout
+  | 'gain-noise' // ranked high by the trees' gain, indistinguishable from zero on the holdout
+  | 'slice-score' // a policy slice's holdout score got worse beyond reseed noise
+  | 'slice-dominance' // inside a policy slice one feature carries the model
+  | 'slice-top-features' // a policy slice's top feature is not among the overall top
+  | 'slice-too-small' // a policy slice has too few holdout rows (or one class) to judge
+  | 'group-carried' // a feature looks unimportant alone while its correlated group matters
 
 /** Evidence values are plain numbers, strings, booleans or null, so the JSON stays flat and diffable. */
 export type Evidence = Readonly<Record<string, number | string | boolean | null>>
@@ -122,6 +130,88 @@ export interface RankAgreement {
   readonly featuresCompared: number
 }
 
+/** Prediction sensitivity of one feature or group on one side and one set of rows, over refits. */
+export interface SensitivityValue {
+  /** Mean over refits of the mean absolute change of the output (binary: of the probability). */
+  readonly mean: number
+  /** SD across refits of the per-refit values (NaN for one refit). */
+  readonly refitSd: number
+  /** Binary only: mean share of rows whose decision flips at the threshold; null for regression. */
+  readonly flipShare: number | null
+  /** Per refit, the mean over draws. */
+  readonly perRefit: readonly number[]
+}
+
+export interface SensitivitySide {
+  readonly holdout: SensitivityValue
+  /** On `data.unlabeled`, when the policy names it. */
+  readonly unlabeled?: SensitivityValue
+}
+
+export interface SensitivityRow {
+  readonly name: string
+  readonly isGroup: boolean
+  readonly base?: SensitivitySide
+  readonly head?: SensitivitySide
+  /** Both sides: Welch's test of the holdout values, Benjamini–Hochberg over the units compared. */
+  readonly change?: { readonly pValue: number; readonly adjustedPValue: number; readonly isSignificant: boolean }
+}
+
+/** Prediction sensitivity (Datta, Sen & Zick 2016, unary influence), measured without labels. */
+export interface SensitivityReport {
+  /** Binary: the decision threshold on the probability (0.5); null for regression. */
+  readonly threshold: number | null
+  /** Rows of `data.unlabeled` measured per side (0 without it). */
+  readonly unlabeledRows: { readonly base: number; readonly head: number }
+  /** Head's holdout value first. */
+  readonly features: readonly SensitivityRow[]
+}
+
+export interface GainValue {
+  /** Mean over refits of the summed split gain (in-sample loss reduction). */
+  readonly gain: number
+  /** Mean over refits of the number of splits. */
+  readonly splits: number
+  /** Share of the side's total gain. */
+  readonly share: number
+  /** 1-based rank by gain among the side's features. */
+  readonly rank: number
+}
+
+/** The built-in gradient boosting's gain and split counts, beside permutation importance. */
+export interface GainReport {
+  readonly caution: string
+  /** Head's gain first. */
+  readonly features: readonly { readonly name: string; readonly base?: GainValue; readonly head?: GainValue }[]
+}
+
+export const gainCaution =
+  'Gain is measured on the training rows (in-sample) and favours continuous and high-cardinality ' +
+  'features (Strobl, Boulesteix, Zeileis & Hothorn 2007); permutation importance on the holdout is the measure to judge by.'
+
+/** One side of a policy slice: its rows, per-refit scores and top features by importance on them. */
+export interface SliceSideSummary {
+  readonly rows: number
+  readonly scores: readonly number[]
+  readonly scoreMean: number
+  /** Up to five features by mean importance on the slice's rows. */
+  readonly top: readonly { readonly name: string; readonly mean: number; readonly share: number; readonly isAboveFloor: boolean }[]
+}
+
+export interface SliceRow {
+  readonly name: string
+  /** The filter in words. */
+  readonly definition: string
+  /** measured: scored and judged; too-small / one-class: not judged; the base may lack a column the head adds. */
+  readonly status: 'measured' | 'too-small' | 'one-class'
+  /** Holdout rows the filter keeps on each side (null: the base lacks a column the filter names). */
+  readonly rows: { readonly base: number | null; readonly head: number }
+  readonly base?: SliceSideSummary
+  readonly head?: SliceSideSummary
+  /** Both sides measured with two refits or more: the one-sided Welch test of the slice's score. */
+  readonly scoreChange?: { readonly worsening: number; readonly pValue: number; readonly adjustedPValue: number }
+}
+
 export interface GateReport {
   readonly schemaVersion: 1
   readonly tool: { readonly name: 'plumbline'; readonly version: string }
@@ -154,6 +244,14 @@ export interface GateReport {
   }
   /** Wall-clock seconds per stage, measured by the adapter; not part of the deterministic content. */
   readonly timings: Readonly<Record<string, number>>
+  /** Prediction sensitivity per feature; absent when checks.sensitivity is off. */
+  readonly sensitivity?: SensitivityReport
+  /** Built-in gradient boosting only. */
+  readonly gain?: GainReport
+  /** Feature groups permuted jointly: the policy's and the automatic ones (|Spearman| at or above the threshold). */
+  readonly groups?: readonly { readonly name: string; readonly members: readonly string[]; readonly automatic: boolean; readonly weakestLink: number | null }[]
+  /** Policy slices, in policy order; absent without slices or with checks.slices off. */
+  readonly slices?: readonly SliceRow[]
   /** Always present: a pass is not proof of the absence of leakage. */
   readonly caution: string
 }

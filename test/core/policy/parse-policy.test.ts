@@ -61,6 +61,7 @@ describe('parsePolicy(text, {source})', () => {
       model: { kind: 'builtin', learner: 'gradient-boosting', ...defaultBoosting },
       importance: { metric: 'log-loss', ...defaultImportance, groups: {} },
       checks: defaultChecks,
+      slices: [],
       report: defaultReport,
     })
   })
@@ -134,6 +135,7 @@ importance:
   evaluation_rows: 700
   groups:
     route: [distance_km, stop_count]
+  group_threshold: 0.8
 checks:
   leakage:
     action: warn
@@ -152,6 +154,25 @@ checks:
     alpha: 0.01
   holdout_rows:
     action: warn
+  correlated_groups:
+    action: warn
+  sensitivity:
+    action: block
+    false_discovery_rate: 0.1
+    min_relative_change: 0.3
+    unlabeled_ratio: 3
+    min_share: 0.01
+  gain:
+    action: off
+    top_ranks: 5
+    min_gain_share: 0.2
+    min_distinct: 50
+  slices:
+    action: off
+    min_rows: 50
+slices:
+  - name: harbour
+    where: { column: depot, equals: harbour }
 report:
   max_table_rows: 1000
 `
@@ -212,13 +233,18 @@ model:
           columnSubsample: 0.25,
           maxBins: 2,
         },
-        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, groups: { route: ['distance_km', 'stop_count'] } },
+        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, groups: { route: ['distance_km', 'stop_count'] }, groupThreshold: 0.8 },
         checks: {
           leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7 },
           rankShift: { action: 'block', falseDiscoveryRate: 0.1, minPositions: 3, agreementPercentile: 2.5 },
           score: { action: 'off', tolerance: 0.002, alpha: 0.01 },
           holdoutRows: { action: 'warn' },
+          sensitivity: { action: 'block', falseDiscoveryRate: 0.1, minRelativeChange: 0.3, unlabeledRatio: 3, minShare: 0.01 },
+          gain: { action: 'off', topRanks: 5, minGainShare: 0.2, minDistinct: 50 },
+          slices: { action: 'off', minRows: 50 },
+          correlatedGroups: { action: 'warn' },
         },
+        slices: [{ name: 'harbour', where: { column: 'depot', equals: 'harbour' } }],
         report: { maxTableRows: 1000 },
       })
       const split = parsePolicy(withSplitAndOnnx, { source })
@@ -282,6 +308,28 @@ checks:
       })
     })
 
+    it('slice filters that are not one column comparison, or all_of / any_of, naming the slice and key', () => {
+      const withSlices = (slices: string) => `${minimal}slices:\n${slices}`
+      expect(failure(withSlices('  - name: harbour\n    where: { column: depot, equals: harbour, below: 3 }\n'))).toEqual({
+        message:
+          'plumbline.yml:15:5: slices[0].where has 2 comparisons (equals, below); a filter is column with one of equals, in, at_least, below, between, is_missing; or all_of or any_of with a list of filters.',
+        fix: 'Keep one comparison here and put the others in their own filters under all_of.',
+      })
+      expect(failure(withSlices('  - name: long\n    where: { all_of: [ { column: km, between: [5, 2] } ] }\n'))).toEqual({
+        message: 'plumbline.yml:15:47: slices[0].where.all_of[0].between needs low below high; got [5, 2].',
+        fix: 'Write between: [low, high] with low < high (low included, high excluded).',
+      })
+      expect(failure(withSlices('  - name: h\n    where: { colum: d, at_least: 1 }\n')).message).toBe(
+        "plumbline.yml:15:14: unknown key 'colum' in slices[0].where (allowed: column, equals, in, at_least, below, between, is_missing, all_of, any_of). Did you mean 'column'?",
+      )
+      expect(failure(withSlices('  - name: h\n    where: { column: d, at_least: ten }\n')).message).toBe("plumbline.yml:15:35: slices[0].where.at_least must be a number; got 'ten'.")
+      expect(failure(withSlices('  - name: h\n    where: { column: d, below: 1 }\n  - name: h\n    where: { column: d, below: 2 }\n')).message).toBe(
+        "plumbline.yml:16:11: slices[1].name repeats the slice name 'h'; each slice needs its own name.",
+      )
+      const config = parsePolicy(withSlices('  - name: wet harbour\n    where:\n      all_of:\n        - { column: depot, in: [harbour] }\n        - { column: rain_mm, is_missing: false }\n'), { source })
+      expect(config.slices).toEqual([{ name: 'wet harbour', where: { allOf: [{ column: 'depot', in: ['harbour'] }, { column: 'rain_mm', isMissing: false }] } }])
+    })
+
     it('an unknown key, suggesting the nearest allowed one', () => {
       const text = `version: 1
 task: binary
@@ -298,7 +346,7 @@ model:
 `
       expect(failure(text)).toEqual({
         message:
-          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, groups). Did you mean 'refits'?",
+          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, groups, group_threshold). Did you mean 'refits'?",
         fix: "Rename 'refts' to 'refits', or delete it.",
       })
     })
@@ -319,7 +367,7 @@ model:
     it('an unknown key with no near match, without a guess', () => {
       expect(failure(`${minimal}notify: team\n`)).toEqual({
         message:
-          "plumbline.yml:13:1: unknown key 'notify' at the top level (allowed: version, task, target, seed, data, prepare, model, importance, checks, report).",
+          "plumbline.yml:13:1: unknown key 'notify' at the top level (allowed: version, task, target, seed, data, prepare, model, importance, checks, slices, report).",
         fix: "Delete 'notify', or rename it to one of the allowed keys (docs/policy.md describes each).",
       })
     })
@@ -333,7 +381,7 @@ model:
 
     it('a misspelt required key as unknown before reporting it missing', () => {
       expect(failure(minimal.replace('target: late', 'targte: late')).message).toBe(
-        "plumbline.yml:3:1: unknown key 'targte' at the top level (allowed: version, task, target, seed, data, prepare, model, importance, checks, report). Did you mean 'target'?",
+        "plumbline.yml:3:1: unknown key 'targte' at the top level (allowed: version, task, target, seed, data, prepare, model, importance, checks, slices, report). Did you mean 'target'?",
       )
     })
 

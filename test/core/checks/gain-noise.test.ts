@@ -1,0 +1,34 @@
+import { describe, expect, it } from 'vitest'
+import { checkGainNoise, type GainFeature } from '../../../src/core/checks/gain-noise.ts'
+import { defaultChecks } from '../../../src/core/policy/policy-defaults.ts'
+
+const feature = (name: string, gain: number, distinct: number, isAboveFloor: boolean): GainFeature => ({ name, gain, splits: 10, distinct, importance: isAboveFloor ? 0.05 : 0.0001, isAboveFloor })
+
+describe('checkGainNoise (Strobl, Boulesteix, Zeileis & Hothorn 2007: gain favours many distinct values)', () => {
+  const features = [
+    feature('parcel_code', 50, 4000, false), // top by gain, many values, nothing on the holdout
+    feature('distance_km', 30, 900, true), // top by gain and real on the holdout
+    feature('fragile', 15, 2, false), // two values: not high cardinality
+    feature('depot', 5, 5, true),
+  ]
+
+  it('warns for a new or changed high-cardinality feature ranked high by gain and at zero on the holdout', () => {
+    const findings = checkGainNoise(features, new Set(['parcel_code']), defaultChecks.gain)
+    expect(findings.map((f) => [f.kind, f.severity, f.feature])).toEqual([['gain-noise', 'warn', 'parcel_code']])
+    expect(findings[0].title).toBe(
+      "parcel_code ranks 1 by the trees' gain (50%) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).",
+    )
+    expect(findings[0].evidence).toMatchObject({ gainRank: 1, gainShare: 0.5, distinct: 4000 })
+  })
+
+  it('reports it as info when the pull request did not touch the feature, and not at all when off', () => {
+    expect(checkGainNoise(features, new Set(), defaultChecks.gain).map((f) => f.severity)).toEqual(['info'])
+    expect(checkGainNoise(features, new Set(['parcel_code']), { ...defaultChecks.gain, action: 'off' })).toEqual([])
+  })
+
+  it('leaves out features beyond the top ranks or below the gain share', () => {
+    expect(checkGainNoise(features, new Set(['parcel_code']), { ...defaultChecks.gain, minGainShare: 0.6 })).toEqual([])
+    const later = [feature('a', 50, 10, true), feature('b', 40, 10, true), feature('c', 30, 10, true), feature('noise', 29, 500, false)]
+    expect(checkGainNoise(later, new Set(['noise']), defaultChecks.gain)).toEqual([])
+  })
+})
