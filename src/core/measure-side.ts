@@ -7,6 +7,7 @@ import { rocAuc } from './metrics/roc-auc.ts'
 import { rSquared } from './metrics/r-squared.ts'
 import type { Fit, Model } from './models/model.ts'
 import { createRandom, deriveSeed, shuffledIndices } from './statistics/random.ts'
+import { measureDropColumns, type DropColumnRequest, type DropColumnScores } from './measure-drop-columns.ts'
 
 export interface MeasureSideInputs {
   readonly side: 'base' | 'head'
@@ -33,6 +34,8 @@ export interface MeasureSideOptions {
   readonly onRefit?: (refit: number, of: number) => void
   /** Ask the fit for every refit at once (training commands, which run up to their own parallel limit). */
   readonly concurrentFits?: boolean
+  /** Drop-column (LOCO) refits after the full ones, with the same seeds; none for a loaded model. */
+  readonly dropColumns?: DropColumnRequest
 }
 
 export interface SideMeasurement {
@@ -47,6 +50,8 @@ export interface SideMeasurement {
   /** Holdout predictions of the first refit, for a paired bootstrap when there is one refit. */
   readonly firstPredictions: Float64Array
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
+  /** Holdout scores of the drop-column refits, per feature (empty for a loaded model or when not asked). */
+  readonly dropColumns: readonly DropColumnScores[]
 }
 
 /** The seed of refit r. The same on both sides, so a change that alters nothing alters no number. */
@@ -98,17 +103,32 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
     })
     perRefit.push(canonicalOrder(result.importances, featureOrder, options.groups, options.draws))
   }
+  const importances = computeNoiseFloor(perRefit)
+  const dropColumns =
+    inputs.fit && options.dropColumns && refits >= 2
+      ? await measureDropColumns(
+          { side: inputs.side, train, holdout, fit: inputs.fit },
+          {
+            request: options.dropColumns,
+            ranked: importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).map((u) => u.name),
+            refitSeeds,
+            metric: options.metric,
+            concurrentFits: options.concurrentFits,
+          },
+        )
+      : []
   return {
     refitSeeds,
     scores,
     separation,
-    importances: computeNoiseFloor(perRefit),
+    importances,
     perRefit,
     evaluationRows: evaluation.rows,
     referenceRows: reference.rows,
     model: modelInfo,
     firstPredictions,
     noiseCovers: refits < 2 ? 'draws-only' : 'refits-and-draws',
+    dropColumns,
   }
 }
 

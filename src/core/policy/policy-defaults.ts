@@ -58,6 +58,7 @@ export const defaultImportance = deepFreeze({
   refits: 5,
   referenceRows: 10_000,
   evaluationRows: 20_000,
+  dropColumnTop: 1,
 })
 
 export const defaultChecks: ChecksConfig = deepFreeze({
@@ -67,6 +68,9 @@ export const defaultChecks: ChecksConfig = deepFreeze({
     runnerUpRatio: 3,
     singleFeaturePower: 0.99,
     relativePower: 0.8,
+    liftWarn: 0.1,
+    liftBlock: 0.25,
+    reviewedColumns: [],
   },
   rankShift: {
     action: 'warn',

@@ -250,6 +250,7 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(1, `refits: ${defaultImportance.refits}`, 'reseeded refits per side'),
     optional(1, `reference_rows: ${defaultImportance.referenceRows}`),
     optional(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
+    optional(1, `drop_column_top: ${defaultImportance.dropColumnTop}`, 'features per side also refitted without (drop-column)'),
     optional(1, 'groups:', 'columns permuted together and reported as one'),
     optional(2, `group_name: ${example(numeric, ['column_a', 'column_b'])}`),
   ])
@@ -263,6 +264,9 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `runner_up_ratio: ${leakage.runnerUpRatio}`),
     optional(2, `single_feature_power: ${leakage.singleFeaturePower}`),
     optional(2, `relative_power: ${leakage.relativePower}`),
+    optional(2, `lift_warn: ${leakage.liftWarn}`, 'docs/leak-rule.md'),
+    optional(2, `lift_block: ${leakage.liftBlock}`),
+    optional(2, 'reviewed_columns: []', 'columns a person checked are known at prediction time'),
     key(1, 'rank_shift:', 'features change places between base and head'),
     key(2, `action: ${rankShift.action}`),
     optional(2, `false_discovery_rate: ${rankShift.falseDiscoveryRate}`),

@@ -1,3 +1,4 @@
+import type { DropColumnEstimate } from '../importance/drop-column-importance.ts'
 /**
  * The GateReport out of the measured sides, the findings and the settings: pure assembly, no
  * judgment (the checks in src/core/checks/ decide; this module only lays out what they found).
@@ -95,6 +96,7 @@ export function featureRows(
           ...(side.singleFeatureSeparation[u.name] !== undefined && !u.isGroup
             ? { singleFeatureScore: side.singleFeatureSeparation[u.name] }
             : {}),
+          ...(side.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side.dropColumns[u.name]) } : {}),
         },
       ]),
     )
@@ -154,3 +156,7 @@ export function describeSides(
   return { base: describe('base', inputs.base, base), head: describe('head', inputs.head, head) }
 }
 
+
+function dropColumnOf(d: DropColumnEstimate): NonNullable<SideImportance['dropColumn']> {
+  return { loss: d.mean, lower: d.lower, upper: d.upper, pValue: d.pValue, isAboveNoise: d.isAboveNoise, perRefit: d.perRefit }
+}

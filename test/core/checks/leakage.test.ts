@@ -11,6 +11,9 @@ const options: LeakageOptions = {
   runnerUpRatio: 3,
   singleFeaturePower: 0.99,
   relativePower: 0.8,
+  liftWarn: 0.1,
+  liftBlock: 0.25,
+  reviewedColumns: [],
 }
 
 function check(base: SideResult, head: SideResult, change: { added?: string[]; changed?: string[] } = {}, overrides: Partial<LeakageOptions> = {}) {
@@ -34,7 +37,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
       kind: 'leakage',
       severity: 'block',
       feature: 'scan_delay_h',
-      title: 'scan_delay_h alone separates the holdout (AUC 0.995); it is new in this pull request.',
+      title: 'scan_delay_h, new here, alone separates the holdout (AUC 0.995).',
       message:
         'A model that sees only scan_delay_h reaches holdout AUC 0.995 (the full model reaches 0.975; the policy line is 0.99). ' +
         'A value this predictive on its own usually means it is computed from, or after, the outcome. Check that it is known at prediction time.',
@@ -52,7 +55,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
     const after = sideResult({ features: strong, separation: steady(0.975, 0.005), single })
     const [finding] = check(before, after)
     expect(finding.severity).toBe('warn')
-    expect(finding.title).toBe('final_scan_hour alone separates the holdout (AUC 0.995); it is unchanged.')
+    expect(finding.title).toBe('final_scan_hour, unchanged here, alone separates the holdout (AUC 0.995).')
     expect(finding.message).toBe(
       'A model that sees only final_scan_hour reaches holdout AUC 0.995 (the full model reaches 0.975; the policy line is 0.99). ' +
         'A value this predictive on its own usually means it is computed from, or after, the outcome. ' +
@@ -61,7 +64,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
     // Changed in the pull request, or newly crossing the line: the policy action again.
     expect(check(before, after, { changed: ['final_scan_hour'] })[0].severity).toBe('block')
     const weakerBefore = sideResult({ side: 'base', features: strong, separation: steady(0.975, 0.005), single: { final_scan_hour: 0.9 } })
-    expect(check(weakerBefore, after)[0]).toMatchObject({ severity: 'block', title: 'final_scan_hour alone separates the holdout (AUC 0.995); it is unchanged.' })
+    expect(check(weakerBefore, after)[0]).toMatchObject({ severity: 'block', title: 'final_scan_hour, unchanged here, alone separates the holdout (AUC 0.995).' })
   })
 
   it('draws the line at singleFeaturePower inclusively, and says R² for regression', () => {
@@ -69,7 +72,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
     expect(check(base, head(0.99), { added: ['roadworks_km'] }).map((f) => f.feature)).toEqual(['roadworks_km'])
     expect(check(base, head(0.9899), { added: ['roadworks_km'] })).toEqual([])
     const [regression] = check(base, head(0.995), { added: ['roadworks_km'] }, { task: 'regression' })
-    expect(regression.title).toBe('roadworks_km alone separates the holdout (R² 0.995); it is new in this pull request.')
+    expect(regression.title).toBe('roadworks_km, new here, alone separates the holdout (R² 0.995).')
   })
 
   it('finds nothing when the check is off', () => {
@@ -91,7 +94,7 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
       kind: 'leakage',
       severity: 'info',
       feature: 'distance_km',
-      title: 'distance_km dominates the model (80% of the importance, 6.67× the runner-up); it is unchanged.',
+      title: 'distance_km, unchanged here, dominates the model (80% of the importance, 6.67× the runner-up).',
       message:
         "distance_km carries 80% of the total positive importance, 6.67× as much as stop_count, and a model that sees only it earns 95% of the full model's gain over a trivial predictor " +
         '(AUC 0.9 alone vs 0.92 for the full model). It already dominated the base model (80%) and did not change, so this is reported for information.',
@@ -106,7 +109,7 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
     const [finding] = check(base, head, { changed: ['distance_km'] })
     // By hand: steady(·, 0.005) has SD sqrt(6.25e-5 / 4) = 0.00395 on both sides; (0.95 − 0.92) / 0.00395 = 7.59.
     expect(finding.severity).toBe('block')
-    expect(finding.title).toBe('distance_km dominates the model (80% of the importance, 6.67× the runner-up); it is changed in this pull request.')
+    expect(finding.title).toBe('distance_km, changed here, dominates the model (80% of the importance, 6.67× the runner-up).')
     expect(finding.message).toBe(
       "distance_km carries 80% of the total positive importance, 6.67× as much as stop_count, and a model that sees only it earns 89% of the full model's gain over a trivial predictor " +
         '(AUC 0.9 alone vs 0.95 for the full model). On the base side its share was 80%; the full model\'s AUC went from 0.92 to 0.95 (7.59 reseed SDs).',

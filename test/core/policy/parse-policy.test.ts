@@ -132,6 +132,7 @@ importance:
   refits: 100
   reference_rows: 500
   evaluation_rows: 700
+  drop_column_top: 2
   groups:
     route: [distance_km, stop_count]
 checks:
@@ -141,6 +142,9 @@ checks:
     runner_up_ratio: 4
     single_feature_power: 0.95
     relative_power: 0.7
+    lift_warn: 0.2
+    lift_block: 0.4
+    reviewed_columns: [distance_km]
   rank_shift:
     action: block
     false_discovery_rate: 0.1
@@ -212,9 +216,9 @@ model:
           columnSubsample: 0.25,
           maxBins: 2,
         },
-        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, groups: { route: ['distance_km', 'stop_count'] } },
+        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, dropColumnTop: 2, groups: { route: ['distance_km', 'stop_count'] } },
         checks: {
-          leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7 },
+          leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7, liftWarn: 0.2, liftBlock: 0.4, reviewedColumns: ['distance_km'] },
           rankShift: { action: 'block', falseDiscoveryRate: 0.1, minPositions: 3, agreementPercentile: 2.5 },
           score: { action: 'off', tolerance: 0.002, alpha: 0.01 },
           holdoutRows: { action: 'warn' },
@@ -298,7 +302,7 @@ model:
 `
       expect(failure(text)).toEqual({
         message:
-          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, groups). Did you mean 'refits'?",
+          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, drop_column_top, groups). Did you mean 'refits'?",
         fix: "Rename 'refts' to 'refits', or delete it.",
       })
     })
@@ -312,7 +316,7 @@ model:
 
     it('a camelCase key, pointing to its snake_case spelling', () => {
       expect(failure(`${minimal}checks:\n  leakage:\n    singleFeaturePower: 0.9\n`).message).toBe(
-        "plumbline.yml:15:5: unknown key 'singleFeaturePower' in checks.leakage (allowed: action, dominance_share, runner_up_ratio, single_feature_power, relative_power). Did you mean 'single_feature_power'?",
+        "plumbline.yml:15:5: unknown key 'singleFeaturePower' in checks.leakage (allowed: action, dominance_share, runner_up_ratio, single_feature_power, relative_power, lift_warn, lift_block, reviewed_columns). Did you mean 'single_feature_power'?",
       )
     })
 
