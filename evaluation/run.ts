@@ -107,9 +107,18 @@ function policyText(scenario: Scenario, policySeed: number, overrides: Readonly<
     task: scenario.spec.task,
     target: scenario.target,
     seed: policySeed,
-    data: { train: 'data/train.csv', holdout: 'data/holdout.csv', columns: { [scenario.idColumn]: 'id' } },
+    data: { train: 'data/train.csv', holdout: 'data/holdout.csv', columns: scenario.withoutIds ? {} : { [scenario.idColumn]: 'id' } },
     model: { builtin: { learner: 'gradient-boosting' } },
   }
+  const set = (path: string, value: unknown) => {
+    const keys = path.split('.')
+    let node = policy
+    for (const key of keys.slice(0, -1)) node = (node[key] ??= {}) as Record<string, unknown>
+    const last = keys[keys.length - 1]
+    const prior = node[last]
+    node[last] = prior && typeof prior === 'object' && value && typeof value === 'object' && !Array.isArray(value) ? { ...prior, ...value } : value
+  }
+  for (const [path, value] of Object.entries(scenario.policy)) set(path, value)
   for (const [path, value] of Object.entries(overrides)) {
     const keys = path.split('.')
     let node = policy

@@ -63,6 +63,7 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
     cleanups.push(baseTree.remove)
     const baseSide = await loadSide(policy, baseTree.path, 'base', baseTarget.ref, baseTarget.commit, policyPath, log)
     const headSide = await loadSide(policy, head.path, 'head', head.ref, head.commit, policyPath, log)
+    checkPolicyAgainstColumns(policy, columnsOf(headSide.train), { otherSide: columnsOf(baseSide.train) })
     return await runGate({
       config,
       policySource: policyPath,
@@ -100,7 +101,7 @@ async function loadSide(
     log(`${side}: running prepare: ${config.prepare.command}`)
     await runPrepare({ command: config.prepare.command, cwd: checkout, timeoutSeconds: config.prepare.timeoutSeconds, side })
   }
-  const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout }
+  const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout, featureRolesMayBeAbsent: true }
   const tables: Partial<Record<DataFileRequest['role'], Dataset>> = {}
   for (const file of sideDataFiles(config)) {
     tables[file.role] = await readDataset(file.path, {
@@ -111,10 +112,13 @@ async function loadSide(
     })
   }
   const { train, holdout, reference } = assembleSideData(config, tables)
-  checkPolicyAgainstColumns(policy, [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])])
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
   const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
   return { ref, commit, train, holdout, reference, model }
+}
+
+function columnsOf(train: Dataset): string[] {
+  return [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])]
 }
 
 function toRepoPath(path: string): string {

@@ -565,6 +565,15 @@ describe('checkPolicyAgainstColumns(policy, columns)', () => {
     expect(() => checkPolicyAgainstColumns(policy, columns)).not.toThrow()
   })
 
+  it('accepts a column one side lacks (that side removed or added it), but not an id one side lacks', () => {
+    const text = minimal.replace('    parcel_id: id\n', '    parcel_id: id\n    van_age_years: numeric\n')
+    const policy = readPolicyFile(text, { source })
+    expect(() => checkPolicyAgainstColumns(policy, columns, { otherSide: [...columns, 'van_age_years'] })).not.toThrow()
+    expect(() => checkPolicyAgainstColumns(policy, columns, { otherSide: columns })).toThrow(/van_age_years/)
+    const withoutId = columns.filter((c) => c !== 'parcel_id')
+    expect(() => checkPolicyAgainstColumns(readPolicyFile(minimal, { source }), withoutId, { otherSide: columns })).toThrow(/parcel_id/)
+  })
+
   it('names the group, the position of the member, the columns and a close name', () => {
     const text = `${minimal}importance:\n  groups:\n    route: [distance_km, stops_count]\n`
     expect(columnFailure(text, columns)).toEqual({
