@@ -82,6 +82,12 @@ export interface RunResult {
   readonly focusRelativeChange: number | null
   /** A one-feature model's holdout AUC / R² for the focus feature on the head, when reported. */
   readonly focusAlone: number | null
+  /**
+   * The focus feature's drop-column loss on the head over the base's mean holdout loss (log-loss,
+   * Brier, MAE as they are, RMSE squared, AUC / accuracy / R² as 1 − score): the lift share the leak
+   * rule reads, when the head refitted without it.
+   */
+  readonly focusLiftShare: number | null
   /** Worsening of the mean holdout score (positive = worse), in pooled reseed SDs of the score. */
   readonly scoreDropInSds: number | null
   /** Worsening of the mean holdout score in metric units. */
@@ -221,6 +227,7 @@ const empty = {
   focusShiftInSds: null,
   focusRelativeChange: null,
   focusAlone: null,
+  focusLiftShare: null,
   scoreDropInSds: null,
   scoreDrop: null,
   scores: null,
@@ -238,6 +245,7 @@ interface JsonSideImportance {
   share: number
   rank: number
   singleFeatureScore?: number
+  dropColumn?: { loss: number; isAboveNoise: boolean }
 }
 interface JsonReport {
   verdict: 'pass' | 'warn' | 'block' | 'error'
@@ -253,7 +261,11 @@ interface JsonReport {
     base: { scoreMean: number; scoreSd: number; scores: number[] }
     head: { scoreMean: number; scoreSd: number; scores: number[] }
   } | null
-  settings: { higherIsBetter: boolean }
+  settings: { higherIsBetter: boolean; metric: string }
+}
+
+function lossOf(metric: string, score: number): number {
+  return metric === 'rmse' ? score * score : ['auc', 'accuracy', 'r2'].includes(metric) ? 1 - score : score
 }
 
 function pooledSd(a: number, b: number): number {
@@ -290,6 +302,10 @@ function readReport(report: JsonReport, focus: string | null) {
     focusShiftInSds,
     focusRelativeChange,
     focusAlone: row?.head?.singleFeatureScore ?? null,
+    focusLiftShare:
+      row?.head?.dropColumn && report.sides
+        ? row.head.dropColumn.loss / (report.sides.base.scores.reduce((t, v) => t + lossOf(report.settings.metric, v), 0) / report.sides.base.scores.length)
+        : null,
     scoreDrop,
     scoreDropInSds,
     shifts: features
@@ -383,6 +399,8 @@ function describeEffect(results: readonly RunResult[]): string {
   }
   const alone = ok.map((r) => r.focusAlone).filter((v): v is number => v !== null)
   if (alone.length) parts.push(`focus alone median ${fmt(median(alone), 3)}`)
+  const lifts = ok.map((r) => r.focusLiftShare).filter((v): v is number => v !== null)
+  if (lifts.length) parts.push(`lift share ${fmt(Math.min(...lifts), 3)}–${fmt(Math.max(...lifts), 3)} (median ${fmt(median(lifts), 3)})`)
   const drops = ok.map((r) => r.scoreDropInSds).filter((v): v is number => v !== null)
   if (drops.length) parts.push(`score worse by median ${fmt(median(drops), 1)} SD`)
   return parts.join('; ')

@@ -520,7 +520,9 @@ export const families: readonly Family[] = [
     build: (p, random) => {
       const logDistance = standardized(Float64Array.from(numericValues(p, 'distance_km'), Math.log))
       const eta = standardized(populationEta(p))
-      return copyIn(p, random, Float64Array.from(logDistance, (d, i) => 3 * d + 0.4 * eta[i]), { slope: 6, intercept: -0.5, noise: 0.35 })
+      // Binary: logistic(−0.5 + 6·eta); regression: 20 + 12·eta + 12·0.35·N(0, 1), R² of eta about 0.89.
+      const slope = p.spec.task === 'binary' ? 6 : 1
+      return copyIn(p, random, Float64Array.from(logDistance, (d, i) => 3 * d + 0.4 * eta[i]), { slope, intercept: -0.5, noise: 0.35 })
     },
   },
   {
@@ -630,7 +632,9 @@ function strongLegit(p: Population, random: Random): Change {
   const backlog = Float64Array.from({ length: p.rows }, () => Math.exp(3 + 0.6 * random.normal()))
   const zBacklog = standardized(Float64Array.from(backlog, Math.log))
   const eta = standardized(populationEta(p))
-  const label = drawLabel(p, random, Float64Array.from(eta, (e, i) => e + 1.5 * zBacklog[i]), { slope: 2.2, intercept: -0.9, noise: 0.55 })
+  // The population's own shape: binary logistic(−0.9 + 2.2·eta), regression 20 + 12·eta + 12·0.55·N(0, 1).
+  const slope = p.spec.task === 'binary' ? 2.2 : 1
+  const label = drawLabel(p, random, Float64Array.from(eta, (e, i) => e + 1.5 * zBacklog[i]), { slope, intercept: -0.9, noise: 0.55 })
   return { headFeatures: withAdded(p, 'hub_backlog'), extra: { hub_backlog: numeric(backlog, 0) }, label, focus: 'hub_backlog' }
 }
 

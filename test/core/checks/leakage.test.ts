@@ -11,7 +11,7 @@ const options: LeakageOptions = {
   runnerUpRatio: 3,
   singleFeaturePower: 0.99,
   relativePower: 0.8,
-  liftWarn: 0.1,
+  liftWarn: 0.15,
   liftBlock: 0.25,
   reviewedColumns: [],
 }
