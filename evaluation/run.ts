@@ -72,7 +72,11 @@ export interface RunResult {
   readonly rows: number
   readonly seed: number
   readonly parameters: Readonly<Record<string, number | string>>
+  /** The feature the change is about (scenarios.ts), or null. */
+  readonly focus: string | null
   readonly verdict: 'pass' | 'warn' | 'block' | 'error'
+  /** The report's one-sentence headline (null when the run failed). */
+  readonly headline: string | null
   readonly exitCode: number
   readonly seconds: number
   readonly findings: readonly FindingSummary[]
@@ -207,6 +211,7 @@ export async function runOne(familyName: string, run: number, options: Evaluatio
     rows: spec.rows,
     seed: spec.seed,
     parameters: scenario.parameters,
+    focus: scenario.focus,
   }
   try {
     const repo = writeRepository(dir, scenario, policyText(scenario, spec.seed % 1_000_000, options.overrides ?? {}))
@@ -223,6 +228,7 @@ export async function runOne(familyName: string, run: number, options: Evaluatio
 }
 
 const empty = {
+  headline: null,
   findings: [],
   focusShiftInSds: null,
   focusRelativeChange: null,
@@ -249,6 +255,7 @@ interface JsonSideImportance {
 }
 interface JsonReport {
   verdict: 'pass' | 'warn' | 'block' | 'error'
+  headline: string
   findings: { kind: string; severity: string; feature?: string }[]
   features: {
     name: string
@@ -298,6 +305,7 @@ function readReport(report: JsonReport, focus: string | null) {
   const second = ranked[1]
   return {
     verdict: report.verdict,
+    headline: report.headline,
     findings,
     focusShiftInSds,
     focusRelativeChange,
@@ -452,7 +460,10 @@ export function renderTable(summaries: readonly FamilySummary[]): string {
 }
 
 /** The families the issue calls benign (no-op is deterministic and data-refresh is beyond its list). */
-export const issueBenignFamilies = ['reseed-only', 'row-order', 'irrelevant-added', 'weak-added', 'irrelevant-removed']
+export const issueBenignFamilies = ['reseed-only', 'row-order', 'irrelevant-added', 'weak-added', 'irrelevant-removed', 'feature-removed', 'row-order-no-ids']
+
+/** Leaks the issue calls strong: blocked in every run. noisy-copy counts here for runs with at most 10% flipped. */
+export const strongLeakFamilies = ['label-noise', 'post-outcome', 'post-outcome-proxy', 'copy-strong-features', 'copy-weak-features']
 
 /** The issue's targets, each with what was measured. */
 export function renderTargets(results: readonly RunResult[]): string {
@@ -470,15 +481,22 @@ export function renderTargets(results: readonly RunResult[]): string {
   }
   const blocked = (r: RunResult) => r.verdict === 'block'
   const flagged = (r: RunResult) => r.verdict === 'block' || r.verdict === 'warn'
+  const named = (r: RunResult) => flagged(r) && r.focus !== null && (r.headline ?? '').includes(r.focus)
+  const flipped = (r: RunResult) => Number(r.parameters.flippedShare ?? NaN)
   line(`benign (${issueBenignFamilies.join(', ')}) blocked, target ≤ 1%`, of(issueBenignFamilies), blocked, (k, n) => k <= 0.01 * n)
   for (const name of issueBenignFamilies) line(`  ${name} blocked`, of([name]), blocked, (k, n) => k <= 0.01 * n)
   line('benign no-op blocked, target 0', of(['no-op']), blocked, (k) => k === 0)
   line('data-refresh (beyond the issue) blocked, target ≤ 1%', of(['data-refresh']), blocked, (k, n) => k <= 0.01 * n)
-  line('strong leaks (label-noise, post-outcome) blocked, target 100%', of(['label-noise', 'post-outcome']), blocked, (k, n) => k === n)
-  for (const name of ['label-noise', 'post-outcome']) line(`  ${name} blocked`, of([name]), blocked, (k, n) => k === n)
-  line('noisy-copy flagged, target ≥ 90%', of(['noisy-copy']), flagged, (k, n) => k >= 0.9 * n)
-  line('slice-leak flagged, target ≥ 90%', of(['slice-leak']), flagged, (k, n) => k >= 0.9 * n)
-  line('slice-leak-empty flagged, target ≥ 90%', of(['slice-leak-empty']), flagged, (k, n) => k >= 0.9 * n)
+  const strong = [...of(strongLeakFamilies), ...of(['noisy-copy']).filter((r) => flipped(r) <= 0.1)]
+  line(`strong leaks (${strongLeakFamilies.join(', ')}, noisy-copy up to 10% flipped) blocked, target 100%`, strong, blocked, (k, n) => k === n)
+  for (const name of strongLeakFamilies) line(`  ${name} blocked`, of([name]), blocked, (k, n) => k === n)
+  line('  noisy-copy up to 10% flipped blocked', of(['noisy-copy']).filter((r) => flipped(r) <= 0.1), blocked, (k, n) => k === n)
+  line('noisy copies with 15% or more flipped flagged and named in the headline, target ≥ 90%', of(['noisy-copy']).filter((r) => flipped(r) >= 0.15), named, (k, n) => k >= 0.9 * n)
+  line('noisy-copy (10–20% flipped) flagged', of(['noisy-copy']), flagged, (k, n) => k >= 0.9 * n)
+  line('slice-leak flagged and named in the headline, target ≥ 90%', of(['slice-leak']), named, (k, n) => k >= 0.9 * n)
+  line('slice-leak-empty flagged and named in the headline, target ≥ 90%', of(['slice-leak-empty']), named, (k, n) => k >= 0.9 * n)
+  line('strong legitimate feature (strong-legit-added) blocked (no target: the cost of the lift rule)', of(['strong-legit-added']), blocked)
+  line('the same feature acknowledged in checks.leakage.reviewed_columns (strong-legit-reviewed) blocked, target 0', of(['strong-legit-reviewed']), blocked, (k) => k === 0)
   const shiftFamilies = ['signal-removed', 'transform-halved', 'correlated-duplicate']
   line(
     'real shifts of ≥ 2 reseed SDs (focus feature) flagged, target ≥ 90%',

@@ -23,6 +23,13 @@ const plan: readonly { family: string; run: number }[] = [
   { family: 'signal-removed', run: 0 },
   { family: 'transform-halved', run: 1 },
   { family: 'score-drop', run: 0 },
+  { family: 'copy-strong-features', run: 0 },
+  { family: 'copy-weak-features', run: 1 },
+  { family: 'post-outcome-proxy', run: 0 },
+  { family: 'strong-legit-added', run: 0 },
+  { family: 'strong-legit-reviewed', run: 0 },
+  { family: 'feature-removed', run: 1 },
+  { family: 'row-order-no-ids', run: 0 },
 ]
 
 const results = new Map<string, RunResult>()
@@ -61,6 +68,8 @@ describe('npm run evaluate, fast subset (runOne through the CLI)', () => {
     ['weak-added', 0],
     ['irrelevant-removed', 1],
     ['row-order', 0],
+    ['feature-removed', 1],
+    ['row-order-no-ids', 0],
   ])('%s (benign) does not block', (family, run) => {
     const r = result(family as string, run as number)
     expect(r.verdict, fired(r).join(' ')).not.toBe('block')
@@ -82,6 +91,25 @@ describe('npm run evaluate, fast subset (runOne through the CLI)', () => {
   // then make the expectation above 'block'.
   it.fails('post-outcome blocks', () => {
     expect(result('post-outcome', 0).verdict).toBe('block')
+  })
+
+  it.each([
+    ['copy-strong-features', 0],
+    ['copy-weak-features', 1],
+    ['post-outcome-proxy', 0],
+  ])('%s blocks on followup_score, named first in the headline', (family, run) => {
+    const r = result(family as string, run as number)
+    expect(r.verdict).toBe('block')
+    expect(fired(r)).toContain('block:leakage(followup_score)')
+    expect(r.headline).toMatch(/^Blocked: followup_score, new here,/)
+  })
+
+  it('strong-legit-reviewed: the acknowledgement turns the lift block on hub_backlog into a warning that still names it', () => {
+    const plain = result('strong-legit-added', 0)
+    const reviewed = result('strong-legit-reviewed', 0)
+    expect(fired(plain)).toContain('block:leakage(hub_backlog)')
+    expect(reviewed.verdict).not.toBe('block')
+    expect(fired(reviewed)).toContain('warn:leakage(hub_backlog)')
   })
 
   it('noisy-copy is flagged', () => {

@@ -101,6 +101,13 @@ function describeName(row: FeatureRow): string {
 }
 
 function describeStatus(row: FeatureRow): string {
+  const drop = row.head?.dropColumn
+  const status = describePlace(row)
+  // Drop-column (LOCO) loss on the head, when it was refitted without the feature.
+  return drop ? `${status}; drop-column loss ${formatNumber(drop.loss)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]${drop.isAboveNoise ? '' : ' (noise)'}` : status
+}
+
+function describePlace(row: FeatureRow): string {
   if (row.presence === 'removed') return 'removed'
   const floor = row.head?.isAboveFloor ? 'above floor' : 'indistinguishable from zero'
   if (row.presence === 'added') return row.head ? `added, ${floor}` : 'added'

@@ -2,11 +2,13 @@ import { describe, expect, it } from 'vitest'
 import { checkLeakage, type LeakageOptions } from '../../../src/core/checks/leakage.ts'
 import type { SideResult } from '../../../src/core/checks/side-result.ts'
 import { sideResult, steady } from './side-results.ts'
+import { dropColumnImportance } from '../../../src/core/importance/drop-column-importance.ts'
 
 // The policy defaults (src/core/config.ts defaultChecks.leakage).
 const options: LeakageOptions = {
   action: 'block',
   task: 'binary',
+  metricName: 'log-loss',
   dominanceShare: 0.5,
   runnerUpRatio: 3,
   singleFeaturePower: 0.99,
@@ -154,5 +156,52 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
     // No one-feature score at all: relative power unknown, so no dominance finding.
     const unknown = sideResult({ features: { top: [3, 3, 3], b: [1, 1, 1] }, separation: [0.5, 0.5, 0.5] })
     expect(check(base, unknown, {}, { task: 'regression' })).toEqual([])
+  })
+})
+
+describe('checkLeakage(context, options): the lift rule (docs/leak-rule.md)', () => {
+  // Losses are log-loss per refit; the head refitted without followup_score loses `drop` more.
+  const withLoss = (side: SideResult, losses: readonly number[], drops: Readonly<Record<string, readonly number[]>> = {}): SideResult => ({
+    ...side,
+    losses,
+    dropColumns: Object.fromEntries(Object.entries(drops).map(([name, d]) => [name, dropColumnImportance(losses, losses.map((l, r) => l + d[r]))])),
+  })
+  const base = withLoss(sideResult({ side: 'base', features: baseFeatures, separation: steady(0.8, 0.005), single: { distance_km: 0.71 } }), steady(0.5, 0.004))
+  const headWith = (drop: number, alone = 0.9) =>
+    withLoss(
+      sideResult({ features: { ...baseFeatures, followup_score: steady(0.04) }, separation: steady(0.9, 0.005), single: { distance_km: 0.71, followup_score: alone } }),
+      steady(0.5 - drop, 0.004),
+      { followup_score: steady(drop, 0.004) },
+    )
+
+  it('blocks a new feature that carries lift_block or more of the base model\'s remaining loss, naming the cause first', () => {
+    const [finding] = check(base, headWith(0.2), { added: ['followup_score'] })
+    expect(finding).toMatchObject({ kind: 'leakage', severity: 'block', feature: 'followup_score' })
+    expect(finding.title).toMatch(/^followup_score, new here, carries 40% of the log-loss the base model left/)
+    expect(finding.title).toContain('alone AUC 0.9 against 0.71 for the best existing feature (distance_km)')
+    // lift share 0.2 / 0.5; power against the best existing feature (0.9 − 0.5) / (0.71 − 0.5).
+    expect(finding.evidence.liftShare).toBeCloseTo(0.4, 10)
+    expect(finding.evidence.powerAgainstBestFeature).toBeCloseTo(0.4 / 0.21, 10)
+    expect(finding.evidence.dropColumnAboveNoise).toBe(true)
+  })
+
+  it('warns between lift_warn and lift_block, and says nothing below lift_warn', () => {
+    expect(check(base, headWith(0.1), { added: ['followup_score'] })[0]).toMatchObject({ severity: 'warn', feature: 'followup_score' })
+    expect(check(base, headWith(0.05), { added: ['followup_score'] })).toEqual([])
+  })
+
+  it('calls a drop-column loss within reseed noise nothing, however large its share would be', () => {
+    const noisy = withLoss(headWith(0.2), steady(0.3, 0.004), { followup_score: [0.4, -0.1, 0.5, -0.2, 0.4] })
+    expect(check(base, noisy, { added: ['followup_score'] })).toEqual([])
+  })
+
+  it('turns a lift block on a reviewed column into a warning that still names it, but never a one-feature block', () => {
+    const reviewed = { reviewedColumns: ['followup_score'] }
+    const [lift] = check(base, headWith(0.2), { added: ['followup_score'] }, reviewed)
+    expect(lift).toMatchObject({ severity: 'warn', feature: 'followup_score' })
+    expect(lift.evidence.isReviewed).toBe(true)
+    expect(lift.message).toContain('checks.leakage.reviewed_columns')
+    const [alone] = check(base, headWith(0.2, 0.995), { added: ['followup_score'] }, reviewed)
+    expect(alone).toMatchObject({ severity: 'block', feature: 'followup_score' })
   })
 })
