@@ -21,6 +21,11 @@ export interface LeakageOptions {
   readonly liftWarn: number
   /** Lift share from which the lift rule takes the policy action. */
   readonly liftBlock: number
+  /**
+   * A new or changed feature the model needs (drop-column loss above noise) whose one-feature model
+   * reaches this AUC / R² within one slice is warned about, named, even below singleFeaturePower.
+   */
+  readonly sliceWarnPower: number
   /** Columns a person reviewed as known at prediction time: lift and dominance blocks on them become warnings. */
   readonly reviewedColumns: readonly string[]
 }
@@ -187,6 +192,38 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
             ? `check that it is known at prediction time, and if a person has checked it, list it in checks.leakage.reviewed_columns.`
             : `below the policy's lift_block of ${options.liftBlock}, so this is a warning; check that it is known at prediction time.`),
       evidence: { ...liftRecord(lift), liftWarn: options.liftWarn, liftBlock: options.liftBlock, isNew: added.has(unit.name), isChanged: changed.has(unit.name), isReviewed },
+    })
+  }
+
+  // A slice leak too weak for the slice line: the model needs the feature, and inside one slice it
+  // nearly gives the outcome away.
+  for (const unit of ranked) {
+    const lift = lifts.get(unit.name)
+    const slice = head.singleFeatureSlices?.[unit.name]
+    if (flagged.has(unit.name) || !lift || !lift.isAboveNoise || !slice || !(slice.separation >= options.sliceWarnPower)) continue
+    flagged.add(unit.name)
+    findings.push({
+      kind: 'leakage',
+      severity: 'warn',
+      feature: unit.name,
+      title:
+        `${cause(unit.name)}, alone nearly separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}) ` +
+        `and the model needs it (${pct(lift.liftShare)} of the loss the base model left).`,
+      message:
+        `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ` +
+        `${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(lift.alone ?? undefined)}), and refitted without it the candidate's loss grows by ` +
+        `${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after ` +
+        `the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
+      evidence: {
+        sliceColumn: slice.column,
+        sliceValue: slice.value,
+        sliceRows: slice.rows,
+        sliceSeparation: slice.separation,
+        sliceWarnPower: options.sliceWarnPower,
+        ...liftRecord(lift),
+        isNew: added.has(unit.name),
+        isChanged: changed.has(unit.name),
+      },
     })
   }
 

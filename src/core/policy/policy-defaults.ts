@@ -70,6 +70,7 @@ export const defaultChecks: ChecksConfig = deepFreeze({
     relativePower: 0.8,
     liftWarn: 0.15,
     liftBlock: 0.25,
+    sliceWarnPower: 0.9,
     reviewedColumns: [],
   },
   rankShift: {

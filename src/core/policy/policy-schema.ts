@@ -208,6 +208,7 @@ const checksSchema = mapping({
     relative_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.relativePower),
     lift_warn: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.liftWarn),
     lift_block: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.liftBlock),
+    slice_warn_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.sliceWarnPower),
     reviewed_columns: z.preprocess(
       (raw) => (raw === null ? [] : raw),
       z.array(text('a column name'), { error: 'a list of column names, such as [roadworks_km]' }),
@@ -360,6 +361,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
         relativePower: checks.leakage.relative_power,
         liftWarn: checks.leakage.lift_warn,
         liftBlock: checks.leakage.lift_block,
+        sliceWarnPower: checks.leakage.slice_warn_power,
         reviewedColumns: Object.freeze([...checks.leakage.reviewed_columns]),
       },
       rankShift: {

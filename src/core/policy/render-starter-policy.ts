@@ -276,6 +276,7 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `relative_power: ${leakage.relativePower}`),
     optional(2, `lift_warn: ${leakage.liftWarn}`, 'docs/leak-rule.md'),
     optional(2, `lift_block: ${leakage.liftBlock}`),
+    optional(2, `slice_warn_power: ${leakage.sliceWarnPower}`),
     optional(2, 'reviewed_columns: []', 'columns a person checked are known at prediction time'),
     key(1, 'rank_shift:', 'features change places between base and head'),
     key(2, `action: ${rankShift.action}`),

@@ -15,6 +15,7 @@ const options: LeakageOptions = {
   relativePower: 0.8,
   liftWarn: 0.15,
   liftBlock: 0.25,
+  sliceWarnPower: 0.9,
   reviewedColumns: [],
 }
 
@@ -203,5 +204,23 @@ describe('checkLeakage(context, options): the lift rule (docs/leak-rule.md)', ()
     expect(lift.message).toContain('checks.leakage.reviewed_columns')
     const [alone] = check(base, headWith(0.2, 0.995), { added: ['followup_score'] }, reviewed)
     expect(alone).toMatchObject({ severity: 'block', feature: 'followup_score' })
+  })
+})
+
+describe('checkLeakage(context, options): a slice leak below the slice line', () => {
+  it('warns, naming the feature, when the model needs it and it alone nearly separates one slice', () => {
+    const losses = steady(0.5, 0.004)
+    const base: SideResult = { ...sideResult({ side: 'base', features: baseFeatures, single: { distance_km: 0.71 } }), losses, dropColumns: {} }
+    const headLosses = steady(0.46, 0.004)
+    const head: SideResult = {
+      ...sideResult({ features: { ...baseFeatures, scan_gap_h: steady(0.02) }, single: { distance_km: 0.71, scan_gap_h: 0.6 } }),
+      singleFeatureSlices: { scan_gap_h: { column: 'depot', value: 'harbour', rows: 120, separation: 0.95 } },
+      losses: headLosses,
+      dropColumns: { scan_gap_h: dropColumnImportance(headLosses, headLosses.map((l) => l + 0.04)) },
+    }
+    const [finding] = check(base, head, { added: ['scan_gap_h'] })
+    expect(finding).toMatchObject({ kind: 'leakage', severity: 'warn', feature: 'scan_gap_h' })
+    expect(finding.title).toMatch(/^scan_gap_h, new here, alone nearly separates the slice depot = harbour \(AUC 0\.95\)/)
+    expect(check(base, head, { added: ['scan_gap_h'] }, { sliceWarnPower: 0.96 })).toEqual([])
   })
 })

@@ -144,6 +144,7 @@ checks:
     relative_power: 0.7
     lift_warn: 0.2
     lift_block: 0.4
+    slice_warn_power: 0.8
     reviewed_columns: [distance_km]
   rank_shift:
     action: block
@@ -218,7 +219,7 @@ model:
         },
         importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, dropColumnTop: 2, groups: { route: ['distance_km', 'stop_count'] } },
         checks: {
-          leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7, liftWarn: 0.2, liftBlock: 0.4, reviewedColumns: ['distance_km'] },
+          leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7, liftWarn: 0.2, liftBlock: 0.4, sliceWarnPower: 0.8, reviewedColumns: ['distance_km'] },
           rankShift: { action: 'block', falseDiscoveryRate: 0.1, minPositions: 3, agreementPercentile: 2.5 },
           score: { action: 'off', tolerance: 0.002, alpha: 0.01 },
           holdoutRows: { action: 'warn' },
@@ -316,7 +317,7 @@ model:
 
     it('a camelCase key, pointing to its snake_case spelling', () => {
       expect(failure(`${minimal}checks:\n  leakage:\n    singleFeaturePower: 0.9\n`).message).toBe(
-        "plumbline.yml:15:5: unknown key 'singleFeaturePower' in checks.leakage (allowed: action, dominance_share, runner_up_ratio, single_feature_power, relative_power, lift_warn, lift_block, reviewed_columns). Did you mean 'single_feature_power'?",
+        "plumbline.yml:15:5: unknown key 'singleFeaturePower' in checks.leakage (allowed: action, dominance_share, runner_up_ratio, single_feature_power, relative_power, lift_warn, lift_block, slice_warn_power, reviewed_columns). Did you mean 'single_feature_power'?",
       )
     })
 
