@@ -111,7 +111,7 @@ export interface RunResult {
 // ---------------------------------------------------------------------------------------------
 // One run
 
-function policyText(scenario: Scenario, policySeed: number, overrides: Readonly<Record<string, string>>): string {
+export function policyText(scenario: Scenario, policySeed: number, overrides: Readonly<Record<string, string>>): string {
   const policy: Record<string, unknown> = {
     version: 1,
     task: scenario.spec.task,

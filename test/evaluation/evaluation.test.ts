@@ -81,35 +81,12 @@ describe('npm run evaluate, fast subset (runOne through the CLI)', () => {
     expect(fired(r)).toContain('block:leakage(recorded_delay)')
   })
 
-  it('post-outcome is flagged', () => {
+  // final_scan_hour leaks only together with promised_by_hour, which neither one-feature separation
+  // nor dominance sees; its drop-column loss does (the lift rule, docs/leak-rule.md).
+  it('post-outcome blocks on final_scan_hour through the lift rule', () => {
     const r = result('post-outcome', 0)
-    expect(['warn', 'block']).toContain(r.verdict)
-  })
-
-  // A known gap: final_scan_hour leaks only together with promised_by_hour, which neither
-  // one-feature separation nor dominance sees (evaluation/results.md). When it blocks, this fails:
-  // then make the expectation above 'block'.
-  it.fails('post-outcome blocks', () => {
-    expect(result('post-outcome', 0).verdict).toBe('block')
-  })
-
-  it.each([
-    ['copy-strong-features', 0],
-    ['copy-weak-features', 1],
-    ['post-outcome-proxy', 0],
-  ])('%s blocks on followup_score, named first in the headline', (family, run) => {
-    const r = result(family as string, run as number)
     expect(r.verdict).toBe('block')
-    expect(fired(r)).toContain('block:leakage(followup_score)')
-    expect(r.headline).toMatch(/^Blocked: followup_score, new here,/)
-  })
-
-  it('strong-legit-reviewed: the acknowledgement turns the lift block on hub_backlog into a warning that still names it', () => {
-    const plain = result('strong-legit-added', 0)
-    const reviewed = result('strong-legit-reviewed', 0)
-    expect(fired(plain)).toContain('block:leakage(hub_backlog)')
-    expect(reviewed.verdict).not.toBe('block')
-    expect(fired(reviewed)).toContain('warn:leakage(hub_backlog)')
+    expect(fired(r)).toContain('block:leakage(final_scan_hour)')
   })
 
   it('noisy-copy is flagged', () => {
