@@ -128,7 +128,7 @@ describe('plumbline check on pull requests the gate must see', () => {
     expect(result.code).toBe(1)
     const report = readReport(repo, 'report.json')
     expect(report.verdict).toBe('block')
-    expect(report.headline).toBe('Blocked: scan_delay_h alone separates the holdout (AUC 1); it is new in this pull request.')
+    expect(report.headline).toBe('Blocked: scan_delay_h, new here, alone separates the holdout (AUC 1).')
     expect(report.findings[0]).toMatchObject({ kind: 'leakage', severity: 'block', feature: 'scan_delay_h' })
     expect(report.featureSet).toEqual({ added: ['scan_delay_h'], removed: [], kindChanged: [] })
     expect(report.sides!.base).toMatchObject({ ref: 'merge-base(HEAD, main)', commit: repo.baseCommit })
