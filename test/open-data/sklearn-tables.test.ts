@@ -6,8 +6,9 @@
  * row held out), a policy with default checks, checked by the real CLI (main()):
  * - a label copy with 5% and with 8% of values flipped (binary) or swapped with another row's
  *   target (regression) is added: must block;
+ * - the issue's post-outcome proxy 2·label + 0.3·z(first feature) + N(0, 1) is added: must block;
  * - a column of pure noise is added: must pass with no leakage finding;
- * - the holdout rows are written in another order, with no id column: must not block.
+ * - the holdout rows are written in another order, with no id column: must pass (matched by content).
  * Without python3-sklearn the suite is skipped (its name says which package is missing).
  */
 import { existsSync, readFileSync } from 'node:fs'
@@ -55,7 +56,7 @@ function policy(task: 'binary' | 'regression'): string {
   return `version: 1\ntask: ${task}\ntarget: outcome\nseed: 3\ndata:\n  train: data/train.csv\n  holdout: data/holdout.csv\nmodel:\n  builtin:\n    learner: gradient-boosting\n`
 }
 
-type Change = 'copy-5' | 'copy-8' | 'noise' | 'reordered-holdout'
+type Change = 'copy-5' | 'copy-8' | 'proxy' | 'noise' | 'reordered-holdout'
 
 const repositories: TestRepository[] = []
 afterAll(() => repositories.forEach((r) => r.remove()))
@@ -74,10 +75,20 @@ async function check(table: Table, change: Change): Promise<GateReport> {
     }
     head = { 'data/holdout.csv': csv(table, order) }
   } else {
+    // The issue's post-outcome proxy: 2·label + 0.3·z(first feature) + N(0, 1) (regression: the label standardized).
+    const z = (values: readonly number[]) => {
+      const m = values.reduce((t, v) => t + v, 0) / values.length
+      const sd = Math.sqrt(values.reduce((t, v) => t + (v - m) ** 2, 0) / (values.length - 1))
+      return values.map((v) => (v - m) / sd)
+    }
+    const first = z(table.rows.map((r) => r[0]))
+    const label = table.task === 'binary' ? table.target : z(table.target)
     const values =
       change === 'noise'
         ? table.target.map(() => random.normal())
-        : table.target.map((y) => {
+        : change === 'proxy'
+          ? label.map((y, i) => 2 * y + 0.3 * first[i] + random.normal())
+          : table.target.map((y) => {
             if (random.next() >= (change === 'copy-5' ? 0.05 : 0.08)) return y
             return table.task === 'binary' ? 1 - y : table.target[random.int(table.target.length)]
           })
@@ -111,15 +122,21 @@ describe.skipIf(!hasSklearn)("open data from scikit-learn's bundled tables (need
       expect(report.headline).toMatch(/^Blocked: followup_score, new here,/)
     })
 
+    it('blocks the post-outcome proxy 2·label + 0.3·z(first feature) + N(0, 1)', async () => {
+      const report = await check(table, 'proxy')
+      expect(report.verdict).toBe('block')
+      expect(report.headline).toMatch(/^Blocked: followup_score, new here,/)
+    })
+
     it('passes a column of pure noise with no leakage finding', async () => {
       const report = await check(table, 'noise')
       expect(report.findings.filter((f) => f.kind === 'leakage')).toEqual([])
-      expect(report.verdict).not.toBe('block')
+      expect(report.verdict).toBe('pass')
     })
 
     it('does not block holdout rows written in another order without an id column', async () => {
       const report = await check(table, 'reordered-holdout')
-      expect(report.verdict).not.toBe('block')
+      expect(report.verdict).toBe('pass')
       expect(report.findings.filter((f) => f.kind === 'holdout-rows')).toEqual([])
     })
   })
