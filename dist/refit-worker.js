@@ -2313,8 +2313,12 @@ function defaultMetric(task) {
 // src/adapters/parallel/refit-worker.ts
 async function runRefit(task) {
   const fit = createBuiltinFit(task.train, task.builtin.task, task.builtin.settings, { binned: task.binned });
-  const model = await fit({ side: task.side, seed: task.seed, refit: task.refit, leaveOut: [] });
+  const model = await fit({ side: task.side, seed: task.seed, refit: task.refit, leaveOut: task.leaveOut ?? [] });
   const options = { ...task.options, metric: metricByName(task.options.metricName, task.builtin.task) };
+  if (task.leaveOut) {
+    const prediction = await model.predict(selectFeatures(task.holdout, model.featureNames));
+    return options.metric.compute(task.holdout.target.values, prediction);
+  }
   return measureRefit(model, { holdout: task.holdout, train: task.train }, options, task.rows, task.refit);
 }
 export {

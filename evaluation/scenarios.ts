@@ -47,7 +47,7 @@
  */
 
 export type Task = 'binary' | 'regression'
-export type FamilyKind = 'benign' | 'leak' | 'shift' | 'score'
+export type FamilyKind = 'benign' | 'leak' | 'shift' | 'score' | 'legit'
 
 export interface GeneratorSpec {
   readonly task: Task
@@ -76,6 +76,10 @@ export interface Scenario {
   readonly focus: string | null
   /** Numbers of the construction that vary per run (flip share, noise SD, slice), for the record. */
   readonly parameters: Readonly<Record<string, number | string>>
+  /** The tables carry no id column (the policy then names none). */
+  readonly withoutIds: boolean
+  /** Policy keys the family sets in both commits (dotted paths), beside the evaluation's own. */
+  readonly policy: Readonly<Record<string, unknown>>
 }
 
 export interface Family {
@@ -86,6 +90,8 @@ export interface Family {
   /** Whether a correct gate should block, flag (warn or block) or leave it alone. */
   readonly expectation: 'pass' | 'flag' | 'block'
   readonly build: (population: Population, random: Random) => Change
+  /** Policy keys (dotted paths) the family writes into both commits, e.g. a reviewed column. */
+  readonly policy?: (population: Population) => Readonly<Record<string, unknown>>
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -293,6 +299,10 @@ export interface Change {
   readonly headTrainColumns?: Readonly<Record<string, Column>>
   readonly focus: string | null
   readonly parameters?: Readonly<Record<string, number | string>>
+  /** The label of every row on both sides, when the family draws its own world (default: the population's). */
+  readonly label?: Float64Array
+  /** Write the tables without the id column. */
+  readonly withoutIds?: boolean
 }
 
 function numericValues(population: Population, name: string): Float64Array {
@@ -312,6 +322,56 @@ function labelSd(population: Population): number {
 }
 
 const withAdded = (population: Population, name: string) => [...population.baseFeatures, name]
+
+/**
+ * A label drawn from a linear predictor `eta` (standardized here) the way the population draws its
+ * own: binary late ~ Bernoulli(logistic(intercept + slope·eta)), regression 20 + 12·slope·eta + 12·noise·N(0, 1).
+ */
+function drawLabel(p: Population, random: Random, raw: ArrayLike<number>, shape: { slope: number; intercept: number; noise: number }): Float64Array {
+  const eta = standardized(raw)
+  return Float64Array.from(eta, (e) =>
+    p.spec.task === 'binary'
+      ? random.next() < 1 / (1 + Math.exp(-(shape.intercept + shape.slope * e))) ? 1 : 0
+      : Math.round((20 + 12 * shape.slope * e + 12 * shape.noise * random.normal()) * 10) / 10,
+  )
+}
+
+/** The population's own linear predictor (before standardizing), rebuilt from its columns. */
+function populationEta(p: Population): Float64Array {
+  const z = (name: string) => standardized(numericValues(p, name))
+  const logDistance = standardized(Float64Array.from(numericValues(p, 'distance_km'), Math.log))
+  const [stops, window, rain, weight, roadworks] = ['stop_count', 'promised_window_h', 'rain_forecast_mm', 'parcel_weight_kg', 'roadworks_km'].map(z)
+  const traffic = numericValues(p, 'traffic_index')
+  const depot = (p.columns.depot as { values: readonly string[] }).values
+  const shift = (p.columns.driver_shift as { values: readonly string[] }).values
+  return Float64Array.from(logDistance, (d, i) =>
+    0.9 * d + 0.6 * stops[i] - 0.45 * window[i] + depotEffect[depot[i]] + shiftEffect[shift[i]] +
+    0.45 * rain[i] + 0.6 * Math.max(0, (traffic[i] - 0.5) / 0.25 + 0.5) + 0.1 * weight[i] + 0.3 * roadworks[i],
+  )
+}
+
+/** A copy of `label` with `share` of its values flipped (binary) or swapped with another row's (regression). */
+function noisyCopy(p: Population, label: Float64Array, share: number, random: Random): Float64Array {
+  const values = Float64Array.from(label)
+  for (let i = 0; i < values.length; i++) {
+    if (random.next() >= share) continue
+    values[i] = p.spec.task === 'binary' ? 1 - values[i] : label[random.int(p.rows)]
+  }
+  return values
+}
+
+/** A label copy with 2–12% flipped, in a world whose label is drawn from `raw` with `shape`. */
+function copyIn(p: Population, random: Random, raw: ArrayLike<number>, shape: { slope: number; intercept: number; noise: number }): Change {
+  const label = drawLabel(p, random, raw, shape)
+  const share = 0.02 + 0.1 * random.next()
+  return {
+    headFeatures: withAdded(p, 'followup_score'),
+    extra: { followup_score: numeric(noisyCopy(p, label, share, random), 1) },
+    label,
+    focus: 'followup_score',
+    parameters: { flippedShare: Number(share.toFixed(3)) },
+  }
+}
 
 export const families: readonly Family[] = [
   {
@@ -452,6 +512,77 @@ export const families: readonly Family[] = [
     },
   },
   {
+    name: 'copy-strong-features',
+    kind: 'leak',
+    description:
+      'Adds followup_score, a copy of the label with 2–12% flipped (binary) or swapped with other rows\' (regression), in a world where distance alone nearly decides the label (one-feature AUC ≥ 0.95, R² about 0.85).',
+    expectation: 'block',
+    build: (p, random) => {
+      const logDistance = standardized(Float64Array.from(numericValues(p, 'distance_km'), Math.log))
+      const eta = standardized(populationEta(p))
+      // Binary: logistic(−0.5 + 6·eta); regression: 20 + 12·eta + 12·0.35·N(0, 1), R² of eta about 0.89.
+      const slope = p.spec.task === 'binary' ? 6 : 1
+      return copyIn(p, random, Float64Array.from(logDistance, (d, i) => 3 * d + 0.4 * eta[i]), { slope, intercept: -0.5, noise: 0.35 })
+    },
+  },
+  {
+    name: 'copy-weak-features',
+    kind: 'leak',
+    description:
+      'Adds followup_score, a copy of the label with 2–12% flipped or swapped, in a world where the label depends weakly on every feature (the best one alone reaches AUC about 0.6).',
+    expectation: 'block',
+    build: (p, random) => copyIn(p, random, populationEta(p), { slope: 0.7, intercept: -0.5, noise: 1.6 }),
+  },
+  {
+    name: 'post-outcome-proxy',
+    kind: 'leak',
+    description:
+      'Adds followup_score = 2·label + 0.3·z(distance) + N(0, 1) (regression: 2·z(label) + ...), a value recorded after delivery that is far from a copy (alone AUC about 0.9).',
+    expectation: 'block',
+    build: (p, random) => {
+      const logDistance = standardized(Float64Array.from(numericValues(p, 'distance_km'), Math.log))
+      const y = p.spec.task === 'binary' ? p.label : standardized(p.label)
+      const values = Float64Array.from(y, (v, i) => 2 * v + 0.3 * logDistance[i] + random.normal())
+      return { headFeatures: withAdded(p, 'followup_score'), extra: { followup_score: numeric(values, 3) }, focus: 'followup_score' }
+    },
+  },
+  {
+    name: 'strong-legit-added',
+    kind: 'legit',
+    description:
+      'Adds hub_backlog, the parcels waiting at the hub at dispatch: known before delivery and a strong real cause (1.5 standardized effects beside the population\'s own predictor).',
+    expectation: 'pass',
+    build: (p, random) => strongLegit(p, random),
+  },
+  {
+    name: 'strong-legit-reviewed',
+    kind: 'legit',
+    description: 'strong-legit-added with hub_backlog listed in checks.leakage.reviewed_columns: the acknowledgement should clear a lift block.',
+    expectation: 'pass',
+    build: (p, random) => strongLegit(p, random),
+    policy: () => ({ 'checks.leakage.reviewed_columns': ['hub_backlog'] }),
+  },
+  {
+    name: 'feature-removed',
+    kind: 'benign',
+    description: 'Removes parcel_weight_kg, a weak real cause (0.1 of a standardized effect), with a policy that lists every column\'s role as plumbline init used to.',
+    expectation: 'pass',
+    build: (p) => ({ headFeatures: p.baseFeatures.filter((f) => f !== 'parcel_weight_kg'), focus: 'parcel_weight_kg' }),
+    policy: (p) => ({ 'data.columns': Object.fromEntries(p.baseFeatures.map((f) => [f, p.columns[f].kind])) }),
+  },
+  {
+    name: 'row-order-no-ids',
+    kind: 'benign',
+    description: 'The tables have no id column, and the pipeline writes the holdout rows in another order.',
+    expectation: 'pass',
+    build: (p, random) => ({
+      headFeatures: p.baseFeatures,
+      headHoldout: shuffled(p.holdout.length, random).map((i) => p.holdout[i]),
+      withoutIds: true,
+      focus: null,
+    }),
+  },
+  {
     name: 'signal-removed',
     kind: 'shift',
     description: 'distance_km, the strongest feature, loses its signal: a join bug gives every parcel another parcel\'s distance.',
@@ -497,6 +628,16 @@ export const families: readonly Family[] = [
   },
 ]
 
+function strongLegit(p: Population, random: Random): Change {
+  const backlog = Float64Array.from({ length: p.rows }, () => Math.exp(3 + 0.6 * random.normal()))
+  const zBacklog = standardized(Float64Array.from(backlog, Math.log))
+  const eta = standardized(populationEta(p))
+  // The population's own shape: binary logistic(−0.9 + 2.2·eta), regression 20 + 12·eta + 12·0.55·N(0, 1).
+  const slope = p.spec.task === 'binary' ? 2.2 : 1
+  const label = drawLabel(p, random, Float64Array.from(eta, (e, i) => e + 1.5 * zBacklog[i]), { slope, intercept: -0.9, noise: 0.55 })
+  return { headFeatures: withAdded(p, 'hub_backlog'), extra: { hub_backlog: numeric(backlog, 0) }, label, focus: 'hub_backlog' }
+}
+
 export function familyByName(name: string): Family {
   const family = families.find((f) => f.name === name)
   if (!family) throw new RangeError(`familyByName: no family '${name}'; known: ${families.map((f) => f.name).join(', ')}`)
@@ -529,15 +670,17 @@ function writeCsv(
 export function buildScenario(family: Family, spec: GeneratorSpec): Scenario {
   const population = generatePopulation(spec)
   const change = family.build(population, createStream(spec.seed, `family:${family.name}`))
-  const { ids, label, labelName } = population
+  const { ids, labelName } = population
+  const label = change.label ?? population.label
   const id = 'parcel_id'
+  const withId = (header: readonly string[]) => (change.withoutIds ? header.filter((name) => name !== id) : header)
   const side = (columns: Readonly<Record<string, Column>>) => (name: string, row: number) =>
     name === id ? ids[row] : name === labelName ? labelCell(label[row], spec.task) : cell(columns[name], row)
   const baseValue = side(population.columns)
   const headColumns = { ...population.columns, ...(change.extra ?? {}) }
   const headValue = side(headColumns)
-  const baseHeader = [id, ...population.baseFeatures, labelName]
-  const headHeader = [id, ...change.headFeatures, labelName]
+  const baseHeader = withId([id, ...population.baseFeatures, labelName])
+  const headHeader = withId([id, ...change.headFeatures, labelName])
   const base = {
     train: writeCsv(baseHeader, population.train, baseValue),
     holdout: writeCsv(baseHeader, population.holdout, baseValue),
@@ -564,6 +707,8 @@ export function buildScenario(family: Family, spec: GeneratorSpec): Scenario {
     head,
     focus: change.focus,
     parameters: change.parameters ?? {},
+    withoutIds: change.withoutIds ?? false,
+    policy: family.policy?.(population) ?? {},
   }
 }
 

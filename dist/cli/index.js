@@ -17352,6 +17352,11 @@ function describeName(row) {
   return `${row.name} (group of ${limitItems(members2, 5).join(", ")})`;
 }
 function describeStatus(row) {
+  const drop = row.head?.dropColumn;
+  const status = describePlace(row);
+  return drop && !drop.isAboveNoise ? `${status}; drop-column loss within reseed noise` : status;
+}
+function describePlace(row) {
   if (row.presence === "removed") return "removed";
   const floor = row.head?.isAboveFloor ? "above floor" : "indistinguishable from zero";
   if (row.presence === "added") return row.head ? `added, ${floor}` : "added";
@@ -38042,7 +38047,15 @@ var sideImportanceSchema = external_exports.strictObject({
   share: undefinedNumber,
   isAboveFloor: external_exports.boolean(),
   perRefit: list(finite),
-  singleFeatureScore: undefinedNumber.optional()
+  singleFeatureScore: undefinedNumber.optional(),
+  dropColumn: external_exports.strictObject({
+    loss: finite,
+    lower: undefinedNumber,
+    upper: undefinedNumber,
+    pValue: undefinedNumber,
+    isAboveNoise: external_exports.boolean(),
+    perRefit: list(finite)
+  }).optional()
 }).meta({ id: "SideImportance" });
 var featureRowSchema = external_exports.strictObject({
   name: text,
@@ -40264,6 +40277,7 @@ function planFromRoles(options, header, columnIndex, rows) {
   }
   for (const name of Object.keys(roles)) {
     if (name !== targetName && !columnIndex.has(name)) {
+      if (options.featureRolesMayBeAbsent && roles[name] !== "id") continue;
       throw new UserError(
         `${source} has no column ${show(name)}, which has the role '${roles[name]}'. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
         "Correct the column name, or delete its role."
@@ -40654,7 +40668,8 @@ var defaultImportance = deepFreeze({
   refits: 5,
   referenceRows: 1e4,
   evaluationRows: 2e4,
-  groupThreshold: 0.9
+  groupThreshold: 0.9,
+  dropColumnTop: 1
 });
 var defaultChecks = deepFreeze({
   leakage: {
@@ -40662,7 +40677,11 @@ var defaultChecks = deepFreeze({
     dominanceShare: 0.5,
     runnerUpRatio: 3,
     singleFeaturePower: 0.99,
-    relativePower: 0.8
+    relativePower: 0.8,
+    liftWarn: 0.15,
+    liftBlock: 0.25,
+    sliceWarnPower: 0.9,
+    reviewedColumns: []
   },
   rankShift: {
     action: "warn",
@@ -40800,6 +40819,7 @@ var importanceSchema = mapping({
   refits: wholeNumber(1, 100).default(defaultImportance.refits),
   reference_rows: wholeNumber(1).default(defaultImportance.referenceRows),
   evaluation_rows: wholeNumber(2).default(defaultImportance.evaluationRows),
+  drop_column_top: wholeNumber(0, 100).default(defaultImportance.dropColumnTop),
   groups: external_exports.preprocess(
     (raw) => raw === null ? {} : raw,
     external_exports.record(external_exports.string(), nameList("a list of column names, such as [distance_km, stop_count]"), { error: "a mapping of group names to lists of columns" })
@@ -40812,7 +40832,14 @@ var checksSchema = mapping({
     dominance_share: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.dominanceShare),
     runner_up_ratio: realNumber({ atLeast: 1 }).default(defaultChecks.leakage.runnerUpRatio),
     single_feature_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.singleFeaturePower),
-    relative_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.relativePower)
+    relative_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.relativePower),
+    lift_warn: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.liftWarn),
+    lift_block: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.liftBlock),
+    slice_warn_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.sliceWarnPower),
+    reviewed_columns: external_exports.preprocess(
+      (raw) => raw === null ? [] : raw,
+      external_exports.array(text2("a column name"), { error: "a list of column names, such as [roadworks_km]" })
+    ).default([])
   }).prefault({}),
   rank_shift: mapping({
     action: checkAction.default(defaultChecks.rankShift.action),
@@ -41048,6 +41075,7 @@ function toGateConfig(policy) {
       refits: importance.refits,
       referenceRows: importance.reference_rows,
       evaluationRows: importance.evaluation_rows,
+      dropColumnTop: importance.drop_column_top,
       groups: nullPrototype(Object.entries(importance.groups)),
       groupThreshold: importance.group_threshold
     },
@@ -41057,7 +41085,11 @@ function toGateConfig(policy) {
         dominanceShare: checks.leakage.dominance_share,
         runnerUpRatio: checks.leakage.runner_up_ratio,
         singleFeaturePower: checks.leakage.single_feature_power,
-        relativePower: checks.leakage.relative_power
+        relativePower: checks.leakage.relative_power,
+        liftWarn: checks.leakage.lift_warn,
+        liftBlock: checks.leakage.lift_block,
+        sliceWarnPower: checks.leakage.slice_warn_power,
+        reviewedColumns: Object.freeze([...checks.leakage.reviewed_columns])
       },
       rankShift: {
         action: checks.rank_shift.action,
@@ -41358,12 +41390,13 @@ function listColumns(columns, most = 20) {
   const shown = columns.slice(0, most).join(", ");
   return columns.length > most ? `${shown} and ${columns.length - most} more` : shown || "none";
 }
-function checkPolicyAgainstColumns(policy, columns) {
+function checkPolicyAgainstColumns(policy, columns, options = {}) {
   const { config: config2, positions, source } = policy;
-  const known = new Set(columns);
+  const known = /* @__PURE__ */ new Set([...columns, ...options.otherSide ?? []]);
+  const onBoth = options.otherSide ? new Set(columns.filter((c) => options.otherSide.includes(c))) : known;
   const problems = [];
-  const missing = (path, pointAt, verb, name, fix) => {
-    if (known.has(name)) return;
+  const missing = (path, pointAt, verb, name, fix, needsBoth = false) => {
+    if ((needsBoth ? onBoth : known).has(name)) return;
     const entry = entryAt(positions, pointAt);
     const place = pointAt.length > path.length && typeof pointAt[path.length] === "string" ? entry?.key : entry?.value;
     const suggestion = closestName(name, columns);
@@ -41375,7 +41408,7 @@ function checkPolicyAgainstColumns(policy, columns) {
   };
   for (const [name, role] of Object.entries(config2.data.columns)) {
     if (role === "ignore") continue;
-    missing(["data", "columns"], ["data", "columns", name], "gives a role to", name, `Correct '${name}' in data.columns, or delete its line if the data no longer has the column.`);
+    missing(["data", "columns"], ["data", "columns", name], "gives a role to", name, `Correct '${name}' in data.columns, or delete its line if the data no longer has the column.`, role === "id");
   }
   if (config2.data.holdout.kind === "split" && config2.data.holdout.by !== void 0) {
     missing(["data", "split", "by"], ["data", "split", "by"], "names", config2.data.holdout.by, "Set data.split.by to a column of the data (an id column is best), or delete the line to split rows at random.");
@@ -41473,18 +41506,50 @@ function list2(names) {
 
 // src/core/data/align-holdout.ts
 function alignHoldout(base, head) {
-  if (!base.ids || !head.ids || base.rows !== head.rows) return head;
+  if (base.rows !== head.rows) return head;
+  const order3 = base.ids && head.ids ? orderById(base, head) : orderByContent(base, head);
+  if (!order3 || order3.every((i, k) => i === k)) return head;
+  return selectRows(head, order3);
+}
+function orderById(base, head) {
   const position = /* @__PURE__ */ new Map();
   head.ids.values.forEach((id, i) => position.set(id, i));
-  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return head;
+  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return null;
   const order3 = [];
   for (const id of base.ids.values) {
     const i = position.get(id);
-    if (i === void 0) return head;
+    if (i === void 0) return null;
     order3.push(i);
   }
-  if (order3.every((i, k) => i === k)) return head;
-  return selectRows(head, order3);
+  return order3;
+}
+function orderByContent(base, head) {
+  if (!base.target || !head.target) return null;
+  const headIndex = new Map(head.features.map((f, j) => [f.name, j]));
+  const shared2 = base.features.flatMap((f, j) => {
+    const hj = headIndex.get(f.name);
+    return hj === void 0 ? [] : [{ b: j, h: hj }];
+  });
+  const cell = (data, j, i) => {
+    const v = data.columns[j][i];
+    const categories = data.features[j].categories;
+    return Number.isNaN(v) ? "NaN" : data.features[j].kind === "categorical" && categories ? `c:${categories[v] ?? v}` : String(v);
+  };
+  const key2 = (data, side2, i) => [String(data.target.values[i]), ...shared2.map((s) => cell(data, s[side2], i))].join("\0");
+  const waiting = /* @__PURE__ */ new Map();
+  for (let i = head.rows - 1; i >= 0; i--) {
+    const k = key2(head, "h", i);
+    const list3 = waiting.get(k);
+    if (list3) list3.push(i);
+    else waiting.set(k, [i]);
+  }
+  const order3 = [];
+  for (let i = 0; i < base.rows; i++) {
+    const next = waiting.get(key2(base, "b", i))?.pop();
+    if (next === void 0) return null;
+    order3.push(next);
+  }
+  return order3;
 }
 
 // src/core/gate/gate-settings.ts
@@ -41542,6 +41607,7 @@ function gateSettings(config2) {
     refits: config2.importance.refits,
     evaluationRows: config2.importance.evaluationRows,
     referenceRows: config2.importance.referenceRows,
+    dropColumnTop: config2.importance.dropColumnTop,
     groups,
     groupThreshold: config2.importance.groupThreshold,
     /** Filled by withCorrelatedGroups once the head's training data is known. */
@@ -41561,7 +41627,7 @@ function gateSettings(config2) {
     // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
     // policy does not expose are marked fixed.
     evidence: {
-      leakage: snakeKeys(config2.checks.leakage),
+      leakage: snakeKeys({ ...config2.checks.leakage, reviewedColumns: config2.checks.leakage.reviewedColumns.join(", ") || "none" }),
       rank_shift: {
         ...snakeKeys(config2.checks.rankShift),
         "min_relative_change (fixed)": fixedSettings.minRelativeChange,
@@ -41959,6 +42025,33 @@ function rSquared(y, prediction) {
   return 1 - residual / total;
 }
 
+// src/core/measure-drop-columns.ts
+async function measureDropColumns(inputs, options) {
+  const present = new Set(inputs.train.features.map((f) => f.name));
+  if (present.size < 2) return [];
+  const names = [.../* @__PURE__ */ new Set([...options.request.also.filter((n) => present.has(n)), ...options.ranked.slice(0, options.request.top)])];
+  const target = inputs.holdout.target;
+  if (!target) throw new RangeError("measureDropColumns needs a holdout with a target");
+  if (inputs.scoreWithout) {
+    const scoreWithout = inputs.scoreWithout;
+    return Promise.all(names.map(async (name) => ({ name, scores: await Promise.all(options.refitSeeds.map((_, r) => scoreWithout(name, r))) })));
+  }
+  const fitOne = (name, r) => inputs.fit({ side: inputs.side, seed: options.refitSeeds[r], refit: r, leaveOut: [name] });
+  const prefetched = options.concurrentFits ? names.map((name) => options.refitSeeds.map((_, r) => fitOne(name, r))) : void 0;
+  prefetched?.flat().forEach((p) => p.catch(() => void 0));
+  const results = [];
+  for (const [i, name] of names.entries()) {
+    const scores = [];
+    for (let r = 0; r < options.refitSeeds.length; r++) {
+      const model = await (prefetched ? prefetched[i][r] : fitOne(name, r));
+      const prediction = await model.predict(selectFeatures(inputs.holdout, model.featureNames));
+      scores.push(options.metric.compute(target.values, prediction));
+    }
+    results.push({ name, scores });
+  }
+  return results;
+}
+
 // src/core/measure-side.ts
 function refitSeed(seed, refit) {
   return deriveSeed(seed, "refit", refit);
@@ -42043,6 +42136,8 @@ function combineRefits(seeds, rows, refits) {
     model: refits[refits.length - 1].model,
     firstPredictions: refits[0].predictions,
     noiseCovers: refits.length < 2 ? "draws-only" : "refits-and-draws",
+    // Drop-column refits come after the full ones (their candidates depend on the full importances).
+    dropColumns: [],
     ...refits.every((r) => r.sensitivity) ? {
       sensitivity: {
         holdout: refits.map((r) => r.sensitivity.holdout),
@@ -42074,7 +42169,15 @@ async function measureSide(inputs, options) {
     const model = inputs.model ?? await (prefetched ? prefetched[r] : fitRefit(r));
     parts.push(await measureRefit(model, inputs, options, rows, r));
   }
-  return combineRefits(refitSeeds, rows, parts);
+  const combined = combineRefits(refitSeeds, rows, parts);
+  const dropColumns = inputs.fit && options.dropColumns && refits >= 2 ? await measureDropColumns(
+    { side: inputs.side, train: inputs.train, holdout: inputs.holdout, fit: inputs.fit },
+    { request: options.dropColumns, ranked: rankedFeatureNames(combined), refitSeeds, metric: options.metric, concurrentFits: options.concurrentFits }
+  ) : [];
+  return { ...combined, dropColumns };
+}
+function rankedFeatureNames(measured) {
+  return measured.importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).map((u) => u.name);
 }
 function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold) {
   const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
@@ -43544,7 +43647,7 @@ var measureInTurn = async ([base, head]) => [
   await measureSide(base.inputs, base.options),
   await measureSide(head.inputs, head.options)
 ];
-function measureJob(side2, data, settings, metric, onProgress) {
+function measureJob(side2, data, settings, metric, onProgress, dropAlso = []) {
   const { model } = data;
   const measuredSlices = planSlices(settings.policySlices, data.holdout, side2, { task: settings.task, minRows: settings.checks.slices.minRows }).flatMap((s) => s.status === "measured" ? [{ name: s.name, rows: s.rows }] : []);
   const source = model.kind === "builtin" ? { fit: createBuiltinFit(data.train, settings.task, settings.learner) } : model.kind === "command" ? { fit: model.fit } : { model: model.model };
@@ -43562,13 +43665,19 @@ function measureJob(side2, data, settings, metric, onProgress) {
       onRefit: (refit, of) => onProgress?.({ stage: "refit", side: side2, refit, of }),
       concurrentFits: model.kind === "command",
       ...settings.sensitivity ? { sensitivity: settings.sensitivity } : {},
-      ...measuredSlices.length > 0 && settings.checks.slices.action !== "off" ? { slices: measuredSlices } : {}
+      ...measuredSlices.length > 0 && settings.checks.slices.action !== "off" ? { slices: measuredSlices } : {},
+      dropColumns: { top: settings.dropColumnTop, also: dropAlso.slice(0, settings.singleFeatureMaxExtra) }
     },
     ...model.kind === "builtin" ? { builtin: { task: settings.task, settings: settings.learner } } : {}
   };
 }
 function measureBothSides(base, head, settings, metric, options) {
-  const jobs = [measureJob("base", base, settings, metric, options.onProgress), measureJob("head", head, settings, metric, options.onProgress)];
+  const added = options.touched?.added ?? [];
+  const changed = options.touched?.changed ?? [];
+  const jobs = [
+    measureJob("base", base, settings, metric, options.onProgress, changed),
+    measureJob("head", head, settings, metric, options.onProgress, [...added, ...changed])
+  ];
   return (options.measureSides ?? measureInTurn)(jobs);
 }
 
@@ -43714,6 +43823,44 @@ function mean2(values) {
   return values.length ? s / values.length : NaN;
 }
 
+// src/core/checks/lift-evidence.ts
+function liftEvidence(name, context, task) {
+  const { base, head } = context;
+  const drop = head.dropColumns?.[name];
+  if (!drop || !base.losses || !head.losses) return null;
+  const baseDrop = base.dropColumns?.[name];
+  const baseLoss = mean2(base.losses);
+  const headLoss = mean2(head.losses);
+  const offset = baseDrop && Number.isFinite(baseDrop.mean) ? Math.max(0, baseDrop.mean) : 0;
+  const dropLoss = drop.mean - offset;
+  const trivial = task === "binary" ? 0.5 : 0;
+  const fullBase = mean2(base.separation);
+  const alone = head.singleFeatureSeparation[name] ?? null;
+  let bestExisting = null;
+  for (const [feature, separation] of Object.entries(base.singleFeatureSeparation)) {
+    if (feature === name || !Number.isFinite(separation)) continue;
+    if (!bestExisting || separation > bestExisting.separation) bestExisting = { name: feature, separation };
+  }
+  const ratio = (a, b) => a === null || !(b - trivial > 0) ? null : (a - trivial) / (b - trivial);
+  return {
+    baseLoss,
+    headLoss,
+    removedShare: baseLoss > 0 ? (baseLoss - headLoss) / baseLoss : NaN,
+    dropLoss,
+    dropLower: drop.lower - offset,
+    dropUpper: drop.upper - offset,
+    pValue: drop.pValue,
+    dropInReseedSds: drop.reseedSd > 0 ? dropLoss / drop.reseedSd : NaN,
+    isAboveNoise: drop.isAboveNoise && drop.lower - offset > 0,
+    liftShare: baseLoss > 0 ? Math.min(1, Math.max(0, dropLoss / baseLoss)) : NaN,
+    alone,
+    fullBase,
+    powerAgainstBase: ratio(alone, fullBase),
+    powerAgainstBest: bestExisting ? ratio(alone, bestExisting.separation) : null,
+    bestExisting
+  };
+}
+
 // src/core/checks/leakage.ts
 function unevaluated(head, options, metricName) {
   if (options.action === "off") return [];
@@ -43744,7 +43891,17 @@ function checkLeakage(context, options) {
   const baseRanked = rankFeatures(base.importances);
   const flagged = /* @__PURE__ */ new Set();
   findings.push(...unevaluated(head, options, metricName));
-  const describeChange = (name) => added.has(name) ? "new in this pull request" : changed.has(name) ? "changed in this pull request" : "unchanged";
+  const cause = (name) => `${name}, ${added.has(name) ? "new here" : changed.has(name) ? "changed here" : "unchanged here"}`;
+  const reviewed = new Set(options.reviewedColumns);
+  const lifts = /* @__PURE__ */ new Map();
+  for (const name of [...added, ...changed]) {
+    const lift = liftEvidence(name, context, options.task);
+    if (lift) lifts.set(name, lift);
+  }
+  const liftFields = (name) => {
+    const l = lifts.get(name);
+    return l ? liftRecord(l) : {};
+  };
   for (const unit of ranked) {
     const alone = head.singleFeatureSeparation[unit.name];
     if (alone === void 0 || !(alone >= options.singleFeaturePower)) continue;
@@ -43757,7 +43914,7 @@ function checkLeakage(context, options) {
       kind: "leakage",
       severity,
       feature: unit.name,
-      title: `${unit.name} alone separates the holdout (${metricName} ${fmt(alone)}); it is ${describeChange(unit.name)}.`,
+      title: `${cause(unit.name)}, alone separates the holdout (${metricName} ${fmt(alone)}).`,
       message: `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)} (the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). A value this predictive on its own usually means it is computed from, or after, the outcome. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong on the base side (${metricName} ${fmt(aloneBase)}), so this pull request did not introduce it.` : `Check that it is known at prediction time.`),
       evidence: {
         singleFeatureSeparation: alone,
@@ -43766,7 +43923,9 @@ function checkLeakage(context, options) {
         threshold: options.singleFeaturePower,
         share: positiveShare(head.importances, unit.name),
         isNew: added.has(unit.name),
-        isChanged: changed.has(unit.name)
+        isChanged: changed.has(unit.name),
+        isReviewed: reviewed.has(unit.name),
+        ...liftFields(unit.name)
       }
     });
   }
@@ -43783,7 +43942,7 @@ function checkLeakage(context, options) {
       kind: "leakage",
       severity,
       feature: unit.name,
-      title: `${unit.name} alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}); it is ${describeChange(unit.name)}.`,
+      title: `${cause(unit.name)}, alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}).`,
       message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong in a slice on the base side (${baseSlice.column} = ${baseSlice.value}, ${metricName} ${fmt(baseSlice.separation)}).` : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
       evidence: {
         sliceColumn: slice.column,
@@ -43793,6 +43952,48 @@ function checkLeakage(context, options) {
         baseSliceSeparation: baseSlice?.separation ?? null,
         singleFeatureSeparation: overall ?? null,
         threshold: options.singleFeaturePower,
+        isNew: added.has(unit.name),
+        isChanged: changed.has(unit.name),
+        ...liftFields(unit.name)
+      }
+    });
+  }
+  for (const unit of ranked) {
+    const lift = lifts.get(unit.name);
+    if (flagged.has(unit.name) || !lift || !lift.isAboveNoise || !(lift.liftShare >= options.liftWarn)) continue;
+    const isReviewed = reviewed.has(unit.name);
+    const strong = lift.liftShare >= options.liftBlock;
+    const severity = strong && !isReviewed ? options.action : "warn";
+    flagged.add(unit.name);
+    const lossName = lossWords(options.metricName);
+    const power = lift.alone === null ? "" : `; alone ${metricName} ${fmt(lift.alone)}` + (lift.bestExisting ? ` against ${fmt(lift.bestExisting.separation)} for the best existing feature (${lift.bestExisting.name})` : "");
+    findings.push({
+      kind: "leakage",
+      severity,
+      feature: unit.name,
+      title: `${cause(unit.name)}, carries ${formatPercent(lift.liftShare)} of the ${lossName} the base model left (the model loses that much without it, ${fmt(lift.dropInReseedSds)} reseed SDs)${power}.`,
+      message: `Refitted without ${unit.name} with the same seeds, the candidate's holdout ${lossName} grows by ${fmt(lift.dropLoss)} (95% interval ${fmt(lift.dropLower)} to ${fmt(lift.dropUpper)}, paired t-test p = ${fmt(lift.pValue)}) against a base ${lossName} of ${fmt(lift.baseLoss)}: ${formatPercent(lift.liftShare)} of what the base model left. The candidate as a whole removes ${formatPercent(lift.removedShare)} of it` + (lift.alone !== null ? `; ${unit.name} alone reaches ${metricName} ${fmt(lift.alone)} (full base model ${fmt(lift.fullBase)}` + (lift.bestExisting ? `, best existing single feature ${lift.bestExisting.name} ${fmt(lift.bestExisting.separation)})` : ")") : "") + `. One new feature that removes this much of the remaining error is the classic sign of a value computed from, or after, the outcome (common practice); ` + (isReviewed ? `it is listed in checks.leakage.reviewed_columns as reviewed and known at prediction time, so this is a warning.` : strong ? `check that it is known at prediction time, and if a person has checked it, list it in checks.leakage.reviewed_columns.` : `below the policy's lift_block of ${options.liftBlock}, so this is a warning; check that it is known at prediction time.`),
+      evidence: { ...liftRecord(lift), liftWarn: options.liftWarn, liftBlock: options.liftBlock, isNew: added.has(unit.name), isChanged: changed.has(unit.name), isReviewed }
+    });
+  }
+  for (const unit of ranked) {
+    const lift = lifts.get(unit.name);
+    const slice = head.singleFeatureSlices?.[unit.name];
+    if (flagged.has(unit.name) || !lift || !lift.isAboveNoise || !slice || !(slice.separation >= options.sliceWarnPower)) continue;
+    flagged.add(unit.name);
+    findings.push({
+      kind: "leakage",
+      severity: "warn",
+      feature: unit.name,
+      title: `${cause(unit.name)}, alone nearly separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}) and the model needs it (${formatPercent(lift.liftShare)} of the loss the base model left).`,
+      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(lift.alone ?? void 0)}), and refitted without it the candidate's loss grows by ${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
+      evidence: {
+        sliceColumn: slice.column,
+        sliceValue: slice.value,
+        sliceRows: slice.rows,
+        sliceSeparation: slice.separation,
+        sliceWarnPower: options.sliceWarnPower,
+        ...liftRecord(lift),
         isNew: added.has(unit.name),
         isChanged: changed.has(unit.name)
       }
@@ -43810,13 +44011,14 @@ function checkLeakage(context, options) {
       const isNewOrChanged = added.has(top.name) || changed.has(top.name);
       const baseShare = positiveShare(base.importances, top.name);
       const wasDominant = baseRanked[0]?.name === top.name && baseShare >= options.dominanceShare;
-      const severity = isNewOrChanged ? options.action : wasDominant ? "info" : "warn";
+      const severityBefore = isNewOrChanged ? options.action : wasDominant ? "info" : "warn";
+      const severity = severityBefore === "block" && reviewed.has(top.name) ? "warn" : severityBefore;
       const scoreJump = separationJump(base.separation, head.separation);
       findings.push({
         kind: "leakage",
         severity,
         feature: top.name,
-        title: `${top.name} dominates the model (${formatPercent(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
+        title: `${cause(top.name)}, dominates the model (${formatPercent(share)} of the importance, ${fmtRatio(ratio)} the runner-up).`,
         message: `${top.name} carries ${formatPercent(share)} of the total positive importance` + (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : "") + `, and a model that sees only it earns ${formatPercent(relative4)} of the full model's gain over a trivial predictor (${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` + (wasDominant && !isNewOrChanged ? `It already dominated the base model (${formatPercent(baseShare)}) and did not change, so this is reported for information.` : `On the base side its share was ${formatPercent(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` + (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : ".")),
         evidence: {
           share,
@@ -43830,12 +44032,48 @@ function checkLeakage(context, options) {
           separationJumpInSds: Number.isFinite(scoreJump) ? scoreJump : null,
           isNew: added.has(top.name),
           isChanged: changed.has(top.name),
-          wasDominantOnBase: wasDominant
+          wasDominantOnBase: wasDominant,
+          isReviewed: reviewed.has(top.name),
+          ...liftFields(top.name)
         }
       });
     }
   }
   return findings;
+}
+function liftRecord(l) {
+  const finite2 = (v) => Number.isFinite(v) ? v : null;
+  return {
+    liftShare: finite2(l.liftShare),
+    removedShare: finite2(l.removedShare),
+    dropColumnLoss: finite2(l.dropLoss),
+    dropColumnLower: finite2(l.dropLower),
+    dropColumnUpper: finite2(l.dropUpper),
+    dropColumnPValue: finite2(l.pValue),
+    dropColumnInReseedSds: finite2(l.dropInReseedSds),
+    dropColumnAboveNoise: l.isAboveNoise,
+    baseLoss: finite2(l.baseLoss),
+    headLoss: finite2(l.headLoss),
+    powerAgainstBaseModel: l.powerAgainstBase === null ? null : finite2(l.powerAgainstBase),
+    powerAgainstBestFeature: l.powerAgainstBest === null ? null : finite2(l.powerAgainstBest),
+    bestExistingFeature: l.bestExisting?.name ?? null
+  };
+}
+function lossWords(metric) {
+  switch (metric) {
+    case "rmse":
+      return "squared error";
+    case "auc":
+      return "1 − AUC";
+    case "accuracy":
+      return "error rate";
+    case "r2":
+      return "1 − R²";
+    case void 0:
+      return "loss";
+    default:
+      return metric;
+  }
 }
 function separationJump(base, head) {
   if (base.length < 2 || head.length < 2) return NaN;
@@ -44365,7 +44603,7 @@ function runChecks(inputs) {
   const sameRows = holdoutFindings.length === 0;
   const leakage = checkLeakage(
     { base: results.base, head: results.head, added: new Set(featureSet.added), changed: inputs.changed },
-    { ...settings.checks.leakage, task: settings.task }
+    { ...settings.checks.leakage, task: settings.task, metricName: metric.name }
   );
   const shift = checkRankShift(results.base, results.head, settings.checks.rankShift);
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement);
@@ -44481,9 +44719,60 @@ async function separateSingleFeatures(sides, measured, touched, settings, contex
   return { base: baseResult, head: headResult };
 }
 
-// src/core/gate/side-results.ts
-function sideResult(side2, data, measured, single) {
+// src/core/importance/drop-column-importance.ts
+function dropColumnImportance(fullLosses, droppedLosses, options = {}) {
+  if (fullLosses.length !== droppedLosses.length) {
+    throw new RangeError(`dropColumnImportance needs matched refits, got ${fullLosses.length} and ${droppedLosses.length} losses`);
+  }
+  if (fullLosses.length === 0) throw new RangeError("dropColumnImportance needs at least one refit");
+  const perRefit = fullLosses.map((full, r) => droppedLosses[r] - full);
+  const n = perRefit.length;
+  const interval = tInterval(perRefit, { level: options.level ?? 0.95 });
+  if (n < 2) {
+    return { mean: interval.mean, lower: NaN, upper: NaN, pairedT: NaN, pValue: NaN, reseedSd: NaN, isAboveNoise: false, perRefit };
+  }
+  const reseedSd = sampleStandardDeviation([...fullLosses]);
+  const se = interval.sd / Math.sqrt(n);
+  const pairedT = se > 0 ? interval.mean / se : interval.mean === 0 ? NaN : interval.mean > 0 ? Infinity : -Infinity;
+  const pValue = Number.isNaN(pairedT) ? 1 : 1 - studentTCdf(pairedT, n - 1);
   return {
+    mean: interval.mean,
+    lower: interval.lower,
+    upper: interval.upper,
+    pairedT,
+    pValue,
+    reseedSd,
+    isAboveNoise: interval.lower > 0 && interval.mean > reseedSd,
+    perRefit
+  };
+}
+
+// src/core/metrics/loss-of-score.ts
+function lossOfScore(metric, score2) {
+  switch (metric) {
+    case "log-loss":
+    case "brier":
+    case "mae":
+      return score2;
+    case "rmse":
+      return score2 * score2;
+    case "auc":
+    case "accuracy":
+    case "r2":
+      return 1 - score2;
+  }
+}
+
+// src/core/gate/side-results.ts
+function sideResult(side2, data, measured, single, metric) {
+  const losses = measured.scores.map((s) => lossOfScore(metric, s));
+  const dropColumns = /* @__PURE__ */ Object.create(null);
+  for (const d of measured.dropColumns ?? []) {
+    dropColumns[d.name] = dropColumnImportance(losses, d.scores.map((s) => lossOfScore(metric, s)));
+  }
+  return {
+    losses,
+    dropColumns,
     side: side2,
     features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
     scores: measured.scores,
@@ -45121,7 +45410,8 @@ function featureRows(base, head, shifts, baseTrain, headTrain) {
           share: positiveShare(side2.importances, u.name),
           isAboveFloor: u.isAboveFloor,
           perRefit: u.perRefit,
-          ...side2.singleFeatureSeparation[u.name] !== void 0 && !u.isGroup ? { singleFeatureScore: side2.singleFeatureSeparation[u.name] } : {}
+          ...side2.singleFeatureSeparation[u.name] !== void 0 && !u.isGroup ? { singleFeatureScore: side2.singleFeatureSeparation[u.name] } : {},
+          ...side2.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side2.dropColumns[u.name]) } : {}
         }
       ])
     );
@@ -45183,6 +45473,9 @@ function describeModel2(model) {
   const engine = model.engine ? `, evaluated by ${engineNames[model.engine]}` : "";
   return `${model.kind} on ${count4} feature${count4 === 1 ? "" : "s"}${engine}`;
 }
+function dropColumnOf(d) {
+  return { loss: d.mean, lower: d.lower, upper: d.upper, pValue: d.pValue, isAboveNoise: d.isAboveNoise, perRefit: d.perRefit };
+}
 
 // src/core/run-gate.ts
 async function runGate(inputs) {
@@ -45190,20 +45483,24 @@ async function runGate(inputs) {
   const metric = metricByName(settings.metric, settings.task);
   const stopwatch = createStopwatch(inputs.now);
   const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } };
-  const measured = await stopwatch.time(
-    "measureSeconds",
-    () => measureBothSides(sides.base, sides.head, settings, metric, { measureSides: inputs.measureSides, onProgress: inputs.onProgress })
-  );
   const featureSet = diffFeatureSets(sides.base.train, sides.head.train);
   const changed = changedFeatures(sides.base, sides.head);
+  const measured = await stopwatch.time(
+    "measureSeconds",
+    () => measureBothSides(sides.base, sides.head, settings, metric, {
+      measureSides: inputs.measureSides,
+      onProgress: inputs.onProgress,
+      touched: { added: featureSet.added, changed: [...changed] }
+    })
+  );
   const single = await separateSingleFeatures(sides, measured, [...featureSet.added, ...changed], settings, {
     stopwatch,
     onProgress: inputs.onProgress
   });
   inputs.onProgress?.({ stage: "checks" });
   const results = {
-    base: sideResult("base", sides.base, measured[0], single.base),
-    head: sideResult("head", sides.head, measured[1], single.head)
+    base: sideResult("base", sides.base, measured[0], single.base, metric.name),
+    head: sideResult("head", sides.head, measured[1], single.head, metric.name)
   };
   const views = judgeViews({ settings, sides, measured, results, touched: /* @__PURE__ */ new Set([...featureSet.added, ...changed]) });
   const checked = runChecks({
@@ -55899,7 +56196,25 @@ ${error62 instanceof Error ? error62.stack ?? error62.message : String(error62)}
       });
     })
   );
-  return combineRefits(seeds, rows, parts);
+  const combined = combineRefits(seeds, rows, parts);
+  const request = options.dropColumns;
+  const dropColumns = request && seeds.length >= 2 ? await measureDropColumns(
+    {
+      side: job.inputs.side,
+      train: train3,
+      holdout,
+      fit: job.inputs.fit,
+      scoreWithout: (name, refit) => {
+        const task = { side: job.inputs.side, refit, seed: seeds[refit], train: train3, holdout, rows, binned, options: { ...options, metricName: metric.name }, builtin, leaveOut: [name] };
+        return pool.run(task).catch((error62) => {
+          throw new InternalError(`a drop-column refit (without ${name}, refit ${refit + 1}) of the ${job.inputs.side} side failed in a worker thread:
+${error62 instanceof Error ? error62.stack ?? error62.message : String(error62)}`);
+        });
+      }
+    },
+    { request, ranked: rankedFeatureNames(combined), refitSeeds: seeds, metric }
+  ) : [];
+  return { ...combined, dropColumns };
 }
 function shareMatrix(matrix) {
   return { ...matrix, columns: matrix.columns.map(shared) };
@@ -55948,6 +56263,7 @@ async function runCheck(request) {
     const headSide = await loadSide(policy, head.path, "head", head.ref, head.commit, policyPath, log);
     const pool = createPoolMeasure(process.env);
     if (pool) cleanups.push(pool.close);
+    checkPolicyAgainstColumns(policy, columnsOf(headSide.train), { otherSide: columnsOf(baseSide.train) });
     return await runGate({
       config: config2,
       policySource: policyPath,
@@ -55975,7 +56291,7 @@ async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
     log(`${side2}: running prepare: ${config2.prepare.command}`);
     await runPrepare({ command: config2.prepare.command, cwd: checkout, timeoutSeconds: config2.prepare.timeoutSeconds, side: side2 });
   }
-  const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout, rootName: `the ${side2} checkout` };
+  const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout, rootName: `the ${side2} checkout`, featureRolesMayBeAbsent: true };
   const tables = {};
   for (const file2 of sideDataFiles(config2)) {
     tables[file2.role] = await readTable(file2.path, {
@@ -55987,7 +56303,6 @@ async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
     });
   }
   const { train: train3, holdout, reference, unlabeled } = assembleSideData(config2, tables);
-  checkPolicyAgainstColumns(policy, [...train3.features.map((f) => f.name), ...train3.ids ? [train3.ids.name] : []]);
   checkSizes(side2, config2, train3, holdout, log);
   log(`${side2}: ${train3.rows} training rows, ${holdout.rows} holdout rows, ${train3.features.length} features`);
   const model = config2.model.kind === "builtin" ? { kind: "builtin" } : await loadSideModel(config2, { checkout, side: side2, train: train3, holdout, log });
@@ -56014,6 +56329,9 @@ function checkSizes(side2, config2, train3, holdout, log) {
       log(`${side2}: note: only ${data.rows} ${which === "train" ? "training" : "holdout"} rows; with so few, the noise floor is wide and small changes cannot be told from noise.`);
     }
   }
+}
+function columnsOf(train3) {
+  return [...train3.features.map((f) => f.name), ...train3.ids ? [train3.ids.name] : []];
 }
 function toRepoPath(path) {
   return (isAbsolute3(path) ? relative3(resolve6("/"), path) : path).split("\\").join("/");
@@ -56257,17 +56575,19 @@ function renderStarterPolicy(input2) {
     key(0, `target: ${target ? scalar(target.name) : "SET_TARGET_COLUMN"}`, targetNote),
     key(0, `seed: ${defaultTopLevel.seed}`, "every random choice of a run derives from it")
   ]);
+  const holdout = input2.holdoutPath;
+  const declared = described.filter((d) => d.role === "id" || d.role === "ignore");
   const data = renderBlock([
     key(0, "data:"),
     key(1, `train: ${scalar(trainPath)}`),
-    optional3(1, `holdout: ${scalar(holdoutPathFor(trainPath))}`, "a separate holdout file, instead of split"),
-    key(1, "split:", "hold out part of data.train"),
-    key(2, `fraction: ${defaultData.split.fraction}`),
-    idColumn ? key(2, `by: ${scalar(idColumn.name)}`, "guessed: hashing the id holds out the same rows on both sides") : optional3(2, "by: <id column>", "hash an id so both sides hold out the same rows"),
+    holdout ? key(1, `holdout: ${scalar(holdout)}`, "found beside the training table") : optional3(1, `holdout: ${scalar(holdoutPathFor(trainPath))}`, "a separate holdout file, instead of split"),
+    (holdout ? optional3 : key)(1, "split:", holdout ? "instead of holdout: hold out part of data.train" : "hold out part of data.train"),
+    (holdout ? optional3 : key)(2, `fraction: ${defaultData.split.fraction}`),
+    idColumn && !holdout ? key(2, `by: ${scalar(idColumn.name)}`, "guessed: hashing the id holds out the same rows on both sides") : optional3(2, idColumn ? `by: ${scalar(idColumn.name)}` : "by: <id column>", "hash an id so both sides hold out the same rows"),
     optional3(1, `reference: ${defaultData.reference.kind}`, "train, holdout or a file: where permutation draws come from"),
     optional3(1, `unlabeled: ${scalar(holdoutPathFor(trainPath).replace(/holdout/i, "unlabeled"))}`, "rows without the target"),
-    features.length > 0 ? key(1, "columns:", "numeric, categorical, id or ignore") : key(1, "columns: {}", "numeric, categorical, id or ignore"),
-    ...described.map((d) => key(2, `${scalar(d.column.name)}: ${d.role}`, d.note))
+    features.length > 0 ? key(1, "columns:", "numeric, categorical, id or ignore; others are inferred") : key(1, "columns: {}", "numeric, categorical, id or ignore"),
+    ...described.map((d) => (declared.includes(d) ? key : optional3)(2, `${scalar(d.column.name)}: ${d.role}`, declared.includes(d) ? d.note : `inferred: ${d.note}`))
   ]);
   const prepare = renderBlock([
     optional3(0, "prepare:", "a command run in each side's checkout before the data is read"),
@@ -56303,6 +56623,7 @@ function renderStarterPolicy(input2) {
     optional3(1, `refits: ${defaultImportance.refits}`, "reseeded refits per side"),
     optional3(1, `reference_rows: ${defaultImportance.referenceRows}`),
     optional3(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
+    optional3(1, `drop_column_top: ${defaultImportance.dropColumnTop}`, "features per side also refitted without (drop-column)"),
     optional3(1, "groups:", "columns permuted together and reported as one"),
     optional3(2, `group_name: ${example(numeric, ["column_a", "column_b"])}`),
     optional3(1, `group_threshold: ${defaultImportance.groupThreshold}`, "automatic groups: numeric columns with |Spearman| at or above this")
@@ -56316,6 +56637,10 @@ function renderStarterPolicy(input2) {
     optional3(2, `runner_up_ratio: ${leakage.runnerUpRatio}`),
     optional3(2, `single_feature_power: ${leakage.singleFeaturePower}`),
     optional3(2, `relative_power: ${leakage.relativePower}`),
+    optional3(2, `lift_warn: ${leakage.liftWarn}`, "docs/leak-rule.md"),
+    optional3(2, `lift_block: ${leakage.liftBlock}`),
+    optional3(2, `slice_warn_power: ${leakage.sliceWarnPower}`),
+    optional3(2, "reviewed_columns: []", "columns a person checked are known at prediction time"),
     key(1, "rank_shift:", "features change places between base and head"),
     key(2, `action: ${rankShift.action}`),
     optional3(2, `false_discovery_rate: ${rankShift.falseDiscoveryRate}`),
@@ -56387,7 +56712,9 @@ async function init(command, io) {
   if (command.target && !columns.some((c) => c.name === command.target)) {
     throw new UserError(`--target '${command.target}' is not a column of ${trainPath}.`, `Columns: ${columns.map((c) => c.name).join(", ")}.`);
   }
-  const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task });
+  const holdout = holdoutPathFor(trainPath);
+  const holdoutPath = holdout !== trainPath && await exists(resolve7(root2, holdout)) ? holdout : void 0;
+  const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task, ...holdoutPath ? { holdoutPath } : {} });
   await mkdir(dirname3(output2), { recursive: true });
   await writeFile(output2, policy);
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.

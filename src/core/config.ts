@@ -139,6 +139,8 @@ export interface ImportanceConfig {
   readonly referenceRows: number
   /** Cap on the holdout rows used for importance (the score uses every row). */
   readonly evaluationRows: number
+  /** Drop-column (LOCO) refits for the top this many features of each side by permutation importance (plus every added or changed feature on the head). */
+  readonly dropColumnTop: number
   /** Group name -> member columns, permuted jointly (null-prototype object). */
   readonly groups: Readonly<Record<string, readonly string[]>>
   /** Automatic groups: numeric features linked by |Spearman rho| at or above this (single linkage). */

@@ -8,6 +8,7 @@ import { rocAuc } from './metrics/roc-auc.ts'
 import { rSquared } from './metrics/r-squared.ts'
 import type { Fit, Model, ModelEngine } from './models/model.ts'
 import { createRandom, deriveSeed, shuffledIndices } from './statistics/random.ts'
+import { measureDropColumns, type DropColumnRequest, type DropColumnScores } from './measure-drop-columns.ts'
 
 export interface MeasureSideInputs {
   readonly side: 'base' | 'head'
@@ -40,6 +41,8 @@ export interface MeasureSideOptions {
   readonly sensitivity?: { readonly threshold?: number }
   /** Policy slices of the holdout (row indices) to score and measure importance on, in every refit. */
   readonly slices?: readonly { readonly name: string; readonly rows: Uint32Array }[]
+  /** Drop-column (LOCO) refits after the full ones, with the same seeds; none for a loaded model. */
+  readonly dropColumns?: DropColumnRequest
 }
 
 /** One policy slice on one side: per-refit scores on its rows, and importance measured on them. */
@@ -81,6 +84,8 @@ export interface SideMeasurement {
   /** Built-in gradient boosting only: gain and split count per feature, per refit (in-sample). */
   readonly splitStatistics?: readonly (readonly SplitStatistic[])[]
   readonly slices?: readonly SliceMeasurement[]
+  /** Holdout scores of the drop-column refits, per feature (empty for a loaded model or when not asked). */
+  readonly dropColumns: readonly DropColumnScores[]
 }
 
 /** The seed of refit r. The same on both sides, so a change that alters nothing alters no number. */
@@ -222,6 +227,8 @@ export function combineRefits(seeds: readonly number[], rows: SideRows, refits: 
     model: refits[refits.length - 1].model,
     firstPredictions: refits[0].predictions,
     noiseCovers: refits.length < 2 ? 'draws-only' : 'refits-and-draws',
+    // Drop-column refits come after the full ones (their candidates depend on the full importances).
+    dropColumns: [],
     ...(refits.every((r) => r.sensitivity)
       ? {
           sensitivity: {
@@ -267,7 +274,23 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
     const model = inputs.model ?? (await (prefetched ? prefetched[r] : fitRefit(r)))
     parts.push(await measureRefit(model, inputs, options, rows, r))
   }
-  return combineRefits(refitSeeds, rows, parts)
+  const combined = combineRefits(refitSeeds, rows, parts)
+  const dropColumns =
+    inputs.fit && options.dropColumns && refits >= 2
+      ? await measureDropColumns(
+          { side: inputs.side, train: inputs.train, holdout: inputs.holdout, fit: inputs.fit },
+          { request: options.dropColumns, ranked: rankedFeatureNames(combined), refitSeeds, metric: options.metric, concurrentFits: options.concurrentFits },
+        )
+      : []
+  return { ...combined, dropColumns }
+}
+
+/** A side's features by mean permutation importance, highest first, ties by name: the drop-column candidates. */
+export function rankedFeatureNames(measured: Pick<SideMeasurement, 'importances'>): string[] {
+  return measured.importances
+    .filter((u) => !u.isGroup)
+    .sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
+    .map((u) => u.name)
 }
 
 /** Sensitivity estimates in the side's feature order then group order; an unused feature gets exact zeros. */

@@ -26,11 +26,15 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
   const stopwatch = createStopwatch(inputs.now)
   const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } }
 
-  const measured = await stopwatch.time('measureSeconds', () =>
-    measureBothSides(sides.base, sides.head, settings, metric, { measureSides: inputs.measureSides, onProgress: inputs.onProgress }),
-  )
   const featureSet = diffFeatureSets(sides.base.train, sides.head.train)
   const changed = changedFeatures(sides.base, sides.head)
+  const measured = await stopwatch.time('measureSeconds', () =>
+    measureBothSides(sides.base, sides.head, settings, metric, {
+      measureSides: inputs.measureSides,
+      onProgress: inputs.onProgress,
+      touched: { added: featureSet.added, changed: [...changed] },
+    }),
+  )
   const single = await separateSingleFeatures(sides, measured, [...featureSet.added, ...changed], settings, {
     stopwatch,
     onProgress: inputs.onProgress,
@@ -38,8 +42,8 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
 
   inputs.onProgress?.({ stage: 'checks' })
   const results = {
-    base: sideResult('base', sides.base, measured[0], single.base),
-    head: sideResult('head', sides.head, measured[1], single.head),
+    base: sideResult('base', sides.base, measured[0], single.base, metric.name),
+    head: sideResult('head', sides.head, measured[1], single.head, metric.name),
   }
   const views = judgeViews({ settings, sides, measured, results, touched: new Set([...featureSet.added, ...changed]) })
   const checked = runChecks({

@@ -76,6 +76,7 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
     // Every built-in refit of both sides runs on a pool of worker threads sized to the cores.
     const pool = createPoolMeasure(process.env)
     if (pool) cleanups.push(pool.close)
+    checkPolicyAgainstColumns(policy, columnsOf(headSide.train), { otherSide: columnsOf(baseSide.train) })
     return await runGate({
       config,
       policySource: policyPath,
@@ -113,7 +114,7 @@ async function loadSide(
     log(`${side}: running prepare: ${config.prepare.command}`)
     await runPrepare({ command: config.prepare.command, cwd: checkout, timeoutSeconds: config.prepare.timeoutSeconds, side })
   }
-  const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout, rootName: `the ${side} checkout` }
+  const readOptions = { target: config.target, task: config.task, roles: config.data.columns, cwd: checkout, rootName: `the ${side} checkout`, featureRolesMayBeAbsent: true }
   const tables: Partial<Record<DataFileRequest['role'], Dataset>> = {}
   for (const file of sideDataFiles(config)) {
     tables[file.role] = await readTable(file.path, {
@@ -125,7 +126,6 @@ async function loadSide(
     })
   }
   const { train, holdout, reference, unlabeled } = assembleSideData(config, tables)
-  checkPolicyAgainstColumns(policy, [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])])
   checkSizes(side, config, train, holdout, log)
   log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
   const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
@@ -156,6 +156,10 @@ function checkSizes(side: string, config: GateConfig, train: Dataset, holdout: D
       log(`${side}: note: only ${data.rows} ${which === 'train' ? 'training' : 'holdout'} rows; with so few, the noise floor is wide and small changes cannot be told from noise.`)
     }
   }
+}
+
+function columnsOf(train: Dataset): string[] {
+  return [...train.features.map((f) => f.name), ...(train.ids ? [train.ids.name] : [])]
 }
 
 function toRepoPath(path: string): string {

@@ -2,7 +2,7 @@ import { access, mkdir, readFile, readdir, writeFile } from 'node:fs/promises'
 import { dirname, join, resolve } from 'node:path'
 import { parseCsv } from '../../core/data/parse-csv.ts'
 import { UserError } from '../../core/errors.ts'
-import { proposeTarget, renderStarterPolicy } from '../../core/policy/render-starter-policy.ts'
+import { holdoutPathFor, proposeTarget, renderStarterPolicy } from '../../core/policy/render-starter-policy.ts'
 import { repositoryRoot } from '../git/git.ts'
 import type { CliIo } from './cli-io.ts'
 import { summarizeColumns } from './summarize-columns.ts'
@@ -24,7 +24,10 @@ export async function init(command: { train?: string; target?: string; task?: 'b
   if (command.target && !columns.some((c) => c.name === command.target)) {
     throw new UserError(`--target '${command.target}' is not a column of ${trainPath}.`, `Columns: ${columns.map((c) => c.name).join(', ')}.`)
   }
-  const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task })
+  // An existing holdout file beside the training table is used instead of a split.
+  const holdout = holdoutPathFor(trainPath)
+  const holdoutPath = holdout !== trainPath && (await exists(resolve(root, holdout))) ? holdout : undefined
+  const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task, ...(holdoutPath ? { holdoutPath } : {}) })
   await mkdir(dirname(output), { recursive: true })
   await writeFile(output, policy)
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : ' (no target guessed: set one)'}. Review it, then run 'plumbline check'.\n`)

@@ -18,7 +18,8 @@ import { availableParallelism } from 'node:os'
 import Tinypool from 'tinypool'
 import type { Dataset, FeatureMatrix } from '../../core/data/dataset.ts'
 import { InternalError } from '../../core/errors.ts'
-import { combineRefits, measureSide, sideRefitSeeds, sideRows, type SideMeasurement, type SideRows } from '../../core/measure-side.ts'
+import { measureDropColumns } from '../../core/measure-drop-columns.ts'
+import { combineRefits, measureSide, rankedFeatureNames, sideRefitSeeds, sideRows, type RefitMeasurement, type SideMeasurement, type SideRows } from '../../core/measure-side.ts'
 import { binFeatures } from '../../core/models/gbt/bin-features.ts'
 import type { MeasureJob, MeasureSides } from '../../core/run-gate.ts'
 import type { RefitTask } from './refit-worker.ts'
@@ -71,7 +72,28 @@ async function inPool(pool: Tinypool, job: MeasureJob): Promise<SideMeasurement>
       })
     }),
   )
-  return combineRefits(seeds, rows, parts)
+  const combined = combineRefits(seeds, rows, parts as RefitMeasurement[])
+  // Drop-column refits, each (feature, refit) pair one job, once the full importances rank the candidates.
+  const request = options.dropColumns
+  const dropColumns =
+    request && seeds.length >= 2
+      ? await measureDropColumns(
+          {
+            side: job.inputs.side,
+            train,
+            holdout,
+            fit: job.inputs.fit!,
+            scoreWithout: (name, refit) => {
+              const task: RefitTask = { side: job.inputs.side, refit, seed: seeds[refit], train, holdout, rows, binned, options: { ...options, metricName: metric.name }, builtin, leaveOut: [name] }
+              return (pool.run(task) as Promise<number>).catch((error: unknown) => {
+                throw new InternalError(`a drop-column refit (without ${name}, refit ${refit + 1}) of the ${job.inputs.side} side failed in a worker thread:\n${error instanceof Error ? (error.stack ?? error.message) : String(error)}`)
+              })
+            },
+          },
+          { request, ranked: rankedFeatureNames(combined), refitSeeds: seeds, metric },
+        )
+      : []
+  return { ...combined, dropColumns }
 }
 
 /** The matrix with every column copied once into shared memory (workers read it without a copy). */

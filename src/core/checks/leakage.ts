@@ -3,10 +3,13 @@ import { mean, positiveShare, rankFeatures, type SideResult } from './side-resul
 
 import type { CheckAction } from './check-action.ts'
 import { formatNumber, formatPercent as pct, formatRatio } from '../report/format-number.ts'
+import { liftEvidence, type LiftEvidence } from './lift-evidence.ts'
 
 export interface LeakageOptions {
   readonly action: CheckAction
   readonly task: 'binary' | 'regression'
+  /** The policy metric's name, for the words of the lift rule. */
+  readonly metricName?: string
   /** The top feature's share of total positive importance at or above which it dominates. */
   readonly dominanceShare: number
   /** The top feature's importance over the runner-up's at or above which it dominates. */
@@ -15,6 +18,17 @@ export interface LeakageOptions {
   readonly singleFeaturePower: number
   /** A one-feature model's gain over a trivial predictor, relative to the full model's gain. */
   readonly relativePower: number
+  /** Lift share (drop-column loss of a new or changed feature over the base model's remaining loss) from which it warns. */
+  readonly liftWarn: number
+  /** Lift share from which the lift rule takes the policy action. */
+  readonly liftBlock: number
+  /**
+   * A new or changed feature the model needs (drop-column loss above noise) whose one-feature model
+   * reaches this AUC / R² within one slice is warned about, named, even below singleFeaturePower.
+   */
+  readonly sliceWarnPower: number
+  /** Columns a person reviewed as known at prediction time: lift and dominance blocks on them become warnings. */
+  readonly reviewedColumns: readonly string[]
 }
 
 export interface LeakageContext {
@@ -75,6 +89,12 @@ function unevaluated(head: SideResult, options: LeakageOptions, metricName: stri
  *    (AUC 0.5, R² 0). New or changed: the action. Already dominant on the base side and unchanged:
  *    info only, so a strong, legitimate feature does not block every pull request. Newly dominant
  *    without having changed (other features removed or weakened): a warning.
+ * 3. Lift (docs/leak-rule.md): a new or changed feature whose drop-column loss on the head is above
+ *    reseed noise carries `lift` = that loss over the base model's remaining loss. lift >= liftBlock:
+ *    the action; liftWarn <= lift < liftBlock: a warning. The evidence also gives the share of the
+ *    base's remaining loss the candidate removes and the feature's one-feature power against the
+ *    full base model and the best existing single feature.
+ * Lift and dominance blocks on a column in reviewedColumns become warnings that still name it.
  */
 export function checkLeakage(context: LeakageContext, options: LeakageOptions): Finding[] {
   if (options.action === 'off') return []
@@ -90,8 +110,17 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
 
   findings.push(...unevaluated(head, options, metricName))
 
-  const describeChange = (name: string) =>
-    added.has(name) ? 'new in this pull request' : changed.has(name) ? 'changed in this pull request' : 'unchanged'
+  const cause = (name: string) => `${name}, ${added.has(name) ? 'new here' : changed.has(name) ? 'changed here' : 'unchanged here'}`
+  const reviewed = new Set(options.reviewedColumns)
+  const lifts = new Map<string, LiftEvidence>()
+  for (const name of [...added, ...changed]) {
+    const lift = liftEvidence(name, context, options.task)
+    if (lift) lifts.set(name, lift)
+  }
+  const liftFields = (name: string) => {
+    const l = lifts.get(name)
+    return l ? liftRecord(l) : {}
+  }
 
   for (const unit of ranked) {
     const alone = head.singleFeatureSeparation[unit.name]
@@ -105,7 +134,7 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
       kind: 'leakage',
       severity,
       feature: unit.name,
-      title: `${unit.name} alone separates the holdout (${metricName} ${fmt(alone)}); it is ${describeChange(unit.name)}.`,
+      title: `${cause(unit.name)}, alone separates the holdout (${metricName} ${fmt(alone)}).`,
       message:
         `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)} ` +
         `(the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). ` +
@@ -121,6 +150,8 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
         share: positiveShare(head.importances, unit.name),
         isNew: added.has(unit.name),
         isChanged: changed.has(unit.name),
+        isReviewed: reviewed.has(unit.name),
+        ...liftFields(unit.name),
       },
     })
   }
@@ -139,7 +170,7 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
       kind: 'leakage',
       severity,
       feature: unit.name,
-      title: `${unit.name} alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}); it is ${describeChange(unit.name)}.`,
+      title: `${cause(unit.name)}, alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}).`,
       message:
         `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ` +
         `${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). ` +
@@ -155,6 +186,75 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
         baseSliceSeparation: baseSlice?.separation ?? null,
         singleFeatureSeparation: overall ?? null,
         threshold: options.singleFeaturePower,
+        isNew: added.has(unit.name),
+        isChanged: changed.has(unit.name),
+        ...liftFields(unit.name),
+      },
+    })
+  }
+
+  // The lift rule: what a new or changed feature carries of the loss the base model left.
+  for (const unit of ranked) {
+    const lift = lifts.get(unit.name)
+    if (flagged.has(unit.name) || !lift || !lift.isAboveNoise || !(lift.liftShare >= options.liftWarn)) continue
+    const isReviewed = reviewed.has(unit.name)
+    const strong = lift.liftShare >= options.liftBlock
+    const severity: Severity = strong && !isReviewed ? options.action : 'warn'
+    flagged.add(unit.name)
+    const lossName = lossWords(options.metricName)
+    const power =
+      lift.alone === null
+        ? ''
+        : `; alone ${metricName} ${fmt(lift.alone)}` + (lift.bestExisting ? ` against ${fmt(lift.bestExisting.separation)} for the best existing feature (${lift.bestExisting.name})` : '')
+    findings.push({
+      kind: 'leakage',
+      severity,
+      feature: unit.name,
+      title:
+        `${cause(unit.name)}, carries ${pct(lift.liftShare)} of the ${lossName} the base model left ` +
+        `(the model loses that much without it, ${fmt(lift.dropInReseedSds)} reseed SDs)${power}.`,
+      message:
+        `Refitted without ${unit.name} with the same seeds, the candidate's holdout ${lossName} grows by ${fmt(lift.dropLoss)} ` +
+        `(95% interval ${fmt(lift.dropLower)} to ${fmt(lift.dropUpper)}, paired t-test p = ${fmt(lift.pValue)}) ` +
+        `against a base ${lossName} of ${fmt(lift.baseLoss)}: ${pct(lift.liftShare)} of what the base model left. ` +
+        `The candidate as a whole removes ${pct(lift.removedShare)} of it` +
+        (lift.alone !== null ? `; ${unit.name} alone reaches ${metricName} ${fmt(lift.alone)} (full base model ${fmt(lift.fullBase)}` + (lift.bestExisting ? `, best existing single feature ${lift.bestExisting.name} ${fmt(lift.bestExisting.separation)})` : ')') : '') +
+        `. One new feature that removes this much of the remaining error is the classic sign of a value computed from, or after, the outcome (common practice); ` +
+        (isReviewed
+          ? `it is listed in checks.leakage.reviewed_columns as reviewed and known at prediction time, so this is a warning.`
+          : strong
+            ? `check that it is known at prediction time, and if a person has checked it, list it in checks.leakage.reviewed_columns.`
+            : `below the policy's lift_block of ${options.liftBlock}, so this is a warning; check that it is known at prediction time.`),
+      evidence: { ...liftRecord(lift), liftWarn: options.liftWarn, liftBlock: options.liftBlock, isNew: added.has(unit.name), isChanged: changed.has(unit.name), isReviewed },
+    })
+  }
+
+  // A slice leak too weak for the slice line: the model needs the feature, and inside one slice it
+  // nearly gives the outcome away.
+  for (const unit of ranked) {
+    const lift = lifts.get(unit.name)
+    const slice = head.singleFeatureSlices?.[unit.name]
+    if (flagged.has(unit.name) || !lift || !lift.isAboveNoise || !slice || !(slice.separation >= options.sliceWarnPower)) continue
+    flagged.add(unit.name)
+    findings.push({
+      kind: 'leakage',
+      severity: 'warn',
+      feature: unit.name,
+      title:
+        `${cause(unit.name)}, alone nearly separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}) ` +
+        `and the model needs it (${pct(lift.liftShare)} of the loss the base model left).`,
+      message:
+        `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ` +
+        `${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(lift.alone ?? undefined)}), and refitted without it the candidate's loss grows by ` +
+        `${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after ` +
+        `the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
+      evidence: {
+        sliceColumn: slice.column,
+        sliceValue: slice.value,
+        sliceRows: slice.rows,
+        sliceSeparation: slice.separation,
+        sliceWarnPower: options.sliceWarnPower,
+        ...liftRecord(lift),
         isNew: added.has(unit.name),
         isChanged: changed.has(unit.name),
       },
@@ -173,13 +273,14 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
       const isNewOrChanged = added.has(top.name) || changed.has(top.name)
       const baseShare = positiveShare(base.importances, top.name)
       const wasDominant = baseRanked[0]?.name === top.name && baseShare >= options.dominanceShare
-      const severity: Severity = isNewOrChanged ? options.action : wasDominant ? 'info' : 'warn'
+      const severityBefore: Severity = isNewOrChanged ? options.action : wasDominant ? 'info' : 'warn'
+      const severity: Severity = severityBefore === 'block' && reviewed.has(top.name) ? 'warn' : severityBefore
       const scoreJump = separationJump(base.separation, head.separation)
       findings.push({
         kind: 'leakage',
         severity,
         feature: top.name,
-        title: `${top.name} dominates the model (${pct(share)} of the importance, ${fmtRatio(ratio)} the runner-up); it is ${describeChange(top.name)}.`,
+        title: `${cause(top.name)}, dominates the model (${pct(share)} of the importance, ${fmtRatio(ratio)} the runner-up).`,
         message:
           `${top.name} carries ${pct(share)} of the total positive importance` +
           (runnerUp ? `, ${fmtRatio(ratio)} as much as ${runnerUp.name}` : '') +
@@ -202,11 +303,49 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
           isNew: added.has(top.name),
           isChanged: changed.has(top.name),
           wasDominantOnBase: wasDominant,
+          isReviewed: reviewed.has(top.name),
+          ...liftFields(top.name),
         },
       })
     }
   }
   return findings
+}
+
+function liftRecord(l: LiftEvidence): Record<string, number | string | boolean | null> {
+  const finite = (v: number) => (Number.isFinite(v) ? v : null)
+  return {
+    liftShare: finite(l.liftShare),
+    removedShare: finite(l.removedShare),
+    dropColumnLoss: finite(l.dropLoss),
+    dropColumnLower: finite(l.dropLower),
+    dropColumnUpper: finite(l.dropUpper),
+    dropColumnPValue: finite(l.pValue),
+    dropColumnInReseedSds: finite(l.dropInReseedSds),
+    dropColumnAboveNoise: l.isAboveNoise,
+    baseLoss: finite(l.baseLoss),
+    headLoss: finite(l.headLoss),
+    powerAgainstBaseModel: l.powerAgainstBase === null ? null : finite(l.powerAgainstBase),
+    powerAgainstBestFeature: l.powerAgainstBest === null ? null : finite(l.powerAgainstBest),
+    bestExistingFeature: l.bestExisting?.name ?? null,
+  }
+}
+
+function lossWords(metric: string | undefined): string {
+  switch (metric) {
+    case 'rmse':
+      return 'squared error'
+    case 'auc':
+      return '1 − AUC'
+    case 'accuracy':
+      return 'error rate'
+    case 'r2':
+      return '1 − R²'
+    case undefined:
+      return 'loss'
+    default:
+      return metric
+  }
 }
 
 /** Difference of mean separation (head − base) in units of the pooled refit SD; NaN without spread. */

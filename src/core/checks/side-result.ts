@@ -1,4 +1,5 @@
 import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
+import type { DropColumnEstimate } from '../importance/drop-column-importance.ts'
 import type { ImportanceEstimate } from '../importance/permutation-importance.ts'
 import type { SliceSeparation } from '../importance/single-feature-separation.ts'
 
@@ -19,6 +20,10 @@ export interface SideResult {
   readonly singleFeatureSeparation: Readonly<Record<string, number>>
   /** Per feature, the slice (a value of a categorical column) its one-feature model separates best. */
   readonly singleFeatureSlices?: Readonly<Record<string, SliceSeparation>>
+  /** The policy metric per refit as a loss (lossOfScore: 0 is perfect), in refit order. */
+  readonly losses?: readonly number[]
+  /** Drop-column (LOCO) importance in loss units, for the features refitted without. */
+  readonly dropColumns?: Readonly<Record<string, DropColumnEstimate>>
   /** 'draws-only' when the model was loaded, not refitted. */
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
 }

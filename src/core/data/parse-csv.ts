@@ -29,6 +29,12 @@ export interface ParseCsvOptions {
   readonly schema?: DataSchema
   /** Default true: the target column must be in the file. False lets reference data come without it. */
   readonly requireTarget?: boolean
+  /**
+   * A numeric, categorical or ignore role for a column this file lacks is not an error: the gate
+   * reads two sides, and a column one side lacks is that side's feature-set change (the gate checks
+   * the names against both sides' columns instead). The id must still be there.
+   */
+  readonly featureRolesMayBeAbsent?: boolean
 }
 
 /** The schema a dataset was read with, for reading other files the same way. */
@@ -372,6 +378,7 @@ function planFromRoles(options: ParseCsvOptions, header: readonly string[], colu
   }
   for (const name of Object.keys(roles)) {
     if (name !== targetName && !columnIndex.has(name)) {
+      if (options.featureRolesMayBeAbsent && roles[name] !== 'id') continue
       throw new UserError(
         `${source} has no column ${show(name)}, which has the role '${roles[name]}'. Its columns are ${listNames(header.map((h) => h.trim()), 20)}.`,
         'Correct the column name, or delete its role.',

@@ -83,6 +83,7 @@ export function gateSettings(config: GateConfig) {
     refits: config.importance.refits,
     evaluationRows: config.importance.evaluationRows,
     referenceRows: config.importance.referenceRows,
+    dropColumnTop: config.importance.dropColumnTop,
     groups,
     groupThreshold: config.importance.groupThreshold,
     /** Filled by withCorrelatedGroups once the head's training data is known. */
@@ -102,7 +103,7 @@ export function gateSettings(config: GateConfig) {
     // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
     // policy does not expose are marked fixed.
     evidence: {
-      leakage: snakeKeys(config.checks.leakage),
+      leakage: snakeKeys({ ...config.checks.leakage, reviewedColumns: config.checks.leakage.reviewedColumns.join(', ') || 'none' }),
       rank_shift: {
         ...snakeKeys(config.checks.rankShift),
         'min_relative_change (fixed)': fixedSettings.minRelativeChange,

@@ -20,6 +20,7 @@ export function measureJob(
   settings: GateSettings,
   metric: Metric,
   onProgress?: (event: GateProgress) => void,
+  dropAlso: readonly string[] = [],
 ): MeasureJob {
   const { model } = data
   const measuredSlices = planSlices(settings.policySlices, data.holdout, side, { task: settings.task, minRows: settings.checks.slices.minRows })
@@ -45,6 +46,7 @@ export function measureJob(
       concurrentFits: model.kind === 'command',
       ...(settings.sensitivity ? { sensitivity: settings.sensitivity } : {}),
       ...(measuredSlices.length > 0 && settings.checks.slices.action !== 'off' ? { slices: measuredSlices } : {}),
+      dropColumns: { top: settings.dropColumnTop, also: dropAlso.slice(0, settings.singleFeatureMaxExtra) },
     },
     ...(model.kind === 'builtin' ? { builtin: { task: settings.task, settings: settings.learner } } : {}),
   }
@@ -56,8 +58,18 @@ export function measureBothSides(
   head: SideInputs,
   settings: GateSettings,
   metric: Metric,
-  options: { readonly measureSides?: MeasureSides; readonly onProgress?: (event: GateProgress) => void },
+  options: {
+    readonly measureSides?: MeasureSides
+    readonly onProgress?: (event: GateProgress) => void
+    /** Features the pull request adds or changes: refitted without on the head (changed ones on the base too). */
+    readonly touched?: { readonly added: readonly string[]; readonly changed: readonly string[] }
+  },
 ): Promise<readonly [SideMeasurement, SideMeasurement]> {
-  const jobs = [measureJob('base', base, settings, metric, options.onProgress), measureJob('head', head, settings, metric, options.onProgress)] as const
+  const added = options.touched?.added ?? []
+  const changed = options.touched?.changed ?? []
+  const jobs = [
+    measureJob('base', base, settings, metric, options.onProgress, changed),
+    measureJob('head', head, settings, metric, options.onProgress, [...added, ...changed]),
+  ] as const
   return (options.measureSides ?? measureInTurn)(jobs)
 }

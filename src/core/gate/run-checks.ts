@@ -45,7 +45,7 @@ export function runChecks(inputs: CheckInputs): CheckOutcome {
   const sameRows = holdoutFindings.length === 0
   const leakage = checkLeakage(
     { base: results.base, head: results.head, added: new Set(featureSet.added), changed: inputs.changed },
-    { ...settings.checks.leakage, task: settings.task },
+    { ...settings.checks.leakage, task: settings.task, metricName: metric.name },
   )
   const shift = checkRankShift(results.base, results.head, settings.checks.rankShift)
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement)

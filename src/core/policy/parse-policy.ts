@@ -326,17 +326,20 @@ function listColumns(columns: readonly string[], most = 20): string {
  * read the training table: data.columns (roles other than ignore), data.split.by, every member of
  * importance.groups, model.onnx.features, and that no group is named like a column. `columns` is
  * the data's column names; the target and ignored columns may be left out (parseCsv checks those).
- * Throws a UserError for the first problem in file order, citing line:column, naming the policy
+ * With `otherSide` (the other side's columns) a name needs to be a column of one side only, except
+ * the id, which both sides must have. Throws a UserError for the first problem in file order, citing line:column, naming the policy
  * key, listing the columns and suggesting a close name.
  * Cost O(names · columns) plus the distances for the one name reported.
  */
-export function checkPolicyAgainstColumns(policy: PolicyFile, columns: readonly string[]): void {
+export function checkPolicyAgainstColumns(policy: PolicyFile, columns: readonly string[], options: { readonly otherSide?: readonly string[] } = {}): void {
   const { config, positions, source } = policy
-  const known = new Set(columns)
+  // A name one side has is that side's feature-set change, not a mistake; the id must be on both.
+  const known = new Set([...columns, ...(options.otherSide ?? [])])
+  const onBoth = options.otherSide ? new Set(columns.filter((c) => options.otherSide!.includes(c))) : known
   const problems: Problem[] = []
   /** `pointAt` is the node holding the name: a key of data.columns, or a value everywhere else. */
-  const missing = (path: KeyPath, pointAt: KeyPath, verb: string, name: string, fix: string) => {
-    if (known.has(name)) return
+  const missing = (path: KeyPath, pointAt: KeyPath, verb: string, name: string, fix: string, needsBoth = false) => {
+    if ((needsBoth ? onBoth : known).has(name)) return
     const entry = entryAt(positions, pointAt)
     const place = pointAt.length > path.length && typeof pointAt[path.length] === 'string' ? entry?.key : entry?.value
     const suggestion = closestName(name, columns)
@@ -348,7 +351,7 @@ export function checkPolicyAgainstColumns(policy: PolicyFile, columns: readonly 
   }
   for (const [name, role] of Object.entries(config.data.columns)) {
     if (role === 'ignore') continue
-    missing(['data', 'columns'], ['data', 'columns', name], 'gives a role to', name, `Correct '${name}' in data.columns, or delete its line if the data no longer has the column.`)
+    missing(['data', 'columns'], ['data', 'columns', name], 'gives a role to', name, `Correct '${name}' in data.columns, or delete its line if the data no longer has the column.`, role === 'id')
   }
   if (config.data.holdout.kind === 'split' && config.data.holdout.by !== undefined) {
     missing(['data', 'split', 'by'], ['data', 'split', 'by'], 'names', config.data.holdout.by, 'Set data.split.by to a column of the data (an id column is best), or delete the line to split rows at random.')

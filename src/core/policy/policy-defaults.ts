@@ -65,6 +65,7 @@ export const defaultImportance = deepFreeze({
   referenceRows: 10_000,
   evaluationRows: 20_000,
   groupThreshold: 0.9,
+  dropColumnTop: 1,
 })
 
 export const defaultChecks: ChecksConfig = deepFreeze({
@@ -74,6 +75,10 @@ export const defaultChecks: ChecksConfig = deepFreeze({
     runnerUpRatio: 3,
     singleFeaturePower: 0.99,
     relativePower: 0.8,
+    liftWarn: 0.15,
+    liftBlock: 0.25,
+    sliceWarnPower: 0.9,
+    reviewedColumns: [],
   },
   rankShift: {
     action: 'warn',

@@ -192,6 +192,7 @@ const importanceSchema = mapping({
   refits: wholeNumber(1, 100).default(defaultImportance.refits),
   reference_rows: wholeNumber(1).default(defaultImportance.referenceRows),
   evaluation_rows: wholeNumber(2).default(defaultImportance.evaluationRows),
+  drop_column_top: wholeNumber(0, 100).default(defaultImportance.dropColumnTop),
   groups: z.preprocess(
     (raw) => (raw === null ? {} : raw),
     z.record(z.string(), nameList('a list of column names, such as [distance_km, stop_count]'), { error: 'a mapping of group names to lists of columns' }),
@@ -206,6 +207,13 @@ const checksSchema = mapping({
     runner_up_ratio: realNumber({ atLeast: 1 }).default(defaultChecks.leakage.runnerUpRatio),
     single_feature_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.singleFeaturePower),
     relative_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.relativePower),
+    lift_warn: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.liftWarn),
+    lift_block: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.liftBlock),
+    slice_warn_power: realNumber({ above: 0, atMost: 1 }).default(defaultChecks.leakage.sliceWarnPower),
+    reviewed_columns: z.preprocess(
+      (raw) => (raw === null ? [] : raw),
+      z.array(text('a column name'), { error: 'a list of column names, such as [roadworks_km]' }),
+    ).default([]),
   }).prefault({}),
   rank_shift: mapping({
     action: checkAction.default(defaultChecks.rankShift.action),
@@ -449,6 +457,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       refits: importance.refits,
       referenceRows: importance.reference_rows,
       evaluationRows: importance.evaluation_rows,
+      dropColumnTop: importance.drop_column_top,
       groups: nullPrototype(Object.entries(importance.groups)),
       groupThreshold: importance.group_threshold,
     },
@@ -459,6 +468,10 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
         runnerUpRatio: checks.leakage.runner_up_ratio,
         singleFeaturePower: checks.leakage.single_feature_power,
         relativePower: checks.leakage.relative_power,
+        liftWarn: checks.leakage.lift_warn,
+        liftBlock: checks.leakage.lift_block,
+        sliceWarnPower: checks.leakage.slice_warn_power,
+        reviewedColumns: Object.freeze([...checks.leakage.reviewed_columns]),
       },
       rankShift: {
         action: checks.rank_shift.action,

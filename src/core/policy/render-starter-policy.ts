@@ -39,6 +39,8 @@ export interface StarterPolicyInput {
   /** The target, when the user named it (or accepted proposeTarget's); otherwise it is guessed. */
   readonly suggestedTarget?: string
   readonly task?: Task
+  /** An existing holdout file (relative to the repository root): data.holdout then names it instead of a split. */
+  readonly holdoutPath?: string
 }
 
 /** Names that say "this is what we predict", compared in lower case. */
@@ -148,7 +150,8 @@ function describeColumn(column: StarterColumn, rows: number): { role: string; no
   return { role: column.kind, note: `${count(column.distinct, 'distinct value', 'distinct values')}${missing}` }
 }
 
-function holdoutPathFor(trainPath: string): string {
+/** Where a holdout file beside the training table would be: train.csv -> holdout.csv in the same folder. */
+export function holdoutPathFor(trainPath: string): string {
   const slash = trainPath.lastIndexOf('/')
   const dir = trainPath.slice(0, slash + 1)
   const base = trainPath.slice(slash + 1)
@@ -199,19 +202,26 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     key(0, `seed: ${defaultTopLevel.seed}`, 'every random choice of a run derives from it'),
   ])
 
+  const holdout = input.holdoutPath
+  // Roles the reader infers from the values (numeric, categorical) are shown as comments, so that a
+  // pull request that removes or adds a column need not edit the policy; only an id and columns to
+  // ignore, which cannot be inferred, are written as keys.
+  const declared = described.filter((d) => d.role === 'id' || d.role === 'ignore')
   const data = renderBlock([
     key(0, 'data:'),
     key(1, `train: ${scalar(trainPath)}`),
-    optional(1, `holdout: ${scalar(holdoutPathFor(trainPath))}`, 'a separate holdout file, instead of split'),
-    key(1, 'split:', 'hold out part of data.train'),
-    key(2, `fraction: ${defaultData.split.fraction}`),
-    idColumn
+    holdout
+      ? key(1, `holdout: ${scalar(holdout)}`, 'found beside the training table')
+      : optional(1, `holdout: ${scalar(holdoutPathFor(trainPath))}`, 'a separate holdout file, instead of split'),
+    (holdout ? optional : key)(1, 'split:', holdout ? 'instead of holdout: hold out part of data.train' : 'hold out part of data.train'),
+    (holdout ? optional : key)(2, `fraction: ${defaultData.split.fraction}`),
+    idColumn && !holdout
       ? key(2, `by: ${scalar(idColumn.name)}`, 'guessed: hashing the id holds out the same rows on both sides')
-      : optional(2, 'by: <id column>', 'hash an id so both sides hold out the same rows'),
+      : optional(2, idColumn ? `by: ${scalar(idColumn.name)}` : 'by: <id column>', 'hash an id so both sides hold out the same rows'),
     optional(1, `reference: ${defaultData.reference.kind}`, 'train, holdout or a file: where permutation draws come from'),
     optional(1, `unlabeled: ${scalar(holdoutPathFor(trainPath).replace(/holdout/i, 'unlabeled'))}`, 'rows without the target'),
-    features.length > 0 ? key(1, 'columns:', 'numeric, categorical, id or ignore') : key(1, 'columns: {}', 'numeric, categorical, id or ignore'),
-    ...described.map((d) => key(2, `${scalar(d.column.name)}: ${d.role}`, d.note)),
+    features.length > 0 ? key(1, 'columns:', 'numeric, categorical, id or ignore; others are inferred') : key(1, 'columns: {}', 'numeric, categorical, id or ignore'),
+    ...described.map((d) => (declared.includes(d) ? key : optional)(2, `${scalar(d.column.name)}: ${d.role}`, declared.includes(d) ? d.note : `inferred: ${d.note}`)),
   ])
 
   const prepare = renderBlock([
@@ -250,6 +260,7 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(1, `refits: ${defaultImportance.refits}`, 'reseeded refits per side'),
     optional(1, `reference_rows: ${defaultImportance.referenceRows}`),
     optional(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
+    optional(1, `drop_column_top: ${defaultImportance.dropColumnTop}`, 'features per side also refitted without (drop-column)'),
     optional(1, 'groups:', 'columns permuted together and reported as one'),
     optional(2, `group_name: ${example(numeric, ['column_a', 'column_b'])}`),
     optional(1, `group_threshold: ${defaultImportance.groupThreshold}`, 'automatic groups: numeric columns with |Spearman| at or above this'),
@@ -264,6 +275,10 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `runner_up_ratio: ${leakage.runnerUpRatio}`),
     optional(2, `single_feature_power: ${leakage.singleFeaturePower}`),
     optional(2, `relative_power: ${leakage.relativePower}`),
+    optional(2, `lift_warn: ${leakage.liftWarn}`, 'docs/leak-rule.md'),
+    optional(2, `lift_block: ${leakage.liftBlock}`),
+    optional(2, `slice_warn_power: ${leakage.sliceWarnPower}`),
+    optional(2, 'reviewed_columns: []', 'columns a person checked are known at prediction time'),
     key(1, 'rank_shift:', 'features change places between base and head'),
     key(2, `action: ${rankShift.action}`),
     optional(2, `false_discovery_rate: ${rankShift.falseDiscoveryRate}`),

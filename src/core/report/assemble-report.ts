@@ -1,3 +1,4 @@
+import type { DropColumnEstimate } from '../importance/drop-column-importance.ts'
 /**
  * The GateReport out of the measured sides, the findings and the settings: pure assembly, no
  * judgment (the checks in src/core/checks/ decide; this module only lays out what they found).
@@ -98,6 +99,7 @@ export function featureRows(
           ...(side.singleFeatureSeparation[u.name] !== undefined && !u.isGroup
             ? { singleFeatureScore: side.singleFeatureSeparation[u.name] }
             : {}),
+          ...(side.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side.dropColumns[u.name]) } : {}),
         },
       ]),
     )
@@ -169,4 +171,8 @@ function describeModel(model: SideMeasurement['model']): string {
   const count = model.featureNames.length
   const engine = model.engine ? `, evaluated by ${engineNames[model.engine]}` : ''
   return `${model.kind} on ${count} feature${count === 1 ? '' : 's'}${engine}`
+}
+
+function dropColumnOf(d: DropColumnEstimate): NonNullable<SideImportance['dropColumn']> {
+  return { loss: d.mean, lower: d.lower, upper: d.upper, pValue: d.pValue, isAboveNoise: d.isAboveNoise, perRefit: d.perRefit }
 }

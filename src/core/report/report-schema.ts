@@ -97,6 +97,14 @@ const sideImportanceSchema = z.strictObject({
   isAboveFloor: z.boolean(),
   perRefit: list(finite),
   singleFeatureScore: undefinedNumber.optional(),
+  dropColumn: z.strictObject({
+    loss: finite,
+    lower: undefinedNumber,
+    upper: undefinedNumber,
+    pValue: undefinedNumber,
+    isAboveNoise: z.boolean(),
+    perRefit: list(finite),
+  }).optional(),
 }).meta({ id: 'SideImportance' })
 
 const featureRowSchema = z.strictObject({

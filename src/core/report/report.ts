@@ -66,6 +66,18 @@ export interface SideImportance {
   readonly perRefit: readonly number[]
   /** A one-feature built-in model's holdout AUC (binary) or R² (regression), when it was computed. */
   readonly singleFeatureScore?: number
+  /**
+   * Drop-column importance (LOCO), when this feature was refitted without: the holdout loss without
+   * it minus the loss with it, over matched refits, in loss units (lossOfScore), with its interval.
+   */
+  readonly dropColumn?: {
+    readonly loss: number
+    readonly lower: number
+    readonly upper: number
+    readonly pValue: number
+    readonly isAboveNoise: boolean
+    readonly perRefit: readonly number[]
+  }
 }
 
 export interface FeatureRow {

@@ -214,7 +214,14 @@ function describeName(row: FeatureRow): string {
   return `${row.name} (group of ${limitItems(members, 5).join(', ')})`
 }
 
+/** The drop-column loss has a column of its own; the status says only when that loss is noise. */
 function describeStatus(row: FeatureRow): string {
+  const drop = row.head?.dropColumn
+  const status = describePlace(row)
+  return drop && !drop.isAboveNoise ? `${status}; drop-column loss within reseed noise` : status
+}
+
+function describePlace(row: FeatureRow): string {
   if (row.presence === 'removed') return 'removed'
   const floor = row.head?.isAboveFloor ? 'above floor' : 'indistinguishable from zero'
   if (row.presence === 'added') return row.head ? `added, ${floor}` : 'added'

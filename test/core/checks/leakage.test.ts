@@ -2,15 +2,21 @@ import { describe, expect, it } from 'vitest'
 import { checkLeakage, type LeakageOptions } from '../../../src/core/checks/leakage.ts'
 import type { SideResult } from '../../../src/core/checks/side-result.ts'
 import { sideResult, steady } from './side-results.ts'
+import { dropColumnImportance } from '../../../src/core/importance/drop-column-importance.ts'
 
 // The policy defaults (src/core/config.ts defaultChecks.leakage).
 const options: LeakageOptions = {
   action: 'block',
   task: 'binary',
+  metricName: 'log-loss',
   dominanceShare: 0.5,
   runnerUpRatio: 3,
   singleFeaturePower: 0.99,
   relativePower: 0.8,
+  liftWarn: 0.15,
+  liftBlock: 0.25,
+  sliceWarnPower: 0.9,
+  reviewedColumns: [],
 }
 
 function check(base: SideResult, head: SideResult, change: { added?: string[]; changed?: string[] } = {}, overrides: Partial<LeakageOptions> = {}) {
@@ -34,7 +40,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
       kind: 'leakage',
       severity: 'block',
       feature: 'scan_delay_h',
-      title: 'scan_delay_h alone separates the holdout (AUC 0.995); it is new in this pull request.',
+      title: 'scan_delay_h, new here, alone separates the holdout (AUC 0.995).',
       message:
         'A model that sees only scan_delay_h reaches holdout AUC 0.995 (the full model reaches 0.975; the policy line is 0.99). ' +
         'A value this predictive on its own usually means it is computed from, or after, the outcome. Check that it is known at prediction time.',
@@ -52,7 +58,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
     const after = sideResult({ features: strong, separation: steady(0.975, 0.005), single })
     const [finding] = check(before, after)
     expect(finding.severity).toBe('warn')
-    expect(finding.title).toBe('final_scan_hour alone separates the holdout (AUC 0.995); it is unchanged.')
+    expect(finding.title).toBe('final_scan_hour, unchanged here, alone separates the holdout (AUC 0.995).')
     expect(finding.message).toBe(
       'A model that sees only final_scan_hour reaches holdout AUC 0.995 (the full model reaches 0.975; the policy line is 0.99). ' +
         'A value this predictive on its own usually means it is computed from, or after, the outcome. ' +
@@ -61,7 +67,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
     // Changed in the pull request, or newly crossing the line: the policy action again.
     expect(check(before, after, { changed: ['final_scan_hour'] })[0].severity).toBe('block')
     const weakerBefore = sideResult({ side: 'base', features: strong, separation: steady(0.975, 0.005), single: { final_scan_hour: 0.9 } })
-    expect(check(weakerBefore, after)[0]).toMatchObject({ severity: 'block', title: 'final_scan_hour alone separates the holdout (AUC 0.995); it is unchanged.' })
+    expect(check(weakerBefore, after)[0]).toMatchObject({ severity: 'block', title: 'final_scan_hour, unchanged here, alone separates the holdout (AUC 0.995).' })
   })
 
   it('draws the line at singleFeaturePower inclusively, and says R² for regression', () => {
@@ -69,7 +75,7 @@ describe('checkLeakage(context, options): a feature that alone separates the hol
     expect(check(base, head(0.99), { added: ['roadworks_km'] }).map((f) => f.feature)).toEqual(['roadworks_km'])
     expect(check(base, head(0.9899), { added: ['roadworks_km'] })).toEqual([])
     const [regression] = check(base, head(0.995), { added: ['roadworks_km'] }, { task: 'regression' })
-    expect(regression.title).toBe('roadworks_km alone separates the holdout (R² 0.995); it is new in this pull request.')
+    expect(regression.title).toBe('roadworks_km, new here, alone separates the holdout (R² 0.995).')
   })
 
   it('finds nothing when the check is off', () => {
@@ -91,7 +97,7 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
       kind: 'leakage',
       severity: 'info',
       feature: 'distance_km',
-      title: 'distance_km dominates the model (80% of the importance, 6.667× the runner-up); it is unchanged.',
+      title: 'distance_km, unchanged here, dominates the model (80% of the importance, 6.667× the runner-up).',
       message:
         "distance_km carries 80% of the total positive importance, 6.667× as much as stop_count, and a model that sees only it earns 95.2% of the full model's gain over a trivial predictor " +
         '(AUC 0.9 alone vs 0.92 for the full model). It already dominated the base model (80%) and did not change, so this is reported for information.',
@@ -106,7 +112,7 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
     const [finding] = check(base, head, { changed: ['distance_km'] })
     // By hand: steady(·, 0.005) has SD sqrt(6.25e-5 / 4) = 0.00395 on both sides; (0.95 − 0.92) / 0.00395 = 7.59.
     expect(finding.severity).toBe('block')
-    expect(finding.title).toBe('distance_km dominates the model (80% of the importance, 6.667× the runner-up); it is changed in this pull request.')
+    expect(finding.title).toBe('distance_km, changed here, dominates the model (80% of the importance, 6.667× the runner-up).')
     expect(finding.message).toBe(
       "distance_km carries 80% of the total positive importance, 6.667× as much as stop_count, and a model that sees only it earns 88.9% of the full model's gain over a trivial predictor " +
         '(AUC 0.9 alone vs 0.95 for the full model). On the base side its share was 80%; the full model\'s AUC went from 0.92 to 0.95 (7.589 reseed SDs).',
@@ -168,5 +174,70 @@ describe('checkLeakage(context, options) on a holdout that cannot show a leak', 
     expect(findings[0].message).toMatch(/^No holdout AUC could be computed for the full model and the one-feature models of distance_km, leak\. /)
     expect(check(base, head, { added: ['leak'] }, { action: 'warn' })[0].severity).toBe('warn')
     expect(check(base, head, { added: ['leak'] }, { action: 'off' })).toEqual([])
+  })
+})
+
+describe('checkLeakage(context, options): the lift rule (docs/leak-rule.md)', () => {
+  // Losses are log-loss per refit; the head refitted without followup_score loses `drop` more.
+  const withLoss = (side: SideResult, losses: readonly number[], drops: Readonly<Record<string, readonly number[]>> = {}): SideResult => ({
+    ...side,
+    losses,
+    dropColumns: Object.fromEntries(Object.entries(drops).map(([name, d]) => [name, dropColumnImportance(losses, losses.map((l, r) => l + d[r]))])),
+  })
+  const base = withLoss(sideResult({ side: 'base', features: baseFeatures, separation: steady(0.8, 0.005), single: { distance_km: 0.71 } }), steady(0.5, 0.004))
+  const headWith = (drop: number, alone = 0.9) =>
+    withLoss(
+      sideResult({ features: { ...baseFeatures, followup_score: steady(0.04) }, separation: steady(0.9, 0.005), single: { distance_km: 0.71, followup_score: alone } }),
+      steady(0.5 - drop, 0.004),
+      { followup_score: steady(drop, 0.004) },
+    )
+
+  it('blocks a new feature that carries lift_block or more of the base model\'s remaining loss, naming the cause first', () => {
+    const [finding] = check(base, headWith(0.2), { added: ['followup_score'] })
+    expect(finding).toMatchObject({ kind: 'leakage', severity: 'block', feature: 'followup_score' })
+    expect(finding.title).toMatch(/^followup_score, new here, carries 40% of the log-loss the base model left/)
+    expect(finding.title).toContain('alone AUC 0.9 against 0.71 for the best existing feature (distance_km)')
+    // lift share 0.2 / 0.5; power against the best existing feature (0.9 − 0.5) / (0.71 − 0.5).
+    expect(finding.evidence.liftShare).toBeCloseTo(0.4, 10)
+    expect(finding.evidence.powerAgainstBestFeature).toBeCloseTo(0.4 / 0.21, 10)
+    expect(finding.evidence.dropColumnAboveNoise).toBe(true)
+  })
+
+  it('warns between lift_warn and lift_block, and says nothing below lift_warn', () => {
+    expect(check(base, headWith(0.1), { added: ['followup_score'] })[0]).toMatchObject({ severity: 'warn', feature: 'followup_score' })
+    expect(check(base, headWith(0.05), { added: ['followup_score'] })).toEqual([])
+  })
+
+  it('calls a drop-column loss within reseed noise nothing, however large its share would be', () => {
+    const noisy = withLoss(headWith(0.2), steady(0.3, 0.004), { followup_score: [0.4, -0.1, 0.5, -0.2, 0.4] })
+    expect(check(base, noisy, { added: ['followup_score'] })).toEqual([])
+  })
+
+  it('turns a lift block on a reviewed column into a warning that still names it, but never a one-feature block', () => {
+    const reviewed = { reviewedColumns: ['followup_score'] }
+    const [lift] = check(base, headWith(0.2), { added: ['followup_score'] }, reviewed)
+    expect(lift).toMatchObject({ severity: 'warn', feature: 'followup_score' })
+    expect(lift.evidence.isReviewed).toBe(true)
+    expect(lift.message).toContain('checks.leakage.reviewed_columns')
+    const [alone] = check(base, headWith(0.2, 0.995), { added: ['followup_score'] }, reviewed)
+    expect(alone).toMatchObject({ severity: 'block', feature: 'followup_score' })
+  })
+})
+
+describe('checkLeakage(context, options): a slice leak below the slice line', () => {
+  it('warns, naming the feature, when the model needs it and it alone nearly separates one slice', () => {
+    const losses = steady(0.5, 0.004)
+    const base: SideResult = { ...sideResult({ side: 'base', features: baseFeatures, single: { distance_km: 0.71 } }), losses, dropColumns: {} }
+    const headLosses = steady(0.46, 0.004)
+    const head: SideResult = {
+      ...sideResult({ features: { ...baseFeatures, scan_gap_h: steady(0.02) }, single: { distance_km: 0.71, scan_gap_h: 0.6 } }),
+      singleFeatureSlices: { scan_gap_h: { column: 'depot', value: 'harbour', rows: 120, separation: 0.95 } },
+      losses: headLosses,
+      dropColumns: { scan_gap_h: dropColumnImportance(headLosses, headLosses.map((l) => l + 0.04)) },
+    }
+    const [finding] = check(base, head, { added: ['scan_gap_h'] })
+    expect(finding).toMatchObject({ kind: 'leakage', severity: 'warn', feature: 'scan_gap_h' })
+    expect(finding.title).toMatch(/^scan_gap_h, new here, alone nearly separates the slice depot = harbour \(AUC 0\.95\)/)
+    expect(check(base, head, { added: ['scan_gap_h'] }, { sliceWarnPower: 0.96 })).toEqual([])
   })
 })

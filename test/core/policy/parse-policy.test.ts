@@ -133,6 +133,7 @@ importance:
   refits: 100
   reference_rows: 500
   evaluation_rows: 700
+  drop_column_top: 2
   groups:
     route: [distance_km, stop_count]
   group_threshold: 0.8
@@ -143,6 +144,10 @@ checks:
     runner_up_ratio: 4
     single_feature_power: 0.95
     relative_power: 0.7
+    lift_warn: 0.2
+    lift_block: 0.4
+    slice_warn_power: 0.8
+    reviewed_columns: [distance_km]
   rank_shift:
     action: block
     false_discovery_rate: 0.1
@@ -233,9 +238,9 @@ model:
           columnSubsample: 0.25,
           maxBins: 2,
         },
-        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, groups: { route: ['distance_km', 'stop_count'] }, groupThreshold: 0.8 },
+        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, dropColumnTop: 2, groups: { route: ['distance_km', 'stop_count'] }, groupThreshold: 0.8 },
         checks: {
-          leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7 },
+          leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7, liftWarn: 0.2, liftBlock: 0.4, sliceWarnPower: 0.8, reviewedColumns: ['distance_km'] },
           rankShift: { action: 'block', falseDiscoveryRate: 0.1, minPositions: 3, agreementPercentile: 2.5 },
           score: { action: 'off', tolerance: 0.002, alpha: 0.01 },
           holdoutRows: { action: 'warn' },
@@ -346,7 +351,7 @@ model:
 `
       expect(failure(text)).toEqual({
         message:
-          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, groups, group_threshold). Did you mean 'refits'?",
+          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, drop_column_top, groups, group_threshold). Did you mean 'refits'?",
         fix: "Rename 'refts' to 'refits', or delete it.",
       })
     })
@@ -360,7 +365,7 @@ model:
 
     it('a camelCase key, pointing to its snake_case spelling', () => {
       expect(failure(`${minimal}checks:\n  leakage:\n    singleFeaturePower: 0.9\n`).message).toBe(
-        "plumbline.yml:15:5: unknown key 'singleFeaturePower' in checks.leakage (allowed: action, dominance_share, runner_up_ratio, single_feature_power, relative_power). Did you mean 'single_feature_power'?",
+        "plumbline.yml:15:5: unknown key 'singleFeaturePower' in checks.leakage (allowed: action, dominance_share, runner_up_ratio, single_feature_power, relative_power, lift_warn, lift_block, slice_warn_power, reviewed_columns). Did you mean 'single_feature_power'?",
       )
     })
 
@@ -607,6 +612,15 @@ describe('checkPolicyAgainstColumns(policy, columns)', () => {
   it('accepts a policy whose names are all columns of the data', () => {
     const policy = readPolicyFile(`${minimal}importance:\n  groups:\n    route: [distance_km, stop_count]\n`, { source })
     expect(() => checkPolicyAgainstColumns(policy, columns)).not.toThrow()
+  })
+
+  it('accepts a column one side lacks (that side removed or added it), but not an id one side lacks', () => {
+    const text = minimal.replace('    parcel_id: id\n', '    parcel_id: id\n    van_age_years: numeric\n')
+    const policy = readPolicyFile(text, { source })
+    expect(() => checkPolicyAgainstColumns(policy, columns, { otherSide: [...columns, 'van_age_years'] })).not.toThrow()
+    expect(() => checkPolicyAgainstColumns(policy, columns, { otherSide: columns })).toThrow(/van_age_years/)
+    const withoutId = columns.filter((c) => c !== 'parcel_id')
+    expect(() => checkPolicyAgainstColumns(readPolicyFile(minimal, { source }), withoutId, { otherSide: columns })).toThrow(/parcel_id/)
   })
 
   it('names the group, the position of the member, the columns and a close name', () => {

@@ -92,7 +92,8 @@ describe('renderStarterPolicy(input)', () => {
     expect(lines).toContain('target: late  # guessed: the only column with two distinct values')
     expect(lines).toContain('    by: parcel_id                  # guessed: hashing the id holds out the same rows on both sides')
     expect(lines).toContain('    parcel_id: id                  # guessed: a different value in each of the 5,000 rows')
-    expect(lines).toContain('    distance_km: numeric           # 4,812 distinct values, 3 missing')
+    // A role the reader infers from the values is a comment, so removing the column needs no policy edit.
+    expect(text).toMatch(/^ {4}# distance_km: numeric +# inferred: 4,812 distinct values, 3 missing$/m)
     expect(lines).toContain('    "service level": ignore        # guessed: the same value in every row')
     expect(text).toContain("# Written by 'plumbline init' from data/train.csv (5,000 rows, 6 columns).")
   })
@@ -102,14 +103,13 @@ describe('renderStarterPolicy(input)', () => {
     expect(config.target).toBe('late')
     expect(config.task).toBe('binary')
     expect(config.data.holdout).toEqual({ kind: 'split', fraction: 0.2, by: 'parcel_id' })
-    expect(config.data.columns).toEqual({
-      parcel_id: 'id',
-      depot: 'categorical',
-      distance_km: 'numeric',
-      stop_count: 'numeric',
-      'service level': 'ignore',
-    })
+    expect(config.data.columns).toEqual({ parcel_id: 'id', 'service level': 'ignore' })
     expect(config.model).toMatchObject({ kind: 'builtin', learner: 'gradient-boosting' })
+  })
+
+  it('names an existing holdout file instead of a split', () => {
+    const config = parsePolicy(renderStarterPolicy({ trainPath: 'data/train.csv', columns: parcels, rows: 5000, holdoutPath: 'data/holdout.csv' }), { source })
+    expect(config.data.holdout).toEqual({ kind: 'file', path: 'data/holdout.csv' })
   })
 
   it('shows every key of the policy, in its section', () => {
@@ -144,7 +144,7 @@ describe('renderStarterPolicy(input)', () => {
     const text = render(columns)
     expect(text).toContain('target: SET_TARGET_COLUMN  # no column looked like a label: set the column to predict and delete its line under data.columns')
     expect(text).toContain('    # by: <id column>')
-    expect(parsePolicy(text, { source }).data.columns).toEqual({ distance_km: 'numeric', depot: 'categorical' })
+    expect(parsePolicy(text, { source }).data.columns).toEqual({})
   })
 
   it('refuses a suggested target that is not a column', () => {
@@ -171,7 +171,9 @@ describe('renderStarterPolicy(input)', () => {
         const target = proposeTarget(columns)
         expect(config.target).toBe(target ?? 'SET_TARGET_COLUMN')
         expect(config.data.train).toBe('data/my train.csv')
-        expect(Object.keys(config.data.columns).sort()).toEqual(columns.map((c) => c.name).filter((n) => n !== target).sort())
+        // Only the roles that cannot be inferred from the values are written: id and ignore.
+        const declared = columns.filter((c) => c.name !== target && (c.looksLikeId || c.distinct <= 1)).map((c) => c.name)
+        expect(Object.keys(config.data.columns).sort()).toEqual(declared.sort())
       }),
       { seed: 11, numRuns: 100 },
     )

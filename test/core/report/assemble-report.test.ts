@@ -17,6 +17,7 @@ const measured = (scores: number[]): SideMeasurement => ({
   model: { kind: 'boosted', featureNames: ['distance_km'], engine: 'plumbline-trees' },
   firstPredictions: new Float64Array(3),
   noiseCovers: scores.length > 1 ? 'refits-and-draws' : 'draws-only',
+  dropColumns: [],
 })
 
 describe('describeSides', () => {
