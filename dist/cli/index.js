@@ -54733,7 +54733,10 @@ async function loadOnnxModel(bytes, options) {
           engine = "onnxruntime";
         }
       }
-      if (trees) return evaluate2(matrix, trees);
+      if (trees) {
+        const values = evaluate2(matrix, trees);
+        return options.task === "binary" ? asProbabilities(values, options.source) : values;
+      }
       return runSession(matrix);
     },
     createReplacementPredictor(base) {
@@ -54980,6 +54983,21 @@ function planProbabilityOutput(outputs, options, summary3) {
       }
     }
   };
+}
+function asProbabilities(values, source) {
+  const slack = 16 * 2 ** -23;
+  for (let i = 0; i < values.length; i++) {
+    const raw = values[i];
+    const p = raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw;
+    if (!(p >= 0 && p <= 1)) {
+      throw new UserError(
+        `The ONNX model '${source}' does not give probabilities: row ${i + 1} of the rows scored has ${raw}.`,
+        `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`
+      );
+    }
+    values[i] = p;
+  }
+  return values;
 }
 function probabilitySlack(data) {
   return 16 * (data instanceof Float32Array ? 2 ** -23 : Number.EPSILON);

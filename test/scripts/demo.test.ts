@@ -48,7 +48,7 @@ describe('the demo (scripts/demo.ts)', () => {
     expect(code).toBe(1)
     expect(report.verdict).toBe('block')
     expect(report.findings[0]).toMatchObject({ kind: 'leakage', severity: 'block', feature: 'scan_delay_h' })
-    expect(report.headline.startsWith('Blocked: scan_delay_h alone separates the holdout')).toBe(true)
+    expect(report.headline.startsWith('Blocked: scan_delay_h, new here, alone separates the holdout')).toBe(true)
     expect(stdout.startsWith('plumbline: block\n')).toBe(true)
     const worktrees = execFileSync('git', ['worktree', 'list', '--porcelain'], { cwd: repo }).toString()
     expect(worktrees.split('\n').filter((line) => line.startsWith('worktree '))).toHaveLength(1)

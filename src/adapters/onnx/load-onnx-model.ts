@@ -163,7 +163,10 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
           engine = 'onnxruntime'
         }
       }
-      if (trees) return evaluate(matrix, trees)!
+      if (trees) {
+        const values = evaluate(matrix, trees)!
+        return options.task === 'binary' ? asProbabilities(values, options.source) : values
+      }
       return runSession(matrix)
     },
     createReplacementPredictor(base: FeatureMatrix) {
@@ -442,6 +445,27 @@ function planProbabilityOutput(outputs: readonly ValueMetadata[], options: OnnxM
       }
     },
   }
+}
+
+/**
+ * The tree evaluator's binary output, held to the rule the onnxruntime path applies: leaf values are
+ * float32 in the model, so a class fraction a few float32 units beyond [0, 1] is rounding, clamped;
+ * anything further out is not a probability and is refused.
+ */
+function asProbabilities(values: Float64Array, source: string): Float64Array {
+  const slack = 16 * 2 ** -23
+  for (let i = 0; i < values.length; i++) {
+    const raw = values[i]
+    const p = raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw
+    if (!(p >= 0 && p <= 1)) {
+      throw new UserError(
+        `The ONNX model '${source}' does not give probabilities: row ${i + 1} of the rows scored has ${raw}.`,
+        `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`,
+      )
+    }
+    values[i] = p
+  }
+  return values
 }
 
 /** 16 machine epsilons of the tensor's float type: float32 sums of up to a few hundred terms stay within it. */
