@@ -288,7 +288,8 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
           `(${metricName} ${fmt(alone)} alone vs ${fmt(fullHead)} for the full model). ` +
           (wasDominant && !isNewOrChanged
             ? `It already dominated the base model (${pct(baseShare)}) and did not change, so this is reported for information.`
-            : `On the base side its share was ${pct(baseShare)}; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` +
+            : (added.has(top.name) ? 'The base side does not have it' : `On the base side its share was ${pct(baseShare)}`) +
+              `; the full model's ${metricName} went from ${fmt(fullBase)} to ${fmt(fullHead)}` +
               (Number.isFinite(scoreJump) ? ` (${fmt(scoreJump)} reseed SDs).` : '.')),
         evidence: {
           share,

@@ -120,6 +120,15 @@ describe('checkLeakage(context, options): one feature dominating the model', () 
     expect(finding.evidence.separationJumpInSds).toBeCloseTo(0.03 / Math.sqrt(6.25e-5 / 4), 6)
   })
 
+  it('says of an added dominant feature that the base side does not have it, not that its share there was 0%', () => {
+    const base = sideResult({ side: 'base', features: { stop_count: steady(0.1), depot: steady(0.02) }, separation: steady(0.92, 0.005) })
+    const head = sideResult({ features: dominant, separation: steady(0.95, 0.005), single: { distance_km: 0.9 } })
+    const [finding] = check(base, head, { added: ['distance_km'] })
+    expect(finding.title).toMatch(/^distance_km, new here, dominates the model/)
+    expect(finding.message).toContain('The base side does not have it; the full model')
+    expect(finding.message).not.toContain('its share was')
+  })
+
   it('warns when a feature becomes dominant without having changed (others were removed or weakened)', () => {
     const base = sideResult({ side: 'base', features: { distance_km: steady(0.3), stop_count: steady(0.4), depot: steady(0.3) }, separation: steady(0.92, 0.005) })
     const head = sideResult({ features: dominant, separation: steady(0.92, 0.005), single: { distance_km: 0.9 } })
