@@ -41712,6 +41712,27 @@ function average(values) {
   return s / values.length;
 }
 
+// src/core/importance/replacement-units.ts
+function replacementUnits(names, groups = []) {
+  const position = new Map(names.map((name, j) => [name, j]));
+  const units = names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] }));
+  for (const group of groups) {
+    const columns = group.members.map((m) => position.get(m));
+    if (columns.some((c) => c === void 0)) continue;
+    units.push({ name: group.name, members: [...group.members], isGroup: true, columns });
+  }
+  return units;
+}
+function stackedCopies(data, draws, hasFastPath) {
+  const rows = data.rows * draws;
+  const columns = hasFastPath ? [] : data.columns.map((column) => {
+    const out = new Float64Array(rows);
+    for (let k = 0; k < draws; k++) out.set(column, k * data.rows);
+    return out;
+  });
+  return { rows, features: data.features, columns };
+}
+
 // src/core/statistics/t-interval.ts
 function tInterval(values, options = {}) {
   const level = options.level ?? 0.95;
@@ -41791,23 +41812,11 @@ async function permutationImportance(model, evaluation, options) {
   const score2 = metric.compute(y, basePrediction);
   const contribution = new Float64Array(n);
   const rowSum = new Float64Array(n);
-  const units = names.map(
-    (name, j) => ({ name, members: [name], isGroup: false, columns: [j] })
-  );
-  const position = new Map(names.map((name, j) => [name, j]));
-  for (const group of options.groups ?? []) {
-    const columns = group.members.map((m) => position.get(m));
-    if (columns.some((c) => c === void 0)) continue;
-    units.push({ name: group.name, members: [...group.members], isGroup: true, columns });
-  }
+  const units = replacementUnits(names, options.groups);
   const fast = model.createReplacementPredictor?.(data);
-  const stackedRows = n * draws;
-  const stacked = fast ? [] : data.columns.map((column) => {
-    const out = new Float64Array(stackedRows);
-    for (let k = 0; k < draws; k++) out.set(column, k * n);
-    return out;
-  });
-  const stackedMatrix = { rows: stackedRows, features: data.features, columns: stacked };
+  const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
+  const stackedRows = stackedMatrix.rows;
+  const stacked = stackedMatrix.columns;
   const importances = [];
   const drawReplacement = (unit, into) => {
     const random = createRandom(deriveSeed(options.seed, "draws", unit.isGroup ? "group" : "feature", unit.name));
@@ -41890,19 +41899,11 @@ async function predictionSensitivity(model, rows, options) {
   if (n < 1) throw new RangeError("predictionSensitivity needs at least 1 row");
   if (reference.rows < 1) throw new RangeError("predictionSensitivity needs at least 1 reference row");
   const original = await model.predict(data);
-  const position = new Map(names.map((name, j) => [name, j]));
-  const units = [
-    ...names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] })),
-    ...(options.groups ?? []).filter((g2) => g2.members.every((m) => position.has(m))).map((g2) => ({ name: g2.name, members: [...g2.members], isGroup: true, columns: g2.members.map((m) => position.get(m)) }))
-  ];
+  const units = replacementUnits(names, options.groups);
   const fast = model.createReplacementPredictor?.(data);
-  const stackedRows = n * draws;
-  const stacked = fast ? [] : data.columns.map((column) => {
-    const out = new Float64Array(stackedRows);
-    for (let k = 0; k < draws; k++) out.set(column, k * n);
-    return out;
-  });
-  const stackedMatrix = { rows: stackedRows, features: data.features, columns: stacked };
+  const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
+  const stackedRows = stackedMatrix.rows;
+  const stacked = stackedMatrix.columns;
   const estimates = [];
   for (const unit of units) {
     const random = createRandom(deriveSeed(options.seed, "sensitivity", unit.isGroup ? "group" : "feature", unit.name));

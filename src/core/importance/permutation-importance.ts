@@ -1,3 +1,4 @@
+import { replacementUnits, stackedCopies } from './replacement-units.ts'
 import type { FeatureMatrix } from '../data/dataset.ts'
 import { selectFeatures } from '../data/dataset.ts'
 import type { Metric } from '../metrics/metric.ts'
@@ -92,28 +93,14 @@ export async function permutationImportance(
   const contribution = new Float64Array(n)
   const rowSum = new Float64Array(n)
 
-  const units: { name: string; members: string[]; isGroup: boolean; columns: number[] }[] = names.map(
-    (name, j) => ({ name, members: [name], isGroup: false, columns: [j] }),
-  )
-  const position = new Map(names.map((name, j) => [name, j]))
-  for (const group of options.groups ?? []) {
-    const columns = group.members.map((m) => position.get(m))
-    if (columns.some((c) => c === undefined)) continue // the model does not use every member
-    units.push({ name: group.name, members: [...group.members], isGroup: true, columns: columns as number[] })
-  }
+  const units = replacementUnits(names, options.groups)
 
   // Models with a fast path re-evaluate only what a replacement can change; others get one stacked
   // buffer of K copies of the evaluation rows (column-major, allocated once) per call.
   const fast = model.createReplacementPredictor?.(data)
-  const stackedRows = n * draws
-  const stacked = fast
-    ? []
-    : data.columns.map((column) => {
-        const out = new Float64Array(stackedRows)
-        for (let k = 0; k < draws; k++) out.set(column, k * n)
-        return out
-      })
-  const stackedMatrix: FeatureMatrix = { rows: stackedRows, features: data.features, columns: stacked }
+  const stackedMatrix = stackedCopies(data, draws, Boolean(fast))
+  const stackedRows = stackedMatrix.rows
+  const stacked = stackedMatrix.columns
   const importances: ImportanceEstimate[] = []
 
   /** The unit's K draws of replacement values, stacked (copy k at offset k·n), into `into` or new arrays. */

@@ -1,3 +1,4 @@
+import { replacementUnits, stackedCopies } from './replacement-units.ts'
 import type { FeatureMatrix } from '../data/dataset.ts'
 import { selectFeatures } from '../data/dataset.ts'
 import type { Model } from '../models/model.ts'
@@ -64,23 +65,11 @@ export async function predictionSensitivity(
   if (reference.rows < 1) throw new RangeError('predictionSensitivity needs at least 1 reference row')
   const original = await model.predict(data)
 
-  const position = new Map(names.map((name, j) => [name, j]))
-  const units = [
-    ...names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] })),
-    ...(options.groups ?? [])
-      .filter((g) => g.members.every((m) => position.has(m)))
-      .map((g) => ({ name: g.name, members: [...g.members], isGroup: true, columns: g.members.map((m) => position.get(m)!) })),
-  ]
+  const units = replacementUnits(names, options.groups)
   const fast = model.createReplacementPredictor?.(data)
-  const stackedRows = n * draws
-  const stacked = fast
-    ? []
-    : data.columns.map((column) => {
-        const out = new Float64Array(stackedRows)
-        for (let k = 0; k < draws; k++) out.set(column, k * n)
-        return out
-      })
-  const stackedMatrix: FeatureMatrix = { rows: stackedRows, features: data.features, columns: stacked }
+  const stackedMatrix = stackedCopies(data, draws, Boolean(fast))
+  const stackedRows = stackedMatrix.rows
+  const stacked = stackedMatrix.columns
 
   const estimates: SensitivityEstimate[] = []
   for (const unit of units) {
