@@ -18029,6 +18029,7 @@ function tabulateSlices(report) {
 // src/core/report/render-markdown.ts
 var defaultFullReportNote = "The full report is in the workflow run's job summary and in the JSON report file.";
 var maxMessageCharacters = 3e3;
+var visibleInfoTitles = 10;
 var severityWord = { block: "Block", warn: "Warn", info: "Info" };
 var fenceOpen = "```mermaid";
 function renderTable(table2) {
@@ -18166,10 +18167,16 @@ ${chart}
     if (findingItems.length === 0) return "#### Findings\n\nNone.";
     const hidden = findingItems.length - shown;
     const more = hidden > 0 ? [`- ${formatCount(hidden)} more findings are not shown here; see the note below.`] : [];
-    const items = [...findingItems.slice(0, shown), ...more].join("\n");
+    const visible = findingItems.slice(0, shown).filter((_, i) => tables.findings[i].severity !== "info" || infoRank(i) < visibleInfoTitles);
+    const folded = Math.min(shown, findingItems.length) - visible.length;
+    const foldedNote = folded > 0 ? [`- ${formatCount(folded)} more info ${folded === 1 ? "finding" : "findings"}, in full in the details below.`] : [];
+    const items = [...visible, ...foldedNote, ...more].join("\n");
     return `#### Findings: ${countBySeverity(tables.findings)}
 
 ${items}`;
+  }
+  function infoRank(i) {
+    return tables.findings.slice(0, i).filter((finding) => finding.severity === "info").length;
   }
   function renderInfoDetails(shown) {
     const kept = tables.findings.slice(0, shown).filter((finding) => finding.severity === "info");

@@ -52,6 +52,9 @@ const defaultFullReportNote = "The full report is in the workflow run's job summ
 /** A finding's message longer than this is cut in the comment (the JSON keeps all of it). */
 const maxMessageCharacters = 3000
 
+/** Info findings listed by title before the first collapsed section (the rest only in the details). */
+const visibleInfoTitles = 10
+
 const severityWord: Readonly<Record<Severity, string>> = { block: 'Block', warn: 'Warn', info: 'Info' }
 
 const fenceOpen = '```mermaid'
@@ -232,8 +235,18 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     if (findingItems.length === 0) return '#### Findings\n\nNone.'
     const hidden = findingItems.length - shown
     const more = hidden > 0 ? [`- ${formatCount(hidden)} more findings are not shown here; see the note below.`] : []
-    const items = [...findingItems.slice(0, shown), ...more].join('\n')
+    // Info titles past the first few stay out of the visible part (the details below list them in
+    // full), so the comment's first screen stays one screen however many consequences a change has.
+    const visible = findingItems.slice(0, shown).filter((_, i) => tables.findings[i].severity !== 'info' || infoRank(i) < visibleInfoTitles)
+    const folded = Math.min(shown, findingItems.length) - visible.length
+    const foldedNote = folded > 0 ? [`- ${formatCount(folded)} more info ${folded === 1 ? 'finding' : 'findings'}, in full in the details below.`] : []
+    const items = [...visible, ...foldedNote, ...more].join('\n')
     return `#### Findings: ${countBySeverity(tables.findings)}\n\n${items}`
+  }
+
+  /** How many info findings come before finding i. */
+  function infoRank(i: number): number {
+    return tables.findings.slice(0, i).filter((finding) => finding.severity === 'info').length
   }
 
   /** The info findings shown, with their messages and evidence, collapsed. */

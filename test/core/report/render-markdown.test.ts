@@ -57,6 +57,25 @@ describe('renderMarkdown(report)', () => {
     expect(lines(visible(markdown)).length).toBeLessThanOrEqual(45)
   })
 
+  it('lists at most 10 info titles before the first collapsed section and keeps the rest in the details', () => {
+    const base = courierReport()
+    const infos = Array.from({ length: 25 }, (_, i) => ({
+      kind: 'sensitivity-shift' as const,
+      severity: 'info' as const,
+      feature: `feature_${i}`,
+      title: `Info number ${i}.`,
+      message: `Message ${i}.`,
+      evidence: {},
+    }))
+    const many = renderMarkdown({ ...base, findings: [...base.findings.filter((f) => f.severity !== 'info'), ...infos] })
+    const shown = visible(many)
+    expect(shown).toContain('Info number 9.')
+    expect(shown).not.toContain('Info number 10.')
+    expect(shown).toContain('- 15 more info findings, in full in the details below.')
+    expect(many).toContain('Info number 24.')
+    expect(lines(shown).length).toBeLessThanOrEqual(45)
+  })
+
   it('draws the top features of both sides as a mermaid xychart, head as bars and base as a line', () => {
     expect(markdown).toContain(
       [
