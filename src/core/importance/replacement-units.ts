@@ -1,5 +1,4 @@
 import type { FeatureMatrix } from '../data/dataset.ts'
-import type { FeatureGroup } from './permutation-importance.ts'
 
 /** A feature, or a group replaced jointly, with the column indices it replaces in the model's matrix. */
 export interface ReplacementUnit {
@@ -13,7 +12,10 @@ export interface ReplacementUnit {
  * The units replacement-based measures loop over: every model feature, then each group whose
  * members the model all uses (a group with a missing member is skipped), in group order.
  */
-export function replacementUnits(names: readonly string[], groups: readonly FeatureGroup[] = []): ReplacementUnit[] {
+export function replacementUnits(
+  names: readonly string[],
+  groups: readonly { readonly name: string; readonly members: readonly string[] }[] = [],
+): ReplacementUnit[] {
   const position = new Map(names.map((name, j) => [name, j]))
   const units: ReplacementUnit[] = names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] }))
   for (const group of groups) {
