@@ -41086,6 +41086,7 @@ function toGateConfig(policy) {
       groups: nullPrototype(Object.entries(importance.groups)),
       groupThreshold: importance.group_threshold
     },
+    checksAsWritten: checks,
     checks: {
       leakage: {
         action: checks.leakage.action,
@@ -41590,6 +41591,7 @@ function builtinLearnerSettings(config2) {
 function gateSettings(config2) {
   const groups = Object.entries(config2.importance.groups).map(([name, members2]) => ({ name, members: members2 }));
   const learner = builtinLearnerSettings(config2);
+  const written = config2.checksAsWritten;
   const checks = {
     leakage: config2.checks.leakage,
     rankShift: { ...config2.checks.rankShift, minRelativeChange: fixedSettings.minRelativeChange },
@@ -41634,23 +41636,20 @@ function gateSettings(config2) {
     // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
     // policy does not expose are marked fixed.
     evidence: {
-      leakage: snakeKeys({ ...config2.checks.leakage, reviewedColumns: config2.checks.leakage.reviewedColumns.join(", ") || "none" }),
+      leakage: { ...written.leakage, reviewed_columns: config2.checks.leakage.reviewedColumns.join(", ") || "none" },
       rank_shift: {
-        ...snakeKeys(config2.checks.rankShift),
+        ...written.rank_shift,
         "min_relative_change (fixed)": fixedSettings.minRelativeChange,
         "rbo_persistence (fixed)": fixedSettings.persistence
       },
-      score: { ...snakeKeys(config2.checks.score), "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
-      holdout_rows: snakeKeys(config2.checks.holdoutRows),
-      sensitivity: snakeKeys(config2.checks.sensitivity),
-      gain: snakeKeys(config2.checks.gain),
-      slices: snakeKeys(config2.checks.slices),
-      correlated_groups: { ...snakeKeys(config2.checks.correlatedGroups), group_threshold: config2.importance.groupThreshold }
+      score: { ...written.score, "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
+      holdout_rows: written.holdout_rows,
+      sensitivity: written.sensitivity,
+      gain: written.gain,
+      slices: written.slices,
+      correlated_groups: { ...written.correlated_groups, group_threshold: config2.importance.groupThreshold }
     }
   };
-}
-function snakeKeys(values) {
-  return Object.fromEntries(Object.entries(values).map(([key2, value3]) => [key2.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value3]));
 }
 
 // src/core/importance/compute-noise-floor.ts
@@ -43892,6 +43891,7 @@ function checkLeakage(context, options) {
   const { base, head, added, changed } = context;
   const trivial = options.task === "binary" ? 0.5 : 0;
   const metricName = options.task === "binary" ? "AUC" : "R²";
+  const sees = (name, slice) => slice.besideColumn ? `${name} and ${slice.column} (so it can treat each ${slice.column} apart)` : name;
   const fullHead = mean2(head.separation);
   const fullBase = mean2(base.separation);
   const findings = [];
@@ -43951,7 +43951,7 @@ function checkLeakage(context, options) {
       severity,
       feature: unit.name,
       title: `${cause(unit.name)}, alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}).`,
-      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong in a slice on the base side (${baseSlice.column} = ${baseSlice.value}, ${metricName} ${fmt(baseSlice.separation)}).` : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
+      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${sees(unit.name, slice)} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${metricName} ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong in a slice on the base side (${baseSlice.column} = ${baseSlice.value}, ${metricName} ${fmt(baseSlice.separation)}).` : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
       evidence: {
         sliceColumn: slice.column,
         sliceValue: slice.value,
@@ -43994,7 +43994,7 @@ function checkLeakage(context, options) {
       severity: "warn",
       feature: unit.name,
       title: `${cause(unit.name)}, alone nearly separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}) and the model needs it (${formatPercent(lift.liftShare)} of the loss the base model left).`,
-      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(lift.alone ?? void 0)}), and refitted without it the candidate's loss grows by ${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
+      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${sees(unit.name, slice)} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${metricName} ${fmt(lift.alone ?? void 0)}), and refitted without it the candidate's loss grows by ${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
       evidence: {
         sliceColumn: slice.column,
         sliceValue: slice.value,
@@ -44464,13 +44464,16 @@ function checkScoreRegression(evidence, options) {
   if (options.action === "off" || !(worsening > options.tolerance) || !(pValue < options.alpha)) return [];
   const spread = pooledSd(evidence);
   const worseningInSds = spread > 0 ? worsening / spread : Infinity;
-  const severity = options.action === "block" && worseningInSds < (options.blockAtSds ?? 0) ? "warn" : options.action;
+  const rows = df !== null && evidence.pairedBootstrap && evidence.pairedBootstrap.length >= 2 ? rowNoise(evidence.pairedBootstrap, worsening - options.tolerance) : null;
+  const withinRowNoise = rows !== null && !(rows.pValue < options.alpha);
+  const belowSds = worseningInSds < (options.blockAtSds ?? 0);
+  const severity = options.action === "block" && (belowSds || withinRowNoise) ? "warn" : options.action;
   return [
     {
       kind: "score-regression",
       severity,
       title: `Holdout ${options.metric} got worse: ${formatNumber(baseMean)} → ${formatNumber(headMean)} (${formatChange(baseMean, headMean)}, beyond reseed noise).`,
-      message: `The candidate's mean holdout ${options.metric} is ${formatNumber(headMean)} against ${formatNumber(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${formatNumber(worsening)} exceeds the tolerance of ${options.tolerance} with ${formatPStatement("one-sided p", pValue)} (standard error ${formatNumber(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${formatNumber(df)} over reseeded refits`) + `; level ${options.alpha}).`,
+      message: `The candidate's mean holdout ${options.metric} is ${formatNumber(headMean)} against ${formatNumber(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${formatNumber(worsening)} exceeds the tolerance of ${options.tolerance} with ${formatPStatement("one-sided p", pValue)} (standard error ${formatNumber(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${formatNumber(df)} over reseeded refits`) + `; level ${options.alpha}).` + (options.action === "block" && !belowSds && withinRowNoise ? ` It warns rather than blocks: against the holdout's own sampling noise (paired bootstrap of its rows, standard error ${formatNumber(rows.standardError)}) the worsening has ${formatPStatement("one-sided p", rows.pValue)}, so another sample of rows could well show no worsening.` : ""),
       evidence: {
         baseMean,
         headMean,
@@ -44480,10 +44483,15 @@ function checkScoreRegression(evidence, options) {
         welchDf: df,
         pValue,
         alpha: options.alpha,
-        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null
+        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null,
+        ...rows ? { holdoutRowStandardError: rows.standardError, holdoutRowPValue: rows.pValue } : {}
       }
     }
   ];
+}
+function rowNoise(replicates, excess) {
+  const standardError = summary(replicates).sd;
+  return { standardError, pValue: tailAbove(excess, standardError, (z3) => 1 - studentTCdf(z3, Infinity)) };
 }
 function pooledSd(evidence) {
   const { baseScores, headScores, pairedBootstrap: pairedBootstrap2 } = evidence;
@@ -44615,7 +44623,7 @@ function runChecks(inputs) {
   );
   const shift = checkRankShift(results.base, results.head, settings.checks.rankShift);
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement);
-  const bootstrap = sameRows && (base.scores.length < 2 || head.scores.length < 2) ? pairedBootstrap(holdouts.base.target.values, base.firstPredictions, head.firstPredictions, {
+  const bootstrap = sameRows ? pairedBootstrap(holdouts.base.target.values, base.firstPredictions, head.firstPredictions, {
     metric,
     replicates: settings.pairedBootstrapReplicates,
     seed: settings.seed
@@ -44669,15 +44677,27 @@ async function singleFeatureSeparation(train3, holdout, names, options) {
     });
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
     overall[name] = score2(y, prediction);
-    for (const slice of slices) {
-      if (slice.column === name) continue;
+    const keepBest = (slice, predicted, besideColumn) => {
       const separation = score2(
         Array.from(slice.rows, (i) => y[i]),
-        Array.from(slice.rows, (i) => prediction[i])
+        Array.from(slice.rows, (i) => predicted[i])
       );
       if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
-        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation };
+        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation, ...besideColumn ? { besideColumn } : {} };
       }
+    };
+    for (const slice of slices) if (slice.column !== name) keepBest(slice, prediction, false);
+    if (!options.withSliceColumn?.includes(name)) continue;
+    for (const column of new Set(slices.map((slice) => slice.column))) {
+      if (column === name) continue;
+      const paired = await options.fit({
+        side: options.side,
+        seed: deriveSeed(options.seed, "single-feature", name, "beside", column),
+        refit: 0,
+        leaveOut: all.filter((other) => other !== name && other !== column)
+      });
+      const pairedPrediction = await paired.predict(selectFeatures(holdout, paired.featureNames));
+      for (const slice of slices) if (slice.column === column) keepBest(slice, pairedPrediction, true);
     }
   }
   return { overall, bestSlice };
@@ -44719,7 +44739,8 @@ async function separateSingleFeatures(sides, measured, touched, settings, contex
       task: settings.task,
       seed: settings.seed,
       side: side2,
-      slices: settings.slices
+      slices: settings.slices,
+      withSliceColumn: touched
     });
   });
   const baseResult = await separate("base");

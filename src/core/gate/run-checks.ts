@@ -49,10 +49,10 @@ export function runChecks(inputs: CheckInputs): CheckOutcome {
   )
   const shift = checkRankShift(results.base, results.head, settings.checks.rankShift)
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement)
-  // With one refit on a side (a loaded model) the score's noise comes from resampling holdout rows,
-  // which needs the same rows on both sides.
+  // Resampling holdout rows needs the same rows on both sides. With one refit on a side (a loaded
+  // model) it is the score's noise; with refits, a block must clear it beside the reseed noise.
   const bootstrap =
-    sameRows && (base.scores.length < 2 || head.scores.length < 2)
+    sameRows
       ? pairedBootstrap(holdouts.base.target!.values, base.firstPredictions, head.firstPredictions, {
           metric,
           replicates: settings.pairedBootstrapReplicates,

@@ -461,6 +461,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       groups: nullPrototype(Object.entries(importance.groups)),
       groupThreshold: importance.group_threshold,
     },
+    checksAsWritten: checks,
     checks: {
       leakage: {
         action: checks.leakage.action,

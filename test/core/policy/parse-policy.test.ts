@@ -47,7 +47,11 @@ function columnFailure(text: string, columns: readonly string[]): { message: str
 describe('parsePolicy(text, {source})', () => {
   it('resolves the minimal policy of the spec to the documented defaults', () => {
     // test/core/config.test.ts pins each named default to the documented default in docs/policy.md.
-    expect(parsePolicy(minimal, { source })).toEqual({
+    const { checksAsWritten, ...resolved } = parsePolicy(minimal, { source })
+    // The report's settings table reads the checks under the policy's own key names, defaults filled in.
+    expect(checksAsWritten.rank_shift).toEqual({ action: 'warn', false_discovery_rate: 0.05, min_positions: 2, agreement_percentile: 5 })
+    expect(checksAsWritten.score).toEqual({ action: 'block', tolerance: 0, alpha: 0.05 })
+    expect(resolved).toEqual({
       version: 1,
       task: 'binary',
       target: 'late',
@@ -212,7 +216,8 @@ model:
 `
 
     it('accepts every key of the policy with a valid value', () => {
-      const full = parsePolicy(fullWithHoldoutAndBuiltin, { source })
+      const { checksAsWritten, ...full } = parsePolicy(fullWithHoldoutAndBuiltin, { source })
+      expect(Object.keys(checksAsWritten).sort()).toEqual(['correlated_groups', 'gain', 'holdout_rows', 'leakage', 'rank_shift', 'score', 'sensitivity', 'slices'])
       expect(full).toEqual({
         version: 1,
         task: 'binary',
