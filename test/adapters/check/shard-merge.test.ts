@@ -16,6 +16,7 @@ import { baseFiles, parcelsCsv, smallPolicy, standardParcels, type TestRepositor
 import { missingReference } from '../../helpers/reference-packages.ts'
 import { baseEnvironment, projectRoot, runSource } from '../../helpers/run-process.ts'
 import { UserError } from '../../../src/core/errors.ts'
+import { deterministic } from '../../helpers/deterministic-report.ts'
 
 /** The UserError a promise rejects with (a user's mistake, never a stack trace). */
 async function userErrorOf(promise: Promise<unknown>): Promise<UserError> {
@@ -25,12 +26,6 @@ async function userErrorOf(promise: Promise<unknown>): Promise<UserError> {
   )
   if (!(error instanceof UserError)) throw new Error(`expected a UserError, got ${String(error)}`)
   return error
-}
-
-/** The report without what is allowed to differ: wall-clock timings (and the cache's provenance). */
-export function deterministic(report: GateReport): string {
-  const { timings: _timings, cache: _cache, ...rest } = report
-  return `${JSON.stringify(rest, null, 2)}\n`
 }
 
 /** The head adds the leak `scan_delay_h` (known only after delivery), so the verdict is a block with drop-column refits of it. */
