@@ -173,7 +173,7 @@ export function renderText(report: GateReport, options: TextOptions = {}): strin
     ]),
     section(
       'Timings (wall-clock seconds; they vary from run to run)',
-      tables.timings.rows.length > 0 ? longTable(tables.timings) : ['  None recorded.'],
+      [...(tables.timings.rows.length > 0 ? longTable(tables.timings) : ['  None recorded.']), ...(tables.cacheNote ? wrap(tables.cacheNote, width, '  ') : [])],
     ),
   ]
 

@@ -231,6 +231,7 @@ export const gateReportSchema = z
       checks: record(evidenceSchema),
     }),
     timings: record(z.number().min(0)),
+    cache: z.strictObject({ reused: list(text), measured: list(text), uncacheable: list(text) }).optional(),
     sensitivity: sensitivityReportSchema.optional(),
     gain: gainReportSchema.optional(),
     groups: list(z.strictObject({ name: text, members: list(text), automatic: z.boolean(), weakestLink: finite.nullable() })).optional(),

@@ -256,6 +256,13 @@ export interface GateReport {
   }
   /** Wall-clock seconds per stage, measured by the adapter; not part of the deterministic content. */
   readonly timings: Readonly<Record<string, number>>
+  /**
+   * Only with a unit cache (--cache): the work units read from it, those measured and written to it,
+   * and those that cannot be cached (a training command or model file in an uncommitted working
+   * tree). Like timings, not part of the deterministic content: a report from the cache equals one
+   * measured afresh apart from this field and timings.
+   */
+  readonly cache?: { readonly reused: readonly string[]; readonly measured: readonly string[]; readonly uncacheable: readonly string[] }
   /** Prediction sensitivity per feature; absent when checks.sensitivity is off. */
   readonly sensitivity?: SensitivityReport
   /** Built-in gradient boosting only. */

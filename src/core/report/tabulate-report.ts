@@ -66,6 +66,8 @@ export interface ReportTables {
   readonly settings: TextTable
   readonly checks: TextTable
   readonly timings: TextTable
+  /** With a unit cache: which work units came from it (like timings, not part of the result). */
+  readonly cacheNote: string | null
 }
 
 /** Said wherever an 'error' report is shown, in both renderers. */
@@ -405,7 +407,18 @@ export function tabulateReport(report: GateReport): ReportTables {
       align: ['left', 'right'],
       rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)]),
     },
+    cacheNote: report.cache ? cacheNote(report.cache) : null,
   }
+}
+
+/** "Work units from the cache: 6 of 16 (base/refit-1, ...); measured: 10." */
+function cacheNote(cache: NonNullable<GateReport['cache']>): string {
+  const total = cache.reused.length + cache.measured.length + cache.uncacheable.length
+  const shown = cache.reused.slice(0, 12).join(', ') + (cache.reused.length > 12 ? `, and ${cache.reused.length - 12} more` : '')
+  return (
+    `Work units from the cache: ${cache.reused.length} of ${total}${cache.reused.length > 0 ? ` (${shown})` : ''}; measured now: ${cache.measured.length + cache.uncacheable.length}` +
+    `${cache.uncacheable.length > 0 ? ` (${cache.uncacheable.length} cannot be cached: a training command or model file in an uncommitted working tree)` : ''}.`
+  )
 }
 
 /** mean ± t(0.975, n−1)·SD/√n over refits, or the single value with one refit. */
