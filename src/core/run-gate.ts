@@ -4,7 +4,7 @@
  * is a function of its own module; this file only says in which order they run.
  */
 import { changedFeatures, diffFeatureSets } from './checks/feature-set.ts'
-import { alignHoldout } from './data/align-holdout.ts'
+import { capSideRows } from './gate/cap-side-rows.ts'
 import type { GateInputs } from './gate/gate-inputs.ts'
 import { gateSettings } from './gate/gate-settings.ts'
 import { measureBothSides } from './gate/measure-both-sides.ts'
@@ -24,7 +24,8 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
   const settings = withCorrelatedGroups(gateSettings(inputs.config), inputs.head.train)
   const metric = metricByName(settings.metric, settings.task)
   const stopwatch = createStopwatch(inputs.now)
-  const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } }
+  const capped = capSideRows(inputs, settings)
+  const sides = capped.sides
 
   const featureSet = diffFeatureSets(sides.base.train, sides.head.train)
   const changed = changedFeatures(sides.base, sides.head)
@@ -50,7 +51,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     viewFindings: views.findings,
     settings,
     metric,
-    holdouts: { base: sides.base.holdout, head: sides.head.holdout },
+    holdouts: capped.holdouts,
     measured,
     results,
     featureSet,
@@ -64,6 +65,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     settings,
     metric,
     sides,
+    rowSampling: capped.sampling,
     measured,
     results,
     featureSet,
