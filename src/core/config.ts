@@ -92,6 +92,10 @@ export interface DataConfig {
   readonly unlabeled?: string
   /** Declared roles by column name (null-prototype object, so any column name is a safe lookup). */
   readonly columns: Readonly<Record<string, DeclaredColumnRole>>
+  /** Above this many training rows (after a split), the built-in refits train on a seeded sample. */
+  readonly maxTrainRows: number
+  /** Above this many holdout rows, both sides are scored on the same seeded sample of them. */
+  readonly maxHoldoutRows: number
 }
 
 export type HoldoutConfig =

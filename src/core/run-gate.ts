@@ -17,7 +17,7 @@ import type { GateReport } from './report/report.ts'
 export type { GateInputs, GateProgress, MeasureJob, MeasureSides, SideInputs, SideModel } from './gate/gate-inputs.ts'
 
 export async function runGate(inputs: GateInputs): Promise<GateReport> {
-  const { settings, metric, sides, featureSet, changed, jobs } = planMeasurement(inputs)
+  const { settings, metric, sides, capped, featureSet, changed, jobs } = planMeasurement(inputs)
   const stopwatch = createStopwatch(inputs.now)
   const measured = await stopwatch.time('measureSeconds', () => measureBothSides(jobs, inputs.measureSides))
   const single = await separateSingleFeatures(sides, measured, [...featureSet.added, ...changed], settings, {
@@ -35,7 +35,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     viewFindings: views.findings,
     settings,
     metric,
-    holdouts: { base: sides.base.holdout, head: sides.head.holdout },
+    holdouts: capped.holdouts,
     measured,
     results,
     featureSet,
@@ -49,6 +49,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     settings,
     metric,
     sides,
+    rowSampling: capped.sampling,
     measured,
     results,
     featureSet,

@@ -184,7 +184,11 @@ async function loadSide(
   }
   const { train, holdout, reference, unlabeled } = assembleSideData(config, tables)
   checkSizes(side, config, train, holdout, log)
-  log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
+  const capNote = (rows: number, max: number, key: string) => (rows > max ? ` (a sample of ${max} by ${key})` : '')
+  log(
+    `${side}: ${train.rows} training rows${capNote(train.rows, config.data.maxTrainRows, 'data.max_train_rows')}, ` +
+      `${holdout.rows} holdout rows${capNote(holdout.rows, config.data.maxHoldoutRows, 'data.max_holdout_rows')}, ${train.features.length} features`,
+  )
   const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
   return { ref, commit, train, holdout, reference, ...(unlabeled ? { unlabeled } : {}), model }
 }

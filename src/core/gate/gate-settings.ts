@@ -86,6 +86,9 @@ export function gateSettings(config: GateConfig) {
     referenceRows: config.importance.referenceRows,
     dropColumnTop: config.importance.dropColumnTop,
     groups,
+    // Row caps (data.max_train_rows, data.max_holdout_rows), and which table the reference rows are,
+    // so that a reference that is the training rows or the holdout follows its table's sample.
+    rowCaps: { maxTrainRows: config.data.maxTrainRows, maxHoldoutRows: config.data.maxHoldoutRows, reference: config.data.reference.kind },
     groupThreshold: config.importance.groupThreshold,
     /** Filled by withCorrelatedGroups once the head's training data is known. */
     automaticGroups: [] as readonly CorrelatedGroup[],

@@ -319,6 +319,7 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
       `### ${escapeMarkdownText(tables.heading)}`,
       escapeMarkdownText(report.headline),
       ...(score === null ? [] : [score]),
+      ...(tables.rowSampling.length === 0 ? [] : [tables.rowSampling.map(escapeMarkdownText).join('\n')]),
       findingsSection(layout.findings),
       ...(chartBlock === null ? [] : [chartBlock]),
       featureSetSection(layout.rows),

@@ -127,6 +127,19 @@ export interface SideSummary {
   readonly refitSeeds: readonly number[]
   /** 'refits-and-draws' when models were refitted; 'draws-only' for a loaded model. */
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
+  /**
+   * Present only when a row cap sampled this side's rows (`data.max_train_rows`,
+   * `data.max_holdout_rows`): each sampled table's rows as read, rows kept, and the seed of the
+   * sample. trainRows and holdoutRows above are then the kept rows.
+   */
+  readonly rowSampling?: { readonly train?: RowSample; readonly holdout?: RowSample }
+}
+
+/** A simple random sample without replacement of a table's rows, drawn with `seed`. */
+export interface RowSample {
+  readonly rows: number
+  readonly kept: number
+  readonly seed: number
 }
 
 export interface RankAgreement {

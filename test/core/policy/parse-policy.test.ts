@@ -61,6 +61,8 @@ describe('parsePolicy(text, {source})', () => {
         holdout: { kind: 'file', path: 'data/holdout.csv' },
         reference: { kind: 'train' },
         columns: { parcel_id: 'id' },
+        maxTrainRows: 100_000,
+        maxHoldoutRows: 50_000,
       },
       model: { kind: 'builtin', learner: 'gradient-boosting', ...defaultBoosting },
       importance: { metric: 'log-loss', ...defaultImportance, groups: {} },
@@ -111,6 +113,8 @@ data:
   holdout: data/holdout.csv
   reference: holdout
   unlabeled: data/unlabeled.csv
+  max_train_rows: 20
+  max_holdout_rows: 10
   columns:
     parcel_id: id
     depot: categorical
@@ -229,6 +233,8 @@ model:
           reference: { kind: 'holdout' },
           unlabeled: 'data/unlabeled.csv',
           columns: { parcel_id: 'id', depot: 'categorical', distance_km: 'numeric', stop_count: 'numeric', driver_note: 'ignore' },
+          maxTrainRows: 20,
+          maxHoldoutRows: 10,
         },
         prepare: { command: 'python scripts/features.py', timeoutSeconds: 86400 },
         model: {
@@ -316,6 +322,17 @@ checks:
         message: "plumbline.yml:14:13: checks.leakage.action must be one of block, warn, off; got 'blok'.",
         fix: 'Set checks.leakage.action to one of block, warn, off, or delete the line to use the default (block).',
       })
+    })
+
+    it('a row cap below the gate\'s minimum, naming the key', () => {
+      const capped = minimal.replace('  holdout: data/holdout.csv\n', '  holdout: data/holdout.csv\n  max_train_rows: 5\n  max_holdout_rows: 2.5\n')
+      expect(failure(capped)).toEqual({
+        message: "plumbline.yml:8:19: data.max_train_rows must be a whole number of at least 20; got '5'.",
+        fix: 'Set data.max_train_rows to a whole number of at least 20, or delete the line to use the default (100000).',
+      })
+      expect(failure(capped.replace('max_train_rows: 5', 'max_train_rows: 100')).message).toBe(
+        "plumbline.yml:9:21: data.max_holdout_rows must be a whole number of at least 10; got '2.5'.",
+      )
     })
 
     it('slice filters that are not one column comparison, or all_of / any_of, naming the slice and key', () => {
