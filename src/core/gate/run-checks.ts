@@ -51,8 +51,10 @@ export function runChecks(inputs: CheckInputs): CheckOutcome {
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement)
   // Resampling holdout rows needs the same rows on both sides. With one refit on a side (a loaded
   // model) it is the score's noise; with refits, a block must clear it beside the reseed noise.
+  // (Predictions cover the measured rows; when a cap sampled the holdout they are not its whole length.)
+  const rowsMatch = base.firstPredictions.length === holdouts.base.rows && head.firstPredictions.length === holdouts.base.rows
   const bootstrap =
-    sameRows
+    sameRows && rowsMatch
       ? pairedBootstrap(holdouts.base.target!.values, base.firstPredictions, head.firstPredictions, {
           metric,
           replicates: settings.pairedBootstrapReplicates,
