@@ -44961,8 +44961,7 @@ function runChecks(inputs) {
   );
   const shift = checkRankShift(results.base, results.head, settings.checks.rankShift);
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement);
-  const rowsMatch = base.firstPredictions.length === holdouts.base.rows && head.firstPredictions.length === holdouts.base.rows;
-  const bootstrap = sameRows && rowsMatch ? pairedBootstrap(holdouts.base.target.values, base.firstPredictions, head.firstPredictions, {
+  const bootstrap = sameRows ? pairedBootstrap(inputs.scoredTarget, base.firstPredictions, head.firstPredictions, {
     metric,
     replicates: settings.pairedBootstrapReplicates,
     seed: settings.seed
@@ -45712,6 +45711,7 @@ async function runGate(inputs) {
     settings,
     metric,
     holdouts: capped.holdouts,
+    scoredTarget: sides.base.holdout.target.values,
     measured,
     results,
     featureSet,

@@ -36,6 +36,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     settings,
     metric,
     holdouts: capped.holdouts,
+    scoredTarget: sides.base.holdout.target!.values,
     measured,
     results,
     featureSet,

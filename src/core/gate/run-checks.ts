@@ -19,7 +19,10 @@ import type { GateSettings } from './gate-settings.ts'
 export interface CheckInputs {
   readonly settings: GateSettings
   readonly metric: Metric
+  /** The whole holdouts, for the holdout-rows check (a changed row is seen even when a cap sampled it out). */
   readonly holdouts: { readonly base: Dataset; readonly head: Dataset }
+  /** The target of the holdout rows the models were scored on (the capped holdout), for the paired bootstrap. */
+  readonly scoredTarget: Float64Array
   readonly measured: readonly [SideMeasurement, SideMeasurement]
   readonly results: { readonly base: SideResult; readonly head: SideResult }
   readonly featureSet: FeatureSetChange
@@ -51,11 +54,9 @@ export function runChecks(inputs: CheckInputs): CheckOutcome {
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement)
   // Resampling holdout rows needs the same rows on both sides. With one refit on a side (a loaded
   // model) it is the score's noise; with refits, a block must clear it beside the reseed noise.
-  // (Predictions cover the measured rows; when a cap sampled the holdout they are not its whole length.)
-  const rowsMatch = base.firstPredictions.length === holdouts.base.rows && head.firstPredictions.length === holdouts.base.rows
   const bootstrap =
-    sameRows && rowsMatch
-      ? pairedBootstrap(holdouts.base.target!.values, base.firstPredictions, head.firstPredictions, {
+    sameRows
+      ? pairedBootstrap(inputs.scoredTarget, base.firstPredictions, head.firstPredictions, {
           metric,
           replicates: settings.pairedBootstrapReplicates,
           seed: settings.seed,
