@@ -45177,16 +45177,32 @@ function checkGainNoise(features, touched, options) {
   ranked.slice(0, options.topRanks).forEach((f, i) => {
     const share = Math.max(0, f.gain) / total;
     if (share < options.minGainShare || f.distinct < options.minDistinct || f.isAboveFloor) return;
+    const facts = `${f.name} has ${f.distinct} distinct values in the training rows and takes ${formatPercent(share)} of the ensemble's split gain (${formatNumber(f.splits)} splits per model on average), yet replacing it on the holdout changes the score by ${formatNumber(f.importance)}, within reseed noise of zero. Gain is measured on the training rows and favours features with many distinct values (Strobl et al. 2007)`;
     findings.push({
       kind: "gain-noise",
       severity: touched.has(f.name) ? action : "info",
       feature: f.name,
-      title: `${f.name} ranks ${i + 1} by the trees' gain (${formatPercent(share)}) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).`,
-      message: `${f.name} has ${f.distinct} distinct values in the training rows and takes ${formatPercent(share)} of the ensemble's split gain (${formatNumber(f.splits)} splits per model on average), yet replacing it on the holdout changes the score by ${formatNumber(f.importance)}, within reseed noise of zero. Gain is measured on the training rows and favours features with many distinct values (Strobl et al. 2007); if this column identifies rows or encodes when or where a row was recorded, drop it or give it the role id.`,
-      evidence: { gainRank: i + 1, gainShare: share, splits: f.splits, distinct: f.distinct, importance: f.importance, touched: touched.has(f.name) }
+      title: f.idLike ? `${f.name} ranks ${i + 1} by the trees' gain (${formatPercent(share)}) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).` : `${f.name} ranks ${i + 1} by the trees' gain (${formatPercent(share)}) but is indistinguishable from zero on the holdout: the trees fit training noise with it.`,
+      message: f.idLike ? `${facts}; its values are nearly all different, as an identifier's or a record time's are: if this column identifies rows or encodes when or where a row was recorded, drop it or give it the role id.` : `${facts}; a measurement with many values offers many split points, so the trees can fit noise in it without it helping on new rows. Stronger regularisation (fewer bins, larger leaves) or leaving it out would cost nothing on this holdout.`,
+      evidence: { gainRank: i + 1, gainShare: share, splits: f.splits, distinct: f.distinct, idLike: f.idLike, importance: f.importance, touched: touched.has(f.name) }
     });
   });
   return findings;
+}
+function looksLikeIdentifier(kind, values) {
+  const seen = /* @__PURE__ */ new Set();
+  let present = 0;
+  let wholeNumbers = true;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (Number.isNaN(v)) continue;
+    present++;
+    seen.add(v);
+    if (wholeNumbers && !Number.isInteger(v)) wholeNumbers = false;
+  }
+  if (present === 0) return false;
+  const share = seen.size / present;
+  return kind === "categorical" ? share >= 0.5 : wholeNumbers && share >= 0.9;
 }
 
 // src/core/checks/group-carried.ts
@@ -45449,6 +45465,7 @@ function judgeViews(inputs) {
       gain: g2.gain,
       splits: g2.splits,
       distinct: distinctValues(inputs.sides.head.train, name),
+      idLike: identifierLike(inputs.sides.head.train, name),
       importance: importance2.get(name)?.mean ?? 0,
       isAboveFloor: importance2.get(name)?.isAboveFloor ?? false
     }));
@@ -45548,6 +45565,10 @@ function rankGain(gains) {
 function gainRows(base, head) {
   const names = [.../* @__PURE__ */ new Set([...head.keys(), ...base.keys()])];
   return names.map((name) => ({ name, ...base.has(name) ? { base: base.get(name) } : {}, ...head.has(name) ? { head: head.get(name) } : {} }));
+}
+function identifierLike(data, name) {
+  const j = data.features.findIndex((f) => f.name === name);
+  return j >= 0 && looksLikeIdentifier(data.features[j].kind, data.columns[j]);
 }
 function distinctValues(data, name) {
   const j = data.features.findIndex((f) => f.name === name);
