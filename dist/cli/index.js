@@ -16551,8 +16551,9 @@ var require_protobufjs = __commonJS({
 });
 
 // src/adapters/cli/main.ts
-import { mkdir as mkdir4, rename as rename3, rm as rm6, stat as stat4, writeFile as writeFile5 } from "node:fs/promises";
-import { basename as basename3, dirname as dirname4, join as join8 } from "node:path";
+import { constants as constants2 } from "node:fs";
+import { access as access2, rename as rename3, rm as rm6, stat as stat5, writeFile as writeFile5 } from "node:fs/promises";
+import { basename as basename3, dirname as dirname5, join as join8 } from "node:path";
 
 // src/core/errors.ts
 var UserError = class extends Error {
@@ -54381,9 +54382,10 @@ async function resolveCommit(root2, ref, flag) {
     const { stdout } = await exec("git", ["rev-parse", "--verify", "--quiet", `${ref}^{commit}`], { cwd: root2 });
     return stdout.trim();
   } catch {
+    const plainName = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/.test(ref) && !ref.includes("..");
     throw new UserError(
       `${flag} '${ref}' does not name a commit in ${root2}.`,
-      `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.`
+      plainName ? `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.` : "It is not a plain branch, tag or commit name: check the spelling (a branch name has no spaces, semicolons or quotes)."
     );
   }
 }
@@ -56554,7 +56556,7 @@ function unitCacheKey(toolVersion2, unit, job, identity) {
 }
 
 // src/adapters/check/unit-cache.ts
-import { mkdir, readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
+import { readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
 import { join as join5 } from "node:path";
 
 // src/core/gate/unit-files.ts
@@ -56702,10 +56704,49 @@ function parseJson(textContent, source, what) {
   }
 }
 
+// src/adapters/files/make-folder.ts
+import { mkdir, stat as stat3 } from "node:fs/promises";
+import { dirname as dirname3 } from "node:path";
+function describeWriteError(error62) {
+  const code2 = error62.code;
+  const words = {
+    ENOENT: "the folder cannot be created there",
+    EACCES: "permission denied",
+    EPERM: "permission denied",
+    ENOTDIR: "a part of the path is a file, not a folder",
+    EEXIST: "a part of the path is a file, not a folder",
+    EROFS: "the file system is read-only",
+    ENOSPC: "no space is left on the disk",
+    EISDIR: "it is a folder"
+  };
+  return code2 && words[code2] ? `${words[code2]} (${code2})` : code2 ?? error62.message;
+}
+async function makeFolder(folder) {
+  const missing = [];
+  let current = folder;
+  for (; ; ) {
+    const found = await stat3(current).catch(() => null);
+    if (found) {
+      if (!found.isDirectory()) throw Object.assign(new Error(`${current} is not a folder`), { code: "ENOTDIR" });
+      break;
+    }
+    const parent = dirname3(current);
+    if (parent === current) break;
+    missing.push(current);
+    current = parent;
+  }
+  for (const level of missing.reverse()) {
+    await mkdir(level).catch(async (error62) => {
+      if (error62.code === "EEXIST" && (await stat3(level).catch(() => null))?.isDirectory()) return;
+      throw error62;
+    });
+  }
+}
+
 // src/adapters/check/unit-cache.ts
 async function createUnitCache(options) {
   try {
-    await mkdir(options.directory, { recursive: true });
+    await makeFolder(options.directory);
   } catch (error62) {
     throw new UserError(
       `Could not use --cache ${options.directory}: ${error62.code ?? error62.message}.`,
@@ -56897,7 +56938,7 @@ function toRepoPath(path) {
 }
 
 // src/adapters/check/run-shards.ts
-import { mkdir as mkdir2, readdir as readdir2, readFile as readFile3, rename as rename2, rm as rm5, stat as stat3, writeFile as writeFile2 } from "node:fs/promises";
+import { readdir as readdir2, readFile as readFile3, rename as rename2, rm as rm5, stat as stat4, writeFile as writeFile2 } from "node:fs/promises";
 import { join as join6, resolve as resolve7 } from "node:path";
 var maxPartialBytes = 1024 * 1024 * 1024;
 function digestsOf(opened) {
@@ -56981,7 +57022,7 @@ async function readPartials(paths, cwd, inputs, digest) {
   const files = [];
   for (const given of paths) {
     const path = resolve7(cwd, given);
-    const info = await stat3(path).catch(() => null);
+    const info = await stat4(path).catch(() => null);
     if (!info) throw new UserError(`No folder or file ${given} (looked at ${path}).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
     if (info.isFile()) {
       files.push(path);
@@ -56995,7 +57036,7 @@ async function readPartials(paths, cwd, inputs, digest) {
   }
   const read = [];
   for (const path of files) {
-    const size = (await stat3(path)).size;
+    const size = (await stat4(path)).size;
     if (size > maxPartialBytes) throw new UserError(`${path} is ${size} bytes, more than a partial result file can be (${maxPartialBytes}).`, "Pass the files plumbline shard wrote.");
     const file2 = readPartialFile(await readFile3(path, "utf8"), path);
     refuseForeignInputs(file2, path, inputs, digest);
@@ -57069,7 +57110,7 @@ async function writePartial(folder, name, file2) {
   const path = join6(folder, name);
   const temporary = `${path}.${process.pid}.tmp`;
   try {
-    await mkdir2(folder, { recursive: true });
+    await makeFolder(folder);
     await writeFile2(temporary, `${JSON.stringify(file2)}
 `);
     await rename2(temporary, path);
@@ -57323,8 +57364,8 @@ function closestOption(typed, options) {
 }
 
 // src/adapters/cli/init.ts
-import { access, mkdir as mkdir3, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
-import { dirname as dirname3, join as join7, resolve as resolve8 } from "node:path";
+import { access, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
+import { dirname as dirname4, join as join7, resolve as resolve8 } from "node:path";
 
 // src/core/policy/render-starter-policy.ts
 var labelNames = ["target", "label", "y", "outcome"];
@@ -57573,7 +57614,7 @@ async function init(command, io) {
   const holdout = holdoutPathFor(trainPath);
   const holdoutPath = holdout !== trainPath && await exists(resolve8(root2, holdout)) ? holdout : void 0;
   const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task, ...holdoutPath ? { holdoutPath } : {} });
-  await mkdir3(dirname3(output2), { recursive: true });
+  await makeFolder(dirname4(output2));
   await writeFile3(output2, policy);
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.
 `);
@@ -57697,7 +57738,18 @@ async function main(argv, io) {
 async function planOutputs(command, cwd) {
   const planned = [];
   for (const [flag, path] of [["--json", command.json], ["--markdown", command.markdown], ["--html", command.html]]) {
-    if (path) planned.push({ flag, path: await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false }) });
+    if (!path) continue;
+    const full = await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false });
+    const existing = await stat5(full).catch(() => null);
+    if (!existing?.isCharacterDevice()) {
+      try {
+        await makeFolder(dirname5(full));
+        await access2(dirname5(full), constants2.W_OK);
+      } catch (error62) {
+        throw new UserError(`Could not write ${flag} ${path}: ${describeWriteError(error62)}.`, `Name a file in a folder you can write to (${flag} FILE).`);
+      }
+    }
+    planned.push({ flag, path: full });
   }
   return planned;
 }
@@ -57712,19 +57764,19 @@ async function writeOutputs(command, full, cwd) {
   const staged = [];
   try {
     for (const { flag, path } of await planOutputs(command, cwd)) {
-      const existing = await stat4(path).catch(() => null);
+      const existing = await stat5(path).catch(() => null);
       try {
         if (existing && !existing.isFile()) {
           await writeFile5(path, texts[flag]);
           continue;
         }
-        await mkdir4(dirname4(path), { recursive: true });
-        const temporary = join8(dirname4(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
+        await makeFolder(dirname5(path));
+        const temporary = join8(dirname5(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
         staged.push({ temporary, path });
         await writeFile5(temporary, texts[flag]);
       } catch (error62) {
         throw new UserError(
-          `Could not write ${flag} ${path}: ${error62.code ?? error62.message}. No report file was written.`,
+          `Could not write ${flag} ${path}: ${describeWriteError(error62)}. No report file was written.`,
           `Name a file in a folder you can write to, on a disk with room (${flag} FILE).`
         );
       }

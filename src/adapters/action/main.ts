@@ -6,7 +6,7 @@
  *
  * Everything outside is passed in (`ActionDependencies`), so tests run it with fakes.
  */
-import { mkdir, writeFile } from 'node:fs/promises'
+import { writeFile } from 'node:fs/promises'
 import { dirname, join, resolve } from 'node:path'
 import { decideVerdict } from '../../core/checks/verdict.ts'
 import { describeFailure, UserError } from '../../core/errors.ts'
@@ -29,6 +29,7 @@ import { readConfinedFile, readLimits, readRegularFile, resolveConfinedOutput } 
 import { boundNesting } from '../security/bound-nesting.ts'
 import { redactDeep, redactSecrets, registerSecret } from '../security/secrets.ts'
 import { inputDefaults, isFailingVerdict, readInputs, readToken, type ActionInputs } from './inputs.ts'
+import { makeFolder } from '../files/make-folder.ts'
 
 /** The part of @actions/core the action uses. */
 export interface ActionCore {
@@ -426,7 +427,7 @@ function failedRunReport(error: unknown, policySource: string): GateReport {
 }
 
 async function writeText(path: string, text: string) {
-  await mkdir(dirname(path), { recursive: true })
+  await makeFolder(dirname(path))
   await writeFile(path, text)
 }
 

@@ -11,7 +11,7 @@
  *   given twice, a unit missing and a unit not in the plan, each by name, and runs the gate on the
  *   results: the same combination as a check on one machine, so the same report.
  */
-import { mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { join, resolve } from 'node:path'
 import { UserError } from '../../core/errors.ts'
 import { planMeasurement } from '../../core/gate/plan-measurement.ts'
@@ -31,6 +31,7 @@ import type { GateReport } from '../../core/report/report.ts'
 import { toolVersion } from '../version.ts'
 import { digestOfInputs, inputDigests } from './input-digest.ts'
 import { gateOf, localExecutor, withOpenedCheck, type CheckRequest, type OpenedCheck } from './run-check.ts'
+import { makeFolder } from '../files/make-folder.ts'
 
 /** Partial files larger than this are refused before reading (a crafted file cannot exhaust memory). */
 const maxPartialBytes = 1024 * 1024 * 1024
@@ -262,7 +263,7 @@ async function writePartial(folder: string, name: string, file: PartialFile): Pr
   const path = join(folder, name)
   const temporary = `${path}.${process.pid}.tmp`
   try {
-    await mkdir(folder, { recursive: true })
+    await makeFolder(folder)
     await writeFile(temporary, `${JSON.stringify(file)}\n`)
     await rename(temporary, path)
   } catch (error) {

@@ -5,13 +5,14 @@
  * never read). An entry that does not match is never used. The executor records which units came
  * from the folder, for the report.
  */
-import { mkdir, readFile, rename, rm, writeFile } from 'node:fs/promises'
+import { readFile, rename, rm, writeFile } from 'node:fs/promises'
 import { join } from 'node:path'
 import { UserError } from '../../core/errors.ts'
 import { cacheEntryText, readCacheEntry } from '../../core/gate/unit-files.ts'
 import type { ExecuteUnits, UnitResult, WorkUnit } from '../../core/gate/work-units.ts'
 import type { MeasureJob } from '../../core/run-gate.ts'
 import { unitCacheKey, type SideCacheIdentity } from './input-digest.ts'
+import { makeFolder } from '../files/make-folder.ts'
 
 export interface UnitCache {
   readonly execute: ExecuteUnits
@@ -26,7 +27,7 @@ export async function createUnitCache(options: {
   readonly execute: ExecuteUnits
 }): Promise<UnitCache> {
   try {
-    await mkdir(options.directory, { recursive: true })
+    await makeFolder(options.directory)
   } catch (error) {
     throw new UserError(
       `Could not use --cache ${options.directory}: ${(error as NodeJS.ErrnoException).code ?? (error as Error).message}.`,
