@@ -9,6 +9,7 @@
 import * as core from '@actions/core'
 import { describeFailure } from '../../core/errors.ts'
 import { runCheck } from '../check/run-check.ts'
+import { runMerge, runPlan, runShard } from '../check/run-shards.ts'
 import { fetchBase } from '../github/fetch-base.ts'
 import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
 import { redactSecrets, registerSecret } from '../security/secrets.ts'
@@ -50,6 +51,18 @@ try {
     uploadArtifact: async (name, file, rootDirectory) => {
       const { DefaultArtifactClient } = await import('@actions/artifact')
       return new DefaultArtifactClient().uploadArtifact(name, [file], rootDirectory, { retentionDays: 30 })
+    },
+    runPlan,
+    runShard,
+    runMerge,
+    // Loaded when used, as the artifact client is: only a step with 'cache: true' needs it.
+    loadCacheClient: async () => {
+      const cache = await import('@actions/cache')
+      return {
+        isFeatureAvailable: () => cache.isFeatureAvailable(),
+        restoreCache: (paths, key) => cache.restoreCache(paths, key),
+        saveCache: (paths, key) => cache.saveCache(paths, key),
+      }
     },
   })
 } catch (error) {

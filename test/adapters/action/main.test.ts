@@ -8,6 +8,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest'
 import { parse } from 'yaml'
 import { run, type ActionDependencies } from '../../../src/adapters/action/main.ts'
 import type { CheckRequest } from '../../../src/adapters/check/run-check.ts'
+import { runMerge, runPlan, runShard } from '../../../src/adapters/check/run-shards.ts'
 import { commentMarker } from '../../../src/adapters/github/comment.ts'
 import type { FetchCommitRequest } from '../../../src/adapters/github/fetch-base.ts'
 import { UserError } from '../../../src/core/errors.ts'
@@ -119,6 +120,9 @@ async function runAction(options: {
       return request.ref
     },
     ...(options.upload ? { uploadArtifact: options.upload } : {}),
+    runPlan,
+    runShard,
+    runMerge,
   }
   await run(deps)
   return recorded
