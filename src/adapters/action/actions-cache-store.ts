@@ -4,6 +4,9 @@
  * names its files by: the tool version, the unit, its side's data, settings and, for a training
  * command or an ONNX file, the commit), holding the one file `<digest>.json` of the local cache
  * folder. Entries are immutable, as the Actions cache is: a key once saved is never written again.
+ * The folder is RUNNER_TEMP/plumbline-unit-cache, and the service versions an entry by the paths it
+ * holds, so an entry is found again on runners whose RUNNER_TEMP is the same path (every
+ * GitHub-hosted runner; a self-hosted runner in another folder measures afresh).
  *
  * Every failure of the service (no cache service in this run, a refused reservation, a network
  * error, a quota) is a warning: the units it could not supply are measured, and the check runs.
