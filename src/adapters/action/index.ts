@@ -23,8 +23,9 @@ try {
   await run({
     core: {
       getInput: (name) => core.getInput(name),
-      info: (message) => core.info(cleanOutsideText(message)),
-      warning: (message) => core.warning(cleanOutsideText(message)),
+      // Redacted here too, not only masked by the runner: a log line may echo an input that holds a secret.
+      info: (message) => core.info(redactSecrets(cleanOutsideText(message))),
+      warning: (message) => core.warning(redactSecrets(cleanOutsideText(message))),
       setSecret: (secret) => {
         core.setSecret(secret)
         registerSecret(secret)

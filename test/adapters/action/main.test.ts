@@ -529,6 +529,10 @@ describe('run(deps) in plan, shard and merge modes (the real command-line code o
     ])
     expect(missing.outputs).toEqual({})
     expect(missing.summary.join('')).toContain('### plumbline shard failed')
+    // A secret in a message of these modes is redacted like any other.
+    const secret = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { ...sideInputs, mode: 'shard', shards: '2', shard: '1', after: `refits-${token}` }, env: onRepo() })
+    expect(secret.failures[0]).toContain("Input 'after': no folder or file refits-*** (looked for")
+    expect([...secret.failures, ...secret.summary].join('\n')).not.toContain(token)
     const outside = await runAction({
       eventName: 'pull_request',
       event: pullRequestEvent(),
