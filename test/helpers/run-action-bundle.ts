@@ -45,6 +45,8 @@ export function runActionBundle(options: {
   readonly apiUrl: string
   readonly workspace: string
   readonly inputs: Record<string, string>
+  /** More environment variables (an Actions runtime). */
+  readonly env?: Record<string, string>
 }): Promise<BundleRun> {
   const run = options.runFolder
   mkdirSync(join(run, 'temp'), { recursive: true })
@@ -64,6 +66,7 @@ export function runActionBundle(options: {
     GITHUB_OUTPUT: files.output,
     GITHUB_WORKSPACE: options.workspace,
     RUNNER_TEMP: join(run, 'temp'),
+    ...options.env,
   }
   const inputs: Record<string, string> = {}
   for (const [name, input] of Object.entries(actionInputs)) inputs[name] = input.default ?? ''

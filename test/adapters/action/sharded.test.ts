@@ -33,7 +33,7 @@ const everyOutput: string[] = []
 /** The comment of a check-mode run of the same pull request. */
 let checkComment: string
 
-async function runStep(node: string, number: number, inputs: Record<string, string>): Promise<BundleRun> {
+async function runStep(node: string, number: number, inputs: Record<string, string>, env?: Record<string, string>): Promise<BundleRun> {
   const run = await runActionBundle({
     node,
     bundle,
@@ -44,6 +44,7 @@ async function runStep(node: string, number: number, inputs: Record<string, stri
     apiUrl: fake.url,
     workspace: repository.path,
     inputs: { token, ...inputs },
+    ...(env ? { env } : {}),
   })
   everyOutput.push(run.output, run.summary)
   return run
@@ -100,11 +101,19 @@ describe.each([
     expect(plan.outputs).toEqual({ matrix: '{"shard":[1,2]}', 'shard-count': '2' })
     const { shard: matrix } = JSON.parse(plan.outputs.matrix) as { shard: number[] }
 
+    // The refits shards with 'cache: true' and the real @actions/cache (loaded from the bundle) against
+    // a cache service that refuses every request (the fake server answers 401): warnings, and the shard runs.
+    const cacheService = { ACTIONS_RESULTS_URL: `${fake.url}/`, ACTIONS_RUNTIME_TOKEN: 'e30.e30.c2ln', ACTIONS_CACHE_SERVICE_V2: 'true' }
     for (const shard of matrix) {
-      const run = await runStep(node, number, { mode: 'shard', shards: plan.outputs['shard-count'], shard: String(shard), 'partial-dir': stage(`refits-${shard}`) })
-      expect(run.exitCode).toBe(0)
+      const inputs = { mode: 'shard', shards: plan.outputs['shard-count'], shard: String(shard), 'partial-dir': stage(`refits-${shard}`), cache: 'true' }
+      const run = await runStep(node, number, inputs, cacheService)
+      expect(run.exitCode, run.output).toBe(0)
       expect(run.outputs['partial-dir']).toBe(join(repository.path, stage(`refits-${shard}`)))
+      expect(run.output).toMatch(/::warning::.*(Failed to restore|Could not restore)/)
+      expect(run.output).toMatch(/Actions cache, this step: 0 unit entries restored, 0 unit entries saved/)
+      expect(run.output).toMatch(new RegExp(`Shard ${shard} of 2 \\(refits\\): \\d+ units? \\(.*\\), 0 from the cache; wrote `))
     }
+    expect(fake.requests.some((r) => r.path === '/twirp/github.actions.results.api.v1.CacheService/GetCacheEntryDownloadURL' && r.status === 401)).toBe(true)
     const refitFolders = matrix.map((shard) => stage(`refits-${shard}`))
     for (const shard of matrix) {
       const run = await runStep(node, number, { mode: 'shard', shards: '2', shard: String(shard), after: refitFolders.join('\n'), 'partial-dir': stage(`drops-${shard}`) })
