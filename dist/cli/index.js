@@ -16552,7 +16552,7 @@ var require_protobufjs = __commonJS({
 
 // src/adapters/cli/main.ts
 import { constants as constants2 } from "node:fs";
-import { access as access2, rename as rename3, rm as rm6, stat as stat5, writeFile as writeFile5 } from "node:fs/promises";
+import { access as access3, rename as rename3, rm as rm6, stat as stat5, writeFile as writeFile5 } from "node:fs/promises";
 import { basename as basename3, dirname as dirname5, join as join8 } from "node:path";
 
 // src/core/errors.ts
@@ -56556,7 +56556,7 @@ function unitCacheKey(toolVersion2, unit, job, identity) {
 }
 
 // src/adapters/check/unit-cache.ts
-import { readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
+import { access, readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
 import { join as join5 } from "node:path";
 
 // src/core/gate/unit-files.ts
@@ -56757,6 +56757,11 @@ async function createUnitCache(options) {
   const keyOf = (unit, job) => unitCacheKey(options.toolVersion, unit, job, options.identities[unit.side]);
   const execute = async (units, context) => {
     const keys = units.map((unit) => keyOf(unit, context.jobs[unit.side === "base" ? 0 : 1]));
+    if (options.store) {
+      const wanted = keys.filter((key2) => key2 !== void 0);
+      const absent = (await Promise.all(wanted.map(async (key2) => await access(join5(options.directory, `${key2}.json`)).then(() => true, () => false) ? null : key2))).filter((key2) => key2 !== null);
+      if (absent.length > 0) await options.store.restore(options.directory, absent);
+    }
     const found = await Promise.all(
       units.map(async (unit, k) => {
         const key2 = keys[k];
@@ -56777,6 +56782,7 @@ async function createUnitCache(options) {
       (keys[k] ? used.measured : used.uncacheable).push(unit.id);
       return measured[next++];
     });
+    const written = [];
     for (const [k, unit] of units.entries()) {
       const key2 = keys[k];
       if (found[k] || !key2) continue;
@@ -56785,6 +56791,7 @@ async function createUnitCache(options) {
       try {
         await writeFile(temporary, cacheEntryText(key2, unit, results[k]));
         await rename(temporary, path);
+        written.push(key2);
       } catch (error62) {
         await rm4(temporary, { force: true });
         throw new UserError(
@@ -56793,6 +56800,7 @@ async function createUnitCache(options) {
         );
       }
     }
+    if (options.store && written.length > 0) await options.store.save(options.directory, written);
     return results;
   };
   return { execute, used };
@@ -56801,7 +56809,7 @@ async function createUnitCache(options) {
 // src/adapters/check/run-check.ts
 async function runCheck(request) {
   return withOpenedCheck(request, async (opened) => {
-    const measure = await localExecutor(opened, request.cache);
+    const measure = await localExecutor(opened, request.cache, request.cacheStore);
     const report = await gateOf(opened, request, measure.execute);
     return measure.cache ? { ...report, cache: measure.cache.used } : report;
   });
@@ -56819,12 +56827,12 @@ function gateOf(opened, request, execute) {
     now: () => performance.now() / 1e3
   });
 }
-async function localExecutor(opened, cache) {
+async function localExecutor(opened, cache, store) {
   const pool = createPoolMeasure(process.env);
   if (pool) opened.onClose(pool.close);
   const execute = pool?.execute ?? executeInProcess;
   if (!cache) return { execute };
-  const unitCache = await createUnitCache({ directory: resolve6(cache), toolVersion, identities: opened.identities, execute });
+  const unitCache = await createUnitCache({ directory: resolve6(cache), ...store ? { store } : {}, toolVersion, identities: opened.identities, execute });
   return { execute: unitCache.execute, cache: unitCache };
 }
 async function withOpenedCheck(request, body) {
@@ -56995,7 +57003,7 @@ function runShard(request) {
       units = planDropColumnUnits(context, combined);
     }
     const mine = assignShards(units, request.of)[request.index - 1];
-    const local = await localExecutor(opened, request.cache);
+    const local = await localExecutor(opened, request.cache, request.cacheStore);
     const results = mine.length > 0 ? await local.execute(mine, context) : [];
     const file2 = {
       ...partialFormat,
@@ -57364,7 +57372,7 @@ function closestOption(typed, options) {
 }
 
 // src/adapters/cli/init.ts
-import { access, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
+import { access as access2, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
 import { dirname as dirname4, join as join7, resolve as resolve8 } from "node:path";
 
 // src/core/policy/render-starter-policy.ts
@@ -57633,7 +57641,7 @@ async function findTrainingTable(root2) {
   );
 }
 async function exists(path) {
-  return access(path).then(
+  return access2(path).then(
     () => true,
     () => false
   );
@@ -57744,7 +57752,7 @@ async function planOutputs(command, cwd) {
     if (!existing?.isCharacterDevice()) {
       try {
         await makeFolder(dirname5(full));
-        await access2(dirname5(full), constants2.W_OK);
+        await access3(dirname5(full), constants2.W_OK);
       } catch (error62) {
         throw new UserError(`Could not write ${flag} ${path}: ${describeWriteError(error62)}.`, `Name a file in a folder you can write to (${flag} FILE).`);
       }

@@ -28,7 +28,7 @@ import { createRandom } from '../../src/core/statistics/random.ts'
 import { courierReport } from '../core/report/courier-report.ts'
 import { smallPolicy } from '../helpers/make-repository.ts'
 
-export type Family = 'csv' | 'yaml' | 'onnx' | 'event' | 'git-ref' | 'command' | 'path' | 'report'
+export type Family = 'csv' | 'yaml' | 'onnx' | 'event' | 'git-ref' | 'command' | 'path' | 'report' | 'action-input'
 
 export type Expected =
   | { readonly outcome: 'user-error'; readonly message: RegExp }
@@ -298,6 +298,31 @@ function gitRefCases(root: string, marker: string): CorpusCase[] {
 }
 
 // ---------------------------------------------------------------------------------------------
+// The action's plan, shard and merge inputs: each refused by name before anything runs
+
+function actionInputCases(): CorpusCase[] {
+  const cases: CorpusCase[] = []
+  const add = (name: string, inputs: Record<string, string>, expect: Expected) =>
+    cases.push({ family: 'action-input', name, run: async () => readInputs((n) => inputs[n] ?? ''), expect })
+  const count = ['0', '-1', '1e3', '2.0', '0x10', '\u0661', ' 2 2', '99999999999999999999', 'NaN', 'Infinity', '1001', 'two', '${{ matrix.shard }}']
+  for (const value of count) add(`plan shards ${JSON.stringify(value)}`, { mode: 'plan', shards: value }, userError(/^Input 'shards' must be a whole number from 1 to 1000; got '/))
+  for (const value of [...count.filter((v) => v !== '1001'), '5']) {
+    add(`shard index ${JSON.stringify(value)} of 4`, { mode: 'shard', shards: '4', shard: value }, userError(/^Input 'shard' must be a whole number from 1 to 4; got '/))
+  }
+  add('plan without shards', { mode: 'plan' }, userError(/^Input 'shards' is required when 'mode' is plan/))
+  add('shard without an index', { mode: 'shard', shards: '3' }, userError(/^Input 'shard' is required when 'mode' is shard/))
+  add('merge without partials', { mode: 'merge', partials: ' \n \n' }, userError(/^Input 'partials' is required when 'mode' is merge/))
+  add('partials with a NUL', { mode: 'merge', partials: 'a\u0000b' }, userError(/^Input 'partials' must be a single path/))
+  add('after with a NUL', { mode: 'shard', shards: '2', shard: '1', after: 'refits\nx\u0000' }, userError(/^Input 'after' must be a single path/))
+  add('partial-dir of two lines', { mode: 'shard', shards: '2', shard: '1', 'partial-dir': 'a\nb' }, userError(/^Input 'partial-dir' must be a single path/))
+  add('cache in plan mode', { mode: 'plan', shards: '2', cache: 'true' }, userError(/^Input 'cache' is read only when 'mode' is check or shard/))
+  add('cache yes', { cache: 'yes' }, userError(/^Input 'cache' must be true or false; got 'yes'\./))
+  add('shard index in check mode', { shard: '1' }, userError(/^Input 'shard' is read only when 'mode' is shard; this step's mode is check\./))
+  add('shard 4 of 4', { mode: 'shard', shards: '4', shard: '4' }, accepted((r) => assert((r as { shard: number }).shard === 4, 'shard 4')))
+  return cases
+}
+
+// ---------------------------------------------------------------------------------------------
 // Commands
 
 function commandCases(cwd: string): CorpusCase[] {
@@ -455,5 +480,6 @@ export function buildCorpus(places: CorpusPlaces): CorpusCase[] {
     ...commandCases(places.commandFolder),
     ...pathCases(places.checkout, places.outside),
     ...reportCases(),
+    ...actionInputCases(),
   ]
 }

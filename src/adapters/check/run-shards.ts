@@ -59,7 +59,7 @@ export interface ShardPlan {
   readonly summary: readonly string[]
 }
 
-export function runPlan(request: Omit<CheckRequest, 'onProgress' | 'cache'> & { readonly shards: number }): Promise<ShardPlan> {
+export function runPlan(request: Omit<CheckRequest, 'onProgress' | 'cache' | 'cacheStore'> & { readonly shards: number }): Promise<ShardPlan> {
   return withOpenedCheck(request, async (opened) => {
     const context = contextOf(opened)
     const units = planRefitUnits(context)
@@ -118,7 +118,7 @@ export function runShard(
       units = planDropColumnUnits(context, combined)
     }
     const mine = assignShards(units, request.of)[request.index - 1]
-    const local = await localExecutor(opened, request.cache)
+    const local = await localExecutor(opened, request.cache, request.cacheStore)
     const results = mine.length > 0 ? await local.execute(mine, context) : []
     const file: PartialFile = {
       ...partialFormat,
@@ -133,7 +133,7 @@ export function runShard(
 }
 
 /** The gate on the units of every partial file under `dirs`; refuses incomplete, duplicated or foreign work. */
-export function runMerge(request: Omit<CheckRequest, 'cache'> & { readonly dirs: readonly string[] }): Promise<GateReport> {
+export function runMerge(request: Omit<CheckRequest, 'cache' | 'cacheStore'> & { readonly dirs: readonly string[] }): Promise<GateReport> {
   return withOpenedCheck(request, async (opened) => {
     const { inputs, digest } = digestsOf(opened)
     const partials = await readPartials(request.dirs, request.cwd, inputs, digest)
