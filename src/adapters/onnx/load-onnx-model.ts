@@ -524,6 +524,7 @@ function describeColumns(features: readonly FeatureInfo[]): string {
 
 /** parseOnnxTreeEnsemble, with any decoding trouble meaning "not readable" (onnxruntime has accepted the file). */
 function readTrees(bytes: Uint8Array, task: Task, output: OutputPlan) {
+  if (task === 'multiclass') return undefined
   try {
     return parseOnnxTreeEnsemble(bytes, { task, outputName: output.name, positiveColumn: output.positive })
   } catch {

@@ -20,6 +20,8 @@ export class BoostedModel implements Model {
   readonly engine = 'plumbline-trees'
   readonly task: Task
   readonly featureNames: readonly string[]
+  /** Multiclass only: K; predict returns row-major [N, K] softmax probabilities. */
+  readonly classCount?: number
 
   constructor(
     readonly ensemble: BoostedEnsemble,
@@ -27,6 +29,7 @@ export class BoostedModel implements Model {
   ) {
     this.task = ensemble.task
     this.featureNames = ensemble.featureNames
+    if (ensemble.classCount !== undefined) this.classCount = ensemble.classCount
   }
 
   /**
@@ -36,6 +39,8 @@ export class BoostedModel implements Model {
    */
   /** Permutation importance's fast path: see createTreeReplacementPredictor. */
   createReplacementPredictor(base: FeatureMatrix): ReplacementPredictor | undefined {
+    // The fast path walks one score per row; a multiclass ensemble is evaluated whole.
+    if (this.task === 'multiclass') return undefined
     return createTreeReplacementPredictor({ ...this.ensemble, link: this.task === 'binary' ? 'logistic' : 'identity' }, base)
   }
 
@@ -49,6 +54,7 @@ export class BoostedModel implements Model {
       return matrix.columns[j]
     })
     const n = matrix.rows
+    if (this.task === 'multiclass') return this.predictClasses(columns, n)
     const score = new Float64Array(n).fill(this.ensemble.baseScore)
     for (const tree of this.ensemble.trees) addTree(tree, columns, n, score)
     if (this.task === 'binary') {
@@ -60,6 +66,32 @@ export class BoostedModel implements Model {
   async predict(matrix: FeatureMatrix): Promise<Float64Array> {
     return this.predictRaw(matrix)
   }
+
+  /** Multiclass: each class's raw score from its trees (round-major order), then the softmax of each row; row-major [N, K]. */
+  private predictClasses(columns: readonly Float64Array[], n: number): Float64Array {
+    const k = this.ensemble.classCount!
+    const margins = Array.from({ length: k }, () => new Float64Array(n).fill(this.ensemble.baseScore))
+    this.ensemble.trees.forEach((tree, t) => addTree(tree, columns, n, margins[t % k]))
+    return softmaxRows(margins, n)
+  }
+}
+
+/** Row-major [N, K] softmax of K per-class score columns (the largest score subtracted first, so exp cannot overflow). */
+export function softmaxRows(margins: readonly Float64Array[], n: number): Float64Array {
+  const k = margins.length
+  const out = new Float64Array(n * k)
+  for (let i = 0; i < n; i++) {
+    let max = -Infinity
+    for (let c = 0; c < k; c++) max = Math.max(max, margins[c][i])
+    let total = 0
+    for (let c = 0; c < k; c++) {
+      const e = Math.exp(margins[c][i] - max)
+      out[i * k + c] = e
+      total += e
+    }
+    for (let c = 0; c < k; c++) out[i * k + c] /= total
+  }
+  return out
 }
 
 function addTree(tree: Tree, columns: readonly Float64Array[], n: number, score: Float64Array): void {

@@ -1,0 +1,88 @@
+/**
+ * `task: multiclass` end to end through the CLI (main()) on open data nobody here wrote: the wine
+ * table (178 rows, 13 features, three cultivars) that scikit-learn ships, read from Debian's
+ * python3-sklearn (1.2.1) at /usr/lib/python3/dist-packages/sklearn/datasets/data/wine_data.csv
+ * (a header line "178,13,class_0,class_1,class_2", then 13 features and the class 0, 1 or 2). The
+ * target is written as the class names class_0, class_1, class_2 (text labels, as a user's file
+ * would have them). Each case is a pull request on a throwaway git repository with a fixed 75/25
+ * split (every fourth row held out) and a policy with default checks:
+ * - a label copy (the class index, with 5% of rows given another class at random) is added: blocks,
+ *   and the finding names the feature;
+ * - a column of pure noise is added: passes with no leakage finding.
+ * Without python3-sklearn the suite is skipped (its name says which package is missing).
+ */
+import { existsSync, readFileSync } from 'node:fs'
+import { afterAll, describe, expect, it } from 'vitest'
+import { main } from '../../src/adapters/cli/main.ts'
+import type { GateReport } from '../../src/core/report/report.ts'
+import { createRandom } from '../../src/core/statistics/random.ts'
+import { makeRepository, type TestRepository } from '../helpers/make-repository.ts'
+
+const wineCsv = '/usr/lib/python3/dist-packages/sklearn/datasets/data/wine_data.csv'
+const hasSklearn = existsSync(wineCsv)
+
+const names = [
+  'alcohol', 'malic_acid', 'ash', 'alcalinity_of_ash', 'magnesium', 'total_phenols', 'flavanoids',
+  'nonflavanoid_phenols', 'proanthocyanins', 'color_intensity', 'hue', 'od280_od315', 'proline',
+]
+
+function wine(): { rows: number[][]; target: number[] } {
+  const values = readFileSync(wineCsv, 'utf8').trim().split('\n').slice(1).map((l) => l.split(',').map(Number))
+  return { rows: values.map((v) => v.slice(0, 13)), target: values.map((v) => v[13]) }
+}
+
+function csv(table: ReturnType<typeof wine>, indices: readonly number[], extra?: { name: string; values: readonly number[] }): string {
+  const header = [...names, ...(extra ? [extra.name] : []), 'cultivar']
+  const lines = indices.map((i) => [...table.rows[i], ...(extra ? [Number(extra.values[i].toFixed(4))] : []), `class_${table.target[i]}`].join(','))
+  return `${header.join(',')}\n${lines.join('\n')}\n`
+}
+
+const policy = 'version: 1\ntask: multiclass\ntarget: cultivar\nseed: 3\ndata:\n  train: data/train.csv\n  holdout: data/holdout.csv\nmodel:\n  builtin:\n    learner: gradient-boosting\n'
+
+const repositories: TestRepository[] = []
+afterAll(() => repositories.forEach((r) => r.remove()))
+
+async function check(change: 'copy-5' | 'noise'): Promise<GateReport> {
+  const table = wine()
+  const all = table.target.map((_, i) => i)
+  const holdout = all.filter((i) => i % 4 === 0)
+  const train = all.filter((i) => i % 4 !== 0)
+  const random = createRandom(change === 'noise' ? 11 : 12)
+  const values =
+    change === 'noise'
+      ? table.target.map(() => random.normal())
+      : table.target.map((y) => (random.next() >= 0.05 ? y : (y + 1 + random.int(2)) % 3))
+  const extra = { name: change === 'noise' ? 'batch_noise' : 'lab_grade', values }
+  const repository = makeRepository({
+    base: { 'plumbline.yml': policy, 'data/train.csv': csv(table, train), 'data/holdout.csv': csv(table, holdout) },
+    head: { 'data/train.csv': csv(table, train, extra), 'data/holdout.csv': csv(table, holdout, extra) },
+  })
+  repositories.push(repository)
+  const reportPath = `${repository.root}/report.json`
+  let stderr = ''
+  const code = await main(['check', '--base', 'main', '--head', 'pr', '--json', reportPath, '--quiet'], {
+    cwd: repository.root,
+    stdout: () => undefined,
+    stderr: (t) => (stderr += t),
+    isTty: false,
+  })
+  expect(code, stderr).toBeLessThan(2)
+  return JSON.parse(readFileSync(reportPath, 'utf8')) as GateReport
+}
+
+describe.skipIf(!hasSklearn)("task: multiclass on scikit-learn's wine table (needs Debian's python3-sklearn)", () => {
+  it('blocks a label copy (the class, 5% of rows given another) and names it first', async () => {
+    const report = await check('copy-5')
+    expect(report.settings.task).toBe('multiclass')
+    expect(report.settings.classes).toEqual(['class_0', 'class_1', 'class_2'])
+    expect(report.settings.metric).toBe('log-loss')
+    expect(report.verdict).toBe('block')
+    expect(report.headline).toMatch(/^Blocked: lab_grade, new here,/)
+  })
+
+  it('passes a column of pure noise with no leakage finding', async () => {
+    const report = await check('noise')
+    expect(report.findings.filter((f) => f.kind === 'leakage')).toEqual([])
+    expect(report.verdict).toBe('pass')
+  })
+})
