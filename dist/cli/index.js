@@ -1008,14 +1008,14 @@ var require_foldFlowLines = __commonJS({
     var FOLD_FLOW = "flow";
     var FOLD_BLOCK = "block";
     var FOLD_QUOTED = "quoted";
-    function foldFlowLines(text4, indent, mode = "flow", { indentAtStart, lineWidth = 80, minContentWidth = 20, onFold, onOverflow } = {}) {
+    function foldFlowLines(text5, indent, mode = "flow", { indentAtStart, lineWidth = 80, minContentWidth = 20, onFold, onOverflow } = {}) {
       if (!lineWidth || lineWidth < 0)
-        return text4;
+        return text5;
       if (lineWidth < minContentWidth)
         minContentWidth = 0;
       const endStep = Math.max(1 + minContentWidth, 1 + lineWidth - indent.length);
-      if (text4.length <= endStep)
-        return text4;
+      if (text5.length <= endStep)
+        return text5;
       const folds = [];
       const escapedFolds = {};
       let end = lineWidth - indent.length;
@@ -1032,14 +1032,14 @@ var require_foldFlowLines = __commonJS({
       let escStart = -1;
       let escEnd = -1;
       if (mode === FOLD_BLOCK) {
-        i = consumeMoreIndentedLines(text4, i, indent.length);
+        i = consumeMoreIndentedLines(text5, i, indent.length);
         if (i !== -1)
           end = i + endStep;
       }
-      for (let ch; ch = text4[i += 1]; ) {
+      for (let ch; ch = text5[i += 1]; ) {
         if (mode === FOLD_QUOTED && ch === "\\") {
           escStart = i;
-          switch (text4[i + 1]) {
+          switch (text5[i + 1]) {
             case "x":
               i += 3;
               break;
@@ -1056,12 +1056,12 @@ var require_foldFlowLines = __commonJS({
         }
         if (ch === "\n") {
           if (mode === FOLD_BLOCK)
-            i = consumeMoreIndentedLines(text4, i, indent.length);
+            i = consumeMoreIndentedLines(text5, i, indent.length);
           end = i + indent.length + endStep;
           split = void 0;
         } else {
           if (ch === " " && prev && prev !== " " && prev !== "\n" && prev !== "	") {
-            const next = text4[i + 1];
+            const next = text5[i + 1];
             if (next && next !== " " && next !== "\n" && next !== "	")
               split = i;
           }
@@ -1073,12 +1073,12 @@ var require_foldFlowLines = __commonJS({
             } else if (mode === FOLD_QUOTED) {
               while (prev === " " || prev === "	") {
                 prev = ch;
-                ch = text4[i += 1];
+                ch = text5[i += 1];
                 overflow = true;
               }
               const j = i > escEnd + 1 ? i - 2 : escStart - 1;
               if (escapedFolds[j])
-                return text4;
+                return text5;
               folds.push(j);
               escapedFolds[j] = true;
               end = j + endStep;
@@ -1093,39 +1093,39 @@ var require_foldFlowLines = __commonJS({
       if (overflow && onOverflow)
         onOverflow();
       if (folds.length === 0)
-        return text4;
+        return text5;
       if (onFold)
         onFold();
-      let res = text4.slice(0, folds[0]);
+      let res = text5.slice(0, folds[0]);
       for (let i2 = 0; i2 < folds.length; ++i2) {
         const fold = folds[i2];
-        const end2 = folds[i2 + 1] || text4.length;
+        const end2 = folds[i2 + 1] || text5.length;
         if (fold === 0)
           res = `
-${indent}${text4.slice(0, end2)}`;
+${indent}${text5.slice(0, end2)}`;
         else {
           if (mode === FOLD_QUOTED && escapedFolds[fold])
-            res += `${text4[fold]}\\`;
+            res += `${text5[fold]}\\`;
           res += `
-${indent}${text4.slice(fold + 1, end2)}`;
+${indent}${text5.slice(fold + 1, end2)}`;
         }
       }
       return res;
     }
-    function consumeMoreIndentedLines(text4, i, indent) {
+    function consumeMoreIndentedLines(text5, i, indent) {
       let end = i;
       let start = i + 1;
-      let ch = text4[start];
+      let ch = text5[start];
       while (ch === " " || ch === "	") {
         if (i < start + indent) {
-          ch = text4[++i];
+          ch = text5[++i];
         } else {
           do {
-            ch = text4[++i];
+            ch = text5[++i];
           } while (ch && ch !== "\n");
           end = i;
           start = i + 1;
-          ch = text4[start];
+          ch = text5[start];
         }
       }
       return end;
@@ -5581,10 +5581,10 @@ var require_cst_visit = __commonJS({
     visit2.REMOVE = REMOVE;
     visit2.itemAtPath = (cst, path) => {
       let item = cst;
-      for (const [field, index] of path) {
+      for (const [field, index2] of path) {
         const tok = item?.[field];
         if (tok && "items" in tok) {
-          item = tok.items[index];
+          item = tok.items[index2];
         } else
           return void 0;
       }
@@ -6355,15 +6355,15 @@ var require_parser = __commonJS({
     var node_process = __require("process");
     var cst = require_cst();
     var lexer = require_lexer();
-    function includesToken(list3, type) {
-      for (let i = 0; i < list3.length; ++i)
-        if (list3[i].type === type)
+    function includesToken(list4, type) {
+      for (let i = 0; i < list4.length; ++i)
+        if (list4[i].type === type)
           return true;
       return false;
     }
-    function findNonEmptyIndex(list3) {
-      for (let i = 0; i < list3.length; ++i) {
-        switch (list3[i].type) {
+    function findNonEmptyIndex(list4) {
+      for (let i = 0; i < list4.length; ++i) {
+        switch (list4[i].type) {
           case "space":
           case "comment":
           case "newline":
@@ -7888,7 +7888,7 @@ var require_tensor_factory_impl = __commonJS({
           throw new Error("Can not access image data");
         }
       } else if (isString) {
-        return new Promise((resolve8, reject) => {
+        return new Promise((resolve10, reject) => {
           const canvas = createCanvas();
           const context = createCanvasContext(canvas);
           if (!image || !context) {
@@ -7904,7 +7904,7 @@ var require_tensor_factory_impl = __commonJS({
             const img = context.getImageData(0, 0, canvas.width, canvas.height);
             bufferToTensorOptions.height = canvas.height;
             bufferToTensorOptions.width = canvas.width;
-            resolve8((0, exports.bufferToTensor)(img.data, bufferToTensorOptions));
+            resolve10((0, exports.bufferToTensor)(img.data, bufferToTensorOptions));
           };
         });
       } else {
@@ -8834,10 +8834,10 @@ var require_backend2 = __commonJS({
         __classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").endProfiling();
       }
       async run(feeds, fetches, options) {
-        return new Promise((resolve8, reject) => {
+        return new Promise((resolve10, reject) => {
           setImmediate(() => {
             try {
-              resolve8(__classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").run(feeds, fetches, options));
+              resolve10(__classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").run(feeds, fetches, options));
             } catch (e2) {
               reject(e2);
             }
@@ -8851,10 +8851,10 @@ var require_backend2 = __commonJS({
         return Promise.resolve();
       }
       async createInferenceSessionHandler(pathOrBuffer, options) {
-        return new Promise((resolve8, reject) => {
+        return new Promise((resolve10, reject) => {
           setImmediate(() => {
             try {
-              resolve8(new OnnxruntimeSessionHandler(pathOrBuffer, options || {}));
+              resolve10(new OnnxruntimeSessionHandler(pathOrBuffer, options || {}));
             } catch (e2) {
               reject(e2);
             }
@@ -8921,10 +8921,10 @@ var require_aspromise = __commonJS({
     "use strict";
     module.exports = asPromise;
     function asPromise(fn, ctx) {
-      var params = new Array(arguments.length - 1), offset = 0, index = 2, pending = true;
-      while (index < arguments.length)
-        params[offset++] = arguments[index++];
-      return new Promise(function executor(resolve8, reject) {
+      var params = new Array(arguments.length - 1), offset = 0, index2 = 2, pending = true;
+      while (index2 < arguments.length)
+        params[offset++] = arguments[index2++];
+      return new Promise(function executor(resolve10, reject) {
         params[offset] = function callback(err2) {
           if (pending) {
             pending = false;
@@ -8934,7 +8934,7 @@ var require_aspromise = __commonJS({
               var params2 = new Array(arguments.length - 1), offset2 = 0;
               while (offset2 < params2.length)
                 params2[offset2++] = arguments[offset2];
-              resolve8.apply(null, params2);
+              resolve10.apply(null, params2);
             }
           }
         };
@@ -10481,20 +10481,20 @@ var require_umd = __commonJS({
             lo & 255
           ];
         };
-        Long.fromBytes = function fromBytes(bytes, unsigned, le) {
-          return le ? Long.fromBytesLE(bytes, unsigned) : Long.fromBytesBE(bytes, unsigned);
+        Long.fromBytes = function fromBytes(bytes2, unsigned, le) {
+          return le ? Long.fromBytesLE(bytes2, unsigned) : Long.fromBytesBE(bytes2, unsigned);
         };
-        Long.fromBytesLE = function fromBytesLE(bytes, unsigned) {
+        Long.fromBytesLE = function fromBytesLE(bytes2, unsigned) {
           return new Long(
-            bytes[0] | bytes[1] << 8 | bytes[2] << 16 | bytes[3] << 24,
-            bytes[4] | bytes[5] << 8 | bytes[6] << 16 | bytes[7] << 24,
+            bytes2[0] | bytes2[1] << 8 | bytes2[2] << 16 | bytes2[3] << 24,
+            bytes2[4] | bytes2[5] << 8 | bytes2[6] << 16 | bytes2[7] << 24,
             unsigned
           );
         };
-        Long.fromBytesBE = function fromBytesBE(bytes, unsigned) {
+        Long.fromBytesBE = function fromBytesBE(bytes2, unsigned) {
           return new Long(
-            bytes[4] << 24 | bytes[5] << 16 | bytes[6] << 8 | bytes[7],
-            bytes[0] << 24 | bytes[1] << 16 | bytes[2] << 8 | bytes[3],
+            bytes2[4] << 24 | bytes2[5] << 16 | bytes2[6] << 8 | bytes2[7],
+            bytes2[0] << 24 | bytes2[1] << 16 | bytes2[2] << 8 | bytes2[3],
             unsigned
           );
         };
@@ -11002,9 +11002,9 @@ var require_writer = __commonJS({
       return writer.view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
     }
     Writer.prototype.fixed32s = function write_fixed32s(value3) {
-      var n = value3.length, bytes = n * 4;
-      this.uint32(bytes);
-      this._reserve(bytes);
+      var n = value3.length, bytes2 = n * 4;
+      this.uint32(bytes2);
+      this._reserve(bytes2);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_INT);
       if (dv)
         for (i = 0; i < n; ++i) {
@@ -11018,14 +11018,14 @@ var require_writer = __commonJS({
           p += 4;
         }
       }
-      this.pos += bytes;
+      this.pos += bytes2;
       return this;
     };
     Writer.prototype.sfixed32s = Writer.prototype.fixed32s;
     Writer.prototype.fixed64s = function write_fixed64s(value3) {
-      var n = value3.length, bytes = n * 8;
-      this.uint32(bytes);
-      this._reserve(bytes);
+      var n = value3.length, bytes2 = n * 8;
+      this.uint32(bytes2);
+      this._reserve(bytes2);
       var p = this.pos, i, bits2, dv = getLazyView(this, n, VIEW_THRESHOLD_INT);
       if (dv)
         for (i = 0; i < n; ++i) {
@@ -11043,14 +11043,14 @@ var require_writer = __commonJS({
           p += 8;
         }
       }
-      this.pos += bytes;
+      this.pos += bytes2;
       return this;
     };
     Writer.prototype.sfixed64s = Writer.prototype.fixed64s;
     Writer.prototype.floats = function write_floats(value3) {
-      var n = value3.length, bytes = n * 4;
-      this.uint32(bytes);
-      this._reserve(bytes);
+      var n = value3.length, bytes2 = n * 4;
+      this.uint32(bytes2);
+      this._reserve(bytes2);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_FLOAT);
       if (dv)
         for (i = 0; i < n; ++i) {
@@ -11064,13 +11064,13 @@ var require_writer = __commonJS({
           p += 4;
         }
       }
-      this.pos += bytes;
+      this.pos += bytes2;
       return this;
     };
     Writer.prototype.doubles = function write_doubles(value3) {
-      var n = value3.length, bytes = n * 8;
-      this.uint32(bytes);
-      this._reserve(bytes);
+      var n = value3.length, bytes2 = n * 8;
+      this.uint32(bytes2);
+      this._reserve(bytes2);
       var p = this.pos, i, dv = getLazyView(this, n, VIEW_THRESHOLD_FLOAT);
       if (dv)
         for (i = 0; i < n; ++i) {
@@ -11084,7 +11084,7 @@ var require_writer = __commonJS({
           p += 8;
         }
       }
-      this.pos += bytes;
+      this.pos += bytes2;
       return this;
     };
     Writer.prototype.fork = function fork2() {
@@ -12160,7 +12160,7 @@ var require_path = __commonJS({
         return uncPrefix + prefix2 + parts.join("/");
       }
     );
-    path.resolve = function resolve8(originPath, includePath, alreadyNormalized) {
+    path.resolve = function resolve10(originPath, includePath, alreadyNormalized) {
       var resolvedUrl = resolveUrl(originPath, includePath);
       if (resolvedUrl)
         return resolvedUrl;
@@ -12526,7 +12526,7 @@ var require_mapfield = __commonJS({
         keepComments ? this.comment : void 0
       ]);
     };
-    MapField.prototype.resolve = function resolve8() {
+    MapField.prototype.resolve = function resolve10() {
       if (this.resolved)
         return this;
       if (types2.mapKey[this.keyType] === void 0)
@@ -12612,7 +12612,7 @@ var require_method = __commonJS({
         this.parsedOptions
       ]);
     };
-    Method.prototype.resolve = function resolve8() {
+    Method.prototype.resolve = function resolve10() {
       if (this.resolved)
         return this;
       if (this.parent) {
@@ -13202,7 +13202,7 @@ var require_converter = __commonJS({
       }
       var hasKs2 = false;
       for (i = 0; i < fields.length; ++i) {
-        var field = fields[i], index = mtype._fieldsArray.indexOf(field), prop = util.safeProp(field.name);
+        var field = fields[i], index2 = mtype._fieldsArray.indexOf(field), prop = util.safeProp(field.name);
         if (field.map) {
           if (!hasKs2) {
             hasKs2 = true;
@@ -13217,7 +13217,7 @@ var require_converter = __commonJS({
             gen,
             field,
             /* sorted */
-            index,
+            index2,
             longKey ? prop + "[k2]" : srcProp,
             srcProp
           )("}");
@@ -13227,7 +13227,7 @@ var require_converter = __commonJS({
             gen,
             field,
             /* sorted */
-            index,
+            index2,
             prop + "[j]"
           )("}");
         } else {
@@ -13236,7 +13236,7 @@ var require_converter = __commonJS({
             gen,
             field,
             /* sorted */
-            index,
+            index2,
             prop
           );
           if (field.partOf && !field.partOf.isProto3Optional) gen("if(o.oneofs)")("d%s=%j", util.safeProp(field.partOf.name), field.name);
@@ -13942,9 +13942,9 @@ var require_root = __commonJS({
             object2.extensionField.parent.remove(object2.extensionField);
             object2.extensionField = null;
           } else {
-            var index = this.deferred.indexOf(object2);
-            if (index > -1)
-              this.deferred.splice(index, 1);
+            var index2 = this.deferred.indexOf(object2);
+            if (index2 > -1)
+              this.deferred.splice(index2, 1);
           }
         }
       } else if (object2 instanceof Enum) {
@@ -13983,17 +13983,17 @@ var require_util = __commonJS({
     util.fs = require_fs();
     util.toArray = function toArray(object2) {
       if (object2) {
-        var keys = Object.keys(object2), array2 = new Array(keys.length), index = 0;
-        while (index < keys.length)
-          array2[index] = object2[keys[index++]];
+        var keys = Object.keys(object2), array2 = new Array(keys.length), index2 = 0;
+        while (index2 < keys.length)
+          array2[index2] = object2[keys[index2++]];
         return array2;
       }
       return [];
     };
     util.toObject = function toObject(array2) {
-      var object2 = {}, index = 0;
-      while (index < array2.length) {
-        var key2 = array2[index++], val = array2[index++];
+      var object2 = {}, index2 = 0;
+      while (index2 < array2.length) {
+        var key2 = array2[index2++], val = array2[index2++];
         if (val !== void 0)
           object2[key2] = val;
       }
@@ -14419,7 +14419,7 @@ var require_field = __commonJS({
         keepComments ? this.comment : void 0
       ]);
     };
-    Field.prototype.resolve = function resolve8() {
+    Field.prototype.resolve = function resolve10() {
       if (this.resolved)
         return this;
       if ((this.typeDefault = types2.defaults[this.type]) === void 0) {
@@ -14574,13 +14574,13 @@ var require_oneof = __commonJS({
     OneOf.prototype.remove = function remove(field) {
       if (!(field instanceof Field))
         throw TypeError("field must be a Field");
-      var index = this.fieldsArray.indexOf(field);
-      if (index < 0)
+      var index2 = this.fieldsArray.indexOf(field);
+      if (index2 < 0)
         throw Error(field + " is not a member of " + this);
-      this.fieldsArray.splice(index, 1);
-      index = this.oneof.indexOf(field.name);
-      if (index > -1)
-        this.oneof.splice(index, 1);
+      this.fieldsArray.splice(index2, 1);
+      index2 = this.oneof.indexOf(field.name);
+      if (index2 > -1)
+        this.oneof.splice(index2, 1);
       field.partOf = null;
       return this;
     };
@@ -14612,9 +14612,9 @@ var require_oneof = __commonJS({
       }
     });
     OneOf.d = function decorateOneOf() {
-      var fieldNames = new Array(arguments.length), index = 0;
-      while (index < arguments.length)
-        fieldNames[index] = arguments[index++];
+      var fieldNames = new Array(arguments.length), index2 = 0;
+      while (index2 < arguments.length)
+        fieldNames[index2] = arguments[index2++];
       return function oneOfDecorator(prototype, oneofName) {
         util.decorateType(prototype.constructor).add(new OneOf(oneofName, fieldNames));
         Object.defineProperty(prototype, oneofName, {
@@ -14709,7 +14709,7 @@ var require_object = __commonJS({
       this.parent = null;
       this.resolved = false;
     };
-    ReflectionObject.prototype.resolve = function resolve8() {
+    ReflectionObject.prototype.resolve = function resolve10() {
       if (this.resolved)
         return this;
       if (this.root instanceof Root)
@@ -14989,14 +14989,14 @@ var require_encoder = __commonJS({
         mtype.fieldsArray.slice().sort(util.compareFieldsById)
       );
       for (var i = 0; i < fields.length; ++i) {
-        var field = fields[i].resolve(), index = mtype._fieldsArray.indexOf(field), type = field.resolvedType instanceof Enum ? "int32" : field.type, wireType = types2.basic[type];
+        var field = fields[i].resolve(), index2 = mtype._fieldsArray.indexOf(field), type = field.resolvedType instanceof Enum ? "int32" : field.type, wireType = types2.basic[type];
         ref = "m" + util.safeProp(field.name);
         if (field.map) {
           gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)){", ref, field.name)("for(var ks=Object.keys(%s),i=0;i<ks.length;++i){", ref);
           if (field.keyType === "bool") gen("w.uint32(%i).fork().uint32(%i).bool(util.boolFromKey(ks[i]))", (field.id << 3 | 2) >>> 0, 8 | types2.mapKey[field.keyType]);
           else if (types2.long[field.keyType] !== void 0) gen("w.uint32(%i).fork().uint32(%i).%s(util.longFromKey(ks[i],%j))", (field.id << 3 | 2) >>> 0, 8 | types2.mapKey[field.keyType], field.keyType, field.keyType === "uint64" || field.keyType === "fixed64");
           else gen("w.uint32(%i).fork().uint32(%i).%s(ks[i])", (field.id << 3 | 2) >>> 0, 8 | types2.mapKey[field.keyType], field.keyType);
-          if (wireType === void 0) gen("types[%i].encode(%s[ks[i]],w.uint32(18).fork(),q+1).ldelim().ldelim()", index, ref);
+          if (wireType === void 0) gen("types[%i].encode(%s[ks[i]],w.uint32(18).fork(),q+1).ldelim().ldelim()", index2, ref);
           else gen(".uint32(%i).%s(%s[ks[i]]).ldelim()", 16 | wireType, type, ref);
           gen("}")("}");
         } else if (field.repeated) {
@@ -15006,7 +15006,7 @@ var require_encoder = __commonJS({
           } else {
             gen("for(var i=0;i<%s.length;++i)", ref);
             if (wireType === void 0)
-              genTypePartial(gen, field, index, ref + "[i]");
+              genTypePartial(gen, field, index2, ref + "[i]");
             else gen("w.uint32(%i).%s(%s[i])", (field.id << 3 | wireType) >>> 0, type, ref);
           }
           gen("}");
@@ -15021,7 +15021,7 @@ var require_encoder = __commonJS({
             else if (types2.long[type] !== void 0) gen('if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&(typeof %s==="object"?%s.low||%s.high:%s!==0))', ref, field.name, ref, ref, ref, ref);
             else gen("if(%s!=null&&Object.hasOwnProperty.call(m,%j)&&%s!==0)", ref, field.name, ref);
           if (wireType === void 0)
-            genTypePartial(gen, field, index, ref);
+            genTypePartial(gen, field, index2, ref);
           else gen("w.uint32(%i).%s(%s)", (field.id << 3 | wireType) >>> 0, type, ref);
         }
       }
@@ -16551,8 +16551,8 @@ var require_protobufjs = __commonJS({
 });
 
 // src/adapters/cli/main.ts
-import { mkdir as mkdir2, rename, rm as rm4, stat as stat3, writeFile as writeFile2 } from "node:fs/promises";
-import { basename as basename3, dirname as dirname4, join as join6 } from "node:path";
+import { mkdir as mkdir4, rename as rename3, rm as rm6, stat as stat4, writeFile as writeFile5 } from "node:fs/promises";
+import { basename as basename3, dirname as dirname4, join as join8 } from "node:path";
 
 // src/core/errors.ts
 var UserError = class extends Error {
@@ -16626,29 +16626,29 @@ var unsafeCharacters = (
   /[\u0000-\u0008\u000e-\u001f\u007f-\u0084\u0086-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g
 );
 var lineBreaks = /\r\n|[\n\r\v\f\u0085\u2028\u2029]/g;
-function neutralize(text4) {
-  return text4.replace(/\t/g, " ").replace(unsafeCharacters, "�");
+function neutralize(text5) {
+  return text5.replace(/\t/g, " ").replace(unsafeCharacters, "�");
 }
 var entities = { "&": "&amp;", "<": "&lt;", ">": "&gt;" };
 function escapeInline(line) {
   return line.replace(/[&<>]/g, (c) => entities[c]).replace(/[\\`*_[\]~|$]/g, "\\$&").replace(/@/g, `@${wordJoiner}`).replace(/#(?=\d)/g, `#${wordJoiner}`).replace(/\b(GH-)(?=\d)/gi, `$1${wordJoiner}`).replace(/:\/\//g, `:${wordJoiner}//`).replace(/\b(www)\./gi, `$1${wordJoiner}.`);
 }
-function escapeStart(text4, isLine) {
-  const trimmed = text4.trimStart();
+function escapeStart(text5, isLine) {
+  const trimmed = text5.trimStart();
   if (/^[#+\-=]/.test(trimmed)) return `\\${trimmed}`;
   return isLine ? trimmed.replace(/^(\d+)([.)])/, "$1\\$2") : trimmed;
 }
-function escapeMarkdownCell(text4) {
-  return escapeStart(escapeInline(neutralize(text4).replace(lineBreaks, " ").trim()), false);
+function escapeMarkdownCell(text5) {
+  return escapeStart(escapeInline(neutralize(text5).replace(lineBreaks, " ").trim()), false);
 }
-function escapeMarkdownText(text4) {
-  return neutralize(text4).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
+function escapeMarkdownText(text5) {
+  return neutralize(text5).split(lineBreaks).map((line) => escapeStart(escapeInline(line), true).trimEnd()).filter((line) => line !== "").join("\n");
 }
-function escapePlainText(text4) {
-  return neutralize(text4).replace(lineBreaks, " ");
+function escapePlainText(text5) {
+  return neutralize(text5).replace(lineBreaks, " ");
 }
-function markdownCodeBlock(text4) {
-  const body = neutralize(text4).replace(lineBreaks, "\n");
+function markdownCodeBlock(text5) {
+  const body = neutralize(text5).replace(lineBreaks, "\n");
   const longestRun = (body.match(/`+/g) ?? []).reduce((longest, run) => Math.max(longest, run.length), 0);
   const fence = "`".repeat(Math.max(3, longestRun + 1));
   return `${fence}text
@@ -16656,8 +16656,8 @@ ${body}
 ${fence}`;
 }
 var htmlEntities = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
-function escapeHtml(text4) {
-  return neutralize(text4).replace(/[&<>"']/g, (c) => htmlEntities[c]);
+function escapeHtml(text5) {
+  return neutralize(text5).replace(/[&<>"']/g, (c) => htmlEntities[c]);
 }
 
 // src/core/report/format-number.ts
@@ -16709,14 +16709,14 @@ function formatRatio(ratio) {
   return Number.isFinite(ratio) ? `${formatNumber(ratio)}×` : "n/a";
 }
 function formatPStatement(label2, p) {
-  const text4 = formatPValue(p);
-  return text4.startsWith("<") ? `${label2} < ${text4.slice(1)}` : `${label2} = ${text4}`;
+  const text5 = formatPValue(p);
+  return text5.startsWith("<") ? `${label2} < ${text5.slice(1)}` : `${label2} = ${text5}`;
 }
 
 // src/core/checks/verdict.ts
 var order = { block: 0, warn: 1, info: 2 };
 function sortFindings(findings) {
-  return findings.map((finding, index) => ({ finding, index })).sort((a, b) => order[a.finding.severity] - order[b.finding.severity] || a.index - b.index).map((x) => x.finding);
+  return findings.map((finding, index2) => ({ finding, index: index2 })).sort((a, b) => order[a.finding.severity] - order[b.finding.severity] || a.index - b.index).map((x) => x.finding);
 }
 var kindOrder = {
   "run-error": 0,
@@ -16764,7 +16764,7 @@ function strength(finding) {
 function orderFindings(findings, change) {
   const touched = /* @__PURE__ */ new Set([...change.added, ...change.removed, ...change.changed]);
   const isAboutChange = (f) => f.kind === "feature-set" || f.feature !== void 0 && touched.has(f.feature);
-  return findings.map((finding, index) => ({ finding, index, about: isAboutChange(finding) ? 0 : 1, strength: strength(finding) })).sort(
+  return findings.map((finding, index2) => ({ finding, index: index2, about: isAboutChange(finding) ? 0 : 1, strength: strength(finding) })).sort(
     (a, b) => order[a.finding.severity] - order[b.finding.severity] || a.about - b.about || (kindOrder[a.finding.kind] ?? 99) - (kindOrder[b.finding.kind] ?? 99) || b.strength - a.strength || a.index - b.index
   ).map((x) => x.finding);
 }
@@ -16784,8 +16784,8 @@ function writeHeadline(verdict, findings) {
   const reason = more ? `${title.replace(/\.$/, "")}${more}.` : title;
   return verdict === "block" ? `Blocked: ${reason}` : `Passed with warnings: ${reason}`;
 }
-function lowerFirst(text4) {
-  return /^(The|Holdout|A|An)\b/.test(text4) ? text4[0].toLowerCase() + text4.slice(1) : text4;
+function lowerFirst(text5) {
+  return /^(The|Holdout|A|An)\b/.test(text5) ? text5[0].toLowerCase() + text5.slice(1) : text5;
 }
 
 // node_modules/simple-statistics/dist/simple-statistics.mjs
@@ -17341,9 +17341,9 @@ function describeFinding(finding, task, featureSet) {
     evidencePairs: entries.map(([key2, value3]) => [label2(key2), formatEvidenceValue(key2, value3)])
   };
 }
-function describeImportance(side2) {
-  if (!side2) return "-";
-  return `${formatNumber(side2.mean)} [${formatNumber(side2.lower)}, ${formatNumber(side2.upper)}]`;
+function describeImportance(side3) {
+  if (!side3) return "-";
+  return `${formatNumber(side3.mean)} [${formatNumber(side3.lower)}, ${formatNumber(side3.upper)}]`;
 }
 function describeName(row) {
   if (!row.isGroup) return row.name;
@@ -17439,20 +17439,36 @@ function tabulateSides(base, head, metric) {
     header: ["", "base", "head"],
     align: ["left", "left", "left"],
     rows: [
-      ["ref", ...both((side2) => side2.ref)],
-      ["commit", ...both((side2) => side2.commit ?? "-")],
+      ["ref", ...both((side3) => side3.ref)],
+      ["commit", ...both((side3) => side3.commit ?? "-")],
       ["model", ...both(describeModel)],
-      ["features", ...both((side2) => formatCount(side2.features.length))],
-      ["train rows", ...both((side2) => formatCount(side2.trainRows))],
-      ["holdout rows", ...both((side2) => formatCount(side2.holdoutRows))],
-      ["holdout rows used for importance", ...both((side2) => formatCount(side2.evaluationRows))],
-      ["reference rows for draws", ...both((side2) => formatCount(side2.referenceRows))],
-      [`holdout ${metric}, mean over refits`, ...both((side2) => formatNumber(side2.scoreMean))],
-      [`holdout ${metric}, SD over refits`, ...both((side2) => formatNumber(side2.scoreSd))],
-      ["refits", ...both((side2) => formatCount(side2.scores.length))],
-      ["noise covers", ...both((side2) => side2.noiseCovers.replace(/-/g, " "))]
+      ["features", ...both((side3) => formatCount(side3.features.length))],
+      ["train rows", ...both((side3) => formatCount(side3.trainRows))],
+      ["holdout rows", ...both((side3) => formatCount(side3.holdoutRows))],
+      ["holdout rows used for importance", ...both((side3) => formatCount(side3.evaluationRows))],
+      ["reference rows for draws", ...both((side3) => formatCount(side3.referenceRows))],
+      [`holdout ${metric}, mean over refits`, ...both((side3) => formatNumber(side3.scoreMean))],
+      [`holdout ${metric}, SD over refits`, ...both((side3) => formatNumber(side3.scoreSd))],
+      ["refits", ...both((side3) => formatCount(side3.scores.length))],
+      ["noise covers", ...both((side3) => side3.noiseCovers.replace(/-/g, " "))]
     ]
   };
+}
+var sampledRoles = [
+  ["train", "Training rows sampled", "data.max_train_rows"],
+  ["holdout", "Holdout rows sampled", "data.max_holdout_rows"]
+];
+function describeRowSampling(base, head) {
+  const describe3 = (sample2, rows) => sample2 ? `${formatCount(sample2.rows)} → ${formatCount(sample2.kept)} with seed ${sample2.seed}` : `${formatCount(rows)} rows, not sampled`;
+  return sampledRoles.flatMap(([role, label2, key2]) => {
+    const b = base.rowSampling?.[role];
+    const h = head.rowSampling?.[role];
+    if (!b && !h) return [];
+    const rows = (side3) => role === "train" ? side3.trainRows : side3.holdoutRows;
+    const same = b && h && b.rows === h.rows && b.kept === h.kept && b.seed === h.seed;
+    const where2 = same ? `${describe3(b, rows(base))}, on both sides` : `base ${describe3(b, rows(base))}; head ${describe3(h, rows(head))}`;
+    return [`${label2} (${key2}): ${where2}.`];
+  });
 }
 function describeModel({ model }) {
   return model.description.includes(model.kind) ? model.description : `${model.kind}: ${model.description}`;
@@ -17498,6 +17514,7 @@ function tabulateReport(report) {
     agreement: report.agreement ? tabulateAgreement(report.agreement) : null,
     score: sides ? summarizeScore(report) : null,
     sides: sides ? tabulateSides(sides.base, sides.head, settings.metric) : null,
+    rowSampling: sides ? describeRowSampling(sides.base, sides.head) : [],
     scores: sides ? tabulatePerRefit(["refit", `base ${settings.metric}`, `head ${settings.metric}`], sides.base.scores, sides.head.scores, formatNumber) : null,
     seeds: sides ? tabulatePerRefit(["refit", "base seed", "head seed"], sides.base.refitSeeds, sides.head.refitSeeds, String) : null,
     settings: tabulateSettings(settings),
@@ -17515,14 +17532,20 @@ function tabulateReport(report) {
       header: ["stage", "seconds"],
       align: ["left", "right"],
       rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)])
-    }
+    },
+    cacheNote: report.cache ? cacheNote(report.cache) : null
   };
 }
-function scoreInterval(side2) {
-  const n = side2.scores.length;
-  if (n < 2 || !Number.isFinite(side2.scoreSd)) return formatNumber(side2.scoreMean);
-  const half = studentTQuantile(0.975, n - 1) * side2.scoreSd / Math.sqrt(n);
-  return `${formatNumber(side2.scoreMean)} [${formatNumber(side2.scoreMean - half)}, ${formatNumber(side2.scoreMean + half)}]`;
+function cacheNote(cache) {
+  const total = cache.reused.length + cache.measured.length + cache.uncacheable.length;
+  const shown = cache.reused.slice(0, 12).join(", ") + (cache.reused.length > 12 ? `, and ${cache.reused.length - 12} more` : "");
+  return `Work units from the cache: ${cache.reused.length} of ${total}${cache.reused.length > 0 ? ` (${shown})` : ""}; measured now: ${cache.measured.length + cache.uncacheable.length}${cache.uncacheable.length > 0 ? ` (${cache.uncacheable.length} cannot be cached: a training command or model file in an uncommitted working tree)` : ""}.`;
+}
+function scoreInterval(side3) {
+  const n = side3.scores.length;
+  if (n < 2 || !Number.isFinite(side3.scoreSd)) return formatNumber(side3.scoreMean);
+  const half = studentTQuantile(0.975, n - 1) * side3.scoreSd / Math.sqrt(n);
+  return `${formatNumber(side3.scoreMean)} [${formatNumber(side3.scoreMean - half)}, ${formatNumber(side3.scoreMean + half)}]`;
 }
 function summarizeScore(report) {
   const { base, head } = report.sides;
@@ -17575,9 +17598,9 @@ function limitRows(table2, maxRows) {
   const more = [`${formatCount(cut2)} more ${cut2 === 1 ? "row" : "rows"}`, ...table2.header.slice(1).map(() => "")];
   return { ...table2, rows: [...table2.rows.slice(0, maxRows), more] };
 }
-function limitItems(items, maxItems) {
-  if (items.length <= maxItems) return [...items];
-  return [...items.slice(0, maxItems), `and ${formatCount(items.length - maxItems)} more`];
+function limitItems(items, maxItems2) {
+  if (items.length <= maxItems2) return [...items];
+  return [...items.slice(0, maxItems2), `and ${formatCount(items.length - maxItems2)} more`];
 }
 
 // src/core/report/render-html.ts
@@ -17652,12 +17675,12 @@ function axis(scale, label2) {
   });
   return `<div class="name muted">${e(label2)}</div><svg class="axis" height="16" role="img" aria-label="${e(label2)} axis">${texts.join("")}</svg>`;
 }
-function whisker(scale, side2, y, lower, upper) {
-  return `<line class="whisker ${side2}" x1="${at(scale, lower)}" x2="${at(scale, upper)}" y1="${y}" y2="${y}"/>`;
+function whisker(scale, side3, y, lower, upper) {
+  return `<line class="whisker ${side3}" x1="${at(scale, lower)}" x2="${at(scale, upper)}" y1="${y}" y2="${y}"/>`;
 }
-function mark(scale, side2, y, value3, title) {
+function mark(scale, side3, y, value3, title) {
   const tip = `<title>${e(title)}</title>`;
-  return side2 === "base" ? `<circle class="mark base" cx="${at(scale, value3)}" cy="${y}" r="4.5">${tip}</circle>` : `<svg x="${at(scale, value3)}" y="${y - 5}" width="1" height="1" overflow="visible"><rect class="mark head" x="-5" y="0" width="10" height="10">${tip}</rect></svg>`;
+  return side3 === "base" ? `<circle class="mark base" cx="${at(scale, value3)}" cy="${y}" r="4.5">${tip}</circle>` : `<svg x="${at(scale, value3)}" y="${y - 5}" width="1" height="1" overflow="visible"><rect class="mark head" x="-5" y="0" width="10" height="10">${tip}</rect></svg>`;
 }
 function legend() {
   return '<div class="legend"><span><svg width="14" height="14"><circle class="mark base" cx="7" cy="7" r="4.5"/></svg> base</span><span><svg width="14" height="14"><rect class="mark head" x="2" y="2" width="10" height="10"/></svg> head</span><span><svg width="22" height="14"><rect class="band" x="0" y="2" width="22" height="10"/></svg> reseed floor (a mark inside the band is indistinguishable from zero)</span><span>lines: 95% interval</span></div>';
@@ -17675,16 +17698,16 @@ function importanceChart(report, maxRows) {
   const cells = rows.map((row) => {
     const parts = [];
     const sides = [["base", row.base, 8], ["head", row.head, 22]];
-    for (const [side2, stats, y] of sides) {
+    for (const [side3, stats, y] of sides) {
       if (!stats) continue;
       const half = Math.max(0, stats.upper - stats.mean);
       parts.push(`<rect class="band" x="${at(scale, -half)}" y="${y - 6}" width="${widthBetween(scale, -half, half)}" height="12"/>`);
     }
     parts.push(`<line class="zero" x1="${at(scale, 0)}" x2="${at(scale, 0)}" y1="0" y2="30"/>`);
-    for (const [side2, stats, y] of sides) {
+    for (const [side3, stats, y] of sides) {
       if (!stats) continue;
-      const title = `${row.name}, ${side2}: ${formatNumber(stats.mean)} [${formatNumber(stats.lower)}, ${formatNumber(stats.upper)}], rank ${stats.rank}${stats.isAboveFloor ? "" : ", indistinguishable from zero"}`;
-      parts.push(whisker(scale, side2, y, stats.lower, stats.upper), mark(scale, side2, y, stats.mean, title));
+      const title = `${row.name}, ${side3}: ${formatNumber(stats.mean)} [${formatNumber(stats.lower)}, ${formatNumber(stats.upper)}], rank ${stats.rank}${stats.isAboveFloor ? "" : ", indistinguishable from zero"}`;
+      parts.push(whisker(scale, side3, y, stats.lower, stats.upper), mark(scale, side3, y, stats.mean, title));
     }
     const presence = row.presence === "added" ? " (new)" : row.presence === "removed" ? " (removed)" : "";
     const label2 = `${row.name}${row.isGroup ? " (group)" : ""}${presence}`;
@@ -17740,9 +17763,9 @@ function scoreStrips(report) {
   const tight = { low: Math.min(...base.scores, ...head.scores), high: Math.max(...base.scores, ...head.scores) };
   const pad = (tight.high - tight.low) * 0.08 || Math.abs(tight.high) * 0.01 || 1;
   const s = Number.isFinite(tight.low) ? { low: tight.low - pad, high: tight.high + pad } : scale;
-  const strip = (side2) => {
-    const dots = side2.scores.map((v, i) => `<circle class="dot ${side2.side}" cx="${at(s, v)}" cy="12" r="5"><title>refit ${i + 1}: ${e(formatNumber(v))}</title></circle>`).join("");
-    return `<div class="name">${side2.side}, mean ${e(formatNumber(side2.scoreMean))}</div><svg height="24" role="img" aria-label="${side2.side} holdout scores">${dots}</svg>`;
+  const strip = (side3) => {
+    const dots = side3.scores.map((v, i) => `<circle class="dot ${side3.side}" cx="${at(s, v)}" cy="12" r="5"><title>refit ${i + 1}: ${e(formatNumber(v))}</title></circle>`).join("");
+    return `<div class="name">${side3.side}, mean ${e(formatNumber(side3.scoreMean))}</div><svg height="24" role="img" aria-label="${side3.side} holdout scores">${dots}</svg>`;
   };
   return `<div class="chart">${strip(base)}${strip(head)}${axis(s, `holdout ${report.settings.metric}`)}</div>`;
 }
@@ -17771,7 +17794,7 @@ function renderHtml(report, options = {}) {
   if (!Number.isInteger(maxRows) || maxRows < 1) throw new RangeError(`renderHtml needs maxChartRows to be a whole number of at least 1, got ${maxRows}`);
   const tables = tabulateReport(report);
   const verdictWord = report.verdict === "error" ? "no verdict" : report.verdict;
-  const header = `<header><h1>plumbline report <span class="verdict v-${report.verdict}">${e(verdictWord.toUpperCase())}</span></h1><p><strong>${e(report.headline)}</strong></p>` + (tables.score ? `<p>${[tables.score.sentence, ...tables.score.evidenceLines].map(e).join("<br>")}</p>` : "") + (report.sides ? `<p class="muted">base ${e(report.sides.base.ref)}${report.sides.base.commit ? ` (${e(report.sides.base.commit.slice(0, 12))})` : ""} · head ${e(report.sides.head.ref)}${report.sides.head.commit ? ` (${e(report.sides.head.commit.slice(0, 12))})` : ""} · plumbline ${e(report.tool.version)}</p>` : "") + "</header>";
+  const header = `<header><h1>plumbline report <span class="verdict v-${report.verdict}">${e(verdictWord.toUpperCase())}</span></h1><p><strong>${e(report.headline)}</strong></p>` + (tables.score ? `<p>${[tables.score.sentence, ...tables.score.evidenceLines].map(e).join("<br>")}</p>` : "") + (tables.rowSampling.length > 0 ? `<p>${tables.rowSampling.map(e).join("<br>")}</p>` : "") + (report.sides ? `<p class="muted">base ${e(report.sides.base.ref)}${report.sides.base.commit ? ` (${e(report.sides.base.commit.slice(0, 12))})` : ""} · head ${e(report.sides.head.ref)}${report.sides.head.commit ? ` (${e(report.sides.head.commit.slice(0, 12))})` : ""} · plumbline ${e(report.tool.version)}</p>` : "") + "</header>";
   const findings = tables.findings.length === 0 ? "<p>None.</p>" : tables.findings.map((f) => {
     const items = f.evidencePairs.map(([label2, value3]) => `<dt>${e(label2)}</dt><dd>${e(value3)}</dd>`);
     return `<article class="finding s-${f.severity}"><h3><span class="sev">${f.severity}</span>${e(f.title)}</h3>` + (f.message ? `<p>${e(f.message)}</p>` : "") + (items.length ? `<dl class="evidence">${items.join("")}</dl>` : "") + "</article>";
@@ -17976,16 +17999,16 @@ function mermaidChart(report) {
 
 // src/core/report/tabulate-views.ts
 function tabulateViews(report) {
-  const { sensitivity, gain } = report;
-  if (!sensitivity && !gain) return null;
+  const { sensitivity: sensitivity2, gain } = report;
+  if (!sensitivity2 && !gain) return null;
   const gainBy = new Map((gain?.features ?? []).map((f) => [f.name, f]));
-  const names = sensitivity ? sensitivity.features.filter((f) => !f.isGroup).map((f) => f.name) : (gain?.features ?? []).map((f) => f.name);
-  const byName = new Map((sensitivity?.features ?? []).filter((f) => !f.isGroup).map((f) => [f.name, f]));
-  const binary = sensitivity?.threshold !== null && sensitivity?.threshold !== void 0;
-  const unlabeled = (sensitivity?.unlabeledRows.head ?? 0) > 0;
+  const names = sensitivity2 ? sensitivity2.features.filter((f) => !f.isGroup).map((f) => f.name) : (gain?.features ?? []).map((f) => f.name);
+  const byName = new Map((sensitivity2?.features ?? []).filter((f) => !f.isGroup).map((f) => [f.name, f]));
+  const binary = sensitivity2?.threshold !== null && sensitivity2?.threshold !== void 0;
+  const unlabeled = (sensitivity2?.unlabeledRows.head ?? 0) > 0;
   const header = [
     "feature",
-    ...sensitivity ? ["moves predictions (base → head)", ...binary ? ["decisions flipped (head)"] : [], ...unlabeled ? ["on unlabeled (head)"] : []] : [],
+    ...sensitivity2 ? ["moves predictions (base → head)", ...binary ? ["decisions flipped (head)"] : [], ...unlabeled ? ["on unlabeled (head)"] : []] : [],
     ...gain ? ["gain rank (share), head"] : []
   ];
   const rows = names.map((name) => {
@@ -17994,7 +18017,7 @@ function tabulateViews(report) {
     const num = (v) => v === void 0 ? "—" : formatNumber(v);
     return [
       name,
-      ...sensitivity ? [
+      ...sensitivity2 ? [
         `${num(s?.base?.holdout.mean)} → ${num(s?.head?.holdout.mean)}${s?.change?.isSignificant ? " *" : ""}`,
         ...binary ? [s?.head?.holdout.flipShare == null ? "—" : formatPercent(s.head.holdout.flipShare)] : [],
         ...unlabeled ? [num(s?.head?.unlabeled?.mean)] : []
@@ -18003,7 +18026,7 @@ function tabulateViews(report) {
     ];
   });
   const notes = [
-    ...sensitivity ? [
+    ...sensitivity2 ? [
       `"Moves predictions" is the mean absolute change of the model's output${binary ? " (probability)" : ""} when the feature takes reference values (no labels needed); * marks a change beyond reseed noise.`
     ] : [],
     ...gain ? [gain.caution] : [],
@@ -18035,7 +18058,7 @@ var fenceOpen = "```mermaid";
 function renderTable(table2) {
   const cells = [table2.header, ...table2.rows].map((row) => row.map(escapeMarkdownCell));
   return markdownTable(cells, {
-    align: table2.align.map((side2) => side2 === "right" ? "r" : "l"),
+    align: table2.align.map((side3) => side3 === "right" ? "r" : "l"),
     alignDelimiters: false
   });
 }
@@ -18049,13 +18072,13 @@ function shortenMessage(message, maxCharacters) {
   const cut2 = message.length - maxCharacters;
   return `${message.slice(0, maxCharacters)} … (${formatCount(cut2)} more characters in the full report)`;
 }
-function renderFinding(finding, maxItems, isFull) {
+function renderFinding(finding, maxItems2, isFull) {
   const lines = [`- **${severityWord[finding.severity]}:** ${escapeMarkdownText(finding.title)}`];
   if (isFull) {
     const message = escapeMarkdownText(shortenMessage(finding.message, maxMessageCharacters));
     if (message !== "") lines.push(message);
     if (finding.evidence.length > 0) {
-      lines.push(`Evidence: ${limitItems(finding.evidence, maxItems).map(escapeMarkdownText).join("; ")}.`);
+      lines.push(`Evidence: ${limitItems(finding.evidence, maxItems2).map(escapeMarkdownText).join("; ")}.`);
     }
   }
   return lines.join("\n").replace(/\n/g, "\n  ");
@@ -18135,7 +18158,7 @@ function renderMarkdown(report, options = {}) {
   const tables = tabulateReport(report);
   const findingItems = tables.findings.map((finding) => renderFinding(finding, maxTableRows, finding.severity !== "info"));
   const nameLists = [tables.featureSet.added, tables.featureSet.removed, tables.featureSet.kindChanged];
-  const longestList = Math.max(...nameLists.map((list3) => list3.length));
+  const longestList = Math.max(...nameLists.map((list4) => list4.length));
   const agreement = tables.agreement ? renderDetails("Rank agreement against the reseed null", [renderTable(tables.agreement.table), escapeMarkdownText(tables.agreement.note)]) : renderDetails("Rank agreement", [agreementMissingNote]);
   const details = [
     agreement,
@@ -18154,7 +18177,8 @@ function renderMarkdown(report, options = {}) {
     ]),
     renderDetails("Timings", [
       "Wall-clock seconds per stage; they vary from run to run and are not part of the result.",
-      ...tables.timings.rows.length > 0 ? [renderTable(limitRows(tables.timings, maxTableRows))] : []
+      ...tables.timings.rows.length > 0 ? [renderTable(limitRows(tables.timings, maxTableRows))] : [],
+      ...tables.cacheNote ? [escapeMarkdownText(tables.cacheNote)] : []
     ])
   ];
   const score2 = tables.score ? [tables.score.sentence, ...tables.score.evidenceLines].map(escapeMarkdownText).join("\n") : null;
@@ -18191,13 +18215,13 @@ ${items}`;
     if (rows === 0) return renderDetails(summary3, [`The table of ${formatCount(count4)} rows is left out; see the note below.`]);
     return renderDetails(summary3, [escapeMarkdownText(importanceNote), renderTable(limitRows(tables.features, rows))]);
   }
-  function renderFeatureSet(maxItems) {
+  function renderFeatureSet(maxItems2) {
     const { added, removed, kindChanged, unchangedCount } = tables.featureSet;
     if (unchangedCount !== null) return `Feature set: the same ${formatCount(unchangedCount)} features on both sides.`;
     const part = (label2, names) => {
       if (names.length === 0) return [];
-      if (maxItems === 0) return [`${label2} ${formatCount(names.length)} (names left out)`];
-      return [`${label2} ${limitItems(names, maxItems).map(escapeMarkdownText).join(", ")}`];
+      if (maxItems2 === 0) return [`${label2} ${formatCount(names.length)} (names left out)`];
+      return [`${label2} ${limitItems(names, maxItems2).map(escapeMarkdownText).join(", ")}`];
     };
     const parts = [...part("added", added), ...part("removed", removed), ...part("changed kind:", kindChanged)];
     return `Feature set: ${parts.join("; ")}.`;
@@ -18235,6 +18259,7 @@ ${items}`;
       `### ${escapeMarkdownText(tables.heading)}`,
       escapeMarkdownText(report.headline),
       ...score2 === null ? [] : [score2],
+      ...tables.rowSampling.length === 0 ? [] : [tables.rowSampling.map(escapeMarkdownText).join("\n")],
       findingsSection(layout2.findings),
       ...chartBlock === null ? [] : [chartBlock],
       featureSetSection(layout2.rows),
@@ -18246,7 +18271,7 @@ ${items}`;
       ...layout2.details ? details : []
     ];
   }
-  const join7 = (paragraphs) => `${paragraphs.join("\n\n")}
+  const join9 = (paragraphs) => `${paragraphs.join("\n\n")}
 `;
   const fits = (layout2) => {
     const paragraphs = compose(layout2);
@@ -18256,7 +18281,7 @@ ${items}`;
   for (const keepDetails of [true, false]) {
     for (const rows of rowSteps) {
       const layout2 = { rows, details: keepDetails, findings: findingItems.length };
-      if (fits(layout2)) return join7(compose(layout2));
+      if (fits(layout2)) return join9(compose(layout2));
     }
   }
   const mostFindings = (rows) => {
@@ -18272,7 +18297,7 @@ ${items}`;
   const shortTable = Math.min(10, maxTableRows);
   const besideShortTable = mostFindings(shortTable);
   const layout = besideShortTable > 0 ? { rows: shortTable, details: false, findings: besideShortTable } : { rows: 0, details: false, findings: mostFindings(0) };
-  return fitOrThrow(join7(compose(layout)), maxCharacters);
+  return fitOrThrow(join9(compose(layout)), maxCharacters);
 }
 
 // node_modules/zod/v4/classic/external.js
@@ -19558,16 +19583,16 @@ function cleanEnum(obj) {
 }
 function base64ToUint8Array(base643) {
   const binaryString = atob(base643);
-  const bytes = new Uint8Array(binaryString.length);
+  const bytes2 = new Uint8Array(binaryString.length);
   for (let i = 0; i < binaryString.length; i++) {
-    bytes[i] = binaryString.charCodeAt(i);
+    bytes2[i] = binaryString.charCodeAt(i);
   }
-  return bytes;
+  return bytes2;
 }
-function uint8ArrayToBase64(bytes) {
+function uint8ArrayToBase64(bytes2) {
   let binaryString = "";
-  for (let i = 0; i < bytes.length; i++) {
-    binaryString += String.fromCharCode(bytes[i]);
+  for (let i = 0; i < bytes2.length; i++) {
+    binaryString += String.fromCharCode(bytes2[i]);
   }
   return btoa(binaryString);
 }
@@ -19576,22 +19601,22 @@ function base64urlToUint8Array(base64url3) {
   const padding = "=".repeat((4 - base643.length % 4) % 4);
   return base64ToUint8Array(base643 + padding);
 }
-function uint8ArrayToBase64url(bytes) {
-  return uint8ArrayToBase64(bytes).replace(/\+/g, "-").replace(/\//g, "_").replace(/=/g, "");
+function uint8ArrayToBase64url(bytes2) {
+  return uint8ArrayToBase64(bytes2).replace(/\+/g, "-").replace(/\//g, "_").replace(/=/g, "");
 }
 function hexToUint8Array(hex3) {
   const cleanHex = hex3.replace(/^0x/, "");
   if (cleanHex.length % 2 !== 0) {
     throw new Error("Invalid hex string length");
   }
-  const bytes = new Uint8Array(cleanHex.length / 2);
+  const bytes2 = new Uint8Array(cleanHex.length / 2);
   for (let i = 0; i < cleanHex.length; i += 2) {
-    bytes[i / 2] = Number.parseInt(cleanHex.slice(i, i + 2), 16);
+    bytes2[i / 2] = Number.parseInt(cleanHex.slice(i, i + 2), 16);
   }
-  return bytes;
+  return bytes2;
 }
-function uint8ArrayToHex(bytes) {
-  return Array.from(bytes).map((b) => b.toString(16).padStart(2, "0")).join("");
+function uint8ArrayToHex(bytes2) {
+  return Array.from(bytes2).map((b) => b.toString(16).padStart(2, "0")).join("");
 }
 var Class = class {
   constructor(..._args) {
@@ -21659,11 +21684,11 @@ function capSize(inst, size) {
 var arraySize = (input2) => Array.isArray(input2) ? input2.length : -1;
 var mapSize = (input2) => input2 instanceof Map ? input2.size : -1;
 var setSize = (input2) => input2 instanceof Set ? input2.size : -1;
-function handleArrayResult(result, final, index) {
+function handleArrayResult(result, final, index2) {
   if (result.issues.length) {
-    final.issues.push(...prefixIssues(index, result.issues));
+    final.issues.push(...prefixIssues(index2, result.issues));
   }
-  final.value[index] = result.value;
+  final.value[index2] = result.value;
 }
 var $ZodArray = /* @__PURE__ */ $constructor("$ZodArray", (inst, def) => {
   $ZodType.init(inst, def);
@@ -22275,14 +22300,14 @@ function mergeValues(a, b) {
       return { valid: false, mergeErrorPath: [] };
     }
     const newArray = [];
-    for (let index = 0; index < a.length; index++) {
-      const itemA = a[index];
-      const itemB = b[index];
+    for (let index2 = 0; index2 < a.length; index2++) {
+      const itemA = a[index2];
+      const itemB = b[index2];
       const sharedValue = mergeValues(itemA, itemB);
       if (!sharedValue.valid) {
         return {
           valid: false,
-          mergeErrorPath: [index, ...sharedValue.mergeErrorPath]
+          mergeErrorPath: [index2, ...sharedValue.mergeErrorPath]
         };
       }
       newArray.push(sharedValue.data);
@@ -22295,7 +22320,7 @@ function handleIntersectionResults(result, left, right) {
   const unrecKeys = /* @__PURE__ */ new Map();
   let unrecIssue;
   const keyIssues = /* @__PURE__ */ new Map();
-  const collect = (iss, side2) => {
+  const collect = (iss, side3) => {
     let keys;
     if (iss.code === "unrecognized_keys" && !iss.path?.length) {
       unrecIssue ?? (unrecIssue = iss);
@@ -22311,7 +22336,7 @@ function handleIntersectionResults(result, left, right) {
     for (const k of keys) {
       if (!unrecKeys.has(k))
         unrecKeys.set(k, {});
-      unrecKeys.get(k)[side2] = true;
+      unrecKeys.get(k)[side3] = true;
     }
     return true;
   };
@@ -22433,11 +22458,11 @@ function getTupleOptStart(items, key2) {
   }
   return 0;
 }
-function handleTupleResult(result, final, index) {
+function handleTupleResult(result, final, index2) {
   if (result.issues.length) {
-    final.issues.push(...prefixIssues(index, result.issues));
+    final.issues.push(...prefixIssues(index2, result.issues));
   }
-  final.value[index] = result.value;
+  final.value[index2] = result.value;
 }
 function handleTupleResults(itemResults, final, items, input2, optoutStart) {
   for (let i = 0; i < items.length; i++) {
@@ -23342,7 +23367,7 @@ var recursive = /* @__PURE__ */ new WeakMap();
 var NONE = 0;
 var ASSUMED = 1;
 var PROVEN = 2;
-function isRecursive(inst, stack, resolve8) {
+function isRecursive(inst, stack, resolve10) {
   const cached2 = recursive.get(inst);
   if (cached2 !== void 0)
     return cached2 ? PROVEN : NONE;
@@ -23352,7 +23377,7 @@ function isRecursive(inst, stack, resolve8) {
   let result = NONE;
   const check2 = (child2) => {
     if (result !== PROVEN && child2?._zod) {
-      const answer = isRecursive(child2, stack, resolve8);
+      const answer = isRecursive(child2, stack, resolve10);
       if (answer > result)
         result = answer;
     }
@@ -23363,7 +23388,7 @@ function isRecursive(inst, stack, resolve8) {
       const desc = Object.getOwnPropertyDescriptor(sh, key2);
       if (spread && !desc.enumerable)
         continue;
-      const child2 = desc.get ? ASSUMED : desc.value?._zod ? isRecursive(desc.value, stack, resolve8) : NONE;
+      const child2 = desc.get ? ASSUMED : desc.value?._zod ? isRecursive(desc.value, stack, resolve10) : NONE;
       if (child2 > answer)
         answer = child2;
     }
@@ -23427,7 +23452,7 @@ function isRecursive(inst, stack, resolve8) {
       break;
     // `$ZodLazy` caches its inner on the def, so a resolved edge is followed exactly
     case "lazy": {
-      const inner = def._cachedInner ?? (resolve8 ? inst._zod.innerType : void 0);
+      const inner = def._cachedInner ?? (resolve10 ? inst._zod.innerType : void 0);
       merge2(inner ? isRecursive(inner, stack, false) : ASSUMED);
       break;
     }
@@ -27625,11 +27650,11 @@ function ko_default() {
 }
 
 // node_modules/zod/v4/locales/lt.js
-var capitalizeFirstCharacter = (text4) => {
-  return text4.charAt(0).toUpperCase() + text4.slice(1);
+var capitalizeFirstCharacter = (text5) => {
+  return text5.charAt(0).toUpperCase() + text5.slice(1);
 };
-function getUnitTypeFromNumber(number4) {
-  const abs = Math.abs(number4);
+function getUnitTypeFromNumber(number5) {
+  const abs = Math.abs(number5);
   const last = abs % 10;
   const last2 = abs % 100;
   if (last2 >= 11 && last2 <= 19 || last === 0)
@@ -34480,8 +34505,8 @@ var contributors = {
 function aggregateChecks(schema) {
   const agg = {};
   const def = schema._zod.def;
-  const list3 = schema._zod.traits.has("$ZodCheck") ? [schema, ...def.checks ?? []] : def.checks ?? [];
-  for (const ch of list3)
+  const list4 = schema._zod.traits.has("$ZodCheck") ? [schema, ...def.checks ?? []] : def.checks ?? [];
+  for (const ch of list4)
     contributors[ch._zod.def.check]?.(agg, ch._zod.def);
   const bag = schema._zod.bag;
   if (bag.minimum !== void 0)
@@ -34842,7 +34867,7 @@ var tupleProcessor = (schema, ctx, _json, params) => {
       break;
     minItems--;
   }
-  const maxItems = def.items.length;
+  const maxItems2 = def.items.length;
   const isClosed = !def.rest;
   if (ctx.target === "draft-2020-12") {
     json2.prefixItems = prefixItems;
@@ -34854,7 +34879,7 @@ var tupleProcessor = (schema, ctx, _json, params) => {
     if (minItems > 0)
       json2.minItems = minItems;
     if (isClosed)
-      json2.maxItems = maxItems;
+      json2.maxItems = maxItems2;
   } else if (ctx.target === "openapi-3.0") {
     json2.items = {
       anyOf: prefixItems
@@ -34865,7 +34890,7 @@ var tupleProcessor = (schema, ctx, _json, params) => {
     if (minItems > 0)
       json2.minItems = minItems;
     if (isClosed)
-      json2.maxItems = maxItems;
+      json2.maxItems = maxItems2;
   } else {
     json2.items = prefixItems;
     if (isClosed) {
@@ -34876,7 +34901,7 @@ var tupleProcessor = (schema, ctx, _json, params) => {
     if (minItems > 0)
       json2.minItems = minItems;
     if (isClosed)
-      json2.maxItems = maxItems;
+      json2.maxItems = maxItems2;
   }
   const { minimum, maximum } = aggregateChecks(schema);
   if (typeof minimum === "number")
@@ -37128,7 +37153,7 @@ function detectVersion(schema, defaultTarget) {
   return defaultTarget ?? "draft-2020-12";
 }
 function applyMinItems(items, minItems) {
-  return items.map((item, index) => index < minItems ? item : item.optional());
+  return items.map((item, index2) => index2 < minItems ? item : item.optional());
 }
 function decodeJSONPointerSegment(segment) {
   return segment.replace(/~1/g, "/").replace(/~0/g, "~");
@@ -37938,11 +37963,11 @@ function deepPartial(schema) {
 }
 
 // node_modules/zod/v4/classic/in-out.js
-function withChecks(side2, checks) {
+function withChecks(side3, checks) {
   if (!checks?.length)
-    return side2;
-  const def = side2._zod.def;
-  return clone(side2, mergeDefs(def, { checks: [...def.checks ?? [], ...checks] }), { parent: true });
+    return side3;
+  const def = side3._zod.def;
+  return clone(side3, mergeDefs(def, { checks: [...def.checks ?? [], ...checks] }), { parent: true });
 }
 function outSide(def) {
   return withChecks(def.out, def.checks);
@@ -38082,6 +38107,7 @@ var featureRowSchema = external_exports.strictObject({
     positionsMoved: external_exports.int().nullable()
   }).optional()
 }).meta({ id: "FeatureRow" });
+var rowSampleSchema = external_exports.strictObject({ rows: count, kept: count, seed: uint322 }).meta({ id: "RowSample" });
 var sideSummarySchema = external_exports.strictObject({
   side: external_exports.enum(["base", "head"]),
   ref: text,
@@ -38096,7 +38122,8 @@ var sideSummarySchema = external_exports.strictObject({
   scoreMean: finite,
   scoreSd: undefinedNumber,
   refitSeeds: list(uint322),
-  noiseCovers: external_exports.enum(["refits-and-draws", "draws-only"])
+  noiseCovers: external_exports.enum(["refits-and-draws", "draws-only"]),
+  rowSampling: external_exports.strictObject({ train: rowSampleSchema.optional(), holdout: rowSampleSchema.optional() }).optional()
 }).meta({ id: "SideSummary" });
 var rankAgreementSchema = external_exports.strictObject({
   kendallTau: undefinedNumber,
@@ -38175,6 +38202,7 @@ var gateReportSchema = external_exports.strictObject({
     checks: record2(evidenceSchema)
   }),
   timings: record2(external_exports.number().min(0)),
+  cache: external_exports.strictObject({ reused: list(text), measured: list(text), uncacheable: list(text) }).optional(),
   sensitivity: sensitivityReportSchema.optional(),
   gain: gainReportSchema.optional(),
   groups: list(external_exports.strictObject({ name: text, members: list(text), automatic: external_exports.boolean(), weakestLink: finite.nullable() })).optional(),
@@ -38189,8 +38217,8 @@ var gateReportSchema = external_exports.strictObject({
 function fitReportLimits(report) {
   return fit(report, null);
 }
-function cut(text4, max) {
-  return text4.length <= max ? text4 : `${text4.slice(0, max - 1)}…`;
+function cut(text5, max) {
+  return text5.length <= max ? text5 : `${text5.slice(0, max - 1)}…`;
 }
 function fit(value3, key2) {
   if (typeof value3 === "string") return cut(value3, key2 === "message" ? reportLimits.maxMessageLength : reportLimits.maxTextLength);
@@ -38202,11 +38230,11 @@ function fit(value3, key2) {
 }
 
 // src/core/report/render-text.ts
-var length = (text4) => [...text4].length;
-function wrap(text4, width, indent, hangingIndent = indent) {
+var length = (text5) => [...text5].length;
+function wrap(text5, width, indent, hangingIndent = indent) {
   const lines = [];
   let line = "";
-  for (const word of escapePlainText(text4).split(" ").filter((w) => w !== "")) {
+  for (const word of escapePlainText(text5).split(" ").filter((w) => w !== "")) {
     const lead = lines.length === 0 ? indent : hangingIndent;
     if (line !== "" && length(lead) + length(line) + 1 + length(word) > width) {
       lines.push(lead + line);
@@ -38283,7 +38311,7 @@ function renderText(report, options = {}) {
   );
   const features = tables.features.rows.length === 0 ? section("Feature importance", ["  No features were measured."]) : section("Feature importance", [...wrap(importanceNote, width, "  "), "", ...longTable(tables.features)]);
   const { added, removed, kindChanged, unchangedCount } = tables.featureSet;
-  const names = (label2, list3) => list3.length === 0 ? [] : wrap(`${label2} (${formatCount(list3.length)}): ${limitItems(list3, maxTableRows).join(", ")}`, width, "  ");
+  const names = (label2, list4) => list4.length === 0 ? [] : wrap(`${label2} (${formatCount(list4.length)}): ${limitItems(list4, maxTableRows).join(", ")}`, width, "  ");
   const featureSet = section(
     "Feature set",
     unchangedCount !== null ? [`  The same ${formatCount(unchangedCount)} features on both sides.`] : [...names("Added", added), ...names("Removed", removed), ...names("Changed kind", kindChanged)]
@@ -38301,13 +38329,14 @@ function renderText(report, options = {}) {
     ]),
     section(
       "Timings (wall-clock seconds; they vary from run to run)",
-      tables.timings.rows.length > 0 ? longTable(tables.timings) : ["  None recorded."]
+      [...tables.timings.rows.length > 0 ? longTable(tables.timings) : ["  None recorded."], ...tables.cacheNote ? wrap(tables.cacheNote, width, "  ") : []]
     )
   ];
   return [
     tables.heading,
     wrap(report.headline, width, "").join("\n"),
     ...tables.score ? [[tables.score.sentence, ...tables.score.evidenceLines].flatMap((line) => wrap(line, width, "")).join("\n")] : [],
+    ...tables.rowSampling.length > 0 ? [tables.rowSampling.flatMap((line) => wrap(line, width, "")).join("\n")] : [],
     findings,
     features,
     featureSet,
@@ -40058,8 +40087,8 @@ var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 var LINE_NOTE = "(the header is line 1)";
 var INFINITY_WORD = /^[+-]?(?:inf|infinity)$/i;
 var MAX_MAGNITUDE = 1e100;
-function parseCsv(text4, options) {
-  const { header, rows, lineOf } = readRecords(text4, options.source);
+function parseCsv(text5, options) {
+  const { header, rows, lineOf } = readRecords(text5, options.source);
   return tableToDataset({ header, rows, place: (row) => `line ${lineOf(row)} ${LINE_NOTE}`, headerPlace: "line 1" }, options);
 }
 function tableToDataset(table2, options) {
@@ -40151,14 +40180,14 @@ function failNotNumeric(source, line, column, value3, reason) {
     "Correct the value, or write NA or leave the cell empty if it is missing."
   );
 }
-function readRecords(text4, source) {
-  if (text4.replace(/^\uFEFF/, "").trim() === "") {
+function readRecords(text5, source) {
+  if (text5.replace(/^\uFEFF/, "").trim() === "") {
     throw new UserError(`${source} is empty.`, "Write the column names on the first line and one row per example below it.");
   }
   const ends = [];
   let records;
   try {
-    records = parse3(text4, {
+    records = parse3(text5, {
       bom: true,
       relax_column_count: true,
       record_delimiter: ["\r\n", "\n", "\r"],
@@ -40169,7 +40198,7 @@ function readRecords(text4, source) {
     });
   } catch (error62) {
     if (!(error62 instanceof CsvError)) throw error62;
-    const line = lineAtByte(text4, ends.length === 0 ? 0 : ends[ends.length - 1]);
+    const line = lineAtByte(text5, ends.length === 0 ? 0 : ends[ends.length - 1]);
     throw new UserError(
       `${at2(source, `line ${line} ${LINE_NOTE}`)}: ${describeCsvError(error62)}.`,
       'Enclose a field that holds a comma, a quote or a line break in double quotes, and write a quote inside it as two ("").'
@@ -40189,7 +40218,7 @@ function readRecords(text4, source) {
   }
   const header = records[headerRecord];
   const rows = dataRecords.map((r) => records[r]);
-  const lineOf = (row) => lineAtByte(text4, starts[dataRecords[row]]);
+  const lineOf = (row) => lineAtByte(text5, starts[dataRecords[row]]);
   for (let i = 0; i < rows.length; i++) {
     if (rows[i].length !== header.length) {
       throw new UserError(
@@ -40212,38 +40241,38 @@ function describeCsvError(error62) {
       return `the CSV cannot be read (${error62.message})`;
   }
 }
-function lineAtByte(text4, byteOffset) {
-  const bytes = new TextEncoder().encode(text4);
+function lineAtByte(text5, byteOffset) {
+  const bytes2 = new TextEncoder().encode(text5);
   let line = 1;
-  for (let b = 0; b < byteOffset && b < bytes.length; b++) {
-    if (bytes[b] === 10 || bytes[b] === 13 && bytes[b + 1] !== 10) line++;
+  for (let b = 0; b < byteOffset && b < bytes2.length; b++) {
+    if (bytes2[b] === 10 || bytes2[b] === 13 && bytes2[b + 1] !== 10) line++;
   }
   return line;
 }
 function checkHeader(header, source, place) {
-  const index = /* @__PURE__ */ new Map();
+  const index2 = /* @__PURE__ */ new Map();
   header.forEach((raw, j) => {
     const name = raw.trim();
     if (name === "") {
       throw new UserError(`${source}, ${place}: column ${j + 1} of the header has no name.`, "Name every column on the first line, or delete the unnamed column.");
     }
-    const earlier = index.get(name);
+    const earlier = index2.get(name);
     if (earlier !== void 0) {
       throw new UserError(
         `${source}, ${place}: the header names two columns ${show(name)} (columns ${earlier + 1} and ${j + 1}).`,
         "Give every column its own name."
       );
     }
-    index.set(name, j);
+    index2.set(name, j);
   });
-  return index;
+  return index2;
 }
 function closestColumns(name, columns, limit = 5) {
   const wanted = name.toLowerCase();
-  return columns.map((column, index) => {
+  return columns.map((column, index2) => {
     const lower = column.toLowerCase();
     const contains = lower.includes(wanted) || wanted.includes(lower) ? 0 : 1;
-    return { column, index, distance: levenshteinDistance(wanted, lower), contains };
+    return { column, index: index2, distance: levenshteinDistance(wanted, lower), contains };
   }).sort((a, b) => a.distance - b.distance || a.contains - b.contains || a.index - b.index).slice(0, limit).map((x) => x.column);
 }
 function failMissingTarget(source, name, header) {
@@ -40502,9 +40531,9 @@ function selectRows(data, indices) {
   return result;
 }
 function selectFeatures(data, names) {
-  const index = new Map(data.features.map((f, j) => [f.name, j]));
+  const index2 = new Map(data.features.map((f, j) => [f.name, j]));
   const picked = names.map((name) => {
-    const j = index.get(name);
+    const j = index2.get(name);
     if (j === void 0) throw new RangeError(`selectFeatures: no feature named '${name}'`);
     return j;
   });
@@ -40520,10 +40549,10 @@ function selectFeatures(data, names) {
 }
 
 // src/core/data/fnv1a32.ts
-function fnv1a32(bytes, basis = 2166136261) {
+function fnv1a32(bytes2, basis = 2166136261) {
   let h = basis >>> 0;
-  for (let i = 0; i < bytes.length; i++) {
-    h ^= bytes[i];
+  for (let i = 0; i < bytes2.length; i++) {
+    h ^= bytes2[i];
     h = Math.imul(h, 16777619);
   }
   return h >>> 0;
@@ -40558,12 +40587,12 @@ function splitRows(dataset, options) {
   const holdoutIndices = [];
   const trainIndices = [];
   for (let i = 0; i < dataset.rows; i++) (isHoldout[i] ? holdoutIndices : trainIndices).push(i);
-  for (const [side2, indices] of [["training part", trainIndices], ["holdout", holdoutIndices]]) {
+  for (const [side3, indices] of [["training part", trainIndices], ["holdout", holdoutIndices]]) {
     if (indices.length === 0) {
       const count4 = by === void 0 ? dataset.rows : new Set(dataset.ids.values).size;
       const what = `its ${count4} ${by === void 0 ? "row" : "distinct id"}${count4 === 1 ? "" : "s"}`;
       throw new UserError(
-        `Splitting ${dataset.source} with a holdout fraction of ${fraction} leaves the ${side2} empty (${what}).`,
+        `Splitting ${dataset.source} with a holdout fraction of ${fraction} leaves the ${side3} empty (${what}).`,
         "Use a fraction further from 0 and 1, or more data."
       );
     }
@@ -40623,13 +40652,13 @@ var import_yaml = __toESM(require_dist(), 1);
 
 // src/core/policy/format-key-path.ts
 function formatKeyPath(path) {
-  let text4 = "";
+  let text5 = "";
   for (const segment of path) {
-    if (typeof segment === "number") text4 += `[${segment}]`;
-    else if (/^[A-Za-z_][A-Za-z0-9_-]*$/.test(String(segment))) text4 += text4 ? `.${String(segment)}` : String(segment);
-    else text4 += `['${String(segment).replaceAll("\\", "\\\\").replaceAll("'", "\\'")}']`;
+    if (typeof segment === "number") text5 += `[${segment}]`;
+    else if (/^[A-Za-z_][A-Za-z0-9_-]*$/.test(String(segment))) text5 += text5 ? `.${String(segment)}` : String(segment);
+    else text5 += `['${String(segment).replaceAll("\\", "\\\\").replaceAll("'", "\\'")}']`;
   }
-  return text4;
+  return text5;
 }
 
 // src/core/policy/policy-defaults.ts
@@ -40643,7 +40672,9 @@ function deepFreeze(value3) {
 var defaultTopLevel = deepFreeze({ seed: 1 });
 var defaultData = deepFreeze({
   reference: { kind: "train" },
-  split: { fraction: 0.2 }
+  split: { fraction: 0.2 },
+  maxTrainRows: 1e5,
+  maxHoldoutRows: 5e4
 });
 var defaultPrepare = deepFreeze({ timeoutSeconds: 600 });
 var defaultBoosting = deepFreeze({
@@ -40758,6 +40789,8 @@ var dataSchema = mapping({
   split: splitSchema.optional(),
   reference: text2("train, holdout or a file path").default(defaultData.reference.kind),
   unlabeled: text2("a file path").optional(),
+  max_train_rows: wholeNumber(20).default(defaultData.maxTrainRows),
+  max_holdout_rows: wholeNumber(10).default(defaultData.maxHoldoutRows),
   columns: external_exports.preprocess((raw) => raw === null ? {} : raw, external_exports.record(external_exports.string(), oneOf(columnRoles), { error: "a mapping of column names to roles" })).default({})
 }, "a mapping with train and one of holdout, split").superRefine((data, ctx) => {
   if (data.holdout !== void 0 && data.split !== void 0) {
@@ -40936,9 +40969,9 @@ var slicesSchema = external_exports.preprocess(
   (raw) => raw === null ? [] : raw,
   external_exports.array(mapping({ name: text2("a slice name"), where: filterSchema }, "a mapping with name and where"), { error: "a list of slices, each with name and where" })
 ).superRefine((slices, ctx) => {
-  slices.forEach((slice, index) => {
-    if (slices.findIndex((s) => s.name === slice.name) !== index) {
-      rule(ctx, [index, "name"], `repeats the slice name '${slice.name}'; each slice needs its own name.`, "Rename one of the two slices.", void 0, true);
+  slices.forEach((slice, index2) => {
+    if (slices.findIndex((s) => s.name === slice.name) !== index2) {
+      rule(ctx, [index2, "name"], `repeats the slice name '${slice.name}'; each slice needs its own name.`, "Rename one of the two slices.", void 0, true);
     }
   });
 });
@@ -40990,18 +41023,18 @@ function checkAcrossSections(policy, ctx) {
   }
   const checkNames = (path, names, what) => {
     const keyPath = formatKeyPath(path);
-    names.forEach((name, index) => {
-      if (names.indexOf(name) !== index) {
-        rule(ctx, path, `lists '${name}' twice; ${what} names each column once.`, `Delete the second '${name}' from ${keyPath}.`, [index]);
+    names.forEach((name, index2) => {
+      if (names.indexOf(name) !== index2) {
+        rule(ctx, path, `lists '${name}' twice; ${what} names each column once.`, `Delete the second '${name}' from ${keyPath}.`, [index2]);
       } else if (name === target) {
-        rule(ctx, path, `lists '${name}', which is the target; the target cannot be a feature.`, `Remove '${name}' from ${keyPath}.`, [index]);
+        rule(ctx, path, `lists '${name}', which is the target; the target cannot be a feature.`, `Remove '${name}' from ${keyPath}.`, [index2]);
       } else if (roles[name] === "id" || roles[name] === "ignore") {
         rule(
           ctx,
           path,
           `lists '${name}', which data.columns marks as ${roles[name]}; only features can be listed here.`,
           `Remove '${name}' from ${keyPath}, or give it the role numeric or categorical in data.columns.`,
-          [index]
+          [index2]
         );
       }
     });
@@ -41059,7 +41092,7 @@ function toSliceFilter(f) {
   };
 }
 function toGateConfig(policy) {
-  const { data, importance, checks } = policy;
+  const { data, importance: importance2, checks } = policy;
   const reference = data.reference === "train" || data.reference === "holdout" ? { kind: data.reference } : { kind: "file", path: data.reference };
   const holdout = data.split ? { kind: "split", fraction: data.split.fraction, ...data.split.by !== void 0 ? { by: data.split.by } : {} } : { kind: "file", path: data.holdout };
   return deepFreeze({
@@ -41072,20 +41105,23 @@ function toGateConfig(policy) {
       holdout,
       reference,
       ...data.unlabeled !== void 0 ? { unlabeled: data.unlabeled } : {},
-      columns: nullPrototype(Object.entries(data.columns))
+      columns: nullPrototype(Object.entries(data.columns)),
+      maxTrainRows: data.max_train_rows,
+      maxHoldoutRows: data.max_holdout_rows
     },
     ...policy.prepare ? { prepare: { command: policy.prepare.command, timeoutSeconds: policy.prepare.timeout_seconds } } : {},
     model: toModelConfig(policy.model),
     importance: {
-      metric: importance.metric ?? defaultMetric[policy.task],
-      draws: importance.draws,
-      refits: importance.refits,
-      referenceRows: importance.reference_rows,
-      evaluationRows: importance.evaluation_rows,
-      dropColumnTop: importance.drop_column_top,
-      groups: nullPrototype(Object.entries(importance.groups)),
-      groupThreshold: importance.group_threshold
+      metric: importance2.metric ?? defaultMetric[policy.task],
+      draws: importance2.draws,
+      refits: importance2.refits,
+      referenceRows: importance2.reference_rows,
+      evaluationRows: importance2.evaluation_rows,
+      dropColumnTop: importance2.drop_column_top,
+      groups: nullPrototype(Object.entries(importance2.groups)),
+      groupThreshold: importance2.group_threshold
     },
+    checksAsWritten: checks,
     checks: {
       leakage: {
         action: checks.leakage.action,
@@ -41171,8 +41207,8 @@ function describePolicyKey(path) {
 
 // src/core/policy/excerpt.ts
 var unsafe = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069\ufeff]/g;
-function excerpt(text4, max = 40) {
-  const cut2 = [...text4].length > max ? `${[...text4].slice(0, max).join("")}…` : text4;
+function excerpt(text5, max = 40) {
+  const cut2 = [...text5].length > max ? `${[...text5].slice(0, max).join("")}…` : text5;
   return cut2.replace(unsafe, (c) => c === "\n" ? "\\n" : c === "	" ? "\\t" : c === "\r" ? "\\r" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`);
 }
 
@@ -41203,20 +41239,20 @@ function describeNode(node2) {
   if ((0, import_yaml.isScalar)(node2)) return `'${excerpt(String(node2.value))}'`;
   return "something else";
 }
-function readDocument(text4, source) {
+function readDocument(text5, source) {
   const empty = new UserError(
     `${source}: the file is empty; a policy needs at least version, task, target, data and model.`,
     "Run 'plumbline init' to write a starter policy, or see docs/policy.md."
   );
-  if (text4.trim() === "") throw empty;
-  if (text4.length > maxPolicyCharacters) {
+  if (text5.trim() === "") throw empty;
+  if (text5.length > maxPolicyCharacters) {
     throw new UserError(
-      `${source} is ${text4.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
+      `${source} is ${text5.length} characters long; a policy is at most ${maxPolicyCharacters}.`,
       "Check that the policy path names plumbline.yml; a policy is a few dozen lines (docs/policy.md)."
     );
   }
   const lines = new import_yaml.LineCounter();
-  const doc = (0, import_yaml.parseDocument)(text4, { schema: "failsafe", uniqueKeys: false, lineCounter: lines, prettyErrors: false });
+  const doc = (0, import_yaml.parseDocument)(text5, { schema: "failsafe", uniqueKeys: false, lineCounter: lines, prettyErrors: false });
   const place = (offset) => {
     const { line, col } = lines.linePos(offset);
     return { line, column: col, offset };
@@ -41246,7 +41282,7 @@ function readDocument(text4, source) {
     );
   }
   const positions = /* @__PURE__ */ new Map();
-  positions.set(pathId([]), { value: place(root2.range?.[0] ?? 0), end: text4.length });
+  positions.set(pathId([]), { value: place(root2.range?.[0] ?? 0), end: text5.length });
   const expanding = /* @__PURE__ */ new Set();
   let budget = maxPolicyValues;
   const toPlain = (node2, path) => {
@@ -41269,10 +41305,10 @@ function readDocument(text4, source) {
     }
     if ((0, import_yaml.isScalar)(node2)) return node2.type === "PLAIN" && node2.value === "" ? null : String(node2.value);
     if ((0, import_yaml.isSeq)(node2)) {
-      return node2.items.map((item, index) => {
+      return node2.items.map((item, index2) => {
         const range = item?.range;
-        if (range) positions.set(pathId([...path, index]), { value: place(range[0]), end: range[1] });
-        return toPlain(item, [...path, index]);
+        if (range) positions.set(pathId([...path, index2]), { value: place(range[0]), end: range[1] });
+        return toPlain(item, [...path, index2]);
       });
     }
     if ((0, import_yaml.isMap)(node2)) {
@@ -41298,7 +41334,7 @@ function readDocument(text4, source) {
         seen.set(key2, keyPlace);
         const valueNode = pair.value;
         const valueRange = valueNode?.range ?? [keyNode.range[1] + 1, keyNode.range[1] + 1];
-        positions.set(pathId([...path, key2]), { key: keyPlace, value: place(Math.min(valueRange[0], text4.length)), end: valueRange[1] });
+        positions.set(pathId([...path, key2]), { key: keyPlace, value: place(Math.min(valueRange[0], text5.length)), end: valueRange[1] });
         result[key2] = toPlain(valueNode, [...path, key2]);
       }
       return result;
@@ -41379,8 +41415,8 @@ function describeIssue(issue2, raw, positions, source) {
     fix
   }];
 }
-function readPolicy(text4, source) {
-  const { value: value3, positions } = readDocument(text4, source);
+function readPolicy(text5, source) {
+  const { value: value3, positions } = readDocument(text5, source);
   const result = policySchema.safeParse(value3);
   if (!result.success) {
     const problems = result.error.issues.flatMap((issue2) => describeIssue(issue2, value3, positions, source));
@@ -41390,8 +41426,8 @@ function readPolicy(text4, source) {
   }
   return { config: result.data, positions };
 }
-function readPolicyFile(text4, options) {
-  return { ...readPolicy(text4, options.source), source: options.source };
+function readPolicyFile(text5, options) {
+  return { ...readPolicy(text5, options.source), source: options.source };
 }
 function listColumns(columns, most = 20) {
   const shown = columns.slice(0, most).join(", ");
@@ -41430,803 +41466,16 @@ function checkPolicyAgainstColumns(policy, columns, options = {}) {
         fix: `Rename the group, for example to '${group}_group'.`
       });
     }
-    members2.forEach((member, index) => missing(path, [...path, index], "lists", member, `Correct or remove '${member}' in ${formatKeyPath(path)}.`));
+    members2.forEach((member, index2) => missing(path, [...path, index2], "lists", member, `Correct or remove '${member}' in ${formatKeyPath(path)}.`));
   }
   if (config2.model.kind === "onnx" && config2.model.features) {
     const path = ["model", "onnx", "features"];
-    config2.model.features.forEach((name, index) => missing(path, [...path, index], "lists", name, `Correct or remove '${name}' in model.onnx.features.`));
+    config2.model.features.forEach((name, index2) => missing(path, [...path, index2], "lists", name, `Correct or remove '${name}' in model.onnx.features.`));
   }
   if (problems.length > 0) {
     problems.sort((a, b) => a.offset - b.offset);
     throw new UserError(problems[0].message, problems[0].fix);
   }
-}
-
-// src/core/checks/feature-set.ts
-function diffFeatureSets(base, head) {
-  const baseKinds = new Map(base.features.map((f) => [f.name, f.kind]));
-  const headKinds = new Map(head.features.map((f) => [f.name, f.kind]));
-  return {
-    added: head.features.filter((f) => !baseKinds.has(f.name)).map((f) => f.name),
-    removed: base.features.filter((f) => !headKinds.has(f.name)).map((f) => f.name),
-    kindChanged: head.features.filter((f) => baseKinds.has(f.name) && baseKinds.get(f.name) !== f.kind).map((f) => ({ name: f.name, base: baseKinds.get(f.name), head: f.kind }))
-  };
-}
-function changedFeatures(base, head) {
-  const pick2 = base.holdout.rows === head.holdout.rows ? [base.holdout, head.holdout] : base.train.rows === head.train.rows ? [base.train, head.train] : null;
-  const changed = /* @__PURE__ */ new Set();
-  if (!pick2) return changed;
-  const [b, h] = pick2;
-  const bIndex = new Map(b.features.map((f, j) => [f.name, j]));
-  h.features.forEach((hf, hj) => {
-    const bj = bIndex.get(hf.name);
-    if (bj === void 0) return;
-    const bf = b.features[bj];
-    const bc = b.columns[bj];
-    const hc = h.columns[hj];
-    const decode4 = (kind, categories, v) => Number.isNaN(v) ? "NaN" : kind === "categorical" ? categories?.[v] ?? String(v) : v;
-    for (let i = 0; i < hc.length; i++) {
-      if (decode4(bf.kind, bf.categories, bc[i]) !== decode4(hf.kind, hf.categories, hc[i])) {
-        changed.add(hf.name);
-        return;
-      }
-    }
-  });
-  return changed;
-}
-function featureSetFindings(featureSet, head) {
-  const findings = [];
-  const { added, removed, kindChanged } = featureSet;
-  if (added.length || removed.length || kindChanged.length) {
-    const parts = [
-      added.length ? `added ${list2(added)}` : "",
-      removed.length ? `removed ${list2(removed)}` : "",
-      kindChanged.length ? `changed the kind of ${list2(kindChanged.map((k) => `${k.name} (${k.base} → ${k.head})`))}` : ""
-    ].filter(Boolean);
-    findings.push({
-      kind: "feature-set",
-      severity: "info",
-      title: `This pull request ${parts.join("; ")}.`,
-      message: `Features are compared by column name. ${added.length} added, ${removed.length} removed, ${kindChanged.length} changed kind.`,
-      evidence: { added: added.length, removed: removed.length, kindChanged: kindChanged.length }
-    });
-  }
-  const byName = new Map(head.importances.map((u) => [u.name, u]));
-  for (const name of added) {
-    const unit = byName.get(name);
-    if (unit && !unit.isAboveFloor) {
-      findings.push({
-        kind: "unused-feature",
-        severity: "info",
-        feature: name,
-        title: `The added feature ${name} is not measurably used by the candidate model.`,
-        message: `Its importance ${formatNumber(unit.mean)} has a 95% interval [${formatNumber(unit.lower)}, ${formatNumber(unit.upper)}] that does not lie above zero.`,
-        evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper }
-      });
-    }
-  }
-  return findings;
-}
-function list2(names) {
-  return names.length <= 5 ? names.join(", ") : `${names.slice(0, 5).join(", ")} and ${names.length - 5} more`;
-}
-
-// src/core/data/align-holdout.ts
-function alignHoldout(base, head) {
-  if (base.rows !== head.rows) return head;
-  const order3 = base.ids && head.ids ? orderById(base, head) : orderByContent(base, head);
-  if (!order3 || order3.every((i, k) => i === k)) return head;
-  return selectRows(head, order3);
-}
-function orderById(base, head) {
-  const position = /* @__PURE__ */ new Map();
-  head.ids.values.forEach((id, i) => position.set(id, i));
-  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return null;
-  const order3 = [];
-  for (const id of base.ids.values) {
-    const i = position.get(id);
-    if (i === void 0) return null;
-    order3.push(i);
-  }
-  return order3;
-}
-function orderByContent(base, head) {
-  if (!base.target || !head.target) return null;
-  const headIndex = new Map(head.features.map((f, j) => [f.name, j]));
-  const shared2 = base.features.flatMap((f, j) => {
-    const hj = headIndex.get(f.name);
-    return hj === void 0 ? [] : [{ b: j, h: hj }];
-  });
-  const cell = (data, j, i) => {
-    const v = data.columns[j][i];
-    const categories = data.features[j].categories;
-    return Number.isNaN(v) ? "NaN" : data.features[j].kind === "categorical" && categories ? `c:${categories[v] ?? v}` : String(v);
-  };
-  const key2 = (data, side2, i) => [String(data.target.values[i]), ...shared2.map((s) => cell(data, s[side2], i))].join("\0");
-  const waiting = /* @__PURE__ */ new Map();
-  for (let i = head.rows - 1; i >= 0; i--) {
-    const k = key2(head, "h", i);
-    const list3 = waiting.get(k);
-    if (list3) list3.push(i);
-    else waiting.set(k, [i]);
-  }
-  const order3 = [];
-  for (let i = 0; i < base.rows; i++) {
-    const next = waiting.get(key2(base, "b", i))?.pop();
-    if (next === void 0) return null;
-    order3.push(next);
-  }
-  return order3;
-}
-
-// src/core/gate/gate-settings.ts
-var fixedSettings = {
-  minRelativeChange: 0.2,
-  persistence: 0.9,
-  singleFeatureTop: 3,
-  singleFeatureMaxExtra: 20,
-  slices: { maxLevels: 20, minRows: 30 },
-  correlationRows: 5e3,
-  scoreBlockAtSds: 3,
-  pairedBootstrapReplicates: 200
-};
-function builtinLearnerSettings(config2) {
-  const m = config2.model.kind === "builtin" ? config2.model : { learner: "gradient-boosting", ...defaultBoosting };
-  return {
-    learner: m.learner,
-    boosting: {
-      trees: m.trees,
-      maxDepth: m.maxDepth,
-      learningRate: m.learningRate,
-      minRowsPerLeaf: m.minRowsPerLeaf,
-      l2: m.l2,
-      rowSubsample: m.rowSubsample,
-      columnSubsample: m.columnSubsample
-    },
-    maxBins: m.maxBins,
-    linearL2: m.l2
-  };
-}
-function gateSettings(config2) {
-  const groups = Object.entries(config2.importance.groups).map(([name, members2]) => ({ name, members: members2 }));
-  const learner = builtinLearnerSettings(config2);
-  const checks = {
-    leakage: config2.checks.leakage,
-    rankShift: { ...config2.checks.rankShift, minRelativeChange: fixedSettings.minRelativeChange },
-    rankAgreement: {
-      action: config2.checks.rankShift.action,
-      agreementPercentile: config2.checks.rankShift.agreementPercentile,
-      persistence: fixedSettings.persistence
-    },
-    score: { ...config2.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
-    holdoutRows: config2.checks.holdoutRows.action,
-    sensitivity: config2.checks.sensitivity,
-    gain: config2.checks.gain,
-    slices: config2.checks.slices,
-    correlatedGroups: config2.checks.correlatedGroups
-  };
-  return {
-    task: config2.task,
-    target: config2.target,
-    seed: config2.seed,
-    metric: config2.importance.metric,
-    draws: config2.importance.draws,
-    refits: config2.importance.refits,
-    evaluationRows: config2.importance.evaluationRows,
-    referenceRows: config2.importance.referenceRows,
-    dropColumnTop: config2.importance.dropColumnTop,
-    groups,
-    groupThreshold: config2.importance.groupThreshold,
-    /** Filled by withCorrelatedGroups once the head's training data is known. */
-    automaticGroups: [],
-    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
-    sensitivity: config2.checks.sensitivity.action === "off" ? void 0 : config2.task === "binary" ? { threshold: 0.5 } : {},
-    learner,
-    policySlices: config2.slices,
-    pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
-    singleFeatureTop: fixedSettings.singleFeatureTop,
-    singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
-    slices: fixedSettings.slices,
-    // One-feature models always use gradient boosting: a linear one-feature model misses a
-    // non-monotone leak.
-    singleFeatureLearner: { ...learner, learner: "gradient-boosting" },
-    checks,
-    // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
-    // policy does not expose are marked fixed.
-    evidence: {
-      leakage: snakeKeys({ ...config2.checks.leakage, reviewedColumns: config2.checks.leakage.reviewedColumns.join(", ") || "none" }),
-      rank_shift: {
-        ...snakeKeys(config2.checks.rankShift),
-        "min_relative_change (fixed)": fixedSettings.minRelativeChange,
-        "rbo_persistence (fixed)": fixedSettings.persistence
-      },
-      score: { ...snakeKeys(config2.checks.score), "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
-      holdout_rows: snakeKeys(config2.checks.holdoutRows),
-      sensitivity: snakeKeys(config2.checks.sensitivity),
-      gain: snakeKeys(config2.checks.gain),
-      slices: snakeKeys(config2.checks.slices),
-      correlated_groups: { ...snakeKeys(config2.checks.correlatedGroups), group_threshold: config2.importance.groupThreshold }
-    }
-  };
-}
-function snakeKeys(values) {
-  return Object.fromEntries(Object.entries(values).map(([key2, value3]) => [key2.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value3]));
-}
-
-// src/core/importance/compute-noise-floor.ts
-function computeNoiseFloor(refits, options = {}) {
-  const level = options.level ?? 0.95;
-  if (refits.length === 0) throw new RangeError("computeNoiseFloor needs at least one refit");
-  const first = refits[0];
-  for (const r of refits) {
-    if (r.length !== first.length || r.some((u, i) => u.name !== first[i].name)) {
-      throw new RangeError("computeNoiseFloor needs the same features in the same order in every refit");
-    }
-  }
-  const refitCount = refits.length;
-  return first.map((unit, index) => {
-    const perRefit = refits.map((r) => r[index].mean);
-    const mean3 = average(perRefit);
-    let within = 0;
-    let withinDf = 0;
-    for (const r of refits) {
-      const d = r[index].draws;
-      if (d.length < 2) continue;
-      const m = average(d);
-      for (const v of d) within += (v - m) ** 2;
-      withinDf += d.length - 1;
-    }
-    const drawSd = withinDf > 0 ? Math.sqrt(within / withinDf) : NaN;
-    let refitSd = NaN;
-    let lower;
-    let upper;
-    if (refitCount >= 2) {
-      refitSd = Math.sqrt(perRefit.reduce((s, v) => s + (v - mean3) ** 2, 0) / (refitCount - 1));
-      const half = studentTQuantile(0.5 + level / 2, refitCount - 1) * (refitSd / Math.sqrt(refitCount));
-      lower = mean3 - half;
-      upper = mean3 + half;
-    } else {
-      const draws = first[index].draws.length;
-      const half = draws >= 2 ? studentTQuantile(0.5 + level / 2, draws - 1) * (drawSd / Math.sqrt(draws)) : NaN;
-      lower = mean3 - half;
-      upper = mean3 + half;
-    }
-    const rowVariances = refits.map((r) => r[index].rowSe).filter((v) => v !== void 0 && Number.isFinite(v));
-    if (rowVariances.length === refitCount) {
-      const rowHalf = normalQuantile(0.5 + level / 2) * Math.sqrt(rowVariances.reduce((s, v) => s + v * v, 0) / refitCount);
-      const refitHalf = (upper - lower) / 2;
-      const half = Number.isFinite(refitHalf) ? Math.hypot(refitHalf, rowHalf) : rowHalf;
-      lower = mean3 - half;
-      upper = mean3 + half;
-    }
-    return {
-      name: unit.name,
-      members: unit.members,
-      isGroup: unit.isGroup,
-      mean: mean3,
-      refitSd,
-      drawSd,
-      lower,
-      upper,
-      isAboveFloor: lower > 0,
-      perRefit
-    };
-  });
-}
-function average(values) {
-  let s = 0;
-  for (const v of values) s += v;
-  return s / values.length;
-}
-
-// src/core/importance/replacement-units.ts
-function replacementUnits(names, groups = []) {
-  const position = new Map(names.map((name, j) => [name, j]));
-  const units = names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] }));
-  for (const group of groups) {
-    const columns = group.members.map((m) => position.get(m));
-    if (columns.some((c) => c === void 0)) continue;
-    units.push({ name: group.name, members: [...group.members], isGroup: true, columns });
-  }
-  return units;
-}
-function stackedCopies(data, draws, hasFastPath) {
-  const rows = data.rows * draws;
-  const columns = hasFastPath ? [] : data.columns.map((column) => {
-    const out = new Float64Array(rows);
-    for (let k = 0; k < draws; k++) out.set(column, k * data.rows);
-    return out;
-  });
-  return { rows, features: data.features, columns };
-}
-
-// src/core/statistics/t-interval.ts
-function tInterval(values, options = {}) {
-  const level = options.level ?? 0.95;
-  if (!(level > 0 && level < 1)) throw new RangeError(`tInterval needs a level in (0, 1), got ${level}`);
-  const sample2 = Array.from(values);
-  const n = sample2.length;
-  if (n === 0) throw new RangeError("tInterval needs at least one value, got none");
-  const missing = sample2.findIndex(Number.isNaN);
-  if (missing >= 0) throw new RangeError(`tInterval cannot use NaN (at index ${missing}); drop missing values first`);
-  const center = mean(sample2);
-  if (n === 1) return { mean: center, sd: NaN, n, halfWidth: NaN, lower: NaN, upper: NaN };
-  const sd = sampleStandardDeviation(sample2);
-  const halfWidth = -studentTQuantile((1 - level) / 2, n - 1) * sd / Math.sqrt(n);
-  return { mean: center, sd, n, halfWidth, lower: center - halfWidth, upper: center + halfWidth };
-}
-
-// src/core/importance/row-contributions.ts
-var EPSILON = 1e-15;
-function rowContributions(metric, y, base, permuted, out) {
-  const n = y.length;
-  switch (metric.name) {
-    case "log-loss": {
-      const loss = (t, p) => {
-        const q = Math.min(Math.max(p, EPSILON), 1 - EPSILON);
-        return -(t * Math.log(q) + (1 - t) * Math.log(1 - q));
-      };
-      for (let i = 0; i < n; i++) out[i] = loss(y[i], permuted[i]) - loss(y[i], base[i]);
-      return out;
-    }
-    case "brier":
-      for (let i = 0; i < n; i++) out[i] = (permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2;
-      return out;
-    case "accuracy":
-      for (let i = 0; i < n; i++) out[i] = Number(base[i] > 0.5 === (y[i] === 1)) - Number(permuted[i] > 0.5 === (y[i] === 1));
-      return out;
-    case "mae":
-      for (let i = 0; i < n; i++) out[i] = Math.abs(permuted[i] - y[i]) - Math.abs(base[i] - y[i]);
-      return out;
-    case "rmse":
-    case "r2": {
-      let mse = 0;
-      let mean3 = 0;
-      for (let i = 0; i < n; i++) {
-        mse += (base[i] - y[i]) ** 2;
-        mean3 += y[i];
-      }
-      mse /= n;
-      mean3 /= n;
-      let variance = 0;
-      for (let i = 0; i < n; i++) variance += (y[i] - mean3) ** 2;
-      variance /= n;
-      const scale = metric.name === "rmse" ? 1 / (2 * Math.sqrt(mse)) : 1 / variance;
-      if (!Number.isFinite(scale)) return null;
-      for (let i = 0; i < n; i++) out[i] = ((permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2) * scale;
-      return out;
-    }
-    default:
-      return null;
-  }
-}
-
-// src/core/importance/permutation-importance.ts
-async function permutationImportance(model, evaluation, options) {
-  const { metric, draws } = options;
-  if (!Number.isInteger(draws) || draws < 1) {
-    throw new RangeError(`permutationImportance needs a whole number of draws >= 1, got ${draws}`);
-  }
-  const names = model.featureNames;
-  const data = selectFeatures(evaluation, names);
-  const reference = options.reference ? selectFeatures(options.reference, names) : data;
-  const usesOwnRows = options.reference === void 0;
-  const n = data.rows;
-  const y = evaluation.target.values;
-  if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`);
-  if (reference.rows < 1) throw new RangeError("permutationImportance needs at least 1 reference row");
-  const basePrediction = await model.predict(data);
-  const score2 = metric.compute(y, basePrediction);
-  const contribution = new Float64Array(n);
-  const rowSum = new Float64Array(n);
-  const units = replacementUnits(names, options.groups);
-  const fast = model.createReplacementPredictor?.(data);
-  const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
-  const stackedRows = stackedMatrix.rows;
-  const stacked = stackedMatrix.columns;
-  const importances = [];
-  const drawReplacement = (unit, into) => {
-    const random = createRandom(deriveSeed(options.seed, "draws", unit.isGroup ? "group" : "feature", unit.name));
-    const replaced = /* @__PURE__ */ new Map();
-    unit.columns.forEach((j, m) => replaced.set(names[j], into ? into[m] : new Float64Array(stackedRows)));
-    for (let k = 0; k < draws; k++) {
-      const rows = referenceRows(n, reference.rows, usesOwnRows, random);
-      for (const j of unit.columns) {
-        const source = reference.columns[j];
-        const target = replaced.get(names[j]);
-        const offset = k * n;
-        for (let i = 0; i < n; i++) target[offset + i] = source[rows[i]];
-      }
-    }
-    return replaced;
-  };
-  const batched = fast?.predictMany ? fast.predictMany(units.map((unit) => drawReplacement(unit)), draws) : void 0;
-  for (const [u, unit] of units.entries()) {
-    let prediction;
-    if (batched) prediction = batched[u];
-    else if (fast) prediction = fast.predict(drawReplacement(unit), draws);
-    else {
-      drawReplacement(unit, unit.columns.map((j) => stacked[j]));
-      prediction = await model.predict(stackedMatrix);
-    }
-    const values = [];
-    rowSum.fill(0);
-    let decomposes = true;
-    for (let k = 0; k < draws; k++) {
-      const block = prediction.subarray(k * n, (k + 1) * n);
-      const permuted = metric.compute(y, block);
-      values.push(metric.higherIsBetter ? score2 - permuted : permuted - score2);
-      if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {
-        for (let i = 0; i < n; i++) rowSum[i] += contribution[i];
-      } else decomposes = false;
-    }
-    const rowSe = decomposes ? standardErrorOfMean(rowSum, draws) : NaN;
-    if (!fast) {
-      for (const j of unit.columns) {
-        const column = data.columns[j];
-        for (let k = 0; k < draws; k++) stacked[j].set(column, k * n);
-      }
-    }
-    const interval = summarizeDraws(values);
-    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval, rowSe });
-  }
-  return { score: score2, importances };
-}
-function referenceRows(n, available, usesOwnRows, random) {
-  if (usesOwnRows || available >= n) return shuffledIndices(available, random).subarray(0, n);
-  const rows = new Uint32Array(n);
-  for (let i = 0; i < n; i++) rows[i] = random.int(available);
-  return rows;
-}
-function standardErrorOfMean(sums, draws) {
-  const n = sums.length;
-  let mean3 = 0;
-  for (let i = 0; i < n; i++) mean3 += sums[i] / draws;
-  mean3 /= n;
-  let squares = 0;
-  for (let i = 0; i < n; i++) squares += (sums[i] / draws - mean3) ** 2;
-  return Math.sqrt(squares / (n - 1) / n);
-}
-function summarizeDraws(values) {
-  if (values.length === 1) return { mean: values[0], sd: NaN, lower: NaN, upper: NaN };
-  const t = tInterval(values);
-  return { mean: t.mean, sd: t.sd, lower: t.lower, upper: t.upper };
-}
-
-// src/core/importance/prediction-sensitivity.ts
-async function predictionSensitivity(model, rows, options) {
-  const { draws, threshold } = options;
-  if (!Number.isInteger(draws) || draws < 1) {
-    throw new RangeError(`predictionSensitivity needs a whole number of draws >= 1, got ${draws}`);
-  }
-  const names = model.featureNames;
-  const data = selectFeatures(rows, names);
-  const reference = selectFeatures(options.reference, names);
-  const n = data.rows;
-  if (n < 1) throw new RangeError("predictionSensitivity needs at least 1 row");
-  if (reference.rows < 1) throw new RangeError("predictionSensitivity needs at least 1 reference row");
-  const original = await model.predict(data);
-  const units = replacementUnits(names, options.groups);
-  const fast = model.createReplacementPredictor?.(data);
-  const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
-  const stackedRows = stackedMatrix.rows;
-  const stacked = stackedMatrix.columns;
-  const estimates = [];
-  for (const unit of units) {
-    const random = createRandom(deriveSeed(options.seed, "sensitivity", unit.isGroup ? "group" : "feature", unit.name));
-    const replaced = /* @__PURE__ */ new Map();
-    for (const j of unit.columns) replaced.set(names[j], fast ? new Float64Array(stackedRows) : stacked[j]);
-    for (let k = 0; k < draws; k++) {
-      const picked = reference.rows >= n ? shuffledIndices(reference.rows, random).subarray(0, n) : drawWithReplacement(n, reference.rows, random);
-      for (const j of unit.columns) {
-        const source = reference.columns[j];
-        const target = replaced.get(names[j]);
-        for (let i = 0; i < n; i++) target[k * n + i] = source[picked[i]];
-      }
-    }
-    const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
-    const changes = [];
-    const flips = [];
-    for (let k = 0; k < draws; k++) {
-      let change = 0;
-      let flipped = 0;
-      for (let i = 0; i < n; i++) {
-        const before = original[i];
-        const after = prediction[k * n + i];
-        change += Math.abs(after - before);
-        if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
-      }
-      changes.push(change / n);
-      flips.push(flipped / n);
-    }
-    if (!fast) {
-      for (const j of unit.columns) for (let k = 0; k < draws; k++) stacked[j].set(data.columns[j], k * n);
-    }
-    estimates.push({
-      name: unit.name,
-      members: unit.members,
-      isGroup: unit.isGroup,
-      draws: changes,
-      mean: average2(changes),
-      ...threshold !== void 0 ? { flipDraws: flips, flipShare: average2(flips) } : {}
-    });
-  }
-  return estimates;
-}
-function drawWithReplacement(n, available, random) {
-  const rows = new Uint32Array(n);
-  for (let i = 0; i < n; i++) rows[i] = random.int(available);
-  return rows;
-}
-function average2(values) {
-  let s = 0;
-  for (const v of values) s += v;
-  return s / values.length;
-}
-
-// src/core/metrics/check-paired.ts
-function checkPaired(name, y, prediction, labels) {
-  if (y.length !== prediction.length) {
-    throw new RangeError(`${name} needs paired samples, got ${y.length} targets and ${prediction.length} predictions`);
-  }
-  if (labels === "binary") {
-    for (let i = 0; i < y.length; i++) {
-      if (y[i] !== 0 && y[i] !== 1) throw new RangeError(`${name} needs targets of 0 or 1, got ${y[i]} at index ${i}`);
-    }
-  }
-}
-
-// src/core/metrics/roc-auc.ts
-function rocAuc(y, score2) {
-  checkPaired("rocAuc", y, score2, "binary");
-  const n = y.length;
-  let positives = 0;
-  for (let i = 0; i < n; i++) {
-    if (Number.isNaN(score2[i])) return NaN;
-    positives += y[i];
-  }
-  const negatives = n - positives;
-  if (positives === 0 || negatives === 0) return NaN;
-  const pos = new Float64Array(positives);
-  const neg = new Float64Array(negatives);
-  for (let i = 0, p = 0, q = 0; i < n; i++) {
-    if (y[i] === 1) pos[p++] = score2[i];
-    else neg[q++] = score2[i];
-  }
-  pos.sort();
-  neg.sort();
-  let pairs = 0;
-  let below = 0;
-  for (let i = 0; i < positives; ) {
-    const value3 = pos[i];
-    let runEnd = i + 1;
-    while (runEnd < positives && pos[runEnd] === value3) runEnd++;
-    while (below < negatives && neg[below] < value3) below++;
-    let tied = below;
-    while (tied < negatives && neg[tied] === value3) tied++;
-    pairs += (runEnd - i) * (below + (tied - below) / 2);
-    i = runEnd;
-  }
-  return pairs / (positives * negatives);
-}
-
-// src/core/metrics/r-squared.ts
-function rSquared(y, prediction) {
-  checkPaired("rSquared", y, prediction, "any");
-  const n = y.length;
-  let mean3 = 0;
-  let isConstant = true;
-  for (let i = 0; i < n; i++) {
-    mean3 += y[i];
-    if (y[i] !== y[0]) isConstant = false;
-  }
-  if (isConstant) return NaN;
-  mean3 /= n;
-  let residual = 0;
-  let total = 0;
-  for (let i = 0; i < n; i++) {
-    const r = y[i] - prediction[i];
-    const t = y[i] - mean3;
-    residual += r * r;
-    total += t * t;
-  }
-  return 1 - residual / total;
-}
-
-// src/core/measure-drop-columns.ts
-async function measureDropColumns(inputs, options) {
-  const present = new Set(inputs.train.features.map((f) => f.name));
-  if (present.size < 2) return [];
-  const names = [.../* @__PURE__ */ new Set([...options.request.also.filter((n) => present.has(n)), ...options.ranked.slice(0, options.request.top)])];
-  const target = inputs.holdout.target;
-  if (!target) throw new RangeError("measureDropColumns needs a holdout with a target");
-  if (inputs.scoreWithout) {
-    const scoreWithout = inputs.scoreWithout;
-    return Promise.all(names.map(async (name) => ({ name, scores: await Promise.all(options.refitSeeds.map((_, r) => scoreWithout(name, r))) })));
-  }
-  const fitOne = (name, r) => inputs.fit({ side: inputs.side, seed: options.refitSeeds[r], refit: r, leaveOut: [name] });
-  const prefetched = options.concurrentFits ? names.map((name) => options.refitSeeds.map((_, r) => fitOne(name, r))) : void 0;
-  prefetched?.flat().forEach((p) => p.catch(() => void 0));
-  const results = [];
-  for (const [i, name] of names.entries()) {
-    const scores = [];
-    for (let r = 0; r < options.refitSeeds.length; r++) {
-      const model = await (prefetched ? prefetched[i][r] : fitOne(name, r));
-      const prediction = await model.predict(selectFeatures(inputs.holdout, model.featureNames));
-      scores.push(options.metric.compute(target.values, prediction));
-    }
-    results.push({ name, scores });
-  }
-  return results;
-}
-
-// src/core/measure-side.ts
-function refitSeed(seed, refit) {
-  return deriveSeed(seed, "refit", refit);
-}
-function sideRows(inputs, options) {
-  if (!inputs.holdout.target) throw new RangeError("measureSide needs a holdout with a target");
-  const unlabeled = inputs.unlabeled && options.sensitivity ? capRows(inputs.unlabeled, options.evaluationRows, deriveSeed(options.seed, "unlabeled-rows")) : void 0;
-  return {
-    evaluation: capRows(inputs.holdout, options.evaluationRows, deriveSeed(options.seed, "evaluation-rows")),
-    reference: capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, "reference-rows")),
-    ...unlabeled ? { unlabeled } : {},
-    slices: (options.slices ?? []).map((slice) => ({ ...slice, data: selectRows(inputs.holdout, slice.rows) }))
-  };
-}
-function sideRefitSeeds(inputs, options) {
-  const refits = inputs.model ? 1 : options.refits;
-  return Array.from({ length: refits }, (_, r) => refitSeed(options.seed, r));
-}
-async function measureRefit(model, inputs, options, rows, refit) {
-  const { holdout, train: train3 } = inputs;
-  const target = holdout.target;
-  if (!target) throw new RangeError("measureSide needs a holdout with a target");
-  const predictions = await model.predict(selectFeatures(holdout, model.featureNames));
-  const score2 = options.metric.compute(target.values, predictions);
-  const separation = options.task === "binary" ? rocAuc(target.values, predictions) : rSquared(target.values, predictions);
-  const result = await permutationImportance(model, rows.evaluation, {
-    metric: options.metric,
-    draws: options.draws,
-    seed: deriveSeed(options.seed, "draws", refit),
-    reference: rows.reference,
-    groups: options.groups
-  });
-  const featureOrder = train3.features.map((f) => f.name);
-  const slices = [];
-  for (const slice of rows.slices) {
-    const slicePrediction = new Float64Array(slice.rows.length);
-    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]];
-    const sliced = await permutationImportance(model, slice.data, {
-      metric: options.metric,
-      draws: options.draws,
-      seed: deriveSeed(options.seed, "slice-draws", slice.name, refit),
-      reference: rows.reference,
-      groups: options.groups
-    });
-    slices.push({
-      score: options.metric.compute(slice.data.target.values, slicePrediction),
-      importances: canonicalOrder(sliced.importances, featureOrder, options.groups, options.draws)
-    });
-  }
-  let sensitivity;
-  if (options.sensitivity) {
-    const threshold = options.sensitivity.threshold;
-    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold };
-    const order3 = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold);
-    sensitivity = {
-      holdout: order3(await predictionSensitivity(model, rows.evaluation, settings)),
-      ...rows.unlabeled ? { unlabeled: order3(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}
-    };
-  }
-  return {
-    score: score2,
-    separation,
-    importances: canonicalOrder(result.importances, featureOrder, options.groups, options.draws),
-    predictions,
-    model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? "onnxruntime" },
-    slices,
-    ...model.splitStatistics ? { splitStatistics: model.splitStatistics.map((x) => ({ feature: x.feature, gain: x.gain, splits: x.splits })) } : {},
-    ...sensitivity ? { sensitivity } : {}
-  };
-}
-function combineRefits(seeds, rows, refits) {
-  if (refits.length === 0 || refits.length !== seeds.length) throw new RangeError("combineRefits needs one part per refit seed");
-  const perRefit = refits.map((r) => [...r.importances]);
-  return {
-    refitSeeds: [...seeds],
-    scores: refits.map((r) => r.score),
-    separation: refits.map((r) => r.separation),
-    importances: computeNoiseFloor(perRefit),
-    perRefit,
-    evaluationRows: rows.evaluation.rows,
-    referenceRows: rows.reference.rows,
-    model: refits[refits.length - 1].model,
-    firstPredictions: refits[0].predictions,
-    noiseCovers: refits.length < 2 ? "draws-only" : "refits-and-draws",
-    // Drop-column refits come after the full ones (their candidates depend on the full importances).
-    dropColumns: [],
-    ...refits.every((r) => r.sensitivity) ? {
-      sensitivity: {
-        holdout: refits.map((r) => r.sensitivity.holdout),
-        ...rows.unlabeled ? { unlabeled: refits.map((r) => r.sensitivity.unlabeled ?? []) } : {},
-        unlabeledRows: rows.unlabeled?.rows ?? 0
-      }
-    } : {},
-    ...refits.every((r) => r.splitStatistics) ? { splitStatistics: refits.map((r) => r.splitStatistics) } : {},
-    ...rows.slices.length > 0 ? {
-      slices: rows.slices.map((slice, k) => ({
-        name: slice.name,
-        rows: slice.rows.length,
-        scores: refits.map((r) => r.slices[k].score),
-        importances: computeNoiseFloor(refits.map((r) => [...r.slices[k].importances]))
-      }))
-    } : {}
-  };
-}
-async function measureSide(inputs, options) {
-  const rows = sideRows(inputs, options);
-  const refitSeeds = sideRefitSeeds(inputs, options);
-  const refits = refitSeeds.length;
-  const fitRefit = (r) => inputs.fit({ side: inputs.side, seed: refitSeeds[r], refit: r, leaveOut: [] });
-  const prefetched = !inputs.model && options.concurrentFits ? refitSeeds.map((_, r) => fitRefit(r)) : void 0;
-  prefetched?.forEach((p) => p.catch(() => void 0));
-  const parts = [];
-  for (let r = 0; r < refits; r++) {
-    options.onRefit?.(r, refits);
-    const model = inputs.model ?? await (prefetched ? prefetched[r] : fitRefit(r));
-    parts.push(await measureRefit(model, inputs, options, rows, r));
-  }
-  const combined = combineRefits(refitSeeds, rows, parts);
-  const dropColumns = inputs.fit && options.dropColumns && refits >= 2 ? await measureDropColumns(
-    { side: inputs.side, train: inputs.train, holdout: inputs.holdout, fit: inputs.fit },
-    { request: options.dropColumns, ranked: rankedFeatureNames(combined), refitSeeds, metric: options.metric, concurrentFits: options.concurrentFits }
-  ) : [];
-  return { ...combined, dropColumns };
-}
-function rankedFeatureNames(measured) {
-  return measured.importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).map((u) => u.name);
-}
-function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold) {
-  const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
-  const zeros = new Array(draws).fill(0);
-  const zero = (name, members2, isGroup) => ({
-    name,
-    members: members2,
-    isGroup,
-    draws: zeros,
-    mean: 0,
-    ...threshold !== void 0 ? { flipDraws: zeros, flipShare: 0 } : {}
-  });
-  const present = new Set(featureOrder);
-  return [
-    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
-    ...groups.filter((g2) => g2.members.every((m) => present.has(m))).map((g2) => byKey.get(`g:${g2.name}`) ?? zero(g2.name, g2.members, true))
-  ];
-}
-function canonicalOrder(estimates, featureOrder, groups, draws) {
-  const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
-  const zero = (name, members2, isGroup) => ({
-    name,
-    members: members2,
-    isGroup,
-    draws: new Array(draws).fill(0),
-    mean: 0,
-    sd: draws > 1 ? 0 : NaN,
-    lower: draws > 1 ? 0 : NaN,
-    upper: draws > 1 ? 0 : NaN,
-    rowSe: 0
-  });
-  const present = new Set(featureOrder);
-  return [
-    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
-    ...groups.filter((g2) => g2.members.every((m) => present.has(m))).map((g2) => byKey.get(`g:${g2.name}`) ?? zero(g2.name, g2.members, true))
-  ];
-}
-function capRows(data, cap, seed) {
-  if (data.rows <= cap) return data;
-  const picked = shuffledIndices(data.rows, createRandom(seed)).slice(0, cap).sort();
-  return selectRows(data, picked);
 }
 
 // src/core/models/gbt/bin-features.ts
@@ -43558,8 +42807,8 @@ function describeSliceFilter(filter) {
   const part = (f, nested) => {
     if ("allOf" in f || "anyOf" in f) {
       const items = "allOf" in f ? f.allOf : f.anyOf;
-      const text4 = items.map((g2) => part(g2, true)).join("allOf" in f ? " and " : " or ");
-      return nested && items.length > 1 ? `(${text4})` : text4;
+      const text5 = items.map((g2) => part(g2, true)).join("allOf" in f ? " and " : " or ");
+      return nested && items.length > 1 ? `(${text5})` : text5;
     }
     if (f.equals !== void 0) return `${f.column} = ${f.equals}`;
     if (f.in !== void 0) return `${f.column} in {${f.in.join(", ")}}`;
@@ -43627,15 +42876,15 @@ function evaluate(data, filter, slice, key2) {
 }
 
 // src/core/gate/plan-slices.ts
-function planSlices(slices, holdout, side2, options) {
-  return slices.map((slice, index) => {
-    const rows = sliceRows(holdout, slice.where, { name: slice.name, index });
+function planSlices(slices, holdout, side3, options) {
+  return slices.map((slice, index2) => {
+    const rows = sliceRows(holdout, slice.where, { name: slice.name, index: index2 });
     if (!rows) {
-      if (side2 === "base") return { name: slice.name, status: "no-column" };
+      if (side3 === "base") return { name: slice.name, status: "no-column" };
       const known = new Set(holdout.features.map((f) => f.name));
       const missing = sliceColumns(slice.where).find((c) => !known.has(c));
       throw new UserError(
-        `The slice '${slice.name}' (slices[${index}].where) names the column '${missing}', which is not a feature of ${holdout.source} (features: ${holdout.features.map((f) => f.name).slice(0, 20).join(", ")}).`,
+        `The slice '${slice.name}' (slices[${index2}].where) names the column '${missing}', which is not a feature of ${holdout.source} (features: ${holdout.features.map((f) => f.name).slice(0, 20).join(", ")}).`,
         "Correct the column name in the slice, or delete the slice."
       );
     }
@@ -43650,17 +42899,673 @@ function planSlices(slices, holdout, side2, options) {
   });
 }
 
+// src/core/measure-drop-columns.ts
+function dropColumnNames(train3, request, ranked) {
+  const present = new Set(train3.features.map((f) => f.name));
+  if (present.size < 2) return [];
+  return [.../* @__PURE__ */ new Set([...request.also.filter((n) => present.has(n)), ...ranked.slice(0, request.top)])];
+}
+
+// src/core/importance/compute-noise-floor.ts
+function computeNoiseFloor(refits, options = {}) {
+  const level = options.level ?? 0.95;
+  if (refits.length === 0) throw new RangeError("computeNoiseFloor needs at least one refit");
+  const first = refits[0];
+  for (const r of refits) {
+    if (r.length !== first.length || r.some((u, i) => u.name !== first[i].name)) {
+      throw new RangeError("computeNoiseFloor needs the same features in the same order in every refit");
+    }
+  }
+  const refitCount = refits.length;
+  return first.map((unit, index2) => {
+    const perRefit = refits.map((r) => r[index2].mean);
+    const mean3 = average(perRefit);
+    let within = 0;
+    let withinDf = 0;
+    for (const r of refits) {
+      const d = r[index2].draws;
+      if (d.length < 2) continue;
+      const m = average(d);
+      for (const v of d) within += (v - m) ** 2;
+      withinDf += d.length - 1;
+    }
+    const drawSd = withinDf > 0 ? Math.sqrt(within / withinDf) : NaN;
+    let refitSd = NaN;
+    let lower;
+    let upper;
+    if (refitCount >= 2) {
+      refitSd = Math.sqrt(perRefit.reduce((s, v) => s + (v - mean3) ** 2, 0) / (refitCount - 1));
+      const half = studentTQuantile(0.5 + level / 2, refitCount - 1) * (refitSd / Math.sqrt(refitCount));
+      lower = mean3 - half;
+      upper = mean3 + half;
+    } else {
+      const draws = first[index2].draws.length;
+      const half = draws >= 2 ? studentTQuantile(0.5 + level / 2, draws - 1) * (drawSd / Math.sqrt(draws)) : NaN;
+      lower = mean3 - half;
+      upper = mean3 + half;
+    }
+    const rowVariances = refits.map((r) => r[index2].rowSe).filter((v) => v !== void 0 && Number.isFinite(v));
+    if (rowVariances.length === refitCount) {
+      const rowHalf = normalQuantile(0.5 + level / 2) * Math.sqrt(rowVariances.reduce((s, v) => s + v * v, 0) / refitCount);
+      const refitHalf = (upper - lower) / 2;
+      const half = Number.isFinite(refitHalf) ? Math.hypot(refitHalf, rowHalf) : rowHalf;
+      lower = mean3 - half;
+      upper = mean3 + half;
+    }
+    return {
+      name: unit.name,
+      members: unit.members,
+      isGroup: unit.isGroup,
+      mean: mean3,
+      refitSd,
+      drawSd,
+      lower,
+      upper,
+      isAboveFloor: lower > 0,
+      perRefit
+    };
+  });
+}
+function average(values) {
+  let s = 0;
+  for (const v of values) s += v;
+  return s / values.length;
+}
+
+// src/core/importance/replacement-units.ts
+function replacementUnits(names, groups = []) {
+  const position = new Map(names.map((name, j) => [name, j]));
+  const units = names.map((name, j) => ({ name, members: [name], isGroup: false, columns: [j] }));
+  for (const group of groups) {
+    const columns = group.members.map((m) => position.get(m));
+    if (columns.some((c) => c === void 0)) continue;
+    units.push({ name: group.name, members: [...group.members], isGroup: true, columns });
+  }
+  return units;
+}
+function stackedCopies(data, draws, hasFastPath) {
+  const rows = data.rows * draws;
+  const columns = hasFastPath ? [] : data.columns.map((column) => {
+    const out = new Float64Array(rows);
+    for (let k = 0; k < draws; k++) out.set(column, k * data.rows);
+    return out;
+  });
+  return { rows, features: data.features, columns };
+}
+
+// src/core/statistics/t-interval.ts
+function tInterval(values, options = {}) {
+  const level = options.level ?? 0.95;
+  if (!(level > 0 && level < 1)) throw new RangeError(`tInterval needs a level in (0, 1), got ${level}`);
+  const sample2 = Array.from(values);
+  const n = sample2.length;
+  if (n === 0) throw new RangeError("tInterval needs at least one value, got none");
+  const missing = sample2.findIndex(Number.isNaN);
+  if (missing >= 0) throw new RangeError(`tInterval cannot use NaN (at index ${missing}); drop missing values first`);
+  const center = mean(sample2);
+  if (n === 1) return { mean: center, sd: NaN, n, halfWidth: NaN, lower: NaN, upper: NaN };
+  const sd = sampleStandardDeviation(sample2);
+  const halfWidth = -studentTQuantile((1 - level) / 2, n - 1) * sd / Math.sqrt(n);
+  return { mean: center, sd, n, halfWidth, lower: center - halfWidth, upper: center + halfWidth };
+}
+
+// src/core/importance/row-contributions.ts
+var EPSILON = 1e-15;
+function rowContributions(metric, y, base, permuted, out) {
+  const n = y.length;
+  switch (metric.name) {
+    case "log-loss": {
+      const loss = (t, p) => {
+        const q = Math.min(Math.max(p, EPSILON), 1 - EPSILON);
+        return -(t * Math.log(q) + (1 - t) * Math.log(1 - q));
+      };
+      for (let i = 0; i < n; i++) out[i] = loss(y[i], permuted[i]) - loss(y[i], base[i]);
+      return out;
+    }
+    case "brier":
+      for (let i = 0; i < n; i++) out[i] = (permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2;
+      return out;
+    case "accuracy":
+      for (let i = 0; i < n; i++) out[i] = Number(base[i] > 0.5 === (y[i] === 1)) - Number(permuted[i] > 0.5 === (y[i] === 1));
+      return out;
+    case "mae":
+      for (let i = 0; i < n; i++) out[i] = Math.abs(permuted[i] - y[i]) - Math.abs(base[i] - y[i]);
+      return out;
+    case "rmse":
+    case "r2": {
+      let mse = 0;
+      let mean3 = 0;
+      for (let i = 0; i < n; i++) {
+        mse += (base[i] - y[i]) ** 2;
+        mean3 += y[i];
+      }
+      mse /= n;
+      mean3 /= n;
+      let variance = 0;
+      for (let i = 0; i < n; i++) variance += (y[i] - mean3) ** 2;
+      variance /= n;
+      const scale = metric.name === "rmse" ? 1 / (2 * Math.sqrt(mse)) : 1 / variance;
+      if (!Number.isFinite(scale)) return null;
+      for (let i = 0; i < n; i++) out[i] = ((permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2) * scale;
+      return out;
+    }
+    default:
+      return null;
+  }
+}
+
+// src/core/importance/permutation-importance.ts
+async function permutationImportance(model, evaluation, options) {
+  const { metric, draws } = options;
+  if (!Number.isInteger(draws) || draws < 1) {
+    throw new RangeError(`permutationImportance needs a whole number of draws >= 1, got ${draws}`);
+  }
+  const names = model.featureNames;
+  const data = selectFeatures(evaluation, names);
+  const reference = options.reference ? selectFeatures(options.reference, names) : data;
+  const usesOwnRows = options.reference === void 0;
+  const n = data.rows;
+  const y = evaluation.target.values;
+  if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`);
+  if (reference.rows < 1) throw new RangeError("permutationImportance needs at least 1 reference row");
+  const basePrediction = await model.predict(data);
+  const score2 = metric.compute(y, basePrediction);
+  const contribution = new Float64Array(n);
+  const rowSum = new Float64Array(n);
+  const units = replacementUnits(names, options.groups);
+  const fast = model.createReplacementPredictor?.(data);
+  const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
+  const stackedRows = stackedMatrix.rows;
+  const stacked = stackedMatrix.columns;
+  const importances = [];
+  const drawReplacement = (unit, into) => {
+    const random = createRandom(deriveSeed(options.seed, "draws", unit.isGroup ? "group" : "feature", unit.name));
+    const replaced = /* @__PURE__ */ new Map();
+    unit.columns.forEach((j, m) => replaced.set(names[j], into ? into[m] : new Float64Array(stackedRows)));
+    for (let k = 0; k < draws; k++) {
+      const rows = referenceRows(n, reference.rows, usesOwnRows, random);
+      for (const j of unit.columns) {
+        const source = reference.columns[j];
+        const target = replaced.get(names[j]);
+        const offset = k * n;
+        for (let i = 0; i < n; i++) target[offset + i] = source[rows[i]];
+      }
+    }
+    return replaced;
+  };
+  const batched = fast?.predictMany ? fast.predictMany(units.map((unit) => drawReplacement(unit)), draws) : void 0;
+  for (const [u, unit] of units.entries()) {
+    let prediction;
+    if (batched) prediction = batched[u];
+    else if (fast) prediction = fast.predict(drawReplacement(unit), draws);
+    else {
+      drawReplacement(unit, unit.columns.map((j) => stacked[j]));
+      prediction = await model.predict(stackedMatrix);
+    }
+    const values = [];
+    rowSum.fill(0);
+    let decomposes = true;
+    for (let k = 0; k < draws; k++) {
+      const block = prediction.subarray(k * n, (k + 1) * n);
+      const permuted = metric.compute(y, block);
+      values.push(metric.higherIsBetter ? score2 - permuted : permuted - score2);
+      if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {
+        for (let i = 0; i < n; i++) rowSum[i] += contribution[i];
+      } else decomposes = false;
+    }
+    const rowSe = decomposes ? standardErrorOfMean(rowSum, draws) : NaN;
+    if (!fast) {
+      for (const j of unit.columns) {
+        const column = data.columns[j];
+        for (let k = 0; k < draws; k++) stacked[j].set(column, k * n);
+      }
+    }
+    const interval = summarizeDraws(values);
+    importances.push({ name: unit.name, members: unit.members, isGroup: unit.isGroup, draws: values, ...interval, rowSe });
+  }
+  return { score: score2, importances };
+}
+function referenceRows(n, available, usesOwnRows, random) {
+  if (usesOwnRows || available >= n) return shuffledIndices(available, random).subarray(0, n);
+  const rows = new Uint32Array(n);
+  for (let i = 0; i < n; i++) rows[i] = random.int(available);
+  return rows;
+}
+function standardErrorOfMean(sums, draws) {
+  const n = sums.length;
+  let mean3 = 0;
+  for (let i = 0; i < n; i++) mean3 += sums[i] / draws;
+  mean3 /= n;
+  let squares = 0;
+  for (let i = 0; i < n; i++) squares += (sums[i] / draws - mean3) ** 2;
+  return Math.sqrt(squares / (n - 1) / n);
+}
+function summarizeDraws(values) {
+  if (values.length === 1) return { mean: values[0], sd: NaN, lower: NaN, upper: NaN };
+  const t = tInterval(values);
+  return { mean: t.mean, sd: t.sd, lower: t.lower, upper: t.upper };
+}
+
+// src/core/importance/prediction-sensitivity.ts
+async function predictionSensitivity(model, rows, options) {
+  const { draws, threshold } = options;
+  if (!Number.isInteger(draws) || draws < 1) {
+    throw new RangeError(`predictionSensitivity needs a whole number of draws >= 1, got ${draws}`);
+  }
+  const names = model.featureNames;
+  const data = selectFeatures(rows, names);
+  const reference = selectFeatures(options.reference, names);
+  const n = data.rows;
+  if (n < 1) throw new RangeError("predictionSensitivity needs at least 1 row");
+  if (reference.rows < 1) throw new RangeError("predictionSensitivity needs at least 1 reference row");
+  const original = await model.predict(data);
+  const units = replacementUnits(names, options.groups);
+  const fast = model.createReplacementPredictor?.(data);
+  const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
+  const stackedRows = stackedMatrix.rows;
+  const stacked = stackedMatrix.columns;
+  const estimates = [];
+  for (const unit of units) {
+    const random = createRandom(deriveSeed(options.seed, "sensitivity", unit.isGroup ? "group" : "feature", unit.name));
+    const replaced = /* @__PURE__ */ new Map();
+    for (const j of unit.columns) replaced.set(names[j], fast ? new Float64Array(stackedRows) : stacked[j]);
+    for (let k = 0; k < draws; k++) {
+      const picked = reference.rows >= n ? shuffledIndices(reference.rows, random).subarray(0, n) : drawWithReplacement(n, reference.rows, random);
+      for (const j of unit.columns) {
+        const source = reference.columns[j];
+        const target = replaced.get(names[j]);
+        for (let i = 0; i < n; i++) target[k * n + i] = source[picked[i]];
+      }
+    }
+    const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
+    const changes = [];
+    const flips = [];
+    for (let k = 0; k < draws; k++) {
+      let change = 0;
+      let flipped = 0;
+      for (let i = 0; i < n; i++) {
+        const before = original[i];
+        const after = prediction[k * n + i];
+        change += Math.abs(after - before);
+        if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
+      }
+      changes.push(change / n);
+      flips.push(flipped / n);
+    }
+    if (!fast) {
+      for (const j of unit.columns) for (let k = 0; k < draws; k++) stacked[j].set(data.columns[j], k * n);
+    }
+    estimates.push({
+      name: unit.name,
+      members: unit.members,
+      isGroup: unit.isGroup,
+      draws: changes,
+      mean: average2(changes),
+      ...threshold !== void 0 ? { flipDraws: flips, flipShare: average2(flips) } : {}
+    });
+  }
+  return estimates;
+}
+function drawWithReplacement(n, available, random) {
+  const rows = new Uint32Array(n);
+  for (let i = 0; i < n; i++) rows[i] = random.int(available);
+  return rows;
+}
+function average2(values) {
+  let s = 0;
+  for (const v of values) s += v;
+  return s / values.length;
+}
+
+// src/core/metrics/check-paired.ts
+function checkPaired(name, y, prediction, labels) {
+  if (y.length !== prediction.length) {
+    throw new RangeError(`${name} needs paired samples, got ${y.length} targets and ${prediction.length} predictions`);
+  }
+  if (labels === "binary") {
+    for (let i = 0; i < y.length; i++) {
+      if (y[i] !== 0 && y[i] !== 1) throw new RangeError(`${name} needs targets of 0 or 1, got ${y[i]} at index ${i}`);
+    }
+  }
+}
+
+// src/core/metrics/roc-auc.ts
+function rocAuc(y, score2) {
+  checkPaired("rocAuc", y, score2, "binary");
+  const n = y.length;
+  let positives = 0;
+  for (let i = 0; i < n; i++) {
+    if (Number.isNaN(score2[i])) return NaN;
+    positives += y[i];
+  }
+  const negatives = n - positives;
+  if (positives === 0 || negatives === 0) return NaN;
+  const pos = new Float64Array(positives);
+  const neg = new Float64Array(negatives);
+  for (let i = 0, p = 0, q = 0; i < n; i++) {
+    if (y[i] === 1) pos[p++] = score2[i];
+    else neg[q++] = score2[i];
+  }
+  pos.sort();
+  neg.sort();
+  let pairs = 0;
+  let below = 0;
+  for (let i = 0; i < positives; ) {
+    const value3 = pos[i];
+    let runEnd = i + 1;
+    while (runEnd < positives && pos[runEnd] === value3) runEnd++;
+    while (below < negatives && neg[below] < value3) below++;
+    let tied = below;
+    while (tied < negatives && neg[tied] === value3) tied++;
+    pairs += (runEnd - i) * (below + (tied - below) / 2);
+    i = runEnd;
+  }
+  return pairs / (positives * negatives);
+}
+
+// src/core/metrics/r-squared.ts
+function rSquared(y, prediction) {
+  checkPaired("rSquared", y, prediction, "any");
+  const n = y.length;
+  let mean3 = 0;
+  let isConstant = true;
+  for (let i = 0; i < n; i++) {
+    mean3 += y[i];
+    if (y[i] !== y[0]) isConstant = false;
+  }
+  if (isConstant) return NaN;
+  mean3 /= n;
+  let residual = 0;
+  let total = 0;
+  for (let i = 0; i < n; i++) {
+    const r = y[i] - prediction[i];
+    const t = y[i] - mean3;
+    residual += r * r;
+    total += t * t;
+  }
+  return 1 - residual / total;
+}
+
+// src/core/measure-side.ts
+function refitSeed(seed, refit) {
+  return deriveSeed(seed, "refit", refit);
+}
+function sideRows(inputs, options) {
+  if (!inputs.holdout.target) throw new RangeError("measureSide needs a holdout with a target");
+  const unlabeled = inputs.unlabeled && options.sensitivity ? capRows(inputs.unlabeled, options.evaluationRows, deriveSeed(options.seed, "unlabeled-rows")) : void 0;
+  return {
+    evaluation: capRows(inputs.holdout, options.evaluationRows, deriveSeed(options.seed, "evaluation-rows")),
+    reference: capRows(inputs.reference, options.referenceRows, deriveSeed(options.seed, "reference-rows")),
+    ...unlabeled ? { unlabeled } : {},
+    slices: (options.slices ?? []).map((slice) => ({ ...slice, data: selectRows(inputs.holdout, slice.rows) }))
+  };
+}
+function sideRefitSeeds(inputs, options) {
+  const refits = inputs.model ? 1 : options.refits;
+  return Array.from({ length: refits }, (_, r) => refitSeed(options.seed, r));
+}
+async function measureRefit(model, inputs, options, rows, refit) {
+  const { holdout, train: train3 } = inputs;
+  const target = holdout.target;
+  if (!target) throw new RangeError("measureSide needs a holdout with a target");
+  const predictions = await model.predict(selectFeatures(holdout, model.featureNames));
+  const score2 = options.metric.compute(target.values, predictions);
+  const separation = options.task === "binary" ? rocAuc(target.values, predictions) : rSquared(target.values, predictions);
+  const result = await permutationImportance(model, rows.evaluation, {
+    metric: options.metric,
+    draws: options.draws,
+    seed: deriveSeed(options.seed, "draws", refit),
+    reference: rows.reference,
+    groups: options.groups
+  });
+  const featureOrder = train3.features.map((f) => f.name);
+  const slices = [];
+  for (const slice of rows.slices) {
+    const slicePrediction = new Float64Array(slice.rows.length);
+    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]];
+    const sliced = await permutationImportance(model, slice.data, {
+      metric: options.metric,
+      draws: options.draws,
+      seed: deriveSeed(options.seed, "slice-draws", slice.name, refit),
+      reference: rows.reference,
+      groups: options.groups
+    });
+    slices.push({
+      score: options.metric.compute(slice.data.target.values, slicePrediction),
+      importances: canonicalOrder(sliced.importances, featureOrder, options.groups, options.draws)
+    });
+  }
+  let sensitivity2;
+  if (options.sensitivity) {
+    const threshold = options.sensitivity.threshold;
+    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold };
+    const order3 = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold);
+    sensitivity2 = {
+      holdout: order3(await predictionSensitivity(model, rows.evaluation, settings)),
+      ...rows.unlabeled ? { unlabeled: order3(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}
+    };
+  }
+  return {
+    score: score2,
+    separation,
+    importances: canonicalOrder(result.importances, featureOrder, options.groups, options.draws),
+    predictions,
+    model: { kind: model.kind, featureNames: model.featureNames, engine: model.engine ?? "onnxruntime" },
+    slices,
+    ...model.splitStatistics ? { splitStatistics: model.splitStatistics.map((x) => ({ feature: x.feature, gain: x.gain, splits: x.splits })) } : {},
+    ...sensitivity2 ? { sensitivity: sensitivity2 } : {}
+  };
+}
+function combineRefits(seeds, rows, refits) {
+  if (refits.length === 0 || refits.length !== seeds.length) throw new RangeError("combineRefits needs one part per refit seed");
+  const perRefit = refits.map((r) => [...r.importances]);
+  return {
+    refitSeeds: [...seeds],
+    scores: refits.map((r) => r.score),
+    separation: refits.map((r) => r.separation),
+    importances: computeNoiseFloor(perRefit),
+    perRefit,
+    evaluationRows: rows.evaluation.rows,
+    referenceRows: rows.reference.rows,
+    model: refits[refits.length - 1].model,
+    firstPredictions: refits[0].predictions,
+    noiseCovers: refits.length < 2 ? "draws-only" : "refits-and-draws",
+    // Drop-column refits come after the full ones (their candidates depend on the full importances).
+    dropColumns: [],
+    ...refits.every((r) => r.sensitivity) ? {
+      sensitivity: {
+        holdout: refits.map((r) => r.sensitivity.holdout),
+        ...rows.unlabeled ? { unlabeled: refits.map((r) => r.sensitivity.unlabeled ?? []) } : {},
+        unlabeledRows: rows.unlabeled?.rows ?? 0
+      }
+    } : {},
+    ...refits.every((r) => r.splitStatistics) ? { splitStatistics: refits.map((r) => r.splitStatistics) } : {},
+    ...rows.slices.length > 0 ? {
+      slices: rows.slices.map((slice, k) => ({
+        name: slice.name,
+        rows: slice.rows.length,
+        scores: refits.map((r) => r.slices[k].score),
+        importances: computeNoiseFloor(refits.map((r) => [...r.slices[k].importances]))
+      }))
+    } : {}
+  };
+}
+function rankedFeatureNames(measured) {
+  return measured.importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).map((u) => u.name);
+}
+function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold) {
+  const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
+  const zeros = new Array(draws).fill(0);
+  const zero = (name, members2, isGroup) => ({
+    name,
+    members: members2,
+    isGroup,
+    draws: zeros,
+    mean: 0,
+    ...threshold !== void 0 ? { flipDraws: zeros, flipShare: 0 } : {}
+  });
+  const present = new Set(featureOrder);
+  return [
+    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
+    ...groups.filter((g2) => g2.members.every((m) => present.has(m))).map((g2) => byKey.get(`g:${g2.name}`) ?? zero(g2.name, g2.members, true))
+  ];
+}
+function canonicalOrder(estimates, featureOrder, groups, draws) {
+  const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
+  const zero = (name, members2, isGroup) => ({
+    name,
+    members: members2,
+    isGroup,
+    draws: new Array(draws).fill(0),
+    mean: 0,
+    sd: draws > 1 ? 0 : NaN,
+    lower: draws > 1 ? 0 : NaN,
+    upper: draws > 1 ? 0 : NaN,
+    rowSe: 0
+  });
+  const present = new Set(featureOrder);
+  return [
+    ...featureOrder.map((name) => byKey.get(`f:${name}`) ?? zero(name, [name], false)),
+    ...groups.filter((g2) => g2.members.every((m) => present.has(m))).map((g2) => byKey.get(`g:${g2.name}`) ?? zero(g2.name, g2.members, true))
+  ];
+}
+function capRows(data, cap, seed) {
+  if (data.rows <= cap) return data;
+  const picked = shuffledIndices(data.rows, createRandom(seed)).slice(0, cap).sort();
+  return selectRows(data, picked);
+}
+
+// src/core/gate/work-units.ts
+var sideIndex = { base: 0, head: 1 };
+function unitCost(job, rows, kind) {
+  const features = job.inputs.train.features.length;
+  const fit2 = job.inputs.model ? 0 : job.inputs.train.rows * features;
+  if (kind === "drop-column") return job.inputs.train.rows * Math.max(features - 1, 1);
+  const units = features + job.options.groups.length;
+  const predictions = (rows.evaluation.rows + rows.slices.reduce((n, s) => n + s.rows.length, 0)) * units * job.options.draws;
+  return fit2 + predictions + job.inputs.holdout.rows;
+}
+function refitUnitId(side3, refit) {
+  return `${side3}/refit-${refit + 1}`;
+}
+function dropColumnUnitId(side3, refit, feature) {
+  return `${side3}/refit-${refit + 1}/without/${feature}`;
+}
+function unitContext(jobs) {
+  return { jobs, rows: [sideRows(jobs[0].inputs, jobs[0].options), sideRows(jobs[1].inputs, jobs[1].options)] };
+}
+function planRefitUnits(context) {
+  return context.jobs.flatMap(
+    (job, j) => sideRefitSeeds(job.inputs, job.options).map((seed, refit) => ({
+      kind: "refit",
+      id: refitUnitId(job.inputs.side, refit),
+      side: job.inputs.side,
+      refit,
+      seed,
+      cost: unitCost(job, context.rows[j], "refit")
+    }))
+  );
+}
+function combineSides(context, units, results) {
+  const combine = (j) => {
+    const job = context.jobs[j];
+    const seeds = sideRefitSeeds(job.inputs, job.options);
+    const parts = seeds.map((_, refit) => {
+      const k = units.findIndex((u) => u.side === job.inputs.side && u.refit === refit);
+      const result = results[k];
+      if (k < 0 || !result || result.kind !== "refit") throw new RangeError(`combineSides: no refit result for ${refitUnitId(job.inputs.side, refit)}`);
+      return result.part;
+    });
+    return combineRefits(seeds, context.rows[j], parts);
+  };
+  return [combine(0), combine(1)];
+}
+function planDropColumnUnits(context, combined) {
+  return context.jobs.flatMap((job, j) => {
+    const request = job.options.dropColumns;
+    if (!request || !job.inputs.fit || job.inputs.model) return [];
+    const seeds = combined[j].refitSeeds;
+    if (seeds.length < 2) return [];
+    const cost = unitCost(job, context.rows[j], "drop-column");
+    return dropColumnNames(job.inputs.train, request, rankedFeatureNames(combined[j])).flatMap(
+      (feature) => seeds.map((seed, refit) => ({ kind: "drop-column", id: dropColumnUnitId(job.inputs.side, refit, feature), side: job.inputs.side, refit, seed, feature, cost }))
+    );
+  });
+}
+function withDropColumns(combined, units, results) {
+  const sides = combined.map((measured, j) => {
+    const side3 = j === 0 ? "base" : "head";
+    const byFeature = /* @__PURE__ */ new Map();
+    units.forEach((unit, k) => {
+      if (unit.side !== side3) return;
+      const result = results[k];
+      if (!result || result.kind !== "drop-column") throw new RangeError(`withDropColumns: no drop-column score for ${unit.id}`);
+      const scores = byFeature.get(unit.feature) ?? [];
+      scores[unit.refit] = result.score;
+      byFeature.set(unit.feature, scores);
+    });
+    return { ...measured, dropColumns: [...byFeature].map(([name, scores]) => ({ name, scores })) };
+  });
+  return [sides[0], sides[1]];
+}
+async function measureByUnits(jobs, execute) {
+  const context = unitContext(jobs);
+  const refits = planRefitUnits(context);
+  const combined = combineSides(context, refits, await execute(refits, context));
+  const drops = planDropColumnUnits(context, combined);
+  return withDropColumns(combined, drops, drops.length > 0 ? await execute(drops, context) : []);
+}
+function measureSidesWith(execute) {
+  return (jobs) => measureByUnits(jobs, execute);
+}
+var executeInProcess = async (units, context) => {
+  const fitOf = (unit) => {
+    const job = context.jobs[sideIndex[unit.side]];
+    if (job.inputs.model) return Promise.resolve(job.inputs.model);
+    if (!job.inputs.fit) throw new RangeError(`executeInProcess: the ${unit.side} side has neither a model nor a fit`);
+    return job.inputs.fit({ side: unit.side, seed: unit.seed, refit: unit.refit, leaveOut: unit.kind === "drop-column" ? [unit.feature] : [] });
+  };
+  const prefetched = units.map((unit) => context.jobs[sideIndex[unit.side]].options.concurrentFits && !context.jobs[sideIndex[unit.side]].inputs.model ? fitOf(unit) : void 0);
+  prefetched.forEach((p) => p?.catch(() => void 0));
+  const results = [];
+  for (const [k, unit] of units.entries()) {
+    const j = sideIndex[unit.side];
+    const job = context.jobs[j];
+    if (unit.kind === "refit") job.options.onRefit?.(unit.refit, sideRefitSeeds(job.inputs, job.options).length);
+    const model = await (prefetched[k] ?? fitOf(unit));
+    results.push(await executeWithModel(unit, model, job, context.rows[j]));
+  }
+  return results;
+};
+async function executeWithModel(unit, model, job, rows) {
+  if (unit.kind === "refit") return { kind: "refit", part: await measureRefit(model, job.inputs, job.options, rows, unit.refit) };
+  const holdout = job.inputs.holdout;
+  if (!holdout.target) throw new RangeError("executeWithModel needs a holdout with a target");
+  const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
+  return { kind: "drop-column", score: job.options.metric.compute(holdout.target.values, prediction) };
+}
+function assignShards(units, shards) {
+  if (!Number.isInteger(shards) || shards < 1) throw new RangeError(`assignShards needs a whole number of shards from 1, got ${shards}`);
+  const order3 = units.map((_, k) => k).sort((a, b) => units[b].cost - units[a].cost || a - b);
+  const load = new Array(shards).fill(0);
+  const owner = new Array(units.length);
+  for (const k of order3) {
+    let best = 0;
+    for (let s = 1; s < shards; s++) if (load[s] < load[best]) best = s;
+    owner[k] = best;
+    load[best] += units[k].cost;
+  }
+  return Array.from({ length: shards }, (_, s) => units.filter((_2, k) => owner[k] === s));
+}
+
 // src/core/gate/measure-both-sides.ts
-var measureInTurn = async ([base, head]) => [
-  await measureSide(base.inputs, base.options),
-  await measureSide(head.inputs, head.options)
-];
-function measureJob(side2, data, settings, metric, onProgress, dropAlso = []) {
+var measureInTurn = measureSidesWith(executeInProcess);
+function measureJob(side3, data, settings, metric, onProgress, dropAlso = []) {
   const { model } = data;
-  const measuredSlices = planSlices(settings.policySlices, data.holdout, side2, { task: settings.task, minRows: settings.checks.slices.minRows }).flatMap((s) => s.status === "measured" ? [{ name: s.name, rows: s.rows }] : []);
+  const measuredSlices = planSlices(settings.policySlices, data.holdout, side3, { task: settings.task, minRows: settings.checks.slices.minRows }).flatMap((s) => s.status === "measured" ? [{ name: s.name, rows: s.rows }] : []);
   const source = model.kind === "builtin" ? { fit: createBuiltinFit(data.train, settings.task, settings.learner) } : model.kind === "command" ? { fit: model.fit } : { model: model.model };
   return {
-    inputs: { side: side2, train: data.train, holdout: data.holdout, reference: data.reference, ...data.unlabeled ? { unlabeled: data.unlabeled } : {}, ...source },
+    inputs: { side: side3, train: data.train, holdout: data.holdout, reference: data.reference, ...data.unlabeled ? { unlabeled: data.unlabeled } : {}, ...source },
     options: {
       task: settings.task,
       metric,
@@ -43670,7 +43575,7 @@ function measureJob(side2, data, settings, metric, onProgress, dropAlso = []) {
       groups: settings.groups,
       evaluationRows: settings.evaluationRows,
       referenceRows: settings.referenceRows,
-      onRefit: (refit, of) => onProgress?.({ stage: "refit", side: side2, refit, of }),
+      onRefit: (refit, of) => onProgress?.({ stage: "refit", side: side3, refit, of }),
       concurrentFits: model.kind === "command",
       ...settings.sensitivity ? { sensitivity: settings.sensitivity } : {},
       ...measuredSlices.length > 0 && settings.checks.slices.action !== "off" ? { slices: measuredSlices } : {},
@@ -43679,14 +43584,446 @@ function measureJob(side2, data, settings, metric, onProgress, dropAlso = []) {
     ...model.kind === "builtin" ? { builtin: { task: settings.task, settings: settings.learner } } : {}
   };
 }
-function measureBothSides(base, head, settings, metric, options) {
+function measureJobs(base, head, settings, metric, options) {
   const added = options.touched?.added ?? [];
   const changed = options.touched?.changed ?? [];
-  const jobs = [
+  return [
     measureJob("base", base, settings, metric, options.onProgress, changed),
     measureJob("head", head, settings, metric, options.onProgress, [...added, ...changed])
   ];
-  return (options.measureSides ?? measureInTurn)(jobs);
+}
+function measureBothSides(jobs, measureSides) {
+  return (measureSides ?? measureInTurn)(jobs);
+}
+
+// src/core/checks/feature-set.ts
+function diffFeatureSets(base, head) {
+  const baseKinds = new Map(base.features.map((f) => [f.name, f.kind]));
+  const headKinds = new Map(head.features.map((f) => [f.name, f.kind]));
+  return {
+    added: head.features.filter((f) => !baseKinds.has(f.name)).map((f) => f.name),
+    removed: base.features.filter((f) => !headKinds.has(f.name)).map((f) => f.name),
+    kindChanged: head.features.filter((f) => baseKinds.has(f.name) && baseKinds.get(f.name) !== f.kind).map((f) => ({ name: f.name, base: baseKinds.get(f.name), head: f.kind }))
+  };
+}
+function changedFeatures(base, head) {
+  const pick2 = base.holdout.rows === head.holdout.rows ? [base.holdout, head.holdout] : base.train.rows === head.train.rows ? [base.train, head.train] : null;
+  const changed = /* @__PURE__ */ new Set();
+  if (!pick2) return changed;
+  const [b, h] = pick2;
+  const bIndex = new Map(b.features.map((f, j) => [f.name, j]));
+  h.features.forEach((hf, hj) => {
+    const bj = bIndex.get(hf.name);
+    if (bj === void 0) return;
+    const bf = b.features[bj];
+    const bc = b.columns[bj];
+    const hc = h.columns[hj];
+    const decode4 = (kind, categories, v) => Number.isNaN(v) ? "NaN" : kind === "categorical" ? categories?.[v] ?? String(v) : v;
+    for (let i = 0; i < hc.length; i++) {
+      if (decode4(bf.kind, bf.categories, bc[i]) !== decode4(hf.kind, hf.categories, hc[i])) {
+        changed.add(hf.name);
+        return;
+      }
+    }
+  });
+  return changed;
+}
+function featureSetFindings(featureSet, head) {
+  const findings = [];
+  const { added, removed, kindChanged } = featureSet;
+  if (added.length || removed.length || kindChanged.length) {
+    const parts = [
+      added.length ? `added ${list2(added)}` : "",
+      removed.length ? `removed ${list2(removed)}` : "",
+      kindChanged.length ? `changed the kind of ${list2(kindChanged.map((k) => `${k.name} (${k.base} → ${k.head})`))}` : ""
+    ].filter(Boolean);
+    findings.push({
+      kind: "feature-set",
+      severity: "info",
+      title: `This pull request ${parts.join("; ")}.`,
+      message: `Features are compared by column name. ${added.length} added, ${removed.length} removed, ${kindChanged.length} changed kind.`,
+      evidence: { added: added.length, removed: removed.length, kindChanged: kindChanged.length }
+    });
+  }
+  const byName = new Map(head.importances.map((u) => [u.name, u]));
+  for (const name of added) {
+    const unit = byName.get(name);
+    if (unit && !unit.isAboveFloor) {
+      findings.push({
+        kind: "unused-feature",
+        severity: "info",
+        feature: name,
+        title: `The added feature ${name} is not measurably used by the candidate model.`,
+        message: `Its importance ${formatNumber(unit.mean)} has a 95% interval [${formatNumber(unit.lower)}, ${formatNumber(unit.upper)}] that does not lie above zero.`,
+        evidence: { mean: unit.mean, lower: unit.lower, upper: unit.upper }
+      });
+    }
+  }
+  return findings;
+}
+function list2(names) {
+  return names.length <= 5 ? names.join(", ") : `${names.slice(0, 5).join(", ")} and ${names.length - 5} more`;
+}
+
+// src/core/metrics/accuracy.ts
+function accuracy(y, p, options = {}) {
+  checkPaired("accuracy", y, p, "binary");
+  const threshold = options.threshold ?? 0.5;
+  if (Number.isNaN(threshold)) throw new RangeError("accuracy needs a threshold that is a number, got NaN");
+  let correct = 0;
+  for (let i = 0; i < y.length; i++) {
+    if (Number.isNaN(p[i])) return NaN;
+    if ((p[i] > threshold ? 1 : 0) === y[i]) correct++;
+  }
+  return correct / y.length;
+}
+
+// src/core/metrics/brier-score.ts
+function brierScore(y, p) {
+  checkPaired("brierScore", y, p, "binary");
+  let sum2 = 0;
+  for (let i = 0; i < y.length; i++) {
+    if (p[i] < 0 || p[i] > 1) throw new RangeError(`brierScore needs probabilities in [0, 1], got ${p[i]} at index ${i}`);
+    const d = p[i] - y[i];
+    sum2 += d * d;
+  }
+  return sum2 / y.length;
+}
+
+// src/core/metrics/log-loss.ts
+var EPSILON2 = 1e-15;
+function logLoss(y, p) {
+  checkPaired("logLoss", y, p, "binary");
+  let sum2 = 0;
+  for (let i = 0; i < y.length; i++) {
+    const probability = p[i];
+    if (probability < 0 || probability > 1) throw new RangeError(`logLoss needs probabilities in [0, 1], got ${probability} at index ${i}`);
+    const clipped = Math.min(1 - EPSILON2, Math.max(EPSILON2, probability));
+    sum2 -= Math.log(y[i] === 1 ? clipped : 1 - clipped);
+  }
+  return sum2 / y.length;
+}
+
+// src/core/metrics/mae.ts
+function mae(y, prediction) {
+  checkPaired("mae", y, prediction, "any");
+  let sum2 = 0;
+  for (let i = 0; i < y.length; i++) sum2 += Math.abs(y[i] - prediction[i]);
+  return sum2 / y.length;
+}
+
+// src/core/metrics/rmse.ts
+function rmse(y, prediction) {
+  checkPaired("rmse", y, prediction, "any");
+  let sum2 = 0;
+  for (let i = 0; i < y.length; i++) {
+    const d = y[i] - prediction[i];
+    sum2 += d * d;
+  }
+  return Math.sqrt(sum2 / y.length);
+}
+
+// src/core/metrics/metric-by-name.ts
+var METRICS = [
+  { name: "auc", task: "binary", higherIsBetter: true, compute: rocAuc },
+  { name: "log-loss", task: "binary", higherIsBetter: false, compute: logLoss },
+  { name: "accuracy", task: "binary", higherIsBetter: true, compute: (y, p) => accuracy(y, p) },
+  { name: "brier", task: "binary", higherIsBetter: false, compute: brierScore },
+  { name: "rmse", task: "regression", higherIsBetter: false, compute: rmse },
+  { name: "mae", task: "regression", higherIsBetter: false, compute: mae },
+  { name: "r2", task: "regression", higherIsBetter: true, compute: rSquared }
+];
+var TASK_WORDS = { binary: "a binary target", regression: "a regression target" };
+function metricByName(name, task) {
+  const allowed = METRICS.filter((m) => m.task === task);
+  const metric = allowed.find((m) => m.name === name);
+  if (metric) return metric;
+  const exists2 = METRICS.some((m) => m.name === name);
+  throw new UserError(
+    `${exists2 ? `The metric '${name}' does not fit` : `There is no metric '${name}' for`} ${TASK_WORDS[task]}; the metrics for ${TASK_WORDS[task]} are ${allowed.map((m) => m.name).join(", ")}.`,
+    `Choose one of those, or leave the metric out to use ${defaultMetric2(task)}.`
+  );
+}
+function defaultMetric2(task) {
+  return task === "binary" ? "log-loss" : "rmse";
+}
+
+// src/core/data/cap-table-rows.ts
+function capTableRows(table2, max, seed) {
+  if (!Number.isInteger(max) || max < 1) throw new RangeError(`capTableRows needs max to be a whole number >= 1, got ${max}`);
+  if (table2.rows <= max) return { table: table2, record: { rows: table2.rows, kept: table2.rows, seed, sampled: false } };
+  const picked = shuffledIndices(table2.rows, createRandom(seed)).subarray(0, max).sort();
+  const kept = selectRows(table2, picked);
+  const missing = kept.columns.map((column, j) => {
+    let count4 = 0;
+    for (let i = 0; i < column.length; i++) if (column[i] !== column[i]) count4++;
+    return table2.unseenCategories?.[table2.features[j].name] ? table2.missing[j] : count4;
+  });
+  return { table: { ...kept, missing }, record: { rows: table2.rows, kept: max, seed, sampled: true } };
+}
+
+// src/core/data/align-holdout.ts
+function alignHoldout(base, head) {
+  if (base.rows !== head.rows) return head;
+  const order3 = base.ids && head.ids ? orderById(base, head) : orderByContent(base, head);
+  if (!order3 || order3.every((i, k) => i === k)) return head;
+  return selectRows(head, order3);
+}
+function orderById(base, head) {
+  const position = /* @__PURE__ */ new Map();
+  head.ids.values.forEach((id, i) => position.set(id, i));
+  if (position.size !== head.rows || new Set(base.ids.values).size !== base.rows) return null;
+  const order3 = [];
+  for (const id of base.ids.values) {
+    const i = position.get(id);
+    if (i === void 0) return null;
+    order3.push(i);
+  }
+  return order3;
+}
+function orderByContent(base, head) {
+  if (!base.target || !head.target) return null;
+  const headIndex = new Map(head.features.map((f, j) => [f.name, j]));
+  const shared2 = base.features.flatMap((f, j) => {
+    const hj = headIndex.get(f.name);
+    return hj === void 0 ? [] : [{ b: j, h: hj }];
+  });
+  const cell = (data, j, i) => {
+    const v = data.columns[j][i];
+    const categories = data.features[j].categories;
+    return Number.isNaN(v) ? "NaN" : data.features[j].kind === "categorical" && categories ? `c:${categories[v] ?? v}` : String(v);
+  };
+  const key2 = (data, side3, i) => [String(data.target.values[i]), ...shared2.map((s) => cell(data, s[side3], i))].join("\0");
+  const waiting = /* @__PURE__ */ new Map();
+  for (let i = head.rows - 1; i >= 0; i--) {
+    const k = key2(head, "h", i);
+    const list4 = waiting.get(k);
+    if (list4) list4.push(i);
+    else waiting.set(k, [i]);
+  }
+  const order3 = [];
+  for (let i = 0; i < base.rows; i++) {
+    const next = waiting.get(key2(base, "b", i))?.pop();
+    if (next === void 0) return null;
+    order3.push(next);
+  }
+  return order3;
+}
+function capAlignedHoldouts(base, alignedHead, max, seed) {
+  return { base: capTableRows(base, max, seed), head: capTableRows(alignedHead, max, seed) };
+}
+
+// src/core/gate/cap-side-rows.ts
+function capSideRows(inputs, settings) {
+  const alignedHead = alignHoldout(inputs.base.holdout, inputs.head.holdout);
+  const { maxTrainRows, maxHoldoutRows, reference } = settings.rowCaps;
+  const holdouts = capAlignedHoldouts(inputs.base.holdout, alignedHead, maxHoldoutRows, deriveSeed(settings.seed, "row-cap", "holdout"));
+  const trainSeed = deriveSeed(settings.seed, "row-cap", "train");
+  const capSide = (side3, holdout) => {
+    const train3 = capTableRows(side3.train, maxTrainRows, trainSeed);
+    const sampling = {
+      ...train3.record.sampled ? { train: train3.record } : {},
+      ...holdout.record.sampled ? { holdout: holdout.record } : {}
+    };
+    const sideReference = reference === "train" ? train3.table : reference === "holdout" ? holdout.table : side3.reference;
+    return { inputs: { ...side3, train: train3.table, holdout: holdout.table, reference: sideReference }, sampling };
+  };
+  const base = capSide(inputs.base, holdouts.base);
+  const head = capSide(inputs.head, holdouts.head);
+  return {
+    sides: { base: base.inputs, head: head.inputs },
+    sampling: { base: base.sampling, head: head.sampling },
+    holdouts: { base: inputs.base.holdout, head: alignedHead }
+  };
+}
+
+// src/core/gate/gate-settings.ts
+var fixedSettings = {
+  minRelativeChange: 0.2,
+  persistence: 0.9,
+  singleFeatureTop: 3,
+  singleFeatureMaxExtra: 20,
+  slices: { maxLevels: 20, minRows: 30 },
+  correlationRows: 5e3,
+  scoreBlockAtSds: 3,
+  pairedBootstrapReplicates: 200
+};
+function builtinLearnerSettings(config2) {
+  const m = config2.model.kind === "builtin" ? config2.model : { learner: "gradient-boosting", ...defaultBoosting };
+  return {
+    learner: m.learner,
+    boosting: {
+      trees: m.trees,
+      maxDepth: m.maxDepth,
+      learningRate: m.learningRate,
+      minRowsPerLeaf: m.minRowsPerLeaf,
+      l2: m.l2,
+      rowSubsample: m.rowSubsample,
+      columnSubsample: m.columnSubsample
+    },
+    maxBins: m.maxBins,
+    linearL2: m.l2
+  };
+}
+function gateSettings(config2) {
+  const groups = Object.entries(config2.importance.groups).map(([name, members2]) => ({ name, members: members2 }));
+  const learner = builtinLearnerSettings(config2);
+  const written = config2.checksAsWritten;
+  const checks = {
+    leakage: config2.checks.leakage,
+    rankShift: { ...config2.checks.rankShift, minRelativeChange: fixedSettings.minRelativeChange },
+    rankAgreement: {
+      action: config2.checks.rankShift.action,
+      agreementPercentile: config2.checks.rankShift.agreementPercentile,
+      persistence: fixedSettings.persistence
+    },
+    score: { ...config2.checks.score, blockAtSds: fixedSettings.scoreBlockAtSds },
+    holdoutRows: config2.checks.holdoutRows.action,
+    sensitivity: config2.checks.sensitivity,
+    gain: config2.checks.gain,
+    slices: config2.checks.slices,
+    correlatedGroups: config2.checks.correlatedGroups
+  };
+  return {
+    task: config2.task,
+    target: config2.target,
+    seed: config2.seed,
+    metric: config2.importance.metric,
+    draws: config2.importance.draws,
+    refits: config2.importance.refits,
+    evaluationRows: config2.importance.evaluationRows,
+    referenceRows: config2.importance.referenceRows,
+    dropColumnTop: config2.importance.dropColumnTop,
+    groups,
+    // Row caps (data.max_train_rows, data.max_holdout_rows), and which table the reference rows are,
+    // so that a reference that is the training rows or the holdout follows its table's sample.
+    rowCaps: { maxTrainRows: config2.data.maxTrainRows, maxHoldoutRows: config2.data.maxHoldoutRows, reference: config2.data.reference.kind },
+    groupThreshold: config2.importance.groupThreshold,
+    /** Filled by withCorrelatedGroups once the head's training data is known. */
+    automaticGroups: [],
+    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
+    sensitivity: config2.checks.sensitivity.action === "off" ? void 0 : config2.task === "binary" ? { threshold: 0.5 } : {},
+    learner,
+    policySlices: config2.slices,
+    pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
+    singleFeatureTop: fixedSettings.singleFeatureTop,
+    singleFeatureMaxExtra: fixedSettings.singleFeatureMaxExtra,
+    slices: fixedSettings.slices,
+    // One-feature models always use gradient boosting: a linear one-feature model misses a
+    // non-monotone leak.
+    singleFeatureLearner: { ...learner, learner: "gradient-boosting" },
+    checks,
+    // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
+    // policy does not expose are marked fixed.
+    evidence: {
+      leakage: { ...written.leakage, reviewed_columns: config2.checks.leakage.reviewedColumns.join(", ") || "none" },
+      rank_shift: {
+        ...written.rank_shift,
+        "min_relative_change (fixed)": fixedSettings.minRelativeChange,
+        "rbo_persistence (fixed)": fixedSettings.persistence
+      },
+      score: { ...written.score, "block_at_reseed_sds (fixed)": fixedSettings.scoreBlockAtSds },
+      holdout_rows: written.holdout_rows,
+      sensitivity: written.sensitivity,
+      gain: written.gain,
+      slices: written.slices,
+      correlated_groups: { ...written.correlated_groups, group_threshold: config2.importance.groupThreshold }
+    }
+  };
+}
+
+// src/core/statistics/midranks.ts
+function midranks(values) {
+  const n = values.length;
+  const order3 = new Uint32Array(n);
+  for (let i = 0; i < n; i++) {
+    if (Number.isNaN(values[i])) throw new RangeError(`midranks cannot rank NaN (at index ${i})`);
+    order3[i] = i;
+  }
+  order3.sort((i, j) => values[i] < values[j] ? -1 : values[i] > values[j] ? 1 : 0);
+  const ranks = new Float64Array(n);
+  for (let start = 0; start < n; ) {
+    let end = start;
+    while (end + 1 < n && values[order3[end + 1]] === values[order3[start]]) end++;
+    const rank = (start + end) / 2 + 1;
+    for (let k = start; k <= end; k++) ranks[order3[k]] = rank;
+    start = end + 1;
+  }
+  return ranks;
+}
+
+// src/core/statistics/spearman-rho.ts
+function spearmanRho(x, y) {
+  if (x.length !== y.length) {
+    throw new RangeError(`spearmanRho needs paired samples, got ${x.length} and ${y.length} values`);
+  }
+  if (x.length < 2) return NaN;
+  for (let i = 0; i < x.length; i++) if (Number.isNaN(x[i]) || Number.isNaN(y[i])) return NaN;
+  const rho = sampleCorrelation(Array.from(midranks(x)), Array.from(midranks(y)));
+  return Math.max(-1, Math.min(1, rho));
+}
+
+// src/core/importance/correlated-groups.ts
+function correlatedGroups(data, options) {
+  const numeric = data.features.map((f, j) => ({ name: f.name, j, kind: f.kind })).filter((f) => f.kind === "numeric");
+  const rows = data.rows <= options.maxRows ? null : shuffledIndices(data.rows, createRandom(options.seed)).slice(0, options.maxRows).sort();
+  const column = (j) => rows ? Float64Array.from(rows, (i) => data.columns[j][i]) : data.columns[j];
+  const columns = numeric.map((f) => column(f.j));
+  const parent = numeric.map((_, k) => k);
+  const find = (k) => parent[k] === k ? k : parent[k] = find(parent[k]);
+  const weakest = /* @__PURE__ */ new Map();
+  for (let a = 0; a < numeric.length; a++) {
+    for (let b = a + 1; b < numeric.length; b++) {
+      const x = [];
+      const y = [];
+      for (let i = 0; i < columns[a].length; i++) {
+        if (!Number.isNaN(columns[a][i]) && !Number.isNaN(columns[b][i])) {
+          x.push(columns[a][i]);
+          y.push(columns[b][i]);
+        }
+      }
+      if (x.length < 3) continue;
+      const rho = Math.abs(spearmanRho(x, y));
+      if (!(rho >= options.threshold)) continue;
+      const ra = find(a);
+      const rb2 = find(b);
+      if (ra === rb2) continue;
+      parent[rb2] = ra;
+      weakest.set(ra, Math.min(rho, weakest.get(ra) ?? 1, weakest.get(rb2) ?? 1));
+    }
+  }
+  const clusters = /* @__PURE__ */ new Map();
+  numeric.forEach((_, k) => clusters.set(find(k), [...clusters.get(find(k)) ?? [], k]));
+  return [...clusters.entries()].filter(([, members2]) => members2.length > 1).map(([root2, members2]) => ({ name: members2.map((k) => numeric[k].name).join(" ~ "), members: members2.map((k) => numeric[k].name), weakestLink: weakest.get(root2) }));
+}
+
+// src/core/gate/with-correlated-groups.ts
+function withCorrelatedGroups(settings, headTrain) {
+  if (settings.checks.correlatedGroups.action === "off") return settings;
+  const taken = /* @__PURE__ */ new Set([...headTrain.features.map((f) => f.name), ...settings.groups.map((g2) => g2.name)]);
+  const explicit = new Set(settings.groups.map((g2) => [...g2.members].sort().join("\0")));
+  const automatic = correlatedGroups(headTrain, {
+    threshold: settings.groupThreshold,
+    maxRows: fixedSettings.correlationRows,
+    seed: deriveSeed(settings.seed, "correlated-groups")
+  }).filter((g2) => !taken.has(g2.name) && !explicit.has([...g2.members].sort().join("\0")));
+  if (automatic.length === 0) return settings;
+  return { ...settings, groups: [...settings.groups, ...automatic.map((g2) => ({ name: g2.name, members: g2.members }))], automaticGroups: automatic };
+}
+
+// src/core/gate/plan-measurement.ts
+function planMeasurement(inputs) {
+  const settings = withCorrelatedGroups(gateSettings(inputs.config), inputs.head.train);
+  const metric = metricByName(settings.metric, settings.task);
+  const capped = capSideRows(inputs, settings);
+  const sides = capped.sides;
+  const featureSet = diffFeatureSets(sides.base.train, sides.head.train);
+  const changed = changedFeatures(sides.base, sides.head);
+  const jobs = measureJobs(sides.base, sides.head, settings, metric, {
+    onProgress: inputs.onProgress,
+    touched: { added: featureSet.added, changed: [...changed] }
+  });
+  return { settings, metric, sides, capped, featureSet, changed, jobs };
 }
 
 // src/core/checks/context-findings.ts
@@ -43892,6 +44229,7 @@ function checkLeakage(context, options) {
   const { base, head, added, changed } = context;
   const trivial = options.task === "binary" ? 0.5 : 0;
   const metricName = options.task === "binary" ? "AUC" : "R²";
+  const sees = (name, slice) => slice.besideColumn ? `${name} and ${slice.column} (so it can treat each ${slice.column} apart)` : name;
   const fullHead = mean2(head.separation);
   const fullBase = mean2(base.separation);
   const findings = [];
@@ -43951,7 +44289,7 @@ function checkLeakage(context, options) {
       severity,
       feature: unit.name,
       title: `${cause(unit.name)}, alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}).`,
-      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong in a slice on the base side (${baseSlice.column} = ${baseSlice.value}, ${metricName} ${fmt(baseSlice.separation)}).` : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
+      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${sees(unit.name, slice)} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${metricName} ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong in a slice on the base side (${baseSlice.column} = ${baseSlice.value}, ${metricName} ${fmt(baseSlice.separation)}).` : `Check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`),
       evidence: {
         sliceColumn: slice.column,
         sliceValue: slice.value,
@@ -43994,7 +44332,7 @@ function checkLeakage(context, options) {
       severity: "warn",
       feature: unit.name,
       title: `${cause(unit.name)}, alone nearly separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}) and the model needs it (${formatPercent(lift.liftShare)} of the loss the base model left).`,
-      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(lift.alone ?? void 0)}), and refitted without it the candidate's loss grows by ${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
+      message: `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${sees(unit.name, slice)} reaches ${metricName} ${fmt(slice.separation)} (on the whole holdout ${metricName} ${fmt(lift.alone ?? void 0)}), and refitted without it the candidate's loss grows by ${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
       evidence: {
         sliceColumn: slice.column,
         sliceValue: slice.value,
@@ -44215,7 +44553,7 @@ function checkRankAgreement(base, head, options) {
     return { findings: [], agreement: null };
   }
   const headIndex = new Map(head.importances.map((u, i) => [u.name, i]));
-  const vector = (side2, index, refit) => names.map((name) => side2.perRefit[refit][index.get(name)].mean);
+  const vector = (side3, index2, refit) => names.map((name) => side3.perRefit[refit][index2.get(name)].mean);
   const baseVectors = base.perRefit.map((_, r) => vector(base, baseIndex, r));
   const headVectors = head.perRefit.map((_, r) => vector(head, headIndex, r));
   const tau = (a, b) => kendallTauB(a, b);
@@ -44314,8 +44652,8 @@ function welchTTest(x, y) {
   const missing = first.findIndex(Number.isNaN);
   const missingSecond = second.findIndex(Number.isNaN);
   if (missing >= 0 || missingSecond >= 0) {
-    const [where2, index] = missing >= 0 ? ["x", missing] : ["y", missingSecond];
-    throw new RangeError(`welchTTest cannot use NaN (${where2}[${index}]); drop missing values first`);
+    const [where2, index2] = missing >= 0 ? ["x", missing] : ["y", missingSecond];
+    throw new RangeError(`welchTTest cannot use NaN (${where2}[${index2}]); drop missing values first`);
   }
   return welchTTestFromSummary(
     { mean: mean(first), sd: sampleStandardDeviation(first), n: first.length },
@@ -44360,9 +44698,9 @@ function checkRankShift(base, head, options) {
   });
   const isTestable = pairs.map((p) => samples(base, p.bi).length >= 2 && samples(head, p.hi).length >= 2);
   const tests = pairs.map(
-    (p, index) => isTestable[index] ? welchTTest(samples(base, p.bi), samples(head, p.hi)) : { t: NaN, df: NaN, pValue: NaN }
+    (p, index2) => isTestable[index2] ? welchTTest(samples(base, p.bi), samples(head, p.hi)) : { t: NaN, df: NaN, pValue: NaN }
   );
-  const adjustedTestable = benjaminiHochberg(tests.filter((_, index) => isTestable[index]).map((t) => t.pValue));
+  const adjustedTestable = benjaminiHochberg(tests.filter((_, index2) => isTestable[index2]).map((t) => t.pValue));
   let nextAdjusted = 0;
   const adjusted = isTestable.map((testable) => testable ? adjustedTestable[nextAdjusted++] : NaN);
   const compared = pairs.filter((p) => !p.isGroup && (p.b.isAboveFloor || p.h.isAboveFloor));
@@ -44372,20 +44710,20 @@ function checkRankShift(base, head, options) {
   const headSideRank = sideRanks(head.importances);
   const shifts = /* @__PURE__ */ new Map();
   const findings = [];
-  pairs.forEach((p, index) => {
-    const test = tests[index];
+  pairs.forEach((p, index2) => {
+    const test = tests[index2];
     const isCompared = baseRank.has(p.name);
     const positionsMoved = isCompared ? headRank.get(p.name) - baseRank.get(p.name) : null;
     const difference = p.h.mean - p.b.mean;
     const larger = Math.max(Math.abs(p.b.mean), Math.abs(p.h.mean));
     const relativeChange = larger > 0 ? Math.abs(difference) / larger : 0;
-    const isSignificant = adjusted[index] <= options.falseDiscoveryRate;
+    const isSignificant = adjusted[index2] <= options.falseDiscoveryRate;
     shifts.set(p.name, {
       meanDifference: difference,
       welchT: test.t,
       welchDf: test.df,
       pValue: test.pValue,
-      adjustedPValue: adjusted[index],
+      adjustedPValue: adjusted[index2],
       isSignificant,
       positionsMoved
     });
@@ -44400,7 +44738,7 @@ function checkRankShift(base, head, options) {
         severity: options.action,
         feature: p.name,
         title: `${p.name}'s importance ${direction} from ${formatNumber(p.b.mean)} to ${formatNumber(p.h.mean)} (${formatChange(p.b.mean, p.h.mean)}; ${rank}).`,
-        message: `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits the change is beyond reseed noise: Welch's t = ${formatNumber(test.t)} (df ${formatNumber(test.df)}), ${formatPStatement("p", test.pValue)}, ${formatPStatement("Benjamini–Hochberg adjusted p", adjusted[index])} against a false discovery rate of ${options.falseDiscoveryRate}. Reseed noise (refit SD) is ${formatNumber(p.b.refitSd)} on the base side and ${formatNumber(p.h.refitSd)} on the head.`,
+        message: `Across ${samples(base, p.bi).length} base and ${samples(head, p.hi).length} head refits the change is beyond reseed noise: Welch's t = ${formatNumber(test.t)} (df ${formatNumber(test.df)}), ${formatPStatement("p", test.pValue)}, ${formatPStatement("Benjamini–Hochberg adjusted p", adjusted[index2])} against a false discovery rate of ${options.falseDiscoveryRate}. Reseed noise (refit SD) is ${formatNumber(p.b.refitSd)} on the base side and ${formatNumber(p.h.refitSd)} on the head.`,
         evidence: {
           baseMean: p.b.mean,
           headMean: p.h.mean,
@@ -44410,7 +44748,7 @@ function checkRankShift(base, head, options) {
           welchT: test.t,
           welchDf: test.df,
           pValue: test.pValue,
-          adjustedPValue: adjusted[index],
+          adjustedPValue: adjusted[index2],
           baseRank: fromRank,
           headRank: toRank
         }
@@ -44429,9 +44767,9 @@ function checkRankShift(base, head, options) {
   });
   return { findings, shifts };
 }
-function samples(side2, index) {
-  if (side2.perRefit.length >= 2) return side2.perRefit.map((r) => r[index].mean);
-  return side2.perRefit[0][index].draws;
+function samples(side3, index2) {
+  if (side3.perRefit.length >= 2) return side3.perRefit.map((r) => r[index2].mean);
+  return side3.perRefit[0][index2].draws;
 }
 function rankWithin(units) {
   const sorted = [...units].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
@@ -44464,13 +44802,16 @@ function checkScoreRegression(evidence, options) {
   if (options.action === "off" || !(worsening > options.tolerance) || !(pValue < options.alpha)) return [];
   const spread = pooledSd(evidence);
   const worseningInSds = spread > 0 ? worsening / spread : Infinity;
-  const severity = options.action === "block" && worseningInSds < (options.blockAtSds ?? 0) ? "warn" : options.action;
+  const rows = df !== null && evidence.pairedBootstrap && evidence.pairedBootstrap.length >= 2 ? rowNoise(evidence.pairedBootstrap, worsening - options.tolerance) : null;
+  const withinRowNoise = rows !== null && !(rows.pValue < options.alpha);
+  const belowSds = worseningInSds < (options.blockAtSds ?? 0);
+  const severity = options.action === "block" && (belowSds || withinRowNoise) ? "warn" : options.action;
   return [
     {
       kind: "score-regression",
       severity,
       title: `Holdout ${options.metric} got worse: ${formatNumber(baseMean)} → ${formatNumber(headMean)} (${formatChange(baseMean, headMean)}, beyond reseed noise).`,
-      message: `The candidate's mean holdout ${options.metric} is ${formatNumber(headMean)} against ${formatNumber(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${formatNumber(worsening)} exceeds the tolerance of ${options.tolerance} with ${formatPStatement("one-sided p", pValue)} (standard error ${formatNumber(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${formatNumber(df)} over reseeded refits`) + `; level ${options.alpha}).`,
+      message: `The candidate's mean holdout ${options.metric} is ${formatNumber(headMean)} against ${formatNumber(baseMean)} for the baseline (${options.higherIsBetter ? "higher" : "lower"} is better). The worsening of ${formatNumber(worsening)} exceeds the tolerance of ${options.tolerance} with ${formatPStatement("one-sided p", pValue)} (standard error ${formatNumber(standardError)}` + (df === null ? ", from a paired bootstrap of holdout rows" : `, Welch df ${formatNumber(df)} over reseeded refits`) + `; level ${options.alpha}).` + (options.action === "block" && !belowSds && withinRowNoise ? ` It warns rather than blocks: against the holdout's own sampling noise (paired bootstrap of its rows, standard error ${formatNumber(rows.standardError)}) the worsening has ${formatPStatement("one-sided p", rows.pValue)}, so another sample of rows could well show no worsening.` : ""),
       evidence: {
         baseMean,
         headMean,
@@ -44480,10 +44821,15 @@ function checkScoreRegression(evidence, options) {
         welchDf: df,
         pValue,
         alpha: options.alpha,
-        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null
+        worseningInReseedSds: Number.isFinite(worseningInSds) ? worseningInSds : null,
+        ...rows ? { holdoutRowStandardError: rows.standardError, holdoutRowPValue: rows.pValue } : {}
       }
     }
   ];
+}
+function rowNoise(replicates, excess) {
+  const standardError = summary(replicates).sd;
+  return { standardError, pValue: tailAbove(excess, standardError, (z3) => 1 - studentTCdf(z3, Infinity)) };
 }
 function pooledSd(evidence) {
   const { baseScores, headScores, pairedBootstrap: pairedBootstrap2 } = evidence;
@@ -44510,20 +44856,20 @@ var toleranceRelative = 0.2;
 var severityOrder = { block: 0, warn: 1, info: 2 };
 function groupConsequences(findings, sides, featureSet) {
   const { base, head } = sides;
-  const unit = (side2, name) => side2.importances.find((u) => !u.isGroup && u.name === name);
-  const strong = (side2, names2) => names2.map((name) => ({ name, unit: unit(side2, name), share: positiveShare(side2.importances, name) })).filter((x) => x.unit?.isAboveFloor && x.share >= strongShare);
+  const unit = (side3, name) => side3.importances.find((u) => !u.isGroup && u.name === name);
+  const strong = (side3, names2) => names2.map((name) => ({ name, unit: unit(side3, name), share: positiveShare(side3.importances, name) })).filter((x) => x.unit?.isAboveFloor && x.share >= strongShare);
   const added = strong(head, featureSet.added);
   const removed = strong(base, featureSet.removed);
   if (added.length === 0 && removed.length === 0) return [...findings];
   const headNames = new Set(head.importances.filter((u) => !u.isGroup).map((u) => u.name));
   const shared2 = base.importances.filter((u) => !u.isGroup && headNames.has(u.name));
-  const total = (side2) => shared2.reduce((sum2, b) => sum2 + Math.max(0, unit(side2, b.name).mean), 0);
+  const total = (side3) => shared2.reduce((sum2, b) => sum2 + Math.max(0, unit(side3, b.name).mean), 0);
   const baseTotal = total(base);
   const headTotal = total(head);
   if (!(baseTotal > 0)) return [...findings];
   const factor = headTotal / baseTotal;
-  const order3 = (side2) => new Map(
-    shared2.map((b) => unit(side2, b.name)).sort((x, y) => y.mean - x.mean || (x.name < y.name ? -1 : 1)).map((u, i) => [u.name, i])
+  const order3 = (side3) => new Map(
+    shared2.map((b) => unit(side3, b.name)).sort((x, y) => y.mean - x.mean || (x.name < y.name ? -1 : 1)).map((u, i) => [u.name, i])
   );
   const baseOrder = order3(base);
   const headOrder = order3(head);
@@ -44615,7 +44961,7 @@ function runChecks(inputs) {
   );
   const shift = checkRankShift(results.base, results.head, settings.checks.rankShift);
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement);
-  const bootstrap = sameRows && (base.scores.length < 2 || head.scores.length < 2) ? pairedBootstrap(holdouts.base.target.values, base.firstPredictions, head.firstPredictions, {
+  const bootstrap = sameRows ? pairedBootstrap(inputs.scoredTarget, base.firstPredictions, head.firstPredictions, {
     metric,
     replicates: settings.pairedBootstrapReplicates,
     seed: settings.seed
@@ -44669,15 +45015,27 @@ async function singleFeatureSeparation(train3, holdout, names, options) {
     });
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
     overall[name] = score2(y, prediction);
-    for (const slice of slices) {
-      if (slice.column === name) continue;
+    const keepBest = (slice, predicted, besideColumn) => {
       const separation = score2(
         Array.from(slice.rows, (i) => y[i]),
-        Array.from(slice.rows, (i) => prediction[i])
+        Array.from(slice.rows, (i) => predicted[i])
       );
       if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
-        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation };
+        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation, ...besideColumn ? { besideColumn } : {} };
       }
+    };
+    for (const slice of slices) if (slice.column !== name) keepBest(slice, prediction, false);
+    if (!options.withSliceColumn?.includes(name)) continue;
+    for (const column of new Set(slices.map((slice) => slice.column))) {
+      if (column === name) continue;
+      const paired = await options.fit({
+        side: options.side,
+        seed: deriveSeed(options.seed, "single-feature", name, "beside", column),
+        refit: 0,
+        leaveOut: all.filter((other) => other !== name && other !== column)
+      });
+      const pairedPrediction = await paired.predict(selectFeatures(holdout, paired.featureNames));
+      for (const slice of slices) if (slice.column === column) keepBest(slice, pairedPrediction, true);
     }
   }
   return { overall, bestSlice };
@@ -44711,15 +45069,16 @@ async function separateSingleFeatures(sides, measured, touched, settings, contex
       ...touched.slice(0, settings.singleFeatureMaxExtra)
     ])
   ];
-  const separate = (side2) => context.stopwatch.time(`${side2}SingleFeatureSeconds`, async () => {
-    context.onProgress?.({ stage: "single-feature", side: side2, features: candidates.length });
-    const data = sides[side2];
+  const separate = (side3) => context.stopwatch.time(`${side3}SingleFeatureSeconds`, async () => {
+    context.onProgress?.({ stage: "single-feature", side: side3, features: candidates.length });
+    const data = sides[side3];
     return singleFeatureSeparation(data.train, data.holdout, candidates, {
       fit: createBuiltinFit(data.train, settings.task, settings.singleFeatureLearner),
       task: settings.task,
       seed: settings.seed,
-      side: side2,
-      slices: settings.slices
+      side: side3,
+      slices: settings.slices,
+      withSliceColumn: touched
     });
   });
   const baseResult = await separate("base");
@@ -44772,7 +45131,7 @@ function lossOfScore(metric, score2) {
 }
 
 // src/core/gate/side-results.ts
-function sideResult(side2, data, measured, single, metric) {
+function sideResult(side3, data, measured, single, metric) {
   const losses = measured.scores.map((s) => lossOfScore(metric, s));
   const dropColumns = /* @__PURE__ */ Object.create(null);
   for (const d of measured.dropColumns ?? []) {
@@ -44781,7 +45140,7 @@ function sideResult(side2, data, measured, single, metric) {
   return {
     losses,
     dropColumns,
-    side: side2,
+    side: side3,
     features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
     scores: measured.scores,
     separation: measured.separation,
@@ -44818,16 +45177,32 @@ function checkGainNoise(features, touched, options) {
   ranked.slice(0, options.topRanks).forEach((f, i) => {
     const share = Math.max(0, f.gain) / total;
     if (share < options.minGainShare || f.distinct < options.minDistinct || f.isAboveFloor) return;
+    const facts = `${f.name} has ${f.distinct} distinct values in the training rows and takes ${formatPercent(share)} of the ensemble's split gain (${formatNumber(f.splits)} splits per model on average), yet replacing it on the holdout changes the score by ${formatNumber(f.importance)}, within reseed noise of zero. Gain is measured on the training rows and favours features with many distinct values (Strobl et al. 2007)`;
     findings.push({
       kind: "gain-noise",
       severity: touched.has(f.name) ? action : "info",
       feature: f.name,
-      title: `${f.name} ranks ${i + 1} by the trees' gain (${formatPercent(share)}) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).`,
-      message: `${f.name} has ${f.distinct} distinct values in the training rows and takes ${formatPercent(share)} of the ensemble's split gain (${formatNumber(f.splits)} splits per model on average), yet replacing it on the holdout changes the score by ${formatNumber(f.importance)}, within reseed noise of zero. Gain is measured on the training rows and favours features with many distinct values (Strobl et al. 2007); if this column identifies rows or encodes when or where a row was recorded, drop it or give it the role id.`,
-      evidence: { gainRank: i + 1, gainShare: share, splits: f.splits, distinct: f.distinct, importance: f.importance, touched: touched.has(f.name) }
+      title: f.idLike ? `${f.name} ranks ${i + 1} by the trees' gain (${formatPercent(share)}) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).` : `${f.name} ranks ${i + 1} by the trees' gain (${formatPercent(share)}) but is indistinguishable from zero on the holdout: the trees fit training noise with it.`,
+      message: f.idLike ? `${facts}; its values are nearly all different, as an identifier's or a record time's are: if this column identifies rows or encodes when or where a row was recorded, drop it or give it the role id.` : `${facts}; a measurement with many values offers many split points, so the trees can fit noise in it without it helping on new rows. Stronger regularisation (fewer bins, larger leaves) or leaving it out would cost nothing on this holdout.`,
+      evidence: { gainRank: i + 1, gainShare: share, splits: f.splits, distinct: f.distinct, idLike: f.idLike, importance: f.importance, touched: touched.has(f.name) }
     });
   });
   return findings;
+}
+function looksLikeIdentifier(kind, values) {
+  const seen = /* @__PURE__ */ new Set();
+  let present = 0;
+  let wholeNumbers = true;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (Number.isNaN(v)) continue;
+    present++;
+    seen.add(v);
+    if (wholeNumbers && !Number.isInteger(v)) wholeNumbers = false;
+  }
+  if (present === 0) return false;
+  const share = seen.size / present;
+  return kind === "categorical" ? share >= 0.5 : wholeNumbers && share >= 0.9;
 }
 
 // src/core/checks/group-carried.ts
@@ -45009,94 +45384,11 @@ function checkSlices(slices, overall, touched, options) {
   return { findings, changes };
 }
 
-// src/core/metrics/accuracy.ts
-function accuracy(y, p, options = {}) {
-  checkPaired("accuracy", y, p, "binary");
-  const threshold = options.threshold ?? 0.5;
-  if (Number.isNaN(threshold)) throw new RangeError("accuracy needs a threshold that is a number, got NaN");
-  let correct = 0;
-  for (let i = 0; i < y.length; i++) {
-    if (Number.isNaN(p[i])) return NaN;
-    if ((p[i] > threshold ? 1 : 0) === y[i]) correct++;
-  }
-  return correct / y.length;
-}
-
-// src/core/metrics/brier-score.ts
-function brierScore(y, p) {
-  checkPaired("brierScore", y, p, "binary");
-  let sum2 = 0;
-  for (let i = 0; i < y.length; i++) {
-    if (p[i] < 0 || p[i] > 1) throw new RangeError(`brierScore needs probabilities in [0, 1], got ${p[i]} at index ${i}`);
-    const d = p[i] - y[i];
-    sum2 += d * d;
-  }
-  return sum2 / y.length;
-}
-
-// src/core/metrics/log-loss.ts
-var EPSILON2 = 1e-15;
-function logLoss(y, p) {
-  checkPaired("logLoss", y, p, "binary");
-  let sum2 = 0;
-  for (let i = 0; i < y.length; i++) {
-    const probability = p[i];
-    if (probability < 0 || probability > 1) throw new RangeError(`logLoss needs probabilities in [0, 1], got ${probability} at index ${i}`);
-    const clipped = Math.min(1 - EPSILON2, Math.max(EPSILON2, probability));
-    sum2 -= Math.log(y[i] === 1 ? clipped : 1 - clipped);
-  }
-  return sum2 / y.length;
-}
-
-// src/core/metrics/mae.ts
-function mae(y, prediction) {
-  checkPaired("mae", y, prediction, "any");
-  let sum2 = 0;
-  for (let i = 0; i < y.length; i++) sum2 += Math.abs(y[i] - prediction[i]);
-  return sum2 / y.length;
-}
-
-// src/core/metrics/rmse.ts
-function rmse(y, prediction) {
-  checkPaired("rmse", y, prediction, "any");
-  let sum2 = 0;
-  for (let i = 0; i < y.length; i++) {
-    const d = y[i] - prediction[i];
-    sum2 += d * d;
-  }
-  return Math.sqrt(sum2 / y.length);
-}
-
-// src/core/metrics/metric-by-name.ts
-var METRICS = [
-  { name: "auc", task: "binary", higherIsBetter: true, compute: rocAuc },
-  { name: "log-loss", task: "binary", higherIsBetter: false, compute: logLoss },
-  { name: "accuracy", task: "binary", higherIsBetter: true, compute: (y, p) => accuracy(y, p) },
-  { name: "brier", task: "binary", higherIsBetter: false, compute: brierScore },
-  { name: "rmse", task: "regression", higherIsBetter: false, compute: rmse },
-  { name: "mae", task: "regression", higherIsBetter: false, compute: mae },
-  { name: "r2", task: "regression", higherIsBetter: true, compute: rSquared }
-];
-var TASK_WORDS = { binary: "a binary target", regression: "a regression target" };
-function metricByName(name, task) {
-  const allowed = METRICS.filter((m) => m.task === task);
-  const metric = allowed.find((m) => m.name === name);
-  if (metric) return metric;
-  const exists2 = METRICS.some((m) => m.name === name);
-  throw new UserError(
-    `${exists2 ? `The metric '${name}' does not fit` : `There is no metric '${name}' for`} ${TASK_WORDS[task]}; the metrics for ${TASK_WORDS[task]} are ${allowed.map((m) => m.name).join(", ")}.`,
-    `Choose one of those, or leave the metric out to use ${defaultMetric2(task)}.`
-  );
-}
-function defaultMetric2(task) {
-  return task === "binary" ? "log-loss" : "rmse";
-}
-
 // src/core/gate/judge-slices.ts
 function judgeSlices(inputs) {
   const { settings } = inputs;
   if (settings.policySlices.length === 0 || settings.checks.slices.action === "off") return { findings: [] };
-  const plan = (side2) => planSlices(settings.policySlices, inputs.sides[side2].holdout, side2, { task: settings.task, minRows: settings.checks.slices.minRows });
+  const plan = (side3) => planSlices(settings.policySlices, inputs.sides[side3].holdout, side3, { task: settings.task, minRows: settings.checks.slices.minRows });
   const basePlan = plan("base");
   const headPlan = plan("head");
   const measuredOn = (m) => new Map((m.slices ?? []).map((s) => [s.name, s]));
@@ -45152,13 +45444,13 @@ function summary2(m, filterColumns) {
 function judgeViews(inputs) {
   const [base, head] = inputs.measured;
   const findings = [];
-  let sensitivity;
+  let sensitivity2;
   if (head.sensitivity) {
     const baseSamples = base.sensitivity ? sideSamples(base.sensitivity) : void 0;
     const headSamples = sideSamples(head.sensitivity);
     const judged = checkSensitivity(baseSamples, headSamples, inputs.settings.checks.sensitivity);
     findings.push(...judged.findings);
-    sensitivity = {
+    sensitivity2 = {
       threshold: inputs.settings.task === "binary" ? 0.5 : null,
       unlabeledRows: { base: base.sensitivity?.unlabeledRows ?? 0, head: head.sensitivity.unlabeledRows },
       features: sensitivityRows(base.sensitivity, head.sensitivity, judged.changes)
@@ -45167,14 +45459,15 @@ function judgeViews(inputs) {
   let gain;
   if (head.splitStatistics || base.splitStatistics) {
     const headGain = meanGain(head.splitStatistics);
-    const importance = new Map(inputs.results.head.importances.filter((u) => !u.isGroup).map((u) => [u.name, u]));
+    const importance2 = new Map(inputs.results.head.importances.filter((u) => !u.isGroup).map((u) => [u.name, u]));
     const features = [...headGain.entries()].map(([name, g2]) => ({
       name,
       gain: g2.gain,
       splits: g2.splits,
       distinct: distinctValues(inputs.sides.head.train, name),
-      importance: importance.get(name)?.mean ?? 0,
-      isAboveFloor: importance.get(name)?.isAboveFloor ?? false
+      idLike: identifierLike(inputs.sides.head.train, name),
+      importance: importance2.get(name)?.mean ?? 0,
+      isAboveFloor: importance2.get(name)?.isAboveFloor ?? false
     }));
     findings.push(...checkGainNoise(features, inputs.touched, inputs.settings.checks.gain));
     gain = { caution: gainCaution, features: gainRows(rankGain(meanGain(base.splitStatistics)), rankGain(headGain)) };
@@ -45193,16 +45486,16 @@ function judgeViews(inputs) {
   const groups = inputs.settings.groups.map((g2) => ({ name: g2.name, members: g2.members, automatic: automatic.has(g2.name), weakestLink: automatic.get(g2.name)?.weakestLink ?? null }));
   return {
     findings,
-    ...sensitivity ? { sensitivity } : {},
+    ...sensitivity2 ? { sensitivity: sensitivity2 } : {},
     ...gain ? { gain } : {},
     ...sliced.slices ? { slices: sliced.slices } : {},
     ...groups.length > 0 ? { groups } : {}
   };
 }
-function sample(refits, index) {
-  const unit = refits[0][index];
-  const perRefit = refits.map((r) => r[index].mean);
-  const flips = refits.map((r) => r[index].flipShare);
+function sample(refits, index2) {
+  const unit = refits[0][index2];
+  const perRefit = refits.map((r) => r[index2].mean);
+  const flips = refits.map((r) => r[index2].flipShare);
   return {
     name: unit.name,
     isGroup: unit.isGroup,
@@ -45217,13 +45510,13 @@ function sideSamples(s) {
     ...s.unlabeled && s.unlabeled.length > 0 ? { unlabeled: s.unlabeled[0].map((_, i) => sample(s.unlabeled, i)) } : {}
   };
 }
-function value2(refits, index) {
-  const s = sample(refits, index);
-  const perRefit = refits.map((r) => r[index].mean);
+function value2(refits, index2) {
+  const s = sample(refits, index2);
+  const perRefit = refits.map((r) => r[index2].mean);
   return { mean: s.mean, refitSd: perRefit.length >= 2 ? sampleStandardDeviation2(perRefit) : NaN, flipShare: s.flipShare ?? null, perRefit };
 }
 function sensitivityRows(base, head, changes) {
-  const side2 = (s) => {
+  const side3 = (s) => {
     const out = /* @__PURE__ */ new Map();
     if (!s || s.holdout.length === 0) return out;
     s.holdout[0].forEach((unit, i) => {
@@ -45234,8 +45527,8 @@ function sensitivityRows(base, head, changes) {
     });
     return out;
   };
-  const b = side2(base);
-  const h = side2(head);
+  const b = side3(base);
+  const h = side3(head);
   const units = [...head.holdout[0] ?? [], ...base?.holdout[0] ?? []];
   const seen = /* @__PURE__ */ new Set();
   const rows = units.filter((u) => {
@@ -45273,6 +45566,10 @@ function gainRows(base, head) {
   const names = [.../* @__PURE__ */ new Set([...head.keys(), ...base.keys()])];
   return names.map((name) => ({ name, ...base.has(name) ? { base: base.get(name) } : {}, ...head.has(name) ? { head: head.get(name) } : {} }));
 }
+function identifierLike(data, name) {
+  const j = data.features.findIndex((f) => f.name === name);
+  return j >= 0 && looksLikeIdentifier(data.features[j].kind, data.columns[j]);
+}
 function distinctValues(data, name) {
   const j = data.features.findIndex((f) => f.name === name);
   if (j < 0) return 0;
@@ -45284,85 +45581,6 @@ function average3(values) {
   let s = 0;
   for (const v of values) s += v;
   return s / values.length;
-}
-
-// src/core/statistics/midranks.ts
-function midranks(values) {
-  const n = values.length;
-  const order3 = new Uint32Array(n);
-  for (let i = 0; i < n; i++) {
-    if (Number.isNaN(values[i])) throw new RangeError(`midranks cannot rank NaN (at index ${i})`);
-    order3[i] = i;
-  }
-  order3.sort((i, j) => values[i] < values[j] ? -1 : values[i] > values[j] ? 1 : 0);
-  const ranks = new Float64Array(n);
-  for (let start = 0; start < n; ) {
-    let end = start;
-    while (end + 1 < n && values[order3[end + 1]] === values[order3[start]]) end++;
-    const rank = (start + end) / 2 + 1;
-    for (let k = start; k <= end; k++) ranks[order3[k]] = rank;
-    start = end + 1;
-  }
-  return ranks;
-}
-
-// src/core/statistics/spearman-rho.ts
-function spearmanRho(x, y) {
-  if (x.length !== y.length) {
-    throw new RangeError(`spearmanRho needs paired samples, got ${x.length} and ${y.length} values`);
-  }
-  if (x.length < 2) return NaN;
-  for (let i = 0; i < x.length; i++) if (Number.isNaN(x[i]) || Number.isNaN(y[i])) return NaN;
-  const rho = sampleCorrelation(Array.from(midranks(x)), Array.from(midranks(y)));
-  return Math.max(-1, Math.min(1, rho));
-}
-
-// src/core/importance/correlated-groups.ts
-function correlatedGroups(data, options) {
-  const numeric = data.features.map((f, j) => ({ name: f.name, j, kind: f.kind })).filter((f) => f.kind === "numeric");
-  const rows = data.rows <= options.maxRows ? null : shuffledIndices(data.rows, createRandom(options.seed)).slice(0, options.maxRows).sort();
-  const column = (j) => rows ? Float64Array.from(rows, (i) => data.columns[j][i]) : data.columns[j];
-  const columns = numeric.map((f) => column(f.j));
-  const parent = numeric.map((_, k) => k);
-  const find = (k) => parent[k] === k ? k : parent[k] = find(parent[k]);
-  const weakest = /* @__PURE__ */ new Map();
-  for (let a = 0; a < numeric.length; a++) {
-    for (let b = a + 1; b < numeric.length; b++) {
-      const x = [];
-      const y = [];
-      for (let i = 0; i < columns[a].length; i++) {
-        if (!Number.isNaN(columns[a][i]) && !Number.isNaN(columns[b][i])) {
-          x.push(columns[a][i]);
-          y.push(columns[b][i]);
-        }
-      }
-      if (x.length < 3) continue;
-      const rho = Math.abs(spearmanRho(x, y));
-      if (!(rho >= options.threshold)) continue;
-      const ra = find(a);
-      const rb2 = find(b);
-      if (ra === rb2) continue;
-      parent[rb2] = ra;
-      weakest.set(ra, Math.min(rho, weakest.get(ra) ?? 1, weakest.get(rb2) ?? 1));
-    }
-  }
-  const clusters = /* @__PURE__ */ new Map();
-  numeric.forEach((_, k) => clusters.set(find(k), [...clusters.get(find(k)) ?? [], k]));
-  return [...clusters.entries()].filter(([, members2]) => members2.length > 1).map(([root2, members2]) => ({ name: members2.map((k) => numeric[k].name).join(" ~ "), members: members2.map((k) => numeric[k].name), weakestLink: weakest.get(root2) }));
-}
-
-// src/core/gate/with-correlated-groups.ts
-function withCorrelatedGroups(settings, headTrain) {
-  if (settings.checks.correlatedGroups.action === "off") return settings;
-  const taken = /* @__PURE__ */ new Set([...headTrain.features.map((f) => f.name), ...settings.groups.map((g2) => g2.name)]);
-  const explicit = new Set(settings.groups.map((g2) => [...g2.members].sort().join("\0")));
-  const automatic = correlatedGroups(headTrain, {
-    threshold: settings.groupThreshold,
-    maxRows: fixedSettings.correlationRows,
-    seed: deriveSeed(settings.seed, "correlated-groups")
-  }).filter((g2) => !taken.has(g2.name) && !explicit.has([...g2.members].sort().join("\0")));
-  if (automatic.length === 0) return settings;
-  return { ...settings, groups: [...settings.groups, ...automatic.map((g2) => ({ name: g2.name, members: g2.members }))], automaticGroups: automatic };
 }
 
 // src/core/report/assemble-report.ts
@@ -45379,7 +45597,7 @@ function assembleReport(parts) {
     features: featureRows(parts.results.base, parts.results.head, parts.shifts, parts.sides.base.train, parts.sides.head.train),
     featureSet: parts.featureSet,
     agreement: parts.agreement,
-    sides: describeSides(parts.sides, base, head),
+    sides: describeSides(parts.sides, base, head, parts.rowSampling),
     settings: {
       task: settings.task,
       target: settings.target,
@@ -45403,10 +45621,10 @@ function assembleReport(parts) {
 function featureRows(base, head, shifts, baseTrain, headTrain) {
   const kindOf = /* @__PURE__ */ new Map();
   for (const f of [...baseTrain.features, ...headTrain.features]) kindOf.set(f.name, f.kind);
-  const stats = (side2) => {
-    const ranks = sideRanks(side2.importances);
+  const stats = (side3) => {
+    const ranks = sideRanks(side3.importances);
     return new Map(
-      side2.importances.map((u) => [
+      side3.importances.map((u) => [
         `${u.isGroup}:${u.name}`,
         {
           mean: u.mean,
@@ -45415,11 +45633,11 @@ function featureRows(base, head, shifts, baseTrain, headTrain) {
           refitSd: u.refitSd,
           drawSd: u.drawSd,
           rank: ranks.get(`${u.isGroup}:${u.name}`),
-          share: positiveShare(side2.importances, u.name),
+          share: positiveShare(side3.importances, u.name),
           isAboveFloor: u.isAboveFloor,
           perRefit: u.perRefit,
-          ...side2.singleFeatureSeparation[u.name] !== void 0 && !u.isGroup ? { singleFeatureScore: side2.singleFeatureSeparation[u.name] } : {},
-          ...side2.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side2.dropColumns[u.name]) } : {}
+          ...side3.singleFeatureSeparation[u.name] !== void 0 && !u.isGroup ? { singleFeatureScore: side3.singleFeatureSeparation[u.name] } : {},
+          ...side3.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side3.dropColumns[u.name]) } : {}
         }
       ])
     );
@@ -45450,10 +45668,15 @@ function featureRows(base, head, shifts, baseTrain, headTrain) {
   byMean(base.importances).forEach(push);
   return rows;
 }
-function describeSides(inputs, base, head) {
-  const describe3 = (side2, data, m) => {
+function describeSides(inputs, base, head, rowSampling) {
+  const describe3 = (side3, data, m) => {
+    const sampled = rowSampling?.[side3];
+    const sampling = {
+      ...sampled?.train ? { train: samplingOf(sampled.train) } : {},
+      ...sampled?.holdout ? { holdout: samplingOf(sampled.holdout) } : {}
+    };
     return {
-      side: side2,
+      side: side3,
       ref: data.ref,
       commit: data.commit,
       trainRows: data.train.rows,
@@ -45466,10 +45689,14 @@ function describeSides(inputs, base, head) {
       scoreMean: mean2(m.scores),
       scoreSd: sampleStandardDeviation2(m.scores),
       refitSeeds: m.refitSeeds,
-      noiseCovers: m.noiseCovers
+      noiseCovers: m.noiseCovers,
+      ...sampling.train || sampling.holdout ? { rowSampling: sampling } : {}
     };
   };
   return { base: describe3("base", inputs.base, base), head: describe3("head", inputs.head, head) };
+}
+function samplingOf(record3) {
+  return { rows: record3.rows, kept: record3.kept, seed: record3.seed };
 }
 var engineNames = {
   "plumbline-trees": "plumbline's tree evaluator",
@@ -45487,20 +45714,9 @@ function dropColumnOf(d) {
 
 // src/core/run-gate.ts
 async function runGate(inputs) {
-  const settings = withCorrelatedGroups(gateSettings(inputs.config), inputs.head.train);
-  const metric = metricByName(settings.metric, settings.task);
+  const { settings, metric, sides, capped, featureSet, changed, jobs } = planMeasurement(inputs);
   const stopwatch = createStopwatch(inputs.now);
-  const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } };
-  const featureSet = diffFeatureSets(sides.base.train, sides.head.train);
-  const changed = changedFeatures(sides.base, sides.head);
-  const measured = await stopwatch.time(
-    "measureSeconds",
-    () => measureBothSides(sides.base, sides.head, settings, metric, {
-      measureSides: inputs.measureSides,
-      onProgress: inputs.onProgress,
-      touched: { added: featureSet.added, changed: [...changed] }
-    })
-  );
+  const measured = await stopwatch.time("measureSeconds", () => measureBothSides(jobs, inputs.measureSides));
   const single = await separateSingleFeatures(sides, measured, [...featureSet.added, ...changed], settings, {
     stopwatch,
     onProgress: inputs.onProgress
@@ -45515,7 +45731,8 @@ async function runGate(inputs) {
     viewFindings: views.findings,
     settings,
     metric,
-    holdouts: { base: sides.base.holdout, head: sides.head.holdout },
+    holdouts: capped.holdouts,
+    scoredTarget: sides.base.holdout.target.values,
     measured,
     results,
     featureSet,
@@ -45529,6 +45746,7 @@ async function runGate(inputs) {
     settings,
     metric,
     sides,
+    rowSampling: capped.sampling,
     measured,
     results,
     featureSet,
@@ -45554,8 +45772,8 @@ var readLimits = {
   /** The event payload the runner writes. */
   event: 32 * 1024 * 1024
 };
-function mebibytes(bytes) {
-  return `${(bytes / (1024 * 1024)).toFixed(bytes % (1024 * 1024) === 0 ? 0 : 1)} MiB`;
+function mebibytes(bytes2) {
+  return `${(bytes2 / (1024 * 1024)).toFixed(bytes2 % (1024 * 1024) === 0 ? 0 : 1)} MiB`;
 }
 function isInside(root2, path) {
   const rel = relative(root2, path);
@@ -45681,15 +45899,15 @@ async function readDataset(path, options = {}) {
     missing: () => problem("there is no such file"),
     limitFix: "Sample the rows into a smaller file in prepare (a gate needs thousands of rows, not millions), or check that the path names the right file."
   };
-  let bytes;
+  let bytes2;
   try {
-    bytes = key2 === void 0 ? await readRegularFile(resolve2(cwd, path), { ...limits, name: `The data file '${path}'` }) : await readConfinedFile({ key: key2, path, root: cwd, rootName: rootName ?? cwd }, limits);
+    bytes2 = key2 === void 0 ? await readRegularFile(resolve2(cwd, path), { ...limits, name: `The data file '${path}'` }) : await readConfinedFile({ key: key2, path, root: cwd, rootName: rootName ?? cwd }, limits);
   } catch (error62) {
     if (error62.code === "EACCES") throw problem("permission denied");
     if (error62 instanceof UserError && / is a directory, not a regular file/.test(error62.message)) throw problem("it is a directory");
     throw error62;
   }
-  return parseCsv(bytes.toString("utf8"), { ...parseOptions, source });
+  return parseCsv(bytes2.toString("utf8"), { ...parseOptions, source });
 }
 
 // src/adapters/files/read-parquet-dataset.ts
@@ -45876,21 +46094,21 @@ var DEFAULT_PARSERS = {
   dateFromDays(days) {
     return new Date(days * 864e5);
   },
-  stringFromBytes(bytes) {
-    return bytes && decoder.decode(bytes);
+  stringFromBytes(bytes2) {
+    return bytes2 && decoder.decode(bytes2);
   },
-  jsonFromBytes(bytes) {
-    return bytes && JSON.parse(decoder.decode(bytes));
+  jsonFromBytes(bytes2) {
+    return bytes2 && JSON.parse(decoder.decode(bytes2));
   },
-  geometryFromBytes(bytes) {
-    return bytes && wkbToGeojson({ view: new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength), offset: 0 });
+  geometryFromBytes(bytes2) {
+    return bytes2 && wkbToGeojson({ view: new DataView(bytes2.buffer, bytes2.byteOffset, bytes2.byteLength), offset: 0 });
   },
-  geographyFromBytes(bytes) {
-    return bytes && wkbToGeojson({ view: new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength), offset: 0 });
+  geographyFromBytes(bytes2) {
+    return bytes2 && wkbToGeojson({ view: new DataView(bytes2.buffer, bytes2.byteOffset, bytes2.byteLength), offset: 0 });
   },
-  uuidFromBytes(bytes) {
-    if (!bytes) return void 0;
-    const hex3 = Array.from(bytes, (b) => b.toString(16).padStart(2, "0")).join("");
+  uuidFromBytes(bytes2) {
+    if (!bytes2) return void 0;
+    const hex3 = Array.from(bytes2, (b) => b.toString(16).padStart(2, "0")).join("");
     return hex3.slice(0, 8) + "-" + hex3.slice(8, 12) + "-" + hex3.slice(12, 16) + "-" + hex3.slice(16, 20) + "-" + hex3.slice(20, 32);
   }
 };
@@ -45992,13 +46210,13 @@ function convert(data, columnDecoder) {
   }
   return data;
 }
-function parseDecimal(bytes) {
-  if (!bytes.length) return 0;
+function parseDecimal(bytes2) {
+  if (!bytes2.length) return 0;
   let value3 = 0n;
-  for (const byte of bytes) {
+  for (const byte of bytes2) {
     value3 = value3 * 256n + BigInt(byte);
   }
-  const bits2 = bytes.length * 8;
+  const bits2 = bytes2.length * 8;
   if (value3 >= 2n ** BigInt(bits2 - 1)) {
     value3 -= 2n ** BigInt(bits2);
   }
@@ -46009,9 +46227,9 @@ function parseInt96Nanos(value3) {
   const nano = value3 & 0xffffffffffffffffn;
   return days * 86400000000000n + nano;
 }
-function parseFloat16(bytes) {
-  if (!bytes) return void 0;
-  const int16 = bytes[1] << 8 | bytes[0];
+function parseFloat16(bytes2) {
+  if (!bytes2) return void 0;
+  const int16 = bytes2[1] << 8 | bytes2[0];
   const sign = int16 >> 15 ? -1 : 1;
   const exp = int16 >> 10 & 31;
   const frac = int16 & 1023;
@@ -47305,20 +47523,20 @@ function prefetchAsyncBuffer(file2, { fetches }) {
   return {
     byteLength: file2.byteLength,
     slice(start, end = file2.byteLength) {
-      const index = fetches.findIndex(({ startByte, endByte }) => startByte <= start && end <= endByte);
-      if (index < 0) {
+      const index2 = fetches.findIndex(({ startByte, endByte }) => startByte <= start && end <= endByte);
+      if (index2 < 0) {
         return file2.slice(start, end);
       }
-      if (fetches[index].startByte !== start || fetches[index].endByte !== end) {
-        const startOffset = start - fetches[index].startByte;
-        const endOffset = end - fetches[index].startByte;
-        if (promises[index] instanceof Promise) {
-          return promises[index].then((buffer) => buffer.slice(startOffset, endOffset));
+      if (fetches[index2].startByte !== start || fetches[index2].endByte !== end) {
+        const startOffset = start - fetches[index2].startByte;
+        const endOffset = end - fetches[index2].startByte;
+        if (promises[index2] instanceof Promise) {
+          return promises[index2].then((buffer) => buffer.slice(startOffset, endOffset));
         } else {
-          return promises[index].slice(startOffset, endOffset);
+          return promises[index2].slice(startOffset, endOffset);
         }
       } else {
-        return promises[index];
+        return promises[index2];
       }
     }
   };
@@ -47370,19 +47588,19 @@ function decodeTypedValue(typedValue, metadata, parsers) {
   }
   return typedValue;
 }
-function makeReader(bytes) {
-  return { view: new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength), offset: 0 };
+function makeReader(bytes2) {
+  return { view: new DataView(bytes2.buffer, bytes2.byteOffset, bytes2.byteLength), offset: 0 };
 }
-function parseVariantMetadata(bytes) {
-  let bufferCache = metadataCache.get(bytes.buffer);
+function parseVariantMetadata(bytes2) {
+  let bufferCache = metadataCache.get(bytes2.buffer);
   if (!bufferCache) {
     bufferCache = /* @__PURE__ */ new Map();
-    metadataCache.set(bytes.buffer, bufferCache);
+    metadataCache.set(bytes2.buffer, bufferCache);
   }
-  const key2 = `${bytes.byteOffset}:${bytes.byteLength}`;
+  const key2 = `${bytes2.byteOffset}:${bytes2.byteLength}`;
   const cached2 = bufferCache.get(key2);
   if (cached2) return cached2;
-  const reader = makeReader(bytes);
+  const reader = makeReader(bytes2);
   const header = reader.view.getUint8(reader.offset++);
   const version2 = header & 15;
   if (version2 !== 1) throw new Error(`parquet unsupported variant metadata version: ${version2}`);
@@ -47398,7 +47616,7 @@ function parseVariantMetadata(bytes) {
   for (let i = 0; i < dictionarySize; i++) {
     const start = offsets[i];
     const end = offsets[i + 1];
-    const strBytes = new Uint8Array(bytes.buffer, bytes.byteOffset + base + start, end - start);
+    const strBytes = new Uint8Array(bytes2.buffer, bytes2.byteOffset + base + start, end - start);
     dictionary2[i] = decoder3.decode(strBytes);
   }
   const metadata = { dictionary: dictionary2, sorted };
@@ -47420,9 +47638,9 @@ function readVariant(reader, metadata, parsers) {
   if (basicType === 0) return readVariantPrimitive(reader, header, parsers);
   if (basicType === 2) return readVariantObject(reader, header, metadata, parsers);
   if (basicType === 3) return readVariantArray(reader, header, metadata, parsers);
-  const bytes = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, header);
+  const bytes2 = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, header);
   reader.offset += header;
-  return decoder3.decode(bytes);
+  return decoder3.decode(bytes2);
 }
 function readVariantPrimitive(reader, typeId, parsers) {
   switch (typeId) {
@@ -47483,8 +47701,8 @@ function readVariantPrimitive(reader, typeId, parsers) {
     case 15:
       return readVariantBinary(reader);
     case 16: {
-      const bytes = readVariantBinary(reader);
-      return decoder3.decode(bytes);
+      const bytes2 = readVariantBinary(reader);
+      return decoder3.decode(bytes2);
     }
     case 17: {
       const value3 = reader.view.getBigInt64(reader.offset, true);
@@ -47499,9 +47717,9 @@ function readVariantPrimitive(reader, typeId, parsers) {
       return parsers.timestampFromNanoseconds(value3);
     }
     case 20: {
-      const bytes = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, 16);
+      const bytes2 = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, 16);
       reader.offset += 16;
-      const hex3 = Array.from(bytes, (b) => b.toString(16).padStart(2, "0")).join("");
+      const hex3 = Array.from(bytes2, (b) => b.toString(16).padStart(2, "0")).join("");
       return `${hex3.slice(0, 8)}-${hex3.slice(8, 12)}-${hex3.slice(12, 16)}-${hex3.slice(16, 20)}-${hex3.slice(20)}`;
     }
     default:
@@ -47575,9 +47793,9 @@ function readVariantDecimal(reader, width) {
 function readVariantBinary(reader) {
   const length2 = reader.view.getUint32(reader.offset, true);
   reader.offset += 4;
-  const bytes = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, length2);
+  const bytes2 = new Uint8Array(reader.view.buffer, reader.view.byteOffset + reader.offset, length2);
   reader.offset += length2;
-  return bytes;
+  return bytes2;
 }
 
 // node_modules/hyparquet/src/assemble.js
@@ -47938,20 +48156,20 @@ function readBitPacked(reader, header, bitWidth2, output2, seen) {
 }
 function byteStreamSplit(reader, count4, type, typeLength) {
   const width = byteWidth(type, typeLength);
-  const bytes = new Uint8Array(count4 * width);
+  const bytes2 = new Uint8Array(count4 * width);
   for (let b = 0; b < width; b++) {
     for (let i = 0; i < count4; i++) {
-      bytes[i * width + b] = reader.view.getUint8(reader.offset++);
+      bytes2[i * width + b] = reader.view.getUint8(reader.offset++);
     }
   }
-  if (type === "FLOAT") return new Float32Array(bytes.buffer);
-  else if (type === "DOUBLE") return new Float64Array(bytes.buffer);
-  else if (type === "INT32") return new Int32Array(bytes.buffer);
-  else if (type === "INT64") return new BigInt64Array(bytes.buffer);
+  if (type === "FLOAT") return new Float32Array(bytes2.buffer);
+  else if (type === "DOUBLE") return new Float64Array(bytes2.buffer);
+  else if (type === "INT32") return new Int32Array(bytes2.buffer);
+  else if (type === "INT64") return new BigInt64Array(bytes2.buffer);
   else if (type === "FIXED_LEN_BYTE_ARRAY") {
     const split = new Array(count4);
     for (let i = 0; i < count4; i++) {
-      split[i] = bytes.subarray(i * width, (i + 1) * width);
+      split[i] = bytes2.subarray(i * width, (i + 1) * width);
     }
     return split;
   }
@@ -48149,8 +48367,8 @@ function snappyUncompress(input2, output2) {
 }
 
 // node_modules/hyparquet/src/datapage.js
-function readDataPage(bytes, daph, { type, element, schemaPath }) {
-  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+function readDataPage(bytes2, daph, { type, element, schemaPath }) {
+  const view = new DataView(bytes2.buffer, bytes2.byteOffset, bytes2.byteLength);
   const reader = { view, offset: 0 };
   let dataPage;
   const repetitionLevels = readRepetitionLevels(reader, daph, schemaPath);
@@ -49784,17 +50002,17 @@ function readHuffmanCode(alphabet_size, tables, table2, br) {
   if (!table_size) throw new Error("brotli BuildHuffmanTable failed");
   return table_size;
 }
-function readSymbol(table2, index, br) {
+function readSymbol(table2, index2, br) {
   br.fillBitWindow();
-  index += br.val_ >>> br.bit_pos_ & HUFFMAN_TABLE_MASK;
-  const nbits = table2[index].bits - HUFFMAN_TABLE_BITS;
+  index2 += br.val_ >>> br.bit_pos_ & HUFFMAN_TABLE_MASK;
+  const nbits = table2[index2].bits - HUFFMAN_TABLE_BITS;
   if (nbits > 0) {
     br.bit_pos_ += HUFFMAN_TABLE_BITS;
-    index += table2[index].value;
-    index += br.val_ >>> br.bit_pos_ & (1 << nbits) - 1;
+    index2 += table2[index2].value;
+    index2 += br.val_ >>> br.bit_pos_ & (1 << nbits) - 1;
   }
-  br.bit_pos_ += table2[index].bits;
-  return table2[index].value;
+  br.bit_pos_ += table2[index2].bits;
+  return table2[index2].value;
 }
 function readHuffmanCodeLengths(code_length_code_lengths, num_symbols, code_lengths, br) {
   let symbol2 = 0;
@@ -50129,13 +50347,13 @@ var fixedDistanceMap = /* @__PURE__ */ huffMap(fixedDistanceTree, 5, 1);
 // node_modules/hyparquet-compressors/src/brotli.blocks.js
 function decodeBlockType(max_block_type, trees, tree_type, block_types, ringbuffers, indexes, br) {
   const ringbuffer = tree_type * 2;
-  const index = tree_type;
+  const index2 = tree_type;
   const type_code = readSymbol(trees, tree_type * HUFFMAN_MAX_TABLE_SIZE, br);
   let block_type;
   if (type_code === 0) {
-    block_type = ringbuffers[ringbuffer + (indexes[index] & 1)];
+    block_type = ringbuffers[ringbuffer + (indexes[index2] & 1)];
   } else if (type_code === 1) {
-    block_type = ringbuffers[ringbuffer + (indexes[index] - 1 & 1)] + 1;
+    block_type = ringbuffers[ringbuffer + (indexes[index2] - 1 & 1)] + 1;
   } else {
     block_type = type_code - 2;
   }
@@ -50143,8 +50361,8 @@ function decodeBlockType(max_block_type, trees, tree_type, block_types, ringbuff
     block_type -= max_block_type;
   }
   block_types[tree_type] = block_type;
-  ringbuffers[ringbuffer + (indexes[index] & 1)] = block_type;
-  indexes[index]++;
+  ringbuffers[ringbuffer + (indexes[index2] & 1)] = block_type;
+  indexes[index2]++;
 }
 function decodeMetaBlockLength(br) {
   const out = {
@@ -50266,8 +50484,8 @@ function jumpToByteBoundary(br) {
   const new_bit_pos = br.bit_pos_ + 7 & ~7;
   return !br.readBits(new_bit_pos - br.bit_pos_);
 }
-function readBlockLength(table2, index, br) {
-  const code2 = readSymbol(table2, index, br);
+function readBlockLength(table2, index2, br) {
+  const code2 = readSymbol(table2, index2, br);
   const { offset, nbits } = kBlockLengthPrefixCode[code2];
   return offset + br.readBits(nbits);
 }
@@ -52138,9 +52356,9 @@ function decodeContextMap(context_map_size, br) {
   }
   return [num_htrees, context_map];
 }
-function moveToFront(v, index) {
-  const value3 = v[index];
-  for (let i = index; i; i--) v[i] = v[i - 1];
+function moveToFront(v, index2) {
+  const value3 = v[index2];
+  for (let i = index2; i; i--) v[i] = v[i - 1];
   v[0] = value3;
 }
 function inverseMoveToFrontTransform(v, v_len) {
@@ -52149,9 +52367,9 @@ function inverseMoveToFrontTransform(v, v_len) {
     mtf[i] = i;
   }
   for (let i = 0; i < v_len; i++) {
-    const index = v[i];
-    v[i] = mtf[index];
-    if (index) moveToFront(mtf, index);
+    const index2 = v[i];
+    v[i] = mtf[index2];
+    if (index2) moveToFront(mtf, index2);
   }
 }
 
@@ -52324,9 +52542,9 @@ function gunzip(input2, output2, inputIndex = 0, outputIndex = 0) {
       } else {
         let add = sym - 254;
         if (sym > 264) {
-          const index = sym - 257;
-          const b = fixedLengthExtraBits[index];
-          add = bits(input2, pos, (1 << b) - 1) + fixedLength[index];
+          const index2 = sym - 257;
+          const b = fixedLengthExtraBits[index2];
+          add = bits(input2, pos, (1 << b) - 1) + fixedLength[index2];
           pos += b;
         }
         if (!distMap) throw new Error("invalid distance map");
@@ -53893,11 +54111,11 @@ function brotli(input2, output2) {
   }
   output2.write(ringbuffer, pos & ringbuffer_mask);
 }
-function translateShortCodes(code2, ringbuffer, index) {
+function translateShortCodes(code2, ringbuffer, index2) {
   if (code2 < NUM_DISTANCE_SHORT_CODES) {
-    index += kDistanceShortCodeIndexOffset[code2];
-    index &= 3;
-    return ringbuffer[index] + kDistanceShortCodeValueOffset[code2];
+    index2 += kDistanceShortCodeIndexOffset[code2];
+    index2 &= 3;
+    return ringbuffer[index2] + kDistanceShortCodeValueOffset[code2];
   } else {
     return code2 - NUM_DISTANCE_SHORT_CODES + 1;
   }
@@ -53972,11 +54190,11 @@ var compressors = {
 };
 
 // src/core/data/parse-parquet.ts
-async function parseParquet(bytes, options) {
+async function parseParquet(bytes2, options) {
   const { source } = options;
   let metadata;
   try {
-    metadata = parquetMetadata(bytes);
+    metadata = parquetMetadata(bytes2);
   } catch (error62) {
     throw new UserError(
       `${source} is not a readable Parquet file (${error62 instanceof Error ? error62.message : String(error62)}).`,
@@ -53998,7 +54216,7 @@ async function parseParquet(bytes, options) {
   }
   let records;
   try {
-    records = await parquetReadObjects({ file: bytes, metadata, compressors });
+    records = await parquetReadObjects({ file: bytes2, metadata, compressors });
   } catch (error62) {
     throw new UserError(
       `${source}: the Parquet data cannot be decoded (${error62 instanceof Error ? error62.message : String(error62)}).`,
@@ -54042,11 +54260,11 @@ async function readParquetDataset(path, options = {}) {
     );
   };
   if (outside2(cwd, fullPath)) refuseOutside();
-  let bytes;
+  let bytes2;
   try {
     const [realRoot, realFile] = await Promise.all([realpath2(cwd), realpath2(fullPath)]);
     if (outside2(realRoot, realFile)) refuseOutside();
-    bytes = await readFile(realFile);
+    bytes2 = await readFile(realFile);
   } catch (error62) {
     if (error62 instanceof UserError) throw error62;
     const code2 = error62.code;
@@ -54057,7 +54275,7 @@ async function readParquetDataset(path, options = {}) {
       "Check the path: a relative path is read from that directory."
     );
   }
-  const buffer = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength);
+  const buffer = bytes2.buffer.slice(bytes2.byteOffset, bytes2.byteOffset + bytes2.byteLength);
   return parseParquet(buffer, { ...parseOptions, source });
 }
 
@@ -54111,9 +54329,9 @@ function registerSecret(value3) {
 function registerEnvironmentSecrets(env = process.env) {
   for (const name of ["GITHUB_TOKEN", "GH_TOKEN", "INPUT_TOKEN", "ACTIONS_RUNTIME_TOKEN", "ACTIONS_ID_TOKEN_REQUEST_TOKEN"]) registerSecret(env[name]);
 }
-function redactSecrets(text4) {
-  if (secrets.size === 0 || text4 === "") return text4;
-  let result = text4;
+function redactSecrets(text5) {
+  if (secrets.size === 0 || text5 === "") return text5;
+  let result = text5;
   for (const secret of [...secrets].sort((a, b) => b.length - a.length)) {
     if (result.includes(secret)) result = result.split(secret).join(redactedMark);
   }
@@ -54131,8 +54349,8 @@ function redactDeep(value3, depth = 0) {
 // src/adapters/security/terminal-text.ts
 var escapeSequences = /\u001b\[[0-?]*[ -/]*[@-~]|\u001b\][^\u0007\u001b]*(?:\u0007|\u001b\\)?|\u009b[0-?]*[ -/]*[@-~]|\u001b[@-Z\\-_]/g;
 var otherControls = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/g;
-function cleanOutsideText(text4) {
-  return redactSecrets(text4.replace(/\r\n/g, "\n").replace(escapeSequences, "").replace(otherControls, "�"));
+function cleanOutsideText(text5) {
+  return redactSecrets(text5.replace(/\r\n/g, "\n").replace(escapeSequences, "").replace(otherControls, "�"));
 }
 
 // src/adapters/git/git.ts
@@ -54225,7 +54443,7 @@ import { spawn } from "node:child_process";
 // src/adapters/security/finish-child.ts
 var PIPE_GRACE_MILLISECONDS = 1e3;
 function waitForChild(child2) {
-  return new Promise((resolve8) => {
+  return new Promise((resolve10) => {
     let graceTimer;
     let exited;
     let done = false;
@@ -54233,7 +54451,7 @@ function waitForChild(child2) {
       if (done) return;
       done = true;
       clearTimeout(graceTimer);
-      resolve8(outcome);
+      resolve10(outcome);
     };
     child2.on("error", (error62) => finish({ code: null, signal: null, startError: error62 }));
     child2.on("exit", (code2, signal) => {
@@ -54255,12 +54473,12 @@ function describeExit(code2, signal) {
 // src/adapters/check/run-prepare.ts
 var TAIL_LINES = 40;
 async function runPrepare(options) {
-  const { command, cwd, timeoutSeconds, side: side2 } = options;
+  const { command, cwd, timeoutSeconds, side: side3 } = options;
   const child2 = spawn("/bin/sh", ["-c", command], {
     cwd,
     detached: true,
     stdio: ["ignore", "pipe", "pipe"],
-    env: childEnvironment({ PLUMBLINE_SIDE: side2 })
+    env: childEnvironment({ PLUMBLINE_SIDE: side3 })
   });
   let output2 = "";
   const keep = (chunk) => {
@@ -54281,15 +54499,15 @@ async function runPrepare(options) {
   }, timeoutSeconds * 1e3);
   child2.on("exit", killGroup);
   const { code: code2, signal, startError } = await waitForChild(child2).finally(() => clearTimeout(timer));
-  if (startError) throw new UserError(`prepare on the ${side2} side could not be started in ${cwd}: ${startError.message}`, "Check that /bin/sh exists and that the checkout can be entered.");
+  if (startError) throw new UserError(`prepare on the ${side3} side could not be started in ${cwd}: ${startError.message}`, "Check that /bin/sh exists and that the checkout can be entered.");
   if (code2 === 0 && !timedOut) return;
   const tail = cleanOutsideText(output2.split("\n").slice(-TAIL_LINES).join("\n").trimEnd());
   const why = timedOut ? `timed out after ${timeoutSeconds} s` : describeExit(code2, signal);
   throw new UserError(
-    `prepare on the ${side2} side ${why}: ${cleanOutsideText(command)}
+    `prepare on the ${side3} side ${why}: ${cleanOutsideText(command)}
 --- last lines of its output ---
 ${tail || "(no output)"}`,
-    timedOut ? "Make the command faster or raise 'prepare.timeout_seconds' in the policy." : `Run the command yourself in the ${side2} checkout to see the problem.`
+    timedOut ? "Make the command faster or raise 'prepare.timeout_seconds' in the policy." : `Run the command yourself in the ${side3} checkout to see the problem.`
   );
 }
 
@@ -54408,8 +54626,8 @@ var onnxProto = {
 // src/core/models/parse-onnx-tree-ensemble.ts
 var text3 = new TextDecoder();
 var no = (reason) => ({ ok: false, reason });
-function parseOnnxTreeEnsemble(bytes, target) {
-  const decoded = onnxProto.ModelProto.toObject(onnxProto.ModelProto.decode(bytes), { longs: Number, arrays: true, bytes: Uint8Array });
+function parseOnnxTreeEnsemble(bytes2, target) {
+  const decoded = onnxProto.ModelProto.toObject(onnxProto.ModelProto.decode(bytes2), { longs: Number, arrays: true, bytes: Uint8Array });
   const graph = decoded.graph;
   if (!graph) return no("the file has no graph");
   const initialized = new Set((graph.initializer ?? []).map((t) => t.name));
@@ -54484,14 +54702,27 @@ function regressorTrees(attributes, round2) {
 function classifierTrees(attributes, positive, round2) {
   const labels = attributes.get("classlabels_strings")?.strings?.length ?? attributes.get("classlabels_int64s")?.ints?.length ?? 0;
   if (labels !== 2) return { ok: false, reason: `TreeEnsembleClassifier with ${labels} classes` };
-  const ids = attributes.get("class_ids")?.ints ?? [];
-  if (!(ids.includes(0) && ids.includes(1))) return { ok: false, reason: "TreeEnsembleClassifier with weights for one class only" };
+  const ids = new Set(attributes.get("class_ids")?.ints ?? []);
   const post = stringOf(attributes, "post_transform") ?? "NONE";
-  if (post !== "NONE") return { ok: false, reason: `TreeEnsembleClassifier post_transform ${post}` };
-  const base = numbersOf(attributes, "base_values") ?? [0, 0];
-  const leaves = leafWeights(attributes, "class", (id) => id === positive);
+  if (post !== "NONE" && post !== "LOGISTIC") return { ok: false, reason: `TreeEnsembleClassifier post_transform ${post}` };
+  const link = post === "LOGISTIC" ? "logistic" : "identity";
+  const base = numbersOf(attributes, "base_values") ?? [];
+  if (base.length > 2) return { ok: false, reason: `TreeEnsembleClassifier with ${base.length} base values for two classes` };
+  const bothClasses = ids.size === 2 && ids.has(0) && ids.has(1);
+  const classZeroOnly = ids.size === 1 && ids.has(0) && post === "LOGISTIC" && base.length < 2;
+  if (!bothClasses && !classZeroOnly) {
+    return { ok: false, reason: `TreeEnsembleClassifier, post_transform ${post}, with weights for class ids ${[...ids].sort().join(", ") || "none"} and ${base.length} base values` };
+  }
+  let scoreClass;
+  let offset;
+  let negateForClassZero;
+  if (bothClasses && base.length === 2) [scoreClass, offset, negateForClassZero] = [0, base[1], true];
+  else if (bothClasses) [scoreClass, offset, negateForClassZero] = positive === 1 ? [1, 0, false] : [0, base[0] ?? 0, false];
+  else [scoreClass, offset, negateForClassZero] = [0, base[0] ?? 0, true];
+  const sign = positive === 0 && negateForClassZero ? -1 : 1;
+  const leaves = leafWeights(attributes, "class", (id) => id === scoreClass, () => sign);
   if (!leaves.ok) return leaves;
-  return buildTrees(attributes, leaves.weights, base[positive] ?? 0, "SUM", "identity", round2);
+  return buildTrees(attributes, leaves.weights, sign * offset, "SUM", link, round2);
 }
 function leafWeights(attributes, prefix2, keep, sign = () => 1) {
   const treeIds = attributes.get(`${prefix2}_treeids`)?.ints ?? [];
@@ -54520,21 +54751,21 @@ function buildTrees(attributes, weights, baseScore, aggregate, link, round2) {
   const falseIds = attributes.get("nodes_falsenodeids")?.ints ?? [];
   const tracks = attributes.get("nodes_missing_value_tracks_true")?.ints ?? [];
   const count4 = treeIds.length;
-  if ([nodeIds, featureIds, modes, values, trueIds, falseIds].some((list3) => list3.length !== count4)) {
+  if ([nodeIds, featureIds, modes, values, trueIds, falseIds].some((list4) => list4.length !== count4)) {
     return { ok: false, reason: "the nodes_* attributes differ in length" };
   }
   const byTree = /* @__PURE__ */ new Map();
   for (let k = 0; k < count4; k++) {
-    const list3 = byTree.get(treeIds[k]) ?? [];
-    list3.push(k);
-    byTree.set(treeIds[k], list3);
+    const list4 = byTree.get(treeIds[k]) ?? [];
+    list4.push(k);
+    byTree.set(treeIds[k], list4);
   }
   const scale = aggregate === "AVERAGE" ? 1 / byTree.size : 1;
   const trees = [];
   let width = 0;
   for (const [treeId, rows] of [...byTree].sort((a, b) => a[0] - b[0])) {
-    const index = /* @__PURE__ */ new Map();
-    rows.forEach((k, at4) => index.set(nodeIds[k], at4));
+    const index2 = /* @__PURE__ */ new Map();
+    rows.forEach((k, at4) => index2.set(nodeIds[k], at4));
     const m = rows.length;
     const tree = {
       feature: new Int32Array(m).fill(-1),
@@ -54551,8 +54782,8 @@ function buildTrees(attributes, weights, baseScore, aggregate, link, round2) {
         tree.value[at4] = (weights.get(`${treeId}:${nodeIds[k]}`) ?? 0) * scale;
         continue;
       }
-      const yes = index.get(trueIds[k]);
-      const no2 = index.get(falseIds[k]);
+      const yes = index2.get(trueIds[k]);
+      const no2 = index2.get(falseIds[k]);
       if (yes === void 0 || no2 === void 0) return { ok: false, reason: `tree ${treeId} node ${nodeIds[k]} points at a node it does not have` };
       const missingTrue = (tracks[k] ?? 0) === 1;
       const t = round2 ? Math.fround(values[k]) : values[k];
@@ -54641,8 +54872,8 @@ function numbersOf(attributes, name) {
 }
 
 // src/adapters/onnx/read-onnx-summary.ts
-function readOnnxSummary(bytes) {
-  const decoded = onnxProto.ModelSummary.toObject(onnxProto.ModelSummary.decode(bytes), {
+function readOnnxSummary(bytes2) {
+  const decoded = onnxProto.ModelSummary.toObject(onnxProto.ModelSummary.decode(bytes2), {
     longs: Number,
     arrays: true
   });
@@ -54650,12 +54881,12 @@ function readOnnxSummary(bytes) {
   for (const entry of decoded.metadataProps) metadata.set(entry.key ?? "", entry.value ?? "");
   const classLabelsByOutput = /* @__PURE__ */ new Map();
   const classLabelSets = [];
-  const text4 = new TextDecoder();
+  const text5 = new TextDecoder();
   for (const node2 of decoded.graph?.node ?? []) {
     if (node2.domain !== "ai.onnx.ml") continue;
     let labels;
     for (const attribute of node2.attribute ?? []) {
-      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text4.decode(s));
+      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text5.decode(s));
       if (attribute.name === "classlabels_int64s") labels = attribute.ints ?? [];
     }
     if (!labels) continue;
@@ -54669,14 +54900,14 @@ function readOnnxSummary(bytes) {
 
 // src/adapters/onnx/load-onnx-model.ts
 var DEFAULT_BATCH_ROWS = 65536;
-async function loadOnnxModel(bytes, options) {
+async function loadOnnxModel(bytes2, options) {
   const batchRows = options.batchRows ?? DEFAULT_BATCH_ROWS;
   if (!Number.isInteger(batchRows) || batchRows < 1) {
     throw new RangeError(`loadOnnxModel needs batchRows to be a whole number >= 1, got ${batchRows}`);
   }
   let session;
   try {
-    session = await import_onnxruntime_node.default.InferenceSession.create(bytes, { executionProviders: ["cpu"] });
+    session = await import_onnxruntime_node.default.InferenceSession.create(bytes2, { executionProviders: ["cpu"] });
   } catch (error62) {
     throw new UserError(
       `Could not load the ONNX model '${options.source}': ${error62 instanceof Error ? error62.message : String(error62)}`,
@@ -54685,7 +54916,7 @@ async function loadOnnxModel(bytes, options) {
   }
   let summary3;
   try {
-    summary3 = readOnnxSummary(bytes);
+    summary3 = readOnnxSummary(bytes2);
   } catch (error62) {
     throw new UserError(
       `The ONNX model '${options.source}' has metadata or class labels that cannot be read (${error62 instanceof Error ? error62.message.slice(0, 120) : "unreadable"}).`,
@@ -54696,7 +54927,7 @@ async function loadOnnxModel(bytes, options) {
   const output2 = options.task === "regression" ? planRegressionOutput(session.outputMetadata, options.source) : planProbabilityOutput(session.outputMetadata, options, summary3);
   const { source } = options;
   const featureNames = inputs.featureNames;
-  const parsed = inputs.isMatrix && options.evaluator !== "onnxruntime" ? readTrees(bytes, options.task, output2) : void 0;
+  const parsed = inputs.isMatrix && options.evaluator !== "onnxruntime" ? readTrees(bytes2, options.task, output2) : void 0;
   let trees = parsed?.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : void 0;
   let checked = false;
   let engine = trees ? "plumbline-trees" : "onnxruntime";
@@ -54852,16 +55083,16 @@ function planMatrixInput(input2, options, summary3, mismatch) {
     }
   };
 }
-function parseStoredOrder(text4, source) {
+function parseStoredOrder(text5, source) {
   let parsed;
   try {
-    parsed = JSON.parse(text4);
+    parsed = JSON.parse(text5);
   } catch {
     parsed = void 0;
   }
   if (!Array.isArray(parsed) || !parsed.every((name) => typeof name === "string")) {
     throw new UserError(
-      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text4.slice(0, 200)}`,
+      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text5.slice(0, 200)}`,
       `Store the column order as a JSON array such as ["distance_km", "stop_count"], or list it under 'model.onnx.features' in plumbline.yml.`
     );
   }
@@ -55052,9 +55283,9 @@ function describeColumns(features) {
   if (features.length === 0) return "(none)";
   return features.map((f) => `${f.name} (${f.kind})`).join(", ");
 }
-function readTrees(bytes, task, output2) {
+function readTrees(bytes2, task, output2) {
   try {
-    return parseOnnxTreeEnsemble(bytes, { task, outputName: output2.name, positiveColumn: output2.positive });
+    return parseOnnxTreeEnsemble(bytes2, { task, outputName: output2.name, positiveColumn: output2.positive });
   } catch {
     return void 0;
   }
@@ -55075,7 +55306,7 @@ function createSemaphore(limit) {
       running++;
       return Promise.resolve();
     }
-    return new Promise((resolve8) => waiting.push(resolve8));
+    return new Promise((resolve10) => waiting.push(resolve10));
   };
   const release = () => {
     const next = waiting.shift();
@@ -55145,7 +55376,7 @@ ${describeLog(logTail)}`,
     "finished but wrote no model to $PLUMBLINE_OUTPUT",
     `Make the command write its ONNX model to the path it is given in $PLUMBLINE_OUTPUT (this time ${request.outputPath}).`
   );
-  const bytes = new Uint8Array(
+  const bytes2 = new Uint8Array(
     await readRegularFile(request.outputPath, {
       maxBytes: readLimits.model,
       what: "ONNX model",
@@ -55155,12 +55386,12 @@ ${describeLog(logTail)}`,
       limitFix: "Write a smaller model (fewer or shallower trees), or check what the command writes to $PLUMBLINE_OUTPUT."
     })
   );
-  if (bytes.length === 0) throw noModel();
-  return { bytes, seconds, logTail };
+  if (bytes2.length === 0) throw noModel();
+  return { bytes: bytes2, seconds, logTail };
 }
 function runInProcessGroup(request, env) {
   const log = new LogTail();
-  return new Promise((resolve8) => {
+  return new Promise((resolve10) => {
     const child2 = spawn2("/bin/sh", ["-c", 'exec 2>&1; exec /bin/sh -c "$1"', "plumbline-train", request.command], {
       cwd: request.cwd,
       env: childEnvironment(env),
@@ -55197,7 +55428,7 @@ function runInProcessGroup(request, env) {
       clearTimeout(timeout);
       clearTimeout(killTimer);
       request.signal?.removeEventListener("abort", onAbort);
-      resolve8({ log, timedOut, stoppedBecause, ...outcome });
+      resolve10({ log, timedOut, stoppedBecause, ...outcome });
     });
   });
 }
@@ -55228,7 +55459,7 @@ function describeFit(request) {
   const without = request.leaveOut.length > 0 ? ` without ${request.leaveOut.join(", ")}` : "";
   return `${request.side} refit ${request.refit}${without}`;
 }
-function trainingEnvironment(request, side2) {
+function trainingEnvironment(request, side3) {
   const withComma = request.leaveOut.find((name) => name.includes(","));
   if (withComma !== void 0) {
     throw new UserError(
@@ -55238,8 +55469,8 @@ function trainingEnvironment(request, side2) {
   }
   return {
     PLUMBLINE_SEED: String(request.seed >>> 0),
-    PLUMBLINE_TRAIN: side2.train,
-    PLUMBLINE_HOLDOUT: side2.holdout,
+    PLUMBLINE_TRAIN: side3.train,
+    PLUMBLINE_HOLDOUT: side3.holdout,
     PLUMBLINE_LEAVE_OUT: request.leaveOut.join(","),
     PLUMBLINE_SIDE: request.side,
     PLUMBLINE_REFIT: String(request.refit)
@@ -55260,10 +55491,10 @@ function createCommandFit(options) {
     throw error62;
   };
   return async (request) => {
-    const side2 = options.sides[request.side];
-    if (!side2) throw new RangeError(`createCommandFit has no checkout for side '${request.side}'`);
+    const side3 = options.sides[request.side];
+    if (!side3) throw new RangeError(`createCommandFit has no checkout for side '${request.side}'`);
     const label2 = describeFit(request);
-    const bytes = await limit(async () => {
+    const bytes2 = await limit(async () => {
       if (firstFailure !== void 0) {
         throw new UserError(`The training command for ${label2} was not run, because ${firstFailure}.`);
       }
@@ -55271,9 +55502,9 @@ function createCommandFit(options) {
       try {
         const result = await runTrainingCommand({
           command: options.command,
-          cwd: side2.cwd,
+          cwd: side3.cwd,
           timeoutSeconds: options.timeoutSeconds,
-          env: trainingEnvironment(request, side2),
+          env: trainingEnvironment(request, side3),
           outputPath: join3(directory, "model.onnx"),
           label: label2,
           signal: stop.signal
@@ -55288,7 +55519,7 @@ function createCommandFit(options) {
     });
     const leftOut = new Set(request.leaveOut);
     try {
-      return await loadOnnxModel(bytes, {
+      return await loadOnnxModel(bytes2, {
         source: `$PLUMBLINE_OUTPUT of ${label2}`,
         task: options.task,
         features: options.features.filter((f) => !leftOut.has(f.name)),
@@ -55302,29 +55533,29 @@ function createCommandFit(options) {
 }
 
 // src/adapters/check/load-side-model.ts
-async function loadSideModel(config2, side2) {
+async function loadSideModel(config2, side3) {
   const model = config2.model;
   if (model.kind === "onnx") {
-    const path = await resolveModelPath(side2.checkout, model.path, side2.side);
-    const bytes = await readConfinedFile(
-      { key: "model.onnx.path", path, root: side2.checkout, rootName: `the ${side2.side} checkout` },
+    const path = await resolveModelPath(side3.checkout, model.path, side3.side);
+    const bytes2 = await readConfinedFile(
+      { key: "model.onnx.path", path, root: side3.checkout, rootName: `the ${side3.side} checkout` },
       {
         maxBytes: readLimits.model,
         what: "ONNX model",
         missing: () => new UserError(
-          `No ONNX model at ${model.path} on the ${side2.side} side (looked for ${resolve5(side2.checkout, path)}).`,
+          `No ONNX model at ${model.path} on the ${side3.side} side (looked for ${resolve5(side3.checkout, path)}).`,
           "Commit the model file on both sides, build it in 'prepare', or fix 'model.onnx.path' in the policy."
         ),
         limitFix: "Export a smaller model (fewer or shallower trees), or check that model.onnx.path names the model file."
       }
     );
-    side2.log(`${side2.side}: loaded ONNX model ${model.path} (${(bytes.length / 1024).toFixed(0)} KiB)`);
+    side3.log(`${side3.side}: loaded ONNX model ${model.path} (${(bytes2.length / 1024).toFixed(0)} KiB)`);
     return {
       kind: "loaded",
-      model: await loadOnnxModel(new Uint8Array(bytes), {
-        source: `${side2.side}:${model.path}`,
+      model: await loadOnnxModel(new Uint8Array(bytes2), {
+        source: `${side3.side}:${model.path}`,
         task: config2.task,
-        features: side2.train.features,
+        features: side3.train.features,
         featureOrder: model.features,
         positiveClass: model.positiveClass
       })
@@ -55344,15 +55575,15 @@ async function loadSideModel(config2, side2) {
         timeoutSeconds: model.timeoutSeconds,
         parallel: model.parallel,
         sides: {
-          [side2.side]: {
-            cwd: side2.checkout,
-            train: resolve5(side2.checkout, config2.data.train),
-            holdout: resolve5(side2.checkout, config2.data.holdout.path)
+          [side3.side]: {
+            cwd: side3.checkout,
+            train: resolve5(side3.checkout, config2.data.train),
+            holdout: resolve5(side3.checkout, config2.data.holdout.path)
           }
         },
         task: config2.task,
-        features: side2.train.features,
-        onTrained: (event) => side2.log(`${event.label}: trained in ${event.seconds.toFixed(1)} s`)
+        features: side3.train.features,
+        onTrained: (event) => side3.log(`${event.label}: trained in ${event.seconds.toFixed(1)} s`)
       })
     };
   }
@@ -55586,9 +55817,9 @@ var ArrayTaskQueue = class {
     this.tasks.push(task);
   }
   remove(task) {
-    const index = this.tasks.indexOf(task);
-    assert2.notStrictEqual(index, -1);
-    this.tasks.splice(index, 1);
+    const index2 = this.tasks.indexOf(task);
+    assert2.notStrictEqual(index2, -1);
+    this.tasks.splice(index2, 1);
   }
   cancel() {
     while (this.tasks.length > 0) {
@@ -55775,10 +56006,10 @@ var WorkerInfo = class extends AsynchronouslyCreatedResource {
     this.sharedBuffer = new Int32Array(new SharedArrayBuffer(kFieldCount * Int32Array.BYTES_PER_ELEMENT));
   }
   async destroy(timeout) {
-    let resolve8;
+    let resolve10;
     let reject;
     const ret = new Promise((res, rej) => {
-      resolve8 = res;
+      resolve10 = res;
       reject = rej;
     });
     if (this.teardown && this.filename) {
@@ -55794,7 +56025,7 @@ var WorkerInfo = class extends AsynchronouslyCreatedResource {
       this.clearIdleTimeout();
       for (const taskInfo of this.taskInfos.values()) taskInfo.done(Errors.ThreadTermination());
       this.taskInfos.clear();
-      resolve8();
+      resolve10();
     });
     return ret;
   }
@@ -56002,17 +56233,17 @@ var ThreadPool = class {
     if (name == null) name = this.options.name;
     if (typeof filename !== "string" && !(filename instanceof URL2)) return Promise.reject(Errors.FilenameNotProvided());
     filename = maybeFileURLToPath(filename);
-    let resolve8;
+    let resolve10;
     let reject;
     const ret = new Promise((res, rej) => {
-      resolve8 = res;
+      resolve10 = res;
       reject = rej;
     });
     const taskInfo = new TaskInfo(task, transferList, filename, name, (err2, result) => {
       this.completed++;
       if (err2 !== null) reject(err2);
-      if (this.shouldRecycleWorker(taskInfo)) this._removeWorker(taskInfo.workerInfo).then(() => this._ensureMinimumWorkers()).then(() => this._ensureEnoughWorkersForTaskQueue()).then(() => resolve8(result)).catch(reject);
-      else resolve8(result);
+      if (this.shouldRecycleWorker(taskInfo)) this._removeWorker(taskInfo.workerInfo).then(() => this._ensureMinimumWorkers()).then(() => this._ensureEnoughWorkersForTaskQueue()).then(() => resolve10(result)).catch(reject);
+      else resolve10(result);
     }, signal, this.publicInterface.asyncResource.asyncId(), channel);
     if (signal !== null) {
       if (signal.aborted) return Promise.reject(new AbortError());
@@ -56192,55 +56423,55 @@ function createPoolMeasure(environment, options = {}) {
     minThreads: 0,
     maxThreads: Math.floor(threads)
   });
-  const measureSides = async (jobs) => {
-    const results = await Promise.all(jobs.map((job) => job.builtin ? inPool(pool, job) : measureSide({ ...job.inputs }, job.options)));
-    return results;
+  const sharedSides = /* @__PURE__ */ new WeakMap();
+  const execute = async (units, context) => {
+    const here = units.filter((u) => !context.jobs[u.side === "base" ? 0 : 1].builtin);
+    const local = here.length > 0 ? executeInProcess(here, context) : Promise.resolve([]);
+    const pooled = units.map((unit) => {
+      const j = unit.side === "base" ? 0 : 1;
+      const job = context.jobs[j];
+      if (!job.builtin) return void 0;
+      let side3 = sharedSides.get(job);
+      if (!side3) sharedSides.set(job, side3 = shareSide(job, context.rows[j]));
+      return inPool(pool, job, side3, unit);
+    });
+    const localResults = await local;
+    const results = await Promise.all(pooled);
+    let next = 0;
+    return results.map((r) => r ?? localResults[next++]);
   };
-  return { measureSides, close: () => pool.destroy() };
+  return { measureSides: measureSidesWith(execute), execute, close: () => pool.destroy() };
 }
-async function inPool(pool, job) {
-  const builtin = job.builtin;
-  const { onRefit, metric, ...options } = job.options;
+function shareSide(job, capped) {
   const train3 = shareDataset(job.inputs.train);
-  const holdout = shareDataset(job.inputs.holdout);
-  const capped = sideRows({ holdout, reference: shareMatrix(job.inputs.reference), unlabeled: job.inputs.unlabeled }, options);
   const rows = {
     evaluation: shareDataset(capped.evaluation),
     reference: shareMatrix(capped.reference),
     ...capped.unlabeled ? { unlabeled: shareMatrix(capped.unlabeled) } : {},
     slices: capped.slices.map((slice) => ({ ...slice, data: shareDataset(slice.data) }))
   };
-  const binned = builtin.settings.learner === "gradient-boosting" ? binFeatures(train3, { maxBins: builtin.settings.maxBins, shared: true }) : void 0;
-  const seeds = sideRefitSeeds(job.inputs, options);
-  const parts = await Promise.all(
-    seeds.map((seed, refit) => {
-      const task = { side: job.inputs.side, refit, seed, train: train3, holdout, rows, binned, options: { ...options, metricName: metric.name }, builtin };
-      onRefit?.(refit, seeds.length);
-      return pool.run(task).catch((error62) => {
-        throw new InternalError(`refit ${refit + 1} of the ${job.inputs.side} side failed in a worker thread:
+  const settings = job.builtin.settings;
+  const binned = settings.learner === "gradient-boosting" ? binFeatures(train3, { maxBins: settings.maxBins, shared: true }) : void 0;
+  return { train: train3, holdout: shareDataset(job.inputs.holdout), rows, ...binned ? { binned } : {} };
+}
+async function inPool(pool, job, side3, unit) {
+  const { onRefit, metric, ...options } = job.options;
+  const base = { side: unit.side, refit: unit.refit, seed: unit.seed, train: side3.train, holdout: side3.holdout, rows: side3.rows, binned: side3.binned, options: { ...options, metricName: metric.name }, builtin: job.builtin };
+  if (unit.kind === "refit") {
+    onRefit?.(unit.refit, sideRefitSeeds(job.inputs, job.options).length);
+    const task2 = base;
+    const part = await pool.run(task2).catch((error62) => {
+      throw new InternalError(`refit ${unit.refit + 1} of the ${unit.side} side failed in a worker thread:
 ${error62 instanceof Error ? error62.stack ?? error62.message : String(error62)}`);
-      });
-    })
-  );
-  const combined = combineRefits(seeds, rows, parts);
-  const request = options.dropColumns;
-  const dropColumns = request && seeds.length >= 2 ? await measureDropColumns(
-    {
-      side: job.inputs.side,
-      train: train3,
-      holdout,
-      fit: job.inputs.fit,
-      scoreWithout: (name, refit) => {
-        const task = { side: job.inputs.side, refit, seed: seeds[refit], train: train3, holdout, rows, binned, options: { ...options, metricName: metric.name }, builtin, leaveOut: [name] };
-        return pool.run(task).catch((error62) => {
-          throw new InternalError(`a drop-column refit (without ${name}, refit ${refit + 1}) of the ${job.inputs.side} side failed in a worker thread:
+    });
+    return { kind: "refit", part };
+  }
+  const task = { ...base, leaveOut: [unit.feature] };
+  const score2 = await pool.run(task).catch((error62) => {
+    throw new InternalError(`a drop-column refit (without ${unit.feature}, refit ${unit.refit + 1}) of the ${unit.side} side failed in a worker thread:
 ${error62 instanceof Error ? error62.stack ?? error62.message : String(error62)}`);
-        });
-      }
-    },
-    { request, ranked: rankedFeatureNames(combined), refitSeeds: seeds, metric }
-  ) : [];
-  return { ...combined, dropColumns };
+  });
+  return { kind: "drop-column", score: score2 };
 }
 function shareMatrix(matrix) {
   return { ...matrix, columns: matrix.columns.map(shared) };
@@ -56256,8 +56487,306 @@ function shared(values) {
   return out;
 }
 
+// src/adapters/check/input-digest.ts
+import { createHash } from "node:crypto";
+function bytes(values) {
+  return Buffer.from(values.buffer, values.byteOffset, values.byteLength);
+}
+function hashMatrix(hash2, label2, data) {
+  if (!data) {
+    hash2.update(`${label2}:none
+`);
+    return;
+  }
+  hash2.update(`${label2}:${JSON.stringify({ rows: data.rows, features: data.features })}
+`);
+  for (const column of data.columns) hash2.update(bytes(column));
+  const full = data;
+  if (full.target) {
+    hash2.update(`${label2}.target:${JSON.stringify({ name: full.target.name, classes: full.target.classes ?? null })}
+`);
+    hash2.update(bytes(full.target.values));
+  }
+  if (full.ids) hash2.update(`${label2}.ids:${JSON.stringify(full.ids)}
+`);
+}
+function sha256(text5) {
+  return createHash("sha256").update(text5).digest("hex");
+}
+function sideDataDigest(side3) {
+  const hash2 = createHash("sha256");
+  hashMatrix(hash2, "train", side3.train);
+  hashMatrix(hash2, "holdout", side3.holdout);
+  hashMatrix(hash2, "reference", side3.reference);
+  hashMatrix(hash2, "unlabeled", side3.unlabeled);
+  return hash2.digest("hex");
+}
+function inputDigests(options) {
+  return {
+    toolVersion: options.toolVersion,
+    policy: sha256(options.policyText),
+    base: { commit: options.base.commit, data: sideDataDigest(options.base) },
+    head: { commit: options.head.commit, data: sideDataDigest(options.head) }
+  };
+}
+function digestOfInputs(inputs) {
+  return sha256(JSON.stringify(inputs));
+}
+function unitCacheKey(toolVersion2, unit, job, identity) {
+  if (identity === "uncacheable") return void 0;
+  const { onRefit: _onRefit, metric, dropColumns: _dropColumns, concurrentFits: _concurrentFits, slices, ...options } = job.options;
+  const hash2 = createHash("sha256");
+  hash2.update(
+    JSON.stringify({
+      toolVersion: toolVersion2,
+      id: unit.id,
+      kind: unit.kind,
+      seed: unit.seed,
+      data: identity.data,
+      code: identity.code,
+      options: { ...options, metric: metric.name },
+      builtin: job.builtin ?? null,
+      slices: (slices ?? []).map((s) => s.name)
+    })
+  );
+  for (const slice of slices ?? []) hash2.update(bytes(slice.rows));
+  return hash2.digest("hex");
+}
+
+// src/adapters/check/unit-cache.ts
+import { mkdir, readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
+import { join as join5 } from "node:path";
+
+// src/core/gate/unit-files.ts
+var partialFormat = { format: "plumbline-partial", version: 1 };
+var cacheFormat = { format: "plumbline-unit", version: 1 };
+function encodeNumber(x) {
+  if (Number.isNaN(x)) return "NaN";
+  if (x === Infinity) return "Infinity";
+  if (x === -Infinity) return "-Infinity";
+  if (Object.is(x, -0)) return "-0";
+  return x;
+}
+function encodeUnitResult(result) {
+  const walk = (value3) => {
+    if (typeof value3 === "number") return encodeNumber(value3);
+    if (value3 instanceof Float64Array) return Array.from(value3, encodeNumber);
+    if (Array.isArray(value3)) return value3.map(walk);
+    if (value3 && typeof value3 === "object") {
+      const out = {};
+      for (const [k, v] of Object.entries(value3)) if (v !== void 0) out[k] = walk(v);
+      return out;
+    }
+    return value3;
+  };
+  return result.kind === "refit" ? { refit: walk(result.part) } : { score: encodeNumber(result.score) };
+}
+function encodeUnit(unit, result) {
+  return {
+    id: unit.id,
+    kind: unit.kind,
+    side: unit.side,
+    refit: unit.refit,
+    seed: unit.seed,
+    ...unit.kind === "drop-column" ? { feature: unit.feature } : {},
+    result: encodeUnitResult(result)
+  };
+}
+var maxItems = 1e7;
+var text4 = external_exports.string().max(1e5);
+var list3 = (item) => external_exports.array(item).max(maxItems);
+var number4 = external_exports.union([external_exports.number(), external_exports.enum(["NaN", "Infinity", "-Infinity", "-0"])]).transform((x) => typeof x === "number" ? x : x === "-0" ? -0 : Number(x));
+var sha2562 = external_exports.string().regex(/^[0-9a-f]{64}$/, "a SHA-256 in hex (64 characters 0-9, a-f)");
+var side2 = external_exports.enum(["base", "head"]);
+var index = external_exports.int().min(0);
+var importance = external_exports.strictObject({
+  name: text4,
+  members: list3(text4),
+  isGroup: external_exports.boolean(),
+  draws: list3(number4),
+  mean: number4,
+  sd: number4,
+  lower: number4,
+  upper: number4,
+  rowSe: number4.optional()
+});
+var sensitivity = external_exports.strictObject({
+  name: text4,
+  members: list3(text4),
+  isGroup: external_exports.boolean(),
+  draws: list3(number4),
+  mean: number4,
+  flipDraws: list3(number4).optional(),
+  flipShare: number4.optional()
+});
+var refitPart = external_exports.strictObject({
+  score: number4,
+  separation: number4,
+  importances: list3(importance),
+  predictions: list3(number4).transform((values) => Float64Array.from(values)),
+  model: external_exports.strictObject({ kind: text4, featureNames: list3(text4), engine: external_exports.enum(["plumbline-trees", "plumbline-linear", "onnxruntime"]) }),
+  slices: list3(external_exports.strictObject({ score: number4, importances: list3(importance) })),
+  splitStatistics: list3(external_exports.strictObject({ feature: text4, gain: number4, splits: number4 })).optional(),
+  sensitivity: external_exports.strictObject({ holdout: list3(sensitivity), unlabeled: list3(sensitivity).optional() }).optional()
+});
+var refitResult = external_exports.strictObject({ refit: refitPart });
+var dropResult = external_exports.strictObject({ score: number4 });
+var unitSchema = external_exports.discriminatedUnion("kind", [
+  external_exports.strictObject({ id: text4, kind: external_exports.literal("refit"), side: side2, refit: index, seed: index, result: refitResult }),
+  external_exports.strictObject({ id: text4, kind: external_exports.literal("drop-column"), side: side2, refit: index, seed: index, feature: text4, result: dropResult })
+]);
+var sideDigest = external_exports.strictObject({ commit: external_exports.string().regex(/^[0-9a-f]{40}([0-9a-f]{24})?$/).nullable(), data: sha2562 });
+var inputDigestsSchema = external_exports.strictObject({ toolVersion: text4, policy: sha2562, base: sideDigest, head: sideDigest });
+var partialSchema = external_exports.strictObject({
+  format: external_exports.literal(partialFormat.format),
+  version: external_exports.literal(partialFormat.version),
+  digest: sha2562,
+  inputs: inputDigestsSchema,
+  shard: external_exports.strictObject({ stage: external_exports.enum(["refits", "drop-columns"]), index: external_exports.int().min(1), of: external_exports.int().min(1) }),
+  units: list3(unitSchema)
+});
+var cacheSchema = external_exports.strictObject({
+  format: external_exports.literal(cacheFormat.format),
+  version: external_exports.literal(cacheFormat.version),
+  key: sha2562,
+  id: text4,
+  result: external_exports.union([refitResult, dropResult])
+});
+function toResult(result) {
+  return "refit" in result ? { kind: "refit", part: result.refit } : { kind: "drop-column", score: result.score };
+}
+function describeIssue2(issue2) {
+  const path = issue2.path.length > 0 ? issue2.path.map(String).join(".") : "(the top level)";
+  return `${path}: ${issue2.message}`;
+}
+function readPartialFile(textContent, source) {
+  const parsed = parseJson(textContent, source, "a partial result file written by plumbline shard");
+  const format = parsed?.format;
+  const version2 = parsed?.version;
+  if (format !== partialFormat.format) {
+    throw new UserError(`${source} is not a plumbline partial result file (its "format" is ${JSON.stringify(format ?? null)}, not "${partialFormat.format}").`, "Pass the folders plumbline shard --out wrote, and nothing else.");
+  }
+  if (version2 !== partialFormat.version) {
+    throw new UserError(
+      `${source} is a partial result file of version ${JSON.stringify(version2 ?? null)}; this plumbline reads version ${partialFormat.version}.`,
+      "Run the shards and the merge with the same plumbline version."
+    );
+  }
+  const result = partialSchema.safeParse(parsed);
+  if (!result.success) {
+    throw new UserError(`${source} is not a valid partial result file: ${describeIssue2(result.error.issues[0])}.`, "Run plumbline shard again to rewrite it; partial files are not meant to be edited.");
+  }
+  const file2 = result.data;
+  return { ...file2, units: file2.units.map((u) => ({ id: u.id, kind: u.kind, side: u.side, refit: u.refit, seed: u.seed, ..."feature" in u ? { feature: u.feature } : {}, result: toResult(u.result) })) };
+}
+function readCacheEntry(textContent, key2, id) {
+  let parsed;
+  try {
+    parsed = JSON.parse(textContent);
+  } catch {
+    return void 0;
+  }
+  const result = cacheSchema.safeParse(parsed);
+  if (!result.success || result.data.key !== key2 || result.data.id !== id) return void 0;
+  return toResult(result.data.result);
+}
+function cacheEntryText(key2, unit, result) {
+  return `${JSON.stringify({ ...cacheFormat, key: key2, id: unit.id, result: encodeUnitResult(result) })}
+`;
+}
+function parseJson(textContent, source, what) {
+  try {
+    return JSON.parse(textContent);
+  } catch (error62) {
+    throw new UserError(`${source} is not JSON (${error62.message}).`, `Pass ${what}.`);
+  }
+}
+
+// src/adapters/check/unit-cache.ts
+async function createUnitCache(options) {
+  try {
+    await mkdir(options.directory, { recursive: true });
+  } catch (error62) {
+    throw new UserError(
+      `Could not use --cache ${options.directory}: ${error62.code ?? error62.message}.`,
+      "Name a folder you can write to (it is created if missing)."
+    );
+  }
+  const used = { reused: [], measured: [], uncacheable: [] };
+  const keyOf = (unit, job) => unitCacheKey(options.toolVersion, unit, job, options.identities[unit.side]);
+  const execute = async (units, context) => {
+    const keys = units.map((unit) => keyOf(unit, context.jobs[unit.side === "base" ? 0 : 1]));
+    const found = await Promise.all(
+      units.map(async (unit, k) => {
+        const key2 = keys[k];
+        if (!key2) return void 0;
+        const text5 = await readFile2(join5(options.directory, `${key2}.json`), "utf8").catch(() => void 0);
+        return text5 === void 0 ? void 0 : readCacheEntry(text5, key2, unit.id);
+      })
+    );
+    const missing = units.filter((_, k) => !found[k]);
+    const measured = missing.length > 0 ? await options.execute(missing, context) : [];
+    let next = 0;
+    const results = units.map((unit, k) => {
+      if (found[k]) {
+        used.reused.push(unit.id);
+        return found[k];
+      }
+      ;
+      (keys[k] ? used.measured : used.uncacheable).push(unit.id);
+      return measured[next++];
+    });
+    for (const [k, unit] of units.entries()) {
+      const key2 = keys[k];
+      if (found[k] || !key2) continue;
+      const path = join5(options.directory, `${key2}.json`);
+      const temporary = `${path}.${process.pid}.tmp`;
+      try {
+        await writeFile(temporary, cacheEntryText(key2, unit, results[k]));
+        await rename(temporary, path);
+      } catch (error62) {
+        await rm4(temporary, { force: true });
+        throw new UserError(
+          `Could not write to --cache ${options.directory}: ${error62.code ?? error62.message}.`,
+          "Name a folder you can write to, on a disk with room."
+        );
+      }
+    }
+    return results;
+  };
+  return { execute, used };
+}
+
 // src/adapters/check/run-check.ts
 async function runCheck(request) {
+  return withOpenedCheck(request, async (opened) => {
+    const measure = await localExecutor(opened, request.cache);
+    const report = await gateOf(opened, request, measure.execute);
+    return measure.cache ? { ...report, cache: measure.cache.used } : report;
+  });
+}
+function gateOf(opened, request, execute) {
+  return runGate({
+    config: opened.policy.config,
+    policySource: opened.policyPath,
+    policyChanged: opened.policyChanged,
+    base: opened.base,
+    head: opened.head,
+    toolVersion,
+    onProgress: request.onProgress,
+    measureSides: measureSidesWith(execute),
+    now: () => performance.now() / 1e3
+  });
+}
+async function localExecutor(opened, cache) {
+  const pool = createPoolMeasure(process.env);
+  if (pool) opened.onClose(pool.close);
+  const execute = pool?.execute ?? executeInProcess;
+  if (!cache) return { execute };
+  const unitCache = await createUnitCache({ directory: resolve6(cache), toolVersion, identities: opened.identities, execute });
+  return { execute: unitCache.execute, cache: unitCache };
+}
+async function withOpenedCheck(request, body) {
   const log = request.log ?? (() => void 0);
   const root2 = await repositoryRoot(request.cwd);
   const policyPath = request.policyPath ?? "plumbline.yml";
@@ -56277,7 +56806,6 @@ async function runCheck(request) {
       }
     )).toString("utf8");
     const policy = readPolicyFile(policyText, { source: policyPath });
-    const { config: config2 } = policy;
     const baseTarget = request.baseRef ? { ref: request.baseRef, commit: await resolveCommit(root2, request.baseRef, "--base") } : await defaultBase(root2);
     const basePolicy = await readFileAtCommit(root2, baseTarget.commit, toRepoPath(policyPath));
     const policyChanged = basePolicy !== policyText;
@@ -56287,19 +56815,21 @@ async function runCheck(request) {
     cleanups.push(baseTree.remove);
     const baseSide = await loadSide(policy, baseTree.path, "base", baseTarget.ref, baseTarget.commit, policyPath, log);
     const headSide = await loadSide(policy, head.path, "head", head.ref, head.commit, policyPath, log);
-    const pool = createPoolMeasure(process.env);
-    if (pool) cleanups.push(pool.close);
     checkPolicyAgainstColumns(policy, columnsOf(headSide.train), { otherSide: columnsOf(baseSide.train) });
-    return await runGate({
-      config: config2,
-      policySource: policyPath,
+    const identity = (side3) => {
+      if (side3.model.kind === "builtin") return { data: sideDataDigest(side3), code: null };
+      return side3.commit ? { data: sideDataDigest(side3), code: { commit: side3.commit, model: policy.config.model } } : "uncacheable";
+    };
+    return await body({
+      root: root2,
+      policy,
+      policyPath,
+      policyText,
       policyChanged,
       base: baseSide,
       head: headSide,
-      toolVersion,
-      onProgress: request.onProgress,
-      measureSides: pool?.measureSides,
-      now: () => performance.now() / 1e3
+      identities: { base: identity(baseSide), head: identity(headSide) },
+      onClose: (cleanup) => void cleanups.push(cleanup)
     });
   } finally {
     for (const cleanup of cleanups.reverse()) await cleanup();
@@ -56311,35 +56841,38 @@ async function checkoutSide(root2, ref, flag, cleanups) {
   cleanups.push(tree.remove);
   return { path: tree.path, ref, commit };
 }
-async function loadSide(policy, checkout, side2, ref, commit, policyPath, log) {
+async function loadSide(policy, checkout, side3, ref, commit, policyPath, log) {
   const { config: config2 } = policy;
   if (config2.prepare) {
-    log(`${side2}: running prepare: ${config2.prepare.command}`);
-    await runPrepare({ command: config2.prepare.command, cwd: checkout, timeoutSeconds: config2.prepare.timeoutSeconds, side: side2 });
+    log(`${side3}: running prepare: ${config2.prepare.command}`);
+    await runPrepare({ command: config2.prepare.command, cwd: checkout, timeoutSeconds: config2.prepare.timeoutSeconds, side: side3 });
   }
-  const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout, rootName: `the ${side2} checkout`, featureRolesMayBeAbsent: true };
+  const readOptions = { target: config2.target, task: config2.task, roles: config2.data.columns, cwd: checkout, rootName: `the ${side3} checkout`, featureRolesMayBeAbsent: true };
   const tables = {};
   for (const file2 of sideDataFiles(config2)) {
     tables[file2.role] = await readTable(file2.path, {
       ...readOptions,
       key: file2.key,
-      source: `${side2}: ${file2.path}`,
+      source: `${side3}: ${file2.path}`,
       requireTarget: file2.requireTarget,
       ...file2.conformToTrain ? { schema: schemaOf(tables.train) } : {}
     });
   }
   const { train: train3, holdout, reference, unlabeled } = assembleSideData(config2, tables);
-  checkSizes(side2, config2, train3, holdout, log);
-  log(`${side2}: ${train3.rows} training rows, ${holdout.rows} holdout rows, ${train3.features.length} features`);
-  const model = config2.model.kind === "builtin" ? { kind: "builtin" } : await loadSideModel(config2, { checkout, side: side2, train: train3, holdout, log });
+  checkSizes(side3, config2, train3, holdout, log);
+  const capNote = (rows, max, key2) => rows > max ? ` (a sample of ${max} by ${key2})` : "";
+  log(
+    `${side3}: ${train3.rows} training rows${capNote(train3.rows, config2.data.maxTrainRows, "data.max_train_rows")}, ${holdout.rows} holdout rows${capNote(holdout.rows, config2.data.maxHoldoutRows, "data.max_holdout_rows")}, ${train3.features.length} features`
+  );
+  const model = config2.model.kind === "builtin" ? { kind: "builtin" } : await loadSideModel(config2, { checkout, side: side3, train: train3, holdout, log });
   return { ref, commit, train: train3, holdout, reference, ...unlabeled ? { unlabeled } : {}, model };
 }
 var minimumRows = { train: 20, holdout: 10 };
 var smallRows = { train: 200, holdout: 100 };
-function checkSizes(side2, config2, train3, holdout, log) {
+function checkSizes(side3, config2, train3, holdout, log) {
   if (train3.features.length === 0) {
     throw new UserError(
-      `${side2}: ${config2.data.train} has no feature column: every column is the target, the id or ignored.`,
+      `${side3}: ${config2.data.train} has no feature column: every column is the target, the id or ignored.`,
       "Add the feature columns to the file, or change their roles under 'data.columns' in the policy."
     );
   }
@@ -56347,12 +56880,12 @@ function checkSizes(side2, config2, train3, holdout, log) {
   for (const [which, data, name] of [["train", train3, config2.data.train], ["holdout", holdout, holdoutName]]) {
     if (data.rows < minimumRows[which]) {
       throw new UserError(
-        `${side2}: ${name} has ${data.rows} ${which === "train" ? "training" : "holdout"} row${data.rows === 1 ? "" : "s"}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
+        `${side3}: ${name} has ${data.rows} ${which === "train" ? "training" : "holdout"} row${data.rows === 1 ? "" : "s"}; the gate needs at least ${minimumRows[which]} to measure importance against a noise floor.`,
         which === "train" ? "Point data.train at the full training table." : "Give the holdout more rows (data.holdout), or a larger 'fraction' for a split."
       );
     }
     if (data.rows < smallRows[which]) {
-      log(`${side2}: note: only ${data.rows} ${which === "train" ? "training" : "holdout"} rows; with so few, the noise floor is wide and small changes cannot be told from noise.`);
+      log(`${side3}: note: only ${data.rows} ${which === "train" ? "training" : "holdout"} rows; with so few, the noise floor is wide and small changes cannot be told from noise.`);
     }
   }
 }
@@ -56363,13 +56896,203 @@ function toRepoPath(path) {
   return (isAbsolute3(path) ? relative3(resolve6("/"), path) : path).split("\\").join("/");
 }
 
+// src/adapters/check/run-shards.ts
+import { mkdir as mkdir2, readdir as readdir2, readFile as readFile3, rename as rename2, rm as rm5, stat as stat3, writeFile as writeFile2 } from "node:fs/promises";
+import { join as join6, resolve as resolve7 } from "node:path";
+var maxPartialBytes = 1024 * 1024 * 1024;
+function digestsOf(opened) {
+  const inputs = inputDigests({ toolVersion, policyText: opened.policyText, base: opened.base, head: opened.head });
+  return { inputs, digest: digestOfInputs(inputs) };
+}
+function contextOf(opened) {
+  return unitContext(planMeasurement({ config: opened.policy.config, base: opened.base, head: opened.head }).jobs);
+}
+function runPlan(request) {
+  return withOpenedCheck(request, async (opened) => {
+    const context = contextOf(opened);
+    const units = planRefitUnits(context);
+    const shards = assignShards(units, request.shards);
+    const total = units.reduce((sum2, u) => sum2 + u.cost, 0);
+    const dropColumns = Object.fromEntries(
+      context.jobs.map((job) => [
+        job.inputs.side,
+        job.inputs.model || !job.options.dropColumns || units.filter((u) => u.side === job.inputs.side).length < 2 ? null : { refits: units.filter((u) => u.side === job.inputs.side).length, top: job.options.dropColumns.top, also: job.options.dropColumns.also }
+      ])
+    );
+    return {
+      matrix: { shard: shards.map((_, s) => s + 1) },
+      file: {
+        format: "plumbline-plan",
+        version: 1,
+        digest: digestsOf(opened).digest,
+        shards: request.shards,
+        stages: [
+          { stage: "refits", units: shards.flatMap((list4, s) => list4.map((u) => ({ id: u.id, shard: s + 1, cost: u.cost }))) },
+          { stage: "drop-columns", decidedAfter: "refits", perSide: dropColumns }
+        ]
+      },
+      summary: shards.map((list4, s) => {
+        const cost = list4.reduce((sum2, u) => sum2 + u.cost, 0);
+        return `shard ${s + 1} of ${request.shards}: ${list4.length} refit unit${list4.length === 1 ? "" : "s"} (${total > 0 ? (100 * cost / total).toFixed(0) : "0"}% of the estimated cost)${list4.length > 0 ? `: ${list4.map((u) => u.id).join(", ")}` : ""}`;
+      })
+    };
+  });
+}
+function runShard(request) {
+  return withOpenedCheck(request, async (opened) => {
+    const { inputs, digest } = digestsOf(opened);
+    const context = contextOf(opened);
+    const refits = planRefitUnits(context);
+    let stage = "refits";
+    let units = refits;
+    if (request.after) {
+      stage = "drop-columns";
+      const partials = await readPartials(request.after, request.cwd, inputs, digest);
+      const lookup2 = partialLookup(partials, "refits");
+      const combined = combineSides(context, refits, await lookup2.execute(refits, context));
+      lookup2.refuseUnused();
+      units = planDropColumnUnits(context, combined);
+    }
+    const mine = assignShards(units, request.of)[request.index - 1];
+    const local = await localExecutor(opened, request.cache);
+    const results = mine.length > 0 ? await local.execute(mine, context) : [];
+    const file2 = {
+      ...partialFormat,
+      digest,
+      inputs,
+      shard: { stage, index: request.index, of: request.of },
+      units: mine.map((unit, k) => encodeUnit(unit, results[k]))
+    };
+    const path = await writePartial(resolve7(request.cwd, request.out), `plumbline-partial-${stage}-${request.index}-of-${request.of}.json`, file2);
+    return { path, stage, units: mine.map((u) => u.id), reused: local.cache?.used.reused ?? [] };
+  });
+}
+function runMerge(request) {
+  return withOpenedCheck(request, async (opened) => {
+    const { inputs, digest } = digestsOf(opened);
+    const partials = await readPartials(request.dirs, request.cwd, inputs, digest);
+    const lookup2 = partialLookup(partials);
+    const report = await gateOf(opened, request, lookup2.execute);
+    lookup2.refuseUnused();
+    return report;
+  });
+}
+async function readPartials(paths, cwd, inputs, digest) {
+  const files = [];
+  for (const given of paths) {
+    const path = resolve7(cwd, given);
+    const info = await stat3(path).catch(() => null);
+    if (!info) throw new UserError(`No folder or file ${given} (looked at ${path}).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
+    if (info.isFile()) {
+      files.push(path);
+      continue;
+    }
+    const names = (await readdir2(path)).filter((n) => n.startsWith("plumbline-partial-") && n.endsWith(".json")).sort();
+    if (names.length === 0) {
+      throw new UserError(`${given} holds no partial result file (plumbline-partial-*.json).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
+    }
+    files.push(...names.map((n) => join6(path, n)));
+  }
+  const read = [];
+  for (const path of files) {
+    const size = (await stat3(path)).size;
+    if (size > maxPartialBytes) throw new UserError(`${path} is ${size} bytes, more than a partial result file can be (${maxPartialBytes}).`, "Pass the files plumbline shard wrote.");
+    const file2 = readPartialFile(await readFile3(path, "utf8"), path);
+    refuseForeignInputs(file2, path, inputs, digest);
+    read.push({ source: path, file: file2 });
+  }
+  return read;
+}
+function refuseForeignInputs(file2, source, inputs, digest) {
+  if (file2.digest === digest && digestOfInputs(file2.inputs) === digest) return;
+  const theirs = file2.inputs;
+  const differs = theirs.toolVersion !== inputs.toolVersion ? `plumbline ${theirs.toolVersion} wrote it; this is plumbline ${inputs.toolVersion}` : theirs.policy !== inputs.policy ? "it was measured with another policy file" : theirs.base.commit !== inputs.base.commit ? `it was measured on base commit ${theirs.base.commit ?? "(a working tree)"}, this run's base is ${inputs.base.commit ?? "(a working tree)"}` : theirs.head.commit !== inputs.head.commit ? `it was measured on head commit ${theirs.head.commit ?? "(a working tree)"}, this run's head is ${inputs.head.commit ?? "(a working tree)"}` : theirs.base.data !== inputs.base.data ? "the base side's data differs from what this run read" : theirs.head.data !== inputs.head.data ? "the head side's data differs from what this run read" : "its digest does not match its inputs";
+  throw new UserError(
+    `${source} is from another run: ${differs}. No report was written.`,
+    "Run plan, every shard and merge on the same commits, policy and plumbline version."
+  );
+}
+function partialLookup(partials, only) {
+  const index2 = /* @__PURE__ */ new Map();
+  const shardsOf = /* @__PURE__ */ new Map();
+  for (const { source, file: file2 } of partials) {
+    if (only && file2.shard.stage !== only) continue;
+    shardsOf.set(file2.shard.stage, file2.shard.of);
+    for (const unit of file2.units) {
+      const earlier = index2.get(unit.id);
+      if (earlier) {
+        throw new UserError(
+          `Unit ${unit.id} is in two partial results: ${earlier.source} and ${source}. No report was written.`,
+          "Pass each shard’s folder once, and every folder from the same run."
+        );
+      }
+      index2.set(unit.id, { unit, source, stage: file2.shard.stage });
+    }
+  }
+  const used = /* @__PURE__ */ new Set();
+  const execute = async (units) => {
+    const stage = units[0]?.kind === "drop-column" ? "drop-columns" : "refits";
+    const of = shardsOf.get(stage);
+    return units.map((unit) => {
+      const found = index2.get(unit.id);
+      if (!found) {
+        const owner = of === void 0 ? void 0 : assignShards(units, of).findIndex((list4) => list4.includes(unit));
+        throw new UserError(
+          of === void 0 ? `Unit ${unit.id} is missing: no partial result file of the ${stage} stage was given. No report was written.` : `Unit ${unit.id} is missing: shard ${owner + 1} of ${of} of the ${stage} stage runs it, and no partial file given has it. No report was written.`,
+          stage === "drop-columns" ? "Run plumbline shard --after <the refits folders> for every shard, and pass those folders too." : "Pass the folder of every shard; run a shard again if its artifact is missing."
+        );
+      }
+      const u = found.unit;
+      if (u.kind !== unit.kind || u.side !== unit.side || u.refit !== unit.refit || u.seed !== unit.seed || unit.kind === "drop-column" && u.feature !== unit.feature) {
+        throw new UserError(`Unit ${unit.id} in ${found.source} is not the unit this run plans (its seed or kind differ). No report was written.`, "Run plan, every shard and merge with the same plumbline version.");
+      }
+      used.add(unit.id);
+      return u.result;
+    });
+  };
+  return {
+    execute,
+    /** After the units were asked for: one nobody asked for is foreign work. */
+    refuseUnused() {
+      for (const [id, found] of index2) {
+        if (!used.has(id)) {
+          throw new UserError(
+            `Unit ${id} in ${found.source} is not part of this run's plan. No report was written.`,
+            "Pass only the folders of this run’s shards (after a new push, run every shard again)."
+          );
+        }
+      }
+    }
+  };
+}
+async function writePartial(folder, name, file2) {
+  const path = join6(folder, name);
+  const temporary = `${path}.${process.pid}.tmp`;
+  try {
+    await mkdir2(folder, { recursive: true });
+    await writeFile2(temporary, `${JSON.stringify(file2)}
+`);
+    await rename2(temporary, path);
+  } catch (error62) {
+    await rm5(temporary, { force: true }).catch(() => void 0);
+    throw new UserError(
+      `Could not write the partial result to ${path}: ${error62.code ?? error62.message}.`,
+      "Name a folder you can write to, on a disk with room (--out DIR)."
+    );
+  }
+  return path;
+}
+
 // src/adapters/cli/args.ts
 import { parseArgs } from "node:util";
 var usage = {
   top: `plumbline: a pull-request gate for model features.
 
 Usage:
-  plumbline check [--policy FILE] [--base REF] [--head REF] [--json FILE] [--markdown FILE] [--html FILE] [--quiet]
+  plumbline check [--policy FILE] [--base REF] [--head REF] [--cache DIR] [--json FILE] [--markdown FILE] [--html FILE] [--quiet]
+  plumbline plan --shards N [--policy FILE] [--base REF] [--head REF] [--out FILE]
+  plumbline shard --index I --of N --out DIR [--after DIR...] [--cache DIR] [--policy FILE] [--base REF] [--head REF]
+  plumbline merge DIR... [--policy FILE] [--base REF] [--head REF] [--json FILE] [--markdown FILE] [--html FILE] [--quiet]
   plumbline init [--train FILE] [--target COLUMN] [--task binary|regression] [--output FILE] [--force]
   plumbline --version
 
@@ -56381,6 +57104,7 @@ Options:
   --policy FILE     policy file, relative to the repository root (default plumbline.yml)
   --base REF        baseline commit (default: merge base of HEAD with the default branch)
   --head REF        candidate commit (default: the working tree, uncommitted changes included)
+  --cache DIR       reuse measured work units from DIR when their digest matches, and store new ones there
   --json FILE       also write the report as JSON (the documented contract, docs/report-json.md)
   --markdown FILE   also write the report as markdown (what the pull-request comment shows)
   --html FILE       also write the report as one self-contained HTML file with charts
@@ -56388,6 +57112,38 @@ Options:
   -h, --help        this text
 
 Exit codes: 0 pass or warn, 1 block, 2 a problem you can fix, 3 an internal error.`,
+  plan: `plumbline plan: split the check's work units into N shards for a CI job matrix.
+
+Prints the matrix for strategy.matrix ({"shard":[1,...,N]}) on stdout and each shard's units on stderr.
+
+Options:
+  --shards N        how many shards (jobs) to split the work into
+  --out FILE        also write the plan (every unit, its shard and estimated cost) as JSON
+  --policy FILE, --base REF, --head REF   as for check
+  -h, --help        this text`,
+  shard: `plumbline shard: run one shard's work units and write a partial result file.
+
+Run it twice per shard: first for the refits, then with --after for the drop-column refits
+(their features are ranked by the refits' importances, so that stage needs every refits result).
+
+Options:
+  --index I         which shard, 1 to N
+  --of N            how many shards
+  --out DIR         folder for the partial result file (plumbline-partial-<stage>-<I>-of-<N>.json)
+  --after DIR...    the refits stage's folders (all shards); runs the drop-columns stage
+  --cache DIR       reuse measured work units from DIR when their digest matches, and store new ones there
+  --policy FILE, --base REF, --head REF   as for check (the same for every shard and the merge)
+  -h, --help        this text`,
+  merge: `plumbline merge: check that every work unit is present once and from this run, then decide.
+
+Takes the folders (or files) plumbline shard wrote, for both stages; writes the same reports as check.
+
+Options:
+  --policy FILE, --base REF, --head REF   as for check (the same as for the shards)
+  --json FILE, --markdown FILE, --html FILE, --quiet   as for check
+  -h, --help        this text
+
+Exit codes: 0 pass or warn, 1 block, 2 a problem you can fix (a missing, duplicated or foreign unit), 3 an internal error.`,
   init: `plumbline init: write a commented starter policy for this repository.
 
 Options:
@@ -56402,25 +57158,21 @@ function parseCommand(argv) {
   const [first, ...rest] = argv;
   if (first === void 0 || first === "-h" || first === "--help" || first === "help") return { name: "help", text: usage.top };
   if (first === "--version" || first === "-v") return { name: "version" };
-  if (first === "check") {
-    const values = parse4(rest, "check", {
+  if (first === "check" || first === "merge") {
+    const { values, positionals } = parseWith(rest, first, {
       policy: { type: "string" },
       base: { type: "string" },
       head: { type: "string" },
+      ...first === "check" ? { cache: { type: "string" } } : {},
       json: { type: "string" },
       markdown: { type: "string" },
       html: { type: "string" },
       quiet: { type: "boolean" },
       help: { type: "boolean", short: "h" }
     });
-    if (values.help) return { name: "help", text: usage.check };
-    for (const flag of ["policy", "base", "head", "json", "markdown", "html"]) {
-      if (values[flag] === "") {
-        throw new UserError(`--${flag} needs a value, got an empty string.`, `Leave --${flag} out to use its default, or give it a value.`);
-      }
-    }
-    return {
-      name: "check",
+    if (values.help) return { name: "help", text: usage[first] };
+    refuseEmpty(values, ["policy", "base", "head", "cache", "json", "markdown", "html"]);
+    const common = {
       policy: values.policy,
       base: values.base,
       head: values.head,
@@ -56428,6 +57180,50 @@ function parseCommand(argv) {
       markdown: values.markdown,
       html: values.html,
       quiet: Boolean(values.quiet)
+    };
+    if (first === "check") {
+      if (positionals.length) throw noPositionals("check", positionals[0]);
+      return { name: "check", ...common, ...values.cache !== void 0 ? { cache: values.cache } : {} };
+    }
+    if (positionals.length === 0) {
+      throw new UserError("plumbline merge needs the folders plumbline shard wrote, got none.", "Run plumbline merge DIR... with every shard’s --out folder (both stages).");
+    }
+    return { name: "merge", dirs: positionals, ...common };
+  }
+  if (first === "plan") {
+    const values = parse4(rest, "plan", {
+      shards: { type: "string" },
+      ...sideOptions,
+      out: { type: "string" }
+    });
+    if (values.help) return { name: "help", text: usage.plan };
+    refuseEmpty(values, ["policy", "base", "head", "out"]);
+    const shards = wholeNumber2(values.shards, "--shards", "plan", 1, 1e3);
+    return { name: "plan", shards, ...sideRefs(values), ...values.out !== void 0 ? { out: values.out } : {} };
+  }
+  if (first === "shard") {
+    const values = parse4(rest, "shard", {
+      index: { type: "string" },
+      of: { type: "string" },
+      out: { type: "string" },
+      after: { type: "string", multiple: true },
+      cache: { type: "string" },
+      ...sideOptions
+    });
+    if (values.help) return { name: "help", text: usage.shard };
+    refuseEmpty(values, ["policy", "base", "head", "out", "cache"]);
+    const of = wholeNumber2(values.of, "--of", "shard", 1, 1e3);
+    const index2 = wholeNumber2(values.index, "--index", "shard", 1, of);
+    if (values.out === void 0) throw new UserError("plumbline shard needs --out DIR, the folder for its partial result file.", "Run 'plumbline shard --help' for the options.");
+    const after = values.after;
+    return {
+      name: "shard",
+      index: index2,
+      of,
+      out: values.out,
+      ...sideRefs(values),
+      ...after ? { after } : {},
+      ...values.cache !== void 0 ? { cache: values.cache } : {}
     };
   }
   if (first === "init") {
@@ -56453,15 +57249,49 @@ function parseCommand(argv) {
       force: Boolean(values.force)
     };
   }
-  throw new UserError(`Unknown command '${first}'.`, "Run 'plumbline --help' for the commands (check, init).");
+  throw new UserError(`Unknown command '${first}'.`, "Run 'plumbline --help' for the commands (check, plan, shard, merge, init).");
+}
+var sideOptions = {
+  policy: { type: "string" },
+  base: { type: "string" },
+  head: { type: "string" },
+  help: { type: "boolean", short: "h" }
+};
+function sideRefs(values) {
+  return {
+    ...values.policy !== void 0 ? { policy: values.policy } : {},
+    ...values.base !== void 0 ? { base: values.base } : {},
+    ...values.head !== void 0 ? { head: values.head } : {}
+  };
+}
+function refuseEmpty(values, flags) {
+  for (const flag of flags) {
+    if (values[flag] === "") {
+      throw new UserError(`--${flag} needs a value, got an empty string.`, `Leave --${flag} out to use its default, or give it a value.`);
+    }
+  }
+}
+function wholeNumber2(value3, flag, command, min, max) {
+  if (value3 === void 0) throw new UserError(`plumbline ${command} needs ${flag} N.`, `Run 'plumbline ${command} --help' for the options.`);
+  const text5 = String(value3);
+  const n = Number(text5);
+  if (!/^[0-9]+$/.test(text5) || n < min || n > max) {
+    throw new UserError(`${flag} must be a whole number from ${min} to ${max}, got '${text5}'.`, `Run 'plumbline ${command} --help' for the options.`);
+  }
+  return n;
+}
+function noPositionals(command, first) {
+  return new UserError(`plumbline ${command} takes no positional arguments, got '${first}'.`, `Run 'plumbline ${command} --help' for the options.`);
 }
 function parse4(args, command, options) {
+  const { values, positionals } = parseWith(args, command, options);
+  if (positionals.length) throw noPositionals(command, positionals[0]);
+  return values;
+}
+function parseWith(args, command, options) {
   try {
     const { values, positionals } = parseArgs({ args, options, strict: true, allowPositionals: true });
-    if (positionals.length) {
-      throw new UserError(`plumbline ${command} takes no positional arguments, got '${positionals[0]}'.`, `Run 'plumbline ${command} --help' for the options.`);
-    }
-    return values;
+    return { values, positionals };
   } catch (error62) {
     if (error62 instanceof UserError) throw error62;
     const code2 = error62.code;
@@ -56493,8 +57323,8 @@ function closestOption(typed, options) {
 }
 
 // src/adapters/cli/init.ts
-import { access, mkdir, readFile as readFile2, readdir as readdir2, writeFile } from "node:fs/promises";
-import { dirname as dirname3, join as join5, resolve as resolve7 } from "node:path";
+import { access, mkdir as mkdir3, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
+import { dirname as dirname3, join as join7, resolve as resolve8 } from "node:path";
 
 // src/core/policy/render-starter-policy.ts
 var labelNames = ["target", "label", "y", "outcome"];
@@ -56523,8 +57353,8 @@ function guessTarget(columns) {
 function proposeTarget(columns) {
   return guessTarget(columns)?.name;
 }
-function scalar(text4) {
-  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text4) ? text4 : JSON.stringify(text4);
+function scalar(text5) {
+  return /^[A-Za-z0-9_][A-Za-z0-9_./-]*$/.test(text5) ? text5 : JSON.stringify(text5);
 }
 function withThousands(n) {
   return String(Math.round(n)).replace(/\B(?=(\d{3})+(?!\d))/g, ",");
@@ -56532,8 +57362,8 @@ function withThousands(n) {
 function count3(n, one, many) {
   return `${withThousands(n)} ${n === 1 ? one : many}`;
 }
-var key = (indent, text4, note) => ({ indent, text: text4, ...note ? { note } : {} });
-var optional3 = (indent, text4, note) => ({ indent, text: text4, isOptional: true, ...note ? { note } : {} });
+var key = (indent, text5, note) => ({ indent, text: text5, ...note ? { note } : {} });
+var optional3 = (indent, text5, note) => ({ indent, text: text5, isOptional: true, ...note ? { note } : {} });
 function renderBlock(lines) {
   const body = lines.map((line) => `${"  ".repeat(line.indent)}${line.isOptional ? "# " : ""}${line.text}`);
   const width = Math.min(44, Math.max(0, ...body.filter((_, i) => lines[i].note).map((b) => b.length)));
@@ -56612,6 +57442,8 @@ function renderStarterPolicy(input2) {
     idColumn && !holdout ? key(2, `by: ${scalar(idColumn.name)}`, "guessed: hashing the id holds out the same rows on both sides") : optional3(2, idColumn ? `by: ${scalar(idColumn.name)}` : "by: <id column>", "hash an id so both sides hold out the same rows"),
     optional3(1, `reference: ${defaultData.reference.kind}`, "train, holdout or a file: where permutation draws come from"),
     optional3(1, `unlabeled: ${scalar(holdoutPathFor(trainPath).replace(/holdout/i, "unlabeled"))}`, "rows without the target"),
+    optional3(1, `max_train_rows: ${defaultData.maxTrainRows}`, "above it, refits train on a seeded sample of the rows"),
+    optional3(1, `max_holdout_rows: ${defaultData.maxHoldoutRows}`, "above it, both sides are scored on the same seeded sample"),
     features.length > 0 ? key(1, "columns:", "numeric, categorical, id or ignore; others are inferred") : key(1, "columns: {}", "numeric, categorical, id or ignore"),
     ...described.map((d) => (declared.includes(d) ? key : optional3)(2, `${scalar(d.column.name)}: ${d.role}`, declared.includes(d) ? d.note : `inferred: ${d.note}`))
   ]);
@@ -56642,7 +57474,7 @@ function renderStarterPolicy(input2) {
     optional3(2, `parallel: ${defaultTrainCommand.parallel}`)
   ]);
   const metrics = Object.keys(metricTasks).filter((m) => metricTasks[m] === task);
-  const importance = renderBlock([
+  const importance2 = renderBlock([
     key(0, "importance:"),
     optional3(1, `metric: ${defaultMetric[task]}`, metrics.join(", ")),
     optional3(1, `draws: ${defaultImportance.draws}`, "draws per feature per refit"),
@@ -56654,7 +57486,7 @@ function renderStarterPolicy(input2) {
     optional3(2, `group_name: ${example(numeric, ["column_a", "column_b"])}`),
     optional3(1, `group_threshold: ${defaultImportance.groupThreshold}`, "automatic groups: numeric columns with |Spearman| at or above this")
   ]);
-  const { leakage, rankShift, score: score2, holdoutRows, sensitivity, gain, slices, correlatedGroups: correlatedGroups2 } = defaultChecks;
+  const { leakage, rankShift, score: score2, holdoutRows, sensitivity: sensitivity2, gain, slices, correlatedGroups: correlatedGroups2 } = defaultChecks;
   const checks = renderBlock([
     key(0, "checks:"),
     key(1, "leakage:", "one feature carries the model"),
@@ -56679,11 +57511,11 @@ function renderStarterPolicy(input2) {
     key(1, "holdout_rows:", "the holdout rows differ between base and head"),
     key(2, `action: ${holdoutRows.action}`),
     key(1, "sensitivity:", "how much predictions move when a feature is replaced (no labels needed)"),
-    key(2, `action: ${sensitivity.action}`),
-    optional3(2, `false_discovery_rate: ${sensitivity.falseDiscoveryRate}`),
-    optional3(2, `min_relative_change: ${sensitivity.minRelativeChange}`),
-    optional3(2, `unlabeled_ratio: ${sensitivity.unlabeledRatio}`, "data.unlabeled against the holdout"),
-    optional3(2, `min_share: ${sensitivity.minShare}`),
+    key(2, `action: ${sensitivity2.action}`),
+    optional3(2, `false_discovery_rate: ${sensitivity2.falseDiscoveryRate}`),
+    optional3(2, `min_relative_change: ${sensitivity2.minRelativeChange}`),
+    optional3(2, `unlabeled_ratio: ${sensitivity2.unlabeledRatio}`, "data.unlabeled against the holdout"),
+    optional3(2, `min_share: ${sensitivity2.minShare}`),
     key(1, "gain:", "the built-in trees split on a feature that does not help on the holdout"),
     key(2, `action: ${gain.action}`),
     optional3(2, `top_ranks: ${gain.topRanks}`),
@@ -56701,7 +57533,7 @@ function renderStarterPolicy(input2) {
     optional3(2, "where: { column: a_column, equals: a_value }", "also in, at_least, below, between, is_missing; all_of / any_of")
   ]);
   const report = renderBlock([key(0, "report:"), optional3(1, `max_table_rows: ${defaultReport.maxTableRows}`)]);
-  return `${[header, top, data, prepare, model, importance, checks, sliceBlock, report].join("\n\n")}
+  return `${[header, top, data, prepare, model, importance2, checks, sliceBlock, report].join("\n\n")}
 `;
 }
 
@@ -56724,32 +57556,32 @@ function summarizeColumns(data) {
 // src/adapters/cli/init.ts
 async function init(command, io) {
   const root2 = await repositoryRoot(io.cwd).catch(() => io.cwd);
-  const output2 = resolve7(io.cwd, command.output);
+  const output2 = resolve8(io.cwd, command.output);
   if (!command.force && await exists(output2)) {
     throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
   }
   const trainPath = command.train ?? await findTrainingTable(root2);
-  const text4 = await readFile2(resolve7(root2, trainPath), "utf8").catch(() => {
+  const text5 = await readFile4(resolve8(root2, trainPath), "utf8").catch(() => {
     throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
   });
-  const data = parseCsv(text4, { source: trainPath, requireTarget: false });
+  const data = parseCsv(text5, { source: trainPath, requireTarget: false });
   const columns = summarizeColumns(data);
   const target = command.target ?? proposeTarget(columns);
   if (command.target && !columns.some((c) => c.name === command.target)) {
     throw new UserError(`--target '${command.target}' is not a column of ${trainPath}.`, `Columns: ${columns.map((c) => c.name).join(", ")}.`);
   }
   const holdout = holdoutPathFor(trainPath);
-  const holdoutPath = holdout !== trainPath && await exists(resolve7(root2, holdout)) ? holdout : void 0;
+  const holdoutPath = holdout !== trainPath && await exists(resolve8(root2, holdout)) ? holdout : void 0;
   const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task, ...holdoutPath ? { holdoutPath } : {} });
-  await mkdir(dirname3(output2), { recursive: true });
-  await writeFile(output2, policy);
+  await mkdir3(dirname3(output2), { recursive: true });
+  await writeFile3(output2, policy);
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.
 `);
   return 0;
 }
 async function findTrainingTable(root2) {
-  const dir = join5(root2, "data");
-  const files = await readdir2(dir).catch(() => []);
+  const dir = join7(root2, "data");
+  const files = await readdir3(dir).catch(() => []);
   const csvs = files.filter((f) => f.endsWith(".csv"));
   const train3 = csvs.filter((f) => /train/i.test(f));
   if (train3.length === 1) return `data/${train3[0]}`;
@@ -56764,6 +57596,34 @@ async function exists(path) {
     () => true,
     () => false
   );
+}
+
+// src/adapters/cli/shard-commands.ts
+import { writeFile as writeFile4 } from "node:fs/promises";
+import { resolve as resolve9 } from "node:path";
+async function runShardCommand(command, io) {
+  const log = (line) => io.stderr(`${cleanOutsideText(line)}
+`);
+  const sides = { cwd: io.cwd, policyPath: command.policy, baseRef: command.base, headRef: command.head, log };
+  if (command.name === "plan") {
+    const plan = await runPlan({ ...sides, shards: command.shards });
+    if (command.out) {
+      const path = resolve9(io.cwd, command.out);
+      await writeFile4(path, `${JSON.stringify(plan.file, null, 2)}
+`).catch((error62) => {
+        throw new UserError(`Could not write --out ${path}: ${error62.code ?? error62.message}.`, "Name a file in a folder you can write to (--out FILE).");
+      });
+    }
+    for (const line of plan.summary) log(line);
+    io.stdout(`${JSON.stringify(plan.matrix)}
+`);
+    return 0;
+  }
+  const result = await runShard({ ...sides, index: command.index, of: command.of, out: command.out, after: command.after, cache: command.cache });
+  log(
+    `shard ${command.index} of ${command.of} (${result.stage}): ${result.units.length} unit${result.units.length === 1 ? "" : "s"}${command.cache ? `, ${result.reused.length} from the cache` : ""}; wrote ${result.path}`
+  );
+  return 0;
 }
 
 // src/adapters/cli/main.ts
@@ -56789,19 +57649,21 @@ async function main(argv, io) {
   }
   try {
     if (command.name === "init") return await init(command, io);
+    if (command.name === "plan" || command.name === "shard") return await runShardCommand(command, io);
     const started = performance.now();
     const progress = command.quiet ? silentProgress : createProgress(io, started);
     let report;
     await planOutputs(command, io.cwd);
     try {
-      report = await runCheck({
+      const request = {
         cwd: io.cwd,
         policyPath: command.policy,
         baseRef: command.base,
         headRef: command.head,
         log: (line) => progress.line(cleanOutsideText(line)),
         onProgress: (event) => progress.event(event)
-      });
+      };
+      report = command.name === "merge" ? await runMerge({ ...request, dirs: command.dirs }) : await runCheck({ ...request, cache: command.cache });
     } catch (error62) {
       progress.done();
       const failed = errorReport({
@@ -56850,16 +57712,16 @@ async function writeOutputs(command, full, cwd) {
   const staged = [];
   try {
     for (const { flag, path } of await planOutputs(command, cwd)) {
-      const existing = await stat3(path).catch(() => null);
+      const existing = await stat4(path).catch(() => null);
       try {
         if (existing && !existing.isFile()) {
-          await writeFile2(path, texts[flag]);
+          await writeFile5(path, texts[flag]);
           continue;
         }
-        await mkdir2(dirname4(path), { recursive: true });
-        const temporary = join6(dirname4(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
+        await mkdir4(dirname4(path), { recursive: true });
+        const temporary = join8(dirname4(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
         staged.push({ temporary, path });
-        await writeFile2(temporary, texts[flag]);
+        await writeFile5(temporary, texts[flag]);
       } catch (error62) {
         throw new UserError(
           `Could not write ${flag} ${path}: ${error62.code ?? error62.message}. No report file was written.`,
@@ -56867,28 +57729,28 @@ async function writeOutputs(command, full, cwd) {
         );
       }
     }
-    for (const { temporary, path } of staged) await rename(temporary, path);
+    for (const { temporary, path } of staged) await rename3(temporary, path);
     staged.length = 0;
   } finally {
-    for (const { temporary } of staged) await rm4(temporary, { force: true });
+    for (const { temporary } of staged) await rm6(temporary, { force: true });
   }
 }
 var silentProgress = { line: () => void 0, event: () => void 0, done: () => void 0 };
 function createProgress(io, started) {
   let open3 = false;
   const elapsed = () => `${((performance.now() - started) / 1e3).toFixed(1)} s`;
-  const show2 = (text4) => {
+  const show2 = (text5) => {
     if (io.isTty) {
-      io.stderr(`\r\x1B[2K${text4}`);
+      io.stderr(`\r\x1B[2K${text5}`);
       open3 = true;
-    } else io.stderr(`${text4}
+    } else io.stderr(`${text5}
 `);
   };
   return {
-    line(text4) {
+    line(text5) {
       if (open3) io.stderr("\n");
       open3 = false;
-      io.stderr(`${text4}
+      io.stderr(`${text5}
 `);
     },
     event(event) {
@@ -56906,8 +57768,8 @@ function createProgress(io, started) {
 // src/adapters/cli/index.ts
 var code = await main(process.argv.slice(2), {
   cwd: process.cwd(),
-  stdout: (text4) => process.stdout.write(text4),
-  stderr: (text4) => process.stderr.write(text4),
+  stdout: (text5) => process.stdout.write(text5),
+  stderr: (text5) => process.stderr.write(text5),
   isTty: Boolean(process.stderr.isTTY)
 });
 process.exitCode = code;

@@ -39,10 +39,18 @@ export interface GateConfig {
   readonly model: ModelConfig
   readonly importance: ImportanceConfig
   readonly checks: ChecksConfig
+  /**
+   * The same checks section as the policy spells it (its own key names, defaults filled in), so the
+   * report's settings table names each key as plumbline.yml does without translating names back.
+   */
+  readonly checksAsWritten: ChecksAsWritten
   /** Named subsets of the holdout rows, each scored and measured on its own (policy `slices`). */
   readonly slices: readonly SliceConfig[]
   readonly report: ReportConfig
 }
+
+/** Each check's settings under its policy key, with the policy's key names. */
+export type ChecksAsWritten = Readonly<Record<string, Readonly<Record<string, number | string | readonly string[]>>>>
 
 /**
  * A row filter, as data (no formula language): one comparison of a column, or all / any of several
@@ -84,6 +92,10 @@ export interface DataConfig {
   readonly unlabeled?: string
   /** Declared roles by column name (null-prototype object, so any column name is a safe lookup). */
   readonly columns: Readonly<Record<string, DeclaredColumnRole>>
+  /** Above this many training rows (after a split), the built-in refits train on a seeded sample. */
+  readonly maxTrainRows: number
+  /** Above this many holdout rows, both sides are scored on the same seeded sample of them. */
+  readonly maxHoldoutRows: number
 }
 
 export type HoldoutConfig =

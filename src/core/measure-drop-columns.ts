@@ -16,6 +16,16 @@ export interface DropColumnScores {
 }
 
 /**
+ * The features a side refits without, in order: every one in `request.also` it has, then its top
+ * `request.top` of `ranked` (highest permutation importance first); none with fewer than 2 features.
+ */
+export function dropColumnNames(train: Pick<Dataset, 'features'>, request: DropColumnRequest, ranked: readonly string[]): string[] {
+  const present = new Set(train.features.map((f) => f.name))
+  if (present.size < 2) return []
+  return [...new Set([...request.also.filter((n) => present.has(n)), ...ranked.slice(0, request.top)])]
+}
+
+/**
  * Drop-column refits (LOCO) of one side: for each chosen feature and each refit seed, the side's own
  * Fit with `leaveOut: [feature]` and the same derived seed as the full refit, so that refit r with
  * and without the feature form a matched pair; scored with the policy metric on the whole holdout.
@@ -42,9 +52,8 @@ export async function measureDropColumns(
     readonly concurrentFits?: boolean
   },
 ): Promise<DropColumnScores[]> {
-  const present = new Set(inputs.train.features.map((f) => f.name))
-  if (present.size < 2) return []
-  const names = [...new Set([...options.request.also.filter((n) => present.has(n)), ...options.ranked.slice(0, options.request.top)])]
+  const names = dropColumnNames(inputs.train, options.request, options.ranked)
+  if (names.length === 0) return []
   const target = inputs.holdout.target
   if (!target) throw new RangeError('measureDropColumns needs a holdout with a target')
   if (inputs.scoreWithout) {

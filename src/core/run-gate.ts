@@ -3,38 +3,23 @@
  * Pure: the adapters read files, run git and training commands, and pass the results in. Each stage
  * is a function of its own module; this file only says in which order they run.
  */
-import { changedFeatures, diffFeatureSets } from './checks/feature-set.ts'
-import { alignHoldout } from './data/align-holdout.ts'
 import type { GateInputs } from './gate/gate-inputs.ts'
-import { gateSettings } from './gate/gate-settings.ts'
 import { measureBothSides } from './gate/measure-both-sides.ts'
+import { planMeasurement } from './gate/plan-measurement.ts'
 import { runChecks } from './gate/run-checks.ts'
 import { separateSingleFeatures } from './gate/separate-single-features.ts'
 import { sideResult } from './gate/side-results.ts'
 import { createStopwatch } from './gate/stopwatch.ts'
 import { judgeViews } from './gate/judge-views.ts'
-import { withCorrelatedGroups } from './gate/with-correlated-groups.ts'
-import { metricByName } from './metrics/metric-by-name.ts'
 import { assembleReport } from './report/assemble-report.ts'
 import type { GateReport } from './report/report.ts'
 
 export type { GateInputs, GateProgress, MeasureJob, MeasureSides, SideInputs, SideModel } from './gate/gate-inputs.ts'
 
 export async function runGate(inputs: GateInputs): Promise<GateReport> {
-  const settings = withCorrelatedGroups(gateSettings(inputs.config), inputs.head.train)
-  const metric = metricByName(settings.metric, settings.task)
+  const { settings, metric, sides, capped, featureSet, changed, jobs } = planMeasurement(inputs)
   const stopwatch = createStopwatch(inputs.now)
-  const sides = { base: inputs.base, head: { ...inputs.head, holdout: alignHoldout(inputs.base.holdout, inputs.head.holdout) } }
-
-  const featureSet = diffFeatureSets(sides.base.train, sides.head.train)
-  const changed = changedFeatures(sides.base, sides.head)
-  const measured = await stopwatch.time('measureSeconds', () =>
-    measureBothSides(sides.base, sides.head, settings, metric, {
-      measureSides: inputs.measureSides,
-      onProgress: inputs.onProgress,
-      touched: { added: featureSet.added, changed: [...changed] },
-    }),
-  )
+  const measured = await stopwatch.time('measureSeconds', () => measureBothSides(jobs, inputs.measureSides))
   const single = await separateSingleFeatures(sides, measured, [...featureSet.added, ...changed], settings, {
     stopwatch,
     onProgress: inputs.onProgress,
@@ -50,7 +35,8 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     viewFindings: views.findings,
     settings,
     metric,
-    holdouts: { base: sides.base.holdout, head: sides.head.holdout },
+    holdouts: capped.holdouts,
+    scoredTarget: sides.base.holdout.target!.values,
     measured,
     results,
     featureSet,
@@ -64,6 +50,7 @@ export async function runGate(inputs: GateInputs): Promise<GateReport> {
     settings,
     metric,
     sides,
+    rowSampling: capped.sampling,
     measured,
     results,
     featureSet,

@@ -19,7 +19,7 @@ describe('the named defaults', () => {
   it('are the values of the policy spec', () => {
     // Every literal below is the documented default in docs/policy.md of this repository.
     expect(defaultTopLevel).toEqual({ seed: 1 })
-    expect(defaultData).toEqual({ reference: { kind: 'train' }, split: { fraction: 0.2 } })
+    expect(defaultData).toEqual({ reference: { kind: 'train' }, split: { fraction: 0.2 }, maxTrainRows: 100_000, maxHoldoutRows: 50_000 })
     expect(defaultPrepare).toEqual({ timeoutSeconds: 600 })
     expect(defaultBoosting).toEqual({
       trees: 200,

@@ -7,6 +7,7 @@ import { UserError } from '../../core/errors.ts'
 import { readPolicyFile, checkPolicyAgainstColumns, type PolicyFile } from '../../core/policy/parse-policy.ts'
 import type { GateReport } from '../../core/report/report.ts'
 import { runGate, type GateProgress, type SideInputs } from '../../core/run-gate.ts'
+import { executeInProcess, measureSidesWith, type ExecuteUnits } from '../../core/gate/work-units.ts'
 import { readDataset } from '../files/read-dataset.ts'
 import { readConfinedFile, readLimits } from '../files/confined-file.ts'
 import { readTable } from '../files/read-table.ts'
@@ -15,6 +16,8 @@ import { runPrepare } from './run-prepare.ts'
 import { loadSideModel } from './load-side-model.ts'
 import { toolVersion } from '../version.ts'
 import { createPoolMeasure } from '../parallel/create-pool-measure.ts'
+import { sideDataDigest, type SideCacheIdentity } from './input-digest.ts'
+import { createUnitCache, type UnitCache } from './unit-cache.ts'
 
 export interface CheckRequest {
   /** Where the user ran plumbline; the repository is found from here. */
@@ -27,6 +30,23 @@ export interface CheckRequest {
   readonly headRef?: string
   readonly log?: (line: string) => void
   readonly onProgress?: (event: GateProgress) => void
+  /** A folder of measured work units (--cache): reused when their digest matches, written otherwise. */
+  readonly cache?: string
+}
+
+/** Both sides read and ready to measure, with what their digests need. */
+export interface OpenedCheck {
+  readonly root: string
+  readonly policy: PolicyFile
+  readonly policyPath: string
+  readonly policyText: string
+  readonly policyChanged: boolean
+  readonly base: SideInputs
+  readonly head: SideInputs
+  /** Per side: what its units' cache keys rest on. */
+  readonly identities: { readonly base: SideCacheIdentity | 'uncacheable'; readonly head: SideCacheIdentity | 'uncacheable' }
+  /** Registers a cleanup run when the check is done (worktrees, the pool). */
+  readonly onClose: (cleanup: () => Promise<void>) => void
 }
 
 /**
@@ -36,6 +56,43 @@ export interface CheckRequest {
  * path out, failures included.
  */
 export async function runCheck(request: CheckRequest): Promise<GateReport> {
+  return withOpenedCheck(request, async (opened) => {
+    const measure = await localExecutor(opened, request.cache)
+    const report = await gateOf(opened, request, measure.execute)
+    return measure.cache ? { ...report, cache: measure.cache.used } : report
+  })
+}
+
+/** runGate on the opened sides with every unit run by `execute`. */
+export function gateOf(opened: OpenedCheck, request: Pick<CheckRequest, 'onProgress'>, execute: ExecuteUnits): Promise<GateReport> {
+  return runGate({
+    config: opened.policy.config,
+    policySource: opened.policyPath,
+    policyChanged: opened.policyChanged,
+    base: opened.base,
+    head: opened.head,
+    toolVersion,
+    onProgress: request.onProgress,
+    measureSides: measureSidesWith(execute),
+    now: () => performance.now() / 1000,
+  })
+}
+
+/**
+ * Where this machine runs units: every built-in refit of both sides on a pool of worker threads
+ * sized to the cores (in this thread when there is one core), behind the unit cache with --cache.
+ */
+export async function localExecutor(opened: OpenedCheck, cache: string | undefined): Promise<{ execute: ExecuteUnits; cache?: UnitCache }> {
+  const pool = createPoolMeasure(process.env)
+  if (pool) opened.onClose(pool.close)
+  const execute = pool?.execute ?? executeInProcess
+  if (!cache) return { execute }
+  const unitCache = await createUnitCache({ directory: resolve(cache), toolVersion, identities: opened.identities, execute })
+  return { execute: unitCache.execute, cache: unitCache }
+}
+
+/** Opens both sides (worktrees, prepare, data, models), runs `body`, and cleans up on every path out. */
+export async function withOpenedCheck<T>(request: Omit<CheckRequest, 'onProgress'>, body: (opened: OpenedCheck) => Promise<T>): Promise<T> {
   const log = request.log ?? (() => undefined)
   const root = await repositoryRoot(request.cwd)
   const policyPath = request.policyPath ?? 'plumbline.yml'
@@ -60,7 +117,6 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
       )
     ).toString('utf8')
     const policy = readPolicyFile(policyText, { source: policyPath })
-    const { config } = policy
     const baseTarget = request.baseRef
       ? { ref: request.baseRef, commit: await resolveCommit(root, request.baseRef, '--base') }
       : await defaultBase(root)
@@ -73,20 +129,21 @@ export async function runCheck(request: CheckRequest): Promise<GateReport> {
     cleanups.push(baseTree.remove)
     const baseSide = await loadSide(policy, baseTree.path, 'base', baseTarget.ref, baseTarget.commit, policyPath, log)
     const headSide = await loadSide(policy, head.path, 'head', head.ref, head.commit, policyPath, log)
-    // Every built-in refit of both sides runs on a pool of worker threads sized to the cores.
-    const pool = createPoolMeasure(process.env)
-    if (pool) cleanups.push(pool.close)
     checkPolicyAgainstColumns(policy, columnsOf(headSide.train), { otherSide: columnsOf(baseSide.train) })
-    return await runGate({
-      config,
-      policySource: policyPath,
+    const identity = (side: SideInputs): SideCacheIdentity | 'uncacheable' => {
+      if (side.model.kind === 'builtin') return { data: sideDataDigest(side), code: null }
+      return side.commit ? { data: sideDataDigest(side), code: { commit: side.commit, model: policy.config.model } } : 'uncacheable'
+    }
+    return await body({
+      root,
+      policy,
+      policyPath,
+      policyText,
       policyChanged,
       base: baseSide,
       head: headSide,
-      toolVersion,
-      onProgress: request.onProgress,
-      measureSides: pool?.measureSides,
-      now: () => performance.now() / 1000,
+      identities: { base: identity(baseSide), head: identity(headSide) },
+      onClose: (cleanup) => void cleanups.push(cleanup),
     })
   } finally {
     for (const cleanup of cleanups.reverse()) await cleanup()
@@ -127,7 +184,11 @@ async function loadSide(
   }
   const { train, holdout, reference, unlabeled } = assembleSideData(config, tables)
   checkSizes(side, config, train, holdout, log)
-  log(`${side}: ${train.rows} training rows, ${holdout.rows} holdout rows, ${train.features.length} features`)
+  const capNote = (rows: number, max: number, key: string) => (rows > max ? ` (a sample of ${max} by ${key})` : '')
+  log(
+    `${side}: ${train.rows} training rows${capNote(train.rows, config.data.maxTrainRows, 'data.max_train_rows')}, ` +
+      `${holdout.rows} holdout rows${capNote(holdout.rows, config.data.maxHoldoutRows, 'data.max_holdout_rows')}, ${train.features.length} features`,
+  )
   const model = config.model.kind === 'builtin' ? { kind: 'builtin' as const } : await loadSideModel(config, { checkout, side, train, holdout, log })
   return { ref, commit, train, holdout, reference, ...(unlabeled ? { unlabeled } : {}), model }
 }

@@ -9,6 +9,7 @@ import { renderText } from '../../core/report/render-text.ts'
 import type { GateReport } from '../../core/report/report.ts'
 import type { GateProgress } from '../../core/run-gate.ts'
 import { runCheck } from '../check/run-check.ts'
+import { runMerge } from '../check/run-shards.ts'
 import { toolVersion } from '../version.ts'
 import { resolveConfinedOutput } from '../files/confined-file.ts'
 import { redactDeep, registerEnvironmentSecrets } from '../security/secrets.ts'
@@ -16,6 +17,7 @@ import { cleanOutsideText } from '../security/terminal-text.ts'
 import { parseCommand } from './args.ts'
 import type { CliIo } from './cli-io.ts'
 import { init } from './init.ts'
+import { runShardCommand } from './shard-commands.ts'
 
 export type { CliIo }
 
@@ -39,6 +41,7 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
   }
   try {
     if (command.name === 'init') return await init(command, io)
+    if (command.name === 'plan' || command.name === 'shard') return await runShardCommand(command, io)
     const started = performance.now()
     // --quiet: the verdict line and nothing else (errors still reach stderr).
     const progress = command.quiet ? silentProgress : createProgress(io, started)
@@ -46,14 +49,15 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
     // Checked before the run: a --json naming a directory fails in a second, not after the gate.
     await planOutputs(command, io.cwd)
     try {
-      report = await runCheck({
+      const request = {
         cwd: io.cwd,
         policyPath: command.policy,
         baseRef: command.base,
         headRef: command.head,
-        log: (line) => progress.line(cleanOutsideText(line)),
-        onProgress: (event) => progress.event(event),
-      })
+        log: (line: string) => progress.line(cleanOutsideText(line)),
+        onProgress: (event: GateProgress) => progress.event(event),
+      }
+      report = command.name === 'merge' ? await runMerge({ ...request, dirs: command.dirs }) : await runCheck({ ...request, cache: command.cache })
     } catch (error) {
       progress.done()
       const failed = errorReport({

@@ -10,6 +10,12 @@ export interface GainFeature {
   readonly splits: number
   /** Distinct non-missing values in the training rows. */
   readonly distinct: number
+  /**
+   * Whether the column looks like a row identifier or a record time (see `looksLikeIdentifier`):
+   * only then does the finding suggest one. A continuous measurement also has a distinct value in
+   * almost every row, so the count alone cannot tell the two apart.
+   */
+  readonly idLike: boolean
   /** Permutation importance on the holdout: its mean and whether its 95% interval lies above zero. */
   readonly importance: number
   readonly isAboveFloor: boolean
@@ -35,18 +41,47 @@ export function checkGainNoise(features: readonly GainFeature[], touched: Readon
   ranked.slice(0, options.topRanks).forEach((f, i) => {
     const share = Math.max(0, f.gain) / total
     if (share < options.minGainShare || f.distinct < options.minDistinct || f.isAboveFloor) return
+    const facts =
+      `${f.name} has ${f.distinct} distinct values in the training rows and takes ${pct(share)} of the ensemble's split gain ` +
+      `(${fmt(f.splits)} splits per model on average), yet replacing it on the holdout changes the score by ${fmt(f.importance)}, ` +
+      'within reseed noise of zero. Gain is measured on the training rows and favours features with many distinct values ' +
+      '(Strobl et al. 2007)'
     findings.push({
       kind: 'gain-noise',
       severity: touched.has(f.name) ? action : 'info',
       feature: f.name,
-      title: `${f.name} ranks ${i + 1} by the trees' gain (${pct(share)}) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).`,
-      message:
-        `${f.name} has ${f.distinct} distinct values in the training rows and takes ${pct(share)} of the ensemble's split gain ` +
-        `(${fmt(f.splits)} splits per model on average), yet replacing it on the holdout changes the score by ${fmt(f.importance)}, ` +
-        'within reseed noise of zero. Gain is measured on the training rows and favours features with many distinct values ' +
-        '(Strobl et al. 2007); if this column identifies rows or encodes when or where a row was recorded, drop it or give it the role id.',
-      evidence: { gainRank: i + 1, gainShare: share, splits: f.splits, distinct: f.distinct, importance: f.importance, touched: touched.has(f.name) },
+      title: f.idLike
+        ? `${f.name} ranks ${i + 1} by the trees' gain (${pct(share)}) but is indistinguishable from zero on the holdout: it fits noise in training (an identifier?).`
+        : `${f.name} ranks ${i + 1} by the trees' gain (${pct(share)}) but is indistinguishable from zero on the holdout: the trees fit training noise with it.`,
+      message: f.idLike
+        ? `${facts}; its values are nearly all different, as an identifier's or a record time's are: if this column identifies rows or ` +
+          'encodes when or where a row was recorded, drop it or give it the role id.'
+        : `${facts}; a measurement with many values offers many split points, so the trees can fit noise in it without it helping ` +
+          'on new rows. Stronger regularisation (fewer bins, larger leaves) or leaving it out would cost nothing on this holdout.',
+      evidence: { gainRank: i + 1, gainShare: share, splits: f.splits, distinct: f.distinct, idLike: f.idLike, importance: f.importance, touched: touched.has(f.name) },
     })
   })
   return findings
+}
+
+/**
+ * Whether a training column looks like a row identifier or a record time: a categorical column whose
+ * values are at least half distinct, or a whole-number column distinct in at least 90% of its
+ * non-missing rows (a counter, a code, an epoch time). Common practice for spotting identifiers, not
+ * a published rule; a float measurement with many values is not flagged.
+ */
+export function looksLikeIdentifier(kind: 'numeric' | 'categorical', values: ArrayLike<number>): boolean {
+  const seen = new Set<number>()
+  let present = 0
+  let wholeNumbers = true
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]
+    if (Number.isNaN(v)) continue
+    present++
+    seen.add(v)
+    if (wholeNumbers && !Number.isInteger(v)) wholeNumbers = false
+  }
+  if (present === 0) return false
+  const share = seen.size / present
+  return kind === 'categorical' ? share >= 0.5 : wholeNumbers && share >= 0.9
 }

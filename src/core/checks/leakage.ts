@@ -5,6 +5,7 @@ import { mean, positiveShare, rankFeatures, type SideResult } from './side-resul
 import type { CheckAction } from './check-action.ts'
 import { formatNumber, formatPercent as pct, formatRatio } from '../report/format-number.ts'
 import { liftEvidence, type LiftEvidence } from './lift-evidence.ts'
+import type { SliceSeparation } from '../importance/single-feature-separation.ts'
 
 export interface LeakageOptions {
   readonly action: CheckAction
@@ -108,6 +109,7 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
   const { base, head, added, changed } = context
   const trivial = options.task === 'regression' ? 0 : 0.5
   const metricName = options.task === 'binary' ? 'AUC' : options.task === 'multiclass' ? 'one-vs-rest AUC' : 'R²'
+  const sees = (name: string, slice: SliceSeparation) => (slice.besideColumn ? `${name} and ${slice.column} (so it can treat each ${slice.column} apart)` : name)
   const fullHead = mean(head.separation)
   const fullBase = mean(base.separation)
   const findings: Finding[] = []
@@ -185,8 +187,8 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
       feature: unit.name,
       title: `${cause(unit.name)}, alone separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}).`,
       message:
-        `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ` +
-        `${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). ` +
+        `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${sees(unit.name, slice)} reaches ` +
+        `${metricName} ${fmt(slice.separation)} (on the whole holdout ${metricName} ${fmt(overall)}; the policy line is ${options.singleFeaturePower}). ` +
         `A value that gives the outcome away in one part of the data is often written after the fact by one system or site. ` +
         (severity === 'warn' && !isNewOrChanged && !crossed
           ? `It was already this strong in a slice on the base side (${baseSlice!.column} = ${baseSlice!.value}, ${metricName} ${fmt(baseSlice!.separation)}).`
@@ -257,8 +259,8 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
         `${cause(unit.name)}, alone nearly separates the slice ${slice.column} = ${slice.value} (${metricName} ${fmt(slice.separation)}) ` +
         `and the model needs it (${pct(lift.liftShare)} of the loss the base model left).`,
       message:
-        `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${unit.name} reaches ` +
-        `${metricName} ${fmt(slice.separation)} (on the whole holdout ${fmt(lift.alone ?? undefined)}), and refitted without it the candidate's loss grows by ` +
+        `Within the ${slice.rows} holdout rows where ${slice.column} is '${slice.value}', a model that sees only ${sees(unit.name, slice)} reaches ` +
+        `${metricName} ${fmt(slice.separation)} (on the whole holdout ${metricName} ${fmt(lift.alone ?? undefined)}), and refitted without it the candidate's loss grows by ` +
         `${fmt(lift.dropLoss)} (${fmt(lift.dropInReseedSds)} reseed SDs). A value that gives the outcome away in one part of the data is often written after ` +
         `the fact by one system or site; check how ${unit.name} is recorded for ${slice.column} = ${slice.value}.`,
       evidence: {

@@ -1,3 +1,4 @@
+import { capTableRows } from './cap-table-rows.ts'
 import { selectRows, type Dataset } from './dataset.ts'
 
 /**
@@ -58,4 +59,18 @@ function orderByContent(base: Dataset, head: Dataset): number[] | null {
     order.push(next)
   }
   return order
+}
+
+/**
+ * Both sides' holdouts under a row cap (`data.max_holdout_rows`), the head's already in the base's
+ * order (alignHoldout). The sample is decided once, by row index, from the base's row count and the
+ * one seed, and the same indices are taken on both sides: after alignment row i of the head is row i
+ * of the base whenever the two hold the same rows, so the capped holdouts stay paired row by row (the
+ * paired score comparison and the paired bootstrap need that). Sampling each side on its own, or by a
+ * hash of the content, would break the pairing as soon as the head changed a column's values.
+ * Holdouts of different lengths cannot be paired; each is then sampled with the same seed, and the
+ * holdout-rows check, which judges the whole holdouts, reports the difference.
+ */
+export function capAlignedHoldouts(base: Dataset, alignedHead: Dataset, max: number, seed: number) {
+  return { base: capTableRows(base, max, seed), head: capTableRows(alignedHead, max, seed) }
 }

@@ -59,6 +59,7 @@ export type GateSettings = ReturnType<typeof gateSettings>
 export function gateSettings(config: GateConfig) {
   const groups: FeatureGroup[] = Object.entries(config.importance.groups).map(([name, members]) => ({ name, members }))
   const learner = builtinLearnerSettings(config)
+  const written = config.checksAsWritten
   const checks = {
     leakage: config.checks.leakage,
     rankShift: { ...config.checks.rankShift, minRelativeChange: fixedSettings.minRelativeChange },
@@ -85,6 +86,9 @@ export function gateSettings(config: GateConfig) {
     referenceRows: config.importance.referenceRows,
     dropColumnTop: config.importance.dropColumnTop,
     groups,
+    // Row caps (data.max_train_rows, data.max_holdout_rows), and which table the reference rows are,
+    // so that a reference that is the training rows or the holdout follows its table's sample.
+    rowCaps: { maxTrainRows: config.data.maxTrainRows, maxHoldoutRows: config.data.maxHoldoutRows, reference: config.data.reference.kind },
     groupThreshold: config.importance.groupThreshold,
     /** Filled by withCorrelatedGroups once the head's training data is known. */
     automaticGroups: [] as readonly CorrelatedGroup[],
@@ -111,22 +115,18 @@ export function gateSettings(config: GateConfig) {
     // As the policy spells them, so a reader can find each in plumbline.yml; the two settings the
     // policy does not expose are marked fixed.
     evidence: {
-      leakage: snakeKeys({ ...config.checks.leakage, reviewedColumns: config.checks.leakage.reviewedColumns.join(', ') || 'none' }),
+      leakage: { ...written.leakage, reviewed_columns: config.checks.leakage.reviewedColumns.join(', ') || 'none' },
       rank_shift: {
-        ...snakeKeys(config.checks.rankShift),
+        ...written.rank_shift,
         'min_relative_change (fixed)': fixedSettings.minRelativeChange,
         'rbo_persistence (fixed)': fixedSettings.persistence,
       },
-      score: { ...snakeKeys(config.checks.score), 'block_at_reseed_sds (fixed)': fixedSettings.scoreBlockAtSds },
-      holdout_rows: snakeKeys(config.checks.holdoutRows),
-      sensitivity: snakeKeys(config.checks.sensitivity),
-      gain: snakeKeys(config.checks.gain),
-      slices: snakeKeys(config.checks.slices),
-      correlated_groups: { ...snakeKeys(config.checks.correlatedGroups), group_threshold: config.importance.groupThreshold },
-    },
+      score: { ...written.score, 'block_at_reseed_sds (fixed)': fixedSettings.scoreBlockAtSds },
+      holdout_rows: written.holdout_rows,
+      sensitivity: written.sensitivity,
+      gain: written.gain,
+      slices: written.slices,
+      correlated_groups: { ...written.correlated_groups, group_threshold: config.importance.groupThreshold },
+    } as Record<string, Record<string, number | string>>,
   }
-}
-
-function snakeKeys(values: object): Record<string, number | string> {
-  return Object.fromEntries(Object.entries(values).map(([key, value]) => [key.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`), value]))
 }

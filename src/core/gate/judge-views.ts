@@ -3,7 +3,7 @@
  * unlabeled rows), the built-in trees' gain and the policy's slices (judge-slices.ts), each
  * summarized over refits for the report and judged by its check. Pure: reads the measured sides only.
  */
-import { checkGainNoise, type GainFeature } from '../checks/gain-noise.ts'
+import { checkGainNoise, looksLikeIdentifier, type GainFeature } from '../checks/gain-noise.ts'
 import { checkGroupCarried } from '../checks/group-carried.ts'
 import { checkSensitivity, type SensitivitySample, type SensitivitySideSamples } from '../checks/sensitivity-change.ts'
 import type { SideResult } from '../checks/side-result.ts'
@@ -56,6 +56,7 @@ export function judgeViews(inputs: {
       gain: g.gain,
       splits: g.splits,
       distinct: distinctValues(inputs.sides.head.train, name),
+      idLike: identifierLike(inputs.sides.head.train, name),
       importance: importance.get(name)?.mean ?? 0,
       isAboveFloor: importance.get(name)?.isAboveFloor ?? false,
     }))
@@ -172,6 +173,11 @@ function rankGain(gains: ReadonlyMap<string, { gain: number; splits: number }>):
 function gainRows(base: ReadonlyMap<string, GainValue>, head: ReadonlyMap<string, GainValue>): GainReport['features'] {
   const names = [...new Set([...head.keys(), ...base.keys()])]
   return names.map((name) => ({ name, ...(base.has(name) ? { base: base.get(name)! } : {}), ...(head.has(name) ? { head: head.get(name)! } : {}) }))
+}
+
+function identifierLike(data: FeatureMatrix, name: string): boolean {
+  const j = data.features.findIndex((f) => f.name === name)
+  return j >= 0 && looksLikeIdentifier(data.features[j].kind, data.columns[j])
 }
 
 function distinctValues(data: FeatureMatrix, name: string): number {

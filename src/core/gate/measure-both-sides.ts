@@ -1,14 +1,13 @@
-import { measureSide, type SideMeasurement } from '../measure-side.ts'
+import type { SideMeasurement } from '../measure-side.ts'
 import type { Metric } from '../metrics/metric.ts'
 import { createBuiltinFit } from '../models/builtin-fit.ts'
 import type { GateProgress, MeasureJob, MeasureSides, SideInputs } from './gate-inputs.ts'
 import type { GateSettings } from './gate-settings.ts'
 import { planSlices } from './plan-slices.ts'
+import { executeInProcess, measureSidesWith } from './work-units.ts'
 
-const measureInTurn: MeasureSides = async ([base, head]) => [
-  await measureSide(base.inputs, base.options),
-  await measureSide(head.inputs, head.options),
-]
+// In this thread, unit after unit (work-units.ts): the same plan and combination as every other executor.
+const measureInTurn: MeasureSides = measureSidesWith(executeInProcess)
 
 /**
  * The measurement request of one side: its refits (the built-in fit is built here, from the policy,
@@ -52,24 +51,26 @@ export function measureJob(
   }
 }
 
-/** Both sides' refits and importances, through the adapter's `measureSides` (default: in turn, here). */
-export function measureBothSides(
+/** Both sides' measurement requests: features the pull request adds or changes are refitted without on the head (changed ones on the base too). */
+export function measureJobs(
   base: SideInputs,
   head: SideInputs,
   settings: GateSettings,
   metric: Metric,
   options: {
-    readonly measureSides?: MeasureSides
     readonly onProgress?: (event: GateProgress) => void
-    /** Features the pull request adds or changes: refitted without on the head (changed ones on the base too). */
     readonly touched?: { readonly added: readonly string[]; readonly changed: readonly string[] }
   },
-): Promise<readonly [SideMeasurement, SideMeasurement]> {
+): readonly [MeasureJob, MeasureJob] {
   const added = options.touched?.added ?? []
   const changed = options.touched?.changed ?? []
-  const jobs = [
+  return [
     measureJob('base', base, settings, metric, options.onProgress, changed),
     measureJob('head', head, settings, metric, options.onProgress, [...added, ...changed]),
   ] as const
-  return (options.measureSides ?? measureInTurn)(jobs)
+}
+
+/** Both sides' refits and importances, through the adapter's `measureSides` (default: in turn, here). */
+export function measureBothSides(jobs: readonly [MeasureJob, MeasureJob], measureSides?: MeasureSides): Promise<readonly [SideMeasurement, SideMeasurement]> {
+  return (measureSides ?? measureInTurn)(jobs)
 }

@@ -19,7 +19,10 @@ import type { GateSettings } from './gate-settings.ts'
 export interface CheckInputs {
   readonly settings: GateSettings
   readonly metric: Metric
+  /** The whole holdouts, for the holdout-rows check (a changed row is seen even when a cap sampled it out). */
   readonly holdouts: { readonly base: Dataset; readonly head: Dataset }
+  /** The target of the holdout rows the models were scored on (the capped holdout), for the paired bootstrap. */
+  readonly scoredTarget: Float64Array
   readonly measured: readonly [SideMeasurement, SideMeasurement]
   readonly results: { readonly base: SideResult; readonly head: SideResult }
   readonly featureSet: FeatureSetChange
@@ -49,11 +52,11 @@ export function runChecks(inputs: CheckInputs): CheckOutcome {
   )
   const shift = checkRankShift(results.base, results.head, settings.checks.rankShift)
   const agreement = checkRankAgreement(results.base, results.head, settings.checks.rankAgreement)
-  // With one refit on a side (a loaded model) the score's noise comes from resampling holdout rows,
-  // which needs the same rows on both sides.
+  // Resampling holdout rows needs the same rows on both sides. With one refit on a side (a loaded
+  // model) it is the score's noise; with refits, a block must clear it beside the reseed noise.
   const bootstrap =
-    sameRows && (base.scores.length < 2 || head.scores.length < 2)
-      ? pairedBootstrap(holdouts.base.target!.values, base.firstPredictions, head.firstPredictions, {
+    sameRows
+      ? pairedBootstrap(inputs.scoredTarget, base.firstPredictions, head.firstPredictions, {
           metric,
           replicates: settings.pairedBootstrapReplicates,
           seed: settings.seed,

@@ -36,6 +36,7 @@ export async function separateSingleFeatures(
         seed: settings.seed,
         side,
         slices: settings.slices,
+        withSliceColumn: touched,
       })
     })
   const baseResult = await separate('base')

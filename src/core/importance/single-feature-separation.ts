@@ -16,6 +16,8 @@ export interface SliceSeparation {
   readonly separation: number
   /** Multiclass: the class whose one-vs-rest AUC this is. */
   readonly bestClass?: string
+  /** Set when the better model there saw the slicing column beside the feature (see withSliceColumn). */
+  readonly besideColumn?: boolean
 }
 
 export interface SeparationResult {
@@ -45,8 +47,15 @@ export interface SliceOptions {
  * The same predictions are also scored within slices: every value of every categorical feature with
  * at most `maxLevels` values, when the slice has at least `minRows` holdout rows (binary: of each
  * class). A leak confined to one slice (one depot's system writes the outcome into a field) is
- * diluted on the whole holdout but shows as near-perfect separation inside its slice.
- * Cost: one single-column fit per name (about 1/F of a full fit each), plus one AUC per slice.
+ * diluted on the whole holdout but shows as near-perfect separation inside its slice. A one-column
+ * model fitted on every slice mixes them, though: where a feature tells the outcome in one slice and
+ * nothing elsewhere, its predictions inside that slice are pulled toward the other slices' mean,
+ * which AUC forgives (it reads only the order) and R² does not. So each feature in
+ * `withSliceColumn` (what the pull request added or changed) is also fitted beside each slicing
+ * column alone, a two-column model that can split on the slice first, and scored inside that
+ * column's slices; the slice's value is the better of the two models there.
+ * Cost: one single-column fit per name (about 1/F of a full fit each), one two-column fit per
+ * added or changed name and slicing column, plus one score per slice.
  */
 export async function singleFeatureSeparation(
   train: Dataset,
@@ -58,6 +67,11 @@ export async function singleFeatureSeparation(
     readonly seed: number
     readonly side: 'base' | 'head'
     readonly slices?: SliceOptions
+    /**
+     * Features the pull request added or changed: each is also fitted beside each slicing column,
+     * so its power inside a slice is that of a model allowed to treat the slice apart.
+     */
+    readonly withSliceColumn?: readonly string[]
   },
 ): Promise<SeparationResult> {
   const all = train.features.map((f) => f.name)
@@ -86,19 +100,37 @@ export async function singleFeatureSeparation(
       leaveOut: all.filter((other) => other !== name),
     })
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames))
-    const width = predictionWidth(model)
     const whole = scoreOf(y, prediction)
     overall[name] = whole.value
     if (whole.bestClass !== undefined) bestClass[name] = whole.bestClass
-    for (const slice of slices) {
-      if (slice.column === name) continue
+    const keepBest = (slice: (typeof slices)[number], predicted: ArrayLike<number>, width: number, besideColumn: boolean) => {
       const { value: separation, bestClass: sliceClass } = scoreOf(
         Array.from(slice.rows, (i) => y[i]),
-        predictionRows(prediction, slice.rows, width),
+        predictionRows(predicted, slice.rows, width),
       )
       if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
-        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation, ...(sliceClass !== undefined ? { bestClass: sliceClass } : {}) }
+        bestSlice[name] = {
+          column: slice.column,
+          value: slice.value,
+          rows: slice.rows.length,
+          separation,
+          ...(sliceClass !== undefined ? { bestClass: sliceClass } : {}),
+          ...(besideColumn ? { besideColumn } : {}),
+        }
       }
+    }
+    for (const slice of slices) if (slice.column !== name) keepBest(slice, prediction, predictionWidth(model), false)
+    if (!options.withSliceColumn?.includes(name)) continue
+    for (const column of new Set(slices.map((slice) => slice.column))) {
+      if (column === name) continue
+      const paired = await options.fit({
+        side: options.side,
+        seed: deriveSeed(options.seed, 'single-feature', name, 'beside', column),
+        refit: 0,
+        leaveOut: all.filter((other) => other !== name && other !== column),
+      })
+      const pairedPrediction = await paired.predict(selectFeatures(holdout, paired.featureNames))
+      for (const slice of slices) if (slice.column === column) keepBest(slice, pairedPrediction, predictionWidth(paired), true)
     }
   }
   return multiclass ? { overall, bestClass, bestSlice } : { overall, bestSlice }

@@ -7,12 +7,12 @@
  * - regression: TreeEnsembleRegressor (n_targets 1, aggregate SUM or AVERAGE, post_transform NONE)
  *   reading the graph input, writing the graph output, through Identity or Cast-to-float nodes only;
  * - binary, our exporter's form: that regressor's score through Sigmoid, then Concat(1 − p, p);
- * - binary: TreeEnsembleClassifier with two classes, leaf weights for both class ids, and
- *   post_transform NONE (probability of class c = Σ weights of c + base value of c: forests), its
- *   probability output read directly. LOGISTIC and SOFTMAX are left to onnxruntime: for two
- *   classes onnxruntime 1.30 does not apply them per class as the operator's text reads (measured:
- *   with leaf weights (0.3, 0.5) LOGISTIC gives (0.4256, 0.5744), i.e. 1 − σ(0.3), σ(0.3)), and a
- *   reading that matched only our guess at its rule could not be checked beyond the cases tried.
+ * - binary: TreeEnsembleClassifier with two classes and post_transform NONE (forests: summed leaf
+ *   weights as probabilities) or LOGISTIC (boosted classifiers), with leaf weights for both class
+ *   ids or, for LOGISTIC, for class id 0 only; its probability output read directly, by the rule
+ *   onnxruntime 1.30 applies (see classifierTrees: it is not the operator's text, measured: with
+ *   leaf weights (0.3, 0.5) and two base values (0.1, 0.4) LOGISTIC gives σ(0.4 + 0.3) for class 1).
+ *   SOFTMAX and PROBIT are left to onnxruntime.
  * Node modes BRANCH_LEQ, BRANCH_LT, BRANCH_GTE and BRANCH_GT become "value <= t goes left" with the
  * children swapped where the test is "greater" and t moved to the next double below for the strict
  * forms (v < t is v <= nextDown(t) for every double v). A missing value (NaN) follows the true branch
@@ -20,8 +20,8 @@
  * A float32 input makes the evaluator round inputs, and thresholds, to float32, as onnxruntime
  * compares in the input's type; leaf sums are in double, where onnxruntime writes float32 (so
  * predictions agree to float32 rounding, and routing agrees exactly).
- * Edges: BRANCH_EQ / BRANCH_NEQ, several targets, the classifier's one-class "binary case" and any
- * other node between input and output return a reason instead of trees.
+ * Edges: BRANCH_EQ / BRANCH_NEQ, several targets, the classifier forms classifierTrees lists as
+ * unread, and any other node between input and output return a reason instead of trees.
  * Cost: O(nodes) after protobuf decoding.
  */
 import type { EvaluableEnsemble } from './gbt/replacement-predictor.ts'
@@ -152,17 +152,49 @@ function regressorTrees(attributes: Map<string, Attribute>, round: boolean): Tre
   return buildTrees(attributes, leaves.weights, base[0] ?? 0, stringOf(attributes, 'aggregate_function') ?? 'SUM', 'identity', round)
 }
 
+/**
+ * A two-class TreeEnsembleClassifier as one score per row and a link, by the rule onnxruntime 1.30
+ * applies (tree_ensemble_aggregator.h, FinalizeScores and write_scores), which this reader follows
+ * rather than the operator's text. With s_c the summed leaf weights of class id c and b the
+ * base_values, the probability of class 1 is
+ * - weights for both class ids, two base values: f(b_1 + s_0), class 1's own weights unused, and
+ *   class 0's column is f(−(b_1 + s_0));
+ * - weights for both class ids, at most one base value: f(s_1) (b_0 goes to class 0 only, whose
+ *   column is f(s_0 + b_0));
+ * - weights for class id 0 only (the converters' form of a boosted binary classifier), at most one
+ *   base value, LOGISTIC: σ(s_0 + b_0), class 0's column σ(−(s_0 + b_0));
+ * where f is the identity for NONE and σ for LOGISTIC. Measured on onnxruntime-node 1.30 with
+ * single trees and checked on random ensembles (test/adapters/onnx/onnx-tree-evaluator.test.ts).
+ * Anything else (weights for class id 1 only, or for class 0 only with two base values or NONE,
+ * whose columns onnxruntime fills with constants or by a rule that depends on the signs of all
+ * weights; PROBIT, which onnxruntime turns into a normal quantile rather than a probability; SOFTMAX)
+ * returns a reason and stays with onnxruntime.
+ */
 function classifierTrees(attributes: Map<string, Attribute>, positive: number, round: boolean): Trees {
   const labels = attributes.get('classlabels_strings')?.strings?.length ?? attributes.get('classlabels_int64s')?.ints?.length ?? 0
   if (labels !== 2) return { ok: false, reason: `TreeEnsembleClassifier with ${labels} classes` }
-  const ids = attributes.get('class_ids')?.ints ?? []
-  if (!(ids.includes(0) && ids.includes(1))) return { ok: false, reason: 'TreeEnsembleClassifier with weights for one class only' }
+  const ids = new Set(attributes.get('class_ids')?.ints ?? [])
   const post = stringOf(attributes, 'post_transform') ?? 'NONE'
-  if (post !== 'NONE') return { ok: false, reason: `TreeEnsembleClassifier post_transform ${post}` }
-  const base = numbersOf(attributes, 'base_values') ?? [0, 0]
-  const leaves = leafWeights(attributes, 'class', (id) => id === positive)
+  if (post !== 'NONE' && post !== 'LOGISTIC') return { ok: false, reason: `TreeEnsembleClassifier post_transform ${post}` }
+  const link = post === 'LOGISTIC' ? 'logistic' : 'identity'
+  const base = numbersOf(attributes, 'base_values') ?? []
+  if (base.length > 2) return { ok: false, reason: `TreeEnsembleClassifier with ${base.length} base values for two classes` }
+  const bothClasses = ids.size === 2 && ids.has(0) && ids.has(1)
+  const classZeroOnly = ids.size === 1 && ids.has(0) && post === 'LOGISTIC' && base.length < 2
+  if (!bothClasses && !classZeroOnly) {
+    return { ok: false, reason: `TreeEnsembleClassifier, post_transform ${post}, with weights for class ids ${[...ids].sort().join(', ') || 'none'} and ${base.length} base values` }
+  }
+  // The score of class 1 (its column is f(score)), then negated for class 0 where onnxruntime does so.
+  let scoreClass: number
+  let offset: number
+  let negateForClassZero: boolean
+  if (bothClasses && base.length === 2) [scoreClass, offset, negateForClassZero] = [0, base[1], true]
+  else if (bothClasses) [scoreClass, offset, negateForClassZero] = positive === 1 ? [1, 0, false] : [0, base[0] ?? 0, false]
+  else [scoreClass, offset, negateForClassZero] = [0, base[0] ?? 0, true]
+  const sign = positive === 0 && negateForClassZero ? -1 : 1
+  const leaves = leafWeights(attributes, 'class', (id) => id === scoreClass, () => sign)
   if (!leaves.ok) return leaves
-  return buildTrees(attributes, leaves.weights, base[positive] ?? 0, 'SUM', 'identity', round)
+  return buildTrees(attributes, leaves.weights, sign * offset, 'SUM', link, round)
 }
 
 /** Σ weights per (tree id, node id) for the targets kept, each times its sign. */

@@ -116,6 +116,8 @@ const dataSchema = mapping({
   split: splitSchema.optional(),
   reference: text('train, holdout or a file path').default(defaultData.reference.kind),
   unlabeled: text('a file path').optional(),
+  max_train_rows: wholeNumber(20).default(defaultData.maxTrainRows),
+  max_holdout_rows: wholeNumber(10).default(defaultData.maxHoldoutRows),
   columns: z.preprocess((raw) => (raw === null ? {} : raw), z.record(z.string(), oneOf(columnRoles), { error: 'a mapping of column names to roles' })).default({}),
 }, 'a mapping with train and one of holdout, split').superRefine((data, ctx) => {
   if (data.holdout !== undefined && data.split !== undefined) {
@@ -453,6 +455,8 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       reference,
       ...(data.unlabeled !== undefined ? { unlabeled: data.unlabeled } : {}),
       columns: nullPrototype(Object.entries(data.columns)),
+      maxTrainRows: data.max_train_rows,
+      maxHoldoutRows: data.max_holdout_rows,
     },
     ...(policy.prepare ? { prepare: { command: policy.prepare.command, timeoutSeconds: policy.prepare.timeout_seconds } } : {}),
     model: toModelConfig(policy.model),
@@ -466,6 +470,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       groups: nullPrototype(Object.entries(importance.groups)),
       groupThreshold: importance.group_threshold,
     },
+    checksAsWritten: checks,
     checks: {
       leakage: {
         action: checks.leakage.action,

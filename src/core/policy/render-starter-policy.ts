@@ -220,6 +220,8 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
       : optional(2, idColumn ? `by: ${scalar(idColumn.name)}` : 'by: <id column>', 'hash an id so both sides hold out the same rows'),
     optional(1, `reference: ${defaultData.reference.kind}`, 'train, holdout or a file: where permutation draws come from'),
     optional(1, `unlabeled: ${scalar(holdoutPathFor(trainPath).replace(/holdout/i, 'unlabeled'))}`, 'rows without the target'),
+    optional(1, `max_train_rows: ${defaultData.maxTrainRows}`, 'above it, refits train on a seeded sample of the rows'),
+    optional(1, `max_holdout_rows: ${defaultData.maxHoldoutRows}`, 'above it, both sides are scored on the same seeded sample'),
     features.length > 0 ? key(1, 'columns:', 'numeric, categorical, id or ignore; others are inferred') : key(1, 'columns: {}', 'numeric, categorical, id or ignore'),
     ...described.map((d) => (declared.includes(d) ? key : optional)(2, `${scalar(d.column.name)}: ${d.role}`, declared.includes(d) ? d.note : `inferred: ${d.note}`)),
   ])

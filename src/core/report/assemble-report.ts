@@ -9,14 +9,16 @@ import { mean, positiveShare, sideRanks, type SideResult } from '../checks/side-
 import { decideVerdict, writeHeadline } from '../checks/verdict.ts'
 import type { ViewsOutcome } from '../gate/judge-views.ts'
 import type { FeatureSetChange } from '../checks/feature-set.ts'
+import type { RowCapRecord } from '../data/cap-table-rows.ts'
 import type { Dataset } from '../data/dataset.ts'
+import type { SideRowSampling } from '../gate/cap-side-rows.ts'
 import type { SideInputs } from '../gate/gate-inputs.ts'
 import type { GateSettings } from '../gate/gate-settings.ts'
 import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
 import type { SideMeasurement } from '../measure-side.ts'
 import type { Metric } from '../metrics/metric.ts'
 import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
-import { reportCaution, type FeatureRow, type Finding, type GateReport, type SideImportance, type SideSummary } from './report.ts'
+import { reportCaution, type FeatureRow, type Finding, type GateReport, type RowSample, type SideImportance, type SideSummary } from './report.ts'
 
 export interface ReportParts {
   readonly toolVersion: string
@@ -24,6 +26,8 @@ export interface ReportParts {
   readonly settings: GateSettings
   readonly metric: Metric
   readonly sides: { readonly base: SideInputs; readonly head: SideInputs }
+  /** What the row caps sampled on each side (capSideRows); absent or empty: nothing. */
+  readonly rowSampling?: { readonly base: SideRowSampling; readonly head: SideRowSampling }
   readonly measured: readonly [SideMeasurement, SideMeasurement]
   readonly results: { readonly base: SideResult; readonly head: SideResult }
   readonly featureSet: FeatureSetChange
@@ -49,7 +53,7 @@ export function assembleReport(parts: ReportParts): GateReport {
     features: featureRows(parts.results.base, parts.results.head, parts.shifts, parts.sides.base.train, parts.sides.head.train),
     featureSet: parts.featureSet,
     agreement: parts.agreement,
-    sides: describeSides(parts.sides, base, head),
+    sides: describeSides(parts.sides, base, head, parts.rowSampling),
     settings: {
       task: settings.task,
       ...(settings.task === 'multiclass' ? { classes: parts.sides.head.train.target?.classes ?? [] } : {}),
@@ -138,8 +142,14 @@ export function describeSides(
   inputs: { readonly base: SideInputs; readonly head: SideInputs },
   base: SideMeasurement,
   head: SideMeasurement,
+  rowSampling?: { readonly base: SideRowSampling; readonly head: SideRowSampling },
 ): GateReport['sides'] {
   const describe = (side: 'base' | 'head', data: SideInputs, m: SideMeasurement): SideSummary => {
+    const sampled = rowSampling?.[side]
+    const sampling = {
+      ...(sampled?.train ? { train: samplingOf(sampled.train) } : {}),
+      ...(sampled?.holdout ? { holdout: samplingOf(sampled.holdout) } : {}),
+    }
     return {
       side,
       ref: data.ref,
@@ -155,11 +165,16 @@ export function describeSides(
       scoreSd: sampleStandardDeviation(m.scores),
       refitSeeds: m.refitSeeds,
       noiseCovers: m.noiseCovers,
+      ...(sampling.train || sampling.holdout ? { rowSampling: sampling } : {}),
     }
   }
   return { base: describe('base', inputs.base, base), head: describe('head', inputs.head, head) }
 }
 
+
+function samplingOf(record: RowCapRecord): RowSample {
+  return { rows: record.rows, kept: record.kept, seed: record.seed }
+}
 
 const engineNames = {
   'plumbline-trees': "plumbline's tree evaluator",

@@ -285,6 +285,7 @@ export function renderHtml(report: GateReport, options: HtmlOptions = {}): strin
     `<header><h1>plumbline report <span class="verdict v-${report.verdict}">${e(verdictWord.toUpperCase())}</span></h1>` +
     `<p><strong>${e(report.headline)}</strong></p>` +
     (tables.score ? `<p>${[tables.score.sentence, ...tables.score.evidenceLines].map(e).join('<br>')}</p>` : '') +
+    (tables.rowSampling.length > 0 ? `<p>${tables.rowSampling.map(e).join('<br>')}</p>` : '') +
     (report.sides ? `<p class="muted">base ${e(report.sides.base.ref)}${report.sides.base.commit ? ` (${e(report.sides.base.commit.slice(0, 12))})` : ''} · head ${e(report.sides.head.ref)}${report.sides.head.commit ? ` (${e(report.sides.head.commit.slice(0, 12))})` : ''} · plumbline ${e(report.tool.version)}</p>` : '') +
     '</header>'
   const findings = tables.findings.length === 0

@@ -219,6 +219,7 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
     renderDetails('Timings', [
       'Wall-clock seconds per stage; they vary from run to run and are not part of the result.',
       ...(tables.timings.rows.length > 0 ? [renderTable(limitRows(tables.timings, maxTableRows))] : []),
+      ...(tables.cacheNote ? [escapeMarkdownText(tables.cacheNote)] : []),
     ]),
   ]
   const score = tables.score
@@ -324,6 +325,7 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
       `### ${escapeMarkdownText(tables.heading)}`,
       escapeMarkdownText(report.headline),
       ...(score === null ? [] : [score]),
+      ...(tables.rowSampling.length === 0 ? [] : [tables.rowSampling.map(escapeMarkdownText).join('\n')]),
       findingsSection(layout.findings),
       ...(chartBlock === null ? [] : [chartBlock]),
       featureSetSection(layout.rows),

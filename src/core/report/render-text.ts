@@ -173,7 +173,7 @@ export function renderText(report: GateReport, options: TextOptions = {}): strin
     ]),
     section(
       'Timings (wall-clock seconds; they vary from run to run)',
-      tables.timings.rows.length > 0 ? longTable(tables.timings) : ['  None recorded.'],
+      [...(tables.timings.rows.length > 0 ? longTable(tables.timings) : ['  None recorded.']), ...(tables.cacheNote ? wrap(tables.cacheNote, width, '  ') : [])],
     ),
   ]
 
@@ -181,6 +181,7 @@ export function renderText(report: GateReport, options: TextOptions = {}): strin
     tables.heading,
     wrap(report.headline, width, '').join('\n'),
     ...(tables.score ? [[tables.score.sentence, ...tables.score.evidenceLines].flatMap((line) => wrap(line, width, '')).join('\n')] : []),
+    ...(tables.rowSampling.length > 0 ? [tables.rowSampling.flatMap((line) => wrap(line, width, '')).join('\n')] : []),
     findings,
     features,
     featureSet,

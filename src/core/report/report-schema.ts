@@ -128,6 +128,8 @@ const featureRowSchema = z.strictObject({
     .optional(),
 }).meta({ id: 'FeatureRow' })
 
+const rowSampleSchema = z.strictObject({ rows: count, kept: count, seed: uint32 }).meta({ id: 'RowSample' })
+
 const sideSummarySchema = z.strictObject({
   side: z.enum(['base', 'head']),
   ref: text,
@@ -143,6 +145,7 @@ const sideSummarySchema = z.strictObject({
   scoreSd: undefinedNumber,
   refitSeeds: list(uint32),
   noiseCovers: z.enum(['refits-and-draws', 'draws-only']),
+  rowSampling: z.strictObject({ train: rowSampleSchema.optional(), holdout: rowSampleSchema.optional() }).optional(),
 }).meta({ id: 'SideSummary' })
 
 const rankAgreementSchema = z.strictObject({
@@ -233,6 +236,7 @@ export const gateReportSchema = z
       checks: record(evidenceSchema),
     }),
     timings: record(z.number().min(0)),
+    cache: z.strictObject({ reused: list(text), measured: list(text), uncacheable: list(text) }).optional(),
     sensitivity: sensitivityReportSchema.optional(),
     gain: gainReportSchema.optional(),
     groups: list(z.strictObject({ name: text, members: list(text), automatic: z.boolean(), weakestLink: finite.nullable() })).optional(),

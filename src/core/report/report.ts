@@ -127,6 +127,19 @@ export interface SideSummary {
   readonly refitSeeds: readonly number[]
   /** 'refits-and-draws' when models were refitted; 'draws-only' for a loaded model. */
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
+  /**
+   * Present only when a row cap sampled this side's rows (`data.max_train_rows`,
+   * `data.max_holdout_rows`): each sampled table's rows as read, rows kept, and the seed of the
+   * sample. trainRows and holdoutRows above are then the kept rows.
+   */
+  readonly rowSampling?: { readonly train?: RowSample; readonly holdout?: RowSample }
+}
+
+/** A simple random sample without replacement of a table's rows, drawn with `seed`. */
+export interface RowSample {
+  readonly rows: number
+  readonly kept: number
+  readonly seed: number
 }
 
 export interface RankAgreement {
@@ -263,6 +276,13 @@ export interface GateReport {
   }
   /** Wall-clock seconds per stage, measured by the adapter; not part of the deterministic content. */
   readonly timings: Readonly<Record<string, number>>
+  /**
+   * Only with a unit cache (--cache): the work units read from it, those measured and written to it,
+   * and those that cannot be cached (a training command or model file in an uncommitted working
+   * tree). Like timings, not part of the deterministic content: a report from the cache equals one
+   * measured afresh apart from this field and timings.
+   */
+  readonly cache?: { readonly reused: readonly string[]; readonly measured: readonly string[]; readonly uncacheable: readonly string[] }
   /** Prediction sensitivity per feature; absent when checks.sensitivity is off. */
   readonly sensitivity?: SensitivityReport
   /** Built-in gradient boosting only. */

@@ -14,6 +14,7 @@ import type {
   RankAgreement,
   Severity,
   SideImportance,
+  RowSample,
   SideSummary,
 } from './report.ts'
 
@@ -61,11 +62,15 @@ export interface ReportTables {
   readonly score: ScoreSummary | null
   /** Base and head side by side: ref, commit, model, rows, score. Null when the run had no sides. */
   readonly sides: TextTable | null
+  /** One sentence per table a row cap sampled ("Training rows sampled ..."); empty when none was. */
+  readonly rowSampling: readonly string[]
   readonly scores: TextTable | null
   readonly seeds: TextTable | null
   readonly settings: TextTable
   readonly checks: TextTable
   readonly timings: TextTable
+  /** With a unit cache: which work units came from it (like timings, not part of the result). */
+  readonly cacheNote: string | null
 }
 
 /** Said wherever an 'error' report is shown, in both renderers. */
@@ -334,6 +339,26 @@ function tabulateSides(base: SideSummary, head: SideSummary, metric: string): Te
   }
 }
 
+const sampledRoles = [
+  ['train', 'Training rows sampled', 'data.max_train_rows'],
+  ['holdout', 'Holdout rows sampled', 'data.max_holdout_rows'],
+] as const
+
+/** "Training rows sampled (data.max_train_rows): 200,000 → 100,000 with seed 123, on both sides." */
+function describeRowSampling(base: SideSummary, head: SideSummary): string[] {
+  const describe = (sample: RowSample | undefined, rows: number) =>
+    sample ? `${formatCount(sample.rows)} → ${formatCount(sample.kept)} with seed ${sample.seed}` : `${formatCount(rows)} rows, not sampled`
+  return sampledRoles.flatMap(([role, label, key]) => {
+    const b = base.rowSampling?.[role]
+    const h = head.rowSampling?.[role]
+    if (!b && !h) return []
+    const rows = (side: SideSummary) => (role === 'train' ? side.trainRows : side.holdoutRows)
+    const same = b && h && b.rows === h.rows && b.kept === h.kept && b.seed === h.seed
+    const where = same ? `${describe(b, rows(base))}, on both sides` : `base ${describe(b, rows(base))}; head ${describe(h, rows(head))}`
+    return [`${label} (${key}): ${where}.`]
+  })
+}
+
 /** The description, led by the kind unless the description already names it. */
 function describeModel({ model }: SideSummary): string {
   return model.description.includes(model.kind) ? model.description : `${model.kind}: ${model.description}`
@@ -389,6 +414,7 @@ export function tabulateReport(report: GateReport): ReportTables {
     agreement: report.agreement ? tabulateAgreement(report.agreement) : null,
     score: sides ? summarizeScore(report) : null,
     sides: sides ? tabulateSides(sides.base, sides.head, settings.metric) : null,
+    rowSampling: sides ? describeRowSampling(sides.base, sides.head) : [],
     scores: sides
       ? tabulatePerRefit(['refit', `base ${settings.metric}`, `head ${settings.metric}`], sides.base.scores, sides.head.scores, formatNumber)
       : null,
@@ -409,7 +435,18 @@ export function tabulateReport(report: GateReport): ReportTables {
       align: ['left', 'right'],
       rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)]),
     },
+    cacheNote: report.cache ? cacheNote(report.cache) : null,
   }
+}
+
+/** "Work units from the cache: 6 of 16 (base/refit-1, ...); measured: 10." */
+function cacheNote(cache: NonNullable<GateReport['cache']>): string {
+  const total = cache.reused.length + cache.measured.length + cache.uncacheable.length
+  const shown = cache.reused.slice(0, 12).join(', ') + (cache.reused.length > 12 ? `, and ${cache.reused.length - 12} more` : '')
+  return (
+    `Work units from the cache: ${cache.reused.length} of ${total}${cache.reused.length > 0 ? ` (${shown})` : ''}; measured now: ${cache.measured.length + cache.uncacheable.length}` +
+    `${cache.uncacheable.length > 0 ? ` (${cache.uncacheable.length} cannot be cached: a training command or model file in an uncommitted working tree)` : ''}.`
+  )
 }
 
 /** mean ± t(0.975, n−1)·SD/√n over refits, or the single value with one refit. */

@@ -316,6 +316,9 @@ describe('plumbline --help', () => {
       [['--help'], usage.top],
       [['check', '--help'], usage.check],
       [['init', '-h'], usage.init],
+      [['plan', '--help'], usage.plan],
+      [['shard', '-h'], usage.shard],
+      [['merge', '--help'], usage.merge],
     ] as const) {
       expect(await run([...argv], '/')).toEqual({ code: 0, stdout: `${text}\n`, stderr: '' })
     }
@@ -323,11 +326,26 @@ describe('plumbline --help', () => {
     expect(usage.top.split('\n')[0]).toBe('plumbline: a pull-request gate for model features.')
   })
 
+  it('refuses a shard without its numbers, and a merge without folders, naming what is missing', async () => {
+    expect(await run(['shard', '--of', '3', '--index', '4', '--out', 'x'], '/')).toEqual({
+      code: 2,
+      stdout: '',
+      stderr: "--index must be a whole number from 1 to 3, got '4'.\nRun 'plumbline shard --help' for the options.\n",
+    })
+    expect(await run(['plan'], '/')).toEqual({ code: 2, stdout: '', stderr: "plumbline plan needs --shards N.\nRun 'plumbline plan --help' for the options.\n" })
+    expect(await run(['merge', '--quiet'], '/')).toEqual({
+      code: 2,
+      stdout: '',
+      stderr: 'plumbline merge needs the folders plumbline shard wrote, got none.\nRun plumbline merge DIR... with every shard’s --out folder (both stages).\n',
+    })
+    expect((await run(['merge', '--cache', 'c', 'dir'], '/')).stderr).toBe("plumbline merge: unknown option '--cache'. Did you mean '--base'?\nRun 'plumbline merge --help' for the options.\n")
+  })
+
   it('refuses an unknown command with exit 2, in these words', async () => {
     expect(await run(['chekc'], '/')).toEqual({
       code: 2,
       stdout: '',
-      stderr: "Unknown command 'chekc'.\nRun 'plumbline --help' for the commands (check, init).\n",
+      stderr: "Unknown command 'chekc'.\nRun 'plumbline --help' for the commands (check, plan, shard, merge, init).\n",
     })
   })
 })

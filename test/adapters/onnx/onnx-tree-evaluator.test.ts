@@ -1,12 +1,14 @@
 import { readFileSync } from 'node:fs'
 import ort from 'onnxruntime-node'
 import { describe, expect, it } from 'vitest'
-import type { FeatureInfo, FeatureMatrix } from '../../../src/core/data/dataset.ts'
+import { selectRows, type Dataset, type FeatureInfo, type FeatureMatrix } from '../../../src/core/data/dataset.ts'
 import { loadOnnxModel } from '../../../src/adapters/onnx/load-onnx-model.ts'
 import { exportOnnx } from '../../../src/core/models/export-onnx.ts'
 import { binFeatures } from '../../../src/core/models/gbt/bin-features.ts'
 import { fitBoosted } from '../../../src/core/models/gbt/fit-boosted.ts'
 import { encodeOnnxModel, FEATURES_METADATA_KEY, OnnxAttributeType, OnnxDataType, type OnnxAttribute } from '../../../src/core/models/onnx-proto.ts'
+import { parsePolicy } from '../../../src/core/policy/parse-policy.ts'
+import { runGate, type SideInputs } from '../../../src/core/run-gate.ts'
 import { createRandom, type Random } from '../../../src/core/statistics/random.ts'
 
 // The reference outside the project: onnxruntime 1.30 (onnxruntime-node) running the same bytes.
@@ -147,8 +149,8 @@ describe('loadOnnxModel on tree ensembles: plumbline evaluates them, as onnxrunt
       })
     }
     for (const post of ['NONE', 'LOGISTIC', 'SOFTMAX']) {
-      // LOGISTIC and SOFTMAX over two classes stay with onnxruntime (see parseOnnxTreeEnsemble).
-      it(`TreeEnsembleClassifier, two classes, post_transform ${post}, ${input} input${post === 'NONE' ? '' : ': left to onnxruntime'}`, async () => {
+      // SOFTMAX over two classes stays with onnxruntime (see parseOnnxTreeEnsemble).
+      it(`TreeEnsembleClassifier, two classes, post_transform ${post}, ${input} input${post === 'SOFTMAX' ? ': left to onnxruntime' : ''}`, async () => {
         const random = createRandom(elemType * 100 + post.length)
         const count = 20
         // NONE sums the weights as probabilities, so they stay in [0, 1 / count] there.
@@ -158,7 +160,7 @@ describe('loadOnnxModel on tree ensembles: plumbline evaluates them, as onnxrunt
           elemType,
           [{ name: 'label', elemType: OnnxDataType.INT64, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', 2] }],
         )
-        await expectAgreement(bytes, 'binary', 'probabilities', input, thresholds, 8, post === 'NONE' ? 'plumbline-trees' : 'onnxruntime')
+        await expectAgreement(bytes, 'binary', 'probabilities', input, thresholds, 8, post === 'SOFTMAX' ? 'onnxruntime' : 'plumbline-trees')
       })
     }
   }
@@ -189,5 +191,101 @@ describe('loadOnnxModel on tree ensembles: plumbline evaluates them, as onnxrunt
     await model.predict({ rows: 1, features: columns, columns: [Float64Array.of(12), Float64Array.of(2), Float64Array.of(3), Float64Array.of(1)] })
     expect(model.engine).toBe('onnxruntime')
     expect(model.createReplacementPredictor?.({ rows: 0, features: columns, columns: columns.map(() => new Float64Array(0)) })).toBeUndefined()
+  })
+})
+
+describe('loadOnnxModel on two-class TreeEnsembleClassifiers with LOGISTIC (and NONE): the rule onnxruntime 1.30 applies', () => {
+  // Every form a converter writes for a binary classifier: leaf weights for class id 0 only (boosted
+  // classifiers) or for both ids (forests), no, one or two base values, either positive column,
+  // mixed-sign or all-positive weights, float and double inputs; NaN in a tenth of the cells, a
+  // third of the rows on thresholds. plumbline's evaluator must give onnxruntime's probability for
+  // the positive column, or leave the model to onnxruntime where it does not read the form.
+  const cases = [
+    { post: 'LOGISTIC', classes: 1, base: [] as number[], ours: true },
+    { post: 'LOGISTIC', classes: 1, base: [0.35], ours: true },
+    { post: 'LOGISTIC', classes: 1, base: [0.35, -0.2], ours: false }, // onnxruntime writes 0.5 for class 1
+    { post: 'LOGISTIC', classes: 2, base: [], ours: true },
+    { post: 'LOGISTIC', classes: 2, base: [0.35], ours: true },
+    { post: 'LOGISTIC', classes: 2, base: [0.35, -0.2], ours: true },
+    { post: 'NONE', classes: 2, base: [0.1], ours: true }, // b_0 goes to class 0 only
+    { post: 'NONE', classes: 1, base: [], ours: false }, // onnxruntime's columns then depend on the weights' signs
+    { post: 'PROBIT', classes: 1, base: [], ours: false }, // a normal quantile, not a probability
+  ]
+  for (const [input, elemType] of [['float32', OnnxDataType.FLOAT], ['float64', OnnxDataType.DOUBLE]] as const) {
+    for (const { post, classes, base, ours } of cases) {
+      for (const positive of [0, 1]) {
+        for (const signs of ['mixed', 'positive'] as const) {
+          // NONE sums weights as probabilities: negative weights would make them leave [0, 1].
+          if (post === 'NONE' && signs === 'mixed') continue
+          const name = `${post}, weights for class ${classes === 1 ? 'id 0' : 'ids 0 and 1'}, ${base.length} base values, positive column ${positive}, ${signs} weights, ${input}`
+          it(`${name}: ${ours ? 'plumbline' : 'onnxruntime'} evaluates it`, async () => {
+            const random = createRandom(elemType * 1000 + classes * 100 + base.length * 10 + positive * 2 + (signs === 'mixed' ? 1 : 0) + post.length * 7)
+            const scale = post === 'NONE' ? 1 / 30 : 0.4
+            const weight = signs === 'mixed' ? () => scale * random.normal() : () => scale * random.next()
+            const { attributes, thresholds } = randomTrees(random, 30, classes, weight)
+            const bytes = treeModel(
+              { opType: 'TreeEnsembleClassifier', output: ['label', 'probabilities'], attribute: [...attributes('class'), ints('classlabels_int64s', [0, 1]), text('post_transform', post), ...(base.length > 0 ? [floats('base_values', base)] : [])] },
+              elemType,
+              [{ name: 'label', elemType: OnnxDataType.INT64, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', 2] }],
+            )
+            const model = await loadOnnxModel(bytes, { source: 'trees.onnx', task: 'binary', features, featureOrder: features.map((f) => f.name), positiveClass: positive })
+            const x = rows(createRandom(positive + 40), 3000, thresholds)
+            if (!ours) {
+              // Not read at all: onnxruntime from the start, and no fast path.
+              expect(model.engine).toBe('onnxruntime')
+              expect(model.createReplacementPredictor?.(x)).toBeUndefined()
+              return
+            }
+            const values = await model.predict(x)
+            // Still ours after the first prediction's check against onnxruntime.
+            expect(model.engine).toBe('plumbline-trees')
+            expect(model.createReplacementPredictor?.(x)).toBeDefined()
+            const reference = await onnxruntimePredict(bytes, 'probabilities', x, input, positive)
+            let missing = 0
+            for (let i = 0; i < x.rows; i++) {
+              expect(Math.abs(values[i] - reference[i])).toBeLessThanOrEqual(1e-6)
+              for (let j = 0; j < F; j++) if (Number.isNaN(x.columns[j][i])) missing++
+            }
+            expect(missing).toBeGreaterThan(0.05 * x.rows * F)
+          })
+        }
+      }
+    }
+  }
+})
+
+describe('the report names the engine that evaluated a loaded ONNX classifier', () => {
+  it('plumbline-trees for a LOGISTIC TreeEnsembleClassifier, onnxruntime for a form it does not read, side by side', async () => {
+    const random = createRandom(77)
+    const { attributes, thresholds } = randomTrees(random, 30, 1, () => 0.5 * random.normal())
+    const classifier = (post: string, classes: OnnxAttribute[]) =>
+      treeModel(
+        { opType: 'TreeEnsembleClassifier', output: ['label', 'probabilities'], attribute: [...classes, ints('classlabels_int64s', [0, 1]), text('post_transform', post), floats('base_values', [0.1])] },
+        OnnxDataType.DOUBLE,
+        [{ name: 'label', elemType: OnnxDataType.INT64, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', 2] }],
+      )
+    const logistic = classifier('LOGISTIC', attributes('class'))
+    // Weights for class id 0 only under NONE: a form plumbline leaves to onnxruntime (classifierTrees).
+    const unread = classifier('NONE', randomTrees(createRandom(79), 30, 1, () => random.next() / 40).attributes('class'))
+    const x = rows(createRandom(78), 1600, thresholds)
+    const p = await onnxruntimePredict(logistic, 'probabilities', x, 'float64', 1)
+    const late = Float64Array.from(p, (pi) => (random.next() < pi ? 1 : 0))
+    const table = (from: number, to: number, source: string): Dataset => {
+      const part = selectRows({ ...x, source, missing: features.map(() => 0), target: { name: 'late', values: late } } as Dataset, Array.from({ length: to - from }, (_, i) => from + i))
+      return { ...part, missing: part.columns.map((c) => c.filter((v) => Number.isNaN(v)).length) }
+    }
+    const train = table(0, 1000, 'train.csv')
+    const holdout = table(1000, 1600, 'holdout.csv')
+    const config = parsePolicy(
+      'version: 1\ntask: binary\ntarget: late\nseed: 5\ndata:\n  train: train.csv\n  holdout: holdout.csv\nmodel:\n  onnx:\n    path: model.onnx\nimportance:\n  draws: 2\n',
+      { source: 'plumbline.yml' },
+    )
+    const load = (bytes: Uint8Array) => loadOnnxModel(bytes, { source: 'model.onnx', task: 'binary', features, featureOrder: features.map((f) => f.name) })
+    const side = async (ref: string, bytes: Uint8Array): Promise<SideInputs> => ({ ref, commit: null, train, holdout, reference: train, model: { kind: 'loaded', model: await load(bytes) } })
+    const report = await runGate({ config, policySource: 'plumbline.yml', policyChanged: false, base: await side('main', logistic), head: await side('pr', unread), toolVersion: 'test' })
+    expect(report.sides!.base.model).toMatchObject({ engine: 'plumbline-trees' })
+    expect(report.sides!.base.model.description).toContain("evaluated by plumbline's tree evaluator")
+    expect(report.sides!.head.model).toMatchObject({ engine: 'onnxruntime' })
+    expect(report.sides!.head.model.description).toContain('evaluated by onnxruntime')
   })
 })

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import { checkGainNoise, type GainFeature } from '../../../src/core/checks/gain-noise.ts'
+import { checkGainNoise, looksLikeIdentifier, type GainFeature } from '../../../src/core/checks/gain-noise.ts'
 import { defaultChecks } from '../../../src/core/policy/policy-defaults.ts'
 
-const feature = (name: string, gain: number, distinct: number, isAboveFloor: boolean): GainFeature => ({ name, gain, splits: 10, distinct, importance: isAboveFloor ? 0.05 : 0.0001, isAboveFloor })
+const feature = (name: string, gain: number, distinct: number, isAboveFloor: boolean, idLike = true): GainFeature => ({ name, gain, splits: 10, distinct, idLike, importance: isAboveFloor ? 0.05 : 0.0001, isAboveFloor })
 
 describe('checkGainNoise (Strobl, Boulesteix, Zeileis & Hothorn 2007: gain favours many distinct values)', () => {
   const features = [
@@ -30,5 +30,28 @@ describe('checkGainNoise (Strobl, Boulesteix, Zeileis & Hothorn 2007: gain favou
     expect(checkGainNoise(features, new Set(['parcel_code']), { ...defaultChecks.gain, minGainShare: 0.6 })).toEqual([])
     const later = [feature('a', 50, 10, true), feature('b', 40, 10, true), feature('c', 30, 10, true), feature('noise', 29, 500, false)]
     expect(checkGainNoise(later, new Set(['noise']), defaultChecks.gain)).toEqual([])
+  })
+
+  it('speaks of an identifier only when the column looks like one; a continuous measurement is told of fitted noise', () => {
+    const measured = [feature('distance_km', 50, 4000, false, false), feature('depot', 30, 5, true)]
+    const [finding] = checkGainNoise(measured, new Set(), defaultChecks.gain)
+    expect(finding.title).toBe("distance_km ranks 1 by the trees' gain (62.5%) but is indistinguishable from zero on the holdout: the trees fit training noise with it.")
+    expect(finding.title).not.toContain('identifier')
+    expect(finding.message).not.toContain('role id')
+    expect(finding.evidence).toMatchObject({ idLike: false })
+  })
+})
+
+describe('looksLikeIdentifier (common practice, not a published rule)', () => {
+  const range = (n: number, f: (i: number) => number) => Float64Array.from({ length: n }, (_, i) => f(i))
+  it('flags whole-number columns distinct in at least 90% of present rows, and categorical ones at least half distinct', () => {
+    expect(looksLikeIdentifier('numeric', range(100, (i) => 1000 + i))).toBe(true) // a row counter
+    expect(looksLikeIdentifier('numeric', range(100, (i) => (i < 90 ? i : 0)))).toBe(true) // 91 distinct of 100
+    expect(looksLikeIdentifier('numeric', range(100, (i) => (i < 88 ? i : 0)))).toBe(false) // 89 distinct of 100
+    expect(looksLikeIdentifier('numeric', range(100, (i) => i + 0.5))).toBe(false) // a measurement
+    expect(looksLikeIdentifier('numeric', range(100, (i) => (i % 10 === 0 ? NaN : i)))).toBe(true) // missing values are not counted
+    expect(looksLikeIdentifier('categorical', range(100, (i) => i % 50))).toBe(true) // 50 of 100
+    expect(looksLikeIdentifier('categorical', range(100, (i) => i % 49))).toBe(false)
+    expect(looksLikeIdentifier('numeric', range(3, () => NaN))).toBe(false)
   })
 })

@@ -47,7 +47,11 @@ function columnFailure(text: string, columns: readonly string[]): { message: str
 describe('parsePolicy(text, {source})', () => {
   it('resolves the minimal policy of the spec to the documented defaults', () => {
     // test/core/config.test.ts pins each named default to the documented default in docs/policy.md.
-    expect(parsePolicy(minimal, { source })).toEqual({
+    const { checksAsWritten, ...resolved } = parsePolicy(minimal, { source })
+    // The report's settings table reads the checks under the policy's own key names, defaults filled in.
+    expect(checksAsWritten.rank_shift).toEqual({ action: 'warn', false_discovery_rate: 0.05, min_positions: 2, agreement_percentile: 5 })
+    expect(checksAsWritten.score).toEqual({ action: 'block', tolerance: 0, alpha: 0.05 })
+    expect(resolved).toEqual({
       version: 1,
       task: 'binary',
       target: 'late',
@@ -57,6 +61,8 @@ describe('parsePolicy(text, {source})', () => {
         holdout: { kind: 'file', path: 'data/holdout.csv' },
         reference: { kind: 'train' },
         columns: { parcel_id: 'id' },
+        maxTrainRows: 100_000,
+        maxHoldoutRows: 50_000,
       },
       model: { kind: 'builtin', learner: 'gradient-boosting', ...defaultBoosting },
       importance: { metric: 'log-loss', ...defaultImportance, groups: {} },
@@ -107,6 +113,8 @@ data:
   holdout: data/holdout.csv
   reference: holdout
   unlabeled: data/unlabeled.csv
+  max_train_rows: 20
+  max_holdout_rows: 10
   columns:
     parcel_id: id
     depot: categorical
@@ -212,7 +220,8 @@ model:
 `
 
     it('accepts every key of the policy with a valid value', () => {
-      const full = parsePolicy(fullWithHoldoutAndBuiltin, { source })
+      const { checksAsWritten, ...full } = parsePolicy(fullWithHoldoutAndBuiltin, { source })
+      expect(Object.keys(checksAsWritten).sort()).toEqual(['correlated_groups', 'gain', 'holdout_rows', 'leakage', 'rank_shift', 'score', 'sensitivity', 'slices'])
       expect(full).toEqual({
         version: 1,
         task: 'binary',
@@ -224,6 +233,8 @@ model:
           reference: { kind: 'holdout' },
           unlabeled: 'data/unlabeled.csv',
           columns: { parcel_id: 'id', depot: 'categorical', distance_km: 'numeric', stop_count: 'numeric', driver_note: 'ignore' },
+          maxTrainRows: 20,
+          maxHoldoutRows: 10,
         },
         prepare: { command: 'python scripts/features.py', timeoutSeconds: 86400 },
         model: {
@@ -311,6 +322,17 @@ checks:
         message: "plumbline.yml:14:13: checks.leakage.action must be one of block, warn, off; got 'blok'.",
         fix: 'Set checks.leakage.action to one of block, warn, off, or delete the line to use the default (block).',
       })
+    })
+
+    it('a row cap below the gate\'s minimum, naming the key', () => {
+      const capped = minimal.replace('  holdout: data/holdout.csv\n', '  holdout: data/holdout.csv\n  max_train_rows: 5\n  max_holdout_rows: 2.5\n')
+      expect(failure(capped)).toEqual({
+        message: "plumbline.yml:8:19: data.max_train_rows must be a whole number of at least 20; got '5'.",
+        fix: 'Set data.max_train_rows to a whole number of at least 20, or delete the line to use the default (100000).',
+      })
+      expect(failure(capped.replace('max_train_rows: 5', 'max_train_rows: 100')).message).toBe(
+        "plumbline.yml:9:21: data.max_holdout_rows must be a whole number of at least 10; got '2.5'.",
+      )
     })
 
     it('slice filters that are not one column comparison, or all_of / any_of, naming the slice and key', () => {
