@@ -24,6 +24,13 @@
  *   labels, otherwise a column index 0 or 1); without `positiveClass`, the column whose declared label
  *   is 1 (or "1"), else column 1. A caller that knows the data's positive class should pass it.
  *   Probabilities outside [0, 1] are refused at predict time; NaN passes through.
+ * - multiclass: a float tensor [N, K] of class probabilities (K = the data's classes, `classes`): the
+ *   output named `probabilities`, else the only float output declared [N, K], else the only float
+ *   output. Column k of the Model's [N, K] predictions is data class k: found by label among the
+ *   labels the model declares (compared as text, so integer labels 0, 1, 2 match the classes '0',
+ *   '1', '2'), or, for a model without labels, the model's column k (the classes in their sorted
+ *   order, see Target.classes). Every value must be a probability and every row sum to 1 (within
+ *   1e-4): raw scores are refused.
  * - Sequence-of-map outputs (ZipMap) are refused with a message on exporting plain tensors.
  *
  * predict runs the session over chunks of `batchRows` rows (default 65536), so the input and output
@@ -33,6 +40,8 @@
  * own tree evaluator instead, which also gives permutation importance its fast path; the Model's
  * `engine` says which ran ('plumbline-trees' or 'onnxruntime'). The first predict call compares the
  * two on up to 2048 rows and keeps onnxruntime for good if they differ by more than 1e-5 relative.
+ * A multiclass TreeEnsembleClassifier (post_transform NONE or SOFTMAX) is read by
+ * parseOnnxClassEnsembles into one ensemble per class, under the same check.
  */
 import ort from 'onnxruntime-node'
 import type { FeatureInfo, FeatureMatrix, Task } from '../../core/data/dataset.ts'
@@ -41,6 +50,8 @@ import type { Model, ModelEngine } from '../../core/models/model.ts'
 import { FEATURES_METADATA_KEY } from '../../core/models/onnx-proto.ts'
 import { parseOnnxTreeEnsemble } from '../../core/models/parse-onnx-tree-ensemble.ts'
 import { createTreeReplacementPredictor, type EvaluableEnsemble } from '../../core/models/gbt/replacement-predictor.ts'
+import { createClassEnsemblesPredictor, type ClassEnsembles } from '../../core/models/gbt/class-ensembles-predictor.ts'
+import { parseOnnxClassEnsembles } from '../../core/models/parse-onnx-class-ensembles.ts'
 import { selectRows } from '../../core/data/dataset.ts'
 import { readOnnxSummary, type OnnxSummary } from './read-onnx-summary.ts'
 
@@ -56,6 +67,8 @@ export interface OnnxModelOptions {
   readonly features: readonly FeatureInfo[]
   /** Column order of a single [N, F] input (the policy's `model.onnx.features`); unused when the model takes one input per column. */
   readonly featureOrder?: readonly string[]
+  /** Multiclass: the data's class labels in order (Target.classes); the Model's column k is classes[k]. */
+  readonly classes?: readonly string[]
   /** The positive class: a declared label, or a probability column index (see the module comment). */
   readonly positiveClass?: string | number
   /** Rows per session run; default DEFAULT_BATCH_ROWS. */
@@ -79,6 +92,9 @@ interface OutputPlan {
   readonly name: string
   /** Binary: the probability column of the positive class. */
   readonly positive?: number
+  /** Multiclass: values per row (K), and the model's column of data class k at k. */
+  readonly width?: number
+  readonly columns?: readonly number[]
   copy(value: ort.OnnxValue, start: number, end: number, out: Float64Array): void
 }
 
@@ -109,21 +125,28 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
   const inputs = planInputs(session.inputMetadata, options, summary)
   const output = options.task === 'regression'
     ? planRegressionOutput(session.outputMetadata, options.source)
-    : planProbabilityOutput(session.outputMetadata, options, summary)
+    : options.task === 'multiclass'
+      ? planClassOutput(session.outputMetadata, options, summary)
+      : planProbabilityOutput(session.outputMetadata, options, summary)
+  const width = output.width ?? 1
   const { source } = options
   const featureNames = inputs.featureNames
   // A tree ensemble plumbline can read is evaluated by its own tree evaluator (exact routing, double
   // sums) and gets the permutation fast path; the first predict call checks it against onnxruntime
   // on up to CHECK_ROWS rows and falls back to onnxruntime for good on any disagreement.
   const parsed = inputs.isMatrix && options.evaluator !== 'onnxruntime' ? readTrees(bytes, options.task, output) : undefined
-  let trees: EvaluableEnsemble | undefined =
-    parsed?.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : undefined
+  let trees: EvaluableEnsemble | ClassEnsembles | undefined =
+    options.task === 'multiclass'
+      ? inputs.isMatrix && options.evaluator !== 'onnxruntime' ? readClassTrees(bytes, output, featureNames) : undefined
+      : parsed?.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : undefined
   let checked = false
   let engine: ModelEngine = trees ? 'plumbline-trees' : 'onnxruntime'
-  const evaluate = (matrix: FeatureMatrix, ensemble: EvaluableEnsemble) => createTreeReplacementPredictor(ensemble, matrix)?.predict(new Map(), 1)
+  const fastPath = (ensemble: EvaluableEnsemble | ClassEnsembles, matrix: FeatureMatrix) =>
+    'classes' in ensemble ? createClassEnsemblesPredictor(ensemble, matrix) : createTreeReplacementPredictor(ensemble, matrix)
+  const evaluate = (matrix: FeatureMatrix, ensemble: EvaluableEnsemble | ClassEnsembles) => fastPath(ensemble, matrix)?.predict(new Map(), 1)
 
   const runSession = async (matrix: FeatureMatrix): Promise<Float64Array> => {
-    const out = new Float64Array(matrix.rows)
+    const out = new Float64Array(matrix.rows * width)
       for (let start = 0; start < matrix.rows; start += batchRows) {
         const end = Math.min(matrix.rows, start + batchRows)
         const feeds = inputs.build(matrix, start, end)
@@ -144,6 +167,7 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
     kind: 'onnx',
     task: options.task,
     featureNames,
+    ...(options.task === 'multiclass' ? { classCount: width } : {}),
     get engine() {
       return engine
     },
@@ -165,12 +189,13 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
       }
       if (trees) {
         const values = evaluate(matrix, trees)!
+        if (options.task === 'multiclass') return asClassProbabilities(values, width, options.source)
         return options.task === 'binary' ? asProbabilities(values, options.source) : values
       }
       return runSession(matrix)
     },
     createReplacementPredictor(base: FeatureMatrix) {
-      return trees && checked ? createTreeReplacementPredictor(trees, base) : undefined
+      return trees && checked ? fastPath(trees, base) : undefined
     },
   }
 }
@@ -527,6 +552,119 @@ function readTrees(bytes: Uint8Array, task: Task, output: OutputPlan) {
   if (task === 'multiclass') return undefined
   try {
     return parseOnnxTreeEnsemble(bytes, { task, outputName: output.name, positiveColumn: output.positive })
+  } catch {
+    return undefined
+  }
+}
+
+// ---- multiclass ---------------------------------------------------------------------------------
+// Kept in functions of their own (the binary and regression paths above are untouched by them).
+
+/** The [N, K] probability output of a multiclass model, and which of its columns is each data class. */
+function planClassOutput(outputs: readonly ValueMetadata[], options: OnnxModelOptions, summary: OnnxSummary): OutputPlan {
+  const { source } = options
+  const classes = options.classes ?? []
+  const k = classes.length
+  if (k < 3) throw new RangeError(`loadOnnxModel needs the data's classes (at least 3) for a multiclass model, got ${k}`)
+  const fix = `Export the classifier with an output holding the class probabilities as a float tensor [N, ${k}] (name it 'probabilities' if it has several float outputs).`
+  const floats = outputs.filter(isFloatTensor)
+  const declared = floats.filter((o) => o.shape.length === 2 && o.shape[1] === k)
+  const output = floats.find((o) => o.name === 'probabilities') ?? (declared.length === 1 ? declared[0] : floats.length === 1 ? floats[0] : undefined)
+  if (!output) {
+    if (outputs.some((o) => !o.isTensor)) {
+      throw outputError(
+        `The ONNX model '${source}' returns its class probabilities as a sequence of maps, which plumbline cannot read.`,
+        outputs,
+        `Export the probabilities as a plain float tensor [N, ${k}] instead: leave out the final ZipMap step that turns them into maps (in skl2onnx, the converter option zipmap=False).`,
+      )
+    }
+    throw outputError(`The ONNX model '${source}' has no float tensor output of class probabilities [N, ${k}].`, outputs, fix)
+  }
+  const declaredWidth = output.shape[1]
+  if (output.shape.length !== 2 || (typeof declaredWidth === 'number' && declaredWidth >= 0 && declaredWidth !== k)) {
+    throw outputError(
+      `The ONNX model '${source}' output '${output.name}' has shape ${describeShape(output.shape)}; the data has ${k} classes (${classes.join(', ')}), so the probabilities must be [N, ${k}].`,
+      outputs,
+      fix,
+    )
+  }
+  const labels = summary.classLabelsByOutput.get(output.name) ?? (summary.classLabelSets.length === 1 ? summary.classLabelSets[0] : undefined)
+  const columns = classColumns(classes, labels, source, output.name)
+  return {
+    name: output.name,
+    width: k,
+    columns,
+    copy(value, start, end, out) {
+      const tensor = value as Tensor
+      const rows = end - start
+      if (!(tensor.dims.length === 2 && tensor.dims[0] === rows && tensor.dims[1] === k)) {
+        throw outputError(`The ONNX model '${source}' output '${output.name}' came back with shape [${tensor.dims.join(', ')}] for ${rows} rows; the probabilities must be [N, ${k}].`, outputs, fix)
+      }
+      const data = tensor.data as Float32Array | Float64Array
+      const slack = probabilitySlack(data)
+      for (let i = 0; i < rows; i++) {
+        for (let c = 0; c < k; c++) out[(start + i) * k + c] = data[i * k + columns[c]]
+      }
+      checkClassRows(out.subarray(start * k, end * k), k, slack, source, start, `output '${output.name}'`)
+    },
+  }
+}
+
+/** Model column of each data class: by declared label (as text), else the same position. */
+function classColumns(classes: readonly string[], labels: readonly (string | number)[] | undefined, source: string, outputName: string): number[] {
+  if (!labels) return classes.map((_, c) => c)
+  const columns = classes.map((label) => labels.findIndex((l) => String(l) === label))
+  const missing = classes.filter((_, c) => columns[c] < 0)
+  if (missing.length > 0 || labels.length !== classes.length) {
+    throw new UserError(
+      `The ONNX model '${source}' declares the classes ${labels.map((l) => `'${l}'`).join(', ')} for its output '${outputName}', but the data's classes are ${classes.map((l) => `'${l}'`).join(', ')}` +
+        (missing.length > 0 ? ` (the model has no ${missing.map((l) => `'${l}'`).join(', ')}).` : '.'),
+      'Train and export the model on the same class labels as the target column, written the same way.',
+    )
+  }
+  return columns
+}
+
+/** Clamps float rounding just outside [0, 1] and refuses a value that is no probability or a row that does not sum to 1. */
+function checkClassRows(values: Float64Array, k: number, slack: number, source: string, firstRow: number, what: string): void {
+  for (let i = 0; i < values.length / k; i++) {
+    let sum = 0
+    for (let c = 0; c < k; c++) {
+      const raw = values[i * k + c]
+      const p = raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw
+      if (!(p >= 0 && p <= 1)) {
+        throw new UserError(
+          `The ONNX model '${source}' ${what} is not a probability: row ${firstRow + i + 1} of the rows scored has ${raw} for class column ${c}.`,
+          'Export the model with its probability step (a softmax post-transform), not raw scores.',
+        )
+      }
+      values[i * k + c] = p
+      sum += p
+    }
+    if (!(Math.abs(sum - 1) <= 1e-4)) {
+      throw new UserError(
+        `The ONNX model '${source}' ${what} does not give class probabilities: row ${firstRow + i + 1} of the rows scored sums to ${sum}, not 1.`,
+        'Export the model with its probability step (a softmax post-transform), not raw or one-vs-rest scores.',
+      )
+    }
+  }
+}
+
+/** The tree evaluator's multiclass output, held to the same rule as onnxruntime's. */
+function asClassProbabilities(values: Float64Array, k: number, source: string): Float64Array {
+  checkClassRows(values, k, 16 * 2 ** -23, source, 0, 'tree ensemble')
+  return values
+}
+
+/** parseOnnxClassEnsembles, ordered as the data's classes; undefined when it cannot read the graph. */
+function readClassTrees(bytes: Uint8Array, output: OutputPlan, featureNames: readonly string[]): ClassEnsembles | undefined {
+  try {
+    const parsed = parseOnnxClassEnsembles(bytes, { outputName: output.name, classCount: output.width ?? 0 })
+    if (!parsed.ok || parsed.width > featureNames.length) return undefined
+    return {
+      classes: output.columns!.map((column) => ({ ...parsed.classes[column], featureNames })),
+      link: parsed.postTransform === 'SOFTMAX' ? 'softmax' : 'none',
+    }
   } catch {
     return undefined
   }

@@ -1,5 +1,6 @@
 import type { FeatureMatrix, Task } from '../../data/dataset.ts'
 import type { Model, ReplacementPredictor } from '../model.ts'
+import { combineClassScores, createClassEnsemblesPredictor } from './class-ensembles-predictor.ts'
 import { createTreeReplacementPredictor } from './replacement-predictor.ts'
 import type { BoostedEnsemble, Tree } from './tree.ts'
 
@@ -39,8 +40,17 @@ export class BoostedModel implements Model {
    */
   /** Permutation importance's fast path: see createTreeReplacementPredictor. */
   createReplacementPredictor(base: FeatureMatrix): ReplacementPredictor | undefined {
-    // The fast path walks one score per row; a multiclass ensemble is evaluated whole.
-    if (this.task === 'multiclass') return undefined
+    if (this.task === 'multiclass') {
+      // One ensemble per class (trees k, K + k, ...), each with the one-score fast path, then the softmax.
+      const k = this.ensemble.classCount!
+      const classes = Array.from({ length: k }, (_, c) => ({
+        featureNames: this.featureNames,
+        baseScore: this.ensemble.baseScore,
+        trees: this.ensemble.trees.filter((_, t) => t % k === c),
+        link: 'identity' as const,
+      }))
+      return createClassEnsemblesPredictor({ classes, link: 'softmax' }, base)
+    }
     return createTreeReplacementPredictor({ ...this.ensemble, link: this.task === 'binary' ? 'logistic' : 'identity' }, base)
   }
 
@@ -72,26 +82,8 @@ export class BoostedModel implements Model {
     const k = this.ensemble.classCount!
     const margins = Array.from({ length: k }, () => new Float64Array(n).fill(this.ensemble.baseScore))
     this.ensemble.trees.forEach((tree, t) => addTree(tree, columns, n, margins[t % k]))
-    return softmaxRows(margins, n)
+    return combineClassScores(margins, 'softmax')
   }
-}
-
-/** Row-major [N, K] softmax of K per-class score columns (the largest score subtracted first, so exp cannot overflow). */
-export function softmaxRows(margins: readonly Float64Array[], n: number): Float64Array {
-  const k = margins.length
-  const out = new Float64Array(n * k)
-  for (let i = 0; i < n; i++) {
-    let max = -Infinity
-    for (let c = 0; c < k; c++) max = Math.max(max, margins[c][i])
-    let total = 0
-    for (let c = 0; c < k; c++) {
-      const e = Math.exp(margins[c][i] - max)
-      out[i * k + c] = e
-      total += e
-    }
-    for (let c = 0; c < k; c++) out[i * k + c] /= total
-  }
-  return out
 }
 
 function addTree(tree: Tree, columns: readonly Float64Array[], n: number, score: Float64Array): void {
