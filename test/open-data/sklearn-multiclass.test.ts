@@ -11,31 +11,13 @@
  * - a column of pure noise is added: passes with no leakage finding.
  * Without python3-sklearn the suite is skipped (its name says which package is missing).
  */
-import { existsSync, readFileSync } from 'node:fs'
+import { readFileSync } from 'node:fs'
 import { afterAll, describe, expect, it } from 'vitest'
 import { main } from '../../src/adapters/cli/main.ts'
 import type { GateReport } from '../../src/core/report/report.ts'
 import { createRandom } from '../../src/core/statistics/random.ts'
 import { makeRepository, type TestRepository } from '../helpers/make-repository.ts'
-
-const wineCsv = '/usr/lib/python3/dist-packages/sklearn/datasets/data/wine_data.csv'
-const hasSklearn = existsSync(wineCsv)
-
-const names = [
-  'alcohol', 'malic_acid', 'ash', 'alcalinity_of_ash', 'magnesium', 'total_phenols', 'flavanoids',
-  'nonflavanoid_phenols', 'proanthocyanins', 'color_intensity', 'hue', 'od280_od315', 'proline',
-]
-
-function wine(): { rows: number[][]; target: number[] } {
-  const values = readFileSync(wineCsv, 'utf8').trim().split('\n').slice(1).map((l) => l.split(',').map(Number))
-  return { rows: values.map((v) => v.slice(0, 13)), target: values.map((v) => v[13]) }
-}
-
-function csv(table: ReturnType<typeof wine>, indices: readonly number[], extra?: { name: string; values: readonly number[] }): string {
-  const header = [...names, ...(extra ? [extra.name] : []), 'cultivar']
-  const lines = indices.map((i) => [...table.rows[i], ...(extra ? [Number(extra.values[i].toFixed(4))] : []), `class_${table.target[i]}`].join(','))
-  return `${header.join(',')}\n${lines.join('\n')}\n`
-}
+import { hasWine as hasSklearn, readWine as wine, wineCsvText as csv } from '../helpers/wine-table.ts'
 
 const policy = 'version: 1\ntask: multiclass\ntarget: cultivar\nseed: 3\ndata:\n  train: data/train.csv\n  holdout: data/holdout.csv\nmodel:\n  builtin:\n    learner: gradient-boosting\n'
 

@@ -20,8 +20,9 @@ export function isColumnShape(shape: ReadonlyArray<number | string>): boolean {
   return shape.length === 2 && (shape[1] === 1 || typeof shape[1] === 'string' || shape[1] < 0)
 }
 
+/** `[N, 3]`; a free dimension without a name (onnxruntime reports -1 or '') reads '?'. */
 export function describeShape(shape: ReadonlyArray<number | string>): string {
-  return `[${shape.map((d) => (typeof d === 'number' && d < 0 ? '?' : String(d))).join(', ')}]`
+  return `[${shape.map((d) => ((typeof d === 'number' && d < 0) || d === '' ? '?' : String(d))).join(', ')}]`
 }
 
 export function describeValues(values: readonly OnnxValueInfo[]): string {
