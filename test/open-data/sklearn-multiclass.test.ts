@@ -8,6 +8,8 @@
  * split (every fourth row held out) and a policy with default checks:
  * - a label copy (the class index, with 5% of rows given another class at random) is added: blocks,
  *   and the finding names the feature;
+ * - a column that gives away one class only (1 for class_2, 0 otherwise, plus noise of SD 0.1) is
+ *   added: blocks, the finding naming the feature and the class its one-vs-rest AUC belongs to;
  * - a column of pure noise is added: passes with no leakage finding.
  * Without python3-sklearn the suite is skipped (its name says which package is missing).
  */
@@ -24,17 +26,19 @@ const policy = 'version: 1\ntask: multiclass\ntarget: cultivar\nseed: 3\ndata:\n
 const repositories: TestRepository[] = []
 afterAll(() => repositories.forEach((r) => r.remove()))
 
-async function check(change: 'copy-5' | 'noise'): Promise<GateReport> {
+async function check(change: 'copy-5' | 'noise' | 'one-class'): Promise<GateReport> {
   const table = wine()
   const all = table.target.map((_, i) => i)
   const holdout = all.filter((i) => i % 4 === 0)
   const train = all.filter((i) => i % 4 !== 0)
-  const random = createRandom(change === 'noise' ? 11 : 12)
+  const random = createRandom(change === 'noise' ? 11 : change === 'copy-5' ? 12 : 13)
   const values =
     change === 'noise'
       ? table.target.map(() => random.normal())
-      : table.target.map((y) => (random.next() >= 0.05 ? y : (y + 1 + random.int(2)) % 3))
-  const extra = { name: change === 'noise' ? 'batch_noise' : 'lab_grade', values }
+      : change === 'copy-5'
+        ? table.target.map((y) => (random.next() >= 0.05 ? y : (y + 1 + random.int(2)) % 3))
+        : table.target.map((y) => (y === 2 ? 1 : 0) + 0.1 * random.normal())
+  const extra = { name: change === 'noise' ? 'batch_noise' : change === 'copy-5' ? 'lab_grade' : 'cask_flag', values }
   const repository = makeRepository({
     base: { 'plumbline.yml': policy, 'data/train.csv': csv(table, train), 'data/holdout.csv': csv(table, holdout) },
     head: { 'data/train.csv': csv(table, train, extra), 'data/holdout.csv': csv(table, holdout, extra) },
@@ -60,6 +64,18 @@ describe.skipIf(!hasSklearn)("task: multiclass on scikit-learn's wine table (nee
     expect(report.settings.metric).toBe('log-loss')
     expect(report.verdict).toBe('block')
     expect(report.headline).toMatch(/^Blocked: lab_grade, new here,/)
+  })
+
+  it('blocks a column that gives away one class only (class_2 flagged, with noise), naming that class', async () => {
+    // cask_flag is 1 + noise for class_2 and 0 + noise otherwise (SD 0.1): it tells class_2 from the
+    // rest almost perfectly and cannot tell class_0 from class_1, so the per-class one-vs-rest AUC
+    // of its one-feature model is what flags it.
+    const report = await check('one-class')
+    expect(report.verdict).toBe('block')
+    const leak = report.findings.find((f) => f.kind === 'leakage' && f.feature === 'cask_flag')
+    expect(leak?.severity).toBe('block')
+    expect(leak?.title).toMatch(/alone separates the holdout \(one-vs-rest AUC [0-9.]+ for the class 'class_2'\)\.$/)
+    expect(leak?.evidence).toMatchObject({ singleFeatureClass: 'class_2' })
   })
 
   it('passes a column of pure noise with no leakage finding', async () => {

@@ -35,6 +35,10 @@ import { permutationImportance } from '../../src/core/importance/permutation-imp
 import { metricByName } from '../../src/core/metrics/metric-by-name.ts'
 import { kendallTauB } from '../../src/core/statistics/kendall-tau-b.ts'
 import { missingReference } from '../helpers/reference-packages.ts'
+import { main } from '../../src/adapters/cli/main.ts'
+import type { GateReport } from '../../src/core/report/report.ts'
+import { makeRepository, type TestRepository } from '../helpers/make-repository.ts'
+import { readWine, wineCsvText, wineFeatures } from '../helpers/wine-table.ts'
 import { pythonMissing, reportSkip, runPython } from './python-tools.ts'
 
 reportSkip('test/python/multiclass-onnx.test.ts')
@@ -84,8 +88,10 @@ describe.skipIf(missing !== undefined)('multiclass ONNX models from scikit-learn
     await runPython([join(dirname(fileURLToPath(import.meta.url)), 'multiclass-onnx.py'), directory], { cwd: directory })
     reference = JSON.parse(readFileSync(join(directory, 'reference.json'), 'utf8')) as Reference
   }, 120_000)
+  const repositories: TestRepository[] = []
   afterAll(() => {
     if (directory) rmSync(directory, { recursive: true, force: true })
+    repositories.forEach((r) => r.remove())
   })
 
   const wine = () => table('wine_data.csv', 13)
@@ -151,4 +157,39 @@ describe.skipIf(missing !== undefined)('multiclass ONNX models from scikit-learn
       expect(kendallTauB(clear.map((j) => ours.importances[j].mean), clear.map((j) => theirs.mean[j]))).toBeGreaterThan(0.8)
     })
   }
+
+  it('through the CLI: model.onnx (the forest, text labels) on both sides of a pull request that adds a column it does not read', async () => {
+    const table = readWine()
+    const all = table.target.map((_, i) => i)
+    const train = all.filter((i) => i % 4 !== 0)
+    const holdout = all.filter((i) => i % 4 === 0)
+    const extra = { name: 'batch_noise', values: table.target.map((_, i) => Math.sin(i)) }
+    const policy = `version: 1\ntask: multiclass\ntarget: cultivar\nseed: 3\ndata:\n  train: data/train.csv\n  holdout: data/holdout.csv\nmodel:\n  onnx:\n    path: models/forest.onnx\n    features: [${wineFeatures.join(', ')}]\n`
+    const repository = makeRepository({
+      base: { 'plumbline.yml': policy, 'data/train.csv': wineCsvText(table, train), 'data/holdout.csv': wineCsvText(table, holdout) },
+      head: { 'data/train.csv': wineCsvText(table, train, extra), 'data/holdout.csv': wineCsvText(table, holdout, extra) },
+    })
+    repositories.push(repository)
+    // The model file is committed on both sides (written after the repository, then committed on each branch).
+    const { execFileSync } = await import('node:child_process')
+    const { copyFileSync, mkdirSync } = await import('node:fs')
+    for (const branch of ['main', 'pr']) {
+      execFileSync('git', ['checkout', '--quiet', branch], { cwd: repository.root })
+      mkdirSync(join(repository.root, 'models'), { recursive: true })
+      copyFileSync(join(directory, 'forest.onnx'), join(repository.root, 'models', 'forest.onnx'))
+      execFileSync('git', ['add', 'models/forest.onnx'], { cwd: repository.root })
+      execFileSync('git', ['-c', 'user.name=t', '-c', 'user.email=t@example.invalid', 'commit', '--quiet', '-m', 'model'], { cwd: repository.root })
+    }
+    const reportPath = join(repository.root, 'report.json')
+    let text = ''
+    const code = await main(['check', '--base', 'main', '--head', 'pr', '--json', reportPath, '--quiet'], {
+      cwd: repository.root, stdout: () => undefined, stderr: (t) => (text += t), isTty: false,
+    })
+    expect(code, text).toBeLessThan(2)
+    const report = JSON.parse(readFileSync(reportPath, 'utf8')) as GateReport
+    expect(report.settings.classes).toEqual(['class_0', 'class_1', 'class_2'])
+    expect(report.sides?.base.model.kind).toBe('onnx')
+    expect(report.sides?.head.model.engine).toBe('plumbline-trees')
+    expect(report.findings.filter((f) => f.kind === 'leakage')).toEqual([])
+  })
 })

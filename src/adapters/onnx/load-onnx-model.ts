@@ -24,7 +24,7 @@ import { UserError } from '../../core/errors.ts'
 import type { Model, ModelEngine } from '../../core/models/model.ts'
 import { FEATURES_METADATA_KEY } from '../../core/models/onnx-proto.ts'
 import { onnxInputValues, planOnnxInputs } from '../../core/models/plan-onnx-inputs.ts'
-import { checkTreeOutput, outputWidth, planOnnxOutput, readOnnxOutput } from '../../core/models/plan-onnx-output.ts'
+import { outputWidth, planOnnxOutput, readOnnxOutput } from '../../core/models/plan-onnx-output.ts'
 import { readOnnxSummary, type OnnxSummary } from '../../core/models/read-onnx-summary.ts'
 import { createOnnxTreePredictor, readOnnxTrees, type OnnxTrees } from '../../core/models/read-onnx-trees.ts'
 
@@ -85,7 +85,7 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
   let trees: OnnxTrees | undefined = options.evaluator !== 'onnxruntime' ? readOnnxTrees(bytes, inputs, output) : undefined
   let checked = false
   let engine: ModelEngine = trees ? 'plumbline-trees' : 'onnxruntime'
-  const evaluate = (matrix: FeatureMatrix, ensemble: OnnxTrees) => createOnnxTreePredictor(ensemble, matrix)?.predict(new Map(), 1)
+  const evaluate = (matrix: FeatureMatrix, ensemble: OnnxTrees) => createOnnxTreePredictor(ensemble, matrix, output)?.predict(new Map(), 1)
 
   const runSession = async (matrix: FeatureMatrix): Promise<Float64Array> => {
     const out = new Float64Array(matrix.rows * width)
@@ -126,18 +126,24 @@ export async function loadOnnxModel(bytes: Uint8Array, options: OnnxModelOptions
       if (trees && !checked) {
         checked = true
         const sample = selectRows(matrix, Array.from({ length: Math.min(CHECK_ROWS, matrix.rows) }, (_, i) => i))
-        const ours = evaluate(sample, trees)
+        // Trees whose output breaks the probability rule fall back too; onnxruntime's output is then held to it.
+        let ours: Float64Array | undefined
+        try {
+          ours = evaluate(sample, trees)
+        } catch {
+          ours = undefined
+        }
         const theirs = await runSession(sample)
         if (!ours || ours.some((p, i) => !(Math.abs(p - theirs[i]) <= AGREEMENT * Math.max(1, Math.abs(theirs[i]))))) {
           trees = undefined
           engine = 'onnxruntime'
         }
       }
-      if (trees) return checkTreeOutput(output, evaluate(matrix, trees)!)
+      if (trees) return evaluate(matrix, trees)!
       return runSession(matrix)
     },
     createReplacementPredictor(base: FeatureMatrix) {
-      return trees && checked ? createOnnxTreePredictor(trees, base) : undefined
+      return trees && checked ? createOnnxTreePredictor(trees, base, output) : undefined
     },
   }
 }

@@ -13,7 +13,7 @@ import { createTreeReplacementPredictor, type EvaluableEnsemble } from './gbt/re
 import { parseOnnxClassEnsembles } from './parse-onnx-class-ensembles.ts'
 import { parseOnnxTreeEnsemble } from './parse-onnx-tree-ensemble.ts'
 import type { OnnxInputPlan } from './plan-onnx-inputs.ts'
-import type { OnnxOutputPlan } from './plan-onnx-output.ts'
+import { checkTreeOutput, type OnnxOutputPlan } from './plan-onnx-output.ts'
 
 export type OnnxTrees = EvaluableEnsemble | ClassEnsembles
 
@@ -40,7 +40,20 @@ export function readOnnxTrees(bytes: Uint8Array, inputs: OnnxInputPlan, output: 
   }
 }
 
-/** The replacement fast path over the trees (and, with nothing replaced, their plain prediction). */
-export function createOnnxTreePredictor(trees: OnnxTrees, base: FeatureMatrix): ReplacementPredictor | undefined {
-  return 'classes' in trees ? createClassEnsemblesPredictor(trees, base) : createTreeReplacementPredictor(trees, base)
+/**
+ * The replacement fast path over the trees (and, with nothing replaced, their plain prediction), its
+ * every output held to checkTreeOutput's rule as predict's are: a forest's summed float32 fractions
+ * can land a few units in the last place above 1 on rows the first check never saw, and the metrics
+ * refuse anything outside [0, 1].
+ */
+export function createOnnxTreePredictor(trees: OnnxTrees, base: FeatureMatrix, output: OnnxOutputPlan): ReplacementPredictor | undefined {
+  const inner = 'classes' in trees ? createClassEnsemblesPredictor(trees, base) : createTreeReplacementPredictor(trees, base)
+  if (!inner) return undefined
+  const checked = (values: Float64Array) => checkTreeOutput(output, values)
+  const many = inner.predictMany?.bind(inner)
+  return {
+    rows: inner.rows,
+    predict: (replaced, draws) => checked(inner.predict(replaced, draws)),
+    ...(many ? { predictMany: (units, draws) => many(units, draws).map(checked) } : {}),
+  }
 }

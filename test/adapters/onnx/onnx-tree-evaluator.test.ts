@@ -339,10 +339,38 @@ describe('loadOnnxModel on multiclass TreeEnsembleClassifiers (NONE and SOFTMAX)
           // The fast path with nothing replaced is the same prediction.
           const again = fast!.predict(new Map(), 1)
           for (let i = 0; i < values.length; i++) expect(again[i]).toBeCloseTo(values[i], 12)
+          const reversed = Float64Array.from({ length: 2 * x.rows }, (_, i) => x.columns[0][x.rows - 1 - (i % x.rows)])
+          expect(fast!.predict(new Map([['x0', reversed]]), 2).length).toBe(2 * x.rows * k)
         })
       }
     }
   }
+
+  it('clamps summed float32 fractions just above 1 on the fast path too, as predict does (the metrics refuse p > 1)', async () => {
+    // Three trees of one split, every leaf all class 0 with the weight float32(1/3) = 0.3333333433:
+    // the sum is 1.00000003, one float32 rounding above 1, on every row.
+    const third = Math.fround(1 / 3)
+    const attribute = [
+      ints('nodes_treeids', [0, 0, 0, 1, 1, 1, 2, 2, 2]), ints('nodes_nodeids', [0, 1, 2, 0, 1, 2, 0, 1, 2]),
+      ints('nodes_featureids', [0, 0, 0, 1, 0, 0, 2, 0, 0]), texts('nodes_modes', ['BRANCH_LEQ', 'LEAF', 'LEAF', 'BRANCH_LEQ', 'LEAF', 'LEAF', 'BRANCH_LEQ', 'LEAF', 'LEAF']),
+      floats('nodes_values', [0, 0, 0, 0.5, 0, 0, -0.5, 0, 0]), ints('nodes_truenodeids', [1, 0, 0, 1, 0, 0, 1, 0, 0]), ints('nodes_falsenodeids', [2, 0, 0, 2, 0, 0, 2, 0, 0]),
+      ints('class_treeids', [0, 0, 0, 0, 0, 0, 1, 1, 1, 1, 1, 1, 2, 2, 2, 2, 2, 2]), ints('class_nodeids', [1, 1, 1, 2, 2, 2, 1, 1, 1, 2, 2, 2, 1, 1, 1, 2, 2, 2]),
+      ints('class_ids', [0, 1, 2, 0, 1, 2, 0, 1, 2, 0, 1, 2, 0, 1, 2, 0, 1, 2]), floats('class_weights', [third, 0, 0, third, 0, 0, third, 0, 0, third, 0, 0, third, 0, 0, third, 0, 0]),
+      ints('classlabels_int64s', [0, 1, 2]), text('post_transform', 'NONE'),
+    ]
+    const bytes = treeModel({ opType: 'TreeEnsembleClassifier', output: ['label', 'probabilities'], attribute }, OnnxDataType.FLOAT, [
+      { name: 'label', elemType: OnnxDataType.INT64, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', 3] },
+    ])
+    const model = await loadOnnxModel(bytes, { source: 'sure.onnx', task: 'multiclass', features, featureOrder: features.map((f) => f.name), classes: ['0', '1', '2'] })
+    const x = rows(createRandom(3), 200, Array.from({ length: F }, () => []))
+    expect(Array.from((await model.predict(x)).filter((_, i) => i % 3 === 0)).every((p) => p === 1)).toBe(true)
+    expect(model.engine).toBe('plumbline-trees')
+    const fast = model.createReplacementPredictor!(x)!
+    const shuffled = Float64Array.from({ length: x.rows }, (_, i) => x.columns[1][(i * 7) % x.rows])
+    const replaced = fast.predict(new Map([['x1', shuffled]]), 1)
+    expect(Array.from(replaced.filter((_, i) => i % 3 === 0)).every((p) => p === 1)).toBe(true)
+    expect(fast.predictMany!([new Map([['x2', shuffled]])], 1)[0].every((p) => p >= 0 && p <= 1)).toBe(true)
+  })
 
   it('leaves a multiclass TreeEnsembleClassifier with post_transform LOGISTIC to onnxruntime (its rows do not sum to 1 and are refused)', async () => {
     const random = createRandom(78)
