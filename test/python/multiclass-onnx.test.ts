@@ -24,7 +24,8 @@
  *   Not vacuous: the top features stand many SEs from 0 in both, and the two rankings of the features
  *   whose importance is clear (more than 3 SEs from 0 in scikit-learn) agree closely (Kendall's tau-b).
  */
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs'
+import { execFileSync } from 'node:child_process'
+import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -170,9 +171,7 @@ describe.skipIf(missing !== undefined)('multiclass ONNX models from scikit-learn
       head: { 'data/train.csv': wineCsvText(table, train, extra), 'data/holdout.csv': wineCsvText(table, holdout, extra) },
     })
     repositories.push(repository)
-    // The model file is committed on both sides (written after the repository, then committed on each branch).
-    const { execFileSync } = await import('node:child_process')
-    const { copyFileSync, mkdirSync } = await import('node:fs')
+    // The model file is committed on both sides (written by the Python step, so committed afterwards on each branch).
     for (const branch of ['main', 'pr']) {
       execFileSync('git', ['checkout', '--quiet', branch], { cwd: repository.root })
       mkdirSync(join(repository.root, 'models'), { recursive: true })
