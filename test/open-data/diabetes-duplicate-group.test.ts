@@ -19,6 +19,7 @@ import { gunzipSync } from 'node:zlib'
 import { describe, expect, it } from 'vitest'
 import { parseCsv, schemaOf } from '../../src/core/data/parse-csv.ts'
 import { parsePolicy } from '../../src/core/policy/parse-policy.ts'
+import { renderHtml } from '../../src/core/report/render-html.ts'
 import { renderMarkdown } from '../../src/core/report/render-markdown.ts'
 import type { GateReport } from '../../src/core/report/report.ts'
 import { runGate, type SideInputs } from '../../src/core/run-gate.ts'
@@ -95,5 +96,7 @@ describe.skipIf(missing !== undefined)('a near-copy of bmi added to the diabetes
     expect(visible.split('\n').length).toBeLessThanOrEqual(45)
     // The feature table has the group's drop-column loss in the row of its grouped permutation importance.
     expect(markdown).toMatch(/\| bmi \\~ bmi\\_copy \(group of bmi, bmi\\_copy\) \|[^\n]*\| [0-9.]+ \\\[[0-9.]+, [0-9.]+\\\] \|/)
+    // The HTML report's drop-column chart has the group's row, beside its grouped permutation importance.
+    expect(renderHtml(report)).toMatch(/aria-label="bmi ~ bmi_copy: drop-column loss [0-9.]+ \[[0-9.]+, [0-9.]+\], all members left out at once; permuted together [0-9.]+ \[/)
   })
 })

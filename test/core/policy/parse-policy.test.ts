@@ -541,6 +541,10 @@ model:
       expect(failure(`${minimal}importance:\n  refits: 2.5\n`).message).toBe(
         "plumbline.yml:14:11: importance.refits must be a whole number from 1 to 100; got '2.5'.",
       )
+      expect(failure(`${minimal}importance:\n  drop_group_top: two\n`)).toEqual({
+        message: "plumbline.yml:14:19: importance.drop_group_top must be a whole number from 0 to 100; got 'two'.",
+        fix: 'Set importance.drop_group_top to a whole number from 0 to 100, or delete the line to use the default (1).',
+      })
       expect(failure(minimal.replace('seed: 7', 'seed: 0x10')).message).toBe(
         "plumbline.yml:4:7: seed must be a whole number from 0 to 4294967295; got '0x10'.",
       )
