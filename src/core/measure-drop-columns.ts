@@ -69,7 +69,7 @@ export function dropGroupNames(
  * Every leave-out set of a side, in the order its units are planned: the single features of
  * dropColumnNames, then the drill-down (members of a chosen group whose grouped permutation
  * importance is above the floor, in member order, at most `request.groupMembers` per group, each
- * once), then the groups of dropGroupNames.
+ * once), then the groups of dropGroupNames; none with fewer than 2 features.
  */
 export function leaveOutSets(
   train: Pick<Dataset, 'features'>,
@@ -78,8 +78,8 @@ export function leaveOutSets(
   importances: readonly FlooredImportance[],
   ranked: readonly string[],
 ): LeaveOutSet[] {
+  if (train.features.length < 2) return []
   const features = dropColumnNames(train, request, ranked)
-  if (features.length === 0) return []
   const chosen = dropGroupNames(train, request, groups, importances)
   const aboveFloor = new Set(importances.filter((u) => u.isGroup && u.isAboveFloor).map((u) => u.name))
   const singles = new Set(features)

@@ -56,6 +56,10 @@ describe('leaveOutSets(train, request, groups, importances, ranked)', () => {
     expect(leaveOutSets(train, request({ top: 0, also: ['c'], groupMembers: 1 }), all, floored, ['a', 'b', 'c', 'd', 'e']).map((s) => s.name)).toEqual(['c', 'a', 'a ~ b'])
   })
 
+  it('refits without the top group and its members even when no single feature is asked for', () => {
+    expect(leaveOutSets(train, request({ top: 0 }), groups, importances, ['a']).map((s) => s.name)).toEqual(['c', 'd', 'c ~ d'])
+  })
+
   it('plans no group for a budget of 0 groups and no added or changed feature', () => {
     expect(leaveOutSets(train, request({ groupTop: 0 }), groups, importances, ['a']).map((s) => s.name)).toEqual(['a'])
   })
