@@ -17398,12 +17398,12 @@ function tabulateFeatures(features) {
   };
 }
 function describeNull(values) {
-  const finite2 = values.filter(Number.isFinite);
-  if (finite2.length === 0) return "no pairs";
-  const lowest = finite2.reduce((a, b) => Math.min(a, b));
-  const highest = finite2.reduce((a, b) => Math.max(a, b));
-  const pairs = finite2.length === 1 ? "pair" : "pairs";
-  return `${formatNumber(lowest)} to ${formatNumber(highest)} over ${formatCount(finite2.length)} ${pairs}`;
+  const finite3 = values.filter(Number.isFinite);
+  if (finite3.length === 0) return "no pairs";
+  const lowest = finite3.reduce((a, b) => Math.min(a, b));
+  const highest = finite3.reduce((a, b) => Math.max(a, b));
+  const pairs = finite3.length === 1 ? "pair" : "pairs";
+  return `${formatNumber(lowest)} to ${formatNumber(highest)} over ${formatCount(finite3.length)} ${pairs}`;
 }
 function readAgreement(value3, threshold) {
   if (Number.isNaN(value3) || Number.isNaN(threshold)) return "undefined";
@@ -17591,9 +17591,13 @@ function readDropColumn(row) {
 }
 function dropColumnLines(report) {
   const rows = report.features.map((row) => ({ row, drop: readDropColumn(row) })).filter((x) => x.drop !== null);
-  if (rows.length === 0) return [];
-  const shown = rows.sort((a, b) => b.drop.mean - a.drop.mean).slice(0, 3).map(({ row, drop }) => `${row.name} ${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]`);
-  return [`Drop-column loss (refitted without the feature), largest: ${shown.join("; ")}.`];
+  const interval = (x) => `${formatNumber(x.mean)} [${formatNumber(x.lower)}, ${formatNumber(x.upper)}]`;
+  const features = rows.filter(({ row }) => !row.isGroup).sort((a, b) => b.drop.mean - a.drop.mean).slice(0, 3).map(({ row, drop }) => `${row.name} ${interval(drop)}`);
+  const groups = rows.filter(({ row }) => row.isGroup).sort((a, b) => b.drop.mean - a.drop.mean).slice(0, 2).map(({ row, drop }) => `${row.name} ${interval(drop)}${drop.isAboveNoise === false ? " (within reseed noise)" : ""}` + (row.head ? `, permuted together ${interval(row.head)}` : ""));
+  return [
+    ...features.length > 0 ? [`Drop-column loss (refitted without the feature), largest: ${features.join("; ")}.`] : [],
+    ...groups.length > 0 ? [`Drop-column loss of correlated groups (refitted without all members at once): ${groups.join("; ")}.`] : []
+  ];
 }
 function limitRows(table2, maxRows) {
   if (table2.rows.length <= maxRows) return table2;
@@ -17656,9 +17660,9 @@ footer { margin-top: 28px; color: var(--muted); font-size: .9em; }
 @media print { :root { --fg: #000; --bg: #fff; --muted: #333; --band: #e8e8e8; } body { max-width: none; } h2 { break-after: avoid; } .chart > * { break-inside: avoid; } }
 `;
 function scaleOf(values) {
-  const finite2 = values.filter(Number.isFinite);
-  let low = Math.min(0, ...finite2);
-  let high = Math.max(0, ...finite2);
+  const finite3 = values.filter(Number.isFinite);
+  let low = Math.min(0, ...finite3);
+  let high = Math.max(0, ...finite3);
   if (!(high > low)) high = low + 1;
   const pad = (high - low) * 0.04;
   low -= low < 0 ? pad : 0;
@@ -17744,13 +17748,13 @@ function rankChart(report, maxRows) {
   return `<div class="legend"><span>each row joins the base rank (circle) to the head rank (square); heavy: a shift beyond reseed noise; grey: at the floor on both sides</span></div><div class="chart">${cells.join("")}${ticks}</div>${limitNote(rows.length, rows.length)}`;
 }
 function nullStrip(name, values, observed, threshold) {
-  const finite2 = values.filter(Number.isFinite);
-  const shown = [...finite2, observed, threshold].filter(Number.isFinite);
+  const finite3 = values.filter(Number.isFinite);
+  const shown = [...finite3, observed, threshold].filter(Number.isFinite);
   const low = Math.min(...shown, 1);
   const high = Math.max(...shown, 1);
   const pad = Math.max((high - low) * 0.08, 0.01);
   const scale = { low: low - pad, high: high + pad };
-  const dots = finite2.map((v, i) => `<circle class="null" cx="${at(scale, v)}" cy="${8 + i % 3 * 6}" r="3"/>`).join("");
+  const dots = finite3.map((v, i) => `<circle class="null" cx="${at(scale, v)}" cy="${8 + i % 3 * 6}" r="3"/>`).join("");
   const lines = (Number.isFinite(threshold) ? `<line class="threshold" x1="${at(scale, threshold)}" x2="${at(scale, threshold)}" y1="0" y2="28"><title>threshold ${e(formatNumber(threshold))}</title></line>` : "") + (Number.isFinite(observed) ? `<line class="observed" x1="${at(scale, observed)}" x2="${at(scale, observed)}" y1="0" y2="28"><title>base vs head ${e(formatNumber(observed))}</title></line>` : "");
   const label2 = `${name}: base vs head ${formatNumber(observed)}, reseed threshold ${formatNumber(threshold)}`;
   return `<div class="name">${e(label2)}</div><svg height="30" role="img" aria-label="${e(label2)}">${dots}${lines}</svg>${axis(scale, "")}`;
@@ -17777,10 +17781,11 @@ function dropColumnChart(report, maxRows) {
   if (rows.length === 0) return "";
   const scale = scaleOf(rows.flatMap((x) => [x.drop.mean, x.drop.lower, x.drop.upper]));
   const cells = rows.map(({ row, drop }) => {
-    const title = `${row.name}: drop-column loss ${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]`;
+    const grouped = row.isGroup && row.head ? `, all members left out at once; permuted together ${formatNumber(row.head.mean)} [${formatNumber(row.head.lower)}, ${formatNumber(row.head.upper)}]` : "";
+    const title = `${row.name}: drop-column loss ${formatNumber(drop.mean)} [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]${grouped}`;
     return `<div class="name" data-feature="${e(row.name)}">${nameHtml(row.name)}</div><svg height="20" data-feature="${e(row.name)}" role="img" aria-label="${e(title)}"><line class="zero" x1="${at(scale, 0)}" x2="${at(scale, 0)}" y1="0" y2="20"/>` + (Number.isFinite(drop.lower) && Number.isFinite(drop.upper) ? `<line class="whisker drop" x1="${at(scale, drop.lower)}" x2="${at(scale, drop.upper)}" y1="10" y2="10"/>` : "") + `<circle class="drop" cx="${at(scale, drop.mean)}" cy="10" r="4.5"><title>${e(title)}</title></circle></svg>`;
   });
-  return `<h2>Drop-column results</h2><p class="note">How much the head's holdout loss grows when the model is refitted without the feature, with its 95% interval.</p><div class="chart">${cells.join("")}${axis(scale, "loss growth")}</div>`;
+  return `<h2>Drop-column results</h2><p class="note">How much the head's holdout loss grows when the model is refitted without the feature (a group: without all its members at once), with its 95% interval.</p><div class="chart">${cells.join("")}${axis(scale, "loss growth")}</div>`;
 }
 function table(t) {
   const head = t.header.map((h, j) => `<th class="${t.align[j] === "right" ? "r" : ""}">${e(h)}</th>`).join("");
@@ -40763,7 +40768,8 @@ var defaultImportance = deepFreeze({
   referenceRows: 1e4,
   evaluationRows: 2e4,
   groupThreshold: 0.9,
-  dropColumnTop: 1
+  dropColumnTop: 1,
+  dropGroupTop: 1
 });
 var defaultChecks = deepFreeze({
   leakage: {
@@ -40916,6 +40922,7 @@ var importanceSchema = mapping({
   reference_rows: wholeNumber(1).default(defaultImportance.referenceRows),
   evaluation_rows: wholeNumber(2).default(defaultImportance.evaluationRows),
   drop_column_top: wholeNumber(0, 100).default(defaultImportance.dropColumnTop),
+  drop_group_top: wholeNumber(0, 100).default(defaultImportance.dropGroupTop),
   groups: external_exports.preprocess(
     (raw) => raw === null ? {} : raw,
     external_exports.record(external_exports.string(), nameList("a list of column names, such as [distance_km, stop_count]"), { error: "a mapping of group names to lists of columns" })
@@ -41182,6 +41189,7 @@ function toGateConfig(policy) {
       referenceRows: importance2.reference_rows,
       evaluationRows: importance2.evaluation_rows,
       dropColumnTop: importance2.drop_column_top,
+      dropGroupTop: importance2.drop_group_top,
       groups: nullPrototype(Object.entries(importance2.groups)),
       groupThreshold: importance2.group_threshold
     },
@@ -43080,6 +43088,29 @@ function dropColumnNames(train3, request, ranked) {
   if (present.size < 2) return [];
   return [.../* @__PURE__ */ new Set([...request.also.filter((n) => present.has(n)), ...ranked.slice(0, request.top)])];
 }
+function dropGroupNames(train3, request, groups, importances) {
+  const present = new Set(train3.features.map((f) => f.name));
+  const usable = groups.filter((g2) => g2.members.length < present.size && g2.members.every((m) => present.has(m)));
+  const also = new Set(request.also);
+  const touched = usable.filter((g2) => g2.members.some((m) => also.has(m)));
+  const estimate = new Map(importances.filter((u) => u.isGroup).map((u) => [u.name, u]));
+  const ranked = usable.filter((g2) => !touched.includes(g2) && estimate.get(g2.name)?.isAboveFloor === true).sort((a, b) => estimate.get(b.name).mean - estimate.get(a.name).mean || (a.name < b.name ? -1 : 1));
+  return [...touched, ...ranked.slice(0, request.groupTop)];
+}
+function leaveOutSets(train3, request, groups, importances, ranked) {
+  if (train3.features.length < 2) return [];
+  const features = dropColumnNames(train3, request, ranked);
+  const chosen = dropGroupNames(train3, request, groups, importances);
+  const aboveFloor = new Set(importances.filter((u) => u.isGroup && u.isAboveFloor).map((u) => u.name));
+  const singles = new Set(features);
+  for (const group of chosen.filter((g2) => aboveFloor.has(g2.name))) {
+    for (const member of group.members.filter((m) => !singles.has(m)).slice(0, request.groupMembers)) singles.add(member);
+  }
+  return [
+    ...[...singles].map((name) => ({ name, members: [name], isGroup: false })),
+    ...chosen.map((g2) => ({ name: g2.name, members: [...g2.members], isGroup: true }))
+  ];
+}
 
 // src/core/importance/compute-noise-floor.ts
 function computeNoiseFloor(refits, options = {}) {
@@ -43748,6 +43779,7 @@ function unitCost(job, rows, kind) {
   const features = job.inputs.train.features.length;
   const fit2 = job.inputs.model ? 0 : job.inputs.train.rows * features;
   if (kind === "drop-column") return job.inputs.train.rows * Math.max(features - 1, 1);
+  if (kind === "drop-group") return job.inputs.train.rows * Math.max(features - 2, 1);
   const units = features + job.options.groups.length;
   const predictions = (rows.evaluation.rows + rows.slices.reduce((n, s) => n + s.rows.length, 0)) * units * job.options.draws;
   return fit2 + predictions + job.inputs.holdout.rows;
@@ -43757,6 +43789,12 @@ function refitUnitId(side3, refit) {
 }
 function dropColumnUnitId(side3, refit, feature) {
   return `${side3}/refit-${refit + 1}/without/${feature}`;
+}
+function dropGroupUnitId(side3, refit, group) {
+  return `${side3}/refit-${refit + 1}/without-group/${group}`;
+}
+function leftOut(unit) {
+  return unit.kind === "drop-group" ? unit.members : [unit.feature];
 }
 function unitContext(jobs) {
   return { jobs, rows: [sideRows(jobs[0].inputs, jobs[0].options), sideRows(jobs[1].inputs, jobs[1].options)] };
@@ -43793,25 +43831,32 @@ function planDropColumnUnits(context, combined) {
     if (!request || !job.inputs.fit || job.inputs.model) return [];
     const seeds = combined[j].refitSeeds;
     if (seeds.length < 2) return [];
-    const cost = unitCost(job, context.rows[j], "drop-column");
-    return dropColumnNames(job.inputs.train, request, rankedFeatureNames(combined[j])).flatMap(
-      (feature) => seeds.map((seed, refit) => ({ kind: "drop-column", id: dropColumnUnitId(job.inputs.side, refit, feature), side: job.inputs.side, refit, seed, feature, cost }))
+    const side3 = job.inputs.side;
+    const sets = leaveOutSets(job.inputs.train, request, job.options.groups, combined[j].importances, rankedFeatureNames(combined[j]));
+    return sets.flatMap(
+      (set2) => seeds.map((seed, refit) => {
+        const common = { side: side3, refit, seed };
+        return set2.isGroup ? { kind: "drop-group", id: dropGroupUnitId(side3, refit, set2.name), ...common, group: set2.name, members: set2.members, cost: unitCost(job, context.rows[j], "drop-group") } : { kind: "drop-column", id: dropColumnUnitId(side3, refit, set2.name), ...common, feature: set2.name, cost: unitCost(job, context.rows[j], "drop-column") };
+      })
     );
   });
 }
 function withDropColumns(combined, units, results) {
   const sides = combined.map((measured, j) => {
     const side3 = j === 0 ? "base" : "head";
-    const byFeature = /* @__PURE__ */ new Map();
+    const bySet = /* @__PURE__ */ new Map();
     units.forEach((unit, k) => {
       if (unit.side !== side3) return;
       const result = results[k];
       if (!result || result.kind !== "drop-column") throw new RangeError(`withDropColumns: no drop-column score for ${unit.id}`);
-      const scores = byFeature.get(unit.feature) ?? [];
-      scores[unit.refit] = result.score;
-      byFeature.set(unit.feature, scores);
+      const set2 = unit.kind === "drop-group" ? { name: unit.group, members: unit.members, isGroup: true } : { name: unit.feature, members: [unit.feature], isGroup: false };
+      const key2 = `${set2.isGroup}:${set2.name}`;
+      const entry = bySet.get(key2) ?? { set: set2, scores: [] };
+      entry.scores[unit.refit] = result.score;
+      bySet.set(key2, entry);
     });
-    return { ...measured, dropColumns: [...byFeature].map(([name, scores]) => ({ name, scores })) };
+    const dropColumns = [...bySet.values()].map(({ set: set2, scores }) => ({ ...set2, scores }));
+    return { ...measured, dropColumns };
   });
   return [sides[0], sides[1]];
 }
@@ -43830,7 +43875,7 @@ var executeInProcess = async (units, context) => {
     const job = context.jobs[sideIndex[unit.side]];
     if (job.inputs.model) return Promise.resolve(job.inputs.model);
     if (!job.inputs.fit) throw new RangeError(`executeInProcess: the ${unit.side} side has neither a model nor a fit`);
-    return job.inputs.fit({ side: unit.side, seed: unit.seed, refit: unit.refit, leaveOut: unit.kind === "drop-column" ? [unit.feature] : [] });
+    return job.inputs.fit({ side: unit.side, seed: unit.seed, refit: unit.refit, leaveOut: unit.kind === "refit" ? [] : leftOut(unit) });
   };
   const prefetched = units.map((unit) => context.jobs[sideIndex[unit.side]].options.concurrentFits && !context.jobs[sideIndex[unit.side]].inputs.model ? fitOf(unit) : void 0);
   let firstFailure;
@@ -43892,7 +43937,12 @@ function measureJob(side3, data, settings, metric, onProgress, dropAlso = []) {
       concurrentFits: model.kind === "command",
       ...settings.sensitivity ? { sensitivity: settings.sensitivity } : {},
       ...measuredSlices.length > 0 && settings.checks.slices.action !== "off" ? { slices: measuredSlices } : {},
-      dropColumns: { top: settings.dropColumnTop, also: dropAlso.slice(0, settings.singleFeatureMaxExtra) }
+      dropColumns: {
+        top: settings.dropColumnTop,
+        also: dropAlso.slice(0, settings.singleFeatureMaxExtra),
+        groupTop: settings.dropGroupTop,
+        groupMembers: settings.dropGroupMembers
+      }
     },
     ...model.kind === "builtin" ? { builtin: { task: settings.task, settings: settings.learner } } : {}
   };
@@ -44162,6 +44212,7 @@ var fixedSettings = {
   singleFeatureMaxExtra: 20,
   slices: { maxLevels: 20, minRows: 30 },
   correlationRows: 5e3,
+  dropGroupMembers: 4,
   scoreBlockAtSds: 3,
   pairedBootstrapReplicates: 200
 };
@@ -44211,6 +44262,8 @@ function gateSettings(config2) {
     evaluationRows: config2.importance.evaluationRows,
     referenceRows: config2.importance.referenceRows,
     dropColumnTop: config2.importance.dropColumnTop,
+    dropGroupTop: config2.importance.dropGroupTop,
+    dropGroupMembers: fixedSettings.dropGroupMembers,
     groups,
     // Row caps (data.max_train_rows, data.max_holdout_rows), and which table the reference rows are,
     // so that a reference that is the training rows or the holdout follows its table's sample.
@@ -44709,20 +44762,20 @@ function checkLeakage(context, options) {
   return findings;
 }
 function liftRecord(l) {
-  const finite2 = (v) => Number.isFinite(v) ? v : null;
+  const finite3 = (v) => Number.isFinite(v) ? v : null;
   return {
-    liftShare: finite2(l.liftShare),
-    removedShare: finite2(l.removedShare),
-    dropColumnLoss: finite2(l.dropLoss),
-    dropColumnLower: finite2(l.dropLower),
-    dropColumnUpper: finite2(l.dropUpper),
-    dropColumnPValue: finite2(l.pValue),
-    dropColumnInReseedSds: finite2(l.dropInReseedSds),
+    liftShare: finite3(l.liftShare),
+    removedShare: finite3(l.removedShare),
+    dropColumnLoss: finite3(l.dropLoss),
+    dropColumnLower: finite3(l.dropLower),
+    dropColumnUpper: finite3(l.dropUpper),
+    dropColumnPValue: finite3(l.pValue),
+    dropColumnInReseedSds: finite3(l.dropInReseedSds),
     dropColumnAboveNoise: l.isAboveNoise,
-    baseLoss: finite2(l.baseLoss),
-    headLoss: finite2(l.headLoss),
-    powerAgainstBaseModel: l.powerAgainstBase === null ? null : finite2(l.powerAgainstBase),
-    powerAgainstBestFeature: l.powerAgainstBest === null ? null : finite2(l.powerAgainstBest),
+    baseLoss: finite3(l.baseLoss),
+    headLoss: finite3(l.headLoss),
+    powerAgainstBaseModel: l.powerAgainstBase === null ? null : finite3(l.powerAgainstBase),
+    powerAgainstBestFeature: l.powerAgainstBest === null ? null : finite3(l.powerAgainstBest),
     bestExistingFeature: l.bestExisting?.name ?? null
   };
 }
@@ -45480,12 +45533,15 @@ function lossOfScore(metric, score2) {
 function sideResult(side3, data, measured, single, metric) {
   const losses = measured.scores.map((s) => lossOfScore(metric, s));
   const dropColumns = /* @__PURE__ */ Object.create(null);
+  const dropGroups = /* @__PURE__ */ Object.create(null);
   for (const d of measured.dropColumns ?? []) {
-    dropColumns[d.name] = dropColumnImportance(losses, d.scores.map((s) => lossOfScore(metric, s)));
+    ;
+    (d.isGroup ? dropGroups : dropColumns)[d.name] = dropColumnImportance(losses, d.scores.map((s) => lossOfScore(metric, s)));
   }
   return {
     losses,
     dropColumns,
+    dropGroups,
     side: side3,
     features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
     scores: measured.scores,
@@ -45553,27 +45609,56 @@ function looksLikeIdentifier(kind, values) {
 }
 
 // src/core/checks/group-carried.ts
-function checkGroupCarried(importances, touched, options) {
+function checkGroupCarried(head, touched, options) {
   const action = options.action;
   if (action === "off") return [];
-  const byName = new Map(importances.filter((u) => !u.isGroup).map((u) => [u.name, u]));
+  const byName = new Map(head.importances.filter((u) => !u.isGroup).map((u) => [u.name, u]));
   const findings = [];
-  for (const group of importances.filter((u) => u.isGroup && u.isAboveFloor && u.mean > 0)) {
+  for (const group of head.importances.filter((u) => u.isGroup)) {
+    const drop = head.dropGroups?.[group.name];
+    const byPermutation = group.isAboveFloor && group.mean > 0;
+    const byDropColumn = drop?.isAboveNoise === true;
+    if (!byPermutation && !byDropColumn) continue;
     const members2 = group.members.map((m) => byName.get(m)).filter((u) => u !== void 0);
-    const low = members2.filter((u) => u.mean < group.mean / 2);
-    if (low.length === 0) continue;
-    const names = low.map((u) => u.name);
+    const ownDrop = (u) => head.dropColumns?.[u.name];
+    const lowAlone = (u) => byPermutation ? u.mean < group.mean / 2 : !u.isAboveFloor;
+    const recoverable = (u) => byDropColumn && ownDrop(u) !== void 0 && !ownDrop(u).isAboveNoise;
+    const carried = members2.filter((u) => lowAlone(u) || recoverable(u));
+    if (carried.length === 0) continue;
+    const names = carried.map((u) => u.name);
+    const plural2 = names.length > 1;
     const newOnes = names.filter((n) => touched.has(n));
+    const dropped = carried.filter((u) => ownDrop(u) !== void 0);
+    const together = [
+      `Permuted together, ${group.members.join(", ")} change the score by ${formatNumber(group.mean)} (95% interval [${formatNumber(group.lower)}, ${formatNumber(group.upper)}])`,
+      ...drop ? [`refitted without all of them, the holdout loss grows by ${formatNumber(drop.mean)} (95% interval [${formatNumber(drop.lower)}, ${formatNumber(drop.upper)}]${drop.isAboveNoise ? "" : ", within reseed noise"})`] : []
+    ];
+    const alone = [
+      `permuted alone, ${carried.map((u) => `${u.name} by ${formatNumber(u.mean)}`).join(", ")}`,
+      ...dropped.length > 0 ? [`refitted without one at a time, ${dropped.map((u) => `${u.name} by ${formatNumber(ownDrop(u).mean)}${ownDrop(u).isAboveNoise ? "" : " (within reseed noise)"}`).join(", ")}`] : []
+    ];
     findings.push({
       kind: "group-carried",
       severity: action,
       feature: names[0],
-      title: `${names.join(" and ")} ${names.length > 1 ? "are" : "is"} carried by ${names.length > 1 ? "their" : "its"} correlated group: ${group.members.join(", ")}.`,
-      message: `Permuted together, ${group.members.join(", ")} change the score by ${formatNumber(group.mean)} (95% interval [${formatNumber(group.lower)}, ${formatNumber(group.upper)}]); alone, ${low.map((u) => `${u.name} by ${formatNumber(u.mean)}`).join(", ")}: the other members stand in for ${names.length > 1 ? "them" : "it"} when ${names.length > 1 ? "they are" : "it is"} permuted. ` + (newOnes.length > 0 ? `${newOnes.join(", ")} ${newOnes.length > 1 ? "are" : "is"} new or changed here: redundant with the rest of the group, not harmless. ` : "") + "Judge the group as one.",
-      evidence: { group: group.name, groupMean: group.mean, groupLower: group.lower, lowestMemberMean: Math.min(...low.map((u) => u.mean)), touched: newOnes.length > 0 }
+      title: `${names.join(" and ")} ${plural2 ? "are" : "is"} carried by ${plural2 ? "their" : "its"} correlated group: ${group.members.join(", ")}.`,
+      message: `${together.join("; ")}; ${alone.join("; ")}: the other members stand in for ${plural2 ? "them" : "it"} when ${plural2 ? "they are" : "it is"} permuted or left out. ` + (newOnes.length > 0 ? `${newOnes.join(", ")} ${newOnes.length > 1 ? "are" : "is"} new or changed here: redundant with the rest of the group, not harmless. ` : "") + "Judge the group as one.",
+      evidence: {
+        group: group.name,
+        groupMean: group.mean,
+        groupLower: group.lower,
+        lowestMemberMean: Math.min(...carried.map((u) => u.mean)),
+        touched: newOnes.length > 0,
+        groupDropColumnLoss: drop ? finite2(drop.mean) : null,
+        groupDropColumnAboveNoise: drop ? drop.isAboveNoise : null,
+        membersDropColumnWithinNoise: dropped.filter((u) => !ownDrop(u).isAboveNoise).length
+      }
     });
   }
   return findings;
+}
+function finite2(x) {
+  return Number.isFinite(x) ? x : null;
 }
 
 // src/core/checks/sensitivity-change.ts
@@ -45822,7 +45907,7 @@ function judgeViews(inputs) {
   }
   const sliced = judgeSlices(inputs);
   findings.push(...sliced.findings);
-  const carried = checkGroupCarried(inputs.results.head.importances, inputs.touched, inputs.settings.checks.correlatedGroups);
+  const carried = checkGroupCarried(inputs.results.head, inputs.touched, inputs.settings.checks.correlatedGroups);
   const members2 = new Map(carried.flatMap((f) => inputs.results.head.importances.filter((u) => u.isGroup && u.name === f.evidence.group).flatMap((g2) => g2.members.map((m) => [m, g2.name]))));
   findings.forEach((f, i) => {
     if (f.kind === "sensitivity-shift" && f.feature !== void 0 && members2.has(f.feature)) {
@@ -45986,7 +46071,8 @@ function featureRows(base, head, shifts, baseTrain, headTrain) {
           isAboveFloor: u.isAboveFloor,
           perRefit: u.perRefit,
           ...side3.singleFeatureSeparation[u.name] !== void 0 && !u.isGroup ? { singleFeatureScore: side3.singleFeatureSeparation[u.name] } : {},
-          ...side3.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side3.dropColumns[u.name]) } : {}
+          ...side3.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side3.dropColumns[u.name]) } : {},
+          ...side3.dropGroups?.[u.name] && u.isGroup ? { dropColumn: dropColumnOf(side3.dropGroups[u.name]) } : {}
         }
       ])
     );
@@ -56025,12 +56111,12 @@ function createCommandFit(options) {
         await rm3(directory, { recursive: true, force: true });
       }
     });
-    const leftOut = new Set(request.leaveOut);
+    const leftOut2 = new Set(request.leaveOut);
     try {
       return await loadOnnxModel(bytes2, {
         source: `$PLUMBLINE_OUTPUT of ${label2}`,
         task: options.task,
-        features: options.features.filter((f) => !leftOut.has(f.name)),
+        features: options.features.filter((f) => !leftOut2.has(f.name)),
         positiveClass: options.positiveClass,
         ...options.classes ? { classes: options.classes } : {},
         batchRows: options.batchRows
@@ -56977,9 +57063,9 @@ ${error62 instanceof Error ? error62.stack ?? error62.message : String(error62)}
     });
     return { kind: "refit", part };
   }
-  const task = { ...base, leaveOut: [unit.feature] };
+  const task = { ...base, leaveOut: leftOut(unit) };
   const score2 = await pool.run(task).catch((error62) => {
-    throw new InternalError(`a drop-column refit (without ${unit.feature}, refit ${unit.refit + 1}) of the ${unit.side} side failed in a worker thread:
+    throw new InternalError(`a drop-column refit (without ${leftOut(unit).join(", ")}, refit ${unit.refit + 1}) of the ${unit.side} side failed in a worker thread:
 ${error62 instanceof Error ? error62.stack ?? error62.message : String(error62)}`);
   });
   return { kind: "drop-column", score: score2 };
@@ -57100,6 +57186,7 @@ function encodeUnit(unit, result) {
     refit: unit.refit,
     seed: unit.seed,
     ...unit.kind === "drop-column" ? { feature: unit.feature } : {},
+    ...unit.kind === "drop-group" ? { group: unit.group, members: unit.members } : {},
     result: encodeUnitResult(result)
   };
 }
@@ -57144,7 +57231,8 @@ var refitResult = external_exports.strictObject({ refit: refitPart });
 var dropResult = external_exports.strictObject({ score: number4 });
 var unitSchema = external_exports.discriminatedUnion("kind", [
   external_exports.strictObject({ id: text4, kind: external_exports.literal("refit"), side: side2, refit: index, seed: index, result: refitResult }),
-  external_exports.strictObject({ id: text4, kind: external_exports.literal("drop-column"), side: side2, refit: index, seed: index, feature: text4, result: dropResult })
+  external_exports.strictObject({ id: text4, kind: external_exports.literal("drop-column"), side: side2, refit: index, seed: index, feature: text4, result: dropResult }),
+  external_exports.strictObject({ id: text4, kind: external_exports.literal("drop-group"), side: side2, refit: index, seed: index, group: text4, members: list3(text4), result: dropResult })
 ]);
 var sideDigest = external_exports.strictObject({ commit: external_exports.string().regex(/^[0-9a-f]{40}([0-9a-f]{24})?$/).nullable(), data: sha2562 });
 var inputDigestsSchema = external_exports.strictObject({ toolVersion: text4, policy: sha2562, base: sideDigest, head: sideDigest });
@@ -57188,7 +57276,19 @@ function readPartialFile(textContent, source) {
     throw new UserError(`${source} is not a valid partial result file: ${describeIssue2(result.error.issues[0])}.`, "Run plumbline shard again to rewrite it; partial files are not meant to be edited.");
   }
   const file2 = result.data;
-  return { ...file2, units: file2.units.map((u) => ({ id: u.id, kind: u.kind, side: u.side, refit: u.refit, seed: u.seed, ..."feature" in u ? { feature: u.feature } : {}, result: toResult(u.result) })) };
+  return {
+    ...file2,
+    units: file2.units.map((u) => ({
+      id: u.id,
+      kind: u.kind,
+      side: u.side,
+      refit: u.refit,
+      seed: u.seed,
+      ..."feature" in u ? { feature: u.feature } : {},
+      ..."group" in u ? { group: u.group, members: u.members } : {},
+      result: toResult(u.result)
+    }))
+  };
 }
 function readCacheEntry(textContent, key2, id) {
   let parsed;
@@ -57589,7 +57689,7 @@ function partialLookup(partials, only) {
   }
   const used = /* @__PURE__ */ new Set();
   const execute = async (units) => {
-    const stage = units[0]?.kind === "drop-column" ? "drop-columns" : "refits";
+    const stage = units[0] && units[0].kind !== "refit" ? "drop-columns" : "refits";
     const of = shardsOf.get(stage);
     return units.map((unit) => {
       const found = index2.get(unit.id);
@@ -57601,7 +57701,8 @@ function partialLookup(partials, only) {
         );
       }
       const u = found.unit;
-      if (u.kind !== unit.kind || u.side !== unit.side || u.refit !== unit.refit || u.seed !== unit.seed || unit.kind === "drop-column" && u.feature !== unit.feature) {
+      const sameSet = unit.kind === "drop-column" ? u.feature === unit.feature : unit.kind === "drop-group" ? u.group === unit.group && JSON.stringify(u.members) === JSON.stringify(unit.members) : true;
+      if (u.kind !== unit.kind || u.side !== unit.side || u.refit !== unit.refit || u.seed !== unit.seed || !sameSet) {
         throw new UserError(`Unit ${unit.id} in ${found.source} is not the unit this run plans (its seed or kind differ). No report was written.`, "Run plan, every shard and merge with the same plumbline version.");
       }
       used.add(unit.id);
@@ -58040,6 +58141,7 @@ function renderStarterPolicy(input2) {
     optional3(1, `reference_rows: ${defaultImportance.referenceRows}`),
     optional3(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
     optional3(1, `drop_column_top: ${defaultImportance.dropColumnTop}`, "features per side also refitted without (drop-column)"),
+    optional3(1, `drop_group_top: ${defaultImportance.dropGroupTop}`, "feature groups per side also refitted without all members at once"),
     optional3(1, "groups:", "columns permuted together and reported as one"),
     optional3(2, `group_name: ${example(numeric, ["column_a", "column_b"])}`),
     optional3(1, `group_threshold: ${defaultImportance.groupThreshold}`, "automatic groups: numeric columns with |Spearman| at or above this")

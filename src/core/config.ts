@@ -153,6 +153,12 @@ export interface ImportanceConfig {
   readonly evaluationRows: number
   /** Drop-column (LOCO) refits for the top this many features of each side by permutation importance (plus every added or changed feature on the head). */
   readonly dropColumnTop: number
+  /**
+   * Groups per side refitted without all their members at once (drop-column), by grouped permutation
+   * importance above the floor, besides every group holding an added or changed feature; the members
+   * of such a group above the floor are then refitted without one by one.
+   */
+  readonly dropGroupTop: number
   /** Group name -> member columns, permuted jointly (null-prototype object). */
   readonly groups: Readonly<Record<string, readonly string[]>>
   /** Automatic groups: numeric features linked by |Spearman rho| at or above this (single linkage). */

@@ -86,7 +86,7 @@ export interface SideMeasurement {
   /** Built-in gradient boosting only: gain and split count per feature, per refit (in-sample). */
   readonly splitStatistics?: readonly (readonly SplitStatistic[])[]
   readonly slices?: readonly SliceMeasurement[]
-  /** Holdout scores of the drop-column refits, per feature (empty for a loaded model or when not asked). */
+  /** Holdout scores of the drop-column refits, per feature, then per group (empty for a loaded model or when not asked). */
   readonly dropColumns: readonly DropColumnScores[]
 }
 
@@ -286,7 +286,15 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
     inputs.fit && options.dropColumns && refits >= 2
       ? await measureDropColumns(
           { side: inputs.side, train: inputs.train, holdout: inputs.holdout, fit: inputs.fit },
-          { request: options.dropColumns, ranked: rankedFeatureNames(combined), refitSeeds, metric: options.metric, concurrentFits: options.concurrentFits },
+          {
+            request: options.dropColumns,
+            ranked: rankedFeatureNames(combined),
+            groups: options.groups,
+            importances: combined.importances,
+            refitSeeds,
+            metric: options.metric,
+            concurrentFits: options.concurrentFits,
+          },
         )
       : []
   return { ...combined, dropColumns }

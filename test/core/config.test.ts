@@ -32,7 +32,7 @@ describe('the named defaults', () => {
       maxBins: 255,
     })
     expect(defaultTrainCommand).toEqual({ timeoutSeconds: 1800, parallel: 2 })
-    expect(defaultImportance).toEqual({ draws: 5, refits: 5, referenceRows: 10000, evaluationRows: 20000, dropColumnTop: 1, groupThreshold: 0.9 })
+    expect(defaultImportance).toEqual({ draws: 5, refits: 5, referenceRows: 10000, evaluationRows: 20000, dropColumnTop: 1, dropGroupTop: 1, groupThreshold: 0.9 })
     expect(defaultMetric).toEqual({ binary: 'log-loss', regression: 'rmse', multiclass: 'log-loss' })
     expect(defaultChecks).toEqual({
       leakage: { action: 'block', dominanceShare: 0.5, runnerUpRatio: 3, singleFeaturePower: 0.99, relativePower: 0.8, liftWarn: 0.15, liftBlock: 0.25, sliceWarnPower: 0.9, reviewedColumns: [] },

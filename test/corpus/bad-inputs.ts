@@ -189,6 +189,7 @@ function yamlCases(): CorpusCase[] {
   add('prepare without command', `${base}prepare:\n  timeout_seconds: 5\n`, userError(/prepare/))
   add('prepare timeout zero', `${base}prepare:\n  command: make\n  timeout_seconds: 0\n`, userError(/timeout_seconds/))
   add('evaluation_rows 1', smallPolicy({ extra: '  evaluation_rows: 1\n' }), userError(/importance\.evaluation_rows must be a whole number of at least 2; got '1'\./))
+  add('drop_group_top negative', smallPolicy({ extra: '  drop_group_top: -1\n' }), userError(/importance\.drop_group_top must be a whole number from 0 to 100; got '-1'\./))
   add('key holding a token', `${base}${corpusToken}: 1\n`, userError(/unknown key/))
   add('key with escape sequence', `${base}"\\e[2Jx": 1\n`, userError(/unknown key '\\u001b\[2Jx'/))
   return cases

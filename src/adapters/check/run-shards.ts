@@ -220,7 +220,7 @@ function partialLookup(partials: readonly ReadPartial[], only?: UnitStage) {
   }
   const used = new Set<string>()
   const execute: ExecuteUnits = async (units) => {
-    const stage: UnitStage = units[0]?.kind === 'drop-column' ? 'drop-columns' : 'refits'
+    const stage: UnitStage = units[0] && units[0].kind !== 'refit' ? 'drop-columns' : 'refits'
     const of = shardsOf.get(stage)
     return units.map((unit) => {
       const found = index.get(unit.id)
@@ -236,7 +236,13 @@ function partialLookup(partials: readonly ReadPartial[], only?: UnitStage) {
         )
       }
       const u = found.unit
-      if (u.kind !== unit.kind || u.side !== unit.side || u.refit !== unit.refit || u.seed !== unit.seed || (unit.kind === 'drop-column' && u.feature !== unit.feature)) {
+      const sameSet =
+        unit.kind === 'drop-column'
+          ? u.feature === unit.feature
+          : unit.kind === 'drop-group'
+            ? u.group === unit.group && JSON.stringify(u.members) === JSON.stringify(unit.members)
+            : true
+      if (u.kind !== unit.kind || u.side !== unit.side || u.refit !== unit.refit || u.seed !== unit.seed || !sameSet) {
         throw new UserError(`Unit ${unit.id} in ${found.source} is not the unit this run plans (its seed or kind differ). No report was written.`, 'Run plan, every shard and merge with the same plumbline version.')
       }
       used.add(unit.id)

@@ -18,7 +18,7 @@ import { availableParallelism } from 'node:os'
 import Tinypool from 'tinypool'
 import type { Dataset, FeatureMatrix } from '../../core/data/dataset.ts'
 import { InternalError } from '../../core/errors.ts'
-import { executeInProcess, measureSidesWith, type ExecuteUnits, type UnitResult, type WorkUnit } from '../../core/gate/work-units.ts'
+import { executeInProcess, leftOut, measureSidesWith, type ExecuteUnits, type UnitResult, type WorkUnit } from '../../core/gate/work-units.ts'
 import { sideRefitSeeds, type RefitMeasurement, type SideRows } from '../../core/measure-side.ts'
 import { binFeatures, type BinnedFeatures } from '../../core/models/gbt/bin-features.ts'
 import type { MeasureJob, MeasureSides } from '../../core/run-gate.ts'
@@ -86,7 +86,7 @@ function shareSide(job: MeasureJob, capped: SideRows): SharedSide {
   return { train, holdout: shareDataset(job.inputs.holdout), rows, ...(binned ? { binned } : {}) }
 }
 
-/** One unit of a built-in side as one job of the pool: a refit (fit, score, importance) or a drop-column refit's score. */
+/** One unit of a built-in side as one job of the pool: a refit (fit, score, importance) or a drop-column refit's score (one feature or a group left out). */
 async function inPool(pool: Tinypool, job: MeasureJob, side: SharedSide, unit: WorkUnit): Promise<UnitResult> {
   const { onRefit, metric, ...options } = job.options
   const base = { side: unit.side, refit: unit.refit, seed: unit.seed, train: side.train, holdout: side.holdout, rows: side.rows, binned: side.binned, options: { ...options, metricName: metric.name }, builtin: job.builtin! }
@@ -98,9 +98,9 @@ async function inPool(pool: Tinypool, job: MeasureJob, side: SharedSide, unit: W
     })
     return { kind: 'refit', part }
   }
-  const task: RefitTask = { ...base, leaveOut: [unit.feature] }
+  const task: RefitTask = { ...base, leaveOut: leftOut(unit) }
   const score = await (pool.run(task) as Promise<number>).catch((error: unknown) => {
-    throw new InternalError(`a drop-column refit (without ${unit.feature}, refit ${unit.refit + 1}) of the ${unit.side} side failed in a worker thread:\n${error instanceof Error ? (error.stack ?? error.message) : String(error)}`)
+    throw new InternalError(`a drop-column refit (without ${leftOut(unit).join(', ')}, refit ${unit.refit + 1}) of the ${unit.side} side failed in a worker thread:\n${error instanceof Error ? (error.stack ?? error.message) : String(error)}`)
   })
   return { kind: 'drop-column', score }
 }

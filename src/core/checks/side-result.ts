@@ -26,6 +26,8 @@ export interface SideResult {
   readonly losses?: readonly number[]
   /** Drop-column (LOCO) importance in loss units, for the features refitted without. */
   readonly dropColumns?: Readonly<Record<string, DropColumnEstimate>>
+  /** The same for the groups refitted without all their members at once, by group name. */
+  readonly dropGroups?: Readonly<Record<string, DropColumnEstimate>>
   /** 'draws-only' when the model was loaded, not refitted. */
   readonly noiseCovers: 'refits-and-draws' | 'draws-only'
 }

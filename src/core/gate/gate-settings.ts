@@ -20,6 +20,9 @@ import type { BuiltinLearnerSettings } from '../models/builtin-fit.ts'
  *   relative standard error near 1/sqrt(2·199) = 5% (Efron & Tibshirani 1993, ch. 6).
  * - slices for the leakage check: each value of a categorical feature with at most 20 values, judged
  *   when it has at least 30 holdout rows (binary: 30 of each class), so one AUC is not a few rows' luck.
+ * - grouped drop-column refits drill down into at most 4 members of a group, one by one: automatic
+ *   groups are single-linkage chains and can be long, and 4 members (each `refits` more fits) show
+ *   a pair or a triple splitting the credit at a bounded cost.
  * - automatic groups: Spearman's rho on at most 5000 training rows; its standard error near rho = 0.9
  *   is about (1 − rho²)/sqrt(n) = 0.003 (Fisher's z, common practice), far below the threshold's scale.
  */
@@ -30,6 +33,7 @@ export const fixedSettings = {
   singleFeatureMaxExtra: 20,
   slices: { maxLevels: 20, minRows: 30 },
   correlationRows: 5000,
+  dropGroupMembers: 4,
   scoreBlockAtSds: 3,
   pairedBootstrapReplicates: 200,
 } as const
@@ -85,6 +89,8 @@ export function gateSettings(config: GateConfig) {
     evaluationRows: config.importance.evaluationRows,
     referenceRows: config.importance.referenceRows,
     dropColumnTop: config.importance.dropColumnTop,
+    dropGroupTop: config.importance.dropGroupTop,
+    dropGroupMembers: fixedSettings.dropGroupMembers,
     groups,
     // Row caps (data.max_train_rows, data.max_holdout_rows), and which table the reference rows are,
     // so that a reference that is the training rows or the holdout follows its table's sample.

@@ -65,7 +65,7 @@ export function judgeViews(inputs: {
   }
   const sliced = judgeSlices(inputs)
   findings.push(...sliced.findings)
-  const carried = checkGroupCarried(inputs.results.head.importances, inputs.touched, inputs.settings.checks.correlatedGroups)
+  const carried = checkGroupCarried(inputs.results.head, inputs.touched, inputs.settings.checks.correlatedGroups)
   // A member of a group that carries it shares its work with the others: its own sensitivity falling
   // or rising is the redundancy the group finding reports, not a change of its own.
   const members = new Map(carried.flatMap((f) => inputs.results.head.importances.filter((u) => u.isGroup && u.name === f.evidence.group).flatMap((g) => g.members.map((m) => [m, g.name] as const))))

@@ -45,7 +45,12 @@ export function measureJob(
       concurrentFits: model.kind === 'command',
       ...(settings.sensitivity ? { sensitivity: settings.sensitivity } : {}),
       ...(measuredSlices.length > 0 && settings.checks.slices.action !== 'off' ? { slices: measuredSlices } : {}),
-      dropColumns: { top: settings.dropColumnTop, also: dropAlso.slice(0, settings.singleFeatureMaxExtra) },
+      dropColumns: {
+        top: settings.dropColumnTop,
+        also: dropAlso.slice(0, settings.singleFeatureMaxExtra),
+        groupTop: settings.dropGroupTop,
+        groupMembers: settings.dropGroupMembers,
+      },
     },
     ...(model.kind === 'builtin' ? { builtin: { task: settings.task, settings: settings.learner } } : {}),
   }

@@ -10,12 +10,14 @@ import type { SideInputs } from './gate-inputs.ts'
 export function sideResult(side: 'base' | 'head', data: SideInputs, measured: SideMeasurement, single: SeparationResult, metric: MetricName): SideResult {
   const losses = measured.scores.map((s) => lossOfScore(metric, s))
   const dropColumns: Record<string, DropColumnEstimate> = Object.create(null)
+  const dropGroups: Record<string, DropColumnEstimate> = Object.create(null)
   for (const d of measured.dropColumns ?? []) {
-    dropColumns[d.name] = dropColumnImportance(losses, d.scores.map((s) => lossOfScore(metric, s)))
+    ;(d.isGroup ? dropGroups : dropColumns)[d.name] = dropColumnImportance(losses, d.scores.map((s) => lossOfScore(metric, s)))
   }
   return {
     losses,
     dropColumns,
+    dropGroups,
     side,
     features: data.train.features.map((f) => ({ name: f.name, kind: f.kind })),
     scores: measured.scores,

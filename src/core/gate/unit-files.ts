@@ -45,6 +45,9 @@ export interface EncodedUnit {
   readonly refit: number
   readonly seed: number
   readonly feature?: string
+  /** A drop-group unit's group and its members. */
+  readonly group?: string
+  readonly members?: readonly string[]
   readonly result: unknown
 }
 
@@ -80,6 +83,7 @@ export function encodeUnit(unit: WorkUnit, result: UnitResult): EncodedUnit {
     refit: unit.refit,
     seed: unit.seed,
     ...(unit.kind === 'drop-column' ? { feature: unit.feature } : {}),
+    ...(unit.kind === 'drop-group' ? { group: unit.group, members: unit.members } : {}),
     result: encodeUnitResult(result),
   }
 }
@@ -129,6 +133,7 @@ const dropResult = z.strictObject({ score: number })
 const unitSchema = z.discriminatedUnion('kind', [
   z.strictObject({ id: text, kind: z.literal('refit'), side, refit: index, seed: index, result: refitResult }),
   z.strictObject({ id: text, kind: z.literal('drop-column'), side, refit: index, seed: index, feature: text, result: dropResult }),
+  z.strictObject({ id: text, kind: z.literal('drop-group'), side, refit: index, seed: index, group: text, members: list(text), result: dropResult }),
 ])
 
 const sideDigest = z.strictObject({ commit: z.string().regex(/^[0-9a-f]{40}([0-9a-f]{24})?$/).nullable(), data: sha256 })
@@ -188,7 +193,19 @@ export function readPartialFile(textContent: string, source: string): DecodedPar
     throw new UserError(`${source} is not a valid partial result file: ${describeIssue(result.error.issues[0])}.`, 'Run plumbline shard again to rewrite it; partial files are not meant to be edited.')
   }
   const file = result.data
-  return { ...file, units: file.units.map((u) => ({ id: u.id, kind: u.kind, side: u.side, refit: u.refit, seed: u.seed, ...('feature' in u ? { feature: u.feature } : {}), result: toResult(u.result) })) }
+  return {
+    ...file,
+    units: file.units.map((u) => ({
+      id: u.id,
+      kind: u.kind,
+      side: u.side,
+      refit: u.refit,
+      seed: u.seed,
+      ...('feature' in u ? { feature: u.feature } : {}),
+      ...('group' in u ? { group: u.group, members: u.members } : {}),
+      result: toResult(u.result),
+    })),
+  }
 }
 
 /** A cache entry's text, or undefined when it is unreadable or not for `key` and `id` (then it is never used). */

@@ -5,13 +5,14 @@
  *
  * Two stages, because the drop-column candidates are ranked by the full refits' importances:
  * 1. refits: per side, refit r (fit, score, permutation importance; one unit for a loaded model);
- * 2. drop-columns: per side, feature f and refit r (the same seed, fitted without f), for the
- *    features `dropColumnNames` picks from the combined first stage.
+ * 2. drop-columns: per side, feature f and refit r (the same seed, fitted without f), and group g
+ *    and refit r (the same seed, fitted without all of g's members), for the leave-out sets
+ *    `leaveOutSets` picks from the combined first stage.
  * Combining is the same pure code whatever executed the units, so the numbers, and the report,
  * are the same (test/core/gate/work-units.test.ts, test/adapters/check/shard-merge.test.ts).
  */
 import { selectFeatures } from '../data/dataset.ts'
-import { dropColumnNames } from '../measure-drop-columns.ts'
+import { leaveOutSets, type DropColumnScores, type LeaveOutSet } from '../measure-drop-columns.ts'
 import {
   combineRefits,
   measureRefit,
@@ -28,7 +29,7 @@ import type { MeasureJob, MeasureSides } from './gate-inputs.ts'
 export type UnitStage = 'refits' | 'drop-columns'
 
 interface UnitBase {
-  /** Unique within a run, readable: `base/refit-2`, `head/refit-1/without/<feature>`. */
+  /** Unique within a run, readable: `base/refit-2`, `head/refit-1/without/<feature>`, `head/refit-1/without-group/<group>`. */
   readonly id: string
   readonly side: 'base' | 'head'
   /** 0-based refit index; the seed is the full refit's. */
@@ -45,9 +46,17 @@ export interface DropColumnUnit extends UnitBase {
   /** The feature left out. */
   readonly feature: string
 }
-export type WorkUnit = RefitUnit | DropColumnUnit
+export interface DropGroupUnit extends UnitBase {
+  readonly kind: 'drop-group'
+  /** The group left out, and its members (all left out together). */
+  readonly group: string
+  readonly members: readonly string[]
+}
+export type WorkUnit = RefitUnit | DropColumnUnit | DropGroupUnit
+/** The units of the second stage: a refit without one feature, or without a group's members. */
+export type LeaveOutUnit = DropColumnUnit | DropGroupUnit
 
-/** What a unit computes: a refit's part of its side's measurement, or a drop-column refit's holdout score. */
+/** What a unit computes: a refit's part of its side's measurement, or a drop-column (or drop-group) refit's holdout score. */
 export type UnitResult = { readonly kind: 'refit'; readonly part: RefitMeasurement } | { readonly kind: 'drop-column'; readonly score: number }
 
 /** What an executor may read besides the units: both sides' jobs and their capped rows (sideRows). */
@@ -70,6 +79,7 @@ function unitCost(job: MeasureJob, rows: SideRows, kind: WorkUnit['kind']): numb
   const features = job.inputs.train.features.length
   const fit = job.inputs.model ? 0 : job.inputs.train.rows * features
   if (kind === 'drop-column') return job.inputs.train.rows * Math.max(features - 1, 1)
+  if (kind === 'drop-group') return job.inputs.train.rows * Math.max(features - 2, 1)
   const units = features + job.options.groups.length
   const predictions = (rows.evaluation.rows + rows.slices.reduce((n, s) => n + s.rows.length, 0)) * units * job.options.draws
   return fit + predictions + job.inputs.holdout.rows
@@ -81,6 +91,15 @@ export function refitUnitId(side: 'base' | 'head', refit: number): string {
 
 export function dropColumnUnitId(side: 'base' | 'head', refit: number, feature: string): string {
   return `${side}/refit-${refit + 1}/without/${feature}`
+}
+
+export function dropGroupUnitId(side: 'base' | 'head', refit: number, group: string): string {
+  return `${side}/refit-${refit + 1}/without-group/${group}`
+}
+
+/** The features a second-stage unit leaves out. */
+export function leftOut(unit: LeaveOutUnit): readonly string[] {
+  return unit.kind === 'drop-group' ? unit.members : [unit.feature]
 }
 
 /** Both sides' capped rows, computed once per run (every executor and combineRefits use these). */
@@ -118,38 +137,47 @@ export function combineSides(context: UnitContext, units: readonly RefitUnit[], 
   return [combine(0), combine(1)]
 }
 
-/** Stage 2: the drop-column refits each side's first stage asks for (none for a loaded model or one refit). */
-export function planDropColumnUnits(context: UnitContext, combined: readonly [SideMeasurement, SideMeasurement]): DropColumnUnit[] {
-  return context.jobs.flatMap((job, j) => {
+/** Stage 2: the drop-column refits each side's first stage asks for (none for a loaded model or one refit): features, then groups. */
+export function planDropColumnUnits(context: UnitContext, combined: readonly [SideMeasurement, SideMeasurement]): LeaveOutUnit[] {
+  return context.jobs.flatMap((job, j): LeaveOutUnit[] => {
     const request = job.options.dropColumns
     if (!request || !job.inputs.fit || job.inputs.model) return []
     const seeds = combined[j].refitSeeds
     if (seeds.length < 2) return []
-    const cost = unitCost(job, context.rows[j], 'drop-column')
-    return dropColumnNames(job.inputs.train, request, rankedFeatureNames(combined[j])).flatMap((feature) =>
-      seeds.map((seed, refit) => ({ kind: 'drop-column' as const, id: dropColumnUnitId(job.inputs.side, refit, feature), side: job.inputs.side, refit, seed, feature, cost })),
+    const side = job.inputs.side
+    const sets = leaveOutSets(job.inputs.train, request, job.options.groups, combined[j].importances, rankedFeatureNames(combined[j]))
+    return sets.flatMap((set) =>
+      seeds.map((seed, refit): LeaveOutUnit => {
+        const common = { side, refit, seed }
+        return set.isGroup
+          ? { kind: 'drop-group', id: dropGroupUnitId(side, refit, set.name), ...common, group: set.name, members: set.members, cost: unitCost(job, context.rows[j], 'drop-group') }
+          : { kind: 'drop-column', id: dropColumnUnitId(side, refit, set.name), ...common, feature: set.name, cost: unitCost(job, context.rows[j], 'drop-column') }
+      }),
     )
   })
 }
 
-/** The side measurements with their drop-column scores, in planDropColumnUnits order (feature, then refit). */
+/** The side measurements with their drop-column scores, in planDropColumnUnits order (leave-out set, then refit). */
 export function withDropColumns(
   combined: readonly [SideMeasurement, SideMeasurement],
-  units: readonly DropColumnUnit[],
+  units: readonly LeaveOutUnit[],
   results: readonly UnitResult[],
 ): [SideMeasurement, SideMeasurement] {
   const sides = combined.map((measured, j) => {
     const side = j === 0 ? 'base' : 'head'
-    const byFeature = new Map<string, number[]>()
+    const bySet = new Map<string, { set: LeaveOutSet; scores: number[] }>()
     units.forEach((unit, k) => {
       if (unit.side !== side) return
       const result = results[k]
       if (!result || result.kind !== 'drop-column') throw new RangeError(`withDropColumns: no drop-column score for ${unit.id}`)
-      const scores = byFeature.get(unit.feature) ?? []
-      scores[unit.refit] = result.score
-      byFeature.set(unit.feature, scores)
+      const set: LeaveOutSet = unit.kind === 'drop-group' ? { name: unit.group, members: unit.members, isGroup: true } : { name: unit.feature, members: [unit.feature], isGroup: false }
+      const key = `${set.isGroup}:${set.name}`
+      const entry = bySet.get(key) ?? { set, scores: [] }
+      entry.scores[unit.refit] = result.score
+      bySet.set(key, entry)
     })
-    return { ...measured, dropColumns: [...byFeature].map(([name, scores]) => ({ name, scores })) }
+    const dropColumns: DropColumnScores[] = [...bySet.values()].map(({ set, scores }) => ({ ...set, scores }))
+    return { ...measured, dropColumns }
   })
   return [sides[0], sides[1]]
 }
@@ -178,7 +206,7 @@ export const executeInProcess: ExecuteUnits = async (units, context) => {
     const job = context.jobs[sideIndex[unit.side]]
     if (job.inputs.model) return Promise.resolve(job.inputs.model)
     if (!job.inputs.fit) throw new RangeError(`executeInProcess: the ${unit.side} side has neither a model nor a fit`)
-    return job.inputs.fit({ side: unit.side, seed: unit.seed, refit: unit.refit, leaveOut: unit.kind === 'drop-column' ? [unit.feature] : [] })
+    return job.inputs.fit({ side: unit.side, seed: unit.seed, refit: unit.refit, leaveOut: unit.kind === 'refit' ? [] : leftOut(unit) })
   }
   const prefetched = units.map((unit) => (context.jobs[sideIndex[unit.side]].options.concurrentFits && !context.jobs[sideIndex[unit.side]].inputs.model ? fitOf(unit) : undefined))
   // Awaited below in order, but the failure that surfaces is the first in time: a fit that failed
@@ -202,7 +230,7 @@ export const executeInProcess: ExecuteUnits = async (units, context) => {
   return results
 }
 
-/** One unit given its fitted model: measureRefit's part, or the drop-column refit's holdout score. */
+/** One unit given its fitted model: measureRefit's part, or the drop-column (or drop-group) refit's holdout score. */
 export async function executeWithModel(unit: WorkUnit, model: Model, job: MeasureJob, rows: SideRows): Promise<UnitResult> {
   if (unit.kind === 'refit') return { kind: 'refit', part: await measureRefit(model, job.inputs, job.options, rows, unit.refit) }
   const holdout = job.inputs.holdout

@@ -85,6 +85,7 @@ export const defaultImportance = deepFreeze({
   evaluationRows: 20_000,
   groupThreshold: 0.9,
   dropColumnTop: 1,
+  dropGroupTop: 1,
 })
 
 export const defaultChecks: ChecksConfig = deepFreeze({

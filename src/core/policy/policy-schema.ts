@@ -196,6 +196,7 @@ const importanceSchema = mapping({
   reference_rows: wholeNumber(1).default(defaultImportance.referenceRows),
   evaluation_rows: wholeNumber(2).default(defaultImportance.evaluationRows),
   drop_column_top: wholeNumber(0, 100).default(defaultImportance.dropColumnTop),
+  drop_group_top: wholeNumber(0, 100).default(defaultImportance.dropGroupTop),
   groups: z.preprocess(
     (raw) => (raw === null ? {} : raw),
     z.record(z.string(), nameList('a list of column names, such as [distance_km, stop_count]'), { error: 'a mapping of group names to lists of columns' }),
@@ -467,6 +468,7 @@ function toGateConfig(policy: PolicyDocument): GateConfig {
       referenceRows: importance.reference_rows,
       evaluationRows: importance.evaluation_rows,
       dropColumnTop: importance.drop_column_top,
+      dropGroupTop: importance.drop_group_top,
       groups: nullPrototype(Object.entries(importance.groups)),
       groupThreshold: importance.group_threshold,
     },

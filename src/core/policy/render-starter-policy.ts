@@ -263,6 +263,7 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(1, `reference_rows: ${defaultImportance.referenceRows}`),
     optional(1, `evaluation_rows: ${defaultImportance.evaluationRows}`),
     optional(1, `drop_column_top: ${defaultImportance.dropColumnTop}`, 'features per side also refitted without (drop-column)'),
+    optional(1, `drop_group_top: ${defaultImportance.dropGroupTop}`, 'feature groups per side also refitted without all members at once'),
     optional(1, 'groups:', 'columns permuted together and reported as one'),
     optional(2, `group_name: ${example(numeric, ['column_a', 'column_b'])}`),
     optional(1, `group_threshold: ${defaultImportance.groupThreshold}`, 'automatic groups: numeric columns with |Spearman| at or above this'),

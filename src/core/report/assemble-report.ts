@@ -105,6 +105,7 @@ export function featureRows(
             ? { singleFeatureScore: side.singleFeatureSeparation[u.name] }
             : {}),
           ...(side.dropColumns?.[u.name] && !u.isGroup ? { dropColumn: dropColumnOf(side.dropColumns[u.name]) } : {}),
+          ...(side.dropGroups?.[u.name] && u.isGroup ? { dropColumn: dropColumnOf(side.dropGroups[u.name]) } : {}),
         },
       ]),
     )

@@ -249,7 +249,8 @@ function dropColumnChart(report: GateReport, maxRows: number): string {
   if (rows.length === 0) return ''
   const scale = scaleOf(rows.flatMap((x) => [x.drop!.mean, x.drop!.lower, x.drop!.upper]))
   const cells = rows.map(({ row, drop }) => {
-    const title = `${row.name}: drop-column loss ${formatNumber(drop!.mean)} [${formatNumber(drop!.lower)}, ${formatNumber(drop!.upper)}]`
+    const grouped = row.isGroup && row.head ? `, all members left out at once; permuted together ${formatNumber(row.head.mean)} [${formatNumber(row.head.lower)}, ${formatNumber(row.head.upper)}]` : ''
+    const title = `${row.name}: drop-column loss ${formatNumber(drop!.mean)} [${formatNumber(drop!.lower)}, ${formatNumber(drop!.upper)}]${grouped}`
     return (
       `<div class="name" data-feature="${e(row.name)}">${nameHtml(row.name)}</div>` +
       `<svg height="20" data-feature="${e(row.name)}" role="img" aria-label="${e(title)}"><line class="zero" x1="${at(scale, 0)}" x2="${at(scale, 0)}" y1="0" y2="20"/>` +
@@ -257,7 +258,7 @@ function dropColumnChart(report: GateReport, maxRows: number): string {
       `<circle class="drop" cx="${at(scale, drop!.mean)}" cy="10" r="4.5"><title>${e(title)}</title></circle></svg>`
     )
   })
-  return `<h2>Drop-column results</h2><p class="note">How much the head's holdout loss grows when the model is refitted without the feature, with its 95% interval.</p><div class="chart">${cells.join('')}${axis(scale, 'loss growth')}</div>`
+  return `<h2>Drop-column results</h2><p class="note">How much the head's holdout loss grows when the model is refitted without the feature (a group: without all its members at once), with its 95% interval.</p><div class="chart">${cells.join('')}${axis(scale, 'loss growth')}</div>`
 }
 
 function table(t: TextTable): string {

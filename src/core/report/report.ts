@@ -67,8 +67,9 @@ export interface SideImportance {
   /** A one-feature built-in model's holdout AUC (binary) or R² (regression), when it was computed. */
   readonly singleFeatureScore?: number
   /**
-   * Drop-column importance (LOCO), when this feature was refitted without: the holdout loss without
-   * it minus the loss with it, over matched refits, in loss units (lossOfScore), with its interval.
+   * Drop-column importance (LOCO), when this feature was refitted without (on a group's row: when
+   * the group was refitted without all its members at once): the holdout loss without it minus the
+   * loss with it, over matched refits, in loss units (lossOfScore), with its interval.
    */
   readonly dropColumn?: {
     readonly loss: number

@@ -519,14 +519,27 @@ export function readDropColumn(row: FeatureRow): { mean: number; lower: number; 
   return null
 }
 
+/**
+ * The largest drop-column losses of features, then (one more line, when a group was refitted
+ * without all its members at once) each such group's loss beside its grouped permutation importance.
+ */
 function dropColumnLines(report: GateReport): string[] {
   const rows = report.features.map((row) => ({ row, drop: readDropColumn(row) })).filter((x) => x.drop !== null)
-  if (rows.length === 0) return []
-  const shown = rows
+  const interval = (x: { mean: number; lower: number; upper: number }) => `${formatNumber(x.mean)} [${formatNumber(x.lower)}, ${formatNumber(x.upper)}]`
+  const features = rows
+    .filter(({ row }) => !row.isGroup)
     .sort((a, b) => b.drop!.mean - a.drop!.mean)
     .slice(0, 3)
-    .map(({ row, drop }) => `${row.name} ${formatNumber(drop!.mean)} [${formatNumber(drop!.lower)}, ${formatNumber(drop!.upper)}]`)
-  return [`Drop-column loss (refitted without the feature), largest: ${shown.join('; ')}.`]
+    .map(({ row, drop }) => `${row.name} ${interval(drop!)}`)
+  const groups = rows
+    .filter(({ row }) => row.isGroup)
+    .sort((a, b) => b.drop!.mean - a.drop!.mean)
+    .slice(0, 2)
+    .map(({ row, drop }) => `${row.name} ${interval(drop!)}${drop!.isAboveNoise === false ? ' (within reseed noise)' : ''}` + (row.head ? `, permuted together ${interval(row.head)}` : ''))
+  return [
+    ...(features.length > 0 ? [`Drop-column loss (refitted without the feature), largest: ${features.join('; ')}.`] : []),
+    ...(groups.length > 0 ? [`Drop-column loss of correlated groups (refitted without all members at once): ${groups.join('; ')}.`] : []),
+  ]
 }
 
 /** The first `maxRows` rows, then one "N more rows" row when rows were cut. */

@@ -152,6 +152,46 @@ describe('plumbline plan, shard and merge (built-in learner)', () => {
   }, 60_000)
 })
 
+describe('plumbline plan, shard, merge and --cache with a feature group (grouped drop-column units)', () => {
+  let repo: TestRepository
+  let folder: string
+  let single: GateReport
+  beforeAll(async () => {
+    // The policy group route is above the floor on the base, so the base refits without both its
+    // members at once (drop_group_top 1), and without each member alone (the drill-down).
+    repo = leakRepository(smallPolicy({ extra: '  groups:\n    route: [distance_km, stop_count]\n' }))
+    folder = mkdtempSync(join(tmpdir(), 'plumbline-shards-groups-'))
+    single = await runCheck({ cwd: repo.root, baseRef: 'main', headRef: 'pr' })
+  }, 120_000)
+  afterAll(() => {
+    repo.remove()
+    rmSync(folder, { recursive: true, force: true })
+  })
+
+  it('merges 2 shards, group units included, into the single-machine report, byte for byte apart from timings', async () => {
+    const merged = await sharded(repo, 2, folder)
+    expect(deterministic(merged)).toBe(deterministic(single))
+    const drops = readdirSync(join(folder, 'drops-2')).flatMap((name) => JSON.parse(readFileSync(join(folder, 'drops-2', name), 'utf8')).units.map((u: { id: string }) => u.id))
+    // On the base the group is above the floor: refitted without as a whole, and stop_count (not the
+    // top feature) alone. On the head the leak takes the model and the group falls to the floor.
+    expect(drops.filter((id: string) => id.endsWith('/without-group/route')).sort()).toEqual([1, 2, 3].map((r) => `base/refit-${r}/without-group/route`))
+    expect(drops).toContain('base/refit-1/without/stop_count')
+    const route = single.features.find((f) => f.name === 'route' && f.isGroup)!
+    expect(route.base?.dropColumn?.perRefit).toHaveLength(3)
+    expect(route.head?.dropColumn).toBeUndefined()
+  }, 120_000)
+
+  it('reads the group units back from the cache, with the report of a fresh check', async () => {
+    const cache = join(folder, 'cache')
+    const first = await runCheck({ cwd: repo.root, baseRef: 'main', headRef: 'pr', cache })
+    expect(first.cache?.measured).toContain('base/refit-2/without-group/route')
+    const second = await runCheck({ cwd: repo.root, baseRef: 'main', headRef: 'pr', cache })
+    expect(second.cache?.measured).toEqual([])
+    expect(second.cache?.reused).toContain('base/refit-2/without-group/route')
+    expect(deterministic(second)).toBe(deterministic(single))
+  }, 120_000)
+})
+
 const skipTraining = missingReference('python3-sklearn', 'shard-merge.test.ts', 'the training-command shards') ?? missingReference('python3-onnx', 'shard-merge.test.ts', 'the training-command shards')
 
 describe.skipIf(Boolean(skipTraining))('plumbline plan, shard and merge (a training command)', () => {

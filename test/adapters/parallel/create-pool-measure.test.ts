@@ -49,8 +49,9 @@ function job(side: 'base' | 'head', task: Task, learner: BuiltinLearnerSettings[
       groups: [{ name: 'route', members: ['stop_count', 'hour'] }],
       evaluationRows: 200, // below the holdout's 300, so the capped sample is exercised
       referenceRows: 400,
-      // Drop-column refits too: the top feature and one named, each pair a job of its own on the pool.
-      dropColumns: { top: 1, also: ['hour'] },
+      // Drop-column refits too: the top feature and one named, each pair a job of its own on the pool;
+      // and the group 'route' (it holds the named feature) with both its members left out at once.
+      dropColumns: { top: 1, also: ['hour'], groupTop: 1, groupMembers: 4 },
     },
     builtin,
   }
@@ -75,6 +76,9 @@ describe('createPoolMeasure(environment).measureSides', () => {
         expect(base.perRefit).toHaveLength(4)
         expect(base.dropColumns.map((d) => d.name)).toContain('hour')
         expect(base.dropColumns[0].scores).toHaveLength(4)
+        const group = base.dropColumns.find((d) => d.isGroup)
+        expect(group).toMatchObject({ name: 'route', members: ['stop_count', 'hour'] })
+        expect(group!.scores).toHaveLength(4)
         expect(progress.sort()).toEqual(['base 1/4', 'base 2/4', 'base 3/4', 'base 4/4', 'head 1/4', 'head 2/4', 'head 3/4', 'head 4/4'])
       } finally {
         await pool.close()

@@ -40,6 +40,12 @@ describe('automatic correlated groups in the gate', () => {
     expect(carried[0].severity).toBe('info')
     expect(carried[0].title).toMatch(/carried by (its|their) correlated group: distance_km, route_km\.$/)
     expect(carried[0].message).toContain('route_km is new or changed here: redundant with the rest of the group, not harmless.')
+    // The group holds the added route_km, so it is refitted without both copies at once: that loses
+    // much, while refitting without either copy alone loses no more than reseed noise.
+    expect(group.dropColumn?.isAboveNoise).toBe(true)
+    expect(row('route_km').dropColumn?.isAboveNoise).toBe(false)
+    expect(row('distance_km').dropColumn?.isAboveNoise).toBe(false)
+    expect(carried[0].message).toMatch(/refitted without one at a time, distance_km by [-0-9.e]+ \(within reseed noise\), route_km by [-0-9.e]+ \(within reseed noise\)/)
     // distance_km now shares its work with route_km, so it moves the predictions about half as much: the
     // group explains it, so that shift is info, not a warning.
     const shift = report.findings.find((f) => f.kind === 'sensitivity-shift' && f.feature === 'distance_km')

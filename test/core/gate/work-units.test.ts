@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { UserError } from '../../../src/core/errors.ts'
 import { encodeUnit, partialFormat, readCacheEntry, cacheEntryText, readPartialFile } from '../../../src/core/gate/unit-files.ts'
-import { assignShards, type RefitUnit, type UnitResult } from '../../../src/core/gate/work-units.ts'
+import { assignShards, type DropGroupUnit, type RefitUnit, type UnitResult } from '../../../src/core/gate/work-units.ts'
 
 const unit = (cost: number, k: number): RefitUnit => ({ kind: 'refit', id: `u${k}`, side: 'base', refit: k, seed: k, cost })
 
@@ -82,6 +82,16 @@ describe('partial result files and cache entries', () => {
       'shard/p.json is not a valid partial result file: (the top level): Unrecognized key: "extra". | Run plumbline shard again to rewrite it; partial files are not meant to be edited.',
     )
     expect(message('{')).toMatch(/^shard\/p\.json is not JSON \(/)
+  })
+
+  it('reads back a drop-group unit with its group, its members and its score', () => {
+    const unit: DropGroupUnit = { kind: 'drop-group', id: 'head/refit-2/without-group/route', side: 'head', refit: 1, seed: 9, group: 'route', members: ['distance_km', 'stop_count'], cost: 1 }
+    const stage2 = { ...file, shard: { stage: 'drop-columns', index: 1, of: 1 }, units: [encodeUnit(unit, { kind: 'drop-column', score: -0 })] }
+    const [back] = readPartialFile(JSON.stringify(stage2), 'p.json').units
+    expect(back).toMatchObject({ id: unit.id, kind: 'drop-group', side: 'head', refit: 1, seed: 9, group: 'route', members: ['distance_km', 'stop_count'] })
+    expect(back.result.kind === 'drop-column' && Object.is(back.result.score, -0)).toBe(true)
+    const text = cacheEntryText(digest, unit, { kind: 'drop-column', score: 0.25 })
+    expect(readCacheEntry(text, digest, unit.id)).toEqual({ kind: 'drop-column', score: 0.25 })
   })
 
   it('uses a cache entry only for its own key and unit', () => {

@@ -6,7 +6,7 @@ import { formatKeyPath } from '../../../src/core/policy/format-key-path.ts'
 describe('describePolicyKey(path)', () => {
   it('gives the keys of a section in the order of the schema', () => {
     expect(describePolicyKey(['checks'])?.keys).toEqual(['leakage', 'rank_shift', 'score', 'holdout_rows', 'sensitivity', 'gain', 'correlated_groups', 'slices'])
-    expect(describePolicyKey(['importance'])?.keys).toEqual(['metric', 'draws', 'refits', 'reference_rows', 'evaluation_rows', 'drop_column_top', 'groups', 'group_threshold'])
+    expect(describePolicyKey(['importance'])?.keys).toEqual(['metric', 'draws', 'refits', 'reference_rows', 'evaluation_rows', 'drop_column_top', 'drop_group_top', 'groups', 'group_threshold'])
   })
 
   it('gives the default of a setting, as YAML would write it', () => {

@@ -142,6 +142,7 @@ importance:
   reference_rows: 500
   evaluation_rows: 700
   drop_column_top: 2
+  drop_group_top: 3
   groups:
     route: [distance_km, stop_count]
   group_threshold: 0.8
@@ -249,7 +250,7 @@ model:
           columnSubsample: 0.25,
           maxBins: 2,
         },
-        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, dropColumnTop: 2, groups: { route: ['distance_km', 'stop_count'] }, groupThreshold: 0.8 },
+        importance: { metric: 'auc', draws: 1000, refits: 100, referenceRows: 500, evaluationRows: 700, dropColumnTop: 2, dropGroupTop: 3, groups: { route: ['distance_km', 'stop_count'] }, groupThreshold: 0.8 },
         checks: {
           leakage: { action: 'warn', dominanceShare: 0.6, runnerUpRatio: 4, singleFeaturePower: 0.95, relativePower: 0.7, liftWarn: 0.2, liftBlock: 0.4, sliceWarnPower: 0.8, reviewedColumns: ['distance_km'] },
           rankShift: { action: 'block', falseDiscoveryRate: 0.1, minPositions: 3, agreementPercentile: 2.5 },
@@ -373,7 +374,7 @@ model:
 `
       expect(failure(text)).toEqual({
         message:
-          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, drop_column_top, groups, group_threshold). Did you mean 'refits'?",
+          "plumbline.yml:9:3: unknown key 'refts' in importance (allowed: metric, draws, refits, reference_rows, evaluation_rows, drop_column_top, drop_group_top, groups, group_threshold). Did you mean 'refits'?",
         fix: "Rename 'refts' to 'refits', or delete it.",
       })
     })
@@ -540,6 +541,10 @@ model:
       expect(failure(`${minimal}importance:\n  refits: 2.5\n`).message).toBe(
         "plumbline.yml:14:11: importance.refits must be a whole number from 1 to 100; got '2.5'.",
       )
+      expect(failure(`${minimal}importance:\n  drop_group_top: two\n`)).toEqual({
+        message: "plumbline.yml:14:19: importance.drop_group_top must be a whole number from 0 to 100; got 'two'.",
+        fix: 'Set importance.drop_group_top to a whole number from 0 to 100, or delete the line to use the default (1).',
+      })
       expect(failure(minimal.replace('seed: 7', 'seed: 0x10')).message).toBe(
         "plumbline.yml:4:7: seed must be a whole number from 0 to 4294967295; got '0x10'.",
       )
