@@ -7888,7 +7888,7 @@ var require_tensor_factory_impl = __commonJS({
           throw new Error("Can not access image data");
         }
       } else if (isString) {
-        return new Promise((resolve10, reject) => {
+        return new Promise((resolve11, reject) => {
           const canvas = createCanvas();
           const context = createCanvasContext(canvas);
           if (!image || !context) {
@@ -7904,7 +7904,7 @@ var require_tensor_factory_impl = __commonJS({
             const img = context.getImageData(0, 0, canvas.width, canvas.height);
             bufferToTensorOptions.height = canvas.height;
             bufferToTensorOptions.width = canvas.width;
-            resolve10((0, exports.bufferToTensor)(img.data, bufferToTensorOptions));
+            resolve11((0, exports.bufferToTensor)(img.data, bufferToTensorOptions));
           };
         });
       } else {
@@ -8834,10 +8834,10 @@ var require_backend2 = __commonJS({
         __classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").endProfiling();
       }
       async run(feeds, fetches, options) {
-        return new Promise((resolve10, reject) => {
+        return new Promise((resolve11, reject) => {
           setImmediate(() => {
             try {
-              resolve10(__classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").run(feeds, fetches, options));
+              resolve11(__classPrivateFieldGet(this, _OnnxruntimeSessionHandler_inferenceSession, "f").run(feeds, fetches, options));
             } catch (e2) {
               reject(e2);
             }
@@ -8851,10 +8851,10 @@ var require_backend2 = __commonJS({
         return Promise.resolve();
       }
       async createInferenceSessionHandler(pathOrBuffer, options) {
-        return new Promise((resolve10, reject) => {
+        return new Promise((resolve11, reject) => {
           setImmediate(() => {
             try {
-              resolve10(new OnnxruntimeSessionHandler(pathOrBuffer, options || {}));
+              resolve11(new OnnxruntimeSessionHandler(pathOrBuffer, options || {}));
             } catch (e2) {
               reject(e2);
             }
@@ -8924,7 +8924,7 @@ var require_aspromise = __commonJS({
       var params = new Array(arguments.length - 1), offset = 0, index2 = 2, pending = true;
       while (index2 < arguments.length)
         params[offset++] = arguments[index2++];
-      return new Promise(function executor(resolve10, reject) {
+      return new Promise(function executor(resolve11, reject) {
         params[offset] = function callback(err2) {
           if (pending) {
             pending = false;
@@ -8934,7 +8934,7 @@ var require_aspromise = __commonJS({
               var params2 = new Array(arguments.length - 1), offset2 = 0;
               while (offset2 < params2.length)
                 params2[offset2++] = arguments[offset2];
-              resolve10.apply(null, params2);
+              resolve11.apply(null, params2);
             }
           }
         };
@@ -12160,7 +12160,7 @@ var require_path = __commonJS({
         return uncPrefix + prefix2 + parts.join("/");
       }
     );
-    path.resolve = function resolve10(originPath, includePath, alreadyNormalized) {
+    path.resolve = function resolve11(originPath, includePath, alreadyNormalized) {
       var resolvedUrl = resolveUrl(originPath, includePath);
       if (resolvedUrl)
         return resolvedUrl;
@@ -12526,7 +12526,7 @@ var require_mapfield = __commonJS({
         keepComments ? this.comment : void 0
       ]);
     };
-    MapField.prototype.resolve = function resolve10() {
+    MapField.prototype.resolve = function resolve11() {
       if (this.resolved)
         return this;
       if (types2.mapKey[this.keyType] === void 0)
@@ -12612,7 +12612,7 @@ var require_method = __commonJS({
         this.parsedOptions
       ]);
     };
-    Method.prototype.resolve = function resolve10() {
+    Method.prototype.resolve = function resolve11() {
       if (this.resolved)
         return this;
       if (this.parent) {
@@ -14419,7 +14419,7 @@ var require_field = __commonJS({
         keepComments ? this.comment : void 0
       ]);
     };
-    Field.prototype.resolve = function resolve10() {
+    Field.prototype.resolve = function resolve11() {
       if (this.resolved)
         return this;
       if ((this.typeDefault = types2.defaults[this.type]) === void 0) {
@@ -14709,7 +14709,7 @@ var require_object = __commonJS({
       this.parent = null;
       this.resolved = false;
     };
-    ReflectionObject.prototype.resolve = function resolve10() {
+    ReflectionObject.prototype.resolve = function resolve11() {
       if (this.resolved)
         return this;
       if (this.root instanceof Root)
@@ -16553,7 +16553,7 @@ var require_protobufjs = __commonJS({
 // src/adapters/cli/main.ts
 import { constants as constants2 } from "node:fs";
 import { access as access3, rename as rename3, rm as rm6, stat as stat5, writeFile as writeFile5 } from "node:fs/promises";
-import { basename as basename3, dirname as dirname5, join as join8 } from "node:path";
+import { basename as basename4, dirname as dirname6, join as join9 } from "node:path";
 
 // src/core/errors.ts
 var UserError = class extends Error {
@@ -18283,7 +18283,7 @@ ${items}`;
       ...layout2.details ? details : []
     ];
   }
-  const join9 = (paragraphs) => `${paragraphs.join("\n\n")}
+  const join10 = (paragraphs) => `${paragraphs.join("\n\n")}
 `;
   const fits = (layout2) => {
     const paragraphs = compose(layout2);
@@ -18293,7 +18293,7 @@ ${items}`;
   for (const keepDetails of [true, false]) {
     for (const rows of rowSteps) {
       const layout2 = { rows, details: keepDetails, findings: findingItems.length };
-      if (fits(layout2)) return join9(compose(layout2));
+      if (fits(layout2)) return join10(compose(layout2));
     }
   }
   const mostFindings = (rows) => {
@@ -18309,7 +18309,7 @@ ${items}`;
   const shortTable = Math.min(10, maxTableRows);
   const besideShortTable = mostFindings(shortTable);
   const layout = besideShortTable > 0 ? { rows: shortTable, details: false, findings: besideShortTable } : { rows: 0, details: false, findings: mostFindings(0) };
-  return fitOrThrow(join9(compose(layout)), maxCharacters);
+  return fitOrThrow(join10(compose(layout)), maxCharacters);
 }
 
 // node_modules/zod/v4/classic/external.js
@@ -23379,7 +23379,7 @@ var recursive = /* @__PURE__ */ new WeakMap();
 var NONE = 0;
 var ASSUMED = 1;
 var PROVEN = 2;
-function isRecursive(inst, stack, resolve10) {
+function isRecursive(inst, stack, resolve11) {
   const cached2 = recursive.get(inst);
   if (cached2 !== void 0)
     return cached2 ? PROVEN : NONE;
@@ -23389,7 +23389,7 @@ function isRecursive(inst, stack, resolve10) {
   let result = NONE;
   const check2 = (child2) => {
     if (result !== PROVEN && child2?._zod) {
-      const answer = isRecursive(child2, stack, resolve10);
+      const answer = isRecursive(child2, stack, resolve11);
       if (answer > result)
         result = answer;
     }
@@ -23400,7 +23400,7 @@ function isRecursive(inst, stack, resolve10) {
       const desc = Object.getOwnPropertyDescriptor(sh, key2);
       if (spread && !desc.enumerable)
         continue;
-      const child2 = desc.get ? ASSUMED : desc.value?._zod ? isRecursive(desc.value, stack, resolve10) : NONE;
+      const child2 = desc.get ? ASSUMED : desc.value?._zod ? isRecursive(desc.value, stack, resolve11) : NONE;
       if (child2 > answer)
         answer = child2;
     }
@@ -23464,7 +23464,7 @@ function isRecursive(inst, stack, resolve10) {
       break;
     // `$ZodLazy` caches its inner on the def, so a resolved edge is followed exactly
     case "lazy": {
-      const inner = def._cachedInner ?? (resolve10 ? inst._zod.innerType : void 0);
+      const inner = def._cachedInner ?? (resolve11 ? inst._zod.innerType : void 0);
       merge2(inner ? isRecursive(inner, stack, false) : ASSUMED);
       break;
     }
@@ -38361,7 +38361,7 @@ function renderText(report, options = {}) {
 }
 
 // src/adapters/check/run-check.ts
-import { isAbsolute as isAbsolute3, relative as relative3, resolve as resolve6 } from "node:path";
+import { isAbsolute as isAbsolute3, relative as relative3, resolve as resolve7 } from "node:path";
 
 // node_modules/csv-parse/lib/api/CsvError.js
 var CsvError = class _CsvError extends Error {
@@ -46321,13 +46321,35 @@ async function resolveConfinedOutput(target, options) {
 }
 
 // src/adapters/files/read-dataset.ts
-import { resolve as resolve2 } from "node:path";
+import { resolve as resolve3 } from "node:path";
+
+// src/adapters/files/closest-file.ts
+import { readdirSync } from "node:fs";
+import { basename as basename2, dirname as dirname2, join as join2, resolve as resolve2 } from "node:path";
+function closestFiles(root2, path, limit = 3) {
+  const wanted = basename2(path).toLowerCase();
+  let names;
+  try {
+    names = readdirSync(resolve2(root2, dirname2(path)), { withFileTypes: true }).filter((entry) => entry.isFile()).map((entry) => entry.name);
+  } catch {
+    return [];
+  }
+  const allowed = Math.max(2, Math.floor(wanted.length / 4));
+  return names.map((name) => ({ name, distance: levenshteinDistance(wanted, name.toLowerCase()) })).filter((candidate) => candidate.distance <= allowed).sort((a, b) => a.distance - b.distance || (a.name < b.name ? -1 : 1)).slice(0, limit).map((candidate) => dirname2(path) === "." ? candidate.name : join2(dirname2(path), candidate.name));
+}
+
+// src/adapters/files/read-dataset.ts
 async function readDataset(path, options = {}) {
   const { cwd = process.cwd(), source = path, key: key2, rootName, ...parseOptions } = options;
   const problem = (what) => options.source === void 0 ? new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, "Check the path: a relative path is read from that directory.") : new UserError(
-    `Cannot read the data file ${source}: ${what} in that side's commit.`,
-    "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'."
+    `Cannot read the data file ${source}${key2 ? ` (${key2} in the policy)` : ""}: ${what} in that side's commit.`,
+    suggestion(what) ?? "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'."
   );
+  const suggestion = (what) => {
+    if (what !== "there is no such file" || key2 === void 0) return void 0;
+    const near = closestFiles(cwd, path);
+    return near.length > 0 ? `Did you mean ${near.map((n) => `'${n}'`).join(" or ")}? Set ${key2} to the file's path relative to the repository root.` : void 0;
+  };
   const limits = {
     maxBytes: readLimits.data,
     what: "data file",
@@ -46336,7 +46358,7 @@ async function readDataset(path, options = {}) {
   };
   let bytes2;
   try {
-    bytes2 = key2 === void 0 ? await readRegularFile(resolve2(cwd, path), { ...limits, name: `The data file '${path}'` }) : await readConfinedFile({ key: key2, path, root: cwd, rootName: rootName ?? cwd }, limits);
+    bytes2 = key2 === void 0 ? await readRegularFile(resolve3(cwd, path), { ...limits, name: `The data file '${path}'` }) : await readConfinedFile({ key: key2, path, root: cwd, rootName: rootName ?? cwd }, limits);
   } catch (error62) {
     if (error62.code === "EACCES") throw problem("permission denied");
     if (error62 instanceof UserError && / is a directory, not a regular file/.test(error62.message)) throw problem("it is a directory");
@@ -46347,7 +46369,7 @@ async function readDataset(path, options = {}) {
 
 // src/adapters/files/read-parquet-dataset.ts
 import { readFile, realpath as realpath2 } from "node:fs/promises";
-import { isAbsolute as isAbsolute2, relative as relative2, resolve as resolve4 } from "node:path";
+import { isAbsolute as isAbsolute2, relative as relative2, resolve as resolve5 } from "node:path";
 
 // node_modules/hyparquet/src/constants.js
 var ParquetTypes = [
@@ -47446,7 +47468,7 @@ function matchFilter(record3, filter, strict = true) {
     return !filter.$nor.some((subQuery) => matchFilter(record3, subQuery, strict));
   }
   return Object.entries(filter).every(([field, condition]) => {
-    const value3 = resolve3(record3, field);
+    const value3 = resolve4(record3, field);
     if (typeof condition !== "object" || condition === null || Array.isArray(condition)) {
       return equals(value3, condition, strict);
     }
@@ -47638,7 +47660,7 @@ function unionRanges(a, b) {
   }
   return out;
 }
-function resolve3(record3, path) {
+function resolve4(record3, path) {
   let value3 = record3;
   for (const part of path.split(".")) {
     value3 = value3?.[part];
@@ -54683,7 +54705,7 @@ function cellText(value3, source, column, row) {
 // src/adapters/files/read-parquet-dataset.ts
 async function readParquetDataset(path, options = {}) {
   const { cwd = process.cwd(), source = path, ...parseOptions } = options;
-  const fullPath = resolve4(cwd, path);
+  const fullPath = resolve5(cwd, path);
   const outside2 = (from, to) => {
     const r = relative2(from, to);
     return r === ".." || r.startsWith(`..${"/"}`) || r.startsWith("..\\") || isAbsolute2(r);
@@ -54723,7 +54745,7 @@ function readTable(path, options = {}) {
 import { execFile } from "node:child_process";
 import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
-import { join as join2 } from "node:path";
+import { join as join3 } from "node:path";
 import { promisify } from "node:util";
 
 // src/adapters/security/child-environment.ts
@@ -54844,8 +54866,8 @@ async function defaultBase(root2) {
   );
 }
 async function addWorktree(root2, commit) {
-  const parent = await mkdtemp(join2(tmpdir(), "plumbline-side-"));
-  const path = join2(parent, "tree");
+  const parent = await mkdtemp(join3(tmpdir(), "plumbline-side-"));
+  const path = join3(parent, "tree");
   await git(root2, ["worktree", "add", "--detach", "--quiet", path, commit], `check out ${commit.slice(0, 12)} into a worktree`).catch(
     async (error62) => {
       await rm(parent, { recursive: true, force: true });
@@ -54879,7 +54901,7 @@ import { spawn } from "node:child_process";
 // src/adapters/security/finish-child.ts
 var PIPE_GRACE_MILLISECONDS = 1e3;
 function waitForChild(child2) {
-  return new Promise((resolve10) => {
+  return new Promise((resolve11) => {
     let graceTimer;
     let exited;
     let done = false;
@@ -54887,7 +54909,7 @@ function waitForChild(child2) {
       if (done) return;
       done = true;
       clearTimeout(graceTimer);
-      resolve10(outcome);
+      resolve11(outcome);
     };
     child2.on("error", (error62) => finish({ code: null, signal: null, startError: error62 }));
     child2.on("exit", (code2, signal) => {
@@ -54949,7 +54971,7 @@ ${tail || "(no output)"}`,
 
 // src/adapters/check/load-side-model.ts
 import { readdir } from "node:fs/promises";
-import { basename as basename2, dirname as dirname2, join as join4, resolve as resolve5 } from "node:path";
+import { basename as basename3, dirname as dirname3, join as join5, resolve as resolve6 } from "node:path";
 
 // src/adapters/onnx/load-onnx-model.ts
 var import_onnxruntime_node = __toESM(require_dist2(), 1);
@@ -55888,7 +55910,7 @@ var AGREEMENT = 1e-5;
 // src/adapters/training/create-command-fit.ts
 import { mkdtemp as mkdtemp2, rm as rm3 } from "node:fs/promises";
 import { tmpdir as tmpdir2 } from "node:os";
-import { join as join3 } from "node:path";
+import { join as join4 } from "node:path";
 
 // src/adapters/training/create-semaphore.ts
 function createSemaphore(limit) {
@@ -55900,7 +55922,7 @@ function createSemaphore(limit) {
       running++;
       return Promise.resolve();
     }
-    return new Promise((resolve10) => waiting.push(resolve10));
+    return new Promise((resolve11) => waiting.push(resolve11));
   };
   const release = () => {
     const next = waiting.shift();
@@ -55985,7 +56007,7 @@ ${describeLog(logTail)}`,
 }
 function runInProcessGroup(request, env) {
   const log = new LogTail();
-  return new Promise((resolve10) => {
+  return new Promise((resolve11) => {
     const child2 = spawn2("/bin/sh", ["-c", 'exec 2>&1; exec /bin/sh -c "$1"', "plumbline-train", request.command], {
       cwd: request.cwd,
       env: childEnvironment(env),
@@ -56022,7 +56044,7 @@ function runInProcessGroup(request, env) {
       clearTimeout(timeout);
       clearTimeout(killTimer);
       request.signal?.removeEventListener("abort", onAbort);
-      resolve10({ log, timedOut, stoppedBecause, ...outcome });
+      resolve11({ log, timedOut, stoppedBecause, ...outcome });
     });
   });
 }
@@ -56092,14 +56114,14 @@ function createCommandFit(options) {
       if (firstFailure !== void 0) {
         throw new UserError(`The training command for ${label2} was not run, because ${firstFailure}.`);
       }
-      const directory = await mkdtemp2(join3(options.temporaryRoot ?? tmpdir2(), "plumbline-train-"));
+      const directory = await mkdtemp2(join4(options.temporaryRoot ?? tmpdir2(), "plumbline-train-"));
       try {
         const result = await runTrainingCommand({
           command: options.command,
           cwd: side3.cwd,
           timeoutSeconds: options.timeoutSeconds,
           env: trainingEnvironment(request, side3),
-          outputPath: join3(directory, "model.onnx"),
+          outputPath: join4(directory, "model.onnx"),
           label: label2,
           signal: stop.signal
         });
@@ -56138,7 +56160,7 @@ async function loadSideModel(config2, side3) {
         maxBytes: readLimits.model,
         what: "ONNX model",
         missing: () => new UserError(
-          `No ONNX model at ${model.path} on the ${side3.side} side (looked for ${resolve5(side3.checkout, path)}).`,
+          `No ONNX model at ${model.path} on the ${side3.side} side (looked for ${resolve6(side3.checkout, path)}).`,
           "Commit the model file on both sides, build it in 'prepare', or fix 'model.onnx.path' in the policy."
         ),
         limitFix: "Export a smaller model (fewer or shallower trees), or check that model.onnx.path names the model file."
@@ -56173,8 +56195,8 @@ async function loadSideModel(config2, side3) {
         sides: {
           [side3.side]: {
             cwd: side3.checkout,
-            train: resolve5(side3.checkout, config2.data.train),
-            holdout: resolve5(side3.checkout, config2.data.holdout.path)
+            train: resolve6(side3.checkout, config2.data.train),
+            holdout: resolve6(side3.checkout, config2.data.holdout.path)
           }
         },
         task: config2.task,
@@ -56188,13 +56210,13 @@ async function loadSideModel(config2, side3) {
 }
 async function resolveModelPath(checkout, pattern, sideName) {
   if (!pattern.includes("*")) return pattern;
-  const glob = basename2(pattern);
-  if (dirname2(pattern).includes("*")) {
+  const glob = basename3(pattern);
+  if (dirname3(pattern).includes("*")) {
     throw new UserError(`model.onnx.path '${pattern}': '*' is allowed in the file name only.`, "Name the folder exactly, e.g. 'models/*.onnx'.");
   }
   const dir = await resolveConfined(
-    { key: "model.onnx.path", path: dirname2(pattern), root: checkout, rootName: `the ${sideName} checkout` },
-    () => new UserError(`model.onnx.path '${pattern}': there is no folder ${dirname2(pattern)} on the ${sideName} side.`, "Fix 'model.onnx.path' in the policy, or create the folder in 'prepare'.")
+    { key: "model.onnx.path", path: dirname3(pattern), root: checkout, rootName: `the ${sideName} checkout` },
+    () => new UserError(`model.onnx.path '${pattern}': there is no folder ${dirname3(pattern)} on the ${sideName} side.`, "Fix 'model.onnx.path' in the policy, or create the folder in 'prepare'.")
   );
   const matcher = new RegExp(`^${glob.split("*").map((p) => p.replace(/[.+?^${}()|[\]\\]/g, "\\$&")).join(".*")}$`);
   const names = (await readdir(dir).catch(() => [])).filter((n) => matcher.test(n)).sort();
@@ -56204,7 +56226,7 @@ async function resolveModelPath(checkout, pattern, sideName) {
       "Make the pattern match one model file, or name the file exactly."
     );
   }
-  return join4(dirname2(pattern), names[0]);
+  return join5(dirname3(pattern), names[0]);
 }
 
 // src/adapters/version.ts
@@ -56603,10 +56625,10 @@ var WorkerInfo = class extends AsynchronouslyCreatedResource {
     this.sharedBuffer = new Int32Array(new SharedArrayBuffer(kFieldCount * Int32Array.BYTES_PER_ELEMENT));
   }
   async destroy(timeout) {
-    let resolve10;
+    let resolve11;
     let reject;
     const ret = new Promise((res, rej) => {
-      resolve10 = res;
+      resolve11 = res;
       reject = rej;
     });
     if (this.teardown && this.filename) {
@@ -56622,7 +56644,7 @@ var WorkerInfo = class extends AsynchronouslyCreatedResource {
       this.clearIdleTimeout();
       for (const taskInfo of this.taskInfos.values()) taskInfo.done(Errors.ThreadTermination());
       this.taskInfos.clear();
-      resolve10();
+      resolve11();
     });
     return ret;
   }
@@ -56830,17 +56852,17 @@ var ThreadPool = class {
     if (name == null) name = this.options.name;
     if (typeof filename !== "string" && !(filename instanceof URL2)) return Promise.reject(Errors.FilenameNotProvided());
     filename = maybeFileURLToPath(filename);
-    let resolve10;
+    let resolve11;
     let reject;
     const ret = new Promise((res, rej) => {
-      resolve10 = res;
+      resolve11 = res;
       reject = rej;
     });
     const taskInfo = new TaskInfo(task, transferList, filename, name, (err2, result) => {
       this.completed++;
       if (err2 !== null) reject(err2);
-      if (this.shouldRecycleWorker(taskInfo)) this._removeWorker(taskInfo.workerInfo).then(() => this._ensureMinimumWorkers()).then(() => this._ensureEnoughWorkersForTaskQueue()).then(() => resolve10(result)).catch(reject);
-      else resolve10(result);
+      if (this.shouldRecycleWorker(taskInfo)) this._removeWorker(taskInfo.workerInfo).then(() => this._ensureMinimumWorkers()).then(() => this._ensureEnoughWorkersForTaskQueue()).then(() => resolve11(result)).catch(reject);
+      else resolve11(result);
     }, signal, this.publicInterface.asyncResource.asyncId(), channel);
     if (signal !== null) {
       if (signal.aborted) return Promise.reject(new AbortError());
@@ -57152,7 +57174,7 @@ function unitCacheKey(toolVersion2, unit, job, identity) {
 
 // src/adapters/check/unit-cache.ts
 import { access, readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
-import { join as join5 } from "node:path";
+import { join as join6 } from "node:path";
 
 // src/core/gate/unit-files.ts
 var partialFormat = { format: "plumbline-partial", version: 1 };
@@ -57315,7 +57337,7 @@ function parseJson(textContent, source, what) {
 
 // src/adapters/files/make-folder.ts
 import { mkdir, stat as stat3 } from "node:fs/promises";
-import { dirname as dirname3 } from "node:path";
+import { dirname as dirname4 } from "node:path";
 function describeWriteError(error62) {
   const code2 = error62.code;
   const words = {
@@ -57339,7 +57361,7 @@ async function makeFolder(folder) {
       if (!found.isDirectory()) throw Object.assign(new Error(`${current} is not a folder`), { code: "ENOTDIR" });
       break;
     }
-    const parent = dirname3(current);
+    const parent = dirname4(current);
     if (parent === current) break;
     missing.push(current);
     current = parent;
@@ -57368,14 +57390,14 @@ async function createUnitCache(options) {
     const keys = units.map((unit) => keyOf(unit, context.jobs[unit.side === "base" ? 0 : 1]));
     if (options.store) {
       const wanted = keys.filter((key2) => key2 !== void 0);
-      const absent = (await Promise.all(wanted.map(async (key2) => await access(join5(options.directory, `${key2}.json`)).then(() => true, () => false) ? null : key2))).filter((key2) => key2 !== null);
+      const absent = (await Promise.all(wanted.map(async (key2) => await access(join6(options.directory, `${key2}.json`)).then(() => true, () => false) ? null : key2))).filter((key2) => key2 !== null);
       if (absent.length > 0) await options.store.restore(options.directory, absent);
     }
     const found = await Promise.all(
       units.map(async (unit, k) => {
         const key2 = keys[k];
         if (!key2) return void 0;
-        const text5 = await readFile2(join5(options.directory, `${key2}.json`), "utf8").catch(() => void 0);
+        const text5 = await readFile2(join6(options.directory, `${key2}.json`), "utf8").catch(() => void 0);
         return text5 === void 0 ? void 0 : readCacheEntry(text5, key2, unit.id);
       })
     );
@@ -57395,7 +57417,7 @@ async function createUnitCache(options) {
     for (const [k, unit] of units.entries()) {
       const key2 = keys[k];
       if (found[k] || !key2) continue;
-      const path = join5(options.directory, `${key2}.json`);
+      const path = join6(options.directory, `${key2}.json`);
       const temporary = `${path}.${process.pid}.tmp`;
       try {
         await writeFile(temporary, cacheEntryText(key2, unit, results[k]));
@@ -57441,7 +57463,7 @@ async function localExecutor(opened, cache, store) {
   if (pool) opened.onClose(pool.close);
   const execute = pool?.execute ?? executeInProcess;
   if (!cache) return { execute };
-  const unitCache = await createUnitCache({ directory: resolve6(cache), ...store ? { store } : {}, toolVersion, identities: opened.identities, execute });
+  const unitCache = await createUnitCache({ directory: resolve7(cache), ...store ? { store } : {}, toolVersion, identities: opened.identities, execute });
   return { execute: unitCache.execute, cache: unitCache };
 }
 async function withOpenedCheck(request, body) {
@@ -57551,12 +57573,12 @@ function columnsOf(train3) {
   return [...train3.features.map((f) => f.name), ...train3.ids ? [train3.ids.name] : []];
 }
 function toRepoPath(path) {
-  return (isAbsolute3(path) ? relative3(resolve6("/"), path) : path).split("\\").join("/");
+  return (isAbsolute3(path) ? relative3(resolve7("/"), path) : path).split("\\").join("/");
 }
 
 // src/adapters/check/run-shards.ts
 import { readdir as readdir2, readFile as readFile3, rename as rename2, rm as rm5, stat as stat4, writeFile as writeFile2 } from "node:fs/promises";
-import { join as join6, resolve as resolve7 } from "node:path";
+import { join as join7, resolve as resolve8 } from "node:path";
 var maxPartialBytes = 1024 * 1024 * 1024;
 function digestsOf(opened) {
   const inputs = inputDigests({ toolVersion, policyText: opened.policyText, base: opened.base, head: opened.head });
@@ -57621,7 +57643,7 @@ function runShard(request) {
       shard: { stage, index: request.index, of: request.of },
       units: mine.map((unit, k) => encodeUnit(unit, results[k]))
     };
-    const path = await writePartial(resolve7(request.cwd, request.out), `plumbline-partial-${stage}-${request.index}-of-${request.of}.json`, file2);
+    const path = await writePartial(resolve8(request.cwd, request.out), `plumbline-partial-${stage}-${request.index}-of-${request.of}.json`, file2);
     return { path, stage, units: mine.map((u) => u.id), reused: local.cache?.used.reused ?? [] };
   });
 }
@@ -57638,7 +57660,7 @@ function runMerge(request) {
 async function readPartials(paths, cwd, inputs, digest) {
   const files = [];
   for (const given of paths) {
-    const path = resolve7(cwd, given);
+    const path = resolve8(cwd, given);
     const info = await stat4(path).catch(() => null);
     if (!info) throw new UserError(`No folder or file ${given} (looked at ${path}).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
     if (info.isFile()) {
@@ -57649,7 +57671,7 @@ async function readPartials(paths, cwd, inputs, digest) {
     if (names.length === 0) {
       throw new UserError(`${given} holds no partial result file (plumbline-partial-*.json).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
     }
-    files.push(...names.map((n) => join6(path, n)));
+    files.push(...names.map((n) => join7(path, n)));
   }
   const read = [];
   for (const path of files) {
@@ -57725,7 +57747,7 @@ function partialLookup(partials, only) {
   };
 }
 async function writePartial(folder, name, file2) {
-  const path = join6(folder, name);
+  const path = join7(folder, name);
   const temporary = `${path}.${process.pid}.tmp`;
   try {
     await makeFolder(folder);
@@ -57983,7 +58005,7 @@ function closestOption(typed, options) {
 
 // src/adapters/cli/init.ts
 import { access as access2, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
-import { dirname as dirname4, join as join7, resolve as resolve8 } from "node:path";
+import { dirname as dirname5, join as join8, resolve as resolve9 } from "node:path";
 
 // src/core/policy/render-starter-policy.ts
 var labelNames = ["target", "label", "y", "outcome"];
@@ -58029,20 +58051,19 @@ function renderBlock(lines) {
   return body.map((b, i) => lines[i].note ? `${b.padEnd(width)}  # ${lines[i].note}` : b).join("\n");
 }
 function inferTask(target) {
-  if (!target) return { task: "binary", note: "guessed: set binary or regression once the target is set" };
+  if (!target) return { task: "binary", note: "guessed: set binary, multiclass or regression once the target is set" };
   if (target.distinct === 2) return { task: "binary", note: `guessed: '${target.name}' has two distinct values` };
   if (target.kind === "numeric") {
-    return { task: "regression", note: `guessed: '${target.name}' is numeric with ${withThousands(target.distinct)} distinct values` };
+    const few = target.distinct <= 10 ? "; if these are classes, set multiclass" : "";
+    return { task: "regression", note: `guessed: '${target.name}' is numeric with ${withThousands(target.distinct)} distinct values${few}` };
   }
-  return {
-    task: "binary",
-    note: `'${target.name}' has ${withThousands(target.distinct)} categories; plumbline handles two-class and numeric targets only`
-  };
+  return { task: "multiclass", note: `guessed: '${target.name}' has ${withThousands(target.distinct)} categories` };
 }
 function taskNote(task, target) {
   if (!target) return void 0;
   if (task === "binary" && target.distinct !== 2) return `check this: '${target.name}' has ${withThousands(target.distinct)} distinct values, binary needs two`;
   if (task === "regression" && target.kind !== "numeric") return `check this: '${target.name}' is not numeric`;
+  if (task === "multiclass" && target.distinct < 3) return `check this: '${target.name}' has ${withThousands(target.distinct)} distinct values, multiclass needs three or more`;
   return void 0;
 }
 function describeColumn(column, rows) {
@@ -58216,12 +58237,12 @@ function summarizeColumns(data) {
 // src/adapters/cli/init.ts
 async function init(command, io) {
   const root2 = await repositoryRoot(io.cwd).catch(() => io.cwd);
-  const output2 = resolve8(io.cwd, command.output);
+  const output2 = resolve9(io.cwd, command.output);
   if (!command.force && await exists(output2)) {
     throw new UserError(`${command.output} already exists.`, "Pass --force to overwrite it, or --output FILE to write elsewhere.");
   }
   const trainPath = command.train ?? await findTrainingTable(root2);
-  const text5 = await readFile4(resolve8(root2, trainPath), "utf8").catch(() => {
+  const text5 = await readFile4(resolve9(root2, trainPath), "utf8").catch(() => {
     throw new UserError(`Cannot read the training table ${trainPath} (looked in ${root2}).`, "Pass --train FILE with a CSV path relative to the repository root.");
   });
   const data = parseCsv(text5, { source: trainPath, requireTarget: false });
@@ -58231,16 +58252,16 @@ async function init(command, io) {
     throw new UserError(`--target '${command.target}' is not a column of ${trainPath}.`, `Columns: ${columns.map((c) => c.name).join(", ")}.`);
   }
   const holdout = holdoutPathFor(trainPath);
-  const holdoutPath = holdout !== trainPath && await exists(resolve8(root2, holdout)) ? holdout : void 0;
+  const holdoutPath = holdout !== trainPath && await exists(resolve9(root2, holdout)) ? holdout : void 0;
   const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task, ...holdoutPath ? { holdoutPath } : {} });
-  await makeFolder(dirname4(output2));
+  await makeFolder(dirname5(output2));
   await writeFile3(output2, policy);
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.
 `);
   return 0;
 }
 async function findTrainingTable(root2) {
-  const dir = join7(root2, "data");
+  const dir = join8(root2, "data");
   const files = await readdir3(dir).catch(() => []);
   const csvs = files.filter((f) => f.endsWith(".csv"));
   const train3 = csvs.filter((f) => /train/i.test(f));
@@ -58260,7 +58281,7 @@ async function exists(path) {
 
 // src/adapters/cli/shard-commands.ts
 import { writeFile as writeFile4 } from "node:fs/promises";
-import { resolve as resolve9 } from "node:path";
+import { resolve as resolve10 } from "node:path";
 async function runShardCommand(command, io) {
   const log = (line) => io.stderr(`${cleanOutsideText(line)}
 `);
@@ -58268,7 +58289,7 @@ async function runShardCommand(command, io) {
   if (command.name === "plan") {
     const plan = await runPlan({ ...sides, shards: command.shards });
     if (command.out) {
-      const path = resolve9(io.cwd, command.out);
+      const path = resolve10(io.cwd, command.out);
       await writeFile4(path, `${JSON.stringify(plan.file, null, 2)}
 `).catch((error62) => {
         throw new UserError(`Could not write --out ${path}: ${error62.code ?? error62.message}.`, "Name a file in a folder you can write to (--out FILE).");
@@ -58362,8 +58383,8 @@ async function planOutputs(command, cwd) {
     const existing = await stat5(full).catch(() => null);
     if (!existing?.isCharacterDevice()) {
       try {
-        await makeFolder(dirname5(full));
-        await access3(dirname5(full), constants2.W_OK);
+        await makeFolder(dirname6(full));
+        await access3(dirname6(full), constants2.W_OK);
       } catch (error62) {
         throw new UserError(`Could not write ${flag} ${path}: ${describeWriteError(error62)}.`, `Name a file in a folder you can write to (${flag} FILE).`);
       }
@@ -58389,8 +58410,8 @@ async function writeOutputs(command, full, cwd) {
           await writeFile5(path, texts[flag]);
           continue;
         }
-        await makeFolder(dirname5(path));
-        const temporary = join8(dirname5(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
+        await makeFolder(dirname6(path));
+        const temporary = join9(dirname6(path), `.${basename4(path)}.plumbline-${process.pid}.tmp`);
         staged.push({ temporary, path });
         await writeFile5(temporary, texts[flag]);
       } catch (error62) {

@@ -2,6 +2,7 @@ import { resolve } from 'node:path'
 import { parseCsv, type ParseCsvOptions } from '../../core/data/parse-csv.ts'
 import type { Dataset } from '../../core/data/dataset.ts'
 import { UserError } from '../../core/errors.ts'
+import { closestFiles } from './closest-file.ts'
 import { readConfinedFile, readLimits, readRegularFile } from './confined-file.ts'
 
 export type ReadDatasetOptions = Omit<ParseCsvOptions, 'source'> & {
@@ -32,9 +33,15 @@ export async function readDataset(path: string, options: ReadDatasetOptions = {}
     options.source === undefined
       ? new UserError(`Cannot read the data file '${path}' (resolved against ${cwd}): ${what}.`, 'Check the path: a relative path is read from that directory.')
       : new UserError(
-          `Cannot read the data file ${source}: ${what} in that side's commit.`,
-          "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'.",
+          `Cannot read the data file ${source}${key ? ` (${key} in the policy)` : ''}: ${what} in that side's commit.`,
+          suggestion(what) ??
+            "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'.",
         )
+  const suggestion = (what: string): string | undefined => {
+    if (what !== 'there is no such file' || key === undefined) return undefined
+    const near = closestFiles(cwd, path)
+    return near.length > 0 ? `Did you mean ${near.map((n) => `'${n}'`).join(' or ')}? Set ${key} to the file's path relative to the repository root.` : undefined
+  }
   const limits = {
     maxBytes: readLimits.data,
     what: 'data file',

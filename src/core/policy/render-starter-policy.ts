@@ -124,21 +124,21 @@ function renderBlock(lines: readonly Line[]): string {
 }
 
 function inferTask(target: StarterColumn | undefined): { task: Task; note: string } {
-  if (!target) return { task: 'binary', note: 'guessed: set binary or regression once the target is set' }
+  if (!target) return { task: 'binary', note: 'guessed: set binary, multiclass or regression once the target is set' }
   if (target.distinct === 2) return { task: 'binary', note: `guessed: '${target.name}' has two distinct values` }
   if (target.kind === 'numeric') {
-    return { task: 'regression', note: `guessed: '${target.name}' is numeric with ${withThousands(target.distinct)} distinct values` }
+    // A handful of codes (0, 1, 2) may be classes: say so beside the guess.
+    const few = target.distinct <= 10 ? '; if these are classes, set multiclass' : ''
+    return { task: 'regression', note: `guessed: '${target.name}' is numeric with ${withThousands(target.distinct)} distinct values${few}` }
   }
-  return {
-    task: 'binary',
-    note: `'${target.name}' has ${withThousands(target.distinct)} categories; plumbline handles two-class and numeric targets only`,
-  }
+  return { task: 'multiclass', note: `guessed: '${target.name}' has ${withThousands(target.distinct)} categories` }
 }
 
 function taskNote(task: Task, target: StarterColumn | undefined): string | undefined {
   if (!target) return undefined
   if (task === 'binary' && target.distinct !== 2) return `check this: '${target.name}' has ${withThousands(target.distinct)} distinct values, binary needs two`
   if (task === 'regression' && target.kind !== 'numeric') return `check this: '${target.name}' is not numeric`
+  if (task === 'multiclass' && target.distinct < 3) return `check this: '${target.name}' has ${withThousands(target.distinct)} distinct values, multiclass needs three or more`
   return undefined
 }
 

@@ -268,11 +268,22 @@ describe('plumbline check, what it says', () => {
     const result = await run(['check', '--base', 'main', '--head', 'pr'], repo.root)
     expect(result.code).toBe(2)
     expect(result.stderr).toContain(
-      "Cannot read the data file base: data/parcels.csv: there is no such file in that side's commit.\n" +
+      "Cannot read the data file base: data/parcels.csv (data.train in the policy): there is no such file in that side's commit.\n" +
         "Check the path in the policy (relative to the repository root), and that the file is committed on that side, or made by 'prepare'.\n",
     )
     expect(result.stderr).not.toMatch(/plumbline-[A-Za-z0-9]{6}|\/tmp\//)
     expect(result.stdout + result.stderr).not.toContain('A pass is not proof')
+  })
+
+  it('suggests the closest file beside a misspelt data path', async () => {
+    const policy = smallPolicy().replace('train: data/train.csv', 'train: data/trian.csv')
+    const repo = repository({ base: baseFiles({ policy }), head: { 'plumbline.yml': policy } })
+    const result = await run(['check', '--base', 'main', '--head', 'pr'], repo.root)
+    expect(result.code).toBe(2)
+    expect(result.stderr).toContain(
+      "Cannot read the data file base: data/trian.csv (data.train in the policy): there is no such file in that side's commit.\n" +
+        "Did you mean 'data/train.csv'? Set data.train to the file's path relative to the repository root.\n",
+    )
   })
 
   it('lists the closest column names when the target is misspelt', async () => {

@@ -27,7 +27,7 @@ const parcels: StarterColumn[] = [
   column('late', 'numeric', 2),
 ]
 
-const render = (columns: readonly StarterColumn[], extra: { suggestedTarget?: string; task?: 'binary' | 'regression' } = {}) =>
+const render = (columns: readonly StarterColumn[], extra: { suggestedTarget?: string; task?: 'binary' | 'regression' | 'multiclass' } = {}) =>
   renderStarterPolicy({ trainPath: 'data/train.csv', columns, rows: 5000, ...extra })
 
 /** Key paths of every line that sets a key, commented out or not (indentation two spaces per level). */
@@ -137,6 +137,17 @@ describe('renderStarterPolicy(input)', () => {
     expect(render(columns, { suggestedTarget: 'minutes_late', task: 'binary' })).toContain(
       "task: binary          # check this: 'minutes_late' has 380 distinct values, binary needs two",
     )
+  })
+
+  it('guesses multiclass for a text target with three or more categories, and asks about a few numeric codes', () => {
+    const columns = [column('service_tier', 'categorical', 3), column('distance_km', 'numeric', 4812)]
+    const text = render(columns, { suggestedTarget: 'service_tier' })
+    expect(text).toMatch(/task: multiclass +# guessed: 'service_tier' has 3 categories/)
+    expect(parsePolicy(text, { source }).task).toBe('multiclass')
+    expect(render(columns, { suggestedTarget: 'service_tier', task: 'regression' })).toMatch(/# check this: 'service_tier' is not numeric/)
+    const coded = [column('tier_code', 'numeric', 3), column('distance_km', 'numeric', 4812)]
+    expect(render(coded, { suggestedTarget: 'tier_code' })).toMatch(/task: regression +# guessed: 'tier_code' is numeric with 3 distinct values; if these are classes, set multiclass/)
+    expect(render(columns, { suggestedTarget: 'service_tier', task: 'multiclass' })).not.toContain('check this')
   })
 
   it('leaves a marked placeholder when no column looks like a label, and still parses', () => {
