@@ -185,3 +185,66 @@ describe('checkScoreRegression: the reseed-SD line between warn and block, and t
     expect(finding.evidence).toMatchObject({ pValue: 0, standardError: 0, worseningInReseedSds: null })
   })
 })
+
+describe('checkScoreRegression: with refits, a block also needs the worsening beyond the holdout rows\' own noise', () => {
+  // The refits: worsening 0.1, Welch p = 0.0024 and 6.32 pooled reseed SDs (values above). The paired
+  // bootstrap replicates [-0.1, -0.1 + d, -0.1 - d] have SD d exactly; the row test is one-sided
+  // normal on (worsening − tolerance) / d, p from scipy.stats.norm.sf (SciPy 1.10.1).
+  const wide = [0.8, 0.82, 0.78]
+  const narrow = [0.7, 0.71, 0.69]
+  const replicates = (d: number) => [-0.1, -0.1 + d, -0.1 - d]
+
+  it('blocks when the rows\' test is significant too: z = 0.1 / 0.06, p = 0.0477903522728147', () => {
+    const [finding] = checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: replicates(0.06) }, auc)
+    expect(finding.severity).toBe('block')
+    expect(finding.evidence.holdoutRowStandardError as number).toBeCloseTo(0.06, 14)
+    expect((finding.evidence.holdoutRowPValue as number) / 0.0477903522728147).toBeCloseTo(1, 6)
+    // The Welch statistics still come from the refits, not from the bootstrap.
+    expect(finding.evidence.standardError as number).toBeCloseTo(0.012909944487358039, 14)
+    expect(finding.message).not.toContain('It warns rather than blocks')
+  })
+
+  it('warns, and says why, when another sample of rows could well show no worsening: z = 0.1 / 0.07, p = 0.07656372550983476', () => {
+    const [finding] = checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: replicates(0.07) }, auc)
+    expect(finding.severity).toBe('warn')
+    expect((finding.evidence.holdoutRowPValue as number) / 0.07656372550983476).toBeCloseTo(1, 6)
+    expect(finding.message).toContain(
+      " It warns rather than blocks: against the holdout's own sampling noise (paired bootstrap of its rows, standard error 0.07) " +
+        'the worsening has one-sided p = 0.077, so another sample of rows could well show no worsening.',
+    )
+    // The same evidence at a looser level (0.1) clears the rows' noise and blocks.
+    expect(checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: replicates(0.07) }, { ...auc, alpha: 0.1 })[0].severity).toBe('block')
+  })
+
+  it('tests the rows on the worsening beyond the tolerance, as the refits are', () => {
+    // Tolerance 0.08 at level 0.2: the Welch p is 0.1104 (above), the rows' p for 0.02 / 0.01 is
+    // 0.022750131948179177 (scipy.stats.norm.sf(2)) and for 0.02 / 0.06 it is 0.3694413401817636.
+    const loose = { ...auc, tolerance: 0.08, alpha: 0.2 }
+    const [tight] = checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: replicates(0.01) }, loose)
+    expect((tight.evidence.holdoutRowPValue as number) / 0.022750131948179177).toBeCloseTo(1, 6)
+    expect(tight.severity).toBe('block')
+    const [noisy] = checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: replicates(0.06) }, loose)
+    expect((noisy.evidence.holdoutRowPValue as number) / 0.3694413401817636).toBeCloseTo(1, 6)
+    expect(noisy.severity).toBe('warn')
+  })
+
+  it('leaves a warn policy a warning without the block sentence, and names only the SD line when both hold', () => {
+    const [warned] = checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: replicates(0.07) }, { ...auc, action: 'warn' })
+    expect(warned.severity).toBe('warn')
+    expect(warned.message).not.toContain('It warns rather than blocks')
+    // Under the SD line (6.32 < 6.5) and within the rows' noise: a warning, the rows' sentence left out.
+    const [both] = checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: replicates(0.07) }, { ...auc, blockAtSds: 6.5 })
+    expect(both.severity).toBe('warn')
+    expect(both.message).not.toContain('It warns rather than blocks')
+  })
+
+  it('reads no row test from fewer than two replicates, nor without refits', () => {
+    const [one] = checkScoreRegression({ baseScores: wide, headScores: narrow, pairedBootstrap: [-0.1] }, auc)
+    expect(one.severity).toBe('block')
+    expect(one.evidence).not.toHaveProperty('holdoutRowPValue')
+    // One refit per side: the bootstrap is the test itself (z = 0.1 / 0.07), not a second one.
+    const [single] = checkScoreRegression({ baseScores: [0.8], headScores: [0.7], pairedBootstrap: replicates(0.07) }, { ...auc, alpha: 0.1 })
+    expect(single.severity).toBe('block')
+    expect(single.evidence).not.toHaveProperty('holdoutRowPValue')
+  })
+})
