@@ -67,3 +67,10 @@ describe('demoteConsequences(findings): which findings count as consequences of 
     expect(out).not.toBe(input)
   })
 })
+
+describe('demoteConsequences: only a blocking leak demotes', () => {
+  it('leaves everything as it is after a leak that only warns', () => {
+    const findings = [finding('leakage', 'warn', 'scan_delay_h'), finding('rank-shift', 'warn', 'stop_count'), finding('rank-agreement', 'warn')]
+    expect(demoteConsequences(findings)).toEqual(findings)
+  })
+})

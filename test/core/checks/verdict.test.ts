@@ -159,3 +159,68 @@ describe('orderFindings(findings, change): the report order', () => {
     expect(titles([make('leakage', 'warn', 'first', { share: 0.5 }), make('leakage', 'warn', 'second', { share: 0.5 })])).toEqual(['first', 'second'])
   })
 })
+
+describe('the order of findings: ties and the strength of evidence', () => {
+  const f = (kind: Finding['kind'], title: string, evidence: Finding['evidence'] = {}, feature?: string, severity: Severity = 'warn'): Finding => ({
+    kind,
+    severity,
+    ...(feature ? { feature } : {}),
+    title,
+    message: '',
+    evidence,
+  })
+  const none = { added: [], removed: [], changed: [] }
+  const titles = (findings: readonly Finding[]) => findings.map((x) => x.title)
+
+  it('keeps the input order within a severity (sortFindings) and among equal findings (orderFindings)', () => {
+    const findings = [f('rank-shift', 'w1'), f('rank-shift', 'w2'), f('leakage', 'b', {}, undefined, 'block'), f('rank-shift', 'w3'), f('rank-shift', 'w4')]
+    expect(titles(sortFindings(findings))).toEqual(['b', 'w1', 'w2', 'w3', 'w4'])
+    expect(titles(orderFindings(findings, none))).toEqual(['b', 'w1', 'w2', 'w3', 'w4'])
+  })
+
+  it('measures a rank shift in pooled refit SDs of both sides: |head − base| / sqrt((sb² + sh²) / 2)', () => {
+    // wide: 1 / sqrt((0 + 100) / 2) = 0.141; tight: 0.5 / sqrt((0 + 0.01) / 2) = 7.07; scaled: 2 / sqrt((16 + 16) / 2) = 0.5;
+    // exact: a change with no spread at all is infinitely strong; still: no change and no spread is 0.
+    const shifts = [
+      f('rank-shift', 'wide', { baseMean: 1, headMean: 2, baseRefitSd: 0, headRefitSd: 10 }),
+      f('rank-shift', 'scaled', { baseMean: 1, headMean: 3, baseRefitSd: 4, headRefitSd: 4 }),
+      f('rank-shift', 'still', { baseMean: 1, headMean: 1, baseRefitSd: 0, headRefitSd: 0 }),
+      f('rank-shift', 'tight', { baseMean: 1, headMean: 0.5, baseRefitSd: 0, headRefitSd: 0.1 }),
+      f('rank-shift', 'exact', { baseMean: 1, headMean: 0.9, baseRefitSd: 0, headRefitSd: 0 }),
+    ]
+    expect(titles(orderFindings(shifts, none))).toEqual(['exact', 'tight', 'scaled', 'wide', 'still'])
+  })
+
+  it('reads a leak by the largest of its one-feature, slice and share values, and a missing or non-finite value as 0', () => {
+    const leaks = [
+      f('leakage', 'share', { share: 0.6 }),
+      f('leakage', 'slice', { sliceSeparation: 0.97 }),
+      f('leakage', 'whole', { singleFeatureSeparation: 0.9 }),
+      f('leakage', 'none', { share: NaN, sliceSeparation: 'n/a' }),
+    ]
+    expect(titles(orderFindings([leaks[3], ...leaks.slice(0, 3)], none))).toEqual(['slice', 'whole', 'share', 'none'])
+    const scores = [f('score-regression', 'unknown', { worseningInReseedSds: NaN }), f('score-regression', 'two', { worseningInReseedSds: 2 })]
+    expect(titles(orderFindings(scores, none))).toEqual(['two', 'unknown'])
+  })
+
+  it('reads a ranking change by how far tau fell below its threshold, and a redistribution by its cause\'s share', () => {
+    const rankings = [f('rank-agreement', 'near', { kendallTau: 0.5, kendallTauThreshold: 0.55 }), f('rank-agreement', 'far', { kendallTau: 0.1, kendallTauThreshold: 0.55 })]
+    expect(titles(orderFindings(rankings, none))).toEqual(['far', 'near'])
+    const causes = [f('share-redistribution', 'small', { causeShare: 0.2 }), f('share-redistribution', 'large', { causeShare: 0.4 })]
+    expect(titles(orderFindings(causes, none))).toEqual(['large', 'small'])
+    // Kinds without a strength keep their order.
+    const slices = [f('slice-score', 's1', { worsening: 1 }), f('slice-score', 's2', { worsening: 3 })]
+    expect(titles(orderFindings(slices, none))).toEqual(['s1', 's2'])
+  })
+
+  it('puts a finding about a touched feature first, and not one about an untouched feature', () => {
+    const findings = [f('rank-shift', 'untouched', {}, 'distance_km'), f('rank-shift', 'no feature'), f('rank-shift', 'touched', {}, 'scan_delay_h')]
+    expect(titles(orderFindings(findings, { added: [], removed: [], changed: ['scan_delay_h'] }))).toEqual(['touched', 'untouched', 'no feature'])
+  })
+
+  it('lowers only a leading capitalised common word in the headline', () => {
+    expect(writeHeadline('warn', [f('group-carried', 'Zone_code is carried by The group.')])).toBe('Passed with warnings: Zone_code is carried by The group.')
+    expect(writeHeadline('warn', [f('score-regression', 'Holdout auc got worse.')])).toBe('Passed with warnings: holdout auc got worse.')
+    expect(writeHeadline('warn', [f('score-regression', 'Another finding.')])).toBe('Passed with warnings: Another finding.')
+  })
+})
