@@ -248,3 +248,37 @@ describe('checkScoreRegression: with refits, a block also needs the worsening be
     expect(single.evidence).not.toHaveProperty('holdoutRowPValue')
   })
 })
+
+describe('checkScoreRegression: the one-refit bootstrap branch and the SD line, at their edges', () => {
+  it('measures a lower-is-better worsening as head minus base', () => {
+    const [finding] = checkScoreRegression({ baseScores: [0.4, 0.41, 0.39], headScores: [0.5, 0.51, 0.49] }, { ...auc, metric: 'log-loss', higherIsBetter: false })
+    expect(finding.evidence.worsening as number).toBeCloseTo(0.1, 12)
+    expect(finding.evidence.baseMean as number).toBeCloseTo(0.4, 12)
+    expect(finding.evidence.headMean as number).toBeCloseTo(0.5, 12)
+  })
+
+  it('uses two bootstrap replicates, and takes the tolerance off before the normal tail', () => {
+    // Replicates −0.06 and −0.04: SD sqrt(0.0002) = 0.014142; worsening 0.05, tolerance 0.02:
+    // z = 0.03 / 0.014142 = 2.1213, p = 0.016947426762344633 (scipy.stats.norm.sf, SciPy 1.10.1).
+    const [finding] = checkScoreRegression({ baseScores: [0.8], headScores: [0.75], pairedBootstrap: [-0.06, -0.04] }, { ...auc, tolerance: 0.02 })
+    expect(finding.evidence.standardError as number).toBeCloseTo(Math.sqrt(0.0002), 14)
+    expect((finding.evidence.pValue as number) / 0.016947426762344).toBeCloseTo(1, 5)
+    expect(finding.evidence.worseningInReseedSds as number).toBeCloseTo(0.05 / Math.sqrt(0.0002), 10)
+  })
+
+  it('with refits on one side only, reads the spread from the bootstrap', () => {
+    // Base two refits, head one: no Welch test; the bootstrap SD 0.02 is the SE and the SD unit.
+    const [finding] = checkScoreRegression({ baseScores: [0.8, 0.82], headScores: [0.75], pairedBootstrap: [-0.06, -0.04, -0.08] }, { ...auc, blockAtSds: 3 })
+    expect(finding.evidence.welchDf).toBeNull()
+    // Worsening 0.81 − 0.75 = 0.06 over SD 0.02: 3 SDs.
+    expect(finding.evidence.worseningInReseedSds as number).toBeCloseTo(3, 10)
+  })
+
+  it('blocks at exactly blockAtSds reseed SDs (the line is "from ... on")', () => {
+    const evidence = { baseScores: [0.8], headScores: [0.75], pairedBootstrap: [-0.05, -0.03, -0.07] }
+    const sds = checkScoreRegression(evidence, auc)[0].evidence.worseningInReseedSds as number
+    expect(sds).toBeCloseTo(2.5, 12)
+    expect(checkScoreRegression(evidence, { ...auc, blockAtSds: sds })[0].severity).toBe('block')
+    expect(checkScoreRegression(evidence, { ...auc, blockAtSds: sds + 1e-9 })[0].severity).toBe('warn')
+  })
+})
