@@ -31,9 +31,8 @@ describe('groupConsequences: two strong new features, a fall to the floor and a 
     finding('rank-shift', 'warn', 'b'),
     finding('floor-drop', 'info', 'c'),
   ]
-  const out = groupConsequences(findings, { base, head }, { added: ['new_scan', 'new_hub'], removed: [], kindChanged: [] })
-
   it('keeps the unexplained findings in their order and appends one finding in these words, with the worst severity', () => {
+    const out = groupConsequences(findings, { base, head }, { added: ['new_scan', 'new_hub'], removed: [], kindChanged: [] })
     expect(head.importances.find((u) => u.name === 'c')!.isAboveFloor).toBe(false)
     expect(out.map((f) => f.title)).toEqual([
       'leakage new_scan',

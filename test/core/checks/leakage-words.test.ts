@@ -284,3 +284,68 @@ describe('checkLeakage: the edges of dominance', () => {
     expect(check(base, lower, { changed: ['distance_km'] })[0].evidence.separationJumpInSds as number).toBeCloseTo(-0.03 / Math.sqrt(6.25e-5 / 4), 6)
   })
 })
+
+describe('checkLeakage: the remaining edges of each finding', () => {
+  const dominant = { distance_km: steady(0.8), stop_count: steady(0.12), depot: steady(0.08) }
+
+  it('ends with "Check that it is known" for a new feature whatever the action, and counts a base value at the line as already strong', () => {
+    const base = sideResult({ side: 'base', features: baseFeatures, separation: steady(0.8, 0.005), single: { distance_km: 0.99 } })
+    const head = sideResult({ features: baseFeatures, separation: steady(0.8, 0.005), single: { distance_km: 0.995 } })
+    const [unchanged] = check(base, head)
+    expect(unchanged.severity).toBe('warn')
+    expect(unchanged.message.endsWith('It was already this strong on the base side (AUC 0.99), so this pull request did not introduce it.')).toBe(true)
+    const [changed] = check(base, head, { changed: ['distance_km'] }, { action: 'warn' })
+    expect(changed.message.endsWith('Check that it is known at prediction time.')).toBe(true)
+    const slice = { column: 'depot', value: 'harbour', rows: 120, separation: 0.995, besideColumn: false }
+    const sliced = (side: SideResult): SideResult => ({ ...side, singleFeatureSeparation: { distance_km: 0.6 }, singleFeatureSlices: { distance_km: slice } })
+    const [slicedChanged] = check(sliced(base), sliced(head), { changed: ['distance_km'] }, { action: 'warn' })
+    expect(slicedChanged.message.endsWith('Check how distance_km is recorded for depot = harbour.')).toBe(true)
+  })
+
+  it('gives the lift fields with a whole-holdout finding, and the one-feature powers when they are known', () => {
+    const losses = steady(0.5, 0.004)
+    const headLosses = steady(0.3, 0.004)
+    const base: SideResult = { ...sideResult({ side: 'base', features: baseFeatures, separation: steady(0.8, 0.005), single: { distance_km: 0.71 } }), losses }
+    const head: SideResult = {
+      ...sideResult({ features: { ...baseFeatures, followup_score: steady(0.04) }, separation: steady(0.9, 0.005), single: { distance_km: 0.71, followup_score: 0.995 } }),
+      losses: headLosses,
+      dropColumns: { followup_score: dropColumnImportance(headLosses, headLosses.map((l, r) => l + steady(0.2, 0.004)[r])) },
+    }
+    const [finding] = check(base, head, { added: ['followup_score'] })
+    expect(finding.title).toBe('followup_score, new here, alone separates the holdout (AUC 0.995).')
+    expect(finding.evidence.liftShare as number).toBeCloseTo(0.4, 10)
+    // (0.995 − 0.5) / (0.8 − 0.5) against the base model, (0.995 − 0.5) / (0.71 − 0.5) against distance_km.
+    expect(finding.evidence.powerAgainstBaseModel as number).toBeCloseTo(0.495 / 0.3, 10)
+    expect(finding.evidence.powerAgainstBestFeature as number).toBeCloseTo(0.495 / 0.21, 10)
+  })
+
+  it('says n/a for a slice-warn feature without a whole-holdout one-feature value', () => {
+    const losses = steady(0.5, 0.004)
+    const headLosses = steady(0.46, 0.004)
+    const base: SideResult = { ...sideResult({ side: 'base', features: baseFeatures, single: {} }), losses, dropColumns: {} }
+    const head: SideResult = {
+      ...sideResult({ features: { ...baseFeatures, scan_gap_h: steady(0.02) }, single: {} }),
+      singleFeatureSlices: { scan_gap_h: { column: 'depot', value: 'harbour', rows: 120, separation: 0.95, besideColumn: false } },
+      losses: headLosses,
+      dropColumns: { scan_gap_h: dropColumnImportance(headLosses, headLosses.map((l) => l + 0.04)) },
+    }
+    const [finding] = check(base, head, { added: ['scan_gap_h'] })
+    expect(finding.message).toContain('reaches AUC 0.95 (on the whole holdout AUC n/a), and refitted without it')
+  })
+
+  it('keeps the one-feature value in the dominance evidence, and measures the score jump from two refits a side', () => {
+    const base = sideResult({ side: 'base', features: { distance_km: [0.8, 0.8], stop_count: [0.12, 0.12], depot: [0.08, 0.08] }, separation: [0.91, 0.93], single: { distance_km: 0.9 } })
+    const head = sideResult({ features: { distance_km: [0.8, 0.8], stop_count: [0.12, 0.12], depot: [0.08, 0.08] }, separation: [0.94, 0.96], single: { distance_km: 0.9 } })
+    const [finding] = check(base, head, { changed: ['distance_km'] })
+    expect(finding.evidence.singleFeatureSeparation).toBe(0.9)
+    // Means 0.92 and 0.95, SD sqrt(0.0002) on each side: 0.03 / 0.014142 = 2.1213 reseed SDs.
+    expect(finding.evidence.separationJumpInSds as number).toBeCloseTo(0.03 / Math.sqrt(0.0002), 8)
+  })
+
+  it('was not dominant on the base when another feature led there, even at the same share', () => {
+    // Base: depot and distance_km at 0.5 each; depot leads by name, so distance_km did not dominate there.
+    const base = sideResult({ side: 'base', features: { distance_km: steady(0.5), depot: steady(0.5) }, separation: steady(0.92, 0.005) })
+    const head = sideResult({ features: dominant, separation: steady(0.92, 0.005), single: { distance_km: 0.9 } })
+    expect(check(base, head)[0]).toMatchObject({ severity: 'warn', evidence: { wasDominantOnBase: false, baseShare: 0.5 } })
+  })
+})
