@@ -1,7 +1,7 @@
 /**
  * Writes docs/report.schema.json, the JSON Schema of the GateReport (schema version 1), from the zod
  * schema in src/core/report/report-schema.ts. Run after changing the schema and commit the output:
- *   node --import tsx scripts/write-report-schema.ts
+ *   npm run report-schema   (node --import tsx scripts/write-report-schema.ts)
  * test/core/report/report-schema.test.ts fails when the committed file is out of date.
  */
 import { writeFileSync } from 'node:fs'

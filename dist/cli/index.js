@@ -16551,8 +16551,9 @@ var require_protobufjs = __commonJS({
 });
 
 // src/adapters/cli/main.ts
-import { mkdir as mkdir4, rename as rename3, rm as rm6, stat as stat4, writeFile as writeFile5 } from "node:fs/promises";
-import { basename as basename3, dirname as dirname4, join as join8 } from "node:path";
+import { constants as constants2 } from "node:fs";
+import { access as access3, rename as rename3, rm as rm6, stat as stat5, writeFile as writeFile5 } from "node:fs/promises";
+import { basename as basename3, dirname as dirname5, join as join8 } from "node:path";
 
 // src/core/errors.ts
 var UserError = class extends Error {
@@ -17252,6 +17253,7 @@ var evidenceLabels = {
   runnerUpRatio: "times the runner-up",
   runnerUp: "runner-up",
   singleFeatureSeparation: "a model on it alone, holdout score",
+  singleFeatureClass: "the class it separates best",
   baseSingleFeatureSeparation: "a model on it alone on the base, holdout score",
   fullModelSeparation: "the full model, holdout score",
   baseFullModelSeparation: "the base full model, holdout score",
@@ -17331,7 +17333,7 @@ function evidenceInWords(finding, featureSet) {
 function describeFinding(finding, task, featureSet) {
   const kind = finding.kind.replace(/-/g, " ");
   const entries = evidenceInWords(finding, featureSet);
-  const label2 = (key2) => evidenceLabel(key2).replace("holdout score", task === "binary" ? "holdout AUC" : "holdout R²");
+  const label2 = (key2) => evidenceLabel(key2).replace("holdout score", task === "binary" ? "holdout AUC" : task === "multiclass" ? "holdout one-vs-rest AUC" : "holdout R²");
   return {
     severity: finding.severity,
     title: finding.title,
@@ -17487,6 +17489,7 @@ function tabulateSettings(settings) {
     align: ["left", "left"],
     rows: [
       ["task", settings.task],
+      ...settings.classes ? [["classes", settings.classes.join(", ")]] : [],
       ["target", settings.target],
       ["metric", `${settings.metric} (${direction})`],
       ["draws per feature and refit", formatCount(settings.draws)],
@@ -18004,7 +18007,8 @@ function tabulateViews(report) {
   const gainBy = new Map((gain?.features ?? []).map((f) => [f.name, f]));
   const names = sensitivity2 ? sensitivity2.features.filter((f) => !f.isGroup).map((f) => f.name) : (gain?.features ?? []).map((f) => f.name);
   const byName = new Map((sensitivity2?.features ?? []).filter((f) => !f.isGroup).map((f) => [f.name, f]));
-  const binary = sensitivity2?.threshold !== null && sensitivity2?.threshold !== void 0;
+  const multiclass = sensitivity2?.decision === "most-probable-class";
+  const binary = sensitivity2?.threshold !== null && sensitivity2?.threshold !== void 0 || multiclass;
   const unlabeled = (sensitivity2?.unlabeledRows.head ?? 0) > 0;
   const header = [
     "feature",
@@ -18027,7 +18031,7 @@ function tabulateViews(report) {
   });
   const notes = [
     ...sensitivity2 ? [
-      `"Moves predictions" is the mean absolute change of the model's output${binary ? " (probability)" : ""} when the feature takes reference values (no labels needed); * marks a change beyond reseed noise.`
+      `"Moves predictions" is the mean absolute change of the model's output${multiclass ? " (class probabilities: half the sum over classes of their absolute changes)" : binary ? " (probability)" : ""} when the feature takes reference values (no labels needed); * marks a change beyond reseed noise.` + (multiclass ? " A decision flips when the most probable class changes." : "")
     ] : [],
     ...gain ? [gain.caution] : [],
     ...((automatic) => automatic.length > 0 ? [`Correlated groups (permuted jointly): ${automatic.map((g2) => `${g2.members.join(", ")} (|Spearman| ≥ ${formatNumber(g2.weakestLink ?? NaN)})`).join("; ")}.`] : [])(
@@ -18182,6 +18186,8 @@ function renderMarkdown(report, options = {}) {
     ])
   ];
   const score2 = tables.score ? [tables.score.sentence, ...tables.score.evidenceLines].map(escapeMarkdownText).join("\n") : null;
+  const classes = report.settings.classes;
+  const classLine = report.settings.task === "multiclass" && classes ? escapeMarkdownText(`Task: multiclass, ${formatCount(classes.length)} classes: ${limitItems(classes, 20).join(", ")}.`) : null;
   const chart = mermaidChart(report);
   const chartBlock = chart === null ? null : `${fenceOpen}
 ${chart}
@@ -18263,6 +18269,7 @@ ${items}`;
       findingsSection(layout2.findings),
       ...chartBlock === null ? [] : [chartBlock],
       featureSetSection(layout2.rows),
+      ...classLine === null ? [] : [classLine],
       escapeMarkdownText(reportCaution),
       ...htmlLink === null ? [] : [htmlLink],
       ...cutNote === null ? [] : [cutNote],
@@ -38144,6 +38151,7 @@ var sensitivityValueSchema = external_exports.strictObject({
 var sensitivitySideSchema = external_exports.strictObject({ holdout: sensitivityValueSchema, unlabeled: sensitivityValueSchema.optional() });
 var sensitivityReportSchema = external_exports.strictObject({
   threshold: finite.nullable(),
+  decision: external_exports.literal("most-probable-class").optional(),
   unlabeledRows: external_exports.strictObject({ base: count, head: count }),
   features: list(
     external_exports.strictObject({
@@ -38190,7 +38198,8 @@ var gateReportSchema = external_exports.strictObject({
   agreement: rankAgreementSchema.nullable(),
   sides: external_exports.strictObject({ base: sideSummarySchema, head: sideSummarySchema }).nullable(),
   settings: external_exports.strictObject({
-    task: external_exports.enum(["binary", "regression"]),
+    task: external_exports.enum(["binary", "regression", "multiclass"]),
+    classes: list(text).optional(),
     target: text,
     metric: text,
     higherIsBetter: external_exports.boolean(),
@@ -40079,7 +40088,13 @@ function schemaOf(dataset) {
     source: dataset.source,
     features: dataset.features,
     ...dataset.ids ? { idColumn: dataset.ids.name } : {},
-    ...target ? { target: { name: target.name, task: target.classes ? "binary" : "regression", ...target.classes ? { classes: target.classes } : {} } } : {}
+    ...target ? {
+      target: {
+        name: target.name,
+        task: target.classes ? target.classes.length > 2 ? "multiclass" : "binary" : "regression",
+        ...target.classes ? { classes: target.classes } : {}
+      }
+    } : {}
   };
 }
 var MISSING_TOKENS = /* @__PURE__ */ new Set(["", "na", "nan", "null"]);
@@ -40397,6 +40412,7 @@ function readTarget(source, plan, values, lineOf, schemaSource) {
     }
   });
   const distinct = [...new Set(values)];
+  if (plan.task === "multiclass") return readClassTarget(source, plan, values, distinct, lineOf, schemaSource);
   const task = plan.task ?? (distinct.length === 2 || !values.every((v) => looksNumeric(v)) ? "binary" : "regression");
   if (task === "regression") {
     const out2 = new Float64Array(values.length);
@@ -40421,10 +40437,11 @@ function readTarget(source, plan, values, lineOf, schemaSource) {
     }
     classes = orderClasses(distinct[0], distinct[1]);
   }
+  const [negative, positive] = classes;
   const out = new Float64Array(values.length);
   values.forEach((v, i) => {
-    if (v === classes[1]) out[i] = 1;
-    else if (v === classes[0]) out[i] = 0;
+    if (v === positive) out[i] = 1;
+    else if (v === negative) out[i] = 0;
     else {
       throw new UserError(
         `${at2(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
@@ -40433,6 +40450,39 @@ function readTarget(source, plan, values, lineOf, schemaSource) {
     }
   });
   return { name: column, values: out, classes };
+}
+function readClassTarget(source, plan, values, distinct, lineOf, schemaSource) {
+  const column = plan.name;
+  let classes = plan.classes;
+  if (classes === void 0) {
+    if (distinct.length < 3) {
+      throw new UserError(
+        `${source}, column ${show(column)}: a multiclass target needs at least three classes, found ${distinct.length}: ${listNames(distinct, 5)}.`,
+        distinct.length === 2 ? "Set task: binary in the policy for a target with two classes." : "Check that the file holds rows of every outcome and that the right column is the target."
+      );
+    }
+    classes = orderLabels(distinct);
+  }
+  const index2 = new Map(classes.map((label2, k) => [label2, k]));
+  const out = new Float64Array(values.length);
+  values.forEach((v, i) => {
+    const k = index2.get(v);
+    if (k === void 0) {
+      throw new UserError(
+        `${at2(source, lineOf(i), column)}: the class ${show(v)} does not occur in ${schemaSource} (its classes: ${listNames(classes, 10)}).`,
+        `Use only classes that ${schemaSource} has rows of, or add training rows of ${show(v)}: a model cannot be scored on a class it never saw.`
+      );
+    }
+    out[i] = k;
+  });
+  return { name: column, values: out, classes };
+}
+function orderLabels(labels) {
+  const numbers = labels.map((label2) => parseNumber(label2));
+  if (numbers.every((x) => x !== void 0)) {
+    return labels.map((label2, i) => ({ label: label2, x: numbers[i] })).sort((a, b) => a.x - b.x || compareText(a.label, b.label)).map((entry) => entry.label);
+  }
+  return [...labels].sort(compareText);
 }
 
 // src/core/statistics/random.ts
@@ -40697,9 +40747,15 @@ var metricTasks = deepFreeze({
   mae: "regression",
   r2: "regression"
 });
+var multiclassMetrics = deepFreeze(["log-loss", "accuracy", "auc"]);
+function metricsOfTask(task) {
+  if (task === "multiclass") return [...multiclassMetrics];
+  return Object.keys(metricTasks).filter((name) => metricTasks[name] === task);
+}
 var defaultMetric = deepFreeze({
   binary: "log-loss",
-  regression: "rmse"
+  regression: "rmse",
+  multiclass: "log-loss"
 });
 var defaultImportance = deepFreeze({
   draws: 5,
@@ -40980,7 +41036,7 @@ var reportSchema = mapping({
 });
 var documentSchema = mapping({
   version: external_exports.preprocess(numberFromText, external_exports.literal(1, { error: "1" })),
-  task: oneOf(["binary", "regression"]),
+  task: oneOf(["binary", "regression", "multiclass"]),
   target: text2("a column name"),
   seed: wholeNumber(0, uint32Max).default(defaultTopLevel.seed),
   data: dataSchema,
@@ -40994,8 +41050,8 @@ var documentSchema = mapping({
 function checkAcrossSections(policy, ctx) {
   const { task, target } = policy;
   const roles = policy.data.columns;
-  if (policy.importance.metric !== void 0 && metricTasks[policy.importance.metric] !== task) {
-    const allowed = metricNames.filter((name) => metricTasks[name] === task);
+  const allowed = metricsOfTask(task);
+  if (policy.importance.metric !== void 0 && !allowed.includes(policy.importance.metric)) {
     rule(
       ctx,
       ["importance", "metric"],
@@ -41041,6 +41097,14 @@ function checkAcrossSections(policy, ctx) {
   };
   for (const [group, members2] of Object.entries(policy.importance.groups)) checkNames(["importance", "groups", group], members2, "a group");
   if (policy.model.onnx?.features) checkNames(["model", "onnx", "features"], policy.model.onnx.features, "the list");
+  if (task === "multiclass" && policy.model.builtin?.learner === "linear") {
+    rule(
+      ctx,
+      ["model", "builtin", "learner"],
+      "is linear, which has no multiclass fit in plumbline; task is multiclass.",
+      "Set 'learner: gradient-boosting' (softmax boosting, one tree per class per round), or gate a model of your own through model.onnx or model.train."
+    );
+  }
   if (policy.model.onnx?.positive_class !== void 0 && task !== "binary") {
     rule(ctx, ["model", "onnx", "positive_class"], `applies to task binary only; task is ${task}.`, "Delete 'positive_class:' from model.onnx, or set 'task: binary'.");
   }
@@ -41752,6 +41816,44 @@ function treeDepth(tree) {
   return most;
 }
 
+// src/core/models/gbt/class-ensembles-predictor.ts
+function createClassEnsemblesPredictor(model, base) {
+  const predictors = model.classes.map((ensemble) => createTreeReplacementPredictor(ensemble, base));
+  if (predictors.some((p) => p === void 0)) return void 0;
+  const perClass = predictors;
+  const rows = base.rows;
+  const combine = (scores) => combineClassScores(scores, model.link);
+  return {
+    rows,
+    predict: (replaced, draws) => combine(perClass.map((p) => p.predict(replaced, draws))),
+    predictMany: (units, draws) => {
+      const byClass = perClass.map((p) => p.predictMany ? p.predictMany(units, draws) : units.map((u) => p.predict(u, draws)));
+      return units.map((_, u) => combine(byClass.map((outputs) => outputs[u])));
+    }
+  };
+}
+function combineClassScores(scores, link) {
+  const k = scores.length;
+  const n = k === 0 ? 0 : scores[0].length;
+  const out = new Float64Array(n * k);
+  for (let i = 0; i < n; i++) {
+    if (link === "none") {
+      for (let c = 0; c < k; c++) out[i * k + c] = scores[c][i];
+      continue;
+    }
+    let max = -Infinity;
+    for (let c = 0; c < k; c++) max = Math.max(max, scores[c][i]);
+    let total = 0;
+    for (let c = 0; c < k; c++) {
+      const e2 = Math.exp(scores[c][i] - max);
+      out[i * k + c] = e2;
+      total += e2;
+    }
+    for (let c = 0; c < k; c++) out[i * k + c] /= total;
+  }
+  return out;
+}
+
 // src/core/models/gbt/boosted-model.ts
 var BoostedModel = class {
   constructor(ensemble, splitStatistics) {
@@ -41759,6 +41861,7 @@ var BoostedModel = class {
     this.splitStatistics = splitStatistics;
     this.task = ensemble.task;
     this.featureNames = ensemble.featureNames;
+    if (ensemble.classCount !== void 0) this.classCount = ensemble.classCount;
   }
   ensemble;
   splitStatistics;
@@ -41766,6 +41869,8 @@ var BoostedModel = class {
   engine = "plumbline-trees";
   task;
   featureNames;
+  /** Multiclass only: K; predict returns row-major [N, K] softmax probabilities. */
+  classCount;
   /**
    * Predictions over raw values ("raw" as opposed to bins): the regression value, or for a binary
    * task the positive-class probability. Features are found by name in `matrix`, in any order; extra
@@ -41773,6 +41878,16 @@ var BoostedModel = class {
    */
   /** Permutation importance's fast path: see createTreeReplacementPredictor. */
   createReplacementPredictor(base) {
+    if (this.task === "multiclass") {
+      const k = this.ensemble.classCount;
+      const classes = Array.from({ length: k }, (_, c) => ({
+        featureNames: this.featureNames,
+        baseScore: this.ensemble.baseScore,
+        trees: this.ensemble.trees.filter((_2, t) => t % k === c),
+        link: "identity"
+      }));
+      return createClassEnsemblesPredictor({ classes, link: "softmax" }, base);
+    }
     return createTreeReplacementPredictor({ ...this.ensemble, link: this.task === "binary" ? "logistic" : "identity" }, base);
   }
   predictRaw(matrix) {
@@ -41785,6 +41900,7 @@ var BoostedModel = class {
       return matrix.columns[j];
     });
     const n = matrix.rows;
+    if (this.task === "multiclass") return this.predictClasses(columns, n);
     const score2 = new Float64Array(n).fill(this.ensemble.baseScore);
     for (const tree of this.ensemble.trees) addTree2(tree, columns, n, score2);
     if (this.task === "binary") {
@@ -41794,6 +41910,13 @@ var BoostedModel = class {
   }
   async predict(matrix) {
     return this.predictRaw(matrix);
+  }
+  /** Multiclass: each class's raw score from its trees (round-major order), then the softmax of each row; row-major [N, K]. */
+  predictClasses(columns, n) {
+    const k = this.ensemble.classCount;
+    const margins = Array.from({ length: k }, () => new Float64Array(n).fill(this.ensemble.baseScore));
+    this.ensemble.trees.forEach((tree, t) => addTree2(tree, columns, n, margins[t % k]));
+    return combineClassScores(margins, "softmax");
   }
 };
 function addTree2(tree, columns, n, score2) {
@@ -41813,7 +41936,7 @@ function addTree2(tree, columns, n, score2) {
 
 // src/core/models/resolve-training-subset.ts
 function resolveTrainingSubset(caller, shape, target, task, options) {
-  if (task !== "regression" && task !== "binary") throw new RangeError(`${caller}: unknown task '${String(task)}'`);
+  if (task !== "regression" && task !== "binary" && task !== "multiclass") throw new RangeError(`${caller}: unknown task '${String(task)}'`);
   if (target.length !== shape.rows) {
     throw new RangeError(`${caller} needs one target per row, got ${target.length} targets for ${shape.rows} rows`);
   }
@@ -41840,8 +41963,8 @@ function resolveTrainingSubset(caller, shape, target, task, options) {
   const y = new Float64Array(positions.length);
   for (let p = 0; p < positions.length; p++) {
     const value3 = target[positions[p]];
-    if (!Number.isFinite(value3) || task === "binary" && value3 !== 0 && value3 !== 1) {
-      const rule2 = task === "binary" ? "binary targets must be 0 or 1" : "regression targets must be finite";
+    if (!Number.isFinite(value3) || task === "binary" && value3 !== 0 && value3 !== 1 || task === "multiclass" && !(Number.isInteger(value3) && value3 >= 0)) {
+      const rule2 = task === "binary" ? "binary targets must be 0 or 1" : task === "multiclass" ? "multiclass targets must be class indices 0, 1, 2, ..." : "regression targets must be finite";
       throw new RangeError(`${caller}: target of row ${positions[p]} is ${value3}; ${rule2}`);
     }
     y[p] = value3;
@@ -41867,13 +41990,17 @@ function fitBoosted(binned, target, options) {
   const rowCodes = gatherRowMajor(binned.codes, used, positions);
   const columnCodes = gatherColumns(binned.codes, used, positions);
   const binCounts = Int32Array.from(used, (j) => binned.binCounts[j]);
+  const classCount = task === "multiclass" ? checkClassCount(options.classCount, y) : 1;
   let targetSum = 0;
   for (let p = 0; p < n; p++) targetSum += y[p];
-  const baseScore = task === "regression" ? targetSum / n : logOdds(targetSum / n);
+  const baseScore = task === "multiclass" ? 0 : task === "regression" ? targetSum / n : logOdds(targetSum / n);
   const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n));
   const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)));
   const grower = new TreeGrower(rowCodes, columnCodes, binCounts, n, settings, task === "regression");
-  const score2 = new Float64Array(n).fill(baseScore);
+  const scores = Array.from({ length: classCount }, () => new Float64Array(n).fill(baseScore));
+  const score2 = scores[0];
+  const classGradients = classCount > 1 ? scores.map(() => new Float64Array(n)) : [];
+  const classHessians = classCount > 1 ? scores.map(() => new Float64Array(n)) : [];
   const random = createRandom(options.seed);
   const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k);
   const gainByFeature = new Float64Array(featureCount);
@@ -41881,6 +42008,20 @@ function fitBoosted(binned, target, options) {
   const trees = [];
   const upperEdges = used.map((j) => binned.upperEdges[j]);
   for (let t = 0; t < settings.trees; t++) {
+    if (classCount > 1) {
+      computeSoftmaxGradients(y, scores, classGradients, classHessians);
+      for (let k = 0; k < classCount; k++) {
+        grower.gradient.set(classGradients[k]);
+        grower.hessian.set(classHessians[k]);
+        const rowCount2 = sampleSorted(n, sampleSize, random, grower.order);
+        const treeFeatures2 = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
+        grower.grow(rowCount2, treeFeatures2);
+        grower.addToScores(scores[k], rowCount2);
+        grower.addSplitStatistics(gainByFeature, splitsByFeature);
+        trees.push(grower.toTree(upperEdges));
+      }
+      continue;
+    }
     computeGradients(task, y, score2, grower.gradient, grower.hessian);
     const rowCount = sampleSorted(n, sampleSize, random, grower.order);
     const treeFeatures = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
@@ -41895,7 +42036,35 @@ function fitBoosted(binned, target, options) {
     gain: gainByFeature[k],
     splits: splitsByFeature[k]
   }));
-  return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics);
+  return new BoostedModel({ task, featureNames, baseScore, trees, ...classCount > 1 ? { classCount } : {} }, splitStatistics);
+}
+function checkClassCount(classCount, y) {
+  if (classCount === void 0 || !Number.isInteger(classCount) || classCount < 3) {
+    throw new RangeError(`fitBoosted needs options.classCount >= 3 for a multiclass task, got ${classCount}`);
+  }
+  for (let p = 0; p < y.length; p++) {
+    if (y[p] >= classCount) throw new RangeError(`fitBoosted: a target is class ${y[p]}, but options.classCount is ${classCount}`);
+  }
+  return classCount;
+}
+function computeSoftmaxGradients(y, scores, g2, h) {
+  const k = scores.length;
+  const n = y.length;
+  const p = new Float64Array(k);
+  for (let i = 0; i < n; i++) {
+    let max = -Infinity;
+    for (let c = 0; c < k; c++) max = Math.max(max, scores[c][i]);
+    let total = 0;
+    for (let c = 0; c < k; c++) {
+      p[c] = Math.exp(scores[c][i] - max);
+      total += p[c];
+    }
+    for (let c = 0; c < k; c++) {
+      const q = p[c] / total;
+      g2[c][i] = q - (y[i] === c ? 1 : 0);
+      h[c][i] = Math.max(2 * q * (1 - q), 1e-16);
+    }
+  }
 }
 function leaveOut(allowed, excluded, width) {
   if (!excluded || excluded.length === 0) return allowed;
@@ -42762,6 +42931,10 @@ function createBuiltinFit(train3, task, settings, options = {}) {
   if (!target) throw new RangeError("createBuiltinFit needs a training dataset with a target");
   let binned;
   const names = train3.features.map((f) => f.name);
+  const classCount = task === "multiclass" ? train3.target?.classes?.length : void 0;
+  if (task === "multiclass" && !(classCount !== void 0 && classCount >= 3)) {
+    throw new RangeError("createBuiltinFit needs a multiclass target with its classes (K >= 3)");
+  }
   return async (request) => {
     const leaveOut2 = new Set(request.leaveOut);
     for (const name of leaveOut2) {
@@ -42774,6 +42947,7 @@ function createBuiltinFit(train3, task, settings, options = {}) {
     if (settings.learner === "linear") {
       const features = columnOrder.filter((j) => !leaveOut2.has(names[j]));
       const options2 = { l2: settings.linearL2, rows, features };
+      if (task === "multiclass") throw new RangeError("createBuiltinFit: the linear learner has no multiclass fit (the policy refuses it)");
       return task === "binary" ? fitLogistic(train3, target, options2) : fitRidge(train3, target, options2);
     }
     binned ??= options.binned ?? binFeatures(train3, { maxBins: settings.maxBins });
@@ -42783,7 +42957,8 @@ function createBuiltinFit(train3, task, settings, options = {}) {
       seed: request.seed,
       rows,
       features: columnOrder,
-      excludeFeatures: excluded
+      excludeFeatures: excluded,
+      ...classCount !== void 0 ? { classCount } : {}
     });
   };
 }
@@ -42993,6 +43168,11 @@ function stackedCopies(data, draws, hasFastPath) {
   return { rows, features: data.features, columns };
 }
 
+// src/core/models/model.ts
+function predictionWidth(model) {
+  return model.classCount ?? 1;
+}
+
 // src/core/statistics/t-interval.ts
 function tInterval(values, options = {}) {
   const level = options.level ?? 0.95;
@@ -43009,14 +43189,91 @@ function tInterval(values, options = {}) {
   return { mean: center, sd, n, halfWidth, lower: center - halfWidth, upper: center + halfWidth };
 }
 
-// src/core/importance/row-contributions.ts
+// src/core/metrics/check-paired.ts
+function checkPaired(name, y, prediction, labels) {
+  if (y.length !== prediction.length) {
+    throw new RangeError(`${name} needs paired samples, got ${y.length} targets and ${prediction.length} predictions`);
+  }
+  if (labels === "binary") {
+    for (let i = 0; i < y.length; i++) {
+      if (y[i] !== 0 && y[i] !== 1) throw new RangeError(`${name} needs targets of 0 or 1, got ${y[i]} at index ${i}`);
+    }
+  }
+}
+function checkClassMatrix(name, y, probabilities) {
+  const n = y.length;
+  if (n === 0) {
+    if (probabilities.length !== 0) throw new RangeError(`${name} needs paired samples, got 0 targets and ${probabilities.length} probabilities`);
+    return 0;
+  }
+  const k = probabilities.length / n;
+  if (!Number.isInteger(k) || k < 2) {
+    throw new RangeError(`${name} needs an [N, K] probability matrix with K >= 2 for ${n} targets, got ${probabilities.length} values`);
+  }
+  for (let i = 0; i < n; i++) {
+    if (!Number.isInteger(y[i]) || y[i] < 0 || y[i] >= k) throw new RangeError(`${name} needs class indices from 0 to ${k - 1}, got ${y[i]} at index ${i}`);
+  }
+  return k;
+}
+
+// src/core/metrics/multiclass-accuracy.ts
+function multiclassAccuracy(y, probabilities) {
+  const k = checkClassMatrix("multiclassAccuracy", y, probabilities);
+  if (k === 0) return NaN;
+  let correct = 0;
+  for (let i = 0; i < y.length; i++) {
+    const predicted = argmaxRow(probabilities, i * k, k);
+    if (predicted < 0) return NaN;
+    if (predicted === y[i]) correct++;
+  }
+  return correct / y.length;
+}
+function argmaxRow(values, offset, k) {
+  let best = 0;
+  let bestValue = values[offset];
+  if (bestValue !== bestValue) return -1;
+  for (let c = 1; c < k; c++) {
+    const v = values[offset + c];
+    if (v !== v) return -1;
+    if (v > bestValue) {
+      best = c;
+      bestValue = v;
+    }
+  }
+  return best;
+}
+
+// src/core/metrics/multiclass-log-loss.ts
 var EPSILON = 1e-15;
+function multiclassLogLoss(y, probabilities) {
+  const k = checkClassMatrix("multiclassLogLoss", y, probabilities);
+  if (k === 0) return NaN;
+  let sum2 = 0;
+  for (let i = 0; i < y.length; i++) sum2 += rowLogLoss(y[i], probabilities, i * k, k, i);
+  return sum2 / y.length;
+}
+function rowLogLoss(label2, probabilities, offset, k, row = 0) {
+  let total = 0;
+  let own2 = 0;
+  for (let c = 0; c < k; c++) {
+    const p = probabilities[offset + c];
+    if (p < 0 || p > 1) throw new RangeError(`multiclassLogLoss needs probabilities in [0, 1], got ${p} at row ${row}, class ${c}`);
+    const clipped = Math.min(1 - EPSILON, Math.max(EPSILON, p));
+    total += clipped;
+    if (c === label2) own2 = clipped;
+  }
+  return -Math.log(own2 / total);
+}
+
+// src/core/importance/row-contributions.ts
+var EPSILON2 = 1e-15;
 function rowContributions(metric, y, base, permuted, out) {
   const n = y.length;
+  if (metric.task === "multiclass") return multiclassContributions(metric, y, base, permuted, out);
   switch (metric.name) {
     case "log-loss": {
       const loss = (t, p) => {
-        const q = Math.min(Math.max(p, EPSILON), 1 - EPSILON);
+        const q = Math.min(Math.max(p, EPSILON2), 1 - EPSILON2);
         return -(t * Math.log(q) + (1 - t) * Math.log(1 - q));
       };
       for (let i = 0; i < n; i++) out[i] = loss(y[i], permuted[i]) - loss(y[i], base[i]);
@@ -43053,6 +43310,20 @@ function rowContributions(metric, y, base, permuted, out) {
       return null;
   }
 }
+function multiclassContributions(metric, y, base, permuted, out) {
+  const n = y.length;
+  const k = n === 0 ? 0 : base.length / n;
+  switch (metric.name) {
+    case "log-loss":
+      for (let i = 0; i < n; i++) out[i] = rowLogLoss(y[i], permuted, i * k, k, i) - rowLogLoss(y[i], base, i * k, k, i);
+      return out;
+    case "accuracy":
+      for (let i = 0; i < n; i++) out[i] = Number(argmaxRow(base, i * k, k) === y[i]) - Number(argmaxRow(permuted, i * k, k) === y[i]);
+      return out;
+    default:
+      return null;
+  }
+}
 
 // src/core/importance/permutation-importance.ts
 async function permutationImportance(model, evaluation, options) {
@@ -43065,6 +43336,7 @@ async function permutationImportance(model, evaluation, options) {
   const reference = options.reference ? selectFeatures(options.reference, names) : data;
   const usesOwnRows = options.reference === void 0;
   const n = data.rows;
+  const width = predictionWidth(model);
   const y = evaluation.target.values;
   if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`);
   if (reference.rows < 1) throw new RangeError("permutationImportance needs at least 1 reference row");
@@ -43106,7 +43378,7 @@ async function permutationImportance(model, evaluation, options) {
     rowSum.fill(0);
     let decomposes = true;
     for (let k = 0; k < draws; k++) {
-      const block = prediction.subarray(k * n, (k + 1) * n);
+      const block = prediction.subarray(k * n * width, (k + 1) * n * width);
       const permuted = metric.compute(y, block);
       values.push(metric.higherIsBetter ? score2 - permuted : permuted - score2);
       if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {
@@ -43149,6 +43421,7 @@ function summarizeDraws(values) {
 // src/core/importance/prediction-sensitivity.ts
 async function predictionSensitivity(model, rows, options) {
   const { draws, threshold } = options;
+  const argmax = options.argmax === true;
   if (!Number.isInteger(draws) || draws < 1) {
     throw new RangeError(`predictionSensitivity needs a whole number of draws >= 1, got ${draws}`);
   }
@@ -43159,6 +43432,8 @@ async function predictionSensitivity(model, rows, options) {
   if (n < 1) throw new RangeError("predictionSensitivity needs at least 1 row");
   if (reference.rows < 1) throw new RangeError("predictionSensitivity needs at least 1 reference row");
   const original = await model.predict(data);
+  const width = predictionWidth(model);
+  const countsFlips = threshold !== void 0 || argmax;
   const units = replacementUnits(names, options.groups);
   const fast = model.createReplacementPredictor?.(data);
   const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
@@ -43179,18 +43454,28 @@ async function predictionSensitivity(model, rows, options) {
     }
     const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
     const changes = [];
-    const flips = [];
+    const flipShares = [];
     for (let k = 0; k < draws; k++) {
       let change = 0;
       let flipped = 0;
-      for (let i = 0; i < n; i++) {
-        const before = original[i];
-        const after = prediction[k * n + i];
-        change += Math.abs(after - before);
-        if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
+      if (width > 1) {
+        for (let i = 0; i < n; i++) {
+          const at4 = (k * n + i) * width;
+          let total = 0;
+          for (let c = 0; c < width; c++) total += Math.abs(prediction[at4 + c] - original[i * width + c]);
+          change += total / 2;
+          if (argmax && argmaxRow(original, i * width, width) !== argmaxRow(prediction, at4, width)) flipped++;
+        }
+      } else {
+        for (let i = 0; i < n; i++) {
+          const before = original[i];
+          const after = prediction[k * n + i];
+          change += Math.abs(after - before);
+          if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
+        }
       }
       changes.push(change / n);
-      flips.push(flipped / n);
+      flipShares.push(flipped / n);
     }
     if (!fast) {
       for (const j of unit.columns) for (let k = 0; k < draws; k++) stacked[j].set(data.columns[j], k * n);
@@ -43201,7 +43486,7 @@ async function predictionSensitivity(model, rows, options) {
       isGroup: unit.isGroup,
       draws: changes,
       mean: average2(changes),
-      ...threshold !== void 0 ? { flipDraws: flips, flipShare: average2(flips) } : {}
+      ...countsFlips ? { flipDraws: flipShares, flipShare: average2(flipShares) } : {}
     });
   }
   return estimates;
@@ -43215,18 +43500,6 @@ function average2(values) {
   let s = 0;
   for (const v of values) s += v;
   return s / values.length;
-}
-
-// src/core/metrics/check-paired.ts
-function checkPaired(name, y, prediction, labels) {
-  if (y.length !== prediction.length) {
-    throw new RangeError(`${name} needs paired samples, got ${y.length} targets and ${prediction.length} predictions`);
-  }
-  if (labels === "binary") {
-    for (let i = 0; i < y.length; i++) {
-      if (y[i] !== 0 && y[i] !== 1) throw new RangeError(`${name} needs targets of 0 or 1, got ${y[i]} at index ${i}`);
-    }
-  }
 }
 
 // src/core/metrics/roc-auc.ts
@@ -43263,6 +43536,30 @@ function rocAuc(y, score2) {
   return pairs / (positives * negatives);
 }
 
+// src/core/metrics/macro-ovr-auc.ts
+function macroOvrAuc(y, probabilities) {
+  const aucs = oneVsRestAucs(y, probabilities);
+  if (aucs.length === 0) return NaN;
+  let sum2 = 0;
+  for (const a of aucs) sum2 += a;
+  return sum2 / aucs.length;
+}
+function oneVsRestAucs(y, probabilities) {
+  const k = checkClassMatrix("macroOvrAuc", y, probabilities);
+  const n = y.length;
+  const aucs = [];
+  const isClass = new Float64Array(n);
+  const column = new Float64Array(n);
+  for (let c = 0; c < k; c++) {
+    for (let i = 0; i < n; i++) {
+      isClass[i] = y[i] === c ? 1 : 0;
+      column[i] = probabilities[i * k + c];
+    }
+    aucs.push(rocAuc(isClass, column));
+  }
+  return aucs;
+}
+
 // src/core/metrics/r-squared.ts
 function rSquared(y, prediction) {
   checkPaired("rSquared", y, prediction, "any");
@@ -43284,6 +43581,16 @@ function rSquared(y, prediction) {
     total += t * t;
   }
   return 1 - residual / total;
+}
+
+// src/core/models/prediction-rows.ts
+function predictionRows(predictions, rows, width) {
+  const out = new Float64Array(rows.length * width);
+  for (let r = 0; r < rows.length; r++) {
+    const from = rows[r] * width;
+    for (let c = 0; c < width; c++) out[r * width + c] = predictions[from + c];
+  }
+  return out;
 }
 
 // src/core/measure-side.ts
@@ -43310,7 +43617,7 @@ async function measureRefit(model, inputs, options, rows, refit) {
   if (!target) throw new RangeError("measureSide needs a holdout with a target");
   const predictions = await model.predict(selectFeatures(holdout, model.featureNames));
   const score2 = options.metric.compute(target.values, predictions);
-  const separation = options.task === "binary" ? rocAuc(target.values, predictions) : rSquared(target.values, predictions);
+  const separation = options.task === "binary" ? rocAuc(target.values, predictions) : options.task === "multiclass" ? macroOvrAuc(target.values, predictions) : rSquared(target.values, predictions);
   const result = await permutationImportance(model, rows.evaluation, {
     metric: options.metric,
     draws: options.draws,
@@ -43321,8 +43628,7 @@ async function measureRefit(model, inputs, options, rows, refit) {
   const featureOrder = train3.features.map((f) => f.name);
   const slices = [];
   for (const slice of rows.slices) {
-    const slicePrediction = new Float64Array(slice.rows.length);
-    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]];
+    const slicePrediction = predictionRows(predictions, slice.rows, predictionWidth(model));
     const sliced = await permutationImportance(model, slice.data, {
       metric: options.metric,
       draws: options.draws,
@@ -43337,9 +43643,10 @@ async function measureRefit(model, inputs, options, rows, refit) {
   }
   let sensitivity2;
   if (options.sensitivity) {
-    const threshold = options.sensitivity.threshold;
-    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold };
-    const order3 = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold);
+    const { threshold, argmax } = options.sensitivity;
+    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold, argmax };
+    const countsFlips = threshold !== void 0 || argmax === true;
+    const order3 = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, countsFlips);
     sensitivity2 = {
       holdout: order3(await predictionSensitivity(model, rows.evaluation, settings)),
       ...rows.unlabeled ? { unlabeled: order3(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}
@@ -43393,7 +43700,7 @@ function combineRefits(seeds, rows, refits) {
 function rankedFeatureNames(measured) {
   return measured.importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).map((u) => u.name);
 }
-function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold) {
+function canonicalSensitivity(estimates, featureOrder, groups, draws, countsFlips) {
   const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
   const zeros = new Array(draws).fill(0);
   const zero = (name, members2, isGroup) => ({
@@ -43402,7 +43709,7 @@ function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold)
     isGroup,
     draws: zeros,
     mean: 0,
-    ...threshold !== void 0 ? { flipDraws: zeros, flipShare: 0 } : {}
+    ...countsFlips ? { flipDraws: zeros, flipShare: 0 } : {}
   });
   const present = new Set(featureOrder);
   return [
@@ -43526,13 +43833,19 @@ var executeInProcess = async (units, context) => {
     return job.inputs.fit({ side: unit.side, seed: unit.seed, refit: unit.refit, leaveOut: unit.kind === "drop-column" ? [unit.feature] : [] });
   };
   const prefetched = units.map((unit) => context.jobs[sideIndex[unit.side]].options.concurrentFits && !context.jobs[sideIndex[unit.side]].inputs.model ? fitOf(unit) : void 0);
-  prefetched.forEach((p) => p?.catch(() => void 0));
+  let firstFailure;
+  prefetched.forEach((p) => p?.catch((error62) => firstFailure ??= { error: error62 }));
   const results = [];
   for (const [k, unit] of units.entries()) {
     const j = sideIndex[unit.side];
     const job = context.jobs[j];
     if (unit.kind === "refit") job.options.onRefit?.(unit.refit, sideRefitSeeds(job.inputs, job.options).length);
-    const model = await (prefetched[k] ?? fitOf(unit));
+    let model;
+    try {
+      model = await (prefetched[k] ?? fitOf(unit));
+    } catch (error62) {
+      throw firstFailure?.error ?? error62;
+    }
     results.push(await executeWithModel(unit, model, job, context.rows[j]));
   }
   return results;
@@ -43691,14 +44004,14 @@ function brierScore(y, p) {
 }
 
 // src/core/metrics/log-loss.ts
-var EPSILON2 = 1e-15;
+var EPSILON3 = 1e-15;
 function logLoss(y, p) {
   checkPaired("logLoss", y, p, "binary");
   let sum2 = 0;
   for (let i = 0; i < y.length; i++) {
     const probability = p[i];
     if (probability < 0 || probability > 1) throw new RangeError(`logLoss needs probabilities in [0, 1], got ${probability} at index ${i}`);
-    const clipped = Math.min(1 - EPSILON2, Math.max(EPSILON2, probability));
+    const clipped = Math.min(1 - EPSILON3, Math.max(EPSILON3, probability));
     sum2 -= Math.log(y[i] === 1 ? clipped : 1 - clipped);
   }
   return sum2 / y.length;
@@ -43731,9 +44044,13 @@ var METRICS = [
   { name: "brier", task: "binary", higherIsBetter: false, compute: brierScore },
   { name: "rmse", task: "regression", higherIsBetter: false, compute: rmse },
   { name: "mae", task: "regression", higherIsBetter: false, compute: mae },
-  { name: "r2", task: "regression", higherIsBetter: true, compute: rSquared }
+  { name: "r2", task: "regression", higherIsBetter: true, compute: rSquared },
+  // Multiclass: predictions are row-major [N, K] class probabilities, y the class index.
+  { name: "log-loss", task: "multiclass", higherIsBetter: false, compute: multiclassLogLoss },
+  { name: "accuracy", task: "multiclass", higherIsBetter: true, compute: multiclassAccuracy },
+  { name: "auc", task: "multiclass", higherIsBetter: true, compute: macroOvrAuc }
 ];
-var TASK_WORDS = { binary: "a binary target", regression: "a regression target" };
+var TASK_WORDS = { binary: "a binary target", regression: "a regression target", multiclass: "a multiclass target" };
 function metricByName(name, task) {
   const allowed = METRICS.filter((m) => m.task === task);
   const metric = allowed.find((m) => m.name === name);
@@ -43745,7 +44062,7 @@ function metricByName(name, task) {
   );
 }
 function defaultMetric2(task) {
-  return task === "binary" ? "log-loss" : "rmse";
+  return task === "regression" ? "rmse" : "log-loss";
 }
 
 // src/core/data/cap-table-rows.ts
@@ -43901,8 +44218,9 @@ function gateSettings(config2) {
     groupThreshold: config2.importance.groupThreshold,
     /** Filled by withCorrelatedGroups once the head's training data is known. */
     automaticGroups: [],
-    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
-    sensitivity: config2.checks.sensitivity.action === "off" ? void 0 : config2.task === "binary" ? { threshold: 0.5 } : {},
+    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5, a
+    // multiclass one when the most probable class changes.
+    sensitivity: config2.checks.sensitivity.action === "off" ? void 0 : config2.task === "binary" ? { threshold: 0.5 } : config2.task === "multiclass" ? { argmax: true } : {},
     learner,
     policySlices: config2.slices,
     pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,
@@ -44178,7 +44496,7 @@ function liftEvidence(name, context, task) {
   const headLoss = mean2(head.losses);
   const offset = baseDrop && Number.isFinite(baseDrop.mean) ? Math.max(0, baseDrop.mean) : 0;
   const dropLoss = drop.mean - offset;
-  const trivial = task === "binary" ? 0.5 : 0;
+  const trivial = task === "regression" ? 0 : 0.5;
   const fullBase = mean2(base.separation);
   const alone = head.singleFeatureSeparation[name] ?? null;
   let bestExisting = null;
@@ -44212,7 +44530,7 @@ function unevaluated(head, options, metricName) {
   const undefinedFor = Object.entries(head.singleFeatureSeparation).filter(([, value3]) => !Number.isFinite(value3)).map(([name]) => name).sort();
   const fullUndefined = head.separation.length > 0 && !head.separation.some((value3) => Number.isFinite(value3));
   if (undefinedFor.length === 0 && !fullUndefined) return [];
-  const why = options.task === "binary" ? "the holdout holds one class only, so AUC is undefined" : "the holdout target is constant, so R² is undefined";
+  const why = options.task === "binary" ? "the holdout holds one class only, so AUC is undefined" : options.task === "multiclass" ? "the holdout lacks a class, so the one-vs-rest AUC is undefined" : "the holdout target is constant, so R² is undefined";
   const shown = undefinedFor.slice(0, 5).join(", ") + (undefinedFor.length > 5 ? ` and ${undefinedFor.length - 5} more` : "");
   return [
     {
@@ -44227,8 +44545,8 @@ function unevaluated(head, options, metricName) {
 function checkLeakage(context, options) {
   if (options.action === "off") return [];
   const { base, head, added, changed } = context;
-  const trivial = options.task === "binary" ? 0.5 : 0;
-  const metricName = options.task === "binary" ? "AUC" : "R²";
+  const trivial = options.task === "regression" ? 0 : 0.5;
+  const metricName = options.task === "binary" ? "AUC" : options.task === "multiclass" ? "one-vs-rest AUC" : "R²";
   const sees = (name, slice) => slice.besideColumn ? `${name} and ${slice.column} (so it can treat each ${slice.column} apart)` : name;
   const fullHead = mean2(head.separation);
   const fullBase = mean2(base.separation);
@@ -44256,12 +44574,14 @@ function checkLeakage(context, options) {
     const crossed = aloneBase === void 0 || !(aloneBase >= options.singleFeaturePower);
     const severity = isNewOrChanged || crossed ? options.action : "warn";
     flagged.add(unit.name);
+    const aloneClass = head.singleFeatureClasses?.[unit.name];
+    const forClass = aloneClass === void 0 ? "" : ` for the class '${aloneClass}'`;
     findings.push({
       kind: "leakage",
       severity,
       feature: unit.name,
-      title: `${cause(unit.name)}, alone separates the holdout (${metricName} ${fmt(alone)}).`,
-      message: `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)} (the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). A value this predictive on its own usually means it is computed from, or after, the outcome. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong on the base side (${metricName} ${fmt(aloneBase)}), so this pull request did not introduce it.` : `Check that it is known at prediction time.`),
+      title: `${cause(unit.name)}, alone separates the holdout (${metricName} ${fmt(alone)}${forClass}).`,
+      message: `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)}${forClass} ` + (aloneClass === void 0 ? `(the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). ` : `(the best of its classes against the rest; the full model's macro one-vs-rest AUC is ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). `) + `A value this predictive on its own usually means it is computed from, or after, the outcome. ` + (severity === "warn" && !isNewOrChanged && !crossed ? `It was already this strong on the base side (${metricName} ${fmt(aloneBase)}), so this pull request did not introduce it.` : `Check that it is known at prediction time.`),
       evidence: {
         singleFeatureSeparation: alone,
         baseSingleFeatureSeparation: aloneBase ?? null,
@@ -44271,6 +44591,7 @@ function checkLeakage(context, options) {
         isNew: added.has(unit.name),
         isChanged: changed.has(unit.name),
         isReviewed: reviewed.has(unit.name),
+        ...aloneClass !== void 0 ? { singleFeatureClass: aloneClass } : {},
         ...liftFields(unit.name)
       }
     });
@@ -44929,20 +45250,26 @@ function groupConsequences(findings, sides, featureSet) {
 // src/core/statistics/paired-bootstrap.ts
 function pairedBootstrap(y, basePrediction, headPrediction, options) {
   const n = y.length;
-  if (basePrediction.length !== n || headPrediction.length !== n) {
+  const width = n === 0 ? 1 : basePrediction.length / n;
+  if (!Number.isInteger(width) || width < 1 || basePrediction.length !== n * width || headPrediction.length !== n * width) {
     throw new RangeError(`pairedBootstrap needs predictions for all ${n} rows, got ${basePrediction.length} and ${headPrediction.length}`);
   }
   const random = createRandom(deriveSeed(options.seed, "paired-bootstrap"));
   const ys = new Float64Array(n);
-  const bs = new Float64Array(n);
-  const hs = new Float64Array(n);
+  const bs = new Float64Array(n * width);
+  const hs = new Float64Array(n * width);
   const out = [];
   for (let b = 0; b < options.replicates; b++) {
     for (let i = 0; i < n; i++) {
       const k = random.int(n);
       ys[i] = y[k];
-      bs[i] = basePrediction[k];
-      hs[i] = headPrediction[k];
+      if (width === 1) {
+        bs[i] = basePrediction[k];
+        hs[i] = headPrediction[k];
+      } else {
+        bs.set(basePrediction.subarray(k * width, (k + 1) * width), i * width);
+        hs.set(headPrediction.subarray(k * width, (k + 1) * width), i * width);
+      }
     }
     out.push(options.metric.compute(ys, hs) - options.metric.compute(ys, bs));
   }
@@ -45001,9 +45328,19 @@ function holdoutIdentity(holdout) {
 async function singleFeatureSeparation(train3, holdout, names, options) {
   const all = train3.features.map((f) => f.name);
   const y = holdout.target.values;
-  const score2 = (target, prediction) => options.task === "binary" ? rocAuc(target, prediction) : rSquared(target, prediction);
+  const classes = holdout.target.classes ?? [];
+  const multiclass = options.task === "multiclass";
+  const scoreOf = (target, prediction) => {
+    if (!multiclass) return { value: options.task === "binary" ? rocAuc(target, prediction) : rSquared(target, prediction) };
+    const aucs = oneVsRestAucs(target, prediction);
+    if (aucs.length === 0 || aucs.some((a) => !Number.isFinite(a))) return { value: NaN };
+    let best = 0;
+    for (let c = 1; c < aucs.length; c++) if (aucs[c] > aucs[best]) best = c;
+    return { value: aucs[best], bestClass: classes[best] ?? String(best) };
+  };
   const slices = options.slices ? sliceRows2(holdout, options.slices, options.task) : [];
   const overall = {};
+  const bestClass = {};
   const bestSlice = {};
   for (const name of names) {
     if (!all.includes(name)) continue;
@@ -45014,17 +45351,26 @@ async function singleFeatureSeparation(train3, holdout, names, options) {
       leaveOut: all.filter((other) => other !== name)
     });
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames));
-    overall[name] = score2(y, prediction);
-    const keepBest = (slice, predicted, besideColumn) => {
-      const separation = score2(
+    const whole = scoreOf(y, prediction);
+    overall[name] = whole.value;
+    if (whole.bestClass !== void 0) bestClass[name] = whole.bestClass;
+    const keepBest = (slice, predicted, width, besideColumn) => {
+      const { value: separation, bestClass: sliceClass } = scoreOf(
         Array.from(slice.rows, (i) => y[i]),
-        Array.from(slice.rows, (i) => predicted[i])
+        predictionRows(predicted, slice.rows, width)
       );
       if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
-        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation, ...besideColumn ? { besideColumn } : {} };
+        bestSlice[name] = {
+          column: slice.column,
+          value: slice.value,
+          rows: slice.rows.length,
+          separation,
+          ...sliceClass !== void 0 ? { bestClass: sliceClass } : {},
+          ...besideColumn ? { besideColumn } : {}
+        };
       }
     };
-    for (const slice of slices) if (slice.column !== name) keepBest(slice, prediction, false);
+    for (const slice of slices) if (slice.column !== name) keepBest(slice, prediction, predictionWidth(model), false);
     if (!options.withSliceColumn?.includes(name)) continue;
     for (const column of new Set(slices.map((slice) => slice.column))) {
       if (column === name) continue;
@@ -45035,10 +45381,10 @@ async function singleFeatureSeparation(train3, holdout, names, options) {
         leaveOut: all.filter((other) => other !== name && other !== column)
       });
       const pairedPrediction = await paired.predict(selectFeatures(holdout, paired.featureNames));
-      for (const slice of slices) if (slice.column === column) keepBest(slice, pairedPrediction, true);
+      for (const slice of slices) if (slice.column === column) keepBest(slice, pairedPrediction, predictionWidth(paired), true);
     }
   }
-  return { overall, bestSlice };
+  return multiclass ? { overall, bestClass, bestSlice } : { overall, bestSlice };
 }
 function sliceRows2(holdout, options, task) {
   const y = holdout.target.values;
@@ -45148,6 +45494,7 @@ function sideResult(side3, data, measured, single, metric) {
     perRefit: measured.perRefit,
     singleFeatureSeparation: single.overall,
     singleFeatureSlices: single.bestSlice,
+    ...single.bestClass ? { singleFeatureClasses: single.bestClass } : {},
     noiseCovers: measured.noiseCovers
   };
 }
@@ -45452,6 +45799,7 @@ function judgeViews(inputs) {
     findings.push(...judged.findings);
     sensitivity2 = {
       threshold: inputs.settings.task === "binary" ? 0.5 : null,
+      ...inputs.settings.task === "multiclass" ? { decision: "most-probable-class" } : {},
       unlabeledRows: { base: base.sensitivity?.unlabeledRows ?? 0, head: head.sensitivity.unlabeledRows },
       features: sensitivityRows(base.sensitivity, head.sensitivity, judged.changes)
     };
@@ -45600,6 +45948,7 @@ function assembleReport(parts) {
     sides: describeSides(parts.sides, base, head, parts.rowSampling),
     settings: {
       task: settings.task,
+      ...settings.task === "multiclass" ? { classes: parts.sides.head.train.target?.classes ?? [] } : {},
       target: settings.target,
       metric: metric.name,
       higherIsBetter: metric.higherIsBetter,
@@ -54381,9 +54730,10 @@ async function resolveCommit(root2, ref, flag) {
     const { stdout } = await exec("git", ["rev-parse", "--verify", "--quiet", `${ref}^{commit}`], { cwd: root2 });
     return stdout.trim();
   } catch {
+    const plainName = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/.test(ref) && !ref.includes("..");
     throw new UserError(
       `${flag} '${ref}' does not name a commit in ${root2}.`,
-      `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.`
+      plainName ? `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.` : "It is not a plain branch, tag or commit name: check the spelling (a branch name has no spaces, semicolons or quotes)."
     );
   }
 }
@@ -54623,30 +54973,421 @@ var onnxProto = {
   ModelSummary: root.lookupType("onnx.ModelSummary")
 };
 
+// src/core/models/onnx-value-info.ts
+var isFloatTensor = (value3) => value3.isTensor && (value3.type === "float32" || value3.type === "float64");
+function isColumnShape(shape) {
+  if (shape.length === 1) return true;
+  return shape.length === 2 && (shape[1] === 1 || typeof shape[1] === "string" || shape[1] < 0);
+}
+function describeShape(shape) {
+  return `[${shape.map((d) => typeof d === "number" && d < 0 || d === "" ? "?" : String(d)).join(", ")}]`;
+}
+function describeValues(values) {
+  if (values.length === 0) return "(none)";
+  return values.map((v) => v.isTensor ? `${v.name} (${v.type} ${describeShape(v.shape)})` : `${v.name} (not a tensor)`).join(", ");
+}
+function describeColumns(features) {
+  if (features.length === 0) return "(none)";
+  return features.map((f) => `${f.name} (${f.kind})`).join(", ");
+}
+
+// src/core/models/plan-onnx-inputs.ts
+function planOnnxInputs(inputs, options, metadata) {
+  const byName = new Map(options.features.map((f) => [f.name, f]));
+  const mismatch = (problem, fix) => new UserError(`${problem}
+Model inputs: ${describeValues(inputs)}
+Data columns: ${describeColumns(options.features)}`, fix);
+  const perColumnFix = `Name each model input after the data column it reads, or export one float input [N, F] and list its columns in order under 'model.onnx.features'.`;
+  if (inputs.length === 0) throw mismatch(`The ONNX model '${options.source}' has no inputs.`, perColumnFix);
+  if (inputs.length === 1 && !byName.has(inputs[0].name)) return planMatrixInput(inputs[0], options, metadata, mismatch);
+  for (const input2 of inputs) {
+    const feature = byName.get(input2.name);
+    if (!feature) throw mismatch(`The ONNX model '${options.source}' has an input '${input2.name}' that matches no data column.`, perColumnFix);
+    if (!input2.isTensor) throw mismatch(`The ONNX model '${options.source}' input '${input2.name}' is not a tensor.`, perColumnFix);
+    if (!isColumnShape(input2.shape)) {
+      throw mismatch(
+        `The ONNX model '${options.source}' input '${input2.name}' has shape ${describeShape(input2.shape)}; an input per column must be [N, 1] or [N].`,
+        perColumnFix
+      );
+    }
+    if (!["float32", "float64", "int64", "string"].includes(input2.type)) {
+      throw mismatch(
+        `The ONNX model '${options.source}' input '${input2.name}' is ${input2.type}; an input per column must be float32, float64, int64 or string.`,
+        `Export the model with a float input for '${input2.name}'.`
+      );
+    }
+    if (input2.type === "string" && feature.kind !== "categorical") {
+      throw mismatch(
+        `The ONNX model '${options.source}' input '${input2.name}' is a string tensor, but data column '${input2.name}' is numeric.`,
+        `Declare the column categorical under 'data.columns' in plumbline.yml, or export the model with a float input for '${input2.name}'.`
+      );
+    }
+  }
+  const columns = inputs.map((input2) => ({
+    name: input2.name,
+    type: input2.type,
+    rank: input2.shape.length === 1 ? 1 : 2
+  }));
+  return { kind: "columns", columns, featureNames: columns.map((input2) => input2.name) };
+}
+function onnxInputValues(plan, matrix, start, end, source) {
+  const rows = end - start;
+  if (plan.kind === "matrix") {
+    const width = matrix.columns.length;
+    const data = plan.type === "float32" ? new Float32Array(rows * width) : new Float64Array(rows * width);
+    for (let j = 0; j < width; j++) {
+      const column = matrix.columns[j];
+      for (let i = 0; i < rows; i++) data[i * width + j] = column[start + i];
+    }
+    const dims = [rows, width];
+    return { [plan.name]: data instanceof Float32Array ? { type: "float32", data, dims } : { type: "float64", data, dims } };
+  }
+  const values = {};
+  plan.columns.forEach((input2, j) => {
+    values[input2.name] = columnValues(input2, matrix.features[j], matrix.columns[j], start, end, source);
+  });
+  return values;
+}
+function planMatrixInput(input2, options, metadata, mismatch) {
+  const { source } = options;
+  const orderFix = `List the columns in order under 'model.onnx.features' in plumbline.yml, or store them in the model as metadata '${FEATURES_METADATA_KEY}' (a JSON array of column names).`;
+  if (!input2.isTensor || input2.type !== "float32" && input2.type !== "float64") {
+    throw mismatch(
+      `The ONNX model '${source}' input '${input2.name}' is ${input2.isTensor ? input2.type : "not a tensor"}; a single input [N, F] must be a float32 or float64 tensor.`,
+      `Export the model with a float input, or with one input per data column named after the column.`
+    );
+  }
+  if (input2.shape.length !== 2) {
+    throw mismatch(`The ONNX model '${source}' input '${input2.name}' has shape ${describeShape(input2.shape)}; a single input must be [N, F].`, orderFix);
+  }
+  let order3;
+  let origin;
+  const stored = metadata.get(FEATURES_METADATA_KEY);
+  if (options.featureOrder) {
+    order3 = options.featureOrder;
+    origin = `'model.onnx.features'`;
+  } else if (stored !== void 0) {
+    order3 = parseStoredOrder(stored, source);
+    origin = `its metadata '${FEATURES_METADATA_KEY}'`;
+  } else {
+    throw mismatch(`The ONNX model '${source}' takes one input '${input2.name}' ${describeShape(input2.shape)} and does not say which data column goes in which position.`, orderFix);
+  }
+  const seen = /* @__PURE__ */ new Set();
+  for (const name of order3) {
+    if (seen.has(name)) throw mismatch(`The column order for the ONNX model '${source}' (${origin}) lists '${name}' twice.`, orderFix);
+    seen.add(name);
+  }
+  const byName = new Map(options.features.map((f) => [f.name, f]));
+  const unknown2 = order3.find((name) => !byName.has(name));
+  if (unknown2 !== void 0) {
+    throw mismatch(`The ONNX model '${source}' reads column '${unknown2}' (from ${origin}), which the data does not have.`, orderFix);
+  }
+  const width = input2.shape[1];
+  if (typeof width === "number" && width >= 0 && width !== order3.length) {
+    throw mismatch(`The ONNX model '${source}' input '${input2.name}' takes ${width} columns, but ${origin} lists ${order3.length}.`, orderFix);
+  }
+  return { kind: "matrix", name: input2.name, type: input2.type, featureNames: order3 };
+}
+function parseStoredOrder(text5, source) {
+  let parsed;
+  try {
+    parsed = JSON.parse(text5);
+  } catch {
+    parsed = void 0;
+  }
+  if (!Array.isArray(parsed) || !parsed.every((name) => typeof name === "string")) {
+    throw new UserError(
+      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text5.slice(0, 200)}`,
+      `Store the column order as a JSON array such as ["distance_km", "stop_count"], or list it under 'model.onnx.features' in plumbline.yml.`
+    );
+  }
+  return parsed;
+}
+function columnValues(input2, feature, column, start, end, source) {
+  const rows = end - start;
+  const dims = input2.rank === 1 ? [rows] : [rows, 1];
+  switch (input2.type) {
+    case "float32":
+      return { type: "float32", data: Float32Array.from(column.subarray(start, end)), dims };
+    case "float64":
+      return { type: "float64", data: column.slice(start, end), dims };
+    case "int64": {
+      const data = new BigInt64Array(rows);
+      for (let i = 0; i < rows; i++) {
+        const value3 = column[start + i];
+        if (!Number.isInteger(value3)) {
+          const what = Number.isNaN(value3) ? "a missing value" : `the value ${value3}`;
+          throw new UserError(
+            `The ONNX model '${source}' takes column '${input2.name}' as int64, but the data has ${what} there (row ${start + i + 1} of the rows scored).`,
+            `Export the model with a float input for '${input2.name}' (float inputs take missing values as NaN), or fill in the column before training and scoring.`
+          );
+        }
+        data[i] = BigInt(value3);
+      }
+      return { type: "int64", data, dims };
+    }
+    case "string": {
+      const categories = feature.categories;
+      if (feature.kind !== "categorical" || !categories) {
+        throw new RangeError(`onnxInputValues: column '${input2.name}' feeds a string input but is not categorical with a dictionary`);
+      }
+      const data = new Array(rows);
+      for (let i = 0; i < rows; i++) {
+        const code2 = column[start + i];
+        if (Number.isNaN(code2)) {
+          data[i] = "";
+        } else {
+          const label2 = categories[code2];
+          if (label2 === void 0) throw new InternalError(`column '${input2.name}' has code ${code2} outside its ${categories.length} categories`);
+          data[i] = label2;
+        }
+      }
+      return { type: "string", data, dims };
+    }
+    default:
+      throw new InternalError(`unplanned input type ${String(input2.type)}`);
+  }
+}
+
+// src/core/models/plan-onnx-output.ts
+var CLASS_SUM_TOLERANCE = 1e-4;
+function outputWidth(plan) {
+  return plan.kind === "multiclass" ? plan.classes.length : 1;
+}
+function planOnnxOutput(outputs, options, summary3) {
+  if (options.task === "regression") return planRegressionOutput(outputs, options.source);
+  if (options.task === "multiclass") return planClassOutput(outputs, options, summary3);
+  return planProbabilityOutput(outputs, options, summary3);
+}
+function readOnnxOutput(plan, returned, start, end, out) {
+  const rows = end - start;
+  const { dims, data } = returned;
+  if (plan.kind === "regression") {
+    if (!(dims[0] === rows && (dims.length === 1 || dims.length === 2 && dims[1] === 1))) {
+      throw outputError(`The ONNX model '${plan.source}' output '${plan.name}' came back with shape [${dims.join(", ")}] for ${rows} rows; a regression output must be [N] or [N, 1].`, plan.declared, REGRESSION_FIX);
+    }
+    out.set(data, start);
+    return;
+  }
+  const k = plan.kind === "binary" ? 2 : plan.classes.length;
+  if (!(dims.length === 2 && dims[0] === rows && dims[1] === k)) {
+    const must = plan.kind === "binary" ? `a binary model's probabilities must be [N, 2]` : `the probabilities must be [N, ${k}]`;
+    throw outputError(`The ONNX model '${plan.source}' output '${plan.name}' came back with shape [${dims.join(", ")}] for ${rows} rows; ${must}.`, plan.declared, classFix(k));
+  }
+  const slack = probabilitySlack(data);
+  if (plan.kind === "binary") {
+    for (let i = 0; i < rows; i++) {
+      const raw = data[2 * i + plan.positive];
+      const p = clampRounding(raw, slack);
+      if (!(p >= 0 && p <= 1)) {
+        throw new UserError(
+          `The ONNX model '${plan.source}' output '${plan.name}' is not a probability: row ${start + i + 1} of the rows scored has ${p}.`,
+          `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`
+        );
+      }
+      out[start + i] = p;
+    }
+    return;
+  }
+  for (let i = 0; i < rows; i++) {
+    for (let c = 0; c < k; c++) out[(start + i) * k + c] = data[i * k + plan.columns[c]];
+  }
+  checkClassRows(out.subarray(start * k, end * k), plan, slack, start, `output '${plan.name}'`);
+}
+function checkTreeOutput(plan, values) {
+  const slack = 16 * 2 ** -23;
+  if (plan.kind === "multiclass") {
+    checkClassRows(values, plan, slack, 0, "tree ensemble");
+    return values;
+  }
+  if (plan.kind === "regression") return values;
+  for (let i = 0; i < values.length; i++) {
+    const raw = values[i];
+    const p = clampRounding(raw, slack);
+    if (!(p >= 0 && p <= 1)) {
+      throw new UserError(
+        `The ONNX model '${plan.source}' does not give probabilities: row ${i + 1} of the rows scored has ${raw}.`,
+        `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`
+      );
+    }
+    values[i] = p;
+  }
+  return values;
+}
+function probabilitySlack(data) {
+  return 16 * (data instanceof Float32Array ? 2 ** -23 : Number.EPSILON);
+}
+var REGRESSION_FIX = `Export the regressor with exactly one float output holding one prediction per row, [N] or [N, 1].`;
+function classFix(k) {
+  return `Export the classifier with an output holding the class probabilities as a float tensor [N, ${k}] (name it 'probabilities' if it has several float outputs).`;
+}
+function clampRounding(raw, slack) {
+  return raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw;
+}
+function outputError(problem, declared, fix) {
+  return new UserError(`${problem}
+Model outputs: ${declared}`, fix);
+}
+function planRegressionOutput(outputs, source) {
+  const declared = describeValues(outputs);
+  const floats = outputs.filter(isFloatTensor);
+  if (floats.length !== 1) {
+    throw outputError(`The ONNX model '${source}' has ${floats.length} float tensor outputs; a regression model needs exactly one.`, declared, REGRESSION_FIX);
+  }
+  const output2 = floats[0];
+  if (!(output2.shape.length === 0 || isColumnShape(output2.shape))) {
+    throw outputError(`The ONNX model '${source}' output '${output2.name}' has shape ${describeShape(output2.shape)}; a regression output must be [N] or [N, 1].`, declared, REGRESSION_FIX);
+  }
+  return { kind: "regression", name: output2.name, source, declared };
+}
+function findProbabilities(outputs, k, source, declared) {
+  const floats = outputs.filter(isFloatTensor);
+  const declaredK = floats.filter((o) => o.shape.length === 2 && o.shape[1] === k);
+  const output2 = floats.find((o) => o.name === "probabilities") ?? (declaredK.length === 1 ? declaredK[0] : floats.length === 1 ? floats[0] : void 0);
+  if (!output2) {
+    const maps = outputs.filter((o) => !o.isTensor);
+    if (maps.length > 0) {
+      throw outputError(
+        `The ONNX model '${source}' returns its class probabilities as a sequence of maps (output '${maps[0].name}'), which plumbline cannot read.`,
+        declared,
+        `Export the probabilities as a plain float tensor [N, ${k}] instead: leave out the final ZipMap step that turns them into maps (in skl2onnx, the converter option zipmap=False).`
+      );
+    }
+    throw outputError(`The ONNX model '${source}' has no float tensor output of class probabilities [N, ${k}].`, declared, classFix(k));
+  }
+  return output2;
+}
+function planProbabilityOutput(outputs, options, summary3) {
+  const { source } = options;
+  const declared = describeValues(outputs);
+  const output2 = findProbabilities(outputs, 2, source, declared);
+  const width = output2.shape[1];
+  if (output2.shape.length !== 2 || typeof width === "number" && width >= 0 && width !== 2) {
+    throw outputError(`The ONNX model '${source}' output '${output2.name}' has shape ${describeShape(output2.shape)}; a binary model's probabilities must be [N, 2].`, declared, classFix(2));
+  }
+  const labels = summary3.classLabelsByOutput.get(output2.name) ?? (summary3.classLabelSets.length === 1 ? summary3.classLabelSets[0] : void 0);
+  return { kind: "binary", name: output2.name, source, declared, positive: positiveColumn(options.positiveClass, labels, source, output2.name) };
+}
+function planClassOutput(outputs, options, summary3) {
+  const { source } = options;
+  const classes = options.classes ?? [];
+  const k = classes.length;
+  if (k < 3) throw new RangeError(`planOnnxOutput needs the data's classes (at least 3) for a multiclass model, got ${k}`);
+  const declared = describeValues(outputs);
+  const output2 = findProbabilities(outputs, k, source, declared);
+  const declaredWidth = output2.shape[1];
+  if (output2.shape.length !== 2 || typeof declaredWidth === "number" && declaredWidth >= 0 && declaredWidth !== k) {
+    throw outputError(
+      `The ONNX model '${source}' output '${output2.name}' has shape ${describeShape(output2.shape)}; the data has ${k} classes (${classes.join(", ")}), so the probabilities must be [N, ${k}].`,
+      declared,
+      classFix(k)
+    );
+  }
+  const labels = summary3.classLabelsByOutput.get(output2.name) ?? (summary3.classLabelSets.length === 1 ? summary3.classLabelSets[0] : void 0);
+  return { kind: "multiclass", name: output2.name, source, declared, classes, columns: classColumns(classes, labels, source, output2.name) };
+}
+function positiveColumn(positiveClass, labels, source, outputName) {
+  const listed = labels?.map((l) => `'${l}'`).join(", ");
+  if (positiveClass === void 0) {
+    const one = labels?.findIndex((l) => l === 1 || l === "1") ?? -1;
+    return one >= 0 && labels.length === 2 ? one : 1;
+  }
+  const integerLabels = labels !== void 0 && labels.every((l) => typeof l === "number");
+  if (typeof positiveClass === "string" || integerLabels) {
+    if (!labels) {
+      throw new UserError(
+        `positive_class '${positiveClass}' cannot be looked up: the ONNX model '${source}' declares no class labels for its output '${outputName}'.`,
+        `Set 'model.onnx.positive_class' to the probability column of the positive class, 0 or 1.`
+      );
+    }
+    const column = labels.findIndex((l) => String(l) === String(positiveClass));
+    if (column < 0 || column > 1) {
+      throw new UserError(
+        `positive_class '${positiveClass}' is not one of the classes the ONNX model '${source}' declares: ${listed}.`,
+        `Set 'model.onnx.positive_class' to one of those labels${integerLabels ? "" : ", or to the probability column 0 or 1"}.`
+      );
+    }
+    return column;
+  }
+  if (positiveClass !== 0 && positiveClass !== 1) {
+    throw new UserError(
+      `positive_class ${positiveClass} is not a probability column of the ONNX model '${source}': its output '${outputName}' has columns 0 and 1.`,
+      `Set 'model.onnx.positive_class' to 0 or 1${labels ? `, or to one of the labels ${listed}` : ""}.`
+    );
+  }
+  return positiveClass;
+}
+function classColumns(classes, labels, source, outputName) {
+  if (!labels) return classes.map((_, c) => c);
+  const columns = classes.map((label2) => labels.findIndex((l) => String(l) === label2));
+  const missing = classes.filter((_, c) => columns[c] < 0);
+  if (missing.length > 0 || labels.length !== classes.length) {
+    throw new UserError(
+      `The ONNX model '${source}' declares the classes ${labels.map((l) => `'${l}'`).join(", ")} for its output '${outputName}', but the data's classes are ${classes.map((l) => `'${l}'`).join(", ")}` + (missing.length > 0 ? ` (the model has no ${missing.map((l) => `'${l}'`).join(", ")}).` : "."),
+      "Train and export the model on the same class labels as the target column, written the same way."
+    );
+  }
+  return columns;
+}
+function checkClassRows(values, plan, slack, firstRow, what) {
+  const k = plan.classes.length;
+  for (let i = 0; i < values.length / k; i++) {
+    let sum2 = 0;
+    for (let c = 0; c < k; c++) {
+      const raw = values[i * k + c];
+      const p = clampRounding(raw, slack);
+      if (!(p >= 0 && p <= 1)) {
+        throw new UserError(
+          `The ONNX model '${plan.source}' ${what} is not a probability: row ${firstRow + i + 1} of the rows scored has ${raw} for the class '${plan.classes[c]}' (column ${plan.columns[c]} of the model's ${k}).`,
+          "Export the model with its probability step (a softmax post-transform), not raw scores."
+        );
+      }
+      values[i * k + c] = p;
+      sum2 += p;
+    }
+    if (!(Math.abs(sum2 - 1) <= CLASS_SUM_TOLERANCE)) {
+      throw new UserError(
+        `The ONNX model '${plan.source}' ${what} does not give class probabilities: row ${firstRow + i + 1} of the rows scored sums to ${sum2}, not 1 (within ${CLASS_SUM_TOLERANCE}) over its ${k} class columns.`,
+        "Export the model with its probability step (a softmax post-transform), not raw or one-vs-rest scores."
+      );
+    }
+  }
+}
+
+// src/core/models/read-onnx-summary.ts
+function readOnnxSummary(bytes2) {
+  const decoded = onnxProto.ModelSummary.toObject(onnxProto.ModelSummary.decode(bytes2), {
+    longs: Number,
+    arrays: true
+  });
+  const metadata = /* @__PURE__ */ new Map();
+  for (const entry of decoded.metadataProps) metadata.set(entry.key ?? "", entry.value ?? "");
+  const classLabelsByOutput = /* @__PURE__ */ new Map();
+  const classLabelSets = [];
+  const text5 = new TextDecoder();
+  for (const node2 of decoded.graph?.node ?? []) {
+    if (node2.domain !== "ai.onnx.ml") continue;
+    let labels;
+    for (const attribute of node2.attribute ?? []) {
+      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text5.decode(s));
+      if (attribute.name === "classlabels_int64s") labels = attribute.ints ?? [];
+    }
+    if (!labels) continue;
+    for (const output2 of node2.output ?? []) classLabelsByOutput.set(output2, labels);
+    if (!classLabelSets.some((seen) => seen.length === labels.length && seen.every((l, i) => l === labels[i]))) {
+      classLabelSets.push(labels);
+    }
+  }
+  return { metadata, classLabelsByOutput, classLabelSets };
+}
+
 // src/core/models/parse-onnx-tree-ensemble.ts
 var text3 = new TextDecoder();
 var no = (reason) => ({ ok: false, reason });
 function parseOnnxTreeEnsemble(bytes2, target) {
-  const decoded = onnxProto.ModelProto.toObject(onnxProto.ModelProto.decode(bytes2), { longs: Number, arrays: true, bytes: Uint8Array });
-  const graph = decoded.graph;
-  if (!graph) return no("the file has no graph");
-  const initialized = new Set((graph.initializer ?? []).map((t) => t.name));
-  const inputs = (graph.input ?? []).filter((v) => !initialized.has(v.name));
-  if (inputs.length !== 1) return no(`the graph has ${inputs.length} inputs, not one [N, F] matrix`);
-  const input2 = inputs[0];
-  const elemType = input2.type?.tensorType?.elemType;
-  if (elemType !== OnnxDataType.FLOAT && elemType !== OnnxDataType.DOUBLE) return no("the input is not a float or double tensor");
-  const nodes = graph.node ?? [];
-  const producer = /* @__PURE__ */ new Map();
-  for (const node2 of nodes) for (const out of node2.output ?? []) producer.set(out, node2);
-  const source = (name) => {
-    let node2 = producer.get(name);
-    while (node2 && node2.domain !== "ai.onnx.ml" && (node2.opType === "Identity" || isFloatCast(node2))) {
-      name = node2.input[0];
-      node2 = producer.get(name);
-    }
-    return { name, node: node2 };
-  };
+  const graph = readTreeGraph(bytes2);
+  if (!graph.ok) return graph;
+  const { input: input2, elemType, producer, source } = graph;
   const end = source(target.outputName);
   let operator;
   let link = "identity";
@@ -54683,6 +55424,28 @@ function parseOnnxTreeEnsemble(bytes2, target) {
     width: parsed.width,
     ensemble: { baseScore: parsed.baseScore, trees: parsed.trees, link, float32Inputs }
   };
+}
+function readTreeGraph(bytes2) {
+  const decoded = onnxProto.ModelProto.toObject(onnxProto.ModelProto.decode(bytes2), { longs: Number, arrays: true, bytes: Uint8Array });
+  const graph = decoded.graph;
+  if (!graph) return { ok: false, reason: "the file has no graph" };
+  const initialized = new Set((graph.initializer ?? []).map((t) => t.name));
+  const inputs = (graph.input ?? []).filter((v) => !initialized.has(v.name));
+  if (inputs.length !== 1) return { ok: false, reason: `the graph has ${inputs.length} inputs, not one [N, F] matrix` };
+  const input2 = inputs[0];
+  const elemType = input2.type?.tensorType?.elemType;
+  if (elemType !== OnnxDataType.FLOAT && elemType !== OnnxDataType.DOUBLE) return { ok: false, reason: "the input is not a float or double tensor" };
+  const producer = /* @__PURE__ */ new Map();
+  for (const node2 of graph.node ?? []) for (const out of node2.output ?? []) producer.set(out, node2);
+  const source = (name) => {
+    let node2 = producer.get(name);
+    while (node2 && node2.domain !== "ai.onnx.ml" && (node2.opType === "Identity" || isFloatCast(node2))) {
+      name = node2.input[0];
+      node2 = producer.get(name);
+    }
+    return { name, node: node2 };
+  };
+  return { ok: true, input: input2, elemType, producer, source };
 }
 function isFloatCast(node2) {
   if (node2.opType !== "Cast") return false;
@@ -54783,8 +55546,8 @@ function buildTrees(attributes, weights, baseScore, aggregate, link, round2) {
         continue;
       }
       const yes = index2.get(trueIds[k]);
-      const no2 = index2.get(falseIds[k]);
-      if (yes === void 0 || no2 === void 0) return { ok: false, reason: `tree ${treeId} node ${nodeIds[k]} points at a node it does not have` };
+      const no3 = index2.get(falseIds[k]);
+      if (yes === void 0 || no3 === void 0) return { ok: false, reason: `tree ${treeId} node ${nodeIds[k]} points at a node it does not have` };
       const missingTrue = (tracks[k] ?? 0) === 1;
       const t = round2 ? Math.fround(values[k]) : values[k];
       let lessEqual;
@@ -54797,8 +55560,8 @@ function buildTrees(attributes, weights, baseScore, aggregate, link, round2) {
       tree.feature[at4] = featureIds[k];
       width = Math.max(width, featureIds[k] + 1);
       tree.threshold[at4] = lessEqual;
-      tree.left[at4] = trueIsLeft ? yes : no2;
-      tree.right[at4] = trueIsLeft ? no2 : yes;
+      tree.left[at4] = trueIsLeft ? yes : no3;
+      tree.right[at4] = trueIsLeft ? no3 : yes;
       tree.missingGoesLeft[at4] = missingTrue === trueIsLeft ? 1 : 0;
     }
     if (!isTree(tree)) return { ok: false, reason: `tree ${treeId} is not a tree rooted at its first node` };
@@ -54871,31 +55634,74 @@ function numbersOf(attributes, name) {
   return attributes.get(name)?.floats;
 }
 
-// src/adapters/onnx/read-onnx-summary.ts
-function readOnnxSummary(bytes2) {
-  const decoded = onnxProto.ModelSummary.toObject(onnxProto.ModelSummary.decode(bytes2), {
-    longs: Number,
-    arrays: true
-  });
-  const metadata = /* @__PURE__ */ new Map();
-  for (const entry of decoded.metadataProps) metadata.set(entry.key ?? "", entry.value ?? "");
-  const classLabelsByOutput = /* @__PURE__ */ new Map();
-  const classLabelSets = [];
-  const text5 = new TextDecoder();
-  for (const node2 of decoded.graph?.node ?? []) {
-    if (node2.domain !== "ai.onnx.ml") continue;
-    let labels;
-    for (const attribute of node2.attribute ?? []) {
-      if (attribute.name === "classlabels_strings") labels = (attribute.strings ?? []).map((s) => text5.decode(s));
-      if (attribute.name === "classlabels_int64s") labels = attribute.ints ?? [];
-    }
-    if (!labels) continue;
-    for (const output2 of node2.output ?? []) classLabelsByOutput.set(output2, labels);
-    if (!classLabelSets.some((seen) => seen.length === labels.length && seen.every((l, i) => l === labels[i]))) {
-      classLabelSets.push(labels);
-    }
+// src/core/models/parse-onnx-class-ensembles.ts
+var no2 = (reason) => ({ ok: false, reason });
+function parseOnnxClassEnsembles(bytes2, target) {
+  const graph = readTreeGraph(bytes2);
+  if (!graph.ok) return graph;
+  const { input: input2, elemType, source } = graph;
+  const end = source(target.outputName);
+  const operator = end.node;
+  if (operator?.opType !== "TreeEnsembleClassifier" || operator.domain !== "ai.onnx.ml" || operator.output?.[1] !== end.name) {
+    return no2(`the output '${target.outputName}' does not come from a TreeEnsembleClassifier's probabilities`);
   }
-  return { metadata, classLabelsByOutput, classLabelSets };
+  const reaches = source(operator.input?.[0] ?? "");
+  if (reaches.node !== void 0 || reaches.name !== input2.name) return no2("TreeEnsembleClassifier does not read the graph input directly");
+  const attributes = new Map((operator.attribute ?? []).map((a) => [a.name ?? "", a]));
+  const labels = attributes.get("classlabels_strings")?.strings?.length ?? attributes.get("classlabels_int64s")?.ints?.length ?? 0;
+  if (labels !== target.classCount || labels < 3) return no2(`TreeEnsembleClassifier with ${labels} classes, not ${target.classCount}`);
+  const post = stringOf(attributes, "post_transform") ?? "NONE";
+  if (post !== "NONE" && post !== "SOFTMAX") return no2(`TreeEnsembleClassifier post_transform ${post}`);
+  const ids = new Set(attributes.get("class_ids")?.ints ?? []);
+  if (ids.size !== labels || [...ids].some((id) => !(id >= 0 && id < labels))) return no2("TreeEnsembleClassifier with leaf weights that do not cover every class");
+  const base = numbersOf(attributes, "base_values") ?? [];
+  const float32Inputs = elemType === OnnxDataType.FLOAT;
+  const classes = [];
+  let width = 0;
+  for (let k = 0; k < labels; k++) {
+    const leaves = leafWeights(attributes, "class", (id) => id === k);
+    if (!leaves.ok) return no2(leaves.reason);
+    const built = buildTrees(attributes, leaves.weights, base[k] ?? 0, "SUM", "identity", float32Inputs);
+    if (!built.ok) return no2(built.reason);
+    width = Math.max(width, built.width);
+    classes.push({ baseScore: built.baseScore, trees: built.trees.filter((tree) => tree.value.some((v) => v !== 0)), link: "identity", float32Inputs });
+  }
+  return { ok: true, classes, postTransform: post, width };
+}
+
+// src/core/models/read-onnx-trees.ts
+function readOnnxTrees(bytes2, inputs, output2) {
+  if (inputs.kind !== "matrix") return void 0;
+  const { featureNames } = inputs;
+  try {
+    if (output2.kind === "multiclass") {
+      const parsed2 = parseOnnxClassEnsembles(bytes2, { outputName: output2.name, classCount: output2.classes.length });
+      if (!parsed2.ok || parsed2.width > featureNames.length) return void 0;
+      return {
+        classes: output2.columns.map((column) => ({ ...parsed2.classes[column], featureNames })),
+        link: parsed2.postTransform === "SOFTMAX" ? "softmax" : "none"
+      };
+    }
+    const parsed = parseOnnxTreeEnsemble(bytes2, {
+      task: output2.kind,
+      outputName: output2.name,
+      positiveColumn: output2.kind === "binary" ? output2.positive : void 0
+    });
+    return parsed.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : void 0;
+  } catch {
+    return void 0;
+  }
+}
+function createOnnxTreePredictor(trees, base, output2) {
+  const inner = "classes" in trees ? createClassEnsemblesPredictor(trees, base) : createTreeReplacementPredictor(trees, base);
+  if (!inner) return void 0;
+  const checked = (values) => checkTreeOutput(output2, values);
+  const many = inner.predictMany?.bind(inner);
+  return {
+    rows: inner.rows,
+    predict: (replaced, draws) => checked(inner.predict(replaced, draws)),
+    ...many ? { predictMany: (units, draws) => many(units, draws).map(checked) } : {}
+  };
 }
 
 // src/adapters/onnx/load-onnx-model.ts
@@ -54923,20 +55729,23 @@ async function loadOnnxModel(bytes2, options) {
       `Export '${options.source}' again; a file changed after export (or stored as a Git LFS pointer) reads this way.`
     );
   }
-  const inputs = planInputs(session.inputMetadata, options, summary3);
-  const output2 = options.task === "regression" ? planRegressionOutput(session.outputMetadata, options.source) : planProbabilityOutput(session.outputMetadata, options, summary3);
+  const inputs = planOnnxInputs(session.inputMetadata, options, summary3.metadata);
+  const output2 = planOnnxOutput(session.outputMetadata, options, summary3);
+  const width = outputWidth(output2);
   const { source } = options;
   const featureNames = inputs.featureNames;
-  const parsed = inputs.isMatrix && options.evaluator !== "onnxruntime" ? readTrees(bytes2, options.task, output2) : void 0;
-  let trees = parsed?.ok && parsed.width <= featureNames.length ? { ...parsed.ensemble, featureNames } : void 0;
+  let trees = options.evaluator !== "onnxruntime" ? readOnnxTrees(bytes2, inputs, output2) : void 0;
   let checked = false;
   let engine = trees ? "plumbline-trees" : "onnxruntime";
-  const evaluate2 = (matrix, ensemble) => createTreeReplacementPredictor(ensemble, matrix)?.predict(/* @__PURE__ */ new Map(), 1);
+  const evaluate2 = (matrix, ensemble) => createOnnxTreePredictor(ensemble, matrix, output2)?.predict(/* @__PURE__ */ new Map(), 1);
   const runSession = async (matrix) => {
-    const out = new Float64Array(matrix.rows);
+    const out = new Float64Array(matrix.rows * width);
     for (let start = 0; start < matrix.rows; start += batchRows) {
       const end = Math.min(matrix.rows, start + batchRows);
-      const feeds = inputs.build(matrix, start, end);
+      const feeds = {};
+      for (const [name, value3] of Object.entries(onnxInputValues(inputs, matrix, start, end, source))) {
+        feeds[name] = new import_onnxruntime_node.default.Tensor(value3.type, value3.data, value3.dims);
+      }
       let result;
       try {
         result = await session.run(feeds, [output2.name]);
@@ -54945,7 +55754,8 @@ async function loadOnnxModel(bytes2, options) {
           `The ONNX model '${source}' failed on rows ${start + 1} to ${end} of the data: ${error62 instanceof Error ? error62.message : String(error62)}`
         );
       }
-      output2.copy(result[output2.name], start, end, out);
+      const tensor = result[output2.name];
+      readOnnxOutput(output2, { dims: tensor.dims, data: tensor.data }, start, end, out);
     }
     return out;
   };
@@ -54953,6 +55763,7 @@ async function loadOnnxModel(bytes2, options) {
     kind: "onnx",
     task: options.task,
     featureNames,
+    ...output2.kind === "multiclass" ? { classCount: width } : {},
     get engine() {
       return engine;
     },
@@ -54965,331 +55776,28 @@ async function loadOnnxModel(bytes2, options) {
       if (trees && !checked) {
         checked = true;
         const sample2 = selectRows(matrix, Array.from({ length: Math.min(CHECK_ROWS, matrix.rows) }, (_, i) => i));
-        const ours = evaluate2(sample2, trees);
+        let ours;
+        try {
+          ours = evaluate2(sample2, trees);
+        } catch {
+          ours = void 0;
+        }
         const theirs = await runSession(sample2);
         if (!ours || ours.some((p, i) => !(Math.abs(p - theirs[i]) <= AGREEMENT * Math.max(1, Math.abs(theirs[i]))))) {
           trees = void 0;
           engine = "onnxruntime";
         }
       }
-      if (trees) {
-        const values = evaluate2(matrix, trees);
-        return options.task === "binary" ? asProbabilities(values, options.source) : values;
-      }
+      if (trees) return evaluate2(matrix, trees);
       return runSession(matrix);
     },
     createReplacementPredictor(base) {
-      return trees && checked ? createTreeReplacementPredictor(trees, base) : void 0;
+      return trees && checked ? createOnnxTreePredictor(trees, base, output2) : void 0;
     }
   };
 }
 var CHECK_ROWS = 2048;
 var AGREEMENT = 1e-5;
-function planInputs(inputs, options, summary3) {
-  const byName = new Map(options.features.map((f) => [f.name, f]));
-  const mismatch = (problem, fix) => new UserError(`${problem}
-Model inputs: ${describeValues(inputs)}
-Data columns: ${describeColumns(options.features)}`, fix);
-  const perColumnFix = `Name each model input after the data column it reads, or export one float input [N, F] and list its columns in order under 'model.onnx.features'.`;
-  if (inputs.length === 0) throw mismatch(`The ONNX model '${options.source}' has no inputs.`, perColumnFix);
-  if (inputs.length === 1 && !byName.has(inputs[0].name)) return planMatrixInput(inputs[0], options, summary3, mismatch);
-  for (const input2 of inputs) {
-    const feature = byName.get(input2.name);
-    if (!feature) throw mismatch(`The ONNX model '${options.source}' has an input '${input2.name}' that matches no data column.`, perColumnFix);
-    if (!input2.isTensor) throw mismatch(`The ONNX model '${options.source}' input '${input2.name}' is not a tensor.`, perColumnFix);
-    if (!isColumnShape(input2.shape)) {
-      throw mismatch(
-        `The ONNX model '${options.source}' input '${input2.name}' has shape ${describeShape(input2.shape)}; an input per column must be [N, 1] or [N].`,
-        perColumnFix
-      );
-    }
-    if (!["float32", "float64", "int64", "string"].includes(input2.type)) {
-      throw mismatch(
-        `The ONNX model '${options.source}' input '${input2.name}' is ${input2.type}; an input per column must be float32, float64, int64 or string.`,
-        `Export the model with a float input for '${input2.name}'.`
-      );
-    }
-    if (input2.type === "string" && feature.kind !== "categorical") {
-      throw mismatch(
-        `The ONNX model '${options.source}' input '${input2.name}' is a string tensor, but data column '${input2.name}' is numeric.`,
-        `Declare the column categorical under 'data.columns' in plumbline.yml, or export the model with a float input for '${input2.name}'.`
-      );
-    }
-  }
-  const columns = inputs;
-  return {
-    isMatrix: false,
-    featureNames: columns.map((input2) => input2.name),
-    build(matrix, start, end) {
-      const feeds = {};
-      columns.forEach((input2, j) => {
-        feeds[input2.name] = columnTensor(input2, matrix.features[j], matrix.columns[j], start, end, options.source);
-      });
-      return feeds;
-    }
-  };
-}
-function planMatrixInput(input2, options, summary3, mismatch) {
-  const { source } = options;
-  const orderFix = `List the columns in order under 'model.onnx.features' in plumbline.yml, or store them in the model as metadata '${FEATURES_METADATA_KEY}' (a JSON array of column names).`;
-  if (!input2.isTensor || input2.type !== "float32" && input2.type !== "float64") {
-    throw mismatch(
-      `The ONNX model '${source}' input '${input2.name}' is ${input2.isTensor ? input2.type : "not a tensor"}; a single input [N, F] must be a float32 or float64 tensor.`,
-      `Export the model with a float input, or with one input per data column named after the column.`
-    );
-  }
-  if (input2.shape.length !== 2) {
-    throw mismatch(`The ONNX model '${source}' input '${input2.name}' has shape ${describeShape(input2.shape)}; a single input must be [N, F].`, orderFix);
-  }
-  let order3;
-  let origin;
-  const stored = summary3.metadata.get(FEATURES_METADATA_KEY);
-  if (options.featureOrder) {
-    order3 = options.featureOrder;
-    origin = `'model.onnx.features'`;
-  } else if (stored !== void 0) {
-    order3 = parseStoredOrder(stored, source);
-    origin = `its metadata '${FEATURES_METADATA_KEY}'`;
-  } else {
-    throw mismatch(`The ONNX model '${source}' takes one input '${input2.name}' ${describeShape(input2.shape)} and does not say which data column goes in which position.`, orderFix);
-  }
-  const seen = /* @__PURE__ */ new Set();
-  for (const name of order3) {
-    if (seen.has(name)) throw mismatch(`The column order for the ONNX model '${source}' (${origin}) lists '${name}' twice.`, orderFix);
-    seen.add(name);
-  }
-  const byName = new Map(options.features.map((f) => [f.name, f]));
-  const unknown2 = order3.find((name) => !byName.has(name));
-  if (unknown2 !== void 0) {
-    throw mismatch(`The ONNX model '${source}' reads column '${unknown2}' (from ${origin}), which the data does not have.`, orderFix);
-  }
-  const width = input2.shape[1];
-  if (typeof width === "number" && width >= 0 && width !== order3.length) {
-    throw mismatch(`The ONNX model '${source}' input '${input2.name}' takes ${width} columns, but ${origin} lists ${order3.length}.`, orderFix);
-  }
-  const type = input2.type;
-  return {
-    isMatrix: true,
-    featureNames: order3,
-    build(matrix, start, end) {
-      const rows = end - start;
-      const width2 = matrix.columns.length;
-      const data = type === "float32" ? new Float32Array(rows * width2) : new Float64Array(rows * width2);
-      for (let j = 0; j < width2; j++) {
-        const column = matrix.columns[j];
-        for (let i = 0; i < rows; i++) data[i * width2 + j] = column[start + i];
-      }
-      return { [input2.name]: new import_onnxruntime_node.default.Tensor(type, data, [rows, width2]) };
-    }
-  };
-}
-function parseStoredOrder(text5, source) {
-  let parsed;
-  try {
-    parsed = JSON.parse(text5);
-  } catch {
-    parsed = void 0;
-  }
-  if (!Array.isArray(parsed) || !parsed.every((name) => typeof name === "string")) {
-    throw new UserError(
-      `The ONNX model '${source}' has metadata '${FEATURES_METADATA_KEY}' that is not a JSON array of column names: ${text5.slice(0, 200)}`,
-      `Store the column order as a JSON array such as ["distance_km", "stop_count"], or list it under 'model.onnx.features' in plumbline.yml.`
-    );
-  }
-  return parsed;
-}
-function isColumnShape(shape) {
-  if (shape.length === 1) return true;
-  return shape.length === 2 && (shape[1] === 1 || typeof shape[1] === "string" || shape[1] < 0);
-}
-function columnTensor(input2, feature, column, start, end, source) {
-  const rows = end - start;
-  const dims = input2.shape.length === 1 ? [rows] : [rows, 1];
-  switch (input2.type) {
-    case "float32":
-      return new import_onnxruntime_node.default.Tensor("float32", Float32Array.from(column.subarray(start, end)), dims);
-    case "float64":
-      return new import_onnxruntime_node.default.Tensor("float64", column.slice(start, end), dims);
-    case "int64": {
-      const data = new BigInt64Array(rows);
-      for (let i = 0; i < rows; i++) {
-        const value3 = column[start + i];
-        if (!Number.isInteger(value3)) {
-          const what = Number.isNaN(value3) ? "a missing value" : `the value ${value3}`;
-          throw new UserError(
-            `The ONNX model '${source}' takes column '${input2.name}' as int64, but the data has ${what} there (row ${start + i + 1} of the rows scored).`,
-            `Export the model with a float input for '${input2.name}' (float inputs take missing values as NaN), or fill in the column before training and scoring.`
-          );
-        }
-        data[i] = BigInt(value3);
-      }
-      return new import_onnxruntime_node.default.Tensor("int64", data, dims);
-    }
-    case "string": {
-      const categories = feature.categories;
-      if (feature.kind !== "categorical" || !categories) {
-        throw new RangeError(`predict: column '${input2.name}' feeds a string input but is not categorical with a dictionary`);
-      }
-      const data = new Array(rows);
-      for (let i = 0; i < rows; i++) {
-        const code2 = column[start + i];
-        if (Number.isNaN(code2)) {
-          data[i] = "";
-        } else {
-          const label2 = categories[code2];
-          if (label2 === void 0) throw new InternalError(`column '${input2.name}' has code ${code2} outside its ${categories.length} categories`);
-          data[i] = label2;
-        }
-      }
-      return new import_onnxruntime_node.default.Tensor("string", data, dims);
-    }
-    default:
-      throw new InternalError(`unplanned input type ${input2.type}`);
-  }
-}
-var isFloatTensor = (value3) => value3.isTensor && (value3.type === "float32" || value3.type === "float64");
-function outputError(problem, outputs, fix) {
-  return new UserError(`${problem}
-Model outputs: ${describeValues(outputs)}`, fix);
-}
-function planRegressionOutput(outputs, source) {
-  const floats = outputs.filter(isFloatTensor);
-  const fix = `Export the regressor with exactly one float output holding one prediction per row, [N] or [N, 1].`;
-  if (floats.length !== 1) {
-    throw outputError(`The ONNX model '${source}' has ${floats.length} float tensor outputs; a regression model needs exactly one.`, outputs, fix);
-  }
-  const output2 = floats[0];
-  if (!(output2.shape.length === 0 || isColumnShape(output2.shape))) {
-    throw outputError(`The ONNX model '${source}' output '${output2.name}' has shape ${describeShape(output2.shape)}; a regression output must be [N] or [N, 1].`, outputs, fix);
-  }
-  return {
-    name: output2.name,
-    copy(value3, start, end, out) {
-      const tensor = value3;
-      const rows = end - start;
-      const dims = tensor.dims;
-      if (!(dims[0] === rows && (dims.length === 1 || dims.length === 2 && dims[1] === 1))) {
-        throw outputError(`The ONNX model '${source}' output '${output2.name}' came back with shape [${dims.join(", ")}] for ${rows} rows; a regression output must be [N] or [N, 1].`, outputs, fix);
-      }
-      out.set(tensor.data, start);
-    }
-  };
-}
-function planProbabilityOutput(outputs, options, summary3) {
-  const { source } = options;
-  const fix = `Export the classifier with an output holding the class probabilities as a float tensor [N, 2] (name it 'probabilities' if it has several float outputs).`;
-  const floats = outputs.filter(isFloatTensor);
-  const declaredPairs = floats.filter((o) => o.shape.length === 2 && o.shape[1] === 2);
-  const output2 = floats.find((o) => o.name === "probabilities") ?? (declaredPairs.length === 1 ? declaredPairs[0] : floats.length === 1 ? floats[0] : void 0);
-  if (!output2) {
-    const maps = outputs.filter((o) => !o.isTensor);
-    if (maps.length > 0) {
-      throw outputError(
-        `The ONNX model '${source}' returns its class probabilities as a sequence of maps (output '${maps[0].name}'), which plumbline cannot read.`,
-        outputs,
-        `Export the probabilities as a plain float tensor [N, 2] instead: leave out the final ZipMap step that turns them into maps (in skl2onnx, the converter option zipmap=False).`
-      );
-    }
-    throw outputError(`The ONNX model '${source}' has no float tensor output of class probabilities [N, 2].`, outputs, fix);
-  }
-  const width = output2.shape[1];
-  if (output2.shape.length !== 2 || typeof width === "number" && width >= 0 && width !== 2) {
-    throw outputError(`The ONNX model '${source}' output '${output2.name}' has shape ${describeShape(output2.shape)}; a binary model's probabilities must be [N, 2].`, outputs, fix);
-  }
-  const labels = summary3.classLabelsByOutput.get(output2.name) ?? (summary3.classLabelSets.length === 1 ? summary3.classLabelSets[0] : void 0);
-  const positive = positiveColumn(options.positiveClass, labels, source, output2.name);
-  return {
-    name: output2.name,
-    positive,
-    copy(value3, start, end, out) {
-      const tensor = value3;
-      const rows = end - start;
-      if (!(tensor.dims.length === 2 && tensor.dims[0] === rows && tensor.dims[1] === 2)) {
-        throw outputError(`The ONNX model '${source}' output '${output2.name}' came back with shape [${tensor.dims.join(", ")}] for ${rows} rows; a binary model's probabilities must be [N, 2].`, outputs, fix);
-      }
-      const data = tensor.data;
-      const slack = probabilitySlack(data);
-      for (let i = 0; i < rows; i++) {
-        const raw = data[2 * i + positive];
-        const p = raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw;
-        if (!(p >= 0 && p <= 1)) {
-          throw new UserError(
-            `The ONNX model '${source}' output '${output2.name}' is not a probability: row ${start + i + 1} of the rows scored has ${p}.`,
-            `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`
-          );
-        }
-        out[start + i] = p;
-      }
-    }
-  };
-}
-function asProbabilities(values, source) {
-  const slack = 16 * 2 ** -23;
-  for (let i = 0; i < values.length; i++) {
-    const raw = values[i];
-    const p = raw < 0 && raw >= -slack ? 0 : raw > 1 && raw <= 1 + slack ? 1 : raw;
-    if (!(p >= 0 && p <= 1)) {
-      throw new UserError(
-        `The ONNX model '${source}' does not give probabilities: row ${i + 1} of the rows scored has ${raw}.`,
-        `Export the model with its probability step (a sigmoid or softmax post-transform), not raw scores.`
-      );
-    }
-    values[i] = p;
-  }
-  return values;
-}
-function probabilitySlack(data) {
-  return 16 * (data instanceof Float32Array ? 2 ** -23 : Number.EPSILON);
-}
-function positiveColumn(positiveClass, labels, source, outputName) {
-  const listed = labels?.map((l) => `'${l}'`).join(", ");
-  if (positiveClass === void 0) {
-    const one = labels?.findIndex((l) => l === 1 || l === "1") ?? -1;
-    return one >= 0 && labels.length === 2 ? one : 1;
-  }
-  const integerLabels = labels !== void 0 && labels.every((l) => typeof l === "number");
-  if (typeof positiveClass === "string" || integerLabels) {
-    if (!labels) {
-      throw new UserError(
-        `positive_class '${positiveClass}' cannot be looked up: the ONNX model '${source}' declares no class labels for its output '${outputName}'.`,
-        `Set 'model.onnx.positive_class' to the probability column of the positive class, 0 or 1.`
-      );
-    }
-    const column = labels.findIndex((l) => String(l) === String(positiveClass));
-    if (column < 0 || column > 1) {
-      throw new UserError(
-        `positive_class '${positiveClass}' is not one of the classes the ONNX model '${source}' declares: ${listed}.`,
-        `Set 'model.onnx.positive_class' to one of those labels${integerLabels ? "" : ", or to the probability column 0 or 1"}.`
-      );
-    }
-    return column;
-  }
-  if (positiveClass !== 0 && positiveClass !== 1) {
-    throw new UserError(
-      `positive_class ${positiveClass} is not a probability column of the ONNX model '${source}': its output '${outputName}' has columns 0 and 1.`,
-      `Set 'model.onnx.positive_class' to 0 or 1${labels ? `, or to one of the labels ${listed}` : ""}.`
-    );
-  }
-  return positiveClass;
-}
-function describeShape(shape) {
-  return `[${shape.map((d) => typeof d === "number" && d < 0 ? "?" : String(d)).join(", ")}]`;
-}
-function describeValues(values) {
-  if (values.length === 0) return "(none)";
-  return values.map((v) => v.isTensor ? `${v.name} (${v.type} ${describeShape(v.shape)})` : `${v.name} (not a tensor)`).join(", ");
-}
-function describeColumns(features) {
-  if (features.length === 0) return "(none)";
-  return features.map((f) => `${f.name} (${f.kind})`).join(", ");
-}
-function readTrees(bytes2, task, output2) {
-  try {
-    return parseOnnxTreeEnsemble(bytes2, { task, outputName: output2.name, positiveColumn: output2.positive });
-  } catch {
-    return void 0;
-  }
-}
 
 // src/adapters/training/create-command-fit.ts
 import { mkdtemp as mkdtemp2, rm as rm3 } from "node:fs/promises";
@@ -55524,6 +56032,7 @@ function createCommandFit(options) {
         task: options.task,
         features: options.features.filter((f) => !leftOut.has(f.name)),
         positiveClass: options.positiveClass,
+        ...options.classes ? { classes: options.classes } : {},
         batchRows: options.batchRows
       });
     } catch (error62) {
@@ -55557,7 +56066,8 @@ async function loadSideModel(config2, side3) {
         task: config2.task,
         features: side3.train.features,
         featureOrder: model.features,
-        positiveClass: model.positiveClass
+        positiveClass: model.positiveClass,
+        ...config2.task === "multiclass" ? { classes: side3.train.target?.classes ?? [] } : {}
       })
     };
   }
@@ -55583,6 +56093,7 @@ async function loadSideModel(config2, side3) {
         },
         task: config2.task,
         features: side3.train.features,
+        ...config2.task === "multiclass" ? { classes: side3.train.target?.classes ?? [] } : {},
         onTrained: (event) => side3.log(`${event.label}: trained in ${event.seconds.toFixed(1)} s`)
       })
     };
@@ -56554,7 +57065,7 @@ function unitCacheKey(toolVersion2, unit, job, identity) {
 }
 
 // src/adapters/check/unit-cache.ts
-import { mkdir, readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
+import { access, readFile as readFile2, rename, rm as rm4, writeFile } from "node:fs/promises";
 import { join as join5 } from "node:path";
 
 // src/core/gate/unit-files.ts
@@ -56702,10 +57213,49 @@ function parseJson(textContent, source, what) {
   }
 }
 
+// src/adapters/files/make-folder.ts
+import { mkdir, stat as stat3 } from "node:fs/promises";
+import { dirname as dirname3 } from "node:path";
+function describeWriteError(error62) {
+  const code2 = error62.code;
+  const words = {
+    ENOENT: "the folder cannot be created there",
+    EACCES: "permission denied",
+    EPERM: "permission denied",
+    ENOTDIR: "a part of the path is a file, not a folder",
+    EEXIST: "a part of the path is a file, not a folder",
+    EROFS: "the file system is read-only",
+    ENOSPC: "no space is left on the disk",
+    EISDIR: "it is a folder"
+  };
+  return code2 && words[code2] ? `${words[code2]} (${code2})` : code2 ?? error62.message;
+}
+async function makeFolder(folder) {
+  const missing = [];
+  let current = folder;
+  for (; ; ) {
+    const found = await stat3(current).catch(() => null);
+    if (found) {
+      if (!found.isDirectory()) throw Object.assign(new Error(`${current} is not a folder`), { code: "ENOTDIR" });
+      break;
+    }
+    const parent = dirname3(current);
+    if (parent === current) break;
+    missing.push(current);
+    current = parent;
+  }
+  for (const level of missing.reverse()) {
+    await mkdir(level).catch(async (error62) => {
+      if (error62.code === "EEXIST" && (await stat3(level).catch(() => null))?.isDirectory()) return;
+      throw error62;
+    });
+  }
+}
+
 // src/adapters/check/unit-cache.ts
 async function createUnitCache(options) {
   try {
-    await mkdir(options.directory, { recursive: true });
+    await makeFolder(options.directory);
   } catch (error62) {
     throw new UserError(
       `Could not use --cache ${options.directory}: ${error62.code ?? error62.message}.`,
@@ -56716,6 +57266,11 @@ async function createUnitCache(options) {
   const keyOf = (unit, job) => unitCacheKey(options.toolVersion, unit, job, options.identities[unit.side]);
   const execute = async (units, context) => {
     const keys = units.map((unit) => keyOf(unit, context.jobs[unit.side === "base" ? 0 : 1]));
+    if (options.store) {
+      const wanted = keys.filter((key2) => key2 !== void 0);
+      const absent = (await Promise.all(wanted.map(async (key2) => await access(join5(options.directory, `${key2}.json`)).then(() => true, () => false) ? null : key2))).filter((key2) => key2 !== null);
+      if (absent.length > 0) await options.store.restore(options.directory, absent);
+    }
     const found = await Promise.all(
       units.map(async (unit, k) => {
         const key2 = keys[k];
@@ -56736,6 +57291,7 @@ async function createUnitCache(options) {
       (keys[k] ? used.measured : used.uncacheable).push(unit.id);
       return measured[next++];
     });
+    const written = [];
     for (const [k, unit] of units.entries()) {
       const key2 = keys[k];
       if (found[k] || !key2) continue;
@@ -56744,6 +57300,7 @@ async function createUnitCache(options) {
       try {
         await writeFile(temporary, cacheEntryText(key2, unit, results[k]));
         await rename(temporary, path);
+        written.push(key2);
       } catch (error62) {
         await rm4(temporary, { force: true });
         throw new UserError(
@@ -56752,6 +57309,7 @@ async function createUnitCache(options) {
         );
       }
     }
+    if (options.store && written.length > 0) await options.store.save(options.directory, written);
     return results;
   };
   return { execute, used };
@@ -56760,7 +57318,7 @@ async function createUnitCache(options) {
 // src/adapters/check/run-check.ts
 async function runCheck(request) {
   return withOpenedCheck(request, async (opened) => {
-    const measure = await localExecutor(opened, request.cache);
+    const measure = await localExecutor(opened, request.cache, request.cacheStore);
     const report = await gateOf(opened, request, measure.execute);
     return measure.cache ? { ...report, cache: measure.cache.used } : report;
   });
@@ -56778,12 +57336,12 @@ function gateOf(opened, request, execute) {
     now: () => performance.now() / 1e3
   });
 }
-async function localExecutor(opened, cache) {
+async function localExecutor(opened, cache, store) {
   const pool = createPoolMeasure(process.env);
   if (pool) opened.onClose(pool.close);
   const execute = pool?.execute ?? executeInProcess;
   if (!cache) return { execute };
-  const unitCache = await createUnitCache({ directory: resolve6(cache), toolVersion, identities: opened.identities, execute });
+  const unitCache = await createUnitCache({ directory: resolve6(cache), ...store ? { store } : {}, toolVersion, identities: opened.identities, execute });
   return { execute: unitCache.execute, cache: unitCache };
 }
 async function withOpenedCheck(request, body) {
@@ -56897,7 +57455,7 @@ function toRepoPath(path) {
 }
 
 // src/adapters/check/run-shards.ts
-import { mkdir as mkdir2, readdir as readdir2, readFile as readFile3, rename as rename2, rm as rm5, stat as stat3, writeFile as writeFile2 } from "node:fs/promises";
+import { readdir as readdir2, readFile as readFile3, rename as rename2, rm as rm5, stat as stat4, writeFile as writeFile2 } from "node:fs/promises";
 import { join as join6, resolve as resolve7 } from "node:path";
 var maxPartialBytes = 1024 * 1024 * 1024;
 function digestsOf(opened) {
@@ -56954,7 +57512,7 @@ function runShard(request) {
       units = planDropColumnUnits(context, combined);
     }
     const mine = assignShards(units, request.of)[request.index - 1];
-    const local = await localExecutor(opened, request.cache);
+    const local = await localExecutor(opened, request.cache, request.cacheStore);
     const results = mine.length > 0 ? await local.execute(mine, context) : [];
     const file2 = {
       ...partialFormat,
@@ -56981,7 +57539,7 @@ async function readPartials(paths, cwd, inputs, digest) {
   const files = [];
   for (const given of paths) {
     const path = resolve7(cwd, given);
-    const info = await stat3(path).catch(() => null);
+    const info = await stat4(path).catch(() => null);
     if (!info) throw new UserError(`No folder or file ${given} (looked at ${path}).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
     if (info.isFile()) {
       files.push(path);
@@ -56995,7 +57553,7 @@ async function readPartials(paths, cwd, inputs, digest) {
   }
   const read = [];
   for (const path of files) {
-    const size = (await stat3(path)).size;
+    const size = (await stat4(path)).size;
     if (size > maxPartialBytes) throw new UserError(`${path} is ${size} bytes, more than a partial result file can be (${maxPartialBytes}).`, "Pass the files plumbline shard wrote.");
     const file2 = readPartialFile(await readFile3(path, "utf8"), path);
     refuseForeignInputs(file2, path, inputs, digest);
@@ -57069,7 +57627,7 @@ async function writePartial(folder, name, file2) {
   const path = join6(folder, name);
   const temporary = `${path}.${process.pid}.tmp`;
   try {
-    await mkdir2(folder, { recursive: true });
+    await makeFolder(folder);
     await writeFile2(temporary, `${JSON.stringify(file2)}
 `);
     await rename2(temporary, path);
@@ -57323,8 +57881,8 @@ function closestOption(typed, options) {
 }
 
 // src/adapters/cli/init.ts
-import { access, mkdir as mkdir3, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
-import { dirname as dirname3, join as join7, resolve as resolve8 } from "node:path";
+import { access as access2, readFile as readFile4, readdir as readdir3, writeFile as writeFile3 } from "node:fs/promises";
+import { dirname as dirname4, join as join7, resolve as resolve8 } from "node:path";
 
 // src/core/policy/render-starter-policy.ts
 var labelNames = ["target", "label", "y", "outcome"];
@@ -57473,7 +58031,7 @@ function renderStarterPolicy(input2) {
     optional3(2, `timeout_seconds: ${defaultTrainCommand.timeoutSeconds}`),
     optional3(2, `parallel: ${defaultTrainCommand.parallel}`)
   ]);
-  const metrics = Object.keys(metricTasks).filter((m) => metricTasks[m] === task);
+  const metrics = metricsOfTask(task);
   const importance2 = renderBlock([
     key(0, "importance:"),
     optional3(1, `metric: ${defaultMetric[task]}`, metrics.join(", ")),
@@ -57573,7 +58131,7 @@ async function init(command, io) {
   const holdout = holdoutPathFor(trainPath);
   const holdoutPath = holdout !== trainPath && await exists(resolve8(root2, holdout)) ? holdout : void 0;
   const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task, ...holdoutPath ? { holdoutPath } : {} });
-  await mkdir3(dirname3(output2), { recursive: true });
+  await makeFolder(dirname4(output2));
   await writeFile3(output2, policy);
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : " (no target guessed: set one)"}. Review it, then run 'plumbline check'.
 `);
@@ -57592,7 +58150,7 @@ async function findTrainingTable(root2) {
   );
 }
 async function exists(path) {
-  return access(path).then(
+  return access2(path).then(
     () => true,
     () => false
   );
@@ -57697,7 +58255,18 @@ async function main(argv, io) {
 async function planOutputs(command, cwd) {
   const planned = [];
   for (const [flag, path] of [["--json", command.json], ["--markdown", command.markdown], ["--html", command.html]]) {
-    if (path) planned.push({ flag, path: await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false }) });
+    if (!path) continue;
+    const full = await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false });
+    const existing = await stat5(full).catch(() => null);
+    if (!existing?.isCharacterDevice()) {
+      try {
+        await makeFolder(dirname5(full));
+        await access3(dirname5(full), constants2.W_OK);
+      } catch (error62) {
+        throw new UserError(`Could not write ${flag} ${path}: ${describeWriteError(error62)}.`, `Name a file in a folder you can write to (${flag} FILE).`);
+      }
+    }
+    planned.push({ flag, path: full });
   }
   return planned;
 }
@@ -57712,19 +58281,19 @@ async function writeOutputs(command, full, cwd) {
   const staged = [];
   try {
     for (const { flag, path } of await planOutputs(command, cwd)) {
-      const existing = await stat4(path).catch(() => null);
+      const existing = await stat5(path).catch(() => null);
       try {
         if (existing && !existing.isFile()) {
           await writeFile5(path, texts[flag]);
           continue;
         }
-        await mkdir4(dirname4(path), { recursive: true });
-        const temporary = join8(dirname4(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
+        await makeFolder(dirname5(path));
+        const temporary = join8(dirname5(path), `.${basename3(path)}.plumbline-${process.pid}.tmp`);
         staged.push({ temporary, path });
         await writeFile5(temporary, texts[flag]);
       } catch (error62) {
         throw new UserError(
-          `Could not write ${flag} ${path}: ${error62.code ?? error62.message}. No report file was written.`,
+          `Could not write ${flag} ${path}: ${describeWriteError(error62)}. No report file was written.`,
           `Name a file in a folder you can write to, on a disk with room (${flag} FILE).`
         );
       }

@@ -456,6 +456,11 @@ function stackedCopies(data, draws, hasFastPath) {
   return { rows, features: data.features, columns };
 }
 
+// src/core/models/model.ts
+function predictionWidth(model) {
+  return model.classCount ?? 1;
+}
+
 // src/core/statistics/random.ts
 function splitmix32(state) {
   let z2 = state + 2654435769 | 0;
@@ -551,14 +556,91 @@ function tInterval(values, options = {}) {
   return { mean: center, sd, n, halfWidth, lower: center - halfWidth, upper: center + halfWidth };
 }
 
-// src/core/importance/row-contributions.ts
+// src/core/metrics/check-paired.ts
+function checkPaired(name, y, prediction, labels) {
+  if (y.length !== prediction.length) {
+    throw new RangeError(`${name} needs paired samples, got ${y.length} targets and ${prediction.length} predictions`);
+  }
+  if (labels === "binary") {
+    for (let i = 0; i < y.length; i++) {
+      if (y[i] !== 0 && y[i] !== 1) throw new RangeError(`${name} needs targets of 0 or 1, got ${y[i]} at index ${i}`);
+    }
+  }
+}
+function checkClassMatrix(name, y, probabilities) {
+  const n = y.length;
+  if (n === 0) {
+    if (probabilities.length !== 0) throw new RangeError(`${name} needs paired samples, got 0 targets and ${probabilities.length} probabilities`);
+    return 0;
+  }
+  const k = probabilities.length / n;
+  if (!Number.isInteger(k) || k < 2) {
+    throw new RangeError(`${name} needs an [N, K] probability matrix with K >= 2 for ${n} targets, got ${probabilities.length} values`);
+  }
+  for (let i = 0; i < n; i++) {
+    if (!Number.isInteger(y[i]) || y[i] < 0 || y[i] >= k) throw new RangeError(`${name} needs class indices from 0 to ${k - 1}, got ${y[i]} at index ${i}`);
+  }
+  return k;
+}
+
+// src/core/metrics/multiclass-accuracy.ts
+function multiclassAccuracy(y, probabilities) {
+  const k = checkClassMatrix("multiclassAccuracy", y, probabilities);
+  if (k === 0) return NaN;
+  let correct = 0;
+  for (let i = 0; i < y.length; i++) {
+    const predicted = argmaxRow(probabilities, i * k, k);
+    if (predicted < 0) return NaN;
+    if (predicted === y[i]) correct++;
+  }
+  return correct / y.length;
+}
+function argmaxRow(values, offset, k) {
+  let best = 0;
+  let bestValue = values[offset];
+  if (bestValue !== bestValue) return -1;
+  for (let c = 1; c < k; c++) {
+    const v = values[offset + c];
+    if (v !== v) return -1;
+    if (v > bestValue) {
+      best = c;
+      bestValue = v;
+    }
+  }
+  return best;
+}
+
+// src/core/metrics/multiclass-log-loss.ts
 var EPSILON = 1e-15;
+function multiclassLogLoss(y, probabilities) {
+  const k = checkClassMatrix("multiclassLogLoss", y, probabilities);
+  if (k === 0) return NaN;
+  let sum2 = 0;
+  for (let i = 0; i < y.length; i++) sum2 += rowLogLoss(y[i], probabilities, i * k, k, i);
+  return sum2 / y.length;
+}
+function rowLogLoss(label, probabilities, offset, k, row = 0) {
+  let total = 0;
+  let own = 0;
+  for (let c = 0; c < k; c++) {
+    const p = probabilities[offset + c];
+    if (p < 0 || p > 1) throw new RangeError(`multiclassLogLoss needs probabilities in [0, 1], got ${p} at row ${row}, class ${c}`);
+    const clipped = Math.min(1 - EPSILON, Math.max(EPSILON, p));
+    total += clipped;
+    if (c === label) own = clipped;
+  }
+  return -Math.log(own / total);
+}
+
+// src/core/importance/row-contributions.ts
+var EPSILON2 = 1e-15;
 function rowContributions(metric, y, base, permuted, out) {
   const n = y.length;
+  if (metric.task === "multiclass") return multiclassContributions(metric, y, base, permuted, out);
   switch (metric.name) {
     case "log-loss": {
       const loss = (t, p) => {
-        const q = Math.min(Math.max(p, EPSILON), 1 - EPSILON);
+        const q = Math.min(Math.max(p, EPSILON2), 1 - EPSILON2);
         return -(t * Math.log(q) + (1 - t) * Math.log(1 - q));
       };
       for (let i = 0; i < n; i++) out[i] = loss(y[i], permuted[i]) - loss(y[i], base[i]);
@@ -595,6 +677,20 @@ function rowContributions(metric, y, base, permuted, out) {
       return null;
   }
 }
+function multiclassContributions(metric, y, base, permuted, out) {
+  const n = y.length;
+  const k = n === 0 ? 0 : base.length / n;
+  switch (metric.name) {
+    case "log-loss":
+      for (let i = 0; i < n; i++) out[i] = rowLogLoss(y[i], permuted, i * k, k, i) - rowLogLoss(y[i], base, i * k, k, i);
+      return out;
+    case "accuracy":
+      for (let i = 0; i < n; i++) out[i] = Number(argmaxRow(base, i * k, k) === y[i]) - Number(argmaxRow(permuted, i * k, k) === y[i]);
+      return out;
+    default:
+      return null;
+  }
+}
 
 // src/core/importance/permutation-importance.ts
 async function permutationImportance(model, evaluation, options) {
@@ -607,6 +703,7 @@ async function permutationImportance(model, evaluation, options) {
   const reference = options.reference ? selectFeatures(options.reference, names) : data;
   const usesOwnRows = options.reference === void 0;
   const n = data.rows;
+  const width = predictionWidth(model);
   const y = evaluation.target.values;
   if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`);
   if (reference.rows < 1) throw new RangeError("permutationImportance needs at least 1 reference row");
@@ -648,7 +745,7 @@ async function permutationImportance(model, evaluation, options) {
     rowSum.fill(0);
     let decomposes = true;
     for (let k = 0; k < draws; k++) {
-      const block = prediction.subarray(k * n, (k + 1) * n);
+      const block = prediction.subarray(k * n * width, (k + 1) * n * width);
       const permuted = metric.compute(y, block);
       values.push(metric.higherIsBetter ? score2 - permuted : permuted - score2);
       if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {
@@ -691,6 +788,7 @@ function summarizeDraws(values) {
 // src/core/importance/prediction-sensitivity.ts
 async function predictionSensitivity(model, rows, options) {
   const { draws, threshold } = options;
+  const argmax = options.argmax === true;
   if (!Number.isInteger(draws) || draws < 1) {
     throw new RangeError(`predictionSensitivity needs a whole number of draws >= 1, got ${draws}`);
   }
@@ -701,6 +799,8 @@ async function predictionSensitivity(model, rows, options) {
   if (n < 1) throw new RangeError("predictionSensitivity needs at least 1 row");
   if (reference.rows < 1) throw new RangeError("predictionSensitivity needs at least 1 reference row");
   const original = await model.predict(data);
+  const width = predictionWidth(model);
+  const countsFlips = threshold !== void 0 || argmax;
   const units = replacementUnits(names, options.groups);
   const fast = model.createReplacementPredictor?.(data);
   const stackedMatrix = stackedCopies(data, draws, Boolean(fast));
@@ -721,18 +821,28 @@ async function predictionSensitivity(model, rows, options) {
     }
     const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix);
     const changes = [];
-    const flips = [];
+    const flipShares = [];
     for (let k = 0; k < draws; k++) {
       let change = 0;
       let flipped = 0;
-      for (let i = 0; i < n; i++) {
-        const before = original[i];
-        const after = prediction[k * n + i];
-        change += Math.abs(after - before);
-        if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
+      if (width > 1) {
+        for (let i = 0; i < n; i++) {
+          const at = (k * n + i) * width;
+          let total = 0;
+          for (let c = 0; c < width; c++) total += Math.abs(prediction[at + c] - original[i * width + c]);
+          change += total / 2;
+          if (argmax && argmaxRow(original, i * width, width) !== argmaxRow(prediction, at, width)) flipped++;
+        }
+      } else {
+        for (let i = 0; i < n; i++) {
+          const before = original[i];
+          const after = prediction[k * n + i];
+          change += Math.abs(after - before);
+          if (threshold !== void 0 && before >= threshold !== after >= threshold) flipped++;
+        }
       }
       changes.push(change / n);
-      flips.push(flipped / n);
+      flipShares.push(flipped / n);
     }
     if (!fast) {
       for (const j of unit.columns) for (let k = 0; k < draws; k++) stacked[j].set(data.columns[j], k * n);
@@ -743,7 +853,7 @@ async function predictionSensitivity(model, rows, options) {
       isGroup: unit.isGroup,
       draws: changes,
       mean: average(changes),
-      ...threshold !== void 0 ? { flipDraws: flips, flipShare: average(flips) } : {}
+      ...countsFlips ? { flipDraws: flipShares, flipShare: average(flipShares) } : {}
     });
   }
   return estimates;
@@ -757,18 +867,6 @@ function average(values) {
   let s = 0;
   for (const v of values) s += v;
   return s / values.length;
-}
-
-// src/core/metrics/check-paired.ts
-function checkPaired(name, y, prediction, labels) {
-  if (y.length !== prediction.length) {
-    throw new RangeError(`${name} needs paired samples, got ${y.length} targets and ${prediction.length} predictions`);
-  }
-  if (labels === "binary") {
-    for (let i = 0; i < y.length; i++) {
-      if (y[i] !== 0 && y[i] !== 1) throw new RangeError(`${name} needs targets of 0 or 1, got ${y[i]} at index ${i}`);
-    }
-  }
 }
 
 // src/core/metrics/roc-auc.ts
@@ -805,6 +903,30 @@ function rocAuc(y, score2) {
   return pairs / (positives * negatives);
 }
 
+// src/core/metrics/macro-ovr-auc.ts
+function macroOvrAuc(y, probabilities) {
+  const aucs = oneVsRestAucs(y, probabilities);
+  if (aucs.length === 0) return NaN;
+  let sum2 = 0;
+  for (const a of aucs) sum2 += a;
+  return sum2 / aucs.length;
+}
+function oneVsRestAucs(y, probabilities) {
+  const k = checkClassMatrix("macroOvrAuc", y, probabilities);
+  const n = y.length;
+  const aucs = [];
+  const isClass = new Float64Array(n);
+  const column = new Float64Array(n);
+  for (let c = 0; c < k; c++) {
+    for (let i = 0; i < n; i++) {
+      isClass[i] = y[i] === c ? 1 : 0;
+      column[i] = probabilities[i * k + c];
+    }
+    aucs.push(rocAuc(isClass, column));
+  }
+  return aucs;
+}
+
 // src/core/metrics/r-squared.ts
 function rSquared(y, prediction) {
   checkPaired("rSquared", y, prediction, "any");
@@ -828,6 +950,16 @@ function rSquared(y, prediction) {
   return 1 - residual / total;
 }
 
+// src/core/models/prediction-rows.ts
+function predictionRows(predictions, rows, width) {
+  const out = new Float64Array(rows.length * width);
+  for (let r = 0; r < rows.length; r++) {
+    const from = rows[r] * width;
+    for (let c = 0; c < width; c++) out[r * width + c] = predictions[from + c];
+  }
+  return out;
+}
+
 // src/core/measure-side.ts
 async function measureRefit(model, inputs, options, rows, refit) {
   const { holdout, train: train3 } = inputs;
@@ -835,7 +967,7 @@ async function measureRefit(model, inputs, options, rows, refit) {
   if (!target) throw new RangeError("measureSide needs a holdout with a target");
   const predictions = await model.predict(selectFeatures(holdout, model.featureNames));
   const score2 = options.metric.compute(target.values, predictions);
-  const separation = options.task === "binary" ? rocAuc(target.values, predictions) : rSquared(target.values, predictions);
+  const separation = options.task === "binary" ? rocAuc(target.values, predictions) : options.task === "multiclass" ? macroOvrAuc(target.values, predictions) : rSquared(target.values, predictions);
   const result = await permutationImportance(model, rows.evaluation, {
     metric: options.metric,
     draws: options.draws,
@@ -846,8 +978,7 @@ async function measureRefit(model, inputs, options, rows, refit) {
   const featureOrder = train3.features.map((f) => f.name);
   const slices = [];
   for (const slice of rows.slices) {
-    const slicePrediction = new Float64Array(slice.rows.length);
-    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]];
+    const slicePrediction = predictionRows(predictions, slice.rows, predictionWidth(model));
     const sliced = await permutationImportance(model, slice.data, {
       metric: options.metric,
       draws: options.draws,
@@ -862,9 +993,10 @@ async function measureRefit(model, inputs, options, rows, refit) {
   }
   let sensitivity;
   if (options.sensitivity) {
-    const threshold = options.sensitivity.threshold;
-    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold };
-    const order = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold);
+    const { threshold, argmax } = options.sensitivity;
+    const settings = { draws: options.draws, seed: deriveSeed(options.seed, "sensitivity"), reference: rows.reference, groups: options.groups, threshold, argmax };
+    const countsFlips = threshold !== void 0 || argmax === true;
+    const order = (units) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, countsFlips);
     sensitivity = {
       holdout: order(await predictionSensitivity(model, rows.evaluation, settings)),
       ...rows.unlabeled ? { unlabeled: order(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}
@@ -881,7 +1013,7 @@ async function measureRefit(model, inputs, options, rows, refit) {
     ...sensitivity ? { sensitivity } : {}
   };
 }
-function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold) {
+function canonicalSensitivity(estimates, featureOrder, groups, draws, countsFlips) {
   const byKey = new Map(estimates.map((e) => [`${e.isGroup ? "g" : "f"}:${e.name}`, e]));
   const zeros = new Array(draws).fill(0);
   const zero = (name, members, isGroup) => ({
@@ -890,7 +1022,7 @@ function canonicalSensitivity(estimates, featureOrder, groups, draws, threshold)
     isGroup,
     draws: zeros,
     mean: 0,
-    ...threshold !== void 0 ? { flipDraws: zeros, flipShare: 0 } : {}
+    ...countsFlips ? { flipDraws: zeros, flipShare: 0 } : {}
   });
   const present = new Set(featureOrder);
   return [
@@ -1192,6 +1324,44 @@ function treeDepth(tree) {
   return most;
 }
 
+// src/core/models/gbt/class-ensembles-predictor.ts
+function createClassEnsemblesPredictor(model, base) {
+  const predictors = model.classes.map((ensemble) => createTreeReplacementPredictor(ensemble, base));
+  if (predictors.some((p) => p === void 0)) return void 0;
+  const perClass = predictors;
+  const rows = base.rows;
+  const combine = (scores) => combineClassScores(scores, model.link);
+  return {
+    rows,
+    predict: (replaced, draws) => combine(perClass.map((p) => p.predict(replaced, draws))),
+    predictMany: (units, draws) => {
+      const byClass = perClass.map((p) => p.predictMany ? p.predictMany(units, draws) : units.map((u) => p.predict(u, draws)));
+      return units.map((_, u) => combine(byClass.map((outputs) => outputs[u])));
+    }
+  };
+}
+function combineClassScores(scores, link) {
+  const k = scores.length;
+  const n = k === 0 ? 0 : scores[0].length;
+  const out = new Float64Array(n * k);
+  for (let i = 0; i < n; i++) {
+    if (link === "none") {
+      for (let c = 0; c < k; c++) out[i * k + c] = scores[c][i];
+      continue;
+    }
+    let max = -Infinity;
+    for (let c = 0; c < k; c++) max = Math.max(max, scores[c][i]);
+    let total = 0;
+    for (let c = 0; c < k; c++) {
+      const e = Math.exp(scores[c][i] - max);
+      out[i * k + c] = e;
+      total += e;
+    }
+    for (let c = 0; c < k; c++) out[i * k + c] /= total;
+  }
+  return out;
+}
+
 // src/core/models/gbt/boosted-model.ts
 var BoostedModel = class {
   constructor(ensemble, splitStatistics) {
@@ -1199,6 +1369,7 @@ var BoostedModel = class {
     this.splitStatistics = splitStatistics;
     this.task = ensemble.task;
     this.featureNames = ensemble.featureNames;
+    if (ensemble.classCount !== void 0) this.classCount = ensemble.classCount;
   }
   ensemble;
   splitStatistics;
@@ -1206,6 +1377,8 @@ var BoostedModel = class {
   engine = "plumbline-trees";
   task;
   featureNames;
+  /** Multiclass only: K; predict returns row-major [N, K] softmax probabilities. */
+  classCount;
   /**
    * Predictions over raw values ("raw" as opposed to bins): the regression value, or for a binary
    * task the positive-class probability. Features are found by name in `matrix`, in any order; extra
@@ -1213,6 +1386,16 @@ var BoostedModel = class {
    */
   /** Permutation importance's fast path: see createTreeReplacementPredictor. */
   createReplacementPredictor(base) {
+    if (this.task === "multiclass") {
+      const k = this.ensemble.classCount;
+      const classes = Array.from({ length: k }, (_, c) => ({
+        featureNames: this.featureNames,
+        baseScore: this.ensemble.baseScore,
+        trees: this.ensemble.trees.filter((_2, t) => t % k === c),
+        link: "identity"
+      }));
+      return createClassEnsemblesPredictor({ classes, link: "softmax" }, base);
+    }
     return createTreeReplacementPredictor({ ...this.ensemble, link: this.task === "binary" ? "logistic" : "identity" }, base);
   }
   predictRaw(matrix) {
@@ -1225,6 +1408,7 @@ var BoostedModel = class {
       return matrix.columns[j];
     });
     const n = matrix.rows;
+    if (this.task === "multiclass") return this.predictClasses(columns, n);
     const score2 = new Float64Array(n).fill(this.ensemble.baseScore);
     for (const tree of this.ensemble.trees) addTree2(tree, columns, n, score2);
     if (this.task === "binary") {
@@ -1234,6 +1418,13 @@ var BoostedModel = class {
   }
   async predict(matrix) {
     return this.predictRaw(matrix);
+  }
+  /** Multiclass: each class's raw score from its trees (round-major order), then the softmax of each row; row-major [N, K]. */
+  predictClasses(columns, n) {
+    const k = this.ensemble.classCount;
+    const margins = Array.from({ length: k }, () => new Float64Array(n).fill(this.ensemble.baseScore));
+    this.ensemble.trees.forEach((tree, t) => addTree2(tree, columns, n, margins[t % k]));
+    return combineClassScores(margins, "softmax");
   }
 };
 function addTree2(tree, columns, n, score2) {
@@ -1253,7 +1444,7 @@ function addTree2(tree, columns, n, score2) {
 
 // src/core/models/resolve-training-subset.ts
 function resolveTrainingSubset(caller, shape, target, task, options) {
-  if (task !== "regression" && task !== "binary") throw new RangeError(`${caller}: unknown task '${String(task)}'`);
+  if (task !== "regression" && task !== "binary" && task !== "multiclass") throw new RangeError(`${caller}: unknown task '${String(task)}'`);
   if (target.length !== shape.rows) {
     throw new RangeError(`${caller} needs one target per row, got ${target.length} targets for ${shape.rows} rows`);
   }
@@ -1280,8 +1471,8 @@ function resolveTrainingSubset(caller, shape, target, task, options) {
   const y = new Float64Array(positions.length);
   for (let p = 0; p < positions.length; p++) {
     const value = target[positions[p]];
-    if (!Number.isFinite(value) || task === "binary" && value !== 0 && value !== 1) {
-      const rule = task === "binary" ? "binary targets must be 0 or 1" : "regression targets must be finite";
+    if (!Number.isFinite(value) || task === "binary" && value !== 0 && value !== 1 || task === "multiclass" && !(Number.isInteger(value) && value >= 0)) {
+      const rule = task === "binary" ? "binary targets must be 0 or 1" : task === "multiclass" ? "multiclass targets must be class indices 0, 1, 2, ..." : "regression targets must be finite";
       throw new RangeError(`${caller}: target of row ${positions[p]} is ${value}; ${rule}`);
     }
     y[p] = value;
@@ -1307,13 +1498,17 @@ function fitBoosted(binned, target, options) {
   const rowCodes = gatherRowMajor(binned.codes, used, positions);
   const columnCodes = gatherColumns(binned.codes, used, positions);
   const binCounts = Int32Array.from(used, (j) => binned.binCounts[j]);
+  const classCount = task === "multiclass" ? checkClassCount(options.classCount, y) : 1;
   let targetSum = 0;
   for (let p = 0; p < n; p++) targetSum += y[p];
-  const baseScore = task === "regression" ? targetSum / n : logOdds(targetSum / n);
+  const baseScore = task === "multiclass" ? 0 : task === "regression" ? targetSum / n : logOdds(targetSum / n);
   const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n));
   const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)));
   const grower = new TreeGrower(rowCodes, columnCodes, binCounts, n, settings, task === "regression");
-  const score2 = new Float64Array(n).fill(baseScore);
+  const scores = Array.from({ length: classCount }, () => new Float64Array(n).fill(baseScore));
+  const score2 = scores[0];
+  const classGradients = classCount > 1 ? scores.map(() => new Float64Array(n)) : [];
+  const classHessians = classCount > 1 ? scores.map(() => new Float64Array(n)) : [];
   const random = createRandom(options.seed);
   const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k);
   const gainByFeature = new Float64Array(featureCount);
@@ -1321,6 +1516,20 @@ function fitBoosted(binned, target, options) {
   const trees = [];
   const upperEdges = used.map((j) => binned.upperEdges[j]);
   for (let t = 0; t < settings.trees; t++) {
+    if (classCount > 1) {
+      computeSoftmaxGradients(y, scores, classGradients, classHessians);
+      for (let k = 0; k < classCount; k++) {
+        grower.gradient.set(classGradients[k]);
+        grower.hessian.set(classHessians[k]);
+        const rowCount2 = sampleSorted(n, sampleSize, random, grower.order);
+        const treeFeatures2 = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
+        grower.grow(rowCount2, treeFeatures2);
+        grower.addToScores(scores[k], rowCount2);
+        grower.addSplitStatistics(gainByFeature, splitsByFeature);
+        trees.push(grower.toTree(upperEdges));
+      }
+      continue;
+    }
     computeGradients(task, y, score2, grower.gradient, grower.hessian);
     const rowCount = sampleSorted(n, sampleSize, random, grower.order);
     const treeFeatures = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
@@ -1335,7 +1544,35 @@ function fitBoosted(binned, target, options) {
     gain: gainByFeature[k],
     splits: splitsByFeature[k]
   }));
-  return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics);
+  return new BoostedModel({ task, featureNames, baseScore, trees, ...classCount > 1 ? { classCount } : {} }, splitStatistics);
+}
+function checkClassCount(classCount, y) {
+  if (classCount === void 0 || !Number.isInteger(classCount) || classCount < 3) {
+    throw new RangeError(`fitBoosted needs options.classCount >= 3 for a multiclass task, got ${classCount}`);
+  }
+  for (let p = 0; p < y.length; p++) {
+    if (y[p] >= classCount) throw new RangeError(`fitBoosted: a target is class ${y[p]}, but options.classCount is ${classCount}`);
+  }
+  return classCount;
+}
+function computeSoftmaxGradients(y, scores, g2, h) {
+  const k = scores.length;
+  const n = y.length;
+  const p = new Float64Array(k);
+  for (let i = 0; i < n; i++) {
+    let max = -Infinity;
+    for (let c = 0; c < k; c++) max = Math.max(max, scores[c][i]);
+    let total = 0;
+    for (let c = 0; c < k; c++) {
+      p[c] = Math.exp(scores[c][i] - max);
+      total += p[c];
+    }
+    for (let c = 0; c < k; c++) {
+      const q = p[c] / total;
+      g2[c][i] = q - (y[i] === c ? 1 : 0);
+      h[c][i] = Math.max(2 * q * (1 - q), 1e-16);
+    }
+  }
 }
 function leaveOut(allowed, excluded, width) {
   if (!excluded || excluded.length === 0) return allowed;
@@ -2202,6 +2439,10 @@ function createBuiltinFit(train3, task, settings, options = {}) {
   if (!target) throw new RangeError("createBuiltinFit needs a training dataset with a target");
   let binned;
   const names = train3.features.map((f) => f.name);
+  const classCount = task === "multiclass" ? train3.target?.classes?.length : void 0;
+  if (task === "multiclass" && !(classCount !== void 0 && classCount >= 3)) {
+    throw new RangeError("createBuiltinFit needs a multiclass target with its classes (K >= 3)");
+  }
   return async (request) => {
     const leaveOut2 = new Set(request.leaveOut);
     for (const name of leaveOut2) {
@@ -2214,6 +2455,7 @@ function createBuiltinFit(train3, task, settings, options = {}) {
     if (settings.learner === "linear") {
       const features = columnOrder.filter((j) => !leaveOut2.has(names[j]));
       const options2 = { l2: settings.linearL2, rows, features };
+      if (task === "multiclass") throw new RangeError("createBuiltinFit: the linear learner has no multiclass fit (the policy refuses it)");
       return task === "binary" ? fitLogistic(train3, target, options2) : fitRidge(train3, target, options2);
     }
     binned ??= options.binned ?? binFeatures(train3, { maxBins: settings.maxBins });
@@ -2223,7 +2465,8 @@ function createBuiltinFit(train3, task, settings, options = {}) {
       seed: request.seed,
       rows,
       features: columnOrder,
-      excludeFeatures: excluded
+      excludeFeatures: excluded,
+      ...classCount !== void 0 ? { classCount } : {}
     });
   };
 }
@@ -2254,14 +2497,14 @@ function brierScore(y, p) {
 }
 
 // src/core/metrics/log-loss.ts
-var EPSILON2 = 1e-15;
+var EPSILON3 = 1e-15;
 function logLoss(y, p) {
   checkPaired("logLoss", y, p, "binary");
   let sum2 = 0;
   for (let i = 0; i < y.length; i++) {
     const probability = p[i];
     if (probability < 0 || probability > 1) throw new RangeError(`logLoss needs probabilities in [0, 1], got ${probability} at index ${i}`);
-    const clipped = Math.min(1 - EPSILON2, Math.max(EPSILON2, probability));
+    const clipped = Math.min(1 - EPSILON3, Math.max(EPSILON3, probability));
     sum2 -= Math.log(y[i] === 1 ? clipped : 1 - clipped);
   }
   return sum2 / y.length;
@@ -2294,9 +2537,13 @@ var METRICS = [
   { name: "brier", task: "binary", higherIsBetter: false, compute: brierScore },
   { name: "rmse", task: "regression", higherIsBetter: false, compute: rmse },
   { name: "mae", task: "regression", higherIsBetter: false, compute: mae },
-  { name: "r2", task: "regression", higherIsBetter: true, compute: rSquared }
+  { name: "r2", task: "regression", higherIsBetter: true, compute: rSquared },
+  // Multiclass: predictions are row-major [N, K] class probabilities, y the class index.
+  { name: "log-loss", task: "multiclass", higherIsBetter: false, compute: multiclassLogLoss },
+  { name: "accuracy", task: "multiclass", higherIsBetter: true, compute: multiclassAccuracy },
+  { name: "auc", task: "multiclass", higherIsBetter: true, compute: macroOvrAuc }
 ];
-var TASK_WORDS = { binary: "a binary target", regression: "a regression target" };
+var TASK_WORDS = { binary: "a binary target", regression: "a regression target", multiclass: "a multiclass target" };
 function metricByName(name, task) {
   const allowed = METRICS.filter((m) => m.task === task);
   const metric = allowed.find((m) => m.name === name);
@@ -2308,7 +2555,7 @@ function metricByName(name, task) {
   );
 }
 function defaultMetric(task) {
-  return task === "binary" ? "log-loss" : "rmse";
+  return task === "regression" ? "rmse" : "log-loss";
 }
 
 // src/adapters/parallel/refit-worker.ts

@@ -4,9 +4,11 @@ import { computeNoiseFloor, type FlooredImportance } from './importance/compute-
 import { permutationImportance, type FeatureGroup, type ImportanceEstimate } from './importance/permutation-importance.ts'
 import { predictionSensitivity, type SensitivityEstimate } from './importance/prediction-sensitivity.ts'
 import type { Metric } from './metrics/metric.ts'
+import { macroOvrAuc } from './metrics/macro-ovr-auc.ts'
 import { rocAuc } from './metrics/roc-auc.ts'
 import { rSquared } from './metrics/r-squared.ts'
-import type { Fit, Model, ModelEngine } from './models/model.ts'
+import { predictionWidth, type Fit, type Model, type ModelEngine } from './models/model.ts'
+import { predictionRows } from './models/prediction-rows.ts'
 import { createRandom, deriveSeed, shuffledIndices } from './statistics/random.ts'
 import { measureDropColumns, type DropColumnRequest, type DropColumnScores } from './measure-drop-columns.ts'
 import { rankByValue } from './statistics/rank-by-value.ts'
@@ -39,7 +41,7 @@ export interface MeasureSideOptions {
   /** Ask the fit for every refit at once (training commands, which run up to their own parallel limit). */
   readonly concurrentFits?: boolean
   /** Measure prediction sensitivity in every refit (on the capped holdout, and on `unlabeled`). */
-  readonly sensitivity?: { readonly threshold?: number }
+  readonly sensitivity?: { readonly threshold?: number; readonly argmax?: boolean }
   /** Policy slices of the holdout (row indices) to score and measure importance on, in every refit. */
   readonly slices?: readonly { readonly name: string; readonly rows: Uint32Array }[]
   /** Drop-column (LOCO) refits after the full ones, with the same seeds; none for a loaded model. */
@@ -165,7 +167,12 @@ export async function measureRefit(
   if (!target) throw new RangeError('measureSide needs a holdout with a target')
   const predictions = await model.predict(selectFeatures(holdout, model.featureNames))
   const score = options.metric.compute(target.values, predictions)
-  const separation = options.task === 'binary' ? rocAuc(target.values, predictions) : rSquared(target.values, predictions)
+  const separation =
+    options.task === 'binary'
+      ? rocAuc(target.values, predictions)
+      : options.task === 'multiclass'
+        ? macroOvrAuc(target.values, predictions)
+        : rSquared(target.values, predictions)
   const result = await permutationImportance(model, rows.evaluation, {
     metric: options.metric,
     draws: options.draws,
@@ -176,8 +183,7 @@ export async function measureRefit(
   const featureOrder = train.features.map((f) => f.name)
   const slices: RefitMeasurement['slices'][number][] = []
   for (const slice of rows.slices) {
-    const slicePrediction = new Float64Array(slice.rows.length)
-    for (let k = 0; k < slice.rows.length; k++) slicePrediction[k] = predictions[slice.rows[k]]
+    const slicePrediction = predictionRows(predictions, slice.rows, predictionWidth(model))
     const sliced = await permutationImportance(model, slice.data, {
       metric: options.metric,
       draws: options.draws,
@@ -193,9 +199,10 @@ export async function measureRefit(
   let sensitivity: RefitMeasurement['sensitivity']
   if (options.sensitivity) {
     // The same draw seed on both sides and in every refit: common random numbers, as for importance.
-    const threshold = options.sensitivity.threshold
-    const settings = { draws: options.draws, seed: deriveSeed(options.seed, 'sensitivity'), reference: rows.reference, groups: options.groups, threshold }
-    const order = (units: SensitivityEstimate[]) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, threshold)
+    const { threshold, argmax } = options.sensitivity
+    const settings = { draws: options.draws, seed: deriveSeed(options.seed, 'sensitivity'), reference: rows.reference, groups: options.groups, threshold, argmax }
+    const countsFlips = threshold !== undefined || argmax === true
+    const order = (units: SensitivityEstimate[]) => canonicalSensitivity(units, featureOrder, options.groups, options.draws, countsFlips)
     sensitivity = {
       holdout: order(await predictionSensitivity(model, rows.evaluation, settings)),
       ...(rows.unlabeled ? { unlabeled: order(await predictionSensitivity(model, rows.unlabeled, settings)) } : {}),
@@ -300,7 +307,7 @@ function canonicalSensitivity(
   featureOrder: readonly string[],
   groups: readonly FeatureGroup[],
   draws: number,
-  threshold: number | undefined,
+  countsFlips: boolean,
 ): SensitivityEstimate[] {
   const byKey = new Map(estimates.map((e) => [`${e.isGroup ? 'g' : 'f'}:${e.name}`, e]))
   const zeros = new Array<number>(draws).fill(0)
@@ -310,7 +317,7 @@ function canonicalSensitivity(
     isGroup,
     draws: zeros,
     mean: 0,
-    ...(threshold !== undefined ? { flipDraws: zeros, flipShare: 0 } : {}),
+    ...(countsFlips ? { flipDraws: zeros, flipShare: 0 } : {}),
   })
   const present = new Set(featureOrder)
   return [

@@ -10,6 +10,7 @@ import {
   defaultTopLevel,
   defaultTrainCommand,
   metricTasks,
+  metricsOfTask,
 } from '../../src/core/policy/policy-defaults.ts'
 import { boostingOnlyKeys, policySchema } from '../../src/core/policy/policy-schema.ts'
 import { describePolicyKey } from '../../src/core/policy/describe-policy-key.ts'
@@ -32,7 +33,7 @@ describe('the named defaults', () => {
     })
     expect(defaultTrainCommand).toEqual({ timeoutSeconds: 1800, parallel: 2 })
     expect(defaultImportance).toEqual({ draws: 5, refits: 5, referenceRows: 10000, evaluationRows: 20000, dropColumnTop: 1, groupThreshold: 0.9 })
-    expect(defaultMetric).toEqual({ binary: 'log-loss', regression: 'rmse' })
+    expect(defaultMetric).toEqual({ binary: 'log-loss', regression: 'rmse', multiclass: 'log-loss' })
     expect(defaultChecks).toEqual({
       leakage: { action: 'block', dominanceShare: 0.5, runnerUpRatio: 3, singleFeaturePower: 0.99, relativePower: 0.8, liftWarn: 0.15, liftBlock: 0.25, sliceWarnPower: 0.9, reviewedColumns: [] },
       rankShift: { action: 'warn', falseDiscoveryRate: 0.05, minPositions: 2, agreementPercentile: 5 },
@@ -56,6 +57,8 @@ describe('the named defaults', () => {
   it('give each task a default metric of that task', () => {
     expect(metricTasks[defaultMetric.binary]).toBe('binary')
     expect(metricTasks[defaultMetric.regression]).toBe('regression')
+    expect(metricsOfTask('multiclass')).toContain(defaultMetric.multiclass)
+    expect(metricsOfTask('multiclass')).toEqual(['log-loss', 'accuracy', 'auc'])
   })
 })
 

@@ -28,7 +28,7 @@ import { createRandom } from '../../src/core/statistics/random.ts'
 import { courierReport } from '../core/report/courier-report.ts'
 import { smallPolicy } from '../helpers/make-repository.ts'
 
-export type Family = 'csv' | 'yaml' | 'onnx' | 'event' | 'git-ref' | 'command' | 'path' | 'report'
+export type Family = 'csv' | 'yaml' | 'onnx' | 'event' | 'git-ref' | 'command' | 'path' | 'report' | 'action-input'
 
 export type Expected =
   | { readonly outcome: 'user-error'; readonly message: RegExp }
@@ -88,6 +88,9 @@ function csvCases(): CorpusCase[] {
   add('target NA', [header, ...rows.slice(0, 3), 'P9,3.5,harbour,NA', ...rows.slice(3)].join('\n'), userError(/the target is missing \(the cell is 'NA'\)/))
   add('three classes', [header, ...rows, 'P9,3.5,harbour,2'].join('\n'), userError(/binary target needs (exactly )?two classes/), { task: 'binary' })
   add('one class', [header, ...rows.map((r) => r.replace(/,[01]$/, ',0'))].join('\n'), userError(/binary target needs two classes, but every row has '0'/), { task: 'binary' })
+  add('multiclass target with two classes', [header, ...rows].join('\n'), userError(/column 'late': a multiclass target needs at least three classes, found 2: /), { task: 'multiclass' })
+  add('multiclass target of three text classes', [header, ...rows.map((r, i) => r.replace(/,[01]$/, `,${['depot', 'locker', 'doorstep'][i % 3]}`))].join('\n'), accepted(), { task: 'multiclass' })
+  add('multiclass target cell empty', [header, ...rows.map((r, i) => r.replace(/,[01]$/, `,${i % 3}`)), 'P9,3.5,harbour,'].join('\n'), userError(/column 'late': the target is missing \(the cell is empty\)/), { task: 'multiclass' })
   add('no target column', [header.replace(',late', ',on_time'), ...rows].join('\n'), userError(/has no target column 'late'/))
   add('regression target text', [header, ...rows, 'P9,3.5,harbour,soon'].join('\n'), userError(/'soon' is not a number, but the target of a regression must be one/), { task: 'regression' })
   add('regression target 1e308', [header, ...rows, 'P9,3.5,harbour,1e308'].join('\n'), userError(/'1e308' is not a finite number within ±1e100/), { task: 'regression' })
@@ -134,7 +137,7 @@ function yamlCases(): CorpusCase[] {
   }
   const keyValue = [
     ['version: 1', ['version: 2', 'version: one', 'version:', 'version: [1]', 'version: {a: 1}']],
-    ['task: binary', ['task: multiclass', 'task:', 'task: Binary', 'task: [binary]', 'task: 1']],
+    ['task: binary', ['task: multi-class', 'task:', 'task: Binary', 'task: [binary]', 'task: 1']],
     ['target: late', ['target:', 'target: [late]', 'target: {a: b}']],
     ['seed: 7', ['seed: -1', 'seed: 1.5', 'seed: abc', 'seed: 99999999999999', 'seed:', 'seed: 0x10', 'seed: [7]']],
     ['  train: data/train.csv', ['  train:', '  train: [a, b]', '  train: {x: 1}']],
@@ -198,8 +201,8 @@ function onnxCases(fixtures: string): CorpusCase[] {
   const cases: CorpusCase[] = []
   const read = (name: string) => new Uint8Array(readFileSync(join(fixtures, name)))
   const regressionFeatures = ['distance_km', 'stop_count', 'hour'].map((name) => ({ name, kind: 'numeric' as const }))
-  const load = (bytes: Uint8Array, task: 'binary' | 'regression' = 'regression', features = regressionFeatures) => async () =>
-    loadOnnxModel(bytes, { source: 'models/model.onnx', task, features })
+  const load = (bytes: Uint8Array, task: 'binary' | 'regression' | 'multiclass' = 'regression', features = regressionFeatures) => async () =>
+    loadOnnxModel(bytes, { source: 'models/model.onnx', task, features, ...(task === 'multiclass' ? { classes: ['depot', 'locker', 'doorstep'] } : {}) })
   const add = (name: string, run: () => Promise<unknown>, expect: Expected) => cases.push({ family: 'onnx', name, run, expect })
   const notModel = userError(/ONNX model 'models\/model\.onnx'/)
   add('empty bytes', load(new Uint8Array(0)), notModel)
@@ -222,6 +225,10 @@ function onnxCases(fixtures: string): CorpusCase[] {
   }
   add('classifier for a regression task', load(read('tree-classifier.onnx'), 'regression', ['distance_km', 'stop_count'].map((name) => ({ name, kind: 'numeric' as const }))), userError(/models\/model\.onnx/))
   add('regressor for a binary task', load(linear, 'binary'), userError(/models\/model\.onnx/))
+  const classifierFeatures = ['distance_km', 'stop_count'].map((name) => ({ name, kind: 'numeric' as const }))
+  add('two-class classifier for a three-class task', load(read('tree-classifier.onnx'), 'multiclass', classifierFeatures), userError(/models\/model\.onnx' output 'probabilities' has shape \[N, 2\]; the data has 3 classes/))
+  add('ZipMap classifier for a three-class task', load(read('zipmap-classifier.onnx'), 'multiclass', classifierFeatures), userError(/models\/model\.onnx/))
+  add('regressor for a three-class task', load(linear, 'multiclass'), userError(/models\/model\.onnx/))
   add('features the data lacks', load(linear, 'regression', [{ name: 'weight_kg', kind: 'numeric' }]), userError(/models\/model\.onnx/))
   add('the linear model as it is', load(linear), accepted())
   return cases
@@ -294,6 +301,31 @@ function gitRefCases(root: string, marker: string): CorpusCase[] {
     })
   for (const value of ['-rf', '--output=x', 'main branch', 'main\tx', 'a\u0000b', '-']) input('base', value, userError(/^Input 'base' must be a commit SHA or a git ref/))
   for (const value of ['--upload-pack=x', 'two words']) input('head', value, userError(/^Input 'head' must be a commit SHA or a git ref/))
+  return cases
+}
+
+// ---------------------------------------------------------------------------------------------
+// The action's plan, shard and merge inputs: each refused by name before anything runs
+
+function actionInputCases(): CorpusCase[] {
+  const cases: CorpusCase[] = []
+  const add = (name: string, inputs: Record<string, string>, expect: Expected) =>
+    cases.push({ family: 'action-input', name, run: async () => readInputs((n) => inputs[n] ?? ''), expect })
+  const count = ['0', '-1', '1e3', '2.0', '0x10', '\u0661', ' 2 2', '99999999999999999999', 'NaN', 'Infinity', '1001', 'two', '${{ matrix.shard }}']
+  for (const value of count) add(`plan shards ${JSON.stringify(value)}`, { mode: 'plan', shards: value }, userError(/^Input 'shards' must be a whole number from 1 to 1000; got '/))
+  for (const value of [...count.filter((v) => v !== '1001'), '5']) {
+    add(`shard index ${JSON.stringify(value)} of 4`, { mode: 'shard', shards: '4', shard: value }, userError(/^Input 'shard' must be a whole number from 1 to 4; got '/))
+  }
+  add('plan without shards', { mode: 'plan' }, userError(/^Input 'shards' is required when 'mode' is plan/))
+  add('shard without an index', { mode: 'shard', shards: '3' }, userError(/^Input 'shard' is required when 'mode' is shard/))
+  add('merge without partials', { mode: 'merge', partials: ' \n \n' }, userError(/^Input 'partials' is required when 'mode' is merge/))
+  add('partials with a NUL', { mode: 'merge', partials: 'a\u0000b' }, userError(/^Input 'partials' must be a single path/))
+  add('after with a NUL', { mode: 'shard', shards: '2', shard: '1', after: 'refits\nx\u0000' }, userError(/^Input 'after' must be a single path/))
+  add('partial-dir of two lines', { mode: 'shard', shards: '2', shard: '1', 'partial-dir': 'a\nb' }, userError(/^Input 'partial-dir' must be a single path/))
+  add('cache in plan mode', { mode: 'plan', shards: '2', cache: 'true' }, userError(/^Input 'cache' is read only when 'mode' is check or shard/))
+  add('cache yes', { cache: 'yes' }, userError(/^Input 'cache' must be true or false; got 'yes'\./))
+  add('shard index in check mode', { shard: '1' }, userError(/^Input 'shard' is read only when 'mode' is shard; this step's mode is check\./))
+  add('shard 4 of 4', { mode: 'shard', shards: '4', shard: '4' }, accepted((r) => assert((r as { shard: number }).shard === 4, 'shard 4')))
   return cases
 }
 
@@ -455,5 +487,6 @@ export function buildCorpus(places: CorpusPlaces): CorpusCase[] {
     ...commandCases(places.commandFolder),
     ...pathCases(places.checkout, places.outside),
     ...reportCases(),
+    ...actionInputCases(),
   ]
 }

@@ -142,3 +142,17 @@ export function buildCourierRepository(options: { rows?: number; model?: 'builti
   execFileSync('git', ['clone', '--quiet', '--depth=1', '--branch', 'main', `file://${origin}`, path], { stdio: 'pipe' })
   return { folder, path, baseSha, headSha }
 }
+
+/** A pull_request event (synchronize) of the courier's repository from add-scan-delay into main, as the runner writes it. */
+export function courierPullRequestEvent(number: number, commits: Pick<CourierRepository, 'baseSha' | 'headSha'>, slug = 'northwind-parcel/late-deliveries') {
+  return {
+    action: 'synchronize',
+    number,
+    pull_request: {
+      number,
+      base: { ref: 'main', sha: commits.baseSha, repo: { id: 4242, full_name: slug } },
+      head: { ref: 'add-scan-delay', sha: commits.headSha, repo: { full_name: slug } },
+    },
+    repository: { id: 4242, full_name: slug },
+  }
+}

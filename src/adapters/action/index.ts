@@ -9,6 +9,7 @@
 import * as core from '@actions/core'
 import { describeFailure } from '../../core/errors.ts'
 import { runCheck } from '../check/run-check.ts'
+import { runMerge, runPlan, runShard } from '../check/run-shards.ts'
 import { fetchBase } from '../github/fetch-base.ts'
 import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
 import { redactSecrets, registerSecret } from '../security/secrets.ts'
@@ -22,8 +23,9 @@ try {
   await run({
     core: {
       getInput: (name) => core.getInput(name),
-      info: (message) => core.info(cleanOutsideText(message)),
-      warning: (message) => core.warning(cleanOutsideText(message)),
+      // Redacted here too, not only masked by the runner: a log line may echo an input that holds a secret.
+      info: (message) => core.info(redactSecrets(cleanOutsideText(message))),
+      warning: (message) => core.warning(redactSecrets(cleanOutsideText(message))),
       setSecret: (secret) => {
         core.setSecret(secret)
         registerSecret(secret)
@@ -50,6 +52,18 @@ try {
     uploadArtifact: async (name, file, rootDirectory) => {
       const { DefaultArtifactClient } = await import('@actions/artifact')
       return new DefaultArtifactClient().uploadArtifact(name, [file], rootDirectory, { retentionDays: 30 })
+    },
+    runPlan,
+    runShard,
+    runMerge,
+    // Loaded when used, as the artifact client is: only a step with 'cache: true' needs it.
+    loadCacheClient: async () => {
+      const cache = await import('@actions/cache')
+      return {
+        isFeatureAvailable: () => cache.isFeatureAvailable(),
+        restoreCache: (paths, key) => cache.restoreCache(paths, key),
+        saveCache: (paths, key) => cache.saveCache(paths, key),
+      }
     },
   })
 } catch (error) {

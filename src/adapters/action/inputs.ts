@@ -12,7 +12,7 @@ import type { Verdict } from '../../core/report/report.ts'
 export type GetInput = (name: string) => string
 
 export type FailOn = 'block' | 'warn' | 'never'
-export type ActionMode = 'check' | 'publish'
+export type ActionMode = 'check' | 'publish' | 'plan' | 'shard' | 'merge'
 
 export interface ActionInputs {
   /** Policy path relative to the repository root. */
@@ -31,6 +31,17 @@ export interface ActionInputs {
   readonly workingDirectory: string
   /** Name of the artifact for the HTML report; null: no upload. */
   readonly htmlArtifact: string | null
+  /** Keep measured work units in the Actions cache (check and shard modes). */
+  readonly isCacheWanted: boolean
+  /** Plan and shard modes: how many shards; shard mode: which one (1 to shards). Null in the other modes. */
+  readonly shards: number | null
+  readonly shard: number | null
+  /** Shard mode, relative to the workspace: where the partial result file goes. */
+  readonly partialDirectory: string
+  /** Shard mode, relative to the workspace: the refits stage's folders (the drop-columns stage); empty: the refits stage. */
+  readonly after: readonly string[]
+  /** Merge mode, relative to the workspace: every shard's folder. */
+  readonly partials: readonly string[]
 }
 
 /** The defaults action.yml declares, used when an input arrives empty. */
@@ -41,6 +52,8 @@ export const inputDefaults = {
   mode: 'check',
   'allow-fork-code': 'false',
   'working-directory': '.',
+  cache: 'false',
+  'partial-dir': 'plumbline-partial',
 } as const
 
 const fixLine = (name: string) => `Fix '${name}:' in the workflow step, or delete the line to use the default from action.yml.`
@@ -50,8 +63,10 @@ export function readToken(getInput: GetInput): string {
   return getInput('token').trim()
 }
 
+export const actionModes = ['check', 'publish', 'plan', 'shard', 'merge'] as const
+
 export function readInputs(getInput: GetInput): ActionInputs {
-  const mode = readChoice(getInput, 'mode', ['check', 'publish'] as const)
+  const mode = readChoice(getInput, 'mode', actionModes)
   const reportPath = readOptional(getInput, 'report')
   if (mode === 'publish' && reportPath === null) {
     throw new UserError(
@@ -71,7 +86,62 @@ export function readInputs(getInput: GetInput): ActionInputs {
     isForkCodeAllowed: readBoolean(getInput, 'allow-fork-code'),
     workingDirectory: readPath(getInput, 'working-directory'),
     htmlArtifact: readArtifactName(getInput, 'html-report'),
+    ...readShardInputs(getInput, mode),
   }
+}
+
+/** The inputs of plan, shard and merge; each is refused in a mode that does not read it, so a typo in 'mode' is not silent. */
+function readShardInputs(getInput: GetInput, mode: ActionMode) {
+  const shards = mode === 'plan' || mode === 'shard' ? readWholeNumber(getInput, 'shards', mode, 1, maxShards) : null
+  const shard = mode === 'shard' ? readWholeNumber(getInput, 'shard', mode, 1, shards as number) : null
+  const after = readPathList(getInput, 'after')
+  const partials = readPathList(getInput, 'partials')
+  const isCacheWanted = readBoolean(getInput, 'cache')
+  const unused = (name: string, modes: string) => {
+    throw new UserError(`Input '${name}' is read only when 'mode' is ${modes}; this step's mode is ${mode}.`, `Delete '${name}:' from the step, or set 'mode:' to ${modes}.`)
+  }
+  if (mode !== 'plan' && mode !== 'shard' && getInput('shards').trim() !== '') unused('shards', 'plan or shard')
+  if (mode !== 'shard' && getInput('shard').trim() !== '') unused('shard', 'shard')
+  if (mode !== 'shard' && after.length > 0) unused('after', 'shard')
+  if (mode !== 'merge' && partials.length > 0) unused('partials', 'merge')
+  if (isCacheWanted && mode !== 'check' && mode !== 'shard') unused('cache', 'check or shard')
+  if (mode === 'merge' && partials.length === 0) {
+    throw new UserError(
+      "Input 'partials' is required when 'mode' is merge: the folders of every shard's partial results, one per line.",
+      "Download every shard's artifact (actions/download-artifact) and set 'partials:' to the folder or folders it wrote (see docs/action.md).",
+    )
+  }
+  return { isCacheWanted, shards, shard, partialDirectory: readPath(getInput, 'partial-dir'), after, partials }
+}
+
+/** As many shards as `plumbline plan --shards` accepts. */
+const maxShards = 1000
+
+function readWholeNumber(getInput: GetInput, name: string, mode: ActionMode, min: number, max: number): number {
+  const raw = getInput(name).trim()
+  if (raw === '') {
+    throw new UserError(
+      `Input '${name}' is required when 'mode' is ${mode}: ${name === 'shards' ? 'how many shards the work is split into' : `which shard this job runs, 1 to ${max}`}.`,
+      name === 'shards' ? "Set 'shards:' to the same number on the plan step and on every shard step." : "Set 'shard: ${{ matrix.shard }}' on the step of the job matrix the plan step's 'matrix' output makes.",
+    )
+  }
+  if (!/^\d+$/.test(raw) || Number(raw) < min || Number(raw) > max) {
+    throw new UserError(
+      `Input '${name}' must be a whole number from ${min} to ${max}; got '${raw.slice(0, 40)}'.`,
+      name === 'shard' ? `Set 'shard:' to a value of the plan's matrix (1 to ${max}, the 'shards' input), normally '\${{ matrix.shard }}'.` : fixLine(name),
+    )
+  }
+  return Number(raw)
+}
+
+/** Paths one per line (blank lines skipped), each checked as a single path. */
+function readPathList(getInput: GetInput, name: string): string[] {
+  const lines = getInput(name)
+    .split('\n')
+    .map((line) => line.trim())
+    .filter((line) => line !== '')
+  for (const line of lines) checkPathText(name, line)
+  return lines
 }
 
 /** An artifact name as GitHub accepts it: no `" : < > | * ? \\ /`, control characters or line breaks. */

@@ -6,7 +6,7 @@
  *
  * Everything outside is passed in (`ActionDependencies`), so tests run it with fakes.
  */
-import { mkdir, writeFile } from 'node:fs/promises'
+import { writeFile } from 'node:fs/promises'
 import { dirname, join, resolve } from 'node:path'
 import { decideVerdict } from '../../core/checks/verdict.ts'
 import { describeFailure, UserError } from '../../core/errors.ts'
@@ -19,16 +19,20 @@ import { parseGateReport } from '../../core/report/report-schema.ts'
 import { fitReportLimits } from '../../core/report/fit-report-limits.ts'
 import type { GateProgress } from '../../core/run-gate.ts'
 import type { CheckRequest } from '../check/run-check.ts'
+import type { runMerge, runPlan, runShard, ShardPlan, ShardResult } from '../check/run-shards.ts'
+import type { UnitCacheStore } from '../check/unit-cache.ts'
 import { commentMarker, upsertComment } from '../github/comment.ts'
 import type { FetchCommitRequest } from '../github/fetch-base.ts'
 import { findPullRequest } from '../github/find-pull-request.ts'
 import type { GitHubClient, GitHubClientOptions } from '../github/github-client.ts'
 import { parsePullRequestEvent, type EventInfo } from '../github/pull-request.ts'
 import { toolVersion } from '../version.ts'
-import { readConfinedFile, readLimits, readRegularFile, resolveConfinedOutput } from '../files/confined-file.ts'
+import { readConfinedFile, readLimits, readRegularFile, resolveConfined, resolveConfinedOutput } from '../files/confined-file.ts'
 import { boundNesting } from '../security/bound-nesting.ts'
 import { redactDeep, redactSecrets, registerSecret } from '../security/secrets.ts'
+import { createActionsCacheStore, type CacheClient } from './actions-cache-store.ts'
 import { inputDefaults, isFailingVerdict, readInputs, readToken, type ActionInputs } from './inputs.ts'
+import { makeFolder } from '../files/make-folder.ts'
 
 /** The part of @actions/core the action uses. */
 export interface ActionCore {
@@ -58,6 +62,15 @@ export interface ActionDependencies {
    * it, or when it throws, the HTML report stays a file on the runner and the comment has no link.
    */
   readonly uploadArtifact?: (name: string, file: string, rootDirectory: string) => Promise<{ readonly id?: number }>
+  /** plan, shard and merge modes: the command line's own (src/adapters/check/run-shards.ts). */
+  readonly runPlan: (request: Parameters<typeof runPlan>[0]) => Promise<ShardPlan>
+  readonly runShard: (request: Parameters<typeof runShard>[0]) => Promise<ShardResult>
+  readonly runMerge: (request: Parameters<typeof runMerge>[0]) => Promise<GateReport>
+  /**
+   * Loads the Actions cache client (@actions/cache), for 'cache: true'. Optional: without it, or when
+   * it throws, every unit is measured in the job, with a warning.
+   */
+  readonly loadCacheClient?: () => Promise<CacheClient>
 }
 
 /** GitHub refuses longer comments; the comment is rendered to stay below this. */
@@ -78,7 +91,8 @@ export async function run(deps: ActionDependencies): Promise<void> {
 
   const workspace = env.GITHUB_WORKSPACE || deps.cwd
   const repository = readRepository(env)
-  const outputDirectory = join(env.RUNNER_TEMP || join(workspace, '.plumbline'), 'plumbline')
+  const runnerTemp = env.RUNNER_TEMP || join(workspace, '.plumbline')
+  const outputDirectory = join(runnerTemp, 'plumbline')
   const apiUrl = env.GITHUB_API_URL || 'https://api.github.com'
   let client: GitHubClient | null = null
   const github = () => (client ??= deps.createClient(token, { baseUrl: apiUrl, log: (line) => core.info(line) }))
@@ -101,15 +115,25 @@ export async function run(deps: ActionDependencies): Promise<void> {
     early ??= error
     inputs = fallbackInputs(getInput, token)
   }
-  const context: RunContext = { deps, inputs, event, repository, workspace, outputDirectory, github }
+  const context: RunContext = { deps, inputs, event, repository, workspace, outputDirectory, runnerTemp, github }
   if (early !== null) {
-    const plan = event.pullRequest && inputs.isCommentWanted ? basicCommentChecks(context, event.pullRequest.number) : { skipped: 'the run failed before the pull request was known' }
+    const rawMode = getInput('mode').trim()
+    const plan: CommentPlan =
+      rawMode === 'plan' || rawMode === 'shard'
+        ? { skipped: stepWithoutComment }
+        : event.pullRequest && inputs.isCommentWanted
+          ? basicCommentChecks(context, event.pullRequest.number)
+          : { skipped: 'the run failed before the pull request was known' }
     await finish(context, { report: failedRunReport(early, inputs.policyPath), failure: early, plan, extraJson: null })
     return
   }
   if (inputs.mode === 'publish') await publish(context)
+  else if (inputs.mode === 'plan' || inputs.mode === 'shard') await planOrShard(context)
   else await check(context)
 }
+
+/** Why plan and shard steps post nothing: the shards of a matrix would race for the one comment. */
+const stepWithoutComment = 'a plan or shard step does not comment; the merge step posts the one comment, also when a shard failed'
 
 /** The inputs to finish a run whose inputs could not be read: the defaults, the comment as asked when readable. */
 function fallbackInputs(getInput: (name: string) => string, token: string): ActionInputs {
@@ -127,6 +151,12 @@ function fallbackInputs(getInput: (name: string) => string, token: string): Acti
     workingDirectory: inputDefaults['working-directory'],
     // No upload after an early failure: the comment and the summary carry the error.
     htmlArtifact: null,
+    isCacheWanted: false,
+    shards: null,
+    shard: null,
+    partialDirectory: inputDefaults['partial-dir'],
+    after: [],
+    partials: [],
   }
 }
 
@@ -137,35 +167,108 @@ interface RunContext {
   readonly repository: { readonly owner: string; readonly repo: string; readonly slug: string } | null
   readonly workspace: string
   readonly outputDirectory: string
+  /** RUNNER_TEMP, or a folder in the workspace outside a runner. */
+  readonly runnerTemp: string
   readonly github: () => GitHubClient
 }
 
 /** Where the comment goes, or why there is none. */
 type CommentPlan = { readonly issueNumber: number } | { readonly skipped: string }
 
-async function check(context: RunContext): Promise<void> {
-  const { deps, inputs, event, workspace } = context
-  const { core } = deps
-  const cwd = resolve(workspace, inputs.workingDirectory)
+/** Where the two sides come from: the inputs, else the event; null: the check's own default. */
+function describeSides(context: RunContext) {
+  const { inputs, event, workspace } = context
   const base = inputs.baseRef ?? event.baseSha
   const head = inputs.headRef ?? event.headSha
   const origin = (input: string | null, fromEvent: string | null, name: 'base' | 'head') =>
     input !== null ? `input '${name}'` : fromEvent !== null ? `the ${event.name} event` : null
-  const baseOrigin = origin(inputs.baseRef, event.baseSha, 'base')
-  const headOrigin = origin(inputs.headRef, event.headSha, 'head')
+  return {
+    cwd: resolve(workspace, inputs.workingDirectory),
+    base,
+    head,
+    baseOrigin: origin(inputs.baseRef, event.baseSha, 'base'),
+    headOrigin: origin(inputs.headRef, event.headSha, 'head'),
+  }
+}
+
+/** The configuration lines every mode that runs repository code logs first. */
+function logSides(context: RunContext, sides: ReturnType<typeof describeSides>) {
+  const { core } = context.deps
+  const { inputs, event } = context
+  core.info(`plumbline ${toolVersion}, mode ${inputs.mode}, event ${event.name || '(none)'}`)
+  core.info(`Repository folder: ${sides.cwd}`)
+  core.info(`Policy: ${inputs.policyPath}`)
+  core.info(`Base: ${sides.base === null ? 'the merge base with the default branch' : `${sides.base} (from ${sides.baseOrigin})`}`)
+  core.info(`Head: ${sides.head === null ? 'the checked-out working tree' : `${sides.head} (from ${sides.headOrigin})`}`)
+  if (event.pullRequest) core.info(`Pull request: #${event.pullRequest.number}${event.isHeadFromFork ? ' (head from a fork)' : ''}`)
+}
+
+/** Refuses fork code where it must be, fetches the commits the sides name, and returns the request every runner takes. */
+async function openSides(context: RunContext, sides: ReturnType<typeof describeSides>) {
+  const { deps, inputs, event } = context
+  const { core } = deps
+  refuseForkCode(inputs, event)
+  const fetch = (ref: string | null, label: string) => (ref === null ? undefined : deps.fetchBase({ cwd: sides.cwd, ref, label, log: (l) => core.info(l) }))
+  const baseRef = await fetch(sides.base, `the base, from ${sides.baseOrigin}`)
+  const headRef = await fetch(sides.head, `the head, from ${sides.headOrigin}`)
+  return { cwd: sides.cwd, policyPath: inputs.policyPath, baseRef, headRef, log: (line: string) => core.info(line) }
+}
+
+/**
+ * 'cache: true': the unit cache folder on this runner, behind the Actions cache. A client that cannot
+ * be loaded warns and leaves the folder alone (every unit measured here).
+ */
+async function unitCacheOf(context: RunContext): Promise<{ cache?: string; cacheStore?: UnitCacheStore; done?: () => void }> {
+  const { deps, inputs } = context
+  const { core } = deps
+  if (!inputs.isCacheWanted) return {}
+  const cache = join(context.runnerTemp, 'plumbline-unit-cache')
+  let client: CacheClient
+  try {
+    if (!deps.loadCacheClient) throw new Error('this build has no Actions cache client')
+    client = await deps.loadCacheClient()
+  } catch (error) {
+    core.warning(`The Actions cache could not be loaded: ${error instanceof Error ? error.message : String(error)}. Every unit is measured in this job; the check still runs.`)
+    return { cache }
+  }
+  const store = createActionsCacheStore({ client, warn: (m) => core.warning(m), info: (m) => core.info(m) })
+  const entries = (n: number) => `${n} unit entr${n === 1 ? 'y' : 'ies'}`
+  return {
+    cache,
+    cacheStore: store,
+    done: () => core.info(`Actions cache, this step: ${entries(store.tally.restored)} restored, ${entries(store.tally.saved)} saved, ${store.tally.failed} failed.`),
+  }
+}
+
+/** Folders named by an input, one per line, each inside the workspace and existing. */
+async function confinedFolders(context: RunContext, name: 'after' | 'partials', paths: readonly string[]): Promise<string[]> {
+  const folders: string[] = []
+  for (const path of paths) {
+    const missing = () =>
+      new UserError(
+        `Input '${name}': no folder or file ${path} (looked for ${join(context.workspace, path)}).`,
+        `Download every ${name === 'after' ? 'refits ' : ''}shard's artifact into the workspace before this step (actions/download-artifact), and name the folders it wrote.`,
+      )
+    folders.push(await resolveConfined({ key: `Input '${name}'`, path, root: context.workspace, rootName: 'the workspace' }, missing))
+  }
+  return folders
+}
+
+/** Check mode, and merge mode: the same run, the same report files, comment, summary and outputs. */
+async function check(context: RunContext): Promise<void> {
+  const { deps, inputs, workspace } = context
+  const { core } = deps
+  const sides = describeSides(context)
   const plan = planComment(context)
 
   await core.group('Configuration', async () => {
-    core.info(`plumbline ${toolVersion}, mode check, event ${event.name || '(none)'}`)
-    core.info(`Repository folder: ${cwd}`)
-    core.info(`Policy: ${inputs.policyPath}`)
-    core.info(`Base: ${base === null ? 'the merge base with the default branch' : `${base} (from ${baseOrigin})`}`)
-    core.info(`Head: ${head === null ? 'the checked-out working tree' : `${head} (from ${headOrigin})`}`)
-    if (event.pullRequest) core.info(`Pull request: #${event.pullRequest.number}${event.isHeadFromFork ? ' (head from a fork)' : ''}`)
+    logSides(context, sides)
     core.info(`Comment: ${'issueNumber' in plan ? `on #${plan.issueNumber}` : `none (${plan.skipped})`}`)
     core.info(`Fail the step on: ${inputs.failOn === 'never' ? 'no verdict (a run that fails)' : `${inputs.failOn} or worse`}`)
     core.info(`Fork code: ${inputs.isForkCodeAllowed ? 'allowed' : 'refused under privileged triggers'}`)
     core.info(`Token: ${inputs.token ? 'set (masked)' : 'not set'}`)
+    if (inputs.mode === 'merge') core.info(`Partial results: ${inputs.partials.join(', ')}`)
+    if (inputs.isCacheWanted) core.info("Unit cache: the Actions cache (input 'cache')")
     if (inputs.reportPath) core.info(`JSON report copy: ${inputs.reportPath}`)
     return undefined
   })
@@ -173,18 +276,18 @@ async function check(context: RunContext): Promise<void> {
   let report: GateReport
   let failure: unknown = null
   try {
-    refuseForkCode(inputs, event)
     const started = performance.now()
-    const baseRef = base === null ? undefined : await deps.fetchBase({ cwd, ref: base, label: `the base, from ${baseOrigin}`, log: (l) => core.info(l) })
-    const headRef = head === null ? undefined : await deps.fetchBase({ cwd, ref: head, label: `the head, from ${headOrigin}`, log: (l) => core.info(l) })
-    report = await deps.runCheck({
-      cwd,
-      policyPath: inputs.policyPath,
-      baseRef,
-      headRef,
-      log: (line) => core.info(line),
-      onProgress: progressLogger(core, started),
-    })
+    const request = { ...(await openSides(context, sides)), onProgress: progressLogger(core, started) }
+    if (inputs.mode === 'merge') {
+      report = await deps.runMerge({ ...request, dirs: await confinedFolders(context, 'partials', inputs.partials) })
+    } else {
+      const { done, ...cache } = await unitCacheOf(context)
+      try {
+        report = await deps.runCheck({ ...request, ...cache })
+      } finally {
+        done?.()
+      }
+    }
     core.info(`Verdict: ${report.verdict} (${((performance.now() - started) / 1000).toFixed(1)} s)`)
   } catch (error) {
     failure = error
@@ -201,6 +304,68 @@ async function check(context: RunContext): Promise<void> {
     }
   }
   await finish(context, { report, failure, plan, extraJson })
+}
+
+/**
+ * Plan mode: the matrix for the shard jobs. Shard mode: one shard of one stage, its partial result
+ * file written to 'partial-dir'. Neither comments (stepWithoutComment); a failure fails the step
+ * with its message (and the job summary), and the merge step then names the units that are missing.
+ */
+async function planOrShard(context: RunContext): Promise<void> {
+  const { deps, inputs, workspace } = context
+  const { core } = deps
+  const sides = describeSides(context)
+  const shards = inputs.shards as number
+  await core.group('Configuration', async () => {
+    logSides(context, sides)
+    if (inputs.mode === 'plan') core.info(`Shards: ${shards}`)
+    else {
+      core.info(`Shard: ${inputs.shard} of ${shards}, the ${inputs.after.length > 0 ? `drop-columns stage (after ${inputs.after.join(', ')})` : 'refits stage'}`)
+      core.info(`Partial result folder: ${inputs.partialDirectory}`)
+      if (inputs.isCacheWanted) core.info("Unit cache: the Actions cache (input 'cache')")
+    }
+    core.info(`No pull-request comment: ${stepWithoutComment}.`)
+    core.info(`Fork code: ${inputs.isForkCodeAllowed ? 'allowed' : 'refused under privileged triggers'}`)
+    return undefined
+  })
+  try {
+    const request = await openSides(context, sides)
+    if (inputs.mode === 'plan') {
+      const planned = await deps.runPlan({ ...request, shards })
+      for (const line of planned.summary) core.info(line)
+      core.setOutput('matrix', JSON.stringify(planned.matrix))
+      core.setOutput('shard-count', String(shards))
+      return
+    }
+    const after = await confinedFolders(context, 'after', inputs.after)
+    // A file inside the folder, so that the folder may exist already (a rerun on the same runner).
+    const target = await resolveConfinedOutput(
+      { key: "Input 'partial-dir'", path: join(inputs.partialDirectory, 'plumbline-partial.json'), root: workspace, rootName: 'the workspace' },
+      { confine: true },
+    )
+    const out = dirname(target)
+    const { done, ...cache } = await unitCacheOf(context)
+    let result: ShardResult
+    try {
+      result = await deps.runShard({ ...request, index: inputs.shard as number, of: shards, out, ...(after.length > 0 ? { after } : {}), ...cache })
+    } finally {
+      done?.()
+    }
+    const units = result.units.length
+    core.info(
+      `Shard ${inputs.shard} of ${shards} (${result.stage}): ${units} unit${units === 1 ? '' : 's'}${units > 0 ? ` (${result.units.join(', ')})` : ''}` +
+        `${inputs.isCacheWanted ? `, ${result.reused.length} from the cache` : ''}; wrote ${result.path}`,
+    )
+    core.setOutput('partial-dir', out)
+  } catch (error) {
+    const message = redactSecrets(describeFailure(error))
+    try {
+      await core.appendSummary(`### plumbline ${inputs.mode} failed\n\n${escapeMarkdownText(message).split('\n').join('  \n')}\n`)
+    } catch {
+      // No summary file outside a runner: the failed step's message carries it.
+    }
+    core.setFailed(message)
+  }
 }
 
 async function publish(context: RunContext): Promise<void> {
@@ -426,7 +591,7 @@ function failedRunReport(error: unknown, policySource: string): GateReport {
 }
 
 async function writeText(path: string, text: string) {
-  await mkdir(dirname(path), { recursive: true })
+  await makeFolder(dirname(path))
   await writeFile(path, text)
 }
 

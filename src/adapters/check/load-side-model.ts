@@ -42,6 +42,7 @@ export async function loadSideModel(
         features: side.train.features,
         featureOrder: model.features,
         positiveClass: model.positiveClass,
+        ...(config.task === 'multiclass' ? { classes: side.train.target?.classes ?? [] } : {}),
       }),
     }
   }
@@ -67,6 +68,7 @@ export async function loadSideModel(
         },
         task: config.task,
         features: side.train.features,
+        ...(config.task === 'multiclass' ? { classes: side.train.target?.classes ?? [] } : {}),
         onTrained: (event) => side.log(`${event.label}: trained in ${event.seconds.toFixed(1)} s`),
       }),
     }

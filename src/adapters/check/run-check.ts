@@ -17,7 +17,7 @@ import { loadSideModel } from './load-side-model.ts'
 import { toolVersion } from '../version.ts'
 import { createPoolMeasure } from '../parallel/create-pool-measure.ts'
 import { sideDataDigest, type SideCacheIdentity } from './input-digest.ts'
-import { createUnitCache, type UnitCache } from './unit-cache.ts'
+import { createUnitCache, type UnitCache, type UnitCacheStore } from './unit-cache.ts'
 
 export interface CheckRequest {
   /** Where the user ran plumbline; the repository is found from here. */
@@ -32,6 +32,8 @@ export interface CheckRequest {
   readonly onProgress?: (event: GateProgress) => void
   /** A folder of measured work units (--cache): reused when their digest matches, written otherwise. */
   readonly cache?: string
+  /** With `cache`: where entries are also kept between machines (the action's @actions/cache). */
+  readonly cacheStore?: UnitCacheStore
 }
 
 /** Both sides read and ready to measure, with what their digests need. */
@@ -57,7 +59,7 @@ export interface OpenedCheck {
  */
 export async function runCheck(request: CheckRequest): Promise<GateReport> {
   return withOpenedCheck(request, async (opened) => {
-    const measure = await localExecutor(opened, request.cache)
+    const measure = await localExecutor(opened, request.cache, request.cacheStore)
     const report = await gateOf(opened, request, measure.execute)
     return measure.cache ? { ...report, cache: measure.cache.used } : report
   })
@@ -82,12 +84,12 @@ export function gateOf(opened: OpenedCheck, request: Pick<CheckRequest, 'onProgr
  * Where this machine runs units: every built-in refit of both sides on a pool of worker threads
  * sized to the cores (in this thread when there is one core), behind the unit cache with --cache.
  */
-export async function localExecutor(opened: OpenedCheck, cache: string | undefined): Promise<{ execute: ExecuteUnits; cache?: UnitCache }> {
+export async function localExecutor(opened: OpenedCheck, cache: string | undefined, store?: UnitCacheStore): Promise<{ execute: ExecuteUnits; cache?: UnitCache }> {
   const pool = createPoolMeasure(process.env)
   if (pool) opened.onClose(pool.close)
   const execute = pool?.execute ?? executeInProcess
   if (!cache) return { execute }
-  const unitCache = await createUnitCache({ directory: resolve(cache), toolVersion, identities: opened.identities, execute })
+  const unitCache = await createUnitCache({ directory: resolve(cache), ...(store ? { store } : {}), toolVersion, identities: opened.identities, execute })
   return { execute: unitCache.execute, cache: unitCache }
 }
 

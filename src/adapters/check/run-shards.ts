@@ -11,7 +11,7 @@
  *   given twice, a unit missing and a unit not in the plan, each by name, and runs the gate on the
  *   results: the same combination as a check on one machine, so the same report.
  */
-import { mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { join, resolve } from 'node:path'
 import { UserError } from '../../core/errors.ts'
 import { planMeasurement } from '../../core/gate/plan-measurement.ts'
@@ -31,6 +31,7 @@ import type { GateReport } from '../../core/report/report.ts'
 import { toolVersion } from '../version.ts'
 import { digestOfInputs, inputDigests } from './input-digest.ts'
 import { gateOf, localExecutor, withOpenedCheck, type CheckRequest, type OpenedCheck } from './run-check.ts'
+import { makeFolder } from '../files/make-folder.ts'
 
 /** Partial files larger than this are refused before reading (a crafted file cannot exhaust memory). */
 const maxPartialBytes = 1024 * 1024 * 1024
@@ -58,7 +59,7 @@ export interface ShardPlan {
   readonly summary: readonly string[]
 }
 
-export function runPlan(request: Omit<CheckRequest, 'onProgress' | 'cache'> & { readonly shards: number }): Promise<ShardPlan> {
+export function runPlan(request: Omit<CheckRequest, 'onProgress' | 'cache' | 'cacheStore'> & { readonly shards: number }): Promise<ShardPlan> {
   return withOpenedCheck(request, async (opened) => {
     const context = contextOf(opened)
     const units = planRefitUnits(context)
@@ -117,7 +118,7 @@ export function runShard(
       units = planDropColumnUnits(context, combined)
     }
     const mine = assignShards(units, request.of)[request.index - 1]
-    const local = await localExecutor(opened, request.cache)
+    const local = await localExecutor(opened, request.cache, request.cacheStore)
     const results = mine.length > 0 ? await local.execute(mine, context) : []
     const file: PartialFile = {
       ...partialFormat,
@@ -132,7 +133,7 @@ export function runShard(
 }
 
 /** The gate on the units of every partial file under `dirs`; refuses incomplete, duplicated or foreign work. */
-export function runMerge(request: Omit<CheckRequest, 'cache'> & { readonly dirs: readonly string[] }): Promise<GateReport> {
+export function runMerge(request: Omit<CheckRequest, 'cache' | 'cacheStore'> & { readonly dirs: readonly string[] }): Promise<GateReport> {
   return withOpenedCheck(request, async (opened) => {
     const { inputs, digest } = digestsOf(opened)
     const partials = await readPartials(request.dirs, request.cwd, inputs, digest)
@@ -262,7 +263,7 @@ async function writePartial(folder: string, name: string, file: PartialFile): Pr
   const path = join(folder, name)
   const temporary = `${path}.${process.pid}.tmp`
   try {
-    await mkdir(folder, { recursive: true })
+    await makeFolder(folder)
     await writeFile(temporary, `${JSON.stringify(file)}\n`)
     await rename(temporary, path)
   } catch (error) {

@@ -1,4 +1,4 @@
-import { access, mkdir, readFile, readdir, writeFile } from 'node:fs/promises'
+import { access, readFile, readdir, writeFile } from 'node:fs/promises'
 import { dirname, join, resolve } from 'node:path'
 import { parseCsv } from '../../core/data/parse-csv.ts'
 import { UserError } from '../../core/errors.ts'
@@ -6,6 +6,7 @@ import { holdoutPathFor, proposeTarget, renderStarterPolicy } from '../../core/p
 import { repositoryRoot } from '../git/git.ts'
 import type { CliIo } from './cli-io.ts'
 import { summarizeColumns } from './summarize-columns.ts'
+import { makeFolder } from '../files/make-folder.ts'
 
 /** plumbline init: read the training table and write a commented starter policy. */
 export async function init(command: { train?: string; target?: string; task?: 'binary' | 'regression'; output: string; force: boolean }, io: CliIo) {
@@ -28,7 +29,7 @@ export async function init(command: { train?: string; target?: string; task?: 'b
   const holdout = holdoutPathFor(trainPath)
   const holdoutPath = holdout !== trainPath && (await exists(resolve(root, holdout))) ? holdout : undefined
   const policy = renderStarterPolicy({ trainPath, columns, rows: data.rows, suggestedTarget: target, task: command.task, ...(holdoutPath ? { holdoutPath } : {}) })
-  await mkdir(dirname(output), { recursive: true })
+  await makeFolder(dirname(output))
   await writeFile(output, policy)
   io.stdout(`Wrote ${command.output}${target ? ` (target: ${target})` : ' (no target guessed: set one)'}. Review it, then run 'plumbline check'.\n`)
   return 0

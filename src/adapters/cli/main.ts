@@ -1,4 +1,5 @@
-import { mkdir, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { constants } from 'node:fs'
+import { access, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { basename, dirname, join } from 'node:path'
 import { describeFailure, UserError } from '../../core/errors.ts'
 import { errorReport } from '../../core/report/error-report.ts'
@@ -18,6 +19,7 @@ import { parseCommand } from './args.ts'
 import type { CliIo } from './cli-io.ts'
 import { init } from './init.ts'
 import { runShardCommand } from './shard-commands.ts'
+import { describeWriteError, makeFolder } from '../files/make-folder.ts'
 
 export type { CliIo }
 
@@ -89,7 +91,19 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
 async function planOutputs(command: { json?: string; markdown?: string; html?: string }, cwd: string) {
   const planned: { flag: string; path: string }[] = []
   for (const [flag, path] of [['--json', command.json], ['--markdown', command.markdown], ['--html', command.html]] as const) {
-    if (path) planned.push({ flag, path: await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false }) })
+    if (!path) continue
+    const full = await resolveConfinedOutput({ key: flag, path, root: cwd, rootName: cwd }, { confine: false })
+    // The folder is made (and found writable) now, so a path that cannot be written fails in a second.
+    const existing = await stat(full).catch(() => null)
+    if (!existing?.isCharacterDevice()) {
+      try {
+        await makeFolder(dirname(full))
+        await access(dirname(full), constants.W_OK)
+      } catch (error) {
+        throw new UserError(`Could not write ${flag} ${path}: ${describeWriteError(error)}.`, `Name a file in a folder you can write to (${flag} FILE).`)
+      }
+    }
+    planned.push({ flag, path: full })
   }
   return planned
 }
@@ -117,13 +131,13 @@ async function writeOutputs(command: { json?: string; markdown?: string; html?: 
           await writeFile(path, texts[flag])
           continue
         }
-        await mkdir(dirname(path), { recursive: true })
+        await makeFolder(dirname(path))
         const temporary = join(dirname(path), `.${basename(path)}.plumbline-${process.pid}.tmp`)
         staged.push({ temporary, path })
         await writeFile(temporary, texts[flag])
       } catch (error) {
         throw new UserError(
-          `Could not write ${flag} ${path}: ${(error as NodeJS.ErrnoException).code ?? (error as Error).message}. No report file was written.`,
+          `Could not write ${flag} ${path}: ${describeWriteError(error)}. No report file was written.`,
           `Name a file in a folder you can write to, on a disk with room (${flag} FILE).`,
         )
       }

@@ -42,9 +42,14 @@ export async function resolveCommit(root: string, ref: string, flag: string): Pr
     const { stdout } = await exec('git', ['rev-parse', '--verify', '--quiet', `${ref}^{commit}`], { cwd: root })
     return stdout.trim()
   } catch {
+    // A fetch command is suggested only for a plain branch, tag or commit name: the ref is echoed into
+    // a line a user may paste into a shell, so 'main;rm -rf /' must not come back as a command.
+    const plainName = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/.test(ref) && !ref.includes('..')
     throw new UserError(
       `${flag} '${ref}' does not name a commit in ${root}.`,
-      `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.`,
+      plainName
+        ? `Check the spelling, or fetch it first (git fetch origin ${ref}); a shallow clone may lack it.`
+        : 'It is not a plain branch, tag or commit name: check the spelling (a branch name has no spaces, semicolons or quotes).',
     )
   }
 }

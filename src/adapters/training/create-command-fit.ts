@@ -40,6 +40,11 @@ export interface CommandFitOptions {
   /** The data's feature columns. */
   readonly features: readonly FeatureInfo[]
   readonly positiveClass?: string | number
+  /**
+   * Multiclass: the data's classes in order. The model the command writes must output [N, K] class
+   * probabilities, its columns labelled by the classifier's class labels or, without labels, in this order.
+   */
+  readonly classes?: readonly string[]
   readonly batchRows?: number
   /** Where the per-fit temporary directories go; default the system's temporary directory. */
   readonly temporaryRoot?: string
@@ -124,6 +129,7 @@ export function createCommandFit(options: CommandFitOptions): Fit {
         task: options.task,
         features: options.features.filter((f) => !leftOut.has(f.name)),
         positiveClass: options.positiveClass,
+        ...(options.classes ? { classes: options.classes } : {}),
         batchRows: options.batchRows,
       })
     } catch (error) {

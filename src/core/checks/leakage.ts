@@ -1,3 +1,4 @@
+import type { Task } from '../data/dataset.ts'
 import type { Finding, Severity } from '../report/report.ts'
 import { mean, positiveShare, rankFeatures, type SideResult } from './side-result.ts'
 
@@ -8,7 +9,8 @@ import type { SliceSeparation } from '../importance/single-feature-separation.ts
 
 export interface LeakageOptions {
   readonly action: CheckAction
-  readonly task: 'binary' | 'regression'
+  /** Multiclass is judged as binary is, on one-vs-rest AUC (a one-feature model's best class). */
+  readonly task: Task
   /** The policy metric's name, for the words of the lift rule. */
   readonly metricName?: string
   /** The top feature's share of total positive importance at or above which it dominates. */
@@ -55,7 +57,12 @@ function unevaluated(head: SideResult, options: LeakageOptions, metricName: stri
     .sort()
   const fullUndefined = head.separation.length > 0 && !head.separation.some((value) => Number.isFinite(value))
   if (undefinedFor.length === 0 && !fullUndefined) return []
-  const why = options.task === 'binary' ? 'the holdout holds one class only, so AUC is undefined' : 'the holdout target is constant, so R² is undefined'
+  const why =
+    options.task === 'binary'
+      ? 'the holdout holds one class only, so AUC is undefined'
+      : options.task === 'multiclass'
+        ? 'the holdout lacks a class, so the one-vs-rest AUC is undefined'
+        : 'the holdout target is constant, so R² is undefined'
   const shown = undefinedFor.slice(0, 5).join(', ') + (undefinedFor.length > 5 ? ` and ${undefinedFor.length - 5} more` : '')
   return [
     {
@@ -100,8 +107,8 @@ function unevaluated(head: SideResult, options: LeakageOptions, metricName: stri
 export function checkLeakage(context: LeakageContext, options: LeakageOptions): Finding[] {
   if (options.action === 'off') return []
   const { base, head, added, changed } = context
-  const trivial = options.task === 'binary' ? 0.5 : 0
-  const metricName = options.task === 'binary' ? 'AUC' : 'R²'
+  const trivial = options.task === 'regression' ? 0 : 0.5
+  const metricName = options.task === 'binary' ? 'AUC' : options.task === 'multiclass' ? 'one-vs-rest AUC' : 'R²'
   const sees = (name: string, slice: SliceSeparation) => (slice.besideColumn ? `${name} and ${slice.column} (so it can treat each ${slice.column} apart)` : name)
   const fullHead = mean(head.separation)
   const fullBase = mean(base.separation)
@@ -132,14 +139,19 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
     const crossed = aloneBase === undefined || !(aloneBase >= options.singleFeaturePower)
     const severity: Severity = isNewOrChanged || crossed ? options.action : 'warn'
     flagged.add(unit.name)
+    // Multiclass: the power is the best class's one-vs-rest AUC; the finding names that class.
+    const aloneClass = head.singleFeatureClasses?.[unit.name]
+    const forClass = aloneClass === undefined ? '' : ` for the class '${aloneClass}'`
     findings.push({
       kind: 'leakage',
       severity,
       feature: unit.name,
-      title: `${cause(unit.name)}, alone separates the holdout (${metricName} ${fmt(alone)}).`,
+      title: `${cause(unit.name)}, alone separates the holdout (${metricName} ${fmt(alone)}${forClass}).`,
       message:
-        `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)} ` +
-        `(the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). ` +
+        `A model that sees only ${unit.name} reaches holdout ${metricName} ${fmt(alone)}${forClass} ` +
+        (aloneClass === undefined
+          ? `(the full model reaches ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). `
+          : `(the best of its classes against the rest; the full model's macro one-vs-rest AUC is ${fmt(fullHead)}; the policy line is ${options.singleFeaturePower}). `) +
         `A value this predictive on its own usually means it is computed from, or after, the outcome. ` +
         (severity === 'warn' && !isNewOrChanged && !crossed
           ? `It was already this strong on the base side (${metricName} ${fmt(aloneBase)}), so this pull request did not introduce it.`
@@ -153,6 +165,7 @@ export function checkLeakage(context: LeakageContext, options: LeakageOptions): 
         isNew: added.has(unit.name),
         isChanged: changed.has(unit.name),
         isReviewed: reviewed.has(unit.name),
+        ...(aloneClass !== undefined ? { singleFeatureClass: aloneClass } : {}),
         ...liftFields(unit.name),
       },
     })

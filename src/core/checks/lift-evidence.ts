@@ -37,7 +37,7 @@ export interface LiftEvidence {
 export function liftEvidence(
   name: string,
   context: { readonly base: SideResult; readonly head: SideResult },
-  task: 'binary' | 'regression',
+  task: 'binary' | 'regression' | 'multiclass',
 ): LiftEvidence | null {
   const { base, head } = context
   const drop = head.dropColumns?.[name]
@@ -47,7 +47,7 @@ export function liftEvidence(
   const headLoss = mean(head.losses)
   const offset = baseDrop && Number.isFinite(baseDrop.mean) ? Math.max(0, baseDrop.mean) : 0
   const dropLoss = drop.mean - offset
-  const trivial = task === 'binary' ? 0.5 : 0
+  const trivial = task === 'regression' ? 0 : 0.5
   const fullBase = mean(base.separation)
   const alone = head.singleFeatureSeparation[name] ?? null
   let bestExisting: { name: string; separation: number } | null = null

@@ -11,7 +11,7 @@ export interface SideResult {
   readonly features: readonly { readonly name: string; readonly kind: 'numeric' | 'categorical' }[]
   /** Policy metric on the holdout, per refit. */
   readonly scores: readonly number[]
-  /** AUC (binary) or R² (regression) of the full model on the holdout, per refit. */
+  /** AUC (binary), macro one-vs-rest AUC (multiclass) or R² (regression) of the full model on the holdout, per refit. */
   readonly separation: readonly number[]
   /** Features first (data order), then groups. */
   readonly importances: readonly FlooredImportance[]
@@ -19,6 +19,8 @@ export interface SideResult {
   readonly perRefit: readonly (readonly ImportanceEstimate[])[]
   /** A one-feature built-in model's holdout AUC / R², for the features it was computed for. */
   readonly singleFeatureSeparation: Readonly<Record<string, number>>
+  /** Multiclass only: per feature, the class whose one-vs-rest AUC `singleFeatureSeparation` is (the best one). */
+  readonly singleFeatureClasses?: Readonly<Record<string, string>>
   /** Per feature, the slice (a value of a categorical column) its one-feature model separates best. */
   readonly singleFeatureSlices?: Readonly<Record<string, SliceSeparation>>
   /** The policy metric per refit as a loss (lossOfScore: 0 is perfect), in refit order. */

@@ -3,7 +3,7 @@
  * that replacing one feature for permutation importance copies one array, not every row.
  */
 
-export type Task = 'binary' | 'regression'
+export type Task = 'binary' | 'regression' | 'multiclass'
 
 /** What a column is for. Declared roles override inference; `ignore` drops a column entirely. */
 export type ColumnRole = 'numeric' | 'categorical' | 'id' | 'ignore' | 'target'
@@ -25,10 +25,17 @@ export interface FeatureMatrix {
 
 export interface Target {
   readonly name: string
-  /** Regression: the value. Binary: 0 or 1, where 1 is `classes[1]` (the positive class). */
+  /**
+   * Regression: the value. Binary: 0 or 1, where 1 is `classes[1]` (the positive class). Multiclass:
+   * the class index 0..K-1 into `classes`.
+   */
   readonly values: Float64Array
-  /** Binary only: [negative, positive] as written in the file. */
-  readonly classes?: readonly [string, string]
+  /**
+   * Binary: [negative, positive] as written in the file. Multiclass: the K >= 3 labels as written,
+   * in numeric order when every label is a number, else in text order (UTF-16 code units); class k
+   * is classes[k], and a model's probability column k is that class.
+   */
+  readonly classes?: readonly string[]
 }
 
 export interface Dataset extends FeatureMatrix {

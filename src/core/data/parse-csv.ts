@@ -13,7 +13,7 @@ export interface DataSchema {
   readonly source: string
   readonly features: readonly FeatureInfo[]
   readonly idColumn?: string
-  readonly target?: { readonly name: string; readonly task: Task; readonly classes?: readonly [string, string] }
+  readonly target?: { readonly name: string; readonly task: Task; readonly classes?: readonly string[] }
 }
 
 export interface ParseCsvOptions {
@@ -45,7 +45,13 @@ export function schemaOf(dataset: Dataset): DataSchema {
     features: dataset.features,
     ...(dataset.ids ? { idColumn: dataset.ids.name } : {}),
     ...(target
-      ? { target: { name: target.name, task: target.classes ? 'binary' : 'regression', ...(target.classes ? { classes: target.classes } : {}) } }
+      ? {
+          target: {
+            name: target.name,
+            task: target.classes ? (target.classes.length > 2 ? 'multiclass' : 'binary') : 'regression',
+            ...(target.classes ? { classes: target.classes } : {}),
+          },
+        }
       : {}),
   }
 }
@@ -161,7 +167,7 @@ interface TargetPlan {
   readonly name: string
   readonly column: number
   readonly task?: Task
-  readonly classes?: readonly [string, string]
+  readonly classes?: readonly string[]
 }
 
 interface Plan {
@@ -470,6 +476,7 @@ function readTarget(source: string, plan: TargetPlan, values: string[], lineOf: 
     }
   })
   const distinct = [...new Set(values)]
+  if (plan.task === 'multiclass') return readClassTarget(source, plan, values, distinct, lineOf, schemaSource)
   const task = plan.task ?? (distinct.length === 2 || !values.every((v) => looksNumeric(v)) ? 'binary' : 'regression')
   if (task === 'regression') {
     const out = new Float64Array(values.length)
@@ -494,10 +501,11 @@ function readTarget(source: string, plan: TargetPlan, values: string[], lineOf: 
     }
     classes = orderClasses(distinct[0], distinct[1])
   }
+  const [negative, positive] = classes
   const out = new Float64Array(values.length)
   values.forEach((v, i) => {
-    if (v === classes[1]) out[i] = 1
-    else if (v === classes[0]) out[i] = 0
+    if (v === positive) out[i] = 1
+    else if (v === negative) out[i] = 0
     else {
       throw new UserError(
         `${at(source, lineOf(i), column)}: ${show(v)} is not one of the target's classes in ${schemaSource} (${listNames(classes, 2)}).`,
@@ -506,4 +514,58 @@ function readTarget(source: string, plan: TargetPlan, values: string[], lineOf: 
     }
   })
   return { name: column, values: out, classes }
+}
+
+/**
+ * A multiclass target: the labels as written, K >= 3 of them, in numeric order when every label is
+ * a number (so integer codes 0..9 keep their order, as numpy.unique sorts them) and in text order
+ * otherwise; each row's value is its label's index. Read against a schema, a label the training file
+ * lacks is a UserError naming the file, line and value.
+ */
+function readClassTarget(
+  source: string,
+  plan: TargetPlan,
+  values: readonly string[],
+  distinct: readonly string[],
+  lineOf: (row: number) => string,
+  schemaSource?: string,
+): Target {
+  const column = plan.name
+  let classes = plan.classes
+  if (classes === undefined) {
+    if (distinct.length < 3) {
+      throw new UserError(
+        `${source}, column ${show(column)}: a multiclass target needs at least three classes, found ${distinct.length}: ${listNames(distinct, 5)}.`,
+        distinct.length === 2
+          ? 'Set task: binary in the policy for a target with two classes.'
+          : 'Check that the file holds rows of every outcome and that the right column is the target.',
+      )
+    }
+    classes = orderLabels(distinct)
+  }
+  const index = new Map(classes.map((label, k) => [label, k]))
+  const out = new Float64Array(values.length)
+  values.forEach((v, i) => {
+    const k = index.get(v)
+    if (k === undefined) {
+      throw new UserError(
+        `${at(source, lineOf(i), column)}: the class ${show(v)} does not occur in ${schemaSource} (its classes: ${listNames(classes, 10)}).`,
+        `Use only classes that ${schemaSource} has rows of, or add training rows of ${show(v)}: a model cannot be scored on a class it never saw.`,
+      )
+    }
+    out[i] = k
+  })
+  return { name: column, values: out, classes }
+}
+
+/** Labels in numeric order when all are numbers (ties, e.g. '1' and '1.0', by text), else in text order. */
+function orderLabels(labels: readonly string[]): string[] {
+  const numbers = labels.map((label) => parseNumber(label))
+  if (numbers.every((x) => x !== undefined)) {
+    return labels
+      .map((label, i) => ({ label, x: numbers[i]! }))
+      .sort((a, b) => a.x - b.x || compareText(a.label, b.label))
+      .map((entry) => entry.label)
+  }
+  return [...labels].sort(compareText)
 }

@@ -92,8 +92,16 @@ export function gateSettings(config: GateConfig) {
     groupThreshold: config.importance.groupThreshold,
     /** Filled by withCorrelatedGroups once the head's training data is known. */
     automaticGroups: [] as readonly CorrelatedGroup[],
-    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5.
-    sensitivity: config.checks.sensitivity.action === 'off' ? undefined : config.task === 'binary' ? { threshold: 0.5 } : {},
+    // Prediction sensitivity is measured unless its check is off; a binary decision flips at 0.5, a
+    // multiclass one when the most probable class changes.
+    sensitivity:
+      config.checks.sensitivity.action === 'off'
+        ? undefined
+        : config.task === 'binary'
+          ? { threshold: 0.5 }
+          : config.task === 'multiclass'
+            ? { argmax: true }
+            : {},
     learner,
     policySlices: config.slices,
     pairedBootstrapReplicates: fixedSettings.pairedBootstrapReplicates,

@@ -42,6 +42,7 @@ export function judgeViews(inputs: {
     findings.push(...judged.findings)
     sensitivity = {
       threshold: inputs.settings.task === 'binary' ? 0.5 : null,
+      ...(inputs.settings.task === 'multiclass' ? { decision: 'most-probable-class' as const } : {}),
       unlabeledRows: { base: base.sensitivity?.unlabeledRows ?? 0, head: head.sensitivity.unlabeledRows },
       features: sensitivityRows(base.sensitivity, head.sensitivity, judged.changes),
     }

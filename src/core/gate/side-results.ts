@@ -24,6 +24,7 @@ export function sideResult(side: 'base' | 'head', data: SideInputs, measured: Si
     perRefit: measured.perRefit,
     singleFeatureSeparation: single.overall,
     singleFeatureSlices: single.bestSlice,
+    ...(single.bestClass ? { singleFeatureClasses: single.bestClass } : {}),
     noiseCovers: measured.noiseCovers,
   }
 }

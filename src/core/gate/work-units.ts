@@ -181,13 +181,22 @@ export const executeInProcess: ExecuteUnits = async (units, context) => {
     return job.inputs.fit({ side: unit.side, seed: unit.seed, refit: unit.refit, leaveOut: unit.kind === 'drop-column' ? [unit.feature] : [] })
   }
   const prefetched = units.map((unit) => (context.jobs[sideIndex[unit.side]].options.concurrentFits && !context.jobs[sideIndex[unit.side]].inputs.model ? fitOf(unit) : undefined))
-  prefetched.forEach((p) => p?.catch(() => undefined)) // awaited below in order; a failure surfaces there
+  // Awaited below in order, but the failure that surfaces is the first in time: a fit that failed
+  // stops the others (createCommandFit), and the one awaited first may be a fit stopped because of it,
+  // whose message would hide the cause.
+  let firstFailure: { readonly error: unknown } | undefined
+  prefetched.forEach((p) => p?.catch((error: unknown) => (firstFailure ??= { error })))
   const results: UnitResult[] = []
   for (const [k, unit] of units.entries()) {
     const j = sideIndex[unit.side]
     const job = context.jobs[j]
     if (unit.kind === 'refit') job.options.onRefit?.(unit.refit, sideRefitSeeds(job.inputs, job.options).length)
-    const model = await (prefetched[k] ?? fitOf(unit))
+    let model: Model
+    try {
+      model = await (prefetched[k] ?? fitOf(unit))
+    } catch (error) {
+      throw firstFailure?.error ?? error
+    }
     results.push(await executeWithModel(unit, model, job, context.rows[j]))
   }
   return results

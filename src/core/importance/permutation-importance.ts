@@ -2,7 +2,7 @@ import { replacementUnits, stackedCopies } from './replacement-units.ts'
 import type { FeatureMatrix } from '../data/dataset.ts'
 import { selectFeatures } from '../data/dataset.ts'
 import type { Metric } from '../metrics/metric.ts'
-import type { Model } from '../models/model.ts'
+import { predictionWidth, type Model } from '../models/model.ts'
 import { createRandom, deriveSeed, shuffledIndices } from '../statistics/random.ts'
 import { tInterval } from '../statistics/t-interval.ts'
 import { rowContributions } from './row-contributions.ts'
@@ -67,6 +67,7 @@ export interface PermutationImportanceOptions {
  * a random permutation of the reference rows when it has at least n rows, else draws with
  * replacement. A constant model gets exactly zero for every feature.
  *
+ * A multiclass model's predictions are [n, C] class probabilities, scored by a multiclass metric.
  * Cost: one model call of K·n rows per unit, on one stacked buffer of K·n·F values allocated once;
  * a model with a batched fast path (tree ensembles) gets every unit's draws in one call instead.
  */
@@ -84,6 +85,8 @@ export async function permutationImportance(
   const reference = options.reference ? selectFeatures(options.reference, names) : data
   const usesOwnRows = options.reference === undefined
   const n = data.rows
+  // Values per row of a prediction: K class probabilities for a multiclass model, else 1.
+  const width = predictionWidth(model)
   const y = evaluation.target.values
   if (n < 2) throw new RangeError(`permutationImportance needs at least 2 evaluation rows, got ${n}`)
   if (reference.rows < 1) throw new RangeError('permutationImportance needs at least 1 reference row')
@@ -134,7 +137,7 @@ export async function permutationImportance(
     rowSum.fill(0)
     let decomposes = true
     for (let k = 0; k < draws; k++) {
-      const block = prediction.subarray(k * n, (k + 1) * n)
+      const block = prediction.subarray(k * n * width, (k + 1) * n * width)
       const permuted = metric.compute(y, block)
       values.push(metric.higherIsBetter ? score - permuted : permuted - score)
       if (decomposes && rowContributions(metric, y, basePrediction, block, contribution)) {

@@ -1,7 +1,8 @@
 import { replacementUnits, stackedCopies } from './replacement-units.ts'
 import type { FeatureMatrix } from '../data/dataset.ts'
 import { selectFeatures } from '../data/dataset.ts'
-import type { Model } from '../models/model.ts'
+import { argmaxRow } from '../metrics/multiclass-accuracy.ts'
+import { predictionWidth, type Model } from '../models/model.ts'
 import { createRandom, deriveSeed, shuffledIndices } from '../statistics/random.ts'
 import type { FeatureGroup } from './permutation-importance.ts'
 
@@ -10,11 +11,15 @@ export interface SensitivityEstimate {
   readonly name: string
   readonly members: readonly string[]
   readonly isGroup: boolean
-  /** Per draw: the mean over rows of |f(x with the feature replaced) − f(x)|. */
+  /**
+   * Per draw: the mean over rows of |f(x with the feature replaced) − f(x)|. Multiclass: of half the
+   * sum over classes of the probabilities' absolute changes (the total variation distance between
+   * the two class distributions, in [0, 1]; for two classes it is the binary |Δp|).
+   */
   readonly draws: readonly number[]
   /** Mean of `draws`. For a classifier, in probability. */
   readonly mean: number
-  /** Classifiers only (a threshold given): per draw, the share of rows whose decision flips. */
+  /** Classifiers only (a threshold given, or multiclass): per draw, the share of rows whose decision flips. */
   readonly flipDraws?: readonly number[]
   /** Mean of `flipDraws`. */
   readonly flipShare?: number
@@ -29,6 +34,8 @@ export interface PredictionSensitivityOptions {
   readonly reference: FeatureMatrix
   /** Classifiers: the decision threshold on the positive-class probability (a row is positive at or above it). */
   readonly threshold?: number
+  /** Multiclass: count flips of the most probable class (argmax, ties to the lowest class). */
+  readonly argmax?: boolean
   readonly groups?: readonly FeatureGroup[]
 }
 
@@ -54,6 +61,7 @@ export async function predictionSensitivity(
   options: PredictionSensitivityOptions,
 ): Promise<SensitivityEstimate[]> {
   const { draws, threshold } = options
+  const argmax = options.argmax === true
   if (!Number.isInteger(draws) || draws < 1) {
     throw new RangeError(`predictionSensitivity needs a whole number of draws >= 1, got ${draws}`)
   }
@@ -64,6 +72,8 @@ export async function predictionSensitivity(
   if (n < 1) throw new RangeError('predictionSensitivity needs at least 1 row')
   if (reference.rows < 1) throw new RangeError('predictionSensitivity needs at least 1 reference row')
   const original = await model.predict(data)
+  const width = predictionWidth(model)
+  const countsFlips = threshold !== undefined || argmax
 
   const units = replacementUnits(names, options.groups)
   const fast = model.createReplacementPredictor?.(data)
@@ -86,18 +96,28 @@ export async function predictionSensitivity(
     }
     const prediction = fast ? fast.predict(replaced, draws) : await model.predict(stackedMatrix)
     const changes: number[] = []
-    const flips: number[] = []
+    const flipShares: number[] = []
     for (let k = 0; k < draws; k++) {
       let change = 0
       let flipped = 0
-      for (let i = 0; i < n; i++) {
-        const before = original[i]
-        const after = prediction[k * n + i]
-        change += Math.abs(after - before)
-        if (threshold !== undefined && before >= threshold !== after >= threshold) flipped++
+      if (width > 1) {
+        for (let i = 0; i < n; i++) {
+          const at = (k * n + i) * width
+          let total = 0
+          for (let c = 0; c < width; c++) total += Math.abs(prediction[at + c] - original[i * width + c])
+          change += total / 2
+          if (argmax && argmaxRow(original, i * width, width) !== argmaxRow(prediction, at, width)) flipped++
+        }
+      } else {
+        for (let i = 0; i < n; i++) {
+          const before = original[i]
+          const after = prediction[k * n + i]
+          change += Math.abs(after - before)
+          if (threshold !== undefined && before >= threshold !== after >= threshold) flipped++
+        }
       }
       changes.push(change / n)
-      flips.push(flipped / n)
+      flipShares.push(flipped / n)
     }
     if (!fast) {
       for (const j of unit.columns) for (let k = 0; k < draws; k++) stacked[j].set(data.columns[j], k * n)
@@ -108,7 +128,7 @@ export async function predictionSensitivity(
       isGroup: unit.isGroup,
       draws: changes,
       mean: average(changes),
-      ...(threshold !== undefined ? { flipDraws: flips, flipShare: average(flips) } : {}),
+      ...(countsFlips ? { flipDraws: flipShares, flipShare: average(flipShares) } : {}),
     })
   }
   return estimates

@@ -1,4 +1,6 @@
 import type { Metric } from '../metrics/metric.ts'
+import { argmaxRow } from '../metrics/multiclass-accuracy.ts'
+import { rowLogLoss } from '../metrics/multiclass-log-loss.ts'
 
 const EPSILON = 1e-15
 
@@ -11,7 +13,8 @@ const EPSILON = 1e-15
  * Exact for metrics that are means over rows (log-loss with scikit-learn's 1e-15 clipping, Brier,
  * accuracy, MAE); for RMSE and R² the first-order (delta-method) terms: ΔRMSE ≈ ΔMSE / (2·RMSE) and
  * ΔR² = −ΔMSE / Var_n(y). AUC is not a mean over rows: returns null, and the interval then covers
- * refit and draw noise only. Written into `out`; cost O(n).
+ * refit and draw noise only. Multiclass (predictions [n, K] row-major): log-loss and accuracy of the
+ * most probable class, exact; macro one-vs-rest AUC returns null. Written into `out`; cost O(n·K).
  */
 export function rowContributions(
   metric: Metric,
@@ -21,6 +24,7 @@ export function rowContributions(
   out: Float64Array,
 ): Float64Array | null {
   const n = y.length
+  if (metric.task === 'multiclass') return multiclassContributions(metric, y, base, permuted, out)
   switch (metric.name) {
     case 'log-loss': {
       const loss = (t: number, p: number) => {
@@ -57,6 +61,21 @@ export function rowContributions(
       for (let i = 0; i < n; i++) out[i] = ((permuted[i] - y[i]) ** 2 - (base[i] - y[i]) ** 2) * scale
       return out
     }
+    default:
+      return null
+  }
+}
+
+function multiclassContributions(metric: Metric, y: ArrayLike<number>, base: ArrayLike<number>, permuted: ArrayLike<number>, out: Float64Array): Float64Array | null {
+  const n = y.length
+  const k = n === 0 ? 0 : base.length / n
+  switch (metric.name) {
+    case 'log-loss':
+      for (let i = 0; i < n; i++) out[i] = rowLogLoss(y[i], permuted, i * k, k, i) - rowLogLoss(y[i], base, i * k, k, i)
+      return out
+    case 'accuracy':
+      for (let i = 0; i < n; i++) out[i] = Number(argmaxRow(base, i * k, k) === y[i]) - Number(argmaxRow(permuted, i * k, k) === y[i])
+      return out
     default:
       return null
   }

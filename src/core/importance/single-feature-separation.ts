@@ -1,8 +1,10 @@
 import type { Dataset, Task } from '../data/dataset.ts'
 import { selectFeatures } from '../data/dataset.ts'
+import { oneVsRestAucs } from '../metrics/macro-ovr-auc.ts'
 import { rocAuc } from '../metrics/roc-auc.ts'
 import { rSquared } from '../metrics/r-squared.ts'
-import type { Fit } from '../models/model.ts'
+import { predictionWidth, type Fit } from '../models/model.ts'
+import { predictionRows } from '../models/prediction-rows.ts'
 import { deriveSeed } from '../statistics/random.ts'
 
 /** The best slice of one feature's one-feature model. */
@@ -12,13 +14,17 @@ export interface SliceSeparation {
   readonly value: string
   readonly rows: number
   readonly separation: number
+  /** Multiclass: the class whose one-vs-rest AUC this is. */
+  readonly bestClass?: string
   /** Set when the better model there saw the slicing column beside the feature (see withSliceColumn). */
   readonly besideColumn?: boolean
 }
 
 export interface SeparationResult {
-  /** AUC (binary) or R² (regression) on the whole holdout, per feature. */
+  /** AUC (binary), the best class's one-vs-rest AUC (multiclass) or R² (regression) on the whole holdout, per feature. */
   readonly overall: Record<string, number>
+  /** Multiclass only: per feature, the class whose one-vs-rest AUC `overall` is. */
+  readonly bestClass?: Record<string, string>
   /** Per feature, its best slice (highest separation among slices large enough to judge). */
   readonly bestSlice: Record<string, SliceSeparation>
 }
@@ -32,7 +38,10 @@ export interface SliceOptions {
 
 /**
  * How well each named feature alone separates the holdout: a built-in model trained on that one
- * column, scored by holdout AUC (binary) or R² (regression). This is a property of the data, not of
+ * column, scored by holdout AUC (binary) or R² (regression). Multiclass: the one-feature model's
+ * probability of each class against the rest, one AUC per class, and the largest of them with the
+ * class it belongs to (a feature that gives away one class is a leak of that class even when it
+ * says nothing of the others). This is a property of the data, not of
  * the gated model, so it is computed the same way for built-in, ONNX and externally trained models.
  *
  * The same predictions are also scored within slices: every value of every categorical feature with
@@ -67,10 +76,20 @@ export async function singleFeatureSeparation(
 ): Promise<SeparationResult> {
   const all = train.features.map((f) => f.name)
   const y = holdout.target!.values
-  const score = (target: ArrayLike<number>, prediction: ArrayLike<number>) =>
-    options.task === 'binary' ? rocAuc(target, prediction) : rSquared(target, prediction)
+  const classes = holdout.target!.classes ?? []
+  const multiclass = options.task === 'multiclass'
+  /** The score, and for a multiclass task the class it belongs to (the best one-vs-rest AUC; NaN when one is undefined). */
+  const scoreOf = (target: ArrayLike<number>, prediction: ArrayLike<number>): { value: number; bestClass?: string } => {
+    if (!multiclass) return { value: options.task === 'binary' ? rocAuc(target, prediction) : rSquared(target, prediction) }
+    const aucs = oneVsRestAucs(target, prediction)
+    if (aucs.length === 0 || aucs.some((a) => !Number.isFinite(a))) return { value: NaN }
+    let best = 0
+    for (let c = 1; c < aucs.length; c++) if (aucs[c] > aucs[best]) best = c
+    return { value: aucs[best], bestClass: classes[best] ?? String(best) }
+  }
   const slices = options.slices ? sliceRows(holdout, options.slices, options.task) : []
   const overall: Record<string, number> = {}
+  const bestClass: Record<string, string> = {}
   const bestSlice: Record<string, SliceSeparation> = {}
   for (const name of names) {
     if (!all.includes(name)) continue
@@ -81,17 +100,26 @@ export async function singleFeatureSeparation(
       leaveOut: all.filter((other) => other !== name),
     })
     const prediction = await model.predict(selectFeatures(holdout, model.featureNames))
-    overall[name] = score(y, prediction)
-    const keepBest = (slice: (typeof slices)[number], predicted: ArrayLike<number>, besideColumn: boolean) => {
-      const separation = score(
+    const whole = scoreOf(y, prediction)
+    overall[name] = whole.value
+    if (whole.bestClass !== undefined) bestClass[name] = whole.bestClass
+    const keepBest = (slice: (typeof slices)[number], predicted: ArrayLike<number>, width: number, besideColumn: boolean) => {
+      const { value: separation, bestClass: sliceClass } = scoreOf(
         Array.from(slice.rows, (i) => y[i]),
-        Array.from(slice.rows, (i) => predicted[i]),
+        predictionRows(predicted, slice.rows, width),
       )
       if (Number.isFinite(separation) && !(bestSlice[name]?.separation >= separation)) {
-        bestSlice[name] = { column: slice.column, value: slice.value, rows: slice.rows.length, separation, ...(besideColumn ? { besideColumn } : {}) }
+        bestSlice[name] = {
+          column: slice.column,
+          value: slice.value,
+          rows: slice.rows.length,
+          separation,
+          ...(sliceClass !== undefined ? { bestClass: sliceClass } : {}),
+          ...(besideColumn ? { besideColumn } : {}),
+        }
       }
     }
-    for (const slice of slices) if (slice.column !== name) keepBest(slice, prediction, false)
+    for (const slice of slices) if (slice.column !== name) keepBest(slice, prediction, predictionWidth(model), false)
     if (!options.withSliceColumn?.includes(name)) continue
     for (const column of new Set(slices.map((slice) => slice.column))) {
       if (column === name) continue
@@ -102,10 +130,10 @@ export async function singleFeatureSeparation(
         leaveOut: all.filter((other) => other !== name && other !== column),
       })
       const pairedPrediction = await paired.predict(selectFeatures(holdout, paired.featureNames))
-      for (const slice of slices) if (slice.column === column) keepBest(slice, pairedPrediction, true)
+      for (const slice of slices) if (slice.column === column) keepBest(slice, pairedPrediction, predictionWidth(paired), true)
     }
   }
-  return { overall, bestSlice }
+  return multiclass ? { overall, bestClass, bestSlice } : { overall, bestSlice }
 }
 
 function sliceRows(holdout: Dataset, options: SliceOptions, task: Task) {

@@ -32,6 +32,10 @@ export function createBuiltinFit(
   if (!target) throw new RangeError('createBuiltinFit needs a training dataset with a target')
   let binned: BinnedFeatures | undefined
   const names = train.features.map((f) => f.name)
+  const classCount = task === 'multiclass' ? train.target?.classes?.length : undefined
+  if (task === 'multiclass' && !(classCount !== undefined && classCount >= 3)) {
+    throw new RangeError('createBuiltinFit needs a multiclass target with its classes (K >= 3)')
+  }
   return async (request: FitRequest): Promise<Model> => {
     const leaveOut = new Set(request.leaveOut)
     for (const name of leaveOut) {
@@ -44,6 +48,7 @@ export function createBuiltinFit(
     if (settings.learner === 'linear') {
       const features = columnOrder.filter((j) => !leaveOut.has(names[j]))
       const options = { l2: settings.linearL2, rows, features }
+      if (task === 'multiclass') throw new RangeError('createBuiltinFit: the linear learner has no multiclass fit (the policy refuses it)')
       return task === 'binary' ? fitLogistic(train, target, options) : fitRidge(train, target, options)
     }
     // One binned matrix per side, shared by every refit; a left-out column is masked, not re-binned.
@@ -55,6 +60,7 @@ export function createBuiltinFit(
       rows,
       features: columnOrder,
       excludeFeatures: excluded,
+      ...(classCount !== undefined ? { classCount } : {}),
     })
   }
 }

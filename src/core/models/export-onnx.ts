@@ -41,6 +41,7 @@ const OPSETS = [
 const IR_VERSION = 8
 
 export function exportOnnx(model: BoostedModel | LinearModel): Uint8Array {
+  if (model.task === 'multiclass') throw new RangeError('exportOnnx: multiclass models are not exported')
   if (model instanceof BoostedModel) return exportBoosted(model)
   if (model instanceof LinearModel) return exportLinear(model)
   throw new RangeError(`exportOnnx: cannot export a model of kind '${(model as { kind?: string }).kind}'`)
@@ -54,7 +55,8 @@ function exportBoosted(model: BoostedModel): Uint8Array {
       if (tree.feature[i] >= width) throw new RangeError(`exportOnnx: tree ${t} node ${i} splits on feature ${tree.feature[i]} of ${width}`)
     }
   }
-  const scoreName = ensemble.task === 'binary' ? 'raw_score' : 'prediction'
+  const task = ensemble.task as 'binary' | 'regression'
+  const scoreName = task === 'binary' ? 'raw_score' : 'prediction'
   const nodes: OnnxNode[] = [
     {
       opType: 'TreeEnsembleRegressor',
@@ -72,8 +74,8 @@ function exportBoosted(model: BoostedModel): Uint8Array {
     },
   ]
   const initializer: OnnxTensor[] = []
-  if (ensemble.task === 'binary') nodes.push(...probabilityNodes(scoreName, OnnxDataType.FLOAT, initializer))
-  return writeModel(ensemble.featureNames, nodes, initializer, output(ensemble.task, OnnxDataType.FLOAT))
+  if (task === 'binary') nodes.push(...probabilityNodes(scoreName, OnnxDataType.FLOAT, initializer))
+  return writeModel(ensemble.featureNames, nodes, initializer, output(task, OnnxDataType.FLOAT))
 }
 
 function exportLinear(model: LinearModel): Uint8Array {
@@ -123,7 +125,7 @@ function exportLinear(model: LinearModel): Uint8Array {
   })
   nodes.push({ opType: 'Add', input: [score, 'intercept'], output: [scoreName], name: 'intercept' })
   if (state.task === 'binary') nodes.push(...probabilityNodes(scoreName, OnnxDataType.DOUBLE, initializer))
-  return writeModel(state.featureNames, nodes, initializer, output(state.task, OnnxDataType.DOUBLE))
+  return writeModel(state.featureNames, nodes, initializer, output(state.task as 'binary' | 'regression', OnnxDataType.DOUBLE))
 }
 
 /** The nodes_* and target_* attributes of TreeEnsembleRegressor for all trees, node ids as in Tree. */

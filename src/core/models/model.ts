@@ -2,13 +2,17 @@ import type { FeatureMatrix, Task } from '../data/dataset.ts'
 
 /**
  * A fitted model. One batched call over a whole matrix; the result is the regression value, or for
- * a binary task the positive-class probability, one per row. Async because ONNX sessions are.
+ * a binary task the positive-class probability, one per row; for a multiclass task the K class
+ * probabilities of each row, row-major [N, K] (row i's class k at i·K + k, classes in the target's
+ * order, Target.classes), with `classCount` = K. Async because ONNX sessions are.
  * The matrix's features must be exactly `featureNames`, in that order (use selectFeatures).
  */
 export interface Model {
   readonly kind: string
   readonly task: Task
   readonly featureNames: readonly string[]
+  /** Multiclass only: K, the width of each row's prediction. Absent: one value per row. */
+  readonly classCount?: number
   /**
    * What computes the predictions: plumbline's own tree evaluator (built-in boosted trees, and ONNX
    * tree ensembles it could read), its linear evaluator, or onnxruntime. Read it after the first
@@ -51,4 +55,9 @@ export interface ReplacementPredictor {
   predict(replaced: ReadonlyMap<string, Float64Array>, draws: number): Float64Array
   /** predict for several replacements in one pass (one per unit, e.g. every feature of a model). */
   predictMany?(units: readonly ReadonlyMap<string, Float64Array>[], draws: number): Float64Array[]
+}
+
+/** How many values `predict` returns per row: K for a multiclass model, else 1. */
+export function predictionWidth(model: Pick<Model, 'classCount'>): number {
+  return model.classCount ?? 1
 }

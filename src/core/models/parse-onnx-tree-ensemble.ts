@@ -32,7 +32,7 @@ export type ParsedTreeEnsemble =
   | { readonly ok: true; readonly ensemble: Omit<EvaluableEnsemble, 'featureNames'>; readonly width: number; readonly operator: string }
   | { readonly ok: false; readonly reason: string }
 
-interface Attribute {
+export interface Attribute {
   name?: string
   type?: number
   f?: number
@@ -43,14 +43,14 @@ interface Attribute {
   ints?: number[]
   strings?: Uint8Array[]
 }
-interface Node {
+export interface Node {
   input?: string[]
   output?: string[]
   opType?: string
   domain?: string
   attribute?: Attribute[]
 }
-interface ValueInfo {
+export interface ValueInfo {
   name?: string
   type?: { tensorType?: { elemType?: number; shape?: { dim?: { dimValue?: number; dimParam?: string }[] } } }
 }
@@ -67,30 +67,9 @@ export function parseOnnxTreeEnsemble(
   bytes: Uint8Array,
   target: { readonly task: 'binary' | 'regression'; readonly outputName: string; readonly positiveColumn?: number },
 ): ParsedTreeEnsemble {
-  const decoded = onnxProto.ModelProto.toObject(onnxProto.ModelProto.decode(bytes), { longs: Number, arrays: true, bytes: Uint8Array }) as {
-    graph?: { node?: Node[]; input?: ValueInfo[]; initializer?: { name?: string }[] }
-  }
-  const graph = decoded.graph
-  if (!graph) return no('the file has no graph')
-  const initialized = new Set((graph.initializer ?? []).map((t) => t.name))
-  const inputs = (graph.input ?? []).filter((v) => !initialized.has(v.name))
-  if (inputs.length !== 1) return no(`the graph has ${inputs.length} inputs, not one [N, F] matrix`)
-  const input = inputs[0]
-  const elemType = input.type?.tensorType?.elemType
-  if (elemType !== OnnxDataType.FLOAT && elemType !== OnnxDataType.DOUBLE) return no('the input is not a float or double tensor')
-  const nodes = graph.node ?? []
-  const producer = new Map<string, Node>()
-  for (const node of nodes) for (const out of node.output ?? []) producer.set(out, node)
-  // Follows Identity and Cast-to-float/double back from a value.
-  const source = (name: string): { name: string; node: Node | undefined } => {
-    let node = producer.get(name)
-    while (node && node.domain !== 'ai.onnx.ml' && (node.opType === 'Identity' || isFloatCast(node))) {
-      name = node.input![0]
-      node = producer.get(name)
-    }
-    return { name, node }
-  }
-
+  const graph = readTreeGraph(bytes)
+  if (!graph.ok) return graph
+  const { input, elemType, producer, source } = graph
   const end = source(target.outputName)
   let operator: Node | undefined
   let link: 'identity' | 'logistic' = 'identity'
@@ -131,6 +110,42 @@ export function parseOnnxTreeEnsemble(
     width: parsed.width,
     ensemble: { baseScore: parsed.baseScore, trees: parsed.trees, link, float32Inputs },
   }
+}
+
+/** The graph a tree reader walks: its one [N, F] float input, each value's producer, and `source`, which follows Identity and Cast-to-float/double back from a value. */
+export type TreeGraph =
+  | {
+      readonly ok: true
+      readonly input: ValueInfo
+      readonly elemType: number
+      readonly producer: ReadonlyMap<string, Node>
+      readonly source: (name: string) => { name: string; node: Node | undefined }
+    }
+  | { readonly ok: false; readonly reason: string }
+
+export function readTreeGraph(bytes: Uint8Array): TreeGraph {
+  const decoded = onnxProto.ModelProto.toObject(onnxProto.ModelProto.decode(bytes), { longs: Number, arrays: true, bytes: Uint8Array }) as {
+    graph?: { node?: Node[]; input?: ValueInfo[]; initializer?: { name?: string }[] }
+  }
+  const graph = decoded.graph
+  if (!graph) return { ok: false, reason: 'the file has no graph' }
+  const initialized = new Set((graph.initializer ?? []).map((t) => t.name))
+  const inputs = (graph.input ?? []).filter((v) => !initialized.has(v.name))
+  if (inputs.length !== 1) return { ok: false, reason: `the graph has ${inputs.length} inputs, not one [N, F] matrix` }
+  const input = inputs[0]
+  const elemType = input.type?.tensorType?.elemType
+  if (elemType !== OnnxDataType.FLOAT && elemType !== OnnxDataType.DOUBLE) return { ok: false, reason: 'the input is not a float or double tensor' }
+  const producer = new Map<string, Node>()
+  for (const node of graph.node ?? []) for (const out of node.output ?? []) producer.set(out, node)
+  const source = (name: string): { name: string; node: Node | undefined } => {
+    let node = producer.get(name)
+    while (node && node.domain !== 'ai.onnx.ml' && (node.opType === 'Identity' || isFloatCast(node))) {
+      name = node.input![0]
+      node = producer.get(name)
+    }
+    return { name, node }
+  }
+  return { ok: true, input, elemType, producer, source }
 }
 
 function isFloatCast(node: Node): boolean {
@@ -198,7 +213,7 @@ function classifierTrees(attributes: Map<string, Attribute>, positive: number, r
 }
 
 /** Σ weights per (tree id, node id) for the targets kept, each times its sign. */
-function leafWeights(
+export function leafWeights(
   attributes: Map<string, Attribute>,
   prefix: 'target' | 'class',
   keep: (id: number) => boolean,
@@ -220,7 +235,7 @@ function leafWeights(
   return { ok: true, weights: out }
 }
 
-function buildTrees(
+export function buildTrees(
   attributes: Map<string, Attribute>,
   weights: Map<string, number>,
   baseScore: number,
@@ -345,13 +360,13 @@ function nextDown(x: number): number {
   return buffer[0]
 }
 
-function stringOf(attributes: Map<string, Attribute>, name: string): string | undefined {
+export function stringOf(attributes: Map<string, Attribute>, name: string): string | undefined {
   const s = attributes.get(name)?.s
   return s ? text.decode(s) : undefined
 }
 
 /** A float list attribute, or its `_as_tensor` double form (which takes precedence). */
-function numbersOf(attributes: Map<string, Attribute>, name: string): number[] | undefined {
+export function numbersOf(attributes: Map<string, Attribute>, name: string): number[] | undefined {
   const tensor = attributes.get(`${name}_as_tensor`)?.t
   if (tensor) {
     if (tensor.doubleData && tensor.doubleData.length > 0) return tensor.doubleData

@@ -13,7 +13,8 @@ export interface TrainingSubset {
 /**
  * Checks and resolves the `rows` and `features` options every built-in learner takes (default: all
  * rows in order, all columns), and gathers the target at those rows. `caller` starts every
- * RangeError. Binary targets must be 0 or 1, regression targets finite. O(rows + features).
+ * RangeError. Binary targets must be 0 or 1, multiclass targets class indices (whole numbers >= 0),
+ * regression targets finite. O(rows + features).
  */
 export function resolveTrainingSubset(
   caller: string,
@@ -22,7 +23,7 @@ export function resolveTrainingSubset(
   task: Task,
   options: { readonly rows?: ArrayLike<number>; readonly features?: readonly number[] },
 ): TrainingSubset {
-  if (task !== 'regression' && task !== 'binary') throw new RangeError(`${caller}: unknown task '${String(task)}'`)
+  if (task !== 'regression' && task !== 'binary' && task !== 'multiclass') throw new RangeError(`${caller}: unknown task '${String(task)}'`)
   if (target.length !== shape.rows) {
     throw new RangeError(`${caller} needs one target per row, got ${target.length} targets for ${shape.rows} rows`)
   }
@@ -49,8 +50,9 @@ export function resolveTrainingSubset(
   const y = new Float64Array(positions.length)
   for (let p = 0; p < positions.length; p++) {
     const value = target[positions[p]]
-    if (!Number.isFinite(value) || (task === 'binary' && value !== 0 && value !== 1)) {
-      const rule = task === 'binary' ? 'binary targets must be 0 or 1' : 'regression targets must be finite'
+    if (!Number.isFinite(value) || (task === 'binary' && value !== 0 && value !== 1) || (task === 'multiclass' && !(Number.isInteger(value) && value >= 0))) {
+      const rule =
+        task === 'binary' ? 'binary targets must be 0 or 1' : task === 'multiclass' ? 'multiclass targets must be class indices 0, 1, 2, ...' : 'regression targets must be finite'
       throw new RangeError(`${caller}: target of row ${positions[p]} is ${value}; ${rule}`)
     }
     y[p] = value

@@ -51,7 +51,7 @@ export const defaultBoosting: BuiltinSettings = deepFreeze({
 
 export const defaultTrainCommand = deepFreeze({ timeoutSeconds: 1800, parallel: 2 })
 
-/** The task each metric belongs to; `importance.metric` must match `task`. */
+/** The binary or regression task each metric belongs to; `importance.metric` must match `task` (see metricsOfTask). */
 export const metricTasks: Readonly<Record<MetricName, Task>> = deepFreeze({
   auc: 'binary',
   'log-loss': 'binary',
@@ -62,10 +62,20 @@ export const metricTasks: Readonly<Record<MetricName, Task>> = deepFreeze({
   r2: 'regression',
 })
 
+/** The metrics of a multiclass task: log-loss, accuracy (of the most probable class), macro one-vs-rest AUC. */
+export const multiclassMetrics: readonly MetricName[] = deepFreeze(['log-loss', 'accuracy', 'auc'])
+
+/** The metrics `importance.metric` may name for `task`. */
+export function metricsOfTask(task: Task): MetricName[] {
+  if (task === 'multiclass') return [...multiclassMetrics]
+  return (Object.keys(metricTasks) as MetricName[]).filter((name) => metricTasks[name] === task)
+}
+
 /** `importance.metric` when the policy names none. */
 export const defaultMetric: Readonly<Record<Task, MetricName>> = deepFreeze({
   binary: 'log-loss',
   regression: 'rmse',
+  multiclass: 'log-loss',
 })
 
 export const defaultImportance = deepFreeze({

@@ -21,6 +21,7 @@ import {
   defaultTopLevel,
   defaultTrainCommand,
   metricTasks,
+  metricsOfTask,
   uint32Max,
 } from './policy-defaults.ts'
 
@@ -331,7 +332,7 @@ const reportSchema = mapping({
 
 const documentSchema = mapping({
   version: z.preprocess(numberFromText, z.literal(1, { error: '1' })),
-  task: oneOf(['binary', 'regression']),
+  task: oneOf(['binary', 'regression', 'multiclass']),
   target: text('a column name'),
   seed: wholeNumber(0, uint32Max).default(defaultTopLevel.seed),
   data: dataSchema,
@@ -349,8 +350,8 @@ type PolicyDocument = z.output<typeof documentSchema>
 function checkAcrossSections(policy: PolicyDocument, ctx: RuleContext): void {
   const { task, target } = policy
   const roles = policy.data.columns
-  if (policy.importance.metric !== undefined && metricTasks[policy.importance.metric] !== task) {
-    const allowed = metricNames.filter((name) => metricTasks[name] === task)
+  const allowed = metricsOfTask(task)
+  if (policy.importance.metric !== undefined && !allowed.includes(policy.importance.metric)) {
     rule(ctx, ['importance', 'metric'], `must be one of ${allowed.join(', ')} for task ${task}; got '${policy.importance.metric}'.`,
       `Set importance.metric to one of ${allowed.join(', ')}, or delete the line to use the default for task ${task} (${defaultMetric[task]}).`, undefined, true)
   }
@@ -377,6 +378,10 @@ function checkAcrossSections(policy: PolicyDocument, ctx: RuleContext): void {
   }
   for (const [group, members] of Object.entries(policy.importance.groups)) checkNames(['importance', 'groups', group], members, 'a group')
   if (policy.model.onnx?.features) checkNames(['model', 'onnx', 'features'], policy.model.onnx.features, 'the list')
+  if (task === 'multiclass' && policy.model.builtin?.learner === 'linear') {
+    rule(ctx, ['model', 'builtin', 'learner'], 'is linear, which has no multiclass fit in plumbline; task is multiclass.',
+      "Set 'learner: gradient-boosting' (softmax boosting, one tree per class per round), or gate a model of your own through model.onnx or model.train.")
+  }
   if (policy.model.onnx?.positive_class !== undefined && task !== 'binary') {
     rule(ctx, ['model', 'onnx', 'positive_class'], `applies to task binary only; task is ${task}.`, "Delete 'positive_class:' from model.onnx, or set 'task: binary'.")
   }

@@ -14,7 +14,7 @@ import {
   defaultReport,
   defaultTopLevel,
   defaultTrainCommand,
-  metricTasks,
+  metricsOfTask,
 } from './policy-defaults.ts'
 import type { Task } from '../data/dataset.ts'
 import { UserError } from '../errors.ts'
@@ -254,7 +254,7 @@ export function renderStarterPolicy(input: StarterPolicyInput): string {
     optional(2, `parallel: ${defaultTrainCommand.parallel}`),
   ])
 
-  const metrics = (Object.keys(metricTasks) as (keyof typeof metricTasks)[]).filter((m) => metricTasks[m] === task)
+  const metrics = metricsOfTask(task)
   const importance = renderBlock([
     key(0, 'importance:'),
     optional(1, `metric: ${defaultMetric[task]}`, metrics.join(', ')),

@@ -57,6 +57,7 @@ export function assembleReport(parts: ReportParts): GateReport {
     sides: describeSides(parts.sides, base, head, parts.rowSampling),
     settings: {
       task: settings.task,
+      ...(settings.task === 'multiclass' ? { classes: parts.sides.head.train.target?.classes ?? [] } : {}),
       target: settings.target,
       metric: metric.name,
       higherIsBetter: metric.higherIsBetter,

@@ -225,6 +225,12 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
   const score = tables.score
     ? [tables.score.sentence, ...tables.score.evidenceLines].map(escapeMarkdownText).join('\n')
     : null
+  // Multiclass: the task and its classes in the order of the probability columns, in view.
+  const classes = report.settings.classes
+  const classLine =
+    report.settings.task === 'multiclass' && classes
+      ? escapeMarkdownText(`Task: multiclass, ${formatCount(classes.length)} classes: ${limitItems(classes, 20).join(', ')}.`)
+      : null
   const chart = mermaidChart(report)
   const chartBlock = chart === null ? null : `${fenceOpen}\n${chart}\n\`\`\``
   const htmlLink =
@@ -323,6 +329,7 @@ export function renderMarkdown(report: GateReport, options: MarkdownOptions = {}
       findingsSection(layout.findings),
       ...(chartBlock === null ? [] : [chartBlock]),
       featureSetSection(layout.rows),
+      ...(classLine === null ? [] : [classLine]),
       escapeMarkdownText(reportCaution),
       ...(htmlLink === null ? [] : [htmlLink]),
       ...(cutNote === null ? [] : [cutNote]),

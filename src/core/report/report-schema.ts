@@ -170,6 +170,7 @@ const sensitivitySideSchema = z.strictObject({ holdout: sensitivityValueSchema, 
 
 const sensitivityReportSchema = z.strictObject({
   threshold: finite.nullable(),
+  decision: z.literal('most-probable-class').optional(),
   unlabeledRows: z.strictObject({ base: count, head: count }),
   features: list(
     z.strictObject({
@@ -222,7 +223,8 @@ export const gateReportSchema = z
     agreement: rankAgreementSchema.nullable(),
     sides: z.strictObject({ base: sideSummarySchema, head: sideSummarySchema }).nullable(),
     settings: z.strictObject({
-      task: z.enum(['binary', 'regression']),
+      task: z.enum(['binary', 'regression', 'multiclass']),
+      classes: list(text).optional(),
       target: text,
       metric: text,
       higherIsBetter: z.boolean(),

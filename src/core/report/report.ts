@@ -157,11 +157,11 @@ export interface RankAgreement {
 
 /** Prediction sensitivity of one feature or group on one side and one set of rows, over refits. */
 export interface SensitivityValue {
-  /** Mean over refits of the mean absolute change of the output (binary: of the probability). */
+  /** Mean over refits of the mean absolute change of the output (binary: of the probability; multiclass: half the sum over classes). */
   readonly mean: number
   /** SD across refits of the per-refit values (NaN for one refit). */
   readonly refitSd: number
-  /** Binary only: mean share of rows whose decision flips at the threshold; null for regression. */
+  /** Classifiers: mean share of rows whose decision flips (binary: at the threshold; multiclass: the most probable class); null for regression. */
   readonly flipShare: number | null
   /** Per refit, the mean over draws. */
   readonly perRefit: readonly number[]
@@ -184,8 +184,13 @@ export interface SensitivityRow {
 
 /** Prediction sensitivity (Datta, Sen & Zick 2016, unary influence), measured without labels. */
 export interface SensitivityReport {
-  /** Binary: the decision threshold on the probability (0.5); null for regression. */
+  /** Binary: the decision threshold on the probability (0.5); null for regression and multiclass. */
   readonly threshold: number | null
+  /**
+   * Multiclass only: a decision flips when the most probable class changes, and "moves predictions"
+   * is half the sum over classes of each probability's absolute change (total variation distance).
+   */
+  readonly decision?: 'most-probable-class'
   /** Rows of `data.unlabeled` measured per side (0 without it). */
   readonly unlabeledRows: { readonly base: number; readonly head: number }
   /** Head's holdout value first. */
@@ -255,7 +260,9 @@ export interface GateReport {
   readonly agreement: RankAgreement | null
   readonly sides: { readonly base: SideSummary; readonly head: SideSummary } | null
   readonly settings: {
-    readonly task: 'binary' | 'regression'
+    readonly task: 'binary' | 'regression' | 'multiclass'
+    /** Multiclass only: the class labels in the order of the models' probability columns (class 0 first). */
+    readonly classes?: readonly string[]
     readonly target: string
     readonly metric: string
     readonly higherIsBetter: boolean

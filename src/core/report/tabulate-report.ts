@@ -107,6 +107,7 @@ const evidenceLabels: Readonly<Record<string, string>> = {
   runnerUpRatio: 'times the runner-up',
   runnerUp: 'runner-up',
   singleFeatureSeparation: 'a model on it alone, holdout score',
+  singleFeatureClass: 'the class it separates best',
   baseSingleFeatureSeparation: 'a model on it alone on the base, holdout score',
   fullModelSeparation: 'the full model, holdout score',
   baseFullModelSeparation: 'the base full model, holdout score',
@@ -196,8 +197,10 @@ function evidenceInWords(finding: Finding, featureSet: GateReport['featureSet'])
 function describeFinding(finding: Finding, task: GateReport['settings']['task'], featureSet: GateReport['featureSet']): FindingLines {
   const kind = finding.kind.replace(/-/g, ' ')
   const entries = evidenceInWords(finding, featureSet)
-  // A one-feature model's and the full model's "separation" is AUC for a binary task, R² for regression.
-  const label = (key: string) => evidenceLabel(key).replace('holdout score', task === 'binary' ? 'holdout AUC' : 'holdout R²')
+  // A one-feature model's and the full model's "separation" is AUC for a binary task, R² for
+  // regression, one-vs-rest AUC for multiclass (the one-feature model's best class, the full model's macro mean).
+  const label = (key: string) =>
+    evidenceLabel(key).replace('holdout score', task === 'binary' ? 'holdout AUC' : task === 'multiclass' ? 'holdout one-vs-rest AUC' : 'holdout R²')
   return {
     severity: finding.severity,
     title: finding.title,
@@ -382,6 +385,7 @@ function tabulateSettings(settings: GateReport['settings']): TextTable {
     align: ['left', 'left'],
     rows: [
       ['task', settings.task],
+      ...(settings.classes ? [['classes', settings.classes.join(', ')]] : []),
       ['target', settings.target],
       ['metric', `${settings.metric} (${direction})`],
       ['draws per feature and refit', formatCount(settings.draws)],

@@ -12,7 +12,8 @@ export function tabulateViews(report: GateReport): { readonly table: TextTable; 
   const gainBy = new Map((gain?.features ?? []).map((f) => [f.name, f]))
   const names = sensitivity ? sensitivity.features.filter((f) => !f.isGroup).map((f) => f.name) : (gain?.features ?? []).map((f) => f.name)
   const byName = new Map((sensitivity?.features ?? []).filter((f) => !f.isGroup).map((f) => [f.name, f]))
-  const binary = sensitivity?.threshold !== null && sensitivity?.threshold !== undefined
+  const multiclass = sensitivity?.decision === 'most-probable-class'
+  const binary = (sensitivity?.threshold !== null && sensitivity?.threshold !== undefined) || multiclass
   const unlabeled = (sensitivity?.unlabeledRows.head ?? 0) > 0
   const header = [
     'feature',
@@ -38,7 +39,8 @@ export function tabulateViews(report: GateReport): { readonly table: TextTable; 
   const notes = [
     ...(sensitivity
       ? [
-          `"Moves predictions" is the mean absolute change of the model's output${binary ? ' (probability)' : ''} when the feature takes reference values (no labels needed); * marks a change beyond reseed noise.`,
+          `"Moves predictions" is the mean absolute change of the model's output${multiclass ? ' (class probabilities: half the sum over classes of their absolute changes)' : binary ? ' (probability)' : ''} when the feature takes reference values (no labels needed); * marks a change beyond reseed noise.` +
+            (multiclass ? ' A decision flips when the most probable class changes.' : ''),
         ]
       : []),
     ...(gain ? [gain.caution] : []),

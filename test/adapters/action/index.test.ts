@@ -12,7 +12,8 @@ import { fileURLToPath } from 'node:url'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { parse } from 'yaml'
 import { commentMarker } from '../../../src/adapters/github/comment.ts'
-import { buildCourierRepository, type CourierRepository } from '../../helpers/courier-repository.ts'
+import { buildCourierRepository, courierPullRequestEvent, type CourierRepository } from '../../helpers/courier-repository.ts'
+import { readOutputs } from '../../helpers/run-action-bundle.ts'
 import { startFakeGitHub, type FakeGitHub } from '../../helpers/fake-github.ts'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..', '..')
@@ -69,30 +70,7 @@ interface ActionRun {
 }
 
 function pullRequestEvent(number: number, commits: CourierRepository = repository) {
-  return {
-    action: 'synchronize',
-    number,
-    pull_request: {
-      number,
-      base: { ref: 'main', sha: commits.baseSha, repo: { id: 4242, full_name: `${owner}/${repo}` } },
-      head: { ref: 'add-scan-delay', sha: commits.headSha, repo: { full_name: `${owner}/${repo}` } },
-    },
-    repository: { id: 4242, full_name: `${owner}/${repo}` },
-  }
-}
-
-/** Reads GITHUB_OUTPUT as @actions/core writes it: `name<<delimiter`, the value, the delimiter. */
-function readOutputs(text: string): Record<string, string> {
-  const outputs: Record<string, string> = {}
-  const lines = text.split('\n')
-  for (let i = 0; i < lines.length; i++) {
-    const match = lines[i].match(/^([^<]+)<<(.+)$/)
-    if (!match) continue
-    const value: string[] = []
-    for (i++; i < lines.length && lines[i] !== match[2]; i++) value.push(lines[i])
-    outputs[match[1]] = value.join('\n')
-  }
-  return outputs
+  return courierPullRequestEvent(number, commits, `${owner}/${repo}`)
 }
 
 /** Runs the bundle as the runner would, with every input at its action.yml default unless set. */

@@ -44,6 +44,12 @@ describe('readInputs(getInput)', () => {
       isForkCodeAllowed: false,
       workingDirectory: '.',
       htmlArtifact: 'plumbline-report',
+      isCacheWanted: false,
+      shards: null,
+      shard: null,
+      partialDirectory: 'plumbline-partial',
+      after: [],
+      partials: [],
     })
   })
 
@@ -106,7 +112,39 @@ describe('readInputs(getInput)', () => {
   })
 
   it("refuses an unknown 'mode'", () => {
-    expect(failure({ mode: 'post' }).message).toBe("Input 'mode' must be one of check, publish; got 'post'.")
+    expect(failure({ mode: 'post' }).message).toBe("Input 'mode' must be one of check, publish, plan, shard, merge; got 'post'.")
+  })
+
+  it('reads the plan, shard and merge inputs: shards, shard, after, partial-dir, partials, cache', () => {
+    expect(readInputs(runnerInputs({ mode: 'plan', shards: '4' }))).toMatchObject({ mode: 'plan', shards: 4, shard: null })
+    expect(
+      readInputs(runnerInputs({ mode: 'shard', shards: '4', shard: '3', after: 'refits/a\n\n  refits/b  \n', 'partial-dir': 'out/drops', cache: 'true' })),
+    ).toMatchObject({ mode: 'shard', shards: 4, shard: 3, after: ['refits/a', 'refits/b'], partialDirectory: 'out/drops', isCacheWanted: true })
+    expect(readInputs(runnerInputs({ mode: 'merge', partials: 'partials' }))).toMatchObject({ mode: 'merge', partials: ['partials'], shards: null })
+    expect(readInputs(runnerInputs({ cache: 'true' })).isCacheWanted).toBe(true)
+  })
+
+  it('refuses a missing or bad shard count or index, naming the input and the range', () => {
+    expect(failure({ mode: 'plan' }).message).toBe("Input 'shards' is required when 'mode' is plan: how many shards the work is split into.")
+    expect(failure({ mode: 'shard', shards: '2' }).message).toBe("Input 'shard' is required when 'mode' is shard: which shard this job runs, 1 to 2.")
+    const outside = failure({ mode: 'shard', shards: '2', shard: '3' })
+    expect(outside.message).toBe("Input 'shard' must be a whole number from 1 to 2; got '3'.")
+    expect(outside.fix).toBe("Set 'shard:' to a value of the plan's matrix (1 to 2, the 'shards' input), normally '${{ matrix.shard }}'.")
+    expect(failure({ mode: 'shard', shards: '2', shard: '0' }).message).toBe("Input 'shard' must be a whole number from 1 to 2; got '0'.")
+    expect(failure({ mode: 'plan', shards: '2.5' }).message).toBe("Input 'shards' must be a whole number from 1 to 1000; got '2.5'.")
+    expect(failure({ mode: 'plan', shards: '1001' }).message).toBe("Input 'shards' must be a whole number from 1 to 1000; got '1001'.")
+  })
+
+  it("needs 'partials' in merge mode, and refuses an input the mode does not read", () => {
+    const error = failure({ mode: 'merge' })
+    expect(error.message).toBe("Input 'partials' is required when 'mode' is merge: the folders of every shard's partial results, one per line.")
+    expect(failure({ mode: 'check', shards: '2' }).message).toBe("Input 'shards' is read only when 'mode' is plan or shard; this step's mode is check.")
+    expect(failure({ mode: 'plan', shards: '2', shard: '1' }).message).toBe("Input 'shard' is read only when 'mode' is shard; this step's mode is plan.")
+    expect(failure({ mode: 'merge', partials: 'p', after: 'refits' }).message).toBe("Input 'after' is read only when 'mode' is shard; this step's mode is merge.")
+    expect(failure({ partials: 'p' }).message).toBe("Input 'partials' is read only when 'mode' is merge; this step's mode is check.")
+    const cache = failure({ mode: 'merge', partials: 'p', cache: 'true' })
+    expect(cache.message).toBe("Input 'cache' is read only when 'mode' is check or shard; this step's mode is merge.")
+    expect(cache.fix).toBe("Delete 'cache:' from the step, or set 'mode:' to check or shard.")
   })
 
   it("needs 'report' in publish mode", () => {

@@ -1,19 +1,24 @@
 import { DefaultArtifactClient } from '@actions/artifact'
 import { getOctokit } from '@actions/github'
 import { retry } from '@octokit/plugin-retry'
-import { mkdtempSync, readFileSync, rmSync, writeFileSync, existsSync, mkdirSync } from 'node:fs'
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, existsSync, mkdirSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import { afterEach, beforeEach, describe, expect, it } from 'vitest'
+import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { parse } from 'yaml'
 import { run, type ActionDependencies } from '../../../src/adapters/action/main.ts'
-import type { CheckRequest } from '../../../src/adapters/check/run-check.ts'
+import { runCheck, type CheckRequest } from '../../../src/adapters/check/run-check.ts'
+import { runMerge, runPlan, runShard } from '../../../src/adapters/check/run-shards.ts'
 import { commentMarker } from '../../../src/adapters/github/comment.ts'
 import type { FetchCommitRequest } from '../../../src/adapters/github/fetch-base.ts'
 import { UserError } from '../../../src/core/errors.ts'
 import type { GateReport } from '../../../src/core/report/report.ts'
 import { courierReport, oversizedReport } from '../../core/report/courier-report.ts'
 import { githubCommentLimit, startFakeGitHub, type FakeGitHub } from '../../helpers/fake-github.ts'
+import type { CacheClient } from '../../../src/adapters/action/actions-cache-store.ts'
+import { deterministic } from '../../helpers/deterministic-report.ts'
+import { folderCacheClient } from '../../helpers/folder-cache-client.ts'
+import { baseFiles, makeRepository, smallPolicy, type TestRepository } from '../../helpers/make-repository.ts'
 
 const owner = 'northwind-parcel'
 const repo = 'late-deliveries'
@@ -71,6 +76,9 @@ async function runAction(options: {
   check?: () => Promise<GateReport>
   env?: Record<string, string>
   upload?: ActionDependencies['uploadArtifact']
+  /** The real check instead of `check` (a test repository as the workspace). */
+  realCheck?: boolean
+  loadCacheClient?: ActionDependencies['loadCacheClient']
 }): Promise<Recorded> {
   const recorded: Recorded = { lines: [], warnings: [], failures: [], secrets: [], outputs: {}, summary: [], checks: [], fetches: [] }
   maskedBeforeFailure = recorded.secrets
@@ -111,6 +119,7 @@ async function runAction(options: {
       getOctokit(clientToken, { baseUrl: clientOptions.baseUrl, retry: { retryAfterBaseValue: 1 } }, retry),
     runCheck: async (request) => {
       recorded.checks.push(request)
+      if (options.realCheck) return runCheck(request)
       if (!options.check) throw new Error('runCheck must not be called here')
       return options.check()
     },
@@ -119,6 +128,10 @@ async function runAction(options: {
       return request.ref
     },
     ...(options.upload ? { uploadArtifact: options.upload } : {}),
+    runPlan,
+    runShard,
+    runMerge,
+    ...(options.loadCacheClient ? { loadCacheClient: options.loadCacheClient } : {}),
   }
   await run(deps)
   return recorded
@@ -397,4 +410,139 @@ describe('run(deps) in publish mode', () => {
     ])
     expect(existsSync(join(folder, 'runner-temp', 'plumbline', 'report.json'))).toBe(true)
   })
+})
+
+describe('run(deps) with the Actions cache (a folder-backed cache client, the real check)', () => {
+  let repo: TestRepository
+  beforeAll(() => {
+    repo = makeRepository({ base: baseFiles({ policy: smallPolicy() }) })
+  })
+  afterAll(() => repo.remove())
+
+  /**
+   * A check of main against pr with 'cache: true' on a fresh runner: an empty RUNNER_TEMP, at the
+   * same path on every runner as on GitHub's (the entries' paths are part of their version).
+   */
+  async function cachedCheck(runner: string, client: () => Promise<CacheClient>) {
+    const temp = join(folder, 'runner-temp')
+    rmSync(temp, { recursive: true, force: true })
+    mkdirSync(temp)
+    const result = await runAction({
+      eventName: 'pull_request',
+      event: pullRequestEvent(),
+      inputs: { base: 'main', head: 'pr', cache: 'true' },
+      env: { GITHUB_WORKSPACE: repo.root, RUNNER_TEMP: temp },
+      realCheck: true,
+      loadCacheClient: client,
+    })
+    const report = JSON.parse(readFileSync(result.outputs['report-json'], 'utf8')) as GateReport
+    expect(runner).not.toBe('')
+    return { result, report }
+  }
+
+  it('saves every measured unit; a second runner reads them all back and posts the same comment apart from the cache line', async () => {
+    const store = folderCacheClient(join(folder, 'store'))
+    const first = await cachedCheck('runner-1', async () => store)
+    expect(first.report.cache?.reused).toEqual([])
+    const measured = first.report.cache?.measured ?? []
+    expect(measured.length).toBeGreaterThan(0)
+    expect((await store.keys()).every((key) => /^plumbline-unit-[0-9a-f]{64}$/.test(key))).toBe(true)
+    expect(await store.keys()).toHaveLength(measured.length)
+    expect(first.result.lines).toContain(`Actions cache, this step: 0 unit entries restored, ${measured.length} unit entries saved, 0 failed.`)
+    expect(first.result.warnings).toEqual([])
+
+    const second = await cachedCheck('runner-2', async () => store)
+    expect(second.report.cache?.measured).toEqual([])
+    expect([...(second.report.cache?.reused ?? [])].sort()).toEqual([...measured].sort())
+    expect(deterministic(second.report)).toBe(deterministic(first.report))
+    expect(second.result.lines).toContain(`Actions cache, this step: ${measured.length} unit entries restored, 0 unit entries saved, 0 failed.`)
+    const comment = (fake.comments.get(17) ?? [])[0].body
+    expect(comment).toContain(`Work units from the cache: ${measured.length} of ${measured.length}`)
+  }, 120_000)
+
+  it('a cache that fails (its folder below a regular file), is missing, or cannot be loaded only warns: the check runs and gives the same verdict', async () => {
+    const uncached = await cachedCheck('runner-plain', async () => folderCacheClient(join(folder, 'plain-store')))
+    writeFileSync(join(folder, 'not-a-folder'), '')
+    const broken = await cachedCheck('runner-broken', async () => folderCacheClient(join(folder, 'not-a-folder', 'store')))
+    const units = uncached.report.cache?.measured.length ?? 0
+    // One warning per round that failed: a restore and a save for the refits, then for the drop-column refits.
+    expect(broken.result.warnings).toHaveLength(4)
+    const restore = /^Could not restore (\d+) of \1 unit entries from the Actions cache \(first: plumbline-unit-[0-9a-f]{64}: ENOTDIR: not a directory, .*\)\. Those units are measured here instead; the check still runs\.$/
+    const save = /^Could not save (\d+) of \1 unit entries to the Actions cache \(first: plumbline-unit-[0-9a-f]{64}: ENOTDIR: not a directory, .*\)\. A later run measures those units again; the check still runs\.$/
+    expect(broken.result.warnings.map((w) => (restore.test(w) ? 'restore' : save.test(w) ? 'save' : w))).toEqual(['restore', 'save', 'restore', 'save'])
+    expect(broken.result.warnings.filter((w) => restore.test(w)).reduce((sum, w) => sum + Number(restore.exec(w)?.[1]), 0)).toBe(units)
+    expect(broken.result.lines).toContain(`Actions cache, this step: 0 unit entries restored, 0 unit entries saved, ${2 * units} failed.`)
+    expect(broken.report.verdict).toBe(uncached.report.verdict)
+    expect(deterministic(broken.report)).toBe(deterministic(uncached.report))
+    expect(broken.result.failures).toEqual(uncached.result.failures)
+
+    const absent = await cachedCheck('runner-absent', async () => folderCacheClient(join(folder, 'absent-store'), { available: false }))
+    expect(absent.result.warnings).toEqual([
+      "Input 'cache' is true, but this run has no Actions cache service (ACTIONS_CACHE_URL or ACTIONS_RESULTS_URL is not set). Every unit is measured in this job; the check still runs.",
+    ])
+    expect(absent.report.verdict).toBe(uncached.report.verdict)
+
+    const unloadable = await cachedCheck('runner-unloadable', async () => {
+      throw new Error('Cannot find package @actions/cache')
+    })
+    expect(unloadable.result.warnings).toEqual(['The Actions cache could not be loaded: Cannot find package @actions/cache. Every unit is measured in this job; the check still runs.'])
+    expect(deterministic(unloadable.report)).toBe(deterministic(uncached.report))
+  }, 180_000)
+})
+
+describe('run(deps) in plan, shard and merge modes (the real command-line code on a test repository)', () => {
+  let repo: TestRepository
+  beforeAll(() => {
+    repo = makeRepository({ base: baseFiles({ policy: smallPolicy() }) })
+  })
+  afterAll(() => repo.remove())
+  const sideInputs = { base: 'main', head: 'pr' }
+  const onRepo = () => ({ GITHUB_WORKSPACE: repo.root })
+
+  it('plan sets the matrix and the shard count; shard writes its partial file and names the folder; neither comments', async () => {
+    const plan = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { ...sideInputs, mode: 'plan', shards: '2' }, env: onRepo() })
+    expect(plan.failures).toEqual([])
+    expect(plan.outputs).toEqual({ matrix: '{"shard":[1,2]}', 'shard-count': '2' })
+    expect(JSON.parse(plan.outputs.matrix)).toEqual({ shard: [1, 2] })
+    const shard = await runAction({
+      eventName: 'pull_request',
+      event: pullRequestEvent(),
+      inputs: { ...sideInputs, mode: 'shard', shards: '2', shard: '2', 'partial-dir': 'out/refits' },
+      env: onRepo(),
+    })
+    expect(shard.failures).toEqual([])
+    expect(shard.outputs).toEqual({ 'partial-dir': join(repo.root, 'out', 'refits') })
+    expect(readdirSync(join(repo.root, 'out', 'refits'))).toEqual(['plumbline-partial-refits-2-of-2.json'])
+    expect(fake.comments.get(17)).toBeUndefined()
+    expect(shard.lines).toContain(`No pull-request comment: a plan or shard step does not comment; the merge step posts the one comment, also when a shard failed.`)
+  }, 120_000)
+
+  it('fails the step with the message, never a pass, when a shard cannot run: a folder missing, a folder outside the workspace', async () => {
+    const missing = await runAction({
+      eventName: 'pull_request',
+      event: pullRequestEvent(),
+      inputs: { ...sideInputs, mode: 'shard', shards: '2', shard: '1', after: 'refits-never-downloaded' },
+      env: onRepo(),
+    })
+    expect(missing.failures).toEqual([
+      `Input 'after': no folder or file refits-never-downloaded (looked for ${join(repo.root, 'refits-never-downloaded')}).\nDownload every refits shard's artifact into the workspace before this step (actions/download-artifact), and name the folders it wrote.`,
+    ])
+    expect(missing.outputs).toEqual({})
+    expect(missing.summary.join('')).toContain('### plumbline shard failed')
+    // A secret in a message of these modes is redacted like any other.
+    const secret = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { ...sideInputs, mode: 'shard', shards: '2', shard: '1', after: `refits-${token}` }, env: onRepo() })
+    expect(secret.failures[0]).toContain("Input 'after': no folder or file refits-*** (looked for")
+    expect([...secret.failures, ...secret.summary].join('\n')).not.toContain(token)
+    const outside = await runAction({
+      eventName: 'pull_request',
+      event: pullRequestEvent(),
+      inputs: { ...sideInputs, mode: 'shard', shards: '2', shard: '1', 'partial-dir': '../elsewhere' },
+      env: onRepo(),
+    })
+    expect(outside.failures[0].split('\n')[0]).toBe("Input 'partial-dir' '../elsewhere/plumbline-partial.json' lies outside the workspace; plumbline reads and writes only inside it.")
+    const merge = await runAction({ eventName: 'pull_request', event: pullRequestEvent(), inputs: { ...sideInputs, mode: 'merge', partials: '../../etc' }, env: onRepo() })
+    expect(merge.outputs.verdict).toBe('error')
+    expect(merge.failures[0]).toContain("Input 'partials' '../../etc' lies outside the workspace")
+    expect((fake.comments.get(17) ?? [])[0].body).toContain('No verdict')
+  }, 120_000)
 })

@@ -13,7 +13,7 @@ import { fileURLToPath } from 'node:url'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { parse } from 'yaml'
 import { commentMarker } from '../../../src/adapters/github/comment.ts'
-import { buildCourierRepository, type CourierRepository } from '../../helpers/courier-repository.ts'
+import { buildCourierRepository, courierPullRequestEvent, type CourierRepository } from '../../helpers/courier-repository.ts'
 import { startFakeGitHub, type FakeGitHub } from '../../helpers/fake-github.ts'
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..', '..')
@@ -44,16 +44,7 @@ afterAll(async () => {
 function run(binary: string, number: number): Promise<{ code: number; output: string; outputs: string }> {
   const dir = join(folder, `run-${number}`)
   mkdirSync(join(dir, 'temp'), { recursive: true })
-  const event = {
-    action: 'synchronize',
-    number,
-    pull_request: {
-      number,
-      base: { ref: 'main', sha: repository.baseSha, repo: { id: 4242, full_name: `${owner}/${repo}` } },
-      head: { ref: 'add-scan-delay', sha: repository.headSha, repo: { full_name: `${owner}/${repo}` } },
-    },
-    repository: { id: 4242, full_name: `${owner}/${repo}` },
-  }
+  const event = courierPullRequestEvent(number, repository, `${owner}/${repo}`)
   writeFileSync(join(dir, 'event.json'), JSON.stringify(event))
   writeFileSync(join(dir, 'output.txt'), '')
   writeFileSync(join(dir, 'summary.md'), '')

@@ -33,6 +33,16 @@ describe('resolveCommit(root, ref, flag)', () => {
     expect((error as UserError).message).toBe(`--base 'mian' does not name a commit in ${repo.root}.`)
     expect((error as UserError).fix).toBe('Check the spelling, or fetch it first (git fetch origin mian); a shallow clone may lack it.')
   })
+
+  it('never echoes a ref that is not a plain name into a suggested command', async () => {
+    for (const ref of ['main;rm -rf /', 'main && curl x', '$(id)', "it's", 'a..b', '-x']) {
+      const error = (await resolveCommit(repo.root, ref, '--base').catch((e: unknown) => e)) as UserError
+      expect(error).toBeInstanceOf(UserError)
+      expect(error.fix, ref).toBe('It is not a plain branch, tag or commit name: check the spelling (a branch name has no spaces, semicolons or quotes).')
+    }
+    const slashed = (await resolveCommit(repo.root, 'feature/late-scan_2.1', '--head').catch((e: unknown) => e)) as UserError
+    expect(slashed.fix).toContain('(git fetch origin feature/late-scan_2.1)')
+  })
 })
 
 describe('defaultBase(root)', () => {

@@ -63,9 +63,10 @@ const texts = (name: string, values: string[]): OnnxAttribute => ({ name, type: 
 /**
  * Random trees in ONNX attribute form: every branch mode but EQ/NEQ, random missing directions,
  * node ids shuffled within each tree (not root-first), float32 thresholds. Leaves carry one
- * weight per class id in `classes`.
+ * weight per class id in `classes`; with `asFractions`, each leaf's weights are scaled to sum to
+ * 1 / count (a forest's class fractions averaged over its trees).
  */
-function randomTrees(random: Random, count: number, classes: number, leafWeight: () => number) {
+function randomTrees(random: Random, count: number, classes: number, leafWeight: () => number, asFractions = false) {
   const a = { treeIds: [] as number[], nodeIds: [] as number[], featureIds: [] as number[], modes: [] as string[], values: [] as number[], trueIds: [] as number[], falseIds: [] as number[], tracks: [] as number[] }
   const leaves = { treeIds: [] as number[], nodeIds: [] as number[], ids: [] as number[], weights: [] as number[] }
   const thresholds: number[][] = Array.from({ length: F }, () => [])
@@ -88,11 +89,13 @@ function randomTrees(random: Random, count: number, classes: number, leafWeight:
         a.trueIds.push(0)
         a.falseIds.push(0)
         a.tracks.push(0)
+        const weights = Array.from({ length: classes }, leafWeight)
+        const total = weights.reduce((sum, w) => sum + w, 0)
         for (let c = 0; c < classes; c++) {
           leaves.treeIds.push(t)
           leaves.nodeIds.push(ids[k])
           leaves.ids.push(c)
-          leaves.weights.push(Math.fround(leafWeight()))
+          leaves.weights.push(Math.fround(asFractions ? weights[c] / total / count : weights[c]))
         }
       } else {
         const f = random.int(F)
@@ -287,5 +290,98 @@ describe('the report names the engine that evaluated a loaded ONNX classifier', 
     expect(report.sides!.base.model.description).toContain("evaluated by plumbline's tree evaluator")
     expect(report.sides!.head.model).toMatchObject({ engine: 'onnxruntime' })
     expect(report.sides!.head.model.description).toContain('evaluated by onnxruntime')
+  })
+})
+
+describe('loadOnnxModel on multiclass TreeEnsembleClassifiers (NONE and SOFTMAX): plumbline evaluates them as onnxruntime 1.30 does', () => {
+  // K = 3 and 4 classes, every branch mode, random missing directions, NaN in a tenth of the cells and
+  // a third of the rows on thresholds, float and double inputs. NONE: each leaf's weights are class
+  // fractions over the number of trees (a forest), so a row's probabilities sum to 1. SOFTMAX: normal
+  // weights and one base value per class (gradient boosting). The model's class labels are declared in
+  // another order than the data's (text labels), so the column mapping is checked too.
+  for (const [input, elemType] of [['float32', OnnxDataType.FLOAT], ['float64', OnnxDataType.DOUBLE]] as const) {
+    for (const k of [3, 4]) {
+      for (const post of ['NONE', 'SOFTMAX'] as const) {
+        it(`${k} classes, post_transform ${post}, ${input} input, agrees with onnxruntime to 1e-6 and keeps the fast path`, async () => {
+          const random = createRandom(elemType * 10_000 + k * 100 + post.length)
+          const count = 25
+          const { attributes, thresholds } = post === 'NONE'
+            ? randomTrees(random, count, k, () => 0.05 + random.next(), true)
+            : randomTrees(random, count, k, () => 0.3 * random.normal())
+          const dataClasses = Array.from({ length: k }, (_, c) => `cls_${String.fromCharCode(97 + c)}`)
+          const declared = [...dataClasses].reverse()
+          const bytes = treeModel(
+            {
+              opType: 'TreeEnsembleClassifier',
+              output: ['label', 'probabilities'],
+              attribute: [
+                ...attributes('class'), texts('classlabels_strings', declared), text('post_transform', post),
+                ...(post === 'SOFTMAX' ? [floats('base_values', Array.from({ length: k }, () => Math.fround(0.5 * random.normal())))] : []),
+              ],
+            },
+            elemType,
+            [{ name: 'label', elemType: OnnxDataType.STRING, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', k] }],
+          )
+          const model = await loadOnnxModel(bytes, { source: 'trees.onnx', task: 'multiclass', features, featureOrder: features.map((f) => f.name), classes: dataClasses })
+          const x = rows(createRandom(k + 50), 3000, thresholds)
+          const values = await model.predict(x)
+          expect(model.engine).toBe('plumbline-trees')
+          expect(model.classCount).toBe(k)
+          const fast = model.createReplacementPredictor?.(x)
+          expect(fast).toBeDefined()
+          // Column c of ours is data class c, which the model declares at position k - 1 - c.
+          const reference = await Promise.all(dataClasses.map((_, c) => onnxruntimePredict(bytes, 'probabilities', x, input, k - 1 - c)))
+          let worst = 0
+          for (let i = 0; i < x.rows; i++) {
+            for (let c = 0; c < k; c++) worst = Math.max(worst, Math.abs(values[i * k + c] - reference[c][i]))
+          }
+          expect(worst).toBeLessThanOrEqual(1e-6)
+          // The fast path with nothing replaced is the same prediction.
+          const again = fast!.predict(new Map(), 1)
+          for (let i = 0; i < values.length; i++) expect(again[i]).toBeCloseTo(values[i], 12)
+          const reversed = Float64Array.from({ length: 2 * x.rows }, (_, i) => x.columns[0][x.rows - 1 - (i % x.rows)])
+          expect(fast!.predict(new Map([['x0', reversed]]), 2).length).toBe(2 * x.rows * k)
+        })
+      }
+    }
+  }
+
+  it('clamps summed float32 fractions just above 1 on the fast path too, as predict does (the metrics refuse p > 1)', async () => {
+    // Three trees of one split, every leaf all class 0 with the weight float32(1/3) = 0.3333333433:
+    // the sum is 1.00000003, one float32 rounding above 1, on every row.
+    const third = Math.fround(1 / 3)
+    const attribute = [
+      ints('nodes_treeids', [0, 0, 0, 1, 1, 1, 2, 2, 2]), ints('nodes_nodeids', [0, 1, 2, 0, 1, 2, 0, 1, 2]),
+      ints('nodes_featureids', [0, 0, 0, 1, 0, 0, 2, 0, 0]), texts('nodes_modes', ['BRANCH_LEQ', 'LEAF', 'LEAF', 'BRANCH_LEQ', 'LEAF', 'LEAF', 'BRANCH_LEQ', 'LEAF', 'LEAF']),
+      floats('nodes_values', [0, 0, 0, 0.5, 0, 0, -0.5, 0, 0]), ints('nodes_truenodeids', [1, 0, 0, 1, 0, 0, 1, 0, 0]), ints('nodes_falsenodeids', [2, 0, 0, 2, 0, 0, 2, 0, 0]),
+      ints('class_treeids', [0, 0, 0, 0, 0, 0, 1, 1, 1, 1, 1, 1, 2, 2, 2, 2, 2, 2]), ints('class_nodeids', [1, 1, 1, 2, 2, 2, 1, 1, 1, 2, 2, 2, 1, 1, 1, 2, 2, 2]),
+      ints('class_ids', [0, 1, 2, 0, 1, 2, 0, 1, 2, 0, 1, 2, 0, 1, 2, 0, 1, 2]), floats('class_weights', [third, 0, 0, third, 0, 0, third, 0, 0, third, 0, 0, third, 0, 0, third, 0, 0]),
+      ints('classlabels_int64s', [0, 1, 2]), text('post_transform', 'NONE'),
+    ]
+    const bytes = treeModel({ opType: 'TreeEnsembleClassifier', output: ['label', 'probabilities'], attribute }, OnnxDataType.FLOAT, [
+      { name: 'label', elemType: OnnxDataType.INT64, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', 3] },
+    ])
+    const model = await loadOnnxModel(bytes, { source: 'sure.onnx', task: 'multiclass', features, featureOrder: features.map((f) => f.name), classes: ['0', '1', '2'] })
+    const x = rows(createRandom(3), 200, Array.from({ length: F }, () => []))
+    expect(Array.from((await model.predict(x)).filter((_, i) => i % 3 === 0)).every((p) => p === 1)).toBe(true)
+    expect(model.engine).toBe('plumbline-trees')
+    const fast = model.createReplacementPredictor!(x)!
+    const shuffled = Float64Array.from({ length: x.rows }, (_, i) => x.columns[1][(i * 7) % x.rows])
+    const replaced = fast.predict(new Map([['x1', shuffled]]), 1)
+    expect(Array.from(replaced.filter((_, i) => i % 3 === 0)).every((p) => p === 1)).toBe(true)
+    expect(fast.predictMany!([new Map([['x2', shuffled]])], 1)[0].every((p) => p >= 0 && p <= 1)).toBe(true)
+  })
+
+  it('leaves a multiclass TreeEnsembleClassifier with post_transform LOGISTIC to onnxruntime (its rows do not sum to 1 and are refused)', async () => {
+    const random = createRandom(78)
+    const { attributes } = randomTrees(random, 20, 3, () => 0.3 * random.normal())
+    const bytes = treeModel(
+      { opType: 'TreeEnsembleClassifier', output: ['label', 'probabilities'], attribute: [...attributes('class'), ints('classlabels_int64s', [0, 1, 2]), text('post_transform', 'LOGISTIC')] },
+      OnnxDataType.FLOAT,
+      [{ name: 'label', elemType: OnnxDataType.INT64, dims: ['N'] }, { name: 'probabilities', elemType: OnnxDataType.FLOAT, dims: ['N', 3] }],
+    )
+    const model = await loadOnnxModel(bytes, { source: 'ovr.onnx', task: 'multiclass', features, featureOrder: features.map((f) => f.name), classes: ['0', '1', '2'] })
+    expect(model.engine).toBe('onnxruntime')
+    await expect(model.predict(rows(createRandom(5), 50, Array.from({ length: F }, () => [])))).rejects.toThrow(/^The ONNX model 'ovr.onnx' output 'probabilities' does not give class probabilities: row 1 of the rows scored sums to /)
   })
 })

@@ -240,8 +240,21 @@ describe('the real CLI on hostile repositories', () => {
     expect(directory.stderr).toContain("--json 'out' is a directory; plumbline writes a report file there.")
     const full = await runSource('cli', ['check', '--base', 'main', '--json', 'r.json', '--markdown', '/dev/full'], { cwd: repo.root, env })
     expect(full.code).toBe(2)
-    expect(full.stderr).toContain('Could not write --markdown /dev/full: ENOSPC. No report file was written.')
+    expect(full.stderr).toContain('Could not write --markdown /dev/full: no space is left on the disk (ENOSPC). No report file was written.')
     expect(existsSync(join(repo.root, 'r.json'))).toBe(false)
+  })
+
+  it('--json in a folder that cannot be made (/proc, where a recursive mkdir never returns) or under a file: exit 2 before the run', async () => {
+    const repo = repository(smallPolicy())
+    const proc = await runSource('cli', ['check', '--base', 'main', '--json', '/proc/plumbline-none/r.json'], { cwd: repo.root, env, limitSeconds: 60 })
+    expect(proc.timedOut).toBe(false)
+    expect(proc.code).toBe(2)
+    expect(proc.stderr).toContain('Could not write --json /proc/plumbline-none/r.json: the folder cannot be created there (ENOENT).')
+    // Refused before anything was measured: no progress line of a refit.
+    expect(proc.stderr).not.toContain('refit')
+    const underFile = await runSource('cli', ['check', '--base', 'main', '--markdown', 'plumbline.yml/comment.md'], { cwd: repo.root, env, limitSeconds: 60 })
+    expect(underFile.code).toBe(2)
+    expect(underFile.stderr).toContain('Could not write --markdown plumbline.yml/comment.md: a part of the path is a file, not a folder (ENOTDIR).')
   })
 })
 

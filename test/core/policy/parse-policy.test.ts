@@ -694,3 +694,25 @@ describe('checkPolicyAgainstColumns(policy, columns)', () => {
     )
   })
 })
+
+describe('task: multiclass', () => {
+  const multiclass = minimal.replace('task: binary', 'task: multiclass')
+
+  it('is accepted, with log-loss as the default metric', () => {
+    const config = parsePolicy(multiclass, { source })
+    expect(config.task).toBe('multiclass')
+    expect(config.importance.metric).toBe('log-loss')
+    expect(parsePolicy(`${multiclass}importance:\n  metric: auc\n`, { source }).importance.metric).toBe('auc')
+  })
+
+  it('refuses a metric of another task and the linear learner, with the fix', () => {
+    expect(failure(`${multiclass}importance:\n  metric: brier\n`)).toEqual({
+      message: "plumbline.yml:14:11: importance.metric must be one of log-loss, accuracy, auc for task multiclass; got 'brier'.",
+      fix: 'Set importance.metric to one of log-loss, accuracy, auc, or delete the line to use the default for task multiclass (log-loss).',
+    })
+    expect(failure(multiclass.replace('learner: gradient-boosting', 'learner: linear'))).toEqual({
+      message: 'plumbline.yml:12:5: model.builtin.learner is linear, which has no multiclass fit in plumbline; task is multiclass.',
+      fix: "Set 'learner: gradient-boosting' (softmax boosting, one tree per class per round), or gate a model of your own through model.onnx or model.train.",
+    })
+  })
+})

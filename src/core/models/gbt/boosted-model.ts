@@ -1,5 +1,6 @@
 import type { FeatureMatrix, Task } from '../../data/dataset.ts'
 import type { Model, ReplacementPredictor } from '../model.ts'
+import { combineClassScores, createClassEnsemblesPredictor } from './class-ensembles-predictor.ts'
 import { createTreeReplacementPredictor } from './replacement-predictor.ts'
 import type { BoostedEnsemble, Tree } from './tree.ts'
 
@@ -20,6 +21,8 @@ export class BoostedModel implements Model {
   readonly engine = 'plumbline-trees'
   readonly task: Task
   readonly featureNames: readonly string[]
+  /** Multiclass only: K; predict returns row-major [N, K] softmax probabilities. */
+  readonly classCount?: number
 
   constructor(
     readonly ensemble: BoostedEnsemble,
@@ -27,6 +30,7 @@ export class BoostedModel implements Model {
   ) {
     this.task = ensemble.task
     this.featureNames = ensemble.featureNames
+    if (ensemble.classCount !== undefined) this.classCount = ensemble.classCount
   }
 
   /**
@@ -36,6 +40,17 @@ export class BoostedModel implements Model {
    */
   /** Permutation importance's fast path: see createTreeReplacementPredictor. */
   createReplacementPredictor(base: FeatureMatrix): ReplacementPredictor | undefined {
+    if (this.task === 'multiclass') {
+      // One ensemble per class (trees k, K + k, ...), each with the one-score fast path, then the softmax.
+      const k = this.ensemble.classCount!
+      const classes = Array.from({ length: k }, (_, c) => ({
+        featureNames: this.featureNames,
+        baseScore: this.ensemble.baseScore,
+        trees: this.ensemble.trees.filter((_, t) => t % k === c),
+        link: 'identity' as const,
+      }))
+      return createClassEnsemblesPredictor({ classes, link: 'softmax' }, base)
+    }
     return createTreeReplacementPredictor({ ...this.ensemble, link: this.task === 'binary' ? 'logistic' : 'identity' }, base)
   }
 
@@ -49,6 +64,7 @@ export class BoostedModel implements Model {
       return matrix.columns[j]
     })
     const n = matrix.rows
+    if (this.task === 'multiclass') return this.predictClasses(columns, n)
     const score = new Float64Array(n).fill(this.ensemble.baseScore)
     for (const tree of this.ensemble.trees) addTree(tree, columns, n, score)
     if (this.task === 'binary') {
@@ -59,6 +75,14 @@ export class BoostedModel implements Model {
 
   async predict(matrix: FeatureMatrix): Promise<Float64Array> {
     return this.predictRaw(matrix)
+  }
+
+  /** Multiclass: each class's raw score from its trees (round-major order), then the softmax of each row; row-major [N, K]. */
+  private predictClasses(columns: readonly Float64Array[], n: number): Float64Array {
+    const k = this.ensemble.classCount!
+    const margins = Array.from({ length: k }, () => new Float64Array(n).fill(this.ensemble.baseScore))
+    this.ensemble.trees.forEach((tree, t) => addTree(tree, columns, n, margins[t % k]))
+    return combineClassScores(margins, 'softmax')
   }
 }
 

@@ -44,6 +44,8 @@ export interface FitBoostedOptions {
    * table without those columns, from the same bins, with no re-binning. Applied after `features`.
    */
   readonly excludeFeatures?: readonly number[]
+  /** Multiclass only: K, the number of classes (targets are class indices 0..K-1). */
+  readonly classCount?: number
 }
 
 /**
@@ -53,6 +55,11 @@ export interface FitBoostedOptions {
  * of the loss at the current score; a leaf's value is -G/(H + l2) (eq. 5) and a split's gain is
  * 1/2 [GL^2/(HL+l2) + GR^2/(HR+l2) - G^2/(H+l2)] (eq. 7, no gamma). Losses: squared error
  * (regression, g = score - y, h = 1) and log loss (binary, g = p - y, h = p(1 - p)).
+ * Multiclass (softmax boosting, Friedman 2001, section 4.6): each round grows K trees, tree k on the
+ * multinomial log loss's gradient and hessian for class k at the round's softmax probabilities p,
+ * g = p_k - [y = k], h = max(2 p_k (1 - p_k), 1e-16), as XGBoost's multi:softprob objective does
+ * (from memory of its source, src/objective/multiclass_obj.cu; the factor 2 is XGBoost's);
+ * the K trees of a round share the bins and are grown one after another by the same grower.
  *
  * Trees grow depth-wise on histograms of (G, H, count) per bin; of two children only the smaller
  * one's histogram is built, the larger is parent minus smaller. Missing values are routed by a
@@ -84,14 +91,18 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
   const rowCodes = gatherRowMajor(binned.codes, used, positions)
   const columnCodes = gatherColumns(binned.codes, used, positions)
   const binCounts = Int32Array.from(used, (j) => binned.binCounts[j])
+  const classCount = task === 'multiclass' ? checkClassCount(options.classCount, y) : 1
   let targetSum = 0
   for (let p = 0; p < n; p++) targetSum += y[p]
-  const baseScore = task === 'regression' ? targetSum / n : logOdds(targetSum / n)
+  const baseScore = task === 'multiclass' ? 0 : task === 'regression' ? targetSum / n : logOdds(targetSum / n)
 
   const sampleSize = Math.max(1, Math.round(settings.rowSubsample * n))
   const treeFeatureCount = Math.min(featureCount, Math.max(1, Math.round(settings.columnSubsample * featureCount)))
   const grower = new TreeGrower(rowCodes, columnCodes, binCounts, n, settings, task === 'regression')
-  const score = new Float64Array(n).fill(baseScore)
+  const scores = Array.from({ length: classCount }, () => new Float64Array(n).fill(baseScore))
+  const score = scores[0]
+  const classGradients = classCount > 1 ? scores.map(() => new Float64Array(n)) : []
+  const classHessians = classCount > 1 ? scores.map(() => new Float64Array(n)) : []
   const random = createRandom(options.seed)
   const allFeatures = Int32Array.from({ length: featureCount }, (_, k) => k)
   const gainByFeature = new Float64Array(featureCount)
@@ -100,6 +111,21 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
   const upperEdges = used.map((j) => binned.upperEdges[j])
 
   for (let t = 0; t < settings.trees; t++) {
+    if (classCount > 1) {
+      computeSoftmaxGradients(y, scores, classGradients, classHessians)
+      for (let k = 0; k < classCount; k++) {
+        grower.gradient.set(classGradients[k])
+        grower.hessian.set(classHessians[k])
+        const rowCount = sampleSorted(n, sampleSize, random, grower.order)
+        const treeFeatures =
+          treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random)
+        grower.grow(rowCount, treeFeatures)
+        grower.addToScores(scores[k], rowCount)
+        grower.addSplitStatistics(gainByFeature, splitsByFeature)
+        trees.push(grower.toTree(upperEdges))
+      }
+      continue
+    }
     computeGradients(task, y, score, grower.gradient, grower.hessian)
     const rowCount = sampleSorted(n, sampleSize, random, grower.order)
     const treeFeatures =
@@ -116,7 +142,42 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
     gain: gainByFeature[k],
     splits: splitsByFeature[k],
   }))
-  return new BoostedModel({ task, featureNames, baseScore, trees }, splitStatistics)
+  return new BoostedModel({ task, featureNames, baseScore, trees, ...(classCount > 1 ? { classCount } : {}) }, splitStatistics)
+}
+
+/** K for a multiclass fit: a whole number >= 3 that every target index is below. */
+function checkClassCount(classCount: number | undefined, y: Float64Array): number {
+  if (classCount === undefined || !Number.isInteger(classCount) || classCount < 3) {
+    throw new RangeError(`fitBoosted needs options.classCount >= 3 for a multiclass task, got ${classCount}`)
+  }
+  for (let p = 0; p < y.length; p++) {
+    if (y[p] >= classCount) throw new RangeError(`fitBoosted: a target is class ${y[p]}, but options.classCount is ${classCount}`)
+  }
+  return classCount
+}
+
+/**
+ * Softmax probabilities of the K scores of every row, then each class's gradient and hessian of the
+ * multinomial log loss: g_k = p_k - [y = k], h_k = max(2 p_k (1 - p_k), 1e-16) (XGBoost's multi:softprob).
+ */
+function computeSoftmaxGradients(y: Float64Array, scores: readonly Float64Array[], g: readonly Float64Array[], h: readonly Float64Array[]): void {
+  const k = scores.length
+  const n = y.length
+  const p = new Float64Array(k)
+  for (let i = 0; i < n; i++) {
+    let max = -Infinity
+    for (let c = 0; c < k; c++) max = Math.max(max, scores[c][i])
+    let total = 0
+    for (let c = 0; c < k; c++) {
+      p[c] = Math.exp(scores[c][i] - max)
+      total += p[c]
+    }
+    for (let c = 0; c < k; c++) {
+      const q = p[c] / total
+      g[c][i] = q - (y[i] === c ? 1 : 0)
+      h[c][i] = Math.max(2 * q * (1 - q), 1e-16)
+    }
+  }
 }
 
 /** `allowed` without the excluded column indices; throws RangeError on a bad index or when none is left. */

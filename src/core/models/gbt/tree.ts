@@ -14,11 +14,17 @@ export interface Tree {
   readonly value: Float64Array
 }
 
-/** A boosted ensemble: raw score = baseScore + sum of tree outputs; binary applies the logistic. */
+/**
+ * A boosted ensemble: raw score = baseScore + sum of tree outputs; binary applies the logistic.
+ * Multiclass: K raw scores per row, class k's from trees k, K + k, 2K + k, ... (round-major, one
+ * tree per class per round, as XGBoost orders them), each plus baseScore; softmax over the K.
+ */
 export interface BoostedEnsemble {
-  readonly task: 'binary' | 'regression'
+  readonly task: 'binary' | 'regression' | 'multiclass'
   readonly featureNames: readonly string[]
-  /** Regression: the mean target. Binary: log-odds of the training positive rate. */
+  /** Regression: the mean target. Binary: log-odds of the training positive rate. Multiclass: 0 (a constant margin cancels in the softmax). */
   readonly baseScore: number
   readonly trees: readonly Tree[]
+  /** Multiclass only: K >= 3. */
+  readonly classCount?: number
 }

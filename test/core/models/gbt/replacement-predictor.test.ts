@@ -7,14 +7,14 @@ import { createTreeReplacementPredictor } from '../../../../src/core/models/gbt/
 import type { Tree } from '../../../../src/core/models/gbt/tree.ts'
 import { createRandom } from '../../../../src/core/statistics/random.ts'
 
-function data(rows: number, seed: number, task: 'binary' | 'regression') {
+function data(rows: number, seed: number, task: 'binary' | 'regression' | 'multiclass') {
   const random = createRandom(seed)
   const columns = Array.from({ length: 6 }, () => new Float64Array(rows))
   const y = new Float64Array(rows)
   for (let i = 0; i < rows; i++) {
     for (let j = 0; j < 6; j++) columns[j][i] = random.next() < 0.05 ? NaN : random.normal()
     const signal = 2 * (columns[0][i] || 0) - (columns[1][i] || 0) * (columns[2][i] || 0) + 0.5 * random.normal()
-    y[i] = task === 'binary' ? (signal > 0 ? 1 : 0) : signal
+    y[i] = task === 'binary' ? (signal > 0 ? 1 : 0) : task === 'multiclass' ? (signal < -0.7 ? 0 : signal < 0.7 ? 1 : 2) : signal
   }
   const matrix: FeatureMatrix = {
     rows,
@@ -25,11 +25,13 @@ function data(rows: number, seed: number, task: 'binary' | 'regression') {
 }
 
 describe('BoostedModel.createReplacementPredictor(base)', () => {
-  for (const task of ['regression', 'binary'] as const) {
+  for (const task of ['regression', 'binary', 'multiclass'] as const) {
     it(`matches a full ${task} prediction of the replaced matrix, for one column and for a group`, () => {
       const train = data(800, 1, task)
+      const width = task === 'multiclass' ? 3 : 1
       const model = fitBoosted(binFeatures(train.matrix), train.y, {
         task,
+        ...(task === 'multiclass' ? { classCount: 3 } : {}),
         seed: 3,
         settings: { trees: 40, maxDepth: 4, learningRate: 0.2, minRowsPerLeaf: 5, l2: 1, rowSubsample: 0.8, columnSubsample: 0.8 },
       })
@@ -46,8 +48,10 @@ describe('BoostedModel.createReplacementPredictor(base)', () => {
           const columns = base.features.map((f, j) =>
             replaced.has(f.name) ? replaced.get(f.name)!.slice(k * base.rows, (k + 1) * base.rows) : base.columns[j],
           )
+          // Multiclass: row-major [rows, K] per draw, draw k's block at k · rows · K.
           const full = model.predictRaw({ ...base, columns })
-          for (let i = 0; i < base.rows; i++) expect(fast[k * base.rows + i]).toBeCloseTo(full[i], 12)
+          expect(fast.length).toBe(draws * base.rows * width)
+          for (let i = 0; i < base.rows * width; i++) expect(fast[k * base.rows * width + i]).toBeCloseTo(full[i], 12)
         }
       }
     })

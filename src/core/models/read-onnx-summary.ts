@@ -1,4 +1,4 @@
-import { onnxProto } from '../../core/models/onnx-proto.ts'
+import { onnxProto } from './onnx-proto.ts'
 
 /** What loadOnnxModel needs from a model file beyond what onnxruntime's session exposes. */
 export interface OnnxSummary {
