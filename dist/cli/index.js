@@ -16714,6 +16714,11 @@ function formatPStatement(label2, p) {
   return text5.startsWith("<") ? `${label2} < ${text5.slice(1)}` : `${label2} = ${text5}`;
 }
 
+// src/core/statistics/pooled-standard-deviation.ts
+function pooledStandardDeviation(sdA, sdB) {
+  return Math.sqrt((sdA ** 2 + sdB ** 2) / 2);
+}
+
 // src/core/checks/verdict.ts
 var order = { block: 0, warn: 1, info: 2 };
 function sortFindings(findings) {
@@ -16752,7 +16757,7 @@ function strength(finding) {
     case "share-redistribution":
       return num("causeShare");
     case "rank-shift": {
-      const sd = Math.sqrt((num("baseRefitSd") ** 2 + num("headRefitSd") ** 2) / 2);
+      const sd = pooledStandardDeviation(num("baseRefitSd"), num("headRefitSd"));
       const difference = Math.abs(num("headMean") - num("baseMean"));
       return sd > 0 ? difference / sd : difference > 0 ? Infinity : 0;
     }
@@ -17553,7 +17558,7 @@ function scoreInterval(side3) {
 function summarizeScore(report) {
   const { base, head } = report.sides;
   const { metric, higherIsBetter } = report.settings;
-  const pooled = Math.sqrt((base.scoreSd ** 2 + head.scoreSd ** 2) / 2);
+  const pooled = pooledStandardDeviation(base.scoreSd, head.scoreSd);
   const moved = head.scoreMean - base.scoreMean;
   const better = higherIsBetter ? moved > 0 : moved < 0;
   const sds = moved === 0 ? "unchanged" : pooled > 0 && Number.isFinite(pooled) ? `${formatNumber(Math.abs(moved) / pooled)} reseed SDs ${better ? "better" : "worse"}` : `${better ? "better" : "worse"}; no reseed spread to compare with`;
@@ -43112,6 +43117,11 @@ function leaveOutSets(train3, request, groups, importances, ranked) {
   ];
 }
 
+// src/core/statistics/sample-standard-deviation.ts
+function sampleStandardDeviation2(values) {
+  return values.length < 2 ? NaN : sampleStandardDeviation([...values]);
+}
+
 // src/core/importance/compute-noise-floor.ts
 function computeNoiseFloor(refits, options = {}) {
   const level = options.level ?? 0.95;
@@ -43140,7 +43150,7 @@ function computeNoiseFloor(refits, options = {}) {
     let lower;
     let upper;
     if (refitCount >= 2) {
-      refitSd = Math.sqrt(perRefit.reduce((s, v) => s + (v - mean3) ** 2, 0) / (refitCount - 1));
+      refitSd = sampleStandardDeviation2(perRefit);
       const half = studentTQuantile(0.5 + level / 2, refitCount - 1) * (refitSd / Math.sqrt(refitCount));
       lower = mean3 - half;
       upper = mean3 + half;
@@ -43624,6 +43634,11 @@ function predictionRows(predictions, rows, width) {
   return out;
 }
 
+// src/core/statistics/rank-by-value.ts
+function rankByValue(items, value3) {
+  return [...items].sort((a, b) => value3(b) - value3(a) || (a.name < b.name ? -1 : 1));
+}
+
 // src/core/measure-side.ts
 function refitSeed(seed, refit) {
   return deriveSeed(seed, "refit", refit);
@@ -43729,7 +43744,10 @@ function combineRefits(seeds, rows, refits) {
   };
 }
 function rankedFeatureNames(measured) {
-  return measured.importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).map((u) => u.name);
+  return rankByValue(
+    measured.importances.filter((u) => !u.isGroup),
+    (u) => u.mean
+  ).map((u) => u.name);
 }
 function canonicalSensitivity(estimates, featureOrder, groups, draws, countsFlips) {
   const byKey = new Map(estimates.map((e2) => [`${e2.isGroup ? "g" : "f"}:${e2.name}`, e2]));
@@ -44510,12 +44528,18 @@ function differingTargets(base, head) {
 
 // src/core/checks/side-result.ts
 function rankFeatures(importances) {
-  return importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+  return rankByValue(
+    importances.filter((u) => !u.isGroup),
+    (u) => u.mean
+  );
 }
 function sideRanks(importances) {
   const ranks = /* @__PURE__ */ new Map();
   for (const isGroup of [false, true]) {
-    importances.filter((u) => u.isGroup === isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1)).forEach((u, i) => ranks.set(rankKey(u), i + 1));
+    rankByValue(
+      importances.filter((u) => u.isGroup === isGroup),
+      (u) => u.mean
+    ).forEach((u, i) => ranks.set(rankKey(u), i + 1));
   }
   return ranks;
 }
@@ -44799,9 +44823,7 @@ function separationJump(base, head) {
   if (base.length < 2 || head.length < 2) return NaN;
   const mb = mean2(base);
   const mh = mean2(head);
-  const vb = base.reduce((s, v) => s + (v - mb) ** 2, 0) / (base.length - 1);
-  const vh = head.reduce((s, v) => s + (v - mh) ** 2, 0) / (head.length - 1);
-  const sd = Math.sqrt((vb + vh) / 2);
+  const sd = pooledStandardDeviation(sampleStandardDeviation2(base), sampleStandardDeviation2(head));
   return sd > 0 ? (mh - mb) / sd : NaN;
 }
 function fmt(value3) {
@@ -44987,7 +45009,10 @@ function checkRankAgreement(base, head, options) {
   return { findings, agreement };
 }
 function order2(names, values) {
-  return names.map((name, i) => ({ name, value: values[i] })).sort((a, b) => b.value - a.value || (a.name < b.name ? -1 : 1)).map((x) => x.name);
+  return rankByValue(
+    names.map((name, i) => ({ name, value: values[i] })),
+    (x) => x.value
+  ).map((x) => x.name);
 }
 
 // src/core/statistics/p-value-order.ts
@@ -45146,8 +45171,7 @@ function samples(side3, index2) {
   return side3.perRefit[0][index2].draws;
 }
 function rankWithin(units) {
-  const sorted = [...units].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
-  return new Map(sorted.map((u, i) => [u.name, i + 1]));
+  return new Map(rankByValue(units, (u) => u.mean).map((u, i) => [u.name, i + 1]));
 }
 
 // src/core/checks/score-regression.ts
@@ -45165,9 +45189,7 @@ function checkScoreRegression(evidence, options) {
     df = welch.df;
     pValue = tailAbove(worsening - options.tolerance, standardError, (t) => 1 - studentTCdf(t, welch.df));
   } else if (evidence.pairedBootstrap && evidence.pairedBootstrap.length >= 2) {
-    const b = evidence.pairedBootstrap;
-    const m = mean2(b);
-    standardError = Math.sqrt(b.reduce((s, v) => s + (v - m) ** 2, 0) / (b.length - 1));
+    standardError = sampleStandardDeviation2(evidence.pairedBootstrap);
     pValue = tailAbove(worsening - options.tolerance, standardError, (z3) => 1 - studentTCdf(z3, Infinity));
   } else {
     standardError = NaN;
@@ -45202,21 +45224,19 @@ function checkScoreRegression(evidence, options) {
   ];
 }
 function rowNoise(replicates, excess) {
-  const standardError = summary(replicates).sd;
+  const standardError = sampleStandardDeviation2(replicates);
   return { standardError, pValue: tailAbove(excess, standardError, (z3) => 1 - studentTCdf(z3, Infinity)) };
 }
 function pooledSd(evidence) {
   const { baseScores, headScores, pairedBootstrap: pairedBootstrap2 } = evidence;
   if (baseScores.length >= 2 && headScores.length >= 2) {
-    return Math.sqrt((summary(baseScores).sd ** 2 + summary(headScores).sd ** 2) / 2);
+    return pooledStandardDeviation(sampleStandardDeviation2(baseScores), sampleStandardDeviation2(headScores));
   }
-  if (pairedBootstrap2 && pairedBootstrap2.length >= 2) return summary(pairedBootstrap2).sd;
+  if (pairedBootstrap2 && pairedBootstrap2.length >= 2) return sampleStandardDeviation2(pairedBootstrap2);
   return NaN;
 }
 function summary(values) {
-  const m = mean2(values);
-  const sd = Math.sqrt(values.reduce((s, v) => s + (v - m) ** 2, 0) / (values.length - 1));
-  return { mean: m, sd, n: values.length };
+  return { mean: mean2(values), sd: sampleStandardDeviation2(values), n: values.length };
 }
 function tailAbove(excess, se, upperTail) {
   if (!(se > 0)) return excess > 0 ? 0 : 1;
@@ -45243,7 +45263,10 @@ function groupConsequences(findings, sides, featureSet) {
   if (!(baseTotal > 0)) return [...findings];
   const factor = headTotal / baseTotal;
   const order3 = (side3) => new Map(
-    shared2.map((b) => unit(side3, b.name)).sort((x, y) => y.mean - x.mean || (x.name < y.name ? -1 : 1)).map((u, i) => [u.name, i])
+    rankByValue(
+      shared2.map((b) => unit(side3, b.name)),
+      (u) => u.mean
+    ).map((u, i) => [u.name, i])
   );
   const baseOrder = order3(base);
   const headOrder = order3(head);
@@ -45258,7 +45281,7 @@ function groupConsequences(findings, sides, featureSet) {
       continue;
     }
     const expected = b.mean * factor;
-    const pooledSd2 = Math.sqrt((b.refitSd ** 2 + h.refitSd ** 2) / 2);
+    const pooledSd2 = pooledStandardDeviation(b.refitSd, h.refitSd);
     const tolerance = Math.max(toleranceSds * pooledSd2, toleranceRelative * Math.abs(expected));
     const sameDirection = Math.sign(h.mean - b.mean) === Math.sign(factor - 1);
     const sameOrder = baseOrder.get(b.name) === headOrder.get(b.name) || !h.isAboveFloor;
@@ -45575,7 +45598,7 @@ function checkGainNoise(features, touched, options) {
   if (action === "off") return [];
   const total = features.reduce((s, f) => s + Math.max(0, f.gain), 0);
   if (!(total > 0)) return [];
-  const ranked = [...features].sort((a, b) => b.gain - a.gain || (a.name < b.name ? -1 : 1));
+  const ranked = rankByValue(features, (f) => f.gain);
   const findings = [];
   ranked.slice(0, options.topRanks).forEach((f, i) => {
     const share = Math.max(0, f.gain) / total;
@@ -45735,18 +45758,13 @@ function checkSensitivity(base, head, options) {
   return { findings, changes };
 }
 
-// src/core/statistics/sample-standard-deviation.ts
-function sampleStandardDeviation2(values) {
-  return values.length < 2 ? NaN : sampleStandardDeviation([...values]);
-}
-
 // src/core/checks/slice-findings.ts
 function checkSlices(slices, overall, touched, options) {
   const action = options.action;
   const findings = [];
   const changes = /* @__PURE__ */ new Map();
   if (action === "off") return { findings, changes };
-  const features = (units) => [...units.filter((u) => !u.isGroup)].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+  const features = (units) => rankByValue(units.filter((u) => !u.isGroup), (u) => u.mean);
   const overallSorted = features(overall);
   const overallTop = overallSorted[0]?.name;
   const overallTotal = overallSorted.reduce((s, u) => s + Math.max(0, u.mean), 0);
@@ -45866,7 +45884,10 @@ function judgeSlices(inputs) {
   return { findings: judged.findings, slices: rows };
 }
 function summary2(m, filterColumns) {
-  const features = m.importances.filter((u) => !u.isGroup && !filterColumns.includes(u.name)).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1));
+  const features = rankByValue(
+    m.importances.filter((u) => !u.isGroup && !filterColumns.includes(u.name)),
+    (u) => u.mean
+  );
   const total = features.reduce((s, u) => s + Math.max(0, u.mean), 0);
   const top = (u) => ({ name: u.name, mean: u.mean, share: total > 0 ? Math.max(0, u.mean) / total : NaN, isAboveFloor: u.isAboveFloor });
   return { rows: m.rows, scores: m.scores, scoreMean: m.scores.reduce((a, b) => a + b, 0) / m.scores.length, top: features.slice(0, 5).map(top) };
@@ -46098,7 +46119,7 @@ function featureRows(base, head, shifts, baseTrain, headTrain) {
       ...bs && hs && shifts.has(unit.name) ? { shift: shifts.get(unit.name) } : {}
     });
   };
-  const byMean = (units) => [...units].sort((x, y) => Number(x.isGroup) - Number(y.isGroup) || y.mean - x.mean || (x.name < y.name ? -1 : 1));
+  const byMean = (units) => [false, true].flatMap((isGroup) => rankByValue(units.filter((u) => u.isGroup === isGroup), (u) => u.mean));
   byMean(head.importances).forEach(push);
   byMean(base.importances).forEach(push);
   return rows;

@@ -11,6 +11,7 @@ import { predictionWidth, type Fit, type Model, type ModelEngine } from './model
 import { predictionRows } from './models/prediction-rows.ts'
 import { createRandom, deriveSeed, shuffledIndices } from './statistics/random.ts'
 import { measureDropColumns, type DropColumnRequest, type DropColumnScores } from './measure-drop-columns.ts'
+import { rankByValue } from './statistics/rank-by-value.ts'
 
 export interface MeasureSideInputs {
   readonly side: 'base' | 'head'
@@ -302,10 +303,10 @@ export async function measureSide(inputs: MeasureSideInputs, options: MeasureSid
 
 /** A side's features by mean permutation importance, highest first, ties by name: the drop-column candidates. */
 export function rankedFeatureNames(measured: Pick<SideMeasurement, 'importances'>): string[] {
-  return measured.importances
-    .filter((u) => !u.isGroup)
-    .sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
-    .map((u) => u.name)
+  return rankByValue(
+    measured.importances.filter((u) => !u.isGroup),
+    (u) => u.mean,
+  ).map((u) => u.name)
 }
 
 /** Sensitivity estimates in the side's feature order then group order; an unused feature gets exact zeros. */

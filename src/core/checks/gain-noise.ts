@@ -1,6 +1,7 @@
 import type { GainCheckConfig } from '../config.ts'
 import type { Finding } from '../report/report.ts'
 import { formatNumber as fmt, formatPercent as pct } from '../report/format-number.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 /** One feature of the head side as the gain check reads it. */
 export interface GainFeature {
@@ -36,7 +37,7 @@ export function checkGainNoise(features: readonly GainFeature[], touched: Readon
   if (action === 'off') return []
   const total = features.reduce((s, f) => s + Math.max(0, f.gain), 0)
   if (!(total > 0)) return []
-  const ranked = [...features].sort((a, b) => b.gain - a.gain || (a.name < b.name ? -1 : 1))
+  const ranked = rankByValue(features, (f) => f.gain)
   const findings: Finding[] = []
   ranked.slice(0, options.topRanks).forEach((f, i) => {
     const share = Math.max(0, f.gain) / total

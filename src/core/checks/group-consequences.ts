@@ -23,6 +23,8 @@ import { formatChange, formatNumber, formatPercent } from '../report/format-numb
 import type { Finding, Severity } from '../report/report.ts'
 import type { FeatureSetChange } from './feature-set.ts'
 import { positiveShare, type SideResult } from './side-result.ts'
+import { pooledStandardDeviation } from '../statistics/pooled-standard-deviation.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 export const strongShare = 0.1
 const toleranceSds = 2
@@ -55,10 +57,10 @@ export function groupConsequences(
   const factor = headTotal / baseTotal
   const order = (side: SideResult) =>
     new Map(
-      shared
-        .map((b) => unit(side, b.name)!)
-        .sort((x, y) => y.mean - x.mean || (x.name < y.name ? -1 : 1))
-        .map((u, i) => [u.name, i]),
+      rankByValue(
+        shared.map((b) => unit(side, b.name)!),
+        (u) => u.mean,
+      ).map((u, i) => [u.name, i]),
     )
   const baseOrder = order(base)
   const headOrder = order(head)
@@ -74,7 +76,7 @@ export function groupConsequences(
       continue
     }
     const expected = b.mean * factor
-    const pooledSd = Math.sqrt((b.refitSd ** 2 + h.refitSd ** 2) / 2)
+    const pooledSd = pooledStandardDeviation(b.refitSd, h.refitSd)
     const tolerance = Math.max(toleranceSds * pooledSd, toleranceRelative * Math.abs(expected))
     const sameDirection = Math.sign(h.mean - b.mean) === Math.sign(factor - 1)
     // Order among features at the floor on the head is noise (the rank-shift check compares none).

@@ -6,6 +6,8 @@ import type { CheckAction } from './check-action.ts'
 import { formatNumber, formatPercent as pct, formatRatio } from '../report/format-number.ts'
 import { liftEvidence, type LiftEvidence } from './lift-evidence.ts'
 import type { SliceSeparation } from '../importance/single-feature-separation.ts'
+import { pooledStandardDeviation } from '../statistics/pooled-standard-deviation.ts'
+import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
 
 export interface LeakageOptions {
   readonly action: CheckAction
@@ -369,9 +371,7 @@ function separationJump(base: readonly number[], head: readonly number[]): numbe
   if (base.length < 2 || head.length < 2) return NaN
   const mb = mean(base)
   const mh = mean(head)
-  const vb = base.reduce((s, v) => s + (v - mb) ** 2, 0) / (base.length - 1)
-  const vh = head.reduce((s, v) => s + (v - mh) ** 2, 0) / (head.length - 1)
-  const sd = Math.sqrt((vb + vh) / 2)
+  const sd = pooledStandardDeviation(sampleStandardDeviation(base), sampleStandardDeviation(head))
   return sd > 0 ? (mh - mb) / sd : NaN
 }
 

@@ -5,6 +5,7 @@ import { rankBiasedOverlap } from '../statistics/rank-biased-overlap.ts'
 import type { CheckAction } from './check-action.ts'
 import { formatNumber as fmt } from '../report/format-number.ts'
 import { mean, type SideResult } from './side-result.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 export interface RankAgreementOptions {
   readonly action: CheckAction
@@ -109,8 +110,8 @@ export function checkRankAgreement(
 }
 
 function order(names: readonly string[], values: readonly number[]): string[] {
-  return names
-    .map((name, i) => ({ name, value: values[i] }))
-    .sort((a, b) => b.value - a.value || (a.name < b.name ? -1 : 1))
-    .map((x) => x.name)
+  return rankByValue(
+    names.map((name, i) => ({ name, value: values[i] })),
+    (x) => x.value,
+  ).map((x) => x.name)
 }

@@ -5,6 +5,7 @@ import type { CheckAction } from './check-action.ts'
 import { formatChange, formatNumber as fmt, formatPStatement } from '../report/format-number.ts'
 import { rankKey, sideRanks, type SideResult } from './side-result.ts'
 import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 export interface RankShiftOptions {
   readonly action: CheckAction
@@ -136,6 +137,5 @@ function samples(side: SideResult, index: number): readonly number[] {
 }
 
 function rankWithin(units: readonly FlooredImportance[]): Map<string, number> {
-  const sorted = [...units].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
-  return new Map(sorted.map((u, i) => [u.name, i + 1]))
+  return new Map(rankByValue(units, (u) => u.mean).map((u, i) => [u.name, i + 1]))
 }

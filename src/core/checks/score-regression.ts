@@ -4,6 +4,8 @@ import { welchTTestFromSummary } from '../statistics/welch-t-test.ts'
 import type { CheckAction } from './check-action.ts'
 import { formatChange, formatNumber as fmt, formatPStatement } from '../report/format-number.ts'
 import { mean } from './side-result.ts'
+import { pooledStandardDeviation } from '../statistics/pooled-standard-deviation.ts'
+import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
 
 export interface ScoreRegressionOptions {
   readonly action: CheckAction
@@ -55,9 +57,7 @@ export function checkScoreRegression(evidence: ScoreEvidence, options: ScoreRegr
     df = welch.df
     pValue = tailAbove(worsening - options.tolerance, standardError, (t) => 1 - studentTCdf(t, welch.df))
   } else if (evidence.pairedBootstrap && evidence.pairedBootstrap.length >= 2) {
-    const b = evidence.pairedBootstrap
-    const m = mean(b)
-    standardError = Math.sqrt(b.reduce((s, v) => s + (v - m) ** 2, 0) / (b.length - 1))
+    standardError = sampleStandardDeviation(evidence.pairedBootstrap)
     pValue = tailAbove(worsening - options.tolerance, standardError, (z) => 1 - studentTCdf(z, Infinity))
   } else {
     standardError = NaN
@@ -107,7 +107,7 @@ export function checkScoreRegression(evidence: ScoreEvidence, options: ScoreRegr
 
 /** The holdout rows' sampling noise of the difference: the bootstrap SE and a one-sided normal tail of `excess`. */
 function rowNoise(replicates: readonly number[], excess: number): { readonly standardError: number; readonly pValue: number } {
-  const standardError = summary(replicates).sd
+  const standardError = sampleStandardDeviation(replicates)
   return { standardError, pValue: tailAbove(excess, standardError, (z) => 1 - studentTCdf(z, Infinity)) }
 }
 
@@ -115,16 +115,14 @@ function rowNoise(replicates: readonly number[], excess: number): { readonly sta
 function pooledSd(evidence: ScoreEvidence): number {
   const { baseScores, headScores, pairedBootstrap } = evidence
   if (baseScores.length >= 2 && headScores.length >= 2) {
-    return Math.sqrt((summary(baseScores).sd ** 2 + summary(headScores).sd ** 2) / 2)
+    return pooledStandardDeviation(sampleStandardDeviation(baseScores), sampleStandardDeviation(headScores))
   }
-  if (pairedBootstrap && pairedBootstrap.length >= 2) return summary(pairedBootstrap).sd
+  if (pairedBootstrap && pairedBootstrap.length >= 2) return sampleStandardDeviation(pairedBootstrap)
   return NaN
 }
 
 function summary(values: readonly number[]) {
-  const m = mean(values)
-  const sd = Math.sqrt(values.reduce((s, v) => s + (v - m) ** 2, 0) / (values.length - 1))
-  return { mean: m, sd, n: values.length }
+  return { mean: mean(values), sd: sampleStandardDeviation(values), n: values.length }
 }
 
 /** P(statistic > excess / se) under the given upper-tail function; a zero SE decides by the sign. */

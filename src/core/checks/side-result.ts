@@ -2,6 +2,7 @@ import type { FlooredImportance } from '../importance/compute-noise-floor.ts'
 import type { DropColumnEstimate } from '../importance/drop-column-importance.ts'
 import type { ImportanceEstimate } from '../importance/permutation-importance.ts'
 import type { SliceSeparation } from '../importance/single-feature-separation.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 /** What the checks know about one side after its refits: pure numbers, no models. */
 export interface SideResult {
@@ -34,7 +35,10 @@ export interface SideResult {
 
 /** Features (not groups) of a side, ranked by mean importance, highest first; ties by name. */
 export function rankFeatures(importances: readonly FlooredImportance[]): FlooredImportance[] {
-  return importances.filter((u) => !u.isGroup).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
+  return rankByValue(
+    importances.filter((u) => !u.isGroup),
+    (u) => u.mean,
+  )
 }
 
 /**
@@ -45,10 +49,10 @@ export function rankFeatures(importances: readonly FlooredImportance[]): Floored
 export function sideRanks(importances: readonly FlooredImportance[]): Map<string, number> {
   const ranks = new Map<string, number>()
   for (const isGroup of [false, true]) {
-    importances
-      .filter((u) => u.isGroup === isGroup)
-      .sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
-      .forEach((u, i) => ranks.set(rankKey(u), i + 1))
+    rankByValue(
+      importances.filter((u) => u.isGroup === isGroup),
+      (u) => u.mean,
+    ).forEach((u, i) => ranks.set(rankKey(u), i + 1))
   }
   return ranks
 }

@@ -4,6 +4,7 @@ import type { Finding } from '../report/report.ts'
 import { benjaminiHochberg } from '../statistics/benjamini-hochberg.ts'
 import { welchTTest } from '../statistics/welch-t-test.ts'
 import { formatNumber as fmt, formatPercent as pct } from '../report/format-number.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 /** One slice as the checks read it; a side is absent when the slice was not measured there. */
 export interface SliceSides {
@@ -57,7 +58,7 @@ export function checkSlices(
   const findings: Finding[] = []
   const changes = new Map<string, SliceScoreChange>()
   if (action === 'off') return { findings, changes }
-  const features = (units: readonly FlooredImportance[]) => [...units.filter((u) => !u.isGroup)].sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
+  const features = (units: readonly FlooredImportance[]) => rankByValue(units.filter((u) => !u.isGroup), (u) => u.mean)
   const overallSorted = features(overall)
   const overallTop = overallSorted[0]?.name
   const overallTotal = overallSorted.reduce((s, u) => s + Math.max(0, u.mean), 0)

@@ -1,4 +1,5 @@
 import type { Finding, Severity, Verdict } from '../report/report.ts'
+import { pooledStandardDeviation } from '../statistics/pooled-standard-deviation.ts'
 
 const order: Record<Severity, number> = { block: 0, warn: 1, info: 2 }
 
@@ -53,7 +54,7 @@ function strength(finding: Finding): number {
     case 'share-redistribution':
       return num('causeShare')
     case 'rank-shift': {
-      const sd = Math.sqrt((num('baseRefitSd') ** 2 + num('headRefitSd') ** 2) / 2)
+      const sd = pooledStandardDeviation(num('baseRefitSd'), num('headRefitSd'))
       const difference = Math.abs(num('headMean') - num('baseMean'))
       return sd > 0 ? difference / sd : difference > 0 ? Infinity : 0
     }

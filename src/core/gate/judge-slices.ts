@@ -12,6 +12,7 @@ import type { Finding, SliceRow, SliceSideSummary } from '../report/report.ts'
 import type { SideInputs } from './gate-inputs.ts'
 import type { GateSettings } from './gate-settings.ts'
 import { planSlices } from './plan-slices.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 export function judgeSlices(inputs: {
   readonly settings: GateSettings
@@ -71,7 +72,10 @@ export function judgeSlices(inputs: {
 
 /** Top features on the slice's rows, without the columns its filter names (they hardly vary inside it). */
 function summary(m: SliceMeasurement, filterColumns: readonly string[]): SliceSideSummary {
-  const features = m.importances.filter((u) => !u.isGroup && !filterColumns.includes(u.name)).sort((a, b) => b.mean - a.mean || (a.name < b.name ? -1 : 1))
+  const features = rankByValue(
+    m.importances.filter((u) => !u.isGroup && !filterColumns.includes(u.name)),
+    (u) => u.mean,
+  )
   const total = features.reduce((s, u) => s + Math.max(0, u.mean), 0)
   const top = (u: FlooredImportance) => ({ name: u.name, mean: u.mean, share: total > 0 ? Math.max(0, u.mean) / total : NaN, isAboveFloor: u.isAboveFloor })
   return { rows: m.rows, scores: m.scores, scoreMean: m.scores.reduce((a, b) => a + b, 0) / m.scores.length, top: features.slice(0, 5).map(top) }

@@ -1,4 +1,5 @@
 import { normalQuantile } from '../statistics/normal-quantile.ts'
+import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
 import { studentTQuantile } from '../statistics/student-t-quantile.ts'
 import type { ImportanceEstimate } from './permutation-importance.ts'
 
@@ -66,7 +67,7 @@ export function computeNoiseFloor(
     let lower: number
     let upper: number
     if (refitCount >= 2) {
-      refitSd = Math.sqrt(perRefit.reduce((s, v) => s + (v - mean) ** 2, 0) / (refitCount - 1))
+      refitSd = sampleStandardDeviation(perRefit)
       const half = studentTQuantile(0.5 + level / 2, refitCount - 1) * (refitSd / Math.sqrt(refitCount))
       lower = mean - half
       upper = mean + half

@@ -19,6 +19,7 @@ import type { SideMeasurement } from '../measure-side.ts'
 import type { Metric } from '../metrics/metric.ts'
 import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
 import { reportCaution, type FeatureRow, type Finding, type GateReport, type RowSample, type SideImportance, type SideSummary } from './report.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 
 export interface ReportParts {
   readonly toolVersion: string
@@ -131,8 +132,8 @@ export function featureRows(
       ...(bs && hs && shifts.has(unit.name) ? { shift: shifts.get(unit.name)! } : {}),
     })
   }
-  const byMean = (units: readonly FlooredImportance[]) =>
-    [...units].sort((x, y) => Number(x.isGroup) - Number(y.isGroup) || y.mean - x.mean || (x.name < y.name ? -1 : 1))
+  // Features first, then groups, each by mean importance.
+  const byMean = (units: readonly FlooredImportance[]) => [false, true].flatMap((isGroup) => rankByValue(units.filter((u) => u.isGroup === isGroup), (u) => u.mean))
   byMean(head.importances).forEach(push)
   byMean(base.importances).forEach(push)
   return rows

@@ -17,6 +17,7 @@ import type {
   RowSample,
   SideSummary,
 } from './report.ts'
+import { pooledStandardDeviation } from '../statistics/pooled-standard-deviation.ts'
 
 export interface TextTable {
   readonly header: readonly string[]
@@ -460,7 +461,7 @@ function scoreInterval(side: SideSummary): string {
 function summarizeScore(report: GateReport): ScoreSummary {
   const { base, head } = report.sides!
   const { metric, higherIsBetter } = report.settings
-  const pooled = Math.sqrt((base.scoreSd ** 2 + head.scoreSd ** 2) / 2)
+  const pooled = pooledStandardDeviation(base.scoreSd, head.scoreSd)
   const moved = head.scoreMean - base.scoreMean
   const better = higherIsBetter ? moved > 0 : moved < 0
   const sds =

@@ -25,14 +25,15 @@ const head = sideResult({
 const featureSet = { added: ['scan_delay_h'], removed: [], kindChanged: [] }
 
 describe('groupConsequences(findings, sides, featureSet)', () => {
-  const shifts = checkRankShift(base, head, shiftOptions).findings
-  const grouped = groupConsequences(shifts, { base, head }, featureSet)
+  // Computed inside each test (not at collection), so that a fault in the checks fails a test.
+  const shiftsOf = () => checkRankShift(base, head, shiftOptions).findings
+  const groupedOf = () => groupConsequences(shiftsOf(), { base, head }, featureSet)
 
   it('replaces the shifts a strong new feature explains by one finding that names it, in these words', () => {
     // Shared total: base 10 + 6 + 3 + 1 = 20, head 6 + 3.6 + 1.8 + 1.4 = 12.8 (-36%); factor 0.64, so
     // distance_km is expected at 6.4 and lies 0.4 from it, within 20% (1.28). scan_delay_h's share of
     // the head's positive importance: 10 / 22.8 = 43.86%.
-    const group = grouped.find((f) => f.kind === 'share-redistribution')!
+    const group = groupedOf().find((f) => f.kind === 'share-redistribution')!
     expect(group).toMatchObject({
       severity: 'warn',
       feature: 'scan_delay_h',
@@ -44,7 +45,7 @@ describe('groupConsequences(findings, sides, featureSet)', () => {
   })
 
   it('keeps a feature that gains while the new one takes credit as its own finding', () => {
-    expect(grouped.filter((f) => f.kind === 'rank-shift').map((f) => f.feature)).toEqual(['stop_count'])
+    expect(groupedOf().filter((f) => f.kind === 'rank-shift').map((f) => f.feature)).toEqual(['stop_count'])
   })
 
   it('leads the shifts it does not explain when none is in proportion, so the headline names the cause', () => {
@@ -62,6 +63,7 @@ describe('groupConsequences(findings, sides, featureSet)', () => {
   })
 
   it('changes nothing without a strong added or removed feature', () => {
+    const shifts = shiftsOf()
     expect(groupConsequences(shifts, { base, head }, { added: [], removed: [], kindChanged: [] })).toEqual(shifts)
   })
 })

@@ -65,3 +65,43 @@ describe('checkHoldoutRows with the same ids and other labels', () => {
     expect(checkHoldoutRows(holdout('base', [0, 1], ['A', 'B']), holdout('head', [0, 1], ['A', 'B']), 'block')).toEqual([])
   })
 })
+
+describe('checkHoldoutRows: plural words, the first and last rows, ids on one side only', () => {
+  it('says "ids" and "do" for several head-only ids, and names the first differing row even when it is row 1', () => {
+    const base = holdout('base', [0, 1, 0], ['P1', 'P2', 'P3'])
+    const head = holdout('head', [0, 1, 0], ['P7', 'P8', 'P3'])
+    const [finding] = checkHoldoutRows(base, head, 'block')
+    expect(finding.title).toBe('The two sides are not scored on the same holdout rows: 2 of 3 ids differ by position (2 ids only on the head).')
+    expect(finding.message).toBe(
+      "Holdout row 1 has parcel_id 'P1' on the base side and 'P7' on the head; 2 of 3 rows differ by position and 2 head ids do not occur on the base side. " + fixText,
+    )
+    expect(finding.evidence).toMatchObject({ differingRows: 2, firstDifferingRow: 1 })
+  })
+
+  it('says "id" when the id column has no name', () => {
+    const base: HoldoutIdentity = { source: 'b', rows: 2, target: Float64Array.from([0, 1]), ids: ['P1', 'P2'] }
+    const head: HoldoutIdentity = { source: 'h', rows: 2, target: Float64Array.from([0, 1]), ids: ['P1', 'P9'] }
+    expect(checkHoldoutRows(base, head, 'block')[0].message).toMatch(/^Holdout row 2 has id 'P2' on the base side and 'P9' on the head; /)
+    const relabelled: HoldoutIdentity = { ...head, ids: ['P1', 'P2'], target: Float64Array.from([1, 1]) }
+    expect(checkHoldoutRows(base, relabelled, 'block')[0].message).toMatch(/\(first at holdout row 1, id 'P1'\): the pull request relabelled the holdout\./)
+  })
+
+  it('reads the last row too, and counts a first-row difference once', () => {
+    const [last] = checkHoldoutRows(holdout('base', [0, 1, 0]), holdout('head', [0, 1, 1]), 'block')
+    expect(last.evidence).toMatchObject({ differingRows: 1, firstDifferingRow: 3 })
+    const [both] = checkHoldoutRows(holdout('base', [0, 1, 0]), holdout('head', [1, 1, 1]), 'block')
+    expect(both.evidence).toMatchObject({ differingRows: 2, firstDifferingRow: 1 })
+    const [ids] = checkHoldoutRows(holdout('base', [0, 1, 0], ['P1', 'P2', 'P3']), holdout('head', [0, 1, 0], ['P1', 'P2', 'P4']), 'block')
+    expect(ids.evidence).toMatchObject({ differingRows: 1, firstDifferingRow: 3 })
+  })
+
+  it('falls back to the target when only one side has ids, and takes a missing target against a value as a difference', () => {
+    const base = holdout('base', [0, 1, NaN], ['P1', 'P2', 'P3'])
+    const head = holdout('head', [0, 1, NaN])
+    expect(checkHoldoutRows(base, head, 'block')).toEqual([])
+    const [finding] = checkHoldoutRows(base, holdout('head', [0, 1, 1]), 'block')
+    expect(finding.title).toBe('The two sides are not scored on the same holdout rows: the target differs in 1 of 3 rows.')
+    const [reverse] = checkHoldoutRows(holdout('base', [0, 1, 1]), head, 'block')
+    expect(reverse.evidence).toMatchObject({ differingRows: 1, firstDifferingRow: 3 })
+  })
+})
