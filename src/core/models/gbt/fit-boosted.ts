@@ -596,12 +596,20 @@ class TreeGrower {
   private buildFullHistogram(hist: Float64Array): void {
     const { slot, featureStride, treeFeatures, width, columnCodes, gradient, hessian, allRowCounts } = this
     const countAt = slot - 1
-    for (let t = 0; t < width; t++) {
-      const k = treeFeatures[t]
+    let t = 0
+    for (; t + 3 < width; t += 4) {
+      const [c0, c1, c2, c3] = [columnCodes[treeFeatures[t]], columnCodes[treeFeatures[t + 1]], columnCodes[treeFeatures[t + 2]], columnCodes[treeFeatures[t + 3]]]
+      if (this.isUnitHessian) accumulateFourColumnsUnitHessian(hist, t * featureStride, featureStride, c0, c1, c2, c3, gradient)
+      else accumulateFourColumns(hist, t * featureStride, featureStride, c0, c1, c2, c3, gradient, hessian)
+    }
+    for (; t < width; t++) {
       const base = t * featureStride
-      if (this.isUnitHessian) accumulateColumnUnitHessian(hist, base, columnCodes[k], gradient)
-      else accumulateColumn(hist, base, columnCodes[k], gradient, hessian)
-      const counts = k * SLOTS_PER_FEATURE
+      if (this.isUnitHessian) accumulateColumnUnitHessian(hist, base, columnCodes[treeFeatures[t]], gradient)
+      else accumulateColumn(hist, base, columnCodes[treeFeatures[t]], gradient, hessian)
+    }
+    for (let t = 0; t < width; t++) {
+      const base = t * featureStride
+      const counts = treeFeatures[t] * SLOTS_PER_FEATURE
       const bins = this.treeBins[t]
       for (let b = 0; b < bins; b++) hist[base + b * slot + countAt] = allRowCounts[counts + b]
       hist[base + MISSING_BIN * slot + countAt] = allRowCounts[counts + MISSING_BIN]
@@ -958,25 +966,69 @@ function accumulateUnitHessianSubset(
   }
 }
 
-/** One feature's (g, h) sums over every row, reading its column in order; counts are filled in by the caller. */
-function accumulateColumn(hist: Float64Array, base: number, column: Uint8Array, gradient: Float64Array, hessian: Float64Array): void {
-  const n = column.length
-  let p = 0
-  for (; p + 3 < n; p += 4) {
-    const s0 = base + column[p] * 3
-    hist[s0] += gradient[p]
-    hist[s0 + 1] += hessian[p]
-    const s1 = base + column[p + 1] * 3
-    hist[s1] += gradient[p + 1]
-    hist[s1 + 1] += hessian[p + 1]
-    const s2 = base + column[p + 2] * 3
-    hist[s2] += gradient[p + 2]
-    hist[s2 + 1] += hessian[p + 2]
-    const s3 = base + column[p + 3] * 3
-    hist[s3] += gradient[p + 3]
-    hist[s3 + 1] += hessian[p + 3]
+/**
+ * Four features' (g, h) sums over every row, reading their columns in order: each row's gradient is
+ * loaded once for four histograms (16 KiB together, in the first-level cache) instead of once per
+ * feature, and the four additions are independent. Counts are filled in by the caller.
+ */
+function accumulateFourColumns(
+  hist: Float64Array,
+  base: number,
+  stride: number,
+  c0: Uint8Array,
+  c1: Uint8Array,
+  c2: Uint8Array,
+  c3: Uint8Array,
+  gradient: Float64Array,
+  hessian: Float64Array,
+): void {
+  const b1 = base + stride
+  const b2 = b1 + stride
+  const b3 = b2 + stride
+  for (let p = 0; p < c0.length; p++) {
+    const g = gradient[p]
+    const h = hessian[p]
+    const s0 = base + c0[p] * 3
+    hist[s0] += g
+    hist[s0 + 1] += h
+    const s1 = b1 + c1[p] * 3
+    hist[s1] += g
+    hist[s1 + 1] += h
+    const s2 = b2 + c2[p] * 3
+    hist[s2] += g
+    hist[s2 + 1] += h
+    const s3 = b3 + c3[p] * 3
+    hist[s3] += g
+    hist[s3 + 1] += h
   }
-  for (; p < n; p++) {
+}
+
+/** accumulateFourColumns for unit hessians: gradient sums only. */
+function accumulateFourColumnsUnitHessian(
+  hist: Float64Array,
+  base: number,
+  stride: number,
+  c0: Uint8Array,
+  c1: Uint8Array,
+  c2: Uint8Array,
+  c3: Uint8Array,
+  gradient: Float64Array,
+): void {
+  const b1 = base + stride
+  const b2 = b1 + stride
+  const b3 = b2 + stride
+  for (let p = 0; p < c0.length; p++) {
+    const g = gradient[p]
+    hist[base + c0[p] * 2] += g
+    hist[b1 + c1[p] * 2] += g
+    hist[b2 + c2[p] * 2] += g
+    hist[b3 + c3[p] * 2] += g
+  }
+}
+
+/** One feature's (g, h) sums over every row, reading its column in order (the last features when fewer than four are left). */
+function accumulateColumn(hist: Float64Array, base: number, column: Uint8Array, gradient: Float64Array, hessian: Float64Array): void {
+  for (let p = 0; p < column.length; p++) {
     const s = base + column[p] * 3
     hist[s] += gradient[p]
     hist[s + 1] += hessian[p]
@@ -985,13 +1037,5 @@ function accumulateColumn(hist: Float64Array, base: number, column: Uint8Array, 
 
 /** One feature's gradient sums over every row, reading its column in order. */
 function accumulateColumnUnitHessian(hist: Float64Array, base: number, column: Uint8Array, gradient: Float64Array): void {
-  const n = column.length
-  let p = 0
-  for (; p + 3 < n; p += 4) {
-    hist[base + column[p] * 2] += gradient[p]
-    hist[base + column[p + 1] * 2] += gradient[p + 1]
-    hist[base + column[p + 2] * 2] += gradient[p + 2]
-    hist[base + column[p + 3] * 2] += gradient[p + 3]
-  }
-  for (; p < n; p++) hist[base + column[p] * 2] += gradient[p]
+  for (let p = 0; p < column.length; p++) hist[base + column[p] * 2] += gradient[p]
 }
