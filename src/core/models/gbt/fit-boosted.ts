@@ -690,11 +690,11 @@ class TreeGrower {
 }
 
 /*
- * The histogram loops. Each takes a node's rows four at a time: the four rows' additions to a
+ * The histogram loops. Each takes a node's rows four (or eight) at a time: the four rows' additions to a
  * feature's histogram are independent unless two rows share a bin, so the processor overlaps them
  * (about a third less time per row than one row at a time on this machine, npm run bench). Within a
  * bin the additions still happen in row order, so the sums are bit-identical to the one-row loop.
- * A remainder of fewer than four rows goes one at a time.
+ * The remainder goes one row at a time.
  */
 
 /** The hot loop: adds (g, h, 1) of each of a node's rows to every feature's histogram. */
@@ -760,7 +760,10 @@ function accumulate(
   }
 }
 
-/** accumulate for unit hessians: adds (g, 1) per row; the count doubles as the hessian sum. */
+/**
+ * accumulate for unit hessians: adds (g, 1) per row; the count doubles as the hessian sum. Eight rows
+ * at a time: with one slot fewer per row than accumulate there are registers for them.
+ */
 function accumulateUnitHessian(
   hist: Float64Array,
   codes: Uint8Array,
@@ -772,19 +775,31 @@ function accumulateUnitHessian(
 ): void {
   const stride = 2 * SLOTS_PER_FEATURE
   let i = from
-  for (; i + 3 < to; i += 4) {
+  for (; i + 7 < to; i += 8) {
     const p0 = order[i]
     const p1 = order[i + 1]
     const p2 = order[i + 2]
     const p3 = order[i + 3]
+    const p4 = order[i + 4]
+    const p5 = order[i + 5]
+    const p6 = order[i + 6]
+    const p7 = order[i + 7]
     const g0 = gradient[p0]
     const g1 = gradient[p1]
     const g2 = gradient[p2]
     const g3 = gradient[p3]
+    const g4 = gradient[p4]
+    const g5 = gradient[p5]
+    const g6 = gradient[p6]
+    const g7 = gradient[p7]
     const r0 = p0 * width
     const r1 = p1 * width
     const r2 = p2 * width
     const r3 = p3 * width
+    const r4 = p4 * width
+    const r5 = p5 * width
+    const r6 = p6 * width
+    const r7 = p7 * width
     for (let t = 0, base = 0; t < width; t++, base += stride) {
       const s0 = base + codes[r0 + t] * 2
       hist[s0] += g0
@@ -798,6 +813,18 @@ function accumulateUnitHessian(
       const s3 = base + codes[r3 + t] * 2
       hist[s3] += g3
       hist[s3 + 1] += 1
+      const s4 = base + codes[r4 + t] * 2
+      hist[s4] += g4
+      hist[s4 + 1] += 1
+      const s5 = base + codes[r5 + t] * 2
+      hist[s5] += g5
+      hist[s5 + 1] += 1
+      const s6 = base + codes[r6 + t] * 2
+      hist[s6] += g6
+      hist[s6 + 1] += 1
+      const s7 = base + codes[r7 + t] * 2
+      hist[s7] += g7
+      hist[s7 + 1] += 1
     }
   }
   for (; i < to; i++) {
@@ -925,19 +952,31 @@ function accumulateUnitHessianSubset(
 ): void {
   const stride = 2 * SLOTS_PER_FEATURE
   let i = from
-  for (; i + 3 < to; i += 4) {
+  for (; i + 7 < to; i += 8) {
     const p0 = order[i]
     const p1 = order[i + 1]
     const p2 = order[i + 2]
     const p3 = order[i + 3]
+    const p4 = order[i + 4]
+    const p5 = order[i + 5]
+    const p6 = order[i + 6]
+    const p7 = order[i + 7]
     const g0 = gradient[p0]
     const g1 = gradient[p1]
     const g2 = gradient[p2]
     const g3 = gradient[p3]
+    const g4 = gradient[p4]
+    const g5 = gradient[p5]
+    const g6 = gradient[p6]
+    const g7 = gradient[p7]
     const r0 = p0 * featureCount
     const r1 = p1 * featureCount
     const r2 = p2 * featureCount
     const r3 = p3 * featureCount
+    const r4 = p4 * featureCount
+    const r5 = p5 * featureCount
+    const r6 = p6 * featureCount
+    const r7 = p7 * featureCount
     for (let t = 0, base = 0; t < width; t++, base += stride) {
       const k = treeFeatures[t]
       const s0 = base + codes[r0 + k] * 2
@@ -952,6 +991,18 @@ function accumulateUnitHessianSubset(
       const s3 = base + codes[r3 + k] * 2
       hist[s3] += g3
       hist[s3 + 1] += 1
+      const s4 = base + codes[r4 + k] * 2
+      hist[s4] += g4
+      hist[s4 + 1] += 1
+      const s5 = base + codes[r5 + k] * 2
+      hist[s5] += g5
+      hist[s5 + 1] += 1
+      const s6 = base + codes[r6 + k] * 2
+      hist[s6] += g6
+      hist[s6 + 1] += 1
+      const s7 = base + codes[r7 + k] * 2
+      hist[s7] += g7
+      hist[s7 + 1] += 1
     }
   }
   for (; i < to; i++) {
