@@ -130,7 +130,7 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
     const rowCount = sampleSorted(n, sampleSize, random, grower.order)
     const treeFeatures =
       treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random)
-    grower.grow(rowCount, treeFeatures)
+    grower.grow(rowCount, treeFeatures, score)
     grower.addToScores(score, rowCount)
     grower.addSplitStatistics(gainByFeature, splitsByFeature)
     trees.push(grower.toTree(upperEdges))
@@ -294,8 +294,14 @@ class TreeGrower {
   /** Sampled row positions, grouped by node: node i's rows are order[begin[i]..end[i]). */
   readonly order: Int32Array
   private readonly scratch: Int32Array
+  private readonly scratchRights: Int32Array
   /** Per bin code, 1 when the split being applied sends it left. */
   private readonly goesLeft = new Uint8Array(SLOTS_PER_FEATURE)
+  /** The training scores of the fit, updated by the last level's leaves while a tree grows. */
+  private score: Float64Array = new Float64Array(0)
+  /** The leaf values of the last level's two children: [right, left], indexed by goesLeft. */
+  private readonly childValues = new Float64Array(2)
+  private nodeBeingSplit = 0
   private readonly slot: number
   private readonly featureStride: number
   private readonly featureCount: number
@@ -345,6 +351,7 @@ class TreeGrower {
     this.hessian = new Float64Array(n)
     this.order = new Int32Array(n)
     this.scratch = new Int32Array(n)
+    this.scratchRights = new Int32Array(n)
     this.slot = isUnitHessian ? 2 : 3
     this.featureStride = this.slot * SLOTS_PER_FEATURE
     this.featureCount = columnCodes.length
@@ -369,8 +376,13 @@ class TreeGrower {
     this.histogramOf = new Int32Array(m)
   }
 
-  /** Grows one tree on order[0..rowCount) with the given features (fit-local indices, ascending). */
-  grow(rowCount: number, treeFeatures: Int32Array): void {
+  /**
+   * Grows one tree on order[0..rowCount) with the given features (fit-local indices, ascending). The
+   * leaves of the last level add their values to `score` as their parent is split; addToScores adds
+   * the other leaves' values and those of rows left out of the sample.
+   */
+  grow(rowCount: number, treeFeatures: Int32Array, score: Float64Array): void {
+    this.score = score
     this.useFeatures(treeFeatures)
     const { settings, gradient, hessian, order } = this
     let g = 0
@@ -422,7 +434,32 @@ class TreeGrower {
 
   private makeLeaf(node: number): void {
     this.feature[node] = -1
-    this.value[node] = (-this.sumGradient[node] / (this.sumHessian[node] + this.settings.l2)) * this.settings.learningRate
+    this.value[node] = this.leafValue(this.sumGradient[node], this.sumHessian[node])
+  }
+
+  private leafValue(sumGradient: number, sumHessian: number): number {
+    return (-sumGradient / (sumHessian + this.settings.l2)) * this.settings.learningRate
+  }
+
+  /**
+   * The split of a node whose children are leaves, without the partition: each of its rows adds its
+   * child's value (what makeLeaf will give it) to its score. Returns from + the number of rows that
+   * go left, as partition would.
+   */
+  private scoreLastLevel(from: number, to: number, column: Uint8Array): number {
+    const { order, goesLeft, score, childValues } = this
+    const leftGradient = this.bestLeftGradient
+    const leftHessian = this.bestLeftHessian
+    childValues[1] = this.leafValue(leftGradient, leftHessian)
+    childValues[0] = this.leafValue(this.sumGradient[this.nodeBeingSplit] - leftGradient, this.sumHessian[this.nodeBeingSplit] - leftHessian)
+    let lefts = 0
+    for (let i = from; i < to; i++) {
+      const p = order[i]
+      const left = goesLeft[column[p]]
+      score[p] += childValues[left]
+      lefts += left
+    }
+    return from + lefts
   }
 
   private takeHistogram(): number {
@@ -522,6 +559,7 @@ class TreeGrower {
   /** Applies the best split found for `node`: partitions its rows, creates children and their histograms. */
   private split(node: number, childrenAreLeaves: boolean): void {
     const t = this.bestFeature
+    this.nodeBeingSplit = node
     this.feature[node] = t
     this.splitBin[node] = this.bestBin
     this.missingLeft[node] = this.bestMissingLeft
@@ -532,7 +570,10 @@ class TreeGrower {
     goesLeft.fill(1, 0, this.bestBin + 1)
     goesLeft.fill(0, this.bestBin + 1, MISSING_BIN)
     goesLeft[MISSING_BIN] = this.bestMissingLeft
-    const middle = partition(this.order, this.scratch, from, to, this.columnCodes[this.treeFeatures[t]], goesLeft)
+    const column = this.columnCodes[this.treeFeatures[t]]
+    const middle = childrenAreLeaves
+      ? this.scoreLastLevel(from, to, column)
+      : partition(this.order, this.scratch, this.scratchRights, from, to, column, goesLeft)
     if (middle - from !== this.bestLeftCount) {
       throw new InternalError('fitBoosted: the partition disagrees with the histogram')
     }
@@ -551,7 +592,12 @@ class TreeGrower {
     this.sumHessian[r] = this.sumHessian[node] - this.bestLeftHessian
     this.histogramOf[l] = -1
     this.histogramOf[r] = -1
-    if (childrenAreLeaves) return
+    if (childrenAreLeaves) {
+      // Scored already: addToScores leaves these two out.
+      this.end[l] = from
+      this.begin[r] = to
+      return
+    }
     const leftNeeds = this.canSplit(l)
     const rightNeeds = this.canSplit(r)
     if (!leftNeeds && !rightNeeds) return
@@ -843,29 +889,32 @@ function accumulateUnitHessian(
  * Stable partition of order[from..to) into left-goers then right-goers by one feature's column;
  * returns the boundary. Reads the column (a node's rows in ascending position order, so nearby bytes)
  * rather than the row-major codes (one cache line per row), and goes without a branch per row: every
- * row is written both to its left slot and to the scratch list, and goesLeft[code] (1 or 0) says which
- * cursor moves, because a split of random-looking rows mispredicts about half its branches.
+ * row is written to both scratch lists and goesLeft[code] (1 or 0) says which cursor moves, since a
+ * split of random-looking rows mispredicts a branch for up to half of them. The lists are copied back
+ * after the loop: writing into `order` while reading it made the loop wait on its own stores.
  */
 function partition(
   order: Int32Array,
-  scratch: Int32Array,
+  lefts: Int32Array,
+  rights: Int32Array,
   from: number,
   to: number,
   column: Uint8Array,
   goesLeft: Uint8Array,
 ): number {
-  let write = from
-  let spill = 0
+  let l = 0
+  let r = 0
   for (let i = from; i < to; i++) {
     const p = order[i]
     const left = goesLeft[column[p]]
-    order[write] = p
-    scratch[spill] = p
-    write += left
-    spill += 1 - left
+    lefts[l] = p
+    rights[r] = p
+    l += left
+    r += 1 - left
   }
-  for (let i = 0; i < spill; i++) order[write + i] = scratch[i]
-  return write
+  order.set(lefts.subarray(0, l), from)
+  order.set(rights.subarray(0, r), from + l)
+  return from + l
 }
 
 /**
