@@ -7,6 +7,7 @@ import { defaultBoosting } from '../../../../src/core/policy/policy-defaults.ts'
 // The policy's defaults (docs/policy.md), without the binning setting the fit does not read.
 const { maxBins: _maxBins, ...defaultBoostingSettings } = defaultBoosting
 import type { BoostedModel } from '../../../../src/core/models/gbt/boosted-model.ts'
+import type { Tree } from '../../../../src/core/models/gbt/tree.ts'
 import { createRandom } from '../../../../src/core/statistics/random.ts'
 import { friedman1 } from './friedman1.ts'
 
@@ -33,6 +34,43 @@ function modelBytes(model: BoostedModel): Buffer {
     [t.feature, t.threshold, t.left, t.right, t.missingGoesLeft, t.value].map((a) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)),
   )
   return Buffer.concat([Buffer.from(Float64Array.of(model.ensemble.baseScore).buffer), ...parts])
+}
+
+/** The leaf of `tree` that row i of `matrix` reaches (raw thresholds, as Tree documents). */
+function leafOf(tree: Tree, matrix: FeatureMatrix, i: number): number {
+  let node = 0
+  while (tree.feature[node] >= 0) {
+    const v = matrix.columns[tree.feature[node]][i]
+    const goLeft = Number.isNaN(v) ? tree.missingGoesLeft[node] === 1 : v <= tree.threshold[node]
+    node = goLeft ? tree.left[node] : tree.right[node]
+  }
+  return node
+}
+
+/**
+ * Checks every leaf of trees 2..k against the Newton step of Chen & Guestrin 2016 (eq. 5),
+ * -learningRate * sum(g) / (sum(h) + l2) over the leaf's training rows, with g and h taken at the
+ * raw score of the model made of the trees before it (its own predictRaw, not the fit's internal
+ * training scores): a tree fitted to stale or wrong training scores would miss these values.
+ */
+function expectNewtonLeaves(matrix: FeatureMatrix, y: Float64Array, model: BoostedModel, settings: BoostingSettings, task: 'regression' | 'binary') {
+  const { trees, baseScore } = model.ensemble
+  const raw = new Float64Array(y.length).fill(baseScore)
+  trees.forEach((tree, k) => {
+    const g = new Map<number, number>()
+    const h = new Map<number, number>()
+    for (let i = 0; i < y.length; i++) {
+      const leaf = leafOf(tree, matrix, i)
+      const p = task === 'regression' ? raw[i] : 1 / (1 + Math.exp(-raw[i]))
+      g.set(leaf, (g.get(leaf) ?? 0) + (p - y[i]))
+      h.set(leaf, (h.get(leaf) ?? 0) + (task === 'regression' ? 1 : p * (1 - p)))
+    }
+    for (const [leaf, sum] of g) {
+      const expected = (-settings.learningRate * sum) / (h.get(leaf)! + settings.l2)
+      expect(Math.abs(tree.value[leaf] - expected), `tree ${k + 1}, leaf ${leaf}`).toBeLessThan(1e-9)
+    }
+    for (let i = 0; i < y.length; i++) raw[i] += tree.value[leafOf(tree, matrix, i)]
+  })
 }
 
 function r2(y: ArrayLike<number>, p: ArrayLike<number>): number {
@@ -254,6 +292,15 @@ describe('fitBoosted(binned, target, {task: regression})', () => {
     const gains = model.splitStatistics!.map((s) => s.gain)
     expect(Math.min(...gains.slice(0, 5))).toBeGreaterThan(Math.max(...gains.slice(5)))
   })
+  it('fits every tree to the gradients at the earlier trees\' predictions, leaf by leaf, at every depth', () => {
+    const data = friedman1(700, { seed: 11, noiseSd: 1 })
+    for (let i = 0; i < 700; i += 9) data.matrix.columns[1][i] = NaN
+    for (const maxDepth of [1, 3, 5]) {
+      const settings = { ...defaultBoostingSettings, trees: 6, maxDepth, learningRate: 0.3, l2: 1, rowSubsample: 1, columnSubsample: 1 }
+      const model = fitBoosted(binFeatures(data.matrix), data.y, { task: 'regression', settings, seed: 1 })
+      expectNewtonLeaves(data.matrix, data.y, model, settings, 'regression')
+    }
+  })
 })
 
 describe('fitBoosted(binned, target, {task: binary})', () => {
@@ -304,6 +351,13 @@ describe('fitBoosted(binned, target, {task: binary})', () => {
     expect(() => fit(matrixOf([1, 2]), [0, 2], oneTree(), 'binary')).toThrow(
       new RangeError('fitBoosted: target of row 1 is 2; binary targets must be 0 or 1'),
     )
+  })
+  it('fits every tree to the log-loss gradients and hessians at the earlier trees\' predictions', () => {
+    const data = friedman1(600, { seed: 12, noiseSd: 1 })
+    const y = data.y.map((v) => (v > 14 ? 1 : 0))
+    const settings = { ...defaultBoostingSettings, trees: 5, maxDepth: 4, learningRate: 0.3, l2: 1, rowSubsample: 1, columnSubsample: 1 }
+    const model = fitBoosted(binFeatures(data.matrix), y, { task: 'binary', settings, seed: 1 })
+    expectNewtonLeaves(data.matrix, y, model, settings, 'binary')
   })
 })
 
