@@ -119,7 +119,7 @@ export function fitBoosted(binned: BinnedFeatures, target: Float64Array, options
         const rowCount = sampleSorted(n, sampleSize, random, grower.order)
         const treeFeatures =
           treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random)
-        grower.grow(rowCount, treeFeatures)
+        grower.grow(rowCount, treeFeatures, scores[k])
         grower.addToScores(scores[k], rowCount)
         grower.addSplitStatistics(gainByFeature, splitsByFeature)
         trees.push(grower.toTree(upperEdges))
