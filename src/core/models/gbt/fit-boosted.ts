@@ -75,7 +75,8 @@ export interface FitBoostedOptions {
  * with one class gets a base score of log-odds of a rate clamped to [1e-6, 1 - 1e-6].
  * Cost: O(trees x depth x sampled rows x features) for histograms plus O(trees x nodes x features x bins)
  * for split search. Memory: up to 2^(maxDepth-1) + 1 histograms of features x 256 x 3 doubles (x 2
- * for squared error), plus one byte per row and feature for the codes.
+ * for squared error), plus two bytes per row and feature for the codes (row-major and column-major
+ * copies) and three row lists of 4 bytes per row (the order and two partition scratch lists).
  * Split gains are reported in the eq. 7 form, with the 1/2; XGBoost's own gain statistic leaves it
  * out (from memory of its source), so ours are half of XGBoost's for the same split.
  */
