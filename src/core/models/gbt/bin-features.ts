@@ -1,4 +1,5 @@
 import type { FeatureInfo, FeatureMatrix } from '../../data/dataset.ts'
+import { sortFloat64 } from './sort-float64.ts'
 
 /** The bin code of a missing value (NaN) in every column. Value bins are 0..binCount-1, at most 254. */
 export const MISSING_BIN = 255
@@ -87,7 +88,7 @@ function quantileEdges(column: Float64Array, maxBins: number): Float64Array {
   const sorted = new Float64Array(present)
   let k = 0
   for (let i = 0; i < column.length; i++) if (column[i] === column[i]) sorted[k++] = column[i]
-  sorted.sort()
+  sortFloat64(sorted)
   // Distinct values and their counts, in place at the front of two arrays.
   const values = new Float64Array(present)
   const counts = new Int32Array(present)
