@@ -1050,6 +1050,53 @@ function canonicalOrder(estimates, featureOrder, groups, draws) {
   ];
 }
 
+// src/core/models/gbt/sort-float64.ts
+var RADIX_FROM = 1024;
+var LITTLE_ENDIAN = new Uint8Array(Uint32Array.of(1).buffer)[0] === 1;
+function sortFloat64(values) {
+  const n = values.length;
+  if (n < RADIX_FROM || !LITTLE_ENDIAN) return values.sort();
+  const bits = new Uint32Array(values.buffer, values.byteOffset, n * 2);
+  let hi = new Uint32Array(n);
+  let lo = new Uint32Array(n);
+  for (let i = 0; i < n; i++) {
+    const sign = bits[2 * i + 1] >> 31;
+    hi[i] = bits[2 * i + 1] ^ (sign | 2147483648);
+    lo[i] = bits[2 * i] ^ sign;
+  }
+  let nextHi = new Uint32Array(n);
+  let nextLo = new Uint32Array(n);
+  const counts = new Int32Array(2048);
+  for (let pass = 0; pass < 6; pass++) {
+    const word = pass < 3 ? lo : hi;
+    const shift = pass % 3 * 11;
+    const mask = pass % 3 === 2 ? 1023 : 2047;
+    counts.fill(0);
+    for (let i = 0; i < n; i++) counts[word[i] >>> shift & mask]++;
+    if (counts[word[0] >>> shift & mask] === n) continue;
+    let sum2 = 0;
+    for (let d = 0; d <= mask; d++) {
+      const c = counts[d];
+      counts[d] = sum2;
+      sum2 += c;
+    }
+    for (let i = 0; i < n; i++) {
+      const at = counts[word[i] >>> shift & mask]++;
+      nextHi[at] = hi[i];
+      nextLo[at] = lo[i];
+    }
+    ;
+    [hi, nextHi] = [nextHi, hi];
+    [lo, nextLo] = [nextLo, lo];
+  }
+  for (let i = 0; i < n; i++) {
+    const flip = ~(hi[i] >> 31);
+    bits[2 * i + 1] = hi[i] ^ (flip | 2147483648);
+    bits[2 * i] = lo[i] ^ flip;
+  }
+  return values;
+}
+
 // src/core/models/gbt/bin-features.ts
 var MISSING_BIN = 255;
 function binFeatures(matrix, options = {}) {
@@ -1088,7 +1135,7 @@ function quantileEdges(column, maxBins) {
   const sorted = new Float64Array(present);
   let k = 0;
   for (let i = 0; i < column.length; i++) if (column[i] === column[i]) sorted[k++] = column[i];
-  sorted.sort();
+  sortFloat64(sorted);
   const values = new Float64Array(present);
   const counts = new Int32Array(present);
   let distinct = 0;
@@ -1121,21 +1168,24 @@ function edgeBetween(below, above) {
   return mid < above ? mid : below;
 }
 function assignBins(column, edges, out) {
-  const last = edges.length - 1;
+  const padded = new Float64Array(256).fill(Infinity);
+  padded.set(edges);
+  const last = Math.max(0, edges.length - 1);
   for (let i = 0; i < column.length; i++) {
     const v = column[i];
     if (v !== v) {
       out[i] = MISSING_BIN;
       continue;
     }
-    let lo = 0;
-    let hi = last;
-    while (lo < hi) {
-      const mid = lo + hi >>> 1;
-      if (v <= edges[mid]) hi = mid;
-      else lo = mid + 1;
-    }
-    out[i] = lo;
+    let b = padded[127] < v ? 128 : 0;
+    b += padded[b + 63] < v ? 64 : 0;
+    b += padded[b + 31] < v ? 32 : 0;
+    b += padded[b + 15] < v ? 16 : 0;
+    b += padded[b + 7] < v ? 8 : 0;
+    b += padded[b + 3] < v ? 4 : 0;
+    b += padded[b + 1] < v ? 2 : 0;
+    b += padded[b] < v ? 1 : 0;
+    out[i] = b < last ? b : last;
   }
 }
 
@@ -1523,7 +1573,7 @@ function fitBoosted(binned, target, options) {
         grower.hessian.set(classHessians[k]);
         const rowCount2 = sampleSorted(n, sampleSize, random, grower.order);
         const treeFeatures2 = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
-        grower.grow(rowCount2, treeFeatures2);
+        grower.grow(rowCount2, treeFeatures2, scores[k]);
         grower.addToScores(scores[k], rowCount2);
         grower.addSplitStatistics(gainByFeature, splitsByFeature);
         trees.push(grower.toTree(upperEdges));
@@ -1533,7 +1583,7 @@ function fitBoosted(binned, target, options) {
     computeGradients(task, y, score2, grower.gradient, grower.hessian);
     const rowCount = sampleSorted(n, sampleSize, random, grower.order);
     const treeFeatures = treeFeatureCount === featureCount ? allFeatures : sampleFeatures(featureCount, treeFeatureCount, random);
-    grower.grow(rowCount, treeFeatures);
+    grower.grow(rowCount, treeFeatures, score2);
     grower.addToScores(score2, rowCount);
     grower.addSplitStatistics(gainByFeature, splitsByFeature);
     trees.push(grower.toTree(upperEdges));
@@ -1670,6 +1720,7 @@ var TreeGrower = class {
     this.hessian = new Float64Array(n);
     this.order = new Int32Array(n);
     this.scratch = new Int32Array(n);
+    this.scratchRights = new Int32Array(n);
     this.slot = isUnitHessian ? 2 : 3;
     this.featureStride = this.slot * SLOTS_PER_FEATURE;
     this.featureCount = columnCodes.length;
@@ -1703,6 +1754,14 @@ var TreeGrower = class {
   /** Sampled row positions, grouped by node: node i's rows are order[begin[i]..end[i]). */
   order;
   scratch;
+  scratchRights;
+  /** Per bin code, 1 when the split being applied sends it left. */
+  goesLeft = new Uint8Array(SLOTS_PER_FEATURE);
+  /** The training scores of the fit, updated by the last level's leaves while a tree grows. */
+  score = new Float64Array(0);
+  /** The leaf values of the last level's two children: [right, left], indexed by goesLeft. */
+  childValues = new Float64Array(2);
+  nodeBeingSplit = 0;
   slot;
   featureStride;
   featureCount;
@@ -1737,8 +1796,13 @@ var TreeGrower = class {
   bestLeftGradient = 0;
   bestLeftHessian = 0;
   bestLeftCount = 0;
-  /** Grows one tree on order[0..rowCount) with the given features (fit-local indices, ascending). */
-  grow(rowCount, treeFeatures) {
+  /**
+   * Grows one tree on order[0..rowCount) with the given features (fit-local indices, ascending). The
+   * leaves of the last level add their values to `score` as their parent is split; addToScores adds
+   * the other leaves' values and those of rows left out of the sample.
+   */
+  grow(rowCount, treeFeatures, score2) {
+    this.score = score2;
     this.useFeatures(treeFeatures);
     const { settings, gradient, hessian, order } = this;
     let g2 = 0;
@@ -1784,7 +1848,30 @@ var TreeGrower = class {
   }
   makeLeaf(node) {
     this.feature[node] = -1;
-    this.value[node] = -this.sumGradient[node] / (this.sumHessian[node] + this.settings.l2) * this.settings.learningRate;
+    this.value[node] = this.leafValue(this.sumGradient[node], this.sumHessian[node]);
+  }
+  leafValue(sumGradient, sumHessian) {
+    return -sumGradient / (sumHessian + this.settings.l2) * this.settings.learningRate;
+  }
+  /**
+   * The split of a node whose children are leaves, without the partition: each of its rows adds its
+   * child's value (what makeLeaf will give it) to its score. Returns from + the number of rows that
+   * go left, as partition would.
+   */
+  scoreLastLevel(from, to, column) {
+    const { order, goesLeft, score: score2, childValues } = this;
+    const leftGradient = this.bestLeftGradient;
+    const leftHessian = this.bestLeftHessian;
+    childValues[1] = this.leafValue(leftGradient, leftHessian);
+    childValues[0] = this.leafValue(this.sumGradient[this.nodeBeingSplit] - leftGradient, this.sumHessian[this.nodeBeingSplit] - leftHessian);
+    let lefts = 0;
+    for (let i = from; i < to; i++) {
+      const p = order[i];
+      const left = goesLeft[column[p]];
+      score2[p] += childValues[left];
+      lefts += left;
+    }
+    return from + lefts;
   }
   takeHistogram() {
     const free = this.freeHistograms.pop();
@@ -1878,23 +1965,19 @@ var TreeGrower = class {
   /** Applies the best split found for `node`: partitions its rows, creates children and their histograms. */
   split(node, childrenAreLeaves) {
     const t = this.bestFeature;
+    this.nodeBeingSplit = node;
     this.feature[node] = t;
     this.splitBin[node] = this.bestBin;
     this.missingLeft[node] = this.bestMissingLeft;
     this.gain[node] = this.bestGain;
     const from = this.begin[node];
     const to = this.end[node];
-    const middle = partition(
-      this.order,
-      this.scratch,
-      from,
-      to,
-      this.rowCodes,
-      this.featureCount,
-      this.treeFeatures[t],
-      this.bestBin,
-      this.bestMissingLeft
-    );
+    const goesLeft = this.goesLeft;
+    goesLeft.fill(1, 0, this.bestBin + 1);
+    goesLeft.fill(0, this.bestBin + 1, MISSING_BIN);
+    goesLeft[MISSING_BIN] = this.bestMissingLeft;
+    const column = this.columnCodes[this.treeFeatures[t]];
+    const middle = childrenAreLeaves ? this.scoreLastLevel(from, to, column) : partition(this.order, this.scratch, this.scratchRights, from, to, column, goesLeft);
     if (middle - from !== this.bestLeftCount) {
       throw new InternalError("fitBoosted: the partition disagrees with the histogram");
     }
@@ -1913,7 +1996,11 @@ var TreeGrower = class {
     this.sumHessian[r] = this.sumHessian[node] - this.bestLeftHessian;
     this.histogramOf[l] = -1;
     this.histogramOf[r] = -1;
-    if (childrenAreLeaves) return;
+    if (childrenAreLeaves) {
+      this.end[l] = from;
+      this.begin[r] = to;
+      return;
+    }
     const leftNeeds = this.canSplit(l);
     const rightNeeds = this.canSplit(r);
     if (!leftNeeds && !rightNeeds) return;
@@ -1933,8 +2020,9 @@ var TreeGrower = class {
   }
   /**
    * A node's histogram. The root of a tree grown on every row reads the codes column by column in
-   * row order (sequential, one feature's histogram hot in cache at a time) and copies the fixed row
-   * counts; every other node walks its rows once and adds each to every feature (row-major codes).
+   * row order, four columns a pass (sequential, four features' histograms hot in cache at a time),
+   * and copies the fixed row counts; every other node walks its rows once and adds each to every
+   * feature (row-major codes).
    */
   buildHistogram(hist, node) {
     hist.fill(0, 0, this.width * this.featureStride);
@@ -1955,13 +2043,25 @@ var TreeGrower = class {
   buildFullHistogram(hist) {
     const { slot, featureStride, treeFeatures, width, columnCodes, gradient, hessian, allRowCounts } = this;
     const countAt = slot - 1;
-    for (let t = 0; t < width; t++) {
-      const k = treeFeatures[t];
+    let t = 0;
+    for (; t + 3 < width; t += 4) {
+      const c0 = columnCodes[treeFeatures[t]];
+      const c1 = columnCodes[treeFeatures[t + 1]];
+      const c2 = columnCodes[treeFeatures[t + 2]];
+      const c3 = columnCodes[treeFeatures[t + 3]];
       const base = t * featureStride;
-      if (this.isUnitHessian) accumulateColumnUnitHessian(hist, base, columnCodes[k], gradient);
-      else accumulateColumn(hist, base, columnCodes[k], gradient, hessian);
-      const counts = k * SLOTS_PER_FEATURE;
-      const bins = this.treeBins[t];
+      if (this.isUnitHessian) accumulateFourColumnsUnitHessian(hist, base, featureStride, c0, c1, c2, c3, gradient);
+      else accumulateFourColumns(hist, base, featureStride, c0, c1, c2, c3, gradient, hessian);
+    }
+    for (; t < width; t++) {
+      const base = t * featureStride;
+      if (this.isUnitHessian) accumulateColumnUnitHessian(hist, base, columnCodes[treeFeatures[t]], gradient);
+      else accumulateColumn(hist, base, columnCodes[treeFeatures[t]], gradient, hessian);
+    }
+    for (let t2 = 0; t2 < width; t2++) {
+      const base = t2 * featureStride;
+      const counts = treeFeatures[t2] * SLOTS_PER_FEATURE;
+      const bins = this.treeBins[t2];
       for (let b = 0; b < bins; b++) hist[base + b * slot + countAt] = allRowCounts[counts + b];
       hist[base + MISSING_BIN * slot + countAt] = allRowCounts[counts + MISSING_BIN];
     }
@@ -2036,7 +2136,44 @@ var TreeGrower = class {
 };
 function accumulate(hist, codes, width, order, from, to, gradient, hessian) {
   const stride = 3 * SLOTS_PER_FEATURE;
-  for (let i = from; i < to; i++) {
+  let i = from;
+  for (; i + 3 < to; i += 4) {
+    const p0 = order[i];
+    const p1 = order[i + 1];
+    const p2 = order[i + 2];
+    const p3 = order[i + 3];
+    const g0 = gradient[p0];
+    const g1 = gradient[p1];
+    const g2 = gradient[p2];
+    const g3 = gradient[p3];
+    const h0 = hessian[p0];
+    const h1 = hessian[p1];
+    const h2 = hessian[p2];
+    const h3 = hessian[p3];
+    const r0 = p0 * width;
+    const r1 = p1 * width;
+    const r2 = p2 * width;
+    const r3 = p3 * width;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s0 = base + codes[r0 + t] * 3;
+      hist[s0] += g0;
+      hist[s0 + 1] += h0;
+      hist[s0 + 2] += 1;
+      const s1 = base + codes[r1 + t] * 3;
+      hist[s1] += g1;
+      hist[s1 + 1] += h1;
+      hist[s1 + 2] += 1;
+      const s2 = base + codes[r2 + t] * 3;
+      hist[s2] += g2;
+      hist[s2 + 1] += h2;
+      hist[s2 + 2] += 1;
+      const s3 = base + codes[r3 + t] * 3;
+      hist[s3] += g3;
+      hist[s3 + 1] += h3;
+      hist[s3 + 2] += 1;
+    }
+  }
+  for (; i < to; i++) {
     const p = order[i];
     const g2 = gradient[p];
     const h = hessian[p];
@@ -2051,7 +2188,60 @@ function accumulate(hist, codes, width, order, from, to, gradient, hessian) {
 }
 function accumulateUnitHessian(hist, codes, width, order, from, to, gradient) {
   const stride = 2 * SLOTS_PER_FEATURE;
-  for (let i = from; i < to; i++) {
+  let i = from;
+  for (; i + 7 < to; i += 8) {
+    const p0 = order[i];
+    const p1 = order[i + 1];
+    const p2 = order[i + 2];
+    const p3 = order[i + 3];
+    const p4 = order[i + 4];
+    const p5 = order[i + 5];
+    const p6 = order[i + 6];
+    const p7 = order[i + 7];
+    const g0 = gradient[p0];
+    const g1 = gradient[p1];
+    const g2 = gradient[p2];
+    const g3 = gradient[p3];
+    const g4 = gradient[p4];
+    const g5 = gradient[p5];
+    const g6 = gradient[p6];
+    const g7 = gradient[p7];
+    const r0 = p0 * width;
+    const r1 = p1 * width;
+    const r2 = p2 * width;
+    const r3 = p3 * width;
+    const r4 = p4 * width;
+    const r5 = p5 * width;
+    const r6 = p6 * width;
+    const r7 = p7 * width;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const s0 = base + codes[r0 + t] * 2;
+      hist[s0] += g0;
+      hist[s0 + 1] += 1;
+      const s1 = base + codes[r1 + t] * 2;
+      hist[s1] += g1;
+      hist[s1 + 1] += 1;
+      const s2 = base + codes[r2 + t] * 2;
+      hist[s2] += g2;
+      hist[s2 + 1] += 1;
+      const s3 = base + codes[r3 + t] * 2;
+      hist[s3] += g3;
+      hist[s3 + 1] += 1;
+      const s4 = base + codes[r4 + t] * 2;
+      hist[s4] += g4;
+      hist[s4 + 1] += 1;
+      const s5 = base + codes[r5 + t] * 2;
+      hist[s5] += g5;
+      hist[s5 + 1] += 1;
+      const s6 = base + codes[r6 + t] * 2;
+      hist[s6] += g6;
+      hist[s6 + 1] += 1;
+      const s7 = base + codes[r7 + t] * 2;
+      hist[s7] += g7;
+      hist[s7 + 1] += 1;
+    }
+  }
+  for (; i < to; i++) {
     const p = order[i];
     const g2 = gradient[p];
     const row = p * width;
@@ -2062,22 +2252,62 @@ function accumulateUnitHessian(hist, codes, width, order, from, to, gradient) {
     }
   }
 }
-function partition(order, scratch, from, to, codes, width, k, bin, missingLeft) {
-  let write = from;
-  let spill = 0;
-  const missingGoesLeft = missingLeft === 1;
+function partition(order, lefts, rights, from, to, column, goesLeft) {
+  let l = 0;
+  let r = 0;
   for (let i = from; i < to; i++) {
     const p = order[i];
-    const code = codes[p * width + k];
-    if (code === MISSING_BIN ? missingGoesLeft : code <= bin) order[write++] = p;
-    else scratch[spill++] = p;
+    const left = goesLeft[column[p]];
+    lefts[l] = p;
+    rights[r] = p;
+    l += left;
+    r += 1 - left;
   }
-  for (let i = 0; i < spill; i++) order[write + i] = scratch[i];
-  return write;
+  order.set(lefts.subarray(0, l), from);
+  order.set(rights.subarray(0, r), from + l);
+  return from + l;
 }
 function accumulateSubset(hist, codes, featureCount, treeFeatures, width, order, from, to, gradient, hessian) {
   const stride = 3 * SLOTS_PER_FEATURE;
-  for (let i = from; i < to; i++) {
+  let i = from;
+  for (; i + 3 < to; i += 4) {
+    const p0 = order[i];
+    const p1 = order[i + 1];
+    const p2 = order[i + 2];
+    const p3 = order[i + 3];
+    const g0 = gradient[p0];
+    const g1 = gradient[p1];
+    const g2 = gradient[p2];
+    const g3 = gradient[p3];
+    const h0 = hessian[p0];
+    const h1 = hessian[p1];
+    const h2 = hessian[p2];
+    const h3 = hessian[p3];
+    const r0 = p0 * featureCount;
+    const r1 = p1 * featureCount;
+    const r2 = p2 * featureCount;
+    const r3 = p3 * featureCount;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const k = treeFeatures[t];
+      const s0 = base + codes[r0 + k] * 3;
+      hist[s0] += g0;
+      hist[s0 + 1] += h0;
+      hist[s0 + 2] += 1;
+      const s1 = base + codes[r1 + k] * 3;
+      hist[s1] += g1;
+      hist[s1 + 1] += h1;
+      hist[s1 + 2] += 1;
+      const s2 = base + codes[r2 + k] * 3;
+      hist[s2] += g2;
+      hist[s2 + 1] += h2;
+      hist[s2 + 2] += 1;
+      const s3 = base + codes[r3 + k] * 3;
+      hist[s3] += g3;
+      hist[s3 + 1] += h3;
+      hist[s3 + 2] += 1;
+    }
+  }
+  for (; i < to; i++) {
     const p = order[i];
     const g2 = gradient[p];
     const h = hessian[p];
@@ -2092,7 +2322,61 @@ function accumulateSubset(hist, codes, featureCount, treeFeatures, width, order,
 }
 function accumulateUnitHessianSubset(hist, codes, featureCount, treeFeatures, width, order, from, to, gradient) {
   const stride = 2 * SLOTS_PER_FEATURE;
-  for (let i = from; i < to; i++) {
+  let i = from;
+  for (; i + 7 < to; i += 8) {
+    const p0 = order[i];
+    const p1 = order[i + 1];
+    const p2 = order[i + 2];
+    const p3 = order[i + 3];
+    const p4 = order[i + 4];
+    const p5 = order[i + 5];
+    const p6 = order[i + 6];
+    const p7 = order[i + 7];
+    const g0 = gradient[p0];
+    const g1 = gradient[p1];
+    const g2 = gradient[p2];
+    const g3 = gradient[p3];
+    const g4 = gradient[p4];
+    const g5 = gradient[p5];
+    const g6 = gradient[p6];
+    const g7 = gradient[p7];
+    const r0 = p0 * featureCount;
+    const r1 = p1 * featureCount;
+    const r2 = p2 * featureCount;
+    const r3 = p3 * featureCount;
+    const r4 = p4 * featureCount;
+    const r5 = p5 * featureCount;
+    const r6 = p6 * featureCount;
+    const r7 = p7 * featureCount;
+    for (let t = 0, base = 0; t < width; t++, base += stride) {
+      const k = treeFeatures[t];
+      const s0 = base + codes[r0 + k] * 2;
+      hist[s0] += g0;
+      hist[s0 + 1] += 1;
+      const s1 = base + codes[r1 + k] * 2;
+      hist[s1] += g1;
+      hist[s1 + 1] += 1;
+      const s2 = base + codes[r2 + k] * 2;
+      hist[s2] += g2;
+      hist[s2 + 1] += 1;
+      const s3 = base + codes[r3 + k] * 2;
+      hist[s3] += g3;
+      hist[s3 + 1] += 1;
+      const s4 = base + codes[r4 + k] * 2;
+      hist[s4] += g4;
+      hist[s4 + 1] += 1;
+      const s5 = base + codes[r5 + k] * 2;
+      hist[s5] += g5;
+      hist[s5 + 1] += 1;
+      const s6 = base + codes[r6 + k] * 2;
+      hist[s6] += g6;
+      hist[s6 + 1] += 1;
+      const s7 = base + codes[r7 + k] * 2;
+      hist[s7] += g7;
+      hist[s7 + 1] += 1;
+    }
+  }
+  for (; i < to; i++) {
     const p = order[i];
     const g2 = gradient[p];
     const row = p * featureCount;
@@ -2101,6 +2385,39 @@ function accumulateUnitHessianSubset(hist, codes, featureCount, treeFeatures, wi
       hist[s] += g2;
       hist[s + 1] += 1;
     }
+  }
+}
+function accumulateFourColumns(hist, base, stride, c0, c1, c2, c3, gradient, hessian) {
+  const b1 = base + stride;
+  const b2 = b1 + stride;
+  const b3 = b2 + stride;
+  for (let p = 0; p < c0.length; p++) {
+    const g2 = gradient[p];
+    const h = hessian[p];
+    const s0 = base + c0[p] * 3;
+    hist[s0] += g2;
+    hist[s0 + 1] += h;
+    const s1 = b1 + c1[p] * 3;
+    hist[s1] += g2;
+    hist[s1 + 1] += h;
+    const s2 = b2 + c2[p] * 3;
+    hist[s2] += g2;
+    hist[s2 + 1] += h;
+    const s3 = b3 + c3[p] * 3;
+    hist[s3] += g2;
+    hist[s3 + 1] += h;
+  }
+}
+function accumulateFourColumnsUnitHessian(hist, base, stride, c0, c1, c2, c3, gradient) {
+  const b1 = base + stride;
+  const b2 = b1 + stride;
+  const b3 = b2 + stride;
+  for (let p = 0; p < c0.length; p++) {
+    const g2 = gradient[p];
+    hist[base + c0[p] * 2] += g2;
+    hist[b1 + c1[p] * 2] += g2;
+    hist[b2 + c2[p] * 2] += g2;
+    hist[b3 + c3[p] * 2] += g2;
   }
 }
 function accumulateColumn(hist, base, column, gradient, hessian) {
