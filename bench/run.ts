@@ -47,7 +47,7 @@ try {
   for (const [title, file, args] of benches) {
     process.stdout.write(`\n## ${title}\n\n`)
     const bundle = join(out, file.replace(/\.ts$/, '.mjs'))
-    const run = spawnSync(process.execPath, [bundle, ...args], { stdio: 'inherit' })
+    const run = spawnSync(process.execPath, [bundle, ...args], { stdio: 'inherit', env: { ...process.env, PLUMBLINE_BENCH_ROOT: join(here, '..') } })
     if (run.status !== 0) {
       failed = true
       process.stdout.write(`(${file} failed with exit code ${run.status})\n`)

@@ -30,7 +30,8 @@ const PYTHON = '/usr/bin/python3'
 const FEATURES = 30
 const HOLDOUT_ROWS = 10_000
 const SEED = 20261202
-const projectRoot = resolve(dirname(fileURLToPath(import.meta.url)), '..')
+// npm run bench runs this file as a bundle in a temporary folder, so it says where the project is.
+const projectRoot = process.env.PLUMBLINE_BENCH_ROOT ?? resolve(dirname(fileURLToPath(import.meta.url)), '..')
 
 function parseRows(argument: string | undefined): number {
   if (argument === undefined) return 50_000
