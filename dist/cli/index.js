@@ -17539,7 +17539,7 @@ function tabulateReport(report) {
     timings: {
       header: ["stage", "seconds"],
       align: ["left", "right"],
-      rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)])
+      rows: Object.entries(report.timings).map(([stage, seconds]) => [stageWords[stage] ?? stage, formatNumber(seconds)])
     },
     cacheNote: report.cache ? cacheNote(report.cache) : null
   };
@@ -17614,6 +17614,11 @@ function limitItems(items, maxItems2) {
   if (items.length <= maxItems2) return [...items];
   return [...items.slice(0, maxItems2), `and ${formatCount(items.length - maxItems2)} more`];
 }
+var stageWords = {
+  measureSeconds: "refits, drop-column refits and importance, both sides",
+  baseSingleFeatureSeconds: "one-feature models, base",
+  headSingleFeatureSeconds: "one-feature models, head"
+};
 
 // src/core/report/render-html.ts
 var e = escapeHtml;

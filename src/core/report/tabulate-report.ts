@@ -434,7 +434,7 @@ export function tabulateReport(report: GateReport): ReportTables {
     timings: {
       header: ['stage', 'seconds'],
       align: ['left', 'right'],
-      rows: Object.entries(report.timings).map(([stage, seconds]) => [stage, formatNumber(seconds)]),
+      rows: Object.entries(report.timings).map(([stage, seconds]) => [stageWords[stage] ?? stage, formatNumber(seconds)]),
     },
     cacheNote: report.cache ? cacheNote(report.cache) : null,
   }
@@ -555,4 +555,11 @@ export function limitRows(table: TextTable, maxRows: number): TextTable {
 export function limitItems(items: readonly string[], maxItems: number): string[] {
   if (items.length <= maxItems) return [...items]
   return [...items.slice(0, maxItems), `and ${formatCount(items.length - maxItems)} more`]
+}
+
+/** The stages the gate times (report.timings keys), in words for the tables; an unknown key shows as written. */
+const stageWords: Readonly<Record<string, string>> = {
+  measureSeconds: 'refits, drop-column refits and importance, both sides',
+  baseSingleFeatureSeconds: 'one-feature models, base',
+  headSingleFeatureSeconds: 'one-feature models, head',
 }

@@ -197,6 +197,11 @@ describe('renderMarkdown(report)', () => {
     expect(lines(markdown).filter((line) => line === '<details>')).toHaveLength(7)
     expect(lines(markdown).filter((line) => line === '</details>')).toHaveLength(7)
     expect(lines(markdown)).toContain('| 1 | 2890135721 | 4011392857 |')
+    // The gate's own stage keys are shown in words; other keys as written.
+    const timed = lines(renderMarkdown({ ...courierReport(), timings: { measureSeconds: 9.5, headSingleFeatureSeconds: 0.25, prepare: 1 } }))
+    expect(timed).toContain('| refits, drop-column refits and importance, both sides | 9.5 |')
+    expect(timed).toContain('| one-feature models, head | 0.25 |')
+    expect(timed).toContain('| prepare | 1 |')
     expect(lines(markdown)).toContain('| metric | log-loss (lower is better) |')
     expect(lines(markdown)).toContain('| leakage | dominanceShare | 0.5 |')
     expect(lines(markdown)).toContain('| importance | 63.9 |')
