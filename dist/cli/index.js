@@ -57920,7 +57920,7 @@ function toRepoPath(path) {
 }
 
 // src/adapters/check/run-shards.ts
-import { readdir as readdir2, readFile as readFile3, rename as rename2, rm as rm5, stat as stat4, writeFile as writeFile2 } from "node:fs/promises";
+import { readdir as readdir2, readFile as readFile3, realpath as realpath3, rename as rename2, rm as rm5, stat as stat4, writeFile as writeFile2 } from "node:fs/promises";
 import { join as join7, resolve as resolve8 } from "node:path";
 var maxPartialBytes = 1024 * 1024 * 1024;
 function digestsOf(opened) {
@@ -57970,7 +57970,7 @@ function runShard(request) {
     let units = refits;
     if (request.after) {
       stage = "drop-columns";
-      const partials = await readPartials(request.after, request.cwd, inputs, digest);
+      const partials = await readPartials(await listPartialFiles(request.after, request.cwd), inputs, digest);
       const lookup2 = partialLookup(partials, "refits");
       const combined = combineSides(context, refits, await lookup2.execute(refits, context));
       lookup2.refuseUnused();
@@ -57990,32 +57990,49 @@ function runShard(request) {
     return { path, stage, units: mine.map((u) => u.id), reused: local.cache?.used.reused ?? [] };
   });
 }
-function runMerge(request) {
+async function runMerge(request) {
+  const files = await listPartialFiles(request.dirs, request.cwd);
   return withOpenedCheck(request, async (opened) => {
     const { inputs, digest } = digestsOf(opened);
-    const partials = await readPartials(request.dirs, request.cwd, inputs, digest);
+    const partials = await readPartials(files, inputs, digest);
     const lookup2 = partialLookup(partials);
     const report = await gateOf(opened, request, lookup2.execute);
     lookup2.refuseUnused();
     return report;
   });
 }
-async function readPartials(paths, cwd, inputs, digest) {
+async function listPartialFiles(paths, cwd) {
   const files = [];
+  const givenAs = /* @__PURE__ */ new Map();
+  const add = async (path, given) => {
+    const real = await realpath3(path);
+    const earlier = givenAs.get(real);
+    if (earlier !== void 0) {
+      throw new UserError(
+        `${real} is given twice (through ${earlier} and ${given}); each partial result may be merged once.`,
+        "Pass each shard's folder once."
+      );
+    }
+    givenAs.set(real, given);
+    files.push(path);
+  };
   for (const given of paths) {
     const path = resolve8(cwd, given);
     const info = await stat4(path).catch(() => null);
     if (!info) throw new UserError(`No folder or file ${given} (looked at ${path}).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
     if (info.isFile()) {
-      files.push(path);
+      await add(path, given);
       continue;
     }
     const names = (await readdir2(path)).filter((n) => n.startsWith("plumbline-partial-") && n.endsWith(".json")).sort();
     if (names.length === 0) {
       throw new UserError(`${given} holds no partial result file (plumbline-partial-*.json).`, "Pass the folders plumbline shard --out wrote (the downloaded artifacts).");
     }
-    files.push(...names.map((n) => join7(path, n)));
+    for (const n of names) await add(join7(path, n), given);
   }
+  return files;
+}
+async function readPartials(files, inputs, digest) {
   const read = [];
   for (const path of files) {
     const size = (await stat4(path)).size;

@@ -11,7 +11,7 @@
  *   given twice, a unit missing and a unit not in the plan, each by name, and runs the gate on the
  *   results: the same combination as a check on one machine, so the same report.
  */
-import { readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { readdir, readFile, realpath, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { join, resolve } from 'node:path'
 import { UserError } from '../../core/errors.ts'
 import { planMeasurement } from '../../core/gate/plan-measurement.ts'
@@ -111,7 +111,7 @@ export function runShard(
     let units: readonly WorkUnit[] = refits
     if (request.after) {
       stage = 'drop-columns'
-      const partials = await readPartials(request.after, request.cwd, inputs, digest)
+      const partials = await readPartials(await listPartialFiles(request.after, request.cwd), inputs, digest)
       const lookup = partialLookup(partials, 'refits')
       const combined = combineSides(context, refits, await lookup.execute(refits, context))
       lookup.refuseUnused()
@@ -133,10 +133,13 @@ export function runShard(
 }
 
 /** The gate on the units of every partial file under `dirs`; refuses incomplete, duplicated or foreign work. */
-export function runMerge(request: Omit<CheckRequest, 'cache' | 'cacheStore'> & { readonly dirs: readonly string[] }): Promise<GateReport> {
+export async function runMerge(request: Omit<CheckRequest, 'cache' | 'cacheStore'> & { readonly dirs: readonly string[] }): Promise<GateReport> {
+  // The partial files are listed before both sides are opened, so a folder that is missing, empty or
+  // given twice is refused in a moment, not after the checkouts and the data are read.
+  const files = await listPartialFiles(request.dirs, request.cwd)
   return withOpenedCheck(request, async (opened) => {
     const { inputs, digest } = digestsOf(opened)
-    const partials = await readPartials(request.dirs, request.cwd, inputs, digest)
+    const partials = await readPartials(files, inputs, digest)
     const lookup = partialLookup(partials)
     const report = await gateOf(opened, request, lookup.execute)
     lookup.refuseUnused()
@@ -150,22 +153,39 @@ interface ReadPartial {
 }
 
 /** Every partial file in the folders (or the files) named, each checked against these inputs' digest. */
-async function readPartials(paths: readonly string[], cwd: string, inputs: InputDigests, digest: string): Promise<ReadPartial[]> {
+async function listPartialFiles(paths: readonly string[], cwd: string): Promise<string[]> {
   const files: string[] = []
+  const givenAs = new Map<string, string>()
+  const add = async (path: string, given: string) => {
+    const real = await realpath(path)
+    const earlier = givenAs.get(real)
+    if (earlier !== undefined) {
+      throw new UserError(
+        `${real} is given twice (through ${earlier} and ${given}); each partial result may be merged once.`,
+        'Pass each shard\'s folder once.',
+      )
+    }
+    givenAs.set(real, given)
+    files.push(path)
+  }
   for (const given of paths) {
     const path = resolve(cwd, given)
     const info = await stat(path).catch(() => null)
     if (!info) throw new UserError(`No folder or file ${given} (looked at ${path}).`, 'Pass the folders plumbline shard --out wrote (the downloaded artifacts).')
     if (info.isFile()) {
-      files.push(path)
+      await add(path, given)
       continue
     }
     const names = (await readdir(path)).filter((n) => n.startsWith('plumbline-partial-') && n.endsWith('.json')).sort()
     if (names.length === 0) {
       throw new UserError(`${given} holds no partial result file (plumbline-partial-*.json).`, 'Pass the folders plumbline shard --out wrote (the downloaded artifacts).')
     }
-    files.push(...names.map((n) => join(path, n)))
+    for (const n of names) await add(join(path, n), given)
   }
+  return files
+}
+
+async function readPartials(files: readonly string[], inputs: InputDigests, digest: string): Promise<ReadPartial[]> {
   const read: ReadPartial[] = []
   for (const path of files) {
     const size = (await stat(path)).size

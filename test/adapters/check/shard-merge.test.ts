@@ -112,6 +112,16 @@ describe('plumbline plan, shard and merge (built-in learner)', () => {
     )
   }, 60_000)
 
+  it('refuses the same folder or file given twice before opening either side', async () => {
+    const refits = join(folder, 'refits-1')
+    const file = join(refits, 'plumbline-partial-refits-1-of-1.json')
+    const twice = await userErrorOf(runMerge({ cwd: repo.root, baseRef: 'main', headRef: 'no-such-branch', dirs: [refits, `${refits}/`] }))
+    // The head ref does not exist: the folders were checked first.
+    expect(twice.message).toBe(`${file} is given twice (through ${refits} and ${refits}/); each partial result may be merged once.`)
+    const fileAndFolder = await userErrorOf(runMerge({ cwd: repo.root, baseRef: 'main', headRef: 'pr', dirs: [refits, file] }))
+    expect(fileAndFolder.message).toBe(`${file} is given twice (through ${refits} and ${file}); each partial result may be merged once.`)
+  })
+
   it('refuses a partial file of another commit, policy or version, and a malformed one, through the CLI (exit 2)', async () => {
     const refits = join(folder, 'refits-1')
     const drops = join(folder, 'drops-1')
