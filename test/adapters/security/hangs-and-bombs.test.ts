@@ -38,7 +38,8 @@ describe('the training command', () => {
     const started = performance.now()
     const error = await userError(train('setsid sleep 30 & sleep 30', 1))
     expect(error.message).toMatch(/^The training command for head refit 0 timed out after 1 s\./)
-    expect((performance.now() - started) / 1000).toBeLessThan(10)
+    // A guard against waiting for the grandchild (30 s), not a speed measurement: loose for a loaded machine.
+    expect((performance.now() - started) / 1000).toBeLessThan(20)
   })
 
   it('refuses a $PLUMBLINE_OUTPUT replaced by a link to /dev/zero, or by a FIFO, without reading it', async () => {
@@ -57,12 +58,13 @@ describe('the training command', () => {
 })
 
 describe('parsePolicy on hostile YAML', () => {
-  it('refuses an alias bomb in well under a second instead of expanding it', () => {
+  it('refuses an alias bomb instead of expanding it', () => {
     const levels = ['a: &a [x, x, x, x, x, x, x, x, x, x]']
     for (let i = 1; i <= 9; i++) levels.push(`${String.fromCharCode(97 + i)}: &${String.fromCharCode(97 + i)} [${Array(10).fill(`*${String.fromCharCode(96 + i)}`).join(', ')}]`)
     const started = performance.now()
     expect(policyError(`${levels.join('\n')}\n`)).toBe('plumbline.yml: the policy expands to more than 100000 values (through YAML aliases or nesting); a policy is far smaller.')
-    expect(performance.now() - started).toBeLessThan(5_000)
+    // A guard against expanding the 10^10 values, not a speed measurement: loose for a loaded machine.
+    expect(performance.now() - started).toBeLessThan(20_000)
   })
 
   it('refuses an unknown tag instead of dropping it', () => {
