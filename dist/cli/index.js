@@ -43409,6 +43409,11 @@ function planSlices(slices, holdout, side3, options) {
   });
 }
 
+// src/core/statistics/rank-by-value.ts
+function rankByValue(items, value3) {
+  return [...items].sort((a, b) => value3(b) - value3(a) || (a.name < b.name ? -1 : 1));
+}
+
 // src/core/measure-drop-columns.ts
 function dropColumnNames(train3, request, ranked) {
   const present = new Set(train3.features.map((f) => f.name));
@@ -43421,7 +43426,10 @@ function dropGroupNames(train3, request, groups, importances) {
   const also = new Set(request.also);
   const touched = usable.filter((g2) => g2.members.some((m) => also.has(m)));
   const estimate = new Map(importances.filter((u) => u.isGroup).map((u) => [u.name, u]));
-  const ranked = usable.filter((g2) => !touched.includes(g2) && estimate.get(g2.name)?.isAboveFloor === true).sort((a, b) => estimate.get(b.name).mean - estimate.get(a.name).mean || (a.name < b.name ? -1 : 1));
+  const ranked = rankByValue(
+    usable.filter((g2) => !touched.includes(g2) && estimate.get(g2.name)?.isAboveFloor === true),
+    (g2) => estimate.get(g2.name).mean
+  );
   return [...touched, ...ranked.slice(0, request.groupTop)];
 }
 function leaveOutSets(train3, request, groups, importances, ranked) {
@@ -43954,11 +43962,6 @@ function predictionRows(predictions, rows, width) {
     for (let c = 0; c < width; c++) out[r * width + c] = predictions[from + c];
   }
   return out;
-}
-
-// src/core/statistics/rank-by-value.ts
-function rankByValue(items, value3) {
-  return [...items].sort((a, b) => value3(b) - value3(a) || (a.name < b.name ? -1 : 1));
 }
 
 // src/core/measure-side.ts
@@ -45914,6 +45917,21 @@ function createStopwatch(now) {
   };
 }
 
+// src/core/data/profile-column.ts
+function profileColumn(values) {
+  const seen = /* @__PURE__ */ new Set();
+  let present = 0;
+  let wholeNumbers = true;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (Number.isNaN(v)) continue;
+    present++;
+    seen.add(v);
+    if (wholeNumbers && !Number.isInteger(v)) wholeNumbers = false;
+  }
+  return { present, distinct: seen.size, wholeNumbers };
+}
+
 // src/core/checks/gain-noise.ts
 function checkGainNoise(features, touched, options) {
   const action = options.action;
@@ -45937,20 +45955,10 @@ function checkGainNoise(features, touched, options) {
   });
   return findings;
 }
-function looksLikeIdentifier(kind, values) {
-  const seen = /* @__PURE__ */ new Set();
-  let present = 0;
-  let wholeNumbers = true;
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (Number.isNaN(v)) continue;
-    present++;
-    seen.add(v);
-    if (wholeNumbers && !Number.isInteger(v)) wholeNumbers = false;
-  }
-  if (present === 0) return false;
-  const share = seen.size / present;
-  return kind === "categorical" ? share >= 0.5 : wholeNumbers && share >= 0.9;
+function profileLooksLikeIdentifier(kind, profile) {
+  if (profile.present === 0) return false;
+  const share = profile.distinct / profile.present;
+  return kind === "categorical" ? share >= 0.5 : profile.wholeNumbers && share >= 0.9;
 }
 
 // src/core/checks/group-carried.ts
@@ -46240,8 +46248,7 @@ function judgeViews(inputs) {
       name,
       gain: g2.gain,
       splits: g2.splits,
-      distinct: distinctValues(inputs.sides.head.train, name),
-      idLike: identifierLike(inputs.sides.head.train, name),
+      ...trainingColumn(inputs.sides.head.train, name),
       importance: importance2.get(name)?.mean ?? 0,
       isAboveFloor: importance2.get(name)?.isAboveFloor ?? false
     }));
@@ -46335,23 +46342,18 @@ function meanGain(perRefit) {
 }
 function rankGain(gains) {
   const total = [...gains.values()].reduce((s, g2) => s + Math.max(0, g2.gain), 0);
-  const sorted = [...gains.entries()].sort((a, b) => b[1].gain - a[1].gain || (a[0] < b[0] ? -1 : 1));
-  return new Map(sorted.map(([name, g2], i) => [name, { gain: g2.gain, splits: g2.splits, share: total > 0 ? Math.max(0, g2.gain) / total : NaN, rank: i + 1 }]));
+  const sorted = rankByValue([...gains.entries()].map(([name, g2]) => ({ name, ...g2 })), (g2) => g2.gain);
+  return new Map(sorted.map((g2, i) => [g2.name, { gain: g2.gain, splits: g2.splits, share: total > 0 ? Math.max(0, g2.gain) / total : NaN, rank: i + 1 }]));
 }
 function gainRows(base, head) {
   const names = [.../* @__PURE__ */ new Set([...head.keys(), ...base.keys()])];
   return names.map((name) => ({ name, ...base.has(name) ? { base: base.get(name) } : {}, ...head.has(name) ? { head: head.get(name) } : {} }));
 }
-function identifierLike(data, name) {
+function trainingColumn(data, name) {
   const j = data.features.findIndex((f) => f.name === name);
-  return j >= 0 && looksLikeIdentifier(data.features[j].kind, data.columns[j]);
-}
-function distinctValues(data, name) {
-  const j = data.features.findIndex((f) => f.name === name);
-  if (j < 0) return 0;
-  const seen = /* @__PURE__ */ new Set();
-  for (const v of data.columns[j]) if (!Number.isNaN(v)) seen.add(v);
-  return seen.size;
+  if (j < 0) return { distinct: 0, idLike: false };
+  const profile = profileColumn(data.columns[j]);
+  return { distinct: profile.distinct, idLike: profileLooksLikeIdentifier(data.features[j].kind, profile) };
 }
 function average3(values) {
   let s = 0;
@@ -58581,16 +58583,9 @@ function renderStarterPolicy(input2) {
 // src/adapters/cli/summarize-columns.ts
 function summarizeColumns(data) {
   return data.features.map((feature, j) => {
-    const column = data.columns[j];
-    const distinct = /* @__PURE__ */ new Set();
-    let isInteger = true;
-    for (const v of column) {
-      if (Number.isNaN(v)) continue;
-      distinct.add(v);
-      if (!Number.isInteger(v)) isInteger = false;
-    }
-    const looksLikeId = data.rows > 20 && distinct.size === data.rows && (feature.kind === "categorical" || isInteger);
-    return { name: feature.name, kind: feature.kind, distinct: distinct.size, missing: data.missing[j], looksLikeId };
+    const { distinct, wholeNumbers } = profileColumn(data.columns[j]);
+    const looksLikeId = data.rows > 20 && distinct === data.rows && (feature.kind === "categorical" || wholeNumbers);
+    return { name: feature.name, kind: feature.kind, distinct, missing: data.missing[j], looksLikeId };
   });
 }
 
@@ -58770,7 +58765,6 @@ async function writeOutputs(command, full, cwd) {
           await writeFile5(path, texts[flag]);
           continue;
         }
-        await makeFolder(dirname6(path));
         const temporary = join9(dirname6(path), `.${basename4(path)}.plumbline-${process.pid}.tmp`);
         staged.push({ temporary, path });
         await writeFile5(temporary, texts[flag]);

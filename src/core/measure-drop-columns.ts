@@ -4,6 +4,7 @@ import type { FlooredImportance } from './importance/compute-noise-floor.ts'
 import type { FeatureGroup } from './importance/permutation-importance.ts'
 import type { Metric } from './metrics/metric.ts'
 import type { Fit } from './models/model.ts'
+import { rankByValue } from './statistics/rank-by-value.ts'
 
 /**
  * Which features a side refits without: every one in `also` it has, plus its top `top` by
@@ -59,9 +60,10 @@ export function dropGroupNames(
   const also = new Set(request.also)
   const touched = usable.filter((g) => g.members.some((m) => also.has(m)))
   const estimate = new Map(importances.filter((u) => u.isGroup).map((u) => [u.name, u]))
-  const ranked = usable
-    .filter((g) => !touched.includes(g) && estimate.get(g.name)?.isAboveFloor === true)
-    .sort((a, b) => estimate.get(b.name)!.mean - estimate.get(a.name)!.mean || (a.name < b.name ? -1 : 1))
+  const ranked = rankByValue(
+    usable.filter((g) => !touched.includes(g) && estimate.get(g.name)?.isAboveFloor === true),
+    (g) => estimate.get(g.name)!.mean,
+  )
   return [...touched, ...ranked.slice(0, request.groupTop)]
 }
 

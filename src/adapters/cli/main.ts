@@ -131,7 +131,7 @@ async function writeOutputs(command: { json?: string; markdown?: string; html?: 
           await writeFile(path, texts[flag])
           continue
         }
-        await makeFolder(dirname(path))
+        // planOutputs above made the folder.
         const temporary = join(dirname(path), `.${basename(path)}.plumbline-${process.pid}.tmp`)
         staged.push({ temporary, path })
         await writeFile(temporary, texts[flag])

@@ -1,17 +1,11 @@
 import type { Dataset } from '../../core/data/dataset.ts'
+import { profileColumn } from '../../core/data/profile-column.ts'
 
 /** Per column: kind, distinct values, missing cells, and whether it looks like a row id (all distinct). */
 export function summarizeColumns(data: Dataset) {
   return data.features.map((feature, j) => {
-    const column = data.columns[j]
-    const distinct = new Set<number>()
-    let isInteger = true
-    for (const v of column) {
-      if (Number.isNaN(v)) continue
-      distinct.add(v)
-      if (!Number.isInteger(v)) isInteger = false
-    }
-    const looksLikeId = data.rows > 20 && distinct.size === data.rows && (feature.kind === 'categorical' || isInteger)
-    return { name: feature.name, kind: feature.kind, distinct: distinct.size, missing: data.missing[j], looksLikeId }
+    const { distinct, wholeNumbers } = profileColumn(data.columns[j])
+    const looksLikeId = data.rows > 20 && distinct === data.rows && (feature.kind === 'categorical' || wholeNumbers)
+    return { name: feature.name, kind: feature.kind, distinct, missing: data.missing[j], looksLikeId }
   })
 }

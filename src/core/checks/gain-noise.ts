@@ -1,4 +1,5 @@
 import type { GainCheckConfig } from '../config.ts'
+import { profileColumn, type ColumnProfile } from '../data/profile-column.ts'
 import type { Finding } from '../report/report.ts'
 import { formatNumber as fmt, formatPercent as pct } from '../report/format-number.ts'
 import { rankByValue } from '../statistics/rank-by-value.ts'
@@ -72,17 +73,12 @@ export function checkGainNoise(features: readonly GainFeature[], touched: Readon
  * a published rule; a float measurement with many values is not flagged.
  */
 export function looksLikeIdentifier(kind: 'numeric' | 'categorical', values: ArrayLike<number>): boolean {
-  const seen = new Set<number>()
-  let present = 0
-  let wholeNumbers = true
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i]
-    if (Number.isNaN(v)) continue
-    present++
-    seen.add(v)
-    if (wholeNumbers && !Number.isInteger(v)) wholeNumbers = false
-  }
-  if (present === 0) return false
-  const share = seen.size / present
-  return kind === 'categorical' ? share >= 0.5 : wholeNumbers && share >= 0.9
+  return profileLooksLikeIdentifier(kind, profileColumn(values))
+}
+
+/** `looksLikeIdentifier` on a column already profiled. */
+export function profileLooksLikeIdentifier(kind: 'numeric' | 'categorical', profile: ColumnProfile): boolean {
+  if (profile.present === 0) return false
+  const share = profile.distinct / profile.present
+  return kind === 'categorical' ? share >= 0.5 : profile.wholeNumbers && share >= 0.9
 }

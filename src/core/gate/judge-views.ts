@@ -3,7 +3,8 @@
  * unlabeled rows), the built-in trees' gain and the policy's slices (judge-slices.ts), each
  * summarized over refits for the report and judged by its check. Pure: reads the measured sides only.
  */
-import { checkGainNoise, looksLikeIdentifier, type GainFeature } from '../checks/gain-noise.ts'
+import { checkGainNoise, profileLooksLikeIdentifier, type GainFeature } from '../checks/gain-noise.ts'
+import { profileColumn } from '../data/profile-column.ts'
 import { checkGroupCarried } from '../checks/group-carried.ts'
 import { checkSensitivity, type SensitivitySample, type SensitivitySideSamples } from '../checks/sensitivity-change.ts'
 import type { SideResult } from '../checks/side-result.ts'
@@ -11,6 +12,7 @@ import type { FeatureMatrix } from '../data/dataset.ts'
 import type { SensitivityEstimate } from '../importance/prediction-sensitivity.ts'
 import type { SideMeasurement } from '../measure-side.ts'
 import { gainCaution, type Finding, type GainReport, type GateReport, type SliceRow, type GainValue, type SensitivityReport, type SensitivitySide, type SensitivityValue } from '../report/report.ts'
+import { rankByValue } from '../statistics/rank-by-value.ts'
 import { sampleStandardDeviation } from '../statistics/sample-standard-deviation.ts'
 import type { SideInputs } from './gate-inputs.ts'
 import type { GateSettings } from './gate-settings.ts'
@@ -55,8 +57,7 @@ export function judgeViews(inputs: {
       name,
       gain: g.gain,
       splits: g.splits,
-      distinct: distinctValues(inputs.sides.head.train, name),
-      idLike: identifierLike(inputs.sides.head.train, name),
+      ...trainingColumn(inputs.sides.head.train, name),
       importance: importance.get(name)?.mean ?? 0,
       isAboveFloor: importance.get(name)?.isAboveFloor ?? false,
     }))
@@ -166,8 +167,8 @@ function meanGain(perRefit: SideMeasurement['splitStatistics']): Map<string, { g
 
 function rankGain(gains: ReadonlyMap<string, { gain: number; splits: number }>): Map<string, GainValue> {
   const total = [...gains.values()].reduce((s, g) => s + Math.max(0, g.gain), 0)
-  const sorted = [...gains.entries()].sort((a, b) => b[1].gain - a[1].gain || (a[0] < b[0] ? -1 : 1))
-  return new Map(sorted.map(([name, g], i) => [name, { gain: g.gain, splits: g.splits, share: total > 0 ? Math.max(0, g.gain) / total : NaN, rank: i + 1 }]))
+  const sorted = rankByValue([...gains.entries()].map(([name, g]) => ({ name, ...g })), (g) => g.gain)
+  return new Map(sorted.map((g, i) => [g.name, { gain: g.gain, splits: g.splits, share: total > 0 ? Math.max(0, g.gain) / total : NaN, rank: i + 1 }]))
 }
 
 function gainRows(base: ReadonlyMap<string, GainValue>, head: ReadonlyMap<string, GainValue>): GainReport['features'] {
@@ -175,17 +176,12 @@ function gainRows(base: ReadonlyMap<string, GainValue>, head: ReadonlyMap<string
   return names.map((name) => ({ name, ...(base.has(name) ? { base: base.get(name)! } : {}), ...(head.has(name) ? { head: head.get(name)! } : {}) }))
 }
 
-function identifierLike(data: FeatureMatrix, name: string): boolean {
+/** The gain check's view of a training column: its distinct values and whether it looks like an id (one pass). */
+function trainingColumn(data: FeatureMatrix, name: string): { distinct: number; idLike: boolean } {
   const j = data.features.findIndex((f) => f.name === name)
-  return j >= 0 && looksLikeIdentifier(data.features[j].kind, data.columns[j])
-}
-
-function distinctValues(data: FeatureMatrix, name: string): number {
-  const j = data.features.findIndex((f) => f.name === name)
-  if (j < 0) return 0
-  const seen = new Set<number>()
-  for (const v of data.columns[j]) if (!Number.isNaN(v)) seen.add(v)
-  return seen.size
+  if (j < 0) return { distinct: 0, idLike: false }
+  const profile = profileColumn(data.columns[j])
+  return { distinct: profile.distinct, idLike: profileLooksLikeIdentifier(data.features[j].kind, profile) }
 }
 
 function average(values: readonly number[]): number {
