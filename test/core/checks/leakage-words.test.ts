@@ -1,28 +1,11 @@
 import { describe, expect, it } from 'vitest'
-import { checkLeakage, type LeakageOptions } from '../../../src/core/checks/leakage.ts'
 import type { SideResult } from '../../../src/core/checks/side-result.ts'
 import { dropColumnImportance } from '../../../src/core/importance/drop-column-importance.ts'
+import { baseFeatures, check, options } from './leakage-context.ts'
 import { sideResult, steady } from './side-results.ts'
 
 // The leak rule's words and edges, finding by finding (the rules themselves: docs/leak-rule.md and
 // leakage.test.ts). The policy defaults, as in leakage.test.ts.
-const options: LeakageOptions = {
-  action: 'block',
-  task: 'binary',
-  metricName: 'log-loss',
-  dominanceShare: 0.5,
-  runnerUpRatio: 3,
-  singleFeaturePower: 0.99,
-  relativePower: 0.8,
-  liftWarn: 0.15,
-  liftBlock: 0.25,
-  sliceWarnPower: 0.9,
-  reviewedColumns: [],
-}
-function check(base: SideResult, head: SideResult, change: { added?: string[]; changed?: string[] } = {}, overrides: Partial<LeakageOptions> = {}) {
-  return checkLeakage({ base, head, added: new Set(change.added ?? []), changed: new Set(change.changed ?? []) }, { ...options, ...overrides })
-}
-const baseFeatures = { distance_km: steady(0.05), stop_count: steady(0.03), depot: steady(0.01) }
 const unevaluatedTail =
   'A feature that encodes the label cannot be told from a harmless one on this holdout, so this check neither passes nor clears the pull request. ' +
   'Give the holdout rows of both classes (or varied target values), then rerun; or set checks.leakage.action to warn if you accept not checking for leaks.'

@@ -1,29 +1,9 @@
 import { describe, expect, it } from 'vitest'
-import { checkLeakage, type LeakageOptions } from '../../../src/core/checks/leakage.ts'
 import type { SideResult } from '../../../src/core/checks/side-result.ts'
+import { baseFeatures, check, options } from './leakage-context.ts'
 import { sideResult, steady } from './side-results.ts'
 import { dropColumnImportance } from '../../../src/core/importance/drop-column-importance.ts'
 
-// The policy defaults (src/core/config.ts defaultChecks.leakage).
-const options: LeakageOptions = {
-  action: 'block',
-  task: 'binary',
-  metricName: 'log-loss',
-  dominanceShare: 0.5,
-  runnerUpRatio: 3,
-  singleFeaturePower: 0.99,
-  relativePower: 0.8,
-  liftWarn: 0.15,
-  liftBlock: 0.25,
-  sliceWarnPower: 0.9,
-  reviewedColumns: [],
-}
-
-function check(base: SideResult, head: SideResult, change: { added?: string[]; changed?: string[] } = {}, overrides: Partial<LeakageOptions> = {}) {
-  return checkLeakage({ base, head, added: new Set(change.added ?? []), changed: new Set(change.changed ?? []) }, { ...options, ...overrides })
-}
-
-const baseFeatures = { distance_km: steady(0.05), stop_count: steady(0.03), depot: steady(0.01) }
 
 describe('checkLeakage(context, options): a feature that alone separates the holdout', () => {
   const base = sideResult({ side: 'base', features: baseFeatures, separation: steady(0.8, 0.005), single: { distance_km: 0.71 } })

@@ -1,24 +1,10 @@
 import { describe, expect, it } from 'vitest'
 import { checkSlices, type SliceSides } from '../../../src/core/checks/slice-findings.ts'
 import type { FlooredImportance } from '../../../src/core/importance/compute-noise-floor.ts'
-import { defaultChecks } from '../../../src/core/policy/policy-defaults.ts'
+import { options, overall, unit } from './slice-context.ts'
 
 // The slice findings in their words and at their edges. Welch values from scipy.stats.ttest_ind
 // (equal_var=False, one-sided alternative), SciPy 1.10.1.
-const unit = (name: string, mean: number, isAboveFloor = true, isGroup = false): FlooredImportance => ({
-  name,
-  members: isGroup ? ['distance_km', 'stops'] : [name],
-  isGroup,
-  mean,
-  refitSd: 0.01,
-  drawSd: 0.01,
-  lower: isAboveFloor ? mean / 2 : -0.01,
-  upper: mean * 1.5 + 0.01,
-  isAboveFloor,
-  perRefit: [mean],
-})
-const options = { ...defaultChecks.slices, metric: 'auc', higherIsBetter: true, alpha: 0.06, dominanceShare: 0.5, runnerUpRatio: 3 }
-const overall = [unit('distance_km', 0.2), unit('stops', 0.1), unit('rain_mm', 0.05)]
 const measured = (name: string, base: number[] | null, head: number[] | null, headImportances: FlooredImportance[] = overall): SliceSides => ({
   name,
   definition: 'depot = ringway',

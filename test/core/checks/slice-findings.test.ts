@@ -1,22 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { checkSlices, type SliceSides } from '../../../src/core/checks/slice-findings.ts'
 import type { FlooredImportance } from '../../../src/core/importance/compute-noise-floor.ts'
-import { defaultChecks } from '../../../src/core/policy/policy-defaults.ts'
+import { options, overall, unit } from './slice-context.ts'
 
-const unit = (name: string, mean: number, isAboveFloor = true): FlooredImportance => ({
-  name,
-  members: [name],
-  isGroup: false,
-  mean,
-  refitSd: 0.01,
-  drawSd: 0.01,
-  lower: isAboveFloor ? mean / 2 : -0.01,
-  upper: mean * 1.5 + 0.01,
-  isAboveFloor,
-  perRefit: [mean],
-})
-const options = { ...defaultChecks.slices, metric: 'auc', higherIsBetter: true, alpha: 0.06, dominanceShare: 0.5, runnerUpRatio: 3 }
-const overall = [unit('distance_km', 0.2), unit('stops', 0.1), unit('rain_mm', 0.05)]
 const slice = (name: string, base: number[], head: number[], importances = overall): SliceSides => ({
   name,
   definition: 'depot = ringway',
