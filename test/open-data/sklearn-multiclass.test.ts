@@ -13,11 +13,10 @@
  * - a column of pure noise is added: passes with no leakage finding.
  * Without python3-sklearn the suite is skipped (its name says which package is missing).
  */
-import { readFileSync } from 'node:fs'
 import { afterAll, describe, expect, it } from 'vitest'
-import { main } from '../../src/adapters/cli/main.ts'
 import type { GateReport } from '../../src/core/report/report.ts'
 import { createRandom } from '../../src/core/statistics/random.ts'
+import { checkInProcess } from '../helpers/check-in-process.ts'
 import { makeRepository, type TestRepository } from '../helpers/make-repository.ts'
 import { hasWine as hasSklearn, readWine as wine, wineCsvText as csv } from '../helpers/wine-table.ts'
 
@@ -44,16 +43,7 @@ async function check(change: 'copy-5' | 'noise' | 'one-class'): Promise<GateRepo
     head: { 'data/train.csv': csv(table, train, extra), 'data/holdout.csv': csv(table, holdout, extra) },
   })
   repositories.push(repository)
-  const reportPath = `${repository.root}/report.json`
-  let stderr = ''
-  const code = await main(['check', '--base', 'main', '--head', 'pr', '--json', reportPath, '--quiet'], {
-    cwd: repository.root,
-    stdout: () => undefined,
-    stderr: (t) => (stderr += t),
-    isTty: false,
-  })
-  expect(code, stderr).toBeLessThan(2)
-  return JSON.parse(readFileSync(reportPath, 'utf8')) as GateReport
+  return checkInProcess(repository.root)
 }
 
 describe.skipIf(!hasSklearn)("task: multiclass on scikit-learn's wine table (needs Debian's python3-sklearn)", () => {

@@ -14,9 +14,9 @@
 import { existsSync, readFileSync } from 'node:fs'
 import { gunzipSync } from 'node:zlib'
 import { afterAll, describe, expect, it } from 'vitest'
-import { main } from '../../src/adapters/cli/main.ts'
 import type { GateReport } from '../../src/core/report/report.ts'
 import { createRandom } from '../../src/core/statistics/random.ts'
+import { checkInProcess } from '../helpers/check-in-process.ts'
 import { makeRepository, type TestRepository } from '../helpers/make-repository.ts'
 
 const dataDir = '/usr/lib/python3/dist-packages/sklearn/datasets/data'
@@ -100,16 +100,7 @@ async function check(table: Table, change: Change): Promise<GateReport> {
     head,
   })
   repositories.push(repository)
-  const reportPath = `${repository.root}/report.json`
-  let stderr = ''
-  const code = await main(['check', '--base', 'main', '--head', 'pr', '--json', reportPath, '--quiet'], {
-    cwd: repository.root,
-    stdout: () => undefined,
-    stderr: (t) => (stderr += t),
-    isTty: false,
-  })
-  expect(code, stderr).toBeLessThan(2)
-  return JSON.parse(readFileSync(reportPath, 'utf8')) as GateReport
+  return checkInProcess(repository.root)
 }
 
 const tables = hasSklearn ? [['breast cancer', breastCancer()] as const, ['diabetes', diabetes()] as const] : []
